@@ -13,6 +13,8 @@ from .constants import G, GAMMA_WATER, K_MANNING_SI, NU_WATER, RHO_WATER
 from .errors import ConvergenceError, HydraulicsError, InputError, NoSolutionError
 from .sections import (CIRCLE_CAPACITY_RATIO, SHAPES, Circle, Geometry, Irregular, Parabola, Rectangle, Section,
                        Trapezoid, Triangle, section_from_dict)
+from .analysis import NEAR_CRITICAL_BAND, ChannelResult, analyse, flow_regime
+from .design import bottom_width_for_depth, slope_range_for_velocity
 from .solvers import (FLOW_TOLERANCE, DepthSolution, critical_depth, flow_at_depth, max_flow, normal_depth,
                       solve_critical_depth, solve_normal_depth)
 
@@ -23,4 +25,6 @@ __all__ = [
     "Trapezoid", "Triangle", "section_from_dict",
     "FLOW_TOLERANCE", "DepthSolution", "critical_depth", "flow_at_depth", "max_flow", "normal_depth",
     "solve_critical_depth", "solve_normal_depth",
+    "NEAR_CRITICAL_BAND", "ChannelResult", "analyse", "flow_regime",
+    "bottom_width_for_depth", "slope_range_for_velocity",
 ]

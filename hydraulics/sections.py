@@ -96,8 +96,8 @@ class Section:
     def _geometry(self, y) -> Geometry:  # pragma: no cover - abstract
         raise NotImplementedError
 
-    def _depth_guess(self, conveyance):
-        """A starting depth for A R^(2/3) = conveyance (= Q n / sqrt(S)) [m]."""
+    def _depth_guess(self, log_k):
+        """A starting depth [m] for ln(A R^(2/3)) = log_k (= ln(Q n / sqrt(S)))."""
         raise NotImplementedError  # pragma: no cover - abstract
 
     @property
@@ -173,16 +173,16 @@ class Trapezoid(Section):
         return Geometry(area=(b + 0.5 * zs * y) * y, wetted_perimeter=b + ps * y,
                         top_width=top, dP_dy=ps, dT_dy=zs)
 
-    def _depth_guess(self, conveyance):
-        # The smaller of the wide-rectangle (A = b y, R = y) and triangle estimates.
+    def _depth_guess(self, log_k):
+        # The smaller of the wide-rectangle (A = b y, R = y) and triangle estimates, from ln(Q n / sqrt S).
         b, zs, ps = self.bottom_width, self._zsum, self._psum
-        if _is_scalar(b, zs, conveyance):
-            wide = (conveyance / b) ** 0.6 if b > 0 else math.inf
-            tri = (conveyance * ps ** (2 / 3) / (0.5 * zs) ** (5 / 3)) ** 0.375 if zs > 0 else math.inf
+        if _is_scalar(b, zs, log_k):
+            wide = math.exp(0.6 * (log_k - math.log(b))) if b > 0 else math.inf
+            tri = math.exp(0.375 * (log_k + 2 / 3 * math.log(ps)) - 0.625 * math.log(0.5 * zs)) if zs > 0 else math.inf
             return min(wide, tri)
-        with np.errstate(divide="ignore"):
-            wide = np.where(b > 0, (conveyance / b) ** 0.6, np.inf)
-            tri = np.where(zs > 0, (conveyance * ps ** (2 / 3) / (0.5 * zs) ** (5 / 3)) ** 0.375, np.inf)
+        with np.errstate(divide="ignore", over="ignore"):
+            wide = np.exp(0.6 * (log_k - np.log(b)))
+            tri = np.exp(0.375 * (log_k + 2 / 3 * np.log(ps)) - 0.625 * np.log(0.5 * zs))
         return np.minimum(wide, tri)
 
     def _critical_guess(self, flow):
@@ -273,10 +273,10 @@ class Parabola(Section):
         return Geometry(area=2 / 3 * top * y, wetted_perimeter=perim, top_width=top,
                         dP_dy=2 * root / u, dT_dy=top / (2 * y))
 
-    def _depth_guess(self, conveyance):
+    def _depth_guess(self, log_k):
         # Wide parabola: P ~ T, R ~ 2y/3, T = T0 sqrt(y/y0) -> conveyance ~ c y^(13/6).
         c = 2 / 3 * self.top_width_ref / self.at_depth ** 0.5 * (2 / 3) ** (2 / 3)
-        return (conveyance / c) ** (6 / 13)
+        return np.exp((log_k - np.log(c)) * (6 / 13)) if not _is_scalar(log_k, c) else math.exp((log_k - math.log(c)) * 6 / 13)
 
     def _critical_guess(self, flow):
         # Exact for a parabola: Q^2 = g (8/27) (T0^2 / y0) y^4.
@@ -348,10 +348,10 @@ class Circle(Section):
             return Geometry(area=d * d * (theta - s) / 8, wetted_perimeter=d * theta / 2, top_width=top,
                             dP_dy=2 * d / top, dT_dy=2 * (d - 2 * y) / top)
 
-    def _depth_guess(self, conveyance):
+    def _depth_guess(self, log_k):
         d = self.diameter
         half = math.pi * d * d / 8 * (d / 4) ** (2 / 3)  # conveyance when half full
-        return 0.5 * d * (conveyance / half) ** 0.4
+        return 0.5 * d * np.exp(0.4 * (log_k - np.log(half)))
 
     def _critical_guess(self, flow):
         d = self.diameter
@@ -469,11 +469,11 @@ class Irregular(Section):
         """Roughness protocol: the section's own composite n (``section`` is ``self``)."""
         return self.composite_n(depth)
 
-    def _depth_guess(self, conveyance):
-        return 0.5 * self._full + 0.0 * np.asarray(conveyance) if not _is_scalar(conveyance) else 0.5 * self._full
+    def _depth_guess(self, log_k):
+        return 0.5 * self._full + 0.0 * np.asarray(log_k) if not _is_scalar(log_k) else 0.5 * self._full
 
     def _critical_guess(self, flow):
-        return self._depth_guess(flow)
+        return self._depth_guess(flow)  # half the bank height, whatever the flow
 
     @property
     def is_vector(self):

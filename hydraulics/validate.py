@@ -48,21 +48,20 @@ def number(field: str, value, *, low: float | None = None, high: float | None = 
     v = _as_number(field, value)
     scalar = isinstance(v, float)
     arr = np.asarray(v)
-    finite = np.isfinite(arr)
-    if not finite.all():
-        raise InputError(field, f"must be a finite number, got {_fmt_bad(arr[~finite])}")
-    if low is not None:
-        ok = arr >= low if low_inclusive else arr > low
-        if not ok.all():
-            op = ">=" if low_inclusive else ">"
-            rng = f"{op} {low:g}" + (f" and {'<=' if high_inclusive else '<'} {high:g}" if high is not None else "")
-            raise InputError(field, f"must be {rng}, got {_fmt_bad(arr[~ok])}{hint}")
-    if high is not None:
-        ok = arr <= high if high_inclusive else arr < high
-        if not ok.all():
-            op = "<=" if high_inclusive else "<"
-            raise InputError(field, f"must be {op} {high:g}, got {_fmt_bad(arr[~ok])}{hint}")
-    return v if scalar else arr.astype(float, copy=True)
+    if arr.size == 0:
+        raise InputError(field, "must not be empty")
+    lowest, highest = arr.min(), arr.max()  # two reductions instead of element-wise masks
+    if not (np.isfinite(lowest) and np.isfinite(highest)):
+        raise InputError(field, f"must be a finite number, got {_fmt_bad(arr[~np.isfinite(arr)])}")
+    if low is not None and (lowest < low or (lowest == low and not low_inclusive)):
+        op = ">=" if low_inclusive else ">"
+        rng = f"{op} {low:g}" + (f" and {'<=' if high_inclusive else '<'} {high:g}" if high is not None else "")
+        raise InputError(field, f"must be {rng}, got {lowest:g}{hint}")
+    if high is not None and (highest > high or (highest == high and not high_inclusive)):
+        op = "<=" if high_inclusive else "<"
+        raise InputError(field, f"must be {op} {high:g}, got {highest:g}{hint}")
+    # Never written to by the core, so no copy is needed to protect the caller's array.
+    return v if scalar else arr.astype(float, copy=False)
 
 
 def positive(field: str, value):
@@ -85,13 +84,13 @@ def slope(value, field: str = "slope"):
         return value
     v = _as_number(field, value)
     arr = np.asarray(v)
-    if np.isfinite(arr).all() and (arr <= 0).any():
+    lowest, highest = (arr.min(), arr.max()) if arr.size else (math.nan, math.nan)
+    if np.isfinite(lowest) and lowest <= 0:
         raise InputError(field, "must be > 0 (a falling grade, as a ratio); zero or adverse slopes "
-                                f"have no normal depth, got {_fmt_bad(arr[arr <= 0])}")
-    if np.isfinite(arr).all() and (arr > MAX_SLOPE).any():
-        bad = arr[arr > MAX_SLOPE].ravel()[0]
-        raise InputError(field, f"must be a ratio <= {MAX_SLOPE:g}, got {bad:g}; if you meant "
-                                f"{bad:g} %, enter {bad / 100:g}")
+                                f"have no normal depth, got {lowest:g}")
+    if np.isfinite(highest) and highest > MAX_SLOPE:
+        raise InputError(field, f"must be a ratio <= {MAX_SLOPE:g}, got {highest:g}; if you meant "
+                                f"{highest:g} %, enter {highest / 100:g}")
     return number(field, v, low=0.0, high=MAX_SLOPE)
 
 
