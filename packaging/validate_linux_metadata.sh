@@ -60,9 +60,9 @@ trap 'rm -rf "$tree"' EXIT
 install -Dm644 "$desktop" "$tree/usr/share/applications/$app_id.desktop"
 install -Dm644 "$metainfo" "$tree/usr/share/metainfo/$app_id.metainfo.xml"
 install -Dm644 "$icons/ditchwright.svg" "$tree/usr/share/icons/hicolor/scalable/apps/$app_id.svg"
-for size in 16 32 48 64 128 256 512; do
-    install -Dm644 "$icons/ditchwright-$size.png" \
-        "$tree/usr/share/icons/hicolor/${size}x${size}/apps/$app_id.png" || status=1
+for png in "$icons"/ditchwright-[0-9]*.png; do
+    size=${png##*-}; size=${size%.png}
+    install -Dm644 "$png" "$tree/usr/share/icons/hicolor/${size}x${size}/apps/$app_id.png" || status=1
 done
 appstreamcli validate-tree --no-net "$tree" || status=1
 
