@@ -1,0 +1,527 @@
+"""Ditch inventories: read a CSV of reaches, check them all, write one result row per input row.
+
+The computation is :mod:`hydraulics.batch` (vectorised, SI). This module is
+its edge: it reads the CSV text, converts the user's units to SI on the way
+in and back on the way out, writes the results file, and prepares the
+summary and the summary plot. The desktop window calls :func:`run_inventory`
+and :func:`result_table`.
+
+Input columns (all required in the header, blank where not relevant):
+``id, shape, bottom_width, left_slope, right_slope, diameter, slope, flow,
+lining, d50, n``. Lengths (bottom_width, diameter, d50) are in ft or m, flow
+in ft^3/s or m^3/s, side slopes H:V, slope a ratio. Any other column is
+carried through unchanged. The results file is the input with the columns
+``normal_depth, critical_depth, velocity, froude, bed_shear,
+permissible_shear, safety_factor, verdict, reason`` added, in the same units,
+one row per input row and in the same order.
+"""
+
+from __future__ import annotations
+
+import csv
+import io
+import math
+import os
+import sys
+import tempfile
+from dataclasses import dataclass, field
+from pathlib import Path
+
+import numpy as np
+
+from hydraulics import batch as hb
+from hydraulics import units as hu
+
+INPUT_COLUMNS = ("id", "shape", "bottom_width", "left_slope", "right_slope", "diameter", "slope", "flow", "lining",
+                 "d50", "n")
+RESULT_COLUMNS = ("normal_depth", "critical_depth", "velocity", "froude", "bed_shear", "permissible_shear",
+                  "safety_factor", "verdict", "reason")
+_NUMBER_COLUMNS = tuple(hb.NUMERIC_FIELDS)
+_VALUE_COLUMNS = tuple(hb.RESULT_FIELDS)  # the numeric result columns, in output order
+#: Significant digits of the numbers written (more than any inventory's inputs carry).
+DIGITS = 5
+
+
+class InventoryError(Exception):
+    """The file as a whole cannot be read as an inventory (no results are written)."""
+
+
+@dataclass
+class Inventory:
+    """An inventory read from CSV: its text per row (for carrying through) and its reaches in SI."""
+
+    source: str
+    units: hu.UnitSystem
+    header: list            # column names as written
+    header_text: str        # the header line, CSV-encoded
+    rows: list              # per record: its fields as CSV text (carried through unchanged)
+    lines: np.ndarray       # per record: the line number where it starts (the header is line 1)
+    ids: list               # per record: the id as written
+    reaches: hb.Reaches
+    blank_lines: list = field(default_factory=list)
+
+    def __len__(self):
+        return len(self.rows)
+
+
+# ----------------------------------------------------------------------------- reading
+
+def _decode(data: bytes, source: str) -> str:
+    try:
+        return data.decode("utf-8-sig")
+    except UnicodeDecodeError as exc:
+        raise InventoryError(f"{source}: not UTF-8 text (byte {exc.start}); save the sheet as "
+                             "'CSV UTF-8' and try again") from None
+
+
+def _records(text: str):
+    """(header fields, [(line, fields)], blank line numbers, fast) for CSV ``text``.
+
+    Files without a double quote (the usual export) are split directly, which
+    is several times faster than the csv module; ``fast`` says so, and then
+    each record's fields are exactly its line split at the commas.
+    """
+    text = text.replace("\r\n", "\n").replace("\r", "\n")
+    if '"' not in text:
+        lines = text.split("\n")
+        if lines and lines[-1] == "":
+            lines.pop()
+        out, blank, header = [], [], None
+        for number, line in enumerate(lines, start=1):
+            if not line.strip():
+                blank.append(number)
+            elif header is None:
+                header = (number, line.split(","))
+            else:
+                out.append((number, line))
+        return header, out, blank, True
+    reader = csv.reader(io.StringIO(text, newline=""), strict=True)
+    out, blank, header = [], [], None
+    start = 1
+    try:
+        for fields in reader:
+            if not fields or all(not f.strip() for f in fields) and len(fields) == 1:
+                blank.append(start)
+            elif header is None:
+                header = (start, fields)
+            else:
+                out.append((start, fields))
+            start = reader.line_num + 1
+    except csv.Error as exc:
+        raise InventoryError(f"line {reader.line_num}: {exc} (check the quotes)") from None
+    return header, out, blank, False
+
+
+def _check_header(fields, source):
+    names = [f.strip() for f in fields]
+    seen = {}
+    for i, name in enumerate(names):
+        if name in seen:
+            raise InventoryError(f"{source}: column {name!r} appears twice in the header (columns {seen[name] + 1} "
+                                 f"and {i + 1})")
+        seen[name] = i
+    missing = [c for c in INPUT_COLUMNS if c not in seen]
+    if missing:
+        hints = []
+        lower = {n.lower(): n for n in names}
+        for c in missing:
+            if c in lower:
+                hints.append(f"{lower[c]!r} for {c!r}: names are lower case")
+        if len(names) == 1 and any(sep in names[0] for sep in ";\t|"):
+            hints.append("the file seems to separate columns with something other than commas")
+        hint = f" ({'; '.join(hints)})" if hints else ""
+        raise InventoryError(f"{source}: missing column{'s' if len(missing) > 1 else ''} "
+                             f"{', '.join(missing)}; the header needs {', '.join(INPUT_COLUMNS)}{hint}")
+    clash = [c for c in RESULT_COLUMNS if c in seen]
+    if clash:
+        raise InventoryError(f"{source}: the input already has the result column{'s' if len(clash) > 1 else ''} "
+                             f"{', '.join(clash)} (is it a results file?); rename or remove "
+                             f"{'them' if len(clash) > 1 else 'it'}")
+    return names, seen
+
+
+def _hint(text: str) -> str:
+    if "%" in text:
+        return " (write a slope as a ratio: 0.5 % is 0.005)"
+    if "," in text:
+        return " (use a point as the decimal mark)"
+    return ""
+
+
+def _numbers(texts, name, notes, unreadable):
+    """Parse one column; blanks -> nan; anything else that is not a finite number is noted per row."""
+    size = len(texts)
+    joined = "".join(texts)
+    values = None
+    if "_" not in joined:
+        try:
+            values = np.array(texts, dtype=float) if size else np.zeros(0)
+        except ValueError:
+            try:
+                values = np.array([float(t) if t else math.nan for t in texts], dtype=float)
+            except ValueError:
+                values = None
+    bad = np.zeros(size, dtype=bool)
+    if values is None:  # some entry is not a plain number: go one by one
+        values = np.full(size, math.nan)
+        for i, t in enumerate(texts):
+            t = t.strip()
+            if not t:
+                continue
+            try:
+                if "_" in t:
+                    raise ValueError
+                values[i] = float(t)
+            except ValueError:
+                bad[i] = True
+                _add_note(notes, i, f"{name}: not a number, got {t!r}{_hint(t)}")
+    for i in np.flatnonzero(~np.isfinite(values)):
+        t = texts[i].strip()
+        if t and not bad[i]:
+            bad[i] = True
+            values[i] = math.nan
+            _add_note(notes, i, f"{name}: must be a finite number, got {t!r}")
+    if bad.any():
+        unreadable[name] = bad
+    return values
+
+
+def _add_note(notes, i, text):
+    notes[i] = f"{notes[i]}; {text}" if notes[i] else text
+
+
+def _texts(texts):
+    """Shape and lining text: blanks stripped, shapes compared in lower case."""
+    cache = {}
+    out = np.empty(len(texts), dtype=object)
+    for i, t in enumerate(texts):
+        v = cache.get(t)
+        if v is None:
+            v = cache[t] = t.strip()
+        out[i] = v
+    return out
+
+
+def parse_inventory(text: str, units: str = "us", source: str = "inventory") -> Inventory:
+    """Read inventory CSV ``text`` in the unit system ``units`` ("us" or "si").
+
+    Raises InventoryError for a file that cannot be an inventory (empty, no
+    header, missing or duplicated columns) and InputError for unknown units.
+    Problems of single rows do not raise: they go into ``reaches.notes``.
+    """
+    system = hu.system(units)
+    header, records, blank, fast = _records(text)
+    if header is None:
+        raise InventoryError(f"{source}: the file is empty (it needs a header line with the columns "
+                             f"{', '.join(INPUT_COLUMNS)})")
+    header_line, header_fields = header
+    names, index = _check_header(header_fields, source)
+    width = len(names)
+    size = len(records)
+    lines = np.array([r[0] for r in records], dtype=np.int64)
+    notes = np.full(size, "", dtype=object)
+
+    # Fields per record; a record with the wrong number of fields is noted and padded for reading.
+    rows = []
+    if fast:
+        raw = [r[1] for r in records]
+        counts = [line.count(",") for line in raw]
+        if all(c == width - 1 for c in counts):
+            flat = ",".join(raw).split(",") if size else []
+            columns = [flat[j::width] for j in range(width)]
+            rows = raw
+        else:
+            split = []
+            for i, line in enumerate(raw):
+                fields = line.split(",")
+                if len(fields) != width:
+                    fields = _ragged(fields, width, notes, i)
+                    raw[i] = ",".join(fields)
+                split.append(fields)
+            columns = [list(c) for c in zip(*split)] if size else [[] for _ in range(width)]
+            rows = raw
+    else:
+        split = []
+        for i, (_, fields) in enumerate(records):
+            if len(fields) != width:
+                fields = _ragged(fields, width, notes, i)
+            split.append(fields)
+        columns = [list(c) for c in zip(*split)] if size else [[] for _ in range(width)]
+        rows = [_csv_line(f) for f in split]
+    header_text = ",".join(header_fields) if fast else _csv_line(header_fields)
+
+    col = {name: columns[index[name]] for name in INPUT_COLUMNS}
+    unreadable = {}
+    numbers = {}
+    for name in _NUMBER_COLUMNS:
+        values = _numbers(col[name], name, notes, unreadable)
+        quantity = hb.NUMERIC_FIELDS[name]
+        numbers[name] = values if quantity in ("slope", "side_slope", "manning_n") else system.to_si(quantity, values)
+    shape = np.array([s.lower() for s in _texts(col["shape"])], dtype=object) if size else np.zeros(0, dtype=object)
+    reaches = hb.Reaches(shape=shape, lining=_texts(col["lining"]), notes=notes, unreadable=unreadable, **numbers)
+    return Inventory(source=source, units=system, header=names, header_text=header_text, rows=rows, lines=lines,
+                     ids=[t.strip() for t in col["id"]], reaches=reaches, blank_lines=blank)
+
+
+def _ragged(fields, width, notes, i):
+    if len(fields) < width:
+        _add_note(notes, i, f"the row has {len(fields)} fields and the header {width}; "
+                            "the missing ones were read as blank")
+        return fields + [""] * (width - len(fields))
+    extra = fields[width:]
+    _add_note(notes, i, f"the row has {len(fields)} fields and the header {width}; the extra "
+                        f"field{'s' if len(extra) > 1 else ''} {', '.join(repr(e) for e in extra)} "
+                        f"{'are' if len(extra) > 1 else 'is'} kept only here")
+    return fields[:width]
+
+
+def _csv_line(fields) -> str:
+    buf = io.StringIO()
+    csv.writer(buf, lineterminator="").writerow(fields)
+    return buf.getvalue()
+
+
+def read_inventory(path, units: str = "us") -> Inventory:
+    """Read the inventory file at ``path``; see :func:`parse_inventory`."""
+    path = Path(path)
+    try:
+        data = path.read_bytes()
+    except OSError as exc:
+        raise InventoryError(f"cannot read {path}: {exc.strerror or exc}") from None
+    return parse_inventory(_decode(data, str(path)), units, source=str(path))
+
+
+# ----------------------------------------------------------------------------- computing
+
+def evaluate(inventory: Inventory, progress=None) -> hb.BatchResult:
+    """Check every reach of ``inventory`` (results SI; reasons quote the inventory's units)."""
+    return hb.evaluate(inventory.reaches, display=inventory.units, progress=progress)
+
+
+# ----------------------------------------------------------------------------- writing
+
+def _quote_field(text: str) -> str:
+    if any(c in text for c in ',"\n\r'):
+        return '"' + text.replace('"', '""') + '"'
+    return text
+
+
+def display_values(inventory: Inventory, result: hb.BatchResult) -> dict:
+    """The numeric result columns in the inventory's units (nan where blank)."""
+    return {k: inventory.units.from_si(q, getattr(result, k)) if q not in ("ratio",) else getattr(result, k)
+            for k, q in hb.RESULT_FIELDS.items()}
+
+
+def format_results(inventory: Inventory, result: hb.BatchResult) -> str:
+    """The results file as text: the input rows with the result columns added."""
+    size = len(inventory)
+    values = display_values(inventory, result)
+    table = np.column_stack([values[k] for k in _VALUE_COLUMNS]) if size else np.zeros((0, len(_VALUE_COLUMNS)))
+    present = np.isfinite(table)
+    pattern = present @ (1 << np.arange(len(_VALUE_COLUMNS)))
+    cache = {}
+    reasons = [cache.get(r) or cache.setdefault(r, _quote_field(r)) for r in result.reason]
+    verdicts = result.verdict.tolist()
+    out = [None] * size
+    number = f"%.{DIGITS}g"
+    for code in np.unique(pattern):
+        rows = np.flatnonzero(pattern == code)
+        cols = [j for j in range(len(_VALUE_COLUMNS)) if code >> j & 1]
+        fmt = "%s," + ",".join(number if code >> j & 1 else "" for j in range(len(_VALUE_COLUMNS))) + ",%s,%s"
+        parts = [[inventory.rows[i] for i in rows]] + [table[rows, j].tolist() for j in cols] \
+            + [[verdicts[i] for i in rows], [reasons[i] for i in rows]]
+        for i, t in zip(rows.tolist(), zip(*parts)):
+            out[i] = fmt % t
+    head = inventory.header_text + "," + ",".join(RESULT_COLUMNS)
+    return "\n".join([head, *out]) + "\n"
+
+
+def write_results(path, inventory: Inventory, result: hb.BatchResult) -> None:
+    """Write the results file atomically (a half-written file never replaces a good one)."""
+    path = Path(path)
+    text = format_results(inventory, result)
+    folder = path.parent if str(path.parent) else Path(".")
+    fd, tmp = tempfile.mkstemp(prefix=f".{path.name}.", suffix=".tmp", dir=folder)
+    try:
+        with os.fdopen(fd, "w", encoding="utf-8", newline="") as fh:
+            fh.write(text)
+        os.replace(tmp, path)
+    except BaseException:
+        try:
+            os.unlink(tmp)
+        except OSError:
+            pass
+        raise
+
+
+def result_table(inventory: Inventory, result: hb.BatchResult):
+    """(columns, rows) for a table view: every input column then the result columns, all as text.
+
+    Numbers are in the inventory's units with :data:`DIGITS` significant
+    digits, blanks are "". ``result.verdict`` and ``result.flags`` give the
+    masks a filter needs.
+    """
+    text = format_results(inventory, result)
+    reader = csv.reader(io.StringIO(text, newline=""))
+    columns = next(reader)
+    return columns, list(reader)
+
+
+# ----------------------------------------------------------------------------- reporting
+
+def problem_rows(inventory: Inventory, result: hb.BatchResult):
+    """[(line, id, verdict, reason)] for every reach that is invalid or has no solution, in file order."""
+    bad = np.flatnonzero(np.isin(result.verdict.astype(str), ("invalid", "no-solution")))
+    return [(int(inventory.lines[i]), inventory.ids[i], result.verdict[i], result.reason[i]) for i in bad]
+
+
+def summary(inventory: Inventory, result: hb.BatchResult, seconds: float | None = None) -> str:
+    """A few lines for the terminal: counts per verdict, warnings, extremes."""
+    counts = result.counts()
+    size = len(inventory)
+    units = inventory.units
+    out = [f"{size:,} reach{'es' if size != 1 else ''} in {inventory.source} ({units.name} units)"
+           + (f", checked in {seconds:.2f} s" if seconds is not None else "")]
+    width = max(len(v) for v in hb.VERDICTS)
+    for verdict in hb.VERDICTS:
+        out.append(f"  {verdict:<{width}}  {counts[verdict]:>9,}")
+    flagged = [f"{int(result.flags[k].sum()):,} {label}" for k, label in hb.WARNINGS.items() if result.flags[k].any()]
+    if flagged:
+        out.append("  warnings: " + ", ".join(flagged) + " (see the reason column)")
+    ratio = result.shear_ratio
+    checked = np.isfinite(ratio)
+    if checked.any():
+        worst = int(np.nanargmax(np.where(checked, ratio, -np.inf)))
+        out.append(f"  shear ratio (bed / permissible): median {np.median(ratio[checked]):.2f}, largest "
+                   f"{ratio[worst]:.2f} (line {inventory.lines[worst]}, id {inventory.ids[worst]!r})")
+    else:
+        out.append("  no reach has a permissible shear to compare its bed shear with")
+    shear = result.bed_shear
+    if np.isfinite(shear).any():
+        worst = int(np.nanargmax(shear))
+        out.append(f"  largest bed shear {units.from_si('shear', float(shear[worst])):.3g} {units.label('shear')} "
+                   f"(line {inventory.lines[worst]}, id {inventory.ids[worst]!r})")
+    duplicated = _duplicates(inventory.ids)
+    if duplicated:
+        out.append(f"  note: {len(duplicated):,} id{'s' if len(duplicated) > 1 else ''} appear more than once "
+                   f"(first: {duplicated[0]!r}); every row is still checked")
+    blank_ids = sum(1 for i in inventory.ids if not i)
+    if blank_ids:
+        out.append(f"  note: {blank_ids:,} row{'s have' if blank_ids > 1 else ' has'} no id; "
+                   "they are still checked and named by line number")
+    if inventory.blank_lines:
+        out.append(f"  note: {len(inventory.blank_lines):,} blank line{'s' if len(inventory.blank_lines) > 1 else ''} "
+                   f"skipped (line {', '.join(map(str, inventory.blank_lines[:5]))}"
+                   f"{', ...' if len(inventory.blank_lines) > 5 else ''})")
+    return "\n".join(out)
+
+
+def _duplicates(ids):
+    seen, dup = set(), []
+    for i in ids:
+        if i and i in seen and i not in dup:
+            dup.append(i)
+        seen.add(i)
+    return dup
+
+
+PLOT_FORMATS = (".png", ".pdf", ".svg")
+
+
+def plot_summary(result: hb.BatchResult, path, title: str = "Ditch inventory") -> None:
+    """Save a two-panel summary figure: reaches per verdict, and the distribution of shear ratio.
+
+    The format follows the suffix of ``path`` (PNG, PDF or SVG). Uses
+    matplotlib's Agg canvas, so no display is needed.
+    """
+    path = Path(path)
+    if path.suffix.lower() not in PLOT_FORMATS:
+        raise InventoryError(f"plot {path}: the name must end in {', '.join(PLOT_FORMATS)}")
+    from matplotlib.backends.backend_agg import FigureCanvasAgg
+    from matplotlib.figure import Figure
+
+    fig = Figure(figsize=(10, 4.2), layout="constrained")
+    FigureCanvasAgg(fig)
+    ax1, ax2 = fig.subplots(1, 2, width_ratios=(1.1, 1))
+    counts = result.counts()
+    colours = {"stable": "#3a7d44", "unstable": "#c0392b", "hydraulics-only": "#7f8c8d", "not-checked": "#b7950b",
+               "no-solution": "#8e44ad", "invalid": "#34495e"}
+    labels = list(counts)
+    bars = ax1.barh(labels[::-1], [counts[v] for v in labels[::-1]], color=[colours[v] for v in labels[::-1]])
+    ax1.bar_label(bars, labels=[f"{counts[v]:,}" for v in labels[::-1]], padding=3)
+    ax1.set_xlabel("reaches")
+    ax1.xaxis.get_major_locator().set_params(integer=True)
+    ax1.set_title(f"Reaches by verdict ({len(result):,} in all)")
+    ax1.margins(x=0.15)
+    ratio = result.shear_ratio
+    ratio = ratio[np.isfinite(ratio)]
+    if ratio.size:
+        top = max(2.0, float(np.percentile(ratio, 99.5)))
+        ax2.hist(np.clip(ratio, 0, top), bins=40, range=(0, top), color="#2e86c1")
+        ax2.axvline(1.0, color="#c0392b", linestyle="--", label="bed shear = permissible")
+        ax2.legend(loc="upper right")
+        if ratio.max() > top:
+            ax2.text(0.98, 0.80, f"{int((ratio > top).sum()):,} above {top:.2g} in the last bar",
+                     transform=ax2.transAxes, ha="right", fontsize=8)
+        ax2.set_ylabel("reaches")
+    else:
+        ax2.text(0.5, 0.5, "no reach has a permissible shear\nto compare its bed shear with",
+                 transform=ax2.transAxes, ha="center", va="center")
+        ax2.set_yticks([])
+    ax2.set_xlabel("shear ratio, bed shear / permissible shear (1 / safety factor)")
+    ax2.set_title("Distribution of shear ratio")
+    fig.suptitle(title)
+    fig.savefig(path)
+
+
+# ----------------------------------------------------------------------------- for the window
+
+@dataclass
+class BatchRun:
+    """An inventory with its results, for the desktop window."""
+
+    inventory: Inventory
+    result: hb.BatchResult
+
+    def table(self):
+        """(columns, rows) of text; see :func:`result_table`."""
+        return result_table(self.inventory, self.result)
+
+    def problems(self):
+        return problem_rows(self.inventory, self.result)
+
+    def summary(self) -> str:
+        return summary(self.inventory, self.result)
+
+
+def run_inventory(path, units: str = "us", progress=None) -> BatchRun:
+    """Read and check the inventory at ``path``; ``progress(done, total)`` is called as it goes.
+
+    Raises InventoryError (whole file unreadable) or InputError (unknown units).
+    """
+    inventory = read_inventory(path, units)
+    return BatchRun(inventory, evaluate(inventory, progress))
+
+
+class ProgressBar:
+    """A one-line progress bar on a terminal stream; silent when the stream is not a terminal."""
+
+    def __init__(self, label: str, stream=None, enabled: bool | None = None, width: int = 30):
+        self.stream = stream if stream is not None else sys.stderr
+        self.enabled = self.stream.isatty() if enabled is None else enabled
+        self.label, self.width, self.shown = label, width, False
+
+    def __call__(self, done: int, total: int) -> None:
+        if not self.enabled or total <= 0:
+            return
+        filled = int(self.width * done / total)
+        self.stream.write(f"\r{self.label} [{'#' * filled}{'.' * (self.width - filled)}] "
+                          f"{100 * done / total:3.0f}% {done:,}/{total:,}")
+        self.stream.flush()
+        self.shown = True
+
+    def close(self) -> None:
+        if self.shown:
+            self.stream.write("\n")
+            self.stream.flush()
+            self.shown = False

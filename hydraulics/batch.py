@@ -1,0 +1,461 @@
+"""Many channel reaches at once: the vectorised uniform-flow check of an inventory.
+
+A road agency's ditch inventory holds thousands of reaches, each a section,
+a slope, a design flow and a roughness (Manning's n or a named lining). This
+module evaluates them all with the array form of the core: every open reach
+(trapezoid, V-ditch, rectangle) is one ``Trapezoid`` with array dimensions,
+every pipe one ``Circle``; :func:`hydraulics.analyse` solves each group in a
+single vectorised call. The quantities and their sources are those of
+:mod:`hydraulics.analysis` (Manning's equation, Chow 1959; bed shear
+tau_d = gamma y S, FHWA HEC-15, Kilgore and Cotton, 3rd ed., 2005, Eq. 3.1).
+
+Nothing here raises for one bad reach. Each reach gets a ``verdict`` and a
+``reason`` in words:
+
+* ``invalid``: an input is missing, not applicable to the shape, or out of
+  range; nothing is computed for it;
+* ``no-solution``: the input is valid but the section cannot carry the flow
+  (a pipe that would surcharge); nothing is computed for it;
+* ``hydraulics-only``: no lining was named, so the depths, velocity, Froude
+  number and bed shear are computed but not compared with a permissible shear;
+* ``not-checked``: a lining was named but no stability check is available for
+  it (the hydraulics are computed when an n is given);
+* ``stable`` / ``unstable``: bed shear at or below / above the lining's
+  permissible shear (HEC-15 safety factor SF = tau_p / tau_d >= 1 / < 1).
+
+Warnings (near-critical flow, flow that is not fully turbulent, a pipe above
+its full-flow capacity) are added to the reason; they do not change the
+verdict. Arrays are SI throughout; ``display`` only sets the units that the
+reasons quote values in.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+
+import numpy as np
+
+from . import units as hu
+from .analysis import MIN_TURBULENT_REYNOLDS, NEAR_CRITICAL_BAND, analyse
+from .errors import HydraulicsError, InputError
+from .sections import Circle, Trapezoid
+from .solvers import flow_at_depth, max_flow
+from .validate import MAX_SLOPE
+
+#: Shapes an inventory row may name (a parabola needs two dimensions an inventory does not carry).
+SHAPES = ("trapezoid", "triangle", "rectangle", "circle")
+#: Every verdict a reach can get, in the order a summary lists them.
+VERDICTS = ("stable", "unstable", "hydraulics-only", "not-checked", "no-solution", "invalid")
+#: Fields of a reach, each with the physical quantity its values are in (see hydraulics.units).
+NUMERIC_FIELDS = {
+    "bottom_width": "length", "left_slope": "side_slope", "right_slope": "side_slope", "diameter": "length",
+    "slope": "slope", "flow": "flow", "d50": "length", "n": "manning_n",
+}
+#: Result arrays (SI) with their quantity.
+RESULT_FIELDS = {
+    "normal_depth": "length", "critical_depth": "length", "velocity": "velocity", "froude": "ratio",
+    "bed_shear": "shear", "permissible_shear": "shear", "safety_factor": "ratio",
+}
+#: Warnings a reach can carry (in its reason and in BatchResult.flags), with a short label.
+WARNINGS = {
+    "near_critical": "near-critical flow",
+    "not_turbulent": "flow not fully turbulent",
+    "above_full_flow": "pipe above its full-flow capacity",
+}
+#: Reaches solved per vectorised call; bounds memory and paces the progress callback.
+CHUNK = 50_000
+
+# Which dimensions each shape needs; the others must be blank (or 0, which many inventories write for "none").
+_DIMENSIONS = {
+    "trapezoid": ("bottom_width", "left_slope", "right_slope"),
+    "triangle": ("left_slope", "right_slope"),
+    "rectangle": ("bottom_width",),
+    "circle": ("diameter",),
+}
+_ALL_DIMENSIONS = ("bottom_width", "left_slope", "right_slope", "diameter")
+
+
+@dataclass
+class Reaches:
+    """An inventory as arrays, SI. ``nan`` marks a blank number, ``""`` a blank text.
+
+    ``shape`` and ``lining`` are object arrays of str (shape in lower case);
+    the numeric fields are float arrays of one length. ``unreadable`` maps a
+    field to a boolean mask of entries that were present but could not be read
+    as numbers (a reader fills it, with its own reasons in ``notes``), so that
+    they are not reported a second time as missing.
+    """
+
+    shape: np.ndarray
+    bottom_width: np.ndarray
+    left_slope: np.ndarray
+    right_slope: np.ndarray
+    diameter: np.ndarray
+    slope: np.ndarray
+    flow: np.ndarray
+    lining: np.ndarray
+    d50: np.ndarray
+    n: np.ndarray
+    notes: np.ndarray = None          # object array of str: problems found while reading ("" = none)
+    unreadable: dict = field(default_factory=dict)
+
+    def __post_init__(self):
+        size = len(self.shape)
+        for name in ("bottom_width", "left_slope", "right_slope", "diameter", "slope", "flow", "d50", "n"):
+            arr = np.asarray(getattr(self, name), dtype=float)
+            if arr.shape != (size,):
+                raise InputError(name, f"must be a 1-D array of {size} values (one per reach), got shape {arr.shape}")
+            setattr(self, name, arr)
+        self.shape = np.asarray(self.shape, dtype=object)
+        self.lining = np.asarray(self.lining, dtype=object)
+        if self.lining.shape != (size,):
+            raise InputError("lining", f"must hold one entry per reach ({size}), got shape {self.lining.shape}")
+        if self.notes is None:
+            self.notes = np.full(size, "", dtype=object)
+
+    def __len__(self):
+        return len(self.shape)
+
+    def take(self, index) -> "Reaches":
+        """The reaches at ``index`` (a slice, integer array or mask)."""
+        names = ("shape", "bottom_width", "left_slope", "right_slope", "diameter", "slope", "flow", "lining",
+                 "d50", "n", "notes")
+        return Reaches(**{k: getattr(self, k)[index] for k in names},
+                       unreadable={k: v[index] for k, v in self.unreadable.items()})
+
+
+@dataclass
+class BatchResult:
+    """Results per reach, SI; ``nan`` where a value was not computed."""
+
+    normal_depth: np.ndarray
+    critical_depth: np.ndarray
+    velocity: np.ndarray
+    froude: np.ndarray
+    bed_shear: np.ndarray
+    permissible_shear: np.ndarray
+    safety_factor: np.ndarray
+    verdict: np.ndarray     # object array of str, one of VERDICTS
+    reason: np.ndarray      # object array of str
+    #: Boolean masks of the warnings in the reasons, keyed as in WARNINGS.
+    flags: dict = field(default_factory=dict)
+
+    @classmethod
+    def empty(cls, size: int) -> "BatchResult":
+        nan = lambda: np.full(size, np.nan)  # noqa: E731
+        return cls(**{k: nan() for k in RESULT_FIELDS}, verdict=np.full(size, "", dtype=object),
+                   reason=np.full(size, "", dtype=object), flags={k: np.zeros(size, dtype=bool) for k in WARNINGS})
+
+    def __len__(self):
+        return len(self.verdict)
+
+    def counts(self) -> dict:
+        """Number of reaches per verdict, every verdict listed (zeros included)."""
+        values, counts = np.unique(self.verdict.astype(str), return_counts=True) if len(self) else ([], [])
+        found = dict(zip(values, counts))
+        return {v: int(found.get(v, 0)) for v in VERDICTS}
+
+    @property
+    def shear_ratio(self) -> np.ndarray:
+        """Bed shear over permissible shear, tau_d / tau_p = 1 / SF (nan where not checked)."""
+        with np.errstate(divide="ignore", invalid="ignore"):
+            return self.bed_shear / self.permissible_shear
+
+    def _fill(self, index, other: "BatchResult"):
+        for k in (*RESULT_FIELDS, "verdict", "reason"):
+            getattr(self, k)[index] = getattr(other, k)
+        for k in WARNINGS:
+            self.flags[k][index] = other.flags[k]
+
+
+# ----------------------------------------------------------------------------- screening
+
+def _fmt(value: float) -> str:
+    return f"{value:.6g}"
+
+
+def _quote(values, quantity, display) -> callable:
+    """Formatter of the bad value at row i in the display units, with the unit label."""
+    label = display.label(quantity)
+    suffix = f" {label}" if label and quantity not in ("slope", "side_slope") else ""
+
+    def text(i):
+        return _fmt(display.from_si(quantity, float(values[i]))) + suffix
+    return text
+
+
+def screen(reaches: Reaches, display: hu.UnitSystem = hu.SI) -> np.ndarray:
+    """Reasons why each reach cannot be computed ("" for a reach that can).
+
+    Checks, per reach: a known shape; the dimensions that shape needs, each
+    finite and in range, and no other dimension (blank or 0 only); a flow
+    > 0; a slope > 0 and <= 1 (a ratio, not a percentage); Manning's n in
+    (0, 1] or a lining; a D50 > 0 only with a lining. Reasons quote values in
+    the ``display`` units. Every problem of a reach is listed, separated by
+    "; ".
+    """
+    size = len(reaches)
+    problems = {}
+
+    def add(mask, message):
+        """``message`` is a str or a function of the row index."""
+        for i in np.flatnonzero(mask):
+            problems.setdefault(int(i), []).append(message(i) if callable(message) else message)
+
+    shape = reaches.shape
+    known = np.isin(shape, SHAPES)
+    blank_shape = shape == ""
+    add(blank_shape, "shape: is missing (trapezoid, triangle, rectangle or circle)")
+    add(~known & ~blank_shape,
+        lambda i: f"shape: must be trapezoid, triangle, rectangle or circle, got {shape[i]!r}"
+                  + (" (an inventory has no columns for a parabola's top width)" if shape[i] == "parabola" else ""))
+
+    def unreadable(name):
+        return reaches.unreadable.get(name, np.zeros(size, dtype=bool))
+
+    def missing(name):
+        return np.isnan(getattr(reaches, name)) & ~unreadable(name)
+
+    # Dimensions, per shape.
+    for kind, needed in _DIMENSIONS.items():
+        rows = shape == kind
+        if not rows.any():
+            continue
+        for name in _ALL_DIMENSIONS:
+            v = getattr(reaches, name)
+            q = _quote(v, NUMERIC_FIELDS[name], display)
+            if name in needed:
+                add(rows & missing(name), f"{name}: is missing (needed for a {kind})")
+                strict = kind in ("rectangle", "circle")  # width or diameter > 0; side slopes and trapezoid b >= 0
+                bad = (v <= 0) if strict else (v < 0)
+                add(rows & bad, lambda i, name=name, q=q, op=">" if strict else ">=":
+                    f"{name}: must be {op} 0, got {q(i)}")
+            else:
+                add(rows & (v != 0) & ~np.isnan(v),
+                    lambda i, name=name, kind=kind, q=q: f"{name}: does not apply to a {kind} (leave it blank), got {q(i)}")
+        if kind == "trapezoid":
+            flat = rows & (reaches.bottom_width == 0) & (reaches.left_slope == 0) & (reaches.right_slope == 0)
+            add(flat, "bottom_width: must be > 0 when both side slopes are 0 (the section has no width)")
+        if kind == "triangle":
+            add(rows & (reaches.left_slope + reaches.right_slope == 0),
+                "left_slope, right_slope: at least one must be > 0 for a V-ditch")
+
+    q = reaches.flow
+    add(missing("flow"), "flow: is missing")
+    add(q <= 0, lambda i, f=_quote(q, "flow", display): f"flow: must be > 0, got {f(i)}")
+
+    s = reaches.slope
+    add(missing("slope"), "slope: is missing")
+    add(s <= 0, lambda i: f"slope: must be > 0 (a falling grade as a ratio; zero or adverse slopes have no "
+                          f"normal depth), got {_fmt(s[i])}")
+    add(s > MAX_SLOPE, lambda i: f"slope: must be a ratio <= {MAX_SLOPE:g}, got {_fmt(s[i])}; if you meant "
+                                 f"{_fmt(s[i])} %, enter {_fmt(s[i] / 100)}")
+
+    n = reaches.n
+    lining = reaches.lining
+    no_lining = lining == ""
+    add(missing("n") & no_lining, "n, lining: give Manning's n or a lining")
+    add((n <= 0) | (n > 1), lambda i: f"n: must be > 0 and <= 1, got {_fmt(n[i])} (Manning's n is a small "
+                                      "number such as 0.013)")
+
+    d50 = reaches.d50
+    add(d50 <= 0, lambda i, f=_quote(d50, "length", display): f"d50: must be > 0, got {f(i)}")
+    add(no_lining & (d50 > 0), lambda i, f=_quote(d50, "length", display):
+        f"d50: applies to a stone lining and no lining is named, got {f(i)}")
+
+    out = np.full(size, "", dtype=object)
+    notes = reaches.notes
+    for i in sorted(set(problems) | {int(i) for i in np.flatnonzero(notes != "")}):
+        out[i] = "; ".join(([notes[i]] if notes[i] else []) + problems.get(i, []))
+    return out
+
+
+# ----------------------------------------------------------------------------- hydraulics
+
+def _flatten(values, default=0.0):
+    return np.where(np.isnan(values), default, values)
+
+
+def _open_section(reaches, idx):
+    return Trapezoid(bottom_width=_flatten(reaches.bottom_width[idx]), left_slope=_flatten(reaches.left_slope[idx]),
+                     right_slope=_flatten(reaches.right_slope[idx]))
+
+
+def _pipe_section(reaches, idx):
+    return Circle(diameter=reaches.diameter[idx])
+
+
+def _analyse_robust(make_section, reaches, idx, n, failures):
+    """hy.analyse on the reaches ``idx``; a failing group is halved until the failing reaches are found.
+
+    Returns a list of (index array, ChannelResult); ``failures`` gets {row: message}.
+    """
+    try:
+        return [(idx, analyse(make_section(reaches, idx), reaches.flow[idx], reaches.slope[idx], n))]
+    except HydraulicsError as exc:
+        if len(idx) == 1:
+            failures[int(idx[0])] = str(exc).replace(" (element 0)", "")
+            return []
+    half = len(idx) // 2
+    return (_analyse_robust(make_section, reaches, idx[:half], n[:half], failures)
+            + _analyse_robust(make_section, reaches, idx[half:], n[half:], failures))
+
+
+def solve_hydraulics(reaches: Reaches, idx, n, out: BatchResult, display: hu.UnitSystem = hu.SI) -> np.ndarray:
+    """Fill the hydraulic results of the reaches ``idx`` (screened valid) with Manning's n ``n``.
+
+    Open reaches are solved as one trapezoid array, pipes as one circle array.
+    A pipe asked to carry more than its largest part-full flow gets the
+    verdict ``no-solution``. Returns the mask (over ``idx``) of reaches solved;
+    their reasons get the warnings, their verdicts are left to the caller.
+    """
+    idx = np.asarray(idx, dtype=np.intp)
+    n = np.asarray(n, dtype=float)
+    if not len(idx):
+        return np.zeros(0, dtype=bool)
+    pipe = reaches.shape[idx] == "circle"
+    failures = {}
+    parts = []
+    open_pos = np.flatnonzero(~pipe)
+    if len(open_pos):
+        parts += _analyse_robust(_open_section, reaches, idx[open_pos], n[open_pos], failures)
+    pipe_pos = np.flatnonzero(pipe)
+    if len(pipe_pos):
+        rows = idx[pipe_pos]
+        section = _pipe_section(reaches, rows)
+        q_max = max_flow(section, reaches.slope[rows], n[pipe_pos])
+        over = reaches.flow[rows] > q_max
+        for j in np.flatnonzero(over):
+            flow_fmt = _quote(reaches.flow, "flow", display)
+            failures[int(rows[j])] = (f"flow {flow_fmt(rows[j])} exceeds this pipe's largest part-full flow "
+                                      f"{_fmt(display.from_si('flow', float(q_max[j])))} {display.label('flow')} "
+                                      "on this slope (Manning): it would surcharge; use a larger pipe")
+        keep = ~over
+        if keep.any():
+            parts += _analyse_robust(_pipe_section, reaches, rows[keep], n[pipe_pos][keep], failures)
+
+    done = np.zeros(len(out), dtype=bool)
+    for rows, res in parts:
+        out.normal_depth[rows] = res.normal_depth
+        out.critical_depth[rows] = res.critical_depth
+        out.velocity[rows] = res.velocity
+        out.froude[rows] = res.froude
+        out.bed_shear[rows] = res.bed_shear
+        _warn(reaches, rows, res, out)
+        done[rows] = True
+    for row, message in failures.items():
+        out.verdict[row] = "no-solution"
+        out.reason[row] = message
+    return done[idx]
+
+
+def _warn(reaches, rows, res, out):
+    """Per-reach warnings into ``out.reason`` (see hydraulics.analysis for the limits)."""
+    lo, hi = NEAR_CRITICAL_BAND
+    fr = np.asarray(res.froude)
+    near = (fr >= lo) & (fr <= hi)
+    out.flags["near_critical"][rows[near]] = True
+    for j in np.flatnonzero(near):
+        _note(out, rows[j], f"near-critical flow (Froude {fr[j]:.2f}, within {lo:g} to {hi:g}): the surface "
+                            "will be wavy and unstable; allow extra freeboard or change the slope or section")
+    re = np.asarray(res.reynolds)
+    slow = re < MIN_TURBULENT_REYNOLDS
+    out.flags["not_turbulent"][rows[slow]] = True
+    for j in np.flatnonzero(slow):
+        _note(out, rows[j], f"Reynolds number {re[j]:.0f} below {MIN_TURBULENT_REYNOLDS:g}: the flow is not "
+                            "fully turbulent and Manning's equation is outside its range")
+    pipe = reaches.shape[rows] == "circle"
+    if pipe.any():
+        prow = rows[pipe]
+        d = reaches.diameter[prow]
+        q_full = flow_at_depth(Circle(diameter=d), d, reaches.slope[prow], np.asarray(res.manning_n)[pipe])
+        full = reaches.flow[prow] > q_full
+        out.flags["above_full_flow"][prow[full]] = True
+        for j in np.flatnonzero(full):
+            _note(out, prow[j], "flow above the pipe's full-flow capacity: it runs just below the crown, "
+                                "where a small disturbance makes it surcharge; use a larger pipe")
+
+
+def _note(out, row, text):
+    out.reason[row] = f"{out.reason[row]}; {text}" if out.reason[row] else text
+
+
+# ----------------------------------------------------------------------------- linings
+
+def check_linings(reaches: Reaches, idx, out: BatchResult, display: hu.UnitSystem = hu.SI) -> None:
+    """The lining stage for the reaches ``idx`` (screened valid, each naming a lining).
+
+    No lining stability check exists in the core yet, so none is claimed:
+    a reach with an n of its own gets its hydraulics computed with that n,
+    one without gets nothing computed, and both get the verdict
+    ``not-checked`` with the reason. Permissible shear and safety factor
+    stay blank.
+    """
+    idx = np.asarray(idx, dtype=np.intp)
+    has_n = ~np.isnan(reaches.n[idx])
+    with_n = idx[has_n]
+    solved = solve_hydraulics(reaches, with_n, reaches.n[with_n], out, display)
+    for key in map(str, np.unique(reaches.lining[with_n[solved]].astype(str))):
+        rows = with_n[solved][reaches.lining[with_n[solved]] == key]
+        _prefix(out, rows, "not-checked", f"no lining check available for {key!r}: hydraulics with the n "
+                                          "given, shear not compared with a permissible value")
+    for row in idx[~has_n]:
+        out.verdict[row] = "not-checked"
+        out.reason[row] = (f"no lining check available for {reaches.lining[row]!r} and no n given: "
+                           "nothing computed")
+
+
+def _prefix(out, rows, verdict, text):
+    """Set the verdict of ``rows`` and put ``text`` before any warnings already in their reasons."""
+    rows = np.asarray(rows, dtype=np.intp)
+    out.verdict[rows] = verdict
+    noted = out.reason[rows] != ""
+    for row in rows[noted]:
+        out.reason[row] = f"{text}; {out.reason[row]}"
+    out.reason[rows[~noted]] = text
+
+
+# ----------------------------------------------------------------------------- driver
+
+def _evaluate_chunk(reaches: Reaches, display) -> BatchResult:
+    out = BatchResult.empty(len(reaches))
+    problems = screen(reaches, display)
+    bad = problems != ""
+    out.verdict[bad] = "invalid"
+    out.reason[bad] = problems[bad]
+    valid = ~bad
+    named = valid & (reaches.lining != "")
+    plain = np.flatnonzero(valid & ~named)
+    solved = solve_hydraulics(reaches, plain, reaches.n[plain], out, display)
+    _prefix(out, plain[solved], "hydraulics-only", "no lining named: shear not compared with a permissible value")
+    check_linings(reaches, np.flatnonzero(named), out, display)
+    return out
+
+
+def evaluate(reaches: Reaches, display: hu.UnitSystem = hu.SI, progress=None, chunk: int = CHUNK) -> BatchResult:
+    """Check every reach; see the module notes for the verdicts.
+
+    Parameters
+    ----------
+    reaches : Reaches
+        The inventory, SI.
+    display : UnitSystem
+        Units in which reasons quote values (results stay SI).
+    progress : callable, optional
+        Called as ``progress(done, total)`` after each chunk of reaches.
+    chunk : int
+        Reaches per vectorised solve.
+
+    Returns
+    -------
+    BatchResult
+        One entry per reach, in input order.
+    """
+    size = len(reaches)
+    out = BatchResult.empty(size)
+    for start in range(0, size, chunk):
+        part = slice(start, min(size, start + chunk))
+        out._fill(part, _evaluate_chunk(reaches.take(part), display))
+        if progress is not None:
+            progress(part.stop, size)
+    return out
