@@ -1,0 +1,184 @@
+"""Depth-dependent Manning's n of linings, as roughness models for the solvers.
+
+Each model has ``manning_n(section, depth, slope)`` (the protocol of
+:func:`hydraulics.normal_depth`): vectorised over ``depth`` (and ``slope``),
+free of checks and warnings because the solver calls it at every trial depth.
+``check(section, depth, slope)`` returns, once, the plain-language warnings for
+a depth outside the relation's range of validity.
+
+    import hydraulics as hy
+    from hydraulics.linings import StoneRoughness
+    section = hy.Trapezoid(bottom_width=0.4, side_slope=3.0)
+    rough = StoneRoughness(d50=0.025)
+    y = hy.normal_depth(section, flow=0.42, slope=0.008, n=rough)
+    notes = rough.check(section, y, 0.008)
+"""
+
+from __future__ import annotations
+
+import math
+
+import numpy as np
+
+from .. import validate
+from ..constants import GAMMA_WATER
+from ..errors import InputError
+from . import hec15
+
+__all__ = ["StoneRoughness", "VegetationRoughness", "STONE_METHODS"]
+
+#: Ways to compute the n of a stone lining.
+STONE_METHODS = ("auto", "blodgett", "bathurst", "strickler")
+
+
+def _average_depth(section, depth):
+    g = section.properties(depth)
+    top = g.top_width
+    if np.any(np.asarray(top) <= 0):
+        raise InputError("depth", "the water surface has no width at this depth (a full pipe); "
+                                  "the lining relations need an open water surface")
+    return g.area / top, g.area / g.wetted_perimeter, top
+
+
+class StoneRoughness:
+    """Manning's n of a riprap, cobble or gravel lining from its D50 (HEC-15 Section 6.1).
+
+    Parameters
+    ----------
+    d50 : float
+        Median stone size [m], > 0.
+    method : str
+        "auto" (default): Blodgett's relation, HEC-15 Eq. 6.1, where
+        da/D50 >= 1.5 and Bathurst's relation, Eq. 6.2, below (the split
+        HEC-15 recommends); "blodgett" or "bathurst" to force one; "strickler"
+        for the depth-independent n = 0.034 D^(1/6) (D in ft; Chow, 1959).
+
+    Notes
+    -----
+    da = A/T is the average depth of HEC-15; Bathurst's Froude number comes
+    from Manning's equation (see :func:`hec15.bathurst_n_manning`). In "auto"
+    the two relations do not meet at da/D50 = 1.5, so n jumps there; a flow
+    whose normal depth falls in the jump has no uniform-flow depth by this
+    model and the solver reports that.
+    """
+
+    def __init__(self, d50, method: str = "auto"):
+        self.d50 = validate.positive("d50", d50)
+        if np.ndim(self.d50):
+            raise InputError("d50", "must be a single stone size for a roughness model")
+        if method not in STONE_METHODS:
+            raise InputError("method", f"must be one of {', '.join(STONE_METHODS)}, got {method!r}")
+        self.method = method
+
+    def __repr__(self):
+        return f"StoneRoughness(d50={self.d50:g}, method={self.method!r})"
+
+    def manning_n(self, section, depth, slope):
+        """Manning's n [s/m^(1/3)] at ``depth`` [m] and ``slope`` [m/m]; no checks (solver use)."""
+        if self.method == "strickler":
+            n = 0.034 * (self.d50 / 0.3048) ** (1.0 / 6.0)
+            return np.full(np.shape(depth), n) if np.ndim(depth) else n
+        da, r, top = _average_depth(section, depth)
+        with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
+            if self.method == "blodgett":
+                return self._blodgett(da)
+            bath = hec15._bathurst_n_manning(da, self.d50, top, r, slope)
+            if self.method == "bathurst":
+                return bath
+            ratio = da / self.d50
+            if np.ndim(ratio) or np.ndim(bath):
+                blod = self._blodgett(da)
+                return np.where(ratio >= hec15.BLODGETT_RANGE[0], blod, bath)
+            return self._blodgett(da) if ratio >= hec15.BLODGETT_RANGE[0] else bath
+
+    def _blodgett(self, da):
+        ratio = da / self.d50
+        if np.ndim(ratio):
+            with np.errstate(divide="ignore", invalid="ignore"):
+                return np.where(ratio > hec15._BLODGETT_POLE, hec15._blodgett_n(da, self.d50), np.nan)
+        return hec15._blodgett_n(da, self.d50) if ratio > hec15._BLODGETT_POLE else math.nan
+
+    def relation(self, section, depth) -> str:
+        """Name of the relation used at ``depth`` (scalar)."""
+        if self.method != "auto":
+            return self.method
+        da, _, _ = _average_depth(section, depth)
+        return "blodgett" if float(np.min(da / self.d50)) >= hec15.BLODGETT_RANGE[0] else "bathurst"
+
+    def check(self, section, depth, slope) -> list[str]:
+        """Warnings for ``depth`` outside the range of the relation used."""
+        out = []
+        lo, hi = hec15.STONE_SIZE_RANGE
+        if not lo <= self.d50 <= hi:
+            out.append(f"D50 = {self.d50 * 1000:.4g} mm is outside the {lo * 1000:g} to {hi * 1000:g} mm range "
+                       "of the HEC-15 Chapter 6 procedures")
+        if self.method == "strickler":
+            return out
+        da, _, _ = _average_depth(section, depth)
+        ratio = np.asarray(da / self.d50)
+        used = self.relation(section, depth) if self.method == "auto" else self.method
+        if used == "blodgett":
+            a, b = hec15.BLODGETT_RANGE
+            if np.any((ratio < a) | (ratio > b)):
+                out.append(f"da/D50 = {float(ratio.min()):.3g} is outside {a:g} to {b:g}, the range of Blodgett's "
+                           "relation (HEC-15 Eq. 6.1)" if ratio.size == 1 else
+                           f"da/D50 outside {a:g} to {b:g} (Blodgett's relation, HEC-15 Eq. 6.1)")
+        else:
+            a, b = hec15.BATHURST_RANGE
+            if np.any((ratio <= a) | (ratio >= b)):
+                out.append(f"da/D50 = {float(ratio.min()):.3g} is outside {a:g} to {b:g}, the range of Bathurst's "
+                           "relation (HEC-15 Eq. 6.2)")
+        return out
+
+    def to_dict(self) -> dict:
+        return {"model": "stone", "d50": self.d50, "method": self.method}
+
+
+class VegetationRoughness:
+    """Manning's n of a grass lining, HEC-15 Chapter 4: n = Cn (gamma R S)^-0.4.
+
+    Parameters
+    ----------
+    density_stiffness : float
+        Density-stiffness coefficient Cs [-] (HEC-15 Table 4.3), > 0.
+    stem_height : float
+        Stem height h [m], > 0.
+    gamma_water : float
+        Unit weight of water [N/m^3].
+
+    Notes
+    -----
+    n falls as the flow deepens and bends the grass; the relations are from
+    memory (see :func:`hec15.grass_roughness_coefficient`).
+    """
+
+    def __init__(self, density_stiffness, stem_height, gamma_water=GAMMA_WATER):
+        self.density_stiffness = validate.positive("density_stiffness", density_stiffness)
+        self.stem_height = validate.positive("stem_height", stem_height)
+        self.gamma_water = validate.positive("gamma_water", gamma_water)
+        if np.ndim(self.density_stiffness) or np.ndim(self.stem_height):
+            raise InputError("density_stiffness", "must be a single value for a roughness model")
+        self.cn = hec15.grass_roughness_coefficient(self.density_stiffness, self.stem_height)
+
+    def __repr__(self):
+        return f"VegetationRoughness(density_stiffness={self.density_stiffness:g}, stem_height={self.stem_height:g})"
+
+    def boundary_shear(self, section, depth, slope):
+        """Mean boundary shear tau_o = gamma R S [Pa]."""
+        g = section.properties(depth)
+        return self.gamma_water * g.area / g.wetted_perimeter * slope
+
+    def manning_n(self, section, depth, slope):
+        """Manning's n [s/m^(1/3)] at ``depth`` [m] and ``slope`` [m/m]; no checks (solver use)."""
+        return hec15._vegetation_n(self.cn, self.boundary_shear(section, depth, slope))
+
+    def check(self, section, depth, slope) -> list[str]:
+        """Warnings for a flow the vegetated-lining relation does not describe well."""
+        out = []
+        if np.any(np.asarray(depth) < self.stem_height):
+            out.append(f"flow depth below the stem height ({self.stem_height:g} m): the grass is not submerged, "
+                       "which the HEC-15 Chapter 4 roughness relation does not describe (from memory)")
+        return out
+
+    def to_dict(self) -> dict:
+        return {"model": "vegetation", "density_stiffness": self.density_stiffness, "stem_height": self.stem_height}
