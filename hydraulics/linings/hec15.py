@@ -105,6 +105,13 @@ def _vec(*values):
     return any(isinstance(v, np.ndarray) for v in values)
 
 
+def _span(values, scale=1.0, fmt=".3g") -> str:
+    """'x' for one value, 'x..y' for several (for warning texts)."""
+    a = np.asarray(values, dtype=float) * scale
+    lo, hi = float(a.min()), float(a.max())
+    return f"{lo:{fmt}}" if lo == hi else f"{lo:{fmt}}..{hi:{fmt}}"
+
+
 # --------------------------------------------------------------------------
 # Chapter 3: design shear, side slopes, bends
 # --------------------------------------------------------------------------
@@ -290,8 +297,8 @@ def blodgett_n(average_depth, d50):
                                           "use Bathurst's relation for shallow flow over large stone")
     lo, hi = BLODGETT_RANGE
     if np.any((ratio < lo) | (ratio > hi)):
-        _warn(f"da/D50 = {float(ratio.min()):.3g}..{float(ratio.max()):.3g} is outside the range "
-              f"{lo:g} to {hi:g} of Blodgett's relation (HEC-15 Eq. 6.1)")
+        _warn(f"da/D50 = {_span(ratio)} is outside the range {lo:g} to {hi:g} of Blodgett's relation "
+              "(HEC-15 Eq. 6.1)")
     return _blodgett_n(da, d)
 
 
@@ -362,8 +369,8 @@ def _bathurst_range_warning(ratio):
     lo, hi = BATHURST_RANGE
     r = np.asarray(ratio)
     if np.any((r <= lo) | (r >= hi)):
-        _warn(f"da/D50 = {float(r.min()):.3g}..{float(r.max()):.3g} is outside the range {lo:g} to {hi:g} "
-              "of Bathurst's relation (HEC-15 Eq. 6.2)")
+        _warn(f"da/D50 = {_span(r)} is outside the range {lo:g} to {hi:g} of Bathurst's relation "
+              "(HEC-15 Eq. 6.2)")
 
 
 def _bathurst_n_manning(da, d50, top_width, hydraulic_radius, slope):
@@ -608,8 +615,8 @@ def _stone_size_warning(d50):
     lo, hi = STONE_SIZE_RANGE
     d = np.asarray(d50)
     if np.any((d < lo) | (d > hi)):
-        _warn(f"D50 = {float(d.min()) * 1000:.4g}..{float(d.max()) * 1000:.4g} mm is outside the "
-              f"{lo * 1000:g} to {hi * 1000:g} mm range of the HEC-15 Chapter 6 procedures")
+        _warn(f"D50 = {_span(d, 1000.0, '.4g')} mm is outside the {lo * 1000:g} to {hi * 1000:g} mm range "
+              "of the HEC-15 Chapter 6 procedures")
 
 
 class StoneSize(NamedTuple):
@@ -900,7 +907,7 @@ def required_d50_steep(depth, slope, side_slope, angle_of_repose, gamma_stone=GA
         return _steep_sf(d50, tau_side, theta, alpha, phi, f, gs, gw) - sf
 
     lo = 1e-6
-    hi = max(required_d50(y, s, gs, gw, v).d50 * 4.0, 1e-3)
+    hi = max(_required_d50_scalar(y * s / (gs / gw - 1.0), c) * 4.0, 1e-3)
     for _ in range(60):
         if excess(hi) > 0:
             break
