@@ -1,0 +1,5 @@
+"""Command-line sub-commands. Each module has ``register(subparsers)`` and sets ``run``."""
+
+from . import calc
+
+COMMANDS = (calc,)

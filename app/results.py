@@ -1,0 +1,54 @@
+"""The result quantities a user reads, with their labels and physical quantity.
+
+One list serves the command line, the desktop window and the design sheet, so
+a value carries the same name and unit everywhere.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+from hydraulics.units import UnitSystem
+
+
+@dataclass(frozen=True)
+class ResultField:
+    key: str        # JSON key and attribute of hydraulics.ChannelResult
+    label: str      # what the user reads
+    quantity: str   # hydraulics.units quantity ("length", "flow", ...) or "" for pure numbers/words
+    digits: int     # significant decimals shown in the chosen units
+
+
+CHANNEL_FIELDS = (
+    ResultField("normal_depth", "Normal depth", "length", 3),
+    ResultField("critical_depth", "Critical depth", "length", 3),
+    ResultField("velocity", "Velocity", "velocity", 2),
+    ResultField("froude", "Froude number", "", 2),
+    ResultField("regime", "Flow regime", "", 0),
+    ResultField("area", "Flow area", "area", 3),
+    ResultField("wetted_perimeter", "Wetted perimeter", "length", 3),
+    ResultField("top_width", "Top width of flow", "length", 3),
+    ResultField("hydraulic_radius", "Hydraulic radius", "length", 3),
+    ResultField("hydraulic_depth", "Hydraulic depth", "length", 3),
+    ResultField("critical_slope", "Critical slope", "slope", 5),
+    ResultField("specific_energy", "Specific energy", "length", 3),
+    ResultField("bed_shear", "Bed shear (gamma y S)", "shear", 2),
+    ResultField("manning_n", "Manning's n", "", 4),
+)
+
+
+def convert(value, quantity: str, units: UnitSystem):
+    """SI value -> the user's units (words and pure numbers pass through)."""
+    if quantity in ("", "slope") or isinstance(value, str) or value is None:
+        return value
+    return units.from_si(quantity, value)
+
+
+def format_value(value, field: ResultField, units: UnitSystem) -> str:
+    """A number in the user's units with its unit as a suffix, e.g. '1.234 ft'."""
+    v = convert(value, field.quantity, units)
+    if isinstance(v, str):
+        return v
+    unit = units.label(field.quantity) if field.quantity else ""
+    text = f"{v:.{field.digits}f}"
+    return f"{text} {unit}".rstrip()

@@ -1,0 +1,145 @@
+"""The full uniform-flow analysis of one channel (or of arrays of channels).
+
+Collects normal and critical depth with the quantities a designer reads off
+them. Formulas (Chow, V. T., *Open-Channel Hydraulics*, McGraw-Hill, 1959):
+
+* velocity V = Q / A;
+* Froude number Fr = V / sqrt(g D) on the hydraulic depth D = A / T (Eq. 1-5);
+* specific energy E = y + V^2 / (2 g) at normal depth (Eq. 3-1, alpha = 1);
+* critical slope S_c = (Q n / (A_c R_c^(2/3)))^2, the slope at which normal
+  depth equals critical depth (Sec. 6-6);
+* bed shear at the deepest point tau_d = gamma y S (FHWA HEC-15, Kilgore and
+  Cotton, 3rd ed., 2005, Eq. 3.1) and mean boundary shear tau_0 = gamma R S
+  (Chow 1959, Eq. 8-5).
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass, field
+
+import numpy as np
+
+from .constants import G, GAMMA_WATER, NU_WATER
+from .solvers import _n_value, resolve_roughness, solve_critical_depth, solve_normal_depth
+
+#: Froude numbers in this band are near critical: the water surface is wavy and
+#: unstable and small changes of n or flow swap the regime (common practice,
+#: from memory; design manuals differ slightly on the limits).
+NEAR_CRITICAL_BAND = (0.8, 1.2)
+#: Below this Reynolds number (V R / nu) the flow is not fully turbulent and
+#: Manning's equation with a constant n does not apply (Chow 1959, Sec. 1-5 and
+#: Fig. 8-1: laminar below about 500, transitional up to about 2000 on R).
+MIN_TURBULENT_REYNOLDS = 2000.0
+#: Regime is called "critical" when |Fr - 1| is below this (to rounding).
+CRITICAL_TOLERANCE = 1e-6
+
+
+@dataclass
+class ChannelResult:
+    """Uniform-flow state of a channel, SI. Fields are floats, or ndarrays for array input."""
+
+    flow: object
+    slope: object
+    normal_depth: object
+    critical_depth: object
+    velocity: object
+    froude: object
+    regime: object
+    area: object
+    wetted_perimeter: object
+    top_width: object
+    hydraulic_radius: object
+    hydraulic_depth: object
+    critical_slope: object
+    specific_energy: object
+    bed_shear: object
+    mean_shear: object
+    manning_n: object
+    reynolds: object
+    iterations: int
+    residual: object
+    warnings: list = field(default_factory=list)
+
+
+def flow_regime(froude):
+    """"subcritical" (Fr < 1), "supercritical" (Fr > 1) or "critical" (|Fr - 1| < 1e-6)."""
+    if np.ndim(froude):
+        fr = np.asarray(froude)
+        return np.where(np.abs(fr - 1) < CRITICAL_TOLERANCE, "critical",
+                        np.where(fr < 1, "subcritical", "supercritical"))
+    if abs(froude - 1) < CRITICAL_TOLERANCE:
+        return "critical"
+    return "subcritical" if froude < 1 else "supercritical"
+
+
+def _count(mask) -> str:
+    m = np.asarray(mask)
+    return "" if m.ndim == 0 else f"{int(m.sum())} of {m.size} channels: "
+
+
+def analyse(section, flow, slope, n=None) -> ChannelResult:
+    """Normal and critical depth with every derived quantity; see the module notes.
+
+    Parameters are those of :func:`hydraulics.normal_depth`. Raises what that
+    function raises. ``warnings`` lists, in words, results near or beyond the
+    limits of the method (near-critical flow, non-turbulent flow, a pipe
+    running above its full-flow capacity).
+    """
+    sol = solve_normal_depth(section, flow, slope, n)
+    crit = solve_critical_depth(section, flow)
+    y, yc = sol.depth, crit.depth
+    vector = np.ndim(y) > 0
+    q = np.broadcast_to(np.asarray(flow, dtype=float), np.shape(y)) if vector else float(flow)
+    s = np.broadcast_to(np.asarray(slope, dtype=float), np.shape(y)) if vector else float(slope)
+    sqrt = np.sqrt if vector else math.sqrt
+    rough = resolve_roughness(section, n)
+
+    geo = section._geometry(y)
+    area, perim, top = geo.area, geo.wetted_perimeter, geo.top_width
+    radius = area / perim
+    hyd_depth = area / top
+    v = q / area
+    fr = v / sqrt(G * hyd_depth)
+    n_used = _n_value(rough, section, y, s)
+
+    cgeo = section._geometry(yc)
+    rc = cgeo.area / cgeo.wetted_perimeter
+    n_crit = _n_value(rough, section, yc, s)
+    s_crit = (q * n_crit / (cgeo.area * rc ** (2 / 3))) ** 2
+    reynolds = v * radius / NU_WATER
+
+    warnings = []
+    lo, hi = NEAR_CRITICAL_BAND
+    near = (fr >= lo) & (fr <= hi)
+    if np.any(near):
+        warnings.append(f"{_count(near)}Froude number {_fmt(fr, near)} is near critical "
+                        f"({lo:g} to {hi:g}): the water surface will be unstable and wavy; "
+                        "allow extra freeboard or change the slope or section")
+    lam = reynolds < MIN_TURBULENT_REYNOLDS
+    if np.any(lam):
+        warnings.append(f"{_count(lam)}Reynolds number {_fmt(reynolds, lam)} is below "
+                        f"{MIN_TURBULENT_REYNOLDS:g}: the flow is not fully turbulent and Manning's "
+                        "equation is outside its range")
+    if section.kind == "circle":
+        # Above the full-pipe flow there are two part-full depths; the lower one is returned,
+        # and any disturbance can seal the pipe (common practice).
+        full_geo = section._geometry(section.diameter if not vector else np.full(np.shape(y), section.diameter))
+        q_full = full_geo.area * (full_geo.area / full_geo.wetted_perimeter) ** (2 / 3) * sqrt(s) / n_used
+        over = q > q_full
+        if np.any(over):
+            warnings.append(f"{_count(over)}the flow is above the pipe's full-flow capacity "
+                            f"({_fmt(q_full, over)} m^3/s): it runs just below the crown, where a small "
+                            "disturbance makes it surcharge; use a larger pipe")
+    return ChannelResult(
+        flow=q, slope=s, normal_depth=y, critical_depth=yc, velocity=v, froude=fr,
+        regime=flow_regime(fr), area=area, wetted_perimeter=perim, top_width=top,
+        hydraulic_radius=radius, hydraulic_depth=hyd_depth, critical_slope=s_crit,
+        specific_energy=y + v * v / (2 * G), bed_shear=GAMMA_WATER * y * s,
+        mean_shear=GAMMA_WATER * radius * s, manning_n=n_used, reynolds=reynolds,
+        iterations=max(sol.iterations, crit.iterations), residual=sol.residual, warnings=warnings)
+
+
+def _fmt(values, mask) -> str:
+    arr = np.asarray(values)
+    return f"{float(arr):.2f}" if arr.ndim == 0 else f"up to {float(np.max(arr[mask])):.3g}"

@@ -1,0 +1,215 @@
+"""Normal and critical depth: reference libraries, physical properties, refusals."""
+
+import math
+
+import numpy as np
+import pytest
+from fluids.open_flow import V_Manning
+from hypothesis import given, settings
+from hypothesis import strategies as st
+
+import hydraulics as hy
+
+flows = st.floats(1e-3, 500.0)
+slopes = st.floats(1e-5, 0.2)
+ns = st.floats(0.010, 0.080)
+widths = st.floats(0.1, 20.0)
+zs = st.floats(0.0, 6.0)
+
+
+@st.composite
+def open_sections(draw):
+    kind = draw(st.sampled_from(["trapezoid", "triangle", "rectangle", "parabola"]))
+    if kind == "trapezoid":
+        return hy.Trapezoid(bottom_width=draw(widths), left_slope=draw(zs), right_slope=draw(zs))
+    if kind == "triangle":
+        return hy.Triangle(left_slope=draw(st.floats(0.25, 6)), right_slope=draw(zs))
+    if kind == "rectangle":
+        return hy.Rectangle(bottom_width=draw(widths))
+    return hy.Parabola(top_width=draw(widths), at_depth=draw(st.floats(0.1, 3.0)))
+
+
+def test_manning_velocity_matches_fluids_library():
+    # fluids.open_flow.V_Manning(Rh, S, n) = Rh^(2/3) S^(1/2) / n (Caleb Bell, fluids, general-purpose library).
+    s = hy.Trapezoid(bottom_width=1.5, side_slope=2.5)
+    y = 0.7
+    q = hy.flow_at_depth(s, y, 0.003, 0.022)
+    assert q / s.area(y) == pytest.approx(V_Manning(s.hydraulic_radius(y), 0.003, 0.022), rel=1e-13)
+
+
+@settings(max_examples=150, deadline=None)
+@given(open_sections(), flows, slopes, ns)
+def test_solved_depth_reproduces_flow(section, q, s, n):
+    y = hy.normal_depth(section, q, s, n)
+    assert abs(hy.flow_at_depth(section, y, s, n) - q) / q <= 1e-10
+
+
+@settings(max_examples=100, deadline=None)
+@given(open_sections(), flows, slopes, ns)
+def test_normal_depth_monotone(section, q, s, n):
+    y = hy.normal_depth(section, q, s, n)
+    assert hy.normal_depth(section, q * 1.2, s, n) > y
+    assert hy.normal_depth(section, q, s, n * 1.2) > y
+    assert hy.normal_depth(section, q, s * 1.2, n) < y
+
+
+@settings(max_examples=100, deadline=None)
+@given(open_sections(), flows)
+def test_critical_depth_satisfies_criterion(section, q):
+    yc = hy.critical_depth(section, q)
+    g = section.properties(yc)
+    assert q * q * g.top_width / (hy.G * g.area ** 3) == pytest.approx(1.0, rel=1e-10)
+
+
+def test_critical_depth_independent_of_slope_and_n():
+    s = hy.Trapezoid(bottom_width=1, side_slope=2)
+    r1, r2 = hy.analyse(s, 2.0, 0.001, 0.015), hy.analyse(s, 2.0, 0.05, 0.05)
+    assert r1.critical_depth == r2.critical_depth
+    assert r1.normal_depth != r2.normal_depth
+
+
+@settings(max_examples=30, deadline=None)
+@given(st.lists(st.tuples(flows, slopes, ns), min_size=1, max_size=40), widths, zs)
+def test_vectorised_equals_scalar(rows, b, z):
+    section = hy.Trapezoid(bottom_width=b, side_slope=z)
+    q, s, n = (np.array(c) for c in zip(*rows))
+    vec = hy.normal_depth(section, q, s, n)
+    assert isinstance(vec, np.ndarray) and vec.shape == q.shape
+    scal = [hy.normal_depth(section, *r) for r in rows]
+    np.testing.assert_allclose(vec, scal, rtol=1e-11)
+    np.testing.assert_allclose(hy.critical_depth(section, q), [hy.critical_depth(section, r[0]) for r in rows], rtol=1e-11)
+
+
+def test_broadcasting_and_array_dimensions():
+    section = hy.Trapezoid(bottom_width=np.array([0.5, 1.0, 2.0]), side_slope=2.0)
+    y = hy.normal_depth(section, 1.0, np.array([[0.001], [0.01]]), 0.03)
+    assert y.shape == (2, 3)
+    assert y[0, 0] == pytest.approx(hy.normal_depth(hy.Trapezoid(bottom_width=0.5, side_slope=2), 1.0, 0.001, 0.03))
+
+
+def test_inputs_not_modified():
+    q = np.array([1.0, 2.0])
+    before = q.copy()
+    hy.normal_depth(hy.Rectangle(bottom_width=1), q, 0.01, 0.015)
+    np.testing.assert_array_equal(q, before)
+
+
+def test_circle_capacity_peak_published():
+    # Largest part-full flow at y/D = 0.938 with Q/Q_full = 1.076 (White, Fluid Mechanics, Eq. 10.21 and
+    # discussion; also Chow 1959, Fig. 6-? style charts -- the two values here are from memory of both).
+    assert hy.CIRCLE_CAPACITY_RATIO == pytest.approx(0.938, abs=5e-4)
+    c = hy.Circle(diameter=0.9)
+    ratio = hy.max_flow(c, 0.002, 0.013) / hy.flow_at_depth(c, 0.9, 0.002, 0.013)
+    assert ratio == pytest.approx(1.076, abs=5e-4)
+
+
+def test_circle_half_full_carries_half_the_full_flow():
+    # Closed form: at y = D/2 both A and R are half and equal of the full values -> Q = Q_full / 2.
+    c = hy.Circle(diameter=0.6)
+    q_full = hy.flow_at_depth(c, 0.6, 0.004, 0.013)
+    assert hy.normal_depth(c, q_full / 2, 0.004, 0.013) == pytest.approx(0.3, rel=1e-10)
+
+
+def test_pipe_above_full_flow_returns_lower_depth_with_warning():
+    c = hy.Circle(diameter=1.0)
+    q = 1.03 * hy.flow_at_depth(c, 1.0, 0.002, 0.013)
+    r = hy.analyse(c, q, 0.002, 0.013)
+    assert r.normal_depth < hy.CIRCLE_CAPACITY_RATIO
+    assert any("full-flow capacity" in w for w in r.warnings)
+
+
+def test_irregular_uses_its_own_composite_n():
+    ir = hy.Irregular([0, 2, 4, 6], [1.0, 0, 0, 1.0], n=[0.035, 0.015, 0.035])
+    y = hy.normal_depth(ir, 0.6, 0.004)
+    assert hy.flow_at_depth(ir, y, 0.004) == pytest.approx(0.6, rel=1e-10)
+    assert 0.015 < ir.composite_n(y) < 0.035
+
+
+def test_rectangle_critical_closed_form():
+    # y_c = (q^2/g)^(1/3) (Chow 1959, Eq. 4-5 for a rectangular section).
+    assert hy.critical_depth(hy.Rectangle(bottom_width=3), 6.0) == pytest.approx((4 / hy.G) ** (1 / 3), rel=1e-12)
+
+
+def test_triangle_critical_closed_form():
+    # A = z y^2, T = 2 z y  ->  y_c = (2 Q^2 / (g z^2))^(1/5).
+    assert hy.critical_depth(hy.Triangle(side_slope=3), 0.5) == pytest.approx((2 * 0.25 / (hy.G * 9)) ** 0.2, rel=1e-12)
+
+
+def test_analysis_fields_consistent():
+    r = hy.analyse(hy.Trapezoid(bottom_width=1.2, side_slope=3), 1.5, 0.006, 0.028)
+    assert r.velocity == pytest.approx(1.5 / r.area)
+    assert r.froude == pytest.approx(r.velocity / math.sqrt(hy.G * r.area / r.top_width))
+    assert r.regime == ("subcritical" if r.froude < 1 else "supercritical")
+    assert r.bed_shear == pytest.approx(hy.GAMMA_WATER * r.normal_depth * 0.006)
+    assert r.specific_energy == pytest.approx(r.normal_depth + r.velocity ** 2 / (2 * hy.G))
+    # At the critical slope the normal depth equals the critical depth.
+    yc = hy.normal_depth(hy.Trapezoid(bottom_width=1.2, side_slope=3), 1.5, r.critical_slope, 0.028)
+    assert yc == pytest.approx(r.critical_depth, rel=1e-9)
+    assert r.residual <= hy.FLOW_TOLERANCE
+
+
+def test_near_critical_warning():
+    s = hy.Rectangle(bottom_width=2.0)
+    sc = hy.analyse(s, 2.0, 0.001, 0.015).critical_slope
+    r = hy.analyse(s, 2.0, sc, 0.015)
+    assert r.froude == pytest.approx(1.0, abs=1e-6)
+    assert any("near critical" in w for w in r.warnings)
+
+
+def test_bottom_width_for_depth():
+    b = hy.bottom_width_for_depth(3.0, 0.002, 0.015, 0.6, side_slope=2)
+    assert hy.normal_depth(hy.Trapezoid(bottom_width=b, side_slope=2), 3.0, 0.002, 0.015) == pytest.approx(0.6, rel=1e-9)
+    assert hy.bottom_width_for_depth(0.05, 0.002, 0.015, 0.6, side_slope=2) == 0.0
+    b = hy.bottom_width_for_depth(3.0, 0.002, 0.015, 0.6)
+    assert hy.normal_depth(hy.Rectangle(bottom_width=b), 3.0, 0.002, 0.015) == pytest.approx(0.6, rel=1e-9)
+
+
+def test_slope_range_for_velocity():
+    s = hy.Trapezoid(bottom_width=0.6, side_slope=3)
+    lo, hi = hy.slope_range_for_velocity(s, 0.8, 0.03, 0.6, 1.8)
+    for slope, v in ((lo, 0.6), (hi, 1.8)):
+        y = hy.normal_depth(s, 0.8, slope, 0.03)
+        assert 0.8 / s.area(y) == pytest.approx(v, rel=1e-9)
+    with pytest.raises(hy.NoSolutionError):
+        hy.slope_range_for_velocity(s, 0.001, 0.08, 5.0, 6.0)
+
+
+@pytest.mark.parametrize("kwargs, field", [
+    (dict(flow=0.0), "flow"), (dict(flow=-1.0), "flow"), (dict(flow=float("nan")), "flow"),
+    (dict(flow=float("inf")), "flow"), (dict(flow="ten"), "flow"),
+    (dict(slope=0.0), "slope"), (dict(slope=-0.002), "slope"), (dict(slope=2.0), "slope"),
+    (dict(n=0.0), "n"), (dict(n=-0.01), "n"), (dict(n=None), "n"), (dict(n=np.array([0.01, np.nan])), "n"),
+])
+def test_bad_inputs_are_refused(kwargs, field):
+    args = dict(flow=1.0, slope=0.002, n=0.015)
+    args.update(kwargs)
+    with pytest.raises(hy.InputError) as err:
+        hy.normal_depth(hy.Rectangle(bottom_width=1), **args)
+    assert err.value.field == field
+
+
+def test_percent_slope_hint():
+    with pytest.raises(hy.InputError, match="if you meant 2 %, enter 0.02"):
+        hy.normal_depth(hy.Rectangle(bottom_width=1), 1.0, 2.0, 0.015)
+
+
+def test_surcharged_pipe_and_overtopped_section_have_no_solution():
+    with pytest.raises(hy.NoSolutionError, match="surcharge"):
+        hy.normal_depth(hy.Circle(diameter=0.3), 1.0, 0.001, 0.013)
+    with pytest.raises(hy.NoSolutionError, match="overtops"):
+        hy.normal_depth(hy.Irregular([0, 1, 2], [0.3, 0, 0.3], n=0.03), 5.0, 0.001)
+    with pytest.raises(hy.NoSolutionError, match="above the lower bank"):
+        hy.critical_depth(hy.Irregular([0, 1, 2], [0.3, 0, 0.3], n=0.03), 5.0)
+
+
+def test_roughness_model_coupled_solve():
+    class DeeperIsSmoother:  # n falls with depth, as for stone by Blodgett's relation
+        def manning_n(self, section, depth, slope):
+            return 0.02 + 0.02 / (1 + 5 * np.asarray(depth)) if np.ndim(depth) else 0.02 + 0.02 / (1 + 5 * depth)
+
+    s, model = hy.Trapezoid(bottom_width=1, side_slope=2), DeeperIsSmoother()
+    y = hy.normal_depth(s, 1.2, 0.01, model)
+    n_at = model.manning_n(s, y, 0.01)
+    assert hy.flow_at_depth(s, y, 0.01, n_at) == pytest.approx(1.2, rel=1e-10)
+    ys = hy.normal_depth(s, np.array([1.2, 2.4]), 0.01, model)
+    assert ys[0] == pytest.approx(y, rel=1e-11)
