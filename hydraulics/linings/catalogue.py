@@ -19,6 +19,7 @@ standard library); every error names the file, the entry and the field.
 from __future__ import annotations
 
 import copy
+import importlib.resources
 import math
 import re
 import tomllib
@@ -52,9 +53,12 @@ class CatalogueError(InputError):
     """A catalogue file or entry that does not follow the schema."""
 
 
-def shipped_catalogue_path() -> Path:
-    """Path of the shipped, read-only catalogue, ``resources/linings.toml``."""
-    return Path(__file__).resolve().parents[2] / "resources" / "linings.toml"
+SHIPPED_NAME = "linings.toml"
+
+
+def shipped_catalogue_path():
+    """The shipped, read-only catalogue ``resources/linings.toml`` (an importlib.resources Traversable)."""
+    return importlib.resources.files("resources").joinpath(SHIPPED_NAME)
 
 
 # --------------------------------------------------------------------------
@@ -472,13 +476,16 @@ def parse_catalogue(data: dict, origin: str = "catalogue") -> Catalogue:
 
 
 def read_catalogue_file(path) -> dict:
-    """Parse a TOML catalogue file; syntax errors become CatalogueError naming the file."""
-    p = Path(path)
+    """Parse a TOML catalogue file (a path or a Traversable); errors become CatalogueError naming the file."""
+    p = path if hasattr(path, "read_bytes") and not isinstance(path, str) else Path(path)
     try:
-        with p.open("rb") as fh:
-            return tomllib.load(fh)
+        text = p.read_bytes().decode("utf-8")
     except FileNotFoundError:
         raise CatalogueError("catalogue", f"file not found: {p}") from None
+    except UnicodeDecodeError as exc:
+        raise CatalogueError("catalogue", f"{p} is not UTF-8 text: {exc}") from None
+    try:
+        return tomllib.loads(text)
     except tomllib.TOMLDecodeError as exc:
         raise CatalogueError("catalogue", f"{p} is not valid TOML: {exc}") from None
 
@@ -486,7 +493,8 @@ def read_catalogue_file(path) -> dict:
 def load_catalogue(path=None, user_path=None) -> Catalogue:
     """The shipped catalogue (or ``path``), with the user catalogue at ``user_path`` merged over it.
 
-    A missing user file is not an error (the user has not made one yet).
+    The shipped file is only read, never written. A missing user file is not an
+    error (the user has not made one yet).
     """
     p = Path(path) if path is not None else shipped_catalogue_path()
     cat = parse_catalogue(read_catalogue_file(p), p.name)
