@@ -16,8 +16,6 @@ a depth outside the relation's range of validity.
 
 from __future__ import annotations
 
-import math
-
 import numpy as np
 
 from .. import validate
@@ -50,16 +48,26 @@ class StoneRoughness:
     method : str
         "auto" (default): Blodgett's relation, HEC-15 Eq. 6.1, where
         da/D50 >= 1.5 and Bathurst's relation, Eq. 6.2, below (the split
-        HEC-15 recommends); "blodgett" or "bathurst" to force one; "strickler"
-        for the depth-independent n = 0.034 D^(1/6) (D in ft; Chow, 1959).
+        HEC-15 recommends); "blodgett" or "bathurst" to force one relation
+        at every depth; "strickler" for the depth-independent
+        n = 0.034 D^(1/6) (D in ft; Chow, 1959).
 
     Notes
     -----
-    da = A/T is the average depth of HEC-15; Bathurst's Froude number comes
-    from Manning's equation (see :func:`hec15.bathurst_n_manning`). In "auto"
-    the two relations do not meet at da/D50 = 1.5, so n jumps there; a flow
-    whose normal depth falls in the jump has no uniform-flow depth by this
-    model and the solver reports that.
+    da = A/T is the average depth of HEC-15. Bathurst's Froude number comes
+    from Manning's equation (:func:`hec15.bathurst_n_manning`); the pair has
+    a solution only where the exponent p = log10(0.755/b) of Eq. 6.3 is below
+    1 (b > 0.0755), and it is very sensitive as p approaches 1.
+
+    Rule of this program (not of HEC-15), in "auto" only: where Bathurst's
+    relation is outside its range (da/D50 <= 0.3) or has no solution
+    (p >= 1), n is held at Blodgett's value at the bottom of its range,
+    da/D50 = 1.5. Such depths are normally only trial depths of the solver;
+    without the rule Bathurst's relation there gives arbitrary n and false
+    normal depths. :meth:`check` reports a result that falls there.
+
+    In "auto" the two relations do not meet at da/D50 = 1.5, so n jumps
+    there; near that depth the uniform-flow depth may not be unique.
     """
 
     def __init__(self, d50, method: str = "auto"):
@@ -69,44 +77,47 @@ class StoneRoughness:
         if method not in STONE_METHODS:
             raise InputError("method", f"must be one of {', '.join(STONE_METHODS)}, got {method!r}")
         self.method = method
+        self.n_hold = hec15._blodgett_n(hec15.BLODGETT_RANGE[0] * self.d50, self.d50)
 
     def __repr__(self):
         return f"StoneRoughness(d50={self.d50:g}, method={self.method!r})"
+
+    def _regions(self, section, depth, slope):
+        """(n, relation code) arrays: 0 Blodgett, 1 Bathurst, 2 held value (auto rule)."""
+        da, r, top = _average_depth(section, depth)
+        ratio = np.asarray(da / self.d50, dtype=float)
+        with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
+            blod = np.where(ratio > hec15._BLODGETT_POLE, hec15._blodgett_n(np.asarray(da, float), self.d50), np.nan)
+            b, p, _ = hec15._bathurst_terms(np.asarray(da, float), self.d50, np.asarray(top, float))
+            bath = np.asarray(hec15._bathurst_n_manning(np.asarray(da, float), self.d50, np.asarray(top, float),
+                                                        np.asarray(r, float), slope), dtype=float)
+        if self.method == "blodgett":
+            return blod, np.zeros(ratio.shape, int)
+        if self.method == "bathurst":
+            return bath, np.ones(ratio.shape, int)
+        lo = hec15.BATHURST_RANGE[0]
+        code = np.where(ratio >= hec15.BLODGETT_RANGE[0], 0,
+                        np.where((ratio > lo) & (np.asarray(p) < 1.0) & np.isfinite(bath) & (bath > 0), 1, 2))
+        n = np.where(code == 0, blod, np.where(code == 1, bath, self.n_hold))
+        return n, code
 
     def manning_n(self, section, depth, slope):
         """Manning's n [s/m^(1/3)] at ``depth`` [m] and ``slope`` [m/m]; no checks (solver use)."""
         if self.method == "strickler":
             n = 0.034 * (self.d50 / 0.3048) ** (1.0 / 6.0)
             return np.full(np.shape(depth), n) if np.ndim(depth) else n
-        da, r, top = _average_depth(section, depth)
-        with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
-            if self.method == "blodgett":
-                return self._blodgett(da)
-            bath = hec15._bathurst_n_manning(da, self.d50, top, r, slope)
-            if self.method == "bathurst":
-                return bath
-            ratio = da / self.d50
-            if np.ndim(ratio) or np.ndim(bath):
-                blod = self._blodgett(da)
-                return np.where(ratio >= hec15.BLODGETT_RANGE[0], blod, bath)
-            return self._blodgett(da) if ratio >= hec15.BLODGETT_RANGE[0] else bath
+        n, _ = self._regions(section, depth, slope)
+        return n if np.ndim(n) else float(n)
 
-    def _blodgett(self, da):
-        ratio = da / self.d50
-        if np.ndim(ratio):
-            with np.errstate(divide="ignore", invalid="ignore"):
-                return np.where(ratio > hec15._BLODGETT_POLE, hec15._blodgett_n(da, self.d50), np.nan)
-        return hec15._blodgett_n(da, self.d50) if ratio > hec15._BLODGETT_POLE else math.nan
-
-    def relation(self, section, depth) -> str:
-        """Name of the relation used at ``depth`` (scalar)."""
-        if self.method != "auto":
-            return self.method
-        da, _, _ = _average_depth(section, depth)
-        return "blodgett" if float(np.min(da / self.d50)) >= hec15.BLODGETT_RANGE[0] else "bathurst"
+    def relation(self, section, depth, slope=0.01) -> str:
+        """Relation used at a (scalar) ``depth``: "blodgett", "bathurst", "held" or "strickler"."""
+        if self.method == "strickler":
+            return "strickler"
+        _, code = self._regions(section, depth, slope)
+        return ("blodgett", "bathurst", "held")[int(np.max(code))]
 
     def check(self, section, depth, slope) -> list[str]:
-        """Warnings for ``depth`` outside the range of the relation used."""
+        """Warnings, in words, for ``depth`` outside the range of the relation used."""
         out = []
         lo, hi = hec15.STONE_SIZE_RANGE
         if not lo <= self.d50 <= hi:
@@ -115,19 +126,19 @@ class StoneRoughness:
         if self.method == "strickler":
             return out
         da, _, _ = _average_depth(section, depth)
-        ratio = np.asarray(da / self.d50)
-        used = self.relation(section, depth) if self.method == "auto" else self.method
-        if used == "blodgett":
-            a, b = hec15.BLODGETT_RANGE
-            if np.any((ratio < a) | (ratio > b)):
-                out.append(f"da/D50 = {float(ratio.min()):.3g} is outside {a:g} to {b:g}, the range of Blodgett's "
-                           "relation (HEC-15 Eq. 6.1)" if ratio.size == 1 else
-                           f"da/D50 outside {a:g} to {b:g} (Blodgett's relation, HEC-15 Eq. 6.1)")
-        else:
-            a, b = hec15.BATHURST_RANGE
-            if np.any((ratio <= a) | (ratio >= b)):
-                out.append(f"da/D50 = {float(ratio.min()):.3g} is outside {a:g} to {b:g}, the range of Bathurst's "
-                           "relation (HEC-15 Eq. 6.2)")
+        ratio = np.asarray(da / self.d50, dtype=float)
+        _, code = self._regions(section, depth, slope)
+        text = hec15._span(ratio)
+        a, b = hec15.BLODGETT_RANGE
+        if np.any((code == 0) & ((ratio < a) | (ratio > b))):
+            out.append(f"da/D50 = {text} is outside {a:g} to {b:g}, the range of Blodgett's relation (HEC-15 Eq. 6.1)")
+        a, b = hec15.BATHURST_RANGE
+        if np.any((code == 1) & ((ratio <= a) | (ratio >= b))):
+            out.append(f"da/D50 = {text} is outside {a:g} to {b:g}, the range of Bathurst's relation (HEC-15 Eq. 6.2)")
+        if np.any(code == 2):
+            out.append(f"da/D50 = {text}: the flow is too shallow for Bathurst's relation (HEC-15 Eq. 6.2); "
+                       f"n is held at Blodgett's value at da/D50 = 1.5 ({self.n_hold:.3f}), a rule of this "
+                       "program, not of HEC-15")
         return out
 
     def to_dict(self) -> dict:
