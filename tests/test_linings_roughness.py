@@ -141,3 +141,38 @@ def test_blodgett_method_refuses_depths_without_a_positive_n():
         warnings.simplefilter("ignore", ValidityWarning)
         with pytest.raises(hy.NoSolutionError):
             hy.normal_depth(section, 0.05, 0.02, n=r)
+
+
+def _depth_at_ratio(section, d50, ratio):
+    return brentq(lambda y: section.area(y) / section.top_width(y) / d50 - ratio, 1e-6, 50.0, xtol=1e-15)
+
+
+def test_auto_n_is_continuous_across_the_hec15_split():
+    # HEC-15 Section 6.1 switches from Bathurst (Eq. 6.2) to Blodgett (Eq. 6.1) at da/D50 = 1.5;
+    # here the two differ by about 50 %, and the program's rule bridges them over 1.5 to 1.53.
+    section = hy.Trapezoid(bottom_width=1.0, side_slope=3.0)
+    r = StoneRoughness(0.15)
+    s = 0.0005
+    y0 = _depth_at_ratio(section, 0.15, 1.5)
+    y1 = _depth_at_ratio(section, 0.15, 1.5 * 1.02)
+    below, above = r.manning_n(section, y0 * (1 - 1e-9), s), r.manning_n(section, y0 * (1 + 1e-9), s)
+    assert below == pytest.approx(above, rel=1e-6)
+    assert r.manning_n(section, y1 * (1 + 1e-9), s) == pytest.approx(r.manning_n(section, y1 * (1 - 1e-9), s),
+                                                                       rel=1e-6)
+    g = section.properties(y1 * 1.001)
+    assert r.manning_n(section, y1 * 1.001, s) == pytest.approx(hec15.blodgett_n(g.area / g.top_width, 0.15))
+    ym = 0.5 * (y0 + y1)
+    assert r.relation(section, ym, s) == "transition"
+    assert any("between the two" in w for w in r.check(section, ym, s))
+    # the flow that fell in the jump now has a depth, at da/D50 of about 1.5
+    y = hy.normal_depth(section, 0.0625, s, n=r)
+    assert y0 <= y <= y1
+
+
+def test_auto_n_below_bathurst_range_is_held_and_reported():
+    section = hy.Trapezoid(bottom_width=2.0, side_slope=3.0)
+    r = StoneRoughness(0.1)
+    y = _depth_at_ratio(section, 0.1, 0.2)
+    assert r.relation(section, y, 0.1) == "held"
+    assert any("too shallow" in w for w in r.check(section, y, 0.1))
+    assert r.manning_n(section, y, 0.1) == pytest.approx(r.manning_n(section, 0.5 * y, 0.1), rel=1e-12)
