@@ -8,8 +8,7 @@ factors of Chapter 3, and Manning's equation (Chow 1959, Eq. 5-6).
 import math
 import warnings
 
-import numpy as np
-from hypothesis import assume, given, settings
+from hypothesis import given, settings
 from hypothesis import strategies as st
 
 import hydraulics as hy
@@ -21,13 +20,6 @@ flow = st.floats(0.05, 20.0)
 width = st.floats(0.2, 6.0)
 side = st.floats(0.0, 6.0)
 d50s = st.floats(0.015, 0.55)
-
-
-def _quiet():
-    w = warnings.catch_warnings()
-    w.__enter__()
-    warnings.simplefilter("ignore", ValidityWarning)
-    return w
 
 
 @given(depth, slope, st.floats(1.01, 3.0))

@@ -11,7 +11,6 @@ import warnings
 
 import numpy as np
 import pytest
-from scipy.optimize import brentq
 
 from hydraulics.errors import InputError, NoSolutionError
 from hydraulics.linings import ValidityWarning, hec15

@@ -16,7 +16,9 @@ Verified (read in the HEC-15 text):
   the form of Eq. 6.2 (alpha = 1.0 SI, terms f(Fr), f(REG), f(CG)) and its
   range 0.3 < da/D50 < 8.0; Eq. 6.7, 6.8, 6.9 with nu = 1.131e-6 m^2/s,
   gamma = 9810 N/m^3 and the typical stone unit weight 25 900 N/m^3;
-  Eq. 3.1 and 3.2 as quoted in Section 6.2; the size classes of Chapter 6
+  Eq. 3.1 (Chapter 3.1) and Eq. 3.2 as quoted in Section 6.2; the order of
+  Chapter 3 (straight channels, side slopes, composite linings, bends, steep
+  slopes); the size classes of Chapter 6
   (gravel 15-64 mm, cobble 64-130 mm, riprap 130-550 mm); the form of Eq. D.1.
 From memory (checked only for internal consistency, see each function):
   Eq. 6.3-6.6, Table 6.1, K1, Kb, Lp, K2, Appendix D stability terms,
@@ -45,7 +47,7 @@ from ..errors import InputError, NoSolutionError
 __all__ = [
     "ValidityWarning", "NU_HEC15", "GAMMA_STONE", "SHIELDS_LOW", "SHIELDS_HIGH", "SF_LOW", "SF_HIGH",
     "RE_LOW", "RE_HIGH", "BLODGETT_RANGE", "BATHURST_RANGE", "STONE_SIZE_RANGE", "STEEP_SLOPE",
-    "MIN_FREEBOARD", "design_shear", "blodgett_n", "bathurst_n", "bathurst_n_manning", "strickler_n",
+    "MIN_FREEBOARD", "FINE_D75", "COARSE_D75", "design_shear", "blodgett_n", "bathurst_n", "bathurst_n_manning", "strickler_n",
     "shear_velocity", "particle_reynolds", "shields_and_safety_factor", "stone_permissible_shear",
     "StoneSize", "required_d50", "side_slope_factor", "bend_factor", "bend_protection_length",
     "tractive_force_ratio", "required_d50_side", "steep_slope_safety_factor", "required_d50_steep",
@@ -164,7 +166,8 @@ def side_slope_factor(side_slope):
 
     Notes
     -----
-    From memory (HEC-15 Section 3.3, side slope shear). The three pieces meet
+    From memory (HEC-15 Section 3.2, side slope stability; section number inferred
+    from the chapter outline, equation from memory). The three pieces meet
     at Z = 1.5 (0.769) and Z = 5 (1.000), which supports the recollection.
     Z = 0 (vertical walls) is given 0.77 as the steepest tabulated case.
 
@@ -1206,10 +1209,9 @@ def cohesive_permissible_shear(soil_class: str, plasticity_index, void_ratio):
         _warn(f"void ratio {e:g} is unusually high for the cohesive-soil relation (HEC-15 Table 4.6)")
     for lo, hi, c1, c2, c3, c4, c5, c6 in rows:
         if lo <= pi < hi or (hi == math.inf and pi >= lo):
-            base = (c1 * pi * pi + c2 * pi + c3) * (c4 + c5 * e) ** 2 * c6
             if c4 + c5 * e <= 0:
                 raise InputError("void_ratio", f"must be < {-c4 / c5:.3g} for a {key} soil in this relation, got {e:g}")
-            return base
+            return (c1 * pi * pi + c2 * pi + c3) * (c4 + c5 * e) ** 2 * c6
     raise AssertionError("unreachable")  # pragma: no cover
 
 
