@@ -25,6 +25,7 @@ import os
 import sys
 import tempfile
 from dataclasses import dataclass, field
+from itertools import repeat
 from pathlib import Path
 
 import numpy as np
@@ -56,7 +57,7 @@ class Inventory:
     header_text: str        # the header line, CSV-encoded
     rows: list              # per record: its fields as CSV text (carried through unchanged)
     lines: np.ndarray       # per record: the line number where it starts (the header is line 1)
-    ids: list               # per record: the id as written
+    ids: list               # per record: the id as written (surrounding blanks kept)
     reaches: hb.Reaches
     blank_lines: list = field(default_factory=list)
 
@@ -74,42 +75,52 @@ def _decode(data: bytes, source: str) -> str:
                              "'CSV UTF-8' and try again") from None
 
 
-def _records(text: str):
-    """(header fields, [(line, fields)], blank line numbers, fast) for CSV ``text``.
+def _split_fast(text: str):
+    """Records of a CSV text without double quotes: (header line, header fields, record lines, numbers, blanks).
 
-    Files without a double quote (the usual export) are split directly, which
-    is several times faster than the csv module; ``fast`` says so, and then
-    each record's fields are exactly its line split at the commas.
+    Each record's fields are exactly its line split at the commas, so the
+    line itself is what is carried through to the results.
     """
-    text = text.replace("\r\n", "\n").replace("\r", "\n")
-    if '"' not in text:
-        lines = text.split("\n")
-        if lines and lines[-1] == "":
-            lines.pop()
-        out, blank, header = [], [], None
-        for number, line in enumerate(lines, start=1):
-            if not line.strip():
-                blank.append(number)
-            elif header is None:
-                header = (number, line.split(","))
-            else:
-                out.append((number, line))
-        return header, out, blank, True
+    lines = text.split("\n")
+    if lines and lines[-1] == "":
+        lines.pop()
+    commas = np.fromiter(map(str.count, lines, repeat(",", len(lines))), dtype=np.int64, count=len(lines))
+    blank = [int(i) for i in np.flatnonzero(commas == 0) if not lines[i].strip()]
+    keep = np.ones(len(lines), dtype=bool)
+    keep[blank] = False
+    kept = np.flatnonzero(keep)
+    if not len(kept):
+        return None
+    head = int(kept[0])
+    rows_at = kept[1:]
+    if len(rows_at) == len(lines) - head - 1:
+        records = lines[head + 1:]
+    else:
+        records = [lines[i] for i in rows_at]
+    return head + 1, lines[head].split(","), records, rows_at + 1, [b + 1 for b in blank], commas[rows_at] + 1
+
+
+def _split_csv(text: str, source: str):
+    """The same as :func:`_split_fast` by the csv module, for files that quote fields."""
     reader = csv.reader(io.StringIO(text, newline=""), strict=True)
-    out, blank, header = [], [], None
+    records, numbers, blank, header = [], [], [], None
     start = 1
     try:
         for fields in reader:
-            if not fields or all(not f.strip() for f in fields) and len(fields) == 1:
+            if not fields or (len(fields) == 1 and not fields[0].strip()):
                 blank.append(start)
             elif header is None:
                 header = (start, fields)
             else:
-                out.append((start, fields))
+                records.append(fields)
+                numbers.append(start)
             start = reader.line_num + 1
     except csv.Error as exc:
-        raise InventoryError(f"line {reader.line_num}: {exc} (check the quotes)") from None
-    return header, out, blank, False
+        raise InventoryError(f"{source}: line {reader.line_num}: {exc} (check the quotes)") from None
+    if header is None:
+        return None
+    return header[0], header[1], records, np.array(numbers, dtype=np.int64), blank, \
+        np.array([len(f) for f in records], dtype=np.int64)
 
 
 def _check_header(fields, source):
@@ -149,37 +160,43 @@ def _hint(text: str) -> str:
 
 
 def _numbers(texts, name, notes, unreadable):
-    """Parse one column; blanks -> nan; anything else that is not a finite number is noted per row."""
+    """Parse one column: blanks -> nan; anything that is not a finite number is noted on its row.
+
+    The common case (plain numbers and empty fields) is converted in one
+    numpy call. Text with letters that could spell nan or inf, underscores
+    (which Python's float accepts) or anything float refuses is read one
+    entry at a time.
+    """
     size = len(texts)
+    if not size:
+        return np.zeros(0)
     joined = "".join(texts)
-    values = None
-    if "_" not in joined:
+    if not any(c in joined for c in "_nN"):
         try:
-            values = np.array(texts, dtype=float) if size else np.zeros(0)
+            values = np.fromiter(map(float, [t or "nan" for t in texts] if "" in texts else texts), dtype=float,
+                                 count=size)
+            if not np.isinf(values).any():
+                return values
         except ValueError:
-            try:
-                values = np.array([float(t) if t else math.nan for t in texts], dtype=float)
-            except ValueError:
-                values = None
+            pass
+    values = np.full(size, math.nan)
     bad = np.zeros(size, dtype=bool)
-    if values is None:  # some entry is not a plain number: go one by one
-        values = np.full(size, math.nan)
-        for i, t in enumerate(texts):
-            t = t.strip()
-            if not t:
-                continue
-            try:
-                if "_" in t:
-                    raise ValueError
-                values[i] = float(t)
-            except ValueError:
-                bad[i] = True
-                _add_note(notes, i, f"{name}: not a number, got {t!r}{_hint(t)}")
-    for i in np.flatnonzero(~np.isfinite(values)):
-        t = texts[i].strip()
-        if t and not bad[i]:
+    for i, raw in enumerate(texts):
+        t = raw.strip()
+        if not t:
+            continue
+        try:
+            if "_" in t:
+                raise ValueError
+            v = float(t)
+        except ValueError:
             bad[i] = True
-            values[i] = math.nan
+            _add_note(notes, i, f"{name}: not a number, got {t!r}{_hint(t)}")
+            continue
+        if math.isfinite(v):
+            values[i] = v
+        else:
+            bad[i] = True
             _add_note(notes, i, f"{name}: must be a finite number, got {t!r}")
     if bad.any():
         unreadable[name] = bad
@@ -190,16 +207,12 @@ def _add_note(notes, i, text):
     notes[i] = f"{notes[i]}; {text}" if notes[i] else text
 
 
-def _texts(texts):
-    """Shape and lining text: blanks stripped, shapes compared in lower case."""
-    cache = {}
-    out = np.empty(len(texts), dtype=object)
-    for i, t in enumerate(texts):
-        v = cache.get(t)
-        if v is None:
-            v = cache[t] = t.strip()
-        out[i] = v
-    return out
+def _texts(texts, lower=False):
+    """A text column as an object array, surrounding blanks stripped (and lower case if asked)."""
+    mapping = {t: (t.strip().lower() if lower else t.strip()) for t in set(texts)}
+    if all(k == v for k, v in mapping.items()):
+        return np.array(texts, dtype=object)
+    return np.array([mapping[t] for t in texts], dtype=object)
 
 
 def parse_inventory(text: str, units: str = "us", source: str = "inventory") -> Inventory:
@@ -210,44 +223,29 @@ def parse_inventory(text: str, units: str = "us", source: str = "inventory") -> 
     Problems of single rows do not raise: they go into ``reaches.notes``.
     """
     system = hu.system(units)
-    header, records, blank, fast = _records(text)
-    if header is None:
+    text = text.replace("\r\n", "\n").replace("\r", "\n") if "\r" in text else text
+    fast = '"' not in text
+    split = _split_fast(text) if fast else _split_csv(text, source)
+    if split is None:
         raise InventoryError(f"{source}: the file is empty (it needs a header line with the columns "
                              f"{', '.join(INPUT_COLUMNS)})")
-    header_line, header_fields = header
+    _, header_fields, records, lines, blank, field_counts = split
     names, index = _check_header(header_fields, source)
     width = len(names)
     size = len(records)
-    lines = np.array([r[0] for r in records], dtype=np.int64)
     notes = np.full(size, "", dtype=object)
 
-    # Fields per record; a record with the wrong number of fields is noted and padded for reading.
-    rows = []
-    if fast:
-        raw = [r[1] for r in records]
-        counts = [line.count(",") for line in raw]
-        if all(c == width - 1 for c in counts):
-            flat = ",".join(raw).split(",") if size else []
-            columns = [flat[j::width] for j in range(width)]
-            rows = raw
-        else:
-            split = []
-            for i, line in enumerate(raw):
-                fields = line.split(",")
-                if len(fields) != width:
-                    fields = _ragged(fields, width, notes, i)
-                    raw[i] = ",".join(fields)
-                split.append(fields)
-            columns = [list(c) for c in zip(*split)] if size else [[] for _ in range(width)]
-            rows = raw
+    ragged = np.flatnonzero(field_counts != width)
+    if fast and not len(ragged):
+        flat = ",".join(records).split(",") if size else []
+        columns = [flat[j::width] for j in range(width)]
+        rows = records
     else:
-        split = []
-        for i, (_, fields) in enumerate(records):
-            if len(fields) != width:
-                fields = _ragged(fields, width, notes, i)
-            split.append(fields)
-        columns = [list(c) for c in zip(*split)] if size else [[] for _ in range(width)]
-        rows = [_csv_line(f) for f in split]
+        fields = [r.split(",") for r in records] if fast else records
+        for i in ragged:
+            fields[i] = _ragged(fields[i], width, notes, i)
+        columns = [list(c) for c in zip(*fields)] if size else [[] for _ in range(width)]
+        rows = [",".join(f) for f in fields] if fast else [_csv_line(f) for f in fields]
     header_text = ",".join(header_fields) if fast else _csv_line(header_fields)
 
     col = {name: columns[index[name]] for name in INPUT_COLUMNS}
@@ -257,10 +255,10 @@ def parse_inventory(text: str, units: str = "us", source: str = "inventory") -> 
         values = _numbers(col[name], name, notes, unreadable)
         quantity = hb.NUMERIC_FIELDS[name]
         numbers[name] = values if quantity in ("slope", "side_slope", "manning_n") else system.to_si(quantity, values)
-    shape = np.array([s.lower() for s in _texts(col["shape"])], dtype=object) if size else np.zeros(0, dtype=object)
-    reaches = hb.Reaches(shape=shape, lining=_texts(col["lining"]), notes=notes, unreadable=unreadable, **numbers)
+    reaches = hb.Reaches(shape=_texts(col["shape"], lower=True), lining=_texts(col["lining"]), notes=notes,
+                         unreadable=unreadable, **numbers)
     return Inventory(source=source, units=system, header=names, header_text=header_text, rows=rows, lines=lines,
-                     ids=[t.strip() for t in col["id"]], reaches=reaches, blank_lines=blank)
+                     ids=col["id"], reaches=reaches, blank_lines=blank)
 
 
 def _ragged(fields, width, notes, i):
@@ -271,14 +269,15 @@ def _ragged(fields, width, notes, i):
     extra = fields[width:]
     _add_note(notes, i, f"the row has {len(fields)} fields and the header {width}; the extra "
                         f"field{'s' if len(extra) > 1 else ''} {', '.join(repr(e) for e in extra)} "
-                        f"{'are' if len(extra) > 1 else 'is'} kept only here")
+                        f"{'are' if len(extra) > 1 else 'is'} kept only in this reason")
     return fields[:width]
 
 
 def _csv_line(fields) -> str:
+    """Fields as one CSV record (quoted where needed, line breaks inside quotes), without its line end."""
     buf = io.StringIO()
-    csv.writer(buf, lineterminator="").writerow(fields)
-    return buf.getvalue()
+    csv.writer(buf, lineterminator="\n").writerow(fields)  # "\n" also makes fields holding it quoted
+    return buf.getvalue()[:-1]
 
 
 def read_inventory(path, units: str = "us") -> Inventory:
@@ -313,27 +312,38 @@ def display_values(inventory: Inventory, result: hb.BatchResult) -> dict:
 
 
 def format_results(inventory: Inventory, result: hb.BatchResult) -> str:
-    """The results file as text: the input rows with the result columns added."""
+    """The results file as text: the input rows with the result columns added.
+
+    Numbers get :data:`DIGITS` significant digits; a value not computed is an
+    empty field. Rows are formatted in groups that share which values are
+    present, one format operation per row.
+    """
     size = len(inventory)
     values = display_values(inventory, result)
     table = np.column_stack([values[k] for k in _VALUE_COLUMNS]) if size else np.zeros((0, len(_VALUE_COLUMNS)))
     present = np.isfinite(table)
     pattern = present @ (1 << np.arange(len(_VALUE_COLUMNS)))
     cache = {}
-    reasons = [cache.get(r) or cache.setdefault(r, _quote_field(r)) for r in result.reason]
-    verdicts = result.verdict.tolist()
-    out = [None] * size
+    tails = [cache.get(key) or cache.setdefault(key, f"{key[0]},{_quote_field(key[1])}")
+             for key in zip(result.verdict.tolist(), result.reason.tolist())]
+    rows = inventory.rows
     number = f"%.{DIGITS}g"
-    for code in np.unique(pattern):
-        rows = np.flatnonzero(pattern == code)
+    codes = np.unique(pattern)
+    out = np.empty(size, dtype=object) if len(codes) > 1 else None
+    for code in codes:
         cols = [j for j in range(len(_VALUE_COLUMNS)) if code >> j & 1]
-        fmt = "%s," + ",".join(number if code >> j & 1 else "" for j in range(len(_VALUE_COLUMNS))) + ",%s,%s"
-        parts = [[inventory.rows[i] for i in rows]] + [table[rows, j].tolist() for j in cols] \
-            + [[verdicts[i] for i in rows], [reasons[i] for i in rows]]
-        for i, t in zip(rows.tolist(), zip(*parts)):
-            out[i] = fmt % t
+        fmt = "%s," + ",".join(number if code >> j & 1 else "" for j in range(len(_VALUE_COLUMNS))) + ",%s"
+        if out is None:  # every row alike: no gathering
+            text = [fmt % t for t in zip(rows, *(table[:, j].tolist() for j in cols), tails)]
+            break
+        where = np.flatnonzero(pattern == code)
+        pick = where.tolist()
+        out[where] = [fmt % t for t in zip([rows[i] for i in pick], *(table[where, j].tolist() for j in cols),
+                                           [tails[i] for i in pick])]
+    else:
+        text = out.tolist() if out is not None else []
     head = inventory.header_text + "," + ",".join(RESULT_COLUMNS)
-    return "\n".join([head, *out]) + "\n"
+    return "\n".join([head, *text]) + "\n"
 
 
 def write_results(path, inventory: Inventory, result: hb.BatchResult) -> None:
@@ -372,7 +382,7 @@ def result_table(inventory: Inventory, result: hb.BatchResult):
 def problem_rows(inventory: Inventory, result: hb.BatchResult):
     """[(line, id, verdict, reason)] for every reach that is invalid or has no solution, in file order."""
     bad = np.flatnonzero(np.isin(result.verdict.astype(str), ("invalid", "no-solution")))
-    return [(int(inventory.lines[i]), inventory.ids[i], result.verdict[i], result.reason[i]) for i in bad]
+    return [(int(inventory.lines[i]), inventory.ids[i].strip(), result.verdict[i], result.reason[i]) for i in bad]
 
 
 def summary(inventory: Inventory, result: hb.BatchResult, seconds: float | None = None) -> str:
@@ -393,19 +403,19 @@ def summary(inventory: Inventory, result: hb.BatchResult, seconds: float | None 
     if checked.any():
         worst = int(np.nanargmax(np.where(checked, ratio, -np.inf)))
         out.append(f"  shear ratio (bed / permissible): median {np.median(ratio[checked]):.2f}, largest "
-                   f"{ratio[worst]:.2f} (line {inventory.lines[worst]}, id {inventory.ids[worst]!r})")
+                   f"{ratio[worst]:.2f} (line {inventory.lines[worst]}, id {inventory.ids[worst].strip()!r})")
     else:
         out.append("  no reach has a permissible shear to compare its bed shear with")
     shear = result.bed_shear
     if np.isfinite(shear).any():
         worst = int(np.nanargmax(shear))
         out.append(f"  largest bed shear {units.from_si('shear', float(shear[worst])):.3g} {units.label('shear')} "
-                   f"(line {inventory.lines[worst]}, id {inventory.ids[worst]!r})")
+                   f"(line {inventory.lines[worst]}, id {inventory.ids[worst].strip()!r})")
     duplicated = _duplicates(inventory.ids)
     if duplicated:
         out.append(f"  note: {len(duplicated):,} id{'s' if len(duplicated) > 1 else ''} appear more than once "
                    f"(first: {duplicated[0]!r}); every row is still checked")
-    blank_ids = sum(1 for i in inventory.ids if not i)
+    blank_ids = sum(1 for i in inventory.ids if not i.strip())
     if blank_ids:
         out.append(f"  note: {blank_ids:,} row{'s have' if blank_ids > 1 else ' has'} no id; "
                    "they are still checked and named by line number")
@@ -418,7 +428,9 @@ def summary(inventory: Inventory, result: hb.BatchResult, seconds: float | None 
 
 def _duplicates(ids):
     seen, dup = set(), []
-    for i in ids:
+    if len(set(ids)) == len(ids):
+        return dup
+    for i in (t.strip() for t in ids):
         if i and i in seen and i not in dup:
             dup.append(i)
         seen.add(i)

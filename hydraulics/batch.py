@@ -190,7 +190,8 @@ def screen(reaches: Reaches, display: hu.UnitSystem = hu.SI) -> np.ndarray:
     Checks, per reach: a known shape; the dimensions that shape needs, each
     finite and in range, and no other dimension (blank or 0 only); a flow
     > 0; a slope > 0 and <= 1 (a ratio, not a percentage); Manning's n in
-    (0, 1] or a lining; a D50 > 0 only with a lining. Reasons quote values in
+    (0, 1] or a lining; a D50 > 0 only with a lining (0 in a dimension or D50
+    that does not apply reads as "none"). Reasons quote values in
     the ``display`` units. Every problem of a reach is listed, separated by
     "; ".
     """
@@ -259,7 +260,7 @@ def screen(reaches: Reaches, display: hu.UnitSystem = hu.SI) -> np.ndarray:
                                       "number such as 0.013)")
 
     d50 = reaches.d50
-    add(d50 <= 0, lambda i, f=_quote(d50, "length", display): f"d50: must be > 0, got {f(i)}")
+    add(d50 < 0, lambda i, f=_quote(d50, "length", display): f"d50: must be > 0 (or blank), got {f(i)}")
     add(no_lining & (d50 > 0), lambda i, f=_quote(d50, "length", display):
         f"d50: applies to a stone lining and no lining is named, got {f(i)}")
 
@@ -350,20 +351,19 @@ def solve_hydraulics(reaches: Reaches, idx, n, out: BatchResult, display: hu.Uni
 
 
 def _warn(reaches, rows, res, out):
-    """Per-reach warnings into ``out.reason`` (see hydraulics.analysis for the limits)."""
+    """Per-reach warnings into ``out.reason`` and ``out.flags`` (limits from hydraulics.analysis)."""
     lo, hi = NEAR_CRITICAL_BAND
     fr = np.asarray(res.froude)
     near = (fr >= lo) & (fr <= hi)
     out.flags["near_critical"][rows[near]] = True
-    for j in np.flatnonzero(near):
-        _note(out, rows[j], f"near-critical flow (Froude {fr[j]:.2f}, within {lo:g} to {hi:g}): the surface "
-                            "will be wavy and unstable; allow extra freeboard or change the slope or section")
+    _note(out, rows[near], [f"near-critical flow (Froude {f:.2f}, within {lo:g} to {hi:g}): the surface will be "
+                            "wavy and unstable; allow extra freeboard or change the slope or section"
+                            for f in fr[near].tolist()])
     re = np.asarray(res.reynolds)
     slow = re < MIN_TURBULENT_REYNOLDS
     out.flags["not_turbulent"][rows[slow]] = True
-    for j in np.flatnonzero(slow):
-        _note(out, rows[j], f"Reynolds number {re[j]:.0f} below {MIN_TURBULENT_REYNOLDS:g}: the flow is not "
-                            "fully turbulent and Manning's equation is outside its range")
+    _note(out, rows[slow], [f"Reynolds number {r:.0f} below {MIN_TURBULENT_REYNOLDS:g}: the flow is not fully "
+                            "turbulent and Manning's equation is outside its range" for r in re[slow].tolist()])
     pipe = reaches.shape[rows] == "circle"
     if pipe.any():
         prow = rows[pipe]
@@ -371,13 +371,21 @@ def _warn(reaches, rows, res, out):
         q_full = flow_at_depth(Circle(diameter=d), d, reaches.slope[prow], np.asarray(res.manning_n)[pipe])
         full = reaches.flow[prow] > q_full
         out.flags["above_full_flow"][prow[full]] = True
-        for j in np.flatnonzero(full):
-            _note(out, prow[j], "flow above the pipe's full-flow capacity: it runs just below the crown, "
-                                "where a small disturbance makes it surcharge; use a larger pipe")
+        _note(out, prow[full], "flow above the pipe's full-flow capacity: it runs just below the crown, where a "
+                               "small disturbance makes it surcharge; use a larger pipe")
 
 
-def _note(out, row, text):
-    out.reason[row] = f"{out.reason[row]}; {text}" if out.reason[row] else text
+def _note(out, rows, texts):
+    """Append ``texts`` (one str, or one per row) to the reasons of ``rows``."""
+    rows = np.asarray(rows, dtype=np.intp)
+    if not len(rows):
+        return
+    new = np.empty(len(rows), dtype=object)
+    new[:] = texts
+    current = out.reason[rows]
+    noted = current != ""
+    new[noted] = current[noted] + "; " + new[noted]
+    out.reason[rows] = new
 
 
 # ----------------------------------------------------------------------------- linings
@@ -409,10 +417,11 @@ def _prefix(out, rows, verdict, text):
     """Set the verdict of ``rows`` and put ``text`` before any warnings already in their reasons."""
     rows = np.asarray(rows, dtype=np.intp)
     out.verdict[rows] = verdict
-    noted = out.reason[rows] != ""
-    for row in rows[noted]:
-        out.reason[row] = f"{text}; {out.reason[row]}"
-    out.reason[rows[~noted]] = text
+    current = out.reason[rows]
+    noted = current != ""
+    new = np.full(len(rows), text, dtype=object)
+    new[noted] = (text + "; ") + current[noted]
+    out.reason[rows] = new
 
 
 # ----------------------------------------------------------------------------- driver
