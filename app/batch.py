@@ -381,7 +381,7 @@ def result_table(inventory: Inventory, result: hb.BatchResult):
 
 def problem_rows(inventory: Inventory, result: hb.BatchResult):
     """[(line, id, verdict, reason)] for every reach that is invalid or has no solution, in file order."""
-    bad = np.flatnonzero(np.isin(result.verdict.astype(str), ("invalid", "no-solution")))
+    bad = [i for i, v in enumerate(result.verdict.tolist()) if v in ("invalid", "no-solution")]
     return [(int(inventory.lines[i]), inventory.ids[i].strip(), result.verdict[i], result.reason[i]) for i in bad]
 
 

@@ -31,7 +31,9 @@ reasons quote values in.
 
 from __future__ import annotations
 
+from collections import Counter
 from dataclasses import dataclass, field
+from itertools import repeat
 
 import numpy as np
 
@@ -73,6 +75,8 @@ _DIMENSIONS = {
     "circle": ("diameter",),
 }
 _ALL_DIMENSIONS = ("bottom_width", "left_slope", "right_slope", "diameter")
+_SHAPE_CODE = {name: code for code, name in enumerate(SHAPES)}
+_CIRCLE = _SHAPE_CODE["circle"]
 
 
 @dataclass
@@ -112,6 +116,9 @@ class Reaches:
             raise InputError("lining", f"must hold one entry per reach ({size}), got shape {self.lining.shape}")
         if self.notes is None:
             self.notes = np.full(size, "", dtype=object)
+        # Index of the shape in SHAPES (-1: unknown) and "a lining is named", worked out once.
+        self.kind = np.fromiter(map(_SHAPE_CODE.get, self.shape.tolist(), repeat(-1, size)), dtype=np.int8, count=size)
+        self.named = np.fromiter(map(bool, self.lining.tolist()), dtype=bool, count=size)
 
     def __len__(self):
         return len(self.shape)
@@ -151,8 +158,7 @@ class BatchResult:
 
     def counts(self) -> dict:
         """Number of reaches per verdict, every verdict listed (zeros included)."""
-        values, counts = np.unique(self.verdict.astype(str), return_counts=True) if len(self) else ([], [])
-        found = dict(zip(values, counts))
+        found = Counter(self.verdict.tolist())
         return {v: int(found.get(v, 0)) for v in VERDICTS}
 
     @property
@@ -204,8 +210,8 @@ def screen(reaches: Reaches, display: hu.UnitSystem = hu.SI) -> np.ndarray:
             problems.setdefault(int(i), []).append(message(i) if callable(message) else message)
 
     shape = reaches.shape
-    known = np.isin(shape, SHAPES)
-    blank_shape = shape == ""
+    known = reaches.kind >= 0
+    blank_shape = ~known & (shape == "")
     add(blank_shape, "shape: is missing (trapezoid, triangle, rectangle or circle)")
     add(~known & ~blank_shape,
         lambda i: f"shape: must be trapezoid, triangle, rectangle or circle, got {shape[i]!r}"
@@ -219,7 +225,7 @@ def screen(reaches: Reaches, display: hu.UnitSystem = hu.SI) -> np.ndarray:
 
     # Dimensions, per shape.
     for kind, needed in _DIMENSIONS.items():
-        rows = shape == kind
+        rows = reaches.kind == _SHAPE_CODE[kind]
         if not rows.any():
             continue
         for name in _ALL_DIMENSIONS:
@@ -254,7 +260,7 @@ def screen(reaches: Reaches, display: hu.UnitSystem = hu.SI) -> np.ndarray:
 
     n = reaches.n
     lining = reaches.lining
-    no_lining = lining == ""
+    no_lining = ~reaches.named
     add(missing("n") & no_lining, "n, lining: give Manning's n or a lining")
     add((n <= 0) | (n > 1), lambda i: f"n: must be > 0 and <= 1, got {_fmt(n[i])} (Manning's n is a small "
                                       "number such as 0.013)")
@@ -314,7 +320,7 @@ def solve_hydraulics(reaches: Reaches, idx, n, out: BatchResult, display: hu.Uni
     n = np.asarray(n, dtype=float)
     if not len(idx):
         return np.zeros(0, dtype=bool)
-    pipe = reaches.shape[idx] == "circle"
+    pipe = reaches.kind[idx] == _CIRCLE
     failures = {}
     parts = []
     open_pos = np.flatnonzero(~pipe)
@@ -326,11 +332,11 @@ def solve_hydraulics(reaches: Reaches, idx, n, out: BatchResult, display: hu.Uni
         section = _pipe_section(reaches, rows)
         q_max = max_flow(section, reaches.slope[rows], n[pipe_pos])
         over = reaches.flow[rows] > q_max
-        for j in np.flatnonzero(over):
-            flow_fmt = _quote(reaches.flow, "flow", display)
-            failures[int(rows[j])] = (f"flow {flow_fmt(rows[j])} exceeds this pipe's largest part-full flow "
-                                      f"{_fmt(display.from_si('flow', float(q_max[j])))} {display.label('flow')} "
-                                      "on this slope (Manning): it would surcharge; use a larger pipe")
+        unit = display.label("flow")
+        for row, q, q_top in zip(rows[over].tolist(), display.from_si("flow", reaches.flow[rows][over]).tolist(),
+                                 display.from_si("flow", q_max[over]).tolist()):
+            failures[row] = (f"flow {_fmt(q)} {unit} exceeds this pipe's largest part-full flow {_fmt(q_top)} {unit} "
+                             "on this slope (Manning): it would surcharge; use a larger pipe")
         keep = ~over
         if keep.any():
             parts += _analyse_robust(_pipe_section, reaches, rows[keep], n[pipe_pos][keep], failures)
@@ -356,15 +362,14 @@ def _warn(reaches, rows, res, out):
     fr = np.asarray(res.froude)
     near = (fr >= lo) & (fr <= hi)
     out.flags["near_critical"][rows[near]] = True
-    _note(out, rows[near], [f"near-critical flow (Froude {f:.2f}, within {lo:g} to {hi:g}): the surface will be "
-                            "wavy and unstable; allow extra freeboard or change the slope or section"
-                            for f in fr[near].tolist()])
+    _note(out, rows[near], [f"near-critical flow, Froude {f:.2f} (band {lo:g} to {hi:g}): wavy, unstable surface; "
+                            "allow extra freeboard or change the slope or section" for f in fr[near].tolist()])
     re = np.asarray(res.reynolds)
     slow = re < MIN_TURBULENT_REYNOLDS
     out.flags["not_turbulent"][rows[slow]] = True
     _note(out, rows[slow], [f"Reynolds number {r:.0f} below {MIN_TURBULENT_REYNOLDS:g}: the flow is not fully "
                             "turbulent and Manning's equation is outside its range" for r in re[slow].tolist()])
-    pipe = reaches.shape[rows] == "circle"
+    pipe = reaches.kind[rows] == _CIRCLE
     if pipe.any():
         prow = rows[pipe]
         d = reaches.diameter[prow]
@@ -433,7 +438,7 @@ def _evaluate_chunk(reaches: Reaches, display) -> BatchResult:
     out.verdict[bad] = "invalid"
     out.reason[bad] = problems[bad]
     valid = ~bad
-    named = valid & (reaches.lining != "")
+    named = valid & reaches.named
     plain = np.flatnonzero(valid & ~named)
     solved = solve_hydraulics(reaches, plain, reaches.n[plain], out, display)
     _prefix(out, plain[solved], "hydraulics-only", "no lining named: shear not compared with a permissible value")
