@@ -292,9 +292,14 @@ def read_inventory(path, units: str = "us") -> Inventory:
 
 # ----------------------------------------------------------------------------- computing
 
-def evaluate(inventory: Inventory, progress=None) -> hb.BatchResult:
-    """Check every reach of ``inventory`` (results SI; reasons quote the inventory's units)."""
-    return hb.evaluate(inventory.reaches, display=inventory.units, progress=progress)
+def evaluate(inventory: Inventory, progress=None, catalogue=None) -> hb.BatchResult:
+    """Check every reach of ``inventory`` (results SI; reasons quote the inventory's units).
+
+    ``catalogue`` is the lining catalogue the ``lining`` column refers to
+    (default: the shipped one; see hydraulics.linings.load_catalogue for a
+    user catalogue on top of it).
+    """
+    return hb.evaluate(inventory.reaches, display=inventory.units, progress=progress, catalogue=catalogue)
 
 
 # ----------------------------------------------------------------------------- writing
@@ -506,13 +511,13 @@ class BatchRun:
         return summary(self.inventory, self.result)
 
 
-def run_inventory(path, units: str = "us", progress=None) -> BatchRun:
+def run_inventory(path, units: str = "us", progress=None, catalogue=None) -> BatchRun:
     """Read and check the inventory at ``path``; ``progress(done, total)`` is called as it goes.
 
     Raises InventoryError (whole file unreadable) or InputError (unknown units).
     """
     inventory = read_inventory(path, units)
-    return BatchRun(inventory, evaluate(inventory, progress))
+    return BatchRun(inventory, evaluate(inventory, progress, catalogue))
 
 
 class ProgressBar:

@@ -31,6 +31,7 @@ reasons quote values in.
 
 from __future__ import annotations
 
+import difflib
 from collections import Counter
 from dataclasses import dataclass, field
 from itertools import repeat
@@ -40,6 +41,7 @@ import numpy as np
 from . import units as hu
 from .analysis import MIN_TURBULENT_REYNOLDS, NEAR_CRITICAL_BAND, analyse
 from .errors import HydraulicsError, InputError
+from .linings import load_catalogue
 from .sections import Circle, Trapezoid
 from .solvers import flow_at_depth, max_flow
 from .validate import MAX_SLOPE
@@ -304,20 +306,28 @@ def _analyse_robust(make_section, reaches, idx, n, failures):
             failures[int(idx[0])] = str(exc).replace(" (element 0)", "")
             return []
     half = len(idx) // 2
-    return (_analyse_robust(make_section, reaches, idx[:half], n[:half], failures)
-            + _analyse_robust(make_section, reaches, idx[half:], n[half:], failures))
+    return (_analyse_robust(make_section, reaches, idx[:half], _part(n, slice(None, half)), failures)
+            + _analyse_robust(make_section, reaches, idx[half:], _part(n, slice(half, None)), failures))
+
+
+def _part(n, index):
+    """The n of some reaches: a per-reach array is indexed, a shared roughness model is not."""
+    return n[index] if isinstance(n, np.ndarray) else n
 
 
 def solve_hydraulics(reaches: Reaches, idx, n, out: BatchResult, display: hu.UnitSystem = hu.SI) -> np.ndarray:
     """Fill the hydraulic results of the reaches ``idx`` (screened valid) with Manning's n ``n``.
 
+    ``n`` is an array (one n per reach of ``idx``) or one roughness shared by
+    all of them (a float or a depth-dependent model such as a lining's).
     Open reaches are solved as one trapezoid array, pipes as one circle array.
     A pipe asked to carry more than its largest part-full flow gets the
     verdict ``no-solution``. Returns the mask (over ``idx``) of reaches solved;
     their reasons get the warnings, their verdicts are left to the caller.
     """
     idx = np.asarray(idx, dtype=np.intp)
-    n = np.asarray(n, dtype=float)
+    if not hasattr(n, "manning_n"):
+        n = np.broadcast_to(np.asarray(n, dtype=float), idx.shape)
     if not len(idx):
         return np.zeros(0, dtype=bool)
     pipe = reaches.kind[idx] == _CIRCLE
@@ -325,12 +335,12 @@ def solve_hydraulics(reaches: Reaches, idx, n, out: BatchResult, display: hu.Uni
     parts = []
     open_pos = np.flatnonzero(~pipe)
     if len(open_pos):
-        parts += _analyse_robust(_open_section, reaches, idx[open_pos], n[open_pos], failures)
+        parts += _analyse_robust(_open_section, reaches, idx[open_pos], _part(n, open_pos), failures)
     pipe_pos = np.flatnonzero(pipe)
     if len(pipe_pos):
         rows = idx[pipe_pos]
         section = _pipe_section(reaches, rows)
-        q_max = max_flow(section, reaches.slope[rows], n[pipe_pos])
+        q_max = max_flow(section, reaches.slope[rows], _part(n, pipe_pos))
         over = reaches.flow[rows] > q_max
         unit = display.label("flow")
         for row, q, q_top in zip(rows[over].tolist(), display.from_si("flow", reaches.flow[rows][over]).tolist(),
@@ -339,7 +349,7 @@ def solve_hydraulics(reaches: Reaches, idx, n, out: BatchResult, display: hu.Uni
                              "on this slope (Manning): it would surcharge; use a larger pipe")
         keep = ~over
         if keep.any():
-            parts += _analyse_robust(_pipe_section, reaches, rows[keep], n[pipe_pos][keep], failures)
+            parts += _analyse_robust(_pipe_section, reaches, rows[keep], _part(_part(n, pipe_pos), keep), failures)
 
     done = np.zeros(len(out), dtype=bool)
     for rows, res in parts:
@@ -395,27 +405,82 @@ def _note(out, rows, texts):
 
 # ----------------------------------------------------------------------------- linings
 
-def check_linings(reaches: Reaches, idx, out: BatchResult, display: hu.UnitSystem = hu.SI) -> None:
+_CATALOGUE = None
+
+
+def default_catalogue():
+    """The shipped lining catalogue, read once."""
+    global _CATALOGUE
+    if _CATALOGUE is None:
+        _CATALOGUE = load_catalogue()
+    return _CATALOGUE
+
+
+def check_linings(reaches: Reaches, idx, out: BatchResult, display: hu.UnitSystem = hu.SI, catalogue=None) -> None:
     """The lining stage for the reaches ``idx`` (screened valid, each naming a lining).
 
-    No lining stability check exists in the core yet, so none is claimed:
-    a reach with an n of its own gets its hydraulics computed with that n,
-    one without gets nothing computed, and both get the verdict
-    ``not-checked`` with the reason. Permissible shear and safety factor
-    stay blank.
+    Per lining named: an unknown key, or a D50 given for a lining that is
+    not stone, makes the reach ``invalid``. The hydraulics are solved with
+    the n of the row where one is given (it replaces the lining's own
+    roughness), else with the lining's roughness from the catalogue: one
+    vectorised solve per lining and stone size (a stone lining's n depends
+    on depth, HEC-15 Section 6.1). Then :func:`assess_stability` gives the
+    verdict.
     """
+    catalogue = default_catalogue() if catalogue is None else catalogue
     idx = np.asarray(idx, dtype=np.intp)
-    has_n = ~np.isnan(reaches.n[idx])
-    with_n = idx[has_n]
-    solved = solve_hydraulics(reaches, with_n, reaches.n[with_n], out, display)
-    for key in map(str, np.unique(reaches.lining[with_n[solved]].astype(str))):
-        rows = with_n[solved][reaches.lining[with_n[solved]] == key]
-        _prefix(out, rows, "not-checked", f"no lining check available for {key!r}: hydraulics with the n "
-                                          "given, shear not compared with a permissible value")
-    for row in idx[~has_n]:
-        out.verdict[row] = "not-checked"
-        out.reason[row] = (f"no lining check available for {reaches.lining[row]!r} and no n given: "
-                           "nothing computed")
+    keys = reaches.lining[idx]
+    for key in sorted(set(keys.tolist())):
+        rows = idx[keys == key]
+        if key not in catalogue:
+            close = difflib.get_close_matches(key.lower(), list(catalogue.keys()), n=3)
+            hint = f"; did you mean {' or '.join(repr(c) for c in close)}?" if close else ""
+            _set(out, rows, "invalid", f"lining: {key!r} is not in the lining catalogue{hint}")
+            continue
+        lining = catalogue.get(key)
+        d50 = reaches.d50[rows]
+        sized = d50 > 0
+        if lining.category != "stone" and sized.any():
+            for row, d in zip(rows[sized].tolist(), d50[sized].tolist()):
+                _set(out, [row], "invalid", f"d50: applies to stone linings only; {key!r} is {lining.category}, "
+                                            f"got {_fmt(display.from_si('length', d))} {display.label('length')}")
+            rows, d50, sized = rows[~sized], d50[~sized], sized[~sized]
+        own_n = ~np.isnan(reaches.n[rows])
+        given = rows[own_n]
+        solved = solve_hydraulics(reaches, given, reaches.n[given], out, display)
+        assess_stability(lining, reaches, given[solved], out, display, n_given=True)
+        rest, rest_d50 = rows[~own_n], d50[~own_n]
+        groups = [(None, rest[~(rest_d50 > 0)])] + [(float(d), rest[rest_d50 == d])
+                                                      for d in np.unique(rest_d50[rest_d50 > 0])]
+        for d, group in groups:
+            if not len(group):
+                continue
+            try:
+                rough = lining.roughness(d)
+            except InputError as exc:  # e.g. an entry whose data the user has to fill in
+                _set(out, group, "not-checked", f"lining {key!r}: {exc}; nothing computed")
+                continue
+            solved = solve_hydraulics(reaches, group, rough, out, display)
+            assess_stability(lining, reaches, group[solved], out, display, n_given=False)
+
+
+def assess_stability(lining, reaches: Reaches, rows, out: BatchResult, display: hu.UnitSystem = hu.SI, *,
+                     n_given: bool) -> None:
+    """Verdict of the lining on the reaches ``rows``, whose hydraulics are solved.
+
+    No lining stability check exists in the core yet, so none is claimed: the
+    verdict is ``not-checked`` and permissible shear and safety factor stay
+    blank.
+    """
+    how = "with the n given" if n_given else "with the lining's own n"
+    _prefix(out, rows, "not-checked", f"no lining stability check available yet for {lining.key!r}: "
+                                      f"hydraulics {how}, shear not compared with a permissible value")
+
+
+def _set(out, rows, verdict, text):
+    rows = np.asarray(rows, dtype=np.intp)
+    out.verdict[rows] = verdict
+    out.reason[rows] = text
 
 
 def _prefix(out, rows, verdict, text):
@@ -431,7 +496,7 @@ def _prefix(out, rows, verdict, text):
 
 # ----------------------------------------------------------------------------- driver
 
-def _evaluate_chunk(reaches: Reaches, display) -> BatchResult:
+def _evaluate_chunk(reaches: Reaches, display, catalogue) -> BatchResult:
     out = BatchResult.empty(len(reaches))
     problems = screen(reaches, display)
     bad = problems != ""
@@ -442,11 +507,12 @@ def _evaluate_chunk(reaches: Reaches, display) -> BatchResult:
     plain = np.flatnonzero(valid & ~named)
     solved = solve_hydraulics(reaches, plain, reaches.n[plain], out, display)
     _prefix(out, plain[solved], "hydraulics-only", "no lining named: shear not compared with a permissible value")
-    check_linings(reaches, np.flatnonzero(named), out, display)
+    check_linings(reaches, np.flatnonzero(named), out, display, catalogue)
     return out
 
 
-def evaluate(reaches: Reaches, display: hu.UnitSystem = hu.SI, progress=None, chunk: int = CHUNK) -> BatchResult:
+def evaluate(reaches: Reaches, display: hu.UnitSystem = hu.SI, progress=None, chunk: int = CHUNK,
+             catalogue=None) -> BatchResult:
     """Check every reach; see the module notes for the verdicts.
 
     Parameters
@@ -459,6 +525,8 @@ def evaluate(reaches: Reaches, display: hu.UnitSystem = hu.SI, progress=None, ch
         Called as ``progress(done, total)`` after each chunk of reaches.
     chunk : int
         Reaches per vectorised solve.
+    catalogue : hydraulics.linings.Catalogue, optional
+        Linings the reaches may name (default: the shipped catalogue).
 
     Returns
     -------
@@ -469,7 +537,7 @@ def evaluate(reaches: Reaches, display: hu.UnitSystem = hu.SI, progress=None, ch
     out = BatchResult.empty(size)
     for start in range(0, size, chunk):
         part = slice(start, min(size, start + chunk))
-        out._fill(part, _evaluate_chunk(reaches.take(part), display))
+        out._fill(part, _evaluate_chunk(reaches.take(part), display, catalogue))
         if progress is not None:
             progress(part.stop, size)
     return out

@@ -472,9 +472,49 @@ def test_lining_rows_are_not_claimed_checked():
     """Until a lining stability check exists, no permissible shear is invented."""
     _, res, out = check(csv_text([{**GOOD, "lining": "riprap"}, {**GOOD, "lining": "riprap", "n": ""}]))
     assert [o["verdict"] for o in out] == ["not-checked", "not-checked"]
-    assert out[0]["normal_depth"] != "" and out[0]["permissible_shear"] == ""
-    assert "no lining check available for 'riprap'" in out[0]["reason"]
-    assert out[1]["normal_depth"] == "" and "no n given" in out[1]["reason"]
+    assert all(o["normal_depth"] != "" and o["permissible_shear"] == "" == o["safety_factor"] for o in out)
+    assert "no lining stability check available yet for 'riprap': hydraulics with the n given" in out[0]["reason"]
+    assert "hydraulics with the lining's own n" in out[1]["reason"]
+
+
+def _scalar_with_lining(row, lining, d50=None):
+    sec = hy.Trapezoid(bottom_width=float(row["bottom_width"]), left_slope=float(row["left_slope"]),
+                       right_slope=float(row["right_slope"]))
+    return hy.analyse(sec, float(row["flow"]), float(row["slope"]), lining.roughness(d50))
+
+
+def test_lining_roughness_from_the_catalogue_matches_the_scalar_api():
+    """A lining without an n is solved with its catalogue roughness, stone by its D50 (HEC-15 Section 6.1)."""
+    from hydraulics.linings import load_catalogue
+
+    cat = load_catalogue()
+    rng = np.random.default_rng(12)
+    rows = []
+    for i in range(36):
+        key = ["riprap", "gravel", "grass_good_sod", "concrete", "soil_fine_noncohesive", "riprap"][i % 6]
+        d50 = {0: "0.3", 5: ""}.get(i % 6, "") if key == "riprap" else ""
+        rows.append({"id": f"L{i}", "shape": "trapezoid", "bottom_width": f"{rng.uniform(0.5, 3):.3f}",
+                     "left_slope": "3", "right_slope": "2.5", "slope": f"{rng.uniform(0.001, 0.04):.5f}",
+                     "flow": f"{rng.uniform(0.3, 8):.3f}", "lining": key, "d50": d50})
+    _, res, out = check(csv_text(rows), "si")
+    for i, (row, got) in enumerate(zip(rows, out)):
+        assert got["verdict"] == "not-checked", got["reason"]
+        ref = _scalar_with_lining(row, cat.get(row["lining"]), float(row["d50"]) if row["d50"] else None)
+        assert res.normal_depth[i] == pytest.approx(ref.normal_depth, rel=1e-8), row
+        assert res.bed_shear[i] == pytest.approx(ref.bed_shear, rel=1e-8)
+
+
+def test_lining_errors():
+    rows = [{**GOOD, "lining": "rip-rap", "n": ""}, {**GOOD, "lining": "concrete", "d50": "0.5"},
+            {**GOOD, "lining": "blanket_user", "n": ""}, {**GOOD, "lining": "blanket_user"}]
+    _, _, out = check(csv_text(rows))
+    assert out[0]["verdict"] == "invalid" and "'rip-rap' is not in the lining catalogue; did you mean 'riprap'" \
+        in out[0]["reason"]
+    assert out[1]["verdict"] == "invalid" and "d50: applies to stone linings only; 'concrete' is rigid, got 0.5 ft" \
+        in out[1]["reason"]
+    # An entry whose values come from a data sheet: without them there is no n, with an n the hydraulics run.
+    assert out[2]["verdict"] == "not-checked" and out[2]["normal_depth"] == "" and "blanket_user" in out[2]["reason"]
+    assert out[3]["verdict"] == "not-checked" and out[3]["normal_depth"] != ""
 
 
 def test_window_helpers(tmp_path):

@@ -8,6 +8,8 @@ import sys
 import time
 from pathlib import Path
 
+from hydraulics.linings import CatalogueError, load_catalogue
+
 from .. import batch as ab
 from .common import CliError
 
@@ -34,6 +36,8 @@ def register(subparsers) -> None:
                    help="unit system of the inventory and the results: us (ft, ft^3/s, lb/ft^2) or "
                         "si (m, m^3/s, Pa); default us")
     p.add_argument("--plot", metavar="PATH", help="also save a summary plot (.png, .pdf or .svg)")
+    p.add_argument("--user-catalogue", metavar="TOML",
+                   help="user lining catalogue over the shipped one (same layout; prices, data-sheet values)")
     bar = p.add_mutually_exclusive_group()
     bar.add_argument("--progress", dest="progress", action="store_true", default=None,
                      help="always draw the progress bar")
@@ -54,6 +58,12 @@ def run(args) -> int:
         raise CliError(f"the results file {target} is the inventory itself; write the results elsewhere")
     if args.plot is not None and Path(args.plot).suffix.lower() not in ab.PLOT_FORMATS:
         raise CliError(f"--plot {args.plot}: the name must end in {', '.join(ab.PLOT_FORMATS)}")
+    catalogue = None
+    if args.user_catalogue is not None:
+        try:
+            catalogue = load_catalogue(user_path=args.user_catalogue)
+        except (CatalogueError, OSError) as exc:
+            raise CliError(f"--user-catalogue {args.user_catalogue}: {exc}") from None
     start = time.perf_counter()
     try:
         inventory = ab.read_inventory(source, args.units)
@@ -62,7 +72,7 @@ def run(args) -> int:
     show = args.progress if args.progress is not None else (len(inventory) >= PROGRESS_FROM and sys.stderr.isatty())
     bar = ab.ProgressBar("checking", enabled=show)
     try:
-        result = ab.evaluate(inventory, progress=bar)
+        result = ab.evaluate(inventory, progress=bar, catalogue=catalogue)
     finally:
         bar.close()
     try:
