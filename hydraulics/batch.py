@@ -458,7 +458,7 @@ def check_linings(reaches: Reaches, idx, out: BatchResult, display: hu.UnitSyste
             try:
                 rough = lining.roughness(d)
             except InputError as exc:  # e.g. an entry whose data the user has to fill in
-                _set(out, group, "not-checked", f"lining {key!r}: {exc}; nothing computed")
+                _set(out, group, "not-checked", f"{exc}; nothing computed")
                 continue
             solved = solve_hydraulics(reaches, group, rough, out, display)
             assess_stability(lining, reaches, group[solved], out, display, n_given=False)
