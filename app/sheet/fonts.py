@@ -46,5 +46,11 @@ def register() -> str:
             name, ok = svgfonts.register_font(SVG_FAMILY, path, weight=weight, style=style, rlgFontName=FONT)
             if not ok:  # pragma: no cover - svglib could not read the file
                 raise RuntimeError(f"svglib could not register the sheet font {path}")
+    # reportlab's graphics renderer starts every drawing in its default font
+    # (Helvetica), which puts a non-embedded font into the PDF even when no
+    # string uses it; start drawings in the sheet font instead.
+    from reportlab.graphics import shapes
+
+    shapes.STATE_DEFAULTS["fontName"] = FONT
     _registered = True
     return FONT
