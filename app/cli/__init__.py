@@ -1,5 +1,5 @@
 """Command-line sub-commands. Each module has ``register(subparsers)`` and sets ``run``."""
 
-from . import calc
+from . import calc, fingerprint, sheet, verify
 
-COMMANDS = (calc,)
+COMMANDS = (calc, sheet, fingerprint, verify)

@@ -16,12 +16,15 @@ whether the signer chains to it. No network access is made.
 from __future__ import annotations
 
 import io
+import logging
 import os
 from dataclasses import dataclass, field
 
 from .layout import approval_box
 
 PASSWORD_ENV = "DITCHWRIGHT_CERT_PASSWORD"
+# pyHanko logs a traceback when a key file will not open; the caller reports it in one line instead.
+logging.getLogger("pyhanko").addHandler(logging.NullHandler())
 FIELD_NAME = "Approval"
 
 
@@ -140,8 +143,8 @@ def sign_pdf(data: bytes, p12_path, password, page: str, reason: str = "Design s
 class SignatureReport:
     field: str
     signer: str
-    intact: bool
-    valid: bool
+    intact: bool                  # the signed bytes hash to the signed digest
+    valid: bool                   # the signature is sound and covers these bytes
     covers_whole_file: bool
     trusted: bool | None          # None when no trusted certificate was given
     signed_at: str
@@ -206,7 +209,9 @@ def verify_pdf(path, trust=None) -> VerifyReport:
         when = status.signer_reported_dt.strftime("%Y-%m-%d %H:%M:%S %Z") if status.signer_reported_dt else ""
         report.signatures.append(SignatureReport(
             field=sig.field_name, signer=signer_name(status.signing_cert), intact=bool(status.intact),
-            valid=bool(status.valid), covers_whole_file=whole, trusted=bool(status.trusted) if roots else None,
+            # "valid": the signature is sound and vouches for these very bytes (pyHanko's valid alone
+            # only says the signature value matches the signed attributes)
+            valid=bool(status.valid and status.intact), covers_whole_file=whole, trusted=bool(status.trusted) if roots else None,
             signed_at=when, summary=status.summary()))
     return report
 
