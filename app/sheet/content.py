@@ -316,7 +316,7 @@ def channel_sheet(project, channel) -> ChannelSheet:
         Item("Bed shear \u03c4 = \u03b3 yn S", f(r.bed_shear, "shear", 3)),
         Item("Critical slope Sc", f"{_sig(float(r.critical_slope), 3)} {f.unit('slope')}"),
         Item("Freeboard", f"{f(ev.freeboard, 'length', 2)} ({ev.freeboard_basis})"),
-        Item("Total depth (yn + freeboard)", f(ev.total_depth, "length", 3)),
+        Item("Total depth", f"{f(ev.total_depth, 'length', 3)} (yn + freeboard)"),
         Item("Top width at total depth", f(top_total, "length", 4)),
     ]
 
@@ -334,9 +334,10 @@ def channel_sheet(project, channel) -> ChannelSheet:
     else:
         stability = None
         verdict = "NOT CHECKED"
-        reason = ("This version of the program has no lining stability check: design shear on bed, sides and "
-                  "bends against the lining's permissible shear (HEC-15) is not computed. Check the lining "
-                  "by hand before this sheet is approved.")
+        reason = ("This version of the program has no lining stability check: the design shear on bed, sides and "
+                  "bends against the lining's permissible shear (FHWA HEC-15; stable when SF = \u03c4p / \u03c4 "
+                  "\u2265 the required safety factor) is not computed. Check the lining by hand before this "
+                  "sheet is approved.")
         note = reason
         cautions.append("Lining stability was not checked on this sheet (see the stability block).")
         thickness = None
