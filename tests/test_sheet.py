@@ -191,7 +191,7 @@ def test_cautions_and_out_of_range_warnings(pages):
 
 def test_alternatives_are_named_when_they_cannot_be_compared(pages):
     text = pages[0].replace("\n", " ")
-    assert "LINING COMPARISON" in text and "riprap" in text and "concrete" in text
+    assert "LINING COMPARISON" in text and "Rock riprap" in text and "Concrete" in text
     assert "LINING COMPARISON" not in pages[1]
 
 

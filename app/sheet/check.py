@@ -76,17 +76,63 @@ class Evaluation:
 def lining_check(channel, lining) -> LiningCheck | None:
     """The stability of ``channel`` lined with ``lining`` (a LiningChoice), or None.
 
-    This version of the program has no lining catalogue or stability check
-    yet, so there is nothing to report: None.
+    This version of the program has no lining stability check yet, so there
+    is nothing to report: None.
     """
     return None
+
+
+@dataclass
+class CatalogueLining:
+    """What the lining catalogue says about a chosen lining (no stability)."""
+
+    name: str
+    roughness: object                  # float n or a depth-dependent roughness model
+    roughness_source: str
+    permissible_source: str
+    thickness: float | None            # [m]
+    d50: float | None                  # [m], stone linings
+
+
+_catalogue = None
+
+
+def catalogue_lining(choice) -> CatalogueLining | None:
+    """The catalogue entry for a LiningChoice, or None when the key is not in the catalogue.
+
+    Raises hy.InputError when the entry exists but lacks a value the channel needs (e.g. a D50).
+    """
+    global _catalogue
+    from hydraulics.linings import load_catalogue
+
+    if _catalogue is None:
+        _catalogue = load_catalogue()
+    if choice is None or choice.key not in _catalogue:
+        return None
+    entry = _catalogue.get(choice.key)
+    d50 = choice.d50 if entry.category == "stone" else None
+    roughness = entry.roughness(d50)
+    return CatalogueLining(
+        name=entry.name, roughness=roughness, roughness_source=entry.roughness_data.get("source", ""),
+        permissible_source=entry.permissible_data.get("source", ""), thickness=entry.layer_thickness(d50),
+        d50=(d50 if d50 is not None else entry.d50) if entry.category == "stone" else None)
+
+
+def _n_words(roughness) -> str:
+    if isinstance(roughness, float):
+        return "constant n"
+    kind = type(roughness).__name__
+    return {"StoneRoughness": "n from D50 by depth (HEC-15 Sec. 6.1)",
+            "VegetationRoughness": "n by shear (HEC-15 Ch. 4)"}.get(kind, "n by depth")
 
 
 def evaluate(channel, lining=None) -> Evaluation:
     """Analyse ``channel`` with ``lining`` (default: its own lining).
 
-    Raises hy.InputError when the channel has no Manning's n to use, and
-    whatever :func:`hydraulics.analyse` raises.
+    The n used: the lining check's when there is one; else the Manning's n typed
+    in the project (which overrides the lining's, as in app.project.Channel);
+    else the catalogue lining's own n. Raises hy.InputError when there is no n
+    to use, and whatever :func:`hydraulics.analyse` raises.
     """
     lining = channel.lining if lining is None else lining
     check = lining_check(channel, lining) if lining is not None else None
@@ -97,8 +143,11 @@ def evaluate(channel, lining=None) -> Evaluation:
     elif channel.manning_n is not None:
         roughness, n_basis = channel.manning_n, "typed in the project"
     else:
-        raise hy.InputError("manning_n", f"channel {channel.name!r} has no Manning's n, and its lining cannot be "
-                                         "looked up by this version; give the channel a Manning's n")
+        entry = catalogue_lining(lining) if lining is not None else None
+        if entry is None:
+            raise hy.InputError("manning_n", f"channel {channel.name!r} has no Manning's n and no catalogue "
+                                             "lining to take one from; give the channel a Manning's n")
+        roughness, n_basis = entry.roughness, f"catalogue, {_n_words(entry.roughness)}"
     result = hy.analyse(section, flow, channel.slope, roughness)
     if check is not None:
         freeboard, basis = check.freeboard, check.freeboard_basis

@@ -15,7 +15,7 @@ from hydraulics import units as hu
 from hydraulics.rational import kirpich_time, kirpich_warnings, rational_warnings
 
 from .. import __version__
-from .check import Evaluation, evaluate
+from .check import Evaluation, catalogue_lining, evaluate
 from .fingerprint import fingerprint
 
 #: Customary Manning constant, (1 m / 1 ft)^(1/3) = 1.4859 (Chow 1959, Sec. 5-6).
@@ -257,7 +257,8 @@ def comparison_rows(channel, f: Formatter) -> tuple[list | None, str]:
             continue
         c = ev.check
         if c is None:
-            unchecked.append(choice.key)
+            entry = catalogue_lining(choice)
+            unchecked.append(entry.name if entry is not None else choice.key)
             continue
         gov = min(c.shears, key=lambda s: s.safety_factor) if c.shears else None
         cost = "" if c.cost_per_length is None else f"{f.units.from_si('cost_per_length', c.cost_per_length):.2f} " \
@@ -270,7 +271,7 @@ def comparison_rows(channel, f: Formatter) -> tuple[list | None, str]:
     note = ""
     if unchecked:
         note = ("Alternatives named in the project but not compared, because this version of the program has "
-                "no lining stability check: " + ", ".join(unchecked) + ".")
+                "no lining stability check: " + "; ".join(unchecked) + ".")
     return rows, note
 
 
@@ -286,18 +287,29 @@ def channel_sheet(project, channel) -> ChannelSheet:
 
     flow_rows, flow_notes = flow_items(channel, f)
     lining = channel.lining
+    entry = catalogue_lining(lining) if lining is not None else None
+    lining_rows = []
     if check is not None:
-        lining_text, lining_source = check.lining_name, check.source
+        lining_text = check.lining_name
+        lining_rows.append(Item("Lining values from", check.source))
+    elif entry is not None:
+        lining_text = entry.name + (f", D50 {f(entry.d50, 'small_length', 3)}" if entry.d50 else "")
+        lining_rows.append(Item("Lining n from", entry.roughness_source))
+        if channel.manning_n is not None:
+            lining_rows.append(Item("n override", f"{channel.manning_n:g} typed in the project is used "
+                                                  "instead of the catalogue's"))
+        lining_rows.append(Item("Permissible shear from", entry.permissible_source))
     elif lining is not None:
-        lining_text = lining.key + (f", D50 {f(lining.d50, 'small_length', 3)}" if lining.d50 else "")
-        lining_source = "catalogue not available in this version; n typed in the project"
+        lining_text = f"{lining.key} (not in the lining catalogue)"
+        lining_rows.append(Item("Lining values from", "n typed in the project"))
     else:
-        lining_text, lining_source = "none given", "n typed in the project"
+        lining_text = "none given"
+        lining_rows.append(Item("Lining values from", "n typed in the project"))
     inputs = [*flow_rows,
               Item("Bed slope S", _slope_with_unit(channel.slope, f)),
               *section_description(section, f),
               Item("Lining", lining_text),
-              Item("Lining values from", lining_source)]
+              *lining_rows]
     if channel.bend_radius is not None:
         inputs.append(Item("Bend radius (centreline)", f(channel.bend_radius, "length", 3)))
     inputs += [Item("Minimum freeboard", f(channel.min_freeboard, "length", 2)),
@@ -340,7 +352,7 @@ def channel_sheet(project, channel) -> ChannelSheet:
                   "sheet is approved.")
         note = reason
         cautions.append("Lining stability was not checked on this sheet (see the stability block).")
-        thickness = None
+        thickness = entry.thickness if entry is not None else None
         lining_label = lining_text
     if section.full_depth is not None and ev.total_depth > section.full_depth:
         cautions.append(f"The total depth {f(ev.total_depth, 'length', 3)} is above the section's full depth "
