@@ -59,6 +59,7 @@ class Evaluation:
     """One channel with one lining: uniform flow and, when available, the lining check."""
 
     result: hy.ChannelResult
+    roughness: object                  # the n given to the solver: float or a depth-dependent model
     n_basis: str                       # how the n used was obtained, in words
     check: LiningCheck | None
     freeboard: float                   # [m]
@@ -153,4 +154,4 @@ def evaluate(channel, lining=None) -> Evaluation:
         freeboard, basis = check.freeboard, check.freeboard_basis
     else:
         freeboard, basis = channel.min_freeboard, "project minimum"
-    return Evaluation(result=result, n_basis=n_basis, check=check, freeboard=freeboard, freeboard_basis=basis)
+    return Evaluation(result=result, roughness=roughness, n_basis=n_basis, check=check, freeboard=freeboard, freeboard_basis=basis)

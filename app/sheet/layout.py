@@ -362,8 +362,11 @@ def _title_block(c, sheet, info, page, number, count, logo_note):
         c.drawString(sign.x + sign.w * 0.70, yt - 7, "DATE")
         c.drawString(sign.x + 2.5, yt - row_h + 3, "SIGNATURE")
         c.setFillColor(colors.black)
+        name_w = sign.w * 0.70 - 6
+        size = 7 if stringWidth(name or "", FONT, 7) <= name_w else 6.2
+        c.setFont(FONT, size)
+        c.drawString(sign.x + 2.5, yt - 15, _fit(name or "", FONT, size, name_w))
         c.setFont(FONT, 7)
-        c.drawString(sign.x + 2.5, yt - 15, _fit(name or "", FONT, 7, sign.w * 0.66))
         c.drawString(sign.x + sign.w * 0.70, yt - 15, _fit(date or "", FONT, 7, sign.w * 0.29))
         c.setLineWidth(0.3)
         c.setStrokeColor(GREY)

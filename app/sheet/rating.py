@@ -42,8 +42,7 @@ def rating_drawing(sheet, width: float, height: float):
     section = sheet.section
     full = section.full_depth
     top = ev.total_depth if full is None else min(ev.total_depth, 0.999 * full)
-    check = ev.check
-    roughness = check.roughness if check is not None else float(ev.result.manning_n)
+    roughness = ev.roughness
     depth, flow, critical = rating_table(section, sheet.slope, roughness, top)
     L = units.from_si("length", 1.0)
     Q = units.from_si("flow", 1.0)
@@ -69,7 +68,7 @@ def rating_drawing(sheet, width: float, height: float):
         ax.set_xlabel(f"Flow Q ({qu})")
         ax.set_ylabel(f"Depth y ({lu})")
         ax.grid(True, linewidth=0.3, color="0.85")
-        n_text = f"n = {float(ev.result.manning_n):.3f}" if check is None else "n by depth"
+        n_text = f"n = {ev.roughness:.3f}" if isinstance(ev.roughness, float) else "n varies with depth"
         ax.set_title(f"Rating curve, uniform flow: S = {sheet.slope:g}, {n_text}", fontsize=6.5)
         ax.legend(loc="best", fontsize=5.8, frameon=True, framealpha=0.9, edgecolor="0.7")
         buf = io.StringIO()

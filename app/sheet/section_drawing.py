@@ -215,8 +215,8 @@ def section_drawing(sheet, width: float, height: float, min_height: float = 110.
     if wet_c and abs(yc - yn) * s > 1.0:
         xl_c, xr_c = min(p[0] for p in wet_c[0]), max(p[0] for p in wet_c[-1])
         g.add(Line(X(xl_c), Y(yc), X(xr_c), Y(yc), strokeColor=red, strokeWidth=0.5, strokeDashArray=[2, 1.5]))
-        below = yc < yn
-        g.add(_text(X((xl_c + xr_c) / 2), Y(yc) + (-SIZE if below else 1.2),
+        below = yc < yn or abs(yc - yn) * s < SIZE + 3  # keep clear of the water-surface label
+        g.add(_text(X((xl_c + xr_c) / 2), Y(min(yc, yn)) - SIZE if below else Y(yc) + 1.2,
                     f"critical depth yc {fmt(yc, figures=3)}", color=red, size=SIZE - 0.5, anchor="middle"))
 
     # lining band (to scale) or a heavy boundary line when its thickness is not known
