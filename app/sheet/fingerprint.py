@@ -78,7 +78,3 @@ def fingerprint(channel, version: str = __version__) -> str:
     """SHA-256 (64 hex digits) of the channel's canonical design inputs and the program version."""
     return hashlib.sha256(fingerprint_document(channel, version).encode("ascii")).hexdigest()
 
-
-def grouped(digest: str, size: int = 8) -> str:
-    """The digest in groups of ``size`` for reading aloud ('3f2a9c01 77b0...')."""
-    return " ".join(digest[i:i + size] for i in range(0, len(digest), size))
