@@ -405,3 +405,47 @@ def test_sheet_package_needs_no_qt():
     out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, check=True,
                          cwd=Path(__file__).parent.parent)
     assert out.stdout.strip() == ""
+
+
+# ------------------------------------------------------------------ lining catalogue and logo
+def test_stone_lining_from_the_catalogue_sets_n_and_thickness(tmp_path):
+    # Riprap D50 = 150 mm with no n typed: n comes from the catalogue's stone relation, and the
+    # layer is drawn 1.5 D50 = 225 mm thick (common practice; HEC-15, 3rd ed., Section 6.4, from memory).
+    ch = P.Channel(name="Riprap chute (invented)", flow=P.FlowBasis(value=0.7), slope=0.04,
+                   section={"shape": "trapezoid", "bottom_width": 1.0, "left_slope": 2.0, "right_slope": 2.0},
+                   lining=P.LiningChoice("riprap", 0.15), manning_n=None)
+    proj = P.Project(name="Invented chute", units="si", channels=[ch])
+    path = tmp_path / "chute.pdf"
+    export_sheets(proj, path)
+    text = PdfReader(path).pages[0].extract_text().replace("\n", " ")
+    assert "Rock riprap, D50 150 mm" in text
+    assert "thickness t = 225 mm" in text
+    assert re.search(r"Manning's n used [0-9.]+ \(catalogue", text)
+    assert "Lining n from HEC-15" in text and "Permissible shear from" in text
+
+
+def _image_count(path) -> int:
+    count = 0
+    for page in PdfReader(path).pages:
+        for xo in (page["/Resources"].get("/XObject") or {}).values():
+            if xo.get_object().get("/Subtype") == "/Image":
+                count += 1
+    return count
+
+
+def test_logo_slot_is_empty_unless_the_user_fills_it(project, tmp_path):
+    from PIL import Image
+
+    plain = tmp_path / "plain.pdf"
+    export_sheets(project, plain, channels=project.channels[0].name)
+    assert _image_count(plain) == 0  # no default brand
+    logo = tmp_path / "logo.png"
+    Image.new("RGB", (60, 30), (20, 90, 160)).save(logo)
+    proj = copy.deepcopy(project)
+    proj.sheet.logo = str(logo)
+    with_logo = tmp_path / "logo.pdf"
+    assert export_sheets(proj, with_logo, channels=project.channels[0].name) == []
+    assert _image_count(with_logo) == 1
+    proj.sheet.logo = str(tmp_path / "missing.png")
+    notes = export_sheets(proj, tmp_path / "nologo.pdf", channels=project.channels[0].name)
+    assert notes and "logo file not found" in notes[0]
