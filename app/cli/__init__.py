@@ -1,5 +1,5 @@
 """Command-line sub-commands. Each module has ``register(subparsers)`` and sets ``run``."""
 
-from . import batch, calc
+from . import batch, calc, fingerprint, sheet, verify
 
-COMMANDS = (calc, batch)
+COMMANDS = (calc, sheet, fingerprint, verify, batch)
