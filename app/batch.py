@@ -493,6 +493,10 @@ def plot_summary(result: hb.BatchResult, path, title: str = "Ditch inventory") -
 
 # ----------------------------------------------------------------------------- for the window
 
+def _row_fields(inventory: Inventory, i: int) -> list:
+    return next(csv.reader([inventory.rows[i]]))
+
+
 @dataclass
 class BatchRun:
     """An inventory with its results, for the desktop window."""
@@ -509,6 +513,56 @@ class BatchRun:
 
     def summary(self) -> str:
         return summary(self.inventory, self.result)
+
+    def select(self, verdicts=None, warnings=None, text: str = "") -> np.ndarray:
+        """Row indices for a filtered view: any of ``verdicts`` (None: all), carrying any of
+        ``warnings`` (keys of hydraulics.batch.WARNINGS; None: no condition), and ``text``
+        found (case-insensitively) in the row's id or reason."""
+        keep = np.ones(len(self.inventory), dtype=bool)
+        if verdicts is not None:
+            keep &= np.isin(self.result.verdict.astype(str), list(verdicts))
+        if warnings is not None:
+            flagged = np.zeros(len(keep), dtype=bool)
+            for key in warnings:
+                flagged |= self.result.flags[key]
+            keep &= flagged
+        if text:
+            needle = text.lower()
+            keep &= np.array([needle in i.lower() or needle in r.lower()
+                              for i, r in zip(self.inventory.ids, self.result.reason.tolist())], dtype=bool)
+        return np.flatnonzero(keep)
+
+    def to_channels(self, rows=None):
+        """Project channels (app.project.Channel, SI) for the reaches ``rows`` (default: all).
+
+        Returns (channels, skipped): a reach whose row is invalid is not turned
+        into a channel but listed in ``skipped`` as (line, id, reason). The
+        other columns of the row go into the channel's notes.
+        """
+        from .project import Channel, FlowBasis, LiningChoice
+
+        inv, res, r = self.inventory, self.result, self.inventory.reaches
+        rows = range(len(inv)) if rows is None else [int(i) for i in rows]
+        extra = [(j, name) for j, name in enumerate(inv.header) if name not in INPUT_COLUMNS]
+        channels, skipped = [], []
+        value = lambda a, i: None if math.isnan(a[i]) else float(a[i])  # noqa: E731
+        for i in rows:
+            if res.verdict[i] == "invalid":
+                skipped.append((int(inv.lines[i]), inv.ids[i].strip(), res.reason[i]))
+                continue
+            kind = r.shape[i]
+            section = {"shape": kind}
+            for name in {"trapezoid": ("bottom_width", "left_slope", "right_slope"),
+                         "triangle": ("left_slope", "right_slope"), "rectangle": ("bottom_width",),
+                         "circle": ("diameter",)}[kind]:
+                section[name] = value(getattr(r, name), i)
+            lining = LiningChoice(r.lining[i], value(r.d50, i) or None) if r.lining[i] else None
+            fields = _row_fields(inv, i) if extra else []
+            notes = "; ".join(f"{name}: {fields[j]}" for j, name in extra if j < len(fields) and fields[j])
+            channels.append(Channel(name=inv.ids[i].strip() or f"line {inv.lines[i]}",
+                                    flow=FlowBasis("typed", float(r.flow[i])), slope=float(r.slope[i]), section=section, lining=lining,
+                                    manning_n=value(r.n, i), notes=notes))
+        return channels, skipped
 
 
 def run_inventory(path, units: str = "us", progress=None, catalogue=None) -> BatchRun:

@@ -241,7 +241,8 @@ def screen(reaches: Reaches, display: hu.UnitSystem = hu.SI) -> np.ndarray:
                     f"{name}: must be {op} 0, got {q(i)}")
             else:
                 add(rows & (v != 0) & ~np.isnan(v),
-                    lambda i, name=name, kind=kind, q=q: f"{name}: does not apply to a {kind} (leave it blank), got {q(i)}")
+                    lambda i, name=name, kind=kind, q=q:
+                    f"{name}: does not apply to a {kind} (leave it blank), got {q(i)}")
         if kind == "trapezoid":
             flat = rows & (reaches.bottom_width == 0) & (reaches.left_slope == 0) & (reaches.right_slope == 0)
             add(flat, "bottom_width: must be > 0 when both side slopes are 0 (the section has no width)")

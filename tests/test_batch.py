@@ -534,3 +534,28 @@ def test_core_batch_imports_no_gui_plot_or_pdf_library():
     out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, check=True,
                          cwd=Path(__file__).parents[1])
     assert out.stdout.strip() == ""
+
+
+def test_window_filters_and_import_into_a_project(tmp_path):
+    from app.project import Project, dumps, loads
+
+    rows = generated_rows(24, seed=21, units="us") + [
+        {**GOOD, "id": "bad", "flow": "-1"}, {**GOOD, "id": "lined", "lining": "riprap", "d50": "0.5", "n": ""}]
+    src = tmp_path / "inv.csv"
+    src.write_text(csv_text(rows, HEADER + ["road"]))
+    run = ab.run_inventory(src, "us")
+    assert list(run.select(verdicts=["invalid"])) == [24]
+    near = run.select(warnings=["near_critical"])
+    assert all("near-critical" in run.result.reason[i] for i in near)
+    assert list(run.select(text="LINED")) == [25]
+    channels, skipped = run.to_channels()
+    assert skipped == [(26, "bad", run.result.reason[24])]
+    assert len(channels) == 25
+    project = loads(dumps(Project(name="Inventory import", channels=channels)))  # valid against the schema
+    back = project.channels
+    assert back[0].notes == "road: road 0" and back[0].name == "G0"
+    assert back[-1].lining.key == "riprap" and back[-1].lining.d50 == pytest.approx(0.5 * 0.3048)
+    for ch, i in zip(back[:24], range(24)):
+        if run.result.verdict[i] == "hydraulics-only":
+            y = hy.normal_depth(ch.build_section(), ch.design_flow(), ch.slope, ch.manning_n)
+            assert y == pytest.approx(run.result.normal_depth[i], rel=1e-9)
