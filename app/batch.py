@@ -31,6 +31,7 @@ from pathlib import Path
 import numpy as np
 
 from hydraulics import batch as hb
+from hydraulics.linings import hec15
 from hydraulics import units as hu
 
 INPUT_COLUMNS = ("id", "shape", "bottom_width", "left_slope", "right_slope", "diameter", "slope", "flow", "lining",
@@ -416,6 +417,11 @@ def summary(inventory: Inventory, result: hb.BatchResult, seconds: float | None 
         worst = int(np.nanargmax(shear))
         out.append(f"  largest bed shear {units.from_si('shear', float(shear[worst])):.3g} {units.label('shear')} "
                    f"(line {inventory.lines[worst]}, id {inventory.ids[worst].strip()!r})")
+    if np.isfinite(result.normal_depth).any():
+        fb = units.from_si("length", hec15.MIN_FREEBOARD)
+        out.append(f"  freeboard: not checked (an inventory has no ditch depth); each open ditch needs at least "
+                   f"its normal depth plus {fb:.2g} {units.label('length')} (HEC-15 Section 2, from memory; local "
+                   "codes govern)")
     duplicated = _duplicates(inventory.ids)
     if duplicated:
         out.append(f"  note: {len(duplicated):,} id{'s' if len(duplicated) > 1 else ''} appear more than once "
