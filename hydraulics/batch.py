@@ -67,7 +67,7 @@ WARNINGS = {
     "above_full_flow": "pipe above its full-flow capacity",
 }
 #: Reaches solved per vectorised call; bounds memory and paces the progress callback.
-CHUNK = 50_000
+CHUNK = 25_000
 
 # Which dimensions each shape needs; the others must be blank (or 0, which many inventories write for "none").
 _DIMENSIONS = {
