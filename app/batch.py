@@ -417,6 +417,8 @@ def summary(inventory: Inventory, result: hb.BatchResult, seconds: float | None 
         worst = int(np.nanargmax(shear))
         out.append(f"  largest bed shear {units.from_si('shear', float(shear[worst])):.3g} {units.label('shear')} "
                    f"(line {inventory.lines[worst]}, id {inventory.ids[worst].strip()!r})")
+    for message in result.messages:
+        out.append(f"  note: {message}")
     if np.isfinite(result.normal_depth).any():
         fb = units.from_si("length", hec15.MIN_FREEBOARD)
         out.append(f"  freeboard: not checked (an inventory has no ditch depth); each open ditch needs at least "

@@ -146,14 +146,19 @@ class BatchResult:
     safety_factor: np.ndarray
     verdict: np.ndarray     # object array of str, one of VERDICTS
     reason: np.ndarray      # object array of str
+    #: Manning's n at normal depth [s/m^(1/3)] (the lining's, where it depends on depth).
+    manning_n: np.ndarray = None
     #: Boolean masks of the warnings in the reasons, keyed as in WARNINGS.
     flags: dict = field(default_factory=dict)
+    #: Notes that concern groups of reaches rather than one (e.g. a relation's range for a lining).
+    messages: list = field(default_factory=list)
 
     @classmethod
     def empty(cls, size: int) -> "BatchResult":
         nan = lambda: np.full(size, np.nan)  # noqa: E731
         return cls(**{k: nan() for k in RESULT_FIELDS}, verdict=np.full(size, "", dtype=object),
-                   reason=np.full(size, "", dtype=object), flags={k: np.zeros(size, dtype=bool) for k in WARNINGS})
+                   reason=np.full(size, "", dtype=object), manning_n=nan(),
+                   flags={k: np.zeros(size, dtype=bool) for k in WARNINGS})
 
     def __len__(self):
         return len(self.verdict)
@@ -172,8 +177,10 @@ class BatchResult:
     def _fill(self, index, other: "BatchResult"):
         for k in (*RESULT_FIELDS, "verdict", "reason"):
             getattr(self, k)[index] = getattr(other, k)
+        self.manning_n[index] = other.manning_n
         for k in WARNINGS:
             self.flags[k][index] = other.flags[k]
+        self.messages.extend(m for m in other.messages if m not in self.messages)
 
 
 # ----------------------------------------------------------------------------- screening
@@ -359,6 +366,7 @@ def solve_hydraulics(reaches: Reaches, idx, n, out: BatchResult, display: hu.Uni
         out.velocity[rows] = res.velocity
         out.froude[rows] = res.froude
         out.bed_shear[rows] = res.bed_shear
+        out.manning_n[rows] = res.manning_n
         _warn(reaches, rows, res, out)
         done[rows] = True
     for row, message in failures.items():

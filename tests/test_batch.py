@@ -559,3 +559,9 @@ def test_window_filters_and_import_into_a_project(tmp_path):
         if run.result.verdict[i] == "hydraulics-only":
             y = hy.normal_depth(ch.build_section(), ch.design_flow(), ch.slope, ch.manning_n)
             assert y == pytest.approx(run.result.normal_depth[i], rel=1e-9)
+
+
+def test_manning_n_used_is_kept():
+    _, res, _ = check(csv_text([GOOD, {**GOOD, "lining": "riprap", "n": ""}]))
+    assert res.manning_n[0] == 0.03
+    assert 0.03 < res.manning_n[1] < 0.2  # a 0.5-ft riprap by Blodgett's or Bathurst's relation (HEC-15 Section 6.1)
