@@ -564,4 +564,10 @@ def test_window_filters_and_import_into_a_project(tmp_path):
 def test_manning_n_used_is_kept():
     _, res, _ = check(csv_text([GOOD, {**GOOD, "lining": "riprap", "n": ""}]))
     assert res.manning_n[0] == 0.03
-    assert 0.03 < res.manning_n[1] < 0.2  # a 0.5-ft riprap by Blodgett's or Bathurst's relation (HEC-15 Section 6.1)
+    from hydraulics.linings import load_catalogue
+
+    section = hy.Trapezoid(bottom_width=2 * 0.3048, side_slope=3.0)
+    y = res.normal_depth[1]
+    n_at_depth = load_catalogue().get("riprap").roughness().manning_n(section, y, 0.004)
+    assert res.manning_n[1] == pytest.approx(n_at_depth, rel=1e-12)
+    assert res.manning_n[1] > 0.03  # stone of 0.15 m is rougher than the n of the plain row
