@@ -405,13 +405,21 @@ def summary(inventory: Inventory, result: hb.BatchResult, seconds: float | None 
     if flagged:
         out.append("  warnings: " + ", ".join(flagged) + " (see the reason column)")
     ratio = result.shear_ratio
-    checked = np.isfinite(ratio)
+    checked = ~np.isnan(ratio)
     if checked.any():
-        worst = int(np.nanargmax(np.where(checked, ratio, -np.inf)))
-        out.append(f"  shear ratio (bed / permissible): median {np.median(ratio[checked]):.2f}, largest "
-                   f"{ratio[worst]:.2f} (line {inventory.lines[worst]}, id {inventory.ids[worst].strip()!r})")
+        held = checked & np.isfinite(ratio)
+        text = (f"  shear ratio (design / permissible where highest, 1 / safety factor) of "
+                f"{int(checked.sum()):,} reaches:")
+        if held.any():
+            worst = int(np.argmax(np.where(held, ratio, -np.inf)))
+            text += (f" median {np.median(ratio[checked]):.2f}, above 1 on {int((ratio[checked] > 1).sum()):,}, "
+                     f"largest finite {ratio[worst]:.2f} (line {inventory.lines[worst]}, "
+                     f"id {inventory.ids[worst].strip()!r})")
+        if (checked & ~held).any():
+            text += f"; {int((checked & ~held).sum()):,} with stone that cannot rest on its side slopes"
+        out.append(text)
     else:
-        out.append("  no reach has a permissible shear to compare its bed shear with")
+        out.append("  no reach has a permissible shear to compare its design shear with")
     shear = result.bed_shear
     if np.isfinite(shear).any():
         worst = int(np.nanargmax(shear))
@@ -479,21 +487,22 @@ def plot_summary(result: hb.BatchResult, path, title: str = "Ditch inventory") -
     ax1.set_title(f"Reaches by verdict ({len(result):,} in all)")
     ax1.margins(x=0.15)
     ratio = result.shear_ratio
-    ratio = ratio[np.isfinite(ratio)]
+    ratio = ratio[~np.isnan(ratio)]
     if ratio.size:
-        top = max(2.0, float(np.percentile(ratio, 99.5)))
+        finite = ratio[np.isfinite(ratio)]
+        top = max(2.0, float(np.percentile(finite, 99.5))) if finite.size else 2.0  # inf: stone that cannot rest
         ax2.hist(np.clip(ratio, 0, top), bins=40, range=(0, top), color="#2e86c1")
-        ax2.axvline(1.0, color="#c0392b", linestyle="--", label="bed shear = permissible")
+        ax2.axvline(1.0, color="#c0392b", linestyle="--", label="design shear = permissible")
         ax2.legend(loc="upper right")
         if ratio.max() > top:
-            ax2.text(0.98, 0.80, f"{int((ratio > top).sum()):,} above {top:.2g} in the last bar",
+            ax2.text(0.98, 0.80, f"{int((ratio > top).sum()):,} above {top:.2g} (or no hold) in the last bar",
                      transform=ax2.transAxes, ha="right", fontsize=8)
         ax2.set_ylabel("reaches")
     else:
-        ax2.text(0.5, 0.5, "no reach has a permissible shear\nto compare its bed shear with",
+        ax2.text(0.5, 0.5, "no reach has a permissible shear\nto compare its design shear with",
                  transform=ax2.transAxes, ha="center", va="center")
         ax2.set_yticks([])
-    ax2.set_xlabel("shear ratio, bed shear / permissible shear (1 / safety factor)")
+    ax2.set_xlabel("shear ratio, design / permissible shear where highest (1 / safety factor)")
     ax2.set_title("Distribution of shear ratio")
     fig.suptitle(title)
     fig.savefig(path)
@@ -568,7 +577,8 @@ class BatchRun:
             fields = _row_fields(inv, i) if extra else []
             notes = "; ".join(f"{name}: {fields[j]}" for j, name in extra if j < len(fields) and fields[j])
             channels.append(Channel(name=inv.ids[i].strip() or f"line {inv.lines[i]}",
-                                    flow=FlowBasis("typed", float(r.flow[i])), slope=float(r.slope[i]), section=section, lining=lining,
+                                    flow=FlowBasis("typed", float(r.flow[i])), slope=float(r.slope[i]),
+                                    section=section, lining=lining,
                                     manning_n=value(r.n, i), notes=notes))
         return channels, skipped
 

@@ -170,9 +170,13 @@ class BatchResult:
 
     @property
     def shear_ratio(self) -> np.ndarray:
-        """Bed shear over permissible shear, tau_d / tau_p = 1 / SF (nan where not checked)."""
+        """Design over permissible shear where it is highest, 1 / safety_factor (nan: not checked; inf: no hold).
+
+        Stable needs the ratio at or below 1 / the required safety factor (1 for
+        most linings, up to 1/1.5 for stone, HEC-15 Table 6.1).
+        """
         with np.errstate(divide="ignore", invalid="ignore"):
-            return self.bed_shear / self.permissible_shear
+            return 1.0 / self.safety_factor
 
     def _fill(self, index, other: "BatchResult"):
         for k in (*RESULT_FIELDS, "verdict", "reason"):
