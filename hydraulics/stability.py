@@ -126,8 +126,9 @@ class ShearCheck:
     def words(self, units: UnitSystem = SI) -> str:
         """"side slopes: 1.4 lb/ft^2 against 1.1 lb/ft^2 permissible (safety factor 0.79, 1.00 needed)"."""
         if self.cannot_rest:
-            return (f"{self.location}: a {self.side_slope:g}:1 slope is as steep as or steeper than the stone's "
-                    "angle of repose; stone cannot rest on it")
+            what = "vertical walls" if self.side_slope == 0 else f"a {self.side_slope:g}:1 slope"
+            return (f"{self.location}: {what} as steep as or steeper than the stone's angle of repose; "
+                    "stone cannot rest there")
         if self.permissible_shear is None:
             return f"{self.location}: {_q(self.design_shear, 'shear', units)}, non-erodible lining"
         kind = "Appendix D safety factor" if self.method == "appendix_d" else "safety factor"
@@ -147,6 +148,13 @@ class StabilityResult:
     it differs from the bed, i.e. stone; else None), ``safety_factor`` (the
     lowest permissible/design ratio, or the Appendix D factor, over the
     checks), ``required_safety_factor`` (on the bed).
+
+    Stone: ``required_d50`` is the smallest stable D50 for the flow, over
+    every check: HEC-15's trial procedure (D50 -> depth and n -> required
+    D50 by Eq. 6.8 with F* and SF from Re*) repeated until it settles, so a
+    stone of that size, checked again, has ``safety_factor`` equal to the
+    required one; ``required_d50_bed``, ``_side``, ``_bend`` are the parts at
+    that state and ``required_d50_depth`` its depth.
     """
 
     lining_key: str
@@ -182,6 +190,7 @@ class StabilityResult:
     required_d50_side: float | None
     required_d50_bend: float | None
     required_d50_method: str | None   # "eq_6_8" | "appendix_d" (side slopes of a steep channel)
+    required_d50_depth: float | None  # normal depth [m] with stone of the required size
     layer_thickness: float | None     # [m], by the catalogue rule at the D50 checked
     thickness_rule: str
     filter_note: str | None
@@ -261,6 +270,7 @@ class StabilityResult:
             out.update({"d50": L(self.d50), "required_d50": L(self.required_d50),
                         "required_d50_bed": L(self.required_d50_bed), "required_d50_side": L(self.required_d50_side),
                         "required_d50_bend": L(self.required_d50_bend), "required_d50_method": self.required_d50_method,
+                        "required_d50_depth": L(self.required_d50_depth),
                         "particle_reynolds": self.reynolds, "shields": self.shields,
                         "layer_thickness": L(self.layer_thickness), "filter_note": self.filter_note})
         elif self.layer_thickness is not None:
@@ -488,7 +498,7 @@ def _check(section, q, s, lining, d50, rc, fb_min, n_override, sf_min, v_min) ->
     checks: list[ShearCheck] = []
     reynolds = shields = None
     req = {"bed": None, "side": None, "bend": None}
-    req_method = None
+    req_method = req_depth = None
     tau_p_side_gov = None
 
     def plain(location, design, permissible, required, factor="", how=method, z=None):
@@ -528,29 +538,16 @@ def _check(section, q, s, lining, d50, rc, fb_min, n_override, sf_min, v_min) ->
                 plain(label, k1 * tau_d, k2 * tau_p, sf_req, f"K1 = {k1:.3f}, K2 = {k2:.3f} (Z = {z:g})", "k2", z)
         if rc is not None:
             plain("bend", tau_b, tau_p, sf_req, f"Kb = {kb:.3f} (Rc/T = {rc / top:.3g})", "eq_6_7")
-        # smallest stable sizes, each for its own criterion
-        with warnings.catch_warnings():
-            warnings.simplefilter("ignore", ValidityWarning)
-            req["bed"] = _size(tau_d, y, s, gs, sf_min)
-            req_method = "eq_6_8"
-            side_sizes = []
-            for label, z, k1 in sides:
-                theta = math.atan(1.0 / z) if z > 0 else math.pi / 2
-                if theta >= math.radians(phi):
-                    side_sizes.append(math.inf)
-                elif steep:
-                    try:
-                        side_sizes.append(_steep_size(y, s, z, phi, gs, sf_min))
-                    except NoSolutionError:
-                        side_sizes.append(math.inf)
-                    req_method = "appendix_d"
-                else:
-                    k2 = float(hec15.tractive_force_ratio(z, phi))
-                    side_sizes.append(_size(k1 * tau_d / k2, y, s, gs, sf_min))
-            if side_sizes:
-                req["side"] = max(side_sizes)
-            if rc is not None:
-                req["bend"] = _size(tau_b, y, s, gs, sf_min)
+        # smallest stable sizes: HEC-15's trial procedure (size -> depth -> required size) to a fixed point
+        req, req_method, req_depth, converged, at_jump = _required_stone(
+            section, q, s, lining, rough if n_override is not None else None, sides, rc, gs, phi, sf_min, d)
+        if not converged:
+            warn.append("the smallest stable D50 did not settle (the size and the depth it gives keep changing); "
+                        "the value shown is the last trial: check it by hand")
+        if at_jump:
+            warn.append("the smallest stable D50 lies where the stone's n changes from Blodgett's relation to "
+                        "Bathurst's (da/D50 near 1.5, HEC-15 Section 6.1) and the depth changes abruptly: a "
+                        "slightly smaller stone gives deeper flow and fails; check the size by hand")
         if steep:
             notes.append(f"slope {s:g} is steeper than {hec15.STEEP_SLOPE:g}: the side slopes are checked by the "
                          f"steep-slope method ({STEEP_SLOPE_SOURCE})")
@@ -597,7 +594,8 @@ def _check(section, q, s, lining, d50, rc, fb_min, n_override, sf_min, v_min) ->
     required = None
     if stone:
         sizes = [x for x in req.values() if x is not None]
-        required = max(sizes)
+        # rounded up by a relative 1e-7 so that the size passes its own check despite floating-point rounding
+        required = max(sizes) * (1.0 + 1e-7)
         if math.isinf(required):
             required = None
             warn.append("no stone size is stable on these side slopes (as steep as or steeper than the stone's "
@@ -648,11 +646,95 @@ def _check(section, q, s, lining, d50, rc, fb_min, n_override, sf_min, v_min) ->
         required_safety_factor=sf_req, safety_factor=safety, stable=stable, governs=governs, checks=checks,
         reynolds=reynolds, shields=shields, required_d50=required, required_d50_bed=req["bed"],
         required_d50_side=req["side"], required_d50_bend=req["bend"],
-        required_d50_method=req_method if stone else None, layer_thickness=thickness, thickness_rule=thickness_rule,
+        required_d50_method=req_method if stone else None, required_d50_depth=req_depth if stone else None,
+        layer_thickness=thickness, thickness_rule=thickness_rule,
         filter_note=FILTER_NOTE if stone else None, min_freeboard=fb_min, superelevation=superelev, freeboard=fb,
         total_depth=total, top_width_at_top=top_width_at_top, lined_width=lined, layer_volume=volume,
         unit_cost=None if lining.unit_cost is None else float(lining.unit_cost),
         unit_cost_basis=lining.unit_cost_basis, cost_per_length=cost, notes=_dedupe(notes), warnings=_dedupe(warn))
+
+
+def _stone_sizes_at(y, top, s, sides, rc, gs, phi, sf_min):
+    """{"bed", "side", "bend"} smallest stable D50 [m] at depth ``y`` (inf: none), and the method used."""
+    tau_d = GAMMA_WATER * y * s
+    out = {"bed": _size(tau_d, y, s, gs, sf_min), "side": None, "bend": None}
+    method = "eq_6_8"
+    steep = s > hec15.STEEP_SLOPE
+    side_sizes = []
+    for _, z, k1 in sides:
+        theta = math.atan(1.0 / z) if z > 0 else math.pi / 2
+        if theta >= math.radians(phi):
+            side_sizes.append(math.inf)
+        elif steep:
+            method = "appendix_d"
+            try:
+                side_sizes.append(_steep_size(y, s, z, phi, gs, sf_min))
+            except NoSolutionError:
+                side_sizes.append(math.inf)
+        else:
+            k2 = float(hec15.tractive_force_ratio(z, phi))
+            side_sizes.append(_size(k1 * tau_d / k2, y, s, gs, sf_min))
+    if side_sizes:
+        out["side"] = max(side_sizes)
+    if rc is not None:
+        out["bend"] = _size(float(hec15.bend_factor(rc, top)) * tau_d, y, s, gs, sf_min)
+    return out, method
+
+
+def _required_stone(section, q, s, lining, n_fixed, sides, rc, gs, phi, sf_min, d_start, max_iter=40):
+    """Smallest stable D50 for the flow: HEC-15's trial procedure carried to convergence.
+
+    The trial procedure of HEC-15 Chapter 6 (assume D50, find the depth and
+    n, find the D50 required, repeat) is the fixed-point iteration
+    D -> req(D). Larger stone is rougher, so the flow runs deeper, but the
+    required size grows much more slowly than D50 itself and the iteration
+    contracts (stops at a relative change of 1e-10). Where the roughness
+    changes from Blodgett's relation to Bathurst's (da/D50 = 1.5) the depth
+    can jump as D50 passes the switch and there may be no fixed point: the
+    iterates then alternate about the jump, and the smallest stable size
+    (D >= req(D)) is found by bisection between them. Returns
+    (sizes, method, depth, converged, at_jump).
+    """
+    from .solvers import normal_depth
+
+    def state(dd):
+        rough = n_fixed if n_fixed is not None else lining.roughness(dd)
+        y = float(normal_depth(section, q, s, rough))
+        sizes, method = _stone_sizes_at(y, float(section.top_width(y)), s, sides, rc, gs, phi, sf_min)
+        return max(x for x in sizes.values() if x is not None), sizes, method, y
+
+    with warnings.catch_warnings():
+        warnings.simplefilter("ignore", ValidityWarning)
+        dd = d_start
+        lo, hi = 0.0, math.inf       # largest size seen to fail, smallest seen to hold
+        hi_state = None
+        for _ in range(max_iter):
+            new, sizes, method, y = state(dd)
+            if math.isinf(new) or n_fixed is not None or abs(new - dd) <= 1e-10 * new:
+                return sizes, method, y, True, False
+            if new > dd:
+                lo = max(lo, dd)
+            elif dd < hi:
+                hi, hi_state = dd, (sizes, method, y)
+            if lo > 0 and hi < math.inf and not lo < new < hi:
+                break                # the iterates alternate about a jump
+            dd = new
+        else:
+            return sizes, method, y, False, False
+        for _ in range(200):         # bisection for the smallest size that holds
+            if hi - lo <= 1e-10 * hi:
+                break
+            mid = math.sqrt(lo * hi)
+            new, sizes, method, y = state(mid)
+            if new > mid:
+                lo = mid
+            else:
+                hi, hi_state = mid, (sizes, method, y)
+        sizes, method, y = hi_state
+        sizes = dict(sizes)
+        key = max((k for k in sizes if sizes[k] is not None), key=lambda k: sizes[k])
+        sizes[key] = hi              # the governing size is the smallest stone that holds, not its own need
+        return sizes, method, y, True, True
 
 
 def _size(tau, depth, slope, gamma_stone, sf_min):
