@@ -1,5 +1,5 @@
 """Command-line sub-commands. Each module has ``register(subparsers)`` and sets ``run``."""
 
-from . import calc, fingerprint, sheet, verify
+from . import calc, compare, fingerprint, sheet, verify
 
-COMMANDS = (calc, sheet, fingerprint, verify)
+COMMANDS = (calc, compare, sheet, fingerprint, verify)
