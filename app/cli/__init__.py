@@ -1,5 +1,5 @@
 """Command-line sub-commands. Each module has ``register(subparsers)`` and sets ``run``."""
 
-from . import batch, calc, fingerprint, sheet, verify
+from . import batch, calc, compare, fingerprint, sheet, verify
 
-COMMANDS = (calc, sheet, fingerprint, verify, batch)
+COMMANDS = (calc, compare, sheet, fingerprint, verify, batch)
