@@ -477,7 +477,8 @@ def plot_summary(result: hb.BatchResult, path, title: str = "Ditch inventory") -
     FigureCanvasAgg(fig)
     ax1, ax2 = fig.subplots(1, 2, width_ratios=(1.1, 1))
     counts = result.counts()
-    colours = {"stable": "#3a7d44", "unstable": "#c0392b", "hydraulics-only": "#7f8c8d", "not-checked": "#b7950b",
+    colours = {"stable": "#3a7d44", "unstable": "#c0392b", "non-erodible": "#5d6d7e", "hydraulics-only": "#95a5a6",
+               "not-checked": "#b7950b",
                "no-solution": "#8e44ad", "invalid": "#34495e"}
     labels = list(counts)
     bars = ax1.barh(labels[::-1], [counts[v] for v in labels[::-1]], color=[colours[v] for v in labels[::-1]])

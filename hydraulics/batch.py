@@ -18,10 +18,13 @@ Nothing here raises for one bad reach. Each reach gets a ``verdict`` and a
   (a pipe that would surcharge); nothing is computed for it;
 * ``hydraulics-only``: no lining was named, so the depths, velocity, Froude
   number and bed shear are computed but not compared with a permissible shear;
-* ``not-checked``: a lining was named but no stability check is available for
-  it (the hydraulics are computed when an n is given);
-* ``stable`` / ``unstable``: bed shear at or below / above the lining's
-  permissible shear (HEC-15 safety factor SF = tau_p / tau_d >= 1 / < 1).
+* ``not-checked``: a lining was named but cannot be checked (an entry whose
+  values the user has to fill in from a data sheet);
+* ``stable`` / ``unstable``: the lining's permissible shear holds / does not
+  hold the design shear with the required safety factor at every place
+  checked (bed and side slopes; FHWA HEC-15 permissible-shear method, see
+  :func:`assess_stability`);
+* ``non-erodible``: a rigid lining, not checked for shear (common practice).
 
 Warnings (near-critical flow, flow that is not fully turbulent, a pipe above
 its full-flow capacity) are added to the reason; they do not change the
@@ -32,6 +35,8 @@ reasons quote values in.
 from __future__ import annotations
 
 import difflib
+import math
+import warnings
 from collections import Counter
 from dataclasses import dataclass, field
 from itertools import repeat
@@ -39,9 +44,11 @@ from itertools import repeat
 import numpy as np
 
 from . import units as hu
+from . import validate
 from .analysis import MIN_TURBULENT_REYNOLDS, NEAR_CRITICAL_BAND, analyse
 from .errors import HydraulicsError, InputError
-from .linings import load_catalogue
+from .linings import hec15, load_catalogue
+from .linings.hec15 import ValidityWarning
 from .sections import Circle, Trapezoid
 from .solvers import flow_at_depth, max_flow
 from .validate import MAX_SLOPE
@@ -49,7 +56,7 @@ from .validate import MAX_SLOPE
 #: Shapes an inventory row may name (a parabola needs two dimensions an inventory does not carry).
 SHAPES = ("trapezoid", "triangle", "rectangle", "circle")
 #: Every verdict a reach can get, in the order a summary lists them.
-VERDICTS = ("stable", "unstable", "hydraulics-only", "not-checked", "no-solution", "invalid")
+VERDICTS = ("stable", "unstable", "non-erodible", "hydraulics-only", "not-checked", "no-solution", "invalid")
 #: Fields of a reach, each with the physical quantity its values are in (see hydraulics.units).
 NUMERIC_FIELDS = {
     "bottom_width": "length", "left_slope": "side_slope", "right_slope": "side_slope", "diameter": "length",
@@ -438,7 +445,7 @@ def check_linings(reaches: Reaches, idx, out: BatchResult, display: hu.UnitSyste
     roughness), else with the lining's roughness from the catalogue: one
     vectorised solve per lining and stone size (a stone lining's n depends
     on depth, HEC-15 Section 6.1). Then :func:`assess_stability` gives the
-    verdict.
+    verdict, vectorised over the reaches of the group.
     """
     catalogue = default_catalogue() if catalogue is None else catalogue
     idx = np.asarray(idx, dtype=np.intp)
@@ -479,15 +486,146 @@ def check_linings(reaches: Reaches, idx, out: BatchResult, display: hu.UnitSyste
 
 def assess_stability(lining, reaches: Reaches, rows, out: BatchResult, display: hu.UnitSystem = hu.SI, *,
                      n_given: bool) -> None:
-    """Verdict of the lining on the reaches ``rows``, whose hydraulics are solved.
+    """HEC-15 permissible-shear check of ``lining`` on the solved reaches ``rows``, vectorised.
 
-    No lining stability check exists in the core yet, so none is claimed: the
-    verdict is ``not-checked`` and permissible shear and safety factor stay
-    blank.
+    The checks are those of :func:`hydraulics.stability.check_lining` for a
+    straight reach (an inventory has no bend radius), after HEC-15 (Kilgore
+    and Cotton, 3rd ed., 2005) Chapter 3:
+
+    * design shear on the bed tau_d = gamma d S (Eq. 3.1, the ``bed_shear``
+      column) and on each straight side slope K1 tau_d (Section 3.2); a pipe
+      has no side check;
+    * permissible shear tau_p: stone by Eq. 6.7 with F* and the required
+      safety factor from Table 6.1 at the particle Reynolds number (Eq. 6.9),
+      on a side slope K2 tau_p (Section 6.3.2), and on beds steeper than
+      ``hec15.STEEP_SLOPE`` the side stone by the safety factor of Appendix D;
+      stone cannot rest on a side as steep as its angle of repose; grass from
+      its soil and cover (Chapter 4); bare soil (Chapter 4); rolled products
+      from their data-sheet value; rigid linings are non-erodible;
+    * stable where tau_p / tau >= the required safety factor at every check
+      (Eq. 3.2).
+
+    ``permissible_shear`` gets tau_p on the bed and ``safety_factor`` the
+    lowest factor over the checks. A relation's range of validity left by
+    some reaches is noted once per lining in ``out.messages``.
     """
+    rows = np.asarray(rows, dtype=np.intp)
+    if not len(rows):
+        return
+    method = lining.permissible_data["method"]
     how = "with the n given" if n_given else "with the lining's own n"
-    _prefix(out, rows, "not-checked", f"no lining stability check available yet for {lining.key!r}: "
-                                      f"hydraulics {how}, shear not compared with a permissible value")
+    if method == "none":
+        _prefix(out, rows, "non-erodible", f"non-erodible: {lining.name} is a rigid lining, not checked for shear "
+                                           "(common practice)")
+        return
+    with warnings.catch_warnings(record=True) as caught:
+        warnings.simplefilter("always", ValidityWarning)
+        try:
+            tau_p, required, checks = _shear_checks(lining, method, reaches, rows, out)
+        except InputError as exc:  # an entry whose values the user has to fill in
+            _prefix(out, rows, "not-checked", f"{exc}; hydraulics {how}, shear not compared with a permissible value")
+            return
+    for w in caught:
+        note = f"lining {lining.key!r}: {w.message}"
+        if note not in out.messages:
+            out.messages.append(note)
+    factors = np.column_stack([c["factor"] for c in checks])
+    gov = np.argmin(factors, axis=1)
+    sf = factors[np.arange(len(rows)), gov]
+    stable = sf >= required
+    out.permissible_shear[rows] = tau_p
+    out.safety_factor[rows] = sf
+    unit = display.label("shear")
+    texts = []
+    for j, g in enumerate(gov.tolist()):
+        c = checks[g]
+        where = c["where"][j]
+        if c["cannot"][j]:
+            words = f"{where}: stone cannot rest on a side as steep as or steeper than its angle of repose"
+        elif c["appendix_d"][j]:
+            words = (f"{where}: {_fmt3(display.from_si('shear', c['design'][j]))} {unit} on steep-bed side stone "
+                     f"(HEC-15 Appendix D safety factor {sf[j]:.2f}, {required[j]:.2f} needed)")
+        else:
+            words = (f"{where}: {_fmt3(display.from_si('shear', c['design'][j]))} {unit} against "
+                     f"{_fmt3(display.from_si('shear', c['permissible'][j]))} {unit} permissible "
+                     f"(safety factor {sf[j]:.2f}, {required[j]:.2f} needed)")
+        texts.append(f"{'stable' if stable[j] else 'unstable'}, {words}; hydraulics {how}")
+    out.verdict[rows] = np.where(stable, "stable", "unstable")
+    _prefix_each(out, rows, texts)
+
+
+def _fmt3(value: float) -> str:
+    """Three significant figures, as the lining check words them."""
+    if value == 0 or not math.isfinite(value):
+        return f"{value:g}"
+    return f"{value:.{max(0, 2 - int(math.floor(math.log10(abs(value)))))}f}"
+
+
+def _shear_checks(lining, method, reaches, rows, out):
+    """(tau_p on the bed, required safety factor, [check]) for the reaches ``rows``, all arrays over them.
+
+    Each check is a dict of arrays: where (label), design (shear), permissible,
+    factor (safety factor), cannot (stone cannot rest) and appendix_d.
+    """
+    size = len(rows)
+    y, s, tau = out.normal_depth[rows], reaches.slope[rows], out.bed_shear[rows]
+    no = np.zeros(size, dtype=bool)
+    if method == "shields":
+        d = np.where(reaches.d50[rows] > 0, reaches.d50[rows], np.nan)
+        d = np.where(np.isnan(d), float(lining.d50) if lining.d50 is not None else np.nan, d)
+        if np.isnan(d).any():
+            raise InputError("d50", f"lining {lining.key!r} needs a D50 (give one in the d50 column)")
+        gs, phi = float(lining.specific_weight), float(lining.angle_of_repose)
+        shields, sf_table = hec15.shields_and_safety_factor(hec15.particle_reynolds(y, s, d))
+        required = np.maximum(sf_table, 1.0)
+        tau_p = np.asarray(hec15.stone_permissible_shear(d, shields, gs), dtype=float)
+    else:
+        required = np.ones(size)
+        if method == "vegetation":
+            tau_p = np.asarray(hec15.vegetation_permissible_shear(
+                float(lining.soil_permissible_shear()), float(lining.cover_factor()), out.manning_n[rows],
+                float(lining.soil_grain_n())), dtype=float)
+        else:
+            value = lining.soil_permissible_shear() if method == "soil" else lining.field_value("permissible", "shear")
+            tau_p = np.full(size, float(validate.positive(f"lining {lining.key!r} permissible.shear", value)))
+    checks = [{"where": np.full(size, "bed", dtype=object), "design": tau, "permissible": tau_p,
+               "factor": tau_p / tau, "cannot": no, "appendix_d": no}]
+    sided = reaches.kind[rows] != _CIRCLE
+    z1 = np.where(sided, np.nan_to_num(reaches.left_slope[rows]), 0.0)
+    z2 = np.where(sided, np.nan_to_num(reaches.right_slope[rows]), 0.0)
+    same = z1 == z2
+    for z, label in ((z1, np.where(same, "side slopes", "left side slope")),
+                     (z2, np.where(same, "side slopes", "right side slope"))):
+        k1 = np.asarray(hec15.side_slope_factor(z), dtype=float)
+        design = k1 * tau
+        permissible = tau_p.copy()
+        cannot = np.zeros(size, dtype=bool)
+        steep = np.zeros(size, dtype=bool)
+        if method == "shields":
+            theta = np.where(z > 0, np.arctan(1.0 / np.where(z > 0, z, 1.0)), np.pi / 2)
+            cannot = sided & (theta >= math.radians(phi))
+            steep = sided & ~cannot & (s > hec15.STEEP_SLOPE)
+            mild = sided & ~cannot & ~steep
+            permissible[mild] = hec15.tractive_force_ratio(z[mild], phi) * tau_p[mild] if mild.any() else 0.0
+            permissible[cannot] = 0.0
+        factor = np.where(sided, permissible / design, np.inf)
+        for j in np.flatnonzero(steep):
+            factor[j] = hec15.steep_slope_safety_factor(float(d[j]), float(y[j]), float(s[j]), float(z[j]), phi,
+                                                        float(shields[j]), gs)
+        checks.append({"where": label, "design": design, "permissible": permissible, "factor": factor,
+                       "cannot": cannot, "appendix_d": steep})
+    return tau_p, required, checks
+
+
+def _prefix_each(out, rows, texts):
+    """Put each of ``texts`` before any warnings already in the reason of its row."""
+    rows = np.asarray(rows, dtype=np.intp)
+    new = np.empty(len(rows), dtype=object)
+    new[:] = texts
+    current = out.reason[rows]
+    noted = current != ""
+    new[noted] = new[noted] + "; " + current[noted]
+    out.reason[rows] = new
 
 
 def _set(out, rows, verdict, text):

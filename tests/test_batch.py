@@ -468,13 +468,24 @@ def test_reasons_quote_the_display_units():
     assert "got -0.3048 m" in hb.screen(r, hu.SI)[0]
 
 
-def test_lining_rows_are_not_claimed_checked():
-    """Until a lining stability check exists, no permissible shear is invented."""
-    _, res, out = check(csv_text([{**GOOD, "lining": "riprap"}, {**GOOD, "lining": "riprap", "n": ""}]))
-    assert [o["verdict"] for o in out] == ["not-checked", "not-checked"]
-    assert all(o["normal_depth"] != "" and o["permissible_shear"] == "" == o["safety_factor"] for o in out)
-    assert "no lining stability check available yet for 'riprap': hydraulics with the n given" in out[0]["reason"]
+def test_lined_rows_get_the_lining_check():
+    """The lining columns are filled by the HEC-15 permissible-shear check (test_batch_stability.py compares
+    them with hydraulics.stability.check_lining reach by reach)."""
+    rows = [{**GOOD, "lining": "riprap"}, {**GOOD, "lining": "riprap", "n": ""}, {**GOOD, "lining": "concrete"}]
+    _, res, out = check(csv_text(rows))
+    from hydraulics.linings import load_catalogue
+
+    riprap = load_catalogue().get("riprap")
+    # HEC-15 Eq. 6.7, tau_p = F* (gamma_s - gamma) D50, with F* = 0.047 at Re* <= 4e4 (Table 6.1): here
+    # Re* = sqrt(g d S) D50 / nu is about 2e4 (d = 1.3 ft, S = 0.004, D50 = 0.15 m).
+    tau_p = 0.047 * (riprap.specific_weight - 9810.0) * riprap.d50 / hu.PSF
+    for o in out[:2]:
+        assert number(o["permissible_shear"]) == pytest.approx(tau_p, rel=1e-4)
+        assert o["verdict"] == "stable" and number(o["safety_factor"]) > 1
+    assert "hydraulics with the n given" in out[0]["reason"]
     assert "hydraulics with the lining's own n" in out[1]["reason"]
+    assert out[2]["verdict"] == "non-erodible" and out[2]["permissible_shear"] == ""
+    assert res.shear_ratio[0] == pytest.approx(1 / res.safety_factor[0])
 
 
 def _scalar_with_lining(row, lining, d50=None):
@@ -498,7 +509,7 @@ def test_lining_roughness_from_the_catalogue_matches_the_scalar_api():
                      "flow": f"{rng.uniform(0.3, 8):.3f}", "lining": key, "d50": d50})
     _, res, out = check(csv_text(rows), "si")
     for i, (row, got) in enumerate(zip(rows, out)):
-        assert got["verdict"] == "not-checked", got["reason"]
+        assert got["verdict"] in ("stable", "unstable", "non-erodible"), got["reason"]
         ref = _scalar_with_lining(row, cat.get(row["lining"]), float(row["d50"]) if row["d50"] else None)
         assert res.normal_depth[i] == pytest.approx(ref.normal_depth, rel=1e-8), row
         assert res.bed_shear[i] == pytest.approx(ref.bed_shear, rel=1e-8)
