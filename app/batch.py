@@ -42,6 +42,8 @@ _NUMBER_COLUMNS = tuple(hb.NUMERIC_FIELDS)
 _VALUE_COLUMNS = tuple(hb.RESULT_FIELDS)  # the numeric result columns, in output order
 #: Significant digits of the numbers written (more than any inventory's inputs carry).
 DIGITS = 5
+#: Notes about groups of reaches shown in the summary (all are in BatchResult.messages).
+MAX_MESSAGES = 12
 
 
 class InventoryError(Exception):
@@ -425,8 +427,10 @@ def summary(inventory: Inventory, result: hb.BatchResult, seconds: float | None 
         worst = int(np.nanargmax(shear))
         out.append(f"  largest bed shear {units.from_si('shear', float(shear[worst])):.3g} {units.label('shear')} "
                    f"(line {inventory.lines[worst]}, id {inventory.ids[worst].strip()!r})")
-    for message in result.messages:
+    for message in result.messages[:MAX_MESSAGES]:
         out.append(f"  note: {message}")
+    if len(result.messages) > MAX_MESSAGES:
+        out.append(f"  note: ... and {len(result.messages) - MAX_MESSAGES} more notes of this kind")
     if np.isfinite(result.normal_depth).any():
         fb = units.from_si("length", hec15.MIN_FREEBOARD)
         out.append(f"  freeboard: not checked (an inventory has no ditch depth); each open ditch needs at least "
@@ -489,22 +493,26 @@ def plot_summary(result: hb.BatchResult, path, title: str = "Ditch inventory") -
     ax1.margins(x=0.15)
     ratio = result.shear_ratio
     ratio = ratio[~np.isnan(ratio)]
-    if ratio.size:
-        finite = ratio[np.isfinite(ratio)]
-        top = max(2.0, float(np.percentile(finite, 99.5))) if finite.size else 2.0  # inf: stone that cannot rest
-        ax2.hist(np.clip(ratio, 0, top), bins=40, range=(0, top), color="#2e86c1")
+    finite = ratio[np.isfinite(ratio) & (ratio > 0)]
+    if finite.size:
+        # Ratios span decades (a riprap ditch on a flat grade to bare soil on a steep one): log bins.
+        lo, hi = min(float(finite.min()), 0.5), max(float(finite.max()), 2.0)
+        bins = np.geomspace(lo, hi * 1.0001, 41)
+        ax2.hist(finite, bins=bins, color="#2e86c1")
+        ax2.set_xscale("log")
         ax2.axvline(1.0, color="#c0392b", linestyle="--", label="design shear = permissible")
         ax2.legend(loc="upper right")
-        if ratio.max() > top:
-            ax2.text(0.98, 0.80, f"{int((ratio > top).sum()):,} above {top:.2g} (or no hold) in the last bar",
-                     transform=ax2.transAxes, ha="right", fontsize=8)
+        held = ratio.size - finite.size
         ax2.set_ylabel("reaches")
     else:
-        ax2.text(0.5, 0.5, "no reach has a permissible shear\nto compare its design shear with",
-                 transform=ax2.transAxes, ha="center", va="center")
+        message = ("no reach has a permissible shear\nto compare its design shear with" if not ratio.size else
+                   f"{ratio.size:,} reaches with stone that\ncannot rest on its side slopes")
+        ax2.text(0.5, 0.5, message, transform=ax2.transAxes, ha="center", va="center")
         ax2.set_yticks([])
-    ax2.set_xlabel("shear ratio, design / permissible shear where highest (1 / safety factor)")
-    ax2.set_title("Distribution of shear ratio")
+    ax2.set_xlabel("design / permissible shear (1 / safety factor)")
+    held = ratio.size - finite.size if finite.size else 0
+    ax2.set_title("Distribution of shear ratio" + (f"\n({held:,} not shown: stone cannot rest on the sides)"
+                                                   if held else ""), fontsize=None if not held else 10)
     fig.suptitle(title)
     fig.savefig(path)
 

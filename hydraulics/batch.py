@@ -481,7 +481,21 @@ def check_linings(reaches: Reaches, idx, out: BatchResult, display: hu.UnitSyste
                 _set(out, group, "not-checked", f"{exc}; nothing computed")
                 continue
             solved = solve_hydraulics(reaches, group, rough, out, display)
+            _roughness_ranges(lining, rough, reaches, group[solved], out)
             assess_stability(lining, reaches, group[solved], out, display, n_given=False)
+
+
+def _roughness_ranges(lining, rough, reaches, rows, out):
+    """The roughness model's range warnings for the solved reaches ``rows``, once per lining, into out.messages."""
+    if not hasattr(rough, "check") or not len(rows):
+        return
+    pipe = reaches.kind[rows] == _CIRCLE
+    for make, part in ((_open_section, rows[~pipe]), (_pipe_section, rows[pipe])):
+        if len(part):
+            for text in rough.check(make(reaches, part), out.normal_depth[part], reaches.slope[part]):
+                note = f"lining {lining.key!r}: {text}"
+                if note not in out.messages:
+                    out.messages.append(note)
 
 
 def assess_stability(lining, reaches: Reaches, rows, out: BatchResult, display: hu.UnitSystem = hu.SI, *,
