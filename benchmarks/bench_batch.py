@@ -16,6 +16,9 @@ depth-dependent n from the catalogue (a coupled solve).
     With --sample N only N reaches spread over the file are timed and the time
     is scaled to the whole file (the script says so).
 (3) with --with-io: the same as (2) with reading and writing by the csv module.
+(4) mixed inventory only: as (2), but each lined reach through the scalar
+    lining check, hydraulics.stability.check_lining, which also sizes the
+    stone and works out freeboard (more than the batch writes), on a sample.
 Ratio = (2) / (1); goal >= 50x. Two inventories are timed: a mixed one and one
 where every reach gives its own n (no lining roughness to solve with). Each timing is the best of a few repeats; the
 absolute times depend on the machine and are indicative only.
@@ -36,6 +39,7 @@ import hydraulics as hy
 from app import batch as ab
 from hydraulics import units as hu
 from hydraulics.linings import load_catalogue
+from hydraulics.stability import check_lining
 
 HEADER = ["id", "shape", "bottom_width", "left_slope", "right_slope", "diameter", "slope", "flow", "lining", "d50",
           "n", "road", "surveyed"]
@@ -94,8 +98,12 @@ def batch_end_to_end(src: Path, dst: Path):
 _CATALOGUE = load_catalogue()
 
 
-def _scalar_row(row, us):
-    """One reach through the scalar API, as a caller without the batch would write it."""
+def _scalar_row(row, us, stability=False):
+    """One reach through the scalar API, as a caller without the batch would write it.
+
+    With ``stability`` a lined reach goes through hydraulics.stability.check_lining (the
+    scalar lining check); its ``analysis`` is returned so that both modes compare alike.
+    """
     length = lambda v: us.to_si("length", float(v))  # noqa: E731
     try:
         q, s = us.to_si("flow", float(row["flow"])), float(row["slope"])
@@ -112,14 +120,17 @@ def _scalar_row(row, us):
             sec = hy.Circle(diameter=length(row["diameter"]))
             if q > hy.max_flow(sec, s, n):
                 return None
+        if stability and row["lining"]:
+            return check_lining(sec, q, s, _CATALOGUE.get(row["lining"]), n=float(row["n"]) if row["n"] else None,
+                                ).analysis
         return hy.analyse(sec, q, s, n)
     except (hy.HydraulicsError, ValueError):
         return None
 
 
-def scalar_rows(rows):
+def scalar_rows(rows, stability=False):
     us = hu.system("us")
-    return [_scalar_row(r, us) for r in rows]
+    return [_scalar_row(r, us, stability) for r in rows]
 
 
 def scalar_with_io(src: Path, dst: Path):
@@ -154,6 +165,11 @@ def run(size, lined, sample, repeat, with_io):
         else:
             t_scalar = best(lambda: scalar_rows(rows), 1)
             how = f"all {len(rows):,} reaches one by one"
+        t_stab = math.nan
+        if lined:  # the scalar lining check is slow: always a sample, scaled
+            pick = np.linspace(0, len(rows) - 1, min(len(rows), sample or 5000)).astype(int)
+            timed = [rows[i] for i in pick]
+            t_stab = best(lambda: scalar_rows(timed, stability=True), 1) * len(rows) / len(timed)
         # The scalar results agree with the batch on the reaches both computed.
         check = np.linspace(0, len(rows) - 1, 2000).astype(int)
         ref = scalar_rows([rows[i] for i in check])
@@ -161,7 +177,7 @@ def run(size, lined, sample, repeat, with_io):
         worst = max((abs(r.normal_depth - g) / r.normal_depth for r, g in zip(ref, got) if r is not None), default=0)
         assert worst < 1e-9, worst
         t_io = best(lambda: scalar_with_io(src, dst), 1) if with_io else math.nan
-    return {"batch": t_batch, "scalar": t_scalar, "how": how, "io": t_io, "counts": result.counts()}
+    return {"batch": t_batch, "scalar": t_scalar, "how": how, "io": t_io, "stab": t_stab, "counts": result.counts()}
 
 
 def main(argv=None):
@@ -181,6 +197,9 @@ def main(argv=None):
         if not math.isnan(f["io"]):
             print(f"  (3) scalar API with csv read/write: {f['io']:8.3f} s  -> (3)/(1) {f['io'] / f['batch']:.1f}x")
         print(f"  ratio (2)/(1): {f['scalar'] / f['batch']:.1f}x (goal >= 50x)")
+        if not math.isnan(f["stab"]):
+            print(f"  (4) scalar API with check_lining for lined reaches: {f['stab']:8.3f} s (sampled, scaled) "
+                  f"-> (4)/(1) {f['stab'] / f['batch']:.1f}x")
     print("absolute times are indicative: they depend on the machine and its load")
 
 

@@ -74,7 +74,7 @@ WARNINGS = {
     "above_full_flow": "pipe above its full-flow capacity",
 }
 #: Reaches solved per vectorised call; bounds memory and paces the progress callback.
-CHUNK = 25_000
+CHUNK = 100_000
 
 # Which dimensions each shape needs; the others must be blank (or 0, which many inventories write for "none").
 _DIMENSIONS = {
@@ -549,30 +549,36 @@ def assess_stability(lining, reaches: Reaches, rows, out: BatchResult, display: 
     stable = sf >= required
     out.permissible_shear[rows] = tau_p
     out.safety_factor[rows] = sf
+    pick = lambda key: np.choose(gov, [c[key] for c in checks])  # noqa: E731  (the governing check's values)
+    where, design, permissible = pick("where"), pick("design"), pick("permissible")
+    cannot, appendix = pick("cannot").astype(bool), pick("appendix_d").astype(bool)
     unit = display.label("shear")
-    texts = []
-    for j, g in enumerate(gov.tolist()):
-        c = checks[g]
-        where = c["where"][j]
-        if c["cannot"][j]:
-            words = f"{where}: stone cannot rest on a side as steep as or steeper than its angle of repose"
-        elif c["appendix_d"][j]:
-            words = (f"{where}: {_fmt3(display.from_si('shear', c['design'][j]))} {unit} on steep-bed side stone "
-                     f"(HEC-15 Appendix D safety factor {sf[j]:.2f}, {required[j]:.2f} needed)")
-        else:
-            words = (f"{where}: {_fmt3(display.from_si('shear', c['design'][j]))} {unit} against "
-                     f"{_fmt3(display.from_si('shear', c['permissible'][j]))} {unit} permissible "
-                     f"(safety factor {sf[j]:.2f}, {required[j]:.2f} needed)")
-        texts.append(f"{'stable' if stable[j] else 'unstable'}, {words}; hydraulics {how}")
+    design, permissible = display.from_si("shear", design), display.from_si("shear", permissible)
+    dd, pd = _digits3(design), _digits3(permissible)
+    word = np.where(stable, "stable", "unstable")
+    texts = np.empty(len(rows), dtype=object)
+    plain = ~cannot & ~appendix
+    col = lambda a, m: a[m].tolist()  # noqa: E731  (Python numbers: "%.*f" needs a Python int)
+    texts[plain] = ["%s, %s: %.*f %s against %.*f %s permissible (safety factor %.2f, %.2f needed); hydraulics %s"
+                    % t for t in zip(col(word, plain), col(where, plain), col(dd, plain), col(design, plain),
+                                     repeat(unit), col(pd, plain), col(permissible, plain), repeat(unit),
+                                     col(sf, plain), col(required, plain), repeat(how))]
+    texts[appendix] = ["%s, %s: %.*f %s on side stone of a steep bed (HEC-15 Appendix D safety factor %.2f, %.2f "
+                       "needed); hydraulics %s" % t
+                       for t in zip(col(word, appendix), col(where, appendix), col(dd, appendix),
+                                    col(design, appendix), repeat(unit), col(sf, appendix), col(required, appendix),
+                                    repeat(how))]
+    texts[cannot] = [f"unstable, {w}: stone cannot rest on a side as steep as or steeper than its angle of repose; "
+                     f"hydraulics {how}" for w in where[cannot]]
     out.verdict[rows] = np.where(stable, "stable", "unstable")
     _prefix_each(out, rows, texts)
 
 
-def _fmt3(value: float) -> str:
-    """Three significant figures, as the lining check words them."""
-    if value == 0 or not math.isfinite(value):
-        return f"{value:g}"
-    return f"{value:.{max(0, 2 - int(math.floor(math.log10(abs(value)))))}f}"
+def _digits3(values):
+    """Decimals that give three significant figures (none for values of 100 and more), as int array."""
+    with np.errstate(divide="ignore", invalid="ignore"):
+        mag = np.floor(np.log10(np.abs(values)))
+    return np.clip(np.where(np.isfinite(mag), 2 - mag, 0), 0, 12).astype(int)
 
 
 def _shear_checks(lining, method, reaches, rows, out):
