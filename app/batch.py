@@ -176,8 +176,13 @@ def _numbers(texts, name, notes, unreadable):
     joined = "".join(texts)
     if not any(c in joined for c in "_nN"):
         try:
-            values = np.fromiter(map(float, [t or "nan" for t in texts] if "" in texts else texts), dtype=float,
-                                 count=size)
+            distinct = set(texts)
+            if len(distinct) * 8 < size:  # side slopes, n, blank columns: each text parsed once
+                table = {t: float(t) if t else math.nan for t in distinct}
+                values = np.fromiter(map(table.__getitem__, texts), dtype=float, count=size)
+            else:
+                values = np.fromiter(map(float, [t or "nan" for t in texts] if "" in texts else texts), dtype=float,
+                                     count=size)
             if not np.isinf(values).any():
                 return values
         except ValueError:
