@@ -441,6 +441,7 @@ def summary(inventory: Inventory, result: hb.BatchResult, seconds: float | None 
         out.append(f"  freeboard: not checked (an inventory has no ditch depth); each open ditch needs at least "
                    f"its normal depth plus {fb:.2g} {units.label('length')} (HEC-15 Section 2, from memory; local "
                    "codes govern)")
+    out.append("  results assist design: a licensed engineer checks them against local codes")
     duplicated = _duplicates(inventory.ids)
     if duplicated:
         out.append(f"  note: {len(duplicated):,} id{'s' if len(duplicated) > 1 else ''} appear more than once "

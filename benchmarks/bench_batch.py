@@ -142,9 +142,9 @@ def scalar_with_io(src: Path, dst: Path):
         w.writerow(list(rows[0]) + list(ab.RESULT_COLUMNS[:5]))
         for r in rows:
             res = _scalar_row(r, us)
-            vals = [] if res is None else [us.from_si("length", res.normal_depth),
-                                           us.from_si("length", res.critical_depth), us.from_si("velocity", res.velocity),
-                                           res.froude, us.from_si("shear", res.bed_shear)]
+            vals = [] if res is None else [
+                us.from_si("length", res.normal_depth), us.from_si("length", res.critical_depth),
+                us.from_si("velocity", res.velocity), res.froude, us.from_si("shear", res.bed_shear)]
             w.writerow(list(r.values()) + [f"{v:.5g}" for v in vals])
 
 

@@ -521,7 +521,10 @@ def assess_stability(lining, reaches: Reaches, rows, out: BatchResult, display: 
 
     ``permissible_shear`` gets tau_p on the bed and ``safety_factor`` the
     lowest factor over the checks. A relation's range of validity left by
-    some reaches is noted once per lining in ``out.messages``.
+    some reaches is noted once per lining in ``out.messages``. Which of these
+    relations were read in HEC-15 and which are from memory (Table 6.1, K2,
+    Appendix D) is recorded beside each in :mod:`hydraulics.linings.hec15`;
+    tests/test_batch_stability.py checks every number against check_lining.
     """
     rows = np.asarray(rows, dtype=np.intp)
     if not len(rows):
