@@ -55,7 +55,7 @@ from .units import SI, UnitSystem
 __all__ = [
     "SELF_CLEANING_VELOCITY", "SELF_CLEANING_SOURCE", "NEAR_CRITICAL_SOURCE", "FREEBOARD_SOURCE",
     "SUPERELEVATION_SOURCE", "STEEP_SLOPE_SOURCE", "RIGID_NOTE", "FILTER_NOTE", "LINED_WIDTH_RULE",
-    "ShearCheck", "StabilityResult", "ComparisonRow", "check_lining", "compare_linings", "parse_choice",
+    "format_quantity", "ShearCheck", "StabilityResult", "ComparisonRow", "check_lining", "compare_linings", "parse_choice",
 ]
 
 #: Mean velocity below which fine sediment tends to settle in a lined channel [m/s]:
@@ -87,8 +87,8 @@ def _fmt(value: float) -> str:
     return f"{value:.{digits}f}"
 
 
-def _q(value, quantity: str, units: UnitSystem) -> str:
-    """A SI value in ``units`` with its label, e.g. '1.4 lb/ft^2'."""
+def format_quantity(value, quantity: str, units: UnitSystem = SI) -> str:
+    """A SI value in ``units`` to three significant figures with its label, e.g. '1.40 lb/ft^2'."""
     v = units.from_si(quantity, value)
     label = units.label(quantity)
     return f"{_fmt(float(v))} {label}".rstrip()
@@ -130,10 +130,10 @@ class ShearCheck:
             return (f"{self.location}: {what} as steep as or steeper than the stone's angle of repose; "
                     "stone cannot rest there")
         if self.permissible_shear is None:
-            return f"{self.location}: {_q(self.design_shear, 'shear', units)}, non-erodible lining"
+            return f"{self.location}: {format_quantity(self.design_shear, 'shear', units)}, non-erodible lining"
         kind = "Appendix D safety factor" if self.method == "appendix_d" else "safety factor"
-        return (f"{self.location}: {_q(self.design_shear, 'shear', units)} against "
-                f"{_q(self.permissible_shear, 'shear', units)} permissible "
+        return (f"{self.location}: {format_quantity(self.design_shear, 'shear', units)} against "
+                f"{format_quantity(self.permissible_shear, 'shear', units)} permissible "
                 f"({kind} {self.safety_factor:.2f}, {self.required_safety_factor:.2f} needed)")
 
 
@@ -228,15 +228,15 @@ class StabilityResult:
         c = self.governing_check()
         text = f"{self.verdict}, {c.words(units)}"
         if self.required_d50 is not None and self.d50 is not None:
-            text += (f"; smallest stable D50 {_q(self.required_d50, 'length', units)} "
-                     f"(given {_q(self.d50, 'length', units)})")
+            text += (f"; smallest stable D50 {format_quantity(self.required_d50, 'length', units)} "
+                     f"(given {format_quantity(self.d50, 'length', units)})")
         return text
 
     def freeboard_rule(self, units: UnitSystem = SI) -> str:
         """The freeboard rule applied, in words, with its source."""
-        text = f"minimum freeboard {_q(self.min_freeboard, 'length', units)} ({FREEBOARD_SOURCE})"
+        text = f"minimum freeboard {format_quantity(self.min_freeboard, 'length', units)} ({FREEBOARD_SOURCE})"
         if self.superelevation is not None:
-            text += f", plus {_q(self.superelevation, 'length', units)} {SUPERELEVATION_SOURCE}"
+            text += f", plus {format_quantity(self.superelevation, 'length', units)} {SUPERELEVATION_SOURCE}"
         return text
 
     def to_dict(self, units: UnitSystem = SI) -> dict:
@@ -697,9 +697,20 @@ def _required_stone(section, q, s, lining, n_fixed, sides, rc, gs, phi, sf_min, 
     """
     from .solvers import normal_depth
 
+    def depth(dd):
+        if n_fixed is not None:
+            return float(normal_depth(section, q, s, n_fixed))
+        # A trial size is only a step of the search: where the solver cannot settle on a depth (the
+        # conveyance of the "auto" stone n is not monotone just above da/D50 = 1.5), nudge the trial.
+        for nudge in (1.0, 1.0 + 1e-6, 1.0 + 1e-4, 1.0 - 1e-4, 1.0 + 1e-3):
+            try:
+                return float(normal_depth(section, q, s, lining.roughness(dd * nudge)))
+            except NoSolutionError as exc:
+                last = exc
+        raise NoSolutionError(f"sizing the stone: no normal depth with a trial D50 of {dd * 1000:.4g} mm ({last})")
+
     def state(dd):
-        rough = n_fixed if n_fixed is not None else lining.roughness(dd)
-        y = float(normal_depth(section, q, s, rough))
+        y = depth(dd)
         sizes, method = _stone_sizes_at(y, float(section.top_width(y)), s, sides, rc, gs, phi, sf_min)
         return max(x for x in sizes.values() if x is not None), sizes, method, y
 
@@ -840,7 +851,7 @@ def parse_choice(choice):
         try:
             d = float(size)
         except ValueError:
-            raise InputError("d50", f"after ':' in {choice!r} must be a number (D50), got {size!r}") from None
+            raise InputError("d50", f"must be a number after ':' in {choice!r}, got {size!r}") from None
         return key, float(validate.positive("d50", d))
     if isinstance(choice, (tuple, list)) and len(choice) == 2:
         return str(choice[0]), choice[1]

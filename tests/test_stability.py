@@ -406,3 +406,12 @@ def test_parse_choice_forms():
         parse_choice(":0.3")
     with pytest.raises(InputError):
         parse_choice("riprap:-1")
+
+
+def test_sizing_steps_past_a_trial_size_without_a_settled_depth(cat):
+    # Found by the property tests: on the way to the required size a trial D50 lands where the "auto" n makes
+    # the conveyance dip just above da/D50 = 1.5 and the depth solver cannot settle; the search nudges it.
+    section = hy.Trapezoid(bottom_width=4.0, side_slope=4.0)
+    r = check_lining(section, 4.0, 0.05, cat.get("gravel"))
+    assert not r.stable and r.required_d50 > 0.15
+    assert check_lining(section, 4.0, 0.05, cat.get("riprap"), d50=r.required_d50).stable
