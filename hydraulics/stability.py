@@ -54,7 +54,7 @@ from .units import SI, UnitSystem
 
 __all__ = [
     "SELF_CLEANING_VELOCITY", "SELF_CLEANING_SOURCE", "NEAR_CRITICAL_SOURCE", "FREEBOARD_SOURCE",
-    "SUPERELEVATION_SOURCE", "STEEP_SLOPE_SOURCE", "RIGID_NOTE", "FILTER_NOTE", "LINED_WIDTH_RULE",
+    "SUPERELEVATION_SOURCE", "SUPERCRITICAL_BEND_SOURCE", "STEEP_SLOPE_SOURCE", "RIGID_NOTE", "FILTER_NOTE", "LINED_WIDTH_RULE",
     "format_quantity", "ShearCheck", "StabilityResult", "ComparisonRow", "check_lining", "compare_linings", "parse_choice",
 ]
 
@@ -68,6 +68,7 @@ NEAR_CRITICAL_SOURCE = "common practice, from memory; design manuals differ slig
 FREEBOARD_SOURCE = ("HEC-15 Section 2: about 0.15 m (0.5 ft) for small roadside channels (from memory); "
                     "local design codes govern and may ask for more")
 SUPERELEVATION_SOURCE = "superelevation in the bend V^2 T / (g Rc), HEC-15 Section 3.4 (equation number from memory)"
+SUPERCRITICAL_BEND_SOURCE = "Chow (1959), Chapter 15, supercritical flow in curves (from memory)"
 STEEP_SLOPE_SOURCE = ("HEC-15 Section 3.5 and Appendix D: riprap on slopes steeper than 10 % is sized by the "
                       "steep-slope (safety factor) method (threshold from memory)")
 RIGID_NOTE = ("rigid lining treated as non-erodible (common practice: the permissible-shear method of HEC-15 is "
@@ -609,12 +610,17 @@ def _check(section, q, s, lining, d50, rc, fb_min, n_override, sf_min, v_min) ->
                 notes.append(f"the smallest stable D50, {required * 1000:.3g} mm, is below {lo_d * 1000:g} mm, the "
                              "smallest size HEC-15 Chapter 6 covers; use at least that")
     req = {k: (None if (x is None or math.isinf(x)) else x) for k, x in req.items()}
-    thickness = lining.layer_thickness(d) if lining.thickness_data["rule"] == "stone" else lining.layer_thickness()
+    # the user's D50 (None: the entry's own, with its D100 where the catalogue gives one)
+    thickness = lining.layer_thickness(d50) if lining.thickness_data["rule"] == "stone" else lining.layer_thickness()
     thickness = None if thickness is None else float(thickness)
     thickness_rule = lining.thickness_data.get("source", "")
 
     # -- freeboard, ditch depth and quantities ------------------------------
     superelev = None if rc is None else float(hec15.superelevation(v, top, rc))
+    if rc is not None and fr > 1.0:
+        warn.append(f"supercritical flow (Froude number {fr:.2f}) in a bend forms cross waves whose crests can "
+                    f"rise above the superelevation estimate ({SUPERCRITICAL_BEND_SOURCE}); allow more freeboard "
+                    "or avoid the bend")
     fb = float(hec15.freeboard(v, top, rc, minimum=fb_min))
     total = y + fb
     top_depth = total

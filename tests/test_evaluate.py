@@ -99,3 +99,18 @@ def test_unknown_lining_key_names_the_field(cat):
     with pytest.raises(hy.InputError) as e:
         evaluate_channel(Channel(lining=LiningChoice("marble")), cat)
     assert e.value.field == "lining" and "riprap" in str(e.value)
+
+
+def test_to_dict_matches_the_calc_json(capsys, cat):
+    import json
+    from app.main import main
+    from hydraulics.units import SYSTEMS
+    ch = Channel(flow=FlowBasis(value=0.42), slope=0.008, lining=LiningChoice("gravel"), bend_radius=6.0,
+                 section={"shape": "trapezoid", "bottom_width": 0.4, "left_slope": 3.0, "right_slope": 3.0})
+    d = evaluate_channel(ch, cat).to_dict(SYSTEMS["si"])
+    assert main(["calc", "--units", "si", "--flow", "0.42", "--slope", "0.008", "--bottom-width", "0.4",
+                 "--side-slope", "3", "--lining", "gravel", "--bend-radius", "6", "--json"]) == 0
+    cli = json.loads(capsys.readouterr().out)
+    for key in ("normal_depth", "velocity", "froude", "manning_n", "lining", "stability", "units"):
+        assert d[key] == cli[key]
+    json.dumps(d, allow_nan=False)
