@@ -1,5 +1,5 @@
 """Command-line sub-commands. Each module has ``register(subparsers)`` and sets ``run``."""
 
-from . import calc, compare
+from . import calc, compare, fingerprint, sheet, verify
 
-COMMANDS = (calc, compare)
+COMMANDS = (calc, compare, sheet, fingerprint, verify)
