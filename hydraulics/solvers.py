@@ -181,7 +181,7 @@ def _newton_log_vector(evaluate, y, lo, hi):
                 fallback = np.where(~np.isfinite(hi), 4.0 * y, np.where(lo == 0.0, 0.25 * hi, np.sqrt(lo * hi)))
                 y_new = np.where(bad, fallback, y_new)
             y = np.where(done, y, y_new)  # a converged element stays where it is
-    worst = int(np.nanargmax(np.abs(g)))
+    worst = int(np.argmax(np.where(np.isfinite(g), np.abs(g), np.inf)))  # a non-finite residual is the worst
     raise ConvergenceError(f"no convergence in {_MAX_ITER} iterations for element {worst} "
                            f"(depth {y.flat[worst]:g} m, log residual {np.abs(g).flat[worst]:.3g})")
 
@@ -247,7 +247,7 @@ def solve_normal_depth(section, flow, slope, n=None) -> DepthSolution:
     lo = 0.0 if scalar else np.zeros(shape)
 
     # target is ln(Q n / sqrt(S)) for constant n; a model's n is guessed as 0.03 for the start.
-    y0 = section._depth_guess(target if rough[0] == "constant" else target + math.log(0.03))
+    y0 = section._depth_guess(target + (log(rough[1]) if rough[0] == "constant" else math.log(0.03)))
     if not scalar:
         y0 = np.broadcast_to(y0, shape).astype(float)
 
