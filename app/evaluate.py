@@ -21,9 +21,11 @@ import hydraulics as hy
 from hydraulics import rational, validate
 from hydraulics.linings import hec15
 from hydraulics.linings import Catalogue, load_catalogue
+from hydraulics.units import SI
 from hydraulics.stability import ComparisonRow, StabilityResult, check_lining, compare_linings
 
 from .project import Channel
+from .results import CHANNEL_FIELDS, convert
 
 __all__ = ["ChannelDesign", "evaluate_channel", "load_default_catalogue", "design_flow"]
 
@@ -75,6 +77,28 @@ class ChannelDesign:
     def stable(self) -> bool | None:
         """The lining's verdict as a flag; None without a lining."""
         return None if self.stability is None else self.stability.stable
+
+    def to_dict(self, units=SI) -> dict:
+        """JSON-friendly summary in ``units`` (a hydraulics.units.UnitSystem): the same keys as
+        ``ditchwright calc --json`` (uniform flow, ``lining``, ``stability``) plus ``channel``, ``flow_method``,
+        ``time_of_concentration`` [s], ``freeboard``, ``total_depth``, ``top_width_at_top``, ``comparison``
+        (rows as ``ditchwright compare --json``), ``warnings`` and ``notes``."""
+        L = lambda v: None if v is None else float(units.from_si("length", v))  # noqa: E731
+        out = {"channel": self.channel.name, "flow_method": self.flow_method,
+               "time_of_concentration": self.time_of_concentration}
+        out.update({f.key: convert(getattr(self.analysis, f.key), f.quantity, units) for f in CHANNEL_FIELDS})
+        out["flow"] = float(units.from_si("flow", self.flow))
+        if self.stability is not None:
+            st = self.stability
+            out["lining"] = {"key": st.lining_key, "name": st.lining_name, "n_used": st.manning_n,
+                             "n_relation": st.n_relation, "n_source": st.n_source, "d50": L(st.d50)}
+            out["stability"] = st.to_dict(units)
+        out.update({"freeboard": L(self.freeboard), "superelevation": L(self.superelevation),
+                    "total_depth": L(self.total_depth), "top_width_at_top": L(self.top_width_at_top),
+                    "comparison": [r.to_dict(units) for r in self.comparison],
+                    "units": {k: units.label(k) for k in ("length", "flow", "velocity", "area", "shear", "slope")},
+                    "warnings": list(self.warnings), "notes": list(self.notes)})
+        return out
 
 
 def design_flow(channel: Channel) -> tuple[float, float | None, list[str], list[str]]:

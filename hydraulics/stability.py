@@ -54,8 +54,8 @@ from .units import SI, UnitSystem
 
 __all__ = [
     "SELF_CLEANING_VELOCITY", "SELF_CLEANING_SOURCE", "NEAR_CRITICAL_SOURCE", "FREEBOARD_SOURCE",
-    "SUPERELEVATION_SOURCE", "STEEP_SLOPE_SOURCE", "RIGID_NOTE", "FILTER_NOTE", "LINED_WIDTH_RULE",
-    "ShearCheck", "StabilityResult", "ComparisonRow", "check_lining", "compare_linings", "parse_choice",
+    "SUPERELEVATION_SOURCE", "SUPERCRITICAL_BEND_SOURCE", "STEEP_SLOPE_SOURCE", "RIGID_NOTE", "FILTER_NOTE", "LINED_WIDTH_RULE",
+    "format_quantity", "ShearCheck", "StabilityResult", "ComparisonRow", "check_lining", "compare_linings", "parse_choice",
 ]
 
 #: Mean velocity below which fine sediment tends to settle in a lined channel [m/s]:
@@ -68,6 +68,7 @@ NEAR_CRITICAL_SOURCE = "common practice, from memory; design manuals differ slig
 FREEBOARD_SOURCE = ("HEC-15 Section 2: about 0.15 m (0.5 ft) for small roadside channels (from memory); "
                     "local design codes govern and may ask for more")
 SUPERELEVATION_SOURCE = "superelevation in the bend V^2 T / (g Rc), HEC-15 Section 3.4 (equation number from memory)"
+SUPERCRITICAL_BEND_SOURCE = "Chow (1959), Chapter 15, supercritical flow in curves (from memory)"
 STEEP_SLOPE_SOURCE = ("HEC-15 Section 3.5 and Appendix D: riprap on slopes steeper than 10 % is sized by the "
                       "steep-slope (safety factor) method (threshold from memory)")
 RIGID_NOTE = ("rigid lining treated as non-erodible (common practice: the permissible-shear method of HEC-15 is "
@@ -87,8 +88,8 @@ def _fmt(value: float) -> str:
     return f"{value:.{digits}f}"
 
 
-def _q(value, quantity: str, units: UnitSystem) -> str:
-    """A SI value in ``units`` with its label, e.g. '1.4 lb/ft^2'."""
+def format_quantity(value, quantity: str, units: UnitSystem = SI) -> str:
+    """A SI value in ``units`` to three significant figures with its label, e.g. '1.40 lb/ft^2'."""
     v = units.from_si(quantity, value)
     label = units.label(quantity)
     return f"{_fmt(float(v))} {label}".rstrip()
@@ -130,10 +131,10 @@ class ShearCheck:
             return (f"{self.location}: {what} as steep as or steeper than the stone's angle of repose; "
                     "stone cannot rest there")
         if self.permissible_shear is None:
-            return f"{self.location}: {_q(self.design_shear, 'shear', units)}, non-erodible lining"
+            return f"{self.location}: {format_quantity(self.design_shear, 'shear', units)}, non-erodible lining"
         kind = "Appendix D safety factor" if self.method == "appendix_d" else "safety factor"
-        return (f"{self.location}: {_q(self.design_shear, 'shear', units)} against "
-                f"{_q(self.permissible_shear, 'shear', units)} permissible "
+        return (f"{self.location}: {format_quantity(self.design_shear, 'shear', units)} against "
+                f"{format_quantity(self.permissible_shear, 'shear', units)} permissible "
                 f"({kind} {self.safety_factor:.2f}, {self.required_safety_factor:.2f} needed)")
 
 
@@ -228,15 +229,15 @@ class StabilityResult:
         c = self.governing_check()
         text = f"{self.verdict}, {c.words(units)}"
         if self.required_d50 is not None and self.d50 is not None:
-            text += (f"; smallest stable D50 {_q(self.required_d50, 'length', units)} "
-                     f"(given {_q(self.d50, 'length', units)})")
+            text += (f"; smallest stable D50 {format_quantity(self.required_d50, 'length', units)} "
+                     f"(given {format_quantity(self.d50, 'length', units)})")
         return text
 
     def freeboard_rule(self, units: UnitSystem = SI) -> str:
         """The freeboard rule applied, in words, with its source."""
-        text = f"minimum freeboard {_q(self.min_freeboard, 'length', units)} ({FREEBOARD_SOURCE})"
+        text = f"minimum freeboard {format_quantity(self.min_freeboard, 'length', units)} ({FREEBOARD_SOURCE})"
         if self.superelevation is not None:
-            text += f", plus {_q(self.superelevation, 'length', units)} {SUPERELEVATION_SOURCE}"
+            text += f", plus {format_quantity(self.superelevation, 'length', units)} {SUPERELEVATION_SOURCE}"
         return text
 
     def to_dict(self, units: UnitSystem = SI) -> dict:
@@ -609,12 +610,17 @@ def _check(section, q, s, lining, d50, rc, fb_min, n_override, sf_min, v_min) ->
                 notes.append(f"the smallest stable D50, {required * 1000:.3g} mm, is below {lo_d * 1000:g} mm, the "
                              "smallest size HEC-15 Chapter 6 covers; use at least that")
     req = {k: (None if (x is None or math.isinf(x)) else x) for k, x in req.items()}
-    thickness = lining.layer_thickness(d) if lining.thickness_data["rule"] == "stone" else lining.layer_thickness()
+    # the user's D50 (None: the entry's own, with its D100 where the catalogue gives one)
+    thickness = lining.layer_thickness(d50) if lining.thickness_data["rule"] == "stone" else lining.layer_thickness()
     thickness = None if thickness is None else float(thickness)
     thickness_rule = lining.thickness_data.get("source", "")
 
     # -- freeboard, ditch depth and quantities ------------------------------
     superelev = None if rc is None else float(hec15.superelevation(v, top, rc))
+    if rc is not None and fr > 1.0:
+        warn.append(f"supercritical flow (Froude number {fr:.2f}) in a bend forms cross waves whose crests can "
+                    f"rise above the superelevation estimate ({SUPERCRITICAL_BEND_SOURCE}); allow more freeboard "
+                    "or avoid the bend")
     fb = float(hec15.freeboard(v, top, rc, minimum=fb_min))
     total = y + fb
     top_depth = total
@@ -697,9 +703,20 @@ def _required_stone(section, q, s, lining, n_fixed, sides, rc, gs, phi, sf_min, 
     """
     from .solvers import normal_depth
 
+    def depth(dd):
+        if n_fixed is not None:
+            return float(normal_depth(section, q, s, n_fixed))
+        # A trial size is only a step of the search: where the solver cannot settle on a depth (the
+        # conveyance of the "auto" stone n is not monotone just above da/D50 = 1.5), nudge the trial.
+        for nudge in (1.0, 1.0 + 1e-6, 1.0 + 1e-4, 1.0 - 1e-4, 1.0 + 1e-3):
+            try:
+                return float(normal_depth(section, q, s, lining.roughness(dd * nudge)))
+            except NoSolutionError as exc:
+                last = exc
+        raise NoSolutionError(f"sizing the stone: no normal depth with a trial D50 of {dd * 1000:.4g} mm ({last})")
+
     def state(dd):
-        rough = n_fixed if n_fixed is not None else lining.roughness(dd)
-        y = float(normal_depth(section, q, s, rough))
+        y = depth(dd)
         sizes, method = _stone_sizes_at(y, float(section.top_width(y)), s, sides, rc, gs, phi, sf_min)
         return max(x for x in sizes.values() if x is not None), sizes, method, y
 
@@ -840,7 +857,7 @@ def parse_choice(choice):
         try:
             d = float(size)
         except ValueError:
-            raise InputError("d50", f"after ':' in {choice!r} must be a number (D50), got {size!r}") from None
+            raise InputError("d50", f"must be a number after ':' in {choice!r}, got {size!r}") from None
         return key, float(validate.positive("d50", d))
     if isinstance(choice, (tuple, list)) and len(choice) == 2:
         return str(choice[0]), choice[1]

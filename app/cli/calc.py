@@ -5,7 +5,7 @@ from __future__ import annotations
 import hydraulics as hy
 from hydraulics import units as hu
 from hydraulics.errors import InputError
-from hydraulics.stability import check_lining
+from hydraulics.stability import check_lining, format_quantity
 
 from ..results import CHANNEL_FIELDS, convert, format_value
 from .common import (CliError, add_channel_options, check_dimensions, check_numbers, emit_json, require, section_from_args,
@@ -106,7 +106,7 @@ def lining_json(stab, units) -> dict:
 def stability_rows(stab, units) -> list:
     """(label, value) rows of a lining check, in the user's units."""
     L = lambda v: f"{units.from_si('length', v):.3f} {units.label('length')}"  # noqa: E731
-    T = lambda v: f"{units.from_si('shear', v):.3g} {units.label('shear')}"  # noqa: E731
+    T = lambda v: format_quantity(v, "shear", units)  # noqa: E731
     rows = [("Lining", f"{stab.lining_name} ({stab.lining_key})"),
             ("Manning's n used", f"{stab.manning_n:.4f}, {stab.n_source}")]
     if stab.d50 is not None:

@@ -54,7 +54,10 @@ def choice_from_text(text: str, units: hu.UnitSystem):
     try:
         key, d50 = parse_choice(text)
     except InputError as exc:
-        raise CliError(f"--lining: {str(exc).split(': ', 1)[1]}") from None
+        message = str(exc).split(": ", 1)[1]
+        if exc.field == "d50":
+            raise CliError(f"--lining {text}: D50 {message}") from None
+        raise CliError(f"--lining: {message}") from None
     if d50 is not None:
         d50 = units.to_si("length", d50)
     return key, d50
@@ -74,7 +77,7 @@ def explain(exc: InputError, units: hu.UnitSystem, top_width=None) -> CliError:
     message = str(exc).split(": ", 1)[1] if ": " in str(exc) else str(exc)
     if field.startswith("lining '"):
         key, _, rest = field[len("lining '"):].partition("' ")
-        hint = " (add it to a user catalogue and pass --user-catalogue FILE)" if "user data" in message else ""
+        hint = "; pass that file with --user-catalogue FILE" if "user data" in message else ""
         return CliError(f"--lining {key}: {rest} {message}{hint}")
     if field == "bend_radius" and top_width is not None:
         half = units.from_si("length", top_width / 2)
