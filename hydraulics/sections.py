@@ -89,7 +89,7 @@ class Section:
             over = np.asarray(y) > self.full_depth * (1 + 1e-12)
             if over.any():
                 raise InputError("depth", f"must be <= the section's full depth {np.max(self.full_depth):g} m, "
-                                          f"got {np.max(np.asarray(y)[over]):g} m")
+                                          f"got {np.max(np.broadcast_to(y, over.shape)[over]):g} m")
         return y
 
     # -- for subclasses and solvers --------------------------------------

@@ -515,6 +515,20 @@ def test_lining_roughness_from_the_catalogue_matches_the_scalar_api():
         assert res.bed_shear[i] == pytest.approx(ref.bed_shear, rel=1e-8)
 
 
+def test_stone_lined_pipes_below_one_metre_take_the_lining_roughness():
+    """A riprap-lined pipe without an n is solved with the stone's n (HEC-15 Section 6.1) like the scalar API."""
+    from hydraulics.linings import load_catalogue
+
+    rough = load_catalogue().get("riprap").roughness()
+    rows = [{"id": f"P{i}", "shape": "circle", "diameter": d, "slope": "0.01", "flow": q, "lining": "riprap"}
+            for i, (d, q) in enumerate([("0.45", "0.05"), ("0.6", "0.1"), ("1.5", "0.8")])]
+    _, res, out = check(csv_text(rows), "si")
+    for i, row in enumerate(rows):
+        assert out[i]["verdict"] in ("stable", "unstable"), out[i]["reason"]
+        ref = hy.analyse(hy.Circle(diameter=float(row["diameter"])), float(row["flow"]), 0.01, rough)
+        assert res.normal_depth[i] == pytest.approx(ref.normal_depth, rel=1e-8)
+
+
 def test_lining_errors():
     rows = [{**GOOD, "lining": "rip-rap", "n": ""}, {**GOOD, "lining": "concrete", "d50": "0.5"},
             {**GOOD, "lining": "blanket_user", "n": ""}, {**GOOD, "lining": "blanket_user"}]

@@ -90,6 +90,23 @@ def test_stone_roughness_check_reports_ranges():
     assert any("Blodgett" in w for w in StoneRoughness(0.3, "blodgett").check(section, 0.3, 0.02))
 
 
+def test_stone_roughness_in_a_pipe_smaller_than_one_metre():
+    # The lowest usable depth of Bathurst's relation is searched from a small depth up; a pipe whose
+    # crown is below 1 m must not be asked about a depth of 1 m on the way. Reference: Manning's
+    # equation solved by scipy's brentq with the same roughness (independent of the core's solver),
+    # at flows small enough that the depth lies below the jump of n at da/D50 = 1.5 (one root).
+    r = StoneRoughness(0.15)
+    diameters, flows = np.array([0.45, 0.6, 0.9]), np.array([0.02, 0.03, 0.04])
+    ys = hy.normal_depth(hy.Circle(diameter=diameters), flows, 0.01, n=r)
+    for d, q, y in zip(diameters, flows, ys):
+        section = hy.Circle(diameter=float(d))
+        assert hy.normal_depth(section, float(q), 0.01, n=r) == pytest.approx(y, rel=1e-9)
+        def f(y):
+            g = section.properties(y)
+            return g.area * (g.area / g.wetted_perimeter) ** (2 / 3) * 0.1 / r.manning_n(section, y, 0.01) - q
+        assert y == pytest.approx(brentq(f, 1e-3, 0.45 * d, xtol=1e-14, rtol=1e-14), rel=1e-9)
+
+
 def test_strickler_is_depth_independent():
     section = hy.Rectangle(bottom_width=1.0)
     r = StoneRoughness(0.3048, "strickler")

@@ -114,6 +114,11 @@ def test_depth_beyond_pipe_crown_refused():
         hy.Circle(diameter=1.0).area(1.2)
 
 
+def test_depth_beyond_the_crown_of_pipe_arrays_is_refused_naming_the_depth():
+    with pytest.raises(hy.InputError, match="full depth 0.7 m, got 1 m"):
+        hy.Circle(diameter=np.array([0.6, 0.7])).area(1.0)
+
+
 def test_round_trip_to_dict():
     for s in (hy.Trapezoid(bottom_width=1, left_slope=2, right_slope=3), hy.Triangle(side_slope=4),
               hy.Rectangle(bottom_width=2), hy.Parabola(top_width=3, at_depth=0.5), hy.Circle(diameter=0.6),

@@ -144,8 +144,9 @@ class StoneRoughness:
             _, p, _ = hec15._bathurst_terms(np.asarray(da, float), self.d50, np.asarray(top, float))
             return (ratio > hec15.BATHURST_RANGE[0]) & (np.asarray(p) <= P_LIMIT), ratio
 
-        shape = np.shape(section.properties(1.0).area)
-        hi = np.full(shape, 1e-3 * self.d50)
+        start = 1e-3 * self.d50  # a depth every section holds (a pipe may be smaller than 1 m)
+        shape = np.shape(section.properties(start).area)
+        hi = np.full(shape, start)
         for _ in range(80):  # grow to a depth where da/D50 reaches the split
             ok, ratio = usable(hi if shape else float(hi))
             grow = np.asarray(ratio) < split
