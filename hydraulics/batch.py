@@ -22,8 +22,8 @@ Nothing here raises for one bad reach. Each reach gets a ``verdict`` and a
   values the user has to fill in from a data sheet);
 * ``stable`` / ``unstable``: the lining's permissible shear holds / does not
   hold the design shear with the required safety factor at every place
-  checked (bed and side slopes; FHWA HEC-15 permissible-shear method, see
-  :func:`assess_stability`);
+  checked (bed and side slopes; FHWA HEC-15 permissible-shear method,
+  :func:`hydraulics.stability.shear_checks`);
 * ``non-erodible``: a rigid lining, not checked for shear (common practice).
 
 Warnings (near-critical flow, flow that is not fully turbulent, a pipe above
@@ -50,6 +50,7 @@ from .errors import HydraulicsError, InputError
 from .linings import hec15, load_catalogue
 from .linings.hec15 import ValidityWarning
 from .sections import Circle, Trapezoid
+from .stability import shear_checks
 from .solvers import flow_at_depth, max_flow
 from .validate import MAX_SLOPE
 
@@ -502,59 +503,49 @@ def assess_stability(lining, reaches: Reaches, rows, out: BatchResult, display: 
                      n_given: bool) -> None:
     """HEC-15 permissible-shear check of ``lining`` on the solved reaches ``rows``, vectorised.
 
-    The checks are those of :func:`hydraulics.stability.check_lining` for a
-    straight reach (an inventory has no bend radius), after HEC-15 (Kilgore
-    and Cotton, 3rd ed., 2005) Chapter 3:
-
-    * design shear on the bed tau_d = gamma d S (Eq. 3.1, the ``bed_shear``
-      column) and on each straight side slope K1 tau_d (Section 3.2); a pipe
-      has no side check;
-    * permissible shear tau_p: stone by Eq. 6.7 with F* and the required
-      safety factor from Table 6.1 at the particle Reynolds number (Eq. 6.9),
-      on a side slope K2 tau_p (Section 6.3.2), and on beds steeper than
-      ``hec15.STEEP_SLOPE`` the side stone by the safety factor of Appendix D;
-      stone cannot rest on a side as steep as its angle of repose; grass from
-      its soil and cover (Chapter 4); bare soil (Chapter 4); rolled products
-      from their data-sheet value; rigid linings are non-erodible;
-    * stable where tau_p / tau >= the required safety factor at every check
-      (Eq. 3.2).
+    The checks are :func:`hydraulics.stability.shear_checks`, the ones
+    :func:`hydraulics.stability.check_lining` makes, for a straight reach (an
+    inventory has no bend radius): design shear tau_d = gamma d S on the bed
+    (HEC-15, Kilgore and Cotton, 3rd ed., 2005, Eq. 3.1, the ``bed_shear``
+    column) and K1 tau_d on each straight side slope (a pipe has no side
+    check), against the lining's permissible shear (stone by Eq. 6.7 and
+    Table 6.1, K2 or Appendix D on the sides; grass, soil, data-sheet values;
+    rigid linings non-erodible), stable where tau_p / tau >= the required
+    safety factor at every check (Eq. 3.2). See that function for the
+    relations and their sources.
 
     ``permissible_shear`` gets tau_p on the bed and ``safety_factor`` the
-    lowest factor over the checks. A relation's range of validity left by
-    some reaches is noted once per lining in ``out.messages``. Which of these
-    relations were read in HEC-15 and which are from memory (Table 6.1, K2,
-    Appendix D) is recorded beside each in :mod:`hydraulics.linings.hec15`;
-    tests/test_batch_stability.py checks every number against check_lining.
+    lowest factor over the checks; the reason words the governing check. A
+    relation's range of validity left by some reaches is noted once per
+    lining in ``out.messages``.
     """
     rows = np.asarray(rows, dtype=np.intp)
     if not len(rows):
         return
-    method = lining.permissible_data["method"]
     how = "with the n given" if n_given else "with the lining's own n"
-    if method == "none":
-        _prefix(out, rows, "non-erodible", f"non-erodible: {lining.name} is a rigid lining, not checked for shear "
-                                           "(common practice)")
-        return
     with warnings.catch_warnings(record=True) as caught:
         warnings.simplefilter("always", ValidityWarning)
         try:
-            tau_p, required, checks = _shear_checks(lining, method, reaches, rows, out)
+            sc = _shear_checks(lining, reaches, rows, out)
         except InputError as exc:  # an entry whose values the user has to fill in
             _prefix(out, rows, "not-checked", f"{exc}; hydraulics {how}, shear not compared with a permissible value")
             return
+    if sc.non_erodible:
+        _prefix(out, rows, "non-erodible", f"non-erodible: {lining.name} is a rigid lining, not checked for shear "
+                                           "(common practice)")
+        return
     for w in caught:
         note = f"lining {lining.key!r}: {w.message}"
         if note not in out.messages:
             out.messages.append(note)
-    factors = np.column_stack([c["factor"] for c in checks])
-    gov = np.argmin(factors, axis=1)
-    sf = factors[np.arange(len(rows)), gov]
+    gov = sc.governing()
+    sf = sc.pick("safety_factor", gov)
+    required = sc.required_safety_factor
     stable = sf >= required
-    out.permissible_shear[rows] = tau_p
+    out.permissible_shear[rows] = sc.permissible_shear
     out.safety_factor[rows] = sf
-    pick = lambda key: np.choose(gov, [c[key] for c in checks])  # noqa: E731  (the governing check's values)
-    where, design, permissible = pick("where"), pick("design"), pick("permissible")
-    cannot, appendix = pick("cannot").astype(bool), pick("appendix_d").astype(bool)
+    where, design, permissible = (sc.pick(k, gov) for k in ("location", "design_shear", "permissible_shear"))
+    cannot, appendix = sc.pick("cannot_rest", gov).astype(bool), sc.pick("appendix_d", gov).astype(bool)
     unit = display.label("shear")
     design, permissible = display.from_si("shear", design), display.from_si("shear", permissible)
     dd, pd = _digits3(design), _digits3(permissible)
@@ -584,60 +575,18 @@ def _digits3(values):
     return np.clip(np.where(np.isfinite(mag), 2 - mag, 0), 0, 12).astype(int)
 
 
-def _shear_checks(lining, method, reaches, rows, out):
-    """(tau_p on the bed, required safety factor, [check]) for the reaches ``rows``, all arrays over them.
-
-    Each check is a dict of arrays: where (label), design (shear), permissible,
-    factor (safety factor), cannot (stone cannot rest) and appendix_d.
-    """
-    size = len(rows)
-    y, s, tau = out.normal_depth[rows], reaches.slope[rows], out.bed_shear[rows]
-    no = np.zeros(size, dtype=bool)
-    if method == "shields":
-        d = np.where(reaches.d50[rows] > 0, reaches.d50[rows], np.nan)
-        d = np.where(np.isnan(d), float(lining.d50) if lining.d50 is not None else np.nan, d)
-        if np.isnan(d).any():
+def _shear_checks(lining, reaches, rows, out):
+    """hydraulics.stability.shear_checks for the solved reaches ``rows`` (straight reaches; pipes without sides)."""
+    d50 = None
+    if lining.permissible_data["method"] == "shields":
+        d50 = np.where(reaches.d50[rows] > 0, reaches.d50[rows], np.nan)
+        d50 = np.where(np.isnan(d50), float(lining.d50) if lining.d50 is not None else np.nan, d50)
+        if np.isnan(d50).any():
             raise InputError("d50", f"lining {lining.key!r} needs a D50 (give one in the d50 column)")
-        gs, phi = float(lining.specific_weight), float(lining.angle_of_repose)
-        shields, sf_table = hec15.shields_and_safety_factor(hec15.particle_reynolds(y, s, d))
-        required = np.maximum(sf_table, 1.0)
-        tau_p = np.asarray(hec15.stone_permissible_shear(d, shields, gs), dtype=float)
-    else:
-        required = np.ones(size)
-        if method == "vegetation":
-            tau_p = np.asarray(hec15.vegetation_permissible_shear(
-                float(lining.soil_permissible_shear()), float(lining.cover_factor()), out.manning_n[rows],
-                float(lining.soil_grain_n())), dtype=float)
-        else:
-            value = lining.soil_permissible_shear() if method == "soil" else lining.field_value("permissible", "shear")
-            tau_p = np.full(size, float(validate.positive(f"lining {lining.key!r} permissible.shear", value)))
-    checks = [{"where": np.full(size, "bed", dtype=object), "design": tau, "permissible": tau_p,
-               "factor": tau_p / tau, "cannot": no, "appendix_d": no}]
     sided = reaches.kind[rows] != _CIRCLE
-    z1 = np.where(sided, np.nan_to_num(reaches.left_slope[rows]), 0.0)
-    z2 = np.where(sided, np.nan_to_num(reaches.right_slope[rows]), 0.0)
-    same = z1 == z2
-    for z, label in ((z1, np.where(same, "side slopes", "left side slope")),
-                     (z2, np.where(same, "side slopes", "right side slope"))):
-        k1 = np.asarray(hec15.side_slope_factor(z), dtype=float)
-        design = k1 * tau
-        permissible = tau_p.copy()
-        cannot = np.zeros(size, dtype=bool)
-        steep = np.zeros(size, dtype=bool)
-        if method == "shields":
-            theta = np.where(z > 0, np.arctan(1.0 / np.where(z > 0, z, 1.0)), np.pi / 2)
-            cannot = sided & (theta >= math.radians(phi))
-            steep = sided & ~cannot & (s > hec15.STEEP_SLOPE)
-            mild = sided & ~cannot & ~steep
-            permissible[mild] = hec15.tractive_force_ratio(z[mild], phi) * tau_p[mild] if mild.any() else 0.0
-            permissible[cannot] = 0.0
-        factor = np.where(sided, permissible / design, np.inf)
-        for j in np.flatnonzero(steep):
-            factor[j] = hec15.steep_slope_safety_factor(float(d[j]), float(y[j]), float(s[j]), float(z[j]), phi,
-                                                        float(shields[j]), gs)
-        checks.append({"where": label, "design": design, "permissible": permissible, "factor": factor,
-                       "cannot": cannot, "appendix_d": steep})
-    return tau_p, required, checks
+    return shear_checks(lining, out.normal_depth[rows], reaches.slope[rows], out.manning_n[rows], d50=d50,
+                        left_slope=np.where(sided, np.nan_to_num(reaches.left_slope[rows]), np.nan),
+                        right_slope=np.where(sided, np.nan_to_num(reaches.right_slope[rows]), np.nan))
 
 
 def _prefix_each(out, rows, texts):

@@ -30,7 +30,11 @@ The result keeps its numbers in SI and words its verdict on request in any
 unit system (:meth:`StabilityResult.reason`), so every front end prints the
 same sentence in its own units.
 
-Only single channels (scalar inputs) are checked here; batches loop over it.
+Steps 2 to 4 are :func:`shear_checks`, on arrays: :func:`check_lining` calls
+it for one channel, and the inventory check (:mod:`hydraulics.batch`) for
+thousands at once, so each relation is strung together in one place. The
+rest of :func:`check_lining` (stone sizing, freeboard, quantities, words) is
+for single channels.
 """
 
 from __future__ import annotations
@@ -55,7 +59,7 @@ from .units import SI, UnitSystem
 __all__ = [
     "SELF_CLEANING_VELOCITY", "SELF_CLEANING_SOURCE", "NEAR_CRITICAL_SOURCE", "FREEBOARD_SOURCE",
     "SUPERELEVATION_SOURCE", "SUPERCRITICAL_BEND_SOURCE", "STEEP_SLOPE_SOURCE", "RIGID_NOTE", "FILTER_NOTE", "LINED_WIDTH_RULE",
-    "format_quantity", "ShearCheck", "StabilityResult", "ComparisonRow", "check_lining", "compare_linings", "parse_choice",
+    "format_quantity", "ShearCheck", "ShearCheckArray", "ShearChecks", "shear_checks", "StabilityResult", "ComparisonRow", "check_lining", "compare_linings", "parse_choice",
 ]
 
 #: Mean velocity below which fine sediment tends to settle in a lined channel [m/s]:
@@ -342,6 +346,292 @@ def _roughness_text(lining: Lining, relation: str) -> str:
 
 
 # --------------------------------------------------------------------------
+# the shear checks, on arrays
+# --------------------------------------------------------------------------
+
+@dataclass
+class ShearCheckArray:
+    """One place where the shear is checked, over many channels: arrays with one entry per channel (SI).
+
+    ``applies`` is False where a channel has no such place (no straight side
+    slope, no bend); its ``safety_factor`` is inf there, so it never governs.
+    For a rigid lining ``permissible_shear`` and ``safety_factor`` are nan.
+    For the steep-slope method (``appendix_d``) ``safety_factor`` is the
+    Appendix D factor and ``permissible_shear`` the side shear at which it is
+    1 (nan unless asked for with ``incipient``).
+    """
+
+    location: np.ndarray           # object array of str: "bed", "side slopes", "left side slope", ... "bend"
+    applies: np.ndarray            # bool
+    design_shear: np.ndarray       # [Pa]
+    permissible_shear: np.ndarray  # [Pa]
+    safety_factor: np.ndarray      # [-]
+    side_slope: np.ndarray | None  # Z of the side [H:V] (side checks only)
+    shear_factor: np.ndarray | None  # K1 on a side, Kb in a bend (None on the bed)
+    tractive_ratio: np.ndarray | None  # K2 where the stone's side resistance uses it, else nan (stone sides only)
+    cannot_rest: np.ndarray        # bool: stone on a side as steep as or steeper than its angle of repose
+    appendix_d: np.ndarray         # bool: side stone of a steep bed, checked by HEC-15 Appendix D
+
+
+@dataclass
+class ShearChecks:
+    """Every place :func:`shear_checks` checked, for one lining over many channels (SI arrays).
+
+    ``checks`` holds the bed first, then the left and the right side slope
+    (where side slopes were given; where both sides are alike the two carry
+    the same location, "side slopes", and the same numbers), then the bend
+    (where a bend radius was given).
+    """
+
+    method: str                      # the lining's permissible-shear method ("none": rigid)
+    design_shear: np.ndarray         # tau_d on the bed [Pa] (HEC-15 Eq. 3.1)
+    permissible_shear: np.ndarray    # tau_p on the bed [Pa]; nan for a rigid lining
+    required_safety_factor: np.ndarray  # [-]
+    checks: list                     # of ShearCheckArray
+    d50: np.ndarray | None = None    # stone only: D50 [m], particle Reynolds number Re*, Shields' F*
+    reynolds: np.ndarray | None = None
+    shields: np.ndarray | None = None
+
+    @property
+    def non_erodible(self) -> bool:
+        return self.method == "none"
+
+    def governing(self) -> np.ndarray:
+        """Index into ``checks`` of each channel's lowest safety factor (the first on a tie; the bed if rigid)."""
+        if self.non_erodible:
+            return np.zeros(len(self.design_shear), dtype=np.intp)
+        return np.argmin(np.column_stack([c.safety_factor for c in self.checks]), axis=1)
+
+    def pick(self, name: str, governing=None) -> np.ndarray:
+        """The governing check's values of the ShearCheckArray field ``name``, per channel."""
+        gov = self.governing() if governing is None else governing
+        return np.choose(gov, [getattr(c, name) for c in self.checks])
+
+    @property
+    def safety_factor(self) -> np.ndarray:
+        """Lowest safety factor over the checks (nan for a rigid lining)."""
+        return self.pick("safety_factor")
+
+    @property
+    def stable(self) -> np.ndarray:
+        """Where every check holds (HEC-15 Eq. 3.2); True for a rigid lining."""
+        if self.non_erodible:
+            return np.ones(len(self.design_shear), dtype=bool)
+        return self.safety_factor >= self.required_safety_factor
+
+
+def _side_array(name, values, size):
+    """Side slopes as a float array of ``size`` (nan: no such side), the finite ones checked >= 0."""
+    z = np.broadcast_to(np.asarray(values, dtype=float), (size,)).astype(float)
+    given = ~np.isnan(z)
+    if given.any():
+        validate.non_negative(name, z[given])
+    return z
+
+
+def shear_checks(lining: Lining, depth, slope, manning_n=None, *, d50=None, left_slope=None, right_slope=None,
+                 bend_radius=None, top_width=None, min_safety_factor=1.0, incipient=False) -> ShearChecks:
+    r"""Design shear against the lining's permissible shear on the bed, the side slopes and in a bend, on arrays.
+
+    .. math::
+        \tau_d = \gamma d S \ \text{(Eq. 3.1)}, \quad \tau_s = K_1 \tau_d, \quad \tau_b = K_b \tau_d,
+        \quad \text{stable where } \tau_p / \tau \ge SF \ \text{(Eq. 3.2)}
+
+    The permissible shear tau_p by the lining's method:
+
+    * stone (``shields``): Eq. 6.7, tau_p = F* (gamma_s - gamma) D50, with
+      F* and the required safety factor SF from Table 6.1 at the particle
+      Reynolds number Re* (Eq. 6.9); SF is at least ``min_safety_factor``.
+      On a side slope the stone's resistance is K2 tau_p (tractive force
+      ratio, Section 6.3.2) on beds up to ``hec15.STEEP_SLOPE``; on steeper
+      beds the side stone is checked by the safety factor of Appendix D.
+      Stone cannot rest on a side as steep as or steeper than its angle of
+      repose (safety factor 0 there);
+    * grass (``vegetation``): from its soil and cover at the lining's n
+      (Chapter 4);
+    * bare soil (``soil``): the soil's permissible shear (Chapter 4);
+    * rolled products (``value``): the user's data-sheet value;
+    * rigid linings (``none``): non-erodible, not checked (common practice:
+      the method is written for flexible linings).
+
+    Parameters
+    ----------
+    lining : hydraulics.linings.Lining
+        A catalogue entry (``Catalogue.get(key)``).
+    depth : float or ndarray
+        Maximum flow depth d [m], > 0 (normal depth).
+    slope : float or ndarray
+        Bed slope S [m/m], > 0 and <= 1.
+    manning_n : float or ndarray, optional
+        Manning's n at the design flow [s/m^(1/3)], > 0; needed for grass.
+    d50 : float or ndarray, optional
+        Stone size D50 [m], > 0; needed for stone, refused for other linings.
+    left_slope, right_slope : float or ndarray, optional
+        Side slopes Z [H:V], >= 0; nan (or None for all) where a channel has
+        no straight side slopes (pipes, parabolas). ``right_slope`` defaults
+        to ``left_slope``.
+    bend_radius : float or ndarray, optional
+        Centre-line radius Rc of a bend [m], >= half the water-surface width;
+        nan (or None for all) for a straight reach.
+    top_width : float or ndarray, optional
+        Water-surface width T [m], > 0; needed with ``bend_radius`` (Kb is a
+        function of Rc/T).
+    min_safety_factor : float
+        Safety factor required [-], >= 1 (the larger of it and Table 6.1's
+        for stone).
+    incipient : bool
+        Also find, for the Appendix D checks, the side shear at which the
+        factor is 1 (a root search per channel; else nan).
+
+    Returns
+    -------
+    ShearChecks
+        Arrays with one entry per channel (inputs broadcast together, at least 1-D).
+
+    Raises
+    ------
+    InputError
+        A bad input, naming the field; also a user-data catalogue entry whose
+        values have not been filled in.
+
+    Notes
+    -----
+    A relation used outside its range of validity gives a ValidityWarning
+    (for instance a D50 outside 15 to 550 mm). Which relations were read in
+    HEC-15 and which are from memory (Table 6.1, K1, K2, Kb, Appendix D) is
+    recorded beside each in :mod:`hydraulics.linings.hec15`. The bend check
+    applies Kb to the bed shear; it is not combined with K1.
+
+    References
+    ----------
+    Kilgore, R. T. and Cotton, G. K., Design of Roadside Channels with Flexible
+    Linings, HEC-15, 3rd ed., FHWA-NHI-05-114, 2005: Chapters 3, 4 and 6 and
+    Appendix D.
+    """
+    if not isinstance(lining, Lining):
+        raise InputError("lining", f"must be a catalogue lining (Catalogue.get(key)), got {type(lining).__name__}")
+    given = [v for v in (depth, slope, manning_n, d50, left_slope, right_slope, bend_radius, top_width)
+             if v is not None]
+    try:
+        shape = np.broadcast_shapes(*(np.shape(v) for v in given))
+    except ValueError:
+        raise InputError("depth", "and the other inputs must be single values or arrays of one length, got shapes "
+                                  f"{', '.join(str(np.shape(v)) for v in given)}") from None
+    if len(shape) > 1:
+        raise InputError("depth", f"and the other inputs must be at most 1-D, got shape {shape}")
+    size = shape[0] if shape else 1
+    y = np.broadcast_to(np.atleast_1d(validate.positive("depth", depth)), (size,))
+    s = np.broadcast_to(np.atleast_1d(validate.slope(slope)), (size,))
+    sf_min = float(validate.number("min_safety_factor", min_safety_factor, low=1.0, low_inclusive=True))
+    method = lining.permissible_data["method"]
+    tau = hec15.design_shear(y, s)
+
+    if bend_radius is None:
+        rc = None
+    else:
+        if top_width is None:
+            raise InputError("top_width", "is needed with bend_radius (Kb depends on Rc/T)")
+        rc = np.broadcast_to(np.asarray(bend_radius, dtype=float), (size,))
+        top = np.broadcast_to(np.atleast_1d(validate.positive("top_width", top_width)), (size,))
+        bent = ~np.isnan(rc)
+        if bent.any():
+            validate.positive("bend_radius", rc[bent])
+            short = bent & (rc < top / 2)
+            if short.any():
+                i = int(np.flatnonzero(short)[0])
+                raise InputError("bend_radius", f"must be at least half the water-surface width ({top[i] / 2:.3g} m), "
+                                                f"got {rc[i]:g} m: the inner bank would lie beyond the bend's centre")
+
+    stone = method == "shields"
+    d = reynolds = shields = None
+    if stone:
+        if d50 is None:
+            raise InputError("d50", f"lining {lining.key!r} needs a D50")
+        d = np.broadcast_to(np.atleast_1d(validate.positive("d50", d50)), (size,))
+        gs, phi = float(lining.specific_weight), float(lining.angle_of_repose)
+        reynolds = hec15.particle_reynolds(y, s, d)
+        shields, sf_table = hec15.shields_and_safety_factor(reynolds)
+        required = np.maximum(sf_table, sf_min)
+        tau_p = np.asarray(hec15.stone_permissible_shear(d, shields, gs), dtype=float)
+    else:
+        if d50 is not None:
+            raise InputError("d50", f"applies to stone linings only; {lining.key!r} is {lining.category}")
+        required = np.full(size, 1.0 if method == "none" else sf_min)
+        if method == "none":
+            tau_p = np.full(size, np.nan)
+        elif method == "vegetation":
+            if manning_n is None:
+                raise InputError("manning_n", f"is needed for the grass lining {lining.key!r} (its permissible "
+                                              "shear depends on the lining's n)")
+            tau_p = np.broadcast_to(np.asarray(hec15.vegetation_permissible_shear(
+                float(lining.soil_permissible_shear()), float(lining.cover_factor()), manning_n,
+                float(lining.soil_grain_n())), dtype=float), (size,))
+        else:
+            value = lining.soil_permissible_shear() if method == "soil" else lining.field_value("permissible", "shear")
+            tau_p = np.full(size, float(validate.positive(f"lining {lining.key!r} permissible.shear", value)))
+
+    no = np.zeros(size, dtype=bool)
+
+    def ratio(permissible, design, applies):
+        with np.errstate(divide="ignore", invalid="ignore"):
+            sf = np.where(design > 0, permissible / design, np.inf)
+        return np.where(applies, sf, np.inf)
+
+    everywhere = np.ones(size, dtype=bool)
+    checks = [ShearCheckArray(np.full(size, "bed", dtype=object), everywhere, tau, tau_p,
+                              ratio(tau_p, tau, everywhere), None, None, None, no, no)]
+    if left_slope is not None:
+        z1 = _side_array("left_slope", left_slope, size)
+        z2 = z1 if right_slope is None else _side_array("right_slope", right_slope, size)
+        same = (z1 == z2) | (np.isnan(z1) & np.isnan(z2))
+        for z, other in ((z1, "left side slope"), (z2, "right side slope")):
+            applies = ~np.isnan(z)
+            zz = np.where(applies, z, 0.0)
+            k1 = np.asarray(hec15.side_slope_factor(zz), dtype=float)
+            design = k1 * tau
+            permissible = tau_p.copy()
+            cannot = steep = no
+            k2 = None
+            factor = None
+            if stone:
+                theta = np.where(zz > 0, np.arctan(1.0 / np.where(zz > 0, zz, 1.0)), np.pi / 2)
+                cannot = applies & (theta >= math.radians(phi))
+                steep = applies & ~cannot & (s > hec15.STEEP_SLOPE)
+                mild = applies & ~cannot & ~steep
+                k2 = np.full(size, np.nan)
+                if mild.any():
+                    k2[mild] = hec15.tractive_force_ratio(zz[mild], phi)
+                permissible = np.where(mild, k2 * tau_p, permissible)
+                permissible[cannot] = 0.0
+                factor = ratio(permissible, design, applies)
+                if steep.any():
+                    factor[steep] = hec15.steep_slope_safety_factor(d[steep], y[steep], s[steep], zz[steep], phi,
+                                                                    shields[steep], gs)
+                    permissible[steep] = np.nan
+                    if incipient:
+                        alpha = np.arctan(s)
+                        for j in np.flatnonzero(steep):
+                            permissible[j] = _steep_incipient_shear(float(d[j]), float(theta[j]), float(alpha[j]),
+                                                                    math.radians(phi), float(shields[j]), gs,
+                                                                    GAMMA_WATER)
+            if factor is None:
+                factor = ratio(permissible, design, applies)
+            checks.append(ShearCheckArray(np.where(same, "side slopes", other).astype(object), applies, design,
+                                          permissible, factor, z, k1, k2, cannot, steep))
+    if rc is not None:
+        kb = np.full(size, np.nan)
+        if bent.any():
+            kb[bent] = hec15.bend_factor(rc[bent], top[bent])
+        design = kb * tau
+        checks.append(ShearCheckArray(np.full(size, "bend", dtype=object), bent, design, tau_p,
+                                      ratio(tau_p, design, bent), None, kb, None, no, no))
+    if method == "none":
+        for c in checks:
+            c.safety_factor = np.full(size, np.nan)
+    return ShearChecks(method, tau, tau_p, required, checks, d, reynolds, shields)
+
+
+# --------------------------------------------------------------------------
 # the check
 # --------------------------------------------------------------------------
 
@@ -477,68 +767,39 @@ def _check(section, q, s, lining, d50, rc, fb_min, n_override, sf_min, v_min) ->
         warn.append(f"velocity {v:.2f} m/s ({v / 0.3048:.2f} ft/s) is below {v_min:.2f} m/s "
                     f"({v_min / 0.3048:.1f} ft/s), so silt may settle in the channel ({SELF_CLEANING_SOURCE})")
 
-    if rc is not None and rc < top / 2:
-        raise InputError("bend_radius", f"must be at least half the water-surface width ({top / 2:.3g} m), "
-                                        f"got {rc:g} m: the inner bank would lie beyond the bend's centre")
-
-    # -- design shear ---------------------------------------------------------
-    tau_d = float(hec15.design_shear(y, s))
+    # -- design shear, permissible shear and the checks (HEC-15 Chapter 3) -----
+    zs = section.side_slopes
+    method = lining.permissible_data["method"]
+    permissible_source = lining.permissible_data.get("source", "")
+    sc = shear_checks(lining, y, s, n_used, d50=d if stone else None,
+                      left_slope=None if zs is None else float(zs[0]),
+                      right_slope=None if zs is None else float(zs[1]),
+                      bend_radius=rc, top_width=top, min_safety_factor=sf_min, incipient=True)
+    tau_d = float(sc.design_shear[0])
     sides = [(label, z, float(hec15.side_slope_factor(z))) for label, z in _sides(section)]
     if not sides:
         notes.append(f"no side-slope check for a {section.kind} section (the side-slope factor K1 of HEC-15 "
                      "applies to straight side slopes)")
     kb = tau_b = lp = None
     if rc is not None:
-        kb = float(hec15.bend_factor(rc, top))
-        tau_b = kb * tau_d
+        kb = float(sc.checks[-1].shear_factor[0])
+        tau_b = float(sc.checks[-1].design_shear[0])
         lp = float(hec15.bend_protection_length(float(res.hydraulic_radius), n_used))
-
-    # -- permissible shear and the checks ------------------------------------
-    method = lining.permissible_data["method"]
-    permissible_source = lining.permissible_data.get("source", "")
-    checks: list[ShearCheck] = []
+    rigid = sc.non_erodible
+    sf_req = float(sc.required_safety_factor[0])
+    tau_p = None if rigid else float(sc.permissible_shear[0])
+    checks = _scalar_checks(sc, method, rc, top)
     reynolds = shields = None
     req = {"bed": None, "side": None, "bend": None}
     req_method = req_depth = None
     tau_p_side_gov = None
 
-    def plain(location, design, permissible, required, factor="", how=method, z=None):
-        sf = permissible / design if design > 0 else math.inf
-        checks.append(ShearCheck(location, design, permissible, required, sf, sf >= required, factor, how, z))
-
     if method == "none":
         notes.append(RIGID_NOTE)
-        checks.append(ShearCheck("bed", tau_d, None, 1.0, None, True, "HEC-15 Eq. 3.1", "none"))
-        for label, z, k1 in sides:
-            checks.append(ShearCheck(label, k1 * tau_d, None, 1.0, None, True, f"K1 = {k1:.3f} (Z = {z:g})", "none", z))
-        if rc is not None:
-            checks.append(ShearCheck("bend", tau_b, None, 1.0, None, True, f"Kb = {kb:.3f} (Rc/T = {rc / top:.3g})",
-                                     "none"))
-        tau_p, sf_req = None, 1.0
     elif method == "shields":
         gs, phi = float(lining.specific_weight), float(lining.angle_of_repose)
-        reynolds = float(hec15.particle_reynolds(y, s, d))
-        shields, sf_table = (float(x) for x in hec15.shields_and_safety_factor(reynolds))
-        sf_req = max(sf_table, sf_min)
-        tau_p = float(hec15.stone_permissible_shear(d, shields, gs))
-        plain("bed", tau_d, tau_p, sf_req, "HEC-15 Eq. 3.1", "eq_6_7")
+        reynolds, shields = float(sc.reynolds[0]), float(sc.shields[0])
         steep = s > hec15.STEEP_SLOPE
-        for label, z, k1 in sides:
-            theta = math.atan(1.0 / z) if z > 0 else math.pi / 2
-            if theta >= math.radians(phi):
-                checks.append(ShearCheck(label, k1 * tau_d, 0.0, sf_req, 0.0, False, f"K1 = {k1:.3f} (Z = {z:g})",
-                                         "k2", z, cannot_rest=True))
-                continue
-            if steep:
-                sf_d = hec15.steep_slope_safety_factor(d, y, s, z, phi, shields, gs)
-                tau_inc = _steep_incipient_shear(d, theta, math.atan(s), math.radians(phi), shields, gs, GAMMA_WATER)
-                checks.append(ShearCheck(label, k1 * tau_d, tau_inc, sf_req, sf_d, sf_d >= sf_req,
-                                         f"K1 = {k1:.3f} (Z = {z:g}); HEC-15 Appendix D", "appendix_d", z))
-            else:
-                k2 = float(hec15.tractive_force_ratio(z, phi))
-                plain(label, k1 * tau_d, k2 * tau_p, sf_req, f"K1 = {k1:.3f}, K2 = {k2:.3f} (Z = {z:g})", "k2", z)
-        if rc is not None:
-            plain("bend", tau_b, tau_p, sf_req, f"Kb = {kb:.3f} (Rc/T = {rc / top:.3g})", "eq_6_7")
         # smallest stable sizes: HEC-15's trial procedure (size -> depth -> required size) to a fixed point
         req, req_method, req_depth, converged, at_jump = _required_stone(
             section, q, s, lining, rough if n_override is not None else None, sides, rc, gs, phi, sf_min, d)
@@ -554,34 +815,12 @@ def _check(section, q, s, lining, d50, rc, fb_min, n_override, sf_min, v_min) ->
                          f"steep-slope method ({STEEP_SLOPE_SOURCE})")
         notes.append(FILTER_NOTE)
     elif method == "vegetation":
-        tp_soil = float(lining.soil_permissible_shear())
-        ns = float(lining.soil_grain_n())
-        cf = float(lining.cover_factor())
-        tau_p = float(hec15.vegetation_permissible_shear(tp_soil, cf, n_used, ns))
-        sf_req = sf_min
-        notes.append(f"grass on soil: soil permissible shear {tp_soil:.3g} Pa, cover factor {cf:g}, soil grain n "
-                     f"{ns:.3g}, lining n {n_used:.3g} ({permissible_source})")
-        plain("bed", tau_d, tau_p, sf_req, "HEC-15 Eq. 3.1")
-        for label, z, k1 in sides:
-            plain(label, k1 * tau_d, tau_p, sf_req, f"K1 = {k1:.3f} (Z = {z:g})", z=z)
-        if rc is not None:
-            plain("bend", tau_b, tau_p, sf_req, f"Kb = {kb:.3f} (Rc/T = {rc / top:.3g})")
-    else:  # "soil" or "value"
-        if method == "soil":
-            tau_p = float(lining.soil_permissible_shear())
-        else:
-            tau_p = float(validate.positive(f"lining {lining.key!r} permissible.shear",
-                                            lining.field_value("permissible", "shear")))
-            if lining.user_data:
-                notes.append(f"permissible shear {tau_p:.3g} Pa and n are user data ({permissible_source})")
-        sf_req = sf_min
-        plain("bed", tau_d, tau_p, sf_req, "HEC-15 Eq. 3.1")
-        for label, z, k1 in sides:
-            plain(label, k1 * tau_d, tau_p, sf_req, f"K1 = {k1:.3f} (Z = {z:g})", z=z)
-        if rc is not None:
-            plain("bend", tau_b, tau_p, sf_req, f"Kb = {kb:.3f} (Rc/T = {rc / top:.3g})")
+        notes.append(f"grass on soil: soil permissible shear {float(lining.soil_permissible_shear()):.3g} Pa, cover "
+                     f"factor {float(lining.cover_factor()):g}, soil grain n {float(lining.soil_grain_n()):.3g}, "
+                     f"lining n {n_used:.3g} ({permissible_source})")
+    elif method == "value" and lining.user_data:
+        notes.append(f"permissible shear {tau_p:.3g} Pa and n are user data ({permissible_source})")
 
-    rigid = method == "none"
     stable = all(c.passes for c in checks)
     gov = min(checks, key=lambda c: c.margin)
     governs = "non-erodible" if rigid else gov.location
@@ -658,6 +897,43 @@ def _check(section, q, s, lining, d50, rc, fb_min, n_override, sf_min, v_min) ->
         total_depth=total, top_width_at_top=top_width_at_top, lined_width=lined, layer_volume=volume,
         unit_cost=None if lining.unit_cost is None else float(lining.unit_cost),
         unit_cost_basis=lining.unit_cost_basis, cost_per_length=cost, notes=_dedupe(notes), warnings=_dedupe(warn))
+
+
+def _scalar_checks(sc: ShearChecks, method: str, rc, top) -> list:
+    """The checks of a single channel (entry 0 of ``sc``) as ShearCheck objects, with how each shear was found."""
+    out, seen = [], set()
+    rigid = sc.non_erodible
+    required = float(sc.required_safety_factor[0])
+    for c in sc.checks:
+        location = str(c.location[0])
+        if not c.applies[0] or location in seen:  # alike sides: one check
+            continue
+        seen.add(location)
+        design = float(c.design_shear[0])
+        z = None if c.side_slope is None else float(c.side_slope[0])
+        cannot = bool(c.cannot_rest[0])
+        how = method
+        if location == "bed":
+            text = "HEC-15 Eq. 3.1"
+        elif location == "bend":
+            text = f"Kb = {float(c.shear_factor[0]):.3f} (Rc/T = {rc / top:.3g})"
+        else:
+            text = f"K1 = {float(c.shear_factor[0]):.3f} (Z = {z:g})"
+            if method == "shields":
+                how = "k2"
+                if c.appendix_d[0]:
+                    how, text = "appendix_d", text + "; HEC-15 Appendix D"
+                elif not cannot:
+                    text = f"K1 = {float(c.shear_factor[0]):.3f}, K2 = {float(c.tractive_ratio[0]):.3f} (Z = {z:g})"
+        if method == "shields" and how == "shields":
+            how = "eq_6_7"
+        if rigid:
+            out.append(ShearCheck(location, design, None, 1.0, None, True, text, "none", z))
+            continue
+        sf = float(c.safety_factor[0])
+        out.append(ShearCheck(location, design, float(c.permissible_shear[0]), required, sf, sf >= required, text,
+                              how, z, cannot_rest=cannot))
+    return out
 
 
 def _stone_sizes_at(y, top, s, sides, rc, gs, phi, sf_min):

@@ -9,6 +9,7 @@ Checks against HEC-15 values recalled rather than re-read are marked "from memor
 
 import math
 
+import numpy as np
 import pytest
 from fluids.open_flow import n_lined_built
 from scipy.optimize import brentq
@@ -16,7 +17,7 @@ from scipy.optimize import brentq
 import hydraulics as hy
 from hydraulics.errors import InputError, NoSolutionError
 from hydraulics.linings import hec15, load_catalogue
-from hydraulics.stability import (SELF_CLEANING_VELOCITY, check_lining, compare_linings, parse_choice)
+from hydraulics.stability import SELF_CLEANING_VELOCITY, check_lining, compare_linings, parse_choice, shear_checks
 from hydraulics.units import FOOT, PSF, SYSTEMS
 
 US, SI = SYSTEMS["us"], SYSTEMS["si"]
@@ -434,3 +435,70 @@ def test_supercritical_flow_in_a_bend_is_warned(cat):
     assert r.froude > 1 and any("cross waves" in w and "Chow (1959)" in w for w in r.warnings)
     straight = check_lining(section, 0.8, 0.02, cat.get("concrete"))
     assert not any("cross waves" in w for w in straight.warnings)
+
+
+# ------------------------------------------------------------ the shear checks on arrays
+
+def test_shear_checks_on_arrays_give_the_published_stone_values(cat):
+    # HEC-15 Table 2.3 (from memory): 25 mm stone about 19 N/m^2, 50 mm 38, 150 mm 113, 300 mm 227, i.e. Eq. 6.7
+    # at F* = 0.047 (Table 6.1 below Re* = 4e4); K1 = 0.77 for Z <= 1.5 and 1.0 for Z >= 5 (HEC-15 Section 3.2,
+    # from memory); K2 = sqrt(1 - sin^2(theta)/sin^2(phi)) on a mild bed (HEC-15 Section 6.3.2, from memory).
+    lin = cat.get("riprap")
+    d50 = np.array([0.025, 0.05, 0.15, 0.30])
+    sc = shear_checks(lin, 0.5, 0.001, d50=d50, left_slope=np.array([1.5, 5.0, 3.0, np.nan]), right_slope=6.0)
+    assert np.all(sc.reynolds <= 4e4) and np.all(sc.shields == 0.047) and np.all(sc.required_safety_factor == 1.0)
+    np.testing.assert_allclose(sc.permissible_shear, [19.0, 38.0, 113.0, 227.0], atol=1.0)
+    bed, left, right = sc.checks
+    assert np.all(bed.design_shear == pytest.approx(9810 * 0.5 * 0.001))
+    assert left.shear_factor[:2].tolist() == [0.77, 1.0] and not left.applies[3]
+    theta, phi = np.arctan(1 / left.side_slope[:3]), math.radians(lin.angle_of_repose)
+    k2 = np.sqrt(1 - np.sin(theta) ** 2 / math.sin(phi) ** 2)
+    np.testing.assert_allclose(left.permissible_shear[:3], k2 * sc.permissible_shear[:3], rtol=1e-12)
+    assert left.safety_factor[3] == math.inf  # no left side: never governs
+    assert list(left.location) == ["left side slope"] * 4 and list(right.location) == ["right side slope"] * 4
+    gov = sc.governing()
+    np.testing.assert_array_equal(sc.safety_factor, np.min(np.column_stack(
+        [c.safety_factor for c in sc.checks]), axis=1))
+    np.testing.assert_array_equal(sc.stable, sc.safety_factor >= sc.required_safety_factor)
+    assert gov.shape == (4,)
+
+
+def test_shear_checks_agree_with_check_lining_channel_by_channel(cat):
+    # The same relations as check_lining, bends included (Kb, HEC-15 Section 3.4, from memory).
+    rng = np.random.default_rng(21)
+    for key in ("riprap", "grass_good_sod", "soil_fine_noncohesive", "concrete"):
+        lin = cat.get(key)
+        for _ in range(6):
+            section = hy.Trapezoid(bottom_width=float(rng.uniform(0.3, 2)), left_slope=float(rng.choice([1, 2, 3])),
+                                   right_slope=float(rng.choice([2, 4])))
+            q, s = float(rng.uniform(0.1, 3)), float(10 ** rng.uniform(-3, -0.8))
+            r = check_lining(section, q, s, lin, bend_radius=25.0)
+            sc = shear_checks(lin, np.array([r.depth, r.depth]), s, r.manning_n, d50=r.d50,
+                              left_slope=section.left_slope, right_slope=section.right_slope,
+                              bend_radius=np.array([25.0, np.nan]), top_width=r.analysis.top_width)
+            assert sc.stable[0] == r.stable
+            if r.permissible_shear is None:
+                assert sc.non_erodible and np.isnan(sc.permissible_shear[0])
+                continue
+            assert sc.safety_factor[0] == pytest.approx(r.safety_factor, rel=1e-12)
+            assert sc.checks[-1].design_shear[0] == pytest.approx(r.bend_shear, rel=1e-12)
+            assert not sc.checks[-1].applies[1] and sc.checks[-1].safety_factor[1] == math.inf
+
+
+def test_shear_checks_refuse_bad_input_naming_the_field(cat):
+    riprap, grass = cat.get("riprap"), cat.get("grass_good_sod")
+    with pytest.raises(InputError) as err:
+        shear_checks(riprap, 0.5, 0.01, d50=0.2, left_slope=-1.0)
+    assert err.value.field == "left_slope"
+    with pytest.raises(InputError) as err:
+        shear_checks(riprap, 0.5, 0.01, d50=0.2, bend_radius=1.0, top_width=3.0)
+    assert err.value.field == "bend_radius" and "half the water-surface width" in str(err.value)
+    for call, field in ((lambda: shear_checks(riprap, 0.5, 0.01), "d50"),
+                        (lambda: shear_checks(grass, 0.5, 0.01, d50=0.2), "d50"),
+                        (lambda: shear_checks(grass, 0.5, 0.01), "manning_n"),
+                        (lambda: shear_checks(riprap, -0.5, 0.01, d50=0.2), "depth"),
+                        (lambda: shear_checks(riprap, 0.5, 2.0, d50=0.2), "slope"),
+                        (lambda: shear_checks(riprap, 0.5, 0.01, d50=0.2, bend_radius=5.0), "top_width")):
+        with pytest.raises(InputError) as err:
+            call()
+        assert err.value.field == field

@@ -840,12 +840,16 @@ def required_d50_side(d50_bottom, side_slope, angle_of_repose):
 
 
 def _steep_sf(d50, tau_side, theta, alpha, phi, shields, gs, gw):
-    """Safety factor of a stone on a side slope in flow down a sloping bed (HEC-15 Appendix D)."""
+    """Safety factor of a stone on a side slope in flow down a sloping bed (HEC-15 Appendix D).
+
+    Floats use the math module (this runs inside root finders); any array argument, numpy.
+    """
+    m = np if _vec(d50, tau_side, theta, alpha, phi, shields, gs) else math
     eta = tau_side / (shields * (gs - gw) * d50)                     # stability number
-    tphi = math.tan(phi)
-    beta = math.atan(math.cos(alpha) / (2.0 * math.sin(theta) / (eta * tphi) + math.sin(alpha)))
-    eta_p = eta * (1.0 + math.sin(alpha + beta)) / 2.0
-    return math.cos(theta) * tphi / (eta_p * tphi + math.sin(theta) * math.cos(beta))
+    tphi = m.tan(phi)
+    beta = m.atan(m.cos(alpha) / (2.0 * m.sin(theta) / (eta * tphi) + m.sin(alpha)))
+    eta_p = eta * (1.0 + m.sin(alpha + beta)) / 2.0
+    return m.cos(theta) * tphi / (eta_p * tphi + m.sin(theta) * m.cos(beta))
 
 
 def steep_slope_safety_factor(d50, depth, slope, side_slope, angle_of_repose, shields=SHIELDS_LOW,
@@ -864,24 +868,24 @@ def steep_slope_safety_factor(d50, depth, slope, side_slope, angle_of_repose, sh
 
     Parameters
     ----------
-    d50 : float
+    d50 : float or ndarray
         Stone size D50 [m], > 0.
-    depth : float
+    depth : float or ndarray
         Maximum flow depth d [m], > 0.
-    slope : float
+    slope : float or ndarray
         Bed slope S [m/m].
-    side_slope : float
+    side_slope : float or ndarray
         Side slope Z (H:V), > 0.
-    angle_of_repose : float
+    angle_of_repose : float or ndarray
         phi [degrees], 0 < phi < 90.
-    shields : float
+    shields : float or ndarray
         F* [-].
     gamma_stone, gamma_water : float
         Specific weights [N/m^3].
 
     Returns
     -------
-    float
+    float or ndarray
         Safety factor against rolling [-]; >= the Table 6.1 SF when stable.
 
     Notes
@@ -904,6 +908,8 @@ def steep_slope_safety_factor(d50, depth, slope, side_slope, angle_of_repose, sh
     gw = validate.positive("gamma_water", gamma_water)
     gs = validate.number("gamma_stone", gamma_stone, low=gw)
     tau_side = side_slope_factor(z) * gw * y * s
+    if _vec(d, y, s, z, phi, f):
+        return _steep_sf(d, tau_side, np.arctan(1.0 / z), np.arctan(s), np.radians(phi), f, gs, gw)
     return _steep_sf(d, tau_side, math.atan(1.0 / z), math.atan(s), math.radians(phi), f, gs, gw)
 
 
