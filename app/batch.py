@@ -1,9 +1,11 @@
 """Ditch inventories: read a CSV of reaches, check them all, write one result row per input row.
 
 The computation is :mod:`hydraulics.batch` (vectorised, SI). This module is
-its edge: it reads the CSV text, converts the user's units to SI on the way
-in and back on the way out, writes the results file, and prepares the
-summary and the summary plot. The desktop window calls :func:`run_inventory`
+its edge: it reads the CSV text (pyarrow's CSV reader for a plain file, the
+csv module and Python's float for one with quotes, blank lines or ragged
+rows: the same fields, numbers and reasons either way), converts the user's
+units to SI on the way in and back on the way out, writes the results file,
+and prepares the summary and the summary plot. The desktop window calls :func:`run_inventory`
 and :func:`result_table`.
 
 Input columns (all required in the header, blank where not relevant):
@@ -233,6 +235,10 @@ def parse_inventory(text: str, units: str = "us", source: str = "inventory") -> 
     system = hu.system(units)
     text = text.replace("\r\n", "\n").replace("\r", "\n") if "\r" in text else text
     fast = '"' not in text
+    if fast:
+        inventory = _parse_arrow(text, system, source)
+        if inventory is not None:
+            return inventory
     split = _split_fast(text) if fast else _split_csv(text, source)
     if split is None:
         raise InventoryError(f"{source}: the file is empty (it needs a header line with the columns "
@@ -267,6 +273,116 @@ def parse_inventory(text: str, units: str = "us", source: str = "inventory") -> 
                          unreadable=unreadable, **numbers)
     return Inventory(source=source, units=system, header=names, header_text=header_text, rows=rows, lines=lines,
                      ids=col["id"], reaches=reaches, blank_lines=blank)
+
+
+# A file without quotes whose every line is a record of the header's width (no blank lines, no ragged
+# rows) is parsed by pyarrow's CSV reader: the same fields, numbers parsed in C++ (fast_float, correctly
+# rounded like Python's float). Where it refuses a number (text such as "1,5", " 2" or "1_0", which
+# Python's float reads differently or not at all), that column is read by _numbers as before; any
+# other surprise leaves the whole file to the reader above. Without pyarrow installed, the reader
+# above reads every file.
+
+def _pyarrow():
+    """(pyarrow, pyarrow.csv), or None where pyarrow is not installed."""
+    try:
+        import pyarrow
+        import pyarrow.csv
+    except ImportError:  # pragma: no cover - pyarrow is a dependency; without it the Python reader serves
+        return None
+    return pyarrow, pyarrow.csv
+
+
+def _arrow_table(pa, pacsv, body: bytes, names, types):
+    return pacsv.read_csv(
+        pa.py_buffer(body),
+        read_options=pacsv.ReadOptions(column_names=names, use_threads=True),
+        parse_options=pacsv.ParseOptions(delimiter=",", quote_char=False, escape_char=False, double_quote=False,
+                                         newlines_in_values=False, ignore_empty_lines=False),
+        convert_options=pacsv.ConvertOptions(column_types=types, include_columns=list(types), null_values=[""],
+                                             strings_can_be_null=False, quoted_strings_can_be_null=False))
+
+
+def _parse_arrow(text: str, system, source: str):
+    """:func:`parse_inventory` of a file without quotes by pyarrow, or None where the Python reader must read it."""
+    modules = _pyarrow()
+    if modules is None:
+        return None
+    pa, pacsv = modules
+    lines = text.split("\n")
+    if lines and lines[-1] == "":
+        lines.pop()
+    if len(lines) < 2 or not lines[0].strip() or not lines[1].strip() or not lines[-1].strip():
+        return None  # empty, header only, or blank lines where the Python reader reports them
+    header_fields = lines[0].split(",")
+    names, index = _check_header(header_fields, source)
+    records = lines[1:]
+    size, width = len(records), len(names)
+    field = [f"f{j}" for j in range(width)]  # positional: the header is checked above, with its own messages
+    col = {name: field[index[name]] for name in INPUT_COLUMNS}
+    typed = {col[n]: pa.float64() for n in _NUMBER_COLUMNS}
+    typed.update({col["shape"]: pa.dictionary(pa.int32(), pa.string()),
+                  col["lining"]: pa.dictionary(pa.int32(), pa.string()), col["id"]: pa.string()})
+    body = text[len(lines[0]) + 1:].encode("utf-8")
+    try:
+        table = _arrow_table(pa, pacsv, body, field, typed)
+    except pa.ArrowInvalid:  # a number pyarrow refuses (or a ragged row): every column as text, numbers below
+        try:
+            table = _arrow_table(pa, pacsv, body, field, {c: pa.string() for c in typed})
+        except pa.ArrowInvalid:
+            return None
+    if table.num_rows != size:
+        return None
+    notes = np.full(size, "", dtype=object)
+    unreadable = {}
+    numbers = {}
+    for name in _NUMBER_COLUMNS:
+        values = _arrow_numbers(pa, table.column(col[name]), name, notes, unreadable)
+        quantity = hb.NUMERIC_FIELDS[name]
+        numbers[name] = values if quantity in ("slope", "side_slope", "manning_n") else system.to_si(quantity, values)
+    shape, shape_kinds = _arrow_texts(pa, table.column(col["shape"]), lower=True)
+    lining, lining_texts = _arrow_texts(pa, table.column(col["lining"]))
+    kind = np.array([hb.SHAPE_CODE.get(t, -1) for t in shape_kinds], dtype=np.int8)[shape]
+    named = np.array([bool(t) for t in lining_texts], dtype=bool)[lining]
+    reaches = hb.Reaches(shape=np.array(shape_kinds, dtype=object)[shape],
+                         lining=np.array(lining_texts, dtype=object)[lining], notes=notes, unreadable=unreadable,
+                         kind=kind, named=named, **numbers)
+    return Inventory(source=source, units=system, header=names, header_text=lines[0], rows=records,
+                     lines=np.arange(2, size + 2), ids=table.column(col["id"]).to_pylist(), reaches=reaches,
+                     blank_lines=[])
+
+
+def _arrow_numbers(pa, column, name, notes, unreadable):
+    """A number column read by pyarrow as float64 (blank: nan); else, as text, through :func:`_numbers`."""
+    if column.type == pa.float64():
+        values = column.to_numpy()
+        if not column.null_count:
+            special = np.isnan(values) | np.isinf(values)
+        else:
+            special = np.isinf(values) | (np.isnan(values) & ~column.is_null().to_numpy())
+        if not special.any():  # "nan" and "inf" written as text are refused by _numbers, with its reasons
+            return values
+        column = column.cast(pa.string())
+    else:
+        try:
+            numeric = column.cast(pa.float64())  # "" was read as null, so blanks stay blank
+        except pa.ArrowInvalid:
+            numeric = None
+        if numeric is not None:
+            return _arrow_numbers(pa, numeric, name, notes, unreadable)
+    return _numbers([t if t is not None else "" for t in column.to_pylist()], name, notes, unreadable)
+
+
+def _arrow_texts(pa, column, lower=False):
+    """(codes, distinct texts) of a text column: each distinct text stripped (and lower-cased) once."""
+    if column.type != pa.dictionary(pa.int32(), pa.string()):
+        column = column.dictionary_encode()
+    column = column.combine_chunks() if column.num_chunks != 1 else column.chunk(0)
+    texts = [(t or "").strip().lower() if lower else (t or "").strip() for t in column.dictionary.to_pylist()]
+    codes = column.indices.to_numpy(zero_copy_only=False)
+    if not texts:  # no rows
+        texts = [""]
+        codes = np.zeros(0, dtype=np.intp)
+    return codes, texts
 
 
 def _ragged(fields, width, notes, i):

@@ -85,8 +85,9 @@ _DIMENSIONS = {
     "circle": ("diameter",),
 }
 _ALL_DIMENSIONS = ("bottom_width", "left_slope", "right_slope", "diameter")
-_SHAPE_CODE = {name: code for code, name in enumerate(SHAPES)}
-_CIRCLE = _SHAPE_CODE["circle"]
+#: Code of each shape in Reaches.kind (its index in SHAPES; -1 for any other text).
+SHAPE_CODE = {name: code for code, name in enumerate(SHAPES)}
+_CIRCLE = SHAPE_CODE["circle"]
 
 
 @dataclass
@@ -112,6 +113,10 @@ class Reaches:
     n: np.ndarray
     notes: np.ndarray = None          # object array of str: problems found while reading ("" = none)
     unreadable: dict = field(default_factory=dict)
+    #: Worked out from ``shape`` and ``lining`` unless a reader that has them already passes them:
+    #: the code of each shape (SHAPE_CODE, -1 unknown) and whether a lining is named.
+    kind: np.ndarray = None
+    named: np.ndarray = None
 
     def __post_init__(self):
         size = len(self.shape)
@@ -127,8 +132,15 @@ class Reaches:
         if self.notes is None:
             self.notes = np.full(size, "", dtype=object)
         # Index of the shape in SHAPES (-1: unknown) and "a lining is named", worked out once.
-        self.kind = np.fromiter(map(_SHAPE_CODE.get, self.shape.tolist(), repeat(-1, size)), dtype=np.int8, count=size)
-        self.named = np.fromiter(map(bool, self.lining.tolist()), dtype=bool, count=size)
+        if self.kind is None:
+            self.kind = np.fromiter(map(SHAPE_CODE.get, self.shape.tolist(), repeat(-1, size)), dtype=np.int8,
+                                    count=size)
+        if self.named is None:
+            self.named = np.fromiter(map(bool, self.lining.tolist()), dtype=bool, count=size)
+        for name in ("kind", "named"):
+            if np.shape(getattr(self, name)) != (size,):
+                raise InputError(name, f"must hold one entry per reach ({size}), got shape "
+                                       f"{np.shape(getattr(self, name))}")
 
     def __len__(self):
         return len(self.shape)
@@ -138,7 +150,8 @@ class Reaches:
         names = ("shape", "bottom_width", "left_slope", "right_slope", "diameter", "slope", "flow", "lining",
                  "d50", "n", "notes")
         return Reaches(**{k: getattr(self, k)[index] for k in names},
-                       unreadable={k: v[index] for k, v in self.unreadable.items()})
+                       unreadable={k: v[index] for k, v in self.unreadable.items()},
+                       kind=self.kind[index], named=self.named[index])
 
 
 @dataclass
@@ -246,7 +259,7 @@ def screen(reaches: Reaches, display: hu.UnitSystem = hu.SI) -> np.ndarray:
 
     # Dimensions, per shape.
     for kind, needed in _DIMENSIONS.items():
-        rows = reaches.kind == _SHAPE_CODE[kind]
+        rows = reaches.kind == SHAPE_CODE[kind]
         if not rows.any():
             continue
         for name in _ALL_DIMENSIONS:

@@ -294,6 +294,57 @@ def test_fast_and_csv_module_paths_agree():
     assert a == b
 
 
+ODD_NUMBERS = [" 2", "2 ", "2\t", "1_0", "nan", "NaN", "inf", "-inf", "Infinity", "1e400", "1e-400", "abc", "0.5 %",
+               "  ", "\u0662", "+2", "2.", ".5", "-0", "1e1", "1E1", "\u00a02", "0x10", "--1", "1e", "007"]
+
+
+@pytest.mark.parametrize("column", ["flow", "bottom_width", "slope", "n", "d50"])
+def test_pyarrow_and_python_readers_agree(monkeypatch, column):
+    """pyarrow's CSV reader (files without quotes) and the Python reader give the same inventory and results.
+
+    Every odd number text in turn, in one column: where pyarrow parses a number it must be Python's float of
+    the text; where it refuses one the column is read by the Python rules (blank, reason, or value)."""
+    rows = generated_rows(40, seed=8, units="us")
+    for i, text in enumerate(ODD_NUMBERS):
+        rows[i][column] = text
+    rows[30]["shape"], rows[31]["shape"], rows[32]["lining"] = " Circle", "TRIANGLE ", " riprap "
+    rows[33]["id"], rows[34]["id"] = "caf\u00e9", ""
+    text = csv_text(rows, HEADER + ["road"])
+    assert '"' not in text
+    assert ab._parse_arrow(text, hu.system("us"), "inventory") is not None  # pyarrow reads this file
+    fast = ab.parse_inventory(text, "us")
+    monkeypatch.setattr(ab, "_pyarrow", lambda: None)
+    slow = ab.parse_inventory(text, "us")
+    for name in ("header", "header_text", "rows", "ids", "blank_lines"):
+        assert getattr(fast, name) == getattr(slow, name), name
+    np.testing.assert_array_equal(fast.lines, slow.lines)
+    for name in hb.NUMERIC_FIELDS:
+        np.testing.assert_array_equal(getattr(fast.reaches, name), getattr(slow.reaches, name), err_msg=name)
+    for name in ("shape", "lining", "notes", "kind", "named"):
+        assert getattr(fast.reaches, name).tolist() == getattr(slow.reaches, name).tolist(), name
+    assert fast.reaches.unreadable.keys() == slow.reaches.unreadable.keys()
+    assert ab.format_results(fast, ab.evaluate(fast)) == ab.format_results(slow, ab.evaluate(slow))
+
+
+@pytest.mark.parametrize("text", [
+    ",".join(HEADER) + "\n\n" + ",".join(["a", "circle", "", "", "", "1", "0.01", "1", "", "", "0.013"]) + "\n",
+    ",".join(HEADER) + "\n" + ",".join(["a", "circle", "", "", "", "1", "0.01", "1", "", "", "0.013"]) + "\n\n",
+    ",".join(HEADER) + "\n" + ",".join(["a", "circle", "", "", "", "1", "0.01", "1", "", ""]) + "\n",
+    ",".join(HEADER) + "\n" + ",".join(["a", "circle", "", "", "", "1", "0.01", "1", "", "", "0.013", "x"]) + "\n",
+    "\n" + ",".join(HEADER) + "\n" + ",".join(["a", "circle", "", "", "", "1", "0.01", "1", "", "", "0.013"]),
+    ",".join(HEADER) + "\n" + ",".join(["a", "circle", "", "", "", "1", "0.01", "1", "", "", "0.013"]) + "\n   \n",
+    ",".join(HEADER) + "\r\n" + ",".join(["a", "circle", "", "", "", "1", "0.01", "1", "", "", "0.013"]) + "\r\n",
+])
+def test_files_the_pyarrow_reader_leaves_to_the_python_reader(monkeypatch, text):
+    """Blank lines, ragged rows: the Python reader reports them (line numbers, reasons); CRLF is read alike."""
+    fast = ab.parse_inventory(text, "si")
+    monkeypatch.setattr(ab, "_pyarrow", lambda: None)
+    slow = ab.parse_inventory(text, "si")
+    assert (fast.rows, list(fast.lines), fast.blank_lines) == (slow.rows, list(slow.lines), slow.blank_lines)
+    assert fast.reaches.notes.tolist() == slow.reaches.notes.tolist()
+    assert ab.format_results(fast, ab.evaluate(fast)) == ab.format_results(slow, ab.evaluate(slow))
+
+
 def _ir(text):
     inv = ab.parse_inventory(text, "us")
     return inv, ab.evaluate(inv)
