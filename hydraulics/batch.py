@@ -90,6 +90,13 @@ SHAPE_CODE = {name: code for code, name in enumerate(SHAPES)}
 _CIRCLE = SHAPE_CODE["circle"]
 
 
+def text_array(size: int, text: str = "") -> np.ndarray:
+    """An object array of ``size`` references to ``text`` (np.full would convert, making a new str each)."""
+    out = np.empty(size, dtype=object)
+    out.fill(text)
+    return out
+
+
 @dataclass
 class Reaches:
     """An inventory as arrays, SI. ``nan`` marks a blank number, ``""`` a blank text.
@@ -130,7 +137,7 @@ class Reaches:
         if self.lining.shape != (size,):
             raise InputError("lining", f"must hold one entry per reach ({size}), got shape {self.lining.shape}")
         if self.notes is None:
-            self.notes = np.full(size, "", dtype=object)
+            self.notes = text_array(size)
         # Index of the shape in SHAPES (-1: unknown) and "a lining is named", worked out once.
         if self.kind is None:
             self.kind = np.fromiter(map(SHAPE_CODE.get, self.shape.tolist(), repeat(-1, size)), dtype=np.int8,
@@ -177,8 +184,8 @@ class BatchResult:
     @classmethod
     def empty(cls, size: int) -> "BatchResult":
         nan = lambda: np.full(size, np.nan)  # noqa: E731
-        return cls(**{k: nan() for k in RESULT_FIELDS}, verdict=np.full(size, "", dtype=object),
-                   reason=np.full(size, "", dtype=object), manning_n=nan(),
+        return cls(**{k: nan() for k in RESULT_FIELDS}, verdict=text_array(size),
+                   reason=text_array(size), manning_n=nan(),
                    flags={k: np.zeros(size, dtype=bool) for k in WARNINGS})
 
     def __len__(self):
@@ -305,7 +312,7 @@ def screen(reaches: Reaches, display: hu.UnitSystem = hu.SI) -> np.ndarray:
     add(no_lining & (d50 > 0), lambda i, f=_quote(d50, "length", display):
         f"d50: applies to a stone lining and no lining is named, got {f(i)}")
 
-    out = np.full(size, "", dtype=object)
+    out = text_array(size)
     notes = reaches.notes
     for i in sorted(set(problems) | {int(i) for i in np.flatnonzero(notes != "")}):
         out[i] = "; ".join(([notes[i]] if notes[i] else []) + problems.get(i, []))
@@ -406,8 +413,8 @@ def _warn(reaches, rows, res, out):
     fr = np.asarray(res.froude)
     near = (fr >= lo) & (fr <= hi)
     out.flags["near_critical"][rows[near]] = True
-    _note(out, rows[near], [f"near-critical flow, Froude {f:.2f} (band {lo:g} to {hi:g}): wavy, unstable surface; "
-                            "allow extra freeboard or change the slope or section" for f in fr[near].tolist()])
+    _note(out, rows[near], _each_2f(fr[near], f"near-critical flow, Froude %s (band {lo:g} to {hi:g}): wavy, "
+                                              "unstable surface; allow extra freeboard or change the slope or section"))
     re = np.asarray(res.reynolds)
     slow = re < MIN_TURBULENT_REYNOLDS
     out.flags["not_turbulent"][rows[slow]] = True
@@ -422,6 +429,23 @@ def _warn(reaches, rows, res, out):
         out.flags["above_full_flow"][prow[full]] = True
         _note(out, prow[full], "flow above the pipe's full-flow capacity: it runs just below the crown, where a "
                                "small disturbance makes it surcharge; use a larger pipe")
+
+
+def _each_2f(values, template: str) -> np.ndarray:
+    """``template % f"{v:.2f}"`` for each value (object array), each distinct text made once.
+
+    The hundredth of a value is rint(100 v), except within 1e-9 of a tie,
+    where Python rounds the value itself.
+    """
+    v = np.asarray(values, dtype=float)
+    scaled = v * 100.0
+    code = np.rint(scaled)
+    clear = np.abs(scaled - code) < 0.5 - 1e-9
+    distinct, which = np.unique(code[clear], return_inverse=True)
+    out = np.empty(len(v), dtype=object)
+    out[clear] = np.array([template % f"{c / 100:.2f}" for c in distinct.tolist()] or [""], dtype=object)[which]
+    out[~clear] = [template % f"{x:.2f}" for x in v[~clear].tolist()]
+    return out
 
 
 def _note(out, rows, texts):
@@ -625,7 +649,7 @@ def _prefix(out, rows, verdict, text):
     out.verdict[rows] = verdict
     current = out.reason[rows]
     noted = current != ""
-    new = np.full(len(rows), text, dtype=object)
+    new = text_array(len(rows), text)
     new[noted] = (text + "; ") + current[noted]
     out.reason[rows] = new
 
@@ -670,6 +694,11 @@ def evaluate(reaches: Reaches, display: hu.UnitSystem = hu.SI, progress=None, ch
         One entry per reach, in input order.
     """
     size = len(reaches)
+    if size <= chunk:  # one chunk: no slicing and copying
+        out = _evaluate_chunk(reaches, display, catalogue)
+        if progress is not None:
+            progress(size, size)
+        return out
     out = BatchResult.empty(size)
     for start in range(0, size, chunk):
         part = slice(start, min(size, start + chunk))

@@ -578,7 +578,7 @@ def shear_checks(lining: Lining, depth, slope, manning_n=None, *, d50=None, left
         return np.where(applies, sf, np.inf)
 
     everywhere = np.ones(size, dtype=bool)
-    checks = [ShearCheckArray(np.full(size, "bed", dtype=object), everywhere, tau, tau_p,
+    checks = [ShearCheckArray(np.repeat(np.array(["bed"], dtype=object), size), everywhere, tau, tau_p,
                               ratio(tau_p, tau, everywhere), None, None, None, no, no)]
     if left_slope is not None:
         z1 = _side_array("left_slope", left_slope, size)
@@ -623,7 +623,7 @@ def shear_checks(lining: Lining, depth, slope, manning_n=None, *, d50=None, left
         if bent.any():
             kb[bent] = hec15.bend_factor(rc[bent], top[bent])
         design = kb * tau
-        checks.append(ShearCheckArray(np.full(size, "bend", dtype=object), bent, design, tau_p,
+        checks.append(ShearCheckArray(np.repeat(np.array(["bend"], dtype=object), size), bent, design, tau_p,
                                       ratio(tau_p, design, bent), None, kb, None, no, no))
     if method == "none":
         for c in checks:
