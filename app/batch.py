@@ -23,9 +23,7 @@ from __future__ import annotations
 import csv
 import io
 import math
-import os
 import sys
-import tempfile
 from dataclasses import dataclass, field
 from itertools import repeat
 from pathlib import Path
@@ -35,6 +33,9 @@ import numpy as np
 from hydraulics import batch as hb
 from hydraulics.linings import hec15
 from hydraulics import units as hu
+
+from .files import write_atomic
+from .numtext import format_rows
 
 INPUT_COLUMNS = ("id", "shape", "bottom_width", "left_slope", "right_slope", "diameter", "slope", "flow", "lining",
                  "d50", "n")
@@ -247,7 +248,7 @@ def parse_inventory(text: str, units: str = "us", source: str = "inventory") -> 
     names, index = _check_header(header_fields, source)
     width = len(names)
     size = len(records)
-    notes = np.full(size, "", dtype=object)
+    notes = hb.text_array(size)
 
     ragged = np.flatnonzero(field_counts != width)
     if fast and not len(ragged):
@@ -332,7 +333,7 @@ def _parse_arrow(text: str, system, source: str):
             return None
     if table.num_rows != size:
         return None
-    notes = np.full(size, "", dtype=object)
+    notes = hb.text_array(size)
     unreadable = {}
     numbers = {}
     for name in _NUMBER_COLUMNS:
@@ -443,54 +444,30 @@ def display_values(inventory: Inventory, result: hb.BatchResult) -> dict:
 def format_results(inventory: Inventory, result: hb.BatchResult) -> str:
     """The results file as text: the input rows with the result columns added.
 
-    Numbers get :data:`DIGITS` significant digits; a value not computed is an
-    empty field. Rows are formatted in groups that share which values are
-    present, one format operation per row.
+    Numbers are written as Python's ``"%.5g"`` writes them (:data:`DIGITS`
+    significant digits; :func:`app.numtext.format_rows` does it on whole
+    arrays); a value not computed is an empty field. The reason is quoted
+    where it holds a comma, a quote or a line break.
     """
     size = len(inventory)
     values = display_values(inventory, result)
     table = np.column_stack([values[k] for k in _VALUE_COLUMNS]) if size else np.zeros((0, len(_VALUE_COLUMNS)))
-    present = np.isfinite(table)
-    pattern = present @ (1 << np.arange(len(_VALUE_COLUMNS)))
-    cache = {}
-    tails = [cache.get(key) or cache.setdefault(key, f"{key[0]},{_quote_field(key[1])}")
-             for key in zip(result.verdict.tolist(), result.reason.tolist())]
-    rows = inventory.rows
-    number = f"%.{DIGITS}g"
-    codes = np.unique(pattern)
-    out = np.empty(size, dtype=object) if len(codes) > 1 else None
-    for code in codes:
-        cols = [j for j in range(len(_VALUE_COLUMNS)) if code >> j & 1]
-        fmt = "%s," + ",".join(number if code >> j & 1 else "" for j in range(len(_VALUE_COLUMNS))) + ",%s"
-        if out is None:  # every row alike: no gathering
-            text = [fmt % t for t in zip(rows, *(table[:, j].tolist() for j in cols), tails)]
-            break
-        where = np.flatnonzero(pattern == code)
-        pick = where.tolist()
-        out[where] = [fmt % t for t in zip([rows[i] for i in pick], *(table[where, j].tolist() for j in cols),
-                                           [tails[i] for i in pick])]
-    else:
-        text = out.tolist() if out is not None else []
-    head = inventory.header_text + "," + ",".join(RESULT_COLUMNS)
-    return "\n".join([head, *text]) + "\n"
+    numbers = format_rows(table, DIGITS)
+    reasons = result.reason.tolist()
+    quoted = {r: _quote_field(r) + "\n" for r in set(reasons)}
+    verdicts = {v: v + "," for v in set(result.verdict.tolist())}
+    parts = [""] * (5 * size)
+    parts[0::5] = inventory.rows
+    parts[1::5] = repeat(",", size)
+    parts[2::5] = numbers
+    parts[3::5] = map(verdicts.__getitem__, result.verdict.tolist())
+    parts[4::5] = map(quoted.__getitem__, reasons)
+    return inventory.header_text + "," + ",".join(RESULT_COLUMNS) + "\n" + "".join(parts)
 
 
 def write_results(path, inventory: Inventory, result: hb.BatchResult) -> None:
-    """Write the results file atomically (a half-written file never replaces a good one)."""
-    path = Path(path)
-    text = format_results(inventory, result)
-    folder = path.parent if str(path.parent) else Path(".")
-    fd, tmp = tempfile.mkstemp(prefix=f".{path.name}.", suffix=".tmp", dir=folder)
-    try:
-        with os.fdopen(fd, "w", encoding="utf-8", newline="") as fh:
-            fh.write(text)
-        os.replace(tmp, path)
-    except BaseException:
-        try:
-            os.unlink(tmp)
-        except OSError:
-            pass
-        raise
+    """Write the results file atomically (a half-written file never replaces a good one), UTF-8."""
+    write_atomic(path, format_results(inventory, result))
 
 
 def result_table(inventory: Inventory, result: hb.BatchResult):

@@ -647,3 +647,11 @@ def test_manning_n_used_is_kept():
     n_at_depth = load_catalogue().get("riprap").roughness().manning_n(section, y, 0.004)
     assert res.manning_n[1] == pytest.approx(n_at_depth, rel=1e-12)
     assert res.manning_n[1] > 0.03  # stone of 0.15 m is rougher than the n of the plain row
+
+
+def test_two_decimals_as_python_rounds_them():
+    # Binary values just below and above the decimal ties, and exact binary ties (0.125, 1.125).
+    values = np.array([0.125, 0.135, 0.865, 0.995, 1.005, 1.015, 1.125, 1.13, 0.86, 0.8649999999999999, 2.675, 1.0,
+                       0.999999999, 1.1249999999999998])
+    assert hb._each_2f(values, "Fr %s").tolist() == ["Fr %.2f" % v for v in values]
+    assert hb._each_2f(np.zeros(0), "%s").tolist() == []

@@ -1,0 +1,212 @@
+"""Numbers to text on whole arrays: exactly the text of Python's ``"%.{P}g" % x``, many values at a time.
+
+Writing a results file of 100,000 rows means formatting some 700,000
+numbers, and one Python format operation each is most of the time the write
+takes. Here the digits come from numpy arithmetic and tables:
+
+* the decimal exponent X of the rounded value and its P-digit mantissa m,
+  |x| ~= m 10^(X-P+1), come from log10 and one scaling by a power of ten;
+  m is rounded to nearest, as C's printf rounds the exact binary value;
+* where the scaled value lies within 1e-6 of a rounding tie (the error of
+  the scaling is below 1e-10 there, but a tie could go either way) or is
+  too large or small to scale safely (|X| > 280), the value is formatted by
+  Python's own ``%`` instead; so every text is Python's, digit for digit;
+* the layout is that of ``%g`` (C99 7.21.6.1, the ``g`` conversion): fixed
+  notation when -4 <= X < P, else d.ddde+XX with at least two exponent
+  digits; trailing zeros and a trailing decimal point removed. The texts of
+  the mantissas, with the decimal point in each place, are looked up in
+  tables made once per P.
+
+A non-finite value gives an empty text (a blank cell).
+"""
+
+from __future__ import annotations
+
+import numpy as np
+
+__all__ = ["MAX_DIGITS", "format_rows"]
+
+#: Largest P served from tables (9 * 10^(P-1) mantissas each).
+MAX_DIGITS = 6
+_TIE = 1e-6           # distance from a rounding tie below which Python formats the value
+_EXP_RANGE = 280      # |X| beyond which Python formats the value (10^X scaling near over/underflow)
+
+
+class _Tables:
+    """Texts of the P-digit mantissas m (10^(P-1) <= m < 10^P), laid out for each %g form."""
+
+    def __init__(self, p: int):
+        self.p = p
+        self.low = 10 ** (p - 1)
+        count = 9 * self.low
+        m = np.arange(self.low, 10 * self.low)
+        digits = ((m[:, None] // 10 ** np.arange(p - 1, -1, -1)) % 10 + ord("0")).astype(np.uint8)
+        shown = np.full(count, p)
+        rest = m.copy()
+        for _ in range(p - 1):  # digits shown: P minus the trailing zeros
+            tz = (rest % 10 == 0) & (shown > 1)
+            shown -= tz
+            rest = np.where(tz, rest // 10, rest)
+
+        # A part: the fixed forms with X = 0 .. P-1, the scientific mantissa, the "0.00" prefixes, "0", empty
+        wa = max(p + 1, 5)   # the widest text: a mantissa with its point, or the prefix "0.000"
+        rows_a = []
+        lens_a = []
+        for x in range(p):
+            block = np.zeros((count, wa), dtype=np.uint8)
+            whole = x + 1                                          # digits before the point
+            block[:, :whole] = digits[:, :whole]
+            frac = np.clip(shown - whole, 0, None)                 # digits after it
+            has = frac > 0
+            block[has, whole] = ord(".")
+            block[:, whole + 1:p + 1] = digits[:, whole:]
+            rows_a.append(block)
+            lens_a.append(whole + frac + has)
+        sci = np.zeros((count, wa), dtype=np.uint8)
+        sci[:, 0] = digits[:, 0]
+        sci[:, 1] = ord(".")
+        sci[:, 2:p + 1] = digits[:, 1:]
+        rows_a.append(sci)
+        lens_a.append(np.where(shown > 1, shown + 1, 1))
+        self.sci_a = p * count
+        small = [b"0." + b"0" * z for z in range(4)]               # X = -1 .. -4
+        self.prefix_a = (p + 1) * count
+        extra = small + [b"0", b""]
+        self.zero_a = self.prefix_a + 4
+        self.empty_a = self.zero_a + 1
+        tail = np.zeros((len(extra), wa), dtype=np.uint8)
+        for i, t in enumerate(extra):
+            tail[i, :len(t)] = np.frombuffer(t, dtype=np.uint8)
+        rows_a.append(tail)
+        lens_a.append(np.array([len(t) for t in extra]))
+        table = np.concatenate(rows_a)
+        table[np.arange(wa) >= np.concatenate(lens_a)[:, None]] = 0   # a zero byte is no character
+        self.a = np.ascontiguousarray(table).view(f"V{wa}").ravel()
+        self.width_a = wa
+
+        # B part: the stripped mantissa digits (after a "0.00" prefix), the exponents, empty
+        wb = max(p, 5)
+        dig = np.zeros((count, wb), dtype=np.uint8)
+        dig[:, :p] = digits
+        exps = [("e%+03d" % x).encode() for x in range(-_EXP_RANGE - 1, _EXP_RANGE + 2)]
+        self.exp_b = count + _EXP_RANGE + 1          # row of X = 0
+        ex = np.zeros((len(exps) + 1, wb), dtype=np.uint8)
+        for i, t in enumerate(exps):
+            ex[i, :len(t)] = np.frombuffer(t, dtype=np.uint8)
+        self.empty_b = count + len(exps)
+        table = np.concatenate([dig, ex])
+        table[np.arange(wb) >= np.concatenate([shown, [len(t) for t in exps], [0]])[:, None]] = 0
+        self.b = np.ascontiguousarray(table).view(f"V{wb}").ravel()
+        self.width_b = wb
+        self.count = count
+        # per form: X + 5 for X = -5 .. P clipped (0 and P + 5: scientific; 1 .. 4: "0.00" prefix; 5 .. P + 4:
+        # fixed with X = 0 .. P - 1), then zero, then blank. Cell rows: base + step * (m - 10^(P-1)) [+ X].
+        forms = p + 8
+        self.zero_form, self.blank_form = p + 6, p + 7
+        self.base_a = np.zeros(forms, dtype=np.intp)
+        self.step_a = np.zeros(forms, dtype=np.intp)
+        self.base_b = np.full(forms, self.empty_b, dtype=np.intp)
+        self.step_b = np.zeros(forms, dtype=np.intp)
+        self.exp_step_b = np.zeros(forms, dtype=np.intp)
+        for f in (0, p + 5):
+            self.base_a[f], self.step_a[f] = self.sci_a, 1
+            self.base_b[f], self.exp_step_b[f] = self.exp_b, 1
+        for x in range(-4, 0):
+            self.base_a[x + 5] = self.prefix_a - 1 - x
+            self.base_b[x + 5], self.step_b[x + 5] = 0, 1
+        for x in range(p):
+            self.base_a[x + 5], self.step_a[x + 5] = x * count, 1
+        self.base_a[self.zero_form] = self.zero_a
+        self.base_a[self.blank_form] = self.empty_a
+        self.cell = np.dtype([("sign", "u1"), ("a", f"V{wa}"), ("b", f"V{wb}"), ("comma", "u1")])
+
+
+_TABLES: dict = {}
+
+
+def _tables(p: int) -> _Tables:
+    if p not in _TABLES:
+        _TABLES[p] = _Tables(p)
+    return _TABLES[p]
+
+
+def _mantissa(a, p):
+    """(m, X, exact) for values a > 0: m the rounded P-digit mantissa, X the exponent of the rounded value,
+    exact False where Python has to format the value (near a tie, or |X| too large)."""
+    x = np.floor(np.log10(a)).astype(np.intp)
+    exact = np.abs(x) <= _EXP_RANGE
+    x[~exact] = 0
+    power = 10.0 ** np.arange(-_EXP_RANGE - p, _EXP_RANGE + p + 1)  # 10^k, k = -(280 + P) .. 280 + P
+    base = _EXP_RANGE + p
+    lo, hi = 10.0 ** (p - 1), 10.0 ** p
+    scaled = a * power[base + p - 1 - x]
+    for _ in range(3):  # log10 can be one off next to a power of ten; the unrounded mantissa settles it
+        off = np.flatnonzero((scaled >= hi) | (scaled < lo))
+        if not len(off):
+            break
+        x[off] += (scaled[off] >= hi).astype(np.intp) - (scaled[off] < lo)
+        scaled[off] = a[off] * power[base + p - 1 - x[off]]
+    else:
+        exact[off] = False
+    m = np.rint(scaled)
+    exact &= np.abs(scaled - m) < 0.5 - _TIE
+    carry = np.flatnonzero(m >= hi)  # rounded up to 10^P: 1.00.. times the next power of ten
+    m[carry] = lo
+    x[carry] += 1
+    return m.astype(np.intp), x, exact
+
+
+def format_rows(values, digits: int) -> list[str]:
+    """Each row of ``values`` as its numbers in ``"%.{digits}g"`` form, each followed by a comma.
+
+    Parameters
+    ----------
+    values : array_like of float, shape (N, C)
+        C numbers per row; a non-finite one gives an empty field.
+    digits : int
+        Significant digits P, 1 to :data:`MAX_DIGITS`.
+
+    Returns
+    -------
+    list of str
+        N texts, e.g. ``"1.2346,0.5,,12,"`` for C = 4.
+    """
+    if not 1 <= digits <= MAX_DIGITS:
+        raise ValueError(f"digits must be 1 to {MAX_DIGITS}, got {digits}")
+    v = np.asarray(values, dtype=float)
+    if v.ndim != 2:
+        raise ValueError(f"values must be 2-D (rows, columns), got shape {v.shape}")
+    rows, cols = v.shape
+    if not rows:
+        return []
+    t = _tables(digits)
+    flat = v.ravel()
+    a = np.abs(flat)
+    finite = np.isfinite(a)
+    nonzero = finite & (a > 0)
+    with np.errstate(over="ignore", invalid="ignore"):  # values beyond |X| = 280 are Python's to format
+        m, x, exact = _mantissa(np.where(nonzero, a, 1.0), digits)
+    # the form of each cell: 0 .. P+5 by X (see _Tables.form), then zero and blank
+    form = np.clip(x, -5, digits) + 5
+    form[~nonzero] = t.zero_form
+    form[~finite] = t.blank_form
+    i = m - t.low
+    xc = np.clip(x, -_EXP_RANGE - 1, _EXP_RANGE + 1)
+    cell_a = t.base_a[form] + t.step_a[form] * i
+    cell_b = t.base_b[form] + t.step_b[form] * i + t.exp_step_b[form] * xc
+
+    out = np.zeros(rows, dtype=[("cells", t.cell, (cols,)), ("end", "u1")])
+    cells = out["cells"]  # a view (rows, cols): written through, never reshaped (that could copy)
+    cells["sign"] = np.where(finite & np.signbit(flat), ord("-"), 0).reshape(rows, cols)
+    cells["a"] = t.a[cell_a].reshape(rows, cols)
+    cells["b"] = t.b[cell_b].reshape(rows, cols)
+    cells["comma"] = ord(",")
+    out["end"] = ord("\n")
+    for k in np.flatnonzero(nonzero & ~exact).tolist():  # Python's own text where the arithmetic could be off
+        text = ("%.*g" % (digits, flat[k])).encode("ascii")
+        cell = np.zeros(1, dtype=t.cell)
+        cell.view(np.uint8)[:len(text)] = np.frombuffer(text, dtype=np.uint8)
+        cell["comma"] = ord(",")
+        cells[k // cols, k % cols] = cell[0]
+    raw = out.view(np.uint8)
+    return raw[raw != 0].tobytes().decode("ascii").split("\n")[:-1]
