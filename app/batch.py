@@ -53,6 +53,19 @@ class InventoryError(Exception):
     """The file as a whole cannot be read as an inventory (no results are written)."""
 
 
+class Records:
+    """The records of a plain file as its own UTF-8 text: each line ends in "\\n"; ``starts`` where each begins."""
+
+    def __init__(self, body: bytes, starts: np.ndarray):
+        self.body, self.starts = body, starts
+
+    def __len__(self):
+        return len(self.starts)
+
+    def tolist(self) -> list:
+        return self.body.decode("utf-8").split("\n")[:-1]
+
+
 @dataclass
 class Inventory:
     """An inventory read from CSV: its text per row (for carrying through) and its reaches in SI."""
@@ -61,14 +74,21 @@ class Inventory:
     units: hu.UnitSystem
     header: list            # column names as written
     header_text: str        # the header line, CSV-encoded
-    rows: list              # per record: its fields as CSV text (carried through unchanged)
+    records: object         # per record its fields as CSV text (carried through unchanged): a list, or Records
     lines: np.ndarray       # per record: the line number where it starts (the header is line 1)
     ids: list               # per record: the id as written (surrounding blanks kept)
     reaches: hb.Reaches
     blank_lines: list = field(default_factory=list)
 
     def __len__(self):
-        return len(self.rows)
+        return len(self.records)
+
+    @property
+    def rows(self) -> list:
+        """Per record: its fields as CSV text, without the line end."""
+        if isinstance(self.records, Records):
+            self.records = self.records.tolist()
+        return self.records
 
 
 # ----------------------------------------------------------------------------- reading
@@ -272,7 +292,7 @@ def parse_inventory(text: str, units: str = "us", source: str = "inventory") -> 
         numbers[name] = values if quantity in ("slope", "side_slope", "manning_n") else system.to_si(quantity, values)
     reaches = hb.Reaches(shape=_texts(col["shape"], lower=True), lining=_texts(col["lining"]), notes=notes,
                          unreadable=unreadable, **numbers)
-    return Inventory(source=source, units=system, header=names, header_text=header_text, rows=rows, lines=lines,
+    return Inventory(source=source, units=system, header=names, header_text=header_text, records=rows, lines=lines,
                      ids=col["id"], reaches=reaches, blank_lines=blank)
 
 
@@ -309,21 +329,23 @@ def _parse_arrow(text: str, system, source: str):
     if modules is None:
         return None
     pa, pacsv = modules
-    lines = text.split("\n")
-    if lines and lines[-1] == "":
-        lines.pop()
-    if len(lines) < 2 or not lines[0].strip() or not lines[1].strip() or not lines[-1].strip():
-        return None  # empty, header only, or blank lines where the Python reader reports them
-    header_fields = lines[0].split(",")
-    names, index = _check_header(header_fields, source)
-    records = lines[1:]
-    size, width = len(records), len(names)
+    end = text.find("\n")
+    header = text[:end]
+    if end < 0 or not header.strip() or end + 1 == len(text):
+        return None  # empty, or a header only: the Python reader says so
+    body = text[end + 1:] if text.endswith("\n") else text[end + 1:] + "\n"
+    body = body.encode("utf-8")
+    stops = np.flatnonzero(np.frombuffer(body, dtype=np.uint8) == ord("\n"))
+    starts = np.concatenate([[0], stops[:-1] + 1])
+    if (stops == starts).any():
+        return None  # blank lines, which the Python reader reports
+    names, index = _check_header(header.split(","), source)
+    size, width = len(starts), len(names)
     field = [f"f{j}" for j in range(width)]  # positional: the header is checked above, with its own messages
     col = {name: field[index[name]] for name in INPUT_COLUMNS}
     typed = {col[n]: pa.float64() for n in _NUMBER_COLUMNS}
     typed.update({col["shape"]: pa.dictionary(pa.int32(), pa.string()),
                   col["lining"]: pa.dictionary(pa.int32(), pa.string()), col["id"]: pa.string()})
-    body = text[len(lines[0]) + 1:].encode("utf-8")
     try:
         table = _arrow_table(pa, pacsv, body, field, typed)
     except pa.ArrowInvalid:  # a number pyarrow refuses (or a ragged row): every column as text, numbers below
@@ -347,7 +369,7 @@ def _parse_arrow(text: str, system, source: str):
     reaches = hb.Reaches(shape=np.array(shape_kinds, dtype=object)[shape],
                          lining=np.array(lining_texts, dtype=object)[lining], notes=notes, unreadable=unreadable,
                          kind=kind, named=named, **numbers)
-    return Inventory(source=source, units=system, header=names, header_text=lines[0], rows=records,
+    return Inventory(source=source, units=system, header=names, header_text=header, records=Records(body, starts),
                      lines=np.arange(2, size + 2), ids=table.column(col["id"]).to_pylist(), reaches=reaches,
                      blank_lines=[])
 
@@ -449,25 +471,61 @@ def format_results(inventory: Inventory, result: hb.BatchResult) -> str:
     arrays); a value not computed is an empty field. The reason is quoted
     where it holds a comma, a quote or a line break.
     """
+    return _results_bytes(inventory, result).decode("utf-8")
+
+
+def _results_bytes(inventory: Inventory, result: hb.BatchResult) -> bytes:
+    """The results file, UTF-8: each row is its input text, the numbers, the verdict and the reason."""
     size = len(inventory)
     values = display_values(inventory, result)
     table = np.column_stack([values[k] for k in _VALUE_COLUMNS]) if size else np.zeros((0, len(_VALUE_COLUMNS)))
-    numbers = format_rows(table, DIGITS)
+    numbers = format_rows(table, DIGITS, comma_after_last=True)
     reasons = result.reason.tolist()
-    quoted = {r: _quote_field(r) + "\n" for r in set(reasons)}
-    verdicts = {v: v + "," for v in set(result.verdict.tolist())}
-    parts = [""] * (5 * size)
-    parts[0::5] = inventory.rows
-    parts[1::5] = repeat(",", size)
-    parts[2::5] = numbers
-    parts[3::5] = map(verdicts.__getitem__, result.verdict.tolist())
-    parts[4::5] = map(quoted.__getitem__, reasons)
-    return inventory.header_text + "," + ",".join(RESULT_COLUMNS) + "\n" + "".join(parts)
+    verdicts = result.verdict.tolist()
+    head = (inventory.header_text + "," + ",".join(RESULT_COLUMNS) + "\n").encode("utf-8")
+    modules = _pyarrow()
+    if modules is None or not size:
+        quoted = {r: _quote_field(r) + "\n" for r in set(reasons)}
+        parts = [""] * (5 * size)
+        parts[0::5] = inventory.rows
+        parts[1::5] = repeat(",", size)
+        parts[2::5] = numbers.tolist()
+        parts[3::5] = map({v: v + "," for v in set(verdicts)}.__getitem__, verdicts)
+        parts[4::5] = map(quoted.__getitem__, reasons)
+        return head + "".join(parts).encode("utf-8")
+    # pyarrow: the four pieces of every row ("row," "numbers," "verdict," "reason\n") joined in C++
+    pa = modules[0]
+    import pyarrow.compute as pc
+
+    text = pa.large_string()  # 64-bit offsets: no limit of 2 GB on the file
+    records = inventory.records
+    if isinstance(records, Records):  # the file's own bytes; each line end becomes the comma after the row
+        rows = pa.LargeStringArray.from_buffers(
+            size, pa.py_buffer(np.append(records.starts, len(records.body)).astype(np.int64)),
+            pa.py_buffer(records.body.replace(b"\n", b",")))
+    else:
+        rows = pc.binary_join_element_wise(pa.array(records, type=text), pa.scalar("", type=text),
+                                           pa.scalar(",", type=text))
+    lines = pc.binary_join_element_wise(
+        rows, pa.LargeStringArray.from_buffers(size, pa.py_buffer(numbers.offsets()), pa.py_buffer(numbers.data)),
+        _coded(pa, verdicts, lambda v: v + ","), _coded(pa, reasons, lambda r: _quote_field(r) + "\n"),
+        pa.scalar("", type=text))
+    offsets = np.frombuffer(lines.buffers()[1], dtype=np.int64, count=size + 1, offset=8 * lines.offset)
+    return head + memoryview(lines.buffers()[2])[offsets[0]:offsets[-1]].tobytes()
+
+
+def _coded(pa, values: list, text_of):
+    """A pyarrow large_string array of ``text_of(v)`` for each of ``values``, each distinct text made once."""
+    distinct = list(dict.fromkeys(values))
+    code = {v: i for i, v in enumerate(distinct)}
+    indices = np.fromiter(map(code.__getitem__, values), dtype=np.int32, count=len(values))
+    texts = pa.array([text_of(v) for v in distinct], type=pa.large_string())
+    return pa.DictionaryArray.from_arrays(pa.array(indices), texts).cast(pa.large_string())
 
 
 def write_results(path, inventory: Inventory, result: hb.BatchResult) -> None:
     """Write the results file atomically (a half-written file never replaces a good one), UTF-8."""
-    write_atomic(path, format_results(inventory, result))
+    write_atomic(path, _results_bytes(inventory, result))
 
 
 def result_table(inventory: Inventory, result: hb.BatchResult):

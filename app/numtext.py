@@ -24,7 +24,7 @@ from __future__ import annotations
 
 import numpy as np
 
-__all__ = ["MAX_DIGITS", "format_rows"]
+__all__ = ["MAX_DIGITS", "RowTexts", "format_rows"]
 
 #: Largest P served from tables (9 * 10^(P-1) mantissas each).
 MAX_DIGITS = 6
@@ -156,8 +156,27 @@ def _mantissa(a, p):
     return m.astype(np.intp), x, exact
 
 
-def format_rows(values, digits: int) -> list[str]:
-    """Each row of ``values`` as its numbers in ``"%.{digits}g"`` form, each followed by a comma.
+class RowTexts:
+    """Texts of N rows as one ASCII buffer: row i is ``data[ends[i-1]:ends[i]]`` (``ends[-1]`` = len(data))."""
+
+    def __init__(self, data: bytes, ends: np.ndarray):
+        self.data, self.ends = data, ends
+
+    def __len__(self):
+        return len(self.ends)
+
+    def offsets(self) -> np.ndarray:
+        """Start of each row and the end of the last, int64 (N + 1 entries, from 0)."""
+        return np.concatenate([[0], self.ends]).astype(np.int64)
+
+    def tolist(self) -> list[str]:
+        text = self.data.decode("ascii")
+        ends = self.ends.tolist()
+        return [text[a:b] for a, b in zip([0] + ends[:-1], ends)]
+
+
+def format_rows(values, digits: int, comma_after_last: bool = False) -> RowTexts:
+    """Each row of ``values`` as its numbers in ``"%.{digits}g"`` form, separated by commas.
 
     Parameters
     ----------
@@ -165,11 +184,13 @@ def format_rows(values, digits: int) -> list[str]:
         C numbers per row; a non-finite one gives an empty field.
     digits : int
         Significant digits P, 1 to :data:`MAX_DIGITS`.
+    comma_after_last : bool
+        Also end each row with a comma (for a field that follows).
 
     Returns
     -------
-    list of str
-        N texts, e.g. ``"1.2346,0.5,,12,"`` for C = 4.
+    RowTexts
+        N texts, e.g. ``"1.2346,0.5,,12"`` for C = 4 (``"1.2346,0.5,,12,"`` with ``comma_after_last``).
     """
     if not 1 <= digits <= MAX_DIGITS:
         raise ValueError(f"digits must be 1 to {MAX_DIGITS}, got {digits}")
@@ -177,8 +198,10 @@ def format_rows(values, digits: int) -> list[str]:
     if v.ndim != 2:
         raise ValueError(f"values must be 2-D (rows, columns), got shape {v.shape}")
     rows, cols = v.shape
+    if not cols:
+        raise ValueError("values must have at least one column")
     if not rows:
-        return []
+        return RowTexts(b"", np.zeros(0, dtype=np.int64))
     t = _tables(digits)
     flat = v.ravel()
     a = np.abs(flat)
@@ -186,7 +209,7 @@ def format_rows(values, digits: int) -> list[str]:
     nonzero = finite & (a > 0)
     with np.errstate(over="ignore", invalid="ignore"):  # values beyond |X| = 280 are Python's to format
         m, x, exact = _mantissa(np.where(nonzero, a, 1.0), digits)
-    # the form of each cell: 0 .. P+5 by X (see _Tables.form), then zero and blank
+    # the form of each cell: 0 .. P+5 by X (see _Tables), then zero, then blank
     form = np.clip(x, -5, digits) + 5
     form[~nonzero] = t.zero_form
     form[~finite] = t.blank_form
@@ -195,18 +218,18 @@ def format_rows(values, digits: int) -> list[str]:
     cell_a = t.base_a[form] + t.step_a[form] * i
     cell_b = t.base_b[form] + t.step_b[form] * i + t.exp_step_b[form] * xc
 
-    out = np.zeros(rows, dtype=[("cells", t.cell, (cols,)), ("end", "u1")])
-    cells = out["cells"]  # a view (rows, cols): written through, never reshaped (that could copy)
-    cells["sign"] = np.where(finite & np.signbit(flat), ord("-"), 0).reshape(rows, cols)
-    cells["a"] = t.a[cell_a].reshape(rows, cols)
-    cells["b"] = t.b[cell_b].reshape(rows, cols)
-    cells["comma"] = ord(",")
-    out["end"] = ord("\n")
+    out = np.empty((rows, cols), dtype=t.cell)
+    out["sign"] = np.where(finite & np.signbit(flat), ord("-"), 0).reshape(rows, cols)
+    out["a"] = t.a[cell_a].reshape(rows, cols)
+    out["b"] = t.b[cell_b].reshape(rows, cols)
+    out["comma"] = ord(",")
+    if not comma_after_last:
+        out["comma"][:, -1] = 0  # a zero byte is no character: no comma after a row's last field
     for k in np.flatnonzero(nonzero & ~exact).tolist():  # Python's own text where the arithmetic could be off
         text = ("%.*g" % (digits, flat[k])).encode("ascii")
         cell = np.zeros(1, dtype=t.cell)
         cell.view(np.uint8)[:len(text)] = np.frombuffer(text, dtype=np.uint8)
-        cell["comma"] = ord(",")
-        cells[k // cols, k % cols] = cell[0]
-    raw = out.view(np.uint8)
-    return raw[raw != 0].tobytes().decode("ascii").split("\n")[:-1]
+        cell["comma"] = ord(",") if comma_after_last or k % cols < cols - 1 else 0
+        out[k // cols, k % cols] = cell[0]
+    raw = out.view(np.uint8).reshape(rows, -1)
+    return RowTexts(raw.tobytes().translate(None, b"\0"), np.cumsum(np.count_nonzero(raw, axis=1)))

@@ -401,10 +401,18 @@ def solve_hydraulics(reaches: Reaches, idx, n, out: BatchResult, display: hu.Uni
         out.manning_n[rows] = res.manning_n
         _warn(reaches, rows, res, out)
         done[rows] = True
-    for row, message in failures.items():
-        out.verdict[row] = "no-solution"
-        out.reason[row] = message
+    if failures:
+        failed = np.fromiter(failures, dtype=np.intp, count=len(failures))
+        out.verdict[failed] = "no-solution"
+        out.reason[failed] = _objects(list(failures.values()))
     return done[idx]
+
+
+def _objects(texts: list) -> np.ndarray:
+    """A list of str as a 1-D object array (np.array could make a 2-D array of characters or a U array)."""
+    out = np.empty(len(texts), dtype=object)
+    out[:] = texts
+    return out
 
 
 def _warn(reaches, rows, res, out):

@@ -16,7 +16,7 @@ EDGES = [0.0, -0.0, 1.0, 10.0, 100.0, 1e5, 99999.5, 99999.49999, 9.99995, 9.9999
 
 
 def python_rows(values, digits):
-    return ["".join(("%.*g" % (digits, v) if np.isfinite(v) else "") + "," for v in row) for row in values]
+    return [",".join(("%.*g" % (digits, v) if np.isfinite(v) else "") for v in row) for row in values]
 
 
 @pytest.mark.parametrize("digits", range(1, MAX_DIGITS + 1))
@@ -30,12 +30,19 @@ def test_every_text_is_pythons(digits):
         (rng.integers(1, 10 ** digits, 6000) + 0.5) * 10.0 ** rng.integers(-8, 8, 6000),     # near rounding ties
     ])
     values = values[: len(values) // 6 * 6].reshape(-1, 6)
-    assert format_rows(values, digits) == python_rows(values, digits)
+    texts = format_rows(values, digits)
+    assert texts.tolist() == python_rows(values, digits)
+    assert texts.data.decode() == "".join(python_rows(values, digits))
+    assert format_rows(values, digits, comma_after_last=True).tolist() == [r + "," for r in python_rows(values, digits)]
 
 
 def test_shapes_and_refusals():
-    assert format_rows(np.zeros((0, 3)), 5) == []
-    assert format_rows([[np.nan, 1.5, -2e-7]], 5) == [",1.5,-2e-07,"]
+    assert format_rows(np.zeros((0, 3)), 5).tolist() == []
+    assert format_rows([[np.nan, 1.5, -2e-7], [0.0, -0.0, np.inf]], 5).tolist() == [",1.5,-2e-07", "0,-0,"]
+    assert list(format_rows([[1.0, 22.0], [333.0, np.nan]], 5).offsets()) == [0, 4, 8]
+    assert format_rows([[1.0, np.nan], [-0.5, 2.0]], 5, comma_after_last=True).tolist() == ["1,,", "-0.5,2,"]
+    with pytest.raises(ValueError):
+        format_rows(np.zeros((2, 0)), 5)
     with pytest.raises(ValueError):
         format_rows([1.0, 2.0], 5)
     with pytest.raises(ValueError):
