@@ -79,10 +79,17 @@ class _Tables:
             tail[i, :len(t)] = np.frombuffer(t, dtype=np.uint8)
         rows_a.append(tail)
         lens_a.append(np.array([len(t) for t in extra]))
-        table = np.concatenate(rows_a)
-        table[np.arange(wa) >= np.concatenate(lens_a)[:, None]] = 0   # a zero byte is no character
-        self.a = np.ascontiguousarray(table).view(f"V{wa}").ravel()
-        self.width_a = wa
+        # each A row unsigned, then with a minus sign: row + sign * (rows of A)
+        table, length = np.concatenate(rows_a), np.concatenate(lens_a)
+        table[np.arange(wa) >= length[:, None]] = 0   # a zero byte is no character
+        signed = np.zeros((len(table), wa + 1), dtype=np.uint8)
+        signed[:, 0] = ord("-")
+        signed[:, 1:] = table
+        unsigned = np.zeros_like(signed)
+        unsigned[:, :wa] = table
+        self.rows_a = len(table)
+        self.a = np.ascontiguousarray(np.concatenate([unsigned, signed])).view(f"V{wa + 1}").ravel()
+        self.len_a = np.concatenate([length, length + 1]).astype(np.uint8)
 
         # B part: the stripped mantissa digits (after a "0.00" prefix), the exponents, empty
         wb = max(p, 5)
@@ -94,10 +101,17 @@ class _Tables:
         for i, t in enumerate(exps):
             ex[i, :len(t)] = np.frombuffer(t, dtype=np.uint8)
         self.empty_b = count + len(exps)
-        table = np.concatenate([dig, ex])
-        table[np.arange(wb) >= np.concatenate([shown, [len(t) for t in exps], [0]])[:, None]] = 0
-        self.b = np.ascontiguousarray(table).view(f"V{wb}").ravel()
-        self.width_b = wb
+        # each B row followed by a comma, then without it (a row's last field): row + last * (rows of B)
+        table, length = np.concatenate([dig, ex]), np.concatenate([shown, [len(t) for t in exps], [0]])
+        table[np.arange(wb) >= length[:, None]] = 0
+        comma = np.zeros((len(table), wb + 1), dtype=np.uint8)
+        comma[:, :wb] = table
+        comma[np.arange(len(table)), length] = ord(",")
+        bare = np.zeros_like(comma)
+        bare[:, :wb] = table
+        self.rows_b = len(table)
+        self.b = np.ascontiguousarray(np.concatenate([comma, bare])).view(f"V{wb + 1}").ravel()
+        self.len_b = np.concatenate([length + 1, length]).astype(np.uint8)
         self.count = count
         # per form: X + 5 for X = -5 .. P clipped (0 and P + 5: scientific; 1 .. 4: "0.00" prefix; 5 .. P + 4:
         # fixed with X = 0 .. P - 1), then zero, then blank. Cell rows: base + step * (m - 10^(P-1)) [+ X].
@@ -118,7 +132,7 @@ class _Tables:
             self.base_a[x + 5], self.step_a[x + 5] = x * count, 1
         self.base_a[self.zero_form] = self.zero_a
         self.base_a[self.blank_form] = self.empty_a
-        self.cell = np.dtype([("sign", "u1"), ("a", f"V{wa}"), ("b", f"V{wb}"), ("comma", "u1")])
+        self.cell = np.dtype([("a", f"V{wa + 1}"), ("b", f"V{wb + 1}")])
 
 
 _TABLES: dict = {}
@@ -218,18 +232,20 @@ def format_rows(values, digits: int, comma_after_last: bool = False) -> RowTexts
     cell_a = t.base_a[form] + t.step_a[form] * i
     cell_b = t.base_b[form] + t.step_b[form] * i + t.exp_step_b[form] * xc
 
+    cell_a += (finite & np.signbit(flat)) * t.rows_a
+    if not comma_after_last:
+        cell_b.reshape(rows, cols)[:, -1] += t.rows_b  # no comma after a row's last field
+    length = (t.len_a[cell_a] + t.len_b[cell_b]).reshape(rows, cols)
     out = np.empty((rows, cols), dtype=t.cell)
-    out["sign"] = np.where(finite & np.signbit(flat), ord("-"), 0).reshape(rows, cols)
     out["a"] = t.a[cell_a].reshape(rows, cols)
     out["b"] = t.b[cell_b].reshape(rows, cols)
-    out["comma"] = ord(",")
-    if not comma_after_last:
-        out["comma"][:, -1] = 0  # a zero byte is no character: no comma after a row's last field
     for k in np.flatnonzero(nonzero & ~exact).tolist():  # Python's own text where the arithmetic could be off
-        text = ("%.*g" % (digits, flat[k])).encode("ascii")
+        r, c = divmod(k, cols)
+        text = ("%.*g" % (digits, flat[k]) + ("," if comma_after_last or c < cols - 1 else "")).encode("ascii")
         cell = np.zeros(1, dtype=t.cell)
         cell.view(np.uint8)[:len(text)] = np.frombuffer(text, dtype=np.uint8)
-        cell["comma"] = ord(",") if comma_after_last or k % cols < cols - 1 else 0
-        out[k // cols, k % cols] = cell[0]
-    raw = out.view(np.uint8).reshape(rows, -1)
-    return RowTexts(raw.tobytes().translate(None, b"\0"), np.cumsum(np.count_nonzero(raw, axis=1)))
+        out[r, c] = cell[0]
+        length[r, c] = len(text)
+    raw = out.view(np.uint8)
+    return RowTexts(raw.tobytes().translate(None, b"\0"), np.cumsum(length.sum(axis=1, dtype=np.int64)))
+

@@ -62,12 +62,15 @@ class ChannelResult:
     warnings: list = field(default_factory=list)
 
 
+_REGIMES = np.array(["subcritical", "supercritical", "critical"])
+
+
 def flow_regime(froude):
     """"subcritical" (Fr < 1), "supercritical" (Fr > 1) or "critical" (|Fr - 1| < 1e-6)."""
     if np.ndim(froude):
         fr = np.asarray(froude)
-        return np.where(np.abs(fr - 1) < CRITICAL_TOLERANCE, "critical",
-                        np.where(fr < 1, "subcritical", "supercritical"))
+        code = np.where(np.abs(fr - 1) < CRITICAL_TOLERANCE, 2, 1 - (fr < 1))
+        return _REGIMES[code]  # one gather rather than two string-array selections
     if abs(froude - 1) < CRITICAL_TOLERANCE:
         return "critical"
     return "subcritical" if froude < 1 else "supercritical"
