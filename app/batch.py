@@ -5,8 +5,8 @@ its edge: it reads the CSV text (pyarrow's CSV reader for a plain file, the
 csv module and Python's float for one with quotes, blank lines or ragged
 rows: the same fields, numbers and reasons either way), converts the user's
 units to SI on the way in and back on the way out, writes the results file,
-and prepares the summary and the summary plot. The desktop window calls :func:`run_inventory`
-and :func:`result_table`.
+and prepares the summary and the summary plot. The desktop window calls
+:func:`run_inventory` and :func:`result_table`.
 
 Input columns (all required in the header, blank where not relevant):
 ``id, shape, bottom_width, left_slope, right_slope, diameter, slope, flow,
@@ -341,16 +341,16 @@ def _parse_arrow(text: str, system, source: str):
         return None  # blank lines, which the Python reader reports
     names, index = _check_header(header.split(","), source)
     size, width = len(starts), len(names)
-    field = [f"f{j}" for j in range(width)]  # positional: the header is checked above, with its own messages
-    col = {name: field[index[name]] for name in INPUT_COLUMNS}
+    slots = [f"f{j}" for j in range(width)]  # positional: the header is checked above, with its own messages
+    col = {name: slots[index[name]] for name in INPUT_COLUMNS}
     typed = {col[n]: pa.float64() for n in _NUMBER_COLUMNS}
     typed.update({col["shape"]: pa.dictionary(pa.int32(), pa.string()),
                   col["lining"]: pa.dictionary(pa.int32(), pa.string()), col["id"]: pa.string()})
     try:
-        table = _arrow_table(pa, pacsv, body, field, typed)
+        table = _arrow_table(pa, pacsv, body, slots, typed)
     except pa.ArrowInvalid:  # a number pyarrow refuses (or a ragged row): every column as text, numbers below
         try:
-            table = _arrow_table(pa, pacsv, body, field, {c: pa.string() for c in typed})
+            table = _arrow_table(pa, pacsv, body, slots, {c: pa.string() for c in typed})
         except pa.ArrowInvalid:
             return None
     if table.num_rows != size:

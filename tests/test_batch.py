@@ -313,8 +313,10 @@ def test_pyarrow_and_python_readers_agree(monkeypatch, column):
     assert '"' not in text
     assert ab._parse_arrow(text, hu.system("us"), "inventory") is not None  # pyarrow reads this file
     fast = ab.parse_inventory(text, "us")
+    fast_text = ab.format_results(fast, ab.evaluate(fast))  # written by pyarrow from the file's own bytes
     monkeypatch.setattr(ab, "_pyarrow", lambda: None)
     slow = ab.parse_inventory(text, "us")
+    assert fast_text == ab.format_results(slow, ab.evaluate(slow))  # both written by Python
     for name in ("header", "header_text", "rows", "ids", "blank_lines"):
         assert getattr(fast, name) == getattr(slow, name), name
     np.testing.assert_array_equal(fast.lines, slow.lines)
@@ -338,11 +340,31 @@ def test_pyarrow_and_python_readers_agree(monkeypatch, column):
 def test_files_the_pyarrow_reader_leaves_to_the_python_reader(monkeypatch, text):
     """Blank lines, ragged rows: the Python reader reports them (line numbers, reasons); CRLF is read alike."""
     fast = ab.parse_inventory(text, "si")
+    fast_text = ab.format_results(fast, ab.evaluate(fast))
     monkeypatch.setattr(ab, "_pyarrow", lambda: None)
     slow = ab.parse_inventory(text, "si")
     assert (fast.rows, list(fast.lines), fast.blank_lines) == (slow.rows, list(slow.lines), slow.blank_lines)
     assert fast.reaches.notes.tolist() == slow.reaches.notes.tolist()
-    assert ab.format_results(fast, ab.evaluate(fast)) == ab.format_results(slow, ab.evaluate(slow))
+    assert fast_text == ab.format_results(slow, ab.evaluate(slow))
+
+
+def test_quoted_files_are_written_alike_by_pyarrow_and_python(monkeypatch, tmp_path):
+    """A file with quotes (read by the csv module) is written the same by either writer, quotes as needed."""
+    text = ('id,shape,bottom_width,left_slope,right_slope,diameter,slope,flow,lining,d50,n,note\n'
+            'A,trapezoid,2,3,3,,0.004,20,,,0.03,"has, a comma"\n'
+            'caf\u00e9,circle,,,,1.5,0.004,1,,,0.013,"two\nlines and ""quotes"""\n'
+            'C,trapezoid,2,3,3,,0.004,-1,riprap,,,plain\n')
+    inv = ab.parse_inventory(text, "us")
+    res = ab.evaluate(inv)
+    path = tmp_path / "out.csv"
+    ab.write_results(path, inv, res)
+    by_arrow = path.read_bytes()
+    monkeypatch.setattr(ab, "_pyarrow", lambda: None)
+    ab.write_results(path, inv, res)
+    assert path.read_bytes() == by_arrow == ab.format_results(inv, res).encode("utf-8")
+    got = list(csv.DictReader(io.StringIO(by_arrow.decode("utf-8"), newline="")))
+    assert [g["note"] for g in got] == ["has, a comma", 'two\nlines and "quotes"', "plain"]
+    assert got[2]["verdict"] == "invalid" and got[2]["normal_depth"] == "" and "flow" in got[2]["reason"]
 
 
 def _ir(text):
