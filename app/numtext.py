@@ -113,10 +113,9 @@ class _Tables:
         self.b = np.ascontiguousarray(np.concatenate([comma, bare])).view(f"V{wb + 1}").ravel()
         self.len_b = np.concatenate([length + 1, length]).astype(np.uint8)
         self.count = count
-        # per form: X + 5 for X = -5 .. P clipped (0 and P + 5: scientific; 1 .. 4: "0.00" prefix; 5 .. P + 4:
-        # fixed with X = 0 .. P - 1), then zero, then blank. Cell rows: base + step * (m - 10^(P-1)) [+ X].
-        forms = p + 8
-        self.zero_form, self.blank_form = p + 6, p + 7
+        # per form, X + 5 for X = -5 .. P clipped (0 and P + 5: scientific; 1 .. 4: "0.00" prefix; 5 .. P + 4:
+        # fixed with X = 0 .. P - 1), the rows of a value: base + step * (m - 10^(P-1)) [+ exp_step * X]
+        forms = p + 6
         self.base_a = np.zeros(forms, dtype=np.intp)
         self.step_a = np.zeros(forms, dtype=np.intp)
         self.base_b = np.full(forms, self.empty_b, dtype=np.intp)
@@ -130,12 +129,11 @@ class _Tables:
             self.base_b[x + 5], self.step_b[x + 5] = 0, 1
         for x in range(p):
             self.base_a[x + 5], self.step_a[x + 5] = x * count, 1
-        self.base_a[self.zero_form] = self.zero_a
-        self.base_a[self.blank_form] = self.empty_a
         self.cell = np.dtype([("a", f"V{wa + 1}"), ("b", f"V{wb + 1}")])
 
 
 _TABLES: dict = {}
+_POWERS = {p: 10.0 ** np.arange(-_EXP_RANGE - p, _EXP_RANGE + p + 1) for p in range(1, MAX_DIGITS + 1)}
 
 
 def _tables(p: int) -> _Tables:
@@ -150,7 +148,7 @@ def _mantissa(a, p):
     x = np.floor(np.log10(a)).astype(np.intp)
     exact = np.abs(x) <= _EXP_RANGE
     x[~exact] = 0
-    power = 10.0 ** np.arange(-_EXP_RANGE - p, _EXP_RANGE + p + 1)  # 10^k, k = -(280 + P) .. 280 + P
+    power = _POWERS[p]  # 10^k, k = -(280 + P) .. 280 + P
     base = _EXP_RANGE + p
     lo, hi = 10.0 ** (p - 1), 10.0 ** p
     scaled = a * power[base + p - 1 - x]
@@ -221,16 +219,17 @@ def format_rows(values, digits: int, comma_after_last: bool = False) -> RowTexts
     a = np.abs(flat)
     finite = np.isfinite(a)
     nonzero = finite & (a > 0)
+    live = np.flatnonzero(nonzero)  # blanks and zeros need no digits
     with np.errstate(over="ignore", invalid="ignore"):  # values beyond |X| = 280 are Python's to format
-        m, x, exact = _mantissa(np.where(nonzero, a, 1.0), digits)
-    # the form of each cell: 0 .. P+5 by X (see _Tables), then zero, then blank
+        m, x, exact = _mantissa(a[live], digits)
+    # the form of each value: 0 .. P+5 by X (see _Tables); cells of zero and blank have their own rows
     form = np.clip(x, -5, digits) + 5
-    form[~nonzero] = t.zero_form
-    form[~finite] = t.blank_form
     i = m - t.low
     xc = np.clip(x, -_EXP_RANGE - 1, _EXP_RANGE + 1)
-    cell_a = t.base_a[form] + t.step_a[form] * i
-    cell_b = t.base_b[form] + t.step_b[form] * i + t.exp_step_b[form] * xc
+    cell_a = np.where(finite, t.zero_a, t.empty_a)
+    cell_a[live] = t.base_a[form] + t.step_a[form] * i
+    cell_b = np.full(flat.size, t.empty_b, dtype=np.intp)
+    cell_b[live] = t.base_b[form] + t.step_b[form] * i + t.exp_step_b[form] * xc
 
     cell_a += (finite & np.signbit(flat)) * t.rows_a
     if not comma_after_last:
@@ -239,7 +238,7 @@ def format_rows(values, digits: int, comma_after_last: bool = False) -> RowTexts
     out = np.empty((rows, cols), dtype=t.cell)
     out["a"] = t.a[cell_a].reshape(rows, cols)
     out["b"] = t.b[cell_b].reshape(rows, cols)
-    for k in np.flatnonzero(nonzero & ~exact).tolist():  # Python's own text where the arithmetic could be off
+    for k in live[~exact].tolist():  # Python's own text where the arithmetic could be off
         r, c = divmod(k, cols)
         text = ("%.*g" % (digits, flat[k]) + ("," if comma_after_last or c < cols - 1 else "")).encode("ascii")
         cell = np.zeros(1, dtype=t.cell)

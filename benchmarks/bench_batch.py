@@ -40,11 +40,14 @@ from __future__ import annotations
 import argparse
 import csv
 import math
+import sys
 import tempfile
 import time
 from pathlib import Path
 
 import numpy as np
+
+sys.path.insert(0, str(Path(__file__).resolve().parent.parent))  # this checkout's code, not an installed copy
 
 import hydraulics as hy
 from app import batch as ab
