@@ -213,3 +213,25 @@ def test_roughness_model_coupled_solve():
     assert hy.flow_at_depth(s, y, 0.01, n_at) == pytest.approx(1.2, rel=1e-10)
     ys = hy.normal_depth(s, np.array([1.2, 2.4]), 0.01, model)
     assert ys[0] == pytest.approx(y, rel=1e-11)
+
+
+@settings(max_examples=100, deadline=None)
+@given(st.floats(0.1, 3.0), st.floats(1e-4, 0.999), slopes, ns)
+def test_pipe_depth_reproduces_flow_up_to_its_peak(diameter, fraction, s, n):
+    c = hy.Circle(diameter=diameter)
+    q = fraction * hy.max_flow(c, s, n)
+    y = hy.normal_depth(c, q, s, n)
+    assert 0 < y <= hy.CIRCLE_CAPACITY_RATIO * diameter * (1 + 1e-9)
+    assert abs(hy.flow_at_depth(c, y, s, n) - q) / q <= 1e-10
+    yv = hy.normal_depth(c, np.array([q, q]), s, n)
+    np.testing.assert_allclose(yv, y, rtol=1e-10)
+
+
+@settings(max_examples=60, deadline=None)
+@given(st.lists(st.floats(0.05, 2.0), min_size=3, max_size=8), st.floats(0.05, 0.95), slopes, ns)
+def test_surveyed_section_depth_reproduces_flow(depths, fraction, s, n):
+    elevations = [2.5] + depths + [2.5]
+    ir = hy.Irregular(np.arange(len(elevations), dtype=float), elevations, n=n)
+    q = fraction * hy.max_flow(ir, s)
+    y = hy.normal_depth(ir, q, s)
+    assert abs(hy.flow_at_depth(ir, y, s) - q) / q <= 1e-10

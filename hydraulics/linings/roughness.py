@@ -1,0 +1,272 @@
+"""Depth-dependent Manning's n of linings, as roughness models for the solvers.
+
+Each model has ``manning_n(section, depth, slope)`` (the protocol of
+:func:`hydraulics.normal_depth`): vectorised over ``depth`` (and ``slope``),
+free of checks and warnings because the solver calls it at every trial depth.
+``check(section, depth, slope)`` returns, once, the plain-language warnings for
+a depth outside the relation's range of validity.
+
+    import hydraulics as hy
+    from hydraulics.linings import StoneRoughness
+    section = hy.Trapezoid(bottom_width=0.4, side_slope=3.0)
+    rough = StoneRoughness(d50=0.025)
+    y = hy.normal_depth(section, flow=0.42, slope=0.008, n=rough)
+    notes = rough.check(section, y, 0.008)
+"""
+
+from __future__ import annotations
+
+import numpy as np
+
+from .. import validate
+from ..constants import GAMMA_WATER
+from ..errors import InputError
+from . import hec15
+
+__all__ = ["StoneRoughness", "VegetationRoughness", "STONE_METHODS", "SPLIT_BAND"]
+
+#: Ways to compute the n of a stone lining.
+STONE_METHODS = ("auto", "blodgett", "bathurst", "strickler")
+#: Width of the band above da/D50 = 1.5 over which "auto" passes from Bathurst's n to
+#: Blodgett's (a ratio: 1.5 to 1.53); a rule of this program, see StoneRoughness.
+SPLIT_BAND = 1.02
+#: Largest exponent p of Bathurst's f(Fr) (HEC-15 Eq. 6.3) accepted in "auto": as p nears 1,
+#: Bathurst's n with the Manning velocity has no stable value (a rule of this program).
+P_LIMIT = 0.95
+
+
+def _average_depth(section, depth):
+    g = section.properties(depth)
+    top = g.top_width
+    if np.any(np.asarray(top) <= 0):
+        raise InputError("depth", "the water surface has no width at this depth (a full pipe); "
+                                  "the lining relations need an open water surface")
+    return g.area / top, g.area / g.wetted_perimeter, top
+
+
+class StoneRoughness:
+    """Manning's n of a riprap, cobble or gravel lining from its D50 (HEC-15 Section 6.1).
+
+    Parameters
+    ----------
+    d50 : float
+        Median stone size [m], > 0.
+    method : str
+        "auto" (default): Blodgett's relation, HEC-15 Eq. 6.1, where
+        da/D50 >= 1.5 and Bathurst's relation, Eq. 6.2, below (the split
+        HEC-15 recommends); "blodgett" or "bathurst" to force one relation
+        at every depth; "strickler" for the depth-independent
+        n = 0.034 D^(1/6) (D in ft; Chow, 1959).
+
+    Notes
+    -----
+    da = A/T is the average depth of HEC-15. Bathurst's Froude number comes
+    from Manning's equation (:func:`hec15.bathurst_n_manning`); the pair has
+    a solution only where the exponent p = log10(0.755/b) of Eq. 6.3 is below
+    1 (b > 0.0755), and it is very sensitive as p approaches 1.
+
+    Rule of this program (not of HEC-15), in "auto" only: below the lowest
+    depth at which Bathurst's relation is usable (da/D50 > 0.3, its range, and
+    p <= P_LIMIT = 0.95), n is held at Bathurst's value at that depth (at the
+    same slope), so that n is continuous; if it is usable nowhere below
+    da/D50 = 1.5, n is held at Blodgett's value at da/D50 = 1.5. Such depths
+    are normally only trial depths of the solver; without the rule the
+    relation there gives arbitrary n and false or missing normal depths.
+    :meth:`check` reports a result that falls there.
+
+    The two relations do not meet at da/D50 = 1.5, so n would jump there and
+    some flows would have no uniform-flow depth. Second rule of this program,
+    in "auto" only: for 1.5 <= da/D50 < 1.5 * SPLIT_BAND (1.53) n passes
+    log-linearly from Bathurst's to Blodgett's value; in effect such a flow
+    runs at da/D50 of about 1.5 with the n that carries it. Where Bathurst's n
+    is below Blodgett's the flow near the switch may have more than one
+    uniform-flow depth.
+    """
+
+    def __init__(self, d50, method: str = "auto"):
+        self.d50 = validate.positive("d50", d50)
+        if np.ndim(self.d50):
+            raise InputError("d50", "must be a single stone size for a roughness model")
+        if method not in STONE_METHODS:
+            raise InputError("method", f"must be one of {', '.join(STONE_METHODS)}, got {method!r}")
+        self.method = method
+        self.n_hold = hec15._blodgett_n(hec15.BLODGETT_RANGE[0] * self.d50, self.d50)
+        self._limits = {}
+
+    def __repr__(self):
+        return f"StoneRoughness(d50={self.d50:g}, method={self.method!r})"
+
+    def _regions(self, section, depth, slope):
+        """(n, relation code) arrays: 0 Blodgett, 1 Bathurst, 2 held value (auto rule)."""
+        da, r, top = _average_depth(section, depth)
+        ratio = np.asarray(da / self.d50, dtype=float)
+        with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
+            blod = np.where(ratio > hec15._BLODGETT_POLE, hec15._blodgett_n(np.asarray(da, float), self.d50), np.nan)
+            b, p, _ = hec15._bathurst_terms(np.asarray(da, float), self.d50, np.asarray(top, float))
+            bath = np.asarray(hec15._bathurst_n_manning(np.asarray(da, float), self.d50, np.asarray(top, float),
+                                                        np.asarray(r, float), slope), dtype=float)
+        if self.method == "blodgett":
+            return blod, np.zeros(ratio.shape, int)
+        if self.method == "bathurst":
+            return bath, np.ones(ratio.shape, int)
+        split = hec15.BLODGETT_RANGE[0]
+        y_lim, lim = self._lowest_bathurst_depth(section)
+        below = np.asarray(depth) < y_lim
+        bath_ok = ~below & (np.asarray(p) < 1.0) & np.isfinite(bath) & (bath > 0)
+        code = np.where(ratio >= split * SPLIT_BAND, 0,
+                        np.where(ratio >= split, np.where(bath_ok, 3, 0), np.where(bath_ok, 1, 2)))
+        with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
+            w = np.log(np.maximum(ratio, split) / split) / np.log(SPLIT_BAND)
+            ramp = np.exp((1.0 - w) * np.log(np.where(code == 3, bath, 1.0)) + w * np.log(np.where(code == 3, blod, 1.0)))
+            if lim is None:
+                held = self.n_hold
+            else:  # Bathurst's n at the lowest depth where it is usable, at this slope: n is continuous there
+                held = np.asarray(hec15._bathurst_n_manning(lim[0], self.d50, lim[1], lim[2], slope), dtype=float)
+                held = np.where(np.isfinite(held) & (held > 0), held, self.n_hold)
+        n = np.select([code == 0, code == 1, code == 3], [blod, bath, ramp], held)
+        return n, code
+
+    def _lowest_bathurst_depth(self, section):
+        """Lowest depth at which Bathurst's relation is usable (da/D50 > 0.3 and p <= P_LIMIT).
+
+        Returns (depth, (da, T, R) there), or (inf, None) if it is not usable below
+        da/D50 = 1.5. Found once per section by bisection on the geometry and kept.
+        """
+        key = id(section)
+        hit = self._limits.get(key)
+        if hit is not None and hit[0] is section:
+            return hit[1], hit[2]
+        split = hec15.BLODGETT_RANGE[0]
+
+        def usable(y):
+            da, r, top = _average_depth(section, y)
+            ratio = np.asarray(da / self.d50, float)
+            _, p, _ = hec15._bathurst_terms(np.asarray(da, float), self.d50, np.asarray(top, float))
+            return (ratio > hec15.BATHURST_RANGE[0]) & (np.asarray(p) <= P_LIMIT), ratio
+
+        shape = np.shape(section.properties(1.0).area)
+        hi = np.full(shape, 1e-3 * self.d50)
+        for _ in range(80):  # grow to a depth where da/D50 reaches the split
+            ok, ratio = usable(hi if shape else float(hi))
+            grow = np.asarray(ratio) < split
+            if not grow.any():
+                break
+            hi = np.where(grow, hi * 2.0, hi)
+            if section.capacity_depth is not None:
+                hi = np.minimum(hi, np.asarray(section.capacity_depth) * (1 - 1e-9))
+        ok_hi, _ = usable(hi if shape else float(hi))
+        if not np.any(ok_hi):
+            result = (np.inf, None)
+        else:
+            lo = np.full(shape, 1e-9 * self.d50)
+            hi_b = hi.copy()
+            for _ in range(100):
+                mid = np.sqrt(lo * hi_b)
+                ok, _ = usable(mid if shape else float(mid))
+                hi_b = np.where(ok, mid, hi_b)
+                lo = np.where(ok, lo, mid)
+            y = np.where(ok_hi, hi_b, np.inf)
+            yy = y if shape else float(y)
+            if not np.all(np.isfinite(y)):
+                result = (yy, None)
+            else:
+                da, r, top = _average_depth(section, yy)
+                result = (yy, (da, top, r))
+        self._limits = {key: (section, *result)}  # keep the last section only
+        return result
+
+    def manning_n(self, section, depth, slope):
+        """Manning's n [s/m^(1/3)] at ``depth`` [m] and ``slope`` [m/m]; no checks (solver use)."""
+        if self.method == "strickler":
+            n = 0.034 * (self.d50 / 0.3048) ** (1.0 / 6.0)
+            return np.full(np.shape(depth), n) if np.ndim(depth) else n
+        n, _ = self._regions(section, depth, slope)
+        return n if np.ndim(n) else float(n)
+
+    def relation(self, section, depth, slope=0.01) -> str:
+        """Relation used at a (scalar) ``depth``: "blodgett", "bathurst", "held", "transition" or "strickler"."""
+        if self.method == "strickler":
+            return "strickler"
+        _, code = self._regions(section, depth, slope)
+        return ("blodgett", "bathurst", "held", "transition")[int(np.max(code))]
+
+    def check(self, section, depth, slope) -> list[str]:
+        """Warnings, in words, for ``depth`` outside the range of the relation used."""
+        out = []
+        lo, hi = hec15.STONE_SIZE_RANGE
+        if not lo <= self.d50 <= hi:
+            out.append(f"D50 = {self.d50 * 1000:.4g} mm is outside the {lo * 1000:g} to {hi * 1000:g} mm range "
+                       "of the HEC-15 Chapter 6 procedures")
+        if self.method == "strickler":
+            return out
+        da, _, _ = _average_depth(section, depth)
+        ratio = np.asarray(da / self.d50, dtype=float)
+        _, code = self._regions(section, depth, slope)
+        text = hec15._span(ratio)
+        a, b = hec15.BLODGETT_RANGE
+        if np.any((code == 0) & ((ratio < a) | (ratio > b))):
+            out.append(f"da/D50 = {text} is outside {a:g} to {b:g}, the range of Blodgett's relation (HEC-15 Eq. 6.1)")
+        a, b = hec15.BATHURST_RANGE
+        if np.any((code == 1) & ((ratio <= a) | (ratio >= b))):
+            out.append(f"da/D50 = {text} is outside {a:g} to {b:g}, the range of Bathurst's relation (HEC-15 Eq. 6.2)")
+        if np.any(code == 3):
+            out.append(f"da/D50 = {text}: at the change from Bathurst's to Blodgett's relation (HEC-15 Section 6.1) "
+                       f"n is taken between the two (a rule of this program, for da/D50 from 1.5 to "
+                       f"{1.5 * SPLIT_BAND:.3g})")
+        if np.any(code == 2):
+            out.append(f"da/D50 = {text}: the flow is too shallow for Bathurst's relation (HEC-15 Eq. 6.2); "
+                       "n is held at its value at the lowest usable depth, a rule of this program, not of HEC-15")
+        return out
+
+    def to_dict(self) -> dict:
+        return {"model": "stone", "d50": self.d50, "method": self.method}
+
+
+class VegetationRoughness:
+    """Manning's n of a grass lining, HEC-15 Chapter 4: n = Cn (gamma R S)^-0.4.
+
+    Parameters
+    ----------
+    density_stiffness : float
+        Density-stiffness coefficient Cs [-] (HEC-15 Table 4.3), > 0.
+    stem_height : float
+        Stem height h [m], > 0.
+    gamma_water : float
+        Unit weight of water [N/m^3].
+
+    Notes
+    -----
+    n falls as the flow deepens and bends the grass; the relations are from
+    memory (see :func:`hec15.grass_roughness_coefficient`).
+    """
+
+    def __init__(self, density_stiffness, stem_height, gamma_water=GAMMA_WATER):
+        self.density_stiffness = validate.positive("density_stiffness", density_stiffness)
+        self.stem_height = validate.positive("stem_height", stem_height)
+        self.gamma_water = validate.positive("gamma_water", gamma_water)
+        if np.ndim(self.density_stiffness) or np.ndim(self.stem_height):
+            raise InputError("density_stiffness", "must be a single value for a roughness model")
+        self.cn = hec15.grass_roughness_coefficient(self.density_stiffness, self.stem_height)
+
+    def __repr__(self):
+        return f"VegetationRoughness(density_stiffness={self.density_stiffness:g}, stem_height={self.stem_height:g})"
+
+    def boundary_shear(self, section, depth, slope):
+        """Mean boundary shear tau_o = gamma R S [Pa]."""
+        g = section.properties(depth)
+        return self.gamma_water * g.area / g.wetted_perimeter * slope
+
+    def manning_n(self, section, depth, slope):
+        """Manning's n [s/m^(1/3)] at ``depth`` [m] and ``slope`` [m/m]; no checks (solver use)."""
+        return hec15._vegetation_n(self.cn, self.boundary_shear(section, depth, slope))
+
+    def check(self, section, depth, slope) -> list[str]:
+        """Warnings for a flow the vegetated-lining relation does not describe well."""
+        out = []
+        if np.any(np.asarray(depth) < self.stem_height):
+            out.append(f"flow depth below the stem height ({self.stem_height:g} m): the grass is not submerged, "
+                       "which the HEC-15 Chapter 4 roughness relation does not describe (from memory)")
+        return out
+
+    def to_dict(self) -> dict:
+        return {"model": "vegetation", "density_stiffness": self.density_stiffness, "stem_height": self.stem_height}

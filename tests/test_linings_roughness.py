@@ -1,0 +1,178 @@
+"""Depth-dependent roughness models and the coupled normal-depth solve.
+
+"HEC-15" = Kilgore and Cotton, Design of Roadside Channels with Flexible
+Linings, HEC-15 3rd ed., FHWA-NHI-05-114, 2005.
+"""
+
+import math
+import warnings
+
+import numpy as np
+import pytest
+from scipy.optimize import brentq
+
+import hydraulics as hy
+from hydraulics.errors import InputError
+from hydraulics.linings import StoneRoughness, ValidityWarning, VegetationRoughness, hec15
+
+
+def _manning_depth(section, flow, slope, rough):
+    """Normal depth by scipy's brentq on Manning's equation (independent of the core's solver)."""
+    def f(y):
+        g = section.properties(y)
+        return g.area * (g.area / g.wetted_perimeter) ** (2 / 3) * math.sqrt(slope) / rough.manning_n(section, y, slope) - flow
+    return brentq(f, 1e-3, 10.0, xtol=1e-14, rtol=1e-14)
+
+
+# ------------------------------------------------------------ HEC-15 gravel mulch design example
+
+def test_gravel_mulch_example_si():
+    # HEC-15 Chapter 6 design example, gravel mulch, SI (from memory): trapezoid B = 0.4 m,
+    # Z = 3, S = 0.008, Q = 0.42 m^3/s, D50 = 25 mm. Published outcome (from memory): depth near
+    # 0.35 m, design shear near 27 N/m^2, above the permissible 19 N/m^2 (Table 2.3), so the
+    # gravel mulch is not stable.
+    section = hy.Trapezoid(bottom_width=0.4, side_slope=3.0)
+    rough = StoneRoughness(0.025)
+    y_core = hy.normal_depth(section, 0.42, 0.008, n=rough)
+    y_ref = _manning_depth(section, 0.42, 0.008, rough)
+    assert y_core == pytest.approx(y_ref, rel=1e-9)
+    assert y_core == pytest.approx(0.35, abs=0.01)
+    tau_d = hec15.design_shear(y_core, 0.008)
+    assert tau_d == pytest.approx(27.0, abs=1.0)
+    re = hec15.particle_reynolds(y_core, 0.008, 0.025)
+    f_star, sf = hec15.shields_and_safety_factor(re)
+    tau_p = hec15.stone_permissible_shear(0.025, f_star)
+    assert tau_p == pytest.approx(19.0, abs=0.5)
+    assert tau_p < sf * tau_d  # the lining fails
+    assert rough.relation(section, y_core) == "blodgett" and rough.check(section, y_core, 0.008) == []
+
+
+# ------------------------------------------------------------ StoneRoughness
+
+def test_stone_roughness_matches_blodgett_and_bathurst_functions():
+    section = hy.Trapezoid(bottom_width=2.0, side_slope=3.0)
+    r = StoneRoughness(0.15)
+    for y in (0.5, 0.8):  # da/D50 >= 1.5: Blodgett (HEC-15 Eq. 6.1)
+        g = section.properties(y)
+        assert r.manning_n(section, y, 0.02) == pytest.approx(hec15.blodgett_n(g.area / g.top_width, 0.15), rel=1e-12)
+    y = 0.25  # da/D50 < 1.5: Bathurst (HEC-15 Eq. 6.2) with Manning's velocity
+    g = section.properties(y)
+    da, rh = g.area / g.top_width, g.area / g.wetted_perimeter
+    assert r.manning_n(section, y, 0.02) == pytest.approx(
+        hec15.bathurst_n_manning(da, 0.15, g.top_width, rh, 0.02), rel=1e-12)
+    assert r.relation(section, 0.25) == "bathurst" and r.relation(section, 0.5) == "blodgett"
+
+
+def test_stone_roughness_vectorised_equals_scalar():
+    section = hy.Trapezoid(bottom_width=1.0, side_slope=2.0)
+    depths = np.linspace(0.05, 1.5, 25)
+    for method in ("auto", "blodgett", "bathurst", "strickler"):
+        r = StoneRoughness(0.1, method)
+        vec = r.manning_n(section, depths, 0.03)
+        with np.errstate(all="ignore"):
+            scal = np.array([r.manning_n(section, float(y), 0.03) for y in depths])
+        np.testing.assert_allclose(vec, scal, rtol=1e-13, equal_nan=True)
+
+
+def test_core_solver_takes_arrays_with_stone_roughness():
+    section = hy.Trapezoid(bottom_width=2.0, side_slope=3.0)
+    flows = np.array([0.5, 1.0, 2.0, 6.0])
+    r = StoneRoughness(0.1)
+    ys = hy.normal_depth(section, flows, 0.02, n=r)
+    for q, y in zip(flows, ys):
+        assert y == pytest.approx(_manning_depth(section, float(q), 0.02, r), rel=1e-8)
+
+
+def test_stone_roughness_check_reports_ranges():
+    section = hy.Trapezoid(bottom_width=2.0, side_slope=3.0)
+    assert any("Bathurst" in w for w in StoneRoughness(0.5).check(section, 0.1, 0.02))   # da/D50 < 0.3
+    assert any("550 mm" in w for w in StoneRoughness(0.8).check(section, 2.0, 0.02))     # size range
+    assert any("Blodgett" in w for w in StoneRoughness(0.3, "blodgett").check(section, 0.3, 0.02))
+
+
+def test_strickler_is_depth_independent():
+    section = hy.Rectangle(bottom_width=1.0)
+    r = StoneRoughness(0.3048, "strickler")
+    assert r.manning_n(section, 0.2, 0.01) == pytest.approx(0.034)  # Chow (1959), D in ft (from memory)
+    assert r.manning_n(section, 2.0, 0.01) == r.manning_n(section, 0.2, 0.01)
+
+
+def test_stone_roughness_input_checks():
+    for kwargs, fld in [({"d50": -1}, "d50"), ({"d50": 0.1, "method": "limerinos"}, "method")]:
+        with pytest.raises(InputError) as e:
+            StoneRoughness(**kwargs)
+        assert e.value.field == fld
+
+
+# ------------------------------------------------------------ VegetationRoughness
+
+def test_vegetation_roughness_formula_and_behaviour():
+    # HEC-15 Chapter 4 (from memory): n = Cn (gamma R S)^-0.4, Cn = 0.35 Cs^0.10 h^0.528.
+    section = hy.Trapezoid(bottom_width=1.0, side_slope=3.0)
+    r = VegetationRoughness(106.0, 0.15)
+    y, s = 0.4, 0.01
+    g = section.properties(y)
+    tau_o = 9810.0 * g.area / g.wetted_perimeter * s
+    expected = 0.35 * 106.0 ** 0.10 * 0.15 ** 0.528 * tau_o ** -0.4
+    assert r.manning_n(section, y, s) == pytest.approx(expected, rel=1e-12)
+    # grass bends over as the flow deepens: n falls with depth (HEC-15 Section 4.1)
+    ns = r.manning_n(section, np.array([0.2, 0.4, 0.8]), s)
+    assert np.all(np.diff(ns) < 0)
+    assert r.check(section, 0.1, s) and not r.check(section, 0.4, s)
+
+
+def test_vegetation_n_within_chow_grass_range_at_roadside_flows():
+    # Chow (1959) Table 5-6 via the fluids library: vegetal lining n from 0.030 to 0.500.
+    from fluids.open_flow import n_lined_built
+    lo, _, hi = n_lined_built["Vegatal"]["Lined"]
+    section = hy.Trapezoid(bottom_width=0.6, side_slope=3.0)
+    for cs, h in [(580.0, 0.30), (106.0, 0.15), (24.0, 0.15), (8.6, 0.075)]:
+        r = VegetationRoughness(cs, h)
+        y = hy.normal_depth(section, 0.5, 0.01, n=r)
+        assert lo <= r.manning_n(section, y, 0.01) <= hi
+
+
+def test_blodgett_method_refuses_depths_without_a_positive_n():
+    section = hy.Trapezoid(bottom_width=2.0, side_slope=3.0)
+    r = StoneRoughness(0.5, "blodgett")
+    with np.errstate(all="ignore"):
+        assert math.isnan(r.manning_n(section, 0.1, 0.02))  # da/D50 < 0.371: the solver refuses it
+    with warnings.catch_warnings():
+        warnings.simplefilter("ignore", ValidityWarning)
+        with pytest.raises(hy.NoSolutionError):
+            hy.normal_depth(section, 0.05, 0.02, n=r)
+
+
+def _depth_at_ratio(section, d50, ratio):
+    return brentq(lambda y: section.area(y) / section.top_width(y) / d50 - ratio, 1e-6, 50.0, xtol=1e-15)
+
+
+def test_auto_n_is_continuous_across_the_hec15_split():
+    # HEC-15 Section 6.1 switches from Bathurst (Eq. 6.2) to Blodgett (Eq. 6.1) at da/D50 = 1.5;
+    # here the two differ by about 50 %, and the program's rule bridges them over 1.5 to 1.53.
+    section = hy.Trapezoid(bottom_width=1.0, side_slope=3.0)
+    r = StoneRoughness(0.15)
+    s = 0.0005
+    y0 = _depth_at_ratio(section, 0.15, 1.5)
+    y1 = _depth_at_ratio(section, 0.15, 1.5 * 1.02)
+    below, above = r.manning_n(section, y0 * (1 - 1e-9), s), r.manning_n(section, y0 * (1 + 1e-9), s)
+    assert below == pytest.approx(above, rel=1e-6)
+    assert r.manning_n(section, y1 * (1 + 1e-9), s) == pytest.approx(r.manning_n(section, y1 * (1 - 1e-9), s),
+                                                                       rel=1e-6)
+    g = section.properties(y1 * 1.001)
+    assert r.manning_n(section, y1 * 1.001, s) == pytest.approx(hec15.blodgett_n(g.area / g.top_width, 0.15))
+    ym = 0.5 * (y0 + y1)
+    assert r.relation(section, ym, s) == "transition"
+    assert any("between the two" in w for w in r.check(section, ym, s))
+    # the flow that fell in the jump now has a depth, at da/D50 of about 1.5
+    y = hy.normal_depth(section, 0.0625, s, n=r)
+    assert y0 <= y <= y1
+
+
+def test_auto_n_below_bathurst_range_is_held_and_reported():
+    section = hy.Trapezoid(bottom_width=2.0, side_slope=3.0)
+    r = StoneRoughness(0.1)
+    y = _depth_at_ratio(section, 0.1, 0.2)
+    assert r.relation(section, y, 0.1) == "held"
+    assert any("too shallow" in w for w in r.check(section, y, 0.1))
+    assert r.manning_n(section, y, 0.1) == pytest.approx(r.manning_n(section, 0.5 * y, 0.1), rel=1e-12)
