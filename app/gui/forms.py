@@ -20,7 +20,7 @@ from hydraulics.units import UnitSystem
 
 from . import compute
 from .document import ProjectDocument, section_for_shape, value_at, with_value
-from .fields import FieldSpec, LineEdit, NumberField, format_number, parse_number, set_invalid
+from .fields import FieldSpec, LineEdit, NumberField, format_number, parse_number, pretty, set_invalid
 
 SHAPES = (
     ("trapezoid", "Trapezoid"),
@@ -180,23 +180,26 @@ class SurveyTable(QWidget):
         return {"shape": "irregular", "stations": xs, "elevations": zs, "n": ns}
 
     def _mark(self, row_col=None):
+        self.table.blockSignals(True)   # a new background is itself an itemChanged
         for i in range(self.table.rowCount()):
             for j in range(3):
                 item = self.table.item(i, j)
                 if item is not None:
                     item.setBackground(QColor("#fde8e8") if (i, j) == row_col else QColor(0, 0, 0, 0))
+        self.table.blockSignals(False)
 
     def _edited(self, item: QTableWidgetItem) -> None:
+        row, col = item.row(), item.column()
         try:
             section = self._read()
         except ValueError as exc:
-            self._mark((item.row(), item.column()))
+            self._mark((row, col))
             self._set_message(str(exc))
             self.invalid.emit(str(exc))
             return
         self._mark(None)
         self._set_message("")
-        self.changed.emit(section, f"Edit surveyed point {item.row() + 1}")
+        self.changed.emit(section, f"Edit surveyed point {row + 1}")
 
     def _add_point(self) -> None:
         s = dict(self.section)
@@ -446,7 +449,8 @@ class InputPanel(QScrollArea):
         else:
             self.tc_value.setText("give L and its slope for Kirpich's t_c")
         if ev.flow is not None:
-            self.q_value.setText(f"{format_number(round(units.from_si('flow', ev.flow), 4))} {units.label('flow')}")
+            self.q_value.setText(f"{format_number(round(units.from_si('flow', ev.flow), 4))} "
+                                 f"{pretty(units.label('flow'))}")
         else:
             self.q_value.setText("—")
         if ev.error_field:

@@ -456,6 +456,24 @@ class MainWindow(QMainWindow):
         if not found:
             return False
         r = found[0]
+        choice = self.ask_recovery(r)
+        if choice == "recover":
+            try:
+                project = pj.load(r.project_file)
+            except pj.ProjectFileError as exc:
+                QMessageBox.warning(self, "Cannot recover", f"The automatic copy cannot be read: {exc}.")
+                return False
+            self.doc.load(project, r.original or None, recovered=True)
+            r.discard()
+            self.update_title()
+            self.statusBar().showMessage("Recovered the automatic copy; save it to keep it.", 10000)
+            return True
+        if choice == "discard":
+            r.discard()
+        return False
+
+    def ask_recovery(self, r) -> str:
+        """"recover", "discard" or "later" for the autosave ``r``."""
         when = time.strftime("%Y-%m-%d %H:%M", time.localtime(r.saved_at))
         origin = r.original or "a project that was never saved"
         box = QMessageBox(QMessageBox.Icon.Question, "Recover unsaved work",
@@ -464,23 +482,10 @@ class MainWindow(QMainWindow):
         recover = box.addButton("Recover", QMessageBox.ButtonRole.AcceptRole)
         discard = box.addButton("Discard it", QMessageBox.ButtonRole.DestructiveRole)
         box.addButton("Not now", QMessageBox.ButtonRole.RejectRole)
+        box.setDefaultButton(recover)
         box.exec()
         clicked = box.clickedButton()
-        if clicked is recover:
-            try:
-                project = pj.load(r.project_file)
-            except pj.ProjectFileError as exc:
-                QMessageBox.warning(self, "Cannot recover", f"The automatic copy cannot be read: {exc}.")
-                return False
-            self.doc.load(project, r.original or None, recovered=True)
-            for other in found:
-                other.discard()
-            self.update_title()
-            self.statusBar().showMessage("Recovered the automatic copy; save it to keep it.", 10000)
-            return True
-        if clicked is discard:
-            r.discard()
-        return False
+        return "recover" if clicked is recover else "discard" if clicked is discard else "later"
 
     # -- other ------------------------------------------------------------------------------------------
     def about(self) -> None:

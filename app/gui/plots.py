@@ -246,7 +246,7 @@ class SectionPicture(Picture):
     """
 
     #: Room for labels around the drawing, in pixels: left, right, bottom, top.
-    pads = (150, 140, 70, 50)
+    pads = (24, 140, 60, 96)
 
     def __init__(self, width=8.0, height=4.5, dpi=100, compact=False):
         super().__init__(width, height, dpi)
@@ -271,13 +271,20 @@ class SectionPicture(Picture):
         self.critical = ax.plot([], [], color=CRITICAL, lw=1.1, ls=(0, (5, 3)), zorder=5)[0]
         self.top_line = ax.plot([], [], color=SOIL_EDGE, lw=0.8, ls=(0, (1, 2)), zorder=5)[0]
         text = dict(fontsize=FONT, zorder=9, va="center")
-        self.critical_label = ax.text(0, 0, "", color=CRITICAL, ha="right", **text)
-        self.top_label = ax.text(0, 0, "", color=SOIL_EDGE, ha="right", **text)
+        # the key, top left: what each line is, with its level
+        self.key_lines, self.key_texts = [], []
+        styles = (dict(color=WATER_EDGE, lw=1.4), dict(color=CRITICAL, lw=1.1, ls=(0, (5, 3))),
+                  dict(color=SOIL_EDGE, lw=0.9, ls=(0, (1, 2))), dict(color=LINING, lw=6))
+        for i, style in enumerate(styles):
+            y = 0.985 - i * 0.045
+            self.key_lines.append(ax.plot([0.01, 0.055], [y, y], transform=ax.transAxes, zorder=9, **style)[0])
+            self.key_texts.append(ax.text(0.065, y, "", transform=ax.transAxes, color=INK, ha="left", **text))
+        self.critical_label, self.top_label = self.key_texts[1], self.key_texts[2]
         self.slope_labels = [ax.text(0, 0, "", color=SOIL_EDGE, ha=h, **text) for h in ("right", "left")]
         self.lining_label = ax.text(0, 0, "", color=INK, ha="center", **text)
         self.dims = {"depth": Dimension(ax, color=WATER_EDGE), "freeboard": Dimension(ax),
                      "bottom": Dimension(ax), "top": Dimension(ax)}
-        self._labels = [self.critical_label, self.top_label, self.lining_label, *self.slope_labels]
+        self._labels = [*self.key_lines, *self.key_texts, self.lining_label, *self.slope_labels]
         self._last = None
         self.canvas.mpl_connect("resize_event", self._resized)
 
@@ -345,22 +352,23 @@ class SectionPicture(Picture):
             self.fade(False)
             return
 
-        # critical depth: across its own width, with a leader out to the label on the left
-        self.critical.set_data([g.left * k - 4 * s, g.critical[1] * k], [yc * k, yc * k])
-        self.critical_label.set_text(f"critical depth {fmt(yc)}")
-        self.critical_label.set_position((g.left * k - 8 * s, yc * k))
-        # top of ditch (or crown of the pipe)
-        self.top_line.set_data([g.left * k - 4 * s, g.right * k], [top * k, top * k])
-        name = {"circle": "crown", "irregular": "lower bank"}.get(g.kind, "top of ditch")
-        self.top_label.set_text(f"{name} {fmt(top)}")
-        self.top_label.set_position((g.left * k - 8 * s, top * k))
-        if abs(top - yc) * k < 14 * s:   # keep the two labels apart
-            lo, hi = (self.critical_label, self.top_label) if yc < top else (self.top_label, self.critical_label)
-            mid = (top + yc) / 2 * k
-            lo.set_y(mid - 7 * s)
-            hi.set_y(mid + 7 * s)
-        for t in (self.critical_label, self.top_label):
-            t.set_visible(True)
+        # critical depth across its own width; the top of the ditch (or the crown) across the drawing
+        self.critical.set_data([g.critical[0] * k, g.critical[1] * k], [yc * k, yc * k])
+        self.top_line.set_data([g.left * k, g.right * k], [top * k, top * k])
+        name = {"circle": "crown of the pipe", "irregular": "lower bank"}.get(g.kind, "top of ditch (total depth)")
+        keys = [f"water surface at normal depth, {fmt(yn)}", f"critical depth, {fmt(yc)}", f"{name}, {fmt(top)}"]
+        if g.lining is not None:
+            keys.append(f"lining, {units.from_si('small_length', lining_thickness):.0f} "
+                        f"{units.label('small_length')} thick")
+        step = 19 / max(self.ax.get_window_extent().height, 100)   # one key line is 19 px
+        for i, (line, label) in enumerate(zip(self.key_lines, self.key_texts)):
+            y = 0.99 - i * step
+            line.set_ydata([y, y])
+            label.set_y(y)
+            line.set_visible(i < len(keys))
+            label.set_visible(i < len(keys))
+            if i < len(keys):
+                label.set_text(keys[i])
         # the depth chain on the right: water depth, then freeboard (or clearance to the crown)
         x_dim = g.right * k + 14 * s
         d = self.dims
@@ -390,24 +398,20 @@ class SectionPicture(Picture):
             d["bottom"].label.set_y(yb - 4 * s)
         else:
             d["bottom"].set_visible(False)
-        # side slopes, written on the ground beside each bank
+        # side slopes, written in the ground just outside each bank
         if g.side_slopes is not None:
             xl_, xr_, zm = g.slope_at
             for lab, z, x, sign in zip(self.slope_labels, g.side_slopes, (xl_, xr_), (-1, 1)):
+                norm = float(np.hypot(1.0, z))
+                off = 18 * s + (lining_thickness or 0.0) * k
                 lab.set_text(f"{z:g} : 1" if z > 0 else "vertical")
-                lab.set_position((x * k + sign * 10 * s, zm * k - 4 * s))
+                lab.set_position((x * k + sign * off / norm, zm * k - off * z / norm))
+                lab.set_ha("center")
                 lab.set_visible(True)
         else:
             for lab in self.slope_labels:
                 lab.set_visible(False)
-        if g.lining is not None:
-            thick = lining_thickness
-            self.lining_label.set_text(f"lining {units.from_si('small_length', thick):.0f} "
-                                       f"{units.label('small_length')}")
-            self.lining_label.set_position(((g.bottom_width or 0) * 0.0, (g.base * k + (-thick * k)) / 2))
-            self.lining_label.set_visible(not g.bottom_width)
-        else:
-            self.lining_label.set_visible(False)
+        self.lining_label.set_visible(False)
         # a scale bar under the drawing: the picture is to scale, the bar says how large
         x0, x1 = self.ax.get_xlim()
         z0, _ = self.ax.get_ylim()
