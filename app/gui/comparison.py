@@ -100,11 +100,11 @@ class ComparisonView(QWidget):
         lay.addWidget(split, 1)
 
         for sig in (doc.reset, doc.current_changed, doc.units_changed, doc.channel_changed):
-            sig.connect(lambda *_: self.mark_stale())
+            sig.connect(self.mark_stale)
         self._stale = True
 
     # -- refreshing -----------------------------------------------------------------------
-    def mark_stale(self) -> None:
+    def mark_stale(self, *_signal_args) -> None:
         self._stale = True
         if self.isVisible():
             self.refresh()

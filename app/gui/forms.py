@@ -383,8 +383,8 @@ class InputPanel(QScrollArea):
         self.setMinimumWidth(360)
 
         for sig in (doc.reset, doc.current_changed, doc.units_changed):
-            sig.connect(lambda *_: self.reload(force=True))
-        doc.channel_changed.connect(lambda i: self.reload() if i == doc.current else None)
+            sig.connect(self._reload_all)
+        doc.channel_changed.connect(self._channel_changed)
         self.reload(force=True)
 
     # -- building -----------------------------------------------------------------------
@@ -404,6 +404,13 @@ class InputPanel(QScrollArea):
         self.shape_pages.adjustSize()
 
     # -- showing ------------------------------------------------------------------------------
+    def _reload_all(self, *_signal_args) -> None:
+        self.reload(force=True)
+
+    def _channel_changed(self, index: int) -> None:
+        if index == self.doc.current:
+            self.reload()
+
     def reload(self, force: bool = False) -> None:
         """Show the current channel. Keeps text the user is typing when it means the stored value."""
         ch, units = self.doc.channel(), self.doc.units

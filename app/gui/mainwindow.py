@@ -167,7 +167,7 @@ class MainWindow(QMainWindow):
         heading = QLabel("Channels in this project")
         heading.setObjectName("subheading")
         self.inputs = InputPanel(self.doc)
-        self.inputs.validity_changed.connect(lambda _msg: self.refresh())
+        self.inputs.validity_changed.connect(self.refresh)
         left = QWidget()
         ll = QVBoxLayout(left)
         ll.setContentsMargins(8, 6, 0, 0)
@@ -189,7 +189,7 @@ class MainWindow(QMainWindow):
         self.tabs.addTab(self.rating_picture.canvas, "Rating curve")
         self.tabs.addTab(self.energy_picture.canvas, "Specific energy")
         self.tabs.addTab(self.comparison, "Lining comparison")
-        self.tabs.currentChanged.connect(lambda _i: self.draw_current())
+        self.tabs.currentChanged.connect(self.draw_current)
 
         # right: verdict and numbers
         self.results = ResultsPanel()
@@ -212,11 +212,11 @@ class MainWindow(QMainWindow):
         d.reset.connect(self.refresh_all)
         d.channels_changed.connect(self.fill_channel_list)
         d.current_changed.connect(self._current_changed)
-        d.channel_changed.connect(lambda i: self.refresh() if i == d.current else None)
+        d.channel_changed.connect(self._channel_changed)
         d.units_changed.connect(self.refresh_all)
         d.project_changed.connect(self.update_title)
-        d.undo_stack.cleanChanged.connect(lambda _clean: self.update_title())
-        d.undo_stack.indexChanged.connect(lambda _i: self.update_title())
+        d.undo_stack.cleanChanged.connect(self.update_title)
+        d.undo_stack.indexChanged.connect(self.update_title)
 
     def read_settings(self) -> None:
         self.resize(1440, 900)
@@ -240,7 +240,7 @@ class MainWindow(QMainWindow):
         settings.SPLITTER_STATE.write(self.splitter.saveState())
 
     # -- showing ---------------------------------------------------------------------------
-    def refresh_all(self) -> None:
+    def refresh_all(self, *_signal_args) -> None:
         self.last_good = None
         self.fill_channel_list()
         units = self.doc.project.units
@@ -256,7 +256,7 @@ class MainWindow(QMainWindow):
         self.channel_list.blockSignals(False)
         self.refresh()
 
-    def fill_channel_list(self) -> None:
+    def fill_channel_list(self, *_signal_args) -> None:
         lst = self.channel_list
         lst.blockSignals(True)
         lst.clear()
@@ -268,7 +268,11 @@ class MainWindow(QMainWindow):
         lst.blockSignals(False)
         self.delete_action.setEnabled(len(self.doc.project.channels) > 1)
 
-    def refresh(self) -> None:
+    def _channel_changed(self, index: int) -> None:
+        if index == self.doc.current:
+            self.refresh()
+
+    def refresh(self, *_signal_args) -> None:
         """Evaluate the current channel and redraw what is in view."""
         ch = self.doc.channel()
         ev = compute.evaluate(ch, self.doc.units)
@@ -282,7 +286,7 @@ class MainWindow(QMainWindow):
         self._drawn.clear()
         self.draw_current()
 
-    def draw_current(self) -> None:
+    def draw_current(self, *_signal_args) -> None:
         """Update the picture of the visible tab only; the others follow when shown."""
         key = TABS[self.tabs.currentIndex()]
         if key in self._drawn or key == "compare":
@@ -311,7 +315,7 @@ class MainWindow(QMainWindow):
         return (f"{ch.name}  ·  {SHAPE_NAMES.get(ev.section.kind, ev.section.kind)}  ·  "
                 f"Q = {u.from_si('flow', ev.flow):.3g} {pretty(u.label('flow'))}  ·  S = {ch.slope:.4g}  ·  n = {n:.3f}")
 
-    def update_title(self) -> None:
+    def update_title(self, *_signal_args) -> None:
         doc = self.doc
         where = doc.path.name if doc.path else "not saved yet"
         self.setWindowTitle(f"{doc.project.name} ({where})[*] — Ditchwright")
