@@ -71,10 +71,10 @@ class FieldSpec:
 
 
 def format_number(value: float) -> str:
-    """Up to six significant digits, no trailing zeros, no exponent for everyday sizes."""
+    """Up to five significant digits, no trailing zeros, no exponent for everyday sizes."""
     if value == 0:
         return "0"
-    text = f"{value:.6g}"
+    text = f"{value:.5g}"
     if "e" in text and 1e-5 <= abs(value) < 1e7:
         text = f"{value:.8f}".rstrip("0").rstrip(".")
     return text
@@ -180,7 +180,7 @@ class NumberField(QObject):
             return False
         if typed is None or value is None:
             return typed is value
-        return math.isclose(typed, value, rel_tol=1e-6, abs_tol=1e-12)
+        return math.isclose(typed, value, rel_tol=5e-5, abs_tol=1e-12)
 
     def set_error(self, text: str) -> None:
         self.message.setText(text)

@@ -12,7 +12,7 @@ from __future__ import annotations
 from PySide6.QtCore import Qt, Signal
 from PySide6.QtGui import QColor
 from PySide6.QtWidgets import (QAbstractItemView, QComboBox, QGridLayout, QGroupBox, QHBoxLayout, QHeaderView,
-                               QLabel, QPushButton, QScrollArea, QSizePolicy, QStackedWidget, QTableWidget,
+                               QLabel, QPushButton, QScrollArea, QTableWidget,
                                QTableWidgetItem, QVBoxLayout, QWidget)
 
 import hydraulics as hy
@@ -262,6 +262,35 @@ class LiningForm(QWidget):
         return [self.n]
 
 
+class ShapePages(QWidget):
+    """One page of fields per shape; only the current one is shown and takes room."""
+
+    def __init__(self):
+        super().__init__()
+        self._pages = []
+        self._current = -1
+        lay = QVBoxLayout(self)
+        lay.setContentsMargins(0, 0, 0, 0)
+
+    def addWidget(self, page: QWidget) -> None:
+        self._pages.append(page)
+        self.layout().addWidget(page)
+        page.setVisible(len(self._pages) - 1 == max(self._current, 0))
+        if self._current < 0:
+            self._current = 0
+
+    def setCurrentIndex(self, index: int) -> None:
+        self._current = index
+        for i, page in enumerate(self._pages):
+            page.setVisible(i == index)
+
+    def currentIndex(self) -> int:
+        return self._current
+
+    def currentWidget(self) -> QWidget:
+        return self._pages[self._current]
+
+
 class InputPanel(QScrollArea):
     """Every input of the current channel, in reading order, in aligned groups."""
 
@@ -340,7 +369,7 @@ class InputPanel(QScrollArea):
         self.shape.setMinimumContentsLength(12)
         grid.addWidget(QLabel("Shape"), 0, 0)
         grid.addWidget(self.shape, 0, 1, 1, 2)
-        self.shape_pages = QStackedWidget()
+        self.shape_pages = ShapePages()
         self.shape_fields: dict[str, list[NumberField]] = {}
         for key, _ in SHAPES:
             page = QWidget()
@@ -361,9 +390,7 @@ class InputPanel(QScrollArea):
                     f = self._number(spec, key=f"{key}:{spec.path}")
                     self.shape_fields[key].append(f)
                     r = f.place(pg, r)
-            page.setSizePolicy(QSizePolicy.Policy.Preferred, QSizePolicy.Policy.Maximum)
             self.shape_pages.addWidget(page)
-        self.shape_pages.currentChanged.connect(self._fit_stack)
         grid.addWidget(self.shape_pages, 1, 0, 1, 3)
         lay.addWidget(box)
 
@@ -396,13 +423,6 @@ class InputPanel(QScrollArea):
         f.invalid.connect(lambda msg, key=key: self._note_invalid(key, msg))
         return f
 
-    def _fit_stack(self, index: int) -> None:
-        for i in range(self.shape_pages.count()):
-            page = self.shape_pages.widget(i)
-            page.setSizePolicy(QSizePolicy.Policy.Preferred,
-                               QSizePolicy.Policy.Preferred if i == index else QSizePolicy.Policy.Ignored)
-        self.shape_pages.adjustSize()
-
     # -- showing ------------------------------------------------------------------------------
     def _reload_all(self, *_signal_args) -> None:
         self.reload(force=True)
@@ -418,9 +438,11 @@ class InputPanel(QScrollArea):
             self._invalid.clear()
         if force or self.name.text() != ch.name:
             self.name.setText(ch.name)
+            self.name.setCursorPosition(0)
         self._set_name_message("")
         if force or self.location.text() != ch.location:
             self.location.setText(ch.location)
+            self.location.setCursorPosition(0)
         self.method.setCurrentIndex(max(0, self.method.findData(ch.flow.method)))
         rational = ch.flow.method == "rational"
         self.fields[FLOW.path].set_visible(not rational)
@@ -431,7 +453,6 @@ class InputPanel(QScrollArea):
         shape = ch.section.get("shape")
         self.shape.setCurrentIndex(max(0, self.shape.findData(shape)))
         self.shape_pages.setCurrentIndex(self.shape.currentIndex())
-        self._fit_stack(self.shape.currentIndex())
         for key, f in self.fields.items():
             if ":" in key:
                 owner, path = key.split(":", 1)

@@ -77,9 +77,11 @@ class MainWindow(QMainWindow):
         self.undo_action = self.doc.undo_stack.createUndoAction(self, "&Undo")
         self.undo_action.setShortcut(QKeySequence(K.Undo))
         self.undo_action.setIcon(style.standardIcon(SP.SP_ArrowBack))
+        self.undo_action.setIconText("Undo")   # the tool bar keeps a short label; the menu says what
         self.redo_action = self.doc.undo_stack.createRedoAction(self, "&Redo")
         self.redo_action.setShortcuts([QKeySequence(K.Redo), QKeySequence("Ctrl+Y")])
         self.redo_action.setIcon(style.standardIcon(SP.SP_ArrowForward))
+        self.redo_action.setIconText("Redo")
         self.add_action = act("&Add channel", self.doc.add_channel, "Ctrl+Shift+N", "Add a channel to the project")
         self.duplicate_action = act("D&uplicate channel", self.doc.duplicate_channel, "Ctrl+D",
                                     "Copy the current channel")

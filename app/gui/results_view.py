@@ -37,7 +37,7 @@ ROWS = (
     ("permissible_shear", ResultField("permissible_shear", "Permissible shear", "shear", 2)),
     ("safety_factor", ResultField("safety_factor", "Safety factor", "", 2)),
     ("freeboard", ResultField("freeboard", "Freeboard", "length", 3)),
-    ("total_depth", ResultField("total_depth", "Total ditch depth", "length", 3)),
+    ("total_depth", ResultField("total_depth", "Total depth (water + freeboard)", "length", 3)),
 )
 
 
