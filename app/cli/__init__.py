@@ -1,5 +1,5 @@
 """Command-line sub-commands. Each module has ``register(subparsers)`` and sets ``run``."""
 
-from . import calc, open_project
+from . import calc, fingerprint, open_project, sheet, verify
 
-COMMANDS = (calc, open_project)
+COMMANDS = (calc, sheet, fingerprint, verify, open_project)

@@ -1,0 +1,45 @@
+"""`ditchwright sheet`: the design sheets of a project as one PDF, optionally signed."""
+
+from __future__ import annotations
+
+import sys
+
+from .common import CliError
+from .projectfile import load_project
+
+HELP = "write the design sheets of a project (one page per channel) as a PDF, optionally signed"
+
+
+def register(subparsers) -> None:
+    p = subparsers.add_parser("sheet", help=HELP, description=HELP + ". The certificate's password is asked "
+                              "for, or read from DITCHWRIGHT_CERT_PASSWORD when there is no terminal; it is "
+                              "never stored.")
+    p.add_argument("project", metavar="PROJECT.json", help="the project file")
+    p.add_argument("--channel", metavar="NAME", action="append",
+                   help="only this channel (repeat for several); default every channel")
+    p.add_argument("-o", "--output", metavar="OUT.pdf", required=True, help="the PDF to write")
+    p.add_argument("--sign", metavar="CERT.p12", help="sign with this PKCS#12 key file (PAdES)")
+    p.add_argument("--page", choices=("letter", "a4"), default="letter", help="paper size (default letter)")
+    p.set_defaults(run=run)
+
+
+def run(args) -> int:
+    from ..sheet import SheetLayoutError, SigningError, export_sheets
+
+    project = load_project(args.project)
+    if not args.output.lower().endswith(".pdf"):
+        raise CliError(f"-o must name a .pdf file, got {args.output!r}")
+    try:
+        notes = export_sheets(project, args.output, channels=args.channel, page=args.page, sign=args.sign)
+    except KeyError as exc:
+        raise CliError(exc.args[0]) from None
+    except (SigningError, SheetLayoutError) as exc:
+        raise CliError(str(exc)) from None
+    except OSError as exc:
+        raise CliError(f"cannot write {args.output}: {exc.strerror or exc}") from None
+    for note in notes:
+        print(f"ditchwright sheet: note: {note}", file=sys.stderr)
+    count = len(args.channel) if args.channel else len(project.channels)
+    print(f"wrote {args.output}: {count} sheet{'s' if count != 1 else ''}, {args.page}"
+          f"{', signed' if args.sign else ''}")
+    return 0

@@ -1,0 +1,80 @@
+"""The design fingerprint: SHA-256 of one channel's design inputs and the program version.
+
+A reviewer holding a printed sheet and a project file recomputes the
+fingerprint with ``ditchwright fingerprint FILE --channel NAME``; equal
+fingerprints mean the sheet was made from these inputs by this version.
+
+What is hashed is the UTF-8 text of a canonical JSON document::
+
+    {"inputs": {...channel design inputs, SI...}, "program": "ditchwright", "version": "0.1.0"}
+
+written with sorted keys, no spaces, ASCII only, and every number (integer or
+not) written as a float with 12 significant digits (``format(x, ".12g")``,
+``-0`` written as ``0``), so that 3 and 3.0, or a width typed in feet and
+stored as 0.6095999999999999 m and as 0.6096 m, give the same text.
+
+The inputs are those that change the design: flow basis, slope, section,
+lining and its stone size, Manning's n, bend radius, minimum freeboard and the
+alternative linings. The channel's name, location and notes are not hashed
+(renaming a channel does not change its design), nor is the display unit system.
+"""
+
+from __future__ import annotations
+
+import hashlib
+import json
+import math
+from dataclasses import asdict
+
+from .. import __version__
+
+PROGRAM = "ditchwright"
+#: Channel fields that make up the design inputs (app.project.Channel).
+DESIGN_FIELDS = ("flow", "slope", "section", "lining", "manning_n", "bend_radius", "min_freeboard", "alternatives")
+SIGNIFICANT_DIGITS = 12
+
+
+def _number(x) -> str:
+    x = float(x)
+    if not math.isfinite(x):
+        raise ValueError(f"a design input is not a finite number: {x}")
+    if x == 0:
+        return "0"
+    return format(x, f".{SIGNIFICANT_DIGITS}g")
+
+
+def canonical_json(value) -> str:
+    """Canonical JSON text of plain data (dict, list, str, bool, None, numbers); see the module notes."""
+    if value is None:
+        return "null"
+    if isinstance(value, bool):
+        return "true" if value else "false"
+    if isinstance(value, (int, float)):
+        return _number(value)
+    if hasattr(value, "tolist"):  # numpy scalars and arrays
+        return canonical_json(value.tolist())
+    if isinstance(value, str):
+        return json.dumps(value, ensure_ascii=True)
+    if isinstance(value, dict):
+        items = sorted(value.items())
+        return "{" + ",".join(f"{json.dumps(str(k), ensure_ascii=True)}:{canonical_json(v)}" for k, v in items) + "}"
+    if isinstance(value, (list, tuple)):
+        return "[" + ",".join(canonical_json(v) for v in value) + "]"
+    raise TypeError(f"cannot write {type(value).__name__} into a design fingerprint")
+
+
+def design_inputs(channel) -> dict:
+    """The channel's design inputs as plain SI data (see DESIGN_FIELDS)."""
+    data = asdict(channel)
+    return {key: data[key] for key in DESIGN_FIELDS}
+
+
+def fingerprint_document(channel, version: str = __version__) -> str:
+    """The exact text that is hashed."""
+    return canonical_json({"program": PROGRAM, "version": version, "inputs": design_inputs(channel)})
+
+
+def fingerprint(channel, version: str = __version__) -> str:
+    """SHA-256 (64 hex digits) of the channel's canonical design inputs and the program version."""
+    return hashlib.sha256(fingerprint_document(channel, version).encode("ascii")).hexdigest()
+

@@ -1,0 +1,329 @@
+"""The dimensioned typical section, drawn to a stated scale with reportlab's vector graphics.
+
+The channel boundary comes from ``section.outline(depth)``; the drawing adds
+the water at the design depth, the critical depth, the lining band at its
+thickness, the ground line at the top of the banks, and dimensions: bottom
+width, side slopes as H:V with their angle theta, design depth, freeboard,
+total depth and top width. Horizontal and vertical scales are equal and the
+scale is a round ratio (1:N, or 1 in = N ft for US units) so that a printed
+sheet at 100 % can be scaled off.
+"""
+
+from __future__ import annotations
+
+import math
+
+import numpy as np
+from reportlab.graphics.shapes import Drawing, Group, Line, PolyLine, Polygon, Rect, String
+from reportlab.lib import colors
+from reportlab.pdfbase.pdfmetrics import stringWidth
+
+from .fonts import FONT, register
+
+PT_PER_M = 72 / 0.0254
+#: Round scales, as paper : real ratios 1:N.
+SI_SCALES = (5, 10, 20, 25, 50, 75, 100, 125, 150, 200, 250, 500, 1000, 2000)
+#: US engineering scales 1 in = N ft, as 1:(12 N).
+US_SCALES_FT = (0.5, 1, 2, 3, 4, 5, 8, 10, 20, 30, 40, 50, 100, 200)
+
+INK = colors.black
+THIN = 0.5
+WATER = colors.Color(0.80, 0.89, 0.97)
+LINING = colors.Color(0.82, 0.82, 0.82)
+DIM = colors.Color(0.15, 0.15, 0.15)
+SIZE = 6.5
+
+
+def choose_scale(ratio_needed: float, us: bool) -> tuple[float, str]:
+    """The smallest round 1:N at least ``ratio_needed``; returns (N, wording)."""
+    if us:
+        for ft in US_SCALES_FT:
+            if 12 * ft >= ratio_needed:
+                return 12 * ft, f"1 in = {ft:g} ft (1:{12 * ft:g})"
+        ft = math.ceil(ratio_needed / 12 / 100) * 100
+        return 12 * ft, f"1 in = {ft:g} ft (1:{12 * ft:g})"
+    for n in SI_SCALES:
+        if n >= ratio_needed:
+            return n, f"1:{n}"
+    n = math.ceil(ratio_needed / 1000) * 1000
+    return n, f"1:{n}"
+
+
+def offset_polyline(x, z, distance):
+    """The polyline moved ``distance`` to its right-hand side (into the ground for a left-to-right outline).
+
+    Mitred joins: each interior point is the intersection of the two moved segments.
+    """
+    pts = np.column_stack([x, z]).astype(float)
+    d = np.diff(pts, axis=0)
+    keep = np.hypot(d[:, 0], d[:, 1]) > 1e-12
+    pts = np.vstack([pts[0], pts[1:][keep]])
+    d = np.diff(pts, axis=0)
+    length = np.hypot(d[:, 0], d[:, 1])
+    normal = np.column_stack([d[:, 1], -d[:, 0]]) / length[:, None]
+    out = [pts[0] + distance * normal[0]]
+    for i in range(1, len(pts) - 1):
+        n1, n2 = normal[i - 1], normal[i]
+        bis = n1 + n2
+        cos_half = np.dot(bis, n1) / max(np.linalg.norm(bis), 1e-12)
+        if np.linalg.norm(bis) < 1e-9 or cos_half < 0.2:
+            out.append(pts[i] + distance * n1)
+            out.append(pts[i] + distance * n2)
+        else:
+            out.append(pts[i] + distance * bis / np.linalg.norm(bis) / cos_half)
+    out.append(pts[-1] + distance * normal[-1])
+    out = np.array(out)
+    return out[:, 0], out[:, 1]
+
+
+def wet_polygons(x, z, level):
+    """Polygons of water standing at ``level`` over the boundary (x, z), one per wet run."""
+    polys, run = [], []
+    for i in range(len(x)):
+        below = z[i] <= level
+        if i > 0 and (z[i - 1] <= level) != below:
+            t = (level - z[i - 1]) / (z[i] - z[i - 1])
+            run.append((x[i - 1] + t * (x[i] - x[i - 1]), level))
+            if not below:
+                polys.append(run)
+                run = []
+        if below:
+            run.append((x[i], z[i]))
+    if len(run) > 2:
+        polys.append(run)
+    return [p for p in polys if len(p) > 2]
+
+
+def _text(x, y, text, size=SIZE, anchor="start", angle=0.0, color=INK):
+    s = String(0, 0, text, fontName=FONT, fontSize=size, fillColor=color, textAnchor=anchor)
+    g = Group(s)
+    c, sn = math.cos(math.radians(angle)), math.sin(math.radians(angle))
+    g.transform = (c, sn, -sn, c, x, y)
+    return g
+
+
+def _arrow(x, y, dx, dy, size=3.0):
+    """A filled arrowhead at (x, y) pointing along (dx, dy)."""
+    n = math.hypot(dx, dy)
+    ux, uy = dx / n, dy / n
+    px, py = -uy, ux
+    return Polygon([x, y, x - size * ux + 0.35 * size * px, y - size * uy + 0.35 * size * py,
+                    x - size * ux - 0.35 * size * px, y - size * uy - 0.35 * size * py],
+                   fillColor=DIM, strokeColor=None)
+
+
+def _dim_h(g, x1, x2, y, label, above=True):
+    """Horizontal dimension between x1 and x2 at height y, label centred above or below."""
+    g.add(Line(x1, y, x2, y, strokeColor=DIM, strokeWidth=THIN))
+    g.add(_arrow(x1, y, -1, 0))
+    g.add(_arrow(x2, y, 1, 0))
+    w = stringWidth(label, FONT, SIZE)
+    mid = (x1 + x2) / 2
+    if w + 4 > x2 - x1:  # does not fit between the arrows: beside the right one
+        g.add(_text(x2 + 4, y - 2.2, label))
+    else:
+        g.add(_text(mid, y + 2.0 if above else y - SIZE - 1.2, label, anchor="middle"))
+
+
+def _dim_v(g, x, y1, y2, label, side="right"):
+    """Vertical dimension between y1 and y2 at x; label along it, or beside it when it does not fit."""
+    g.add(Line(x, y1, x, y2, strokeColor=DIM, strokeWidth=THIN))
+    g.add(_arrow(x, y1, 0, -1))
+    g.add(_arrow(x, y2, 0, 1))
+    w = stringWidth(label, FONT, SIZE)
+    if w + 6 < y2 - y1:
+        g.add(_text(x - 2.0, (y1 + y2) / 2, label, anchor="middle", angle=90))
+    else:
+        g.add(_text(x + 3 if side == "right" else x - 3, (y1 + y2) / 2 - 2.2, label,
+                    anchor="start" if side == "right" else "end"))
+
+
+def _ext(g, x1, y1, x2, y2):
+    g.add(Line(x1, y1, x2, y2, strokeColor=DIM, strokeWidth=0.3))
+
+
+def section_drawing(sheet, width: float, height: float, min_height: float = 110.0) -> tuple[Drawing, str]:
+    """A Drawing ``width`` x at most ``height`` [pt] of the channel's typical section, and its scale in words.
+
+    The scale is the largest round one at which the section fits; the drawing
+    is then made only as tall as it needs (at least ``min_height``).
+    """
+    register()
+    f_units = sheet.units
+    us = f_units.key == "us"
+    ev = sheet.evaluation
+    section = sheet.section
+    yn, yc = ev.design_depth, float(ev.result.critical_depth)
+    full = section.full_depth
+    total = ev.total_depth if full is None else min(ev.total_depth, full)
+    t = sheet.thickness or 0.0
+    open_top = section.kind in ("trapezoid", "triangle", "rectangle", "parabola")
+
+    def fmt(v, q="length", figures=3):
+        from .content import Formatter
+        return Formatter(f_units)(v, q, figures)
+
+    x, z = section.outline(total)
+    x, z = np.asarray(x, float), np.asarray(z, float)
+    closed = section.kind == "circle"
+    if closed:  # start the ring at the crown so that the water is one run
+        k = int(np.argmax(z))
+        x, z = np.roll(x, -k), np.roll(z, -k)
+        total = float(section.full_depth)
+    real_w = float(x.max() - x.min()) + 2 * t
+    real_h = float(max(z.max(), total)) + t
+    ground_pt = 28.0 if open_top else 0.0   # ground line beyond each bank [pt]
+
+    left, right, bottom, top = 74.0, 74.0, 40.0, 22.0
+    avail_w = width - left - right - 2 * ground_pt
+    avail_h = height - bottom - top
+    s_needed = min(avail_w / real_w, avail_h / real_h)  # pt per m
+    ratio, scale_text = choose_scale(PT_PER_M / s_needed, us)
+    s = PT_PER_M / ratio
+    height = max(min_height, min(height, real_h * s + bottom + top + 8))
+    avail_h = height - bottom - top
+    x0 = left + ground_pt + (avail_w - real_w * s) / 2 + t * s - float(x.min()) * s
+    y0 = bottom + (avail_h - real_h * s) / 2 + t * s
+
+    def X(v):
+        return x0 + v * s
+
+    def Y(v):
+        return y0 + v * s
+
+    d = Drawing(width, height)
+    g = Group()
+    d.add(g)
+    blue, red = colors.Color(0.1, 0.3, 0.7), colors.Color(0.7, 0.1, 0.1)
+
+    # water at the design depth, then the critical depth as a dashed line
+    xw, zw = section.outline(min(yn, total)) if open_top else (x, z)
+    for poly in wet_polygons(np.asarray(xw, float), np.asarray(zw, float), yn):
+        pts = [c for px, pz in poly for c in (X(px), Y(pz))]
+        g.add(Polygon(pts, fillColor=WATER, strokeColor=None))
+    wet = wet_polygons(x, z, yn)
+    xl_w = xr_w = None
+    if wet:
+        xl_w, xr_w = min(p[0] for p in wet[0]), max(p[0] for p in wet[-1])
+        g.add(Line(X(xl_w), Y(yn), X(xr_w), Y(yn), strokeColor=blue, strokeWidth=0.8))
+        # water-surface mark: an inverted triangle standing on the surface
+        mx = X(xl_w + 0.35 * (xr_w - xl_w))
+        g.add(Polygon([mx, Y(yn), mx - 3, Y(yn) + 5, mx + 3, Y(yn) + 5], fillColor=None,
+                      strokeColor=blue, strokeWidth=0.6))
+        g.add(_text(mx + 5, Y(yn) + 1.2, "design WS", color=blue, size=SIZE - 0.5))
+    wet_c = wet_polygons(x, z, yc)
+    if wet_c and abs(yc - yn) * s > 1.0:
+        xl_c, xr_c = min(p[0] for p in wet_c[0]), max(p[0] for p in wet_c[-1])
+        g.add(Line(X(xl_c), Y(yc), X(xr_c), Y(yc), strokeColor=red, strokeWidth=0.5, strokeDashArray=[2, 1.5]))
+        below = yc < yn or abs(yc - yn) * s < SIZE + 3  # keep clear of the water-surface label
+        g.add(_text(X((xl_c + xr_c) / 2), Y(min(yc, yn)) - SIZE if below else Y(yc) + 1.2,
+                    f"critical depth yc {fmt(yc, figures=3)}", color=red, size=SIZE - 0.5, anchor="middle"))
+
+    # lining band (to scale) or a heavy boundary line when its thickness is not known
+    if t > 0:
+        xo, zo = offset_polyline(x, z, t)
+        band = [c for px, pz in zip(x, z) for c in (X(px), Y(pz))]
+        band += [c for px, pz in zip(xo[::-1], zo[::-1]) for c in (X(px), Y(pz))]
+        g.add(Polygon(band, fillColor=LINING, strokeColor=INK, strokeWidth=THIN))
+    else:
+        xo, zo = x, z
+        g.add(PolyLine([c for px, pz in zip(x, z) for c in (X(px), Y(pz))], strokeColor=INK, strokeWidth=1.4))
+    # earth hatching along the outside of the excavation (lining's outer face)
+    _hatch(g, [X(v) for v in xo], [Y(v) for v in zo])
+
+    xl, xr = (float(x.min()), float(x.max())) if closed else (float(x[0]), float(x[-1]))
+    top_z = total if closed else float(z[0])
+    if open_top:
+        # ground line at the top of both banks, with earth hatching below it
+        for a, b in ((X(xl) - ground_pt, X(float(xo[0]))), (X(float(xo[-1])), X(xr) + ground_pt)):
+            g.add(Line(a, Y(top_z), b, Y(top_z), strokeColor=INK, strokeWidth=0.9))
+            n = max(2, int((b - a) / 5))
+            for i in range(n):
+                hx = a + (i + 0.7) * (b - a) / n
+                g.add(Line(hx, Y(top_z), hx - 3, Y(top_z) - 3, strokeColor=INK, strokeWidth=0.35))
+        g.add(_text(X(xr) + ground_pt, Y(top_z) + 2.0, "ground", anchor="end", size=SIZE - 0.5))
+
+    # top width above
+    y_top = Y(top_z) + 12
+    _ext(g, X(xl), Y(top_z) + 2, X(xl), y_top + 2)
+    _ext(g, X(xr), Y(top_z) + 2, X(xr), y_top + 2)
+    _dim_h(g, X(xl), X(xr), y_top, f"{'diameter D' if closed else 'top width'} {fmt(xr - xl, figures=4)}")
+
+    # design depth and freeboard at the left, total depth at the right; labels horizontal
+    x_invert = float(x[np.argmin(z)])
+    xd_l = X(xl) - ground_pt - 6
+    xd_r = X(xr) + ground_pt + 6
+    _ext(g, X(x_invert) - 2, Y(0), xd_l - 2, Y(0))
+    _ext(g, X(x_invert) + 2, Y(0), xd_r + 2, Y(0))
+    _ext(g, X(xl) - ground_pt, Y(top_z), xd_l - 2, Y(top_z))
+    _ext(g, X(xr) + ground_pt, Y(top_z), xd_r + 2, Y(top_z))
+    if xl_w is not None:
+        _ext(g, X(xl_w) - 2, Y(yn), xd_l - 2, Y(yn))
+    _dim_v(g, xd_l, Y(0), Y(min(yn, top_z)), f"yn {fmt(yn, figures=4)}", side="left")
+    if total > yn:
+        _dim_v(g, xd_l, Y(yn), Y(top_z), f"{'to crown' if closed else 'freeboard'} {fmt(total - yn, figures=2)}",
+               side="left")
+    _dim_v(g, xd_r, Y(0), Y(top_z), f"{'crown' if closed else 'total depth'} {fmt(total, figures=3)}", side="right")
+
+    # bottom width and side slopes for the trapezoid family
+    if section.side_slopes is not None:
+        b = float(section.bottom_width)
+        y_b = Y(0) - t * s - 10
+        if b > 0:
+            _ext(g, X(-b / 2), Y(0) - 2, X(-b / 2), y_b - 2)
+            _ext(g, X(b / 2), Y(0) - 2, X(b / 2), y_b - 2)
+            _dim_h(g, X(-b / 2), X(b / 2), y_b, f"b {fmt(b, figures=3)}", above=False)
+        for side, zs in (("left", section.side_slopes[0]), ("right", section.side_slopes[1])):
+            if zs <= 0:
+                continue
+            theta = math.degrees(math.atan(1 / zs))
+            zm = 0.5 * top_z
+            xm = (-b / 2 - zs * zm) if side == "left" else (b / 2 + zs * zm)
+            # parallel to the slope, on the ground side, beyond the hatching
+            gap = t * s + 5 + SIZE
+            c, sn = math.cos(math.radians(theta)), math.sin(math.radians(theta))
+            nx = -sn if side == "left" else sn
+            g.add(_text(X(xm) + nx * gap, Y(zm) - c * gap, f"{zs:g}H:1V (\u03b8 = {theta:.1f}\u00b0)",
+                        anchor="middle", angle=-theta if side == "left" else theta))
+
+    # captions: the lining, then the scale with a scale bar
+    lab = f"Lining: {sheet.lining_label}" + (f", thickness t = {fmt(t, 'small_length', 3)} (to scale)" if t > 0
+                                              else " (heavy line; thickness not given)")
+    g.add(_text(8, 17, lab))
+    bar_real = _bar_length(width * 0.2 / s, us)
+    bx, by = 8.0, 5.0
+    bar_pt = bar_real * s
+    g.add(Rect(bx, by, bar_pt / 2, 2.5, fillColor=INK, strokeColor=INK, strokeWidth=0.3))
+    g.add(Rect(bx + bar_pt / 2, by, bar_pt / 2, 2.5, fillColor=colors.white, strokeColor=INK, strokeWidth=0.3))
+    bar_label = f"{bar_real / 0.3048:g} ft" if us else f"{bar_real:g} m"
+    g.add(_text(bx + bar_pt + 4, by - 0.3, f"{bar_label}     Scale {scale_text} when printed at 100 %; "
+                                          "horizontal and vertical scales equal"))
+    return d, scale_text
+
+
+def _hatch(g, xs, ys, spacing=5.0, size=3.0):
+    """Short slanted ticks on the right-hand side of the paper polyline (xs, ys): ground."""
+    carry = spacing / 2
+    for i in range(len(xs) - 1):
+        dx, dy = xs[i + 1] - xs[i], ys[i + 1] - ys[i]
+        seg = math.hypot(dx, dy)
+        if seg < 1e-9:
+            continue
+        ux, uy = dx / seg, dy / seg
+        nx, ny = uy, -ux  # right-hand normal: into the ground
+        pos = carry
+        while pos < seg:
+            px, py = xs[i] + ux * pos, ys[i] + uy * pos
+            g.add(Line(px, py, px + size * (nx - 0.6 * ux), py + size * (ny - 0.6 * uy),
+                       strokeColor=INK, strokeWidth=0.3))
+            pos += spacing
+        carry = pos - seg
+
+
+def _bar_length(max_real: float, us: bool) -> float:
+    """A round scale-bar length [m] not above ``max_real`` [m]."""
+    unit = 0.3048 if us else 1.0
+    for v in (100, 50, 20, 10, 5, 4, 2, 1, 0.5, 0.2, 0.1):
+        if v * unit <= max_real:
+            return v * unit
+    return 0.1 * unit

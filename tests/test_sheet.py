@@ -1,0 +1,451 @@
+"""The design sheet PDF: what it prints (read back with pypdf), its fingerprint, signing, rendering.
+
+The project used is invented (tests/data/invented-sheet-project.json). Printed
+numbers are checked against independent computations: Manning's equation
+solved here with scipy.optimize.brentq (Chow, V. T., Open-Channel Hydraulics,
+McGraw-Hill, 1959, Eq. 5-6, customary constant 1.486 = (1/0.3048)^(1/3)) and a
+published worked example.
+"""
+
+from __future__ import annotations
+
+import copy
+import datetime
+import math
+import os
+import re
+import shutil
+import subprocess
+import sys
+from pathlib import Path
+
+import pytest
+from pypdf import PdfReader
+from scipy.optimize import brentq
+
+from app import project as P
+from app.main import main
+from app.sheet import approval_box, export_sheets, fingerprint, sheet_pdf, verify_pdf
+from app.sheet.fingerprint import fingerprint_document
+from app.sheet.section_drawing import choose_scale
+
+DATA = Path(__file__).parent / "data"
+PROJECT_FILE = DATA / "invented-sheet-project.json"
+FOOT = 0.3048
+
+
+@pytest.fixture(scope="module")
+def project():
+    return P.load(PROJECT_FILE)
+
+
+@pytest.fixture(scope="module")
+def sheet_file(project, tmp_path_factory):
+    path = tmp_path_factory.mktemp("sheet") / "sheets.pdf"
+    export_sheets(project, path)
+    return path
+
+
+@pytest.fixture(scope="module")
+def pages(sheet_file):
+    return [p.extract_text() for p in PdfReader(sheet_file).pages]
+
+
+def _number_after(text: str, label: str) -> tuple[float, str]:
+    """The number and unit printed after ``label`` on the sheet."""
+    m = re.search(re.escape(label) + r"\s+(-?[0-9.]+)\s*([A-Za-z/³²]*)", text)
+    assert m, f"{label!r} not found on the sheet"
+    return float(m.group(1)), m.group(2)
+
+
+# ------------------------------------------------------------------ title block and results
+def test_one_page_per_channel_with_title_block(project, pages):
+    assert len(pages) == len(project.channels)
+    info = project.sheet
+    for i, (text, ch) in enumerate(zip(pages, project.channels), start=1):
+        for value in (project.name.split(" (")[0], ch.name, ch.location, info.company.split(" (")[0],
+                      info.designer, info.checker, info.approver, info.date_designed, info.date_checked,
+                      info.project_number):
+            assert value in text, f"{value!r} missing from sheet {i}"
+        assert f"{i} of {len(pages)}" in text
+        assert "REVISION" in text and info.revision in text
+        for heading in ("TYPICAL SECTION", "INPUTS", "RESULTS", "RATING CURVE", "HAND CHECK", "LINING STABILITY",
+                        "CAUTIONS", "SIGNATURE", "APPROVAL"):
+            assert heading in text
+
+
+def test_results_carry_units_us(pages):
+    text = pages[0]
+    for label, unit in (("Normal depth yn", "ft"), ("Critical depth yc", "ft"), ("Velocity V", "ft/s"),
+                        ("Flow area A", "ft²"), ("Top width at total depth", "ft"), ("Design flow Q", "ft³/s"),
+                        ("Bed shear τ = γ yn S", "lb/ft²"), ("Total depth", "ft")):
+        value, printed_unit = _number_after(text.replace("\n", " "), label)
+        assert math.isfinite(value)
+        if unit:
+            assert printed_unit == unit, f"{label}: unit {printed_unit!r}, expected {unit!r}"
+    assert "Froude number Fr" in text and "subcritical" in text
+    assert "Manning's n used" in text
+    assert "NOT CHECKED" in text  # no lining check in this version: the sheet says so
+
+
+def test_printed_normal_depth_solves_mannings_equation(project, pages):
+    # Independent root of Q = (1.486/n) A R^(2/3) S^(1/2) for the trapezoid of the first channel
+    # (Chow 1959, Eq. 5-6), with brentq instead of the program's solver.
+    ch = project.channels[0]
+    b, z = ch.section["bottom_width"] / FOOT, ch.section["left_slope"]
+    q, n, s = ch.flow.value / FOOT ** 3, ch.manning_n, ch.slope
+
+    def excess(y):
+        area = (b + z * y) * y
+        perim = b + 2 * y * math.sqrt(1 + z * z)
+        return 1.486 / n * area * (area / perim) ** (2 / 3) * math.sqrt(s) - q
+
+    y = brentq(excess, 1e-6, 50.0, xtol=1e-10)
+    printed, unit = _number_after(pages[0], "Normal depth yn")
+    assert unit == "ft"
+    assert printed == pytest.approx(y, rel=2e-3)  # 1.486 vs 1.4859 and 4 printed figures
+
+
+def test_published_trapezoid_example_prints_its_normal_depth(tmp_path):
+    # Chow, Open-Channel Hydraulics (1959), Chapter 6, Example 6-2 (example number from memory):
+    # b = 20 ft, z = 2, S = 0.0016, n = 0.025, Q = 400 ft^3/s -> yn = 3.36 ft.
+    ch = P.Channel(name="Chow trapezoid", flow=P.FlowBasis(value=400 * FOOT ** 3), slope=0.0016,
+                   section={"shape": "trapezoid", "bottom_width": 20 * FOOT, "left_slope": 2.0, "right_slope": 2.0},
+                   manning_n=0.025, min_freeboard=1.0 * FOOT)
+    proj = P.Project(name="Published example check", units="us", channels=[ch])
+    data, _ = sheet_pdf(proj)
+    out = tmp_path / "chow.pdf"
+    out.write_bytes(data)
+    value, unit = _number_after(PdfReader(out).pages[0].extract_text(), "Normal depth yn")
+    assert unit == "ft"
+    assert value == pytest.approx(3.36, rel=0.005)
+
+
+def test_si_project_prints_si_units(project, tmp_path):
+    proj = copy.deepcopy(project)
+    proj.units = "si"
+    path = tmp_path / "si.pdf"
+    export_sheets(proj, path, channels=[proj.channels[1].name])
+    text = PdfReader(path).pages[0].extract_text()
+    assert _number_after(text, "Normal depth yn")[1] == "m"
+    assert _number_after(text, "Velocity V")[1] == "m/s"
+    assert _number_after(text, "Design flow Q")[1] == "m³/s"
+    assert _number_after(text, "Bed shear τ = γ yn S")[1] == "Pa"
+    assert "1 of 1" in text
+
+
+def test_symbols_print_and_extract(pages):
+    text = pages[0]
+    for symbol in ("Δ", "≥", "²", "³", "θ", "τ", "γ", "√"):
+        assert symbol in text, f"{symbol!r} does not extract from the sheet"
+    assert "Flow Q (ft³/s)" in text  # from the rating plot, through svglib with the sheet font
+
+
+def test_only_the_sheet_font_is_used(sheet_file):
+    reader = PdfReader(sheet_file)
+    fonts = set()
+    for page in reader.pages:
+        res = page["/Resources"]
+        for ref in res.get("/Font", {}).values():
+            fonts.add(str(ref.get_object()["/BaseFont"]))
+        for xo in (res.get("/XObject") or {}).values():
+            for ref in (xo.get_object().get("/Resources", {}).get("/Font", {}) or {}).values():
+                fonts.add(str(ref.get_object()["/BaseFont"]))
+    assert fonts and all(f.endswith("+DejaVuSans") for f in fonts), fonts
+    for f in fonts:
+        assert "+" in f  # a subset tag: the font is embedded
+
+
+def test_hand_check_numbers_agree_as_printed(pages):
+    text = pages[0].replace("\n", " ")
+    y = float(re.search(r"At the normal depth y = ([0-9.]+) ft", text).group(1))
+    m = re.search(r"A = \(b \+ z y\) y = \(([0-9.]+) \+ ([0-9.]+) × ([0-9.]+)\) × [0-9.]+ = ([0-9.]+) ft²", text)
+    b, z, y2, area = (float(g) for g in m.groups())
+    assert y2 == y
+    assert (b + z * y) * y == pytest.approx(area, rel=5e-4)
+    factor = float(re.search(r"A R\^\(2/3\) = [0-9.]+ × [0-9.]+\^\(2/3\) = ([0-9.]+)", text).group(1))
+    target = float(re.search(r"Q n / \(k √S\) = [^=]+= ([0-9.]+)", text).group(1))
+    assert factor == pytest.approx(target, rel=1e-3)
+    # tau = gamma d S with the printed numbers (HEC-15, Kilgore and Cotton, 3rd ed., 2005, Eq. 3.1)
+    g, d, s, tau = (float(v) for v in re.search(
+        r"τ = γ d S = ([0-9.]+) lb/ft³ × ([0-9.]+) ft × ([0-9.]+) = ([0-9.]+) lb/ft²", text).groups())
+    assert g * d * s == pytest.approx(tau, rel=2e-3)
+    assert g == pytest.approx(9810 / (4.4482216152605 / FOOT ** 3), rel=1e-3)  # 9810 N/m^3 in lb/ft^3
+
+
+def test_rational_flow_basis_is_printed(pages):
+    text = pages[1].replace("\n", " ")
+    assert "rational method" in text and "Runoff coefficient C" in text and "Time of concentration" in text
+    m = re.search(r"Q = C i A u = ([0-9.]+) × ([0-9.]+) × ([0-9.]+) × ([0-9.]+) = ([0-9.]+) ft³/s", text)
+    c, i, a, u, q = (float(v) for v in m.groups())
+    # 1 acre-inch per hour in ft^3/s: 43560 ft^2 x (1/12) ft / 3600 s = 1.00833 (exact unit factors)
+    assert u == pytest.approx(43560 / 12 / 3600, rel=1e-4)
+    assert c * i * a * u == pytest.approx(q, rel=3e-3)
+
+
+def test_cautions_and_out_of_range_warnings(pages):
+    assert "Design assistance only" in pages[0] and "licensed" in pages[0]
+    # the swale runs at Fr about 1.03: near critical, flagged
+    assert "near critical" in pages[1].replace("\n", " ")
+
+
+def test_alternatives_are_named_when_they_cannot_be_compared(pages):
+    text = pages[0].replace("\n", " ")
+    assert "LINING COMPARISON" in text and "Rock riprap" in text and "Concrete" in text
+    assert "LINING COMPARISON" not in pages[1]
+
+
+# ------------------------------------------------------------------ fingerprint
+def test_printed_fingerprint_equals_the_command(project, pages, capsys):
+    for text, ch in zip(pages, project.channels):
+        printed = re.search(r"Design fingerprint SHA-256: ([0-9a-f]{64})", text).group(1)
+        assert main(["fingerprint", str(PROJECT_FILE), "--channel", ch.name]) == 0
+        assert capsys.readouterr().out.strip() == printed
+    assert main(["fingerprint", str(PROJECT_FILE)]) == 0
+    lines = capsys.readouterr().out.strip().splitlines()
+    assert [line.split("  ", 1)[1] for line in lines] == [c.name for c in project.channels]
+
+
+def test_fingerprint_follows_design_inputs_only(project):
+    ch = copy.deepcopy(project.channels[0])
+    base = fingerprint(ch)
+    renamed = copy.deepcopy(ch)
+    renamed.name, renamed.location, renamed.notes = "Other name", "elsewhere", "a note"
+    assert fingerprint(renamed) == base
+    as_float = copy.deepcopy(ch)
+    as_float.section = dict(ch.section, left_slope=3, right_slope=3)  # 3 and 3.0 are the same input
+    assert fingerprint(as_float) == base
+    steeper = copy.deepcopy(ch)
+    steeper.slope = ch.slope * 1.001
+    assert fingerprint(steeper) != base
+    assert fingerprint(ch, version="9.9.9") != base
+    doc = fingerprint_document(ch)
+    assert doc.startswith('{"inputs":{') and '"program":"ditchwright"' in doc and " " not in doc.replace(
+        "Ditch 1", "")
+
+
+def test_fingerprint_of_a_damaged_file_is_a_one_line_error(tmp_path, capsys):
+    bad = tmp_path / "bad.json"
+    bad.write_text("{ not json")
+    assert main(["fingerprint", str(bad)]) == 2
+    err = capsys.readouterr().err
+    assert "Traceback" not in err and err.count("\n") == 1
+
+
+# ------------------------------------------------------------------ signing
+@pytest.fixture(scope="module")
+def certificate(tmp_path_factory):
+    """A self-signed EC P-256 certificate made for the test, as PKCS#12 (password 'pw-test') and PEM."""
+    from cryptography import x509
+    from cryptography.hazmat.primitives import hashes, serialization
+    from cryptography.hazmat.primitives.asymmetric import ec
+    from cryptography.hazmat.primitives.serialization import pkcs12
+    from cryptography.x509.oid import NameOID
+
+    folder = tmp_path_factory.mktemp("cert")
+    key = ec.generate_private_key(ec.SECP256R1())
+    name = x509.Name([x509.NameAttribute(NameOID.COMMON_NAME, "Test Engineer (invented)")])
+    now = datetime.datetime.now(datetime.timezone.utc)
+    cert = (x509.CertificateBuilder().subject_name(name).issuer_name(name).public_key(key.public_key())
+            .serial_number(x509.random_serial_number()).not_valid_before(now - datetime.timedelta(days=1))
+            .not_valid_after(now + datetime.timedelta(days=30))
+            .add_extension(x509.KeyUsage(digital_signature=True, content_commitment=True, key_encipherment=False,
+                                         data_encipherment=False, key_agreement=False, key_cert_sign=False,
+                                         crl_sign=False, encipher_only=False, decipher_only=False), critical=True)
+            .sign(key, hashes.SHA256()))
+    p12 = folder / "engineer.p12"
+    p12.write_bytes(pkcs12.serialize_key_and_certificates(b"engineer", key, cert, None,
+                                                          serialization.BestAvailableEncryption(b"pw-test")))
+    pem = folder / "engineer.pem"
+    pem.write_bytes(cert.public_bytes(serialization.Encoding.PEM))
+    return p12, pem
+
+
+@pytest.fixture(scope="module")
+def signed_file(project, certificate, tmp_path_factory):
+    p12, _ = certificate
+    path = tmp_path_factory.mktemp("signed") / "signed.pdf"
+    export_sheets(project, path, sign=(p12, "pw-test"))
+    return path
+
+
+def test_signed_sheet_validates(signed_file, certificate, capsys):
+    _, pem = certificate
+    report = verify_pdf(signed_file, trust=pem)
+    assert report.ok
+    (sig,) = report.signatures
+    assert sig.intact and sig.valid and sig.covers_whole_file and sig.trusted
+    assert sig.signer == "Test Engineer (invented)"
+    assert main(["verify", str(signed_file), "--trust", str(pem)]) == 0
+    out = capsys.readouterr().out
+    assert "Test Engineer (invented)" in out and "INTACT AND VALID" in out
+
+
+def test_stamp_sits_in_the_approval_box(signed_file):
+    reader = PdfReader(signed_file)
+    widgets = [a.get_object() for a in reader.pages[0].get("/Annots", []) if a.get_object().get("/FT") == "/Sig"]
+    assert len(widgets) == 1
+    rect = [float(v) for v in widgets[0]["/Rect"]]
+    x1, y1, x2, y2 = approval_box("letter")
+    assert rect == pytest.approx([round(x1), round(y1), round(x2), round(y2)], abs=0.01)
+    appearance = widgets[0]["/AP"]["/N"].get_object()  # the visible stamp
+    bbox = [float(v) for v in appearance["/BBox"]]
+    assert abs(bbox[2] - bbox[0]) > 50 and abs(bbox[3] - bbox[1]) > 50
+
+
+def test_one_changed_byte_fails_validation(signed_file, certificate, tmp_path, capsys):
+    _, pem = certificate
+    data = bytearray(signed_file.read_bytes())
+    text = bytes(data)
+    i = text.index(b"CHANNEL DESIGN SHEET") if b"CHANNEL DESIGN SHEET" in text else len(data) // 3
+    data[i] ^= 0x01
+    changed = tmp_path / "changed.pdf"
+    changed.write_bytes(bytes(data))
+    report = verify_pdf(changed, trust=pem)
+    assert not report.ok
+    assert not report.signatures[0].intact
+    assert main(["verify", str(changed), "--trust", str(pem)]) == 1
+    assert "NOT VALID" in capsys.readouterr().out
+
+
+def test_other_trust_anchor_is_not_trusted(signed_file, tmp_path):
+    from cryptography import x509
+    from cryptography.hazmat.primitives import hashes, serialization
+    from cryptography.hazmat.primitives.asymmetric import ec
+    from cryptography.x509.oid import NameOID
+
+    key = ec.generate_private_key(ec.SECP256R1())
+    name = x509.Name([x509.NameAttribute(NameOID.COMMON_NAME, "Someone else")])
+    now = datetime.datetime.now(datetime.timezone.utc)
+    cert = (x509.CertificateBuilder().subject_name(name).issuer_name(name).public_key(key.public_key())
+            .serial_number(1).not_valid_before(now).not_valid_after(now + datetime.timedelta(days=1))
+            .sign(key, hashes.SHA256()))
+    other = tmp_path / "other.pem"
+    other.write_bytes(cert.public_bytes(serialization.Encoding.PEM))
+    report = verify_pdf(signed_file, trust=other)
+    assert report.signatures[0].intact and report.signatures[0].trusted is False and not report.ok
+
+
+def test_unsigned_sheet_does_not_verify(sheet_file, capsys):
+    assert main(["verify", str(sheet_file)]) == 1
+    assert "not signed" in capsys.readouterr().out
+
+
+def test_cli_signs_with_password_from_environment(certificate, tmp_path, monkeypatch, capsys):
+    p12, pem = certificate
+    out = tmp_path / "cli.pdf"
+    monkeypatch.setenv("DITCHWRIGHT_CERT_PASSWORD", "pw-test")
+    assert main(["sheet", str(PROJECT_FILE), "--channel", "Culvert outfall swale", "-o", str(out),
+                 "--sign", str(p12), "--page", "a4"]) == 0
+    assert verify_pdf(out, trust=pem).ok
+    box = PdfReader(out).pages[0].mediabox
+    assert (float(box.width), float(box.height)) == pytest.approx((595.2756, 841.8898), abs=0.01)  # ISO 216 A4
+    monkeypatch.setenv("DITCHWRIGHT_CERT_PASSWORD", "wrong")
+    assert main(["sheet", str(PROJECT_FILE), "-o", str(tmp_path / "x.pdf"), "--sign", str(p12)]) == 2
+    err = capsys.readouterr().err
+    assert "wrong password" in err and "Traceback" not in err
+    assert not (tmp_path / "x.pdf").exists()
+
+
+def test_cli_without_password_and_terminal_refuses(certificate, tmp_path, monkeypatch, capsys):
+    p12, _ = certificate
+    monkeypatch.delenv("DITCHWRIGHT_CERT_PASSWORD", raising=False)
+    monkeypatch.setattr(sys, "stdin", open(os.devnull))
+    assert main(["sheet", str(PROJECT_FILE), "-o", str(tmp_path / "x.pdf"), "--sign", str(p12)]) == 2
+    assert "DITCHWRIGHT_CERT_PASSWORD" in capsys.readouterr().err
+
+
+@pytest.mark.parametrize("argv, message", [
+    (["sheet", str(PROJECT_FILE), "-o", "x.pdf", "--channel", "No such ditch"], "no channel named"),
+    (["sheet", "missing-project.json", "-o", "x.pdf"], "no such file"),
+    (["sheet", str(PROJECT_FILE), "-o", "x.txt"], ".pdf"),
+    (["verify", "missing.pdf"], "no such file"),
+    (["verify", str(PROJECT_FILE)], "not a readable PDF"),
+], ids=["unknown-channel", "missing-project", "not-pdf", "missing-sheet", "not-a-pdf"])
+def test_cli_bad_input_exits_2_in_one_line(argv, message, tmp_path, monkeypatch, capsys):
+    monkeypatch.chdir(tmp_path)
+    assert main(argv) == 2
+    err = capsys.readouterr().err
+    assert message in err and "Traceback" not in err
+
+
+def test_unsolvable_channel_exits_3(tmp_path, capsys):
+    ch = P.Channel(name="Too small pipe", flow=P.FlowBasis(value=5.0), slope=0.001,
+                   section={"shape": "circle", "diameter": 0.3}, manning_n=0.013)
+    path = tmp_path / "pipe.json"
+    P.save(P.Project(name="Invented pipe", channels=[ch]), path)
+    assert main(["sheet", str(path), "-o", str(tmp_path / "pipe.pdf")]) == 3
+    assert "Traceback" not in capsys.readouterr().err
+
+
+# ------------------------------------------------------------------ drawing and rendering
+def test_section_scale_is_the_smallest_round_one_that_fits():
+    assert choose_scale(30, us=True) == (36, "1 in = 3 ft (1:36)")
+    assert choose_scale(36, us=True)[0] == 36
+    assert choose_scale(21, us=False) == (25, "1:25")
+
+
+def test_every_page_renders_with_pdftoppm(signed_file, tmp_path):
+    exe = shutil.which("pdftoppm")
+    if exe is None:
+        if os.environ.get("CI"):
+            pytest.fail("pdftoppm (Debian poppler-utils) is needed in CI")
+        pytest.skip("pdftoppm (poppler-utils) not installed here")
+    n = len(PdfReader(signed_file).pages)
+    subprocess.run([exe, "-png", "-r", "40", str(signed_file), str(tmp_path / "page")], check=True,
+                   capture_output=True, timeout=120)
+    pngs = sorted(tmp_path.glob("page-*.png"))
+    assert len(pngs) == n
+    assert all(p.stat().st_size > 2000 for p in pngs)
+
+
+def test_sheet_package_needs_no_qt():
+    code = ("import sys, app.sheet, app.sheet.layout, app.cli.sheet; "
+            "print(','.join(m for m in ('PySide6', 'PyQt5', 'PyQt6') if m in sys.modules))")
+    out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, check=True,
+                         cwd=Path(__file__).parent.parent)
+    assert out.stdout.strip() == ""
+
+
+# ------------------------------------------------------------------ lining catalogue and logo
+def test_stone_lining_from_the_catalogue_sets_n_and_thickness(tmp_path):
+    # Riprap D50 = 150 mm with no n typed: n comes from the catalogue's stone relation, and the
+    # layer is drawn 1.5 D50 = 225 mm thick (common practice; HEC-15, 3rd ed., Section 6.4, from memory).
+    ch = P.Channel(name="Riprap chute (invented)", flow=P.FlowBasis(value=0.7), slope=0.04,
+                   section={"shape": "trapezoid", "bottom_width": 1.0, "left_slope": 2.0, "right_slope": 2.0},
+                   lining=P.LiningChoice("riprap", 0.15), manning_n=None)
+    proj = P.Project(name="Invented chute", units="si", channels=[ch])
+    path = tmp_path / "chute.pdf"
+    export_sheets(proj, path)
+    text = PdfReader(path).pages[0].extract_text().replace("\n", " ")
+    assert "Rock riprap, D50 150 mm" in text
+    assert "thickness t = 225 mm" in text
+    assert re.search(r"Manning's n used [0-9.]+ \(catalogue", text)
+    assert "Lining n from HEC-15" in text and "Permissible shear from" in text
+
+
+def _image_count(path) -> int:
+    count = 0
+    for page in PdfReader(path).pages:
+        for xo in (page["/Resources"].get("/XObject") or {}).values():
+            if xo.get_object().get("/Subtype") == "/Image":
+                count += 1
+    return count
+
+
+def test_logo_slot_is_empty_unless_the_user_fills_it(project, tmp_path):
+    from PIL import Image
+
+    plain = tmp_path / "plain.pdf"
+    export_sheets(project, plain, channels=project.channels[0].name)
+    assert _image_count(plain) == 0  # no default brand
+    logo = tmp_path / "logo.png"
+    Image.new("RGB", (60, 30), (20, 90, 160)).save(logo)
+    proj = copy.deepcopy(project)
+    proj.sheet.logo = str(logo)
+    with_logo = tmp_path / "logo.pdf"
+    assert export_sheets(proj, with_logo, channels=project.channels[0].name) == []
+    assert _image_count(with_logo) == 1
+    proj.sheet.logo = str(tmp_path / "missing.png")
+    notes = export_sheets(proj, tmp_path / "nologo.pdf", channels=project.channels[0].name)
+    assert notes and "logo file not found" in notes[0]
