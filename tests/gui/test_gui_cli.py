@@ -51,3 +51,56 @@ def test_demo_project_is_invented_and_varied():
     assert any(c.alternatives for c in project.channels)
     for ch in project.channels:
         assert compute.evaluate(ch, hy.units.SI).ok, ch.name
+
+
+def test_no_arguments_opens_the_demo_on_first_start_only(monkeypatch):
+    from PySide6.QtWidgets import QApplication
+
+    from app.gui import application, settings
+    monkeypatch.setattr(QApplication, "exec", lambda self: 0)
+    assert main([]) == 0
+    first = application.last_window
+    assert "invented" in first.doc.project.name.lower() and first.doc.path is None
+    assert settings.DEMO_SHOWN.read() is True
+    first.close()
+    assert main([]) == 0
+    second = application.last_window
+    assert second.doc.project == pj.Project()
+    second.close()
+
+
+def test_open_command_opens_the_file(monkeypatch, tmp_path):
+    from PySide6.QtWidgets import QApplication
+
+    from app.gui import application
+    monkeypatch.setattr(QApplication, "exec", lambda self: 0)
+    path = tmp_path / "site.json"
+    project = pj.Project(name="Invented test site", units="us")
+    pj.save(project, path)
+    assert main(["open", str(path)]) == 0
+    w = application.last_window
+    assert w.doc.project == project and w.doc.path == path and w.doc.project.units == "us"
+    w.close()
+
+
+def test_a_start_up_error_is_shown_in_a_dialog(monkeypatch, dialogs):
+    from PySide6.QtWidgets import QApplication
+
+    from app.gui import mainwindow
+    monkeypatch.setattr(QApplication, "exec", lambda self: 0)
+
+    def broken(*a, **k):
+        raise RuntimeError("the lining catalogue could not be read")
+    monkeypatch.setattr(mainwindow, "MainWindow", broken)
+    assert main([]) == 1
+    kind, title, text = dialogs.shown[-1]
+    assert kind == "critical" and "could not start" in title and "lining catalogue" in text
+
+
+def test_no_display_is_explained(monkeypatch, capsys):
+    from app.gui import application
+    for var in ("DISPLAY", "WAYLAND_DISPLAY", "QT_QPA_PLATFORM"):
+        monkeypatch.delenv(var, raising=False)
+    monkeypatch.setattr(application.sys, "platform", "linux")
+    assert application.run() == 1
+    assert "no display found" in capsys.readouterr().err
