@@ -39,14 +39,33 @@ def _show_start_error(exc: BaseException) -> None:
         pass
 
 
+#: The window of the last :func:`run` (kept for the checks in the tests).
+last_window = None
+
+
+def _no_display() -> str:
+    """Why no window can open here, or "" (Linux without a display and no platform chosen)."""
+    if sys.platform.startswith("linux") and not any(
+            os.environ.get(v) for v in ("DISPLAY", "WAYLAND_DISPLAY", "QT_QPA_PLATFORM")):
+        return ("no display found (neither DISPLAY nor WAYLAND_DISPLAY is set). Run Ditchwright in a desktop "
+                "session, use `ditchwright --screenshot PATH` to render offscreen, or the command-line tools "
+                "(`ditchwright calc --help`).")
+    return ""
+
+
 def run(path=None) -> int:
     """Open the window: on ``path``, else (first start) the demo project, else a new project."""
+    global last_window
+    why = _no_display()
+    if why:
+        print(f"ditchwright: {why}", file=sys.stderr)
+        return 1
     try:
         app = _application()
         from .. import project as pj
         from . import settings
         from .mainwindow import MainWindow
-        window = MainWindow()
+        window = last_window = MainWindow()
         window.show()
         if path is not None:
             window.open_file(path, ask=False)

@@ -44,7 +44,7 @@ class ComparisonView(QWidget):
         self.choices = QListWidget()
         self.choices.setObjectName("liningChoices")
         self.choices.itemChanged.connect(self._choice_toggled)
-        self.choices.setMaximumWidth(260)
+        self.choices.setMaximumWidth(210)
 
         self.table = QTableWidget(0, len(compute.COMPARISON_COLUMNS))
         self.table.setObjectName("comparisonTable")
@@ -129,7 +129,7 @@ class ComparisonView(QWidget):
         self.rows = compute.compare(ch, ch.alternatives, units)
         heads, body = compute.comparison_table(self.rows, units)
         self.table.setColumnCount(len(heads))
-        self.table.setHorizontalHeaderLabels(heads)
+        self.table.setHorizontalHeaderLabels([h.replace(" [", "\n[") for h in heads])
         self.table.setRowCount(len(body))
         for i, (row, cells) in enumerate(zip(self.rows, body)):
             colour = QColor(STATUS_COLOURS.get(row.evaluation.verdict.status, "#ffffff"))

@@ -342,3 +342,13 @@ def test_comparison_frame_builds(demo_window):
     view = w.comparison
     assert view.table.columnCount() >= 9
     assert view.apply_button.text().startswith("Apply")
+
+
+def test_ctrl_z_in_a_field_undoes_the_project_edit(demo_window, qtbot):
+    w = demo_window
+    w.activateWindow()
+    f = field(w, "slope")
+    type_into(qtbot, f, "0.03")
+    assert w.doc.channel().slope == 0.03
+    qtbot.keyClick(f.edit, Qt.Key.Key_Z, Qt.KeyboardModifier.ControlModifier)
+    assert w.doc.channel().slope == 0.012 and f.edit.text() == "0.012"
