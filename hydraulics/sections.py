@@ -178,11 +178,13 @@ class Trapezoid(Section):
         b, zs, ps = self.bottom_width, self._zsum, self._psum
         if _is_scalar(b, zs, log_k):
             wide = math.exp(0.6 * (log_k - math.log(b))) if b > 0 else math.inf
-            tri = math.exp(0.375 * (log_k + 2 / 3 * math.log(ps)) - 0.625 * math.log(0.5 * zs)) if zs > 0 else math.inf
+            # ln(0.5) + ln(zs), not ln(0.5 zs), which underflows for the smallest positive zs.
+            tri = math.exp(min(700.0, 0.375 * (log_k + 2 / 3 * math.log(ps)) - 0.625 * (math.log(zs) - math.log(2.0)))) \
+                if zs > 0 else math.inf
             return min(wide, tri)
         with np.errstate(divide="ignore", over="ignore"):
             wide = np.exp(0.6 * (log_k - np.log(b)))
-            tri = np.exp(0.375 * (log_k + 2 / 3 * np.log(ps)) - 0.625 * np.log(0.5 * zs))
+            tri = np.exp(0.375 * (log_k + 2 / 3 * np.log(ps)) - 0.625 * (np.log(zs) - math.log(2.0)))
         return np.minimum(wide, tri)
 
     def _critical_guess(self, flow):
@@ -309,6 +311,11 @@ def _circle_capacity_ratio() -> float:
 CIRCLE_CAPACITY_RATIO = _circle_capacity_ratio()
 
 
+#: Below this central angle [rad] theta - sin(theta) is summed as a series (direct
+#: subtraction would lose digits: at theta = 0.1 the series' first omitted term is 1e-19 of the sum).
+_SERIES_BELOW = 0.1
+
+
 class Circle(Section):
     """Part-full circular pipe of diameter D.
 
@@ -333,19 +340,26 @@ class Circle(Section):
         return CIRCLE_CAPACITY_RATIO * self.diameter
 
     def _geometry(self, y):
+        # theta = 2 arccos(1 - 2y/D) written as 4 arcsin(sqrt(y/D)) (same angle, from 1 - cos x = 2 sin^2(x/2)),
+        # which keeps its precision at small depths; theta - sin(theta) by its Taylor series there.
         d = self.diameter
         if _is_scalar(y, d):
-            c = 1 - 2 * y / d
-            theta = 2 * math.acos(max(-1.0, c))
-            s = math.sin(theta)
+            theta = 4 * math.asin(math.sqrt(min(1.0, y / d)))
+            if theta < _SERIES_BELOW:
+                t2 = theta * theta
+                segment = theta * t2 * (1 / 6 - t2 * (1 / 120 - t2 * (1 / 5040 - t2 * (1 / 362880 - t2 / 39916800))))
+            else:
+                segment = theta - math.sin(theta)
             top = d * math.sin(theta / 2)
         else:
-            c = 1 - 2 * y / d
-            theta = 2 * np.arccos(np.maximum(-1.0, c))
-            s = np.sin(theta)
+            theta = 4 * np.arcsin(np.sqrt(np.minimum(1.0, y / d)))
+            t2 = theta * theta
+            segment = np.where(theta < _SERIES_BELOW,
+                               theta * t2 * (1 / 6 - t2 * (1 / 120 - t2 * (1 / 5040 - t2 * (1 / 362880 - t2 / 39916800)))),
+                               theta - np.sin(theta))
             top = d * np.sin(theta / 2)
         with np.errstate(divide="ignore", invalid="ignore"):
-            return Geometry(area=d * d * (theta - s) / 8, wetted_perimeter=d * theta / 2, top_width=top,
+            return Geometry(area=d * d * segment / 8, wetted_perimeter=d * theta / 2, top_width=top,
                             dP_dy=2 * d / top, dT_dy=2 * (d - 2 * y) / top)
 
     def _depth_guess(self, log_k):

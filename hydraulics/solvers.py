@@ -111,10 +111,15 @@ def _log_conveyance(section, rough, y, slope, scalar):
     return geo - log(n0), dgeo - dlogn
 
 
+_JUMP_MESSAGE = ("no depth carries this flow: the flow falls in a jump of the roughness relation near "
+                 "depth {depth:.6g} m (the depth-dependent n is discontinuous there)")
+
+
 def _newton_log_scalar(evaluate, y, lo, hi):
     """Safeguarded Newton on an increasing g(y), in ln y. Returns (y, iterations, g)."""
     if not lo < y < hi:
         y = 0.5 * (lo + hi) if math.isfinite(hi) else 1.0
+    last_step = step_before_last = math.inf
     for it in range(1, _MAX_ITER + 1):
         g, gp = evaluate(y)
         if abs(g) <= _LOG_TOL:
@@ -123,8 +128,16 @@ def _newton_log_scalar(evaluate, y, lo, hi):
             lo = y
         else:
             hi = y
-        y_new = y * math.exp(max(-50.0, min(50.0, -g / gp))) if gp > 0 and math.isfinite(g) else math.nan
-        if not lo < y_new < hi:
+        step = max(-50.0, min(50.0, -g / gp)) if gp > 0 and math.isfinite(g) else math.nan
+        y_new = y * math.exp(step)
+        # Bisect when Newton leaves the bracket, or when its steps stop shrinking (as in
+        # "rtsafe", Press et al., Numerical Recipes, 3rd ed., 2007, Sec. 9.4): a kink in a
+        # depth-dependent n can otherwise make it creep along one side of the bracket.
+        slow = abs(step) > 0.5 * step_before_last
+        step_before_last, last_step = last_step, abs(step)
+        if slow or not lo < y_new < hi:
+            if hi / lo < 1 + 1e-14 if lo > 0 else False:
+                raise NoSolutionError(_JUMP_MESSAGE.format(depth=y))
             if not math.isfinite(hi):
                 y_new = 4.0 * y
             elif lo == 0.0:
@@ -181,7 +194,7 @@ def _newton_log_vector(evaluate, y, lo, hi):
                 fallback = np.where(~np.isfinite(hi), 4.0 * y, np.where(lo == 0.0, 0.25 * hi, np.sqrt(lo * hi)))
                 y_new = np.where(bad, fallback, y_new)
             y = np.where(done, y, y_new)  # a converged element stays where it is
-    worst = int(np.nanargmax(np.abs(g)))
+    worst = int(np.argmax(np.where(np.isfinite(g), np.abs(g), np.inf)))  # a non-finite residual is the worst
     raise ConvergenceError(f"no convergence in {_MAX_ITER} iterations for element {worst} "
                            f"(depth {y.flat[worst]:g} m, log residual {np.abs(g).flat[worst]:.3g})")
 
@@ -247,7 +260,7 @@ def solve_normal_depth(section, flow, slope, n=None) -> DepthSolution:
     lo = 0.0 if scalar else np.zeros(shape)
 
     # target is ln(Q n / sqrt(S)) for constant n; a model's n is guessed as 0.03 for the start.
-    y0 = section._depth_guess(target if rough[0] == "constant" else target + math.log(0.03))
+    y0 = section._depth_guess(target + (log(rough[1]) if rough[0] == "constant" else math.log(0.03)))
     if not scalar:
         y0 = np.broadcast_to(y0, shape).astype(float)
 

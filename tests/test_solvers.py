@@ -235,3 +235,15 @@ def test_surveyed_section_depth_reproduces_flow(depths, fraction, s, n):
     q = fraction * hy.max_flow(ir, s)
     y = hy.normal_depth(ir, q, s)
     assert abs(hy.flow_at_depth(ir, y, s) - q) / q <= 1e-10
+
+
+def test_flow_inside_a_jump_of_n_has_no_depth():
+    class SmootherAboveHalfMetre:  # n drops from 0.06 to 0.02 at 0.5 m: conveyance jumps up there
+        def manning_n(self, section, depth, slope):
+            return np.where(np.asarray(depth) < 0.5, 0.06, 0.02) if np.ndim(depth) else (0.06 if depth < 0.5 else 0.02)
+
+    s = hy.Rectangle(bottom_width=1.0)
+    q_below, q_above = hy.flow_at_depth(s, 0.5, 0.01, 0.06), hy.flow_at_depth(s, 0.5, 0.01, 0.02)
+    with pytest.raises(hy.NoSolutionError, match="jump of the roughness relation"):
+        hy.normal_depth(s, 0.5 * (q_below + q_above), 0.01, SmootherAboveHalfMetre())
+    assert hy.normal_depth(s, 0.5 * q_below, 0.01, SmootherAboveHalfMetre()) < 0.5

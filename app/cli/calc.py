@@ -1,33 +1,67 @@
-"""`ditchwright calc`: one channel's uniform-flow state, as a table or JSON."""
+"""`ditchwright calc`: one channel's uniform-flow state, and with --lining its stability, as a table or JSON."""
 
 from __future__ import annotations
 
 import hydraulics as hy
 from hydraulics import units as hu
+from hydraulics.errors import InputError
+from hydraulics.stability import check_lining, format_quantity
 
 from ..results import CHANNEL_FIELDS, convert, format_value
 from .common import (CliError, add_channel_options, check_dimensions, check_numbers, emit_json, require, section_from_args,
                      side_slopes, table, unit_labels)
+from .lining_args import add_lining_options, catalogue_from_args, choice_from_text, explain, lining_options_si
 
 HELP = "compute normal and critical depth, velocity, Froude number and shear for one channel"
 
 
 def register(subparsers) -> None:
-    p = subparsers.add_parser("calc", help=HELP, description=HELP + ".")
+    p = subparsers.add_parser("calc", help=HELP, description=HELP + "; with --lining, check the lining's "
+                              "stability (FHWA HEC-15 permissible shear), freeboard and ditch depth.")
     add_channel_options(p)
     p.add_argument("--max-depth", type=float, metavar="Y",
                    help="allowable flow depth, with --find bottom-width")
     p.add_argument("--find", choices=("bottom-width",),
                    help="solve for the bottom width that keeps normal depth <= --max-depth")
+    add_lining_options(p, many=False)
     p.add_argument("--json", action="store_true", help="print JSON instead of a table")
     p.set_defaults(run=run)
 
 
+def _lining(args, units):
+    """(Lining, D50 [m] or None) from --lining/--d50, or (None, None); refuses options that need a lining."""
+    if args.lining is None:
+        for opt in ("d50", "bend_radius", "min_freeboard", "user_catalogue"):
+            if getattr(args, opt) is not None:
+                raise CliError(f"--{opt.replace('_', '-')} is used with --lining")
+        return None, None
+    if args.n is not None:
+        raise CliError("give --n or --lining, not both (the lining sets its own Manning's n)")
+    key, d50 = choice_from_text(args.lining, units)
+    if args.d50 is not None:
+        if d50 is not None:
+            raise CliError("give the D50 once: --lining KEY:D50 or --d50 D, not both")
+        d50 = units.to_si("length", args.d50)
+    catalogue = catalogue_from_args(args)
+    try:
+        lining = catalogue.get(key)
+        lining.roughness(d50)  # refuses a D50 for a lining that takes none, and unfilled user data
+    except InputError as exc:
+        raise explain(exc, units) from None
+    return lining, d50
+
+
 def solve(args):
-    """Return (section, ChannelResult, found bottom width or None), all SI."""
+    """Return (section, ChannelResult, found bottom width or None, StabilityResult or None), all SI."""
     check_numbers(args)
-    require(args, "flow", "slope", "n")
     units = hu.system(args.units)
+    lining, d50 = _lining(args, units)
+    require(args, "flow", "slope")
+    if lining is None:
+        require(args, "n")
+        n = args.n
+    else:
+        n = lining.roughness(d50)
     flow = units.to_si("flow", args.flow)
     found = None
     if args.find == "bottom-width":
@@ -39,7 +73,7 @@ def solve(args):
         check_dimensions(args, skip=("bottom_width",))
         max_depth = units.to_si("length", args.max_depth)
         slopes = side_slopes(args)
-        found = hy.bottom_width_for_depth(flow, args.slope, args.n, max_depth, **slopes)
+        found = hy.bottom_width_for_depth(flow, args.slope, n, max_depth, **slopes)
         if found == 0.0:
             section = hy.Triangle(**slopes)
         elif args.shape == "rectangle":
@@ -50,18 +84,70 @@ def solve(args):
         if args.max_depth is not None:
             raise CliError("--max-depth is used with --find bottom-width")
         section = section_from_args(args)
-    return section, hy.analyse(section, flow, args.slope, args.n), found
+    if lining is None:
+        return section, hy.analyse(section, flow, args.slope, n), found, None
+    options = lining_options_si(args, units)
+    try:
+        stab = check_lining(section, flow, args.slope, lining, d50=d50, **options)
+    except InputError as exc:
+        top = None
+        if exc.field == "bend_radius":
+            top = check_lining(section, flow, args.slope, lining, d50=d50).analysis.top_width
+        raise explain(exc, units, top) from None
+    return section, stab.analysis, found, stab
+
+
+def lining_json(stab, units) -> dict:
+    return {"key": stab.lining_key, "name": stab.lining_name, "n_used": stab.manning_n,
+            "n_relation": stab.n_relation, "n_source": stab.n_source,
+            "d50": None if stab.d50 is None else units.from_si("length", stab.d50)}
+
+
+def stability_rows(stab, units) -> list:
+    """(label, value) rows of a lining check, in the user's units."""
+    L = lambda v: f"{units.from_si('length', v):.3f} {units.label('length')}"  # noqa: E731
+    T = lambda v: format_quantity(v, "shear", units)  # noqa: E731
+    rows = [("Lining", f"{stab.lining_name} ({stab.lining_key})"),
+            ("Manning's n used", f"{stab.manning_n:.4f}, {stab.n_source}")]
+    if stab.d50 is not None:
+        rows.append(("D50", L(stab.d50)))
+    rows.append(("Bed shear (HEC-15 Eq. 3.1)", T(stab.bed_shear)))
+    if stab.side_shear is not None:
+        rows.append(("Side-slope shear (K1)", T(stab.side_shear)))
+    if stab.bend_shear is not None:
+        rows.append(("Bend shear (Kb)", f"{T(stab.bend_shear)} (Kb = {stab.bend_factor:.2f})"))
+        rows.append(("Protection below the bend", L(stab.bend_protection_length)))
+    if stab.permissible_shear is not None:
+        rows.append(("Permissible shear", T(stab.permissible_shear)))
+    if stab.permissible_shear_side is not None:
+        rows.append(("Permissible on side slopes", T(stab.permissible_shear_side)))
+    if stab.safety_factor is not None:
+        rows.append(("Safety factor", f"{stab.safety_factor:.2f} ({stab.required_safety_factor:.2f} needed)"))
+    rows.append(("Verdict", stab.reason(units)))
+    if stab.required_d50 is not None:
+        rows.append(("Smallest stable D50", L(stab.required_d50)))
+    if stab.layer_thickness is not None:
+        rows.append(("Layer thickness", L(stab.layer_thickness)))
+    if stab.superelevation is not None:
+        rows.append(("Superelevation in the bend", L(stab.superelevation)))
+    rows += [("Freeboard", L(stab.freeboard)), ("Total ditch depth", L(stab.total_depth)),
+             ("Top width at top of ditch", L(stab.top_width_at_top))]
+    return rows
 
 
 def run(args) -> int:
     units = hu.system(args.units)
-    section, result, found = solve(args)
+    section, result, found, stab = solve(args)
+    warnings = list(result.warnings) if stab is None else list(stab.warnings)
     if args.json:
         out = {f.key: convert(getattr(result, f.key), f.quantity, units) for f in CHANNEL_FIELDS}
         if found is not None:
             out["bottom_width"] = units.from_si("length", found)
+        if stab is not None:
+            out["lining"] = lining_json(stab, units)
+            out["stability"] = stab.to_dict(units)
         out["units"] = unit_labels(units)
-        out["warnings"] = list(result.warnings)
+        out["warnings"] = warnings
         emit_json(out)
         return 0
     rows = []
@@ -71,6 +157,12 @@ def run(args) -> int:
     print(f"Uniform flow in a {section.kind}, {args.flow:g} {units.label('flow')} "
           f"on {args.slope:g} {units.label('slope')}:")
     print(table(rows))
-    for w in result.warnings:
+    if stab is not None:
+        print("Lining stability (FHWA HEC-15 permissible shear):")
+        print(table(stability_rows(stab, units)))
+        print(f"  Freeboard rule: {stab.freeboard_rule(units)}")
+        for note in stab.notes:
+            print(f"  Note: {note}")
+    for w in warnings:
         print(f"  Warning: {w}")
     return 0

@@ -278,6 +278,10 @@ class Lining:
     soil_data = property(lambda self: self.data.get("soil"))
     thickness_data = property(lambda self: self.data["thickness"])
 
+    def field_value(self, table: str, name: str):
+        """The value of ``table.name`` in this entry; InputError naming the field when it is not filled in."""
+        return self._need(table, name)
+
     def _need(self, table: str, name: str):
         t = self.data.get(table) or {}
         if t.get(name) is None:

@@ -49,7 +49,7 @@ __all__ = [
     "RE_LOW", "RE_HIGH", "BLODGETT_RANGE", "BATHURST_RANGE", "STONE_SIZE_RANGE", "STEEP_SLOPE",
     "MIN_FREEBOARD", "FINE_D75", "COARSE_D75", "design_shear", "blodgett_n", "bathurst_n", "bathurst_n_manning", "strickler_n",
     "shear_velocity", "particle_reynolds", "shields_and_safety_factor", "stone_permissible_shear",
-    "StoneSize", "required_d50", "side_slope_factor", "bend_factor", "bend_protection_length",
+    "StoneSize", "required_d50", "required_d50_for_shear", "side_slope_factor", "bend_factor", "bend_protection_length",
     "tractive_force_ratio", "required_d50_side", "steep_slope_safety_factor", "required_d50_steep",
     "stone_layer_thickness", "DENSITY_STIFFNESS", "COVER_FACTOR", "cover_factor",
     "grass_roughness_coefficient", "vegetation_n", "soil_grain_n", "noncohesive_permissible_shear",
@@ -702,6 +702,64 @@ def required_d50(depth, slope, gamma_stone=GAMMA_STONE, gamma_water=GAMMA_WATER,
     re = c * d50
     f, sf = _shields_sf(re)
     _stone_size_warning(d50)
+    return StoneSize(d50, f, sf, re)
+
+
+def required_d50_for_shear(design_shear_value, depth, slope, gamma_stone=GAMMA_STONE, gamma_water=GAMMA_WATER,
+                           nu=NU_HEC15):
+    r"""Smallest D50 whose permissible shear, with Table 6.1's safety factor, resists a given shear.
+
+    .. math:: F_* (\gamma_s - \gamma) D_{50} \ge SF\, \tau, \quad
+        F_*, SF \text{ from } Re_* = \sqrt{g d S}\, D_{50} / \nu
+
+    This is Eq. 6.8 with the bed shear gamma d S replaced by any design shear
+    tau (for instance K1 tau_d / K2 on a side slope, or Kb tau_d in a bend);
+    the particle Reynolds number keeps the shear velocity of the straight
+    channel at its maximum depth, as in Eq. 6.9.
+
+    Parameters
+    ----------
+    design_shear_value : float
+        Shear the stone must resist [Pa], > 0.
+    depth : float
+        Maximum flow depth d [m], > 0 (for Re*).
+    slope : float
+        Channel slope S [m/m] (for Re*).
+    gamma_stone, gamma_water : float
+        Specific weights [N/m^3].
+    nu : float
+        Kinematic viscosity [m^2/s] (1.131e-6 in HEC-15).
+
+    Returns
+    -------
+    StoneSize
+        (d50 [m], shields F*, safety_factor SF, reynolds Re*).
+
+    Notes
+    -----
+    With tau = gamma d S it equals :func:`required_d50`. In the flat parts
+    of Table 6.1 (F* and SF constant) the result is proportional to tau, so
+    a side-slope size K1/K2 times the bed size (HEC-15 Eq. 6.10) follows;
+    in the interpolation band the size is solved exactly for the stated
+    criterion instead. No range warning is issued: the caller words it.
+
+    References
+    ----------
+    HEC-15 Eq. 6.7 to 6.9 (verified), Table 6.1 (from memory).
+    """
+    tau = validate.positive("design_shear", design_shear_value)
+    d = validate.positive("depth", depth)
+    s = validate.slope(slope)
+    gw = validate.positive("gamma_water", gamma_water)
+    gs = validate.number("gamma_stone", gamma_stone, low=gw, hint=" (the stone must be heavier than water)")
+    v = validate.positive("nu", nu)
+    if _vec(tau, d, s):
+        raise InputError("design_shear", "must be a single value here")
+    k = tau / (gs - gw)
+    c = math.sqrt(G * d * s) / v
+    d50 = _required_d50_scalar(k, c)
+    re = c * d50
+    f, sf = _shields_sf(re)
     return StoneSize(d50, f, sf, re)
 
 

@@ -1,0 +1,89 @@
+"""`ditchwright compare`: the same channel and flow with several linings, one row each."""
+
+from __future__ import annotations
+
+from hydraulics import units as hu
+from hydraulics.errors import InputError
+from hydraulics.stability import check_lining, compare_linings
+
+from .common import CliError, add_channel_options, check_numbers, emit_json, require, section_from_args
+from .lining_args import add_lining_options, catalogue_from_args, choice_from_text, explain, lining_options_si
+
+HELP = "compare linings for one channel: depth, shear, safety factor, verdict, quantities and cost"
+
+COLUMNS = (
+    # header, row key, quantity, format
+    ("Lining", "lining", "", "s"), ("D50", "d50", "length", ".3f"), ("Depth", "depth", "length", ".3f"),
+    ("V", "velocity", "velocity", ".2f"), ("Fr", "froude", "", ".2f"), ("n", "manning_n", "", ".4f"),
+    ("Design shear", "design_shear", "shear", ".3g"), ("Permissible", "permissible_shear", "shear", ".3g"),
+    ("SF", "safety_factor", "", ".2f"), ("Verdict", "verdict", "", "s"), ("Governs", "governs", "", "s"),
+    ("Lined width", "lined_width", "length", ".2f"), ("Layer vol.", "layer_volume", "volume_per_length", ".3f"),
+    ("Cost", "cost_per_length", "cost_per_length", ".2f"),
+)
+
+
+def register(subparsers) -> None:
+    p = subparsers.add_parser("compare", help=HELP, description=HELP + " (FHWA HEC-15 permissible shear). "
+                              "Costs come only from unit costs in your --user-catalogue.")
+    add_channel_options(p)
+    add_lining_options(p, many=True)
+    p.add_argument("--json", action="store_true", help="print a JSON list of rows instead of a table")
+    p.set_defaults(run=run)
+
+
+def _cell(value, fmt):
+    if value is None:
+        return "-"
+    return format(value, fmt) if fmt != "s" else str(value)
+
+
+def render(rows: list[dict], units: hu.UnitSystem) -> str:
+    """The comparison as an aligned text table with units in the headers."""
+    heads = []
+    for head, _, quantity, _ in COLUMNS:
+        label = units.label(quantity) if quantity else ""
+        heads.append(f"{head} ({label})" if label else head)
+    cells = [[_cell(r[key], fmt) for _, key, _, fmt in COLUMNS] for r in rows]
+    widths = [max(len(h), *(len(c[i]) for c in cells)) for i, h in enumerate(heads)]
+    lines = ["  ".join(h.ljust(w) for h, w in zip(heads, widths))]
+    lines.append("  ".join("-" * w for w in widths))
+    lines += ["  ".join(c.ljust(w) for c, w in zip(row, widths)) for row in cells]
+    return "\n".join(lines)
+
+
+def run(args) -> int:
+    check_numbers(args)
+    units = hu.system(args.units)
+    if args.n is not None:
+        raise CliError("compare takes Manning's n from each lining; leave --n out")
+    if not args.lining:
+        raise CliError("--lining is required (give it once per lining to compare, e.g. --lining concrete "
+                       "--lining riprap:0.5)")
+    require(args, "flow", "slope")
+    choices = [choice_from_text(text, units) for text in args.lining]
+    catalogue = catalogue_from_args(args)
+    section = section_from_args(args)
+    flow = units.to_si("flow", args.flow)
+    options = lining_options_si(args, units)
+    try:
+        rows = compare_linings(section, flow, args.slope, choices, catalogue, **options)
+    except InputError as exc:
+        top = None
+        if exc.field == "bend_radius":
+            key, d50 = choices[0]
+            top = check_lining(section, flow, args.slope, catalogue.get(key), d50=d50).analysis.top_width
+        raise explain(exc, units, top) from None
+    data = [r.to_dict(units) for r in rows]
+    if args.json:
+        emit_json(data)
+        return 0
+    print(f"Linings for a {section.kind}, {args.flow:g} {units.label('flow')} on {args.slope:g} "
+          f"{units.label('slope')} (FHWA HEC-15 permissible shear):")
+    print(render(data, units))
+    for r in rows:
+        print(f"  {r.key}: {r.result.reason(units) if r.result is not None else r.reason}")
+        for w in r.warnings:
+            print(f"    Warning: {w}")
+    if all(d["cost_per_length"] is None for d in data):
+        print("  Cost: no unit costs set; add unit_cost to linings in a --user-catalogue file")
+    return 0

@@ -1,0 +1,212 @@
+"""Evaluate one project channel: design flow, uniform flow, lining stability, lining comparison.
+
+The one call the desktop window, the design sheet and the batch checker share::
+
+    from app.evaluate import evaluate_channel, load_default_catalogue
+    catalogue = load_default_catalogue(user_path)      # shipped + the user's own entries
+    design = evaluate_channel(channel, catalogue)      # an app.project.Channel
+    design.analysis.normal_depth, design.stability.reason(units), design.warnings
+
+Everything is SI (the project model is SI); convert at the edge with
+:mod:`hydraulics.units`. Bad input raises ``hydraulics.InputError`` naming the
+field; a channel that cannot carry its flow raises ``hydraulics.NoSolutionError``.
+No Qt here.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+
+import hydraulics as hy
+from hydraulics import rational, validate
+from hydraulics.linings import hec15
+from hydraulics.linings import Catalogue, load_catalogue
+from hydraulics.units import SI
+from hydraulics.stability import ComparisonRow, StabilityResult, check_lining, compare_linings
+
+from .project import Channel
+from .results import CHANNEL_FIELDS, convert
+
+__all__ = ["ChannelDesign", "evaluate_channel", "load_default_catalogue", "design_flow"]
+
+
+def load_default_catalogue(user_path=None) -> Catalogue:
+    """The shipped lining catalogue with the user's catalogue (a TOML file at ``user_path``) laid over it.
+
+    ``user_path`` is chosen by the application (for instance in the user's
+    settings folder); a path that does not exist yet simply adds nothing.
+    Errors in the user's file raise ``hydraulics.linings.CatalogueError``
+    (an InputError) naming the file, entry and field.
+    """
+    return load_catalogue(user_path=user_path)
+
+
+@dataclass
+class ChannelDesign:
+    """Everything evaluated for one channel (SI). Fields:
+
+    ``flow`` design discharge [m^3/s]; ``flow_method`` "typed" or "rational";
+    ``time_of_concentration`` Kirpich's t_c [s] when the flow path is given,
+    else None; ``section`` the built section; ``analysis`` the uniform-flow
+    state (:class:`hydraulics.ChannelResult`, with the lining's n when there is
+    a lining); ``stability`` the lining check or None without a lining;
+    ``freeboard``, ``superelevation``, ``total_depth``, ``top_width_at_top``
+    the ditch depth (from the lining check, or by the same rule without one);
+    ``comparison`` one row per lining (the channel's own lining first, then
+    its alternatives), empty without alternatives; ``warnings`` every caution,
+    in words, flow basis first; ``notes`` statements of method (sources,
+    rules applied).
+    """
+
+    channel: Channel
+    flow: float
+    flow_method: str
+    time_of_concentration: float | None
+    section: hy.Section
+    analysis: hy.ChannelResult
+    stability: StabilityResult | None
+    freeboard: float = 0.0                # [m] minimum plus any bend superelevation
+    superelevation: float | None = None   # [m], with a bend
+    total_depth: float = 0.0              # design depth plus freeboard [m]
+    top_width_at_top: float = 0.0         # width at the top of the ditch [m]
+    comparison: list = field(default_factory=list)   # ComparisonRow list
+    warnings: list = field(default_factory=list)
+    notes: list = field(default_factory=list)
+
+    @property
+    def stable(self) -> bool | None:
+        """The lining's verdict as a flag; None without a lining."""
+        return None if self.stability is None else self.stability.stable
+
+    def to_dict(self, units=SI) -> dict:
+        """JSON-friendly summary in ``units`` (a hydraulics.units.UnitSystem): the same keys as
+        ``ditchwright calc --json`` (uniform flow, ``lining``, ``stability``) plus ``channel``, ``flow_method``,
+        ``time_of_concentration`` [s], ``freeboard``, ``total_depth``, ``top_width_at_top``, ``comparison``
+        (rows as ``ditchwright compare --json``), ``warnings`` and ``notes``."""
+        L = lambda v: None if v is None else float(units.from_si("length", v))  # noqa: E731
+        out = {"channel": self.channel.name, "flow_method": self.flow_method,
+               "time_of_concentration": self.time_of_concentration}
+        out.update({f.key: convert(getattr(self.analysis, f.key), f.quantity, units) for f in CHANNEL_FIELDS})
+        out["flow"] = float(units.from_si("flow", self.flow))
+        if self.stability is not None:
+            st = self.stability
+            out["lining"] = {"key": st.lining_key, "name": st.lining_name, "n_used": st.manning_n,
+                             "n_relation": st.n_relation, "n_source": st.n_source, "d50": L(st.d50)}
+            out["stability"] = st.to_dict(units)
+        out.update({"freeboard": L(self.freeboard), "superelevation": L(self.superelevation),
+                    "total_depth": L(self.total_depth), "top_width_at_top": L(self.top_width_at_top),
+                    "comparison": [r.to_dict(units) for r in self.comparison],
+                    "units": {k: units.label(k) for k in ("length", "flow", "velocity", "area", "shear", "slope")},
+                    "warnings": list(self.warnings), "notes": list(self.notes)})
+        return out
+
+
+def design_flow(channel: Channel) -> tuple[float, float | None, list[str], list[str]]:
+    """(Q [m^3/s], Kirpich t_c [s] or None, warnings, notes) from the channel's flow basis."""
+    basis = channel.flow
+    if basis.method == "typed":
+        return float(validate.positive("flow.value", basis.value)), None, [], []
+    if basis.method != "rational":
+        raise hy.InputError("flow.method", f"must be 'typed' or 'rational', got {basis.method!r}")
+    q = rational.rational_flow(basis.runoff_coefficient, basis.intensity, basis.area)
+    warns = list(rational.rational_warnings(basis.area))
+    notes = [f"design flow by the rational method Q = C i A = {basis.runoff_coefficient:g} x "
+             f"{basis.intensity * 3.6e6:.4g} mm/h x {basis.area / 1e4:.4g} ha = {q:.4g} m^3/s "
+             "(FHWA HEC-22, 3rd ed., 2009, Eq. 3-1)"]
+    tc = None
+    if basis.flow_length is not None or basis.flow_path_slope is not None:
+        if basis.flow_length is None or basis.flow_path_slope is None:
+            missing = "flow.flow_length" if basis.flow_length is None else "flow.flow_path_slope"
+            raise hy.InputError(missing, "is missing: Kirpich's time of concentration needs both the flow-path "
+                                         "length and its slope")
+        tc = rational.kirpich_time(basis.flow_length, basis.flow_path_slope)
+        warns += rational.kirpich_warnings(basis.flow_path_slope, basis.area)
+        notes.append(f"time of concentration {tc / 60:.3g} min by Kirpich's formula (Kirpich 1940); the "
+                     "intensity should be read for this duration")
+    return q, tc, warns, notes
+
+
+def evaluate_channel(channel: Channel, catalogue: Catalogue | None = None) -> ChannelDesign:
+    """Design flow -> section -> uniform flow -> lining stability -> comparison, for one channel.
+
+    Parameters
+    ----------
+    channel : app.project.Channel
+        The channel (SI). With ``channel.lining`` its catalogue entry sets n
+        and is checked; without, ``channel.manning_n`` is used and there is no
+        stability check. ``bend_radius`` and ``min_freeboard`` are passed on;
+        ``alternatives`` are compared together with the channel's own lining.
+    catalogue : hydraulics.linings.Catalogue, optional
+        Where lining keys are looked up; default the shipped catalogue alone
+        (pass :func:`load_default_catalogue` with the user's file to include it).
+
+    Returns
+    -------
+    ChannelDesign
+
+    Notes
+    -----
+    With a lining, the lining's own roughness is used and
+    ``channel.manning_n`` is ignored (stated in ``notes``).
+    """
+    if not isinstance(channel, Channel):
+        raise hy.InputError("channel", f"must be an app.project.Channel, got {type(channel).__name__}")
+    q, tc, warns, notes = design_flow(channel)
+    section = channel.build_section()
+    min_fb = hec15.MIN_FREEBOARD if channel.min_freeboard is None else channel.min_freeboard
+    stability = None
+    comparison: list[ComparisonRow] = []
+    if channel.lining is not None:
+        if catalogue is None:
+            catalogue = load_default_catalogue()
+        lining = catalogue.get(channel.lining.key)
+        stability = check_lining(section, q, channel.slope, lining, d50=channel.lining.d50,
+                                 bend_radius=channel.bend_radius, min_freeboard=min_fb)
+        analysis = stability.analysis
+        warns += stability.warnings
+        notes += stability.notes + [f"freeboard: {stability.freeboard_rule()}"]
+        if channel.manning_n is not None:
+            notes.append(f"the lining's own n ({stability.manning_n:.4g}) is used; the channel's Manning's n "
+                         f"{channel.manning_n:g} applies only without a lining")
+    else:
+        if channel.manning_n is None:
+            raise hy.InputError("manning_n", "is missing: give Manning's n or choose a lining")
+        analysis = hy.analyse(section, q, channel.slope, channel.manning_n)
+        warns += analysis.warnings
+        notes.append("no lining chosen: uniform flow with the given Manning's n, no shear check")
+    if stability is not None:
+        fb, se, total, top = (stability.freeboard, stability.superelevation, stability.total_depth,
+                              stability.top_width_at_top)
+    else:
+        fb, se, total, top = _ditch_depth(section, analysis, channel.bend_radius, min_fb, warns, notes)
+    if channel.alternatives:
+        if catalogue is None:
+            catalogue = load_default_catalogue()
+        choices = ([channel.lining] if channel.lining is not None else []) + list(channel.alternatives)
+        comparison = compare_linings(section, q, channel.slope, choices, catalogue,
+                                     bend_radius=channel.bend_radius, min_freeboard=min_fb)
+    return ChannelDesign(channel=channel, flow=q, flow_method=channel.flow.method, time_of_concentration=tc,
+                         section=section, analysis=analysis, stability=stability, freeboard=fb,
+                         superelevation=se, total_depth=total, top_width_at_top=top, comparison=comparison,
+                         warnings=list(dict.fromkeys(warns)), notes=list(dict.fromkeys(notes)))
+
+
+def _ditch_depth(section, analysis, bend_radius, min_fb, warns, notes):
+    """Freeboard by the rule of :mod:`hydraulics.stability` for a channel without a lining."""
+    from hydraulics.stability import FREEBOARD_SOURCE, SUPERELEVATION_SOURCE
+    v, top = float(analysis.velocity), float(analysis.top_width)
+    rc = None if bend_radius is None else float(validate.positive("bend_radius", bend_radius))
+    if rc is not None and rc < top / 2:
+        raise hy.InputError("bend_radius", f"must be at least half the water-surface width ({top / 2:.3g} m), "
+                                           f"got {rc:g} m")
+    se = None if rc is None else float(hec15.superelevation(v, top, rc))
+    fb = float(hec15.freeboard(v, top, rc, minimum=min_fb))
+    total = float(analysis.normal_depth) + fb
+    depth_at_top = total
+    if section.full_depth is not None and total > float(section.full_depth):
+        depth_at_top = float(section.full_depth)
+        warns.append(f"the design depth plus freeboard ({total:.3g} m) is above the section's full depth "
+                     f"({float(section.full_depth):.3g} m): the {section.kind} is not deep enough for the freeboard")
+    notes.append(f"freeboard: minimum {min_fb:g} m ({FREEBOARD_SOURCE})"
+                 + ("" if se is None else f", plus {se:.3g} m {SUPERELEVATION_SOURCE}"))
+    return fb, se, total, float(section.top_width(depth_at_top))

@@ -1,0 +1,927 @@
+"""Lining stability by the permissible-shear-stress method, with freeboard and a lining comparison.
+
+Pure core (numpy, scipy, standard library), SI throughout. Main reference:
+Kilgore, R. T. and Cotton, G. K., *Design of Roadside Channels with Flexible
+Linings*, Hydraulic Engineering Circular No. 15, 3rd ed., FHWA-NHI-05-114,
+Federal Highway Administration, 2005 ("HEC-15"). The relations themselves are
+in :mod:`hydraulics.linings.hec15`, each with its equation number and whether
+it was verified in the text or is from memory; this module only strings them
+together in the order of HEC-15 Chapter 3:
+
+1. normal depth with the lining's own (often depth-dependent) n, a coupled
+   solve (:func:`hydraulics.analyse`);
+2. design shear at the maximum depth, tau_d = gamma d S (HEC-15 Eq. 3.1);
+   on each side slope K1 tau_d (HEC-15 Section 3.2); in a bend Kb tau_d with
+   Kb from Rc/T, and the length of protection downstream of the bend
+   (HEC-15 Section 3.4);
+3. permissible shear of the lining: stone by Eq. 6.7 with F* and the
+   safety factor from Table 6.1 at the particle Reynolds number, reduced on
+   side slopes by the tractive force ratio K2, or by the steep-slope method of
+   Appendix D on slopes steeper than ``hec15.STEEP_SLOPE``; grass from its soil
+   and cover (Chapter 4); bare soil (Chapter 4); rolled products from the
+   user's data-sheet value; rigid linings are treated as non-erodible;
+4. the lining is stable where permissible / design >= the required safety
+   factor at every location checked (HEC-15 Eq. 3.2, tau_p >= SF tau_d);
+5. for stone, the smallest stable D50 and the layer thickness;
+6. freeboard: a minimum plus the superelevation in a bend; total ditch depth
+   and the top width at the top of the ditch.
+
+The result keeps its numbers in SI and words its verdict on request in any
+unit system (:meth:`StabilityResult.reason`), so every front end prints the
+same sentence in its own units.
+
+Only single channels (scalar inputs) are checked here; batches loop over it.
+"""
+
+from __future__ import annotations
+
+import math
+import warnings
+from dataclasses import dataclass, field
+
+import numpy as np
+from scipy.optimize import brentq
+
+from . import validate
+from .analysis import NEAR_CRITICAL_BAND, ChannelResult, analyse
+from .constants import G, GAMMA_WATER
+from .errors import InputError, NoSolutionError
+from .linings import hec15
+from .linings.catalogue import Lining
+from .linings.hec15 import ValidityWarning
+from .linings.roughness import StoneRoughness, VegetationRoughness
+from .units import SI, UnitSystem
+
+__all__ = [
+    "SELF_CLEANING_VELOCITY", "SELF_CLEANING_SOURCE", "NEAR_CRITICAL_SOURCE", "FREEBOARD_SOURCE",
+    "SUPERELEVATION_SOURCE", "SUPERCRITICAL_BEND_SOURCE", "STEEP_SLOPE_SOURCE", "RIGID_NOTE", "FILTER_NOTE", "LINED_WIDTH_RULE",
+    "format_quantity", "ShearCheck", "StabilityResult", "ComparisonRow", "check_lining", "compare_linings", "parse_choice",
+]
+
+#: Mean velocity below which fine sediment tends to settle in a lined channel [m/s]:
+#: 0.6 m/s (2 ft/s), the low end of the "2 to 3 ft/s" Chow gives as a minimum
+#: permissible (non-silting) velocity where the water carries little silt.
+SELF_CLEANING_VELOCITY = 0.6096
+SELF_CLEANING_SOURCE = ("Chow (1959), Open-Channel Hydraulics, Sec. 7-3, minimum permissible velocity of 2 to 3 ft/s "
+                        "(0.6 to 0.9 m/s) (from memory); common practice, local manuals set their own value")
+NEAR_CRITICAL_SOURCE = "common practice, from memory; design manuals differ slightly on the limits"
+FREEBOARD_SOURCE = ("HEC-15 Section 2: about 0.15 m (0.5 ft) for small roadside channels (from memory); "
+                    "local design codes govern and may ask for more")
+SUPERELEVATION_SOURCE = "superelevation in the bend V^2 T / (g Rc), HEC-15 Section 3.4 (equation number from memory)"
+SUPERCRITICAL_BEND_SOURCE = "Chow (1959), Chapter 15, supercritical flow in curves (from memory)"
+STEEP_SLOPE_SOURCE = ("HEC-15 Section 3.5 and Appendix D: riprap on slopes steeper than 10 % is sized by the "
+                      "steep-slope (safety factor) method (threshold from memory)")
+RIGID_NOTE = ("rigid lining treated as non-erodible (common practice: the permissible-shear method of HEC-15 is "
+              "written for flexible linings); joints, uplift, abrasion by bed load and velocity limits are left "
+              "to local practice")
+FILTER_NOTE = ("place a granular filter or a geotextile beneath the stone unless the subgrade is graded to retain "
+               "itself against the stone (HEC-15 Section 6.4, from memory; common practice)")
+LINED_WIDTH_RULE = ("lining carried up the whole perimeter to the top of the ditch (design depth plus freeboard); "
+                    "common practice")
+
+
+def _fmt(value: float) -> str:
+    """Three significant figures, no exponent for ordinary values."""
+    if value == 0 or not math.isfinite(value):
+        return f"{value:g}"
+    digits = max(0, 2 - int(math.floor(math.log10(abs(value)))))
+    return f"{value:.{digits}f}"
+
+
+def format_quantity(value, quantity: str, units: UnitSystem = SI) -> str:
+    """A SI value in ``units`` to three significant figures with its label, e.g. '1.40 lb/ft^2'."""
+    v = units.from_si(quantity, value)
+    label = units.label(quantity)
+    return f"{_fmt(float(v))} {label}".rstrip()
+
+
+@dataclass(frozen=True)
+class ShearCheck:
+    """One place where the lining's shear is checked (SI).
+
+    ``permissible_shear`` is the shear at incipient motion of the lining
+    there (None for a rigid lining); the lining holds where
+    ``safety_factor`` >= ``required_safety_factor``. For the steep-slope
+    method (``method`` "appendix_d") ``safety_factor`` is the Appendix D
+    moment ratio and ``permissible_shear`` the side shear at which it is 1.
+    """
+
+    location: str                 # "bed" | "side slopes" | "left side slope" | "right side slope" | "bend"
+    design_shear: float           # [Pa]
+    permissible_shear: float | None  # [Pa]; None: non-erodible
+    required_safety_factor: float  # [-]
+    safety_factor: float | None   # [-]; None: non-erodible
+    passes: bool
+    factor: str = ""              # how the design shear was found, e.g. "K1 = 0.87 (Z = 3)"
+    method: str = ""              # "eq_6_7" | "k2" | "appendix_d" | "vegetation" | "soil" | "value" | "none"
+    side_slope: float | None = None   # Z of the side checked [H:V]
+    cannot_rest: bool = False     # stone on a side steeper than its angle of repose
+
+    @property
+    def margin(self) -> float:
+        """safety_factor / required_safety_factor (inf for non-erodible); below 1 fails."""
+        if self.safety_factor is None:
+            return math.inf
+        return self.safety_factor / self.required_safety_factor
+
+    def words(self, units: UnitSystem = SI) -> str:
+        """"side slopes: 1.4 lb/ft^2 against 1.1 lb/ft^2 permissible (safety factor 0.79, 1.00 needed)"."""
+        if self.cannot_rest:
+            what = "vertical walls" if self.side_slope == 0 else f"a {self.side_slope:g}:1 slope"
+            return (f"{self.location}: {what} as steep as or steeper than the stone's angle of repose; "
+                    "stone cannot rest there")
+        if self.permissible_shear is None:
+            return f"{self.location}: {format_quantity(self.design_shear, 'shear', units)}, non-erodible lining"
+        kind = "Appendix D safety factor" if self.method == "appendix_d" else "safety factor"
+        return (f"{self.location}: {format_quantity(self.design_shear, 'shear', units)} against "
+                f"{format_quantity(self.permissible_shear, 'shear', units)} permissible "
+                f"({kind} {self.safety_factor:.2f}, {self.required_safety_factor:.2f} needed)")
+
+
+@dataclass
+class StabilityResult:
+    """Stability of one lining in one channel (SI). Build it with :func:`check_lining`.
+
+    Shear fields: ``bed_shear`` (HEC-15 Eq. 3.1), ``side_shear`` (largest
+    K1 tau_d of the sides, None without side slopes), ``bend_shear`` (None
+    without a bend), ``permissible_shear`` (on the bed; None for rigid
+    linings), ``permissible_shear_side`` (on the governing side slope where
+    it differs from the bed, i.e. stone; else None), ``safety_factor`` (the
+    lowest permissible/design ratio, or the Appendix D factor, over the
+    checks), ``required_safety_factor`` (on the bed).
+
+    Stone: ``required_d50`` is the smallest stable D50 for the flow, over
+    every check: HEC-15's trial procedure (D50 -> depth and n -> required
+    D50 by Eq. 6.8 with F* and SF from Re*) repeated until it settles, so a
+    stone of that size, checked again, has ``safety_factor`` equal to the
+    required one; ``required_d50_bed``, ``_side``, ``_bend`` are the parts at
+    that state and ``required_d50_depth`` its depth.
+    """
+
+    lining_key: str
+    lining_name: str
+    category: str
+    d50: float | None             # stone size checked [m]
+    manning_n: float              # n at the design flow
+    n_relation: str               # "constant" | "blodgett" | "bathurst" | "held" | "transition" | "strickler" | "vegetation" | "soil" | "override"
+    n_source: str                 # the relation in words, with its source
+    analysis: ChannelResult
+    depth: float                  # normal depth = maximum depth d [m]
+    velocity: float
+    froude: float
+    bed_shear: float
+    side_shear: float | None
+    side_slope_factor: float | None    # K1 of the governing side
+    bend_radius: float | None
+    bend_factor: float | None          # Kb
+    bend_shear: float | None
+    bend_protection_length: float | None  # Lp [m] downstream of the bend
+    permissible_shear: float | None
+    permissible_shear_side: float | None
+    permissible_source: str
+    required_safety_factor: float
+    safety_factor: float | None
+    stable: bool
+    governs: str                  # location of the governing check, or "non-erodible"
+    checks: list                  # ShearCheck list
+    reynolds: float | None        # particle Reynolds number Re* (stone)
+    shields: float | None         # F* (stone)
+    required_d50: float | None    # smallest stable D50 over every check [m] (stone)
+    required_d50_bed: float | None
+    required_d50_side: float | None
+    required_d50_bend: float | None
+    required_d50_method: str | None   # "eq_6_8" | "appendix_d" (side slopes of a steep channel)
+    required_d50_depth: float | None  # normal depth [m] with stone of the required size
+    layer_thickness: float | None     # [m], by the catalogue rule at the D50 checked
+    thickness_rule: str
+    filter_note: str | None
+    min_freeboard: float
+    superelevation: float | None
+    freeboard: float
+    total_depth: float
+    top_width_at_top: float
+    lined_width: float            # lined perimeter per unit length [m^2/m = m]
+    layer_volume: float | None    # [m^3/m]
+    unit_cost: float | None       # the user's price per unit_cost_basis (SI)
+    unit_cost_basis: str
+    cost_per_length: float | None  # [$/m]; None without a unit cost
+    notes: list = field(default_factory=list)
+    warnings: list = field(default_factory=list)
+
+    @property
+    def verdict(self) -> str:
+        """"stable", "not stable" or "non-erodible" (rigid linings)."""
+        if self.permissible_shear is None and self.category == "rigid":
+            return "non-erodible"
+        return "stable" if self.stable else "not stable"
+
+    def governing_check(self) -> ShearCheck | None:
+        worst = None
+        for c in self.checks:
+            if worst is None or c.margin < worst.margin:
+                worst = c
+        return worst
+
+    def reason(self, units: UnitSystem = SI) -> str:
+        """The verdict and why, in words, in ``units`` (a :class:`hydraulics.units.UnitSystem`)."""
+        if self.verdict == "non-erodible":
+            return f"non-erodible: {self.lining_name} is a rigid lining, not checked for shear (common practice)"
+        c = self.governing_check()
+        text = f"{self.verdict}, {c.words(units)}"
+        if self.required_d50 is not None and self.d50 is not None:
+            text += (f"; smallest stable D50 {format_quantity(self.required_d50, 'length', units)} "
+                     f"(given {format_quantity(self.d50, 'length', units)})")
+        return text
+
+    def freeboard_rule(self, units: UnitSystem = SI) -> str:
+        """The freeboard rule applied, in words, with its source."""
+        text = f"minimum freeboard {format_quantity(self.min_freeboard, 'length', units)} ({FREEBOARD_SOURCE})"
+        if self.superelevation is not None:
+            text += f", plus {format_quantity(self.superelevation, 'length', units)} {SUPERELEVATION_SOURCE}"
+        return text
+
+    def to_dict(self, units: UnitSystem = SI) -> dict:
+        """JSON-friendly summary in ``units`` (numbers converted; words as they are)."""
+        L = lambda v: None if v is None else float(units.from_si("length", v))  # noqa: E731
+        T = lambda v: None if v is None else float(units.from_si("shear", v))  # noqa: E731
+        cost = None if self.cost_per_length is None else float(units.from_si("cost_per_length", self.cost_per_length))
+        out = {
+            "bed_shear": T(self.bed_shear), "side_shear": T(self.side_shear),
+            "permissible_shear": T(self.permissible_shear), "permissible_shear_side": T(self.permissible_shear_side),
+            "safety_factor": self.safety_factor, "required_safety_factor": self.required_safety_factor,
+            "stable": bool(self.stable), "verdict": self.verdict, "governs": self.governs,
+            "reason": self.reason(units),
+            "freeboard": L(self.freeboard), "freeboard_rule": self.freeboard_rule(units),
+            "total_depth": L(self.total_depth), "top_width_at_top": L(self.top_width_at_top),
+            "lined_width": L(self.lined_width),
+            "layer_volume": None if self.layer_volume is None else float(units.from_si("volume_per_length",
+                                                                                      self.layer_volume)),
+            "cost_per_length": cost,
+            "checks": [{"location": c.location, "design_shear": T(c.design_shear),
+                        "permissible_shear": T(c.permissible_shear), "safety_factor": c.safety_factor,
+                        "required_safety_factor": c.required_safety_factor, "passes": bool(c.passes),
+                        "factor": c.factor} for c in self.checks],
+            "notes": list(self.notes),
+        }
+        if self.bend_radius is not None:
+            out.update({"bend_shear": T(self.bend_shear), "bend_factor": self.bend_factor,
+                        "bend_protection_length": L(self.bend_protection_length),
+                        "superelevation": L(self.superelevation)})
+        if self.category == "stone":
+            out.update({"d50": L(self.d50), "required_d50": L(self.required_d50),
+                        "required_d50_bed": L(self.required_d50_bed), "required_d50_side": L(self.required_d50_side),
+                        "required_d50_bend": L(self.required_d50_bend), "required_d50_method": self.required_d50_method,
+                        "required_d50_depth": L(self.required_d50_depth),
+                        "particle_reynolds": self.reynolds, "shields": self.shields,
+                        "layer_thickness": L(self.layer_thickness), "filter_note": self.filter_note})
+        elif self.layer_thickness is not None:
+            out["layer_thickness"] = L(self.layer_thickness)
+        return out
+
+
+# --------------------------------------------------------------------------
+# helpers
+# --------------------------------------------------------------------------
+
+_RELATION_WORDS = {
+    "blodgett": "Blodgett's relation, HEC-15 Eq. 6.1",
+    "bathurst": "Bathurst's relation, HEC-15 Eq. 6.2",
+    "held": "Bathurst's relation held at its lowest usable depth (a rule of this program; see the warnings)",
+    "transition": "between Bathurst's and Blodgett's relations at da/D50 = 1.5 (a rule of this program; see the "
+                  "warnings)",
+    "strickler": "Strickler's relation n = 0.034 D50^(1/6), D50 in ft (Chow 1959)",
+}
+
+
+def _dedupe(items):
+    return list(dict.fromkeys(i for i in items if i))
+
+
+def _sides(section):
+    """[(label, Z)] of the side slopes to check, or [] for shapes without straight sides."""
+    zs = section.side_slopes
+    if zs is None:
+        return []
+    z1, z2 = float(zs[0]), float(zs[1])
+    if z1 == z2:
+        return [("side slopes", z1)]
+    return [("left side slope", z1), ("right side slope", z2)]
+
+
+def _steep_incipient_shear(d50, theta, alpha, phi, shields, gs, gw):
+    """Side shear [Pa] at which the Appendix D safety factor of this stone is 1."""
+    def f(tau):
+        return hec15._steep_sf(d50, tau, theta, alpha, phi, shields, gs, gw) - 1.0
+    lo = 1e-9 * shields * (gs - gw) * d50
+    hi = shields * (gs - gw) * d50
+    for _ in range(200):
+        if f(hi) < 0:
+            break
+        hi *= 2.0
+    else:  # pragma: no cover - the factor falls to 0 with the shear
+        raise NoSolutionError("steep-slope method: no incipient-motion shear found")
+    if f(lo) <= 0:  # the bank alone is at its limit
+        return 0.0
+    return brentq(f, lo, hi, xtol=1e-12 * hi, rtol=1e-12, maxiter=200)
+
+
+def _lined_perimeter(section, depth):
+    """Boundary length [m] from the invert up to ``depth`` (the lining's width per unit length)."""
+    return float(section.wetted_perimeter(depth))
+
+
+def _roughness_text(lining: Lining, relation: str) -> str:
+    src = lining.roughness_data.get("source", "")
+    if relation in _RELATION_WORDS:
+        return _RELATION_WORDS[relation]
+    if relation == "vegetation":
+        return f"grass, n = Cn (gamma R S)^-0.4 ({src})"
+    if relation == "soil":
+        return f"soil grain roughness ns ({src})"
+    return f"constant n ({src})"
+
+
+# --------------------------------------------------------------------------
+# the check
+# --------------------------------------------------------------------------
+
+def check_lining(section, flow, slope, lining: Lining, d50=None, bend_radius=None,
+                 min_freeboard=hec15.MIN_FREEBOARD, *, n=None, min_safety_factor=1.0,
+                 min_velocity=SELF_CLEANING_VELOCITY) -> StabilityResult:
+    r"""Check one lining in one channel by HEC-15's permissible-shear method.
+
+    .. math::
+        \tau_d = \gamma d S \ \text{(Eq. 3.1)}, \quad \tau_s = K_1 \tau_d, \quad \tau_b = K_b \tau_d,
+        \quad \text{stable where } \tau_p \ge SF\, \tau
+
+    Parameters
+    ----------
+    section : hydraulics.Section
+        Channel cross-section (SI).
+    flow : float
+        Design discharge Q [m^3/s], > 0.
+    slope : float
+        Bed slope S [m/m].
+    lining : hydraulics.linings.Lining
+        A catalogue entry (``Catalogue.get(key)``).
+    d50 : float, optional
+        Stone size D50 [m] for stone linings (default: the entry's own);
+        refused for other linings.
+    bend_radius : float, optional
+        Centre-line radius Rc of the sharpest bend [m], >= half the water
+        surface width; None for a straight reach.
+    min_freeboard : float
+        Minimum freeboard [m], >= 0 (default 0.15 m, see ``FREEBOARD_SOURCE``).
+    n : float, optional
+        A constant Manning's n that replaces the lining's own roughness
+        (stated in the result).
+    min_safety_factor : float
+        Safety factor required of non-stone linings [-], >= 1 (HEC-15 Eq. 3.2
+        leaves it to the designer; 1.0 by default). Stone uses the larger of
+        this and Table 6.1's value.
+    min_velocity : float
+        Velocity below which the channel is reported as not self-cleaning
+        [m/s] (default ``SELF_CLEANING_VELOCITY``, see its source).
+
+    Returns
+    -------
+    StabilityResult
+
+    Raises
+    ------
+    InputError
+        A bad input, naming the field; also a user-data catalogue entry whose
+        values have not been filled in (the field is named).
+    NoSolutionError
+        No normal depth (for instance a pipe that cannot carry the flow).
+
+    Notes
+    -----
+    Results outside a relation's range of validity are kept and reported in
+    ``warnings``, in words. The stone side-slope check uses K2 (HEC-15
+    Section 3.2 and 6.3.2, from memory) on mild slopes and Appendix D on
+    slopes steeper than ``hec15.STEEP_SLOPE``. Shapes without straight
+    sides (parabola, pipe, surveyed section) are checked on the bed and in
+    the bend only. The bend check applies Kb to the bed shear; it is not
+    combined with the side-slope factor.
+
+    References
+    ----------
+    HEC-15 Chapters 3, 4 and 6 and Appendix D (see :mod:`hydraulics.linings.hec15`).
+    """
+    if not isinstance(lining, Lining):
+        raise InputError("lining", f"must be a catalogue lining (Catalogue.get(key)), got {type(lining).__name__}")
+    for name, value in (("flow", flow), ("slope", slope)):
+        if np.ndim(value):
+            raise InputError(name, "must be a single value for a lining check")
+    q = float(validate.positive("flow", flow))
+    s = float(validate.slope(slope))
+    fb_min = float(validate.non_negative("min_freeboard", min_freeboard))
+    sf_min = float(validate.number("min_safety_factor", min_safety_factor, low=1.0, low_inclusive=True))
+    v_min = float(validate.non_negative("min_velocity", min_velocity))
+    rc = None if bend_radius is None else float(validate.positive("bend_radius", bend_radius))
+
+    with warnings.catch_warnings(record=True) as caught:
+        warnings.simplefilter("always", ValidityWarning)
+        result = _check(section, q, s, lining, d50, rc, fb_min, n, sf_min, v_min)
+    extra = []
+    for w in caught:
+        if issubclass(w.category, ValidityWarning):
+            extra.append(str(w.message))
+        else:  # pragma: no cover - not ours: pass it on
+            warnings.warn_explicit(w.message, w.category, w.filename, w.lineno)
+    result.warnings = _dedupe(result.warnings + extra)
+    return result
+
+
+def _check(section, q, s, lining, d50, rc, fb_min, n_override, sf_min, v_min) -> StabilityResult:
+    category = lining.category
+    notes, warn = [], []
+    stone = category == "stone"
+    d = lining._d50(d50) if (stone or d50 is not None) else None  # refuses a D50 for a lining that is not stone
+
+    # -- roughness and the coupled normal-depth solve ----------------------
+    if n_override is not None:
+        rough = float(validate.number("n", n_override, low=0.0, high=1.0))
+        relation, n_text = "override", f"constant n = {rough:g} given in place of the lining's own roughness"
+        notes.append(f"Manning's n {rough:g} was given in place of the lining's own relation")
+    else:
+        rough = lining.roughness(d)
+        relation = None
+    res = analyse(section, q, s, rough)
+    y, v, fr = float(res.normal_depth), float(res.velocity), float(res.froude)
+    top = float(res.top_width)
+    n_used = float(res.manning_n)
+    if relation is None:
+        if isinstance(rough, StoneRoughness):
+            relation = rough.relation(section, y, s)
+        elif isinstance(rough, VegetationRoughness):
+            relation = "vegetation"
+        elif lining.roughness_data["model"] == "soil":
+            relation = "soil"
+        else:
+            relation = "constant"
+        n_text = _roughness_text(lining, relation)
+    if hasattr(rough, "check"):
+        warn += rough.check(section, y, s)
+
+    lo, hi = NEAR_CRITICAL_BAND
+    for w in res.warnings:
+        if "near critical" not in w:
+            warn.append(w)
+    if lo <= fr <= hi:
+        warn.append(f"Froude number {fr:.2f} is near critical (band {lo:g} to {hi:g}; {NEAR_CRITICAL_SOURCE}): "
+                    "the water surface will be unstable and wavy; allow extra freeboard or change the slope or "
+                    "section")
+    if v < v_min:
+        warn.append(f"velocity {v:.2f} m/s ({v / 0.3048:.2f} ft/s) is below {v_min:.2f} m/s "
+                    f"({v_min / 0.3048:.1f} ft/s), so silt may settle in the channel ({SELF_CLEANING_SOURCE})")
+
+    if rc is not None and rc < top / 2:
+        raise InputError("bend_radius", f"must be at least half the water-surface width ({top / 2:.3g} m), "
+                                        f"got {rc:g} m: the inner bank would lie beyond the bend's centre")
+
+    # -- design shear ---------------------------------------------------------
+    tau_d = float(hec15.design_shear(y, s))
+    sides = [(label, z, float(hec15.side_slope_factor(z))) for label, z in _sides(section)]
+    if not sides:
+        notes.append(f"no side-slope check for a {section.kind} section (the side-slope factor K1 of HEC-15 "
+                     "applies to straight side slopes)")
+    kb = tau_b = lp = None
+    if rc is not None:
+        kb = float(hec15.bend_factor(rc, top))
+        tau_b = kb * tau_d
+        lp = float(hec15.bend_protection_length(float(res.hydraulic_radius), n_used))
+
+    # -- permissible shear and the checks ------------------------------------
+    method = lining.permissible_data["method"]
+    permissible_source = lining.permissible_data.get("source", "")
+    checks: list[ShearCheck] = []
+    reynolds = shields = None
+    req = {"bed": None, "side": None, "bend": None}
+    req_method = req_depth = None
+    tau_p_side_gov = None
+
+    def plain(location, design, permissible, required, factor="", how=method, z=None):
+        sf = permissible / design if design > 0 else math.inf
+        checks.append(ShearCheck(location, design, permissible, required, sf, sf >= required, factor, how, z))
+
+    if method == "none":
+        notes.append(RIGID_NOTE)
+        checks.append(ShearCheck("bed", tau_d, None, 1.0, None, True, "HEC-15 Eq. 3.1", "none"))
+        for label, z, k1 in sides:
+            checks.append(ShearCheck(label, k1 * tau_d, None, 1.0, None, True, f"K1 = {k1:.3f} (Z = {z:g})", "none", z))
+        if rc is not None:
+            checks.append(ShearCheck("bend", tau_b, None, 1.0, None, True, f"Kb = {kb:.3f} (Rc/T = {rc / top:.3g})",
+                                     "none"))
+        tau_p, sf_req = None, 1.0
+    elif method == "shields":
+        gs, phi = float(lining.specific_weight), float(lining.angle_of_repose)
+        reynolds = float(hec15.particle_reynolds(y, s, d))
+        shields, sf_table = (float(x) for x in hec15.shields_and_safety_factor(reynolds))
+        sf_req = max(sf_table, sf_min)
+        tau_p = float(hec15.stone_permissible_shear(d, shields, gs))
+        plain("bed", tau_d, tau_p, sf_req, "HEC-15 Eq. 3.1", "eq_6_7")
+        steep = s > hec15.STEEP_SLOPE
+        for label, z, k1 in sides:
+            theta = math.atan(1.0 / z) if z > 0 else math.pi / 2
+            if theta >= math.radians(phi):
+                checks.append(ShearCheck(label, k1 * tau_d, 0.0, sf_req, 0.0, False, f"K1 = {k1:.3f} (Z = {z:g})",
+                                         "k2", z, cannot_rest=True))
+                continue
+            if steep:
+                sf_d = hec15.steep_slope_safety_factor(d, y, s, z, phi, shields, gs)
+                tau_inc = _steep_incipient_shear(d, theta, math.atan(s), math.radians(phi), shields, gs, GAMMA_WATER)
+                checks.append(ShearCheck(label, k1 * tau_d, tau_inc, sf_req, sf_d, sf_d >= sf_req,
+                                         f"K1 = {k1:.3f} (Z = {z:g}); HEC-15 Appendix D", "appendix_d", z))
+            else:
+                k2 = float(hec15.tractive_force_ratio(z, phi))
+                plain(label, k1 * tau_d, k2 * tau_p, sf_req, f"K1 = {k1:.3f}, K2 = {k2:.3f} (Z = {z:g})", "k2", z)
+        if rc is not None:
+            plain("bend", tau_b, tau_p, sf_req, f"Kb = {kb:.3f} (Rc/T = {rc / top:.3g})", "eq_6_7")
+        # smallest stable sizes: HEC-15's trial procedure (size -> depth -> required size) to a fixed point
+        req, req_method, req_depth, converged, at_jump = _required_stone(
+            section, q, s, lining, rough if n_override is not None else None, sides, rc, gs, phi, sf_min, d)
+        if not converged:
+            warn.append("the smallest stable D50 did not settle (the size and the depth it gives keep changing); "
+                        "the value shown is the last trial: check it by hand")
+        if at_jump:
+            warn.append("the smallest stable D50 lies where the stone's n changes from Blodgett's relation to "
+                        "Bathurst's (da/D50 near 1.5, HEC-15 Section 6.1) and the depth changes abruptly: a "
+                        "slightly smaller stone gives deeper flow and fails; check the size by hand")
+        if steep:
+            notes.append(f"slope {s:g} is steeper than {hec15.STEEP_SLOPE:g}: the side slopes are checked by the "
+                         f"steep-slope method ({STEEP_SLOPE_SOURCE})")
+        notes.append(FILTER_NOTE)
+    elif method == "vegetation":
+        tp_soil = float(lining.soil_permissible_shear())
+        ns = float(lining.soil_grain_n())
+        cf = float(lining.cover_factor())
+        tau_p = float(hec15.vegetation_permissible_shear(tp_soil, cf, n_used, ns))
+        sf_req = sf_min
+        notes.append(f"grass on soil: soil permissible shear {tp_soil:.3g} Pa, cover factor {cf:g}, soil grain n "
+                     f"{ns:.3g}, lining n {n_used:.3g} ({permissible_source})")
+        plain("bed", tau_d, tau_p, sf_req, "HEC-15 Eq. 3.1")
+        for label, z, k1 in sides:
+            plain(label, k1 * tau_d, tau_p, sf_req, f"K1 = {k1:.3f} (Z = {z:g})", z=z)
+        if rc is not None:
+            plain("bend", tau_b, tau_p, sf_req, f"Kb = {kb:.3f} (Rc/T = {rc / top:.3g})")
+    else:  # "soil" or "value"
+        if method == "soil":
+            tau_p = float(lining.soil_permissible_shear())
+        else:
+            tau_p = float(validate.positive(f"lining {lining.key!r} permissible.shear",
+                                            lining.field_value("permissible", "shear")))
+            if lining.user_data:
+                notes.append(f"permissible shear {tau_p:.3g} Pa and n are user data ({permissible_source})")
+        sf_req = sf_min
+        plain("bed", tau_d, tau_p, sf_req, "HEC-15 Eq. 3.1")
+        for label, z, k1 in sides:
+            plain(label, k1 * tau_d, tau_p, sf_req, f"K1 = {k1:.3f} (Z = {z:g})", z=z)
+        if rc is not None:
+            plain("bend", tau_b, tau_p, sf_req, f"Kb = {kb:.3f} (Rc/T = {rc / top:.3g})")
+
+    rigid = method == "none"
+    stable = all(c.passes for c in checks)
+    gov = min(checks, key=lambda c: c.margin)
+    governs = "non-erodible" if rigid else gov.location
+    side_checks = [c for c in checks if c.side_slope is not None]
+    side_gov = min(side_checks, key=lambda c: c.margin) if side_checks else None
+    if stone and side_gov is not None:
+        tau_p_side_gov = side_gov.permissible_shear
+    safety = None if rigid else gov.safety_factor
+
+    # -- stone sizes and layer --------------------------------------------------
+    required = None
+    if stone:
+        sizes = [x for x in req.values() if x is not None]
+        # rounded up by a relative 1e-7 so that the size passes its own check despite floating-point rounding
+        required = max(sizes) * (1.0 + 1e-7)
+        if math.isinf(required):
+            required = None
+            warn.append("no stone size is stable on these side slopes (as steep as or steeper than the stone's "
+                        "angle of repose, or beyond the steep-slope method); flatten the side slopes")
+        else:
+            lo_d, hi_d = hec15.STONE_SIZE_RANGE
+            if required > hi_d:
+                warn.append(f"the smallest stable D50, {required * 1000:.0f} mm, is above {hi_d * 1000:g} mm, the "
+                            "largest size HEC-15 Chapter 6 covers")
+            elif required < lo_d:
+                notes.append(f"the smallest stable D50, {required * 1000:.3g} mm, is below {lo_d * 1000:g} mm, the "
+                             "smallest size HEC-15 Chapter 6 covers; use at least that")
+    req = {k: (None if (x is None or math.isinf(x)) else x) for k, x in req.items()}
+    # the user's D50 (None: the entry's own, with its D100 where the catalogue gives one)
+    thickness = lining.layer_thickness(d50) if lining.thickness_data["rule"] == "stone" else lining.layer_thickness()
+    thickness = None if thickness is None else float(thickness)
+    thickness_rule = lining.thickness_data.get("source", "")
+
+    # -- freeboard, ditch depth and quantities ------------------------------
+    superelev = None if rc is None else float(hec15.superelevation(v, top, rc))
+    if rc is not None and fr > 1.0:
+        warn.append(f"supercritical flow (Froude number {fr:.2f}) in a bend forms cross waves whose crests can "
+                    f"rise above the superelevation estimate ({SUPERCRITICAL_BEND_SOURCE}); allow more freeboard "
+                    "or avoid the bend")
+    fb = float(hec15.freeboard(v, top, rc, minimum=fb_min))
+    total = y + fb
+    top_depth = total
+    full = section.full_depth
+    if full is not None and total > float(full):
+        top_depth = float(full)
+        warn.append(f"the design depth plus freeboard ({total:.3g} m) is above the section's full depth "
+                    f"({float(full):.3g} m): the {section.kind} is not deep enough for the freeboard")
+    top_width_at_top = float(section.top_width(top_depth))
+    lined = _lined_perimeter(section, top_depth)
+    notes.append(LINED_WIDTH_RULE)
+    volume = None if thickness is None else lined * thickness
+    cost = None
+    if lining.unit_cost is not None:
+        if lining.unit_cost_basis == "area":
+            cost = float(lining.unit_cost) * lined
+        elif volume is not None:
+            cost = float(lining.unit_cost) * volume
+        else:
+            notes.append("the unit cost is per volume but the lining has no layer thickness: no cost per length")
+
+    return StabilityResult(
+        lining_key=lining.key, lining_name=lining.name, category=category, d50=d, manning_n=n_used,
+        n_relation=relation, n_source=n_text, analysis=res, depth=y, velocity=v, froude=fr, bed_shear=tau_d,
+        side_shear=max((k1 * tau_d for _, _, k1 in sides), default=None),
+        side_slope_factor=None if not sides else max(k1 for _, _, k1 in sides),
+        bend_radius=rc, bend_factor=kb, bend_shear=tau_b, bend_protection_length=lp,
+        permissible_shear=tau_p, permissible_shear_side=tau_p_side_gov, permissible_source=permissible_source,
+        required_safety_factor=sf_req, safety_factor=safety, stable=stable, governs=governs, checks=checks,
+        reynolds=reynolds, shields=shields, required_d50=required, required_d50_bed=req["bed"],
+        required_d50_side=req["side"], required_d50_bend=req["bend"],
+        required_d50_method=req_method if stone else None, required_d50_depth=req_depth if stone else None,
+        layer_thickness=thickness, thickness_rule=thickness_rule,
+        filter_note=FILTER_NOTE if stone else None, min_freeboard=fb_min, superelevation=superelev, freeboard=fb,
+        total_depth=total, top_width_at_top=top_width_at_top, lined_width=lined, layer_volume=volume,
+        unit_cost=None if lining.unit_cost is None else float(lining.unit_cost),
+        unit_cost_basis=lining.unit_cost_basis, cost_per_length=cost, notes=_dedupe(notes), warnings=_dedupe(warn))
+
+
+def _stone_sizes_at(y, top, s, sides, rc, gs, phi, sf_min):
+    """{"bed", "side", "bend"} smallest stable D50 [m] at depth ``y`` (inf: none), and the method used."""
+    tau_d = GAMMA_WATER * y * s
+    out = {"bed": _size(tau_d, y, s, gs, sf_min), "side": None, "bend": None}
+    method = "eq_6_8"
+    steep = s > hec15.STEEP_SLOPE
+    side_sizes = []
+    for _, z, k1 in sides:
+        theta = math.atan(1.0 / z) if z > 0 else math.pi / 2
+        if theta >= math.radians(phi):
+            side_sizes.append(math.inf)
+        elif steep:
+            method = "appendix_d"
+            try:
+                side_sizes.append(_steep_size(y, s, z, phi, gs, sf_min))
+            except NoSolutionError:
+                side_sizes.append(math.inf)
+        else:
+            k2 = float(hec15.tractive_force_ratio(z, phi))
+            side_sizes.append(_size(k1 * tau_d / k2, y, s, gs, sf_min))
+    if side_sizes:
+        out["side"] = max(side_sizes)
+    if rc is not None:
+        out["bend"] = _size(float(hec15.bend_factor(rc, top)) * tau_d, y, s, gs, sf_min)
+    return out, method
+
+
+def _required_stone(section, q, s, lining, n_fixed, sides, rc, gs, phi, sf_min, d_start, max_iter=40):
+    """Smallest stable D50 for the flow: HEC-15's trial procedure carried to convergence.
+
+    The trial procedure of HEC-15 Chapter 6 (assume D50, find the depth and
+    n, find the D50 required, repeat) is the fixed-point iteration
+    D -> req(D). Larger stone is rougher, so the flow runs deeper, but the
+    required size grows much more slowly than D50 itself and the iteration
+    contracts (stops at a relative change of 1e-10). Where the roughness
+    changes from Blodgett's relation to Bathurst's (da/D50 = 1.5) the depth
+    can jump as D50 passes the switch and there may be no fixed point: the
+    iterates then alternate about the jump, and the smallest stable size
+    (D >= req(D)) is found by bisection between them. Returns
+    (sizes, method, depth, converged, at_jump).
+    """
+    from .solvers import normal_depth
+
+    def depth(dd):
+        if n_fixed is not None:
+            return float(normal_depth(section, q, s, n_fixed))
+        # A trial size is only a step of the search: where the solver cannot settle on a depth (the
+        # conveyance of the "auto" stone n is not monotone just above da/D50 = 1.5), nudge the trial.
+        for nudge in (1.0, 1.0 + 1e-6, 1.0 + 1e-4, 1.0 - 1e-4, 1.0 + 1e-3):
+            try:
+                return float(normal_depth(section, q, s, lining.roughness(dd * nudge)))
+            except NoSolutionError as exc:
+                last = exc
+        raise NoSolutionError(f"sizing the stone: no normal depth with a trial D50 of {dd * 1000:.4g} mm ({last})")
+
+    def state(dd):
+        y = depth(dd)
+        sizes, method = _stone_sizes_at(y, float(section.top_width(y)), s, sides, rc, gs, phi, sf_min)
+        return max(x for x in sizes.values() if x is not None), sizes, method, y
+
+    with warnings.catch_warnings():
+        warnings.simplefilter("ignore", ValidityWarning)
+        dd = d_start
+        lo, hi = 0.0, math.inf       # largest size seen to fail, smallest seen to hold
+        hi_state = None
+        for _ in range(max_iter):
+            new, sizes, method, y = state(dd)
+            if math.isinf(new) or n_fixed is not None or abs(new - dd) <= 1e-10 * new:
+                return sizes, method, y, True, False
+            if new > dd:
+                lo = max(lo, dd)
+            elif dd < hi:
+                hi, hi_state = dd, (sizes, method, y)
+            if lo > 0 and hi < math.inf and not lo < new < hi:
+                break                # the iterates alternate about a jump
+            dd = new
+        else:
+            return sizes, method, y, False, False
+        for _ in range(200):         # bisection for the smallest size that holds
+            if hi - lo <= 1e-10 * hi:
+                break
+            mid = math.sqrt(lo * hi)
+            new, sizes, method, y = state(mid)
+            if new > mid:
+                lo = mid
+            else:
+                hi, hi_state = mid, (sizes, method, y)
+        sizes, method, y = hi_state
+        sizes = dict(sizes)
+        key = max((k for k in sizes if sizes[k] is not None), key=lambda k: sizes[k])
+        sizes[key] = hi              # the governing size is the smallest stone that holds, not its own need
+        return sizes, method, y, True, True
+
+
+def _size(tau, depth, slope, gamma_stone, sf_min):
+    """Smallest D50 [m] resisting ``tau`` with the larger of Table 6.1's SF and ``sf_min``."""
+    size = hec15.required_d50_for_shear(tau, depth, slope, gamma_stone)
+    if size.safety_factor >= sf_min:
+        return float(size.d50)
+    # D F*(D) / max(SF(D), sf_min) rises with D (F*/SF rises with Re*), so one root lies above Table 6.1's size
+    c = math.sqrt(G * depth * slope) / hec15.NU_HEC15
+
+    def excess(dd):
+        f, sf = hec15._shields_sf(c * dd)
+        return f * (gamma_stone - GAMMA_WATER) * dd - max(sf, sf_min) * tau
+    lo = hi = float(size.d50)
+    while excess(hi) < 0:
+        hi *= 2.0
+    return brentq(excess, lo, hi, xtol=1e-14, rtol=1e-12)
+
+
+def _steep_size(depth, slope, z, phi, gamma_stone, sf_min):
+    size = hec15.required_d50_steep(depth, slope, z, phi, gamma_stone)
+    if size.safety_factor >= sf_min:
+        return float(size.d50)
+    theta, alpha, ph = math.atan(1.0 / z), math.atan(slope), math.radians(phi)
+    tau_side = hec15.side_slope_factor(z) * GAMMA_WATER * depth * slope
+    c = math.sqrt(G * depth * slope) / hec15.NU_HEC15
+
+    def excess(dd):
+        f, sf = hec15._shields_sf(c * dd)
+        return hec15._steep_sf(dd, tau_side, theta, alpha, ph, f, gamma_stone, GAMMA_WATER) - max(sf, sf_min)
+    lo, hi = float(size.d50), float(size.d50)
+    for _ in range(80):
+        if excess(hi) > 0:
+            break
+        hi *= 2.0
+    else:
+        raise NoSolutionError("no stone size reaches the required safety factor on this side slope")
+    return brentq(excess, lo, hi, xtol=1e-14, rtol=1e-12)
+
+
+# --------------------------------------------------------------------------
+# comparison
+# --------------------------------------------------------------------------
+
+@dataclass
+class ComparisonRow:
+    """One lining of a comparison (SI). ``error`` is set, and the numbers None, when it has no solution."""
+
+    key: str
+    name: str
+    d50: float | None
+    depth: float | None
+    velocity: float | None
+    froude: float | None
+    manning_n: float | None
+    design_shear: float | None       # design shear of the governing check [Pa]
+    permissible_shear: float | None  # permissible shear of the governing check [Pa]
+    safety_factor: float | None
+    required_safety_factor: float | None
+    verdict: str                     # "stable" | "not stable" | "non-erodible" | "no solution"
+    stable: bool | None
+    governs: str | None
+    reason: str
+    required_d50: float | None
+    total_depth: float | None
+    lined_width: float | None        # [m per m of channel]
+    layer_volume: float | None       # [m^3 per m]
+    cost_per_length: float | None    # [$ per m]; None without a unit cost
+    warnings: list = field(default_factory=list)
+    error: str | None = None
+    result: StabilityResult | None = field(default=None, repr=False)
+
+    def to_dict(self, units: UnitSystem = SI) -> dict:
+        L = lambda v: None if v is None else float(units.from_si("length", v))  # noqa: E731
+        T = lambda v: None if v is None else float(units.from_si("shear", v))  # noqa: E731
+        return {
+            "lining": self.key, "name": self.name, "d50": L(self.d50), "depth": L(self.depth),
+            "velocity": None if self.velocity is None else float(units.from_si("velocity", self.velocity)),
+            "froude": self.froude, "manning_n": self.manning_n, "design_shear": T(self.design_shear),
+            "permissible_shear": T(self.permissible_shear), "safety_factor": self.safety_factor,
+            "required_safety_factor": self.required_safety_factor, "verdict": self.verdict,
+            "stable": self.stable, "governs": self.governs,
+            "reason": self.result.reason(units) if self.result is not None else self.reason,
+            "required_d50": L(self.required_d50), "total_depth": L(self.total_depth),
+            "lined_width": L(self.lined_width),
+            "layer_volume": None if self.layer_volume is None else float(units.from_si("volume_per_length",
+                                                                                      self.layer_volume)),
+            "cost_per_length": None if self.cost_per_length is None else float(units.from_si("cost_per_length",
+                                                                                            self.cost_per_length)),
+            "warnings": list(self.warnings), "error": self.error,
+        }
+
+
+def parse_choice(choice):
+    """(key, d50 or None) from "key", "key:D50" [m], (key, d50), or an object with .key and .d50."""
+    if isinstance(choice, str):
+        key, sep, size = choice.partition(":")
+        key = key.strip()
+        if not key:
+            raise InputError("lining", f"is empty in {choice!r} (give a catalogue key, e.g. riprap:0.15)")
+        if not sep:
+            return key, None
+        try:
+            d = float(size)
+        except ValueError:
+            raise InputError("d50", f"must be a number after ':' in {choice!r}, got {size!r}") from None
+        return key, float(validate.positive("d50", d))
+    if isinstance(choice, (tuple, list)) and len(choice) == 2:
+        return str(choice[0]), choice[1]
+    if hasattr(choice, "key"):
+        return choice.key, getattr(choice, "d50", None)
+    raise InputError("lining", f"must be a key, 'key:D50', (key, d50) or a lining choice, got {choice!r}")
+
+
+def compare_linings(section, flow, slope, choices, catalogue, bend_radius=None,
+                    min_freeboard=hec15.MIN_FREEBOARD, **options) -> list[ComparisonRow]:
+    """The same channel and flow with several linings: one :class:`ComparisonRow` each.
+
+    Parameters
+    ----------
+    section, flow, slope, bend_radius, min_freeboard
+        As for :func:`check_lining` (SI).
+    choices : iterable
+        Linings: "key", "key:D50" (D50 in m), (key, d50) pairs or objects
+        with ``key`` and ``d50`` (such as ``app.project.LiningChoice``).
+    catalogue : hydraulics.linings.Catalogue
+        Where the keys are looked up.
+    **options
+        Passed to :func:`check_lining` (``min_safety_factor``, ``min_velocity``).
+
+    Returns
+    -------
+    list[ComparisonRow]
+        In the order given. Each row's numbers are those of
+        :func:`check_lining` for that lining (kept in ``row.result``). A lining
+        with no normal depth gets a row with ``verdict`` "no solution" and
+        the reason in ``error``; bad input raises InputError.
+
+    Notes
+    -----
+    Lined width: the perimeter up to the top of the ditch (``LINED_WIDTH_RULE``).
+    Layer volume: lined width times the layer thickness of the catalogue rule
+    (a thin-layer estimate). Cost: the user's unit cost (catalogue field
+    ``unit_cost``) per m^2 of lined width or per m^3 of layer; None when no
+    cost is set; never invented.
+    """
+    rows = []
+    choices = list(choices)
+    if not choices:
+        raise InputError("lining", "give at least one lining to compare")
+    for choice in choices:
+        key, d50 = parse_choice(choice)
+        lining = catalogue.get(key)
+        try:
+            r = check_lining(section, flow, slope, lining, d50=d50, bend_radius=bend_radius,
+                             min_freeboard=min_freeboard, **options)
+        except NoSolutionError as exc:
+            rows.append(ComparisonRow(
+                key=key, name=lining.name, d50=d50, depth=None, velocity=None, froude=None, manning_n=None,
+                design_shear=None, permissible_shear=None, safety_factor=None, required_safety_factor=None,
+                verdict="no solution", stable=None, governs=None, reason=f"no solution: {exc}", required_d50=None,
+                total_depth=None, lined_width=None, layer_volume=None, cost_per_length=None, warnings=[],
+                error=str(exc), result=None))
+            continue
+        gov = r.governing_check()
+        rows.append(ComparisonRow(
+            key=r.lining_key, name=r.lining_name, d50=r.d50, depth=r.depth, velocity=r.velocity, froude=r.froude,
+            manning_n=r.manning_n, design_shear=gov.design_shear, permissible_shear=gov.permissible_shear,
+            safety_factor=r.safety_factor, required_safety_factor=gov.required_safety_factor, verdict=r.verdict,
+            stable=r.stable, governs=r.governs, reason=r.reason(), required_d50=r.required_d50,
+            total_depth=r.total_depth, lined_width=r.lined_width, layer_volume=r.layer_volume,
+            cost_per_length=r.cost_per_length, warnings=list(r.warnings), error=None, result=r))
+    return rows
