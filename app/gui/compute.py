@@ -1,10 +1,10 @@
 """What the window shows for one channel, computed by the core. No Qt here.
 
 The widgets never compute: they hand a :class:`app.project.Channel` to
-:func:`evaluate` and draw what comes back. Everything about linings (their
-roughness, the stability check, freeboard in bends, the comparison) goes
-through the few functions marked "lining" below, so that they can follow the
-lining catalogue and its checks as those grow.
+:func:`evaluate` and draw what comes back. The numbers come from the
+shared channel evaluation (:mod:`app.evaluate`: design flow, uniform flow,
+lining stability by HEC-15, freeboard) and the lining comparison of
+:mod:`hydraulics.stability`; this module only shapes them for the window.
 """
 
 from __future__ import annotations
@@ -16,10 +16,11 @@ from dataclasses import dataclass, field
 import numpy as np
 
 import hydraulics as hy
-from hydraulics import rational, validate
 from hydraulics.curves import rating_curve, specific_energy
+from hydraulics.stability import compare_linings
 from hydraulics.units import UnitSystem
 
+from ..evaluate import design_flow, evaluate_channel, load_default_catalogue
 from ..project import Channel, LiningChoice
 
 #: Core field names as the user reads them (for messages that name a field).
@@ -31,6 +32,7 @@ FIELD_LABELS = {
     "runoff_coefficient": "Runoff coefficient C", "intensity": "Rainfall intensity", "area": "Drainage area",
     "flow_length": "Flow-path length", "flow_path_slope": "Flow-path slope", "depth": "Depth",
     "min_freeboard": "Minimum freeboard", "bend_radius": "Bend radius", "d50": "Stone size D50",
+    "lining": "Lining",
 }
 
 
@@ -43,18 +45,22 @@ class Verdict:
 
 @dataclass
 class LiningCheck:
-    """The lining's stability at the design flow (from the lining catalogue's checks)."""
+    """The lining's stability at the design flow, from :func:`hydraulics.stability.check_lining`."""
 
     key: str
     name: str
+    category: str
     manning_n: float
-    design_shear: float          # [Pa], the governing one
-    permissible_shear: float     # [Pa]
-    safety_factor: float         # [-] permissible / design
+    n_source: str                # how n was found, with its source
+    design_shear: float          # [Pa], of the governing check
+    permissible_shear: float | None   # [Pa], of the governing check (None: non-erodible)
+    safety_factor: float | None  # [-] of the governing check
+    required_safety_factor: float
     stable: bool
-    governs: str                 # "bed", "side slopes", "bend"
+    verdict: str                 # "stable" | "not stable" | "non-erodible"
+    governs: str                 # "bed", "side slopes", "bend", "non-erodible"
     thickness: float | None      # lining layer thickness [m]
-    details: dict = field(default_factory=dict)
+    stability: object = None     # the full hydraulics.stability.StabilityResult
 
 
 @dataclass
@@ -64,13 +70,16 @@ class Evaluation:
     flow: float | None = None
     time_of_concentration: float | None = None   # Kirpich [s], when asked for
     section: hy.Section | None = None
-    roughness: object = None
+    roughness: object = None      # the n the solver used: a number or a depth-dependent model
     result: hy.ChannelResult | None = None
     lining: LiningCheck | None = None
     freeboard: float | None = None
+    superelevation: float | None = None
     total_depth: float | None = None
+    top_width_at_top: float | None = None
     verdict: Verdict = field(default_factory=lambda: Verdict("none", "No result", ""))
     warnings: list = field(default_factory=list)
+    notes: list = field(default_factory=list)   # statements of method, with sources
     error: str | None = None          # why there is no result, in words
     error_field: str | None = None    # the core's name of the input at fault, if one is
 
@@ -82,71 +91,111 @@ class Evaluation:
 def describe_error(exc: Exception) -> tuple[str, str | None]:
     """(message in words, core field name or None) for an error from the core."""
     if isinstance(exc, hy.InputError):
-        label = FIELD_LABELS.get(exc.field, exc.field.replace("_", " "))
+        name = exc.field
+        label = FIELD_LABELS.get(name) or FIELD_LABELS.get(name.split(".")[-1]) or name.replace("_", " ")
+        if name.startswith("lining "):
+            label = "Lining " + name[len("lining "):]
         text = str(exc).split(": ", 1)[-1]
-        return f"{label} {text}", exc.field
+        return f"{label} {text}", name
     if isinstance(exc, hy.NoSolutionError):
         return f"No solution: {exc}", None
     raise exc
 
 
-def design_flow(channel: Channel) -> tuple[float, float | None, list]:
-    """Design flow [m^3/s], Kirpich's t_c [s] or None, and the method's cautions."""
-    fb = channel.flow
-    if fb.method != "rational":
-        return validate.positive("flow", fb.value), None, []
-    q = rational.rational_flow(fb.runoff_coefficient, fb.intensity, fb.area)
-    notes = rational.rational_warnings(fb.area)
-    tc = None
-    if fb.flow_length is not None or fb.flow_path_slope is not None:
-        tc = rational.kirpich_time(fb.flow_length, fb.flow_path_slope)
-        notes += rational.kirpich_warnings(fb.flow_path_slope, fb.area)
-    return q, tc, notes
+# -- the lining catalogue ----------------------------------------------------------
+LININGS_AVAILABLE = True
+_catalogue = None
+_user_catalogue_path = None
+catalogue_problem = ""   # why the user's catalogue was not used, in words ("" when it was)
 
 
-# -- lining ------------------------------------------------------------------
-LININGS_AVAILABLE = False
+def use_user_catalogue(path) -> str:
+    """Lay the user's catalogue file (TOML) over the shipped one; returns a complaint or ""."""
+    global _catalogue, _user_catalogue_path, catalogue_problem
+    _user_catalogue_path = path
+    _catalogue = None
+    catalogue()
+    return catalogue_problem
 
 
-def lining_roughness(channel: Channel, section: hy.Section):
-    """Manning's n (or a roughness model) for the channel.
-
-    Until the lining catalogue is installed the channel's own Manning's n is
-    used; a surveyed section with no n set uses its own n per segment.
-    """
-    if channel.manning_n is not None:
-        return channel.manning_n
-    if section.kind == "irregular":
-        return None
-    raise hy.InputError("manning_n", "is missing (Manning's n, a number > 0 such as 0.030)")
-
-
-def assess_lining(channel: Channel, ev: Evaluation, units: UnitSystem) -> None:
-    """Lining stability, freeboard, total depth and the verdict, written into ``ev``."""
-    r = ev.result
-    ev.freeboard = channel.min_freeboard
-    ev.total_depth = r.normal_depth + ev.freeboard
-    ev.lining = None
-    full = ev.section.full_depth
-    if full is not None and ev.total_depth > full * (1 + 1e-9):
-        where = "crown of the pipe" if ev.section.kind == "circle" else "lower bank"
-        ev.verdict = Verdict("fail", "Too small",
-                             f"Water plus freeboard reaches {_len(ev.total_depth, units)}, above the {where} "
-                             f"at {_len(full, units)}.")
-        return
-    if channel.lining is not None:
-        ev.verdict = Verdict("unchecked", "Stability not checked",
-                             f"Lining '{channel.lining.key}' is set, but the lining catalogue and its "
-                             "stability check are not installed; only the hydraulics are shown.")
-    else:
-        ev.verdict = Verdict("unchecked", "Hydraulics only",
-                             "No lining chosen: depth and velocity are solved with the Manning's n given; "
-                             "choose a lining to check its stability.")
+def catalogue():
+    """The lining catalogue in use (shipped, with the user's file when it is readable)."""
+    global _catalogue, catalogue_problem
+    if _catalogue is None:
+        catalogue_problem = ""
+        try:
+            _catalogue = load_default_catalogue(_user_catalogue_path)
+        except hy.InputError as exc:
+            catalogue_problem = f"The user lining catalogue {_user_catalogue_path} was not used: {exc}"
+            _catalogue = load_default_catalogue(None)
+    return _catalogue
 
 
 def catalogue_choices() -> list[tuple[str, str]]:
     """(key, name) of every lining the user can choose, in catalogue order."""
-    return []
+    return [(lin.key, lin.name) for lin in catalogue()]
+
+
+def lining_entry(key: str):
+    return catalogue().get(key)
+
+
+def solver_roughness(channel: Channel):
+    """The n the solver uses for ``channel``: the lining's own roughness, else the channel's Manning's n.
+
+    A surveyed section with neither uses its own n per segment (the section
+    itself is the roughness model; :func:`hydraulics.solvers.resolve_roughness`).
+    """
+    if channel.lining is not None:
+        entry = catalogue().get(channel.lining.key)
+        return entry.roughness(channel.lining.d50 if entry.category == "stone" else None)
+    if channel.manning_n is not None:
+        return channel.manning_n
+    section = channel.build_section()
+    if section.kind == "irregular":
+        return section
+    raise hy.InputError("manning_n", "is missing: give Manning's n or choose a lining")
+
+
+def _for_facade(channel: Channel) -> Channel:
+    """The channel as the evaluation facade takes it: no comparison (done on demand), and a surveyed
+    section without a lining or n carries its own n per segment as the roughness model."""
+    out = copy.copy(channel)
+    out.alternatives = []
+    if out.lining is None and out.manning_n is None and out.section.get("shape") == "irregular":
+        out.manning_n = out.build_section()
+    return out
+
+
+def _lining_check(st) -> LiningCheck:
+    gov = st.governing_check()
+    return LiningCheck(key=st.lining_key, name=st.lining_name, category=st.category, manning_n=st.manning_n,
+                       n_source=st.n_source, design_shear=gov.design_shear if gov else st.bed_shear,
+                       permissible_shear=gov.permissible_shear if gov else None,
+                       safety_factor=gov.safety_factor if gov else None,
+                       required_safety_factor=gov.required_safety_factor if gov else st.required_safety_factor,
+                       stable=st.stable, verdict=st.verdict, governs=st.governs, thickness=st.layer_thickness,
+                       stability=st)
+
+
+def _verdict(ev: Evaluation, units: UnitSystem) -> Verdict:
+    full = ev.section.full_depth
+    if full is not None and ev.total_depth > full * (1 + 1e-9):
+        where = "crown of the pipe" if ev.section.kind == "circle" else "lower bank"
+        return Verdict("fail", "Too small", f"Water plus freeboard reaches {_len(ev.total_depth, units)}, above "
+                                            f"the {where} at {_len(full, units)}.")
+    if ev.lining is None:
+        return Verdict("unchecked", "Hydraulics only",
+                       "No lining chosen: depth and velocity use the Manning's n given, and no shear is "
+                       "checked. Choose a lining to check its stability.")
+    st = ev.lining.stability
+    reason = st.reason(units)
+    reason = reason[:1].upper() + reason[1:] + "."
+    if st.verdict == "non-erodible":
+        return Verdict("pass", "Rigid lining", reason)
+    if st.stable:
+        return Verdict("pass", "Lining holds", reason)
+    return Verdict("fail", "Lining fails", reason)
 
 
 @dataclass
@@ -154,33 +203,74 @@ class ComparisonRow:
     choice: LiningChoice
     name: str
     evaluation: Evaluation
+    core: object = None                    # hydraulics.stability.ComparisonRow
     cost_per_length: float | None = None   # [currency/m], from the user's unit costs
 
 
-def compare(channel: Channel, choices, units: UnitSystem) -> list[ComparisonRow]:
-    """One row per lining for the same channel and flow (empty until the lining catalogue is available)."""
-    if not LININGS_AVAILABLE:
-        return []
-    names = dict(catalogue_choices())
-    return [ComparisonRow(c, names.get(c.key, c.key), evaluate(with_lining(channel, c), units)) for c in choices]
+def comparison_choices(channel: Channel) -> list[LiningChoice]:
+    """The channel's own lining first, then its alternatives (each once)."""
+    out, seen = [], set()
+    for c in ([channel.lining] if channel.lining is not None else []) + list(channel.alternatives):
+        key = (c.key, c.d50)
+        if key not in seen:
+            seen.add(key)
+            out.append(c)
+    return out
+
+
+def compare(channel: Channel, units: UnitSystem) -> tuple[list[ComparisonRow], str]:
+    """One row per lining for the same channel and flow, and a reason when there can be none."""
+    choices = comparison_choices(channel)
+    if not choices:
+        return [], "Tick linings in the list to compare them for this channel."
+    try:
+        q, _tc, _w, _n = design_flow(channel)
+        section = channel.build_section()
+        rows = compare_linings(section, q, channel.slope, choices, catalogue(), bend_radius=channel.bend_radius,
+                               min_freeboard=channel.min_freeboard)
+    except (hy.InputError, hy.NoSolutionError) as exc:
+        return [], describe_error(exc)[0]
+    out = []
+    for choice, row in zip(choices, rows):
+        ev = Evaluation(flow=q, section=section)
+        if row.result is not None:
+            st = row.result
+            ev.result, ev.freeboard, ev.total_depth = st.analysis, st.freeboard, st.total_depth
+            ev.superelevation, ev.top_width_at_top = st.superelevation, st.top_width_at_top
+            ev.lining = _lining_check(st)
+            ev.warnings = list(st.warnings)
+            ev.verdict = _verdict(ev, units)
+        else:
+            ev.error = row.reason
+            ev.verdict = Verdict("none", "No solution", row.reason)
+        out.append(ComparisonRow(LiningChoice(row.key, row.d50 if choice.d50 is not None or row.d50 else None),
+                                 row.name, ev, row, row.cost_per_length))
+    return out, ""
+
+
+def _num(attr):
+    return lambda r: None if r.core is None else getattr(r.core, attr)
 
 
 #: Columns of the comparison table: (heading, quantity for the unit, how to read the value from a row).
 COMPARISON_COLUMNS = (
     ("Lining", "", lambda r: r.name),
-    ("Depth", "length", lambda r: r.evaluation.result.normal_depth if r.evaluation.ok else None),
-    ("Velocity", "velocity", lambda r: r.evaluation.result.velocity if r.evaluation.ok else None),
-    ("Froude", "", lambda r: r.evaluation.result.froude if r.evaluation.ok else None),
-    ("n", "", lambda r: r.evaluation.lining.manning_n if r.evaluation.lining else None),
-    ("Design shear", "shear", lambda r: r.evaluation.lining.design_shear if r.evaluation.lining else None),
-    ("Permissible shear", "shear", lambda r: r.evaluation.lining.permissible_shear if r.evaluation.lining else None),
-    ("Safety factor", "", lambda r: r.evaluation.lining.safety_factor if r.evaluation.lining else None),
+    ("Depth", "length", _num("depth")),
+    ("Velocity", "velocity", _num("velocity")),
+    ("Froude", "", _num("froude")),
+    ("n", "", _num("manning_n")),
+    ("Design shear", "shear", _num("design_shear")),
+    ("Permissible shear", "shear", _num("permissible_shear")),
+    ("Safety factor", "", _num("safety_factor")),
     ("Verdict", "", lambda r: r.evaluation.verdict.headline),
-    ("Governs", "", lambda r: r.evaluation.lining.governs if r.evaluation.lining else ""),
+    ("Governs", "", lambda r: (r.core.governs or "") if r.core is not None else ""),
+    ("Total depth", "length", _num("total_depth")),
+    ("Lined width", "length", _num("lined_width")),
+    ("Layer volume", "volume_per_length", _num("layer_volume")),
     ("Cost", "cost_per_length", lambda r: r.cost_per_length),
 )
 _DIGITS = {"Depth": 3, "Velocity": 2, "Froude": 2, "n": 4, "Design shear": 1, "Permissible shear": 1,
-           "Safety factor": 2, "Cost": 2}
+           "Safety factor": 2, "Cost": 2, "Total depth": 3, "Lined width": 2, "Layer volume": 3}
 
 
 def comparison_table(rows, units: UnitSystem) -> tuple[list[str], list[list[str]]]:
@@ -193,6 +283,8 @@ def comparison_table(rows, units: UnitSystem) -> tuple[list[str], list[list[str]
             v = get(r)
             if head == "Lining" and r.choice.d50:
                 v += f", D50 {units.from_si('small_length', r.choice.d50):.0f} {units.label('small_length')}"
+            if head == "Permissible shear" and v is None and r.core is not None and r.core.verdict == "non-erodible":
+                v = "non-erodible"
             if v is None:
                 cells.append("—")
             elif isinstance(v, str):
@@ -219,20 +311,34 @@ def with_lining(channel: Channel, choice: LiningChoice) -> Channel:
 
 # -- the evaluation ------------------------------------------------------------
 def evaluate(channel: Channel, units: UnitSystem) -> Evaluation:
-    """Flow, normal and critical depth, the lining check and a verdict; never raises for bad input."""
+    """Flow, normal and critical depth, the lining check and a verdict; never raises for bad input.
+
+    Everything goes through the shared evaluation :func:`app.evaluate.evaluate_channel`
+    (the same numbers as the command line and the design sheet). The
+    comparison is left out here and made by :func:`compare` when it is shown.
+    """
     ev = Evaluation()
     try:
-        ev.flow, ev.time_of_concentration, notes = design_flow(channel)
-        ev.warnings.extend(notes)
-        ev.section = channel.build_section()
-        ev.roughness = lining_roughness(channel, ev.section)
-        ev.result = hy.analyse(ev.section, ev.flow, channel.slope, ev.roughness)
-        ev.warnings.extend(ev.result.warnings)
-        assess_lining(channel, ev, units)
+        design = evaluate_channel(_for_facade(channel), catalogue())
     except (hy.InputError, hy.NoSolutionError) as exc:
-        ev.result = None
         ev.error, ev.error_field = describe_error(exc)
         ev.verdict = Verdict("none", "No result", ev.error)
+        try:   # the flow and t_c lines of the form still have something to say
+            ev.flow, ev.time_of_concentration, _w, _n = design_flow(channel)
+        except hy.InputError:
+            pass
+        return ev
+    ev.flow, ev.time_of_concentration = design.flow, design.time_of_concentration
+    ev.section, ev.result = design.section, design.analysis
+    ev.freeboard, ev.superelevation = design.freeboard, design.superelevation
+    ev.total_depth, ev.top_width_at_top = design.total_depth, design.top_width_at_top
+    ev.warnings, ev.notes = list(design.warnings), list(design.notes)
+    ev.lining = _lining_check(design.stability) if design.stability is not None else None
+    try:
+        ev.roughness = solver_roughness(channel)
+    except hy.InputError:
+        ev.roughness = ev.result.manning_n
+    ev.verdict = _verdict(ev, units)
     return ev
 
 

@@ -10,6 +10,7 @@ from __future__ import annotations
 import copy
 from pathlib import Path
 
+from . import qtfix  # noqa: F401  (guards None against a PySide6 fault; see the module)
 from PySide6.QtCore import QObject, Signal
 from PySide6.QtGui import QUndoStack
 
@@ -27,6 +28,10 @@ def with_value(channel: pj.Channel, path: str, value) -> pj.Channel:
         out.section[rest] = value
     elif head == "flow" and rest:
         setattr(out.flow, rest, value)
+    elif head == "lining" and rest:
+        if out.lining is None:
+            raise KeyError(f"{path!r}: the channel has no lining")
+        setattr(out.lining, rest, value)
     elif rest:
         raise KeyError(f"unknown input {path!r}")
     else:
@@ -42,6 +47,8 @@ def value_at(channel: pj.Channel, path: str):
         return channel.section.get(rest)
     if head == "flow" and rest:
         return getattr(channel.flow, rest)
+    if head == "lining" and rest:
+        return None if channel.lining is None else getattr(channel.lining, rest)
     return getattr(channel, head)
 
 

@@ -11,6 +11,7 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass
 
+from . import qtfix  # noqa: F401  (guards None against a PySide6 fault; see the module)
 from PySide6.QtCore import QEvent, QObject, Qt, Signal
 from PySide6.QtGui import QKeySequence
 from PySide6.QtWidgets import QGridLayout, QLabel, QLineEdit, QSizePolicy
@@ -106,10 +107,22 @@ class LineEdit(QLineEdit):
 
 
 def set_invalid(widget, invalid: bool) -> None:
-    if bool(widget.property("invalid")) != invalid:
+    """Mark a widget (the style sheet draws ``[invalid="true"]`` in red).
+
+    The state is kept on the Python side as well: reading an unset dynamic
+    property back with ``QObject.property`` returns None and, in PySide6 6.12,
+    takes a reference from None each time, which ends in a crash after a few
+    thousand calls. Nothing here reads Qt properties back.
+    """
+    if is_invalid(widget) != invalid:
+        widget._invalid_mark = invalid
         widget.setProperty("invalid", invalid)
         widget.style().unpolish(widget)
         widget.style().polish(widget)
+
+
+def is_invalid(widget) -> bool:
+    return bool(getattr(widget, "_invalid_mark", False))
 
 
 class NumberField(QObject):
@@ -129,7 +142,7 @@ class NumberField(QObject):
         self.edit.setObjectName(spec.path)
         self.edit.setAlignment(Qt.AlignmentFlag.AlignRight | Qt.AlignmentFlag.AlignVCenter)
         self.edit.setSizePolicy(QSizePolicy.Policy.Expanding, QSizePolicy.Policy.Fixed)
-        self.edit.setMinimumWidth(90)
+        self.edit.setMinimumWidth(80)
         self.label.setBuddy(self.edit)
         self.suffix = QLabel()
         self.suffix.setObjectName("unitSuffix")
@@ -159,7 +172,7 @@ class NumberField(QObject):
 
     @property
     def error(self) -> str:
-        return self.message.text() if bool(self.edit.property("invalid")) else ""
+        return self.message.text() if is_invalid(self.edit) else ""
 
     # -- showing -------------------------------------------------------------------
     def show_value(self, value, units: UnitSystem, force: bool = False) -> None:

@@ -18,6 +18,7 @@ from PySide6.QtWidgets import (QAbstractItemView, QComboBox, QGridLayout, QGroup
 import hydraulics as hy
 from hydraulics.units import UnitSystem
 
+from ..project import LiningChoice
 from . import compute
 from .document import ProjectDocument, section_for_shape, value_at, with_value
 from .fields import FieldSpec, LineEdit, NumberField, format_number, parse_number, pretty, set_invalid
@@ -59,6 +60,8 @@ SECTION_FIELDS = {
 }
 MANNING = F("manning_n", "Manning's n", "", 0.0, False, 1.0, True,
             tip="Roughness of the lining, e.g. 0.013 smooth concrete, 0.030 to 0.040 grass or stone")
+D50 = F("lining.d50", "Stone size D50", "small_length", optional=True,
+        tip="Median stone size of the riprap or gravel; empty for the catalogue's own size")
 BEND = F("bend_radius", "Bend radius", "length", optional=True,
          tip="Centre-line radius of the sharpest bend (empty for a straight ditch)")
 FREEBOARD = F("min_freeboard", "Minimum freeboard", "length", 0.0, True)
@@ -70,14 +73,15 @@ CORE_TO_PATH = {
     "slope": "slope", "n": "manning_n", "manning_n": "manning_n", "bottom_width": "section.bottom_width",
     "side_slope": "section.left_slope", "left_slope": "section.left_slope", "right_slope": "section.right_slope",
     "top_width": "section.top_width", "at_depth": "section.at_depth", "diameter": "section.diameter",
-    "bend_radius": "bend_radius", "min_freeboard": "min_freeboard",
+    "bend_radius": "bend_radius", "min_freeboard": "min_freeboard", "d50": "lining.d50",
+    "flow.value": "flow.value", "flow.flow_length": "flow.flow_length", "flow.flow_path_slope": "flow.flow_path_slope",
 }
 
 
 def _grid() -> QGridLayout:
     g = QGridLayout()
     g.setColumnStretch(1, 1)
-    g.setColumnMinimumWidth(0, 150)
+    g.setColumnMinimumWidth(0, 140)
     g.setHorizontalSpacing(8)
     g.setVerticalSpacing(4)
     return g
@@ -228,7 +232,7 @@ class SurveyTable(QWidget):
 
 
 class LiningForm(QWidget):
-    """The lining inputs. Until the lining catalogue is available: Manning's n only."""
+    """The lining: a catalogue entry (with its stone size), or none and a Manning's n."""
 
     def __init__(self, panel: "InputPanel"):
         super().__init__()
@@ -236,30 +240,107 @@ class LiningForm(QWidget):
         grid = _grid()
         grid.setContentsMargins(0, 0, 0, 0)
         self.setLayout(grid)
+        self.combo = QComboBox()
+        self.combo.setObjectName("lining")
+        self.combo.setSizeAdjustPolicy(QComboBox.SizeAdjustPolicy.AdjustToMinimumContentsLengthWithIcon)
+        self.combo.setMinimumContentsLength(12)
+        self.combo.activated.connect(self._chosen)
+        grid.addWidget(QLabel("Lining"), 0, 0)
+        grid.addWidget(self.combo, 0, 1, 1, 2)
+        self.message = QLabel()
+        self.message.setObjectName("fieldMessage")
+        self.message.setWordWrap(True)
+        self.message.hide()
+        grid.addWidget(self.message, 1, 1, 1, 2)
+        self.d50 = panel._number(D50)
+        row = self.d50.place(grid, 2)
         self.n = panel._number(MANNING)
-        row = self.n.place(grid, 0)
+        row = self.n.place(grid, row)
+        self.n_label, self.n_value = QLabel("n at the design flow"), QLabel()
+        self.n_value.setObjectName("computed")
+        self.n_value.setAlignment(Qt.AlignmentFlag.AlignRight | Qt.AlignmentFlag.AlignVCenter)
+        grid.addWidget(self.n_label, row, 0)
+        grid.addWidget(self.n_value, row, 1, 1, 2)
         self.note = QLabel()
         self.note.setObjectName("hint")
         self.note.setWordWrap(True)
-        grid.addWidget(self.note, row, 0, 1, 3)
+        grid.addWidget(self.note, row + 1, 0, 1, 3)
+        self._fill()
+
+    def _fill(self) -> None:
+        self.combo.clear()
+        self.combo.addItem("None: Manning's n only", "")
+        by_category = {}
+        for lin in compute.catalogue():
+            by_category.setdefault(lin.category, []).append(lin)
+        for category, linings in by_category.items():
+            self.combo.insertSeparator(self.combo.count())
+            for lin in linings:
+                self.combo.addItem(lin.name + (" (your data)" if lin.user_data else ""), lin.key)
+                self.combo.setItemData(self.combo.count() - 1, f"{category}: {lin.key}", Qt.ItemDataRole.ToolTipRole)
+
+    def _chosen(self, index: int) -> None:
+        key = self.combo.itemData(index)
+        ch = self.panel.doc.channel()
+        if not key:
+            if ch.lining is not None:
+                self.panel.doc.edit("lining", None, "Remove the lining")
+            return
+        if ch.lining is not None and ch.lining.key == key:
+            return
+        self.panel.doc.edit("lining", LiningChoice(key), f"Line with {self.combo.itemText(index)}")
 
     def load(self, channel, units: UnitSystem, force: bool) -> None:
+        self.set_message("")
+        lining = channel.lining
+        entry = None
+        if lining is not None and lining.key in compute.catalogue():
+            entry = compute.lining_entry(lining.key)
+        i = self.combo.findData(lining.key if lining is not None else "")
+        if i < 0:   # a key this catalogue does not know: show it, say so
+            self.combo.addItem(f"{lining.key} (not in the catalogue)", lining.key)
+            i = self.combo.count() - 1
+        self.combo.setCurrentIndex(i)
+        stone = entry is not None and entry.category == "stone"
+        self.d50.set_visible(stone)
+        if stone:
+            self.d50.show_value(lining.d50, units, force)
+            default = entry.d50
+            self.d50.edit.setPlaceholderText(
+                f"catalogue: {units.from_si('small_length', default):.0f}" if default else "needed")
         surveyed = channel.section.get("shape") == "irregular"
-        self.n.set_visible(not surveyed or channel.manning_n is not None)
-        if not surveyed or channel.manning_n is not None:
+        plain = lining is None
+        self.n.set_visible(plain and not (surveyed and channel.manning_n is None))
+        if plain:
             self.n.show_value(channel.manning_n, units, force)
+        for w in (self.n_label, self.n_value):
+            w.setVisible(not plain)
         notes = []
-        if surveyed and channel.manning_n is None:
+        if plain and surveyed and channel.manning_n is None:
             notes.append("Manning's n is set per segment in the surveyed-section table.")
-        if channel.lining is not None:
-            d50 = (f", D50 {units.from_si('small_length', channel.lining.d50):.0f} {units.label('small_length')}"
-                   if channel.lining.d50 else "")
-            notes.append(f"Catalogue lining: {channel.lining.key}{d50}. The depth uses the Manning's n above.")
+        if not plain and channel.manning_n is not None:
+            notes.append("The lining sets Manning's n; the n typed for the channel applies only without a lining.")
         self.note.setText(" ".join(notes))
         self.note.setVisible(bool(notes))
 
+    def show_evaluation(self, ev) -> None:
+        if ev.lining is not None:
+            self.n_value.setText(f"{ev.lining.manning_n:.4f}")
+            self.n_value.setToolTip(ev.lining.n_source)
+            self.note.setText(ev.lining.n_source[:1].upper() + ev.lining.n_source[1:] + ".")
+            self.note.setVisible(True)
+        elif not self.n_label.isHidden():
+            self.n_value.setText("—")
+        if ev.error_field and ev.error_field.startswith("lining"):
+            self.set_message(ev.error)
+
+    def set_message(self, text: str) -> None:
+        self.message.setText(text)
+        self.message.setVisible(bool(text))
+        set_invalid(self.combo, bool(text))
+
     def fields(self):
-        return [self.n]
+        return [self.n, self.d50]
 
 
 class ShapePages(QWidget):
@@ -466,6 +547,10 @@ class InputPanel(QScrollArea):
         self.lining.load(ch, units, force)
         if shape == "irregular":
             self.survey.load(ch.section, units)
+        for key, f in self.fields.items():   # a field that no longer applies has nothing to complain about
+            if f.edit.isHidden() and f.error:
+                f.clear_error()
+        # the survey table was just refilled from the project, so it has nothing left to complain about
         self._invalid = {k: v for k, v in self._invalid.items() if k in self.fields and self.fields[k].error}
         self.validity_changed.emit(self.first_complaint())
 
@@ -481,6 +566,7 @@ class InputPanel(QScrollArea):
                                  f"{pretty(units.label('flow'))}")
         else:
             self.q_value.setText("—")
+        self.lining.show_evaluation(ev)
         if ev.error_field:
             path = CORE_TO_PATH.get(ev.error_field)
             shape = self.doc.channel().section.get("shape")

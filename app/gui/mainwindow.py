@@ -204,7 +204,7 @@ class MainWindow(QMainWindow):
         self.splitter.setStretchFactor(0, 0)
         self.splitter.setStretchFactor(1, 1)
         self.splitter.setStretchFactor(2, 0)
-        self.splitter.setSizes([390, 760, 330])
+        self.splitter.setSizes([405, 695, 340])
         self.splitter.setChildrenCollapsible(False)
         self.setCentralWidget(self.splitter)
         self.setMinimumSize(1100, 700)

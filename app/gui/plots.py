@@ -255,8 +255,8 @@ class SectionPicture(Picture):
         ax.set_axis_off()
         self.figure.subplots_adjust(left=0.01, right=0.99, bottom=0.01, top=0.93)
         if compact:
-            self.figure.subplots_adjust(left=0.02, right=0.98, bottom=0.03, top=0.80)
-            self.pads = (6, 6, 4, 4)
+            self.figure.subplots_adjust(left=0.02, right=0.98, bottom=0.03, top=0.97)
+            self.pads = (4, 4, 4, 4)
         self.scale_bar = ax.plot([], [], color=INK, lw=1.0, zorder=9, solid_capstyle="butt")[0]
         self.scale_text = ax.text(0, 0, "", fontsize=FONT, color=INK, ha="left", va="bottom", zorder=9)
         self.water = Polygon(np.zeros((3, 2)), closed=True, fc=WATER, ec="none", zorder=1)

@@ -34,27 +34,43 @@ ROWS = (
     ("critical_slope", _BY_KEY["critical_slope"]),
     ("manning_n", _BY_KEY["manning_n"]),
     ("bed_shear", ResultField("bed_shear", "Design shear, bed", "shear", 2)),
+    ("side_shear", ResultField("side_shear", "Design shear, side slopes", "shear", 2)),
+    ("bend_shear", ResultField("bend_shear", "Design shear, bend", "shear", 2)),
     ("permissible_shear", ResultField("permissible_shear", "Permissible shear", "shear", 2)),
     ("safety_factor", ResultField("safety_factor", "Safety factor", "", 2)),
+    ("required_d50", ResultField("required_d50", "Smallest stable D50", "small_length", 0)),
+    ("layer_thickness", ResultField("layer_thickness", "Lining thickness", "small_length", 0)),
     ("freeboard", ResultField("freeboard", "Freeboard", "length", 3)),
-    ("total_depth", ResultField("total_depth", "Total depth (water + freeboard)", "length", 3)),
+    ("total_depth", ResultField("total_depth", "Depth with freeboard", "length", 3)),
+    ("top_width_at_top", ResultField("top_width_at_top", "Width at top of ditch", "length", 2)),
+    ("cost_per_length", ResultField("cost_per_length", "Cost", "cost_per_length", 2)),
 )
+#: Rows left out when they do not apply (no lining, no bend, not stone, no price).
+OPTIONAL = {"side_shear", "bend_shear", "required_d50", "layer_thickness", "cost_per_length"}
 
 
 def result_values(ev: Evaluation) -> dict:
-    """Every listed value of an evaluation (SI), None where it is not known."""
+    """Every listed value of an evaluation (SI, or words), None where it does not apply."""
     r = ev.result
     out = {key: getattr(r, key, None) for key, _ in ROWS}
-    out["flow"] = ev.flow
-    out["freeboard"] = ev.freeboard
-    out["total_depth"] = ev.total_depth
-    if ev.lining is not None:
-        out["bed_shear"] = ev.lining.design_shear
-        out["permissible_shear"] = ev.lining.permissible_shear
-        out["safety_factor"] = ev.lining.safety_factor
-        out["manning_n"] = ev.lining.manning_n
-    else:
-        out["permissible_shear"] = out["safety_factor"] = None
+    out.update(flow=ev.flow, freeboard=ev.freeboard, total_depth=ev.total_depth,
+               top_width_at_top=ev.top_width_at_top)
+    for key in ("side_shear", "bend_shear", "permissible_shear", "safety_factor", "required_d50",
+                "layer_thickness", "cost_per_length"):
+        out[key] = None
+    lin = ev.lining
+    if lin is not None:
+        st = lin.stability
+        out.update(bed_shear=st.bed_shear, side_shear=st.side_shear, bend_shear=st.bend_shear,
+                   required_d50=st.required_d50, layer_thickness=st.layer_thickness,
+                   cost_per_length=st.cost_per_length, manning_n=lin.manning_n)
+        if lin.verdict == "non-erodible":
+            out["permissible_shear"] = "non-erodible"
+            out["safety_factor"] = "—"
+        else:
+            out["permissible_shear"] = lin.permissible_shear
+            out["safety_factor"] = (f"{lin.safety_factor:.2f} (need {lin.required_safety_factor:.2f})"
+                                    if lin.safety_factor is not None else None)
     return out
 
 
@@ -100,8 +116,10 @@ class ResultsPanel(QWidget):
         grid.setVerticalSpacing(3)
         grid.setColumnStretch(0, 1)
         self.values: dict[str, QLabel] = {}
+        self.names: dict[str, QLabel] = {}
         for i, (key, f) in enumerate(ROWS):
             name = QLabel(f.label)
+            self.names[key] = name
             value = QLabel("—")
             value.setObjectName(f"value_{key}")
             value.setAlignment(Qt.AlignmentFlag.AlignRight | Qt.AlignmentFlag.AlignVCenter)
@@ -143,7 +161,7 @@ class ResultsPanel(QWidget):
         shown = ev if usable else last_good
         verdict = ev.verdict if usable else None
         if usable:
-            self._set_verdict(verdict.status, verdict.headline, verdict.reason)
+            self._set_verdict(verdict.status, verdict.headline, pretty(verdict.reason))
             self.stale.hide()
         else:
             why = complaint or ev.error or "The inputs are incomplete."
@@ -156,6 +174,9 @@ class ResultsPanel(QWidget):
         for key, f in ROWS:
             v = values.get(key)
             self.values[key].setText("—" if v is None else pretty(format_value(v, f, units)))
+            applies = key not in OPTIONAL or v is not None
+            self.values[key].setVisible(applies)
+            self.names[key].setVisible(applies)
         warnings = list(shown.warnings) if shown is not None else []
         if warnings:
             items = "".join(f"<li>{_escape(w[:1].upper() + w[1:])}.</li>" if not w.endswith(".")

@@ -38,8 +38,9 @@ def test_rational_flow_and_kirpich_time_come_from_the_core():
 @pytest.mark.parametrize("channel, field, words", [
     (pj.Channel(flow=pj.FlowBasis(method="rational")), "runoff_coefficient", "Runoff coefficient C"),
     (pj.Channel(manning_n=None), "manning_n", "Manning's n"),
+    (pj.Channel(lining=pj.LiningChoice("no_such_lining")), "lining", "unknown lining"),
     (pj.Channel(section={"shape": "triangle", "left_slope": 0.0, "right_slope": 0.0}), "side_slope", "V-ditch"),
-], ids=["rational-missing-C", "no-n", "flat-V"])
+], ids=["rational-missing-C", "no-n", "unknown-lining", "flat-V"])
 def test_bad_input_is_a_message_not_an_exception(channel, field, words):
     ev = compute.evaluate(channel, hy.units.SI)
     assert not ev.ok and ev.error_field == field and words in ev.error
@@ -53,18 +54,54 @@ def test_overtopped_pipe_is_a_failed_verdict_with_the_reason():
     assert ev.ok and ev.verdict.status == "fail" and "ft" in ev.verdict.reason
 
 
+def outfall():
+    return next(c for c in pj.loads(pj.demo_path().read_text(encoding="utf-8")).channels if c.alternatives)
+
+
+def test_comparison_rows_agree_with_single_lining_evaluations():
+    ch = outfall()
+    rows, reason = compute.compare(ch, hy.units.SI)
+    assert reason == "" and rows[0].choice.key == ch.lining.key
+    assert {r.choice.key for r in rows} == {ch.lining.key} | {a.key for a in ch.alternatives}
+    for row in rows:
+        single = compute.evaluate(compute.with_lining(ch, row.choice), hy.units.SI)
+        assert single.result.normal_depth == pytest.approx(row.evaluation.result.normal_depth, rel=1e-12)
+        assert single.verdict == row.evaluation.verdict
+
+
 def test_comparison_table_as_tab_separated_text():
-    row = compute.ComparisonRow(pj.LiningChoice("gravel", d50=0.025), "Gravel mulch",
-                                compute.evaluate(pj.Channel(), hy.units.SI), cost_per_length=12.5)
-    text = compute.comparison_tsv([row], hy.units.SI)
-    lines = text.splitlines()
-    assert len(lines) == 2 and all(line.count("\t") == len(compute.COMPARISON_COLUMNS) - 1 for line in lines)
+    rows, _ = compute.compare(outfall(), hy.units.SI)
+    lines = compute.comparison_tsv(rows, hy.units.SI).splitlines()
+    assert len(lines) == len(rows) + 1
+    assert all(line.count("\t") == len(compute.COMPARISON_COLUMNS) - 1 for line in lines)
     assert lines[0].startswith("Lining\tDepth [m]\tVelocity [m/s]")
-    cells = lines[1].split("\t")
-    assert cells[0] == "Gravel mulch, D50 25 mm"
-    assert float(cells[1]) == pytest.approx(row.evaluation.result.normal_depth, abs=5e-4)
-    us = compute.comparison_tsv([row], hy.units.US).splitlines()[1].split("\t")
-    assert us[0] == "Gravel mulch, D50 1 in" and float(us[1]) == pytest.approx(float(cells[1]) / 0.3048, abs=2e-3)
+    riprap = next(i for i, r in enumerate(rows) if r.choice.key == "riprap")
+    cells = lines[riprap + 1].split("\t")
+    assert cells[0].startswith(rows[riprap].name) and "D50 150 mm" in cells[0]
+    assert float(cells[1]) == pytest.approx(rows[riprap].core.depth, abs=5e-4)
+    us = compute.comparison_tsv(rows, hy.units.US).splitlines()[riprap + 1].split("\t")
+    assert "D50 6 in" in us[0] and float(us[1]) == pytest.approx(rows[riprap].core.depth / 0.3048, abs=2e-3)
+
+
+def test_gravel_mulch_example_fails_in_words():
+    # FHWA HEC-15 (Kilgore and Cotton, 3rd ed., 2005), gravel-mulch design example, SI (from memory):
+    # Q = 0.42 m^3/s, B = 0.4 m, Z = 3, S = 0.008, D50 = 25 mm; depth near 0.35 m, design shear near
+    # 27 N/m^2, above the permissible shear, so the lining fails.
+    ch = pj.Channel(flow=pj.FlowBasis(value=0.42), slope=0.008,
+                    section={"shape": "trapezoid", "bottom_width": 0.4, "left_slope": 3.0, "right_slope": 3.0},
+                    lining=pj.LiningChoice("gravel", d50=0.025))
+    ev = compute.evaluate(ch, hy.units.SI)
+    assert ev.result.normal_depth == pytest.approx(0.35, abs=0.03)
+    assert ev.lining.stability.bed_shear == pytest.approx(27, rel=0.1)
+    assert ev.verdict.status == "fail" and ev.verdict.headline == "Lining fails"
+    assert "permissible" in ev.verdict.reason and "Pa" in ev.verdict.reason
+    assert "lb/ft^2" in compute.evaluate(ch, hy.units.US).verdict.reason
+
+
+def test_rigid_lining_passes_as_non_erodible():
+    ev = compute.evaluate(pj.Channel(lining=pj.LiningChoice("concrete")), hy.units.SI)
+    assert ev.verdict.status == "pass" and ev.verdict.headline == "Rigid lining"
+    assert ev.lining.thickness is not None and ev.lining.thickness > 0
 
 
 def test_curves_cover_the_design_point():

@@ -68,7 +68,7 @@ def test_invalid_field_shows_message_and_keeps_last_good(demo_window, qtbot):
     stored = w.doc.channel().section["bottom_width"]
     type_into(qtbot, f, "-2")
     assert f.error and "≥ 0 m" in f.error and f.message.isVisible()
-    assert f.edit.property("invalid") is True
+    assert f.edit.property("invalid") is True        # what the style sheet reads
     assert w.doc.channel().section["bottom_width"] == stored      # nothing reached the project
     assert shown(w, "normal_depth") == good_depth                 # last good result kept ...
     assert not w.results.numbers.isEnabled()                      # ... and greyed
@@ -335,13 +335,89 @@ def test_caution_and_warnings_in_words(demo_window):
     assert "near critical" in w.results.warnings.text()
 
 
-def test_comparison_frame_builds(demo_window):
+def outfall_index(w):
+    return next(i for i, c in enumerate(w.doc.project.channels) if c.alternatives)
+
+
+def test_comparison_view_applies_a_lining_in_one_undoable_step(demo_window, qtbot):
     w = demo_window
-    w.doc.set_current(2)
+    w.doc.set_current(outfall_index(w))
     w.tabs.setCurrentIndex(3)
     view = w.comparison
-    assert view.table.columnCount() >= 9
-    assert view.apply_button.text().startswith("Apply")
+    before = w.doc.channel()
+    keys = [r.choice.key for r in view.rows]
+    assert keys[0] == before.lining.key and "gravel" in keys
+    assert view.table.columnCount() == len(view.rows)
+    assert view.table.cellWidget(0, 0) is view.pictures[0].canvas          # a small section per lining
+    gravel = keys.index("gravel")
+    verdict_row = [view.table.verticalHeaderItem(i).text() for i in range(view.table.rowCount())].index("Verdict")
+    assert view.table.item(verdict_row, gravel).text() == view.rows[gravel].evaluation.verdict.headline
+    view.select_lining(gravel)
+    assert view.apply_button.isEnabled()
+    count = w.doc.undo_stack.count()
+    qtbot.mouseClick(view.apply_button, Qt.MouseButton.LeftButton)
+    assert w.doc.channel().lining.key == "gravel" and w.doc.undo_stack.count() == count + 1
+    assert {r.choice.key for r in view.rows} == set(keys)                  # the old lining stays compared
+    assert w.results.headline.text() == "Lining fails"                     # the verdict follows at once
+    w.undo_action.trigger()
+    assert w.doc.channel() == before
+
+
+def test_comparison_table_is_copied_as_tab_separated_text(demo_window, qtbot):
+    from PySide6.QtGui import QGuiApplication
+
+    from app.gui import compute
+    w = demo_window
+    w.doc.set_current(outfall_index(w))
+    w.tabs.setCurrentIndex(3)
+    qtbot.mouseClick(w.comparison.copy_button, Qt.MouseButton.LeftButton)
+    text = QGuiApplication.clipboard().text()
+    assert text == compute.comparison_tsv(w.comparison.rows, w.doc.units)
+    assert text.splitlines()[0].split("\t")[:3] == ["Lining", "Depth [m]", "Velocity [m/s]"]
+
+
+def test_ticking_a_lining_to_compare_is_undoable(demo_window):
+    w = demo_window
+    w.doc.set_current(outfall_index(w))
+    w.tabs.setCurrentIndex(3)
+    view = w.comparison
+    before = list(w.doc.channel().alternatives)
+    assert not view.checks[w.doc.channel().lining.key].isEnabled()          # its own lining is always in
+    view.checks["asphalt"].setChecked(True)
+    assert [a.key for a in w.doc.channel().alternatives][-1] == "asphalt"
+    assert "asphalt" in [r.choice.key for r in view.rows]
+    w.undo_action.trigger()
+    assert w.doc.channel().alternatives == before and not view.checks["asphalt"].isChecked()
+
+
+def test_choosing_a_lining_checks_its_stability(demo_window, qtbot):
+    w = demo_window
+    w.doc.set_current(0)
+    form = w.inputs.lining
+    form.combo.setCurrentIndex(form.combo.findData("riprap"))
+    form._chosen(form.combo.currentIndex())
+    assert w.doc.channel().lining.key == "riprap"
+    assert not form.d50.edit.isHidden() and form.d50.suffix.text() == "mm"
+    assert form.n.edit.isHidden() and form.n_value.text() != "—"
+    assert w.results.values["permissible_shear"].text().endswith("Pa")
+    assert w.results.headline.text() in ("Lining holds", "Lining fails")
+    type_into(qtbot, form.d50, "300")
+    assert w.doc.channel().lining.d50 == pytest.approx(0.3)
+    assert not w.results.values["required_d50"].isHidden()
+    type_into(qtbot, form.d50, "0")
+    assert "> 0 mm" in form.d50.error
+    form._chosen(form.combo.findData(""))
+    assert w.doc.channel().lining is None and not form.n.edit.isHidden()
+    assert w.results.headline.text() == "Hydraulics only"
+
+
+def test_a_lining_the_catalogue_does_not_know_is_named(qtbot):
+    project = pj.Project(channels=[pj.Channel(lining=pj.LiningChoice("marble_tiles"))])
+    w = MainWindow(project)
+    qtbot.addWidget(w)
+    assert "unknown lining 'marble_tiles'" in w.results.reason.text()
+    assert "marble_tiles" in w.inputs.lining.combo.currentText()
+    assert "unknown lining" in w.inputs.lining.message.text()
 
 
 def test_ctrl_z_in_a_field_undoes_the_project_edit(demo_window, qtbot):
