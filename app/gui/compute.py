@@ -185,8 +185,10 @@ def _verdict(ev: Evaluation, units: UnitSystem) -> Verdict:
         return Verdict("fail", "Too small", f"Water plus freeboard reaches {_len(ev.total_depth, units)}, above "
                                             f"the {where} at {_len(full, units)}.")
     if ev.lining is None:
+        n_words = ("the surveyed section's n" if ev.section.kind == "irregular" and isinstance(ev.roughness, hy.Section)
+                   else "the Manning's n given")
         return Verdict("unchecked", "Hydraulics only",
-                       "No lining chosen: depth and velocity use the Manning's n given, and no shear is "
+                       f"No lining chosen: depth and velocity use {n_words}, and no shear is "
                        "checked. Choose a lining to check its stability.")
     st = ev.lining.stability
     reason = st.reason(units)
@@ -334,10 +336,7 @@ def evaluate(channel: Channel, units: UnitSystem) -> Evaluation:
     ev.total_depth, ev.top_width_at_top = design.total_depth, design.top_width_at_top
     ev.warnings, ev.notes = list(design.warnings), list(design.notes)
     ev.lining = _lining_check(design.stability) if design.stability is not None else None
-    try:
-        ev.roughness = solver_roughness(channel)
-    except hy.InputError:
-        ev.roughness = ev.result.manning_n
+    ev.roughness = solver_roughness(channel)
     ev.verdict = _verdict(ev, units)
     return ev
 

@@ -376,7 +376,7 @@ class SectionPicture(Picture):
                         ticks=([wr * k, x_dim + 4 * s], [yn * k, yn * k]))
         gap = top - yn
         if gap * k > 1.5 * s:
-            label = "freeboard" if g.kind != "circle" else "to crown"
+            label = {"circle": "to crown", "irregular": "to lower bank"}.get(g.kind, "freeboard")
             d["freeboard"].show((x_dim, yn * k), (x_dim, top * k), f"{label} {fmt(gap)}",
                                 ticks=([g.right * k, x_dim + 4 * s], [top * k, top * k]))
             if gap * k < 16 * s:  # a short freeboard: lift its label clear of the depth label

@@ -177,6 +177,10 @@ class ResultsPanel(QWidget):
             applies = key not in OPTIONAL or v is not None
             self.values[key].setVisible(applies)
             self.names[key].setVisible(applies)
+        lin = shown.lining if shown is not None and shown.ok else None
+        where = lin.governs if lin is not None and lin.verdict != "non-erodible" else ""
+        self.names["permissible_shear"].setText(f"Permissible shear, {where}" if where else "Permissible shear")
+        self.names["safety_factor"].setText(f"Safety factor, {where}" if where else "Safety factor")
         warnings = list(shown.warnings) if shown is not None else []
         if warnings:
             items = "".join(f"<li>{_escape(w[:1].upper() + w[1:])}.</li>" if not w.endswith(".")
