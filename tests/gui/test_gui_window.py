@@ -254,7 +254,11 @@ def test_unsaved_changes_are_guarded(demo_window, dialogs):
 def test_failed_save_says_so_and_stays_modified(demo_window, tmp_path, dialogs, monkeypatch):
     w = demo_window
     w.doc.edit("slope", 0.02, "Change bed slope")
-    monkeypatch.setattr(pj.os, "replace", lambda *a: (_ for _ in ()).throw(OSError("disk full")))
+    import app.files
+
+    def disk_full(*args):
+        raise OSError("disk full")
+    monkeypatch.setattr(app.files.os, "replace", disk_full)
     assert w._write(tmp_path / "x.json") is False
     assert dialogs.kinds() == ["critical"] and "disk full" in dialogs.shown[0][2]
     assert w.isWindowModified() and not (tmp_path / "x.json").exists()
