@@ -45,6 +45,10 @@ class MainWindow(QMainWindow):
         self.connect_document()
         self.read_settings()
         self.autosaver = Autosaver(self.doc, parent=self) if persistent else None
+        if persistent:   # the user's own linings and unit costs, laid over the shipped catalogue
+            problem = compute.use_user_catalogue(settings.user_catalogue_path())
+            if problem:
+                self.statusBar().showMessage(problem, 15000)
         self.refresh_all()
 
     # -- construction, in named steps ---------------------------------------------------

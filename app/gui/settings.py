@@ -70,6 +70,11 @@ def add_recent(path: str) -> list:
     return files
 
 
+def user_catalogue_path() -> Path:
+    """The user's lining catalogue (TOML, the shipped layout): own linings, unit costs."""
+    return data_folder() / "user-linings.toml"
+
+
 def data_folder() -> Path:
     """The user's data folder for this program (QStandardPaths AppDataLocation)."""
     return Path(QStandardPaths.writableLocation(QStandardPaths.StandardLocation.AppDataLocation))

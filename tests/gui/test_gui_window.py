@@ -432,3 +432,20 @@ def test_ctrl_z_in_a_field_undoes_the_project_edit(demo_window, qtbot):
     assert w.doc.channel().slope == 0.03
     qtbot.keyClick(f.edit, Qt.Key.Key_Z, Qt.KeyboardModifier.ControlModifier)
     assert w.doc.channel().slope == 0.012 and f.edit.text() == "0.012"
+
+
+def test_user_catalogue_in_the_data_folder_sets_unit_costs(qtbot):
+    from app.gui import compute
+    path = settings.user_catalogue_path()
+    path.parent.mkdir(parents=True, exist_ok=True)
+    path.write_text('schema_version = 1\n[[lining]]\nkey = "concrete"\nunit_cost = 95.0\n', encoding="utf-8")
+    try:
+        w = MainWindow(pj.loads(pj.demo_path().read_text(encoding="utf-8")))
+        qtbot.addWidget(w)
+        w.doc.set_current(next(i for i, c in enumerate(w.doc.project.channels) if c.alternatives))
+        rows, _ = compute.compare(w.doc.channel(), w.doc.units)
+        concrete = next(r for r in rows if r.choice.key == "concrete")
+        assert concrete.cost_per_length is not None and concrete.cost_per_length > 0
+        w.doc.undo_stack.setClean()
+    finally:
+        compute.use_user_catalogue(None)
