@@ -111,7 +111,7 @@ catalogue_problem = ""   # why the user's catalogue was not used, in words ("" w
 
 def use_user_catalogue(path) -> str:
     """Lay the user's catalogue file (TOML) over the shipped one; returns a complaint or ""."""
-    global _catalogue, _user_catalogue_path, catalogue_problem
+    global _catalogue, _user_catalogue_path
     _user_catalogue_path = path
     _catalogue = None
     catalogue()
@@ -158,12 +158,9 @@ def solver_roughness(channel: Channel):
 
 
 def _for_facade(channel: Channel) -> Channel:
-    """The channel as the evaluation facade takes it: no comparison (done on demand), and a surveyed
-    section without a lining or n carries its own n per segment as the roughness model."""
+    """The channel as the evaluation facade takes it: no comparison (the comparison view asks on demand)."""
     out = copy.copy(channel)
     out.alternatives = []
-    if out.lining is None and out.manning_n is None and out.section.get("shape") == "irregular":
-        out.manning_n = out.build_section()
     return out
 
 

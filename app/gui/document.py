@@ -10,7 +10,6 @@ from __future__ import annotations
 import copy
 from pathlib import Path
 
-from . import qtfix  # noqa: F401  (guards None against a PySide6 fault; see the module)
 from PySide6.QtCore import QObject, Signal
 from PySide6.QtGui import QUndoStack
 

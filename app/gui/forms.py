@@ -15,7 +15,6 @@ from PySide6.QtWidgets import (QAbstractItemView, QComboBox, QGridLayout, QGroup
                                QLabel, QPushButton, QScrollArea, QTableWidget,
                                QTableWidgetItem, QVBoxLayout, QWidget)
 
-import hydraulics as hy
 from hydraulics.units import UnitSystem
 
 from ..project import LiningChoice

@@ -11,7 +11,6 @@ from __future__ import annotations
 from dataclasses import dataclass
 from pathlib import Path
 
-from . import qtfix  # noqa: F401  (guards None against a PySide6 fault; see the module)
 from PySide6.QtCore import QByteArray, QCoreApplication, QSettings, QStandardPaths
 
 from .. import __version__
