@@ -54,6 +54,21 @@ class AddChannel(QUndoCommand):
         self.doc._remove_channel(self.index)
 
 
+class AddChannels(QUndoCommand):
+    """Append several channels at once (an inventory import): one step of the history."""
+
+    def __init__(self, doc, channels: list, text: str):
+        super().__init__(text)
+        self.doc, self.channels = doc, list(channels)
+        self.index = len(doc.project.channels)
+
+    def redo(self):
+        self.doc._insert_channels(self.index, self.channels)
+
+    def undo(self):
+        self.doc._remove_channels(self.index, len(self.channels))
+
+
 class RemoveChannel(QUndoCommand):
     def __init__(self, doc, index: int):
         self.doc, self.index = doc, index
@@ -94,3 +109,17 @@ class EditProject(QUndoCommand):
 
     def undo(self):
         self.doc._set_project_attribute(self.attribute, self.old)
+
+
+class EditSheetInfo(QUndoCommand):
+    """Replace the title-block facts of the design sheets (a whole SheetInfo value)."""
+
+    def __init__(self, doc, info, text: str):
+        super().__init__(text)
+        self.doc, self.new, self.old = doc, info, doc.project.sheet
+
+    def redo(self):
+        self.doc._set_project_attribute("sheet", self.new)
+
+    def undo(self):
+        self.doc._set_project_attribute("sheet", self.old)

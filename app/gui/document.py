@@ -106,7 +106,7 @@ class ProjectDocument(QObject):
     channels_changed = Signal()      # channels added, removed or renamed
     units_changed = Signal()
     current_changed = Signal(int)
-    project_changed = Signal()       # project name or notes
+    project_changed = Signal()       # project name, notes or sheet details
 
     def __init__(self, project: pj.Project | None = None, path=None, parent=None):
         super().__init__(parent)
@@ -203,6 +203,29 @@ class ProjectDocument(QObject):
             self.edit("name", name, f"Rename channel '{old}' to '{name}'", index=i)
         return None
 
+    def add_channels(self, channels: list, text: str) -> list:
+        """Append ``channels`` in one undoable step; a name already in use gets a number. Returns the names."""
+        names = {c.name for c in self.project.channels}
+        added = []
+        for ch in channels:
+            ch = copy.deepcopy(ch)
+            base, k = ch.name.strip() or "Reach", 2
+            name = base
+            while name in names:
+                name = f"{base} ({k})"
+                k += 1
+            ch.name = name
+            names.add(name)
+            added.append(ch)
+        if added:
+            self.undo_stack.push(cmd.AddChannels(self, added, text))
+        return [c.name for c in added]
+
+    def set_sheet_info(self, info: pj.SheetInfo, text: str = "Change sheet details") -> None:
+        """Replace the title-block facts of the design sheets (one undoable step)."""
+        if info != self.project.sheet:
+            self.undo_stack.push(cmd.EditSheetInfo(self, copy.deepcopy(info), text))
+
     def set_units(self, units: str) -> None:
         if units != self.project.units:
             hy.units.system(units)
@@ -238,6 +261,20 @@ class ProjectDocument(QObject):
         self.channels_changed.emit()
         self.current_changed.emit(index)
 
+    def _insert_channels(self, index: int, channels: list) -> None:
+        self.revision += 1
+        self.project.channels[index:index] = channels
+        self.current = index
+        self.channels_changed.emit()
+        self.current_changed.emit(index)
+
+    def _remove_channels(self, index: int, count: int) -> None:
+        self.revision += 1
+        del self.project.channels[index:index + count]
+        self.current = min(max(index - 1, 0), len(self.project.channels) - 1)
+        self.channels_changed.emit()
+        self.current_changed.emit(self.current)
+
     def _remove_channel(self, index: int) -> None:
         self.revision += 1
         del self.project.channels[index]
@@ -250,7 +287,7 @@ class ProjectDocument(QObject):
         self.project.units = units
         self.units_changed.emit()
 
-    def _set_project_attribute(self, attribute: str, value: str) -> None:
+    def _set_project_attribute(self, attribute: str, value) -> None:
         self.revision += 1
         setattr(self.project, attribute, value)
         self.project_changed.emit()

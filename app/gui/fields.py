@@ -13,7 +13,7 @@ from dataclasses import dataclass
 
 from PySide6.QtCore import QEvent, QObject, Qt, Signal
 from PySide6.QtGui import QKeySequence
-from PySide6.QtWidgets import QGridLayout, QLabel, QLineEdit, QSizePolicy
+from PySide6.QtWidgets import QGridLayout, QLabel, QLineEdit, QPlainTextEdit, QSizePolicy
 
 from hydraulics.units import UnitSystem
 
@@ -103,6 +103,31 @@ class LineEdit(QLineEdit):
             event.ignore()
             return True
         return super().event(event)
+
+
+class NotesEdit(QPlainTextEdit):
+    """Several lines of free text, handed on when the box loses focus (one undoable edit per visit).
+
+    Like :class:`LineEdit` it leaves undo and redo to the window's history.
+    """
+
+    editingFinished = Signal()
+
+    def event(self, event):
+        if event.type() == QEvent.Type.ShortcutOverride and (
+                event.matches(QKeySequence.StandardKey.Undo) or event.matches(QKeySequence.StandardKey.Redo)):
+            event.ignore()
+            return True
+        return super().event(event)
+
+    def focusOutEvent(self, event):
+        super().focusOutEvent(event)
+        self.editingFinished.emit()
+
+    def show_text(self, text: str, force: bool = False) -> None:
+        """Show ``text`` unless the user is typing in the box (then only when forced)."""
+        if self.toPlainText() != text and (force or not self.hasFocus()):
+            self.setPlainText(text)
 
 
 def set_invalid(widget, invalid: bool) -> None:

@@ -20,7 +20,7 @@ from hydraulics.units import UnitSystem
 from ..project import LiningChoice
 from . import compute
 from .document import ProjectDocument, section_for_shape, value_at, with_value
-from .fields import FieldSpec, LineEdit, NumberField, format_number, parse_number, pretty, set_invalid
+from .fields import FieldSpec, LineEdit, NotesEdit, NumberField, format_number, parse_number, pretty, set_invalid
 
 SHAPES = (
     ("trapezoid", "Trapezoid"),
@@ -485,6 +485,18 @@ class InputPanel(QScrollArea):
         row = self._number(BEND).place(grid, 0)
         self._number(FREEBOARD).place(grid, row)
         lay.addWidget(box)
+
+        # notes
+        box, grid = _group("Notes")
+        self.notes = NotesEdit()
+        self.notes.setObjectName("channelNotes")
+        self.notes.setPlaceholderText("Anything a checker should know: survey date, assumptions, "
+                                      "who asked for it")
+        self.notes.setTabChangesFocus(True)
+        self.notes.setFixedHeight(74)
+        self.notes.editingFinished.connect(self._renote)
+        grid.addWidget(self.notes, 0, 0, 1, 3)
+        lay.addWidget(box)
         lay.addStretch(1)
         self.setWidget(body)
         self.setMinimumWidth(360)
@@ -523,6 +535,7 @@ class InputPanel(QScrollArea):
         if force or self.location.text() != ch.location:
             self.location.setText(ch.location)
             self.location.setCursorPosition(0)
+        self.notes.show_text(ch.notes, force)
         self.method.setCurrentIndex(max(0, self.method.findData(ch.flow.method)))
         rational = ch.flow.method == "rational"
         self.fields[FLOW.path].set_visible(not rational)
@@ -613,6 +626,9 @@ class InputPanel(QScrollArea):
 
     def _relocate(self) -> None:
         self.doc.edit("location", self.location.text(), "Change location")
+
+    def _renote(self) -> None:
+        self.doc.edit("notes", self.notes.toPlainText(), "Change channel notes")
 
     def _method_chosen(self, index: int) -> None:
         self.doc.edit("flow.method", self.method.itemData(index), f"Obtain flow by {self.method.itemText(index)}")

@@ -2,17 +2,21 @@
 
 from __future__ import annotations
 
+import copy
 import time
 from pathlib import Path
 
-from PySide6.QtCore import QSize, Qt
-from PySide6.QtGui import QAction, QActionGroup, QKeySequence
-from PySide6.QtWidgets import (QFileDialog, QHBoxLayout, QInputDialog, QLabel, QListWidget, QListWidgetItem,
-                               QMainWindow, QMessageBox, QSplitter, QStyle, QTabWidget, QToolButton, QVBoxLayout,
-                               QWidget)
+from PySide6.QtCore import QSize, Qt, QUrl
+from PySide6.QtGui import QAction, QActionGroup, QDesktopServices, QKeySequence
+from PySide6.QtWidgets import (QApplication, QDialog, QFileDialog, QHBoxLayout, QInputDialog, QLabel, QListWidget,
+                               QListWidgetItem, QMainWindow, QMessageBox, QSplitter, QStyle, QTabWidget,
+                               QToolButton, QVBoxLayout, QWidget)
+
+import hydraulics as hy
 
 from .. import __version__
 from .. import project as pj
+from .. import sheet as sh
 from . import compute, settings
 from .autosave import Autosaver, find_recoverable
 from .comparison import ComparisonView
@@ -21,7 +25,9 @@ from .fields import pretty
 from .forms import SHAPES, InputPanel
 from .plots import EnergyPicture, RatingPicture, SectionPicture
 from .results_view import CAUTION, ResultsPanel
+from .sheet_dialogs import ExportSheetDialog, NotesDialog, SheetDetailsDialog, ask_password
 from .style import STYLE
+from .tasks import Task
 
 FILE_FILTER = "Ditchwright projects (*.json);;All files (*)"
 SHAPE_NAMES = dict(SHAPES)
@@ -36,6 +42,8 @@ class MainWindow(QMainWindow):
         self.last_good: compute.Evaluation | None = None
         self.evaluation: compute.Evaluation | None = None
         self._drawn: dict[str, int] = {}
+        self.export_task: Task | None = None
+        self.inventory_dialog = None
         self.setStyleSheet(STYLE)
         self.create_actions()
         self.create_menus()
@@ -77,6 +85,12 @@ class MainWindow(QMainWindow):
                                "Open the demo project of an invented site")
         self.save_action = act("&Save", self.save, K.Save, "Save the project", SP.SP_DialogSaveButton)
         self.save_as_action = act("Save &as…", self.save_as, K.SaveAs, "Save the project under a new name")
+        self.export_action = act("&Export design sheets…", self.export_dialog, "Ctrl+E",
+                                 "Write the design sheet of this channel or of the whole project to a PDF",
+                                 SP.SP_FileDialogDetailedView)
+        self.export_action.setIconText("Export sheets")
+        self.inventory_action = act("Check an &inventory…", self.open_inventory, "Ctrl+I",
+                                    "Check every reach of a ditch inventory (CSV) and import chosen ones")
         self.quit_action = act("&Quit", self.close, K.Quit, "Close the window")
         self.undo_action = self.doc.undo_stack.createUndoAction(self, "&Undo")
         self.undo_action.setShortcut(QKeySequence(K.Undo))
@@ -92,6 +106,10 @@ class MainWindow(QMainWindow):
         self.rename_action = act("&Rename channel…", self.rename_channel, "F2", "Rename the current channel")
         self.delete_action = act("De&lete channel", self.delete_channel, None, "Delete the current channel")
         self.project_name_action = act("Project &name…", self.rename_project, None, "Name the project")
+        self.sheet_details_action = act("&Sheet details…", self.edit_sheet_details, None,
+                                        "Company, logo, project number, revision and sign-off names for the sheets")
+        self.project_notes_action = act("Project &notes…", self.edit_project_notes, None,
+                                        "Notes about the whole project")
         self.copy_table_action = act("&Copy comparison table", self.copy_table, None,
                                      "Copy the lining comparison as tab-separated text")
         self.tab_actions = []
@@ -120,13 +138,17 @@ class MainWindow(QMainWindow):
         m.addSeparator()
         m.addActions([self.save_action, self.save_as_action])
         m.addSeparator()
+        m.addActions([self.export_action, self.inventory_action])
+        m.addSeparator()
         m.addAction(self.quit_action)
         m = bar.addMenu("&Edit")
         m.addActions([self.undo_action, self.redo_action])
         m.addSeparator()
         m.addActions([self.add_action, self.duplicate_action, self.rename_action, self.delete_action])
         m.addSeparator()
-        m.addActions([self.project_name_action, self.copy_table_action])
+        m.addAction(self.copy_table_action)
+        m = bar.addMenu("&Project")
+        m.addActions([self.project_name_action, self.sheet_details_action, self.project_notes_action])
         m = bar.addMenu("&View")
         m.addActions(self.tab_actions)
         m.addSeparator()
@@ -144,6 +166,8 @@ class MainWindow(QMainWindow):
         tb.addActions([self.new_action, self.open_action, self.save_action])
         tb.addSeparator()
         tb.addActions([self.undo_action, self.redo_action])
+        tb.addSeparator()
+        tb.addAction(self.export_action)
         tb.addSeparator()
         tb.addWidget(QLabel(" Units "))
         tb.addActions([self.si_action, self.us_action])
@@ -297,6 +321,10 @@ class MainWindow(QMainWindow):
         key = TABS[self.tabs.currentIndex()]
         if key in self._drawn or key == "compare":
             return
+        if self.export_task is not None:
+            # The sheet draws its rating curve with matplotlib in the export's thread, under rc_context;
+            # matplotlib is not thread-safe, so the pictures wait for the export (results stay live).
+            return
         self._drawn[key] = 1
         ev, units, ch = self.evaluation, self.doc.units, self.doc.channel()
         usable = ev is not None and ev.ok and not self.complaint
@@ -353,6 +381,16 @@ class MainWindow(QMainWindow):
         name, ok = QInputDialog.getText(self, "Project name", "Name of the project:", text=self.doc.project.name)
         if ok and name.strip():
             self.doc.set_project_text("name", name.strip(), "Rename project")
+
+    def edit_sheet_details(self) -> None:
+        dialog = SheetDetailsDialog(self.doc.project.sheet, parent=self)
+        if dialog.exec() == QDialog.DialogCode.Accepted:
+            self.doc.set_sheet_info(dialog.info())
+
+    def edit_project_notes(self) -> None:
+        dialog = NotesDialog(self.doc.project.notes, parent=self)
+        if dialog.exec() == QDialog.DialogCode.Accepted:
+            self.doc.set_project_text("notes", dialog.text(), "Change project notes")
 
     def copy_table(self) -> None:
         self.tabs.setCurrentIndex(TABS.index("compare"))
@@ -497,6 +535,94 @@ class MainWindow(QMainWindow):
         clicked = box.clickedButton()
         return "recover" if clicked is recover else "discard" if clicked is discard else "later"
 
+    # -- design sheets ------------------------------------------------------------------------------
+    def export_dialog(self) -> None:
+        """Ask what to export, the password when signing, then write the PDF in the background."""
+        if self.export_task is not None:
+            self.statusBar().showMessage("A design-sheet export is already running.", 6000)
+            return
+        p = self.persistent
+        folder = (settings.SHEET_FOLDER.read() or settings.LAST_FOLDER.read()) if p else ""
+        if not folder and self.doc.path is not None:
+            folder = str(self.doc.path.resolve().parent)
+        dialog = ExportSheetDialog(self.doc.project, self.doc.current, modified=self.doc.modified, folder=folder,
+                                   page=settings.SHEET_PAGE.read() if p else "",
+                                   certificate=settings.CERTIFICATE.read() if p else "",
+                                   open_after=settings.SHEET_OPEN.read() if p else True, parent=self)
+        if dialog.exec() != QDialog.DialogCode.Accepted:
+            return
+        choice = dialog.choice()
+        if p:
+            settings.SHEET_PAGE.write(choice.page)
+            settings.SHEET_OPEN.write(choice.open_after)
+            settings.SHEET_FOLDER.write(str(choice.path.parent))
+            if choice.certificate:
+                settings.CERTIFICATE.write(choice.certificate)
+        sign = None
+        if choice.certificate:
+            password = ask_password(self, choice.certificate)
+            if password is None:
+                self.statusBar().showMessage("No sheet written: the password was not given.", 8000)
+                return
+            sign = (choice.certificate, password)
+        self.export_sheets(choice, sign)
+
+    def export_sheets(self, choice, sign=None) -> Task:
+        """Write the sheets of ``choice`` in a worker thread; the window stays usable meanwhile.
+
+        The worker gets a copy of the project, so edits made during the export
+        do not reach a half-written sheet. ``sign`` is (PKCS#12 path, password)
+        or None; the password lives only as long as the task.
+        """
+        project = copy.deepcopy(self.doc.project)
+        count = len(choice.channels) if choice.channels is not None else len(project.channels)
+
+        def work(progress):
+            return sh.export_sheets(project, choice.path, channels=choice.channels, page=choice.page, sign=sign)
+
+        task = Task(work, self)
+        task.succeeded.connect(lambda notes: self._export_done(choice, count, sign is not None, notes))
+        task.failed.connect(lambda exc: self._export_failed(choice, exc))
+        task.finished.connect(self._export_ended)
+        self.export_task = task
+        self.export_action.setEnabled(False)
+        QApplication.setOverrideCursor(Qt.CursorShape.BusyCursor)
+        self.statusBar().showMessage(f"Writing {count} design sheet{'s' if count != 1 else ''} to "
+                                     f"{choice.path}…")
+        task.start()
+        return task
+
+    def _export_ended(self) -> None:
+        task, self.export_task = self.export_task, None
+        QApplication.restoreOverrideCursor()
+        self.export_action.setEnabled(True)
+        if task is not None:
+            task.deleteLater()
+        self.draw_current()
+
+    def _export_done(self, choice, count: int, signed: bool, notes: list) -> None:
+        what = f"{count} design sheet{'s' if count != 1 else ''}" + (", signed," if signed else "")
+        message = f"Wrote {what} to {choice.path}."
+        if notes:
+            message += " Note: " + "; ".join(notes) + "."
+        if choice.open_after and not QDesktopServices.openUrl(QUrl.fromLocalFile(str(choice.path))):
+            message += " No program opened it; open the file yourself."
+        self.statusBar().showMessage(message, 15000)
+
+    def _export_failed(self, choice, exc: BaseException) -> None:
+        QMessageBox.warning(self, "Design sheets not written", export_failure_text(exc, choice.path))
+
+    # -- inventories ------------------------------------------------------------------------------------
+    def open_inventory(self) -> None:
+        """Show the inventory check (one window, kept while the main window lives)."""
+        from .inventory import InventoryDialog
+        if self.inventory_dialog is None:
+            self.inventory_dialog = InventoryDialog(self.doc, persistent=self.persistent, parent=self)
+        dialog = self.inventory_dialog
+        dialog.show()
+        dialog.raise_()
+        dialog.activateWindow()
+
     # -- other ------------------------------------------------------------------------------------------
     def about(self) -> None:
         QMessageBox.about(self, "About Ditchwright",
@@ -504,6 +630,10 @@ class MainWindow(QMainWindow):
                           f"critical depth by Manning's equation, lining checks, freeboard.</p><p>{CAUTION}</p>")
 
     def closeEvent(self, event) -> None:
+        if self.export_task is not None:
+            self.export_task.wait()   # a sheet export takes seconds; let it finish its file
+        if self.inventory_dialog is not None:
+            self.inventory_dialog.stop(wait=True)
         if self.maybe_save():
             self.write_settings()
             if self.autosaver:
@@ -512,3 +642,27 @@ class MainWindow(QMainWindow):
         else:
             event.ignore()
 
+
+
+def _sentence(text) -> str:
+    text = str(text).strip()
+    return text if text.endswith((".", "!", "?")) else text + "."
+
+
+def export_failure_text(exc: BaseException, path) -> str:
+    """Why the sheets were not written, in words (for one message box)."""
+    tail = "\n\nNo file was written; any earlier file of that name is unchanged."
+    if isinstance(exc, sh.SigningError):
+        return f"The sheets could not be signed:\n\n{_sentence(exc)}{tail}"
+    if isinstance(exc, sh.SheetLayoutError):
+        return f"The sheet could not be laid out:\n\n{_sentence(exc)}{tail}"
+    if isinstance(exc, hy.InputError):
+        return (f"A channel cannot be computed, so it has no sheet:\n\n{_sentence(exc)}\n\n"
+                f"Fix that input and export again.{tail}")
+    if isinstance(exc, hy.NoSolutionError):
+        return f"A channel has no solution, so it has no sheet:\n\n{_sentence(exc)}{tail}"
+    if isinstance(exc, KeyError):
+        return f"{_sentence(exc.args[0] if exc.args else exc)}{tail}"
+    if isinstance(exc, OSError):
+        return f"Cannot write {path}:\n\n{_sentence(exc.strerror or exc)}{tail}"
+    return f"The export stopped with an unexpected error:\n\n{type(exc).__name__}: {_sentence(exc)}{tail}"

@@ -54,8 +54,16 @@ SPLITTER_STATE = Setting("window/splitter", QByteArray, QByteArray(), "widths of
 RECENT_FILES = Setting("files/recent", list, [], "project files opened or saved, most recent first")
 LAST_FOLDER = Setting("files/last_folder", str, "", "folder of the last project opened or saved")
 DEMO_SHOWN = Setting("start/demo_shown", bool, False, "the demo project was opened on the first start")
+SHEET_PAGE = Setting("sheet/page", str, "", "paper of the last design-sheet export: letter or a4 (\"\": by units)")
+SHEET_OPEN = Setting("sheet/open_after", bool, True, "open the PDF after a design-sheet export")
+SHEET_FOLDER = Setting("sheet/folder", str, "", "folder of the last design-sheet export")
+CERTIFICATE = Setting("sheet/certificate", str, "", "the PKCS#12 file last used to sign (its path only; "
+                      "the password is never stored)")
+INVENTORY_FOLDER = Setting("inventory/folder", str, "", "folder of the last inventory checked")
+INVENTORY_UNITS = Setting("inventory/units", str, "", "units of the last inventory checked: us or si")
 
-ALL = (WINDOW_GEOMETRY, WINDOW_STATE, SPLITTER_STATE, RECENT_FILES, LAST_FOLDER, DEMO_SHOWN)
+ALL = (WINDOW_GEOMETRY, WINDOW_STATE, SPLITTER_STATE, RECENT_FILES, LAST_FOLDER, DEMO_SHOWN, SHEET_PAGE, SHEET_OPEN,
+       SHEET_FOLDER, CERTIFICATE, INVENTORY_FOLDER, INVENTORY_UNITS)
 MAX_RECENT = 8
 
 
