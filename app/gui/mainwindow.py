@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 import copy
+import dataclasses
 import time
 from pathlib import Path
 
@@ -558,6 +559,9 @@ class MainWindow(QMainWindow):
             settings.SHEET_FOLDER.write(str(choice.path.parent))
             if choice.certificate:
                 settings.CERTIFICATE.write(choice.certificate)
+        choice = self._leave_out_unsolved(choice)
+        if choice is None:
+            return
         sign = None
         if choice.certificate:
             password = ask_password(self, choice.certificate)
@@ -566,6 +570,33 @@ class MainWindow(QMainWindow):
                 return
             sign = (choice.certificate, password)
         self.export_sheets(choice, sign)
+
+    def _leave_out_unsolved(self, choice):
+        """Channels without a result have no sheet: say which and why, and offer to export the others."""
+        project = self.doc.project
+        names = choice.channels if choice.channels is not None else [c.name for c in project.channels]
+        unsolved = []
+        for name in names:
+            ev = compute.evaluate(project.channel(name), self.doc.units)
+            if not ev.ok:
+                unsolved.append((name, ev.error))
+        if not unsolved:
+            return choice
+        listing = "\n".join(f"• {name}: {pretty(_sentence(why))}" for name, why in unsolved)
+        others = [n for n in names if n not in dict(unsolved)]
+        if not others:
+            QMessageBox.warning(self, "Design sheets not written",
+                                f"{'This channel has' if len(unsolved) == 1 else 'These channels have'} no result, "
+                                f"so no sheet:\n\n{listing}\n\nFix the inputs marked in the form and export again.")
+            return None
+        answer = QMessageBox.question(
+            self, "Some channels have no sheet",
+            f"{'This channel has' if len(unsolved) == 1 else 'These channels have'} no result, so no sheet:\n\n"
+            f"{listing}\n\nExport the sheets of the other {len(others)} channel{'s' if len(others) != 1 else ''}?",
+            QMessageBox.StandardButton.Yes | QMessageBox.StandardButton.No, QMessageBox.StandardButton.No)
+        if answer != QMessageBox.StandardButton.Yes:
+            return None
+        return dataclasses.replace(choice, channels=others)
 
     def export_sheets(self, choice, sign=None) -> Task:
         """Write the sheets of ``choice`` in a worker thread; the window stays usable meanwhile.
@@ -610,7 +641,7 @@ class MainWindow(QMainWindow):
         self.statusBar().showMessage(message, 15000)
 
     def _export_failed(self, choice, exc: BaseException) -> None:
-        QMessageBox.warning(self, "Design sheets not written", export_failure_text(exc, choice.path))
+        QMessageBox.warning(self, "Design sheets not written", pretty(export_failure_text(exc, choice.path)))
 
     # -- inventories ------------------------------------------------------------------------------------
     def open_inventory(self) -> None:

@@ -3,8 +3,10 @@
 Every test gets its own QSettings files and QStandardPaths folders under
 ``tmp_path`` (QStandardPaths test mode, with HOME pointing there), so a test
 never reads or writes the user's own settings, recent files or autosaves.
-Message boxes and file dialogs are replaced by recorders that answer as the
-test says; a dialog no test expected is recorded and answered "Cancel".
+Message boxes, file dialogs and QInputDialog.getText are replaced by
+recorders that answer as the test says; a dialog no test expected is recorded
+and answered "Cancel". QDesktopServices.openUrl only records the address, so
+no test starts a PDF viewer.
 """
 
 import os
@@ -14,7 +16,8 @@ import pytest
 os.environ.setdefault("QT_QPA_PLATFORM", "offscreen")
 
 from PySide6.QtCore import QSettings, QStandardPaths  # noqa: E402
-from PySide6.QtWidgets import QFileDialog, QMessageBox  # noqa: E402
+from PySide6.QtGui import QDesktopServices  # noqa: E402
+from PySide6.QtWidgets import QFileDialog, QInputDialog, QMessageBox  # noqa: E402
 
 
 @pytest.fixture(autouse=True)
@@ -40,6 +43,9 @@ class Dialogs:
         self.answers = {}      # kind -> list of StandardButton
         self.open_name = ""    # what QFileDialog.getOpenFileName returns
         self.save_name = ""    # what QFileDialog.getSaveFileName returns
+        self.texts = []        # answers of QInputDialog.getText, in order: (text, ok); none left: ("", False)
+        self.asked = []        # (title, label, echo mode) of every QInputDialog.getText
+        self.opened = []       # addresses given to QDesktopServices.openUrl
 
     def _box(self, kind):
         def show(parent, title, text, *args, **kwargs):
@@ -47,6 +53,14 @@ class Dialogs:
             queue = self.answers.get(kind, [])
             return queue.pop(0) if queue else QMessageBox.StandardButton.Cancel
         return show
+
+    def _get_text(self, parent, title, label, echo=None, text="", *args, **kwargs):
+        self.asked.append((title, label, kwargs.get("echo", echo)))
+        return self.texts.pop(0) if self.texts else ("", False)
+
+    def _open_url(self, url):
+        self.opened.append(url)
+        return True
 
     def kinds(self):
         return [k for k, _, _ in self.shown]
@@ -61,6 +75,8 @@ def dialogs(monkeypatch):
     monkeypatch.setattr(QMessageBox, "exec", lambda self: d.shown.append(("exec", self.windowTitle(), self.text())))
     monkeypatch.setattr(QFileDialog, "getOpenFileName", staticmethod(lambda *a, **k: (d.open_name, "")))
     monkeypatch.setattr(QFileDialog, "getSaveFileName", staticmethod(lambda *a, **k: (d.save_name, "")))
+    monkeypatch.setattr(QInputDialog, "getText", staticmethod(d._get_text))
+    monkeypatch.setattr(QDesktopServices, "openUrl", staticmethod(d._open_url))
     return d
 
 
