@@ -34,6 +34,12 @@ def pretty(text: str) -> str:
     return "".join(out)
 
 
+def sentence(text) -> str:
+    """``text`` ending in a full stop (unless it ends in one already, or in ! or ?)."""
+    text = str(text).strip()
+    return text if not text or text.endswith((".", "!", "?")) else text + "."
+
+
 @dataclass(frozen=True)
 class FieldSpec:
     path: str                   # the input in the channel, e.g. "slope", "section.bottom_width"

@@ -27,7 +27,7 @@ from hydraulics import batch as hb
 from hydraulics import units as hu
 
 from . import compute, settings
-from .fields import pretty
+from .fields import pretty, sentence
 from .style import STYLE
 from .tasks import Cancelled, Task
 
@@ -437,15 +437,17 @@ class InventoryDialog(QDialog):
         self.check_button.setEnabled(True)
 
     def _check_failed(self, path: Path, exc: BaseException) -> None:
+        before = ("" if self.run is None else
+                  f" The table still shows the results of {Path(self.run.inventory.source).name}.")
         if isinstance(exc, Cancelled):
-            self._say("Stopped; no results." if self.run is None else
-                      "Stopped; the table still shows the previous results.", error=False)
+            self._say("Stopped." + (before or " No results."))
         elif isinstance(exc, InventoryError):
-            self._say(f"{exc}", error=True)
+            self._say(sentence(exc) + before, error=True)
         elif isinstance(exc, (OSError, ValueError)):
-            self._say(f"{path}: {exc}", error=True)
+            self._say(sentence(f"{path}: {exc}") + before, error=True)
         else:
-            self._say(f"The check stopped with an unexpected error: {type(exc).__name__}: {exc}", error=True)
+            self._say(sentence(f"The check stopped with an unexpected error: {type(exc).__name__}: {exc}") + before,
+                      error=True)
 
     def _checked(self, path: Path, run: ab.BatchRun, columns: list, rows: list) -> None:
         self.run = run
@@ -574,7 +576,7 @@ class InventoryDialog(QDialog):
         rows = sorted({i.row() for i in self.table.selectionModel().selectedRows()})
         if not rows:
             return
-        lines = ["\t".join(["line"] + [self.model.titles[c] for c in self.model.order])]
+        lines = ["\t".join(["line"] + [self.model.titles[c].replace("\n", " ") for c in self.model.order])]
         for r in rows:
             lines.append("\t".join([str(int(self.model.lines[self.model.shown[r]]))] +
                                    [self.model.cell(r, c) for c in range(self.model.columnCount())]))

@@ -22,7 +22,7 @@ from . import compute, settings
 from .autosave import Autosaver, find_recoverable
 from .comparison import ComparisonView
 from .document import ProjectDocument
-from .fields import pretty
+from .fields import pretty, sentence
 from .forms import SHAPES, InputPanel
 from .plots import EnergyPicture, RatingPicture, SectionPicture
 from .results_view import CAUTION, ResultsPanel
@@ -582,7 +582,7 @@ class MainWindow(QMainWindow):
                 unsolved.append((name, ev.error))
         if not unsolved:
             return choice
-        listing = "\n".join(f"• {name}: {pretty(_sentence(why))}" for name, why in unsolved)
+        listing = "\n".join(f"• {name}: {pretty(sentence(why))}" for name, why in unsolved)
         others = [n for n in names if n not in dict(unsolved)]
         if not others:
             QMessageBox.warning(self, "Design sheets not written",
@@ -675,25 +675,20 @@ class MainWindow(QMainWindow):
 
 
 
-def _sentence(text) -> str:
-    text = str(text).strip()
-    return text if text.endswith((".", "!", "?")) else text + "."
-
-
 def export_failure_text(exc: BaseException, path) -> str:
     """Why the sheets were not written, in words (for one message box)."""
     tail = "\n\nNo file was written; any earlier file of that name is unchanged."
     if isinstance(exc, sh.SigningError):
-        return f"The sheets could not be signed:\n\n{_sentence(exc)}{tail}"
+        return f"The sheets could not be signed:\n\n{sentence(exc)}{tail}"
     if isinstance(exc, sh.SheetLayoutError):
-        return f"The sheet could not be laid out:\n\n{_sentence(exc)}{tail}"
+        return f"The sheet could not be laid out:\n\n{sentence(exc)}{tail}"
     if isinstance(exc, hy.InputError):
-        return (f"A channel cannot be computed, so it has no sheet:\n\n{_sentence(exc)}\n\n"
+        return (f"A channel cannot be computed, so it has no sheet:\n\n{sentence(exc)}\n\n"
                 f"Fix that input and export again.{tail}")
     if isinstance(exc, hy.NoSolutionError):
-        return f"A channel has no solution, so it has no sheet:\n\n{_sentence(exc)}{tail}"
+        return f"A channel has no solution, so it has no sheet:\n\n{sentence(exc)}{tail}"
     if isinstance(exc, KeyError):
-        return f"{_sentence(exc.args[0] if exc.args else exc)}{tail}"
+        return f"{sentence(exc.args[0] if exc.args else exc)}{tail}"
     if isinstance(exc, OSError):
-        return f"Cannot write {path}:\n\n{_sentence(exc.strerror or exc)}{tail}"
-    return f"The export stopped with an unexpected error:\n\n{type(exc).__name__}: {_sentence(exc)}{tail}"
+        return f"Cannot write {path}:\n\n{sentence(exc.strerror or exc)}{tail}"
+    return f"The export stopped with an unexpected error:\n\n{type(exc).__name__}: {sentence(exc)}{tail}"
