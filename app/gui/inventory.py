@@ -11,11 +11,12 @@ reaches become channels of the project in one undoable step
 
 from __future__ import annotations
 
+import csv
 import math
 from pathlib import Path
 
 import numpy as np
-from PySide6.QtCore import QAbstractTableModel, QModelIndex, Qt, Signal
+from PySide6.QtCore import QAbstractTableModel, QModelIndex, Qt, QTimer, Signal
 from PySide6.QtGui import QColor, QFontDatabase, QGuiApplication
 from PySide6.QtWidgets import (QAbstractItemView, QCheckBox, QComboBox, QDialog, QFileDialog, QGridLayout,
                                QHBoxLayout, QLabel, QLineEdit, QMessageBox, QPlainTextEdit,
@@ -51,6 +52,8 @@ LEADING = ("id", "verdict", "safety_factor", "bed_shear", "permissible_shear", "
 #: Above this many, importing asks first (a project of thousands of channels is slow to work in).
 IMPORT_ASK_ABOVE = 100
 ANY_WARNING = "__any__"
+#: Above this many reaches the text filter waits for a pause in the typing.
+TYPE_AHEAD_ROWS = 50_000
 
 
 def _quantity(column: str) -> str | None:
@@ -64,41 +67,44 @@ def column_title(column: str, units: hu.UnitSystem) -> str:
     return f"{column}\n({label})" if label else column
 
 
-class RowsModel(QAbstractTableModel):
-    """A read-only table of text rows with a chosen subset shown, sortable on any column.
+class SortableRows(QAbstractTableModel):
+    """A read-only table with a chosen subset of its rows shown, sortable on any column.
 
-    ``order`` maps shown columns to the columns of ``rows``; ``shown`` holds
-    the indices of the rows in view, in view order. Numbers sort as numbers
-    (blanks last), text sorts as text.
+    Subclasses give the text of a cell (:meth:`text`) and the sort keys of a
+    column over all rows (:meth:`keys`: floats with nan for blank, or text).
+    ``order`` maps shown columns to the subclass's columns; ``shown`` holds the
+    indices of the rows in view, in view order. Numbers sort as numbers with
+    blanks last either way, text sorts as text.
     """
 
     def __init__(self, parent=None):
         super().__init__(parent)
         self.columns: list[str] = []
         self.titles: list[str] = []
-        self.rows: list[list[str]] = []
         self.order: list[int] = []
         self.lines = np.zeros(0, dtype=np.int64)
         self.shown = np.zeros(0, dtype=np.int64)
-        self.verdicts: list[str] = []
-        self.numeric: set[int] = set()
-        self._keys: dict[int, object] = {}
+        self._keys: dict[int, np.ndarray] = {}
         self._sorted: tuple[int, Qt.SortOrder] | None = None
 
-    def load(self, columns, rows, lines, titles=None, order=None, verdict_column: str = "verdict") -> None:
-        self.beginResetModel()
-        self.columns, self.rows = list(columns), rows
+    # -- for subclasses ----------------------------------------------------------------------
+    def text(self, i: int, c: int) -> str:
+        raise NotImplementedError
+
+    def keys(self, c: int) -> np.ndarray:
+        raise NotImplementedError
+
+    def verdict(self, i: int) -> str:
+        return ""
+
+    def _reset(self, columns, titles, order, lines) -> None:
+        self.columns = list(columns)
         self.titles = list(titles or columns)
-        self.order = list(order) if order is not None else list(range(len(columns)))
+        self.order = list(order) if order is not None else list(range(len(self.columns)))
         self.lines = np.asarray(lines, dtype=np.int64)
-        self.shown = np.arange(len(rows), dtype=np.int64)
-        v = self.columns.index(verdict_column) if verdict_column in self.columns else None
-        self.verdicts = [r[v] if v is not None and v < len(r) else "" for r in rows]
+        self.shown = np.arange(len(self.lines), dtype=np.int64)
         self._keys.clear()
-        self.numeric = {c for c in range(len(columns)) if _quantity(columns[c]) is not None
-                        or columns[c] == "line"}
         self._sorted = None
-        self.endResetModel()
 
     # -- Qt model -------------------------------------------------------------------------
     def rowCount(self, parent=QModelIndex()):
@@ -108,9 +114,8 @@ class RowsModel(QAbstractTableModel):
         return 0 if parent.isValid() else len(self.order)
 
     def cell(self, row: int, column: int) -> str:
-        fields = self.rows[self.shown[row]]
-        c = self.order[column]
-        return fields[c] if c < len(fields) else ""
+        """The text in view row ``row``, view column ``column``."""
+        return self.text(int(self.shown[row]), self.order[column])
 
     def data(self, index, role=Qt.ItemDataRole.DisplayRole):
         if not index.isValid():
@@ -121,21 +126,21 @@ class RowsModel(QAbstractTableModel):
             return pretty(self.cell(r, c)) if name == "reason" else self.cell(r, c)
         if role == Qt.ItemDataRole.ToolTipRole and name == "reason":
             return pretty(self.cell(r, c)) or None
-        if role == Qt.ItemDataRole.TextAlignmentRole and self.order[c] in self.numeric:
+        if role == Qt.ItemDataRole.TextAlignmentRole and _numeric(name):
             return int(Qt.AlignmentFlag.AlignRight | Qt.AlignmentFlag.AlignVCenter)
         if name == "verdict" and role in (Qt.ItemDataRole.BackgroundRole, Qt.ItemDataRole.ForegroundRole):
-            colours = VERDICT_COLOURS.get(self.verdicts[self.shown[r]])
+            colours = VERDICT_COLOURS.get(self.verdict(int(self.shown[r])))
             if colours:
                 return QColor(colours[0] if role == Qt.ItemDataRole.BackgroundRole else colours[1])
         return None
 
     def headerData(self, section, orientation, role=Qt.ItemDataRole.DisplayRole):
         if orientation == Qt.Orientation.Horizontal:
-            if role == Qt.ItemDataRole.DisplayRole:
+            if role == Qt.ItemDataRole.DisplayRole and 0 <= section < len(self.order):
                 return self.titles[self.order[section]]
             return None
         if role == Qt.ItemDataRole.DisplayRole:
-            return str(int(self.lines[self.shown[section]])) if section < len(self.shown) else None
+            return str(int(self.lines[self.shown[section]])) if 0 <= section < len(self.shown) else None
         if role == Qt.ItemDataRole.ToolTipRole:
             return "line in the file"
         return None
@@ -157,30 +162,130 @@ class RowsModel(QAbstractTableModel):
         self.shown = self._sort(self.shown, column, order)
         self.layoutChanged.emit()
 
-    def _key(self, c: int):
-        """Sort keys of column ``c`` over all rows: floats (nan for blank) or lower-case text."""
-        if c not in self._keys:
-            texts = [r[c] if c < len(r) else "" for r in self.rows]
-            if c in self.numeric:
-                self._keys[c] = np.array([_float(t) for t in texts], dtype=float)
-            else:
-                self._keys[c] = np.array([t.strip().lower() for t in texts], dtype=object)
-        return self._keys[c]
-
     def _sort(self, shown, column, order):
-        key = self._key(self.order[column])[shown]
+        c = self.order[column]
+        if c not in self._keys:
+            self._keys[c] = self.keys(c)
+        key = self._keys[c][shown]
         descending = order == Qt.SortOrder.DescendingOrder
-        if key.dtype == object:
-            pos = sorted(range(len(shown)), key=key.__getitem__, reverse=descending)
-            return shown[np.asarray(pos, dtype=np.int64)]
+        if key.dtype.kind != "f":
+            pos = np.argsort(key, kind="stable")
+            return shown[pos[::-1]] if descending else shown[pos]
         blank = np.isnan(key)
         filled = np.flatnonzero(~blank)
         ranked = filled[np.argsort(-key[filled] if descending else key[filled], kind="stable")]
         return shown[np.concatenate([ranked, np.flatnonzero(blank)])]  # blanks last either way
 
     def source_rows(self, view_rows) -> list[int]:
-        """Row indices in the inventory (file order) of rows in view."""
+        """Row indices (file order) of rows in view."""
         return sorted(int(self.shown[r]) for r in view_rows)
+
+
+def _numeric(column: str) -> bool:
+    return _quantity(column) is not None or column == "line"
+
+
+class ReachesModel(SortableRows):
+    """Every reach of a :class:`app.batch.BatchRun`: the input columns as written, then the results.
+
+    Cells are made when Qt asks for them (an input row is split only when it
+    is shown; numbers get the results file's :data:`app.batch.DIGITS`
+    significant digits), so a 100,000-reach inventory costs little more than
+    the run itself.
+    """
+
+    def __init__(self, parent=None):
+        super().__init__(parent)
+        self.run: ab.BatchRun | None = None
+        self._values: dict = {}
+        self._fields: dict[int, list] = {}
+        self._width = 0
+
+    def load(self, run: ab.BatchRun, order_names=LEADING) -> None:
+        self.beginResetModel()
+        inv = run.inventory
+        self.run = run
+        self._width = len(inv.header)
+        self._values = ab.display_values(inv, run.result)
+        self._verdicts = run.result.verdict.astype(str)
+        self._fields.clear()
+        columns = list(inv.header) + list(ab.RESULT_COLUMNS)
+        lead = [columns.index(c) for c in order_names if c in columns]
+        reason = columns.index("reason")
+        order = lead + [i for i in range(len(columns)) if i not in lead and i != reason] + [reason]
+        self._reset(columns, [column_title(c, inv.units) for c in columns], order, inv.lines)
+        self.endResetModel()
+
+    def _row(self, i: int) -> list:
+        fields = self._fields.get(i)
+        if fields is None:
+            if len(self._fields) > 4096:
+                self._fields.clear()
+            fields = self._fields[i] = next(csv.reader([self.run.inventory.rows[i]]), [])
+        return fields
+
+    def text(self, i: int, c: int) -> str:
+        if c < self._width:
+            fields = self._row(i)
+            return fields[c] if c < len(fields) else ""
+        name = self.columns[c]
+        if name == "verdict":
+            return self._verdicts[i]
+        if name == "reason":
+            return self.run.result.reason[i]
+        value = float(self._values[name][i])
+        return "" if math.isnan(value) else f"{value:.{ab.DIGITS}g}"
+
+    def verdict(self, i: int) -> str:
+        return self._verdicts[i]
+
+    def keys(self, c: int) -> np.ndarray:
+        name, inv, res = self.columns[c], self.run.inventory, self.run.result
+        if name in self._values:
+            return np.asarray(self._values[name], dtype=float)
+        if name in hb.NUMERIC_FIELDS and c < self._width:
+            return np.asarray(getattr(inv.reaches, name), dtype=float)   # SI: the same order as shown
+        if name == "verdict":
+            return self._verdicts
+        if name == "reason":
+            return np.char.lower(res.reason.astype(str))
+        if name == "id":
+            texts = inv.ids
+        elif any('"' in r for r in inv.rows):
+            texts = [f[c] if c < len(f) else "" for f in csv.reader(inv.rows)]
+        else:
+            texts = [r.split(",")[c] if r.count(",") >= c else "" for r in inv.rows]
+        numbers = np.array([_float(t) if t.strip() else math.nan for t in texts], dtype=float)
+        if np.isfinite(numbers).sum() == sum(1 for t in texts if t.strip()):
+            return numbers                      # an extra column of numbers sorts as numbers
+        return np.array([t.strip().lower() for t in texts], dtype=str)
+
+
+class RowsModel(SortableRows):
+    """A small table of text rows (the bad rows), with the file's line numbers."""
+
+    def __init__(self, parent=None):
+        super().__init__(parent)
+        self.rows: list[list[str]] = []
+
+    def load(self, columns, rows, lines) -> None:
+        self.beginResetModel()
+        self.rows = rows
+        self._reset(columns, columns, None, lines)
+        self.endResetModel()
+
+    def text(self, i: int, c: int) -> str:
+        row = self.rows[i]
+        return row[c] if c < len(row) else ""
+
+    def verdict(self, i: int) -> str:
+        return self.text(i, self.columns.index("verdict")) if "verdict" in self.columns else ""
+
+    def keys(self, c: int) -> np.ndarray:
+        texts = [self.text(i, c) for i in range(len(self.rows))]
+        if _numeric(self.columns[c]):
+            return np.array([_float(t) for t in texts], dtype=float)
+        return np.array([t.strip().lower() for t in texts], dtype=str)
 
 
 def _float(text: str) -> float:
@@ -291,14 +396,18 @@ class InventoryDialog(QDialog):
         self.text.setObjectName("textFilter")
         self.text.setPlaceholderText("text in the id or the reason")
         self.text.setClearButtonEnabled(True)
-        self.text.textChanged.connect(self.apply_filters)
+        self.text.textChanged.connect(self._text_changed)
+        self._text_timer = QTimer(self)    # long inventories: filter when the typing pauses
+        self._text_timer.setSingleShot(True)
+        self._text_timer.setInterval(250)
+        self._text_timer.timeout.connect(self.apply_filters)
         fl.addWidget(self.text, 2, 4)
         fl.setColumnStretch(5, 1)
         lay.addWidget(self.filters)
         self.filters.setEnabled(False)
 
         # the reaches, the bad rows, the summary
-        self.model = RowsModel(self)
+        self.model = ReachesModel(self)
         self.table = QTableView()
         self.table.setObjectName("reaches")
         self.table.setModel(self.model)
@@ -393,14 +502,11 @@ class InventoryDialog(QDialog):
         catalogue = compute.catalogue()
 
         def work(progress):
-            run = ab.run_inventory(path, units, progress=progress, catalogue=catalogue)
-            progress(len(run.inventory), len(run.inventory))
-            columns, rows = run.table()
-            return run, columns, rows
+            return ab.run_inventory(path, units, progress=progress, catalogue=catalogue)
 
         task = Task(work, self)
         task.progressed.connect(self._progressed)
-        task.succeeded.connect(lambda result: self._checked(path, *result))
+        task.succeeded.connect(lambda run: self._checked(path, run))
         task.failed.connect(lambda exc: self._check_failed(path, exc))
         task.finished.connect(self._ended)
         self.task = task
@@ -449,14 +555,10 @@ class InventoryDialog(QDialog):
             self._say(sentence(f"The check stopped with an unexpected error: {type(exc).__name__}: {exc}") + before,
                       error=True)
 
-    def _checked(self, path: Path, run: ab.BatchRun, columns: list, rows: list) -> None:
+    def _checked(self, path: Path, run: ab.BatchRun) -> None:
         self.run = run
         units = run.inventory.units
-        titles = [column_title(c, units) for c in columns]
-        lead = [columns.index(c) for c in LEADING if c in columns]
-        rest = [i for i, c in enumerate(columns) if i not in lead and c != "reason"]
-        order = lead + rest + ([columns.index("reason")] if "reason" in columns else [])
-        self.model.load(columns, rows, run.inventory.lines, titles, order)
+        self.model.load(run)
         self.table.horizontalHeader().setSortIndicator(-1, Qt.SortOrder.AscendingOrder)
         problems = run.problems()
         self.problems_model.load(["line", "id", "verdict", "reason"],
@@ -495,6 +597,12 @@ class InventoryDialog(QDialog):
         """The verdicts ticked, or None when all are (no condition)."""
         on = [v for v, box in self.verdict_boxes.items() if box.isChecked()]
         return None if len(on) == len(self.verdict_boxes) else on
+
+    def _text_changed(self, *_args) -> None:
+        if self.run is not None and len(self.run.inventory) > TYPE_AHEAD_ROWS:
+            self._text_timer.start()
+        else:
+            self.apply_filters()
 
     def apply_filters(self, *_args) -> None:
         if self.run is None:
