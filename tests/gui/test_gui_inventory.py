@@ -301,3 +301,27 @@ def test_a_task_reports_its_result_and_progress(qtbot):
         task.start()
     task.wait()
     assert blocker.args == ["done"] and seen == [(1, 3), (2, 3), (3, 3)]
+
+
+def test_a_long_inventory_shows_progress_and_the_window_keeps_running(window, qtbot, tmp_path):
+    from hydraulics.batch import CHUNK
+    from PySide6.QtCore import QTimer
+
+    size = CHUNK + CHUNK // 5
+    line = ",".join(ROWS[0].get(h, "") for h in HEADER[1:])
+    path = tmp_path / "long.csv"
+    path.write_text(",".join(HEADER) + "\n" + "".join(f"L-{i},{line}\n" for i in range(size)), encoding="utf-8")
+    window.open_inventory()
+    d = window.inventory_dialog
+    d.path.setText(str(path))
+    seen, ticks = [], []
+    timer = QTimer()
+    timer.timeout.connect(lambda: ticks.append(1))
+    timer.start(20)
+    task = d.start_check()
+    task.progressed.connect(lambda done, total: seen.append((done, total)))
+    qtbot.waitUntil(lambda: d.task is None, timeout=120000)
+    timer.stop()
+    assert seen[0] == (CHUNK, size) and seen[-1] == (size, size)     # one report per chunk of reaches
+    assert len(ticks) >= 5                                            # the window's event loop kept turning
+    assert d.model.rowCount() == size and d.verdict_boxes["hydraulics-only"].text().endswith(f": {size:,}")
