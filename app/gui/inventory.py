@@ -402,6 +402,9 @@ class InventoryDialog(QDialog):
         self._text_timer.setInterval(250)
         self._text_timer.timeout.connect(self.apply_filters)
         fl.addWidget(self.text, 2, 4)
+        self.count = QLabel()
+        self.count.setObjectName("shownCount")
+        fl.addWidget(self.count, 2, 5, Qt.AlignmentFlag.AlignRight)
         fl.setColumnStretch(5, 1)
         lay.addWidget(self.filters)
         self.filters.setEnabled(False)
@@ -582,6 +585,9 @@ class InventoryDialog(QDialog):
         self.filters.setEnabled(True)
         self._fit_columns()
         self.apply_filters()
+        self._say(f"Checked {len(run.inventory):,} reaches of {path.name} ({units.name} units). Click a column "
+                  "heading to sort; choose rows (Shift or Ctrl for several) to import them as channels or "
+                  "copy them.")
         self.setWindowTitle(f"{path.name} ({units.name} units) — inventory check — Ditchwright")
 
     def _fit_columns(self) -> None:
@@ -613,9 +619,7 @@ class InventoryDialog(QDialog):
         self.model.show_rows(rows)
         self._show_detail()
         total = len(self.run.inventory)
-        self._say(f"Showing {len(rows):,} of {total:,} reaches from {Path(self.run.inventory.source).name} "
-                  f"({self.run.inventory.units.name} units). Click a column heading to sort; choose rows to "
-                  "import them as channels.")
+        self.count.setText(f"Showing {len(rows):,} of {total:,} reaches")
         self._set_result_actions()
 
     # -- results -------------------------------------------------------------------------------
@@ -629,12 +633,13 @@ class InventoryDialog(QDialog):
         self._show_detail()
 
     def _show_detail(self) -> None:
-        """The verdict and reason of the current row in full, under the table."""
-        index = self.table.currentIndex()
-        if self.run is None or not index.isValid() or not self.table.selectionModel().isSelected(index):
-            self.detail.setText("Choose a row to read its verdict and reason in full.")
+        """The verdict and reason of the chosen row in full, under the table."""
+        chosen = self.table.selectionModel().selectedRows() if self.run is not None else []
+        if len(chosen) != 1:
+            self.detail.setText("Click a row to read its verdict and reason in full." if not chosen else
+                                f"{len(chosen):,} reaches chosen. Click one to read its verdict and reason in full.")
             return
-        i = int(self.model.shown[index.row()])
+        i = int(self.model.shown[chosen[0].row()])
         inv, res = self.run.inventory, self.run.result
         ident = inv.ids[i].strip() or "no id"
         self.detail.setText(f"Line {int(inv.lines[i])}, {ident}: {res.verdict[i]}. {pretty(res.reason[i])}")
@@ -665,12 +670,20 @@ class InventoryDialog(QDialog):
                 return []
         channels, skipped = self.run.to_channels(rows)
         source = Path(self.run.inventory.source).name
+        inv = self.run.inventory
+        taken = [i for i in rows if self.run.result.verdict[i] != "invalid"]
+        if len(taken) == len(channels):   # say where each channel came from, unless the row said it
+            for i, ch in zip(taken, channels):
+                ch.location = ch.location or f"{source}, line {int(inv.lines[i])}"
         names = self.doc.add_channels(channels, f"Import {len(channels):,} reach{'es' if len(channels) != 1 else ''} "
                                                 f"from {source}") if channels else []
         parts = []
-        if names:
-            parts.append(f"Imported {len(names):,} reach{'es' if len(names) != 1 else ''} as channels "
-                         f"({_list(names)}); Edit > Undo in the main window takes them out again.")
+        if len(names) == 1:
+            parts.append(f"Imported 1 reach as a channel ({names[0]}); Edit > Undo in the main window takes it "
+                         "out again.")
+        elif names:
+            parts.append(f"Imported {len(names):,} reaches as channels ({_list(names)}); Edit > Undo in the main "
+                         "window takes them out again.")
         if skipped:
             parts.append("Not imported, the row is invalid: " +
                          "; ".join(f"line {line} ({ident or 'no id'}): {reason}" for line, ident, reason in skipped[:3])

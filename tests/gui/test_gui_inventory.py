@@ -154,7 +154,7 @@ def test_filters_by_verdict_warning_and_text(window, qtbot, inventory):
     for v, box in d.verdict_boxes.items():
         box.setChecked(v in ("invalid", "no-solution"))
     assert ids_shown(d) == ["X-3", "P-4"]
-    assert "Showing 2 of 5" in d.status.text()
+    assert d.count.text() == "Showing 2 of 5 reaches"
     for box in d.verdict_boxes.values():
         box.setChecked(True)
     d.warning.setCurrentIndex(d.warning.findData("near_critical"))
@@ -201,6 +201,8 @@ def test_import_chosen_reaches_as_channels_in_one_undoable_step(window, qtbot, i
                           "right_slope": 3.0}
     assert t1.flow.value == pytest.approx(20 * FOOT ** 3) and t1.slope == 0.004 and t1.manning_n == 0.035
     assert "Invented Rd 1" in t1.notes                  # the extra column travels in the notes
+    assert t1.location == "invented-inventory.csv, line 2"
+    assert doc.project.channel("R-5").location == "invented-inventory.csv, line 6"
     assert doc.undo_stack.count() == 1 and doc.undo_stack.undoText() == "Import 2 reaches from invented-inventory.csv"
     doc.undo_stack.undo()
     assert [c.name for c in doc.project.channels] == before and window.channel_list.count() == 1
