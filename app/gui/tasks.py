@@ -4,6 +4,9 @@ A :class:`Task` runs one plain function in a QThread. The function gets a
 ``progress(done, total)`` callback; the task reports back through signals,
 which Qt delivers in the window's thread, so the slots may touch widgets.
 The function must not touch widgets or the open project: give it copies.
+A task runs once; it drops the function when it starts, so that whatever
+the function holds (a certificate password, a copy of the project) goes
+when the work is done.
 """
 
 from __future__ import annotations
@@ -39,8 +42,9 @@ class Task(QThread):
         self.progressed.emit(int(done), int(total))
 
     def run(self) -> None:  # in the worker thread
+        work, self._work = self._work, None   # let go of the work (and what it holds, e.g. a password)
         try:
-            result = self._work(self._report)
+            result = work(self._report)
         except BaseException as exc:  # noqa: BLE001 - every failure goes back to the window, in words
             self.failed.emit(Cancelled() if self._cancelled else exc)
         else:

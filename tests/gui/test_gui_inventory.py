@@ -23,7 +23,6 @@ from PySide6.QtWidgets import QApplication, QMessageBox
 from scipy.optimize import brentq
 
 from app import project as pj
-from app.gui import tasks
 from app.gui.inventory import IMPORT_ASK_ABOVE
 from app.gui.mainwindow import MainWindow
 
@@ -275,34 +274,6 @@ def test_double_click_on_a_bad_row_shows_it_among_the_reaches(window, qtbot, inv
     d._show_problem(d.problems_model.index(0, 0))
     assert d.views.currentIndex() == 0 and d.chosen_rows() == [2]
     assert d.detail.text().startswith("Line 4, X-3: invalid.")
-
-
-def test_a_task_stops_at_its_next_progress_report(qtbot):
-    steps = []
-
-    def work(progress):
-        for i in range(1000):
-            steps.append(i)
-            progress(i, 1000)
-            if i == 2:
-                task.cancel()
-        return "finished"
-
-    task = tasks.Task(work)
-    with qtbot.waitSignal(task.failed, timeout=10000) as blocker:
-        task.start()
-    task.wait()
-    assert isinstance(blocker.args[0], tasks.Cancelled) and steps == [0, 1, 2, 3]
-
-
-def test_a_task_reports_its_result_and_progress(qtbot):
-    seen = []
-    task = tasks.Task(lambda progress: [progress(i, 3) for i in range(1, 4)] and "done")
-    task.progressed.connect(lambda done, total: seen.append((done, total)))
-    with qtbot.waitSignal(task.succeeded, timeout=10000) as blocker:
-        task.start()
-    task.wait()
-    assert blocker.args == ["done"] and seen == [(1, 3), (2, 3), (3, 3)]
 
 
 def test_a_long_inventory_shows_progress_and_the_window_keeps_running(window, qtbot, tmp_path):
