@@ -642,7 +642,9 @@ class InventoryDialog(QDialog):
         i = int(self.model.shown[chosen[0].row()])
         inv, res = self.run.inventory, self.run.result
         ident = inv.ids[i].strip() or "no id"
-        self.detail.setText(f"Line {int(inv.lines[i])}, {ident}: {res.verdict[i]}. {pretty(res.reason[i])}")
+        verdict, reason = str(res.verdict[i]), pretty(res.reason[i])
+        told = reason if reason.lower().startswith(verdict) else f"{verdict}. {reason}"
+        self.detail.setText(f"Line {int(inv.lines[i])}, {ident}: {told}")
 
     def _set_result_actions(self) -> None:
         has_run = self.run is not None
