@@ -142,26 +142,22 @@ def _ext(g, x1, y1, x2, y2):
     g.add(Line(x1, y1, x2, y2, strokeColor=DIM, strokeWidth=0.3))
 
 
-def section_drawing(sheet, width: float, height: float, min_height: float = 110.0) -> tuple[Drawing, str]:
+def section_drawing(sheet, width: float, height: float, min_height: float = 100.0) -> tuple[Drawing, str]:
     """A Drawing ``width`` x at most ``height`` [pt] of the channel's typical section, and its scale in words.
 
     The scale is the largest round one at which the section fits; the drawing
     is then made only as tall as it needs (at least ``min_height``).
     """
     register()
-    f_units = sheet.units
-    us = f_units.key == "us"
-    ev = sheet.evaluation
-    section = sheet.section
-    yn, yc = ev.design_depth, float(ev.result.critical_depth)
+    us = sheet.units.key == "us"
+    design = sheet.design
+    section = design.section
+    yn, yc = float(design.analysis.normal_depth), float(design.analysis.critical_depth)
     full = section.full_depth
-    total = ev.total_depth if full is None else min(ev.total_depth, full)
+    total = design.total_depth if full is None else min(design.total_depth, full)
     t = sheet.thickness or 0.0
     open_top = section.kind in ("trapezoid", "triangle", "rectangle", "parabola")
-
-    def fmt(v, q="length", figures=3):
-        from .content import Formatter
-        return Formatter(f_units)(v, q, figures)
+    fmt = sheet.format  # the tables' rounding, so a value reads the same in the drawing
 
     x, z = section.outline(total)
     x, z = np.asarray(x, float), np.asarray(z, float)
@@ -174,7 +170,7 @@ def section_drawing(sheet, width: float, height: float, min_height: float = 110.
     real_h = float(max(z.max(), total)) + t
     ground_pt = 28.0 if open_top else 0.0   # ground line beyond each bank [pt]
 
-    left, right, bottom, top = 74.0, 74.0, 40.0, 22.0
+    left, right, bottom, top = 74.0, 74.0, 46.0, 20.0
     avail_w = width - left - right - 2 * ground_pt
     avail_h = height - bottom - top
     s_needed = min(avail_w / real_w, avail_h / real_h)  # pt per m
@@ -217,7 +213,7 @@ def section_drawing(sheet, width: float, height: float, min_height: float = 110.
         g.add(Line(X(xl_c), Y(yc), X(xr_c), Y(yc), strokeColor=red, strokeWidth=0.5, strokeDashArray=[2, 1.5]))
         below = yc < yn or abs(yc - yn) * s < SIZE + 3  # keep clear of the water-surface label
         g.add(_text(X((xl_c + xr_c) / 2), Y(min(yc, yn)) - SIZE if below else Y(yc) + 1.2,
-                    f"critical depth yc {fmt(yc, figures=3)}", color=red, size=SIZE - 0.5, anchor="middle"))
+                    f"critical depth yc {fmt(yc, 'length')}", color=red, size=SIZE - 0.5, anchor="middle"))
 
     # lining band (to scale) or a heavy boundary line when its thickness is not known
     if t > 0:
@@ -247,7 +243,7 @@ def section_drawing(sheet, width: float, height: float, min_height: float = 110.
     y_top = Y(top_z) + 12
     _ext(g, X(xl), Y(top_z) + 2, X(xl), y_top + 2)
     _ext(g, X(xr), Y(top_z) + 2, X(xr), y_top + 2)
-    _dim_h(g, X(xl), X(xr), y_top, f"{'diameter D' if closed else 'top width'} {fmt(xr - xl, figures=4)}")
+    _dim_h(g, X(xl), X(xr), y_top, f"{'diameter D' if closed else 'top width'} {fmt(xr - xl, 'length')}")
 
     # design depth and freeboard at the left, total depth at the right; labels horizontal
     x_invert = float(x[np.argmin(z)])
@@ -259,11 +255,11 @@ def section_drawing(sheet, width: float, height: float, min_height: float = 110.
     _ext(g, X(xr) + ground_pt, Y(top_z), xd_r + 2, Y(top_z))
     if xl_w is not None:
         _ext(g, X(xl_w) - 2, Y(yn), xd_l - 2, Y(yn))
-    _dim_v(g, xd_l, Y(0), Y(min(yn, top_z)), f"yn {fmt(yn, figures=4)}", side="left")
+    _dim_v(g, xd_l, Y(0), Y(min(yn, top_z)), f"yn {fmt(yn, 'length')}", side="left")
     if total > yn:
-        _dim_v(g, xd_l, Y(yn), Y(top_z), f"{'to crown' if closed else 'freeboard'} {fmt(total - yn, figures=2)}",
+        _dim_v(g, xd_l, Y(yn), Y(top_z), f"{'to crown' if closed else 'freeboard'} {fmt(total - yn, 'length')}",
                side="left")
-    _dim_v(g, xd_r, Y(0), Y(top_z), f"{'crown' if closed else 'total depth'} {fmt(total, figures=3)}", side="right")
+    _dim_v(g, xd_r, Y(0), Y(top_z), f"{'crown' if closed else 'total depth'} {fmt(total, 'length')}", side="right")
 
     # bottom width and side slopes for the trapezoid family
     if section.side_slopes is not None:
@@ -272,7 +268,7 @@ def section_drawing(sheet, width: float, height: float, min_height: float = 110.
         if b > 0:
             _ext(g, X(-b / 2), Y(0) - 2, X(-b / 2), y_b - 2)
             _ext(g, X(b / 2), Y(0) - 2, X(b / 2), y_b - 2)
-            _dim_h(g, X(-b / 2), X(b / 2), y_b, f"b {fmt(b, figures=3)}", above=False)
+            _dim_h(g, X(-b / 2), X(b / 2), y_b, f"b {fmt(b, 'length')}", above=False)
         for side, zs in (("left", section.side_slopes[0]), ("right", section.side_slopes[1])):
             if zs <= 0:
                 continue
@@ -280,15 +276,19 @@ def section_drawing(sheet, width: float, height: float, min_height: float = 110.
             zm = 0.5 * top_z
             xm = (-b / 2 - zs * zm) if side == "left" else (b / 2 + zs * zm)
             # parallel to the slope, on the ground side, beyond the hatching
-            gap = t * s + 5 + SIZE
+            gap = t * s + 7 + SIZE
             c, sn = math.cos(math.radians(theta)), math.sin(math.radians(theta))
             nx = -sn if side == "left" else sn
             g.add(_text(X(xm) + nx * gap, Y(zm) - c * gap, f"{zs:g}H:1V (\u03b8 = {theta:.1f}\u00b0)",
                         anchor="middle", angle=-theta if side == "left" else theta))
 
     # captions: the lining, then the scale with a scale bar
-    lab = f"Lining: {sheet.lining_label}" + (f", thickness t = {fmt(t, 'small_length', 3)} (to scale)" if t > 0
-                                              else " (heavy line; thickness not given)")
+    if t > 0:
+        lab = f"Lining: {sheet.lining_label}; layer thickness t = {fmt.stone(t)}, drawn to scale"
+    elif sheet.design.stability is not None:
+        lab = f"Lining: {sheet.lining_label}; no layer thickness (heavy line)"
+    else:
+        lab = "No lining chosen (heavy line: the channel boundary)"
     g.add(_text(8, 17, lab))
     bar_real = _bar_length(width * 0.2 / s, us)
     bx, by = 8.0, 5.0
