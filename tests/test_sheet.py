@@ -79,13 +79,13 @@ def test_results_carry_units_us(pages):
     text = pages[0]
     for label, unit in (("Normal depth yn", "ft"), ("Critical depth yc", "ft"), ("Velocity V", "ft/s"),
                         ("Flow area A", "ft²"), ("Top width at top", "ft"), ("Design flow Q", "ft³/s"),
-                        ("Top width of flow T", "ft"), ("Total depth", "ft"), ("Freeboard", "ft"),
+                        ("Top width T", "ft"), ("Total depth", "ft"), ("Freeboard", "ft"),
                         ("Lined width", "ft")):
         value, printed_unit = _number_after(text.replace("\n", " "), label)
         assert math.isfinite(value)
         if unit:
             assert printed_unit == unit, f"{label}: unit {printed_unit!r}, expected {unit!r}"
-    assert "Froude number Fr" in text and "subcritical" in text
+    assert "Froude number Fr" in text and "Flow regime subcritical" in text.replace("\n", " ")
     assert "Manning's n used" in text
 
 
@@ -105,7 +105,7 @@ def test_printed_normal_depth_solves_mannings_equation(project, pages):
     # instead of the program's coupled solver.
     ch = project.channels[0]
     text = pages[0].replace("\n", " ")
-    n = float(re.search(r"Manning's n used ([0-9.]+) \(the lining's", text).group(1))
+    n = float(re.search(r"Manning's n used ([0-9.]+) \(lining, at yn\)", text).group(1))
     y = _mannings_depth(ch.section["bottom_width"] / FOOT, ch.section["left_slope"], ch.flow.value / FOOT ** 3,
                         n, ch.slope)
     printed, unit = _number_after(pages[0], "Normal depth yn")
@@ -129,7 +129,8 @@ def test_published_trapezoid_example_prints_its_normal_depth(tmp_path):
     assert unit == "ft"
     assert value == pytest.approx(3.36, rel=0.005)
     # no lining: the typed n is used and the sheet says the stability was not checked
-    assert "NOT CHECKED" in text and "0.025 (typed in the project)" in text
+    assert "NOT CHECKED" in text and "Manning's n used 0.025 (typed)" in text.replace("\n", " ")
+    assert "Manning's n 0.025 (typed in the project)" in text.replace("\n", " ")
 
 
 def test_si_project_prints_si_units(project, tmp_path):
@@ -437,8 +438,8 @@ def test_stone_lining_from_the_catalogue_sets_n_and_thickness(tmp_path):
     export_sheets(proj, path)
     text = PdfReader(path).pages[0].extract_text().replace("\n", " ")
     assert "Rock riprap, D50 0.150 m (150 mm)" in text
-    assert "layer thickness t = 0.225 m (225 mm)" in text
-    assert re.search(r"Manning's n used [0-9.]+ \(the lining's", text)
+    assert "Layer thickness t 0.225 m (225 mm)" in text  # 1.5 D50
+    assert re.search(r"Manning's n used [0-9.]+ \(lining, at yn\)", text)
     assert "[1] Manning n: " in text and "[2] permissible shear: HEC-15" in text
 
 
@@ -467,3 +468,219 @@ def test_logo_slot_is_empty_unless_the_user_fills_it(project, tmp_path):
     proj.sheet.logo = str(tmp_path / "missing.png")
     notes = export_sheets(proj, tmp_path / "nologo.pdf", channels=project.channels[0].name)
     assert notes and "logo file not found" in notes[0]
+
+
+# ------------------------------------------------------------------ lining stability block
+GAMMA_WATER_PCF = 9810 / 157.08746  # 9810 N/m^3 (HEC-15 SI value) in lb/ft^3; 1 lbf/ft^3 = 157.087 N/m^3
+PSF = 47.880259  # Pa per lbf/ft^2 (NIST SP 811, 2008 ed., Appendix B.8)
+
+
+def _check_row(text: str, location: str) -> list:
+    """(design shear, permissible, SF achieved, SF required, result) of one row of the shear-check table."""
+    m = re.search(re.escape(location) + r"\s+([0-9.]+)\s+([0-9.]+|non-erodible)\s+([0-9.]+|—)\s+([0-9.]+)\s+"
+                  r"(passes|FAILS|non-erodible)", text)
+    assert m, f"no check row for {location!r}"
+    return list(m.groups())
+
+
+def test_stability_block_reads_back_with_units(pages):
+    text = pages[0].replace("\n", " ")
+    assert "LINING STABILITY" in text and "STABLE" in text and "NOT STABLE" not in text
+    assert "Design shear τ  lb/ft²" in text and "Permissible τp  lb/ft²" in text
+    assert re.search(r"SF\s+achieved\s+SF\s+required\s+Result\s+\(SF ≥ required\)", text)
+    y = _number_after(text, "Normal depth yn")[0]
+    bed, sides, bend = (_check_row(text, loc) for loc in ("bed", "side slopes", "bend"))
+    # bed shear tau = gamma y S at the printed depth (HEC-15, 3rd ed., Eq. 3.1)
+    assert float(bed[0]) == pytest.approx(GAMMA_WATER_PCF * y * 0.005, rel=4e-3)
+    # side slopes: K1 = 0.066 Z + 0.67 for 1.5 < Z < 5 (HEC-15 Eq. 3.4, from memory): 0.868 at Z = 3
+    assert float(sides[0]) == pytest.approx((0.066 * 3 + 0.67) * float(bed[0]), rel=2e-3)
+    # bend: Kb = 2.38 - 0.206 (Rc/T) + 0.0073 (Rc/T)^2 for 2 < Rc/T < 10 (HEC-15 Eq. 3.5, from memory)
+    rc_t = float(re.search(r"Kb = [0-9.]+ \(Rc/T = ([0-9.]+)\)", text).group(1))
+    kb = float(re.search(r"Kb ([0-9.]+);", text).group(1))
+    assert kb == pytest.approx(2.38 - 0.206 * rc_t + 0.0073 * rc_t ** 2, rel=2e-3)
+    assert float(bend[0]) == pytest.approx(kb * float(bed[0]), rel=2e-3)
+    # grass: tau_p = tau_p,soil / (1 - CF) (n / ns)^2 (HEC-15 Eq. 4.7, from memory) with the printed values
+    soil, cf, ns, n = (float(v) for v in re.search(
+        r"soil permissible shear ([0-9.]+) Pa \([^)]*\), cover factor ([0-9.]+), soil grain n ([0-9.]+), "
+        r"lining n ([0-9.]+)", text).groups())
+    assert float(bed[1]) == pytest.approx(soil / (1 - cf) * (n / ns) ** 2 / PSF, rel=6e-3)
+    for row in (bed, sides, bend):
+        design, permissible, sf, required, result = row
+        assert float(sf) == pytest.approx(float(permissible) / float(design), abs=0.01)
+        assert float(required) == 1.0 and result == "passes"
+    # the verdict's reason names the governing check with its units
+    assert re.search(r"Reason: stable, bend: 0\.994 lb/ft² against 3\.73 lb/ft² permissible \(safety factor 3\.75, "
+                     r"1\.00 needed\)", text)
+    assert re.search(r"Safety factor|SF = τp / τ = [0-9.]+ / [0-9.]+ = 3\.75 \(bend, 1\.00 required\)", text)
+    # freeboard with its rule and source, superelevation V^2 T / (g Rc) (HEC-15 Section 3.4, from memory)
+    assert re.search(r"Freeboard 0\.519 ft = minimum 0\.500 ft \+ superelevation 0\.0191 ft \[(\d)\]", text)
+    v, t = _number_after(text, "Velocity V")[0], _number_after(text, "Top width T")[0]
+    rc = _number_after(text, "Bend radius Rc")[0]
+    assert 0.0191 == pytest.approx(v ** 2 * t / (32.174 * rc), rel=0.02)  # printed V, T, Rc carry 3 figures
+    assert "freeboard: minimum freeboard 0.500 ft (HEC-15 Section 2" in text
+    total = _number_after(text, "Total depth")[0]
+    assert total == pytest.approx(y + 0.519, abs=0.006)
+    # top width at the top of the ditch: b + 2 z (total depth), trapezoid geometry
+    assert _number_after(text, "Top width at top")[0] == pytest.approx(2.0 + 2 * 3 * total, rel=3e-3)
+
+
+def test_failing_stone_lining_prints_not_stable_and_the_required_d50(pages):
+    text = pages[1].replace("\n", " ")
+    assert "NOT STABLE" in text
+    bed = _check_row(text, "bed")
+    left = _check_row(text, "left side slope")
+    assert bed[4] == "FAILS" and left[4] == "FAILS"
+    # gravel D50 = 25 mm: tau_p = F* (gamma_s - gamma) D50 with F* = 0.047 (HEC-15 Eq. 6.7; Table 6.1 below
+    # Re* = 4e4, from memory) and gamma_s = 25.9 kN/m^3 (HEC-15 Section 6.2)
+    reynolds = float(re.search(r"particle Reynolds number Re\* ([0-9.]+): F\* ([0-9.]+)", text).group(1))
+    assert reynolds < 4e4 and "F* 0.047" in text
+    assert float(bed[1]) == pytest.approx(0.047 * (25900 - 9810) * 0.025 / PSF, rel=3e-3)
+    m = re.search(r"Reason: not stable, left side slope: ([0-9.]+) lb/ft² against ([0-9.]+) lb/ft² permissible "
+                  r"\(safety factor ([0-9.]+), 1\.00 needed\); smallest stable D50 ([0-9.]+) ft \(given 0\.0820 ft\)",
+                  text)
+    assert m, "the reason of a failing lining"
+    assert (m.group(1), m.group(2), m.group(3)) == (left[0], left[1], left[2])
+    # required D50 printed with its parts; the bed part by HEC-15 Eq. 6.8, D50 = SF tau / (F* (gamma_s - gamma)),
+    # SF = 1.0 and F* = 0.047 (Table 6.1, from memory), at the printed depth of the required state
+    req = re.search(r"Required D50 ([0-9.]+) ft \(([0-9.]+) in\) smallest stable, given D50 too small "
+                    r"\(bed ([0-9.]+) ft, side slopes ([0-9.]+) ft at depth ([0-9.]+) ft; HEC-15 Eq. 6.8\)", text)
+    assert req, "the required D50"
+    d_ft, d_in, d_bed, d_side, depth = (float(v) for v in req.groups())
+    assert d_ft == float(m.group(4)) and d_in == pytest.approx(d_ft * 12, rel=3e-3)
+    assert d_ft == max(d_bed, d_side)
+    tau_bed = 9810 * depth * FOOT * 0.012  # Pa
+    assert d_bed * FOOT == pytest.approx(tau_bed / (0.047 * (25900 - 9810)), rel=7e-3)
+    assert "Layer thickness t 0.123 ft (1.48 in)" in text  # 1.5 D50 = 37.5 mm (common practice)
+    assert "Note: Place a granular filter or a geotextile beneath the stone" in text
+
+
+def test_rigid_lining_is_non_erodible(tmp_path):
+    ch = P.Channel(name="Paved ditch (invented)", flow=P.FlowBasis(value=0.4), slope=0.01,
+                   section={"shape": "trapezoid", "bottom_width": 0.6, "left_slope": 2.0, "right_slope": 2.0},
+                   lining=P.LiningChoice("concrete"), manning_n=None)
+    data, _ = sheet_pdf(P.Project(name="Invented paved ditch", units="si", channels=[ch]))
+    out = tmp_path / "paved.pdf"
+    out.write_bytes(data)
+    text = PdfReader(out).pages[0].extract_text().replace("\n", " ")
+    assert "NON-ERODIBLE" in text
+    assert "Reason: non-erodible: Concrete, float finish (general paved ditch) is a rigid lining" in text
+    assert _check_row(text, "bed")[1:3] == ["non-erodible", "—"]
+
+
+# ------------------------------------------------------------------ lining comparison
+def _comparison_row(text: str, name: str) -> list:
+    m = re.search(re.escape(name) + r"\s+([0-9.]+)\s+([0-9.]+)\s+([0-9.]+)\s+([0-9.]+)\s+([0-9.]+)\s+"
+                  r"([0-9.]+|non-erodible)\s+([0-9.]+ / [0-9.]+|—)\s+(stable|not stable|non-erodible)", text)
+    assert m, f"no comparison row for {name!r}"
+    return list(m.groups())
+
+
+def test_comparison_table_reads_back_with_units(project, pages):
+    text = pages[0].replace("\n", " ")
+    assert "LINING COMPARISON" in text and "LINING COMPARISON" not in pages[1]
+    for head in ("Depth  ft", "V ft/s", "τ lb/ft²", "τp lb/ft²", "Lined  ft", "Layer  ft³/ft", "SF / req."):
+        assert head in text, head
+    own = _comparison_row(text, "* Grass, sod-forming, good stand, about 150 mm tall")
+    riprap = _comparison_row(text, "Rock riprap, D50 0.492 ft (5.91 in)")
+    concrete = _comparison_row(text, "Concrete, float finish (general paved ditch)")
+    # the channel's own lining agrees with the stability block and the results
+    assert float(own[1]) == _number_after(text, "Normal depth yn")[0] and own[7] == "stable"
+    bend = _check_row(text, "bend")
+    assert own[4:6] == bend[0:2] and own[6] == f"{bend[2]} / {bend[3]}"
+    # concrete: constant n, so the depth is Manning's with that n (Chow 1959, Eq. 5-6), solved by brentq
+    ch = project.channels[0]
+    n = float(concrete[0])
+    y = _mannings_depth(ch.section["bottom_width"] / FOOT, 3.0, ch.flow.value / FOOT ** 3, n, ch.slope)
+    assert float(concrete[1]) == pytest.approx(y, rel=4e-3)
+    assert float(concrete[4]) == pytest.approx(GAMMA_WATER_PCF * float(concrete[1]) * ch.slope, rel=5e-3)
+    assert concrete[5:8] == ["non-erodible", "—", "non-erodible"]
+    # riprap: rougher than concrete, so deeper and slower
+    assert float(riprap[1]) > float(concrete[1]) and float(riprap[2]) < float(concrete[2])
+    assert "No cost column" in text
+
+
+# ------------------------------------------------------------------ user catalogue: fingerprint and costs
+USER_CATALOGUE = """schema_version = 1
+[[lining]]
+key = "riprap"
+unit_cost = 120.0
+"""
+
+
+def test_lining_entry_changes_the_fingerprint_and_prices_the_comparison(project, tmp_path, capsys):
+    from app.evaluate import load_default_catalogue
+
+    user = tmp_path / "prices.toml"
+    user.write_text(USER_CATALOGUE)
+    priced = load_default_catalogue(user)
+    ch = project.channels[0]
+    shipped = fingerprint(ch)
+    assert fingerprint(ch, catalogue=priced) != shipped  # a changed entry of a lining the channel uses
+    lone = copy.deepcopy(ch)
+    lone.alternatives = []
+    assert fingerprint(lone, catalogue=priced) == fingerprint(lone)  # riprap not used: no change
+
+    out = tmp_path / "priced.pdf"
+    assert main(["sheet", str(PROJECT_FILE), "--channel", ch.name, "-o", str(out), "--user-catalogue",
+                 str(user)]) == 0
+    capsys.readouterr()
+    text = PdfReader(out).pages[0].extract_text().replace("\n", " ")
+    printed = re.search(r"Design fingerprint SHA-256: ([0-9a-f]{64})", text).group(1)
+    assert main(["fingerprint", str(PROJECT_FILE), "--channel", ch.name, "--user-catalogue", str(user)]) == 0
+    assert capsys.readouterr().out.strip() == printed
+    assert main(["fingerprint", str(PROJECT_FILE), "--channel", ch.name]) == 0
+    assert capsys.readouterr().out.strip() == shipped != printed
+    assert "linings.toml + prices.toml" in text
+    # the cost column: $120 per m^3 of layer times the printed layer volume per ft (1 ft^3 = 0.0283168 m^3)
+    assert re.search(r"Cost\s+\$/ft", text) and "No cost column" not in text
+    m = re.search(r"Rock riprap, D50 0\.492 ft \(5\.91 in\).*?stable \(bend\)\s+([0-9.]+)\s+([0-9.]+)\s+([0-9.]+)", text)
+    layer, cost = float(m.group(2)), float(m.group(3))
+    assert cost == pytest.approx(120.0 * layer * 0.0283168, rel=5e-3)
+
+
+def test_fingerprint_refuses_an_unknown_lining_in_one_line(tmp_path, capsys):
+    ch = P.Channel(name="Odd ditch", lining=P.LiningChoice("no_such_lining"), manning_n=None)
+    path = tmp_path / "odd.json"
+    P.save(P.Project(name="Invented", channels=[ch]), path)
+    assert main(["fingerprint", str(path)]) == 2
+    err = capsys.readouterr().err
+    assert "no_such_lining" in err and "Traceback" not in err and err.count("\n") == 1
+
+
+# ------------------------------------------------------------------ layout fallback and units in core sentences
+def test_long_comparison_stays_on_one_page(tmp_path):
+    from hydraulics.linings import load_catalogue
+
+    keys = [lin.key for lin in load_catalogue() if not lin.user_data]
+    ch = P.Channel(name="Many linings (invented)", flow=P.FlowBasis(value=0.5), slope=0.01,
+                   section={"shape": "trapezoid", "bottom_width": 0.6, "left_slope": 3.0, "right_slope": 3.0},
+                   lining=P.LiningChoice("riprap", 0.1), manning_n=None, bend_radius=20.0,
+                   alternatives=[P.LiningChoice(k) for k in keys if k != "riprap"])
+    data, _ = sheet_pdf(P.Project(name="Invented comparison", units="us", channels=[ch]))
+    out = tmp_path / "many.pdf"
+    out.write_bytes(data)
+    reader = PdfReader(out)
+    assert len(reader.pages) == 1
+    text = reader.pages[0].extract_text().replace("\n", " ")
+    from app.evaluate import evaluate_channel
+
+    names = [r.name for r in evaluate_channel(ch).comparison]
+    shown = [nm for nm in names if nm in text.split("CAUTIONS")[0]]
+    assert len(shown) == len(names), set(names) - set(shown)  # every lining is in a row or in the note
+
+
+def test_core_sentences_get_the_sheet_units():
+    from app.sheet.content import in_units
+    from hydraulics.units import system
+
+    us, si = system("us"), system("si")
+    # 1 Pa = 1 / 47.880 lb/ft^2 and 25 mm = 0.984 in (exact inch 25.4 mm; NIST SP 811, Appendix B.8)
+    assert in_units("soil permissible shear 1 Pa here", us) == "soil permissible shear 1 Pa (0.0209 lb/ft²) here"
+    assert in_units("D50 = 25 mm is small", us) == "D50 = 25 mm (0.984 in) is small"
+    assert in_units("the depth (0.5 m) is", us) == "the depth (0.5 m (1.64 ft)) is"
+    # equivalents already given are left alone, and an SI system is left as it is
+    for text in ("about 0.15 m (0.5 ft) for", "of 2 to 3 ft/s (0.6 to 0.9 m/s) (from memory)",
+                 "velocity 0.50 m/s (1.63 ft/s) is below", "5.42 min by Kirpich"):
+        assert in_units(text, us) == text
+    assert in_units("soil permissible shear 1 Pa, 25 900 N/m^3", si) == "soil permissible shear 1 Pa, 25 900 N/m³"
+    assert in_units("25 900 N/m^3", us) == "25 900 N/m³"  # a number with a thousands space is not split

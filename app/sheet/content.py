@@ -280,16 +280,18 @@ def input_items(design: ChannelDesign, f: Formatter, lining=None, catalogue_text
 
 def result_items(design: ChannelDesign, f: Formatter) -> list:
     r, st = design.analysis, design.stability
-    n_basis = "the lining's, at the design depth" if st is not None else "typed in the project"
-    return [
+    n = n_text(float(r.manning_n)) + (" (lining, at yn)" if st is not None else " (typed)")
+    return [  # printed two to a row, in this order
         Item("Normal depth yn", f(r.normal_depth, "length")),
         Item("Critical depth yc", f(r.critical_depth, "length")),
         Item("Velocity V", f(r.velocity, "velocity")),
-        Item("Froude number Fr", f"{float(r.froude):.2f}, {r.regime}"),
-        Item("Manning's n used", f"{n_text(float(r.manning_n))} ({n_basis})"),
-        Item("Flow area A", f(r.area, "area")),
-        Item("Top width of flow T", f(r.top_width, "length")),
+        Item("Froude number Fr", f"{float(r.froude):.2f}"),
+        Item("Flow regime", str(r.regime)),
         Item("Critical slope Sc", f"{_sig(float(r.critical_slope), FIGURES)} {f.unit('slope')}"),
+        Item("Flow area A", f(r.area, "area")),
+        Item("Top width T", f(r.top_width, "length")),
+        Item("Hydraulic radius R", f(r.hydraulic_radius, "length")),
+        Item("Manning's n used", n),
     ]
 
 
@@ -406,16 +408,16 @@ def _check_rows(st: StabilityResult, f: Formatter) -> list:
     return rows
 
 
-_REQUIRED_METHOD = {"eq_6_8": "HEC-15 Eq. 6.8, F* and SF from Table 6.1",
-                    "appendix_d": "HEC-15 Eq. 6.8 on the bed, Appendix D on the side slopes"}
+_REQUIRED_METHOD = {"eq_6_8": "HEC-15 Eq. 6.8",
+                    "appendix_d": "HEC-15 Eq. 6.8, Appendix D on the side slopes"}
 
 
 def _stone_items(st: StabilityResult, f: Formatter) -> list:
     """What the stability block adds for stone: Table 6.1's factors, the required D50, the layer, the filter."""
     items = []
     if st.reynolds is not None:
-        items.append(Item("Stone", f"particle Reynolds number Re* {_sig(st.reynolds, 3)}: F* {st.shields:.3f}, required "
-                                   f"SF {st.required_safety_factor:.2f} (HEC-15 Table 6.1)"))
+        items.append(Item("Stone", f"particle Reynolds number Re* {_sig(st.reynolds, 3)}: F* {st.shields:.3f}, "
+                                   f"SF required {st.required_safety_factor:.2f} (HEC-15 Table 6.1)"))
     if st.category == "stone":
         if st.required_d50 is None:
             items.append(Item("Required D50", "no stone size is stable here (see the cautions)"))
@@ -425,14 +427,11 @@ def _stone_items(st: StabilityResult, f: Formatter) -> list:
                                                                   ("bend", st.required_d50_bend)) if v is not None]
             method = _REQUIRED_METHOD.get(st.required_d50_method, st.required_d50_method or "")
             depth = "" if st.required_d50_depth is None else f" at depth {f(st.required_d50_depth, 'length')}"
-            enough = "the given D50 is enough" if st.d50 >= st.required_d50 else "the given D50 is too small"
-            items.append(Item("Required D50", f"{f.stone(st.required_d50)}, the smallest stable size; {enough} "
-                                              f"({', '.join(parts)}; {method}{depth})"))
+            enough = "given D50 enough" if st.d50 >= st.required_d50 else "given D50 too small"
+            items.append(Item("Required D50", f"{f.stone(st.required_d50)} smallest stable, {enough} "
+                                              f"({', '.join(parts)}{depth}; {method})"))
     if st.layer_thickness is not None and st.category == "stone":
         items.append(Item("Layer thickness t", f"{f.stone(st.layer_thickness)}"))
-    if st.filter_note:
-        text = in_units(st.filter_note, f.units)
-        items.append(Item("Filter", text[:1].upper() + text[1:]))
     return items
 
 
@@ -460,8 +459,8 @@ def _depth_items(design: ChannelDesign, f: Formatter, src: Sources) -> list:
     if ch.bend_radius is not None and st is not None and st.bend_factor is not None:
         text = f"Rc {f(ch.bend_radius, 'length')}, Kb {st.bend_factor:.3f}"
         if st.bend_protection_length is not None:
-            text += (f"; protect {f(st.bend_protection_length, 'length')} downstream of it (Lp, HEC-15 Section 3.4, "
-                     "from memory)")
+            lp_source = src.ref("bend protection", "Lp = 0.736 R^(7/6) / n (SI), HEC-15 Section 3.4 (from memory)")
+            text += f"; protect {f(st.bend_protection_length, 'length')} downstream {lp_source}"
         items.append(Item("Bend", text))
     items.append(Item("Total depth", f"{f(design.total_depth, 'length')} (yn + freeboard)"))
     items.append(Item("Top width at top", f(design.top_width_at_top, "length")))
@@ -517,10 +516,7 @@ def comparison_lines(design: ChannelDesign, f: Formatter) -> tuple[list | None, 
 # ------------------------------------------------------------------ the sheet
 def _notes_printed_elsewhere(design: ChannelDesign) -> set:
     """The evaluation's notes that the sheet already prints in its own blocks, in the sheet's units."""
-    printed = {LINED_WIDTH_RULE, *design_flow(design.channel)[3]}
-    if design.stability is not None and design.stability.filter_note:
-        printed.add(design.stability.filter_note)
-    return printed
+    return {LINED_WIDTH_RULE, *design_flow(design.channel)[3]}
 
 
 def cautions(design: ChannelDesign, f: Formatter) -> list:

@@ -29,15 +29,15 @@ from reportlab.platypus import Paragraph, Table, TableStyle
 from .. import __version__
 from .fonts import FONT, register
 from .rating import rating_drawing
-from .section_drawing import section_drawing
+from .section_drawing import lining_caption, section_drawing
 
 PAGES = {"letter": letter, "a4": A4}
 MARGIN_LEFT, MARGIN_RIGHT, MARGIN_TOP, MARGIN_BOTTOM = 36.0, 24.0, 20.0, 22.0
-TITLE_HEIGHT = 100.0
+TITLE_HEIGHT = 90.0
 FINGERPRINT_HEIGHT = 13.0
 GAP = 6.0
 TEXT_SIZES = (8.0, 7.5, 7.0, 6.6, 6.2)
-RATING_HEIGHTS = (150.0, 130.0, 115.0)  # [pt], tallest first
+RATING_HEIGHTS = (150.0, 130.0, 115.0, 100.0)  # [pt], tallest first
 GREY = colors.Color(0.45, 0.45, 0.45)
 RULE = colors.Color(0.55, 0.55, 0.55)
 VERDICT_COLOURS = {"STABLE": colors.Color(0.1, 0.5, 0.2), "NOT STABLE": colors.Color(0.75, 0.1, 0.1),
@@ -162,6 +162,20 @@ def _item_table(items, width, st, label_fraction=0.42) -> Table:
     return t
 
 
+def _pair_table(items, width, st) -> Table:
+    """Items two to a row (label, value, label, value): short results."""
+    rows = []
+    for i in range(0, len(items), 2):
+        row = []
+        for it in items[i:i + 2]:
+            row += [_p(it.label, st["label"]), _p(it.value, st["body"])]
+        rows.append(row + [""] * (4 - len(row)))
+    lw, vw = width * 0.27, width * 0.23
+    t = Table(rows, colWidths=[lw, vw, lw, vw])
+    t.setStyle(_table_style(False))
+    return t
+
+
 def _check_table(rows, width, st, units) -> Table:
     """The shear checks: one row per place checked (bed, side slopes, bend)."""
     from .content import pretty_unit
@@ -253,7 +267,7 @@ class _Blocks:
 def _build(sheet, size, col_w, full_w, rating_h, comparison_rows):
     st = _styles(size)
     left = [("Inputs", [_item_table(sheet.inputs, col_w, st, 0.32)]),
-            ("Results (uniform flow at the design discharge)", [_item_table(sheet.results, col_w, st, 0.32)]),
+            ("Results (uniform flow at the design discharge)", [_pair_table(sheet.results, col_w, st)]),
             ("Freeboard and ditch depth", [_item_table(sheet.depth_items, col_w, st, 0.26)])]
     right_text = [("Hand check (4 to 5 figures, for a calculator)", [_p(t, st["calc"]) for t in sheet.hand_check])]
     beside = full_w - VERDICT_W - GAP
@@ -324,6 +338,11 @@ def draw_page(c, sheet, info, page: str, number: int, count: int, logo_note: lis
 
     # typical section
     y = _heading(c, x0, y, full_w, "Typical section")
+    c.setFont(FONT, 6.5)
+    c.setFillColor(GREY)
+    heading_w = stringWidth("TYPICAL SECTION", FONT, 7.4) + 16 * 0.4 + 12
+    c.drawRightString(x0 + full_w, y + 4.5, _fit(lining_caption(sheet), FONT, 6.5, full_w - heading_w))
+    c.setFillColor(colors.black)
     sec, _ = section_drawing(sheet, full_w, 165)
     sec.drawOn(c, x0, y - sec.height)
     y -= sec.height + GAP

@@ -142,6 +142,16 @@ def _ext(g, x1, y1, x2, y2):
     g.add(Line(x1, y1, x2, y2, strokeColor=DIM, strokeWidth=0.3))
 
 
+def lining_caption(sheet) -> str:
+    """What the boundary of the drawing shows: the lining and its layer thickness."""
+    t = sheet.thickness or 0.0
+    if t > 0:
+        return f"Lining: {sheet.lining_label}; layer t = {sheet.format.stone(t)}, drawn to scale"
+    if sheet.design.stability is not None:
+        return f"Lining: {sheet.lining_label}; no layer thickness (heavy line)"
+    return "No lining chosen (heavy line: the channel boundary)"
+
+
 def section_drawing(sheet, width: float, height: float, min_height: float = 100.0) -> tuple[Drawing, str]:
     """A Drawing ``width`` x at most ``height`` [pt] of the channel's typical section, and its scale in words.
 
@@ -170,7 +180,7 @@ def section_drawing(sheet, width: float, height: float, min_height: float = 100.
     real_h = float(max(z.max(), total)) + t
     ground_pt = 28.0 if open_top else 0.0   # ground line beyond each bank [pt]
 
-    left, right, bottom, top = 74.0, 74.0, 46.0, 20.0
+    left, right, bottom, top = 74.0, 74.0, 31.0, 20.0
     avail_w = width - left - right - 2 * ground_pt
     avail_h = height - bottom - top
     s_needed = min(avail_w / real_w, avail_h / real_h)  # pt per m
@@ -282,22 +292,15 @@ def section_drawing(sheet, width: float, height: float, min_height: float = 100.
             g.add(_text(X(xm) + nx * gap, Y(zm) - c * gap, f"{zs:g}H:1V (\u03b8 = {theta:.1f}\u00b0)",
                         anchor="middle", angle=-theta if side == "left" else theta))
 
-    # captions: the lining, then the scale with a scale bar
-    if t > 0:
-        lab = f"Lining: {sheet.lining_label}; layer thickness t = {fmt.stone(t)}, drawn to scale"
-    elif sheet.design.stability is not None:
-        lab = f"Lining: {sheet.lining_label}; no layer thickness (heavy line)"
-    else:
-        lab = "No lining chosen (heavy line: the channel boundary)"
-    g.add(_text(8, 17, lab))
+    # the scale with a scale bar (the lining's caption goes beside the heading: lining_caption)
     bar_real = _bar_length(width * 0.2 / s, us)
     bx, by = 8.0, 5.0
     bar_pt = bar_real * s
     g.add(Rect(bx, by, bar_pt / 2, 2.5, fillColor=INK, strokeColor=INK, strokeWidth=0.3))
     g.add(Rect(bx + bar_pt / 2, by, bar_pt / 2, 2.5, fillColor=colors.white, strokeColor=INK, strokeWidth=0.3))
     bar_label = f"{bar_real / 0.3048:g} ft" if us else f"{bar_real:g} m"
-    g.add(_text(bx + bar_pt + 4, by - 0.3, f"{bar_label}     Scale {scale_text} when printed at 100 %; "
-                                          "horizontal and vertical scales equal"))
+    g.add(_text(bx + bar_pt + 4, by - 0.3, f"{bar_label}     Scale {scale_text} when printed at 100 %, "
+                                          "horizontal and vertical alike"))
     return d, scale_text
 
 
