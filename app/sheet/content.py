@@ -280,7 +280,7 @@ def input_items(design: ChannelDesign, f: Formatter, lining=None, catalogue_text
 
 def result_items(design: ChannelDesign, f: Formatter) -> list:
     r, st = design.analysis, design.stability
-    n = n_text(float(r.manning_n)) + (" (lining, at yn)" if st is not None else " (typed)")
+    n = n_text(float(r.manning_n)) + (" (lining)" if st is not None else " (typed)")
     return [  # printed two to a row, in this order
         Item("Normal depth yn", f(r.normal_depth, "length")),
         Item("Critical depth yc", f(r.critical_depth, "length")),

@@ -170,8 +170,12 @@ def _pair_table(items, width, st) -> Table:
         for it in items[i:i + 2]:
             row += [_p(it.label, st["label"]), _p(it.value, st["body"])]
         rows.append(row + [""] * (4 - len(row)))
-    lw, vw = width * 0.27, width * 0.23
-    t = Table(rows, colWidths=[lw, vw, lw, vw])
+    size = st["label"].fontSize
+    widths = []
+    for col in (0, 1):  # each label column as wide as its longest label, the values share the rest
+        widths.append(max(stringWidth(it.label, FONT, size) for it in items[col::2]) + 4)
+    value_w = (width - sum(widths)) / 2
+    t = Table(rows, colWidths=[widths[0], value_w, widths[1], value_w])
     t.setStyle(_table_style(False))
     return t
 

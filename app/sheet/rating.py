@@ -55,7 +55,10 @@ def rating_drawing(sheet, width: float, height: float):
           "xtick.major.width": 0.4, "ytick.major.width": 0.4, "lines.linewidth": 1.0, "svg.hashsalt": "ditchwright"}
     with matplotlib.rc_context(rc):
         fig = Figure(figsize=(width / 72, height / 72))
-        ax = fig.add_axes((0.13, 0.16, 0.84, 0.76))
+        # margins in points, so that the tick labels and the title keep clear at any height
+        m_left, m_right, m_bottom, m_top = 34.0, 6.0, 23.0, 12.0
+        ax = fig.add_axes((m_left / width, m_bottom / height, 1 - (m_left + m_right) / width,
+                           1 - (m_bottom + m_top) / height))
         ax.plot(flow * Q, depth * L, color="#1f4e9c", label="normal depth (Manning)")
         ax.plot(critical * Q, depth * L, color="#b22222", linestyle="--", linewidth=0.8, label="critical depth")
         q_design = design.flow * Q

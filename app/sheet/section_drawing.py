@@ -176,9 +176,19 @@ def section_drawing(sheet, width: float, height: float, min_height: float = 100.
         k = int(np.argmax(z))
         x, z = np.roll(x, -k), np.roll(z, -k)
         total = float(section.full_depth)
-    real_w = float(x.max() - x.min()) + 2 * t
-    real_h = float(max(z.max(), total)) + t
+    top_z = total if closed else float(z[0])
+    if t > 0:  # the lining's outer face, cut off at the ground for an open section
+        xo, zo = offset_polyline(x, z, t)
+        if open_top:
+            xo, zo = _to_ground(xo, zo, top_z)
+    else:
+        xo, zo = x, z
+    x_min, x_max = float(min(x.min(), xo.min())), float(max(x.max(), xo.max()))
+    z_min = float(min(z.min(), zo.min()))
+    real_w = x_max - x_min
+    real_h = float(max(z.max(), total)) - z_min
     ground_pt = 28.0 if open_top else 0.0   # ground line beyond each bank [pt]
+    dim_gap = 6.0 if open_top else 14.0     # dimension lines clear of the hatching of a pipe
 
     left, right, bottom, top = 74.0, 74.0, 31.0, 20.0
     avail_w = width - left - right - 2 * ground_pt
@@ -188,8 +198,8 @@ def section_drawing(sheet, width: float, height: float, min_height: float = 100.
     s = PT_PER_M / ratio
     height = max(min_height, min(height, real_h * s + bottom + top + 8))
     avail_h = height - bottom - top
-    x0 = left + ground_pt + (avail_w - real_w * s) / 2 + t * s - float(x.min()) * s
-    y0 = bottom + (avail_h - real_h * s) / 2 + t * s
+    x0 = left + ground_pt + (avail_w - real_w * s) / 2 - x_min * s
+    y0 = bottom - z_min * s  # spare height goes above the drawing, so that the scale line stays close
 
     def X(v):
         return x0 + v * s
@@ -213,7 +223,7 @@ def section_drawing(sheet, width: float, height: float, min_height: float = 100.
         xl_w, xr_w = min(p[0] for p in wet[0]), max(p[0] for p in wet[-1])
         g.add(Line(X(xl_w), Y(yn), X(xr_w), Y(yn), strokeColor=blue, strokeWidth=0.8))
         # water-surface mark: an inverted triangle standing on the surface
-        mx = X(xl_w + 0.35 * (xr_w - xl_w))
+        mx = X(xl_w + 0.2 * (xr_w - xl_w))  # left of the critical depth's label (at the right)
         g.add(Polygon([mx, Y(yn), mx - 3, Y(yn) + 5, mx + 3, Y(yn) + 5], fillColor=None,
                       strokeColor=blue, strokeWidth=0.6))
         g.add(_text(mx + 5, Y(yn) + 1.2, "design WS", color=blue, size=SIZE - 0.5))
@@ -221,33 +231,41 @@ def section_drawing(sheet, width: float, height: float, min_height: float = 100.
     if wet_c and abs(yc - yn) * s > 1.0:
         xl_c, xr_c = min(p[0] for p in wet_c[0]), max(p[0] for p in wet_c[-1])
         g.add(Line(X(xl_c), Y(yc), X(xr_c), Y(yc), strokeColor=red, strokeWidth=0.5, strokeDashArray=[2, 1.5]))
-        below = yc < yn or abs(yc - yn) * s < SIZE + 3  # keep clear of the water-surface label
-        g.add(_text(X((xl_c + xr_c) / 2), Y(min(yc, yn)) - SIZE if below else Y(yc) + 1.2,
-                    f"critical depth yc {fmt(yc, 'length')}", color=red, size=SIZE - 0.5, anchor="middle"))
+        # above its line when above the water surface (clear of the "design WS" label), else below it
+        # at the right end of its line, inside the boundary: above the line when above the water surface
+        # (clear of the "design WS" label at the left), else below it, where the boundary may be narrower
+        label = f"critical depth yc {fmt(yc, 'length')}"
+        above = yc > yn
+        level = yc if above else yc - (SIZE + 1) / s
+        runs = wet_polygons(x, z, level) if level > 0 else []
+        xl_t, xr_t = (min(p[0] for p in runs[0]), max(p[0] for p in runs[-1])) if runs else (xl_c, xr_c)
+        y_label = Y(yc) + 1.2 if above else Y(yc) - SIZE
+        if stringWidth(label, FONT, SIZE - 0.5) + 8 <= (xr_t - xl_t) * s:
+            g.add(_text(X(xr_t) - 4, y_label, label, color=red, size=SIZE - 0.5, anchor="end"))
+        else:
+            g.add(_text(X((xl_t + xr_t) / 2), y_label, label, color=red, size=SIZE - 0.5, anchor="middle"))
 
     # lining band (to scale) or a heavy boundary line when its thickness is not known
     if t > 0:
-        xo, zo = offset_polyline(x, z, t)
         band = [c for px, pz in zip(x, z) for c in (X(px), Y(pz))]
         band += [c for px, pz in zip(xo[::-1], zo[::-1]) for c in (X(px), Y(pz))]
         g.add(Polygon(band, fillColor=LINING, strokeColor=INK, strokeWidth=THIN))
     else:
-        xo, zo = x, z
         g.add(PolyLine([c for px, pz in zip(x, z) for c in (X(px), Y(pz))], strokeColor=INK, strokeWidth=1.4))
     # earth hatching along the outside of the excavation (lining's outer face)
     _hatch(g, [X(v) for v in xo], [Y(v) for v in zo])
 
     xl, xr = (float(x.min()), float(x.max())) if closed else (float(x[0]), float(x[-1]))
-    top_z = total if closed else float(z[0])
+    gl, gr = min(xl, float(xo[0])), max(xr, float(xo[-1]))  # where the ground meets the excavation
     if open_top:
-        # ground line at the top of both banks, with earth hatching below it
-        for a, b in ((X(xl) - ground_pt, X(float(xo[0]))), (X(float(xo[-1])), X(xr) + ground_pt)):
+        # ground line beyond the top of both banks, with earth hatching below it
+        for a, b in ((X(gl) - ground_pt, X(gl)), (X(gr), X(gr) + ground_pt)):
             g.add(Line(a, Y(top_z), b, Y(top_z), strokeColor=INK, strokeWidth=0.9))
             n = max(2, int((b - a) / 5))
             for i in range(n):
                 hx = a + (i + 0.7) * (b - a) / n
                 g.add(Line(hx, Y(top_z), hx - 3, Y(top_z) - 3, strokeColor=INK, strokeWidth=0.35))
-        g.add(_text(X(xr) + ground_pt, Y(top_z) + 2.0, "ground", anchor="end", size=SIZE - 0.5))
+        g.add(_text(X(gr) + ground_pt, Y(top_z) + 2.0, "ground", anchor="end", size=SIZE - 0.5))
 
     # top width above
     y_top = Y(top_z) + 12
@@ -257,12 +275,12 @@ def section_drawing(sheet, width: float, height: float, min_height: float = 100.
 
     # design depth and freeboard at the left, total depth at the right; labels horizontal
     x_invert = float(x[np.argmin(z)])
-    xd_l = X(xl) - ground_pt - 6
-    xd_r = X(xr) + ground_pt + 6
+    xd_l = X(gl) - ground_pt - dim_gap
+    xd_r = X(gr) + ground_pt + dim_gap
     _ext(g, X(x_invert) - 2, Y(0), xd_l - 2, Y(0))
     _ext(g, X(x_invert) + 2, Y(0), xd_r + 2, Y(0))
-    _ext(g, X(xl) - ground_pt, Y(top_z), xd_l - 2, Y(top_z))
-    _ext(g, X(xr) + ground_pt, Y(top_z), xd_r + 2, Y(top_z))
+    _ext(g, X(gl) - ground_pt, Y(top_z), xd_l - 2, Y(top_z))
+    _ext(g, X(gr) + ground_pt, Y(top_z), xd_r + 2, Y(top_z))
     if xl_w is not None:
         _ext(g, X(xl_w) - 2, Y(yn), xd_l - 2, Y(yn))
     _dim_v(g, xd_l, Y(0), Y(min(yn, top_z)), f"yn {fmt(yn, 'length')}", side="left")
@@ -286,7 +304,7 @@ def section_drawing(sheet, width: float, height: float, min_height: float = 100.
             zm = 0.5 * top_z
             xm = (-b / 2 - zs * zm) if side == "left" else (b / 2 + zs * zm)
             # parallel to the slope, on the ground side, beyond the hatching
-            gap = t * s + 7 + SIZE
+            gap = t * s + 9 + SIZE
             c, sn = math.cos(math.radians(theta)), math.sin(math.radians(theta))
             nx = -sn if side == "left" else sn
             g.add(_text(X(xm) + nx * gap, Y(zm) - c * gap, f"{zs:g}H:1V (\u03b8 = {theta:.1f}\u00b0)",
@@ -302,6 +320,17 @@ def section_drawing(sheet, width: float, height: float, min_height: float = 100.
     g.add(_text(bx + bar_pt + 4, by - 0.3, f"{bar_label}     Scale {scale_text} when printed at 100 %, "
                                           "horizontal and vertical alike"))
     return d, scale_text
+
+
+def _to_ground(xo, zo, level):
+    """The outer face (xo, zo) of an open section's lining, its two ends moved along their segments to ``level``."""
+    xo, zo = np.array(xo, float), np.array(zo, float)
+    for end, nxt in ((0, 1), (-1, -2)):
+        dz = zo[nxt] - zo[end]
+        if abs(dz) > 1e-12:
+            k = (level - zo[end]) / dz
+            xo[end], zo[end] = xo[end] + k * (xo[nxt] - xo[end]), level
+    return xo, zo
 
 
 def _hatch(g, xs, ys, spacing=5.0, size=3.0):
