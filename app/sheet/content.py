@@ -237,10 +237,9 @@ def flow_items(design: ChannelDesign, f: Formatter) -> list:
     q = design.flow
     if basis.method != "rational":
         return [Item("Design flow Q", f"{f(q, 'flow')} (typed in the project)")]
-    items = [Item("Design flow Q", f"{f(q, 'flow')} (rational method, Q = C i A)"),
-             Item("Runoff coefficient C", f"{basis.runoff_coefficient:.2f}"),
-             Item("Rainfall intensity i", f(basis.intensity, "intensity")),
-             Item("Drainage area A", f(basis.area, "drainage_area"))]
+    items = [Item("Design flow Q", f"{f(q, 'flow')} by the rational method Q = C i A: runoff coefficient C "
+                                   f"{basis.runoff_coefficient:.2f}, rainfall intensity i {f(basis.intensity, 'intensity')}, "
+                                   f"drainage area A {f(basis.area, 'drainage_area')}")]
     if design.time_of_concentration is not None:
         items.append(Item("Time of concentration", f"{design.time_of_concentration / 60:.1f} min (Kirpich; L = "
                                                    f"{f(basis.flow_length, 'length')}, S = "
@@ -415,9 +414,6 @@ _REQUIRED_METHOD = {"eq_6_8": "HEC-15 Eq. 6.8",
 def _stone_items(st: StabilityResult, f: Formatter) -> list:
     """What the stability block adds for stone: Table 6.1's factors, the required D50, the layer, the filter."""
     items = []
-    if st.reynolds is not None:
-        items.append(Item("Stone", f"particle Reynolds number Re* {_sig(st.reynolds, 3)}: F* {st.shields:.3f}, "
-                                   f"SF required {st.required_safety_factor:.2f} (HEC-15 Table 6.1)"))
     if st.category == "stone":
         if st.required_d50 is None:
             items.append(Item("Required D50", "no stone size is stable here (see the cautions)"))
@@ -430,8 +426,14 @@ def _stone_items(st: StabilityResult, f: Formatter) -> list:
             enough = "given D50 enough" if st.d50 >= st.required_d50 else "given D50 too small"
             items.append(Item("Required D50", f"{f.stone(st.required_d50)} smallest stable, {enough} "
                                               f"({', '.join(parts)}{depth}; {method})"))
+    parts = []
+    if st.reynolds is not None:
+        parts.append(f"particle Reynolds number Re* {_sig(st.reynolds, 3)}: F* {st.shields:.3f}, SF required "
+                     f"{st.required_safety_factor:.2f} (HEC-15 Table 6.1)")
     if st.layer_thickness is not None and st.category == "stone":
-        items.append(Item("Layer thickness t", f"{f.stone(st.layer_thickness)}"))
+        parts.append(f"layer thickness t {f.stone(st.layer_thickness)}")
+    if parts:
+        items.append(Item("Stone and layer", "; ".join(parts)))
     return items
 
 
@@ -482,8 +484,11 @@ def comparison_lines(design: ChannelDesign, f: Formatter) -> tuple[list | None, 
         return None, [], False
     priced = any(r.cost_per_length is not None for r in rows)
     own = design.channel.lining.key if design.channel.lining is not None else None
-    lines, notes = [], []
+    lines, notes, seen = [], [], set()
     for i, r in enumerate(rows):
+        if (r.key, r.d50) in seen:  # an alternative that repeats the channel's lining or another alternative
+            continue
+        seen.add((r.key, r.d50))
         name = r.name + (f", D50 {f.stone(r.d50)}" if r.d50 is not None else "")
         if i == 0 and own is not None and r.key == own:
             name = "* " + name

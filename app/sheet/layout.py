@@ -32,12 +32,12 @@ from .rating import rating_drawing
 from .section_drawing import lining_caption, section_drawing
 
 PAGES = {"letter": letter, "a4": A4}
-MARGIN_LEFT, MARGIN_RIGHT, MARGIN_TOP, MARGIN_BOTTOM = 36.0, 24.0, 20.0, 22.0
-TITLE_HEIGHT = 90.0
+MARGIN_LEFT, MARGIN_RIGHT, MARGIN_TOP, MARGIN_BOTTOM = 36.0, 24.0, 20.0, 20.0
+TITLE_HEIGHT = 86.0
 FINGERPRINT_HEIGHT = 13.0
 GAP = 6.0
 TEXT_SIZES = (8.0, 7.5, 7.0, 6.6, 6.2)
-RATING_HEIGHTS = (150.0, 130.0, 115.0, 100.0)  # [pt], tallest first
+RATING_HEIGHTS = (150.0, 130.0, 115.0, 100.0, 90.0)  # [pt], tallest first
 GREY = colors.Color(0.45, 0.45, 0.45)
 RULE = colors.Color(0.55, 0.55, 0.55)
 VERDICT_COLOURS = {"STABLE": colors.Color(0.1, 0.5, 0.2), "NOT STABLE": colors.Color(0.75, 0.1, 0.1),
@@ -155,7 +155,9 @@ def _table_style(header: bool, numeric_columns=()) -> TableStyle:
 
 
 def _item_table(items, width, st, label_fraction=0.42) -> Table:
-    label_w = width * label_fraction
+    """Label and value, one item a row; the label column as wide as the longest label, up to the fraction."""
+    longest = max((stringWidth(i.label, FONT, st["label"].fontSize) for i in items), default=0.0)
+    label_w = min(width * label_fraction, longest + 6)
     rows = [[_p(i.label, st["label"]), _p(i.value, st["body"])] for i in items]
     t = Table(rows, colWidths=[label_w, width - label_w])
     t.setStyle(_table_style(False))
@@ -270,14 +272,14 @@ class _Blocks:
 
 def _build(sheet, size, col_w, full_w, rating_h, comparison_rows):
     st = _styles(size)
-    left = [("Inputs", [_item_table(sheet.inputs, col_w, st, 0.32)]),
+    left = [("Inputs", [_item_table(sheet.inputs, col_w, st, 0.34)]),
             ("Results (uniform flow at the design discharge)", [_pair_table(sheet.results, col_w, st)]),
-            ("Freeboard and ditch depth", [_item_table(sheet.depth_items, col_w, st, 0.26)])]
+            ("Freeboard and ditch depth", [_item_table(sheet.depth_items, col_w, st, 0.34)])]
     right_text = [("Hand check (4 to 5 figures, for a calculator)", [_p(t, st["calc"]) for t in sheet.hand_check])]
     beside = full_w - VERDICT_W - GAP
     checks = [_check_table(sheet.checks, beside, st, sheet.units)] if sheet.checks else []
     reason = [_p(f"Reason: {sheet.verdict_reason}", st["reason"])]
-    lining = [_item_table(sheet.lining_items, full_w, st, 0.16)] if sheet.lining_items else []
+    lining = [_item_table(sheet.lining_items, full_w, st, 0.2)] if sheet.lining_items else []
     comparison = []
     if sheet.comparison is not None:
         shown = sheet.comparison[:comparison_rows]

@@ -152,7 +152,7 @@ def lining_caption(sheet) -> str:
     return "No lining chosen (heavy line: the channel boundary)"
 
 
-def section_drawing(sheet, width: float, height: float, min_height: float = 100.0) -> tuple[Drawing, str]:
+def section_drawing(sheet, width: float, height: float, min_height: float = 88.0) -> tuple[Drawing, str]:
     """A Drawing ``width`` x at most ``height`` [pt] of the channel's typical section, and its scale in words.
 
     The scale is the largest round one at which the section fits; the drawing
@@ -232,18 +232,8 @@ def section_drawing(sheet, width: float, height: float, min_height: float = 100.
         xl_c, xr_c = min(p[0] for p in wet_c[0]), max(p[0] for p in wet_c[-1])
         g.add(Line(X(xl_c), Y(yc), X(xr_c), Y(yc), strokeColor=red, strokeWidth=0.5, strokeDashArray=[2, 1.5]))
         # above its line when above the water surface (clear of the "design WS" label), else below it
-        # at the right end of its line, inside the boundary: above the line when above the water surface
-        # (clear of the "design WS" label at the left), else below it, where the boundary may be narrower
-        label = f"critical depth yc {fmt(yc, 'length')}"
-        above = yc > yn
-        level = yc if above else yc - (SIZE + 1) / s
-        runs = wet_polygons(x, z, level) if level > 0 else []
-        xl_t, xr_t = (min(p[0] for p in runs[0]), max(p[0] for p in runs[-1])) if runs else (xl_c, xr_c)
-        y_label = Y(yc) + 1.2 if above else Y(yc) - SIZE
-        if stringWidth(label, FONT, SIZE - 0.5) + 8 <= (xr_t - xl_t) * s:
-            g.add(_text(X(xr_t) - 4, y_label, label, color=red, size=SIZE - 0.5, anchor="end"))
-        else:
-            g.add(_text(X((xl_t + xr_t) / 2), y_label, label, color=red, size=SIZE - 0.5, anchor="middle"))
+        _critical_label(g, x, z, yc, yn, s, X, Y, f"critical depth yc {fmt(yc, 'length')}",
+                        f"yc {fmt(yc, 'length')}", red)
 
     # lining band (to scale) or a heavy boundary line when its thickness is not known
     if t > 0:
@@ -331,6 +321,36 @@ def _to_ground(xo, zo, level):
             k = (level - zo[end]) / dz
             xo[end], zo[end] = xo[end] + k * (xo[nxt] - xo[end]), level
     return xo, zo
+
+
+def _critical_label(g, x, z, yc, yn, s, X, Y, label, short, color):
+    """The critical depth's label at the right end of its line, where it fits inside the boundary.
+
+    Tried in turn, with the full label and then the short one: below the line,
+    then above it when the water surface is high enough above it (the "design
+    WS" label sits above the water surface at the left). A critical depth above
+    the water surface is labelled above its line.
+    """
+    size = SIZE - 0.5
+    h = (size + 1.5) / s  # the label's height [m]
+
+    def span(level):
+        runs = wet_polygons(x, z, level) if level > 0 else []
+        return (min(p[0] for p in runs[0]), max(p[0] for p in runs[-1])) if runs else None
+
+    places = [("above", yc)] if yc > yn else [("below", yc - h), ("above", yc)]
+    for text in (label, short):
+        w = stringWidth(text, FONT, size) + 8
+        for where, narrowest in places:
+            if where == "above" and yc < yn and (yn - yc) < h:
+                continue  # no room between the critical line and the water surface
+            edges = span(narrowest)
+            if edges is not None and w <= (edges[1] - edges[0]) * s:
+                y = Y(yc) + 1.2 if where == "above" else Y(yc) - size - 0.5
+                g.add(_text(X(edges[1]) - 4, y, text, color=color, size=size, anchor="end"))
+                return
+    edges = span(yc) or (float(np.min(x)), float(np.max(x)))
+    g.add(_text(X((edges[0] + edges[1]) / 2), Y(yc) - size - 0.5, short, color=color, size=size, anchor="middle"))
 
 
 def _hatch(g, xs, ys, spacing=5.0, size=3.0):
