@@ -105,7 +105,7 @@ def test_printed_normal_depth_solves_mannings_equation(project, pages):
     # instead of the program's coupled solver.
     ch = project.channels[0]
     text = pages[0].replace("\n", " ")
-    n = float(re.search(r"Manning's n used ([0-9.]+) \(lining\)", text).group(1))
+    n = float(re.search(r"Manning's n used ([0-9.]+) \[1\]", text).group(1))
     y = _mannings_depth(ch.section["bottom_width"] / FOOT, ch.section["left_slope"], ch.flow.value / FOOT ** 3,
                         n, ch.slope)
     printed, unit = _number_after(pages[0], "Normal depth yn")
@@ -439,7 +439,7 @@ def test_stone_lining_from_the_catalogue_sets_n_and_thickness(tmp_path):
     text = PdfReader(path).pages[0].extract_text().replace("\n", " ")
     assert "Rock riprap, D50 0.150 m (150 mm)" in text
     assert "layer thickness t 0.225 m (225 mm)" in text  # 1.5 D50
-    assert re.search(r"Manning's n used [0-9.]+ \(lining\)", text)
+    assert re.search(r"Manning's n used [0-9.]+ \[1\]", text)
     assert "[1] Manning n: " in text and "[2] permissible shear: HEC-15" in text
 
 
@@ -477,7 +477,7 @@ PSF = 47.880259  # Pa per lbf/ft^2 (NIST SP 811, 2008 ed., Appendix B.8)
 
 def _check_row(text: str, location: str) -> list:
     """(design shear, permissible, SF achieved, SF required, result) of one row of the shear-check table."""
-    m = re.search(re.escape(location) + r"\s+([0-9.]+)\s+([0-9.]+|non-erodible)\s+([0-9.]+|—)\s+([0-9.]+)\s+"
+    m = re.search(re.escape(location) + r"\s+([0-9.]+)\s+([0-9.]+|non-erodible)\s+([0-9.]+|—)\s+([0-9.]+|—)\s+"
                   r"(passes|FAILS|non-erodible)", text)
     assert m, f"no check row for {location!r}"
     return list(m.groups())
@@ -564,7 +564,7 @@ def test_rigid_lining_is_non_erodible(tmp_path):
     text = PdfReader(out).pages[0].extract_text().replace("\n", " ")
     assert "NON-ERODIBLE" in text
     assert "Reason: non-erodible: Concrete, float finish (general paved ditch) is a rigid lining" in text
-    assert _check_row(text, "bed")[1:3] == ["non-erodible", "—"]
+    assert _check_row(text, "bed")[1:4] == ["non-erodible", "—", "—"]
 
 
 # ------------------------------------------------------------------ lining comparison

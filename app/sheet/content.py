@@ -277,9 +277,10 @@ def input_items(design: ChannelDesign, f: Formatter, lining=None, catalogue_text
     return items
 
 
-def result_items(design: ChannelDesign, f: Formatter) -> list:
+def result_items(design: ChannelDesign, f: Formatter, n_ref: str = "") -> list:
+    """The uniform-flow results; ``n_ref`` points to the source of the lining's n ("[1]")."""
     r, st = design.analysis, design.stability
-    n = n_text(float(r.manning_n)) + (" (lining)" if st is not None else " (typed)")
+    n = n_text(float(r.manning_n)) + (f" {n_ref}" if st is not None else " (typed)")
     return [  # printed two to a row, in this order
         Item("Normal depth yn", f(r.normal_depth, "length")),
         Item("Critical depth yc", f(r.critical_depth, "length")),
@@ -402,7 +403,8 @@ def _check_rows(st: StabilityResult, f: Formatter) -> list:
         rows.append(CheckRow(location=c.location, basis=pretty_unit(basis), design=f.number(c.design_shear, "shear"),
                              permissible=("non-erodible" if c.permissible_shear is None
                                           else f.number(c.permissible_shear, "shear")),
-                             safety_factor=_sf(c.safety_factor), required=f"{c.required_safety_factor:.2f}",
+                             safety_factor=_sf(c.safety_factor),
+                             required="\u2014" if c.permissible_shear is None else f"{c.required_safety_factor:.2f}",
                              result=result))
     return rows
 
@@ -559,6 +561,7 @@ def channel_sheet(project, channel, catalogue: Catalogue | None = None) -> Chann
     if st is not None:
         lining = catalogue.get(st.lining_key)
         inputs = input_items(design, f, lining, cat_text, src)  # first: it numbers the lining's sources
+        n_ref = src.ref("Manning n", in_units(st.n_source, units))  # the number given in the inputs
         roughness = lining.roughness(st.d50)
         checks = _check_rows(st, f)
         lining_items = _stone_items(st, f)
@@ -568,6 +571,7 @@ def channel_sheet(project, channel, catalogue: Catalogue | None = None) -> Chann
         thickness = st.layer_thickness
     else:
         inputs = input_items(design, f)
+        n_ref = ""
         roughness = float(channel.manning_n)
         checks = []
         tau = float(design.analysis.bed_shear)
@@ -584,7 +588,8 @@ def channel_sheet(project, channel, catalogue: Catalogue | None = None) -> Chann
     return ChannelSheet(
         project=project.name, channel=channel.name, location=channel.location, units=units, format=f,
         fingerprint=fingerprint(channel, catalogue=catalogue), version=__version__, catalogue=cat_text,
-        inputs=inputs, results=result_items(design, f), checks=checks, lining_items=lining_items,
+        inputs=inputs, results=result_items(design, f, n_ref), checks=checks,
+        lining_items=lining_items,
         depth_items=depth_items, verdict=verdict, verdict_reason=reason, hand_check=hand_check(design, f),
         comparison=comparison, comparison_notes=comparison_notes, comparison_priced=priced,
         cautions=cautions(design, f), sources=src.printed(), design=design, roughness=roughness,

@@ -119,9 +119,9 @@ def _dim_h(g, x1, x2, y, label, above=True):
     g.add(_arrow(x2, y, 1, 0))
     w = stringWidth(label, FONT, SIZE)
     mid = (x1 + x2) / 2
-    if w + 4 > x2 - x1:  # does not fit between the arrows: beside the right one
+    if above and w + 4 > x2 - x1:  # does not fit between the arrows: beside the right one
         g.add(_text(x2 + 4, y - 2.2, label))
-    else:
+    else:  # below a short dimension the label may run past the arrows: the space under the section is free
         g.add(_text(mid, y + 2.0 if above else y - SIZE - 1.2, label, anchor="middle"))
 
 
@@ -190,7 +190,7 @@ def section_drawing(sheet, width: float, height: float, min_height: float = 88.0
     ground_pt = 28.0 if open_top else 0.0   # ground line beyond each bank [pt]
     dim_gap = 6.0 if open_top else 14.0     # dimension lines clear of the hatching of a pipe
 
-    left, right, bottom, top = 74.0, 74.0, 31.0, 20.0
+    left, right, bottom, top = 74.0, 74.0, 35.0, 20.0
     avail_w = width - left - right - 2 * ground_pt
     avail_h = height - bottom - top
     s_needed = min(avail_w / real_w, avail_h / real_h)  # pt per m
@@ -226,7 +226,10 @@ def section_drawing(sheet, width: float, height: float, min_height: float = 88.0
         mx = X(xl_w + 0.2 * (xr_w - xl_w))  # left of the critical depth's label (at the right)
         g.add(Polygon([mx, Y(yn), mx - 3, Y(yn) + 5, mx + 3, Y(yn) + 5], fillColor=None,
                       strokeColor=blue, strokeWidth=0.6))
-        g.add(_text(mx + 5, Y(yn) + 1.2, "design WS", color=blue, size=SIZE - 0.5))
+        ws = "design WS"
+        if abs(yc - yn) * s <= 1.0:  # the critical depth's line would lie on the water surface
+            ws += f" \u2248 critical depth yc {fmt(yc, 'length')}"
+        g.add(_text(mx + 5, Y(yn) + 1.2, ws, color=blue, size=SIZE - 0.5))
     wet_c = wet_polygons(x, z, yc)
     if wet_c and abs(yc - yn) * s > 1.0:
         xl_c, xr_c = min(p[0] for p in wet_c[0]), max(p[0] for p in wet_c[-1])
