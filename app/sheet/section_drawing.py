@@ -176,7 +176,8 @@ def section_drawing(sheet, width: float, height: float, min_height: float = 88.0
         k = int(np.argmax(z))
         x, z = np.roll(x, -k), np.roll(z, -k)
         total = float(section.full_depth)
-    top_z = total if closed else float(z[0])
+    surveyed = section.kind == "irregular"  # the outline is the whole survey, above the ditch's top
+    top_z = total if (closed or surveyed) else float(z[0])
     if t > 0:  # the lining's outer face, cut off at the ground for an open section
         xo, zo = offset_polyline(x, z, t)
         if open_top:
@@ -248,8 +249,19 @@ def section_drawing(sheet, width: float, height: float, min_height: float = 88.0
     # earth hatching along the outside of the excavation (lining's outer face)
     _hatch(g, [X(v) for v in xo], [Y(v) for v in zo])
 
-    xl, xr = (float(x.min()), float(x.max())) if closed else (float(x[0]), float(x[-1]))
-    gl, gr = min(xl, float(xo[0])), max(xr, float(xo[-1]))  # where the ground meets the excavation
+    if closed:
+        xl, xr = float(x.min()), float(x.max())
+    elif surveyed:  # the top width is taken at the top of the ditch (design depth plus freeboard)
+        runs = wet_polygons(x, z, top_z)
+        xl, xr = (min(p[0] for p in runs[0]), max(p[0] for p in runs[-1])) if runs else (float(x.min()), float(x.max()))
+    else:
+        xl, xr = float(x[0]), float(x[-1])
+    if surveyed:
+        gl, gr = float(min(x.min(), xo.min())), float(max(x.max(), xo.max()))  # the ends of the survey
+        el, er = X(xl), X(xr)  # extension lines at the top of the ditch start at its edges
+    else:
+        gl, gr = min(xl, float(xo[0])), max(xr, float(xo[-1]))  # where the ground meets the excavation
+        el, er = X(gl) - ground_pt, X(gr) + ground_pt
     if open_top:
         # ground line beyond the top of both banks, with earth hatching below it
         for a, b in ((X(gl) - ground_pt, X(gl)), (X(gr), X(gr) + ground_pt)):
@@ -272,8 +284,8 @@ def section_drawing(sheet, width: float, height: float, min_height: float = 88.0
     xd_r = X(gr) + ground_pt + dim_gap
     _ext(g, X(x_invert) - 2, Y(0), xd_l - 2, Y(0))
     _ext(g, X(x_invert) + 2, Y(0), xd_r + 2, Y(0))
-    _ext(g, X(gl) - ground_pt, Y(top_z), xd_l - 2, Y(top_z))
-    _ext(g, X(gr) + ground_pt, Y(top_z), xd_r + 2, Y(top_z))
+    _ext(g, el, Y(top_z), xd_l - 2, Y(top_z))
+    _ext(g, er, Y(top_z), xd_r + 2, Y(top_z))
     if xl_w is not None:
         _ext(g, X(xl_w) - 2, Y(yn), xd_l - 2, Y(yn))
     _dim_v(g, xd_l, Y(0), Y(min(yn, top_z)), f"yn {fmt(yn, 'length')}", side="left")
