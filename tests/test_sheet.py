@@ -684,3 +684,32 @@ def test_core_sentences_get_the_sheet_units():
         assert in_units(text, us) == text
     assert in_units("soil permissible shear 1 Pa, 25 900 N/m^3", si) == "soil permissible shear 1 Pa, 25 900 N/m³"
     assert in_units("25 900 N/m^3", us) == "25 900 N/m³"  # a number with a thousands space is not split
+
+
+def _drawing_matches_tables(text: str) -> None:
+    """The drawing's labels print the same numbers as the tables (one rounding for each value)."""
+    flat = text.replace("\n", " ")
+    pairs = (("top width", "Top width at top"), ("yn", "Normal depth yn"), ("total depth", "Total depth"),
+             ("freeboard", "Freeboard"))
+    drawing = flat.split("INPUTS")[0]
+    tables = flat.split("INPUTS", 1)[1]
+    for in_drawing, in_table in pairs:
+        assert _number_after(drawing, in_drawing) == _number_after(tables, in_table), in_drawing
+    if "critical depth yc" in drawing:
+        assert _number_after(drawing, "critical depth yc") == _number_after(tables, "Critical depth yc")
+
+
+def test_drawing_labels_round_as_the_tables(pages, tmp_path):
+    for text in pages:
+        _drawing_matches_tables(text)
+    # a surveyed section: the top width is that at the top of the ditch, not the width of the survey
+    ch = P.Channel(name="Surveyed channel (invented)", flow=P.FlowBasis(value=0.6), slope=0.003,
+                   section={"shape": "irregular", "stations": [0.0, 1.5, 2.6, 3.2, 3.9, 5.0, 6.8],
+                            "elevations": [1.25, 0.85, 0.3, 0.0, 0.25, 0.8, 1.1], "n": 0.035},
+                   manning_n=0.035, min_freeboard=0.2)
+    data, _ = sheet_pdf(P.Project(name="Invented survey", units="us", channels=[ch]))
+    out = tmp_path / "survey.pdf"
+    out.write_bytes(data)
+    text = PdfReader(out).pages[0].extract_text()
+    _drawing_matches_tables(text)
+    assert _number_after(text, "Top width at top")[0] < 6.8 / FOOT  # narrower than the survey
