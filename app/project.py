@@ -15,8 +15,6 @@ from __future__ import annotations
 
 import copy
 import json
-import os
-import tempfile
 from dataclasses import asdict, dataclass, field
 from importlib import resources as ir
 from pathlib import Path
@@ -24,6 +22,8 @@ from pathlib import Path
 import jsonschema
 
 import hydraulics as hy
+
+from .files import write_atomic
 
 FORMAT = "ditchwright-project"
 SCHEMA_VERSION = 1
@@ -197,21 +197,7 @@ def load(path) -> Project:
 
 def save(project: Project, path) -> None:
     """Write atomically (temporary file in the same folder, fsync, then os.replace)."""
-    path = Path(path)
-    text = dumps(project)
-    fd, tmp = tempfile.mkstemp(prefix=f".{path.name}.", suffix=".tmp", dir=path.parent)
-    try:
-        with os.fdopen(fd, "w", encoding="utf-8") as fh:
-            fh.write(text)
-            fh.flush()
-            os.fsync(fh.fileno())
-        os.replace(tmp, path)
-    except BaseException:
-        try:
-            os.unlink(tmp)
-        except FileNotFoundError:
-            pass
-        raise
+    write_atomic(path, dumps(project))
 
 
 def demo_path():

@@ -51,7 +51,8 @@ def test_failed_save_keeps_the_old_file(tmp_path, monkeypatch):
 
     def boom(*a, **k):
         raise OSError("disk full")
-    monkeypatch.setattr(pj.os, "replace", boom)
+    import app.files
+    monkeypatch.setattr(app.files.os, "replace", boom)
     p = sample()
     p.name = "changed"
     with pytest.raises(OSError):

@@ -14,9 +14,8 @@ No Qt here: the desktop window and the command line both call this package.
 from __future__ import annotations
 
 import os
-import tempfile
-from pathlib import Path
 
+from ..files import write_atomic
 from .content import ChannelSheet, channel_sheet
 from .fingerprint import canonical_json, fingerprint
 from .layout import PAGES, SheetLayoutError, approval_box, render
@@ -88,21 +87,5 @@ def export_sheets(project, path, channels=None, page: str = "letter", sign=None,
         else:
             p12, password = sign
         data = sign_pdf(data, p12, password, page)
-    _write_atomic(Path(path), data)
+    write_atomic(path, data)
     return notes
-
-
-def _write_atomic(path: Path, data: bytes) -> None:
-    fd, tmp = tempfile.mkstemp(prefix=f".{path.name}.", suffix=".tmp", dir=path.parent or ".")
-    try:
-        with os.fdopen(fd, "wb") as fh:
-            fh.write(data)
-            fh.flush()
-            os.fsync(fh.fileno())
-        os.replace(tmp, path)
-    except BaseException:
-        try:
-            os.unlink(tmp)
-        except FileNotFoundError:
-            pass
-        raise

@@ -692,7 +692,14 @@ def required_d50(depth, slope, gamma_stone=GAMMA_STONE, gamma_water=GAMMA_WATER,
     gw = validate.positive("gamma_water", gamma_water)
     gs = validate.number("gamma_stone", gamma_stone, low=gw, hint=" (the stone must be heavier than water)")
     v = validate.positive("nu", nu)
-    k = d * s / (gs / gw - 1.0)
+    size = _stone_size(gw * d * s, d, s, gs, gw, v)
+    _stone_size_warning(size.d50)
+    return size
+
+
+def _stone_size(tau, d, s, gs, gw, v) -> StoneSize:
+    """Eq. 6.8 for a design shear tau (checked inputs; arrays element by element)."""
+    k = tau / (gs - gw)
     c = (np.sqrt(G * d * s) if _vec(d, s) else math.sqrt(G * d * s)) / v
     if _vec(k, c):
         kk, cc = np.broadcast_arrays(np.asarray(k, float), np.asarray(c, float))
@@ -701,7 +708,6 @@ def required_d50(depth, slope, gamma_stone=GAMMA_STONE, gamma_water=GAMMA_WATER,
         d50 = _required_d50_scalar(k, c)
     re = c * d50
     f, sf = _shields_sf(re)
-    _stone_size_warning(d50)
     return StoneSize(d50, f, sf, re)
 
 
@@ -755,12 +761,7 @@ def required_d50_for_shear(design_shear_value, depth, slope, gamma_stone=GAMMA_S
     v = validate.positive("nu", nu)
     if _vec(tau, d, s):
         raise InputError("design_shear", "must be a single value here")
-    k = tau / (gs - gw)
-    c = math.sqrt(G * d * s) / v
-    d50 = _required_d50_scalar(k, c)
-    re = c * d50
-    f, sf = _shields_sf(re)
-    return StoneSize(d50, f, sf, re)
+    return _stone_size(tau, d, s, gs, gw, v)
 
 
 def tractive_force_ratio(side_slope, angle_of_repose):

@@ -1,0 +1,631 @@
+"""Ditch inventories: read a CSV of reaches, check them all, write one result row per input row.
+
+The computation is :mod:`hydraulics.batch` (vectorised, SI). This module is
+its edge: it reads the CSV text, converts the user's units to SI on the way
+in and back on the way out, writes the results file, and prepares the
+summary and the summary plot. The desktop window calls :func:`run_inventory`
+and :func:`result_table`.
+
+Input columns (all required in the header, blank where not relevant):
+``id, shape, bottom_width, left_slope, right_slope, diameter, slope, flow,
+lining, d50, n``. Lengths (bottom_width, diameter, d50) are in ft or m, flow
+in ft^3/s or m^3/s, side slopes H:V, slope a ratio. Any other column is
+carried through unchanged. The results file is the input with the columns
+``normal_depth, critical_depth, velocity, froude, bed_shear,
+permissible_shear, safety_factor, verdict, reason`` added, in the same units,
+one row per input row and in the same order.
+"""
+
+from __future__ import annotations
+
+import csv
+import io
+import math
+import os
+import sys
+import tempfile
+from dataclasses import dataclass, field
+from itertools import repeat
+from pathlib import Path
+
+import numpy as np
+
+from hydraulics import batch as hb
+from hydraulics.linings import hec15
+from hydraulics import units as hu
+
+INPUT_COLUMNS = ("id", "shape", "bottom_width", "left_slope", "right_slope", "diameter", "slope", "flow", "lining",
+                 "d50", "n")
+RESULT_COLUMNS = ("normal_depth", "critical_depth", "velocity", "froude", "bed_shear", "permissible_shear",
+                  "safety_factor", "verdict", "reason")
+_NUMBER_COLUMNS = tuple(hb.NUMERIC_FIELDS)
+_VALUE_COLUMNS = tuple(hb.RESULT_FIELDS)  # the numeric result columns, in output order
+#: Significant digits of the numbers written (more than any inventory's inputs carry).
+DIGITS = 5
+#: Notes about groups of reaches shown in the summary (all are in BatchResult.messages).
+MAX_MESSAGES = 12
+
+
+class InventoryError(Exception):
+    """The file as a whole cannot be read as an inventory (no results are written)."""
+
+
+@dataclass
+class Inventory:
+    """An inventory read from CSV: its text per row (for carrying through) and its reaches in SI."""
+
+    source: str
+    units: hu.UnitSystem
+    header: list            # column names as written
+    header_text: str        # the header line, CSV-encoded
+    rows: list              # per record: its fields as CSV text (carried through unchanged)
+    lines: np.ndarray       # per record: the line number where it starts (the header is line 1)
+    ids: list               # per record: the id as written (surrounding blanks kept)
+    reaches: hb.Reaches
+    blank_lines: list = field(default_factory=list)
+
+    def __len__(self):
+        return len(self.rows)
+
+
+# ----------------------------------------------------------------------------- reading
+
+def _decode(data: bytes, source: str) -> str:
+    try:
+        return data.decode("utf-8-sig")
+    except UnicodeDecodeError as exc:
+        raise InventoryError(f"{source}: not UTF-8 text (byte {exc.start}); save the sheet as "
+                             "'CSV UTF-8' and try again") from None
+
+
+def _split_fast(text: str):
+    """Records of a CSV text without double quotes: (header line, header fields, record lines, numbers, blanks).
+
+    Each record's fields are exactly its line split at the commas, so the
+    line itself is what is carried through to the results.
+    """
+    lines = text.split("\n")
+    if lines and lines[-1] == "":
+        lines.pop()
+    commas = np.fromiter(map(str.count, lines, repeat(",", len(lines))), dtype=np.int64, count=len(lines))
+    blank = [int(i) for i in np.flatnonzero(commas == 0) if not lines[i].strip()]
+    keep = np.ones(len(lines), dtype=bool)
+    keep[blank] = False
+    kept = np.flatnonzero(keep)
+    if not len(kept):
+        return None
+    head = int(kept[0])
+    rows_at = kept[1:]
+    if len(rows_at) == len(lines) - head - 1:
+        records = lines[head + 1:]
+    else:
+        records = [lines[i] for i in rows_at]
+    return head + 1, lines[head].split(","), records, rows_at + 1, [b + 1 for b in blank], commas[rows_at] + 1
+
+
+def _split_csv(text: str, source: str):
+    """The same as :func:`_split_fast` by the csv module, for files that quote fields."""
+    reader = csv.reader(io.StringIO(text, newline=""), strict=True)
+    records, numbers, blank, header = [], [], [], None
+    start = 1
+    try:
+        for fields in reader:
+            if not fields or (len(fields) == 1 and not fields[0].strip()):
+                blank.append(start)
+            elif header is None:
+                header = (start, fields)
+            else:
+                records.append(fields)
+                numbers.append(start)
+            start = reader.line_num + 1
+    except csv.Error as exc:
+        raise InventoryError(f"{source}: line {reader.line_num}: {exc} (check the quotes)") from None
+    if header is None:
+        return None
+    return header[0], header[1], records, np.array(numbers, dtype=np.int64), blank, \
+        np.array([len(f) for f in records], dtype=np.int64)
+
+
+def _check_header(fields, source):
+    names = [f.strip() for f in fields]
+    seen = {}
+    for i, name in enumerate(names):
+        if name in seen:
+            raise InventoryError(f"{source}: column {name!r} appears twice in the header (columns {seen[name] + 1} "
+                                 f"and {i + 1})")
+        seen[name] = i
+    missing = [c for c in INPUT_COLUMNS if c not in seen]
+    if missing:
+        hints = []
+        lower = {n.lower(): n for n in names}
+        for c in missing:
+            if c in lower:
+                hints.append(f"{lower[c]!r} for {c!r}: names are lower case")
+        if len(names) == 1 and any(sep in names[0] for sep in ";\t|"):
+            hints.append("the file seems to separate columns with something other than commas")
+        hint = f" ({'; '.join(hints)})" if hints else ""
+        raise InventoryError(f"{source}: missing column{'s' if len(missing) > 1 else ''} "
+                             f"{', '.join(missing)}; the header needs {', '.join(INPUT_COLUMNS)}{hint}")
+    clash = [c for c in RESULT_COLUMNS if c in seen]
+    if clash:
+        raise InventoryError(f"{source}: the input already has the result column{'s' if len(clash) > 1 else ''} "
+                             f"{', '.join(clash)} (is it a results file?); rename or remove "
+                             f"{'them' if len(clash) > 1 else 'it'}")
+    return names, seen
+
+
+def _hint(text: str) -> str:
+    if "%" in text:
+        return " (write a slope as a ratio: 0.5 % is 0.005)"
+    if "," in text:
+        return " (use a point as the decimal mark)"
+    return ""
+
+
+def _numbers(texts, name, notes, unreadable):
+    """Parse one column: blanks -> nan; anything that is not a finite number is noted on its row.
+
+    The common case (plain numbers and empty fields) is converted in one
+    numpy call. Text with letters that could spell nan or inf, underscores
+    (which Python's float accepts) or anything float refuses is read one
+    entry at a time.
+    """
+    size = len(texts)
+    if not size:
+        return np.zeros(0)
+    joined = "".join(texts)
+    if not any(c in joined for c in "_nN"):
+        try:
+            distinct = set(texts)
+            if len(distinct) * 8 < size:  # side slopes, n, blank columns: each text parsed once
+                table = {t: float(t) if t else math.nan for t in distinct}
+                values = np.fromiter(map(table.__getitem__, texts), dtype=float, count=size)
+            else:
+                values = np.fromiter(map(float, [t or "nan" for t in texts] if "" in texts else texts), dtype=float,
+                                     count=size)
+            if not np.isinf(values).any():
+                return values
+        except ValueError:
+            pass
+    values = np.full(size, math.nan)
+    bad = np.zeros(size, dtype=bool)
+    for i, raw in enumerate(texts):
+        t = raw.strip()
+        if not t:
+            continue
+        try:
+            if "_" in t:
+                raise ValueError
+            v = float(t)
+        except ValueError:
+            bad[i] = True
+            _add_note(notes, i, f"{name}: not a number, got {t!r}{_hint(t)}")
+            continue
+        if math.isfinite(v):
+            values[i] = v
+        else:
+            bad[i] = True
+            _add_note(notes, i, f"{name}: must be a finite number, got {t!r}")
+    if bad.any():
+        unreadable[name] = bad
+    return values
+
+
+def _add_note(notes, i, text):
+    notes[i] = f"{notes[i]}; {text}" if notes[i] else text
+
+
+def _texts(texts, lower=False):
+    """A text column as an object array, surrounding blanks stripped (and lower case if asked)."""
+    mapping = {t: (t.strip().lower() if lower else t.strip()) for t in set(texts)}
+    if all(k == v for k, v in mapping.items()):
+        return np.array(texts, dtype=object)
+    return np.array([mapping[t] for t in texts], dtype=object)
+
+
+def parse_inventory(text: str, units: str = "us", source: str = "inventory") -> Inventory:
+    """Read inventory CSV ``text`` in the unit system ``units`` ("us" or "si").
+
+    Raises InventoryError for a file that cannot be an inventory (empty, no
+    header, missing or duplicated columns) and InputError for unknown units.
+    Problems of single rows do not raise: they go into ``reaches.notes``.
+    """
+    system = hu.system(units)
+    text = text.replace("\r\n", "\n").replace("\r", "\n") if "\r" in text else text
+    fast = '"' not in text
+    split = _split_fast(text) if fast else _split_csv(text, source)
+    if split is None:
+        raise InventoryError(f"{source}: the file is empty (it needs a header line with the columns "
+                             f"{', '.join(INPUT_COLUMNS)})")
+    _, header_fields, records, lines, blank, field_counts = split
+    names, index = _check_header(header_fields, source)
+    width = len(names)
+    size = len(records)
+    notes = np.full(size, "", dtype=object)
+
+    ragged = np.flatnonzero(field_counts != width)
+    if fast and not len(ragged):
+        flat = ",".join(records).split(",") if size else []
+        columns = [flat[j::width] for j in range(width)]
+        rows = records
+    else:
+        fields = [r.split(",") for r in records] if fast else records
+        for i in ragged:
+            fields[i] = _ragged(fields[i], width, notes, i)
+        columns = [list(c) for c in zip(*fields)] if size else [[] for _ in range(width)]
+        rows = [",".join(f) for f in fields] if fast else [_csv_line(f) for f in fields]
+    header_text = ",".join(header_fields) if fast else _csv_line(header_fields)
+
+    col = {name: columns[index[name]] for name in INPUT_COLUMNS}
+    unreadable = {}
+    numbers = {}
+    for name in _NUMBER_COLUMNS:
+        values = _numbers(col[name], name, notes, unreadable)
+        quantity = hb.NUMERIC_FIELDS[name]
+        numbers[name] = values if quantity in ("slope", "side_slope", "manning_n") else system.to_si(quantity, values)
+    reaches = hb.Reaches(shape=_texts(col["shape"], lower=True), lining=_texts(col["lining"]), notes=notes,
+                         unreadable=unreadable, **numbers)
+    return Inventory(source=source, units=system, header=names, header_text=header_text, rows=rows, lines=lines,
+                     ids=col["id"], reaches=reaches, blank_lines=blank)
+
+
+def _ragged(fields, width, notes, i):
+    if len(fields) < width:
+        _add_note(notes, i, f"the row has {len(fields)} fields and the header {width}; "
+                            "the missing ones were read as blank")
+        return fields + [""] * (width - len(fields))
+    extra = fields[width:]
+    _add_note(notes, i, f"the row has {len(fields)} fields and the header {width}; the extra "
+                        f"field{'s' if len(extra) > 1 else ''} {', '.join(repr(e) for e in extra)} "
+                        f"{'are' if len(extra) > 1 else 'is'} kept only in this reason")
+    return fields[:width]
+
+
+def _csv_line(fields) -> str:
+    """Fields as one CSV record (quoted where needed, line breaks inside quotes), without its line end."""
+    buf = io.StringIO()
+    csv.writer(buf, lineterminator="\n").writerow(fields)  # "\n" also makes fields holding it quoted
+    return buf.getvalue()[:-1]
+
+
+def read_inventory(path, units: str = "us") -> Inventory:
+    """Read the inventory file at ``path``; see :func:`parse_inventory`."""
+    path = Path(path)
+    try:
+        data = path.read_bytes()
+    except OSError as exc:
+        raise InventoryError(f"cannot read {path}: {exc.strerror or exc}") from None
+    return parse_inventory(_decode(data, str(path)), units, source=str(path))
+
+
+# ----------------------------------------------------------------------------- computing
+
+def evaluate(inventory: Inventory, progress=None, catalogue=None) -> hb.BatchResult:
+    """Check every reach of ``inventory`` (results SI; reasons quote the inventory's units).
+
+    ``catalogue`` is the lining catalogue the ``lining`` column refers to
+    (default: the shipped one; see hydraulics.linings.load_catalogue for a
+    user catalogue on top of it).
+    """
+    return hb.evaluate(inventory.reaches, display=inventory.units, progress=progress, catalogue=catalogue)
+
+
+# ----------------------------------------------------------------------------- writing
+
+def _quote_field(text: str) -> str:
+    if any(c in text for c in ',"\n\r'):
+        return '"' + text.replace('"', '""') + '"'
+    return text
+
+
+def display_values(inventory: Inventory, result: hb.BatchResult) -> dict:
+    """The numeric result columns in the inventory's units (nan where blank)."""
+    return {k: inventory.units.from_si(q, getattr(result, k)) if q not in ("ratio",) else getattr(result, k)
+            for k, q in hb.RESULT_FIELDS.items()}
+
+
+def format_results(inventory: Inventory, result: hb.BatchResult) -> str:
+    """The results file as text: the input rows with the result columns added.
+
+    Numbers get :data:`DIGITS` significant digits; a value not computed is an
+    empty field. Rows are formatted in groups that share which values are
+    present, one format operation per row.
+    """
+    size = len(inventory)
+    values = display_values(inventory, result)
+    table = np.column_stack([values[k] for k in _VALUE_COLUMNS]) if size else np.zeros((0, len(_VALUE_COLUMNS)))
+    present = np.isfinite(table)
+    pattern = present @ (1 << np.arange(len(_VALUE_COLUMNS)))
+    cache = {}
+    tails = [cache.get(key) or cache.setdefault(key, f"{key[0]},{_quote_field(key[1])}")
+             for key in zip(result.verdict.tolist(), result.reason.tolist())]
+    rows = inventory.rows
+    number = f"%.{DIGITS}g"
+    codes = np.unique(pattern)
+    out = np.empty(size, dtype=object) if len(codes) > 1 else None
+    for code in codes:
+        cols = [j for j in range(len(_VALUE_COLUMNS)) if code >> j & 1]
+        fmt = "%s," + ",".join(number if code >> j & 1 else "" for j in range(len(_VALUE_COLUMNS))) + ",%s"
+        if out is None:  # every row alike: no gathering
+            text = [fmt % t for t in zip(rows, *(table[:, j].tolist() for j in cols), tails)]
+            break
+        where = np.flatnonzero(pattern == code)
+        pick = where.tolist()
+        out[where] = [fmt % t for t in zip([rows[i] for i in pick], *(table[where, j].tolist() for j in cols),
+                                           [tails[i] for i in pick])]
+    else:
+        text = out.tolist() if out is not None else []
+    head = inventory.header_text + "," + ",".join(RESULT_COLUMNS)
+    return "\n".join([head, *text]) + "\n"
+
+
+def write_results(path, inventory: Inventory, result: hb.BatchResult) -> None:
+    """Write the results file atomically (a half-written file never replaces a good one)."""
+    path = Path(path)
+    text = format_results(inventory, result)
+    folder = path.parent if str(path.parent) else Path(".")
+    fd, tmp = tempfile.mkstemp(prefix=f".{path.name}.", suffix=".tmp", dir=folder)
+    try:
+        with os.fdopen(fd, "w", encoding="utf-8", newline="") as fh:
+            fh.write(text)
+        os.replace(tmp, path)
+    except BaseException:
+        try:
+            os.unlink(tmp)
+        except OSError:
+            pass
+        raise
+
+
+def result_table(inventory: Inventory, result: hb.BatchResult):
+    """(columns, rows) for a table view: every input column then the result columns, all as text.
+
+    Numbers are in the inventory's units with :data:`DIGITS` significant
+    digits, blanks are "". ``result.verdict`` and ``result.flags`` give the
+    masks a filter needs.
+    """
+    text = format_results(inventory, result)
+    reader = csv.reader(io.StringIO(text, newline=""))
+    columns = next(reader)
+    return columns, list(reader)
+
+
+# ----------------------------------------------------------------------------- reporting
+
+def problem_rows(inventory: Inventory, result: hb.BatchResult):
+    """[(line, id, verdict, reason)] for every reach that is invalid or has no solution, in file order."""
+    bad = [i for i, v in enumerate(result.verdict.tolist()) if v in ("invalid", "no-solution")]
+    return [(int(inventory.lines[i]), inventory.ids[i].strip(), result.verdict[i], result.reason[i]) for i in bad]
+
+
+def summary(inventory: Inventory, result: hb.BatchResult, seconds: float | None = None) -> str:
+    """A few lines for the terminal: counts per verdict, warnings, extremes."""
+    counts = result.counts()
+    size = len(inventory)
+    units = inventory.units
+    out = [f"{size:,} reach{'es' if size != 1 else ''} in {inventory.source} ({units.name} units)"
+           + (f", checked in {seconds:.2f} s" if seconds is not None else "")]
+    width = max(len(v) for v in hb.VERDICTS)
+    for verdict in hb.VERDICTS:
+        out.append(f"  {verdict:<{width}}  {counts[verdict]:>9,}")
+    flagged = [f"{int(result.flags[k].sum()):,} {label}" for k, label in hb.WARNINGS.items() if result.flags[k].any()]
+    if flagged:
+        out.append("  warnings: " + ", ".join(flagged) + " (see the reason column)")
+    ratio = result.shear_ratio
+    checked = ~np.isnan(ratio)
+    if checked.any():
+        held = checked & np.isfinite(ratio)
+        text = (f"  shear ratio (design / permissible where highest, 1 / safety factor) of "
+                f"{int(checked.sum()):,} reaches:")
+        if held.any():
+            worst = int(np.argmax(np.where(held, ratio, -np.inf)))
+            text += (f" median {np.median(ratio[checked]):.2f}, above 1 on {int((ratio[checked] > 1).sum()):,}, "
+                     f"largest finite {ratio[worst]:.2f} (line {inventory.lines[worst]}, "
+                     f"id {inventory.ids[worst].strip()!r})")
+        if (checked & ~held).any():
+            text += f"; {int((checked & ~held).sum()):,} with stone that cannot rest on its side slopes"
+        out.append(text)
+    else:
+        out.append("  no reach has a permissible shear to compare its design shear with")
+    shear = result.bed_shear
+    if np.isfinite(shear).any():
+        worst = int(np.nanargmax(shear))
+        out.append(f"  largest bed shear {units.from_si('shear', float(shear[worst])):.3g} {units.label('shear')} "
+                   f"(line {inventory.lines[worst]}, id {inventory.ids[worst].strip()!r})")
+    for message in result.messages[:MAX_MESSAGES]:
+        out.append(f"  note: {message}")
+    if len(result.messages) > MAX_MESSAGES:
+        out.append(f"  note: ... and {len(result.messages) - MAX_MESSAGES} more notes of this kind")
+    if np.isfinite(result.normal_depth).any():
+        fb = units.from_si("length", hec15.MIN_FREEBOARD)
+        out.append(f"  freeboard: not checked (an inventory has no ditch depth); each open ditch needs at least "
+                   f"its normal depth plus {fb:.2g} {units.label('length')} (HEC-15 Section 2, from memory; local "
+                   "codes govern)")
+    out.append("  results assist design: a licensed engineer checks them against local codes")
+    duplicated = _duplicates(inventory.ids)
+    if duplicated:
+        out.append(f"  note: {len(duplicated):,} id{'s' if len(duplicated) > 1 else ''} appear more than once "
+                   f"(first: {duplicated[0]!r}); every row is still checked")
+    blank_ids = sum(1 for i in inventory.ids if not i.strip())
+    if blank_ids:
+        out.append(f"  note: {blank_ids:,} row{'s have' if blank_ids > 1 else ' has'} no id; "
+                   "they are still checked and named by line number")
+    if inventory.blank_lines:
+        out.append(f"  note: {len(inventory.blank_lines):,} blank line{'s' if len(inventory.blank_lines) > 1 else ''} "
+                   f"skipped (line {', '.join(map(str, inventory.blank_lines[:5]))}"
+                   f"{', ...' if len(inventory.blank_lines) > 5 else ''})")
+    return "\n".join(out)
+
+
+def _duplicates(ids):
+    seen, dup = set(), []
+    if len(set(ids)) == len(ids):
+        return dup
+    for i in (t.strip() for t in ids):
+        if i and i in seen and i not in dup:
+            dup.append(i)
+        seen.add(i)
+    return dup
+
+
+PLOT_FORMATS = (".png", ".pdf", ".svg")
+
+
+def plot_summary(result: hb.BatchResult, path, title: str = "Ditch inventory") -> None:
+    """Save a two-panel summary figure: reaches per verdict, and the distribution of shear ratio.
+
+    The format follows the suffix of ``path`` (PNG, PDF or SVG). Uses
+    matplotlib's Agg canvas, so no display is needed.
+    """
+    path = Path(path)
+    if path.suffix.lower() not in PLOT_FORMATS:
+        raise InventoryError(f"plot {path}: the name must end in {', '.join(PLOT_FORMATS)}")
+    from matplotlib.backends.backend_agg import FigureCanvasAgg
+    from matplotlib.figure import Figure
+
+    fig = Figure(figsize=(10, 4.2), layout="constrained")
+    FigureCanvasAgg(fig)
+    ax1, ax2 = fig.subplots(1, 2, width_ratios=(1.1, 1))
+    counts = result.counts()
+    colours = {"stable": "#3a7d44", "unstable": "#c0392b", "non-erodible": "#5d6d7e", "hydraulics-only": "#95a5a6",
+               "not-checked": "#b7950b",
+               "no-solution": "#8e44ad", "invalid": "#34495e"}
+    labels = list(counts)
+    bars = ax1.barh(labels[::-1], [counts[v] for v in labels[::-1]], color=[colours[v] for v in labels[::-1]])
+    ax1.bar_label(bars, labels=[f"{counts[v]:,}" for v in labels[::-1]], padding=3)
+    ax1.set_xlabel("reaches")
+    ax1.xaxis.get_major_locator().set_params(integer=True)
+    ax1.set_title(f"Reaches by verdict ({len(result):,} in all)")
+    ax1.margins(x=0.15)
+    ratio = result.shear_ratio
+    ratio = ratio[~np.isnan(ratio)]
+    finite = ratio[np.isfinite(ratio) & (ratio > 0)]
+    if finite.size:
+        # Ratios span decades (a riprap ditch on a flat grade to bare soil on a steep one): log bins.
+        lo, hi = min(float(finite.min()), 0.5), max(float(finite.max()), 2.0)
+        bins = np.geomspace(lo, hi * 1.0001, 41)
+        ax2.hist(finite, bins=bins, color="#2e86c1")
+        ax2.set_xscale("log")
+        ax2.axvline(1.0, color="#c0392b", linestyle="--", label="design shear = permissible")
+        ax2.legend(loc="upper right")
+        held = ratio.size - finite.size
+        ax2.set_ylabel("reaches")
+    else:
+        message = ("no reach has a permissible shear\nto compare its design shear with" if not ratio.size else
+                   f"{ratio.size:,} reaches with stone that\ncannot rest on its side slopes")
+        ax2.text(0.5, 0.5, message, transform=ax2.transAxes, ha="center", va="center")
+        ax2.set_yticks([])
+    ax2.set_xlabel("design / permissible shear (1 / safety factor)")
+    held = ratio.size - finite.size if finite.size else 0
+    ax2.set_title("Distribution of shear ratio" + (f"\n({held:,} not shown: stone cannot rest on the sides)"
+                                                   if held else ""), fontsize=None if not held else 10)
+    fig.suptitle(title)
+    fig.savefig(path)
+
+
+# ----------------------------------------------------------------------------- for the window
+
+def _row_fields(inventory: Inventory, i: int) -> list:
+    return next(csv.reader([inventory.rows[i]]))
+
+
+@dataclass
+class BatchRun:
+    """An inventory with its results, for the desktop window."""
+
+    inventory: Inventory
+    result: hb.BatchResult
+
+    def table(self):
+        """(columns, rows) of text; see :func:`result_table`."""
+        return result_table(self.inventory, self.result)
+
+    def problems(self):
+        return problem_rows(self.inventory, self.result)
+
+    def summary(self) -> str:
+        return summary(self.inventory, self.result)
+
+    def select(self, verdicts=None, warnings=None, text: str = "") -> np.ndarray:
+        """Row indices for a filtered view: any of ``verdicts`` (None: all), carrying any of
+        ``warnings`` (keys of hydraulics.batch.WARNINGS; None: no condition), and ``text``
+        found (case-insensitively) in the row's id or reason."""
+        keep = np.ones(len(self.inventory), dtype=bool)
+        if verdicts is not None:
+            keep &= np.isin(self.result.verdict.astype(str), list(verdicts))
+        if warnings is not None:
+            flagged = np.zeros(len(keep), dtype=bool)
+            for key in warnings:
+                flagged |= self.result.flags[key]
+            keep &= flagged
+        if text:
+            needle = text.lower()
+            keep &= np.array([needle in i.lower() or needle in r.lower()
+                              for i, r in zip(self.inventory.ids, self.result.reason.tolist())], dtype=bool)
+        return np.flatnonzero(keep)
+
+    def to_channels(self, rows=None):
+        """Project channels (app.project.Channel, SI) for the reaches ``rows`` (default: all).
+
+        Returns (channels, skipped): a reach whose row is invalid is not turned
+        into a channel but listed in ``skipped`` as (line, id, reason). The
+        other columns of the row go into the channel's notes.
+        """
+        from .project import Channel, FlowBasis, LiningChoice
+
+        inv, res, r = self.inventory, self.result, self.inventory.reaches
+        rows = range(len(inv)) if rows is None else [int(i) for i in rows]
+        extra = [(j, name) for j, name in enumerate(inv.header) if name not in INPUT_COLUMNS]
+        channels, skipped = [], []
+        value = lambda a, i: None if math.isnan(a[i]) else float(a[i])  # noqa: E731
+        for i in rows:
+            if res.verdict[i] == "invalid":
+                skipped.append((int(inv.lines[i]), inv.ids[i].strip(), res.reason[i]))
+                continue
+            kind = r.shape[i]
+            section = {"shape": kind}
+            for name in {"trapezoid": ("bottom_width", "left_slope", "right_slope"),
+                         "triangle": ("left_slope", "right_slope"), "rectangle": ("bottom_width",),
+                         "circle": ("diameter",)}[kind]:
+                section[name] = value(getattr(r, name), i)
+            lining = LiningChoice(r.lining[i], value(r.d50, i) or None) if r.lining[i] else None
+            fields = _row_fields(inv, i) if extra else []
+            notes = "; ".join(f"{name}: {fields[j]}" for j, name in extra if j < len(fields) and fields[j])
+            channels.append(Channel(name=inv.ids[i].strip() or f"line {inv.lines[i]}",
+                                    flow=FlowBasis("typed", float(r.flow[i])), slope=float(r.slope[i]),
+                                    section=section, lining=lining,
+                                    manning_n=value(r.n, i), notes=notes))
+        return channels, skipped
+
+
+def run_inventory(path, units: str = "us", progress=None, catalogue=None) -> BatchRun:
+    """Read and check the inventory at ``path``; ``progress(done, total)`` is called as it goes.
+
+    Raises InventoryError (whole file unreadable) or InputError (unknown units).
+    """
+    inventory = read_inventory(path, units)
+    return BatchRun(inventory, evaluate(inventory, progress, catalogue))
+
+
+class ProgressBar:
+    """A one-line progress bar on a terminal stream; silent when the stream is not a terminal."""
+
+    def __init__(self, label: str, stream=None, enabled: bool | None = None, width: int = 30):
+        self.stream = stream if stream is not None else sys.stderr
+        self.enabled = self.stream.isatty() if enabled is None else enabled
+        self.label, self.width, self.shown = label, width, False
+
+    def __call__(self, done: int, total: int) -> None:
+        if not self.enabled or total <= 0:
+            return
+        filled = int(self.width * done / total)
+        self.stream.write(f"\r{self.label} [{'#' * filled}{'.' * (self.width - filled)}] "
+                          f"{100 * done / total:3.0f}% {done:,}/{total:,}")
+        self.stream.flush()
+        self.shown = True
+
+    def close(self) -> None:
+        if self.shown:
+            self.stream.write("\n")
+            self.stream.flush()
+            self.shown = False

@@ -1,0 +1,94 @@
+"""`ditchwright batch`: check a whole ditch inventory (CSV) at once."""
+
+from __future__ import annotations
+
+import argparse
+import os
+import sys
+import time
+from pathlib import Path
+
+from hydraulics.linings import CatalogueError, load_catalogue
+
+from .. import batch as ab
+from .common import CliError
+
+HELP = "check every reach of a ditch inventory (CSV) and write one result row per reach"
+#: Above this many reaches a progress bar is drawn (on a terminal).
+PROGRESS_FROM = 20_000
+#: Problem rows listed on stderr; all of them are in the results file's reason column.
+MAX_LISTED = 50
+
+EPILOG = f"""\
+columns: {', '.join(ab.INPUT_COLUMNS)} (all in the header, blank where not relevant; other columns are
+carried through). Lengths in ft or m, flow in ft^3/s or m^3/s, side slopes H:V, slope as a ratio.
+Results add: {', '.join(ab.RESULT_COLUMNS)}, in the same units.
+exit status: 0 every row was checked; 1 results written but some rows are invalid (listed on stderr,
+reason in the file); 2 the file or an option cannot be used (nothing written)."""
+
+
+def register(subparsers) -> None:
+    p = subparsers.add_parser("batch", help=HELP, description=HELP + ".", epilog=EPILOG,
+                              formatter_class=argparse.RawDescriptionHelpFormatter)
+    p.add_argument("inventory", metavar="INVENTORY.csv", help="the inventory to check")
+    p.add_argument("-o", "--output", metavar="RESULTS.csv", required=True, help="results file to write")
+    p.add_argument("--units", choices=("us", "si"), default="us",
+                   help="unit system of the inventory and the results: us (ft, ft^3/s, lb/ft^2) or "
+                        "si (m, m^3/s, Pa); default us")
+    p.add_argument("--plot", metavar="PATH", help="also save a summary plot (.png, .pdf or .svg)")
+    p.add_argument("--user-catalogue", metavar="TOML",
+                   help="user lining catalogue over the shipped one (same layout; prices, data-sheet values)")
+    bar = p.add_mutually_exclusive_group()
+    bar.add_argument("--progress", dest="progress", action="store_true", default=None,
+                     help="always draw the progress bar")
+    bar.add_argument("--no-progress", dest="progress", action="store_false", help="never draw it")
+    p.set_defaults(run=run)
+
+
+def _same_file(a: Path, b: Path) -> bool:
+    try:
+        return b.exists() and os.path.samefile(a, b)
+    except OSError:
+        return False
+
+
+def run(args) -> int:
+    source, target = Path(args.inventory), Path(args.output)
+    if _same_file(source, target):
+        raise CliError(f"the results file {target} is the inventory itself; write the results elsewhere")
+    if args.plot is not None and Path(args.plot).suffix.lower() not in ab.PLOT_FORMATS:
+        raise CliError(f"--plot {args.plot}: the name must end in {', '.join(ab.PLOT_FORMATS)}")
+    catalogue = None
+    if args.user_catalogue is not None:
+        try:
+            catalogue = load_catalogue(user_path=args.user_catalogue)
+        except (CatalogueError, OSError) as exc:
+            raise CliError(f"--user-catalogue {args.user_catalogue}: {exc}") from None
+    start = time.perf_counter()
+    try:
+        inventory = ab.read_inventory(source, args.units)
+    except ab.InventoryError as exc:
+        raise CliError(str(exc)) from None
+    show = args.progress if args.progress is not None else (len(inventory) >= PROGRESS_FROM and sys.stderr.isatty())
+    bar = ab.ProgressBar("checking", enabled=show)
+    try:
+        result = ab.evaluate(inventory, progress=bar, catalogue=catalogue)
+    finally:
+        bar.close()
+    try:
+        ab.write_results(target, inventory, result)
+    except OSError as exc:
+        raise CliError(f"cannot write {target}: {exc.strerror or exc}") from None
+    elapsed = time.perf_counter() - start
+    problems = ab.problem_rows(inventory, result)
+    for line, ident, verdict, reason in problems[:MAX_LISTED]:
+        name = f" (id {ident!r})" if ident else ""
+        print(f"{inventory.source}:{line}{name}: {verdict}: {reason}", file=sys.stderr)
+    if len(problems) > MAX_LISTED:
+        print(f"... and {len(problems) - MAX_LISTED:,} more; every one has its reason in {target}", file=sys.stderr)
+    print(ab.summary(inventory, result, elapsed))
+    print(f"  results: {target}")
+    if args.plot is not None:
+        ab.plot_summary(result, args.plot, title=f"Ditch inventory {source.name}")
+        print(f"  plot: {args.plot}")
+    return 1 if result.counts()["invalid"] else 0

@@ -1,0 +1,207 @@
+"""Speed of `ditchwright batch`: 100,000 reaches end to end against the scalar API one reach at a time.
+
+    python benchmarks/bench_batch.py [--reaches 100000] [--sample N]
+
+The inventory is invented (random but reproducible): open ditches (trapezoid,
+V-ditch, rectangle) and pipes with US customary inputs, a few named linings,
+a few pipes too small for their flow and a few malformed rows. Lined reaches
+(riprap, grass) give an n half the time and otherwise take the lining's own,
+depth-dependent n from the catalogue (a coupled solve).
+
+(1) batch: read the CSV, check every reach, write the results CSV, timed as
+    `app.batch` does it for the command (parsing and unit conversion included).
+(2) scalar: the same reaches one by one with the scalar API (section class,
+    hy.max_flow for pipes, the lining's roughness, hy.analyse), computing
+    only: no reading or writing.
+    With --sample N only N reaches spread over the file are timed and the time
+    is scaled to the whole file (the script says so).
+(3) with --with-io: the same as (2) with reading and writing by the csv module.
+(4) mixed inventory only: as (2), but each lined reach through the scalar
+    lining check, hydraulics.stability.check_lining, which also sizes the
+    stone and works out freeboard (more than the batch writes), on a sample.
+Ratio = (2) / (1); goal >= 50x. Two inventories are timed: a mixed one and one
+where every reach gives its own n (no lining roughness to solve with). Each timing is the best of a few repeats; the
+absolute times depend on the machine and are indicative only.
+"""
+
+from __future__ import annotations
+
+import argparse
+import csv
+import math
+import tempfile
+import time
+from pathlib import Path
+
+import numpy as np
+
+import hydraulics as hy
+from app import batch as ab
+from hydraulics import units as hu
+from hydraulics.linings import load_catalogue
+from hydraulics.stability import check_lining
+
+HEADER = ["id", "shape", "bottom_width", "left_slope", "right_slope", "diameter", "slope", "flow", "lining", "d50",
+          "n", "road", "surveyed"]
+
+
+def make_inventory(path: Path, size: int, seed: int = 11, lined: bool = True) -> None:
+    """Write an invented inventory of ``size`` reaches (US units) to ``path``; ``lined``: some name a lining."""
+    rng = np.random.default_rng(seed)
+    kind = rng.choice(["trapezoid", "triangle", "rectangle", "circle"], size=size, p=[0.55, 0.2, 0.1, 0.15])
+    b = np.round(rng.uniform(1.0, 8.0, size), 1)
+    z1 = rng.choice([1.5, 2.0, 3.0, 4.0], size)
+    z2 = rng.choice([1.5, 2.0, 3.0, 4.0, 6.0], size)
+    d = rng.choice([1.0, 1.25, 1.5, 2.0, 2.5, 3.0, 4.0], size)
+    slope = np.round(10 ** rng.uniform(-3.5, -1.2, size), 5)
+    flow = np.round(10 ** rng.uniform(-0.5, 2.3, size), 2)
+    n = rng.choice([0.013, 0.015, 0.022, 0.03, 0.035, 0.045], size)
+    lining = rng.choice(["", "", "", "", "", "", "", "", "riprap", "grass_good_sod"], size)
+    if not lined:
+        lining[:] = ""
+    own_n = rng.random(size) < 0.5  # half the lined reaches give an n, the others take the lining's own
+    pipe = kind == "circle"
+    flow[pipe] = np.round(flow[pipe] * 0.15, 2) + 0.01  # pipes mostly carry their flow, some do not
+    with open(path, "w", newline="") as fh:
+        fh.write(",".join(HEADER) + "\n")
+        for i in range(size):
+            k = kind[i]
+            row = [f"R{i:06d}", k,
+                   f"{b[i]:g}" if k in ("trapezoid", "rectangle") else "",
+                   f"{z1[i]:g}" if k in ("trapezoid", "triangle") else "",
+                   f"{z2[i]:g}" if k in ("trapezoid", "triangle") else "",
+                   f"{d[i]:g}" if k == "circle" else "",
+                   f"{slope[i]:g}", f"{flow[i]:g}", lining[i], "",
+                   f"{n[i]:g}" if not lining[i] or own_n[i] or k == "circle" else "",
+                   f"SR-{i % 97}", "2024-05"]
+            if i % 1000 == 999:
+                row[7] = "-1"  # a malformed row now and then
+            fh.write(",".join(row) + "\n")
+
+
+def best(fn, repeat):
+    times = []
+    for _ in range(repeat):
+        t0 = time.perf_counter()
+        fn()
+        times.append(time.perf_counter() - t0)
+    return min(times)
+
+
+def batch_end_to_end(src: Path, dst: Path):
+    inventory = ab.read_inventory(src, "us")
+    result = ab.evaluate(inventory)
+    ab.write_results(dst, inventory, result)
+    return result
+
+
+_CATALOGUE = load_catalogue()
+
+
+def _scalar_row(row, us, stability=False):
+    """One reach through the scalar API, as a caller without the batch would write it.
+
+    With ``stability`` a lined reach goes through hydraulics.stability.check_lining (the
+    scalar lining check); its ``analysis`` is returned so that both modes compare alike.
+    """
+    length = lambda v: us.to_si("length", float(v))  # noqa: E731
+    try:
+        q, s = us.to_si("flow", float(row["flow"])), float(row["slope"])
+        n = float(row["n"]) if row["n"] else _CATALOGUE.get(row["lining"]).roughness()
+        kind = row["shape"]
+        if kind == "trapezoid":
+            sec = hy.Trapezoid(bottom_width=length(row["bottom_width"]), left_slope=float(row["left_slope"]),
+                               right_slope=float(row["right_slope"]))
+        elif kind == "triangle":
+            sec = hy.Triangle(left_slope=float(row["left_slope"]), right_slope=float(row["right_slope"]))
+        elif kind == "rectangle":
+            sec = hy.Rectangle(bottom_width=length(row["bottom_width"]))
+        else:
+            sec = hy.Circle(diameter=length(row["diameter"]))
+            if q > hy.max_flow(sec, s, n):
+                return None
+        if stability and row["lining"]:
+            return check_lining(sec, q, s, _CATALOGUE.get(row["lining"]), n=float(row["n"]) if row["n"] else None,
+                                ).analysis
+        return hy.analyse(sec, q, s, n)
+    except (hy.HydraulicsError, ValueError):
+        return None
+
+
+def scalar_rows(rows, stability=False):
+    us = hu.system("us")
+    return [_scalar_row(r, us, stability) for r in rows]
+
+
+def scalar_with_io(src: Path, dst: Path):
+    us = hu.system("us")
+    with open(src, newline="") as fh:
+        rows = list(csv.DictReader(fh))
+    with open(dst, "w", newline="") as fh:
+        w = csv.writer(fh)
+        w.writerow(list(rows[0]) + list(ab.RESULT_COLUMNS[:5]))
+        for r in rows:
+            res = _scalar_row(r, us)
+            vals = [] if res is None else [
+                us.from_si("length", res.normal_depth), us.from_si("length", res.critical_depth),
+                us.from_si("velocity", res.velocity), res.froude, us.from_si("shear", res.bed_shear)]
+            w.writerow(list(r.values()) + [f"{v:.5g}" for v in vals])
+
+
+def run(size, lined, sample, repeat, with_io):
+    """Timings for one invented inventory; returns a dict of figures."""
+    with tempfile.TemporaryDirectory() as tmp:
+        src, dst = Path(tmp) / "inventory.csv", Path(tmp) / "results.csv"
+        make_inventory(src, size, lined=lined)
+        result = batch_end_to_end(src, dst)
+        t_batch = best(lambda: batch_end_to_end(src, dst), repeat)
+        with open(src, newline="") as fh:
+            rows = list(csv.DictReader(fh))
+        if sample and sample < len(rows):
+            pick = np.linspace(0, len(rows) - 1, sample).astype(int)
+            timed = [rows[i] for i in pick]
+            t_scalar = best(lambda: scalar_rows(timed), 1) * len(rows) / len(timed)
+            how = f"{len(timed):,} reaches timed one by one, scaled to {len(rows):,}"
+        else:
+            t_scalar = best(lambda: scalar_rows(rows), 1)
+            how = f"all {len(rows):,} reaches one by one"
+        t_stab = math.nan
+        if lined:  # the scalar lining check is slow: always a sample, scaled
+            pick = np.linspace(0, len(rows) - 1, min(len(rows), sample or 5000)).astype(int)
+            timed = [rows[i] for i in pick]
+            t_stab = best(lambda: scalar_rows(timed, stability=True), 1) * len(rows) / len(timed)
+        # The scalar results agree with the batch on the reaches both computed.
+        check = np.linspace(0, len(rows) - 1, 2000).astype(int)
+        ref = scalar_rows([rows[i] for i in check])
+        got = result.normal_depth[check]
+        worst = max((abs(r.normal_depth - g) / r.normal_depth for r, g in zip(ref, got) if r is not None), default=0)
+        assert worst < 1e-9, worst
+        t_io = best(lambda: scalar_with_io(src, dst), 1) if with_io else math.nan
+    return {"batch": t_batch, "scalar": t_scalar, "how": how, "io": t_io, "stab": t_stab, "counts": result.counts()}
+
+
+def main(argv=None):
+    p = argparse.ArgumentParser(description=__doc__.splitlines()[0])
+    p.add_argument("--reaches", type=int, default=100_000)
+    p.add_argument("--sample", type=int, default=0, help="time only this many reaches one by one and scale")
+    p.add_argument("--repeat", type=int, default=3)
+    p.add_argument("--with-io", action="store_true", help="also time the scalar loop with csv reading and writing")
+    args = p.parse_args(argv)
+    for label, lined in (("mixed: 20 % lined, half of them with the lining's own n", True),
+                         ("every reach with its own Manning's n", False)):
+        f = run(args.reaches, lined, args.sample, args.repeat, args.with_io)
+        print(f"{args.reaches:,} invented reaches, {label}")
+        print(f"  verdicts {f['counts']}")
+        print(f"  (1) batch, read + check + write:    {f['batch']:8.3f} s")
+        print(f"  (2) scalar API, compute only:       {f['scalar']:8.3f} s  ({f['how']})")
+        if not math.isnan(f["io"]):
+            print(f"  (3) scalar API with csv read/write: {f['io']:8.3f} s  -> (3)/(1) {f['io'] / f['batch']:.1f}x")
+        print(f"  ratio (2)/(1): {f['scalar'] / f['batch']:.1f}x (goal >= 50x)")
+        if not math.isnan(f["stab"]):
+            print(f"  (4) scalar API with check_lining for lined reaches: {f['stab']:8.3f} s (sampled, scaled) "
+                  f"-> (4)/(1) {f['stab'] / f['batch']:.1f}x")
+    print("absolute times are indicative: they depend on the machine and its load")
+
+
+if __name__ == "__main__":
+    main()

@@ -1,0 +1,717 @@
+"""Many channel reaches at once: the vectorised uniform-flow check of an inventory.
+
+A road agency's ditch inventory holds thousands of reaches, each a section,
+a slope, a design flow and a roughness (Manning's n or a named lining). This
+module evaluates them all with the array form of the core: every open reach
+(trapezoid, V-ditch, rectangle) is one ``Trapezoid`` with array dimensions,
+every pipe one ``Circle``; :func:`hydraulics.analyse` solves each group in a
+single vectorised call. The quantities and their sources are those of
+:mod:`hydraulics.analysis` (Manning's equation, Chow 1959; bed shear
+tau_d = gamma y S, FHWA HEC-15, Kilgore and Cotton, 3rd ed., 2005, Eq. 3.1).
+
+Nothing here raises for one bad reach. Each reach gets a ``verdict`` and a
+``reason`` in words:
+
+* ``invalid``: an input is missing, not applicable to the shape, or out of
+  range; nothing is computed for it;
+* ``no-solution``: the input is valid but the section cannot carry the flow
+  (a pipe that would surcharge); nothing is computed for it;
+* ``hydraulics-only``: no lining was named, so the depths, velocity, Froude
+  number and bed shear are computed but not compared with a permissible shear;
+* ``not-checked``: a lining was named but cannot be checked (an entry whose
+  values the user has to fill in from a data sheet);
+* ``stable`` / ``unstable``: the lining's permissible shear holds / does not
+  hold the design shear with the required safety factor at every place
+  checked (bed and side slopes; FHWA HEC-15 permissible-shear method, see
+  :func:`assess_stability`);
+* ``non-erodible``: a rigid lining, not checked for shear (common practice).
+
+Warnings (near-critical flow, flow that is not fully turbulent, a pipe above
+its full-flow capacity) are added to the reason; they do not change the
+verdict. Arrays are SI throughout; ``display`` only sets the units that the
+reasons quote values in.
+"""
+
+from __future__ import annotations
+
+import difflib
+import math
+import warnings
+from collections import Counter
+from dataclasses import dataclass, field
+from itertools import repeat
+
+import numpy as np
+
+from . import units as hu
+from . import validate
+from .analysis import MIN_TURBULENT_REYNOLDS, NEAR_CRITICAL_BAND, analyse
+from .errors import HydraulicsError, InputError
+from .linings import hec15, load_catalogue
+from .linings.hec15 import ValidityWarning
+from .sections import Circle, Trapezoid
+from .solvers import flow_at_depth, max_flow
+from .validate import MAX_SLOPE
+
+#: Shapes an inventory row may name (a parabola needs two dimensions an inventory does not carry).
+SHAPES = ("trapezoid", "triangle", "rectangle", "circle")
+#: Every verdict a reach can get, in the order a summary lists them.
+VERDICTS = ("stable", "unstable", "non-erodible", "hydraulics-only", "not-checked", "no-solution", "invalid")
+#: Fields of a reach, each with the physical quantity its values are in (see hydraulics.units).
+NUMERIC_FIELDS = {
+    "bottom_width": "length", "left_slope": "side_slope", "right_slope": "side_slope", "diameter": "length",
+    "slope": "slope", "flow": "flow", "d50": "length", "n": "manning_n",
+}
+#: Result arrays (SI) with their quantity.
+RESULT_FIELDS = {
+    "normal_depth": "length", "critical_depth": "length", "velocity": "velocity", "froude": "ratio",
+    "bed_shear": "shear", "permissible_shear": "shear", "safety_factor": "ratio",
+}
+#: Warnings a reach can carry (in its reason and in BatchResult.flags), with a short label.
+WARNINGS = {
+    "near_critical": "near-critical flow",
+    "not_turbulent": "flow not fully turbulent",
+    "above_full_flow": "pipe above its full-flow capacity",
+}
+#: Reaches solved per vectorised call; bounds memory and paces the progress callback.
+CHUNK = 100_000
+
+# Which dimensions each shape needs; the others must be blank (or 0, which many inventories write for "none").
+_DIMENSIONS = {
+    "trapezoid": ("bottom_width", "left_slope", "right_slope"),
+    "triangle": ("left_slope", "right_slope"),
+    "rectangle": ("bottom_width",),
+    "circle": ("diameter",),
+}
+_ALL_DIMENSIONS = ("bottom_width", "left_slope", "right_slope", "diameter")
+_SHAPE_CODE = {name: code for code, name in enumerate(SHAPES)}
+_CIRCLE = _SHAPE_CODE["circle"]
+
+
+@dataclass
+class Reaches:
+    """An inventory as arrays, SI. ``nan`` marks a blank number, ``""`` a blank text.
+
+    ``shape`` and ``lining`` are object arrays of str (shape in lower case);
+    the numeric fields are float arrays of one length. ``unreadable`` maps a
+    field to a boolean mask of entries that were present but could not be read
+    as numbers (a reader fills it, with its own reasons in ``notes``), so that
+    they are not reported a second time as missing.
+    """
+
+    shape: np.ndarray
+    bottom_width: np.ndarray
+    left_slope: np.ndarray
+    right_slope: np.ndarray
+    diameter: np.ndarray
+    slope: np.ndarray
+    flow: np.ndarray
+    lining: np.ndarray
+    d50: np.ndarray
+    n: np.ndarray
+    notes: np.ndarray = None          # object array of str: problems found while reading ("" = none)
+    unreadable: dict = field(default_factory=dict)
+
+    def __post_init__(self):
+        size = len(self.shape)
+        for name in ("bottom_width", "left_slope", "right_slope", "diameter", "slope", "flow", "d50", "n"):
+            arr = np.asarray(getattr(self, name), dtype=float)
+            if arr.shape != (size,):
+                raise InputError(name, f"must be a 1-D array of {size} values (one per reach), got shape {arr.shape}")
+            setattr(self, name, arr)
+        self.shape = np.asarray(self.shape, dtype=object)
+        self.lining = np.asarray(self.lining, dtype=object)
+        if self.lining.shape != (size,):
+            raise InputError("lining", f"must hold one entry per reach ({size}), got shape {self.lining.shape}")
+        if self.notes is None:
+            self.notes = np.full(size, "", dtype=object)
+        # Index of the shape in SHAPES (-1: unknown) and "a lining is named", worked out once.
+        self.kind = np.fromiter(map(_SHAPE_CODE.get, self.shape.tolist(), repeat(-1, size)), dtype=np.int8, count=size)
+        self.named = np.fromiter(map(bool, self.lining.tolist()), dtype=bool, count=size)
+
+    def __len__(self):
+        return len(self.shape)
+
+    def take(self, index) -> "Reaches":
+        """The reaches at ``index`` (a slice, integer array or mask)."""
+        names = ("shape", "bottom_width", "left_slope", "right_slope", "diameter", "slope", "flow", "lining",
+                 "d50", "n", "notes")
+        return Reaches(**{k: getattr(self, k)[index] for k in names},
+                       unreadable={k: v[index] for k, v in self.unreadable.items()})
+
+
+@dataclass
+class BatchResult:
+    """Results per reach, SI; ``nan`` where a value was not computed."""
+
+    normal_depth: np.ndarray
+    critical_depth: np.ndarray
+    velocity: np.ndarray
+    froude: np.ndarray
+    bed_shear: np.ndarray
+    permissible_shear: np.ndarray
+    safety_factor: np.ndarray
+    verdict: np.ndarray     # object array of str, one of VERDICTS
+    reason: np.ndarray      # object array of str
+    #: Manning's n at normal depth [s/m^(1/3)] (the lining's, where it depends on depth).
+    manning_n: np.ndarray = None
+    #: Boolean masks of the warnings in the reasons, keyed as in WARNINGS.
+    flags: dict = field(default_factory=dict)
+    #: Notes that concern groups of reaches rather than one (e.g. a relation's range for a lining).
+    messages: list = field(default_factory=list)
+
+    @classmethod
+    def empty(cls, size: int) -> "BatchResult":
+        nan = lambda: np.full(size, np.nan)  # noqa: E731
+        return cls(**{k: nan() for k in RESULT_FIELDS}, verdict=np.full(size, "", dtype=object),
+                   reason=np.full(size, "", dtype=object), manning_n=nan(),
+                   flags={k: np.zeros(size, dtype=bool) for k in WARNINGS})
+
+    def __len__(self):
+        return len(self.verdict)
+
+    def counts(self) -> dict:
+        """Number of reaches per verdict, every verdict listed (zeros included)."""
+        found = Counter(self.verdict.tolist())
+        return {v: int(found.get(v, 0)) for v in VERDICTS}
+
+    @property
+    def shear_ratio(self) -> np.ndarray:
+        """Design over permissible shear where it is highest, 1 / safety_factor (nan: not checked; inf: no hold).
+
+        Stable needs the ratio at or below 1 / the required safety factor (1 for
+        most linings, up to 1/1.5 for stone, HEC-15 Table 6.1).
+        """
+        with np.errstate(divide="ignore", invalid="ignore"):
+            return 1.0 / self.safety_factor
+
+    def _fill(self, index, other: "BatchResult"):
+        for k in (*RESULT_FIELDS, "verdict", "reason"):
+            getattr(self, k)[index] = getattr(other, k)
+        self.manning_n[index] = other.manning_n
+        for k in WARNINGS:
+            self.flags[k][index] = other.flags[k]
+        self.messages.extend(m for m in other.messages if m not in self.messages)
+
+
+# ----------------------------------------------------------------------------- screening
+
+def _fmt(value: float) -> str:
+    return f"{value:.6g}"
+
+
+def _quote(values, quantity, display) -> callable:
+    """Formatter of the bad value at row i in the display units, with the unit label."""
+    label = display.label(quantity)
+    suffix = f" {label}" if label and quantity not in ("slope", "side_slope") else ""
+
+    def text(i):
+        return _fmt(display.from_si(quantity, float(values[i]))) + suffix
+    return text
+
+
+def screen(reaches: Reaches, display: hu.UnitSystem = hu.SI) -> np.ndarray:
+    """Reasons why each reach cannot be computed ("" for a reach that can).
+
+    Checks, per reach: a known shape; the dimensions that shape needs, each
+    finite and in range, and no other dimension (blank or 0 only); a flow
+    > 0; a slope > 0 and <= 1 (a ratio, not a percentage); Manning's n in
+    (0, 1] or a lining; a D50 > 0 only with a lining (0 in a dimension or D50
+    that does not apply reads as "none"). Reasons quote values in
+    the ``display`` units. Every problem of a reach is listed, separated by
+    "; ".
+    """
+    size = len(reaches)
+    problems = {}
+
+    def add(mask, message):
+        """``message`` is a str or a function of the row index."""
+        for i in np.flatnonzero(mask):
+            problems.setdefault(int(i), []).append(message(i) if callable(message) else message)
+
+    shape = reaches.shape
+    known = reaches.kind >= 0
+    blank_shape = ~known & (shape == "")
+    add(blank_shape, "shape: is missing (trapezoid, triangle, rectangle or circle)")
+    add(~known & ~blank_shape,
+        lambda i: f"shape: must be trapezoid, triangle, rectangle or circle, got {shape[i]!r}"
+                  + (" (an inventory has no columns for a parabola's top width)" if shape[i] == "parabola" else ""))
+
+    def unreadable(name):
+        return reaches.unreadable.get(name, np.zeros(size, dtype=bool))
+
+    def missing(name):
+        return np.isnan(getattr(reaches, name)) & ~unreadable(name)
+
+    # Dimensions, per shape.
+    for kind, needed in _DIMENSIONS.items():
+        rows = reaches.kind == _SHAPE_CODE[kind]
+        if not rows.any():
+            continue
+        for name in _ALL_DIMENSIONS:
+            v = getattr(reaches, name)
+            q = _quote(v, NUMERIC_FIELDS[name], display)
+            if name in needed:
+                add(rows & missing(name), f"{name}: is missing (needed for a {kind})")
+                strict = kind in ("rectangle", "circle")  # width or diameter > 0; side slopes and trapezoid b >= 0
+                bad = (v <= 0) if strict else (v < 0)
+                add(rows & bad, lambda i, name=name, q=q, op=">" if strict else ">=":
+                    f"{name}: must be {op} 0, got {q(i)}")
+            else:
+                add(rows & (v != 0) & ~np.isnan(v),
+                    lambda i, name=name, kind=kind, q=q:
+                    f"{name}: does not apply to a {kind} (leave it blank), got {q(i)}")
+        if kind == "trapezoid":
+            flat = rows & (reaches.bottom_width == 0) & (reaches.left_slope == 0) & (reaches.right_slope == 0)
+            add(flat, "bottom_width: must be > 0 when both side slopes are 0 (the section has no width)")
+        if kind == "triangle":
+            add(rows & (reaches.left_slope + reaches.right_slope == 0),
+                "left_slope, right_slope: at least one must be > 0 for a V-ditch")
+
+    q = reaches.flow
+    add(missing("flow"), "flow: is missing")
+    add(q <= 0, lambda i, f=_quote(q, "flow", display): f"flow: must be > 0, got {f(i)}")
+
+    s = reaches.slope
+    add(missing("slope"), "slope: is missing")
+    add(s <= 0, lambda i: f"slope: must be > 0 (a falling grade as a ratio; zero or adverse slopes have no "
+                          f"normal depth), got {_fmt(s[i])}")
+    add(s > MAX_SLOPE, lambda i: f"slope: must be a ratio <= {MAX_SLOPE:g}, got {_fmt(s[i])}; if you meant "
+                                 f"{_fmt(s[i])} %, enter {_fmt(s[i] / 100)}")
+
+    n = reaches.n
+    lining = reaches.lining
+    no_lining = ~reaches.named
+    add(missing("n") & no_lining, "n, lining: give Manning's n or a lining")
+    add((n <= 0) | (n > 1), lambda i: f"n: must be > 0 and <= 1, got {_fmt(n[i])} (Manning's n is a small "
+                                      "number such as 0.013)")
+
+    d50 = reaches.d50
+    add(d50 < 0, lambda i, f=_quote(d50, "length", display): f"d50: must be > 0 (or blank), got {f(i)}")
+    add(no_lining & (d50 > 0), lambda i, f=_quote(d50, "length", display):
+        f"d50: applies to a stone lining and no lining is named, got {f(i)}")
+
+    out = np.full(size, "", dtype=object)
+    notes = reaches.notes
+    for i in sorted(set(problems) | {int(i) for i in np.flatnonzero(notes != "")}):
+        out[i] = "; ".join(([notes[i]] if notes[i] else []) + problems.get(i, []))
+    return out
+
+
+# ----------------------------------------------------------------------------- hydraulics
+
+def _flatten(values, default=0.0):
+    return np.where(np.isnan(values), default, values)
+
+
+def _open_section(reaches, idx):
+    return Trapezoid(bottom_width=_flatten(reaches.bottom_width[idx]), left_slope=_flatten(reaches.left_slope[idx]),
+                     right_slope=_flatten(reaches.right_slope[idx]))
+
+
+def _pipe_section(reaches, idx):
+    return Circle(diameter=reaches.diameter[idx])
+
+
+def _analyse_robust(make_section, reaches, idx, n, failures):
+    """hy.analyse on the reaches ``idx``; a failing group is halved until the failing reaches are found.
+
+    Returns a list of (index array, ChannelResult); ``failures`` gets {row: message}.
+    """
+    try:
+        return [(idx, analyse(make_section(reaches, idx), reaches.flow[idx], reaches.slope[idx], n))]
+    except HydraulicsError as exc:
+        if len(idx) == 1:
+            failures[int(idx[0])] = str(exc).replace(" (element 0)", "")
+            return []
+    half = len(idx) // 2
+    return (_analyse_robust(make_section, reaches, idx[:half], _part(n, slice(None, half)), failures)
+            + _analyse_robust(make_section, reaches, idx[half:], _part(n, slice(half, None)), failures))
+
+
+def _part(n, index):
+    """The n of some reaches: a per-reach array is indexed, a shared roughness model is not."""
+    return n[index] if isinstance(n, np.ndarray) else n
+
+
+def solve_hydraulics(reaches: Reaches, idx, n, out: BatchResult, display: hu.UnitSystem = hu.SI) -> np.ndarray:
+    """Fill the hydraulic results of the reaches ``idx`` (screened valid) with Manning's n ``n``.
+
+    ``n`` is an array (one n per reach of ``idx``) or one roughness shared by
+    all of them (a float or a depth-dependent model such as a lining's).
+    Open reaches are solved as one trapezoid array, pipes as one circle array.
+    A pipe asked to carry more than its largest part-full flow gets the
+    verdict ``no-solution``. Returns the mask (over ``idx``) of reaches solved;
+    their reasons get the warnings, their verdicts are left to the caller.
+    """
+    idx = np.asarray(idx, dtype=np.intp)
+    if not hasattr(n, "manning_n"):
+        n = np.broadcast_to(np.asarray(n, dtype=float), idx.shape)
+    if not len(idx):
+        return np.zeros(0, dtype=bool)
+    pipe = reaches.kind[idx] == _CIRCLE
+    failures = {}
+    parts = []
+    open_pos = np.flatnonzero(~pipe)
+    if len(open_pos):
+        parts += _analyse_robust(_open_section, reaches, idx[open_pos], _part(n, open_pos), failures)
+    pipe_pos = np.flatnonzero(pipe)
+    if len(pipe_pos):
+        rows = idx[pipe_pos]
+        section = _pipe_section(reaches, rows)
+        q_max = max_flow(section, reaches.slope[rows], _part(n, pipe_pos))
+        over = reaches.flow[rows] > q_max
+        unit = display.label("flow")
+        for row, q, q_top in zip(rows[over].tolist(), display.from_si("flow", reaches.flow[rows][over]).tolist(),
+                                 display.from_si("flow", q_max[over]).tolist()):
+            failures[row] = (f"flow {_fmt(q)} {unit} exceeds this pipe's largest part-full flow {_fmt(q_top)} {unit} "
+                             "on this slope (Manning): it would surcharge; use a larger pipe")
+        keep = ~over
+        if keep.any():
+            parts += _analyse_robust(_pipe_section, reaches, rows[keep], _part(_part(n, pipe_pos), keep), failures)
+
+    done = np.zeros(len(out), dtype=bool)
+    for rows, res in parts:
+        out.normal_depth[rows] = res.normal_depth
+        out.critical_depth[rows] = res.critical_depth
+        out.velocity[rows] = res.velocity
+        out.froude[rows] = res.froude
+        out.bed_shear[rows] = res.bed_shear
+        out.manning_n[rows] = res.manning_n
+        _warn(reaches, rows, res, out)
+        done[rows] = True
+    for row, message in failures.items():
+        out.verdict[row] = "no-solution"
+        out.reason[row] = message
+    return done[idx]
+
+
+def _warn(reaches, rows, res, out):
+    """Per-reach warnings into ``out.reason`` and ``out.flags`` (limits from hydraulics.analysis)."""
+    lo, hi = NEAR_CRITICAL_BAND
+    fr = np.asarray(res.froude)
+    near = (fr >= lo) & (fr <= hi)
+    out.flags["near_critical"][rows[near]] = True
+    _note(out, rows[near], [f"near-critical flow, Froude {f:.2f} (band {lo:g} to {hi:g}): wavy, unstable surface; "
+                            "allow extra freeboard or change the slope or section" for f in fr[near].tolist()])
+    re = np.asarray(res.reynolds)
+    slow = re < MIN_TURBULENT_REYNOLDS
+    out.flags["not_turbulent"][rows[slow]] = True
+    _note(out, rows[slow], [f"Reynolds number {r:.0f} below {MIN_TURBULENT_REYNOLDS:g}: the flow is not fully "
+                            "turbulent and Manning's equation is outside its range" for r in re[slow].tolist()])
+    pipe = reaches.kind[rows] == _CIRCLE
+    if pipe.any():
+        prow = rows[pipe]
+        d = reaches.diameter[prow]
+        q_full = flow_at_depth(Circle(diameter=d), d, reaches.slope[prow], np.asarray(res.manning_n)[pipe])
+        full = reaches.flow[prow] > q_full
+        out.flags["above_full_flow"][prow[full]] = True
+        _note(out, prow[full], "flow above the pipe's full-flow capacity: it runs just below the crown, where a "
+                               "small disturbance makes it surcharge; use a larger pipe")
+
+
+def _note(out, rows, texts):
+    """Append ``texts`` (one str, or one per row) to the reasons of ``rows``."""
+    rows = np.asarray(rows, dtype=np.intp)
+    if not len(rows):
+        return
+    new = np.empty(len(rows), dtype=object)
+    new[:] = texts
+    current = out.reason[rows]
+    noted = current != ""
+    new[noted] = current[noted] + "; " + new[noted]
+    out.reason[rows] = new
+
+
+# ----------------------------------------------------------------------------- linings
+
+_CATALOGUE = None
+
+
+def default_catalogue():
+    """The shipped lining catalogue, read once."""
+    global _CATALOGUE
+    if _CATALOGUE is None:
+        _CATALOGUE = load_catalogue()
+    return _CATALOGUE
+
+
+def check_linings(reaches: Reaches, idx, out: BatchResult, display: hu.UnitSystem = hu.SI, catalogue=None) -> None:
+    """The lining stage for the reaches ``idx`` (screened valid, each naming a lining).
+
+    Per lining named: an unknown key, or a D50 given for a lining that is
+    not stone, makes the reach ``invalid``. The hydraulics are solved with
+    the n of the row where one is given (it replaces the lining's own
+    roughness), else with the lining's roughness from the catalogue: one
+    vectorised solve per lining and stone size (a stone lining's n depends
+    on depth, HEC-15 Section 6.1). Then :func:`assess_stability` gives the
+    verdict, vectorised over the reaches of the group.
+    """
+    catalogue = default_catalogue() if catalogue is None else catalogue
+    idx = np.asarray(idx, dtype=np.intp)
+    keys = reaches.lining[idx]
+    for key in sorted(set(keys.tolist())):
+        rows = idx[keys == key]
+        if key not in catalogue:
+            close = difflib.get_close_matches(key.lower(), list(catalogue.keys()), n=3)
+            hint = f"; did you mean {' or '.join(repr(c) for c in close)}?" if close else ""
+            _set(out, rows, "invalid", f"lining: {key!r} is not in the lining catalogue{hint}")
+            continue
+        lining = catalogue.get(key)
+        d50 = reaches.d50[rows]
+        sized = d50 > 0
+        if lining.category != "stone" and sized.any():
+            for row, d in zip(rows[sized].tolist(), d50[sized].tolist()):
+                _set(out, [row], "invalid", f"d50: applies to stone linings only; {key!r} is {lining.category}, "
+                                            f"got {_fmt(display.from_si('length', d))} {display.label('length')}")
+            rows, d50, sized = rows[~sized], d50[~sized], sized[~sized]
+        own_n = ~np.isnan(reaches.n[rows])
+        given = rows[own_n]
+        solved = solve_hydraulics(reaches, given, reaches.n[given], out, display)
+        assess_stability(lining, reaches, given[solved], out, display, n_given=True)
+        rest, rest_d50 = rows[~own_n], d50[~own_n]
+        groups = [(None, rest[~(rest_d50 > 0)])] + [(float(d), rest[rest_d50 == d])
+                                                      for d in np.unique(rest_d50[rest_d50 > 0])]
+        for d, group in groups:
+            if not len(group):
+                continue
+            try:
+                rough = lining.roughness(d)
+            except InputError as exc:  # e.g. an entry whose data the user has to fill in
+                _set(out, group, "not-checked", f"{exc}; nothing computed")
+                continue
+            solved = solve_hydraulics(reaches, group, rough, out, display)
+            _roughness_ranges(lining, rough, reaches, group[solved], out)
+            assess_stability(lining, reaches, group[solved], out, display, n_given=False)
+
+
+def _roughness_ranges(lining, rough, reaches, rows, out):
+    """The roughness model's range warnings for the solved reaches ``rows``, once per lining, into out.messages."""
+    if not hasattr(rough, "check") or not len(rows):
+        return
+    pipe = reaches.kind[rows] == _CIRCLE
+    for make, part in ((_open_section, rows[~pipe]), (_pipe_section, rows[pipe])):
+        if len(part):
+            for text in rough.check(make(reaches, part), out.normal_depth[part], reaches.slope[part]):
+                note = f"lining {lining.key!r}: {text}"
+                if note not in out.messages:
+                    out.messages.append(note)
+
+
+def assess_stability(lining, reaches: Reaches, rows, out: BatchResult, display: hu.UnitSystem = hu.SI, *,
+                     n_given: bool) -> None:
+    """HEC-15 permissible-shear check of ``lining`` on the solved reaches ``rows``, vectorised.
+
+    The checks are those of :func:`hydraulics.stability.check_lining` for a
+    straight reach (an inventory has no bend radius), after HEC-15 (Kilgore
+    and Cotton, 3rd ed., 2005) Chapter 3:
+
+    * design shear on the bed tau_d = gamma d S (Eq. 3.1, the ``bed_shear``
+      column) and on each straight side slope K1 tau_d (Section 3.2); a pipe
+      has no side check;
+    * permissible shear tau_p: stone by Eq. 6.7 with F* and the required
+      safety factor from Table 6.1 at the particle Reynolds number (Eq. 6.9),
+      on a side slope K2 tau_p (Section 6.3.2), and on beds steeper than
+      ``hec15.STEEP_SLOPE`` the side stone by the safety factor of Appendix D;
+      stone cannot rest on a side as steep as its angle of repose; grass from
+      its soil and cover (Chapter 4); bare soil (Chapter 4); rolled products
+      from their data-sheet value; rigid linings are non-erodible;
+    * stable where tau_p / tau >= the required safety factor at every check
+      (Eq. 3.2).
+
+    ``permissible_shear`` gets tau_p on the bed and ``safety_factor`` the
+    lowest factor over the checks. A relation's range of validity left by
+    some reaches is noted once per lining in ``out.messages``. Which of these
+    relations were read in HEC-15 and which are from memory (Table 6.1, K2,
+    Appendix D) is recorded beside each in :mod:`hydraulics.linings.hec15`;
+    tests/test_batch_stability.py checks every number against check_lining.
+    """
+    rows = np.asarray(rows, dtype=np.intp)
+    if not len(rows):
+        return
+    method = lining.permissible_data["method"]
+    how = "with the n given" if n_given else "with the lining's own n"
+    if method == "none":
+        _prefix(out, rows, "non-erodible", f"non-erodible: {lining.name} is a rigid lining, not checked for shear "
+                                           "(common practice)")
+        return
+    with warnings.catch_warnings(record=True) as caught:
+        warnings.simplefilter("always", ValidityWarning)
+        try:
+            tau_p, required, checks = _shear_checks(lining, method, reaches, rows, out)
+        except InputError as exc:  # an entry whose values the user has to fill in
+            _prefix(out, rows, "not-checked", f"{exc}; hydraulics {how}, shear not compared with a permissible value")
+            return
+    for w in caught:
+        note = f"lining {lining.key!r}: {w.message}"
+        if note not in out.messages:
+            out.messages.append(note)
+    factors = np.column_stack([c["factor"] for c in checks])
+    gov = np.argmin(factors, axis=1)
+    sf = factors[np.arange(len(rows)), gov]
+    stable = sf >= required
+    out.permissible_shear[rows] = tau_p
+    out.safety_factor[rows] = sf
+    pick = lambda key: np.choose(gov, [c[key] for c in checks])  # noqa: E731  (the governing check's values)
+    where, design, permissible = pick("where"), pick("design"), pick("permissible")
+    cannot, appendix = pick("cannot").astype(bool), pick("appendix_d").astype(bool)
+    unit = display.label("shear")
+    design, permissible = display.from_si("shear", design), display.from_si("shear", permissible)
+    dd, pd = _digits3(design), _digits3(permissible)
+    word = np.where(stable, "stable", "unstable")
+    texts = np.empty(len(rows), dtype=object)
+    plain = ~cannot & ~appendix
+    col = lambda a, m: a[m].tolist()  # noqa: E731  (Python numbers: "%.*f" needs a Python int)
+    texts[plain] = ["%s, %s: %.*f %s against %.*f %s permissible (safety factor %.2f, %.2f needed); hydraulics %s"
+                    % t for t in zip(col(word, plain), col(where, plain), col(dd, plain), col(design, plain),
+                                     repeat(unit), col(pd, plain), col(permissible, plain), repeat(unit),
+                                     col(sf, plain), col(required, plain), repeat(how))]
+    texts[appendix] = ["%s, %s: %.*f %s on side stone of a steep bed (HEC-15 Appendix D safety factor %.2f, %.2f "
+                       "needed); hydraulics %s" % t
+                       for t in zip(col(word, appendix), col(where, appendix), col(dd, appendix),
+                                    col(design, appendix), repeat(unit), col(sf, appendix), col(required, appendix),
+                                    repeat(how))]
+    texts[cannot] = [f"unstable, {w}: stone cannot rest on a side as steep as or steeper than its angle of repose; "
+                     f"hydraulics {how}" for w in where[cannot]]
+    out.verdict[rows] = np.where(stable, "stable", "unstable")
+    _prefix_each(out, rows, texts)
+
+
+def _digits3(values):
+    """Decimals that give three significant figures (none for values of 100 and more), as int array."""
+    with np.errstate(divide="ignore", invalid="ignore"):
+        mag = np.floor(np.log10(np.abs(values)))
+    return np.clip(np.where(np.isfinite(mag), 2 - mag, 0), 0, 12).astype(int)
+
+
+def _shear_checks(lining, method, reaches, rows, out):
+    """(tau_p on the bed, required safety factor, [check]) for the reaches ``rows``, all arrays over them.
+
+    Each check is a dict of arrays: where (label), design (shear), permissible,
+    factor (safety factor), cannot (stone cannot rest) and appendix_d.
+    """
+    size = len(rows)
+    y, s, tau = out.normal_depth[rows], reaches.slope[rows], out.bed_shear[rows]
+    no = np.zeros(size, dtype=bool)
+    if method == "shields":
+        d = np.where(reaches.d50[rows] > 0, reaches.d50[rows], np.nan)
+        d = np.where(np.isnan(d), float(lining.d50) if lining.d50 is not None else np.nan, d)
+        if np.isnan(d).any():
+            raise InputError("d50", f"lining {lining.key!r} needs a D50 (give one in the d50 column)")
+        gs, phi = float(lining.specific_weight), float(lining.angle_of_repose)
+        shields, sf_table = hec15.shields_and_safety_factor(hec15.particle_reynolds(y, s, d))
+        required = np.maximum(sf_table, 1.0)
+        tau_p = np.asarray(hec15.stone_permissible_shear(d, shields, gs), dtype=float)
+    else:
+        required = np.ones(size)
+        if method == "vegetation":
+            tau_p = np.asarray(hec15.vegetation_permissible_shear(
+                float(lining.soil_permissible_shear()), float(lining.cover_factor()), out.manning_n[rows],
+                float(lining.soil_grain_n())), dtype=float)
+        else:
+            value = lining.soil_permissible_shear() if method == "soil" else lining.field_value("permissible", "shear")
+            tau_p = np.full(size, float(validate.positive(f"lining {lining.key!r} permissible.shear", value)))
+    checks = [{"where": np.full(size, "bed", dtype=object), "design": tau, "permissible": tau_p,
+               "factor": tau_p / tau, "cannot": no, "appendix_d": no}]
+    sided = reaches.kind[rows] != _CIRCLE
+    z1 = np.where(sided, np.nan_to_num(reaches.left_slope[rows]), 0.0)
+    z2 = np.where(sided, np.nan_to_num(reaches.right_slope[rows]), 0.0)
+    same = z1 == z2
+    for z, label in ((z1, np.where(same, "side slopes", "left side slope")),
+                     (z2, np.where(same, "side slopes", "right side slope"))):
+        k1 = np.asarray(hec15.side_slope_factor(z), dtype=float)
+        design = k1 * tau
+        permissible = tau_p.copy()
+        cannot = np.zeros(size, dtype=bool)
+        steep = np.zeros(size, dtype=bool)
+        if method == "shields":
+            theta = np.where(z > 0, np.arctan(1.0 / np.where(z > 0, z, 1.0)), np.pi / 2)
+            cannot = sided & (theta >= math.radians(phi))
+            steep = sided & ~cannot & (s > hec15.STEEP_SLOPE)
+            mild = sided & ~cannot & ~steep
+            permissible[mild] = hec15.tractive_force_ratio(z[mild], phi) * tau_p[mild] if mild.any() else 0.0
+            permissible[cannot] = 0.0
+        factor = np.where(sided, permissible / design, np.inf)
+        for j in np.flatnonzero(steep):
+            factor[j] = hec15.steep_slope_safety_factor(float(d[j]), float(y[j]), float(s[j]), float(z[j]), phi,
+                                                        float(shields[j]), gs)
+        checks.append({"where": label, "design": design, "permissible": permissible, "factor": factor,
+                       "cannot": cannot, "appendix_d": steep})
+    return tau_p, required, checks
+
+
+def _prefix_each(out, rows, texts):
+    """Put each of ``texts`` before any warnings already in the reason of its row."""
+    rows = np.asarray(rows, dtype=np.intp)
+    new = np.empty(len(rows), dtype=object)
+    new[:] = texts
+    current = out.reason[rows]
+    noted = current != ""
+    new[noted] = new[noted] + "; " + current[noted]
+    out.reason[rows] = new
+
+
+def _set(out, rows, verdict, text):
+    rows = np.asarray(rows, dtype=np.intp)
+    out.verdict[rows] = verdict
+    out.reason[rows] = text
+
+
+def _prefix(out, rows, verdict, text):
+    """Set the verdict of ``rows`` and put ``text`` before any warnings already in their reasons."""
+    rows = np.asarray(rows, dtype=np.intp)
+    out.verdict[rows] = verdict
+    current = out.reason[rows]
+    noted = current != ""
+    new = np.full(len(rows), text, dtype=object)
+    new[noted] = (text + "; ") + current[noted]
+    out.reason[rows] = new
+
+
+# ----------------------------------------------------------------------------- driver
+
+def _evaluate_chunk(reaches: Reaches, display, catalogue) -> BatchResult:
+    out = BatchResult.empty(len(reaches))
+    problems = screen(reaches, display)
+    bad = problems != ""
+    out.verdict[bad] = "invalid"
+    out.reason[bad] = problems[bad]
+    valid = ~bad
+    named = valid & reaches.named
+    plain = np.flatnonzero(valid & ~named)
+    solved = solve_hydraulics(reaches, plain, reaches.n[plain], out, display)
+    _prefix(out, plain[solved], "hydraulics-only", "no lining named: shear not compared with a permissible value")
+    check_linings(reaches, np.flatnonzero(named), out, display, catalogue)
+    return out
+
+
+def evaluate(reaches: Reaches, display: hu.UnitSystem = hu.SI, progress=None, chunk: int = CHUNK,
+             catalogue=None) -> BatchResult:
+    """Check every reach; see the module notes for the verdicts.
+
+    Parameters
+    ----------
+    reaches : Reaches
+        The inventory, SI.
+    display : UnitSystem
+        Units in which reasons quote values (results stay SI).
+    progress : callable, optional
+        Called as ``progress(done, total)`` after each chunk of reaches.
+    chunk : int
+        Reaches per vectorised solve.
+    catalogue : hydraulics.linings.Catalogue, optional
+        Linings the reaches may name (default: the shipped catalogue).
+
+    Returns
+    -------
+    BatchResult
+        One entry per reach, in input order.
+    """
+    size = len(reaches)
+    out = BatchResult.empty(size)
+    for start in range(0, size, chunk):
+        part = slice(start, min(size, start + chunk))
+        out._fill(part, _evaluate_chunk(reaches.take(part), display, catalogue))
+        if progress is not None:
+            progress(part.stop, size)
+    return out

@@ -1,0 +1,584 @@
+"""`ditchwright batch` and the vectorised inventory check behind it.
+
+Known answers come from two places: the scalar API (every reach of a generated
+inventory recomputed one at a time with the section classes and hy.analyse),
+and the published cases of tests/data/published_cases.toml (each with its
+source there).
+"""
+
+import csv
+import io
+import math
+import subprocess
+import sys
+import tomllib
+from pathlib import Path
+
+import numpy as np
+import pytest
+
+import hydraulics as hy
+from app import batch as ab
+from app.main import main
+from hydraulics import batch as hb
+from hydraulics import units as hu
+
+HEADER = list(ab.INPUT_COLUMNS)
+CASES = tomllib.loads((Path(__file__).parent / "data" / "published_cases.toml").read_text())["case"]
+
+
+def csv_text(rows, header=HEADER):
+    buf = io.StringIO()
+    w = csv.writer(buf, lineterminator="\n")
+    w.writerow(header)
+    for r in rows:
+        w.writerow([r.get(c, "") for c in header] if isinstance(r, dict) else r)
+    return buf.getvalue()
+
+
+def check(text, units="us"):
+    """(inventory, result, parsed results rows as dicts) for inventory CSV text."""
+    inv = ab.parse_inventory(text, units)
+    res = ab.evaluate(inv)
+    out = list(csv.DictReader(io.StringIO(ab.format_results(inv, res), newline="")))
+    return inv, res, out
+
+
+def number(text):
+    return float(text) if text != "" else math.nan
+
+
+# ----------------------------------------------------------------------------- generated inventory
+
+def generated_rows(size, seed, units):
+    """Random reaches of every shape, in ``units``; pipes sometimes too small for their flow."""
+    rng = np.random.default_rng(seed)
+    rows = []
+    for i in range(size):
+        kind = ["trapezoid", "triangle", "rectangle", "circle"][i % 4]
+        r = {"id": f"G{i}", "shape": kind, "slope": f"{10 ** rng.uniform(-3.5, -1):.6g}",
+             "flow": f"{10 ** rng.uniform(-1.5, 1.5):.6g}", "n": f"{rng.uniform(0.011, 0.06):.4f}",
+             "road": f"road {i % 3}"}
+        if kind in ("trapezoid", "rectangle"):
+            r["bottom_width"] = f"{rng.uniform(0.3, 4.0):.3f}"
+        if kind in ("trapezoid", "triangle"):
+            r["left_slope"] = f"{rng.uniform(0.5, 4.0):.2f}"
+            r["right_slope"] = f"{rng.uniform(0.5, 6.0):.2f}"
+        if kind == "circle":
+            r["diameter"] = f"{rng.uniform(0.3, 2.0):.3f}"
+        rows.append(r)
+    return rows
+
+
+def scalar_reference(row, system):
+    """One reach by the scalar API in SI: ChannelResult, or None when the core refuses it (no solution)."""
+    length = lambda k: system.to_si("length", float(row[k]))  # noqa: E731
+    kind = row["shape"]
+    if kind == "trapezoid":
+        sec = hy.Trapezoid(bottom_width=length("bottom_width"), left_slope=float(row["left_slope"]),
+                           right_slope=float(row["right_slope"]))
+    elif kind == "triangle":
+        sec = hy.Triangle(left_slope=float(row["left_slope"]), right_slope=float(row["right_slope"]))
+    elif kind == "rectangle":
+        sec = hy.Rectangle(bottom_width=length("bottom_width"))
+    else:
+        sec = hy.Circle(diameter=length("diameter"))
+    try:
+        return hy.analyse(sec, system.to_si("flow", float(row["flow"])), float(row["slope"]), float(row["n"]))
+    except hy.NoSolutionError:
+        return None
+
+
+@pytest.mark.parametrize("units", ["us", "si"])
+def test_generated_inventory_matches_the_scalar_api(units):
+    system = hu.system(units)
+    rows = generated_rows(240, seed=3 if units == "us" else 4, units=units)
+    inv, res, out = check(csv_text(rows, HEADER + ["road"]), units)
+    assert len(out) == len(rows)
+    refused = 0
+    for row, got in zip(rows, out):
+        assert got["id"] == row["id"] and got["road"] == row["road"]  # order kept, extra column carried
+        ref = scalar_reference(row, system)
+        if ref is None:
+            refused += 1
+            assert got["verdict"] == "no-solution" and "surcharge" in got["reason"]
+            assert got["normal_depth"] == "" and got["bed_shear"] == ""
+            continue
+        assert got["verdict"] == "hydraulics-only"
+        for key, quantity in (("normal_depth", "length"), ("critical_depth", "length"), ("velocity", "velocity"),
+                              ("froude", "ratio"), ("bed_shear", "shear")):
+            expected = system.from_si(quantity, getattr(ref, key))
+            assert number(got[key]) == pytest.approx(expected, rel=1e-4), (row, key)  # 5 significant digits
+        assert got["permissible_shear"] == "" and got["safety_factor"] == ""
+        assert ("near-critical" in got["reason"]) == (0.8 <= ref.froude <= 1.2)
+    assert 0 < refused < len(rows) // 4  # both kinds of pipe occur
+    # The unrounded arrays agree with the scalar API to the solver tolerance.
+    for i in range(0, len(rows), 7):
+        ref = scalar_reference(rows[i], system)
+        if ref is not None:
+            assert res.normal_depth[i] == pytest.approx(ref.normal_depth, rel=1e-9)
+            assert res.critical_depth[i] == pytest.approx(ref.critical_depth, rel=1e-9)
+
+
+def test_units_are_converted_exactly_at_the_edge():
+    """The same reaches typed in ft and in m give the same results, by the exact 1 ft = 0.3048 m."""
+    rows = generated_rows(40, seed=9, units="us")
+    _, res_us, _ = check(csv_text(rows, HEADER + ["road"]), "us")
+    si_rows = []
+    for r in rows:
+        s = dict(r)
+        for k in ("bottom_width", "diameter"):
+            if k in s:
+                s[k] = repr(float(s[k]) * 0.3048)
+        s["flow"] = repr(float(s["flow"]) * 0.3048 ** 3)
+        si_rows.append(s)
+    _, res_si, _ = check(csv_text(si_rows, HEADER + ["road"]), "si")
+    np.testing.assert_allclose(res_us.normal_depth, res_si.normal_depth, rtol=1e-9)
+    np.testing.assert_allclose(res_us.bed_shear, res_si.bed_shear, rtol=1e-9)
+    assert list(res_us.verdict) == list(res_si.verdict)
+
+
+# ----------------------------------------------------------------------------- published cases
+
+def _published_rows(system_key):
+    """Published cases of the supported shapes as inventory rows, with the value each must give."""
+    rows, expect = [], []
+    for c in CASES:
+        if c["units"] != system_key or c["shape"] not in hb.SHAPES:
+            continue
+        r = {"id": c["id"], "shape": c["shape"]}
+        for k in ("bottom_width", "diameter"):
+            if k in c:
+                r[k] = repr(c[k])
+        if "side_slope" in c:
+            r["left_slope"] = r["right_slope"] = repr(c["side_slope"])
+        if c["expect"] == "critical_depth":
+            # Critical depth does not depend on slope or n; a row needs them, so any valid pair is given.
+            r.update(slope="0.001", n="0.03", flow=repr(c["flow"]))
+            expect.append(("critical_depth", c["expected"], c["rel_tol"], c))
+        elif c["expect"] == "normal_depth":
+            r.update(slope=repr(c["slope"]), n=repr(c["n"]), flow=repr(c["flow"]))
+            expect.append(("normal_depth", c["expected"], c["rel_tol"], c))
+        elif c["shape"] != "circle":
+            # A published flow at a depth, read backwards: that flow runs at that normal depth.
+            r.update(slope=repr(c["slope"]), n=repr(c["n"]), flow=repr(c["expected"]))
+            expect.append(("normal_depth", c["depth"], c["rel_tol"], c))
+        else:
+            continue
+        rows.append(r)
+    return rows, expect
+
+
+@pytest.mark.parametrize("units", ["us", "si"])
+def test_published_cases_through_the_batch(units):
+    rows, expect = _published_rows(units)
+    assert len(rows) >= 4
+    _, _, out = check(csv_text(rows), units)
+    for got, (key, value, tol, case) in zip(out, expect):
+        assert got["verdict"] == "hydraulics-only", (case["id"], got["reason"])
+        # Normal depth read back from a flow: Manning's Q ~ y^(5/3) or steeper, so the
+        # flow's relative tolerance bounds the depth's.
+        assert number(got[key]) == pytest.approx(value, rel=tol), case["source"]
+
+
+def test_published_pipe_capacity_separates_solved_from_surcharged():
+    """White, Fluid Mechanics, 4th ed., Eq. (10.21): Q_max = 2.129 (k/n) R^(8/3) S^(1/2) at y = 0.938 D
+    (the case white-eq10.21-circle-max-flow in published_cases.toml, D = 2 m, n = 0.013, S = 0.001)."""
+    case = next(c for c in CASES if c["id"] == "white-eq10.21-circle-max-flow")
+    q_max, tol = case["expected"], case["rel_tol"]
+    rows = [{"id": f"P{k}", "shape": "circle", "diameter": "2.0", "slope": "0.001", "n": "0.013",
+             "flow": repr(q_max * f)} for k, f in enumerate((0.5, 1 - 2 * tol, 1 + 2 * tol, 2.0))]
+    _, _, out = check(csv_text(rows), "si")
+    assert [o["verdict"] for o in out] == ["hydraulics-only", "hydraulics-only", "no-solution", "no-solution"]
+    assert number(out[1]["normal_depth"]) == pytest.approx(case["depth"], rel=0.05)  # near 0.938 D
+    assert "full-flow capacity" in out[1]["reason"]  # above the full-pipe flow, below the peak
+
+
+# ----------------------------------------------------------------------------- malformed rows
+
+GOOD = {"id": "ok", "shape": "trapezoid", "bottom_width": "2", "left_slope": "3", "right_slope": "3",
+        "slope": "0.004", "flow": "20", "n": "0.03"}
+
+BAD_ROWS = [
+    ({"flow": "abc"}, "flow: not a number, got 'abc'"),
+    ({"flow": ""}, "flow: is missing"),
+    ({"flow": "-3"}, "flow: must be > 0, got -3 ft^3/s"),
+    ({"slope": "0.5%"}, "write a slope as a ratio"),
+    ({"slope": "2"}, "if you meant 2 %, enter 0.02"),
+    ({"slope": "0"}, "slope: must be > 0"),
+    ({"slope": "nan"}, "slope: must be a finite number, got 'nan'"),
+    ({"flow": "inf"}, "flow: must be a finite number, got 'inf'"),
+    ({"flow": "1_000"}, "flow: not a number, got '1_000'"),
+    ({"flow": "2,5"}, "use a point as the decimal mark"),
+    ({"n": ""}, "n, lining: give Manning's n or a lining"),
+    ({"n": "1.5"}, "n: must be > 0 and <= 1"),
+    ({"shape": "oval"}, "shape: must be trapezoid, triangle, rectangle or circle, got 'oval'"),
+    ({"shape": "parabola"}, "no columns for a parabola's top width"),
+    ({"shape": ""}, "shape: is missing"),
+    ({"bottom_width": ""}, "bottom_width: is missing (needed for a trapezoid)"),
+    ({"bottom_width": "-1"}, "bottom_width: must be >= 0, got -1 ft"),
+    ({"left_slope": ""}, "left_slope: is missing"),
+    ({"diameter": "1.5"}, "diameter: does not apply to a trapezoid (leave it blank), got 1.5 ft"),
+    ({"d50": "0.5"}, "d50: applies to a stone lining and no lining is named"),
+    ({"bottom_width": "0", "left_slope": "0", "right_slope": "0"}, "bottom_width: must be > 0 when both side slopes"),
+    ({"shape": "circle", "bottom_width": "", "left_slope": "", "right_slope": "", "diameter": "0"},
+     "diameter: must be > 0, got 0 ft"),
+    ({"shape": "rectangle", "left_slope": "2", "right_slope": ""}, "left_slope: does not apply to a rectangle"),
+    ({"shape": "triangle", "bottom_width": "", "left_slope": "0", "right_slope": "0"},
+     "at least one must be > 0 for a V-ditch"),
+]
+
+
+@pytest.mark.parametrize("change, message", BAD_ROWS, ids=[m for _, m in BAD_ROWS])
+def test_a_bad_row_is_reported_and_the_rest_computed(change, message):
+    bad = {**GOOD, **change, "id": "bad"}
+    inv, res, out = check(csv_text([GOOD, bad, GOOD]))
+    assert [o["id"] for o in out] == ["ok", "bad", "ok"]
+    assert out[1]["verdict"] == "invalid"
+    assert message in out[1]["reason"], out[1]["reason"]
+    assert all(out[1][k] == "" for k in ab.RESULT_COLUMNS[:7])
+    for k in ("shape", "flow", "slope", "n", "bottom_width"):  # the input is written back as it was typed
+        assert out[1][k] == bad.get(k, "")
+    assert out[0]["verdict"] == out[2]["verdict"] == "hydraulics-only"
+    assert out[0]["normal_depth"] == out[2]["normal_depth"] != ""
+    assert ab.problem_rows(inv, res) == [(3, "bad", "invalid", out[1]["reason"])]
+
+
+def test_every_problem_of_a_row_is_listed():
+    bad = {**GOOD, "flow": "-1", "slope": "7", "diameter": "3"}
+    _, _, out = check(csv_text([bad]))
+    reason = out[0]["reason"]
+    assert "flow: must be > 0" in reason and "slope: must be a ratio" in reason and "diameter: does not apply" in reason
+
+
+def test_zero_in_a_column_that_does_not_apply_is_accepted_as_none():
+    row = {**GOOD, "diameter": "0", "d50": "0"}
+    _, _, out = check(csv_text([row, GOOD]))
+    assert out[0]["verdict"] == "hydraulics-only" and out[0]["normal_depth"] == out[1]["normal_depth"]
+
+
+def test_shapes_and_linings_are_read_without_surrounding_blanks_or_case():
+    row = {**GOOD, "shape": " Trapezoid "}
+    _, _, out = check(csv_text([row, GOOD]))
+    assert out[0]["normal_depth"] == out[1]["normal_depth"]
+    assert out[0]["shape"] == " Trapezoid "  # carried through as written
+
+
+def test_ragged_rows_quoted_fields_blank_lines_and_line_numbers():
+    text = (",".join(HEADER) + ",note\n"
+            "A,trapezoid,2,3,3,,0.004,20,,,0.03,plain\n"
+            "\n"
+            'B,trapezoid,2,3,3,,0.004,20,,,0.03,"has, a comma and ""quotes"""\n'
+            'C,trapezoid,2,3,3,,0.004,20,,,0.03,"two\nlines"\n'
+            "D,trapezoid,2,3,3,,0.004,20,,,0.03\n"
+            "E,trapezoid,2,3,3,,0.004,20,,,0.03,x,y\n"
+            "F,circle,,,,1.5,0.004,1,,,0.013,last\n")
+    inv, res, out = check(text)
+    assert [o["id"] for o in out] == ["A", "B", "C", "D", "E", "F"]
+    assert list(inv.lines) == [2, 4, 5, 7, 8, 9]
+    assert inv.blank_lines == [3]
+    assert out[1]["note"] == 'has, a comma and "quotes"' and out[2]["note"] == "two\nlines"
+    assert [o["verdict"] for o in out] == ["hydraulics-only"] * 3 + ["invalid", "invalid", "hydraulics-only"]
+    assert "the row has 11 fields and the header 12" in out[3]["reason"]
+    assert "'y'" in out[4]["reason"]  # the extra field is kept, in the reason
+    assert out[0]["normal_depth"] == out[1]["normal_depth"] == out[2]["normal_depth"]
+
+
+def test_fast_and_csv_module_paths_agree():
+    rows = generated_rows(30, seed=5, units="us")
+    plain = csv_text(rows, HEADER + ["road"])
+    quoted = plain.replace("road 1", '"road 1"')
+    assert '"' in quoted
+    a = ab.format_results(*_ir(plain))
+    b = ab.format_results(*_ir(quoted))
+    assert a == b
+
+
+def _ir(text):
+    inv = ab.parse_inventory(text, "us")
+    return inv, ab.evaluate(inv)
+
+
+def test_crlf_and_utf8_bom(tmp_path):
+    text = csv_text([GOOD]).replace("\n", "\r\n")
+    p = tmp_path / "inv.csv"
+    p.write_bytes(b"\xef\xbb\xbf" + text.encode())
+    inv = ab.read_inventory(p, "us")
+    assert inv.header[0] == "id" and len(inv) == 1
+
+
+def test_not_utf8_is_refused(tmp_path):
+    p = tmp_path / "inv.csv"
+    p.write_bytes(csv_text([{**GOOD, "id": "caf\u00e9"}]).encode("latin-1"))
+    with pytest.raises(ab.InventoryError, match="not UTF-8"):
+        ab.read_inventory(p, "us")
+
+
+# ----------------------------------------------------------------------------- whole-file problems
+
+@pytest.mark.parametrize("content", ["", "\n\n", "   \n"])
+def test_empty_file(tmp_path, capsys, content):
+    src, dst = tmp_path / "inv.csv", tmp_path / "out.csv"
+    src.write_text(content)
+    with pytest.raises(ab.InventoryError, match="empty"):
+        ab.read_inventory(src, "us")
+    assert main(["batch", str(src), "-o", str(dst)]) == 2
+    assert "empty" in capsys.readouterr().err
+    assert not dst.exists()
+
+
+def test_header_only_gives_an_empty_result(tmp_path, capsys):
+    src, dst = tmp_path / "inv.csv", tmp_path / "out.csv"
+    src.write_text(",".join(HEADER) + "\n")
+    assert main(["batch", str(src), "-o", str(dst)]) == 0
+    assert dst.read_text().splitlines() == [",".join(HEADER + list(ab.RESULT_COLUMNS))]
+    assert "0 reaches" in capsys.readouterr().out
+
+
+def test_wrong_unit_system(tmp_path, capsys):
+    src, dst = tmp_path / "inv.csv", tmp_path / "out.csv"
+    src.write_text(csv_text([GOOD]))
+    with pytest.raises(hy.InputError, match="must be 'us' or 'si', got 'metric'"):
+        ab.parse_inventory(src.read_text(), "metric")
+    with pytest.raises(SystemExit) as exc:
+        main(["batch", str(src), "-o", str(dst), "--units", "metric"])
+    assert exc.value.code == 2
+    assert "invalid choice: 'metric'" in capsys.readouterr().err
+    assert not dst.exists()
+
+
+@pytest.mark.parametrize("drop", ["n", "flow", "diameter", "id"])
+def test_missing_column(tmp_path, capsys, drop):
+    header = [c for c in HEADER if c != drop]
+    src, dst = tmp_path / "inv.csv", tmp_path / "out.csv"
+    src.write_text(csv_text([GOOD], header))
+    with pytest.raises(ab.InventoryError, match=f"missing column {drop};"):
+        ab.read_inventory(src, "us")
+    assert main(["batch", str(src), "-o", str(dst)]) == 2
+    assert f"missing column {drop}" in capsys.readouterr().err
+    assert not dst.exists()
+
+
+def test_header_hints():
+    with pytest.raises(ab.InventoryError, match="'Flow' for 'flow': names are lower case"):
+        ab.parse_inventory(csv_text([], [c.capitalize() if c == "flow" else c for c in HEADER]))
+    with pytest.raises(ab.InventoryError, match="other than commas"):
+        ab.parse_inventory(";".join(HEADER) + "\n")
+    with pytest.raises(ab.InventoryError, match="'n' appears twice"):
+        ab.parse_inventory(csv_text([], HEADER + ["n"]))
+    with pytest.raises(ab.InventoryError, match="already has the result columns verdict, reason"):
+        ab.parse_inventory(csv_text([], HEADER + ["verdict", "reason"]))
+
+
+# ----------------------------------------------------------------------------- the command
+
+def test_command_end_to_end(tmp_path, capsys):
+    rows = generated_rows(60, seed=8, units="us") + [{**GOOD, "id": "broken", "flow": "x"}]
+    src, dst, png, pdf = (tmp_path / n for n in ("inv.csv", "out.csv", "sum.png", "sum.pdf"))
+    src.write_text(csv_text(rows, HEADER + ["road"]))
+    assert main(["batch", str(src), "-o", str(dst), "--plot", str(png)]) == 1  # one invalid row
+    cap = capsys.readouterr()
+    assert f"{src}:62 (id 'broken'): invalid: flow: not a number, got 'x'" in cap.err
+    assert "61 reaches" in cap.out and "invalid" in cap.out and "no-solution" in cap.out
+    got = list(csv.DictReader(dst.open(newline="")))
+    assert len(got) == 61 and list(got[0]) == HEADER + ["road"] + list(ab.RESULT_COLUMNS)
+    assert png.read_bytes()[:8] == b"\x89PNG\r\n\x1a\n"
+    assert main(["batch", str(src), "-o", str(dst), "--plot", str(pdf), "--units", "us"]) == 1
+    assert pdf.read_bytes()[:5] == b"%PDF-"
+
+
+def test_command_refusals(tmp_path, capsys):
+    src = tmp_path / "inv.csv"
+    src.write_text(csv_text([GOOD]))
+    assert main(["batch", str(src), "-o", str(src)]) == 2
+    assert "is the inventory itself" in capsys.readouterr().err
+    assert main(["batch", str(src), "-o", str(tmp_path / "o.csv"), "--plot", str(tmp_path / "p.jpg")]) == 2
+    assert "must end in .png, .pdf, .svg" in capsys.readouterr().err
+    assert main(["batch", str(tmp_path / "none.csv"), "-o", str(tmp_path / "o.csv")]) == 2
+    assert "cannot read" in capsys.readouterr().err
+    assert main(["batch", str(src), "-o", str(tmp_path / "o.csv")]) == 0
+
+
+def test_progress_bar(tmp_path, capsys):
+    src, dst = tmp_path / "inv.csv", tmp_path / "out.csv"
+    src.write_text(csv_text([GOOD] * 5))
+    assert main(["batch", str(src), "-o", str(dst), "--progress"]) == 0
+    assert "100% 5/5" in capsys.readouterr().err
+    assert main(["batch", str(src), "-o", str(dst), "--no-progress"]) == 0
+    assert "%" not in capsys.readouterr().err
+
+
+def test_command_in_a_subprocess(tmp_path):
+    src, dst = tmp_path / "inv.csv", tmp_path / "out.csv"
+    src.write_text(csv_text([GOOD]))
+    out = subprocess.run([sys.executable, "-m", "app.main", "batch", str(src), "-o", str(dst), "--units", "si"],
+                         capture_output=True, text=True, cwd=Path(__file__).parents[1])
+    assert out.returncode == 0, out.stderr
+    assert "SI (metric) units" in out.stdout
+
+
+# ----------------------------------------------------------------------------- the core, directly
+
+def _reaches(**columns):
+    size = len(columns["shape"])
+    base = {k: np.full(size, np.nan) for k in hb.NUMERIC_FIELDS}
+    base.update({k: np.asarray(v, dtype=float) for k, v in columns.items() if k in hb.NUMERIC_FIELDS})
+    return hb.Reaches(shape=np.array(columns["shape"], dtype=object),
+                      lining=np.array(columns.get("lining", [""] * size), dtype=object), **base)
+
+
+def test_chunks_and_progress_do_not_change_results():
+    rng = np.random.default_rng(2)
+    size = 53
+    r = _reaches(shape=["trapezoid"] * size, bottom_width=rng.uniform(0.2, 3, size), left_slope=np.full(size, 2.0),
+                 right_slope=np.full(size, 3.0), slope=rng.uniform(1e-4, 0.05, size), flow=rng.uniform(0.01, 10, size),
+                 n=np.full(size, 0.03))
+    calls = []
+    small = hb.evaluate(r, chunk=7, progress=lambda done, total: calls.append((done, total)))
+    whole = hb.evaluate(r)
+    np.testing.assert_array_equal(small.normal_depth, whole.normal_depth)
+    assert calls[-1] == (53, 53) and len(calls) == 8
+
+
+def test_a_failing_element_is_isolated(monkeypatch):
+    """A core failure on one reach (whatever its cause) marks that reach only."""
+    real = hb.analyse
+
+    def fussy(section, flow, slope, n):
+        if np.any(np.asarray(flow) == 13.0):
+            raise hy.ConvergenceError("no convergence (element 0)")
+        return real(section, flow, slope, n)
+
+    monkeypatch.setattr(hb, "analyse", fussy)
+    size = 20
+    flows = np.full(size, 2.0)
+    flows[11] = 13.0
+    r = _reaches(shape=["rectangle"] * size, bottom_width=np.full(size, 1.5), slope=np.full(size, 0.002),
+                 flow=flows, n=np.full(size, 0.015))
+    res = hb.evaluate(r)
+    assert res.verdict[11] == "no-solution" and res.reason[11] == "no convergence"
+    assert (res.verdict[np.arange(size) != 11] == "hydraulics-only").all()
+    assert np.isfinite(res.normal_depth[np.arange(size) != 11]).all()
+
+
+def test_reasons_quote_the_display_units():
+    r = _reaches(shape=["trapezoid"], bottom_width=[-0.3048], left_slope=[2], right_slope=[2], slope=[0.01],
+                 flow=[1.0], n=[0.03])
+    assert "got -1 ft" in hb.screen(r, hu.US)[0]
+    assert "got -0.3048 m" in hb.screen(r, hu.SI)[0]
+
+
+def test_lined_rows_get_the_lining_check():
+    """The lining columns are filled by the HEC-15 permissible-shear check (test_batch_stability.py compares
+    them with hydraulics.stability.check_lining reach by reach)."""
+    rows = [{**GOOD, "lining": "riprap"}, {**GOOD, "lining": "riprap", "n": ""}, {**GOOD, "lining": "concrete"}]
+    _, res, out = check(csv_text(rows))
+    from hydraulics.linings import load_catalogue
+
+    riprap = load_catalogue().get("riprap")
+    # HEC-15 Eq. 6.7, tau_p = F* (gamma_s - gamma) D50, with F* = 0.047 at Re* <= 4e4 (Table 6.1): here
+    # Re* = sqrt(g d S) D50 / nu is about 2e4 (d = 1.3 ft, S = 0.004, D50 = 0.15 m).
+    tau_p = 0.047 * (riprap.specific_weight - 9810.0) * riprap.d50 / hu.PSF
+    for o in out[:2]:
+        assert number(o["permissible_shear"]) == pytest.approx(tau_p, rel=1e-4)
+        assert o["verdict"] == "stable" and number(o["safety_factor"]) > 1
+    assert "hydraulics with the n given" in out[0]["reason"]
+    assert "hydraulics with the lining's own n" in out[1]["reason"]
+    assert out[2]["verdict"] == "non-erodible" and out[2]["permissible_shear"] == ""
+    assert res.shear_ratio[0] == pytest.approx(1 / res.safety_factor[0])
+
+
+def _scalar_with_lining(row, lining, d50=None):
+    sec = hy.Trapezoid(bottom_width=float(row["bottom_width"]), left_slope=float(row["left_slope"]),
+                       right_slope=float(row["right_slope"]))
+    return hy.analyse(sec, float(row["flow"]), float(row["slope"]), lining.roughness(d50))
+
+
+def test_lining_roughness_from_the_catalogue_matches_the_scalar_api():
+    """A lining without an n is solved with its catalogue roughness, stone by its D50 (HEC-15 Section 6.1)."""
+    from hydraulics.linings import load_catalogue
+
+    cat = load_catalogue()
+    rng = np.random.default_rng(12)
+    rows = []
+    for i in range(36):
+        key = ["riprap", "gravel", "grass_good_sod", "concrete", "soil_fine_noncohesive", "riprap"][i % 6]
+        d50 = {0: "0.3", 5: ""}.get(i % 6, "") if key == "riprap" else ""
+        rows.append({"id": f"L{i}", "shape": "trapezoid", "bottom_width": f"{rng.uniform(0.5, 3):.3f}",
+                     "left_slope": "3", "right_slope": "2.5", "slope": f"{rng.uniform(0.001, 0.04):.5f}",
+                     "flow": f"{rng.uniform(0.3, 8):.3f}", "lining": key, "d50": d50})
+    _, res, out = check(csv_text(rows), "si")
+    for i, (row, got) in enumerate(zip(rows, out)):
+        assert got["verdict"] in ("stable", "unstable", "non-erodible"), got["reason"]
+        ref = _scalar_with_lining(row, cat.get(row["lining"]), float(row["d50"]) if row["d50"] else None)
+        assert res.normal_depth[i] == pytest.approx(ref.normal_depth, rel=1e-8), row
+        assert res.bed_shear[i] == pytest.approx(ref.bed_shear, rel=1e-8)
+
+
+def test_lining_errors():
+    rows = [{**GOOD, "lining": "rip-rap", "n": ""}, {**GOOD, "lining": "concrete", "d50": "0.5"},
+            {**GOOD, "lining": "blanket_user", "n": ""}, {**GOOD, "lining": "blanket_user"}]
+    _, _, out = check(csv_text(rows))
+    assert out[0]["verdict"] == "invalid" and "'rip-rap' is not in the lining catalogue; did you mean 'riprap'" \
+        in out[0]["reason"]
+    assert out[1]["verdict"] == "invalid" and "d50: applies to stone linings only; 'concrete' is rigid, got 0.5 ft" \
+        in out[1]["reason"]
+    # An entry whose values come from a data sheet: without them there is no n, with an n the hydraulics run.
+    assert out[2]["verdict"] == "not-checked" and out[2]["normal_depth"] == "" and "blanket_user" in out[2]["reason"]
+    assert out[3]["verdict"] == "not-checked" and out[3]["normal_depth"] != ""
+
+
+def test_window_helpers(tmp_path):
+    src = tmp_path / "inv.csv"
+    src.write_text(csv_text([GOOD, {**GOOD, "id": "bad", "flow": "-1"}]))
+    run = ab.run_inventory(src, "us")
+    columns, rows = run.table()
+    assert columns == HEADER + list(ab.RESULT_COLUMNS)
+    assert [r[columns.index("verdict")] for r in rows] == ["hydraulics-only", "invalid"]
+    assert run.problems()[0][:3] == (3, "bad", "invalid")
+    assert "2 reaches" in run.summary()
+
+
+def test_core_batch_imports_no_gui_plot_or_pdf_library():
+    code = ("import sys, hydraulics.batch; "
+            "print(','.join(m for m in ('PySide6', 'matplotlib', 'reportlab') if m in sys.modules))")
+    out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, check=True,
+                         cwd=Path(__file__).parents[1])
+    assert out.stdout.strip() == ""
+
+
+def test_window_filters_and_import_into_a_project(tmp_path):
+    from app.project import Project, dumps, loads
+
+    rows = generated_rows(24, seed=21, units="us") + [
+        {**GOOD, "id": "bad", "flow": "-1"}, {**GOOD, "id": "lined", "lining": "riprap", "d50": "0.5", "n": ""}]
+    src = tmp_path / "inv.csv"
+    src.write_text(csv_text(rows, HEADER + ["road"]))
+    run = ab.run_inventory(src, "us")
+    assert list(run.select(verdicts=["invalid"])) == [24]
+    near = run.select(warnings=["near_critical"])
+    assert all("near-critical" in run.result.reason[i] for i in near)
+    assert list(run.select(text="LINED")) == [25]
+    channels, skipped = run.to_channels()
+    assert skipped == [(26, "bad", run.result.reason[24])]
+    assert len(channels) == 25
+    project = loads(dumps(Project(name="Inventory import", channels=channels)))  # valid against the schema
+    back = project.channels
+    assert back[0].notes == "road: road 0" and back[0].name == "G0"
+    assert back[-1].lining.key == "riprap" and back[-1].lining.d50 == pytest.approx(0.5 * 0.3048)
+    for ch, i in zip(back[:24], range(24)):
+        if run.result.verdict[i] == "hydraulics-only":
+            y = hy.normal_depth(ch.build_section(), ch.design_flow(), ch.slope, ch.manning_n)
+            assert y == pytest.approx(run.result.normal_depth[i], rel=1e-9)
+
+
+def test_manning_n_used_is_kept():
+    _, res, _ = check(csv_text([GOOD, {**GOOD, "lining": "riprap", "n": ""}]))
+    assert res.manning_n[0] == 0.03
+    from hydraulics.linings import load_catalogue
+
+    section = hy.Trapezoid(bottom_width=2 * 0.3048, side_slope=3.0)
+    y = res.normal_depth[1]
+    n_at_depth = load_catalogue().get("riprap").roughness().manning_n(section, y, 0.004)
+    assert res.manning_n[1] == pytest.approx(n_at_depth, rel=1e-12)
+    assert res.manning_n[1] > 0.03  # stone of 0.15 m is rougher than the n of the plain row

@@ -1,0 +1,106 @@
+"""The inventory's lining verdicts against the single-channel lining check, reach by reach.
+
+hydraulics.stability.check_lining strings HEC-15's relations together for one
+channel (Kilgore and Cotton, FHWA HEC-15, 3rd ed., 2005, Chapter 3); the batch
+does the same on arrays. Every number the batch writes for a lined reach must
+be the one that check gives.
+"""
+
+import csv
+import io
+import math
+
+import numpy as np
+import pytest
+
+import hydraulics as hy
+from app import batch as ab
+from hydraulics import batch as hb
+from hydraulics.stability import check_lining
+
+KEYS = ["riprap", "gravel", "grass_good_sod", "grass_poor_bunch", "concrete", "soil_fine_noncohesive"]
+
+
+def random_lined_rows(size, seed):
+    rng = np.random.default_rng(seed)
+    rows = []
+    for i in range(size):
+        kind = ["trapezoid", "triangle", "rectangle", "circle"][i % 4]
+        key = KEYS[(i // 4) % len(KEYS)]
+        r = dict.fromkeys(ab.INPUT_COLUMNS, "")
+        r.update(id=f"S{i}", shape=kind, slope=f"{10 ** rng.uniform(-3, -0.7):.5f}",
+                 flow=f"{10 ** rng.uniform(-1, 1):.4f}", lining=key)
+        if kind in ("trapezoid", "rectangle"):
+            r["bottom_width"] = f"{rng.uniform(0.3, 3):.3f}"
+        if kind in ("trapezoid", "triangle"):
+            r["left_slope"] = f"{rng.choice([1.0, 1.5, 2.0, 3.0, 4.0])}"
+            r["right_slope"] = f"{rng.choice([1.5, 2.0, 3.0, 6.0])}"
+        if kind == "circle":
+            r["diameter"] = f"{rng.uniform(1.0, 3):.3f}"
+        if key == "riprap" and i % 3 == 0:
+            r["d50"] = f"{rng.uniform(0.05, 0.5):.3f}"
+        if i % 5 == 0:
+            r["n"] = f"{rng.uniform(0.02, 0.05):.3f}"
+        rows.append(r)
+    return rows
+
+
+def section_of(r):
+    v = lambda k: float(r[k]) if r[k] else None  # noqa: E731
+    return {"trapezoid": lambda: hy.Trapezoid(bottom_width=v("bottom_width"), left_slope=v("left_slope"),
+                                              right_slope=v("right_slope")),
+            "triangle": lambda: hy.Triangle(left_slope=v("left_slope"), right_slope=v("right_slope")),
+            "rectangle": lambda: hy.Rectangle(bottom_width=v("bottom_width")),
+            "circle": lambda: hy.Circle(diameter=v("diameter"))}[r["shape"]]()
+
+
+@pytest.mark.parametrize("seed", [5, 6])
+def test_every_lined_reach_matches_check_lining(seed):
+    rows = random_lined_rows(240, seed)
+    buf = io.StringIO()
+    w = csv.DictWriter(buf, fieldnames=list(ab.INPUT_COLUMNS), lineterminator="\n")
+    w.writeheader()
+    w.writerows(rows)
+    inv = ab.parse_inventory(buf.getvalue(), "si")
+    res = ab.evaluate(inv)
+    cat = hb.default_catalogue()
+    seen = set()
+    for i, r in enumerate(rows):
+        v = lambda k: float(r[k]) if r[k] else None  # noqa: E731
+        try:
+            ref = check_lining(section_of(r), float(r["flow"]), float(r["slope"]), cat.get(r["lining"]),
+                               d50=v("d50"), n=v("n"))
+        except hy.NoSolutionError:
+            assert res.verdict[i] == "no-solution", (r, res.reason[i])
+            continue
+        expected = {"stable": "stable", "not stable": "unstable", "non-erodible": "non-erodible"}[ref.verdict]
+        assert res.verdict[i] == expected, (r, res.reason[i])
+        seen.add(expected)
+        assert res.normal_depth[i] == pytest.approx(ref.depth, rel=1e-8)
+        assert res.bed_shear[i] == pytest.approx(ref.bed_shear, rel=1e-8)
+        if ref.permissible_shear is None:
+            assert math.isnan(res.permissible_shear[i]) and math.isnan(res.safety_factor[i])
+        else:
+            assert res.permissible_shear[i] == pytest.approx(ref.permissible_shear, rel=1e-9)
+            assert res.safety_factor[i] == pytest.approx(ref.safety_factor, rel=1e-9, abs=1e-12)
+    assert seen == {"stable", "unstable", "non-erodible"}
+    reasons = " ".join(res.reason.tolist())
+    assert "Appendix D safety factor" in reasons and "stone cannot rest" in reasons  # both special cases met
+
+
+def test_lined_inventory_summary_and_plot(tmp_path, capsys):
+    from app.main import main
+
+    rows = random_lined_rows(80, 7)
+    src, dst, png = tmp_path / "inv.csv", tmp_path / "out.csv", tmp_path / "sum.png"
+    with src.open("w", newline="") as fh:
+        w = csv.DictWriter(fh, fieldnames=list(ab.INPUT_COLUMNS))
+        w.writeheader()
+        w.writerows(rows)
+    assert main(["batch", str(src), "-o", str(dst), "--units", "si", "--plot", str(png)]) == 0
+    out = capsys.readouterr().out
+    assert "shear ratio" in out and "stable" in out
+    got = list(csv.DictReader(dst.open(newline="")))
+    lined = [g for g in got if g["verdict"] in ("stable", "unstable")]
+    assert lined and all(g["permissible_shear"] != "" and g["safety_factor"] != "" for g in lined)
+    assert png.read_bytes()[:4] == b"\x89PNG"
