@@ -20,6 +20,8 @@ from __future__ import annotations
 
 import math
 import re
+
+import numpy as np
 from dataclasses import dataclass
 
 import hydraulics as hy
@@ -252,6 +254,18 @@ def _lining_text(st: StabilityResult, f: Formatter) -> str:
     return st.lining_name + (f", D50 {f.stone(st.d50)}" if st.d50 is not None else "")
 
 
+def _typed_n_words(ch, section) -> str:
+    """The Manning's n of a channel without a lining: typed, or a surveyed section's own n per segment."""
+    if ch.manning_n is not None:
+        return f"{n_text(ch.manning_n)} (typed in the project)"
+    per_segment = np.atleast_1d(np.asarray(section.n, float))
+    if np.all(per_segment == per_segment[0]):
+        return f"{n_text(per_segment[0])} (the survey's own, on every segment)"
+    values = ", ".join(n_text(v) for v in per_segment)
+    return (f"the survey's own, per segment: {values}; composite n by Horton and Einstein "
+            "(Chow 1959, Sec. 6-6, from memory)")
+
+
 def input_items(design: ChannelDesign, f: Formatter, lining=None, catalogue_text: str = "",
                 src: "Sources | None" = None) -> list:
     """Items for the inputs; with a lining, its catalogue entry and the sources of its values."""
@@ -268,7 +282,7 @@ def input_items(design: ChannelDesign, f: Formatter, lining=None, catalogue_text
         items.append(Item("Lining", f"{_lining_text(st, f)}; {origin} '{st.lining_key}'; sources {', '.join(refs)}"))
     else:
         items.append(Item("Lining", "none chosen"))
-        items.append(Item("Manning's n", f"{n_text(ch.manning_n)} (typed in the project)"))
+        items.append(Item("Manning's n", _typed_n_words(ch, design.section)))
     if ch.bend_radius is not None:
         items.append(Item("Bend radius Rc", f(ch.bend_radius, "length")))
     min_fb = hec15.MIN_FREEBOARD if ch.min_freeboard is None else ch.min_freeboard
@@ -280,7 +294,10 @@ def input_items(design: ChannelDesign, f: Formatter, lining=None, catalogue_text
 def result_items(design: ChannelDesign, f: Formatter, n_ref: str = "") -> list:
     """The uniform-flow results; ``n_ref`` points to the source of the lining's n ("[1]")."""
     r, st = design.analysis, design.stability
-    n = n_text(float(r.manning_n)) + (f" {n_ref}" if st is not None else " (typed)")
+    if st is not None:
+        n = f"{n_text(float(r.manning_n))} {n_ref}"
+    else:
+        n = f"{n_text(float(r.manning_n))} ({'typed' if design.channel.manning_n is not None else 'composite'})"
     return [  # printed two to a row, in this order
         Item("Normal depth yn", f(r.normal_depth, "length")),
         Item("Critical depth yc", f(r.critical_depth, "length")),
@@ -572,15 +589,16 @@ def channel_sheet(project, channel, catalogue: Catalogue | None = None) -> Chann
     else:
         inputs = input_items(design, f)
         n_ref = ""
-        roughness = float(channel.manning_n)
+        roughness = None if channel.manning_n is None else float(channel.manning_n)  # None: the survey's own n
         checks = []
         tau = float(design.analysis.bed_shear)
         lining_items = [Item("Bed shear", f"\u03c4d = \u03b3 d S = {f.shear(tau)} (HEC-15 Eq. 3.1), not compared "
                                           "with a permissible shear")]
         verdict = "NOT CHECKED"
-        reason = ("no lining chosen, so no permissible shear to check against; the uniform flow uses the Manning's "
-                  "n typed in the project. Choose a lining from the catalogue to check the channel's stability "
-                  "(HEC-15 permissible shear).")
+        n_from = ("the Manning's n typed in the project" if channel.manning_n is not None
+                  else "the surveyed section's own n")
+        reason = (f"no lining chosen, so no permissible shear to check against; the uniform flow uses {n_from}. "
+                  "Choose a lining from the catalogue to check the channel's stability (HEC-15 permissible shear).")
         lining_label = "none chosen"
         thickness = None
     depth_items = _depth_items(design, f, src)

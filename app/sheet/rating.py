@@ -73,7 +73,12 @@ def rating_drawing(sheet, width: float, height: float):
         ax.set_xlabel(f"Flow Q ({qu})")
         ax.set_ylabel(f"Depth y ({lu})")
         ax.grid(True, linewidth=0.3, color="0.85")
-        n_words = f"n = {n_text(roughness)}" if isinstance(roughness, float) else "n varies with depth (lining)"
+        if isinstance(roughness, float):
+            n_words = f"n = {n_text(roughness)}"
+        elif roughness is None:
+            n_words = "composite n of the survey"
+        else:
+            n_words = "n varies with depth (lining)"
         ax.set_title(f"Rating curve, uniform flow: S = {slope:g}, {n_words}", fontsize=6.5)
         ax.legend(loc="best", fontsize=5.8, frameon=True, framealpha=0.9, edgecolor="0.7")
         buf = io.StringIO()
