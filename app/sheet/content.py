@@ -319,7 +319,7 @@ def rational_check(basis, flow: float, f: Formatter) -> str:
     a = f.units.from_si("drainage_area", basis.area)
     factor = f.units.unit("intensity").factor * f.units.unit("drainage_area").factor / f.units.unit("flow").factor
     units = f"{f.unit('intensity')} \u00d7 {f.unit('drainage_area')} \u2192 {f.unit('flow')}"
-    return (f"Q = C i A u = {basis.runoff_coefficient:.2f} \u00d7 {_sig(i, 3)} \u00d7 {_sig(a, 3)} \u00d7 {_sig(factor, 5)}"
+    return (f"Q = C i A u = {basis.runoff_coefficient:.2f} \u00d7 {_sig(i, 4)} \u00d7 {_sig(a, 4)} \u00d7 {_sig(factor, 5)}"
             f" = {f.number(flow, 'flow', 4)} {f.unit('flow')} (u = {_sig(factor, 5)} for {units})")
 
 
@@ -528,7 +528,7 @@ def comparison_lines(design: ChannelDesign, f: Formatter) -> tuple[list | None, 
             layer_volume="\u2014" if r.layer_volume is None else f.number(r.layer_volume, "volume_per_length"),
             cost="\u2014" if r.cost_per_length is None else f"{f.units.from_si('cost_per_length', r.cost_per_length):.2f}"))
     text = ("* the channel's lining, then the alternatives named in the project. " if own is not None else "")
-    text += (f"\u03c4, \u03c4p and SF of the governing check. Lined width: "
+    text += (f"\u03c4, \u03c4p and SF of the governing check (the bed for a non-erodible lining). Lined width: "
              f"{in_units(LINED_WIDTH_RULE, f.units)}; layer = lined width \u00d7 layer thickness, per "
              f"{f.unit('length')} of channel.")
     if not priced:
