@@ -169,8 +169,9 @@ def evaluate_channel(channel: Channel, catalogue: Catalogue | None = None) -> Ch
             notes.append(f"the lining's own n ({stability.manning_n:.4g}) is used; the channel's Manning's n "
                          f"{channel.manning_n:g} applies only without a lining")
     else:
-        if channel.manning_n is None:
+        if channel.manning_n is None and not isinstance(section, hy.Irregular):
             raise hy.InputError("manning_n", "is missing: give Manning's n or choose a lining")
+        # A surveyed section without an n of its own type uses its n per segment (composite n).
         analysis = hy.analyse(section, q, channel.slope, channel.manning_n)
         warns += analysis.warnings
         notes.append("no lining chosen: uniform flow with the given Manning's n, no shear check")

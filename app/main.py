@@ -25,6 +25,9 @@ def build_parser() -> argparse.ArgumentParser:
                                  "stability, design sheets. Results assist design; a licensed engineer "
                                  "checks them against local codes.")
     parser.add_argument("--version", action="version", version=f"ditchwright {__version__}")
+    parser.add_argument("--screenshot", nargs="+", metavar="PATH", default=None,
+                        help="PATH [FILE]: render the main window offscreen (on FILE, or on the demo project) "
+                             "to the PNG file PATH, at least 1280x800, and exit")
     sub = parser.add_subparsers(dest="command", metavar="COMMAND", parser_class=_Parser)
     for module in COMMANDS:
         module.register(sub)
@@ -34,9 +37,15 @@ def build_parser() -> argparse.ArgumentParser:
 def main(argv=None) -> int:
     parser = build_parser()
     args = parser.parse_args(argv)
+    if args.screenshot is not None:
+        if args.command is not None or len(args.screenshot) > 2:
+            parser.error("--screenshot takes PATH and an optional FILE, and no command")
+        from .gui.application import screenshot
+        return screenshot(*args.screenshot)
     if args.command is None:
-        parser.print_help()
-        return 0
+        # No command: the desktop window (the demo project on the first start).
+        from .gui.application import run as run_window
+        return run_window()
     try:
         return args.run(args)
     except CliError as exc:

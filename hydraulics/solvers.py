@@ -106,8 +106,9 @@ def _log_conveyance(section, rough, y, slope, scalar):
     if rough[0] == "constant":
         return geo - log(rough[1]), dgeo
     n0 = _n_value(rough, section, y, slope)
-    n1 = _n_value(rough, section, y * (1 + _FD_STEP), slope)
-    dlogn = (log(n1) - log(n0)) / math.log1p(_FD_STEP)
+    # A backward difference, so the trial depth never passes a pipe's crown or a survey's bank.
+    n1 = _n_value(rough, section, y * (1 - _FD_STEP), slope)
+    dlogn = (log(n0) - log(n1)) / -math.log1p(-_FD_STEP)
     return geo - log(n0), dgeo - dlogn
 
 

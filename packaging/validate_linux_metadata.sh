@@ -52,7 +52,7 @@ if printf '%s\n' "$out" | grep -q ": warning: "; then status=1; fi
 echo "== appstreamcli validate --no-net $(basename "$metainfo")"
 appstreamcli validate --no-net "$metainfo" || status=1
 
-# The same files staged as a system install would place them (see README-packaging.md), so
+# The same files staged as a system install would place them (see README.md, "Desktop entry, metadata and icon on Linux"), so
 # the launchable and the icon are checked against each other, not each file on its own.
 echo "== appstreamcli validate-tree --no-net (staged install tree)"
 tree=$(mktemp -d)

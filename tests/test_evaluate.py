@@ -114,3 +114,14 @@ def test_to_dict_matches_the_calc_json(capsys, cat):
     for key in ("normal_depth", "velocity", "froude", "manning_n", "lining", "stability", "units"):
         assert d[key] == cli[key]
     json.dumps(d, allow_nan=False)
+
+
+def test_surveyed_section_without_n_uses_its_own_n_per_segment():
+    from app.evaluate import evaluate_channel
+    from app.project import Channel, FlowBasis
+    import hydraulics as hy
+    section = {"shape": "irregular", "stations": [0, 2, 4, 6], "elevations": [1.0, 0, 0, 1.0],
+               "n": [0.035, 0.015, 0.035]}
+    design = evaluate_channel(Channel(name="Surveyed", flow=FlowBasis(value=0.6), slope=0.004, section=section,
+                                      manning_n=None))
+    assert design.analysis.normal_depth == hy.normal_depth(hy.section_from_dict(section), 0.6, 0.004)

@@ -1,16 +1,20 @@
 """The design sheet PDF: what it prints (read back with pypdf), its fingerprint, signing, rendering.
 
-The project used is invented (tests/data/invented-sheet-project.json). Printed
-numbers are checked against independent computations: Manning's equation
-solved here with scipy.optimize.brentq (Chow, V. T., Open-Channel Hydraulics,
-McGraw-Hill, 1959, Eq. 5-6, customary constant 1.486 = (1/0.3048)^(1/3)) and a
-published worked example.
+The project is the shipped demo (resources/demo-project.json, an invented
+site), with an invented title block filled in, printed in its own SI units and
+as a US copy. Printed numbers are checked against independent computations:
+Manning's equation solved here with scipy.optimize.brentq (Chow, V. T.,
+Open-Channel Hydraulics, McGraw-Hill, 1959, Eq. 5-6), the relations of FHWA
+HEC-15 (Kilgore and Cotton, Design of Roadside Channels with Flexible Linings,
+3rd ed., 2005) written out here with their equation numbers, and a published
+worked example.
 """
 
 from __future__ import annotations
 
 import copy
 import datetime
+import json
 import math
 import os
 import re
@@ -26,17 +30,29 @@ from scipy.optimize import brentq
 from app import project as P
 from app.main import main
 from app.sheet import approval_box, export_sheets, fingerprint, sheet_pdf, verify_pdf
-from app.sheet.fingerprint import fingerprint_document
+from app.sheet.fingerprint import canonical_json, fingerprint_document
 from app.sheet.section_drawing import choose_scale
 
-DATA = Path(__file__).parent / "data"
-PROJECT_FILE = DATA / "invented-sheet-project.json"
+DEMO_FILE = Path(str(P.demo_path()))
+CHANNELS = ("East verge ditch", "North cut ditch", "Outfall swale", "Farm crossing pipe", "Surveyed outfall channel")
+TITLE = P.SheetInfo(company="Example Engineering Co. (invented)", designer="A. Designer (invented)",
+                    checker="B. Checker (invented)", approver="C. Approver, P.E. (invented)",
+                    date_designed="2026-11-20", date_checked="2026-11-24", revision="B", project_number="INV-0417")
 FOOT = 0.3048
+G = 9.80665            # standard gravity [m/s^2]
+GAMMA = 9810.0         # unit weight of water [N/m^3], HEC-15 SI value
+GAMMA_STONE = 25900.0  # stone [N/m^3], HEC-15 Section 6.2
+PSF = 47.880259        # Pa per lbf/ft^2 (NIST SP 811, 2008 ed., Appendix B.8)
+GAMMA_WATER_PCF = GAMMA / 157.08746  # in lb/ft^3; 1 lbf/ft^3 = 157.087 N/m^3 (NIST SP 811, Appendix B.8)
 
 
 @pytest.fixture(scope="module")
 def project():
-    return P.load(PROJECT_FILE)
+    """The demo project with an invented title block (the shipped demo leaves it for the user)."""
+    proj = P.load(DEMO_FILE)
+    proj.sheet = copy.deepcopy(TITLE)
+    assert [c.name for c in proj.channels] == list(CHANNELS)
+    return proj
 
 
 @pytest.fixture(scope="module")
@@ -48,7 +64,22 @@ def sheet_file(project, tmp_path_factory):
 
 @pytest.fixture(scope="module")
 def pages(sheet_file):
-    return [p.extract_text() for p in PdfReader(sheet_file).pages]
+    """{channel name: page text} of the demo in its own (SI) units."""
+    return dict(zip(CHANNELS, (p.extract_text() for p in PdfReader(sheet_file).pages)))
+
+
+@pytest.fixture(scope="module")
+def us_pages(project, tmp_path_factory):
+    """{channel name: page text} of a copy of the demo shown in US customary units."""
+    proj = copy.deepcopy(project)
+    proj.units = "us"
+    path = tmp_path_factory.mktemp("sheet-us") / "sheets-us.pdf"
+    export_sheets(proj, path)
+    return dict(zip(CHANNELS, (p.extract_text() for p in PdfReader(path).pages)))
+
+
+def _flat(text: str) -> str:
+    return text.replace("\n", " ")
 
 
 def _number_after(text: str, label: str) -> tuple[float, str]:
@@ -58,11 +89,34 @@ def _number_after(text: str, label: str) -> tuple[float, str]:
     return float(m.group(1)), m.group(2)
 
 
+def _approx3(expected: float, rel: float = 0.0):
+    """A value printed to three significant figures: within half a unit of its last figure (plus ``rel``)."""
+    unit = 10.0 ** (math.floor(math.log10(abs(expected))) - 2)
+    return pytest.approx(expected, abs=0.5 * unit * 1.001 + rel * abs(expected))
+
+
+def _rational_flow(channel) -> float:
+    """Q = C i A [m^3/s] from the channel's flow basis (FHWA HEC-22, 3rd ed., 2009, Eq. 3-1, consistent SI units)."""
+    b = channel.flow
+    return b.runoff_coefficient * b.intensity * b.area
+
+
+def _mannings_depth(b, z, q, n, s, k=1.0):
+    """Normal depth of a trapezoid by brentq on Q = (k/n) A R^(2/3) S^(1/2) (Chow 1959, Eq. 5-6)."""
+    def excess(y):
+        area = (b + z * y) * y
+        perim = b + 2 * y * math.sqrt(1 + z * z)
+        return k / n * area * (area / perim) ** (2 / 3) * math.sqrt(s) - q
+
+    return brentq(excess, 1e-6, 50.0, xtol=1e-12)
+
+
 # ------------------------------------------------------------------ title block and results
 def test_one_page_per_channel_with_title_block(project, pages):
     assert len(pages) == len(project.channels)
     info = project.sheet
-    for i, (text, ch) in enumerate(zip(pages, project.channels), start=1):
+    for i, (name, text) in enumerate(pages.items(), start=1):
+        ch = project.channel(name)
         for value in (project.name.split(" (")[0], ch.name, ch.location, info.company.split(" (")[0],
                       info.designer, info.checker, info.approver, info.date_designed, info.date_checked,
                       info.project_number):
@@ -74,36 +128,48 @@ def test_one_page_per_channel_with_title_block(project, pages):
             assert heading in text
 
 
-def test_results_carry_units_us(pages):
-    text = pages[0]
+def test_results_carry_units_us(us_pages):
+    text = _flat(us_pages["Outfall swale"])
     for label, unit in (("Normal depth yn", "ft"), ("Critical depth yc", "ft"), ("Velocity V", "ft/s"),
-                        ("Flow area A", "ft²"), ("Top width at total depth", "ft"), ("Design flow Q", "ft³/s"),
-                        ("Bed shear τ = γ yn S", "lb/ft²"), ("Total depth", "ft")):
-        value, printed_unit = _number_after(text.replace("\n", " "), label)
+                        ("Flow area A", "ft²"), ("Top width at top", "ft"), ("Design flow Q", "ft³/s"),
+                        ("Top width T", "ft"), ("Total depth", "ft"), ("Freeboard", "ft"), ("Lined width", "ft"),
+                        ("Bend radius Rc", "ft"), ("Minimum freeboard", "ft")):
+        value, printed_unit = _number_after(text, label)
         assert math.isfinite(value)
-        if unit:
-            assert printed_unit == unit, f"{label}: unit {printed_unit!r}, expected {unit!r}"
-    assert "Froude number Fr" in text and "subcritical" in text
+        assert printed_unit == unit, f"{label}: unit {printed_unit!r}, expected {unit!r}"
+    assert "Froude number Fr" in text and "Flow regime subcritical" in text
     assert "Manning's n used" in text
-    assert "NOT CHECKED" in text  # no lining check in this version: the sheet says so
+    for head in ("Design shear τ lb/ft²", "Permissible τp lb/ft²"):
+        assert head in re.sub(r"\s+", " ", text), head
+    assert re.search(r"Reason: stable, bend: [0-9.]+ lb/ft² against [0-9.]+ lb/ft² permissible", text)
 
 
-def test_printed_normal_depth_solves_mannings_equation(project, pages):
-    # Independent root of Q = (1.486/n) A R^(2/3) S^(1/2) for the trapezoid of the first channel
-    # (Chow 1959, Eq. 5-6), with brentq instead of the program's solver.
-    ch = project.channels[0]
-    b, z = ch.section["bottom_width"] / FOOT, ch.section["left_slope"]
-    q, n, s = ch.flow.value / FOOT ** 3, ch.manning_n, ch.slope
+def test_si_sheet_prints_si_units(pages):
+    text = _flat(pages["North cut ditch"])
+    assert _number_after(text, "Normal depth yn")[1] == "m"
+    assert _number_after(text, "Velocity V")[1] == "m/s"
+    assert _number_after(text, "Design flow Q")[1] == "m³/s"
+    assert "Design shear τ  Pa" in text and "Permissible τp  Pa" in text
+    assert re.search(r"Reason: not stable, side slopes: [0-9.]+ Pa against [0-9.]+ Pa permissible", text)
+    assert re.search(r"Required D50 [0-9.]+ m \([0-9.]+ mm\)", text)
+    body = text.split("CAUTIONS")[0]
+    assert not re.search(r"\d (ft|in|lb/ft²|ft/s|ft³/s)\b", body)  # no US unit in an SI sheet's body
+    assert "2 of 5" in text
 
-    def excess(y):
-        area = (b + z * y) * y
-        perim = b + 2 * y * math.sqrt(1 + z * z)
-        return 1.486 / n * area * (area / perim) ** (2 / 3) * math.sqrt(s) - q
 
-    y = brentq(excess, 1e-6, 50.0, xtol=1e-10)
-    printed, unit = _number_after(pages[0], "Normal depth yn")
+def test_printed_normal_depth_solves_mannings_equation(project, us_pages):
+    # The outfall swale is lined with riprap, whose n depends on the depth (Blodgett, HEC-15 Eq. 6.1): the
+    # printed depth must satisfy Manning's equation with the printed n (Chow 1959, Eq. 5-6, customary
+    # constant 1.486 = (1/0.3048)^(1/3)), solved here with brentq for the rational-method flow.
+    ch = project.channel("Outfall swale")
+    text = _flat(us_pages["Outfall swale"])
+    n = float(re.search(r"Manning's n used ([0-9.]+) \[1\]", text).group(1))
+    y = _mannings_depth(ch.section["bottom_width"] / FOOT, ch.section["left_slope"], _rational_flow(ch) / FOOT ** 3,
+                        n, ch.slope, k=1.486)
+    printed, unit = _number_after(text, "Normal depth yn")
     assert unit == "ft"
-    assert printed == pytest.approx(y, rel=2e-3)  # 1.486 vs 1.4859 and 4 printed figures
+    assert printed == _approx3(y, rel=1e-4)  # 1.486 vs 1.4859 moves the depth by about 0.004 %
+    assert n != ch.manning_n  # with a lining, the lining's n is used, not the channel's
 
 
 def test_published_trapezoid_example_prints_its_normal_depth(tmp_path):
@@ -116,26 +182,17 @@ def test_published_trapezoid_example_prints_its_normal_depth(tmp_path):
     data, _ = sheet_pdf(proj)
     out = tmp_path / "chow.pdf"
     out.write_bytes(data)
-    value, unit = _number_after(PdfReader(out).pages[0].extract_text(), "Normal depth yn")
+    text = PdfReader(out).pages[0].extract_text()
+    value, unit = _number_after(text, "Normal depth yn")
     assert unit == "ft"
     assert value == pytest.approx(3.36, rel=0.005)
+    # no lining: the typed n is used and the sheet says the stability was not checked
+    assert "NOT CHECKED" in text and "Manning's n used 0.025 (typed)" in text.replace("\n", " ")
+    assert "Manning's n 0.025 (typed in the project)" in text.replace("\n", " ")
 
 
-def test_si_project_prints_si_units(project, tmp_path):
-    proj = copy.deepcopy(project)
-    proj.units = "si"
-    path = tmp_path / "si.pdf"
-    export_sheets(proj, path, channels=[proj.channels[1].name])
-    text = PdfReader(path).pages[0].extract_text()
-    assert _number_after(text, "Normal depth yn")[1] == "m"
-    assert _number_after(text, "Velocity V")[1] == "m/s"
-    assert _number_after(text, "Design flow Q")[1] == "m³/s"
-    assert _number_after(text, "Bed shear τ = γ yn S")[1] == "Pa"
-    assert "1 of 1" in text
-
-
-def test_symbols_print_and_extract(pages):
-    text = pages[0]
+def test_symbols_print_and_extract(us_pages):
+    text = us_pages["Outfall swale"]
     for symbol in ("Δ", "≥", "²", "³", "θ", "τ", "γ", "√"):
         assert symbol in text, f"{symbol!r} does not extract from the sheet"
     assert "Flow Q (ft³/s)" in text  # from the rating plot, through svglib with the sheet font
@@ -156,8 +213,8 @@ def test_only_the_sheet_font_is_used(sheet_file):
         assert "+" in f  # a subset tag: the font is embedded
 
 
-def test_hand_check_numbers_agree_as_printed(pages):
-    text = pages[0].replace("\n", " ")
+def test_hand_check_numbers_agree_as_printed(us_pages):
+    text = _flat(us_pages["Outfall swale"])
     y = float(re.search(r"At the normal depth y = ([0-9.]+) ft", text).group(1))
     m = re.search(r"A = \(b \+ z y\) y = \(([0-9.]+) \+ ([0-9.]+) × ([0-9.]+)\) × [0-9.]+ = ([0-9.]+) ft²", text)
     b, z, y2, area = (float(g) for g in m.groups())
@@ -168,60 +225,71 @@ def test_hand_check_numbers_agree_as_printed(pages):
     assert factor == pytest.approx(target, rel=1e-3)
     # tau = gamma d S with the printed numbers (HEC-15, Kilgore and Cotton, 3rd ed., 2005, Eq. 3.1)
     g, d, s, tau = (float(v) for v in re.search(
-        r"τ = γ d S = ([0-9.]+) lb/ft³ × ([0-9.]+) ft × ([0-9.]+) = ([0-9.]+) lb/ft²", text).groups())
+        r"τd = γ d S = ([0-9.]+) lb/ft³ × ([0-9.]+) ft × ([0-9.]+) = ([0-9.]+) lb/ft²", text).groups())
     assert g * d * s == pytest.approx(tau, rel=2e-3)
-    assert g == pytest.approx(9810 / (4.4482216152605 / FOOT ** 3), rel=1e-3)  # 9810 N/m^3 in lb/ft^3
+    assert g == pytest.approx(GAMMA_WATER_PCF, rel=1e-3)  # 9810 N/m^3 in lb/ft^3
+    # SF = tau_p / tau of the governing check, as printed in the shear-check table
+    tp, td, sf = (float(v) for v in re.search(r"SF = τp / τ = ([0-9.]+) / ([0-9.]+) = ([0-9.]+) \(bend", text).groups())
+    assert tp / td == pytest.approx(sf, abs=0.006)
 
 
-def test_rational_flow_basis_is_printed(pages):
-    text = pages[1].replace("\n", " ")
-    assert "rational method" in text and "Runoff coefficient C" in text and "Time of concentration" in text
+def test_rational_flow_basis_is_printed(us_pages):
+    text = _flat(us_pages["Outfall swale"])
+    assert "rational method" in text and "runoff coefficient C 0.45" in text and "Time of concentration" in text
     m = re.search(r"Q = C i A u = ([0-9.]+) × ([0-9.]+) × ([0-9.]+) × ([0-9.]+) = ([0-9.]+) ft³/s", text)
     c, i, a, u, q = (float(v) for v in m.groups())
     # 1 acre-inch per hour in ft^3/s: 43560 ft^2 x (1/12) ft / 3600 s = 1.00833 (exact unit factors)
     assert u == pytest.approx(43560 / 12 / 3600, rel=1e-4)
-    assert c * i * a * u == pytest.approx(q, rel=3e-3)
+    assert c * i * a * u == pytest.approx(q, rel=1e-3)  # i and A carry 4 figures
 
 
-def test_cautions_and_out_of_range_warnings(pages):
-    assert "Design assistance only" in pages[0] and "licensed" in pages[0]
-    # the swale runs at Fr about 1.03: near critical, flagged
-    assert "near critical" in pages[1].replace("\n", " ")
+def test_cautions_and_out_of_range_warnings(pages, us_pages):
+    from app.sheet.content import in_units
+    from hydraulics.units import system
 
-
-def test_alternatives_are_named_when_they_cannot_be_compared(pages):
-    text = pages[0].replace("\n", " ")
-    assert "LINING COMPARISON" in text and "Rock riprap" in text and "Concrete" in text
-    assert "LINING COMPARISON" not in pages[1]
+    text = _flat(us_pages["Outfall swale"])
+    assert "Design assistance only" in text and "licensed" in text
+    # the swale runs at 1.56 ft/s, below the 2 ft/s self-cleaning velocity (Chow 1959, Sec. 7-3, 2 to 3 ft/s,
+    # from memory): flagged, with the US value beside the SI one
+    assert "(1.56 ft/s) is below 0.61 m/s (2.0 ft/s)" in text
+    # the evaluation's notes: the lining's own n replaces the channel's
+    assert "Note: The lining's own n (0.06963) is used; the channel's Manning's n 0.035 applies only" in text
+    # every SI amount in a US sheet's cautions has its US equivalent beside it (nothing left to annotate)
+    cautions = text.split("CAUTIONS, NOTES AND SOURCES")[1].split("Design fingerprint")[0]
+    assert in_units(cautions, system("us")) == cautions
+    # near-critical flow (band 0.8 to 1.2, common practice, from memory): the gravel ditch at Fr 1.02
+    assert re.search(r"Froude number 1\.0\d is near critical \(band 0\.8 to 1\.2", _flat(pages["North cut ditch"]))
 
 
 # ------------------------------------------------------------------ fingerprint
 def test_printed_fingerprint_equals_the_command(project, pages, capsys):
-    for text, ch in zip(pages, project.channels):
+    for name, text in pages.items():
         printed = re.search(r"Design fingerprint SHA-256: ([0-9a-f]{64})", text).group(1)
-        assert main(["fingerprint", str(PROJECT_FILE), "--channel", ch.name]) == 0
+        assert main(["fingerprint", str(DEMO_FILE), "--channel", name]) == 0
         assert capsys.readouterr().out.strip() == printed
-    assert main(["fingerprint", str(PROJECT_FILE)]) == 0
+    assert main(["fingerprint", str(DEMO_FILE)]) == 0
     lines = capsys.readouterr().out.strip().splitlines()
     assert [line.split("  ", 1)[1] for line in lines] == [c.name for c in project.channels]
 
 
 def test_fingerprint_follows_design_inputs_only(project):
-    ch = copy.deepcopy(project.channels[0])
+    ch = copy.deepcopy(project.channel("Outfall swale"))
     base = fingerprint(ch)
     renamed = copy.deepcopy(ch)
     renamed.name, renamed.location, renamed.notes = "Other name", "elsewhere", "a note"
     assert fingerprint(renamed) == base
     as_float = copy.deepcopy(ch)
-    as_float.section = dict(ch.section, left_slope=3, right_slope=3)  # 3 and 3.0 are the same input
+    as_float.section = dict(ch.section, left_slope=4, right_slope=4)  # 4 and 4.0 are the same input
     assert fingerprint(as_float) == base
     steeper = copy.deepcopy(ch)
     steeper.slope = ch.slope * 1.001
     assert fingerprint(steeper) != base
     assert fingerprint(ch, version="9.9.9") != base
     doc = fingerprint_document(ch)
-    assert doc.startswith('{"inputs":{') and '"program":"ditchwright"' in doc and " " not in doc.replace(
-        "Ditch 1", "")
+    assert doc.startswith('{"inputs":{') and '"program":"ditchwright"' in doc
+    data = json.loads(doc)
+    assert sorted(data["linings"]) == ["concrete", "grass_good_sod", "gravel", "riprap"]  # own and alternatives
+    assert canonical_json(data) == doc  # canonical: sorted keys, no spaces between tokens
 
 
 def test_fingerprint_of_a_damaged_file_is_a_one_line_error(tmp_path, capsys):
@@ -335,13 +403,13 @@ def test_cli_signs_with_password_from_environment(certificate, tmp_path, monkeyp
     p12, pem = certificate
     out = tmp_path / "cli.pdf"
     monkeypatch.setenv("DITCHWRIGHT_CERT_PASSWORD", "pw-test")
-    assert main(["sheet", str(PROJECT_FILE), "--channel", "Culvert outfall swale", "-o", str(out),
+    assert main(["sheet", str(DEMO_FILE), "--channel", "Outfall swale", "-o", str(out),
                  "--sign", str(p12), "--page", "a4"]) == 0
     assert verify_pdf(out, trust=pem).ok
     box = PdfReader(out).pages[0].mediabox
     assert (float(box.width), float(box.height)) == pytest.approx((595.2756, 841.8898), abs=0.01)  # ISO 216 A4
     monkeypatch.setenv("DITCHWRIGHT_CERT_PASSWORD", "wrong")
-    assert main(["sheet", str(PROJECT_FILE), "-o", str(tmp_path / "x.pdf"), "--sign", str(p12)]) == 2
+    assert main(["sheet", str(DEMO_FILE), "-o", str(tmp_path / "x.pdf"), "--sign", str(p12)]) == 2
     err = capsys.readouterr().err
     assert "wrong password" in err and "Traceback" not in err
     assert not (tmp_path / "x.pdf").exists()
@@ -351,16 +419,16 @@ def test_cli_without_password_and_terminal_refuses(certificate, tmp_path, monkey
     p12, _ = certificate
     monkeypatch.delenv("DITCHWRIGHT_CERT_PASSWORD", raising=False)
     monkeypatch.setattr(sys, "stdin", open(os.devnull))
-    assert main(["sheet", str(PROJECT_FILE), "-o", str(tmp_path / "x.pdf"), "--sign", str(p12)]) == 2
+    assert main(["sheet", str(DEMO_FILE), "-o", str(tmp_path / "x.pdf"), "--sign", str(p12)]) == 2
     assert "DITCHWRIGHT_CERT_PASSWORD" in capsys.readouterr().err
 
 
 @pytest.mark.parametrize("argv, message", [
-    (["sheet", str(PROJECT_FILE), "-o", "x.pdf", "--channel", "No such ditch"], "no channel named"),
+    (["sheet", str(DEMO_FILE), "-o", "x.pdf", "--channel", "No such ditch"], "no channel named"),
     (["sheet", "missing-project.json", "-o", "x.pdf"], "no such file"),
-    (["sheet", str(PROJECT_FILE), "-o", "x.txt"], ".pdf"),
+    (["sheet", str(DEMO_FILE), "-o", "x.txt"], ".pdf"),
     (["verify", "missing.pdf"], "no such file"),
-    (["verify", str(PROJECT_FILE)], "not a readable PDF"),
+    (["verify", str(DEMO_FILE)], "not a readable PDF"),
 ], ids=["unknown-channel", "missing-project", "not-pdf", "missing-sheet", "not-a-pdf"])
 def test_cli_bad_input_exits_2_in_one_line(argv, message, tmp_path, monkeypatch, capsys):
     monkeypatch.chdir(tmp_path)
@@ -418,10 +486,10 @@ def test_stone_lining_from_the_catalogue_sets_n_and_thickness(tmp_path):
     path = tmp_path / "chute.pdf"
     export_sheets(proj, path)
     text = PdfReader(path).pages[0].extract_text().replace("\n", " ")
-    assert "Rock riprap, D50 150 mm" in text
-    assert "thickness t = 225 mm" in text
-    assert re.search(r"Manning's n used [0-9.]+ \(catalogue", text)
-    assert "Lining n from HEC-15" in text and "Permissible shear from" in text
+    assert "Rock riprap, D50 0.150 m (150 mm)" in text
+    assert "layer thickness t 0.225 m (225 mm)" in text  # 1.5 D50
+    assert re.search(r"Manning's n used [0-9.]+ \[1\]", text)
+    assert "[1] Manning n: " in text and "[2] permissible shear: HEC-15" in text
 
 
 def _image_count(path) -> int:
@@ -449,3 +517,275 @@ def test_logo_slot_is_empty_unless_the_user_fills_it(project, tmp_path):
     proj.sheet.logo = str(tmp_path / "missing.png")
     notes = export_sheets(proj, tmp_path / "nologo.pdf", channels=project.channels[0].name)
     assert notes and "logo file not found" in notes[0]
+
+
+# ------------------------------------------------------------------ lining stability block
+def _check_row(text: str, location: str) -> list:
+    """(design shear, permissible, SF achieved, SF required, result) of one row of the shear-check table."""
+    m = re.search(re.escape(location) + r"\s+([0-9.]+)\s+([0-9.]+|non-erodible)\s+([0-9.]+|—)\s+([0-9.]+|—)\s+"
+                  r"(passes|FAILS|non-erodible)", text)
+    assert m, f"no check row for {location!r}"
+    return list(m.groups())
+
+
+def _k1(z):
+    """Side-slope shear factor, K1 = 0.066 Z + 0.67 for 1.5 < Z < 5 (HEC-15 Eq. 3.4, from memory)."""
+    return 0.066 * z + 0.67
+
+
+def _kb(rc_t):
+    """Bend shear factor, Kb = 2.38 - 0.206 Rc/T + 0.0073 (Rc/T)^2 for 2 < Rc/T < 10 (HEC-15 Eq. 3.5, from memory)."""
+    return 2.38 - 0.206 * rc_t + 0.0073 * rc_t ** 2
+
+
+def test_stability_block_reads_back_with_units(project, pages):
+    text = _flat(pages["Outfall swale"])
+    assert "LINING STABILITY" in text and "STABLE" in text and "NOT STABLE" not in text
+    assert "Design shear τ  Pa" in text and "Permissible τp  Pa" in text
+    assert re.search(r"SF\s+achieved\s+SF\s+required\s+Result\s+\(SF ≥ required\)", text)
+    ch = project.channel("Outfall swale")
+    y = _number_after(text, "Normal depth yn")[0]
+    bed, sides, bend = (_check_row(text, loc) for loc in ("bed", "side slopes", "bend"))
+    # bed shear tau = gamma y S at the printed depth (HEC-15, 3rd ed., Eq. 3.1)
+    assert float(bed[0]) == pytest.approx(GAMMA * y * ch.slope, rel=3e-3)
+    assert float(sides[0]) == pytest.approx(_k1(4.0) * float(bed[0]), rel=3e-3)  # Z = 4: K1 = 0.934
+    rc_t = float(re.search(r"Kb = [0-9.]+ \(Rc/T = ([0-9.]+)\)", text).group(1))
+    kb = float(re.search(r"Kb ([0-9.]+);", text).group(1))
+    assert kb == pytest.approx(_kb(rc_t), rel=2e-3)
+    assert float(bend[0]) == pytest.approx(kb * float(bed[0]), rel=3e-3)
+    # riprap D50 = 150 mm: tau_p = F* (gamma_s - gamma) D50 with F* = 0.047 below Re* = 4e4 (HEC-15 Eq. 6.7 and
+    # Table 6.1, table from memory); on the 4H:1V sides times K2 = (1 - sin^2 theta / sin^2 phi)^(1/2) with the
+    # 42 degree angle of repose of the catalogue (HEC-15 Section 6.3, from memory)
+    reynolds = float(re.search(r"particle Reynolds number Re\* ([0-9.]+): F\* 0\.047", text).group(1))
+    assert reynolds < 4e4
+    tau_p = 0.047 * (GAMMA_STONE - GAMMA) * 0.15
+    assert float(bed[1]) == _approx3(tau_p)
+    k2 = math.sqrt(1 - math.sin(math.atan(1 / 4)) ** 2 / math.sin(math.radians(42)) ** 2)
+    assert float(sides[1]) == _approx3(k2 * tau_p)
+    for row in (bed, sides, bend):
+        design, permissible, sf, required, result = row
+        # SF = tau_p / tau from the unrounded shears: the printed 3-figure shears give it to within their rounding
+        ratio = float(permissible) / float(design)
+        rounding = 0.5 * 10.0 ** (math.floor(math.log10(float(permissible))) - 2) / float(permissible) + \
+            0.5 * 10.0 ** (math.floor(math.log10(float(design))) - 2) / float(design)
+        assert float(sf) == pytest.approx(ratio, abs=ratio * rounding + 0.005)
+        assert float(required) == 1.0 and result == "passes"
+    # the verdict's reason names the governing check with its units, and the smallest stable stone
+    assert re.search(r"Reason: stable, bend: 53\.3 Pa against 113 Pa permissible \(safety factor 2\.13, 1\.00 "
+                     r"needed\); smallest stable D50 0\.0558 m \(given 0\.150 m\)", text)
+    assert "Required D50 0.0558 m (55.8 mm) smallest stable, given D50 enough" in text
+    assert "layer thickness t 0.225 m (225 mm)" in text  # 1.5 D50 (common practice)
+    # freeboard: the minimum plus the superelevation V^2 T / (g Rc) (HEC-15 Section 3.4, from memory)
+    m = re.search(r"Freeboard ([0-9.]+) m = minimum 0\.200 m \+ superelevation ([0-9.]+) m \[(\d)\]", text)
+    fb, se, ref = float(m.group(1)), float(m.group(2)), m.group(3)
+    v, t = _number_after(text, "Velocity V")[0], _number_after(text, "Top width T")[0]
+    assert se == pytest.approx(v ** 2 * t / (G * ch.bend_radius), rel=0.01)  # printed V and T carry 3 figures
+    assert fb == pytest.approx(0.200 + se, abs=0.0006)
+    assert f"[{ref}] freeboard: minimum freeboard 0.200 m (HEC-15 Section 2" in text
+    total = _number_after(text, "Total depth")[0]
+    assert total == pytest.approx(y + fb, abs=0.0011)
+    # top width at the top of the ditch: b + 2 Z (total depth), trapezoid geometry
+    assert _number_after(text, "Top width at top")[0] == pytest.approx(1.0 + 2 * 4 * total, rel=3e-3)
+    # length of protection below the bend, Lp = 0.736 R^(7/6) / n (SI; HEC-15 Section 3.4, from memory)
+    r, n = _number_after(text, "Hydraulic radius R")[0], float(re.search(r"Manning's n used ([0-9.]+)", text).group(1))
+    lp = float(re.search(r"protect ([0-9.]+) m downstream", text).group(1))
+    assert lp == pytest.approx(0.736 * r ** (7 / 6) / n, rel=6e-3)
+
+
+def test_failing_stone_lining_prints_not_stable_and_the_required_d50(project, pages, us_pages):
+    text = _flat(pages["North cut ditch"])
+    assert "NOT STABLE" in text
+    bed, sides = _check_row(text, "bed"), _check_row(text, "side slopes")
+    assert bed[4] == "FAILS" and sides[4] == "FAILS"
+    # gravel D50 = 25 mm: tau_p = 0.047 (gamma_s - gamma) D50 (HEC-15 Eq. 6.7, F* below Re* = 4e4, Table 6.1)
+    reynolds = float(re.search(r"particle Reynolds number Re\* ([0-9.]+): F\* ([0-9.]+)", text).group(1))
+    assert reynolds < 4e4 and "F* 0.047" in text
+    assert float(bed[1]) == _approx3(0.047 * (GAMMA_STONE - GAMMA) * 0.025)
+    m = re.search(r"Reason: not stable, side slopes: ([0-9.]+) Pa against ([0-9.]+) Pa permissible "
+                  r"\(safety factor ([0-9.]+), 1\.00 needed\); smallest stable D50 ([0-9.]+) m \(given 0\.0250 m\)",
+                  text)
+    assert m, "the reason of a failing lining"
+    assert (m.group(1), m.group(2), m.group(3)) == (sides[0], sides[1], sides[2])
+    # required D50 with its parts; the bed part by HEC-15 Eq. 6.8, D50 = SF tau / (F* (gamma_s - gamma)),
+    # SF = 1.0 and F* = 0.047 (Table 6.1, from memory), at the printed depth of the required state
+    req = re.search(r"Required D50 ([0-9.]+) m \(([0-9.]+) mm\) smallest stable, given D50 too small "
+                    r"\(bed ([0-9.]+) m, side slopes ([0-9.]+) m at depth ([0-9.]+) m; HEC-15 Eq. 6.8\)", text)
+    assert req, "the required D50"
+    d_m, d_mm, d_bed, d_side, depth = (float(v) for v in req.groups())
+    assert d_m == float(m.group(4)) and d_mm == pytest.approx(d_m * 1000, rel=3e-3)
+    assert d_m == max(d_bed, d_side)
+    slope = project.channel("North cut ditch").slope
+    assert d_bed == pytest.approx(GAMMA * depth * slope / (0.047 * (GAMMA_STONE - GAMMA)), rel=4e-3)
+    assert "layer thickness t 0.0375 m (37.5 mm)" in text  # 1.5 D50 = 37.5 mm (common practice)
+    assert "Note: Place a granular filter or a geotextile beneath the stone" in text
+    # the same in US units: the reason and the required size in ft (and inches)
+    us = _flat(us_pages["North cut ditch"])
+    assert re.search(r"Reason: not stable, side slopes: [0-9.]+ lb/ft² against [0-9.]+ lb/ft² permissible", us)
+    assert re.search(r"Required D50 ([0-9.]+) ft \(([0-9.]+) in\) smallest stable", us)
+
+
+def test_rigid_lining_is_non_erodible(pages):
+    text = _flat(pages["East verge ditch"])
+    assert "NON-ERODIBLE" in text
+    assert "Reason: non-erodible: Concrete, float finish (general paved ditch) is a rigid lining" in text
+    assert _check_row(text, "bed")[1:4] == ["non-erodible", "—", "—"]
+
+
+def test_channel_without_lining_is_not_checked(pages):
+    for name, n_words in (("Farm crossing pipe", "0.013 (typed in the project)"),
+                          ("Surveyed outfall channel", "the survey's own, per segment: 0.045, 0.035")):
+        text = _flat(pages[name])
+        assert "NOT CHECKED" in text and "Reason: no lining chosen" in text
+        assert n_words in text
+
+
+# ------------------------------------------------------------------ lining comparison
+def _comparison_row(text: str, name: str) -> list:
+    m = re.search(re.escape(name) + r"\s+([0-9.]+)\s+([0-9.]+)\s+([0-9.]+)\s+([0-9.]+)\s+([0-9.]+)\s+"
+                  r"([0-9.]+|non-erodible)\s+([0-9.]+ / [0-9.]+|—)\s+(stable|not stable|non-erodible)", text)
+    assert m, f"no comparison row for {name!r}"
+    return list(m.groups())
+
+
+def test_comparison_table_reads_back_with_units(project, pages, us_pages):
+    text = _flat(pages["Outfall swale"])
+    assert "LINING COMPARISON" in text
+    assert [name for name, t in pages.items() if "LINING COMPARISON" in t] == ["Outfall swale"]
+    for head in ("Depth  m", "V m/s", "τ Pa", "τp Pa", "Lined  m", "Layer m³/m", "SF / req."):
+        assert head in text, head
+    table = text.split("LINING COMPARISON")[1].split("CAUTIONS")[0]
+    # the channel's lining is repeated among the alternatives of the demo: one row only
+    assert table.count("Rock riprap, D50 0.150 m (150 mm)") == 1
+    own = _comparison_row(table, "* Rock riprap, D50 0.150 m (150 mm)")
+    grass = _comparison_row(table, "Grass, sod-forming, good stand, about 150 mm tall")
+    gravel = _comparison_row(table, "Gravel mulch, D50 0.0250 m (25.0 mm)")
+    concrete = _comparison_row(table, "Concrete, float finish (general paved ditch)")
+    # the channel's own lining agrees with the stability block and the results
+    assert float(own[1]) == _number_after(text, "Normal depth yn")[0] and own[7] == "stable"
+    bend = _check_row(text, "bend")
+    assert own[4:6] == bend[0:2] and own[6] == f"{bend[2]} / {bend[3]}"
+    # concrete: constant n, so the depth is Manning's with that n (Chow 1959, Eq. 5-6), solved by brentq
+    ch = project.channel("Outfall swale")
+    y = _mannings_depth(1.0, 4.0, _rational_flow(ch), float(concrete[0]), ch.slope)
+    assert float(concrete[1]) == _approx3(y)
+    # a non-erodible lining has no governing check: its row shows the bed, tau = gamma y S (HEC-15 Eq. 3.1)
+    assert float(concrete[4]) == _approx3(GAMMA * y * ch.slope)
+    assert concrete[5:8] == ["non-erodible", "—", "non-erodible"]
+    # grass: tau_p = tau_p,soil / (1 - CF) (n / ns)^2 (HEC-15 Eq. 4.7, from memory) with the fine soil of the
+    # catalogue, tau_p,soil = 1.0 Pa, the cover factor of a good sod, CF = 0.9 (HEC-15 Table 4.5, from memory)
+    # and the soil grain roughness ns = 0.016 (HEC-15 Chapter 4, from memory)
+    assert float(grass[5]) == _approx3(1.0 / (1 - 0.9) * (float(grass[0]) / 0.016) ** 2, rel=3e-3)
+    # gravel fails in the bend and names the stone it would need
+    assert gravel[7] == "not stable" and re.search(r"not stable \(bend\); needs D50 ≥ 0\.0558 m", table)
+    # riprap: rougher than concrete, so deeper and slower
+    assert float(own[1]) > float(concrete[1]) and float(own[2]) < float(concrete[2])
+    assert "No cost column" in text
+    us = re.sub(r"\s+", " ", us_pages["Outfall swale"])
+    for head in ("Depth ft", "V ft/s", "τ lb/ft²", "τp lb/ft²", "Lined ft", "Layer ft³/ft"):
+        assert head in us, head
+
+
+# ------------------------------------------------------------------ user catalogue: fingerprint and costs
+USER_CATALOGUE = """schema_version = 1
+[[lining]]
+key = "riprap"
+unit_cost = 120.0
+"""
+
+
+def test_lining_entry_changes_the_fingerprint_and_prices_the_comparison(project, tmp_path, capsys):
+    from app.evaluate import load_default_catalogue
+
+    user = tmp_path / "prices.toml"
+    user.write_text(USER_CATALOGUE)
+    priced = load_default_catalogue(user)
+    ch = project.channel("Outfall swale")
+    shipped = fingerprint(ch)
+    assert fingerprint(ch, catalogue=priced) != shipped  # a changed entry of a lining the channel uses
+    paved = project.channel("East verge ditch")
+    assert fingerprint(paved, catalogue=priced) == fingerprint(paved)  # riprap not used there: no change
+
+    out = tmp_path / "priced.pdf"
+    assert main(["sheet", str(DEMO_FILE), "--channel", ch.name, "-o", str(out), "--user-catalogue",
+                 str(user)]) == 0
+    capsys.readouterr()
+    text = _flat(PdfReader(out).pages[0].extract_text())
+    printed = re.search(r"Design fingerprint SHA-256: ([0-9a-f]{64})", text).group(1)
+    assert main(["fingerprint", str(DEMO_FILE), "--channel", ch.name, "--user-catalogue", str(user)]) == 0
+    assert capsys.readouterr().out.strip() == printed
+    assert main(["fingerprint", str(DEMO_FILE), "--channel", ch.name]) == 0
+    assert capsys.readouterr().out.strip() == shipped != printed
+    assert "linings.toml + prices.toml" in text
+    # the cost column: $120 per m^3 of layer times the printed layer volume per m of channel
+    assert re.search(r"Cost\s+\$/m", text) and "No cost column" not in text
+    m = re.search(r"\* Rock riprap, D50 0\.150 m \(150 mm\).*?stable \(bend\)\s+([0-9.]+)\s+([0-9.]+)\s+([0-9.]+)",
+                  text)
+    layer, cost = float(m.group(2)), float(m.group(3))
+    assert cost == pytest.approx(120.0 * layer, rel=5e-3)
+
+
+def test_fingerprint_refuses_an_unknown_lining_in_one_line(tmp_path, capsys):
+    ch = P.Channel(name="Odd ditch", lining=P.LiningChoice("no_such_lining"), manning_n=None)
+    path = tmp_path / "odd.json"
+    P.save(P.Project(name="Invented", channels=[ch]), path)
+    assert main(["fingerprint", str(path)]) == 2
+    err = capsys.readouterr().err
+    assert "no_such_lining" in err and "Traceback" not in err and err.count("\n") == 1
+
+
+# ------------------------------------------------------------------ layout fallback and units in core sentences
+def test_long_comparison_stays_on_one_page(tmp_path):
+    from hydraulics.linings import load_catalogue
+
+    keys = [lin.key for lin in load_catalogue() if not lin.user_data]
+    ch = P.Channel(name="Many linings (invented)", flow=P.FlowBasis(value=0.5), slope=0.01,
+                   section={"shape": "trapezoid", "bottom_width": 0.6, "left_slope": 3.0, "right_slope": 3.0},
+                   lining=P.LiningChoice("riprap", 0.1), manning_n=None, bend_radius=20.0,
+                   alternatives=[P.LiningChoice(k) for k in keys if k != "riprap"])
+    data, _ = sheet_pdf(P.Project(name="Invented comparison", units="us", channels=[ch]))
+    out = tmp_path / "many.pdf"
+    out.write_bytes(data)
+    reader = PdfReader(out)
+    assert len(reader.pages) == 1
+    text = reader.pages[0].extract_text().replace("\n", " ")
+    from app.evaluate import evaluate_channel
+
+    names = [r.name for r in evaluate_channel(ch).comparison]
+    shown = [nm for nm in names if nm in text.split("CAUTIONS")[0]]
+    assert len(shown) == len(names), set(names) - set(shown)  # every lining is in a row or in the note
+
+
+def test_core_sentences_get_the_sheet_units():
+    from app.sheet.content import in_units
+    from hydraulics.units import system
+
+    us, si = system("us"), system("si")
+    # 1 Pa = 1 / 47.880 lb/ft^2 and 25 mm = 0.984 in (exact inch 25.4 mm; NIST SP 811, Appendix B.8)
+    assert in_units("soil permissible shear 1 Pa here", us) == "soil permissible shear 1 Pa (0.0209 lb/ft²) here"
+    assert in_units("D50 = 25 mm is small", us) == "D50 = 25 mm (0.984 in) is small"
+    assert in_units("the depth (0.5 m) is", us) == "the depth (0.5 m (1.64 ft)) is"
+    # equivalents already given are left alone, and an SI system is left as it is
+    for text in ("about 0.15 m (0.5 ft) for", "of 2 to 3 ft/s (0.6 to 0.9 m/s) (from memory)",
+                 "velocity 0.50 m/s (1.63 ft/s) is below", "5.42 min by Kirpich"):
+        assert in_units(text, us) == text
+    assert in_units("soil permissible shear 1 Pa, 25 900 N/m^3", si) == "soil permissible shear 1 Pa, 25 900 N/m³"
+    assert in_units("25 900 N/m^3", us) == "25 900 N/m³"  # a number with a thousands space is not split
+
+
+def _drawing_matches_tables(text: str) -> None:
+    """The drawing's labels print the same numbers as the tables (one rounding for each value)."""
+    flat = _flat(text)
+    drawing, tables = flat.split("INPUTS")[0], flat.split("INPUTS", 1)[1]
+    assert _number_after(drawing, "yn") == _number_after(tables, "Normal depth yn")
+    for in_drawing, in_table in (("top width", "Top width at top"), ("total depth", "Total depth"),
+                                 ("freeboard", "Freeboard"), ("yc", "Critical depth yc"), ("diameter D", "diameter D"),
+                                 ("b", "bottom width b")):
+        if re.search(r"(?<!\w)" + re.escape(in_drawing) + r"\s+[0-9]", drawing):  # a pipe has no total depth
+            assert _number_after(drawing, in_drawing) == _number_after(tables, in_table), in_drawing
+
+
+def test_drawing_labels_round_as_the_tables(pages, us_pages):
+    for text in [*pages.values(), *us_pages.values()]:
+        _drawing_matches_tables(text)
+    # the surveyed section: the top width is that at the top of the ditch, not the width of the survey (6.8 m)
+    assert _number_after(pages["Surveyed outfall channel"], "Top width at top")[0] < 6.8

@@ -502,3 +502,17 @@ def test_shear_checks_refuse_bad_input_naming_the_field(cat):
         with pytest.raises(InputError) as err:
             call()
         assert err.value.field == field
+
+
+def test_grass_on_a_surveyed_section_near_bank_full():
+    # The depth-dependent n is probed below the trial depth, so a flow close to bank-full is solved
+    # rather than refused for a probe above the bank.
+    import hydraulics as hy
+    from hydraulics.linings import load_catalogue
+    from hydraulics.stability import check_lining
+    ir = hy.Irregular([0, 2, 3, 4, 6], [1.1, 0.3, 0.0, 0.3, 1.1], n=0.04)
+    lining = load_catalogue().get("grass_good_sod")
+    rough = lining.roughness()
+    q = 0.999 * hy.max_flow(ir, 0.01, rough)
+    result = check_lining(ir, q, 0.01, lining)
+    assert 0 < result.depth <= ir.full_depth

@@ -22,7 +22,7 @@ def register(subparsers) -> None:
     p.add_argument("--max-depth", type=float, metavar="Y",
                    help="allowable flow depth, with --find bottom-width")
     p.add_argument("--find", choices=("bottom-width",),
-                   help="solve for the bottom width that keeps normal depth <= --max-depth")
+                   help="find the bottom width that keeps normal depth <= --max-depth")
     add_lining_options(p, many=False)
     p.add_argument("--json", action="store_true", help="print JSON instead of a table")
     p.set_defaults(run=run)

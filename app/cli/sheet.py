@@ -20,17 +20,23 @@ def register(subparsers) -> None:
     p.add_argument("-o", "--output", metavar="OUT.pdf", required=True, help="the PDF to write")
     p.add_argument("--sign", metavar="CERT.p12", help="sign with this PKCS#12 key file (PAdES)")
     p.add_argument("--page", choices=("letter", "a4"), default="letter", help="paper size (default letter)")
+    p.add_argument("--user-catalogue", metavar="FILE",
+                   help="your own lining catalogue (TOML) laid over the shipped one; the fingerprints printed "
+                        "include the lining entries used, so pass the same file to `ditchwright fingerprint`")
     p.set_defaults(run=run)
 
 
 def run(args) -> int:
     from ..sheet import SheetLayoutError, SigningError, export_sheets
+    from .lining_args import catalogue_from_args
 
     project = load_project(args.project)
     if not args.output.lower().endswith(".pdf"):
         raise CliError(f"-o must name a .pdf file, got {args.output!r}")
+    catalogue = catalogue_from_args(args)
     try:
-        notes = export_sheets(project, args.output, channels=args.channel, page=args.page, sign=args.sign)
+        notes = export_sheets(project, args.output, channels=args.channel, page=args.page, sign=args.sign,
+                              catalogue=catalogue)
     except KeyError as exc:
         raise CliError(exc.args[0]) from None
     except (SigningError, SheetLayoutError) as exc:

@@ -3,6 +3,10 @@
     from app.sheet import export_sheets
     export_sheets(project, "sheets.pdf", channels=["North roadside ditch"], page="letter")
     export_sheets(project, "signed.pdf", sign=("engineer.p12", password))
+    export_sheets(project, "sheets.pdf", catalogue=load_default_catalogue(user_path))
+
+Each sheet prints what :func:`app.evaluate.evaluate_channel` finds for its
+channel with the given lining catalogue (default: the shipped one).
 
 No Qt here: the desktop window and the command line both call this package.
 """
@@ -39,15 +43,19 @@ def _select(project, channels):
     return chosen
 
 
-def sheet_pdf(project, channels=None, page: str = "letter") -> tuple[bytes, list]:
+def sheet_pdf(project, channels=None, page: str = "letter", catalogue=None) -> tuple[bytes, list]:
     """The unsigned PDF bytes (one page per channel) and notes for the user (e.g. a missing logo)."""
     if page not in PAGES:
         raise ValueError(f"page must be one of {', '.join(PAGES)}, got {page!r}")
-    sheets = [channel_sheet(project, ch) for ch in _select(project, channels)]
+    if catalogue is None:
+        from ..evaluate import load_default_catalogue
+
+        catalogue = load_default_catalogue()
+    sheets = [channel_sheet(project, ch, catalogue) for ch in _select(project, channels)]
     return render(project, sheets, page)
 
 
-def export_sheets(project, path, channels=None, page: str = "letter", sign=None) -> list:
+def export_sheets(project, path, channels=None, page: str = "letter", sign=None, catalogue=None) -> list:
     """Write the design sheets of ``project`` to ``path`` (one PDF, one page per channel).
 
     Parameters
@@ -62,12 +70,17 @@ def export_sheets(project, path, channels=None, page: str = "letter", sign=None)
         The engineer's PKCS#12 file. With a bare path the password comes from
         DITCHWRIGHT_CERT_PASSWORD or is asked for at the terminal; a window
         asks for it itself and passes (path, password). It is never stored.
+    catalogue : hydraulics.linings.Catalogue, optional
+        The lining catalogue (``app.evaluate.load_default_catalogue(user_path)``
+        to include the user's); default the shipped one. The fingerprints
+        printed include the entries used, so ``ditchwright fingerprint`` needs
+        the same catalogue to reproduce them.
 
     Returns the notes for the user (empty when there is nothing to say).
     Raises KeyError (unknown channel), ValueError (bad page), hydraulics.InputError /
     NoSolutionError (the channel cannot be solved), SheetLayoutError, SigningError.
     """
-    data, notes = sheet_pdf(project, channels, page)
+    data, notes = sheet_pdf(project, channels, page, catalogue)
     if sign is not None:
         if isinstance(sign, (str, os.PathLike)):
             p12, password = sign, password_from_environment_or_prompt(sign)

@@ -1,39 +1,97 @@
 """What one design sheet says, as text in the project's units (no drawing here).
 
-The layout module places these strings; the tests read them back from the
-PDF. Every number carries its unit. Values are computed in SI by the core and
-converted only here, at the edge.
+The numbers come from the channel evaluation that the window and the command
+line share (:func:`app.evaluate.evaluate_channel`): the uniform flow
+(``ChannelDesign.analysis``), the lining check (``ChannelDesign.stability``, a
+:class:`hydraulics.stability.StabilityResult`) and the lining comparison
+(``ChannelDesign.comparison``). This module only words them in the project's
+unit system; the layout module places the strings and the tests read them
+back from the PDF. Values are SI in the core and converted only here.
+
+Rounding: outside the hand check every value is printed to three significant
+figures (the rounding the core uses in its own sentences, such as the
+verdict's reason), Manning's n to four and safety factors to two decimals,
+so that a value reads the same in the drawing, the tables and the reason. The
+hand check carries four to five figures, so that a checker can redo it with a
+calculator.
 """
 
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass, field
+import re
+
+import numpy as np
+from dataclasses import dataclass
 
 import hydraulics as hy
 from hydraulics import units as hu
-from hydraulics.rational import kirpich_time, kirpich_warnings, rational_warnings
+from hydraulics.linings import Catalogue, hec15
+from hydraulics.stability import (FREEBOARD_SOURCE, LINED_WIDTH_RULE, SUPERELEVATION_SOURCE, StabilityResult,
+                                  format_quantity)
 
 from .. import __version__
-from .check import Evaluation, catalogue_lining, evaluate
+from ..evaluate import ChannelDesign, design_flow, evaluate_channel, load_default_catalogue
 from .fingerprint import fingerprint
 
 #: Customary Manning constant, (1 m / 1 ft)^(1/3) = 1.4859 (Chow 1959, Sec. 5-6).
 K_US = (1 / hu.FOOT) ** (1 / 3)
 G_US = hy.G / hu.FOOT  # 32.174 ft/s^2
+#: Significant figures of every printed value outside the hand check.
+FIGURES = 3
 
 CAUTIONS = (
-    "Design assistance only. The results follow the methods named on this sheet; they must be checked "
-    "against the governing local drainage code and by a licensed professional engineer, who is "
-    "responsible for the design.",
-    "Uniform (normal) flow is assumed: the slope, section and lining hold long enough for the flow to "
-    "reach normal depth. Backwater, inlets, outlets, transitions and junctions are not analysed.",
+    "Design assistance only: check these results against the governing local drainage code; a licensed "
+    "professional engineer is responsible for the design.",
+    "Uniform (normal) flow is assumed; backwater, inlets, outlets, transitions and junctions are not analysed.",
 )
+
+VERDICTS = {"stable": "STABLE", "not stable": "NOT STABLE", "non-erodible": "NON-ERODIBLE"}
+ORIGIN_WORDS = {"shipped": "shipped entry", "user": "user catalogue entry",
+                "user override": "shipped entry changed by the user catalogue"}
 
 
 def pretty_unit(label: str) -> str:
     """'ft^3/s' -> 'ft³/s', 'm^2' -> 'm²' (the sheet font has the superscripts)."""
     return label.replace("^2", "\u00b2").replace("^3", "\u00b3")
+
+
+# SI amounts in the core's sentences ("1 Pa", "25 mm", "0.5 m"), for annotating them on a US sheet.
+_SI_AMOUNT = re.compile(r"(?<![\w.])(?<!\d )(\d+(?:\.\d+)?)\s(m\^3/s|m/s|mm|m|Pa|N/m\^3)(?![\w^/])")
+_SI_QUANTITY = {"m^3/s": "flow", "m/s": "velocity", "mm": "small_length", "m": "length", "Pa": "shear",
+                "N/m^3": "unit_weight"}
+_SI_FACTOR = {"mm": 1e-3}
+_US_AMOUNT_END = re.compile(r"\d\s(ft|in|ft/s|lb/ft\^2|ft\^3/s|lb/ft\^3)\s*$")
+
+
+def in_units(text: str, units: hu.UnitSystem) -> str:
+    """A sentence of the core (worded in SI) for a sheet in ``units``.
+
+    On a US sheet each SI amount gets its US equivalent beside it, "1 Pa"
+    -> "1 Pa (0.0209 lb/ft²)", unless the sentence already gives one
+    ("0.15 m (0.5 ft)") or the amount is itself the equivalent of a US value
+    ("2 ft/s (0.6 m/s)"). Unit powers are written as superscripts.
+    """
+    if units.key != "si":
+        def annotate(m):
+            if text.startswith(" (", m.end()):
+                return m.group(0)  # the sentence gives an equivalent already
+            before = text[:m.start()]
+            opened = before.rfind("(")
+            if opened > before.rfind(")") and _US_AMOUNT_END.search(before[:opened]):
+                return m.group(0)  # inside the parentheses after a US amount: it is the equivalent
+            quantity = _SI_QUANTITY[m.group(2)]
+            value = float(m.group(1)) * _SI_FACTOR.get(m.group(2), 1.0)
+            return f"{m.group(0)} ({_sig(units.from_si(quantity, value), FIGURES)} {units.label(quantity)})"
+        text = _SI_AMOUNT.sub(annotate, text)
+    return pretty_unit(text)
+
+
+def sentence(text: str, units: hu.UnitSystem) -> str:
+    """A core sentence as a sheet line: in the sheet's units, capital first letter, full stop."""
+    text = in_units(text.strip(), units)
+    text = text[:1].upper() + text[1:]
+    return text if text.endswith(".") else text + "."
 
 
 @dataclass
@@ -43,41 +101,63 @@ class Item:
 
 
 @dataclass
-class ComparisonRow:
+class CheckRow:
+    """One line of the shear-check table, as printed."""
+
+    location: str
+    basis: str
+    design: str
+    permissible: str
+    safety_factor: str
+    required: str
+    result: str
+
+
+@dataclass
+class ComparisonLine:
+    """One lining of the comparison table, as printed."""
+
     lining: str
     n: str
     depth: str
     velocity: str
-    shear: str          # governing design shear / permissible
+    froude: str
+    design: str
+    permissible: str
     safety_factor: str
     verdict: str
+    lined_width: str
+    layer_volume: str
     cost: str
 
 
 @dataclass
 class ChannelSheet:
-    """Everything printed for one channel."""
+    """Everything printed for one channel, and the evaluation it was worded from."""
 
     project: str
     channel: str
     location: str
     units: hu.UnitSystem
+    format: "Formatter"
     fingerprint: str
     version: str
-    inputs: list
-    results: list
-    stability: list | None          # Item list; None when the lining was not checked
-    stability_note: str
-    verdict: str                    # "STABLE", "NOT STABLE" or "NOT CHECKED"
+    catalogue: str                  # which lining catalogue the sheet used, in words
+    inputs: list                    # Item list
+    results: list                   # Item list
+    checks: list                    # CheckRow list (empty without a lining)
+    lining_items: list              # Item list under the shear checks (stone: Table 6.1, required D50, layer)
+    depth_items: list               # Item list: freeboard, bend, total depth, top width, quantities
+    verdict: str                    # "STABLE", "NOT STABLE", "NON-ERODIBLE" or "NOT CHECKED"
     verdict_reason: str
     hand_check: list                # lines of text
-    comparison: list | None         # ComparisonRow list, or None when there are no alternatives
-    comparison_note: str
-    cautions: list
-    evaluation: Evaluation
-    section: hy.Section
-    slope: float
-    flow: float
+    comparison: list | None         # ComparisonLine list, or None when there are no alternatives
+    comparison_notes: list          # footnotes of the comparison
+    comparison_priced: bool         # a cost column is printed
+    cautions: list                  # sentences
+    sources: list                   # "[1] Manning n: ..." lines the items refer to
+    design: ChannelDesign
+    roughness: object               # the n the solver used: a float or a depth-dependent model
     lining_label: str
     thickness: float | None         # [m]
 
@@ -91,90 +171,162 @@ class Formatter:
     def unit(self, quantity: str) -> str:
         return pretty_unit(self.units.label(quantity))
 
-    def number(self, value_si: float, quantity: str, figures: int = 3) -> str:
+    def number(self, value_si: float, quantity: str, figures: int = FIGURES) -> str:
         """The value in display units to ``figures`` significant figures."""
         return _sig(float(self.units.from_si(quantity, value_si)), figures)
 
-    def __call__(self, value_si: float, quantity: str, figures: int = 3) -> str:
+    def __call__(self, value_si: float, quantity: str, figures: int = FIGURES) -> str:
         return f"{self.number(value_si, quantity, figures)} {self.unit(quantity)}"
+
+    def stone(self, value_si: float) -> str:
+        """A stone size or layer thickness: in the length unit (as in the verdict's reason) and in in / mm."""
+        return f"{self(value_si, 'length')} ({self(value_si, 'small_length')})"
+
+    def shear(self, value_si) -> str:
+        return "\u2014" if value_si is None else self(value_si, "shear")
 
 
 def _sig(x: float, figures: int = 4) -> str:
     """A number to ``figures`` significant figures, without exponent for ordinary sizes."""
+    x = float(x)
     if x == 0 or not math.isfinite(x):
         return f"{x:g}"
     digits = max(0, figures - 1 - int(math.floor(math.log10(abs(x)))))
     return f"{x:.{digits}f}"
 
 
+def n_text(n: float) -> str:
+    """Manning's n as printed everywhere on the sheet: four significant figures, as the evaluation's notes."""
+    return f"{float(n):.4g}"
+
+
 def _slope_text(s: float) -> str:
     return f"{_sig(s, 3)} ({_sig(s * 100, 3)} %)"
 
 
-def _slope_with_unit(s: float, f: "Formatter") -> str:
+def _slope_with_unit(s: float, f: Formatter) -> str:
     return f"{_sig(s, 3)} {f.unit('slope')} ({_sig(s * 100, 3)} %)"
 
 
+def _sf(value) -> str:
+    return "\u2014" if value is None else f"{value:.2f}"
+
+
+# ------------------------------------------------------------------ inputs
 def section_description(section: hy.Section, f: Formatter) -> list:
     """Items describing the section's shape and dimensions."""
     kind = section.kind
-    items = [Item("Section", {"trapezoid": "Trapezoid", "triangle": "V-ditch (triangle)", "rectangle": "Rectangle",
-                              "parabola": "Parabolic swale", "circle": "Circular pipe",
-                              "irregular": "Surveyed (irregular)"}[kind])]
+    parts = [{"trapezoid": "trapezoid", "triangle": "V-ditch (triangle)", "rectangle": "rectangle",
+              "parabola": "parabolic swale", "circle": "circular pipe", "irregular": "surveyed (irregular)"}[kind]]
     if kind in ("trapezoid", "rectangle"):
-        items.append(Item("Bottom width b", f(section.bottom_width, "length", 3)))
+        parts.append(f"bottom width b {f(section.bottom_width, 'length')}")
     if section.side_slopes is not None and kind != "rectangle":
         z1, z2 = section.side_slopes
-        if z1 == z2:
-            items.append(Item("Side slopes z", f"{z1:g}H:1V both sides"))
-        else:
-            items.append(Item("Side slopes z1, z2", f"{z1:g}H:1V left, {z2:g}H:1V right"))
+        parts.append(f"side slopes {z1:g}H:1V both sides" if z1 == z2 else
+                     f"side slopes {z1:g}H:1V left, {z2:g}H:1V right")
     if kind == "parabola":
-        items.append(Item("Top width", f"{f(section.top_width_ref, 'length', 3)} at depth "
-                                       f"{f(section.at_depth, 'length', 3)}"))
+        parts.append(f"top width {f(section.top_width_ref, 'length')} at depth {f(section.at_depth, 'length')}")
     if kind == "circle":
-        items.append(Item("Diameter D", f(section.diameter, "length", 3)))
+        parts.append(f"diameter D {f(section.diameter, 'length')}")
     if kind == "irregular":
-        items.append(Item("Survey points", f"{len(section.stations)}; bank height {f(section.full_depth, 'length', 3)}"))
+        parts.append(f"{len(section.stations)} survey points, bank height {f(section.full_depth, 'length')}")
+    return [Item("Section", ", ".join(parts))]
+
+
+def flow_items(design: ChannelDesign, f: Formatter) -> list:
+    """Items for the design flow and its basis."""
+    basis = design.channel.flow
+    q = design.flow
+    if basis.method != "rational":
+        return [Item("Design flow Q", f"{f(q, 'flow')} (typed in the project)")]
+    items = [Item("Design flow Q", f"{f(q, 'flow')} by the rational method Q = C i A: runoff coefficient C "
+                                   f"{basis.runoff_coefficient:.2f}, rainfall intensity i {f(basis.intensity, 'intensity')}, "
+                                   f"drainage area A {f(basis.area, 'drainage_area')}")]
+    if design.time_of_concentration is not None:
+        items.append(Item("Time of concentration", f"{design.time_of_concentration / 60:.1f} min (Kirpich; L = "
+                                                   f"{f(basis.flow_length, 'length')}, S = "
+                                                   f"{_slope_text(basis.flow_path_slope)}); read i for this "
+                                                   "duration"))
     return items
 
 
-def flow_items(channel, f: Formatter) -> tuple[list, list]:
-    """Items for the design flow and its basis, and the cautions it raises."""
-    q = channel.design_flow()
-    basis = channel.flow
-    notes = []
-    if basis.method == "rational":
-        items = [Item("Design flow Q", f"{f(q, 'flow', 4)} (rational method, Q = C i A)"),
-                 Item("Runoff coefficient C", f"{basis.runoff_coefficient:.2f}"),
-                 Item("Rainfall intensity i", f(basis.intensity, "intensity", 3)),
-                 Item("Drainage area A", f(basis.area, "drainage_area", 3))]
-        notes += rational_warnings(basis.area)
-        if basis.flow_length is not None and basis.flow_path_slope is not None:
-            tc = kirpich_time(basis.flow_length, basis.flow_path_slope)
-            items.append(Item("Time of concentration", f"{tc / 60:.1f} min (Kirpich; L = "
-                                                       f"{f(basis.flow_length, 'length', 3)}, "
-                                                       f"S = {_slope_text(basis.flow_path_slope)})"))
-            notes += kirpich_warnings(basis.flow_path_slope, basis.area)
+def _lining_text(st: StabilityResult, f: Formatter) -> str:
+    return st.lining_name + (f", D50 {f.stone(st.d50)}" if st.d50 is not None else "")
+
+
+def _typed_n_words(ch, section) -> str:
+    """The Manning's n of a channel without a lining: typed, or a surveyed section's own n per segment."""
+    if ch.manning_n is not None:
+        return f"{n_text(ch.manning_n)} (typed in the project)"
+    per_segment = np.atleast_1d(np.asarray(section.n, float))
+    if np.all(per_segment == per_segment[0]):
+        return f"{n_text(per_segment[0])} (the survey's own, on every segment)"
+    values = ", ".join(n_text(v) for v in per_segment)
+    return (f"the survey's own, per segment: {values}; composite n by Horton and Einstein "
+            "(Chow 1959, Sec. 6-6, from memory)")
+
+
+def input_items(design: ChannelDesign, f: Formatter, lining=None, catalogue_text: str = "",
+                src: "Sources | None" = None) -> list:
+    """Items for the inputs; with a lining, its catalogue entry and the sources of its values."""
+    ch, st = design.channel, design.stability
+    items = [*flow_items(design, f), Item("Bed slope S", _slope_with_unit(ch.slope, f)),
+             *section_description(design.section, f)]
+    if st is not None:
+        origin = ORIGIN_WORDS.get(lining.origin, lining.origin)
+        refs = [f"n {src.ref('Manning n', in_units(st.n_source, f.units))}"]
+        if st.permissible_shear is not None:
+            refs.append(f"\u03c4p {src.ref('permissible shear', in_units(st.permissible_source, f.units))}")
+        if st.layer_thickness is not None:
+            refs.append(f"layer {src.ref('layer thickness', in_units(st.thickness_rule, f.units))}")
+        items.append(Item("Lining", f"{_lining_text(st, f)}; {origin} '{st.lining_key}'; sources {', '.join(refs)}"))
     else:
-        items = [Item("Design flow Q", f"{f(q, 'flow', 4)} (typed in the project)")]
-    return items, notes
+        items.append(Item("Lining", "none chosen"))
+        items.append(Item("Manning's n", _typed_n_words(ch, design.section)))
+    if ch.bend_radius is not None:
+        items.append(Item("Bend radius Rc", f(ch.bend_radius, "length")))
+    min_fb = hec15.MIN_FREEBOARD if ch.min_freeboard is None else ch.min_freeboard
+    items += [Item("Minimum freeboard", f(min_fb, "length")),
+              Item("Unit system", f.units.name)]
+    return items
 
 
+def result_items(design: ChannelDesign, f: Formatter, n_ref: str = "") -> list:
+    """The uniform-flow results; ``n_ref`` points to the source of the lining's n ("[1]")."""
+    r, st = design.analysis, design.stability
+    if st is not None:
+        n = f"{n_text(float(r.manning_n))} {n_ref}"
+    else:
+        n = f"{n_text(float(r.manning_n))} ({'typed' if design.channel.manning_n is not None else 'composite'})"
+    return [  # printed two to a row, in this order
+        Item("Normal depth yn", f(r.normal_depth, "length")),
+        Item("Critical depth yc", f(r.critical_depth, "length")),
+        Item("Velocity V", f(r.velocity, "velocity")),
+        Item("Froude number Fr", f"{float(r.froude):.2f}"),
+        Item("Flow regime", str(r.regime)),
+        Item("Critical slope Sc", f"{_sig(float(r.critical_slope), FIGURES)} {f.unit('slope')}"),
+        Item("Flow area A", f(r.area, "area")),
+        Item("Top width T", f(r.top_width, "length")),
+        Item("Hydraulic radius R", f(r.hydraulic_radius, "length")),
+        Item("Manning's n used", n),
+    ]
+
+
+# ------------------------------------------------------------------ hand check
 def rational_check(basis, flow: float, f: Formatter) -> str:
     """Q = C i A with the numbers in and the factor of the display units written out."""
     i = f.units.from_si("intensity", basis.intensity)
     a = f.units.from_si("drainage_area", basis.area)
     factor = f.units.unit("intensity").factor * f.units.unit("drainage_area").factor / f.units.unit("flow").factor
     units = f"{f.unit('intensity')} \u00d7 {f.unit('drainage_area')} \u2192 {f.unit('flow')}"
-    return (f"Q = C i A u = {basis.runoff_coefficient:.2f} \u00d7 {_sig(i, 3)} \u00d7 {_sig(a, 3)} \u00d7 {_sig(factor, 5)}"
+    return (f"Q = C i A u = {basis.runoff_coefficient:.2f} \u00d7 {_sig(i, 4)} \u00d7 {_sig(a, 4)} \u00d7 {_sig(factor, 5)}"
             f" = {f.number(flow, 'flow', 4)} {f.unit('flow')} (u = {_sig(factor, 5)} for {units})")
 
 
-def hand_check(section: hy.Section, ev: Evaluation, flow: float, slope: float, f: Formatter,
-               basis=None) -> list:
+def hand_check(design: ChannelDesign, f: Formatter) -> list:
     """Lines a checker can verify with a calculator, in the sheet's units."""
-    r = ev.result
+    r, section, slope, flow = design.analysis, design.section, design.channel.slope, design.flow
+    basis = design.channel.flow
     us = f.units.key == "us"
     L, A2 = f.unit("length"), f.unit("area")
     y = f.units.from_si("length", r.normal_depth)
@@ -184,7 +336,7 @@ def hand_check(section: hy.Section, ev: Evaluation, flow: float, slope: float, f
     q = f.units.from_si("flow", flow)
     n = float(r.manning_n)
     k = K_US if us else 1.0
-    lines = [rational_check(basis, flow, f)] if basis is not None and basis.method == "rational" else []
+    lines = [rational_check(basis, flow, f)] if basis.method == "rational" else []
     lines.append(f"At the normal depth y = {_sig(y, 4)} {L}:")
     if section.side_slopes is not None:
         b = f.units.from_si("length", section.bottom_width)
@@ -212,157 +364,256 @@ def hand_check(section: hy.Section, ev: Evaluation, flow: float, slope: float, f
     lines += [
         f"R = A / P = {_sig(area, 5)} / {_sig(perim, 5)} = {_sig(radius, 4)} {L}",
         f"A R^(2/3) = {_sig(area, 5)} \u00d7 {_sig(radius, 4)}^(2/3) = {_sig(factor, 5)} {exponent}",
-        f"Q n / (k \u221aS) = {_sig(q, 4)} \u00d7 {n:.4f} / ({k:.4f} \u00d7 \u221a{slope:g}) = {_sig(target, 5)} {exponent}",
+        f"Q n / (k \u221aS) = {_sig(q, 4)} \u00d7 {n_text(n)} / ({k:.4f} \u00d7 \u221a{slope:g}) = {_sig(target, 5)} {exponent}",
         f"{delta_text} (k = {k:.4f}{' = (1/0.3048)^(1/3), US units' if us else ', SI'})",
     ]
-    gamma = f.units.from_si("unit_weight", hy.GAMMA_WATER)
-    tau = f.units.from_si("shear", r.bed_shear)
-    lines.append(f"\u03c4 = \u03b3 d S = {_sig(gamma, 4)} {f.unit('unit_weight')} \u00d7 {_sig(y, 4)} {L} \u00d7 {slope:g}"
-                 f" = {_sig(tau, 3)} {f.unit('shear')}")
     v = f.units.from_si("velocity", r.velocity)
     top = f.units.from_si("length", r.top_width)
     g = G_US if us else hy.G
     lines.append(f"V = Q / A = {_sig(q, 4)} / {_sig(area, 5)} = {_sig(v, 4)} {f.unit('velocity')}")
     lines.append(f"Fr = V / \u221a(g A / T) = {_sig(v, 4)} / \u221a({_sig(g, 5)} \u00d7 {_sig(area, 5)} / {_sig(top, 4)})"
                  f" = {float(r.froude):.3f}")
+    gamma = f.units.from_si("unit_weight", hy.GAMMA_WATER)
+    tau_si = float(r.bed_shear) if design.stability is None else design.stability.bed_shear
+    tau = f.units.from_si("shear", tau_si)
+    T = f.unit("shear")
+    lines.append(f"\u03c4d = \u03b3 d S = {_sig(gamma, 4)} {f.unit('unit_weight')} \u00d7 {_sig(y, 4)} {L} \u00d7 {slope:g}"
+                 f" = {_sig(tau, 4)} {T} (HEC-15 Eq. 3.1)")
+    st = design.stability
+    if st is not None:
+        gov = st.governing_check()
+        if gov is not None and gov.permissible_shear is not None and gov.method != "appendix_d" and gov.design_shear > 0:
+            tp = f.units.from_si("shear", gov.permissible_shear)
+            td = f.units.from_si("shear", gov.design_shear)
+            lines.append(f"SF = \u03c4p / \u03c4 = {_sig(tp, 4)} / {_sig(td, 4)} = {tp / td:.2f} ({gov.location}, "
+                         f"{gov.required_safety_factor:.2f} required)")
     return lines
 
 
-def _stability_items(ev: Evaluation, f: Formatter) -> list:
-    c = ev.check
-    items = [Item("Lining", c.lining_name), Item("Values from", c.source)]
-    for s in c.shears:
-        rel = f" ({s.relation})" if s.relation else ""
-        op = "\u2264" if s.design <= s.permissible else ">"
-        items.append(Item(f"Shear, {s.where}", f"\u03c4 {f.number(s.design, 'shear', 3)} {op} "
-                                                f"\u03c4p {f(s.permissible, 'shear', 3)}{rel}"))
-    items.append(Item("Safety factor", f"{c.safety_factor:.2f} (required \u2265 {c.required_safety_factor:.2f})"))
-    if c.thickness is not None:
-        items.append(Item("Lining thickness", f(c.thickness, "small_length", 3)))
+# ------------------------------------------------------------------ stability
+class Sources:
+    """The numbered sources printed at the foot of the sheet; items refer to them as [1], [2], ..."""
+
+    def __init__(self):
+        self.lines: list = []
+
+    def ref(self, what: str, text: str) -> str:
+        line = f"{what}: {text}"
+        if line not in self.lines:
+            self.lines.append(line)
+        return f"[{self.lines.index(line) + 1}]"
+
+    def printed(self) -> list:
+        return [f"[{i}] {line}" for i, line in enumerate(self.lines, start=1)]
+
+
+def _check_rows(st: StabilityResult, f: Formatter) -> list:
+    rows = []
+    for c in st.checks:
+        basis = c.factor + ("; HEC-15 Appendix D" if c.method == "appendix_d" and "Appendix D" not in c.factor else "")
+        if c.cannot_rest:
+            result = "FAILS: stone cannot rest on this slope"
+        elif c.permissible_shear is None:
+            result = "non-erodible"
+        else:
+            result = "passes" if c.passes else "FAILS"
+        rows.append(CheckRow(location=c.location, basis=pretty_unit(basis), design=f.number(c.design_shear, "shear"),
+                             permissible=("non-erodible" if c.permissible_shear is None
+                                          else f.number(c.permissible_shear, "shear")),
+                             safety_factor=_sf(c.safety_factor),
+                             required="\u2014" if c.permissible_shear is None else f"{c.required_safety_factor:.2f}",
+                             result=result))
+    return rows
+
+
+_REQUIRED_METHOD = {"eq_6_8": "HEC-15 Eq. 6.8",
+                    "appendix_d": "HEC-15 Eq. 6.8, Appendix D on the side slopes"}
+
+
+def _stone_items(st: StabilityResult, f: Formatter) -> list:
+    """What the stability block adds for stone: Table 6.1's factors, the required D50, the layer, the filter."""
+    items = []
+    if st.category == "stone":
+        if st.required_d50 is None:
+            items.append(Item("Required D50", "no stone size is stable here (see the cautions)"))
+        else:
+            parts = [f"{where} {f(v, 'length')}" for where, v in (("bed", st.required_d50_bed),
+                                                                  ("side slopes", st.required_d50_side),
+                                                                  ("bend", st.required_d50_bend)) if v is not None]
+            method = _REQUIRED_METHOD.get(st.required_d50_method, st.required_d50_method or "")
+            depth = "" if st.required_d50_depth is None else f" at depth {f(st.required_d50_depth, 'length')}"
+            enough = "given D50 enough" if st.d50 >= st.required_d50 else "given D50 too small"
+            items.append(Item("Required D50", f"{f.stone(st.required_d50)} smallest stable, {enough} "
+                                              f"({', '.join(parts)}{depth}; {method})"))
+    parts = []
+    if st.reynolds is not None:
+        parts.append(f"particle Reynolds number Re* {_sig(st.reynolds, 3)}: F* {st.shields:.3f}, SF required "
+                     f"{st.required_safety_factor:.2f} (HEC-15 Table 6.1)")
+    if st.layer_thickness is not None and st.category == "stone":
+        parts.append(f"layer thickness t {f.stone(st.layer_thickness)}")
+    if parts:
+        items.append(Item("Stone and layer", "; ".join(parts)))
     return items
 
 
-def comparison_rows(channel, f: Formatter) -> tuple[list | None, str]:
-    """One row per lining (the chosen one first, then the alternatives), or None without alternatives."""
-    if not channel.alternatives:
-        return None, ""
-    rows, unchecked = [], []
-    for choice in [channel.lining, *channel.alternatives]:
-        if choice is None:
-            continue
-        try:
-            ev = evaluate(channel, choice)
-        except hy.HydraulicsError as exc:
-            rows.append(ComparisonRow(choice.key, "", "", "", "", "", f"no solution: {exc}", ""))
-            continue
-        c = ev.check
-        if c is None:
-            entry = catalogue_lining(choice)
-            unchecked.append(entry.name if entry is not None else choice.key)
-            continue
-        gov = min(c.shears, key=lambda s: s.safety_factor) if c.shears else None
-        cost = "" if c.cost_per_length is None else f"{f.units.from_si('cost_per_length', c.cost_per_length):.2f} " \
-                                                    f"{f.unit('cost_per_length')}"
-        rows.append(ComparisonRow(
-            lining=c.lining_name, n=f"{float(ev.result.manning_n):.3f}", depth=f(ev.design_depth, "length", 3),
-            velocity=f(ev.result.velocity, "velocity", 3),
-            shear="" if gov is None else f"{f.number(gov.design, 'shear', 3)} / {f(gov.permissible, 'shear', 3)}",
-            safety_factor=f"{c.safety_factor:.2f}", verdict="stable" if c.stable else "not stable", cost=cost))
-    note = ""
-    if unchecked:
-        note = ("Alternatives named in the project but not compared, because this version of the program has "
-                "no lining stability check: " + "; ".join(unchecked) + ".")
-    return rows, note
+def freeboard_rule(design: ChannelDesign, f: Formatter) -> str:
+    """The freeboard rule in the sheet's units (the lining check's own words when there is one)."""
+    if design.stability is not None:
+        return in_units(design.stability.freeboard_rule(f.units), f.units)
+    ch = design.channel
+    min_fb = hec15.MIN_FREEBOARD if ch.min_freeboard is None else ch.min_freeboard
+    text = f"minimum freeboard {format_quantity(min_fb, 'length', f.units)} ({FREEBOARD_SOURCE})"
+    if design.superelevation is not None:
+        text += f", plus {format_quantity(design.superelevation, 'length', f.units)} {SUPERELEVATION_SOURCE}"
+    return in_units(text, f.units)
 
 
-def channel_sheet(project, channel) -> ChannelSheet:
-    """Compute and word everything printed for ``channel`` of ``project``."""
+def _depth_items(design: ChannelDesign, f: Formatter, src: Sources) -> list:
+    st, ch = design.stability, design.channel
+    min_fb = hec15.MIN_FREEBOARD if ch.min_freeboard is None else ch.min_freeboard
+    fb = f"{f(design.freeboard, 'length')}"
+    if design.superelevation is not None:
+        fb += f" = minimum {f(min_fb, 'length')} + superelevation {f(design.superelevation, 'length')}"
+    else:
+        fb += ", the minimum"
+    items = [Item("Freeboard", f"{fb} {src.ref('freeboard', freeboard_rule(design, f))}")]
+    if ch.bend_radius is not None and st is not None and st.bend_factor is not None:
+        text = f"Rc {f(ch.bend_radius, 'length')}, Kb {st.bend_factor:.3f}"
+        if st.bend_protection_length is not None:
+            lp_source = src.ref("bend protection", "Lp = 0.736 R^(7/6) / n (SI), HEC-15 Section 3.4 (from memory)")
+            text += f"; protect {f(st.bend_protection_length, 'length')} downstream {lp_source}"
+        items.append(Item("Bend", text))
+    items.append(Item("Total depth", f"{f(design.total_depth, 'length')} (yn + freeboard)"))
+    items.append(Item("Top width at top", f(design.top_width_at_top, "length")))
+    if st is not None:
+        text = f"{f(st.lined_width, 'length')} per {f.unit('length')} of channel"
+        if st.layer_volume is not None:
+            text += f"; layer {f(st.layer_volume, 'volume_per_length')}"
+        if st.cost_per_length is not None:
+            text += f"; cost {f.number(st.cost_per_length, 'cost_per_length')} {f.unit('cost_per_length')}"
+        items.append(Item("Lined width", text))
+    return items
+
+
+# ------------------------------------------------------------------ comparison
+def comparison_lines(design: ChannelDesign, f: Formatter) -> tuple[list | None, list, bool]:
+    """One line per lining (the channel's own first), footnotes, and whether any is priced."""
+    rows = design.comparison
+    if not rows:
+        return None, [], False
+    priced = any(r.cost_per_length is not None for r in rows)
+    own = design.channel.lining.key if design.channel.lining is not None else None
+    lines, notes, seen = [], [], set()
+    for i, r in enumerate(rows):
+        if (r.key, r.d50) in seen:  # an alternative that repeats the channel's lining or another alternative
+            continue
+        seen.add((r.key, r.d50))
+        name = r.name + (f", D50 {f.stone(r.d50)}" if r.d50 is not None else "")
+        if i == 0 and own is not None and r.key == own:
+            name = "* " + name
+        if r.error is not None:
+            lines.append(ComparisonLine(name, *["\u2014"] * 7, "no solution", "\u2014", "\u2014", "\u2014"))
+            notes.append(f"{r.name}: {in_units(r.error, f.units)}")
+            continue
+        verdict = r.verdict + ("" if r.governs in (None, "non-erodible") else f" ({r.governs})")
+        if r.required_d50 is not None and r.d50 is not None and r.required_d50 > r.d50:
+            verdict += f"; needs D50 \u2265 {f(r.required_d50, 'length')}"
+        sf = "\u2014" if r.safety_factor is None else f"{r.safety_factor:.2f} / {r.required_safety_factor:.2f}"
+        lines.append(ComparisonLine(
+            lining=name, n=n_text(r.manning_n), depth=f.number(r.depth, "length"),
+            velocity=f.number(r.velocity, "velocity"), froude=f"{r.froude:.2f}",
+            design=f.number(r.design_shear, "shear"),
+            permissible="non-erodible" if r.permissible_shear is None else f.number(r.permissible_shear, "shear"),
+            safety_factor=sf, verdict=verdict, lined_width=f.number(r.lined_width, "length"),
+            layer_volume="\u2014" if r.layer_volume is None else f.number(r.layer_volume, "volume_per_length"),
+            cost="\u2014" if r.cost_per_length is None else f"{f.units.from_si('cost_per_length', r.cost_per_length):.2f}"))
+    text = ("* the channel's lining, then the alternatives named in the project. " if own is not None else "")
+    text += (f"\u03c4, \u03c4p and SF of the governing check (the bed for a non-erodible lining). Lined width: "
+             f"{in_units(LINED_WIDTH_RULE, f.units)}; layer = lined width \u00d7 layer thickness, per "
+             f"{f.unit('length')} of channel.")
+    if not priced:
+        text += " No cost column: no lining compared has a unit cost (unit_cost in a user catalogue)."
+    notes.insert(0, text)
+    return lines, notes, priced
+
+
+# ------------------------------------------------------------------ the sheet
+def _notes_printed_elsewhere(design: ChannelDesign) -> set:
+    """The evaluation's notes that the sheet already prints in its own blocks, in the sheet's units."""
+    return {LINED_WIDTH_RULE, *design_flow(design.channel)[3]}
+
+
+def cautions(design: ChannelDesign, f: Formatter) -> list:
+    """The fixed cautions, then the evaluation's warnings and its notes not printed elsewhere on the sheet."""
+    out = list(CAUTIONS)
+    out += [sentence(w, f.units) for w in design.warnings]
+    skip = _notes_printed_elsewhere(design)
+    out += ["Note: " + sentence(n, f.units) for n in design.notes
+            if n not in skip and not n.startswith("freeboard: ")]
+    return list(dict.fromkeys(out))
+
+
+def catalogue_words(catalogue: Catalogue) -> str:
+    """'linings.toml 1.0.0' or 'linings.toml + prices.toml 1.0.0' (the shipped catalogue's version)."""
+    version = f" {catalogue.catalogue_version}" if catalogue.catalogue_version else ""
+    return f"{catalogue.origin}{version}"
+
+
+def channel_sheet(project, channel, catalogue: Catalogue | None = None) -> ChannelSheet:
+    """Evaluate ``channel`` of ``project`` and word everything printed for it.
+
+    ``catalogue`` is the lining catalogue (default: the shipped one); pass the
+    same one to :func:`app.sheet.fingerprint.fingerprint` to recompute the
+    printed fingerprint.
+    """
+    if catalogue is None:
+        catalogue = load_default_catalogue()
     units = hu.system(project.units)
     f = Formatter(units)
-    section = channel.build_section()
-    flow = channel.design_flow()
-    ev = evaluate(channel)
-    r = ev.result
-    check = ev.check
+    design = evaluate_channel(channel, catalogue)
+    st = design.stability
+    cat_text = catalogue_words(catalogue)
+    src = Sources()
 
-    flow_rows, flow_notes = flow_items(channel, f)
-    lining = channel.lining
-    entry = catalogue_lining(lining) if lining is not None else None
-    lining_rows = []
-    if check is not None:
-        lining_text = check.lining_name
-        lining_rows.append(Item("Lining values from", check.source))
-    elif entry is not None:
-        lining_text = entry.name + (f", D50 {f(entry.d50, 'small_length', 3)}" if entry.d50 else "")
-        lining_rows.append(Item("Lining n from", entry.roughness_source))
-        if channel.manning_n is not None:
-            lining_rows.append(Item("n override", f"{channel.manning_n:g} typed in the project is used "
-                                                  "instead of the catalogue's"))
-        lining_rows.append(Item("Permissible shear from", entry.permissible_source))
-    elif lining is not None:
-        lining_text = f"{lining.key} (not in the lining catalogue)"
-        lining_rows.append(Item("Lining values from", "n typed in the project"))
+    if st is not None:
+        lining = catalogue.get(st.lining_key)
+        inputs = input_items(design, f, lining, cat_text, src)  # first: it numbers the lining's sources
+        n_ref = src.ref("Manning n", in_units(st.n_source, units))  # the number given in the inputs
+        roughness = lining.roughness(st.d50)
+        checks = _check_rows(st, f)
+        lining_items = _stone_items(st, f)
+        verdict = VERDICTS[st.verdict]
+        reason = in_units(st.reason(units), units)
+        lining_label = _lining_text(st, f)
+        thickness = st.layer_thickness
     else:
-        lining_text = "none given"
-        lining_rows.append(Item("Lining values from", "n typed in the project"))
-    inputs = [*flow_rows,
-              Item("Bed slope S", _slope_with_unit(channel.slope, f)),
-              *section_description(section, f),
-              Item("Lining", lining_text),
-              *lining_rows]
-    if channel.bend_radius is not None:
-        inputs.append(Item("Bend radius (centreline)", f(channel.bend_radius, "length", 3)))
-    inputs += [Item("Minimum freeboard", f(channel.min_freeboard, "length", 2)),
-               Item("Unit system", f"{units.name} ({f.unit('length')}, {f.unit('flow')}, {f.unit('shear')})")]
-
-    top_total = float(section.top_width(min(ev.total_depth, section.full_depth or math.inf)))
-    results = [
-        Item("Normal depth yn", f(r.normal_depth, "length", 4)),
-        Item("Critical depth yc", f(r.critical_depth, "length", 4)),
-        Item("Velocity V", f(r.velocity, "velocity", 3)),
-        Item("Froude number Fr", f"{float(r.froude):.2f}, {r.regime}"),
-        Item("Manning's n used", f"{float(r.manning_n):.4f} ({ev.n_basis})"),
-        Item("Flow area A", f(r.area, "area", 4)),
-        Item("Hydraulic radius R", f(r.hydraulic_radius, "length", 3)),
-        Item("Top width of flow", f(r.top_width, "length", 4)),
-        Item("Bed shear \u03c4 = \u03b3 yn S", f(r.bed_shear, "shear", 3)),
-        Item("Critical slope Sc", f"{_sig(float(r.critical_slope), 3)} {f.unit('slope')}"),
-        Item("Freeboard", f"{f(ev.freeboard, 'length', 2)} ({ev.freeboard_basis})"),
-        Item("Total depth", f"{f(ev.total_depth, 'length', 3)} (yn + freeboard)"),
-        Item("Top width at total depth", f(top_total, "length", 4)),
-    ]
-
-    cautions = list(CAUTIONS)
-    cautions += [w[0].upper() + w[1:] + "." for w in r.warnings]
-    cautions += [w[0].upper() + w[1:] + "." for w in flow_notes]
-    if check is not None:
-        stability = _stability_items(ev, f)
-        verdict = "STABLE" if check.stable else "NOT STABLE"
-        reason = check.reason
-        note = ""
-        cautions += [w[0].upper() + w[1:] + "." for w in check.warnings]
-        thickness = check.thickness
-        lining_label = check.lining_name
-    else:
-        stability = None
+        inputs = input_items(design, f)
+        n_ref = ""
+        roughness = None if channel.manning_n is None else float(channel.manning_n)  # None: the survey's own n
+        checks = []
+        tau = float(design.analysis.bed_shear)
+        lining_items = [Item("Bed shear", f"\u03c4d = \u03b3 d S = {f.shear(tau)} (HEC-15 Eq. 3.1), not compared "
+                                          "with a permissible shear")]
         verdict = "NOT CHECKED"
-        reason = ("This version of the program has no lining stability check: the design shear on bed, sides and "
-                  "bends against the lining's permissible shear (FHWA HEC-15; stable when SF = \u03c4p / \u03c4 "
-                  "\u2265 the required safety factor) is not computed. Check the lining by hand before this "
-                  "sheet is approved.")
-        note = reason
-        cautions.append("Lining stability was not checked on this sheet (see the stability block).")
-        thickness = entry.thickness if entry is not None else None
-        lining_label = lining_text
-    if section.full_depth is not None and ev.total_depth > section.full_depth:
-        cautions.append(f"The total depth {f(ev.total_depth, 'length', 3)} is above the section's full depth "
-                        f"{f(section.full_depth, 'length', 3)}: the freeboard is not available.")
-
-    comparison, comparison_note = comparison_rows(channel, f)
+        n_from = ("the Manning's n typed in the project" if channel.manning_n is not None
+                  else "the surveyed section's own n")
+        reason = (f"no lining chosen, so no permissible shear to check against; the uniform flow uses {n_from}. "
+                  "Choose a lining from the catalogue to check the channel's stability (HEC-15 permissible shear).")
+        lining_label = "none chosen"
+        thickness = None
+    depth_items = _depth_items(design, f, src)
+    comparison, comparison_notes, priced = comparison_lines(design, f)
     return ChannelSheet(
-        project=project.name, channel=channel.name, location=channel.location, units=units,
-        fingerprint=fingerprint(channel), version=__version__, inputs=inputs, results=results,
-        stability=stability, stability_note=note, verdict=verdict, verdict_reason=reason,
-        hand_check=hand_check(section, ev, flow, channel.slope, f, channel.flow), comparison=comparison,
-        comparison_note=comparison_note, cautions=cautions, evaluation=ev, section=section,
-        slope=channel.slope, flow=flow, lining_label=lining_label, thickness=thickness)
+        project=project.name, channel=channel.name, location=channel.location, units=units, format=f,
+        fingerprint=fingerprint(channel, catalogue=catalogue), version=__version__, catalogue=cat_text,
+        inputs=inputs, results=result_items(design, f, n_ref), checks=checks,
+        lining_items=lining_items,
+        depth_items=depth_items, verdict=verdict, verdict_reason=reason, hand_check=hand_check(design, f),
+        comparison=comparison, comparison_notes=comparison_notes, comparison_priced=priced,
+        cautions=cautions(design, f), sources=src.printed(), design=design, roughness=roughness,
+        lining_label=lining_label, thickness=thickness)
+
+
+__all__ = ["ChannelSheet", "channel_sheet", "Formatter", "Item", "CheckRow", "ComparisonLine", "pretty_unit",
+           "in_units", "hand_check", "FIGURES"]
+

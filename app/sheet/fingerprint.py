@@ -1,12 +1,16 @@
-"""The design fingerprint: SHA-256 of one channel's design inputs and the program version.
+"""The design fingerprint: SHA-256 of one channel's design inputs, its linings and the program version.
 
 A reviewer holding a printed sheet and a project file recomputes the
-fingerprint with ``ditchwright fingerprint FILE --channel NAME``; equal
-fingerprints mean the sheet was made from these inputs by this version.
+fingerprint with ``ditchwright fingerprint FILE --channel NAME`` (with
+``--user-catalogue FILE`` when the sheet was made with one); equal
+fingerprints mean the sheet was made from these inputs, these lining data and
+this version.
 
 What is hashed is the UTF-8 text of a canonical JSON document::
 
-    {"inputs": {...channel design inputs, SI...}, "program": "ditchwright", "version": "0.1.0"}
+    {"inputs": {...channel design inputs, SI...},
+     "linings": {"riprap": {...the catalogue entry as resolved...}, ...},
+     "program": "ditchwright", "version": "0.1.0"}
 
 written with sorted keys, no spaces, ASCII only, and every number (integer or
 not) written as a float with 12 significant digits (``format(x, ".12g")``,
@@ -15,8 +19,13 @@ stored as 0.6095999999999999 m and as 0.6096 m, give the same text.
 
 The inputs are those that change the design: flow basis, slope, section,
 lining and its stone size, Manning's n, bend radius, minimum freeboard and the
-alternative linings. The channel's name, location and notes are not hashed
-(renaming a channel does not change its design), nor is the display unit system.
+alternative linings. ``linings`` holds the catalogue entry of every lining
+the channel names (its own and the alternatives), as resolved from the
+shipped catalogue with any user catalogue laid over it: the values the sheet
+was computed with (roughness, permissible shear, stone data, layer rule,
+unit cost, sources), so that a changed catalogue entry changes the
+fingerprint. The channel's name, location and notes are not hashed (renaming
+a channel does not change its design), nor is the display unit system.
 """
 
 from __future__ import annotations
@@ -69,12 +78,32 @@ def design_inputs(channel) -> dict:
     return {key: data[key] for key in DESIGN_FIELDS}
 
 
-def fingerprint_document(channel, version: str = __version__) -> str:
+def used_linings(channel, catalogue=None) -> dict:
+    """{key: catalogue entry data} of the linings ``channel`` names (its own and the alternatives).
+
+    ``catalogue`` is a hydraulics.linings.Catalogue (default: the shipped one).
+    Raises hydraulics.InputError naming an unknown key.
+    """
+    keys = [c.key for c in (channel.lining, *channel.alternatives) if c is not None]
+    if not keys:
+        return {}
+    if catalogue is None:
+        from hydraulics.linings import load_catalogue
+
+        catalogue = load_catalogue()
+    return {key: catalogue.get(key).to_dict() for key in keys}
+
+
+def fingerprint_document(channel, version: str = __version__, catalogue=None) -> str:
     """The exact text that is hashed."""
-    return canonical_json({"program": PROGRAM, "version": version, "inputs": design_inputs(channel)})
+    return canonical_json({"program": PROGRAM, "version": version, "inputs": design_inputs(channel),
+                           "linings": used_linings(channel, catalogue)})
 
 
-def fingerprint(channel, version: str = __version__) -> str:
-    """SHA-256 (64 hex digits) of the channel's canonical design inputs and the program version."""
-    return hashlib.sha256(fingerprint_document(channel, version).encode("ascii")).hexdigest()
+def fingerprint(channel, version: str = __version__, catalogue=None) -> str:
+    """SHA-256 (64 hex digits) of the channel's canonical design inputs, its lining entries and the version.
+
+    ``catalogue``: the lining catalogue the sheet was made with (default: the shipped one).
+    """
+    return hashlib.sha256(fingerprint_document(channel, version, catalogue).encode("ascii")).hexdigest()
 

@@ -1,11 +1,14 @@
 """Page layout of the design sheet: one portrait page per channel, Letter or A4.
 
 From the top: a header, the typical section, two columns (inputs and results;
-rating curve and hand check), the lining stability, comparison and cautions,
-then the design fingerprint and the title block with the signature block and
-the approval box (where a digital signature's stamp goes). Text is wrapped in
-its box; if a page's text does not fit, the text size steps down to a floor,
-and below that the sheet refuses rather than cut anything off.
+rating curve and hand check), the lining stability (shear checks beside the
+verdict, the reason, then the lining and the freeboard side by side), the
+lining comparison and the cautions, then the design fingerprint and the title
+block with the signature block and the approval box (where a digital
+signature's stamp goes). Text is wrapped in its box; if a page's text does
+not fit, the text size steps down to a floor; then a long comparison keeps
+the rows that fit and names the others in a note; below that the sheet
+refuses rather than cut anything off.
 """
 
 from __future__ import annotations
@@ -16,6 +19,7 @@ from dataclasses import dataclass
 from xml.sax.saxutils import escape
 
 from reportlab.lib import colors
+from reportlab.lib.enums import TA_RIGHT
 from reportlab.lib.pagesizes import A4, letter
 from reportlab.lib.styles import ParagraphStyle
 from reportlab.pdfbase.pdfmetrics import stringWidth
@@ -25,18 +29,19 @@ from reportlab.platypus import Paragraph, Table, TableStyle
 from .. import __version__
 from .fonts import FONT, register
 from .rating import rating_drawing
-from .section_drawing import section_drawing
+from .section_drawing import lining_caption, section_drawing
 
 PAGES = {"letter": letter, "a4": A4}
-MARGIN_LEFT, MARGIN_RIGHT, MARGIN_TOP, MARGIN_BOTTOM = 36.0, 24.0, 24.0, 24.0
-TITLE_HEIGHT = 112.0
+MARGIN_LEFT, MARGIN_RIGHT, MARGIN_TOP, MARGIN_BOTTOM = 36.0, 24.0, 20.0, 20.0
+TITLE_HEIGHT = 86.0
 FINGERPRINT_HEIGHT = 13.0
 GAP = 6.0
 TEXT_SIZES = (8.0, 7.5, 7.0, 6.6, 6.2)
+RATING_HEIGHTS = (150.0, 130.0, 115.0, 100.0, 90.0)  # [pt], tallest first
 GREY = colors.Color(0.45, 0.45, 0.45)
 RULE = colors.Color(0.55, 0.55, 0.55)
 VERDICT_COLOURS = {"STABLE": colors.Color(0.1, 0.5, 0.2), "NOT STABLE": colors.Color(0.75, 0.1, 0.1),
-                   "NOT CHECKED": colors.Color(0.75, 0.45, 0.0)}
+                   "NON-ERODIBLE": colors.Color(0.15, 0.3, 0.55), "NOT CHECKED": colors.Color(0.75, 0.45, 0.0)}
 #: Title-block cell widths as fractions of the frame width (company, project, signatures, approval, sheet).
 CELL_FRACTIONS = (0.20, 0.27, 0.27, 0.17, 0.09)
 
@@ -82,17 +87,31 @@ def approval_box(page: str) -> tuple:
 # ------------------------------------------------------------------ text helpers
 def _styles(size: float) -> dict:
     base = ParagraphStyle("body", fontName=FONT, fontSize=size, leading=size * 1.22, textColor=colors.black)
+    small = size - 0.8
     return {
         "body": base,
         "label": ParagraphStyle("label", parent=base, textColor=colors.Color(0.2, 0.2, 0.2)),
         "calc": ParagraphStyle("calc", parent=base, leftIndent=6, firstLineIndent=-6),
-        "small": ParagraphStyle("small", parent=base, fontSize=size - 0.8, leading=(size - 0.8) * 1.2),
-        "bullet": ParagraphStyle("bullet", parent=base, leftIndent=8, bulletIndent=0, bulletFontName=FONT),
+        "small": ParagraphStyle("small", parent=base, fontSize=small, leading=small * 1.2),
+        "num": ParagraphStyle("num", parent=base, fontSize=small, leading=small * 1.2, alignment=TA_RIGHT),
+        "cell": ParagraphStyle("cell", parent=base, fontSize=small, leading=small * 1.2),
+        "head": ParagraphStyle("head", parent=base, fontSize=small, leading=small * 1.15,
+                               textColor=colors.Color(0.2, 0.2, 0.2)),
+        "headnum": ParagraphStyle("headnum", parent=base, fontSize=small, leading=small * 1.15, alignment=TA_RIGHT,
+                                  textColor=colors.Color(0.2, 0.2, 0.2)),
+        "bullet": ParagraphStyle("bullet", parent=base, fontSize=small, leading=small * 1.2, leftIndent=8,
+                                 bulletIndent=0, bulletFontName=FONT, bulletFontSize=small),
+        "reason": ParagraphStyle("reason", parent=base, leftIndent=0),
     }
 
 
 def _p(text: str, style) -> Paragraph:
     return Paragraph(escape(text), style)
+
+
+def _lines(parts, style) -> Paragraph:
+    """A paragraph of several lines (a table heading with its unit under it)."""
+    return Paragraph("<br/>".join(escape(p) for p in parts if p), style)
 
 
 def _bold(c, x, y, text, size, stroke=0.25, char_space=0.0):
@@ -112,48 +131,99 @@ def _bold(c, x, y, text, size, stroke=0.25, char_space=0.0):
 
 def _heading(c, x, y, w, text):
     """A section heading: spaced capitals, emboldened, with a rule under."""
-    _bold(c, x, y - 8, text.upper(), 7.8, stroke=0.2, char_space=0.4)
+    _bold(c, x, y - 7.5, text.upper(), 7.4, stroke=0.2, char_space=0.4)
     c.saveState()
     c.setStrokeColor(RULE)
     c.setLineWidth(0.5)
-    c.line(x, y - 11, x + w, y - 11)
+    c.line(x, y - 10, x + w, y - 10)
     c.restoreState()
-    return y - 14
+    return y - HEADING_H
 
 
-HEADING_H = 14
+HEADING_H = 12
+_GRID = colors.Color(0.85, 0.85, 0.85)
 
 
-def _item_table(items, width, st) -> Table:
-    label_w = width * 0.42
+def _table_style(header: bool, numeric_columns=()) -> TableStyle:
+    cmds = [("VALIGN", (0, 0), (-1, -1), "TOP"), ("FONT", (0, 0), (-1, -1), FONT),
+            ("LEFTPADDING", (0, 0), (-1, -1), 1.5), ("RIGHTPADDING", (0, 0), (-1, -1), 2),
+            ("TOPPADDING", (0, 0), (-1, -1), 0.6), ("BOTTOMPADDING", (0, 0), (-1, -1), 0.8),
+            ("LINEBELOW", (0, 0), (-1, -1), 0.25, _GRID)]
+    if header:
+        cmds += [("LINEBELOW", (0, 0), (-1, 0), 0.5, RULE), ("VALIGN", (0, 0), (-1, 0), "BOTTOM")]
+    return TableStyle(cmds)
+
+
+def _item_table(items, width, st, label_fraction=0.42) -> Table:
+    """Label and value, one item a row; the label column as wide as the longest label, up to the fraction."""
+    longest = max((stringWidth(i.label, FONT, st["label"].fontSize) for i in items), default=0.0)
+    label_w = min(width * label_fraction, longest + 6)
     rows = [[_p(i.label, st["label"]), _p(i.value, st["body"])] for i in items]
     t = Table(rows, colWidths=[label_w, width - label_w])
-    t.setStyle(TableStyle([
-        ("VALIGN", (0, 0), (-1, -1), "TOP"), ("FONT", (0, 0), (-1, -1), FONT),
-        ("LEFTPADDING", (0, 0), (-1, -1), 1), ("RIGHTPADDING", (0, 0), (-1, -1), 2),
-        ("TOPPADDING", (0, 0), (-1, -1), 0.6), ("BOTTOMPADDING", (0, 0), (-1, -1), 0.6),
-        ("LINEBELOW", (0, 0), (-1, -1), 0.25, colors.Color(0.85, 0.85, 0.85)),
-    ]))
+    t.setStyle(_table_style(False))
     return t
 
 
-def _comparison_table(rows, width, st, units) -> Table:
+def _pair_table(items, width, st) -> Table:
+    """Items two to a row (label, value, label, value): short results."""
+    rows = []
+    for i in range(0, len(items), 2):
+        row = []
+        for it in items[i:i + 2]:
+            row += [_p(it.label, st["label"]), _p(it.value, st["body"])]
+        rows.append(row + [""] * (4 - len(row)))
+    size = st["label"].fontSize
+    widths = []
+    for col in (0, 1):  # each label column as wide as its longest label, the values share the rest
+        widths.append(max(stringWidth(it.label, FONT, size) for it in items[col::2]) + 4)
+    value_w = (width - sum(widths)) / 2
+    t = Table(rows, colWidths=[widths[0], value_w, widths[1], value_w])
+    t.setStyle(_table_style(False))
+    return t
+
+
+def _check_table(rows, width, st, units) -> Table:
+    """The shear checks: one row per place checked (bed, side slopes, bend)."""
     from .content import pretty_unit
 
-    head = ["Lining", "n", "Depth", "Velocity", f"\u03c4 / \u03c4p ({pretty_unit(units.label('shear'))})", "SF",
-            "Verdict", "Cost"]
-    data = [[_p(h, st["label"]) for h in head]]
+    shear = pretty_unit(units.label("shear"))
+    head = [_lines(["Location"], st["head"]), _lines(["Design shear \u03c4", shear], st["headnum"]),
+            _lines(["Permissible \u03c4p", shear], st["headnum"]), _lines(["SF", "achieved"], st["headnum"]),
+            _lines(["SF", "required"], st["headnum"]), _lines(["Result", "(SF \u2265 required)"], st["head"]),
+            _lines(["Design shear from"], st["head"])]
+    data = [head]
     for r in rows:
-        data.append([_p(v, st["body"]) for v in (r.lining, r.n, r.depth, r.velocity, r.shear, r.safety_factor,
-                                                   r.verdict, r.cost)])
-    fr = (0.22, 0.07, 0.11, 0.11, 0.19, 0.07, 0.12, 0.11)
-    t = Table(data, colWidths=[width * f for f in fr])
-    t.setStyle(TableStyle([
-        ("VALIGN", (0, 0), (-1, -1), "TOP"), ("FONT", (0, 0), (-1, -1), FONT),
-        ("LEFTPADDING", (0, 0), (-1, -1), 1), ("RIGHTPADDING", (0, 0), (-1, -1), 2),
-        ("TOPPADDING", (0, 0), (-1, -1), 0.6), ("BOTTOMPADDING", (0, 0), (-1, -1), 0.6),
-        ("LINEBELOW", (0, 0), (-1, 0), 0.5, RULE),
-    ]))
+        data.append([_p(r.location, st["cell"]), _p(r.design, st["num"]), _p(r.permissible, st["num"]),
+                     _p(r.safety_factor, st["num"]), _p(r.required, st["num"]), _p(r.result, st["cell"]),
+                     _p(r.basis, st["cell"])])
+    fr = (0.15, 0.13, 0.13, 0.08, 0.08, 0.15, 0.28)
+    t = Table(data, colWidths=[width * f for f in fr], repeatRows=1)
+    t.setStyle(_table_style(True))
+    return t
+
+
+def _comparison_table(rows, width, st, units, priced: bool) -> Table:
+    from .content import pretty_unit
+
+    u = lambda q: pretty_unit(units.label(q))  # noqa: E731
+    head = [("Lining", ""), ("n", ""), ("Depth", u("length")), ("V", u("velocity")), ("Fr", ""),
+            ("\u03c4", u("shear")), ("\u03c4p", u("shear")), ("SF / req.", ""), ("Verdict (governs)", ""),
+            ("Lined", u("length")), ("Layer", u("volume_per_length"))]
+    fr = [0.21, 0.055, 0.06, 0.055, 0.045, 0.06, 0.085, 0.075, 0.16, 0.065, 0.065]
+    if priced:
+        head.append(("Cost", u("cost_per_length")))
+        fr.append(0.065)
+    else:
+        fr[0] += 0.035
+        fr[8] += 0.03
+    text_cols = {0, 8}
+    data = [[_lines(h, st["head"] if i in text_cols else st["headnum"]) for i, h in enumerate(head)]]
+    for r in rows:
+        values = [r.lining, r.n, r.depth, r.velocity, r.froude, r.design, r.permissible, r.safety_factor, r.verdict,
+                  r.lined_width, r.layer_volume] + ([r.cost] if priced else [])
+        data.append([_p(v, st["cell"] if i in text_cols else st["num"]) for i, v in enumerate(values)])
+    t = Table(data, colWidths=[width * f for f in fr], repeatRows=1)
+    t.setStyle(_table_style(True))
     return t
 
 
@@ -170,34 +240,86 @@ def _draw_flow(c, flowables, x, y, width) -> float:
     return y
 
 
+def _split_even(flowables, width):
+    """Two lists of flowables of about equal height (in order), for two columns."""
+    heights = [f.wrap(width, 10_000)[1] for f in flowables]
+    total, run = sum(heights), 0.0
+    for i, h in enumerate(heights):
+        if run + h / 2 > total / 2:
+            return flowables[:i], flowables[i:]
+        run += h
+    return flowables, []
+
+
 # ------------------------------------------------------------------ page parts
-def _blocks(sheet, size, col_w, full_w):
-    """The text blocks at one text size: left column, right-column text, bottom block."""
+VERDICT_W = 90.0
+
+
+@dataclass
+class _Blocks:
+    """The text of one page at one text size, built and measured."""
+
+    left: list          # [(title, flowables)] of the left column
+    right_text: list    # [(title, flowables)] below the rating curve
+    checks: list        # flowables beside the verdict box
+    reason: list
+    lining: list        # flowables, full width under the checks
+    comparison: list    # flowables, full width ([] without a comparison)
+    cautions: tuple     # (left flowables, right flowables)
+    height_columns: float
+    height_bottom: float
+
+
+def _build(sheet, size, col_w, full_w, rating_h, comparison_rows):
     st = _styles(size)
-    left = [("Inputs", [_item_table(sheet.inputs, col_w, st)]),
-            ("Results (uniform flow at the design discharge)", [_item_table(sheet.results, col_w, st)])]
-    calc = [_p(line, st["calc"]) for line in sheet.hand_check]
-    right_text = [("Hand check (numbers as printed)", calc)]
-    bottom = []
-    stab = []
-    if sheet.stability is not None:
-        stab.append(_item_table(sheet.stability, full_w - 96, st))
-    else:
-        stab.append(_p(sheet.stability_note, st["body"]))
-    bottom.append(("Lining stability", stab))
+    left = [("Inputs", [_item_table(sheet.inputs, col_w, st, 0.34)]),
+            ("Results (uniform flow at the design discharge)", [_pair_table(sheet.results, col_w, st)]),
+            ("Freeboard and ditch depth", [_item_table(sheet.depth_items, col_w, st, 0.34)])]
+    right_text = [("Hand check (4 to 5 figures, for a calculator)", [_p(t, st["calc"]) for t in sheet.hand_check])]
+    beside = full_w - VERDICT_W - GAP
+    checks = [_check_table(sheet.checks, beside, st, sheet.units)] if sheet.checks else []
+    reason = [_p(f"Reason: {sheet.verdict_reason}", st["reason"])]
+    lining = [_item_table(sheet.lining_items, full_w, st, 0.2)] if sheet.lining_items else []
+    comparison = []
     if sheet.comparison is not None:
-        comp = []
-        if sheet.comparison:
-            comp.append(_comparison_table(sheet.comparison, full_w, st, sheet.units))
-        if sheet.comparison_note:
-            comp.append(_p(sheet.comparison_note, st["body"]))
-        bottom.append(("Lining comparison", comp))
-    bottom.append(("Cautions", [Paragraph(escape(t), st["bullet"], bulletText="\u2022") for t in sheet.cautions]))
-    return left, right_text, bottom
+        shown = sheet.comparison[:comparison_rows]
+        comparison.append(_comparison_table(shown, full_w, st, sheet.units, sheet.comparison_priced))
+        notes = list(sheet.comparison_notes)
+        left_out = sheet.comparison[comparison_rows:]
+        if left_out:
+            notes.insert(0, f"{len(left_out)} more lining{'s' if len(left_out) > 1 else ''} not shown for lack of "
+                            "room: " + "; ".join(f"{r.lining}: {r.verdict}" for r in left_out)
+                         + ". Run ditchwright compare for the full table.")
+        comparison += [_p(n, st["small"]) for n in notes]
+    bullets = [Paragraph(escape(t), st["bullet"], bulletText="\u2022") for t in sheet.cautions]
+    bullets += [_p(t, st["bullet"]) for t in sheet.sources]
+    cautions = _split_even(bullets, col_w)
+
+    h_left = sum(HEADING_H + _height(fl, col_w) + 3 for _, fl in left)
+    h_right = HEADING_H + rating_h + 3 + sum(HEADING_H + _height(fl, col_w) + 3 for _, fl in right_text)
+    h_stab = (HEADING_H + max(_height(checks, beside), 20) + 2 + _height(reason, beside) + 3
+              + _height(lining, full_w) + 3)
+    h_comp = HEADING_H + _height(comparison, full_w) + 3 if comparison else 0.0
+    h_caut = HEADING_H + max(_height(cautions[0], col_w), _height(cautions[1], col_w)) + 3
+    return _Blocks(left, right_text, checks, reason, lining, comparison, cautions,
+                   max(h_left, h_right), h_stab + h_comp + h_caut)
 
 
-def _blocks_height(blocks, width):
-    return sum(HEADING_H + _height(fl, width) + 3 for _, fl in blocks)
+def _fit_blocks(sheet, col_w, full_w, room, page):
+    """The largest text size (and rating-curve height) at which the page's text fits ``room`` [pt].
+
+    When even the smallest size does not fit, the comparison keeps as many rows
+    as fit and names the others in a note; below one row the sheet refuses.
+    """
+    n_rows = len(sheet.comparison) if sheet.comparison is not None else 0
+    for rows in range(n_rows, 0 if n_rows else -1, -1):
+        for size in TEXT_SIZES:
+            for rating_h in RATING_HEIGHTS:
+                b = _build(sheet, size, col_w, full_w, rating_h, max(rows, 0))
+                if b.height_columns + GAP + b.height_bottom <= room:
+                    return b, size, rating_h
+    raise SheetLayoutError(f"the sheet for channel {sheet.channel!r} has more text than fits on a "
+                           f"{page} page (cautions or comparison too long)")
 
 
 def draw_page(c, sheet, info, page: str, number: int, count: int, logo_note: list) -> None:
@@ -222,26 +344,21 @@ def draw_page(c, sheet, info, page: str, number: int, count: int, logo_note: lis
 
     # typical section
     y = _heading(c, x0, y, full_w, "Typical section")
-    sec, _ = section_drawing(sheet, full_w, 175)
+    c.setFont(FONT, 6.5)
+    c.setFillColor(GREY)
+    heading_w = stringWidth("TYPICAL SECTION", FONT, 7.4) + 16 * 0.4 + 12
+    c.drawRightString(x0 + full_w, y + 4.5, _fit(lining_caption(sheet), FONT, 6.5, full_w - heading_w))
+    c.setFillColor(colors.black)
+    sec, _ = section_drawing(sheet, full_w, 165)
     sec.drawOn(c, x0, y - sec.height)
     y -= sec.height + GAP
 
     body_bottom = MARGIN_BOTTOM + TITLE_HEIGHT + FINGERPRINT_HEIGHT + GAP
-    rating_h = 150.0
-    for size in TEXT_SIZES:
-        left, right_text, bottom = _blocks(sheet, size, col_w, full_w)
-        h_left = _blocks_height(left, col_w)
-        h_right = HEADING_H + rating_h + 3 + _blocks_height(right_text, col_w)
-        h_bottom = _blocks_height(bottom, full_w)
-        if max(h_left, h_right) + GAP + h_bottom <= y - body_bottom:
-            break
-    else:
-        raise SheetLayoutError(f"the sheet for channel {sheet.channel!r} has more text than fits on a "
-                               f"{page} page (cautions or comparison too long)")
+    b, size, rating_h = _fit_blocks(sheet, col_w, full_w, y - body_bottom, page)
 
     # two columns
     yl = y
-    for title, fl in left:
+    for title, fl in b.left:
         yl = _heading(c, x0, yl, col_w, title)
         yl = _draw_flow(c, fl, x0, yl, col_w) - 3
     xr = x0 + col_w + 2 * GAP
@@ -249,7 +366,7 @@ def draw_page(c, sheet, info, page: str, number: int, count: int, logo_note: lis
     rd = rating_drawing(sheet, col_w, rating_h)
     rd.drawOn(c, xr, yr - rating_h)
     yr -= rating_h + 3
-    for title, fl in right_text:
+    for title, fl in b.right_text:
         yr = _heading(c, xr, yr, col_w, title)
         yr = _draw_flow(c, fl, xr, yr, col_w) - 3
     c.setStrokeColor(RULE)
@@ -257,19 +374,22 @@ def draw_page(c, sheet, info, page: str, number: int, count: int, logo_note: lis
     c.line(x0 + col_w + GAP, y - 2, x0 + col_w + GAP, min(yl, yr) + 2)
     yb = min(yl, yr) - GAP
 
-    # stability, comparison, cautions
-    for title, fl in bottom:
-        yb = _heading(c, x0, yb, full_w, title)
-        if title == "Lining stability":
-            _verdict(c, x0 + full_w - 90, yb + 1, 90, sheet.verdict)
-            top_of_text = yb
-            yb = _draw_flow(c, fl, x0, yb, full_w - 96) - 3
-            if sheet.verdict_reason and sheet.stability is not None:
-                yb = _draw_flow(c, [_p(f"Reason: {sheet.verdict_reason}", _styles(size)["body"])], x0, yb,
-                                full_w - 96) - 3
-            yb = min(yb, top_of_text - 22)
-        else:
-            yb = _draw_flow(c, fl, x0, yb, full_w) - 3
+    # lining stability: the checks beside the verdict, the reason, then the lining's data
+    beside = full_w - VERDICT_W - GAP
+    yb = _heading(c, x0, yb, full_w, "Lining stability")
+    _verdict(c, x0 + full_w - VERDICT_W, yb + 1, VERDICT_W, sheet.verdict)
+    y_text = _draw_flow(c, b.checks, x0, yb, beside)
+    yb = min(y_text, yb - 20) - 2
+    yb = _draw_flow(c, b.reason, x0, yb, beside) - 3
+    yb = _draw_flow(c, b.lining, x0, yb, full_w) - 3
+
+    if b.comparison:
+        yb = _heading(c, x0, yb, full_w, "Lining comparison")
+        yb = _draw_flow(c, b.comparison, x0, yb, full_w) - 3
+
+    yb = _heading(c, x0, yb, full_w, "Cautions, notes and sources")
+    _draw_flow(c, b.cautions[0], x0, yb, col_w)
+    _draw_flow(c, b.cautions[1], xr, yb, col_w)
 
     _fingerprint_strip(c, sheet, x0, MARGIN_BOTTOM + TITLE_HEIGHT, full_w)
     _title_block(c, sheet, info, page, number, count, logo_note)
@@ -300,10 +420,16 @@ def _fingerprint_strip(c, sheet, x, y, w):
     c.setStrokeColor(colors.black)
     c.setLineWidth(0.8)
     c.rect(x, y, w, FINGERPRINT_HEIGHT, stroke=1, fill=0)
-    c.setFont(FONT, 6.5)
-    c.drawString(x + 3, y + 4, f"Design fingerprint SHA-256: {sheet.fingerprint}")
+    label = f"Design fingerprint SHA-256: {sheet.fingerprint}"
+    what = f"of the inputs, linings ({sheet.catalogue}), Ditchwright {sheet.version}"
+    size = 6.5
+    while size > 5.4 and stringWidth(label, FONT, size) + stringWidth(what, FONT, size) + 12 > w:
+        size -= 0.2
+    c.setFont(FONT, size)
+    c.drawString(x + 3, y + 4, label)
     c.setFillColor(GREY)
-    c.drawRightString(x + w - 3, y + 4, f"inputs + Ditchwright {sheet.version}")
+    used = stringWidth(label, FONT, size) + 12
+    c.drawRightString(x + w - 3, y + 4, _fit(what, FONT, size, w - used))
     c.setFillColor(colors.black)
 
 

@@ -35,41 +35,51 @@ def rating_drawing(sheet, width: float, height: float):
     from matplotlib.figure import Figure  # no pyplot: leaves the window's backend alone
     from svglib.svglib import svg2rlg
 
-    from .content import pretty_unit
+    from .content import n_text, pretty_unit
 
     units = sheet.units
-    ev = sheet.evaluation
-    section = sheet.section
+    design = sheet.design
+    section, slope = design.section, design.channel.slope
     full = section.full_depth
-    top = ev.total_depth if full is None else min(ev.total_depth, 0.999 * full)
-    roughness = ev.roughness
-    depth, flow, critical = rating_table(section, sheet.slope, roughness, top)
+    total = design.total_depth
+    top = total if full is None else min(total, 0.999 * full)
+    roughness = sheet.roughness
+    depth, flow, critical = rating_table(section, slope, roughness, top)
     L = units.from_si("length", 1.0)
     Q = units.from_si("flow", 1.0)
     lu, qu = pretty_unit(units.label("length")), pretty_unit(units.label("flow"))
-    yn, yc = ev.design_depth, float(ev.result.critical_depth)
+    yn = float(design.analysis.normal_depth)
+    fmt = sheet.format  # the tables' rounding
 
     rc = {"svg.fonttype": "none", "font.family": SVG_FAMILY, "font.size": 6.5, "axes.linewidth": 0.5,
           "xtick.major.width": 0.4, "ytick.major.width": 0.4, "lines.linewidth": 1.0, "svg.hashsalt": "ditchwright"}
     with matplotlib.rc_context(rc):
         fig = Figure(figsize=(width / 72, height / 72))
-        ax = fig.add_axes((0.13, 0.16, 0.84, 0.76))
+        # margins in points, so that the tick labels and the title keep clear at any height
+        m_left, m_right, m_bottom, m_top = 34.0, 6.0, 23.0, 12.0
+        ax = fig.add_axes((m_left / width, m_bottom / height, 1 - (m_left + m_right) / width,
+                           1 - (m_bottom + m_top) / height))
         ax.plot(flow * Q, depth * L, color="#1f4e9c", label="normal depth (Manning)")
         ax.plot(critical * Q, depth * L, color="#b22222", linestyle="--", linewidth=0.8, label="critical depth")
-        q_design = sheet.flow * Q
+        q_design = design.flow * Q
         ax.plot([q_design], [yn * L], marker="o", markersize=3.5, color="black", linestyle="none",
-                label=f"design: Q {q_design:.3g} {qu}, yn {yn * L:.3g} {lu}")
-        ax.axhline(ev.total_depth * L, color="0.35", linewidth=0.6, linestyle="-.",
-                   label=f"total depth {ev.total_depth * L:.3g} {lu}")
+                label=f"design: Q {fmt(design.flow, 'flow')}, yn {fmt(yn, 'length')}")
+        ax.axhline(total * L, color="0.35", linewidth=0.6, linestyle="-.",
+                   label=f"total depth {fmt(total, 'length')}")
         ax.axvline(q_design, color="0.6", linewidth=0.4, linestyle=":")
         # the x range follows the normal-flow curve; the critical curve may run off to the right
         ax.set_xlim(0, max(flow.max() * Q, q_design) * 1.08)
-        ax.set_ylim(0, max(ev.total_depth, top) * L * 1.08)
+        ax.set_ylim(0, max(total, top) * L * 1.08)
         ax.set_xlabel(f"Flow Q ({qu})")
         ax.set_ylabel(f"Depth y ({lu})")
         ax.grid(True, linewidth=0.3, color="0.85")
-        n_text = f"n = {ev.roughness:.3f}" if isinstance(ev.roughness, float) else "n varies with depth"
-        ax.set_title(f"Rating curve, uniform flow: S = {sheet.slope:g}, {n_text}", fontsize=6.5)
+        if isinstance(roughness, float):
+            n_words = f"n = {n_text(roughness)}"
+        elif roughness is None:
+            n_words = "composite n of the survey"
+        else:
+            n_words = "n varies with depth (lining)"
+        ax.set_title(f"Rating curve, uniform flow: S = {slope:g}, {n_words}", fontsize=6.5)
         ax.legend(loc="best", fontsize=5.8, frameon=True, framealpha=0.9, edgecolor="0.7")
         buf = io.StringIO()
         fig.savefig(buf, format="svg")

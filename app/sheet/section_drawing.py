@@ -119,9 +119,9 @@ def _dim_h(g, x1, x2, y, label, above=True):
     g.add(_arrow(x2, y, 1, 0))
     w = stringWidth(label, FONT, SIZE)
     mid = (x1 + x2) / 2
-    if w + 4 > x2 - x1:  # does not fit between the arrows: beside the right one
+    if above and w + 4 > x2 - x1:  # does not fit between the arrows: beside the right one
         g.add(_text(x2 + 4, y - 2.2, label))
-    else:
+    else:  # below a short dimension the label may run past the arrows: the space under the section is free
         g.add(_text(mid, y + 2.0 if above else y - SIZE - 1.2, label, anchor="middle"))
 
 
@@ -142,26 +142,32 @@ def _ext(g, x1, y1, x2, y2):
     g.add(Line(x1, y1, x2, y2, strokeColor=DIM, strokeWidth=0.3))
 
 
-def section_drawing(sheet, width: float, height: float, min_height: float = 110.0) -> tuple[Drawing, str]:
+def lining_caption(sheet) -> str:
+    """What the boundary of the drawing shows: the lining and its layer thickness."""
+    t = sheet.thickness or 0.0
+    if t > 0:
+        return f"Lining: {sheet.lining_label}; layer t = {sheet.format.stone(t)}, drawn to scale"
+    if sheet.design.stability is not None:
+        return f"Lining: {sheet.lining_label}; no layer thickness (heavy line)"
+    return "No lining chosen (heavy line: the channel boundary)"
+
+
+def section_drawing(sheet, width: float, height: float, min_height: float = 88.0) -> tuple[Drawing, str]:
     """A Drawing ``width`` x at most ``height`` [pt] of the channel's typical section, and its scale in words.
 
     The scale is the largest round one at which the section fits; the drawing
     is then made only as tall as it needs (at least ``min_height``).
     """
     register()
-    f_units = sheet.units
-    us = f_units.key == "us"
-    ev = sheet.evaluation
-    section = sheet.section
-    yn, yc = ev.design_depth, float(ev.result.critical_depth)
+    us = sheet.units.key == "us"
+    design = sheet.design
+    section = design.section
+    yn, yc = float(design.analysis.normal_depth), float(design.analysis.critical_depth)
     full = section.full_depth
-    total = ev.total_depth if full is None else min(ev.total_depth, full)
+    total = design.total_depth if full is None else min(design.total_depth, full)
     t = sheet.thickness or 0.0
     open_top = section.kind in ("trapezoid", "triangle", "rectangle", "parabola")
-
-    def fmt(v, q="length", figures=3):
-        from .content import Formatter
-        return Formatter(f_units)(v, q, figures)
+    fmt = sheet.format  # the tables' rounding, so a value reads the same in the drawing
 
     x, z = section.outline(total)
     x, z = np.asarray(x, float), np.asarray(z, float)
@@ -170,11 +176,22 @@ def section_drawing(sheet, width: float, height: float, min_height: float = 110.
         k = int(np.argmax(z))
         x, z = np.roll(x, -k), np.roll(z, -k)
         total = float(section.full_depth)
-    real_w = float(x.max() - x.min()) + 2 * t
-    real_h = float(max(z.max(), total)) + t
+    surveyed = section.kind == "irregular"  # the outline is the whole survey, above the ditch's top
+    top_z = total if (closed or surveyed) else float(z[0])
+    if t > 0:  # the lining's outer face, cut off at the ground for an open section
+        xo, zo = offset_polyline(x, z, t)
+        if open_top:
+            xo, zo = _to_ground(xo, zo, top_z)
+    else:
+        xo, zo = x, z
+    x_min, x_max = float(min(x.min(), xo.min())), float(max(x.max(), xo.max()))
+    z_min = float(min(z.min(), zo.min()))
+    real_w = x_max - x_min
+    real_h = float(max(z.max(), total)) - z_min
     ground_pt = 28.0 if open_top else 0.0   # ground line beyond each bank [pt]
+    dim_gap = 6.0 if open_top else 14.0     # dimension lines clear of the hatching of a pipe
 
-    left, right, bottom, top = 74.0, 74.0, 40.0, 22.0
+    left, right, bottom, top = 74.0, 74.0, 35.0, 20.0
     avail_w = width - left - right - 2 * ground_pt
     avail_h = height - bottom - top
     s_needed = min(avail_w / real_w, avail_h / real_h)  # pt per m
@@ -182,8 +199,8 @@ def section_drawing(sheet, width: float, height: float, min_height: float = 110.
     s = PT_PER_M / ratio
     height = max(min_height, min(height, real_h * s + bottom + top + 8))
     avail_h = height - bottom - top
-    x0 = left + ground_pt + (avail_w - real_w * s) / 2 + t * s - float(x.min()) * s
-    y0 = bottom + (avail_h - real_h * s) / 2 + t * s
+    x0 = left + ground_pt + (avail_w - real_w * s) / 2 - x_min * s
+    y0 = bottom - z_min * s  # spare height goes above the drawing, so that the scale line stays close
 
     def X(v):
         return x0 + v * s
@@ -207,63 +224,75 @@ def section_drawing(sheet, width: float, height: float, min_height: float = 110.
         xl_w, xr_w = min(p[0] for p in wet[0]), max(p[0] for p in wet[-1])
         g.add(Line(X(xl_w), Y(yn), X(xr_w), Y(yn), strokeColor=blue, strokeWidth=0.8))
         # water-surface mark: an inverted triangle standing on the surface
-        mx = X(xl_w + 0.35 * (xr_w - xl_w))
+        mx = X(xl_w + 0.2 * (xr_w - xl_w))  # left of the critical depth's label (at the right)
         g.add(Polygon([mx, Y(yn), mx - 3, Y(yn) + 5, mx + 3, Y(yn) + 5], fillColor=None,
                       strokeColor=blue, strokeWidth=0.6))
-        g.add(_text(mx + 5, Y(yn) + 1.2, "design WS", color=blue, size=SIZE - 0.5))
+        ws = "design WS"
+        if abs(yc - yn) * s <= 1.0:  # the critical depth's line would lie on the water surface
+            ws += f" \u2248 critical depth yc {fmt(yc, 'length')}"
+        g.add(_text(mx + 5, Y(yn) + 1.2, ws, color=blue, size=SIZE - 0.5))
     wet_c = wet_polygons(x, z, yc)
     if wet_c and abs(yc - yn) * s > 1.0:
         xl_c, xr_c = min(p[0] for p in wet_c[0]), max(p[0] for p in wet_c[-1])
         g.add(Line(X(xl_c), Y(yc), X(xr_c), Y(yc), strokeColor=red, strokeWidth=0.5, strokeDashArray=[2, 1.5]))
-        below = yc < yn or abs(yc - yn) * s < SIZE + 3  # keep clear of the water-surface label
-        g.add(_text(X((xl_c + xr_c) / 2), Y(min(yc, yn)) - SIZE if below else Y(yc) + 1.2,
-                    f"critical depth yc {fmt(yc, figures=3)}", color=red, size=SIZE - 0.5, anchor="middle"))
+        # above its line when above the water surface (clear of the "design WS" label), else below it
+        _critical_label(g, x, z, yc, yn, s, X, Y, f"critical depth yc {fmt(yc, 'length')}",
+                        f"yc {fmt(yc, 'length')}", red)
 
     # lining band (to scale) or a heavy boundary line when its thickness is not known
     if t > 0:
-        xo, zo = offset_polyline(x, z, t)
         band = [c for px, pz in zip(x, z) for c in (X(px), Y(pz))]
         band += [c for px, pz in zip(xo[::-1], zo[::-1]) for c in (X(px), Y(pz))]
         g.add(Polygon(band, fillColor=LINING, strokeColor=INK, strokeWidth=THIN))
     else:
-        xo, zo = x, z
         g.add(PolyLine([c for px, pz in zip(x, z) for c in (X(px), Y(pz))], strokeColor=INK, strokeWidth=1.4))
     # earth hatching along the outside of the excavation (lining's outer face)
     _hatch(g, [X(v) for v in xo], [Y(v) for v in zo])
 
-    xl, xr = (float(x.min()), float(x.max())) if closed else (float(x[0]), float(x[-1]))
-    top_z = total if closed else float(z[0])
+    if closed:
+        xl, xr = float(x.min()), float(x.max())
+    elif surveyed:  # the top width is taken at the top of the ditch (design depth plus freeboard)
+        runs = wet_polygons(x, z, top_z)
+        xl, xr = (min(p[0] for p in runs[0]), max(p[0] for p in runs[-1])) if runs else (float(x.min()), float(x.max()))
+    else:
+        xl, xr = float(x[0]), float(x[-1])
+    if surveyed:
+        gl, gr = float(min(x.min(), xo.min())), float(max(x.max(), xo.max()))  # the ends of the survey
+        el, er = X(xl), X(xr)  # extension lines at the top of the ditch start at its edges
+    else:
+        gl, gr = min(xl, float(xo[0])), max(xr, float(xo[-1]))  # where the ground meets the excavation
+        el, er = X(gl) - ground_pt, X(gr) + ground_pt
     if open_top:
-        # ground line at the top of both banks, with earth hatching below it
-        for a, b in ((X(xl) - ground_pt, X(float(xo[0]))), (X(float(xo[-1])), X(xr) + ground_pt)):
+        # ground line beyond the top of both banks, with earth hatching below it
+        for a, b in ((X(gl) - ground_pt, X(gl)), (X(gr), X(gr) + ground_pt)):
             g.add(Line(a, Y(top_z), b, Y(top_z), strokeColor=INK, strokeWidth=0.9))
             n = max(2, int((b - a) / 5))
             for i in range(n):
                 hx = a + (i + 0.7) * (b - a) / n
                 g.add(Line(hx, Y(top_z), hx - 3, Y(top_z) - 3, strokeColor=INK, strokeWidth=0.35))
-        g.add(_text(X(xr) + ground_pt, Y(top_z) + 2.0, "ground", anchor="end", size=SIZE - 0.5))
+        g.add(_text(X(gr) + ground_pt, Y(top_z) + 2.0, "ground", anchor="end", size=SIZE - 0.5))
 
     # top width above
     y_top = Y(top_z) + 12
     _ext(g, X(xl), Y(top_z) + 2, X(xl), y_top + 2)
     _ext(g, X(xr), Y(top_z) + 2, X(xr), y_top + 2)
-    _dim_h(g, X(xl), X(xr), y_top, f"{'diameter D' if closed else 'top width'} {fmt(xr - xl, figures=4)}")
+    _dim_h(g, X(xl), X(xr), y_top, f"{'diameter D' if closed else 'top width'} {fmt(xr - xl, 'length')}")
 
     # design depth and freeboard at the left, total depth at the right; labels horizontal
     x_invert = float(x[np.argmin(z)])
-    xd_l = X(xl) - ground_pt - 6
-    xd_r = X(xr) + ground_pt + 6
+    xd_l = X(gl) - ground_pt - dim_gap
+    xd_r = X(gr) + ground_pt + dim_gap
     _ext(g, X(x_invert) - 2, Y(0), xd_l - 2, Y(0))
     _ext(g, X(x_invert) + 2, Y(0), xd_r + 2, Y(0))
-    _ext(g, X(xl) - ground_pt, Y(top_z), xd_l - 2, Y(top_z))
-    _ext(g, X(xr) + ground_pt, Y(top_z), xd_r + 2, Y(top_z))
+    _ext(g, el, Y(top_z), xd_l - 2, Y(top_z))
+    _ext(g, er, Y(top_z), xd_r + 2, Y(top_z))
     if xl_w is not None:
         _ext(g, X(xl_w) - 2, Y(yn), xd_l - 2, Y(yn))
-    _dim_v(g, xd_l, Y(0), Y(min(yn, top_z)), f"yn {fmt(yn, figures=4)}", side="left")
+    _dim_v(g, xd_l, Y(0), Y(min(yn, top_z)), f"yn {fmt(yn, 'length')}", side="left")
     if total > yn:
-        _dim_v(g, xd_l, Y(yn), Y(top_z), f"{'to crown' if closed else 'freeboard'} {fmt(total - yn, figures=2)}",
+        _dim_v(g, xd_l, Y(yn), Y(top_z), f"{'to crown' if closed else 'freeboard'} {fmt(total - yn, 'length')}",
                side="left")
-    _dim_v(g, xd_r, Y(0), Y(top_z), f"{'crown' if closed else 'total depth'} {fmt(total, figures=3)}", side="right")
+    _dim_v(g, xd_r, Y(0), Y(top_z), f"{'crown' if closed else 'total depth'} {fmt(total, 'length')}", side="right")
 
     # bottom width and side slopes for the trapezoid family
     if section.side_slopes is not None:
@@ -272,7 +301,7 @@ def section_drawing(sheet, width: float, height: float, min_height: float = 110.
         if b > 0:
             _ext(g, X(-b / 2), Y(0) - 2, X(-b / 2), y_b - 2)
             _ext(g, X(b / 2), Y(0) - 2, X(b / 2), y_b - 2)
-            _dim_h(g, X(-b / 2), X(b / 2), y_b, f"b {fmt(b, figures=3)}", above=False)
+            _dim_h(g, X(-b / 2), X(b / 2), y_b, f"b {fmt(b, 'length')}", above=False)
         for side, zs in (("left", section.side_slopes[0]), ("right", section.side_slopes[1])):
             if zs <= 0:
                 continue
@@ -280,25 +309,63 @@ def section_drawing(sheet, width: float, height: float, min_height: float = 110.
             zm = 0.5 * top_z
             xm = (-b / 2 - zs * zm) if side == "left" else (b / 2 + zs * zm)
             # parallel to the slope, on the ground side, beyond the hatching
-            gap = t * s + 5 + SIZE
+            gap = t * s + 9 + SIZE
             c, sn = math.cos(math.radians(theta)), math.sin(math.radians(theta))
             nx = -sn if side == "left" else sn
             g.add(_text(X(xm) + nx * gap, Y(zm) - c * gap, f"{zs:g}H:1V (\u03b8 = {theta:.1f}\u00b0)",
                         anchor="middle", angle=-theta if side == "left" else theta))
 
-    # captions: the lining, then the scale with a scale bar
-    lab = f"Lining: {sheet.lining_label}" + (f", thickness t = {fmt(t, 'small_length', 3)} (to scale)" if t > 0
-                                              else " (heavy line; thickness not given)")
-    g.add(_text(8, 17, lab))
+    # the scale with a scale bar (the lining's caption goes beside the heading: lining_caption)
     bar_real = _bar_length(width * 0.2 / s, us)
     bx, by = 8.0, 5.0
     bar_pt = bar_real * s
     g.add(Rect(bx, by, bar_pt / 2, 2.5, fillColor=INK, strokeColor=INK, strokeWidth=0.3))
     g.add(Rect(bx + bar_pt / 2, by, bar_pt / 2, 2.5, fillColor=colors.white, strokeColor=INK, strokeWidth=0.3))
     bar_label = f"{bar_real / 0.3048:g} ft" if us else f"{bar_real:g} m"
-    g.add(_text(bx + bar_pt + 4, by - 0.3, f"{bar_label}     Scale {scale_text} when printed at 100 %; "
-                                          "horizontal and vertical scales equal"))
+    g.add(_text(bx + bar_pt + 4, by - 0.3, f"{bar_label}     Scale {scale_text} when printed at 100 %, "
+                                          "horizontal and vertical alike"))
     return d, scale_text
+
+
+def _to_ground(xo, zo, level):
+    """The outer face (xo, zo) of an open section's lining, its two ends moved along their segments to ``level``."""
+    xo, zo = np.array(xo, float), np.array(zo, float)
+    for end, nxt in ((0, 1), (-1, -2)):
+        dz = zo[nxt] - zo[end]
+        if abs(dz) > 1e-12:
+            k = (level - zo[end]) / dz
+            xo[end], zo[end] = xo[end] + k * (xo[nxt] - xo[end]), level
+    return xo, zo
+
+
+def _critical_label(g, x, z, yc, yn, s, X, Y, label, short, color):
+    """The critical depth's label at the right end of its line, where it fits inside the boundary.
+
+    Tried in turn, with the full label and then the short one: below the line,
+    then above it when the water surface is high enough above it (the "design
+    WS" label sits above the water surface at the left). A critical depth above
+    the water surface is labelled above its line.
+    """
+    size = SIZE - 0.5
+    h = (size + 1.5) / s  # the label's height [m]
+
+    def span(level):
+        runs = wet_polygons(x, z, level) if level > 0 else []
+        return (min(p[0] for p in runs[0]), max(p[0] for p in runs[-1])) if runs else None
+
+    places = [("above", yc)] if yc > yn else [("below", yc - h), ("above", yc)]
+    for text in (label, short):
+        w = stringWidth(text, FONT, size) + 8
+        for where, narrowest in places:
+            if where == "above" and yc < yn and (yn - yc) < h:
+                continue  # no room between the critical line and the water surface
+            edges = span(narrowest)
+            if edges is not None and w <= (edges[1] - edges[0]) * s:
+                y = Y(yc) + 1.2 if where == "above" else Y(yc) - size - 0.5
+                g.add(_text(X(edges[1]) - 4, y, text, color=color, size=size, anchor="end"))
+                return
+    edges = span(yc) or (float(np.min(x)), float(np.max(x)))
+    g.add(_text(X((edges[0] + edges[1]) / 2), Y(yc) - size - 0.5, short, color=color, size=size, anchor="middle"))
 
 
 def _hatch(g, xs, ys, spacing=5.0, size=3.0):

@@ -1,0 +1,125 @@
+"""Undoable edits of a project: one small QUndoCommand per user action.
+
+Each command records the old value when it is made and only ever swaps whole
+:class:`~app.project.Channel` values in and out of the document, so undo and
+redo cannot drift. Channels are treated as values: an edit makes a changed
+copy, never changes a channel in place.
+"""
+
+from __future__ import annotations
+
+from PySide6.QtGui import QUndoCommand
+
+#: id() of commands that may merge with the next one (typing in one field).
+MERGE_ID = 4711
+
+
+class EditChannel(QUndoCommand):
+    """Replace channel ``index`` with ``new``; consecutive edits with the same ``merge_key`` merge."""
+
+    def __init__(self, doc, index: int, new, text: str, merge_key=None):
+        super().__init__(text)
+        self.doc, self.index, self.new, self.merge_key = doc, index, new, merge_key
+        self.old = doc.project.channels[index]
+
+    def redo(self):
+        self.doc._replace_channel(self.index, self.new)
+
+    def undo(self):
+        self.doc._replace_channel(self.index, self.old)
+
+    def id(self):
+        return MERGE_ID if self.merge_key is not None else -1
+
+    def mergeWith(self, other):
+        if not isinstance(other, EditChannel) or other.merge_key != self.merge_key or other.index != self.index:
+            return False
+        self.new = other.new
+        if self.new == self.old:
+            self.setObsolete(True)  # typed back to where it was: the stack drops the command
+        return True
+
+
+class AddChannel(QUndoCommand):
+    """Insert ``channel`` at ``index`` (add and duplicate)."""
+
+    def __init__(self, doc, index: int, channel, text: str):
+        super().__init__(text)
+        self.doc, self.index, self.channel = doc, index, channel
+
+    def redo(self):
+        self.doc._insert_channel(self.index, self.channel)
+
+    def undo(self):
+        self.doc._remove_channel(self.index)
+
+
+class AddChannels(QUndoCommand):
+    """Append several channels at once (an inventory import): one step of the history."""
+
+    def __init__(self, doc, channels: list, text: str):
+        super().__init__(text)
+        self.doc, self.channels = doc, list(channels)
+        self.index = len(doc.project.channels)
+
+    def redo(self):
+        self.doc._insert_channels(self.index, self.channels)
+
+    def undo(self):
+        self.doc._remove_channels(self.index, len(self.channels))
+
+
+class RemoveChannel(QUndoCommand):
+    def __init__(self, doc, index: int):
+        self.doc, self.index = doc, index
+        self.channel = doc.project.channels[index]
+        super().__init__(f"Delete channel '{self.channel.name}'")
+
+    def redo(self):
+        self.doc._remove_channel(self.index)
+
+    def undo(self):
+        self.doc._insert_channel(self.index, self.channel)
+
+
+class SetUnits(QUndoCommand):
+    """Switch the project's unit system (only how values are shown; the file stays SI)."""
+
+    def __init__(self, doc, units: str):
+        super().__init__(f"Show {'US customary' if units == 'us' else 'SI'} units")
+        self.doc, self.new, self.old = doc, units, doc.project.units
+
+    def redo(self):
+        self.doc._set_units(self.new)
+
+    def undo(self):
+        self.doc._set_units(self.old)
+
+
+class EditProject(QUndoCommand):
+    """Change a project-level text (name or notes)."""
+
+    def __init__(self, doc, attribute: str, value: str, text: str):
+        super().__init__(text)
+        self.doc, self.attribute, self.new = doc, attribute, value
+        self.old = getattr(doc.project, attribute)
+
+    def redo(self):
+        self.doc._set_project_attribute(self.attribute, self.new)
+
+    def undo(self):
+        self.doc._set_project_attribute(self.attribute, self.old)
+
+
+class EditSheetInfo(QUndoCommand):
+    """Replace the title-block facts of the design sheets (a whole SheetInfo value)."""
+
+    def __init__(self, doc, info, text: str):
+        super().__init__(text)
+        self.doc, self.new, self.old = doc, info, doc.project.sheet
+
+    def redo(self):
+        self.doc._set_project_attribute("sheet", self.new)
+
+    def undo(self):
+        self.doc._set_project_attribute("sheet", self.old)

@@ -1,0 +1,243 @@
+"""The lining comparison: several linings for the current channel side by side.
+
+A list to choose the linings (stored with the channel as its alternatives), a
+table with one row per lining, a small section for each, and two actions:
+apply the chosen row's lining to the channel (one undoable edit) and copy the
+table as tab-separated text.
+"""
+
+from __future__ import annotations
+
+import copy
+
+from PySide6.QtCore import Qt, Signal
+from PySide6.QtGui import QColor, QFontMetrics, QGuiApplication
+from PySide6.QtWidgets import (QAbstractItemView, QCheckBox, QGridLayout, QHBoxLayout, QHeaderView, QLabel,
+                               QPushButton, QScrollArea, QTableWidget, QTableWidgetItem, QVBoxLayout, QWidget)
+
+from ..project import LiningChoice
+from . import compute
+from .document import ProjectDocument
+from .fields import pretty
+from .plots import SectionPicture
+
+
+def wrap(text: str, width: int = 18) -> str:
+    """Break a lining name into short lines for a column heading."""
+    lines, line = [], ""
+    for word in text.replace(",", ", ").split():
+        if line and len(line) + 1 + len(word) > width:
+            lines.append(line)
+            line = word
+        else:
+            line = f"{line} {word}".strip()
+    lines.append(line)
+    return "\n".join(lines)
+
+COLUMN_WIDTH = 126
+CHOICE_WIDTH = 205
+CHOICE_COLUMNS = 3
+PICTURE_HEIGHT = 92
+STATUS_COLOURS = {"pass": "#e7f4ea", "fail": "#fbeaea", "unchecked": "#fff6e0", "none": "#eef0f2"}
+
+
+class ComparisonView(QWidget):
+    status_message = Signal(str)
+
+    def __init__(self, doc: ProjectDocument, parent=None):
+        super().__init__(parent)
+        self.doc = doc
+        self.rows: list[compute.ComparisonRow] = []
+        self.pictures: list[SectionPicture] = []
+
+        intro = QLabel("Tick linings to compare them for this channel at its design flow. Pick a column to "
+                       "apply that lining to the channel, or copy the table for a spreadsheet.")
+        intro.setWordWrap(True)
+        intro.setObjectName("hint")
+        self.unavailable = QLabel()
+        self.unavailable.setObjectName("staleNote")
+        self.unavailable.setWordWrap(True)
+
+        # the choice: a grid of ticks across the width, so that the table keeps the width
+        self.choices = QWidget()
+        self.choices.setObjectName("liningChoices")
+        self.choice_grid = QGridLayout(self.choices)
+        self.choice_grid.setContentsMargins(4, 2, 4, 2)
+        self.choice_grid.setHorizontalSpacing(12)
+        self.choice_grid.setVerticalSpacing(2)
+        self.checks: dict[str, QCheckBox] = {}
+        choice_scroll = QScrollArea()
+        choice_scroll.setWidgetResizable(True)
+        choice_scroll.setWidget(self.choices)
+        choice_scroll.setHorizontalScrollBarPolicy(Qt.ScrollBarPolicy.ScrollBarAlwaysOff)
+        choice_scroll.setFixedHeight(6 * 22 + 8)
+
+        self.table = QTableWidget(0, len(compute.COMPARISON_COLUMNS))
+        self.table.setObjectName("comparisonTable")
+        self.table.setSelectionBehavior(QAbstractItemView.SelectionBehavior.SelectColumns)
+        self.table.setSelectionMode(QAbstractItemView.SelectionMode.SingleSelection)
+        self.table.setEditTriggers(QAbstractItemView.EditTrigger.NoEditTriggers)
+        self.table.horizontalHeader().setSectionResizeMode(QHeaderView.ResizeMode.Fixed)
+        self.table.horizontalHeader().setDefaultSectionSize(COLUMN_WIDTH)
+        self.table.verticalHeader().setSectionResizeMode(QHeaderView.ResizeMode.ResizeToContents)
+        self.table.setWordWrap(True)
+        self.table.itemSelectionChanged.connect(self._selection_changed)
+
+        self.apply_button = QPushButton("Apply chosen lining to the channel")
+        self.apply_button.setObjectName("applyLining")
+        self.apply_button.clicked.connect(self.apply_selected)
+        self.copy_button = QPushButton("Copy table")
+        self.copy_button.setObjectName("copyTable")
+        self.copy_button.clicked.connect(self.copy_table)
+        buttons = QHBoxLayout()
+        buttons.addStretch(1)
+        buttons.addWidget(self.copy_button)
+        buttons.addWidget(self.apply_button)
+
+        right = QWidget()
+        rl = QVBoxLayout(right)
+        rl.setContentsMargins(0, 0, 0, 0)
+        rl.addWidget(self.table, 1)
+        rl.addLayout(buttons)
+        lay = QVBoxLayout(self)
+        lay.setContentsMargins(10, 10, 10, 10)
+        lay.addWidget(intro)
+        lay.addWidget(self.unavailable)
+        heading = QLabel("Linings to compare")
+        heading.setObjectName("subheading")
+        lay.addWidget(heading)
+        lay.addWidget(choice_scroll)
+        lay.addWidget(right, 1)
+
+        for sig in (doc.reset, doc.current_changed, doc.units_changed, doc.channel_changed):
+            sig.connect(self.mark_stale)
+        self._stale = True
+
+    # -- refreshing -----------------------------------------------------------------------
+    def mark_stale(self, *_signal_args) -> None:
+        self._stale = True
+        if self.isVisible():
+            self.refresh()
+
+    def showEvent(self, event):
+        super().showEvent(event)
+        if self._stale:
+            self.refresh()
+
+    def refresh(self) -> None:
+        """Linings side by side: one column each, the quantities down the side."""
+        self._stale = False
+        ch, units = self.doc.channel(), self.doc.units
+        self._fill_choices(ch)
+        self.rows, reason = compute.compare(ch, units)
+        self.unavailable.setText(reason)
+        self.unavailable.setVisible(bool(reason))
+        heads, body = compute.comparison_table(self.rows, units)
+        self._set_columns(len(body))
+        self.table.setRowCount(len(heads))          # row 0: the small section; then the quantities
+        self.table.setHorizontalHeaderLabels([wrap(cells[0]) for cells in body])
+        self.table.setVerticalHeaderLabels(["Section"] + [pretty(h) for h in heads[1:]])
+        self.table.setRowHeight(0, PICTURE_HEIGHT)
+        for j, (row, cells) in enumerate(zip(self.rows, body)):
+            self.table.horizontalHeaderItem(j).setToolTip(cells[0])
+            colour = QColor(STATUS_COLOURS.get(row.evaluation.verdict.status, "#ffffff"))
+            for i, text in enumerate(cells[1:], start=1):
+                item = QTableWidgetItem(text)
+                item.setTextAlignment(Qt.AlignmentFlag.AlignRight | Qt.AlignmentFlag.AlignVCenter)
+                if heads[i] == "Verdict":
+                    item.setBackground(colour)
+                    item.setTextAlignment(Qt.AlignmentFlag.AlignCenter)
+                    item.setToolTip(pretty(row.evaluation.verdict.reason))
+                self.table.setItem(i, j, item)
+        self._fill_pictures()
+        has_rows = bool(self.rows)
+        self.copy_button.setEnabled(has_rows)
+        self.apply_button.setEnabled(has_rows and self.selected() >= 0)
+
+    def selected(self) -> int:
+        """The column (lining) picked, or -1."""
+        cols = {i.column() for i in self.table.selectedIndexes()}
+        return cols.pop() if len(cols) == 1 else -1
+
+    def _fill_choices(self, ch) -> None:
+        choices = compute.catalogue_choices()
+        if [k for k, _ in choices] != list(self.checks):
+            for box in self.checks.values():
+                box.deleteLater()
+            self.checks.clear()
+            metrics = QFontMetrics(self.font())
+            for i, (key, name) in enumerate(choices):
+                box = QCheckBox(metrics.elidedText(name, Qt.TextElideMode.ElideRight, CHOICE_WIDTH - 24))
+                box.setObjectName(f"compare_{key}")
+                box.setToolTip(name)
+                box.setMinimumWidth(CHOICE_WIDTH)
+                box.toggled.connect(lambda on, key=key, name=name: self._choice_toggled(key, name, on))
+                self.choice_grid.addWidget(box, i // CHOICE_COLUMNS, i % CHOICE_COLUMNS)
+                self.checks[key] = box
+        chosen = {a.key for a in ch.alternatives}
+        own = ch.lining.key if ch.lining is not None else None
+        for key, box in self.checks.items():
+            box.blockSignals(True)
+            box.setChecked(key in chosen or key == own)
+            box.setEnabled(key != own)   # the channel's own lining is always compared
+            box.blockSignals(False)
+
+    def _set_columns(self, count: int) -> None:
+        """``count`` lining columns, each with its small section picture in row 0."""
+        if count < len(self.pictures):
+            for j in range(count, len(self.pictures)):
+                self.table.removeCellWidget(0, j)    # Qt deletes the canvas with it
+            del self.pictures[count:]
+        self.table.setColumnCount(count)
+        self.table.setRowCount(max(self.table.rowCount(), 1))
+        while len(self.pictures) < count:
+            pic = SectionPicture(width=COLUMN_WIDTH / 100, height=PICTURE_HEIGHT / 100, dpi=100, compact=True)
+            self.table.setCellWidget(0, len(self.pictures), pic.canvas)
+            self.pictures.append(pic)
+
+    def _fill_pictures(self) -> None:
+        units = self.doc.units
+        for pic, row in zip(self.pictures, self.rows):
+            if row.evaluation.ok:
+                thick = row.evaluation.lining.thickness if row.evaluation.lining else None
+                pic.update(row.evaluation, units, title="", lining_thickness=thick)
+            else:
+                pic.fade(True, "no result")
+            pic.canvas.draw_idle()
+
+    # -- actions -------------------------------------------------------------------------------
+    def _choice_toggled(self, key: str, name: str, on: bool) -> None:
+        ch = self.doc.channel()
+        current = [copy.deepcopy(a) for a in ch.alternatives]
+        if on and key not in {a.key for a in current}:
+            current.append(LiningChoice(key))
+            text = f"Compare {name}"
+        else:
+            current = [a for a in current if a.key != key]
+            text = f"Stop comparing {name}"
+        self.doc.edit("alternatives", current, text)
+
+    def _selection_changed(self) -> None:
+        self.apply_button.setEnabled(self.selected() >= 0 and bool(self.rows))
+
+    def select_lining(self, index: int) -> None:
+        self.table.selectColumn(index)
+
+    def apply_selected(self) -> None:
+        row = self.selected()
+        if not 0 <= row < len(self.rows):
+            self.status_message.emit("Pick a lining (a column of the table) first.")
+            return
+        choice = self.rows[row].choice
+        ch = self.doc.channel()
+        new = compute.with_lining(ch, choice)
+        if ch.lining is not None and all((a.key, a.d50) != (ch.lining.key, ch.lining.d50) for a in ch.alternatives):
+            new.alternatives.insert(0, copy.deepcopy(ch.lining))   # the lining it had stays in the comparison
+        self.doc.replace(new, f"Apply lining {self.rows[row].name}")
+        self.status_message.emit(f"Lining '{self.rows[row].name}' applied to {self.doc.channel().name}.")
+
+    def copy_table(self) -> str:
+        text = compute.comparison_tsv(self.rows, self.doc.units)
+        QGuiApplication.clipboard().setText(text)
+        self.status_message.emit(f"Comparison table copied ({len(self.rows)} rows, tab-separated).")
+        return text

@@ -1,0 +1,417 @@
+"""What the window shows for one channel, computed by the core. No Qt here.
+
+The widgets never compute: they hand a :class:`app.project.Channel` to
+:func:`evaluate` and draw what comes back. The numbers come from the
+shared channel evaluation (:mod:`app.evaluate`: design flow, uniform flow,
+lining stability by HEC-15, freeboard) and the lining comparison of
+:mod:`hydraulics.stability`; this module only shapes them for the window.
+"""
+
+from __future__ import annotations
+
+import copy
+import math
+from dataclasses import dataclass, field
+
+import numpy as np
+
+import hydraulics as hy
+from hydraulics.curves import rating_curve, specific_energy
+from hydraulics.stability import compare_linings
+from hydraulics.units import UnitSystem
+
+from ..evaluate import design_flow, evaluate_channel, load_default_catalogue
+from ..project import Channel, LiningChoice
+
+#: Core field names as the user reads them (for messages that name a field).
+FIELD_LABELS = {
+    "flow": "Design flow", "value": "Design flow", "slope": "Bed slope", "n": "Manning's n",
+    "manning_n": "Manning's n", "bottom_width": "Bottom width", "side_slope": "Side slope",
+    "left_slope": "Left side slope", "right_slope": "Right side slope", "diameter": "Diameter",
+    "top_width": "Top width", "at_depth": "Depth of top width", "stations": "Stations", "elevations": "Elevations",
+    "runoff_coefficient": "Runoff coefficient C", "intensity": "Rainfall intensity", "area": "Drainage area",
+    "flow_length": "Flow-path length", "flow_path_slope": "Flow-path slope", "depth": "Depth",
+    "min_freeboard": "Minimum freeboard", "bend_radius": "Bend radius", "d50": "Stone size D50",
+    "lining": "Lining",
+}
+
+
+@dataclass
+class Verdict:
+    status: str      # "pass" | "fail" | "unchecked" | "none"
+    headline: str    # a few words: "Lining holds", "Lining fails", ...
+    reason: str      # one sentence, with numbers in the user's units
+
+
+@dataclass
+class LiningCheck:
+    """The lining's stability at the design flow, from :func:`hydraulics.stability.check_lining`."""
+
+    key: str
+    name: str
+    category: str
+    manning_n: float
+    n_source: str                # how n was found, with its source
+    design_shear: float          # [Pa], of the governing check
+    permissible_shear: float | None   # [Pa], of the governing check (None: non-erodible)
+    safety_factor: float | None  # [-] of the governing check
+    required_safety_factor: float
+    stable: bool
+    verdict: str                 # "stable" | "not stable" | "non-erodible"
+    governs: str                 # "bed", "side slopes", "bend", "non-erodible"
+    thickness: float | None      # lining layer thickness [m]
+    stability: object = None     # the full hydraulics.stability.StabilityResult
+
+
+@dataclass
+class Evaluation:
+    """Everything shown for one channel, SI. ``result`` is None when there is no answer."""
+
+    flow: float | None = None
+    time_of_concentration: float | None = None   # Kirpich [s], when asked for
+    section: hy.Section | None = None
+    roughness: object = None      # the n the solver used: a number or a depth-dependent model
+    result: hy.ChannelResult | None = None
+    lining: LiningCheck | None = None
+    freeboard: float | None = None
+    superelevation: float | None = None
+    total_depth: float | None = None
+    top_width_at_top: float | None = None
+    verdict: Verdict = field(default_factory=lambda: Verdict("none", "No result", ""))
+    warnings: list = field(default_factory=list)
+    notes: list = field(default_factory=list)   # statements of method, with sources
+    error: str | None = None          # why there is no result, in words
+    error_field: str | None = None    # the core's name of the input at fault, if one is
+
+    @property
+    def ok(self) -> bool:
+        return self.result is not None
+
+
+def describe_error(exc: Exception) -> tuple[str, str | None]:
+    """(message in words, core field name or None) for an error from the core."""
+    if isinstance(exc, hy.InputError):
+        name = exc.field
+        label = FIELD_LABELS.get(name) or FIELD_LABELS.get(name.split(".")[-1]) or name.replace("_", " ")
+        if name.startswith("lining "):
+            label = "Lining " + name[len("lining "):]
+        text = str(exc).split(": ", 1)[-1]
+        return f"{label} {text}", name
+    if isinstance(exc, hy.NoSolutionError):
+        return f"No solution: {exc}", None
+    raise exc
+
+
+# -- the lining catalogue ----------------------------------------------------------
+LININGS_AVAILABLE = True
+_catalogue = None
+_user_catalogue_path = None
+catalogue_problem = ""   # why the user's catalogue was not used, in words ("" when it was)
+
+
+def use_user_catalogue(path) -> str:
+    """Lay the user's catalogue file (TOML) over the shipped one; returns a complaint or ""."""
+    global _catalogue, _user_catalogue_path
+    _user_catalogue_path = path
+    _catalogue = None
+    catalogue()
+    return catalogue_problem
+
+
+def catalogue():
+    """The lining catalogue in use (shipped, with the user's file when it is readable)."""
+    global _catalogue, catalogue_problem
+    if _catalogue is None:
+        catalogue_problem = ""
+        try:
+            _catalogue = load_default_catalogue(_user_catalogue_path)
+        except hy.InputError as exc:
+            catalogue_problem = f"The user lining catalogue {_user_catalogue_path} was not used: {exc}"
+            _catalogue = load_default_catalogue(None)
+    return _catalogue
+
+
+def catalogue_choices() -> list[tuple[str, str]]:
+    """(key, name) of every lining the user can choose, in catalogue order."""
+    return [(lin.key, lin.name) for lin in catalogue()]
+
+
+def lining_entry(key: str):
+    return catalogue().get(key)
+
+
+def solver_roughness(channel: Channel):
+    """The n the solver uses for ``channel``: the lining's own roughness, else the channel's Manning's n.
+
+    A surveyed section with neither uses its own n per segment (the section
+    itself is the roughness model; :func:`hydraulics.solvers.resolve_roughness`).
+    """
+    if channel.lining is not None:
+        entry = catalogue().get(channel.lining.key)
+        return entry.roughness(channel.lining.d50 if entry.category == "stone" else None)
+    if channel.manning_n is not None:
+        return channel.manning_n
+    section = channel.build_section()
+    if section.kind == "irregular":
+        return section
+    raise hy.InputError("manning_n", "is missing: give Manning's n or choose a lining")
+
+
+def _for_facade(channel: Channel) -> Channel:
+    """The channel as the evaluation facade takes it: no comparison (the comparison view asks on demand)."""
+    out = copy.copy(channel)
+    out.alternatives = []
+    return out
+
+
+def _lining_check(st) -> LiningCheck:
+    gov = st.governing_check()
+    return LiningCheck(key=st.lining_key, name=st.lining_name, category=st.category, manning_n=st.manning_n,
+                       n_source=st.n_source, design_shear=gov.design_shear if gov else st.bed_shear,
+                       permissible_shear=gov.permissible_shear if gov else None,
+                       safety_factor=gov.safety_factor if gov else None,
+                       required_safety_factor=gov.required_safety_factor if gov else st.required_safety_factor,
+                       stable=st.stable, verdict=st.verdict, governs=st.governs, thickness=st.layer_thickness,
+                       stability=st)
+
+
+def _verdict(ev: Evaluation, units: UnitSystem) -> Verdict:
+    full = ev.section.full_depth
+    if full is not None and ev.total_depth > full * (1 + 1e-9):
+        where = "crown of the pipe" if ev.section.kind == "circle" else "lower bank"
+        return Verdict("fail", "Too small", f"Water plus freeboard reaches {_len(ev.total_depth, units)}, above "
+                                            f"the {where} at {_len(full, units)}.")
+    if ev.lining is None:
+        n_words = ("the surveyed section's n" if ev.section.kind == "irregular" and isinstance(ev.roughness, hy.Section)
+                   else "the Manning's n given")
+        return Verdict("unchecked", "Hydraulics only",
+                       f"No lining chosen: depth and velocity use {n_words}, and no shear is "
+                       "checked. Choose a lining to check its stability.")
+    st = ev.lining.stability
+    reason = st.reason(units)
+    reason = reason[:1].upper() + reason[1:] + "."
+    if st.verdict == "non-erodible":
+        return Verdict("pass", "Rigid lining", reason)
+    if st.stable:
+        return Verdict("pass", "Lining holds", reason)
+    return Verdict("fail", "Lining fails", reason)
+
+
+@dataclass
+class ComparisonRow:
+    choice: LiningChoice
+    name: str
+    evaluation: Evaluation
+    core: object = None                    # hydraulics.stability.ComparisonRow
+    cost_per_length: float | None = None   # [currency/m], from the user's unit costs
+
+
+def comparison_choices(channel: Channel) -> list[LiningChoice]:
+    """The channel's own lining first, then its alternatives (each once)."""
+    out, seen = [], set()
+    for c in ([channel.lining] if channel.lining is not None else []) + list(channel.alternatives):
+        key = (c.key, c.d50)
+        if key not in seen:
+            seen.add(key)
+            out.append(c)
+    return out
+
+
+def compare(channel: Channel, units: UnitSystem) -> tuple[list[ComparisonRow], str]:
+    """One row per lining for the same channel and flow, and a reason when there can be none."""
+    choices = comparison_choices(channel)
+    if not choices:
+        return [], "Tick linings in the list to compare them for this channel."
+    try:
+        q, _tc, _w, _n = design_flow(channel)
+        section = channel.build_section()
+        rows = compare_linings(section, q, channel.slope, choices, catalogue(), bend_radius=channel.bend_radius,
+                               min_freeboard=channel.min_freeboard)
+    except (hy.InputError, hy.NoSolutionError) as exc:
+        return [], describe_error(exc)[0]
+    out = []
+    for choice, row in zip(choices, rows):
+        ev = Evaluation(flow=q, section=section)
+        if row.result is not None:
+            st = row.result
+            ev.result, ev.freeboard, ev.total_depth = st.analysis, st.freeboard, st.total_depth
+            ev.superelevation, ev.top_width_at_top = st.superelevation, st.top_width_at_top
+            ev.lining = _lining_check(st)
+            ev.warnings = list(st.warnings)
+            ev.verdict = _verdict(ev, units)
+        else:
+            ev.error = row.reason
+            ev.verdict = Verdict("none", "No solution", row.reason)
+        out.append(ComparisonRow(LiningChoice(row.key, row.d50 if choice.d50 is not None or row.d50 else None),
+                                 row.name, ev, row, row.cost_per_length))
+    return out, ""
+
+
+def _num(attr):
+    return lambda r: None if r.core is None else getattr(r.core, attr)
+
+
+#: Columns of the comparison table: (heading, quantity for the unit, how to read the value from a row).
+COMPARISON_COLUMNS = (
+    ("Lining", "", lambda r: r.name),
+    ("Depth", "length", _num("depth")),
+    ("Velocity", "velocity", _num("velocity")),
+    ("Froude", "", _num("froude")),
+    ("n", "", _num("manning_n")),
+    ("Design shear", "shear", _num("design_shear")),
+    ("Permissible shear", "shear", _num("permissible_shear")),
+    ("Safety factor", "", _num("safety_factor")),
+    ("Verdict", "", lambda r: r.evaluation.verdict.headline),
+    ("Governs", "", lambda r: (r.core.governs or "") if r.core is not None else ""),
+    ("Total depth", "length", _num("total_depth")),
+    ("Lined width", "length", _num("lined_width")),
+    ("Layer volume", "volume_per_length", _num("layer_volume")),
+    ("Cost", "cost_per_length", lambda r: r.cost_per_length),
+)
+_DIGITS = {"Depth": 3, "Velocity": 2, "Froude": 2, "n": 4, "Design shear": 1, "Permissible shear": 1,
+           "Safety factor": 2, "Cost": 2, "Total depth": 3, "Lined width": 2, "Layer volume": 3}
+
+
+def comparison_table(rows, units: UnitSystem) -> tuple[list[str], list[list[str]]]:
+    """Headings with units, and the cells as text in the user's units."""
+    heads = [h + (f" [{units.label(q)}]" if q else "") for h, q, _ in COMPARISON_COLUMNS]
+    body = []
+    for r in rows:
+        cells = []
+        for head, q, get in COMPARISON_COLUMNS:
+            v = get(r)
+            if head == "Lining" and r.choice.d50:
+                v += f", D50 {units.from_si('small_length', r.choice.d50):.0f} {units.label('small_length')}"
+            if head == "Permissible shear" and v is None and r.core is not None and r.core.verdict == "non-erodible":
+                v = "non-erodible"
+            if v is None:
+                cells.append("—")
+            elif isinstance(v, str):
+                cells.append(v)
+            else:
+                v = float(units.from_si(q, v)) if q else float(v)
+                cells.append(f"{v:.{_DIGITS.get(head, 3)}f}")
+        body.append(cells)
+    return heads, body
+
+
+def comparison_tsv(rows, units: UnitSystem) -> str:
+    """The comparison as tab-separated text, for pasting into a spreadsheet."""
+    heads, body = comparison_table(rows, units)
+    return "\n".join("\t".join(c.replace("\t", " ") for c in line) for line in [heads, *body]) + "\n"
+
+
+def with_lining(channel: Channel, choice: LiningChoice) -> Channel:
+    """A copy of ``channel`` lined with ``choice``."""
+    out = copy.deepcopy(channel)
+    out.lining = copy.deepcopy(choice)
+    return out
+
+
+# -- the evaluation ------------------------------------------------------------
+def evaluate(channel: Channel, units: UnitSystem) -> Evaluation:
+    """Flow, normal and critical depth, the lining check and a verdict; never raises for bad input.
+
+    Everything goes through the shared evaluation :func:`app.evaluate.evaluate_channel`
+    (the same numbers as the command line and the design sheet). The
+    comparison is left out here and made by :func:`compare` when it is shown.
+    """
+    ev = Evaluation()
+    try:
+        design = evaluate_channel(_for_facade(channel), catalogue())
+    except (hy.InputError, hy.NoSolutionError) as exc:
+        ev.error, ev.error_field = describe_error(exc)
+        ev.verdict = Verdict("none", "No result", ev.error)
+        try:   # the flow and t_c lines of the form still have something to say
+            ev.flow, ev.time_of_concentration, _w, _n = design_flow(channel)
+        except hy.InputError:
+            pass
+        return ev
+    ev.flow, ev.time_of_concentration = design.flow, design.time_of_concentration
+    ev.section, ev.result = design.section, design.analysis
+    ev.freeboard, ev.superelevation = design.freeboard, design.superelevation
+    ev.total_depth, ev.top_width_at_top = design.total_depth, design.top_width_at_top
+    ev.warnings, ev.notes = list(design.warnings), list(design.notes)
+    ev.lining = _lining_check(design.stability) if design.stability is not None else None
+    ev.roughness = solver_roughness(channel)
+    ev.verdict = _verdict(ev, units)
+    return ev
+
+
+def check_section(channel: Channel) -> tuple[str, str | None] | None:
+    """A refusal (message, core field) if the channel's section cannot be built, else None.
+
+    The fields check their own ranges; this catches what only the combination
+    decides (a V-ditch with both sides vertical, a survey whose ends are lower
+    than its bottom). Other gaps (a rational flow still missing C) are shown by
+    :func:`evaluate` as the reason there is no result.
+    """
+    try:
+        channel.build_section()
+    except hy.InputError as exc:
+        return describe_error(exc)
+    return None
+
+
+# -- curves ----------------------------------------------------------------------
+@dataclass
+class RatingData:
+    depths: np.ndarray       # [m]
+    flows: np.ndarray        # [m^3/s], Manning at each depth
+    critical: np.ndarray     # critical depth for each flow [m] (nan where none)
+
+
+def rating(channel: Channel, ev: Evaluation, points: int = 120) -> RatingData | None:
+    """Flow against depth up to about 1.6 times the design total depth (or the full depth)."""
+    if not ev.ok:
+        return None
+    top = 1.6 * max(ev.total_depth, ev.result.normal_depth)
+    cap = ev.section.capacity_depth
+    if cap is not None:
+        top = min(top, cap)
+    depths = np.linspace(top / points, top, points)
+    flows = rating_curve(ev.section, channel.slope, ev.roughness, depths)
+    crit = np.full_like(flows, np.nan)
+    try:
+        crit = np.asarray(hy.critical_depth(ev.section, flows), dtype=float)
+    except hy.NoSolutionError:
+        for i, q in enumerate(flows):
+            try:
+                crit[i] = hy.critical_depth(ev.section, float(q))
+            except hy.NoSolutionError:
+                pass
+    return RatingData(depths, flows, crit)
+
+
+@dataclass
+class EnergyData:
+    depths: np.ndarray       # [m]
+    energy: np.ndarray       # [m]
+    critical_depth: float
+    min_energy: float
+    normal_depth: float
+    normal_energy: float
+
+
+def energy(channel: Channel, ev: Evaluation, points: int = 200) -> EnergyData | None:
+    """Specific energy against depth for the design flow, from a quarter of y_c to past y_n."""
+    if not ev.ok:
+        return None
+    r = ev.result
+    top = 2.2 * max(r.normal_depth, r.critical_depth)
+    full = ev.section.full_depth
+    if full is not None:
+        top = min(top, full)
+    low = 0.3 * min(r.normal_depth, r.critical_depth)
+    depths = np.geomspace(low, top, points)
+    e = specific_energy(ev.section, ev.flow, depths)
+    return EnergyData(depths, e, r.critical_depth, specific_energy(ev.section, ev.flow, r.critical_depth),
+                      r.normal_depth, r.specific_energy)
+
+
+def _len(value: float, units: UnitSystem) -> str:
+    return f"{units.from_si('length', value):.2f} {units.label('length')}"
+
+
+def finite(value) -> bool:
+    return value is not None and math.isfinite(value)

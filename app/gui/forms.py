@@ -1,0 +1,653 @@
+"""The input forms of one channel: name, design flow, grade, section, lining, bend and freeboard.
+
+The forms show the current channel of a :class:`~app.gui.document.ProjectDocument`
+in the project's units and turn each accepted edit into one undoable command.
+They never compute: the computed lines (design flow by the rational method,
+Kirpich's time) come back from the window's evaluation through
+:meth:`InputPanel.show_evaluation`.
+"""
+
+from __future__ import annotations
+
+from PySide6.QtCore import Qt, Signal
+from PySide6.QtGui import QColor
+from PySide6.QtWidgets import (QAbstractItemView, QComboBox, QGridLayout, QGroupBox, QHBoxLayout, QHeaderView,
+                               QLabel, QPushButton, QScrollArea, QTableWidget,
+                               QTableWidgetItem, QVBoxLayout, QWidget)
+
+from hydraulics.units import UnitSystem
+
+from ..project import LiningChoice
+from . import compute
+from .document import ProjectDocument, section_for_shape, value_at, with_value
+from .fields import FieldSpec, LineEdit, NotesEdit, NumberField, format_number, parse_number, pretty, set_invalid
+
+SHAPES = (
+    ("trapezoid", "Trapezoid"),
+    ("triangle", "V-ditch (triangle)"),
+    ("rectangle", "Rectangle"),
+    ("parabola", "Parabolic swale"),
+    ("circle", "Pipe, part full"),
+    ("irregular", "Surveyed section"),
+)
+FLOW_METHODS = (("typed", "Typed value"), ("rational", "Rational method (Q = C i A)"))
+
+F = FieldSpec
+FLOW = F("flow.value", "Design flow Q", "flow", tip="Design discharge")
+RATIONAL = (
+    F("flow.runoff_coefficient", "Runoff coefficient C", "", 0.0, False, 1.0, True,
+      tip="Fraction of the rainfall that runs off, 0 < C <= 1"),
+    F("flow.intensity", "Rainfall intensity i", "intensity",
+      tip="Intensity for a storm lasting the time of concentration"),
+    F("flow.area", "Drainage area A", "drainage_area"),
+    F("flow.flow_length", "Flow-path length L", "length", optional=True,
+      tip="Longest flow path of the basin, for Kirpich's time of concentration (optional)"),
+    F("flow.flow_path_slope", "Flow-path slope", "slope", 0.0, False, 1.0, True, optional=True,
+      tip="Average slope along that path as a ratio, or a percentage with %"),
+)
+SLOPE = F("slope", "Bed slope S", "slope", 0.0, False, 1.0, True,
+          tip="Grade of the ditch as a ratio (0.005), or a percentage with % (0.5 %)")
+SIDE = dict(quantity="", low=0.0, low_inclusive=True, unit_text="H : 1V")
+SECTION_FIELDS = {
+    "trapezoid": (F("section.bottom_width", "Bottom width b", "length", 0.0, True),
+                  F("section.left_slope", "Left side slope", **SIDE), F("section.right_slope", "Right side slope", **SIDE)),
+    "triangle": (F("section.left_slope", "Left side slope", **SIDE), F("section.right_slope", "Right side slope", **SIDE)),
+    "rectangle": (F("section.bottom_width", "Bottom width b", "length"),),
+    "parabola": (F("section.top_width", "Top width T", "length"),
+                 F("section.at_depth", "at depth", "length", tip="Depth at which the top width is measured")),
+    "circle": (F("section.diameter", "Diameter D", "length"),),
+}
+MANNING = F("manning_n", "Manning's n", "", 0.0, False, 1.0, True,
+            tip="Roughness of the lining, e.g. 0.013 smooth concrete, 0.030 to 0.040 grass or stone")
+D50 = F("lining.d50", "Stone size D50", "small_length", optional=True,
+        tip="Median stone size of the riprap or gravel; empty for the catalogue's own size")
+BEND = F("bend_radius", "Bend radius", "length", optional=True,
+         tip="Centre-line radius of the sharpest bend (empty for a straight ditch)")
+FREEBOARD = F("min_freeboard", "Minimum freeboard", "length", 0.0, True)
+
+#: The core's field names -> the form's input path (to mark the field an error names).
+CORE_TO_PATH = {
+    "flow": "flow.value", "runoff_coefficient": "flow.runoff_coefficient", "intensity": "flow.intensity",
+    "area": "flow.area", "flow_length": "flow.flow_length", "flow_path_slope": "flow.flow_path_slope",
+    "slope": "slope", "n": "manning_n", "manning_n": "manning_n", "bottom_width": "section.bottom_width",
+    "side_slope": "section.left_slope", "left_slope": "section.left_slope", "right_slope": "section.right_slope",
+    "top_width": "section.top_width", "at_depth": "section.at_depth", "diameter": "section.diameter",
+    "bend_radius": "bend_radius", "min_freeboard": "min_freeboard", "d50": "lining.d50",
+    "flow.value": "flow.value", "flow.flow_length": "flow.flow_length", "flow.flow_path_slope": "flow.flow_path_slope",
+}
+
+
+def _grid() -> QGridLayout:
+    g = QGridLayout()
+    g.setColumnStretch(1, 1)
+    g.setColumnMinimumWidth(0, 140)
+    g.setHorizontalSpacing(8)
+    g.setVerticalSpacing(4)
+    return g
+
+
+def _group(title: str) -> tuple[QGroupBox, QGridLayout]:
+    box = QGroupBox(title)
+    grid = _grid()
+    box.setLayout(grid)
+    return box, grid
+
+
+class SurveyTable(QWidget):
+    """A surveyed section as a table of points: station, elevation, and n of the segment to the next point."""
+
+    changed = Signal(dict, str)    # new section dict (SI), description of the edit
+    invalid = Signal(str)
+
+    def __init__(self, parent=None):
+        super().__init__(parent)
+        self.units = None
+        self.section = None
+        self.table = QTableWidget(0, 3)
+        self.table.setObjectName("surveyTable")
+        self.table.verticalHeader().setDefaultSectionSize(24)
+        self.table.horizontalHeader().setSectionResizeMode(QHeaderView.ResizeMode.Stretch)
+        self.table.setSelectionBehavior(QAbstractItemView.SelectionBehavior.SelectRows)
+        self.table.setMinimumHeight(200)
+        self.table.itemChanged.connect(self._edited)
+        self.add = QPushButton("Add point")
+        self.remove = QPushButton("Remove point")
+        self.add.clicked.connect(self._add_point)
+        self.remove.clicked.connect(self._remove_point)
+        self.message = QLabel()
+        self.message.setObjectName("fieldMessage")
+        self.message.setWordWrap(True)
+        self.message.hide()
+        note = QLabel("Points from left bank to right bank. n is for the segment to the next point.")
+        note.setObjectName("hint")
+        note.setWordWrap(True)
+        buttons = QHBoxLayout()
+        buttons.addWidget(self.add)
+        buttons.addWidget(self.remove)
+        buttons.addStretch(1)
+        lay = QVBoxLayout(self)
+        lay.setContentsMargins(0, 0, 0, 0)
+        lay.addWidget(note)
+        lay.addWidget(self.table)
+        lay.addLayout(buttons)
+        lay.addWidget(self.message)
+
+    def load(self, section: dict, units: UnitSystem) -> None:
+        self.section, self.units = section, units
+        L = units.label("length")
+        self.table.setHorizontalHeaderLabels([f"Station [{L}]", f"Elevation [{L}]", "n to next"])
+        self.table.blockSignals(True)
+        xs, zs, ns = section["stations"], section["elevations"], section["n"]
+        if not isinstance(ns, list):
+            ns = [ns] * (len(xs) - 1)
+        self.table.setRowCount(len(xs))
+        for i, (x, z) in enumerate(zip(xs, zs)):
+            self.table.setItem(i, 0, self._item(format_number(units.from_si("length", x))))
+            self.table.setItem(i, 1, self._item(format_number(units.from_si("length", z))))
+            if i < len(xs) - 1:
+                self.table.setItem(i, 2, self._item(format_number(ns[i])))
+            else:
+                last = self._item("")
+                last.setFlags(Qt.ItemFlag.NoItemFlags)
+                self.table.setItem(i, 2, last)
+        self.table.blockSignals(False)
+        self._set_message("")
+
+    @staticmethod
+    def _item(text: str) -> QTableWidgetItem:
+        item = QTableWidgetItem(text)
+        item.setTextAlignment(Qt.AlignmentFlag.AlignRight | Qt.AlignmentFlag.AlignVCenter)
+        return item
+
+    def _set_message(self, text: str) -> None:
+        self.message.setText(text)
+        self.message.setVisible(bool(text))
+
+    def _read(self):
+        rows = self.table.rowCount()
+        xs, zs, ns = [], [], []
+        for i in range(rows):
+            for col, out in ((0, xs), (1, zs), (2, ns)):
+                if col == 2 and i == rows - 1:
+                    continue
+                item = self.table.item(i, col)
+                text = item.text() if item else ""
+                try:
+                    v = parse_number(text)
+                except ValueError:
+                    name = ("station", "elevation", "n")[col]
+                    raise ValueError(f"Point {i + 1}: the {name} '{text}' is not a number.") from None
+                if col == 2 and not 0 < v <= 1:
+                    raise ValueError(f"Point {i + 1}: n must be > 0 and ≤ 1; {text} is outside.")
+                out.append(self.units.to_si("length", v) if col < 2 else v)
+        return {"shape": "irregular", "stations": xs, "elevations": zs, "n": ns}
+
+    def _mark(self, row_col=None):
+        self.table.blockSignals(True)   # a new background is itself an itemChanged
+        for i in range(self.table.rowCount()):
+            for j in range(3):
+                item = self.table.item(i, j)
+                if item is not None:
+                    item.setBackground(QColor("#fde8e8") if (i, j) == row_col else QColor(0, 0, 0, 0))
+        self.table.blockSignals(False)
+
+    def _edited(self, item: QTableWidgetItem) -> None:
+        row, col = item.row(), item.column()
+        try:
+            section = self._read()
+        except ValueError as exc:
+            self._mark((row, col))
+            self._set_message(str(exc))
+            self.invalid.emit(str(exc))
+            return
+        self._mark(None)
+        self._set_message("")
+        self.changed.emit(section, f"Edit surveyed point {row + 1}")
+
+    def _add_point(self) -> None:
+        s = dict(self.section)
+        xs, zs, ns = list(s["stations"]), list(s["elevations"]), list(s["n"]) if isinstance(s["n"], list) else []
+        row = self.table.currentRow()
+        row = row if 0 <= row < len(xs) - 1 else len(xs) - 2
+        xs.insert(row + 1, (xs[row] + xs[row + 1]) / 2)
+        zs.insert(row + 1, (zs[row] + zs[row + 1]) / 2)
+        ns.insert(row + 1, ns[row] if ns else 0.03)
+        self.changed.emit({"shape": "irregular", "stations": xs, "elevations": zs, "n": ns},
+                          f"Add surveyed point {row + 2}")
+
+    def _remove_point(self) -> None:
+        s = self.section
+        if len(s["stations"]) <= 3:
+            self._set_message("A surveyed section needs at least 3 points.")
+            return
+        row = self.table.currentRow()
+        row = row if 0 <= row < len(s["stations"]) else len(s["stations"]) - 1
+        xs = [v for i, v in enumerate(s["stations"]) if i != row]
+        zs = [v for i, v in enumerate(s["elevations"]) if i != row]
+        ns = list(s["n"])
+        del ns[min(row, len(ns) - 1)]
+        self.changed.emit({"shape": "irregular", "stations": xs, "elevations": zs, "n": ns},
+                          f"Remove surveyed point {row + 1}")
+
+
+class LiningForm(QWidget):
+    """The lining: a catalogue entry (with its stone size), or none and a Manning's n."""
+
+    def __init__(self, panel: "InputPanel"):
+        super().__init__()
+        self.panel = panel
+        grid = _grid()
+        grid.setContentsMargins(0, 0, 0, 0)
+        self.setLayout(grid)
+        self.combo = QComboBox()
+        self.combo.setObjectName("lining")
+        self.combo.setSizeAdjustPolicy(QComboBox.SizeAdjustPolicy.AdjustToMinimumContentsLengthWithIcon)
+        self.combo.setMinimumContentsLength(12)
+        self.combo.activated.connect(self._chosen)
+        grid.addWidget(QLabel("Lining"), 0, 0)
+        grid.addWidget(self.combo, 0, 1, 1, 2)
+        self.message = QLabel()
+        self.message.setObjectName("fieldMessage")
+        self.message.setWordWrap(True)
+        self.message.hide()
+        grid.addWidget(self.message, 1, 1, 1, 2)
+        self.d50 = panel._number(D50)
+        row = self.d50.place(grid, 2)
+        self.n = panel._number(MANNING)
+        row = self.n.place(grid, row)
+        self.n_label, self.n_value = QLabel("n at the design flow"), QLabel()
+        self.n_value.setObjectName("computed")
+        self.n_value.setAlignment(Qt.AlignmentFlag.AlignRight | Qt.AlignmentFlag.AlignVCenter)
+        grid.addWidget(self.n_label, row, 0)
+        grid.addWidget(self.n_value, row, 1, 1, 2)
+        self.note = QLabel()
+        self.note.setObjectName("hint")
+        self.note.setWordWrap(True)
+        grid.addWidget(self.note, row + 1, 0, 1, 3)
+        self._fill()
+
+    def _fill(self) -> None:
+        self.combo.clear()
+        self.combo.addItem("None: Manning's n only", "")
+        by_category = {}
+        for lin in compute.catalogue():
+            by_category.setdefault(lin.category, []).append(lin)
+        for category, linings in by_category.items():
+            self.combo.insertSeparator(self.combo.count())
+            for lin in linings:
+                self.combo.addItem(lin.name + (" (your data)" if lin.user_data else ""), lin.key)
+                self.combo.setItemData(self.combo.count() - 1, f"{category}: {lin.key}", Qt.ItemDataRole.ToolTipRole)
+
+    def _chosen(self, index: int) -> None:
+        key = self.combo.itemData(index)
+        ch = self.panel.doc.channel()
+        if not key:
+            if ch.lining is not None:
+                self.panel.doc.edit("lining", None, "Remove the lining")
+            return
+        if ch.lining is not None and ch.lining.key == key:
+            return
+        self.panel.doc.edit("lining", LiningChoice(key), f"Line with {self.combo.itemText(index)}")
+
+    def load(self, channel, units: UnitSystem, force: bool) -> None:
+        self.set_message("")
+        lining = channel.lining
+        entry = None
+        if lining is not None and lining.key in compute.catalogue():
+            entry = compute.lining_entry(lining.key)
+        i = self.combo.findData(lining.key if lining is not None else "")
+        if i < 0:   # a key this catalogue does not know: show it, say so
+            self.combo.addItem(f"{lining.key} (not in the catalogue)", lining.key)
+            i = self.combo.count() - 1
+        self.combo.setCurrentIndex(i)
+        stone = entry is not None and entry.category == "stone"
+        self.d50.set_visible(stone)
+        if stone:
+            self.d50.show_value(lining.d50, units, force)
+            default = entry.d50
+            self.d50.edit.setPlaceholderText(
+                f"catalogue: {units.from_si('small_length', default):.0f}" if default else "needed")
+        surveyed = channel.section.get("shape") == "irregular"
+        plain = lining is None
+        self.n.set_visible(plain and not (surveyed and channel.manning_n is None))
+        if plain:
+            self.n.show_value(channel.manning_n, units, force)
+        for w in (self.n_label, self.n_value):
+            w.setVisible(not plain)
+        notes = []
+        if plain and surveyed and channel.manning_n is None:
+            notes.append("Manning's n is set per segment in the surveyed-section table.")
+        if not plain and channel.manning_n is not None:
+            notes.append("The lining sets Manning's n; the n typed for the channel applies only without a lining.")
+        self.note.setText(" ".join(notes))
+        self.note.setVisible(bool(notes))
+
+    def show_evaluation(self, ev) -> None:
+        if ev.lining is not None:
+            self.n_value.setText(f"{ev.lining.manning_n:.4f}")
+            self.n_value.setToolTip(ev.lining.n_source)
+            self.note.setText(ev.lining.n_source[:1].upper() + ev.lining.n_source[1:] + ".")
+            self.note.setVisible(True)
+        elif not self.n_label.isHidden():
+            self.n_value.setText("—")
+        if ev.error_field and ev.error_field.startswith("lining"):
+            self.set_message(ev.error)
+
+    def set_message(self, text: str) -> None:
+        self.message.setText(text)
+        self.message.setVisible(bool(text))
+        set_invalid(self.combo, bool(text))
+
+    def fields(self):
+        return [self.n, self.d50]
+
+
+class ShapePages(QWidget):
+    """One page of fields per shape; only the current one is shown and takes room."""
+
+    def __init__(self):
+        super().__init__()
+        self._pages = []
+        self._current = -1
+        lay = QVBoxLayout(self)
+        lay.setContentsMargins(0, 0, 0, 0)
+
+    def addWidget(self, page: QWidget) -> None:
+        self._pages.append(page)
+        self.layout().addWidget(page)
+        page.setVisible(len(self._pages) - 1 == max(self._current, 0))
+        if self._current < 0:
+            self._current = 0
+
+    def setCurrentIndex(self, index: int) -> None:
+        self._current = index
+        for i, page in enumerate(self._pages):
+            page.setVisible(i == index)
+
+    def currentIndex(self) -> int:
+        return self._current
+
+    def currentWidget(self) -> QWidget:
+        return self._pages[self._current]
+
+
+class InputPanel(QScrollArea):
+    """Every input of the current channel, in reading order, in aligned groups."""
+
+    validity_changed = Signal(str)   # "" when every field is valid, else the first complaint
+
+    def __init__(self, doc: ProjectDocument, parent=None):
+        super().__init__(parent)
+        self.doc = doc
+        self.fields: dict[str, NumberField] = {}
+        self._invalid: dict[str, str] = {}
+        self.setWidgetResizable(True)
+        self.setHorizontalScrollBarPolicy(Qt.ScrollBarPolicy.ScrollBarAlwaysOff)
+        body = QWidget()
+        body.setObjectName("inputBody")
+        lay = QVBoxLayout(body)
+        lay.setContentsMargins(10, 8, 10, 8)
+        lay.setSpacing(10)
+
+        # channel
+        box, grid = _group("Channel")
+        self.name = LineEdit()
+        self.name.setObjectName("name")
+        self.location = LineEdit()
+        self.location.setObjectName("location")
+        self.location.setPlaceholderText("station range or where it runs")
+        self.name_message = QLabel()
+        self.name_message.setObjectName("fieldMessage")
+        self.name_message.hide()
+        grid.addWidget(QLabel("Name"), 0, 0)
+        grid.addWidget(self.name, 0, 1, 1, 2)
+        grid.addWidget(self.name_message, 1, 1, 1, 2)
+        grid.addWidget(QLabel("Location"), 2, 0)
+        grid.addWidget(self.location, 2, 1, 1, 2)
+        self.name.editingFinished.connect(self._rename)
+        self.location.editingFinished.connect(self._relocate)
+        lay.addWidget(box)
+
+        # flow
+        box, grid = _group("Design flow")
+        self.method = QComboBox()
+        self.method.setObjectName("flowMethod")
+        for key, text in FLOW_METHODS:
+            self.method.addItem(text, key)
+        self.method.activated.connect(self._method_chosen)
+        self.method.setSizeAdjustPolicy(QComboBox.SizeAdjustPolicy.AdjustToMinimumContentsLengthWithIcon)
+        self.method.setMinimumContentsLength(12)
+        grid.addWidget(QLabel("Obtained by"), 0, 0)
+        grid.addWidget(self.method, 0, 1, 1, 2)
+        row = self._number(FLOW).place(grid, 1)
+        for spec in RATIONAL:
+            row = self._number(spec).place(grid, row)
+        self.tc_label, self.tc_value = QLabel("Time of concentration"), QLabel()
+        self.q_label, self.q_value = QLabel("Design flow Q = C i A"), QLabel()
+        for lab, val in ((self.tc_label, self.tc_value), (self.q_label, self.q_value)):
+            val.setObjectName("computed")
+            val.setAlignment(Qt.AlignmentFlag.AlignRight | Qt.AlignmentFlag.AlignVCenter)
+            grid.addWidget(lab, row, 0)
+            grid.addWidget(val, row, 1, 1, 2)
+            row += 1
+        self.flow_box = box
+        lay.addWidget(box)
+
+        # grade
+        box, grid = _group("Grade")
+        self._number(SLOPE).place(grid, 0)
+        lay.addWidget(box)
+
+        # section
+        box, grid = _group("Cross-section")
+        self.shape = QComboBox()
+        self.shape.setObjectName("shape")
+        for key, text in SHAPES:
+            self.shape.addItem(text, key)
+        self.shape.activated.connect(self._shape_chosen)
+        self.shape.setSizeAdjustPolicy(QComboBox.SizeAdjustPolicy.AdjustToMinimumContentsLengthWithIcon)
+        self.shape.setMinimumContentsLength(12)
+        grid.addWidget(QLabel("Shape"), 0, 0)
+        grid.addWidget(self.shape, 0, 1, 1, 2)
+        self.shape_pages = ShapePages()
+        self.shape_fields: dict[str, list[NumberField]] = {}
+        for key, _ in SHAPES:
+            page = QWidget()
+            if key == "irregular":
+                self.survey = SurveyTable()
+                self.survey.changed.connect(self._survey_changed)
+                self.survey.invalid.connect(lambda msg: self._note_invalid("survey", msg))
+                pl = QVBoxLayout(page)
+                pl.setContentsMargins(0, 4, 0, 0)
+                pl.addWidget(self.survey)
+            else:
+                pg = _grid()
+                pg.setContentsMargins(0, 4, 0, 0)
+                page.setLayout(pg)
+                r = 0
+                self.shape_fields[key] = []
+                for spec in SECTION_FIELDS[key]:
+                    f = self._number(spec, key=f"{key}:{spec.path}")
+                    self.shape_fields[key].append(f)
+                    r = f.place(pg, r)
+            self.shape_pages.addWidget(page)
+        grid.addWidget(self.shape_pages, 1, 0, 1, 3)
+        lay.addWidget(box)
+
+        # lining
+        box, grid = _group("Lining")
+        self.lining = LiningForm(self)
+        grid.addWidget(self.lining, 0, 0, 1, 3)
+        lay.addWidget(box)
+
+        # bend and freeboard
+        box, grid = _group("Bend and freeboard")
+        row = self._number(BEND).place(grid, 0)
+        self._number(FREEBOARD).place(grid, row)
+        lay.addWidget(box)
+
+        # notes
+        box, grid = _group("Notes")
+        self.notes = NotesEdit()
+        self.notes.setObjectName("channelNotes")
+        self.notes.setPlaceholderText("Anything a checker should know: survey date, assumptions, "
+                                      "who asked for it")
+        self.notes.setTabChangesFocus(True)
+        self.notes.setFixedHeight(74)
+        self.notes.editingFinished.connect(self._renote)
+        grid.addWidget(self.notes, 0, 0, 1, 3)
+        lay.addWidget(box)
+        lay.addStretch(1)
+        self.setWidget(body)
+        self.setMinimumWidth(360)
+
+        for sig in (doc.reset, doc.current_changed, doc.units_changed):
+            sig.connect(self._reload_all)
+        doc.channel_changed.connect(self._channel_changed)
+        self.reload(force=True)
+
+    # -- building -----------------------------------------------------------------------
+    def _number(self, spec: FieldSpec, key: str | None = None) -> NumberField:
+        f = NumberField(spec, self)
+        key = key or spec.path
+        self.fields[key] = f
+        f.edited.connect(lambda value, f=f, key=key: self._commit(f, key, value))
+        f.invalid.connect(lambda msg, key=key: self._note_invalid(key, msg))
+        return f
+
+    # -- showing ------------------------------------------------------------------------------
+    def _reload_all(self, *_signal_args) -> None:
+        self.reload(force=True)
+
+    def _channel_changed(self, index: int) -> None:
+        if index == self.doc.current:
+            self.reload()
+
+    def reload(self, force: bool = False) -> None:
+        """Show the current channel. Keeps text the user is typing when it means the stored value."""
+        ch, units = self.doc.channel(), self.doc.units
+        if force:
+            self._invalid.clear()
+        if force or self.name.text() != ch.name:
+            self.name.setText(ch.name)
+            self.name.setCursorPosition(0)
+        self._set_name_message("")
+        if force or self.location.text() != ch.location:
+            self.location.setText(ch.location)
+            self.location.setCursorPosition(0)
+        self.notes.show_text(ch.notes, force)
+        self.method.setCurrentIndex(max(0, self.method.findData(ch.flow.method)))
+        rational = ch.flow.method == "rational"
+        self.fields[FLOW.path].set_visible(not rational)
+        for spec in RATIONAL:
+            self.fields[spec.path].set_visible(rational)
+        for w in (self.tc_label, self.tc_value, self.q_label, self.q_value):
+            w.setVisible(rational)
+        shape = ch.section.get("shape")
+        self.shape.setCurrentIndex(max(0, self.shape.findData(shape)))
+        self.shape_pages.setCurrentIndex(self.shape.currentIndex())
+        for key, f in self.fields.items():
+            if ":" in key:
+                owner, path = key.split(":", 1)
+                if owner != shape:
+                    continue
+            else:
+                path = key
+            if f in self.lining.fields():
+                continue
+            f.show_value(value_at(ch, path), units, force)
+        self.lining.load(ch, units, force)
+        if shape == "irregular":
+            self.survey.load(ch.section, units)
+        for key, f in self.fields.items():   # a field that no longer applies has nothing to complain about
+            if f.edit.isHidden() and f.error:
+                f.clear_error()
+        # the survey table was just refilled from the project, so it has nothing left to complain about
+        self._invalid = {k: v for k, v in self._invalid.items() if k in self.fields and self.fields[k].error}
+        self.validity_changed.emit(self.first_complaint())
+
+    def show_evaluation(self, ev: compute.Evaluation) -> None:
+        """The computed lines of the form, and a mark on the field the core's error names."""
+        units = self.doc.units
+        if ev.time_of_concentration is not None:
+            self.tc_value.setText(f"{ev.time_of_concentration / 60:.1f} min (Kirpich)")
+        else:
+            self.tc_value.setText("give L and its slope for Kirpich's t_c")
+        if ev.flow is not None:
+            self.q_value.setText(f"{format_number(round(units.from_si('flow', ev.flow), 4))} "
+                                 f"{pretty(units.label('flow'))}")
+        else:
+            self.q_value.setText("—")
+        self.lining.show_evaluation(ev)
+        if ev.error_field:
+            path = CORE_TO_PATH.get(ev.error_field)
+            shape = self.doc.channel().section.get("shape")
+            f = self.fields.get(f"{shape}:{path}") or self.fields.get(path or "")
+            if f is not None and not f.error and not f.edit.isHidden():
+                f.set_error(ev.error)
+
+    def first_complaint(self) -> str:
+        return next(iter(self._invalid.values()), "")
+
+    def _note_invalid(self, key: str, message: str) -> None:
+        self._invalid[key] = message
+        self.validity_changed.emit(self.first_complaint())
+
+    def _note_valid(self, key: str) -> None:
+        if self._invalid.pop(key, None) is not None:
+            self.validity_changed.emit(self.first_complaint())
+
+    def _set_name_message(self, text: str) -> None:
+        self.name_message.setText(text)
+        self.name_message.setVisible(bool(text))
+        set_invalid(self.name, bool(text))
+
+    # -- edits -----------------------------------------------------------------------------------
+    def _commit(self, field: NumberField, key: str, value) -> None:
+        path = field.spec.path
+        candidate = with_value(self.doc.channel(), path, value)
+        refusal = compute.check_section(candidate)
+        if refusal is not None:
+            message, core_field = refusal
+            target = self.fields.get(f"{candidate.section['shape']}:{CORE_TO_PATH.get(core_field, '')}", field)
+            target.set_error(message)
+            self._note_invalid(key, message)
+            return
+        self._note_valid(key)
+        self.doc.edit(path, value, f"Change {field.spec.label.lower()}", merge_key=field.merge_key)
+
+    def _rename(self) -> None:
+        text = self.name.text()
+        if text == self.doc.channel().name:
+            self._set_name_message("")
+            return
+        refusal = self.doc.rename_channel(text)
+        self._set_name_message(refusal or "")
+
+    def _relocate(self) -> None:
+        self.doc.edit("location", self.location.text(), "Change location")
+
+    def _renote(self) -> None:
+        self.doc.edit("notes", self.notes.toPlainText(), "Change channel notes")
+
+    def _method_chosen(self, index: int) -> None:
+        self.doc.edit("flow.method", self.method.itemData(index), f"Obtain flow by {self.method.itemText(index)}")
+
+    def _shape_chosen(self, index: int) -> None:
+        shape = self.shape.itemData(index)
+        ch = self.doc.channel()
+        if shape == ch.section.get("shape"):
+            return
+        section, n = section_for_shape(ch, shape)
+        new = with_value(with_value(ch, "section", section), "manning_n", n)
+        self.doc.replace(new, f"Change shape to {self.shape.itemText(index).lower()}")
+
+    def _survey_changed(self, section: dict, text: str) -> None:
+        candidate = with_value(self.doc.channel(), "section", section)
+        refusal = compute.check_section(candidate)
+        if refusal is not None:
+            self.survey._set_message(refusal[0])
+            self._note_invalid("survey", refusal[0])
+            return
+        self._note_valid("survey")
+        self.doc.replace(candidate, text)

@@ -1,0 +1,770 @@
+"""Check a ditch inventory from the window: every reach of a CSV, as a table to filter, sort and import from.
+
+The check itself is :func:`app.batch.run_inventory` (the vectorised core); it
+runs in a worker thread (:class:`~app.gui.tasks.Task`), so a long inventory
+shows its progress and the window stays usable. The table is a model over
+the rows of :meth:`app.batch.BatchRun.table`, with the file's line numbers
+down the side; the filters are :meth:`app.batch.BatchRun.select`. Chosen
+reaches become channels of the project in one undoable step
+(:meth:`app.gui.document.ProjectDocument.add_channels`).
+"""
+
+from __future__ import annotations
+
+import csv
+import math
+from pathlib import Path
+
+import numpy as np
+from PySide6.QtCore import QAbstractTableModel, QModelIndex, Qt, QTimer, Signal
+from PySide6.QtGui import QColor, QFontDatabase, QGuiApplication
+from PySide6.QtWidgets import (QAbstractItemView, QCheckBox, QComboBox, QDialog, QFileDialog, QGridLayout,
+                               QHBoxLayout, QLabel, QLineEdit, QMessageBox, QPlainTextEdit,
+                               QProgressBar, QPushButton, QTableView, QTabWidget, QVBoxLayout, QWidget)
+
+from .. import batch as ab
+from ..batch import InventoryError
+from hydraulics import batch as hb
+from hydraulics import units as hu
+
+from . import compute, settings
+from .fields import pretty, sentence
+from .style import STYLE
+from .tasks import Cancelled, Task
+
+CSV_FILTER = "Inventories (*.csv);;All files (*)"
+UNIT_CHOICES = (("us", "US customary (ft, ft³/s)"), ("si", "SI (m, m³/s)"))
+#: Verdicts in words for the filter boxes (the file keeps the short forms).
+VERDICT_WORDS = {
+    "stable": "stable", "unstable": "unstable", "non-erodible": "non-erodible lining",
+    "hydraulics-only": "hydraulics only (no lining)", "not-checked": "lining not checked",
+    "no-solution": "no solution", "invalid": "invalid row",
+}
+#: Background and text colour of the verdict cell; the word is always there as well.
+VERDICT_COLOURS = {
+    "stable": ("#e7f4ea", "#1e5a22"), "unstable": ("#fbeaea", "#8c1d16"), "non-erodible": ("#eef0f2", "#3b444c"),
+    "hydraulics-only": ("#eef0f2", "#3b444c"), "not-checked": ("#fff6e0", "#6e4e08"),
+    "no-solution": ("#f3e8f7", "#5b2270"), "invalid": ("#f3e8f7", "#5b2270"),
+}
+#: Columns shown first, in this order (the rest follow in the file's order; the reason comes last).
+LEADING = ("id", "verdict", "safety_factor", "bed_shear", "permissible_shear", "normal_depth", "critical_depth",
+           "velocity", "froude")
+#: Above this many, importing asks first (a project of thousands of channels is slow to work in).
+IMPORT_ASK_ABOVE = 100
+ANY_WARNING = "__any__"
+#: Above this many reaches the text filter waits for a pause in the typing.
+TYPE_AHEAD_ROWS = 50_000
+
+
+def _quantity(column: str) -> str | None:
+    return hb.RESULT_FIELDS.get(column) or hb.NUMERIC_FIELDS.get(column)
+
+
+def column_title(column: str, units: hu.UnitSystem) -> str:
+    """The header of a column: its name in the file, with the unit where it has one."""
+    q = _quantity(column)
+    label = pretty(units.label(q)) if q and q not in ("ratio", "manning_n") else ""
+    return f"{column}\n({label})" if label else column
+
+
+class SortableRows(QAbstractTableModel):
+    """A read-only table with a chosen subset of its rows shown, sortable on any column.
+
+    Subclasses give the text of a cell (:meth:`text`) and the sort keys of a
+    column over all rows (:meth:`keys`: floats with nan for blank, or text).
+    ``order`` maps shown columns to the subclass's columns; ``shown`` holds the
+    indices of the rows in view, in view order. Numbers sort as numbers with
+    blanks last either way, text sorts as text.
+    """
+
+    def __init__(self, parent=None):
+        super().__init__(parent)
+        self.columns: list[str] = []
+        self.titles: list[str] = []
+        self.order: list[int] = []
+        self.lines = np.zeros(0, dtype=np.int64)
+        self.shown = np.zeros(0, dtype=np.int64)
+        self._keys: dict[int, np.ndarray] = {}
+        self._sorted: tuple[int, Qt.SortOrder] | None = None
+
+    # -- for subclasses ----------------------------------------------------------------------
+    def text(self, i: int, c: int) -> str:
+        raise NotImplementedError
+
+    def keys(self, c: int) -> np.ndarray:
+        raise NotImplementedError
+
+    def verdict(self, i: int) -> str:
+        return ""
+
+    def _reset(self, columns, titles, order, lines) -> None:
+        self.columns = list(columns)
+        self.titles = list(titles or columns)
+        self.order = list(order) if order is not None else list(range(len(self.columns)))
+        self.lines = np.asarray(lines, dtype=np.int64)
+        self.shown = np.arange(len(self.lines), dtype=np.int64)
+        self._keys.clear()
+        self._sorted = None
+
+    # -- Qt model -------------------------------------------------------------------------
+    def rowCount(self, parent=QModelIndex()):
+        return 0 if parent.isValid() else len(self.shown)
+
+    def columnCount(self, parent=QModelIndex()):
+        return 0 if parent.isValid() else len(self.order)
+
+    def cell(self, row: int, column: int) -> str:
+        """The text in view row ``row``, view column ``column``."""
+        return self.text(int(self.shown[row]), self.order[column])
+
+    def data(self, index, role=Qt.ItemDataRole.DisplayRole):
+        if not index.isValid():
+            return None
+        r, c = index.row(), index.column()
+        name = self.columns[self.order[c]]
+        if role == Qt.ItemDataRole.DisplayRole:
+            return pretty(self.cell(r, c)) if name == "reason" else self.cell(r, c)
+        if role == Qt.ItemDataRole.ToolTipRole and name == "reason":
+            return pretty(self.cell(r, c)) or None
+        if role == Qt.ItemDataRole.TextAlignmentRole and _numeric(name):
+            return int(Qt.AlignmentFlag.AlignRight | Qt.AlignmentFlag.AlignVCenter)
+        if name == "verdict" and role in (Qt.ItemDataRole.BackgroundRole, Qt.ItemDataRole.ForegroundRole):
+            colours = VERDICT_COLOURS.get(self.verdict(int(self.shown[r])))
+            if colours:
+                return QColor(colours[0] if role == Qt.ItemDataRole.BackgroundRole else colours[1])
+        return None
+
+    def headerData(self, section, orientation, role=Qt.ItemDataRole.DisplayRole):
+        if orientation == Qt.Orientation.Horizontal:
+            if role == Qt.ItemDataRole.DisplayRole and 0 <= section < len(self.order):
+                return self.titles[self.order[section]]
+            return None
+        if role == Qt.ItemDataRole.DisplayRole:
+            return str(int(self.lines[self.shown[section]])) if 0 <= section < len(self.shown) else None
+        if role == Qt.ItemDataRole.ToolTipRole:
+            return "line in the file"
+        return None
+
+    # -- filtering and sorting ---------------------------------------------------------------
+    def show_rows(self, indices) -> None:
+        """Show the rows ``indices`` (file order), sorted as the view is sorted."""
+        self.beginResetModel()
+        self.shown = np.asarray(indices, dtype=np.int64)
+        if self._sorted is not None:
+            self.shown = self._sort(self.shown, *self._sorted)
+        self.endResetModel()
+
+    def sort(self, column, order=Qt.SortOrder.AscendingOrder):
+        if not 0 <= column < len(self.order):
+            return
+        self.layoutAboutToBeChanged.emit()
+        self._sorted = (column, order)
+        self.shown = self._sort(self.shown, column, order)
+        self.layoutChanged.emit()
+
+    def _sort(self, shown, column, order):
+        c = self.order[column]
+        if c not in self._keys:
+            self._keys[c] = self.keys(c)
+        key = self._keys[c][shown]
+        descending = order == Qt.SortOrder.DescendingOrder
+        if key.dtype.kind != "f":
+            pos = np.argsort(key, kind="stable")
+            return shown[pos[::-1]] if descending else shown[pos]
+        blank = np.isnan(key)
+        filled = np.flatnonzero(~blank)
+        ranked = filled[np.argsort(-key[filled] if descending else key[filled], kind="stable")]
+        return shown[np.concatenate([ranked, np.flatnonzero(blank)])]  # blanks last either way
+
+    def source_rows(self, view_rows) -> list[int]:
+        """Row indices (file order) of rows in view."""
+        return sorted(int(self.shown[r]) for r in view_rows)
+
+
+def _numeric(column: str) -> bool:
+    return _quantity(column) is not None or column == "line"
+
+
+class ReachesModel(SortableRows):
+    """Every reach of a :class:`app.batch.BatchRun`: the input columns as written, then the results.
+
+    Cells are made when Qt asks for them (an input row is split only when it
+    is shown; numbers get the results file's :data:`app.batch.DIGITS`
+    significant digits), so a 100,000-reach inventory costs little more than
+    the run itself.
+    """
+
+    def __init__(self, parent=None):
+        super().__init__(parent)
+        self.run: ab.BatchRun | None = None
+        self._values: dict = {}
+        self._fields: dict[int, list] = {}
+        self._width = 0
+
+    def load(self, run: ab.BatchRun, order_names=LEADING) -> None:
+        self.beginResetModel()
+        inv = run.inventory
+        self.run = run
+        self._width = len(inv.header)
+        self._values = ab.display_values(inv, run.result)
+        self._verdicts = run.result.verdict.astype(str)
+        self._fields.clear()
+        columns = list(inv.header) + list(ab.RESULT_COLUMNS)
+        lead = [columns.index(c) for c in order_names if c in columns]
+        reason = columns.index("reason")
+        order = lead + [i for i in range(len(columns)) if i not in lead and i != reason] + [reason]
+        self._reset(columns, [column_title(c, inv.units) for c in columns], order, inv.lines)
+        self.endResetModel()
+
+    def _row(self, i: int) -> list:
+        fields = self._fields.get(i)
+        if fields is None:
+            if len(self._fields) > 4096:
+                self._fields.clear()
+            fields = self._fields[i] = next(csv.reader([self.run.inventory.rows[i]]), [])
+        return fields
+
+    def text(self, i: int, c: int) -> str:
+        if c < self._width:
+            fields = self._row(i)
+            return fields[c] if c < len(fields) else ""
+        name = self.columns[c]
+        if name == "verdict":
+            return self._verdicts[i]
+        if name == "reason":
+            return self.run.result.reason[i]
+        value = float(self._values[name][i])
+        return "" if math.isnan(value) else f"{value:.{ab.DIGITS}g}"
+
+    def verdict(self, i: int) -> str:
+        return self._verdicts[i]
+
+    def keys(self, c: int) -> np.ndarray:
+        name, inv, res = self.columns[c], self.run.inventory, self.run.result
+        if name in self._values:
+            return np.asarray(self._values[name], dtype=float)
+        if name in hb.NUMERIC_FIELDS and c < self._width:
+            return np.asarray(getattr(inv.reaches, name), dtype=float)   # SI: the same order as shown
+        if name == "verdict":
+            return self._verdicts
+        if name == "reason":
+            return np.char.lower(res.reason.astype(str))
+        if name == "id":
+            texts = inv.ids
+        elif any('"' in r for r in inv.rows):
+            texts = [f[c] if c < len(f) else "" for f in csv.reader(inv.rows)]
+        else:
+            texts = [r.split(",")[c] if r.count(",") >= c else "" for r in inv.rows]
+        numbers = np.array([_float(t) if t.strip() else math.nan for t in texts], dtype=float)
+        if np.isfinite(numbers).sum() == sum(1 for t in texts if t.strip()):
+            return numbers                      # an extra column of numbers sorts as numbers
+        return np.array([t.strip().lower() for t in texts], dtype=str)
+
+
+class RowsModel(SortableRows):
+    """A small table of text rows (the bad rows), with the file's line numbers."""
+
+    def __init__(self, parent=None):
+        super().__init__(parent)
+        self.rows: list[list[str]] = []
+
+    def load(self, columns, rows, lines) -> None:
+        self.beginResetModel()
+        self.rows = rows
+        self._reset(columns, columns, None, lines)
+        self.endResetModel()
+
+    def text(self, i: int, c: int) -> str:
+        row = self.rows[i]
+        return row[c] if c < len(row) else ""
+
+    def verdict(self, i: int) -> str:
+        return self.text(i, self.columns.index("verdict")) if "verdict" in self.columns else ""
+
+    def keys(self, c: int) -> np.ndarray:
+        texts = [self.text(i, c) for i in range(len(self.rows))]
+        if _numeric(self.columns[c]):
+            return np.array([_float(t) for t in texts], dtype=float)
+        return np.array([t.strip().lower() for t in texts], dtype=str)
+
+
+def _float(text: str) -> float:
+    try:
+        return float(text)
+    except ValueError:
+        return math.nan
+
+
+class InventoryDialog(QDialog):
+    """Check an inventory file, look at its reaches, and import chosen ones as channels."""
+
+    imported = Signal(list)   # names of the channels added
+
+    def __init__(self, doc, persistent: bool = True, parent=None):
+        super().__init__(parent)
+        self.doc = doc
+        self.persistent = persistent
+        self.run: ab.BatchRun | None = None
+        self.task: Task | None = None
+        self.setWindowTitle("Check a ditch inventory — Ditchwright")
+        self.setObjectName("inventory")
+        self.setWindowFlag(Qt.WindowType.Window, True)
+        self.setStyleSheet(STYLE + INVENTORY_STYLE)
+        self.setModal(False)
+        lay = QVBoxLayout(self)
+        lay.setContentsMargins(12, 10, 12, 10)
+        lay.setSpacing(8)
+
+        # the file and how to read it
+        top = QGridLayout()
+        top.setHorizontalSpacing(8)
+        top.addWidget(QLabel("Inventory (CSV)"), 0, 0)
+        self.path = QLineEdit()
+        self.path.setObjectName("inventoryPath")
+        self.path.setPlaceholderText("columns id, shape, bottom_width, left_slope, right_slope, diameter, slope, "
+                                     "flow, lining, d50, n")
+        self.path.returnPressed.connect(self.start_check)
+        top.addWidget(self.path, 0, 1)
+        browse = QPushButton("Choose…")
+        browse.clicked.connect(self.choose_file)
+        top.addWidget(browse, 0, 2)
+        top.addWidget(QLabel("Units in the file"), 0, 3)
+        self.units = QComboBox()
+        self.units.setObjectName("inventoryUnits")
+        for key, text in UNIT_CHOICES:
+            self.units.addItem(text, key)
+        remembered = settings.INVENTORY_UNITS.read() if persistent else ""
+        self.units.setCurrentIndex(self.units.findData(remembered if remembered in ("us", "si")
+                                                       else doc.project.units))
+        top.addWidget(self.units, 0, 4)
+        self.check_button = QPushButton("Check")
+        self.check_button.setObjectName("checkInventory")
+        self.check_button.setDefault(True)
+        self.check_button.clicked.connect(self.start_check)
+        top.addWidget(self.check_button, 0, 5)
+        top.setColumnStretch(1, 1)
+        lay.addLayout(top)
+
+        # progress while it runs, then what happened
+        row = QHBoxLayout()
+        self.progress = QProgressBar()
+        self.progress.setObjectName("inventoryProgress")
+        self.progress.setTextVisible(True)
+        self.progress.hide()
+        self.cancel_button = QPushButton("Stop")
+        self.cancel_button.setToolTip("Stop the check after the part it is working on")
+        self.cancel_button.clicked.connect(self.stop)
+        self.cancel_button.hide()
+        self.status = QLabel("Choose an inventory file and its units, then Check.")
+        self.status.setObjectName("hint")
+        self.status.setWordWrap(True)
+        row.addWidget(self.progress, 1)
+        row.addWidget(self.cancel_button)
+        row.addWidget(self.status, 3)
+        lay.addLayout(row)
+
+        # filters: verdicts with their counts, warnings, text
+        self.filters = QWidget()
+        self.filters.setObjectName("inventoryFilters")
+        fl = QGridLayout(self.filters)
+        fl.setContentsMargins(0, 0, 0, 0)
+        fl.setHorizontalSpacing(14)
+        fl.setVerticalSpacing(4)
+        heading = QLabel("Show verdicts")
+        heading.setObjectName("subheading")
+        fl.addWidget(heading, 0, 0)
+        self.verdict_boxes: dict[str, QCheckBox] = {}
+        for i, verdict in enumerate(hb.VERDICTS):
+            box = QCheckBox(VERDICT_WORDS[verdict])
+            box.setObjectName(f"verdict_{verdict}")
+            box.setProperty("verdict", verdict)
+            box.setChecked(True)
+            box.toggled.connect(self.apply_filters)
+            self.verdict_boxes[verdict] = box
+            fl.addWidget(box, 0 if i < 4 else 1, 1 + i % 4)
+        fl.addWidget(QLabel("Warning"), 2, 0)
+        self.warning = QComboBox()
+        self.warning.setObjectName("warningFilter")
+        self.warning.addItem("any reach, warned or not", None)
+        self.warning.addItem("with any warning", ANY_WARNING)
+        for key, label in hb.WARNINGS.items():
+            self.warning.addItem(f"with {label}", key)
+        self.warning.currentIndexChanged.connect(self.apply_filters)
+        fl.addWidget(self.warning, 2, 1, 1, 2)
+        fl.addWidget(QLabel("Find"), 2, 3, Qt.AlignmentFlag.AlignRight)
+        self.text = QLineEdit()
+        self.text.setObjectName("textFilter")
+        self.text.setPlaceholderText("text in the id or the reason")
+        self.text.setClearButtonEnabled(True)
+        self.text.textChanged.connect(self._text_changed)
+        self._text_timer = QTimer(self)    # long inventories: filter when the typing pauses
+        self._text_timer.setSingleShot(True)
+        self._text_timer.setInterval(250)
+        self._text_timer.timeout.connect(self.apply_filters)
+        fl.addWidget(self.text, 2, 4)
+        self.count = QLabel()
+        self.count.setObjectName("shownCount")
+        fl.addWidget(self.count, 2, 5, Qt.AlignmentFlag.AlignRight)
+        fl.setColumnStretch(5, 1)
+        lay.addWidget(self.filters)
+        self.filters.setEnabled(False)
+
+        # the reaches, the bad rows, the summary
+        self.model = ReachesModel(self)
+        self.table = QTableView()
+        self.table.setObjectName("reaches")
+        self.table.setModel(self.model)
+        self.table.setSortingEnabled(True)
+        self.table.horizontalHeader().setSortIndicatorShown(True)
+        self.table.horizontalHeader().setSortIndicator(-1, Qt.SortOrder.AscendingOrder)
+        self.table.setSelectionBehavior(QAbstractItemView.SelectionBehavior.SelectRows)
+        self.table.setSelectionMode(QAbstractItemView.SelectionMode.ExtendedSelection)
+        self.table.setAlternatingRowColors(True)
+        self.table.setWordWrap(False)
+        self.table.verticalHeader().setDefaultSectionSize(22)
+        self.table.horizontalHeader().setStretchLastSection(True)
+        # two-line headings (name, then unit): the style sheet's padding is not in Qt's own estimate
+        self.table.horizontalHeader().setMinimumHeight(2 * self.fontMetrics().height() + 12)
+        self.table.selectionModel().selectionChanged.connect(self._selection_changed)
+        self.problems_model = RowsModel(self)
+        self.problems = QTableView()
+        self.problems.setObjectName("problems")
+        self.problems.setModel(self.problems_model)
+        self.problems.setSortingEnabled(True)
+        self.problems.setSelectionBehavior(QAbstractItemView.SelectionBehavior.SelectRows)
+        self.problems.setWordWrap(False)
+        self.problems.verticalHeader().hide()
+        self.problems.verticalHeader().setDefaultSectionSize(22)
+        self.problems.horizontalHeader().setStretchLastSection(True)
+        self.problems.doubleClicked.connect(self._show_problem)
+        self.summary = QPlainTextEdit()
+        self.summary.setObjectName("inventorySummary")
+        self.summary.setReadOnly(True)
+        self.summary.setFont(QFontDatabase.systemFont(QFontDatabase.SystemFont.FixedFont))
+        reaches = QWidget()
+        rl = QVBoxLayout(reaches)
+        rl.setContentsMargins(0, 0, 0, 0)
+        rl.setSpacing(0)
+        rl.addWidget(self.table, 1)
+        self.detail = QLabel()
+        self.detail.setObjectName("reachDetail")
+        self.detail.setWordWrap(True)
+        self.detail.setTextInteractionFlags(Qt.TextInteractionFlag.TextSelectableByMouse)
+        rl.addWidget(self.detail)
+        self.views = QTabWidget()
+        self.views.setObjectName("inventoryViews")
+        self.views.addTab(reaches, "Reaches")
+        self.views.addTab(self.problems, "Bad rows")
+        self.views.addTab(self.summary, "Summary")
+        lay.addWidget(self.views, 1)
+
+        # what to do with them
+        bottom = QHBoxLayout()
+        caution = QLabel("Results assist design; a licensed engineer checks them against local codes.")
+        caution.setObjectName("hint")
+        bottom.addWidget(caution, 1)
+        self.choose_all = QPushButton("Choose all shown")
+        self.choose_all.clicked.connect(self.table.selectAll)
+        self.copy_button = QPushButton("Copy chosen rows")
+        self.copy_button.setToolTip("Copy the chosen rows as tab-separated text for a spreadsheet")
+        self.copy_button.clicked.connect(self.copy_rows)
+        self.save_button = QPushButton("Save results as CSV…")
+        self.save_button.clicked.connect(self.save_results)
+        self.import_button = QPushButton("Import chosen reaches as channels")
+        self.import_button.setObjectName("importReaches")
+        self.import_button.clicked.connect(self.import_chosen)
+        close = QPushButton("Close")
+        close.clicked.connect(self.close)
+        for b in (self.choose_all, self.copy_button, self.save_button, self.import_button, close):
+            bottom.addWidget(b)
+        lay.addLayout(bottom)
+        self._set_result_actions()
+        self.resize(1280, 760)
+
+    # -- running the check --------------------------------------------------------------------
+    def choose_file(self) -> None:
+        folder = settings.INVENTORY_FOLDER.read() if self.persistent else ""
+        path, _ = QFileDialog.getOpenFileName(self, "Inventory to check", folder, CSV_FILTER)
+        if path:
+            self.path.setText(path)
+            self.start_check()
+
+    def start_check(self) -> Task | None:
+        """Read and check the inventory in a worker thread; returns the task (None when nothing to do)."""
+        if self.task is not None:
+            return None
+        text = self.path.text().strip()
+        if not text:
+            self._say("Choose the inventory file first.", error=True)
+            return None
+        path = Path(text).expanduser()
+        units = self.units.currentData()
+        if self.persistent:
+            settings.INVENTORY_FOLDER.write(str(path.parent))
+            settings.INVENTORY_UNITS.write(units)
+        catalogue = compute.catalogue()
+
+        def work(progress):
+            return ab.run_inventory(path, units, progress=progress, catalogue=catalogue)
+
+        task = Task(work, self)
+        task.progressed.connect(self._progressed)
+        task.succeeded.connect(lambda run: self._checked(path, run))
+        task.failed.connect(lambda exc: self._check_failed(path, exc))
+        task.finished.connect(self._ended)
+        self.task = task
+        self.check_button.setEnabled(False)
+        self.progress.setRange(0, 0)  # reading: no count yet
+        self.progress.setFormat("reading…")
+        self.progress.show()
+        self.cancel_button.show()
+        self.cancel_button.setEnabled(True)
+        self._say(f"Checking {path.name}…")
+        task.start()
+        return task
+
+    def stop(self, wait: bool = False) -> None:
+        """Stop a running check at its next progress report (and, with ``wait``, let its thread end)."""
+        if self.task is not None:
+            self.task.cancel()
+            self.cancel_button.setEnabled(False)
+            self._say("Stopping after the part in hand…")
+            if wait:
+                self.task.wait()
+
+    def _progressed(self, done: int, total: int) -> None:
+        self.progress.setRange(0, max(total, 1))
+        self.progress.setValue(done)
+        self.progress.setFormat(f"{done:,} of {total:,} reaches checked")
+
+    def _ended(self) -> None:
+        task, self.task = self.task, None
+        if task is not None:
+            task.deleteLater()
+        self.progress.hide()
+        self.cancel_button.hide()
+        self.check_button.setEnabled(True)
+
+    def _check_failed(self, path: Path, exc: BaseException) -> None:
+        before = ("" if self.run is None else
+                  f" The table still shows the results of {Path(self.run.inventory.source).name}.")
+        if isinstance(exc, Cancelled):
+            self._say("Stopped." + (before or " No results."))
+        elif isinstance(exc, InventoryError):
+            self._say(sentence(exc) + before, error=True)
+        elif isinstance(exc, (OSError, ValueError)):
+            self._say(sentence(f"{path}: {exc}") + before, error=True)
+        else:
+            self._say(sentence(f"The check stopped with an unexpected error: {type(exc).__name__}: {exc}") + before,
+                      error=True)
+
+    def _checked(self, path: Path, run: ab.BatchRun) -> None:
+        self.run = run
+        units = run.inventory.units
+        self.model.load(run)
+        self.table.horizontalHeader().setSortIndicator(-1, Qt.SortOrder.AscendingOrder)
+        problems = run.problems()
+        self.problems_model.load(["line", "id", "verdict", "reason"],
+                                 [[str(line), ident, str(verdict), reason] for line, ident, verdict, reason in problems],
+                                 [p[0] for p in problems])
+        self.views.setTabText(1, f"Bad rows ({len(problems):,})")
+        self.summary.setPlainText(run.summary())
+        counts = run.result.counts()
+        for verdict, box in self.verdict_boxes.items():
+            box.blockSignals(True)
+            box.setChecked(True)
+            box.setText(f"{VERDICT_WORDS[verdict]}: {counts[verdict]:,}")
+            box.setEnabled(counts[verdict] > 0)
+            box.blockSignals(False)
+        for w in (self.warning, self.text):
+            w.blockSignals(True)
+        self.warning.setCurrentIndex(0)
+        self.text.clear()
+        for w in (self.warning, self.text):
+            w.blockSignals(False)
+        self.filters.setEnabled(True)
+        self._fit_columns()
+        self.apply_filters()
+        self._say(f"Checked {len(run.inventory):,} reaches of {path.name} ({units.name} units). Click a column "
+                  "heading to sort; choose rows (Shift or Ctrl for several) to import them as channels or "
+                  "copy them.")
+        self.setWindowTitle(f"{path.name} ({units.name} units) — inventory check — Ditchwright")
+
+    def _fit_columns(self) -> None:
+        header = self.table.horizontalHeader()
+        header.setResizeContentsPrecision(400)   # sample rows: a 100,000-row table stays quick
+        self.table.resizeColumnsToContents()
+        for c in range(self.model.columnCount() - 1):
+            header.resizeSection(c, min(max(header.sectionSize(c), 56), 220))
+        self.problems.resizeColumnsToContents()
+
+    # -- filters -------------------------------------------------------------------------------
+    def chosen_verdicts(self) -> list | None:
+        """The verdicts ticked, or None when all are (no condition)."""
+        on = [v for v, box in self.verdict_boxes.items() if box.isChecked()]
+        return None if len(on) == len(self.verdict_boxes) else on
+
+    def _text_changed(self, *_args) -> None:
+        if self.run is not None and len(self.run.inventory) > TYPE_AHEAD_ROWS:
+            self._text_timer.start()
+        else:
+            self.apply_filters()
+
+    def apply_filters(self, *_args) -> None:
+        if self.run is None:
+            return
+        key = self.warning.currentData()
+        warnings = None if key is None else (list(hb.WARNINGS) if key == ANY_WARNING else [key])
+        rows = self.run.select(verdicts=self.chosen_verdicts(), warnings=warnings, text=self.text.text().strip())
+        self.model.show_rows(rows)
+        self._show_detail()
+        total = len(self.run.inventory)
+        self.count.setText(f"Showing {len(rows):,} of {total:,} reaches")
+        self._set_result_actions()
+
+    # -- results -------------------------------------------------------------------------------
+    def chosen_rows(self) -> list[int]:
+        """Inventory row indices (file order) of the rows chosen in the table."""
+        view_rows = {i.row() for i in self.table.selectionModel().selectedRows()}
+        return self.model.source_rows(view_rows)
+
+    def _selection_changed(self, *_args) -> None:
+        self._set_result_actions()
+        self._show_detail()
+
+    def _show_detail(self) -> None:
+        """The verdict and reason of the chosen row in full, under the table."""
+        chosen = self.table.selectionModel().selectedRows() if self.run is not None else []
+        if len(chosen) != 1:
+            self.detail.setText("Click a row to read its verdict and reason in full." if not chosen else
+                                f"{len(chosen):,} reaches chosen. Click one to read its verdict and reason in full.")
+            return
+        i = int(self.model.shown[chosen[0].row()])
+        inv, res = self.run.inventory, self.run.result
+        ident = inv.ids[i].strip() or "no id"
+        verdict, reason = str(res.verdict[i]), pretty(res.reason[i])
+        told = reason if reason.lower().startswith(verdict) else f"{verdict}. {reason}"
+        self.detail.setText(f"Line {int(inv.lines[i])}, {ident}: {told}")
+
+    def _set_result_actions(self) -> None:
+        has_run = self.run is not None
+        chosen = len(self.table.selectionModel().selectedRows()) if has_run else 0
+        self.choose_all.setEnabled(has_run and self.model.rowCount() > 0)
+        self.save_button.setEnabled(has_run)
+        self.copy_button.setEnabled(chosen > 0)
+        self.import_button.setEnabled(chosen > 0)
+        self.import_button.setText("Import chosen reaches as channels" if not chosen else
+                                   "Import the chosen reach as a channel" if chosen == 1 else
+                                   f"Import {chosen:,} chosen reaches as channels")
+
+    def import_chosen(self) -> list:
+        """Add the chosen reaches to the project as channels (one undoable step); returns their names."""
+        rows = self.chosen_rows()
+        if not rows or self.run is None:
+            return []
+        if len(rows) > IMPORT_ASK_ABOVE:
+            answer = QMessageBox.question(
+                self, "Import many reaches",
+                f"Import {len(rows):,} reaches as channels of the project? Each becomes a channel of its own; "
+                "a project of thousands of channels is slow to work in.",
+                QMessageBox.StandardButton.Yes | QMessageBox.StandardButton.No, QMessageBox.StandardButton.No)
+            if answer != QMessageBox.StandardButton.Yes:
+                return []
+        channels, skipped = self.run.to_channels(rows)
+        source = Path(self.run.inventory.source).name
+        inv = self.run.inventory
+        taken = [i for i in rows if self.run.result.verdict[i] != "invalid"]
+        if len(taken) == len(channels):   # say where each channel came from, unless the row said it
+            for i, ch in zip(taken, channels):
+                ch.location = ch.location or f"{source}, line {int(inv.lines[i])}"
+        names = self.doc.add_channels(channels, f"Import {len(channels):,} reach{'es' if len(channels) != 1 else ''} "
+                                                f"from {source}") if channels else []
+        parts = []
+        if len(names) == 1:
+            parts.append(f"Imported 1 reach as a channel ({names[0]}); Edit > Undo in the main window takes it "
+                         "out again.")
+        elif names:
+            parts.append(f"Imported {len(names):,} reaches as channels ({_list(names)}); Edit > Undo in the main "
+                         "window takes them out again.")
+        if skipped:
+            parts.append("Not imported, the row is invalid: " +
+                         "; ".join(f"line {line} ({ident or 'no id'}): {reason}" for line, ident, reason in skipped[:3])
+                         + (f"; and {len(skipped) - 3:,} more" if len(skipped) > 3 else "") + ".")
+        self._say(" ".join(parts), error=bool(skipped) and not names)
+        if names:
+            self.imported.emit(names)
+        return names
+
+    def copy_rows(self) -> None:
+        rows = sorted({i.row() for i in self.table.selectionModel().selectedRows()})
+        if not rows:
+            return
+        lines = ["\t".join(["line"] + [self.model.titles[c].replace("\n", " ") for c in self.model.order])]
+        for r in rows:
+            lines.append("\t".join([str(int(self.model.lines[self.model.shown[r]]))] +
+                                   [self.model.cell(r, c) for c in range(self.model.columnCount())]))
+        QGuiApplication.clipboard().setText("\n".join(lines) + "\n")
+        self._say(f"Copied {len(rows):,} row{'s' if len(rows) != 1 else ''} as tab-separated text.")
+
+    def save_results(self) -> None:
+        if self.run is None:
+            return
+        src = Path(self.run.inventory.source)
+        suggestion = str(src.with_name(src.stem + "-results.csv"))
+        path, _ = QFileDialog.getSaveFileName(self, "Save the results as", suggestion, CSV_FILTER)
+        if not path:
+            return
+        try:
+            ab.write_results(path, self.run.inventory, self.run.result)
+        except OSError as exc:
+            self._say(f"The results were not saved to {path}: {exc.strerror or exc}.", error=True)
+            return
+        self._say(f"Saved one result row per input row to {path}.")
+
+    def _show_problem(self, index) -> None:
+        """Double-click on a bad row: show it in the table of reaches."""
+        line = int(self.problems_model.lines[self.problems_model.shown[index.row()]])
+        for box in self.verdict_boxes.values():
+            box.blockSignals(True)
+            box.setChecked(True)
+            box.blockSignals(False)
+        self.warning.blockSignals(True)
+        self.warning.setCurrentIndex(0)
+        self.warning.blockSignals(False)
+        self.text.blockSignals(True)
+        self.text.clear()
+        self.text.blockSignals(False)
+        self.apply_filters()
+        where = np.flatnonzero(self.model.lines[self.model.shown] == line)
+        if where.size:
+            self.views.setCurrentIndex(0)
+            self.table.selectRow(int(where[0]))
+            self.table.scrollTo(self.model.index(int(where[0]), 0))
+
+    # -- small things ----------------------------------------------------------------------------
+    def _say(self, text: str, error: bool = False) -> None:
+        self.status.setText(text)
+        self.status.setObjectName("fieldMessage" if error else "hint")
+        self.status.style().unpolish(self.status)
+        self.status.style().polish(self.status)
+
+    def closeEvent(self, event) -> None:
+        self.stop(wait=True)
+        super().closeEvent(event)
+
+
+def _list(names: list, most: int = 4) -> str:
+    shown = ", ".join(names[:most])
+    return shown + (f" and {len(names) - most:,} more" if len(names) > most else "")
+
+
+INVENTORY_STYLE = """
+QDialog#inventory { background: #f5f6f7; }
+QTableView { background: #ffffff; alternate-background-color: #f7f9fb; gridline-color: #e3e6e9;
+             selection-background-color: #cfe0ef; selection-color: #1d2b36; }
+QHeaderView::section { background: #eceff1; padding: 3px 6px; border: none; border-right: 1px solid #d9dde1;
+                       border-bottom: 1px solid #d9dde1; }
+QLabel#fieldMessage { font-size: 12px; }
+QLabel#reachDetail { background: #ffffff; border: 1px solid #d9dde1; border-top: none; padding: 5px 8px;
+                     color: #2b3035; min-height: 32px; }
+"""

@@ -1,0 +1,694 @@
+"""The main window: channels and their inputs on the left, the picture in the middle, the verdict on the right."""
+
+from __future__ import annotations
+
+import copy
+import dataclasses
+import time
+from pathlib import Path
+
+from PySide6.QtCore import QSize, Qt, QUrl
+from PySide6.QtGui import QAction, QActionGroup, QDesktopServices, QKeySequence
+from PySide6.QtWidgets import (QApplication, QDialog, QFileDialog, QHBoxLayout, QInputDialog, QLabel, QListWidget,
+                               QListWidgetItem, QMainWindow, QMessageBox, QSplitter, QStyle, QTabWidget,
+                               QToolButton, QVBoxLayout, QWidget)
+
+import hydraulics as hy
+
+from .. import __version__
+from .. import project as pj
+from .. import sheet as sh
+from . import compute, settings
+from .autosave import Autosaver, find_recoverable
+from .comparison import ComparisonView
+from .document import ProjectDocument
+from .fields import pretty, sentence
+from .forms import SHAPES, InputPanel
+from .plots import EnergyPicture, RatingPicture, SectionPicture
+from .results_view import CAUTION, ResultsPanel
+from .sheet_dialogs import ExportSheetDialog, NotesDialog, SheetDetailsDialog, ask_password
+from .style import STYLE
+from .tasks import Task
+
+FILE_FILTER = "Ditchwright projects (*.json);;All files (*)"
+SHAPE_NAMES = dict(SHAPES)
+TABS = ("section", "rating", "energy", "compare")
+
+
+class MainWindow(QMainWindow):
+    def __init__(self, project: pj.Project | None = None, path=None, *, persistent: bool = True):
+        super().__init__()
+        self.persistent = persistent
+        self.doc = ProjectDocument(project, path, parent=self)
+        self.last_good: compute.Evaluation | None = None
+        self.evaluation: compute.Evaluation | None = None
+        self._drawn: dict[str, int] = {}
+        self.export_task: Task | None = None
+        self.inventory_dialog = None
+        self.setStyleSheet(STYLE)
+        self.create_actions()
+        self.create_menus()
+        self.create_tool_bars()
+        self.create_status_bar()
+        self.create_panels()
+        self.connect_document()
+        self.read_settings()
+        self.autosaver = Autosaver(self.doc, parent=self) if persistent else None
+        if persistent:   # the user's own linings and unit costs, laid over the shipped catalogue
+            problem = compute.use_user_catalogue(settings.user_catalogue_path())
+            if problem:
+                self.statusBar().showMessage(problem, 15000)
+        self.refresh_all()
+
+    # -- construction, in named steps ---------------------------------------------------
+    def create_actions(self) -> None:
+        style = self.style()
+
+        def act(text, slot, shortcut=None, tip="", icon=None, checkable=False):
+            a = QAction(text, self)
+            if shortcut is not None:
+                a.setShortcut(QKeySequence(shortcut))
+            if tip:
+                a.setStatusTip(tip)
+                a.setToolTip(tip)
+            if icon is not None:
+                a.setIcon(style.standardIcon(icon))
+            a.setCheckable(checkable)
+            if slot is not None:
+                a.triggered.connect(slot)
+            return a
+
+        SP = QStyle.StandardPixmap
+        K = QKeySequence.StandardKey
+        self.new_action = act("&New project", self.new_project, K.New, "Start a new project", SP.SP_FileIcon)
+        self.open_action = act("&Open…", self.open_dialog, K.Open, "Open a project file", SP.SP_DialogOpenButton)
+        self.demo_action = act("Open the &demo project", self.open_demo, None,
+                               "Open the demo project of an invented site")
+        self.save_action = act("&Save", self.save, K.Save, "Save the project", SP.SP_DialogSaveButton)
+        self.save_as_action = act("Save &as…", self.save_as, K.SaveAs, "Save the project under a new name")
+        self.export_action = act("&Export design sheets…", self.export_dialog, "Ctrl+E",
+                                 "Write the design sheet of this channel or of the whole project to a PDF",
+                                 SP.SP_FileDialogDetailedView)
+        self.export_action.setIconText("Export sheets")
+        self.inventory_action = act("Check an &inventory…", self.open_inventory, "Ctrl+I",
+                                    "Check every reach of a ditch inventory (CSV) and import chosen ones")
+        self.quit_action = act("&Quit", self.close, K.Quit, "Close the window")
+        self.undo_action = self.doc.undo_stack.createUndoAction(self, "&Undo")
+        self.undo_action.setShortcut(QKeySequence(K.Undo))
+        self.undo_action.setIcon(style.standardIcon(SP.SP_ArrowBack))
+        self.undo_action.setIconText("Undo")   # the tool bar keeps a short label; the menu says what
+        self.redo_action = self.doc.undo_stack.createRedoAction(self, "&Redo")
+        self.redo_action.setShortcuts([QKeySequence(K.Redo), QKeySequence("Ctrl+Y")])
+        self.redo_action.setIcon(style.standardIcon(SP.SP_ArrowForward))
+        self.redo_action.setIconText("Redo")
+        self.add_action = act("&Add channel", self.doc.add_channel, "Ctrl+Shift+N", "Add a channel to the project")
+        self.duplicate_action = act("D&uplicate channel", self.doc.duplicate_channel, "Ctrl+D",
+                                    "Copy the current channel")
+        self.rename_action = act("&Rename channel…", self.rename_channel, "F2", "Rename the current channel")
+        self.delete_action = act("De&lete channel", self.delete_channel, None, "Delete the current channel")
+        self.project_name_action = act("Project &name…", self.rename_project, None, "Name the project")
+        self.sheet_details_action = act("&Sheet details…", self.edit_sheet_details, None,
+                                        "Company, logo, project number, revision and sign-off names for the sheets")
+        self.project_notes_action = act("Project &notes…", self.edit_project_notes, None,
+                                        "Notes about the whole project")
+        self.copy_table_action = act("&Copy comparison table", self.copy_table, None,
+                                     "Copy the lining comparison as tab-separated text")
+        self.tab_actions = []
+        for i, (key, text) in enumerate(zip(TABS, ("&Section", "&Rating curve", "Specific &energy",
+                                                   "&Lining comparison"))):
+            self.tab_actions.append(act(text, lambda _=False, i=i: self.tabs.setCurrentIndex(i), f"Ctrl+{i + 1}",
+                                        f"Show the {text.replace('&', '').lower()}"))
+        self.units_group = QActionGroup(self)
+        self.si_action = act("SI (m, m³/s, Pa)", lambda: self.doc.set_units("si"), None,
+                             "Show every value in SI units", checkable=True)
+        self.us_action = act("US customary (ft, ft³/s, lb/ft²)", lambda: self.doc.set_units("us"), None,
+                             "Show every value in US customary units", checkable=True)
+        self.si_action.setIconText("SI")
+        self.us_action.setIconText("US")
+        for a in (self.si_action, self.us_action):
+            self.units_group.addAction(a)
+        self.about_action = act("&About Ditchwright", self.about, None, "Version and cautions")
+
+    def create_menus(self) -> None:
+        bar = self.menuBar()
+        m = bar.addMenu("&File")
+        m.addActions([self.new_action, self.open_action])
+        self.recent_menu = m.addMenu("Open &recent")
+        self.recent_menu.aboutToShow.connect(self.fill_recent_menu)
+        m.addAction(self.demo_action)
+        m.addSeparator()
+        m.addActions([self.save_action, self.save_as_action])
+        m.addSeparator()
+        m.addActions([self.export_action, self.inventory_action])
+        m.addSeparator()
+        m.addAction(self.quit_action)
+        m = bar.addMenu("&Edit")
+        m.addActions([self.undo_action, self.redo_action])
+        m.addSeparator()
+        m.addActions([self.add_action, self.duplicate_action, self.rename_action, self.delete_action])
+        m.addSeparator()
+        m.addAction(self.copy_table_action)
+        m = bar.addMenu("&Project")
+        m.addActions([self.project_name_action, self.sheet_details_action, self.project_notes_action])
+        m = bar.addMenu("&View")
+        m.addActions(self.tab_actions)
+        m.addSeparator()
+        u = m.addMenu("&Units")
+        u.addActions([self.si_action, self.us_action])
+        m = bar.addMenu("&Help")
+        m.addAction(self.about_action)
+
+    def create_tool_bars(self) -> None:
+        tb = self.addToolBar("Project")
+        tb.setObjectName("projectToolBar")
+        tb.setMovable(False)
+        tb.setToolButtonStyle(Qt.ToolButtonStyle.ToolButtonTextBesideIcon)
+        tb.setIconSize(QSize(16, 16))
+        tb.addActions([self.new_action, self.open_action, self.save_action])
+        tb.addSeparator()
+        tb.addActions([self.undo_action, self.redo_action])
+        tb.addSeparator()
+        tb.addAction(self.export_action)
+        tb.addSeparator()
+        tb.addWidget(QLabel(" Units "))
+        tb.addActions([self.si_action, self.us_action])
+
+    def create_status_bar(self) -> None:
+        sb = self.statusBar()
+        self.units_label = QLabel()
+        sb.addPermanentWidget(self.units_label)
+
+    def create_panels(self) -> None:
+        # left: the channels of the project, then the inputs of the current one
+        self.channel_list = QListWidget()
+        self.channel_list.setObjectName("channels")
+        self.channel_list.setMaximumHeight(150)
+        self.channel_list.currentRowChanged.connect(self._channel_picked)
+        self.channel_list.itemChanged.connect(self._channel_renamed_in_list)
+        buttons = QHBoxLayout()
+        buttons.setSpacing(4)
+        for a, text in ((self.add_action, "Add"), (self.duplicate_action, "Duplicate"),
+                        (self.rename_action, "Rename"), (self.delete_action, "Delete")):
+            b = QToolButton()
+            b.setDefaultAction(a)
+            b.setText(text)
+            b.setToolButtonStyle(Qt.ToolButtonStyle.ToolButtonTextOnly)
+            buttons.addWidget(b)
+        buttons.addStretch(1)
+        heading = QLabel("Channels in this project")
+        heading.setObjectName("subheading")
+        self.inputs = InputPanel(self.doc)
+        self.inputs.validity_changed.connect(self.refresh)
+        left = QWidget()
+        ll = QVBoxLayout(left)
+        ll.setContentsMargins(8, 6, 0, 0)
+        ll.setSpacing(4)
+        ll.addWidget(heading)
+        ll.addWidget(self.channel_list)
+        ll.addLayout(buttons)
+        ll.addWidget(self.inputs, 1)
+
+        # middle: the pictures
+        self.section_picture = SectionPicture()
+        self.rating_picture = RatingPicture()
+        self.energy_picture = EnergyPicture()
+        self.comparison = ComparisonView(self.doc)
+        self.comparison.status_message.connect(lambda m: self.statusBar().showMessage(m, 6000))
+        self.tabs = QTabWidget()
+        self.tabs.setObjectName("views")
+        self.tabs.addTab(self.section_picture.canvas, "Cross-section")
+        self.tabs.addTab(self.rating_picture.canvas, "Rating curve")
+        self.tabs.addTab(self.energy_picture.canvas, "Specific energy")
+        self.tabs.addTab(self.comparison, "Lining comparison")
+        self.tabs.currentChanged.connect(self.draw_current)
+
+        # right: verdict and numbers
+        self.results = ResultsPanel()
+
+        self.splitter = QSplitter(Qt.Orientation.Horizontal)
+        self.splitter.setObjectName("mainSplitter")
+        self.splitter.addWidget(left)
+        self.splitter.addWidget(self.tabs)
+        self.splitter.addWidget(self.results)
+        self.splitter.setStretchFactor(0, 0)
+        self.splitter.setStretchFactor(1, 1)
+        self.splitter.setStretchFactor(2, 0)
+        self.splitter.setSizes([405, 695, 340])
+        self.splitter.setChildrenCollapsible(False)
+        self.setCentralWidget(self.splitter)
+        self.setMinimumSize(1100, 700)
+
+    def connect_document(self) -> None:
+        d = self.doc
+        d.reset.connect(self.refresh_all)
+        d.channels_changed.connect(self.fill_channel_list)
+        d.current_changed.connect(self._current_changed)
+        d.channel_changed.connect(self._channel_changed)
+        d.units_changed.connect(self.refresh_all)
+        d.project_changed.connect(self.update_title)
+        d.undo_stack.cleanChanged.connect(self.update_title)
+        d.undo_stack.indexChanged.connect(self.update_title)
+
+    def read_settings(self) -> None:
+        self.resize(1440, 900)
+        if not self.persistent:
+            return
+        geometry = settings.WINDOW_GEOMETRY.read()
+        if not geometry.isEmpty():
+            self.restoreGeometry(geometry)
+        state = settings.WINDOW_STATE.read()
+        if not state.isEmpty():
+            self.restoreState(state)
+        split = settings.SPLITTER_STATE.read()
+        if not split.isEmpty():
+            self.splitter.restoreState(split)
+
+    def write_settings(self) -> None:
+        if not self.persistent:
+            return
+        settings.WINDOW_GEOMETRY.write(self.saveGeometry())
+        settings.WINDOW_STATE.write(self.saveState())
+        settings.SPLITTER_STATE.write(self.splitter.saveState())
+
+    # -- showing ---------------------------------------------------------------------------
+    def refresh_all(self, *_signal_args) -> None:
+        self.last_good = None
+        self.fill_channel_list()
+        units = self.doc.project.units
+        (self.si_action if units == "si" else self.us_action).setChecked(True)
+        self.units_label.setText(f"Units: {'SI' if units == 'si' else 'US customary'}")
+        self.update_title()
+        self.refresh()
+
+    def _current_changed(self, index: int) -> None:
+        self.last_good = None
+        self.channel_list.blockSignals(True)
+        self.channel_list.setCurrentRow(index)
+        self.channel_list.blockSignals(False)
+        self.refresh()
+
+    def fill_channel_list(self, *_signal_args) -> None:
+        lst = self.channel_list
+        lst.blockSignals(True)
+        lst.clear()
+        for ch in self.doc.project.channels:
+            item = QListWidgetItem(ch.name)
+            item.setFlags(item.flags() | Qt.ItemFlag.ItemIsEditable)
+            lst.addItem(item)
+        lst.setCurrentRow(self.doc.current)
+        lst.blockSignals(False)
+        self.delete_action.setEnabled(len(self.doc.project.channels) > 1)
+
+    def _channel_changed(self, index: int) -> None:
+        if index == self.doc.current:
+            self.refresh()
+
+    def refresh(self, *_signal_args) -> None:
+        """Evaluate the current channel and redraw what is in view."""
+        ch = self.doc.channel()
+        ev = compute.evaluate(ch, self.doc.units)
+        complaint = self.inputs.first_complaint()
+        self.inputs.show_evaluation(ev)
+        if ev.ok and not complaint:
+            self.last_good = ev
+        self.evaluation = ev
+        self.complaint = complaint
+        self.results.show_evaluation(ev, self.doc.units, self.last_good, complaint)
+        self._drawn.clear()
+        self.draw_current()
+
+    def draw_current(self, *_signal_args) -> None:
+        """Update the picture of the visible tab only; the others follow when shown."""
+        key = TABS[self.tabs.currentIndex()]
+        if key in self._drawn or key == "compare":
+            return
+        if self.export_task is not None:
+            # The sheet draws its rating curve with matplotlib in the export's thread, under rc_context;
+            # matplotlib is not thread-safe, so the pictures wait for the export (results stay live).
+            return
+        self._drawn[key] = 1
+        ev, units, ch = self.evaluation, self.doc.units, self.doc.channel()
+        usable = ev is not None and ev.ok and not self.complaint
+        note = "Last good result: " + ("fix the marked input" if self.complaint else "no result for these inputs")
+        picture = {"section": self.section_picture, "rating": self.rating_picture,
+                   "energy": self.energy_picture}[key]
+        if usable:
+            if key == "section":
+                thick = ev.lining.thickness if ev.lining else None
+                picture.update(ev, units, self.section_title(ch, ev), lining_thickness=thick)
+            elif key == "rating":
+                picture.update(compute.rating(ch, ev), ev, units, f"{ch.name}: flow against depth on this grade")
+            else:
+                picture.update(compute.energy(ch, ev), units, f"{ch.name}: specific energy at the design flow")
+        else:
+            picture.fade(True, note)
+        picture.canvas.draw_idle()
+
+    def section_title(self, ch: pj.Channel, ev: compute.Evaluation) -> str:
+        u = self.doc.units
+        n = ev.result.manning_n
+        return (f"{ch.name}  ·  {SHAPE_NAMES.get(ev.section.kind, ev.section.kind)}  ·  "
+                f"Q = {u.from_si('flow', ev.flow):.3g} {pretty(u.label('flow'))}  ·  S = {ch.slope:.4g}  ·  n = {n:.3f}")
+
+    def update_title(self, *_signal_args) -> None:
+        doc = self.doc
+        where = doc.path.name if doc.path else "not saved yet"
+        self.setWindowTitle(f"{doc.project.name} ({where})[*] — Ditchwright")
+        self.setWindowModified(doc.modified)
+
+    # -- channel actions ------------------------------------------------------------------------
+    def _channel_picked(self, row: int) -> None:
+        if row >= 0:
+            self.doc.set_current(row)
+
+    def _channel_renamed_in_list(self, item: QListWidgetItem) -> None:
+        row = self.channel_list.row(item)
+        refusal = self.doc.rename_channel(item.text(), index=row)
+        if refusal:
+            self.statusBar().showMessage(refusal, 8000)
+            self.fill_channel_list()
+
+    def rename_channel(self) -> None:
+        item = self.channel_list.item(self.doc.current)
+        if item is not None:
+            self.channel_list.editItem(item)
+
+    def delete_channel(self) -> None:
+        refusal = self.doc.remove_channel()
+        if refusal:
+            self.statusBar().showMessage(refusal, 8000)
+
+    def rename_project(self) -> None:
+        name, ok = QInputDialog.getText(self, "Project name", "Name of the project:", text=self.doc.project.name)
+        if ok and name.strip():
+            self.doc.set_project_text("name", name.strip(), "Rename project")
+
+    def edit_sheet_details(self) -> None:
+        dialog = SheetDetailsDialog(self.doc.project.sheet, parent=self)
+        if dialog.exec() == QDialog.DialogCode.Accepted:
+            self.doc.set_sheet_info(dialog.info())
+
+    def edit_project_notes(self) -> None:
+        dialog = NotesDialog(self.doc.project.notes, parent=self)
+        if dialog.exec() == QDialog.DialogCode.Accepted:
+            self.doc.set_project_text("notes", dialog.text(), "Change project notes")
+
+    def copy_table(self) -> None:
+        self.tabs.setCurrentIndex(TABS.index("compare"))
+        self.comparison.copy_table()
+
+    # -- files --------------------------------------------------------------------------------------
+    def maybe_save(self) -> bool:
+        """True when it is fine to drop the current project (saved, or the user said so)."""
+        if not self.doc.modified:
+            return True
+        answer = QMessageBox.warning(
+            self, "Unsaved changes", f"The project '{self.doc.project.name}' has changes that are not saved.\n\n"
+            "Save them first?", QMessageBox.StandardButton.Save | QMessageBox.StandardButton.Discard
+            | QMessageBox.StandardButton.Cancel, QMessageBox.StandardButton.Save)
+        if answer == QMessageBox.StandardButton.Save:
+            return self.save()
+        return answer == QMessageBox.StandardButton.Discard
+
+    def new_project(self) -> None:
+        if self.maybe_save():
+            self.doc.load(pj.Project())
+            self._after_file_change("New project.")
+
+    def open_dialog(self) -> None:
+        if not self.maybe_save():
+            return
+        folder = settings.LAST_FOLDER.read() if self.persistent else ""
+        path, _ = QFileDialog.getOpenFileName(self, "Open project", folder, FILE_FILTER)
+        if path:
+            self.open_file(path, ask=False)
+
+    def open_file(self, path, ask: bool = True) -> bool:
+        """Open ``path``; a file that cannot be read is refused with its reason and nothing changes."""
+        if ask and not self.maybe_save():
+            return False
+        try:
+            project = pj.load(path)
+        except pj.ProjectFileError as exc:
+            QMessageBox.warning(self, "Cannot open the project", f"{path}\n\n{exc}.\n\nNothing was changed.")
+            return False
+        self.doc.load(project, path)
+        self._remember(path)
+        self._after_file_change(f"Opened {path}.")
+        return True
+
+    def open_demo(self) -> None:
+        if not self.maybe_save():
+            return
+        project = pj.loads(pj.demo_path().read_text(encoding="utf-8"))
+        self.doc.load(project, None)
+        self._after_file_change("Opened the demo project (an invented site). Save it under a name of your own "
+                                "to keep changes.")
+
+    def save(self) -> bool:
+        if self.doc.path is None:
+            return self.save_as()
+        return self._write(self.doc.path)
+
+    def save_as(self) -> bool:
+        folder = settings.LAST_FOLDER.read() if self.persistent else ""
+        suggestion = str(Path(folder or Path.home()) / f"{self.doc.project.name}.json")
+        path, _ = QFileDialog.getSaveFileName(self, "Save project as", suggestion, FILE_FILTER)
+        if not path:
+            return False
+        if not Path(path).suffix:
+            path += ".json"
+        return self._write(Path(path))
+
+    def _write(self, path: Path) -> bool:
+        try:
+            self.doc.save(path)
+        except OSError as exc:
+            QMessageBox.critical(self, "Could not save", f"The project was not saved to {path}:\n\n{exc}\n\n"
+                                 "The file on disk is unchanged.")
+            return False
+        if self.autosaver:
+            self.autosaver.discard_file()
+        self._remember(path)
+        self.update_title()
+        self.statusBar().showMessage(f"Saved to {path}.", 6000)
+        return True
+
+    def _remember(self, path) -> None:
+        if self.persistent:
+            settings.add_recent(str(path))
+            settings.LAST_FOLDER.write(str(Path(path).resolve().parent))
+
+    def _after_file_change(self, message: str) -> None:
+        self.statusBar().showMessage(message, 8000)
+        if self.autosaver:
+            self.autosaver.discard_file()
+
+    def fill_recent_menu(self) -> None:
+        m = self.recent_menu
+        m.clear()
+        files = settings.RECENT_FILES.read() if self.persistent else []
+        for i, f in enumerate(files):
+            p = Path(f)
+            a = m.addAction(f"&{i + 1}  {p.name}  —  {p.parent}")
+            a.setEnabled(p.exists())
+            a.triggered.connect(lambda _=False, f=f: self.open_file(f))
+        if not files:
+            m.addAction("No recent projects").setEnabled(False)
+        else:
+            m.addSeparator()
+            m.addAction("Clear the list", lambda: settings.RECENT_FILES.write([]))
+
+    def offer_recovery(self) -> bool:
+        """After a crash: offer the newest autosave left behind. True if it was recovered."""
+        found = find_recoverable(self.autosaver.session if self.autosaver else None)
+        if not found:
+            return False
+        r = found[0]
+        choice = self.ask_recovery(r)
+        if choice == "recover":
+            try:
+                project = pj.load(r.project_file)
+            except pj.ProjectFileError as exc:
+                QMessageBox.warning(self, "Cannot recover", f"The automatic copy cannot be read: {exc}.")
+                return False
+            self.doc.load(project, r.original or None, recovered=True)
+            r.discard()
+            self.update_title()
+            self.statusBar().showMessage("Recovered the automatic copy; save it to keep it.", 10000)
+            return True
+        if choice == "discard":
+            r.discard()
+        return False
+
+    def ask_recovery(self, r) -> str:
+        """"recover", "discard" or "later" for the autosave ``r``."""
+        when = time.strftime("%Y-%m-%d %H:%M", time.localtime(r.saved_at))
+        origin = r.original or "a project that was never saved"
+        box = QMessageBox(QMessageBox.Icon.Question, "Recover unsaved work",
+                          f"Ditchwright ended without saving '{r.name}' (from {origin}).\n\n"
+                          f"An automatic copy from {when} is available. Recover it?", parent=self)
+        recover = box.addButton("Recover", QMessageBox.ButtonRole.AcceptRole)
+        discard = box.addButton("Discard it", QMessageBox.ButtonRole.DestructiveRole)
+        box.addButton("Not now", QMessageBox.ButtonRole.RejectRole)
+        box.setDefaultButton(recover)
+        box.exec()
+        clicked = box.clickedButton()
+        return "recover" if clicked is recover else "discard" if clicked is discard else "later"
+
+    # -- design sheets ------------------------------------------------------------------------------
+    def export_dialog(self) -> None:
+        """Ask what to export, the password when signing, then write the PDF in the background."""
+        if self.export_task is not None:
+            self.statusBar().showMessage("A design-sheet export is already running.", 6000)
+            return
+        p = self.persistent
+        folder = (settings.SHEET_FOLDER.read() or settings.LAST_FOLDER.read()) if p else ""
+        if not folder and self.doc.path is not None:
+            folder = str(self.doc.path.resolve().parent)
+        dialog = ExportSheetDialog(self.doc.project, self.doc.current, modified=self.doc.modified, folder=folder,
+                                   page=settings.SHEET_PAGE.read() if p else "",
+                                   certificate=settings.CERTIFICATE.read() if p else "",
+                                   open_after=settings.SHEET_OPEN.read() if p else True, parent=self)
+        if dialog.exec() != QDialog.DialogCode.Accepted:
+            return
+        choice = dialog.choice()
+        if p:
+            settings.SHEET_PAGE.write(choice.page)
+            settings.SHEET_OPEN.write(choice.open_after)
+            settings.SHEET_FOLDER.write(str(choice.path.parent))
+            if choice.certificate:
+                settings.CERTIFICATE.write(choice.certificate)
+        choice = self._leave_out_unsolved(choice)
+        if choice is None:
+            return
+        sign = None
+        if choice.certificate:
+            password = ask_password(self, choice.certificate)
+            if password is None:
+                self.statusBar().showMessage("No sheet written: the password was not given.", 8000)
+                return
+            sign = (choice.certificate, password)
+        self.export_sheets(choice, sign)
+
+    def _leave_out_unsolved(self, choice):
+        """Channels without a result have no sheet: say which and why, and offer to export the others."""
+        project = self.doc.project
+        names = choice.channels if choice.channels is not None else [c.name for c in project.channels]
+        unsolved = []
+        for name in names:
+            ev = compute.evaluate(project.channel(name), self.doc.units)
+            if not ev.ok:
+                unsolved.append((name, ev.error))
+        if not unsolved:
+            return choice
+        listing = "\n".join(f"• {name}: {pretty(sentence(why))}" for name, why in unsolved)
+        others = [n for n in names if n not in dict(unsolved)]
+        if not others:
+            QMessageBox.warning(self, "Design sheets not written",
+                                f"{'This channel has' if len(unsolved) == 1 else 'These channels have'} no result, "
+                                f"so no sheet:\n\n{listing}\n\nFix the inputs marked in the form and export again.")
+            return None
+        answer = QMessageBox.question(
+            self, "Some channels have no sheet",
+            f"{'This channel has' if len(unsolved) == 1 else 'These channels have'} no result, so no sheet:\n\n"
+            f"{listing}\n\nExport the sheets of the other {len(others)} channel{'s' if len(others) != 1 else ''}?",
+            QMessageBox.StandardButton.Yes | QMessageBox.StandardButton.No, QMessageBox.StandardButton.No)
+        if answer != QMessageBox.StandardButton.Yes:
+            return None
+        return dataclasses.replace(choice, channels=others)
+
+    def export_sheets(self, choice, sign=None) -> Task:
+        """Write the sheets of ``choice`` in a worker thread; the window stays usable meanwhile.
+
+        The worker gets a copy of the project, so edits made during the export
+        do not reach a half-written sheet. ``sign`` is (PKCS#12 path, password)
+        or None; the password lives only as long as the task.
+        """
+        project = copy.deepcopy(self.doc.project)
+        count = len(choice.channels) if choice.channels is not None else len(project.channels)
+
+        def work(progress):
+            return sh.export_sheets(project, choice.path, channels=choice.channels, page=choice.page, sign=sign)
+
+        task = Task(work, self)
+        task.succeeded.connect(lambda notes: self._export_done(choice, count, sign is not None, notes))
+        task.failed.connect(lambda exc: self._export_failed(choice, exc))
+        task.finished.connect(self._export_ended)
+        self.export_task = task
+        self.export_action.setEnabled(False)
+        QApplication.setOverrideCursor(Qt.CursorShape.BusyCursor)
+        self.statusBar().showMessage(f"Writing {count} design sheet{'s' if count != 1 else ''} to "
+                                     f"{choice.path}…")
+        task.start()
+        return task
+
+    def _export_ended(self) -> None:
+        task, self.export_task = self.export_task, None
+        QApplication.restoreOverrideCursor()
+        self.export_action.setEnabled(True)
+        if task is not None:
+            task.deleteLater()
+        self.draw_current()
+
+    def _export_done(self, choice, count: int, signed: bool, notes: list) -> None:
+        what = f"{count} design sheet{'s' if count != 1 else ''}" + (", signed," if signed else "")
+        message = f"Wrote {what} to {choice.path}."
+        if notes:
+            message += " Note: " + "; ".join(notes) + "."
+        if choice.open_after and not QDesktopServices.openUrl(QUrl.fromLocalFile(str(choice.path))):
+            message += " No program opened it; open the file yourself."
+        self.statusBar().showMessage(message, 15000)
+
+    def _export_failed(self, choice, exc: BaseException) -> None:
+        QMessageBox.warning(self, "Design sheets not written", pretty(export_failure_text(exc, choice.path)))
+
+    # -- inventories ------------------------------------------------------------------------------------
+    def open_inventory(self) -> None:
+        """Show the inventory check (one window, kept while the main window lives)."""
+        from .inventory import InventoryDialog
+        if self.inventory_dialog is None:
+            self.inventory_dialog = InventoryDialog(self.doc, persistent=self.persistent, parent=self)
+        dialog = self.inventory_dialog
+        dialog.show()
+        dialog.raise_()
+        dialog.activateWindow()
+
+    # -- other ------------------------------------------------------------------------------------------
+    def about(self) -> None:
+        QMessageBox.about(self, "About Ditchwright",
+                          f"<b>Ditchwright {__version__}</b><p>Design of lined drainage channels: normal and "
+                          f"critical depth by Manning's equation, lining checks, freeboard.</p><p>{CAUTION}</p>")
+
+    def closeEvent(self, event) -> None:
+        if self.export_task is not None:
+            self.export_task.wait()   # a sheet export takes seconds; let it finish its file
+        if self.inventory_dialog is not None:
+            self.inventory_dialog.stop(wait=True)
+        if self.maybe_save():
+            self.write_settings()
+            if self.autosaver:
+                self.autosaver.close()
+            event.accept()
+        else:
+            event.ignore()
+
+
+
+def export_failure_text(exc: BaseException, path) -> str:
+    """Why the sheets were not written, in words (for one message box)."""
+    tail = "\n\nNo file was written; any earlier file of that name is unchanged."
+    if isinstance(exc, sh.SigningError):
+        return f"The sheets could not be signed:\n\n{sentence(exc)}{tail}"
+    if isinstance(exc, sh.SheetLayoutError):
+        return f"The sheet could not be laid out:\n\n{sentence(exc)}{tail}"
+    if isinstance(exc, hy.InputError):
+        return (f"A channel cannot be computed, so it has no sheet:\n\n{sentence(exc)}\n\n"
+                f"Fix that input and export again.{tail}")
+    if isinstance(exc, hy.NoSolutionError):
+        return f"A channel has no solution, so it has no sheet:\n\n{sentence(exc)}{tail}"
+    if isinstance(exc, KeyError):
+        return f"{sentence(exc.args[0] if exc.args else exc)}{tail}"
+    if isinstance(exc, OSError):
+        return f"Cannot write {path}:\n\n{sentence(exc.strerror or exc)}{tail}"
+    return f"The export stopped with an unexpected error:\n\n{type(exc).__name__}: {sentence(exc)}{tail}"

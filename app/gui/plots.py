@@ -1,0 +1,522 @@
+"""The pictures: a dimensioned cross-section to scale, the rating curve and the specific-energy diagram.
+
+Each picture keeps one matplotlib Figure and one canvas and creates its
+artists once; an update only moves them (``set_data``, ``set_xy``) and asks
+for ``draw_idle``. Margins are fixed instead of using a layout engine, which
+would double the cost of every redraw. Values arrive in SI and are drawn in the
+project's units. Nothing here computes hydraulics: the numbers come from
+:mod:`app.gui.compute`.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+import numpy as np
+from matplotlib.backends.backend_qtagg import FigureCanvasQTAgg
+from matplotlib.figure import Figure
+from matplotlib.patches import Polygon
+
+from hydraulics.units import UnitSystem
+
+from .compute import Evaluation, EnergyData, RatingData
+from .fields import pretty
+
+INK = "#33393f"
+MUTED = "#7a828a"
+SOIL = "#ece3d2"
+SOIL_EDGE = "#6d5d48"
+WATER = "#c4dcef"
+WATER_EDGE = "#2c6b9f"
+CRITICAL = "#b9602a"
+LINING = "#9da3a8"
+PIPE = "#c9ccce"
+FONT = 9.5
+
+
+# -- geometry for drawing (numpy only) -------------------------------------------------
+def clip_below(x, z, level):
+    """The closed polygon (x, z) cut to the part at or below ``level`` (Sutherland-Hodgman)."""
+    xs, zs = [], []
+    n = len(x)
+    for i in range(n):
+        x0, z0, x1, z1 = x[i - 1], z[i - 1], x[i], z[i]
+        in0, in1 = z0 <= level, z1 <= level
+        if in1:
+            if not in0:
+                t = (level - z0) / (z1 - z0)
+                xs.append(x0 + t * (x1 - x0))
+                zs.append(level)
+            xs.append(x1)
+            zs.append(z1)
+        elif in0:
+            t = (level - z0) / (z1 - z0)
+            xs.append(x0 + t * (x1 - x0))
+            zs.append(level)
+    return np.array(xs), np.array(zs)
+
+
+def offset_outward(x, z, thickness):
+    """The boundary polyline moved ``thickness`` away from the water (to the right of travel), mitred."""
+    x, z = np.asarray(x, float), np.asarray(z, float)
+    dx, dz = np.diff(x), np.diff(z)
+    length = np.hypot(dx, dz)
+    keep = length > 1e-12
+    dx, dz, length = dx[keep], dz[keep], length[keep]
+    px = np.concatenate([x[:-1][keep], x[-1:]])
+    pz = np.concatenate([z[:-1][keep], z[-1:]])
+    nx, nz = dz / length, -dx / length          # right-hand normals of each segment
+    vx = np.concatenate([nx[:1], nx[:-1] + nx[1:], nx[-1:]])
+    vz = np.concatenate([nz[:1], nz[:-1] + nz[1:], nz[-1:]])
+    # Mitre: scale the averaged normal so that its projection on each adjoining normal is the thickness.
+    norm = np.hypot(vx, vz)
+    vx, vz = vx / norm, vz / norm
+    proj = np.concatenate([[1.0], vx[1:-1] * nx[:-1] + vz[1:-1] * nz[:-1], [1.0]])
+    scale = thickness / np.clip(proj, 0.3, None)
+    return px + vx * scale, pz + vz * scale
+
+
+def circle_points(radius, cx=0.0, cz=0.0, count=145):
+    t = np.linspace(0, 2 * np.pi, count)
+    return cx + radius * np.sin(t), cz + radius - radius * np.cos(t)
+
+
+class Dimension:
+    """A dimension line with arrows at both ends, extension ticks and a label."""
+
+    def __init__(self, ax, color=INK):
+        self.arrow = ax.annotate("", xy=(0, 0), xytext=(0, 0), zorder=8, annotation_clip=False,
+                                 arrowprops=dict(arrowstyle="<|-|>", color=color, lw=0.8, shrinkA=0, shrinkB=0,
+                                                 mutation_scale=7))
+        self.label = ax.text(0, 0, "", fontsize=FONT, color=color, zorder=9)
+        self.ticks = ax.plot([], [], color=color, lw=0.5, zorder=8)[0]
+
+    def show(self, p0, p1, text, *, where="right", ticks=None):
+        (x0, y0), (x1, y1) = p0, p1
+        self.arrow.xy = (x0, y0)
+        self.arrow.set_position((x1, y1))
+        mx, my = (x0 + x1) / 2, (y0 + y1) / 2
+        self.label.set_text(text)
+        if where == "right":
+            self.label.set_position((mx, my))
+            self.label.set_ha("left"), self.label.set_va("center")
+            self.label.set_text("  " + text)
+        elif where == "below":
+            self.label.set_position((mx, my))
+            self.label.set_ha("center"), self.label.set_va("top")
+        else:  # above
+            self.label.set_position((mx, my))
+            self.label.set_ha("center"), self.label.set_va("bottom")
+        if ticks is not None:
+            self.ticks.set_data(*ticks)
+        else:
+            self.ticks.set_data([], [])
+        self.set_visible(True)
+
+    def set_visible(self, visible: bool):
+        for a in (self.arrow, self.label, self.ticks):
+            a.set_visible(visible)
+
+    @property
+    def artists(self):
+        return (self.arrow, self.label, self.ticks)
+
+
+class Picture:
+    """One Figure on one Qt canvas, with fixed margins."""
+
+    margins = dict(left=0.09, right=0.98, bottom=0.13, top=0.9)
+
+    def __init__(self, width=8.0, height=4.5, dpi=100):
+        self.figure = Figure(figsize=(width, height), dpi=dpi, facecolor="white")
+        self.canvas = FigureCanvasQTAgg(self.figure)
+        self.figure.subplots_adjust(**self.margins)
+        self.ax = self.figure.add_subplot()
+        ax = self.ax
+        ax.tick_params(labelsize=FONT, colors=INK)
+        for side in ("top", "right"):
+            ax.spines[side].set_visible(False)
+        for side in ("left", "bottom"):
+            ax.spines[side].set_color(MUTED)
+        self.title = ax.set_title("", fontsize=FONT + 1, color=INK, loc="left")
+        self.stale_note = ax.text(0.5, 0.5, "", transform=ax.transAxes, ha="center", va="center",
+                                  fontsize=FONT + 1, color="#8a1c1c", zorder=20,
+                                  bbox=dict(boxstyle="round,pad=0.5", fc="white", ec="#d7b0b0"))
+        self.stale_note.set_visible(False)
+
+    def fade(self, faded: bool, note: str = "") -> None:
+        alpha = 0.3 if faded else 1.0
+        for artist in self.content_artists():
+            artist.set_alpha(alpha)
+        self.stale_note.set_text(note)
+        self.stale_note.set_visible(faded and bool(note))
+
+    def content_artists(self):
+        return []
+
+
+@dataclass
+class SectionDrawing:
+    """Everything drawn for one section, SI, invert at z = 0 (from :func:`section_drawing`)."""
+
+    kind: str
+    ground: tuple            # boundary polyline with berms (x, z)
+    soil: tuple              # ground or pipe wall polygon
+    air: tuple | None        # inside of a pipe above the water
+    water: tuple | None      # wetted area at normal depth
+    surface: tuple           # (x_left, x_right) of the water surface
+    critical: tuple          # (x_left, x_right) at critical depth
+    lining: tuple | None     # lining band polygon
+    top: float               # top of ditch (lower bank, pipe crown)
+    left: float              # extent of the drawing [m]
+    right: float
+    base: float
+    normal_depth: float
+    critical_depth: float
+    bottom_width: float | None
+    side_slopes: tuple | None
+    slope_at: tuple | None   # x of each bank at mid-height (left, right) and that height
+
+
+def section_drawing(ev: Evaluation, lining_thickness=None) -> SectionDrawing:
+    """The shapes to draw for a solved channel (``ev.ok``), from ``section.outline`` of the core."""
+    r, sec = ev.result, ev.section
+    yn, yc = float(r.normal_depth), float(r.critical_depth)
+    thick = float(lining_thickness or 0.0)
+    kind = sec.kind
+    if kind == "circle":
+        d = float(sec.diameter)
+        bx, bz = circle_points(d / 2)
+        wall = max(d * 0.06, 0.02)
+        ox, oz = circle_points(d / 2 + wall, cz=-wall)
+        soil = (np.concatenate([ox, bx[::-1]]), np.concatenate([oz, bz[::-1]]))
+        wx, wz = clip_below(bx, bz, yn)
+        return SectionDrawing(kind, (bx, bz), soil, (bx, bz), (wx, wz) if len(wx) >= 3 else None,
+                              _span(wx), _width_at(bx, bz, yc, closed=True), None, d, -d / 2 - wall,
+                              d / 2 + wall, -wall, yn, yc, None, None, None)
+    if kind == "irregular":
+        bx, bz = (np.asarray(a, float) for a in sec.outline(sec.full_depth))
+        bx = bx - (bx.min() + bx.max()) / 2
+        top = float(min(bz[0], bz[-1]))
+    else:
+        top = float(ev.total_depth)
+        bx, bz = (np.asarray(a, float) for a in sec.outline(top))
+    span = float(bx.max() - bx.min())
+    berm = max(0.12 * span, 0.3 * top, 0.1)
+    base = -max(0.3 * top, thick + 0.12 * top, 0.05)
+    gx = np.concatenate([[bx[0] - berm], bx, [bx[-1] + berm]])
+    gz = np.concatenate([[bz[0]], bz, [bz[-1]]])
+    soil = (np.concatenate([gx, [gx[-1], gx[0]]]), np.concatenate([gz, [base, base]]))
+    wx, wz = clip_below(bx, bz, yn)
+    band = None
+    if thick > 0:
+        ox, oz = offset_outward(bx, bz, thick)
+        band = (np.concatenate([bx, ox[::-1]]), np.concatenate([bz, oz[::-1]]))
+    b = float(sec.bottom_width) if kind in ("trapezoid", "rectangle") else None
+    zs = tuple(float(z) for z in sec.side_slopes) if kind in ("trapezoid", "triangle") else None
+    slope_at = None
+    if zs is not None:
+        mid = 0.5 * top
+        half = (b or 0.0) / 2
+        slope_at = (-half - zs[0] * mid, half + zs[1] * mid, mid)
+    return SectionDrawing(kind, (gx, gz), soil, None, (wx, wz) if len(wx) >= 3 else None, _span(wx),
+                          _width_at(bx, bz, yc), band, top, float(gx[0]), float(gx[-1]), base, yn, yc, b, zs,
+                          slope_at)
+
+
+def _span(x):
+    return (float(np.min(x)), float(np.max(x))) if len(x) else (0.0, 0.0)
+
+
+def _width_at(bx, bz, level, closed=False):
+    """Leftmost and rightmost x where the boundary reaches ``level`` (linear between points)."""
+    xs = []
+    for i in range(0 if closed else 1, len(bx)):
+        x0, z0, x1, z1 = bx[i - 1], bz[i - 1], bx[i], bz[i]
+        if (z0 - level) * (z1 - level) <= 0 and z0 != z1:
+            xs.append(x0 + (level - z0) / (z1 - z0) * (x1 - x0))
+    return (min(xs), max(xs)) if xs else (0.0, 0.0)
+
+
+class SectionPicture(Picture):
+    """The cross-section to scale: ground or pipe, lining, water at normal depth, critical depth, dimensions.
+
+    Equal scale on both axes: the limits are chosen from the drawing and the
+    size of the axes in pixels, with room in pixels for the labels.
+    """
+
+    #: Room for labels around the drawing, in pixels: left, right, bottom, top.
+    pads = (24, 140, 60, 96)
+
+    def __init__(self, width=8.0, height=4.5, dpi=100, compact=False):
+        super().__init__(width, height, dpi)
+        self.compact = compact
+        ax = self.ax
+        ax.set_axis_off()
+        self.figure.subplots_adjust(left=0.01, right=0.99, bottom=0.01, top=0.93)
+        if compact:
+            self.figure.subplots_adjust(left=0.02, right=0.98, bottom=0.03, top=0.97)
+            self.pads = (4, 4, 4, 4)
+        self.scale_bar = ax.plot([], [], color=INK, lw=1.0, zorder=9, solid_capstyle="butt")[0]
+        self.scale_text = ax.text(0, 0, "", fontsize=FONT, color=INK, ha="left", va="bottom", zorder=9)
+        self.water = Polygon(np.zeros((3, 2)), closed=True, fc=WATER, ec="none", zorder=1)
+        self.air = Polygon(np.zeros((3, 2)), closed=True, fc="white", ec="none", zorder=0.5)
+        self.soil = Polygon(np.zeros((3, 2)), closed=True, fc=SOIL, ec="none", zorder=3)
+        self.lining = Polygon(np.zeros((3, 2)), closed=True, fc=LINING, ec=SOIL_EDGE, lw=0.5, zorder=3.5)
+        for p in (self.water, self.air, self.soil, self.lining):
+            ax.add_patch(p)
+        self.ground = ax.plot([], [], color=SOIL_EDGE, lw=1.8, zorder=4, solid_joinstyle="round")[0]
+        self.surface = ax.plot([], [], color=WATER_EDGE, lw=1.4, zorder=2)[0]
+        self.marker = ax.plot([], [], marker="v", ms=7, color=WATER_EDGE, ls="none", zorder=6)[0]
+        self.critical = ax.plot([], [], color=CRITICAL, lw=1.1, ls=(0, (5, 3)), zorder=5)[0]
+        self.top_line = ax.plot([], [], color=SOIL_EDGE, lw=0.8, ls=(0, (1, 2)), zorder=5)[0]
+        text = dict(fontsize=FONT, zorder=9, va="center")
+        # the key, top left: what each line is, with its level
+        self.key_lines, self.key_texts = [], []
+        styles = (dict(color=WATER_EDGE, lw=1.4), dict(color=CRITICAL, lw=1.1, ls=(0, (5, 3))),
+                  dict(color=SOIL_EDGE, lw=0.9, ls=(0, (1, 2))), dict(color=LINING, lw=6))
+        for i, style in enumerate(styles):
+            y = 0.985 - i * 0.045
+            self.key_lines.append(ax.plot([0.01, 0.055], [y, y], transform=ax.transAxes, zorder=9, **style)[0])
+            self.key_texts.append(ax.text(0.065, y, "", transform=ax.transAxes, color=INK, ha="left", **text))
+        self.critical_label, self.top_label = self.key_texts[1], self.key_texts[2]
+        self.slope_labels = [ax.text(0, 0, "", color=SOIL_EDGE, ha=h, **text) for h in ("right", "left")]
+        self.lining_label = ax.text(0, 0, "", color=INK, ha="center", **text)
+        self.dims = {"depth": Dimension(ax, color=WATER_EDGE), "freeboard": Dimension(ax),
+                     "bottom": Dimension(ax), "top": Dimension(ax)}
+        self._labels = [*self.key_lines, *self.key_texts, self.lining_label, *self.slope_labels]
+        self._last = None
+        self.canvas.mpl_connect("resize_event", self._resized)
+
+    def content_artists(self):
+        out = [self.water, self.soil, self.air, self.lining, self.ground, self.surface, self.marker,
+               self.critical, self.top_line, self.scale_bar, self.scale_text, *self._labels]
+        for d in self.dims.values():
+            out.extend(d.artists)
+        return out
+
+    def _resized(self, _event):
+        if self._last is not None:
+            self.update(*self._last)
+
+    def _fit(self, x0, x1, z0, z1):
+        """Set equal-scale limits showing [x0, x1] x [z0, z1] inside the label pads; returns metres per pixel."""
+        box = self.ax.get_window_extent()
+        left, right, bottom, top = self.pads
+        w = max(box.width - left - right, 40)
+        h = max(box.height - bottom - top, 40)
+        scale = max((x1 - x0) / w, (z1 - z0) / h, 1e-9)
+        cx, cz = (x0 + x1) / 2, (z0 + z1) / 2
+        xl = cx - scale * (w / 2 + left)
+        zl = cz - scale * (h / 2 + bottom)
+        self.ax.set_xlim(xl, xl + scale * box.width)
+        self.ax.set_ylim(zl, zl + scale * box.height)
+        return scale
+
+    def update(self, ev: Evaluation, units: UnitSystem, title: str = "", lining_thickness=None) -> None:
+        """Redraw for a good evaluation (``ev.ok``); the caller keeps the last one when it is not."""
+        self._last = (ev, units, title, lining_thickness)
+        g = section_drawing(ev, lining_thickness)
+        k = units.from_si("length", 1.0)          # metres -> shown length unit
+        L = units.label("length")
+
+        def fmt(v):
+            return f"{v * k:.2f} {L}"
+
+        def xy(pair):
+            return np.column_stack([np.asarray(pair[0]) * k, np.asarray(pair[1]) * k])
+
+        s = self._fit(g.left * k, g.right * k, g.base * k, g.top * k)  # shown units per pixel
+        self.soil.set_xy(xy(g.soil))
+        self.soil.set_facecolor(PIPE if g.kind == "circle" else SOIL)
+        self.air.set_visible(g.air is not None)
+        if g.air is not None:
+            self.air.set_xy(xy(g.air))
+        self.ground.set_data(g.ground[0] * k, g.ground[1] * k)
+        self.water.set_visible(g.water is not None)
+        if g.water is not None:
+            self.water.set_xy(xy(g.water))
+        self.lining.set_visible(g.lining is not None)
+        if g.lining is not None:
+            self.lining.set_xy(xy(g.lining))
+        (wl, wr), yn, yc, top = g.surface, g.normal_depth, g.critical_depth, g.top
+        self.surface.set_data([wl * k, wr * k], [yn * k, yn * k])
+        self.marker.set_data([(wl + 0.18 * (wr - wl)) * k], [yn * k + 7 * s])
+        self.title.set_text(title)
+        if self.compact:
+            self.critical.set_data([g.critical[0] * k, g.critical[1] * k], [yc * k, yc * k])
+            for a in (self.top_line, self.scale_bar, self.scale_text, *self._labels):
+                a.set_visible(False)
+            for d in self.dims.values():
+                d.set_visible(False)
+            self.fade(False)
+            return
+
+        # critical depth across its own width; the top of the ditch (or the crown) across the drawing
+        self.critical.set_data([g.critical[0] * k, g.critical[1] * k], [yc * k, yc * k])
+        self.top_line.set_data([g.left * k, g.right * k], [top * k, top * k])
+        name = {"circle": "crown of the pipe", "irregular": "lower bank"}.get(g.kind, "top of ditch (total depth)")
+        keys = [f"water surface at normal depth, {fmt(yn)}", f"critical depth, {fmt(yc)}", f"{name}, {fmt(top)}"]
+        if g.lining is not None:
+            keys.append(f"lining, {units.from_si('small_length', lining_thickness):.0f} "
+                        f"{units.label('small_length')} thick")
+        step = 19 / max(self.ax.get_window_extent().height, 100)   # one key line is 19 px
+        for i, (line, label) in enumerate(zip(self.key_lines, self.key_texts)):
+            y = 0.99 - i * step
+            line.set_ydata([y, y])
+            label.set_y(y)
+            line.set_visible(i < len(keys))
+            label.set_visible(i < len(keys))
+            if i < len(keys):
+                label.set_text(keys[i])
+        # the depth chain on the right: water depth, then freeboard (or clearance to the crown)
+        x_dim = g.right * k + 14 * s
+        d = self.dims
+        d["depth"].show((x_dim, 0), (x_dim, yn * k), f"depth {fmt(yn)}",
+                        ticks=([wr * k, x_dim + 4 * s], [yn * k, yn * k]))
+        gap = top - yn
+        if gap * k > 1.5 * s:
+            label = {"circle": "to crown", "irregular": "to lower bank"}.get(g.kind, "freeboard")
+            d["freeboard"].show((x_dim, yn * k), (x_dim, top * k), f"{label} {fmt(gap)}",
+                                ticks=([g.right * k, x_dim + 4 * s], [top * k, top * k]))
+            if gap * k < 16 * s:  # a short freeboard: lift its label clear of the depth label
+                d["freeboard"].label.set_y(top * k + 7 * s)
+        else:
+            d["freeboard"].set_visible(False)
+        # water-surface width above the drawing
+        t_y = top * k + 16 * s
+        d["top"].show((wl * k, t_y), (wr * k, t_y), f"water surface {fmt(wr - wl)}", where="above",
+                      ticks=([wl * k, wl * k, np.nan, wr * k, wr * k], [yn * k, t_y + 3 * s, np.nan, yn * k,
+                                                                        t_y + 3 * s]))
+        d["top"].label.set_y(t_y + 3 * s)
+        # bottom width under the ditch
+        if g.bottom_width:
+            b2 = g.bottom_width / 2 * k
+            yb = g.base * k - 6 * s
+            d["bottom"].show((-b2, yb), (b2, yb), f"bottom {fmt(g.bottom_width)}", where="below",
+                             ticks=([-b2, -b2, np.nan, b2, b2], [0, yb - 3 * s, np.nan, 0, yb - 3 * s]))
+            d["bottom"].label.set_y(yb - 4 * s)
+        else:
+            d["bottom"].set_visible(False)
+        # side slopes, written in the ground just outside each bank
+        if g.side_slopes is not None:
+            xl_, xr_, zm = g.slope_at
+            for lab, z, x, sign in zip(self.slope_labels, g.side_slopes, (xl_, xr_), (-1, 1)):
+                norm = float(np.hypot(1.0, z))
+                off = 18 * s + (lining_thickness or 0.0) * k
+                lab.set_text(f"{z:g} : 1" if z > 0 else "vertical")
+                lab.set_position((x * k + sign * off / norm, zm * k - off * z / norm))
+                lab.set_ha("center")
+                lab.set_visible(True)
+        else:
+            for lab in self.slope_labels:
+                lab.set_visible(False)
+        self.lining_label.set_visible(False)
+        # a scale bar under the drawing: the picture is to scale, the bar says how large
+        x0, x1 = self.ax.get_xlim()
+        z0, _ = self.ax.get_ylim()
+        bar = nice_length((x1 - x0) / 6)
+        bx0, bz = x0 + 20 * s, z0 + 18 * s
+        self.scale_bar.set_data([bx0, bx0, np.nan, bx0, bx0 + bar, np.nan, bx0 + bar, bx0 + bar],
+                                [bz + 3 * s, bz - 3 * s, np.nan, bz, bz, np.nan, bz + 3 * s, bz - 3 * s])
+        self.scale_text.set_text(f"{bar:g} {L}   (drawn to scale)")
+        self.scale_text.set_position((bx0, bz + 5 * s))
+        self.scale_bar.set_visible(True)
+        self.scale_text.set_visible(True)
+        self.fade(False)
+
+
+def nice_length(target: float) -> float:
+    """1, 2 or 5 times a power of ten, close to ``target`` (for a scale bar)."""
+    if target <= 0:
+        return 1.0
+    power = 10 ** np.floor(np.log10(target))
+    for m in (1, 2, 5, 10):
+        if m * power >= target * 0.7:
+            return float(m * power)
+    return float(10 * power)
+
+
+class RatingPicture(Picture):
+    """Flow against normal depth, with critical depth for the same flows and the design point."""
+
+    def __init__(self, width=8.0, height=4.5, dpi=100):
+        super().__init__(width, height, dpi)
+        ax = self.ax
+        ax.grid(True, color="#e4e7ea", lw=0.6)
+        self.normal = ax.plot([], [], color=WATER_EDGE, lw=1.8, label="normal depth")[0]
+        self.crit = ax.plot([], [], color=CRITICAL, lw=1.2, ls=(0, (5, 3)), label="critical depth")[0]
+        self.top = ax.axhline(0, color=SOIL_EDGE, lw=0.8, ls=(0, (1, 2)))
+        self.point = ax.plot([], [], "o", color=INK, ms=6, zorder=5)[0]
+        self.point_label = ax.text(0, 0, "", fontsize=FONT, color=INK, ha="left", va="top", zorder=6)
+        self.top_label = ax.text(0, 0, "", fontsize=FONT, color=SOIL_EDGE, ha="left", va="bottom")
+        self.legend = ax.legend(loc="lower right", fontsize=FONT, frameon=False)
+
+    def content_artists(self):
+        return [self.normal, self.crit, self.top, self.point, self.point_label, self.top_label]
+
+    def update(self, data: RatingData, ev: Evaluation, units: UnitSystem, title: str = "") -> None:
+        u = units.from_si
+        q = u("flow", data.flows)
+        y = u("length", data.depths)
+        self.normal.set_data(q, y)
+        self.crit.set_data(q, u("length", data.critical))
+        qd, yd = u("flow", ev.flow), u("length", ev.result.normal_depth)
+        self.point.set_data([qd], [yd])
+        self.point_label.set_text(f"  design: {qd:.3g} {pretty(units.label('flow'))} at {yd:.2f} "
+                                  f"{units.label('length')}")
+        self.point_label.set_position((qd, yd))
+        top = u("length", ev.total_depth)
+        self.top.set_ydata([top, top])
+        self.top_label.set_text(" top of ditch" if ev.section.kind != "circle" else "")
+        self.top_label.set_position((0, top))
+        self.ax.set_xlim(0, float(np.nanmax(q)) * 1.02)
+        self.ax.set_ylim(0, float(np.nanmax(y)) * 1.05)
+        self.ax.set_xlabel(f"flow [{pretty(units.label('flow'))}]", fontsize=FONT, color=INK)
+        self.ax.set_ylabel(f"depth [{units.label('length')}]", fontsize=FONT, color=INK)
+        self.title.set_text(title)
+        self.fade(False)
+
+
+class EnergyPicture(Picture):
+    """Specific energy against depth for the design flow: the two branches, E = y, critical and normal depth."""
+
+    def __init__(self, width=8.0, height=4.5, dpi=100):
+        super().__init__(width, height, dpi)
+        ax = self.ax
+        ax.grid(True, color="#e4e7ea", lw=0.6)
+        self.curve = ax.plot([], [], color=WATER_EDGE, lw=1.8, label="specific energy E = y + V²/2g")[0]
+        self.diag = ax.plot([], [], color=MUTED, lw=0.8, ls=(0, (2, 2)), label="E = y")[0]
+        self.crit_line = ax.plot([], [], color=CRITICAL, lw=1.0, ls=(0, (5, 3)))[0]
+        self.crit = ax.plot([], [], "o", color=CRITICAL, ms=6, zorder=5)[0]
+        self.normal = ax.plot([], [], "o", color=INK, ms=6, zorder=5)[0]
+        self.crit_label = ax.text(0, 0, "", fontsize=FONT, color=CRITICAL, ha="left", va="top")
+        self.normal_label = ax.text(0, 0, "", fontsize=FONT, color=INK, ha="left", va="bottom")
+        self.legend = ax.legend(loc="lower right", fontsize=FONT, frameon=False)
+
+    def content_artists(self):
+        return [self.curve, self.diag, self.crit_line, self.crit, self.normal, self.crit_label, self.normal_label]
+
+    def update(self, data: EnergyData, units: UnitSystem, title: str = "") -> None:
+        u = lambda v: units.from_si("length", v)  # noqa: E731
+        L = units.label("length")
+        e, y = u(data.energy), u(data.depths)
+        ymax = float(y.max())
+        xmax = min(float(np.nanmax(e)), 2.2 * ymax + 1e-9)
+        self.curve.set_data(e, y)
+        self.diag.set_data([0, ymax], [0, ymax])
+        yc, ec = u(data.critical_depth), u(data.min_energy)
+        yn, en = u(data.normal_depth), u(data.normal_energy)
+        self.crit.set_data([ec], [yc])
+        self.crit_line.set_data([0, ec], [yc, yc])
+        self.normal.set_data([en], [yn])
+        self.crit_label.set_text(f"  critical: y = {yc:.3f} {L}, E min = {ec:.3f} {L}")
+        self.crit_label.set_position((ec, yc))
+        self.normal_label.set_text(f"  normal depth: y = {yn:.3f} {L}, E = {en:.3f} {L}")
+        self.normal_label.set_position((en, yn))
+        self.ax.set_xlim(0, max(xmax, en * 1.3))
+        self.ax.set_ylim(0, ymax * 1.04)
+        self.ax.set_xlabel(f"specific energy E [{L}]", fontsize=FONT, color=INK)
+        self.ax.set_ylabel(f"depth y [{L}]", fontsize=FONT, color=INK)
+        self.title.set_text(title)
+        self.fade(False)

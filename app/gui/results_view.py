@@ -1,0 +1,206 @@
+"""The results beside the picture: the verdict in words and colour, the numbers with units, cautions.
+
+When the inputs are not usable the last good result stays, greyed, under a
+note that says what to fix.
+"""
+
+from __future__ import annotations
+
+from PySide6.QtCore import Qt
+from PySide6.QtWidgets import QFrame, QGridLayout, QLabel, QScrollArea, QVBoxLayout, QWidget
+
+from hydraulics.units import UnitSystem
+
+from ..results import CHANNEL_FIELDS, ResultField, format_value
+from .compute import Evaluation
+from .fields import pretty
+
+CAUTION = ("Results assist design only. Check them against the local drainage code and design manual; "
+           "a licensed engineer must review and approve the design before it is built.")
+
+_BY_KEY = {f.key: f for f in CHANNEL_FIELDS}
+#: What the panel lists, in reading order: (key, how it is labelled and formatted).
+ROWS = (
+    ("flow", ResultField("flow", "Design flow", "flow", 3)),
+    ("normal_depth", _BY_KEY["normal_depth"]),
+    ("critical_depth", _BY_KEY["critical_depth"]),
+    ("velocity", _BY_KEY["velocity"]),
+    ("froude", _BY_KEY["froude"]),
+    ("regime", _BY_KEY["regime"]),
+    ("area", _BY_KEY["area"]),
+    ("top_width", _BY_KEY["top_width"]),
+    ("hydraulic_radius", _BY_KEY["hydraulic_radius"]),
+    ("specific_energy", _BY_KEY["specific_energy"]),
+    ("critical_slope", _BY_KEY["critical_slope"]),
+    ("manning_n", _BY_KEY["manning_n"]),
+    ("bed_shear", ResultField("bed_shear", "Design shear, bed", "shear", 2)),
+    ("side_shear", ResultField("side_shear", "Design shear, side slopes", "shear", 2)),
+    ("bend_shear", ResultField("bend_shear", "Design shear, bend", "shear", 2)),
+    ("permissible_shear", ResultField("permissible_shear", "Permissible shear", "shear", 2)),
+    ("safety_factor", ResultField("safety_factor", "Safety factor", "", 2)),
+    ("required_d50", ResultField("required_d50", "Smallest stable D50", "small_length", 0)),
+    ("layer_thickness", ResultField("layer_thickness", "Lining thickness", "small_length", 0)),
+    ("freeboard", ResultField("freeboard", "Freeboard", "length", 3)),
+    ("total_depth", ResultField("total_depth", "Depth with freeboard", "length", 3)),
+    ("top_width_at_top", ResultField("top_width_at_top", "Width at top of ditch", "length", 2)),
+    ("cost_per_length", ResultField("cost_per_length", "Cost", "cost_per_length", 2)),
+)
+#: Rows left out when they do not apply (no lining, no bend, not stone, no price).
+OPTIONAL = {"side_shear", "bend_shear", "required_d50", "layer_thickness", "cost_per_length"}
+
+
+def result_values(ev: Evaluation) -> dict:
+    """Every listed value of an evaluation (SI, or words), None where it does not apply."""
+    r = ev.result
+    out = {key: getattr(r, key, None) for key, _ in ROWS}
+    out.update(flow=ev.flow, freeboard=ev.freeboard, total_depth=ev.total_depth,
+               top_width_at_top=ev.top_width_at_top)
+    for key in ("side_shear", "bend_shear", "permissible_shear", "safety_factor", "required_d50",
+                "layer_thickness", "cost_per_length"):
+        out[key] = None
+    lin = ev.lining
+    if lin is not None:
+        st = lin.stability
+        out.update(bed_shear=st.bed_shear, side_shear=st.side_shear, bend_shear=st.bend_shear,
+                   required_d50=st.required_d50, layer_thickness=st.layer_thickness,
+                   cost_per_length=st.cost_per_length, manning_n=lin.manning_n)
+        if lin.verdict == "non-erodible":
+            out["permissible_shear"] = "non-erodible"
+            out["safety_factor"] = "—"
+        else:
+            out["permissible_shear"] = lin.permissible_shear
+            out["safety_factor"] = (f"{lin.safety_factor:.2f} (need {lin.required_safety_factor:.2f})"
+                                    if lin.safety_factor is not None else None)
+    return out
+
+
+class ResultsPanel(QWidget):
+    """Verdict, numbers and cautions in a scrolling column, with the design caution always in view below."""
+
+    def __init__(self, parent=None):
+        super().__init__(parent)
+        self.scroll = QScrollArea()
+        self.scroll.setWidgetResizable(True)
+        self.scroll.setHorizontalScrollBarPolicy(Qt.ScrollBarPolicy.ScrollBarAlwaysOff)
+        self.scroll.setFrameShape(QFrame.Shape.NoFrame)
+        body = QWidget()
+        body.setObjectName("resultsBody")
+        lay = QVBoxLayout(body)
+        lay.setContentsMargins(12, 10, 12, 10)
+        lay.setSpacing(10)
+
+        self.verdict = QFrame()
+        self.verdict.setObjectName("verdict")
+        vl = QVBoxLayout(self.verdict)
+        vl.setContentsMargins(12, 10, 12, 10)
+        self.headline = QLabel("—")
+        self.headline.setObjectName("verdictHeadline")
+        self.reason = QLabel()
+        self.reason.setObjectName("verdictReason")
+        self.reason.setWordWrap(True)
+        vl.addWidget(self.headline)
+        vl.addWidget(self.reason)
+        lay.addWidget(self.verdict)
+
+        self.stale = QLabel()
+        self.stale.setObjectName("staleNote")
+        self.stale.setWordWrap(True)
+        self.stale.hide()
+        lay.addWidget(self.stale)
+
+        self.numbers = QWidget()
+        self.numbers.setObjectName("numbers")
+        grid = QGridLayout(self.numbers)
+        grid.setContentsMargins(0, 0, 0, 0)
+        grid.setHorizontalSpacing(12)
+        grid.setVerticalSpacing(3)
+        grid.setColumnStretch(0, 1)
+        self.values: dict[str, QLabel] = {}
+        self.names: dict[str, QLabel] = {}
+        for i, (key, f) in enumerate(ROWS):
+            name = QLabel(f.label)
+            self.names[key] = name
+            value = QLabel("—")
+            value.setObjectName(f"value_{key}")
+            value.setAlignment(Qt.AlignmentFlag.AlignRight | Qt.AlignmentFlag.AlignVCenter)
+            value.setTextInteractionFlags(Qt.TextInteractionFlag.TextSelectableByMouse)
+            grid.addWidget(name, i, 0)
+            grid.addWidget(value, i, 1)
+            self.values[key] = value
+        lay.addWidget(self.numbers)
+
+        heading = QLabel("Cautions for this channel")
+        heading.setObjectName("subheading")
+        lay.addWidget(heading)
+        self.warnings = QLabel()
+        self.warnings.setObjectName("warnings")
+        self.warnings.setWordWrap(True)
+        self.warnings.setTextFormat(Qt.TextFormat.RichText)
+        lay.addWidget(self.warnings)
+        lay.addStretch(1)
+        self.scroll.setWidget(body)
+
+        self.caution = QLabel(CAUTION)
+        self.caution.setObjectName("caution")
+        self.caution.setWordWrap(True)
+        outer = QVBoxLayout(self)
+        outer.setContentsMargins(0, 0, 0, 8)
+        outer.setSpacing(6)
+        outer.addWidget(self.scroll, 1)
+        cl = QVBoxLayout()
+        cl.setContentsMargins(12, 0, 12, 0)
+        cl.addWidget(self.caution)
+        outer.addLayout(cl)
+        self.setMinimumWidth(300)
+        self.shown: Evaluation | None = None
+
+    def show_evaluation(self, ev: Evaluation, units: UnitSystem, last_good: Evaluation | None = None,
+                        complaint: str = "") -> None:
+        """Show ``ev``; if it has no result (or ``complaint`` is set), show ``last_good`` greyed instead."""
+        usable = ev.ok and not complaint
+        shown = ev if usable else last_good
+        verdict = ev.verdict if usable else None
+        if usable:
+            self._set_verdict(verdict.status, verdict.headline, pretty(verdict.reason))
+            self.stale.hide()
+        else:
+            why = complaint or ev.error or "The inputs are incomplete."
+            self._set_verdict("none", "No result for these inputs", why)
+            self.stale.setText("Showing the last good result, greyed, until the inputs are usable again."
+                               if shown is not None else "No result yet.")
+            self.stale.show()
+        self.numbers.setEnabled(usable)
+        values = result_values(shown) if shown is not None and shown.ok else {}
+        for key, f in ROWS:
+            v = values.get(key)
+            self.values[key].setText("—" if v is None else pretty(format_value(v, f, units)))
+            applies = key not in OPTIONAL or v is not None
+            self.values[key].setVisible(applies)
+            self.names[key].setVisible(applies)
+        lin = shown.lining if shown is not None and shown.ok else None
+        where = lin.governs if lin is not None and lin.verdict != "non-erodible" else ""
+        self.names["permissible_shear"].setText(f"Permissible shear, {where}" if where else "Permissible shear")
+        self.names["safety_factor"].setText(f"Safety factor, {where}" if where else "Safety factor")
+        warnings = list(shown.warnings) if shown is not None else []
+        if warnings:
+            items = "".join(f"<li>{_escape(w[:1].upper() + w[1:])}.</li>" if not w.endswith(".")
+                            else f"<li>{_escape(w[:1].upper() + w[1:])}</li>" for w in warnings)
+            self.warnings.setText(f"<ul style='margin-left:-24px'>{items}</ul>")
+        else:
+            self.warnings.setText("None from the checks made." if shown is not None else "—")
+        self.warnings.setEnabled(usable)
+        self.shown = shown
+
+    def _set_verdict(self, status: str, headline: str, reason: str) -> None:
+        self.verdict.setProperty("status", status)
+        self.verdict.style().unpolish(self.verdict)
+        self.verdict.style().polish(self.verdict)
+        for w in (self.headline, self.reason):
+            w.style().unpolish(w)
+            w.style().polish(w)
+        self.headline.setText(headline)
+        self.reason.setText(reason)
+
+
+def _escape(text: str) -> str:
+    return text.replace("&", "&amp;").replace("<", "&lt;").replace(">", "&gt;")

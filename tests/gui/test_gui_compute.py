@@ -1,0 +1,114 @@
+"""The window's computations: they call the core, never raise for bad input, and import no Qt."""
+
+import subprocess
+import sys
+
+import pytest
+
+import hydraulics as hy
+from app import project as pj
+from app.gui import compute
+from hydraulics import rational
+
+
+def test_compute_imports_no_gui_library():
+    code = ("import sys, app.gui.compute; "
+            "print(','.join(m for m in ('PySide6', 'matplotlib') if m in sys.modules))")
+    out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, check=True)
+    assert out.stdout.strip() == ""
+
+
+def test_evaluation_is_the_core_analysis():
+    ch = pj.Channel(slope=0.004, manning_n=0.025)
+    ev = compute.evaluate(ch, hy.units.SI)
+    r = hy.analyse(ch.build_section(), ch.flow.value, 0.004, 0.025)
+    assert ev.ok and ev.result.normal_depth == r.normal_depth and ev.result.froude == r.froude
+    assert ev.total_depth == pytest.approx(r.normal_depth + ch.min_freeboard)
+
+
+def test_rational_flow_and_kirpich_time_come_from_the_core():
+    fb = pj.FlowBasis(method="rational", runoff_coefficient=0.5, intensity=2e-5, area=4e4,
+                      flow_length=300.0, flow_path_slope=0.02)
+    ev = compute.evaluate(pj.Channel(flow=fb), hy.units.SI)
+    assert ev.flow == pytest.approx(rational.rational_flow(0.5, 2e-5, 4e4))
+    assert ev.time_of_concentration == pytest.approx(rational.kirpich_time(300.0, 0.02))
+    assert any("Kirpich" in w for w in ev.warnings)                # 2 % is outside Kirpich's 3-10 %
+
+
+@pytest.mark.parametrize("channel, field, words", [
+    (pj.Channel(flow=pj.FlowBasis(method="rational")), "runoff_coefficient", "Runoff coefficient C"),
+    (pj.Channel(manning_n=None), "manning_n", "Manning's n"),
+    (pj.Channel(lining=pj.LiningChoice("no_such_lining")), "lining", "unknown lining"),
+    (pj.Channel(section={"shape": "triangle", "left_slope": 0.0, "right_slope": 0.0}), "side_slope", "V-ditch"),
+], ids=["rational-missing-C", "no-n", "unknown-lining", "flat-V"])
+def test_bad_input_is_a_message_not_an_exception(channel, field, words):
+    ev = compute.evaluate(channel, hy.units.SI)
+    assert not ev.ok and ev.error_field == field and words in ev.error
+    assert ev.verdict.status == "none"
+
+
+def test_overtopped_pipe_is_a_failed_verdict_with_the_reason():
+    ch = pj.Channel(section={"shape": "circle", "diameter": 0.6}, flow=pj.FlowBasis(value=0.2), slope=0.003,
+                    manning_n=0.013, min_freeboard=0.3)    # y = 0.33 m; 0.33 + 0.3 > D
+    ev = compute.evaluate(ch, hy.units.US)
+    assert ev.ok and ev.verdict.status == "fail" and "ft" in ev.verdict.reason
+
+
+def outfall():
+    return next(c for c in pj.loads(pj.demo_path().read_text(encoding="utf-8")).channels if c.alternatives)
+
+
+def test_comparison_rows_agree_with_single_lining_evaluations():
+    ch = outfall()
+    rows, reason = compute.compare(ch, hy.units.SI)
+    assert reason == "" and rows[0].choice.key == ch.lining.key
+    assert {r.choice.key for r in rows} == {ch.lining.key} | {a.key for a in ch.alternatives}
+    for row in rows:
+        single = compute.evaluate(compute.with_lining(ch, row.choice), hy.units.SI)
+        assert single.result.normal_depth == pytest.approx(row.evaluation.result.normal_depth, rel=1e-12)
+        assert single.verdict == row.evaluation.verdict
+
+
+def test_comparison_table_as_tab_separated_text():
+    rows, _ = compute.compare(outfall(), hy.units.SI)
+    lines = compute.comparison_tsv(rows, hy.units.SI).splitlines()
+    assert len(lines) == len(rows) + 1
+    assert all(line.count("\t") == len(compute.COMPARISON_COLUMNS) - 1 for line in lines)
+    assert lines[0].startswith("Lining\tDepth [m]\tVelocity [m/s]")
+    riprap = next(i for i, r in enumerate(rows) if r.choice.key == "riprap")
+    cells = lines[riprap + 1].split("\t")
+    assert cells[0].startswith(rows[riprap].name) and "D50 150 mm" in cells[0]
+    assert float(cells[1]) == pytest.approx(rows[riprap].core.depth, abs=5e-4)
+    us = compute.comparison_tsv(rows, hy.units.US).splitlines()[riprap + 1].split("\t")
+    assert "D50 6 in" in us[0] and float(us[1]) == pytest.approx(rows[riprap].core.depth / 0.3048, abs=2e-3)
+
+
+def test_gravel_mulch_example_fails_in_words():
+    # FHWA HEC-15 (Kilgore and Cotton, 3rd ed., 2005), gravel-mulch design example, SI (from memory):
+    # Q = 0.42 m^3/s, B = 0.4 m, Z = 3, S = 0.008, D50 = 25 mm; depth near 0.35 m, design shear near
+    # 27 N/m^2, above the permissible shear, so the lining fails.
+    ch = pj.Channel(flow=pj.FlowBasis(value=0.42), slope=0.008,
+                    section={"shape": "trapezoid", "bottom_width": 0.4, "left_slope": 3.0, "right_slope": 3.0},
+                    lining=pj.LiningChoice("gravel", d50=0.025))
+    ev = compute.evaluate(ch, hy.units.SI)
+    assert ev.result.normal_depth == pytest.approx(0.35, abs=0.03)
+    assert ev.lining.stability.bed_shear == pytest.approx(27, rel=0.1)
+    assert ev.verdict.status == "fail" and ev.verdict.headline == "Lining fails"
+    assert "permissible" in ev.verdict.reason and "Pa" in ev.verdict.reason
+    assert "lb/ft^2" in compute.evaluate(ch, hy.units.US).verdict.reason
+
+
+def test_rigid_lining_passes_as_non_erodible():
+    ev = compute.evaluate(pj.Channel(lining=pj.LiningChoice("concrete")), hy.units.SI)
+    assert ev.verdict.status == "pass" and ev.verdict.headline == "Rigid lining"
+    assert ev.lining.thickness is not None and ev.lining.thickness > 0
+
+
+def test_curves_cover_the_design_point():
+    ch = pj.Channel()
+    ev = compute.evaluate(ch, hy.units.SI)
+    rating = compute.rating(ch, ev)
+    assert rating.depths.max() >= ev.total_depth and (rating.flows[1:] > rating.flows[:-1]).all()
+    energy = compute.energy(ch, ev)
+    assert energy.depths.min() < ev.result.critical_depth < energy.depths.max()
+    assert energy.min_energy <= energy.energy.min() + 1e-12

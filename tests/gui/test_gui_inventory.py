@@ -1,0 +1,300 @@
+"""The inventory check in the window: rows and counts, bad rows, filters, sorting, import as channels, undo.
+
+The inventory is invented. Expected values come from outside the program:
+the normal depth of a trapezoid from an independent root of Manning's
+equation (Chow, V. T., Open-Channel Hydraulics, McGraw-Hill, 1959, Eq. 5-6,
+customary constant 1.486) with scipy.optimize.brentq; a reach laid at its
+critical slope (Chow 1959, Sec. 6-4: S_c from Manning's equation at the
+critical depth, y_c = (q^2/g)^(1/3) for a rectangle, Eq. 4-11 (from memory))
+is near-critical by definition; a pipe given forty times its full-flow
+capacity (Manning, A = pi D^2/4, R = D/4) has no normal depth; a
+catalogue concrete lining is non-erodible (common practice); a misspelt
+shape is an invalid row.
+"""
+
+from __future__ import annotations
+
+import csv
+import math
+
+import pytest
+from PySide6.QtCore import QItemSelectionModel, Qt
+from PySide6.QtWidgets import QApplication, QMessageBox
+from scipy.optimize import brentq
+
+from app import project as pj
+from app.gui.inventory import IMPORT_ASK_ABOVE
+from app.gui.mainwindow import MainWindow
+
+FOOT = 0.3048
+G_US = 32.174   # ft/s^2, standard gravity 9.80665 m/s^2 in feet
+HEADER = ["id", "shape", "bottom_width", "left_slope", "right_slope", "diameter", "slope", "flow", "lining", "d50",
+          "n", "road"]
+
+
+def critical_slope_rectangle(b, q, n):
+    """S_c of a rectangle b [ft] at Q [ft^3/s] with Manning's n: Manning's equation at y_c = (q^2/g)^(1/3)."""
+    yc = ((q / b) ** 2 / G_US) ** (1 / 3)
+    area, perim = b * yc, b + 2 * yc
+    v = q / area
+    return (n * v / (1.486 * (area / perim) ** (2 / 3))) ** 2
+
+
+def normal_depth_trapezoid(b, z, q, n, s):
+    def excess(y):
+        area = (b + z * y) * y
+        perim = b + 2 * y * math.sqrt(1 + z * z)
+        return 1.486 / n * area * (area / perim) ** (2 / 3) * math.sqrt(s) - q
+    return brentq(excess, 1e-6, 50.0, xtol=1e-12)
+
+
+ROWS = [
+    {"id": "T-1", "shape": "trapezoid", "bottom_width": "3", "left_slope": "3", "right_slope": "3",
+     "slope": "0.004", "flow": "20", "n": "0.035", "road": "Invented Rd 1"},
+    {"id": "T-2", "shape": "trapezoid", "bottom_width": "2", "left_slope": "2", "right_slope": "2",
+     "slope": "0.01", "flow": "15", "lining": "concrete", "road": "Invented Rd 1"},
+    {"id": "X-3", "shape": "trapazoid", "bottom_width": "2", "left_slope": "2", "right_slope": "2",
+     "slope": "0.01", "flow": "15", "n": "0.03", "road": "Invented Rd 2"},
+    {"id": "P-4", "shape": "circle", "diameter": "1", "slope": "0.002", "flow": "40", "n": "0.013",
+     "road": "Invented Rd 2"},
+    {"id": "R-5", "shape": "rectangle", "bottom_width": "2", "slope": f"{critical_slope_rectangle(2, 10, 0.015):.6f}",
+     "flow": "10", "n": "0.015", "road": "Invented Rd 3"},
+]
+
+
+def write_inventory(path, rows, header=HEADER):
+    with open(path, "w", newline="", encoding="utf-8") as fh:
+        w = csv.DictWriter(fh, header, lineterminator="\n", extrasaction="ignore")
+        w.writeheader()
+        w.writerows(rows)
+    return path
+
+
+@pytest.fixture
+def window(qtbot):
+    w = MainWindow(pj.Project(name="Invented inventory test", units="us"))
+    qtbot.addWidget(w)
+    w.show()
+    qtbot.waitExposed(w)
+    yield w
+    if w.inventory_dialog is not None:
+        w.inventory_dialog.stop(wait=True)
+    w.doc.undo_stack.setClean()
+
+
+def checked(qtbot, window, path, units="us"):
+    window.open_inventory()
+    d = window.inventory_dialog
+    d.path.setText(str(path))
+    d.units.setCurrentIndex(d.units.findData(units))
+    task = d.start_check()
+    assert task is not None
+    assert not d.check_button.isEnabled() and not d.progress.isHidden()   # running, off the window's thread
+    qtbot.waitUntil(lambda: d.task is None, timeout=60000)
+    assert d.progress.isHidden() and d.check_button.isEnabled()
+    return d
+
+
+def ids_shown(d):
+    col = d.model.order.index(d.model.columns.index("id"))
+    return [d.model.cell(r, col) for r in range(d.model.rowCount())]
+
+
+def column(d, name):
+    return d.model.order.index(d.model.columns.index(name))
+
+
+def choose(d, ids):
+    sel = d.table.selectionModel()
+    sel.clearSelection()
+    shown = ids_shown(d)
+    for ident in ids:
+        sel.select(d.model.index(shown.index(ident), 0),
+                   QItemSelectionModel.SelectionFlag.Select | QItemSelectionModel.SelectionFlag.Rows)
+
+
+@pytest.fixture
+def inventory(tmp_path):
+    return write_inventory(tmp_path / "invented-inventory.csv", ROWS)
+
+
+def test_rows_counts_line_numbers_and_bad_rows(window, qtbot, inventory, dialogs):
+    d = checked(qtbot, window, inventory)
+    assert d.model.rowCount() == 5
+    assert ids_shown(d) == ["T-1", "T-2", "X-3", "P-4", "R-5"]
+    assert [d.model.headerData(r, Qt.Orientation.Vertical) for r in range(5)] == ["2", "3", "4", "5", "6"]
+    verdict = column(d, "verdict")
+    assert [d.model.cell(r, verdict) for r in range(5)] == [
+        "hydraulics-only", "non-erodible", "invalid", "no-solution", "hydraulics-only"]
+    boxes = {v: b.text() for v, b in d.verdict_boxes.items()}
+    assert boxes["hydraulics-only"].endswith(": 2") and boxes["invalid"].endswith(": 1")
+    assert boxes["no-solution"].endswith(": 1") and boxes["non-erodible"].endswith(": 1")
+    assert boxes["stable"].endswith(": 0") and not d.verdict_boxes["stable"].isEnabled()
+    # the bad rows, with their line numbers and reasons
+    assert d.views.tabText(1) == "Bad rows (2)"
+    bad = [[d.problems_model.cell(r, c) for c in range(4)] for r in range(d.problems_model.rowCount())]
+    assert [b[:3] for b in bad] == [["4", "X-3", "invalid"], ["5", "P-4", "no-solution"]]
+    assert "shape" in bad[0][3] and "trapazoid" in bad[0][3]
+    assert "surcharge" in bad[1][3]
+    # units in the headings; the summary tab
+    assert d.model.headerData(column(d, "normal_depth"), Qt.Orientation.Horizontal) == "normal_depth\n(ft)"
+    assert "5 reaches" in d.summary.toPlainText()
+    assert dialogs.shown == []
+
+
+def test_normal_depth_shown_solves_mannings_equation(window, qtbot, inventory):
+    d = checked(qtbot, window, inventory)
+    shown = float(d.model.cell(0, column(d, "normal_depth")))
+    assert shown == pytest.approx(normal_depth_trapezoid(3, 3, 20, 0.035, 0.004), rel=2e-4)  # 1.486 vs 1.4859
+
+
+def test_filters_by_verdict_warning_and_text(window, qtbot, inventory):
+    d = checked(qtbot, window, inventory)
+    for v, box in d.verdict_boxes.items():
+        box.setChecked(v in ("invalid", "no-solution"))
+    assert ids_shown(d) == ["X-3", "P-4"]
+    assert d.count.text() == "Showing 2 of 5 reaches"
+    for box in d.verdict_boxes.values():
+        box.setChecked(True)
+    d.warning.setCurrentIndex(d.warning.findData("near_critical"))
+    assert ids_shown(d) == ["R-5"]                      # laid at its critical slope
+    d.warning.setCurrentIndex(0)
+    d.text.setText("p-")
+    assert ids_shown(d) == ["P-4"]                      # case-insensitive, in the id
+    d.text.setText("SURCHARGE")
+    assert ids_shown(d) == ["P-4"]                      # and in the reason
+    d.text.clear()
+    assert len(ids_shown(d)) == 5
+
+
+def test_sorting_numbers_as_numbers_blanks_last(window, qtbot, inventory):
+    d = checked(qtbot, window, inventory)
+    c = column(d, "normal_depth")
+    d.table.sortByColumn(c, Qt.SortOrder.DescendingOrder)
+    values = [d.model.cell(r, c) for r in range(5)]
+    numbers = [float(v) for v in values if v]
+    assert numbers == sorted(numbers, reverse=True) and len(numbers) == 3
+    assert values[3:] == ["", ""]                       # the invalid and unsolved rows last
+    d.table.sortByColumn(c, Qt.SortOrder.AscendingOrder)
+    values = [d.model.cell(r, c) for r in range(5)]
+    assert [float(v) for v in values[:3]] == sorted(numbers) and values[3:] == ["", ""]
+    d.table.sortByColumn(column(d, "id"), Qt.SortOrder.DescendingOrder)
+    assert ids_shown(d) == ["X-3", "T-2", "T-1", "R-5", "P-4"]
+    d.verdict_boxes["invalid"].setChecked(False)        # a filter keeps the sort
+    assert ids_shown(d) == ["T-2", "T-1", "R-5", "P-4"]
+
+
+def test_import_chosen_reaches_as_channels_in_one_undoable_step(window, qtbot, inventory):
+    d = checked(qtbot, window, inventory)
+    doc = window.doc
+    before = [c.name for c in doc.project.channels]
+    choose(d, ["T-1", "X-3", "R-5"])
+    assert d.import_button.isEnabled() and "3 chosen reaches" in d.import_button.text()
+    names = d.import_chosen()
+    assert names == ["T-1", "R-5"]                      # the invalid row is not imported ...
+    assert "line 4 (X-3)" in d.status.text()            # ... and the user is told why
+    assert [c.name for c in doc.project.channels] == before + ["T-1", "R-5"]
+    assert window.channel_list.count() == 3 and doc.channel().name == "T-1"
+    t1 = doc.project.channel("T-1")
+    assert t1.section == {"shape": "trapezoid", "bottom_width": pytest.approx(3 * FOOT), "left_slope": 3.0,
+                          "right_slope": 3.0}
+    assert t1.flow.value == pytest.approx(20 * FOOT ** 3) and t1.slope == 0.004 and t1.manning_n == 0.035
+    assert "Invented Rd 1" in t1.notes                  # the extra column travels in the notes
+    assert t1.location == "invented-inventory.csv, line 2"
+    assert doc.project.channel("R-5").location == "invented-inventory.csv, line 6"
+    assert doc.undo_stack.count() == 1 and doc.undo_stack.undoText() == "Import 2 reaches from invented-inventory.csv"
+    doc.undo_stack.undo()
+    assert [c.name for c in doc.project.channels] == before and window.channel_list.count() == 1
+    doc.undo_stack.redo()
+    assert [c.name for c in doc.project.channels] == before + ["T-1", "R-5"]
+    # importing again does not duplicate names
+    choose(d, ["T-1"])
+    assert d.import_chosen() == ["T-1 (2)"]
+
+
+def test_many_reaches_ask_first(window, qtbot, tmp_path, dialogs):
+    rows = [dict(ROWS[0], id=f"T-{i}") for i in range(IMPORT_ASK_ABOVE + 1)]
+    d = checked(qtbot, window, write_inventory(tmp_path / "long.csv", rows))
+    d.choose_all.click()
+    dialogs.answers["question"] = [QMessageBox.StandardButton.No]
+    assert d.import_chosen() == []
+    assert dialogs.kinds() == ["question"] and len(window.doc.project.channels) == 1
+    dialogs.answers["question"] = [QMessageBox.StandardButton.Yes]
+    assert len(d.import_chosen()) == IMPORT_ASK_ABOVE + 1
+    assert window.doc.undo_stack.count() == 1
+
+
+def test_a_file_that_is_not_an_inventory_is_told_in_the_dialog(window, qtbot, tmp_path, dialogs):
+    path = write_inventory(tmp_path / "no-n.csv", ROWS[:1], header=[h for h in HEADER if h != "n"])
+    d = checked(qtbot, window, path)
+    assert d.status.objectName() == "fieldMessage"
+    assert "missing column n" in d.status.text()
+    assert d.run is None and not d.filters.isEnabled() and not d.save_button.isEnabled()
+    assert dialogs.shown == []                          # no message box: the words are in the dialog
+    d = checked(qtbot, window, tmp_path / "absent.csv")
+    assert "absent.csv" in d.status.text() and d.status.objectName() == "fieldMessage"
+    good = checked(qtbot, window, write_inventory(tmp_path / "good.csv", ROWS))
+    assert good.model.rowCount() == 5
+    d = checked(qtbot, window, path)                    # a bad file after a good one: the good results stay
+    assert d.model.rowCount() == 5 and "still shows" in d.status.text() and "good.csv" in d.status.text()
+
+
+def test_si_units_read_as_si(window, qtbot, tmp_path):
+    row = dict(ROWS[0], bottom_width="1", slope="0.004", flow="0.5", n="0.035")
+    d = checked(qtbot, window, write_inventory(tmp_path / "si.csv", [row]), units="si")
+    assert d.model.headerData(column(d, "normal_depth"), Qt.Orientation.Horizontal) == "normal_depth\n(m)"
+    choose(d, ["T-1"])
+    (name,) = d.import_chosen()
+    assert window.doc.project.channel(name).section["bottom_width"] == pytest.approx(1.0)
+
+
+def test_saved_results_have_one_row_per_input_row(window, qtbot, inventory, tmp_path, dialogs):
+    d = checked(qtbot, window, inventory)
+    dialogs.save_name = str(tmp_path / "results.csv")
+    d.save_results()
+    with open(tmp_path / "results.csv", newline="") as fh:
+        out = list(csv.DictReader(fh))
+    assert [r["id"] for r in out] == [r["id"] for r in ROWS]
+    assert out[2]["verdict"] == "invalid" and out[2]["normal_depth"] == ""
+
+
+def test_copy_chosen_rows_as_tab_separated_text(window, qtbot, inventory):
+    d = checked(qtbot, window, inventory)
+    choose(d, ["T-2", "P-4"])
+    d.copy_rows()
+    lines = QApplication.clipboard().text().splitlines()
+    assert lines[0].split("\t")[:3] == ["line", "id", "verdict"]
+    assert [line.split("\t")[:3] for line in lines[1:]] == [["3", "T-2", "non-erodible"],
+                                                            ["5", "P-4", "no-solution"]]
+
+
+def test_double_click_on_a_bad_row_shows_it_among_the_reaches(window, qtbot, inventory):
+    d = checked(qtbot, window, inventory)
+    d.verdict_boxes["invalid"].setChecked(False)
+    d._show_problem(d.problems_model.index(0, 0))
+    assert d.views.currentIndex() == 0 and d.chosen_rows() == [2]
+    assert d.detail.text().startswith("Line 4, X-3: invalid.")
+
+
+def test_a_long_inventory_shows_progress_and_the_window_keeps_running(window, qtbot, tmp_path):
+    from hydraulics.batch import CHUNK
+    from PySide6.QtCore import QTimer
+
+    size = CHUNK + CHUNK // 5
+    line = ",".join(ROWS[0].get(h, "") for h in HEADER[1:])
+    path = tmp_path / "long.csv"
+    path.write_text(",".join(HEADER) + "\n" + "".join(f"L-{i},{line}\n" for i in range(size)), encoding="utf-8")
+    window.open_inventory()
+    d = window.inventory_dialog
+    d.path.setText(str(path))
+    seen, ticks = [], []
+    timer = QTimer()
+    timer.timeout.connect(lambda: ticks.append(1))
+    timer.start(20)
+    task = d.start_check()
+    task.progressed.connect(lambda done, total: seen.append((done, total)))
+    qtbot.waitUntil(lambda: d.task is None, timeout=120000)
+    timer.stop()
+    assert seen[0] == (CHUNK, size) and seen[-1] == (size, size)     # one report per chunk of reaches
+    assert len(ticks) >= 5                                            # the window's event loop kept turning
+    assert d.model.rowCount() == size and d.verdict_boxes["hydraulics-only"].text().endswith(f": {size:,}")

@@ -1,0 +1,451 @@
+"""The main window on the offscreen platform: live results, refusals, undo, units, files, autosave.
+
+Expected numbers come from the core's own solvers, which are checked against
+published cases in tests/test_published_cases.py; here the point is that the
+window shows what the core computes, in the right units, at the right time.
+"""
+
+import json
+
+import numpy as np
+import pytest
+from PySide6.QtCore import Qt
+from PySide6.QtWidgets import QMessageBox
+
+import hydraulics as hy
+from app import project as pj
+from app.gui import settings
+from app.gui.mainwindow import MainWindow
+
+
+def field(w, key):
+    return w.inputs.fields[key]
+
+
+def type_into(qtbot, f, text):
+    f.edit.setFocus()
+    f.edit.selectAll()
+    qtbot.keyClicks(f.edit, text)
+
+
+def shown(w, key):
+    return w.results.values[key].text()
+
+
+def test_window_builds_with_named_parts(demo_window):
+    w = demo_window
+    assert "[*]" in w.windowTitle() and "invented" in w.windowTitle()
+    assert w.channel_list.count() == len(w.doc.project.channels) >= 3
+    assert [w.tabs.tabText(i) for i in range(w.tabs.count())] == [
+        "Cross-section", "Rating curve", "Specific energy", "Lining comparison"]
+    assert w.results.caution.isVisible()
+    assert "licensed engineer" in w.results.caution.text() and "local drainage code" in w.results.caution.text()
+    assert w.save_action.shortcut().toString() and w.undo_action.shortcut().toString()
+    assert w.results.values["normal_depth"].text().endswith(" m")
+
+
+def test_typing_updates_results_and_plot(demo_window, qtbot):
+    w = demo_window
+    ch = w.doc.channel()
+    before_depth = shown(w, "normal_depth")
+    before_water = w.section_picture.water.get_xy().copy()
+    type_into(qtbot, field(w, "trapezoid:section.bottom_width"), "1.5")
+    assert w.doc.channel().section["bottom_width"] == 1.5
+    sec = hy.Trapezoid(bottom_width=1.5, left_slope=ch.section["left_slope"], right_slope=ch.section["right_slope"])
+    y = hy.normal_depth(sec, ch.flow.value, ch.slope, ch.manning_n)
+    assert shown(w, "normal_depth") == f"{y:.3f} m" != before_depth
+    assert w.results.numbers.isEnabled()
+    water = w.section_picture.water.get_xy()
+    assert water.shape != before_water.shape or not np.allclose(water, before_water)
+    assert water[:, 1].max() == pytest.approx(y)          # water polygon tops out at normal depth (SI shown)
+    assert w.section_picture.surface.get_ydata()[0] == pytest.approx(y)
+
+
+def test_invalid_field_shows_message_and_keeps_last_good(demo_window, qtbot):
+    w = demo_window
+    f = field(w, "trapezoid:section.bottom_width")
+    good_depth = shown(w, "normal_depth")
+    stored = w.doc.channel().section["bottom_width"]
+    type_into(qtbot, f, "-2")
+    assert f.error and "≥ 0 m" in f.error and f.message.isVisible()
+    assert f.edit.property("invalid") is True        # what the style sheet reads
+    assert w.doc.channel().section["bottom_width"] == stored      # nothing reached the project
+    assert shown(w, "normal_depth") == good_depth                 # last good result kept ...
+    assert not w.results.numbers.isEnabled()                      # ... and greyed
+    assert w.results.stale.isVisible()
+    assert w.section_picture.water.get_alpha() == pytest.approx(0.3)
+    assert w.section_picture.stale_note.get_visible()
+    type_into(qtbot, f, "abc")
+    assert "not a number" in f.error
+    type_into(qtbot, f, "0.8")
+    assert not f.error and w.results.numbers.isEnabled() and w.doc.channel().section["bottom_width"] == 0.8
+    assert w.section_picture.water.get_alpha() == pytest.approx(1.0)
+
+
+def test_combination_refused_by_the_core_marks_the_field(demo_window, qtbot):
+    w = demo_window
+    w.inputs.shape.setCurrentIndex(w.inputs.shape.findData("triangle"))
+    w.inputs._shape_chosen(w.inputs.shape.currentIndex())
+    assert w.doc.channel().section["shape"] == "triangle"
+    type_into(qtbot, field(w, "triangle:section.left_slope"), "0")
+    type_into(qtbot, field(w, "triangle:section.right_slope"), "0")
+    f = field(w, "triangle:section.left_slope")
+    assert "V-ditch" in f.error or "at least one side" in f.error
+    assert w.doc.channel().section["right_slope"] > 0
+
+
+def test_no_solution_keeps_last_good_without_a_dialog(demo_window, qtbot, dialogs):
+    w = demo_window
+    w.doc.set_current(3)                                          # the pipe
+    assert w.doc.channel().section["shape"] == "circle"
+    good = shown(w, "normal_depth")
+    type_into(qtbot, field(w, "flow.value"), "50")
+    assert "No solution" in w.results.reason.text() and "surcharge" in w.results.reason.text()
+    assert shown(w, "normal_depth") == good and not w.results.numbers.isEnabled()
+    assert dialogs.shown == []
+
+
+def test_typing_in_one_field_is_one_undoable_edit(demo_window, qtbot):
+    w = demo_window
+    original = pj.Channel(**{**w.doc.channel().__dict__})
+    f = field(w, "slope")
+    type_into(qtbot, f, "0.02")
+    assert w.doc.undo_stack.count() == 1                         # 0, 0., 0.0, 0.02 merged
+    assert w.doc.channel().slope == 0.02 and w.isWindowModified()
+    w.undo_action.trigger()
+    assert w.doc.channel() == original and f.edit.text() == "0.012" and not w.isWindowModified()
+    w.redo_action.trigger()
+    assert w.doc.channel().slope == 0.02 and f.edit.text() == "0.02"
+
+
+def test_channel_list_edits_are_undoable(demo_window):
+    w = demo_window
+    doc = w.doc
+    names = [c.name for c in doc.project.channels]
+    w.add_action.trigger()
+    w.duplicate_action.trigger()
+    assert len(doc.project.channels) == len(names) + 2
+    assert doc.rename_channel(names[0]) is not None               # a used name is refused
+    assert doc.rename_channel("Kerb drain") is None
+    w.delete_action.trigger()
+    assert "Kerb drain" not in [c.name for c in doc.project.channels]
+    assert w.channel_list.count() == len(doc.project.channels)
+    while doc.undo_stack.canUndo():
+        doc.undo_stack.undo()
+    assert [c.name for c in doc.project.channels] == names
+    assert [w.channel_list.item(i).text() for i in range(w.channel_list.count())] == names
+
+
+def test_shape_change_is_one_undoable_edit(demo_window):
+    w = demo_window
+    old = w.doc.channel().section
+    w.inputs._shape_chosen(w.inputs.shape.findData("circle"))
+    assert w.doc.channel().section["shape"] == "circle"
+    assert w.inputs.shape_pages.currentIndex() == w.inputs.shape.findData("circle")
+    w.undo_action.trigger()
+    assert w.doc.channel().section == old
+
+
+def test_unit_switch_round_trips_fields_and_results(demo_window):
+    w = demo_window
+    w.doc.set_current(2)                                          # rational method channel: more fields
+    keys = [k for k, f in w.inputs.fields.items() if not f.edit.isHidden()]
+    before = {k: w.inputs.fields[k].edit.text() for k in keys}
+    results_before = {k: v.text() for k, v in w.results.values.items()}
+    project_before = pj.dumps(w.doc.project)
+    w.us_action.trigger()
+    b = w.doc.channel().section["bottom_width"]
+    assert field(w, "trapezoid:section.bottom_width").edit.text() == f"{b / 0.3048:.5g}"
+    assert field(w, "trapezoid:section.bottom_width").suffix.text() == "ft"
+    assert field(w, "flow.area").suffix.text() == "ac"
+    assert shown(w, "flow").endswith("ft³/s")
+    assert w.doc.project.units == "us"
+    w.si_action.trigger()
+    assert {k: w.inputs.fields[k].edit.text() for k in keys} == before
+    assert {k: v.text() for k, v in w.results.values.items()} == results_before
+    w.undo_action.trigger()
+    w.undo_action.trigger()
+    assert pj.dumps(w.doc.project) == project_before
+
+
+def test_values_typed_in_us_units_reach_the_core_in_si(demo_window, qtbot):
+    w = demo_window
+    w.us_action.trigger()
+    type_into(qtbot, field(w, "trapezoid:section.bottom_width"), "3")
+    assert w.doc.channel().section["bottom_width"] == pytest.approx(3 * 0.3048, rel=1e-15)
+    type_into(qtbot, field(w, "slope"), "1.5%")
+    assert w.doc.channel().slope == pytest.approx(0.015)
+
+
+def test_rational_method_flow_is_shown(demo_window, qtbot):
+    w = demo_window
+    w.doc.set_current(2)
+    fb = w.doc.channel().flow
+    assert fb.method == "rational"
+    q = hy.rational.rational_flow(fb.runoff_coefficient, fb.intensity, fb.area)
+    assert w.inputs.q_value.text() == f"{round(q, 4):g} m³/s"
+    assert "Kirpich" in w.inputs.tc_value.text()
+    type_into(qtbot, field(w, "flow.runoff_coefficient"), "1.2")
+    assert "≤ 1" in field(w, "flow.runoff_coefficient").error
+
+
+def test_surveyed_section_table_edits(demo_window, qtbot):
+    w = demo_window
+    w.doc.set_current(4)
+    table = w.inputs.survey.table
+    assert table.rowCount() == len(w.doc.channel().section["stations"])
+    table.item(3, 1).setText("0.05")                              # raise the lowest point
+    assert w.doc.channel().section["elevations"][3] == pytest.approx(0.05)
+    table.item(2, 0).setText("x")
+    assert "not a number" in w.inputs.survey.message.text()
+    assert w.doc.channel().section["stations"][2] == 2.6
+    w.undo_action.trigger()
+    assert w.doc.channel().section["elevations"][3] == 0.0
+
+
+def test_save_then_reopen_gives_the_same_project(demo_window, tmp_path, dialogs):
+    w = demo_window
+    w.doc.edit("slope", 0.0123, "Change bed slope")
+    dialogs.save_name = str(tmp_path / "site")
+    assert w.save_action.trigger() is None and w.doc.path == tmp_path / "site.json"
+    assert not w.isWindowModified()
+    saved = pj.load(tmp_path / "site.json")
+    assert saved == w.doc.project
+    assert settings.RECENT_FILES.read()[0] == str((tmp_path / "site.json").resolve())
+    w.new_action.trigger()
+    assert w.doc.project != saved
+    dialogs.open_name = str(tmp_path / "site.json")
+    w.open_action.trigger()
+    assert w.doc.project == saved and w.doc.path == tmp_path / "site.json"
+
+
+@pytest.mark.parametrize("damage, reason", [
+    (lambda t: t[: len(t) // 3], "damaged or incomplete"),
+    (lambda t: "{not json", "damaged or incomplete"),
+    (lambda t: t.replace('"schema_version": 1', '"schema_version": 99'), "newer Ditchwright"),
+    (lambda t: json.dumps({"format": "something else"}), "not a Ditchwright project"),
+], ids=["truncated", "corrupt", "future-version", "foreign"])
+def test_bad_file_gives_a_clear_message_and_changes_nothing(demo_window, tmp_path, dialogs, damage, reason):
+    w = demo_window
+    path = tmp_path / "bad.json"
+    text = damage(pj.dumps(w.doc.project))
+    path.write_text(text, encoding="utf-8")
+    project_before, path_before = w.doc.project, w.doc.path
+    assert w.open_file(path, ask=False) is False
+    kind, title, message = dialogs.shown[-1]
+    assert kind == "warning" and reason in message and "Nothing was changed" in message
+    assert w.doc.project is project_before and w.doc.path == path_before
+    assert path.read_text(encoding="utf-8") == text
+    assert [p.name for p in tmp_path.iterdir() if p.name.endswith(".json")] == ["bad.json"]
+
+
+def test_unsaved_changes_are_guarded(demo_window, dialogs):
+    w = demo_window
+    w.doc.edit("slope", 0.02, "Change bed slope")
+    dialogs.answers["warning"] = [QMessageBox.StandardButton.Cancel]
+    w.new_action.trigger()
+    assert w.doc.channel().slope == 0.02                          # cancelled: nothing dropped
+    dialogs.answers["warning"] = [QMessageBox.StandardButton.Discard]
+    w.new_action.trigger()
+    assert w.doc.project == pj.Project() and not w.isWindowModified()
+    assert dialogs.kinds() == ["warning", "warning"]
+
+
+def test_failed_save_says_so_and_stays_modified(demo_window, tmp_path, dialogs, monkeypatch):
+    w = demo_window
+    w.doc.edit("slope", 0.02, "Change bed slope")
+    import app.files
+
+    def disk_full(*args):
+        raise OSError("disk full")
+    monkeypatch.setattr(app.files.os, "replace", disk_full)
+    assert w._write(tmp_path / "x.json") is False
+    assert dialogs.kinds() == ["critical"] and "disk full" in dialogs.shown[0][2]
+    assert w.isWindowModified() and not (tmp_path / "x.json").exists()
+
+
+def test_autosave_and_recovery_after_a_crash(qtbot, tmp_path):
+    from app.gui import autosave
+    first = MainWindow(pj.Project(name="Before the crash"))
+    qtbot.addWidget(first)
+    first.doc.edit("slope", 0.0321, "Change bed slope")
+    assert first.autosaver.save_now()
+    assert first.autosaver.project_file.parent == settings.data_folder() / "autosave"
+    assert autosave.find_recoverable() == []                      # its window still holds the lock
+    first.autosaver.lock.unlock()                                  # as if the program had died
+    second = MainWindow()
+    qtbot.addWidget(second)
+    second.ask_recovery = lambda r: "recover"
+    assert second.offer_recovery()
+    assert second.doc.project.name == "Before the crash" and second.doc.channel().slope == 0.0321
+    assert second.isWindowModified() and second.doc.path is None
+    assert not first.autosaver.project_file.exists()
+    first.doc.undo_stack.setClean()
+    second.doc.recovered = False
+
+
+def test_clean_close_leaves_no_autosave(qtbot):
+    w = MainWindow()
+    qtbot.addWidget(w)
+    w.doc.edit("slope", 0.02, "Change bed slope")
+    w.autosaver.save_now()
+    files = list((settings.data_folder() / "autosave").glob("*.json"))
+    assert files
+    w.doc.undo_stack.setClean()
+    w.close()
+    assert list((settings.data_folder() / "autosave").glob("*.json")) == []
+
+
+def test_window_settings_are_remembered(qtbot, monkeypatch):
+    w = MainWindow()
+    qtbot.addWidget(w)
+    w.close()
+    stored = settings.WINDOW_GEOMETRY.read()
+    assert not stored.isEmpty() and stored == w.saveGeometry()
+    assert settings.SPLITTER_STATE.read() == w.splitter.saveState()
+    restored = []
+    monkeypatch.setattr(MainWindow, "restoreGeometry", lambda self, g: restored.append(g) or True)
+    again = MainWindow()
+    qtbot.addWidget(again)
+    assert restored == [stored]
+
+
+def test_settings_keys_are_declared_once():
+    keys = [s.key for s in settings.ALL]
+    assert len(keys) == len(set(keys))
+    import pathlib
+    import re
+    gui = pathlib.Path(settings.__file__).parent
+    for path in gui.glob("*.py"):
+        if path.name != "settings.py":
+            assert not re.search(r"QSettings\(\)\.(value|setValue)", path.read_text()), path
+
+
+def test_rating_and_energy_views_draw_the_current_channel(demo_window):
+    w = demo_window
+    w.tabs.setCurrentIndex(1)
+    ev = w.evaluation
+    x, y = w.rating_picture.normal.get_data()
+    q_at = np.interp(ev.result.normal_depth, y, x)
+    assert q_at == pytest.approx(ev.flow, rel=2e-3)               # the curve passes through the design point
+    w.tabs.setCurrentIndex(2)
+    e, yy = w.energy_picture.curve.get_data()
+    assert yy[int(np.argmin(e))] == pytest.approx(ev.result.critical_depth, rel=0.02)
+
+
+def test_caution_and_warnings_in_words(demo_window):
+    w = demo_window
+    w.doc.set_current(3)                                           # the pipe runs near critical
+    assert "near critical" in w.results.warnings.text()
+
+
+def outfall_index(w):
+    return next(i for i, c in enumerate(w.doc.project.channels) if c.alternatives)
+
+
+def test_comparison_view_applies_a_lining_in_one_undoable_step(demo_window, qtbot):
+    w = demo_window
+    w.doc.set_current(outfall_index(w))
+    w.tabs.setCurrentIndex(3)
+    view = w.comparison
+    before = w.doc.channel()
+    keys = [r.choice.key for r in view.rows]
+    assert keys[0] == before.lining.key and "gravel" in keys
+    assert view.table.columnCount() == len(view.rows)
+    assert view.table.cellWidget(0, 0) is view.pictures[0].canvas          # a small section per lining
+    gravel = keys.index("gravel")
+    verdict_row = [view.table.verticalHeaderItem(i).text() for i in range(view.table.rowCount())].index("Verdict")
+    assert view.table.item(verdict_row, gravel).text() == view.rows[gravel].evaluation.verdict.headline
+    view.select_lining(gravel)
+    assert view.apply_button.isEnabled()
+    count = w.doc.undo_stack.count()
+    qtbot.mouseClick(view.apply_button, Qt.MouseButton.LeftButton)
+    assert w.doc.channel().lining.key == "gravel" and w.doc.undo_stack.count() == count + 1
+    assert {r.choice.key for r in view.rows} == set(keys)                  # the old lining stays compared
+    assert w.results.headline.text() == "Lining fails"                     # the verdict follows at once
+    w.undo_action.trigger()
+    assert w.doc.channel() == before
+
+
+def test_comparison_table_is_copied_as_tab_separated_text(demo_window, qtbot):
+    from PySide6.QtGui import QGuiApplication
+
+    from app.gui import compute
+    w = demo_window
+    w.doc.set_current(outfall_index(w))
+    w.tabs.setCurrentIndex(3)
+    qtbot.mouseClick(w.comparison.copy_button, Qt.MouseButton.LeftButton)
+    text = QGuiApplication.clipboard().text()
+    assert text == compute.comparison_tsv(w.comparison.rows, w.doc.units)
+    assert text.splitlines()[0].split("\t")[:3] == ["Lining", "Depth [m]", "Velocity [m/s]"]
+
+
+def test_ticking_a_lining_to_compare_is_undoable(demo_window):
+    w = demo_window
+    w.doc.set_current(outfall_index(w))
+    w.tabs.setCurrentIndex(3)
+    view = w.comparison
+    before = list(w.doc.channel().alternatives)
+    assert not view.checks[w.doc.channel().lining.key].isEnabled()          # its own lining is always in
+    view.checks["asphalt"].setChecked(True)
+    assert [a.key for a in w.doc.channel().alternatives][-1] == "asphalt"
+    assert "asphalt" in [r.choice.key for r in view.rows]
+    w.undo_action.trigger()
+    assert w.doc.channel().alternatives == before and not view.checks["asphalt"].isChecked()
+
+
+def test_choosing_a_lining_checks_its_stability(demo_window, qtbot):
+    w = demo_window
+    w.doc.set_current(0)
+    form = w.inputs.lining
+    form.combo.setCurrentIndex(form.combo.findData("riprap"))
+    form._chosen(form.combo.currentIndex())
+    assert w.doc.channel().lining.key == "riprap"
+    assert not form.d50.edit.isHidden() and form.d50.suffix.text() == "mm"
+    assert form.n.edit.isHidden() and form.n_value.text() != "—"
+    assert w.results.values["permissible_shear"].text().endswith("Pa")
+    assert w.results.headline.text() in ("Lining holds", "Lining fails")
+    type_into(qtbot, form.d50, "300")
+    assert w.doc.channel().lining.d50 == pytest.approx(0.3)
+    assert not w.results.values["required_d50"].isHidden()
+    type_into(qtbot, form.d50, "0")
+    assert "> 0 mm" in form.d50.error
+    form._chosen(form.combo.findData(""))
+    assert w.doc.channel().lining is None and not form.n.edit.isHidden()
+    assert w.results.headline.text() == "Hydraulics only"
+
+
+def test_a_lining_the_catalogue_does_not_know_is_named(qtbot):
+    project = pj.Project(channels=[pj.Channel(lining=pj.LiningChoice("marble_tiles"))])
+    w = MainWindow(project)
+    qtbot.addWidget(w)
+    assert "unknown lining 'marble_tiles'" in w.results.reason.text()
+    assert "marble_tiles" in w.inputs.lining.combo.currentText()
+    assert "unknown lining" in w.inputs.lining.message.text()
+
+
+def test_ctrl_z_in_a_field_undoes_the_project_edit(demo_window, qtbot):
+    w = demo_window
+    w.activateWindow()
+    f = field(w, "slope")
+    type_into(qtbot, f, "0.03")
+    assert w.doc.channel().slope == 0.03
+    qtbot.keyClick(f.edit, Qt.Key.Key_Z, Qt.KeyboardModifier.ControlModifier)
+    assert w.doc.channel().slope == 0.012 and f.edit.text() == "0.012"
+
+
+def test_user_catalogue_in_the_data_folder_sets_unit_costs(qtbot):
+    from app.gui import compute
+    path = settings.user_catalogue_path()
+    path.parent.mkdir(parents=True, exist_ok=True)
+    path.write_text('schema_version = 1\n[[lining]]\nkey = "concrete"\nunit_cost = 95.0\n', encoding="utf-8")
+    try:
+        w = MainWindow(pj.loads(pj.demo_path().read_text(encoding="utf-8")))
+        qtbot.addWidget(w)
+        w.doc.set_current(next(i for i, c in enumerate(w.doc.project.channels) if c.alternatives))
+        rows, _ = compute.compare(w.doc.channel(), w.doc.units)
+        concrete = next(r for r in rows if r.choice.key == "concrete")
+        assert concrete.cost_per_length is not None and concrete.cost_per_length > 0
+        w.doc.undo_stack.setClean()
+    finally:
+        compute.use_user_catalogue(None)
