@@ -456,8 +456,8 @@ def _each_2f(values, template: str) -> np.ndarray:
     return out
 
 
-def _note(out, rows, texts):
-    """Append ``texts`` (one str, or one per row) to the reasons of ``rows``."""
+def _note(out, rows, texts, first=False):
+    """Add ``texts`` (one str, or one per row) to the reasons of ``rows``: after what is there, or ``first``."""
     rows = np.asarray(rows, dtype=np.intp)
     if not len(rows):
         return
@@ -465,7 +465,7 @@ def _note(out, rows, texts):
     new[:] = texts
     current = out.reason[rows]
     noted = current != ""
-    new[noted] = current[noted] + "; " + new[noted]
+    new[noted] = new[noted] + "; " + current[noted] if first else current[noted] + "; " + new[noted]
     out.reason[rows] = new
 
 
@@ -610,7 +610,7 @@ def assess_stability(lining, reaches: Reaches, rows, out: BatchResult, display: 
     texts[cannot] = [f"unstable, {w}: stone cannot rest on a side as steep as or steeper than its angle of repose; "
                      f"hydraulics {how}" for w in where[cannot]]
     out.verdict[rows] = np.where(stable, "stable", "unstable")
-    _prefix_each(out, rows, texts)
+    _note(out, rows, texts, first=True)
 
 
 def _digits3(values):
@@ -634,17 +634,6 @@ def _shear_checks(lining, reaches, rows, out):
                         right_slope=np.where(sided, np.nan_to_num(reaches.right_slope[rows]), np.nan))
 
 
-def _prefix_each(out, rows, texts):
-    """Put each of ``texts`` before any warnings already in the reason of its row."""
-    rows = np.asarray(rows, dtype=np.intp)
-    new = np.empty(len(rows), dtype=object)
-    new[:] = texts
-    current = out.reason[rows]
-    noted = current != ""
-    new[noted] = new[noted] + "; " + current[noted]
-    out.reason[rows] = new
-
-
 def _set(out, rows, verdict, text):
     rows = np.asarray(rows, dtype=np.intp)
     out.verdict[rows] = verdict
@@ -655,11 +644,7 @@ def _prefix(out, rows, verdict, text):
     """Set the verdict of ``rows`` and put ``text`` before any warnings already in their reasons."""
     rows = np.asarray(rows, dtype=np.intp)
     out.verdict[rows] = verdict
-    current = out.reason[rows]
-    noted = current != ""
-    new = text_array(len(rows), text)
-    new[noted] = (text + "; ") + current[noted]
-    out.reason[rows] = new
+    _note(out, rows, text, first=True)
 
 
 # ----------------------------------------------------------------------------- driver
