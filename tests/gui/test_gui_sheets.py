@@ -15,6 +15,7 @@ import math
 import re
 
 import pytest
+from certs import make_test_certificate
 from PySide6.QtCore import QSettings, Qt
 from PySide6.QtGui import QColor, QImage
 from PySide6.QtWidgets import QApplication, QDialog, QLineEdit, QMessageBox, QPushButton
@@ -210,26 +211,7 @@ def test_export_dialog_refuses_incomplete_choices_in_place(window, qtbot, tmp_pa
 @pytest.fixture(scope="module")
 def certificate(tmp_path_factory):
     """A self-signed EC P-256 certificate made for the test, as PKCS#12 (password 'pw-test') and PEM."""
-    from cryptography import x509
-    from cryptography.hazmat.primitives import hashes, serialization
-    from cryptography.hazmat.primitives.asymmetric import ec
-    from cryptography.hazmat.primitives.serialization import pkcs12
-    from cryptography.x509.oid import NameOID
-
-    folder = tmp_path_factory.mktemp("cert")
-    key = ec.generate_private_key(ec.SECP256R1())
-    name = x509.Name([x509.NameAttribute(NameOID.COMMON_NAME, "Window Test Engineer (invented)")])
-    now = datetime.datetime.now(datetime.timezone.utc)
-    cert = (x509.CertificateBuilder().subject_name(name).issuer_name(name).public_key(key.public_key())
-            .serial_number(x509.random_serial_number()).not_valid_before(now - datetime.timedelta(days=1))
-            .not_valid_after(now + datetime.timedelta(days=30))
-            .add_extension(x509.KeyUsage(digital_signature=True, content_commitment=True, key_encipherment=False,
-                                         data_encipherment=False, key_agreement=False, key_cert_sign=False,
-                                         crl_sign=False, encipher_only=False, decipher_only=False), critical=True)
-            .sign(key, hashes.SHA256()))
-    p12 = folder / "engineer.p12"
-    p12.write_bytes(pkcs12.serialize_key_and_certificates(b"engineer", key, cert, None,
-                                                          serialization.BestAvailableEncryption(b"pw-test")))
+    p12, pem, cert = make_test_certificate(tmp_path_factory.mktemp("cert"), "Window Test Engineer (invented)")
     return p12, cert
 
 
