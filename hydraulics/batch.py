@@ -35,7 +35,6 @@ reasons quote values in.
 from __future__ import annotations
 
 import difflib
-import math
 import warnings
 from collections import Counter
 from dataclasses import dataclass, field
@@ -44,10 +43,9 @@ from itertools import repeat
 import numpy as np
 
 from . import units as hu
-from . import validate
 from .analysis import MIN_TURBULENT_REYNOLDS, NEAR_CRITICAL_BAND, analyse
 from .errors import HydraulicsError, InputError
-from .linings import hec15, load_catalogue
+from .linings import load_catalogue
 from .linings.hec15 import ValidityWarning
 from .sections import Circle, Trapezoid
 from .stability import shear_checks
@@ -301,7 +299,6 @@ def screen(reaches: Reaches, display: hu.UnitSystem = hu.SI) -> np.ndarray:
                                  f"{_fmt(s[i])} %, enter {_fmt(s[i] / 100)}")
 
     n = reaches.n
-    lining = reaches.lining
     no_lining = ~reaches.named
     add(missing("n") & no_lining, "n, lining: give Manning's n or a lining")
     add((n <= 0) | (n > 1), lambda i: f"n: must be > 0 and <= 1, got {_fmt(n[i])} (Manning's n is a small "
