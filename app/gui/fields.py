@@ -100,8 +100,8 @@ def parse_number(text: str, percent_allowed: bool = False) -> float:
     return value
 
 
-class LineEdit(QLineEdit):
-    """A line edit that leaves undo and redo to the window's undo history."""
+class _UndoGoesToWindow:
+    """Mixin for text widgets: Ctrl+Z and Ctrl+Shift+Z reach the window's undo history, not the widget's own."""
 
     def event(self, event):
         if event.type() == QEvent.Type.ShortcutOverride and (
@@ -111,20 +111,17 @@ class LineEdit(QLineEdit):
         return super().event(event)
 
 
-class NotesEdit(QPlainTextEdit):
+class LineEdit(_UndoGoesToWindow, QLineEdit):
+    """A line edit that leaves undo and redo to the window's undo history."""
+
+
+class NotesEdit(_UndoGoesToWindow, QPlainTextEdit):
     """Several lines of free text, handed on when the box loses focus (one undoable edit per visit).
 
     Like :class:`LineEdit` it leaves undo and redo to the window's history.
     """
 
     editingFinished = Signal()
-
-    def event(self, event):
-        if event.type() == QEvent.Type.ShortcutOverride and (
-                event.matches(QKeySequence.StandardKey.Undo) or event.matches(QKeySequence.StandardKey.Redo)):
-            event.ignore()
-            return True
-        return super().event(event)
 
     def focusOutEvent(self, event):
         super().focusOutEvent(event)
