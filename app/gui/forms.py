@@ -86,6 +86,18 @@ def _grid() -> QGridLayout:
     return g
 
 
+def _choice_box(name: str, items, on_chosen) -> QComboBox:
+    """A drop-down of (key, text) items that calls ``on_chosen`` when the user picks one."""
+    box = QComboBox()
+    box.setObjectName(name)
+    for key, text in items:
+        box.addItem(text, key)
+    box.activated.connect(on_chosen)
+    box.setSizeAdjustPolicy(QComboBox.SizeAdjustPolicy.AdjustToMinimumContentsLengthWithIcon)
+    box.setMinimumContentsLength(12)
+    return box
+
+
 def _group(title: str) -> tuple[QGroupBox, QGridLayout]:
     box = QGroupBox(title)
     grid = _grid()
@@ -410,13 +422,7 @@ class InputPanel(QScrollArea):
 
         # flow
         box, grid = _group("Design flow")
-        self.method = QComboBox()
-        self.method.setObjectName("flowMethod")
-        for key, text in FLOW_METHODS:
-            self.method.addItem(text, key)
-        self.method.activated.connect(self._method_chosen)
-        self.method.setSizeAdjustPolicy(QComboBox.SizeAdjustPolicy.AdjustToMinimumContentsLengthWithIcon)
-        self.method.setMinimumContentsLength(12)
+        self.method = _choice_box("flowMethod", FLOW_METHODS, self._method_chosen)
         grid.addWidget(QLabel("Obtained by"), 0, 0)
         grid.addWidget(self.method, 0, 1, 1, 2)
         row = self._number(FLOW).place(grid, 1)
@@ -440,13 +446,7 @@ class InputPanel(QScrollArea):
 
         # section
         box, grid = _group("Cross-section")
-        self.shape = QComboBox()
-        self.shape.setObjectName("shape")
-        for key, text in SHAPES:
-            self.shape.addItem(text, key)
-        self.shape.activated.connect(self._shape_chosen)
-        self.shape.setSizeAdjustPolicy(QComboBox.SizeAdjustPolicy.AdjustToMinimumContentsLengthWithIcon)
-        self.shape.setMinimumContentsLength(12)
+        self.shape = _choice_box("shape", SHAPES, self._shape_chosen)
         grid.addWidget(QLabel("Shape"), 0, 0)
         grid.addWidget(self.shape, 0, 1, 1, 2)
         self.shape_pages = ShapePages()
