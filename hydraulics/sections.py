@@ -316,6 +316,55 @@ CIRCLE_CAPACITY_RATIO = _circle_capacity_ratio()
 _SERIES_BELOW = 0.1
 
 
+def _segment_series(theta):
+    """theta - sin(theta) by its Taylor series (for small theta, where the subtraction loses digits)."""
+    t2 = theta * theta
+    return theta * t2 * (1 / 6 - t2 * (1 / 120 - t2 * (1 / 5040 - t2 * (1 / 362880 - t2 / 39916800))))
+
+
+_CIRCLE_TABLES = {}
+_CIRCLE_SPLIT = 0.5  # y/D where the table of the normal-depth factor changes its abscissa (see below)
+
+
+def _circle_guess(log_target, which):
+    """y/D of a circle where ln f(y/D) (``which`` "normal") or ln F(y/D) ("critical") equals ``log_target``.
+
+    f = a^(5/3) p^(-2/3) and F = a^3 / t with a = A/D^2, p = P/D, t = T/D, the
+    section factors of Manning flow and of the critical condition for D = 1.
+    Both rise with depth (f up to the largest part-full flow), so y/D is read
+    off a table by linear interpolation: a start for Newton's method close
+    to the root, which then needs two or three steps. The table pairs ln f
+    with ln(y/D); above half full, f flattens towards its peak, where
+    ln f_max - ln f grows as the square of the distance from the peak, so
+    there y/D is paired with sqrt(ln f_max - ln f) instead. Below the table
+    the shallow-flow limits f ~ (y/D)^(13/6) and F ~ (y/D)^4 (from
+    A ~ (4 sqrt 2 / 3) D^2 (y/D)^(3/2), P ~ 2 D sqrt(y/D), T ~ 2 D sqrt(y/D))
+    carry on; above it the last entry is used (the solver brackets the root
+    and keeps the depth in the pipe).
+    """
+    if not _CIRCLE_TABLES:
+        unit = Circle(diameter=1.0)
+        low = np.geomspace(1e-9, _CIRCLE_SPLIT, 450)
+        g = unit._geometry(low)
+        _CIRCLE_TABLES["normal"] = (5 / 3 * np.log(g.area) - 2 / 3 * np.log(g.wetted_perimeter), np.log(low), 13 / 6)
+        high = np.linspace(_CIRCLE_SPLIT, CIRCLE_CAPACITY_RATIO, 200)
+        g = unit._geometry(high)
+        log_f = 5 / 3 * np.log(g.area) - 2 / 3 * np.log(g.wetted_perimeter)
+        _CIRCLE_TABLES["normal top"] = (-np.sqrt(np.maximum(0.0, log_f[-1] - log_f)), high, log_f[-1])
+        eta = np.concatenate([np.geomspace(1e-9, 0.5, 450), 1 - np.geomspace(0.5, 1e-9, 300)[1:]])
+        g = unit._geometry(eta)
+        _CIRCLE_TABLES["critical"] = (3 * np.log(g.area) - np.log(g.top_width), np.log(eta), 4.0)
+    log_f, log_eta, power = _CIRCLE_TABLES[which]
+    x = np.asarray(log_target, dtype=float)
+    guess = np.exp(np.where(x < log_f[0], log_eta[0] + (x - log_f[0]) / power, np.interp(x, log_f, log_eta)))
+    if which == "normal":
+        root, top, peak = _CIRCLE_TABLES["normal top"]
+        upper = x > log_f[-1]
+        if upper.any():
+            guess = np.where(upper, np.interp(-np.sqrt(np.maximum(0.0, peak - x)), root, top), guess)
+    return float(guess) if guess.ndim == 0 else guess
+
+
 class Circle(Section):
     """Part-full circular pipe of diameter D.
 
@@ -342,35 +391,39 @@ class Circle(Section):
     def _geometry(self, y):
         # theta = 2 arccos(1 - 2y/D) written as 4 arcsin(sqrt(y/D)) (same angle, from 1 - cos x = 2 sin^2(x/2)),
         # which keeps its precision at small depths; theta - sin(theta) by its Taylor series there.
+        # sin(theta/2) = T/D with T the chord 2 sqrt(y (D - y)), and sin(theta) = 2 (T/D) (D - 2y)/D: these
+        # keep their digits next to the crown, where the angle from arcsin does not, and spare two sines.
         d = self.diameter
         if _is_scalar(y, d):
-            theta = 4 * math.asin(math.sqrt(min(1.0, y / d)))
-            if theta < _SERIES_BELOW:
-                t2 = theta * theta
-                segment = theta * t2 * (1 / 6 - t2 * (1 / 120 - t2 * (1 / 5040 - t2 * (1 / 362880 - t2 / 39916800))))
-            else:
-                segment = theta - math.sin(theta)
-            top = d * math.sin(theta / 2)
+            yc = min(y, d)
+            top = 2 * math.sqrt(yc * (d - yc))
+            theta = 4 * math.asin(math.sqrt(yc / d))
+            segment = _segment_series(theta) if theta < _SERIES_BELOW else theta - 2 * top * (d - 2 * yc) / (d * d)
         else:
-            theta = 4 * np.arcsin(np.sqrt(np.minimum(1.0, y / d)))
-            t2 = theta * theta
-            segment = np.where(theta < _SERIES_BELOW,
-                               theta * t2 * (1 / 6 - t2 * (1 / 120 - t2 * (1 / 5040 - t2 * (1 / 362880 - t2 / 39916800)))),
-                               theta - np.sin(theta))
-            top = d * np.sin(theta / 2)
+            yc = np.minimum(y, d)
+            top = 2 * np.sqrt(yc * (d - yc))
+            theta = 4 * np.arcsin(np.sqrt(yc / d))
+            segment = theta - 2 * top * (d - 2 * yc) / (d * d)
+            small = theta < _SERIES_BELOW
+            if np.ndim(segment) == 0:  # numpy scalars
+                segment = _segment_series(theta) if small else segment
+            elif small.any():
+                segment[small] = _segment_series(theta[small])
+        if _is_scalar(top) and top == 0.0:  # at the invert or the crown: vertical walls, infinite rates
+            return Geometry(area=d * d * segment / 8, wetted_perimeter=d * theta / 2, top_width=top,
+                            dP_dy=math.inf, dT_dy=math.copysign(math.inf, d - 2 * y))
         with np.errstate(divide="ignore", invalid="ignore"):
             return Geometry(area=d * d * segment / 8, wetted_perimeter=d * theta / 2, top_width=top,
                             dP_dy=2 * d / top, dT_dy=2 * (d - 2 * y) / top)
 
     def _depth_guess(self, log_k):
-        d = self.diameter
-        half = math.pi * d * d / 8 * (d / 4) ** (2 / 3)  # conveyance when half full
-        return 0.5 * d * np.exp(0.4 * (log_k - np.log(half)))
+        # ln(A^(5/3) P^(-2/3)) = (8/3) ln D + ln f(y/D): read y/D off the table of f.
+        return self.diameter * _circle_guess(log_k - 8 / 3 * np.log(self.diameter), "normal")
 
     def _critical_guess(self, flow):
+        # A^3 / T = D^5 F(y/D) = Q^2 / g: read y/D off the table of F.
         d = self.diameter
-        return np.minimum(0.9 * d, d * (flow * flow / (G * d ** 5)) ** 0.25) if not _is_scalar(flow, d) \
-            else min(0.9 * d, d * (flow * flow / (G * d ** 5)) ** 0.25)
+        return d * _circle_guess(np.log(flow * flow / G) - 5 * np.log(d), "critical")
 
     def to_dict(self):
         return {"shape": self.kind, "diameter": self.diameter}

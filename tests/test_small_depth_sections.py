@@ -50,3 +50,41 @@ def test_trapezoid_with_the_smallest_positive_side_slope():
     y = hy.normal_depth(t, 1.0, 0.125, 0.0625)
     r = hy.Rectangle(bottom_width=1.0)
     assert y == pytest.approx(hy.normal_depth(r, 1.0, 0.125, 0.0625), rel=1e-12)
+
+
+def test_circle_geometry_keeps_its_digits_from_invert_to_crown():
+    # Every depth, as one array and one at a time, against independent forms: the top width is the chord
+    # 2 sqrt(y (D - y)) and the area the integral of the chord width over depth (scipy quad); the wetted
+    # perimeter D theta / 2 with theta = 2 arccos(1 - 2y/D) (Chow 1959, Table 2-1) away from the crown.
+    d = 0.9
+    eta = np.concatenate([np.geomspace(1e-9, 0.5, 40), 1 - np.geomspace(0.5, 1e-9, 40)[1:], [1.0]])
+    y = eta * d
+    many = hy.Circle(diameter=np.full(eta.size, d))
+    area, perim, top = many.area(y), many.wetted_perimeter(y), many.top_width(y)
+    one = hy.Circle(diameter=d)
+    for i, yi in enumerate(y):
+        chord = 2 * math.sqrt(yi * (d - yi))
+        assert top[i] == pytest.approx(chord, rel=1e-14, abs=1e-300)
+        assert one.top_width(yi) == pytest.approx(chord, rel=1e-14, abs=1e-300)
+        expected = segment_area_by_quadrature(d, yi)
+        assert area[i] == pytest.approx(expected, rel=1e-9)
+        assert one.area(yi) == pytest.approx(area[i], rel=1e-12)  # numpy's and libm's arcsin may differ by an ulp
+        assert one.wetted_perimeter(yi) == pytest.approx(perim[i], rel=1e-15)
+        if eta[i] < 0.99:
+            assert perim[i] == pytest.approx(d * math.acos(1 - 2 * eta[i]), rel=1e-12)
+
+
+@pytest.mark.parametrize("fraction", [1e-7, 1e-4, 0.02, 0.3, 0.7, 0.93])
+def test_pipe_depths_converge_in_a_few_steps_from_the_table_start(fraction):
+    # The start comes from a table of the dimensionless section factors; Newton then needs at most four
+    # evaluations to the tolerance (it needed about nine from the old half-full estimate).
+    d, s, n = 1.05, 0.004, 0.013
+    c = hy.Circle(diameter=d)
+    q = hy.flow_at_depth(c, fraction * d, s, n)
+    sol = hy.solvers.solve_normal_depth(c, q, s, n)
+    assert sol.depth == pytest.approx(fraction * d, rel=1e-9)
+    assert sol.iterations <= 4
+    crit = hy.solvers.solve_critical_depth(c, q)
+    assert crit.iterations <= 4
+    vec = hy.solvers.solve_critical_depth(hy.Circle(diameter=np.full(2, d)), np.full(2, q))
+    np.testing.assert_allclose(vec.depth, crit.depth, rtol=1e-12)
