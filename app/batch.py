@@ -23,7 +23,10 @@ from __future__ import annotations
 import csv
 import io
 import math
+import os
 import sys
+from concurrent.futures import ThreadPoolExecutor
+from contextlib import nullcontext
 from dataclasses import dataclass, field
 from itertools import repeat
 from pathlib import Path
@@ -35,7 +38,7 @@ from hydraulics.linings import hec15
 from hydraulics import units as hu
 
 from .files import write_atomic
-from .numtext import format_rows
+from .numtext import format_rows_parallel
 
 INPUT_COLUMNS = ("id", "shape", "bottom_width", "left_slope", "right_slope", "diameter", "slope", "flow", "lining",
                  "d50", "n")
@@ -476,42 +479,53 @@ def format_results(inventory: Inventory, result: hb.BatchResult) -> str:
 
 def _results_bytes(inventory: Inventory, result: hb.BatchResult) -> bytes:
     """The results file, UTF-8: each row is its input text, the numbers, the verdict and the reason."""
+    return b"".join(_results_pieces(inventory, result))
+
+
+def _results_pieces(inventory: Inventory, result: hb.BatchResult) -> list:
+    """The results file as a few bytes-like pieces to be written one after the other (no copy joins them)."""
     size = len(inventory)
     values = display_values(inventory, result)
     table = np.column_stack([values[k] for k in _VALUE_COLUMNS]) if size else np.zeros((0, len(_VALUE_COLUMNS)))
-    numbers = format_rows(table, DIGITS, comma_after_last=True)
-    reasons = result.reason.tolist()
-    verdicts = result.verdict.tolist()
     head = (inventory.header_text + "," + ",".join(RESULT_COLUMNS) + "\n").encode("utf-8")
-    modules = _pyarrow()
-    if modules is None or not size:
-        quoted = {r: _quote_field(r) + "\n" for r in set(reasons)}
-        parts = [""] * (5 * size)
-        parts[0::5] = inventory.rows
-        parts[1::5] = repeat(",", size)
-        parts[2::5] = numbers.tolist()
-        parts[3::5] = map({v: v + "," for v in set(verdicts)}.__getitem__, verdicts)
-        parts[4::5] = map(quoted.__getitem__, reasons)
-        return head + "".join(parts).encode("utf-8")
-    # pyarrow: the four pieces of every row ("row," "numbers," "verdict," "reason\n") joined in C++
-    pa = modules[0]
-    import pyarrow.compute as pc
+    # The numbers are formatted by worker threads (numpy work, without the GIL) while this thread makes
+    # the verdict and reason texts (Python work, with it): on two cores the two overlap.
+    workers = min(2, os.cpu_count() or 1)
+    with ThreadPoolExecutor(workers) if workers > 1 else nullcontext() as pool:
+        pending = format_rows_parallel(table, DIGITS, comma_after_last=True, pool=pool, parts=workers)
+        reasons = result.reason.tolist()
+        verdicts = result.verdict.tolist()
+        modules = _pyarrow()
+        if modules is None or not size:
+            quoted = {r: _quote_field(r) + "\n" for r in set(reasons)}
+            parts = [""] * (5 * size)
+            parts[0::5] = inventory.rows
+            parts[1::5] = repeat(",", size)
+            parts[3::5] = map({v: v + "," for v in set(verdicts)}.__getitem__, verdicts)
+            parts[4::5] = map(quoted.__getitem__, reasons)
+            parts[2::5] = pending.result().tolist()
+            return [head, "".join(parts).encode("utf-8")]
+        # pyarrow: the four pieces of every row ("row," "numbers," "verdict," "reason\n") joined in C++
+        pa = modules[0]
+        import pyarrow.compute as pc
 
-    text = pa.large_string()  # 64-bit offsets: no limit of 2 GB on the file
-    records = inventory.records
-    if isinstance(records, Records):  # the file's own bytes; each line end becomes the comma after the row
-        rows = pa.LargeStringArray.from_buffers(
-            size, pa.py_buffer(np.append(records.starts, len(records.body)).astype(np.int64)),
-            pa.py_buffer(records.body.replace(b"\n", b",")))
-    else:
-        rows = pc.binary_join_element_wise(pa.array(records, type=text), pa.scalar("", type=text),
-                                           pa.scalar(",", type=text))
+        text = pa.large_string()  # 64-bit offsets: no limit of 2 GB on the file
+        records = inventory.records
+        if isinstance(records, Records):  # the file's own bytes; each line end becomes the comma after the row
+            rows = pa.LargeStringArray.from_buffers(
+                size, pa.py_buffer(np.append(records.starts, len(records.body)).astype(np.int64)),
+                pa.py_buffer(records.body.replace(b"\n", b",")))
+        else:
+            rows = pc.binary_join_element_wise(pa.array(records, type=text), pa.scalar("", type=text),
+                                               pa.scalar(",", type=text))
+        verdict_texts = _coded(pa, verdicts, lambda v: v + ",")
+        reason_texts = _coded(pa, reasons, lambda r: _quote_field(r) + "\n")
+        numbers = pending.result()
     lines = pc.binary_join_element_wise(
         rows, pa.LargeStringArray.from_buffers(size, pa.py_buffer(numbers.offsets()), pa.py_buffer(numbers.data)),
-        _coded(pa, verdicts, lambda v: v + ","), _coded(pa, reasons, lambda r: _quote_field(r) + "\n"),
-        pa.scalar("", type=text))
+        verdict_texts, reason_texts, pa.scalar("", type=text))
     offsets = np.frombuffer(lines.buffers()[1], dtype=np.int64, count=size + 1, offset=8 * lines.offset)
-    return head + memoryview(lines.buffers()[2])[offsets[0]:offsets[-1]].tobytes()
+    return [head, memoryview(lines.buffers()[2])[offsets[0]:offsets[-1]]]
 
 
 def _coded(pa, values: list, text_of):
@@ -525,7 +539,7 @@ def _coded(pa, values: list, text_of):
 
 def write_results(path, inventory: Inventory, result: hb.BatchResult) -> None:
     """Write the results file atomically (a half-written file never replaces a good one), UTF-8."""
-    write_atomic(path, _results_bytes(inventory, result))
+    write_atomic(path, _results_pieces(inventory, result))
 
 
 def result_table(inventory: Inventory, result: hb.BatchResult):

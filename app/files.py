@@ -7,20 +7,23 @@ import tempfile
 from pathlib import Path
 
 
-def write_atomic(path, data: str | bytes) -> None:
+def write_atomic(path, data) -> None:
     """Write ``data`` to ``path`` through a temporary file in the same folder, then replace in one step.
 
     The temporary file is flushed and synced before ``os.replace``, so the
     target holds either its old content or the new, never a mixture; on any
     error the temporary file is removed and the old file is left as it was.
-    Text is written as UTF-8 with the newlines as given.
+    ``data`` is text (written as UTF-8 with the newlines as given), bytes,
+    or a list of bytes-like pieces written one after the other.
     """
     path = Path(path)
-    raw = data.encode("utf-8") if isinstance(data, str) else data
+    pieces = data if isinstance(data, list) else [data]
+    pieces = [p.encode("utf-8") if isinstance(p, str) else p for p in pieces]
     fd, tmp = tempfile.mkstemp(prefix=f".{path.name}.", suffix=".tmp", dir=path.parent)
     try:
         with os.fdopen(fd, "wb") as fh:
-            fh.write(raw)
+            for piece in pieces:
+                fh.write(piece)
             fh.flush()
             os.fsync(fh.fileno())
         os.replace(tmp, path)

@@ -24,7 +24,7 @@ from __future__ import annotations
 
 import numpy as np
 
-__all__ = ["MAX_DIGITS", "RowTexts", "format_rows"]
+__all__ = ["MAX_DIGITS", "RowTexts", "format_rows", "format_rows_parallel"]
 
 #: Largest P served from tables (9 * 10^(P-1) mantissas each).
 MAX_DIGITS = 6
@@ -181,6 +181,14 @@ class RowTexts:
         """Start of each row and the end of the last, int64 (N + 1 entries, from 0)."""
         return np.concatenate([[0], self.ends]).astype(np.int64)
 
+    @classmethod
+    def concat(cls, parts) -> "RowTexts":
+        """The rows of ``parts`` one after the other, as one RowTexts."""
+        parts = list(parts)
+        shift = np.cumsum([0] + [len(p.data) for p in parts[:-1]], dtype=np.int64)
+        ends = [p.ends + s for p, s in zip(parts, shift.tolist())]
+        return cls(b"".join(p.data for p in parts), np.concatenate(ends) if ends else np.zeros(0, dtype=np.int64))
+
     def tolist(self) -> list[str]:
         text = self.data.decode("ascii")
         ends = self.ends.tolist()
@@ -226,18 +234,20 @@ def format_rows(values, digits: int, comma_after_last: bool = False) -> RowTexts
     form = np.clip(x, -5, digits) + 5
     i = m - t.low
     xc = np.clip(x, -_EXP_RANGE - 1, _EXP_RANGE + 1)
+    # np.take rather than fancy indexing throughout: the same gathers, about twice as fast on these tables
+    take = np.take
     cell_a = np.where(finite, t.zero_a, t.empty_a)
-    cell_a[live] = t.base_a[form] + t.step_a[form] * i
+    cell_a[live] = take(t.base_a, form) + take(t.step_a, form) * i
     cell_b = np.full(flat.size, t.empty_b, dtype=np.intp)
-    cell_b[live] = t.base_b[form] + t.step_b[form] * i + t.exp_step_b[form] * xc
+    cell_b[live] = take(t.base_b, form) + take(t.step_b, form) * i + take(t.exp_step_b, form) * xc
 
     cell_a += (finite & np.signbit(flat)) * t.rows_a
     if not comma_after_last:
         cell_b.reshape(rows, cols)[:, -1] += t.rows_b  # no comma after a row's last field
-    length = (t.len_a[cell_a] + t.len_b[cell_b]).reshape(rows, cols)
+    length = (take(t.len_a, cell_a) + take(t.len_b, cell_b)).reshape(rows, cols)
     out = np.empty((rows, cols), dtype=t.cell)
-    out["a"] = t.a[cell_a].reshape(rows, cols)
-    out["b"] = t.b[cell_b].reshape(rows, cols)
+    out["a"] = take(t.a, cell_a).reshape(rows, cols)
+    out["b"] = take(t.b, cell_b).reshape(rows, cols)
     for k in live[~exact].tolist():  # Python's own text where the arithmetic could be off
         r, c = divmod(k, cols)
         text = ("%.*g" % (digits, flat[k]) + ("," if comma_after_last or c < cols - 1 else "")).encode("ascii")
@@ -248,3 +258,37 @@ def format_rows(values, digits: int, comma_after_last: bool = False) -> RowTexts
     raw = out.view(np.uint8)
     return RowTexts(raw.tobytes().translate(None, b"\0"), np.cumsum(length.sum(axis=1, dtype=np.int64)))
 
+
+
+
+#: Rows below which splitting the work between threads costs more than it saves.
+PARALLEL_MIN_ROWS = 20_000
+
+
+class PendingRows:
+    """Rows being formatted in blocks by a thread pool; :meth:`result` waits for them and joins them."""
+
+    def __init__(self, blocks):
+        self._blocks = blocks
+
+    def result(self) -> RowTexts:
+        return RowTexts.concat(b.result() if hasattr(b, "result") else b for b in self._blocks)
+
+
+def format_rows_parallel(values, digits: int, comma_after_last: bool = False, pool=None,
+                         parts: int = 2) -> PendingRows:
+    """:func:`format_rows` on ``parts`` blocks of rows at once in the thread pool ``pool``.
+
+    The work is numpy gathers and byte copies, which release the GIL, so the
+    blocks run side by side on a machine with several cores while the
+    caller's thread goes on with other work; ``.result()`` of the returned
+    object gives the same text as one call of :func:`format_rows`. Without a
+    pool, or for fewer than :data:`PARALLEL_MIN_ROWS` rows, the rows are
+    formatted at once, in one block.
+    """
+    v = np.asarray(values, dtype=float)
+    if pool is None or v.ndim != 2 or len(v) < PARALLEL_MIN_ROWS or parts < 2:
+        return PendingRows([format_rows(v, digits, comma_after_last)])
+    bounds = np.linspace(0, len(v), parts + 1).astype(int).tolist()
+    return PendingRows([pool.submit(format_rows, v[a:b], digits, comma_after_last)
+                        for a, b in zip(bounds[:-1], bounds[1:])])

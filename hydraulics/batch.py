@@ -458,10 +458,15 @@ def _note(out, rows, texts, first=False):
     rows = np.asarray(rows, dtype=np.intp)
     if not len(rows):
         return
-    new = np.empty(len(rows), dtype=object)
-    new[:] = texts
     current = out.reason[rows]
     noted = current != ""
+    if isinstance(texts, str):  # one text for all: the rows without a reason yet take it as it is
+        out.reason[rows[~noted]] = texts
+        if noted.any():
+            out.reason[rows[noted]] = texts + "; " + current[noted] if first else current[noted] + "; " + texts
+        return
+    new = np.empty(len(rows), dtype=object)
+    new[:] = texts
     new[noted] = new[noted] + "; " + current[noted] if first else current[noted] + "; " + new[noted]
     out.reason[rows] = new
 
