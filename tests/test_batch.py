@@ -677,3 +677,20 @@ def test_two_decimals_as_python_rounds_them():
                        0.999999999, 1.1249999999999998])
     assert hb._each_2f(values, "Fr %s").tolist() == ["Fr %.2f" % v for v in values]
     assert hb._each_2f(np.zeros(0), "%s").tolist() == []
+
+
+def test_a_large_results_file_is_the_same_with_and_without_worker_threads(tmp_path, monkeypatch):
+    # Above app.numtext.PARALLEL_MIN_ROWS the numbers are formatted by two threads; the file must not change.
+    rows = generated_rows(400, seed=9, units="us") * 60  # 24,000 reaches
+    source = tmp_path / "big.csv"
+    source.write_text(csv_text(rows, HEADER + ["road"]), encoding="utf-8")
+    inv = ab.read_inventory(source, "us")
+    res = ab.evaluate(inv)
+    monkeypatch.setattr(ab.os, "cpu_count", lambda: 2)
+    ab.write_results(tmp_path / "threads.csv", inv, res)
+    monkeypatch.setattr(ab.os, "cpu_count", lambda: 1)
+    ab.write_results(tmp_path / "one.csv", inv, res)
+    threaded = (tmp_path / "threads.csv").read_bytes()
+    assert threaded == (tmp_path / "one.csv").read_bytes()
+    lines = threaded.decode("utf-8").splitlines()
+    assert len(lines) == len(rows) + 1 and lines[1].startswith("G0,") and lines[-1].startswith("G399,")

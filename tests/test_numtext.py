@@ -47,3 +47,22 @@ def test_shapes_and_refusals():
         format_rows([1.0, 2.0], 5)
     with pytest.raises(ValueError):
         format_rows([[1.0]], MAX_DIGITS + 1)
+
+
+def test_rows_formatted_in_threads_are_the_same_text():
+    from concurrent.futures import ThreadPoolExecutor
+
+    from app.numtext import PARALLEL_MIN_ROWS, RowTexts, format_rows_parallel
+
+    rng = np.random.default_rng(7)
+    rows = PARALLEL_MIN_ROWS + 1001
+    values = (10 ** rng.uniform(-6, 6, (rows, 4))) * rng.choice([-1, 1], (rows, 4))
+    values[::17, 2] = np.nan
+    with ThreadPoolExecutor(2) as pool:
+        for parts in (2, 3):
+            got = format_rows_parallel(values, 5, comma_after_last=True, pool=pool, parts=parts).result()
+            assert got.tolist() == [r + "," for r in python_rows(values, 5)]
+            assert list(got.offsets()) == list(format_rows(values, 5, comma_after_last=True).offsets())
+    small = format_rows_parallel(values[:10], 5, pool=None).result()  # no pool: one block, same text
+    assert small.tolist() == python_rows(values[:10], 5)
+    assert RowTexts.concat([]).tolist() == []
