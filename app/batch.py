@@ -249,18 +249,27 @@ def _texts(texts, lower=False):
     return np.array([mapping[t] for t in texts], dtype=object)
 
 
-def parse_inventory(text: str, units: str = "us", source: str = "inventory") -> Inventory:
+def parse_inventory(text: str | bytes, units: str = "us", source: str = "inventory") -> Inventory:
     """Read inventory CSV ``text`` in the unit system ``units`` ("us" or "si").
 
+    ``text`` is a str, or bytes of ASCII text (a file that needs no decoding).
     Raises InventoryError for a file that cannot be an inventory (empty, no
     header, missing or duplicated columns) and InputError for unknown units.
     Problems of single rows do not raise: they go into ``reaches.notes``.
     """
     system = hu.system(units)
+    if isinstance(text, bytes):
+        if not text.isascii():
+            raise ValueError("parse_inventory takes bytes of ASCII text only; decode other text first")
+        if b"\r" not in text and b'"' not in text:  # the common file: pyarrow reads its bytes as they are
+            inventory = _parse_arrow(text, system, source)
+            if inventory is not None:
+                return inventory
+        text = text.decode("ascii")
     text = text.replace("\r\n", "\n").replace("\r", "\n") if "\r" in text else text
     fast = '"' not in text
     if fast:
-        inventory = _parse_arrow(text, system, source)
+        inventory = _parse_arrow(text.encode("utf-8"), system, source)
         if inventory is not None:
             return inventory
     split = _split_fast(text) if fast else _split_csv(text, source)
@@ -326,18 +335,18 @@ def _arrow_table(pa, pacsv, body: bytes, names, types):
                                              strings_can_be_null=False, quoted_strings_can_be_null=False))
 
 
-def _parse_arrow(text: str, system, source: str):
-    """:func:`parse_inventory` of a file without quotes by pyarrow, or None where the Python reader must read it."""
+def _parse_arrow(data: bytes, system, source: str):
+    """:func:`parse_inventory` of UTF-8 ``data`` without quotes or carriage returns by pyarrow, or None where
+    the Python reader must read it."""
     modules = _pyarrow()
     if modules is None:
         return None
     pa, pacsv = modules
-    end = text.find("\n")
-    header = text[:end]
-    if end < 0 or not header.strip() or end + 1 == len(text):
+    end = data.find(b"\n")
+    header = data[:end].decode("utf-8")
+    if end < 0 or not header.strip() or end + 1 == len(data):
         return None  # empty, or a header only: the Python reader says so
-    body = text[end + 1:] if text.endswith("\n") else text[end + 1:] + "\n"
-    body = body.encode("utf-8")
+    body = data[end + 1:] if data.endswith(b"\n") else data[end + 1:] + b"\n"
     stops = np.flatnonzero(np.frombuffer(body, dtype=np.uint8) == ord("\n"))
     starts = np.concatenate([[0], stops[:-1] + 1])
     if (stops == starts).any():
@@ -437,6 +446,8 @@ def read_inventory(path, units: str = "us") -> Inventory:
         data = path.read_bytes()
     except OSError as exc:
         raise InventoryError(f"cannot read {path}: {exc.strerror or exc}") from None
+    if data.isascii():  # no decoding needed (and no byte-order mark): the bytes go to the reader as they are
+        return parse_inventory(data, units, source=str(path))
     return parse_inventory(_decode(data, str(path)), units, source=str(path))
 
 

@@ -311,7 +311,7 @@ def test_pyarrow_and_python_readers_agree(monkeypatch, column):
     rows[33]["id"], rows[34]["id"] = "caf\u00e9", ""
     text = csv_text(rows, HEADER + ["road"])
     assert '"' not in text
-    assert ab._parse_arrow(text, hu.system("us"), "inventory") is not None  # pyarrow reads this file
+    assert ab._parse_arrow(text.encode(), hu.system("us"), "inventory") is not None  # pyarrow reads this file
     fast = ab.parse_inventory(text, "us")
     fast_text = ab.format_results(fast, ab.evaluate(fast))  # written by pyarrow from the file's own bytes
     monkeypatch.setattr(ab, "_pyarrow", lambda: None)
@@ -378,6 +378,22 @@ def test_crlf_and_utf8_bom(tmp_path):
     p.write_bytes(b"\xef\xbb\xbf" + text.encode())
     inv = ab.read_inventory(p, "us")
     assert inv.header[0] == "id" and len(inv) == 1
+
+
+def test_ascii_bytes_and_text_read_alike(tmp_path):
+    # A plain ASCII file goes to the reader as bytes (no decoding); UTF-8 text with accents goes as text.
+    rows = generated_rows(30, seed=5, units="us")
+    text = csv_text(rows, HEADER + ["road"])
+    from_bytes, from_text = ab.parse_inventory(text.encode("ascii"), "us"), ab.parse_inventory(text, "us")
+    assert from_bytes.rows == from_text.rows and from_bytes.ids == from_text.ids
+    np.testing.assert_array_equal(from_bytes.reaches.flow, from_text.reaches.flow)
+    accented = tmp_path / "accented.csv"
+    accented.write_text(csv_text([{**GOOD, "id": "foss\u00e9 1"}]), encoding="utf-8")
+    inv = ab.read_inventory(accented, "us")
+    ab.write_results(tmp_path / "out.csv", inv, ab.evaluate(inv))
+    assert "foss\u00e9 1," in (tmp_path / "out.csv").read_text(encoding="utf-8")
+    with pytest.raises(ValueError, match="ASCII"):
+        ab.parse_inventory("foss\u00e9".encode("utf-8"), "us")
 
 
 def test_not_utf8_is_refused(tmp_path):

@@ -199,7 +199,7 @@ class ComparisonView(QWidget):
         units = self.doc.units
         for pic, row in zip(self.pictures, self.rows):
             if row.evaluation.ok:
-                thick = row.evaluation.lining.thickness if row.evaluation.lining else None
+                thick = row.evaluation.lining.layer_thickness if row.evaluation.lining else None
                 pic.update(row.evaluation, units, title="", lining_thickness=thick)
             else:
                 pic.fade(True, "no result")

@@ -17,7 +17,7 @@ import numpy as np
 
 import hydraulics as hy
 from hydraulics.curves import rating_curve, specific_energy
-from hydraulics.stability import compare_linings
+from hydraulics.stability import StabilityResult, compare_linings
 from hydraulics.units import UnitSystem
 
 from ..evaluate import design_flow, evaluate_channel, load_default_catalogue
@@ -44,26 +44,6 @@ class Verdict:
 
 
 @dataclass
-class LiningCheck:
-    """The lining's stability at the design flow, from :func:`hydraulics.stability.check_lining`."""
-
-    key: str
-    name: str
-    category: str
-    manning_n: float
-    n_source: str                # how n was found, with its source
-    design_shear: float          # [Pa], of the governing check
-    permissible_shear: float | None   # [Pa], of the governing check (None: non-erodible)
-    safety_factor: float | None  # [-] of the governing check
-    required_safety_factor: float
-    stable: bool
-    verdict: str                 # "stable" | "not stable" | "non-erodible"
-    governs: str                 # "bed", "side slopes", "bend", "non-erodible"
-    thickness: float | None      # lining layer thickness [m]
-    stability: object = None     # the full hydraulics.stability.StabilityResult
-
-
-@dataclass
 class Evaluation:
     """Everything shown for one channel, SI. ``result`` is None when there is no answer."""
 
@@ -72,7 +52,7 @@ class Evaluation:
     section: hy.Section | None = None
     roughness: object = None      # the n the solver used: a number or a depth-dependent model
     result: hy.ChannelResult | None = None
-    lining: LiningCheck | None = None
+    lining: StabilityResult | None = None   # the core's lining check, as it is
     freeboard: float | None = None
     superelevation: float | None = None
     total_depth: float | None = None
@@ -164,17 +144,6 @@ def _for_facade(channel: Channel) -> Channel:
     return out
 
 
-def _lining_check(st) -> LiningCheck:
-    gov = st.governing_check()
-    return LiningCheck(key=st.lining_key, name=st.lining_name, category=st.category, manning_n=st.manning_n,
-                       n_source=st.n_source, design_shear=gov.design_shear if gov else st.bed_shear,
-                       permissible_shear=gov.permissible_shear if gov else None,
-                       safety_factor=gov.safety_factor if gov else None,
-                       required_safety_factor=gov.required_safety_factor if gov else st.required_safety_factor,
-                       stable=st.stable, verdict=st.verdict, governs=st.governs, thickness=st.layer_thickness,
-                       stability=st)
-
-
 def _verdict(ev: Evaluation, units: UnitSystem) -> Verdict:
     full = ev.section.full_depth
     if full is not None and ev.total_depth > full * (1 + 1e-9):
@@ -187,7 +156,7 @@ def _verdict(ev: Evaluation, units: UnitSystem) -> Verdict:
         return Verdict("unchecked", "Hydraulics only",
                        f"No lining chosen: depth and velocity use {n_words}, and no shear is "
                        "checked. Choose a lining to check its stability.")
-    st = ev.lining.stability
+    st = ev.lining
     reason = st.reason(units)
     reason = reason[:1].upper() + reason[1:] + "."
     if st.verdict == "non-erodible":
@@ -236,7 +205,7 @@ def compare(channel: Channel, units: UnitSystem) -> tuple[list[ComparisonRow], s
             st = row.result
             ev.result, ev.freeboard, ev.total_depth = st.analysis, st.freeboard, st.total_depth
             ev.superelevation, ev.top_width_at_top = st.superelevation, st.top_width_at_top
-            ev.lining = _lining_check(st)
+            ev.lining = st
             ev.warnings = list(st.warnings)
             ev.verdict = _verdict(ev, units)
         else:
@@ -332,7 +301,7 @@ def evaluate(channel: Channel, units: UnitSystem) -> Evaluation:
     ev.freeboard, ev.superelevation = design.freeboard, design.superelevation
     ev.total_depth, ev.top_width_at_top = design.total_depth, design.top_width_at_top
     ev.warnings, ev.notes = list(design.warnings), list(design.notes)
-    ev.lining = _lining_check(design.stability) if design.stability is not None else None
+    ev.lining = design.stability
     ev.roughness = solver_roughness(channel)
     ev.verdict = _verdict(ev, units)
     return ev

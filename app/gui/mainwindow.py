@@ -334,7 +334,7 @@ class MainWindow(QMainWindow):
                    "energy": self.energy_picture}[key]
         if usable:
             if key == "section":
-                thick = ev.lining.thickness if ev.lining else None
+                thick = ev.lining.layer_thickness if ev.lining else None
                 picture.update(ev, units, self.section_title(ch, ev), lining_thickness=thick)
             elif key == "rating":
                 picture.update(compute.rating(ch, ev), ev, units, f"{ch.name}: flow against depth on this grade")

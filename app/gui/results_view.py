@@ -58,19 +58,19 @@ def result_values(ev: Evaluation) -> dict:
     for key in ("side_shear", "bend_shear", "permissible_shear", "safety_factor", "required_d50",
                 "layer_thickness", "cost_per_length"):
         out[key] = None
-    lin = ev.lining
-    if lin is not None:
-        st = lin.stability
+    st = ev.lining
+    if st is not None:
         out.update(bed_shear=st.bed_shear, side_shear=st.side_shear, bend_shear=st.bend_shear,
                    required_d50=st.required_d50, layer_thickness=st.layer_thickness,
-                   cost_per_length=st.cost_per_length, manning_n=lin.manning_n)
-        if lin.verdict == "non-erodible":
+                   cost_per_length=st.cost_per_length, manning_n=st.manning_n)
+        gov = st.governing_check()  # the permissible shear and safety factor shown are those of the check that governs
+        if st.verdict == "non-erodible" or gov is None:
             out["permissible_shear"] = "non-erodible"
             out["safety_factor"] = "—"
         else:
-            out["permissible_shear"] = lin.permissible_shear
-            out["safety_factor"] = (f"{lin.safety_factor:.2f} (need {lin.required_safety_factor:.2f})"
-                                    if lin.safety_factor is not None else None)
+            out["permissible_shear"] = gov.permissible_shear
+            out["safety_factor"] = (f"{gov.safety_factor:.2f} (need {gov.required_safety_factor:.2f})"
+                                    if gov.safety_factor is not None else None)
     return out
 
 

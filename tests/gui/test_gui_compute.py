@@ -92,7 +92,7 @@ def test_gravel_mulch_example_fails_in_words():
                     lining=pj.LiningChoice("gravel", d50=0.025))
     ev = compute.evaluate(ch, hy.units.SI)
     assert ev.result.normal_depth == pytest.approx(0.35, abs=0.03)
-    assert ev.lining.stability.bed_shear == pytest.approx(27, rel=0.1)
+    assert ev.lining.bed_shear == pytest.approx(27, rel=0.1)
     assert ev.verdict.status == "fail" and ev.verdict.headline == "Lining fails"
     assert "permissible" in ev.verdict.reason and "Pa" in ev.verdict.reason
     assert "lb/ft^2" in compute.evaluate(ch, hy.units.US).verdict.reason
@@ -101,7 +101,7 @@ def test_gravel_mulch_example_fails_in_words():
 def test_rigid_lining_passes_as_non_erodible():
     ev = compute.evaluate(pj.Channel(lining=pj.LiningChoice("concrete")), hy.units.SI)
     assert ev.verdict.status == "pass" and ev.verdict.headline == "Rigid lining"
-    assert ev.lining.thickness is not None and ev.lining.thickness > 0
+    assert ev.lining.layer_thickness is not None and ev.lining.layer_thickness > 0
 
 
 def test_curves_cover_the_design_point():
