@@ -38,7 +38,7 @@ from hydraulics.linings import hec15
 from hydraulics import units as hu
 
 from .files import write_atomic
-from .numtext import format_rows_parallel
+from .numtext import PendingRows, format_rows, format_rows_parallel
 
 INPUT_COLUMNS = ("id", "shape", "bottom_width", "left_slope", "right_slope", "diameter", "slope", "flow", "lining",
                  "d50", "n")
@@ -493,17 +493,29 @@ def _results_bytes(inventory: Inventory, result: hb.BatchResult) -> bytes:
     return b"".join(_results_pieces(inventory, result))
 
 
-def _results_pieces(inventory: Inventory, result: hb.BatchResult) -> list:
-    """The results file as a few bytes-like pieces to be written one after the other (no copy joins them)."""
-    size = len(inventory)
+def _number_table(inventory: Inventory, result: hb.BatchResult) -> np.ndarray:
+    """The numeric result columns in the inventory's units, one row per reach of ``result``."""
     values = display_values(inventory, result)
-    table = np.column_stack([values[k] for k in _VALUE_COLUMNS]) if size else np.zeros((0, len(_VALUE_COLUMNS)))
+    return np.column_stack([values[k] for k in _VALUE_COLUMNS]) if len(result) else np.zeros((0, len(_VALUE_COLUMNS)))
+
+
+def _workers() -> int:
+    return min(2, os.cpu_count() or 1)
+
+
+def _results_pieces(inventory: Inventory, result: hb.BatchResult, numbers: PendingRows | None = None) -> list:
+    """The results file as a few bytes-like pieces to be written one after the other (no copy joins them).
+
+    ``numbers``: the result numbers already being formatted (see :func:`check_and_write`).
+    """
+    size = len(inventory)
     head = (inventory.header_text + "," + ",".join(RESULT_COLUMNS) + "\n").encode("utf-8")
     # The numbers are formatted by worker threads (numpy work, without the GIL) while this thread makes
     # the verdict and reason texts (Python work, with it): on two cores the two overlap.
-    workers = min(2, os.cpu_count() or 1)
+    workers = _workers() if numbers is None else 1
     with ThreadPoolExecutor(workers) if workers > 1 else nullcontext() as pool:
-        pending = format_rows_parallel(table, DIGITS, comma_after_last=True, pool=pool, parts=workers)
+        pending = numbers if numbers is not None else format_rows_parallel(
+            _number_table(inventory, result), DIGITS, comma_after_last=True, pool=pool, parts=workers)
         reasons = result.reason.tolist()
         verdicts = result.verdict.tolist()
         modules = _pyarrow()
@@ -551,6 +563,36 @@ def _coded(pa, values: list, text_of):
 def write_results(path, inventory: Inventory, result: hb.BatchResult) -> None:
     """Write the results file atomically (a half-written file never replaces a good one), UTF-8."""
     write_atomic(path, _results_pieces(inventory, result))
+
+
+#: Reaches per chunk in :func:`check_and_write`: small enough that formatting overlaps computing.
+WRITE_CHUNK = 25_000
+
+
+def check_and_write(path, inventory: Inventory, progress=None, catalogue=None) -> hb.BatchResult:
+    """:func:`evaluate`, then :func:`write_results` to ``path``; returns the results.
+
+    On a machine with two cores or more, the reaches are checked in chunks
+    of :data:`WRITE_CHUNK` and the numbers of each chunk are formatted by a
+    worker thread while the next chunk is computed (the computing holds
+    Python's GIL much of the time, the formatting hardly at all). The file
+    is the same either way.
+    """
+    if _workers() < 2 or len(inventory) < 2 * WRITE_CHUNK:
+        result = evaluate(inventory, progress, catalogue)
+        write_results(path, inventory, result)
+        return result
+    with ThreadPoolExecutor(_workers()) as pool:
+        blocks = []
+
+        def start_formatting(part, done):
+            blocks.append(pool.submit(format_rows, _number_table(inventory, done), DIGITS, True))
+
+        result = hb.evaluate(inventory.reaches, display=inventory.units, progress=progress, chunk=WRITE_CHUNK,
+                             catalogue=catalogue, on_chunk=start_formatting)
+        pieces = _results_pieces(inventory, result, numbers=PendingRows(blocks))
+    write_atomic(path, pieces)
+    return result
 
 
 def result_table(inventory: Inventory, result: hb.BatchResult):

@@ -667,7 +667,7 @@ def _evaluate_chunk(reaches: Reaches, display, catalogue) -> BatchResult:
 
 
 def evaluate(reaches: Reaches, display: hu.UnitSystem = hu.SI, progress=None, chunk: int = CHUNK,
-             catalogue=None) -> BatchResult:
+             catalogue=None, on_chunk=None) -> BatchResult:
     """Check every reach; see the module notes for the verdicts.
 
     Parameters
@@ -682,6 +682,10 @@ def evaluate(reaches: Reaches, display: hu.UnitSystem = hu.SI, progress=None, ch
         Reaches per vectorised solve.
     catalogue : hydraulics.linings.Catalogue, optional
         Linings the reaches may name (default: the shipped catalogue).
+    on_chunk : callable, optional
+        Called as ``on_chunk(part, results)`` with the slice of reaches of
+        each chunk and their results, as soon as the chunk is done (a caller
+        can start writing them while the next chunk is computed).
 
     Returns
     -------
@@ -691,13 +695,18 @@ def evaluate(reaches: Reaches, display: hu.UnitSystem = hu.SI, progress=None, ch
     size = len(reaches)
     if size <= chunk:  # one chunk: no slicing and copying
         out = _evaluate_chunk(reaches, display, catalogue)
+        if on_chunk is not None:
+            on_chunk(slice(0, size), out)
         if progress is not None:
             progress(size, size)
         return out
     out = BatchResult.empty(size)
     for start in range(0, size, chunk):
         part = slice(start, min(size, start + chunk))
-        out._fill(part, _evaluate_chunk(reaches.take(part), display, catalogue))
+        done = _evaluate_chunk(reaches.take(part), display, catalogue)
+        out._fill(part, done)
+        if on_chunk is not None:
+            on_chunk(part, done)
         if progress is not None:
             progress(part.stop, size)
     return out

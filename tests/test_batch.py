@@ -710,3 +710,23 @@ def test_a_large_results_file_is_the_same_with_and_without_worker_threads(tmp_pa
     assert threaded == (tmp_path / "one.csv").read_bytes()
     lines = threaded.decode("utf-8").splitlines()
     assert len(lines) == len(rows) + 1 and lines[1].startswith("G0,") and lines[-1].startswith("G399,")
+
+
+def test_writing_while_checking_gives_the_same_file_and_results(tmp_path, monkeypatch):
+    # check_and_write formats each chunk's numbers in a worker thread while the next chunk is computed.
+    rows = generated_rows(400, seed=10, units="si") * 10  # 4,000 reaches
+    rows[5] = {**rows[5], "flow": "-2"}                    # a bad row inside the first chunk
+    source = tmp_path / "inv.csv"
+    source.write_text(csv_text(rows, HEADER + ["road"]), encoding="utf-8")
+    inv = ab.read_inventory(source, "si")
+    expected = ab.evaluate(inv)
+    ab.write_results(tmp_path / "plain.csv", inv, expected)
+    monkeypatch.setattr(ab.os, "cpu_count", lambda: 2)
+    monkeypatch.setattr(ab, "WRITE_CHUNK", 700)            # several chunks, the last one short
+    seen = []
+    got = ab.check_and_write(tmp_path / "piped.csv", inv, progress=lambda done, total: seen.append(done))
+    assert (tmp_path / "piped.csv").read_bytes() == (tmp_path / "plain.csv").read_bytes()
+    assert seen == [700 * k for k in range(1, 6)] + [4000]
+    np.testing.assert_array_equal(got.normal_depth, expected.normal_depth)
+    assert got.verdict.tolist() == expected.verdict.tolist() and got.reason.tolist() == expected.reason.tolist()
+    assert got.verdict[5] == "invalid" and got.messages == expected.messages

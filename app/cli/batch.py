@@ -72,13 +72,11 @@ def run(args) -> int:
     show = args.progress if args.progress is not None else (len(inventory) >= PROGRESS_FROM and sys.stderr.isatty())
     bar = ab.ProgressBar("checking", enabled=show)
     try:
-        result = ab.evaluate(inventory, progress=bar, catalogue=catalogue)
-    finally:
-        bar.close()
-    try:
-        ab.write_results(target, inventory, result)
+        result = ab.check_and_write(target, inventory, progress=bar, catalogue=catalogue)
     except OSError as exc:
         raise CliError(f"cannot write {target}: {exc.strerror or exc}") from None
+    finally:
+        bar.close()
     elapsed = time.perf_counter() - start
     problems = ab.problem_rows(inventory, result)
     for line, ident, verdict, reason in problems[:MAX_LISTED]:
