@@ -23,6 +23,7 @@ from hydraulics.linings import hec15
 from hydraulics.linings import Catalogue, load_catalogue
 from hydraulics.units import SI
 from hydraulics.stability import ComparisonRow, StabilityResult, check_lining, compare_linings
+from hydraulics.wording import in_units
 
 from .project import Channel
 from .results import CHANNEL_FIELDS, convert
@@ -97,7 +98,8 @@ class ChannelDesign:
                     "total_depth": L(self.total_depth), "top_width_at_top": L(self.top_width_at_top),
                     "comparison": [r.to_dict(units) for r in self.comparison],
                     "units": {k: units.label(k) for k in ("length", "flow", "velocity", "area", "shear", "slope")},
-                    "warnings": list(self.warnings), "notes": list(self.notes)})
+                    "warnings": [in_units(w, units) for w in self.warnings],
+                    "notes": [in_units(n, units) for n in self.notes]})
         return out
 
 

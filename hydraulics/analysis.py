@@ -22,6 +22,7 @@ import numpy as np
 
 from .constants import G, GAMMA_WATER, NU_WATER
 from .solvers import _n_value, resolve_roughness, solve_critical_depth, solve_normal_depth
+from .wording import worded
 
 #: Froude numbers in this band are near critical: the water surface is wavy and
 #: unstable and small changes of n or flow swap the regime (common practice,
@@ -131,9 +132,13 @@ def analyse(section, flow, slope, n=None) -> ChannelResult:
         q_full = full_geo.area * (full_geo.area / full_geo.wetted_perimeter) ** (2 / 3) * sqrt(s) / n_used
         over = q > q_full
         if np.any(over):
-            warnings.append(f"{_count(over)}the flow is above the pipe's full-flow capacity "
-                            f"({_fmt(q_full, over)} m^3/s): it runs just below the crown, where a small "
-                            "disturbance makes it surcharge; use a larger pipe")
+            rest = ("it runs just below the crown, where a small disturbance makes it surcharge; use a larger pipe")
+            if vector:
+                warnings.append(f"{_count(over)}the flow is above the pipe's full-flow capacity "
+                                f"({_fmt(q_full, over)} m^3/s): {rest}")
+            else:
+                warnings.append(worded("the flow is above the pipe's full-flow capacity ({q_full}): {rest}",
+                                       q_full=(float(q_full), "flow"), rest=rest))
     return ChannelResult(
         flow=q, slope=s, normal_depth=y, critical_depth=yc, velocity=v, froude=fr,
         regime=flow_regime(fr), area=area, wetted_perimeter=perim, top_width=top,

@@ -377,11 +377,11 @@ def critical_depth(section, flow):
     Examples
     --------
     Rectangle, closed form y_c = (q^2 / g)^(1/3) with q = Q / b
-    (Chow 1959, Eq. 4-5): b = 2 m, Q = 4 m^3/s gives 0.7415 m.
+    (Chow 1959, Eq. 4-5): b = 2 m, Q = 4 m^3/s gives (2^2 / 9.80665)^(1/3) = 0.7416 m.
 
     >>> import hydraulics as hy
     >>> round(hy.critical_depth(hy.Rectangle(bottom_width=2.0), 4.0), 4)
-    0.7415
+    0.7416
     """
     return solve_critical_depth(section, flow).depth
 

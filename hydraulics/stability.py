@@ -55,11 +55,12 @@ from .linings.catalogue import Lining
 from .linings.hec15 import ValidityWarning
 from .linings.roughness import StoneRoughness, VegetationRoughness
 from .units import SI, UnitSystem
+from .wording import format_quantity, in_units, worded
 
 __all__ = [
     "SELF_CLEANING_VELOCITY", "SELF_CLEANING_SOURCE", "NEAR_CRITICAL_SOURCE", "FREEBOARD_SOURCE",
     "SUPERELEVATION_SOURCE", "SUPERCRITICAL_BEND_SOURCE", "STEEP_SLOPE_SOURCE", "RIGID_NOTE", "FILTER_NOTE", "LINED_WIDTH_RULE",
-    "format_quantity", "ShearCheck", "ShearCheckArray", "ShearChecks", "shear_checks", "StabilityResult", "ComparisonRow", "check_lining", "compare_linings", "parse_choice",
+    "ShearCheck", "ShearCheckArray", "ShearChecks", "shear_checks", "StabilityResult", "ComparisonRow", "check_lining", "compare_linings", "parse_choice",
 ]
 
 #: Mean velocity below which fine sediment tends to settle in a lined channel [m/s]:
@@ -82,21 +83,6 @@ FILTER_NOTE = ("place a granular filter or a geotextile beneath the stone unless
                "itself against the stone (HEC-15 Section 6.4, from memory; common practice)")
 LINED_WIDTH_RULE = ("lining carried up the whole perimeter to the top of the ditch (design depth plus freeboard); "
                     "common practice")
-
-
-def _fmt(value: float) -> str:
-    """Three significant figures, no exponent for ordinary values."""
-    if value == 0 or not math.isfinite(value):
-        return f"{value:g}"
-    digits = max(0, 2 - int(math.floor(math.log10(abs(value)))))
-    return f"{value:.{digits}f}"
-
-
-def format_quantity(value, quantity: str, units: UnitSystem = SI) -> str:
-    """A SI value in ``units`` to three significant figures with its label, e.g. '1.40 lb/ft^2'."""
-    v = units.from_si(quantity, value)
-    label = units.label(quantity)
-    return f"{_fmt(float(v))} {label}".rstrip()
 
 
 @dataclass(frozen=True)
@@ -265,7 +251,7 @@ class StabilityResult:
                         "permissible_shear": T(c.permissible_shear), "safety_factor": c.safety_factor,
                         "required_safety_factor": c.required_safety_factor, "passes": bool(c.passes),
                         "factor": c.factor} for c in self.checks],
-            "notes": list(self.notes),
+            "notes": [in_units(n, units) for n in self.notes],
         }
         if self.bend_radius is not None:
             out.update({"bend_shear": T(self.bend_shear), "bend_factor": self.bend_factor,
@@ -717,7 +703,8 @@ def check_lining(section, flow, slope, lining: Lining, d50=None, bend_radius=Non
     extra = []
     for w in caught:
         if issubclass(w.category, ValidityWarning):
-            extra.append(str(w.message))
+            text = w.message.args[0] if w.message.args else ""
+            extra.append(text if isinstance(text, str) else str(w.message))  # a Worded message stays one
         else:  # pragma: no cover - not ours: pass it on
             warnings.warn_explicit(w.message, w.category, w.filename, w.lineno)
     result.warnings = _dedupe(result.warnings + extra)
@@ -764,8 +751,8 @@ def _check(section, q, s, lining, d50, rc, fb_min, n_override, sf_min, v_min) ->
                     "the water surface will be unstable and wavy; allow extra freeboard or change the slope or "
                     "section")
     if v < v_min:
-        warn.append(f"velocity {v:.2f} m/s ({v / 0.3048:.2f} ft/s) is below {v_min:.2f} m/s "
-                    f"({v_min / 0.3048:.1f} ft/s), so silt may settle in the channel ({SELF_CLEANING_SOURCE})")
+        warn.append(worded("velocity {v} is below {v_min}, so silt may settle in the channel ({source})",
+                           v=(v, "velocity"), v_min=(v_min, "velocity"), source=SELF_CLEANING_SOURCE))
 
     # -- design shear, permissible shear and the checks (HEC-15 Chapter 3) -----
     zs = section.side_slopes
@@ -815,11 +802,13 @@ def _check(section, q, s, lining, d50, rc, fb_min, n_override, sf_min, v_min) ->
                          f"steep-slope method ({STEEP_SLOPE_SOURCE})")
         notes.append(FILTER_NOTE)
     elif method == "vegetation":
-        notes.append(f"grass on soil: soil permissible shear {float(lining.soil_permissible_shear()):.3g} Pa, cover "
-                     f"factor {float(lining.cover_factor()):g}, soil grain n {float(lining.soil_grain_n()):.3g}, "
-                     f"lining n {n_used:.3g} ({permissible_source})")
+        notes.append(worded("grass on soil: soil permissible shear {tau_s}, cover factor {cf}, soil grain n {ns}, "
+                            "lining n {n} ({source})", tau_s=(float(lining.soil_permissible_shear()), "shear"),
+                            cf=f"{float(lining.cover_factor()):g}", ns=f"{float(lining.soil_grain_n()):.3g}",
+                            n=f"{n_used:.3g}", source=permissible_source))
     elif method == "value" and lining.user_data:
-        notes.append(f"permissible shear {tau_p:.3g} Pa and n are user data ({permissible_source})")
+        notes.append(worded("permissible shear {tau_p} and n are user data ({source})", tau_p=(tau_p, "shear"),
+                            source=permissible_source))
 
     stable = all(c.passes for c in checks)
     gov = min(checks, key=lambda c: c.margin)
@@ -843,11 +832,11 @@ def _check(section, q, s, lining, d50, rc, fb_min, n_override, sf_min, v_min) ->
         else:
             lo_d, hi_d = hec15.STONE_SIZE_RANGE
             if required > hi_d:
-                warn.append(f"the smallest stable D50, {required * 1000:.0f} mm, is above {hi_d * 1000:g} mm, the "
-                            "largest size HEC-15 Chapter 6 covers")
+                warn.append(worded("the smallest stable D50, {d}, is above {hi}, the largest size HEC-15 Chapter 6 "
+                                   "covers", d=(required, "small_length"), hi=(hi_d, "small_length")))
             elif required < lo_d:
-                notes.append(f"the smallest stable D50, {required * 1000:.3g} mm, is below {lo_d * 1000:g} mm, the "
-                             "smallest size HEC-15 Chapter 6 covers; use at least that")
+                notes.append(worded("the smallest stable D50, {d}, is below {lo}, the smallest size HEC-15 Chapter 6 "
+                                    "covers; use at least that", d=(required, "small_length"), lo=(lo_d, "small_length")))
     req = {k: (None if (x is None or math.isinf(x)) else x) for k, x in req.items()}
     # the user's D50 (None: the entry's own, with its D100 where the catalogue gives one)
     thickness = lining.layer_thickness(d50) if lining.thickness_data["rule"] == "stone" else lining.layer_thickness()
@@ -866,8 +855,9 @@ def _check(section, q, s, lining, d50, rc, fb_min, n_override, sf_min, v_min) ->
     full = section.full_depth
     if full is not None and total > float(full):
         top_depth = float(full)
-        warn.append(f"the design depth plus freeboard ({total:.3g} m) is above the section's full depth "
-                    f"({float(full):.3g} m): the {section.kind} is not deep enough for the freeboard")
+        warn.append(worded("the design depth plus freeboard ({total}) is above the section's full depth ({full}): "
+                           "the {kind} is not deep enough for the freeboard", total=(total, "length"),
+                           full=(float(full), "length"), kind=section.kind))
     top_width_at_top = float(section.top_width(top_depth))
     lined = _lined_perimeter(section, top_depth)
     notes.append(LINED_WIDTH_RULE)
@@ -1117,7 +1107,7 @@ class ComparisonRow:
                                                                                       self.layer_volume)),
             "cost_per_length": None if self.cost_per_length is None else float(units.from_si("cost_per_length",
                                                                                             self.cost_per_length)),
-            "warnings": list(self.warnings), "error": self.error,
+            "warnings": [in_units(w, units) for w in self.warnings], "error": self.error,
         }
 
 

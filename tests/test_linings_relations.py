@@ -49,8 +49,12 @@ def test_stone_permissible_shear_refuses_light_stone():
 
 def test_stone_size_outside_chapter_6_range_warns():
     # HEC-15 Chapter 6 (verified): the procedures cover 15 mm gravel to 550 mm riprap.
-    with pytest.warns(ValidityWarning, match="outside the 15 to 550 mm"):
+    with pytest.warns(ValidityWarning, match="outside the 15.0 mm to 550 mm range") as caught:
         hec15.stone_permissible_shear(0.8)
+    from hydraulics.units import US
+    from hydraulics.wording import in_units
+    message = caught[0].message.args[0]
+    assert in_units(message, US).startswith("D50 = 31.5 in is outside the 0.591 in to 21.7 in range")  # / 25.4
 
 
 # --------------------------------------------------------------- Table 6.1

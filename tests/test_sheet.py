@@ -251,8 +251,8 @@ def test_cautions_and_out_of_range_warnings(pages, us_pages):
     text = _flat(us_pages["Outfall swale"])
     assert "Design assistance only" in text and "licensed" in text
     # the swale runs at 1.56 ft/s, below the 2 ft/s self-cleaning velocity (Chow 1959, Sec. 7-3, 2 to 3 ft/s,
-    # from memory): flagged, with the US value beside the SI one
-    assert "(1.56 ft/s) is below 0.61 m/s (2.0 ft/s)" in text
+    # from memory): flagged, restated in the sheet's units
+    assert "Velocity 1.56 ft/s is below 2.00 ft/s, so silt may settle" in text
     # the evaluation's notes: the lining's own n replaces the channel's
     assert "Note: The lining's own n (0.06963) is used; the channel's Manning's n 0.035 applies only" in text
     # every SI amount in a US sheet's cautions has its US equivalent beside it (nothing left to annotate)

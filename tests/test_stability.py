@@ -17,6 +17,7 @@ from scipy.optimize import brentq
 import hydraulics as hy
 from hydraulics.errors import InputError, NoSolutionError
 from hydraulics.linings import hec15, load_catalogue
+from hydraulics.wording import in_units
 from hydraulics.stability import SELF_CLEANING_VELOCITY, check_lining, compare_linings, parse_choice, shear_checks
 from hydraulics.units import FOOT, PSF, SYSTEMS
 
@@ -245,7 +246,8 @@ def test_low_velocity_warning_names_value_and_source(cat):
     slow = check_lining(section, 0.2, 0.0005, cat.get("concrete"))
     assert slow.velocity < SELF_CLEANING_VELOCITY
     text = [w for w in slow.warnings if "silt" in w]
-    assert len(text) == 1 and "2.0 ft/s" in text[0] and "Chow (1959)" in text[0]
+    assert len(text) == 1 and "0.610 m/s" in text[0] and "Chow (1959)" in text[0]
+    assert "is below 2.00 ft/s" in in_units(text[0], hy.units.US)  # 0.61 m/s restated for a US session
     fast = check_lining(section, 2.0, 0.01, cat.get("concrete"))
     assert fast.velocity > SELF_CLEANING_VELOCITY and not any("silt" in w for w in fast.warnings)
 

@@ -5,7 +5,8 @@ from __future__ import annotations
 import hydraulics as hy
 from hydraulics import units as hu
 from hydraulics.errors import InputError
-from hydraulics.stability import check_lining, format_quantity
+from hydraulics.stability import check_lining
+from hydraulics.wording import format_quantity, in_units
 
 from ..results import CHANNEL_FIELDS, convert, format_value
 from .common import (CliError, add_channel_options, check_dimensions, check_numbers, emit_json, require, section_from_args,
@@ -138,7 +139,7 @@ def stability_rows(stab, units) -> list:
 def run(args) -> int:
     units = hu.system(args.units)
     section, result, found, stab = solve(args)
-    warnings = list(result.warnings) if stab is None else list(stab.warnings)
+    warnings = [in_units(w, units) for w in (result.warnings if stab is None else stab.warnings)]
     if args.json:
         out = {f.key: convert(getattr(result, f.key), f.quantity, units) for f in CHANNEL_FIELDS}
         if found is not None:
@@ -162,7 +163,7 @@ def run(args) -> int:
         print(table(stability_rows(stab, units)))
         print(f"  Freeboard rule: {stab.freeboard_rule(units)}")
         for note in stab.notes:
-            print(f"  Note: {note}")
+            print(f"  Note: {in_units(note, units)}")
     for w in warnings:
         print(f"  Warning: {w}")
     return 0

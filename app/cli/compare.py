@@ -5,6 +5,7 @@ from __future__ import annotations
 from hydraulics import units as hu
 from hydraulics.errors import InputError
 from hydraulics.stability import check_lining, compare_linings
+from hydraulics.wording import in_units
 
 from .common import CliError, add_channel_options, check_numbers, emit_json, require, section_from_args
 from .lining_args import add_lining_options, catalogue_from_args, choice_from_text, explain, lining_options_si
@@ -83,7 +84,7 @@ def run(args) -> int:
     for r in rows:
         print(f"  {r.key}: {r.result.reason(units) if r.result is not None else r.reason}")
         for w in r.warnings:
-            print(f"    Warning: {w}")
+            print(f"    Warning: {in_units(w, units)}")
     if all(d["cost_per_length"] is None for d in data):
         print("  Cost: no unit costs set; add unit_cost to linings in a --user-catalogue file")
     return 0

@@ -10,6 +10,7 @@ from PySide6.QtCore import Qt
 from PySide6.QtWidgets import QFrame, QGridLayout, QLabel, QScrollArea, QVBoxLayout, QWidget
 
 from hydraulics.units import UnitSystem
+from hydraulics.wording import in_units
 
 from ..results import CHANNEL_FIELDS, ResultField, format_value
 from .compute import Evaluation
@@ -181,7 +182,7 @@ class ResultsPanel(QWidget):
         where = lin.governs if lin is not None and lin.verdict != "non-erodible" else ""
         self.names["permissible_shear"].setText(f"Permissible shear, {where}" if where else "Permissible shear")
         self.names["safety_factor"].setText(f"Safety factor, {where}" if where else "Safety factor")
-        warnings = list(shown.warnings) if shown is not None else []
+        warnings = [in_units(w, units) for w in shown.warnings] if shown is not None else []
         if warnings:
             items = "".join(f"<li>{_escape(w[:1].upper() + w[1:])}.</li>" if not w.endswith(".")
                             else f"<li>{_escape(w[:1].upper() + w[1:])}</li>" for w in warnings)

@@ -27,8 +27,8 @@ from dataclasses import dataclass
 import hydraulics as hy
 from hydraulics import units as hu
 from hydraulics.linings import Catalogue, hec15
-from hydraulics.stability import (FREEBOARD_SOURCE, LINED_WIDTH_RULE, SUPERELEVATION_SOURCE, StabilityResult,
-                                  format_quantity)
+from hydraulics.stability import FREEBOARD_SOURCE, LINED_WIDTH_RULE, SUPERELEVATION_SOURCE, StabilityResult
+from hydraulics.wording import Worded, format_quantity
 
 from .. import __version__
 from ..evaluate import ChannelDesign, design_flow, evaluate_channel, load_default_catalogue
@@ -70,8 +70,12 @@ def in_units(text: str, units: hu.UnitSystem) -> str:
     On a US sheet each SI amount gets its US equivalent beside it, "1 Pa"
     -> "1 Pa (0.0209 lb/ft²)", unless the sentence already gives one
     ("0.15 m (0.5 ft)") or the amount is itself the equivalent of a US value
-    ("2 ft/s (0.6 m/s)"). Unit powers are written as superscripts.
+    ("2 ft/s (0.6 m/s)"). A message the core made with
+    :func:`hydraulics.wording.worded` is restated in ``units`` instead. Unit
+    powers are written as superscripts.
     """
+    if isinstance(text, Worded):
+        return pretty_unit(text.in_units(units))
     if units.key != "si":
         def annotate(m):
             if text.startswith(" (", m.end()):
@@ -89,7 +93,7 @@ def in_units(text: str, units: hu.UnitSystem) -> str:
 
 def sentence(text: str, units: hu.UnitSystem) -> str:
     """A core sentence as a sheet line: in the sheet's units, capital first letter, full stop."""
-    text = in_units(text.strip(), units)
+    text = in_units(text, units).strip()
     text = text[:1].upper() + text[1:]
     return text if text.endswith(".") else text + "."
 

@@ -43,6 +43,7 @@ from scipy.optimize import brentq
 from .. import validate
 from ..constants import G, GAMMA_WATER
 from ..errors import InputError, NoSolutionError
+from ..wording import worded
 
 __all__ = [
     "ValidityWarning", "NU_HEC15", "GAMMA_STONE", "SHIELDS_LOW", "SHIELDS_HIGH", "SF_LOW", "SF_HIGH",
@@ -618,8 +619,12 @@ def _stone_size_warning(d50):
     lo, hi = STONE_SIZE_RANGE
     d = np.asarray(d50)
     if np.any((d < lo) | (d > hi)):
-        _warn(f"D50 = {_span(d, 1000.0, '.4g')} mm is outside the {lo * 1000:g} to {hi * 1000:g} mm range "
-              "of the HEC-15 Chapter 6 procedures")
+        if d.ndim == 0:
+            _warn(worded("D50 = {d} is outside the {lo} to {hi} range of the HEC-15 Chapter 6 procedures",
+                         d=(float(d), "small_length"), lo=(lo, "small_length"), hi=(hi, "small_length")))
+        else:
+            _warn(f"D50 = {_span(d, 1000.0, '.4g')} mm is outside the {lo * 1000:g} to {hi * 1000:g} mm range "
+                  "of the HEC-15 Chapter 6 procedures")
 
 
 class StoneSize(NamedTuple):

@@ -21,6 +21,7 @@ import numpy as np
 from .. import validate
 from ..constants import GAMMA_WATER
 from ..errors import InputError
+from ..wording import worded
 from . import hec15
 
 __all__ = ["StoneRoughness", "VegetationRoughness", "STONE_METHODS", "SPLIT_BAND"]
@@ -196,8 +197,8 @@ class StoneRoughness:
         out = []
         lo, hi = hec15.STONE_SIZE_RANGE
         if not lo <= self.d50 <= hi:
-            out.append(f"D50 = {self.d50 * 1000:.4g} mm is outside the {lo * 1000:g} to {hi * 1000:g} mm range "
-                       "of the HEC-15 Chapter 6 procedures")
+            out.append(worded("D50 = {d} is outside the {lo} to {hi} range of the HEC-15 Chapter 6 procedures",
+                              d=(self.d50, "small_length"), lo=(lo, "small_length"), hi=(hi, "small_length")))
         if self.method == "strickler":
             return out
         da, _, _ = _average_depth(section, depth)
@@ -265,8 +266,9 @@ class VegetationRoughness:
         """Warnings for a flow the vegetated-lining relation does not describe well."""
         out = []
         if np.any(np.asarray(depth) < self.stem_height):
-            out.append(f"flow depth below the stem height ({self.stem_height:g} m): the grass is not submerged, "
-                       "which the HEC-15 Chapter 4 roughness relation does not describe (from memory)")
+            out.append(worded("flow depth below the stem height ({h}): the grass is not submerged, which the "
+                              "HEC-15 Chapter 4 roughness relation does not describe (from memory)",
+                              h=(float(self.stem_height), "length")))
         return out
 
     def to_dict(self) -> dict:

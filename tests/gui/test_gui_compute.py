@@ -112,3 +112,19 @@ def test_curves_cover_the_design_point():
     energy = compute.energy(ch, ev)
     assert energy.depths.min() < ev.result.critical_depth < energy.depths.max()
     assert energy.min_energy <= energy.energy.min() + 1e-12
+
+
+def test_results_panel_restates_core_warnings_in_the_session_units(qtbot):
+    # A concrete ditch on a flat grade runs below the self-cleaning velocity (0.61 m/s, 2 ft/s, Chow 1959,
+    # Sec. 7-3, from memory); the core words the warning in SI, the panel shows it in the session's units.
+    from app.gui.results_view import ResultsPanel
+
+    ch = pj.Channel(flow=pj.FlowBasis(value=0.2), slope=0.0005,
+                    section={"shape": "trapezoid", "bottom_width": 2.0, "left_slope": 3.0, "right_slope": 3.0},
+                    lining=pj.LiningChoice("concrete"))
+    panel = ResultsPanel()
+    qtbot.addWidget(panel)
+    panel.show_evaluation(compute.evaluate(ch, hy.units.US), hy.units.US)
+    assert "Velocity 1.38 ft/s is below 2.00 ft/s" in panel.warnings.text()
+    panel.show_evaluation(compute.evaluate(ch, hy.units.SI), hy.units.SI)
+    assert "Velocity 0.420 m/s is below 0.610 m/s" in panel.warnings.text()

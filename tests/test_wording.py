@@ -1,0 +1,48 @@
+"""Messages whose quantities follow the unit system (hydraulics.wording).
+
+Factors: 1 ft = 0.3048 m and 1 lb = 0.45359237 kg exactly (NIST Special Publication 811, 2008 ed.,
+Appendix B.8), as in hydraulics.units.
+"""
+
+import pytest
+
+import hydraulics as hy
+from hydraulics.linings import load_catalogue
+from hydraulics.stability import check_lining
+from hydraulics.units import SI, US
+from hydraulics.wording import Worded, format_quantity, in_units, worded
+
+
+def test_a_worded_message_reads_in_si_and_restates_in_us():
+    w = worded("depth {d} with {tau} on the bed ({source})", d=(0.3048, "length"), tau=(47.880258980335840, "shear"),
+               source="HEC-15 {Eq. 3.1}")
+    assert isinstance(w, str) and isinstance(w, Worded)
+    assert w == "depth 0.305 m with 47.9 Pa on the bed (HEC-15 {Eq. 3.1})"
+    assert in_units(w, US) == "depth 1.00 ft with 1.00 lb/ft^2 on the bed (HEC-15 {Eq. 3.1})"
+    assert in_units(w, SI) == str(w)
+    assert in_units("plain text, 3 m", US) == "plain text, 3 m"  # not ours to restate
+
+
+def test_three_significant_figures():
+    assert format_quantity(0.025, "small_length", SI) == "25.0 mm"
+    assert format_quantity(0.025, "small_length", US) == "0.984 in"
+    assert format_quantity(123456.0, "length", SI) == "123456 m"
+
+
+def test_lining_warnings_follow_the_session_units():
+    # A concrete ditch on a flat grade runs below the self-cleaning velocity (0.61 m/s, 2 ft/s, Chow 1959,
+    # Sec. 7-3, from memory).
+    st = check_lining(hy.Trapezoid(bottom_width=2.0, side_slope=3.0), 0.2, 0.0005, load_catalogue().get("concrete"))
+    slow = next(w for w in st.warnings if "silt" in w)
+    assert slow.startswith("velocity 0.420 m/s is below 0.610 m/s, so silt")
+    assert in_units(slow, US).startswith("velocity 1.38 ft/s is below 2.00 ft/s, so silt")  # / 0.3048
+
+
+@pytest.mark.parametrize("units, unit", [(US, "ft^3/s"), (SI, "m^3/s")])
+def test_pipe_capacity_warning_follows_the_units(units, unit):
+    # A pipe carrying more than its full-flow capacity but less than its part-full peak (Chow 1959, Sec. 6-8).
+    pipe = hy.Circle(diameter=0.6)
+    q_full = hy.flow_at_depth(pipe, 0.6, 0.01, 0.013)
+    res = hy.analyse(pipe, 1.03 * q_full, 0.01, 0.013)
+    text = [in_units(w, units) for w in res.warnings if "full-flow capacity" in w]
+    assert len(text) == 1 and f" {unit}): " in text[0]
