@@ -249,17 +249,19 @@ def _texts(texts, lower=False):
     return np.array([mapping[t] for t in texts], dtype=object)
 
 
-def parse_inventory(text: str | bytes, units: str = "us", source: str = "inventory") -> Inventory:
+def parse_inventory(text: str | bytes, units: str = "us", source: str = "inventory", *,
+                    ascii_checked: bool = False) -> Inventory:
     """Read inventory CSV ``text`` in the unit system ``units`` ("us" or "si").
 
-    ``text`` is a str, or bytes of ASCII text (a file that needs no decoding).
+    ``text`` is a str, or bytes of ASCII text (a file that needs no decoding;
+    ``ascii_checked``: the caller has made sure of that).
     Raises InventoryError for a file that cannot be an inventory (empty, no
     header, missing or duplicated columns) and InputError for unknown units.
     Problems of single rows do not raise: they go into ``reaches.notes``.
     """
     system = hu.system(units)
     if isinstance(text, bytes):
-        if not text.isascii():
+        if not (ascii_checked or text.isascii()):
             raise ValueError("parse_inventory takes bytes of ASCII text only; decode other text first")
         if b"\r" not in text and b'"' not in text:  # the common file: pyarrow reads its bytes as they are
             inventory = _parse_arrow(text, system, source)
@@ -447,7 +449,7 @@ def read_inventory(path, units: str = "us") -> Inventory:
     except OSError as exc:
         raise InventoryError(f"cannot read {path}: {exc.strerror or exc}") from None
     if data.isascii():  # no decoding needed (and no byte-order mark): the bytes go to the reader as they are
-        return parse_inventory(data, units, source=str(path))
+        return parse_inventory(data, units, source=str(path), ascii_checked=True)
     return parse_inventory(_decode(data, str(path)), units, source=str(path))
 
 
@@ -466,7 +468,7 @@ def evaluate(inventory: Inventory, progress=None, catalogue=None) -> hb.BatchRes
 # ----------------------------------------------------------------------------- writing
 
 def _quote_field(text: str) -> str:
-    if any(c in text for c in ',"\n\r'):
+    if "," in text or '"' in text or "\n" in text or "\r" in text:
         return '"' + text.replace('"', '""') + '"'
     return text
 

@@ -651,9 +651,11 @@ def _prefix(out, rows, verdict, text):
 
 # ----------------------------------------------------------------------------- driver
 
-def _evaluate_chunk(reaches: Reaches, display, catalogue) -> BatchResult:
+def _evaluate_chunk(reaches: Reaches, display, catalogue, problems=None) -> BatchResult:
+    """Check the reaches of one chunk; ``problems`` is their :func:`screen` (made here if not given)."""
     out = BatchResult.empty(len(reaches))
-    problems = screen(reaches, display)
+    if problems is None:
+        problems = screen(reaches, display)
     bad = problems != ""
     out.verdict[bad] = "invalid"
     out.reason[bad] = problems[bad]
@@ -701,9 +703,10 @@ def evaluate(reaches: Reaches, display: hu.UnitSystem = hu.SI, progress=None, ch
             progress(size, size)
         return out
     out = BatchResult.empty(size)
+    problems = screen(reaches, display)  # once for all: its cost is mostly per call, not per reach
     for start in range(0, size, chunk):
         part = slice(start, min(size, start + chunk))
-        done = _evaluate_chunk(reaches.take(part), display, catalogue)
+        done = _evaluate_chunk(reaches.take(part), display, catalogue, problems[part])
         out._fill(part, done)
         if on_chunk is not None:
             on_chunk(part, done)
