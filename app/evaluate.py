@@ -128,6 +128,17 @@ def design_flow(channel: Channel) -> tuple[float, float | None, list[str], list[
     return q, tc, warns, notes
 
 
+def comparison_choices(channel: Channel) -> list:
+    """The channel's own lining first, then its alternatives (each once)."""
+    out, seen = [], set()
+    for c in ([channel.lining] if channel.lining is not None else []) + list(channel.alternatives):
+        key = (c.key, c.d50)
+        if key not in seen:
+            seen.add(key)
+            out.append(c)
+    return out
+
+
 def evaluate_channel(channel: Channel, catalogue: Catalogue | None = None) -> ChannelDesign:
     """Design flow -> section -> uniform flow -> lining stability -> comparison, for one channel.
 
@@ -185,8 +196,7 @@ def evaluate_channel(channel: Channel, catalogue: Catalogue | None = None) -> Ch
     if channel.alternatives:
         if catalogue is None:
             catalogue = load_default_catalogue()
-        choices = ([channel.lining] if channel.lining is not None else []) + list(channel.alternatives)
-        comparison = compare_linings(section, q, channel.slope, choices, catalogue,
+        comparison = compare_linings(section, q, channel.slope, comparison_choices(channel), catalogue,
                                      bend_radius=channel.bend_radius, min_freeboard=min_fb)
     return ChannelDesign(channel=channel, flow=q, flow_method=channel.flow.method, time_of_concentration=tc,
                          section=section, analysis=analysis, stability=stability, freeboard=fb,

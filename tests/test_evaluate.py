@@ -76,6 +76,14 @@ def test_alternatives_give_comparison_rows_in_order(cat):
     assert d.comparison[0].safety_factor == d.stability.safety_factor
 
 
+def test_an_alternative_that_repeats_a_lining_is_compared_once(cat):
+    ch = Channel(lining=LiningChoice("riprap", 0.2),
+                 alternatives=[LiningChoice("riprap", 0.2), LiningChoice("concrete"), LiningChoice("riprap", 0.3),
+                               LiningChoice("concrete")])
+    d = evaluate_channel(ch, cat)
+    assert [(r.key, r.d50) for r in d.comparison] == [("riprap", 0.2), ("concrete", None), ("riprap", 0.3)]
+
+
 def test_user_catalogue_path_prices_the_comparison(tmp_path):
     user = tmp_path / "linings.toml"
     assert load_default_catalogue(user).get("concrete").unit_cost is None  # no file yet: shipped only

@@ -20,7 +20,7 @@ from hydraulics.curves import rating_curve, specific_energy
 from hydraulics.stability import StabilityResult, compare_linings
 from hydraulics.units import UnitSystem
 
-from ..evaluate import design_flow, evaluate_channel, load_default_catalogue
+from ..evaluate import comparison_choices, design_flow, evaluate_channel, load_default_catalogue
 from ..project import Channel, LiningChoice
 
 #: Core field names as the user reads them (for messages that name a field).
@@ -173,17 +173,6 @@ class ComparisonRow:
     evaluation: Evaluation
     core: object = None                    # hydraulics.stability.ComparisonRow
     cost_per_length: float | None = None   # [currency/m], from the user's unit costs
-
-
-def comparison_choices(channel: Channel) -> list[LiningChoice]:
-    """The channel's own lining first, then its alternatives (each once)."""
-    out, seen = [], set()
-    for c in ([channel.lining] if channel.lining is not None else []) + list(channel.alternatives):
-        key = (c.key, c.d50)
-        if key not in seen:
-            seen.add(key)
-            out.append(c)
-    return out
 
 
 def compare(channel: Channel, units: UnitSystem) -> tuple[list[ComparisonRow], str]:

@@ -507,11 +507,8 @@ def comparison_lines(design: ChannelDesign, f: Formatter) -> tuple[list | None, 
         return None, [], False
     priced = any(r.cost_per_length is not None for r in rows)
     own = design.channel.lining.key if design.channel.lining is not None else None
-    lines, notes, seen = [], [], set()
+    lines, notes = [], []
     for i, r in enumerate(rows):
-        if (r.key, r.d50) in seen:  # an alternative that repeats the channel's lining or another alternative
-            continue
-        seen.add((r.key, r.d50))
         name = r.name + (f", D50 {f.stone(r.d50)}" if r.d50 is not None else "")
         if i == 0 and own is not None and r.key == own:
             name = "* " + name
