@@ -345,8 +345,10 @@ def _parse_arrow(data: bytes, system, source: str):
         return None
     pa, pacsv = modules
     end = data.find(b"\n")
+    if end < 0:
+        return None  # a header only: the Python reader says so
     header = data[:end].decode("utf-8")
-    if end < 0 or not header.strip() or end + 1 == len(data):
+    if not header.strip() or end + 1 == len(data):
         return None  # empty, or a header only: the Python reader says so
     body = data[end + 1:] if data.endswith(b"\n") else data[end + 1:] + b"\n"
     stops = np.flatnonzero(np.frombuffer(body, dtype=np.uint8) == ord("\n"))

@@ -730,3 +730,9 @@ def test_writing_while_checking_gives_the_same_file_and_results(tmp_path, monkey
     np.testing.assert_array_equal(got.normal_depth, expected.normal_depth)
     assert got.verdict.tolist() == expected.verdict.tolist() and got.reason.tolist() == expected.reason.tolist()
     assert got.verdict[5] == "invalid" and got.messages == expected.messages
+
+
+def test_a_header_only_file_without_a_line_end_is_an_empty_inventory():
+    # The header ends in a two-byte UTF-8 character and no line end follows it.
+    inv = ab.parse_inventory(",".join(HEADER) + ",remarqu\u00e9", "us")
+    assert len(inv) == 0 and inv.header[-1] == "remarqu\u00e9"
