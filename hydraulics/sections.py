@@ -190,7 +190,8 @@ class Trapezoid(Section):
     def _critical_guess(self, flow):
         # The smaller of the rectangle (q^2/g)^(1/3) and triangle (2 Q^2 / (g zm^2))^(1/5) depths.
         b, zm = self.bottom_width, 0.5 * self._zsum
-        with np.errstate(divide="ignore"):
+        # A nearly vertical V (zm ~ 1e-160) overflows to an infinite triangle estimate: the other one is used.
+        with np.errstate(divide="ignore", over="ignore"):
             rect = np.where(np.asarray(b) > 0, (flow * flow / (G * np.square(b))) ** (1 / 3), np.inf)
             tri = np.where(np.asarray(zm) > 0, (2 * flow * flow / (G * np.square(zm))) ** 0.2, np.inf)
         guess = np.minimum(rect, tri)
