@@ -22,6 +22,7 @@ from app import batch as ab
 from app.main import main
 from hydraulics import batch as hb
 from hydraulics import units as hu
+from inventory_rows import section_of, shape_fields
 
 HEADER = list(ab.INPUT_COLUMNS)
 CASES = tomllib.loads((Path(__file__).parent / "data" / "published_cases.toml").read_text())["case"]
@@ -59,30 +60,17 @@ def generated_rows(size, seed, units):
         r = {"id": f"G{i}", "shape": kind, "slope": f"{10 ** rng.uniform(-3.5, -1):.6g}",
              "flow": f"{10 ** rng.uniform(-1.5, 1.5):.6g}", "n": f"{rng.uniform(0.011, 0.06):.4f}",
              "road": f"road {i % 3}"}
-        if kind in ("trapezoid", "rectangle"):
-            r["bottom_width"] = f"{rng.uniform(0.3, 4.0):.3f}"
-        if kind in ("trapezoid", "triangle"):
-            r["left_slope"] = f"{rng.uniform(0.5, 4.0):.2f}"
-            r["right_slope"] = f"{rng.uniform(0.5, 6.0):.2f}"
-        if kind == "circle":
-            r["diameter"] = f"{rng.uniform(0.3, 2.0):.3f}"
+        r.update(shape_fields(kind, bottom_width=lambda: f"{rng.uniform(0.3, 4.0):.3f}",
+                              left_slope=lambda: f"{rng.uniform(0.5, 4.0):.2f}",
+                              right_slope=lambda: f"{rng.uniform(0.5, 6.0):.2f}",
+                              diameter=lambda: f"{rng.uniform(0.3, 2.0):.3f}"))
         rows.append(r)
     return rows
 
 
 def scalar_reference(row, system):
     """One reach by the scalar API in SI: ChannelResult, or None when the core refuses it (no solution)."""
-    length = lambda k: system.to_si("length", float(row[k]))  # noqa: E731
-    kind = row["shape"]
-    if kind == "trapezoid":
-        sec = hy.Trapezoid(bottom_width=length("bottom_width"), left_slope=float(row["left_slope"]),
-                           right_slope=float(row["right_slope"]))
-    elif kind == "triangle":
-        sec = hy.Triangle(left_slope=float(row["left_slope"]), right_slope=float(row["right_slope"]))
-    elif kind == "rectangle":
-        sec = hy.Rectangle(bottom_width=length("bottom_width"))
-    else:
-        sec = hy.Circle(diameter=length("diameter"))
+    sec = section_of(row, system)
     try:
         return hy.analyse(sec, system.to_si("flow", float(row["flow"])), float(row["slope"]), float(row["n"]))
     except hy.NoSolutionError:

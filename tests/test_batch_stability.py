@@ -17,6 +17,7 @@ import hydraulics as hy
 from app import batch as ab
 from hydraulics import batch as hb
 from hydraulics.stability import check_lining
+from inventory_rows import section_of, shape_fields
 
 KEYS = ["riprap", "gravel", "grass_good_sod", "grass_poor_bunch", "concrete", "soil_fine_noncohesive"]
 
@@ -30,28 +31,16 @@ def random_lined_rows(size, seed):
         r = dict.fromkeys(ab.INPUT_COLUMNS, "")
         r.update(id=f"S{i}", shape=kind, slope=f"{10 ** rng.uniform(-3, -0.7):.5f}",
                  flow=f"{10 ** rng.uniform(-1, 1):.4f}", lining=key)
-        if kind in ("trapezoid", "rectangle"):
-            r["bottom_width"] = f"{rng.uniform(0.3, 3):.3f}"
-        if kind in ("trapezoid", "triangle"):
-            r["left_slope"] = f"{rng.choice([1.0, 1.5, 2.0, 3.0, 4.0])}"
-            r["right_slope"] = f"{rng.choice([1.5, 2.0, 3.0, 6.0])}"
-        if kind == "circle":
-            r["diameter"] = f"{rng.uniform(1.0, 3):.3f}"
+        r.update(shape_fields(kind, bottom_width=lambda: f"{rng.uniform(0.3, 3):.3f}",
+                              left_slope=lambda: f"{rng.choice([1.0, 1.5, 2.0, 3.0, 4.0])}",
+                              right_slope=lambda: f"{rng.choice([1.5, 2.0, 3.0, 6.0])}",
+                              diameter=lambda: f"{rng.uniform(1.0, 3):.3f}"))
         if key == "riprap" and i % 3 == 0:
             r["d50"] = f"{rng.uniform(0.05, 0.5):.3f}"
         if i % 5 == 0:
             r["n"] = f"{rng.uniform(0.02, 0.05):.3f}"
         rows.append(r)
     return rows
-
-
-def section_of(r):
-    v = lambda k: float(r[k]) if r[k] else None  # noqa: E731
-    return {"trapezoid": lambda: hy.Trapezoid(bottom_width=v("bottom_width"), left_slope=v("left_slope"),
-                                              right_slope=v("right_slope")),
-            "triangle": lambda: hy.Triangle(left_slope=v("left_slope"), right_slope=v("right_slope")),
-            "rectangle": lambda: hy.Rectangle(bottom_width=v("bottom_width")),
-            "circle": lambda: hy.Circle(diameter=v("diameter"))}[r["shape"]]()
 
 
 @pytest.mark.parametrize("seed", [5, 6])
