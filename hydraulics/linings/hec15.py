@@ -728,23 +728,9 @@ def required_d50_for_shear(design_shear_value, depth, slope, gamma_stone=GAMMA_S
     the particle Reynolds number keeps the shear velocity of the straight
     channel at its maximum depth, as in Eq. 6.9.
 
-    Parameters
-    ----------
-    design_shear_value : float
-        Shear the stone must resist [Pa], > 0.
-    depth : float
-        Maximum flow depth d [m], > 0 (for Re*).
-    slope : float
-        Channel slope S [m/m] (for Re*).
-    gamma_stone, gamma_water : float
-        Specific weights [N/m^3].
-    nu : float
-        Kinematic viscosity [m^2/s] (1.131e-6 in HEC-15).
-
-    Returns
-    -------
-    StoneSize
-        (d50 [m], shields F*, safety_factor SF, reynolds Re*).
+    Parameters and result are those of :func:`required_d50` (single values
+    here, depth and slope for Re* only), with ``design_shear_value`` the
+    shear the stone must resist [Pa], > 0.
 
     Notes
     -----
