@@ -219,8 +219,8 @@ class StabilityResult:
         c = self.governing_check()
         text = f"{self.verdict}, {c.words(units)}"
         if self.required_d50 is not None and self.d50 is not None:
-            text += (f"; smallest stable D50 {format_quantity(self.required_d50, 'length', units)} "
-                     f"(given {format_quantity(self.d50, 'length', units)})")
+            text += (f"; smallest stable D50 {format_quantity(self.required_d50, 'small_length', units)} "
+                     f"(given {format_quantity(self.d50, 'small_length', units)})")
         return text
 
     def freeboard_rule(self, units: UnitSystem = SI) -> str:

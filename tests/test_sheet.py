@@ -552,7 +552,7 @@ def test_stability_block_reads_back_with_units(project, pages):
         assert float(required) == 1.0 and result == "passes"
     # the verdict's reason names the governing check with its units, and the smallest stable stone
     assert re.search(r"Reason: stable, bend: 53\.3 Pa against 113 Pa permissible \(safety factor 2\.13, 1\.00 "
-                     r"needed\); smallest stable D50 0\.0558 m \(given 0\.150 m\)", text)
+                     r"needed\); smallest stable D50 55\.8 mm \(given 150 mm\)", text)
     assert "Required D50 0.0558 m (55.8 mm) smallest stable, given D50 enough" in text
     assert "layer thickness t 0.225 m (225 mm)" in text  # 1.5 D50 (common practice)
     # freeboard: the minimum plus the superelevation V^2 T / (g Rc) (HEC-15 Section 3.4, from memory)
@@ -582,7 +582,7 @@ def test_failing_stone_lining_prints_not_stable_and_the_required_d50(project, pa
     assert reynolds < 4e4 and "F* 0.047" in text
     assert float(bed[1]) == _approx3(0.047 * (GAMMA_STONE - GAMMA) * 0.025)
     m = re.search(r"Reason: not stable, side slopes: ([0-9.]+) Pa against ([0-9.]+) Pa permissible "
-                  r"\(safety factor ([0-9.]+), 1\.00 needed\); smallest stable D50 ([0-9.]+) m \(given 0\.0250 m\)",
+                  r"\(safety factor ([0-9.]+), 1\.00 needed\); smallest stable D50 ([0-9.]+) mm \(given 25\.0 mm\)",
                   text)
     assert m, "the reason of a failing lining"
     assert (m.group(1), m.group(2), m.group(3)) == (sides[0], sides[1], sides[2])
@@ -592,7 +592,7 @@ def test_failing_stone_lining_prints_not_stable_and_the_required_d50(project, pa
                     r"\(bed ([0-9.]+) m, side slopes ([0-9.]+) m at depth ([0-9.]+) m; HEC-15 Eq. 6.8\)", text)
     assert req, "the required D50"
     d_m, d_mm, d_bed, d_side, depth = (float(v) for v in req.groups())
-    assert d_m == float(m.group(4)) and d_mm == pytest.approx(d_m * 1000, rel=3e-3)
+    assert float(m.group(4)) == pytest.approx(d_m * 1000, rel=3e-3) and d_mm == pytest.approx(d_m * 1000, rel=3e-3)
     assert d_m == max(d_bed, d_side)
     slope = project.channel("North cut ditch").slope
     assert d_bed == pytest.approx(GAMMA * depth * slope / (0.047 * (GAMMA_STONE - GAMMA)), rel=4e-3)
