@@ -37,8 +37,8 @@ from hydraulics import batch as hb
 from hydraulics.linings import hec15
 from hydraulics import units as hu
 
-from .files import write_atomic
-from .numtext import PendingRows, format_rows, format_rows_parallel
+from .files import atomic_writer, write_atomic
+from .numtext import format_rows, format_rows_parallel
 
 INPUT_COLUMNS = ("id", "shape", "bottom_width", "left_slope", "right_slope", "diameter", "slope", "flow", "lining",
                  "d50", "n")
@@ -79,12 +79,40 @@ class Inventory:
     header_text: str        # the header line, CSV-encoded
     records: object         # per record its fields as CSV text (carried through unchanged): a list, or Records
     lines: np.ndarray       # per record: the line number where it starts (the header is line 1)
-    ids: list               # per record: the id as written (surrounding blanks kept)
+    id_values: object       # per record: the id as written (surrounding blanks kept): a list, or pyarrow's column
     reaches: hb.Reaches
     blank_lines: list = field(default_factory=list)
 
     def __len__(self):
         return len(self.records)
+
+    @property
+    def ids(self) -> list:
+        """Per record: the id as written, as a list of str (made from pyarrow's column on first use)."""
+        if not isinstance(self.id_values, list):
+            self.id_values = self.id_values.to_pylist()
+        return self.id_values
+
+    def id_at(self, i: int) -> str:
+        """The id of record ``i`` without surrounding blanks."""
+        value = self.id_values[i]
+        return (value if isinstance(value, str) else value.as_py()).strip()
+
+    def duplicate_ids(self) -> list:
+        """Ids (without surrounding blanks) that appear more than once, in the order their repeats appear."""
+        if not isinstance(self.id_values, list):  # the usual case, all different, found without a list
+            import pyarrow.compute as pc
+
+            if pc.count_distinct(self.id_values).as_py() == len(self):
+                return []
+        return _duplicates(self.ids)
+
+    def blank_id_count(self) -> int:
+        if not isinstance(self.id_values, list):
+            import pyarrow.compute as pc
+
+            return int(pc.sum(pc.equal(pc.utf8_trim_whitespace(self.id_values), "")).as_py() or 0)
+        return sum(1 for i in self.id_values if not i.strip())
 
     @property
     def rows(self) -> list:
@@ -307,7 +335,7 @@ def parse_inventory(text: str | bytes, units: str = "us", source: str = "invento
     reaches = hb.Reaches(shape=_texts(col["shape"], lower=True), lining=_texts(col["lining"]), notes=notes,
                          unreadable=unreadable, **numbers)
     return Inventory(source=source, units=system, header=names, header_text=header_text, records=rows, lines=lines,
-                     ids=col["id"], reaches=reaches, blank_lines=blank)
+                     id_values=col["id"], reaches=reaches, blank_lines=blank)
 
 
 # A file without quotes whose every line is a record of the header's width (no blank lines, no ragged
@@ -386,7 +414,7 @@ def _parse_arrow(data: bytes, system, source: str):
                          lining=np.array(lining_texts, dtype=object)[lining], notes=notes, unreadable=unreadable,
                          kind=kind, named=named, **numbers)
     return Inventory(source=source, units=system, header=names, header_text=header, records=Records(body, starts),
-                     lines=np.arange(2, size + 2), ids=table.column(col["id"]).to_pylist(), reaches=reaches,
+                     lines=np.arange(2, size + 2), id_values=table.column(col["id"]), reaches=reaches,
                      blank_lines=[])
 
 
@@ -507,19 +535,16 @@ def _workers() -> int:
     return min(2, os.cpu_count() or 1)
 
 
-def _results_pieces(inventory: Inventory, result: hb.BatchResult, numbers: PendingRows | None = None) -> list:
-    """The results file as a few bytes-like pieces to be written one after the other (no copy joins them).
-
-    ``numbers``: the result numbers already being formatted (see :func:`check_and_write`).
-    """
+def _results_pieces(inventory: Inventory, result: hb.BatchResult) -> list:
+    """The results file as a few bytes-like pieces to be written one after the other (no copy joins them)."""
     size = len(inventory)
-    head = (inventory.header_text + "," + ",".join(RESULT_COLUMNS) + "\n").encode("utf-8")
+    head = _results_head(inventory)
     # The numbers are formatted by worker threads (numpy work, without the GIL) while this thread makes
     # the verdict and reason texts (Python work, with it): on two cores the two overlap.
-    workers = _workers() if numbers is None else 1
+    workers = _workers()
     with ThreadPoolExecutor(workers) if workers > 1 else nullcontext() as pool:
-        pending = numbers if numbers is not None else format_rows_parallel(
-            _number_table(inventory, result), DIGITS, comma_after_last=True, pool=pool, parts=workers)
+        pending = format_rows_parallel(_number_table(inventory, result), DIGITS, comma_after_last=True, pool=pool,
+                                       parts=workers)
         reasons = result.reason.tolist()
         verdicts = result.verdict.tolist()
         modules = _pyarrow()
@@ -532,71 +557,64 @@ def _results_pieces(inventory: Inventory, result: hb.BatchResult, numbers: Pendi
             parts[4::5] = map(quoted.__getitem__, reasons)
             parts[2::5] = pending.result().tolist()
             return [head, "".join(parts).encode("utf-8")]
-        # pyarrow: the four pieces of every row ("row," "numbers," "verdict," "reason\n") joined in C++
         pa = modules[0]
-        import pyarrow.compute as pc
-
-        text = pa.large_string()  # 64-bit offsets: no limit of 2 GB on the file
-        records = inventory.records
-        if isinstance(records, Records):  # the file's own bytes; each line end becomes the comma after the row
-            rows = pa.LargeStringArray.from_buffers(
-                size, pa.py_buffer(np.append(records.starts, len(records.body)).astype(np.int64)),
-                pa.py_buffer(records.body.replace(b"\n", b",")))
-        else:
-            rows = pc.binary_join_element_wise(pa.array(records, type=text), pa.scalar("", type=text),
-                                               pa.scalar(",", type=text))
-        verdict_texts = _coded(pa, verdicts, lambda v: v + ",")
-        reason_texts = _coded(pa, reasons, lambda r: _quote_field(r) + "\n")
+        rows = _row_array(pa, inventory)
+        verdict_texts, reason_texts = _verdict_texts(pa, verdicts), _reason_texts(pa, reasons)
         numbers = pending.result()
+    return [head, _joined_lines(pa, rows, numbers, verdict_texts, reason_texts)]
+
+
+def _results_head(inventory: Inventory) -> bytes:
+    return (inventory.header_text + "," + ",".join(RESULT_COLUMNS) + "\n").encode("utf-8")
+
+
+def _row_array(pa, inventory: Inventory):
+    """Every input row's text followed by a comma, as a pyarrow large_string array (64-bit offsets: no 2 GB limit)."""
+    records, size = inventory.records, len(inventory)
+    if isinstance(records, Records):  # the file's own bytes; each line end becomes the comma after the row
+        return pa.LargeStringArray.from_buffers(
+            size, pa.py_buffer(np.append(records.starts, len(records.body)).astype(np.int64)),
+            pa.py_buffer(records.body.replace(b"\n", b",")))
+    import pyarrow.compute as pc
+
+    text = pa.large_string()
+    return pc.binary_join_element_wise(pa.array(records, type=text), pa.scalar("", type=text),
+                                       pa.scalar(",", type=text))
+
+
+def _joined_lines(pa, rows, numbers, verdict_texts, reason_texts) -> memoryview:
+    """The results lines ("row," "numbers," "verdict," "reason\\n") of some reaches, joined in C++, as bytes."""
+    import pyarrow.compute as pc
+
+    text = pa.large_string()
+    size = len(rows)
     lines = pc.binary_join_element_wise(
         rows, pa.LargeStringArray.from_buffers(size, pa.py_buffer(numbers.offsets()), pa.py_buffer(numbers.data)),
-        verdict_texts, reason_texts, pa.scalar("", type=text))
+        verdict_texts.cast(text), reason_texts.cast(text), pa.scalar("", type=text))
     offsets = np.frombuffer(lines.buffers()[1], dtype=np.int64, count=size + 1, offset=8 * lines.offset)
-    return [head, memoryview(lines.buffers()[2])[offsets[0]:offsets[-1]]]
+    return memoryview(lines.buffers()[2])[offsets[0]:offsets[-1]]
+
+
+def _verdict_texts(pa, verdicts: list):
+    return _coded(pa, verdicts, lambda v: v + ",")
+
+
+def _reason_texts(pa, reasons: list):
+    return _coded(pa, reasons, lambda r: _quote_field(r) + "\n")
 
 
 def _coded(pa, values: list, text_of):
-    """A pyarrow large_string array of ``text_of(v)`` for each of ``values``, each distinct text made once."""
+    """A pyarrow dictionary array of ``text_of(v)`` for each of ``values``, each distinct text made once."""
     distinct = list(dict.fromkeys(values))
     code = {v: i for i, v in enumerate(distinct)}
     indices = np.fromiter(map(code.__getitem__, values), dtype=np.int32, count=len(values))
     texts = pa.array([text_of(v) for v in distinct], type=pa.large_string())
-    return pa.DictionaryArray.from_arrays(pa.array(indices), texts).cast(pa.large_string())
+    return pa.DictionaryArray.from_arrays(pa.array(indices), texts)
 
 
 def write_results(path, inventory: Inventory, result: hb.BatchResult) -> None:
     """Write the results file atomically (a half-written file never replaces a good one), UTF-8."""
     write_atomic(path, _results_pieces(inventory, result))
-
-
-#: Reaches per chunk in :func:`check_and_write`: small enough that formatting overlaps computing.
-WRITE_CHUNK = 25_000
-
-
-def check_and_write(path, inventory: Inventory, progress=None, catalogue=None) -> hb.BatchResult:
-    """:func:`evaluate`, then :func:`write_results` to ``path``; returns the results.
-
-    On a machine with two cores or more, the reaches are checked in chunks
-    of :data:`WRITE_CHUNK` and the numbers of each chunk are formatted by a
-    worker thread while the next chunk is computed (the computing holds
-    Python's GIL much of the time, the formatting hardly at all). The file
-    is the same either way.
-    """
-    if _workers() < 2 or len(inventory) < 2 * WRITE_CHUNK:
-        result = evaluate(inventory, progress, catalogue)
-        write_results(path, inventory, result)
-        return result
-    with ThreadPoolExecutor(_workers()) as pool:
-        blocks = []
-
-        def start_formatting(part, done):
-            blocks.append(pool.submit(format_rows, _number_table(inventory, done), DIGITS, True))
-
-        result = hb.evaluate(inventory.reaches, display=inventory.units, progress=progress, chunk=WRITE_CHUNK,
-                             catalogue=catalogue, on_chunk=start_formatting)
-        pieces = _results_pieces(inventory, result, numbers=PendingRows(blocks))
-    write_atomic(path, pieces)
-    return result
 
 
 def result_table(inventory: Inventory, result: hb.BatchResult):
@@ -612,12 +630,54 @@ def result_table(inventory: Inventory, result: hb.BatchResult):
     return columns, list(reader)
 
 
+#: Reaches per chunk in :func:`check_and_write`: small enough that formatting overlaps computing.
+WRITE_CHUNK = 25_000
+
+
+def check_and_write(path, inventory: Inventory, progress=None, catalogue=None) -> hb.BatchResult:
+    """:func:`evaluate`, then :func:`write_results` to ``path``; returns the results.
+
+    On a machine with two cores or more, the reaches are checked in chunks
+    of :data:`WRITE_CHUNK`, and a worker thread formats each chunk's numbers,
+    assembles its lines and writes them to the temporary file while this
+    thread checks the next chunk (the checking holds Python's GIL much of
+    the time, the formatting, joining and writing hardly at all). The file
+    replaces ``path`` only when every chunk is written, and it is the same
+    byte for byte either way.
+    """
+    modules = _pyarrow()
+    if modules is None or _workers() < 2 or len(inventory) < 2 * WRITE_CHUNK:
+        result = evaluate(inventory, progress, catalogue)
+        write_results(path, inventory, result)
+        return result
+    pa = modules[0]
+    rows = _row_array(pa, inventory)
+    blocks = []
+    # The pool is left before the writer: every block is written (or has failed) before the file is replaced.
+    with atomic_writer(path) as fh, ThreadPoolExecutor(1) as pool:  # one worker: the blocks are written in order
+        fh.write(_results_head(inventory))
+
+        def write_block(rows, table, verdict_texts, reason_texts):
+            fh.write(_joined_lines(pa, rows, format_rows(table, DIGITS, True), verdict_texts, reason_texts))
+
+        def start_block(part, done):
+            blocks.append(pool.submit(write_block, rows.slice(part.start, part.stop - part.start),
+                                      _number_table(inventory, done), _verdict_texts(pa, done.verdict.tolist()),
+                                      _reason_texts(pa, done.reason.tolist())))
+
+        result = hb.evaluate(inventory.reaches, display=inventory.units, progress=progress, chunk=WRITE_CHUNK,
+                             catalogue=catalogue, on_chunk=start_block)
+        for block in blocks:
+            block.result()  # a block's error (a full disk, say) is raised here, and the file is not replaced
+    return result
+
+
 # ----------------------------------------------------------------------------- reporting
 
 def problem_rows(inventory: Inventory, result: hb.BatchResult):
     """[(line, id, verdict, reason)] for every reach that is invalid or has no solution, in file order."""
     bad = [i for i, v in enumerate(result.verdict.tolist()) if v in ("invalid", "no-solution")]
-    return [(int(inventory.lines[i]), inventory.ids[i].strip(), result.verdict[i], result.reason[i]) for i in bad]
+    return [(int(inventory.lines[i]), inventory.id_at(i), result.verdict[i], result.reason[i]) for i in bad]
 
 
 def summary(inventory: Inventory, result: hb.BatchResult, seconds: float | None = None) -> str:
@@ -643,7 +703,7 @@ def summary(inventory: Inventory, result: hb.BatchResult, seconds: float | None 
             worst = int(np.argmax(np.where(held, ratio, -np.inf)))
             text += (f" median {np.median(ratio[checked]):.2f}, above 1 on {int((ratio[checked] > 1).sum()):,}, "
                      f"largest finite {ratio[worst]:.2f} (line {inventory.lines[worst]}, "
-                     f"id {inventory.ids[worst].strip()!r})")
+                     f"id {inventory.id_at(worst)!r})")
         if (checked & ~held).any():
             text += f"; {int((checked & ~held).sum()):,} with stone that cannot rest on its side slopes"
         out.append(text)
@@ -653,7 +713,7 @@ def summary(inventory: Inventory, result: hb.BatchResult, seconds: float | None 
     if np.isfinite(shear).any():
         worst = int(np.nanargmax(shear))
         out.append(f"  largest bed shear {units.from_si('shear', float(shear[worst])):.3g} {units.label('shear')} "
-                   f"(line {inventory.lines[worst]}, id {inventory.ids[worst].strip()!r})")
+                   f"(line {inventory.lines[worst]}, id {inventory.id_at(worst)!r})")
     for message in result.messages[:MAX_MESSAGES]:
         out.append(f"  note: {message}")
     if len(result.messages) > MAX_MESSAGES:
@@ -664,11 +724,11 @@ def summary(inventory: Inventory, result: hb.BatchResult, seconds: float | None 
                    f"its normal depth plus {fb:.2g} {units.label('length')} (HEC-15 Section 2, from memory; local "
                    "codes govern)")
     out.append("  results assist design: a licensed engineer checks them against local codes")
-    duplicated = _duplicates(inventory.ids)
+    duplicated = inventory.duplicate_ids()
     if duplicated:
         out.append(f"  note: {len(duplicated):,} id{'s' if len(duplicated) > 1 else ''} appear more than once "
                    f"(first: {duplicated[0]!r}); every row is still checked")
-    blank_ids = sum(1 for i in inventory.ids if not i.strip())
+    blank_ids = inventory.blank_id_count()
     if blank_ids:
         out.append(f"  note: {blank_ids:,} row{'s have' if blank_ids > 1 else ' has'} no id; "
                    "they are still checked and named by line number")
@@ -802,7 +862,7 @@ class BatchRun:
         value = lambda a, i: None if math.isnan(a[i]) else float(a[i])  # noqa: E731
         for i in rows:
             if res.verdict[i] == "invalid":
-                skipped.append((int(inv.lines[i]), inv.ids[i].strip(), res.reason[i]))
+                skipped.append((int(inv.lines[i]), inv.id_at(i), res.reason[i]))
                 continue
             kind = r.shape[i]
             section = {"shape": kind}
@@ -813,7 +873,7 @@ class BatchRun:
             lining = LiningChoice(r.lining[i], value(r.d50, i) or None) if r.lining[i] else None
             fields = _row_fields(inv, i) if extra else []
             notes = "; ".join(f"{name}: {fields[j]}" for j, name in extra if j < len(fields) and fields[j])
-            channels.append(Channel(name=inv.ids[i].strip() or f"line {inv.lines[i]}",
+            channels.append(Channel(name=inv.id_at(i) or f"line {inv.lines[i]}",
                                     flow=FlowBasis("typed", float(r.flow[i])), slope=float(r.slope[i]),
                                     section=section, lining=lining,
                                     manning_n=value(r.n, i), notes=notes))

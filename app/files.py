@@ -4,26 +4,24 @@ from __future__ import annotations
 
 import os
 import tempfile
+from contextlib import contextmanager
 from pathlib import Path
 
 
-def write_atomic(path, data) -> None:
-    """Write ``data`` to ``path`` through a temporary file in the same folder, then replace in one step.
+@contextmanager
+def atomic_writer(path):
+    """A binary file to write ``path`` through: a temporary file in the same folder, replacing ``path`` in one step
+    when the block ends without an error.
 
     The temporary file is flushed and synced before ``os.replace``, so the
     target holds either its old content or the new, never a mixture; on any
     error the temporary file is removed and the old file is left as it was.
-    ``data`` is text (written as UTF-8 with the newlines as given), bytes,
-    or a list of bytes-like pieces written one after the other.
     """
     path = Path(path)
-    pieces = data if isinstance(data, list) else [data]
-    pieces = [p.encode("utf-8") if isinstance(p, str) else p for p in pieces]
     fd, tmp = tempfile.mkstemp(prefix=f".{path.name}.", suffix=".tmp", dir=path.parent)
     try:
         with os.fdopen(fd, "wb") as fh:
-            for piece in pieces:
-                fh.write(piece)
+            yield fh
             fh.flush()
             os.fsync(fh.fileno())
         os.replace(tmp, path)
@@ -33,3 +31,15 @@ def write_atomic(path, data) -> None:
         except FileNotFoundError:
             pass
         raise
+
+
+def write_atomic(path, data) -> None:
+    """Write ``data`` to ``path`` through :func:`atomic_writer`.
+
+    ``data`` is text (written as UTF-8 with the newlines as given), bytes,
+    or a list of bytes-like pieces written one after the other.
+    """
+    pieces = data if isinstance(data, list) else [data]
+    with atomic_writer(path) as fh:
+        for piece in pieces:
+            fh.write(piece.encode("utf-8") if isinstance(piece, str) else piece)

@@ -51,6 +51,7 @@ from .sections import Circle, Trapezoid
 from .stability import shear_checks
 from .solvers import flow_at_depth, max_flow
 from .validate import MAX_SLOPE
+from .wording import in_units
 
 #: Shapes an inventory row may name (a parabola needs two dimensions an inventory does not carry).
 SHAPES = ("trapezoid", "triangle", "rectangle", "circle")
@@ -529,11 +530,11 @@ def check_linings(reaches: Reaches, idx, out: BatchResult, display: hu.UnitSyste
                 _set(out, group, "not-checked", f"{exc}; nothing computed")
                 continue
             solved = solve_hydraulics(reaches, group, rough, out, display)
-            _roughness_ranges(lining, rough, reaches, group[solved], out)
+            _roughness_ranges(lining, rough, reaches, group[solved], out, display)
             assess_stability(lining, reaches, group[solved], out, display, n_given=False)
 
 
-def _roughness_ranges(lining, rough, reaches, rows, out):
+def _roughness_ranges(lining, rough, reaches, rows, out, display):
     """The roughness model's range warnings for the solved reaches ``rows``, once per lining, into out.messages."""
     if not hasattr(rough, "check") or not len(rows):
         return
@@ -541,7 +542,7 @@ def _roughness_ranges(lining, rough, reaches, rows, out):
     for make, part in ((_open_section, rows[~pipe]), (_pipe_section, rows[pipe])):
         if len(part):
             for text in rough.check(make(reaches, part), out.normal_depth[part], reaches.slope[part]):
-                note = f"lining {lining.key!r}: {text}"
+                note = f"lining {lining.key!r}: {in_units(text, display)}"
                 if note not in out.messages:
                     out.messages.append(note)
 
@@ -582,7 +583,8 @@ def assess_stability(lining, reaches: Reaches, rows, out: BatchResult, display: 
                                            "(common practice)")
         return
     for w in caught:
-        note = f"lining {lining.key!r}: {w.message}"
+        text = w.message.args[0] if w.message.args else str(w.message)
+        note = f"lining {lining.key!r}: {in_units(text, display)}"
         if note not in out.messages:
             out.messages.append(note)
     gov = sc.governing()

@@ -724,3 +724,54 @@ def test_a_header_only_file_without_a_line_end_is_an_empty_inventory():
     # The header ends in a two-byte UTF-8 character and no line end follows it.
     inv = ab.parse_inventory(",".join(HEADER) + ",remarqu\u00e9", "us")
     assert len(inv) == 0 and inv.header[-1] == "remarqu\u00e9"
+
+
+def test_a_block_that_cannot_be_written_leaves_the_old_results_file(tmp_path, monkeypatch):
+    rows = generated_rows(400, seed=11, units="us") * 5
+    source, target = tmp_path / "inv.csv", tmp_path / "out.csv"
+    source.write_text(csv_text(rows, HEADER + ["road"]), encoding="utf-8")
+    target.write_text("old results\n", encoding="utf-8")
+    inv = ab.read_inventory(source, "us")
+    monkeypatch.setattr(ab.os, "cpu_count", lambda: 2)
+    monkeypatch.setattr(ab, "WRITE_CHUNK", 500)
+    calls = []
+
+    def failing(*args, **kwargs):
+        calls.append(1)
+        if len(calls) == 2:
+            raise OSError(28, "No space left on device")
+        return format_rows(*args, **kwargs)
+
+    from app.numtext import format_rows
+    monkeypatch.setattr(ab, "format_rows", failing)
+    with pytest.raises(OSError, match="No space"):
+        ab.check_and_write(target, inv)
+    assert target.read_text(encoding="utf-8") == "old results\n"
+    assert sorted(p.name for p in tmp_path.iterdir()) == ["inv.csv", "out.csv"]
+
+
+@pytest.mark.parametrize("quoted", [False, True], ids=["pyarrow reader", "csv module reader"])
+def test_repeated_and_blank_ids_are_noted_and_every_row_checked(quoted):
+    ids = ["A", "B", " A ", "", "C", "B", "  "]
+    rows = [{**GOOD, "id": i} for i in ids]
+    if quoted:
+        rows.append({**GOOD, "id": "D", "road": "Route 9, east"})  # a comma in a field: the file quotes it
+    inv = ab.parse_inventory(csv_text(rows, HEADER + ["road"]), "us")
+    res = ab.evaluate(inv)
+    assert (res.verdict == "hydraulics-only").all()
+    assert inv.duplicate_ids() == ["A", "B"] and inv.blank_id_count() == 2
+    assert [inv.id_at(i) for i in range(4)] == ["A", "B", "A", ""]
+    text = ab.summary(inv, res)
+    assert "2 ids appear more than once (first: 'A')" in text
+    assert "2 rows have no id" in text
+    unique = ab.parse_inventory(csv_text([{**GOOD, "id": f"U{i}"} for i in range(5)], HEADER), "us")
+    assert unique.duplicate_ids() == [] and unique.blank_id_count() == 0
+
+
+def test_group_notes_quote_the_inventory_units():
+    # Riprap of 0.03 ft (9.1 mm) is below the 15 mm that HEC-15 Chapter 6 covers (verified).
+    rows = [{**GOOD, "id": f"r{i}", "lining": "riprap", "n": "", "d50": d} for i, d in enumerate(["0.03", "0.04"])]
+    inv = ab.parse_inventory(csv_text(rows, HEADER), "us")
+    res = ab.evaluate(inv)
+    assert "lining 'riprap': D50 = 0.360 in is outside the 0.591 in to 21.7 in range" in res.messages[0]
+    assert not any(" mm" in m for m in res.messages)

@@ -329,7 +329,10 @@ def test_bad_inputs_name_their_field(cat, kwargs, field):
 
 def test_stone_outside_chapter_6_range_is_warned(cat):
     r = check_lining(hy.Trapezoid(bottom_width=3.0, side_slope=3.0), 2.0, 0.001, cat.get("riprap"), d50=0.01)
-    assert any("15 to 550 mm" in w for w in r.warnings)
+    # HEC-15 Chapter 6 covers 15 mm to 550 mm stone (verified); the warning restates itself in inches
+    assert any("D50 = 10.0 mm is outside the 15.0 mm to 550 mm range" in w for w in r.warnings)
+    assert any("D50 = 0.394 in is outside the 0.591 in to 21.7 in range" in in_units(w, hy.units.US)
+               for w in r.warnings)
 
 
 def test_min_safety_factor_raises_the_requirement(cat):

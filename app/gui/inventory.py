@@ -641,7 +641,7 @@ class InventoryDialog(QDialog):
             return
         i = int(self.model.shown[chosen[0].row()])
         inv, res = self.run.inventory, self.run.result
-        ident = inv.ids[i].strip() or "no id"
+        ident = inv.id_at(i) or "no id"
         verdict, reason = str(res.verdict[i]), pretty(res.reason[i])
         told = reason if reason.lower().startswith(verdict) else f"{verdict}. {reason}"
         self.detail.setText(f"Line {int(inv.lines[i])}, {ident}: {told}")

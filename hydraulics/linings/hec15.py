@@ -619,12 +619,11 @@ def _stone_size_warning(d50):
     lo, hi = STONE_SIZE_RANGE
     d = np.asarray(d50)
     if np.any((d < lo) | (d > hi)):
-        if d.ndim == 0:
-            _warn(worded("D50 = {d} is outside the {lo} to {hi} range of the HEC-15 Chapter 6 procedures",
-                         d=(float(d), "small_length"), lo=(lo, "small_length"), hi=(hi, "small_length")))
-        else:
-            _warn(f"D50 = {_span(d, 1000.0, '.4g')} mm is outside the {lo * 1000:g} to {hi * 1000:g} mm range "
-                  "of the HEC-15 Chapter 6 procedures")
+        smallest, largest = float(d.min()), float(d.max())
+        sizes = {"d": (smallest, "small_length")} if smallest == largest else \
+            {"d": (smallest, "small_length"), "d_max": (largest, "small_length")}
+        _warn(worded("D50 = {d}" + (" to {d_max}" if len(sizes) > 1 else "") + " is outside the {lo} to {hi} range "
+                     "of the HEC-15 Chapter 6 procedures", lo=(lo, "small_length"), hi=(hi, "small_length"), **sizes))
 
 
 class StoneSize(NamedTuple):
