@@ -665,7 +665,7 @@ def _evaluate_chunk(reaches: Reaches, display, catalogue, problems=None) -> Batc
     named = valid & reaches.named
     plain = np.flatnonzero(valid & ~named)
     solved = solve_hydraulics(reaches, plain, reaches.n[plain], out, display)
-    _prefix(out, plain[solved], "hydraulics-only", "no lining named: shear not compared with a permissible value")
+    _prefix(out, plain[solved], "hydraulics-only", "no lining named: shear not checked")
     check_linings(reaches, np.flatnonzero(named), out, display, catalogue)
     return out
 
