@@ -25,9 +25,17 @@ from .solvers import _n_value, resolve_roughness, solve_critical_depth, solve_no
 from .wording import worded
 
 #: Froude numbers in this band are near critical: the water surface is wavy and
-#: unstable and small changes of n or flow swap the regime (common practice,
-#: from memory; design manuals differ slightly on the limits).
+#: unstable and small changes of n or flow swap the regime (see NEAR_CRITICAL_SOURCE).
 NEAR_CRITICAL_BAND = (0.8, 1.2)
+NEAR_CRITICAL_SOURCE = "common practice; design manuals differ slightly on the limits"
+#: Cautions on the flow regime, one wording for every front end; ``{fr}`` is the Froude number as text.
+NEAR_CRITICAL_CAUTION = ("Froude number {fr} is near critical (band %g to %g; %s): the water surface will be "
+                         "unstable and wavy and small changes of n or flow swap the regime; allow extra freeboard or "
+                         "change the slope or section") % (*NEAR_CRITICAL_BAND, NEAR_CRITICAL_SOURCE)
+SUPERCRITICAL_CAUTION = ("Froude number {fr} is supercritical, above the near-critical band: surface waves whose "
+                         "height approaches the depth of flow, and splash and surge on steep grades (HEC-15 Section "
+                         "2.1.1); the freeboard needs special consideration, a hydraulic jump forms where the grade "
+                         "flattens, and the lining through and below the jump needs protection")
 #: Below this Reynolds number (V R / nu) the flow is not fully turbulent and
 #: Manning's equation with a constant n does not apply (Chow 1959, Sec. 1-5 and
 #: Fig. 8-1: laminar below about 500, transitional up to about 2000 on R).
@@ -77,6 +85,17 @@ def flow_regime(froude):
     return "subcritical" if froude < 1 else "supercritical"
 
 
+def froude_cautions(froude) -> list[str]:
+    """The regime cautions for a Froude number (or array: one text per kind, with a count)."""
+    fr = np.asarray(froude, dtype=float)
+    lo, hi = NEAR_CRITICAL_BAND
+    out = []
+    for mask, text in (((fr >= lo) & (fr <= hi), NEAR_CRITICAL_CAUTION), (fr > hi, SUPERCRITICAL_CAUTION)):
+        if np.any(mask):
+            out.append(_count(mask) + text.format(fr=_fmt(fr, mask)))
+    return out
+
+
 def _count(mask) -> str:
     m = np.asarray(mask)
     return "" if m.ndim == 0 else f"{int(m.sum())} of {m.size} channels: "
@@ -113,13 +132,7 @@ def analyse(section, flow, slope, n=None) -> ChannelResult:
     s_crit = (q * n_crit / (cgeo.area * rc ** (2 / 3))) ** 2
     reynolds = v * radius / NU_WATER
 
-    warnings = []
-    lo, hi = NEAR_CRITICAL_BAND
-    near = (fr >= lo) & (fr <= hi)
-    if np.any(near):
-        warnings.append(f"{_count(near)}Froude number {_fmt(fr, near)} is near critical "
-                        f"({lo:g} to {hi:g}): the water surface will be unstable and wavy; "
-                        "allow extra freeboard or change the slope or section")
+    warnings = froude_cautions(fr)
     lam = reynolds < MIN_TURBULENT_REYNOLDS
     if np.any(lam):
         warnings.append(f"{_count(lam)}Reynolds number {_fmt(reynolds, lam)} is below "

@@ -43,7 +43,8 @@ from itertools import repeat
 import numpy as np
 
 from . import units as hu
-from .analysis import MIN_TURBULENT_REYNOLDS, NEAR_CRITICAL_BAND, analyse
+from .analysis import (MIN_TURBULENT_REYNOLDS, NEAR_CRITICAL_BAND, NEAR_CRITICAL_CAUTION, SUPERCRITICAL_CAUTION,
+                       analyse)
 from .errors import HydraulicsError, InputError
 from .linings import load_catalogue
 from .linings.hec15 import ValidityWarning
@@ -70,6 +71,7 @@ RESULT_FIELDS = {
 #: Warnings a reach can carry (in its reason and in BatchResult.flags), with a short label.
 WARNINGS = {
     "near_critical": "near-critical flow",
+    "supercritical": "supercritical flow",
     "not_turbulent": "flow not fully turbulent",
     "above_full_flow": "pipe above its full-flow capacity",
 }
@@ -417,10 +419,10 @@ def _warn(reaches, rows, res, out):
     """Per-reach warnings into ``out.reason`` and ``out.flags`` (limits from hydraulics.analysis)."""
     lo, hi = NEAR_CRITICAL_BAND
     fr = np.asarray(res.froude)
-    near = (fr >= lo) & (fr <= hi)
-    out.flags["near_critical"][rows[near]] = True
-    _note(out, rows[near], _each_2f(fr[near], f"near-critical flow, Froude %s (band {lo:g} to {hi:g}): wavy, "
-                                              "unstable surface; allow extra freeboard or change the slope or section"))
+    for key, mask, caution in (("near_critical", (fr >= lo) & (fr <= hi), NEAR_CRITICAL_CAUTION),
+                               ("supercritical", fr > hi, SUPERCRITICAL_CAUTION)):
+        out.flags[key][rows[mask]] = True
+        _note(out, rows[mask], _each_2f(fr[mask], caution.replace("%", "%%").format(fr="%s")))
     re = np.asarray(res.reynolds)
     slow = re < MIN_TURBULENT_REYNOLDS
     out.flags["not_turbulent"][rows[slow]] = True

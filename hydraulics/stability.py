@@ -47,7 +47,7 @@ import numpy as np
 from scipy.optimize import brentq
 
 from . import validate
-from .analysis import NEAR_CRITICAL_BAND, ChannelResult, analyse
+from .analysis import NEAR_CRITICAL_SOURCE, ChannelResult, analyse
 from .constants import G, GAMMA_WATER
 from .errors import InputError, NoSolutionError
 from .linings import hec15
@@ -69,7 +69,6 @@ __all__ = [
 SELF_CLEANING_VELOCITY = 0.6096
 SELF_CLEANING_SOURCE = ("Chow (1959), Open-Channel Hydraulics, Sec. 7-3, minimum permissible velocity of 2 to 3 ft/s "
                         "(0.6 to 0.9 m/s) (from memory); common practice, local manuals set their own value")
-NEAR_CRITICAL_SOURCE = "common practice, from memory; design manuals differ slightly on the limits"
 FREEBOARD_SOURCE = ("HEC-15 Section 2: about 0.15 m (0.5 ft) for small roadside channels (from memory); "
                     "local design codes govern and may ask for more")
 SUPERELEVATION_SOURCE = "superelevation in the bend V^2 T / (g Rc), HEC-15 Section 3.4 (equation number from memory)"
@@ -742,14 +741,7 @@ def _check(section, q, s, lining, d50, rc, fb_min, n_override, sf_min, v_min) ->
     if hasattr(rough, "check"):
         warn += rough.check(section, y, s)
 
-    lo, hi = NEAR_CRITICAL_BAND
-    for w in res.warnings:
-        if "near critical" not in w:
-            warn.append(w)
-    if lo <= fr <= hi:
-        warn.append(f"Froude number {fr:.2f} is near critical (band {lo:g} to {hi:g}; {NEAR_CRITICAL_SOURCE}): "
-                    "the water surface will be unstable and wavy; allow extra freeboard or change the slope or "
-                    "section")
+    warn += res.warnings
     if v < v_min:
         warn.append(worded("velocity {v} is below {v_min}, so silt may settle in the channel ({source})",
                            v=(v, "velocity"), v_min=(v_min, "velocity"), source=SELF_CLEANING_SOURCE))
