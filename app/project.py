@@ -15,6 +15,7 @@ from __future__ import annotations
 
 import copy
 import json
+import math
 from dataclasses import asdict, dataclass, field
 from importlib import resources as ir
 from pathlib import Path
@@ -31,6 +32,39 @@ SCHEMA_VERSION = 1
 
 class ProjectFileError(Exception):
     """A project file that cannot be read: not JSON, truncated, wrong layout or a newer version."""
+
+
+class ProjectSaveError(ValueError):
+    """A project holding a value that no project file can keep (a NaN, a lone surrogate); nothing was written."""
+
+
+def _shown(text, limit: int = 60) -> str:
+    """Text from a file as it can be printed: a lone surrogate as \\udxxx, at most ``limit`` characters."""
+    text = str(text).encode("utf-8", "backslashreplace").decode("utf-8")
+    return text if len(text) <= limit else text[: limit - 3] + "..."
+
+
+def field_label(path, doc=None) -> str:
+    """Where a value sits in a project document, as a reader finds it in the file.
+
+    ``["channels", 0, "flow", "value"]`` gives ``channels[0] "East verge ditch": flow.value`` (the
+    channel's name is taken from ``doc`` when it has one); a top-level path gives its key.
+    """
+    path = list(path)
+    head = ""
+    if len(path) >= 2 and path[0] == "channels" and isinstance(path[1], int):
+        head = f"channels[{path[1]}]"
+        try:
+            name = doc["channels"][path[1]]["name"]
+        except (TypeError, KeyError, IndexError):
+            name = None
+        if isinstance(name, str) and name:
+            head += f' "{_shown(name)}"'
+        path = path[2:]
+    tail = ""
+    for part in path:
+        tail += f"[{part}]" if isinstance(part, int) else (("." if tail else "") + _shown(part))
+    return ": ".join(p for p in (head, tail) if p) or "top level"
 
 
 @dataclass
@@ -106,6 +140,13 @@ class Project:
     sheet: SheetInfo = field(default_factory=SheetInfo)
     notes: str = ""
 
+    def channel_label(self, channel: Channel) -> str:
+        """``channels[0] "East verge ditch"``: where the channel sits in the project file."""
+        index = next((i for i, ch in enumerate(self.channels) if ch is channel), None)
+        if index is None:
+            return f'channel "{_shown(channel.name)}"'
+        return f'channels[{index}] "{_shown(channel.name)}"'
+
     def channel(self, name: str) -> Channel:
         for ch in self.channels:
             if ch.name == name:
@@ -134,6 +175,124 @@ def _channel_from_dict(c: dict) -> Channel:
     return Channel(**c)
 
 
+#: A project file is read whole into memory; a larger file is refused before it is read. As the
+#: program writes them, 32 MiB hold about 40,000 channels.
+MAX_FILE_BYTES = 32 * 1024 * 1024
+#: Lists and objects nest 4 levels deep in a project file (channels, channel, section, stations);
+#: anything much deeper is not a project, and is refused before it reaches the checks below.
+MAX_NESTING = 16
+
+
+class _NotFinite:
+    """A number written in the file that no float holds: NaN, Infinity, or too large (1e400)."""
+
+    def __init__(self, text: str):
+        self.text = text
+
+
+class _KeysTwice(dict):
+    """An object of the file in which some key is given more than once."""
+
+    repeated: tuple = ()
+
+
+def _parse_float(text: str):
+    value = float(text)
+    return value if math.isfinite(value) else _NotFinite(text)
+
+
+def _parse_int(text: str):
+    # Python refuses to convert integers of more than 4300 digits; far fewer already overflow a float.
+    if len(text) > 400:
+        return _NotFinite(text)
+    value = int(text)
+    try:
+        float(value)
+    except OverflowError:
+        return _NotFinite(text)
+    return value
+
+
+def _object(pairs):
+    obj = dict(pairs)
+    if len(obj) == len(pairs):
+        return obj
+    seen, repeated = set(), []
+    for key, _ in pairs:
+        if key in seen and key not in repeated:
+            repeated.append(key)
+        seen.add(key)
+    obj = _KeysTwice(obj)
+    obj.repeated = tuple(repeated)
+    return obj
+
+
+def _lone_surrogate(text: str):
+    try:
+        text.encode("utf-8")
+    except UnicodeEncodeError as exc:
+        return text[exc.start]
+    return None
+
+
+def _check_values(doc, error=ProjectFileError) -> None:
+    """Refuse what the JSON parser lets through but a project cannot hold (and could not be saved again):
+    non-finite numbers, repeated keys, lone surrogate characters, and nesting far deeper than a project's.
+
+    The walk uses its own stack, so a deep file cannot exhaust Python's recursion limit here.
+    """
+    stack = [(doc, ())]
+    while stack:
+        value, path = stack.pop()
+        if len(path) > MAX_NESTING:
+            raise error(f"{field_label(path[:MAX_NESTING], doc)}: lists or objects nest more than "
+                                   f"{MAX_NESTING} levels deep; a project file needs 4")
+        problem = None
+        if isinstance(value, _NotFinite):
+            problem = f"must be a finite number, got {_shown(value.text, 30)}"
+        elif isinstance(value, float) and not math.isfinite(value):
+            problem = f"must be a finite number, got {value}"
+        elif isinstance(value, str) and _lone_surrogate(value):
+            problem = (f"holds a lone surrogate character (U+{ord(_lone_surrogate(value)):04X}), which is not "
+                       "text and could not be saved again")
+        elif isinstance(value, dict):
+            if isinstance(value, _KeysTwice):
+                keys = ", ".join(f'"{_shown(k)}"' for k in value.repeated)
+                problem = f"the key {keys} is given more than once; each key may appear only once"
+            else:
+                bad_key = next((k for k in value if _lone_surrogate(k)), None)
+                if bad_key is not None:
+                    problem = f'the key "{_shown(bad_key)}" holds a lone surrogate character, which is not text'
+            stack.extend((v, path + (k,)) for k, v in reversed(value.items()))
+        elif isinstance(value, list):
+            stack.extend((v, path + (i,)) for i, v in reversed(list(enumerate(value))))
+        if problem:
+            raise error(f"{field_label(path, doc)}: {problem}")
+
+
+_JSON_TYPES = {list: "a list", dict: "an object", str: "text", bool: "true or false", type(None): "null",
+               int: "a number", float: "a number"}
+
+
+def _layout_problem(exc: jsonschema.ValidationError) -> str:
+    """The schema's complaint in the reader's words."""
+    got = _JSON_TYPES.get(type(exc.instance), type(exc.instance).__name__)
+    shown = _shown(json.dumps(exc.instance, ensure_ascii=False), 40) if not isinstance(exc.instance, dict) else got
+    kind, want = exc.validator, exc.validator_value
+    if kind == "type":
+        wants = [want] if isinstance(want, str) else list(want)
+        words = {"number": "a single number", "string": "text", "array": "a list", "object": "an object",
+                 "null": "null", "integer": "a whole number", "boolean": "true or false"}
+        return f"must be {' or '.join(words.get(w, w) for w in wants)}, got {got} {shown}"
+    if kind in ("exclusiveMinimum", "minimum", "maximum", "exclusiveMaximum"):
+        op = {"exclusiveMinimum": ">", "minimum": ">=", "maximum": "<=", "exclusiveMaximum": "<"}[kind]
+        return f"must be {op} {want:g}, got {shown}"
+    if kind in ("enum", "const"):
+        allowed = want if kind == "enum" else [want]
+        return f"must be one of {', '.join(json.dumps(a) for a in allowed)}, got {shown}"
+    return exc.message
+
+
 def schema() -> dict:
     return json.loads(ir.files("resources").joinpath("project.schema.json").read_text(encoding="utf-8"))
 
@@ -143,13 +302,13 @@ def validate_document(data: dict) -> None:
     try:
         jsonschema.validate(data, schema())
     except jsonschema.ValidationError as exc:
-        where = "/".join(str(p) for p in exc.absolute_path) or "top level"
-        raise ProjectFileError(f"the project file does not have the expected layout at {where}: {exc.message}") from None
+        raise ProjectFileError(f"{field_label(exc.absolute_path, data)}: {_layout_problem(exc)}") from None
     for i, ch in enumerate(data["channels"]):
         try:
             hy.section_from_dict(ch["section"])
         except hy.InputError as exc:
-            raise ProjectFileError(f"channel {i + 1} ({ch['name']!r}) has an impossible section: {exc}") from None
+            raise ProjectFileError(f"{field_label(['channels', i, 'section', exc.field], data)}: "
+                                   f"{str(exc).split(': ', 1)[-1]} (an impossible section)") from None
 
 
 #: Upgrades from each older schema version to the next: {old_version: function(doc) -> doc}.
@@ -171,16 +330,30 @@ def migrate(data) -> dict:
     return data
 
 
+def _serialise(project: Project) -> bytes:
+    """The file's bytes; a value no file can keep raises ProjectSaveError naming the channel and field."""
+    data = project.to_dict()
+    try:
+        return (json.dumps(data, indent=2, ensure_ascii=False, allow_nan=False) + "\n").encode("utf-8")
+    except ValueError:   # a NaN or infinity (allow_nan=False), or a lone surrogate (UnicodeEncodeError)
+        _check_values(data, ProjectSaveError)
+        raise
+
+
 def dumps(project: Project) -> str:
-    return json.dumps(project.to_dict(), indent=2, ensure_ascii=False, allow_nan=False) + "\n"
+    return _serialise(project).decode("utf-8")
 
 
 def loads(text: str) -> Project:
+    """A project from the text of its file; anything that is not a project a later save could write again is
+    refused with a ProjectFileError naming the channel and the field."""
     try:
-        data = json.loads(text)
+        data = json.loads(text, parse_float=_parse_float, parse_int=_parse_int, parse_constant=_NotFinite,
+                          object_pairs_hook=_object)
     except json.JSONDecodeError as exc:
         raise ProjectFileError(f"the project file is damaged or incomplete (not valid JSON: {exc.msg} at line "
                                f"{exc.lineno}, column {exc.colno})") from None
+    _check_values(data)
     return Project.from_dict(data)
 
 
@@ -196,8 +369,12 @@ def load(path) -> Project:
 
 
 def save(project: Project, path) -> None:
-    """Write atomically (temporary file in the same folder, fsync, then os.replace)."""
-    write_atomic(path, dumps(project))
+    """Write atomically (temporary file in the same folder, fsync, then os.replace).
+
+    Raises ProjectSaveError before anything is written when the project holds a value no file can keep,
+    and OSError when the file cannot be written; either way the old file is left as it was.
+    """
+    write_atomic(path, _serialise(project))
 
 
 def demo_path():

@@ -31,9 +31,9 @@ def test_round_trip(tmp_path):
     (lambda t: "", "damaged or incomplete"),
     (lambda t: "[1, 2]", "not a Ditchwright project"),
     (lambda t: t.replace('"schema_version": 1', '"schema_version": 7'), "newer Ditchwright"),
-    (lambda t: t.replace('"units": "si"', '"units": "furlongs"'), "expected layout at units"),
-    (lambda t: t.replace('"slope": 0.005', '"slope": -0.005', 1), "expected layout"),
-    (lambda t: t.replace('"bottom_width": 0.6', '"bottom_width": -0.6', 1), "impossible section"),
+    (lambda t: t.replace('"units": "si"', '"units": "furlongs"'), '^units: must be one of "us", "si", got "furlongs"$'),
+    (lambda t: t.replace('"slope": 0.005', '"slope": -0.005', 1), r'^channels\[0\] "Ditch 1": slope: must be > 0, got -0.005$'),
+    (lambda t: t.replace('"bottom_width": 0.6', '"bottom_width": -0.6', 1), "^channels.0. \"Ditch 1\": section.bottom_width: "),
 ])
 def test_bad_files_are_refused_and_left_alone(tmp_path, damage, message):
     path = tmp_path / "bad.json"
@@ -65,3 +65,68 @@ def test_schema_is_valid_json_schema():
     import jsonschema
     jsonschema.Draft202012Validator.check_schema(pj.schema())
     json.dumps(pj.schema())
+
+
+# -- values a JSON parser lets through but a project cannot hold (issue 18, items 1 and 5) ----------------------
+DEMO_TEXT = pj.demo_path().read_text(encoding="utf-8")
+EAST = 'channels[0] "East verge ditch"'
+
+
+def _replace_once(old, new):
+    def damage(text):
+        assert text.count(old) >= 1, old
+        return text.replace(old, new, 1)
+    return damage
+
+
+@pytest.mark.parametrize("damage, message", [
+    (_replace_once('"value": 0.35', '"value": NaN'), f"{EAST}: flow.value: must be a finite number, got NaN"),
+    (_replace_once('"slope": 0.012', '"slope": Infinity'), f"{EAST}: slope: must be a finite number, got Infinity"),
+    (_replace_once('"slope": 0.012', '"slope": -Infinity'), f"{EAST}: slope: must be a finite number, got -Infinity"),
+    (_replace_once('"slope": 0.012', '"slope": 1e400'), f"{EAST}: slope: must be a finite number, got 1e400"),
+    (_replace_once('"bottom_width": 0.6', '"bottom_width": ' + "9" * 320),
+     f"{EAST}: section.bottom_width: must be a finite number, got 9999"),
+    (_replace_once('"bottom_width": 0.6', '"bottom_width": ' + "9" * 5000),
+     f"{EAST}: section.bottom_width: must be a finite number, got 9999"),
+    (_replace_once('"min_freeboard": 0.15', '"min_freeboard": NaN'),
+     f"{EAST}: min_freeboard: must be a finite number, got NaN"),
+    (_replace_once('"East verge ditch"', '"East \\ud800 ditch"'),
+     'channels[0] "East \\ud800 ditch": name: holds a lone surrogate character (U+D800)'),
+    (_replace_once('"name": "Demo', '"name": "\\udfff Demo'), "name: holds a lone surrogate character (U+DFFF)"),
+    (_replace_once('"notes": "Invented example: a paved', '"notes": "\\udc80'),
+     f"{EAST}: notes: holds a lone surrogate character (U+DC80)"),
+    (_replace_once('"schema_version": 1,', '"schema_version": 1, "schema_version": 1,'),
+     'top level: the key "schema_version" is given more than once'),
+    (_replace_once('"format": "ditchwright-project",', '"format": "ditchwright-project", "format": "x",'),
+     'top level: the key "format" is given more than once'),
+    (_replace_once('"slope": 0.012,', '"slope": 0.012, "slope": 0.5,'),
+     f'{EAST}: the key "slope" is given more than once'),
+    (_replace_once('"bottom_width": 0.6,', '"bottom_width": 0.6, "bottom_width": 0.6,'),
+     f'{EAST}: section: the key "bottom_width" is given more than once'),
+    (_replace_once('"key": "concrete",', '"key": "concrete", "key": "riprap",'),
+     f'{EAST}: lining: the key "key" is given more than once'),
+], ids=["nan", "infinity", "minus-infinity", "1e400", "huge-integer", "5000-digit-integer", "nan-freeboard",
+        "surrogate-channel-name", "surrogate-project-name", "surrogate-notes", "twice-schema-version",
+        "twice-format", "twice-slope", "twice-in-section", "twice-in-lining"])
+def test_values_that_could_not_be_saved_again_are_refused_naming_channel_and_field(tmp_path, damage, message):
+    path = tmp_path / "bad.json"
+    text = damage(DEMO_TEXT)
+    path.write_text(text, encoding="utf-8", errors="surrogatepass")
+    with pytest.raises(pj.ProjectFileError) as caught:
+        pj.load(path)
+    assert str(caught.value).startswith(message)
+    assert "\n" not in str(caught.value) and "--" not in str(caught.value)
+    str(caught.value).encode("utf-8")                       # printable as it is
+    assert path.read_text(encoding="utf-8") == text
+
+
+def test_the_shipped_demo_passes_the_value_checks():
+    assert pj.loads(DEMO_TEXT).channels[0].name == "East verge ditch"
+
+
+def test_a_field_label_names_channel_and_field():
+    doc = {"channels": [{"name": "A"}, {"name": 3}]}
+    assert pj.field_label(["channels", 0, "flow", "value"], doc) == 'channels[0] "A": flow.value'
+    assert pj.field_label(["channels", 1, "section", "stations", 2], doc) == "channels[1]: section.stations[2]"
+    assert pj.field_label(["sheet", "company"], doc) == "sheet.company"
+    assert pj.field_label([], doc) == "top level"

@@ -4,6 +4,8 @@ from __future__ import annotations
 
 import sys
 
+from hydraulics.errors import InputError, NoSolutionError
+
 from .common import CliError
 from .projectfile import load_project
 
@@ -39,6 +41,10 @@ def run(args) -> int:
                               catalogue=catalogue)
     except KeyError as exc:
         raise CliError(exc.args[0]) from None
+    except InputError as exc:   # a value of the file, named as it is there, not as an option
+        raise CliError(f"{exc.channel}: {exc}") from None
+    except NoSolutionError as exc:
+        raise CliError(f"{exc.channel}: no solution: {exc}", status=3) from None
     except (SigningError, SheetLayoutError) as exc:
         raise CliError(str(exc)) from None
     except OSError as exc:

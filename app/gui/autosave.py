@@ -16,7 +16,7 @@ import uuid
 from dataclasses import dataclass
 from pathlib import Path
 
-from PySide6.QtCore import QLockFile, QObject, QTimer
+from PySide6.QtCore import QLockFile, QObject, QTimer, Signal
 
 from .. import project as pj
 from .settings import data_folder
@@ -76,8 +76,23 @@ def find_recoverable(own_session: str | None = None) -> list[Recoverable]:
     return sorted(found, key=lambda r: r.saved_at, reverse=True)
 
 
+def save_failure_reason(exc: BaseException) -> str:
+    """Why a project could not be written, in one line."""
+    if isinstance(exc, pj.ProjectSaveError):
+        return f"the project holds a value no file can keep: {exc}"
+    if isinstance(exc, OSError):
+        return f"{exc.strerror or exc}" + (f": {exc.filename}" if exc.filename else "")
+    return f"unexpected error {type(exc).__name__}: {exc}"
+
+
 class Autosaver(QObject):
-    """Writes the document every ``interval_ms`` while it has changes that are not in the autosave yet."""
+    """Writes the document every ``interval_ms`` while it has changes that are not in the autosave yet.
+
+    ``failed`` carries the reason when an autosave could not be written; it is emitted once per reason (not
+    every interval), and again after a later autosave has succeeded.
+    """
+
+    failed = Signal(str)
 
     def __init__(self, doc, interval_ms: int = INTERVAL_MS, parent=None):
         super().__init__(parent)
@@ -113,10 +128,14 @@ class Autosaver(QObject):
         try:
             pj.save(self.doc.project, self.project_file)
             meta = {"original": str(self.doc.path or ""), "saved_at": time.time(), "name": self.doc.project.name}
-            self.meta_file.write_text(json.dumps(meta), encoding="utf-8")
-        except OSError as exc:
-            self.last_error = f"Autosave failed: {exc}"
+            self.meta_file.write_text(json.dumps(meta, ensure_ascii=True), encoding="utf-8")
+        except Exception as exc:  # noqa: BLE001 - whatever the reason, the user must hear that work is unprotected
+            reason = save_failure_reason(exc)
+            if reason != self.last_error:
+                self.last_error = reason
+                self.failed.emit(reason)
             return False
+        self.last_error = ""
         self._written_index = index
         return True
 

@@ -716,8 +716,9 @@ class InventoryDialog(QDialog):
             return
         try:
             ab.write_results(path, self.run.inventory, self.run.result)
-        except OSError as exc:
-            self._say(f"The results were not saved to {path}: {exc.strerror or exc}.", error=True)
+        except Exception as exc:  # noqa: BLE001 - any failure is said; the results stay in the window
+            why = exc.strerror or exc if isinstance(exc, OSError) else f"unexpected error {type(exc).__name__}: {exc}"
+            self._say(f"The results were not saved to {path}: {why}.", error=True)
             return
         self._say(f"Saved one result row per input row to {path}.")
 

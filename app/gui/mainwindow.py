@@ -19,7 +19,7 @@ from .. import __version__
 from .. import project as pj
 from .. import sheet as sh
 from . import compute, settings
-from .autosave import Autosaver, find_recoverable
+from .autosave import Autosaver, find_recoverable, save_failure_reason
 from .comparison import ComparisonView
 from .document import ProjectDocument
 from .fields import pretty, sentence
@@ -54,6 +54,8 @@ class MainWindow(QMainWindow):
         self.connect_document()
         self.read_settings()
         self.autosaver = Autosaver(self.doc, parent=self) if persistent else None
+        if self.autosaver:
+            self.autosaver.failed.connect(self.autosave_failed)
         if persistent:   # the user's own linings and unit costs, laid over the shipped catalogue
             problem = compute.use_user_catalogue(settings.user_catalogue_path())
             if problem:
@@ -463,9 +465,10 @@ class MainWindow(QMainWindow):
     def _write(self, path: Path) -> bool:
         try:
             self.doc.save(path)
-        except OSError as exc:
-            QMessageBox.critical(self, "Could not save", f"The project was not saved to {path}:\n\n{exc}\n\n"
-                                 "The file on disk is unchanged.")
+        except Exception as exc:  # noqa: BLE001 - any failure is shown; the work stays open and unsaved
+            QMessageBox.critical(self, "Could not save", f"The project was not saved to {path}:\n\n"
+                                 f"{save_failure_reason(exc)}\n\nThe file on disk is unchanged; your work is "
+                                 "still open here, not saved.")
             return False
         if self.autosaver:
             self.autosaver.discard_file()
@@ -473,6 +476,13 @@ class MainWindow(QMainWindow):
         self.update_title()
         self.statusBar().showMessage(f"Saved to {path}.", 6000)
         return True
+
+    def autosave_failed(self, reason: str) -> None:
+        """Say once that unsaved work is not being copied; the work stays open."""
+        self.statusBar().showMessage(f"Autosave failed: {reason}", 30000)
+        QMessageBox.warning(self, "Autosave failed", f"Your unsaved changes could not be copied to the automatic "
+                            f"backup:\n\n{reason}\n\nYour work is still open here. Save it, or fix the value "
+                            "named above, so that it is not lost.")
 
     def _remember(self, path) -> None:
         if self.persistent:

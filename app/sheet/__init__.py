@@ -15,6 +15,8 @@ from __future__ import annotations
 
 import os
 
+from hydraulics.errors import HydraulicsError
+
 from ..files import write_atomic
 from .content import ChannelSheet, channel_sheet
 from .fingerprint import canonical_json, fingerprint
@@ -51,7 +53,13 @@ def sheet_pdf(project, channels=None, page: str = "letter", catalogue=None) -> t
         from ..evaluate import load_default_catalogue
 
         catalogue = load_default_catalogue()
-    sheets = [channel_sheet(project, ch, catalogue) for ch in _select(project, channels)]
+    sheets = []
+    for ch in _select(project, channels):
+        try:
+            sheets.append(channel_sheet(project, ch, catalogue))
+        except HydraulicsError as exc:
+            exc.channel = project.channel_label(ch)   # a value from the file: name the channel that holds it
+            raise
     return render(project, sheets, page)
 
 
@@ -78,7 +86,8 @@ def export_sheets(project, path, channels=None, page: str = "letter", sign=None,
 
     Returns the notes for the user (empty when there is nothing to say).
     Raises KeyError (unknown channel), ValueError (bad page), hydraulics.InputError /
-    NoSolutionError (the channel cannot be solved), SheetLayoutError, SigningError.
+    NoSolutionError (the channel cannot be solved; its ``channel`` attribute says which, as in the project
+    file), SheetLayoutError, SigningError.
     """
     data, notes = sheet_pdf(project, channels, page, catalogue)
     if sign is not None:

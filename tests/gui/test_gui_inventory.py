@@ -298,3 +298,17 @@ def test_a_long_inventory_shows_progress_and_the_window_keeps_running(window, qt
     assert seen[0] == (CHUNK, size) and seen[-1] == (size, size)     # one report per chunk of reaches
     assert len(ticks) >= 5                                            # the window's event loop kept turning
     assert d.model.rowCount() == size and d.verdict_boxes["hydraulics-only"].text().endswith(f": {size:,}")
+
+
+def test_a_failed_save_of_the_results_is_said_and_the_results_stay(window, qtbot, inventory, tmp_path, dialogs,
+                                                                     monkeypatch):
+    from app import batch as ab
+    d = checked(qtbot, window, inventory)
+    dialogs.save_name = str(tmp_path / "results.csv")
+
+    def broken(*args, **kwargs):
+        raise RuntimeError("something nobody expected")
+    monkeypatch.setattr(ab, "write_results", broken)
+    d.save_results()
+    assert "not saved" in d.status.text() and "RuntimeError: something nobody expected" in d.status.text()
+    assert d.run is not None and not (tmp_path / "results.csv").exists()

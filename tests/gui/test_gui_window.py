@@ -449,3 +449,49 @@ def test_user_catalogue_in_the_data_folder_sets_unit_costs(qtbot):
         w.doc.undo_stack.setClean()
     finally:
         compute.use_user_catalogue(None)
+
+
+# -- a project that cannot be written: said, work kept (issue 18, item 1) -----------------------------------------
+@pytest.mark.parametrize("spoil, reason", [
+    (lambda doc: setattr(doc.project.channels[0], "slope", float("nan")),
+     'channels[0] "East verge ditch": slope: must be a finite number, got nan'),
+    (lambda doc: setattr(doc.project.channels[1], "name", "North \ud800 ditch"),
+     'channels[1] "North \\ud800 ditch": name: holds a lone surrogate character'),
+    (lambda doc: setattr(doc.project.sheet, "company", "\udfff"), "sheet.company: holds a lone surrogate character"),
+], ids=["nan", "surrogate-name", "surrogate-company"])
+def test_a_save_that_cannot_be_written_says_why_and_keeps_the_work(demo_window, tmp_path, dialogs, spoil, reason):
+    w = demo_window
+    w.doc.edit("bend_radius", 40.0, "Change bend radius")
+    spoil(w.doc)
+    (tmp_path / "out").mkdir()
+    target = tmp_path / "out" / "x.json"
+    target.write_text("old", encoding="utf-8")
+    assert w._write(target) is False
+    assert dialogs.kinds() == ["critical"]
+    assert reason in dialogs.shown[0][2] and "still open" in dialogs.shown[0][2]
+    assert w.isWindowModified() and w.doc.path is None
+    assert target.read_text(encoding="utf-8") == "old" and list(target.parent.iterdir()) == [target]
+
+
+def test_an_autosave_that_fails_says_so_once_and_keeps_the_work(qtbot, dialogs, monkeypatch):
+    w = MainWindow(pj.Project(name="Unsaved"))
+    qtbot.addWidget(w)
+    w.doc.edit("slope", 0.0321, "Change bed slope")
+    w.doc.project.channels[0].flow.value = float("inf")
+    assert w.autosaver.save_now() is False
+    assert w.autosaver.save_now() is False                     # the same reason is not shown twice
+    assert dialogs.kinds() == ["warning"]
+    kind, title, text = dialogs.shown[0]
+    assert title == "Autosave failed" and 'channels[0] "Ditch 1": flow.value: must be a finite number' in text
+    assert "Autosave failed" in w.statusBar().currentMessage()
+    assert not w.autosaver.project_file.exists() and w.isWindowModified()
+    w.doc.project.channels[0].flow.value = 0.5
+    assert w.autosaver.save_now() is True                      # fixed: the copy is written again
+
+    def broken(*args, **kwargs):
+        raise RuntimeError("something nobody expected")
+    monkeypatch.setattr(pj, "save", broken)
+    w.doc.edit("slope", 0.0322, "Change bed slope")
+    assert w.autosaver.save_now() is False
+    assert dialogs.kinds() == ["warning", "warning"] and "RuntimeError: something nobody expected" in dialogs.shown[1][2]
+    w.doc.undo_stack.setClean()
