@@ -16,6 +16,7 @@ from __future__ import annotations
 import copy
 import json
 import math
+import os
 from dataclasses import asdict, dataclass, field
 from importlib import resources as ir
 from pathlib import Path
@@ -178,7 +179,7 @@ def _channel_from_dict(c: dict) -> Channel:
 #: A project file is read whole into memory; a larger file is refused before it is read. As the
 #: program writes them, 32 MiB hold about 40,000 channels.
 MAX_FILE_BYTES = 32 * 1024 * 1024
-#: Lists and objects nest 4 levels deep in a project file (channels, channel, section, stations);
+#: Lists and objects nest 5 levels deep in a project file (the project, channels, channel, section, stations);
 #: anything much deeper is not a project, and is refused before it reaches the checks below.
 MAX_NESTING = 16
 
@@ -246,7 +247,7 @@ def _check_values(doc, error=ProjectFileError) -> None:
         value, path = stack.pop()
         if len(path) > MAX_NESTING:
             raise error(f"{field_label(path[:MAX_NESTING], doc)}: lists or objects nest more than "
-                                   f"{MAX_NESTING} levels deep; a project file needs 4")
+                                   f"{MAX_NESTING} levels deep; a project file needs 5")
         problem = None
         if isinstance(value, _NotFinite):
             problem = f"must be a finite number, got {_shown(value.text, 30)}"
@@ -347,24 +348,44 @@ def dumps(project: Project) -> str:
 def loads(text: str) -> Project:
     """A project from the text of its file; anything that is not a project a later save could write again is
     refused with a ProjectFileError naming the channel and the field."""
+    if len(text) > MAX_FILE_BYTES:
+        raise ProjectFileError(_too_large(len(text.encode("utf-8", "surrogatepass"))))
     try:
         data = json.loads(text, parse_float=_parse_float, parse_int=_parse_int, parse_constant=_NotFinite,
                           object_pairs_hook=_object)
     except json.JSONDecodeError as exc:
         raise ProjectFileError(f"the project file is damaged or incomplete (not valid JSON: {exc.msg} at line "
                                f"{exc.lineno}, column {exc.colno})") from None
+    except RecursionError:   # the parser's own guard against a stack overflow
+        raise ProjectFileError(f"lists or objects nest too deeply to read (hundreds of levels or more); a project file "
+                               f"needs 5 and may have at most {MAX_NESTING}") from None
     _check_values(data)
     return Project.from_dict(data)
 
 
+def _too_large(size: int) -> str:
+    return (f"the project file is {size / 1e6:.1f} MB; a project file is read whole into memory and may be at most "
+            f"{MAX_FILE_BYTES / 1e6:.1f} MB ({MAX_FILE_BYTES // 2**20} MiB, about 40,000 channels)")
+
+
 def load(path) -> Project:
+    """Read a project file; a file larger than MAX_FILE_BYTES is refused before it is read."""
     path = Path(path)
     try:
-        text = path.read_text(encoding="utf-8")
+        with path.open("rb") as fh:
+            size = os.fstat(fh.fileno()).st_size
+            if size > MAX_FILE_BYTES:
+                raise ProjectFileError(_too_large(size))
+            raw = fh.read(MAX_FILE_BYTES + 1)   # the size on disk can change, or be unknown (a pipe)
+        if len(raw) > MAX_FILE_BYTES:
+            raise ProjectFileError(_too_large(len(raw)))
+        text = raw.decode("utf-8")
     except FileNotFoundError:
         raise ProjectFileError(f"no such file: {path}") from None
-    except (OSError, UnicodeDecodeError) as exc:
-        raise ProjectFileError(f"cannot read {path}: {exc}") from None
+    except UnicodeDecodeError as exc:
+        raise ProjectFileError(f"cannot read {path}: not UTF-8 text (byte {exc.start} is 0x{raw[exc.start]:02x})") from None
+    except OSError as exc:
+        raise ProjectFileError(f"cannot read {path}: {exc.strerror or exc}") from None
     return loads(text)
 
 

@@ -38,3 +38,15 @@ def test_a_sheet_names_the_channel_and_field_not_an_option(tmp_path, capsys, old
     err = capsys.readouterr().err
     assert err.startswith(f"ditchwright sheet: error: {expected}") and err.count("\n") == 1
     assert not (tmp_path / "s.pdf").exists()
+
+
+@pytest.mark.parametrize("text, expected", [
+    ("[" * 100_000 + "]" * 100_000, "lists or objects nest too deeply to read"),
+    (DEMO_TEXT + " " * (50 * 1024 * 1024), "the project file is 52.4 MB; a project file is read whole"),
+], ids=["nested-100000", "50-MB"])
+def test_deep_or_huge_files_are_one_line(tmp_path, capsys, text, expected):
+    path = tmp_path / "p.json"
+    path.write_text(text, encoding="utf-8")
+    assert main(["fingerprint", str(path)]) == 2
+    err = capsys.readouterr().err
+    assert err.startswith(f"ditchwright fingerprint: error: {expected}") and err.count("\n") == 1

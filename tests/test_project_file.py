@@ -1,6 +1,7 @@
 """Project files: round trip, atomic save, and clear refusals of bad files."""
 
 import json
+import re
 
 import pytest
 
@@ -130,3 +131,56 @@ def test_a_field_label_names_channel_and_field():
     assert pj.field_label(["channels", 1, "section", "stations", 2], doc) == "channels[1]: section.stations[2]"
     assert pj.field_label(["sheet", "company"], doc) == "sheet.company"
     assert pj.field_label([], doc) == "top level"
+
+
+# -- deep and huge files (issue 18, item 4) -----------------------------------------------------------------------
+@pytest.mark.parametrize("text, message", [
+    ("[" * 100_000 + "]" * 100_000, "nest too deeply to read"),
+    ('{"a": ' * 100_000 + "1" + "}" * 100_000, "nest too deeply to read"),
+    (DEMO_TEXT.replace('"notes": "Invented example: a paved ditch on a moderate grade."',
+                       '"notes": ' + "[" * 100_000 + "]" * 100_000, 1), "nest too deeply to read"),
+    (DEMO_TEXT.replace('"notes": "Invented example: a paved ditch on a moderate grade."',
+                       '"notes": ' + "[" * 500 + "]" * 500, 1),
+     f"{EAST}: notes[0][0][0][0][0][0][0][0][0][0][0][0][0]: lists or objects nest more than 16 levels deep"),
+], ids=["lists-100000", "objects-100000", "inside-a-channel-100000", "inside-a-channel-500"])
+def test_deeply_nested_json_is_refused_cleanly(tmp_path, text, message):
+    path = tmp_path / "deep.json"
+    path.write_text(text, encoding="utf-8")
+    with pytest.raises(pj.ProjectFileError, match=re.escape(message)):
+        pj.load(path)
+    assert path.read_text(encoding="utf-8") == text
+
+
+def test_a_50_mb_file_is_refused_with_the_cap_named(tmp_path):
+    path = tmp_path / "huge.json"
+    padding = " " * (50 * 1024 * 1024 - len(DEMO_TEXT))
+    path.write_text(DEMO_TEXT + padding, encoding="utf-8")   # a valid project, but 50 MiB of it
+    assert path.stat().st_size == 50 * 1024 * 1024
+    with pytest.raises(pj.ProjectFileError) as caught:
+        pj.load(path)
+    assert str(caught.value) == ("the project file is 52.4 MB; a project file is read whole into memory and may be "
+                                 "at most 33.6 MB (32 MiB, about 40,000 channels)")
+    with pytest.raises(pj.ProjectFileError, match="may be at most 33.6 MB"):
+        pj.loads(DEMO_TEXT + padding)
+
+
+def test_a_file_at_the_cap_is_read_and_one_byte_more_is_not(tmp_path, monkeypatch):
+    monkeypatch.setattr(pj, "MAX_FILE_BYTES", len(DEMO_TEXT.encode("utf-8")) + 10)
+    path = tmp_path / "p.json"
+    path.write_text(DEMO_TEXT + " " * 10, encoding="utf-8")
+    assert pj.load(path).channels[0].name == "East verge ditch"
+    path.write_text(DEMO_TEXT + " " * 11, encoding="utf-8")
+    with pytest.raises(pj.ProjectFileError, match="may be at most"):
+        pj.load(path)
+
+
+def test_a_file_larger_than_it_said_is_cut_at_the_cap(tmp_path, monkeypatch):
+    # A pipe or a file still growing: its size from fstat says nothing; the read itself stops at the cap.
+    import os as os_module
+    monkeypatch.setattr(pj, "MAX_FILE_BYTES", 1000)
+    path = tmp_path / "p.json"
+    path.write_text(DEMO_TEXT, encoding="utf-8")
+    real = os_module.fstat
+    monkeypatch.setattr(pj.os, "fstat", lambda fd: type("S", (), {"st_size": 0})() if fd else real(fd))
+    with pytest.raises(pj.ProjectFileError, match="file is 0.0 MB; .* at most 0.0 MB"):
+        pj.load(path)

@@ -224,7 +224,9 @@ def test_save_then_reopen_gives_the_same_project(demo_window, tmp_path, dialogs)
     (lambda t: "{not json", "damaged or incomplete"),
     (lambda t: t.replace('"schema_version": 1', '"schema_version": 99'), "newer Ditchwright"),
     (lambda t: json.dumps({"format": "something else"}), "not a Ditchwright project"),
-], ids=["truncated", "corrupt", "future-version", "foreign"])
+    (lambda t: t.replace('"slope": 0.012', '"slope": NaN', 1), 'channels[0] "East verge ditch": slope: must be a finite'),
+    (lambda t: "[" * 100_000 + "]" * 100_000, "nest too deeply to read"),
+], ids=["truncated", "corrupt", "future-version", "foreign", "nan", "nested-100000"])
 def test_bad_file_gives_a_clear_message_and_changes_nothing(demo_window, tmp_path, dialogs, damage, reason):
     w = demo_window
     path = tmp_path / "bad.json"
