@@ -278,19 +278,27 @@ _JSON_TYPES = {list: "a list", dict: "an object", str: "text", bool: "true or fa
 def _layout_problem(exc: jsonschema.ValidationError) -> str:
     """The schema's complaint in the reader's words."""
     got = _JSON_TYPES.get(type(exc.instance), type(exc.instance).__name__)
-    shown = _shown(json.dumps(exc.instance, ensure_ascii=False), 40) if not isinstance(exc.instance, dict) else got
+    shown = "" if isinstance(exc.instance, dict) else " " + _shown(json.dumps(exc.instance, ensure_ascii=False), 40)
     kind, want = exc.validator, exc.validator_value
     if kind == "type":
         wants = [want] if isinstance(want, str) else list(want)
         words = {"number": "a single number", "string": "text", "array": "a list", "object": "an object",
                  "null": "null", "integer": "a whole number", "boolean": "true or false"}
-        return f"must be {' or '.join(words.get(w, w) for w in wants)}, got {got} {shown}"
+        return f"must be {' or '.join(words.get(w, w) for w in wants)}, got {got}{shown}"
+    if kind == "additionalProperties" and isinstance(exc.instance, dict):
+        known = [k for k in exc.schema.get("properties", {}) if k != "shape"]
+        extra = ", ".join(f'"{_shown(k)}"' for k in exc.instance if k not in exc.schema.get("properties", {}))
+        shape = exc.instance.get("shape")
+        what = "this object"
+        if isinstance(shape, str) and shape:
+            what = f"a{'n' * (shape[:1].lower() in 'aeiou')} {shape} section"
+        return f"{extra} does not belong to {what} (it takes {', '.join(known)})"
     if kind in ("exclusiveMinimum", "minimum", "maximum", "exclusiveMaximum"):
         op = {"exclusiveMinimum": ">", "minimum": ">=", "maximum": "<=", "exclusiveMaximum": "<"}[kind]
-        return f"must be {op} {want:g}, got {shown}"
+        return f"must be {op} {want:g}, got{shown}"
     if kind in ("enum", "const"):
         allowed = want if kind == "enum" else [want]
-        return f"must be one of {', '.join(json.dumps(a) for a in allowed)}, got {shown}"
+        return f"must be one of {', '.join(json.dumps(a) for a in allowed)}, got{shown or ' ' + got}"
     return exc.message
 
 
@@ -306,10 +314,15 @@ def validate_document(data: dict) -> None:
         raise ProjectFileError(f"{field_label(exc.absolute_path, data)}: {_layout_problem(exc)}") from None
     for i, ch in enumerate(data["channels"]):
         try:
-            hy.section_from_dict(ch["section"])
+            section = hy.section_from_dict(ch["section"])
         except hy.InputError as exc:
             raise ProjectFileError(f"{field_label(['channels', i, 'section', exc.field], data)}: "
                                    f"{str(exc).split(': ', 1)[-1]} (an impossible section)") from None
+        if section.kind != "irregular":   # the core also takes arrays (many sections at once); a channel has one
+            for key, value in ch["section"].items():
+                if key != "shape" and not (isinstance(value, (int, float)) and not isinstance(value, bool)):
+                    raise ProjectFileError(f"{field_label(['channels', i, 'section', key], data)}: must be a "
+                                           f"single number, got {_JSON_TYPES.get(type(value), 'something else')}")
 
 
 #: Upgrades from each older schema version to the next: {old_version: function(doc) -> doc}.
@@ -383,7 +396,8 @@ def load(path) -> Project:
     except FileNotFoundError:
         raise ProjectFileError(f"no such file: {path}") from None
     except UnicodeDecodeError as exc:
-        raise ProjectFileError(f"cannot read {path}: not UTF-8 text (byte {exc.start} is 0x{raw[exc.start]:02x})") from None
+        raise ProjectFileError(f"cannot read {path}: not UTF-8 text (byte {exc.start} is "
+                               f"0x{raw[exc.start]:02x})") from None
     except OSError as exc:
         raise ProjectFileError(f"cannot read {path}: {exc.strerror or exc}") from None
     return loads(text)

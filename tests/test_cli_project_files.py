@@ -13,7 +13,9 @@ DEMO_TEXT = pj.demo_path().read_text(encoding="utf-8")
     ('"slope": 0.012', '"slope": 1e400', 'channels[0] "East verge ditch": slope: must be a finite number, got 1e400'),
     ('"East verge ditch"', '"East \\udc00 ditch"', 'channels[0] "East \\udc00 ditch": name: holds a lone surrogate'),
     ('"schema_version": 1,', '"schema_version": 1, "schema_version": 2,', 'top level: the key "schema_version" is given more'),
-], ids=["nan", "1e400", "surrogate", "repeated-key"])
+    ('"bottom_width": 0.6', '"bottom_width": [0.6, 0.7]',
+     'channels[0] "East verge ditch": section.bottom_width: must be a single number, got a list [0.6, 0.7]'),
+], ids=["nan", "1e400", "surrogate", "repeated-key", "list-dimension"])
 @pytest.mark.parametrize("command", ["fingerprint", "sheet"])
 def test_a_file_that_could_not_be_saved_again_is_one_line(tmp_path, capsys, command, old, new, expected):
     path = tmp_path / "p.json"

@@ -184,3 +184,51 @@ def test_a_file_larger_than_it_said_is_cut_at_the_cap(tmp_path, monkeypatch):
     monkeypatch.setattr(pj.os, "fstat", lambda fd: type("S", (), {"st_size": 0})() if fd else real(fd))
     with pytest.raises(pj.ProjectFileError, match="file is 0.0 MB; .* at most 0.0 MB"):
         pj.load(path)
+
+
+# -- a section dimension given as a list (issue 18, item 9) --------------------------------------------------------
+PIPE = 'channels[3] "Farm crossing pipe"'
+SURVEY = 'channels[4] "Surveyed outfall channel"'
+LIST_DAMAGE = [
+    (_replace_once('"bottom_width": 0.6', '"bottom_width": [0.6, 0.7]'),
+     f"{EAST}: section.bottom_width: must be a single number, got a list [0.6, 0.7]"),
+    (_replace_once('"left_slope": 2.0', '"left_slope": [2.0, 3.0, 4.0]'),
+     f"{EAST}: section.left_slope: must be a single number, got a list [2.0, 3.0, 4.0]"),
+    (_replace_once('"left_slope": 2.0,\n        "right_slope": 2.0', '"side_slope": [2, 3, 3]'),
+     f"{EAST}: section.side_slope: must be a single number, got a list [2, 3, 3]"),
+    (_replace_once('"diameter": 0.75', '"diameter": [0.75]'),
+     f"{PIPE}: section.diameter: must be a single number, got a list [0.75]"),
+    (_replace_once('"bottom_width": 0.6', '"bottom_width": {"value": 0.6}'),
+     f"{EAST}: section.bottom_width: must be a single number, got an object"),
+    (_replace_once('"bottom_width": 0.6', '"bottom_width": "0.6"'),
+     f'{EAST}: section.bottom_width: must be a single number, got text "0.6"'),
+    (_replace_once('"stations": [', '"stations": [[0.0, 0.5],'),
+     f"{SURVEY}: section.stations[0]: must be a single number, got a list [0.0, 0.5]"),
+    (_replace_once('"bottom_width": 0.6', '"top_width": 0.6'),
+     f'{EAST}: section: "top_width" does not belong to a trapezoid section (it takes bottom_width, side_slope, '
+     "left_slope, right_slope)"),
+]
+
+
+@pytest.mark.parametrize("damage, message", LIST_DAMAGE,
+                         ids=["bottom-width-list", "three-left-slopes", "three-side-slopes", "diameter-list",
+                              "object", "text", "station-pair", "stray-dimension"])
+def test_a_section_dimension_must_be_one_number(tmp_path, damage, message):
+    path = tmp_path / "list.json"
+    text = damage(DEMO_TEXT)
+    path.write_text(text, encoding="utf-8")
+    with pytest.raises(pj.ProjectFileError) as caught:
+        pj.load(path)
+    assert str(caught.value) == message
+    assert path.read_text(encoding="utf-8") == text
+
+
+@pytest.mark.parametrize("damage, message", LIST_DAMAGE[:4], ids=["bottom-width", "left-slopes", "side-slopes",
+                                                                  "diameter"])
+def test_the_loader_refuses_a_list_dimension_even_without_the_schema(monkeypatch, damage, message):
+    # The core takes arrays (many sections at once), so it would build a section from a list; the loader must not.
+    permissive = pj.schema()
+    permissive["$defs"]["section"] = {"type": "object"}
+    monkeypatch.setattr(pj, "schema", lambda: permissive)
+    with pytest.raises(pj.ProjectFileError, match=re.escape(message.split(", got")[0])):
+        pj.loads(damage(DEMO_TEXT))

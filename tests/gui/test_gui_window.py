@@ -226,7 +226,9 @@ def test_save_then_reopen_gives_the_same_project(demo_window, tmp_path, dialogs)
     (lambda t: json.dumps({"format": "something else"}), "not a Ditchwright project"),
     (lambda t: t.replace('"slope": 0.012', '"slope": NaN', 1), 'channels[0] "East verge ditch": slope: must be a finite'),
     (lambda t: "[" * 100_000 + "]" * 100_000, "nest too deeply to read"),
-], ids=["truncated", "corrupt", "future-version", "foreign", "nan", "nested-100000"])
+    (lambda t: t.replace('"bottom_width": 0.6', '"bottom_width": [0.6, 0.7]', 1),
+     'channels[0] "East verge ditch": section.bottom_width: must be a single number, got a list'),
+], ids=["truncated", "corrupt", "future-version", "foreign", "nan", "nested-100000", "list-dimension"])
 def test_bad_file_gives_a_clear_message_and_changes_nothing(demo_window, tmp_path, dialogs, damage, reason):
     w = demo_window
     path = tmp_path / "bad.json"
