@@ -8,9 +8,11 @@ stamp goes into the approval box of sheet 1 and covers the whole file.
 
 Verification reads the file's signature(s) and reports, for each one, whether
 the signed bytes are intact, whether the signature is cryptographically
-valid and covers the entire file (nothing added after signing), who signed
-(the certificate's subject) and, when a trusted certificate is given,
-whether the signer chains to it. No network access is made.
+valid and covers the entire file (nothing added after signing), who claims to
+have signed (the subject of the certificate inside the file) and, when a
+trusted certificate is given, whether the signer chains to it. Only then is a
+signature valid: without a trusted certificate anyone could have made one
+with the engineer's name. No network access is made.
 """
 
 from __future__ import annotations
@@ -67,12 +69,21 @@ def load_signer(p12_path, password: bytes | str | None):
 
 
 def signer_name(cert) -> str:
-    """The signer's common name, or the whole certificate subject in words when it has none."""
+    """The signer's common name, or the whole certificate subject in words when it has none.
+
+    Characters that are not printable (a line break that would forge a line of the report) show as "?".
+    """
     try:
         cn = cert.subject.native.get("common_name")
-        return cn if cn else cert.subject.human_friendly
+        name = cn if cn else cert.subject.human_friendly
     except Exception:  # pragma: no cover - unusual certificate
-        return str(cert.subject)
+        name = str(cert.subject)
+    return printable(name)
+
+
+def printable(text) -> str:
+    """Text from a file as one printable line: anything not printable shows as "?"."""
+    return "".join(c if c.isprintable() else "?" for c in str(text))
 
 
 def _wrap(text: str, width: int = 24) -> str:
@@ -142,17 +153,24 @@ def sign_pdf(data: bytes, p12_path, password, page: str, reason: str = "Design s
 @dataclass
 class SignatureReport:
     field: str
-    signer: str
+    signer: str                   # the name in the certificate inside the file: a claim until it is trusted
     intact: bool                  # the signed bytes hash to the signed digest
     valid: bool                   # the signature is sound and covers these bytes
     covers_whole_file: bool
     trusted: bool | None          # None when no trusted certificate was given
     signed_at: str
     summary: str
+    problem: str = ""             # why it is not valid, in one line ("" when nothing was found wrong)
 
     @property
     def ok(self) -> bool:
-        return self.intact and self.valid and self.covers_whole_file and self.trusted is not False
+        """Intact, valid, covering the whole file, and made with a certificate that chains to a trusted one."""
+        return self.intact and self.valid and self.covers_whole_file and self.trusted is True
+
+    @property
+    def sound(self) -> bool:
+        """Intact, valid and covering the whole file; who signed is a separate question (``trusted``)."""
+        return self.intact and self.valid and self.covers_whole_file
 
 
 @dataclass
@@ -163,7 +181,19 @@ class VerifyReport:
 
     @property
     def ok(self) -> bool:
+        """Every signature valid and trusted; False without a trusted certificate, whatever the file holds."""
         return bool(self.signatures) and all(s.ok for s in self.signatures)
+
+    @property
+    def outcome(self) -> str:
+        """"valid" (every signature sound and trusted), "untrusted" (every signature sound, but no trusted
+        certificate was given, so who signed is only claimed) or "not valid" (unsigned, changed, damaged, or
+        signed with a certificate that does not chain to the trusted one)."""
+        if not self.signatures or not all(s.sound for s in self.signatures):
+            return "not valid"
+        if any(s.trusted is False for s in self.signatures):
+            return "not valid"
+        return "valid" if self.ok else "untrusted"
 
 
 def _load_trust(path):
@@ -172,47 +202,133 @@ def _load_trust(path):
     try:
         return load_cert_from_pemder(str(path))
     except Exception as exc:
-        raise VerifyError(f"cannot read the trusted certificate {path}: {exc}") from None
+        raise VerifyError(f"cannot read the trusted certificate {path}: {one_line(exc)}") from None
+
+
+def one_line(exc: BaseException | str, limit: int = 160) -> str:
+    """An error's message as one short line (parsers of signatures write several, with their parse path)."""
+    text = " ".join(str(exc).split()) or type(exc).__name__
+    return text if len(text) <= limit else text[: limit - 3] + "..."
+
+
+class _Damaged(Exception):
+    """A signature whose data breaks the rules of its own format: some byte of it has been changed."""
+
+
+def _check_structure(sig) -> None:
+    """Rules of the CMS signed data (RFC 5652) that a signature check itself does not need, so that a change to
+    any byte of the signature data is noticed, not only a change to the parts the check reads.
+
+    Raises _Damaged naming the rule that fails.
+    """
+    from cryptography import x509 as cx509
+
+    from asn1crypto import cms
+
+    raw = bytes(sig.pkcs7_content)
+    content = sig.signed_data
+    try:
+        size = len(cms.ContentInfo.load(raw).dump())
+        # the whole of it, strictly (no stray bytes inside its declared length), every part parsed
+        cms.ContentInfo.load(raw[:size], strict=True).native
+    except Exception as exc:
+        raise _Damaged(f"the signature data cannot be parsed ({one_line(exc, 100)})") from None
+    if raw[size:].strip(b"\x00"):   # the room reserved for the signature is padded with zero bytes (common practice)
+        raise _Damaged("there are bytes after the signature data where only zero padding belongs")
+    signer_info = sig.signer_info
+    digest = signer_info["digest_algorithm"]["algorithm"].native
+    if digest not in [a["algorithm"].native for a in content["digest_algorithms"]]:
+        raise _Damaged("the signer's digest algorithm is missing from the signed data's list (RFC 5652, 5.1)")
+    sid = signer_info["sid"].name
+    expected_si = {"issuer_and_serial_number": 1, "subject_key_identifier": 3}.get(sid)
+    if signer_info["version"].native != f"v{expected_si}":
+        raise _Damaged(f"the signer information has version {signer_info['version'].native}, its signer "
+                       f"identifier needs v{expected_si} (RFC 5652, 5.3)")
+    allowed = {"v1", "v3", "v4", "v5"}
+    if content["version"].native not in allowed:
+        raise _Damaged(f"the signed data has version {content['version'].native} (RFC 5652, 5.1)")
+    cert = sig.signer_cert
+    if cert.issuer == cert.subject:   # self-signed: the certificate can check itself
+        try:
+            own = cx509.load_der_x509_certificate(cert.dump())
+            own.verify_directly_issued_by(own)
+        except Exception:
+            raise _Damaged("the signer's self-signed certificate does not match its own signature (it has been "
+                           "altered)") from None
+
+
+def _signature_fields(reader) -> list:
+    """(name, EmbeddedPdfSignature or the one-line reason it cannot be read), in signing order where known."""
+    from pyhanko.sign.fields import enumerate_sig_fields
+    from pyhanko.sign.validation import EmbeddedPdfSignature
+
+    found = []
+    for fq_name, _sig_obj, sig_field in enumerate_sig_fields(reader, filled_status=True):
+        name = printable(fq_name) if fq_name else "(unnamed)"
+        try:
+            found.append((name, EmbeddedPdfSignature(reader, sig_field, fq_name)))
+        except Exception as exc:  # the signature dictionary or its CMS data is damaged
+            found.append((name, f"the signature data cannot be read ({one_line(exc, 100)})"))
+    order = {id(s): s.signed_revision for _, s in found if not isinstance(s, str)}
+    return sorted(found, key=lambda item: order.get(id(item[1]), -1))
 
 
 def verify_pdf(path, trust=None) -> VerifyReport:
-    """Check every signature in the PDF at ``path``; ``trust`` is a PEM/DER certificate file or None."""
+    """Check every signature in the PDF at ``path``; ``trust`` is a PEM/DER certificate file or None.
+
+    Without ``trust`` nothing says who really signed: the certificate inside the file names the signer, and
+    anyone can make a certificate with any name. Each signature is then at best intact (``sound``) with
+    ``trusted`` None, and the report's ``outcome`` is "untrusted", never "valid".
+    A damaged signature is reported as not valid with its reason in one line; it never raises.
+    """
     from pyhanko.pdf_utils.reader import PdfFileReader
     from pyhanko.sign.validation import validate_pdf_signature
+    from pyhanko.sign.validation.status import SignatureCoverageLevel
     from pyhanko_certvalidator import ValidationContext
 
     try:
         with open(path, "rb") as fh:
             data = fh.read()
     except OSError as exc:
-        raise VerifyError(f"cannot read {path}: {exc}") from None
+        raise VerifyError(f"cannot read {path}: {exc.strerror or exc}") from None
     try:
         reader = PdfFileReader(io.BytesIO(data), strict=False)
-        embedded = list(reader.embedded_signatures)
+        fields = _signature_fields(reader)
     except Exception as exc:
-        raise VerifyError(f"{path} is not a readable PDF: {exc}") from None
+        raise VerifyError(f"{path} is not a readable PDF: {one_line(exc)}") from None
     report = VerifyReport(path=str(path), fingerprints=_fingerprints(reader))
     roots = [_load_trust(trust)] if trust else []
-    for sig in embedded:
-        context = ValidationContext(trust_roots=roots, allow_fetching=False) if roots else \
-            ValidationContext(trust_roots=[sig.signer_cert], allow_fetching=False)
+    for name, sig in fields:
         try:
+            if isinstance(sig, str):
+                raise _Damaged(sig)
+            _check_structure(sig)
+            # Without a trusted certificate the one inside the file is taken as its own root, only so that the
+            # bytes and the signature value can be checked; ``trusted`` is then reported as not checked.
+            context = ValidationContext(trust_roots=roots or [sig.signer_cert], allow_fetching=False)
             status = validate_pdf_signature(sig, context)
-        except Exception as exc:  # a damaged signature container
-            report.signatures.append(SignatureReport(
-                field=sig.field_name, signer="unknown", intact=False, valid=False, covers_whole_file=False,
-                trusted=False if roots else None, signed_at="", summary=f"signature cannot be read: {exc}"))
-            continue
-        from pyhanko.sign.validation.status import SignatureCoverageLevel
-
-        whole = status.coverage == SignatureCoverageLevel.ENTIRE_FILE
-        when = status.signer_reported_dt.strftime("%Y-%m-%d %H:%M:%S %Z") if status.signer_reported_dt else ""
-        report.signatures.append(SignatureReport(
-            field=sig.field_name, signer=signer_name(status.signing_cert), intact=bool(status.intact),
+            whole = status.coverage == SignatureCoverageLevel.ENTIRE_FILE
+            when = status.signer_reported_dt.strftime("%Y-%m-%d %H:%M:%S %Z") if status.signer_reported_dt else ""
+            intact = bool(status.intact)
             # "valid": the signature is sound and vouches for these very bytes (pyHanko's valid alone
             # only says the signature value matches the signed attributes)
-            valid=bool(status.valid and status.intact), covers_whole_file=whole, trusted=bool(status.trusted) if roots else None,
-            signed_at=when, summary=status.summary()))
+            valid = bool(status.valid and status.intact)
+            trusted = bool(status.trusted) if roots else None
+            problem = ("" if intact and valid and whole and trusted is not False else
+                       "the signed bytes have been changed" if not intact else
+                       "the signature does not match the signed data" if not valid else
+                       "something was added to the file after it was signed" if not whole else
+                       "the signer's certificate does not chain to the trusted certificate")
+            report.signatures.append(SignatureReport(
+                field=name, signer=signer_name(status.signing_cert), intact=intact, valid=valid,
+                covers_whole_file=whole, trusted=trusted, signed_at=when, summary=one_line(status.summary()),
+                problem=problem))
+        except Exception as exc:  # a damaged signature: reported, never raised
+            report.signatures.append(SignatureReport(
+                field=name, signer="unknown", intact=False, valid=False, covers_whole_file=False,
+                trusted=False if roots else None, signed_at="", summary="damaged",
+                problem=str(exc) if isinstance(exc, _Damaged) else
+                f"the signature cannot be checked ({type(exc).__name__}: {one_line(exc, 100)})"))
     return report
 
 
