@@ -37,7 +37,7 @@ from hydraulics import batch as hb
 from hydraulics.linings import hec15
 from hydraulics import units as hu
 
-from .files import atomic_writer, write_atomic
+from .files import FORMULA_STARTS, atomic_writer, spreadsheet_safe, write_atomic
 from .numtext import format_rows, format_rows_parallel
 
 INPUT_COLUMNS = ("id", "shape", "bottom_width", "left_slope", "right_slope", "diameter", "slope", "flow", "lining",
@@ -82,6 +82,8 @@ class Inventory:
     id_values: object       # per record: the id as written (surrounding blanks kept): a list, or pyarrow's column
     reaches: hb.Reaches
     blank_lines: list = field(default_factory=list)
+    # (records as written to a results file, header text as written, cells given an apostrophe): made on first use
+    _written: tuple | None = field(default=None, repr=False, compare=False)
 
     def __len__(self):
         return len(self.records)
@@ -549,9 +551,10 @@ def _results_pieces(inventory: Inventory, result: hb.BatchResult) -> list:
         verdicts = result.verdict.tolist()
         modules = _pyarrow()
         if modules is None or not size:
-            quoted = {r: _quote_field(r) + "\n" for r in set(reasons)}
+            quoted = {r: _quote_field(spreadsheet_safe(r)) + "\n" for r in set(reasons)}
             parts = [""] * (5 * size)
-            parts[0::5] = inventory.rows
+            rows = written_rows(inventory)[0]
+            parts[0::5] = rows.tolist() if isinstance(rows, Records) else rows
             parts[1::5] = repeat(",", size)
             parts[3::5] = map({v: v + "," for v in set(verdicts)}.__getitem__, verdicts)
             parts[4::5] = map(quoted.__getitem__, reasons)
@@ -564,13 +567,67 @@ def _results_pieces(inventory: Inventory, result: hb.BatchResult) -> list:
     return [head, _joined_lines(pa, rows, numbers, verdict_texts, reason_texts)]
 
 
+def _safe_record(row: str) -> tuple[str, int]:
+    """(the CSV record ``row`` with every formula-like cell given an apostrophe, how many were)."""
+    fields = next(csv.reader([row]), [])
+    safe = [spreadsheet_safe(f) for f in fields]
+    changed = sum(a is not b for a, b in zip(safe, fields))
+    return (_csv_line(safe), changed) if changed else (row, 0)
+
+
+_TRIGGER_BYTES = sorted(ord(c) for c in FORMULA_STARTS)
+
+
+def written_rows(inventory: Inventory) -> tuple:
+    """(records, header text, count) as a results file carries them: every input cell that a spreadsheet would
+    read as a formula (see :func:`app.files.spreadsheet_safe`) with a leading apostrophe; ``count`` cells were.
+
+    The usual file has none, and its records are returned as they are (the file's own bytes); only the rows with
+    a cell starting with one of the trigger characters are looked at one by one.
+    """
+    if inventory._written is not None:
+        return inventory._written
+    header, head_count = _safe_record(inventory.header_text)
+    records, count = inventory.records, head_count
+    if isinstance(records, Records):   # no quotes in the file: a cell starts a line or follows a comma
+        body = np.frombuffer(records.body, dtype=np.uint8)
+        hit = body == _TRIGGER_BYTES[0]
+        for byte in _TRIGGER_BYTES[1:]:   # six comparisons cost less than one table look-up per byte
+            hit |= body == byte
+        at = np.flatnonzero(hit)
+        if len(at):
+            before = body[np.maximum(at - 1, 0)]
+            at = at[(at == 0) | (before == ord(",")) | (before == ord("\n"))]
+        rows = np.unique(np.searchsorted(records.starts, at, side="right") - 1) if len(at) else ()
+        changes = {}
+        for i in rows.tolist() if len(rows) else ():
+            end = records.starts[i + 1] - 1 if i + 1 < len(records) else len(records.body) - 1
+            row, n = _safe_record(records.body[records.starts[i]:end].decode("utf-8"))
+            if n:
+                changes[i], count = row, count + n
+        if changes:
+            records = records.tolist()
+            for i, row in changes.items():
+                records[i] = row
+    else:
+        safe = []
+        for row in records:
+            if any(c in row for c in FORMULA_STARTS):
+                row, n = _safe_record(row)
+                count += n
+            safe.append(row)
+        records = safe
+    inventory._written = (records, header, count)
+    return inventory._written
+
+
 def _results_head(inventory: Inventory) -> bytes:
-    return (inventory.header_text + "," + ",".join(RESULT_COLUMNS) + "\n").encode("utf-8")
+    return (written_rows(inventory)[1] + "," + ",".join(RESULT_COLUMNS) + "\n").encode("utf-8")
 
 
 def _row_array(pa, inventory: Inventory):
     """Every input row's text followed by a comma, as a pyarrow large_string array (64-bit offsets: no 2 GB limit)."""
-    records, size = inventory.records, len(inventory)
+    records, size = written_rows(inventory)[0], len(inventory)
     if isinstance(records, Records):  # the file's own bytes; each line end becomes the comma after the row
         return pa.LargeStringArray.from_buffers(
             size, pa.py_buffer(np.append(records.starts, len(records.body)).astype(np.int64)),
@@ -600,7 +657,7 @@ def _verdict_texts(pa, verdicts: list):
 
 
 def _reason_texts(pa, reasons: list):
-    return _coded(pa, reasons, lambda r: _quote_field(r) + "\n")
+    return _coded(pa, reasons, lambda r: _quote_field(spreadsheet_safe(r)) + "\n")
 
 
 def _coded(pa, values: list, text_of):
@@ -736,6 +793,12 @@ def summary(inventory: Inventory, result: hb.BatchResult, seconds: float | None 
         out.append(f"  note: {len(inventory.blank_lines):,} blank line{'s' if len(inventory.blank_lines) > 1 else ''} "
                    f"skipped (line {', '.join(map(str, inventory.blank_lines[:5]))}"
                    f"{', ...' if len(inventory.blank_lines) > 5 else ''})")
+    guarded = written_rows(inventory)[2]
+    if guarded:
+        out.append(f"  note: {guarded:,} text cell{'s' if guarded > 1 else ''} starting with =, +, -, @, a tab or a "
+                   f"carriage return {'were' if guarded > 1 else 'was'} written to the results with a leading "
+                   "apostrophe (') so that a spreadsheet shows the text instead of running it as a formula; "
+                   "numbers such as -1.5 are written as they are")
     return "\n".join(out)
 
 

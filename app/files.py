@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 import os
+import re
 import tempfile
 from contextlib import contextmanager
 from pathlib import Path
@@ -43,3 +44,23 @@ def write_atomic(path, data) -> None:
     with atomic_writer(path) as fh:
         for piece in pieces:
             fh.write(piece.encode("utf-8") if isinstance(piece, str) else piece)
+
+
+# -- text cells that a spreadsheet would run -----------------------------------------------------------------------
+
+#: The first characters that make a spreadsheet read a cell as a formula (or, for tab and carriage return, that let
+#: one slip past a check for the others), the usual list for CSV formula injection.
+FORMULA_STARTS = frozenset("=+-@\t\r")
+_PLAIN_NUMBER = re.compile(r"[+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?")
+
+
+def spreadsheet_safe(text: str) -> str:
+    """``text`` as a cell of a CSV or TSV file that a spreadsheet will show and never evaluate.
+
+    A cell starting with one of :data:`FORMULA_STARTS` gets a leading apostrophe, which spreadsheets take as
+    "this is text" (``=HYPERLINK(...)`` becomes ``'=HYPERLINK(...)``); a plain number such as ``-1.5`` or
+    ``+2e-3`` is left as it is, so that numbers stay numbers.
+    """
+    if text[:1] in FORMULA_STARTS and not _PLAIN_NUMBER.fullmatch(text):
+        return "'" + text
+    return text

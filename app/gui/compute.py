@@ -20,6 +20,7 @@ from hydraulics.curves import rating_curve, specific_energy
 from hydraulics.stability import StabilityResult, compare_linings
 from hydraulics.units import UnitSystem
 
+from ..files import spreadsheet_safe
 from ..evaluate import comparison_choices, design_flow, evaluate_channel, load_default_catalogue
 from ..project import Channel, LiningChoice
 
@@ -256,7 +257,12 @@ def comparison_table(rows, units: UnitSystem) -> tuple[list[str], list[list[str]
 def comparison_tsv(rows, units: UnitSystem) -> str:
     """The comparison as tab-separated text, for pasting into a spreadsheet."""
     heads, body = comparison_table(rows, units)
-    return "\n".join("\t".join(c.replace("\t", " ") for c in line) for line in [heads, *body]) + "\n"
+    return "\n".join("\t".join(tsv_cell(c) for c in line) for line in [heads, *body]) + "\n"
+
+
+def tsv_cell(text: str) -> str:
+    """A cell of tab-separated text for a spreadsheet: no tab or line break inside, and never run as a formula."""
+    return " ".join(spreadsheet_safe(text).replace("\t", " ").splitlines())
 
 
 def with_lining(channel: Channel, choice: LiningChoice) -> Channel:

@@ -699,10 +699,10 @@ class InventoryDialog(QDialog):
         rows = sorted({i.row() for i in self.table.selectionModel().selectedRows()})
         if not rows:
             return
-        lines = ["\t".join(["line"] + [self.model.titles[c].replace("\n", " ") for c in self.model.order])]
+        lines = ["\t".join(["line"] + [compute.tsv_cell(self.model.titles[c]) for c in self.model.order])]
         for r in rows:
             lines.append("\t".join([str(int(self.model.lines[self.model.shown[r]]))] +
-                                   [self.model.cell(r, c) for c in range(self.model.columnCount())]))
+                                   [compute.tsv_cell(self.model.cell(r, c)) for c in range(self.model.columnCount())]))
         QGuiApplication.clipboard().setText("\n".join(lines) + "\n")
         self._say(f"Copied {len(rows):,} row{'s' if len(rows) != 1 else ''} as tab-separated text.")
 

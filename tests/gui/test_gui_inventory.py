@@ -312,3 +312,16 @@ def test_a_failed_save_of_the_results_is_said_and_the_results_stay(window, qtbot
     d.save_results()
     assert "not saved" in d.status.text() and "RuntimeError: something nobody expected" in d.status.text()
     assert d.run is not None and not (tmp_path / "results.csv").exists()
+
+
+def test_copied_rows_keep_formulas_as_text(window, qtbot, tmp_path):
+    rows = [dict(ROWS[0], id="=HYPERLINK(1)", road="@SUM(1+1)"), dict(ROWS[1], id="+cmd", road="-2+3")]
+    d = checked(qtbot, window, write_inventory(tmp_path / "formulas.csv", rows))
+    choose(d, ["=HYPERLINK(1)", "+cmd"])
+    d.copy_rows()
+    lines = QApplication.clipboard().text().splitlines()
+    cells = [line.split("\t") for line in lines[1:]]
+    assert [c[1] for c in cells] == ["'=HYPERLINK(1)", "'+cmd"]
+    assert "'@SUM(1+1)" in cells[0] and "'-2+3" in cells[1]
+    assert all(not c.startswith(tuple("=+-@")) or c.lstrip("+-").replace(".", "").isdigit()
+               for row in cells for c in row)

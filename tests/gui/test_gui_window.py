@@ -499,3 +499,20 @@ def test_an_autosave_that_fails_says_so_once_and_keeps_the_work(qtbot, dialogs, 
     assert w.autosaver.save_now() is False
     assert dialogs.kinds() == ["warning", "warning"] and "RuntimeError: something nobody expected" in dialogs.shown[1][2]
     w.doc.undo_stack.setClean()
+
+
+def test_the_copied_comparison_keeps_formulas_as_text(demo_window, qtbot):
+    from PySide6.QtGui import QGuiApplication
+
+    w = demo_window
+    w.doc.set_current(outfall_index(w))
+    w.tabs.setCurrentIndex(3)
+    assert w.comparison.rows
+    for row, name in zip(w.comparison.rows, ["=HYPERLINK(\"x\")", "@SUM(1)", "+1+cmd", "-1+cmd", "\tx=1"]):
+        row.name = name            # a name from the user's own lining catalogue
+    qtbot.mouseClick(w.comparison.copy_button, Qt.MouseButton.LeftButton)
+    lines = QGuiApplication.clipboard().text().splitlines()
+    names = [line.split("\t")[0] for line in lines[1:]]
+    expected = ["'=HYPERLINK(\"x\")", "'@SUM(1)", "'+1+cmd", "'-1+cmd", "' x=1"]
+    assert names and all(n.startswith(e) for n, e in zip(names, expected))
+    assert all(len(line.split("\t")) == len(lines[0].split("\t")) for line in lines)

@@ -1,0 +1,114 @@
+"""Every CSV/TSV the program writes keeps formula-like text as text (issue 18, item 3).
+
+A cell starting with =, +, -, @, a tab or a carriage return is read by spreadsheets as a formula; written with a
+leading apostrophe it is shown as text. Numbers, negative ones included, stay numbers.
+"""
+
+import csv
+import io
+
+import pytest
+
+from app import batch as ab
+from app.files import FORMULA_STARTS, spreadsheet_safe
+from app.gui.compute import tsv_cell
+from app.main import main
+
+HEADER = list(ab.INPUT_COLUMNS) + ["owner", "offset"]
+ROW = {"shape": "trapezoid", "bottom_width": "2", "left_slope": "3", "right_slope": "3", "slope": "0.004",
+       "flow": "20", "n": "0.03"}
+# A payload for each trigger character (a carriage return reaches a CSV cell only through a quoted field, which
+# the reader turns into a line break, so it is tested on the cell functions below).
+PAYLOADS = {"=": '=HYPERLINK("http://example.invalid")', "+": "+cmd|' /C calc'!A0", "-": "-2+3+cmd|' /C calc'!A0",
+            "@": "@SUM(1+1)*cmd|' /C calc'!A0", "\t": "\t=1+1"}
+NUMBERS = ["-1.5", "+2", "-3e-2", "12", "0.5", "-.25"]
+
+
+def _csv(rows, header=HEADER) -> str:
+    buf = io.StringIO()
+    w = csv.writer(buf, lineterminator="\n")
+    w.writerow(header)
+    for r in rows:
+        w.writerow([r.get(c, "") for c in header])
+    return buf.getvalue()
+
+
+def _results(text, monkeypatch=None, pyarrow=True):
+    if not pyarrow:
+        monkeypatch.setattr(ab, "_pyarrow", lambda: None)
+    inv = ab.parse_inventory(text, "us")
+    res = ab.evaluate(inv)
+    written = ab.format_results(inv, res)
+    return inv, res, list(csv.DictReader(io.StringIO(written, newline="")))
+
+
+@pytest.mark.parametrize("trigger", sorted(FORMULA_STARTS))
+def test_each_trigger_character_gets_an_apostrophe(trigger):
+    assert spreadsheet_safe(trigger + "cmd") == "'" + trigger + "cmd"
+    assert tsv_cell(trigger + "cmd").startswith("'")
+    assert "\t" not in tsv_cell(trigger + "cmd") and "\r" not in tsv_cell(trigger + "cmd")
+
+
+@pytest.mark.parametrize("text", NUMBERS + ["", "plain", "D-2", "a=b", "1-2"])
+def test_numbers_and_harmless_text_are_left_alone(text):
+    assert spreadsheet_safe(text) == text and tsv_cell(text) == text
+
+
+@pytest.mark.parametrize("trigger", sorted(PAYLOADS), ids=lambda t: repr(t))
+@pytest.mark.parametrize("reader", ["pyarrow", "python"])
+def test_batch_results_keep_formulas_as_text_in_id_and_carried_columns(trigger, reader, monkeypatch):
+    payload = PAYLOADS[trigger]
+    rows = [dict(ROW, id=payload, owner=payload, offset="-1.5"), dict(ROW, id="D-2", owner="ok", offset="+2")]
+    text = _csv(rows)
+    if reader == "pyarrow" and '"' in text:     # the plain-file reader takes only files without quotes
+        text = text.replace('"', "")
+        payload = payload.replace('"', "")
+    inv, res, out = _results(text, monkeypatch, pyarrow=reader == "pyarrow")
+    assert out[0]["id"] == "'" + payload and out[0]["owner"] == "'" + payload
+    assert out[0]["offset"] == "-1.5" and out[1]["offset"] == "+2" and out[1]["id"] == "D-2"
+    assert out[0]["verdict"] == "hydraulics-only" and float(out[0]["normal_depth"]) > 0
+    assert inv.id_at(0) == payload.strip()        # the reach keeps its own id; only the written cell changes
+
+
+def test_a_formula_in_a_column_name_is_kept_as_text():
+    header = list(ab.INPUT_COLUMNS) + ["=cmd|' /C calc'!A0"]
+    inv, res, out = _results(_csv([dict(ROW, id="A")], header))
+    assert "'=cmd|' /C calc'!A0" in out[0]
+
+
+def test_the_chunked_writer_writes_the_same_guarded_file(tmp_path, monkeypatch):
+    rows = [dict(ROW, id=f"{'=' if i % 3 == 0 else ''}R{i}", owner=f"@o{i}" if i % 5 == 0 else "", offset=str(-i))
+            for i in range(40)]
+    text = _csv(rows)
+    inv = ab.parse_inventory(text, "us")
+    expected = ab.format_results(inv, ab.evaluate(inv))
+    monkeypatch.setattr(ab, "WRITE_CHUNK", 7)
+    monkeypatch.setattr(ab, "_workers", lambda: 2)
+    inv = ab.parse_inventory(text, "us")
+    ab.check_and_write(tmp_path / "out.csv", inv)
+    written = (tmp_path / "out.csv").read_text(encoding="utf-8")
+    assert written == expected
+    out = list(csv.DictReader(io.StringIO(written, newline="")))
+    assert [r["id"] for r in out[:4]] == ["'=R0", "R1", "R2", "'=R3"]
+    assert out[5]["owner"] == "'@o5" and out[5]["offset"] == "-5"
+
+
+def test_the_summary_says_so_once_and_only_when_it_happened(tmp_path, capsys):
+    src = tmp_path / "inv.csv"
+    src.write_text(_csv([dict(ROW, id="=1+1", owner="@x", offset="-1"), dict(ROW, id="B", owner="+y")]),
+                   encoding="utf-8")
+    assert main(["batch", str(src), "-o", str(tmp_path / "out.csv")]) == 0
+    out = capsys.readouterr().out
+    assert out.count("apostrophe") == 1 and "3 text cells starting with =, +, -, @" in out
+    src.write_text(_csv([dict(ROW, id="A", owner="x", offset="-1")]), encoding="utf-8")
+    assert main(["batch", str(src), "-o", str(tmp_path / "out.csv")]) == 0
+    assert "apostrophe" not in capsys.readouterr().out
+
+
+def test_a_file_without_triggers_is_written_byte_for_byte_as_before():
+    text = _csv([dict(ROW, id=f"R{i}", owner="x", offset=str(-i)) for i in range(5)])
+    inv = ab.parse_inventory(text, "us")
+    body = ab.format_results(inv, ab.evaluate(inv))
+    lines = text.splitlines()
+    assert [line.rsplit(",", 9)[0] for line in body.splitlines()[1:]] == lines[1:]
+    assert ab.written_rows(inv)[0] is inv.records   # the file's own bytes, untouched
