@@ -34,6 +34,7 @@ from pathlib import Path
 import numpy as np
 
 from hydraulics import batch as hb
+from hydraulics import provenance
 from hydraulics.linings import hec15
 from hydraulics import units as hu
 
@@ -778,7 +779,7 @@ def summary(inventory: Inventory, result: hb.BatchResult, seconds: float | None 
     if np.isfinite(result.normal_depth).any():
         fb = units.from_si("length", hec15.MIN_FREEBOARD)
         out.append(f"  freeboard: not checked (an inventory has no ditch depth); each open ditch needs at least "
-                   f"its normal depth plus {fb:.2g} {units.label('length')} (HEC-15 Section 2, from memory; local "
+                   f"its normal depth plus {fb:.2g} {units.label('length')} ({provenance.cite('freeboard')}; local "
                    "codes govern)")
     out.append("  results assist design: a licensed engineer checks them against local codes")
     duplicated = inventory.duplicate_ids()

@@ -18,12 +18,13 @@ from __future__ import annotations
 from dataclasses import dataclass, field
 
 import hydraulics as hy
-from hydraulics import rational, validate
+from hydraulics import provenance, rational, validate
 from hydraulics.linings import hec15
 from hydraulics.linings import Catalogue, load_catalogue
 from hydraulics.units import SI
 from hydraulics.stability import ComparisonRow, StabilityResult, check_lining, compare_linings
-from hydraulics.wording import in_units
+from hydraulics.freeboard import ditch_top, freeboard_rule
+from hydraulics.wording import in_units, worded
 
 from .project import Channel
 from .results import CHANNEL_FIELDS, convert
@@ -79,11 +80,22 @@ class ChannelDesign:
         """The lining's verdict as a flag; None without a lining."""
         return None if self.stability is None else self.stability.stable
 
+    def cited_texts(self) -> list:
+        """Every caution and statement of method of this design that may cite a publication."""
+        return [*self.warnings, *self.notes, *(self.stability.cited_texts() if self.stability is not None else ())]
+
+    @property
+    def not_verified(self) -> list:
+        """The published values this design leans on that are not yet verified against their publication, one line
+        each (what, value, place), from :mod:`hydraulics.provenance`; empty when every cited value was read."""
+        return provenance.not_verified_lines(provenance.cited_not_verified(self.cited_texts()))
+
     def to_dict(self, units=SI) -> dict:
         """JSON-friendly summary in ``units`` (a hydraulics.units.UnitSystem): the same keys as
         ``ditchwright calc --json`` (uniform flow, ``lining``, ``stability``) plus ``channel``, ``flow_method``,
         ``time_of_concentration`` [s], ``freeboard``, ``total_depth``, ``top_width_at_top``, ``comparison``
-        (rows as ``ditchwright compare --json``), ``warnings`` and ``notes``."""
+        (rows as ``ditchwright compare --json``), ``warnings``, ``notes`` and ``not_verified`` (the published values
+        leant on that are not yet verified against their publication, :mod:`hydraulics.provenance`)."""
         L = lambda v: None if v is None else float(units.from_si("length", v))  # noqa: E731
         out = {"channel": self.channel.name, "flow_method": self.flow_method,
                "time_of_concentration": self.time_of_concentration}
@@ -99,7 +111,8 @@ class ChannelDesign:
                     "comparison": [r.to_dict(units) for r in self.comparison],
                     "units": {k: units.label(k) for k in ("length", "flow", "velocity", "area", "shear", "slope")},
                     "warnings": [in_units(w, units) for w in self.warnings],
-                    "notes": [in_units(n, units) for n in self.notes]})
+                    "notes": [in_units(n, units) for n in self.notes],
+                    "not_verified": [in_units(n, units) for n in self.not_verified]})
         return out
 
 
@@ -205,21 +218,13 @@ def evaluate_channel(channel: Channel, catalogue: Catalogue | None = None) -> Ch
 
 
 def _ditch_depth(section, analysis, bend_radius, min_fb, warns, notes):
-    """Freeboard by the rule of :mod:`hydraulics.stability` for a channel without a lining."""
-    from hydraulics.stability import FREEBOARD_SOURCE, SUPERELEVATION_SOURCE
-    v, top = float(analysis.velocity), float(analysis.top_width)
+    """Freeboard of a channel without a lining, by the one rule of :mod:`hydraulics.freeboard`."""
+    top = float(analysis.top_width)
     rc = None if bend_radius is None else float(validate.positive("bend_radius", bend_radius))
     if rc is not None and rc < top / 2:
-        raise hy.InputError("bend_radius", f"must be at least half the water-surface width ({top / 2:.3g} m), "
-                                           f"got {rc:g} m")
-    se = None if rc is None else float(hec15.superelevation(v, top, rc))
-    fb = float(hec15.freeboard(v, top, rc, minimum=min_fb))
-    total = float(analysis.normal_depth) + fb
-    depth_at_top = total
-    if section.full_depth is not None and total > float(section.full_depth):
-        depth_at_top = float(section.full_depth)
-        warns.append(f"the design depth plus freeboard ({total:.3g} m) is above the section's full depth "
-                     f"({float(section.full_depth):.3g} m): the {section.kind} is not deep enough for the freeboard")
-    notes.append(f"freeboard: minimum {min_fb:g} m ({FREEBOARD_SOURCE})"
-                 + ("" if se is None else f", plus {se:.3g} m {SUPERELEVATION_SOURCE}"))
-    return fb, se, total, float(section.top_width(depth_at_top))
+        raise hy.InputError("bend_radius", worded("must be at least half the water-surface width ({half}), got {rc}",
+                                                  half=(top / 2, "length"), rc=(rc, "length")))
+    ditch = ditch_top(section, analysis.normal_depth, analysis.velocity, top, analysis.froude, rc, min_fb)
+    warns += ditch.warnings
+    notes.append(f"freeboard: {freeboard_rule(min_fb, ditch.superelevation)}")
+    return ditch.freeboard, ditch.superelevation, ditch.total_depth, ditch.top_width

@@ -18,20 +18,23 @@ of concentration of small rural basins:
 
 which is 0.0195 L^0.77 S^-0.385 with L in metres (HEC-22, Sec. 3.2.4, 3rd ed.,
 quotes both). Kirpich derived it for basins of 1.2 to 112 acres (0.5 to 45 ha)
-on slopes of 3 to 10 % (from memory); outside those ranges the result carries a warning.
+on slopes of 3 to 10 % (not verified against a published text; provenance:
+``kirpich_range``); outside those ranges the result carries a warning.
 
 The rational method is meant for small areas; HEC-22 suggests up to about
-80 ha (200 acres) (from memory) and local manuals often set a lower limit.
+80 ha (200 acres) (not verified; provenance: ``rational_area``) and local
+manuals often set a lower limit.
 """
 
 from __future__ import annotations
 
 from . import validate
+from .provenance import cite
 from .units import ACRE, FOOT
 
-#: Largest area for which the rational method is normally used [m^2] (HEC-22, 3rd ed.: 80 ha; from memory).
+#: Largest area for which the rational method is normally used [m^2] (provenance: ``rational_area``).
 RATIONAL_MAX_AREA = 80e4
-#: Range of Kirpich's data: areas 1.2 to 112 acres, slopes 3 to 10 % (Kirpich 1940; from memory).
+#: Range of Kirpich's data: areas 1.2 to 112 acres, slopes 3 to 10 % (provenance: ``kirpich_range``).
 KIRPICH_AREA_RANGE = (1.2 * ACRE, 112 * ACRE)
 KIRPICH_SLOPE_RANGE = (0.03, 0.10)
 
@@ -59,7 +62,7 @@ def rational_warnings(area) -> list[str]:
     a = validate.positive("area", area)
     if a > RATIONAL_MAX_AREA:
         return [f"drainage area {a / 1e4:.1f} ha is above the {RATIONAL_MAX_AREA / 1e4:.0f} ha usually allowed "
-                "for the rational method (HEC-22); use a hydrograph method"]
+                f"for the rational method ({cite('rational_area')}); use a hydrograph method"]
     return []
 
 
@@ -84,7 +87,9 @@ def kirpich_warnings(slope, area=None) -> list[str]:
     notes = []
     lo, hi = KIRPICH_SLOPE_RANGE
     if not lo <= slope <= hi:
-        notes.append(f"flow-path slope {slope * 100:.1f} % is outside Kirpich's data (3 to 10 %)")
+        notes.append(f"flow-path slope {slope * 100:.1f} % is outside Kirpich's data (3 to 10 %, "
+                     f"{cite('kirpich_range')})")
     if area is not None and not KIRPICH_AREA_RANGE[0] <= area <= KIRPICH_AREA_RANGE[1]:
-        notes.append(f"drainage area {area / 1e4:.2f} ha is outside Kirpich's data (0.5 to 45 ha)")
+        notes.append(f"drainage area {area / 1e4:.2f} ha is outside Kirpich's data (0.5 to 45 ha, "
+                     f"{cite('kirpich_range')})")
     return notes

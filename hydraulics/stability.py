@@ -4,8 +4,8 @@ Pure core (numpy, scipy, standard library), SI throughout. Main reference:
 Kilgore, R. T. and Cotton, G. K., *Design of Roadside Channels with Flexible
 Linings*, Hydraulic Engineering Circular No. 15, 3rd ed., FHWA-NHI-05-114,
 Federal Highway Administration, 2005 ("HEC-15"). The relations themselves are
-in :mod:`hydraulics.linings.hec15`, each with its equation number and whether
-it was verified in the text or is from memory; this module only strings them
+in :mod:`hydraulics.linings.hec15`, each with its equation number; where each
+was read is kept in :mod:`hydraulics.provenance`. This module only strings them
 together in the order of HEC-15 Chapter 3:
 
 1. normal depth with the lining's own (often depth-dependent) n, a coupled
@@ -54,6 +54,9 @@ from .linings import hec15
 from .linings.catalogue import Lining
 from .linings.hec15 import ValidityWarning
 from .linings.roughness import StoneRoughness, VegetationRoughness
+from .freeboard import FREEBOARD_SOURCE, SUPERCRITICAL_BEND_SOURCE, SUPERELEVATION_SOURCE, ditch_top
+from .freeboard import freeboard_rule as _freeboard_rule
+from .provenance import cite
 from .units import SI, UnitSystem
 from .wording import format_quantity, in_units, worded
 
@@ -67,19 +70,15 @@ __all__ = [
 #: 0.6 m/s (2 ft/s), the low end of the "2 to 3 ft/s" Chow gives as a minimum
 #: permissible (non-silting) velocity where the water carries little silt.
 SELF_CLEANING_VELOCITY = 0.6096
-SELF_CLEANING_SOURCE = ("Chow (1959), Open-Channel Hydraulics, Sec. 7-3, minimum permissible velocity of 2 to 3 ft/s "
-                        "(0.6 to 0.9 m/s) (from memory); common practice, local manuals set their own value")
-FREEBOARD_SOURCE = ("HEC-15 Section 2: about 0.15 m (0.5 ft) for small roadside channels (from memory); "
-                    "local design codes govern and may ask for more")
-SUPERELEVATION_SOURCE = "superelevation in the bend V^2 T / (g Rc), HEC-15 Section 3.4 (equation number from memory)"
-SUPERCRITICAL_BEND_SOURCE = "Chow (1959), Chapter 15, supercritical flow in curves (from memory)"
-STEEP_SLOPE_SOURCE = ("HEC-15 Section 3.5 and Appendix D: riprap on slopes steeper than 10 % is sized by the "
-                      "steep-slope (safety factor) method (threshold from memory)")
+SELF_CLEANING_SOURCE = (f"{cite('self_cleaning')}, minimum permissible velocity of 2 to 3 ft/s (0.6 to 0.9 m/s); "
+                        "local manuals set their own value")
+STEEP_SLOPE_SOURCE = (f"{cite('steep_slope')}: riprap on slopes steeper than "
+                      f"{100 * hec15.STEEP_SLOPE:g} % is sized by the steep-slope (safety factor) method")
 RIGID_NOTE = ("rigid lining treated as non-erodible (common practice: the permissible-shear method of HEC-15 is "
               "written for flexible linings); joints, uplift, abrasion by bed load and velocity limits are left "
               "to local practice")
 FILTER_NOTE = ("place a granular filter or a geotextile beneath the stone unless the subgrade is graded to retain "
-               "itself against the stone (HEC-15 Section 6.4, from memory; common practice)")
+               f"itself against the stone ({cite('filter')}; common practice)")
 LINED_WIDTH_RULE = ("lining carried up the whole perimeter to the top of the ditch (design depth plus freeboard); "
                     "common practice")
 
@@ -222,12 +221,23 @@ class StabilityResult:
                      f"(given {format_quantity(self.d50, 'small_length', units)})")
         return text
 
+    def cited_texts(self) -> list:
+        """Every statement of method and caution of this check that may cite a publication (SI wording)."""
+        used = []     # relations the check used whose place no text below happens to print
+        if self.side_slope_factor is not None:
+            used.append(cite("side_factor"))
+            if self.category == "stone" and self.permissible_shear_side is not None:
+                used += [cite("tractive_ratio"), cite("angle_of_repose")]
+        if self.bend_factor is not None:
+            used += [cite("bend_factor"), cite("bend_length")]
+        if self.n_relation in ("bathurst", "held", "transition"):
+            used += [cite("bathurst_terms"), cite("relation_choice")]
+        return [self.n_source, self.permissible_source, self.thickness_rule, self.reason(), self.freeboard_rule(),
+                *self.warnings, *self.notes, *used]
+
     def freeboard_rule(self, units: UnitSystem = SI) -> str:
         """The freeboard rule applied, in words, with its source."""
-        text = f"minimum freeboard {format_quantity(self.min_freeboard, 'length', units)} ({FREEBOARD_SOURCE})"
-        if self.superelevation is not None:
-            text += f", plus {format_quantity(self.superelevation, 'length', units)} {SUPERELEVATION_SOURCE}"
-        return text
+        return _freeboard_rule(self.min_freeboard, self.superelevation, units)
 
     def to_dict(self, units: UnitSystem = SI) -> dict:
         """JSON-friendly summary in ``units`` (numbers converted; words as they are)."""
@@ -278,7 +288,7 @@ _RELATION_WORDS = {
     "held": "Bathurst's relation held at its lowest usable depth (a rule of this program; see the warnings)",
     "transition": "between Bathurst's and Blodgett's relations at da/D50 = 1.5 (a rule of this program; see the "
                   "warnings)",
-    "strickler": "Strickler's relation n = 0.034 D50^(1/6), D50 in ft (Chow 1959)",
+    "strickler": f"Strickler's relation n = 0.034 D50^(1/6), D50 in ft ({cite('strickler')})",
 }
 
 
@@ -483,8 +493,8 @@ def shear_checks(lining: Lining, depth, slope, manning_n=None, *, d50=None, left
     -----
     A relation used outside its range of validity gives a ValidityWarning
     (for instance a D50 outside 15 to 550 mm). Which relations were read in
-    HEC-15 and which are from memory (Table 6.1, K1, K2, Kb, Appendix D) is
-    recorded beside each in :mod:`hydraulics.linings.hec15`. The bend check
+    HEC-15 and which are not yet verified is kept in
+    :mod:`hydraulics.provenance`. The bend check
     applies Kb to the bed shear; it is not combined with K1.
 
     References
@@ -674,7 +684,7 @@ def check_lining(section, flow, slope, lining: Lining, d50=None, bend_radius=Non
     -----
     Results outside a relation's range of validity are kept and reported in
     ``warnings``, in words. The stone side-slope check uses K2 (HEC-15
-    Section 3.2 and 6.3.2, from memory) on mild slopes and Appendix D on
+    Section 6.3.2) on mild slopes and Appendix D on
     slopes steeper than ``hec15.STEEP_SLOPE``. Shapes without straight
     sides (parabola, pipe, surveyed section) are checked on the bed and in
     the bend only. The bend check applies Kb to the bed shear; it is not
@@ -787,7 +797,7 @@ def _check(section, q, s, lining, d50, rc, fb_min, n_override, sf_min, v_min) ->
                         "the value shown is the last trial: check it by hand")
         if at_jump:
             warn.append("the smallest stable D50 lies where the stone's n changes from Blodgett's relation to "
-                        "Bathurst's (da/D50 near 1.5, HEC-15 Section 6.1) and the depth changes abruptly: a "
+                        f"Bathurst's (da/D50 near 1.5, {cite('relation_choice')}) and the depth changes abruptly: a "
                         "slightly smaller stone gives deeper flow and fails; check the size by hand")
         if steep:
             notes.append(f"slope {s:g} is steeper than {hec15.STEEP_SLOPE:g}: the side slopes are checked by the "
@@ -836,21 +846,10 @@ def _check(section, q, s, lining, d50, rc, fb_min, n_override, sf_min, v_min) ->
     thickness_rule = lining.thickness_data.get("source", "")
 
     # -- freeboard, ditch depth and quantities ------------------------------
-    superelev = None if rc is None else float(hec15.superelevation(v, top, rc))
-    if rc is not None and fr > 1.0:
-        warn.append(f"supercritical flow (Froude number {fr:.2f}) in a bend forms cross waves whose crests can "
-                    f"rise above the superelevation estimate ({SUPERCRITICAL_BEND_SOURCE}); allow more freeboard "
-                    "or avoid the bend")
-    fb = float(hec15.freeboard(v, top, rc, minimum=fb_min))
-    total = y + fb
-    top_depth = total
-    full = section.full_depth
-    if full is not None and total > float(full):
-        top_depth = float(full)
-        warn.append(worded("the design depth plus freeboard ({total}) is above the section's full depth ({full}): "
-                           "the {kind} is not deep enough for the freeboard", total=(total, "length"),
-                           full=(float(full), "length"), kind=section.kind))
-    top_width_at_top = float(section.top_width(top_depth))
+    ditch = ditch_top(section, y, v, top, fr, rc, fb_min)
+    warn += ditch.warnings
+    superelev, fb, total, top_depth, top_width_at_top = (ditch.superelevation, ditch.freeboard, ditch.total_depth,
+                                                         ditch.depth_at_top, ditch.top_width)
     lined = _lined_perimeter(section, top_depth)
     notes.append(LINED_WIDTH_RULE)
     volume = None if thickness is None else lined * thickness

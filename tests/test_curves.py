@@ -10,8 +10,8 @@ from hydraulics.curves import rating_curve, specific_energy
 
 @pytest.mark.parametrize("section, ratio", [
     # Minimum specific energy E_min = 3/2 y_c in a rectangle (Chow, Open-Channel Hydraulics, 1959,
-    # Sec. 3-2 and 4-2; from memory) and 5/4 y_c in a triangle (same source, critical flow in a
-    # triangular channel, y_c = 4/5 E; from memory).
+    # Sec. 3-2 and 4-2; not verified) and 5/4 y_c in a triangle (same source, critical flow in a
+    # triangular channel, y_c = 4/5 E; not verified).
     (hy.Rectangle(bottom_width=2.0), 1.5),
     (hy.Triangle(side_slope=2.0), 1.25),
 ], ids=["rectangle", "triangle"])

@@ -112,7 +112,7 @@ def test_layer_thickness(shipped):
 
 
 def test_permissible_helpers(shipped):
-    # HEC-15 Table 4.5 (from memory): sod, good stand CF = 0.90; fine non-cohesive soil 1.0 N/m^2
+    # HEC-15 Table 4.5 (not verified): sod, good stand CF = 0.90; fine non-cohesive soil 1.0 N/m^2
     g = shipped.get("grass_good_sod")
     assert g.cover_factor() == 0.90
     assert g.soil_permissible_shear() == 1.0

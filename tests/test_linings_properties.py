@@ -64,7 +64,7 @@ def test_side_slope_factor_is_monotone_and_bounded(z1, z2):
     lo, hi = sorted((z1, z2))
     k_lo, k_hi = hec15.side_slope_factor(lo), hec15.side_slope_factor(hi)
     # The linear piece gives 0.066 * 1.5 + 0.67 = 0.769 at Z = 1.5, just under the 0.77 of the steep piece
-    # (HEC-15 Section 3.2, from memory): the relation dips by 0.001 across that joint and rises otherwise.
+    # (HEC-15 Section 3.2, not verified): the relation dips by 0.001 across that joint and rises otherwise.
     assert 0.769 <= k_lo <= k_hi + 0.0011 and k_hi <= 1.0
     if lo > 1.5 or hi <= 1.5:
         assert k_lo <= k_hi

@@ -3,7 +3,7 @@
 "HEC-15" = Kilgore, R. T. and Cotton, G. K., Design of Roadside Channels with
 Flexible Linings, Hydraulic Engineering Circular No. 15, 3rd ed.,
 FHWA-NHI-05-114, FHWA, 2005. Each check names its source; "verified" means the
-value was read in the HEC-15 text, "from memory" that it was recalled.
+value was read in the HEC-15 text, "not verified" that it was recalled.
 """
 
 import math
@@ -22,10 +22,10 @@ PSF = 0.45359237 * 9.80665 / FT ** 2  # Pa per lb/ft^2
 # --------------------------------------------------------------- Eq. 6.7, Table 2.3
 
 @pytest.mark.parametrize("d50_mm, published", [
-    (25, 19.0),    # HEC-15 Table 2.3, gravel mulch, coarse gravel 25 mm: 19 N/m^2 (from memory)
-    (50, 38.0),    # HEC-15 Table 2.3, very coarse gravel 50 mm: 38 N/m^2 (from memory)
-    (150, 113.0),  # HEC-15 Table 2.3, riprap 150 mm: 113 N/m^2 (from memory)
-    (300, 227.0),  # HEC-15 Table 2.3, riprap 300 mm: 227 N/m^2 (from memory)
+    (25, 19.0),    # HEC-15 Table 2.3, gravel mulch, coarse gravel 25 mm: 19 N/m^2 (not verified)
+    (50, 38.0),    # HEC-15 Table 2.3, very coarse gravel 50 mm: 38 N/m^2 (not verified)
+    (150, 113.0),  # HEC-15 Table 2.3, riprap 150 mm: 113 N/m^2 (not verified)
+    (300, 227.0),  # HEC-15 Table 2.3, riprap 300 mm: 227 N/m^2 (not verified)
 ])
 def test_stone_permissible_shear_matches_table_2_3(d50_mm, published):
     # Table 2.3 is Eq. 6.7 at F* = 0.047 and gamma_s = 25.9 kN/m^3 (HEC-15 Section 6.2, verified).
@@ -60,11 +60,11 @@ def test_stone_size_outside_chapter_6_range_warns():
 # --------------------------------------------------------------- Table 6.1
 
 @pytest.mark.parametrize("re, f_star, sf", [
-    (1.0e3, 0.047, 1.0),    # HEC-15 Table 6.1, Re* <= 4e4 (from memory)
-    (4.0e4, 0.047, 1.0),    # lower end of the interpolation band (from memory)
-    (2.0e5, 0.15, 1.5),     # upper end (from memory)
-    (1.0e6, 0.15, 1.5),     # Re* >= 2e5 (from memory)
-    (1.2e5, 0.0985, 1.25),  # midpoint of the linear interpolation (from memory)
+    (1.0e3, 0.047, 1.0),    # HEC-15 Table 6.1, Re* <= 4e4 (not verified)
+    (4.0e4, 0.047, 1.0),    # lower end of the interpolation band (not verified)
+    (2.0e5, 0.15, 1.5),     # upper end (not verified)
+    (1.0e6, 0.15, 1.5),     # Re* >= 2e5 (not verified)
+    (1.2e5, 0.0985, 1.25),  # midpoint of the linear interpolation (not verified)
 ])
 def test_table_6_1(re, f_star, sf):
     f, s = hec15.shields_and_safety_factor(re)
@@ -97,7 +97,7 @@ def _hec15_iteration(depth, slope, sg=25900.0 / 9810.0, nu=1.131e-6):
 
 @pytest.mark.parametrize("depth, slope", [(0.3, 0.01), (0.6, 0.02), (0.9, 0.04), (1.2, 0.08), (0.5, 0.15)])
 def test_required_d50_matches_trial_procedure(depth, slope):
-    # HEC-15 Eq. 6.8 (verified) with Table 6.1 (from memory), solved by the trial-and-error
+    # HEC-15 Eq. 6.8 (verified) with Table 6.1 (not verified), solved by the trial-and-error
     # procedure of HEC-15 Section 6.3 as an independent algorithm.
     with warnings.catch_warnings():
         warnings.simplefilter("ignore", ValidityWarning)
@@ -142,7 +142,7 @@ def test_blodgett_range_warning_and_pole():
 
 def test_bathurst_customary_form_agrees():
     # HEC-15 Eq. 6.2 (form and constants verified): alpha = 1.0 SI with g in m/s^2, 1.49 CU with
-    # g = 32.2 ft/s^2. Eq. 6.3-6.6 (from memory) written out here in customary units, where the
+    # g = 32.2 ft/s^2. Eq. 6.3-6.6 (not verified) written out here in customary units, where the
     # lengths enter only as ratios.
     da, d50, t, fr = 0.3, 0.3, 3.0, 0.8
     da_ft, d50_ft, t_ft = da / FT, d50 / FT, t / FT
@@ -171,14 +171,14 @@ def test_bathurst_range_warning():
 
 
 def test_strickler_customary_form():
-    # Chow (1959): n = 0.034 D^(1/6) with D in feet (from memory); 1 ft stone gives 0.034.
+    # Chow (1959): n = 0.034 D^(1/6) with D in feet (not verified); 1 ft stone gives 0.034.
     assert hec15.strickler_n(FT) == pytest.approx(0.034, rel=1e-12)
 
 
 # --------------------------------------------------------------- Chapter 3 factors
 
 def test_side_slope_factor_ends_of_range():
-    # HEC-15 Chapter 3, K1 (from memory): 0.77 for Z <= 1.5, 1.0 for Z >= 5, linear between.
+    # HEC-15 Chapter 3, K1 (not verified): 0.77 for Z <= 1.5, 1.0 for Z >= 5, linear between.
     assert hec15.side_slope_factor(0.0) == 0.77
     assert hec15.side_slope_factor(1.5) == 0.77
     assert hec15.side_slope_factor(5.0) == 1.0
@@ -189,7 +189,7 @@ def test_side_slope_factor_ends_of_range():
 
 
 def test_bend_factor_ends_of_range():
-    # HEC-15 Chapter 3, Kb (from memory): 2.00 for Rc/T <= 2, 1.05 for Rc/T >= 10.
+    # HEC-15 Chapter 3, Kb (not verified): 2.00 for Rc/T <= 2, 1.05 for Rc/T >= 10.
     assert hec15.bend_factor(1.0, 1.0) == 2.0
     assert hec15.bend_factor(2.0, 1.0) == 2.0
     assert hec15.bend_factor(10.0, 1.0) == 1.05
@@ -199,7 +199,7 @@ def test_bend_factor_ends_of_range():
 
 
 def test_bend_protection_length_si_and_customary_agree():
-    # HEC-15 Chapter 3 (from memory): Lp = alpha R^(7/6) / n, alpha = 0.736 SI, 0.604 CU.
+    # HEC-15 Chapter 3 (not verified): Lp = alpha R^(7/6) / n, alpha = 0.736 SI, 0.604 CU.
     r, n = 0.5, 0.035
     lp_cu_ft = 0.604 * (r / FT) ** (7 / 6) / n
     assert hec15.bend_protection_length(r, n) == pytest.approx(lp_cu_ft * FT, rel=0.002)
@@ -213,7 +213,7 @@ def test_design_shear_eq_3_1():
 # --------------------------------------------------------------- side slopes and steep slopes
 
 def test_tractive_force_ratio_limits():
-    # HEC-15 Section 6.3.2 (from memory): K2 = sqrt(1 - sin^2 theta / sin^2 phi).
+    # HEC-15 Section 6.3.2 (not verified): K2 = sqrt(1 - sin^2 theta / sin^2 phi).
     assert hec15.tractive_force_ratio(1e6, 42.0) == pytest.approx(1.0, abs=1e-9)
     z_repose = 1.0 / math.tan(math.radians(42.0))
     with pytest.raises(NoSolutionError, match="angle of repose"):
@@ -221,13 +221,13 @@ def test_tractive_force_ratio_limits():
 
 
 def test_side_d50_larger_than_bed_on_steep_banks():
-    # HEC-15 Eq. 6.10 (from memory): D50 sides = K1/K2 D50 bottom; on a 2:1 bank K1 = 0.77,
+    # HEC-15 Eq. 6.10 (not verified): D50 sides = K1/K2 D50 bottom; on a 2:1 bank K1 = 0.77,
     # K2 < 0.77 for phi = 42 deg, so the sides need the larger stone.
     assert hec15.required_d50_side(0.1, 2.0, 42.0) > 0.1
 
 
 def test_steep_slope_method_reduces_to_eq_6_8_on_a_flat_bank():
-    # HEC-15 Appendix D (from memory): on a bank of vanishing slope the stability reduces to
+    # HEC-15 Appendix D (not verified): on a bank of vanishing slope the stability reduces to
     # the bed relation, SF = F* (gamma_s - gamma) D50 / tau (Eq. 6.7 and 3.2, verified).
     depth, slope = 0.3, 0.005
     d50 = hec15.required_d50(depth, slope).d50
@@ -250,7 +250,7 @@ def test_steep_slope_sizing_refuses_a_bank_steeper_than_repose():
 
 
 def test_layer_thickness_rule():
-    # Common practice (also HEC-15 Section 6.4, from memory): max(1.5 D50, D100).
+    # Common practice (also HEC-15 Section 6.4, not verified): max(1.5 D50, D100).
     assert hec15.stone_layer_thickness(0.2) == pytest.approx(0.3)
     assert hec15.stone_layer_thickness(0.2, d100=0.4) == pytest.approx(0.4)
     with pytest.raises(InputError) as e:
@@ -261,7 +261,7 @@ def test_layer_thickness_rule():
 # --------------------------------------------------------------- Chapter 4: soils and grass
 
 def test_noncohesive_soil_pieces_meet_and_customary_form_agrees():
-    # HEC-15 Chapter 4 (from memory): 1.0 N/m^2 below D75 = 1.3 mm; 0.75 D75 (mm) SI,
+    # HEC-15 Chapter 4 (not verified): 1.0 N/m^2 below D75 = 1.3 mm; 0.75 D75 (mm) SI,
     # 0.4 D75 (in) lb/ft^2 CU above.
     assert hec15.noncohesive_permissible_shear(1.0e-3) == 1.0
     assert hec15.noncohesive_permissible_shear(1.3e-3) == pytest.approx(1.0, rel=0.03)
@@ -271,7 +271,7 @@ def test_noncohesive_soil_pieces_meet_and_customary_form_agrees():
 
 
 def test_soil_grain_n_pieces_meet_and_customary_form_agrees():
-    # HEC-15 Chapter 4 (from memory): ns = 0.016 fine; 0.015 D75^(1/6) (mm) SI, 0.026 (in) CU.
+    # HEC-15 Chapter 4 (not verified): ns = 0.016 fine; 0.015 D75^(1/6) (mm) SI, 0.026 (in) CU.
     assert hec15.soil_grain_n(None) == 0.016
     assert hec15.soil_grain_n(1.3e-3) == pytest.approx(0.016, rel=0.03)
     d75 = 20e-3
@@ -281,7 +281,7 @@ def test_soil_grain_n_pieces_meet_and_customary_form_agrees():
 
 @pytest.mark.parametrize("soil", ["GM", "GC", "SM", "SC", "ML", "CL", "MH"])
 def test_cohesive_soil_rows_meet_at_pi_20(soil):
-    # HEC-15 Table 4.6 (from memory): the PI 10-20 and PI >= 20 rows give the same shear at PI = 20.
+    # HEC-15 Table 4.6 (not verified): the PI 10-20 and PI >= 20 rows give the same shear at PI = 20.
     below = hec15.cohesive_permissible_shear(soil, 19.999999, 0.5)
     at = hec15.cohesive_permissible_shear(soil, 20.0, 0.5)
     assert below == pytest.approx(at, rel=0.005)
@@ -302,7 +302,7 @@ def test_cohesive_soil_denser_is_stronger():
 
 
 def test_vegetation_n_customary_constant_agrees():
-    # HEC-15 Chapter 4 (from memory): n = alpha Cn tau_o^-0.4, alpha = 1.0 SI, 0.213 CU.
+    # HEC-15 Chapter 4 (not verified): n = alpha Cn tau_o^-0.4, alpha = 1.0 SI, 0.213 CU.
     cn, tau = 0.2, 40.0
     assert hec15.vegetation_n(cn, tau) == pytest.approx(0.213 * cn * (tau / PSF) ** -0.4, rel=0.005)
 
@@ -314,7 +314,7 @@ def test_grass_and_soil_permissible_round_trip():
 
 
 def test_cover_factor_table():
-    # HEC-15 Table 4.5 (from memory): sod, good stand = 0.90; bunch is lower than sod.
+    # HEC-15 Table 4.5 (not verified): sod, good stand = 0.90; bunch is lower than sod.
     assert hec15.cover_factor("sod", "good") == 0.90
     for cond in hec15.DENSITY_STIFFNESS:
         assert hec15.cover_factor("bunch", cond) < hec15.cover_factor("mixed", cond) < hec15.cover_factor("sod", cond)
@@ -326,7 +326,7 @@ def test_cover_factor_table():
 # --------------------------------------------------------------- freeboard
 
 def test_superelevation_and_freeboard():
-    # HEC-15 Section 3.4 (from memory): delta_d = V^2 T / (g Rc), added to the freeboard in bends.
+    # HEC-15 Section 3.4 (not verified): delta_d = V^2 T / (g Rc), added to the freeboard in bends.
     dd = hec15.superelevation(2.0, 3.0, 15.0)
     assert dd == pytest.approx(4.0 * 3.0 / (9.80665 * 15.0), rel=1e-12)
     assert hec15.freeboard() == hec15.MIN_FREEBOARD

@@ -27,8 +27,8 @@ def _manning_depth(section, flow, slope, rough):
 # ------------------------------------------------------------ HEC-15 gravel mulch design example
 
 def test_gravel_mulch_example_si():
-    # HEC-15 Chapter 6 design example, gravel mulch, SI (from memory): trapezoid B = 0.4 m,
-    # Z = 3, S = 0.008, Q = 0.42 m^3/s, D50 = 25 mm. Published outcome (from memory): depth near
+    # HEC-15 Chapter 6 design example, gravel mulch, SI (not verified): trapezoid B = 0.4 m,
+    # Z = 3, S = 0.008, Q = 0.42 m^3/s, D50 = 25 mm. Published outcome (not verified): depth near
     # 0.35 m, design shear near 27 N/m^2, above the permissible 19 N/m^2 (Table 2.3), so the
     # gravel mulch is not stable.
     section = hy.Trapezoid(bottom_width=0.4, side_slope=3.0)
@@ -110,7 +110,7 @@ def test_stone_roughness_in_a_pipe_smaller_than_one_metre():
 def test_strickler_is_depth_independent():
     section = hy.Rectangle(bottom_width=1.0)
     r = StoneRoughness(0.3048, "strickler")
-    assert r.manning_n(section, 0.2, 0.01) == pytest.approx(0.034)  # Chow (1959), D in ft (from memory)
+    assert r.manning_n(section, 0.2, 0.01) == pytest.approx(0.034)  # Chow (1959), D in ft (not verified)
     assert r.manning_n(section, 2.0, 0.01) == r.manning_n(section, 0.2, 0.01)
 
 
@@ -124,7 +124,7 @@ def test_stone_roughness_input_checks():
 # ------------------------------------------------------------ VegetationRoughness
 
 def test_vegetation_roughness_formula_and_behaviour():
-    # HEC-15 Chapter 4 (from memory): n = Cn (gamma R S)^-0.4, Cn = 0.35 Cs^0.10 h^0.528.
+    # HEC-15 Chapter 4 (not verified): n = Cn (gamma R S)^-0.4, Cn = 0.35 Cs^0.10 h^0.528.
     section = hy.Trapezoid(bottom_width=1.0, side_slope=3.0)
     r = VegetationRoughness(106.0, 0.15)
     y, s = 0.4, 0.01

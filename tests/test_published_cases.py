@@ -27,7 +27,7 @@ def test_enough_cases_across_shapes_and_units():
     assert len(CASES) >= 12
     assert {c["shape"] for c in CASES} == {"trapezoid", "triangle", "rectangle", "parabola", "circle"}
     assert {c["units"] for c in CASES} == {"us", "si"}
-    assert all(c["source"] and c["provenance"] in ("published", "from memory") for c in CASES)
+    assert all(c["source"] and c["provenance"] in ("published", "not verified") for c in CASES)
 
 
 @pytest.mark.parametrize("case", CASES, ids=[c["id"] for c in CASES])

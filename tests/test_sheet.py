@@ -174,7 +174,7 @@ def test_printed_normal_depth_solves_mannings_equation(project, us_pages):
 
 
 def test_published_trapezoid_example_prints_its_normal_depth(tmp_path):
-    # Chow, Open-Channel Hydraulics (1959), Chapter 6, Example 6-2 (example number from memory):
+    # Chow, Open-Channel Hydraulics (1959), Chapter 6, Example 6-2 (example number not verified):
     # b = 20 ft, z = 2, S = 0.0016, n = 0.025, Q = 400 ft^3/s -> yn = 3.36 ft.
     ch = P.Channel(name="Chow trapezoid", flow=P.FlowBasis(value=400 * FOOT ** 3), slope=0.0016,
                    section={"shape": "trapezoid", "bottom_width": 20 * FOOT, "left_slope": 2.0, "right_slope": 2.0},
@@ -251,14 +251,14 @@ def test_cautions_and_out_of_range_warnings(pages, us_pages):
     text = _flat(us_pages["Outfall swale"])
     assert "Design assistance only" in text and "licensed" in text
     # the swale runs at 1.56 ft/s, below the 2 ft/s self-cleaning velocity (Chow 1959, Sec. 7-3, 2 to 3 ft/s,
-    # from memory): flagged, restated in the sheet's units
+    # not verified): flagged, restated in the sheet's units
     assert "Velocity 1.56 ft/s is below 2.00 ft/s, so silt may settle" in text
     # the evaluation's notes: the lining's own n replaces the channel's
     assert "Note: The lining's own n (0.06963) is used; the channel's Manning's n 0.035 applies only" in text
     # every SI amount in a US sheet's cautions has its US equivalent beside it (nothing left to annotate)
     cautions = text.split("CAUTIONS, NOTES AND SOURCES")[1].split("Design fingerprint")[0]
     assert in_units(cautions, system("us")) == cautions
-    # near-critical flow (band 0.8 to 1.2, common practice, from memory): the gravel ditch at Fr 1.02
+    # near-critical flow (band 0.8 to 1.2, common practice, not verified): the gravel ditch at Fr 1.02
     assert re.search(r"Froude number 1\.0\d is near critical \(band 0\.8 to 1\.2", _flat(pages["North cut ditch"]))
 
 
@@ -458,7 +458,7 @@ def test_sheet_package_needs_no_qt():
 # ------------------------------------------------------------------ lining catalogue and logo
 def test_stone_lining_from_the_catalogue_sets_n_and_thickness(tmp_path):
     # Riprap D50 = 150 mm with no n typed: n comes from the catalogue's stone relation, and the
-    # layer is drawn 1.5 D50 = 225 mm thick (common practice; HEC-15, 3rd ed., Section 6.4, from memory).
+    # layer is drawn 1.5 D50 = 225 mm thick (common practice; HEC-15, 3rd ed., Section 6.4, not verified).
     ch = P.Channel(name="Riprap chute (invented)", flow=P.FlowBasis(value=0.7), slope=0.04,
                    section={"shape": "trapezoid", "bottom_width": 1.0, "left_slope": 2.0, "right_slope": 2.0},
                    lining=P.LiningChoice("riprap", 0.15), manning_n=None)
@@ -509,12 +509,12 @@ def _check_row(text: str, location: str) -> list:
 
 
 def _k1(z):
-    """Side-slope shear factor, K1 = 0.066 Z + 0.67 for 1.5 < Z < 5 (HEC-15 Eq. 3.4, from memory)."""
+    """Side-slope shear factor, K1 = 0.066 Z + 0.67 for 1.5 < Z < 5 (HEC-15 Eq. 3.4, not verified)."""
     return 0.066 * z + 0.67
 
 
 def _kb(rc_t):
-    """Bend shear factor, Kb = 2.38 - 0.206 Rc/T + 0.0073 (Rc/T)^2 for 2 < Rc/T < 10 (HEC-15 Eq. 3.5, from memory)."""
+    """Bend shear factor, Kb = 2.38 - 0.206 Rc/T + 0.0073 (Rc/T)^2 for 2 < Rc/T < 10 (HEC-15 Eq. 3.5, not verified)."""
     return 2.38 - 0.206 * rc_t + 0.0073 * rc_t ** 2
 
 
@@ -534,8 +534,8 @@ def test_stability_block_reads_back_with_units(project, pages):
     assert kb == pytest.approx(_kb(rc_t), rel=2e-3)
     assert float(bend[0]) == pytest.approx(kb * float(bed[0]), rel=3e-3)
     # riprap D50 = 150 mm: tau_p = F* (gamma_s - gamma) D50 with F* = 0.047 below Re* = 4e4 (HEC-15 Eq. 6.7 and
-    # Table 6.1, table from memory); on the 4H:1V sides times K2 = (1 - sin^2 theta / sin^2 phi)^(1/2) with the
-    # 42 degree angle of repose of the catalogue (HEC-15 Section 6.3, from memory)
+    # Table 6.1, table not verified); on the 4H:1V sides times K2 = (1 - sin^2 theta / sin^2 phi)^(1/2) with the
+    # 42 degree angle of repose of the catalogue (HEC-15 Section 6.3, not verified)
     reynolds = float(re.search(r"particle Reynolds number Re\* ([0-9.]+): F\* 0\.047", text).group(1))
     assert reynolds < 4e4
     tau_p = 0.047 * (GAMMA_STONE - GAMMA) * 0.15
@@ -555,7 +555,7 @@ def test_stability_block_reads_back_with_units(project, pages):
                      r"needed\); smallest stable D50 55\.8 mm \(given 150 mm\)", text)
     assert "Required D50 0.0558 m (55.8 mm) smallest stable, given D50 enough" in text
     assert "layer thickness t 0.225 m (225 mm)" in text  # 1.5 D50 (common practice)
-    # freeboard: the minimum plus the superelevation V^2 T / (g Rc) (HEC-15 Section 3.4, from memory)
+    # freeboard: the minimum plus the superelevation V^2 T / (g Rc) (HEC-15 Section 3.4, not verified)
     m = re.search(r"Freeboard ([0-9.]+) m = minimum 0\.200 m \+ superelevation ([0-9.]+) m \[(\d)\]", text)
     fb, se, ref = float(m.group(1)), float(m.group(2)), m.group(3)
     v, t = _number_after(text, "Velocity V")[0], _number_after(text, "Top width T")[0]
@@ -566,7 +566,7 @@ def test_stability_block_reads_back_with_units(project, pages):
     assert total == pytest.approx(y + fb, abs=0.0011)
     # top width at the top of the ditch: b + 2 Z (total depth), trapezoid geometry
     assert _number_after(text, "Top width at top")[0] == pytest.approx(1.0 + 2 * 4 * total, rel=3e-3)
-    # length of protection below the bend, Lp = 0.736 R^(7/6) / n (SI; HEC-15 Section 3.4, from memory)
+    # length of protection below the bend, Lp = 0.736 R^(7/6) / n (SI; HEC-15 Section 3.4, not verified)
     r, n = _number_after(text, "Hydraulic radius R")[0], float(re.search(r"Manning's n used ([0-9.]+)", text).group(1))
     lp = float(re.search(r"protect ([0-9.]+) m downstream", text).group(1))
     assert lp == pytest.approx(0.736 * r ** (7 / 6) / n, rel=6e-3)
@@ -587,7 +587,7 @@ def test_failing_stone_lining_prints_not_stable_and_the_required_d50(project, pa
     assert m, "the reason of a failing lining"
     assert (m.group(1), m.group(2), m.group(3)) == (sides[0], sides[1], sides[2])
     # required D50 with its parts; the bed part by HEC-15 Eq. 6.8, D50 = SF tau / (F* (gamma_s - gamma)),
-    # SF = 1.0 and F* = 0.047 (Table 6.1, from memory), at the printed depth of the required state
+    # SF = 1.0 and F* = 0.047 (Table 6.1, not verified), at the printed depth of the required state
     req = re.search(r"Required D50 ([0-9.]+) m \(([0-9.]+) mm\) smallest stable, given D50 too small "
                     r"\(bed ([0-9.]+) m, side slopes ([0-9.]+) m at depth ([0-9.]+) m; HEC-15 Eq. 6.8\)", text)
     assert req, "the required D50"
@@ -651,9 +651,9 @@ def test_comparison_table_reads_back_with_units(project, pages, us_pages):
     # a non-erodible lining has no governing check: its row shows the bed, tau = gamma y S (HEC-15 Eq. 3.1)
     assert float(concrete[4]) == _approx3(GAMMA * y * ch.slope)
     assert concrete[5:8] == ["non-erodible", "—", "non-erodible"]
-    # grass: tau_p = tau_p,soil / (1 - CF) (n / ns)^2 (HEC-15 Eq. 4.7, from memory) with the fine soil of the
-    # catalogue, tau_p,soil = 1.0 Pa, the cover factor of a good sod, CF = 0.9 (HEC-15 Table 4.5, from memory)
-    # and the soil grain roughness ns = 0.016 (HEC-15 Chapter 4, from memory)
+    # grass: tau_p = tau_p,soil / (1 - CF) (n / ns)^2 (HEC-15 Eq. 4.7, not verified) with the fine soil of the
+    # catalogue, tau_p,soil = 1.0 Pa, the cover factor of a good sod, CF = 0.9 (HEC-15 Table 4.5, not verified)
+    # and the soil grain roughness ns = 0.016 (HEC-15 Chapter 4, not verified)
     assert float(grass[5]) == _approx3(1.0 / (1 - 0.9) * (float(grass[0]) / 0.016) ** 2, rel=3e-3)
     # gravel fails in the bend and names the stone it would need
     assert gravel[7] == "not stable" and re.search(r"not stable \(bend\); needs D50 ≥ 0\.0558 m", table)
@@ -745,7 +745,7 @@ def test_core_sentences_get_the_sheet_units():
     assert in_units("D50 = 25 mm is small", us) == "D50 = 25 mm (0.984 in) is small"
     assert in_units("the depth (0.5 m) is", us) == "the depth (0.5 m (1.64 ft)) is"
     # equivalents already given are left alone, and an SI system is left as it is
-    for text in ("about 0.15 m (0.5 ft) for", "of 2 to 3 ft/s (0.6 to 0.9 m/s) (from memory)",
+    for text in ("about 0.15 m (0.5 ft) for", "of 2 to 3 ft/s (0.6 to 0.9 m/s) (not verified)",
                  "velocity 0.50 m/s (1.63 ft/s) is below", "5.42 min by Kirpich"):
         assert in_units(text, us) == text
     assert in_units("soil permissible shear 1 Pa, 25 900 N/m^3", si) == "soil permissible shear 1 Pa, 25 900 N/m³"
@@ -769,3 +769,19 @@ def test_drawing_labels_round_as_the_tables(pages, us_pages):
         _drawing_matches_tables(text)
     # the surveyed section: the top width is that at the top of the ditch, not the width of the survey (6.8 m)
     assert _number_after(pages["Surveyed outfall channel"], "Top width at top")[0] < 6.8
+
+
+def test_values_not_yet_verified_are_marked_and_listed_once(pages, us_pages):
+    """Every place cited from a value not yet read in its publication carries the mark, and the sheet lists
+    those places once, under one heading (hydraulics/provenance.py holds the register)."""
+    from hydraulics import provenance as pv
+    for text in (*pages.values(), *us_pages.values()):
+        flat = _flat(text)
+        assert pv.unmarked(flat) == []
+        assert flat.count(pv.NOT_VERIFIED_TITLE) == 1
+        listed = flat.split(pv.NOT_VERIFIED_TITLE)[1].split("Design fingerprint")[0]
+        cited = flat.replace(listed, "")
+        for key in pv.cited_not_verified([cited]):
+            assert pv.cite(key) in listed, key
+    swale = _flat(pages["Outfall swale"]).split(pv.NOT_VERIFIED_TITLE)[1]
+    assert "HEC-15 Table 6.1" + pv.NOT_VERIFIED_MARK in swale and "HEC-15 Section 3.4" + pv.NOT_VERIFIED_MARK in swale

@@ -96,7 +96,7 @@ def test_inputs_not_modified():
 
 def test_circle_capacity_peak_published():
     # Largest part-full flow at y/D = 0.938 with Q/Q_full = 1.076 (White, Fluid Mechanics, Eq. 10.21 and
-    # discussion; also Chow 1959, Fig. 6-? style charts -- the two values here are from memory of both).
+    # discussion; also Chow 1959, Fig. 6-? style charts -- the two values here are not verified of both).
     assert hy.CIRCLE_CAPACITY_RATIO == pytest.approx(0.938, abs=5e-4)
     c = hy.Circle(diameter=0.9)
     ratio = hy.max_flow(c, 0.002, 0.013) / hy.flow_at_depth(c, 0.9, 0.002, 0.013)

@@ -4,7 +4,7 @@
 Flexible Linings, Hydraulic Engineering Circular No. 15, 3rd ed.,
 FHWA-NHI-05-114, Federal Highway Administration, 2005.
 "Chow (1959)" = Chow, V. T., Open-Channel Hydraulics, McGraw-Hill, 1959.
-Checks against HEC-15 values recalled rather than re-read are marked "from memory".
+Checks against HEC-15 values recalled rather than re-read are marked "not verified".
 """
 
 import math
@@ -48,8 +48,8 @@ def manning_depth(section, flow, slope, rough):
 # ------------------------------------------------------------ HEC-15 gravel mulch example
 
 def test_gravel_mulch_example_si(cat):
-    # HEC-15 Chapter 6 design example, gravel mulch, SI (from memory): trapezoid B = 0.4 m, Z = 3,
-    # S = 0.008, Q = 0.42 m^3/s, D50 = 25 mm. Published outcome (from memory): depth near 0.35 m,
+    # HEC-15 Chapter 6 design example, gravel mulch, SI (not verified): trapezoid B = 0.4 m, Z = 3,
+    # S = 0.008, Q = 0.42 m^3/s, D50 = 25 mm. Published outcome (not verified): depth near 0.35 m,
     # design shear near 27 N/m^2, permissible shear of 25 mm gravel 19 N/m^2 (Table 2.3), so the
     # gravel mulch is not stable.
     section = hy.Trapezoid(bottom_width=0.4, side_slope=3.0)
@@ -70,7 +70,7 @@ def test_gravel_mulch_example_si(cat):
 
 @pytest.mark.parametrize("d50, published", [(0.025, 19.0), (0.05, 38.0), (0.15, 113.0), (0.30, 227.0)])
 def test_stone_permissible_shear_table_2_3(cat, d50, published):
-    # HEC-15 Table 2.3 (from memory), consistent with Eq. 6.7 at F* = 0.047 and gamma_s = 25.9 kN/m^3;
+    # HEC-15 Table 2.3 (not verified), consistent with Eq. 6.7 at F* = 0.047 and gamma_s = 25.9 kN/m^3;
     # a wide channel on a flat grade keeps Re* below 4e4, where Table 6.1 gives F* = 0.047.
     section = hy.Trapezoid(bottom_width=3.0, side_slope=3.0)
     r = check_lining(section, 2.0, 0.001, cat.get("riprap"), d50=d50)
@@ -79,7 +79,7 @@ def test_stone_permissible_shear_table_2_3(cat, d50, published):
 
 
 def test_stone_side_slope_uses_tractive_force_ratio(cat):
-    # HEC-15 Section 6.3.2 (from memory; after Anderson et al. 1970): K2 = sqrt(1 - sin^2(theta)/sin^2(phi)),
+    # HEC-15 Section 6.3.2 (not verified; after Anderson et al. 1970): K2 = sqrt(1 - sin^2(theta)/sin^2(phi)),
     # theta = atan(1/Z); the side shear is K1 tau_d (HEC-15 Section 3.2).
     section = hy.Trapezoid(bottom_width=1.0, side_slope=2.5)
     lin = cat.get("riprap")
@@ -94,7 +94,7 @@ def test_stone_side_slope_uses_tractive_force_ratio(cat):
 
 
 def test_side_size_is_k1_over_k2_times_bed_size_in_flat_table_range(cat):
-    # HEC-15 Eq. 6.10 (from memory): D50,sides = K1/K2 D50,bottom, exact where F* and SF are constant (Re* < 4e4).
+    # HEC-15 Eq. 6.10 (not verified): D50,sides = K1/K2 D50,bottom, exact where F* and SF are constant (Re* < 4e4).
     section = hy.Trapezoid(bottom_width=0.4, side_slope=3.0)
     lin = cat.get("gravel")
     r = check_lining(section, 0.42, 0.008, lin)
@@ -123,7 +123,7 @@ def test_required_d50_is_the_settled_trial_procedure(cat):
 
 
 def test_table_6_1_safety_factor_at_high_reynolds(cat):
-    # HEC-15 Table 6.1 (from memory): Re* >= 2e5 gives F* = 0.15 and SF = 1.5.
+    # HEC-15 Table 6.1 (not verified): Re* >= 2e5 gives F* = 0.15 and SF = 1.5.
     section = hy.Trapezoid(bottom_width=1.0, side_slope=3.0)
     r = check_lining(section, 6.0, 0.05, cat.get("riprap"), d50=0.5)
     assert r.reynolds >= 2e5 and r.shields == pytest.approx(0.15) and r.required_safety_factor == pytest.approx(1.5)
@@ -131,7 +131,7 @@ def test_table_6_1_safety_factor_at_high_reynolds(cat):
 
 
 def test_steep_slope_uses_appendix_d(cat):
-    # HEC-15 Appendix D (from memory): riprap on slopes steeper than 10 % by the steep-slope safety factor.
+    # HEC-15 Appendix D (not verified): riprap on slopes steeper than 10 % by the steep-slope safety factor.
     section = hy.Trapezoid(bottom_width=0.6, side_slope=2.5)
     lin = cat.get("riprap")
     r = check_lining(section, 1.0, 0.12, lin, d50=0.3)
@@ -168,7 +168,7 @@ def test_asymmetric_sides_are_checked_each(cat):
 
 @pytest.mark.parametrize("z, k1", [(1.0, 0.77), (1.5, 0.77), (3.0, 0.066 * 3 + 0.67), (5.0, 1.0), (8.0, 1.0)])
 def test_side_shear_k1_ends(cat, z, k1):
-    # HEC-15 Section 3.2 (from memory): K1 = 0.77 for Z <= 1.5, 0.066 Z + 0.67 for 1.5 < Z < 5, 1.0 for Z >= 5.
+    # HEC-15 Section 3.2 (not verified): K1 = 0.77 for Z <= 1.5, 0.066 Z + 0.67 for 1.5 < Z < 5, 1.0 for Z >= 5.
     r = check_lining(hy.Trapezoid(bottom_width=1.0, side_slope=z), 1.0, 0.005, cat.get("concrete"))
     assert r.side_slope_factor == pytest.approx(k1, abs=5e-3)
     assert r.side_shear == pytest.approx(r.side_slope_factor * r.bed_shear, rel=1e-12)
@@ -177,7 +177,7 @@ def test_side_shear_k1_ends(cat, z, k1):
 @pytest.mark.parametrize("ratio, kb", [(1.0, 2.0), (2.0, 2.0), (5.0, 2.38 - 0.206 * 5 + 0.0073 * 25), (10.0, 1.05),
                                        (30.0, 1.05)])
 def test_bend_shear_kb_ends(cat, ratio, kb):
-    # HEC-15 Section 3.4 (from memory): Kb = 2.0 for Rc/T <= 2, 2.38 - 0.206 Rc/T + 0.0073 (Rc/T)^2
+    # HEC-15 Section 3.4 (not verified): Kb = 2.0 for Rc/T <= 2, 2.38 - 0.206 Rc/T + 0.0073 (Rc/T)^2
     # between, 1.05 for Rc/T >= 10.
     section = hy.Trapezoid(bottom_width=1.0, side_slope=3.0)
     top = check_lining(section, 1.0, 0.005, cat.get("concrete")).analysis.top_width
@@ -187,7 +187,7 @@ def test_bend_shear_kb_ends(cat, ratio, kb):
 
 
 def test_bend_protection_length_customary_form(cat):
-    # HEC-15 Section 3.4 (from memory): Lp = 0.604 R^(7/6) / n with R and Lp in ft (CU); the SI form is used.
+    # HEC-15 Section 3.4 (not verified): Lp = 0.604 R^(7/6) / n with R and Lp in ft (CU); the SI form is used.
     section = hy.Trapezoid(bottom_width=1.0, side_slope=3.0)
     r = check_lining(section, 1.0, 0.01, cat.get("riprap"), d50=0.15, bend_radius=20.0)
     r_ft = r.analysis.hydraulic_radius / FOOT
@@ -204,7 +204,7 @@ def test_bend_radius_smaller_than_half_the_width_is_refused(cat):
 # ------------------------------------------------------------ freeboard and ditch depth
 
 def test_freeboard_superelevation_and_ditch_top(cat):
-    # Superelevation V^2 T / (g Rc) (HEC-15 Section 3.4, from memory); minimum 0.15 m; trapezoid top width
+    # Superelevation V^2 T / (g Rc) (HEC-15 Section 3.4, not verified); minimum 0.15 m; trapezoid top width
     # b + 2 Z y and perimeter b + 2 y sqrt(1 + Z^2) (Chow 1959, Table 2-1).
     section = hy.Trapezoid(bottom_width=0.8, side_slope=3.0)
     straight = check_lining(section, 0.8, 0.006, cat.get("concrete"))
@@ -265,7 +265,7 @@ def test_near_critical_warning_states_band_and_source(cat):
 
 
 def test_grass_permissible_shear_from_soil_and_cover(cat):
-    # HEC-15 Section 4.2 (from memory): the effective shear on the soil, tau_d (1 - CF) (ns/n)^2, must not
+    # HEC-15 Section 4.2 (not verified): the effective shear on the soil, tau_d (1 - CF) (ns/n)^2, must not
     # exceed the soil's permissible shear; the check states it as tau_p = tau_p,soil / (1 - CF) (n/ns)^2.
     section = hy.Trapezoid(bottom_width=1.0, side_slope=3.0)
     for key in ("grass_good_sod", "grass_fair_mixed", "grass_poor_bunch"):
@@ -281,7 +281,7 @@ def test_grass_permissible_shear_from_soil_and_cover(cat):
 
 def test_bare_fine_soil(cat):
     r = check_lining(hy.Trapezoid(bottom_width=1.0, side_slope=3.0), 0.3, 0.002, cat.get("soil_fine_noncohesive"))
-    assert r.permissible_shear == pytest.approx(1.0)  # HEC-15 Section 4.3 (from memory): 1.0 Pa below D75 1.3 mm
+    assert r.permissible_shear == pytest.approx(1.0)  # HEC-15 Section 4.3 (not verified): 1.0 Pa below D75 1.3 mm
     assert r.manning_n == pytest.approx(0.016) and not r.stable
 
 
@@ -424,7 +424,7 @@ def test_sizing_steps_past_a_trial_size_without_a_settled_depth(cat):
 
 
 def test_layer_thickness_rule_and_d100(cat, tmp_path):
-    # Common practice, also HEC-15 Section 6.4 (from memory): thickness the larger of 1.5 D50 and D100.
+    # Common practice, also HEC-15 Section 6.4 (not verified): thickness the larger of 1.5 D50 and D100.
     section = hy.Trapezoid(bottom_width=1.0, side_slope=3.0)
     r = check_lining(section, 1.0, 0.01, cat.get("riprap"), d50=0.2)
     assert r.layer_thickness == pytest.approx(0.3) and r.filter_note and "geotextile" in r.filter_note
@@ -445,9 +445,9 @@ def test_supercritical_flow_in_a_bend_is_warned(cat):
 # ------------------------------------------------------------ the shear checks on arrays
 
 def test_shear_checks_on_arrays_give_the_published_stone_values(cat):
-    # HEC-15 Table 2.3 (from memory): 25 mm stone about 19 N/m^2, 50 mm 38, 150 mm 113, 300 mm 227, i.e. Eq. 6.7
+    # HEC-15 Table 2.3 (not verified): 25 mm stone about 19 N/m^2, 50 mm 38, 150 mm 113, 300 mm 227, i.e. Eq. 6.7
     # at F* = 0.047 (Table 6.1 below Re* = 4e4); K1 = 0.77 for Z <= 1.5 and 1.0 for Z >= 5 (HEC-15 Section 3.2,
-    # from memory); K2 = sqrt(1 - sin^2(theta)/sin^2(phi)) on a mild bed (HEC-15 Section 6.3.2, from memory).
+    # not verified); K2 = sqrt(1 - sin^2(theta)/sin^2(phi)) on a mild bed (HEC-15 Section 6.3.2, not verified).
     lin = cat.get("riprap")
     d50 = np.array([0.025, 0.05, 0.15, 0.30])
     sc = shear_checks(lin, 0.5, 0.001, d50=d50, left_slope=np.array([1.5, 5.0, 3.0, np.nan]), right_slope=6.0)
@@ -469,7 +469,7 @@ def test_shear_checks_on_arrays_give_the_published_stone_values(cat):
 
 
 def test_shear_checks_agree_with_check_lining_channel_by_channel(cat):
-    # The same relations as check_lining, bends included (Kb, HEC-15 Section 3.4, from memory).
+    # The same relations as check_lining, bends included (Kb, HEC-15 Section 3.4, not verified).
     rng = np.random.default_rng(21)
     for key in ("riprap", "grass_good_sod", "soil_fine_noncohesive", "concrete"):
         lin = cat.get(key)

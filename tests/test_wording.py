@@ -31,7 +31,7 @@ def test_three_significant_figures():
 
 def test_lining_warnings_follow_the_session_units():
     # A concrete ditch on a flat grade runs below the self-cleaning velocity (0.61 m/s, 2 ft/s, Chow 1959,
-    # Sec. 7-3, from memory).
+    # Sec. 7-3, not verified).
     st = check_lining(hy.Trapezoid(bottom_width=2.0, side_slope=3.0), 0.2, 0.0005, load_catalogue().get("concrete"))
     slow = next(w for w in st.warnings if "silt" in w)
     assert slow.startswith("velocity 0.420 m/s is below 0.610 m/s, so silt")

@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 import hydraulics as hy
+from hydraulics import provenance
 from hydraulics import units as hu
 from hydraulics.errors import InputError
 from hydraulics.stability import check_lining
@@ -140,6 +141,8 @@ def run(args) -> int:
     units = hu.system(args.units)
     section, result, found, stab = solve(args)
     warnings = [in_units(w, units) for w in (result.warnings if stab is None else stab.warnings)]
+    texts = result.warnings if stab is None else stab.cited_texts()
+    unverified = provenance.not_verified_lines(provenance.cited_not_verified(texts))
     if args.json:
         out = {f.key: convert(getattr(result, f.key), f.quantity, units) for f in CHANNEL_FIELDS}
         if found is not None:
@@ -149,6 +152,7 @@ def run(args) -> int:
             out["stability"] = stab.to_dict(units)
         out["units"] = unit_labels(units)
         out["warnings"] = warnings
+        out["not_verified"] = unverified
         emit_json(out)
         return 0
     rows = []
@@ -166,4 +170,9 @@ def run(args) -> int:
             print(f"  Note: {in_units(note, units)}")
     for w in warnings:
         print(f"  Warning: {w}")
+    if unverified:
+        print(f"{provenance.NOT_VERIFIED_TITLE} ({provenance.NOT_VERIFIED_MARK}; check each before relying on "
+              "this result):")
+        for line in unverified:
+            print(f"  {line}")
     return 0

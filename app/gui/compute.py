@@ -61,6 +61,7 @@ class Evaluation:
     verdict: Verdict = field(default_factory=lambda: Verdict("none", "No result", ""))
     warnings: list = field(default_factory=list)
     notes: list = field(default_factory=list)   # statements of method, with sources
+    not_verified: list = field(default_factory=list)  # published values leant on, not yet read (provenance)
     error: str | None = None          # why there is no result, in words
     error_field: str | None = None    # the core's name of the input at fault, if one is
 
@@ -296,6 +297,7 @@ def evaluate(channel: Channel, units: UnitSystem) -> Evaluation:
     ev.freeboard, ev.superelevation = design.freeboard, design.superelevation
     ev.total_depth, ev.top_width_at_top = design.total_depth, design.top_width_at_top
     ev.warnings, ev.notes = list(design.warnings), list(design.notes)
+    ev.not_verified = design.not_verified
     ev.lining = design.stability
     ev.roughness = solver_roughness(channel)
     ev.verdict = _verdict(ev, units)

@@ -9,6 +9,7 @@ from __future__ import annotations
 from PySide6.QtCore import Qt
 from PySide6.QtWidgets import QFrame, QGridLayout, QLabel, QScrollArea, QVBoxLayout, QWidget
 
+from hydraulics.provenance import NOT_VERIFIED_MARK, NOT_VERIFIED_TITLE
 from hydraulics.units import UnitSystem
 from hydraulics.wording import in_units
 
@@ -138,6 +139,18 @@ class ResultsPanel(QWidget):
         self.warnings.setWordWrap(True)
         self.warnings.setTextFormat(Qt.TextFormat.RichText)
         lay.addWidget(self.warnings)
+        # the one list of published values this result leans on that have not been read in the publication
+        self.unverified_heading = QLabel(f"{NOT_VERIFIED_TITLE} ({NOT_VERIFIED_MARK})")
+        self.unverified_heading.setObjectName("subheading")
+        self.unverified_heading.setToolTip("Values recalled from the publication and not yet read in it; the "
+                                           "sheet lists them too. Check each before relying on the result.")
+        lay.addWidget(self.unverified_heading)
+        self.unverified = QLabel()
+        self.unverified.setObjectName("unverified")
+        self.unverified.setWordWrap(True)
+        self.unverified.setTextFormat(Qt.TextFormat.RichText)
+        self.unverified.setTextInteractionFlags(Qt.TextInteractionFlag.TextSelectableByMouse)
+        lay.addWidget(self.unverified)
         lay.addStretch(1)
         self.scroll.setWidget(body)
 
@@ -190,6 +203,12 @@ class ResultsPanel(QWidget):
         else:
             self.warnings.setText("None from the checks made." if shown is not None else "—")
         self.warnings.setEnabled(usable)
+        unverified = [in_units(line, units) for line in shown.not_verified] if shown is not None else []
+        self.unverified.setText(f"<ul style='margin-left:-24px'>{''.join(f'<li>{_escape(u)}</li>' for u in unverified)}"
+                                "</ul>" if unverified else "")
+        self.unverified.setVisible(bool(unverified))
+        self.unverified_heading.setVisible(bool(unverified))
+        self.unverified.setEnabled(usable)
         self.shown = shown
 
     def _set_verdict(self, status: str, headline: str, reason: str) -> None:

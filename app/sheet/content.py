@@ -25,10 +25,12 @@ import numpy as np
 from dataclasses import dataclass
 
 import hydraulics as hy
+from hydraulics import provenance
 from hydraulics import units as hu
 from hydraulics.linings import Catalogue, hec15
-from hydraulics.stability import FREEBOARD_SOURCE, LINED_WIDTH_RULE, SUPERELEVATION_SOURCE, StabilityResult
-from hydraulics.wording import Worded, format_quantity
+from hydraulics.freeboard import freeboard_rule as freeboard_rule_words
+from hydraulics.stability import LINED_WIDTH_RULE, StabilityResult
+from hydraulics.wording import Worded
 
 from .. import __version__
 from ..evaluate import ChannelDesign, design_flow, evaluate_channel, load_default_catalogue
@@ -160,6 +162,7 @@ class ChannelSheet:
     comparison_priced: bool         # a cost column is printed
     cautions: list                  # sentences
     sources: list                   # "[1] Manning n: ..." lines the items refer to
+    not_verified: str               # the values cited here not yet read in their publication, one paragraph ("" none)
     design: ChannelDesign
     roughness: object               # the n the solver used: a float or a depth-dependent model
     lining_label: str
@@ -267,7 +270,7 @@ def _typed_n_words(ch, section) -> str:
         return f"{n_text(per_segment[0])} (the survey's own, on every segment)"
     values = ", ".join(n_text(v) for v in per_segment)
     return (f"the survey's own, per segment: {values}; composite n by Horton and Einstein "
-            "(Chow 1959, Sec. 6-6, from memory)")
+            f"({provenance.cite('composite_n')})")
 
 
 def input_items(design: ChannelDesign, f: Formatter, lining=None, catalogue_text: str = "",
@@ -452,7 +455,7 @@ def _stone_items(st: StabilityResult, f: Formatter) -> list:
     parts = []
     if st.reynolds is not None:
         parts.append(f"particle Reynolds number Re* {_sig(st.reynolds, 3)}: F* {st.shields:.3f}, SF required "
-                     f"{st.required_safety_factor:.2f} (HEC-15 Table 6.1)")
+                     f"{st.required_safety_factor:.2f} ({provenance.cite('table_6_1')})")
     if st.layer_thickness is not None and st.category == "stone":
         parts.append(f"layer thickness t {f.stone(st.layer_thickness)}")
     if parts:
@@ -466,10 +469,7 @@ def freeboard_rule(design: ChannelDesign, f: Formatter) -> str:
         return in_units(design.stability.freeboard_rule(f.units), f.units)
     ch = design.channel
     min_fb = hec15.MIN_FREEBOARD if ch.min_freeboard is None else ch.min_freeboard
-    text = f"minimum freeboard {format_quantity(min_fb, 'length', f.units)} ({FREEBOARD_SOURCE})"
-    if design.superelevation is not None:
-        text += f", plus {format_quantity(design.superelevation, 'length', f.units)} {SUPERELEVATION_SOURCE}"
-    return in_units(text, f.units)
+    return freeboard_rule_words(min_fb, design.superelevation, f.units)
 
 
 def _depth_items(design: ChannelDesign, f: Formatter, src: Sources) -> list:
@@ -484,7 +484,7 @@ def _depth_items(design: ChannelDesign, f: Formatter, src: Sources) -> list:
     if ch.bend_radius is not None and st is not None and st.bend_factor is not None:
         text = f"Rc {f(ch.bend_radius, 'length')}, Kb {st.bend_factor:.3f}"
         if st.bend_protection_length is not None:
-            lp_source = src.ref("bend protection", "Lp = 0.736 R^(7/6) / n (SI), HEC-15 Section 3.4 (from memory)")
+            lp_source = src.ref("bend protection", f"Lp = 0.736 R^(7/6) / n (SI), {provenance.cite('bend_length')}")
             text += f"; protect {f(st.bend_protection_length, 'length')} downstream {lp_source}"
         items.append(Item("Bend", text))
     items.append(Item("Total depth", f"{f(design.total_depth, 'length')} (yn + freeboard)"))
@@ -554,6 +554,10 @@ def cautions(design: ChannelDesign, f: Formatter) -> list:
     return list(dict.fromkeys(out))
 
 
+def _item_texts(items) -> list:
+    return [f"{i.label} {i.value}" for i in items]
+
+
 def catalogue_words(catalogue: Catalogue) -> str:
     """'linings.toml 1.0.0' or 'linings.toml + prices.toml 1.0.0' (the shipped catalogue's version)."""
     version = f" {catalogue.catalogue_version}" if catalogue.catalogue_version else ""
@@ -604,6 +608,9 @@ def channel_sheet(project, channel, catalogue: Catalogue | None = None) -> Chann
         thickness = None
     depth_items = _depth_items(design, f, src)
     comparison, comparison_notes, priced = comparison_lines(design, f)
+    warned = cautions(design, f)
+    printed = [*_item_texts(inputs), *_item_texts(lining_items), *_item_texts(depth_items), reason, *warned,
+               *src.lines, *comparison_notes, *(c.basis for c in checks), *design.cited_texts()]
     return ChannelSheet(
         project=project.name, channel=channel.name, location=channel.location, units=units, format=f,
         fingerprint=fingerprint(channel, catalogue=catalogue), version=__version__, catalogue=cat_text,
@@ -611,7 +618,10 @@ def channel_sheet(project, channel, catalogue: Catalogue | None = None) -> Chann
         lining_items=lining_items,
         depth_items=depth_items, verdict=verdict, verdict_reason=reason, hand_check=hand_check(design, f),
         comparison=comparison, comparison_notes=comparison_notes, comparison_priced=priced,
-        cautions=cautions(design, f), sources=src.printed(), design=design, roughness=roughness,
+        cautions=warned, sources=src.printed(),
+        not_verified=in_units(provenance.not_verified_paragraph(provenance.cited_not_verified(printed), values=False),
+                              units),
+        design=design, roughness=roughness,
         lining_label=lining_label, thickness=thickness)
 
 

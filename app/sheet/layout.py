@@ -26,6 +26,8 @@ from reportlab.pdfbase.pdfmetrics import stringWidth
 from reportlab.pdfgen import canvas as rl_canvas
 from reportlab.platypus import Paragraph, Table, TableStyle
 
+from hydraulics.provenance import NOT_VERIFIED_TITLE
+
 from .. import __version__
 from .fonts import FONT, register
 from .rating import rating_drawing
@@ -293,6 +295,9 @@ def _build(sheet, size, col_w, full_w, rating_h, comparison_rows):
         comparison += [_p(n, st["small"]) for n in notes]
     bullets = [Paragraph(escape(t), st["bullet"], bulletText="\u2022") for t in sheet.cautions]
     bullets += [_p(t, st["bullet"]) for t in sheet.sources]
+    if sheet.not_verified:
+        bullets.append(Paragraph(escape(sheet.not_verified).replace(NOT_VERIFIED_TITLE, f"<b>{NOT_VERIFIED_TITLE}</b>", 1),
+                                 st["bullet"]))
     cautions = _split_even(bullets, col_w)
 
     h_left = sum(HEADING_H + _height(fl, col_w) + 3 for _, fl in left)

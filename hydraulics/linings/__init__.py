@@ -3,7 +3,8 @@
 Pure core (numpy, scipy, standard library). The relations are those of FHWA
 HEC-15, *Design of Roadside Channels with Flexible Linings* (Kilgore and
 Cotton, 3rd ed., 2005, FHWA-NHI-05-114); see :mod:`hydraulics.linings.hec15`
-for which were verified against the text and which are from memory.
+and :mod:`hydraulics.provenance` for where each value stands in the text and
+which have not yet been verified against it.
 
     import hydraulics as hy
     from hydraulics.linings import load_catalogue

@@ -9,8 +9,9 @@ validated like any other.
 
 Every number in an entry carries a source: a ``source`` string in its table or a
 ``<field>_source`` string beside it (publication and table or equation, or
-"common practice", "from memory", "user data"). ``unit_cost`` is the user's own
-price and is never shipped.
+"common practice", "user data"; a value not yet verified against its
+publication carries the mark of :mod:`hydraulics.provenance`). ``unit_cost``
+is the user's own price and is never shipped.
 
 Validation is hand-written (the core depends only on numpy/scipy and the
 standard library); every error names the file, the entry and the field.
@@ -351,7 +352,7 @@ class Lining:
         if soil is None:
             raise InputError(f"lining {self.key!r} soil", "table is missing")
         if soil["type"] == "fine_noncohesive":
-            return 1.0  # HEC-15 Chapter 4, fine non-cohesive soil (from memory), see noncohesive_permissible_shear
+            return 1.0  # HEC-15 Section 4.3, fine non-cohesive soil (provenance: soil_noncohesive)
         if soil["type"] == "noncohesive":
             return hec15.noncohesive_permissible_shear(self._need("soil", "d75"))
         return hec15.cohesive_permissible_shear(self._need("soil", "soil_class"),

@@ -6,23 +6,11 @@ FHWA-NHI-05-114, Federal Highway Administration, 2005 (cited below as
 "HEC-15"). Chow, V. T., *Open-Channel Hydraulics*, McGraw-Hill, 1959, is cited
 as "Chow (1959)".
 
-Each relation is one function with its equation number. Where the text of
-HEC-15 could be read while this module was written the docstring says
-"verified"; where it could not, the value is marked "from memory" and should be
-checked against the printed circular before the program is relied on.
-
-Verified (read in the HEC-15 text):
-  Eq. 6.1 with alpha = 0.319 (SI) and its range 1.5 <= da/D50 <= 185;
-  the form of Eq. 6.2 (alpha = 1.0 SI, terms f(Fr), f(REG), f(CG)) and its
-  range 0.3 < da/D50 < 8.0; Eq. 6.7, 6.8, 6.9 with nu = 1.131e-6 m^2/s,
-  gamma = 9810 N/m^3 and the typical stone unit weight 25 900 N/m^3;
-  Eq. 3.1 (Chapter 3.1) and Eq. 3.2 as quoted in Section 6.2; the order of
-  Chapter 3 (straight channels, side slopes, composite linings, bends, steep
-  slopes); the size classes of Chapter 6
-  (gravel 15-64 mm, cobble 64-130 mm, riprap 130-550 mm); the form of Eq. D.1.
-From memory (checked only for internal consistency, see each function):
-  Eq. 6.3-6.6, Table 6.1, K1, Kb, Lp, K2, Appendix D stability terms,
-  Chapter 4 vegetation and soil relations and their tables, the freeboard rule.
+Each relation is one function with its equation or table number. Whether
+the value was read in the circular, and where, is kept in one place,
+:mod:`hydraulics.provenance` (key given as ``provenance: <key>`` below);
+values not yet read there are marked wherever they are printed and listed
+on the sheet and in the window.
 
 Functions that take user input check it (``InputError`` naming the field) and
 flag a result outside the relation's range with a :class:`ValidityWarning`.
@@ -48,7 +36,8 @@ from ..wording import worded
 __all__ = [
     "ValidityWarning", "NU_HEC15", "GAMMA_STONE", "SHIELDS_LOW", "SHIELDS_HIGH", "SF_LOW", "SF_HIGH",
     "RE_LOW", "RE_HIGH", "BLODGETT_RANGE", "BATHURST_RANGE", "STONE_SIZE_RANGE", "STEEP_SLOPE",
-    "MIN_FREEBOARD", "FINE_D75", "COARSE_D75", "design_shear", "blodgett_n", "bathurst_n", "bathurst_n_manning", "strickler_n",
+    "MIN_FREEBOARD", "FINE_D75", "COARSE_D75", "design_shear", "blodgett_n", "bathurst_n", "bathurst_n_manning",
+    "strickler_n",
     "shear_velocity", "particle_reynolds", "shields_and_safety_factor", "stone_permissible_shear",
     "StoneSize", "required_d50", "required_d50_for_shear", "side_slope_factor", "bend_factor", "bend_protection_length",
     "tractive_force_ratio", "required_d50_side", "steep_slope_safety_factor", "required_d50_steep",
@@ -72,32 +61,30 @@ def _warn(message: str) -> None:
 # --------------------------------------------------------------------------
 
 #: Kinematic viscosity used by HEC-15 in Eq. 6.9 [m^2/s], water at 15.5 C
-#: (HEC-15 Section 6.2, verified). The core's NU_WATER (20 C) is not used here
+#: (HEC-15 Section 6.2; provenance: particle_reynolds). The core's NU_WATER (20 C) is not used here
 #: so that results match the circular.
 NU_HEC15 = 1.131e-6
 
-#: Typical specific weight of stone [N/m^3] (HEC-15 Section 6.2, verified:
-#: "typically ... 25,900 N/m3 (165 lb/ft3) is used").
+#: Typical specific weight of stone [N/m^3] (HEC-15 Section 6.2; provenance: gamma_stone).
 GAMMA_STONE = 25900.0
 
-#: Table 6.1 of HEC-15 (from memory): F* = 0.047 and SF = 1.0 for
+#: HEC-15 Table 6.1 (provenance: table_6_1): F* = 0.047 and SF = 1.0 for
 #: Re* <= 4e4; F* = 0.15 and SF = 1.5 for Re* >= 2e5; linear in Re* between.
 SHIELDS_LOW, SHIELDS_HIGH = 0.047, 0.15
 SF_LOW, SF_HIGH = 1.0, 1.5
 RE_LOW, RE_HIGH = 4.0e4, 2.0e5
 
-#: Range of Blodgett's relation, HEC-15 Eq. 6.1 (verified): 1.5 <= da/D50 <= 185.
+#: Range of Blodgett's relation, HEC-15 Eq. 6.1 (provenance: blodgett): 1.5 <= da/D50 <= 185.
 BLODGETT_RANGE = (1.5, 185.0)
-#: Range of Bathurst's relation, HEC-15 Eq. 6.2 (verified): 0.3 < da/D50 < 8.0.
+#: Range of Bathurst's relation, HEC-15 Eq. 6.2 (provenance: bathurst): 0.3 < da/D50 < 8.0.
 BATHURST_RANGE = (0.3, 8.0)
-#: Stone sizes the Chapter 6 procedures apply to [m] (HEC-15 Chapter 6,
-#: verified: 15 mm gravel to 550 mm riprap).
+#: Stone sizes the Chapter 6 procedures apply to [m]: 15 mm gravel to 550 mm
+#: riprap (HEC-15 Chapter 6; provenance: size_classes).
 STONE_SIZE_RANGE = (0.015, 0.550)
 #: Bed slope above which HEC-15 sends riprap design to the steep-slope
-#: procedure of Appendix D (from memory: "steep slopes, greater than 10 percent").
+#: procedure of Appendix D (provenance: steep_slope).
 STEEP_SLOPE = 0.10
-#: Minimum freeboard for roadside channels [m] (from memory: HEC-15 Section 2
-#: suggests about 0.15 m (0.5 ft) for small roadside channels; local codes govern).
+#: Minimum freeboard for roadside channels [m] (provenance: freeboard; local codes govern).
 MIN_FREEBOARD = 0.15
 
 # denominator of Eq. 6.1 vanishes at da/D50 = 10^(-2.25/5.23)
@@ -167,14 +154,15 @@ def side_slope_factor(side_slope):
 
     Notes
     -----
-    From memory (HEC-15 Section 3.2, side slope stability; section number inferred
-    from the chapter outline, equation from memory). The three pieces meet
-    at Z = 1.5 (0.769) and Z = 5 (1.000), which supports the recollection.
+    HEC-15 Section 3.3, side slope stability; not verified against the
+    circular (provenance: ``side_factor``; the section could not be read in
+    the copies searched). The three pieces meet at Z = 1.5 (0.769) and
+    Z = 5 (1.000), a consistency check on the coefficients.
     Z = 0 (vertical walls) is given 0.77 as the steepest tabulated case.
 
     References
     ----------
-    HEC-15, Chapter 3 (equation numbers from memory).
+    HEC-15 Section 3.3 (provenance: ``side_factor``).
     """
     z = validate.non_negative("side_slope", side_slope)
     if _vec(z):
@@ -204,9 +192,10 @@ def bend_factor(bend_radius, top_width):
 
     Notes
     -----
-    From memory (HEC-15 Section 3.4, Eq. 3.5 and 3.6 by recollection; after
-    Young et al., 1996). The quadratic gives 1.997 at Rc/T = 2 and 1.050 at
-    Rc/T = 10, so the pieces meet, which supports the recollection.
+    HEC-15 Section 3.4, after Young et al., 1996; not verified against the
+    circular (provenance: ``bend_factor``). The quadratic gives 1.997 at
+    Rc/T = 2 and 1.050 at Rc/T = 10, so the pieces meet, a consistency check
+    on the coefficients.
 
     References
     ----------
@@ -242,9 +231,10 @@ def bend_protection_length(hydraulic_radius, n):
 
     Notes
     -----
-    From memory (HEC-15 Section 3.4): alpha = 0.736 SI and 0.604 CU. The two
-    constants differ by 0.3048^(-1/6), as they must for a length computed from
-    R^(7/6)/n, which supports the recollection; the SI value is used here.
+    HEC-15 Section 3.4, not verified against the circular (provenance:
+    ``bend_length``): alpha = 0.736 SI and 0.604 CU. The two constants differ
+    by 0.3048^(-1/6), as they must for a length computed from R^(7/6)/n, a
+    consistency check; the SI value is used here.
 
     References
     ----------
@@ -354,8 +344,9 @@ def bathurst_n(average_depth, d50, top_width, froude):
     -----
     Valid for 0.3 < da/D50 < 8.0 (HEC-15, verified); a ValidityWarning is
     issued outside. The form of Eq. 6.2, its constant and its range were read
-    in HEC-15; the expressions of Eq. 6.3 to 6.6 are from memory (they appear
-    as images in the copy that could be read).
+    in HEC-15; the expressions of Eq. 6.3 to 6.6 are not verified against
+    the circular (provenance: ``bathurst_terms``; they appear as images in the
+    copy that could be read).
 
     References
     ----------
@@ -463,8 +454,8 @@ def strickler_n(d50):
 
     Notes
     -----
-    From memory: Chow (1959), Section 5-?, Strickler's formula with the
-    coefficient 0.034 for D in feet. Offered as a simple alternative; HEC-15
+    Chow (1959), Chapter 5, Strickler's formula with the coefficient 0.034
+    for D in feet; not verified (provenance: ``strickler``). Offered as a simple alternative; HEC-15
     recommends Eq. 6.1/6.2 for riprap and gravel linings.
 
     References
@@ -480,7 +471,7 @@ def strickler_n(d50):
 # --------------------------------------------------------------------------
 
 def shear_velocity(depth, slope):
-    r"""Shear velocity at the maximum depth, HEC-15 Eq. 6.10 (number from memory).
+    r"""Shear velocity at the maximum depth, HEC-15 Section 6.2 (provenance: ``shear_velocity``).
 
     .. math:: V_* = \sqrt{g d S}
 
@@ -567,7 +558,7 @@ def shields_and_safety_factor(reynolds):
 
     Notes
     -----
-    From memory: HEC-15 Table 6.1. The constant rows are the table's own
+    HEC-15 Table 6.1, not verified (provenance: ``table_6_1``). The constant rows are the table's own
     values, not a clamp of an extrapolated relation.
 
     References
@@ -689,7 +680,7 @@ def required_d50(depth, slope, gamma_stone=GAMMA_STONE, gamma_water=GAMMA_WATER,
 
     References
     ----------
-    HEC-15 Eq. 6.8 and 6.9 (verified), Table 6.1 (from memory).
+    HEC-15 Eq. 6.8 and 6.9 (read), Table 6.1 (not verified; provenance: ``table_6_1``).
     """
     d = validate.positive("depth", depth)
     s = validate.slope(slope)
@@ -741,7 +732,7 @@ def required_d50_for_shear(design_shear_value, depth, slope, gamma_stone=GAMMA_S
 
     References
     ----------
-    HEC-15 Eq. 6.7 to 6.9 (verified), Table 6.1 (from memory).
+    HEC-15 Eq. 6.7 to 6.9 (read), Table 6.1 (not verified; provenance: ``table_6_1``).
     """
     tau = validate.positive("design_shear", design_shear_value)
     d = validate.positive("depth", depth)
@@ -779,9 +770,10 @@ def tractive_force_ratio(side_slope, angle_of_repose):
 
     Notes
     -----
-    From memory (HEC-15 Eq. 6.11 by recollection; after Anderson et al., 1970).
-    HEC-15 Figure 6.2 gives phi from D50 and stone shape (about 40 to 42
-    degrees for angular riprap, from memory).
+    HEC-15 Section 6.3.2, after Anderson et al., 1970; not verified against
+    the circular (provenance: ``tractive_ratio``). HEC-15 Figure 6.2 gives phi
+    from D50 and stone shape (about 40 to 42 degrees for angular riprap; not
+    verified, provenance: ``angle_of_repose``).
 
     References
     ----------
@@ -819,7 +811,7 @@ def required_d50_side(d50_bottom, side_slope, angle_of_repose):
 
     Notes
     -----
-    From memory (HEC-15 Section 6.3.2, equation number by recollection). For
+    HEC-15 Section 6.3.2 (provenance: ``tractive_ratio``, not verified). For
     mild slopes; on steep slopes use :func:`required_d50_steep`.
 
     References
@@ -881,7 +873,7 @@ def steep_slope_safety_factor(d50, depth, slope, side_slope, angle_of_repose, sh
 
     Notes
     -----
-    From memory: HEC-15 Appendix D (Eq. D.2 to D.6 by recollection; after
+    HEC-15 Appendix D (Eq. D.2 to D.6 not verified, provenance: ``steep_method``; after
     Stevens and Simons' safety-factor method). On a flat bank (theta -> 0) it
     reduces to 1/eta, i.e. to Eq. 6.7/6.8, which the tests check. The form of
     Eq. D.1 (D50 = SF d S Delta / (F* (SG - 1))) was read in HEC-15.
@@ -940,7 +932,7 @@ def required_d50_steep(depth, slope, side_slope, angle_of_repose, gamma_stone=GA
 
     Notes
     -----
-    From memory (HEC-15 Appendix D; see :func:`steep_slope_safety_factor`).
+    HEC-15 Appendix D (provenance: ``steep_method``; see :func:`steep_slope_safety_factor`).
     HEC-15 applies it to slopes above 10 %. The stone's actual safety factor
     rises with D50 toward cos(theta) tan(phi) / sin(theta) cos(beta), so a
     root exists only if that limit exceeds the required SF.
@@ -1001,10 +993,10 @@ def stone_layer_thickness(d50, d100=None, multiple=1.5):
 
     Notes
     -----
-    Common practice, also stated in HEC-15 Section 6.4 (from memory): the
-    thickness should be at least D100 or 1.5 D50, whichever is greater. A
-    granular filter or geotextile is normally needed beneath (HEC-15 Section
-    6.4, from memory).
+    Common practice, also in HEC-15 Section 6.4 (not verified against the
+    circular; provenance: ``layer_thickness``): the thickness should be at
+    least D100 or 1.5 D50, whichever is greater. A granular filter or
+    geotextile is normally needed beneath (provenance: ``filter``).
 
     References
     ----------
@@ -1026,11 +1018,11 @@ def stone_layer_thickness(d50, d100=None, multiple=1.5):
 # --------------------------------------------------------------------------
 
 #: Density-stiffness coefficient Cs [-] by stand condition, HEC-15 Table 4.3
-#: (from memory).
+#: (not verified against the circular; provenance: ``table_4_3``).
 DENSITY_STIFFNESS = {"excellent": 580.0, "very_good": 290.0, "good": 106.0, "fair": 24.0, "poor": 8.6}
 
 #: Cover factor CF [-] by growth form and stand condition, HEC-15 Table 4.5
-#: ("cover factor values for uniform stands of grass"; number and values from memory).
+#: ("cover factor values for uniform stands of grass"; not verified, provenance: ``table_4_5``).
 COVER_FACTOR = {
     "sod": {"excellent": 0.98, "very_good": 0.95, "good": 0.90, "fair": 0.84, "poor": 0.75},
     "bunch": {"excellent": 0.55, "very_good": 0.53, "good": 0.50, "fair": 0.47, "poor": 0.41},
@@ -1039,7 +1031,7 @@ COVER_FACTOR = {
 
 
 def cover_factor(growth_form: str, condition: str) -> float:
-    """Cover factor CF of a grass stand, HEC-15 Table 4.5 (from memory).
+    """Cover factor CF of a grass stand, HEC-15 Table 4.5 (provenance: ``table_4_5``).
 
     Parameters
     ----------
@@ -1080,7 +1072,7 @@ def grass_roughness_coefficient(density_stiffness, stem_height):
 
     Notes
     -----
-    From memory (HEC-15 Eq. 4.4 by recollection; after Kouwen's model). The
+    HEC-15 Section 4.1, after Kouwen's model; not verified (provenance: ``grass_cn``). The
     SI constant 0.35 could not be checked against the customary one.
 
     References
@@ -1115,9 +1107,9 @@ def vegetation_n(roughness_coefficient, boundary_shear):
 
     Notes
     -----
-    From memory (HEC-15 Eq. 4.3 by recollection, alpha = 1.0 SI and 0.213 CU;
-    the two differ by 47.88^0.4 = 4.70, the pascal-to-lb/ft^2 factor to the
-    power 0.4, which supports the recollection).
+    HEC-15 Section 4.1, not verified (provenance: ``grass_n``): alpha = 1.0
+    SI and 0.213 CU; the two differ by 47.88^0.4 = 4.70, the pascal-to-lb/ft^2
+    factor to the power 0.4, a consistency check.
 
     References
     ----------
@@ -1129,9 +1121,9 @@ def vegetation_n(roughness_coefficient, boundary_shear):
 
 
 #: Non-cohesive soils finer than this D75 [m] share one permissible shear and
-#: one grain roughness (HEC-15 Chapter 4, from memory: 1.3 mm, 0.05 in).
+#: one grain roughness (HEC-15 Section 4.3: 1.3 mm, 0.05 in; provenance: ``soil_n``).
 FINE_D75 = 1.3e-3
-#: Upper D75 of the non-cohesive soil relation [m] (from memory: 50 mm; coarser
+#: Upper D75 of the non-cohesive soil relation [m] (50 mm, provenance: ``soil_noncohesive``; coarser
 #: material is designed as gravel by Chapter 6).
 COARSE_D75 = 50e-3
 
@@ -1154,9 +1146,9 @@ def soil_grain_n(d75=None):
 
     Notes
     -----
-    From memory (HEC-15 Eq. 4.? ; alpha = 0.015 SI with D75 in mm, 0.026 CU
-    with D75 in inches). Both give 0.0156 at 1.3 mm, matching the 0.016 used
-    for finer soil, which supports the recollection.
+    HEC-15 Section 4.3, not verified (provenance: ``soil_n``): alpha = 0.015
+    SI with D75 in mm, 0.026 CU with D75 in inches. Both give 0.0156 at
+    1.3 mm, matching the 0.016 used for finer soil, a consistency check.
 
     References
     ----------
@@ -1188,9 +1180,9 @@ def noncohesive_permissible_shear(d75):
 
     Notes
     -----
-    From memory (HEC-15 Eq. 4.6 by recollection; 0.75 SI with D75 in mm and
-    0.4 CU with D75 in inches: both give about 1.0 Pa at 1.3 mm, matching the
-    fine-soil value, which supports the recollection). Above 50 mm the
+    HEC-15 Section 4.3, not verified (provenance: ``soil_noncohesive``):
+    0.75 SI with D75 in mm and 0.4 CU with D75 in inches; both give about
+    1.0 Pa at 1.3 mm, matching the fine-soil value. Above 50 mm the
     material is gravel: ValidityWarning (use Chapter 6).
 
     References
@@ -1205,10 +1197,10 @@ def noncohesive_permissible_shear(d75):
     return tau if _vec(d) else float(tau)
 
 
-#: Coefficients of the cohesive-soil relation, HEC-15 Table 4.6 (from memory;
-#: after Temple et al., 1987). Per soil class: list of (PI low, PI high,
-#: c1, c2, c3, c4, c5, c6) in SI (tau in Pa). The low-PI and high-PI rows of each
-#: class agree at PI = 20 to within 0.5 %, which supports the recollection.
+#: Coefficients of the cohesive-soil relation, HEC-15 Table 4.6 (not verified
+#: against the circular, provenance: ``table_4_6``; after Temple et al., 1987).
+#: Per soil class: list of (PI low, PI high, c1, c2, c3, c4, c5, c6) in SI (tau
+#: in Pa). The low-PI and high-PI rows of each class agree at PI = 20 to within 0.5 %, a consistency check.
 COHESIVE_COEFFICIENTS = {
     "GM": [(10, 20, 1.07, 14.3, 47.7, 1.42, -0.61, 4.8e-3), (20, math.inf, 0.0, 0.0, 0.076, 1.42, -0.61, 48.0)],
     "GC": [(10, 20, 0.0477, 2.86, 42.9, 1.42, -0.61, 4.8e-2), (20, math.inf, 0.0, 0.0, 0.119, 1.42, -0.61, 48.0)],
@@ -1242,7 +1234,7 @@ def cohesive_permissible_shear(soil_class: str, plasticity_index, void_ratio):
 
     Notes
     -----
-    From memory (HEC-15 Eq. 4.7 and Table 4.6 by recollection; after Temple
+    HEC-15 Section 4.3 and Table 4.6, not verified (provenance: ``table_4_6``; after Temple
     et al., 1987). Soils with PI < 10 are treated as non-cohesive
     (:func:`noncohesive_permissible_shear`): InputError here. A void ratio
     above 2 gives a ValidityWarning (outside typical compacted soils).
@@ -1293,7 +1285,7 @@ def effective_soil_shear(design_shear_value, cover, n, n_soil):
 
     References
     ----------
-    HEC-15 Section 4.2 (Eq. 4.? from memory).
+    HEC-15 Section 4.2 (provenance: ``grass_shear``, not verified).
     """
     tau = validate.non_negative("design_shear", design_shear_value)
     cf = validate.number("cover_factor", cover, low=0.0, high=1.0, low_inclusive=True, high_inclusive=False)
@@ -1327,7 +1319,7 @@ def vegetation_permissible_shear(soil_permissible, cover, n, n_soil):
 
     References
     ----------
-    HEC-15 Section 4.2 (Eq. 4.? from memory).
+    HEC-15 Section 4.2 (provenance: ``grass_shear``, not verified).
     """
     tp = validate.positive("soil_permissible_shear", soil_permissible)
     cf = validate.number("cover_factor", cover, low=0.0, high=1.0, low_inclusive=True, high_inclusive=False)
@@ -1361,7 +1353,7 @@ def superelevation(velocity, top_width, bend_radius):
 
     Notes
     -----
-    HEC-15 Section 3.4 (equation number from memory); the relation is the
+    HEC-15 Section 3.4 (provenance: ``superelevation``, not verified); the relation is the
     usual subcritical estimate (twice the simple centrifugal value V^2 T /
     (2 g Rc)), conservative for design.
 
@@ -1396,7 +1388,7 @@ def freeboard(velocity=None, top_width=None, bend_radius=None, minimum=MIN_FREEB
 
     Notes
     -----
-    Rule (from memory): HEC-15 Section 2 suggests a minimum of about 0.15 m
+    Rule (provenance: ``freeboard``, not verified): HEC-15 Section 2 suggests a minimum of about 0.15 m
     (0.5 ft) for roadside channels and adding the superelevation of Section
     3.4 in bends. Local design codes govern and may ask for more (for example
     on supercritical flow, where surface waves approach the depth).

@@ -21,6 +21,7 @@ import numpy as np
 from .. import validate
 from ..constants import GAMMA_WATER
 from ..errors import InputError
+from ..provenance import cite
 from ..wording import worded
 from . import hec15
 
@@ -212,7 +213,8 @@ class StoneRoughness:
         if np.any((code == 1) & ((ratio <= a) | (ratio >= b))):
             out.append(f"da/D50 = {text} is outside {a:g} to {b:g}, the range of Bathurst's relation (HEC-15 Eq. 6.2)")
         if np.any(code == 3):
-            out.append(f"da/D50 = {text}: at the change from Bathurst's to Blodgett's relation (HEC-15 Section 6.1) "
+            out.append(f"da/D50 = {text}: at the change from Bathurst's to Blodgett's relation "
+                       f"({cite('relation_choice')}) "
                        f"n is taken between the two (a rule of this program, for da/D50 from 1.5 to "
                        f"{1.5 * SPLIT_BAND:.3g})")
         if np.any(code == 2):
@@ -267,7 +269,7 @@ class VegetationRoughness:
         out = []
         if np.any(np.asarray(depth) < self.stem_height):
             out.append(worded("flow depth below the stem height ({h}): the grass is not submerged, which the "
-                              "HEC-15 Chapter 4 roughness relation does not describe (from memory)",
+                              f"HEC-15 roughness relation of grass does not describe ({cite('grass_n')})",
                               h=(float(self.stem_height), "length")))
         return out
 

@@ -84,7 +84,7 @@ def test_comparison_table_as_tab_separated_text():
 
 
 def test_gravel_mulch_example_fails_in_words():
-    # FHWA HEC-15 (Kilgore and Cotton, 3rd ed., 2005), gravel-mulch design example, SI (from memory):
+    # FHWA HEC-15 (Kilgore and Cotton, 3rd ed., 2005), gravel-mulch design example, SI (not verified):
     # Q = 0.42 m^3/s, B = 0.4 m, Z = 3, S = 0.008, D50 = 25 mm; depth near 0.35 m, design shear near
     # 27 N/m^2, above the permissible shear, so the lining fails.
     ch = pj.Channel(flow=pj.FlowBasis(value=0.42), slope=0.008,
@@ -116,7 +116,7 @@ def test_curves_cover_the_design_point():
 
 def test_results_panel_restates_core_warnings_in_the_session_units(qtbot):
     # A concrete ditch on a flat grade runs below the self-cleaning velocity (0.61 m/s, 2 ft/s, Chow 1959,
-    # Sec. 7-3, from memory); the core words the warning in SI, the panel shows it in the session's units.
+    # Sec. 7-3, not verified); the core words the warning in SI, the panel shows it in the session's units.
     from app.gui.results_view import ResultsPanel
 
     ch = pj.Channel(flow=pj.FlowBasis(value=0.2), slope=0.0005,

@@ -5,7 +5,7 @@ the normal depth of a trapezoid from an independent root of Manning's
 equation (Chow, V. T., Open-Channel Hydraulics, McGraw-Hill, 1959, Eq. 5-6,
 customary constant 1.486) with scipy.optimize.brentq; a reach laid at its
 critical slope (Chow 1959, Sec. 6-4: S_c from Manning's equation at the
-critical depth, y_c = (q^2/g)^(1/3) for a rectangle, Eq. 4-11 (from memory))
+critical depth, y_c = (q^2/g)^(1/3) for a rectangle, Eq. 4-11 (not verified))
 is near-critical by definition; a pipe given forty times its full-flow
 capacity (Manning, A = pi D^2/4, R = D/4) has no normal depth; a
 catalogue concrete lining is non-erodible (common practice); a misspelt

@@ -516,3 +516,20 @@ def test_the_copied_comparison_keeps_formulas_as_text(demo_window, qtbot):
     expected = ["'=HYPERLINK(\"x\")", "'@SUM(1)", "'+1+cmd", "'-1+cmd", "' x=1"]
     assert names and all(n.startswith(e) for n, e in zip(names, expected))
     assert all(len(line.split("\t")) == len(lines[0].split("\t")) for line in lines)
+
+
+def test_results_list_the_values_not_yet_verified(demo_window):
+    """The window's results carry the same list as the sheet: values leant on but not yet read in HEC-15."""
+    from hydraulics import provenance as pv
+    w = demo_window
+    names = [c.name for c in w.doc.project.channels]
+    w.channel_list.setCurrentRow(names.index("Outfall swale"))       # riprap in a bend
+    panel = w.results
+    assert panel.unverified.isVisible() and pv.NOT_VERIFIED_TITLE in panel.unverified_heading.text()
+    text = panel.unverified.text()
+    for key in ("table_6_1", "bend_factor", "freeboard"):
+        assert pv.entry(key).what in text, key
+    assert pv.entry("blodgett").what not in text        # read in the circular, so not listed
+    w.channel_list.setCurrentRow(names.index("East verge ditch"))    # concrete: no stone relations
+    assert pv.entry("table_6_1").what not in panel.unverified.text()
+    assert pv.entry("freeboard").what in panel.unverified.text()

@@ -1,0 +1,268 @@
+"""Where every published value of the method stands: its place in the text and where that text was read.
+
+One entry per constant, table or relation the core uses from a publication.
+``place`` is where the value stands in the publication (chapter, section,
+equation, table or example number); ``read_in`` is where its text was read
+while the program was written (a page address, or a copy and its page). An
+entry with no ``read_in`` has not been verified against the publication: it is
+printed with that mark wherever it is cited (:func:`cite`) and listed in the
+one block :func:`not_verified` feeds on the design sheet and in the window.
+The goal is an empty list.
+
+``python -m hydraulics.provenance`` prints the table kept in
+``docs/method-values.md`` (a test keeps the two the same).
+
+Publications cited
+------------------
+HEC-15: Kilgore, R. T. and Cotton, G. K., *Design of Roadside Channels with
+Flexible Linings*, Hydraulic Engineering Circular No. 15, 3rd ed.,
+FHWA-NHI-05-114, Federal Highway Administration, September 2005.
+HEC-22: Brown, S. A. et al., *Urban Drainage Design Manual*, Hydraulic
+Engineering Circular No. 22, 3rd ed., FHWA-NHI-10-009, 2009.
+Chow (1959): Chow, V. T., *Open-Channel Hydraulics*, McGraw-Hill, 1959.
+"""
+
+from __future__ import annotations
+
+import re
+from dataclasses import dataclass
+
+__all__ = ["Published", "REGISTER", "READ_IN", "NOT_VERIFIED_MARK", "NOT_VERIFIED_TITLE", "entry", "cite",
+           "not_verified", "not_verified_lines", "cited_not_verified", "not_verified_paragraph", "unmarked",
+           "markdown_table"]
+
+#: Printed right after a citation whose value has not been read in the publication; the one list
+#: headed NOT_VERIFIED_TITLE says what the mark means.
+NOT_VERIFIED_MARK = "\u2020"
+#: Heading of the one list of such values (sheet and window).
+NOT_VERIFIED_TITLE = "Not verified against the circular"
+
+#: Where the text was read: short names used in ``Published.read_in``.
+READ_IN = {
+    "fhwa-ch2": "FHWA web edition of HEC-15, Chapter 2 (fhwa.dot.gov/engineering/hydraulics/pubs/05114/hec1502.cfm, "
+                "archived copy)",
+    "fhwa-ch3": "FHWA web edition of HEC-15, Chapter 3 (.../pubs/05114/hec1503.cfm)",
+    "fhwa-ch4": "FHWA web edition of HEC-15, Chapter 4 (.../pubs/05114/hec1504.cfm, archived copy)",
+    "fhwa-ch6": "FHWA web edition of HEC-15, Chapter 6 (.../pubs/05114/hec1506.cfm)",
+    "fhwa-ch7": "FHWA web edition of HEC-15, Chapter 7 (.../pubs/05114/hec1507.cfm, archived copy)",
+    "fhwa-appd": "FHWA web edition of HEC-15, Appendix D (.../pubs/05114/hec15appd.cfm)",
+    "restated-6.2": "restatement of HEC-15 Section 6.2 with its equations in text "
+                    "(plainwater.co, \"HEC-15: Permissible Shear Stress\")",
+}
+
+
+@dataclass(frozen=True)
+class Published:
+    """One published value or relation the core uses."""
+
+    key: str
+    what: str        # what it is, in a few words
+    value: str       # the value or relation as published (SI, customary in brackets where printed)
+    place: str       # publication and its equation, table, section or example number
+    read_in: tuple = ()  # keys of READ_IN where the text was read; empty: not verified
+    note: str = ""   # how the program uses it, where it differs
+
+    @property
+    def verified(self) -> bool:
+        return bool(self.read_in)
+
+
+def _entries(*items: Published) -> dict:
+    out = {}
+    for item in items:
+        if item.key in out:
+            raise ValueError(f"provenance: key {item.key!r} given twice")
+        unknown = [r for r in item.read_in if r not in READ_IN]
+        if unknown:
+            raise ValueError(f"provenance: {item.key!r} read in unknown sources {unknown}")
+        out[item.key] = item
+    return out
+
+
+REGISTER: dict = _entries(
+    # ---------------------------------------------------------------- HEC-15 Chapters 2 and 3
+    Published("supercritical_waves", "surface waves and splash in supercritical flow",
+              "supercritical flow \"may create surface waves whose height approaches the depth of flow\"; "
+              "on very steep grades splash and surge need special freeboard",
+              "HEC-15 Section 2.1.1", ("fhwa-ch2",)),
+    Published("design_shear", "design shear at the maximum depth", "tau_d = gamma d So, d the maximum depth",
+              "HEC-15 Eq. 3.1", ("restated-6.2",)),
+    Published("stability_criterion", "stability criterion", "tau_p >= SF tau_d", "HEC-15 Eq. 3.2",
+              ("restated-6.2",)),
+    Published("gamma_water", "unit weight of water", "9,810 N/m^3 (62.4 lb/ft^3)", "HEC-15 Eq. 6.7",
+              ("restated-6.2",)),
+    Published("gravity", "acceleration of gravity", "9.81 m/s^2 (32.2 ft/s^2)", "HEC-15 Eq. 6.2",
+              ("fhwa-ch6",),
+              "the program uses the standard 9.80665 m/s^2, 0.03 % apart"),
+    Published("side_factor", "ratio of side to bed shear K1", "K1 by side slope Z", "HEC-15 Section 3.3"),
+    Published("bend_factor", "bend factor Kb", "Kb by Rc/T", "HEC-15 Section 3.4"),
+    Published("bend_length", "length of protection below a bend", "Lp = 0.736 R^(7/6) / n (SI)",
+              "HEC-15 Section 3.4"),
+    Published("superelevation", "superelevation of the water surface in a bend", "delta d = V^2 T / (g Rc)",
+              "HEC-15 Section 3.4"),
+    Published("freeboard", "freeboard of a roadside channel", "about 0.15 m (0.5 ft)", "HEC-15 Section 2"),
+    Published("steep_slope", "bed slope from which riprap is sized by the steep-slope method",
+              "slopes greater than 10 %", "HEC-15 Section 3.5 and Appendix D"),
+    # ---------------------------------------------------------------- HEC-15 Chapter 6
+    Published("size_classes", "stone sizes the Chapter 6 procedures apply to",
+              "gravel 15-64 mm (0.6-2.5 in), cobble 64-130 mm (2.5-5.0 in), riprap 130-550 mm (5.0-22.0 in)",
+              "HEC-15 Chapter 6, introduction", ("fhwa-ch6",)),
+    Published("blodgett", "Blodgett's roughness relation",
+              "n = alpha da^(1/6) / (2.25 + 5.23 log10(da/D50)), alpha 0.319 SI (0.262 CU); "
+              "1.5 <= da/D50 <= 185", "HEC-15 Eq. 6.1", ("fhwa-ch6",)),
+    Published("bathurst", "Bathurst's roughness relation",
+              "n = alpha da^(1/6) / (sqrt(g) f(Fr) f(REG) f(CG)), alpha 1.0 SI (1.49 CU); 0.3 < da/D50 < 8.0",
+              "HEC-15 Eq. 6.2", ("fhwa-ch6",)),
+    Published("bathurst_terms", "terms of Bathurst's relation", "f(Fr), f(REG), f(CG) and b",
+              "HEC-15 Eqs. 6.3 to 6.6"),
+    Published("relation_choice", "which stone roughness relation applies",
+              "Blodgett for 1.5 <= da/D50 <= 185, Bathurst for 0.3 < da/D50 < 8.0",
+              "HEC-15 Section 6.1"),
+    Published("stone_shear", "permissible shear of stone", "tau_p = F* (gamma_s - gamma) D50", "HEC-15 Eq. 6.7",
+              ("restated-6.2",)),
+    Published("gamma_stone", "unit weight of stone", "typically 25,900 N/m^3 (165 lb/ft^3); the site value where known",
+              "HEC-15 Section 6.2", ("restated-6.2",)),
+    Published("stone_size", "smallest stable stone", "D50 >= SF d So / (F* (SG - 1))", "HEC-15 Eq. 6.8",
+              ("restated-6.2",)),
+    Published("particle_reynolds", "particle Reynolds number",
+              "Re = V* D50 / nu, nu = 1.131e-6 m^2/s at 15.5 C (1.217e-5 ft^2/s at 60 F)", "HEC-15 Eq. 6.9",
+              ("restated-6.2",)),
+    Published("shear_velocity", "shear velocity", "V* = sqrt(g d S)", "HEC-15 Section 6.2, V*"),
+    Published("table_6_1", "Shields' parameter F* and safety factor SF by particle Reynolds number",
+              "F* 0.047, SF 1.0 for Re <= 4e4; F* 0.15, SF 1.5 for Re >= 2e5; linear between",
+              "HEC-15 Table 6.1"),
+    Published("tractive_ratio", "tractive force ratio K2 of stone on a side slope",
+              "K2 = sqrt(1 - sin^2 theta / sin^2 phi)", "HEC-15 Section 6.3.2"),
+    Published("angle_of_repose", "angle of repose of riprap", "by size and shape (about 40-42 degrees for riprap)",
+              "HEC-15 Figure 6.2"),
+    Published("steep_method", "steep-slope stability of riprap", "Eq. D.1 with the Delta term; moment stability "
+              "Eqs. D.2 and D.3", "HEC-15 Appendix D", ("fhwa-appd",)),
+    Published("layer_thickness", "thickness of a stone layer", "the larger of 1.5 D50 and D100",
+              "HEC-15 Section 6.4"),
+    Published("filter", "filter beneath stone", "a granular filter or geotextile beneath the stone",
+              "HEC-15 Section 6.4"),
+    Published("table_2_3_riprap", "smallest riprap size in the table of typical permissible shear",
+              "150 mm", "HEC-15 Table 2.3"),
+    Published("table_2_3_gravel", "gravel mulch of the table of typical permissible shear",
+              "coarse gravel 25 mm: 19 N/m^2", "HEC-15 Table 2.3"),
+    # ---------------------------------------------------------------- HEC-15 Chapter 4
+    Published("grass_n", "Manning's n of grass", "n = alpha Cn tau_o^-0.4", "HEC-15 Section 4.1"),
+    Published("grass_cn", "grass roughness coefficient", "Cn = 0.35 Cs^0.10 h^0.528 (SI)", "HEC-15 Section 4.1"),
+    Published("table_4_3", "density-stiffness coefficient Cs by stand condition",
+              "excellent 580, very good 290, good 106, fair 24, poor 8.6", "HEC-15 Table 4.3"),
+    Published("table_4_5", "cover factor CF by growth form and condition", "0.98 to 0.50", "HEC-15 Table 4.5"),
+    Published("grass_shear", "permissible shear of a grass lining",
+              "tau_p = tau_p,soil / (1 - CF) (n / ns)^2", "HEC-15 Section 4.2"),
+    Published("soil_n", "grain roughness of soil", "ns = 0.016 for D75 < 1.3 mm; 0.015 D75^(1/6) above (D75 in mm)",
+              "HEC-15 Section 4.3"),
+    Published("soil_noncohesive", "permissible shear of non-cohesive soil",
+              "1.0 N/m^2 for D75 < 1.3 mm; 0.75 D75 (N/m^2, D75 in mm) from 1.3 to 50 mm", "HEC-15 Section 4.3"),
+    Published("table_4_6", "permissible shear of cohesive soil",
+              "tau_p = (c1 PI^2 + c2 PI + c3)(c4 + c5 e)^2 c6", "HEC-15 Table 4.6"),
+    # ---------------------------------------------------------------- other publications
+    Published("rational_area", "largest area for the rational method", "80 ha (200 acres)", "HEC-22 Section 3.2"),
+    Published("kirpich_range", "data range of Kirpich's formula", "1.2 to 112 acres, slopes 3 to 10 %",
+              "Kirpich (1940); HEC-22 Section 3.2.4"),
+    Published("self_cleaning", "minimum velocity against silting", "2 to 3 ft/s (0.6 to 0.9 m/s)",
+              "Chow (1959) Section 7-3"),
+    Published("strickler", "Strickler's relation for stone", "n = 0.034 D50^(1/6), D50 in ft",
+              "Chow (1959) Chapter 5"),
+    Published("composite_n", "composite n of a section with several roughnesses (Horton and Einstein)",
+              "n = (sum P_i n_i^1.5 / P)^(2/3)", "Chow (1959) Section 6-6"),
+    Published("supercritical_bend", "supercritical flow in bends", "cross waves; superelevation about twice "
+              "the subcritical value", "Chow (1959) Chapter 15"),
+)
+
+
+def entry(key: str) -> Published:
+    """The register entry ``key`` (KeyError naming the key when it is not there)."""
+    try:
+        return REGISTER[key]
+    except KeyError:
+        raise KeyError(f"no published value {key!r} in hydraulics.provenance.REGISTER") from None
+
+
+def cite(key: str) -> str:
+    """The place of ``key`` ("HEC-15 Eq. 6.1"), marked when its text has not been read."""
+    item = entry(key)
+    return item.place if item.verified else f"{item.place}{NOT_VERIFIED_MARK}"
+
+
+def not_verified(keys=None) -> list:
+    """Entries (of ``keys``, default all) whose value has not been read in the publication, in register order."""
+    wanted = REGISTER if keys is None else set(keys)
+    return [item for key, item in REGISTER.items() if key in wanted and not item.verified]
+
+
+def not_verified_lines(keys=None) -> list:
+    """The list as printed: "HEC-15 Table 6.1†: Shields' parameter ... (F* 0.047, ...)"."""
+    return [f"{cite(item.key)}: {item.what} ({item.value})" for item in not_verified(keys)]
+
+
+def not_verified_paragraph(keys, values: bool = True) -> str:
+    """The list of ``keys`` (from :func:`cited_not_verified`) as one paragraph, "" when none.
+
+    With ``values`` each entry carries what it is and the value the program
+    uses (the window's details); without, only the places, once each, which is
+    what a full sheet has room for (its source lines say what each place gave).
+    """
+    items = not_verified(keys)
+    if not items:
+        return ""
+    if values:
+        parts = [f"{cite(i.key)} {i.what} ({i.value})" for i in items]
+    else:
+        parts = list(dict.fromkeys(cite(i.key) for i in items))
+    return (f"{NOT_VERIFIED_MARK} {NOT_VERIFIED_TITLE} (recalled, not yet read in the publication; check each "
+            "before relying on this result): " + "; ".join(parts) + ".")
+
+
+def cited_not_verified(texts) -> list:
+    """Keys of the not-verified entries whose citation (:func:`cite`) stands in any of ``texts``.
+
+    Every printed citation goes through :func:`cite`, so the texts a front
+    end prints tell which unread values a result leans on. Entries sharing one
+    place are all listed (the list errs on the side of saying more).
+    """
+    joined = "\n".join(str(t) for t in texts)
+    return [item.key for item in not_verified() if cite(item.key) in joined]
+
+
+def unmarked(text: str) -> list:
+    """Places of not-verified entries that ``text`` cites without the mark (a test of every printed text).
+
+    A place followed by more of a number ("HEC-15 Section 2" in "HEC-15
+    Section 2.1.1") is another place and is not counted.
+    """
+    out = []
+    for item in not_verified():
+        if item.place not in out and re.search(re.escape(item.place) + r"(?!\.?\d|" + NOT_VERIFIED_MARK + ")", text):
+            out.append(item.place)
+    return out
+
+
+def _cell(text: str) -> str:
+    return text.replace("|", "\\|")
+
+
+def markdown_table() -> str:
+    """The register as the markdown page ``docs/method-values.md``."""
+    lines = ["# Published values the method uses",
+             "",
+             "Generated by `python -m hydraulics.provenance > docs/method-values.md` from "
+             "`hydraulics/provenance.py`; do not edit by hand. A value with nothing under \"read in\" has not "
+             "been verified against its publication: the program marks it wherever it is printed and lists it "
+             f"under \"{NOT_VERIFIED_TITLE}\" on the sheet and in the window.",
+             "",
+             "| key | what | value as published | place | read in | note |",
+             "|---|---|---|---|---|---|"]
+    for item in REGISTER.values():
+        read = "; ".join(READ_IN[r] for r in item.read_in) or "**not verified**"
+        lines.append("| " + " | ".join(_cell(t) for t in (item.key, item.what, item.value, item.place, read,
+                                                           item.note)) + " |")
+    lines += ["", f"{len(not_verified())} of {len(REGISTER)} not verified.", ""]
+    return "\n".join(lines)
+
+
+if __name__ == "__main__":  # pragma: no cover - the docs page
+    print(markdown_table(), end="")

@@ -1,0 +1,102 @@
+"""The top of the ditch: one freeboard rule and one wording for lined channels and channels without a lining.
+
+Geometry: Chow, Open-Channel Hydraulics (1959), Table 2-1 (trapezoid top width b + 2 z y; circle
+T = 2 sqrt(y (D - y))). The freeboard minimum and the bend superelevation V^2 T / (g Rc) are HEC-15 Sections 2
+and 3.4, not yet verified against the circular (hydraulics/provenance.py, keys freeboard and superelevation):
+here the point is that every front end applies and words the same rule.
+"""
+
+import math
+
+import pytest
+
+import hydraulics as hy
+from app.evaluate import evaluate_channel
+from app.project import Channel, FlowBasis, LiningChoice
+from hydraulics.freeboard import FREEBOARD_SOURCE, ditch_top, freeboard_rule
+from hydraulics.linings import hec15, load_catalogue
+from hydraulics.stability import check_lining
+from hydraulics.units import SI, US
+from hydraulics.wording import in_units
+
+TRAPEZOID = {"shape": "trapezoid", "bottom_width": 0.6, "left_slope": 3.0, "right_slope": 3.0}
+
+
+def test_straight_reach_adds_the_minimum():
+    sec = hy.Trapezoid(bottom_width=0.6, side_slope=3.0)
+    r = hy.analyse(sec, 0.8, 0.004, 0.03)
+    top = ditch_top(sec, r.normal_depth, r.velocity, r.top_width, r.froude, min_freeboard=0.2)
+    assert top.freeboard == 0.2 and top.superelevation is None and top.warnings == ()
+    assert top.total_depth == pytest.approx(r.normal_depth + 0.2, rel=1e-15)
+    assert top.top_width == pytest.approx(0.6 + 2 * 3.0 * (r.normal_depth + 0.2), rel=1e-12)
+
+
+def test_bend_adds_the_superelevation():
+    sec = hy.Trapezoid(bottom_width=0.6, side_slope=3.0)
+    r = hy.analyse(sec, 0.8, 0.004, 0.03)
+    top = ditch_top(sec, r.normal_depth, r.velocity, r.top_width, r.froude, bend_radius=12.0)
+    se = r.velocity ** 2 * r.top_width / (9.80665 * 12.0)
+    assert top.superelevation == pytest.approx(se, rel=1e-12)
+    assert top.freeboard == pytest.approx(hec15.MIN_FREEBOARD + se, rel=1e-12)
+
+
+def test_a_pipe_too_shallow_for_the_freeboard_is_reported_not_widened():
+    pipe = hy.Circle(diameter=0.6)
+    r = hy.analyse(pipe, 0.25, 0.0015, 0.013)
+    assert r.normal_depth + hec15.MIN_FREEBOARD > 0.6
+    top = ditch_top(pipe, r.normal_depth, r.velocity, r.top_width, r.froude)
+    assert top.depth_at_top == 0.6 and top.top_width == pytest.approx(0.0, abs=1e-9)
+    (warning,) = top.warnings
+    assert "not deep enough for the freeboard" in warning
+    # restated in the user's units: a US project reads feet, never metres
+    us = in_units(warning, US)
+    assert f"{(r.normal_depth + 0.15) / 0.3048:.3g} ft" in us and f"{0.6 / 0.3048:.3g} ft" in us
+
+
+def test_supercritical_flow_in_a_bend_is_cautioned_for_every_channel():
+    sec = hy.Trapezoid(bottom_width=0.6, side_slope=2.0)
+    r = hy.analyse(sec, 1.13, 0.05, 0.015)
+    assert r.froude > 1
+    top = ditch_top(sec, r.normal_depth, r.velocity, r.top_width, r.froude, bend_radius=20.0)
+    assert any("cross waves" in w for w in top.warnings)
+    unlined = evaluate_channel(Channel(flow=FlowBasis(value=1.13), slope=0.05, manning_n=0.015, bend_radius=20.0,
+                                       section={"shape": "trapezoid", "bottom_width": 0.6, "left_slope": 2.0,
+                                                "right_slope": 2.0}))
+    assert any("cross waves" in w for w in unlined.warnings)
+
+
+def test_lined_and_unlined_channels_word_the_rule_alike():
+    unlined = evaluate_channel(Channel(flow=FlowBasis(value=0.8), slope=0.004, manning_n=0.03, bend_radius=12.0,
+                                       section=TRAPEZOID))
+    lined = evaluate_channel(Channel(flow=FlowBasis(value=0.8), slope=0.004, lining=LiningChoice("concrete"),
+                                     bend_radius=12.0, section=TRAPEZOID))
+    for design in (unlined, lined):
+        (note,) = [n for n in design.notes if n.startswith("freeboard: ")]
+        assert note == "freeboard: " + freeboard_rule(hec15.MIN_FREEBOARD, design.superelevation)
+        assert FREEBOARD_SOURCE in note and "superelevation in the bend" in note
+    assert lined.stability.freeboard_rule() == freeboard_rule(hec15.MIN_FREEBOARD, lined.superelevation)
+
+
+def test_rule_in_us_units():
+    text = freeboard_rule(0.1524, 0.03, US)
+    assert text.startswith("minimum freeboard 0.500 ft") and "0.0984 ft superelevation" in text
+    assert freeboard_rule(0.15, None, SI).startswith("minimum freeboard 0.150 m") and "superelevation" not in \
+        freeboard_rule(0.15, None, SI)
+
+
+def test_the_core_check_uses_the_same_ditch_top():
+    sec = hy.Trapezoid(bottom_width=0.6, side_slope=3.0)
+    st = check_lining(sec, 0.8, 0.004, load_catalogue().get("riprap"), bend_radius=12.0, min_freeboard=0.2)
+    top = ditch_top(sec, st.depth, st.velocity, float(st.analysis.top_width), st.froude, 12.0, 0.2)
+    assert (st.freeboard, st.superelevation, st.total_depth, st.top_width_at_top) == (
+        top.freeboard, top.superelevation, top.total_depth, top.top_width)
+    assert math.isfinite(st.total_depth)
+
+
+def test_an_unlined_pipe_warns_in_the_projects_units():
+    """The window, sheet and command line restate the one worded warning; none prints metres in a US project."""
+    design = evaluate_channel(Channel(flow=FlowBasis(value=0.25), slope=0.0015, manning_n=0.013,
+                                      section={"shape": "circle", "diameter": 0.6}))
+    (warning,) = [w for w in design.warnings if "not deep enough for the freeboard" in w]
+    us = in_units(warning, US)
+    assert " ft" in us and " m)" not in us and " m " not in us
