@@ -780,7 +780,8 @@ def summary(inventory: Inventory, result: hb.BatchResult, seconds: float | None 
         fb = units.from_si("length", hec15.MIN_FREEBOARD)
         out.append(f"  freeboard: not checked (an inventory has no ditch depth); each open ditch needs at least "
                    f"its normal depth plus {fb:.2g} {units.label('length')} ({provenance.cite('freeboard')}; local "
-                   "codes govern)")
+                   "codes govern), and where the flow is supercritical at least twice its normal depth "
+                   f"(waves, {provenance.cite('supercritical_waves')})")
     out.append("  results assist design: a licensed engineer checks them against local codes")
     duplicated = inventory.duplicate_ids()
     if duplicated:

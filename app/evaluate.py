@@ -69,6 +69,7 @@ class ChannelDesign:
     stability: StabilityResult | None
     freeboard: float = 0.0                # [m] minimum plus any bend superelevation
     superelevation: float | None = None   # [m], with a bend
+    wave_allowance: float | None = None   # [m] the flow depth, where supercritical flow set the freeboard
     total_depth: float = 0.0              # design depth plus freeboard [m]
     top_width_at_top: float = 0.0         # width at the top of the ditch [m]
     comparison: list = field(default_factory=list)   # ComparisonRow list
@@ -79,6 +80,12 @@ class ChannelDesign:
     def stable(self) -> bool | None:
         """The lining's verdict as a flag; None without a lining."""
         return None if self.stability is None else self.stability.stable
+
+    def freeboard_rule(self, units=SI) -> str:
+        """The freeboard rule applied to this channel, in words, in ``units``, with its source."""
+        ch = self.channel
+        min_fb = hec15.MIN_FREEBOARD if ch.min_freeboard is None else ch.min_freeboard
+        return freeboard_rule(min_fb, self.superelevation, units, self.wave_allowance)
 
     def cited_texts(self) -> list:
         """Every caution and statement of method of this design that may cite a publication."""
@@ -202,10 +209,10 @@ def evaluate_channel(channel: Channel, catalogue: Catalogue | None = None) -> Ch
         warns += analysis.warnings
         notes.append("no lining chosen: uniform flow with the given Manning's n, no shear check")
     if stability is not None:
-        fb, se, total, top = (stability.freeboard, stability.superelevation, stability.total_depth,
-                              stability.top_width_at_top)
+        fb, se, wave, total, top = (stability.freeboard, stability.superelevation, stability.wave_allowance,
+                                    stability.total_depth, stability.top_width_at_top)
     else:
-        fb, se, total, top = _ditch_depth(section, analysis, channel.bend_radius, min_fb, warns, notes)
+        fb, se, wave, total, top = _ditch_depth(section, analysis, channel.bend_radius, min_fb, warns, notes)
     if channel.alternatives:
         if catalogue is None:
             catalogue = load_default_catalogue()
@@ -213,7 +220,8 @@ def evaluate_channel(channel: Channel, catalogue: Catalogue | None = None) -> Ch
                                      bend_radius=channel.bend_radius, min_freeboard=min_fb)
     return ChannelDesign(channel=channel, flow=q, flow_method=channel.flow.method, time_of_concentration=tc,
                          section=section, analysis=analysis, stability=stability, freeboard=fb,
-                         superelevation=se, total_depth=total, top_width_at_top=top, comparison=comparison,
+                         superelevation=se, wave_allowance=wave, total_depth=total, top_width_at_top=top,
+                         comparison=comparison,
                          warnings=list(dict.fromkeys(warns)), notes=list(dict.fromkeys(notes)))
 
 
@@ -226,5 +234,5 @@ def _ditch_depth(section, analysis, bend_radius, min_fb, warns, notes):
                                                   half=(top / 2, "length"), rc=(rc, "length")))
     ditch = ditch_top(section, analysis.normal_depth, analysis.velocity, top, analysis.froude, rc, min_fb)
     warns += ditch.warnings
-    notes.append(f"freeboard: {freeboard_rule(min_fb, ditch.superelevation)}")
-    return ditch.freeboard, ditch.superelevation, ditch.total_depth, ditch.top_width
+    notes.append(f"freeboard: {freeboard_rule(min_fb, ditch.superelevation, wave_allowance=ditch.wave_allowance)}")
+    return ditch.freeboard, ditch.superelevation, ditch.wave_allowance, ditch.total_depth, ditch.top_width

@@ -14,7 +14,13 @@ Relations (SI):
   ``freeboard``; local design codes govern);
 * superelevation V^2 T / (g Rc) (key ``superelevation``);
 * supercritical flow in a bend forms cross waves above that estimate
-  (Chow 1959, Chapter 15; key ``supercritical_bend``).
+  (Chow 1959, Chapter 15; key ``supercritical_bend``);
+* supercritical flow (Froude number above 1): HEC-15 Section 2.1.1 says it
+  "may create surface waves whose height approaches the depth of flow" and
+  that on very steep grades splash and surge need special consideration for
+  freeboard, without a number. This program's rule, drawn from those words:
+  the freeboard is at least the flow depth (a wave as high as the depth stays
+  inside the ditch). Local codes govern; a chute may need more.
 """
 
 from __future__ import annotations
@@ -26,12 +32,14 @@ from .provenance import cite
 from .units import SI, UnitSystem
 from .wording import format_quantity, worded
 
-__all__ = ["FREEBOARD_SOURCE", "SUPERELEVATION_SOURCE", "SUPERCRITICAL_BEND_SOURCE", "DitchTop", "ditch_top",
-           "freeboard_rule"]
+__all__ = ["FREEBOARD_SOURCE", "SUPERELEVATION_SOURCE", "SUPERCRITICAL_BEND_SOURCE", "WAVE_RULE", "DitchTop",
+           "ditch_top", "freeboard_rule"]
 
 FREEBOARD_SOURCE = f"{cite('freeboard')}; local design codes govern and may ask for more"
 SUPERELEVATION_SOURCE = f"superelevation in the bend V^2 T / (g Rc), {cite('superelevation')}"
 SUPERCRITICAL_BEND_SOURCE = f"{cite('supercritical_bend')}, supercritical flow in curves"
+WAVE_RULE = (f"supercritical flow: at least the flow depth, for surface waves whose height approaches the depth "
+             f"({cite('supercritical_waves')}; the circular gives no number, this rule is the program's)")
 
 
 @dataclass(frozen=True)
@@ -40,6 +48,7 @@ class DitchTop:
 
     freeboard: float              # minimum plus superelevation [m]
     superelevation: float | None  # in a bend [m]; None on a straight reach
+    wave_allowance: float | None  # supercritical flow: the flow depth [m], when it sets the freeboard; else None
     total_depth: float            # design depth plus freeboard [m]
     depth_at_top: float           # total depth, or the section's full depth where that is less [m]
     top_width: float              # width at depth_at_top [m]
@@ -63,6 +72,9 @@ def ditch_top(section, depth, velocity, top_width, froude, bend_radius=None,
                         f"rise above the superelevation estimate ({SUPERCRITICAL_BEND_SOURCE}); allow more "
                         "freeboard or avoid the bend")
     fb = float(hec15.freeboard(v, t, bend_radius, minimum=min_freeboard))
+    wave = y if fr > 1.0 and y > fb else None
+    if wave is not None:
+        fb = wave
     total = y + fb
     at_top = total
     full = section.full_depth
@@ -71,13 +83,18 @@ def ditch_top(section, depth, velocity, top_width, froude, bend_radius=None,
         warnings.append(worded("the design depth plus freeboard ({total}) is above the section's full depth ({full}): "
                                "the {kind} is not deep enough for the freeboard", total=(total, "length"),
                                full=(float(full), "length"), kind=section.kind))
-    return DitchTop(freeboard=fb, superelevation=superelevation, total_depth=total, depth_at_top=at_top,
+    return DitchTop(freeboard=fb, superelevation=superelevation, wave_allowance=wave, total_depth=total,
+                    depth_at_top=at_top,
                     top_width=float(section.top_width(at_top)), warnings=tuple(warnings))
 
 
-def freeboard_rule(min_freeboard: float, superelevation: float | None = None, units: UnitSystem = SI) -> str:
-    """The freeboard rule applied, in words, in ``units``, with its source."""
+def freeboard_rule(min_freeboard: float, superelevation: float | None = None, units: UnitSystem = SI,
+                   wave_allowance: float | None = None) -> str:
+    """The freeboard rule applied, in words, in ``units``, with its source; says which part set the freeboard."""
     text = f"minimum freeboard {format_quantity(min_freeboard, 'length', units)} ({FREEBOARD_SOURCE})"
     if superelevation is not None:
         text += f", plus {format_quantity(superelevation, 'length', units)} {SUPERELEVATION_SOURCE}"
+    if wave_allowance is not None:
+        text += (f"; raised to {format_quantity(wave_allowance, 'length', units)} by the rule for "
+                 f"{WAVE_RULE}")
     return text

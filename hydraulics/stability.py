@@ -195,6 +195,7 @@ class StabilityResult:
     cost_per_length: float | None  # [$/m]; None without a unit cost
     notes: list = field(default_factory=list)
     warnings: list = field(default_factory=list)
+    wave_allowance: float | None = None   # [m] the flow depth, where supercritical flow set the freeboard
 
     @property
     def verdict(self) -> str:
@@ -237,7 +238,7 @@ class StabilityResult:
 
     def freeboard_rule(self, units: UnitSystem = SI) -> str:
         """The freeboard rule applied, in words, with its source."""
-        return _freeboard_rule(self.min_freeboard, self.superelevation, units)
+        return _freeboard_rule(self.min_freeboard, self.superelevation, units, self.wave_allowance)
 
     def to_dict(self, units: UnitSystem = SI) -> dict:
         """JSON-friendly summary in ``units`` (numbers converted; words as they are)."""
@@ -877,7 +878,8 @@ def _check(section, q, s, lining, d50, rc, fb_min, n_override, sf_min, v_min) ->
         filter_note=FILTER_NOTE if stone else None, min_freeboard=fb_min, superelevation=superelev, freeboard=fb,
         total_depth=total, top_width_at_top=top_width_at_top, lined_width=lined, layer_volume=volume,
         unit_cost=None if lining.unit_cost is None else float(lining.unit_cost),
-        unit_cost_basis=lining.unit_cost_basis, cost_per_length=cost, notes=_dedupe(notes), warnings=_dedupe(warn))
+        unit_cost_basis=lining.unit_cost_basis, cost_per_length=cost, notes=_dedupe(notes), warnings=_dedupe(warn),
+        wave_allowance=ditch.wave_allowance)
 
 
 def _scalar_checks(sc: ShearChecks, method: str, rc, top) -> list:

@@ -72,9 +72,14 @@ def test_lined_and_unlined_channels_word_the_rule_alike():
                                      bend_radius=12.0, section=TRAPEZOID))
     for design in (unlined, lined):
         (note,) = [n for n in design.notes if n.startswith("freeboard: ")]
-        assert note == "freeboard: " + freeboard_rule(hec15.MIN_FREEBOARD, design.superelevation)
+        assert note == "freeboard: " + freeboard_rule(hec15.MIN_FREEBOARD, design.superelevation,
+                                                      wave_allowance=design.wave_allowance)
+        assert note == "freeboard: " + design.freeboard_rule()
         assert FREEBOARD_SOURCE in note and "superelevation in the bend" in note
-    assert lined.stability.freeboard_rule() == freeboard_rule(hec15.MIN_FREEBOARD, lined.superelevation)
+    assert lined.stability.freeboard_rule() == lined.freeboard_rule()
+    # concrete (n 0.015 or so) runs supercritical on this grade, the grassless earth ditch (n 0.03) does not
+    assert lined.analysis.froude > 1 and lined.wave_allowance is not None
+    assert unlined.analysis.froude < 1 and unlined.wave_allowance is None
 
 
 def test_rule_in_us_units():
@@ -100,3 +105,33 @@ def test_an_unlined_pipe_warns_in_the_projects_units():
     (warning,) = [w for w in design.warnings if "not deep enough for the freeboard" in w]
     us = in_units(warning, US)
     assert " ft" in us and " m)" not in us and " m " not in us
+
+
+def test_supercritical_flow_raises_the_freeboard_to_the_flow_depth():
+    """HEC-15 Section 2.1.1: supercritical flow "may create surface waves whose height approaches the depth of
+    flow"; the program keeps a wave as high as the depth inside the ditch and says that this rule set it."""
+    # an invented steep riprap chute, 20 % grade: Froude number well above 1, depth above the 0.15 m minimum
+    chute = hy.Trapezoid(bottom_width=0.6, side_slope=2.0)
+    st = check_lining(chute, 1.5, 0.20, load_catalogue().get("riprap"), d50=0.45)
+    assert st.froude > 1.0 and st.depth > hec15.MIN_FREEBOARD
+    assert st.freeboard == st.depth == st.wave_allowance and st.total_depth == pytest.approx(2 * st.depth)
+    rule = st.freeboard_rule()
+    assert "raised to" in rule and "surface waves whose height approaches the depth" in rule
+    assert "HEC-15 Section 2.1.1" in rule
+    # a mild ditch keeps the minimum, and its rule does not mention waves
+    mild = check_lining(hy.Trapezoid(bottom_width=0.6, side_slope=3.0), 0.8, 0.004, load_catalogue().get("riprap"))
+    assert mild.froude < 1 and mild.wave_allowance is None and "raised to" not in mild.freeboard_rule()
+    # shallow supercritical flow below the minimum keeps the minimum
+    thin = ditch_top(chute, 0.05, 3.0, 0.8, 4.3)
+    assert thin.freeboard == hec15.MIN_FREEBOARD and thin.wave_allowance is None
+
+
+def test_unlined_supercritical_channel_gets_the_same_rule():
+    design = evaluate_channel(Channel(flow=FlowBasis(value=1.13), slope=0.05, manning_n=0.015,
+                                      section={"shape": "trapezoid", "bottom_width": 0.6, "left_slope": 2.0,
+                                               "right_slope": 2.0}))
+    y = design.analysis.normal_depth
+    assert design.analysis.froude > 1 and y > hec15.MIN_FREEBOARD
+    assert design.freeboard == y == design.wave_allowance
+    (note,) = [n for n in design.notes if n.startswith("freeboard: ")]
+    assert note == "freeboard: " + design.freeboard_rule() and "raised to" in note

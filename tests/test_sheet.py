@@ -785,3 +785,13 @@ def test_values_not_yet_verified_are_marked_and_listed_once(pages, us_pages):
             assert pv.cite(key) in listed, key
     swale = _flat(pages["Outfall swale"]).split(pv.NOT_VERIFIED_TITLE)[1]
     assert "HEC-15 Table 6.1" + pv.NOT_VERIFIED_MARK in swale and "HEC-15 Section 3.4" + pv.NOT_VERIFIED_MARK in swale
+
+
+def test_supercritical_freeboard_is_said_to_be_the_flow_depth(pages):
+    """East verge ditch runs supercritical (concrete, 1.2 %): its freeboard is the flow depth, and the sheet says
+    which rule set it (HEC-15 Section 2.1.1: waves whose height approaches the depth of flow)."""
+    text = _flat(pages["East verge ditch"])
+    yn = _number_after(text, "Normal depth yn")[0]
+    assert _number_after(text, "Freeboard")[0] == yn
+    assert "the flow depth (supercritical flow: waves as high as the depth)" in text
+    assert "raised to" in text and ", the minimum" not in text

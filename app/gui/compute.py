@@ -62,6 +62,7 @@ class Evaluation:
     warnings: list = field(default_factory=list)
     notes: list = field(default_factory=list)   # statements of method, with sources
     not_verified: list = field(default_factory=list)  # published values leant on, not yet read (provenance)
+    design: object = field(default=None, repr=False)   # the app.evaluate.ChannelDesign shown, when there is one
     error: str | None = None          # why there is no result, in words
     error_field: str | None = None    # the core's name of the input at fault, if one is
 
@@ -298,6 +299,7 @@ def evaluate(channel: Channel, units: UnitSystem) -> Evaluation:
     ev.total_depth, ev.top_width_at_top = design.total_depth, design.top_width_at_top
     ev.warnings, ev.notes = list(design.warnings), list(design.notes)
     ev.not_verified = design.not_verified
+    ev.design = design
     ev.lining = design.stability
     ev.roughness = solver_roughness(channel)
     ev.verdict = _verdict(ev, units)

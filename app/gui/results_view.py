@@ -203,6 +203,9 @@ class ResultsPanel(QWidget):
         else:
             self.warnings.setText("None from the checks made." if shown is not None else "—")
         self.warnings.setEnabled(usable)
+        design = shown.design if shown is not None else None
+        self.values["freeboard"].setToolTip(in_units(design.freeboard_rule(units), units) if design is not None
+                                            else "")
         unverified = [in_units(line, units) for line in shown.not_verified] if shown is not None else []
         self.unverified.setText(f"<ul style='margin-left:-24px'>{''.join(f'<li>{_escape(u)}</li>' for u in unverified)}"
                                 "</ul>" if unverified else "")

@@ -28,7 +28,6 @@ import hydraulics as hy
 from hydraulics import provenance
 from hydraulics import units as hu
 from hydraulics.linings import Catalogue, hec15
-from hydraulics.freeboard import freeboard_rule as freeboard_rule_words
 from hydraulics.stability import LINED_WIDTH_RULE, StabilityResult
 from hydraulics.wording import Worded
 
@@ -464,19 +463,17 @@ def _stone_items(st: StabilityResult, f: Formatter) -> list:
 
 
 def freeboard_rule(design: ChannelDesign, f: Formatter) -> str:
-    """The freeboard rule in the sheet's units (the lining check's own words when there is one)."""
-    if design.stability is not None:
-        return in_units(design.stability.freeboard_rule(f.units), f.units)
-    ch = design.channel
-    min_fb = hec15.MIN_FREEBOARD if ch.min_freeboard is None else ch.min_freeboard
-    return freeboard_rule_words(min_fb, design.superelevation, f.units)
+    """The freeboard rule in the sheet's units, saying which part set the freeboard."""
+    return in_units(design.freeboard_rule(f.units), f.units)
 
 
 def _depth_items(design: ChannelDesign, f: Formatter, src: Sources) -> list:
     st, ch = design.stability, design.channel
     min_fb = hec15.MIN_FREEBOARD if ch.min_freeboard is None else ch.min_freeboard
     fb = f"{f(design.freeboard, 'length')}"
-    if design.superelevation is not None:
+    if design.wave_allowance is not None:
+        fb += ", the flow depth (supercritical flow: waves as high as the depth)"
+    elif design.superelevation is not None:
         fb += f" = minimum {f(min_fb, 'length')} + superelevation {f(design.superelevation, 'length')}"
     else:
         fb += ", the minimum"
