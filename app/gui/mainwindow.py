@@ -617,9 +617,11 @@ class MainWindow(QMainWindow):
         """
         project = copy.deepcopy(self.doc.project)
         count = len(choice.channels) if choice.channels is not None else len(project.channels)
+        linings = compute.catalogue()   # the one the window evaluates with: shipped plus the user's file
 
         def work(progress):
-            return sh.export_sheets(project, choice.path, channels=choice.channels, page=choice.page, sign=sign)
+            return sh.export_sheets(project, choice.path, channels=choice.channels, page=choice.page, sign=sign,
+                                    catalogue=linings)
 
         task = Task(work, self)
         task.succeeded.connect(lambda notes: self._export_done(choice, count, sign is not None, notes))
