@@ -40,6 +40,7 @@ from hydraulics import units as hu
 
 from .files import FORMULA_STARTS, atomic_writer, spreadsheet_safe, write_atomic
 from .numtext import format_rows, format_rows_parallel
+from .verdicts import Verdict
 
 INPUT_COLUMNS = ("id", "shape", "bottom_width", "left_slope", "right_slope", "diameter", "slope", "flow", "lining",
                  "d50", "n")
@@ -838,7 +839,8 @@ def plot_summary(result: hb.BatchResult, path, title: str = "Ditch inventory") -
                "not-checked": "#b7950b",
                "no-solution": "#8e44ad", "invalid": "#34495e"}
     labels = list(counts)
-    bars = ax1.barh(labels[::-1], [counts[v] for v in labels[::-1]], color=[colours[v] for v in labels[::-1]])
+    bars = ax1.barh([Verdict.from_token(v).words for v in labels[::-1]], [counts[v] for v in labels[::-1]],
+                    color=[colours[v] for v in labels[::-1]])
     ax1.bar_label(bars, labels=[f"{counts[v]:,}" for v in labels[::-1]], padding=3)
     ax1.set_xlabel("reaches")
     ax1.xaxis.get_major_locator().set_params(integer=True)

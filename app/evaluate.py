@@ -27,6 +27,7 @@ from hydraulics.freeboard import ditch_top, freeboard_rule
 from hydraulics.wording import in_units, worded
 
 from .project import Channel
+from .verdicts import Verdict, verdict_of
 from .results import CHANNEL_FIELDS, convert
 
 __all__ = ["ChannelDesign", "evaluate_channel", "load_default_catalogue", "design_flow"]
@@ -80,6 +81,11 @@ class ChannelDesign:
     def stable(self) -> bool | None:
         """The lining's verdict as a flag; None without a lining."""
         return None if self.stability is None else self.stability.stable
+
+    @property
+    def verdict(self) -> Verdict:
+        """The verdict in the one vocabulary of :mod:`app.verdicts` (too shallow, the lining's, or hydraulics only)."""
+        return verdict_of(self.stability, self.total_depth, self.section.full_depth)
 
     def freeboard_rule(self, units=SI) -> str:
         """The freeboard rule applied to this channel, in words, in ``units``, with its source."""

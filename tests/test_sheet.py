@@ -188,7 +188,7 @@ def test_published_trapezoid_example_prints_its_normal_depth(tmp_path):
     assert unit == "ft"
     assert value == pytest.approx(3.36, rel=0.005)
     # no lining: the typed n is used and the sheet says the stability was not checked
-    assert "NOT CHECKED" in text and "Manning's n used 0.025 (typed)" in text.replace("\n", " ")
+    assert "HYDRAULICS ONLY" in text and "Manning's n used 0.025 (typed)" in text.replace("\n", " ")
     assert "Manning's n 0.025 (typed in the project)" in text.replace("\n", " ")
 
 
@@ -611,11 +611,11 @@ def test_rigid_lining_is_non_erodible(pages):
     assert _check_row(text, "bed")[1:4] == ["non-erodible", "—", "—"]
 
 
-def test_channel_without_lining_is_not_checked(pages):
+def test_channel_without_lining_is_hydraulics_only(pages):
     for name, n_words in (("Farm crossing pipe", "0.013 (typed in the project)"),
                           ("Surveyed outfall channel", "the survey's own, per segment: 0.045, 0.035")):
         text = _flat(pages[name])
-        assert "NOT CHECKED" in text and "Reason: no lining chosen" in text
+        assert "HYDRAULICS ONLY" in text and "Reason: no lining chosen" in text
         assert n_words in text
 
 

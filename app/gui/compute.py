@@ -19,10 +19,13 @@ import hydraulics as hy
 from hydraulics.curves import rating_curve, specific_energy
 from hydraulics.stability import StabilityResult, compare_linings
 from hydraulics.units import UnitSystem
+from hydraulics.wording import in_units
 
 from ..files import spreadsheet_safe
 from ..evaluate import comparison_choices, design_flow, evaluate_channel, load_default_catalogue
 from ..project import Channel, LiningChoice
+from ..verdicts import Verdict as Verdicts
+from ..verdicts import too_shallow_reason, verdict_of
 
 #: Core field names as the user reads them (for messages that name a field).
 FIELD_LABELS = {
@@ -40,7 +43,7 @@ FIELD_LABELS = {
 @dataclass
 class Verdict:
     status: str      # "pass" | "fail" | "unchecked" | "none"
-    headline: str    # a few words: "Lining holds", "Lining fails", ...
+    headline: str    # the verdict's words (app.verdicts), or "No result" when there is none
     reason: str      # one sentence, with numbers in the user's units
 
 
@@ -148,25 +151,18 @@ def _for_facade(channel: Channel) -> Channel:
 
 
 def _verdict(ev: Evaluation, units: UnitSystem) -> Verdict:
-    full = ev.section.full_depth
-    if full is not None and ev.total_depth > full * (1 + 1e-9):
-        where = "crown of the pipe" if ev.section.kind == "circle" else "lower bank"
-        return Verdict("fail", "Too small", f"Water plus freeboard reaches {_len(ev.total_depth, units)}, above "
-                                            f"the {where} at {_len(full, units)}.")
-    if ev.lining is None:
+    """The window's verdict: the one vocabulary of :mod:`app.verdicts`, with its reason in the user's units."""
+    v = verdict_of(ev.lining, ev.total_depth, ev.section.full_depth)
+    if v is Verdicts.TOO_SHALLOW:
+        reason = in_units(too_shallow_reason(ev.section, ev.total_depth), units)
+    elif v is Verdicts.HYDRAULICS_ONLY:
         n_words = ("the surveyed section's n" if ev.section.kind == "irregular" and isinstance(ev.roughness, hy.Section)
                    else "the Manning's n given")
-        return Verdict("unchecked", "Hydraulics only",
-                       f"No lining chosen: depth and velocity use {n_words}, and no shear is "
-                       "checked. Choose a lining to check its stability.")
-    st = ev.lining
-    reason = st.reason(units)
-    reason = reason[:1].upper() + reason[1:] + "."
-    if st.verdict == "non-erodible":
-        return Verdict("pass", "Rigid lining", reason)
-    if st.stable:
-        return Verdict("pass", "Lining holds", reason)
-    return Verdict("fail", "Lining fails", reason)
+        reason = (f"no lining chosen: depth and velocity use {n_words}, and no shear is checked. Choose a lining to "
+                  "check its stability")
+    else:
+        reason = ev.lining.reason(units)
+    return Verdict(v.status, v.words, reason[:1].upper() + reason[1:] + ".")
 
 
 @dataclass
@@ -375,10 +371,6 @@ def energy(channel: Channel, ev: Evaluation, points: int = 200) -> EnergyData | 
     e = specific_energy(ev.section, ev.flow, depths)
     return EnergyData(depths, e, r.critical_depth, specific_energy(ev.section, ev.flow, r.critical_depth),
                       r.normal_depth, r.specific_energy)
-
-
-def _len(value: float, units: UnitSystem) -> str:
-    return f"{units.from_si('length', value):.2f} {units.label('length')}"
 
 
 def finite(value) -> bool:

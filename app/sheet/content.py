@@ -32,6 +32,7 @@ from hydraulics.stability import LINED_WIDTH_RULE, StabilityResult
 from hydraulics.wording import Worded
 
 from .. import __version__
+from ..verdicts import Verdict, too_shallow_reason
 from ..evaluate import ChannelDesign, design_flow, evaluate_channel, load_default_catalogue
 from .fingerprint import fingerprint
 
@@ -47,7 +48,6 @@ CAUTIONS = (
     "Uniform (normal) flow is assumed; backwater, inlets, outlets, transitions and junctions are not analysed.",
 )
 
-VERDICTS = {"stable": "STABLE", "not stable": "NOT STABLE", "non-erodible": "NON-ERODIBLE"}
 ORIGIN_WORDS = {"shipped": "shipped entry", "user": "user catalogue entry",
                 "user override": "shipped entry changed by the user catalogue"}
 
@@ -153,7 +153,7 @@ class ChannelSheet:
     checks: list                    # CheckRow list (empty without a lining)
     lining_items: list              # Item list under the shear checks (stone: Table 6.1, required D50, layer)
     depth_items: list               # Item list: freeboard, bend, total depth, top width, quantities
-    verdict: str                    # "STABLE", "NOT STABLE", "NON-ERODIBLE" or "NOT CHECKED"
+    verdict: Verdict                # one vocabulary with the window and the batch (app.verdicts)
     verdict_reason: str
     hand_check: list                # lines of text
     comparison: list | None         # ComparisonLine list, or None when there are no alternatives
@@ -584,7 +584,6 @@ def channel_sheet(project, channel, catalogue: Catalogue | None = None) -> Chann
         roughness = lining.roughness(st.d50)
         checks = _check_rows(st, f)
         lining_items = _stone_items(st, f)
-        verdict = VERDICTS[st.verdict]
         reason = in_units(st.reason(units), units)
         lining_label = _lining_text(st, f)
         thickness = st.layer_thickness
@@ -596,13 +595,15 @@ def channel_sheet(project, channel, catalogue: Catalogue | None = None) -> Chann
         tau = float(design.analysis.bed_shear)
         lining_items = [Item("Bed shear", f"\u03c4d = \u03b3 d S = {f.shear(tau)} (HEC-15 Eq. 3.1), not compared "
                                           "with a permissible shear")]
-        verdict = "NOT CHECKED"
         n_from = ("the Manning's n typed in the project" if channel.manning_n is not None
                   else "the surveyed section's own n")
         reason = (f"no lining chosen, so no permissible shear to check against; the uniform flow uses {n_from}. "
                   "Choose a lining from the catalogue to check the channel's stability (HEC-15 permissible shear).")
         lining_label = "none chosen"
         thickness = None
+    verdict = design.verdict
+    if verdict is Verdict.TOO_SHALLOW:
+        reason = in_units(too_shallow_reason(design.section, design.total_depth), units) + "; " + reason
     depth_items = _depth_items(design, f, src)
     comparison, comparison_notes, priced = comparison_lines(design, f)
     warned = cautions(design, f)

@@ -29,6 +29,7 @@ from reportlab.platypus import Paragraph, Table, TableStyle
 from hydraulics.provenance import NOT_VERIFIED_TITLE
 
 from .. import __version__
+from ..verdicts import Verdict
 from .fonts import FONT, register
 from .rating import rating_drawing
 from .section_drawing import lining_caption, section_drawing
@@ -42,8 +43,11 @@ TEXT_SIZES = (8.0, 7.5, 7.0, 6.6, 6.2)
 RATING_HEIGHTS = (150.0, 130.0, 115.0, 100.0, 90.0)  # [pt], tallest first
 GREY = colors.Color(0.45, 0.45, 0.45)
 RULE = colors.Color(0.55, 0.55, 0.55)
-VERDICT_COLOURS = {"STABLE": colors.Color(0.1, 0.5, 0.2), "NOT STABLE": colors.Color(0.75, 0.1, 0.1),
-                   "NON-ERODIBLE": colors.Color(0.15, 0.3, 0.55), "NOT CHECKED": colors.Color(0.75, 0.45, 0.0)}
+_GREEN, _RED, _BLUE, _AMBER, _GREY = (colors.Color(0.1, 0.5, 0.2), colors.Color(0.75, 0.1, 0.1),
+                                     colors.Color(0.15, 0.3, 0.55), colors.Color(0.75, 0.45, 0.0), GREY)
+VERDICT_COLOURS = {Verdict.STABLE: _GREEN, Verdict.UNSTABLE: _RED, Verdict.NON_ERODIBLE: _BLUE,
+                   Verdict.TOO_SHALLOW: _RED, Verdict.HYDRAULICS_ONLY: _AMBER, Verdict.NOT_CHECKED: _AMBER,
+                   Verdict.NO_SOLUTION: _GREY, Verdict.INVALID: _GREY}
 #: Title-block cell widths as fractions of the frame width (company, project, signatures, approval, sheet).
 CELL_FRACTIONS = (0.20, 0.27, 0.27, 0.17, 0.09)
 
@@ -400,8 +404,9 @@ def draw_page(c, sheet, info, page: str, number: int, count: int, logo_note: lis
     _title_block(c, sheet, info, page, number, count, logo_note)
 
 
-def _verdict(c, x, y_top, w, verdict):
-    colour = VERDICT_COLOURS.get(verdict, colors.black)
+def _verdict(c, x, y_top, w, verdict: Verdict):
+    colour = VERDICT_COLOURS[verdict]
+    verdict = verdict.heading
     c.saveState()
     c.setStrokeColor(colour)
     c.setFillColor(colour)

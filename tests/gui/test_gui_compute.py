@@ -93,14 +93,14 @@ def test_gravel_mulch_example_fails_in_words():
     ev = compute.evaluate(ch, hy.units.SI)
     assert ev.result.normal_depth == pytest.approx(0.35, abs=0.03)
     assert ev.lining.bed_shear == pytest.approx(27, rel=0.1)
-    assert ev.verdict.status == "fail" and ev.verdict.headline == "Lining fails"
+    assert ev.verdict.status == "fail" and ev.verdict.headline == "Not stable"
     assert "permissible" in ev.verdict.reason and "Pa" in ev.verdict.reason
     assert "lb/ft^2" in compute.evaluate(ch, hy.units.US).verdict.reason
 
 
 def test_rigid_lining_passes_as_non_erodible():
     ev = compute.evaluate(pj.Channel(lining=pj.LiningChoice("concrete")), hy.units.SI)
-    assert ev.verdict.status == "pass" and ev.verdict.headline == "Rigid lining"
+    assert ev.verdict.status == "pass" and ev.verdict.headline == "Non-erodible"
     assert ev.lining.layer_thickness is not None and ev.lining.layer_thickness > 0
 
 
