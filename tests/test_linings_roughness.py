@@ -193,3 +193,17 @@ def test_auto_n_below_bathurst_range_is_held_and_reported():
     assert r.relation(section, y, 0.1) == "held"
     assert any("too shallow" in w for w in r.check(section, y, 0.1))
     assert r.manning_n(section, y, 0.1) == pytest.approx(r.manning_n(section, 0.5 * y, 0.1), rel=1e-12)
+
+
+def test_switch_depth_is_where_the_average_depth_is_one_and_a_half_d50():
+    """da = A/T (HEC-15's average depth); trapezoid A = (b + z y) y, T = b + 2 z y (Chow 1959, Table 2-1)."""
+    from hydraulics.linings.roughness import StoneRoughness, relation_switch_depth
+    stone = StoneRoughness(0.15)
+    y = stone.switch_depth(hy.Trapezoid(bottom_width=1.0, side_slope=4.0))
+    assert (1.0 + 4.0 * y) * y / (1.0 + 8.0 * y) == pytest.approx(1.5 * 0.15, rel=1e-10)
+    assert stone.switch_depth(hy.Triangle(side_slope=3.0)) == pytest.approx(2 * 1.5 * 0.15, rel=1e-10)  # da = y/2
+    assert StoneRoughness(0.15, method="blodgett").switch_depth(hy.Triangle(side_slope=3.0)) is None
+    pipe = hy.Circle(diameter=0.3)          # near the crown A/T grows without bound, so a pipe always gets there
+    g = pipe.properties(StoneRoughness(0.3).switch_depth(pipe))
+    assert g.area / g.top_width == pytest.approx(1.5 * 0.3, rel=1e-9)
+    assert relation_switch_depth(0.035, hy.Triangle(side_slope=3.0)) is None

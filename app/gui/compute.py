@@ -17,6 +17,7 @@ import numpy as np
 
 import hydraulics as hy
 from hydraulics.curves import rating_curve, specific_energy
+from hydraulics.linings.roughness import relation_switch_depth
 from hydraulics.stability import StabilityResult, compare_linings
 from hydraulics.units import UnitSystem
 from hydraulics.wording import in_units
@@ -323,6 +324,7 @@ class RatingData:
     depths: np.ndarray       # [m]
     flows: np.ndarray        # [m^3/s], Manning at each depth
     critical: np.ndarray     # critical depth for each flow [m] (nan where none)
+    switch_depth: float | None = None   # stone: where n passes from Bathurst's relation to Blodgett's [m]
 
 
 def rating(channel: Channel, ev: Evaluation, points: int = 120) -> RatingData | None:
@@ -344,7 +346,8 @@ def rating(channel: Channel, ev: Evaluation, points: int = 120) -> RatingData | 
                 crit[i] = hy.critical_depth(ev.section, float(q))
             except hy.NoSolutionError:
                 pass
-    return RatingData(depths, flows, crit)
+    switch = relation_switch_depth(ev.roughness, ev.section)
+    return RatingData(depths, flows, crit, switch if switch is not None and switch <= top else None)
 
 
 @dataclass

@@ -17,6 +17,7 @@ from matplotlib.backends.backend_qtagg import FigureCanvasQTAgg
 from matplotlib.figure import Figure
 from matplotlib.patches import Polygon
 
+from hydraulics.linings.roughness import SWITCH_NOTE
 from hydraulics.units import UnitSystem
 
 from .compute import Evaluation, EnergyData, RatingData
@@ -450,10 +451,12 @@ class RatingPicture(Picture):
         self.point = ax.plot([], [], "o", color=INK, ms=6, zorder=5)[0]
         self.point_label = ax.text(0, 0, "", fontsize=FONT, color=INK, ha="left", va="top", zorder=6)
         self.top_label = ax.text(0, 0, "", fontsize=FONT, color=SOIL_EDGE, ha="left", va="bottom")
+        # a stone lining's n changes relation at da/D50 = 1.5: the curve kinks there, and the reason is shown
+        self.switch = ax.axhline(0, color=INK, lw=0.7, ls=(0, (1, 3)), visible=False, label=SWITCH_NOTE)
         self.legend = ax.legend(loc="lower right", fontsize=FONT, frameon=False)
 
     def content_artists(self):
-        return [self.normal, self.crit, self.top, self.point, self.point_label, self.top_label]
+        return [self.normal, self.crit, self.top, self.point, self.point_label, self.top_label, self.switch]
 
     def update(self, data: RatingData, ev: Evaluation, units: UnitSystem, title: str = "") -> None:
         u = units.from_si
@@ -470,6 +473,13 @@ class RatingPicture(Picture):
         self.top.set_ydata([top, top])
         self.top_label.set_text(" top of ditch" if ev.section.kind != "circle" else "")
         self.top_label.set_position((0, top))
+        switch = data.switch_depth
+        self.switch.set_visible(switch is not None)
+        if switch is not None:
+            ys = float(u("length", switch))
+            self.switch.set_ydata([ys, ys])
+        handles = [a for a in (self.normal, self.crit, self.switch) if a.get_visible()]
+        self.legend = self.ax.legend(handles=handles, loc="lower right", fontsize=FONT, frameon=False)
         self.ax.set_xlim(0, float(np.nanmax(q)) * 1.02)
         self.ax.set_ylim(0, float(np.nanmax(y)) * 1.05)
         self.ax.set_xlabel(f"flow [{pretty(units.label('flow'))}]", fontsize=FONT, color=INK)

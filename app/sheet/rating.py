@@ -13,6 +13,7 @@ import math
 import numpy as np
 
 import hydraulics as hy
+from hydraulics.linings.roughness import SWITCH_NOTE, relation_switch_depth
 
 from .fonts import SVG_FAMILY, register
 
@@ -67,6 +68,9 @@ def rating_drawing(sheet, width: float, height: float):
         ax.axhline(total * L, color="0.35", linewidth=0.6, linestyle="-.",
                    label=f"total depth {fmt(total, 'length')}")
         ax.axvline(q_design, color="0.6", linewidth=0.4, linestyle=":")
+        switch = relation_switch_depth(roughness, section)
+        if switch is not None and switch <= top:
+            ax.axhline(switch * L, color="0.2", linewidth=0.5, linestyle=(0, (1, 2)), label=SWITCH_NOTE)
         # the x range follows the normal-flow curve; the critical curve may run off to the right
         ax.set_xlim(0, max(flow.max() * Q, q_design) * 1.08)
         ax.set_ylim(0, max(total, top) * L * 1.08)

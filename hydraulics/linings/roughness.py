@@ -25,13 +25,17 @@ from ..provenance import cite
 from ..wording import worded
 from . import hec15
 
-__all__ = ["StoneRoughness", "VegetationRoughness", "STONE_METHODS", "SPLIT_BAND"]
+__all__ = ["StoneRoughness", "VegetationRoughness", "STONE_METHODS", "SPLIT_BAND", "SWITCH_NOTE",
+           "relation_switch_depth"]
 
 #: Ways to compute the n of a stone lining.
 STONE_METHODS = ("auto", "blodgett", "bathurst", "strickler")
 #: Width of the band above da/D50 = 1.5 over which "auto" passes from Bathurst's n to
 #: Blodgett's (a ratio: 1.5 to 1.53); a rule of this program, see StoneRoughness.
 SPLIT_BAND = 1.02
+#: What the mark at :meth:`StoneRoughness.switch_depth` means (the two relations do not meet there, so a rating
+#: curve kinks), worded once for every picture of a rating curve.
+SWITCH_NOTE = "n: Bathurst below, Blodgett above (da/D50 = 1.5)"
 #: Largest exponent p of Bathurst's f(Fr) (HEC-15 Eq. 6.3) accepted in "auto": as p nears 1,
 #: Bathurst's n with the Manning velocity has no stable value (a rule of this program).
 P_LIMIT = 0.95
@@ -178,6 +182,28 @@ class StoneRoughness:
         self._limits = {key: (section, *result)}  # keep the last section only
         return result
 
+    def switch_depth(self, section) -> float | None:
+        """Depth [m] at which da/D50 = 1.5, where "auto" passes from Bathurst's relation (below) to Blodgett's.
+
+        The two relations do not meet there (HEC-15 Eq. 6.1 holds for 1.5 <= da/D50 <= 185, Eq. 6.2 for
+        0.3 < da/D50 < 8.0), so a rating curve kinks at this depth and the smallest stable D50 can change
+        abruptly across it: the front ends mark it and say so. None for a forced relation, or where the
+        section (a pipe) never reaches that average depth. Bisection on the geometry to 1e-12 of the depth.
+        """
+        if self.method != "auto":
+            return None
+        target = hec15.BLODGETT_RANGE[0] * self.d50
+        top = None if section.capacity_depth is None else float(section.capacity_depth) * (1 - 1e-12)
+        lo, hi = 0.0, self.d50 if top is None else min(self.d50, top)
+        while float(_average_depth(section, hi)[0]) < target:   # da = A/T rises with depth in these sections
+            if top is not None and hi >= top:
+                return None
+            lo, hi = hi, hi * 2.0 if top is None else min(hi * 2.0, top)
+        while hi - lo > 1e-12 * hi:
+            mid = 0.5 * (lo + hi)
+            lo, hi = (mid, hi) if float(_average_depth(section, mid)[0]) < target else (lo, mid)
+        return hi
+
     def manning_n(self, section, depth, slope):
         """Manning's n [s/m^(1/3)] at ``depth`` [m] and ``slope`` [m/m]; no checks (solver use)."""
         if self.method == "strickler":
@@ -275,3 +301,9 @@ class VegetationRoughness:
 
     def to_dict(self) -> dict:
         return {"model": "vegetation", "density_stiffness": self.density_stiffness, "stem_height": self.stem_height}
+
+
+def relation_switch_depth(roughness, section) -> float | None:
+    """Depth [m] where a stone lining's n changes relation (:meth:`StoneRoughness.switch_depth`); None for any
+    other roughness (a number, grass, soil, a surveyed section's own n)."""
+    return roughness.switch_depth(section) if isinstance(roughness, StoneRoughness) else None

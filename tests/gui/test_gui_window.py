@@ -533,3 +533,23 @@ def test_results_list_the_values_not_yet_verified(demo_window):
     w.channel_list.setCurrentRow(names.index("East verge ditch"))    # concrete: no stone relations
     assert pv.entry("table_6_1").what not in panel.unverified.text()
     assert pv.entry("freeboard").what in panel.unverified.text()
+
+
+def test_rating_curve_marks_where_the_stone_relation_changes(demo_window):
+    """Riprap: n passes from Bathurst's relation to Blodgett's at da/D50 = 1.5 (HEC-15 Eq. 6.1 and 6.2 ranges);
+    the curve kinks there, so the picture marks the depth; a concrete ditch has no such mark."""
+    from hydraulics.linings.roughness import SWITCH_NOTE
+    w = demo_window
+    names = [c.name for c in w.doc.project.channels]
+    w.tabs.setCurrentIndex(1)
+    w.channel_list.setCurrentRow(names.index("Outfall swale"))
+    pic = w.rating_picture
+    assert pic.switch.get_visible()
+    ys = pic.switch.get_ydata()[0]
+    sec = w.doc.channel().build_section()
+    g = sec.properties(ys)
+    assert g.area / g.top_width == pytest.approx(1.5 * w.doc.channel().lining.d50, rel=1e-6)   # SI project
+    assert SWITCH_NOTE in [t.get_text() for t in pic.legend.get_texts()]
+    w.channel_list.setCurrentRow(names.index("East verge ditch"))
+    assert not pic.switch.get_visible()
+    assert SWITCH_NOTE not in [t.get_text() for t in pic.legend.get_texts()]
