@@ -800,6 +800,15 @@ def _check(section, q, s, lining, d50, rc, fb_min, n_override, sf_min, v_min) ->
             warn.append("the smallest stable D50 lies where the stone's n changes from Blodgett's relation to "
                         f"Bathurst's (da/D50 near 1.5, {cite('relation_choice')}) and the depth changes abruptly: a "
                         "slightly smaller stone gives deeper flow and fails; check the size by hand")
+        needed = max((x for x in req.values() if x is not None and math.isfinite(x)), default=None)
+        if needed is not None and req_depth is not None:
+            re_needed = float(hec15.particle_reynolds(req_depth, s, needed))
+            if hec15.RE_LOW < re_needed < hec15.RE_HIGH:
+                notes.append(f"the smallest stable D50 has a particle Reynolds number of {re_needed:.3g} (HEC-15 Eq. "
+                             f"6.9), inside the band where {cite('table_6_1')} passes from F* {hec15.SHIELDS_LOW:g}, "
+                             f"SF {hec15.SF_LOW:g} to F* {hec15.SHIELDS_HIGH:g}, SF {hec15.SF_HIGH:g}; there F*/SF "
+                             "rises with Re, so a slightly steeper grade can need a slightly smaller stone: size a "
+                             "run of grades for its steepest stretch")
         if steep:
             notes.append(f"slope {s:g} is steeper than {hec15.STEEP_SLOPE:g}: the side slopes are checked by the "
                          f"steep-slope method ({STEEP_SLOPE_SOURCE})")
