@@ -30,11 +30,12 @@ The result keeps its numbers in SI and words its verdict on request in any
 unit system (:meth:`StabilityResult.reason`), so every front end prints the
 same sentence in its own units.
 
-Steps 2 to 4 are :func:`shear_checks`, on arrays: :func:`check_lining` calls
-it for one channel, and the inventory check (:mod:`hydraulics.batch`) for
-thousands at once, so each relation is strung together in one place. The
-rest of :func:`check_lining` (stone sizing, freeboard, quantities, words) is
-for single channels.
+Steps 2 to 4 are :func:`hydraulics.shear_checks.shear_checks`, on arrays:
+:func:`check_lining` calls it for one channel, and the inventory check
+(:mod:`hydraulics.batch`) for thousands at once, so each relation is strung
+together in one place. Step 5 is :mod:`hydraulics.stone_size`, step 6
+:mod:`hydraulics.freeboard`. The rest of :func:`check_lining` (quantities,
+words) and the lining comparison are here, for single channels.
 """
 
 from __future__ import annotations
@@ -44,11 +45,9 @@ import warnings
 from dataclasses import dataclass, field
 
 import numpy as np
-from scipy.optimize import brentq
 
 from . import validate
 from .analysis import NEAR_CRITICAL_SOURCE, ChannelResult, analyse
-from .constants import G, GAMMA_WATER
 from .errors import InputError, NoSolutionError
 from .linings import hec15
 from .linings.catalogue import Lining
@@ -57,6 +56,8 @@ from .linings.roughness import StoneRoughness, VegetationRoughness
 from .freeboard import FREEBOARD_SOURCE, SUPERCRITICAL_BEND_SOURCE, SUPERELEVATION_SOURCE, ditch_top
 from .freeboard import freeboard_rule as _freeboard_rule
 from .provenance import cite
+from .shear_checks import ShearCheckArray, ShearChecks, shear_checks
+from .stone_size import _required_stone
 from .units import SI, UnitSystem
 from .wording import format_quantity, in_units, worded
 
@@ -308,23 +309,6 @@ def _sides(section):
     return [("left side slope", z1), ("right side slope", z2)]
 
 
-def _steep_incipient_shear(d50, theta, alpha, phi, shields, gs, gw):
-    """Side shear [Pa] at which the Appendix D safety factor of this stone is 1."""
-    def f(tau):
-        return hec15._steep_sf(d50, tau, theta, alpha, phi, shields, gs, gw) - 1.0
-    lo = 1e-9 * shields * (gs - gw) * d50
-    hi = shields * (gs - gw) * d50
-    for _ in range(200):
-        if f(hi) < 0:
-            break
-        hi *= 2.0
-    else:  # pragma: no cover - the factor falls to 0 with the shear
-        raise NoSolutionError("steep-slope method: no incipient-motion shear found")
-    if f(lo) <= 0:  # the bank alone is at its limit
-        return 0.0
-    return brentq(f, lo, hi, xtol=1e-12 * hi, rtol=1e-12, maxiter=200)
-
-
 def _lined_perimeter(section, depth):
     """Boundary length [m] from the invert up to ``depth`` (the lining's width per unit length)."""
     return float(section.wetted_perimeter(depth))
@@ -339,292 +323,6 @@ def _roughness_text(lining: Lining, relation: str) -> str:
     if relation == "soil":
         return f"soil grain roughness ns ({src})"
     return f"constant n ({src})"
-
-
-# --------------------------------------------------------------------------
-# the shear checks, on arrays
-# --------------------------------------------------------------------------
-
-@dataclass
-class ShearCheckArray:
-    """One place where the shear is checked, over many channels: arrays with one entry per channel (SI).
-
-    ``applies`` is False where a channel has no such place (no straight side
-    slope, no bend); its ``safety_factor`` is inf there, so it never governs.
-    For a rigid lining ``permissible_shear`` and ``safety_factor`` are nan.
-    For the steep-slope method (``appendix_d``) ``safety_factor`` is the
-    Appendix D factor and ``permissible_shear`` the side shear at which it is
-    1 (nan unless asked for with ``incipient``).
-    """
-
-    location: np.ndarray           # object array of str: "bed", "side slopes", "left side slope", ... "bend"
-    applies: np.ndarray            # bool
-    design_shear: np.ndarray       # [Pa]
-    permissible_shear: np.ndarray  # [Pa]
-    safety_factor: np.ndarray      # [-]
-    side_slope: np.ndarray | None  # Z of the side [H:V] (side checks only)
-    shear_factor: np.ndarray | None  # K1 on a side, Kb in a bend (None on the bed)
-    tractive_ratio: np.ndarray | None  # K2 where the stone's side resistance uses it, else nan (stone sides only)
-    cannot_rest: np.ndarray        # bool: stone on a side as steep as or steeper than its angle of repose
-    appendix_d: np.ndarray         # bool: side stone of a steep bed, checked by HEC-15 Appendix D
-
-
-@dataclass
-class ShearChecks:
-    """Every place :func:`shear_checks` checked, for one lining over many channels (SI arrays).
-
-    ``checks`` holds the bed first, then the left and the right side slope
-    (where side slopes were given; where both sides are alike the two carry
-    the same location, "side slopes", and the same numbers), then the bend
-    (where a bend radius was given).
-    """
-
-    method: str                      # the lining's permissible-shear method ("none": rigid)
-    design_shear: np.ndarray         # tau_d on the bed [Pa] (HEC-15 Eq. 3.1)
-    permissible_shear: np.ndarray    # tau_p on the bed [Pa]; nan for a rigid lining
-    required_safety_factor: np.ndarray  # [-]
-    checks: list                     # of ShearCheckArray
-    d50: np.ndarray | None = None    # stone only: D50 [m], particle Reynolds number Re*, Shields' F*
-    reynolds: np.ndarray | None = None
-    shields: np.ndarray | None = None
-
-    @property
-    def non_erodible(self) -> bool:
-        return self.method == "none"
-
-    def governing(self) -> np.ndarray:
-        """Index into ``checks`` of each channel's lowest safety factor (the first on a tie; the bed if rigid)."""
-        if self.non_erodible:
-            return np.zeros(len(self.design_shear), dtype=np.intp)
-        return np.argmin(np.column_stack([c.safety_factor for c in self.checks]), axis=1)
-
-    def pick(self, name: str, governing=None) -> np.ndarray:
-        """The governing check's values of the ShearCheckArray field ``name``, per channel."""
-        gov = self.governing() if governing is None else governing
-        return np.choose(gov, [getattr(c, name) for c in self.checks])
-
-    @property
-    def safety_factor(self) -> np.ndarray:
-        """Lowest safety factor over the checks (nan for a rigid lining)."""
-        return self.pick("safety_factor")
-
-    @property
-    def stable(self) -> np.ndarray:
-        """Where every check holds (HEC-15 Eq. 3.2); True for a rigid lining."""
-        if self.non_erodible:
-            return np.ones(len(self.design_shear), dtype=bool)
-        return self.safety_factor >= self.required_safety_factor
-
-
-def _side_array(name, values, size):
-    """Side slopes as a float array of ``size`` (nan: no such side), the finite ones checked >= 0."""
-    z = np.broadcast_to(np.asarray(values, dtype=float), (size,)).astype(float)
-    given = ~np.isnan(z)
-    if given.any():
-        validate.non_negative(name, z[given])
-    return z
-
-
-def shear_checks(lining: Lining, depth, slope, manning_n=None, *, d50=None, left_slope=None, right_slope=None,
-                 bend_radius=None, top_width=None, min_safety_factor=1.0, incipient=False) -> ShearChecks:
-    r"""Design shear against the lining's permissible shear on the bed, the side slopes and in a bend, on arrays.
-
-    .. math::
-        \tau_d = \gamma d S \ \text{(Eq. 3.1)}, \quad \tau_s = K_1 \tau_d, \quad \tau_b = K_b \tau_d,
-        \quad \text{stable where } \tau_p / \tau \ge SF \ \text{(Eq. 3.2)}
-
-    The permissible shear tau_p by the lining's method:
-
-    * stone (``shields``): Eq. 6.7, tau_p = F* (gamma_s - gamma) D50, with
-      F* and the required safety factor SF from Table 6.1 at the particle
-      Reynolds number Re* (Eq. 6.9); SF is at least ``min_safety_factor``.
-      On a side slope the stone's resistance is K2 tau_p (tractive force
-      ratio, Section 6.3.2) on beds up to ``hec15.STEEP_SLOPE``; on steeper
-      beds the side stone is checked by the safety factor of Appendix D.
-      Stone cannot rest on a side as steep as or steeper than its angle of
-      repose (safety factor 0 there);
-    * grass (``vegetation``): from its soil and cover at the lining's n
-      (Chapter 4);
-    * bare soil (``soil``): the soil's permissible shear (Chapter 4);
-    * rolled products (``value``): the user's data-sheet value;
-    * rigid linings (``none``): non-erodible, not checked (common practice:
-      the method is written for flexible linings).
-
-    Parameters
-    ----------
-    lining : hydraulics.linings.Lining
-        A catalogue entry (``Catalogue.get(key)``).
-    depth : float or ndarray
-        Maximum flow depth d [m], > 0 (normal depth).
-    slope : float or ndarray
-        Bed slope S [m/m], > 0 and <= 1.
-    manning_n : float or ndarray, optional
-        Manning's n at the design flow [s/m^(1/3)], > 0; needed for grass.
-    d50 : float or ndarray, optional
-        Stone size D50 [m], > 0; needed for stone, refused for other linings.
-    left_slope, right_slope : float or ndarray, optional
-        Side slopes Z [H:V], >= 0; nan (or None for all) where a channel has
-        no straight side slopes (pipes, parabolas). ``right_slope`` defaults
-        to ``left_slope``.
-    bend_radius : float or ndarray, optional
-        Centre-line radius Rc of a bend [m], >= half the water-surface width;
-        nan (or None for all) for a straight reach.
-    top_width : float or ndarray, optional
-        Water-surface width T [m], > 0; needed with ``bend_radius`` (Kb is a
-        function of Rc/T).
-    min_safety_factor : float
-        Safety factor required [-], >= 1 (the larger of it and Table 6.1's
-        for stone).
-    incipient : bool
-        Also find, for the Appendix D checks, the side shear at which the
-        factor is 1 (a root search per channel; else nan).
-
-    Returns
-    -------
-    ShearChecks
-        Arrays with one entry per channel (inputs broadcast together, at least 1-D).
-
-    Raises
-    ------
-    InputError
-        A bad input, naming the field; also a user-data catalogue entry whose
-        values have not been filled in.
-
-    Notes
-    -----
-    A relation used outside its range of validity gives a ValidityWarning
-    (for instance a D50 outside 15 to 550 mm). Which relations were read in
-    HEC-15 and which are not yet verified is kept in
-    :mod:`hydraulics.provenance`. The bend check
-    applies Kb to the bed shear; it is not combined with K1.
-
-    References
-    ----------
-    Kilgore, R. T. and Cotton, G. K., Design of Roadside Channels with Flexible
-    Linings, HEC-15, 3rd ed., FHWA-NHI-05-114, 2005: Chapters 3, 4 and 6 and
-    Appendix D.
-    """
-    if not isinstance(lining, Lining):
-        raise InputError("lining", f"must be a catalogue lining (Catalogue.get(key)), got {type(lining).__name__}")
-    given = [v for v in (depth, slope, manning_n, d50, left_slope, right_slope, bend_radius, top_width)
-             if v is not None]
-    try:
-        shape = np.broadcast_shapes(*(np.shape(v) for v in given))
-    except ValueError:
-        raise InputError("depth", "and the other inputs must be single values or arrays of one length, got shapes "
-                                  f"{', '.join(str(np.shape(v)) for v in given)}") from None
-    if len(shape) > 1:
-        raise InputError("depth", f"and the other inputs must be at most 1-D, got shape {shape}")
-    size = shape[0] if shape else 1
-    y = np.broadcast_to(np.atleast_1d(validate.positive("depth", depth)), (size,))
-    s = np.broadcast_to(np.atleast_1d(validate.slope(slope)), (size,))
-    sf_min = float(validate.number("min_safety_factor", min_safety_factor, low=1.0, low_inclusive=True))
-    method = lining.permissible_data["method"]
-    tau = hec15.design_shear(y, s)
-
-    if bend_radius is None:
-        rc = None
-    else:
-        if top_width is None:
-            raise InputError("top_width", "is needed with bend_radius (Kb depends on Rc/T)")
-        rc = np.broadcast_to(np.asarray(bend_radius, dtype=float), (size,))
-        top = np.broadcast_to(np.atleast_1d(validate.positive("top_width", top_width)), (size,))
-        bent = ~np.isnan(rc)
-        if bent.any():
-            validate.positive("bend_radius", rc[bent])
-            short = bent & (rc < top / 2)
-            if short.any():
-                i = int(np.flatnonzero(short)[0])
-                raise InputError("bend_radius", f"must be at least half the water-surface width ({top[i] / 2:.3g} m), "
-                                                f"got {rc[i]:g} m: the inner bank would lie beyond the bend's centre")
-
-    stone = method == "shields"
-    d = reynolds = shields = None
-    if stone:
-        if d50 is None:
-            raise InputError("d50", f"lining {lining.key!r} needs a D50")
-        d = np.broadcast_to(np.atleast_1d(validate.positive("d50", d50)), (size,))
-        gs, phi = float(lining.specific_weight), float(lining.angle_of_repose)
-        reynolds = hec15.particle_reynolds(y, s, d)
-        shields, sf_table = hec15.shields_and_safety_factor(reynolds)
-        required = np.maximum(sf_table, sf_min)
-        tau_p = np.asarray(hec15.stone_permissible_shear(d, shields, gs), dtype=float)
-    else:
-        if d50 is not None:
-            raise InputError("d50", f"applies to stone linings only; {lining.key!r} is {lining.category}")
-        required = np.full(size, 1.0 if method == "none" else sf_min)
-        if method == "none":
-            tau_p = np.full(size, np.nan)
-        elif method == "vegetation":
-            if manning_n is None:
-                raise InputError("manning_n", f"is needed for the grass lining {lining.key!r} (its permissible "
-                                              "shear depends on the lining's n)")
-            tau_p = np.broadcast_to(np.asarray(hec15.vegetation_permissible_shear(
-                float(lining.soil_permissible_shear()), float(lining.cover_factor()), manning_n,
-                float(lining.soil_grain_n())), dtype=float), (size,))
-        else:
-            value = lining.soil_permissible_shear() if method == "soil" else lining.field_value("permissible", "shear")
-            tau_p = np.full(size, float(validate.positive(f"lining {lining.key!r} permissible.shear", value)))
-
-    no = np.zeros(size, dtype=bool)
-
-    def ratio(permissible, design, applies):
-        with np.errstate(divide="ignore", invalid="ignore"):
-            sf = np.where(design > 0, permissible / design, np.inf)
-        return np.where(applies, sf, np.inf)
-
-    everywhere = np.ones(size, dtype=bool)
-    checks = [ShearCheckArray(np.repeat(np.array(["bed"], dtype=object), size), everywhere, tau, tau_p,
-                              ratio(tau_p, tau, everywhere), None, None, None, no, no)]
-    if left_slope is not None:
-        z1 = _side_array("left_slope", left_slope, size)
-        z2 = z1 if right_slope is None else _side_array("right_slope", right_slope, size)
-        same = (z1 == z2) | (np.isnan(z1) & np.isnan(z2))
-        for z, other in ((z1, "left side slope"), (z2, "right side slope")):
-            applies = ~np.isnan(z)
-            zz = np.where(applies, z, 0.0)
-            k1 = np.asarray(hec15.side_slope_factor(zz), dtype=float)
-            design = k1 * tau
-            permissible = tau_p.copy()
-            cannot = steep = no
-            k2 = None
-            factor = None
-            if stone:
-                theta = np.where(zz > 0, np.arctan(1.0 / np.where(zz > 0, zz, 1.0)), np.pi / 2)
-                cannot = applies & (theta >= math.radians(phi))
-                steep = applies & ~cannot & (s > hec15.STEEP_SLOPE)
-                mild = applies & ~cannot & ~steep
-                k2 = np.full(size, np.nan)
-                if mild.any():
-                    k2[mild] = hec15.tractive_force_ratio(zz[mild], phi)
-                permissible = np.where(mild, k2 * tau_p, permissible)
-                permissible[cannot] = 0.0
-                factor = ratio(permissible, design, applies)
-                if steep.any():
-                    factor[steep] = hec15.steep_slope_safety_factor(d[steep], y[steep], s[steep], zz[steep], phi,
-                                                                    shields[steep], gs)
-                    permissible[steep] = np.nan
-                    if incipient:
-                        alpha = np.arctan(s)
-                        for j in np.flatnonzero(steep):
-                            permissible[j] = _steep_incipient_shear(float(d[j]), float(theta[j]), float(alpha[j]),
-                                                                    math.radians(phi), float(shields[j]), gs,
-                                                                    GAMMA_WATER)
-            if factor is None:
-                factor = ratio(permissible, design, applies)
-            checks.append(ShearCheckArray(np.where(same, "side slopes", other).astype(object), applies, design,
-                                          permissible, factor, z, k1, k2, cannot, steep))
-    if rc is not None:
-        kb = np.full(size, np.nan)
-        if bent.any():
-            kb[bent] = hec15.bend_factor(rc[bent], top[bent])
-        design = kb * tau
-        checks.append(ShearCheckArray(np.repeat(np.array(["bend"], dtype=object), size), bent, design, tau_p,
-                                      ratio(tau_p, design, bent), None, kb, None, no, no))
-    if method == "none":
-        for c in checks:
-            c.safety_factor = np.full(size, np.nan)
-    return ShearChecks(method, tau, tau_p, required, checks, d, reynolds, shields)
 
 
 # --------------------------------------------------------------------------
@@ -926,138 +624,6 @@ def _scalar_checks(sc: ShearChecks, method: str, rc, top) -> list:
         out.append(ShearCheck(location, design, float(c.permissible_shear[0]), required, sf, sf >= required, text,
                               how, z, cannot_rest=cannot))
     return out
-
-
-def _stone_sizes_at(y, top, s, sides, rc, gs, phi, sf_min):
-    """{"bed", "side", "bend"} smallest stable D50 [m] at depth ``y`` (inf: none), and the method used."""
-    tau_d = GAMMA_WATER * y * s
-    out = {"bed": _size(tau_d, y, s, gs, sf_min), "side": None, "bend": None}
-    method = "eq_6_8"
-    steep = s > hec15.STEEP_SLOPE
-    side_sizes = []
-    for _, z, k1 in sides:
-        theta = math.atan(1.0 / z) if z > 0 else math.pi / 2
-        if theta >= math.radians(phi):
-            side_sizes.append(math.inf)
-        elif steep:
-            method = "appendix_d"
-            try:
-                side_sizes.append(_steep_size(y, s, z, phi, gs, sf_min))
-            except NoSolutionError:
-                side_sizes.append(math.inf)
-        else:
-            k2 = float(hec15.tractive_force_ratio(z, phi))
-            side_sizes.append(_size(k1 * tau_d / k2, y, s, gs, sf_min))
-    if side_sizes:
-        out["side"] = max(side_sizes)
-    if rc is not None:
-        out["bend"] = _size(float(hec15.bend_factor(rc, top)) * tau_d, y, s, gs, sf_min)
-    return out, method
-
-
-def _required_stone(section, q, s, lining, n_fixed, sides, rc, gs, phi, sf_min, d_start, max_iter=40):
-    """Smallest stable D50 for the flow: HEC-15's trial procedure carried to convergence.
-
-    The trial procedure of HEC-15 Chapter 6 (assume D50, find the depth and
-    n, find the D50 required, repeat) is the fixed-point iteration
-    D -> req(D). Larger stone is rougher, so the flow runs deeper, but the
-    required size grows much more slowly than D50 itself and the iteration
-    contracts (stops at a relative change of 1e-10). Where the roughness
-    changes from Blodgett's relation to Bathurst's (da/D50 = 1.5) the depth
-    can jump as D50 passes the switch and there may be no fixed point: the
-    iterates then alternate about the jump, and the smallest stable size
-    (D >= req(D)) is found by bisection between them. Returns
-    (sizes, method, depth, converged, at_jump).
-    """
-    from .solvers import normal_depth
-
-    def depth(dd):
-        if n_fixed is not None:
-            return float(normal_depth(section, q, s, n_fixed))
-        # A trial size is only a step of the search: where the solver cannot settle on a depth (the
-        # conveyance of the "auto" stone n is not monotone just above da/D50 = 1.5), nudge the trial.
-        for nudge in (1.0, 1.0 + 1e-6, 1.0 + 1e-4, 1.0 - 1e-4, 1.0 + 1e-3):
-            try:
-                return float(normal_depth(section, q, s, lining.roughness(dd * nudge)))
-            except NoSolutionError as exc:
-                last = exc
-        raise NoSolutionError(f"sizing the stone: no normal depth with a trial D50 of {dd * 1000:.4g} mm ({last})")
-
-    def state(dd):
-        y = depth(dd)
-        sizes, method = _stone_sizes_at(y, float(section.top_width(y)), s, sides, rc, gs, phi, sf_min)
-        return max(x for x in sizes.values() if x is not None), sizes, method, y
-
-    with warnings.catch_warnings():
-        warnings.simplefilter("ignore", ValidityWarning)
-        dd = d_start
-        lo, hi = 0.0, math.inf       # largest size seen to fail, smallest seen to hold
-        hi_state = None
-        for _ in range(max_iter):
-            new, sizes, method, y = state(dd)
-            if math.isinf(new) or n_fixed is not None or abs(new - dd) <= 1e-10 * new:
-                return sizes, method, y, True, False
-            if new > dd:
-                lo = max(lo, dd)
-            elif dd < hi:
-                hi, hi_state = dd, (sizes, method, y)
-            if lo > 0 and hi < math.inf and not lo < new < hi:
-                break                # the iterates alternate about a jump
-            dd = new
-        else:
-            return sizes, method, y, False, False
-        for _ in range(200):         # bisection for the smallest size that holds
-            if hi - lo <= 1e-10 * hi:
-                break
-            mid = math.sqrt(lo * hi)
-            new, sizes, method, y = state(mid)
-            if new > mid:
-                lo = mid
-            else:
-                hi, hi_state = mid, (sizes, method, y)
-        sizes, method, y = hi_state
-        sizes = dict(sizes)
-        key = max((k for k in sizes if sizes[k] is not None), key=lambda k: sizes[k])
-        sizes[key] = hi              # the governing size is the smallest stone that holds, not its own need
-        return sizes, method, y, True, True
-
-
-def _size(tau, depth, slope, gamma_stone, sf_min):
-    """Smallest D50 [m] resisting ``tau`` with the larger of Table 6.1's SF and ``sf_min``."""
-    size = hec15.required_d50_for_shear(tau, depth, slope, gamma_stone)
-    if size.safety_factor >= sf_min:
-        return float(size.d50)
-    # D F*(D) / max(SF(D), sf_min) rises with D (F*/SF rises with Re*), so one root lies above Table 6.1's size
-    c = math.sqrt(G * depth * slope) / hec15.NU_HEC15
-
-    def excess(dd):
-        f, sf = hec15._shields_sf(c * dd)
-        return f * (gamma_stone - GAMMA_WATER) * dd - max(sf, sf_min) * tau
-    lo = hi = float(size.d50)
-    while excess(hi) < 0:
-        hi *= 2.0
-    return brentq(excess, lo, hi, xtol=1e-14, rtol=1e-12)
-
-
-def _steep_size(depth, slope, z, phi, gamma_stone, sf_min):
-    size = hec15.required_d50_steep(depth, slope, z, phi, gamma_stone)
-    if size.safety_factor >= sf_min:
-        return float(size.d50)
-    theta, alpha, ph = math.atan(1.0 / z), math.atan(slope), math.radians(phi)
-    tau_side = hec15.side_slope_factor(z) * GAMMA_WATER * depth * slope
-    c = math.sqrt(G * depth * slope) / hec15.NU_HEC15
-
-    def excess(dd):
-        f, sf = hec15._shields_sf(c * dd)
-        return hec15._steep_sf(dd, tau_side, theta, alpha, ph, f, gamma_stone, GAMMA_WATER) - max(sf, sf_min)
-    lo, hi = float(size.d50), float(size.d50)
-    for _ in range(80):
-        if excess(hi) > 0:
-            break
-        hi *= 2.0
-    else:
-        raise NoSolutionError("no stone size reaches the required safety factor on this side slope")
-    return brentq(excess, lo, hi, xtol=1e-14, rtol=1e-12)
 
 
 # --------------------------------------------------------------------------
