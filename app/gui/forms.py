@@ -20,7 +20,8 @@ from hydraulics.units import UnitSystem
 from ..project import LiningChoice
 from . import compute
 from .document import ProjectDocument, section_for_shape, value_at, with_value
-from .fields import FieldSpec, LineEdit, NotesEdit, NumberField, format_number, parse_number, pretty, set_invalid
+from .fields import (FieldSpec, LineEdit, NotesEdit, NumberField, UnclearNumber, format_number, parse_number, pretty,
+                     set_invalid)
 
 SHAPES = (
     ("trapezoid", "Trapezoid"),
@@ -186,6 +187,8 @@ class SurveyTable(QWidget):
                 text = item.text() if item else ""
                 try:
                     v = parse_number(text)
+                except UnclearNumber as exc:
+                    raise ValueError(f"Point {i + 1}: {exc}") from None
                 except ValueError:
                     name = ("station", "elevation", "n")[col]
                     raise ValueError(f"Point {i + 1}: the {name} '{text}' is not a number.") from None
