@@ -1,9 +1,13 @@
 """The lining comparison: several linings for the current channel side by side.
 
 A list to choose the linings (stored with the channel as its alternatives), a
-table with one row per lining, a small section for each, and two actions:
-apply the chosen row's lining to the channel (one undoable edit) and copy the
+table with one column per lining, a small section for each, and two actions:
+apply the chosen column's lining to the channel (one undoable edit) and copy the
 table as tab-separated text.
+
+Clicking a quantity's heading orders the linings by it (again: the other way);
+the columns can also be dragged. Only the order shown changes: a column keeps
+its lining, so what is applied is always the lining the user picked.
 """
 
 from __future__ import annotations
@@ -82,6 +86,10 @@ class ComparisonView(QWidget):
         self.table.verticalHeader().setSectionResizeMode(QHeaderView.ResizeMode.ResizeToContents)
         self.table.setWordWrap(True)
         self.table.itemSelectionChanged.connect(self._selection_changed)
+        self.table.horizontalHeader().setSectionsMovable(True)
+        self.table.verticalHeader().setSectionsClickable(True)
+        self.table.verticalHeader().sectionClicked.connect(self.sort_by)
+        self._sort: tuple[int, bool] | None = None     # (quantity row, descending)
 
         self.apply_button = QPushButton("Apply chosen lining to the channel")
         self.apply_button.setObjectName("applyLining")
@@ -136,7 +144,8 @@ class ComparisonView(QWidget):
         self._set_columns(len(body))
         self.table.setRowCount(len(heads))          # row 0: the small section; then the quantities
         self.table.setHorizontalHeaderLabels([wrap(cells[0]) for cells in body])
-        self.table.setVerticalHeaderLabels(["Section"] + [pretty(h) for h in heads[1:]])
+        self._headings = ["Section"] + [pretty(h) for h in heads[1:]]
+        self.table.setVerticalHeaderLabels(self._headings)
         self.table.setRowHeight(0, PICTURE_HEIGHT)
         for j, (row, cells) in enumerate(zip(self.rows, body)):
             self.table.horizontalHeaderItem(j).setToolTip(cells[0])
@@ -150,14 +159,48 @@ class ComparisonView(QWidget):
                     item.setToolTip(pretty(row.evaluation.verdict.reason))
                 self.table.setItem(i, j, item)
         self._fill_pictures()
+        self._show_order()
         has_rows = bool(self.rows)
         self.copy_button.setEnabled(has_rows)
         self.apply_button.setEnabled(has_rows and self.selected() >= 0)
 
     def selected(self) -> int:
-        """The column (lining) picked, or -1."""
+        """The lining picked: its index in ``rows`` (the table's logical column, whatever the order shown), or -1."""
         cols = {i.column() for i in self.table.selectedIndexes()}
         return cols.pop() if len(cols) == 1 else -1
+
+    def shown_order(self) -> list[int]:
+        """Indices into ``rows`` from left to right as the table shows them."""
+        header = self.table.horizontalHeader()
+        return [header.logicalIndex(v) for v in range(len(self.rows))]
+
+    def sort_by(self, row: int) -> None:
+        """Order the linings by the quantity of table row ``row``; the same row again reverses the order."""
+        if not 1 <= row < len(compute.COMPARISON_COLUMNS):
+            return
+        descending = self._sort == (row, False)
+        self._sort = (row, descending)
+        self._show_order()
+
+    def _show_order(self) -> None:
+        header = self.table.horizontalHeader()
+        labels = list(getattr(self, "_headings", []))
+        if self._sort is None or not self.rows or not labels:
+            return
+        row, descending = self._sort
+        get = compute.COMPARISON_COLUMNS[row][2]
+
+        values = [get(r) for r in self.rows]
+        present = [j for j, v in enumerate(values) if v is not None]
+
+        def key(j):
+            v = values[j]
+            return (1, 0.0, str(v).lower()) if isinstance(v, str) else (0, float(v), "")
+        order = sorted(present, key=key, reverse=descending) + [j for j, v in enumerate(values) if v is None]
+        for visual, j in enumerate(order):
+            header.moveSection(header.visualIndex(j), visual)
+        labels[row] += " ▼" if descending else " ▲"
+        self.table.setVerticalHeaderLabels(labels)
 
     def _fill_choices(self, ch) -> None:
         choices = compute.catalogue_choices()
@@ -224,20 +267,28 @@ class ComparisonView(QWidget):
         self.table.selectColumn(index)
 
     def apply_selected(self) -> None:
-        row = self.selected()
-        if not 0 <= row < len(self.rows):
+        index = self.selected()
+        if not 0 <= index < len(self.rows):
             self.status_message.emit("Pick a lining (a column of the table) first.")
             return
-        choice = self.rows[row].choice
+        picked = self.rows[index]     # held: the edit below refreshes the table, which may reorder ``rows``
         ch = self.doc.channel()
-        new = compute.with_lining(ch, choice)
+        new = compute.with_lining(ch, picked.choice)
         if ch.lining is not None and all((a.key, a.d50) != (ch.lining.key, ch.lining.d50) for a in ch.alternatives):
             new.alternatives.insert(0, copy.deepcopy(ch.lining))   # the lining it had stays in the comparison
-        self.doc.replace(new, f"Apply lining {self.rows[row].name}")
-        self.status_message.emit(f"Lining '{self.rows[row].name}' applied to {self.doc.channel().name}.")
+        self.doc.replace(new, f"Apply lining {picked.name}")
+        self.status_message.emit(f"Lining '{picked.name}' applied to {self.doc.channel().name}.")
+        self._select_choice(picked.choice)
+
+    def _select_choice(self, choice) -> None:
+        """Keep the applied lining's column selected after the table was refilled."""
+        for j, r in enumerate(self.rows):
+            if (r.choice.key, r.choice.d50) == (choice.key, choice.d50):
+                self.table.selectColumn(j)
+                return
 
     def copy_table(self) -> str:
-        text = compute.comparison_tsv(self.rows, self.doc.units)
+        text = compute.comparison_tsv([self.rows[j] for j in self.shown_order()], self.doc.units)
         QGuiApplication.clipboard().setText(text)
         self.status_message.emit(f"Comparison table copied ({len(self.rows)} rows, tab-separated).")
         return text

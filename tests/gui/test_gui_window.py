@@ -9,7 +9,7 @@ import json
 
 import numpy as np
 import pytest
-from PySide6.QtCore import Qt
+from PySide6.QtCore import QPoint, Qt
 from PySide6.QtWidgets import QMessageBox
 
 import hydraulics as hy
@@ -516,3 +516,33 @@ def test_the_copied_comparison_keeps_formulas_as_text(demo_window, qtbot):
     expected = ["'=HYPERLINK(\"x\")", "'@SUM(1)", "'+1+cmd", "'-1+cmd", "' x=1"]
     assert names and all(n.startswith(e) for n, e in zip(names, expected))
     assert all(len(line.split("\t")) == len(lines[0].split("\t")) for line in lines)
+
+
+def test_comparison_applies_the_picked_lining_after_the_columns_are_reordered(demo_window, qtbot):
+    w = demo_window
+    w.doc.set_current(outfall_index(w))
+    w.tabs.setCurrentIndex(3)
+    view = w.comparison
+    for key in ("concrete", "riprap", "grass_good_sod"):                  # more linings to order
+        if not view.checks[key].isChecked():
+            view.checks[key].setChecked(True)
+    heads = [view.table.verticalHeaderItem(i).text() for i in range(view.table.rowCount())]
+    velocity_row = next(i for i, h in enumerate(heads) if h.startswith("Velocity"))
+    view.table.verticalHeader().sectionClicked.emit(velocity_row)         # the user clicks "Velocity"
+    view.table.verticalHeader().sectionClicked.emit(velocity_row)         # and again: fastest first
+    speeds = [view.rows[j].core.velocity for j in view.shown_order()]
+    assert speeds == sorted(speeds, reverse=True) and speeds != [r.core.velocity for r in view.rows]
+    assert view.table.verticalHeaderItem(velocity_row).text().endswith("▼")
+    header = view.table.horizontalHeader()
+    first = header.logicalIndex(0)                                         # the leftmost lining on screen
+    x = header.sectionViewportPosition(first) + header.sectionSize(first) // 2
+    qtbot.mouseClick(header.viewport(), Qt.MouseButton.LeftButton, pos=QPoint(x, header.height() // 2))
+    picked = view.rows[first]
+    assert view.selected() == first
+    messages = []
+    view.status_message.connect(messages.append)
+    qtbot.mouseClick(view.apply_button, Qt.MouseButton.LeftButton)
+    assert w.doc.channel().lining.key == picked.choice.key
+    assert messages and picked.name in messages[-1]                        # and says so, by its own name
+    assert view.rows[view.selected()].choice.key == picked.choice.key       # still picked after the refresh
+    assert view.copy_table().splitlines()[1].startswith(picked.name)      # the copy keeps the order shown
