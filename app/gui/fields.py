@@ -8,6 +8,7 @@ the box; nothing is sent on.
 
 from __future__ import annotations
 
+import html
 import math
 import re
 from dataclasses import dataclass
@@ -164,7 +165,8 @@ def parse_number(text: str, percent_allowed: bool = False, locale: QLocale | Non
     readings = []
     other = _OTHER_MARK.get(mark)
     if other is not None and other in t:
-        v = _read(t, other, mark, lambda d, w: re.fullmatch(r"\d{1,3}(?:" + re.escape(mark) + r"\d{3})*", w) is not None)
+        thousands = re.compile(r"\d{1,3}(?:" + re.escape(mark) + r"\d{3})*")
+        v = _read(t, other, mark, lambda d, w: thousands.fullmatch(w) is not None)
         if v is not None:
             readings.append((v, f"the {_mark_name(other)} as a decimal mark"))
     if group and group in t:
@@ -183,6 +185,14 @@ def parse_number(text: str, percent_allowed: bool = False, locale: QLocale | Non
 
 def _mark_name(mark: str) -> str:
     return {",": "comma", ".": "point", "'": "apostrophe"}.get(mark, "space" if mark.isspace() else f"'{mark}'")
+
+
+class LooksLikePercent(ValueError):
+    """A slope typed as a ratio above 1 that reads well as a percentage; ``reading`` is that ratio."""
+
+    def __init__(self, message: str, reading: float):
+        super().__init__(message)
+        self.reading = reading
 
 
 class _UndoGoesToWindow:
@@ -262,7 +272,11 @@ class NumberField(QObject):
         self.message = QLabel()
         self.message.setObjectName("fieldMessage")
         self.message.setWordWrap(True)
+        self.message.setTextFormat(Qt.TextFormat.RichText)
+        self.message.linkActivated.connect(self._use_reading)
         self.message.hide()
+        self._error = ""
+        self.offered = None        # a reading the message offers (a slope typed as a percentage), or None
         if spec.tip:
             self.edit.setToolTip(spec.tip)
             self.label.setToolTip(spec.tip)
@@ -284,7 +298,7 @@ class NumberField(QObject):
 
     @property
     def error(self) -> str:
-        return self.message.text() if is_invalid(self.edit) else ""
+        return self._error if is_invalid(self.edit) else ""
 
     # -- showing -------------------------------------------------------------------
     def show_value(self, value, units: UnitSystem, force: bool = False) -> None:
@@ -307,15 +321,28 @@ class NumberField(QObject):
             return typed is value
         return math.isclose(typed, value, rel_tol=5e-5, abs_tol=1e-12)
 
-    def set_error(self, text: str) -> None:
-        self.message.setText(text)
+    def set_error(self, text: str, offer: float | None = None) -> None:
+        """Show why the entry is refused; ``offer`` adds a link that enters that value (in the shown units)."""
+        self._error, self.offered = text, offer
+        shown = html.escape(text)
+        if offer is not None:
+            shown += f' <a href="use">Use {html.escape(format_number(offer))}</a>'
+        self.message.setText(shown)
         self.message.setVisible(not self.edit.isHidden())
         set_invalid(self.edit, True)
 
     def clear_error(self) -> None:
         set_invalid(self.edit, False)
+        self._error, self.offered = "", None
         self.message.clear()
         self.message.hide()
+
+    def _use_reading(self, _link: str = "") -> None:
+        """The user took the offered reading: enter it as if typed (one undoable edit)."""
+        if self.offered is not None:
+            text = format_number(self.offered)
+            self.edit.setText(text)
+            self._typed(text)
 
     # -- reading ---------------------------------------------------------------------
     def parse(self, text: str):
@@ -333,6 +360,12 @@ class NumberField(QObject):
             raise ValueError(f"'{text.strip()}' is not a number. {spec.label}: {spec.allowed(units)}.") from None
         low, high = spec.low, spec.high
         value = spec.to_si(shown, units)
+        typed = text.strip()
+        if spec.quantity == "slope" and high is not None and 1 < shown <= 100 and not typed.endswith("%"):
+            raise LooksLikePercent(
+                f"{spec.label} is a ratio ({spec.suffix(units)}), at most {format_number(high)}; {typed} would be a "
+                f"grade of {format_number(shown)} to 1. If you meant {typed} %, that is {format_number(shown / 100)} "
+                f"(or type {typed} %).", shown / 100)
         if low is not None and (value < low or (value == low and not spec.low_inclusive)) or \
            high is not None and (value > high or (value == high and not spec.high_inclusive)):
             raise ValueError(f"{spec.label} must be {spec.allowed(units)}; {text.strip()} is outside.")
@@ -341,6 +374,10 @@ class NumberField(QObject):
     def _typed(self, text: str) -> None:
         try:
             value = self.parse(text)
+        except LooksLikePercent as exc:
+            self.set_error(str(exc), offer=exc.reading)
+            self.invalid.emit(str(exc))
+            return
         except ValueError as exc:
             self.set_error(str(exc))
             self.invalid.emit(str(exc))

@@ -546,3 +546,21 @@ def test_comparison_applies_the_picked_lining_after_the_columns_are_reordered(de
     assert messages and picked.name in messages[-1]                        # and says so, by its own name
     assert view.rows[view.selected()].choice.key == picked.choice.key       # still picked after the refresh
     assert view.copy_table().splitlines()[1].startswith(picked.name)      # the copy keeps the order shown
+
+
+@pytest.mark.parametrize("units, ratio_unit", [("us", "ft/ft"), ("si", "m/m")])
+def test_a_slope_typed_as_a_percentage_is_refused_with_that_reading_offered(demo_window, qtbot, units, ratio_unit):
+    w = demo_window
+    w.doc.set_units(units)
+    f = field(w, "slope")
+    before = w.doc.channel().slope
+    assert f.suffix.text() == ratio_unit and "%" not in f.suffix.text()   # a ratio field says so, never "%"
+    type_into(qtbot, f, "3.5")
+    assert w.doc.channel().slope == before                                  # 3.5 ft/ft is never taken
+    assert "If you meant 3.5 %, that is 0.035" in f.error and ratio_unit in f.error
+    assert f.offered == pytest.approx(0.035) and 'href="use"' in f.message.text()
+    assert f.suffix.text() == ratio_unit
+    f.message.linkActivated.emit("use")                                     # the user takes the offer
+    assert w.doc.channel().slope == pytest.approx(0.035) and f.edit.text() == "0.035" and not f.error
+    w.undo_action.trigger()
+    assert w.doc.channel().slope == before
