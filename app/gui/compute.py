@@ -77,6 +77,8 @@ def describe_error(exc: Exception) -> tuple[str, str | None]:
         if name.startswith("lining "):
             label = "Lining " + name[len("lining "):]
         text = str(exc).split(": ", 1)[-1]
+        if text.startswith("must be a number, got None"):   # an input left empty: say so in words
+            return f"{label} is not given yet", name
         return f"{label} {text}", name
     if isinstance(exc, hy.NoSolutionError):
         return f"No solution: {exc}", None

@@ -259,6 +259,7 @@ class NumberField(QObject):
         self.units: UnitSystem | None = None
         self.value = None          # last SI value shown or accepted
         self.session = 0           # bumps when the user leaves the box: typing in one visit is one edit
+        self.touched = False       # the user typed here since the channel was shown
         self.label = QLabel(spec.label)
         self.edit = LineEdit()
         self.edit.setObjectName(spec.path)
@@ -372,6 +373,7 @@ class NumberField(QObject):
         return value
 
     def _typed(self, text: str) -> None:
+        self.touched = True
         try:
             value = self.parse(text)
         except LooksLikePercent as exc:

@@ -31,7 +31,7 @@ SHAPES = (
     ("circle", "Pipe, part full"),
     ("irregular", "Surveyed section"),
 )
-FLOW_METHODS = (("typed", "Typed value"), ("rational", "Rational method (Q = C i A)"))
+FLOW_METHODS = (("typed", "Typed value"), ("rational", "Rational method"))
 
 F = FieldSpec
 FLOW = F("flow.value", "Design flow Q", "flow", tip="Design discharge")
@@ -435,6 +435,7 @@ class InputPanel(QScrollArea):
         self.q_label, self.q_value = QLabel("Design flow Q = C i A"), QLabel()
         for lab, val in ((self.tc_label, self.tc_value), (self.q_label, self.q_value)):
             val.setObjectName("computed")
+            val.setWordWrap(True)       # a long line wraps inside the panel rather than widening it
             val.setAlignment(Qt.AlignmentFlag.AlignRight | Qt.AlignmentFlag.AlignVCenter)
             grid.addWidget(lab, row, 0)
             grid.addWidget(val, row, 1, 1, 2)
@@ -531,6 +532,8 @@ class InputPanel(QScrollArea):
         ch, units = self.doc.channel(), self.doc.units
         if force:
             self._invalid.clear()
+            for f in self.fields.values():
+                f.touched = False
         if force or self.name.text() != ch.name:
             self.name.setText(ch.name)
             self.name.setCursorPosition(0)
@@ -575,7 +578,7 @@ class InputPanel(QScrollArea):
         if ev.time_of_concentration is not None:
             self.tc_value.setText(f"{ev.time_of_concentration / 60:.1f} min (Kirpich)")
         else:
-            self.tc_value.setText("give L and its slope for Kirpich's t_c")
+            self.tc_value.setText("needs the flow-path length and slope")
         if ev.flow is not None:
             self.q_value.setText(f"{format_number(round(units.from_si('flow', ev.flow), 4))} "
                                  f"{pretty(units.label('flow'))}")
@@ -586,7 +589,8 @@ class InputPanel(QScrollArea):
             path = CORE_TO_PATH.get(ev.error_field)
             shape = self.doc.channel().section.get("shape")
             f = self.fields.get(f"{shape}:{path}") or self.fields.get(path or "")
-            if f is not None and not f.error and not f.edit.isHidden():
+            untouched_blank = f is not None and not f.touched and not f.edit.text().strip()
+            if f is not None and not f.error and not f.edit.isHidden() and not untouched_blank:
                 f.set_error(ev.error)
 
     def first_complaint(self) -> str:

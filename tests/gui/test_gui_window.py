@@ -15,6 +15,7 @@ from PySide6.QtWidgets import QMessageBox
 import hydraulics as hy
 from app import project as pj
 from app.gui import settings
+from app.gui.forms import RATIONAL
 from app.gui.mainwindow import MainWindow
 
 
@@ -564,3 +565,28 @@ def test_a_slope_typed_as_a_percentage_is_refused_with_that_reading_offered(demo
     assert w.doc.channel().slope == pytest.approx(0.035) and f.edit.text() == "0.035" and not f.error
     w.undo_action.trigger()
     assert w.doc.channel().slope == before
+
+
+def test_rational_form_says_nothing_until_typed_then_in_words_and_fits(demo_window, qtbot):
+    from PySide6.QtWidgets import QLabel
+    w = demo_window
+    w.resize(1366, 768)
+    qtbot.wait(10)
+    assert w.doc.channel().flow.method == "typed"
+    w.inputs._method_chosen(w.inputs.method.findData("rational"))        # the user picks the rational method
+    blanks = [field(w, s.path) for s in RATIONAL if not s.optional]
+    assert all(not f.edit.text() and not f.error and f.message.isHidden() for f in blanks)
+    texts = [lab.text() for lab in w.inputs.findChildren(QLabel) + w.results.findChildren(QLabel)
+             if lab.isVisible()]
+    assert not any("None" in t or "got" in t for t in texts), texts
+    c = field(w, "flow.runoff_coefficient")
+    type_into(qtbot, c, "x")
+    assert c.error.startswith("'x' is not a number") and c.message.isVisible()
+    c.edit.clear()
+    c._typed("")
+    assert c.error == "Runoff coefficient C is needed: enter a number > 0 and ≤ 1."
+    body = w.inputs.widget()                                               # nothing wider than its panel
+    assert body.minimumSizeHint().width() <= w.inputs.viewport().width()
+    for lab in w.inputs.findChildren(QLabel):
+        if lab.isVisible() and lab.text() and not lab.wordWrap():
+            assert lab.width() >= lab.minimumSizeHint().width(), lab.text()
