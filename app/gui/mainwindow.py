@@ -21,7 +21,7 @@ from .. import sheet as sh
 from . import compute, settings
 from .autosave import Autosaver, find_recoverable, save_failure_reason
 from .comparison import ComparisonView
-from .document import ProjectDocument
+from .document import ProjectDocument, new_project
 from .fields import pretty, sentence
 from .forms import SHAPES, InputPanel
 from .plots import EnergyPicture, RatingPicture, SectionPicture
@@ -414,7 +414,7 @@ class MainWindow(QMainWindow):
 
     def new_project(self) -> None:
         if self.maybe_save():
-            self.doc.load(pj.Project())
+            self.doc.load(new_project(self.doc.project.units))   # round starting values in the units in use
             self._after_file_change("New project.")
 
     def open_dialog(self) -> None:

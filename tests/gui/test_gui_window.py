@@ -15,6 +15,7 @@ from PySide6.QtWidgets import QMessageBox
 import hydraulics as hy
 from app import project as pj
 from app.gui import settings
+from app.gui.document import new_project
 from app.gui.forms import RATIONAL
 from app.gui.mainwindow import MainWindow
 
@@ -252,7 +253,7 @@ def test_unsaved_changes_are_guarded(demo_window, dialogs):
     assert w.doc.channel().slope == 0.02                          # cancelled: nothing dropped
     dialogs.answers["warning"] = [QMessageBox.StandardButton.Discard]
     w.new_action.trigger()
-    assert w.doc.project == pj.Project() and not w.isWindowModified()
+    assert w.doc.project == new_project("si") and not w.isWindowModified()   # the demo's units, round values
     assert dialogs.kinds() == ["warning", "warning"]
 
 
@@ -590,3 +591,18 @@ def test_rational_form_says_nothing_until_typed_then_in_words_and_fits(demo_wind
     for lab in w.inputs.findChildren(QLabel):
         if lab.isVisible() and lab.text() and not lab.wordWrap():
             assert lab.width() >= lab.minimumSizeHint().width(), lab.text()
+
+
+@pytest.mark.parametrize("units, flow, width, freeboard", [("us", "20", "2", "0.5"), ("si", "0.5", "0.6", "0.15")])
+def test_a_new_project_starts_with_round_values_of_its_unit_system(qtbot, units, flow, width, freeboard):
+    w = MainWindow(pj.Project(units=units), persistent=False)
+    qtbot.addWidget(w)
+    w.new_action.trigger()                                     # nothing to save: a new project at once
+    assert w.doc.project.units == units
+    assert field(w, "flow.value").edit.text() == flow          # not 17.657 ft³/s
+    assert field(w, "trapezoid:section.bottom_width").edit.text() == width
+    assert field(w, "min_freeboard").edit.text() == freeboard
+    w.doc.add_channel()                                        # a channel added later starts round too
+    assert field(w, "flow.value").edit.text() == flow
+    assert w.doc.channel().flow.value == pytest.approx(20 * 0.3048 ** 3 if units == "us" else 0.5, rel=1e-15)
+    w.doc.undo_stack.setClean()
