@@ -227,9 +227,11 @@ class ProjectDocument(QObject):
             self.undo_stack.push(cmd.EditSheetInfo(self, copy.deepcopy(info), text))
 
     def set_units(self, units: str) -> None:
+        """Show the project in ``units``. Not an edit of the design: no undo step, the project stays unmodified
+        (the file records the units it was saved in)."""
         if units != self.project.units:
             hy.units.system(units)
-            self.undo_stack.push(cmd.SetUnits(self, units))
+            self._set_units(units)
 
     def set_project_text(self, attribute: str, value: str, text: str) -> None:
         if getattr(self.project, attribute) != value:

@@ -165,9 +165,20 @@ def test_unit_switch_round_trips_fields_and_results(demo_window):
     w.si_action.trigger()
     assert {k: w.inputs.fields[k].edit.text() for k in keys} == before
     assert {k: v.text() for k, v in w.results.values.items()} == results_before
-    w.undo_action.trigger()
-    w.undo_action.trigger()
     assert pj.dumps(w.doc.project) == project_before
+
+
+def test_switching_units_is_no_undo_step_and_leaves_the_project_unmodified(demo_window):
+    w = demo_window
+    assert not w.isWindowModified() and not w.undo_action.isEnabled()
+    w.us_action.trigger()
+    assert w.doc.project.units == "us" and w.results.values["normal_depth"].text().endswith(" ft")
+    assert not w.doc.modified and not w.isWindowModified()          # how numbers are shown, not the design
+    assert w.doc.undo_stack.count() == 0 and not w.undo_action.isEnabled()
+    w.doc.edit("slope", 0.02, "Change bed slope")
+    w.si_action.trigger()
+    w.undo_action.trigger()                                            # undo takes back the edit, not the units
+    assert w.doc.project.units == "si" and w.doc.channel().slope != 0.02 and not w.doc.modified
 
 
 def test_values_typed_in_us_units_reach_the_core_in_si(demo_window, qtbot):
