@@ -203,20 +203,30 @@ class ComparisonView(QWidget):
         self.table.setVerticalHeaderLabels(labels)
 
     def _fill_choices(self, ch) -> None:
-        choices = compute.catalogue_choices()
-        if [k for k, _ in choices] != list(self.checks):
-            for box in self.checks.values():
-                box.deleteLater()
+        groups = compute.lining_groups(self.doc.units)
+        if groups != getattr(self, "_groups", None):
+            self._groups = groups
+            while self.choice_grid.count():
+                item = self.choice_grid.takeAt(0)
+                if item.widget() is not None:
+                    item.widget().deleteLater()
             self.checks.clear()
             metrics = QFontMetrics(self.font())
-            for i, (key, name) in enumerate(choices):
-                box = QCheckBox(metrics.elidedText(name, Qt.TextElideMode.ElideRight, CHOICE_WIDTH - 24))
-                box.setObjectName(f"compare_{key}")
-                box.setToolTip(name)
-                box.setMinimumWidth(CHOICE_WIDTH)
-                box.toggled.connect(lambda on, key=key, name=name: self._choice_toggled(key, name, on))
-                self.choice_grid.addWidget(box, i // CHOICE_COLUMNS, i % CHOICE_COLUMNS)
-                self.checks[key] = box
+            row = 0
+            for heading, items in groups:            # a heading per kind, its linings in rows beneath
+                head = QLabel(heading)
+                head.setObjectName("subheading")
+                self.choice_grid.addWidget(head, row, 0, 1, CHOICE_COLUMNS)
+                row += 1
+                for i, (key, name) in enumerate(items):
+                    box = QCheckBox(metrics.elidedText(name, Qt.TextElideMode.ElideRight, CHOICE_WIDTH - 24))
+                    box.setObjectName(f"compare_{key}")
+                    box.setToolTip(name)
+                    box.setMinimumWidth(CHOICE_WIDTH)
+                    box.toggled.connect(lambda on, key=key, name=name: self._choice_toggled(key, name, on))
+                    self.choice_grid.addWidget(box, row + i // CHOICE_COLUMNS, i % CHOICE_COLUMNS)
+                    self.checks[key] = box
+                row += (len(items) + CHOICE_COLUMNS - 1) // CHOICE_COLUMNS
         chosen = {a.key for a in ch.alternatives}
         own = ch.lining.key if ch.lining is not None else None
         for key, box in self.checks.items():

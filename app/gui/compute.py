@@ -11,6 +11,7 @@ from __future__ import annotations
 
 import copy
 import math
+import re
 from dataclasses import dataclass, field
 
 import numpy as np
@@ -23,6 +24,7 @@ from hydraulics.units import UnitSystem
 from ..files import spreadsheet_safe
 from ..evaluate import comparison_choices, design_flow, evaluate_channel, load_default_catalogue
 from ..project import Channel, LiningChoice
+from ..results import ResultField, format_value
 
 #: Core field names as the user reads them (for messages that name a field).
 FIELD_LABELS = {
@@ -117,6 +119,43 @@ def catalogue():
 def catalogue_choices() -> list[tuple[str, str]]:
     """(key, name) of every lining the user can choose, in catalogue order."""
     return [(lin.key, lin.name) for lin in catalogue()]
+
+
+#: The kinds of lining, in the order the window lists them, with their headings.
+LINING_KINDS = (("rigid", "Rigid"), ("stone", "Stone"), ("vegetation", "Grass"),
+                ("manufactured", "Blankets and mats"), ("soil", "Bare soil"))
+_STONE_SIZE = ResultField("d50", "D50", "small_length", 1)       # to a tenth, as in the results panel
+_GRASS_HEIGHT = ResultField("stem_height", "height", "small_length", 0)
+_HEIGHT_WORDS = re.compile(r"about [0-9.]+ ?mm tall")
+
+
+def lining_label(lin, units: UnitSystem) -> str:
+    """The name the window shows for a catalogue lining: grass heights and stone sizes in ``units``."""
+    name = lin.name
+    height = (lin.data.get("roughness") or {}).get("stem_height")
+    if height and _HEIGHT_WORDS.search(name):
+        name = _HEIGHT_WORDS.sub(f"about {format_value(height, _GRASS_HEIGHT, units)} tall", name)
+    if lin.category == "stone" and lin.d50:
+        name += f", D50 {format_value(lin.d50, _STONE_SIZE, units)}"
+    if lin.user_data and "user data" not in name:
+        name += " (your data)"
+    return name
+
+
+def lining_groups(units: UnitSystem) -> list[tuple[str, list[tuple[str, str]]]]:
+    """The catalogue as (kind heading, [(key, label)]) groups in :data:`LINING_KINDS` order, every label
+    different from the others (a repeated one names its key)."""
+    seen: dict[str, int] = {}
+    groups: dict[str, list] = {}
+    for lin in catalogue():
+        label = lining_label(lin, units)
+        if label.casefold() in seen:
+            label += f" [{lin.key}]"
+        seen[label.casefold()] = 1
+        groups.setdefault(lin.category, []).append((lin.key, label))
+    order = [k for k, _ in LINING_KINDS] + sorted(set(groups) - {k for k, _ in LINING_KINDS})
+    headings = dict(LINING_KINDS)
+    return [(headings.get(k, k.capitalize()), groups[k]) for k in order if k in groups]
 
 
 def lining_entry(key: str):

@@ -281,18 +281,23 @@ class LiningForm(QWidget):
         grid.addWidget(self.note, row + 1, 0, 1, 3)
         self._fill()
 
-    def _fill(self) -> None:
+    def _fill(self, units: UnitSystem | None = None) -> None:
+        """The catalogue under a heading per kind (headings cannot be chosen), named in ``units``."""
+        units = units or self.panel.doc.units
+        self._filled_for = units
         self.combo.clear()
         self.combo.addItem("None: Manning's n only", "")
-        by_category = {}
-        for lin in compute.catalogue():
-            by_category.setdefault(lin.category, []).append(lin)
-        for category, linings in by_category.items():
-            self.combo.insertSeparator(self.combo.count())
-            for lin in linings:
-                self.combo.addItem(lin.name + (" (your data)" if lin.user_data else ""), lin.key)
-                self.combo.setItemData(self.combo.count() - 1, f"{category}: {lin.key}", Qt.ItemDataRole.ToolTipRole)
-
+        model = self.combo.model()
+        for heading, items in compute.lining_groups(units):
+            self.combo.addItem(heading)
+            head = model.item(self.combo.count() - 1)
+            head.setEnabled(False)
+            font = head.font()
+            font.setBold(True)
+            head.setFont(font)
+            for key, label in items:
+                self.combo.addItem("    " + label, key)
+                self.combo.setItemData(self.combo.count() - 1, label, Qt.ItemDataRole.ToolTipRole)
     def _chosen(self, index: int) -> None:
         key = self.combo.itemData(index)
         ch = self.panel.doc.channel()
@@ -302,10 +307,12 @@ class LiningForm(QWidget):
             return
         if ch.lining is not None and ch.lining.key == key:
             return
-        self.panel.doc.edit("lining", LiningChoice(key), f"Line with {self.combo.itemText(index)}")
+        self.panel.doc.edit("lining", LiningChoice(key), f"Line with {self.combo.itemText(index).strip()}")
 
     def load(self, channel, units: UnitSystem, force: bool) -> None:
         self.set_message("")
+        if units is not self._filled_for:
+            self._fill(units)
         lining = channel.lining
         entry = None
         if lining is not None and lining.key in compute.catalogue():

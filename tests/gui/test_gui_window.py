@@ -10,11 +10,11 @@ import json
 import numpy as np
 import pytest
 from PySide6.QtCore import QPoint, Qt
-from PySide6.QtWidgets import QMessageBox
+from PySide6.QtWidgets import QLabel, QMessageBox
 
 import hydraulics as hy
 from app import project as pj
-from app.gui import settings
+from app.gui import compute, settings
 from app.gui.document import new_project
 from app.gui.forms import RATIONAL
 from app.gui.mainwindow import MainWindow
@@ -617,3 +617,69 @@ def test_a_new_project_starts_with_round_values_of_its_unit_system(qtbot, units,
     assert field(w, "flow.value").edit.text() == flow
     assert w.doc.channel().flow.value == pytest.approx(20 * 0.3048 ** 3 if units == "us" else 0.5, rel=1e-15)
     w.doc.undo_stack.setClean()
+
+
+def combo_entries(combo):
+    """(text, key, selectable) of each entry of a drop-down."""
+    model = combo.model()
+    return [(combo.itemText(i), combo.itemData(i), bool(model.item(i).isEnabled())) for i in range(combo.count())
+            if combo.itemText(i)]
+
+
+@pytest.mark.parametrize("units, grass, stone", [("us", "about 6 in tall", "D50 5.9 in"),
+                                                 ("si", "about 150 mm tall", "D50 150.0 mm")])
+def test_lining_list_is_grouped_by_kind_with_sizes_in_the_project_units(demo_window, qtbot, units, grass, stone):
+    w = demo_window
+    w.doc.set_units(units)
+    entries = combo_entries(w.inputs.lining.combo)
+    headings = [t for t, key, selectable in entries if not selectable]
+    assert headings == ["Rigid", "Stone", "Grass", "Blankets and mats", "Bare soil"]
+    kinds = {}
+    current = None
+    for text, key, selectable in entries:                     # every lining sits under the heading of its kind
+        if not selectable:
+            current = text
+        elif key:
+            kinds.setdefault(current, set()).add(compute.lining_entry(key).category)
+    assert all(len(v) == 1 for v in kinds.values())
+    names = [t.strip() for t, key, sel in entries if sel and key]
+    assert len(names) == len({n.casefold() for n in names})    # no two alike
+    sod = next(t for t, key, _ in entries if key == "grass_good_sod")
+    riprap = next(t for t, key, _ in entries if key == "riprap")
+    assert grass in sod and stone in riprap                    # stem height 0.15 m, catalogue D50 0.15 m
+    assert ("mm" in sod) == (units == "si")
+    w.tabs.setCurrentIndex(3)
+    qtbot.wait(10)                                             # new widgets of a shown layout show when idle
+    heads = [lab.text() for lab in w.comparison.choices.findChildren(QLabel) if lab.isVisible()]
+    assert heads == ["Rigid", "Stone", "Grass", "Blankets and mats", "Bare soil"]
+    assert grass in w.comparison.checks["grass_good_sod"].toolTip()
+
+
+def test_a_user_lining_named_like_a_shipped_one_is_told_apart(tmp_path):
+    user = tmp_path / "mine.toml"      # an invented user entry that repeats a shipped name
+    user.write_text('''schema_version = 1
+
+[[lining]]
+key = "my_asphalt"
+name = "Asphalt, rough"
+category = "rigid"
+unit_cost_basis = "area"
+[lining.roughness]
+model = "constant"
+n = 0.017
+source = "Invented for this test"
+[lining.permissible]
+method = "none"
+source = "Invented for this test"
+[lining.thickness]
+rule = "fixed"
+value = 0.05
+source = "Invented for this test"
+''', encoding="utf-8")
+    assert compute.use_user_catalogue(user) == ""
+    try:
+        labels = [label for _, items in compute.lining_groups(hy.units.system("si")) for _, label in items]
+        assert len(labels) == len({x.casefold() for x in labels})
+        assert "Asphalt, rough" in labels and "Asphalt, rough [my_asphalt]" in labels
+    finally:
+        compute.use_user_catalogue(None)
