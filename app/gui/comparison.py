@@ -22,14 +22,14 @@ from PySide6.QtWidgets import (QAbstractItemView, QCheckBox, QGridLayout, QHBoxL
 from ..project import LiningChoice
 from . import compute
 from .document import ProjectDocument
-from .fields import pretty
+from .fields import keep_units_whole, pretty
 from .plots import SectionPicture
 
 
 def wrap(text: str, width: int = 18) -> str:
     """Break a lining name into short lines for a column heading."""
     lines, line = [], ""
-    for word in text.replace(",", ", ").split():
+    for word in (w for w in text.replace(",", ", ").split(" ") if w):   # a no-break space holds its words
         if line and len(line) + 1 + len(word) > width:
             lines.append(line)
             line = word
@@ -70,7 +70,7 @@ class ComparisonView(QWidget):
         self.choice_grid.setHorizontalSpacing(12)
         self.choice_grid.setVerticalSpacing(2)
         self.checks: dict[str, QCheckBox] = {}
-        choice_scroll = QScrollArea()
+        choice_scroll = self.choice_scroll = QScrollArea()
         choice_scroll.setWidgetResizable(True)
         choice_scroll.setWidget(self.choices)
         choice_scroll.setHorizontalScrollBarPolicy(Qt.ScrollBarPolicy.ScrollBarAlwaysOff)
@@ -143,7 +143,7 @@ class ComparisonView(QWidget):
         heads, body = compute.comparison_table(self.rows, units)
         self._set_columns(len(body))
         self.table.setRowCount(len(heads))          # row 0: the small section; then the quantities
-        self.table.setHorizontalHeaderLabels([wrap(cells[0]) for cells in body])
+        self.table.setHorizontalHeaderLabels([wrap(keep_units_whole(cells[0])) for cells in body])
         self._headings = ["Section"] + [pretty(h) for h in heads[1:]]
         self.table.setVerticalHeaderLabels(self._headings)
         self.table.setRowHeight(0, PICTURE_HEIGHT)
@@ -202,31 +202,45 @@ class ComparisonView(QWidget):
         labels[row] += " ▼" if descending else " ▲"
         self.table.setVerticalHeaderLabels(labels)
 
+    def _columns(self) -> int:
+        """Columns of ticks that fit the width shown (at most CHOICE_COLUMNS)."""
+        room = self.choice_scroll.viewport().width() - 8
+        return max(1, min(CHOICE_COLUMNS, (room + 12) // (CHOICE_WIDTH + 12)))
+
+    def resizeEvent(self, event):
+        super().resizeEvent(event)
+        if self.checks and self._columns() != getattr(self, "_filled_columns", None):
+            self._groups = None
+            self._fill_choices(self.doc.channel())
+
     def _fill_choices(self, ch) -> None:
         groups = compute.lining_groups(self.doc.units)
-        if groups != getattr(self, "_groups", None):
-            self._groups = groups
+        columns = self._columns()
+        if groups != getattr(self, "_groups", None) or columns != getattr(self, "_filled_columns", None):
+            self._groups, self._filled_columns = groups, columns
             while self.choice_grid.count():
                 item = self.choice_grid.takeAt(0)
                 if item.widget() is not None:
                     item.widget().deleteLater()
             self.checks.clear()
             metrics = QFontMetrics(self.font())
+            room = self.choice_scroll.viewport().width() - 8 - 12 * (columns - 1)
+            text_width = max(CHOICE_WIDTH, room // columns) - 28     # what a tick's text may take; the rest elides
             row = 0
             for heading, items in groups:            # a heading per kind, its linings in rows beneath
                 head = QLabel(heading)
                 head.setObjectName("subheading")
-                self.choice_grid.addWidget(head, row, 0, 1, CHOICE_COLUMNS)
+                self.choice_grid.addWidget(head, row, 0, 1, columns)
                 row += 1
                 for i, (key, name) in enumerate(items):
-                    box = QCheckBox(metrics.elidedText(name, Qt.TextElideMode.ElideRight, CHOICE_WIDTH - 24))
+                    box = QCheckBox(metrics.elidedText(name, Qt.TextElideMode.ElideRight, text_width))
                     box.setObjectName(f"compare_{key}")
                     box.setToolTip(name)
                     box.setMinimumWidth(CHOICE_WIDTH)
                     box.toggled.connect(lambda on, key=key, name=name: self._choice_toggled(key, name, on))
-                    self.choice_grid.addWidget(box, row + i // CHOICE_COLUMNS, i % CHOICE_COLUMNS)
+                    self.choice_grid.addWidget(box, row + i // columns, i % columns)
                     self.checks[key] = box
-                row += (len(items) + CHOICE_COLUMNS - 1) // CHOICE_COLUMNS
+                row += (len(items) + columns - 1) // columns
         chosen = {a.key for a in ch.alternatives}
         own = ch.lining.key if ch.lining is not None else None
         for key, box in self.checks.items():

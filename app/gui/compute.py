@@ -129,26 +129,41 @@ _GRASS_HEIGHT = ResultField("stem_height", "height", "small_length", 0)
 _HEIGHT_WORDS = re.compile(r"about [0-9.]+ ?mm tall")
 
 
-def lining_label(lin, units: UnitSystem) -> str:
-    """The name the window shows for a catalogue lining: grass heights and stone sizes in ``units``."""
-    name = lin.name
+def lining_label(lin, units: UnitSystem, d50: float | None = None, size: bool = True, name: str | None = None) -> str:
+    """The name the window shows for a catalogue lining: grass heights and stone sizes in ``units``
+    (``d50`` [m] for a stone size other than the catalogue's; ``size`` False leaves the stone size out, for a
+    list with its own stone-size field; ``name`` instead of the catalogue's)."""
+    name = lin.name if name is None else name
     height = (lin.data.get("roughness") or {}).get("stem_height")
     if height and _HEIGHT_WORDS.search(name):
         name = _HEIGHT_WORDS.sub(f"about {format_value(height, _GRASS_HEIGHT, units)} tall", name)
-    if lin.category == "stone" and lin.d50:
-        name += f", D50 {format_value(lin.d50, _STONE_SIZE, units)}"
+    if size and lin.category == "stone" and (d50 or lin.d50):
+        name += f", D50 {stone_size_text(d50 or lin.d50, units)}"
     if lin.user_data and "user data" not in name:
         name += " (your data)"
     return name
 
 
-def lining_groups(units: UnitSystem) -> list[tuple[str, list[tuple[str, str]]]]:
+def stone_size_text(d50: float, units: UnitSystem) -> str:
+    """A stone size in ``units`` by the results panel's rule (to a tenth of a mm or an inch), with its unit."""
+    return format_value(d50, _STONE_SIZE, units)
+
+
+def comparison_label(row, units: UnitSystem) -> str:
+    """A compared lining's name: as in the lining list, with the stone size the row was computed with."""
+    entry = lining_entry(row.choice.key)
+    if entry is None:
+        return row.name
+    return lining_label(entry, units, d50=row.choice.d50, name=row.name)
+
+
+def lining_groups(units: UnitSystem, sizes: bool = True) -> list[tuple[str, list[tuple[str, str]]]]:
     """The catalogue as (kind heading, [(key, label)]) groups in :data:`LINING_KINDS` order, every label
     different from the others (a repeated one names its key)."""
     seen: dict[str, int] = {}
     groups: dict[str, list] = {}
     for lin in catalogue():
-        label = lining_label(lin, units)
+        label = lining_label(lin, units, size=sizes)
         if label.casefold() in seen:
             label += f" [{lin.key}]"
         seen[label.casefold()] = 1
@@ -280,8 +295,8 @@ def comparison_table(rows, units: UnitSystem) -> tuple[list[str], list[list[str]
         cells = []
         for head, q, get in COMPARISON_COLUMNS:
             v = get(r)
-            if head == "Lining" and r.choice.d50:
-                v += f", D50 {units.from_si('small_length', r.choice.d50):.0f} {units.label('small_length')}"
+            if head == "Lining":
+                v = comparison_label(r, units)
             if head == "Permissible shear" and v is None and r.core is not None and r.core.verdict == "non-erodible":
                 v = "non-erodible"
             if v is None:

@@ -36,6 +36,32 @@ def pretty(text: str) -> str:
     return "".join(out)
 
 
+_JOIN = "\u2060"      # word joiner: no line break here
+_NBSP = "\u00a0"
+
+
+def _unit_pattern():
+    from hydraulics.units import US, SI
+    labels = {pretty(u.label(q)) for u in (US, SI) for q in u.units if u.label(q)} | {"in", "mm", "min", "%"}
+    alternatives = "|".join(re.escape(x) for x in sorted(labels, key=len, reverse=True))
+    return re.compile(rf"(?<=\d) (?=(?:{alternatives})(?![\w/]))")
+
+
+def keep_units_whole(text: str) -> str:
+    """``text`` for a label that wraps: a unit stays on the line of its number and is never split at its
+    slash ("2.37 lb/ft²" does not become "2.37 lb/" and "ft²")."""
+    global _UNIT_SPACE
+    if _UNIT_SPACE is None:
+        _UNIT_SPACE = _unit_pattern()
+    text = _SIZE_NAME.sub(r"\1" + _NBSP, _UNIT_SPACE.sub(_NBSP, text))
+    return _SLASH_IN_UNIT.sub(_JOIN + "/" + _JOIN, text)
+
+
+_UNIT_SPACE = None
+_SLASH_IN_UNIT = re.compile(r"(?<=[A-Za-z²³$])/(?=[A-Za-z])")
+_SIZE_NAME = re.compile(r"\b(D(?:50|75|100)) (?=\d)")     # "D50 150 mm" stays together
+
+
 def sentence(text) -> str:
     """``text`` ending in a full stop (unless it ends in one already, or in ! or ?)."""
     text = str(text).strip()

@@ -20,8 +20,8 @@ from hydraulics.units import UnitSystem
 from ..project import LiningChoice
 from . import compute
 from .document import ProjectDocument, section_for_shape, value_at, with_value
-from .fields import (FieldSpec, LineEdit, NotesEdit, NumberField, UnclearNumber, format_number, parse_number, pretty,
-                     set_invalid)
+from .fields import (FieldSpec, LineEdit, NotesEdit, NumberField, UnclearNumber, format_number, keep_units_whole,
+                     parse_number, pretty, set_invalid)
 
 SHAPES = (
     ("trapezoid", "Trapezoid"),
@@ -288,7 +288,7 @@ class LiningForm(QWidget):
         self.combo.clear()
         self.combo.addItem("None: Manning's n only", "")
         model = self.combo.model()
-        for heading, items in compute.lining_groups(units):
+        for heading, items in compute.lining_groups(units, sizes=False):   # the stone size has its own field
             self.combo.addItem(heading)
             head = model.item(self.combo.count() - 1)
             head.setEnabled(False)
@@ -296,7 +296,7 @@ class LiningForm(QWidget):
             font.setBold(True)
             head.setFont(font)
             for key, label in items:
-                self.combo.addItem("    " + label, key)
+                self.combo.addItem(label, key)
                 self.combo.setItemData(self.combo.count() - 1, label, Qt.ItemDataRole.ToolTipRole)
     def _chosen(self, index: int) -> None:
         key = self.combo.itemData(index)
@@ -328,7 +328,7 @@ class LiningForm(QWidget):
             self.d50.show_value(lining.d50, units, force)
             default = entry.d50
             self.d50.edit.setPlaceholderText(
-                f"catalogue: {units.from_si('small_length', default):.0f}" if default else "needed")
+                f"catalogue: {pretty(compute.stone_size_text(default, units))}" if default else "needed")
         surveyed = channel.section.get("shape") == "irregular"
         plain = lining is None
         self.n.set_visible(plain and not (surveyed and channel.manning_n is None))
@@ -583,12 +583,12 @@ class InputPanel(QScrollArea):
         """The computed lines of the form, and a mark on the field the core's error names."""
         units = self.doc.units
         if ev.time_of_concentration is not None:
-            self.tc_value.setText(f"{ev.time_of_concentration / 60:.1f} min (Kirpich)")
+            self.tc_value.setText(keep_units_whole(f"{ev.time_of_concentration / 60:.1f} min (Kirpich)"))
         else:
             self.tc_value.setText("needs the flow-path length and slope")
         if ev.flow is not None:
-            self.q_value.setText(f"{format_number(round(units.from_si('flow', ev.flow), 4))} "
-                                 f"{pretty(units.label('flow'))}")
+            self.q_value.setText(keep_units_whole(f"{format_number(round(units.from_si('flow', ev.flow), 4))} "
+                                                  f"{pretty(units.label('flow'))}"))
         else:
             self.q_value.setText("—")
         self.lining.show_evaluation(ev)

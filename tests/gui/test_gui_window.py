@@ -196,7 +196,7 @@ def test_rational_method_flow_is_shown(demo_window, qtbot):
     fb = w.doc.channel().flow
     assert fb.method == "rational"
     q = hy.rational.rational_flow(fb.runoff_coefficient, fb.intensity, fb.area)
-    assert w.inputs.q_value.text() == f"{round(q, 4):g} m³/s"
+    assert w.inputs.q_value.text() == f"{round(q, 4):g}\u00a0m³\u2060/\u2060s"     # kept on one line
     assert "Kirpich" in w.inputs.tc_value.text()
     type_into(qtbot, field(w, "flow.runoff_coefficient"), "1.2")
     assert "≤ 1" in field(w, "flow.runoff_coefficient").error
@@ -558,7 +558,7 @@ def test_comparison_applies_the_picked_lining_after_the_columns_are_reordered(de
     assert w.doc.channel().lining.key == picked.choice.key
     assert messages and picked.name in messages[-1]                        # and says so, by its own name
     assert view.rows[view.selected()].choice.key == picked.choice.key       # still picked after the refresh
-    assert view.copy_table().splitlines()[1].startswith(picked.name)      # the copy keeps the order shown
+    assert view.copy_table().splitlines()[1].startswith(compute.comparison_label(picked, w.doc.units))  # order shown
 
 
 @pytest.mark.parametrize("units, ratio_unit", [("us", "ft/ft"), ("si", "m/m")])
@@ -646,13 +646,16 @@ def test_lining_list_is_grouped_by_kind_with_sizes_in_the_project_units(demo_win
     assert len(names) == len({n.casefold() for n in names})    # no two alike
     sod = next(t for t, key, _ in entries if key == "grass_good_sod")
     riprap = next(t for t, key, _ in entries if key == "riprap")
-    assert grass in sod and stone in riprap                    # stem height 0.15 m, catalogue D50 0.15 m
+    assert grass in sod and "D50" not in riprap                # stem height 0.15 m; the D50 has its own field
+    w.doc.set_current(outfall_index(w))                        # a riprap lining: the catalogue size, as a hint
+    assert field(w, "lining.d50").edit.placeholderText() == "catalogue: " + stone.removeprefix("D50 ")
     assert ("mm" in sod) == (units == "si")
     w.tabs.setCurrentIndex(3)
     qtbot.wait(10)                                             # new widgets of a shown layout show when idle
     heads = [lab.text() for lab in w.comparison.choices.findChildren(QLabel) if lab.isVisible()]
     assert heads == ["Rigid", "Stone", "Grass", "Blankets and mats", "Bare soil"]
     assert grass in w.comparison.checks["grass_good_sod"].toolTip()
+    assert w.comparison.checks["riprap"].toolTip() == f"Rock riprap, {stone}"    # catalogue D50 0.15 m
 
 
 def test_a_user_lining_named_like_a_shipped_one_is_told_apart(tmp_path):
