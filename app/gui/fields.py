@@ -353,7 +353,8 @@ class NumberField(QObject):
         self._error, self.offered = text, offer
         shown = html.escape(text)
         if offer is not None:
-            shown += f' <a href="use">Use {html.escape(format_number(offer))}</a>'
+            percent = f" ({format_number(offer * 100)} %)" if self.spec.quantity == "slope" else ""
+            shown += f' <a href="use">Use {html.escape(format_number(offer) + percent)}</a>'
         self.message.setText(shown)
         self.message.setVisible(not self.edit.isHidden())
         set_invalid(self.edit, True)
