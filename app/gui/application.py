@@ -54,7 +54,8 @@ def _no_display() -> str:
 
 
 def run(path=None) -> int:
-    """Open the window: on ``path``, else (first start) the demo project, else a new project."""
+    """Open the window on ``path``; else, after the offer to recover unsaved work (if any is left), on the last
+    project opened or saved; else (first start) on the demo project; else on a new project."""
     global last_window
     why = _no_display()
     if why:
@@ -69,7 +70,11 @@ def run(path=None) -> int:
         window.show()
         if path is not None:
             window.open_file(path, ask=False)
-        elif not window.offer_recovery() and not settings.DEMO_SHOWN.read():
+        elif window.offer_recovery():
+            pass
+        elif last_project():
+            window.open_file(last_project(), ask=False)
+        elif not settings.DEMO_SHOWN.read():
             window.doc.load(pj.loads(pj.demo_path().read_text(encoding="utf-8")), None)
             window.statusBar().showMessage("This is the demo project of an invented site. Start your own "
                                            "with File > New project.", 15000)
@@ -78,6 +83,13 @@ def run(path=None) -> int:
         _show_start_error(exc)
         return 1
     return app.exec()
+
+
+def last_project() -> str:
+    """The project file opened or saved last, if it is still there ("" otherwise)."""
+    from . import settings
+    files = settings.RECENT_FILES.read()
+    return files[0] if files and Path(files[0]).is_file() else ""
 
 
 def build_window_for(path=None):

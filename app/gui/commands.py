@@ -82,20 +82,6 @@ class RemoveChannel(QUndoCommand):
         self.doc._insert_channel(self.index, self.channel)
 
 
-class SetUnits(QUndoCommand):
-    """Switch the project's unit system (only how values are shown; the file stays SI)."""
-
-    def __init__(self, doc, units: str):
-        super().__init__(f"Show {'US customary' if units == 'us' else 'SI'} units")
-        self.doc, self.new, self.old = doc, units, doc.project.units
-
-    def redo(self):
-        self.doc._set_units(self.new)
-
-    def undo(self):
-        self.doc._set_units(self.old)
-
-
 class EditProject(QUndoCommand):
     """Change a project-level text (name or notes)."""
 

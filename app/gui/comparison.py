@@ -1,9 +1,13 @@
 """The lining comparison: several linings for the current channel side by side.
 
 A list to choose the linings (stored with the channel as its alternatives), a
-table with one row per lining, a small section for each, and two actions:
-apply the chosen row's lining to the channel (one undoable edit) and copy the
+table with one column per lining, a small section for each, and two actions:
+apply the chosen column's lining to the channel (one undoable edit) and copy the
 table as tab-separated text.
+
+Clicking a quantity's heading orders the linings by it (again: the other way);
+the columns can also be dragged. Only the order shown changes: a column keeps
+its lining, so what is applied is always the lining the user picked.
 """
 
 from __future__ import annotations
@@ -18,14 +22,14 @@ from PySide6.QtWidgets import (QAbstractItemView, QCheckBox, QGridLayout, QHBoxL
 from ..project import LiningChoice
 from . import compute
 from .document import ProjectDocument
-from .fields import pretty
+from .fields import keep_units_whole, pretty
 from .plots import SectionPicture
 
 
 def wrap(text: str, width: int = 18) -> str:
     """Break a lining name into short lines for a column heading."""
     lines, line = [], ""
-    for word in text.replace(",", ", ").split():
+    for word in (w for w in text.replace(",", ", ").split(" ") if w):   # a no-break space holds its words
         if line and len(line) + 1 + len(word) > width:
             lines.append(line)
             line = word
@@ -66,7 +70,7 @@ class ComparisonView(QWidget):
         self.choice_grid.setHorizontalSpacing(12)
         self.choice_grid.setVerticalSpacing(2)
         self.checks: dict[str, QCheckBox] = {}
-        choice_scroll = QScrollArea()
+        choice_scroll = self.choice_scroll = QScrollArea()
         choice_scroll.setWidgetResizable(True)
         choice_scroll.setWidget(self.choices)
         choice_scroll.setHorizontalScrollBarPolicy(Qt.ScrollBarPolicy.ScrollBarAlwaysOff)
@@ -82,6 +86,10 @@ class ComparisonView(QWidget):
         self.table.verticalHeader().setSectionResizeMode(QHeaderView.ResizeMode.ResizeToContents)
         self.table.setWordWrap(True)
         self.table.itemSelectionChanged.connect(self._selection_changed)
+        self.table.horizontalHeader().setSectionsMovable(True)
+        self.table.verticalHeader().setSectionsClickable(True)
+        self.table.verticalHeader().sectionClicked.connect(self.sort_by)
+        self._sort: tuple[int, bool] | None = None     # (quantity row, descending)
 
         self.apply_button = QPushButton("Apply chosen lining to the channel")
         self.apply_button.setObjectName("applyLining")
@@ -135,8 +143,9 @@ class ComparisonView(QWidget):
         heads, body = compute.comparison_table(self.rows, units)
         self._set_columns(len(body))
         self.table.setRowCount(len(heads))          # row 0: the small section; then the quantities
-        self.table.setHorizontalHeaderLabels([wrap(cells[0]) for cells in body])
-        self.table.setVerticalHeaderLabels(["Section"] + [pretty(h) for h in heads[1:]])
+        self.table.setHorizontalHeaderLabels([wrap(keep_units_whole(cells[0])) for cells in body])
+        self._headings = ["Section"] + [pretty(h) for h in heads[1:]]
+        self.table.setVerticalHeaderLabels(self._headings)
         self.table.setRowHeight(0, PICTURE_HEIGHT)
         for j, (row, cells) in enumerate(zip(self.rows, body)):
             self.table.horizontalHeaderItem(j).setToolTip(cells[0])
@@ -150,30 +159,88 @@ class ComparisonView(QWidget):
                     item.setToolTip(pretty(row.evaluation.verdict.reason))
                 self.table.setItem(i, j, item)
         self._fill_pictures()
+        self._show_order()
         has_rows = bool(self.rows)
         self.copy_button.setEnabled(has_rows)
         self.apply_button.setEnabled(has_rows and self.selected() >= 0)
 
     def selected(self) -> int:
-        """The column (lining) picked, or -1."""
+        """The lining picked: its index in ``rows`` (the table's logical column, whatever the order shown), or -1."""
         cols = {i.column() for i in self.table.selectedIndexes()}
         return cols.pop() if len(cols) == 1 else -1
 
+    def shown_order(self) -> list[int]:
+        """Indices into ``rows`` from left to right as the table shows them."""
+        header = self.table.horizontalHeader()
+        return [header.logicalIndex(v) for v in range(len(self.rows))]
+
+    def sort_by(self, row: int) -> None:
+        """Order the linings by the quantity of table row ``row``; the same row again reverses the order."""
+        if not 1 <= row < len(compute.COMPARISON_COLUMNS):
+            return
+        descending = self._sort == (row, False)
+        self._sort = (row, descending)
+        self._show_order()
+
+    def _show_order(self) -> None:
+        header = self.table.horizontalHeader()
+        labels = list(getattr(self, "_headings", []))
+        if self._sort is None or not self.rows or not labels:
+            return
+        row, descending = self._sort
+        get = compute.COMPARISON_COLUMNS[row][2]
+
+        values = [get(r) for r in self.rows]
+        present = [j for j, v in enumerate(values) if v is not None]
+
+        def key(j):
+            v = values[j]
+            return (1, 0.0, str(v).lower()) if isinstance(v, str) else (0, float(v), "")
+        order = sorted(present, key=key, reverse=descending) + [j for j, v in enumerate(values) if v is None]
+        for visual, j in enumerate(order):
+            header.moveSection(header.visualIndex(j), visual)
+        labels[row] += " ▼" if descending else " ▲"
+        self.table.setVerticalHeaderLabels(labels)
+
+    def _columns(self) -> int:
+        """Columns of ticks that fit the width shown (at most CHOICE_COLUMNS)."""
+        room = self.choice_scroll.viewport().width() - 8
+        return max(1, min(CHOICE_COLUMNS, (room + 12) // (CHOICE_WIDTH + 12)))
+
+    def resizeEvent(self, event):
+        super().resizeEvent(event)
+        if self.checks and self._columns() != getattr(self, "_filled_columns", None):
+            self._groups = None
+            self._fill_choices(self.doc.channel())
+
     def _fill_choices(self, ch) -> None:
-        choices = compute.catalogue_choices()
-        if [k for k, _ in choices] != list(self.checks):
-            for box in self.checks.values():
-                box.deleteLater()
+        groups = compute.lining_groups(self.doc.units)
+        columns = self._columns()
+        if groups != getattr(self, "_groups", None) or columns != getattr(self, "_filled_columns", None):
+            self._groups, self._filled_columns = groups, columns
+            while self.choice_grid.count():
+                item = self.choice_grid.takeAt(0)
+                if item.widget() is not None:
+                    item.widget().deleteLater()
             self.checks.clear()
             metrics = QFontMetrics(self.font())
-            for i, (key, name) in enumerate(choices):
-                box = QCheckBox(metrics.elidedText(name, Qt.TextElideMode.ElideRight, CHOICE_WIDTH - 24))
-                box.setObjectName(f"compare_{key}")
-                box.setToolTip(name)
-                box.setMinimumWidth(CHOICE_WIDTH)
-                box.toggled.connect(lambda on, key=key, name=name: self._choice_toggled(key, name, on))
-                self.choice_grid.addWidget(box, i // CHOICE_COLUMNS, i % CHOICE_COLUMNS)
-                self.checks[key] = box
+            room = self.choice_scroll.viewport().width() - 8 - 12 * (columns - 1)
+            text_width = max(CHOICE_WIDTH, room // columns) - 28     # what a tick's text may take; the rest elides
+            row = 0
+            for heading, items in groups:            # a heading per kind, its linings in rows beneath
+                head = QLabel(heading)
+                head.setObjectName("subheading")
+                self.choice_grid.addWidget(head, row, 0, 1, columns)
+                row += 1
+                for i, (key, name) in enumerate(items):
+                    box = QCheckBox(metrics.elidedText(name, Qt.TextElideMode.ElideRight, text_width))
+                    box.setObjectName(f"compare_{key}")
+                    box.setToolTip(name)
+                    box.setMinimumWidth(CHOICE_WIDTH)
+                    box.toggled.connect(lambda on, key=key, name=name: self._choice_toggled(key, name, on))
+                    self.choice_grid.addWidget(box, row + i // columns, i % columns)
+                    self.checks[key] = box
+                row += (len(items) + columns - 1) // columns
         chosen = {a.key for a in ch.alternatives}
         own = ch.lining.key if ch.lining is not None else None
         for key, box in self.checks.items():
@@ -224,20 +291,28 @@ class ComparisonView(QWidget):
         self.table.selectColumn(index)
 
     def apply_selected(self) -> None:
-        row = self.selected()
-        if not 0 <= row < len(self.rows):
+        index = self.selected()
+        if not 0 <= index < len(self.rows):
             self.status_message.emit("Pick a lining (a column of the table) first.")
             return
-        choice = self.rows[row].choice
+        picked = self.rows[index]     # held: the edit below refreshes the table, which may reorder ``rows``
         ch = self.doc.channel()
-        new = compute.with_lining(ch, choice)
+        new = compute.with_lining(ch, picked.choice)
         if ch.lining is not None and all((a.key, a.d50) != (ch.lining.key, ch.lining.d50) for a in ch.alternatives):
             new.alternatives.insert(0, copy.deepcopy(ch.lining))   # the lining it had stays in the comparison
-        self.doc.replace(new, f"Apply lining {self.rows[row].name}")
-        self.status_message.emit(f"Lining '{self.rows[row].name}' applied to {self.doc.channel().name}.")
+        self.doc.replace(new, f"Apply lining {picked.name}")
+        self.status_message.emit(f"Lining '{picked.name}' applied to {self.doc.channel().name}.")
+        self._select_choice(picked.choice)
+
+    def _select_choice(self, choice) -> None:
+        """Keep the applied lining's column selected after the table was refilled."""
+        for j, r in enumerate(self.rows):
+            if (r.choice.key, r.choice.d50) == (choice.key, choice.d50):
+                self.table.selectColumn(j)
+                return
 
     def copy_table(self) -> str:
-        text = compute.comparison_tsv(self.rows, self.doc.units)
+        text = compute.comparison_tsv([self.rows[j] for j in self.shown_order()], self.doc.units)
         QGuiApplication.clipboard().setText(text)
         self.status_message.emit(f"Comparison table copied ({len(self.rows)} rows, tab-separated).")
         return text

@@ -11,6 +11,7 @@ from __future__ import annotations
 
 import copy
 import math
+import re
 from dataclasses import dataclass, field
 
 import numpy as np
@@ -25,6 +26,7 @@ from hydraulics.wording import in_units
 from ..files import spreadsheet_safe
 from ..evaluate import comparison_choices, design_flow, evaluate_channel, load_default_catalogue
 from ..project import Channel, LiningChoice
+from ..results import ResultField, format_value
 from ..verdicts import Verdict as Verdicts
 from ..verdicts import too_shallow_reason, verdict_of
 
@@ -83,6 +85,8 @@ def describe_error(exc: Exception) -> tuple[str, str | None]:
         if name.startswith("lining "):
             label = "Lining " + name[len("lining "):]
         text = str(exc).split(": ", 1)[-1]
+        if text.startswith("must be a number, got None"):   # an input left empty: say so in words
+            return f"{label} is not given yet", name
         return f"{label} {text}", name
     if isinstance(exc, hy.NoSolutionError):
         return f"No solution: {exc}", None
@@ -121,6 +125,58 @@ def catalogue():
 def catalogue_choices() -> list[tuple[str, str]]:
     """(key, name) of every lining the user can choose, in catalogue order."""
     return [(lin.key, lin.name) for lin in catalogue()]
+
+
+#: The kinds of lining, in the order the window lists them, with their headings.
+LINING_KINDS = (("rigid", "Rigid"), ("stone", "Stone"), ("vegetation", "Grass"),
+                ("manufactured", "Blankets and mats"), ("soil", "Bare soil"))
+_STONE_SIZE = ResultField("d50", "D50", "small_length", 1)       # to a tenth, as in the results panel
+_GRASS_HEIGHT = ResultField("stem_height", "height", "small_length", 0)
+_HEIGHT_WORDS = re.compile(r"about [0-9.]+ ?mm tall")
+
+
+def lining_label(lin, units: UnitSystem, d50: float | None = None, size: bool = True, name: str | None = None) -> str:
+    """The name the window shows for a catalogue lining: grass heights and stone sizes in ``units``
+    (``d50`` [m] for a stone size other than the catalogue's; ``size`` False leaves the stone size out, for a
+    list with its own stone-size field; ``name`` instead of the catalogue's)."""
+    name = lin.name if name is None else name
+    height = (lin.data.get("roughness") or {}).get("stem_height")
+    if height and _HEIGHT_WORDS.search(name):
+        name = _HEIGHT_WORDS.sub(f"about {format_value(height, _GRASS_HEIGHT, units)} tall", name)
+    if size and lin.category == "stone" and (d50 or lin.d50):
+        name += f", D50 {stone_size_text(d50 or lin.d50, units)}"
+    if lin.user_data and "user data" not in name:
+        name += " (your data)"
+    return name
+
+
+def stone_size_text(d50: float, units: UnitSystem) -> str:
+    """A stone size in ``units`` by the results panel's rule (to a tenth of a mm or an inch), with its unit."""
+    return format_value(d50, _STONE_SIZE, units)
+
+
+def comparison_label(row, units: UnitSystem) -> str:
+    """A compared lining's name: as in the lining list, with the stone size the row was computed with."""
+    entry = lining_entry(row.choice.key)
+    if entry is None:
+        return row.name
+    return lining_label(entry, units, d50=row.choice.d50, name=row.name)
+
+
+def lining_groups(units: UnitSystem, sizes: bool = True) -> list[tuple[str, list[tuple[str, str]]]]:
+    """The catalogue as (kind heading, [(key, label)]) groups in :data:`LINING_KINDS` order, every label
+    different from the others (a repeated one names its key)."""
+    seen: dict[str, int] = {}
+    groups: dict[str, list] = {}
+    for lin in catalogue():
+        label = lining_label(lin, units, size=sizes)
+        if label.casefold() in seen:
+            label += f" [{lin.key}]"
+        seen[label.casefold()] = 1
+        groups.setdefault(lin.category, []).append((lin.key, label))
+    order = [k for k, _ in LINING_KINDS] + sorted(set(groups) - {k for k, _ in LINING_KINDS})
+    headings = dict(LINING_KINDS)
+    return [(headings.get(k, k.capitalize()), groups[k]) for k in order if k in groups]
 
 
 def lining_entry(key: str):
@@ -238,8 +294,8 @@ def comparison_table(rows, units: UnitSystem) -> tuple[list[str], list[list[str]
         cells = []
         for head, q, get in COMPARISON_COLUMNS:
             v = get(r)
-            if head == "Lining" and r.choice.d50:
-                v += f", D50 {units.from_si('small_length', r.choice.d50):.0f} {units.label('small_length')}"
+            if head == "Lining":
+                v = comparison_label(r, units)
             if head == "Permissible shear" and v is None and r.core is not None and r.core.verdict == "non-erodible":
                 v = "non-erodible"
             if v is None:

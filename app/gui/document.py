@@ -172,7 +172,7 @@ class ProjectDocument(QObject):
         self.undo_stack.push(cmd.EditChannel(self, i, new, text, merge_key))
 
     def add_channel(self) -> None:
-        ch = pj.Channel(name=self.unique_name("Ditch"))
+        ch = new_channel(self.project.units, self.unique_name("Ditch"))
         ch.section = copy.deepcopy(self.channel().section) if self.project.channels else ch.section
         self.undo_stack.push(cmd.AddChannel(self, len(self.project.channels), ch, f"Add channel '{ch.name}'"))
 
@@ -227,9 +227,11 @@ class ProjectDocument(QObject):
             self.undo_stack.push(cmd.EditSheetInfo(self, copy.deepcopy(info), text))
 
     def set_units(self, units: str) -> None:
+        """Show the project in ``units``. Not an edit of the design: no undo step, the project stays unmodified
+        (the file records the units it was saved in)."""
         if units != self.project.units:
             hy.units.system(units)
-            self.undo_stack.push(cmd.SetUnits(self, units))
+            self._set_units(units)
 
     def set_project_text(self, attribute: str, value: str, text: str) -> None:
         if getattr(self.project, attribute) != value:
@@ -293,6 +295,30 @@ class ProjectDocument(QObject):
         self.project_changed.emit()
 
 
-def new_project() -> pj.Project:
-    """A fresh project with one channel (the model's defaults)."""
-    return pj.Project()
+#: Round starting values of a new channel in each unit system's own units: (input path, quantity, US, SI).
+#: A US project starts at 20 ft^3/s and 2 ft, not at 0.5 m^3/s shown as 17.657 ft^3/s. Typical sizes of a
+#: small grassed roadside ditch (common practice); the freeboard is the 0.5 ft / 0.15 m minimum of the README.
+STARTING_VALUES = (
+    ("flow.value", "flow", 20.0, 0.5),
+    ("slope", "slope", 0.005, 0.005),
+    ("section.bottom_width", "length", 2.0, 0.6),
+    ("section.left_slope", "", 3.0, 3.0),
+    ("section.right_slope", "", 3.0, 3.0),
+    ("manning_n", "", 0.030, 0.030),
+    ("min_freeboard", "length", 0.5, 0.15),
+)
+
+
+def new_channel(units: str = "us", name: str = "Ditch 1") -> pj.Channel:
+    """A new trapezoidal channel with the round starting values of the unit system ``units`` (stored in SI)."""
+    system = hy.units.system(units)
+    ch = pj.Channel(name=name)
+    for path, quantity, us, si in STARTING_VALUES:
+        shown = us if units == "us" else si
+        ch = with_value(ch, path, float(system.to_si(quantity, shown)) if quantity else shown)
+    return ch
+
+
+def new_project(units: str = "us") -> pj.Project:
+    """A fresh project in ``units`` with one channel at that unit system's round starting values."""
+    return pj.Project(units=units, channels=[new_channel(units)])

@@ -20,7 +20,8 @@ from hydraulics.units import UnitSystem
 from ..project import LiningChoice
 from . import compute
 from .document import ProjectDocument, section_for_shape, value_at, with_value
-from .fields import FieldSpec, LineEdit, NotesEdit, NumberField, format_number, parse_number, pretty, set_invalid
+from .fields import (FieldSpec, LineEdit, NotesEdit, NumberField, UnclearNumber, format_number, keep_units_whole,
+                     parse_number, pretty, set_invalid)
 
 SHAPES = (
     ("trapezoid", "Trapezoid"),
@@ -30,7 +31,7 @@ SHAPES = (
     ("circle", "Pipe, part full"),
     ("irregular", "Surveyed section"),
 )
-FLOW_METHODS = (("typed", "Typed value"), ("rational", "Rational method (Q = C i A)"))
+FLOW_METHODS = (("typed", "Typed value"), ("rational", "Rational method"))
 
 F = FieldSpec
 FLOW = F("flow.value", "Design flow Q", "flow", tip="Design discharge")
@@ -186,6 +187,8 @@ class SurveyTable(QWidget):
                 text = item.text() if item else ""
                 try:
                     v = parse_number(text)
+                except UnclearNumber as exc:
+                    raise ValueError(f"Point {i + 1}: {exc}") from None
                 except ValueError:
                     name = ("station", "elevation", "n")[col]
                     raise ValueError(f"Point {i + 1}: the {name} '{text}' is not a number.") from None
@@ -278,18 +281,23 @@ class LiningForm(QWidget):
         grid.addWidget(self.note, row + 1, 0, 1, 3)
         self._fill()
 
-    def _fill(self) -> None:
+    def _fill(self, units: UnitSystem | None = None) -> None:
+        """The catalogue under a heading per kind (headings cannot be chosen), named in ``units``."""
+        units = units or self.panel.doc.units
+        self._filled_for = units
         self.combo.clear()
         self.combo.addItem("None: Manning's n only", "")
-        by_category = {}
-        for lin in compute.catalogue():
-            by_category.setdefault(lin.category, []).append(lin)
-        for category, linings in by_category.items():
-            self.combo.insertSeparator(self.combo.count())
-            for lin in linings:
-                self.combo.addItem(lin.name + (" (your data)" if lin.user_data else ""), lin.key)
-                self.combo.setItemData(self.combo.count() - 1, f"{category}: {lin.key}", Qt.ItemDataRole.ToolTipRole)
-
+        model = self.combo.model()
+        for heading, items in compute.lining_groups(units, sizes=False):   # the stone size has its own field
+            self.combo.addItem(heading)
+            head = model.item(self.combo.count() - 1)
+            head.setEnabled(False)
+            font = head.font()
+            font.setBold(True)
+            head.setFont(font)
+            for key, label in items:
+                self.combo.addItem(label, key)
+                self.combo.setItemData(self.combo.count() - 1, label, Qt.ItemDataRole.ToolTipRole)
     def _chosen(self, index: int) -> None:
         key = self.combo.itemData(index)
         ch = self.panel.doc.channel()
@@ -299,10 +307,12 @@ class LiningForm(QWidget):
             return
         if ch.lining is not None and ch.lining.key == key:
             return
-        self.panel.doc.edit("lining", LiningChoice(key), f"Line with {self.combo.itemText(index)}")
+        self.panel.doc.edit("lining", LiningChoice(key), f"Line with {self.combo.itemText(index).strip()}")
 
     def load(self, channel, units: UnitSystem, force: bool) -> None:
         self.set_message("")
+        if units is not self._filled_for:
+            self._fill(units)
         lining = channel.lining
         entry = None
         if lining is not None and lining.key in compute.catalogue():
@@ -318,7 +328,7 @@ class LiningForm(QWidget):
             self.d50.show_value(lining.d50, units, force)
             default = entry.d50
             self.d50.edit.setPlaceholderText(
-                f"catalogue: {units.from_si('small_length', default):.0f}" if default else "needed")
+                f"catalogue: {pretty(compute.stone_size_text(default, units))}" if default else "needed")
         surveyed = channel.section.get("shape") == "irregular"
         plain = lining is None
         self.n.set_visible(plain and not (surveyed and channel.manning_n is None))
@@ -432,6 +442,7 @@ class InputPanel(QScrollArea):
         self.q_label, self.q_value = QLabel("Design flow Q = C i A"), QLabel()
         for lab, val in ((self.tc_label, self.tc_value), (self.q_label, self.q_value)):
             val.setObjectName("computed")
+            val.setWordWrap(True)       # a long line wraps inside the panel rather than widening it
             val.setAlignment(Qt.AlignmentFlag.AlignRight | Qt.AlignmentFlag.AlignVCenter)
             grid.addWidget(lab, row, 0)
             grid.addWidget(val, row, 1, 1, 2)
@@ -528,6 +539,8 @@ class InputPanel(QScrollArea):
         ch, units = self.doc.channel(), self.doc.units
         if force:
             self._invalid.clear()
+            for f in self.fields.values():
+                f.touched = False
         if force or self.name.text() != ch.name:
             self.name.setText(ch.name)
             self.name.setCursorPosition(0)
@@ -570,12 +583,12 @@ class InputPanel(QScrollArea):
         """The computed lines of the form, and a mark on the field the core's error names."""
         units = self.doc.units
         if ev.time_of_concentration is not None:
-            self.tc_value.setText(f"{ev.time_of_concentration / 60:.1f} min (Kirpich)")
+            self.tc_value.setText(keep_units_whole(f"{ev.time_of_concentration / 60:.1f} min (Kirpich)"))
         else:
-            self.tc_value.setText("give L and its slope for Kirpich's t_c")
+            self.tc_value.setText("needs the flow-path length and slope")
         if ev.flow is not None:
-            self.q_value.setText(f"{format_number(round(units.from_si('flow', ev.flow), 4))} "
-                                 f"{pretty(units.label('flow'))}")
+            self.q_value.setText(keep_units_whole(f"{format_number(round(units.from_si('flow', ev.flow), 4))} "
+                                                  f"{pretty(units.label('flow'))}"))
         else:
             self.q_value.setText("—")
         self.lining.show_evaluation(ev)
@@ -583,7 +596,8 @@ class InputPanel(QScrollArea):
             path = CORE_TO_PATH.get(ev.error_field)
             shape = self.doc.channel().section.get("shape")
             f = self.fields.get(f"{shape}:{path}") or self.fields.get(path or "")
-            if f is not None and not f.error and not f.edit.isHidden():
+            untouched_blank = f is not None and not f.touched and not f.edit.text().strip()
+            if f is not None and not f.error and not f.edit.isHidden() and not untouched_blank:
                 f.set_error(ev.error)
 
     def first_complaint(self) -> str:

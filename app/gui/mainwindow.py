@@ -21,12 +21,13 @@ from .. import sheet as sh
 from . import compute, settings
 from .autosave import Autosaver, find_recoverable, save_failure_reason
 from .comparison import ComparisonView
-from .document import ProjectDocument
+from .document import ProjectDocument, new_project
 from .fields import pretty, sentence
 from .forms import SHAPES, InputPanel
 from .plots import EnergyPicture, RatingPicture, SectionPicture
 from .results_view import CAUTION, ResultsPanel
 from .sheet_dialogs import ExportSheetDialog, NotesDialog, SheetDetailsDialog, ask_password
+from .shortcuts import WindowKeys
 from .style import STYLE
 from .tasks import Task
 
@@ -52,6 +53,7 @@ class MainWindow(QMainWindow):
         self.create_status_bar()
         self.create_panels()
         self.connect_document()
+        self.window_keys = WindowKeys(self)   # shortcuts work while a text box has the focus
         self.read_settings()
         self.autosaver = Autosaver(self.doc, parent=self) if persistent else None
         if self.autosaver:
@@ -104,14 +106,14 @@ class MainWindow(QMainWindow):
         self.redo_action.setIcon(style.standardIcon(SP.SP_ArrowForward))
         self.redo_action.setIconText("Redo")
         self.add_action = act("&Add channel", self.doc.add_channel, "Ctrl+Shift+N", "Add a channel to the project")
-        self.duplicate_action = act("D&uplicate channel", self.doc.duplicate_channel, "Ctrl+D",
+        self.duplicate_action = act("&Duplicate channel", self.doc.duplicate_channel, "Ctrl+D",
                                     "Copy the current channel")
-        self.rename_action = act("&Rename channel…", self.rename_channel, "F2", "Rename the current channel")
+        self.rename_action = act("Re&name channel…", self.rename_channel, "F2", "Rename the current channel")
         self.delete_action = act("De&lete channel", self.delete_channel, None, "Delete the current channel")
         self.project_name_action = act("Project &name…", self.rename_project, None, "Name the project")
         self.sheet_details_action = act("&Sheet details…", self.edit_sheet_details, None,
                                         "Company, logo, project number, revision and sign-off names for the sheets")
-        self.project_notes_action = act("Project &notes…", self.edit_project_notes, None,
+        self.project_notes_action = act("Project n&otes…", self.edit_project_notes, None,
                                         "Notes about the whole project")
         self.copy_table_action = act("&Copy comparison table", self.copy_table, None,
                                      "Copy the lining comparison as tab-separated text")
@@ -121,9 +123,9 @@ class MainWindow(QMainWindow):
             self.tab_actions.append(act(text, lambda _=False, i=i: self.tabs.setCurrentIndex(i), f"Ctrl+{i + 1}",
                                         f"Show the {text.replace('&', '').lower()}"))
         self.units_group = QActionGroup(self)
-        self.si_action = act("SI (m, m³/s, Pa)", lambda: self.doc.set_units("si"), None,
+        self.si_action = act("&SI (m, m³/s, Pa)", lambda: self.doc.set_units("si"), None,
                              "Show every value in SI units", checkable=True)
-        self.us_action = act("US customary (ft, ft³/s, lb/ft²)", lambda: self.doc.set_units("us"), None,
+        self.us_action = act("&US customary (ft, ft³/s, lb/ft²)", lambda: self.doc.set_units("us"), None,
                              "Show every value in US customary units", checkable=True)
         self.si_action.setIconText("SI")
         self.us_action.setIconText("US")
@@ -414,7 +416,7 @@ class MainWindow(QMainWindow):
 
     def new_project(self) -> None:
         if self.maybe_save():
-            self.doc.load(pj.Project())
+            self.doc.load(new_project(self.doc.project.units))   # round starting values in the units in use
             self._after_file_change("New project.")
 
     def open_dialog(self) -> None:

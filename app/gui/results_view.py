@@ -15,7 +15,7 @@ from hydraulics.wording import in_units
 
 from ..results import CHANNEL_FIELDS, ResultField, format_value
 from .compute import Evaluation
-from .fields import pretty
+from .fields import keep_units_whole, pretty
 
 CAUTION = ("Results assist design only. Check them against the local drainage code and design manual; "
            "a licensed engineer must review and approve the design before it is built.")
@@ -222,8 +222,8 @@ class ResultsPanel(QWidget):
             w.style().unpolish(w)
             w.style().polish(w)
         self.headline.setText(headline)
-        self.reason.setText(reason)
+        self.reason.setText(keep_units_whole(reason))
 
 
 def _escape(text: str) -> str:
-    return text.replace("&", "&amp;").replace("<", "&lt;").replace(">", "&gt;")
+    return keep_units_whole(text.replace("&", "&amp;").replace("<", "&lt;").replace(">", "&gt;"))

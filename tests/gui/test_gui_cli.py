@@ -6,6 +6,7 @@ from PySide6.QtGui import QImage
 import hydraulics as hy
 from app import project as pj
 from app.gui import compute
+from app.gui.document import new_project
 from app.main import main
 
 
@@ -65,7 +66,7 @@ def test_no_arguments_opens_the_demo_on_first_start_only(monkeypatch):
     first.close()
     assert main([]) == 0
     second = application.last_window
-    assert second.doc.project == pj.Project()
+    assert second.doc.project == new_project("us")
     second.close()
 
 

@@ -49,11 +49,21 @@ def test_add_remove_and_units_round_trip():
     assert doc.rename_channel("A copy", index=0) == "Another channel is already called 'A copy'."
     assert doc.rename_channel("  ", index=0) == "A channel needs a name."
     doc.rename_channel("North ditch", index=0)
-    assert doc.undo_stack.count() == 5
-    assert doc.undo_stack.text(4) == "Rename channel 'A' to 'North ditch'"
+    assert doc.undo_stack.count() == 4                     # the unit switch is no step of the history
+    assert doc.undo_stack.text(3) == "Rename channel 'A' to 'North ditch'"
     while doc.undo_stack.canUndo():
         doc.undo_stack.undo()
+    assert doc.project.units == "us"
+    doc.set_units(before.units)
     assert doc.project == before
+
+
+def test_switching_units_is_not_an_edit():
+    doc = ProjectDocument(sample())
+    seen = []
+    doc.units_changed.connect(lambda: seen.append(doc.project.units))
+    doc.set_units("si" if doc.project.units == "us" else "us")
+    assert seen and doc.undo_stack.count() == 0 and not doc.modified
 
 
 def test_last_channel_cannot_be_deleted():

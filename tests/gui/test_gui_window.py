@@ -9,12 +9,14 @@ import json
 
 import numpy as np
 import pytest
-from PySide6.QtCore import Qt
-from PySide6.QtWidgets import QMessageBox
+from PySide6.QtCore import QPoint, Qt
+from PySide6.QtWidgets import QLabel, QMessageBox
 
 import hydraulics as hy
 from app import project as pj
-from app.gui import settings
+from app.gui import compute, settings
+from app.gui.document import new_project
+from app.gui.forms import RATIONAL
 from app.gui.mainwindow import MainWindow
 
 
@@ -163,9 +165,20 @@ def test_unit_switch_round_trips_fields_and_results(demo_window):
     w.si_action.trigger()
     assert {k: w.inputs.fields[k].edit.text() for k in keys} == before
     assert {k: v.text() for k, v in w.results.values.items()} == results_before
-    w.undo_action.trigger()
-    w.undo_action.trigger()
     assert pj.dumps(w.doc.project) == project_before
+
+
+def test_switching_units_is_no_undo_step_and_leaves_the_project_unmodified(demo_window):
+    w = demo_window
+    assert not w.isWindowModified() and not w.undo_action.isEnabled()
+    w.us_action.trigger()
+    assert w.doc.project.units == "us" and w.results.values["normal_depth"].text().endswith(" ft")
+    assert not w.doc.modified and not w.isWindowModified()          # how numbers are shown, not the design
+    assert w.doc.undo_stack.count() == 0 and not w.undo_action.isEnabled()
+    w.doc.edit("slope", 0.02, "Change bed slope")
+    w.si_action.trigger()
+    w.undo_action.trigger()                                            # undo takes back the edit, not the units
+    assert w.doc.project.units == "si" and w.doc.channel().slope != 0.02 and not w.doc.modified
 
 
 def test_values_typed_in_us_units_reach_the_core_in_si(demo_window, qtbot):
@@ -183,7 +196,7 @@ def test_rational_method_flow_is_shown(demo_window, qtbot):
     fb = w.doc.channel().flow
     assert fb.method == "rational"
     q = hy.rational.rational_flow(fb.runoff_coefficient, fb.intensity, fb.area)
-    assert w.inputs.q_value.text() == f"{round(q, 4):g} m³/s"
+    assert w.inputs.q_value.text() == f"{round(q, 4):g}\u00a0m³\u2060/\u2060s"     # kept on one line
     assert "Kirpich" in w.inputs.tc_value.text()
     type_into(qtbot, field(w, "flow.runoff_coefficient"), "1.2")
     assert "≤ 1" in field(w, "flow.runoff_coefficient").error
@@ -251,7 +264,7 @@ def test_unsaved_changes_are_guarded(demo_window, dialogs):
     assert w.doc.channel().slope == 0.02                          # cancelled: nothing dropped
     dialogs.answers["warning"] = [QMessageBox.StandardButton.Discard]
     w.new_action.trigger()
-    assert w.doc.project == pj.Project() and not w.isWindowModified()
+    assert w.doc.project == new_project("si") and not w.isWindowModified()   # the demo's units, round values
     assert dialogs.kinds() == ["warning", "warning"]
 
 
@@ -553,3 +566,160 @@ def test_rating_curve_marks_where_the_stone_relation_changes(demo_window):
     w.channel_list.setCurrentRow(names.index("East verge ditch"))
     assert not pic.switch.get_visible()
     assert SWITCH_NOTE not in [t.get_text() for t in pic.legend.get_texts()]
+
+
+def test_comparison_applies_the_picked_lining_after_the_columns_are_reordered(demo_window, qtbot):
+    w = demo_window
+    w.doc.set_current(outfall_index(w))
+    w.tabs.setCurrentIndex(3)
+    view = w.comparison
+    for key in ("concrete", "riprap", "grass_good_sod"):                  # more linings to order
+        if not view.checks[key].isChecked():
+            view.checks[key].setChecked(True)
+    heads = [view.table.verticalHeaderItem(i).text() for i in range(view.table.rowCount())]
+    velocity_row = next(i for i, h in enumerate(heads) if h.startswith("Velocity"))
+    view.table.verticalHeader().sectionClicked.emit(velocity_row)         # the user clicks "Velocity"
+    view.table.verticalHeader().sectionClicked.emit(velocity_row)         # and again: fastest first
+    speeds = [view.rows[j].core.velocity for j in view.shown_order()]
+    assert speeds == sorted(speeds, reverse=True) and speeds != [r.core.velocity for r in view.rows]
+    assert view.table.verticalHeaderItem(velocity_row).text().endswith("▼")
+    header = view.table.horizontalHeader()
+    first = header.logicalIndex(0)                                         # the leftmost lining on screen
+    x = header.sectionViewportPosition(first) + header.sectionSize(first) // 2
+    qtbot.mouseClick(header.viewport(), Qt.MouseButton.LeftButton, pos=QPoint(x, header.height() // 2))
+    picked = view.rows[first]
+    assert view.selected() == first
+    messages = []
+    view.status_message.connect(messages.append)
+    qtbot.mouseClick(view.apply_button, Qt.MouseButton.LeftButton)
+    assert w.doc.channel().lining.key == picked.choice.key
+    assert messages and picked.name in messages[-1]                        # and says so, by its own name
+    assert view.rows[view.selected()].choice.key == picked.choice.key       # still picked after the refresh
+    assert view.copy_table().splitlines()[1].startswith(compute.comparison_label(picked, w.doc.units))  # order shown
+
+
+@pytest.mark.parametrize("units, ratio_unit", [("us", "ft/ft"), ("si", "m/m")])
+def test_a_slope_typed_as_a_percentage_is_refused_with_that_reading_offered(demo_window, qtbot, units, ratio_unit):
+    w = demo_window
+    w.doc.set_units(units)
+    f = field(w, "slope")
+    before = w.doc.channel().slope
+    assert f.suffix.text() == ratio_unit and "%" not in f.suffix.text()   # a ratio field says so, never "%"
+    type_into(qtbot, f, "3.5")
+    assert w.doc.channel().slope == before                                  # 3.5 ft/ft is never taken
+    assert "If you meant 3.5 %, that is 0.035" in f.error and ratio_unit in f.error
+    assert f.offered == pytest.approx(0.035) and 'href="use"' in f.message.text()
+    assert f.suffix.text() == ratio_unit
+    f.message.linkActivated.emit("use")                                     # the user takes the offer
+    assert w.doc.channel().slope == pytest.approx(0.035) and f.edit.text() == "0.035" and not f.error
+    w.undo_action.trigger()
+    assert w.doc.channel().slope == before
+
+
+def test_rational_form_says_nothing_until_typed_then_in_words_and_fits(demo_window, qtbot):
+    from PySide6.QtWidgets import QLabel
+    w = demo_window
+    w.resize(1366, 768)
+    qtbot.wait(10)
+    assert w.doc.channel().flow.method == "typed"
+    w.inputs._method_chosen(w.inputs.method.findData("rational"))        # the user picks the rational method
+    blanks = [field(w, s.path) for s in RATIONAL if not s.optional]
+    assert all(not f.edit.text() and not f.error and f.message.isHidden() for f in blanks)
+    texts = [lab.text() for lab in w.inputs.findChildren(QLabel) + w.results.findChildren(QLabel)
+             if lab.isVisible()]
+    assert not any("None" in t or "got" in t for t in texts), texts
+    c = field(w, "flow.runoff_coefficient")
+    type_into(qtbot, c, "x")
+    assert c.error.startswith("'x' is not a number") and c.message.isVisible()
+    c.edit.clear()
+    c._typed("")
+    assert c.error == "Runoff coefficient C is needed: enter a number > 0 and ≤ 1."
+    body = w.inputs.widget()                                               # nothing wider than its panel
+    assert body.minimumSizeHint().width() <= w.inputs.viewport().width()
+    for lab in w.inputs.findChildren(QLabel):
+        if lab.isVisible() and lab.text() and not lab.wordWrap():
+            assert lab.width() >= lab.minimumSizeHint().width(), lab.text()
+
+
+@pytest.mark.parametrize("units, flow, width, freeboard", [("us", "20", "2", "0.5"), ("si", "0.5", "0.6", "0.15")])
+def test_a_new_project_starts_with_round_values_of_its_unit_system(qtbot, units, flow, width, freeboard):
+    w = MainWindow(pj.Project(units=units), persistent=False)
+    qtbot.addWidget(w)
+    w.new_action.trigger()                                     # nothing to save: a new project at once
+    assert w.doc.project.units == units
+    assert field(w, "flow.value").edit.text() == flow          # not 17.657 ft³/s
+    assert field(w, "trapezoid:section.bottom_width").edit.text() == width
+    assert field(w, "min_freeboard").edit.text() == freeboard
+    w.doc.add_channel()                                        # a channel added later starts round too
+    assert field(w, "flow.value").edit.text() == flow
+    assert w.doc.channel().flow.value == pytest.approx(20 * 0.3048 ** 3 if units == "us" else 0.5, rel=1e-15)
+    w.doc.undo_stack.setClean()
+
+
+def combo_entries(combo):
+    """(text, key, selectable) of each entry of a drop-down."""
+    model = combo.model()
+    return [(combo.itemText(i), combo.itemData(i), bool(model.item(i).isEnabled())) for i in range(combo.count())
+            if combo.itemText(i)]
+
+
+@pytest.mark.parametrize("units, grass, stone", [("us", "about 6 in tall", "D50 5.9 in"),
+                                                 ("si", "about 150 mm tall", "D50 150.0 mm")])
+def test_lining_list_is_grouped_by_kind_with_sizes_in_the_project_units(demo_window, qtbot, units, grass, stone):
+    w = demo_window
+    w.doc.set_units(units)
+    entries = combo_entries(w.inputs.lining.combo)
+    headings = [t for t, key, selectable in entries if not selectable]
+    assert headings == ["Rigid", "Stone", "Grass", "Blankets and mats", "Bare soil"]
+    kinds = {}
+    current = None
+    for text, key, selectable in entries:                     # every lining sits under the heading of its kind
+        if not selectable:
+            current = text
+        elif key:
+            kinds.setdefault(current, set()).add(compute.lining_entry(key).category)
+    assert all(len(v) == 1 for v in kinds.values())
+    names = [t.strip() for t, key, sel in entries if sel and key]
+    assert len(names) == len({n.casefold() for n in names})    # no two alike
+    sod = next(t for t, key, _ in entries if key == "grass_good_sod")
+    riprap = next(t for t, key, _ in entries if key == "riprap")
+    assert grass in sod and "D50" not in riprap                # stem height 0.15 m; the D50 has its own field
+    w.doc.set_current(outfall_index(w))                        # a riprap lining: the catalogue size, as a hint
+    assert field(w, "lining.d50").edit.placeholderText() == "catalogue: " + stone.removeprefix("D50 ")
+    assert ("mm" in sod) == (units == "si")
+    w.tabs.setCurrentIndex(3)
+    qtbot.wait(10)                                             # new widgets of a shown layout show when idle
+    heads = [lab.text() for lab in w.comparison.choices.findChildren(QLabel) if lab.isVisible()]
+    assert heads == ["Rigid", "Stone", "Grass", "Blankets and mats", "Bare soil"]
+    assert grass in w.comparison.checks["grass_good_sod"].toolTip()
+    assert w.comparison.checks["riprap"].toolTip() == f"Rock riprap, {stone}"    # catalogue D50 0.15 m
+
+
+def test_a_user_lining_named_like_a_shipped_one_is_told_apart(tmp_path):
+    user = tmp_path / "mine.toml"      # an invented user entry that repeats a shipped name
+    user.write_text('''schema_version = 1
+
+[[lining]]
+key = "my_asphalt"
+name = "Asphalt, rough"
+category = "rigid"
+unit_cost_basis = "area"
+[lining.roughness]
+model = "constant"
+n = 0.017
+source = "Invented for this test"
+[lining.permissible]
+method = "none"
+source = "Invented for this test"
+[lining.thickness]
+rule = "fixed"
+value = 0.05
+source = "Invented for this test"
+''', encoding="utf-8")
+    assert compute.use_user_catalogue(user) == ""
+    try:
+        labels = [label for _, items in compute.lining_groups(hy.units.system("si")) for _, label in items]
+        assert len(labels) == len({x.casefold() for x in labels})
+        assert "Asphalt, rough" in labels and "Asphalt, rough [my_asphalt]" in labels
+    finally:
+        compute.use_user_catalogue(None)
