@@ -42,13 +42,17 @@ ROWS = (
     ("safety_factor", ResultField("safety_factor", "Safety factor", "", 2)),
     ("required_d50", ResultField("required_d50", "Smallest stable D50", "small_length", 1)),
     ("layer_thickness", ResultField("layer_thickness", "Lining thickness", "small_length", 1)),
+    ("bend_protection_length", ResultField("bend_protection_length", "Protect below the bend", "length", 1)),
     ("freeboard", ResultField("freeboard", "Freeboard", "length", 3)),
     ("total_depth", ResultField("total_depth", "Depth with freeboard", "length", 3)),
     ("top_width_at_top", ResultField("top_width_at_top", "Width at top of ditch", "length", 2)),
+    ("lined_width", ResultField("lined_width", "Lined width", "length", 2)),
+    ("layer_volume", ResultField("layer_volume", "Layer volume", "volume_per_length", 3)),
     ("cost_per_length", ResultField("cost_per_length", "Cost", "cost_per_length", 2)),
 )
 #: Rows left out when they do not apply (no lining, no bend, not stone, no price).
-OPTIONAL = {"side_shear", "bend_shear", "required_d50", "layer_thickness", "cost_per_length"}
+OPTIONAL = {"side_shear", "bend_shear", "required_d50", "layer_thickness", "bend_protection_length", "lined_width",
+            "layer_volume", "cost_per_length"}
 
 
 def result_values(ev: Evaluation) -> dict:
@@ -58,13 +62,15 @@ def result_values(ev: Evaluation) -> dict:
     out.update(flow=ev.flow, freeboard=ev.freeboard, total_depth=ev.total_depth,
                top_width_at_top=ev.top_width_at_top)
     for key in ("side_shear", "bend_shear", "permissible_shear", "safety_factor", "required_d50",
-                "layer_thickness", "cost_per_length"):
+                "layer_thickness", "bend_protection_length", "lined_width", "layer_volume", "cost_per_length"):
         out[key] = None
     st = ev.lining
     if st is not None:
         out.update(bed_shear=st.bed_shear, side_shear=st.side_shear, bend_shear=st.bend_shear,
                    required_d50=st.required_d50, layer_thickness=st.layer_thickness,
-                   cost_per_length=st.cost_per_length, manning_n=st.manning_n)
+                   cost_per_length=st.cost_per_length, manning_n=st.manning_n,
+                   bend_protection_length=st.bend_protection_length, lined_width=st.lined_width,
+                   layer_volume=st.layer_volume)
         gov = st.governing_check()  # the permissible shear and safety factor shown are those of the check that governs
         if st.verdict == "non-erodible" or gov is None:
             out["permissible_shear"] = "non-erodible"

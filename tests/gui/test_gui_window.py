@@ -723,3 +723,22 @@ source = "Invented for this test"
         assert "Asphalt, rough" in labels and "Asphalt, rough [my_asphalt]" in labels
     finally:
         compute.use_user_catalogue(None)
+
+
+def test_results_show_the_lining_facts_the_sheet_gives(demo_window):
+    """Issue 16 item 14: the window shows what the sheet's stability block gives: protection below the bend,
+    lined width and layer volume (besides the required D50, thickness and side and bend shear)."""
+    w = demo_window
+    names = [c.name for c in w.doc.project.channels]
+    w.channel_list.setCurrentRow(names.index("Outfall swale"))          # riprap in a bend
+    st = w.results.shown.lining
+    for key, value, unit in (("bend_protection_length", st.bend_protection_length, "m"),
+                             ("lined_width", st.lined_width, "m"), ("layer_volume", st.layer_volume, "m³/m")):
+        label = w.results.values[key]
+        assert label.isVisibleTo(w.results), key
+        number, shown_unit = label.text().split("\u00a0")[0].split(" ")[0], label.text().split()[-1]
+        assert abs(float(number) - value) <= 0.5 * 10 ** -len(number.split(".")[1]), key
+        assert shown_unit.replace("^3", "³") in (unit, unit.replace("³", "^3")), (key, label.text())
+    w.channel_list.setCurrentRow(names.index("Farm crossing pipe"))      # no lining: none of them
+    for key in ("bend_protection_length", "lined_width", "layer_volume"):
+        assert not w.results.values[key].isVisibleTo(w.results)
