@@ -24,6 +24,7 @@ from pathlib import Path
 import jsonschema
 
 import hydraulics as hy
+from hydraulics import validate as hv
 
 from .files import write_atomic
 
@@ -323,6 +324,34 @@ def validate_document(data: dict) -> None:
                 if key != "shape" and not (isinstance(value, (int, float)) and not isinstance(value, bool)):
                     raise ProjectFileError(f"{field_label(['channels', i, 'section', key], data)}: must be a "
                                            f"single number, got {_JSON_TYPES.get(type(value), 'something else')}")
+        _check_limits(data, i)
+
+
+def _design_numbers(channel: dict):
+    """(path within the channel, core field name, value) of each design number a channel gives."""
+    if channel["flow"].get("method") == "typed":
+        yield ["flow", "value"], "flow", channel["flow"].get("value")
+    yield ["slope"], "slope", channel.get("slope")
+    yield ["manning_n"], "n", channel.get("manning_n")
+    if channel["section"].get("shape") != "irregular":
+        for key, value in channel["section"].items():
+            if key != "shape":
+                yield ["section", key], key, value
+    if channel.get("lining"):
+        yield ["lining", "d50"], "d50", channel["lining"].get("d50")
+    for j, alt in enumerate(channel.get("alternatives") or []):
+        yield ["alternatives", j, "d50"], "d50", alt.get("d50")
+    yield ["bend_radius"], "bend_radius", channel.get("bend_radius")
+    yield ["min_freeboard"], "min_freeboard", channel.get("min_freeboard")
+
+
+def _check_limits(data: dict, i: int) -> None:
+    """Refuse a design number outside the range of that input (hydraulics.validate.LIMITS), in SI as in the file."""
+    for path, name, value in _design_numbers(data["channels"][i]):
+        if isinstance(value, (int, float)) and not isinstance(value, bool):
+            problem = hv.outside_limit(name, float(value))
+            if problem:
+                raise ProjectFileError(f"{field_label(['channels', i, *path], data)}: {problem}")
 
 
 #: Upgrades from each older schema version to the next: {old_version: function(doc) -> doc}.
