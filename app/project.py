@@ -432,13 +432,14 @@ def load(path) -> Project:
     return loads(text)
 
 
-def save(project: Project, path) -> None:
-    """Write atomically (temporary file in the same folder, fsync, then os.replace).
+def save(project: Project, path, *, private: bool = False) -> None:
+    """Write atomically (temporary file in the same folder, fsync, then os.replace); through a symbolic link,
+    the file it points to. ``private`` (autosaves) makes the file readable by its owner only.
 
     Raises ProjectSaveError before anything is written when the project holds a value no file can keep,
     and OSError when the file cannot be written; either way the old file is left as it was.
     """
-    write_atomic(path, _serialise(project))
+    write_atomic(path, _serialise(project), private=private)
 
 
 def demo_path():

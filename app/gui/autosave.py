@@ -19,6 +19,7 @@ from pathlib import Path
 from PySide6.QtCore import QLockFile, QObject, QTimer, Signal
 
 from .. import project as pj
+from ..files import remove_stale_temporaries, write_atomic
 from .settings import data_folder
 
 INTERVAL_MS = 30_000
@@ -100,6 +101,7 @@ class Autosaver(QObject):
         self.session = uuid.uuid4().hex
         self.folder = autosave_folder()
         self.folder.mkdir(parents=True, exist_ok=True)
+        remove_stale_temporaries(self.folder)   # left by an autosave that was killed part way
         self.lock = _lock(self.folder, self.session)
         self.lock.tryLock(0)
         self._written_index = None
@@ -126,9 +128,9 @@ class Autosaver(QObject):
         if index == self._written_index and self.project_file.exists():
             return False
         try:
-            pj.save(self.doc.project, self.project_file)
+            pj.save(self.doc.project, self.project_file, private=True)
             meta = {"original": str(self.doc.path or ""), "saved_at": time.time(), "name": self.doc.project.name}
-            self.meta_file.write_text(json.dumps(meta, ensure_ascii=True), encoding="utf-8")
+            write_atomic(self.meta_file, json.dumps(meta, ensure_ascii=True), private=True)
         except Exception as exc:  # noqa: BLE001 - whatever the reason, the user must hear that work is unprotected
             reason = save_failure_reason(exc)
             if reason != self.last_error:
