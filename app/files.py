@@ -2,12 +2,14 @@
 
 from __future__ import annotations
 
+import hashlib
 import os
 import re
 import stat
 import tempfile
 import time
 from contextlib import contextmanager
+from dataclasses import dataclass
 from pathlib import Path
 
 
@@ -130,6 +132,44 @@ def write_atomic(path, data, *, private: bool = False) -> None:
     with atomic_writer(path, private=private) as fh:
         for piece in pieces:
             fh.write(piece.encode("utf-8") if isinstance(piece, str) else piece)
+
+
+# -- has someone else changed the file? ---------------------------------------------------------------------------
+
+@dataclass(frozen=True)
+class FileStamp:
+    """What a file was when we last read or wrote it: size [bytes], modification time [ns] and SHA-256."""
+
+    size: int
+    mtime_ns: int
+    sha256: str
+
+    @classmethod
+    def of(cls, path) -> "FileStamp | None":
+        """The stamp of ``path`` as it is now (through links), or None when there is no such file."""
+        digest = hashlib.sha256()
+        try:
+            with open(path, "rb") as fh:
+                st = os.fstat(fh.fileno())
+                for block in iter(lambda: fh.read(1 << 20), b""):
+                    digest.update(block)
+        except (FileNotFoundError, IsADirectoryError, NotADirectoryError):
+            return None
+        return cls(st.st_size, st.st_mtime_ns, digest.hexdigest())
+
+    def changed_on_disk(self, path) -> bool:
+        """True when the file at ``path`` now holds other content than it did (a new time alone is not a change;
+        a file that is gone is no change either: saving puts it back and overwrites nobody's work)."""
+        now = FileStamp.of(path)
+        return now is not None and (now.size != self.size or now.sha256 != self.sha256)
+
+
+class FileChangedError(Exception):
+    """The file to be saved over was changed by someone else since we read or wrote it; nothing was written."""
+
+    def __init__(self, path, old: FileStamp, new: "FileStamp | None"):
+        self.path, self.old, self.new = Path(path), old, new
+        super().__init__(f"{path} was changed by another program or person since it was opened or saved here")
 
 
 # -- text cells that a spreadsheet would run -----------------------------------------------------------------------
