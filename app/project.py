@@ -392,6 +392,7 @@ def loads(text: str) -> Project:
     refused with a ProjectFileError naming the channel and the field."""
     if len(text) > MAX_FILE_BYTES:
         raise ProjectFileError(_too_large(len(text.encode("utf-8", "surrogatepass"))))
+    text = text.removeprefix("\ufeff")   # a byte-order mark read as text
     try:
         data = json.loads(text, parse_float=_parse_float, parse_int=_parse_int, parse_constant=_NotFinite,
                           object_pairs_hook=_object)
@@ -421,7 +422,7 @@ def load(path) -> Project:
             raw = fh.read(MAX_FILE_BYTES + 1)   # the size on disk can change, or be unknown (a pipe)
         if len(raw) > MAX_FILE_BYTES:
             raise ProjectFileError(_too_large(len(raw)))
-        text = raw.decode("utf-8")
+        text = raw.decode("utf-8-sig")   # a byte-order mark, as some Windows editors write, is accepted
     except FileNotFoundError:
         raise ProjectFileError(f"no such file: {path}") from None
     except UnicodeDecodeError as exc:

@@ -47,6 +47,8 @@ def catalogue_from_args(args):
         return load_catalogue(user_path=path)
     except CatalogueError as exc:
         raise CliError(f"--user-catalogue: {exc}") from None
+    except OSError as exc:   # unreadable (permissions), a folder, a device that fails
+        raise CliError(f"--user-catalogue: cannot read {path}: {exc.strerror or exc}") from None
 
 
 def choice_from_text(text: str, units: hu.UnitSystem):
