@@ -132,8 +132,11 @@ def _decode(data: bytes, source: str) -> str:
     try:
         return data.decode("utf-8-sig")
     except UnicodeDecodeError as exc:
-        raise InventoryError(f"{source}: not UTF-8 text (byte {exc.start}); save the sheet as "
-                             "'CSV UTF-8' and try again") from None
+        line = data.count(b"\n", 0, exc.start) + 1
+        column = exc.start - (data.rfind(b"\n", 0, exc.start) + 1) + 1
+        raise InventoryError(f"{source}:{line}: not UTF-8 text (byte 0x{data[exc.start]:02x} at column {column} "
+                             "of that line); an inventory is read as UTF-8: save the sheet as 'CSV UTF-8' "
+                             "and try again") from None
 
 
 def _split_fast(text: str):
@@ -462,10 +465,20 @@ def _ragged(fields, width, notes, i):
                             "the missing ones were read as blank")
         return fields + [""] * (width - len(fields))
     extra = fields[width:]
-    _add_note(notes, i, f"the row has {len(fields)} fields and the header {width}; the extra "
-                        f"field{'s' if len(extra) > 1 else ''} {', '.join(repr(e) for e in extra)} "
-                        f"{'are' if len(extra) > 1 else 'is'} kept only in this reason")
+    shown = [repr(e) if len(e) <= MAX_EXTRA_CHARS else repr(e[:MAX_EXTRA_CHARS]) + "..." for e in extra[:MAX_EXTRA_SHOWN]]
+    if len(extra) <= MAX_EXTRA_SHOWN and all(len(e) <= MAX_EXTRA_CHARS for e in extra):
+        kept = (f"the extra field{'s' if len(extra) > 1 else ''} {', '.join(shown)} "
+                f"{'are' if len(extra) > 1 else 'is'} kept only in this reason")
+    else:   # a reason stays short however wide or long the row (a million columns)
+        kept = (f"{len(extra):,} extra fields were dropped (the first {len(shown)}: {', '.join(shown)})"
+                if len(extra) > 1 else f"the extra field {shown[0]} was dropped")
+    _add_note(notes, i, f"the row has {len(fields):,} fields and the header {width}; {kept}")
     return fields[:width]
+
+
+#: How much of the extra fields of a too-long row its reason quotes.
+MAX_EXTRA_SHOWN = 5
+MAX_EXTRA_CHARS = 40
 
 
 def _csv_line(fields) -> str:

@@ -3,7 +3,10 @@
 from __future__ import annotations
 
 import argparse
+import os
 import sys
+import tempfile
+import traceback
 
 from hydraulics.errors import InputError, NoSolutionError
 
@@ -62,6 +65,28 @@ def main(argv=None) -> int:
     except BrokenPipeError:  # output piped into `head` and the like
         sys.stderr.close()
         return 0
+    except Exception as exc:  # noqa: BLE001 - the last resort: never a traceback on the terminal
+        return _report_unexpected(args.command, exc)
+
+
+#: Exit status when the program itself failed (not the input): distinct from 2 (bad input) and 3 (no solution).
+UNEXPECTED_STATUS = 70
+
+
+def _report_unexpected(command: str, exc: BaseException) -> int:
+    """One line on stderr for an error the program did not foresee, with the traceback kept in a report file."""
+    what = f"{type(exc).__name__}: {exc}".splitlines()[0][:200] if str(exc) else type(exc).__name__
+    try:
+        fd, path = tempfile.mkstemp(prefix="ditchwright-error-", suffix=".txt")
+        with os.fdopen(fd, "w", encoding="utf-8", errors="backslashreplace") as fh:
+            fh.write(f"ditchwright {__version__}, command {command!r}\n")
+            fh.write(f"arguments: {sys.argv[1:]!r}\n\n")
+            fh.write("".join(traceback.format_exception(exc)))
+        where = f"; the details are in {path} (please send that file with a bug report)"
+    except OSError as report_error:
+        where = f"; no report could be written ({report_error.strerror or report_error})"
+    print(f"ditchwright {command}: internal error ({what}){where}", file=sys.stderr)
+    return UNEXPECTED_STATUS
 
 
 if __name__ == "__main__":

@@ -24,6 +24,7 @@ from pathlib import Path
 import jsonschema
 
 import hydraulics as hy
+from hydraulics import validate as hv
 
 from .files import write_atomic
 
@@ -323,6 +324,34 @@ def validate_document(data: dict) -> None:
                 if key != "shape" and not (isinstance(value, (int, float)) and not isinstance(value, bool)):
                     raise ProjectFileError(f"{field_label(['channels', i, 'section', key], data)}: must be a "
                                            f"single number, got {_JSON_TYPES.get(type(value), 'something else')}")
+        _check_limits(data, i)
+
+
+def _design_numbers(channel: dict):
+    """(path within the channel, core field name, value) of each design number a channel gives."""
+    if channel["flow"].get("method") == "typed":
+        yield ["flow", "value"], "flow", channel["flow"].get("value")
+    yield ["slope"], "slope", channel.get("slope")
+    yield ["manning_n"], "n", channel.get("manning_n")
+    if channel["section"].get("shape") != "irregular":
+        for key, value in channel["section"].items():
+            if key != "shape":
+                yield ["section", key], key, value
+    if channel.get("lining"):
+        yield ["lining", "d50"], "d50", channel["lining"].get("d50")
+    for j, alt in enumerate(channel.get("alternatives") or []):
+        yield ["alternatives", j, "d50"], "d50", alt.get("d50")
+    yield ["bend_radius"], "bend_radius", channel.get("bend_radius")
+    yield ["min_freeboard"], "min_freeboard", channel.get("min_freeboard")
+
+
+def _check_limits(data: dict, i: int) -> None:
+    """Refuse a design number outside the range of that input (hydraulics.validate.LIMITS), in SI as in the file."""
+    for path, name, value in _design_numbers(data["channels"][i]):
+        if isinstance(value, (int, float)) and not isinstance(value, bool):
+            problem = hv.outside_limit(name, float(value))
+            if problem:
+                raise ProjectFileError(f"{field_label(['channels', i, *path], data)}: {problem}")
 
 
 #: Upgrades from each older schema version to the next: {old_version: function(doc) -> doc}.
@@ -363,6 +392,7 @@ def loads(text: str) -> Project:
     refused with a ProjectFileError naming the channel and the field."""
     if len(text) > MAX_FILE_BYTES:
         raise ProjectFileError(_too_large(len(text.encode("utf-8", "surrogatepass"))))
+    text = text.removeprefix("\ufeff")   # a byte-order mark read as text
     try:
         data = json.loads(text, parse_float=_parse_float, parse_int=_parse_int, parse_constant=_NotFinite,
                           object_pairs_hook=_object)
@@ -392,7 +422,7 @@ def load(path) -> Project:
             raw = fh.read(MAX_FILE_BYTES + 1)   # the size on disk can change, or be unknown (a pipe)
         if len(raw) > MAX_FILE_BYTES:
             raise ProjectFileError(_too_large(len(raw)))
-        text = raw.decode("utf-8")
+        text = raw.decode("utf-8-sig")   # a byte-order mark, as some Windows editors write, is accepted
     except FileNotFoundError:
         raise ProjectFileError(f"no such file: {path}") from None
     except UnicodeDecodeError as exc:
@@ -403,13 +433,14 @@ def load(path) -> Project:
     return loads(text)
 
 
-def save(project: Project, path) -> None:
-    """Write atomically (temporary file in the same folder, fsync, then os.replace).
+def save(project: Project, path, *, private: bool = False) -> None:
+    """Write atomically (temporary file in the same folder, fsync, then os.replace); through a symbolic link,
+    the file it points to. ``private`` (autosaves) makes the file readable by its owner only.
 
     Raises ProjectSaveError before anything is written when the project holds a value no file can keep,
     and OSError when the file cannot be written; either way the old file is left as it was.
     """
-    write_atomic(path, _serialise(project))
+    write_atomic(path, _serialise(project), private=private)
 
 
 def demo_path():

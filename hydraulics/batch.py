@@ -51,6 +51,7 @@ from .linings.hec15 import ValidityWarning
 from .sections import Circle, Trapezoid
 from .stability import shear_checks
 from .solvers import flow_at_depth, max_flow
+from . import validate
 from .validate import MAX_SLOPE
 from .wording import in_units
 
@@ -259,6 +260,13 @@ def screen(reaches: Reaches, display: hu.UnitSystem = hu.SI) -> np.ndarray:
         lambda i: f"shape: must be trapezoid, triangle, rectangle or circle, got {shape[i]!r}"
                   + (" (an inventory has no columns for a parabola's top width)" if shape[i] == "parabola" else ""))
 
+    def outside(name, values, where):
+        """Reaches among ``where`` whose ``name`` lies outside its design range (validate.LIMITS)."""
+        limit = validate.limit_for(name)
+        with np.errstate(invalid="ignore"):
+            bad = where & ~limit.holds(values)
+        add(bad, lambda i: f"{name}: {validate.outside_limit(name, float(values[i]), display)}")
+
     def unreadable(name):
         return reaches.unreadable.get(name, np.zeros(size, dtype=bool))
 
@@ -279,6 +287,7 @@ def screen(reaches: Reaches, display: hu.UnitSystem = hu.SI) -> np.ndarray:
                 bad = (v <= 0) if strict else (v < 0)
                 add(rows & bad, lambda i, name=name, q=q, op=">" if strict else ">=":
                     f"{name}: must be {op} 0, got {q(i)}")
+                outside(name, v, rows & (v > 0))
             else:
                 add(rows & (v != 0) & ~np.isnan(v),
                     lambda i, name=name, kind=kind, q=q:
@@ -293,6 +302,7 @@ def screen(reaches: Reaches, display: hu.UnitSystem = hu.SI) -> np.ndarray:
     q = reaches.flow
     add(missing("flow"), "flow: is missing")
     add(q <= 0, lambda i, f=_quote(q, "flow", display): f"flow: must be > 0, got {f(i)}")
+    outside("flow", q, q > 0)
 
     s = reaches.slope
     add(missing("slope"), "slope: is missing")
@@ -300,17 +310,20 @@ def screen(reaches: Reaches, display: hu.UnitSystem = hu.SI) -> np.ndarray:
                           f"normal depth), got {_fmt(s[i])}")
     add(s > MAX_SLOPE, lambda i: f"slope: must be a ratio <= {MAX_SLOPE:g}, got {_fmt(s[i])}; if you meant "
                                  f"{_fmt(s[i])} %, enter {_fmt(s[i] / 100)}")
+    outside("slope", s, (s > 0) & (s <= MAX_SLOPE))
 
     n = reaches.n
     no_lining = ~reaches.named
     add(missing("n") & no_lining, "n, lining: give Manning's n or a lining")
     add((n <= 0) | (n > 1), lambda i: f"n: must be > 0 and <= 1, got {_fmt(n[i])} (Manning's n is a small "
                                       "number such as 0.013)")
+    outside("n", n, (n > 0) & (n <= 1))
 
     d50 = reaches.d50
     add(d50 < 0, lambda i, f=_quote(d50, "length", display): f"d50: must be > 0 (or blank), got {f(i)}")
     add(no_lining & (d50 > 0), lambda i, f=_quote(d50, "length", display):
         f"d50: applies to a stone lining and no lining is named, got {f(i)}")
+    outside("d50", d50, (d50 > 0) & ~no_lining)
 
     out = text_array(size)
     notes = reaches.notes

@@ -44,7 +44,7 @@ def refused(capsys, argv, *words, status=2):
 # ------------------------------------------------------------ calc --lining
 
 def test_calc_json_contract_gravel_example(capsys):
-    out = run_json(capsys, GRAVEL_SI + ["--lining", "gravel"])
+    out = run_json(capsys, GRAVEL_SI + ["--lining", "gravel:0.025"])
     assert {"normal_depth", "manning_n", "units", "warnings", "lining", "stability"} <= set(out)
     assert out["lining"]["key"] == "gravel" and out["lining"]["name"] and out["lining"]["n_used"] == out["manning_n"]
     st = out["stability"]
@@ -84,7 +84,7 @@ def test_calc_rigid_lining(capsys):
 
 
 def test_calc_table_with_lining(capsys):
-    assert main(GRAVEL_SI + ["--lining", "gravel"]) == 0
+    assert main(GRAVEL_SI + ["--lining", "gravel:0.025"]) == 0
     text = capsys.readouterr().out
     for words in ("Lining stability", "Gravel mulch", "Permissible shear", "not stable", "Smallest stable D50",
                   "Total ditch depth", "Freeboard rule", "filter"):
@@ -119,7 +119,7 @@ COMPARE = ["compare", "--units", "si", "--flow", "0.8", "--slope", "0.02", "--bo
 
 
 def test_compare_json_is_a_list_of_rows(capsys):
-    rows = run_json(capsys, COMPARE + ["--lining", "concrete", "--lining", "riprap:0.2", "--lining", "gravel",
+    rows = run_json(capsys, COMPARE + ["--lining", "concrete", "--lining", "riprap:0.2", "--lining", "gravel:0.025",
                                        "--bend-radius", "15"])
     assert isinstance(rows, list) and [r["lining"] for r in rows] == ["concrete", "riprap", "gravel"]
     keys = {"depth", "velocity", "froude", "manning_n", "design_shear", "permissible_shear", "safety_factor",
@@ -152,7 +152,7 @@ def test_compare_table(capsys):
     (["--lining", "riprap", "--d50", "nan"], ["--d50"]),
     (["--lining", "riprap", "--bend-radius", "0"], ["--bend-radius"]),
     (["--lining", "riprap", "--bend-radius", "-5"], ["--bend-radius"]),
-    (["--lining", "riprap", "--bend-radius", "1"], ["--bend-radius", "half the water-surface width", "ft"]),
+    (["--lining", "riprap:0.5", "--bend-radius", "1"], ["--bend-radius", "half the water-surface width", "ft"]),
     (["--lining", "riprap", "--min-freeboard", "-0.1"], ["--min-freeboard"]),
     (["--lining", "riprap", "--min-freeboard", "inf"], ["--min-freeboard"]),
     (["--lining", "blanket_user"], ["--lining blanket_user", "roughness.n", "--user-catalogue"]),

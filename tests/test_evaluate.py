@@ -117,7 +117,7 @@ def test_to_dict_matches_the_calc_json(capsys, cat):
                  section={"shape": "trapezoid", "bottom_width": 0.4, "left_slope": 3.0, "right_slope": 3.0})
     d = evaluate_channel(ch, cat).to_dict(SYSTEMS["si"])
     assert main(["calc", "--units", "si", "--flow", "0.42", "--slope", "0.008", "--bottom-width", "0.4",
-                 "--side-slope", "3", "--lining", "gravel", "--bend-radius", "6", "--json"]) == 0
+                 "--side-slope", "3", "--lining", "gravel:0.025", "--bend-radius", "6", "--json"]) == 0
     cli = json.loads(capsys.readouterr().out)
     for key in ("normal_depth", "velocity", "froude", "manning_n", "lining", "stability", "units"):
         assert d[key] == cli[key]

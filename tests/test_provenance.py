@@ -131,3 +131,21 @@ def test_every_demo_design_marks_what_it_cites(units):
             assert pv.unmarked(text) == [], (channel.name, text)
         assert design.to_dict()["not_verified"] == design.not_verified
         assert all(line in pv.not_verified_lines() for line in design.not_verified)
+
+
+def test_the_lowest_n_allowed_is_below_every_n_of_chows_table():
+    """hydraulics.validate.LIMITS["n"] cites Chow (1959) Table 5-6 as transcribed in the fluids library: its lowest
+    value (0.008) must stay inside the range the program accepts."""
+    from fluids import open_flow
+    from hydraulics.validate import LIMITS
+    values = []
+
+    def walk(table):
+        for v in table.values():
+            if isinstance(v, dict):
+                walk(v)
+            elif isinstance(v, (tuple, list)):
+                values.extend(x for x in v if isinstance(x, (int, float)))
+    for name in ("n_closed_conduit", "n_excavated_dredged", "n_lined_built", "n_natural"):
+        walk(getattr(open_flow, name))
+    assert min(values) == 0.008 and LIMITS["n"].low < min(values) and max(values) < LIMITS["n"].high

@@ -58,6 +58,8 @@ def run(args) -> int:
         raise CliError(f"the results file {target} is the inventory itself; write the results elsewhere")
     if args.plot is not None and Path(args.plot).suffix.lower() not in ab.PLOT_FORMATS:
         raise CliError(f"--plot {args.plot}: the name must end in {', '.join(ab.PLOT_FORMATS)}")
+    if args.plot is not None and not Path(args.plot).resolve().parent.is_dir():
+        raise CliError(f"--plot {args.plot}: no such folder: {Path(args.plot).resolve().parent}")
     catalogue = None
     if args.user_catalogue is not None:
         try:
@@ -87,6 +89,10 @@ def run(args) -> int:
     print(ab.summary(inventory, result, elapsed))
     print(f"  results: {target}")
     if args.plot is not None:
-        ab.plot_summary(result, args.plot, title=f"Ditch inventory {source.name}")
+        try:
+            ab.plot_summary(result, args.plot, title=f"Ditch inventory {source.name}")
+        except OSError as exc:
+            raise CliError(f"--plot {args.plot}: cannot write the plot: {exc.strerror or exc} (the results were "
+                           f"written to {target})") from None
         print(f"  plot: {args.plot}")
     return 1 if result.counts()["invalid"] else 0

@@ -13,7 +13,8 @@ from ..results import CHANNEL_FIELDS, convert, format_value
 from ..verdicts import Verdict, verdict_of
 from .common import (CliError, add_channel_options, check_dimensions, check_numbers, emit_json, require, section_from_args,
                      side_slopes, table, unit_labels)
-from .lining_args import add_lining_options, catalogue_from_args, choice_from_text, explain, lining_options_si
+from .lining_args import (add_lining_options, catalogue_from_args, choice_from_text, explain, lining_options_si,
+                          require_stone_size)
 
 HELP = "compute normal and critical depth, velocity, Froude number and shear for one channel"
 
@@ -48,6 +49,7 @@ def _lining(args, units):
     catalogue = catalogue_from_args(args)
     try:
         lining = catalogue.get(key)
+        require_stone_size(lining, d50, units, args.lining)
         lining.roughness(d50)  # refuses a D50 for a lining that takes none, and unfilled user data
     except InputError as exc:
         raise explain(exc, units) from None

@@ -13,6 +13,7 @@ import sys
 
 import hydraulics as hy
 from hydraulics import units as hu
+from hydraulics import validate as hv
 
 SHAPE_DIMENSIONS = {
     # shape: (required options, options that may be given)
@@ -68,7 +69,9 @@ _NUMBER_RULES = {
 
 
 def check_numbers(args) -> None:
-    """Every numeric option given must be finite and in its basic range (exit 2 otherwise)."""
+    """Every numeric option given must be finite and in its basic range, then within the range of a design
+    input (hydraulics.validate.LIMITS) (exit 2 otherwise)."""
+    units = hu.system(args.units)
     for field, (low, inclusive) in _NUMBER_RULES.items():
         value = getattr(args, field, None)
         if value is None:
@@ -78,6 +81,20 @@ def check_numbers(args) -> None:
         if value < low or (value == low and not inclusive):
             op = ">=" if inclusive else ">"
             raise CliError(f"{option_name(field)} must be {op} {low:g}, got {value:g}")
+        check_limit(field, value, units)
+
+
+def check_limit(field: str, value: float, units: hu.UnitSystem, option: str | None = None) -> None:
+    """Refuse a value typed in ``units`` that lies outside the design range of ``field`` (hydraulics.validate)."""
+    limit = hv.limit_for(field)
+    if limit is None:
+        return
+    si = float(units.to_si(limit.quantity, value))
+    if field == "slope" and si > hv.MAX_SLOPE:
+        return  # the core refuses it with its hint that the slope looks like a percentage
+    problem = hv.outside_limit(field, si, units, typed=value)
+    if problem:
+        raise CliError(f"{option or option_name(field)} {problem}")
 
 
 def require(args, *fields):

@@ -8,7 +8,8 @@ from hydraulics.stability import check_lining, compare_linings
 from hydraulics.wording import in_units
 
 from .common import CliError, add_channel_options, check_numbers, emit_json, require, section_from_args
-from .lining_args import add_lining_options, catalogue_from_args, choice_from_text, explain, lining_options_si
+from .lining_args import (add_lining_options, catalogue_from_args, choice_from_text, explain, lining_options_si,
+                          require_stone_size)
 
 HELP = "compare linings for one channel: depth, shear, safety factor, verdict, quantities and cost"
 
@@ -63,6 +64,11 @@ def run(args) -> int:
     require(args, "flow", "slope")
     choices = [choice_from_text(text, units) for text in args.lining]
     catalogue = catalogue_from_args(args)
+    for text, (key, d50) in zip(args.lining, choices):
+        try:
+            require_stone_size(catalogue.get(key), d50, units, text, d50_option=False)
+        except InputError as exc:
+            raise explain(exc, units) from None
     section = section_from_args(args)
     flow = units.to_si("flow", args.flow)
     options = lining_options_si(args, units)

@@ -14,7 +14,7 @@ from hydraulics.errors import InputError
 from hydraulics.linings import CatalogueError, hec15, load_catalogue
 from hydraulics.stability import parse_choice
 
-from .common import _NUMBER_RULES, CliError
+from .common import _NUMBER_RULES, CliError, check_limit
 
 _NUMBER_RULES.setdefault("min_freeboard", (0.0, True))
 
@@ -47,6 +47,8 @@ def catalogue_from_args(args):
         return load_catalogue(user_path=path)
     except CatalogueError as exc:
         raise CliError(f"--user-catalogue: {exc}") from None
+    except OSError as exc:   # unreadable (permissions), a folder, a device that fails
+        raise CliError(f"--user-catalogue: cannot read {path}: {exc.strerror or exc}") from None
 
 
 def choice_from_text(text: str, units: hu.UnitSystem):
@@ -59,8 +61,18 @@ def choice_from_text(text: str, units: hu.UnitSystem):
             raise CliError(f"--lining {text}: D50 {message}") from None
         raise CliError(f"--lining: {message}") from None
     if d50 is not None:
+        check_limit("d50", d50, units, option=f"--lining {text}: D50")
         d50 = units.to_si("length", d50)
     return key, d50
+
+
+def require_stone_size(lining, d50, units: hu.UnitSystem, typed: str, d50_option: bool = True) -> None:
+    """Refuse a stone lining chosen without its D50: the catalogue's typical size is no design value."""
+    if d50 is None and lining.category == "stone":
+        typical = "" if lining.d50 is None else \
+            f" (the catalogue's typical {units.from_si('length', lining.d50):.3g} {units.label('length')} is not assumed)"
+        raise CliError(f"--lining {typed}: give the stone size D50 in {units.label('length')}, as "
+                       f"--lining {lining.key}:D50{' or --d50 D' if d50_option else ''}{typical}")
 
 
 def lining_options_si(args, units: hu.UnitSystem) -> dict:

@@ -10,6 +10,7 @@ program has ended without cleaning up) is offered for recovery.
 
 from __future__ import annotations
 
+import dataclasses
 import json
 import time
 import uuid
@@ -19,6 +20,7 @@ from pathlib import Path
 from PySide6.QtCore import QLockFile, QObject, QTimer, Signal
 
 from .. import project as pj
+from ..files import FileStamp, remove_stale_temporaries, write_atomic
 from .settings import data_folder
 
 INTERVAL_MS = 30_000
@@ -35,6 +37,8 @@ class Recoverable:
     original: str            # the file it was opened from, "" if it was never saved
     saved_at: float          # time.time() of the autosave
     name: str                # project name
+    original_stamp: FileStamp | None = None   # the original file as the autosaved work last read or wrote it
+
 
     def discard(self) -> None:
         folder = self.project_file.parent
@@ -72,8 +76,19 @@ def find_recoverable(own_session: str | None = None) -> list[Recoverable]:
             continue
         found.append(Recoverable(session, project_file, str(meta.get("original", "")),
                                  float(meta.get("saved_at", project_file.stat().st_mtime)),
-                                 str(meta.get("name", ""))))
+                                 str(meta.get("name", "")), _stamp_from(meta)))
     return sorted(found, key=lambda r: r.saved_at, reverse=True)
+
+
+def _stamp_from(meta: dict) -> FileStamp | None:
+    """The original file's stamp kept in an autosave's note; unknown (so a save over it always asks) when the
+    note has none or a damaged one, and None for work that never had a file."""
+    if not meta.get("original"):
+        return None
+    try:
+        return FileStamp(**meta["original_stamp"])
+    except (KeyError, TypeError):
+        return FileStamp(-1, 0, "")
 
 
 def save_failure_reason(exc: BaseException) -> str:
@@ -100,6 +115,7 @@ class Autosaver(QObject):
         self.session = uuid.uuid4().hex
         self.folder = autosave_folder()
         self.folder.mkdir(parents=True, exist_ok=True)
+        remove_stale_temporaries(self.folder)   # left by an autosave that was killed part way
         self.lock = _lock(self.folder, self.session)
         self.lock.tryLock(0)
         self._written_index = None
@@ -126,9 +142,10 @@ class Autosaver(QObject):
         if index == self._written_index and self.project_file.exists():
             return False
         try:
-            pj.save(self.doc.project, self.project_file)
-            meta = {"original": str(self.doc.path or ""), "saved_at": time.time(), "name": self.doc.project.name}
-            self.meta_file.write_text(json.dumps(meta, ensure_ascii=True), encoding="utf-8")
+            pj.save(self.doc.project, self.project_file, private=True)
+            meta = {"original": str(self.doc.path or ""), "saved_at": time.time(), "name": self.doc.project.name,
+                    "original_stamp": dataclasses.asdict(self.doc.stamp) if self.doc.stamp else None}
+            write_atomic(self.meta_file, json.dumps(meta, ensure_ascii=True), private=True)
         except Exception as exc:  # noqa: BLE001 - whatever the reason, the user must hear that work is unprotected
             reason = save_failure_reason(exc)
             if reason != self.last_error:

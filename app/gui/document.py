@@ -16,6 +16,7 @@ from PySide6.QtGui import QUndoStack
 import hydraulics as hy
 
 from .. import project as pj
+from ..files import FileChangedError, FileStamp
 from . import commands as cmd
 
 
@@ -113,6 +114,7 @@ class ProjectDocument(QObject):
         self.undo_stack = QUndoStack(self)
         self.project = project or new_project()
         self.path = Path(path) if path else None
+        self.stamp = FileStamp.of(self.path) if self.path else None   # the file as we last read or wrote it
         self.current = 0
         self.recovered = False   # loaded from an autosave: unsaved although the history is empty
         self.revision = 0        # counts every change, including merged typing
@@ -129,9 +131,11 @@ class ProjectDocument(QObject):
     def channel(self, index: int | None = None) -> pj.Channel:
         return self.project.channels[self.current if index is None else index]
 
-    def load(self, project: pj.Project, path=None, recovered: bool = False) -> None:
+    def load(self, project: pj.Project, path=None, recovered: bool = False, stamp: FileStamp | None = None) -> None:
+        """Show ``project``, read from ``path`` (``stamp``: the file as it was read; taken now when not given)."""
         self.project = project
         self.path = Path(path) if path else None
+        self.stamp = stamp if stamp is not None or self.path is None else FileStamp.of(self.path)
         self.current = 0
         self.recovered = recovered
         self.revision += 1
@@ -139,13 +143,21 @@ class ProjectDocument(QObject):
         self.undo_stack.setClean()
         self.reset.emit()
 
-    def save(self, path=None) -> Path:
-        """Write the project atomically; the document becomes unmodified."""
+    def save(self, path=None, overwrite: bool = False) -> Path:
+        """Write the project atomically; the document becomes unmodified.
+
+        Saving over the file it was opened from (or last saved to) raises FileChangedError, writing nothing,
+        when someone else has changed that file since; ``overwrite`` saves anyway.
+        """
         target = Path(path) if path else self.path
         if target is None:
             raise ValueError("no file name given for an untitled project")
+        if not overwrite and self.stamp is not None and self.path is not None and target == self.path \
+                and self.stamp.changed_on_disk(target):
+            raise FileChangedError(target, self.stamp, FileStamp.of(target))
         pj.save(self.project, target)
         self.path = target
+        self.stamp = FileStamp.of(target)
         self.recovered = False
         self.undo_stack.setClean()
         return target

@@ -17,6 +17,7 @@ from PySide6.QtCore import QEvent, QLocale, QObject, Qt, Signal
 from PySide6.QtGui import QKeySequence
 from PySide6.QtWidgets import QGridLayout, QLabel, QLineEdit, QPlainTextEdit, QSizePolicy
 
+from hydraulics import validate as hv
 from hydraulics.units import UnitSystem
 
 NO_UNIT = "–"
@@ -397,6 +398,9 @@ class NumberField(QObject):
         if low is not None and (value < low or (value == low and not spec.low_inclusive)) or \
            high is not None and (value > high or (value == high and not spec.high_inclusive)):
             raise ValueError(f"{spec.label} must be {spec.allowed(units)}; {text.strip()} is outside.")
+        limit = hv.limit_for(spec.path.rsplit(".", 1)[-1])   # the design range shared with files and CLI
+        if limit is not None and not limit.holds(value):
+            raise ValueError(f"{spec.label} must be {limit.describe(units)}; {text.strip()} is outside.")
         return value
 
     def _typed(self, text: str) -> None:

@@ -18,6 +18,7 @@ import hydraulics as hy
 from .. import __version__
 from .. import project as pj
 from .. import sheet as sh
+from ..files import FileChangedError, FileStamp
 from . import compute, settings
 from .autosave import Autosaver, find_recoverable, save_failure_reason
 from .comparison import ComparisonView
@@ -431,12 +432,13 @@ class MainWindow(QMainWindow):
         """Open ``path``; a file that cannot be read is refused with its reason and nothing changes."""
         if ask and not self.maybe_save():
             return False
+        stamp = FileStamp.of(path)   # before reading: a change made meanwhile is then seen at the next save
         try:
             project = pj.load(path)
         except pj.ProjectFileError as exc:
             QMessageBox.warning(self, "Cannot open the project", f"{path}\n\n{exc}.\n\nNothing was changed.")
             return False
-        self.doc.load(project, path)
+        self.doc.load(project, path, stamp=stamp)
         self._remember(path)
         self._after_file_change(f"Opened {path}.")
         return True
@@ -464,9 +466,11 @@ class MainWindow(QMainWindow):
             path += ".json"
         return self._write(Path(path))
 
-    def _write(self, path: Path) -> bool:
+    def _write(self, path: Path, overwrite: bool = False) -> bool:
         try:
-            self.doc.save(path)
+            self.doc.save(path, overwrite=overwrite)
+        except FileChangedError:
+            return self._changed_on_disk(path)
         except Exception as exc:  # noqa: BLE001 - any failure is shown; the work stays open and unsaved
             QMessageBox.critical(self, "Could not save", f"The project was not saved to {path}:\n\n"
                                  f"{save_failure_reason(exc)}\n\nThe file on disk is unchanged; your work is "
@@ -478,6 +482,38 @@ class MainWindow(QMainWindow):
         self.update_title()
         self.statusBar().showMessage(f"Saved to {path}.", 6000)
         return True
+
+    def _changed_on_disk(self, path: Path) -> bool:
+        """Someone else changed ``path`` since we read or wrote it: save elsewhere, reload theirs, or overwrite."""
+        choice = self.ask_file_changed(path)
+        if choice == "save_as":
+            return self.save_as()
+        if choice == "reload":
+            if self.open_file(path, ask=False):
+                self.statusBar().showMessage(f"Reloaded {path} as it is on disk now; your changes were dropped.",
+                                             10000)
+            return False
+        if choice == "overwrite":
+            return self._write(path, overwrite=True)
+        self.statusBar().showMessage("Not saved: the file was changed by someone else. Your work is still open "
+                                     "here (and in the automatic copy).", 10000)
+        return False
+
+    def ask_file_changed(self, path: Path) -> str:
+        """"save_as", "reload", "overwrite" or "cancel" when ``path`` changed on disk since it was opened or saved."""
+        box = QMessageBox(QMessageBox.Icon.Warning, "The file was changed",
+                          f"{path}\n\nhas been changed by another program or person since you opened or saved it "
+                          "here. Saving over it would lose their changes.\n\n"
+                          "Save your work under another name, reload the file as it is now (your unsaved changes "
+                          "are dropped), or overwrite it with your work (their changes are lost)?", parent=self)
+        save_as = box.addButton("Save as...", QMessageBox.ButtonRole.AcceptRole)
+        reload_ = box.addButton("Reload theirs", QMessageBox.ButtonRole.DestructiveRole)
+        overwrite = box.addButton("Overwrite", QMessageBox.ButtonRole.DestructiveRole)
+        box.addButton(QMessageBox.StandardButton.Cancel)
+        box.setDefaultButton(save_as)
+        box.exec()
+        clicked = box.clickedButton()
+        return {save_as: "save_as", reload_: "reload", overwrite: "overwrite"}.get(clicked, "cancel")
 
     def autosave_failed(self, reason: str) -> None:
         """Say once that unsaved work is not being copied; the work stays open."""
@@ -524,7 +560,7 @@ class MainWindow(QMainWindow):
             except pj.ProjectFileError as exc:
                 QMessageBox.warning(self, "Cannot recover", f"The automatic copy cannot be read: {exc}.")
                 return False
-            self.doc.load(project, r.original or None, recovered=True)
+            self.doc.load(project, r.original or None, recovered=True, stamp=r.original_stamp)
             r.discard()
             self.update_title()
             self.statusBar().showMessage("Recovered the automatic copy; save it to keep it.", 10000)
