@@ -48,3 +48,33 @@ def test_imports_run_from_app_down_to_hydraulics_only():
             names = [a.name for a in node.names] if isinstance(node, ast.Import) else \
                 [node.module or ""] if isinstance(node, ast.ImportFrom) and node.level == 0 else []
             assert not any(n == "app" or n.startswith("app.") for n in names), path
+
+
+def test_the_table_of_input_ranges_agrees_with_the_project_schema():
+    """One table of input ranges (hydraulics.validate.LIMITS) and the published project schema say the same about
+    which inputs may be zero: a schema "non_negative" input is one the table lets be 0, a "positive" one is not."""
+    import json
+
+    from hydraulics.validate import LIMITS
+    schema = json.loads((ROOT / "resources" / "project.schema.json").read_text(encoding="utf-8"))
+    defs = schema["$defs"]
+    kinds = {}    # input name -> set of schema kinds it is given
+    for branch in defs["section"]["allOf"]:
+        for name, spec in branch["then"]["properties"].items():
+            if isinstance(spec, dict) and spec.get("$ref", "").split("/")[-1] in ("positive", "non_negative"):
+                kinds.setdefault(name, set()).add(spec["$ref"].split("/")[-1])
+    channel = defs["channel"]["properties"]
+    kinds.setdefault("slope", set()).add(channel["slope"]["$ref"].split("/")[-1])
+    kinds.setdefault("flow", set()).add(channel["flow"]["properties"]["value"]["$ref"].split("/")[-1])
+    kinds.setdefault("n", set()).add("positive")                      # manning_n: positive_or_null
+    kinds.setdefault("bend_radius", set()).add("positive")            # positive_or_null
+    kinds.setdefault("min_freeboard", set()).add("non_negative" if channel["min_freeboard"]["minimum"] == 0
+                                                 else "positive")
+    assert set(kinds) <= set(LIMITS), set(kinds) - set(LIMITS)
+    for name, found in kinds.items():
+        limit = LIMITS[name]
+        zero_ok = limit.zero or limit.low == 0
+        if found == {"positive"}:
+            assert not zero_ok, name
+        if "non_negative" in found:
+            assert zero_ok, name
