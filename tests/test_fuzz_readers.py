@@ -1,0 +1,108 @@
+"""Every reader of outside data ends in a result or a clear refusal, never a traceback (issue 18, item 12).
+
+Hypothesis feeds the project-file reader, the lining catalogue reader and the inventory reader with damaged copies
+of real files and with arbitrary text; each must return its object or raise its own refusal (ProjectFileError,
+CatalogueError/InputError, InventoryError), and a refused file is left as it was on disk. The budget is fixed
+(examples per test below) so that CI time stays bounded. Inputs are invented.
+"""
+
+from __future__ import annotations
+
+import hashlib
+
+from hypothesis import HealthCheck, given, settings
+from hypothesis import strategies as st
+
+from app import batch as ab
+from app import project as P
+from hydraulics.errors import HydraulicsError
+from hydraulics.linings import load_catalogue
+from hydraulics.linings.catalogue import CatalogueError
+
+BUDGET = settings(max_examples=150, deadline=None, suppress_health_check=[HealthCheck.too_slow,
+                                                                         HealthCheck.function_scoped_fixture])
+DEMO = P.demo_path().read_text(encoding="utf-8")
+CATALOGUE = ('schema_version = 1\n[[lining]]\nkey = "my_mat"\nname = "Invented mat"\ncategory = "manufactured"\n'
+             'unit_cost = 12.0\nunit_cost_basis = "area"\n[lining.roughness]\nmodel = "constant"\nn = 0.03\n'
+             'source = "invented"\n[lining.permissible]\nmethod = "value"\nshear = 100.0\nsource = "invented"\n'
+             '[lining.thickness]\nrule = "none"\nsource = "invented"\n')
+INVENTORY = ("id,shape,bottom_width,left_slope,right_slope,diameter,slope,flow,lining,d50,n\n"
+             "A,trapezoid,2,3,3,,0.004,20,,,0.03\n"
+             "B,circle,,,,2,0.01,10,concrete,,\n"
+             "C,trapezoid,1,2,2,,0.02,8,riprap,0.5,\n")
+
+
+def _damaged(text: str):
+    """A copy of ``text`` with a few characters changed, removed or inserted, or cut short."""
+    return st.tuples(st.lists(st.tuples(st.integers(0, max(len(text) - 1, 0)), st.sampled_from(["del", "ins", "set"]),
+                                        st.characters(blacklist_categories=("Cs",))), min_size=1, max_size=6),
+                     st.integers(1, len(text))).map(lambda t: _apply(text, *t))
+
+
+def _apply(text: str, edits, cut) -> str:
+    chars = list(text[:cut])
+    for at, how, ch in edits:
+        at = min(at, len(chars))
+        if how == "del" and at < len(chars):
+            del chars[at]
+        elif how == "ins":
+            chars.insert(at, ch)
+        elif at < len(chars):
+            chars[at] = ch
+    return "".join(chars)
+
+
+@BUDGET
+@given(st.one_of(_damaged(DEMO), st.text(max_size=300)))
+def test_project_reader_refuses_cleanly_and_leaves_the_file(tmp_path_factory, text):
+    path = tmp_path_factory.mktemp("fuzz") / "p.json"
+    path.write_text(text, encoding="utf-8", errors="surrogatepass")
+    before = hashlib.sha256(path.read_bytes()).hexdigest()
+    try:
+        project = P.load(path)
+    except P.ProjectFileError as exc:
+        assert str(exc) and len(str(exc)) < 2000     # one message, not a dump
+    else:
+        assert project.channels      # a file that loads is a project that can be saved again
+        P.dumps(project)
+    assert hashlib.sha256(path.read_bytes()).hexdigest() == before
+
+
+@BUDGET
+@given(st.one_of(_damaged(CATALOGUE), st.text(max_size=300)))
+def test_catalogue_reader_refuses_cleanly(tmp_path_factory, text):
+    path = tmp_path_factory.mktemp("fuzz") / "user.toml"
+    path.write_text(text, encoding="utf-8", errors="surrogatepass")
+    try:
+        catalogue = load_catalogue(user_path=path)
+    except (CatalogueError, HydraulicsError) as exc:
+        assert str(exc)
+    else:
+        assert len(list(catalogue)) > 0
+
+
+def test_the_undamaged_files_are_read():
+    """The fuzzed files are real ones: each reader takes them as they are (so a damaged copy tests a refusal)."""
+    import tempfile
+    from pathlib import Path
+    path = Path(tempfile.mkdtemp()) / "user.toml"
+    path.write_text(CATALOGUE, encoding="utf-8")
+    assert load_catalogue(user_path=path).get("my_mat").unit_cost == 12.0
+    assert len(P.loads(DEMO).channels) == 5
+    assert ab.evaluate(ab.parse_inventory(INVENTORY, "us")).verdict.tolist() == ["hydraulics-only", "non-erodible",
+                                                                                  "stable"]
+
+
+@BUDGET
+@given(st.one_of(_damaged(INVENTORY), st.text(max_size=300)), st.sampled_from(["us", "si"]))
+def test_inventory_reader_refuses_cleanly_or_checks_every_row(text, units):
+    try:
+        inventory = ab.parse_inventory(text, units)
+    except ab.InventoryError as exc:
+        assert str(exc)
+        return
+    result = ab.evaluate(inventory)
+    assert len(result.verdict) == len(inventory)
+    assert set(result.verdict.tolist()) <= {"stable", "unstable", "non-erodible", "hydraulics-only", "not-checked",
+                                            "no-solution", "invalid"}
+    ab.format_results(inventory, result)      # and the results file can be written
