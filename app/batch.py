@@ -303,8 +303,9 @@ def parse_inventory(text: str | bytes, units: str = "us", source: str = "invento
             if inventory is not None:
                 return inventory
         text = text.decode("ascii")
-    text = text.replace("\r\n", "\n").replace("\r", "\n") if "\r" in text else text
     fast = '"' not in text
+    if fast and "\r" in text:   # the csv module takes any line end itself and keeps a quoted field's as written
+        text = text.replace("\r\n", "\n").replace("\r", "\n")
     if fast:
         inventory = _parse_arrow(text.encode("utf-8"), system, source)
         if inventory is not None:
@@ -481,11 +482,16 @@ MAX_EXTRA_SHOWN = 5
 MAX_EXTRA_CHARS = 40
 
 
+def _fields(row: str) -> list:
+    """The fields of one CSV record as written (a quoted field may hold a line break of any kind)."""
+    return next(csv.reader(io.StringIO(row, newline="")), [])
+
+
 def _csv_line(fields) -> str:
     """Fields as one CSV record (quoted where needed, line breaks inside quotes), without its line end."""
     buf = io.StringIO()
-    csv.writer(buf, lineterminator="\n").writerow(fields)  # "\n" also makes fields holding it quoted
-    return buf.getvalue()[:-1]
+    csv.writer(buf, lineterminator="\r\n").writerow(fields)  # makes a field holding \r or \n quoted
+    return buf.getvalue()[:-2]
 
 
 def read_inventory(path, units: str = "us") -> Inventory:
@@ -584,7 +590,7 @@ def _results_pieces(inventory: Inventory, result: hb.BatchResult) -> list:
 
 def _safe_record(row: str) -> tuple[str, int]:
     """(the CSV record ``row`` with every formula-like cell given an apostrophe, how many were)."""
-    fields = next(csv.reader([row]), [])
+    fields = _fields(row)
     safe = [spreadsheet_safe(f) for f in fields]
     changed = sum(a is not b for a, b in zip(safe, fields))
     return (_csv_line(safe), changed) if changed else (row, 0)
@@ -888,7 +894,7 @@ def plot_summary(result: hb.BatchResult, path, title: str = "Ditch inventory") -
 # ----------------------------------------------------------------------------- for the window
 
 def _row_fields(inventory: Inventory, i: int) -> list:
-    return next(csv.reader([inventory.rows[i]]))
+    return _fields(inventory.rows[i])
 
 
 @dataclass

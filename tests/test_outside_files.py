@@ -102,3 +102,24 @@ def test_a_project_file_with_a_byte_order_mark_opens(tmp_path):
     path.write_bytes(b"\xef\xbb\xbf" + text.encode("utf-8"))
     assert pj.load(path).name == json.loads(text)["name"]
     assert pj.loads("\ufeff" + text).name == json.loads(text)["name"]
+
+
+def test_a_carriage_return_inside_a_quoted_field_stays_in_its_record():
+    """Issue 18: a bare carriage return inside a quoted field neither splits the record nor changes the field;
+    the results file quotes it and reads back with the same records. Line ends of any kind still end records."""
+    import csv
+    import io
+
+    from app import batch as ab
+    head = "id,shape,bottom_width,left_slope,right_slope,diameter,slope,flow,lining,d50,n,note"
+    row_b = "B,trapezoid,2,3,3,,0.004,20,,,0.03,z"
+    for end in ("\r\n", "\n", "\r"):
+        text = head + end + 'A,trapezoid,2,3,3,,0.004,20,,,0.03,"x\ry"' + end + row_b + end
+        inventory = ab.parse_inventory(text, "us")
+        assert len(inventory) == 2, repr(end)
+        out = list(csv.DictReader(io.StringIO(ab.format_results(inventory, ab.evaluate(inventory)), newline="")))
+        assert [r["id"] for r in out] == ["A", "B"] and out[0]["note"] == "x\ry" and out[1]["note"] == "z"
+        assert out[0]["verdict"] == out[1]["verdict"] == "hydraulics-only"
+    # an unquoted file with old-style carriage-return line ends is still read line by line
+    plain = ab.parse_inventory((head + "\r" + row_b + "\r" + row_b.replace("B,", "C,") + "\r"), "us")
+    assert len(plain) == 2
