@@ -114,10 +114,17 @@ def _log_conveyance(section, rough, y, slope, scalar):
 
 _JUMP_MESSAGE = ("no depth carries this flow: the flow falls in a jump of the roughness relation near "
                  "depth {depth:.6g} m (the depth-dependent n is discontinuous there)")
+_CROWN_MESSAGE = ("critical depth lies at {depth:.6g} m, so close to the crown of the pipe that its top width "
+                  "cannot be resolved: for a part-full critical depth this flow is too large for the pipe")
 
 
-def _newton_log_scalar(evaluate, y, lo, hi):
-    """Safeguarded Newton on an increasing g(y), in ln y. Returns (y, iterations, g)."""
+def _newton_log_scalar(evaluate, y, lo, hi, collapsed=_JUMP_MESSAGE):
+    """Safeguarded Newton on an increasing g(y), in ln y. Returns (y, iterations, g).
+
+    When the bracket shrinks to the resolution of a float before |g| reaches the iteration tolerance, the depth
+    is returned if it still meets FLOW_TOLERANCE (g is then limited by rounding in the geometry, as near a pipe's
+    crown), else NoSolutionError with ``collapsed`` (formatted with ``depth``) says why.
+    """
     if not lo < y < hi:
         y = 0.5 * (lo + hi) if math.isfinite(hi) else 1.0
     last_step = step_before_last = math.inf
@@ -138,7 +145,9 @@ def _newton_log_scalar(evaluate, y, lo, hi):
         step_before_last, last_step = last_step, abs(step)
         if slow or not lo < y_new < hi:
             if hi / lo < 1 + 1e-14 if lo > 0 else False:
-                raise NoSolutionError(_JUMP_MESSAGE.format(depth=y))
+                if abs(g) <= FLOW_TOLERANCE:
+                    return y, it, g
+                raise NoSolutionError(collapsed.format(depth=y))
             if not math.isfinite(hi):
                 y_new = 4.0 * y
             elif lo == 0.0:
@@ -353,8 +362,10 @@ def solve_critical_depth(section, flow) -> DepthSolution:
     y0 = section._critical_guess(q)
     if not scalar:
         y0 = np.broadcast_to(y0, shape).astype(float)
-    solver = _newton_log_scalar if scalar else _newton_log_vector
-    y, it, g = solver(evaluate, y0, lo, hi)
+    if scalar:
+        y, it, g = _newton_log_scalar(evaluate, y0, lo, hi, collapsed=_CROWN_MESSAGE)
+    else:
+        y, it, g = _newton_log_vector(evaluate, y0, lo, hi)
     # Residual of the critical condition Q^2 T / (g A^3) = 1, i.e. |Fr^2 - 1|.
     return _finish(y, it, g)
 

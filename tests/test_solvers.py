@@ -247,3 +247,19 @@ def test_flow_inside_a_jump_of_n_has_no_depth():
     with pytest.raises(hy.NoSolutionError, match="jump of the roughness relation"):
         hy.normal_depth(s, 0.5 * (q_below + q_above), 0.01, SmootherAboveHalfMetre())
     assert hy.normal_depth(s, 0.5 * q_below, 0.01, SmootherAboveHalfMetre()) < 0.5
+
+
+def test_critical_depth_next_to_a_pipe_crown():
+    """Issue 18: a critical depth within about 1e-5 D of the crown is found, not refused with a wrong reason.
+    Critical condition Q^2 T / (g A^3) = 1 (Chow 1959, Eq. 4-4); circle A = D^2 (t - sin t) / 8,
+    T = D sin(t / 2), t = 2 arccos(1 - 2 y / D) (Chow 1959, Table 2-1)."""
+    import math
+    d = 1.0
+    y = hy.critical_depth(hy.Circle(diameter=d), 27.0)
+    assert d - y < 2e-5
+    t = 2 * math.acos(1 - 2 * y / d)
+    area, top = d * d * (t - math.sin(t)) / 8, d * math.sin(t / 2)
+    assert abs(27.0 ** 2 * top / (9.80665 * area ** 3) - 1) < 1e-9     # limited by rounding of T near the crown
+    with pytest.raises(hy.NoSolutionError) as exc:
+        hy.critical_depth(hy.Circle(diameter=d), 1e4)
+    assert "crown" in str(exc.value) and "roughness" not in str(exc.value)
