@@ -9,6 +9,7 @@ from PySide6.QtCore import QLocale
 
 from app.gui.fields import UnclearNumber, format_number, parse_number
 from app.main import main
+from window_typing import field, type_into
 
 
 @pytest.fixture
@@ -20,16 +21,6 @@ def user_locale():
         QLocale.setDefault(QLocale(name))
     yield use
     QLocale.setDefault(before)
-
-
-def field(w, key):
-    return w.inputs.fields[key]
-
-
-def type_into(qtbot, f, text):
-    f.edit.setFocus()
-    f.edit.selectAll()
-    qtbot.keyClicks(f.edit, text)
 
 
 @pytest.mark.parametrize("locale, text, value", [

@@ -18,16 +18,7 @@ from app.gui import compute, settings
 from app.gui.document import new_project
 from app.gui.forms import RATIONAL
 from app.gui.mainwindow import MainWindow
-
-
-def field(w, key):
-    return w.inputs.fields[key]
-
-
-def type_into(qtbot, f, text):
-    f.edit.setFocus()
-    f.edit.selectAll()
-    qtbot.keyClicks(f.edit, text)
+from window_typing import field, type_into
 
 
 def shown(w, key):
