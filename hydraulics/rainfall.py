@@ -231,8 +231,8 @@ class IdfTable(_Idf):
                 if cells[r, c] < cells[r, c - 1]:
                     raise InputError(
                         f"rainfall.intensities[{r}][{c}]",
-                        f"{_mm_per_hour(cells[r, c])} for {periods[c]:g} years is below {_mm_per_hour(cells[r, c - 1])} "
-                        f"for {periods[c - 1]:g} years ({_minutes(t[r])}); intensity must not fall as the return "
+                        f"{_mm_per_hour(cells[r, c])} for {periods[c]:g} years is below "
+                        f"{_mm_per_hour(cells[r, c - 1])} for {periods[c - 1]:g} years ({_minutes(t[r])}); intensity must not fall as the return "
                         "period grows")
         cells.setflags(write=False)
         self._t, self._periods, self._cells = t, periods, cells
@@ -281,7 +281,8 @@ class IdfTable(_Idf):
                     notes.append(worded(
                         "IDF table, {period} years: the rainfall depth falls from {p0} in {t0} to {p1} in {t1}; a "
                         "longer storm holds the shorter one, so the table is not consistent ({source}); check its "
-                        "source", source=IDF_DEPTH_SOURCE, period=f"{period:g}", p0=(depth[r - 1, c], "small_length"), t0=_minutes(self._t[r - 1]),
+                        "source", source=IDF_DEPTH_SOURCE, period=f"{period:g}",
+                        p0=(depth[r - 1, c], "small_length"), t0=_minutes(self._t[r - 1]),
                         p1=(depth[r, c], "small_length"), t1=_minutes(self._t[r])))
         return notes
 
