@@ -232,8 +232,8 @@ class IdfTable(_Idf):
                     raise InputError(
                         f"rainfall.intensities[{r}][{c}]",
                         f"{_mm_per_hour(cells[r, c])} for {periods[c]:g} years is below "
-                        f"{_mm_per_hour(cells[r, c - 1])} for {periods[c - 1]:g} years ({_minutes(t[r])}); intensity must not fall as the return "
-                        "period grows")
+                        f"{_mm_per_hour(cells[r, c - 1])} for {periods[c - 1]:g} years ({_minutes(t[r])}); "
+                        "intensity must not fall as the return period grows")
         cells.setflags(write=False)
         self._t, self._periods, self._cells = t, periods, cells
         self._return_periods = tuple(float(p) for p in periods)
