@@ -20,6 +20,16 @@ FHWA-NHI-05-114, Federal Highway Administration, September 2005.
 HEC-22: Brown, S. A. et al., *Urban Drainage Design Manual*, Hydraulic
 Engineering Circular No. 22, 3rd ed., FHWA-NHI-10-009, 2009.
 Chow (1959): Chow, V. T., *Open-Channel Hydraulics*, McGraw-Hill, 1959.
+TR-55: USDA Soil Conservation Service, *Urban Hydrology for Small Watersheds*,
+Technical Release 55, 2nd ed., June 1986 (210-VI-TR-55).
+NEH Part 630 Ch. 15: USDA NRCS, *National Engineering Handbook* Part 630
+Hydrology, Chapter 15, Time of Concentration, 2010.
+TxDOT HDM: Texas Department of Transportation, *Hydraulic Design Manual*
+(online edition), Chapter 4, Hydrology.
+Campos et al. (2020): Campos, J. N. B., Studart, T. M. de C., de Souza Filho,
+F. de A. and Porto, V. C., "On the rainfall intensity-duration-frequency
+curves, partial-area effect and the rational method: theory and the
+engineering practice", *Water* 12(10): 2730, 2020.
 """
 
 from __future__ import annotations
@@ -48,6 +58,15 @@ READ_IN = {
     "fhwa-appd": "FHWA web edition of HEC-15, Appendix D (.../pubs/05114/hec15appd.cfm)",
     "restated-6.2": "restatement of HEC-15 Section 6.2 with its equations in text "
                     "(plainwater.co, \"HEC-15: Permissible Shear Stress\")",
+    "tr55-ch3": "TR-55 (1986) Chapter 3, its first page with Eqs. 3-1 and 3-2 (copy at "
+                "scribd.com/document/552108752/TR-55-Chapter-3)",
+    "tr55-ws3": "TR-55 (1986) Worksheet 3, Appendix D p. D-3, in scanned filled-in copies kept in Colorado state "
+                "records (dnrweblink.state.co.us, e.g. CWCB doc 56927 p. 28 and DRMS doc 570419 p. 32)",
+    "neh630-quoted": "NRCS NEH Part 630 Chapter 15 (2010), Eq. 15-9, Table 15-2 and the 100-ft sentences as quoted "
+                     "word for word in an eng-tips.com thread (\"TR-55 Sheet Flow limit\", qid=325517)",
+    "txdot-hdm": "TxDOT Hydraulic Design Manual, Chapter 4, Sections 11 and 12 (txdot.gov/manuals/des/hyd/"
+                 "chapter-4--hydrology/...)",
+    "campos-2020": "Campos et al. (2020), Water 12(10): 2730, abstract (mdpi.com/2073-4441/12/10/2730)",
 }
 
 
@@ -171,6 +190,34 @@ REGISTER: dict = _entries(
               "n = (sum P_i n_i^1.5 / P)^(2/3)", "Chow (1959) Section 6-6"),
     Published("supercritical_bend", "supercritical flow in bends", "cross waves; superelevation about twice "
               "the subcritical value", "Chow (1959) Chapter 15"),
+    # ---------------------------------------------------------------- rainfall (hydraulics.rainfall)
+    Published("idf_formula", "fitted IDF relation", "I = b / (tc + d)^e, I in in./hr, tc in min; e, b, d coefficients "
+              "based on rainfall IDF data (the program writes i = a / (t + b)^c)",
+              "TxDOT Hydraulic Design Manual Ch. 4 Sec. 12, Eq. 4-21", ("txdot-hdm", "campos-2020"),
+              "Campos et al. (2020) state the same form, i = a / (b + td)^c"),
+    Published("idf_depth_consistency", "rainfall depth of an IDF relation",
+              "for i = a / (b + td)^c with c > 1 the depth i td is largest at td = b / (c - 1) (an inconsistent "
+              "IDF equation)", "Campos et al. (2020), Water 12(10): 2730", ("campos-2020",),
+              "the program warns where a table's or formula's depth falls as the duration grows"),
+    # ---------------------------------------------------------------- NRCS TR-55 (hydraulics.travel_time)
+    Published("tr55_travel_time", "travel time of a flow segment and time of concentration",
+              "Tt = L / (3600 V) (Tt in hr, L in ft, V in ft/s); Tc = Tt1 + Tt2 + ... + Ttm",
+              "TR-55 (1986) Eqs. 3-1 and 3-2", ("tr55-ch3",)),
+    Published("tr55_sheet_flow", "travel time of sheet flow (Manning's kinematic solution)",
+              "Tt = 0.007 (n L)^0.8 / (P2^0.5 s^0.4), Tt in hr, L in ft, P2 (2-year 24-hour rainfall) in in, "
+              "s in ft/ft", "TR-55 (1986) Chapter 3 sheet-flow equation and Worksheet 3 line 6", ("tr55-ws3",),
+              "the equation read on the worksheet; its number in Chapter 3 (Eq. 3-3) was not read"),
+    Published("tr55_sheet_length", "longest sheet flow of TR-55 (1986)", "flow length, L (total L < 300 ft)",
+              "TR-55 (1986) Worksheet 3 line 3", ("tr55-ws3",)),
+    Published("neh630_sheet_length", "later NRCS limits on sheet flow",
+              "\"Typically, sheet flow occurs for no more than 100 feet before transitioning to shallow concentrated "
+              "flow\"; McCuen-Spiess limit L = 100 S^0.5 / n (L in ft)", "NRCS NEH Part 630 Ch. 15 (2010), Eq. 15-9",
+              ("neh630-quoted",)),
+    Published("tr55_shallow_velocity", "average velocity of shallow concentrated flow",
+              "unpaved V = 16.1345 s^0.5, paved V = 20.3282 s^0.5 (V in ft/s, s in ft/ft)",
+              "TR-55 (1986) Figure 3-1 and Appendix F", (),
+              "the equations behind Figure 3-1 were not found in a stored copy of TR-55; the tests compare them "
+              "with the velocity-slope coefficients of the SLO Creek Drainage Design Manual (2003), Table 4-2"),
 )
 
 
