@@ -331,7 +331,7 @@ def _roughness_text(lining: Lining, relation: str) -> str:
 
 def check_lining(section, flow, slope, lining: Lining, d50=None, bend_radius=None,
                  min_freeboard=hec15.MIN_FREEBOARD, *, n=None, min_safety_factor=1.0,
-                 min_velocity=SELF_CLEANING_VELOCITY) -> StabilityResult:
+                 min_velocity=SELF_CLEANING_VELOCITY, size_stone: bool = True) -> StabilityResult:
     r"""Check one lining in one channel by HEC-15's permissible-shear method.
 
     .. math::
@@ -366,6 +366,11 @@ def check_lining(section, flow, slope, lining: Lining, d50=None, bend_radius=Non
     min_velocity : float
         Velocity below which the channel is reported as not self-cleaning
         [m/s] (default ``SELF_CLEANING_VELOCITY``, see its source).
+    size_stone : bool
+        For stone, also find the smallest stable D50 by HEC-15's trial
+        procedure (default). False checks the given stone only and leaves
+        the ``required_d50`` fields None: most of the cost of a stone check,
+        spared where many points are screened (a ditch run).
 
     Returns
     -------
@@ -407,7 +412,7 @@ def check_lining(section, flow, slope, lining: Lining, d50=None, bend_radius=Non
 
     with warnings.catch_warnings(record=True) as caught:
         warnings.simplefilter("always", ValidityWarning)
-        result = _check(section, q, s, lining, d50, rc, fb_min, n, sf_min, v_min)
+        result = _check(section, q, s, lining, d50, rc, fb_min, n, sf_min, v_min, size_stone)
     extra = []
     for w in caught:
         if issubclass(w.category, ValidityWarning):
@@ -419,7 +424,7 @@ def check_lining(section, flow, slope, lining: Lining, d50=None, bend_radius=Non
     return result
 
 
-def _check(section, q, s, lining, d50, rc, fb_min, n_override, sf_min, v_min) -> StabilityResult:
+def _check(section, q, s, lining, d50, rc, fb_min, n_override, sf_min, v_min, size_stone=True) -> StabilityResult:
     category = lining.category
     notes, warn = [], []
     stone = category == "stone"
@@ -489,8 +494,10 @@ def _check(section, q, s, lining, d50, rc, fb_min, n_override, sf_min, v_min) ->
         reynolds, shields = float(sc.reynolds[0]), float(sc.shields[0])
         steep = s > hec15.STEEP_SLOPE
         # smallest stable sizes: HEC-15's trial procedure (size -> depth -> required size) to a fixed point
-        req, req_method, req_depth, converged, at_jump = _required_stone(
-            section, q, s, lining, rough if n_override is not None else None, sides, rc, gs, phi, sf_min, d)
+        converged, at_jump = True, False
+        if size_stone:
+            req, req_method, req_depth, converged, at_jump = _required_stone(
+                section, q, s, lining, rough if n_override is not None else None, sides, rc, gs, phi, sf_min, d)
         if not converged:
             warn.append("the smallest stable D50 did not settle (the size and the depth it gives keep changing); "
                         "the value shown is the last trial: check it by hand")
@@ -531,7 +538,7 @@ def _check(section, q, s, lining, d50, rc, fb_min, n_override, sf_min, v_min) ->
 
     # -- stone sizes and layer --------------------------------------------------
     required = None
-    if stone:
+    if stone and size_stone:
         sizes = [x for x in req.values() if x is not None]
         # rounded up by a relative 1e-7 so that the size passes its own check despite floating-point rounding
         required = max(sizes) * (1.0 + 1e-7)

@@ -27,6 +27,10 @@ PSF = POUND_FORCE / SQUARE_FOOT     # Pa per lb/ft^2
 PCF = POUND_FORCE / CUBIC_FOOT      # N/m^3 per lb/ft^3
 MILLIMETRE = 1e-3                   # m
 HOUR = 3600.0                       # s
+MINUTE = 60.0                       # s
+YARD = 3 * FOOT                     # m
+SHORT_TON = 2000 * 0.45359237       # kg (2,000 lb)
+TONNE = 1000.0                      # kg
 
 
 @dataclass(frozen=True)
@@ -78,6 +82,11 @@ US = UnitSystem("us", "US customary", {
     "intensity": Unit("in/h", INCH / HOUR),
     "volume_per_length": Unit("ft^3/ft", SQUARE_FOOT),
     "cost_per_length": Unit("$/ft", 1 / FOOT),
+    "surface": Unit("yd^2", YARD ** 2),        # quantities of lining work: surface laid
+    "volume": Unit("yd^3", YARD ** 3),         # quantities: volume placed
+    "mass": Unit("ton", SHORT_TON),            # quantities: stone delivered (short ton, 2,000 lb)
+    "cost": Unit("$", 1.0),
+    "duration": Unit("min", MINUTE),
     "side_slope": Unit("H:V", 1.0),
     "manning_n": Unit("", 1.0),
     "ratio": Unit("", 1.0),
@@ -96,6 +105,11 @@ SI = UnitSystem("si", "SI (metric)", {
     "intensity": Unit("mm/h", MILLIMETRE / HOUR),
     "volume_per_length": Unit("m^3/m", 1.0),
     "cost_per_length": Unit("$/m", 1.0),
+    "surface": Unit("m^2", 1.0),
+    "volume": Unit("m^3", 1.0),
+    "mass": Unit("t", TONNE),
+    "cost": Unit("$", 1.0),
+    "duration": Unit("min", MINUTE),
     "side_slope": Unit("H:V", 1.0),
     "manning_n": Unit("", 1.0),
     "ratio": Unit("", 1.0),

@@ -14,7 +14,7 @@ import math
 
 from .units import SI, UnitSystem
 
-__all__ = ["Worded", "format_quantity", "format_value", "in_units", "worded"]
+__all__ = ["Worded", "format_quantity", "format_station", "format_value", "in_units", "worded"]
 
 
 def format_value(value: float) -> str:
@@ -25,8 +25,23 @@ def format_value(value: float) -> str:
     return f"{value:.{digits}f}"
 
 
+def format_station(value: float, units: UnitSystem = SI) -> str:
+    """A road station [m] as surveyors write it: hundreds of feet in US units ('12+34.56'), kilometres in SI
+    ('1+234.56'), to hundredths (common practice)."""
+    step = 100.0 if units.key == "us" else 1000.0
+    v = float(units.from_si("length", value))
+    sign = "-" if v < 0 else ""
+    cents = round(abs(v) * 100)
+    whole, rest = divmod(cents, round(step * 100))
+    width = 5 if units.key == "us" else 6
+    return f"{sign}{whole}+{rest / 100:0{width}.2f}"
+
+
 def format_quantity(value, quantity: str, units: UnitSystem = SI) -> str:
-    """A SI value in ``units`` to three significant figures with its label, e.g. '1.40 lb/ft^2'."""
+    """A SI value in ``units`` to three significant figures with its label, e.g. '1.40 lb/ft^2'; a ``"station"``
+    as a road station ('12+34.56')."""
+    if quantity == "station":
+        return format_station(value, units)
     v = units.from_si(quantity, value)
     label = units.label(quantity)
     return f"{format_value(float(v))} {label}".rstrip()
@@ -43,8 +58,8 @@ class Worded(str):
 
 
 def _fill(template, quantities, units):
-    return template.format(**{k: v if isinstance(v, str) else format_quantity(v[0], v[1], units)
-                              for k, v in quantities.items()})
+    return template.format(**{k: v.in_units(units) if isinstance(v, Worded) else v if isinstance(v, str)
+                              else format_quantity(v[0], v[1], units) for k, v in quantities.items()})
 
 
 def worded(template: str, **quantities) -> Worded:
@@ -62,6 +77,8 @@ def worded(template: str, **quantities) -> Worded:
     >>> from hydraulics.units import US
     >>> w.in_units(US)
     'velocity 0.984 ft/s is below 1.97 ft/s'
+    >>> worded("from {a}: {w}", a=(365.76, "station"), w=w).in_units(US)
+    'from 12+00.00: velocity 0.984 ft/s is below 1.97 ft/s'
     """
     quantities = {k: v if isinstance(v, str) else (float(v[0]), v[1]) for k, v in quantities.items()}
     out = Worded(_fill(template, quantities, SI))

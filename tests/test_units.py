@@ -13,6 +13,8 @@ PINT_NAMES = {
     "shear": ("force_pound/foot**2", "pascal"), "unit_weight": ("force_pound/foot**3", "newton/meter**3"),
     "intensity": ("inch/hour", "millimeter/hour"),
     "volume_per_length": ("foot**3/foot", "meter**3/meter"),
+    "surface": ("yard**2", "meter**2"), "volume": ("yard**3", "meter**3"), "mass": ("short_ton", "tonne"),
+    "duration": ("minute", "minute"),
 }
 
 
