@@ -29,7 +29,7 @@ from hydraulics import validate as hv
 from .files import write_atomic
 
 FORMAT = "ditchwright-project"
-SCHEMA_VERSION = 1
+SCHEMA_VERSION = 2
 
 
 class ProjectFileError(Exception):
@@ -54,10 +54,10 @@ def field_label(path, doc=None) -> str:
     """
     path = list(path)
     head = ""
-    if len(path) >= 2 and path[0] == "channels" and isinstance(path[1], int):
-        head = f"channels[{path[1]}]"
+    if len(path) >= 2 and path[0] in ("channels", "runs") and isinstance(path[1], int):
+        head = f"{path[0]}[{path[1]}]"
         try:
-            name = doc["channels"][path[1]]["name"]
+            name = doc[path[0]][path[1]]["name"]
         except (TypeError, KeyError, IndexError):
             name = None
         if isinstance(name, str) and name:
@@ -135,12 +135,113 @@ class SheetInfo:
 
 
 @dataclass
+class RunCandidate:
+    """A lining a run may use, with its price for this run (SI: per m^2 of lined surface or per m^3 of layer, as
+    the catalogue entry's unit_cost_basis says; None: the catalogue's)."""
+
+    key: str
+    d50: float | None = None              # [m]
+    unit_cost: float | None = None
+
+
+@dataclass
+class ProfilePoint:
+    station: float                        # [m]
+    elevation: float                      # invert [m]
+
+
+@dataclass
+class Outfall:
+    """Where the run ends: one end of its profile, what is there, and the water level there if known [m]."""
+
+    station: float
+    kind: str = ""                        # culvert, inlet, stream... in the user's words
+    water_level: float | None = None
+
+
+@dataclass
+class RunSection:
+    """The cross-section over a station range, with the ditch's depth as built [m]."""
+
+    from_station: float
+    to_station: float
+    section: dict
+    ditch_depth: float | None = None      # None only for a closed section (its own full depth)
+
+
+@dataclass
+class RunBend:
+    from_station: float
+    to_station: float
+    radius: float                         # centre-line radius [m]
+
+
+@dataclass
+class LandCover:
+    area: float                           # [m^2]
+    runoff_coefficient: float             # C [-]
+    cover: str = ""
+
+
+@dataclass
+class SubAreaInput:
+    """A drainage sub-area as the user gives it: C typed or weighted from land covers; its own time of
+    concentration typed or by a published method; entering at ``from_station`` or spread to ``to_station``."""
+
+    name: str
+    area: float                           # [m^2]
+    time_of_concentration: dict           # {"method": "typed", "value": s} | kirpich | tr55 (see the schema)
+    from_station: float
+    to_station: float | None = None       # None: enters at from_station
+    runoff_coefficient: float | None = None
+    land_covers: list = field(default_factory=list)   # LandCover list
+
+
+@dataclass
+class PointInflowInput:
+    name: str
+    station: float                        # [m]
+    flow: float                           # [m^3/s]
+
+
+@dataclass
+class Run:
+    """A ditch run along a road (SI); see hydraulics.ditch_run for what is computed."""
+
+    name: str
+    profile: list                         # ProfilePoint list
+    outfall: Outfall
+    sections: list                        # RunSection list
+    candidates: list                      # RunCandidate list
+    sub_areas: list                       # SubAreaInput list
+    return_period: float = 10.0           # design return period [yr]
+    point_inflows: list = field(default_factory=list)
+    bends: list = field(default_factory=list)
+    spacing: float = 15.0                 # largest distance between design points [m]
+    min_stretch: float = 15.0             # shortest stretch of one lining [m]
+    min_duration: float = 300.0           # shortest duration intensities are read at [s]
+    min_freeboard: float = 0.15           # [m]
+    mat_allowance: float = 0.0            # extra seeded or mat surface for laps and anchor trenches [-]
+    stone_porosity: float = 0.4           # voids of a riprap layer [-]
+    notes: str = ""
+
+
+@dataclass
 class Project:
     name: str = "Untitled project"
     units: str = "us"
     channels: list = field(default_factory=lambda: [Channel()])
     sheet: SheetInfo = field(default_factory=SheetInfo)
     notes: str = ""
+    rainfall: dict | None = None          # the project's IDF relation (hydraulics.rainfall.idf_from_dict)
+    runs: list = field(default_factory=list)   # Run list
+
+    def run(self, name: str) -> Run:
+        for r in self.runs:
+            if r.name == name:
+                return r
+        have = ", ".join(r.name for r in self.runs) or "no runs"
+        raise KeyError(f"no run named {name!r}; the project has: {have}")
 
     def channel_label(self, channel: Channel) -> str:
         """``channels[0] "East verge ditch"``: where the channel sits in the project file."""
@@ -166,7 +267,8 @@ class Project:
         validate_document(data)
         channels = [_channel_from_dict(c) for c in data["channels"]]
         return cls(name=data["name"], units=data["units"], channels=channels,
-                   sheet=SheetInfo(**data.get("sheet", {})), notes=data.get("notes", ""))
+                   sheet=SheetInfo(**data.get("sheet", {})), notes=data.get("notes", ""),
+                   rainfall=data.get("rainfall"), runs=[_run_from_dict(r) for r in data.get("runs", [])])
 
 
 def _channel_from_dict(c: dict) -> Channel:
@@ -177,10 +279,24 @@ def _channel_from_dict(c: dict) -> Channel:
     return Channel(**c)
 
 
+def _run_from_dict(r: dict) -> Run:
+    r = dict(r)
+    r["profile"] = [ProfilePoint(**p) for p in r["profile"]]
+    r["outfall"] = Outfall(**r["outfall"])
+    r["sections"] = [RunSection(**s) for s in r["sections"]]
+    r["bends"] = [RunBend(**b) for b in r.get("bends", [])]
+    r["candidates"] = [RunCandidate(**c) for c in r["candidates"]]
+    r["sub_areas"] = [SubAreaInput(**{**a, "land_covers": [LandCover(**lc) for lc in a.get("land_covers", [])]})
+                      for a in r["sub_areas"]]
+    r["point_inflows"] = [PointInflowInput(**p) for p in r.get("point_inflows", [])]
+    return Run(**r)
+
+
 #: A project file is read whole into memory; a larger file is refused before it is read. As the
 #: program writes them, 32 MiB hold about 40,000 channels.
 MAX_FILE_BYTES = 32 * 1024 * 1024
-#: Lists and objects nest 5 levels deep in a project file (the project, channels, channel, section, stations);
+#: Lists and objects nest 8 levels deep in a project file (the project, runs, run, sub-areas, sub-area, its time of
+#: concentration, segments, segment);
 #: anything much deeper is not a project, and is refused before it reaches the checks below.
 MAX_NESTING = 16
 
@@ -248,7 +364,7 @@ def _check_values(doc, error=ProjectFileError) -> None:
         value, path = stack.pop()
         if len(path) > MAX_NESTING:
             raise error(f"{field_label(path[:MAX_NESTING], doc)}: lists or objects nest more than "
-                                   f"{MAX_NESTING} levels deep; a project file needs 5")
+                                   f"{MAX_NESTING} levels deep; a project file needs 8")
         problem = None
         if isinstance(value, _NotFinite):
             problem = f"must be a finite number, got {_shown(value.text, 30)}"
@@ -314,17 +430,31 @@ def validate_document(data: dict) -> None:
     except jsonschema.ValidationError as exc:
         raise ProjectFileError(f"{field_label(exc.absolute_path, data)}: {_layout_problem(exc)}") from None
     for i, ch in enumerate(data["channels"]):
-        try:
-            section = hy.section_from_dict(ch["section"])
-        except hy.InputError as exc:
-            raise ProjectFileError(f"{field_label(['channels', i, 'section', exc.field], data)}: "
-                                   f"{str(exc).split(': ', 1)[-1]} (an impossible section)") from None
-        if section.kind != "irregular":   # the core also takes arrays (many sections at once); a channel has one
-            for key, value in ch["section"].items():
-                if key != "shape" and not (isinstance(value, (int, float)) and not isinstance(value, bool)):
-                    raise ProjectFileError(f"{field_label(['channels', i, 'section', key], data)}: must be a "
-                                           f"single number, got {_JSON_TYPES.get(type(value), 'something else')}")
+        _check_section(data, ["channels", i, "section"], ch["section"])
         _check_limits(data, i)
+    for i, run in enumerate(data.get("runs") or []):
+        for j, rs in enumerate(run["sections"]):
+            _check_section(data, ["runs", i, "sections", j, "section"], rs["section"])
+    if data.get("rainfall") is not None:
+        from hydraulics.rainfall import idf_from_dict
+        try:
+            idf_from_dict(data["rainfall"])
+        except hy.InputError as exc:
+            raise ProjectFileError(str(exc)) from None
+
+
+def _check_section(data: dict, path: list, sec: dict) -> None:
+    """Refuse an impossible section, naming where it sits in the file."""
+    try:
+        section = hy.section_from_dict(sec)
+    except hy.InputError as exc:
+        raise ProjectFileError(f"{field_label([*path, exc.field], data)}: "
+                               f"{str(exc).split(': ', 1)[-1]} (an impossible section)") from None
+    if section.kind != "irregular":   # the core also takes arrays (many sections at once); a file gives one
+        for key, value in sec.items():
+            if key != "shape" and not (isinstance(value, (int, float)) and not isinstance(value, bool)):
+                raise ProjectFileError(f"{field_label([*path, key], data)}: must be a "
+                                       f"single number, got {_JSON_TYPES.get(type(value), 'something else')}")
 
 
 def _design_numbers(channel: dict):
@@ -354,8 +484,17 @@ def _check_limits(data: dict, i: int) -> None:
                 raise ProjectFileError(f"{field_label(['channels', i, *path], data)}: {problem}")
 
 
+def _v1_to_v2(data: dict) -> dict:
+    """Version 2 adds ditch runs and the project's rainfall relation; a version-1 project has neither."""
+    data = dict(data)
+    data["schema_version"] = 2
+    data.setdefault("rainfall", None)
+    data.setdefault("runs", [])
+    return data
+
+
 #: Upgrades from each older schema version to the next: {old_version: function(doc) -> doc}.
-MIGRATIONS: dict = {}
+MIGRATIONS: dict = {1: _v1_to_v2}
 
 
 def migrate(data) -> dict:
@@ -401,7 +540,7 @@ def loads(text: str) -> Project:
                                f"{exc.lineno}, column {exc.colno})") from None
     except RecursionError:   # the parser's own guard against a stack overflow
         raise ProjectFileError(f"lists or objects nest too deeply to read (hundreds of levels or more); a project file "
-                               f"needs 5 and may have at most {MAX_NESTING}") from None
+                               f"needs 8 and may have at most {MAX_NESTING}") from None
     _check_values(data)
     return Project.from_dict(data)
 

@@ -52,3 +52,45 @@ def format_value(value, field: ResultField, units: UnitSystem) -> str:
     unit = units.label(field.quantity) if field.quantity else ""
     text = f"{v:.{field.digits}f}"
     return f"{text} {unit}".rstrip()
+
+
+def rounded(value, field: ResultField) -> str:
+    """The one rounding rule of the tables: a number already in the user's units to ``field.digits`` decimals,
+    True/False as yes/no, nothing as an empty cell, words as they are."""
+    if value is None:
+        return ""
+    if isinstance(value, bool):
+        return "yes" if value else "no"
+    if isinstance(value, str):
+        return value
+    return f"{float(value):.{field.digits}f}"
+
+
+#: The station table of a ditch run: key (JSON and CSV column), label, quantity, decimals shown.
+RUN_STATION_FIELDS = {f.key: f for f in (
+    ResultField("station", "Station", "length", 2),
+    ResultField("invert", "Invert", "length", 2),
+    ResultField("slope", "Grade", "slope", 4),
+    ResultField("ca", "Sum of C A", "drainage_area", 3),
+    ResultField("tc", "Time of concentration", "duration", 1),
+    ResultField("intensity", "Intensity", "intensity", 2),
+    ResultField("flow", "Design flow", "flow", 3),
+    ResultField("ditch_depth", "Ditch depth as built", "length", 2),
+    ResultField("manning_n", "Manning's n", "", 4),
+    ResultField("normal_depth", "Normal depth", "length", 3),
+    ResultField("critical_depth", "Critical depth", "length", 3),
+    ResultField("water_depth", "Water depth", "length", 3),
+    ResultField("water_surface", "Water surface", "length", 2),
+    ResultField("velocity", "Velocity", "velocity", 2),
+    ResultField("froude", "Froude number", "", 2),
+    ResultField("regime", "Flow regime", "", 0),
+    ResultField("bed_shear", "Bed shear", "shear", 2),
+    ResultField("side_shear", "Side shear", "shear", 2),
+    ResultField("permissible_shear", "Permissible shear", "shear", 2),
+    ResultField("safety_factor", "Safety factor", "", 2),
+    ResultField("lining", "Lining", "", 0),
+    ResultField("stable", "Stable", "", 0),
+    ResultField("freeboard", "Freeboard", "length", 2),
+    ResultField("fits", "Fits the ditch", "", 0),
+    ResultField("required_d50", "Smallest stable D50", "small_length", 1),
+)}

@@ -12,7 +12,7 @@ DEMO_TEXT = pj.demo_path().read_text(encoding="utf-8")
     ('"value": 0.35', '"value": NaN', 'channels[0] "East verge ditch": flow.value: must be a finite number, got NaN'),
     ('"slope": 0.012', '"slope": 1e400', 'channels[0] "East verge ditch": slope: must be a finite number, got 1e400'),
     ('"East verge ditch"', '"East \\udc00 ditch"', 'channels[0] "East \\udc00 ditch": name: holds a lone surrogate'),
-    ('"schema_version": 1,', '"schema_version": 1, "schema_version": 2,', 'top level: the key "schema_version" is given more'),
+    ('"schema_version": 2,', '"schema_version": 2, "schema_version": 2,', 'top level: the key "schema_version" is given more'),
     ('"bottom_width": 0.6', '"bottom_width": [0.6, 0.7]',
      'channels[0] "East verge ditch": section.bottom_width: must be a single number, got a list [0.6, 0.7]'),
 ], ids=["nan", "1e400", "surrogate", "repeated-key", "list-dimension"])

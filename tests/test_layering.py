@@ -19,7 +19,7 @@ ROOT = Path(__file__).resolve().parents[1]
 HEAVY = ("PySide6", "matplotlib", "reportlab", "PyQt5", "PyQt6")
 CORE = sorted(m.name for m in pkgutil.walk_packages(hydraulics.__path__, "hydraulics."))
 APPLICATION = ["app.evaluate", "app.verdicts", "app.results", "app.project", "app.files", "app.numtext", "app.batch",
-               "app.gui.compute", "app.cli.calc", "app.cli.compare"]
+               "app.gui.compute", "app.cli.calc", "app.cli.compare", "app.run_design", "app.cli.run"]
 
 
 def _loads_heavy(module: str) -> list:

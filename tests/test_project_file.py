@@ -31,7 +31,7 @@ def test_round_trip(tmp_path):
     (lambda t: t[: len(t) // 2], "damaged or incomplete"),
     (lambda t: "", "damaged or incomplete"),
     (lambda t: "[1, 2]", "not a Ditchwright project"),
-    (lambda t: t.replace('"schema_version": 1', '"schema_version": 7'), "newer Ditchwright"),
+    (lambda t: t.replace('"schema_version": 2', '"schema_version": 7'), "newer Ditchwright"),
     (lambda t: t.replace('"units": "si"', '"units": "furlongs"'), '^units: must be one of "us", "si", got "furlongs"$'),
     (lambda t: t.replace('"slope": 0.005', '"slope": -0.005', 1), r'^channels\[0\] "Ditch 1": slope: must be > 0, got -0.005$'),
     (lambda t: t.replace('"bottom_width": 0.6', '"bottom_width": -0.6', 1), "^channels.0. \"Ditch 1\": section.bottom_width: "),
@@ -96,7 +96,7 @@ def _replace_once(old, new):
     (_replace_once('"name": "Demo', '"name": "\\udfff Demo'), "name: holds a lone surrogate character (U+DFFF)"),
     (_replace_once('"notes": "Invented example: a paved', '"notes": "\\udc80'),
      f"{EAST}: notes: holds a lone surrogate character (U+DC80)"),
-    (_replace_once('"schema_version": 1,', '"schema_version": 1, "schema_version": 1,'),
+    (_replace_once('"schema_version": 2,', '"schema_version": 2, "schema_version": 2,'),
      'top level: the key "schema_version" is given more than once'),
     (_replace_once('"format": "ditchwright-project",', '"format": "ditchwright-project", "format": "x",'),
      'top level: the key "format" is given more than once'),
@@ -232,3 +232,52 @@ def test_the_loader_refuses_a_list_dimension_even_without_the_schema(monkeypatch
     monkeypatch.setattr(pj, "schema", lambda: permissive)
     with pytest.raises(pj.ProjectFileError, match=re.escape(message.split(", got")[0])):
         pj.loads(damage(DEMO_TEXT))
+
+
+def test_runs_round_trip_and_a_version_1_file_opens_without_runs(tmp_path):
+    demo = pj.load(pj.demo_path())
+    assert demo.runs and demo.rainfall["kind"] == "table"
+    path = tmp_path / "round.json"
+    pj.save(demo, path)
+    again = pj.load(path)
+    assert again == demo
+    assert again.runs[0].sub_areas[1].land_covers[0].cover == "pasture"
+    # a file of the first version (no runs, no rainfall) opens unchanged and gains empty ones
+    old = json.loads(pj.dumps(demo))
+    old["schema_version"] = 1
+    del old["runs"], old["rainfall"]
+    v1 = tmp_path / "v1.json"
+    v1.write_text(json.dumps(old))
+    opened = pj.load(v1)
+    assert opened.runs == [] and opened.rainfall is None
+    assert opened.channels == demo.channels
+
+
+@pytest.mark.parametrize("damage, message", [
+    (lambda d: d["runs"][0]["sub_areas"][0].update(runoff_coefficient=1.5),
+     r'runs\[0\] "North verge ditch": sub_areas\[0\].runoff_coefficient: must be <= 1'),
+    (lambda d: d["runs"][0]["sections"][0]["section"].update(bottom_width=-1),
+     r'runs\[0\] "North verge ditch": sections\[0\].section.bottom_width'),
+    (lambda d: d["runs"][0]["profile"][0].pop("elevation"),
+     r'runs\[0\] "North verge ditch": profile\[0\]'),
+    (lambda d: d["rainfall"].update(kind="curve"), r"rainfall.kind: must be one of"),
+])
+def test_bad_runs_in_a_file_are_refused_naming_them(tmp_path, damage, message):
+    doc = json.loads(pj.dumps(pj.load(pj.demo_path())))
+    damage(doc)
+    path = tmp_path / "bad.json"
+    path.write_text(json.dumps(doc))
+    before = path.read_bytes()
+    with pytest.raises(pj.ProjectFileError, match=message):
+        pj.load(path)
+    assert path.read_bytes() == before
+
+
+def test_a_rainfall_table_rising_with_duration_is_refused_on_opening(tmp_path):
+    doc = json.loads(pj.dumps(pj.load(pj.demo_path())))
+    cells = doc["rainfall"]["intensities"]
+    cells[2][0] = cells[1][0] * 1.5          # the 15-minute intensity above the 10-minute one
+    path = tmp_path / "bad.json"
+    path.write_text(json.dumps(doc))
+    with pytest.raises(pj.ProjectFileError, match=r"rainfall.intensities\[2\]\[0\]"):
+        pj.load(path)

@@ -226,7 +226,7 @@ def test_save_then_reopen_gives_the_same_project(demo_window, tmp_path, dialogs)
 @pytest.mark.parametrize("damage, reason", [
     (lambda t: t[: len(t) // 3], "damaged or incomplete"),
     (lambda t: "{not json", "damaged or incomplete"),
-    (lambda t: t.replace('"schema_version": 1', '"schema_version": 99'), "newer Ditchwright"),
+    (lambda t: t.replace('"schema_version": 2', '"schema_version": 99'), "newer Ditchwright"),
     (lambda t: json.dumps({"format": "something else"}), "not a Ditchwright project"),
     (lambda t: t.replace('"slope": 0.012', '"slope": NaN', 1), 'channels[0] "East verge ditch": slope: must be a finite'),
     (lambda t: "[" * 100_000 + "]" * 100_000, "nest too deeply to read"),

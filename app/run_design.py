@@ -1,0 +1,296 @@
+"""A project's ditch run, solved and made ready for every front end (command line, window, sheet).
+
+The one place that turns a run of the project file (:class:`app.project.Run`, SI) into the core's
+:class:`hydraulics.ditch_run.DitchRun`, solves it, and states the result in the user's units: the station
+table, the lining schedule with its quantities and cost, the warnings, and the published values leant on
+that are not yet verified. Front ends only lay these out. Qt-free.
+
+    from app.run_design import design_run
+    design = design_run(project, project.runs[0], catalogue)
+    design.to_dict(units)          # the ``ditchwright run --json`` layout of one run
+    design.station_rows(units)     # the station table, rounded by the one rule of app.results
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+
+import hydraulics as hy
+from hydraulics import provenance, rational, travel_time
+from hydraulics.ditch_run import Bend, Candidate, DitchRun, RunResult, SectionRange, solve_run
+from hydraulics.linings import Catalogue, load_catalogue
+from hydraulics.rainfall import idf_from_dict
+from hydraulics.run_inflow import PointInflow, SubArea
+from hydraulics.run_layout import StationRange
+from hydraulics.units import UnitSystem
+from hydraulics.wording import format_station, in_units, worded
+
+from .project import Project, Run
+from .results import RUN_STATION_FIELDS, convert, rounded
+
+__all__ = ["RunDesign", "SubAreaBasis", "design_run", "run_label", "section_dimensions"]
+
+#: Keys of a section's dimensions, as the ``calc`` options name them.
+DIMENSION_KEYS = ("bottom_width", "left_slope", "right_slope", "diameter", "top_width", "at_depth")
+_LENGTH_KEYS = {"bottom_width", "diameter", "top_width", "at_depth"}
+
+
+def run_label(project: Project, run: Run) -> str:
+    """``runs[0] "North verge ditch"``: where the run sits in the project file."""
+    index = next((i for i, r in enumerate(project.runs) if r is run), None)
+    return f'run "{run.name}"' if index is None else f'runs[{index}] "{run.name}"'
+
+
+class RunInputError(hy.InputError):
+    """A bad value of a run, named by where it sits in the project file."""
+
+
+def _in_run(label: str, exc: hy.InputError) -> RunInputError:
+    err = RunInputError(f"{label}: {exc.field}", str(exc).split(": ", 1)[-1])
+    return err
+
+
+@dataclass(frozen=True)
+class SubAreaBasis:
+    """How a sub-area's C and own time of concentration were found: values [SI], method in words, cautions."""
+
+    name: str
+    area: float
+    runoff_coefficient: float
+    coefficient_method: str
+    time_of_concentration: float
+    time_method: str
+    warnings: tuple = ()
+
+
+def _coefficient(sa, field: str) -> tuple[float, str]:
+    """C typed, or weighted by area over the land covers: C = sum(C_j A_j) / sum(A_j) (FHWA HEC-22, 3rd ed., 2009,
+    Section 3.2, composite runoff coefficient)."""
+    if sa.land_covers:
+        if sa.runoff_coefficient is not None:
+            raise hy.InputError(f"{field}.runoff_coefficient", "give C or land covers, not both")
+        total = sum(lc.area for lc in sa.land_covers)
+        if abs(total - sa.area) > 0.005 * sa.area:
+            raise hy.InputError(f"{field}.land_covers", worded("add up to {total}, but the sub-area is {area}; they "
+                                                               "must agree within 0.5 %",
+                                                               total=(total, "drainage_area"),
+                                                               area=(sa.area, "drainage_area")))
+        c = sum(lc.area * lc.runoff_coefficient for lc in sa.land_covers) / total
+        return c, f"weighted by area over {len(sa.land_covers)} land covers (HEC-22, 3rd ed., Section 3.2)"
+    if sa.runoff_coefficient is None:
+        raise hy.InputError(f"{field}.runoff_coefficient", "is missing: give C (0 to 1) or the land covers")
+    return float(sa.runoff_coefficient), "typed"
+
+
+def _own_time(sa, field: str) -> tuple[float, str, list]:
+    """The sub-area's own time of concentration [s], the method in words, and its cautions."""
+    tc = sa.time_of_concentration
+    method = tc.get("method")
+    if method == "typed":
+        return float(hy.validate.positive(f"{field}.time_of_concentration.value", tc["value"])), "typed", []
+    if method == "kirpich":
+        t = rational.kirpich_time(tc["flow_length"], tc["slope"])
+        return t, "Kirpich's formula (Kirpich 1940)", rational.kirpich_warnings(tc["slope"], sa.area)
+    if method == "tr55":
+        total, warns = 0.0, []
+        p2 = tc.get("rain_2yr_24h")
+        for j, seg in enumerate(tc["segments"]):
+            where = f"{field}.time_of_concentration.segments[{j}]"
+            if seg["kind"] == "sheet":
+                if p2 is None:
+                    raise hy.InputError(f"{field}.time_of_concentration.rain_2yr_24h",
+                                        "is missing: sheet flow by TR-55 needs the 2-year, 24-hour rainfall")
+                if seg.get("roughness") is None:
+                    raise hy.InputError(f"{where}.roughness", "is missing: sheet flow needs its roughness "
+                                                              "coefficient (TR-55 Table 3-1)")
+                total += travel_time.sheet_flow_time(seg["length"], seg["roughness"], p2, seg["slope"])
+                warns += travel_time.sheet_flow_warnings(seg["length"])
+            else:
+                if seg.get("surface") not in ("paved", "unpaved"):
+                    raise hy.InputError(f"{where}.surface", f"must be 'paved' or 'unpaved', got {seg.get('surface')!r}")
+                total += travel_time.shallow_concentrated_time(seg["length"], seg["slope"], seg["surface"])
+        return total, "NRCS TR-55 sheet and shallow concentrated flow (TR-55, 2nd ed., 1986, Chapter 3)", warns
+    raise hy.InputError(f"{field}.time_of_concentration.method",
+                        f"must be 'typed', 'kirpich' or 'tr55', got {method!r}")
+
+
+def section_dimensions(section: dict, units: UnitSystem) -> dict:
+    """A section's dimensions keyed like the ``calc`` options, lengths in ``units``; those that apply."""
+    out = {}
+    for key, value in section.items():
+        if key == "shape":
+            continue
+        if key == "side_slope":
+            out["left_slope"] = out["right_slope"] = float(value)
+        elif key in DIMENSION_KEYS:
+            out[key] = float(units.from_si("length", value)) if key in _LENGTH_KEYS else float(value)
+    return {k: out[k] for k in DIMENSION_KEYS if k in out}
+
+
+def build_run(project: Project, run: Run, catalogue: Catalogue) -> tuple[DitchRun, list]:
+    """The core's run from the project's, and the basis of each sub-area. Bad input raises RunInputError naming
+    the run and the item."""
+    label = run_label(project, run)
+    try:
+        if project.rainfall is None:
+            raise hy.InputError("rainfall", "is missing: a run needs the project's intensity-duration-frequency "
+                                            "relation")
+        idf = idf_from_dict(project.rainfall)
+        bases = []
+        for k, sa in enumerate(run.sub_areas):
+            field_ = f"sub_areas[{k}]"
+            c, c_how = _coefficient(sa, field_)
+            t, t_how, warns = _own_time(sa, field_)
+            bases.append(SubAreaBasis(sa.name, sa.area, c, c_how, t, t_how, tuple(warns)))
+        sub_areas = tuple(SubArea(b.name, b.area, b.runoff_coefficient, b.time_of_concentration,
+                                  StationRange(sa.from_station, sa.from_station if sa.to_station is None
+                                               else sa.to_station))
+                          for b, sa in zip(bases, run.sub_areas))
+        sections = []
+        for k, rs in enumerate(run.sections):
+            try:
+                section = hy.section_from_dict(rs.section)
+            except hy.InputError as exc:
+                raise hy.InputError(f"sections[{k}].section.{exc.field}", str(exc).split(": ", 1)[-1]) from None
+            sections.append(SectionRange(StationRange(rs.from_station, rs.to_station), section, rs.ditch_depth))
+        candidates = []
+        for k, c in enumerate(run.candidates):
+            if c.key not in catalogue:
+                raise hy.InputError(f"candidates[{k}].key", f"{c.key!r} is not in the lining catalogue")
+            candidates.append(Candidate(catalogue.get(c.key), c.d50, c.unit_cost))
+        core = DitchRun(
+            name=run.name, profile=tuple((p.station, p.elevation) for p in run.profile),
+            outfall_station=run.outfall.station, sections=tuple(sections), candidates=tuple(candidates),
+            sub_areas=sub_areas, idf=idf, return_period=run.return_period,
+            point_inflows=tuple(PointInflow(p.name, p.station, p.flow) for p in run.point_inflows),
+            bends=tuple(Bend(StationRange(b.from_station, b.to_station), b.radius) for b in run.bends),
+            spacing=run.spacing, min_stretch=run.min_stretch, min_duration=run.min_duration,
+            min_freeboard=run.min_freeboard, mat_allowance=run.mat_allowance, stone_porosity=run.stone_porosity)
+    except hy.InputError as exc:
+        raise _in_run(label, exc) from None
+    return core, bases
+
+
+@dataclass
+class RunDesign:
+    """One run of the project, solved (SI inside; every output method takes the unit system to show)."""
+
+    project: Project
+    run: Run
+    result: RunResult
+    bases: list                              # SubAreaBasis per sub-area
+    warnings: list = field(default_factory=list)
+    notes: list = field(default_factory=list)
+
+    @property
+    def not_verified(self) -> list:
+        """Published values this run leans on that are not yet verified against their publication (one line
+        each), from :mod:`hydraulics.provenance`."""
+        texts = [*self.warnings, *self.notes]
+        for p in self.result.points:
+            for r in p.checks:
+                if r is not None:
+                    texts += r.cited_texts()
+        return provenance.not_verified_lines(provenance.cited_not_verified(texts))
+
+    # -- the station table -------------------------------------------------------
+    def station_values(self, units: UnitSystem) -> list[dict]:
+        """One dict per design point with the keys of ``ditchwright run --json`` (unrounded, in ``units``)."""
+        res = self.result
+        f = res.flows
+        rows = []
+        for p in res.points:
+            r = p.result
+            rs = self.run.sections[p.section_index]
+            checked = r is not None and p.not_checked is None
+            y = r.depth if checked else None
+            an = r.analysis if checked else None
+            values = {
+                "station": p.station, "invert": p.invert, "slope": p.grade, "ca": f.ca[p.index],
+                "tc": f.duration[p.index] if f.ca[p.index] > 0 else None,
+                "intensity": f.intensity[p.index] if f.ca[p.index] > 0 else None, "flow": p.flow,
+                "shape": rs.section["shape"], "dimensions": section_dimensions(rs.section, units),
+                "ditch_depth": p.ditch_depth, "manning_n": r.manning_n if checked else None,
+                "normal_depth": y, "critical_depth": p.critical_depth, "water_depth": y,
+                "water_surface": None if y is None else p.invert + y,
+                "velocity": r.velocity if checked else None, "froude": r.froude if checked else None,
+                "regime": an.regime if checked else None, "bed_shear": r.bed_shear if checked else None,
+                "side_shear": r.side_shear if checked else None,
+                "permissible_shear": r.permissible_shear if checked else None,
+                "safety_factor": r.safety_factor if checked else None,
+                "lining": self.result.run.candidates[p.choice].lining.key if p.choice >= 0 else None,
+                "stable": (r.stable if checked else None), "freeboard": r.freeboard if checked else None,
+                "fits": p.fits if checked else None,
+                "required_d50": r.required_d50 if checked and r.required_d50 is not None else None,
+                "partial_area": bool(f.partial[p.index]), "not_checked": p.not_checked,
+            }
+            rows.append({k: (v if k in ("dimensions",) else convert(v, RUN_STATION_FIELDS[k].quantity, units)
+                             if k in RUN_STATION_FIELDS else v) for k, v in values.items()})
+        return rows
+
+    def station_rows(self, units: UnitSystem) -> list[dict]:
+        """The station table as text cells, rounded by the one rule of :mod:`app.results`; stations as 12+34.56."""
+        out = []
+        for raw, p in zip(self.station_values(units), self.result.points):
+            row = {}
+            for key, value in raw.items():
+                if key == "station":
+                    row[key] = format_station(p.station, units)
+                elif key == "dimensions":
+                    row[key] = " ".join(f"{k}={v:g}" for k, v in value.items())
+                elif key in RUN_STATION_FIELDS:
+                    row[key] = rounded(value, RUN_STATION_FIELDS[key])
+                else:
+                    row[key] = "" if value is None else str(value)
+            out.append(row)
+        return out
+
+    # -- the schedule ----------------------------------------------------------------
+    def schedule_values(self, units: UnitSystem) -> list[dict]:
+        out = []
+        for q in self.result.quantities:
+            lo, hi = sorted((q.start, q.end))
+            cand = self.result.run.candidates[q.choice]
+            out.append({"from_station": float(units.from_si("length", lo)),
+                        "to_station": float(units.from_si("length", hi)),
+                        "lining": cand.lining.key, "lining_name": q.lining_name,
+                        "d50": None if cand.d50 is None else float(units.from_si("small_length", cand.d50)),
+                        "length": float(units.from_si("length", q.length)),
+                        "quantities": [{"item": it.item, "amount": float(units.from_si(it.quantity, it.amount)),
+                                        "unit": units.label(it.quantity)} for it in q.items],
+                        "cost": q.cost})
+        return out
+
+    def to_dict(self, units: UnitSystem) -> dict:
+        """The ``ditchwright run --json`` layout of this run, in ``units``."""
+        res = self.result
+        return {"name": self.run.name, "length": float(units.from_si("length", res.layout.length)),
+                "return_period": float(self.run.return_period),
+                "outfall": {"station": float(units.from_si("length", self.run.outfall.station)),
+                            "kind": self.run.outfall.kind},
+                "sub_areas": [{"name": b.name, "area": float(units.from_si("drainage_area", b.area)),
+                               "runoff_coefficient": b.runoff_coefficient, "coefficient_method": b.coefficient_method,
+                               "time_of_concentration": b.time_of_concentration / 60.0, "time_method": b.time_method}
+                              for b in self.bases],
+                "stations": self.station_values(units), "schedule": self.schedule_values(units),
+                "total_cost": res.total_cost, "travel_time_iterations": res.iterations,
+                "warnings": [in_units(w, units) for w in self.warnings],
+                "notes": [in_units(n, units) for n in self.notes],
+                "not_verified": [in_units(n, units) for n in self.not_verified]}
+
+
+def design_run(project: Project, run: Run, catalogue: Catalogue | None = None) -> RunDesign:
+    """Solve one run of ``project`` with ``catalogue`` (default: the shipped one). Bad input raises
+    RunInputError naming the run and the item; hydraulics.NoSolutionError where no buildable schedule exists."""
+    catalogue = load_catalogue() if catalogue is None else catalogue
+    core, bases = build_run(project, run, catalogue)
+    try:
+        result = solve_run(core)
+    except hy.InputError as exc:
+        raise _in_run(run_label(project, run), exc) from None
+    warnings = [worded("sub-area {name}: {w}", name=b.name, w=w) for b in bases for w in b.warnings]
+    warnings += result.warnings
+    notes = list(result.notes)
+    if any(b.time_method.startswith("Kirpich") for b in bases):
+        notes.append("own times of concentration by Kirpich's formula where stated (Kirpich 1940)")
+    return RunDesign(project=project, run=run, result=result, bases=bases, warnings=warnings, notes=notes)
