@@ -18,7 +18,8 @@ import hydraulics
 ROOT = Path(__file__).resolve().parents[1]
 HEAVY = ("PySide6", "matplotlib", "reportlab", "PyQt5", "PyQt6")
 CORE = sorted(m.name for m in pkgutil.walk_packages(hydraulics.__path__, "hydraulics."))
-APPLICATION = ["app.evaluate", "app.verdicts", "app.results", "app.project", "app.files", "app.numtext", "app.batch",
+APPLICATION = ["app.evaluate", "app.verdicts", "app.results", "app.project", "app.files", "app.numtext", "app.inventory",
+               "app.inventory.reading", "app.inventory.checking", "app.inventory.writing", "app.inventory.reporting",
                "app.gui.compute", "app.cli.calc", "app.cli.compare"]
 
 

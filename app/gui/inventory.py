@@ -1,10 +1,10 @@
 """Check a ditch inventory from the window: every reach of a CSV, as a table to filter, sort and import from.
 
-The check itself is :func:`app.batch.run_inventory` (the vectorised core); it
+The check itself is :func:`app.inventory.run_inventory` (the vectorised core); it
 runs in a worker thread (:class:`~app.gui.tasks.Task`), so a long inventory
 shows its progress and the window stays usable. The table is a model over
-the rows of :meth:`app.batch.BatchRun.table`, with the file's line numbers
-down the side; the filters are :meth:`app.batch.BatchRun.select`. Chosen
+the rows of :meth:`app.inventory.BatchRun.table`, with the file's line numbers
+down the side; the filters are :meth:`app.inventory.BatchRun.select`. Chosen
 reaches become channels of the project in one undoable step
 (:meth:`app.gui.document.ProjectDocument.add_channels`).
 """
@@ -22,8 +22,8 @@ from PySide6.QtWidgets import (QAbstractItemView, QCheckBox, QComboBox, QDialog,
                                QHBoxLayout, QLabel, QLineEdit, QMessageBox, QPlainTextEdit,
                                QProgressBar, QPushButton, QTableView, QTabWidget, QVBoxLayout, QWidget)
 
-from .. import batch as ab
-from ..batch import InventoryError
+from .. import inventory as ai
+from ..inventory import InventoryError
 from hydraulics import batch as hb
 from hydraulics import units as hu
 
@@ -186,30 +186,30 @@ def _numeric(column: str) -> bool:
 
 
 class ReachesModel(SortableRows):
-    """Every reach of a :class:`app.batch.BatchRun`: the input columns as written, then the results.
+    """Every reach of a :class:`app.inventory.BatchRun`: the input columns as written, then the results.
 
     Cells are made when Qt asks for them (an input row is split only when it
-    is shown; numbers get the results file's :data:`app.batch.DIGITS`
+    is shown; numbers get the results file's :data:`app.inventory.DIGITS`
     significant digits), so a 100,000-reach inventory costs little more than
     the run itself.
     """
 
     def __init__(self, parent=None):
         super().__init__(parent)
-        self.run: ab.BatchRun | None = None
+        self.run: ai.BatchRun | None = None
         self._values: dict = {}
         self._fields: dict[int, list] = {}
         self._width = 0
 
-    def load(self, run: ab.BatchRun, order_names=LEADING) -> None:
+    def load(self, run: ai.BatchRun, order_names=LEADING) -> None:
         self.beginResetModel()
         inv = run.inventory
         self.run = run
         self._width = len(inv.header)
-        self._values = ab.display_values(inv, run.result)
+        self._values = ai.display_values(inv, run.result)
         self._verdicts = run.result.verdict.astype(str)
         self._fields.clear()
-        columns = list(inv.header) + list(ab.RESULT_COLUMNS)
+        columns = list(inv.header) + list(ai.RESULT_COLUMNS)
         lead = [columns.index(c) for c in order_names if c in columns]
         reason = columns.index("reason")
         order = lead + [i for i in range(len(columns)) if i not in lead and i != reason] + [reason]
@@ -234,7 +234,7 @@ class ReachesModel(SortableRows):
         if name == "reason":
             return self.run.result.reason[i]
         value = float(self._values[name][i])
-        return "" if math.isnan(value) else f"{value:.{ab.DIGITS}g}"
+        return "" if math.isnan(value) else f"{value:.{ai.DIGITS}g}"
 
     def verdict(self, i: int) -> str:
         return self._verdicts[i]
@@ -304,7 +304,7 @@ class InventoryDialog(QDialog):
         super().__init__(parent)
         self.doc = doc
         self.persistent = persistent
-        self.run: ab.BatchRun | None = None
+        self.run: ai.BatchRun | None = None
         self.task: Task | None = None
         self.setWindowTitle("Check a ditch inventory — Ditchwright")
         self.setObjectName("inventory")
@@ -505,7 +505,7 @@ class InventoryDialog(QDialog):
         catalogue = compute.catalogue()
 
         def work(progress):
-            return ab.run_inventory(path, units, progress=progress, catalogue=catalogue)
+            return ai.run_inventory(path, units, progress=progress, catalogue=catalogue)
 
         task = Task(work, self)
         task.progressed.connect(self._progressed)
@@ -558,7 +558,7 @@ class InventoryDialog(QDialog):
             self._say(sentence(f"The check stopped with an unexpected error: {type(exc).__name__}: {exc}") + before,
                       error=True)
 
-    def _checked(self, path: Path, run: ab.BatchRun) -> None:
+    def _checked(self, path: Path, run: ai.BatchRun) -> None:
         self.run = run
         units = run.inventory.units
         self.model.load(run)
@@ -715,7 +715,7 @@ class InventoryDialog(QDialog):
         if not path:
             return
         try:
-            ab.write_results(path, self.run.inventory, self.run.result)
+            ai.write_results(path, self.run.inventory, self.run.result)
         except Exception as exc:  # noqa: BLE001 - any failure is said; the results stay in the window
             why = exc.strerror or exc if isinstance(exc, OSError) else f"unexpected error {type(exc).__name__}: {exc}"
             self._say(f"The results were not saved to {path}: {why}.", error=True)
