@@ -21,7 +21,7 @@ import hydraulics as hy
 from app import inventory as ai
 from app.inventory import checking, reading, writing
 from app.main import main
-from hydraulics import batch as hb
+from hydraulics import many_reaches as mr
 from hydraulics import units as hu
 from inventory_rows import section_of, shape_fields
 
@@ -135,7 +135,7 @@ def _published_rows(system_key):
     """Published cases of the supported shapes as inventory rows, with the value each must give."""
     rows, expect = [], []
     for c in CASES:
-        if c["units"] != system_key or c["shape"] not in hb.SHAPES:
+        if c["units"] != system_key or c["shape"] not in mr.SHAPES:
             continue
         r = {"id": c["id"], "shape": c["shape"]}
         for k in ("bottom_width", "diameter"):
@@ -311,7 +311,7 @@ def test_pyarrow_and_python_readers_agree(monkeypatch, column):
     for name in ("header", "header_text", "rows", "ids", "blank_lines"):
         assert getattr(fast, name) == getattr(slow, name), name
     np.testing.assert_array_equal(fast.lines, slow.lines)
-    for name in hb.NUMERIC_FIELDS:
+    for name in mr.NUMERIC_FIELDS:
         np.testing.assert_array_equal(getattr(fast.reaches, name), getattr(slow.reaches, name), err_msg=name)
     for name in ("shape", "lining", "notes", "kind", "named"):
         assert getattr(fast.reaches, name).tolist() == getattr(slow.reaches, name).tolist(), name
@@ -501,9 +501,9 @@ def test_command_in_a_subprocess(tmp_path):
 
 def _reaches(**columns):
     size = len(columns["shape"])
-    base = {k: np.full(size, np.nan) for k in hb.NUMERIC_FIELDS}
-    base.update({k: np.asarray(v, dtype=float) for k, v in columns.items() if k in hb.NUMERIC_FIELDS})
-    return hb.Reaches(shape=np.array(columns["shape"], dtype=object),
+    base = {k: np.full(size, np.nan) for k in mr.NUMERIC_FIELDS}
+    base.update({k: np.asarray(v, dtype=float) for k, v in columns.items() if k in mr.NUMERIC_FIELDS})
+    return mr.Reaches(shape=np.array(columns["shape"], dtype=object),
                       lining=np.array(columns.get("lining", [""] * size), dtype=object), **base)
 
 
@@ -514,28 +514,28 @@ def test_chunks_and_progress_do_not_change_results():
                  right_slope=np.full(size, 3.0), slope=rng.uniform(1e-4, 0.05, size), flow=rng.uniform(0.01, 10, size),
                  n=np.full(size, 0.03))
     calls = []
-    small = hb.evaluate(r, chunk=7, progress=lambda done, total: calls.append((done, total)))
-    whole = hb.evaluate(r)
+    small = mr.evaluate(r, chunk=7, progress=lambda done, total: calls.append((done, total)))
+    whole = mr.evaluate(r)
     np.testing.assert_array_equal(small.normal_depth, whole.normal_depth)
     assert calls[-1] == (53, 53) and len(calls) == 8
 
 
 def test_a_failing_element_is_isolated(monkeypatch):
     """A core failure on one reach (whatever its cause) marks that reach only."""
-    real = hb.analyse
+    real = mr.analyse
 
     def fussy(section, flow, slope, n):
         if np.any(np.asarray(flow) == 13.0):
             raise hy.ConvergenceError("no convergence (element 0)")
         return real(section, flow, slope, n)
 
-    monkeypatch.setattr(hb, "analyse", fussy)
+    monkeypatch.setattr(mr, "analyse", fussy)
     size = 20
     flows = np.full(size, 2.0)
     flows[11] = 13.0
     r = _reaches(shape=["rectangle"] * size, bottom_width=np.full(size, 1.5), slope=np.full(size, 0.002),
                  flow=flows, n=np.full(size, 0.015))
-    res = hb.evaluate(r)
+    res = mr.evaluate(r)
     assert res.verdict[11] == "no-solution" and res.reason[11] == "no convergence"
     assert (res.verdict[np.arange(size) != 11] == "hydraulics-only").all()
     assert np.isfinite(res.normal_depth[np.arange(size) != 11]).all()
@@ -544,8 +544,8 @@ def test_a_failing_element_is_isolated(monkeypatch):
 def test_reasons_quote_the_display_units():
     r = _reaches(shape=["trapezoid"], bottom_width=[-0.3048], left_slope=[2], right_slope=[2], slope=[0.01],
                  flow=[1.0], n=[0.03])
-    assert "got -1 ft" in hb.screen(r, hu.US)[0]
-    assert "got -0.3048 m" in hb.screen(r, hu.SI)[0]
+    assert "got -1 ft" in mr.screen(r, hu.US)[0]
+    assert "got -0.3048 m" in mr.screen(r, hu.SI)[0]
 
 
 def test_lined_rows_get_the_lining_check():
@@ -634,7 +634,7 @@ def test_window_helpers(tmp_path):
 
 
 def test_core_batch_imports_no_gui_plot_or_pdf_library():
-    code = ("import sys, hydraulics.batch; "
+    code = ("import sys, hydraulics.many_reaches; "
             "print(','.join(m for m in ('PySide6', 'matplotlib', 'reportlab') if m in sys.modules))")
     out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, check=True,
                          cwd=Path(__file__).parents[1])
@@ -682,8 +682,8 @@ def test_two_decimals_as_python_rounds_them():
     # Binary values just below and above the decimal ties, and exact binary ties (0.125, 1.125).
     values = np.array([0.125, 0.135, 0.865, 0.995, 1.005, 1.015, 1.125, 1.13, 0.86, 0.8649999999999999, 2.675, 1.0,
                        0.999999999, 1.1249999999999998])
-    assert hb._each_2f(values, "Fr %s").tolist() == ["Fr %.2f" % v for v in values]
-    assert hb._each_2f(np.zeros(0), "%s").tolist() == []
+    assert mr._each_2f(values, "Fr %s").tolist() == ["Fr %.2f" % v for v in values]
+    assert mr._each_2f(np.zeros(0), "%s").tolist() == []
 
 
 def test_a_large_results_file_is_the_same_with_and_without_worker_threads(tmp_path, monkeypatch):

@@ -15,7 +15,7 @@ import pytest
 
 import hydraulics as hy
 from app import inventory as ai
-from hydraulics import batch as hb
+from hydraulics import many_reaches as mr
 from hydraulics.stability import check_lining
 from inventory_rows import section_of, shape_fields
 
@@ -52,7 +52,7 @@ def test_every_lined_reach_matches_check_lining(seed):
     w.writerows(rows)
     inv = ai.parse_inventory(buf.getvalue(), "si")
     res = ai.evaluate(inv)
-    cat = hb.default_catalogue()
+    cat = mr.default_catalogue()
     seen = set()
     for i, r in enumerate(rows):
         v = lambda k: float(r[k]) if r[k] else None  # noqa: E731

@@ -6,7 +6,7 @@ from app.evaluate import evaluate_channel
 from app.gui import compute
 from app.project import Channel, FlowBasis, LiningChoice
 from app.verdicts import Verdict, verdict_of
-from hydraulics import batch as hb
+from hydraulics import many_reaches as mr
 from hydraulics.units import SI, US
 from hydraulics.wording import in_units
 
@@ -16,7 +16,7 @@ TRAPEZOID = {"shape": "trapezoid", "bottom_width": 0.4, "left_slope": 3.0, "righ
 def test_the_batch_tokens_are_the_vocabularys():
     """The batch CSV's verdict column (a published contract, README) uses the same tokens; only too-shallow is
     given where the depth of the ditch is known, which an inventory does not say."""
-    assert hb.VERDICTS == tuple(v.token for v in Verdict if v is not Verdict.TOO_SHALLOW)
+    assert mr.VERDICTS == tuple(v.token for v in Verdict if v is not Verdict.TOO_SHALLOW)
     assert len({v.words for v in Verdict}) == len({v.heading for v in Verdict}) == len(Verdict)
     assert all(Verdict.from_token(v.token) is v for v in Verdict)
     with pytest.raises(ValueError, match="no verdict 'pass'"):

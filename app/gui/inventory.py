@@ -24,7 +24,7 @@ from PySide6.QtWidgets import (QAbstractItemView, QCheckBox, QComboBox, QDialog,
 
 from .. import inventory as ai
 from ..inventory import InventoryError
-from hydraulics import batch as hb
+from hydraulics import many_reaches as mr
 from hydraulics import units as hu
 
 from . import compute, settings
@@ -57,7 +57,7 @@ TYPE_AHEAD_ROWS = 50_000
 
 
 def _quantity(column: str) -> str | None:
-    return hb.RESULT_FIELDS.get(column) or hb.NUMERIC_FIELDS.get(column)
+    return mr.RESULT_FIELDS.get(column) or mr.NUMERIC_FIELDS.get(column)
 
 
 def column_title(column: str, units: hu.UnitSystem) -> str:
@@ -243,7 +243,7 @@ class ReachesModel(SortableRows):
         name, inv, res = self.columns[c], self.run.inventory, self.run.result
         if name in self._values:
             return np.asarray(self._values[name], dtype=float)
-        if name in hb.NUMERIC_FIELDS and c < self._width:
+        if name in mr.NUMERIC_FIELDS and c < self._width:
             return np.asarray(getattr(inv.reaches, name), dtype=float)   # SI: the same order as shown
         if name == "verdict":
             return self._verdicts
@@ -374,7 +374,7 @@ class InventoryDialog(QDialog):
         heading.setObjectName("subheading")
         fl.addWidget(heading, 0, 0)
         self.verdict_boxes: dict[str, QCheckBox] = {}
-        for i, verdict in enumerate(hb.VERDICTS):
+        for i, verdict in enumerate(mr.VERDICTS):
             box = QCheckBox(VERDICT_WORDS[verdict])
             box.setObjectName(f"verdict_{verdict}")
             box.setProperty("verdict", verdict)
@@ -387,7 +387,7 @@ class InventoryDialog(QDialog):
         self.warning.setObjectName("warningFilter")
         self.warning.addItem("any reach, warned or not", None)
         self.warning.addItem("with any warning", ANY_WARNING)
-        for key, label in hb.WARNINGS.items():
+        for key, label in mr.WARNINGS.items():
             self.warning.addItem(f"with {label}", key)
         self.warning.currentIndexChanged.connect(self.apply_filters)
         fl.addWidget(self.warning, 2, 1, 1, 2)
@@ -614,7 +614,7 @@ class InventoryDialog(QDialog):
         if self.run is None:
             return
         key = self.warning.currentData()
-        warnings = None if key is None else (list(hb.WARNINGS) if key == ANY_WARNING else [key])
+        warnings = None if key is None else (list(mr.WARNINGS) if key == ANY_WARNING else [key])
         rows = self.run.select(verdicts=self.chosen_verdicts(), warnings=warnings, text=self.text.text().strip())
         self.model.show_rows(rows)
         self._show_detail()

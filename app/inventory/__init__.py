@@ -1,6 +1,6 @@
 """Ditch inventories: read a CSV of reaches, check them all, write one result row per input row.
 
-The computation is :mod:`hydraulics.batch` (vectorised, SI). This package is
+The computation is :mod:`hydraulics.many_reaches` (vectorised, SI). This package is
 its edge, one module a job:
 
 * :mod:`~app.inventory.reading`: the CSV text (pyarrow's CSV reader for a

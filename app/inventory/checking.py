@@ -1,6 +1,6 @@
 """Checking an inventory: its reaches through the vectorised core, and the checked inventory the window shows.
 
-The computation is :func:`hydraulics.batch.evaluate` (vectorised, SI; the
+The computation is :func:`hydraulics.many_reaches.evaluate` (vectorised, SI; the
 reasons quote the inventory's units). :func:`check_and_write` runs it chunk
 by chunk and has each chunk written while the next is checked.
 """
@@ -12,7 +12,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from hydraulics import batch as hb
+from hydraulics import many_reaches as mr
 
 from . import writing
 from .reading import INPUT_COLUMNS, Inventory, csv_fields, read_inventory
@@ -20,21 +20,21 @@ from .reporting import problem_rows, summary
 from .writing import result_table
 
 
-def evaluate(inventory: Inventory, progress=None, catalogue=None) -> hb.BatchResult:
+def evaluate(inventory: Inventory, progress=None, catalogue=None) -> mr.BatchResult:
     """Check every reach of ``inventory`` (results SI; reasons quote the inventory's units).
 
     ``catalogue`` is the lining catalogue the ``lining`` column refers to
     (default: the shipped one; see hydraulics.linings.load_catalogue for a
     user catalogue on top of it).
     """
-    return hb.evaluate(inventory.reaches, display=inventory.units, progress=progress, catalogue=catalogue)
+    return mr.evaluate(inventory.reaches, display=inventory.units, progress=progress, catalogue=catalogue)
 
 
 #: Reaches per chunk in :func:`check_and_write`: small enough that formatting overlaps computing.
 WRITE_CHUNK = 25_000
 
 
-def check_and_write(path, inventory: Inventory, progress=None, catalogue=None) -> hb.BatchResult:
+def check_and_write(path, inventory: Inventory, progress=None, catalogue=None) -> mr.BatchResult:
     """:func:`evaluate`, then :func:`app.inventory.writing.write_results` to ``path``; returns the results.
 
     On a machine with two cores or more, the reaches are checked in chunks
@@ -51,7 +51,7 @@ def check_and_write(path, inventory: Inventory, progress=None, catalogue=None) -
         writing.write_results(path, inventory, result)
         return result
     return writing.write_while_checking(
-        path, inventory, lambda on_chunk: hb.evaluate(inventory.reaches, display=inventory.units, progress=progress,
+        path, inventory, lambda on_chunk: mr.evaluate(inventory.reaches, display=inventory.units, progress=progress,
                                                       chunk=WRITE_CHUNK, catalogue=catalogue, on_chunk=on_chunk))
 
 
@@ -60,7 +60,7 @@ class BatchRun:
     """An inventory with its results, for the desktop window."""
 
     inventory: Inventory
-    result: hb.BatchResult
+    result: mr.BatchResult
 
     def table(self):
         """(columns, rows) of text; see :func:`result_table`."""
@@ -74,7 +74,7 @@ class BatchRun:
 
     def select(self, verdicts=None, warnings=None, text: str = "") -> np.ndarray:
         """Row indices for a filtered view: any of ``verdicts`` (None: all), carrying any of
-        ``warnings`` (keys of hydraulics.batch.WARNINGS; None: no condition), and ``text``
+        ``warnings`` (keys of hydraulics.many_reaches.WARNINGS; None: no condition), and ``text``
         found (case-insensitively) in the row's id or reason."""
         keep = np.ones(len(self.inventory), dtype=bool)
         if verdicts is not None:

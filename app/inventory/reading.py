@@ -19,14 +19,14 @@ from pathlib import Path
 
 import numpy as np
 
-from hydraulics import batch as hb
+from hydraulics import many_reaches as mr
 from hydraulics import units as hu
 
 INPUT_COLUMNS = ("id", "shape", "bottom_width", "left_slope", "right_slope", "diameter", "slope", "flow", "lining",
                  "d50", "n")
 RESULT_COLUMNS = ("normal_depth", "critical_depth", "velocity", "froude", "bed_shear", "permissible_shear",
                   "safety_factor", "verdict", "reason")
-_NUMBER_COLUMNS = tuple(hb.NUMERIC_FIELDS)
+_NUMBER_COLUMNS = tuple(mr.NUMERIC_FIELDS)
 
 
 class InventoryError(Exception):
@@ -57,7 +57,7 @@ class Inventory:
     records: object         # per record its fields as CSV text (carried through unchanged): a list, or Records
     lines: np.ndarray       # per record: the line number where it starts (the header is line 1)
     id_values: object       # per record: the id as written (surrounding blanks kept): a list, or pyarrow's column
-    reaches: hb.Reaches
+    reaches: mr.Reaches
     blank_lines: list = field(default_factory=list)
     # (records as written to a results file, header text as written, cells given an apostrophe): made on first use
     _written: tuple | None = field(default=None, repr=False, compare=False)
@@ -293,7 +293,7 @@ def parse_inventory(text: str | bytes, units: str = "us", source: str = "invento
     names, index = _check_header(header_fields, source)
     width = len(names)
     size = len(records)
-    notes = hb.text_array(size)
+    notes = mr.text_array(size)
 
     ragged = np.flatnonzero(field_counts != width)
     if fast and not len(ragged):
@@ -313,9 +313,9 @@ def parse_inventory(text: str | bytes, units: str = "us", source: str = "invento
     numbers = {}
     for name in _NUMBER_COLUMNS:
         values = _numbers(col[name], name, notes, unreadable)
-        quantity = hb.NUMERIC_FIELDS[name]
+        quantity = mr.NUMERIC_FIELDS[name]
         numbers[name] = values if quantity in ("slope", "side_slope", "manning_n") else system.to_si(quantity, values)
-    reaches = hb.Reaches(shape=_texts(col["shape"], lower=True), lining=_texts(col["lining"]), notes=notes,
+    reaches = mr.Reaches(shape=_texts(col["shape"], lower=True), lining=_texts(col["lining"]), notes=notes,
                          unreadable=unreadable, **numbers)
     return Inventory(source=source, units=system, header=names, header_text=header_text, records=rows, lines=lines,
                      id_values=col["id"], reaches=reaches, blank_lines=blank)
@@ -382,18 +382,18 @@ def _parse_arrow(data: bytes, system, source: str):
             return None
     if table.num_rows != size:
         return None
-    notes = hb.text_array(size)
+    notes = mr.text_array(size)
     unreadable = {}
     numbers = {}
     for name in _NUMBER_COLUMNS:
         values = _arrow_numbers(pa, table.column(col[name]), name, notes, unreadable)
-        quantity = hb.NUMERIC_FIELDS[name]
+        quantity = mr.NUMERIC_FIELDS[name]
         numbers[name] = values if quantity in ("slope", "side_slope", "manning_n") else system.to_si(quantity, values)
     shape, shape_kinds = _arrow_texts(pa, table.column(col["shape"]), lower=True)
     lining, lining_texts = _arrow_texts(pa, table.column(col["lining"]))
-    kind = np.array([hb.SHAPE_CODE.get(t, -1) for t in shape_kinds], dtype=np.int8)[shape]
+    kind = np.array([mr.SHAPE_CODE.get(t, -1) for t in shape_kinds], dtype=np.int8)[shape]
     named = np.array([bool(t) for t in lining_texts], dtype=bool)[lining]
-    reaches = hb.Reaches(shape=np.array(shape_kinds, dtype=object)[shape],
+    reaches = mr.Reaches(shape=np.array(shape_kinds, dtype=object)[shape],
                          lining=np.array(lining_texts, dtype=object)[lining], notes=notes, unreadable=unreadable,
                          kind=kind, named=named, **numbers)
     return Inventory(source=source, units=system, header=names, header_text=header, records=Records(body, starts),

@@ -2,7 +2,7 @@
 
 The summary counts the reaches per verdict and per warning, gives the
 extremes of the shear ratio and of the bed shear, and adds the notes about
-groups of reaches (:attr:`hydraulics.batch.BatchResult.messages`) and about
+groups of reaches (:attr:`hydraulics.many_reaches.BatchResult.messages`) and about
 the file itself (repeated or missing ids, blank lines, cells written with an
 apostrophe). The plot shows the same counts and the spread of the shear ratio.
 """
@@ -13,7 +13,7 @@ from pathlib import Path
 
 import numpy as np
 
-from hydraulics import batch as hb
+from hydraulics import many_reaches as mr
 from hydraulics import provenance
 from hydraulics.linings import hec15
 
@@ -25,23 +25,23 @@ from .writing import written_rows
 MAX_MESSAGES = 12
 
 
-def problem_rows(inventory: Inventory, result: hb.BatchResult):
+def problem_rows(inventory: Inventory, result: mr.BatchResult):
     """[(line, id, verdict, reason)] for every reach that is invalid or has no solution, in file order."""
     bad = [i for i, v in enumerate(result.verdict.tolist()) if v in ("invalid", "no-solution")]
     return [(int(inventory.lines[i]), inventory.id_at(i), result.verdict[i], result.reason[i]) for i in bad]
 
 
-def summary(inventory: Inventory, result: hb.BatchResult, seconds: float | None = None) -> str:
+def summary(inventory: Inventory, result: mr.BatchResult, seconds: float | None = None) -> str:
     """A few lines for the terminal: counts per verdict, warnings, extremes."""
     counts = result.counts()
     size = len(inventory)
     units = inventory.units
     out = [f"{size:,} reach{'es' if size != 1 else ''} in {inventory.source} ({units.name} units)"
            + (f", checked in {seconds:.2f} s" if seconds is not None else "")]
-    width = max(len(v) for v in hb.VERDICTS)
-    for verdict in hb.VERDICTS:
+    width = max(len(v) for v in mr.VERDICTS)
+    for verdict in mr.VERDICTS:
         out.append(f"  {verdict:<{width}}  {counts[verdict]:>9,}")
-    flagged = [f"{int(result.flags[k].sum()):,} {label}" for k, label in hb.WARNINGS.items() if result.flags[k].any()]
+    flagged = [f"{int(result.flags[k].sum()):,} {label}" for k, label in mr.WARNINGS.items() if result.flags[k].any()]
     if flagged:
         out.append("  warnings: " + ", ".join(flagged) + " (see the reason column)")
     ratio = result.shear_ratio
@@ -101,7 +101,7 @@ def summary(inventory: Inventory, result: hb.BatchResult, seconds: float | None 
 PLOT_FORMATS = (".png", ".pdf", ".svg")
 
 
-def plot_summary(result: hb.BatchResult, path, title: str = "Ditch inventory") -> None:
+def plot_summary(result: mr.BatchResult, path, title: str = "Ditch inventory") -> None:
     """Save a two-panel summary figure: reaches per verdict, and the distribution of shear ratio.
 
     The format follows the suffix of ``path`` (PNG, PDF or SVG). Uses

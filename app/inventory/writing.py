@@ -20,7 +20,7 @@ from itertools import repeat
 
 import numpy as np
 
-from hydraulics import batch as hb
+from hydraulics import many_reaches as mr
 
 from ..files import FORMULA_STARTS, atomic_writer, spreadsheet_safe, write_atomic
 from ..numtext import format_rows, format_rows_parallel
@@ -29,7 +29,7 @@ from .reading import RESULT_COLUMNS, Inventory, Records, csv_fields, csv_line
 
 #: Significant digits of the numbers written (more than any inventory's inputs carry).
 DIGITS = 5
-_VALUE_COLUMNS = tuple(hb.RESULT_FIELDS)  # the numeric result columns, in output order
+_VALUE_COLUMNS = tuple(mr.RESULT_FIELDS)  # the numeric result columns, in output order
 
 
 def _quote_field(text: str) -> str:
@@ -38,13 +38,13 @@ def _quote_field(text: str) -> str:
     return text
 
 
-def display_values(inventory: Inventory, result: hb.BatchResult) -> dict:
+def display_values(inventory: Inventory, result: mr.BatchResult) -> dict:
     """The numeric result columns in the inventory's units (nan where blank)."""
     return {k: inventory.units.from_si(q, getattr(result, k)) if q not in ("ratio",) else getattr(result, k)
-            for k, q in hb.RESULT_FIELDS.items()}
+            for k, q in mr.RESULT_FIELDS.items()}
 
 
-def format_results(inventory: Inventory, result: hb.BatchResult) -> str:
+def format_results(inventory: Inventory, result: mr.BatchResult) -> str:
     """The results file as text: the input rows with the result columns added.
 
     Numbers are written as Python's ``"%.5g"`` writes them (:data:`DIGITS`
@@ -55,12 +55,12 @@ def format_results(inventory: Inventory, result: hb.BatchResult) -> str:
     return _results_bytes(inventory, result).decode("utf-8")
 
 
-def _results_bytes(inventory: Inventory, result: hb.BatchResult) -> bytes:
+def _results_bytes(inventory: Inventory, result: mr.BatchResult) -> bytes:
     """The results file, UTF-8: each row is its input text, the numbers, the verdict and the reason."""
     return b"".join(_results_pieces(inventory, result))
 
 
-def _number_table(inventory: Inventory, result: hb.BatchResult) -> np.ndarray:
+def _number_table(inventory: Inventory, result: mr.BatchResult) -> np.ndarray:
     """The numeric result columns in the inventory's units, one row per reach of ``result``."""
     values = display_values(inventory, result)
     return np.column_stack([values[k] for k in _VALUE_COLUMNS]) if len(result) else np.zeros((0, len(_VALUE_COLUMNS)))
@@ -70,7 +70,7 @@ def _workers() -> int:
     return min(2, os.cpu_count() or 1)
 
 
-def _results_pieces(inventory: Inventory, result: hb.BatchResult) -> list:
+def _results_pieces(inventory: Inventory, result: mr.BatchResult) -> list:
     """The results file as a few bytes-like pieces to be written one after the other (no copy joins them)."""
     size = len(inventory)
     head = _results_head(inventory)
@@ -202,12 +202,12 @@ def _coded(pa, values: list, text_of):
     return pa.DictionaryArray.from_arrays(pa.array(indices), texts)
 
 
-def write_results(path, inventory: Inventory, result: hb.BatchResult) -> None:
+def write_results(path, inventory: Inventory, result: mr.BatchResult) -> None:
     """Write the results file atomically (a half-written file never replaces a good one), UTF-8."""
     write_atomic(path, _results_pieces(inventory, result))
 
 
-def result_table(inventory: Inventory, result: hb.BatchResult):
+def result_table(inventory: Inventory, result: mr.BatchResult):
     """(columns, rows) for a table view: every input column then the result columns, all as text.
 
     Numbers are in the inventory's units with :data:`DIGITS` significant
@@ -226,7 +226,7 @@ def can_write_while_checking(inventory: Inventory, chunk: int) -> bool:
     return reading.pyarrow_modules() is not None and _workers() >= 2 and len(inventory) >= 2 * chunk
 
 
-def write_while_checking(path, inventory: Inventory, check) -> hb.BatchResult:
+def write_while_checking(path, inventory: Inventory, check) -> mr.BatchResult:
     """Write the results file of ``inventory`` to ``path`` while ``check(on_chunk)`` checks its reaches.
 
     ``check`` calls ``on_chunk(part, done)`` for each slice ``part`` of the

@@ -277,7 +277,7 @@ def test_double_click_on_a_bad_row_shows_it_among_the_reaches(window, qtbot, inv
 
 
 def test_a_long_inventory_shows_progress_and_the_window_keeps_running(window, qtbot, tmp_path):
-    from hydraulics.batch import CHUNK
+    from hydraulics.many_reaches import CHUNK
     from PySide6.QtCore import QTimer
 
     size = CHUNK + CHUNK // 5
