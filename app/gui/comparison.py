@@ -135,12 +135,12 @@ class ComparisonView(QWidget):
     def refresh(self) -> None:
         """Linings side by side: one column each, the quantities down the side."""
         self._stale = False
-        ch, units = self.doc.channel(), self.doc.units
+        ch, context = self.doc.channel(), self.doc.context
         self._fill_choices(ch)
-        self.rows, reason = compute.compare(ch, units)
+        self.rows, reason = compute.compare(ch, context)
         self.unavailable.setText(reason)
         self.unavailable.setVisible(bool(reason))
-        heads, body = compute.comparison_table(self.rows, units)
+        heads, body = compute.comparison_table(self.rows, context)
         self._set_columns(len(body))
         self.table.setRowCount(len(heads))          # row 0: the small section; then the quantities
         self.table.setHorizontalHeaderLabels([wrap(keep_units_whole(cells[0])) for cells in body])
@@ -214,7 +214,7 @@ class ComparisonView(QWidget):
             self._fill_choices(self.doc.channel())
 
     def _fill_choices(self, ch) -> None:
-        groups = compute.lining_groups(self.doc.units)
+        groups = compute.lining_groups(self.doc.context)
         columns = self._columns()
         if groups != getattr(self, "_groups", None) or columns != getattr(self, "_filled_columns", None):
             self._groups, self._filled_columns = groups, columns
@@ -312,7 +312,7 @@ class ComparisonView(QWidget):
                 return
 
     def copy_table(self) -> str:
-        text = compute.comparison_tsv([self.rows[j] for j in self.shown_order()], self.doc.units)
+        text = compute.comparison_tsv([self.rows[j] for j in self.shown_order()], self.doc.context)
         QGuiApplication.clipboard().setText(text)
         self.status_message.emit(f"Comparison table copied ({len(self.rows)} rows, tab-separated).")
         return text

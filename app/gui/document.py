@@ -16,6 +16,7 @@ from PySide6.QtGui import QUndoStack
 import hydraulics as hy
 
 from .. import project as pj
+from ..context import Context
 from ..files import FileChangedError, FileStamp
 from . import commands as cmd
 
@@ -109,8 +110,11 @@ class ProjectDocument(QObject):
     current_changed = Signal(int)
     project_changed = Signal()       # project name, notes or sheet details
 
-    def __init__(self, project: pj.Project | None = None, path=None, parent=None):
+    def __init__(self, project: pj.Project | None = None, path=None, parent=None, context: Context | None = None):
+        """``context``: the catalogue and program version the project is evaluated with (default: the shipped
+        catalogue alone); its units follow the project's (:attr:`context`)."""
         super().__init__(parent)
+        self._context = context if context is not None else Context.load()
         self.undo_stack = QUndoStack(self)
         self.project = project or new_project()
         self.path = Path(path) if path else None
@@ -127,6 +131,11 @@ class ProjectDocument(QObject):
     @property
     def units(self) -> hy.units.UnitSystem:
         return hy.units.system(self.project.units)
+
+    @property
+    def context(self) -> Context:
+        """What the project is evaluated and exported with: the window's context, in the project's units."""
+        return self._context.with_units(self.units)
 
     def channel(self, index: int | None = None) -> pj.Channel:
         return self.project.channels[self.current if index is None else index]

@@ -283,12 +283,14 @@ class LiningForm(QWidget):
 
     def _fill(self, units: UnitSystem | None = None) -> None:
         """The catalogue under a heading per kind (headings cannot be chosen), named in ``units``."""
-        units = units or self.panel.doc.units
-        self._filled_for = units
+        context = self.panel.doc.context
+        if units is not None:
+            context = context.with_units(units)
+        self._filled_for = context.units
         self.combo.clear()
         self.combo.addItem("None: Manning's n only", "")
         model = self.combo.model()
-        for heading, items in compute.lining_groups(units, sizes=False):   # the stone size has its own field
+        for heading, items in compute.lining_groups(context, sizes=False):   # the stone size has its own field
             self.combo.addItem(heading)
             head = model.item(self.combo.count() - 1)
             head.setEnabled(False)
@@ -315,8 +317,9 @@ class LiningForm(QWidget):
             self._fill(units)
         lining = channel.lining
         entry = None
-        if lining is not None and lining.key in compute.catalogue():
-            entry = compute.lining_entry(lining.key)
+        catalogue = self.panel.doc.context.catalogue
+        if lining is not None and lining.key in catalogue:
+            entry = catalogue.get(lining.key)
         i = self.combo.findData(lining.key if lining is not None else "")
         if i < 0:   # a key this catalogue does not know: show it, say so
             self.combo.addItem(f"{lining.key} (not in the catalogue)", lining.key)

@@ -502,7 +502,7 @@ class InventoryDialog(QDialog):
         if self.persistent:
             settings.INVENTORY_FOLDER.write(str(path.parent))
             settings.INVENTORY_UNITS.write(units)
-        catalogue = compute.catalogue()
+        catalogue = self.doc.context.catalogue   # the window's: shipped, with the user's file
 
         def work(progress):
             return ai.run_inventory(path, units, progress=progress, catalogue=catalogue)

@@ -18,6 +18,7 @@ import hydraulics as hy
 from .. import __version__
 from .. import project as pj
 from .. import sheet as sh
+from ..context import Context
 from ..files import FileChangedError, FileStamp
 from . import compute, settings
 from .autosave import Autosaver, find_recoverable, save_failure_reason
@@ -38,10 +39,16 @@ TABS = ("section", "rating", "energy", "compare")
 
 
 class MainWindow(QMainWindow):
-    def __init__(self, project: pj.Project | None = None, path=None, *, persistent: bool = True):
+    def __init__(self, project: pj.Project | None = None, path=None, *, persistent: bool = True,
+                 context: Context | None = None):
+        """The window over ``project`` (read from ``path``). ``context`` is what it evaluates and exports with;
+        by default the shipped lining catalogue with the user's catalogue file of the data folder laid over it
+        (the shipped one alone when not ``persistent``)."""
         super().__init__()
         self.persistent = persistent
-        self.doc = ProjectDocument(project, path, parent=self)
+        if context is None:   # the user's own linings and unit costs, laid over the shipped catalogue
+            context = Context.load(settings.user_catalogue_path() if persistent else None)
+        self.doc = ProjectDocument(project, path, parent=self, context=context)
         self.last_good: compute.Evaluation | None = None
         self.evaluation: compute.Evaluation | None = None
         self._drawn: dict[str, int] = {}
@@ -59,10 +66,8 @@ class MainWindow(QMainWindow):
         self.autosaver = Autosaver(self.doc, parent=self) if persistent else None
         if self.autosaver:
             self.autosaver.failed.connect(self.autosave_failed)
-        if persistent:   # the user's own linings and unit costs, laid over the shipped catalogue
-            problem = compute.use_user_catalogue(settings.user_catalogue_path())
-            if problem:
-                self.statusBar().showMessage(problem, 15000)
+        if context.catalogue_problem:
+            self.statusBar().showMessage(context.catalogue_problem, 15000)
         self.refresh_all()
 
     # -- construction, in named steps ---------------------------------------------------
@@ -311,7 +316,7 @@ class MainWindow(QMainWindow):
     def refresh(self, *_signal_args) -> None:
         """Evaluate the current channel and redraw what is in view."""
         ch = self.doc.channel()
-        ev = compute.evaluate(ch, self.doc.units)
+        ev = compute.evaluate(ch, self.doc.context)
         complaint = self.inputs.first_complaint()
         self.inputs.show_evaluation(ev)
         if ev.ok and not complaint:
@@ -625,7 +630,7 @@ class MainWindow(QMainWindow):
         names = choice.channels if choice.channels is not None else [c.name for c in project.channels]
         unsolved = []
         for name in names:
-            ev = compute.evaluate(project.channel(name), self.doc.units)
+            ev = compute.evaluate(project.channel(name), self.doc.context)
             if not ev.ok:
                 unsolved.append((name, ev.error))
         if not unsolved:
@@ -655,7 +660,7 @@ class MainWindow(QMainWindow):
         """
         project = copy.deepcopy(self.doc.project)
         count = len(choice.channels) if choice.channels is not None else len(project.channels)
-        linings = compute.catalogue()   # the one the window evaluates with: shipped plus the user's file
+        linings = self.doc.context.catalogue   # the one the window evaluates with: shipped plus the user's file
 
         def work(progress):
             return sh.export_sheets(project, choice.path, channels=choice.channels, page=choice.page, sign=sign,
