@@ -11,8 +11,7 @@ import pytest
 
 from app import inventory as ai
 from app.inventory import checking, reading, writing
-from app.files import FORMULA_STARTS, spreadsheet_safe
-from app.gui.compute import tsv_cell
+from app.files import FORMULA_STARTS, spreadsheet_safe, tsv_cell
 from app.main import main
 
 HEADER = list(ai.INPUT_COLUMNS) + ["owner", "offset"]

@@ -4,7 +4,7 @@ import pytest
 
 from app.context import Context
 from app.evaluate import evaluate_channel
-from app.gui import compute
+from app import channel_display as display
 from app.project import Channel, FlowBasis, LiningChoice
 from app.verdicts import Verdict, verdict_of
 from hydraulics import many_reaches as mr
@@ -31,7 +31,7 @@ def test_window_and_sheet_share_the_verdict(lining, expected):
                  lining=None if lining is None else LiningChoice(lining))
     design = evaluate_channel(ch)
     assert design.verdict is expected
-    ev = compute.evaluate(ch, Context.load(units="si"))
+    ev = display.evaluate(ch, Context.load(units="si"))
     assert (ev.verdict.headline, ev.verdict.status) == (expected.words, expected.status)
 
 
@@ -42,7 +42,7 @@ def test_a_pipe_too_shallow_for_its_freeboard_says_so_everywhere():
                  section={"shape": "circle", "diameter": 0.6})
     design = evaluate_channel(ch)
     assert design.total_depth > 0.6 and design.verdict is Verdict.TOO_SHALLOW
-    ev = compute.evaluate(ch, Context.load(units="us"))
+    ev = display.evaluate(ch, Context.load(units="us"))
     assert ev.verdict.headline == "Too shallow" and ev.verdict.status == "fail"
     assert "ft" in ev.verdict.reason and "crown of the pipe" in ev.verdict.reason
     assert verdict_of(design.stability) is Verdict.NON_ERODIBLE      # without the depth it is the lining's

@@ -17,9 +17,10 @@ from PySide6.QtWidgets import (QAbstractItemView, QComboBox, QGridLayout, QGroup
 
 from hydraulics.units import UnitSystem
 
+from .. import channel_display as display
+from ..editing import section_for_shape, value_at, with_value
 from ..project import LiningChoice
-from . import compute
-from .document import ProjectDocument, section_for_shape, value_at, with_value
+from .document import ProjectDocument
 from .fields import (FieldSpec, LineEdit, NotesEdit, NumberField, UnclearNumber, format_number, keep_units_whole,
                      parse_number, pretty, set_invalid)
 
@@ -290,7 +291,7 @@ class LiningForm(QWidget):
         self.combo.clear()
         self.combo.addItem("None: Manning's n only", "")
         model = self.combo.model()
-        for heading, items in compute.lining_groups(context, sizes=False):   # the stone size has its own field
+        for heading, items in display.lining_groups(context, sizes=False):   # the stone size has its own field
             self.combo.addItem(heading)
             head = model.item(self.combo.count() - 1)
             head.setEnabled(False)
@@ -331,7 +332,7 @@ class LiningForm(QWidget):
             self.d50.show_value(lining.d50, units, force)
             default = entry.d50
             self.d50.edit.setPlaceholderText(
-                f"catalogue: {pretty(compute.stone_size_text(default, units))}" if default else "needed")
+                f"catalogue: {pretty(display.stone_size_text(default, units))}" if default else "needed")
         surveyed = channel.section.get("shape") == "irregular"
         plain = lining is None
         self.n.set_visible(plain and not (surveyed and channel.manning_n is None))
@@ -582,7 +583,7 @@ class InputPanel(QScrollArea):
         self._invalid = {k: v for k, v in self._invalid.items() if k in self.fields and self.fields[k].error}
         self.validity_changed.emit(self.first_complaint())
 
-    def show_evaluation(self, ev: compute.Evaluation) -> None:
+    def show_evaluation(self, ev: display.Evaluation) -> None:
         """The computed lines of the form, and a mark on the field the core's error names."""
         units = self.doc.units
         if ev.time_of_concentration is not None:
@@ -623,7 +624,7 @@ class InputPanel(QScrollArea):
     def _commit(self, field: NumberField, key: str, value) -> None:
         path = field.spec.path
         candidate = with_value(self.doc.channel(), path, value)
-        refusal = compute.check_section(candidate)
+        refusal = display.check_section(candidate)
         if refusal is not None:
             message, core_field = refusal
             target = self.fields.get(f"{candidate.section['shape']}:{CORE_TO_PATH.get(core_field, '')}", field)
@@ -661,7 +662,7 @@ class InputPanel(QScrollArea):
 
     def _survey_changed(self, section: dict, text: str) -> None:
         candidate = with_value(self.doc.channel(), "section", section)
-        refusal = compute.check_section(candidate)
+        refusal = display.check_section(candidate)
         if refusal is not None:
             self.survey._set_message(refusal[0])
             self._note_invalid("survey", refusal[0])

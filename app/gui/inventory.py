@@ -23,11 +23,12 @@ from PySide6.QtWidgets import (QAbstractItemView, QCheckBox, QComboBox, QDialog,
                                QProgressBar, QPushButton, QTableView, QTabWidget, QVBoxLayout, QWidget)
 
 from .. import inventory as ai
+from ..files import tsv_cell
 from ..inventory import InventoryError
 from hydraulics import many_reaches as mr
 from hydraulics import units as hu
 
-from . import compute, settings
+from . import settings
 from .fields import pretty, sentence
 from .style import STYLE
 from .tasks import Cancelled, Task
@@ -699,10 +700,10 @@ class InventoryDialog(QDialog):
         rows = sorted({i.row() for i in self.table.selectionModel().selectedRows()})
         if not rows:
             return
-        lines = ["\t".join(["line"] + [compute.tsv_cell(self.model.titles[c]) for c in self.model.order])]
+        lines = ["\t".join(["line"] + [tsv_cell(self.model.titles[c]) for c in self.model.order])]
         for r in rows:
             lines.append("\t".join([str(int(self.model.lines[self.model.shown[r]]))] +
-                                   [compute.tsv_cell(self.model.cell(r, c)) for c in range(self.model.columnCount())]))
+                                   [tsv_cell(self.model.cell(r, c)) for c in range(self.model.columnCount())]))
         QGuiApplication.clipboard().setText("\n".join(lines) + "\n")
         self._say(f"Copied {len(rows):,} row{'s' if len(rows) != 1 else ''} as tab-separated text.")
 

@@ -12,9 +12,9 @@ import copy
 
 import pytest
 
+from app import channel_display as display
 from app import project as pj
 from app.context import Context
-from app.gui import compute
 from app.gui.mainwindow import MainWindow
 
 COSTS = (70.0, 140.0)
@@ -38,12 +38,12 @@ def demo():
 def test_two_contexts_price_the_same_channel_each_by_its_own_catalogue(contexts):
     channel = demo().channel("East verge ditch")          # lined with concrete
     for context, cost in zip(contexts, COSTS):
-        ev = compute.evaluate(channel, context)
+        ev = display.evaluate(channel, context)
         assert context.catalogue_problem == "" and ev.lining.unit_cost == cost
         assert ev.lining.cost_per_length == pytest.approx(cost * ev.lining.lined_width, rel=1e-12)
-    cheap, dear = (compute.evaluate(channel, c).lining for c in contexts)
+    cheap, dear = (display.evaluate(channel, c).lining for c in contexts)
     assert dear.cost_per_length == pytest.approx(2 * cheap.cost_per_length, rel=1e-12)   # the first is unchanged
-    assert compute.evaluate(channel, Context.load(units="si")).lining.cost_per_length is None   # shipped: no price
+    assert display.evaluate(channel, Context.load(units="si")).lining.cost_per_length is None   # shipped: no price
 
 
 def test_each_window_computes_with_the_context_it_was_given(contexts, qtbot):

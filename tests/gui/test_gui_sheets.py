@@ -375,7 +375,7 @@ def test_sheet_from_the_window_uses_the_users_catalogue(qtbot, monkeypatch, tmp_
     """The window evaluates with the user's catalogue laid over the shipped one; its sheets must too (an invented
     unit cost of 70 per m^2 on concrete shows as a cost per length on both)."""
     from app.context import Context
-    from app.gui import compute
+    from app import channel_display as display
     user = tmp_path / "my-linings.toml"
     user.write_text('schema_version = 1\n[[lining]]\nkey = "concrete"\nunit_cost = 70.0\nunit_cost_basis = "area"\n',
                     encoding="utf-8")
@@ -386,7 +386,7 @@ def test_sheet_from_the_window_uses_the_users_catalogue(qtbot, monkeypatch, tmp_
     window.show()
     qtbot.waitExposed(window)
     window.doc.project.channels[0].lining = pj.LiningChoice("concrete")
-    ev = compute.evaluate(window.doc.channel(), window.doc.context.with_units("us"))
+    ev = display.evaluate(window.doc.channel(), window.doc.context.with_units("us"))
     assert ev.lining.cost_per_length is not None
     out = tmp_path / "priced.pdf"
     answer_export(monkeypatch, path=out, open_after=False)

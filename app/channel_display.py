@@ -1,11 +1,11 @@
-"""What the window shows for one channel, computed by the core. No Qt here.
+"""One channel as the window shows it: its evaluation, verdict, lining names, comparison and curves. No Qt here.
 
-The widgets never compute: they hand a :class:`app.project.Channel` and the
-window's :class:`app.context.Context` (catalogue, units) to :func:`evaluate`
-and draw what comes back. The numbers come from the
-shared channel evaluation (:mod:`app.evaluate`: design flow, uniform flow,
-lining stability by HEC-15, freeboard) and the lining comparison of
-:mod:`hydraulics.stability`; this module only shapes them for the window.
+The window's widgets never compute: they hand a :class:`app.project.Channel`
+and the window's :class:`app.context.Context` (catalogue, units) to
+:func:`evaluate` and draw what comes back. The numbers come from the shared
+channel evaluation (:mod:`app.evaluate`: design flow, uniform flow, lining
+stability by HEC-15, freeboard) and the lining comparison of
+:mod:`hydraulics.stability`; this module only shapes them for display.
 """
 
 from __future__ import annotations
@@ -24,13 +24,13 @@ from hydraulics.stability import StabilityResult, compare_linings
 from hydraulics.units import UnitSystem
 from hydraulics.wording import in_units
 
-from ..context import Context
-from ..files import spreadsheet_safe
-from ..evaluate import comparison_choices, design_flow, evaluate_channel
-from ..project import Channel, LiningChoice
-from ..results import ResultField, format_value
-from ..verdicts import Verdict as Verdicts
-from ..verdicts import too_shallow_reason, verdict_of
+from .context import Context
+from .evaluate import comparison_choices, design_flow, evaluate_channel
+from .files import tsv_cell
+from .project import Channel, LiningChoice
+from .results import ResultField, format_value
+from .verdicts import Verdict as Verdicts
+from .verdicts import too_shallow_reason, verdict_of
 
 #: Core field names as the user reads them (for messages that name a field).
 FIELD_LABELS = {
@@ -280,11 +280,6 @@ def comparison_tsv(rows, context: Context) -> str:
     """The comparison as tab-separated text, for pasting into a spreadsheet."""
     heads, body = comparison_table(rows, context)
     return "\n".join("\t".join(tsv_cell(c) for c in line) for line in [heads, *body]) + "\n"
-
-
-def tsv_cell(text: str) -> str:
-    """A cell of tab-separated text for a spreadsheet: no tab or line break inside, and never run as a formula."""
-    return " ".join(spreadsheet_safe(text).replace("\t", " ").splitlines())
 
 
 def with_lining(channel: Channel, choice: LiningChoice) -> Channel:
