@@ -190,3 +190,8 @@ def spreadsheet_safe(text: str) -> str:
     if text[:1] in FORMULA_STARTS and not _PLAIN_NUMBER.fullmatch(text):
         return "'" + text
     return text
+
+
+def tsv_cell(text: str) -> str:
+    """A cell of tab-separated text for a spreadsheet: no tab or line break inside, and never run as a formula."""
+    return " ".join(spreadsheet_safe(text).replace("\t", " ").splitlines())

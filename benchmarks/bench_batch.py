@@ -9,7 +9,7 @@ a few pipes too small for their flow and a few malformed rows. Lined reaches
 depth-dependent n from the catalogue (a coupled solve).
 
 (1) batch: read the CSV, check every reach, write the results CSV, timed as
-    the command does it (app.batch.read_inventory and check_and_write; parsing
+    the command does it (app.inventory.read_inventory and check_and_write; parsing
     and unit conversion included).
 (2) scalar: the same reaches one by one with the scalar API (section class,
     hy.max_flow for pipes, the lining's roughness, hy.analyse), computing
@@ -55,7 +55,7 @@ import numpy as np
 sys.path.insert(0, str(Path(__file__).resolve().parent.parent))  # this checkout's code, not an installed copy
 
 import hydraulics as hy
-from app import batch as ab
+from app import inventory as ai
 from hydraulics import units as hu
 from hydraulics.linings import load_catalogue
 from hydraulics.stability import check_lining, shear_checks
@@ -114,8 +114,8 @@ def best(fn, repeat, cpu=None):
 
 def batch_end_to_end(src: Path, dst: Path):
     """What `ditchwright batch` does between reading its options and printing its summary."""
-    inventory = ab.read_inventory(src, "us")
-    return ab.check_and_write(dst, inventory)
+    inventory = ai.read_inventory(src, "us")
+    return ai.check_and_write(dst, inventory)
 
 
 _CATALOGUE = load_catalogue()
@@ -172,7 +172,7 @@ def scalar_with_io(src: Path, dst: Path):
         rows = list(csv.DictReader(fh))
     with open(dst, "w", newline="") as fh:
         w = csv.writer(fh)
-        w.writerow(list(rows[0]) + list(ab.RESULT_COLUMNS[:5]))
+        w.writerow(list(rows[0]) + list(ai.RESULT_COLUMNS[:5]))
         for r in rows:
             res = _scalar_row(r, us)
             vals = [] if res is None else [

@@ -8,7 +8,7 @@ Reynolds number, K2 on side slopes, Appendix D on steep slopes; grass and soil:
 Chapter 4; rolled products: the user's data-sheet value); and the safety
 factor against the required one (Eq. 3.2). One channel
 (:func:`hydraulics.stability.check_lining`) and thousands
-(:mod:`hydraulics.batch`) go through the same :func:`shear_checks`. Where each
+(:mod:`hydraulics.many_reaches`) go through the same :func:`shear_checks`. Where each
 value was read: :mod:`hydraulics.provenance`.
 """
 

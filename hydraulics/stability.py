@@ -32,7 +32,7 @@ same sentence in its own units.
 
 Steps 2 to 4 are :func:`hydraulics.shear_checks.shear_checks`, on arrays:
 :func:`check_lining` calls it for one channel, and the inventory check
-(:mod:`hydraulics.batch`) for thousands at once, so each relation is strung
+(:mod:`hydraulics.many_reaches`) for thousands at once, so each relation is strung
 together in one place. Step 5 is :mod:`hydraulics.stone_size`, step 6
 :mod:`hydraulics.freeboard`. The rest of :func:`check_lining` (quantities,
 words) and the lining comparison are here, for single channels.

@@ -18,13 +18,14 @@ import numpy as np
 import pytest
 
 import hydraulics as hy
-from app import batch as ab
+from app import inventory as ai
+from app.inventory import checking, reading, writing
 from app.main import main
-from hydraulics import batch as hb
+from hydraulics import many_reaches as mr
 from hydraulics import units as hu
 from inventory_rows import section_of, shape_fields
 
-HEADER = list(ab.INPUT_COLUMNS)
+HEADER = list(ai.INPUT_COLUMNS)
 CASES = tomllib.loads((Path(__file__).parent / "data" / "published_cases.toml").read_text())["case"]
 
 
@@ -39,9 +40,9 @@ def csv_text(rows, header=HEADER):
 
 def check(text, units="us"):
     """(inventory, result, parsed results rows as dicts) for inventory CSV text."""
-    inv = ab.parse_inventory(text, units)
-    res = ab.evaluate(inv)
-    out = list(csv.DictReader(io.StringIO(ab.format_results(inv, res), newline="")))
+    inv = ai.parse_inventory(text, units)
+    res = ai.evaluate(inv)
+    out = list(csv.DictReader(io.StringIO(ai.format_results(inv, res), newline="")))
     return inv, res, out
 
 
@@ -134,7 +135,7 @@ def _published_rows(system_key):
     """Published cases of the supported shapes as inventory rows, with the value each must give."""
     rows, expect = [], []
     for c in CASES:
-        if c["units"] != system_key or c["shape"] not in hb.SHAPES:
+        if c["units"] != system_key or c["shape"] not in mr.SHAPES:
             continue
         r = {"id": c["id"], "shape": c["shape"]}
         for k in ("bottom_width", "diameter"):
@@ -226,12 +227,12 @@ def test_a_bad_row_is_reported_and_the_rest_computed(change, message):
     assert [o["id"] for o in out] == ["ok", "bad", "ok"]
     assert out[1]["verdict"] == "invalid"
     assert message in out[1]["reason"], out[1]["reason"]
-    assert all(out[1][k] == "" for k in ab.RESULT_COLUMNS[:7])
+    assert all(out[1][k] == "" for k in ai.RESULT_COLUMNS[:7])
     for k in ("shape", "flow", "slope", "n", "bottom_width"):  # the input is written back as it was typed
         assert out[1][k] == bad.get(k, "")
     assert out[0]["verdict"] == out[2]["verdict"] == "hydraulics-only"
     assert out[0]["normal_depth"] == out[2]["normal_depth"] != ""
-    assert ab.problem_rows(inv, res) == [(3, "bad", "invalid", out[1]["reason"])]
+    assert ai.problem_rows(inv, res) == [(3, "bad", "invalid", out[1]["reason"])]
 
 
 def test_every_problem_of_a_row_is_listed():
@@ -279,8 +280,8 @@ def test_fast_and_csv_module_paths_agree():
     plain = csv_text(rows, HEADER + ["road"])
     quoted = plain.replace("road 1", '"road 1"')
     assert '"' in quoted
-    a = ab.format_results(*_ir(plain))
-    b = ab.format_results(*_ir(quoted))
+    a = ai.format_results(*_ir(plain))
+    b = ai.format_results(*_ir(quoted))
     assert a == b
 
 
@@ -301,21 +302,21 @@ def test_pyarrow_and_python_readers_agree(monkeypatch, column):
     rows[33]["id"], rows[34]["id"] = "caf\u00e9", ""
     text = csv_text(rows, HEADER + ["road"])
     assert '"' not in text
-    assert ab._parse_arrow(text.encode(), hu.system("us"), "inventory") is not None  # pyarrow reads this file
-    fast = ab.parse_inventory(text, "us")
-    fast_text = ab.format_results(fast, ab.evaluate(fast))  # written by pyarrow from the file's own bytes
-    monkeypatch.setattr(ab, "_pyarrow", lambda: None)
-    slow = ab.parse_inventory(text, "us")
-    assert fast_text == ab.format_results(slow, ab.evaluate(slow))  # both written by Python
+    assert reading._parse_arrow(text.encode(), hu.system("us"), "inventory") is not None  # pyarrow reads this file
+    fast = ai.parse_inventory(text, "us")
+    fast_text = ai.format_results(fast, ai.evaluate(fast))  # written by pyarrow from the file's own bytes
+    monkeypatch.setattr(reading, "pyarrow_modules", lambda: None)
+    slow = ai.parse_inventory(text, "us")
+    assert fast_text == ai.format_results(slow, ai.evaluate(slow))  # both written by Python
     for name in ("header", "header_text", "rows", "ids", "blank_lines"):
         assert getattr(fast, name) == getattr(slow, name), name
     np.testing.assert_array_equal(fast.lines, slow.lines)
-    for name in hb.NUMERIC_FIELDS:
+    for name in mr.NUMERIC_FIELDS:
         np.testing.assert_array_equal(getattr(fast.reaches, name), getattr(slow.reaches, name), err_msg=name)
     for name in ("shape", "lining", "notes", "kind", "named"):
         assert getattr(fast.reaches, name).tolist() == getattr(slow.reaches, name).tolist(), name
     assert fast.reaches.unreadable.keys() == slow.reaches.unreadable.keys()
-    assert ab.format_results(fast, ab.evaluate(fast)) == ab.format_results(slow, ab.evaluate(slow))
+    assert ai.format_results(fast, ai.evaluate(fast)) == ai.format_results(slow, ai.evaluate(slow))
 
 
 @pytest.mark.parametrize("text", [
@@ -329,13 +330,13 @@ def test_pyarrow_and_python_readers_agree(monkeypatch, column):
 ])
 def test_files_the_pyarrow_reader_leaves_to_the_python_reader(monkeypatch, text):
     """Blank lines, ragged rows: the Python reader reports them (line numbers, reasons); CRLF is read alike."""
-    fast = ab.parse_inventory(text, "si")
-    fast_text = ab.format_results(fast, ab.evaluate(fast))
-    monkeypatch.setattr(ab, "_pyarrow", lambda: None)
-    slow = ab.parse_inventory(text, "si")
+    fast = ai.parse_inventory(text, "si")
+    fast_text = ai.format_results(fast, ai.evaluate(fast))
+    monkeypatch.setattr(reading, "pyarrow_modules", lambda: None)
+    slow = ai.parse_inventory(text, "si")
     assert (fast.rows, list(fast.lines), fast.blank_lines) == (slow.rows, list(slow.lines), slow.blank_lines)
     assert fast.reaches.notes.tolist() == slow.reaches.notes.tolist()
-    assert fast_text == ab.format_results(slow, ab.evaluate(slow))
+    assert fast_text == ai.format_results(slow, ai.evaluate(slow))
 
 
 def test_quoted_files_are_written_alike_by_pyarrow_and_python(monkeypatch, tmp_path):
@@ -344,29 +345,29 @@ def test_quoted_files_are_written_alike_by_pyarrow_and_python(monkeypatch, tmp_p
             'A,trapezoid,2,3,3,,0.004,20,,,0.03,"has, a comma"\n'
             'caf\u00e9,circle,,,,1.5,0.004,1,,,0.013,"two\nlines and ""quotes"""\n'
             'C,trapezoid,2,3,3,,0.004,-1,riprap,,,plain\n')
-    inv = ab.parse_inventory(text, "us")
-    res = ab.evaluate(inv)
+    inv = ai.parse_inventory(text, "us")
+    res = ai.evaluate(inv)
     path = tmp_path / "out.csv"
-    ab.write_results(path, inv, res)
+    ai.write_results(path, inv, res)
     by_arrow = path.read_bytes()
-    monkeypatch.setattr(ab, "_pyarrow", lambda: None)
-    ab.write_results(path, inv, res)
-    assert path.read_bytes() == by_arrow == ab.format_results(inv, res).encode("utf-8")
+    monkeypatch.setattr(reading, "pyarrow_modules", lambda: None)
+    ai.write_results(path, inv, res)
+    assert path.read_bytes() == by_arrow == ai.format_results(inv, res).encode("utf-8")
     got = list(csv.DictReader(io.StringIO(by_arrow.decode("utf-8"), newline="")))
     assert [g["note"] for g in got] == ["has, a comma", 'two\nlines and "quotes"', "plain"]
     assert got[2]["verdict"] == "invalid" and got[2]["normal_depth"] == "" and "flow" in got[2]["reason"]
 
 
 def _ir(text):
-    inv = ab.parse_inventory(text, "us")
-    return inv, ab.evaluate(inv)
+    inv = ai.parse_inventory(text, "us")
+    return inv, ai.evaluate(inv)
 
 
 def test_crlf_and_utf8_bom(tmp_path):
     text = csv_text([GOOD]).replace("\n", "\r\n")
     p = tmp_path / "inv.csv"
     p.write_bytes(b"\xef\xbb\xbf" + text.encode())
-    inv = ab.read_inventory(p, "us")
+    inv = ai.read_inventory(p, "us")
     assert inv.header[0] == "id" and len(inv) == 1
 
 
@@ -374,23 +375,23 @@ def test_ascii_bytes_and_text_read_alike(tmp_path):
     # A plain ASCII file goes to the reader as bytes (no decoding); UTF-8 text with accents goes as text.
     rows = generated_rows(30, seed=5, units="us")
     text = csv_text(rows, HEADER + ["road"])
-    from_bytes, from_text = ab.parse_inventory(text.encode("ascii"), "us"), ab.parse_inventory(text, "us")
+    from_bytes, from_text = ai.parse_inventory(text.encode("ascii"), "us"), ai.parse_inventory(text, "us")
     assert from_bytes.rows == from_text.rows and from_bytes.ids == from_text.ids
     np.testing.assert_array_equal(from_bytes.reaches.flow, from_text.reaches.flow)
     accented = tmp_path / "accented.csv"
     accented.write_text(csv_text([{**GOOD, "id": "foss\u00e9 1"}]), encoding="utf-8")
-    inv = ab.read_inventory(accented, "us")
-    ab.write_results(tmp_path / "out.csv", inv, ab.evaluate(inv))
+    inv = ai.read_inventory(accented, "us")
+    ai.write_results(tmp_path / "out.csv", inv, ai.evaluate(inv))
     assert "foss\u00e9 1," in (tmp_path / "out.csv").read_text(encoding="utf-8")
     with pytest.raises(ValueError, match="ASCII"):
-        ab.parse_inventory("foss\u00e9".encode("utf-8"), "us")
+        ai.parse_inventory("foss\u00e9".encode("utf-8"), "us")
 
 
 def test_not_utf8_is_refused(tmp_path):
     p = tmp_path / "inv.csv"
     p.write_bytes(csv_text([{**GOOD, "id": "caf\u00e9"}]).encode("latin-1"))
-    with pytest.raises(ab.InventoryError, match="not UTF-8"):
-        ab.read_inventory(p, "us")
+    with pytest.raises(ai.InventoryError, match="not UTF-8"):
+        ai.read_inventory(p, "us")
 
 
 # ----------------------------------------------------------------------------- whole-file problems
@@ -399,8 +400,8 @@ def test_not_utf8_is_refused(tmp_path):
 def test_empty_file(tmp_path, capsys, content):
     src, dst = tmp_path / "inv.csv", tmp_path / "out.csv"
     src.write_text(content)
-    with pytest.raises(ab.InventoryError, match="empty"):
-        ab.read_inventory(src, "us")
+    with pytest.raises(ai.InventoryError, match="empty"):
+        ai.read_inventory(src, "us")
     assert main(["batch", str(src), "-o", str(dst)]) == 2
     assert "empty" in capsys.readouterr().err
     assert not dst.exists()
@@ -410,7 +411,7 @@ def test_header_only_gives_an_empty_result(tmp_path, capsys):
     src, dst = tmp_path / "inv.csv", tmp_path / "out.csv"
     src.write_text(",".join(HEADER) + "\n")
     assert main(["batch", str(src), "-o", str(dst)]) == 0
-    assert dst.read_text().splitlines() == [",".join(HEADER + list(ab.RESULT_COLUMNS))]
+    assert dst.read_text().splitlines() == [",".join(HEADER + list(ai.RESULT_COLUMNS))]
     assert "0 reaches" in capsys.readouterr().out
 
 
@@ -418,7 +419,7 @@ def test_wrong_unit_system(tmp_path, capsys):
     src, dst = tmp_path / "inv.csv", tmp_path / "out.csv"
     src.write_text(csv_text([GOOD]))
     with pytest.raises(hy.InputError, match="must be 'us' or 'si', got 'metric'"):
-        ab.parse_inventory(src.read_text(), "metric")
+        ai.parse_inventory(src.read_text(), "metric")
     with pytest.raises(SystemExit) as exc:
         main(["batch", str(src), "-o", str(dst), "--units", "metric"])
     assert exc.value.code == 2
@@ -431,22 +432,22 @@ def test_missing_column(tmp_path, capsys, drop):
     header = [c for c in HEADER if c != drop]
     src, dst = tmp_path / "inv.csv", tmp_path / "out.csv"
     src.write_text(csv_text([GOOD], header))
-    with pytest.raises(ab.InventoryError, match=f"missing column {drop};"):
-        ab.read_inventory(src, "us")
+    with pytest.raises(ai.InventoryError, match=f"missing column {drop};"):
+        ai.read_inventory(src, "us")
     assert main(["batch", str(src), "-o", str(dst)]) == 2
     assert f"missing column {drop}" in capsys.readouterr().err
     assert not dst.exists()
 
 
 def test_header_hints():
-    with pytest.raises(ab.InventoryError, match="'Flow' for 'flow': names are lower case"):
-        ab.parse_inventory(csv_text([], [c.capitalize() if c == "flow" else c for c in HEADER]))
-    with pytest.raises(ab.InventoryError, match="other than commas"):
-        ab.parse_inventory(";".join(HEADER) + "\n")
-    with pytest.raises(ab.InventoryError, match="'n' appears twice"):
-        ab.parse_inventory(csv_text([], HEADER + ["n"]))
-    with pytest.raises(ab.InventoryError, match="already has the result columns verdict, reason"):
-        ab.parse_inventory(csv_text([], HEADER + ["verdict", "reason"]))
+    with pytest.raises(ai.InventoryError, match="'Flow' for 'flow': names are lower case"):
+        ai.parse_inventory(csv_text([], [c.capitalize() if c == "flow" else c for c in HEADER]))
+    with pytest.raises(ai.InventoryError, match="other than commas"):
+        ai.parse_inventory(";".join(HEADER) + "\n")
+    with pytest.raises(ai.InventoryError, match="'n' appears twice"):
+        ai.parse_inventory(csv_text([], HEADER + ["n"]))
+    with pytest.raises(ai.InventoryError, match="already has the result columns verdict, reason"):
+        ai.parse_inventory(csv_text([], HEADER + ["verdict", "reason"]))
 
 
 # ----------------------------------------------------------------------------- the command
@@ -460,7 +461,7 @@ def test_command_end_to_end(tmp_path, capsys):
     assert f"{src}:62 (id 'broken'): invalid: flow: not a number, got 'x'" in cap.err
     assert "61 reaches" in cap.out and "invalid" in cap.out and "no-solution" in cap.out
     got = list(csv.DictReader(dst.open(newline="")))
-    assert len(got) == 61 and list(got[0]) == HEADER + ["road"] + list(ab.RESULT_COLUMNS)
+    assert len(got) == 61 and list(got[0]) == HEADER + ["road"] + list(ai.RESULT_COLUMNS)
     assert png.read_bytes()[:8] == b"\x89PNG\r\n\x1a\n"
     assert main(["batch", str(src), "-o", str(dst), "--plot", str(pdf), "--units", "us"]) == 1
     assert pdf.read_bytes()[:5] == b"%PDF-"
@@ -500,9 +501,9 @@ def test_command_in_a_subprocess(tmp_path):
 
 def _reaches(**columns):
     size = len(columns["shape"])
-    base = {k: np.full(size, np.nan) for k in hb.NUMERIC_FIELDS}
-    base.update({k: np.asarray(v, dtype=float) for k, v in columns.items() if k in hb.NUMERIC_FIELDS})
-    return hb.Reaches(shape=np.array(columns["shape"], dtype=object),
+    base = {k: np.full(size, np.nan) for k in mr.NUMERIC_FIELDS}
+    base.update({k: np.asarray(v, dtype=float) for k, v in columns.items() if k in mr.NUMERIC_FIELDS})
+    return mr.Reaches(shape=np.array(columns["shape"], dtype=object),
                       lining=np.array(columns.get("lining", [""] * size), dtype=object), **base)
 
 
@@ -513,28 +514,28 @@ def test_chunks_and_progress_do_not_change_results():
                  right_slope=np.full(size, 3.0), slope=rng.uniform(1e-4, 0.05, size), flow=rng.uniform(0.01, 10, size),
                  n=np.full(size, 0.03))
     calls = []
-    small = hb.evaluate(r, chunk=7, progress=lambda done, total: calls.append((done, total)))
-    whole = hb.evaluate(r)
+    small = mr.evaluate(r, chunk=7, progress=lambda done, total: calls.append((done, total)))
+    whole = mr.evaluate(r)
     np.testing.assert_array_equal(small.normal_depth, whole.normal_depth)
     assert calls[-1] == (53, 53) and len(calls) == 8
 
 
 def test_a_failing_element_is_isolated(monkeypatch):
     """A core failure on one reach (whatever its cause) marks that reach only."""
-    real = hb.analyse
+    real = mr.analyse
 
     def fussy(section, flow, slope, n):
         if np.any(np.asarray(flow) == 13.0):
             raise hy.ConvergenceError("no convergence (element 0)")
         return real(section, flow, slope, n)
 
-    monkeypatch.setattr(hb, "analyse", fussy)
+    monkeypatch.setattr(mr, "analyse", fussy)
     size = 20
     flows = np.full(size, 2.0)
     flows[11] = 13.0
     r = _reaches(shape=["rectangle"] * size, bottom_width=np.full(size, 1.5), slope=np.full(size, 0.002),
                  flow=flows, n=np.full(size, 0.015))
-    res = hb.evaluate(r)
+    res = mr.evaluate(r)
     assert res.verdict[11] == "no-solution" and res.reason[11] == "no convergence"
     assert (res.verdict[np.arange(size) != 11] == "hydraulics-only").all()
     assert np.isfinite(res.normal_depth[np.arange(size) != 11]).all()
@@ -543,8 +544,8 @@ def test_a_failing_element_is_isolated(monkeypatch):
 def test_reasons_quote_the_display_units():
     r = _reaches(shape=["trapezoid"], bottom_width=[-0.3048], left_slope=[2], right_slope=[2], slope=[0.01],
                  flow=[1.0], n=[0.03])
-    assert "got -1 ft" in hb.screen(r, hu.US)[0]
-    assert "got -0.3048 m" in hb.screen(r, hu.SI)[0]
+    assert "got -1 ft" in mr.screen(r, hu.US)[0]
+    assert "got -0.3048 m" in mr.screen(r, hu.SI)[0]
 
 
 def test_lined_rows_get_the_lining_check():
@@ -624,16 +625,16 @@ def test_lining_errors():
 def test_window_helpers(tmp_path):
     src = tmp_path / "inv.csv"
     src.write_text(csv_text([GOOD, {**GOOD, "id": "bad", "flow": "-1"}]))
-    run = ab.run_inventory(src, "us")
+    run = ai.run_inventory(src, "us")
     columns, rows = run.table()
-    assert columns == HEADER + list(ab.RESULT_COLUMNS)
+    assert columns == HEADER + list(ai.RESULT_COLUMNS)
     assert [r[columns.index("verdict")] for r in rows] == ["hydraulics-only", "invalid"]
     assert run.problems()[0][:3] == (3, "bad", "invalid")
     assert "2 reaches" in run.summary()
 
 
 def test_core_batch_imports_no_gui_plot_or_pdf_library():
-    code = ("import sys, hydraulics.batch; "
+    code = ("import sys, hydraulics.many_reaches; "
             "print(','.join(m for m in ('PySide6', 'matplotlib', 'reportlab') if m in sys.modules))")
     out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, check=True,
                          cwd=Path(__file__).parents[1])
@@ -647,7 +648,7 @@ def test_window_filters_and_import_into_a_project(tmp_path):
         {**GOOD, "id": "bad", "flow": "-1"}, {**GOOD, "id": "lined", "lining": "riprap", "d50": "0.5", "n": ""}]
     src = tmp_path / "inv.csv"
     src.write_text(csv_text(rows, HEADER + ["road"]))
-    run = ab.run_inventory(src, "us")
+    run = ai.run_inventory(src, "us")
     assert list(run.select(verdicts=["invalid"])) == [24]
     near = run.select(warnings=["near_critical"])
     assert all("near critical" in run.result.reason[i] for i in near)
@@ -681,8 +682,8 @@ def test_two_decimals_as_python_rounds_them():
     # Binary values just below and above the decimal ties, and exact binary ties (0.125, 1.125).
     values = np.array([0.125, 0.135, 0.865, 0.995, 1.005, 1.015, 1.125, 1.13, 0.86, 0.8649999999999999, 2.675, 1.0,
                        0.999999999, 1.1249999999999998])
-    assert hb._each_2f(values, "Fr %s").tolist() == ["Fr %.2f" % v for v in values]
-    assert hb._each_2f(np.zeros(0), "%s").tolist() == []
+    assert mr._each_2f(values, "Fr %s").tolist() == ["Fr %.2f" % v for v in values]
+    assert mr._each_2f(np.zeros(0), "%s").tolist() == []
 
 
 def test_a_large_results_file_is_the_same_with_and_without_worker_threads(tmp_path, monkeypatch):
@@ -690,12 +691,12 @@ def test_a_large_results_file_is_the_same_with_and_without_worker_threads(tmp_pa
     rows = generated_rows(400, seed=9, units="us") * 60  # 24,000 reaches
     source = tmp_path / "big.csv"
     source.write_text(csv_text(rows, HEADER + ["road"]), encoding="utf-8")
-    inv = ab.read_inventory(source, "us")
-    res = ab.evaluate(inv)
-    monkeypatch.setattr(ab.os, "cpu_count", lambda: 2)
-    ab.write_results(tmp_path / "threads.csv", inv, res)
-    monkeypatch.setattr(ab.os, "cpu_count", lambda: 1)
-    ab.write_results(tmp_path / "one.csv", inv, res)
+    inv = ai.read_inventory(source, "us")
+    res = ai.evaluate(inv)
+    monkeypatch.setattr(writing.os, "cpu_count", lambda: 2)
+    ai.write_results(tmp_path / "threads.csv", inv, res)
+    monkeypatch.setattr(writing.os, "cpu_count", lambda: 1)
+    ai.write_results(tmp_path / "one.csv", inv, res)
     threaded = (tmp_path / "threads.csv").read_bytes()
     assert threaded == (tmp_path / "one.csv").read_bytes()
     lines = threaded.decode("utf-8").splitlines()
@@ -708,13 +709,13 @@ def test_writing_while_checking_gives_the_same_file_and_results(tmp_path, monkey
     rows[5] = {**rows[5], "flow": "-2"}                    # a bad row inside the first chunk
     source = tmp_path / "inv.csv"
     source.write_text(csv_text(rows, HEADER + ["road"]), encoding="utf-8")
-    inv = ab.read_inventory(source, "si")
-    expected = ab.evaluate(inv)
-    ab.write_results(tmp_path / "plain.csv", inv, expected)
-    monkeypatch.setattr(ab.os, "cpu_count", lambda: 2)
-    monkeypatch.setattr(ab, "WRITE_CHUNK", 700)            # several chunks, the last one short
+    inv = ai.read_inventory(source, "si")
+    expected = ai.evaluate(inv)
+    ai.write_results(tmp_path / "plain.csv", inv, expected)
+    monkeypatch.setattr(writing.os, "cpu_count", lambda: 2)
+    monkeypatch.setattr(checking, "WRITE_CHUNK", 700)            # several chunks, the last one short
     seen = []
-    got = ab.check_and_write(tmp_path / "piped.csv", inv, progress=lambda done, total: seen.append(done))
+    got = ai.check_and_write(tmp_path / "piped.csv", inv, progress=lambda done, total: seen.append(done))
     assert (tmp_path / "piped.csv").read_bytes() == (tmp_path / "plain.csv").read_bytes()
     assert seen == [700 * k for k in range(1, 6)] + [4000]
     np.testing.assert_array_equal(got.normal_depth, expected.normal_depth)
@@ -724,7 +725,7 @@ def test_writing_while_checking_gives_the_same_file_and_results(tmp_path, monkey
 
 def test_a_header_only_file_without_a_line_end_is_an_empty_inventory():
     # The header ends in a two-byte UTF-8 character and no line end follows it.
-    inv = ab.parse_inventory(",".join(HEADER) + ",remarqu\u00e9", "us")
+    inv = ai.parse_inventory(",".join(HEADER) + ",remarqu\u00e9", "us")
     assert len(inv) == 0 and inv.header[-1] == "remarqu\u00e9"
 
 
@@ -733,9 +734,9 @@ def test_a_block_that_cannot_be_written_leaves_the_old_results_file(tmp_path, mo
     source, target = tmp_path / "inv.csv", tmp_path / "out.csv"
     source.write_text(csv_text(rows, HEADER + ["road"]), encoding="utf-8")
     target.write_text("old results\n", encoding="utf-8")
-    inv = ab.read_inventory(source, "us")
-    monkeypatch.setattr(ab.os, "cpu_count", lambda: 2)
-    monkeypatch.setattr(ab, "WRITE_CHUNK", 500)
+    inv = ai.read_inventory(source, "us")
+    monkeypatch.setattr(writing.os, "cpu_count", lambda: 2)
+    monkeypatch.setattr(checking, "WRITE_CHUNK", 500)
     calls = []
 
     def failing(*args, **kwargs):
@@ -745,9 +746,9 @@ def test_a_block_that_cannot_be_written_leaves_the_old_results_file(tmp_path, mo
         return format_rows(*args, **kwargs)
 
     from app.numtext import format_rows
-    monkeypatch.setattr(ab, "format_rows", failing)
+    monkeypatch.setattr(writing, "format_rows", failing)
     with pytest.raises(OSError, match="No space"):
-        ab.check_and_write(target, inv)
+        ai.check_and_write(target, inv)
     assert target.read_text(encoding="utf-8") == "old results\n"
     assert sorted(p.name for p in tmp_path.iterdir()) == ["inv.csv", "out.csv"]
 
@@ -758,22 +759,22 @@ def test_repeated_and_blank_ids_are_noted_and_every_row_checked(quoted):
     rows = [{**GOOD, "id": i} for i in ids]
     if quoted:
         rows.append({**GOOD, "id": "D", "road": "Route 9, east"})  # a comma in a field: the file quotes it
-    inv = ab.parse_inventory(csv_text(rows, HEADER + ["road"]), "us")
-    res = ab.evaluate(inv)
+    inv = ai.parse_inventory(csv_text(rows, HEADER + ["road"]), "us")
+    res = ai.evaluate(inv)
     assert (res.verdict == "hydraulics-only").all()
     assert inv.duplicate_ids() == ["A", "B"] and inv.blank_id_count() == 2
     assert [inv.id_at(i) for i in range(4)] == ["A", "B", "A", ""]
-    text = ab.summary(inv, res)
+    text = ai.summary(inv, res)
     assert "2 ids appear more than once (first: 'A')" in text
     assert "2 rows have no id" in text
-    unique = ab.parse_inventory(csv_text([{**GOOD, "id": f"U{i}"} for i in range(5)], HEADER), "us")
+    unique = ai.parse_inventory(csv_text([{**GOOD, "id": f"U{i}"} for i in range(5)], HEADER), "us")
     assert unique.duplicate_ids() == [] and unique.blank_id_count() == 0
 
 
 def test_group_notes_quote_the_inventory_units():
     # Riprap of 0.03 ft (9.1 mm) is below the 15 mm that HEC-15 Chapter 6 covers (verified).
     rows = [{**GOOD, "id": f"r{i}", "lining": "riprap", "n": "", "d50": d} for i, d in enumerate(["0.03", "0.04"])]
-    inv = ab.parse_inventory(csv_text(rows, HEADER), "us")
-    res = ab.evaluate(inv)
+    inv = ai.parse_inventory(csv_text(rows, HEADER), "us")
+    res = ai.evaluate(inv)
     assert "lining 'riprap': D50 = 0.360 in is outside the 0.591 in to 21.7 in range" in res.messages[0]
     assert not any(" mm" in m for m in res.messages)

@@ -14,8 +14,8 @@ import numpy as np
 import pytest
 
 import hydraulics as hy
-from app import batch as ab
-from hydraulics import batch as hb
+from app import inventory as ai
+from hydraulics import many_reaches as mr
 from hydraulics.stability import check_lining
 from inventory_rows import section_of, shape_fields
 
@@ -28,7 +28,7 @@ def random_lined_rows(size, seed):
     for i in range(size):
         kind = ["trapezoid", "triangle", "rectangle", "circle"][i % 4]
         key = KEYS[(i // 4) % len(KEYS)]
-        r = dict.fromkeys(ab.INPUT_COLUMNS, "")
+        r = dict.fromkeys(ai.INPUT_COLUMNS, "")
         r.update(id=f"S{i}", shape=kind, slope=f"{10 ** rng.uniform(-3, -0.7):.5f}",
                  flow=f"{10 ** rng.uniform(-1, 1):.4f}", lining=key)
         r.update(shape_fields(kind, bottom_width=lambda: f"{rng.uniform(0.3, 3):.3f}",
@@ -47,12 +47,12 @@ def random_lined_rows(size, seed):
 def test_every_lined_reach_matches_check_lining(seed):
     rows = random_lined_rows(240, seed)
     buf = io.StringIO()
-    w = csv.DictWriter(buf, fieldnames=list(ab.INPUT_COLUMNS), lineterminator="\n")
+    w = csv.DictWriter(buf, fieldnames=list(ai.INPUT_COLUMNS), lineterminator="\n")
     w.writeheader()
     w.writerows(rows)
-    inv = ab.parse_inventory(buf.getvalue(), "si")
-    res = ab.evaluate(inv)
-    cat = hb.default_catalogue()
+    inv = ai.parse_inventory(buf.getvalue(), "si")
+    res = ai.evaluate(inv)
+    cat = mr.default_catalogue()
     seen = set()
     for i, r in enumerate(rows):
         v = lambda k: float(r[k]) if r[k] else None  # noqa: E731
@@ -83,7 +83,7 @@ def test_lined_inventory_summary_and_plot(tmp_path, capsys):
     rows = random_lined_rows(80, 7)
     src, dst, png = tmp_path / "inv.csv", tmp_path / "out.csv", tmp_path / "sum.png"
     with src.open("w", newline="") as fh:
-        w = csv.DictWriter(fh, fieldnames=list(ab.INPUT_COLUMNS))
+        w = csv.DictWriter(fh, fieldnames=list(ai.INPUT_COLUMNS))
         w.writeheader()
         w.writerows(rows)
     assert main(["batch", str(src), "-o", str(dst), "--units", "si", "--plot", str(png)]) == 0

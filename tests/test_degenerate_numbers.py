@@ -13,7 +13,7 @@ import math
 
 import pytest
 
-from app import batch as ab
+from app import inventory as ai
 from app import project
 from app.main import UNEXPECTED_STATUS, main
 from hydraulics import units as hu
@@ -153,15 +153,15 @@ GOOD = {"id": "ok", "shape": "trapezoid", "bottom_width": "2", "left_slope": "3"
     ({"n": "", "lining": "riprap", "d50": "1e308"}, "d50: must be from 0.00328 to 9.84 ft, got 1e+308 ft"),
 ], ids=["slit", "pipe", "flow", "n", "d50"])
 def test_an_inventory_row_with_a_degenerate_number_is_invalid(change, message):
-    header = list(ab.INPUT_COLUMNS)
+    header = list(ai.INPUT_COLUMNS)
     buf = io.StringIO()
     w = csv.writer(buf, lineterminator="\n")
     w.writerow(header)
     for row in (GOOD, {**GOOD, **change, "id": "bad"}):
         w.writerow([row.get(c, "") for c in header])
-    inv = ab.parse_inventory(buf.getvalue(), "us")
-    res = ab.evaluate(inv)
-    out = list(csv.DictReader(io.StringIO(ab.format_results(inv, res), newline="")))
+    inv = ai.parse_inventory(buf.getvalue(), "us")
+    res = ai.evaluate(inv)
+    out = list(csv.DictReader(io.StringIO(ai.format_results(inv, res), newline="")))
     assert out[0]["verdict"] == "hydraulics-only"
     assert out[1]["verdict"] == "invalid" and message in out[1]["reason"], out[1]["reason"]
 

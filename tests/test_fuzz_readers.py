@@ -13,7 +13,7 @@ import hashlib
 from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
 
-from app import batch as ab
+from app import inventory as ai
 from app import project as P
 from hydraulics.errors import HydraulicsError
 from hydraulics.linings import load_catalogue
@@ -89,7 +89,7 @@ def test_the_undamaged_files_are_read():
     path.write_text(CATALOGUE, encoding="utf-8")
     assert load_catalogue(user_path=path).get("my_mat").unit_cost == 12.0
     assert len(P.loads(DEMO).channels) == 5
-    assert ab.evaluate(ab.parse_inventory(INVENTORY, "us")).verdict.tolist() == ["hydraulics-only", "non-erodible",
+    assert ai.evaluate(ai.parse_inventory(INVENTORY, "us")).verdict.tolist() == ["hydraulics-only", "non-erodible",
                                                                                   "stable"]
 
 
@@ -97,12 +97,12 @@ def test_the_undamaged_files_are_read():
 @given(st.one_of(_damaged(INVENTORY), st.text(max_size=300)), st.sampled_from(["us", "si"]))
 def test_inventory_reader_refuses_cleanly_or_checks_every_row(text, units):
     try:
-        inventory = ab.parse_inventory(text, units)
-    except ab.InventoryError as exc:
+        inventory = ai.parse_inventory(text, units)
+    except ai.InventoryError as exc:
         assert str(exc)
         return
-    result = ab.evaluate(inventory)
+    result = ai.evaluate(inventory)
     assert len(result.verdict) == len(inventory)
     assert set(result.verdict.tolist()) <= {"stable", "unstable", "non-erodible", "hydraulics-only", "not-checked",
                                             "no-solution", "invalid"}
-    ab.format_results(inventory, result)      # and the results file can be written
+    ai.format_results(inventory, result)      # and the results file can be written

@@ -1,8 +1,9 @@
 """Layers: the core stays pure, the application layer stays Qt-, plot- and PDF-free, and imports run downward.
 
-hydraulics/ (the core) imports nothing from app/; the application modules that every front end renders
-(evaluation, verdicts, results, project files, number text, the batch) load no GUI, plotting or PDF library, so
-that the command line, the batch and the tests can use them without a display.
+hydraulics/ (the core) imports nothing from app/; every application module outside the two front ends that draw
+(app/gui: Qt and matplotlib; app/sheet: reportlab) loads no GUI, plotting or PDF library, so that the command line,
+the inventory checker and the tests can use them without a display. The list is found from the files, so a new
+module is checked as soon as it exists. The application layer itself imports neither front end.
 """
 
 import ast
@@ -18,8 +19,21 @@ import hydraulics
 ROOT = Path(__file__).resolve().parents[1]
 HEAVY = ("PySide6", "matplotlib", "reportlab", "PyQt5", "PyQt6")
 CORE = sorted(m.name for m in pkgutil.walk_packages(hydraulics.__path__, "hydraulics."))
-APPLICATION = ["app.evaluate", "app.verdicts", "app.results", "app.project", "app.files", "app.numtext", "app.batch",
-               "app.gui.compute", "app.cli.calc", "app.cli.compare", "app.run_design", "app.cli.run"]
+DRAWING = ("app.gui", "app.sheet")    # the front ends that draw: Qt and matplotlib, reportlab
+
+
+def _modules(package: str) -> list:
+    """Every module of ``package`` (a folder under the checkout), by its dotted name, without importing any."""
+    names = []
+    for path in sorted((ROOT / package).rglob("*.py")):
+        parts = path.relative_to(ROOT).with_suffix("").parts
+        names.append(".".join(parts[:-1] if parts[-1] == "__init__" else parts))
+    return names
+
+
+APPLICATION = [m for m in _modules("app") if not any(m == d or m.startswith(d + ".") for d in DRAWING)]
+#: The Qt-free layer between the core and the front ends: it never imports a front end, not even when called.
+LAYER = [m for m in APPLICATION if m not in ("app.main", "app.cli") and not m.startswith("app.cli.")]
 
 
 def _loads_heavy(module: str) -> list:
@@ -36,9 +50,39 @@ def test_hydraulics_imports_no_gui_plot_or_pdf_library():
     assert len(CORE) > 10 and out.stdout.strip() == ""
 
 
+def test_the_qt_free_modules_are_found_from_the_files():
+    assert {"app.evaluate", "app.verdicts", "app.results", "app.project", "app.files", "app.numtext", "app.context",
+            "app.editing", "app.channel_display", "app.inventory", "app.inventory.reading", "app.inventory.checking",
+            "app.inventory.writing", "app.inventory.reporting", "app.cli.calc", "app.cli.compare",
+            "app.cli.inventory_command", "app.main"} <= set(APPLICATION)
+    assert not any(m.startswith(("app.gui", "app.sheet")) for m in APPLICATION)
+    assert "app.gui.mainwindow" in _modules("app") and "app.sheet.layout" in _modules("app")
+
+
 @pytest.mark.parametrize("module", APPLICATION)
 def test_the_application_layer_loads_no_gui_plot_or_pdf_library(module):
     assert _loads_heavy(module) == []
+
+
+@pytest.mark.parametrize("module", LAYER)
+def test_the_application_layer_imports_no_front_end(module):
+    """Not at the top of a module nor inside a function: the window and the sheet render this layer, not the
+    other way round (app.main and app.cli start the window or write a sheet when asked, so they may)."""
+    path = ROOT / Path(*module.split("."))
+    path = path / "__init__.py" if path.is_dir() else path.with_suffix(".py")
+    package = module.split(".") if path.name == "__init__.py" else module.split(".")[:-1]
+    for node in ast.walk(ast.parse(path.read_text(encoding="utf-8"))):
+        if isinstance(node, ast.Import):
+            names = [a.name for a in node.names]
+        elif isinstance(node, ast.ImportFrom):
+            base = package[:len(package) - node.level + 1] if node.level else []
+            names = [".".join(base + ([node.module] if node.module else []))]
+            if not node.module:   # "from .. import gui"
+                names = [".".join(base + [a.name]) for a in node.names]
+        else:
+            continue
+        for name in names:
+            assert not any(name == d or name.startswith(d + ".") for d in DRAWING), (module, name)
 
 
 def test_imports_run_from_app_down_to_hydraulics_only():

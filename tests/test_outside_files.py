@@ -6,12 +6,12 @@ import json
 
 import pytest
 
-from app import batch as ab
+from app import inventory as ai
 from app import project as pj
 from app.main import main
 
 US_TRAP = ["--flow", "20", "--bottom-width", "2", "--side-slope", "3", "--slope", "0.004"]
-HEADER = ",".join(ab.INPUT_COLUMNS)
+HEADER = ",".join(ai.INPUT_COLUMNS)
 ROW = "a,trapezoid,2,3,3,,0.004,20,,,0.03"
 
 
@@ -65,7 +65,7 @@ def test_a_plot_that_cannot_be_written_says_so_and_where_the_results_are(capsys,
 
     def full(*args, **kwargs):
         raise OSError(28, "No space left on device")
-    monkeypatch.setattr(ab, "plot_summary", full)
+    monkeypatch.setattr(ai, "plot_summary", full)
     assert main(["batch", str(inventory), "-o", str(tmp_path / "out.csv"), "--plot", str(tmp_path / "p.png")]) == 2
     err = capsys.readouterr().err
     assert "Traceback" not in err and "No space left on device" in err and "results were written" in err
@@ -75,16 +75,16 @@ def test_a_plot_that_cannot_be_written_says_so_and_where_the_results_are(capsys,
 def test_a_byte_that_is_not_utf8_names_the_line_and_the_encoding(tmp_path):
     path = tmp_path / "inv.csv"
     path.write_bytes(f"{HEADER}\n{ROW}\n".encode() + "b,trapezoid,2,3,3,,0.004,20,,,0.03,Fossé nord\n".encode("cp1252"))
-    with pytest.raises(ab.InventoryError) as info:
-        ab.read_inventory(path, "us")
+    with pytest.raises(ai.InventoryError) as info:
+        ai.read_inventory(path, "us")
     text = str(info.value)
     assert f"{path}:3:" in text and "byte 0xe9" in text and "UTF-8" in text and "CSV UTF-8" in text
 
 
 def test_a_row_of_a_million_fields_gets_a_short_reason():
     text = f"{HEADER}\n{ROW}\n{ROW.replace('a,', 'b,', 1)}{',x' * 1_000_000}\n{ROW.replace('a,', 'c,', 1)},{'y' * 10_000}\n"
-    inv = ab.parse_inventory(text, "us")
-    res = ab.evaluate(inv)
+    inv = ai.parse_inventory(text, "us")
+    res = ai.evaluate(inv)
     reasons = list(res.reason)
     assert len(reasons[1]) < 300 and "1,000,011 fields" in reasons[1] and "1,000,000 extra fields were dropped" in reasons[1]
     assert len(reasons[2]) < 300 and "'yyyy" in reasons[2] and "dropped" in reasons[2]
@@ -92,8 +92,8 @@ def test_a_row_of_a_million_fields_gets_a_short_reason():
 
 
 def test_a_few_short_extra_fields_are_still_kept_in_the_reason():
-    inv = ab.parse_inventory(f"{HEADER}\n{ROW},note one,note two\n", "us")
-    assert "'note one', 'note two' are kept only in this reason" in ab.evaluate(inv).reason[0]
+    inv = ai.parse_inventory(f"{HEADER}\n{ROW},note one,note two\n", "us")
+    assert "'note one', 'note two' are kept only in this reason" in ai.evaluate(inv).reason[0]
 
 
 def test_a_project_file_with_a_byte_order_mark_opens(tmp_path):
@@ -110,16 +110,16 @@ def test_a_carriage_return_inside_a_quoted_field_stays_in_its_record():
     import csv
     import io
 
-    from app import batch as ab
+    from app import inventory as ai
     head = "id,shape,bottom_width,left_slope,right_slope,diameter,slope,flow,lining,d50,n,note"
     row_b = "B,trapezoid,2,3,3,,0.004,20,,,0.03,z"
     for end in ("\r\n", "\n", "\r"):
         text = head + end + 'A,trapezoid,2,3,3,,0.004,20,,,0.03,"x\ry"' + end + row_b + end
-        inventory = ab.parse_inventory(text, "us")
+        inventory = ai.parse_inventory(text, "us")
         assert len(inventory) == 2, repr(end)
-        out = list(csv.DictReader(io.StringIO(ab.format_results(inventory, ab.evaluate(inventory)), newline="")))
+        out = list(csv.DictReader(io.StringIO(ai.format_results(inventory, ai.evaluate(inventory)), newline="")))
         assert [r["id"] for r in out] == ["A", "B"] and out[0]["note"] == "x\ry" and out[1]["note"] == "z"
         assert out[0]["verdict"] == out[1]["verdict"] == "hydraulics-only"
     # an unquoted file with old-style carriage-return line ends is still read line by line
-    plain = ab.parse_inventory((head + "\r" + row_b + "\r" + row_b.replace("B,", "C,") + "\r"), "us")
+    plain = ai.parse_inventory((head + "\r" + row_b + "\r" + row_b.replace("B,", "C,") + "\r"), "us")
     assert len(plain) == 2

@@ -9,12 +9,12 @@ import io
 
 import pytest
 
-from app import batch as ab
-from app.files import FORMULA_STARTS, spreadsheet_safe
-from app.gui.compute import tsv_cell
+from app import inventory as ai
+from app.inventory import checking, reading, writing
+from app.files import FORMULA_STARTS, spreadsheet_safe, tsv_cell
 from app.main import main
 
-HEADER = list(ab.INPUT_COLUMNS) + ["owner", "offset"]
+HEADER = list(ai.INPUT_COLUMNS) + ["owner", "offset"]
 ROW = {"shape": "trapezoid", "bottom_width": "2", "left_slope": "3", "right_slope": "3", "slope": "0.004",
        "flow": "20", "n": "0.03"}
 # A payload for each trigger character (a carriage return reaches a CSV cell only through a quoted field, which
@@ -35,10 +35,10 @@ def _csv(rows, header=HEADER) -> str:
 
 def _results(text, monkeypatch=None, pyarrow=True):
     if not pyarrow:
-        monkeypatch.setattr(ab, "_pyarrow", lambda: None)
-    inv = ab.parse_inventory(text, "us")
-    res = ab.evaluate(inv)
-    written = ab.format_results(inv, res)
+        monkeypatch.setattr(reading, "pyarrow_modules", lambda: None)
+    inv = ai.parse_inventory(text, "us")
+    res = ai.evaluate(inv)
+    written = ai.format_results(inv, res)
     return inv, res, list(csv.DictReader(io.StringIO(written, newline="")))
 
 
@@ -71,7 +71,7 @@ def test_batch_results_keep_formulas_as_text_in_id_and_carried_columns(trigger, 
 
 
 def test_a_formula_in_a_column_name_is_kept_as_text():
-    header = list(ab.INPUT_COLUMNS) + ["=cmd|' /C calc'!A0"]
+    header = list(ai.INPUT_COLUMNS) + ["=cmd|' /C calc'!A0"]
     inv, res, out = _results(_csv([dict(ROW, id="A")], header))
     assert "'=cmd|' /C calc'!A0" in out[0]
 
@@ -80,12 +80,12 @@ def test_the_chunked_writer_writes_the_same_guarded_file(tmp_path, monkeypatch):
     rows = [dict(ROW, id=f"{'=' if i % 3 == 0 else ''}R{i}", owner=f"@o{i}" if i % 5 == 0 else "", offset=str(-i))
             for i in range(40)]
     text = _csv(rows)
-    inv = ab.parse_inventory(text, "us")
-    expected = ab.format_results(inv, ab.evaluate(inv))
-    monkeypatch.setattr(ab, "WRITE_CHUNK", 7)
-    monkeypatch.setattr(ab, "_workers", lambda: 2)
-    inv = ab.parse_inventory(text, "us")
-    ab.check_and_write(tmp_path / "out.csv", inv)
+    inv = ai.parse_inventory(text, "us")
+    expected = ai.format_results(inv, ai.evaluate(inv))
+    monkeypatch.setattr(checking, "WRITE_CHUNK", 7)
+    monkeypatch.setattr(writing, "_workers", lambda: 2)
+    inv = ai.parse_inventory(text, "us")
+    ai.check_and_write(tmp_path / "out.csv", inv)
     written = (tmp_path / "out.csv").read_text(encoding="utf-8")
     assert written == expected
     out = list(csv.DictReader(io.StringIO(written, newline="")))
@@ -107,8 +107,8 @@ def test_the_summary_says_so_once_and_only_when_it_happened(tmp_path, capsys):
 
 def test_a_file_without_triggers_is_written_byte_for_byte_as_before():
     text = _csv([dict(ROW, id=f"R{i}", owner="x", offset=str(-i)) for i in range(5)])
-    inv = ab.parse_inventory(text, "us")
-    body = ab.format_results(inv, ab.evaluate(inv))
+    inv = ai.parse_inventory(text, "us")
+    body = ai.format_results(inv, ai.evaluate(inv))
     lines = text.splitlines()
     assert [line.rsplit(",", 9)[0] for line in body.splitlines()[1:]] == lines[1:]
-    assert ab.written_rows(inv)[0] is inv.records   # the file's own bytes, untouched
+    assert ai.written_rows(inv)[0] is inv.records   # the file's own bytes, untouched

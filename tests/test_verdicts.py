@@ -2,12 +2,13 @@
 
 import pytest
 
+from app.context import Context
 from app.evaluate import evaluate_channel
-from app.gui import compute
+from app import channel_display as display
 from app.project import Channel, FlowBasis, LiningChoice
 from app.verdicts import Verdict, verdict_of
-from hydraulics import batch as hb
-from hydraulics.units import SI, US
+from hydraulics import many_reaches as mr
+from hydraulics.units import US
 from hydraulics.wording import in_units
 
 TRAPEZOID = {"shape": "trapezoid", "bottom_width": 0.4, "left_slope": 3.0, "right_slope": 3.0}
@@ -16,7 +17,7 @@ TRAPEZOID = {"shape": "trapezoid", "bottom_width": 0.4, "left_slope": 3.0, "righ
 def test_the_batch_tokens_are_the_vocabularys():
     """The batch CSV's verdict column (a published contract, README) uses the same tokens; only too-shallow is
     given where the depth of the ditch is known, which an inventory does not say."""
-    assert hb.VERDICTS == tuple(v.token for v in Verdict if v is not Verdict.TOO_SHALLOW)
+    assert mr.VERDICTS == tuple(v.token for v in Verdict if v is not Verdict.TOO_SHALLOW)
     assert len({v.words for v in Verdict}) == len({v.heading for v in Verdict}) == len(Verdict)
     assert all(Verdict.from_token(v.token) is v for v in Verdict)
     with pytest.raises(ValueError, match="no verdict 'pass'"):
@@ -30,7 +31,7 @@ def test_window_and_sheet_share_the_verdict(lining, expected):
                  lining=None if lining is None else LiningChoice(lining))
     design = evaluate_channel(ch)
     assert design.verdict is expected
-    ev = compute.evaluate(ch, SI)
+    ev = display.evaluate(ch, Context.load(units="si"))
     assert (ev.verdict.headline, ev.verdict.status) == (expected.words, expected.status)
 
 
@@ -41,7 +42,7 @@ def test_a_pipe_too_shallow_for_its_freeboard_says_so_everywhere():
                  section={"shape": "circle", "diameter": 0.6})
     design = evaluate_channel(ch)
     assert design.total_depth > 0.6 and design.verdict is Verdict.TOO_SHALLOW
-    ev = compute.evaluate(ch, US)
+    ev = display.evaluate(ch, Context.load(units="us"))
     assert ev.verdict.headline == "Too shallow" and ev.verdict.status == "fail"
     assert "ft" in ev.verdict.reason and "crown of the pipe" in ev.verdict.reason
     assert verdict_of(design.stability) is Verdict.NON_ERODIBLE      # without the depth it is the lining's

@@ -19,8 +19,8 @@ from PySide6.QtGui import QColor, QFontMetrics, QGuiApplication
 from PySide6.QtWidgets import (QAbstractItemView, QCheckBox, QGridLayout, QHBoxLayout, QHeaderView, QLabel,
                                QPushButton, QScrollArea, QTableWidget, QTableWidgetItem, QVBoxLayout, QWidget)
 
+from .. import channel_display as display
 from ..project import LiningChoice
-from . import compute
 from .document import ProjectDocument
 from .fields import keep_units_whole, pretty
 from .plots import SectionPicture
@@ -51,7 +51,7 @@ class ComparisonView(QWidget):
     def __init__(self, doc: ProjectDocument, parent=None):
         super().__init__(parent)
         self.doc = doc
-        self.rows: list[compute.ComparisonRow] = []
+        self.rows: list[display.ComparisonRow] = []
         self.pictures: list[SectionPicture] = []
 
         intro = QLabel("Tick linings to compare them for this channel at its design flow. Pick a column to "
@@ -76,7 +76,7 @@ class ComparisonView(QWidget):
         choice_scroll.setHorizontalScrollBarPolicy(Qt.ScrollBarPolicy.ScrollBarAlwaysOff)
         choice_scroll.setFixedHeight(6 * 22 + 8)
 
-        self.table = QTableWidget(0, len(compute.COMPARISON_COLUMNS))
+        self.table = QTableWidget(0, len(display.COMPARISON_COLUMNS))
         self.table.setObjectName("comparisonTable")
         self.table.setSelectionBehavior(QAbstractItemView.SelectionBehavior.SelectColumns)
         self.table.setSelectionMode(QAbstractItemView.SelectionMode.SingleSelection)
@@ -135,12 +135,12 @@ class ComparisonView(QWidget):
     def refresh(self) -> None:
         """Linings side by side: one column each, the quantities down the side."""
         self._stale = False
-        ch, units = self.doc.channel(), self.doc.units
+        ch, context = self.doc.channel(), self.doc.context
         self._fill_choices(ch)
-        self.rows, reason = compute.compare(ch, units)
+        self.rows, reason = display.compare(ch, context)
         self.unavailable.setText(reason)
         self.unavailable.setVisible(bool(reason))
-        heads, body = compute.comparison_table(self.rows, units)
+        heads, body = display.comparison_table(self.rows, context)
         self._set_columns(len(body))
         self.table.setRowCount(len(heads))          # row 0: the small section; then the quantities
         self.table.setHorizontalHeaderLabels([wrap(keep_units_whole(cells[0])) for cells in body])
@@ -176,7 +176,7 @@ class ComparisonView(QWidget):
 
     def sort_by(self, row: int) -> None:
         """Order the linings by the quantity of table row ``row``; the same row again reverses the order."""
-        if not 1 <= row < len(compute.COMPARISON_COLUMNS):
+        if not 1 <= row < len(display.COMPARISON_COLUMNS):
             return
         descending = self._sort == (row, False)
         self._sort = (row, descending)
@@ -188,7 +188,7 @@ class ComparisonView(QWidget):
         if self._sort is None or not self.rows or not labels:
             return
         row, descending = self._sort
-        get = compute.COMPARISON_COLUMNS[row][2]
+        get = display.COMPARISON_COLUMNS[row][2]
 
         values = [get(r) for r in self.rows]
         present = [j for j, v in enumerate(values) if v is not None]
@@ -214,7 +214,7 @@ class ComparisonView(QWidget):
             self._fill_choices(self.doc.channel())
 
     def _fill_choices(self, ch) -> None:
-        groups = compute.lining_groups(self.doc.units)
+        groups = display.lining_groups(self.doc.context)
         columns = self._columns()
         if groups != getattr(self, "_groups", None) or columns != getattr(self, "_filled_columns", None):
             self._groups, self._filled_columns = groups, columns
@@ -297,7 +297,7 @@ class ComparisonView(QWidget):
             return
         picked = self.rows[index]     # held: the edit below refreshes the table, which may reorder ``rows``
         ch = self.doc.channel()
-        new = compute.with_lining(ch, picked.choice)
+        new = display.with_lining(ch, picked.choice)
         if ch.lining is not None and all((a.key, a.d50) != (ch.lining.key, ch.lining.d50) for a in ch.alternatives):
             new.alternatives.insert(0, copy.deepcopy(ch.lining))   # the lining it had stays in the comparison
         self.doc.replace(new, f"Apply lining {picked.name}")
@@ -312,7 +312,7 @@ class ComparisonView(QWidget):
                 return
 
     def copy_table(self) -> str:
-        text = compute.comparison_tsv([self.rows[j] for j in self.shown_order()], self.doc.units)
+        text = display.comparison_tsv([self.rows[j] for j in self.shown_order()], self.doc.context)
         QGuiApplication.clipboard().setText(text)
         self.status_message.emit(f"Comparison table copied ({len(self.rows)} rows, tab-separated).")
         return text

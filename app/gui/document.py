@@ -2,7 +2,8 @@
 
 The project itself (:mod:`app.project`) is plain Python. This controller owns
 it, changes it only through the commands of :mod:`app.gui.commands`, and
-tells the views what changed through Qt signals.
+tells the views what changed through Qt signals. The changes themselves
+(an input by its path, new channels) are the Qt-free :mod:`app.editing`.
 """
 
 from __future__ import annotations
@@ -16,89 +17,10 @@ from PySide6.QtGui import QUndoStack
 import hydraulics as hy
 
 from .. import project as pj
+from ..context import Context
+from ..editing import new_channel, new_project, with_value
 from ..files import FileChangedError, FileStamp
 from . import commands as cmd
-
-
-def with_value(channel: pj.Channel, path: str, value) -> pj.Channel:
-    """A copy of ``channel`` with one input changed; ``path`` like "slope", "flow.value", "section.diameter"."""
-    out = copy.deepcopy(channel)
-    head, _, rest = path.partition(".")
-    if head == "section" and rest:
-        out.section[rest] = value
-    elif head == "flow" and rest:
-        setattr(out.flow, rest, value)
-    elif head == "lining" and rest:
-        if out.lining is None:
-            raise KeyError(f"{path!r}: the channel has no lining")
-        setattr(out.lining, rest, value)
-    elif rest:
-        raise KeyError(f"unknown input {path!r}")
-    else:
-        if not hasattr(out, head):
-            raise KeyError(f"unknown input {path!r}")
-        setattr(out, head, copy.deepcopy(value))
-    return out
-
-
-def value_at(channel: pj.Channel, path: str):
-    head, _, rest = path.partition(".")
-    if head == "section" and rest:
-        return channel.section.get(rest)
-    if head == "flow" and rest:
-        return getattr(channel.flow, rest)
-    if head == "lining" and rest:
-        return None if channel.lining is None else getattr(channel.lining, rest)
-    return getattr(channel, head)
-
-
-def section_for_shape(channel: pj.Channel, shape: str) -> tuple[dict, float | None]:
-    """A starting section of ``shape`` that resembles the channel's present one, and the n to use with it.
-
-    Widths and slopes carry over where the shapes share them. A surveyed
-    (irregular) section starts from the present outline, with the channel's n
-    on every segment; leaving it takes the first segment's n.
-    """
-    old = channel.section
-    n = channel.manning_n
-    b = old.get("bottom_width") or old.get("top_width") or old.get("diameter") or 1.0
-    z1 = old.get("left_slope", 2.0) or 2.0
-    z2 = old.get("right_slope", z1) or z1
-    if old.get("shape") == "irregular":
-        n = float(old["n"][0]) if old.get("n") else 0.030
-        xs = old["stations"]
-        b = max(0.5, (xs[-1] - xs[0]) / 3)
-    if shape == "trapezoid":
-        sec = {"shape": shape, "bottom_width": b, "left_slope": z1, "right_slope": z2}
-    elif shape == "triangle":
-        sec = {"shape": shape, "left_slope": z1, "right_slope": z2}
-    elif shape == "rectangle":
-        sec = {"shape": shape, "bottom_width": b}
-    elif shape == "parabola":
-        sec = {"shape": shape, "top_width": max(b, 1.0) * 2, "at_depth": 0.5}
-    elif shape == "circle":
-        sec = {"shape": shape, "diameter": max(0.3, min(b, 3.0))}
-    elif shape == "irregular":
-        depth = 1.0
-        try:
-            current = hy.section_from_dict(old)
-            depth = current.full_depth or 1.0
-            if current.kind != "irregular" and current.full_depth is None:
-                depth = 1.0
-            x, z = current.outline(depth)
-        except hy.InputError:
-            x, z = hy.Trapezoid(bottom_width=1.0, side_slope=2.0).outline(depth)
-        if old.get("shape") == "circle":
-            # A pipe is not a surveyed ditch: start from a plain trapezoid of similar size.
-            x, z = hy.Trapezoid(bottom_width=b / 2, side_slope=2.0).outline(b / 2)
-        x = [round(float(v) - float(x[0]), 4) for v in x]
-        z = [round(float(v), 4) for v in z]
-        seg_n = n if n is not None else 0.030
-        sec = {"shape": shape, "stations": x, "elevations": z, "n": [seg_n] * (len(x) - 1)}
-        return sec, None
-    else:
-        raise KeyError(f"unknown shape {shape!r}")
-    return sec, (n if n is not None else 0.030)
 
 
 class ProjectDocument(QObject):
@@ -109,8 +31,11 @@ class ProjectDocument(QObject):
     current_changed = Signal(int)
     project_changed = Signal()       # project name, notes or sheet details
 
-    def __init__(self, project: pj.Project | None = None, path=None, parent=None):
+    def __init__(self, project: pj.Project | None = None, path=None, parent=None, context: Context | None = None):
+        """``context``: the catalogue and program version the project is evaluated with (default: the shipped
+        catalogue alone); its units follow the project's (:attr:`context`)."""
         super().__init__(parent)
+        self._context = context if context is not None else Context.load()
         self.undo_stack = QUndoStack(self)
         self.project = project or new_project()
         self.path = Path(path) if path else None
@@ -127,6 +52,11 @@ class ProjectDocument(QObject):
     @property
     def units(self) -> hy.units.UnitSystem:
         return hy.units.system(self.project.units)
+
+    @property
+    def context(self) -> Context:
+        """What the project is evaluated and exported with: the window's context, in the project's units."""
+        return self._context.with_units(self.units)
 
     def channel(self, index: int | None = None) -> pj.Channel:
         return self.project.channels[self.current if index is None else index]
@@ -305,32 +235,3 @@ class ProjectDocument(QObject):
         self.revision += 1
         setattr(self.project, attribute, value)
         self.project_changed.emit()
-
-
-#: Round starting values of a new channel in each unit system's own units: (input path, quantity, US, SI).
-#: A US project starts at 20 ft^3/s and 2 ft, not at 0.5 m^3/s shown as 17.657 ft^3/s. Typical sizes of a
-#: small grassed roadside ditch (common practice); the freeboard is the 0.5 ft / 0.15 m minimum of the README.
-STARTING_VALUES = (
-    ("flow.value", "flow", 20.0, 0.5),
-    ("slope", "slope", 0.005, 0.005),
-    ("section.bottom_width", "length", 2.0, 0.6),
-    ("section.left_slope", "", 3.0, 3.0),
-    ("section.right_slope", "", 3.0, 3.0),
-    ("manning_n", "", 0.030, 0.030),
-    ("min_freeboard", "length", 0.5, 0.15),
-)
-
-
-def new_channel(units: str = "us", name: str = "Ditch 1") -> pj.Channel:
-    """A new trapezoidal channel with the round starting values of the unit system ``units`` (stored in SI)."""
-    system = hy.units.system(units)
-    ch = pj.Channel(name=name)
-    for path, quantity, us, si in STARTING_VALUES:
-        shown = us if units == "us" else si
-        ch = with_value(ch, path, float(system.to_si(quantity, shown)) if quantity else shown)
-    return ch
-
-
-def new_project(units: str = "us") -> pj.Project:
-    """A fresh project in ``units`` with one channel at that unit system's round starting values."""
-    return pj.Project(units=units, channels=[new_channel(units)])

@@ -17,9 +17,10 @@ from PySide6.QtWidgets import (QAbstractItemView, QComboBox, QGridLayout, QGroup
 
 from hydraulics.units import UnitSystem
 
+from .. import channel_display as display
+from ..editing import section_for_shape, value_at, with_value
 from ..project import LiningChoice
-from . import compute
-from .document import ProjectDocument, section_for_shape, value_at, with_value
+from .document import ProjectDocument
 from .fields import (FieldSpec, LineEdit, NotesEdit, NumberField, UnclearNumber, format_number, keep_units_whole,
                      parse_number, pretty, set_invalid)
 
@@ -283,12 +284,14 @@ class LiningForm(QWidget):
 
     def _fill(self, units: UnitSystem | None = None) -> None:
         """The catalogue under a heading per kind (headings cannot be chosen), named in ``units``."""
-        units = units or self.panel.doc.units
-        self._filled_for = units
+        context = self.panel.doc.context
+        if units is not None:
+            context = context.with_units(units)
+        self._filled_for = context.units
         self.combo.clear()
         self.combo.addItem("None: Manning's n only", "")
         model = self.combo.model()
-        for heading, items in compute.lining_groups(units, sizes=False):   # the stone size has its own field
+        for heading, items in display.lining_groups(context, sizes=False):   # the stone size has its own field
             self.combo.addItem(heading)
             head = model.item(self.combo.count() - 1)
             head.setEnabled(False)
@@ -315,8 +318,9 @@ class LiningForm(QWidget):
             self._fill(units)
         lining = channel.lining
         entry = None
-        if lining is not None and lining.key in compute.catalogue():
-            entry = compute.lining_entry(lining.key)
+        catalogue = self.panel.doc.context.catalogue
+        if lining is not None and lining.key in catalogue:
+            entry = catalogue.get(lining.key)
         i = self.combo.findData(lining.key if lining is not None else "")
         if i < 0:   # a key this catalogue does not know: show it, say so
             self.combo.addItem(f"{lining.key} (not in the catalogue)", lining.key)
@@ -328,7 +332,7 @@ class LiningForm(QWidget):
             self.d50.show_value(lining.d50, units, force)
             default = entry.d50
             self.d50.edit.setPlaceholderText(
-                f"catalogue: {pretty(compute.stone_size_text(default, units))}" if default else "needed")
+                f"catalogue: {pretty(display.stone_size_text(default, units))}" if default else "needed")
         surveyed = channel.section.get("shape") == "irregular"
         plain = lining is None
         self.n.set_visible(plain and not (surveyed and channel.manning_n is None))
@@ -579,7 +583,7 @@ class InputPanel(QScrollArea):
         self._invalid = {k: v for k, v in self._invalid.items() if k in self.fields and self.fields[k].error}
         self.validity_changed.emit(self.first_complaint())
 
-    def show_evaluation(self, ev: compute.Evaluation) -> None:
+    def show_evaluation(self, ev: display.Evaluation) -> None:
         """The computed lines of the form, and a mark on the field the core's error names."""
         units = self.doc.units
         if ev.time_of_concentration is not None:
@@ -620,7 +624,7 @@ class InputPanel(QScrollArea):
     def _commit(self, field: NumberField, key: str, value) -> None:
         path = field.spec.path
         candidate = with_value(self.doc.channel(), path, value)
-        refusal = compute.check_section(candidate)
+        refusal = display.check_section(candidate)
         if refusal is not None:
             message, core_field = refusal
             target = self.fields.get(f"{candidate.section['shape']}:{CORE_TO_PATH.get(core_field, '')}", field)
@@ -658,7 +662,7 @@ class InputPanel(QScrollArea):
 
     def _survey_changed(self, section: dict, text: str) -> None:
         candidate = with_value(self.doc.channel(), "section", section)
-        refusal = compute.check_section(candidate)
+        refusal = display.check_section(candidate)
         if refusal is not None:
             self.survey._set_message(refusal[0])
             self._note_invalid("survey", refusal[0])

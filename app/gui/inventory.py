@@ -1,10 +1,10 @@
 """Check a ditch inventory from the window: every reach of a CSV, as a table to filter, sort and import from.
 
-The check itself is :func:`app.batch.run_inventory` (the vectorised core); it
+The check itself is :func:`app.inventory.run_inventory` (the vectorised core); it
 runs in a worker thread (:class:`~app.gui.tasks.Task`), so a long inventory
 shows its progress and the window stays usable. The table is a model over
-the rows of :meth:`app.batch.BatchRun.table`, with the file's line numbers
-down the side; the filters are :meth:`app.batch.BatchRun.select`. Chosen
+the rows of :meth:`app.inventory.BatchRun.table`, with the file's line numbers
+down the side; the filters are :meth:`app.inventory.BatchRun.select`. Chosen
 reaches become channels of the project in one undoable step
 (:meth:`app.gui.document.ProjectDocument.add_channels`).
 """
@@ -22,12 +22,13 @@ from PySide6.QtWidgets import (QAbstractItemView, QCheckBox, QComboBox, QDialog,
                                QHBoxLayout, QLabel, QLineEdit, QMessageBox, QPlainTextEdit,
                                QProgressBar, QPushButton, QTableView, QTabWidget, QVBoxLayout, QWidget)
 
-from .. import batch as ab
-from ..batch import InventoryError
-from hydraulics import batch as hb
+from .. import inventory as ai
+from ..files import tsv_cell
+from ..inventory import InventoryError
+from hydraulics import many_reaches as mr
 from hydraulics import units as hu
 
-from . import compute, settings
+from . import settings
 from .fields import pretty, sentence
 from .style import STYLE
 from .tasks import Cancelled, Task
@@ -57,7 +58,7 @@ TYPE_AHEAD_ROWS = 50_000
 
 
 def _quantity(column: str) -> str | None:
-    return hb.RESULT_FIELDS.get(column) or hb.NUMERIC_FIELDS.get(column)
+    return mr.RESULT_FIELDS.get(column) or mr.NUMERIC_FIELDS.get(column)
 
 
 def column_title(column: str, units: hu.UnitSystem) -> str:
@@ -186,30 +187,30 @@ def _numeric(column: str) -> bool:
 
 
 class ReachesModel(SortableRows):
-    """Every reach of a :class:`app.batch.BatchRun`: the input columns as written, then the results.
+    """Every reach of a :class:`app.inventory.BatchRun`: the input columns as written, then the results.
 
     Cells are made when Qt asks for them (an input row is split only when it
-    is shown; numbers get the results file's :data:`app.batch.DIGITS`
+    is shown; numbers get the results file's :data:`app.inventory.DIGITS`
     significant digits), so a 100,000-reach inventory costs little more than
     the run itself.
     """
 
     def __init__(self, parent=None):
         super().__init__(parent)
-        self.run: ab.BatchRun | None = None
+        self.run: ai.BatchRun | None = None
         self._values: dict = {}
         self._fields: dict[int, list] = {}
         self._width = 0
 
-    def load(self, run: ab.BatchRun, order_names=LEADING) -> None:
+    def load(self, run: ai.BatchRun, order_names=LEADING) -> None:
         self.beginResetModel()
         inv = run.inventory
         self.run = run
         self._width = len(inv.header)
-        self._values = ab.display_values(inv, run.result)
+        self._values = ai.display_values(inv, run.result)
         self._verdicts = run.result.verdict.astype(str)
         self._fields.clear()
-        columns = list(inv.header) + list(ab.RESULT_COLUMNS)
+        columns = list(inv.header) + list(ai.RESULT_COLUMNS)
         lead = [columns.index(c) for c in order_names if c in columns]
         reason = columns.index("reason")
         order = lead + [i for i in range(len(columns)) if i not in lead and i != reason] + [reason]
@@ -234,7 +235,7 @@ class ReachesModel(SortableRows):
         if name == "reason":
             return self.run.result.reason[i]
         value = float(self._values[name][i])
-        return "" if math.isnan(value) else f"{value:.{ab.DIGITS}g}"
+        return "" if math.isnan(value) else f"{value:.{ai.DIGITS}g}"
 
     def verdict(self, i: int) -> str:
         return self._verdicts[i]
@@ -243,7 +244,7 @@ class ReachesModel(SortableRows):
         name, inv, res = self.columns[c], self.run.inventory, self.run.result
         if name in self._values:
             return np.asarray(self._values[name], dtype=float)
-        if name in hb.NUMERIC_FIELDS and c < self._width:
+        if name in mr.NUMERIC_FIELDS and c < self._width:
             return np.asarray(getattr(inv.reaches, name), dtype=float)   # SI: the same order as shown
         if name == "verdict":
             return self._verdicts
@@ -304,7 +305,7 @@ class InventoryDialog(QDialog):
         super().__init__(parent)
         self.doc = doc
         self.persistent = persistent
-        self.run: ab.BatchRun | None = None
+        self.run: ai.BatchRun | None = None
         self.task: Task | None = None
         self.setWindowTitle("Check a ditch inventory — Ditchwright")
         self.setObjectName("inventory")
@@ -374,7 +375,7 @@ class InventoryDialog(QDialog):
         heading.setObjectName("subheading")
         fl.addWidget(heading, 0, 0)
         self.verdict_boxes: dict[str, QCheckBox] = {}
-        for i, verdict in enumerate(hb.VERDICTS):
+        for i, verdict in enumerate(mr.VERDICTS):
             box = QCheckBox(VERDICT_WORDS[verdict])
             box.setObjectName(f"verdict_{verdict}")
             box.setProperty("verdict", verdict)
@@ -387,7 +388,7 @@ class InventoryDialog(QDialog):
         self.warning.setObjectName("warningFilter")
         self.warning.addItem("any reach, warned or not", None)
         self.warning.addItem("with any warning", ANY_WARNING)
-        for key, label in hb.WARNINGS.items():
+        for key, label in mr.WARNINGS.items():
             self.warning.addItem(f"with {label}", key)
         self.warning.currentIndexChanged.connect(self.apply_filters)
         fl.addWidget(self.warning, 2, 1, 1, 2)
@@ -502,10 +503,10 @@ class InventoryDialog(QDialog):
         if self.persistent:
             settings.INVENTORY_FOLDER.write(str(path.parent))
             settings.INVENTORY_UNITS.write(units)
-        catalogue = compute.catalogue()
+        catalogue = self.doc.context.catalogue   # the window's: shipped, with the user's file
 
         def work(progress):
-            return ab.run_inventory(path, units, progress=progress, catalogue=catalogue)
+            return ai.run_inventory(path, units, progress=progress, catalogue=catalogue)
 
         task = Task(work, self)
         task.progressed.connect(self._progressed)
@@ -558,7 +559,7 @@ class InventoryDialog(QDialog):
             self._say(sentence(f"The check stopped with an unexpected error: {type(exc).__name__}: {exc}") + before,
                       error=True)
 
-    def _checked(self, path: Path, run: ab.BatchRun) -> None:
+    def _checked(self, path: Path, run: ai.BatchRun) -> None:
         self.run = run
         units = run.inventory.units
         self.model.load(run)
@@ -614,7 +615,7 @@ class InventoryDialog(QDialog):
         if self.run is None:
             return
         key = self.warning.currentData()
-        warnings = None if key is None else (list(hb.WARNINGS) if key == ANY_WARNING else [key])
+        warnings = None if key is None else (list(mr.WARNINGS) if key == ANY_WARNING else [key])
         rows = self.run.select(verdicts=self.chosen_verdicts(), warnings=warnings, text=self.text.text().strip())
         self.model.show_rows(rows)
         self._show_detail()
@@ -699,10 +700,10 @@ class InventoryDialog(QDialog):
         rows = sorted({i.row() for i in self.table.selectionModel().selectedRows()})
         if not rows:
             return
-        lines = ["\t".join(["line"] + [compute.tsv_cell(self.model.titles[c]) for c in self.model.order])]
+        lines = ["\t".join(["line"] + [tsv_cell(self.model.titles[c]) for c in self.model.order])]
         for r in rows:
             lines.append("\t".join([str(int(self.model.lines[self.model.shown[r]]))] +
-                                   [compute.tsv_cell(self.model.cell(r, c)) for c in range(self.model.columnCount())]))
+                                   [tsv_cell(self.model.cell(r, c)) for c in range(self.model.columnCount())]))
         QGuiApplication.clipboard().setText("\n".join(lines) + "\n")
         self._say(f"Copied {len(rows):,} row{'s' if len(rows) != 1 else ''} as tab-separated text.")
 
@@ -715,7 +716,7 @@ class InventoryDialog(QDialog):
         if not path:
             return
         try:
-            ab.write_results(path, self.run.inventory, self.run.result)
+            ai.write_results(path, self.run.inventory, self.run.result)
         except Exception as exc:  # noqa: BLE001 - any failure is said; the results stay in the window
             why = exc.strerror or exc if isinstance(exc, OSError) else f"unexpected error {type(exc).__name__}: {exc}"
             self._say(f"The results were not saved to {path}: {why}.", error=True)

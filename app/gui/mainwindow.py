@@ -16,13 +16,16 @@ from PySide6.QtWidgets import (QApplication, QDialog, QFileDialog, QHBoxLayout, 
 import hydraulics as hy
 
 from .. import __version__
+from .. import channel_display as display
 from .. import project as pj
 from .. import sheet as sh
+from ..context import Context
+from ..editing import new_project
 from ..files import FileChangedError, FileStamp
-from . import compute, settings
+from . import settings
 from .autosave import Autosaver, find_recoverable, save_failure_reason
 from .comparison import ComparisonView
-from .document import ProjectDocument, new_project
+from .document import ProjectDocument
 from .fields import pretty, sentence
 from .forms import SHAPES, InputPanel
 from .plots import EnergyPicture, RatingPicture, SectionPicture
@@ -38,12 +41,18 @@ TABS = ("section", "rating", "energy", "compare")
 
 
 class MainWindow(QMainWindow):
-    def __init__(self, project: pj.Project | None = None, path=None, *, persistent: bool = True):
+    def __init__(self, project: pj.Project | None = None, path=None, *, persistent: bool = True,
+                 context: Context | None = None):
+        """The window over ``project`` (read from ``path``). ``context`` is what it evaluates and exports with;
+        by default the shipped lining catalogue with the user's catalogue file of the data folder laid over it
+        (the shipped one alone when not ``persistent``)."""
         super().__init__()
         self.persistent = persistent
-        self.doc = ProjectDocument(project, path, parent=self)
-        self.last_good: compute.Evaluation | None = None
-        self.evaluation: compute.Evaluation | None = None
+        if context is None:   # the user's own linings and unit costs, laid over the shipped catalogue
+            context = Context.load(settings.user_catalogue_path() if persistent else None)
+        self.doc = ProjectDocument(project, path, parent=self, context=context)
+        self.last_good: display.Evaluation | None = None
+        self.evaluation: display.Evaluation | None = None
         self._drawn: dict[str, int] = {}
         self.export_task: Task | None = None
         self.inventory_dialog = None
@@ -59,10 +68,8 @@ class MainWindow(QMainWindow):
         self.autosaver = Autosaver(self.doc, parent=self) if persistent else None
         if self.autosaver:
             self.autosaver.failed.connect(self.autosave_failed)
-        if persistent:   # the user's own linings and unit costs, laid over the shipped catalogue
-            problem = compute.use_user_catalogue(settings.user_catalogue_path())
-            if problem:
-                self.statusBar().showMessage(problem, 15000)
+        if context.catalogue_problem:
+            self.statusBar().showMessage(context.catalogue_problem, 15000)
         self.refresh_all()
 
     # -- construction, in named steps ---------------------------------------------------
@@ -311,7 +318,7 @@ class MainWindow(QMainWindow):
     def refresh(self, *_signal_args) -> None:
         """Evaluate the current channel and redraw what is in view."""
         ch = self.doc.channel()
-        ev = compute.evaluate(ch, self.doc.units)
+        ev = display.evaluate(ch, self.doc.context)
         complaint = self.inputs.first_complaint()
         self.inputs.show_evaluation(ev)
         if ev.ok and not complaint:
@@ -342,14 +349,14 @@ class MainWindow(QMainWindow):
                 thick = ev.lining.layer_thickness if ev.lining else None
                 picture.update(ev, units, self.section_title(ch, ev), lining_thickness=thick)
             elif key == "rating":
-                picture.update(compute.rating(ch, ev), ev, units, f"{ch.name}: flow against depth on this grade")
+                picture.update(display.rating(ch, ev), ev, units, f"{ch.name}: flow against depth on this grade")
             else:
-                picture.update(compute.energy(ch, ev), units, f"{ch.name}: specific energy at the design flow")
+                picture.update(display.energy(ch, ev), units, f"{ch.name}: specific energy at the design flow")
         else:
             picture.fade(True, note)
         picture.canvas.draw_idle()
 
-    def section_title(self, ch: pj.Channel, ev: compute.Evaluation) -> str:
+    def section_title(self, ch: pj.Channel, ev: display.Evaluation) -> str:
         u = self.doc.units
         n = ev.result.manning_n
         return (f"{ch.name}  ·  {SHAPE_NAMES.get(ev.section.kind, ev.section.kind)}  ·  "
@@ -625,7 +632,7 @@ class MainWindow(QMainWindow):
         names = choice.channels if choice.channels is not None else [c.name for c in project.channels]
         unsolved = []
         for name in names:
-            ev = compute.evaluate(project.channel(name), self.doc.units)
+            ev = display.evaluate(project.channel(name), self.doc.context)
             if not ev.ok:
                 unsolved.append((name, ev.error))
         if not unsolved:
@@ -655,7 +662,7 @@ class MainWindow(QMainWindow):
         """
         project = copy.deepcopy(self.doc.project)
         count = len(choice.channels) if choice.channels is not None else len(project.channels)
-        linings = compute.catalogue()   # the one the window evaluates with: shipped plus the user's file
+        linings = self.doc.context.catalogue   # the one the window evaluates with: shipped plus the user's file
 
         def work(progress):
             return sh.export_sheets(project, choice.path, channels=choice.channels, page=choice.page, sign=sign,

@@ -5,7 +5,7 @@ artists once; an update only moves them (``set_data``, ``set_xy``) and asks
 for ``draw_idle``. Margins are fixed instead of using a layout engine, which
 would double the cost of every redraw. Values arrive in SI and are drawn in the
 project's units. Nothing here computes hydraulics: the numbers come from
-:mod:`app.gui.compute`.
+:mod:`app.channel_display`.
 """
 
 from __future__ import annotations
@@ -20,7 +20,7 @@ from matplotlib.patches import Polygon
 from hydraulics.linings.roughness import SWITCH_NOTE
 from hydraulics.units import UnitSystem
 
-from .compute import Evaluation, EnergyData, RatingData
+from ..channel_display import EnergyData, Evaluation, RatingData
 from .fields import pretty
 
 INK = "#33393f"

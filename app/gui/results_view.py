@@ -13,8 +13,8 @@ from hydraulics.provenance import NOT_VERIFIED_MARK, NOT_VERIFIED_TITLE
 from hydraulics.units import UnitSystem
 from hydraulics.wording import in_units
 
+from ..channel_display import Evaluation
 from ..results import CHANNEL_FIELDS, ResultField, format_value
-from .compute import Evaluation
 from .fields import keep_units_whole, pretty
 
 CAUTION = ("Results assist design only. Check them against the local drainage code and design manual; "

@@ -3,10 +3,10 @@
 import pytest
 from PySide6.QtGui import QImage
 
-import hydraulics as hy
 from app import project as pj
-from app.gui import compute
-from app.gui.document import new_project
+from app.context import Context
+from app import channel_display as display
+from app.editing import new_project
 from app.main import main
 
 
@@ -51,7 +51,7 @@ def test_demo_project_is_invented_and_varied():
     assert project.units == "si" and len(project.channels) >= 3
     assert any(c.alternatives for c in project.channels)
     for ch in project.channels:
-        assert compute.evaluate(ch, hy.units.SI).ok, ch.name
+        assert display.evaluate(ch, Context.load(units="si")).ok, ch.name
 
 
 def test_no_arguments_opens_the_demo_on_first_start_only(monkeypatch):

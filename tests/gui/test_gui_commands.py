@@ -6,7 +6,8 @@ import pytest
 
 from app import project as pj
 from app.gui import commands as cmd
-from app.gui.document import ProjectDocument, section_for_shape, with_value
+from app.editing import section_for_shape, with_value
+from app.gui.document import ProjectDocument
 
 
 def sample():

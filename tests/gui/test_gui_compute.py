@@ -7,12 +7,15 @@ import pytest
 
 import hydraulics as hy
 from app import project as pj
-from app.gui import compute
+from app.context import Context
+from app import channel_display as display
 from hydraulics import rational
+
+SI_CONTEXT, US_CONTEXT = Context.load(units="si"), Context.load(units="us")   # the shipped catalogue
 
 
 def test_compute_imports_no_gui_library():
-    code = ("import sys, app.gui.compute; "
+    code = ("import sys, app.channel_display; "
             "print(','.join(m for m in ('PySide6', 'matplotlib') if m in sys.modules))")
     out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, check=True)
     assert out.stdout.strip() == ""
@@ -20,7 +23,7 @@ def test_compute_imports_no_gui_library():
 
 def test_evaluation_is_the_core_analysis():
     ch = pj.Channel(slope=0.004, manning_n=0.025)
-    ev = compute.evaluate(ch, hy.units.SI)
+    ev = display.evaluate(ch, SI_CONTEXT)
     r = hy.analyse(ch.build_section(), ch.flow.value, 0.004, 0.025)
     assert ev.ok and ev.result.normal_depth == r.normal_depth and ev.result.froude == r.froude
     assert ev.total_depth == pytest.approx(r.normal_depth + ch.min_freeboard)
@@ -29,7 +32,7 @@ def test_evaluation_is_the_core_analysis():
 def test_rational_flow_and_kirpich_time_come_from_the_core():
     fb = pj.FlowBasis(method="rational", runoff_coefficient=0.5, intensity=2e-5, area=4e4,
                       flow_length=300.0, flow_path_slope=0.02)
-    ev = compute.evaluate(pj.Channel(flow=fb), hy.units.SI)
+    ev = display.evaluate(pj.Channel(flow=fb), SI_CONTEXT)
     assert ev.flow == pytest.approx(rational.rational_flow(0.5, 2e-5, 4e4))
     assert ev.time_of_concentration == pytest.approx(rational.kirpich_time(300.0, 0.02))
     assert any("Kirpich" in w for w in ev.warnings)                # 2 % is outside Kirpich's 3-10 %
@@ -42,7 +45,7 @@ def test_rational_flow_and_kirpich_time_come_from_the_core():
     (pj.Channel(section={"shape": "triangle", "left_slope": 0.0, "right_slope": 0.0}), "side_slope", "V-ditch"),
 ], ids=["rational-missing-C", "no-n", "unknown-lining", "flat-V"])
 def test_bad_input_is_a_message_not_an_exception(channel, field, words):
-    ev = compute.evaluate(channel, hy.units.SI)
+    ev = display.evaluate(channel, SI_CONTEXT)
     assert not ev.ok and ev.error_field == field and words in ev.error
     assert ev.verdict.status == "none"
 
@@ -50,7 +53,7 @@ def test_bad_input_is_a_message_not_an_exception(channel, field, words):
 def test_overtopped_pipe_is_a_failed_verdict_with_the_reason():
     ch = pj.Channel(section={"shape": "circle", "diameter": 0.6}, flow=pj.FlowBasis(value=0.2), slope=0.003,
                     manning_n=0.013, min_freeboard=0.3)    # y = 0.33 m; 0.33 + 0.3 > D
-    ev = compute.evaluate(ch, hy.units.US)
+    ev = display.evaluate(ch, US_CONTEXT)
     assert ev.ok and ev.verdict.status == "fail" and "ft" in ev.verdict.reason
 
 
@@ -60,11 +63,11 @@ def outfall():
 
 def test_comparison_rows_agree_with_single_lining_evaluations():
     ch = outfall()
-    rows, reason = compute.compare(ch, hy.units.SI)
+    rows, reason = display.compare(ch, SI_CONTEXT)
     assert reason == "" and rows[0].choice.key == ch.lining.key
     assert {r.choice.key for r in rows} == {ch.lining.key} | {a.key for a in ch.alternatives}
     for row in rows:
-        single = compute.evaluate(compute.with_lining(ch, row.choice), hy.units.SI)
+        single = display.evaluate(display.with_lining(ch, row.choice), SI_CONTEXT)
         assert single.result.normal_depth == pytest.approx(row.evaluation.result.normal_depth, rel=1e-12)
         assert single.verdict == row.evaluation.verdict
 
@@ -75,16 +78,16 @@ def seen(text):
 
 
 def test_comparison_table_as_tab_separated_text():
-    rows, _ = compute.compare(outfall(), hy.units.SI)
-    lines = compute.comparison_tsv(rows, hy.units.SI).splitlines()
+    rows, _ = display.compare(outfall(), SI_CONTEXT)
+    lines = display.comparison_tsv(rows, SI_CONTEXT).splitlines()
     assert len(lines) == len(rows) + 1
-    assert all(line.count("\t") == len(compute.COMPARISON_COLUMNS) - 1 for line in lines)
+    assert all(line.count("\t") == len(display.COMPARISON_COLUMNS) - 1 for line in lines)
     assert lines[0].startswith("Lining\tDepth [m]\tVelocity [m/s]")
     riprap = next(i for i, r in enumerate(rows) if r.choice.key == "riprap")
     cells = lines[riprap + 1].split("\t")
     assert cells[0].startswith(rows[riprap].name) and "D50 150.0 mm" in cells[0]   # to a tenth, as in the results
     assert float(cells[1]) == pytest.approx(rows[riprap].core.depth, abs=5e-4)
-    us = compute.comparison_tsv(rows, hy.units.US).splitlines()[riprap + 1].split("\t")
+    us = display.comparison_tsv(rows, US_CONTEXT).splitlines()[riprap + 1].split("\t")
     assert "D50 5.9 in" in us[0] and float(us[1]) == pytest.approx(rows[riprap].core.depth / 0.3048, abs=2e-3)
 
 
@@ -95,26 +98,26 @@ def test_gravel_mulch_example_fails_in_words():
     ch = pj.Channel(flow=pj.FlowBasis(value=0.42), slope=0.008,
                     section={"shape": "trapezoid", "bottom_width": 0.4, "left_slope": 3.0, "right_slope": 3.0},
                     lining=pj.LiningChoice("gravel", d50=0.025))
-    ev = compute.evaluate(ch, hy.units.SI)
+    ev = display.evaluate(ch, SI_CONTEXT)
     assert ev.result.normal_depth == pytest.approx(0.35, abs=0.03)
     assert ev.lining.bed_shear == pytest.approx(27, rel=0.1)
     assert ev.verdict.status == "fail" and ev.verdict.headline == "Not stable"
     assert "permissible" in ev.verdict.reason and "Pa" in ev.verdict.reason
-    assert "lb/ft^2" in compute.evaluate(ch, hy.units.US).verdict.reason
+    assert "lb/ft^2" in display.evaluate(ch, US_CONTEXT).verdict.reason
 
 
 def test_rigid_lining_passes_as_non_erodible():
-    ev = compute.evaluate(pj.Channel(lining=pj.LiningChoice("concrete")), hy.units.SI)
+    ev = display.evaluate(pj.Channel(lining=pj.LiningChoice("concrete")), SI_CONTEXT)
     assert ev.verdict.status == "pass" and ev.verdict.headline == "Non-erodible"
     assert ev.lining.layer_thickness is not None and ev.lining.layer_thickness > 0
 
 
 def test_curves_cover_the_design_point():
     ch = pj.Channel()
-    ev = compute.evaluate(ch, hy.units.SI)
-    rating = compute.rating(ch, ev)
+    ev = display.evaluate(ch, SI_CONTEXT)
+    rating = display.rating(ch, ev)
     assert rating.depths.max() >= ev.total_depth and (rating.flows[1:] > rating.flows[:-1]).all()
-    energy = compute.energy(ch, ev)
+    energy = display.energy(ch, ev)
     assert energy.depths.min() < ev.result.critical_depth < energy.depths.max()
     assert energy.min_energy <= energy.energy.min() + 1e-12
 
@@ -129,7 +132,7 @@ def test_results_panel_restates_core_warnings_in_the_session_units(qtbot):
                     lining=pj.LiningChoice("concrete"))
     panel = ResultsPanel()
     qtbot.addWidget(panel)
-    panel.show_evaluation(compute.evaluate(ch, hy.units.US), hy.units.US)
+    panel.show_evaluation(display.evaluate(ch, US_CONTEXT), hy.units.US)
     assert "Velocity 1.38 ft/s is below 2.00 ft/s" in seen(panel.warnings.text())
-    panel.show_evaluation(compute.evaluate(ch, hy.units.SI), hy.units.SI)
+    panel.show_evaluation(display.evaluate(ch, SI_CONTEXT), hy.units.SI)
     assert "Velocity 0.420 m/s is below 0.610 m/s" in seen(panel.warnings.text())

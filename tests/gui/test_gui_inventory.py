@@ -277,7 +277,7 @@ def test_double_click_on_a_bad_row_shows_it_among_the_reaches(window, qtbot, inv
 
 
 def test_a_long_inventory_shows_progress_and_the_window_keeps_running(window, qtbot, tmp_path):
-    from hydraulics.batch import CHUNK
+    from hydraulics.many_reaches import CHUNK
     from PySide6.QtCore import QTimer
 
     size = CHUNK + CHUNK // 5
@@ -302,13 +302,13 @@ def test_a_long_inventory_shows_progress_and_the_window_keeps_running(window, qt
 
 def test_a_failed_save_of_the_results_is_said_and_the_results_stay(window, qtbot, inventory, tmp_path, dialogs,
                                                                      monkeypatch):
-    from app import batch as ab
+    from app import inventory as ai
     d = checked(qtbot, window, inventory)
     dialogs.save_name = str(tmp_path / "results.csv")
 
     def broken(*args, **kwargs):
         raise RuntimeError("something nobody expected")
-    monkeypatch.setattr(ab, "write_results", broken)
+    monkeypatch.setattr(ai, "write_results", broken)
     d.save_results()
     assert "not saved" in d.status.text() and "RuntimeError: something nobody expected" in d.status.text()
     assert d.run is not None and not (tmp_path / "results.csv").exists()

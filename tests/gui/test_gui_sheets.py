@@ -371,26 +371,29 @@ def test_safe_file_names():
     assert sheet_dialogs.safe_file_name("...") == "design-sheets"
 
 
-def test_sheet_from_the_window_uses_the_users_catalogue(window, qtbot, monkeypatch, tmp_path, dialogs):
+def test_sheet_from_the_window_uses_the_users_catalogue(qtbot, monkeypatch, tmp_path, dialogs):
     """The window evaluates with the user's catalogue laid over the shipped one; its sheets must too (an invented
     unit cost of 70 per m^2 on concrete shows as a cost per length on both)."""
-    from app.gui import compute
+    from app.context import Context
+    from app import channel_display as display
     user = tmp_path / "my-linings.toml"
     user.write_text('schema_version = 1\n[[lining]]\nkey = "concrete"\nunit_cost = 70.0\nunit_cost_basis = "area"\n',
                     encoding="utf-8")
-    assert compute.use_user_catalogue(user) == ""
-    try:
-        window.doc.project.channels[0].lining = pj.LiningChoice("concrete")
-        from hydraulics.units import system
-        ev = compute.evaluate(window.doc.channel(), system("us"))
-        assert ev.lining.cost_per_length is not None
-        out = tmp_path / "priced.pdf"
-        answer_export(monkeypatch, path=out, open_after=False)
-        window.export_dialog()
-        wait_for_export(qtbot, window)
-        text = PdfReader(out).pages[0].extract_text().replace("\n", " ")
-        m = re.search(r"; cost ([0-9][0-9,]*\.?[0-9]*) \$/ft", text)
-        assert m, "no cost on the sheet"
-        assert float(m.group(1).replace(",", "")) == pytest.approx(ev.lining.cost_per_length * FOOT, rel=5e-3)
-    finally:
-        compute.use_user_catalogue(None)
+    context = Context.load(user)
+    assert context.catalogue_problem == ""
+    window = MainWindow(invented_project(), context=context)
+    qtbot.addWidget(window)
+    window.show()
+    qtbot.waitExposed(window)
+    window.doc.project.channels[0].lining = pj.LiningChoice("concrete")
+    ev = display.evaluate(window.doc.channel(), window.doc.context.with_units("us"))
+    assert ev.lining.cost_per_length is not None
+    out = tmp_path / "priced.pdf"
+    answer_export(monkeypatch, path=out, open_after=False)
+    window.export_dialog()
+    wait_for_export(qtbot, window)
+    text = PdfReader(out).pages[0].extract_text().replace("\n", " ")
+    m = re.search(r"; cost ([0-9][0-9,]*\.?[0-9]*) \$/ft", text)
+    assert m, "no cost on the sheet"
+    assert float(m.group(1).replace(",", "")) == pytest.approx(ev.lining.cost_per_length * FOOT, rel=5e-3)
+    window.doc.undo_stack.setClean()

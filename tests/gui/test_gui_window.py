@@ -14,8 +14,10 @@ from PySide6.QtWidgets import QLabel, QMessageBox
 
 import hydraulics as hy
 from app import project as pj
-from app.gui import compute, settings
-from app.gui.document import new_project
+from app import channel_display as display
+from app.context import Context
+from app.editing import new_project
+from app.gui import settings
 from app.gui.forms import RATIONAL
 from app.gui.mainwindow import MainWindow
 from window_typing import field, type_into
@@ -378,13 +380,13 @@ def test_comparison_view_applies_a_lining_in_one_undoable_step(demo_window, qtbo
 def test_comparison_table_is_copied_as_tab_separated_text(demo_window, qtbot):
     from PySide6.QtGui import QGuiApplication
 
-    from app.gui import compute
+    from app import channel_display as display
     w = demo_window
     w.doc.set_current(outfall_index(w))
     w.tabs.setCurrentIndex(3)
     qtbot.mouseClick(w.comparison.copy_button, Qt.MouseButton.LeftButton)
     text = QGuiApplication.clipboard().text()
-    assert text == compute.comparison_tsv(w.comparison.rows, w.doc.units)
+    assert text == display.comparison_tsv(w.comparison.rows, w.doc.context)
     assert text.splitlines()[0].split("\t")[:3] == ["Lining", "Depth [m]", "Velocity [m/s]"]
 
 
@@ -443,20 +445,17 @@ def test_ctrl_z_in_a_field_undoes_the_project_edit(demo_window, qtbot):
 
 
 def test_user_catalogue_in_the_data_folder_sets_unit_costs(qtbot):
-    from app.gui import compute
+    from app import channel_display as display
     path = settings.user_catalogue_path()
     path.parent.mkdir(parents=True, exist_ok=True)
     path.write_text('schema_version = 1\n[[lining]]\nkey = "concrete"\nunit_cost = 95.0\n', encoding="utf-8")
-    try:
-        w = MainWindow(pj.loads(pj.demo_path().read_text(encoding="utf-8")))
-        qtbot.addWidget(w)
-        w.doc.set_current(next(i for i, c in enumerate(w.doc.project.channels) if c.alternatives))
-        rows, _ = compute.compare(w.doc.channel(), w.doc.units)
-        concrete = next(r for r in rows if r.choice.key == "concrete")
-        assert concrete.cost_per_length is not None and concrete.cost_per_length > 0
-        w.doc.undo_stack.setClean()
-    finally:
-        compute.use_user_catalogue(None)
+    w = MainWindow(pj.loads(pj.demo_path().read_text(encoding="utf-8")))
+    qtbot.addWidget(w)
+    w.doc.set_current(next(i for i, c in enumerate(w.doc.project.channels) if c.alternatives))
+    rows, _ = display.compare(w.doc.channel(), w.doc.context)
+    concrete = next(r for r in rows if r.choice.key == "concrete")
+    assert concrete.cost_per_length is not None and concrete.cost_per_length > 0
+    w.doc.undo_stack.setClean()
 
 
 # -- a project that cannot be written: said, work kept (issue 18, item 1) -----------------------------------------
@@ -586,7 +585,7 @@ def test_comparison_applies_the_picked_lining_after_the_columns_are_reordered(de
     assert w.doc.channel().lining.key == picked.choice.key
     assert messages and picked.name in messages[-1]                        # and says so, by its own name
     assert view.rows[view.selected()].choice.key == picked.choice.key       # still picked after the refresh
-    assert view.copy_table().splitlines()[1].startswith(compute.comparison_label(picked, w.doc.units))  # order shown
+    assert view.copy_table().splitlines()[1].startswith(display.comparison_label(picked, w.doc.context))  # order shown
 
 
 @pytest.mark.parametrize("units, ratio_unit", [("us", "ft/ft"), ("si", "m/m")])
@@ -668,7 +667,7 @@ def test_lining_list_is_grouped_by_kind_with_sizes_in_the_project_units(demo_win
         if not selectable:
             current = text
         elif key:
-            kinds.setdefault(current, set()).add(compute.lining_entry(key).category)
+            kinds.setdefault(current, set()).add(w.doc.context.catalogue.get(key).category)
     assert all(len(v) == 1 for v in kinds.values())
     names = [t.strip() for t, key, sel in entries if sel and key]
     assert len(names) == len({n.casefold() for n in names})    # no two alike
@@ -707,13 +706,11 @@ rule = "fixed"
 value = 0.05
 source = "Invented for this test"
 ''', encoding="utf-8")
-    assert compute.use_user_catalogue(user) == ""
-    try:
-        labels = [label for _, items in compute.lining_groups(hy.units.system("si")) for _, label in items]
-        assert len(labels) == len({x.casefold() for x in labels})
-        assert "Asphalt, rough" in labels and "Asphalt, rough [my_asphalt]" in labels
-    finally:
-        compute.use_user_catalogue(None)
+    context = Context.load(user, units="si")
+    assert context.catalogue_problem == ""
+    labels = [label for _, items in display.lining_groups(context) for _, label in items]
+    assert len(labels) == len({x.casefold() for x in labels})
+    assert "Asphalt, rough" in labels and "Asphalt, rough [my_asphalt]" in labels
 
 
 def test_results_show_the_lining_facts_the_sheet_gives(demo_window):

@@ -19,7 +19,6 @@ from pypdf import PdfReader
 
 from app import project as P
 from app.evaluate import evaluate_channel, load_default_catalogue
-from app.gui import compute
 from app.gui.mainwindow import MainWindow
 from app.main import main
 from app.sheet import export_sheets
@@ -62,18 +61,15 @@ def test_every_front_end_shows_one_answer(name, units, user_catalogue, tmp_path,
     # the window, with the user's catalogue (from its settings) laid over the shipped one
     from app.gui import settings
     monkeypatch.setattr(settings, "user_catalogue_path", lambda: user_catalogue)
-    try:
-        w = MainWindow(copy.deepcopy(project))
-        qtbot.addWidget(w)
-        w.show()
-        qtbot.waitExposed(w)
-        w.channel_list.setCurrentRow([c.name for c in w.doc.project.channels].index(name))
-        qtbot.waitUntil(lambda: w.results.values["cost_per_length"].text() != "\u2014")
-        shown = {k: w.results.values[k].text() for k in ("normal_depth", "velocity", "cost_per_length")}
-        assert w.results.headline.text() == verdict.words
-        w.doc.undo_stack.setClean()
-    finally:
-        compute.use_user_catalogue(None)
+    w = MainWindow(copy.deepcopy(project))
+    qtbot.addWidget(w)
+    w.show()
+    qtbot.waitExposed(w)
+    w.channel_list.setCurrentRow([c.name for c in w.doc.project.channels].index(name))
+    qtbot.waitUntil(lambda: w.results.values["cost_per_length"].text() != "\u2014")
+    shown = {k: w.results.values[k].text() for k in ("normal_depth", "velocity", "cost_per_length")}
+    assert w.results.headline.text() == verdict.words
+    w.doc.undo_stack.setClean()
     _close(shown["normal_depth"].split()[0], y)
     _close(shown["velocity"].split()[0], v)
     _close(shown["cost_per_length"].split()[0].replace(",", ""), cost)

@@ -10,7 +10,7 @@ from pathlib import Path
 
 from hydraulics.linings import CatalogueError, load_catalogue
 
-from .. import batch as ab
+from .. import inventory as ai
 from .common import CliError
 
 HELP = "check every reach of a ditch inventory (CSV) and write one result row per reach"
@@ -20,9 +20,9 @@ PROGRESS_FROM = 20_000
 MAX_LISTED = 50
 
 EPILOG = f"""\
-columns: {', '.join(ab.INPUT_COLUMNS)} (all in the header, blank where not relevant; other columns are
+columns: {', '.join(ai.INPUT_COLUMNS)} (all in the header, blank where not relevant; other columns are
 carried through). Lengths in ft or m, flow in ft^3/s or m^3/s, side slopes H:V, slope as a ratio.
-Results add: {', '.join(ab.RESULT_COLUMNS)}, in the same units.
+Results add: {', '.join(ai.RESULT_COLUMNS)}, in the same units.
 exit status: 0 every row was checked; 1 results written but some rows are invalid (listed on stderr,
 reason in the file); 2 the file or an option cannot be used (nothing written)."""
 
@@ -56,8 +56,8 @@ def run(args) -> int:
     source, target = Path(args.inventory), Path(args.output)
     if _same_file(source, target):
         raise CliError(f"the results file {target} is the inventory itself; write the results elsewhere")
-    if args.plot is not None and Path(args.plot).suffix.lower() not in ab.PLOT_FORMATS:
-        raise CliError(f"--plot {args.plot}: the name must end in {', '.join(ab.PLOT_FORMATS)}")
+    if args.plot is not None and Path(args.plot).suffix.lower() not in ai.PLOT_FORMATS:
+        raise CliError(f"--plot {args.plot}: the name must end in {', '.join(ai.PLOT_FORMATS)}")
     if args.plot is not None and not Path(args.plot).resolve().parent.is_dir():
         raise CliError(f"--plot {args.plot}: no such folder: {Path(args.plot).resolve().parent}")
     catalogue = None
@@ -68,31 +68,55 @@ def run(args) -> int:
             raise CliError(f"--user-catalogue {args.user_catalogue}: {exc}") from None
     start = time.perf_counter()
     try:
-        inventory = ab.read_inventory(source, args.units)
-    except ab.InventoryError as exc:
+        inventory = ai.read_inventory(source, args.units)
+    except ai.InventoryError as exc:
         raise CliError(str(exc)) from None
     show = args.progress if args.progress is not None else (len(inventory) >= PROGRESS_FROM and sys.stderr.isatty())
-    bar = ab.ProgressBar("checking", enabled=show)
+    bar = ProgressBar("checking", enabled=show)
     try:
-        result = ab.check_and_write(target, inventory, progress=bar, catalogue=catalogue)
+        result = ai.check_and_write(target, inventory, progress=bar, catalogue=catalogue)
     except OSError as exc:
         raise CliError(f"cannot write {target}: {exc.strerror or exc}") from None
     finally:
         bar.close()
     elapsed = time.perf_counter() - start
-    problems = ab.problem_rows(inventory, result)
+    problems = ai.problem_rows(inventory, result)
     for line, ident, verdict, reason in problems[:MAX_LISTED]:
         name = f" (id {ident!r})" if ident else ""
         print(f"{inventory.source}:{line}{name}: {verdict}: {reason}", file=sys.stderr)
     if len(problems) > MAX_LISTED:
         print(f"... and {len(problems) - MAX_LISTED:,} more; every one has its reason in {target}", file=sys.stderr)
-    print(ab.summary(inventory, result, elapsed))
+    print(ai.summary(inventory, result, elapsed))
     print(f"  results: {target}")
     if args.plot is not None:
         try:
-            ab.plot_summary(result, args.plot, title=f"Ditch inventory {source.name}")
+            ai.plot_summary(result, args.plot, title=f"Ditch inventory {source.name}")
         except OSError as exc:
             raise CliError(f"--plot {args.plot}: cannot write the plot: {exc.strerror or exc} (the results were "
                            f"written to {target})") from None
         print(f"  plot: {args.plot}")
     return 1 if result.counts()["invalid"] else 0
+
+
+class ProgressBar:
+    """A one-line progress bar on a terminal stream; silent when the stream is not a terminal."""
+
+    def __init__(self, label: str, stream=None, enabled: bool | None = None, width: int = 30):
+        self.stream = stream if stream is not None else sys.stderr
+        self.enabled = self.stream.isatty() if enabled is None else enabled
+        self.label, self.width, self.shown = label, width, False
+
+    def __call__(self, done: int, total: int) -> None:
+        if not self.enabled or total <= 0:
+            return
+        filled = int(self.width * done / total)
+        self.stream.write(f"\r{self.label} [{'#' * filled}{'.' * (self.width - filled)}] "
+                          f"{100 * done / total:3.0f}% {done:,}/{total:,}")
+        self.stream.flush()
+        self.shown = True
+
+    def close(self) -> None:
+        if self.shown:
+            self.stream.write("\n")
+            self.stream.flush()
+            self.shown = False

@@ -1,10 +1,11 @@
-"""What the window shows for one channel, computed by the core. No Qt here.
+"""One channel as the window shows it: its evaluation, verdict, lining names, comparison and curves. No Qt here.
 
-The widgets never compute: they hand a :class:`app.project.Channel` to
-:func:`evaluate` and draw what comes back. The numbers come from the
-shared channel evaluation (:mod:`app.evaluate`: design flow, uniform flow,
-lining stability by HEC-15, freeboard) and the lining comparison of
-:mod:`hydraulics.stability`; this module only shapes them for the window.
+The window's widgets never compute: they hand a :class:`app.project.Channel`
+and the window's :class:`app.context.Context` (catalogue, units) to
+:func:`evaluate` and draw what comes back. The numbers come from the shared
+channel evaluation (:mod:`app.evaluate`: design flow, uniform flow, lining
+stability by HEC-15, freeboard) and the lining comparison of
+:mod:`hydraulics.stability`; this module only shapes them for display.
 """
 
 from __future__ import annotations
@@ -23,12 +24,13 @@ from hydraulics.stability import StabilityResult, compare_linings
 from hydraulics.units import UnitSystem
 from hydraulics.wording import in_units
 
-from ..files import spreadsheet_safe
-from ..evaluate import comparison_choices, design_flow, evaluate_channel, load_default_catalogue
-from ..project import Channel, LiningChoice
-from ..results import ResultField, format_value
-from ..verdicts import Verdict as Verdicts
-from ..verdicts import too_shallow_reason, verdict_of
+from .context import Context
+from .evaluate import comparison_choices, design_flow, evaluate_channel
+from .files import tsv_cell
+from .project import Channel, LiningChoice
+from .results import ResultField, format_value
+from .verdicts import Verdict as Verdicts
+from .verdicts import too_shallow_reason, verdict_of
 
 #: Core field names as the user reads them (for messages that name a field).
 FIELD_LABELS = {
@@ -93,40 +95,7 @@ def describe_error(exc: Exception) -> tuple[str, str | None]:
     raise exc
 
 
-# -- the lining catalogue ----------------------------------------------------------
-LININGS_AVAILABLE = True
-_catalogue = None
-_user_catalogue_path = None
-catalogue_problem = ""   # why the user's catalogue was not used, in words ("" when it was)
-
-
-def use_user_catalogue(path) -> str:
-    """Lay the user's catalogue file (TOML) over the shipped one; returns a complaint or ""."""
-    global _catalogue, _user_catalogue_path
-    _user_catalogue_path = path
-    _catalogue = None
-    catalogue()
-    return catalogue_problem
-
-
-def catalogue():
-    """The lining catalogue in use (shipped, with the user's file when it is readable)."""
-    global _catalogue, catalogue_problem
-    if _catalogue is None:
-        catalogue_problem = ""
-        try:
-            _catalogue = load_default_catalogue(_user_catalogue_path)
-        except hy.InputError as exc:
-            catalogue_problem = f"The user lining catalogue {_user_catalogue_path} was not used: {exc}"
-            _catalogue = load_default_catalogue(None)
-    return _catalogue
-
-
-def catalogue_choices() -> list[tuple[str, str]]:
-    """(key, name) of every lining the user can choose, in catalogue order."""
-    return [(lin.key, lin.name) for lin in catalogue()]
-
-
+# -- the linings of the catalogue, named for the window -------------------------------
 #: The kinds of lining, in the order the window lists them, with their headings.
 LINING_KINDS = (("rigid", "Rigid"), ("stone", "Stone"), ("vegetation", "Grass"),
                 ("manufactured", "Blankets and mats"), ("soil", "Bare soil"))
@@ -155,21 +124,21 @@ def stone_size_text(d50: float, units: UnitSystem) -> str:
     return format_value(d50, _STONE_SIZE, units)
 
 
-def comparison_label(row, units: UnitSystem) -> str:
+def comparison_label(row, context: Context) -> str:
     """A compared lining's name: as in the lining list, with the stone size the row was computed with."""
-    entry = lining_entry(row.choice.key)
+    entry = context.catalogue.get(row.choice.key)
     if entry is None:
         return row.name
-    return lining_label(entry, units, d50=row.choice.d50, name=row.name)
+    return lining_label(entry, context.units, d50=row.choice.d50, name=row.name)
 
 
-def lining_groups(units: UnitSystem, sizes: bool = True) -> list[tuple[str, list[tuple[str, str]]]]:
-    """The catalogue as (kind heading, [(key, label)]) groups in :data:`LINING_KINDS` order, every label
-    different from the others (a repeated one names its key)."""
+def lining_groups(context: Context, sizes: bool = True) -> list[tuple[str, list[tuple[str, str]]]]:
+    """The context's catalogue as (kind heading, [(key, label)]) groups in :data:`LINING_KINDS` order, named in
+    its units, every label different from the others (a repeated one names its key)."""
     seen: dict[str, int] = {}
     groups: dict[str, list] = {}
-    for lin in catalogue():
-        label = lining_label(lin, units, size=sizes)
+    for lin in context.catalogue:
+        label = lining_label(lin, context.units, size=sizes)
         if label.casefold() in seen:
             label += f" [{lin.key}]"
         seen[label.casefold()] = 1
@@ -179,18 +148,15 @@ def lining_groups(units: UnitSystem, sizes: bool = True) -> list[tuple[str, list
     return [(headings.get(k, k.capitalize()), groups[k]) for k in order if k in groups]
 
 
-def lining_entry(key: str):
-    return catalogue().get(key)
-
-
-def solver_roughness(channel: Channel):
-    """The n the solver uses for ``channel``: the lining's own roughness, else the channel's Manning's n.
+def solver_roughness(channel: Channel, catalogue):
+    """The n the solver uses for ``channel``: its lining's own roughness (from ``catalogue``), else the channel's
+    Manning's n.
 
     A surveyed section with neither uses its own n per segment (the section
     itself is the roughness model; :func:`hydraulics.solvers.resolve_roughness`).
     """
     if channel.lining is not None:
-        entry = catalogue().get(channel.lining.key)
+        entry = catalogue.get(channel.lining.key)
         return entry.roughness(channel.lining.d50 if entry.category == "stone" else None)
     if channel.manning_n is not None:
         return channel.manning_n
@@ -231,7 +197,7 @@ class ComparisonRow:
     cost_per_length: float | None = None   # [currency/m], from the user's unit costs
 
 
-def compare(channel: Channel, units: UnitSystem) -> tuple[list[ComparisonRow], str]:
+def compare(channel: Channel, context: Context) -> tuple[list[ComparisonRow], str]:
     """One row per lining for the same channel and flow, and a reason when there can be none."""
     choices = comparison_choices(channel)
     if not choices:
@@ -239,7 +205,7 @@ def compare(channel: Channel, units: UnitSystem) -> tuple[list[ComparisonRow], s
     try:
         q, _tc, _w, _n = design_flow(channel)
         section = channel.build_section()
-        rows = compare_linings(section, q, channel.slope, choices, catalogue(), bend_radius=channel.bend_radius,
+        rows = compare_linings(section, q, channel.slope, choices, context.catalogue, bend_radius=channel.bend_radius,
                                min_freeboard=channel.min_freeboard)
     except (hy.InputError, hy.NoSolutionError) as exc:
         return [], describe_error(exc)[0]
@@ -252,7 +218,7 @@ def compare(channel: Channel, units: UnitSystem) -> tuple[list[ComparisonRow], s
             ev.superelevation, ev.top_width_at_top = st.superelevation, st.top_width_at_top
             ev.lining = st
             ev.warnings = list(st.warnings)
-            ev.verdict = _verdict(ev, units)
+            ev.verdict = _verdict(ev, context.units)
         else:
             ev.error = row.reason
             ev.verdict = Verdict("none", "No solution", row.reason)
@@ -286,8 +252,9 @@ _DIGITS = {"Depth": 3, "Velocity": 2, "Froude": 2, "n": 4, "Design shear": 1, "P
            "Safety factor": 2, "Cost": 2, "Total depth": 3, "Lined width": 2, "Layer volume": 3}
 
 
-def comparison_table(rows, units: UnitSystem) -> tuple[list[str], list[list[str]]]:
-    """Headings with units, and the cells as text in the user's units."""
+def comparison_table(rows, context: Context) -> tuple[list[str], list[list[str]]]:
+    """Headings with units, and the cells as text in the context's units."""
+    units = context.units
     heads = [h + (f" [{units.label(q)}]" if q else "") for h, q, _ in COMPARISON_COLUMNS]
     body = []
     for r in rows:
@@ -295,7 +262,7 @@ def comparison_table(rows, units: UnitSystem) -> tuple[list[str], list[list[str]
         for head, q, get in COMPARISON_COLUMNS:
             v = get(r)
             if head == "Lining":
-                v = comparison_label(r, units)
+                v = comparison_label(r, context)
             if head == "Permissible shear" and v is None and r.core is not None and r.core.verdict == "non-erodible":
                 v = "non-erodible"
             if v is None:
@@ -309,15 +276,10 @@ def comparison_table(rows, units: UnitSystem) -> tuple[list[str], list[list[str]
     return heads, body
 
 
-def comparison_tsv(rows, units: UnitSystem) -> str:
+def comparison_tsv(rows, context: Context) -> str:
     """The comparison as tab-separated text, for pasting into a spreadsheet."""
-    heads, body = comparison_table(rows, units)
+    heads, body = comparison_table(rows, context)
     return "\n".join("\t".join(tsv_cell(c) for c in line) for line in [heads, *body]) + "\n"
-
-
-def tsv_cell(text: str) -> str:
-    """A cell of tab-separated text for a spreadsheet: no tab or line break inside, and never run as a formula."""
-    return " ".join(spreadsheet_safe(text).replace("\t", " ").splitlines())
 
 
 def with_lining(channel: Channel, choice: LiningChoice) -> Channel:
@@ -328,8 +290,9 @@ def with_lining(channel: Channel, choice: LiningChoice) -> Channel:
 
 
 # -- the evaluation ------------------------------------------------------------
-def evaluate(channel: Channel, units: UnitSystem) -> Evaluation:
-    """Flow, normal and critical depth, the lining check and a verdict; never raises for bad input.
+def evaluate(channel: Channel, context: Context) -> Evaluation:
+    """Flow, normal and critical depth, the lining check and a verdict in the context's units, with its
+    catalogue; never raises for bad input.
 
     Everything goes through the shared evaluation :func:`app.evaluate.evaluate_channel`
     (the same numbers as the command line and the design sheet). The
@@ -337,7 +300,7 @@ def evaluate(channel: Channel, units: UnitSystem) -> Evaluation:
     """
     ev = Evaluation()
     try:
-        design = evaluate_channel(_for_facade(channel), catalogue())
+        design = evaluate_channel(_for_facade(channel), context.catalogue)
     except (hy.InputError, hy.NoSolutionError) as exc:
         ev.error, ev.error_field = describe_error(exc)
         ev.verdict = Verdict("none", "No result", ev.error)
@@ -354,8 +317,8 @@ def evaluate(channel: Channel, units: UnitSystem) -> Evaluation:
     ev.not_verified = design.not_verified
     ev.design = design
     ev.lining = design.stability
-    ev.roughness = solver_roughness(channel)
-    ev.verdict = _verdict(ev, units)
+    ev.roughness = solver_roughness(channel, context.catalogue)
+    ev.verdict = _verdict(ev, context.units)
     return ev
 
 

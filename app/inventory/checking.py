@@ -1,0 +1,133 @@
+"""Checking an inventory: its reaches through the vectorised core, and the checked inventory the window shows.
+
+The computation is :func:`hydraulics.many_reaches.evaluate` (vectorised, SI; the
+reasons quote the inventory's units). :func:`check_and_write` runs it chunk
+by chunk and has each chunk written while the next is checked.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass
+
+import numpy as np
+
+from hydraulics import many_reaches as mr
+
+from . import writing
+from .reading import INPUT_COLUMNS, Inventory, csv_fields, read_inventory
+from .reporting import problem_rows, summary
+from .writing import result_table
+
+
+def evaluate(inventory: Inventory, progress=None, catalogue=None) -> mr.BatchResult:
+    """Check every reach of ``inventory`` (results SI; reasons quote the inventory's units).
+
+    ``catalogue`` is the lining catalogue the ``lining`` column refers to
+    (default: the shipped one; see hydraulics.linings.load_catalogue for a
+    user catalogue on top of it).
+    """
+    return mr.evaluate(inventory.reaches, display=inventory.units, progress=progress, catalogue=catalogue)
+
+
+#: Reaches per chunk in :func:`check_and_write`: small enough that formatting overlaps computing.
+WRITE_CHUNK = 25_000
+
+
+def check_and_write(path, inventory: Inventory, progress=None, catalogue=None) -> mr.BatchResult:
+    """:func:`evaluate`, then :func:`app.inventory.writing.write_results` to ``path``; returns the results.
+
+    On a machine with two cores or more, the reaches are checked in chunks
+    of :data:`WRITE_CHUNK`, and a worker thread formats each chunk's numbers,
+    assembles its lines and writes them to the temporary file while this
+    thread checks the next chunk (the checking holds Python's GIL much of
+    the time, the formatting, joining and writing hardly at all; see
+    :func:`app.inventory.writing.write_while_checking`). The file replaces
+    ``path`` only when every chunk is written, and it is the same byte for
+    byte either way.
+    """
+    if not writing.can_write_while_checking(inventory, WRITE_CHUNK):
+        result = evaluate(inventory, progress, catalogue)
+        writing.write_results(path, inventory, result)
+        return result
+    return writing.write_while_checking(
+        path, inventory, lambda on_chunk: mr.evaluate(inventory.reaches, display=inventory.units, progress=progress,
+                                                      chunk=WRITE_CHUNK, catalogue=catalogue, on_chunk=on_chunk))
+
+
+@dataclass
+class BatchRun:
+    """An inventory with its results, for the desktop window."""
+
+    inventory: Inventory
+    result: mr.BatchResult
+
+    def table(self):
+        """(columns, rows) of text; see :func:`result_table`."""
+        return result_table(self.inventory, self.result)
+
+    def problems(self):
+        return problem_rows(self.inventory, self.result)
+
+    def summary(self) -> str:
+        return summary(self.inventory, self.result)
+
+    def select(self, verdicts=None, warnings=None, text: str = "") -> np.ndarray:
+        """Row indices for a filtered view: any of ``verdicts`` (None: all), carrying any of
+        ``warnings`` (keys of hydraulics.many_reaches.WARNINGS; None: no condition), and ``text``
+        found (case-insensitively) in the row's id or reason."""
+        keep = np.ones(len(self.inventory), dtype=bool)
+        if verdicts is not None:
+            keep &= np.isin(self.result.verdict.astype(str), list(verdicts))
+        if warnings is not None:
+            flagged = np.zeros(len(keep), dtype=bool)
+            for key in warnings:
+                flagged |= self.result.flags[key]
+            keep &= flagged
+        if text:
+            needle = text.lower()
+            keep &= np.array([needle in i.lower() or needle in r.lower()
+                              for i, r in zip(self.inventory.ids, self.result.reason.tolist())], dtype=bool)
+        return np.flatnonzero(keep)
+
+    def to_channels(self, rows=None):
+        """Project channels (app.project.Channel, SI) for the reaches ``rows`` (default: all).
+
+        Returns (channels, skipped): a reach whose row is invalid is not turned
+        into a channel but listed in ``skipped`` as (line, id, reason). The
+        other columns of the row go into the channel's notes.
+        """
+        from ..project import Channel, FlowBasis, LiningChoice
+
+        inv, res, r = self.inventory, self.result, self.inventory.reaches
+        rows = range(len(inv)) if rows is None else [int(i) for i in rows]
+        extra = [(j, name) for j, name in enumerate(inv.header) if name not in INPUT_COLUMNS]
+        channels, skipped = [], []
+        value = lambda a, i: None if math.isnan(a[i]) else float(a[i])  # noqa: E731
+        for i in rows:
+            if res.verdict[i] == "invalid":
+                skipped.append((int(inv.lines[i]), inv.id_at(i), res.reason[i]))
+                continue
+            kind = r.shape[i]
+            section = {"shape": kind}
+            for name in {"trapezoid": ("bottom_width", "left_slope", "right_slope"),
+                         "triangle": ("left_slope", "right_slope"), "rectangle": ("bottom_width",),
+                         "circle": ("diameter",)}[kind]:
+                section[name] = value(getattr(r, name), i)
+            lining = LiningChoice(r.lining[i], value(r.d50, i) or None) if r.lining[i] else None
+            fields = csv_fields(inv.rows[i]) if extra else []
+            notes = "; ".join(f"{name}: {fields[j]}" for j, name in extra if j < len(fields) and fields[j])
+            channels.append(Channel(name=inv.id_at(i) or f"line {inv.lines[i]}",
+                                    flow=FlowBasis("typed", float(r.flow[i])), slope=float(r.slope[i]),
+                                    section=section, lining=lining,
+                                    manning_n=value(r.n, i), notes=notes))
+        return channels, skipped
+
+
+def run_inventory(path, units: str = "us", progress=None, catalogue=None) -> BatchRun:
+    """Read and check the inventory at ``path``; ``progress(done, total)`` is called as it goes.
+
+    Raises InventoryError (whole file unreadable) or InputError (unknown units).
+    """
+    inventory = read_inventory(path, units)
+    return BatchRun(inventory, evaluate(inventory, progress, catalogue))

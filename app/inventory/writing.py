@@ -1,0 +1,258 @@
+"""Writing the results of an inventory: the input rows with the result columns added, UTF-8.
+
+Every input row is carried through as written, except that a cell a
+spreadsheet would run as a formula gets a leading apostrophe
+(:func:`app.files.spreadsheet_safe`). Numbers are in the inventory's units
+with :data:`DIGITS` significant digits. Files are replaced atomically: a
+half-written file never replaces a good one. With pyarrow the lines are
+joined in C++ from the file's own bytes; without it, in Python: the same
+bytes either way.
+"""
+
+from __future__ import annotations
+
+import csv
+import io
+import os
+from concurrent.futures import ThreadPoolExecutor
+from contextlib import nullcontext
+from itertools import repeat
+
+import numpy as np
+
+from hydraulics import many_reaches as mr
+
+from ..files import FORMULA_STARTS, atomic_writer, spreadsheet_safe, write_atomic
+from ..numtext import format_rows, format_rows_parallel
+from . import reading
+from .reading import RESULT_COLUMNS, Inventory, Records, csv_fields, csv_line
+
+#: Significant digits of the numbers written (more than any inventory's inputs carry).
+DIGITS = 5
+_VALUE_COLUMNS = tuple(mr.RESULT_FIELDS)  # the numeric result columns, in output order
+
+
+def _quote_field(text: str) -> str:
+    if "," in text or '"' in text or "\n" in text or "\r" in text:
+        return '"' + text.replace('"', '""') + '"'
+    return text
+
+
+def display_values(inventory: Inventory, result: mr.BatchResult) -> dict:
+    """The numeric result columns in the inventory's units (nan where blank)."""
+    return {k: inventory.units.from_si(q, getattr(result, k)) if q not in ("ratio",) else getattr(result, k)
+            for k, q in mr.RESULT_FIELDS.items()}
+
+
+def format_results(inventory: Inventory, result: mr.BatchResult) -> str:
+    """The results file as text: the input rows with the result columns added.
+
+    Numbers are written as Python's ``"%.5g"`` writes them (:data:`DIGITS`
+    significant digits; :func:`app.numtext.format_rows` does it on whole
+    arrays); a value not computed is an empty field. The reason is quoted
+    where it holds a comma, a quote or a line break.
+    """
+    return _results_bytes(inventory, result).decode("utf-8")
+
+
+def _results_bytes(inventory: Inventory, result: mr.BatchResult) -> bytes:
+    """The results file, UTF-8: each row is its input text, the numbers, the verdict and the reason."""
+    return b"".join(_results_pieces(inventory, result))
+
+
+def _number_table(inventory: Inventory, result: mr.BatchResult) -> np.ndarray:
+    """The numeric result columns in the inventory's units, one row per reach of ``result``."""
+    values = display_values(inventory, result)
+    return np.column_stack([values[k] for k in _VALUE_COLUMNS]) if len(result) else np.zeros((0, len(_VALUE_COLUMNS)))
+
+
+def _workers() -> int:
+    return min(2, os.cpu_count() or 1)
+
+
+def _results_pieces(inventory: Inventory, result: mr.BatchResult) -> list:
+    """The results file as a few bytes-like pieces to be written one after the other (no copy joins them)."""
+    size = len(inventory)
+    head = _results_head(inventory)
+    # The numbers are formatted by worker threads (numpy work, without the GIL) while this thread makes
+    # the verdict and reason texts (Python work, with it): on two cores the two overlap.
+    workers = _workers()
+    with ThreadPoolExecutor(workers) if workers > 1 else nullcontext() as pool:
+        pending = format_rows_parallel(_number_table(inventory, result), DIGITS, comma_after_last=True, pool=pool,
+                                       parts=workers)
+        reasons = result.reason.tolist()
+        verdicts = result.verdict.tolist()
+        modules = reading.pyarrow_modules()
+        if modules is None or not size:
+            quoted = {r: _quote_field(spreadsheet_safe(r)) + "\n" for r in set(reasons)}
+            parts = [""] * (5 * size)
+            rows = written_rows(inventory)[0]
+            parts[0::5] = rows.tolist() if isinstance(rows, Records) else rows
+            parts[1::5] = repeat(",", size)
+            parts[3::5] = map({v: v + "," for v in set(verdicts)}.__getitem__, verdicts)
+            parts[4::5] = map(quoted.__getitem__, reasons)
+            parts[2::5] = pending.result().tolist()
+            return [head, "".join(parts).encode("utf-8")]
+        pa = modules[0]
+        rows = _row_array(pa, inventory)
+        verdict_texts, reason_texts = _verdict_texts(pa, verdicts), _reason_texts(pa, reasons)
+        numbers = pending.result()
+    return [head, _joined_lines(pa, rows, numbers, verdict_texts, reason_texts)]
+
+
+def _safe_record(row: str) -> tuple[str, int]:
+    """(the CSV record ``row`` with every formula-like cell given an apostrophe, how many were)."""
+    fields = csv_fields(row)
+    safe = [spreadsheet_safe(f) for f in fields]
+    changed = sum(a is not b for a, b in zip(safe, fields))
+    return (csv_line(safe), changed) if changed else (row, 0)
+
+
+_TRIGGER_BYTES = sorted(ord(c) for c in FORMULA_STARTS)
+
+
+def written_rows(inventory: Inventory) -> tuple:
+    """(records, header text, count) as a results file carries them: every input cell that a spreadsheet would
+    read as a formula (see :func:`app.files.spreadsheet_safe`) with a leading apostrophe; ``count`` cells were.
+
+    The usual file has none, and its records are returned as they are (the file's own bytes); only the rows with
+    a cell starting with one of the trigger characters are looked at one by one.
+    """
+    if inventory._written is not None:
+        return inventory._written
+    header, head_count = _safe_record(inventory.header_text)
+    records, count = inventory.records, head_count
+    if isinstance(records, Records):   # no quotes in the file: a cell starts a line or follows a comma
+        body = np.frombuffer(records.body, dtype=np.uint8)
+        hit = body == _TRIGGER_BYTES[0]
+        for byte in _TRIGGER_BYTES[1:]:   # six comparisons cost less than one table look-up per byte
+            hit |= body == byte
+        at = np.flatnonzero(hit)
+        if len(at):
+            before = body[np.maximum(at - 1, 0)]
+            at = at[(at == 0) | (before == ord(",")) | (before == ord("\n"))]
+        rows = np.unique(np.searchsorted(records.starts, at, side="right") - 1) if len(at) else ()
+        changes = {}
+        for i in rows.tolist() if len(rows) else ():
+            end = records.starts[i + 1] - 1 if i + 1 < len(records) else len(records.body) - 1
+            row, n = _safe_record(records.body[records.starts[i]:end].decode("utf-8"))
+            if n:
+                changes[i], count = row, count + n
+        if changes:
+            records = records.tolist()
+            for i, row in changes.items():
+                records[i] = row
+    else:
+        safe = []
+        for row in records:
+            if any(c in row for c in FORMULA_STARTS):
+                row, n = _safe_record(row)
+                count += n
+            safe.append(row)
+        records = safe
+    inventory._written = (records, header, count)
+    return inventory._written
+
+
+def _results_head(inventory: Inventory) -> bytes:
+    return (written_rows(inventory)[1] + "," + ",".join(RESULT_COLUMNS) + "\n").encode("utf-8")
+
+
+def _row_array(pa, inventory: Inventory):
+    """Every input row's text followed by a comma, as a pyarrow large_string array (64-bit offsets: no 2 GB limit)."""
+    records, size = written_rows(inventory)[0], len(inventory)
+    if isinstance(records, Records):  # the file's own bytes; each line end becomes the comma after the row
+        return pa.LargeStringArray.from_buffers(
+            size, pa.py_buffer(np.append(records.starts, len(records.body)).astype(np.int64)),
+            pa.py_buffer(records.body.replace(b"\n", b",")))
+    import pyarrow.compute as pc
+
+    text = pa.large_string()
+    return pc.binary_join_element_wise(pa.array(records, type=text), pa.scalar("", type=text),
+                                       pa.scalar(",", type=text))
+
+
+def _joined_lines(pa, rows, numbers, verdict_texts, reason_texts) -> memoryview:
+    """The results lines ("row," "numbers," "verdict," "reason\\n") of some reaches, joined in C++, as bytes."""
+    import pyarrow.compute as pc
+
+    text = pa.large_string()
+    size = len(rows)
+    lines = pc.binary_join_element_wise(
+        rows, pa.LargeStringArray.from_buffers(size, pa.py_buffer(numbers.offsets()), pa.py_buffer(numbers.data)),
+        verdict_texts.cast(text), reason_texts.cast(text), pa.scalar("", type=text))
+    offsets = np.frombuffer(lines.buffers()[1], dtype=np.int64, count=size + 1, offset=8 * lines.offset)
+    return memoryview(lines.buffers()[2])[offsets[0]:offsets[-1]]
+
+
+def _verdict_texts(pa, verdicts: list):
+    return _coded(pa, verdicts, lambda v: v + ",")
+
+
+def _reason_texts(pa, reasons: list):
+    return _coded(pa, reasons, lambda r: _quote_field(spreadsheet_safe(r)) + "\n")
+
+
+def _coded(pa, values: list, text_of):
+    """A pyarrow dictionary array of ``text_of(v)`` for each of ``values``, each distinct text made once."""
+    distinct = list(dict.fromkeys(values))
+    code = {v: i for i, v in enumerate(distinct)}
+    indices = np.fromiter(map(code.__getitem__, values), dtype=np.int32, count=len(values))
+    texts = pa.array([text_of(v) for v in distinct], type=pa.large_string())
+    return pa.DictionaryArray.from_arrays(pa.array(indices), texts)
+
+
+def write_results(path, inventory: Inventory, result: mr.BatchResult) -> None:
+    """Write the results file atomically (a half-written file never replaces a good one), UTF-8."""
+    write_atomic(path, _results_pieces(inventory, result))
+
+
+def result_table(inventory: Inventory, result: mr.BatchResult):
+    """(columns, rows) for a table view: every input column then the result columns, all as text.
+
+    Numbers are in the inventory's units with :data:`DIGITS` significant
+    digits, blanks are "". ``result.verdict`` and ``result.flags`` give the
+    masks a filter needs.
+    """
+    text = format_results(inventory, result)
+    reader = csv.reader(io.StringIO(text, newline=""))
+    columns = next(reader)
+    return columns, list(reader)
+
+
+def can_write_while_checking(inventory: Inventory, chunk: int) -> bool:
+    """Whether :func:`write_while_checking` pays for ``inventory`` checked ``chunk`` reaches at a time: pyarrow
+    is installed, the machine has two cores or more, and there are two chunks at least."""
+    return reading.pyarrow_modules() is not None and _workers() >= 2 and len(inventory) >= 2 * chunk
+
+
+def write_while_checking(path, inventory: Inventory, check) -> mr.BatchResult:
+    """Write the results file of ``inventory`` to ``path`` while ``check(on_chunk)`` checks its reaches.
+
+    ``check`` calls ``on_chunk(part, done)`` for each slice ``part`` of the
+    reaches, in order, with their results ``done``, and returns the results
+    of all, which this returns. A worker thread formats each chunk's
+    numbers, assembles its lines and writes them to the temporary file
+    while ``check`` goes on with the next chunk. The file replaces ``path``
+    only when every chunk is written, and it is byte for byte the file of
+    :func:`write_results`. Needs pyarrow (see :func:`can_write_while_checking`).
+    """
+    pa = reading.pyarrow_modules()[0]
+    rows = _row_array(pa, inventory)
+    blocks = []
+    # The pool is left before the writer: every block is written (or has failed) before the file is replaced.
+    with atomic_writer(path) as fh, ThreadPoolExecutor(1) as pool:  # one worker: the blocks are written in order
+        fh.write(_results_head(inventory))
+
+        def write_block(rows, table, verdict_texts, reason_texts):
+            fh.write(_joined_lines(pa, rows, format_rows(table, DIGITS, True), verdict_texts, reason_texts))
+
+        def start_block(part, done):
+            blocks.append(pool.submit(write_block, rows.slice(part.start, part.stop - part.start),
+                                      _number_table(inventory, done), _verdict_texts(pa, done.verdict.tolist()),
+                                      _reason_texts(pa, done.reason.tolist())))
+
+        result = check(start_block)
+        for block in blocks:
+            block.result()  # a block's error (a full disk, say) is raised here, and the file is not replaced
+    return result
