@@ -1,0 +1,152 @@
+"""The drawing of a ditch run's profile, as one model that the window (matplotlib) and the sheet (PDF) both draw.
+
+Everything is already in the user's units and worded: the front ends only place lines, bands, markers and
+labels. Qt-free, no plotting library.
+
+    model = profile_model(design, units)
+    model.lines["invert"].x, model.lines["invert"].y
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass, field
+
+import numpy as np
+
+from hydraulics.units import UnitSystem
+from hydraulics.wording import format_station
+
+from .run_design import RunDesign
+
+__all__ = ["Polyline", "Band", "Marker", "GradeLabel", "ProfileModel", "profile_model", "station_step"]
+
+
+@dataclass(frozen=True)
+class Polyline:
+    """One line along the run: stations ``x`` and elevations ``y`` (user's units; NaN breaks the line)."""
+
+    label: str
+    x: np.ndarray
+    y: np.ndarray
+
+
+@dataclass(frozen=True)
+class Band:
+    """A station range with a label: a lining stretch (status "stretch") or a trouble spot ("not stable",
+    "too shallow", "not checked")."""
+
+    start: float
+    end: float
+    label: str
+    status: str
+
+
+@dataclass(frozen=True)
+class Marker:
+    """An inflow: where it enters (``start`` = ``end`` for one station, a range for a spread sub-area)."""
+
+    start: float
+    end: float
+    label: str
+
+
+@dataclass(frozen=True)
+class GradeLabel:
+    x: float          # the middle of the grade stretch
+    y: float          # its invert there
+    text: str         # "0.60 %"
+
+
+@dataclass
+class ProfileModel:
+    """The profile of one run in the user's units (``length_unit``), ready to draw."""
+
+    title: str
+    length_unit: str
+    first_station: float
+    last_station: float
+    lines: dict                                     # name -> Polyline: invert, ditch_top, water_surface, critical
+    stretches: list = field(default_factory=list)   # Band, status "stretch"
+    trouble: list = field(default_factory=list)     # Band, other statuses
+    inflows: list = field(default_factory=list)     # Marker
+    grades: list = field(default_factory=list)      # GradeLabel
+    ticks: list = field(default_factory=list)       # (station, "0+100.00")
+    outfall: tuple = ()                             # (station, invert, label)
+
+    def y_range(self) -> tuple[float, float]:
+        """The lowest and highest elevation drawn."""
+        ys = np.concatenate([ln.y[np.isfinite(ln.y)] for ln in self.lines.values()])
+        return float(ys.min()), float(ys.max())
+
+
+def station_step(length: float, units: UnitSystem, ticks: int = 8) -> float:
+    """A round spacing of station ticks [user's length unit] giving about ``ticks`` ticks over ``length``: 1, 2 or
+    5 times a power of ten, at least 10 (common practice for profile grids)."""
+    raw = max(length / max(ticks, 1), 1e-9)
+    power = 10 ** math.floor(math.log10(raw))
+    for m in (1, 2, 5, 10):
+        if m * power >= raw:
+            return max(m * power, 10.0)
+    return max(10 * power, 10.0)
+
+
+def profile_model(design: RunDesign, units: UnitSystem) -> ProfileModel:
+    """The profile of ``design`` (an app.run_design.RunDesign) in ``units``."""
+    res = design.result
+    L = lambda v: np.asarray(units.from_si("length", np.asarray(v, dtype=float)), dtype=float)  # noqa: E731
+    pts = res.points
+    stations = L([p.station for p in pts])
+    invert = L([p.invert for p in pts])
+    top = L([p.invert + p.ditch_depth for p in pts])
+    water = L([np.nan if (p.result is None or p.not_checked) else p.invert + p.result.depth for p in pts])
+    crit = L([np.nan if (p.flow <= 0 or p.not_checked) else p.invert + p.critical_depth for p in pts])
+    order = np.argsort(stations)
+    lines = {name: Polyline(label, stations[order], y[order]) for name, label, y in (
+        ("ditch_top", "Top of ditch", top), ("invert", "Invert", invert),
+        ("water_surface", "Water surface (normal depth)", water), ("critical", "Critical depth", crit))}
+    model = ProfileModel(title=design.run.name, length_unit=units.label("length"),
+                         first_station=float(L(res.layout.first_station)), last_station=float(L(res.layout.last_station)),
+                         lines=lines)
+    for q in res.quantities:
+        a, b = sorted((float(L(q.start)), float(L(q.end))))
+        model.stretches.append(Band(a, b, q.lining_name, "stretch"))
+    for status, flag in (("not stable", lambda p: p.failing), ("too shallow", lambda p: p.fits is False),
+                         ("not checked", lambda p: p.not_checked is not None and p.flow > 0)):
+        for a, b in _spans([flag(p) for p in pts], stations):
+            model.trouble.append(Band(a, b, status, status))
+    for sa in design.run.sub_areas:
+        a = float(L(sa.from_station))
+        b = a if sa.to_station is None else float(L(sa.to_station))
+        model.inflows.append(Marker(min(a, b), max(a, b), sa.name))
+    for pi in design.run.point_inflows:
+        s = float(L(pi.station))
+        model.inflows.append(Marker(s, s, pi.name))
+    lay = res.layout
+    for j, g in enumerate(lay.grades):
+        s0, s1 = lay.station_of([lay.profile_x[j], lay.profile_x[j + 1]])
+        mid = 0.5 * (s0 + s1)
+        model.grades.append(GradeLabel(float(L(mid)), float(L(np.interp(0.5 * (lay.profile_x[j] + lay.profile_x[j + 1]),
+                                                                       lay.profile_x, lay.profile_z))),
+                                       f"{100 * g:.2f} %"))
+    step = station_step(model.last_station - model.first_station, units)
+    k0 = math.ceil(model.first_station / step - 1e-9)
+    k1 = math.floor(model.last_station / step + 1e-9)
+    model.ticks = [(k * step, format_station(units.to_si("length", k * step), units)) for k in range(k0, k1 + 1)]
+    out = design.run.outfall
+    model.outfall = (float(L(out.station)), float(L(pts[-1].invert)), out.kind or "outfall")
+    return model
+
+
+def _spans(mask, stations) -> list:
+    """(from, to) station ranges, in the user's units, over which ``mask`` holds at consecutive points."""
+    out, start = [], None
+    for i, m in enumerate(mask):
+        if m and start is None:
+            start = i
+        if start is not None and (not m or i == len(mask) - 1):
+            end = i if m else i - 1
+            a, b = sorted((float(stations[start]), float(stations[end])))
+            out.append((a, b))
+            start = None
+    return out
