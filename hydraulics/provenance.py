@@ -60,7 +60,7 @@ READ_IN = {
                     "(plainwater.co, \"HEC-15: Permissible Shear Stress\")",
     "tr55-ch3": "TR-55 (1986) Chapter 3, its first page with Eqs. 3-1 and 3-2 (copy at "
                 "scribd.com/document/552108752/TR-55-Chapter-3)",
-    "tr55-ws3": "TR-55 (1986) Worksheet 3, Appendix D p. D-3, in scanned filled-in copies kept in Colorado state "
+    "tr55-ws3": "TR-55 (1986) Appendix D form 3, Appendix D p. D-3, in scanned filled-in copies kept in Colorado state "
                 "records (dnrweblink.state.co.us, e.g. CWCB doc 56927 p. 28 and DRMS doc 570419 p. 32)",
     "neh630-quoted": "NRCS NEH Part 630 Chapter 15 (2010), Eq. 15-9, Table 15-2 and the 100-ft sentences as quoted "
                      "word for word in an eng-tips.com thread (\"TR-55 Sheet Flow limit\", qid=325517)",
@@ -205,10 +205,10 @@ REGISTER: dict = _entries(
               "TR-55 (1986) Eqs. 3-1 and 3-2", ("tr55-ch3",)),
     Published("tr55_sheet_flow", "travel time of sheet flow (Manning's kinematic solution)",
               "Tt = 0.007 (n L)^0.8 / (P2^0.5 s^0.4), Tt in hr, L in ft, P2 (2-year 24-hour rainfall) in in, "
-              "s in ft/ft", "TR-55 (1986) Chapter 3 sheet-flow equation and Worksheet 3 line 6", ("tr55-ws3",),
-              "the equation read on the worksheet; its number in Chapter 3 (Eq. 3-3) was not read"),
+              "s in ft/ft", "TR-55 (1986) Chapter 3 sheet-flow equation and Appendix D form 3, line 6", ("tr55-ws3",),
+              "the equation read on the form; its number in Chapter 3 (Eq. 3-3) was not read"),
     Published("tr55_sheet_length", "longest sheet flow of TR-55 (1986)", "flow length, L (total L < 300 ft)",
-              "TR-55 (1986) Worksheet 3 line 3", ("tr55-ws3",)),
+              "TR-55 (1986) Appendix D form 3, line 3", ("tr55-ws3",)),
     Published("neh630_sheet_length", "later NRCS limits on sheet flow",
               "\"Typically, sheet flow occurs for no more than 100 feet before transitioning to shallow concentrated "
               "flow\"; McCuen-Spiess limit L = 100 S^0.5 / n (L in ft)", "NRCS NEH Part 630 Ch. 15 (2010), Eq. 15-9",

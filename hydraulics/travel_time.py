@@ -9,7 +9,7 @@ their sum (Eq. 3-2). The channel part is left to the ditch run, which knows
 its own velocity.
 
 Sheet flow (Manning's kinematic solution, Overton and Meadows 1976), as
-printed on TR-55 Worksheet 3, line 6 (Appendix D):
+printed on TR-55 Appendix D, form 3, line 6:
 
     Tt = 0.007 (n L)^0.8 / (P2^0.5 s^0.4)
 
@@ -17,7 +17,7 @@ with Tt in hours, n Manning's roughness for sheet flow (TR-55 Table 3-1), L
 the flow length in feet, P2 the 2-year 24-hour rainfall in inches and s the
 land slope in ft/ft. Here the arguments are SI ([m], [-], [m], [m/m]) and are
 converted exactly (1 ft = 0.3048 m, 1 in = 0.0254 m) into that form; the
-result is in seconds. Worksheet 3 limits the length: "Flow length, L (total
+result is in seconds. The form limits the length: "Flow length, L (total
 L < 300 ft)". Later NRCS guidance, the *National Engineering Handbook* Part
 630, Chapter 15 (2010), says "Typically, sheet flow occurs for no more than
 100 feet before transitioning to shallow concentrated flow (Merkel 2001)" and
@@ -61,7 +61,7 @@ __all__ = ["SHEET_FLOW_MAX_LENGTH", "SHEET_FLOW_USUAL_LENGTH", "SHALLOW_FLOW_COE
            "sheet_flow_time", "sheet_flow_warnings", "sheet_flow_length_limit", "shallow_concentrated_velocity",
            "shallow_concentrated_time"]
 
-#: TR-55 (1986) Worksheet 3: "total L < 300 ft" [m] (provenance: ``tr55_sheet_length``).
+#: TR-55 (1986) Appendix D form 3: "total L < 300 ft" [m] (provenance: ``tr55_sheet_length``).
 SHEET_FLOW_MAX_LENGTH = 300 * FOOT
 #: NEH Part 630 Ch. 15 (2010): sheet flow "typically ... no more than 100 feet" [m] (``neh630_sheet_length``).
 SHEET_FLOW_USUAL_LENGTH = 100 * FOOT
@@ -83,7 +83,7 @@ def sheet_flow_time(length, roughness, rain_2yr_24h, slope):
     """Travel time of sheet flow [s] by TR-55's simplified Manning kinematic solution.
 
     Tt = 0.007 (n L)^0.8 / (P2^0.5 s^0.4) hours with L in ft and P2 in inches
-    (TR-55, 1986, Chapter 3; Worksheet 3 line 6), the arguments converted
+    (TR-55, 1986, Chapter 3; Appendix D form 3, line 6), the arguments converted
     exactly from SI.
 
     Parameters
@@ -106,7 +106,7 @@ def sheet_flow_time(length, roughness, rain_2yr_24h, slope):
     -----
     TR-55 bases the equation on shallow steady uniform flow, constant rainfall
     excess, a 24-hour rainfall and a minor effect of infiltration. The length
-    limits (300 ft on Worksheet 3, about 100 ft in NEH Part 630 Ch. 15) are
+    limits (300 ft on the form of Appendix D, about 100 ft in NEH Part 630 Ch. 15) are
     worded by :func:`sheet_flow_warnings`, not enforced.
     """
     length_ft = validate.positive("length", length) / FOOT
@@ -135,7 +135,7 @@ def sheet_flow_length_limit(slope, roughness):
 def sheet_flow_warnings(length, roughness=None, slope=None) -> list:
     """Cautions on the length of a sheet-flow segment [m], in words (SI; see :mod:`hydraulics.wording`).
 
-    * beyond 300 ft (91.4 m), TR-55 Worksheet 3's limit: the segment should be
+    * beyond 300 ft (91.4 m), TR-55 Appendix D form 3's limit: the segment should be
       split, the rest being shallow concentrated flow;
     * beyond 100 ft (30.5 m), where NEH Part 630 Ch. 15 (2010) says sheet flow
       typically ends;

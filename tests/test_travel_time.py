@@ -2,14 +2,14 @@
 
 Sources named beside each check:
 * the sheet-flow equation Tt = 0.007 (n L)^0.8 / (P2^0.5 s^0.4) (hours, ft, in) and its limit "total L < 300 ft":
-  TR-55, 2nd ed., June 1986, Worksheet 3 (Appendix D, p. D-3), lines 3 and 6, read in scanned copies;
+  TR-55, 2nd ed., June 1986, Appendix D form 3 (p. D-3), lines 3 and 6, read in scanned copies;
 * Tt = L / (3600 V): TR-55 (1986) Eq. 3-1;
 * the 100-ft sentence, McCuen and Spiess's limit L = 100 S^0.5 / n and its Table 15-2: NRCS National Engineering
   Handbook Part 630, Chapter 15 (2010), Eq. 15-9 and Table 15-2, as quoted in a public forum thread;
 * shallow concentrated flow: the velocity-slope coefficients k = 0.491 (unpaved) and 0.619 m/s (paved area) of
   V = Ku k Sp^0.5 (Ku = 1.0 in SI, Sp in percent), City of San Luis Obispo, SLO Creek Drainage Design Manual,
   February 2003, Equation 3 and Table 4-2, page 26.
-Not found in the stored copies searched, hence not tested here: TR-55 Example 3-1 with its Worksheet 3, the TR-55
+Not found in the stored copies searched, hence not tested here: TR-55 Example 3-1 with its Appendix D form, the TR-55
 Table 3-1 roughness values, the Appendix F equations of Figure 3-1 themselves (16.1345 and 20.3282 are marked not
 verified), and HEC-22's restatement of these relations with its examples.
 """
@@ -33,8 +33,8 @@ from hydraulics.units import FOOT, INCH, US
     (50.0, 0.35, 4.2, 0.08),
     (150.0, 0.6, 3.0, 0.2),
 ])
-def test_sheet_flow_in_si_is_the_worksheet_equation_in_feet_and_inches(length_ft, n, p2_in, s):
-    # TR-55 (1986) Worksheet 3, line 6: Tt = 0.007 (nL)^0.8 / (P2^0.5 s^0.4) hours, L in ft, P2 in inches.
+def test_sheet_flow_in_si_is_the_appendix_d_equation_in_feet_and_inches(length_ft, n, p2_in, s):
+    # TR-55 (1986) Appendix D form 3, line 6: Tt = 0.007 (nL)^0.8 / (P2^0.5 s^0.4) hours, L in ft, P2 in inches.
     hours = 0.007 * (n * length_ft) ** 0.8 / (p2_in ** 0.5 * s ** 0.4)
     seconds = sheet_flow_time(length_ft * 0.3048, n, p2_in * 0.0254, s)
     assert seconds == pytest.approx(hours * 3600.0, rel=1e-12)
@@ -72,7 +72,7 @@ def test_sheet_flow_refuses_bad_input_naming_the_field(args, field):
 
 
 def test_the_sheet_flow_limits_are_those_read():
-    # TR-55 (1986) Worksheet 3 line 3: "total L < 300 ft"; NEH 630 Ch. 15: "no more than 100 feet".
+    # TR-55 (1986) Appendix D form 3, line 3: "total L < 300 ft"; NEH 630 Ch. 15: "no more than 100 feet".
     assert SHEET_FLOW_MAX_LENGTH == pytest.approx(300 * 0.3048, rel=1e-15)
     assert SHEET_FLOW_USUAL_LENGTH == pytest.approx(100 * 0.3048, rel=1e-15)
 
