@@ -76,7 +76,7 @@ def _coefficient(sa, field: str) -> tuple[float, str]:
                                                                total=(total, "drainage_area"),
                                                                area=(sa.area, "drainage_area")))
         c = sum(lc.area * lc.runoff_coefficient for lc in sa.land_covers) / total
-        return c, f"weighted by area over {len(sa.land_covers)} land covers (HEC-22, 3rd ed., Section 3.2)"
+        return c, f"weighted by area over {len(sa.land_covers)} land covers ({provenance.cite('composite_c')})"
     if sa.runoff_coefficient is None:
         raise hy.InputError(f"{field}.runoff_coefficient", "is missing: give C (0 to 1) or the land covers")
     return float(sa.runoff_coefficient), "typed"
@@ -186,7 +186,7 @@ class RunDesign:
     def not_verified(self) -> list:
         """Published values this run leans on that are not yet verified against their publication (one line
         each), from :mod:`hydraulics.provenance`."""
-        texts = [*self.warnings, *self.notes]
+        texts = [*self.warnings, *self.notes, *(t for b in self.bases for t in (b.coefficient_method, b.time_method))]
         for p in self.result.points:
             for r in p.checks:
                 if r is not None:

@@ -52,6 +52,10 @@ TRAVEL_TOLERANCE = 1e-3
 MAX_TRAVEL_ITERATIONS = 100
 
 RUN_RULES = (
+    f"design flow at each point by the rational method, Q = C i A (HEC-22 Eq. 3-1) with i at the longest time to "
+    f"the point ({cite('collecting_tc')}); where a part of the area that arrives sooner gives more, that flow "
+    f"({cite('partial_area')}); units converted exactly (1 ac x 1 in/h = 1.008 ft^3/s, so US flows are 0.8 % above "
+    "the customary Q = C i A; in SI Q = C i A / 360 with i in mm/h and A in ha)",
     "travel time down the ditch: at each point the fastest candidate lining's uniform-flow velocity (so the flow "
     "is not underestimated); on a zero or adverse grade the velocity at critical depth (the program's rule)",
     "water depth = normal depth with the scheduled lining; backwater from the outfall and drawdown are not computed",

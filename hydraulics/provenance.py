@@ -67,6 +67,8 @@ READ_IN = {
     "txdot-hdm": "TxDOT Hydraulic Design Manual, Chapter 4, Sections 11 and 12 (txdot.gov/manuals/des/hyd/"
                  "chapter-4--hydrology/...)",
     "campos-2020": "Campos et al. (2020), Water 12(10): 2730, abstract (mdpi.com/2073-4441/12/10/2730)",
+    "ponce-4-2": "V. M. Ponce, Engineering Hydrology (1989), online edition, Chapter 4, Table 4-2 and its key "
+                 "(facets.sdsu.edu/enghydro/engineering_hydrology_04_table_4_2_expand.html)",
 }
 
 
@@ -190,6 +192,16 @@ REGISTER: dict = _entries(
               "n = (sum P_i n_i^1.5 / P)^(2/3)", "Chow (1959) Section 6-6"),
     Published("supercritical_bend", "supercritical flow in bends", "cross waves; superelevation about twice "
               "the subcritical value", "Chow (1959) Chapter 15"),
+    # ---------------------------------------------------------------- flow along a run (hydraulics.run_inflow)
+    Published("collecting_tc", "time of concentration at a point of a channel that collects several areas",
+              "the longest of the times to the point: each area's inlet time plus its flow time down the channel",
+              "Ponce (1989) Engineering Hydrology, Table 4-2 and its key; HEC-22 Section 3.2", ("ponce-4-2",),
+              "read in Ponce's key and worked table; HEC-22's own wording was not found in a stored copy"),
+    Published("partial_area", "partial-area effect", "if the critical rainfall duration is shorter than the time "
+              "of concentration, the partial-area effect occurs (a part of the area gives the larger peak)",
+              "Campos et al. (2020), Water 12(10): 2730", ("campos-2020",)),
+    Published("composite_c", "runoff coefficient of an area of several land covers",
+              "C = sum(C_j A_j) / sum(A_j), weighted by area", "HEC-22 Section 3.2"),
     # ---------------------------------------------------------------- rainfall (hydraulics.rainfall)
     Published("idf_formula", "fitted IDF relation", "I = b / (tc + d)^e, I in in./hr, tc in min; e, b, d coefficients "
               "based on rainfall IDF data (the program writes i = a / (t + b)^c)",
