@@ -27,7 +27,7 @@ from hydraulics.freeboard import ditch_top, freeboard_rule
 from hydraulics.wording import in_units, worded
 
 from .project import Channel
-from .verdicts import Verdict, verdict_of
+from .verdicts import Verdict, verdict_of, with_tokens
 from .results import CHANNEL_FIELDS, convert
 
 __all__ = ["ChannelDesign", "evaluate_channel", "load_default_catalogue", "design_flow"]
@@ -126,7 +126,7 @@ class ChannelDesign:
                     "warnings": [in_units(w, units) for w in self.warnings],
                     "notes": [in_units(n, units) for n in self.notes],
                     "not_verified": [in_units(n, units) for n in self.not_verified]})
-        return out
+        return with_tokens(out, self.stability, self.section.full_depth, self.comparison)
 
 
 def design_flow(channel: Channel) -> tuple[float, float | None, list[str], list[str]]:

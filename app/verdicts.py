@@ -18,7 +18,7 @@ from enum import Enum
 
 from hydraulics.wording import worded
 
-__all__ = ["Verdict", "verdict_of", "too_shallow_reason"]
+__all__ = ["Verdict", "verdict_of", "row_verdict", "with_tokens", "too_shallow_reason"]
 
 
 class Verdict(Enum):
@@ -56,6 +56,24 @@ def verdict_of(stability=None, total_depth: float | None = None, full_depth: flo
     if stability is None:
         return Verdict.HYDRAULICS_ONLY
     return _CORE[stability.verdict]
+
+
+def row_verdict(row, full_depth: float | None = None) -> Verdict:
+    """The verdict on one lining of a comparison (hydraulics.stability.ComparisonRow): no solution where it could
+    not be checked, else as :func:`verdict_of` with the ditch's depth where it is known."""
+    if row.result is None:
+        return Verdict.NO_SOLUTION
+    return verdict_of(row.result, row.result.total_depth, full_depth)
+
+
+def with_tokens(data: dict, stability=None, full_depth: float | None = None, rows=()) -> dict:
+    """A JSON summary whose ``stability.verdict`` and ``comparison[].verdict`` (the core's words) become tokens of
+    the one vocabulary, ``rows`` being the comparison rows behind ``data["comparison"]``."""
+    if stability is not None and "stability" in data:
+        data["stability"]["verdict"] = verdict_of(stability).token
+    for d, row in zip(data.get("comparison", ()), rows):
+        d["verdict"] = row_verdict(row, full_depth).token
+    return data
 
 
 def too_shallow_reason(section, total_depth: float) -> str:

@@ -62,3 +62,19 @@ def test_the_sheet_prints_the_heading(tmp_path):
     first, second = (p.extract_text().replace("\n", " ") for p in PdfReader(path).pages)
     assert "TOO SHALLOW" in first and "Reason: water plus freeboard reaches" in first
     assert "HYDRAULICS ONLY" in second  # the earth ditch has no lining
+
+
+def test_calc_and_compare_json_speak_the_one_vocabulary(capsys):
+    """`calc --json` stability.verdict and `compare --json` rows carry tokens, the batch CSV's words."""
+    import json
+
+    from app.main import main
+    tokens = {v.token for v in Verdict}
+    common = ["--units", "si", "--shape", "trapezoid", "--bottom-width", "0.6", "--side-slope", "3", "--slope", "0.03",
+              "--flow", "0.8"]
+    assert main(["compare", *common, "--lining", "grass_good_sod", "--lining", "concrete", "--json"]) == 0
+    rows = json.loads(capsys.readouterr().out)
+    assert [r["verdict"] for r in rows] == ["unstable", "non-erodible"]
+    assert main(["calc", *common, "--lining", "grass_good_sod", "--json"]) == 0
+    out = json.loads(capsys.readouterr().out)
+    assert out["stability"]["verdict"] == "unstable" and out["verdict"] in tokens

@@ -10,7 +10,7 @@ from hydraulics.stability import check_lining
 from hydraulics.wording import format_quantity, in_units
 
 from ..results import CHANNEL_FIELDS, convert, format_value
-from ..verdicts import Verdict, verdict_of
+from ..verdicts import Verdict, verdict_of, with_tokens
 from .common import (CliError, add_channel_options, check_dimensions, check_numbers, emit_json, require, section_from_args,
                      side_slopes, table, unit_labels)
 from .lining_args import (add_lining_options, catalogue_from_args, choice_from_text, explain, lining_options_si,
@@ -153,6 +153,7 @@ def run(args) -> int:
         if stab is not None:
             out["lining"] = lining_json(stab, units)
             out["stability"] = stab.to_dict(units)
+            with_tokens(out, stab)
         out["verdict"] = (Verdict.HYDRAULICS_ONLY if stab is None
                           else verdict_of(stab, stab.total_depth, section.full_depth)).token
         out["units"] = unit_labels(units)

@@ -7,6 +7,8 @@ from hydraulics.errors import InputError
 from hydraulics.stability import check_lining, compare_linings
 from hydraulics.wording import in_units
 
+from ..verdicts import Verdict, with_tokens
+
 from .common import CliError, add_channel_options, check_numbers, emit_json, require, section_from_args
 from .lining_args import (add_lining_options, catalogue_from_args, choice_from_text, explain, lining_options_si,
                           require_stone_size)
@@ -45,7 +47,8 @@ def render(rows: list[dict], units: hu.UnitSystem) -> str:
     for head, _, quantity, _ in COLUMNS:
         label = units.label(quantity) if quantity else ""
         heads.append(f"{head} ({label})" if label else head)
-    cells = [[_cell(r[key], fmt) for _, key, _, fmt in COLUMNS] for r in rows]
+    cells = [[_cell(Verdict.from_token(r[key]).words if key == "verdict" else r[key], fmt)
+              for _, key, _, fmt in COLUMNS] for r in rows]
     widths = [max(len(h), *(len(c[i]) for c in cells)) for i, h in enumerate(heads)]
     lines = ["  ".join(h.ljust(w) for h, w in zip(heads, widths))]
     lines.append("  ".join("-" * w for w in widths))
@@ -80,7 +83,8 @@ def run(args) -> int:
             key, d50 = choices[0]
             top = check_lining(section, flow, args.slope, catalogue.get(key), d50=d50).analysis.top_width
         raise explain(exc, units, top) from None
-    data = [r.to_dict(units) for r in rows]
+    data = with_tokens({"comparison": [r.to_dict(units) for r in rows]}, full_depth=section.full_depth,
+                       rows=rows)["comparison"]
     if args.json:
         emit_json(data)
         return 0
