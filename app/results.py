@@ -37,6 +37,17 @@ CHANNEL_FIELDS = (
 )
 
 
+#: What a column of an inventory is called in a table, in words (the file's own name is the column's key).
+INVENTORY_WORDS = {
+    "id": "Id", "shape": "Shape", "bottom_width": "Bottom width", "left_slope": "Left side slope",
+    "right_slope": "Right side slope", "diameter": "Diameter", "slope": "Slope", "flow": "Flow", "lining": "Lining",
+    "d50": "D50", "n": "Manning's n", "normal_depth": "Normal depth", "critical_depth": "Critical depth",
+    "velocity": "Velocity", "froude": "Froude number", "bed_shear": "Bed shear",
+    "permissible_shear": "Permissible shear", "safety_factor": "Safety factor", "verdict": "Verdict",
+    "reason": "Reason",
+}
+
+
 def convert(value, quantity: str, units: UnitSystem):
     """SI value -> the user's units (words and pure numbers pass through)."""
     if quantity in ("", "slope") or isinstance(value, str) or value is None:
@@ -94,3 +105,12 @@ RUN_STATION_FIELDS = {f.key: f for f in (
     ResultField("fits", "Fits the ditch", "", 0),
     ResultField("required_d50", "Smallest stable D50", "small_length", 1),
 )}
+
+
+def table_field(key: str) -> ResultField | None:
+    """The one definition (label, quantity, decimals) of a result quantity shown in a table, wherever it is shown:
+    the results panel's, else the station table's; None for a key with neither."""
+    for f in CHANNEL_FIELDS:
+        if f.key == key:
+            return f
+    return RUN_STATION_FIELDS.get(key)

@@ -182,13 +182,16 @@ class BatchResult:
     flags: dict = field(default_factory=dict)
     #: Notes that concern groups of reaches rather than one (e.g. a relation's range for a lining).
     messages: list = field(default_factory=list)
+    #: Where the lowest safety factor was found ("bed", "side slopes", "left side slope", ...; "" where the shear
+    #: was not compared), object array of str.
+    governs: np.ndarray = None
 
     @classmethod
     def empty(cls, size: int) -> "BatchResult":
         nan = lambda: np.full(size, np.nan)  # noqa: E731
         return cls(**{k: nan() for k in RESULT_FIELDS}, verdict=text_array(size),
                    reason=text_array(size), manning_n=nan(),
-                   flags={k: np.zeros(size, dtype=bool) for k in WARNINGS})
+                   flags={k: np.zeros(size, dtype=bool) for k in WARNINGS}, governs=text_array(size))
 
     def __len__(self):
         return len(self.verdict)
@@ -209,7 +212,7 @@ class BatchResult:
             return 1.0 / self.safety_factor
 
     def _fill(self, index, other: "BatchResult"):
-        for k in (*RESULT_FIELDS, "verdict", "reason"):
+        for k in (*RESULT_FIELDS, "verdict", "reason", "governs"):
             getattr(self, k)[index] = getattr(other, k)
         self.manning_n[index] = other.manning_n
         for k in WARNINGS:
@@ -629,6 +632,7 @@ def assess_stability(lining, reaches: Reaches, rows, out: BatchResult, display: 
     texts[cannot] = [f"unstable, {w}: stone cannot rest on a side as steep as or steeper than its angle of repose; "
                      f"hydraulics {how}" for w in where[cannot]]
     out.verdict[rows] = np.where(stable, "stable", "unstable")
+    out.governs[rows] = where
     _note(out, rows, texts, first=True)
 
 

@@ -24,6 +24,7 @@ from PySide6.QtWidgets import (QAbstractItemView, QCheckBox, QComboBox, QDialog,
 
 from .. import inventory as ai
 from ..files import tsv_cell
+from ..results import INVENTORY_WORDS, rounded, table_field
 from ..inventory import InventoryError
 from hydraulics import many_reaches as mr
 from hydraulics import units as hu
@@ -62,10 +63,12 @@ def _quantity(column: str) -> str | None:
 
 
 def column_title(column: str, units: hu.UnitSystem) -> str:
-    """The header of a column: its name in the file, with the unit where it has one."""
+    """The header of a column: what it holds in words, with the unit where it has one (an extra column of the
+    file keeps its own name)."""
     q = _quantity(column)
     label = pretty(units.label(q)) if q and q not in ("ratio", "manning_n") else ""
-    return f"{column}\n({label})" if label else column
+    words = INVENTORY_WORDS.get(column, column)
+    return f"{words}\n({label})" if label else words
 
 
 class SortableRows(QAbstractTableModel):
@@ -190,9 +193,10 @@ class ReachesModel(SortableRows):
     """Every reach of a :class:`app.inventory.BatchRun`: the input columns as written, then the results.
 
     Cells are made when Qt asks for them (an input row is split only when it
-    is shown; numbers get the results file's :data:`app.inventory.DIGITS`
-    significant digits), so a 100,000-reach inventory costs little more than
-    the run itself.
+    is shown; result numbers are rounded by the one rule of :mod:`app.results`,
+    as the results panel shows them), so a 100,000-reach inventory costs little
+    more than the run itself. The row headings give the file's line and the
+    reach's id, so the id stays in view while the columns scroll.
     """
 
     def __init__(self, parent=None):
@@ -235,10 +239,24 @@ class ReachesModel(SortableRows):
         if name == "reason":
             return self.run.result.reason[i]
         value = float(self._values[name][i])
-        return "" if math.isnan(value) else f"{value:.{ai.DIGITS}g}"
+        if math.isnan(value):
+            return ""
+        text = rounded(value, table_field(name)) if table_field(name) else f"{value:.{ai.DIGITS}g}"
+        if name == "safety_factor" and self.run.result.governs is not None and self.run.result.governs[i]:
+            text += f" ({self.run.result.governs[i]})"   # where the lowest factor was found
+        return text
 
     def verdict(self, i: int) -> str:
         return self._verdicts[i]
+
+    def headerData(self, section, orientation, role=Qt.ItemDataRole.DisplayRole):
+        if orientation == Qt.Orientation.Vertical and 0 <= section < len(self.shown) and self.run is not None:
+            i = int(self.shown[section])
+            if role == Qt.ItemDataRole.DisplayRole:
+                return f"{int(self.lines[i])}  {self.run.inventory.ids[i]}"
+            if role == Qt.ItemDataRole.ToolTipRole:
+                return f"line {int(self.lines[i])} of the file, id {self.run.inventory.ids[i]}"
+        return super().headerData(section, orientation, role)
 
     def keys(self, c: int) -> np.ndarray:
         name, inv, res = self.columns[c], self.run.inventory, self.run.result
