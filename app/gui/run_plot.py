@@ -44,7 +44,7 @@ class ProfilePicture(Picture):
             "ditch_top": ax.plot([], [], color=SOIL_EDGE, lw=1.0, ls=(0, (6, 2)), zorder=3)[0],
             "invert": ax.plot([], [], color=INK, lw=1.8, zorder=4)[0],
             "water_surface": ax.plot([], [], color=WATER_EDGE, lw=1.4, zorder=5)[0],
-            "critical": ax.plot([], [], color=CRITICAL, lw=1.1, ls=(0, (1, 2)), zorder=5)[0],
+            "critical": ax.plot([], [], color=CRITICAL, lw=1.3, ls=":", zorder=5)[0],   # dotted
         }
         self.cursor = ax.axvline(0, color="#2c6b9f", lw=1.0, alpha=0.55, zorder=2, visible=False)
         self.cursor_label = ax.text(0, BAND + 0.01, "", transform=blended_transform_factory(ax.transData, ax.transAxes),

@@ -260,8 +260,8 @@ class InputTable(QWidget):
                 if not editable:
                     cell.setFlags(cell.flags() & ~Qt.ItemFlag.ItemIsEditable)
                     cell.setForeground(QBrush(QColor("#5f6870")))
-                cell.setTextAlignment(int((Qt.AlignmentFlag.AlignRight if c.quantity or c.attribute in (
-                    "runoff_coefficient",) else Qt.AlignmentFlag.AlignLeft) | Qt.AlignmentFlag.AlignVCenter))
+                cell.setTextAlignment((Qt.AlignmentFlag.AlignRight if c.quantity or c.attribute in (
+                    "runoff_coefficient",) else Qt.AlignmentFlag.AlignLeft) | Qt.AlignmentFlag.AlignVCenter)
                 cell.setToolTip(self.cell_tip(c, i, item))
                 t.setItem(i, j, cell)
         t.blockSignals(False)
@@ -345,9 +345,11 @@ class InputTable(QWidget):
         self.edited.emit(path, value, f"Change {self.describe(c, row)}")
 
     def describe(self, c: Column, row: int) -> str:
-        what = {"profile": f"grade point {row + 1}", "candidates": f"candidate {row + 1}",
-                "sub_areas": f"sub-area '{getattr(self.run, self.items)[row].name}'" if self.run else "sub-area"}
-        return f"{c.heading.lower()} of {what[self.items]}"
+        if self.items == "sub_areas":
+            what = f"sub-area '{self.run.sub_areas[row].name}'"
+        else:
+            what = f"{'grade point' if self.items == 'profile' else 'candidate'} {row + 1}"
+        return f"{c.heading.lower()} of {what}"
 
     def read(self, c: Column, row: int, text: str):
         """The SI value of ``text`` typed in column ``c`` of ``row``; ValueError with the reason in words."""
