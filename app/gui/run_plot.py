@@ -191,8 +191,9 @@ class ProfilePicture(Picture):
 
 
 def fitting_label(label: str, width_px: float) -> str:
-    """The label of a band that fits ``width_px``: the whole name, its first part (up to a comma), or nothing."""
-    for text in (label, label.split(",")[0]):
+    """The label of a band that fits ``width_px``: the whole name, its first part (up to a comma), its first word,
+    or nothing (the schedule beside names every stretch in full)."""
+    for text in (label, label.split(",")[0], label.split(" ")[0]):
         if len(text) * CHAR_PX * 0.9 + 8 <= width_px:
             return text
     return ""

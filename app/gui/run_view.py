@@ -139,6 +139,8 @@ class StationTableModel(QAbstractTableModel):
             font.setBold(True)
             return font
         if role == Qt.ItemDataRole.ToolTipRole:
+            if key in ("lining", "dimensions"):
+                return self.text(index.row(), key)
             if key == "check" and r.get("not_checked"):
                 return sentence(r["not_checked"][:1].upper() + r["not_checked"][1:])
             if key == "tc" and r.get("partial_area") == "True":
