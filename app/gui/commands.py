@@ -109,3 +109,33 @@ class EditSheetInfo(QUndoCommand):
 
     def undo(self):
         self.doc._set_project_attribute("sheet", self.old)
+
+
+class EditRun(QUndoCommand):
+    """Replace ditch run ``index`` with ``new`` (a whole Run value); edits with the same ``merge_key`` merge."""
+
+    def __init__(self, doc, index: int, new, text: str, merge_key=None):
+        super().__init__(text)
+        self.doc, self.index, self.new, self.merge_key = doc, index, new, merge_key
+        self.old = doc.project.runs[index]
+
+    def redo(self):
+        self.doc._replace_run(self.index, self.new)
+
+    def undo(self):
+        self.doc._replace_run(self.index, self.old)
+
+    def id(self):
+        return RUN_MERGE_ID if self.merge_key is not None else -1
+
+    def mergeWith(self, other):
+        if not isinstance(other, EditRun) or other.merge_key != self.merge_key or other.index != self.index:
+            return False
+        self.new = other.new
+        if self.new == self.old:
+            self.setObsolete(True)
+        return True
+
+
+#: id() of run edits that may merge with the next one.
+RUN_MERGE_ID = 4712

@@ -30,6 +30,7 @@ class ProjectDocument(QObject):
     units_changed = Signal()
     current_changed = Signal(int)
     project_changed = Signal()       # project name, notes or sheet details
+    run_changed = Signal(int)        # the inputs of one ditch run changed
 
     def __init__(self, project: pj.Project | None = None, path=None, parent=None, context: Context | None = None):
         """``context``: the catalogue and program version the project is evaluated with (default: the shipped
@@ -163,6 +164,24 @@ class ProjectDocument(QObject):
             self.undo_stack.push(cmd.AddChannels(self, added, text))
         return [c.name for c in added]
 
+    def edit_run(self, index: int, new: pj.Run, text: str, merge_key=None) -> None:
+        """Replace ditch run ``index`` with ``new`` (one undoable step; a changed copy, see app.run_editing)."""
+        if new != self.project.runs[index]:
+            self.undo_stack.push(cmd.EditRun(self, index, copy.deepcopy(new), text, merge_key))
+
+    def add_channel_from(self, channel: pj.Channel, text: str) -> str:
+        """Append ``channel`` (a name already in use gets a number) and make it current, in one undoable step.
+        Returns its name."""
+        ch = copy.deepcopy(channel)
+        names = {c.name for c in self.project.channels}
+        base, k = ch.name.strip() or "Ditch", 2
+        ch.name = base
+        while ch.name in names:
+            ch.name = f"{base} ({k})"
+            k += 1
+        self.undo_stack.push(cmd.AddChannel(self, len(self.project.channels), ch, text))
+        return ch.name
+
     def set_sheet_info(self, info: pj.SheetInfo, text: str = "Change sheet details") -> None:
         """Replace the title-block facts of the design sheets (one undoable step)."""
         if info != self.project.sheet:
@@ -225,6 +244,11 @@ class ProjectDocument(QObject):
         self.current = min(index, len(self.project.channels) - 1)
         self.channels_changed.emit()
         self.current_changed.emit(self.current)
+
+    def _replace_run(self, index: int, run: pj.Run) -> None:
+        self.revision += 1
+        self.project.runs[index] = run
+        self.run_changed.emit(index)
 
     def _set_units(self, units: str) -> None:
         self.revision += 1

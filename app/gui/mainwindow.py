@@ -10,7 +10,7 @@ from pathlib import Path
 from PySide6.QtCore import QSize, Qt, QUrl
 from PySide6.QtGui import QAction, QActionGroup, QDesktopServices, QKeySequence
 from PySide6.QtWidgets import (QApplication, QDialog, QFileDialog, QHBoxLayout, QInputDialog, QLabel, QListWidget,
-                               QListWidgetItem, QMainWindow, QMessageBox, QSplitter, QStyle, QTabWidget,
+                               QListWidgetItem, QMainWindow, QMessageBox, QSplitter, QStackedWidget, QStyle, QTabWidget,
                                QToolButton, QVBoxLayout, QWidget)
 
 import hydraulics as hy
@@ -56,6 +56,7 @@ class MainWindow(QMainWindow):
         self._drawn: dict[str, int] = {}
         self.export_task: Task | None = None
         self.inventory_dialog = None
+        self.run_view = None          # made when first shown (its modules load only then)
         self.setStyleSheet(STYLE)
         self.create_actions()
         self.create_menus()
@@ -128,8 +129,21 @@ class MainWindow(QMainWindow):
         self.tab_actions = []
         for i, (key, text) in enumerate(zip(TABS, ("&Section", "&Rating curve", "Specific &energy",
                                                    "&Lining comparison"))):
-            self.tab_actions.append(act(text, lambda _=False, i=i: self.tabs.setCurrentIndex(i), f"Ctrl+{i + 1}",
+            self.tab_actions.append(act(text, lambda _=False, i=i: self.show_channels(i), f"Ctrl+{i + 1}",
                                         f"Show the {text.replace('&', '').lower()}"))
+        self.pages_group = QActionGroup(self)
+        self.channels_action = act("C&hannels", lambda: self.show_channels(), None,
+                                   "Show the channels of the project (Ctrl+1 to Ctrl+4 pick a picture)",
+                                   checkable=True)
+        self.runs_action = act("&Ditch runs", self.show_runs, "Ctrl+5",
+                               "Show the ditch runs of the project: profile, station table and lining schedule",
+                               checkable=True)
+        for a in (self.channels_action, self.runs_action):
+            self.pages_group.addAction(a)
+        self.channels_action.setChecked(True)
+        self.open_station_action = act("&Open station as a channel", self.open_station, "Ctrl+Shift+O",
+                                       "Add the station chosen in the run's table to the channels and show it")
+        self.open_station_action.setEnabled(False)
         self.units_group = QActionGroup(self)
         self.si_action = act("&SI (m, m³/s, Pa)", lambda: self.doc.set_units("si"), None,
                              "Show every value in SI units", checkable=True)
@@ -160,9 +174,12 @@ class MainWindow(QMainWindow):
         m.addActions([self.add_action, self.duplicate_action, self.rename_action, self.delete_action])
         m.addSeparator()
         m.addAction(self.copy_table_action)
+        m.addAction(self.open_station_action)
         m = bar.addMenu("&Project")
         m.addActions([self.project_name_action, self.sheet_details_action, self.project_notes_action])
         m = bar.addMenu("&View")
+        m.addActions([self.channels_action, self.runs_action])
+        m.addSeparator()
         m.addActions(self.tab_actions)
         m.addSeparator()
         u = m.addMenu("&Units")
@@ -181,6 +198,8 @@ class MainWindow(QMainWindow):
         tb.addActions([self.undo_action, self.redo_action])
         tb.addSeparator()
         tb.addAction(self.export_action)
+        tb.addSeparator()
+        tb.addActions([self.channels_action, self.runs_action])
         tb.addSeparator()
         tb.addWidget(QLabel(" Units "))
         tb.addActions([self.si_action, self.us_action])
@@ -247,7 +266,10 @@ class MainWindow(QMainWindow):
         self.splitter.setStretchFactor(2, 0)
         self.splitter.setSizes([405, 695, 340])
         self.splitter.setChildrenCollapsible(False)
-        self.setCentralWidget(self.splitter)
+        self.pages = QStackedWidget()
+        self.pages.setObjectName("pages")
+        self.pages.addWidget(self.splitter)
+        self.setCentralWidget(self.pages)
         self.setMinimumSize(1100, 700)
 
     def connect_document(self) -> None:
@@ -291,6 +313,7 @@ class MainWindow(QMainWindow):
         self.units_label.setText(f"Units: {'SI' if units == 'si' else 'US customary'}")
         self.update_title()
         self.refresh()
+        self.update_run_actions()
 
     def _current_changed(self, index: int) -> None:
         self.last_good = None
@@ -367,6 +390,52 @@ class MainWindow(QMainWindow):
         where = doc.path.name if doc.path else "not saved yet"
         self.setWindowTitle(f"{doc.project.name} ({where})[*] — Ditchwright")
         self.setWindowModified(doc.modified)
+
+    # -- ditch runs ------------------------------------------------------------------------------
+    def update_run_actions(self) -> None:
+        runs = bool(self.doc.project.runs)
+        self.runs_action.setEnabled(runs)
+        self.runs_action.setText(f"&Ditch runs ({len(self.doc.project.runs)})" if runs else "&Ditch runs")
+        self.runs_action.setIconText(f"Ditch runs ({len(self.doc.project.runs)})" if runs else "Ditch runs")
+        on_runs = self.pages.currentWidget() is self.run_view and self.run_view is not None
+        self.open_station_action.setEnabled(on_runs and runs)
+        if on_runs and not runs:
+            self.show_channels()
+
+    def show_channels(self, tab: int | None = None) -> None:
+        """The channel page (``tab``: the picture to show)."""
+        self.pages.setCurrentWidget(self.splitter)
+        self.channels_action.setChecked(True)
+        self.open_station_action.setEnabled(False)
+        if tab is not None:
+            self.tabs.setCurrentIndex(tab)
+
+    def show_runs(self) -> None:
+        """The run page: profile, station table and schedule of the project's ditch runs (made when first
+        shown)."""
+        if not self.doc.project.runs:
+            self.statusBar().showMessage("This project has no ditch runs.", 6000)
+            self.channels_action.setChecked(True)
+            return
+        if self.run_view is None:
+            from .run_view import RunView
+            self.run_view = RunView(self.doc, open_action=self.open_station_action,
+                                    can_draw=lambda: self.export_task is None)
+            self.run_view.status_message.connect(lambda m: self.statusBar().showMessage(m, 8000))
+            self.run_view.open_channel.connect(self._station_opened)
+            self.pages.addWidget(self.run_view)
+        self.pages.setCurrentWidget(self.run_view)
+        self.runs_action.setChecked(True)
+        self.open_station_action.setEnabled(True)
+        self.run_view.table.setFocus()
+
+    def open_station(self) -> None:
+        if self.run_view is not None and self.pages.currentWidget() is self.run_view:
+            self.run_view.open_selected_station()
+
+    def _station_opened(self, _name: str) -> None:
+        self.show_channels(0)
+        self.channel_list.setFocus()
 
     # -- channel actions ------------------------------------------------------------------------
     def _channel_picked(self, row: int) -> None:
@@ -687,6 +756,8 @@ class MainWindow(QMainWindow):
         if task is not None:
             task.deleteLater()
         self.draw_current()
+        if self.run_view is not None:
+            self.run_view.redraw()
 
     def _export_done(self, choice, count: int, signed: bool, notes: list) -> None:
         what = f"{count} design sheet{'s' if count != 1 else ''}" + (", signed," if signed else "")
@@ -722,6 +793,8 @@ class MainWindow(QMainWindow):
             self.export_task.wait()   # a sheet export takes seconds; let it finish its file
         if self.inventory_dialog is not None:
             self.inventory_dialog.stop(wait=True)
+        if self.run_view is not None:
+            self.run_view.stop()
         if self.maybe_save():
             self.write_settings()
             if self.autosaver:

@@ -1,0 +1,199 @@
+"""The profile of a ditch run along its stationing, drawn from the one drawing model (:mod:`app.run_drawing`).
+
+One Figure on one canvas; the four lines are made once and moved with ``set_data``; the bands, markers and
+labels, whose number changes with the run, are made again at each update. Margins are fixed (no layout
+engine). Nothing here computes or converts: the model is in the user's units and worded already.
+"""
+
+from __future__ import annotations
+
+import numpy as np
+from matplotlib.patches import Polygon, Rectangle
+from matplotlib.transforms import blended_transform_factory
+
+from ..run_drawing import ProfileModel
+from .fields import pretty
+from .plots import CRITICAL, FONT, INK, MUTED, SOIL_EDGE, WATER, WATER_EDGE, Picture
+
+#: Fill of the lining stretches, by order of first appearance along the run.
+STRETCH_COLOURS = ("#cfd8c4", "#c9c2b4", "#c3ccd6", "#e0d2b6", "#d3c7dc", "#bfd6d2")
+#: Trouble spots: fill and words' colour by status (the words are the model's own).
+TROUBLE_COLOURS = {"not stable": ("#f3c9c6", "#a4231b"), "too shallow": ("#f7dcc0", "#8f4a0c"),
+                   "not checked": ("#ece8c8", "#6e5a08")}
+BAND = 0.075         # height of the lining band at the foot of the axes, as a fraction of the axes
+LANES = (0.965, 0.905, 0.845)   # heights of the inflow labels, fraction of the axes
+CHAR_PX = 6.3        # about the width of one character at the label size [px], to keep labels apart
+
+
+class ProfilePicture(Picture):
+    """Ditch top, invert, water surface and critical depth along the run; lining stretches as labelled bands at
+    the foot, trouble spots shaded with their words, inflows labelled at the top, grades under the invert."""
+
+    margins = dict(left=0.075, right=0.985, bottom=0.2, top=0.92)
+    #: Room around the axes in pixels: left (elevations), right (the last station's label), bottom (stations,
+    #: their heading and the key), top (the title).
+    pads = (62, 40, 74, 30)
+
+    def __init__(self, width=9.0, height=4.2, dpi=100):
+        super().__init__(width, height, dpi)
+        ax = self.ax
+        ax.grid(True, axis="y", color="#e4e7ea", lw=0.6)
+        self.water = Polygon(np.zeros((3, 2)), closed=True, fc=WATER, ec="none", zorder=1, alpha=0.8)
+        ax.add_patch(self.water)
+        self.lines = {
+            "ditch_top": ax.plot([], [], color=SOIL_EDGE, lw=1.0, ls=(0, (6, 2)), zorder=3)[0],
+            "invert": ax.plot([], [], color=INK, lw=1.8, zorder=4)[0],
+            "water_surface": ax.plot([], [], color=WATER_EDGE, lw=1.4, zorder=5)[0],
+            "critical": ax.plot([], [], color=CRITICAL, lw=1.3, ls=":", zorder=5)[0],   # dotted
+        }
+        self.cursor = ax.axvline(0, color="#2c6b9f", lw=1.0, alpha=0.55, zorder=2, visible=False)
+        self.cursor_label = ax.text(0, BAND + 0.01, "", transform=blended_transform_factory(ax.transData, ax.transAxes),
+                                    fontsize=FONT - 1, color="#1d4f7a", ha="left", va="bottom", zorder=9,
+                                    bbox=dict(boxstyle="square,pad=0.15", fc="white", ec="none", alpha=0.85))
+        self.legend = None
+        self._made = []      # artists made for one model: bands, markers, labels
+        self.model: ProfileModel | None = None
+        self.selected: float | None = None
+
+    # -- what is drawn ---------------------------------------------------------------------
+    def content_artists(self):
+        return [self.water, *self.lines.values(), *self._made]
+
+    def _clear_made(self) -> None:
+        for a in self._made:
+            a.remove()
+        self._made = []
+
+    def update(self, model: ProfileModel) -> None:
+        """Draw ``model`` (an app.run_drawing.ProfileModel)."""
+        self.model = model
+        ax = self.ax
+        self._fit_margins()
+        self._clear_made()
+        for name, artist in self.lines.items():
+            line = model.lines[name]
+            artist.set_data(line.x, line.y)
+            artist.set_label(line.label)
+        inv, ws = model.lines["invert"], model.lines["water_surface"]
+        top = np.where(np.isfinite(ws.y), ws.y, inv.y)
+        self.water.set_xy(np.column_stack([np.concatenate([inv.x, inv.x[::-1]]),
+                                           np.concatenate([inv.y, top[::-1]])]))
+        x0, x1 = model.first_station, model.last_station
+        low, high = model.y_range()
+        span = max(high - low, 1e-6)
+        ax.set_xlim(x0 - 0.01 * (x1 - x0), x1 + 0.01 * (x1 - x0))
+        ax.set_ylim(low - 0.2 * span, high + 0.3 * span)   # room for the bands below and the inflows above
+        ax.set_xticks([t for t, _ in model.ticks], [text for _, text in model.ticks])
+        ax.set_xlabel("station", fontsize=FONT, color=INK, labelpad=2)
+        ax.set_ylabel(f"elevation [{pretty(model.length_unit)}]", fontsize=FONT, color=INK)
+        self.title.set_text(f"{model.title}: profile along the stationing")
+        foot = blended_transform_factory(ax.transData, ax.transAxes)
+        px_per_unit = ax.get_window_extent().width / max(x1 - x0, 1e-9)
+        self._stretches(model, foot, px_per_unit)
+        self._trouble(model, foot)
+        self._inflows(model, foot, px_per_unit)
+        for g in model.grades:
+            self._made.append(ax.annotate(f"grade {g.text}", (g.x, g.y), xytext=(4, -8), textcoords="offset points",
+                                          ha="left", va="top", fontsize=FONT - 1, color=INK, zorder=6,
+                                          bbox=dict(boxstyle="round,pad=0.2", fc="white", ec="none", alpha=0.85)))
+        if model.outfall:
+            s, z, label = model.outfall
+            self._made.append(ax.plot([s], [z], marker="s", ms=6, color=INK, zorder=7)[0])
+            top_line = model.lines["ditch_top"]
+            above = float(top_line.y[int(np.argmin(np.abs(top_line.x - s)))]) if top_line.x.size else z
+            self._made.append(ax.plot([s, s], [z, above], color=INK, lw=0.8, zorder=7)[0])
+            self._made.append(ax.annotate(f"outfall: {label}", (s, above), xytext=(-4, 8), textcoords="offset points",
+                                          ha="right", va="bottom", fontsize=FONT - 1, color=INK, zorder=7,
+                                          bbox=dict(boxstyle="round,pad=0.2", fc="white", ec="none", alpha=0.85)))
+        handles = [self.lines[k] for k in ("ditch_top", "water_surface", "critical", "invert")]
+        if self.legend is not None:
+            self.legend.remove()
+        self.legend = self.figure.legend(handles=handles, loc="lower center", ncol=4, fontsize=FONT - 0.5,
+                                         frameon=False, bbox_to_anchor=(0.5, 0.0), handlelength=2.4,
+                                         borderaxespad=0.2)
+        self.show_station(self.selected)
+        self.fade(False)
+
+    def _fit_margins(self) -> None:
+        """Fixed margins in pixels, whatever the size of the canvas."""
+        w, h = self.figure.get_size_inches() * self.figure.dpi
+        left, right, bottom, top = self.pads
+        if w > 4 * (left + right) and h > 3 * (bottom + top):
+            self.figure.subplots_adjust(left=left / w, right=1 - right / w, bottom=bottom / h, top=1 - top / h)
+
+    def _stretches(self, model, foot, px_per_unit) -> None:
+        colours: dict[str, str] = {}
+        for band in model.stretches:
+            colour = colours.setdefault(band.label, STRETCH_COLOURS[len(colours) % len(STRETCH_COLOURS)])
+            rect = Rectangle((band.start, 0.0), band.end - band.start, BAND, transform=foot, fc=colour,
+                             ec="white", lw=1.0, zorder=6)
+            self.ax.add_patch(rect)
+            self._made.append(rect)
+            text = fitting_label(band.label, (band.end - band.start) * px_per_unit)
+            if text:
+                self._made.append(self.ax.text((band.start + band.end) / 2, BAND / 2, text, transform=foot,
+                                               ha="center", va="center", fontsize=FONT - 1.5, color=INK,
+                                               zorder=7, clip_on=True))
+
+    def _trouble(self, model, foot) -> None:
+        for band in model.trouble:
+            fill, ink = TROUBLE_COLOURS.get(band.status, ("#eeeeee", INK))
+            width = max(band.end - band.start, 0.004 * (model.last_station - model.first_station))
+            start = (band.start + band.end) / 2 - width / 2
+            rect = Rectangle((start, BAND), width, 0.74 - BAND, transform=foot, fc=fill, ec="none", alpha=0.7,
+                             zorder=0.5)
+            self.ax.add_patch(rect)
+            self._made.append(rect)
+            self._made.append(self.ax.text((band.start + band.end) / 2, 0.76, band.label, transform=foot,
+                                           ha="center", va="bottom", fontsize=FONT - 1, color=ink,
+                                           fontweight="bold", zorder=8))
+
+    def _inflows(self, model, foot, px_per_unit) -> None:
+        """Inflows at the top: a range as a bracket, a point as a marker, each label in the first lane where it
+        does not run into another."""
+        ends = [-np.inf] * len(LANES)     # right end of the last label in each lane [px]
+        for m in sorted(model.inflows, key=lambda m: m.start):
+            left = (m.start - model.first_station) * px_per_unit
+            right = max(left + len(m.label) * CHAR_PX + 10, (m.end - model.first_station) * px_per_unit)
+            lane = next((i for i, e in enumerate(ends) if left > e + 6), int(np.argmin(ends)))
+            ends[lane] = right
+            y = LANES[lane]
+            if m.end > m.start:
+                self._made.append(self.ax.plot([m.start, m.start, m.end, m.end], [y - 0.03, y, y, y - 0.03],
+                                               transform=foot, color=WATER_EDGE, lw=0.9, zorder=8)[0])
+                self._made.append(self.ax.text(m.start, y + 0.005, f" {m.label}", transform=foot, ha="left",
+                                               va="bottom", fontsize=FONT - 1, color=WATER_EDGE, zorder=8))
+            else:
+                self._made.append(self.ax.plot([m.start, m.start], [BAND, y], transform=foot, color=WATER_EDGE,
+                                               lw=0.6, ls=(0, (2, 3)), zorder=2)[0])
+                self._made.append(self.ax.plot([m.start], [y], transform=foot, marker="v", ms=6, color=WATER_EDGE,
+                                               zorder=8)[0])
+                self._made.append(self.ax.text(m.start, y + 0.005, f"  {m.label}", transform=foot, ha="left",
+                                               va="bottom", fontsize=FONT - 1, color=WATER_EDGE, zorder=8))
+
+    def show_station(self, station: float | None, text: str = "") -> None:
+        """Mark the station picked in the table (None: no mark)."""
+        self.selected = station
+        visible = station is not None
+        self.cursor.set_visible(visible)
+        self.cursor_label.set_visible(visible)
+        if visible:
+            self.cursor.set_xdata([station, station])
+            self.cursor_label.set_position((station, BAND + 0.01))
+            self.cursor_label.set_text(f" {text}")
+
+    def nearest_station(self, x: float) -> int | None:
+        """Index of the design point nearest the station ``x`` (user's units), from the model's invert line."""
+        if self.model is None:
+            return None
+        xs = self.model.lines["invert"].x
+        return int(np.argmin(np.abs(xs - x))) if xs.size else None
+
+
+def fitting_label(label: str, width_px: float) -> str:
+    """The label of a band that fits ``width_px``: the whole name, its first part (up to a comma), its first word,
+    or nothing (the schedule beside names every stretch in full)."""
+    for text in (label, label.split(",")[0], label.split(" ")[0]):
+        if len(text) * CHAR_PX * 0.9 + 8 <= width_px:
+            return text
+    return ""

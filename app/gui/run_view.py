@@ -1,0 +1,993 @@
+"""The window's view of a ditch run: its inputs, its profile over the station table, its lining schedule.
+
+Built on the Qt-free layer only: :func:`app.run_design.design_run` solves the run (in a worker thread, so the
+window stays live), ``station_rows`` gives the table's text as every front end shows it, and
+:func:`app.run_drawing.profile_model` the one drawing of the profile. Edits of grade points, candidates' unit
+costs and sub-areas go through the document, one undoable command each (:mod:`app.run_editing` makes the
+changed run). An entry that cannot be used is refused where it was typed, the document is left as it was, and
+the last good result stays in view, greyed.
+"""
+
+from __future__ import annotations
+
+import copy
+import re
+from dataclasses import dataclass
+
+from PySide6.QtCore import QAbstractTableModel, QModelIndex, Qt, Signal
+from PySide6.QtGui import QAction, QBrush, QColor, QKeySequence
+from PySide6.QtWidgets import (QAbstractItemView, QFrame, QGroupBox, QHBoxLayout, QHeaderView, QLabel, QListWidget,
+                               QMenu, QPushButton, QScrollArea, QSplitter, QTableView, QTableWidget,
+                               QTableWidgetItem, QVBoxLayout, QWidget)
+
+import hydraulics as hy
+from hydraulics.provenance import NOT_VERIFIED_MARK, NOT_VERIFIED_TITLE
+from hydraulics.units import UnitSystem
+from hydraulics.wording import format_station, in_units
+
+from ..results import RUN_STATION_FIELDS
+from ..run_design import RunDesign, design_run
+from ..run_drawing import profile_model
+from ..run_editing import StationNotOpenable, cost_quantity, item_path, run_value, station_channel, with_run_value
+from ..verdicts import Verdict
+from .document import ProjectDocument
+from .fields import (UnclearNumber, format_number, keep_units_whole, parse_number, pretty, sentence,
+                     set_invalid)
+from .results_view import CAUTION, _escape
+from .run_plot import ProfilePicture
+from .tasks import Task
+
+#: Columns of the station table, in reading order (keys of ``station_rows``); "check" is the row's verdict.
+STATION_COLUMNS = ("station", "check", "flow", "slope", "lining", "normal_depth", "critical_depth", "velocity",
+                   "froude", "regime", "bed_shear", "side_shear", "permissible_shear", "safety_factor", "stable",
+                   "freeboard", "ditch_depth", "fits", "water_surface", "invert", "ca", "tc", "intensity",
+                   "manning_n", "required_d50", "dimensions")
+#: Row marks: (verdict, background). The words are the verdict vocabulary's (app.verdicts).
+ROW_MARKS = {"unstable": (Verdict.UNSTABLE, "#fbdcda"), "too-shallow": (Verdict.TOO_SHALLOW, "#fbe3cc"),
+             "not-checked": (Verdict.NOT_CHECKED, "#fff6e0"), "stable": (Verdict.STABLE, None)}
+GREY = QColor("#a3a9ae")
+#: Opens the chosen station of the table as a channel (not used by any other action of the window).
+OPEN_STATION_KEY = "Ctrl+Shift+O"
+
+
+def row_mark(row: dict) -> str:
+    """The key of ROW_MARKS for one station row (text cells of ``station_rows``)."""
+    if row.get("stable") == "no":
+        return "unstable"
+    if row.get("fits") == "no":
+        return "too-shallow"
+    if row.get("not_checked"):
+        return "not-checked"
+    return "stable"
+
+
+def column_heading(key: str, units: UnitSystem) -> str:
+    """A station-table heading: the label of app.results with its unit on a second line."""
+    if key == "check":
+        return "Check"
+    if key == "dimensions":
+        return "Section"
+    f = RUN_STATION_FIELDS[key]
+    if key == "station" or not f.quantity:
+        return f.label
+    return f"{f.label}\n[{pretty(units.label(f.quantity))}]"
+
+
+class StationTableModel(QAbstractTableModel):
+    """The station table over ``station_rows(units)``: text as given, failing rows marked in words and colour;
+    ``stale`` greys every cell (the last good result, while the inputs are not usable)."""
+
+    def __init__(self, parent=None):
+        super().__init__(parent)
+        self.rows: list[dict] = []
+        self.headings: list[str] = [k for k in STATION_COLUMNS]
+        self.lining_names: dict[str, str] = {}
+        self.stale = False
+
+    def set_rows(self, rows: list[dict], units: UnitSystem, lining_names: dict) -> None:
+        self.beginResetModel()
+        self.rows = rows
+        self.lining_names = lining_names
+        self.headings = [column_heading(k, units) for k in STATION_COLUMNS]
+        self.stale = False
+        self.endResetModel()
+
+    def set_stale(self, stale: bool) -> None:
+        if stale != self.stale:
+            self.stale = stale
+            if self.rows:
+                self.dataChanged.emit(self.index(0, 0), self.index(len(self.rows) - 1, len(STATION_COLUMNS) - 1))
+
+    def rowCount(self, parent=QModelIndex()):
+        return 0 if parent.isValid() else len(self.rows)
+
+    def columnCount(self, parent=QModelIndex()):
+        return 0 if parent.isValid() else len(STATION_COLUMNS)
+
+    def text(self, row: int, key: str) -> str:
+        r = self.rows[row]
+        if key == "check":
+            return ROW_MARKS[row_mark(r)][0].words
+        if key == "lining":
+            return self.lining_names.get(r["lining"], r["lining"])
+        if key == "dimensions":
+            return f"{r['shape']} {r['dimensions']}".strip()
+        return r.get(key, "")
+
+    def data(self, index, role=Qt.ItemDataRole.DisplayRole):
+        if not index.isValid():
+            return None
+        key = STATION_COLUMNS[index.column()]
+        r = self.rows[index.row()]
+        if role == Qt.ItemDataRole.DisplayRole:
+            return self.text(index.row(), key)
+        if role == Qt.ItemDataRole.TextAlignmentRole:
+            left = key in ("check", "lining", "regime", "dimensions", "stable", "fits")
+            return int((Qt.AlignmentFlag.AlignLeft if left else Qt.AlignmentFlag.AlignRight)
+                       | Qt.AlignmentFlag.AlignVCenter)
+        mark = row_mark(r)
+        if role == Qt.ItemDataRole.BackgroundRole:
+            colour = ROW_MARKS[mark][1]
+            return QBrush(QColor(colour)) if colour and not self.stale else None
+        if role == Qt.ItemDataRole.ForegroundRole:
+            if self.stale:
+                return QBrush(GREY)
+            return QBrush(QColor("#8c1d16")) if mark in ("unstable", "too-shallow") and key == "check" else None
+        if role == Qt.ItemDataRole.FontRole and key == "check" and mark != "stable":
+            from PySide6.QtGui import QFont
+            font = QFont()
+            font.setBold(True)
+            return font
+        if role == Qt.ItemDataRole.ToolTipRole:
+            if key in ("lining", "dimensions"):
+                return self.text(index.row(), key)
+            if key == "check" and r.get("not_checked"):
+                return sentence(r["not_checked"][:1].upper() + r["not_checked"][1:])
+            if key == "tc" and r.get("partial_area") == "True":
+                return "The partial-area case governs here: a smaller, faster part of the area gives the larger flow."
+        return None
+
+    def headerData(self, section, orientation, role=Qt.ItemDataRole.DisplayRole):
+        if role != Qt.ItemDataRole.DisplayRole:
+            return None
+        if orientation == Qt.Orientation.Horizontal:
+            return self.headings[section]
+        return str(section + 1)
+
+
+# -- the inputs ---------------------------------------------------------------------------------------
+@dataclass(frozen=True)
+class Column:
+    """One editable column of an input table: the run's item attribute, heading, quantity, allowed range."""
+
+    attribute: str
+    heading: str
+    quantity: str = ""           # hydraulics.units quantity; "" a pure number; "cost" priced per the lining's basis
+    low: float | None = None
+    low_inclusive: bool = True
+    high: float | None = None
+    optional: bool = False
+    editable: bool = True
+
+
+class InputTable(QWidget):
+    """One list of a run (grade points, candidates, sub-areas) as an editable table with its message line."""
+
+    edited = Signal(str, object, str)    # path (e.g. "profile[2].elevation"), SI value, description
+    refused = Signal(str, str)           # path, message
+
+    def __init__(self, items: str, columns: tuple, name: str, parent=None):
+        super().__init__(parent)
+        self.items, self.columns = items, columns
+        self.run = None
+        self.units: UnitSystem | None = None
+        self.catalogue = None
+        self.table = QTableWidget(0, len(columns))
+        self.table.setObjectName(name)
+        self.table.verticalHeader().setDefaultSectionSize(24)
+        self.table.verticalHeader().setVisible(False)
+        self.table.horizontalHeader().setSectionResizeMode(QHeaderView.ResizeMode.Stretch)
+        self.table.horizontalHeader().setMinimumSectionSize(60)
+        self.table.setVerticalScrollBarPolicy(Qt.ScrollBarPolicy.ScrollBarAsNeeded)
+        self.table.setHorizontalScrollBarPolicy(Qt.ScrollBarPolicy.ScrollBarAlwaysOff)
+        self.table.setEditTriggers(QAbstractItemView.EditTrigger.DoubleClicked
+                                   | QAbstractItemView.EditTrigger.EditKeyPressed
+                                   | QAbstractItemView.EditTrigger.AnyKeyPressed)
+        self.table.setTabKeyNavigation(False)    # Tab leaves the table: the view is walked by keyboard
+        self.table.itemChanged.connect(self._changed)
+        self.message = QLabel()
+        self.message.setObjectName("fieldMessage")
+        self.message.setWordWrap(True)
+        self.message.hide()
+        lay = QVBoxLayout(self)
+        lay.setContentsMargins(0, 0, 0, 0)
+        lay.setSpacing(3)
+        lay.addWidget(self.table)
+        lay.addWidget(self.message)
+        self.marked: dict[tuple[int, int], str] = {}
+
+    # -- showing ---------------------------------------------------------------------------
+    def heading(self, c: Column, row: int | None = None) -> str:
+        if c.quantity == "cost":
+            return c.heading
+        unit = pretty(self.units.label(c.quantity)) if c.quantity else ""
+        return f"{c.heading} [{unit}]" if unit else c.heading
+
+    def cost_unit(self, row: int) -> str:
+        entry = self.catalogue.get(self.run.candidates[row].key) if self.run.candidates[row].key in self.catalogue \
+            else None
+        basis = entry.unit_cost_basis if entry is not None else "area"
+        return f"$/{pretty(self.units.label(cost_quantity(basis)))}"
+
+    def shown(self, c: Column, row: int, value) -> str:
+        """The SI value as the user reads it in the cell."""
+        if value is None:
+            return ""
+        if c.quantity == "cost":
+            return f"{format_number(self.cost_from_si(row, value))}"
+        if c.quantity:
+            return format_number(float(self.units.from_si(c.quantity, value)))
+        return format_number(value) if isinstance(value, float) else str(value)
+
+    def cost_from_si(self, row: int, value: float) -> float:
+        """A price per m^2 or m^3 as a price per the shown unit of surface or volume."""
+        q = self._cost_basis_quantity(row)
+        return float(value) / float(self.units.from_si(q, 1.0))
+
+    def cost_to_si(self, row: int, value: float) -> float:
+        q = self._cost_basis_quantity(row)
+        return float(value) * float(self.units.from_si(q, 1.0))
+
+    def _cost_basis_quantity(self, row: int) -> str:
+        key = self.run.candidates[row].key
+        entry = self.catalogue.get(key) if key in self.catalogue else None
+        return cost_quantity(entry.unit_cost_basis if entry is not None else "area")
+
+    def load(self, run, units: UnitSystem, catalogue) -> None:
+        """Fill the table from ``run`` (SI) in ``units``; what was marked is cleared."""
+        self.run, self.units, self.catalogue = run, units, catalogue
+        seq = getattr(run, self.items)
+        t = self.table
+        t.blockSignals(True)
+        t.setRowCount(len(seq))
+        t.setHorizontalHeaderLabels([self.heading(c) for c in self.columns])
+        for j, c in enumerate(self.columns):
+            t.horizontalHeader().setSectionResizeMode(j, QHeaderView.ResizeMode.Stretch if c.attribute in WIDE or
+                                                      len(self.columns) == 2 else QHeaderView.ResizeMode.ResizeToContents)
+        for i, item in enumerate(seq):
+            for j, c in enumerate(self.columns):
+                value = getattr(item, c.attribute, None)
+                cell = QTableWidgetItem(self.cell_text(c, i, item, value))
+                editable = c.editable and not (c.attribute == "runoff_coefficient" and item.land_covers)
+                if not editable:
+                    cell.setFlags(cell.flags() & ~Qt.ItemFlag.ItemIsEditable)
+                    cell.setForeground(QBrush(QColor("#5f6870")))
+                cell.setTextAlignment((Qt.AlignmentFlag.AlignRight if c.quantity or c.attribute in (
+                    "runoff_coefficient",) else Qt.AlignmentFlag.AlignLeft) | Qt.AlignmentFlag.AlignVCenter)
+                cell.setToolTip(self.cell_tip(c, i, item))
+                t.setItem(i, j, cell)
+        t.blockSignals(False)
+        self.clear_marks()
+        rows = min(len(seq), 6)
+        t.setFixedHeight(t.horizontalHeader().sizeHint().height() + rows * 24 + 4)
+
+    def cell_text(self, c: Column, row: int, item, value) -> str:
+        if c.attribute == "cost_unit":
+            return self.cost_unit(row)
+        if c.attribute == "runoff_coefficient" and item.land_covers:
+            return "weighted"
+        if c.attribute == "key":
+            return self.catalogue.get(value).name if value in self.catalogue else value
+        if c.attribute == "unit_cost" and value is None:
+            return ""
+        return self.shown(c, row, value)
+
+    def cell_tip(self, c: Column, row: int, item) -> str:
+        if c.attribute == "runoff_coefficient" and item.land_covers:
+            return "C is weighted by area over the sub-area's land covers (edit them in the project file)."
+        if c.attribute == "unit_cost":
+            default = None
+            if item.key in self.catalogue:
+                default = self.catalogue.get(item.key).unit_cost
+            unit = self.cost_unit(row)
+            where = (f"empty: the catalogue's {format_number(self.cost_from_si(row, default))} {unit}"
+                     if default is not None else "the catalogue has no price for it")
+            return f"Price per unit of this lining, in {unit} ({where})."
+        if c.attribute in ("station", "from_station"):
+            return "A station as a distance along the road, e.g. 180 for 0+180."
+        if c.attribute == "key":
+            name = self.cell_text(c, row, item, item.key)
+            if item.d50 is not None:
+                name += (f", stone size D50 {format_number(float(self.units.from_si('small_length', item.d50)))} "
+                         f"{self.units.label('small_length')}")
+            return name
+        if c.attribute == "name":
+            return item.name
+        return ""
+
+    # -- marks ------------------------------------------------------------------------------
+    def clear_marks(self) -> None:
+        self.marked.clear()
+        self._paint()
+
+    def mark(self, row: int, col: int, message: str) -> None:
+        self.marked = {(row, col): message}
+        self._paint()
+
+    def _paint(self) -> None:
+        t = self.table
+        t.blockSignals(True)
+        for i in range(t.rowCount()):
+            for j in range(t.columnCount()):
+                item = t.item(i, j)
+                if item is not None:
+                    item.setBackground(QColor("#fde8e8") if (i, j) in self.marked else QColor(0, 0, 0, 0))
+        t.blockSignals(False)
+        text = next(iter(self.marked.values()), "")
+        self.message.setText(text)
+        self.message.setVisible(bool(text))
+        set_invalid(self.table, bool(text))
+
+    def column_of(self, attribute: str) -> int:
+        return next((j for j, c in enumerate(self.columns) if c.attribute == attribute), -1)
+
+    # -- reading -----------------------------------------------------------------------------
+    def _changed(self, item: QTableWidgetItem) -> None:
+        row, col = item.row(), item.column()
+        c = self.columns[col]
+        path = item_path(self.items, row, c.attribute)
+        try:
+            value = self.read(c, row, item.text())
+        except ValueError as exc:
+            self.mark(row, col, str(exc))
+            self.refused.emit(path, str(exc))
+            return
+        if (row, col) in self.marked:
+            self.clear_marks()
+        self.edited.emit(path, value, f"Change {self.describe(c, row)}")
+
+    def describe(self, c: Column, row: int) -> str:
+        if self.items == "sub_areas":
+            what = f"sub-area '{self.run.sub_areas[row].name}'"
+        else:
+            what = f"{'grade point' if self.items == 'profile' else 'candidate'} {row + 1}"
+        return f"{c.heading.lower()} of {what}"
+
+    def read(self, c: Column, row: int, text: str):
+        """The SI value of ``text`` typed in column ``c`` of ``row``; ValueError with the reason in words."""
+        where = self.describe(c, row)
+        where = where[:1].upper() + where[1:]
+        if not text.strip():
+            if c.optional:
+                return None
+            raise ValueError(f"{where} is needed.")
+        try:
+            shown = parse_number(text)
+        except UnclearNumber as exc:
+            raise ValueError(f"{where}: {exc}") from None
+        except ValueError:
+            raise ValueError(f"{where}: '{text.strip()}' is not a number.") from None
+        unit = ""
+        if c.quantity == "cost":
+            value, unit = self.cost_to_si(row, shown), f" {self.cost_unit(row)}"
+        elif c.quantity:
+            value, unit = float(self.units.to_si(c.quantity, shown)), f" {pretty(self.units.label(c.quantity))}"
+        else:
+            value = shown
+        low, high = c.low, c.high
+        if c.attribute in ("station", "from_station"):
+            low, high = self.station_limits(c, row)
+        if low is not None and (value < low or (value == low and not c.low_inclusive)):
+            raise ValueError(f"{where} must be {'≥' if c.low_inclusive else '>'} {self.limit_text(c, row, low)}"
+                             f"{unit}; {text.strip()} is outside.")
+        if high is not None and value > high:
+            raise ValueError(f"{where} must be ≤ {self.limit_text(c, row, high)}{unit}; {text.strip()} is outside.")
+        return value
+
+    def limit_text(self, c: Column, row: int, value: float) -> str:
+        if c.quantity == "cost":
+            return format_number(self.cost_from_si(row, value))
+        return format_number(float(self.units.from_si(c.quantity, value))) if c.quantity else format_number(value)
+
+    def station_limits(self, c: Column, row: int):
+        """Allowed stations: a grade point between its neighbours (stations increase down the list), an entry
+        within the run."""
+        stations = [p.station for p in self.run.profile]
+        if c.attribute == "from_station":
+            return min(stations), max(stations)
+        low = stations[row - 1] if row > 0 else None
+        high = stations[row + 1] if row + 1 < len(stations) else None
+        return (low, high)
+
+
+PROFILE_COLUMNS = (Column("station", "Station", "length"), Column("elevation", "Invert elevation", "length"))
+CANDIDATE_COLUMNS = (Column("key", "Lining", editable=False),
+                     Column("unit_cost", "Unit cost", "cost", low=0.0, optional=True),
+                     Column("cost_unit", "per", editable=False))
+SUB_AREA_COLUMNS = (Column("name", "Sub-area", editable=False),
+                    Column("area", "Area", "drainage_area", low=0.0, low_inclusive=False),
+                    Column("runoff_coefficient", "C", "", low=0.0, high=1.0),
+                    Column("from_station", "Enters at", "length"))
+#: Columns that take the room left; the others are as wide as their contents.
+WIDE = ("key", "name")
+
+
+class RunInputs(QScrollArea):
+    """The runs of the project, and the editable lists of the one shown."""
+
+    run_picked = Signal(int)
+
+    def __init__(self, parent=None):
+        super().__init__(parent)
+        self.setWidgetResizable(True)
+        self.setHorizontalScrollBarPolicy(Qt.ScrollBarPolicy.ScrollBarAlwaysOff)
+        self.setFrameShape(QFrame.Shape.NoFrame)
+        body = QWidget()
+        body.setObjectName("inputBody")
+        lay = QVBoxLayout(body)
+        lay.setContentsMargins(10, 6, 10, 8)
+        lay.setSpacing(8)
+        heading = QLabel("Ditch runs in this project")
+        heading.setObjectName("subheading")
+        self.run_list = QListWidget()
+        self.run_list.setObjectName("runs")
+        self.run_list.setMaximumHeight(48)
+        self.run_list.currentRowChanged.connect(lambda r: r >= 0 and self.run_picked.emit(r))
+        self.summary = QLabel()
+        self.summary.setObjectName("hint")
+        self.summary.setWordWrap(True)
+        lay.addWidget(heading)
+        lay.addWidget(self.run_list)
+        lay.addWidget(self.summary)
+        self.profile = InputTable("profile", PROFILE_COLUMNS, "gradePoints")
+        self.candidates = InputTable("candidates", CANDIDATE_COLUMNS, "candidates")
+        self.sub_areas = InputTable("sub_areas", SUB_AREA_COLUMNS, "subAreas")
+        for title, table, hint in (
+                ("Grade points (invert profile)", self.profile, "Grade breaks along the run; the grade of each "
+                                                                "stretch follows."),
+                ("Candidate linings", self.candidates, "The linings the run may use; the cheapest stable one is "
+                                                       "scheduled."),
+                ("Sub-areas draining in", self.sub_areas, "")):
+            box = QGroupBox(title)
+            bl = QVBoxLayout(box)
+            bl.setContentsMargins(8, 6, 8, 6)
+            bl.setSpacing(4)
+            if hint:
+                h = QLabel(hint)
+                h.setObjectName("hint")
+                h.setWordWrap(True)
+                bl.addWidget(h)
+            bl.addWidget(table)
+            lay.addWidget(box)
+        lay.addStretch(1)
+        self.setWidget(body)
+        self.setMinimumWidth(340)
+
+    def tables(self) -> tuple:
+        return (self.profile, self.candidates, self.sub_areas)
+
+    def fill_runs(self, names: list, current: int) -> None:
+        self.run_list.blockSignals(True)
+        self.run_list.clear()
+        self.run_list.addItems(names)
+        self.run_list.setCurrentRow(current)
+        self.run_list.blockSignals(False)
+
+    def load(self, run, units: UnitSystem, catalogue) -> None:
+        for t in self.tables():
+            t.load(run, units, catalogue)
+        self.summary.setText(keep_units_whole(
+            f"{format_station(run.profile[0].station, units)} to {format_station(run.profile[-1].station, units)}, "
+            f"{run.return_period:g}-year storm, outfall: {run.outfall.kind or 'not described'} at "
+            f"{format_station(run.outfall.station, units)}."))
+
+    def table_for(self, items: str) -> InputTable:
+        return {"profile": self.profile, "candidates": self.candidates, "sub_areas": self.sub_areas}[items]
+
+
+# -- the results beside ---------------------------------------------------------------------------------
+class RunResultsPanel(QWidget):
+    """The run's verdict, lining schedule with quantities and cost, the total, warnings, notes and the published
+    values not yet verified; greyed while they are the last good ones."""
+
+    def __init__(self, parent=None):
+        super().__init__(parent)
+        scroll = QScrollArea()
+        scroll.setWidgetResizable(True)
+        scroll.setHorizontalScrollBarPolicy(Qt.ScrollBarPolicy.ScrollBarAlwaysOff)
+        scroll.setFrameShape(QFrame.Shape.NoFrame)
+        body = QWidget()
+        body.setObjectName("resultsBody")
+        lay = QVBoxLayout(body)
+        lay.setContentsMargins(12, 10, 12, 10)
+        lay.setSpacing(8)
+        self.verdict = QFrame()
+        self.verdict.setObjectName("verdict")
+        vl = QVBoxLayout(self.verdict)
+        vl.setContentsMargins(12, 8, 12, 8)
+        self.headline = QLabel("—")
+        self.headline.setObjectName("verdictHeadline")
+        self.reason = QLabel()
+        self.reason.setObjectName("verdictReason")
+        self.reason.setWordWrap(True)
+        vl.addWidget(self.headline)
+        vl.addWidget(self.reason)
+        lay.addWidget(self.verdict)
+        self.stale = QLabel()
+        self.stale.setObjectName("staleNote")
+        self.stale.setWordWrap(True)
+        self.stale.hide()
+        lay.addWidget(self.stale)
+        self.body_widgets = []
+
+        def section(title: str, name: str) -> QLabel:
+            head = QLabel(title)
+            head.setObjectName("subheading")
+            text = QLabel()
+            text.setObjectName(name)
+            text.setWordWrap(True)
+            text.setTextFormat(Qt.TextFormat.RichText)
+            text.setTextInteractionFlags(Qt.TextInteractionFlag.TextSelectableByMouse)
+            lay.addWidget(head)
+            lay.addWidget(text)
+            self.body_widgets.append(text)
+            return head, text
+
+        _, self.schedule = section("Lining schedule", "schedule")
+        self.schedule.setObjectName("numbers")
+        _, self.warnings = section("Cautions for this run", "warnings")
+        _, self.notes = section("Method", "runNotes")
+        self.unverified_heading, self.unverified = section(f"{NOT_VERIFIED_TITLE} ({NOT_VERIFIED_MARK})",
+                                                           "unverified")
+        self.unverified_heading.setToolTip("Values recalled from the publication and not yet read in it; the sheet "
+                                           "lists them too. Check each before relying on the result.")
+        lay.addStretch(1)
+        scroll.setWidget(body)
+        self.caution = QLabel(CAUTION)
+        self.caution.setObjectName("caution")
+        self.caution.setWordWrap(True)
+        outer = QVBoxLayout(self)
+        outer.setContentsMargins(0, 0, 0, 8)
+        outer.setSpacing(6)
+        outer.addWidget(scroll, 1)
+        cl = QVBoxLayout()
+        cl.setContentsMargins(12, 0, 12, 0)
+        cl.addWidget(self.caution)
+        outer.addLayout(cl)
+        self.setMinimumWidth(300)
+
+    def set_verdict(self, status: str, headline: str, reason: str) -> None:
+        self.verdict.setProperty("status", status)
+        for w in (self.verdict, self.headline, self.reason):
+            w.style().unpolish(w)
+            w.style().polish(w)
+        self.headline.setText(headline)
+        self.reason.setText(keep_units_whole(reason))
+
+    def show_design(self, design: RunDesign | None, rows: list, units: UnitSystem, problem: str = "") -> None:
+        """Show ``design`` (the last good one when ``problem`` says why the present inputs have none)."""
+        if problem:
+            self.set_verdict("none", "No result for these inputs", problem)
+            self.stale.setText("Showing the last good result, greyed, until the inputs are usable again."
+                               if design is not None else "No result yet.")
+            self.stale.show()
+        else:
+            self.stale.hide()
+        for w in self.body_widgets:
+            w.setEnabled(not problem)
+        if design is None:
+            for w in self.body_widgets:
+                w.setText("")
+            return
+        marks = [row_mark(r) for r in rows]
+        bad = sum(m in ("unstable", "too-shallow") for m in marks)
+        unchecked = [r for r, m in zip(rows, marks) if m == "not-checked" and r.get("flow") not in ("", "0.000")]
+        sched = design.schedule_values(units)
+        if not problem:
+            if bad:
+                self.set_verdict("fail", f"{bad} station{'s' if bad != 1 else ''} fail",
+                                 "No candidate lining is stable there, or the water and its freeboard do not fit the "
+                                 "ditch as built: see the rows marked in the station table and on the profile.")
+            elif unchecked:
+                self.set_verdict("unchecked", f"{len(unchecked)} station{'s' if len(unchecked) != 1 else ''} "
+                                 "not checked", "Stations with flow but no normal depth (zero or adverse grade).")
+            else:
+                self.set_verdict("pass", "Every station stable",
+                                 f"{len(rows)} design points, {len(sched)} lining stretch"
+                                 f"{'es' if len(sched) != 1 else ''}, total {money(design.result.total_cost)}.")
+        L = pretty(units.label("length"))
+        items = []
+        for s in sched:
+            a = format_station(units.to_si("length", s["from_station"]), units)
+            b = format_station(units.to_si("length", s["to_station"]), units)
+            qty = "".join(f"<br>&nbsp;&nbsp;{_escape(q['item'])}: {q['amount']:,.1f}&nbsp;{pretty(q['unit'])}"
+                          for q in s["quantities"])
+            items.append(f"<p style='margin:0 0 6px 0'><b>{a} to {b}</b>, {s['length']:,.2f}&nbsp;{L}<br>"
+                         f"{_escape(s['lining_name'])}{qty}<br>cost <b>{money(s['cost'])}</b></p>")
+        items.append(f"<p style='margin:2px 0 0 0'><b>Total cost {money(design.result.total_cost)}</b></p>")
+        self.schedule.setText("".join(items))
+        self.warnings.setText(bullets([in_units(w, units) for w in design.warnings]) or "None from the checks made.")
+        self.notes.setText(bullets([in_units(n, units) for n in design.notes]))
+        unverified = [in_units(n, units) for n in design.not_verified]
+        self.unverified.setText(bullets(unverified))
+        self.unverified.setVisible(bool(unverified))
+        self.unverified_heading.setVisible(bool(unverified))
+
+
+def money(value: float) -> str:
+    """A cost as the command line writes it: "$ 12,345", "no price" when there is none."""
+    return "no price" if value != value else f"$\u00a0{value:,.0f}"
+
+
+def bullets(lines: list) -> str:
+    if not lines:
+        return ""
+    items = "".join(f"<li>{_escape(sentence(w[:1].upper() + w[1:]))}</li>" for w in lines)
+    return f"<ul style='margin-left:-24px'>{items}</ul>"
+
+
+# -- the view ---------------------------------------------------------------------------------------------
+_ITEM = re.compile(r"(profile|candidates|sub_areas)\[(\d+)\]\.([a-z_]+)")
+
+
+class RunView(QWidget):
+    """Inputs | profile over station table | schedule and cautions, for one run of the document's project."""
+
+    status_message = Signal(str)
+    open_channel = Signal(str)     # the name of a channel just opened from a station
+
+    def __init__(self, doc: ProjectDocument, open_action: QAction | None = None, can_draw=lambda: True, parent=None):
+        """``open_action``: the window's action that opens the selected station as a channel (made here when
+        none is given); ``can_draw``: whether matplotlib may draw now."""
+        super().__init__(parent)
+        self.doc = doc
+        self.can_draw = can_draw
+        self.current = 0
+        self.design: RunDesign | None = None        # the result of the inputs as they are, or None
+        self.last_good: RunDesign | None = None
+        self.values: list[dict] = []                 # station_values of what is shown
+        self.problem = ""                            # why the inputs as they are have no result
+        self.refusals: dict[str, str] = {}           # path -> message, entries refused in the tables
+        self.task: Task | None = None
+        self._computing = None                       # (revision, run index) being computed
+        self._dirty_picture = True
+
+        self.inputs = RunInputs()
+        self.inputs.run_picked.connect(self.pick_run)
+        for t in self.inputs.tables():
+            t.edited.connect(self._edited)
+            t.refused.connect(self._refused)
+
+        self.picture = ProfilePicture()
+        self.picture.canvas.setMinimumHeight(220)
+        self.picture.canvas.mpl_connect("button_press_event", self._profile_clicked)
+        self.table = QTableView()
+        self.table.setObjectName("stationTable")
+        self.model = StationTableModel(self)
+        self.table.setModel(self.model)
+        self.table.setSelectionBehavior(QAbstractItemView.SelectionBehavior.SelectRows)
+        self.table.setSelectionMode(QAbstractItemView.SelectionMode.SingleSelection)
+        self.table.setAlternatingRowColors(False)
+        self.table.verticalHeader().setDefaultSectionSize(22)
+        self.table.horizontalHeader().setDefaultAlignment(Qt.AlignmentFlag.AlignCenter)
+        self.table.horizontalHeader().setSectionResizeMode(QHeaderView.ResizeMode.Interactive)
+        self.table.setWordWrap(False)
+        self.table.setContextMenuPolicy(Qt.ContextMenuPolicy.CustomContextMenu)
+        self.table.customContextMenuRequested.connect(self._table_menu)
+        self.table.selectionModel().currentRowChanged.connect(self._row_picked)
+        self.table.doubleClicked.connect(lambda _i: None)
+
+        if open_action is None:
+            open_action = QAction("&Open station as a channel", self)
+            open_action.setShortcut(QKeySequence(OPEN_STATION_KEY))
+            open_action.triggered.connect(self.open_selected_station)
+            self.addAction(open_action)
+        self.open_action = open_action
+        self.open_button = QPushButton(f"Open station as a channel  ({OPEN_STATION_KEY})")
+        self.open_button.setObjectName("openStation")
+        self.open_button.clicked.connect(self.open_selected_station)
+        self.busy = QLabel()
+        self.busy.setObjectName("hint")
+        table_head = QLabel("Stations")
+        table_head.setObjectName("subheading")
+        row = QHBoxLayout()
+        row.setContentsMargins(8, 2, 8, 0)
+        row.addWidget(table_head)
+        row.addWidget(self.busy, 1)
+        row.addWidget(self.open_button)
+        lower = QWidget()
+        ll = QVBoxLayout(lower)
+        ll.setContentsMargins(0, 0, 0, 0)
+        ll.setSpacing(3)
+        ll.addLayout(row)
+        ll.addWidget(self.table, 1)
+        self.middle = QSplitter(Qt.Orientation.Vertical)
+        self.middle.setObjectName("runMiddle")
+        self.middle.addWidget(self.picture.canvas)
+        self.middle.addWidget(lower)
+        self.middle.setStretchFactor(0, 5)
+        self.middle.setStretchFactor(1, 4)
+        self.middle.setChildrenCollapsible(False)
+        self.middle.setSizes([440, 360])
+        lower.setMinimumHeight(150)
+
+        self.results = RunResultsPanel()
+        self.splitter = QSplitter(Qt.Orientation.Horizontal)
+        self.splitter.setObjectName("runSplitter")
+        self.splitter.addWidget(self.inputs)
+        self.splitter.addWidget(self.middle)
+        self.splitter.addWidget(self.results)
+        self.splitter.setStretchFactor(0, 0)
+        self.splitter.setStretchFactor(1, 1)
+        self.splitter.setStretchFactor(2, 0)
+        self.splitter.setSizes([380, 740, 320])
+        self.splitter.setChildrenCollapsible(False)
+        lay = QVBoxLayout(self)
+        lay.setContentsMargins(0, 0, 0, 0)
+        lay.addWidget(self.splitter)
+        self.setFocusProxy(self.table)
+        self.picture.canvas.mpl_connect("resize_event", lambda _e: self._redraw_if_shown())
+
+        doc.reset.connect(self.reload)
+        doc.units_changed.connect(self._units_changed)
+        doc.run_changed.connect(self._run_changed)
+        self.reload()
+
+    # -- which run --------------------------------------------------------------------------
+    @property
+    def run(self):
+        runs = self.doc.project.runs
+        return runs[self.current] if 0 <= self.current < len(runs) else None
+
+    def reload(self, *_signal_args) -> None:
+        """Another project (or a first look): start again from the document."""
+        self.current = min(self.current, max(len(self.doc.project.runs) - 1, 0))
+        self.design = self.last_good = None
+        self.values, self.problem = [], ""
+        self.refusals.clear()
+        self.inputs.fill_runs([r.name for r in self.doc.project.runs], self.current)
+        self._load_inputs()
+        self.compute()
+
+    def pick_run(self, index: int) -> None:
+        if index != self.current and 0 <= index < len(self.doc.project.runs):
+            self.current = index
+            self.design = self.last_good = None
+            self.refusals.clear()
+            self._load_inputs()
+            self.compute()
+
+    def _load_inputs(self) -> None:
+        if self.run is not None:
+            self.inputs.load(self.run, self.doc.units, self.doc.context.catalogue)
+
+    def _run_changed(self, index: int) -> None:
+        if index != self.current:
+            self.current = index
+            self.inputs.fill_runs([r.name for r in self.doc.project.runs], index)
+        self.refusals.clear()
+        self._load_inputs()
+        self.compute()
+
+    def _units_changed(self) -> None:
+        self._load_inputs()
+        self.show_result()
+
+    # -- edits ------------------------------------------------------------------------------------
+    def _edited(self, path: str, value, text: str) -> None:
+        run = self.run
+        self.refusals.pop(path, None)
+        if run_value(run, path) == value:
+            self.show_result()
+            return
+        self.doc.edit_run(self.current, with_run_value(run, path, value), text)
+
+    def _refused(self, path: str, message: str) -> None:
+        self.refusals[path] = message
+        self.show_result()
+
+    # -- computing --------------------------------------------------------------------------------
+    def compute(self) -> None:
+        """Solve the run as it is in the document, in a worker thread; a newer change solves again after."""
+        if self.run is None:
+            self.show_result()
+            return
+        if self.task is not None:
+            return                       # _finished looks at the revision and starts again
+        project = copy.deepcopy(self.doc.project)
+        index = self.current
+        catalogue = self.doc.context.catalogue
+        self._computing = (self.doc.revision, index)
+
+        def work(_progress):
+            return design_run(project, project.runs[index], catalogue)
+
+        self.task = Task(work, self)
+        self.task.succeeded.connect(self._solved)
+        self.task.failed.connect(self._not_solved)
+        self.task.finished.connect(self._finished)
+        self.busy.setText("computing…")
+        self.task.start()
+
+    def _current(self) -> bool:
+        return self._computing == (self.doc.revision, self.current)
+
+    def _solved(self, design: RunDesign) -> None:
+        if self._current():
+            self.design = self.last_good = design
+            self.problem = ""
+            self.show_result()
+
+    def _not_solved(self, exc: BaseException) -> None:
+        if not self._current():
+            return
+        if not isinstance(exc, (hy.InputError, hy.NoSolutionError, hy.ConvergenceError)):
+            self.problem = f"The run could not be computed: {type(exc).__name__}: {exc}"
+        else:
+            self.problem = sentence(exc) if isinstance(exc, hy.InputError) else sentence(f"No solution: {exc}")
+        self.design = None
+        m = _ITEM.search(getattr(exc, "field", "") or "")
+        if m is not None and isinstance(exc, hy.InputError):
+            table = self.inputs.table_for(m.group(1))
+            col = table.column_of(m.group(3))
+            if col >= 0:
+                table.mark(int(m.group(2)), col, self.problem)
+        self.show_result()
+
+    def _finished(self) -> None:
+        task, self.task = self.task, None
+        if task is not None:
+            task.deleteLater()
+        if not self._current():
+            self.compute()
+        else:
+            self.busy.setText("")
+
+    @property
+    def idle(self) -> bool:
+        """No computation running or due (tests wait for this)."""
+        return self.task is None and (self.run is None or self._current())
+
+    def stop(self) -> None:
+        """Let a running computation end (the window is closing)."""
+        if self.task is not None:
+            self.task.wait()
+
+    # -- showing ----------------------------------------------------------------------------------
+    @property
+    def complaint(self) -> str:
+        """Why what is shown is not the result of the inputs as typed ("" when it is)."""
+        return next(iter(self.refusals.values()), "") or self.problem
+
+    def show_result(self) -> None:
+        shown = self.design if not self.complaint else self.last_good
+        units = self.doc.units
+        stale = bool(self.complaint)
+        if shown is None:
+            self.values = []
+            self.model.set_rows([], units, {})
+            self.results.show_design(None, [], units, self.complaint or ("This project has no ditch runs."
+                                                                          if self.run is None else ""))
+            if self.run is not None and not self.complaint:
+                self.results.set_verdict("none", "Computing…", "The run is being solved.")
+            self.open_button.setEnabled(False)
+            self._dirty_picture = True
+            self._draw()
+            return
+        rows = shown.station_rows(units)
+        self.values = shown.station_values(units)
+        names = {s["lining"]: s["lining_name"] for s in shown.schedule_values(units)}
+        selected = self.selected_row()
+        self.model.set_rows(rows, units, names)
+        self.model.set_stale(stale)
+        self._size_columns()
+        if selected is not None and selected < len(rows):
+            self.table.selectRow(selected)
+        self.results.show_design(shown, rows, units, self.complaint)
+        self.open_button.setEnabled(not stale)
+        self._dirty_picture = True
+        self._draw()
+
+    def _size_columns(self) -> None:
+        h = self.table.horizontalHeader()
+        self.table.resizeColumnsToContents()
+        for j, key in enumerate(STATION_COLUMNS):
+            if key in ("lining", "dimensions"):
+                h.resizeSection(j, min(h.sectionSize(j), 220))
+
+    def _redraw_if_shown(self) -> None:
+        if self.picture.model is not None and self.isVisible():
+            self._dirty_picture = True
+            self._draw()
+
+    def showEvent(self, event) -> None:
+        super().showEvent(event)
+        self._draw()
+
+    def _draw(self) -> None:
+        """Redraw the profile when it is in view and matplotlib is free (a sheet export draws in its thread)."""
+        if not self._dirty_picture or not self.isVisible() or not self.can_draw():
+            return
+        self._dirty_picture = False
+        shown = self.design if not self.complaint else self.last_good
+        if shown is not None:
+            self.picture.update(profile_model(shown, self.doc.units))
+            self._mark_selected()
+            if self.complaint:
+                self.picture.fade(True, "Last good result: " + ("fix the marked input" if self.refusals
+                                                                else "no result for these inputs"))
+        elif self.picture.model is not None:
+            self.picture.fade(True, "No result for these inputs")
+        self.picture.canvas.draw_idle()
+
+    def redraw(self) -> None:
+        """Draw what waited for a sheet export."""
+        self._dirty_picture = True
+        self._draw()
+
+    # -- stations -------------------------------------------------------------------------------------
+    def selected_row(self) -> int | None:
+        index = self.table.selectionModel().currentIndex()
+        return index.row() if index.isValid() else None
+
+    def _row_picked(self, current, _previous) -> None:
+        self._mark_selected()
+        self.picture.canvas.draw_idle()
+
+    def _mark_selected(self) -> None:
+        row = self.selected_row()
+        if row is None or row >= len(self.values):
+            self.picture.show_station(None)
+        else:
+            self.picture.show_station(self.values[row]["station"], self.model.text(row, "station"))
+
+    def _profile_clicked(self, event) -> None:
+        """A click on the profile picks the nearest design point in the table."""
+        if event.inaxes is not self.picture.ax or event.xdata is None or not self.values:
+            return
+        row = min(range(len(self.values)), key=lambda i: abs(self.values[i]["station"] - event.xdata))
+        self.table.selectRow(row)
+        self.table.scrollTo(self.model.index(row, 0))
+
+    def _table_menu(self, pos) -> None:
+        index = self.table.indexAt(pos)
+        if not index.isValid():
+            return
+        self.table.selectRow(index.row())
+        menu = QMenu(self)
+        menu.addAction(self.open_action)
+        menu.exec(self.table.viewport().mapToGlobal(pos))
+        menu.removeAction(self.open_action)
+        menu.deleteLater()
+
+    def open_selected_station(self) -> str | None:
+        """Add the selected station as a channel of the project (one undoable step); returns its name."""
+        row = self.selected_row()
+        if row is None:
+            self.status_message.emit("Choose a station in the table first.")
+            return None
+        return self.open_station(row)
+
+    def open_station(self, row: int) -> str | None:
+        design = self.design
+        if not self.idle:
+            self.status_message.emit("The run is still being computed; open the station when it is done.")
+            return None
+        if design is None or self.complaint:
+            self.status_message.emit("The run has no result for its inputs as they are; fix the marked input first.")
+            return None
+        units = self.doc.units
+        where = self.model.text(row, "station")
+        try:
+            channel = station_channel(design, row, f"{design.run.name} at {where}", units)
+        except StationNotOpenable as exc:
+            self.status_message.emit(str(exc))
+            return None
+        name = self.doc.add_channel_from(channel, f"Open station {where} of '{design.run.name}' as a channel")
+        self.status_message.emit(f"Opened station {where} as the channel '{name}'. Undo removes it again.")
+        self.open_channel.emit(name)
+        return name
+
+
+__all__ = ["RunView", "StationTableModel", "RunInputs", "RunResultsPanel", "STATION_COLUMNS", "column_heading",
+           "row_mark"]

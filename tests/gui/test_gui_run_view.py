@@ -1,0 +1,268 @@
+"""The run view of the window on the demo's invented run: stations, profile, edits with undo, refusals, a station
+opened as a channel, keyboard and room on small screens.
+
+The numbers checked come from the Qt-free layer (app.run_design, app.run_drawing, app.evaluate): what the window
+shows must be exactly what that layer gives, which is checked against published examples in tests/test_run_*.
+"""
+
+import re
+
+import numpy as np
+import pytest
+from PySide6.QtCore import Qt
+from PySide6.QtGui import QColor
+from PySide6.QtWidgets import QLabel
+
+import hydraulics as hy
+from app import project as pj
+from app.evaluate import evaluate_channel
+from app.run_design import design_run
+from app.run_drawing import profile_model
+
+WAIT = 60000    # the demo run takes a few seconds to solve in the worker thread
+
+
+def shown(w, qtbot):
+    """Show the run page of ``w`` and wait for its result."""
+    w.show_runs()
+    view = w.run_view
+    qtbot.waitUntil(lambda: view.idle and view.design is not None, timeout=WAIT)
+    return view
+
+
+def settle(view, qtbot):
+    qtbot.waitUntil(lambda: view.idle, timeout=WAIT)
+
+
+def cell(view, row, key):
+    from app.gui.run_view import STATION_COLUMNS
+    return view.model.index(row, STATION_COLUMNS.index(key)).data()
+
+
+def type_in(table, row, col, text):
+    """Enter ``text`` in a cell of an input table as an edit (the table's itemChanged)."""
+    table.table.item(row, col).setText(text)
+
+
+@pytest.fixture
+def demo_design(demo_window):
+    project = demo_window.doc.project
+    return design_run(project, project.runs[0], demo_window.doc.context.catalogue)
+
+
+def test_the_window_starts_without_the_run_view(demo_window):
+    assert demo_window.run_view is None and demo_window.runs_action.isEnabled()
+
+
+def test_the_view_shows_every_station_of_the_demo_run(demo_window, qtbot, demo_design):
+    w = demo_window
+    view = shown(w, qtbot)
+    units = w.doc.units
+    rows = demo_design.station_rows(units)
+    assert view.model.rowCount() == len(demo_design.result.points) == len(rows)
+    assert cell(view, 0, "station") == "0+000.00" == rows[0]["station"]
+    assert cell(view, len(rows) - 1, "station") == "0+700.00" == rows[-1]["station"]
+    for key in ("flow", "normal_depth", "bed_shear", "freeboard"):
+        assert [cell(view, i, key) for i in range(len(rows))] == [r[key] for r in rows]
+    # headings carry their units; the first point, with no flow yet, is marked in words and colour
+    from app.gui.run_view import STATION_COLUMNS
+    head = view.model.headerData(STATION_COLUMNS.index("flow"), Qt.Orientation.Horizontal)
+    assert head == "Design flow\n[m³/s]"
+    assert cell(view, 0, "check") == "Not checked"
+    assert view.model.index(0, 0).data(Qt.ItemDataRole.BackgroundRole).color() == QColor("#fff6e0")
+    assert cell(view, 20, "check") == "Stable"
+    # the schedule with its total, and the cautions, beside
+    assert "Total cost $\u00a054,544" in view.results.schedule.text() or "Total cost" in view.results.schedule.text()
+    total = f"{demo_design.result.total_cost:,.0f}"
+    assert total in view.results.schedule.text()
+    assert "Kirpich" in view.results.warnings.text()
+    assert view.results.unverified.isVisible()
+
+
+def test_the_profile_draws_the_drawing_model(demo_window, qtbot, demo_design):
+    w = demo_window
+    view = shown(w, qtbot)
+    model = profile_model(demo_design, w.doc.units)
+    for name, line in view.picture.lines.items():
+        x, y = line.get_data()
+        np.testing.assert_array_equal(np.asarray(x), model.lines[name].x)
+        np.testing.assert_array_equal(np.asarray(y), model.lines[name].y)
+    assert view.picture.lines["critical"].get_linestyle() == ":"    # the critical-depth line dotted
+    texts = [t.get_text() for t in view.picture.ax.texts]
+    assert [t.get_text() for t in view.picture.ax.get_xticklabels()] == [t for _, t in model.ticks]
+    assert any("Concrete" in t for t in texts)                    # a lining stretch labelled in its band
+    assert any("Farmyard pipe" in t for t in texts)               # an inflow
+    assert any("grade 3.00 %" in t for t in texts)                # a grade label
+    # a station picked in the table is marked on the profile
+    view.table.selectRow(12)
+    assert view.picture.cursor.get_visible() and view.picture.cursor.get_xdata()[0] == model.lines["invert"].x[12]
+
+
+def test_editing_a_grade_point_recomputes_and_undo_restores(demo_window, qtbot):
+    w = demo_window
+    view = shown(w, qtbot)
+    before = [cell(view, i, "slope") for i in range(view.model.rowCount())]
+    depth_before = cell(view, 30, "normal_depth")
+    row = 3                                                       # the grade point at 0+520
+    col = view.inputs.profile.column_of("elevation")
+    type_in(view.inputs.profile, row, col, "46")                  # from 45.28 m: a flatter stretch above, steeper below
+    assert w.doc.project.runs[0].profile[row].elevation == 46.0
+    assert w.doc.undo_stack.count() == 1
+    settle(view, qtbot)
+    after = [cell(view, i, "slope") for i in range(view.model.rowCount())]
+    assert after != before and cell(view, 30, "normal_depth") != depth_before
+    w.undo_action.trigger()
+    assert w.doc.project.runs[0].profile[row].elevation == pytest.approx(45.28)
+    settle(view, qtbot)
+    assert [cell(view, i, "slope") for i in range(view.model.rowCount())] == before
+    assert view.inputs.profile.table.item(row, col).text() == "45.28"
+
+
+@pytest.mark.parametrize("table, attribute, text, words", [
+    ("sub_areas", "runoff_coefficient", "1.5", "must be ≤ 1"),
+    ("sub_areas", "area", "-2", "must be > 0"),
+    ("profile", "station", "600", "must be ≤ 520"),              # beyond the next grade point
+    ("candidates", "unit_cost", "abc", "is not a number"),
+])
+def test_a_bad_value_is_refused_with_the_field_marked_and_the_old_table_greyed(demo_window, qtbot, table, attribute,
+                                                                              text, words):
+    w = demo_window
+    view = shown(w, qtbot)
+    run_before = pj.dumps(w.doc.project)
+    rows_before = [cell(view, i, "flow") for i in range(view.model.rowCount())]
+    t = view.inputs.table_for(table)
+    col = t.column_of(attribute)
+    type_in(t, 0 if table != "profile" else 2, col, text)
+    assert pj.dumps(w.doc.project) == run_before and w.doc.undo_stack.count() == 0   # the document is unchanged
+    assert words in t.message.text() and t.message.isVisible()
+    assert t.marked and t.table.item(*next(iter(t.marked))).background().color() == QColor("#fde8e8")
+    assert view.model.stale and view.model.rowCount() == len(rows_before)           # the last good table, greyed
+    assert [cell(view, i, "flow") for i in range(view.model.rowCount())] == rows_before
+    assert view.model.index(5, 2).data(Qt.ItemDataRole.ForegroundRole).color() == QColor("#a3a9ae")
+    assert view.results.stale.isVisible() and "No result" in view.results.headline.text()
+    assert not view.open_button.isEnabled()
+
+
+def test_a_value_the_core_refuses_marks_its_cell_and_greys_the_result(demo_window, qtbot):
+    w = demo_window
+    view = shown(w, qtbot)
+    flows = [cell(view, i, "flow") for i in range(view.model.rowCount())]
+    t = view.inputs.candidates
+    col = t.column_of("unit_cost")
+    type_in(t, 1, col, "")             # riprap's price left to the shipped catalogue, which has none
+    settle(view, qtbot)
+    assert w.doc.project.runs[0].candidates[1].unit_cost is None       # taken (undoable), then refused by the run
+    assert "candidates[1].unit_cost: is missing for Rock riprap" in view.complaint
+    assert t.marked == {(1, col): view.complaint} and t.message.isVisible()
+    assert view.model.stale and [cell(view, i, "flow") for i in range(view.model.rowCount())] == flows
+    w.undo_action.trigger()
+    settle(view, qtbot)
+    assert not view.complaint and not view.model.stale and not t.marked
+    assert t.table.item(1, col).text() == "95"
+
+
+def test_moving_a_sub_area_recomputes(demo_window, qtbot):
+    w = demo_window
+    view = shown(w, qtbot)
+    before = cell(view, 30, "flow")
+    t = view.inputs.sub_areas
+    type_in(t, 2, t.column_of("from_station"), "700")             # the woodlot enters at the outfall instead
+    settle(view, qtbot)
+    assert not view.complaint and view.design.run.sub_areas[2].from_station == 700.0
+    assert cell(view, 30, "flow") != before
+    w.undo_action.trigger()
+    settle(view, qtbot)
+    assert cell(view, 30, "flow") == before
+
+
+def test_a_station_opens_as_a_channel_with_the_same_depth(demo_window, qtbot, demo_design):
+    w = demo_window
+    view = shown(w, qtbot)
+    count = len(w.doc.project.channels)
+    row = 12                                                       # 0+180.00, on the riprap stretch
+    view.table.selectRow(row)
+    view.table.setFocus()
+    qtbot.keyClick(view.table, Qt.Key.Key_O, Qt.KeyboardModifier.ControlModifier | Qt.KeyboardModifier.ShiftModifier)
+    assert len(w.doc.project.channels) == count + 1
+    ch = w.doc.channel()
+    assert ch.name == "North verge ditch at 0+180.00" and w.pages.currentWidget() is w.splitter
+    assert ch.lining.key == "riprap" and w.doc.current == count
+    station = demo_design.station_values(hy.units.SI)[row]
+    design = evaluate_channel(ch, w.doc.context.catalogue)
+    assert design.analysis.normal_depth == pytest.approx(station["normal_depth"], rel=1e-12)
+    assert design.flow == pytest.approx(station["flow"], rel=1e-12)
+    assert w.evaluation.ok and w.tabs.currentIndex() == 0          # its cross-section and results are in view
+    w.undo_action.trigger()                                        # one step undoes it
+    assert len(w.doc.project.channels) == count
+
+
+def test_a_station_without_flow_is_not_opened(demo_window, qtbot, dialogs):
+    w = demo_window
+    view = shown(w, qtbot)
+    count = len(w.doc.project.channels)
+    assert view.open_station(0) is None
+    assert len(w.doc.project.channels) == count
+    assert "no flow has reached" in w.statusBar().currentMessage()
+
+
+def test_the_run_view_is_reached_by_keyboard(demo_window, qtbot):
+    w = demo_window
+    w.inputs.fields["slope"].edit.setFocus()
+    qtbot.keyClick(w.inputs.fields["slope"].edit, Qt.Key.Key_5, Qt.KeyboardModifier.ControlModifier)
+    assert w.run_view is not None and w.pages.currentWidget() is w.run_view
+    qtbot.waitUntil(lambda: w.run_view.table.hasFocus(), timeout=2000)
+    settle(w.run_view, qtbot)
+    qtbot.keyClick(w.run_view.table, Qt.Key.Key_1, Qt.KeyboardModifier.ControlModifier)
+    assert w.pages.currentWidget() is w.splitter and w.tabs.currentIndex() == 0
+    for key, action in (("Ctrl+5", w.runs_action), ("Ctrl+Shift+O", w.open_station_action)):   # no clash
+        users = [a for a in w.findChildren(type(action)) if any(s.toString() == key for s in a.shortcuts())]
+        assert users == [action], key
+
+
+def test_units_change_restates_the_table(demo_window, qtbot, demo_design):
+    w = demo_window
+    view = shown(w, qtbot)
+    w.doc.set_units("us")
+    rows = demo_design.station_rows(hy.units.US)
+    assert cell(view, 12, "station") == rows[12]["station"] and cell(view, 12, "flow") == rows[12]["flow"]
+    assert view.inputs.profile.table.horizontalHeaderItem(0).text() == "Station [ft]"
+
+
+def labels_fit(root):
+    for lab in root.findChildren(QLabel):
+        if not lab.isVisible() or not lab.text() or lab.width() == 0 or lab.wordWrap():
+            continue
+        assert lab.width() >= lab.minimumSizeHint().width(), (lab.objectName(), lab.text())
+
+
+@pytest.mark.parametrize("units", ["si", "us"])
+def test_the_run_view_fits_1366_by_768(demo_window, qtbot, units):
+    w = demo_window
+    w.doc.set_units(units)
+    w.resize(1366, 768)
+    view = shown(w, qtbot)
+    qtbot.wait(50)
+    assert w.width() <= 1366 and w.height() <= 768
+    labels_fit(view)
+    assert view.picture.canvas.height() >= 250 and view.picture.canvas.width() >= 500
+    assert view.table.viewport().height() >= 6 * 22                 # six stations at least
+    for t in view.inputs.tables():                                   # every input column readable
+        header = t.table.horizontalHeader()
+        for j in range(t.table.columnCount()):
+            assert header.sectionSize(j) >= 40, (t.table.objectName(), j)
+        assert sum(header.sectionSize(j) for j in range(t.table.columnCount())) <= t.table.viewport().width() + 1
+
+
+def test_the_run_view_fits_1024_by_640(demo_window, qtbot):
+    from app.gui.run_view import RunView
+    view = RunView(demo_window.doc)
+    qtbot.addWidget(view)
+    view.resize(1024, 640)
+    view.show()
+    qtbot.waitUntil(lambda: view.idle and view.design is not None, timeout=WAIT)
+    qtbot.wait(50)
+    hint = view.minimumSizeHint()
+    assert hint.width() <= 1024 and hint.height() <= 640
+    labels_fit(view)
+    assert view.picture.canvas.height() >= 200 and view.table.viewport().height() >= 4 * 22
+    assert all(re.fullmatch(r"\d\+\d{3}\.\d\d", t.get_text()) for t in view.picture.ax.get_xticklabels())
