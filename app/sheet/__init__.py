@@ -19,7 +19,7 @@ from __future__ import annotations
 
 import os
 
-from hydraulics.errors import HydraulicsError
+from hydraulics.errors import HydraulicsError, InputError
 
 from ..files import write_atomic
 from .content import ChannelSheet, channel_sheet
@@ -80,7 +80,9 @@ def sheet_pdf(project, channels=None, page: str = "letter", catalogue=None, runs
         try:
             sheets.append(run_sheet(project, r, catalogue))
         except HydraulicsError as exc:
-            exc.channel = f'run "{r.name}"'            # the run's errors name the item in the run already
+            # a bad value's message names the run and the item already (app.run_design.RunInputError)
+            exc.channel = None if isinstance(exc, InputError) else f'run "{r.name}"'
+
             raise
     return render(project, sheets, page)
 
