@@ -32,9 +32,9 @@ from .section_drawing import PT_PER_M, choose_scale
 #: Round profile scales along the run (1:N) and up (1:N), SI.
 SI_HORIZONTAL = (100, 200, 250, 500, 1000, 2000, 2500, 5000, 10000, 20000, 25000, 50000, 100000)
 SI_VERTICAL = (10, 20, 25, 50, 100, 200, 250, 500, 1000)
-#: US customary: 1 in = N ft along and up.
-US_HORIZONTAL_FT = (10, 20, 30, 40, 50, 100, 200, 300, 400, 500, 1000, 2000, 5000, 10000)
-US_VERTICAL_FT = (1, 2, 4, 5, 10, 20, 40, 50, 100, 200)
+#: US customary: 1 in = N ft along and up (the divisions of an engineer's scale, 10 to 60, by decades).
+US_HORIZONTAL_FT = (10, 20, 30, 40, 50, 60, 100, 200, 300, 400, 500, 600, 1000, 2000, 3000, 4000, 5000, 6000, 10000)
+US_VERTICAL_FT = (1, 2, 3, 4, 5, 6, 10, 20, 30, 40, 50, 60, 100, 200)
 PT_PER_INCH = 72.0
 
 INK = colors.black
