@@ -91,10 +91,11 @@ class RunSheet:
     fingerprint_what = "of the run, its rainfall and linings"
 
 
-def _status(row: dict) -> tuple[str, bool]:
-    """A design point's status in words, and whether it is a trouble spot (from its station row)."""
+def _status(row: dict, flowing: bool) -> tuple[str, bool]:
+    """A design point's status in words, and whether it is a trouble spot (from its station row; ``flowing``: flow
+    has reached the point, as the profile model marks a point not checked)."""
     if row["not_checked"]:
-        return row["not_checked"], row["flow"] not in ("", "0.000")
+        return row["not_checked"], flowing
     words = []
     if row["stable"] == "no":
         words.append("NOT STABLE")
@@ -131,7 +132,7 @@ def run_sheet(project, run, catalogue: Catalogue | None = None, design: RunDesig
         design = design_run(project, run, catalogue)
     rows = design.station_rows(units)
     stations = [[row[key] for key, _, _ in STATION_COLUMNS] for row in rows]
-    status = [_status(row) for row in rows]
+    status = [_status(row, p.flow > 0) for row, p in zip(rows, design.result.points)]
     text = design.to_dict(units)
     model = profile_model(design, units)
     sched = design.schedule_rows(units)
