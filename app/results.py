@@ -114,3 +114,30 @@ def table_field(key: str) -> ResultField | None:
         if f.key == key:
             return f
     return RUN_STATION_FIELDS.get(key)
+
+
+#: The lining schedule of a ditch run and the tables beside it: key, label, quantity, decimals shown.
+RUN_TABLE_FIELDS = {f.key: f for f in (
+    ResultField("length", "Length", "length", 2),
+    ResultField("amount", "Quantity", "", 1),
+    ResultField("area", "Area", "drainage_area", 3),
+    ResultField("runoff_coefficient", "Runoff coefficient C", "", 2),
+    ResultField("time_of_concentration", "Own time of concentration", "duration", 1),
+    ResultField("flow", "Flow", "flow", 3),
+    ResultField("duration", "Duration", "duration", 0),
+    ResultField("intensity", "Intensity", "intensity", 2),
+    ResultField("return_period", "Return period", "", 0),
+    ResultField("d50", "D50", "small_length", 0),
+    ResultField("unit_cost", "Unit cost", "", 2),
+    ResultField("coefficient", "Coefficient", "", 4),
+)}
+
+
+def quantity_text(value: float, field: ResultField) -> str:
+    """A quantity of work in the user's units with thousands grouped, to ``field.digits`` decimals: '2,258.3'."""
+    return f"{float(value):,.{field.digits}f}"
+
+
+def money_text(value: float) -> str:
+    """A cost as the run's tables print it: '$ 54,544' (whole dollars), or 'no price' for a missing one (NaN)."""
+    return "no price" if value != value else f"$ {value:,.0f}"

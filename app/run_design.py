@@ -26,9 +26,19 @@ from hydraulics.units import UnitSystem
 from hydraulics.wording import format_station, in_units, worded
 
 from .project import Project, Run
-from .results import RUN_STATION_FIELDS, convert, rounded
+from .results import RUN_STATION_FIELDS, RUN_TABLE_FIELDS, convert, money_text, quantity_text, rounded
 
-__all__ = ["RunDesign", "SubAreaBasis", "design_run", "run_label", "section_dimensions"]
+__all__ = ["RunDesign", "SubAreaBasis", "design_run", "run_label", "section_dimensions", "RUN_CAUTIONS"]
+
+#: The cautions printed with every run, in the command's, the window's and the sheet's words.
+RUN_CAUTIONS = (
+    "Results assist design; they do not replace the judgement of a licensed engineer, who checks them against "
+    "local codes before construction.",
+    "The water surface shown is the normal depth at each design point; backwater from the outfall, drawdown and "
+    "hydraulic jumps are not computed.",
+)
+_SHAPES = {"trapezoid": "trapezoid", "triangle": "V-ditch (triangle)", "rectangle": "rectangle",
+           "parabola": "parabolic swale", "circle": "circular pipe", "irregular": "surveyed (irregular)"}
 
 #: Keys of a section's dimensions, as the ``calc`` options name them.
 DIMENSION_KEYS = ("bottom_width", "left_slope", "right_slope", "diameter", "top_width", "at_depth")
@@ -260,6 +270,145 @@ class RunDesign:
                                         "unit": units.label(it.quantity)} for it in q.items],
                         "cost": q.cost})
         return out
+
+    def schedule_rows(self, units: UnitSystem) -> list[dict]:
+        """The lining schedule as text cells in ``units``: number, from and to stations (12+34.56), lining (with its
+        D50), length, quantities [(item, amount, unit)] and cost, rounded by the rules of :mod:`app.results`."""
+        F = RUN_TABLE_FIELDS
+        out = []
+        for k, (s, q) in enumerate(zip(self.schedule_values(units), self.result.quantities), start=1):
+            lo, hi = sorted((q.start, q.end))
+            lining = s["lining_name"] + ("" if s["d50"] is None else f", D50 {rounded(s['d50'], F['d50'])} "
+                                                                      f"{units.label('small_length')}")
+            out.append({"number": str(k), "from_station": format_station(lo, units),
+                        "to_station": format_station(hi, units), "lining": lining, "key": s["lining"],
+                        "length": rounded(s["length"], F["length"]),
+                        "quantities": [(it["item"], quantity_text(it["amount"], F["amount"]), it["unit"])
+                                       for it in s["quantities"]],
+                        "cost": money_text(s["cost"])})
+        return out
+
+    def total_cost_text(self) -> str:
+        """The schedule's total cost as every front end prints it ('$ 54,544')."""
+        return money_text(self.result.total_cost)
+
+    def sub_area_rows(self, units: UnitSystem) -> list[dict]:
+        """The sub-areas as text cells in ``units``: name, area, C and how it was found, own time of concentration
+        and its method, where it enters."""
+        F = RUN_TABLE_FIELDS
+        out = []
+        for b, sa in zip(self.bases, self.run.sub_areas):
+            enters = (f"at {format_station(sa.from_station, units)}" if sa.to_station is None else
+                      f"{format_station(min(sa.from_station, sa.to_station), units)} to "
+                      f"{format_station(max(sa.from_station, sa.to_station), units)}")
+            out.append({"name": b.name, "area": rounded(convert(b.area, "drainage_area", units), F["area"]),
+                        "runoff_coefficient": rounded(b.runoff_coefficient, F["runoff_coefficient"]),
+                        "coefficient_method": b.coefficient_method,
+                        "time_of_concentration": rounded(convert(b.time_of_concentration, "duration", units),
+                                                         F["time_of_concentration"]),
+                        "time_method": b.time_method, "enters": enters})
+        return out
+
+    def inflow_rows(self, units: UnitSystem) -> list[dict]:
+        """The point inflows as text cells: name, station, flow in ``units``."""
+        return [{"name": p.name, "station": format_station(p.station, units),
+                 "flow": rounded(convert(p.flow, "flow", units), RUN_TABLE_FIELDS["flow"])}
+                for p in self.run.point_inflows]
+
+    def candidate_rows(self, units: UnitSystem) -> list[dict]:
+        """The run's candidate linings: name, catalogue key, D50 and the unit cost that applies, per surface or
+        per volume in ``units`` ('$ 7.50 per m^2')."""
+        F = RUN_TABLE_FIELDS
+        out = []
+        for c in self.result.run.candidates:
+            basis = "surface" if c.lining.unit_cost_basis == "area" else "volume"
+            price = c.price
+            cost = ("no price" if price is None else
+                    f"$ {rounded(price / float(units.from_si(basis, 1.0)), F['unit_cost'])} per {units.label(basis)}"
+                    + (" (this run's)" if c.unit_cost is not None else " (catalogue's)"))
+            out.append({"lining": c.lining.name, "key": c.lining.key,
+                        "d50": "" if c.d50 is None else f"{rounded(convert(c.d50, 'small_length', units), F['d50'])} "
+                                                        f"{units.label('small_length')}",
+                        "unit_cost": cost})
+        return out
+
+    def section_rows(self, units: UnitSystem) -> list[dict]:
+        """The sections by station range: from, to, shape, dimensions and the ditch's depth as built, in ``units``."""
+        F = RUN_TABLE_FIELDS
+        L = units.label("length")
+        out = []
+        for rs in self.run.sections:
+            dims = []
+            for key, value in section_dimensions(rs.section, units).items():
+                if key in _LENGTH_KEYS:
+                    dims.append(f"{key.replace('_', ' ')} {rounded(value, F['length'])} {L}")
+                else:
+                    dims.append(f"{key.replace('_', ' ')} {value:g}H:1V")
+            depth = ("its full depth" if rs.ditch_depth is None else
+                     f"{rounded(convert(rs.ditch_depth, 'length', units), F['length'])} {L}")
+            out.append({"from_station": format_station(rs.from_station, units),
+                        "to_station": format_station(rs.to_station, units),
+                        "shape": _SHAPES.get(rs.section.get("shape"), str(rs.section.get("shape"))),
+                        "dimensions": ", ".join(dims), "ditch_depth": depth})
+        return out
+
+    def rainfall_rows(self, units: UnitSystem) -> dict:
+        """The project's rainfall relation as the run used it, in ``units``: its kind, source text, the return period
+        used, and either a table (``durations`` in min, ``return_periods``, ``intensities`` rows) or the formula
+        (``formula`` lines, i = a / (t + b)^c with t in min and i in in/h or mm/h)."""
+        F = RUN_TABLE_FIELDS
+        idf = self.result.run.idf
+        source = str((self.project.rainfall or {}).get("source") or "").strip()
+        out = {"kind": self.project.rainfall.get("kind") if self.project.rainfall else "",
+               "source": source or "no source given in the project",
+               "return_period": f"{self.run.return_period:g}-year", "intensity_unit": units.label("intensity"),
+               "duration_unit": units.label("duration")}
+        periods = list(idf.return_periods)
+        if hasattr(idf, "durations"):
+            out["return_periods"] = [f"{p:g}-year" for p in periods]
+            out["durations"] = [rounded(convert(float(t), "duration", units), F["duration"]) for t in idf.durations]
+            out["intensities"] = [[rounded(convert(float(v), "intensity", units), F["intensity"]) for v in row]
+                                  for row in idf.intensities]
+            out["used_column"] = next((k for k, p in enumerate(periods) if p == self.run.return_period), None)
+        else:
+            lines = []
+            for p, (a, b, c) in idf.customary(units.key).items():
+                lines.append(f"{p:g}-year: a = {a:.4g}, b = {b:.4g} {units.label('duration')}, c = {c:.4g}")
+            rng = idf.duration_range
+            span = ("any duration" if rng is None else
+                    f"{rounded(convert(rng[0], 'duration', units), F['duration'])} to "
+                    f"{rounded(convert(rng[1], 'duration', units), F['duration'])} {units.label('duration')}")
+            out["formula"] = [f"i = a / (t + b)^c, i in {units.label('intensity')}, t in {units.label('duration')}; "
+                              f"used for durations {span}", *lines]
+        return out
+
+    def summary_items(self, units: UnitSystem) -> list[tuple[str, str]]:
+        """(label, text) facts of the run in ``units``: length and stations, storm, outfall, design-point spacing,
+        shortest stretch, minimum freeboard, bends, allowances (laps, stone voids), travel-time iterations, notes."""
+        F = RUN_TABLE_FIELDS
+        L = units.label("length")
+        res, run = self.result, self.run
+        length = lambda v: f"{rounded(convert(v, 'length', units), F['length'])} {L}"  # noqa: E731
+        items = [("Length", f"{length(res.layout.length)}, {format_station(res.layout.first_station, units)} to "
+                            f"{format_station(res.layout.last_station, units)}"),
+                 ("Design storm", f"{run.return_period:g}-year return period"),
+                 ("Outfall", f"{format_station(run.outfall.station, units)}"
+                             + (f", {run.outfall.kind}" if run.outfall.kind else "")
+                             + ("" if run.outfall.water_level is None else
+                                f", water level {length(run.outfall.water_level)} (not used: normal depth)")),
+                 ("Design points", f"{len(res.points)}, at most {length(run.spacing)} apart and at every grade break, "
+                                   "section change, bend end and inflow"),
+                 ("Shortest stretch", length(run.min_stretch)),
+                 ("Minimum freeboard", length(run.min_freeboard))]
+        for b in run.bends:
+            items.append(("Bend", f"{format_station(b.from_station, units)} to {format_station(b.to_station, units)}, "
+                                  f"radius {length(b.radius)}"))
+        items.append(("Allowances", f"laps and anchor trenches {100 * run.mat_allowance:g} % of the seeded or mat "
+                                    f"surface; voids of a riprap layer {100 * run.stone_porosity:g} %"))
+        items.append(("Travel time", f"settled after {res.iterations} iteration{'s' if res.iterations != 1 else ''}"))
+        if run.notes:
+            items.append(("Notes", run.notes))
+        return items
 
     def to_dict(self, units: UnitSystem) -> dict:
         """The ``ditchwright run --json`` layout of this run, in ``units``."""

@@ -108,7 +108,9 @@ def _is_number(text: str) -> bool:
 
 
 def _money(value: float) -> str:
-    return "no price" if value != value else f"$ {value:,.0f}"
+    from ..results import money_text
+
+    return money_text(value)
 
 
 def _text(design, units) -> str:

@@ -9,7 +9,8 @@ from hydraulics.errors import InputError, NoSolutionError
 from .common import CliError
 from .projectfile import load_project
 
-HELP = "write the design sheets of a project (one page per channel) as a PDF, optionally signed"
+HELP = ("write the design sheets of a project (one page per channel, a few pages per ditch run) as a PDF, "
+        "optionally signed")
 
 
 def register(subparsers) -> None:
@@ -18,7 +19,11 @@ def register(subparsers) -> None:
                               "never stored.")
     p.add_argument("project", metavar="PROJECT.json", help="the project file")
     p.add_argument("--channel", metavar="NAME", action="append",
-                   help="only this channel (repeat for several); default every channel")
+                   help="this channel (repeat for several); with neither --channel nor --run, every channel and "
+                        "every run")
+    p.add_argument("--run", dest="run_name", metavar="NAME", action="append",
+                   help="this ditch run (repeat for several): its profile to scale, lining schedule, sub-areas, "
+                        "rainfall and station table; with --run alone, only the runs named")
     p.add_argument("-o", "--output", metavar="OUT.pdf", required=True, help="the PDF to write")
     p.add_argument("--sign", metavar="CERT.p12", help="sign with this PKCS#12 key file (PAdES)")
     p.add_argument("--page", choices=("letter", "a4"), default="letter", help="paper size (default letter)")
@@ -36,13 +41,18 @@ def run(args) -> int:
     if not args.output.lower().endswith(".pdf"):
         raise CliError(f"-o must name a .pdf file, got {args.output!r}")
     catalogue = catalogue_from_args(args)
+    runs = getattr(args, "run_name", None)
+    if args.channel or runs:
+        channels, runs = args.channel or [], runs or []
+    else:
+        channels, runs = None, None        # neither: every channel and every run
     try:
-        notes = export_sheets(project, args.output, channels=args.channel, page=args.page, sign=args.sign,
-                              catalogue=catalogue)
+        notes = export_sheets(project, args.output, channels=channels, page=args.page, sign=args.sign,
+                              catalogue=catalogue, runs=runs)
     except KeyError as exc:
         raise CliError(exc.args[0]) from None
     except InputError as exc:   # a value of the file, named as it is there, not as an option
-        raise CliError(f"{exc.channel}: {exc}") from None
+        raise CliError(f"{exc.channel}: {exc}" if getattr(exc, "channel", None) else str(exc)) from None
     except NoSolutionError as exc:
         raise CliError(f"{exc.channel}: no solution: {exc}", status=3) from None
     except (SigningError, SheetLayoutError) as exc:
@@ -51,7 +61,9 @@ def run(args) -> int:
         raise CliError(f"cannot write {args.output}: {exc.strerror or exc}") from None
     for note in notes:
         print(f"ditchwright sheet: note: {note}", file=sys.stderr)
-    count = len(args.channel) if args.channel else len(project.channels)
-    print(f"wrote {args.output}: {count} sheet{'s' if count != 1 else ''}, {args.page}"
-          f"{', signed' if args.sign else ''}")
+    n_channels = len(project.channels) if channels is None else len(channels)
+    n_runs = len(project.runs) if runs is None else len(runs)
+    what = [f"{n} {word}{'s' if n != 1 else ''}" for n, word in ((n_channels, "channel sheet"), (n_runs, "run sheet"))
+            if n or word == "channel sheet" and not n_runs]
+    print(f"wrote {args.output}: {', '.join(what)}, {args.page}{', signed' if args.sign else ''}")
     return 0

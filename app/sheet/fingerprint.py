@@ -26,6 +26,18 @@ was computed with (roughness, permissible shear, stone data, layer rule,
 unit cost, sources), so that a changed catalogue entry changes the
 fingerprint. The channel's name, location and notes are not hashed (renaming
 a channel does not change its design), nor is the display unit system.
+
+A ditch run's fingerprint (:func:`run_fingerprint`, printed on each page of
+its sheet and given by ``ditchwright fingerprint FILE --run NAME``) is made the
+same way from::
+
+    {"inputs": {...the run as in the project file, SI, without its name and notes...},
+     "linings": {...the catalogue entry of each of its candidate linings...},
+     "rainfall": {...the project's rainfall relation, its source text included...},
+     "program": "ditchwright", "version": "0.1.0"}
+
+so that a changed grade point, sub-area, candidate, price, rainfall value or
+catalogue entry changes it, and renaming the run does not.
 """
 
 from __future__ import annotations
@@ -107,3 +119,38 @@ def fingerprint(channel, version: str = __version__, catalogue=None) -> str:
     """
     return hashlib.sha256(fingerprint_document(channel, version, catalogue).encode("ascii")).hexdigest()
 
+
+
+#: Run fields that are labels, not design inputs (app.project.Run).
+RUN_LABEL_FIELDS = ("name", "notes")
+
+
+def run_design_inputs(run) -> dict:
+    """The run's design inputs as plain SI data: every field of app.project.Run but its name and notes."""
+    data = asdict(run)
+    return {key: value for key, value in data.items() if key not in RUN_LABEL_FIELDS}
+
+
+def run_used_linings(run, catalogue=None) -> dict:
+    """{key: catalogue entry data} of the run's candidate linings. Raises hydraulics.InputError naming an unknown
+    key."""
+    keys = [c.key for c in run.candidates]
+    if not keys:
+        return {}
+    if catalogue is None:
+        from hydraulics.linings import load_catalogue
+
+        catalogue = load_catalogue()
+    return {key: catalogue.get(key).to_dict() for key in keys}
+
+
+def run_fingerprint_document(project, run, version: str = __version__, catalogue=None) -> str:
+    """The exact text hashed for a run of ``project``."""
+    return canonical_json({"program": PROGRAM, "version": version, "inputs": run_design_inputs(run),
+                           "rainfall": project.rainfall, "linings": run_used_linings(run, catalogue)})
+
+
+def run_fingerprint(project, run, version: str = __version__, catalogue=None) -> str:
+    """SHA-256 (64 hex digits) of a run's design inputs, the project's rainfall, its candidates' catalogue entries
+    and the program version (``catalogue``: the one the sheet was made with; default the shipped one)."""
+    return hashlib.sha256(run_fingerprint_document(project, run, version, catalogue).encode("ascii")).hexdigest()

@@ -431,7 +431,7 @@ def _fingerprint_strip(c, sheet, x, y, w):
     c.setLineWidth(0.8)
     c.rect(x, y, w, FINGERPRINT_HEIGHT, stroke=1, fill=0)
     label = f"Design fingerprint SHA-256: {sheet.fingerprint}"
-    what = f"of the inputs, linings ({sheet.catalogue}), Ditchwright {sheet.version}"
+    what = f"{getattr(sheet, 'fingerprint_what', 'of the inputs, linings')} ({sheet.catalogue}), Ditchwright {sheet.version}"
     size = 6.5
     while size > 5.4 and stringWidth(label, FONT, size) + stringWidth(what, FONT, size) + 12 > w:
         size -= 0.2
@@ -481,7 +481,8 @@ def _title_block(c, sheet, info, page, number, count, logo_note):
 
     # project, channel, location
     _cell_lines(c, proj, [("Project", sheet.project), ("Project no.", info.project_number),
-                          ("Channel", sheet.channel), ("Location / stations", sheet.location)], top_offset=3)
+                          (getattr(sheet, "subject_caption", "Channel"), _subject(sheet)),
+                          ("Location / stations", sheet.location)], top_offset=3)
 
     # signature block for wet signatures
     rows = (("Designed", info.designer, info.date_designed), ("Checked", info.checker, info.date_checked),
@@ -548,21 +549,41 @@ def _logo(c, path: str, slot: Box, notes: list) -> None:
         notes.append(f"logo {path} could not be read: {exc}")
 
 
+def _subject(sheet) -> str:
+    """What a sheet is about: the channel's name, or the run's (a RunSheet names its subject)."""
+    return getattr(sheet, "subject", None) or sheet.channel
+
+
 def render(project, sheets, page: str = "letter") -> tuple[bytes, list]:
-    """PDF bytes with one page per ChannelSheet, and notes (e.g. a missing logo) for the user."""
+    """PDF bytes with one page per ChannelSheet and as many pages as each RunSheet needs (numbered through the
+    whole file in the title block), and notes (e.g. a missing logo) for the user."""
+    from .run_content import RunSheet
+    from .run_layout import draw_run_page, paginate
+
     register()
     size = page_size(page)
+    plans = [paginate(s, page) if isinstance(s, RunSheet) else None for s in sheets]
+    count = sum(1 if p is None else len(p) for p in plans)
     buf = io.BytesIO()
     c = rl_canvas.Canvas(buf, pagesize=size, initialFontName=FONT, initialFontSize=8, pageCompression=1,
                          invariant=1)
-    c.setTitle(f"Channel design sheets: {project.name}")
+    runs = any(p is not None for p in plans)
+    c.setTitle(f"{'Design sheets' if runs else 'Channel design sheets'}: {project.name}")
     c.setAuthor(project.sheet.designer or "")
     c.setCreator(f"Ditchwright {__version__}")
-    c.setSubject("; ".join(f"{s.channel}: {s.fingerprint}" for s in sheets))
+    c.setSubject("; ".join(f"{_subject(s)}: {s.fingerprint}" for s in sheets))
     c.setKeywords(["ditchwright-fingerprint=" + s.fingerprint for s in sheets])
     notes: list = []
-    for i, sheet in enumerate(sheets, start=1):
-        draw_page(c, sheet, project.sheet, page, i, len(sheets), notes)
-        c.showPage()
+    number = 0
+    for sheet, plan in zip(sheets, plans):
+        if plan is None:
+            number += 1
+            draw_page(c, sheet, project.sheet, page, number, count, notes)
+            c.showPage()
+            continue
+        for k, run_page in enumerate(plan, start=1):
+            number += 1
+            draw_run_page(c, sheet, project.sheet, page, run_page, number, count, (k, len(plan)), notes)
+            c.showPage()
     c.save()
     return buf.getvalue(), sorted(set(notes))

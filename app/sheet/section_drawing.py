@@ -34,15 +34,19 @@ DIM = colors.Color(0.15, 0.15, 0.15)
 SIZE = 6.5
 
 
-def choose_scale(ratio_needed: float, us: bool) -> tuple[float, str]:
-    """The smallest round 1:N at least ``ratio_needed``; returns (N, wording)."""
+def choose_scale(ratio_needed: float, us: bool, si_scales=SI_SCALES, us_scales_ft=US_SCALES_FT) -> tuple[float, str]:
+    """The smallest round 1:N at least ``ratio_needed``; returns (N, wording).
+
+    ``si_scales`` (1:N) and ``us_scales_ft`` (1 in = N ft) are the series to choose from (default: those of the
+    typical section; a profile passes its own); beyond a series, N is rounded up to the next thousand (100 ft).
+    """
     if us:
-        for ft in US_SCALES_FT:
+        for ft in us_scales_ft:
             if 12 * ft >= ratio_needed:
                 return 12 * ft, f"1 in = {ft:g} ft (1:{12 * ft:g})"
         ft = math.ceil(ratio_needed / 12 / 100) * 100
         return 12 * ft, f"1 in = {ft:g} ft (1:{12 * ft:g})"
-    for n in SI_SCALES:
+    for n in si_scales:
         if n >= ratio_needed:
             return n, f"1:{n}"
     n = math.ceil(ratio_needed / 1000) * 1000

@@ -1,0 +1,153 @@
+"""What a ditch run's design sheet says: everything taken, already in the user's units and rounded, from
+:mod:`app.run_design` (tables, warnings, notes, cautions) and :mod:`app.run_drawing` (the profile).
+
+No core call, no unit conversion and no rounding here: the sheet shows the same answer as the window and the
+``ditchwright run`` command. This module only picks the columns and headings; :mod:`app.sheet.run_layout`
+places them on pages.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+
+from hydraulics import units as hu
+from hydraulics.linings import Catalogue
+
+from .. import __version__
+from ..results import RUN_STATION_FIELDS
+from ..run_design import RUN_CAUTIONS, RunDesign, design_run
+from ..run_drawing import ProfileModel, profile_model
+from .content import catalogue_words, pretty_unit
+from .fingerprint import run_fingerprint
+
+#: Columns of the station table: (key of the station rows, heading, short heading line 2 or None for the unit).
+STATION_COLUMNS = (
+    ("station", "Station", ""),
+    ("invert", "Invert", None),
+    ("slope", "Grade", None),
+    ("ca", "\u03a3 C A", None),
+    ("tc", "tc", None),
+    ("intensity", "i", None),
+    ("flow", "Q", None),
+    ("lining", "Lining", ""),
+    ("manning_n", "n", ""),
+    ("normal_depth", "yn", None),
+    ("critical_depth", "yc", None),
+    ("water_surface", "Water surface", None),
+    ("velocity", "V", None),
+    ("froude", "Fr", ""),
+    ("bed_shear", "\u03c4 bed", None),
+    ("side_shear", "\u03c4 side", None),
+    ("permissible_shear", "\u03c4p", None),
+    ("safety_factor", "SF", ""),
+    ("freeboard", "Free- board", None),
+    ("ditch_depth", "Ditch depth", None),
+)
+#: What the headings' short names mean, printed under the table.
+STATION_KEY = ("\u03a3 C A: sum of runoff coefficient times area above the point; tc: time of concentration; "
+               "i: rainfall intensity at tc; Q: design flow (rational method, the larger of the whole-area and "
+               "partial-area flows); yn, yc: normal and critical depth; V: velocity; Fr: Froude number; "
+               "\u03c4: design shear on the bed and the side slopes (bends included); \u03c4p: permissible shear "
+               "of the lining; SF: safety factor \u03c4p / \u03c4 of the governing place; freeboard and ditch depth "
+               "as built. Status: each point passes, or says in words why not.")
+
+
+@dataclass
+class RunSheet:
+    """Everything printed for one ditch run, and the design it was taken from."""
+
+    project: str
+    run: str
+    location: str                    # "0+000.00 to 0+700.00"
+    units: hu.UnitSystem
+    fingerprint: str
+    version: str
+    catalogue: str
+    design: RunDesign
+    model: ProfileModel
+    summary: list                    # (label, text)
+    sections: list                   # dict rows (app.run_design.RunDesign.section_rows)
+    candidates: list                 # dict rows
+    schedule: list                   # dict rows
+    total_cost: str
+    sub_areas: list                  # dict rows
+    inflows: list                    # dict rows
+    rainfall: dict
+    station_heads: list              # [(heading, unit)] per column of STATION_COLUMNS
+    stations: list                   # [[cell text per column]] per design point
+    status: list                     # (words, trouble: bool) per design point
+    warnings: list
+    notes: list
+    not_verified: list
+    cautions: list
+    page_notes: list = field(default_factory=list)
+
+    # what the title block and the fingerprint strip print
+    @property
+    def subject(self) -> str:
+        return self.run
+
+    subject_caption = "Run"
+    fingerprint_what = "of the run, its rainfall and linings"
+
+
+def _status(row: dict, flowing: bool) -> tuple[str, bool]:
+    """A design point's status in words, and whether it is a trouble spot (from its station row; ``flowing``: flow
+    has reached the point, as the profile model marks a point not checked)."""
+    if row["not_checked"]:
+        return row["not_checked"], flowing
+    words = []
+    if row["stable"] == "no":
+        words.append("NOT STABLE")
+    if row["fits"] == "no":
+        words.append("TOO SHALLOW")
+    trouble = bool(words)
+    if not words:
+        words.append("passes")
+    if row["partial_area"] == "True":
+        words.append("partial area governs")
+    return ", ".join(words), trouble
+
+
+def station_heads(units: hu.UnitSystem) -> list:
+    """(heading, unit) of each column of the station table; every number has its unit in the heading."""
+    out = []
+    for key, head, unit in STATION_COLUMNS:
+        if unit is None:
+            unit = pretty_unit(units.label(RUN_STATION_FIELDS[key].quantity))
+        out.append((head, unit))
+    return out
+
+
+def run_sheet(project, run, catalogue: Catalogue | None = None, design: RunDesign | None = None) -> RunSheet:
+    """Solve ``run`` of ``project`` (through :func:`app.run_design.design_run`) and gather what its sheet prints,
+    in the project's units. ``catalogue``: the lining catalogue (default the shipped one); the printed fingerprint
+    includes its entries of the run's candidates."""
+    if catalogue is None:
+        from ..evaluate import load_default_catalogue
+
+        catalogue = load_default_catalogue()
+    units = hu.system(project.units)
+    if design is None:
+        design = design_run(project, run, catalogue)
+    rows = design.station_rows(units)
+    stations = [[row[key] for key, _, _ in STATION_COLUMNS] for row in rows]
+    status = [_status(row, p.flow > 0) for row, p in zip(rows, design.result.points)]
+    text = design.to_dict(units)
+    model = profile_model(design, units)
+    sched = design.schedule_rows(units)
+    first, last = rows[0]["station"], rows[-1]["station"]
+    return RunSheet(
+        project=project.name, run=run.name, location=f"{first} to {last}", units=units,
+        fingerprint=run_fingerprint(project, run, catalogue=catalogue), version=__version__,
+        catalogue=catalogue_words(catalogue), design=design, model=model,
+        summary=design.summary_items(units), sections=design.section_rows(units),
+        candidates=design.candidate_rows(units), schedule=sched, total_cost=design.total_cost_text(),
+        sub_areas=design.sub_area_rows(units), inflows=design.inflow_rows(units),
+        rainfall=design.rainfall_rows(units), station_heads=station_heads(units), stations=stations,
+        status=status, warnings=[pretty_unit(w) for w in text["warnings"]],
+        notes=[pretty_unit(n) for n in text["notes"]], not_verified=[pretty_unit(n) for n in text["not_verified"]],
+        cautions=list(RUN_CAUTIONS))
+
+
+__all__ = ["RunSheet", "run_sheet", "STATION_COLUMNS", "STATION_KEY", "station_heads"]
