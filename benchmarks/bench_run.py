@@ -12,11 +12,11 @@ candidate linings: good sod, riprap of D50 0.2 m and concrete.
     with its flows, every candidate screened at every point, the cheapest
     schedule and its quantities (what an edit of the run recomputes).
 (2) a bare ``canvas.draw()`` (Agg backend) of the run's profile figure,
-    1366 x 500 px with fixed margins: invert, ditch top as built, water surface
-    at the scheduled lining's normal depth, critical-depth line, and the lining
-    bands (one line per candidate, blank where it is not scheduled; together
-    one line's worth of points), each of 1001 points, with axis labels and a
-    legend. Nothing changes between draws.
+    1366 x 500 px with fixed margins: invert, ditch top as built, water plus
+    freeboard and water surface at the scheduled lining's normal depth, and the
+    lining bands (one line per candidate, blank where it is not scheduled;
+    together one line's worth of points), each of 1001 points, with axis
+    labels and a legend. Nothing changes between draws.
 
 Ratio = (1) / (2); goal <= 1 (a run recomputes within one redraw of its
 profile, so editing it stays live). The two are timed in interleaved rounds
@@ -75,25 +75,19 @@ def invented_run(length=10_000.0, spacing=10.0, areas=50, seed=1) -> DitchRun:
 
 
 def profile_figure(result):
-    """The run's profile (see the module's text) on an Agg canvas; returns (figure, canvas)."""
-    x = result.layout.x
-    invert = result.layout.invert
-    depth = np.array([np.nan if p.not_checked else result.screening.depth[p.index, p.choice]
-                      for p in result.points]) if hasattr(result, "screening") else \
-        np.array([np.nan if p.result is None else p.result.depth for p in result.points])
-    critical = np.array([p.critical_depth or np.nan for p in result.points])
-    top = invert + np.array([p.ditch_depth for p in result.points])
+    """The run's profile (see the module's text) on an Agg canvas, drawn from the result's arrays; returns
+    (figure, canvas)."""
+    x, invert = result.layout.x, result.layout.invert
     fig = Figure(figsize=(13.66, 5.0), dpi=100)
     canvas = FigureCanvasAgg(fig)
     ax = fig.add_axes((0.06, 0.11, 0.92, 0.84))
     ax.plot(x, invert, color="0.3", lw=1.2, label="invert")
-    ax.plot(x, top, color="0.6", lw=1.0, ls="--", label="ditch top as built")
-    ax.plot(x, invert + depth, color="tab:blue", lw=1.2, label="water surface (normal depth)")
-    ax.plot(x, invert + critical, color="tab:red", lw=0.8, ls=":", label="critical depth")
-    choice = np.array([p.choice for p in result.points])
+    ax.plot(x, invert + result.ditch_depth, color="0.6", lw=1.0, ls="--", label="ditch top as built")
+    ax.plot(x, invert + result.scheduled("total_depth"), color="tab:orange", lw=0.8, ls=":",
+            label="water plus freeboard")
+    ax.plot(x, invert + result.scheduled("depth"), color="tab:blue", lw=1.2, label="water surface (normal depth)")
     for k, cand in enumerate(result.run.candidates):
-        band = np.where(choice == k, invert - 0.3, np.nan)
-        ax.plot(x, band, lw=5, solid_capstyle="butt", label=cand.label)
+        ax.plot(x, np.where(result.choice == k, invert - 0.3, np.nan), lw=5, solid_capstyle="butt", label=cand.label)
     ax.set_xlabel("distance along the flow (m)")
     ax.set_ylabel("elevation (m)")
     ax.legend(loc="upper right", fontsize=8)

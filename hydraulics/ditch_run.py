@@ -239,18 +239,38 @@ class RunResult:
     flows: FlowState
     travel_time: np.ndarray            # tau at each point [s]
     iterations: int
-    points: list                       # PointResult
     schedule: Schedule
     quantities: list                   # StretchQuantities per stretch
     screening: Screening
+    section_index: np.ndarray          # the section range of each point
+    bend_radius: np.ndarray            # [m] at each point, nan on a straight reach
+    ditch_depth: np.ndarray            # depth of the ditch as built at each point [m]
+    choice: np.ndarray                 # scheduled candidate at each point
+    failing: np.ndarray                # bool: no candidate is stable at this checked point
+    checked: np.ndarray                # bool: the point has flow on a falling grade (its linings are checked)
     run_warnings: list = field(default_factory=list)
     notes: list = field(default_factory=list)
     checks_at: int = 0                 # where in run_warnings the checks' cautions go
     _cautions: list | None = field(default=None, repr=False)
+    _points: list | None = field(default=None, repr=False)
 
     @property
     def total_cost(self) -> float:
         return float(sum(q.cost for q in self.quantities))
+
+    @property
+    def points(self) -> list:
+        """A PointResult per design point (made on first access; their full checks when asked for)."""
+        if self._points is None:
+            self._points = _points(self)
+        return self._points
+
+    def scheduled(self, name: str) -> np.ndarray:
+        """The screened ``name`` (a field of :data:`hydraulics.run_screening.SCREEN_FIELDS`) of the scheduled
+        candidate at each point; nan where its lining was not checked."""
+        values = getattr(self.screening, name)[np.arange(self.choice.size), self.choice]
+        ok = self.checked & self.screening.checked[np.arange(self.choice.size), self.choice]
+        return np.where(ok, values, np.nan)
 
     def check_warnings(self) -> list:
         """The cautions of the scheduled linings' full checks, once per kind and lining over each range of points
@@ -440,7 +460,8 @@ def solve_run(run: DitchRun) -> RunResult:
     choice = np.asarray(schedule.choice_at)[np.minimum(np.arange(n), n - 2)]
     failing = np.asarray(schedule.failing) & checkable
 
-    points = _points(run, layout, which, bend, flow, screening, choice, failing, wet, falling)
+    depth_of = np.array([float(r.section.full_depth) if r.ditch_depth is None else float(r.ditch_depth)
+                         for r in run.sections])
     quantities = []
     for s in schedule.stretches:
         rows = slice(s.first, s.last + 1)
@@ -448,39 +469,34 @@ def solve_run(run: DitchRun) -> RunResult:
             layout.x[rows], lined[rows, s.choice], volume[rows, s.choice], run.candidates[s.choice],
             choice=s.choice, start=float(layout.stations[s.first]), end=float(layout.stations[s.last]),
             mat_allowance=run.mat_allowance, stone_porosity=run.stone_porosity))
-
-    warnings, checks_at, notes = _run_messages(run, layout, state, points, screening, total_area)
-    return RunResult(run=run, layout=layout, flows=state, travel_time=tau, iterations=iteration, points=points,
-                     schedule=schedule, quantities=quantities, screening=screening, run_warnings=warnings,
-                     notes=notes, checks_at=checks_at)
-
-
-_WET_NOT_FALLING = {True: "zero grade", False: "adverse grade"}
-_NOT_FALLING = ": no normal depth, so no lining check; the water-surface profile is needed here"
+    result = RunResult(run=run, layout=layout, flows=state, travel_time=tau, iterations=iteration,
+                       schedule=schedule, quantities=quantities, screening=screening, section_index=which,
+                       bend_radius=bend, ditch_depth=depth_of[which], choice=choice, failing=failing,
+                       checked=checkable)
+    result.run_warnings, result.checks_at, result.notes = _run_messages(result, total_area)
+    return result
 
 
-def _points(run, layout, which, bend, flow, screening, choice, failing, wet, falling) -> list:
-    """The PointResult of every design point (their full checks made on first access)."""
+def _points(res: RunResult) -> list:
+    """The PointResult of every design point of ``res`` (their full checks made on first access)."""
+    run, layout, screening = res.run, res.layout, res.screening
+    total = res.scheduled("total_depth")
     points = []
-    depth_of = {k: (float(r.section.full_depth) if r.ditch_depth is None else float(r.ditch_depth), r.section)
-                for k, r in enumerate(run.sections)}
     rows = zip(layout.stations.tolist(), layout.x.tolist(), layout.invert.tolist(), layout.grade.tolist(),
-               flow.tolist(), which.tolist(), bend.tolist(), choice.tolist(), failing.tolist(), wet.tolist(),
-               falling.tolist(), screening.errors)
-    for i, (st, x, z, g, q, k, rc, ch, fail, w, f, errs) in enumerate(rows):
-        depth, section = depth_of[k]
-        if not w:
+               res.flows.flow.tolist(), res.section_index.tolist(), res.bend_radius.tolist(),
+               res.ditch_depth.tolist(), res.choice.tolist(), res.failing.tolist(), total.tolist(), screening.errors)
+    for i, (st, x, z, g, q, k, rc, depth, ch, fail, top, errs) in enumerate(rows):
+        if not q > 0:
             why = "no flow has reached this point yet"
-        elif not f:
-            why = _WET_NOT_FALLING[g == 0] + _NOT_FALLING
+        elif not g > 0:
+            why = ("zero grade" if g == 0 else "adverse grade") + (
+                ": no normal depth, so no lining check; the water-surface profile is needed here")
         else:
             why = None
-        total = None
-        if why is None and screening.checked[i, ch]:
-            total = float(screening.total_depth[i, ch])
-        p = PointResult(index=i, station=st, x=x, invert=z, grade=g, flow=q, section_index=k, section=section,
-                        ditch_depth=depth, bend_radius=None if rc != rc else rc, errors=list(errs), choice=ch,
-                        failing=fail, not_checked=why, total_depth=total)
+        p = PointResult(index=i, station=st, x=x, invert=z, grade=g, flow=q, section_index=k,
+                        section=run.sections[k].section, ditch_depth=depth, bend_radius=None if rc != rc else rc,
+                        errors=list(errs), choice=ch, failing=fail, not_checked=why,
+                        total_depth=None if top != top else top)
         p.checks = PointChecks(p, run, screening)
         points.append(p)
     return points
@@ -499,8 +515,9 @@ def _ranges_of(mask, stations) -> list:
     return out
 
 
-def _run_messages(run, layout, state, points, screening, total_area):
+def _run_messages(res: RunResult, total_area: float):
     """The run's own warnings (and where in them the checks' cautions go) and its notes."""
+    run, layout, state, screening = res.run, res.layout, res.flows, res.screening
     warnings, notes = [], []
     at = lambda s: (s, "station")  # noqa: E731
     for j, g in enumerate(layout.grades):
@@ -510,21 +527,23 @@ def _run_messages(run, layout, state, points, screening, total_area):
                                    "checked on this stretch and the water backs up (the water-surface profile is not "
                                    "computed here)", kind="zero" if g == 0 else "adverse", a=at(min(a, b)),
                                    b=at(max(a, b)), g=f"{100 * g:.2f}"))
-    stations = [p.station for p in points]
-    for a, b in _ranges_of([p.failing for p in points], stations):
+    stations = layout.stations.tolist()
+    for a, b in _ranges_of(res.failing.tolist(), stations):
         warnings.append(worded("no candidate lining is stable from {a} to {b}: the strongest candidate is scheduled "
                                "there and still fails; add a stronger lining or change the section", a=at(a), b=at(b)))
-    for a, b in _ranges_of([p.fits is False for p in points], stations):
+    with np.errstate(invalid="ignore"):
+        over = res.scheduled("total_depth") > res.ditch_depth * (1 + 1e-9)   # nan (not checked) compares False
+    for a, b in _ranges_of(over.tolist(), stations):
         warnings.append(worded("water plus freeboard is above the ditch as built from {a} to {b}: deepen the ditch",
                                a=at(a), b=at(b)))
-    for a, b in _ranges_of(list(state.partial), stations):
+    for a, b in _ranges_of(state.partial.tolist(), stations):
         notes.append(worded("from {a} to {b} a part of the drainage area that reaches the ditch sooner gives a larger "
                             "peak than the whole area (partial-area case); the larger flow is used", a=at(a), b=at(b)))
-    for p in points:
-        for k, err in enumerate(p.errors):
-            if err is not None:
-                warnings.append(worded("{lining} could not be checked at {s}: {err}",
-                                       lining=run.candidates[k].label, s=at(p.station), err=err))
+    for i, k in zip(*np.nonzero(res.checked[:, None] & ~screening.checked)):
+        err = screening.errors[i][k]
+        if err is not None:
+            warnings.append(worded("{lining} could not be checked at {s}: {err}",
+                                   lining=run.candidates[k].label, s=at(stations[i]), err=err))
     checks_at = len(warnings)      # the scheduled checks' cautions come here (RunResult.warnings)
     if total_area > RATIONAL_MAX_AREA:
         warnings.append(worded("the run drains {area} in all, above the {limit} usually allowed for the rational "
