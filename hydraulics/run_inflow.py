@@ -158,7 +158,7 @@ def travel_times(x, velocity) -> np.ndarray:
 
 
 #: Pieces per block of the search for the governing duration (see :func:`peak_flows`).
-_BLOCK = 32
+_BLOCK = 16
 #: A block is left out only when its bound is below the known flow by more than this fraction (rounding).
 _BOUND_MARGIN = 1e-12
 
@@ -210,13 +210,10 @@ def peak_flows(layout: RunLayout, pieces: Pieces, inflows, tau, idf, return_peri
         return tc[at] + tau[rows] - t_entry[at]
 
     # C A joined at each point in each block, and arrived by each block's end
-    in_block = np.zeros((n + 1, blocks))
-    np.add.at(in_block, (np.minimum(join, n), block_of), ca)
-    in_block = np.cumsum(in_block, axis=0)[:n]
-    by_end = np.cumsum(in_block, axis=1)
-    joined_in = np.zeros((n + 1, blocks), dtype=np.int64)
-    np.add.at(joined_in, (np.minimum(join, n), block_of), 1)
-    joined_in = np.cumsum(joined_in, axis=0)[:n] > 0
+    cell = np.minimum(join, n) * blocks + block_of
+    in_block = np.bincount(cell, weights=ca, minlength=(n + 1) * blocks).reshape(n + 1, blocks)
+    by_end = np.cumsum(np.cumsum(in_block, axis=0)[:n], axis=1)
+    joined_in = np.cumsum(np.bincount(cell, minlength=(n + 1) * blocks).reshape(n + 1, blocks), axis=0)[:n] > 0
     # first and last joined piece at each point (positions in arrival order; -1: none)
     position = np.arange(blocks * _BLOCK)
     last = np.full(n + 1, -1)
@@ -236,15 +233,21 @@ def peak_flows(layout: RunLayout, pieces: Pieces, inflows, tau, idf, return_peri
     # the relation refuses what the search would read: the shortest and the longest duration
     idf.intensity(np.maximum(np.array([np.min(soonest[rows]), np.max(whole[rows])]), min_duration), return_period)
 
-    search = joined_in.copy()
+    search = joined_in
     if getattr(idf, "falls_with_duration", False) and blocks > 1:
-        full = idf.intensity(np.maximum(whole[rows], min_duration), return_period) * by_end[rows, -1]
+        # a block can hold the peak only if i(its first arrival) x (C A arrived by its end) reaches the whole
+        # area's flow; i there is at most i(the point's first arrival)
+        least = (1.0 - _BOUND_MARGIN) * idf.intensity(np.maximum(whole[rows], min_duration), return_period) \
+            * by_end[rows, -1]
+        most = idf.intensity(np.maximum(soonest[rows], min_duration), return_period)
+        open_ = search[rows] & (most[:, None] * by_end[rows] >= least[:, None])
+        r_i, b_i = np.nonzero(open_)
+        point = rows[r_i]
         # no joined piece of a block arrives before its first piece, nor before the point's first one
-        d0 = np.clip(arrival(rows[:, None], (np.arange(blocks) * _BLOCK)[None, :]), soonest[rows, None],
-                     whole[rows, None])
-        d0 = np.maximum(d0, min_duration)
-        bound = idf.intensity(d0.ravel(), return_period).reshape(d0.shape) * by_end[rows]
-        search[rows] &= bound >= full[:, None] * (1.0 - _BOUND_MARGIN)
+        d0 = np.maximum(np.clip(arrival(point, b_i * _BLOCK), soonest[point], whole[point]), min_duration)
+        open_[r_i, b_i] = idf.intensity(d0, return_period) * by_end[point, b_i] >= least[r_i]
+        search = np.zeros_like(search)
+        search[rows] = open_
     pair_row, pair_block = np.nonzero(search)
     at = pair_block[:, None] * _BLOCK + np.arange(_BLOCK)[None, :]          # (pairs, _BLOCK) positions
     joined = join[at] <= pair_row[:, None]

@@ -182,7 +182,7 @@ def _newton_log_plain(evaluate, y, iterations=12):
     return None
 
 
-def _newton_log_vector(evaluate, y, lo, hi, collapsed=_JUMP_MESSAGE, fast=True):
+def _newton_log_vector(evaluate, y, lo, hi, collapsed=_JUMP_MESSAGE, fast=True, subset=False):
     """Vectorised version of :func:`_newton_log_scalar`; all arrays of one shape.
 
     Each element takes the steps the scalar iteration takes from the same start (the same clipped Newton step,
@@ -190,7 +190,8 @@ def _newton_log_vector(evaluate, y, lo, hi, collapsed=_JUMP_MESSAGE, fast=True):
     roots (a depth-dependent n with a jump) an element ends on the root the scalar call finds. With ``fast`` and
     no upper bound anywhere (open sections) an unguarded Newton is tried first: for an increasing g with one
     root (a constant n) it reaches the same root at less cost. A collapsed bracket raises NoSolutionError with
-    ``collapsed`` for the first such element.
+    ``collapsed`` for the first such element. With ``subset`` (``evaluate(y, at)`` takes the depths of the
+    elements ``at`` only) the elements still iterating are evaluated alone once they are half or fewer.
     """
     if fast and np.isinf(hi).all():
         done_fast = _newton_log_plain(evaluate, y)
@@ -203,7 +204,13 @@ def _newton_log_vector(evaluate, y, lo, hi, collapsed=_JUMP_MESSAGE, fast=True):
     done = np.zeros(y.shape, dtype=bool)
     with np.errstate(over="ignore", invalid="ignore", divide="ignore"):
         for it in range(1, _MAX_ITER + 1):
-            g, gp = evaluate(y)
+            if subset and it > 1 and 2 * np.count_nonzero(~done) <= done.size:
+                at = np.flatnonzero(~done)
+                g_at, gp_at = evaluate(y[at], at)
+                g, gp = g.copy(), gp.copy()       # a converged element keeps its last residual
+                g[at], gp[at] = g_at, gp_at
+            else:
+                g, gp = evaluate(y)
             done |= np.abs(g) <= _LOG_TOL
             if done.all():
                 return y, it, g
@@ -308,14 +315,19 @@ def solve_normal_depth(section, flow, slope, n=None) -> DepthSolution:
             geo -= target
             return geo, dgeo
     else:
-        def evaluate(y):
-            lk, dlk = _log_conveyance(section, rough, y, s, scalar)
-            return lk - target, dlk
+        def evaluate(y, at=None):
+            """g and g' at ``y``; with ``at`` (indices), ``y`` holds the depths of those elements only."""
+            if at is None:
+                lk, dlk = _log_conveyance(section, rough, y, s, scalar)
+                return lk - target, dlk
+            lk, dlk = _log_conveyance(section, rough, y, s[at], scalar)
+            return lk - target[at], dlk
 
     if scalar:
         y, it, g = _newton_log_scalar(evaluate, y0, lo, hi)
     else:  # a depth-dependent n may give several roots: follow the scalar steps to the one it finds
-        y, it, g = _newton_log_vector(evaluate, y0, lo, hi, fast=rough[0] == "constant")
+        model = rough[0] != "constant"
+        y, it, g = _newton_log_vector(evaluate, y0, lo, hi, fast=not model, subset=model and not section.is_vector)
     return _finish(y, it, g)
 
 
