@@ -167,7 +167,7 @@ def solvable(section, flow, slope, rough) -> tuple[np.ndarray, np.ndarray]:
 
 
 def screen_lining(section, flow, slope, lining, d50=None, bend_radius=None, min_freeboard=hec15.MIN_FREEBOARD,
-                  min_safety_factor=1.0) -> LiningScreen:
+                  min_safety_factor=1.0, roughness=None) -> LiningScreen:
     """Screen ``lining`` in ``section`` for many flows and slopes (see the module's text).
 
     Parameters
@@ -186,6 +186,9 @@ def screen_lining(section, flow, slope, lining, d50=None, bend_radius=None, min_
         Minimum freeboard [m], >= 0.
     min_safety_factor : float
         Safety factor required of non-stone linings [-], >= 1 (stone: the larger of it and HEC-15 Table 6.1's).
+    roughness : optional
+        ``lining.roughness(d50)`` when the caller has made it already (a stone model keeps what it works out
+        once per section).
 
     Returns
     -------
@@ -202,7 +205,8 @@ def screen_lining(section, flow, slope, lining, d50=None, bend_radius=None, min_
     try:
         with warnings.catch_warnings():
             warnings.simplefilter("ignore", ValidityWarning)   # the full check words them
-            _screen_arrays(section, q, s, rc, lining, d50, min_freeboard, min_safety_factor, out, one_by_one)
+            _screen_arrays(section, q, s, rc, lining, d50, min_freeboard, min_safety_factor, out, one_by_one,
+                           roughness)
     except HydraulicsError:
         one_by_one[:] = True
     for i in np.flatnonzero(one_by_one).tolist():
@@ -218,12 +222,12 @@ def screen_lining(section, flow, slope, lining, d50=None, bend_radius=None, min_
     return out
 
 
-def _screen_arrays(section, q, s, rc, lining, d50, min_freeboard, min_safety_factor, out, one_by_one):
+def _screen_arrays(section, q, s, rc, lining, d50, min_freeboard, min_safety_factor, out, one_by_one, rough=None):
     """The array path of :func:`screen_lining`: fills ``out`` and marks in ``one_by_one`` the channels it leaves
     to the scalar check. Raises HydraulicsError when the group cannot be screened on arrays at all."""
     stone = lining.category == "stone"
     d = lining._d50(d50) if (stone or d50 is not None) else None   # refuses a D50 for a lining that is not stone
-    rough = lining.roughness(d)
+    rough = lining.roughness(d) if rough is None else rough
     thickness = lining.layer_thickness(d50) if lining.thickness_data["rule"] == "stone" else lining.layer_thickness()
     sure, near = solvable(section, q, s, rough)
     one_by_one |= ~sure                     # too much for a closed section (its error), or too close to say

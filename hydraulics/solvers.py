@@ -105,9 +105,17 @@ def _log_conveyance(section, rough, y, slope, scalar):
     log = math.log if scalar else np.log
     if rough[0] == "constant":
         return geo - log(rough[1]), dgeo
-    n0 = _n_value(rough, section, y, slope)
     # A backward difference, so the trial depth never passes a pipe's crown or a survey's bank.
-    n1 = _n_value(rough, section, y * (1 - _FD_STEP), slope)
+    if scalar or section.is_vector:
+        n0 = _n_value(rough, section, y, slope)
+        n1 = _n_value(rough, section, y * (1 - _FD_STEP), slope)
+    else:  # both depths in one call of the model (much of its cost is per call)
+        shape, size = np.shape(y), np.size(y)
+        flat = np.ravel(np.broadcast_to(slope, shape))
+        both = _n_value(rough, section, np.concatenate([np.ravel(y), np.ravel(y * (1 - _FD_STEP))]),
+                        np.concatenate([flat, flat]))
+        both = np.broadcast_to(both, (2 * size,))
+        n0, n1 = both[:size].reshape(shape), both[size:].reshape(shape)
     dlogn = (log(n0) - log(n1)) / -math.log1p(-_FD_STEP)
     return geo - log(n0), dgeo - dlogn
 
