@@ -236,7 +236,8 @@ def _screen_arrays(section, q, s, rc, lining, d50, min_freeboard, min_safety_fac
         return
     res = analyse(section, q[rows], s[rows], rough)                    # HEC-15 Chapter 3, step 1
     y, v, fr = (np.asarray(a, dtype=float) for a in (res.normal_depth, res.velocity, res.froude))
-    top, n_used = np.asarray(res.top_width, dtype=float), np.asarray(res.manning_n, dtype=float)
+    top = np.asarray(res.top_width, dtype=float)
+    n_used = np.broadcast_to(np.asarray(res.manning_n, dtype=float), y.shape)
     r_bend = None
     if rc is not None:
         r_bend = rc[rows]
@@ -266,7 +267,7 @@ def _screen_arrays(section, q, s, rc, lining, d50, min_freeboard, min_safety_fac
         margin = verdict_side(lowest / sc.required_safety_factor, stable)
     tops = ditch_tops(section, y, v, top, fr, r_bend, min_freeboard)       # step 6
     lined = np.broadcast_to(np.asarray(section.wetted_perimeter(tops.depth_at_top), dtype=float), y.shape)
-    values = {"depth": y, "velocity": v, "froude": fr, "manning_n": np.broadcast_to(n_used, y.shape),
+    values = {"depth": y, "velocity": v, "froude": fr, "manning_n": n_used,
               "top_width": top, "bed_shear": sc.design_shear, "safety_factor": lowest,
               "required_safety_factor": sc.required_safety_factor, "margin": margin, "freeboard": tops.freeboard,
               "total_depth": tops.total_depth, "depth_at_top": tops.depth_at_top, "lined_width": lined,
