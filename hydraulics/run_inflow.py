@@ -245,18 +245,8 @@ def peak_flows(layout: RunLayout, pieces: Pieces, inflows, tau, idf, return_peri
         r_i, b_i = np.nonzero(open_)
         point = rows[r_i]
         # no joined piece of a block arrives before its first piece, nor before the point's first one
-        start = b_i * _BLOCK
-        d0 = np.maximum(np.clip(arrival(point, start), soonest[point], whole[point]), min_duration)
-        i0 = idf.intensity(d0, return_period)
-        # where a block's first piece has joined, i0 x (C A arrived by it) is one of the flows searched: the
-        # largest of them raises the flow a block must be able to reach
-        reached = np.where(join[start] <= point, i0 * (np.where(b_i > 0, by_end[point, np.maximum(b_i - 1, 0)], 0.0)
-                                                      + ca[start]), 0.0)
-        if r_i.size:
-            group = np.flatnonzero(np.r_[True, r_i[1:] != r_i[:-1]])
-            least[r_i[group]] = np.maximum(least[r_i[group]],
-                                           (1.0 - _BOUND_MARGIN) * np.maximum.reduceat(reached, group))
-        open_[r_i, b_i] = i0 * by_end[point, b_i] >= least[r_i]
+        d0 = np.maximum(np.clip(arrival(point, b_i * _BLOCK), soonest[point], whole[point]), min_duration)
+        open_[r_i, b_i] = idf.intensity(d0, return_period) * by_end[point, b_i] >= least[r_i]
         search = np.zeros_like(search)
         search[rows] = open_
     pair_row, pair_block = np.nonzero(search)
