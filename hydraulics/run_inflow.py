@@ -238,17 +238,15 @@ def peak_flows(layout: RunLayout, pieces: Pieces, inflows, tau, idf, return_peri
     if getattr(idf, "falls_with_duration", False) and blocks > 1:
         # a block can hold the peak only if i(its first arrival) x (C A arrived by its end) reaches the whole
         # area's flow; i there is at most i(the point's first arrival)
-        least = (1.0 - _BOUND_MARGIN) * idf.intensity(np.maximum(whole[rows], min_duration), return_period) \
+        least, most = np.zeros(n), np.zeros(n)
+        least[rows] = (1.0 - _BOUND_MARGIN) * idf.intensity(np.maximum(whole[rows], min_duration), return_period) \
             * by_end[rows, -1]
-        most = idf.intensity(np.maximum(soonest[rows], min_duration), return_period)
-        open_ = search[rows] & (most[:, None] * by_end[rows] >= least[:, None])
-        r_i, b_i = np.nonzero(open_)
-        point = rows[r_i]
+        most[rows] = idf.intensity(np.maximum(soonest[rows], min_duration), return_period)
+        search = joined_in & (most[:, None] * by_end >= least[:, None])
+        p_i, b_i = np.nonzero(search)
         # no joined piece of a block arrives before its first piece, nor before the point's first one
-        d0 = np.maximum(np.clip(arrival(point, b_i * _BLOCK), soonest[point], whole[point]), min_duration)
-        open_[r_i, b_i] = idf.intensity(d0, return_period) * by_end[point, b_i] >= least[r_i]
-        search = np.zeros_like(search)
-        search[rows] = open_
+        d0 = np.maximum(np.clip(arrival(p_i, b_i * _BLOCK), soonest[p_i], whole[p_i]), min_duration)
+        search[p_i, b_i] = idf.intensity(d0, return_period) * by_end[p_i, b_i] >= least[p_i]
     pair_row, pair_block = np.nonzero(search)
     at = pair_block[:, None] * _BLOCK + np.arange(_BLOCK)[None, :]          # (pairs, _BLOCK) positions
     joined = join[at] <= pair_row[:, None]
