@@ -210,6 +210,7 @@ def _newton_log_vector(evaluate, y, lo, hi, collapsed=_JUMP_MESSAGE, fast=True, 
     last_step = np.full(y.shape, np.inf)
     step_before_last = np.full(y.shape, np.inf)
     done = np.zeros(y.shape, dtype=bool)
+    g = gp = np.zeros(y.shape)
     with np.errstate(over="ignore", invalid="ignore", divide="ignore"):
         for it in range(1, _MAX_ITER + 1):
             if subset and it > 1 and 2 * np.count_nonzero(~done) <= done.size:

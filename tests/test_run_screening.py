@@ -26,7 +26,7 @@ from hydraulics.linings import load_catalogue
 from hydraulics.rainfall import IdfTable
 from hydraulics.run_inflow import PointInflow, SubArea
 from hydraulics.run_layout import StationRange
-from hydraulics.run_screening import SCREEN_FIELDS, screen_lining
+from hydraulics.run_screening import screen_lining
 from hydraulics.solvers import critical_depth, max_flow, normal_depth
 from hydraulics.stability import check_lining
 
