@@ -195,12 +195,13 @@ class RunDesign:
     @property
     def not_verified(self) -> list:
         """Published values this run leans on that are not yet verified against their publication (one line
-        each), from :mod:`hydraulics.provenance`."""
+        each), from :mod:`hydraulics.provenance`: those its warnings and notes cite and those the scheduled
+        linings' checks use (the candidates not built are left out)."""
         texts = [*self.warnings, *self.notes, *(t for b in self.bases for t in (b.coefficient_method, b.time_method))]
         for p in self.result.points:
-            for r in p.checks:
-                if r is not None:
-                    texts += r.cited_texts()
+            r = p.result if p.not_checked is None else None
+            if r is not None:
+                texts += r.cited_texts()
         return provenance.not_verified_lines(provenance.cited_not_verified(texts))
 
     # -- the station table -------------------------------------------------------
@@ -438,6 +439,8 @@ def design_run(project: Project, run: Run, catalogue: Catalogue | None = None) -
     except hy.InputError as exc:
         raise _in_run(run_label(project, run), exc) from None
     warnings = [worded("sub-area {name}: {w}", name=b.name, w=w) for b in bases for w in b.warnings]
+    # the run's warnings with the cautions of the scheduled linings' full checks: asking for them makes those
+    # checks (solve_run only screens the candidates); the station table needs them all the same
     warnings += result.warnings
     notes = list(result.notes)
     if any(b.time_method.startswith("Kirpich") for b in bases):

@@ -4,10 +4,15 @@ The run is a ditch from a high point down to an outfall (:mod:`hydraulics.run_la
 grades). Its design flow grows as the sub-areas drain in (:mod:`hydraulics.run_inflow`, rational method as
 FHWA HEC-22, 3rd ed., 2009, Section 3.2 applies it); the flow at a point depends on the travel time down the
 ditch and the travel time on the ditch's velocity at those flows, so the two are iterated to a fixed point.
-At every design point each candidate lining is checked by HEC-15's permissible-shear method
-(:func:`hydraulics.stability.check_lining`: normal depth with the lining's own roughness, bed, side and bend
-shear, freeboard, lined width, layer volume, cost per length); the cheapest buildable schedule follows
-(:mod:`hydraulics.lining_schedule`), then the quantities of each stretch (:mod:`hydraulics.run_quantities`).
+At every design point each candidate lining is screened by HEC-15's permissible-shear method, on arrays over
+the points of each section (:mod:`hydraulics.run_screening`: normal depth with the lining's own roughness, bed,
+side and bend shear, freeboard, lined width, layer volume; the numbers and verdict of
+:func:`hydraulics.stability.check_lining` for each point), and priced per length; the cheapest buildable schedule
+follows (:mod:`hydraulics.lining_schedule`), then the quantities of each stretch
+(:mod:`hydraulics.run_quantities`). The travel velocities of each round are array solves too, one per section and
+candidate. The full check of a point (``PointResult.checks``, with the scheduled stone sized) and the cautions of
+the scheduled linings (``RunResult.warnings``) are made by ``check_lining`` when first asked for and kept, so that
+solving a run stays quick enough to follow an edit.
 
 Rules of the program, stated with every result:
 
@@ -27,6 +32,7 @@ from __future__ import annotations
 
 import math
 import re
+from collections.abc import Sequence
 from dataclasses import dataclass, field
 
 import numpy as np
@@ -39,12 +45,13 @@ from .provenance import cite
 from .run_inflow import FlowState, peak_flows, split_sub_areas, travel_times
 from .run_layout import RunLayout, StationRange
 from .run_quantities import stretch_quantities
+from .run_screening import Screening, screen_lining, solvable
 from .sections import Section
 from .solvers import critical_depth, normal_depth
 from .stability import StabilityResult, check_lining
 from .wording import worded
 
-__all__ = ["SectionRange", "Bend", "Candidate", "DitchRun", "PointResult", "RunResult", "solve_run",
+__all__ = ["SectionRange", "Bend", "Candidate", "DitchRun", "PointResult", "PointChecks", "RunResult", "solve_run",
            "TRAVEL_TOLERANCE", "MAX_TRAVEL_ITERATIONS", "RUN_RULES"]
 
 #: The travel-time iteration stops when no design point's travel time changes by more than this [s].
@@ -139,9 +146,51 @@ class DitchRun:
     stone_porosity: float = 0.4
 
 
-@dataclass
+class PointChecks(Sequence):
+    """The full lining check of each candidate at one design point (a ``StabilityResult``, or None where no check
+    was made: no flow yet, a zero or adverse grade, or the check could not be made there).
+
+    Each is made by :func:`hydraulics.stability.check_lining` when first asked for, and kept: the run itself
+    only screens the candidates on arrays (:mod:`hydraulics.run_screening`). The scheduled candidate, where it is
+    stone, is also sized (its smallest stable D50); the others are checked as given.
+    """
+
+    def __init__(self, point: "PointResult", run: DitchRun, screening: Screening):
+        self._point, self._run, self._screening = point, run, screening
+        self._made = {}
+
+    def __len__(self) -> int:
+        return len(self._run.candidates)
+
+    def __getitem__(self, k):
+        if isinstance(k, slice):
+            return [self[i] for i in range(len(self))[k]]
+        k = range(len(self))[k]
+        if k not in self._made:
+            self._made[k] = self._check(k)
+        return self._made[k]
+
+    def made(self) -> list:
+        """The candidates whose full check has been made so far (indices)."""
+        return sorted(self._made)
+
+    def _check(self, k: int) -> StabilityResult | None:
+        p, run = self._point, self._run
+        if p.not_checked is not None or not self._screening.checked[p.index, k]:
+            return None
+        c = run.candidates[k]
+        return check_lining(p.section, p.flow, p.grade, c.lining, d50=c.d50, bend_radius=p.bend_radius,
+                            min_freeboard=run.min_freeboard,
+                            size_stone=k == p.choice and c.lining.category == "stone")
+
+    def __repr__(self) -> str:
+        return f"PointChecks(point {self._point.index}, made {self.made()})"
+
+
+@dataclass(eq=False)
 class PointResult:
-    """One design point: its candidates' checks (None where not checked) and the scheduled one."""
+    """One design point: its candidates' full checks (``checks``, made when first asked for), the errors of those
+    that could not be checked (words, else None), and the scheduled one (``result``)."""
 
     index: int
     station: float
@@ -153,11 +202,12 @@ class PointResult:
     section: Section
     ditch_depth: float
     bend_radius: float | None
-    checks: list                      # StabilityResult | None per candidate
-    errors: list                      # message per candidate where it could not be checked, else None
+    checks: PointChecks | None = None  # StabilityResult | None per candidate, made on first access
+    errors: list | None = None         # message per candidate where it could not be checked, else None
     choice: int = -1                  # scheduled candidate
     failing: bool = False             # no candidate is stable here
     not_checked: str | None = None    # why no lining was checked here (zero or adverse grade, no flow)
+    total_depth: float | None = None  # the scheduled candidate's depth plus freeboard [m] (from the screening)
 
     @property
     def result(self) -> StabilityResult | None:
@@ -171,35 +221,73 @@ class PointResult:
 
     @property
     def fits(self) -> bool | None:
-        r = self.result
-        return None if r is None else bool(r.total_depth <= self.ditch_depth * (1 + 1e-9))
+        t = self.total_depth
+        return None if t is None else bool(t <= self.ditch_depth * (1 + 1e-9))
 
 
-@dataclass
+@dataclass(eq=False)
 class RunResult:
+    """A solved run. ``screening`` holds every candidate at every point as (points, candidates) arrays (depth,
+    margin, lined width, total depth...; :mod:`hydraulics.run_screening`): what a live view draws from.
+
+    ``run_warnings`` are the run's own warnings, ready with the result (grades, failing or overtopped stretches,
+    checks that could not be made, drainage area). ``warnings`` adds to them, in their place, the cautions of
+    the scheduled linings' full checks (ranges of validity, stone sizing...), once per kind and lining over each
+    range of points: those need the full check at every checked point, made on first access to ``warnings``
+    (or :meth:`check_warnings`) and kept, so that solving a run stays quick and a front end pays for them only
+    when it shows them.
+    """
+
     run: DitchRun
     layout: RunLayout
     flows: FlowState
     travel_time: np.ndarray            # tau at each point [s]
     iterations: int
-    points: list                       # PointResult
     schedule: Schedule
     quantities: list                   # StretchQuantities per stretch
-    warnings: list = field(default_factory=list)
+    screening: Screening
+    section_index: np.ndarray          # the section range of each point
+    bend_radius: np.ndarray            # [m] at each point, nan on a straight reach
+    ditch_depth: np.ndarray            # depth of the ditch as built at each point [m]
+    choice: np.ndarray                 # scheduled candidate at each point
+    failing: np.ndarray                # bool: no candidate is stable at this checked point
+    checked: np.ndarray                # bool: the point has flow on a falling grade (its linings are checked)
+    run_warnings: list = field(default_factory=list)
     notes: list = field(default_factory=list)
+    checks_at: int = 0                 # where in run_warnings the checks' cautions go
+    _cautions: list | None = field(default=None, repr=False)
+    _points: list | None = field(default=None, repr=False)
 
     @property
     def total_cost(self) -> float:
         return float(sum(q.cost for q in self.quantities))
 
+    @property
+    def points(self) -> list:
+        """A PointResult per design point (made on first access; their full checks when asked for)."""
+        if self._points is None:
+            self._points = _points(self)
+        return self._points
 
-def _margin(result: StabilityResult) -> float:
-    """The check's margin (safety factor over the one required, lowest over the checks; inf when non-erodible),
-    kept on the side of its verdict."""
-    m = min((c.margin for c in result.checks), default=math.inf)
-    if result.stable:
-        return max(m, 1.0)
-    return min(m, math.nextafter(1.0, 0.0))
+    def scheduled(self, name: str) -> np.ndarray:
+        """The screened ``name`` (a field of :data:`hydraulics.run_screening.SCREEN_FIELDS`) of the scheduled
+        candidate at each point; nan where its lining was not checked."""
+        values = getattr(self.screening, name)[np.arange(self.choice.size), self.choice]
+        ok = self.checked & self.screening.checked[np.arange(self.choice.size), self.choice]
+        return np.where(ok, values, np.nan)
+
+    def check_warnings(self) -> list:
+        """The cautions of the scheduled linings' full checks, once per kind and lining over each range of points
+        where they hold (the first point's numbers quoted). Makes each scheduled check on the first call."""
+        if self._cautions is None:
+            self._cautions = _check_cautions(self.points)
+        return list(self._cautions)
+
+    @property
+    def warnings(self) -> list:
+        """Every warning of the run: ``run_warnings`` with the checks' cautions in their place."""
+        at = self.checks_at
+        return [*self.run_warnings[:at], *self.check_warnings(), *self.run_warnings[at:]]
 
 
 def _validate(run: DitchRun) -> None:
@@ -222,25 +310,63 @@ def _validate(run: DitchRun) -> None:
 
 def _travel_velocity(points, roughness) -> np.ndarray:
     """The velocity used to time travel down the ditch at each point (see the module's rules) [m/s]."""
-    v = np.full(len(points), np.nan)
-    for p in points:
-        if p.flow <= 0:
-            continue
-        if p.grade > 0:
-            best = 0.0
-            for rough in roughness:
-                try:
-                    y = normal_depth(p.section, p.flow, p.grade, rough)
-                except NoSolutionError:
-                    continue
-                best = max(best, p.flow / float(p.section.properties(y).area))
-            if best > 0:
-                v[p.index] = best
-                continue
-        yc = critical_depth(p.section, p.flow)
-        v[p.index] = p.flow / float(p.section.properties(yc).area)
+    sections = {p.section_index: p.section for p in points}
+    which = np.array([p.section_index for p in points], dtype=int)
+    flow = np.array([p.flow for p in points], dtype=float)
+    grade = np.array([p.grade for p in points], dtype=float)
+    return _travel_velocities(sections, which, flow, grade, roughness)
+
+
+def _normal_depths(section, flow, slope, rough) -> np.ndarray:
+    """Normal depth of each flow [m], nan where it has none (what ``normal_depth`` refuses with NoSolutionError):
+    one array solve, with the flows a closed section cannot surely carry left to the scalar solve."""
+    y = np.full(flow.size, np.nan)
+    sure, near = solvable(section, flow, slope, rough)
+    try:
+        if sure.any():
+            y[sure] = normal_depth(section, flow[sure], slope[sure], rough)
+    except HydraulicsError:            # the array solve could not be made: every flow on its own
+        near = np.ones(flow.size, dtype=bool)
+    for i in np.flatnonzero(near).tolist():
+        try:
+            y[i] = normal_depth(section, float(flow[i]), float(slope[i]), rough)
+        except NoSolutionError:
+            y[i] = np.nan
+    return y
+
+
+def _critical_depths(section, flow) -> np.ndarray:
+    """Critical depth of each flow [m]: one array solve (the scalar solves, and their errors, if it fails)."""
+    try:
+        return np.asarray(critical_depth(section, flow), dtype=float).reshape(flow.shape)
+    except HydraulicsError:
+        return np.array([critical_depth(section, float(q)) for q in flow], dtype=float)
+
+
+def _travel_velocities(sections: dict, which, flow, grade, roughness) -> np.ndarray:
+    """:func:`_travel_velocity` on arrays: one array solve per section and candidate [m/s].
+
+    ``sections`` maps a section index to its Section, ``which`` gives each point's section index, ``flow`` [m^3/s]
+    and ``grade`` [m/m] each point's; ``roughness`` the candidates' roughness (a number or a model).
+    """
+    v = np.full(flow.size, np.nan)
+    for index, section in sections.items():
+        rows = np.flatnonzero((which == index) & (flow > 0))
+        falling = rows[grade[rows] > 0]
+        best = np.zeros(falling.size)
+        q = flow[falling]
+        for rough in roughness:
+            y = _normal_depths(section, q, grade[falling], rough)
+            solved = ~np.isnan(y)
+            if solved.any():
+                best[solved] = np.maximum(best[solved], q[solved] / section.properties(y[solved]).area)
+        v[falling[best > 0]] = best[best > 0]
+        still = rows[np.isnan(v[rows])]          # zero or adverse grade, or no normal depth for any candidate
+        if still.size:
+            yc = _critical_depths(section, flow[still])
+            v[still] = flow[still] / section.properties(yc).area
     if np.all(np.isnan(v)):
-        return np.ones(len(points))  # no flow anywhere: no travel to time
+        return np.ones(flow.size)  # no flow anywhere: no travel to time
     # a point without flow takes the velocity of the next point downstream with flow; the last ones, the previous
     idx = np.where(~np.isnan(v), np.arange(v.size), v.size)
     nxt = np.minimum.accumulate(idx[::-1])[::-1]
@@ -251,7 +377,12 @@ def _travel_velocity(points, roughness) -> np.ndarray:
 
 def solve_run(run: DitchRun) -> RunResult:
     """Solve a ditch run (see the module's text). Raises InputError for bad input (naming the item),
-    NoSolutionError where no buildable schedule exists, ConvergenceError if the travel time does not settle."""
+    NoSolutionError where no buildable schedule exists, ConvergenceError if the travel time does not settle.
+
+    Every candidate is screened at every point on arrays (:mod:`hydraulics.run_screening`); the full check of a
+    point's candidates (``PointResult.checks``, ``PointResult.result``) and the cautions of the scheduled
+    linings (``RunResult.warnings``) are made when first asked for.
+    """
     _validate(run)
     prof = np.asarray(run.profile, dtype=float)
     if prof.ndim != 2 or prof.shape[1] != 2:
@@ -271,27 +402,18 @@ def solve_run(run: DitchRun) -> RunResult:
         if r.ditch_depth is not None:
             validate.positive(f"sections[{k}].ditch_depth", r.ditch_depth)
     bend_at = layout.within([b.range for b in run.bends]) if run.bends else np.full(layout.x.size, -1)
+    bend = np.array([np.nan] + [float(b.radius) for b in run.bends])[bend_at + 1]   # nan: straight
     pieces = split_sub_areas(layout, run.sub_areas)
     total_area = sum(a.area for a in run.sub_areas)
-
-    points = []
-    for i in range(layout.x.size):
-        sr = run.sections[which[i]]
-        depth = float(sr.section.full_depth) if sr.ditch_depth is None else float(sr.ditch_depth)
-        points.append(PointResult(index=i, station=float(layout.stations[i]), x=float(layout.x[i]),
-                                  invert=float(layout.invert[i]), grade=float(layout.grade[i]), flow=0.0,
-                                  section_index=int(which[i]), section=sr.section, ditch_depth=depth,
-                                  bend_radius=None if bend_at[i] < 0 else float(run.bends[bend_at[i]].radius),
-                                  checks=[None] * len(run.candidates), errors=[None] * len(run.candidates)))
+    sections = {int(k): run.sections[int(k)].section for k in np.unique(which)}
+    grade = np.asarray(layout.grade, dtype=float)
 
     # -- flow and travel time to a fixed point --------------------------------
     roughness = [c.lining.roughness(c.d50) for c in run.candidates]
     tau = np.zeros(layout.x.size)
     for iteration in range(1, MAX_TRAVEL_ITERATIONS + 1):
         state = peak_flows(layout, pieces, run.point_inflows, tau, run.idf, run.return_period, run.min_duration)
-        for p, q in zip(points, state.flow):
-            p.flow = float(q)
-        new_tau = travel_times(layout.x, _travel_velocity(points, roughness))
+        new_tau = travel_times(layout.x, _travel_velocities(sections, which, state.flow, grade, roughness))
         change = float(np.max(np.abs(new_tau - tau)))
         tau = new_tau
         if change <= TRAVEL_TOLERANCE:
@@ -300,55 +422,51 @@ def solve_run(run: DitchRun) -> RunResult:
         raise ConvergenceError(f"the travel time down the ditch did not settle in {MAX_TRAVEL_ITERATIONS} rounds "
                                f"(last change {change:.3g} s): the flow and the ditch velocity keep changing each other")
     state = peak_flows(layout, pieces, run.point_inflows, tau, run.idf, run.return_period, run.min_duration)
-    for p, q in zip(points, state.flow):
-        p.flow = float(q)
+    flow = np.asarray(state.flow, dtype=float)
 
-    # -- every candidate at every point ------------------------------------
-    shape = (len(points), len(run.candidates))
-    margin, cost, lined, volume = (np.full(shape, np.nan) for _ in range(4))
-    for p in points:
-        if p.flow <= 0:
-            p.not_checked = "no flow has reached this point yet"
+    # -- every candidate at every point, on arrays ------------------------------
+    n, k_count = layout.x.size, len(run.candidates)
+    screening = Screening.empty(n, k_count)
+    wet, falling = flow > 0, grade > 0
+    for index, section in sections.items():
+        rows = np.flatnonzero((which == index) & wet & falling)
+        if not rows.size:
             continue
-        if p.grade <= 0:
-            p.not_checked = ("zero grade" if p.grade == 0 else "adverse grade") + (
-                ": no normal depth, so no lining check; the water-surface profile is needed here")
-            continue
+        bent = None if np.isnan(bend[rows]).all() else bend[rows]
         for k, c in enumerate(run.candidates):
-            try:
-                r = check_lining(p.section, p.flow, p.grade, c.lining, d50=c.d50, bend_radius=p.bend_radius,
-                                 min_freeboard=run.min_freeboard, size_stone=False)
-            except HydraulicsError as exc:
-                p.errors[k] = str(exc)
-                continue
-            p.checks[k] = r
-            margin[p.index, k] = _margin(r)
-            lined[p.index, k] = r.lined_width
-            volume[p.index, k] = np.nan if r.layer_volume is None else r.layer_volume
-            cost[p.index, k] = c.cost_per_length(r.lined_width, r.layer_volume, run.mat_allowance)
+            screening.put(rows, k, screen_lining(section, flow[rows], grade[rows], c.lining, d50=c.d50,
+                                                 bend_radius=bent, min_freeboard=run.min_freeboard,
+                                                 roughness=roughness[k]))
+    margin = np.where(screening.checked, screening.margin, np.nan)
+    lined, volume = screening.lined_width.copy(), screening.layer_volume.copy()
+    cost = np.full((n, k_count), np.nan)
+    for k, c in enumerate(run.candidates):
+        ok = screening.checked[:, k]
+        if c.lining.unit_cost_basis == "area":
+            grows = c.lining.category in ("vegetation", "manufactured")
+            cost[ok, k] = c.price * lined[ok, k] * ((1.0 + run.mat_allowance) if grows else 1.0)
+        else:
+            cost[ok, k] = c.price * volume[ok, k]      # NaN where the lining has no layer
     # A point not checked (no flow yet, no falling grade) lets any candidate pass (margin 1 where there is no
     # flow, 0 on a flat or adverse grade, so it is flagged) and takes its widths and prices from the nearest
     # checked point downstream (upstream at the end of the run).
-    checked = np.array([p.not_checked is None and any(r is not None for r in p.checks) for p in points])
+    checkable = wet & falling
+    checked = checkable & screening.checked.any(axis=1)
     if not checked.any():
         raise NoSolutionError("no design point of the run could be checked (no flow, or no falling grade anywhere)")
-    n = len(points)
     nxt = np.minimum.accumulate(np.where(checked, np.arange(n), n)[::-1])[::-1]
     prev = np.maximum.accumulate(np.where(checked, np.arange(n), -1))
     donor = np.where(nxt < n, nxt, prev)
-    for i in np.where(~checked)[0]:
-        for arr in (cost, lined, volume):
-            arr[i] = arr[donor[i]]
-        margin[i] = np.where(np.isfinite(cost[i]), 1.0 if points[i].flow <= 0 else 0.0, np.nan)
+    lost = np.flatnonzero(~checked)
+    for arr in (cost, lined, volume):
+        arr[lost] = arr[donor[lost]]
+    margin[lost] = np.where(np.isfinite(cost[lost]), np.where(wet[lost], 0.0, 1.0)[:, None], np.nan)
     schedule = cheapest_schedule(layout.x, margin, cost, run.min_stretch)
-    for p in points:
-        p.choice = int(schedule.choice_at[min(p.index, n - 2)])
-        p.failing = bool(schedule.failing[p.index]) and p.not_checked is None
-    for p in points:   # the smallest stable stone where stone is scheduled (the costly part of its check)
-        c = run.candidates[p.choice]
-        if p.not_checked is None and p.checks[p.choice] is not None and c.lining.category == "stone":
-            p.checks[p.choice] = check_lining(p.section, p.flow, p.grade, c.lining, d50=c.d50,
-                                              bend_radius=p.bend_radius, min_freeboard=run.min_freeboard)
+    choice = np.asarray(schedule.choice_at)[np.minimum(np.arange(n), n - 2)]
+    failing = np.asarray(schedule.failing) & checkable
+
+    depth_of = np.array([float(r.section.full_depth) if r.ditch_depth is None else float(r.ditch_depth)
+                         for r in run.sections])
     quantities = []
     for s in schedule.stretches:
         rows = slice(s.first, s.last + 1)
@@ -356,10 +474,37 @@ def solve_run(run: DitchRun) -> RunResult:
             layout.x[rows], lined[rows, s.choice], volume[rows, s.choice], run.candidates[s.choice],
             choice=s.choice, start=float(layout.stations[s.first]), end=float(layout.stations[s.last]),
             mat_allowance=run.mat_allowance, stone_porosity=run.stone_porosity))
+    result = RunResult(run=run, layout=layout, flows=state, travel_time=tau, iterations=iteration,
+                       schedule=schedule, quantities=quantities, screening=screening, section_index=which,
+                       bend_radius=bend, ditch_depth=depth_of[which], choice=choice, failing=failing,
+                       checked=checkable)
+    result.run_warnings, result.checks_at, result.notes = _run_messages(result, total_area)
+    return result
 
-    warnings, notes = _run_messages(run, layout, state, points, total_area)
-    return RunResult(run=run, layout=layout, flows=state, travel_time=tau, iterations=iteration, points=points,
-                     schedule=schedule, quantities=quantities, warnings=warnings, notes=notes)
+
+def _points(res: RunResult) -> list:
+    """The PointResult of every design point of ``res`` (their full checks made on first access)."""
+    run, layout, screening = res.run, res.layout, res.screening
+    total = res.scheduled("total_depth")
+    points = []
+    rows = zip(layout.stations.tolist(), layout.x.tolist(), layout.invert.tolist(), layout.grade.tolist(),
+               res.flows.flow.tolist(), res.section_index.tolist(), res.bend_radius.tolist(),
+               res.ditch_depth.tolist(), res.choice.tolist(), res.failing.tolist(), total.tolist(), screening.errors)
+    for i, (st, x, z, g, q, k, rc, depth, ch, fail, top, errs) in enumerate(rows):
+        if not q > 0:
+            why = "no flow has reached this point yet"
+        elif not g > 0:
+            why = ("zero grade" if g == 0 else "adverse grade") + (
+                ": no normal depth, so no lining check; the water-surface profile is needed here")
+        else:
+            why = None
+        p = PointResult(index=i, station=st, x=x, invert=z, grade=g, flow=q, section_index=k,
+                        section=run.sections[k].section, ditch_depth=depth, bend_radius=None if rc != rc else rc,
+                        errors=list(errs), choice=ch, failing=fail, not_checked=why,
+                        total_depth=None if top != top else top)
+        p.checks = PointChecks(p, run, screening)
+        points.append(p)
+    return points
 
 
 def _ranges_of(mask, stations) -> list:
@@ -375,7 +520,9 @@ def _ranges_of(mask, stations) -> list:
     return out
 
 
-def _run_messages(run, layout, state, points, total_area):
+def _run_messages(res: RunResult, total_area: float):
+    """The run's own warnings (and where in them the checks' cautions go) and its notes."""
+    run, layout, state, screening = res.run, res.layout, res.flows, res.screening
     warnings, notes = [], []
     at = lambda s: (s, "station")  # noqa: E731
     for j, g in enumerate(layout.grades):
@@ -385,23 +532,38 @@ def _run_messages(run, layout, state, points, total_area):
                                    "checked on this stretch and the water backs up (the water-surface profile is not "
                                    "computed here)", kind="zero" if g == 0 else "adverse", a=at(min(a, b)),
                                    b=at(max(a, b)), g=f"{100 * g:.2f}"))
-    stations = [p.station for p in points]
-    for a, b in _ranges_of([p.failing for p in points], stations):
+    stations = layout.stations.tolist()
+    for a, b in _ranges_of(res.failing.tolist(), stations):
         warnings.append(worded("no candidate lining is stable from {a} to {b}: the strongest candidate is scheduled "
                                "there and still fails; add a stronger lining or change the section", a=at(a), b=at(b)))
-    for a, b in _ranges_of([p.fits is False for p in points], stations):
+    with np.errstate(invalid="ignore"):
+        over = res.scheduled("total_depth") > res.ditch_depth * (1 + 1e-9)   # nan (not checked) compares False
+    for a, b in _ranges_of(over.tolist(), stations):
         warnings.append(worded("water plus freeboard is above the ditch as built from {a} to {b}: deepen the ditch",
                                a=at(a), b=at(b)))
-    for a, b in _ranges_of(list(state.partial), stations):
+    for a, b in _ranges_of(state.partial.tolist(), stations):
         notes.append(worded("from {a} to {b} a part of the drainage area that reaches the ditch sooner gives a larger "
                             "peak than the whole area (partial-area case); the larger flow is used", a=at(a), b=at(b)))
-    for p in points:
-        for k, err in enumerate(p.errors):
-            if err is not None:
-                warnings.append(worded("{lining} could not be checked at {s}: {err}",
-                                       lining=run.candidates[k].label, s=at(p.station), err=err))
-    # The checks' own cautions, once per kind and lining over each range of points where they hold (the first
-    # point's numbers are quoted)
+    for i, k in zip(*np.nonzero(res.checked[:, None] & ~screening.checked)):
+        err = screening.errors[i][k]
+        if err is not None:
+            warnings.append(worded("{lining} could not be checked at {s}: {err}",
+                                   lining=run.candidates[k].label, s=at(stations[i]), err=err))
+    checks_at = len(warnings)      # the scheduled checks' cautions come here (RunResult.warnings)
+    if total_area > RATIONAL_MAX_AREA:
+        warnings.append(worded("the run drains {area} in all, above the {limit} usually allowed for the rational "
+                               "method ({src}); use a hydrograph method", area=(total_area, "drainage_area"),
+                               limit=(RATIONAL_MAX_AREA, "drainage_area"), src=cite("rational_area")))
+    notes.extend(RUN_RULES)
+    return warnings, checks_at, notes
+
+
+def _check_cautions(points) -> list:
+    """The checks' own cautions, once per kind and lining over each range of points where they hold (the first
+    point's numbers are quoted), from the scheduled linings' full checks (made here where not yet made)."""
+    warnings = []
+    at = lambda s: (s, "station")  # noqa: E731
+    stations = [p.station for p in points]
     spans = {}
     for p in points:
         r = p.result if p.not_checked is None else None
@@ -419,9 +581,4 @@ def _run_messages(run, layout, state, points, total_area):
             else:
                 warnings.append(worded("from {a} to {b} ({lining}), at {a}: {w}", a=at(stations[first]),
                                        b=at(stations[last]), lining=lining, w=w))
-    if total_area > RATIONAL_MAX_AREA:
-        warnings.append(worded("the run drains {area} in all, above the {limit} usually allowed for the rational "
-                               "method ({src}); use a hydrograph method", area=(total_area, "drainage_area"),
-                               limit=(RATIONAL_MAX_AREA, "drainage_area"), src=cite("rational_area")))
-    notes.extend(RUN_RULES)
-    return warnings, notes
+    return warnings

@@ -4,7 +4,9 @@ A lined channel (:func:`hydraulics.stability.check_lining`) and a channel
 without a lining (the application's evaluation) both take their freeboard,
 total depth, width at the top and the warnings about them from
 :func:`ditch_top`, and word the rule with :func:`freeboard_rule`, so that the
-window, the sheet, the command line and the batch say the same thing.
+window, the sheet, the command line and the batch say the same thing. A ditch
+run screens its candidates at every design point with :func:`ditch_tops`, the
+same rule on arrays (:func:`ditch_top` is that function for one channel).
 
 Relations (SI):
 
@@ -25,7 +27,10 @@ Relations (SI):
 
 from __future__ import annotations
 
+import math
 from dataclasses import dataclass
+
+import numpy as np
 
 from .linings import hec15
 from .provenance import cite
@@ -33,7 +38,7 @@ from .units import SI, UnitSystem
 from .wording import format_quantity, worded
 
 __all__ = ["FREEBOARD_SOURCE", "SUPERELEVATION_SOURCE", "SUPERCRITICAL_BEND_SOURCE", "WAVE_RULE", "DitchTop",
-           "ditch_top", "freeboard_rule"]
+           "DitchTops", "ditch_top", "ditch_tops", "freeboard_rule"]
 
 FREEBOARD_SOURCE = f"{cite('freeboard')}; local design codes govern and may ask for more"
 SUPERELEVATION_SOURCE = f"superelevation in the bend V^2 T / (g Rc), {cite('superelevation')}"
@@ -55,6 +60,61 @@ class DitchTop:
     warnings: tuple               # worded once (see hydraulics.wording)
 
 
+@dataclass(frozen=True)
+class DitchTops:
+    """Freeboard and the top of the ditch for many design depths of one section (SI arrays, one entry each).
+
+    ``superelevation`` is nan on a straight reach, ``wave_allowance`` nan where supercritical flow did not set
+    the freeboard; ``supercritical_bend`` and ``too_shallow`` mark the entries whose :func:`ditch_top` carries
+    the warning about cross waves in a bend and about a section shallower than depth plus freeboard.
+    """
+
+    freeboard: np.ndarray
+    superelevation: np.ndarray
+    wave_allowance: np.ndarray
+    total_depth: np.ndarray
+    depth_at_top: np.ndarray
+    top_width: np.ndarray
+    supercritical_bend: np.ndarray
+    too_shallow: np.ndarray
+
+
+def ditch_tops(section, depth, velocity, top_width, froude, bend_radius=None,
+               min_freeboard=hec15.MIN_FREEBOARD) -> DitchTops:
+    """Freeboard, total depth and top width of ``section`` at many design depths: the rule of :func:`ditch_top`
+    on arrays (the one place it is computed; see the module's text for the relations and their sources).
+
+    ``depth`` [m], ``velocity`` [m/s], ``top_width`` [m] and ``froude`` [-] are arrays of one length (those of
+    each design flow); ``bend_radius`` [m] an array with nan on a straight reach, or None for all straight;
+    ``min_freeboard`` [m] the project's minimum.
+    """
+    y, v, t, fr = (np.atleast_1d(np.asarray(a, dtype=float)) for a in (depth, velocity, top_width, froude))
+    base = float(hec15.freeboard(minimum=min_freeboard))      # the minimum, checked >= 0
+    superelevation = np.full(y.shape, np.nan)
+    fb = np.full(y.shape, base)
+    bent = np.zeros(y.shape, dtype=bool)
+    if bend_radius is not None:
+        rc = np.broadcast_to(np.asarray(bend_radius, dtype=float), y.shape)
+        bent = ~np.isnan(rc)
+        if bent.any():
+            # HEC-15 Section 3.4: the minimum plus the superelevation V^2 T / (g Rc) (hec15.freeboard)
+            superelevation[bent] = hec15.superelevation(v[bent], t[bent], rc[bent])
+            fb[bent] = base + superelevation[bent]
+    waved = (fr > 1.0) & (y > fb)       # supercritical: at least the flow depth (WAVE_RULE)
+    fb = np.where(waved, y, fb)
+    total = y + fb
+    at_top = total
+    full = section.full_depth
+    too_shallow = np.zeros(y.shape, dtype=bool)
+    if full is not None:
+        too_shallow = total > float(full)
+        at_top = np.where(too_shallow, float(full), total)
+    return DitchTops(freeboard=fb, superelevation=superelevation, wave_allowance=np.where(waved, y, np.nan),
+                     total_depth=total, depth_at_top=at_top,
+                     top_width=np.broadcast_to(np.asarray(section.top_width(at_top), dtype=float), y.shape).copy(),
+                     supercritical_bend=bent & (fr > 1.0), too_shallow=too_shallow)
+
+
 def ditch_top(section, depth, velocity, top_width, froude, bend_radius=None,
               min_freeboard=hec15.MIN_FREEBOARD) -> DitchTop:
     """Freeboard, total depth and top width of ``section`` at the design ``depth`` [m].
@@ -63,29 +123,26 @@ def ditch_top(section, depth, velocity, top_width, froude, bend_radius=None,
     design flow; ``bend_radius`` [m] (None: straight) adds the superelevation;
     ``min_freeboard`` [m] is the project's minimum. A closed or surveyed
     section shallower than depth plus freeboard is reported, never widened.
+    The numbers are :func:`ditch_tops` for one channel; this adds the warnings in words.
     """
-    y, v, t, fr = float(depth), float(velocity), float(top_width), float(froude)
+    fr = float(froude)
+    tops = ditch_tops(section, depth, velocity, top_width, froude,
+                      None if bend_radius is None else float(bend_radius), min_freeboard)
     warnings = []
-    superelevation = None if bend_radius is None else float(hec15.superelevation(v, t, bend_radius))
-    if bend_radius is not None and fr > 1.0:
+    if tops.supercritical_bend[0]:
         warnings.append(f"supercritical flow (Froude number {fr:.2f}) in a bend forms cross waves whose crests can "
                         f"rise above the superelevation estimate ({SUPERCRITICAL_BEND_SOURCE}); allow more "
                         "freeboard or avoid the bend")
-    fb = float(hec15.freeboard(v, t, bend_radius, minimum=min_freeboard))
-    wave = y if fr > 1.0 and y > fb else None
-    if wave is not None:
-        fb = wave
-    total = y + fb
-    at_top = total
-    full = section.full_depth
-    if full is not None and total > float(full):
-        at_top = float(full)
+    total = float(tops.total_depth[0])
+    if tops.too_shallow[0]:
         warnings.append(worded("the design depth plus freeboard ({total}) is above the section's full depth ({full}): "
                                "the {kind} is not deep enough for the freeboard", total=(total, "length"),
-                               full=(float(full), "length"), kind=section.kind))
-    return DitchTop(freeboard=fb, superelevation=superelevation, wave_allowance=wave, total_depth=total,
-                    depth_at_top=at_top,
-                    top_width=float(section.top_width(at_top)), warnings=tuple(warnings))
+                               full=(float(section.full_depth), "length"), kind=section.kind))
+    sup, wave = float(tops.superelevation[0]), float(tops.wave_allowance[0])
+    return DitchTop(freeboard=float(tops.freeboard[0]), superelevation=None if bend_radius is None else sup,
+                    wave_allowance=None if math.isnan(wave) else wave, total_depth=total,
+                    depth_at_top=float(tops.depth_at_top[0]), top_width=float(tops.top_width[0]),
+                    warnings=tuple(warnings))
 
 
 def freeboard_rule(min_freeboard: float, superelevation: float | None = None, units: UnitSystem = SI,

@@ -134,6 +134,9 @@ class _Idf:
 
     _return_periods: tuple
     _duration_range: tuple | None
+    #: The intensity falls (never rises) as the duration grows: a table's columns are refused otherwise and
+    #: a / (t + b)^c falls for c > 0, b >= 0. The run's flow search relies on it (hydraulics.run_inflow).
+    falls_with_duration = True
 
     @property
     def return_periods(self) -> tuple:

@@ -157,12 +157,29 @@ def travel_times(x, velocity) -> np.ndarray:
     return np.concatenate([[0.0], np.cumsum(seg)])
 
 
+#: Pieces per block of the search for the governing duration (see :func:`peak_flows`).
+_BLOCK = 16
+#: A block is left out only when its bound is below the known flow by more than this fraction (rounding).
+_BOUND_MARGIN = 1e-12
+
+
 def peak_flows(layout: RunLayout, pieces: Pieces, inflows, tau, idf, return_period: float,
                min_duration: float) -> FlowState:
     """The design flow at every design point for travel times ``tau`` [s] (see the module's text).
 
     ``idf`` has ``intensity(duration [s] array, return_period [yr]) -> [m/s]``; ``min_duration`` t_min [s] is the
     shortest duration the intensity is read at. A duration the relation does not cover is refused by it.
+
+    Notes
+    -----
+    A piece's arrival time at point i is t_c + tau(i) - tau(x_e): the pieces arrive in the same order at every
+    point (by t_c - tau(x_e)), so they are sorted once. For each point the flow is the largest i(D) x (C A
+    arrived by D) over the arrival times D of the pieces joined there. Where the relation says its intensity
+    falls as the duration grows (``idf.falls_with_duration``, true of :class:`hydraulics.rainfall.IdfTable` and
+    :class:`hydraulics.rainfall.IdfFormula`), the pieces are taken in blocks of ``_BLOCK`` and a block is
+    searched only when i(its first arrival) x (C A arrived by its last) can reach the whole area's flow: the
+    others cannot hold the largest. Every duration the search would read is still offered to the relation, so
+    it refuses the same durations.
     """
     n = layout.x.size
     tau = np.asarray(tau, dtype=float)
@@ -177,29 +194,83 @@ def peak_flows(layout: RunLayout, pieces: Pieces, inflows, tau, idf, return_peri
         return FlowState(ca=zeros, duration=zeros.copy(), intensity=zeros.copy(), rational_flow=zeros.copy(),
                          governing_ca=zeros.copy(), partial=np.zeros(n, bool), point_flow=point_flow,
                          flow=point_flow.copy(), whole_duration=zeros.copy())
-    point = np.arange(n)[:, None]
-    joined = pieces.join[None, :] <= point                          # (n, P)
-    arrival = pieces.tc[None, :] + tau[:, None] - tau[pieces.origin][None, :]
-    arrival = np.where(joined, arrival, np.inf)
-    order = np.argsort(arrival, axis=1, kind="stable")
-    t_sorted = np.take_along_axis(arrival, order, axis=1)
-    ca_sorted = np.where(np.isfinite(t_sorted), pieces.ca[order], 0.0)
-    cum = np.cumsum(ca_sorted, axis=1)
-    finite = np.isfinite(t_sorted)
-    d_eff = np.where(finite, np.maximum(t_sorted, min_duration), np.nan)
-    intensity = np.zeros_like(d_eff)
-    if finite.any():
-        intensity[finite] = idf.intensity(d_eff[finite], return_period)
-    q = np.where(finite, intensity * cum, -np.inf)
-    best = np.argmax(q, axis=1)
-    has = finite.any(axis=1)
-    rows = np.arange(n)
-    ca_total = np.where(has, cum[:, -1], 0.0)
-    gov_ca = np.where(has, cum[rows, best], 0.0)
-    rational = np.where(has, q[rows, best], 0.0)
-    duration = np.where(has, d_eff[rows, best], 0.0)
-    whole = np.where(has, np.max(np.where(finite, t_sorted, -np.inf), axis=1), 0.0)
-    return FlowState(ca=ca_total, duration=duration, intensity=np.where(has, intensity[rows, best], 0.0),
-                     rational_flow=rational, governing_ca=gov_ca,
+    # the pieces in order of arrival (the same at every point), padded to whole blocks with pieces never joined
+    order = np.argsort(pieces.tc - tau[pieces.origin], kind="stable")
+    count = order.size
+    blocks = -(-count // _BLOCK)
+    pad = blocks * _BLOCK - count
+    tc = np.concatenate([pieces.tc[order], np.full(pad, pieces.tc[order[-1]])])
+    t_entry = np.concatenate([tau[pieces.origin][order], np.full(pad, tau[pieces.origin][order[-1]])])
+    ca = np.concatenate([pieces.ca[order], np.zeros(pad)])
+    join = np.concatenate([pieces.join[order], np.full(pad, n)])
+    block_of = np.arange(blocks * _BLOCK) // _BLOCK
+
+    def arrival(rows, at):
+        """Arrival time [s] at the points ``rows`` of the pieces at sorted positions ``at``."""
+        return tc[at] + tau[rows] - t_entry[at]
+
+    # C A joined at each point in each block, and arrived by each block's end
+    cell = np.minimum(join, n) * blocks + block_of
+    in_block = np.bincount(cell, weights=ca, minlength=(n + 1) * blocks).reshape(n + 1, blocks)
+    in_block = np.cumsum(in_block, axis=0)[:n]
+    joined_in = in_block > 0                                 # every piece has C A > 0
+    by_end = np.cumsum(in_block, axis=1)
+    # first and last joined piece at each point (positions in arrival order; -1: none)
+    position = np.arange(blocks * _BLOCK)
+    last = np.full(n + 1, -1)
+    first = np.full(n + 1, blocks * _BLOCK)
+    np.maximum.at(last, np.minimum(join, n), position)
+    np.minimum.at(first, np.minimum(join, n), position)
+    last, first = np.maximum.accumulate(last)[:n], np.minimum.accumulate(first)[:n]
+    has = last >= 0
+    rows = np.flatnonzero(has)
+    whole, soonest = np.zeros(n), np.zeros(n)
+    whole[rows] = arrival(rows, last[rows])
+    soonest[rows] = arrival(rows, first[rows])
+    if not rows.size:
+        return FlowState(ca=zeros, duration=zeros.copy(), intensity=zeros.copy(), rational_flow=zeros.copy(),
+                         governing_ca=zeros.copy(), partial=np.zeros(n, bool), point_flow=point_flow,
+                         flow=point_flow.copy(), whole_duration=zeros.copy())
+    # the relation refuses what the search would read: the shortest and the longest duration
+    idf.intensity(np.maximum(np.array([np.min(soonest[rows]), np.max(whole[rows])]), min_duration), return_period)
+
+    search = joined_in
+    if getattr(idf, "falls_with_duration", False) and blocks > 1:
+        # a block can hold the peak only if i(its first arrival) x (C A arrived by its end) reaches the whole
+        # area's flow; i there is at most i(the point's first arrival)
+        least, most = np.zeros(n), np.zeros(n)
+        least[rows] = (1.0 - _BOUND_MARGIN) * idf.intensity(np.maximum(whole[rows], min_duration), return_period) \
+            * by_end[rows, -1]
+        most[rows] = idf.intensity(np.maximum(soonest[rows], min_duration), return_period)
+        search = joined_in & (most[:, None] * by_end >= least[:, None])
+        p_i, b_i = np.nonzero(search)
+        # no joined piece of a block arrives before its first piece, nor before the point's first one
+        d0 = np.maximum(np.clip(arrival(p_i, b_i * _BLOCK), soonest[p_i], whole[p_i]), min_duration)
+        search[p_i, b_i] = idf.intensity(d0, return_period) * by_end[p_i, b_i] >= least[p_i]
+    pair_row, pair_block = np.nonzero(search)
+    at = pair_block[:, None] * _BLOCK + np.arange(_BLOCK)[None, :]          # (pairs, _BLOCK) positions
+    joined = join[at] <= pair_row[:, None]
+    before = np.where(pair_block > 0, by_end[pair_row, np.maximum(pair_block - 1, 0)], 0.0)
+    cum = before[:, None] + np.cumsum(np.where(joined, ca[at], 0.0), axis=1)
+    d_eff = np.maximum(arrival(pair_row[:, None], at), min_duration)
+    intensity = np.zeros(at.shape)
+    intensity[joined] = idf.intensity(d_eff[joined], return_period)
+    q = np.where(joined, intensity * cum, -np.inf)
+    inner = np.argmax(q, axis=1)
+    pair_q = q[np.arange(q.shape[0]), inner]
+    # the largest over each point's blocks, the first (earliest arrival) on a tie
+    starts = np.flatnonzero(np.r_[True, pair_row[1:] != pair_row[:-1]])
+    top = np.maximum.reduceat(pair_q, starts)
+    best_pair = np.minimum.reduceat(np.where(pair_q == np.repeat(top, np.diff(np.r_[starts, pair_q.size])),
+                                             np.arange(pair_q.size), pair_q.size), starts)
+    pts = pair_row[starts]
+    col = inner[best_pair]
+    rational, gov_ca, duration, inten = (np.zeros(n) for _ in range(4))
+    rational[pts] = q[best_pair, col]
+    gov_ca[pts] = cum[best_pair, col]
+    duration[pts] = d_eff[best_pair, col]
+    inten[pts] = intensity[best_pair, col]
+    ca_total = np.where(has, by_end[:, -1], 0.0)
+    return FlowState(ca=ca_total, duration=duration, intensity=inten, rational_flow=rational, governing_ca=gov_ca,
                      partial=has & (gov_ca < ca_total * (1 - 1e-9)), point_flow=point_flow,
                      flow=rational + point_flow, whole_duration=whole)

@@ -105,9 +105,17 @@ def _log_conveyance(section, rough, y, slope, scalar):
     log = math.log if scalar else np.log
     if rough[0] == "constant":
         return geo - log(rough[1]), dgeo
-    n0 = _n_value(rough, section, y, slope)
     # A backward difference, so the trial depth never passes a pipe's crown or a survey's bank.
-    n1 = _n_value(rough, section, y * (1 - _FD_STEP), slope)
+    if scalar or section.is_vector:
+        n0 = _n_value(rough, section, y, slope)
+        n1 = _n_value(rough, section, y * (1 - _FD_STEP), slope)
+    else:  # both depths in one call of the model (much of its cost is per call)
+        shape, size = np.shape(y), np.size(y)
+        flat = np.ravel(np.broadcast_to(slope, shape))
+        both = _n_value(rough, section, np.concatenate([np.ravel(y), np.ravel(y * (1 - _FD_STEP))]),
+                        np.concatenate([flat, flat]))
+        both = np.broadcast_to(both, (2 * size,))
+        n0, n1 = both[:size].reshape(shape), both[size:].reshape(shape)
     dlogn = (log(n0) - log(n1)) / -math.log1p(-_FD_STEP)
     return geo - log(n0), dgeo - dlogn
 
@@ -182,27 +190,59 @@ def _newton_log_plain(evaluate, y, iterations=12):
     return None
 
 
-def _newton_log_vector(evaluate, y, lo, hi):
-    """Vectorised version of :func:`_newton_log_scalar`; all arrays of one shape."""
-    if np.isinf(hi).all():
-        fast = _newton_log_plain(evaluate, y)
-        if fast is not None:
-            return fast
+def _newton_log_vector(evaluate, y, lo, hi, collapsed=_JUMP_MESSAGE, fast=True, subset=False):
+    """Vectorised version of :func:`_newton_log_scalar`; all arrays of one shape.
+
+    Each element takes the steps the scalar iteration takes from the same start (the same clipped Newton step,
+    the same bisection when a step leaves the bracket or stops shrinking, the same stop), so where g has several
+    roots (a depth-dependent n with a jump) an element ends on the root the scalar call finds. With ``fast`` and
+    no upper bound anywhere (open sections) an unguarded Newton is tried first: for an increasing g with one
+    root (a constant n) it reaches the same root at less cost. A collapsed bracket raises NoSolutionError with
+    ``collapsed`` for the first such element. With ``subset`` (``evaluate(y, at)`` takes the depths of the
+    elements ``at`` only) the elements still iterating are evaluated alone once they are half or fewer.
+    """
+    if fast and np.isinf(hi).all():
+        done_fast = _newton_log_plain(evaluate, y)
+        if done_fast is not None:
+            return done_fast
     y = np.where((lo < y) & (y < hi), y, np.where(np.isfinite(hi), 0.5 * (lo + hi), 1.0))
+    lo, hi = np.array(lo, dtype=float), np.array(hi, dtype=float)
+    last_step = np.full(y.shape, np.inf)
+    step_before_last = np.full(y.shape, np.inf)
+    done = np.zeros(y.shape, dtype=bool)
+    g = gp = np.zeros(y.shape)
     with np.errstate(over="ignore", invalid="ignore", divide="ignore"):
         for it in range(1, _MAX_ITER + 1):
-            g, gp = evaluate(y)
-            done = np.abs(g) <= _LOG_TOL
+            if subset and it > 1 and 2 * np.count_nonzero(~done) <= done.size:
+                at = np.flatnonzero(~done)
+                g_at, gp_at = evaluate(y[at], at)
+                g, gp = g.copy(), gp.copy()       # a converged element keeps its last residual
+                g[at], gp[at] = g_at, gp_at
+            else:
+                g, gp = evaluate(y)
+            done |= np.abs(g) <= _LOG_TOL
             if done.all():
                 return y, it, g
-            below = g < 0
-            lo = np.where(below, y, lo)
-            hi = np.where(below, hi, y)
-            y_new = y * np.exp(-g / gp)  # overflow gives inf, which the bracket test below rejects
-            bad = ~((lo < y_new) & (y_new < hi) & (gp > 0)) & ~done
-            if bad.any():
+            active = ~done
+            below = g < 0                      # a NaN residual counts as above, as in the scalar iteration
+            lo = np.where(active & below, y, lo)
+            hi = np.where(active & ~below, y, hi)
+            step = np.where((gp > 0) & np.isfinite(g), np.clip(-g / gp, -50.0, 50.0), np.nan)
+            y_new = y * np.exp(step)
+            slow = np.abs(step) > 0.5 * step_before_last
+            step_before_last, last_step = last_step, np.abs(step)
+            bisect = active & (slow | ~((lo < y_new) & (y_new < hi)))
+            if bisect.any():
+                with np.errstate(divide="ignore", invalid="ignore"):
+                    shut = bisect & (lo > 0) & (hi / lo < 1 + 1e-14)
+                if shut.any():
+                    kept = shut & (np.abs(g) <= FLOW_TOLERANCE)
+                    if (shut & ~kept).any():
+                        raise NoSolutionError(collapsed.format(depth=float(y[shut & ~kept].flat[0])))
+                    done |= kept
+                    bisect &= ~kept
                 fallback = np.where(~np.isfinite(hi), 4.0 * y, np.where(lo == 0.0, 0.25 * hi, np.sqrt(lo * hi)))
-                y_new = np.where(bad, fallback, y_new)
+                y_new = np.where(bisect, fallback, y_new)
             y = np.where(done, y, y_new)  # a converged element stays where it is
     worst = int(np.argmax(np.where(np.isfinite(g), np.abs(g), np.inf)))  # a non-finite residual is the worst
     raise ConvergenceError(f"no convergence in {_MAX_ITER} iterations for element {worst} "
@@ -284,12 +324,19 @@ def solve_normal_depth(section, flow, slope, n=None) -> DepthSolution:
             geo -= target
             return geo, dgeo
     else:
-        def evaluate(y):
-            lk, dlk = _log_conveyance(section, rough, y, s, scalar)
-            return lk - target, dlk
+        def evaluate(y, at=None):
+            """g and g' at ``y``; with ``at`` (indices), ``y`` holds the depths of those elements only."""
+            if at is None:
+                lk, dlk = _log_conveyance(section, rough, y, s, scalar)
+                return lk - target, dlk
+            lk, dlk = _log_conveyance(section, rough, y, s[at], scalar)
+            return lk - target[at], dlk
 
-    solver = _newton_log_scalar if scalar else _newton_log_vector
-    y, it, g = solver(evaluate, y0, lo, hi)
+    if scalar:
+        y, it, g = _newton_log_scalar(evaluate, y0, lo, hi)
+    else:  # a depth-dependent n may give several roots: follow the scalar steps to the one it finds
+        model = rough[0] != "constant"
+        y, it, g = _newton_log_vector(evaluate, y0, lo, hi, fast=not model, subset=model and not section.is_vector)
     return _finish(y, it, g)
 
 
@@ -365,7 +412,7 @@ def solve_critical_depth(section, flow) -> DepthSolution:
     if scalar:
         y, it, g = _newton_log_scalar(evaluate, y0, lo, hi, collapsed=_CROWN_MESSAGE)
     else:
-        y, it, g = _newton_log_vector(evaluate, y0, lo, hi)
+        y, it, g = _newton_log_vector(evaluate, y0, lo, hi, collapsed=_CROWN_MESSAGE)
     # Residual of the critical condition Q^2 T / (g A^3) = 1, i.e. |Fr^2 - 1|.
     return _finish(y, it, g)
 

@@ -8,12 +8,14 @@ here the point is that every front end applies and words the same rule.
 
 import math
 
+import numpy as np
+
 import pytest
 
 import hydraulics as hy
 from app.evaluate import evaluate_channel
 from app.project import Channel, FlowBasis, LiningChoice
-from hydraulics.freeboard import FREEBOARD_SOURCE, ditch_top, freeboard_rule
+from hydraulics.freeboard import FREEBOARD_SOURCE, ditch_top, ditch_tops, freeboard_rule
 from hydraulics.linings import hec15, load_catalogue
 from hydraulics.stability import check_lining
 from hydraulics.units import SI, US
@@ -135,3 +137,32 @@ def test_unlined_supercritical_channel_gets_the_same_rule():
     assert design.freeboard == y == design.wave_allowance
     (note,) = [n for n in design.notes if n.startswith("freeboard: ")]
     assert note == "freeboard: " + design.freeboard_rule() and "raised to" in note
+
+
+def test_the_array_form_gives_each_channel_what_the_one_channel_form_gives():
+    """ditch_tops (a ditch run's screening) and ditch_top (one channel) are one rule: straight and bent reaches,
+    supercritical flow (freeboard raised to the depth, HEC-15 Section 2.1.1), a pipe too shallow for depth plus
+    freeboard. Channels invented; the top width of a trapezoid is b + 2 z y (Chow 1959, Table 2-1)."""
+    trapezoid, pipe = hy.Trapezoid(bottom_width=0.6, side_slope=3.0), hy.Circle(diameter=0.6)
+    depth = np.array([0.3, 0.3, 0.05, 0.4, 0.5, 0.2])
+    velocity = np.array([1.0, 2.5, 3.0, 4.0, 1.2, 0.8])
+    top = np.array([2.4, 2.4, 0.9, 3.0, 2.0, 1.5])
+    froude = np.array([0.6, 1.6, 4.3, 2.1, 1.5, 0.5])
+    radius = np.array([np.nan, 15.0, np.nan, 9.0, np.nan, 20.0])
+    for section in (trapezoid, pipe):
+        tops = ditch_tops(section, depth, velocity, top, froude, radius, 0.2)
+        for i in range(depth.size):
+            one = ditch_top(section, depth[i], velocity[i], top[i], froude[i],
+                            None if np.isnan(radius[i]) else radius[i], 0.2)
+            assert tops.freeboard[i] == one.freeboard and tops.total_depth[i] == one.total_depth
+            assert tops.depth_at_top[i] == one.depth_at_top and tops.top_width[i] == pytest.approx(one.top_width,
+                                                                                                  rel=1e-12)
+            assert (one.superelevation is None) == np.isnan(tops.superelevation[i])
+            assert (one.wave_allowance is None) == np.isnan(tops.wave_allowance[i])
+            assert tops.supercritical_bend[i] == any("cross waves" in w for w in one.warnings)
+            assert tops.too_shallow[i] == any("not deep enough" in w for w in one.warnings)
+    tops = ditch_tops(trapezoid, depth, velocity, top, froude, radius, 0.2)
+    assert tops.freeboard[4] == 0.5 and tops.freeboard[0] == 0.2               # raised to the depth; the minimum
+    assert tops.top_width[0] == pytest.approx(0.6 + 2 * 3.0 * 0.5, rel=1e-12)
+    assert tops.supercritical_bend.tolist() == [False, True, False, True, False, False]
+    assert ditch_tops(pipe, depth, velocity, top, froude, radius, 0.2).too_shallow.any()

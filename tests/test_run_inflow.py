@@ -110,3 +110,56 @@ def test_a_duration_beyond_the_rainfall_table_is_refused():
     area = SubArea("A", 1.0e4, 0.5, 9000.0, StationRange(0.0, 0.0))
     with pytest.raises(InputError):
         peak_flows(lay, split_sub_areas(lay, [area]), [], np.zeros(lay.x.size), IDF, 10.0, 300.0)
+
+
+def _peak_by_hand(lay, pieces, tau, idf, t_min):
+    """The module's rule, point by point (HEC-22, 3rd ed., Section 3.2: the time of concentration of a point is
+    the longest arrival there; each shorter arrival time D is tried with the C A arrived by then): the pieces
+    joined at the point, their arrival t_c + tau(x) - tau(x_e), sorted, and the largest i(max(D, t_min)) x C A."""
+    flow, ca, whole = np.zeros(lay.x.size), np.zeros(lay.x.size), np.zeros(lay.x.size)
+    for i in range(lay.x.size):
+        arrivals = sorted((pieces.tc[p] + tau[i] - tau[pieces.origin[p]], pieces.ca[p])
+                          for p in range(pieces.ca.size) if pieces.join[p] <= i)
+        if not arrivals:
+            continue
+        total, best = 0.0, 0.0
+        for d, a in arrivals:
+            total += a
+            best = max(best, float(idf.intensity(np.array([max(d, t_min)]), 10.0)[0]) * total)
+        flow[i], ca[i], whole[i] = best, total, arrivals[-1][0]
+    return flow, ca, whole
+
+
+class _SameRainfall:
+    """The table's intensities, from an object that does not say they fall with duration (every arrival read)."""
+
+    def __init__(self, table):
+        self.table = table
+
+    def intensity(self, duration, return_period):
+        return self.table.intensity(duration, return_period)
+
+
+@pytest.mark.parametrize("seed", range(6))
+def test_many_pieces_give_the_flow_of_the_rule_point_by_point(seed):
+    """Invented runs with up to a few hundred pieces (the search takes them in blocks): the flow, C A and time of
+    concentration at every point are those of the rule worked point by point, with a relation that falls with
+    duration (blocks that cannot hold the peak are skipped) and one that does not say so (all are read)."""
+    rng = np.random.default_rng(seed)
+    length = rng.uniform(300.0, 1500.0)
+    areas = []
+    for k in range(int(rng.integers(3, 25))):
+        a = rng.uniform(0.0, length)
+        b = a if rng.random() < 0.4 else min(length, a + rng.uniform(0.0, length / 2))
+        areas.append(SubArea(f"a{k}", rng.uniform(1e3, 3e4), rng.uniform(0.2, 0.9), rng.uniform(120.0, 3000.0),
+                             StationRange(a, b)))
+    lay = layout(length, rng.uniform(3.0, 8.0), [s for a in areas for s in (a.entry.start, a.entry.end)])
+    pieces = split_sub_areas(lay, areas)
+    tau = np.concatenate([[0.0], np.cumsum(np.diff(lay.x) / rng.uniform(0.2, 2.0, lay.x.size - 1))])
+    flow, ca, whole = _peak_by_hand(lay, pieces, tau, IDF, 300.0)
+    assert pieces.ca.size > 32                 # more pieces than one block of the search
+    for idf in (IDF, _SameRainfall(IDF)):
+        state = peak_flows(lay, pieces, [], tau, idf, 10.0, 300.0)
+        assert state.flow == pytest.approx(flow, rel=1e-12)
+        assert state.ca == pytest.approx(ca, rel=1e-12)
+        assert state.whole_duration == pytest.approx(whole, rel=1e-12)

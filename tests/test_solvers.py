@@ -9,6 +9,7 @@ from hypothesis import given, settings
 from hypothesis import strategies as st
 
 import hydraulics as hy
+from hydraulics.linings import StoneRoughness
 
 flows = st.floats(1e-3, 500.0)
 slopes = st.floats(1e-5, 0.2)
@@ -263,3 +264,23 @@ def test_critical_depth_next_to_a_pipe_crown():
     with pytest.raises(hy.NoSolutionError) as exc:
         hy.critical_depth(hy.Circle(diameter=d), 1e4)
     assert "crown" in str(exc.value) and "roughness" not in str(exc.value)
+
+
+def test_array_solve_with_a_stone_lining_finds_the_scalar_root_near_the_relation_switch():
+    """Near da/D50 = 1.5 a stone lining's n passes from Bathurst's relation to Blodgett's (HEC-15 Section 6.1,
+    Eq. 6.1 and 6.2) and some flows have more than one uniform-flow depth. An array of such flows must give, element
+    by element, the depth the scalar call gives (the ditch run's array path relies on it). Channels invented."""
+    rng = np.random.default_rng(5)
+    checked = 0
+    for _ in range(20):
+        section = (hy.Rectangle(bottom_width=rng.uniform(0.3, 3.0)) if rng.random() < 0.5 else
+                   hy.Trapezoid(bottom_width=rng.uniform(0.0, 3.0), side_slope=rng.uniform(1.5, 4.0)))
+        rough = StoneRoughness(rng.uniform(0.1, 0.6))
+        y_switch = rough.switch_depth(section)
+        slopes = rng.uniform(0.0005, 0.1, 40)
+        flows = np.array([hy.flow_at_depth(section, y, s, rough)
+                          for y, s in zip(y_switch * rng.uniform(0.7, 1.3, 40), slopes)])
+        scalar = np.array([hy.normal_depth(section, float(q), float(s), rough) for q, s in zip(flows, slopes)])
+        np.testing.assert_allclose(hy.normal_depth(section, flows, slopes, rough), scalar, rtol=1e-9)
+        checked += scalar.size
+    assert checked == 800

@@ -371,7 +371,12 @@ def _bathurst_range_warning(ratio):
 def _bathurst_n_manning(da, d50, top_width, hydraulic_radius, slope):
     # Fr = V / sqrt(g da) with V = R^(2/3) S^(1/2) / n, so Fr = c / n and Eq. 6.2
     # reads n = K (b n / (0.28 c))^p, i.e. n^(1-p) = K (b / (0.28 c))^p.
-    b, p, k = _bathurst_terms(da, d50, top_width)
+    return _bathurst_n_manning_terms(_bathurst_terms(da, d50, top_width), da, hydraulic_radius, slope)
+
+
+def _bathurst_n_manning_terms(terms, da, hydraulic_radius, slope):
+    """:func:`_bathurst_n_manning` from the terms (b, p, K) of :func:`_bathurst_terms` at ``da``."""
+    b, p, k = terms
     sqrt = np.sqrt if _vec(da, hydraulic_radius, slope, b) else math.sqrt
     c = hydraulic_radius ** (2.0 / 3.0) * sqrt(slope) / sqrt(G * da)
     one_minus_p = 1.0 - p

@@ -108,9 +108,10 @@ class StoneRoughness:
         ratio = np.asarray(da / self.d50, dtype=float)
         with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
             blod = np.where(ratio > hec15._BLODGETT_POLE, hec15._blodgett_n(np.asarray(da, float), self.d50), np.nan)
-            b, p, _ = hec15._bathurst_terms(np.asarray(da, float), self.d50, np.asarray(top, float))
-            bath = np.asarray(hec15._bathurst_n_manning(np.asarray(da, float), self.d50, np.asarray(top, float),
-                                                        np.asarray(r, float), slope), dtype=float)
+            terms = hec15._bathurst_terms(np.asarray(da, float), self.d50, np.asarray(top, float))
+            p = terms[1]
+            bath = np.asarray(hec15._bathurst_n_manning_terms(terms, np.asarray(da, float), np.asarray(r, float),
+                                                              slope), dtype=float)
         if self.method == "blodgett":
             return blod, np.zeros(ratio.shape, int)
         if self.method == "bathurst":
@@ -121,12 +122,15 @@ class StoneRoughness:
         bath_ok = ~below & (np.asarray(p) < 1.0) & np.isfinite(bath) & (bath > 0)
         code = np.where(ratio >= split * SPLIT_BAND, 0,
                         np.where(ratio >= split, np.where(bath_ok, 3, 0), np.where(bath_ok, 1, 2)))
+        # the ramp and the held value only where they are used (the solver's trial depths rarely need them)
+        ramp = held = self.n_hold
         with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
-            w = np.log(np.maximum(ratio, split) / split) / np.log(SPLIT_BAND)
-            ramp = np.exp((1.0 - w) * np.log(np.where(code == 3, bath, 1.0)) + w * np.log(np.where(code == 3, blod, 1.0)))
-            if lim is None:
-                held = self.n_hold
-            else:  # Bathurst's n at the lowest depth where it is usable, at this slope: n is continuous there
+            if np.any(code == 3):
+                w = np.log(np.maximum(ratio, split) / split) / np.log(SPLIT_BAND)
+                ramp = np.exp((1.0 - w) * np.log(np.where(code == 3, bath, 1.0))
+                              + w * np.log(np.where(code == 3, blod, 1.0)))
+            if lim is not None and np.any(code == 2):
+                # Bathurst's n at the lowest depth where it is usable, at this slope: n is continuous there
                 held = np.asarray(hec15._bathurst_n_manning(lim[0], self.d50, lim[1], lim[2], slope), dtype=float)
                 held = np.where(np.isfinite(held) & (held > 0), held, self.n_hold)
         n = np.select([code == 0, code == 1, code == 3], [blod, bath, ramp], held)
