@@ -22,7 +22,7 @@ from PySide6.QtWidgets import (QAbstractItemView, QCheckBox, QGridLayout, QHBoxL
 from .. import channel_display as display
 from ..project import LiningChoice
 from .document import ProjectDocument
-from .fields import keep_units_whole, pretty
+from .fields import keep_units_whole, number_marks, pretty
 from .plots import SectionPicture
 
 
@@ -52,6 +52,7 @@ class ComparisonView(QWidget):
         super().__init__(parent)
         self.doc = doc
         self.rows: list[display.ComparisonRow] = []
+        self.data = None       # the one comparison table of ``rows`` as shown (app.comparison_table)
         self.pictures: list[SectionPicture] = []
 
         intro = QLabel("Tick linings to compare them for this channel at its design flow. Pick a column to "
@@ -140,7 +141,8 @@ class ComparisonView(QWidget):
         self.rows, reason = display.compare(ch, context)
         self.unavailable.setText(reason)
         self.unavailable.setVisible(bool(reason))
-        heads, body = display.comparison_table(self.rows, context)
+        self.data = display.comparison_data(self.rows, context, *number_marks())
+        heads, body = [self.data.heading(f) for f in self.data.columns], self.data.body()
         self._set_columns(len(body))
         self.table.setRowCount(len(heads))          # row 0: the small section; then the quantities
         self.table.setHorizontalHeaderLabels([wrap(keep_units_whole(cells[0])) for cells in body])
@@ -188,9 +190,8 @@ class ComparisonView(QWidget):
         if self._sort is None or not self.rows or not labels:
             return
         row, descending = self._sort
-        get = display.COMPARISON_COLUMNS[row][2]
-
-        values = [get(r) for r in self.rows]
+        key = display.COMPARISON_COLUMNS[row].key
+        values = [r.values[key] for r in self.data.rows]
         present = [j for j, v in enumerate(values) if v is not None]
 
         def key(j):
@@ -312,7 +313,7 @@ class ComparisonView(QWidget):
                 return
 
     def copy_table(self) -> str:
-        text = display.comparison_tsv([self.rows[j] for j in self.shown_order()], self.doc.context)
+        text = display.comparison_tsv([self.rows[j] for j in self.shown_order()], self.doc.context, *number_marks())
         QGuiApplication.clipboard().setText(text)
         self.status_message.emit(f"Comparison table copied ({len(self.rows)} rows, tab-separated).")
         return text
