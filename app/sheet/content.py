@@ -188,6 +188,10 @@ class Formatter:
     def __call__(self, value_si: float, quantity: str, figures: int = FIGURES) -> str:
         return f"{self.number(value_si, quantity, figures)} {self.unit(quantity)}"
 
+    def shown(self, value: float, quantity: str, figures: int = FIGURES) -> str:
+        """A value already in the display units, as :meth:`__call__` writes it (to ``figures`` figures, its unit)."""
+        return f"{_sig(float(value), figures)} {self.unit(quantity)}"
+
     def stone(self, value_si: float) -> str:
         """A stone size or layer thickness: in the length unit (as in the verdict's reason) and in in / mm."""
         return f"{self(value_si, 'length')} ({self(value_si, 'small_length')})"
