@@ -112,13 +112,15 @@ def comparison_label(row, context: Context) -> str:
     return lining_label(entry, context.units, d50=row.choice.d50, name=row.name)
 
 
-def lining_groups(context: Context, sizes: bool = True) -> list[tuple[str, list[tuple[str, str]]]]:
+def lining_groups(context: Context, sizes: bool = True,
+                  decimal_mark: str = ".") -> list[tuple[str, list[tuple[str, str]]]]:
     """The context's catalogue as (kind heading, [(key, label)]) groups in :data:`LINING_KINDS` order, named in
-    its units, every label different from the others (a repeated one names its key)."""
+    its units (numbers with ``decimal_mark``, the window's), every label different from the others (a repeated
+    one names its key)."""
     seen: dict[str, int] = {}
     groups: dict[str, list] = {}
     for lin in context.catalogue:
-        label = lining_label(lin, context.units, size=sizes)
+        label = lining_label(lin, context.units, size=sizes, decimal_mark=decimal_mark)
         if label.casefold() in seen:
             label += f" [{lin.key}]"
         seen[label.casefold()] = 1

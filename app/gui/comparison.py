@@ -13,6 +13,7 @@ its lining, so what is applied is always the lining the user picked.
 from __future__ import annotations
 
 import copy
+import re
 
 from PySide6.QtCore import Qt, Signal
 from PySide6.QtGui import QColor, QFontMetrics, QGuiApplication
@@ -29,7 +30,8 @@ from .plots import SectionPicture
 def wrap(text: str, width: int = 18) -> str:
     """Break a lining name into short lines for a column heading."""
     lines, line = [], ""
-    for word in (w for w in text.replace(",", ", ").split(" ") if w):   # a no-break space holds its words
+    # a break may follow a comma between words, never a decimal comma ("D50 150,0 mm"); a no-break space holds
+    for word in (w for w in re.sub(r",(?!\d)", ", ", text).split(" ") if w):
         if line and len(line) + 1 + len(word) > width:
             lines.append(line)
             line = word
@@ -215,7 +217,7 @@ class ComparisonView(QWidget):
             self._fill_choices(self.doc.channel())
 
     def _fill_choices(self, ch) -> None:
-        groups = display.lining_groups(self.doc.context)
+        groups = display.lining_groups(self.doc.context, decimal_mark=number_marks()[0])
         columns = self._columns()
         if groups != getattr(self, "_groups", None) or columns != getattr(self, "_filled_columns", None):
             self._groups, self._filled_columns = groups, columns

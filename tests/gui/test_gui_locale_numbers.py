@@ -142,6 +142,9 @@ def test_results_and_comparison_are_written_with_the_locale_decimal_mark(user_lo
     stone = next(table.horizontalHeaderItem(j).toolTip() for j in range(table.columnCount())
                  if "D50" in table.horizontalHeaderItem(j).toolTip())
     assert re.search(r"D50 \d+,\d mm", stone), stone            # the stone size in the name too
+    headers = [table.horizontalHeaderItem(j).text() for j in range(table.columnCount())]
+    assert not any(re.search(r"\d, \d|\d,\n\d", h) for h in headers), headers   # no break at a decimal comma
+    assert re.search(r"D50 \d+,\d mm", w.comparison.checks["riprap"].toolTip())     # the list to tick agrees
     # what leaves the window for a file keeps the point
     _heads, body = display.comparison_table(w.comparison.rows, w.doc.context)
     assert all(re.fullmatch(r"\d+\.\d{3}", cells[1]) for cells in body)
