@@ -11,8 +11,8 @@ stability by HEC-15, freeboard) and the lining comparison of
 from __future__ import annotations
 
 import copy
+import dataclasses
 import math
-import re
 from dataclasses import dataclass, field
 
 import numpy as np
@@ -27,8 +27,11 @@ from hydraulics.wording import in_units
 from .context import Context
 from .evaluate import comparison_choices, design_flow, evaluate_channel
 from .files import tsv_cell
+from .results import COMPARISON_FIELDS
 from .project import Channel, LiningChoice
-from .results import ResultField, format_value
+from .comparison_table import ComparisonTable
+from .comparison_table import comparison_table as one_table
+from .lining_names import lining_label, stone_size_text  # noqa: F401  (the window's names of linings)
 from .verdicts import Verdict as Verdicts
 from .verdicts import too_shallow_reason, verdict_of
 
@@ -99,29 +102,6 @@ def describe_error(exc: Exception) -> tuple[str, str | None]:
 #: The kinds of lining, in the order the window lists them, with their headings.
 LINING_KINDS = (("rigid", "Rigid"), ("stone", "Stone"), ("vegetation", "Grass"),
                 ("manufactured", "Blankets and mats"), ("soil", "Bare soil"))
-_STONE_SIZE = ResultField("d50", "D50", "small_length", 1)       # to a tenth, as in the results panel
-_GRASS_HEIGHT = ResultField("stem_height", "height", "small_length", 0)
-_HEIGHT_WORDS = re.compile(r"about [0-9.]+ ?mm tall")
-
-
-def lining_label(lin, units: UnitSystem, d50: float | None = None, size: bool = True, name: str | None = None) -> str:
-    """The name the window shows for a catalogue lining: grass heights and stone sizes in ``units``
-    (``d50`` [m] for a stone size other than the catalogue's; ``size`` False leaves the stone size out, for a
-    list with its own stone-size field; ``name`` instead of the catalogue's)."""
-    name = lin.name if name is None else name
-    height = (lin.data.get("roughness") or {}).get("stem_height")
-    if height and _HEIGHT_WORDS.search(name):
-        name = _HEIGHT_WORDS.sub(f"about {format_value(height, _GRASS_HEIGHT, units)} tall", name)
-    if size and lin.category == "stone" and (d50 or lin.d50):
-        name += f", D50 {stone_size_text(d50 or lin.d50, units)}"
-    if lin.user_data and "user data" not in name:
-        name += " (your data)"
-    return name
-
-
-def stone_size_text(d50: float, units: UnitSystem) -> str:
-    """A stone size in ``units`` by the results panel's rule (to a tenth of a mm or an inch), with its unit."""
-    return format_value(d50, _STONE_SIZE, units)
 
 
 def comparison_label(row, context: Context) -> str:
@@ -132,13 +112,15 @@ def comparison_label(row, context: Context) -> str:
     return lining_label(entry, context.units, d50=row.choice.d50, name=row.name)
 
 
-def lining_groups(context: Context, sizes: bool = True) -> list[tuple[str, list[tuple[str, str]]]]:
+def lining_groups(context: Context, sizes: bool = True,
+                  decimal_mark: str = ".") -> list[tuple[str, list[tuple[str, str]]]]:
     """The context's catalogue as (kind heading, [(key, label)]) groups in :data:`LINING_KINDS` order, named in
-    its units, every label different from the others (a repeated one names its key)."""
+    its units (numbers with ``decimal_mark``, the window's), every label different from the others (a repeated
+    one names its key)."""
     seen: dict[str, int] = {}
     groups: dict[str, list] = {}
     for lin in context.catalogue:
-        label = lining_label(lin, context.units, size=sizes)
+        label = lining_label(lin, context.units, size=sizes, decimal_mark=decimal_mark)
         if label.casefold() in seen:
             label += f" [{lin.key}]"
         seen[label.casefold()] = 1
@@ -227,58 +209,28 @@ def compare(channel: Channel, context: Context) -> tuple[list[ComparisonRow], st
     return out, ""
 
 
-def _num(attr):
-    return lambda r: None if r.core is None else getattr(r.core, attr)
+#: Columns of the comparison table: the one list of :mod:`app.results` (key, label, quantity, decimals).
+COMPARISON_COLUMNS = COMPARISON_FIELDS
 
 
-#: Columns of the comparison table: (heading, quantity for the unit, how to read the value from a row).
-COMPARISON_COLUMNS = (
-    ("Lining", "", lambda r: r.name),
-    ("Depth", "length", _num("depth")),
-    ("Velocity", "velocity", _num("velocity")),
-    ("Froude", "", _num("froude")),
-    ("n", "", _num("manning_n")),
-    ("Design shear", "shear", _num("design_shear")),
-    ("Permissible shear", "shear", _num("permissible_shear")),
-    ("Safety factor", "", _num("safety_factor")),
-    ("Verdict", "", lambda r: r.evaluation.verdict.headline),
-    ("Governs", "", lambda r: (r.core.governs or "") if r.core is not None else ""),
-    ("Total depth", "length", _num("total_depth")),
-    ("Lined width", "length", _num("lined_width")),
-    ("Layer volume", "volume_per_length", _num("layer_volume")),
-    ("Cost", "cost_per_length", lambda r: r.cost_per_length),
-)
-_DIGITS = {"Depth": 3, "Velocity": 2, "Froude": 2, "n": 4, "Design shear": 1, "Permissible shear": 1,
-           "Safety factor": 2, "Cost": 2, "Total depth": 3, "Lined width": 2, "Layer volume": 3}
+def comparison_data(rows, context: Context, decimal_mark: str = ".", group_mark: str = ",") -> ComparisonTable:
+    """The one comparison table (:mod:`app.comparison_table`) of the window's rows, in the context's units, with
+    the window's decimal mark and group separator (its locale's)."""
+    full = rows[0].evaluation.section.full_depth if rows and rows[0].evaluation.section is not None else None
+    core = [r.core if r.core.name == r.name else dataclasses.replace(r.core, name=r.name) for r in rows]
+    return one_table(core, context, full, decimal_mark, group_mark)
 
 
-def comparison_table(rows, context: Context) -> tuple[list[str], list[list[str]]]:
-    """Headings with units, and the cells as text in the context's units."""
-    units = context.units
-    heads = [h + (f" [{units.label(q)}]" if q else "") for h, q, _ in COMPARISON_COLUMNS]
-    body = []
-    for r in rows:
-        cells = []
-        for head, q, get in COMPARISON_COLUMNS:
-            v = get(r)
-            if head == "Lining":
-                v = comparison_label(r, context)
-            if head == "Permissible shear" and v is None and r.core is not None and r.core.verdict == "non-erodible":
-                v = "non-erodible"
-            if v is None:
-                cells.append("—")
-            elif isinstance(v, str):
-                cells.append(v)
-            else:
-                v = float(units.from_si(q, v)) if q else float(v)
-                cells.append(f"{v:.{_DIGITS.get(head, 3)}f}")
-        body.append(cells)
-    return heads, body
+def comparison_table(rows, context: Context, decimal_mark: str = ".",
+                     group_mark: str = ",") -> tuple[list[str], list[list[str]]]:
+    """Headings with units, and the cells as text in the context's units (the one comparison table laid out)."""
+    table = comparison_data(rows, context, decimal_mark, group_mark)
+    return [table.heading(f) for f in table.columns], table.body()
 
 
-def comparison_tsv(rows, context: Context) -> str:
-    """The comparison as tab-separated text, for pasting into a spreadsheet."""
-    heads, body = comparison_table(rows, context)
+def comparison_tsv(rows, context: Context, decimal_mark: str = ".", group_mark: str = ",") -> str:
+    """The comparison as tab-separated text, for pasting into a spreadsheet (with the marks the table shows)."""
+    heads, body = comparison_table(rows, context, decimal_mark, group_mark)
     return "\n".join("\t".join(tsv_cell(c) for c in line) for line in [heads, *body]) + "\n"
 
 

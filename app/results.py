@@ -55,26 +55,36 @@ def convert(value, quantity: str, units: UnitSystem):
     return units.from_si(quantity, value)
 
 
-def format_value(value, field: ResultField, units: UnitSystem) -> str:
-    """A number in the user's units with its unit as a suffix, e.g. '1.234 ft'."""
+def marked(text: str, decimal_mark: str = ".", group_mark: str = ",") -> str:
+    """A number written with '.' as its decimal mark and ',' between groups of thousands, rewritten with the
+    given marks (the window's, from the user's locale; the sheet, files and command line keep the defaults)."""
+    if decimal_mark == "." and group_mark == ",":
+        return text
+    return "".join(decimal_mark if c == "." else group_mark if c == "," else c for c in text)
+
+
+def format_value(value, field: ResultField, units: UnitSystem, decimal_mark: str = ".") -> str:
+    """A number in the user's units with its unit as a suffix, e.g. '1.234 ft' (with ``decimal_mark`` ','
+    '1,234 ft')."""
     v = convert(value, field.quantity, units)
     if isinstance(v, str):
         return v
     unit = units.label(field.quantity) if field.quantity else ""
-    text = f"{v:.{field.digits}f}"
+    text = marked(f"{v:.{field.digits}f}", decimal_mark)
     return f"{text} {unit}".rstrip()
 
 
-def rounded(value, field: ResultField) -> str:
+def rounded(value, field: ResultField, decimal_mark: str = ".") -> str:
     """The one rounding rule of the tables: a number already in the user's units to ``field.digits`` decimals,
-    True/False as yes/no, nothing as an empty cell, words as they are."""
+    True/False as yes/no, nothing as an empty cell, words as they are. ``decimal_mark`` is the window's (the
+    user's locale); everything written to a file or printed keeps '.'."""
     if value is None:
         return ""
     if isinstance(value, bool):
         return "yes" if value else "no"
     if isinstance(value, str):
         return value
-    return f"{float(value):.{field.digits}f}"
+    return marked(f"{float(value):.{field.digits}f}", decimal_mark)
 
 
 #: The station table of a ditch run: key (JSON and CSV column), label, quantity, decimals shown.
@@ -133,11 +143,42 @@ RUN_TABLE_FIELDS = {f.key: f for f in (
 )}
 
 
-def quantity_text(value: float, field: ResultField) -> str:
+def quantity_text(value: float, field: ResultField, decimal_mark: str = ".", group_mark: str = ",") -> str:
     """A quantity of work in the user's units with thousands grouped, to ``field.digits`` decimals: '2,258.3'."""
-    return f"{float(value):,.{field.digits}f}"
+    return marked(f"{float(value):,.{field.digits}f}", decimal_mark, group_mark)
 
 
-def money_text(value: float) -> str:
-    """A cost as the run's tables print it: '$ 54,544' (whole dollars), or 'no price' for a missing one (NaN)."""
-    return "no price" if value != value else f"$ {value:,.0f}"
+def money_text(value: float, digits: int = 0, decimal_mark: str = ".", group_mark: str = ",") -> str:
+    """A cost as the tables print it: '$ 54,544' (whole dollars; ``digits`` decimals for a unit price,
+    '$ 473.20'), or 'no price' for a missing one (NaN or None)."""
+    if value is None or value != value:
+        return "no price"
+    return "$ " + marked(f"{float(value):,.{digits}f}", decimal_mark, group_mark)
+
+
+#: The lining comparison (the same channel and flow with several linings), in the order the window lists them:
+#: key (attribute of hydraulics.stability.ComparisonRow, JSON key of ``compare --json``), label, quantity, decimals.
+#: The decimals are those of the same quantity in the results panel (CHANNEL_FIELDS and the panel's rows).
+COMPARISON_FIELDS = (
+    ResultField("lining", "Lining", "", 0),
+    ResultField("depth", "Depth", "length", 3),
+    ResultField("velocity", "Velocity", "velocity", 2),
+    ResultField("froude", "Froude number", "", 2),
+    ResultField("manning_n", "Manning's n", "", 4),
+    ResultField("design_shear", "Design shear", "shear", 2),
+    ResultField("permissible_shear", "Permissible shear", "shear", 2),
+    ResultField("safety_factor", "Safety factor", "", 2),
+    ResultField("verdict", "Verdict", "", 0),
+    ResultField("governs", "Governs", "", 0),
+    ResultField("total_depth", "Total depth", "length", 3),
+    ResultField("lined_width", "Lined width", "length", 2),
+    ResultField("layer_volume", "Layer volume", "volume_per_length", 3),
+    ResultField("cost_per_length", "Cost", "cost_per_length", 2),
+)
+#: Values of a comparison row that no column shows but a front end words beside another (the sheet's
+#: "SF / required" and "needs D50 >= ..."): the same decimals as the results panel.
+COMPARISON_EXTRA_FIELDS = (
+    ResultField("d50", "D50", "small_length", 1),
+    ResultField("required_safety_factor", "Required safety factor", "", 2),
+    ResultField("required_d50", "Smallest stable D50", "small_length", 1),
+)

@@ -622,7 +622,7 @@ def test_channel_without_lining_is_hydraulics_only(pages):
 # ------------------------------------------------------------------ lining comparison
 def _comparison_row(text: str, name: str) -> list:
     m = re.search(re.escape(name) + r"\s+([0-9.]+)\s+([0-9.]+)\s+([0-9.]+)\s+([0-9.]+)\s+([0-9.]+)\s+"
-                  r"([0-9.]+|non-erodible)\s+([0-9.]+ / [0-9.]+|—)\s+(stable|not stable|non-erodible)", text)
+                  r"([0-9.]+|non-erodible)\s+([0-9.]+ / [0-9.]+|—)\s+(Stable|Not stable|Non-erodible)", text)
     assert m, f"no comparison row for {name!r}"
     return list(m.groups())
 
@@ -635,28 +635,32 @@ def test_comparison_table_reads_back_with_units(project, pages, us_pages):
         assert head in text, head
     table = text.split("LINING COMPARISON")[1].split("CAUTIONS")[0]
     # the channel's lining is repeated among the alternatives of the demo: one row only
-    assert table.count("Rock riprap, D50 0.150 m (150 mm)") == 1
-    own = _comparison_row(table, "* Rock riprap, D50 0.150 m (150 mm)")
+    # (named as in the window's lining list and in ditchwright compare: the one comparison table)
+    assert table.count("Rock riprap, D50 150.0 mm") == 1
+    own = _comparison_row(table, "* Rock riprap, D50 150.0 mm")
     grass = _comparison_row(table, "Grass, sod-forming, good stand, about 150 mm tall")
-    gravel = _comparison_row(table, "Gravel mulch, D50 0.0250 m (25.0 mm)")
+    gravel = _comparison_row(table, "Gravel mulch, D50 25.0 mm")
     concrete = _comparison_row(table, "Concrete, float finish (general paved ditch)")
     # the channel's own lining agrees with the stability block and the results
-    assert float(own[1]) == _number_after(text, "Normal depth yn")[0] and own[7] == "stable"
+    assert float(own[1]) == _number_after(text, "Normal depth yn")[0] and own[7] == "Stable"
     bend = _check_row(text, "bend")
-    assert own[4:6] == bend[0:2] and own[6] == f"{bend[2]} / {bend[3]}"
+    # the shears agree with the check table's within its three figures (the comparison prints the decimals of
+    # the one comparison table, as the window and ditchwright compare do)
+    assert [float(v) for v in own[4:6]] == [_approx3(float(v)) for v in bend[0:2]]
+    assert own[6] == f"{bend[2]} / {bend[3]}"
     # concrete: constant n, so the depth is Manning's with that n (Chow 1959, Eq. 5-6), solved by brentq
     ch = project.channel("Outfall swale")
     y = _mannings_depth(1.0, 4.0, _rational_flow(ch), float(concrete[0]), ch.slope)
     assert float(concrete[1]) == _approx3(y)
     # a non-erodible lining has no governing check: its row shows the bed, tau = gamma y S (HEC-15 Eq. 3.1)
     assert float(concrete[4]) == _approx3(GAMMA * y * ch.slope)
-    assert concrete[5:8] == ["non-erodible", "—", "non-erodible"]
+    assert concrete[5:8] == ["non-erodible", "—", "Non-erodible"]
     # grass: tau_p = tau_p,soil / (1 - CF) (n / ns)^2 (HEC-15 Eq. 4.7, not verified) with the fine soil of the
     # catalogue, tau_p,soil = 1.0 Pa, the cover factor of a good sod, CF = 0.9 (HEC-15 Table 4.5, not verified)
     # and the soil grain roughness ns = 0.016 (HEC-15 Chapter 4, not verified)
     assert float(grass[5]) == _approx3(1.0 / (1 - 0.9) * (float(grass[0]) / 0.016) ** 2, rel=3e-3)
     # gravel fails in the bend and names the stone it would need
-    assert gravel[7] == "not stable" and re.search(r"not stable \(bend\); needs D50 ≥ 0\.0558 m", table)
+    assert gravel[7] == "Not stable" and re.search(r"Not stable \(bend\); needs D50 ≥ 55\.8 mm", table)
     # riprap: rougher than concrete, so deeper and slower
     assert float(own[1]) > float(concrete[1]) and float(own[2]) < float(concrete[2])
     assert "No cost column" in text
@@ -698,9 +702,8 @@ def test_lining_entry_changes_the_fingerprint_and_prices_the_comparison(project,
     assert "linings.toml + prices.toml" in text
     # the cost column: $120 per m^3 of layer times the printed layer volume per m of channel
     assert re.search(r"Cost\s+\$/m", text) and "No cost column" not in text
-    m = re.search(r"\* Rock riprap, D50 0\.150 m \(150 mm\).*?stable \(bend\)\s+([0-9.]+)\s+([0-9.]+)\s+([0-9.]+)",
-                  text)
-    layer, cost = float(m.group(2)), float(m.group(3))
+    m = re.search(r"\* Rock riprap, D50 150\.0 mm.*?Stable \(bend\)\s+([0-9.]+)\s+([0-9.]+)\s+([0-9.,]+)", text)
+    layer, cost = float(m.group(2)), float(m.group(3).replace(",", ""))
     assert cost == pytest.approx(120.0 * layer, rel=5e-3)
 
 
@@ -730,7 +733,12 @@ def test_long_comparison_stays_on_one_page(tmp_path):
     text = reader.pages[0].extract_text().replace("\n", " ")
     from app.evaluate import evaluate_channel
 
-    names = [r.name for r in evaluate_channel(ch).comparison]
+    from app.comparison_table import comparison_table
+    from app.context import Context
+    from hydraulics.units import US
+
+    # the linings as the sheet names them: the one comparison table's names (grass heights in inches here)
+    names = [r.name for r in comparison_table(evaluate_channel(ch).comparison, Context(load_catalogue(), US)).rows]
     shown = [nm for nm in names if nm in text.split("CAUTIONS")[0]]
     assert len(shown) == len(names), set(names) - set(shown)  # every lining is in a row or in the note
 

@@ -7,24 +7,15 @@ from hydraulics.errors import InputError
 from hydraulics.stability import check_lining, compare_linings
 from hydraulics.wording import in_units
 
-from ..verdicts import Verdict, with_tokens
+from ..comparison_table import ComparisonTable, comparison_table
+from ..context import Context
+from ..verdicts import with_tokens
 
 from .common import CliError, add_channel_options, check_numbers, emit_json, require, section_from_args
 from .lining_args import (add_lining_options, catalogue_from_args, choice_from_text, explain, lining_options_si,
                           require_stone_size)
 
 HELP = "compare linings for one channel: depth, shear, safety factor, verdict, quantities and cost"
-
-COLUMNS = (
-    # header, row key, quantity, format
-    ("Lining", "lining", "", "s"), ("D50", "d50", "length", ".3f"), ("Depth", "depth", "length", ".3f"),
-    ("V", "velocity", "velocity", ".2f"), ("Fr", "froude", "", ".2f"), ("n", "manning_n", "", ".4f"),
-    ("Design shear", "design_shear", "shear", ".3g"), ("Permissible", "permissible_shear", "shear", ".3g"),
-    ("SF", "safety_factor", "", ".2f"), ("Verdict", "verdict", "", "s"), ("Governs", "governs", "", "s"),
-    ("Lined width", "lined_width", "length", ".2f"), ("Layer vol.", "layer_volume", "volume_per_length", ".3f"),
-    ("Cost", "cost_per_length", "cost_per_length", ".2f"),
-)
-
 
 def register(subparsers) -> None:
     p = subparsers.add_parser("compare", help=HELP, description=HELP + " (FHWA HEC-15 permissible shear). "
@@ -35,20 +26,10 @@ def register(subparsers) -> None:
     p.set_defaults(run=run)
 
 
-def _cell(value, fmt):
-    if value is None:
-        return "-"
-    return format(value, fmt) if fmt != "s" else str(value)
-
-
-def render(rows: list[dict], units: hu.UnitSystem) -> str:
-    """The comparison as an aligned text table with units in the headers."""
-    heads = []
-    for head, _, quantity, _ in COLUMNS:
-        label = units.label(quantity) if quantity else ""
-        heads.append(f"{head} ({label})" if label else head)
-    cells = [[_cell(Verdict.from_token(r[key]).words if key == "verdict" else r[key], fmt)
-              for _, key, _, fmt in COLUMNS] for r in rows]
+def render(table: ComparisonTable) -> str:
+    """The one comparison table (:mod:`app.comparison_table`) as aligned text, units in the headings."""
+    heads = [table.heading(f, "()") for f in table.columns]
+    cells = table.body()
     widths = [max(len(h), *(len(c[i]) for c in cells)) for i, h in enumerate(heads)]
     lines = ["  ".join(h.ljust(w) for h, w in zip(heads, widths))]
     lines.append("  ".join("-" * w for w in widths))
@@ -90,7 +71,7 @@ def run(args) -> int:
         return 0
     print(f"Linings for a {section.kind}, {args.flow:g} {units.label('flow')} on {args.slope:g} "
           f"{units.label('slope')} (FHWA HEC-15 permissible shear):")
-    print(render(data, units))
+    print(render(comparison_table(rows, Context(catalogue, units), section.full_depth)))
     for r in rows:
         print(f"  {r.key}: {r.result.reason(units) if r.result is not None else r.reason}")
         for w in r.warnings:

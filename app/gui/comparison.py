@@ -13,6 +13,7 @@ its lining, so what is applied is always the lining the user picked.
 from __future__ import annotations
 
 import copy
+import re
 
 from PySide6.QtCore import Qt, Signal
 from PySide6.QtGui import QColor, QFontMetrics, QGuiApplication
@@ -22,14 +23,15 @@ from PySide6.QtWidgets import (QAbstractItemView, QCheckBox, QGridLayout, QHBoxL
 from .. import channel_display as display
 from ..project import LiningChoice
 from .document import ProjectDocument
-from .fields import keep_units_whole, pretty
+from .fields import keep_units_whole, number_marks, pretty
 from .plots import SectionPicture
 
 
 def wrap(text: str, width: int = 18) -> str:
     """Break a lining name into short lines for a column heading."""
     lines, line = [], ""
-    for word in (w for w in text.replace(",", ", ").split(" ") if w):   # a no-break space holds its words
+    # a break may follow a comma between words, never a decimal comma ("D50 150,0 mm"); a no-break space holds
+    for word in (w for w in re.sub(r",(?!\d)", ", ", text).split(" ") if w):
         if line and len(line) + 1 + len(word) > width:
             lines.append(line)
             line = word
@@ -52,6 +54,7 @@ class ComparisonView(QWidget):
         super().__init__(parent)
         self.doc = doc
         self.rows: list[display.ComparisonRow] = []
+        self.data = None       # the one comparison table of ``rows`` as shown (app.comparison_table)
         self.pictures: list[SectionPicture] = []
 
         intro = QLabel("Tick linings to compare them for this channel at its design flow. Pick a column to "
@@ -140,7 +143,8 @@ class ComparisonView(QWidget):
         self.rows, reason = display.compare(ch, context)
         self.unavailable.setText(reason)
         self.unavailable.setVisible(bool(reason))
-        heads, body = display.comparison_table(self.rows, context)
+        self.data = display.comparison_data(self.rows, context, *number_marks())
+        heads, body = [self.data.heading(f) for f in self.data.columns], self.data.body()
         self._set_columns(len(body))
         self.table.setRowCount(len(heads))          # row 0: the small section; then the quantities
         self.table.setHorizontalHeaderLabels([wrap(keep_units_whole(cells[0])) for cells in body])
@@ -188,9 +192,8 @@ class ComparisonView(QWidget):
         if self._sort is None or not self.rows or not labels:
             return
         row, descending = self._sort
-        get = display.COMPARISON_COLUMNS[row][2]
-
-        values = [get(r) for r in self.rows]
+        key = display.COMPARISON_COLUMNS[row].key
+        values = [r.values[key] for r in self.data.rows]
         present = [j for j, v in enumerate(values) if v is not None]
 
         def key(j):
@@ -214,7 +217,7 @@ class ComparisonView(QWidget):
             self._fill_choices(self.doc.channel())
 
     def _fill_choices(self, ch) -> None:
-        groups = display.lining_groups(self.doc.context)
+        groups = display.lining_groups(self.doc.context, decimal_mark=number_marks()[0])
         columns = self._columns()
         if groups != getattr(self, "_groups", None) or columns != getattr(self, "_filled_columns", None):
             self._groups, self._filled_columns = groups, columns
@@ -312,7 +315,7 @@ class ComparisonView(QWidget):
                 return
 
     def copy_table(self) -> str:
-        text = display.comparison_tsv([self.rows[j] for j in self.shown_order()], self.doc.context)
+        text = display.comparison_tsv([self.rows[j] for j in self.shown_order()], self.doc.context, *number_marks())
         QGuiApplication.clipboard().setText(text)
         self.status_message.emit(f"Comparison table copied ({len(self.rows)} rows, tab-separated).")
         return text

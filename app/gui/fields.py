@@ -131,6 +131,13 @@ def _locale(locale: QLocale | None) -> QLocale:
     return locale if locale is not None else QLocale()
 
 
+def number_marks(locale: QLocale | None = None) -> tuple[str, str]:
+    """(decimal mark, group separator) of ``locale`` (the user's, by default): what the window writes its
+    results with, so that they read as the numbers the fields take."""
+    loc = _locale(locale)
+    return loc.decimalPoint(), loc.groupSeparator()
+
+
 def locale_description(locale: QLocale | None = None) -> str:
     """The number format in words, with an example: "the English (United States) format, as in 1,234.5"."""
     loc = _locale(locale)

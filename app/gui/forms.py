@@ -22,7 +22,7 @@ from ..editing import section_for_shape, value_at, with_value
 from ..project import LiningChoice
 from .document import ProjectDocument
 from .fields import (FieldSpec, LineEdit, NotesEdit, NumberField, UnclearNumber, format_number, keep_units_whole,
-                     parse_number, pretty, set_invalid)
+                     number_marks, parse_number, pretty, set_invalid)
 
 SHAPES = (
     ("trapezoid", "Trapezoid"),
@@ -291,7 +291,8 @@ class LiningForm(QWidget):
         self.combo.clear()
         self.combo.addItem("None: Manning's n only", "")
         model = self.combo.model()
-        for heading, items in display.lining_groups(context, sizes=False):   # the stone size has its own field
+        # the stone size has its own field
+        for heading, items in display.lining_groups(context, sizes=False, decimal_mark=number_marks()[0]):
             self.combo.addItem(heading)
             head = model.item(self.combo.count() - 1)
             head.setEnabled(False)
@@ -332,7 +333,8 @@ class LiningForm(QWidget):
             self.d50.show_value(lining.d50, units, force)
             default = entry.d50
             self.d50.edit.setPlaceholderText(
-                f"catalogue: {pretty(display.stone_size_text(default, units))}" if default else "needed")
+                f"catalogue: {pretty(display.stone_size_text(default, units, number_marks()[0]))}" if default
+                else "needed")
         surveyed = channel.section.get("shape") == "irregular"
         plain = lining is None
         self.n.set_visible(plain and not (surveyed and channel.manning_n is None))

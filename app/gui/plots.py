@@ -21,6 +21,7 @@ from hydraulics.linings.roughness import SWITCH_NOTE
 from hydraulics.units import UnitSystem
 
 from ..channel_display import EnergyData, Evaluation, RatingData
+from ..section_geometry import SectionGeometry, section_geometry
 from .fields import pretty
 
 INK = "#33393f"
@@ -35,48 +36,7 @@ PIPE = "#c9ccce"
 FONT = 9.5
 
 
-# -- geometry for drawing (numpy only) -------------------------------------------------
-def clip_below(x, z, level):
-    """The closed polygon (x, z) cut to the part at or below ``level`` (Sutherland-Hodgman)."""
-    xs, zs = [], []
-    n = len(x)
-    for i in range(n):
-        x0, z0, x1, z1 = x[i - 1], z[i - 1], x[i], z[i]
-        in0, in1 = z0 <= level, z1 <= level
-        if in1:
-            if not in0:
-                t = (level - z0) / (z1 - z0)
-                xs.append(x0 + t * (x1 - x0))
-                zs.append(level)
-            xs.append(x1)
-            zs.append(z1)
-        elif in0:
-            t = (level - z0) / (z1 - z0)
-            xs.append(x0 + t * (x1 - x0))
-            zs.append(level)
-    return np.array(xs), np.array(zs)
-
-
-def offset_outward(x, z, thickness):
-    """The boundary polyline moved ``thickness`` away from the water (to the right of travel), mitred."""
-    x, z = np.asarray(x, float), np.asarray(z, float)
-    dx, dz = np.diff(x), np.diff(z)
-    length = np.hypot(dx, dz)
-    keep = length > 1e-12
-    dx, dz, length = dx[keep], dz[keep], length[keep]
-    px = np.concatenate([x[:-1][keep], x[-1:]])
-    pz = np.concatenate([z[:-1][keep], z[-1:]])
-    nx, nz = dz / length, -dx / length          # right-hand normals of each segment
-    vx = np.concatenate([nx[:1], nx[:-1] + nx[1:], nx[-1:]])
-    vz = np.concatenate([nz[:1], nz[:-1] + nz[1:], nz[-1:]])
-    # Mitre: scale the averaged normal so that its projection on each adjoining normal is the thickness.
-    norm = np.hypot(vx, vz)
-    vx, vz = vx / norm, vz / norm
-    proj = np.concatenate([[1.0], vx[1:-1] * nx[:-1] + vz[1:-1] * nz[:-1], [1.0]])
-    scale = thickness / np.clip(proj, 0.3, None)
-    return px + vx * scale, pz + vz * scale
-
-
+# -- the window's framing of the one section geometry (numpy only) --------------------------
 def circle_points(radius, cx=0.0, cz=0.0, count=145):
     t = np.linspace(0, 2 * np.pi, count)
     return cx + radius * np.sin(t), cz + radius - radius * np.cos(t)
@@ -158,85 +118,53 @@ class Picture:
 
 @dataclass
 class SectionDrawing:
-    """Everything drawn for one section, SI, invert at z = 0 (from :func:`section_drawing`)."""
+    """The window's picture of one section, in the user's length unit, invert at z = 0: the one geometry
+    (:mod:`app.section_geometry`, which the sheet draws too) framed with ground beyond the banks and soil below."""
 
-    kind: str
+    geometry: SectionGeometry
     ground: tuple            # boundary polyline with berms (x, z)
     soil: tuple              # ground or pipe wall polygon
     air: tuple | None        # inside of a pipe above the water
     water: tuple | None      # wetted area at normal depth
-    surface: tuple           # (x_left, x_right) of the water surface
-    critical: tuple          # (x_left, x_right) at critical depth
     lining: tuple | None     # lining band polygon
     top: float               # top of ditch (lower bank, pipe crown)
-    left: float              # extent of the drawing [m]
+    left: float              # extent of the drawing
     right: float
     base: float
-    normal_depth: float
-    critical_depth: float
-    bottom_width: float | None
-    side_slopes: tuple | None
-    slope_at: tuple | None   # x of each bank at mid-height (left, right) and that height
+
+    @property
+    def kind(self) -> str:
+        return self.geometry.kind
 
 
-def section_drawing(ev: Evaluation, lining_thickness=None) -> SectionDrawing:
-    """The shapes to draw for a solved channel (``ev.ok``), from ``section.outline`` of the core."""
-    r, sec = ev.result, ev.section
-    yn, yc = float(r.normal_depth), float(r.critical_depth)
-    thick = float(lining_thickness or 0.0)
-    kind = sec.kind
-    if kind == "circle":
-        d = float(sec.diameter)
-        bx, bz = circle_points(d / 2)
-        wall = max(d * 0.06, 0.02)
+def section_drawing(ev: Evaluation, units: UnitSystem, lining_thickness=None) -> SectionDrawing:
+    """The shapes to draw for a solved channel (``ev.ok``) in ``units``, from the one section geometry."""
+    geo = section_geometry(ev.section, ev.result.normal_depth, ev.result.critical_depth, ev.total_depth, units,
+                           lining_thickness)
+    k, thick = geo.to_units, geo.thickness
+    bx, bz = geo.boundary
+    water = None
+    if geo.water:       # one patch: the wet runs in turn, joined along the water surface
+        water = (np.concatenate([w[0] for w in geo.water]), np.concatenate([w[1] for w in geo.water]))
+    if geo.closed:
+        d = geo.full_depth
+        wall = max(d * 0.06, 0.02 * k)
+        ix, iz = circle_points(d / 2)
         ox, oz = circle_points(d / 2 + wall, cz=-wall)
-        soil = (np.concatenate([ox, bx[::-1]]), np.concatenate([oz, bz[::-1]]))
-        wx, wz = clip_below(bx, bz, yn)
-        return SectionDrawing(kind, (bx, bz), soil, (bx, bz), (wx, wz) if len(wx) >= 3 else None,
-                              _span(wx), _width_at(bx, bz, yc, closed=True), None, d, -d / 2 - wall,
-                              d / 2 + wall, -wall, yn, yc, None, None, None)
-    if kind == "irregular":
-        bx, bz = (np.asarray(a, float) for a in sec.outline(sec.full_depth))
-        bx = bx - (bx.min() + bx.max()) / 2
-        top = float(min(bz[0], bz[-1]))
-    else:
-        top = float(ev.total_depth)
-        bx, bz = (np.asarray(a, float) for a in sec.outline(top))
+        soil = (np.concatenate([ox, ix[::-1]]), np.concatenate([oz, iz[::-1]]))
+        return SectionDrawing(geo, (bx, bz), soil, (bx, bz), water, None, d, -d / 2 - wall, d / 2 + wall, -wall)
+    top = geo.full_depth if geo.surveyed else geo.total_depth
     span = float(bx.max() - bx.min())
-    berm = max(0.12 * span, 0.3 * top, 0.1)
-    base = -max(0.3 * top, thick + 0.12 * top, 0.05)
+    berm = max(0.12 * span, 0.3 * top, 0.1 * k)
+    base = -max(0.3 * top, thick + 0.12 * top, 0.05 * k)
     gx = np.concatenate([[bx[0] - berm], bx, [bx[-1] + berm]])
     gz = np.concatenate([[bz[0]], bz, [bz[-1]]])
     soil = (np.concatenate([gx, [gx[-1], gx[0]]]), np.concatenate([gz, [base, base]]))
-    wx, wz = clip_below(bx, bz, yn)
     band = None
     if thick > 0:
-        ox, oz = offset_outward(bx, bz, thick)
+        ox, oz = geo.outer
         band = (np.concatenate([bx, ox[::-1]]), np.concatenate([bz, oz[::-1]]))
-    b = float(sec.bottom_width) if kind in ("trapezoid", "rectangle") else None
-    zs = tuple(float(z) for z in sec.side_slopes) if kind in ("trapezoid", "triangle") else None
-    slope_at = None
-    if zs is not None:
-        mid = 0.5 * top
-        half = (b or 0.0) / 2
-        slope_at = (-half - zs[0] * mid, half + zs[1] * mid, mid)
-    return SectionDrawing(kind, (gx, gz), soil, None, (wx, wz) if len(wx) >= 3 else None, _span(wx),
-                          _width_at(bx, bz, yc), band, top, float(gx[0]), float(gx[-1]), base, yn, yc, b, zs,
-                          slope_at)
-
-
-def _span(x):
-    return (float(np.min(x)), float(np.max(x))) if len(x) else (0.0, 0.0)
-
-
-def _width_at(bx, bz, level, closed=False):
-    """Leftmost and rightmost x where the boundary reaches ``level`` (linear between points)."""
-    xs = []
-    for i in range(0 if closed else 1, len(bx)):
-        x0, z0, x1, z1 = bx[i - 1], bz[i - 1], bx[i], bz[i]
-        if (z0 - level) * (z1 - level) <= 0 and z0 != z1:
-            xs.append(x0 + (level - z0) / (z1 - z0) * (x1 - x0))
-    return (min(xs), max(xs)) if xs else (0.0, 0.0)
+    return SectionDrawing(geo, (gx, gz), soil, None, water, band, top, float(gx[0]), float(gx[-1]), base)
 
 
 class SectionPicture(Picture):
@@ -317,35 +245,36 @@ class SectionPicture(Picture):
     def update(self, ev: Evaluation, units: UnitSystem, title: str = "", lining_thickness=None) -> None:
         """Redraw for a good evaluation (``ev.ok``); the caller keeps the last one when it is not."""
         self._last = (ev, units, title, lining_thickness)
-        g = section_drawing(ev, lining_thickness)
-        k = units.from_si("length", 1.0)          # metres -> shown length unit
+        g = section_drawing(ev, units, lining_thickness)     # everything in the shown length unit
+        geo = g.geometry
         L = units.label("length")
 
         def fmt(v):
-            return f"{v * k:.2f} {L}"
+            return f"{v:.2f} {L}"
 
         def xy(pair):
-            return np.column_stack([np.asarray(pair[0]) * k, np.asarray(pair[1]) * k])
+            return np.column_stack([np.asarray(pair[0]), np.asarray(pair[1])])
 
-        s = self._fit(g.left * k, g.right * k, g.base * k, g.top * k)  # shown units per pixel
+        s = self._fit(g.left, g.right, g.base, g.top)  # shown units per pixel
         self.soil.set_xy(xy(g.soil))
         self.soil.set_facecolor(PIPE if g.kind == "circle" else SOIL)
         self.air.set_visible(g.air is not None)
         if g.air is not None:
             self.air.set_xy(xy(g.air))
-        self.ground.set_data(g.ground[0] * k, g.ground[1] * k)
+        self.ground.set_data(g.ground[0], g.ground[1])
         self.water.set_visible(g.water is not None)
         if g.water is not None:
             self.water.set_xy(xy(g.water))
         self.lining.set_visible(g.lining is not None)
         if g.lining is not None:
             self.lining.set_xy(xy(g.lining))
-        (wl, wr), yn, yc, top = g.surface, g.normal_depth, g.critical_depth, g.top
-        self.surface.set_data([wl * k, wr * k], [yn * k, yn * k])
-        self.marker.set_data([(wl + 0.18 * (wr - wl)) * k], [yn * k + 7 * s])
+        (wl, wr), yn, yc, top = geo.surface or (0.0, 0.0), geo.normal_depth, geo.critical_depth, g.top
+        critical = geo.critical or (0.0, 0.0)
+        self.surface.set_data([wl, wr], [yn, yn])
+        self.marker.set_data([(wl + 0.18 * (wr - wl))], [yn + 7 * s])
         self.title.set_text(title)
         if self.compact:
-            self.critical.set_data([g.critical[0] * k, g.critical[1] * k], [yc * k, yc * k])
+            self.critical.set_data([critical[0], critical[1]], [yc, yc])
             for a in (self.top_line, self.scale_bar, self.scale_text, *self._labels):
                 a.set_visible(False)
             for d in self.dims.values():
@@ -354,8 +283,8 @@ class SectionPicture(Picture):
             return
 
         # critical depth across its own width; the top of the ditch (or the crown) across the drawing
-        self.critical.set_data([g.critical[0] * k, g.critical[1] * k], [yc * k, yc * k])
-        self.top_line.set_data([g.left * k, g.right * k], [top * k, top * k])
+        self.critical.set_data([critical[0], critical[1]], [yc, yc])
+        self.top_line.set_data([g.left, g.right], [top, top])
         name = {"circle": "crown of the pipe", "irregular": "lower bank"}.get(g.kind, "top of ditch (total depth)")
         keys = [f"water surface at normal depth, {fmt(yn)}", f"critical depth, {fmt(yc)}", f"{name}, {fmt(top)}"]
         if g.lining is not None:
@@ -371,42 +300,42 @@ class SectionPicture(Picture):
             if i < len(keys):
                 label.set_text(keys[i])
         # the depth chain on the right: water depth, then freeboard (or clearance to the crown)
-        x_dim = g.right * k + 14 * s
+        x_dim = g.right + 14 * s
         d = self.dims
-        d["depth"].show((x_dim, 0), (x_dim, yn * k), f"depth {fmt(yn)}",
-                        ticks=([wr * k, x_dim + 4 * s], [yn * k, yn * k]))
+        d["depth"].show((x_dim, 0), (x_dim, yn), f"depth {fmt(yn)}",
+                        ticks=([wr, x_dim + 4 * s], [yn, yn]))
         gap = top - yn
-        if gap * k > 1.5 * s:
+        if gap > 1.5 * s:
             label = {"circle": "to crown", "irregular": "to lower bank"}.get(g.kind, "freeboard")
-            d["freeboard"].show((x_dim, yn * k), (x_dim, top * k), f"{label} {fmt(gap)}",
-                                ticks=([g.right * k, x_dim + 4 * s], [top * k, top * k]))
-            if gap * k < 16 * s:  # a short freeboard: lift its label clear of the depth label
-                d["freeboard"].label.set_y(top * k + 7 * s)
+            d["freeboard"].show((x_dim, yn), (x_dim, top), f"{label} {fmt(gap)}",
+                                ticks=([g.right, x_dim + 4 * s], [top, top]))
+            if gap < 16 * s:  # a short freeboard: lift its label clear of the depth label
+                d["freeboard"].label.set_y(top + 7 * s)
         else:
             d["freeboard"].set_visible(False)
         # water-surface width above the drawing
-        t_y = top * k + 16 * s
-        d["top"].show((wl * k, t_y), (wr * k, t_y), f"water surface {fmt(wr - wl)}", where="above",
-                      ticks=([wl * k, wl * k, np.nan, wr * k, wr * k], [yn * k, t_y + 3 * s, np.nan, yn * k,
+        t_y = top + 16 * s
+        d["top"].show((wl, t_y), (wr, t_y), f"water surface {fmt(wr - wl)}", where="above",
+                      ticks=([wl, wl, np.nan, wr, wr], [yn, t_y + 3 * s, np.nan, yn,
                                                                         t_y + 3 * s]))
         d["top"].label.set_y(t_y + 3 * s)
         # bottom width under the ditch
-        if g.bottom_width:
-            b2 = g.bottom_width / 2 * k
-            yb = g.base * k - 6 * s
-            d["bottom"].show((-b2, yb), (b2, yb), f"bottom {fmt(g.bottom_width)}", where="below",
+        if geo.bottom_width:
+            b2 = geo.bottom_width / 2
+            yb = g.base - 6 * s
+            d["bottom"].show((-b2, yb), (b2, yb), f"bottom {fmt(geo.bottom_width)}", where="below",
                              ticks=([-b2, -b2, np.nan, b2, b2], [0, yb - 3 * s, np.nan, 0, yb - 3 * s]))
             d["bottom"].label.set_y(yb - 4 * s)
         else:
             d["bottom"].set_visible(False)
         # side slopes, written in the ground just outside each bank
-        if g.side_slopes is not None:
-            xl_, xr_, zm = g.slope_at
-            for lab, z, x, sign in zip(self.slope_labels, g.side_slopes, (xl_, xr_), (-1, 1)):
+        if geo.side_slopes is not None and geo.kind != "rectangle":
+            xl_, xr_, zm = geo.slope_points
+            for lab, z, x, sign in zip(self.slope_labels, geo.side_slopes, (xl_, xr_), (-1, 1)):
                 norm = float(np.hypot(1.0, z))
-                off = 18 * s + (lining_thickness or 0.0) * k
+                off = 18 * s + geo.thickness
                 lab.set_text(f"{z:g} : 1" if z > 0 else "vertical")
-                lab.set_position((x * k + sign * off / norm, zm * k - off * z / norm))
+                lab.set_position((x + sign * off / norm, zm - off * z / norm))
                 lab.set_ha("center")
                 lab.set_visible(True)
         else:

@@ -14,8 +14,8 @@ from hydraulics.units import UnitSystem
 from hydraulics.wording import in_units
 
 from ..channel_display import Evaluation
-from ..results import CHANNEL_FIELDS, ResultField, format_value
-from .fields import keep_units_whole, pretty
+from ..results import CHANNEL_FIELDS, ResultField, format_value, rounded
+from .fields import keep_units_whole, number_marks, pretty
 
 CAUTION = ("Results assist design only. Check them against the local drainage code and design manual; "
            "a licensed engineer must review and approve the design before it is built.")
@@ -55,8 +55,12 @@ OPTIONAL = {"side_shear", "bend_shear", "required_d50", "layer_thickness", "bend
             "layer_volume", "cost_per_length"}
 
 
-def result_values(ev: Evaluation) -> dict:
-    """Every listed value of an evaluation (SI, or words), None where it does not apply."""
+_SF = ResultField("safety_factor", "Safety factor", "", 2)
+
+
+def result_values(ev: Evaluation, decimal_mark: str = ".") -> dict:
+    """Every listed value of an evaluation (SI, or words), None where it does not apply; words that carry a
+    number (the safety factor with the one needed) write it with ``decimal_mark``."""
     r = ev.result
     out = {key: getattr(r, key, None) for key, _ in ROWS}
     out.update(flow=ev.flow, freeboard=ev.freeboard, total_depth=ev.total_depth,
@@ -77,7 +81,8 @@ def result_values(ev: Evaluation) -> dict:
             out["safety_factor"] = "—"
         else:
             out["permissible_shear"] = gov.permissible_shear
-            out["safety_factor"] = (f"{gov.safety_factor:.2f} (need {gov.required_safety_factor:.2f})"
+            out["safety_factor"] = (f"{rounded(gov.safety_factor, _SF, decimal_mark)} "
+                                    f"(need {rounded(gov.required_safety_factor, _SF, decimal_mark)})"
                                     if gov.safety_factor is not None else None)
     return out
 
@@ -190,10 +195,11 @@ class ResultsPanel(QWidget):
                                if shown is not None else "No result yet.")
             self.stale.show()
         self.numbers.setEnabled(usable)
-        values = result_values(shown) if shown is not None and shown.ok else {}
+        mark = number_marks()[0]      # the user's decimal mark, as the fields read numbers
+        values = result_values(shown, mark) if shown is not None and shown.ok else {}
         for key, f in ROWS:
             v = values.get(key)
-            self.values[key].setText("—" if v is None else pretty(format_value(v, f, units)))
+            self.values[key].setText("—" if v is None else pretty(format_value(v, f, units, mark)))
             applies = key not in OPTIONAL or v is not None
             self.values[key].setVisible(applies)
             self.names[key].setVisible(applies)

@@ -8,12 +8,14 @@ line share (:func:`app.evaluate.evaluate_channel`): the uniform flow
 unit system; the layout module places the strings and the tests read them
 back from the PDF. Values are SI in the core and converted only here.
 
-Rounding: outside the hand check every value is printed to three significant
-figures (the rounding the core uses in its own sentences, such as the
-verdict's reason), Manning's n to four and safety factors to two decimals,
-so that a value reads the same in the drawing, the tables and the reason. The
-hand check carries four to five figures, so that a checker can redo it with a
-calculator.
+Rounding: outside the hand check and the lining comparison every value is
+printed to three significant figures (the rounding the core uses in its own
+sentences, such as the verdict's reason), Manning's n to four and safety
+factors to two decimals, so that a value reads the same in the drawing, the
+tables and the reason. The lining comparison is the one table of
+:mod:`app.comparison_table` (the decimals of :data:`app.results.COMPARISON_FIELDS`),
+so that it reads as in the window and in ``ditchwright compare``. The hand check
+carries four to five figures, so that a checker can redo it with a calculator.
 """
 
 from __future__ import annotations
@@ -32,6 +34,8 @@ from hydraulics.stability import LINED_WIDTH_RULE, StabilityResult
 from hydraulics.wording import Worded
 
 from .. import __version__
+from ..comparison_table import EMPTY, comparison_table
+from ..context import Context
 from ..verdicts import Verdict, too_shallow_reason
 from ..evaluate import ChannelDesign, design_flow, evaluate_channel, load_default_catalogue
 from .fingerprint import fingerprint
@@ -183,6 +187,10 @@ class Formatter:
 
     def __call__(self, value_si: float, quantity: str, figures: int = FIGURES) -> str:
         return f"{self.number(value_si, quantity, figures)} {self.unit(quantity)}"
+
+    def shown(self, value: float, quantity: str, figures: int = FIGURES) -> str:
+        """A value already in the display units, as :meth:`__call__` writes it (to ``figures`` figures, its unit)."""
+        return f"{_sig(float(value), figures)} {self.unit(quantity)}"
 
     def stone(self, value_si: float) -> str:
         """A stone size or layer thickness: in the length unit (as in the verdict's reason) and in in / mm."""
@@ -497,42 +505,42 @@ def _depth_items(design: ChannelDesign, f: Formatter, src: Sources) -> list:
 
 
 # ------------------------------------------------------------------ comparison
-def comparison_lines(design: ChannelDesign, f: Formatter) -> tuple[list | None, list, bool]:
-    """One line per lining (the channel's own first), footnotes, and whether any is priced."""
+def comparison_lines(design: ChannelDesign, f: Formatter, catalogue: Catalogue | None = None
+                     ) -> tuple[list | None, list, bool]:
+    """One line per lining (the channel's own first), footnotes, and whether any is priced: the one comparison
+    table (:mod:`app.comparison_table`, the window's and ``ditchwright compare``'s) laid out for the sheet."""
     rows = design.comparison
     if not rows:
         return None, [], False
-    priced = any(r.cost_per_length is not None for r in rows)
+    if catalogue is None:
+        catalogue = load_default_catalogue()
+    table = comparison_table(rows, Context(catalogue, f.units), design.section.full_depth)
     own = design.channel.lining.key if design.channel.lining is not None else None
     lines, notes = [], []
-    for i, r in enumerate(rows):
-        name = r.name + (f", D50 {f.stone(r.d50)}" if r.d50 is not None else "")
-        if i == 0 and own is not None and r.key == own:
-            name = "* " + name
+    for i, r in enumerate(table.rows):
+        c = r.cells
+        name = ("* " if i == 0 and own is not None and r.key == own else "") + r.name
         if r.error is not None:
-            lines.append(ComparisonLine(name, *["\u2014"] * 7, "no solution", "\u2014", "\u2014", "\u2014"))
+            lines.append(ComparisonLine(name, *[EMPTY] * 7, r.verdict.words, EMPTY, EMPTY, EMPTY))
             notes.append(f"{r.name}: {in_units(r.error, f.units)}")
             continue
-        verdict = r.verdict + ("" if r.governs in (None, "non-erodible") else f" ({r.governs})")
-        if r.required_d50 is not None and r.d50 is not None and r.required_d50 > r.d50:
-            verdict += f"; needs D50 \u2265 {f(r.required_d50, 'length')}"
-        sf = "\u2014" if r.safety_factor is None else f"{r.safety_factor:.2f} / {r.required_safety_factor:.2f}"
+        verdict = r.verdict.words + ("" if r.values["governs"] in (None, "non-erodible") else f" ({c['governs']})")
+        needed = r.values["required_d50"]
+        if needed is not None and r.values["d50"] is not None and needed > r.values["d50"]:
+            verdict += f"; needs D50 \u2265 {c['required_d50']} {f.unit('small_length')}"
+        sf = EMPTY if r.values["safety_factor"] is None else f"{c['safety_factor']} / {c['required_safety_factor']}"
         lines.append(ComparisonLine(
-            lining=name, n=n_text(r.manning_n), depth=f.number(r.depth, "length"),
-            velocity=f.number(r.velocity, "velocity"), froude=f"{r.froude:.2f}",
-            design=f.number(r.design_shear, "shear"),
-            permissible="non-erodible" if r.permissible_shear is None else f.number(r.permissible_shear, "shear"),
-            safety_factor=sf, verdict=verdict, lined_width=f.number(r.lined_width, "length"),
-            layer_volume="\u2014" if r.layer_volume is None else f.number(r.layer_volume, "volume_per_length"),
-            cost="\u2014" if r.cost_per_length is None else f"{f.units.from_si('cost_per_length', r.cost_per_length):.2f}"))
+            lining=name, n=c["manning_n"], depth=c["depth"], velocity=c["velocity"], froude=c["froude"],
+            design=c["design_shear"], permissible=c["permissible_shear"], safety_factor=sf, verdict=verdict,
+            lined_width=c["lined_width"], layer_volume=c["layer_volume"], cost=c["cost_per_length"]))
     text = ("* the channel's lining, then the alternatives named in the project. " if own is not None else "")
     text += (f"\u03c4, \u03c4p and SF of the governing check (the bed for a non-erodible lining). Lined width: "
              f"{in_units(LINED_WIDTH_RULE, f.units)}; layer = lined width \u00d7 layer thickness, per "
              f"{f.unit('length')} of channel.")
-    if not priced:
+    if not table.priced:
         text += " No cost column: no lining compared has a unit cost (unit_cost in a user catalogue)."
     notes.insert(0, text)
-    return lines, notes, priced
+    return lines, notes, table.priced
 
 
 # ------------------------------------------------------------------ the sheet
@@ -605,7 +613,7 @@ def channel_sheet(project, channel, catalogue: Catalogue | None = None) -> Chann
     if verdict is Verdict.TOO_SHALLOW:
         reason = in_units(too_shallow_reason(design.section, design.total_depth), units) + "; " + reason
     depth_items = _depth_items(design, f, src)
-    comparison, comparison_notes, priced = comparison_lines(design, f)
+    comparison, comparison_notes, priced = comparison_lines(design, f, catalogue)
     warned = cautions(design, f)
     printed = [*_item_texts(inputs), *_item_texts(lining_items), *_item_texts(depth_items), reason, *warned,
                *src.lines, *comparison_notes, *(c.basis for c in checks), *design.cited_texts()]

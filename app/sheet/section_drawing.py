@@ -1,8 +1,10 @@
 """The dimensioned typical section, drawn to a stated scale with reportlab's vector graphics.
 
-The channel boundary comes from ``section.outline(depth)``; the drawing adds
-the water at the design depth, the critical depth, the lining band at its
-thickness, the ground line at the top of the banks, and dimensions: bottom
+What is drawn is the one geometry of the section (:mod:`app.section_geometry`,
+which the window's picture draws too): the channel boundary, the water at the
+design depth, the critical depth, the lining band at its thickness; this
+module places it on paper and adds the ground line at the top of the banks,
+earth hatching and dimensions: bottom
 width, side slopes as H:V with their angle theta, design depth, freeboard,
 total depth and top width. Horizontal and vertical scales are equal and the
 scale is a round ratio (1:N, or 1 in = N ft for US units) so that a printed
@@ -18,6 +20,7 @@ from reportlab.graphics.shapes import Drawing, Group, Line, PolyLine, Polygon, R
 from reportlab.lib import colors
 from reportlab.pdfbase.pdfmetrics import stringWidth
 
+from ..section_geometry import section_geometry, wet_polygons
 from .fonts import FONT, register
 
 PT_PER_M = 72 / 0.0254
@@ -51,51 +54,6 @@ def choose_scale(ratio_needed: float, us: bool, si_scales=SI_SCALES, us_scales_f
             return n, f"1:{n}"
     n = math.ceil(ratio_needed / 1000) * 1000
     return n, f"1:{n}"
-
-
-def offset_polyline(x, z, distance):
-    """The polyline moved ``distance`` to its right-hand side (into the ground for a left-to-right outline).
-
-    Mitred joins: each interior point is the intersection of the two moved segments.
-    """
-    pts = np.column_stack([x, z]).astype(float)
-    d = np.diff(pts, axis=0)
-    keep = np.hypot(d[:, 0], d[:, 1]) > 1e-12
-    pts = np.vstack([pts[0], pts[1:][keep]])
-    d = np.diff(pts, axis=0)
-    length = np.hypot(d[:, 0], d[:, 1])
-    normal = np.column_stack([d[:, 1], -d[:, 0]]) / length[:, None]
-    out = [pts[0] + distance * normal[0]]
-    for i in range(1, len(pts) - 1):
-        n1, n2 = normal[i - 1], normal[i]
-        bis = n1 + n2
-        cos_half = np.dot(bis, n1) / max(np.linalg.norm(bis), 1e-12)
-        if np.linalg.norm(bis) < 1e-9 or cos_half < 0.2:
-            out.append(pts[i] + distance * n1)
-            out.append(pts[i] + distance * n2)
-        else:
-            out.append(pts[i] + distance * bis / np.linalg.norm(bis) / cos_half)
-    out.append(pts[-1] + distance * normal[-1])
-    out = np.array(out)
-    return out[:, 0], out[:, 1]
-
-
-def wet_polygons(x, z, level):
-    """Polygons of water standing at ``level`` over the boundary (x, z), one per wet run."""
-    polys, run = [], []
-    for i in range(len(x)):
-        below = z[i] <= level
-        if i > 0 and (z[i - 1] <= level) != below:
-            t = (level - z[i - 1]) / (z[i] - z[i - 1])
-            run.append((x[i - 1] + t * (x[i] - x[i - 1]), level))
-            if not below:
-                polys.append(run)
-                run = []
-        if below:
-            run.append((x[i], z[i]))
-    if len(run) > 2:
-        polys.append(run)
-    return [p for p in polys if len(p) > 2]
 
 
 def _text(x, y, text, size=SIZE, anchor="start", angle=0.0, color=INK):
@@ -165,29 +123,19 @@ def section_drawing(sheet, width: float, height: float, min_height: float = 88.0
     register()
     us = sheet.units.key == "us"
     design = sheet.design
-    section = design.section
-    yn, yc = float(design.analysis.normal_depth), float(design.analysis.critical_depth)
-    full = section.full_depth
-    total = design.total_depth if full is None else min(design.total_depth, full)
-    t = sheet.thickness or 0.0
-    open_top = section.kind in ("trapezoid", "triangle", "rectangle", "parabola")
+    geo = section_geometry(design.section, design.analysis.normal_depth, design.analysis.critical_depth,
+                           design.total_depth, sheet.units, sheet.thickness)
+    k = geo.to_units                  # the user's length unit per metre: every length below is in that unit
+    yn, yc, total, t = geo.normal_depth, geo.critical_depth, geo.total_depth, geo.thickness
+    open_top, closed, surveyed = geo.open_top, geo.closed, geo.surveyed
     fmt = sheet.format  # the tables' rounding, so a value reads the same in the drawing
 
-    x, z = section.outline(total)
-    x, z = np.asarray(x, float), np.asarray(z, float)
-    closed = section.kind == "circle"
-    if closed:  # start the ring at the crown so that the water is one run
-        k = int(np.argmax(z))
-        x, z = np.roll(x, -k), np.roll(z, -k)
-        total = float(section.full_depth)
-    surveyed = section.kind == "irregular"  # the outline is the whole survey, above the ditch's top
-    top_z = total if (closed or surveyed) else float(z[0])
-    if t > 0:  # the lining's outer face, cut off at the ground for an open section
-        xo, zo = offset_polyline(x, z, t)
-        if open_top:
-            xo, zo = _to_ground(xo, zo, top_z)
-    else:
-        xo, zo = x, z
+    def length(v):
+        return fmt.shown(v, "length")
+
+    x, z = geo.boundary
+    top_z = geo.top
+    xo, zo = geo.outer_to_ground
     x_min, x_max = float(min(x.min(), xo.min())), float(max(x.max(), xo.max()))
     z_min = float(min(z.min(), zo.min()))
     real_w = x_max - x_min
@@ -198,9 +146,10 @@ def section_drawing(sheet, width: float, height: float, min_height: float = 88.0
     left, right, bottom, top = 74.0, 74.0, 35.0, 20.0
     avail_w = width - left - right - 2 * ground_pt
     avail_h = height - bottom - top
-    s_needed = min(avail_w / real_w, avail_h / real_h)  # pt per m
-    ratio, scale_text = choose_scale(PT_PER_M / s_needed, us)
-    s = PT_PER_M / ratio
+    s_needed = min(avail_w / real_w, avail_h / real_h)  # pt per unit of length
+    ratio, scale_text = choose_scale(PT_PER_M / (s_needed * k), us)
+    s_m = PT_PER_M / ratio            # pt per m
+    s = s_m / k                       # pt per unit of length
     height = max(min_height, min(height, real_h * s + bottom + top + 8))
     avail_h = height - bottom - top
     x0 = left + ground_pt + (avail_w - real_w * s) / 2 - x_min * s
@@ -218,14 +167,11 @@ def section_drawing(sheet, width: float, height: float, min_height: float = 88.0
     blue, red = colors.Color(0.1, 0.3, 0.7), colors.Color(0.7, 0.1, 0.1)
 
     # water at the design depth, then the critical depth as a dashed line
-    xw, zw = section.outline(min(yn, total)) if open_top else (x, z)
-    for poly in wet_polygons(np.asarray(xw, float), np.asarray(zw, float), yn):
-        pts = [c for px, pz in poly for c in (X(px), Y(pz))]
-        g.add(Polygon(pts, fillColor=WATER, strokeColor=None))
-    wet = wet_polygons(x, z, yn)
+    for px_, pz_ in geo.water:
+        g.add(Polygon([c for px, pz in zip(px_, pz_) for c in (X(px), Y(pz))], fillColor=WATER, strokeColor=None))
     xl_w = xr_w = None
-    if wet:
-        xl_w, xr_w = min(p[0] for p in wet[0]), max(p[0] for p in wet[-1])
+    if geo.surface is not None:
+        xl_w, xr_w = geo.surface
         g.add(Line(X(xl_w), Y(yn), X(xr_w), Y(yn), strokeColor=blue, strokeWidth=0.8))
         # water-surface mark: an inverted triangle standing on the surface
         mx = X(xl_w + 0.2 * (xr_w - xl_w))  # left of the critical depth's label (at the right)
@@ -233,15 +179,13 @@ def section_drawing(sheet, width: float, height: float, min_height: float = 88.0
                       strokeColor=blue, strokeWidth=0.6))
         ws = "design WS"
         if abs(yc - yn) * s <= 1.0:  # the critical depth's line would lie on the water surface
-            ws += f" \u2248 critical depth yc {fmt(yc, 'length')}"
+            ws += f" \u2248 critical depth yc {length(yc)}"
         g.add(_text(mx + 5, Y(yn) + 1.2, ws, color=blue, size=SIZE - 0.5))
-    wet_c = wet_polygons(x, z, yc)
-    if wet_c and abs(yc - yn) * s > 1.0:
-        xl_c, xr_c = min(p[0] for p in wet_c[0]), max(p[0] for p in wet_c[-1])
+    if geo.critical is not None and abs(yc - yn) * s > 1.0:
+        xl_c, xr_c = geo.critical
         g.add(Line(X(xl_c), Y(yc), X(xr_c), Y(yc), strokeColor=red, strokeWidth=0.5, strokeDashArray=[2, 1.5]))
         # above its line when above the water surface (clear of the "design WS" label), else below it
-        _critical_label(g, x, z, yc, yn, s, X, Y, f"critical depth yc {fmt(yc, 'length')}",
-                        f"yc {fmt(yc, 'length')}", red)
+        _critical_label(g, x, z, yc, yn, s, X, Y, f"critical depth yc {length(yc)}", f"yc {length(yc)}", red)
 
     # lining band (to scale) or a heavy boundary line when its thickness is not known
     if t > 0:
@@ -253,18 +197,11 @@ def section_drawing(sheet, width: float, height: float, min_height: float = 88.0
     # earth hatching along the outside of the excavation (lining's outer face)
     _hatch(g, [X(v) for v in xo], [Y(v) for v in zo])
 
-    if closed:
-        xl, xr = float(x.min()), float(x.max())
-    elif surveyed:  # the top width is taken at the top of the ditch (design depth plus freeboard)
-        runs = wet_polygons(x, z, top_z)
-        xl, xr = (min(p[0] for p in runs[0]), max(p[0] for p in runs[-1])) if runs else (float(x.min()), float(x.max()))
-    else:
-        xl, xr = float(x[0]), float(x[-1])
+    xl, xr = geo.top_edges
+    gl, gr = geo.ground_edges
     if surveyed:
-        gl, gr = float(min(x.min(), xo.min())), float(max(x.max(), xo.max()))  # the ends of the survey
         el, er = X(xl), X(xr)  # extension lines at the top of the ditch start at its edges
     else:
-        gl, gr = min(xl, float(xo[0])), max(xr, float(xo[-1]))  # where the ground meets the excavation
         el, er = X(gl) - ground_pt, X(gr) + ground_pt
     if open_top:
         # ground line beyond the top of both banks, with earth hatching below it
@@ -280,10 +217,10 @@ def section_drawing(sheet, width: float, height: float, min_height: float = 88.0
     y_top = Y(top_z) + 12
     _ext(g, X(xl), Y(top_z) + 2, X(xl), y_top + 2)
     _ext(g, X(xr), Y(top_z) + 2, X(xr), y_top + 2)
-    _dim_h(g, X(xl), X(xr), y_top, f"{'diameter D' if closed else 'top width'} {fmt(xr - xl, 'length')}")
+    _dim_h(g, X(xl), X(xr), y_top, f"{'diameter D' if closed else 'top width'} {length(xr - xl)}")
 
     # design depth and freeboard at the left, total depth at the right; labels horizontal
-    x_invert = float(x[np.argmin(z)])
+    x_invert = geo.invert_x
     xd_l = X(gl) - ground_pt - dim_gap
     xd_r = X(gr) + ground_pt + dim_gap
     _ext(g, X(x_invert) - 2, Y(0), xd_l - 2, Y(0))
@@ -292,21 +229,21 @@ def section_drawing(sheet, width: float, height: float, min_height: float = 88.0
     _ext(g, er, Y(top_z), xd_r + 2, Y(top_z))
     if xl_w is not None:
         _ext(g, X(xl_w) - 2, Y(yn), xd_l - 2, Y(yn))
-    _dim_v(g, xd_l, Y(0), Y(min(yn, top_z)), f"yn {fmt(yn, 'length')}", side="left")
+    _dim_v(g, xd_l, Y(0), Y(min(yn, top_z)), f"yn {length(yn)}", side="left")
     if total > yn:
-        _dim_v(g, xd_l, Y(yn), Y(top_z), f"{'to crown' if closed else 'freeboard'} {fmt(total - yn, 'length')}",
+        _dim_v(g, xd_l, Y(yn), Y(top_z), f"{'to crown' if closed else 'freeboard'} {length(total - yn)}",
                side="left")
-    _dim_v(g, xd_r, Y(0), Y(top_z), f"{'crown' if closed else 'total depth'} {fmt(total, 'length')}", side="right")
+    _dim_v(g, xd_r, Y(0), Y(top_z), f"{'crown' if closed else 'total depth'} {length(total)}", side="right")
 
     # bottom width and side slopes for the trapezoid family
-    if section.side_slopes is not None:
-        b = float(section.bottom_width)
+    if geo.side_slopes is not None:
+        b = geo.bottom_width
         y_b = Y(0) - t * s - 10
         if b > 0:
             _ext(g, X(-b / 2), Y(0) - 2, X(-b / 2), y_b - 2)
             _ext(g, X(b / 2), Y(0) - 2, X(b / 2), y_b - 2)
-            _dim_h(g, X(-b / 2), X(b / 2), y_b, f"b {fmt(b, 'length')}", above=False)
-        for side, zs in (("left", section.side_slopes[0]), ("right", section.side_slopes[1])):
+            _dim_h(g, X(-b / 2), X(b / 2), y_b, f"b {length(b)}", above=False)
+        for side, zs in (("left", geo.side_slopes[0]), ("right", geo.side_slopes[1])):
             if zs <= 0:
                 continue
             theta = math.degrees(math.atan(1 / zs))
@@ -320,26 +257,15 @@ def section_drawing(sheet, width: float, height: float, min_height: float = 88.0
                         anchor="middle", angle=-theta if side == "left" else theta))
 
     # the scale with a scale bar (the lining's caption goes beside the heading: lining_caption)
-    bar_real = _bar_length(width * 0.2 / s, us)
+    bar_real = _bar_length(width * 0.2 / s_m, us)
     bx, by = 8.0, 5.0
-    bar_pt = bar_real * s
+    bar_pt = bar_real * s_m
     g.add(Rect(bx, by, bar_pt / 2, 2.5, fillColor=INK, strokeColor=INK, strokeWidth=0.3))
     g.add(Rect(bx + bar_pt / 2, by, bar_pt / 2, 2.5, fillColor=colors.white, strokeColor=INK, strokeWidth=0.3))
     bar_label = f"{bar_real / 0.3048:g} ft" if us else f"{bar_real:g} m"
     g.add(_text(bx + bar_pt + 4, by - 0.3, f"{bar_label}     Scale {scale_text} when printed at 100 %, "
                                           "horizontal and vertical alike"))
     return d, scale_text
-
-
-def _to_ground(xo, zo, level):
-    """The outer face (xo, zo) of an open section's lining, its two ends moved along their segments to ``level``."""
-    xo, zo = np.array(xo, float), np.array(zo, float)
-    for end, nxt in ((0, 1), (-1, -2)):
-        dz = zo[nxt] - zo[end]
-        if abs(dz) > 1e-12:
-            k = (level - zo[end]) / dz
-            xo[end], zo[end] = xo[end] + k * (xo[nxt] - xo[end]), level
-    return xo, zo
 
 
 def _critical_label(g, x, z, yc, yn, s, X, Y, label, short, color):

@@ -108,3 +108,44 @@ def test_command_line_keeps_refusing_a_comma(text, capsys):
     with pytest.raises(SystemExit) as caught:
         main(["calc", "--flow", text, "--slope", "0.004", "--n", "0.03", "--bottom-width", "2", "--side-slope", "3"])
     assert caught.value.code == 2 and "--flow" in capsys.readouterr().err
+
+
+def test_results_and_comparison_are_written_with_the_locale_decimal_mark(user_locale, qtbot, capsys):
+    """de_DE writes 0,312 m: the results panel and the comparison show what the fields would read back; the
+    sheet, files and command line keep the point (they are read by programs, not by the user's locale)."""
+    import re
+
+    from app import channel_display as display
+    from app import project as pj
+    from app.gui.mainwindow import MainWindow
+
+    user_locale("de_DE")
+    w = MainWindow(pj.loads(pj.demo_path().read_text(encoding="utf-8")), persistent=False)
+    qtbot.addWidget(w)
+    w.doc.set_current(0)
+    ev = w.evaluation
+    depth = w.results.values["normal_depth"].text()
+    assert re.fullmatch(r"\d+,\d{3} m", depth), depth
+    assert parse_number(depth.split()[0]) == pytest.approx(ev.result.normal_depth, abs=5e-4)   # reads back
+    assert "," in w.results.values["velocity"].text() and "." not in w.results.values["velocity"].text()
+    outfall = next(i for i, c in enumerate(w.doc.project.channels) if c.alternatives)
+    w.doc.set_current(outfall)
+    w.tabs.setCurrentIndex(3)
+    w.comparison.refresh()
+    table = w.comparison.table
+    heads = [table.verticalHeaderItem(i).text() for i in range(table.rowCount())]
+    row = heads.index("Depth [m]")
+    shown = [table.item(row, j).text() for j in range(table.columnCount())]
+    assert shown and all(re.fullmatch(r"\d+,\d{3}", t) for t in shown), shown
+    for text, r in zip(shown, w.comparison.rows):
+        assert parse_number(text) == pytest.approx(r.core.depth, abs=5e-4)
+    stone = next(table.horizontalHeaderItem(j).toolTip() for j in range(table.columnCount())
+                 if "D50" in table.horizontalHeaderItem(j).toolTip())
+    assert re.search(r"D50 \d+,\d mm", stone), stone            # the stone size in the name too
+    headers = [table.horizontalHeaderItem(j).text() for j in range(table.columnCount())]
+    assert not any(re.search(r"\d, \d|\d,\n\d", h) for h in headers), headers   # no break at a decimal comma
+    assert re.search(r"D50 \d+,\d mm", w.comparison.checks["riprap"].toolTip())     # the list to tick agrees
+    # what leaves the window for a file keeps the point
+    _heads, body = display.comparison_table(w.comparison.rows, w.doc.context)
+    assert all(re.fullmatch(r"\d+\.\d{3}", cells[1]) for cells in body)
+    w.doc.undo_stack.setClean()
