@@ -27,6 +27,7 @@ from hydraulics.wording import in_units
 from .context import Context
 from .evaluate import comparison_choices, design_flow, evaluate_channel
 from .files import tsv_cell
+from .lining_names import name_in_units
 from .project import Channel, LiningChoice
 from .results import ResultField, format_value
 from .verdicts import Verdict as Verdicts
@@ -112,6 +113,7 @@ def lining_label(lin, units: UnitSystem, d50: float | None = None, size: bool = 
     height = (lin.data.get("roughness") or {}).get("stem_height")
     if height and _HEIGHT_WORDS.search(name):
         name = _HEIGHT_WORDS.sub(f"about {format_value(height, _GRASS_HEIGHT, units)} tall", name)
+    name = name_in_units(name, units)              # any other size the name quotes (D75 < 1.3 mm)
     if size and lin.category == "stone" and (d50 or lin.d50):
         name += f", D50 {stone_size_text(d50 or lin.d50, units)}"
     if lin.user_data and "user data" not in name:

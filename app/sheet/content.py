@@ -34,6 +34,7 @@ from hydraulics.wording import Worded
 from .. import __version__
 from ..verdicts import Verdict, too_shallow_reason
 from ..evaluate import ChannelDesign, design_flow, evaluate_channel, load_default_catalogue
+from ..lining_names import name_in_units
 from .fingerprint import fingerprint
 
 #: Customary Manning constant, (1 m / 1 ft)^(1/3) = 1.4859 (Chow 1959, Sec. 5-6).
@@ -257,7 +258,7 @@ def flow_items(design: ChannelDesign, f: Formatter) -> list:
 
 
 def _lining_text(st: StabilityResult, f: Formatter) -> str:
-    return st.lining_name + (f", D50 {f.stone(st.d50)}" if st.d50 is not None else "")
+    return name_in_units(st.lining_name, f.units) + (f", D50 {f.stone(st.d50)}" if st.d50 is not None else "")
 
 
 def _typed_n_words(ch, section) -> str:
@@ -506,12 +507,12 @@ def comparison_lines(design: ChannelDesign, f: Formatter) -> tuple[list | None, 
     own = design.channel.lining.key if design.channel.lining is not None else None
     lines, notes = [], []
     for i, r in enumerate(rows):
-        name = r.name + (f", D50 {f.stone(r.d50)}" if r.d50 is not None else "")
+        name = name_in_units(r.name, f.units) + (f", D50 {f.stone(r.d50)}" if r.d50 is not None else "")
         if i == 0 and own is not None and r.key == own:
             name = "* " + name
         if r.error is not None:
             lines.append(ComparisonLine(name, *["\u2014"] * 7, "no solution", "\u2014", "\u2014", "\u2014"))
-            notes.append(f"{r.name}: {in_units(r.error, f.units)}")
+            notes.append(f"{name_in_units(r.name, f.units)}: {in_units(r.error, f.units)}")
             continue
         verdict = r.verdict + ("" if r.governs in (None, "non-erodible") else f" ({r.governs})")
         if r.required_d50 is not None and r.d50 is not None and r.required_d50 > r.d50:
