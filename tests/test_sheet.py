@@ -730,9 +730,13 @@ def test_long_comparison_stays_on_one_page(tmp_path):
     text = reader.pages[0].extract_text().replace("\n", " ")
     from app.evaluate import evaluate_channel
 
-    names = [r.name for r in evaluate_channel(ch).comparison]
+    from app.lining_names import name_in_units
+    from hydraulics.units import US
+
+    names = [name_in_units(r.name, US) for r in evaluate_channel(ch).comparison]   # sizes in inches on a US sheet
     shown = [nm for nm in names if nm in text.split("CAUTIONS")[0]]
     assert len(shown) == len(names), set(names) - set(shown)  # every lining is in a row or in the note
+    assert "about 6 in tall" in text and "150 mm" not in text   # the good-stand grass, 150 mm = 5.9 in
 
 
 def test_core_sentences_get_the_sheet_units():
