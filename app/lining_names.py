@@ -9,6 +9,7 @@ from __future__ import annotations
 import re
 
 from hydraulics.units import UnitSystem
+from hydraulics.wording import in_units, worded
 
 from .results import ResultField, format_value
 
@@ -26,6 +27,7 @@ def lining_label(lin, units: UnitSystem, d50: float | None = None, size: bool = 
     height = (lin.data.get("roughness") or {}).get("stem_height")
     if height and _HEIGHT_WORDS.search(name):
         name = _HEIGHT_WORDS.sub(f"about {format_value(height, _GRASS_HEIGHT, units, decimal_mark)} tall", name)
+    name = name_in_units(name, units)              # any other size the name quotes (D75 < 1.3 mm)
     if size and lin.category == "stone" and (d50 or lin.d50):
         name += f", D50 {stone_size_text(d50 or lin.d50, units, decimal_mark)}"
     if lin.user_data and "user data" not in name:
@@ -36,3 +38,38 @@ def lining_label(lin, units: UnitSystem, d50: float | None = None, size: bool = 
 def stone_size_text(d50: float, units: UnitSystem, decimal_mark: str = ".") -> str:
     """A stone size in ``units`` by the results panel's rule (to a tenth of a mm or an inch), with its unit."""
     return format_value(d50, _STONE_SIZE, units, decimal_mark)
+
+
+#: A size in a name: an optional "about ", a number, and mm (not part of a longer word).
+_SIZE = re.compile(r"(?P<about>about )?(?P<value>\d+(?:\.\d+)?) ?mm\b")
+#: A rough size ("about 150 mm tall"): to whole units, as the grass heights of the lining list.
+_ROUGH = ResultField("size", "size", "small_length", 0)
+
+
+def name_in_units(name: str, units: UnitSystem) -> str:
+    """``name`` with each size it quotes in millimetres restated in ``units`` (as it is in SI).
+
+    >>> from hydraulics.units import US, SI
+    >>> name_in_units("Grass, sod-forming, good stand, about 150 mm tall", US)
+    'Grass, sod-forming, good stand, about 6 in tall'
+    >>> name_in_units("Bare soil, non-cohesive, fine (D75 < 1.3 mm)", US)
+    'Bare soil, non-cohesive, fine (D75 < 0.0512 in)'
+    >>> name_in_units("Bare soil, non-cohesive, fine (D75 < 1.3 mm)", SI)
+    'Bare soil, non-cohesive, fine (D75 < 1.3 mm)'
+    """
+    if units.key == "si" or not _SIZE.search(name):
+        return name
+    quantities = {}
+    pieces = []
+    at = 0
+    for k, m in enumerate(_SIZE.finditer(name)):
+        pieces.append(name[at:m.start()].replace("{", "{{").replace("}", "}}"))
+        metres = float(m["value"]) / 1000.0
+        if m["about"]:
+            quantities[f"s{k}"] = "about " + format_value(metres, _ROUGH, units)
+        else:
+            quantities[f"s{k}"] = (metres, "small_length")
+        pieces.append(f"{{s{k}}}")
+        at = m.end()
+    pieces.append(name[at:].replace("{", "{{").replace("}", "}}"))
+    return in_units(worded("".join(pieces), **quantities), units)

@@ -26,6 +26,7 @@ from hydraulics.units import UnitSystem
 from hydraulics.wording import format_station, in_units, worded
 
 from .project import Project, Run
+from .lining_names import name_in_units
 from .results import RUN_STATION_FIELDS, RUN_TABLE_FIELDS, convert, money_text, quantity_text, rounded
 
 __all__ = ["RunDesign", "SubAreaBasis", "design_run", "run_label", "section_dimensions", "RUN_CAUTIONS"]
@@ -264,7 +265,7 @@ class RunDesign:
             cand = self.result.run.candidates[q.choice]
             out.append({"from_station": float(units.from_si("length", lo)),
                         "to_station": float(units.from_si("length", hi)),
-                        "lining": cand.lining.key, "lining_name": q.lining_name,
+                        "lining": cand.lining.key, "lining_name": name_in_units(q.lining_name, units),
                         "d50": None if cand.d50 is None else float(units.from_si("small_length", cand.d50)),
                         "length": float(units.from_si("length", q.length)),
                         "quantities": [{"item": it.item, "amount": float(units.from_si(it.quantity, it.amount)),

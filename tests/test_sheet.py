@@ -741,6 +741,7 @@ def test_long_comparison_stays_on_one_page(tmp_path):
     names = [r.name for r in comparison_table(evaluate_channel(ch).comparison, Context(load_catalogue(), US)).rows]
     shown = [nm for nm in names if nm in text.split("CAUTIONS")[0]]
     assert len(shown) == len(names), set(names) - set(shown)  # every lining is in a row or in the note
+    assert "about 6 in tall" in text and "150 mm" not in text   # the good-stand grass, 150 mm = 5.9 in
 
 
 def test_core_sentences_get_the_sheet_units():

@@ -10,6 +10,7 @@ from hydraulics.stability import check_lining
 from hydraulics.wording import format_quantity, in_units
 
 from ..results import CHANNEL_FIELDS, convert, format_value
+from ..lining_names import name_in_units
 from ..verdicts import Verdict, verdict_of, with_tokens
 from .common import (CliError, add_channel_options, check_dimensions, check_numbers, emit_json, require, section_from_args,
                      side_slopes, table, unit_labels)
@@ -112,7 +113,7 @@ def stability_rows(stab, units) -> list:
     """(label, value) rows of a lining check, in the user's units."""
     L = lambda v: f"{units.from_si('length', v):.3f} {units.label('length')}"  # noqa: E731
     T = lambda v: format_quantity(v, "shear", units)  # noqa: E731
-    rows = [("Lining", f"{stab.lining_name} ({stab.lining_key})"),
+    rows = [("Lining", f"{name_in_units(stab.lining_name, units)} ({stab.lining_key})"),
             ("Manning's n used", f"{stab.manning_n:.4f}, {stab.n_source}")]
     if stab.d50 is not None:
         rows.append(("D50", L(stab.d50)))

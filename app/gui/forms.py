@@ -409,8 +409,8 @@ class InputPanel(QScrollArea):
         self.doc = doc
         self.fields: dict[str, NumberField] = {}
         self._invalid: dict[str, str] = {}
-        self.setWidgetResizable(True)
-        self.setHorizontalScrollBarPolicy(Qt.ScrollBarPolicy.ScrollBarAlwaysOff)
+        self.setWidgetResizable(True)     # narrower than the form (a small screen): it scrolls, never cuts
+        self.setHorizontalScrollBarPolicy(Qt.ScrollBarPolicy.ScrollBarAsNeeded)
         body = QWidget()
         body.setObjectName("inputBody")
         lay = QVBoxLayout(body)
@@ -516,7 +516,7 @@ class InputPanel(QScrollArea):
         lay.addWidget(box)
         lay.addStretch(1)
         self.setWidget(body)
-        self.setMinimumWidth(360)
+        self.setMinimumWidth(300)
 
         for sig in (doc.reset, doc.current_changed, doc.units_changed):
             sig.connect(self._reload_all)

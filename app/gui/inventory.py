@@ -31,6 +31,7 @@ from hydraulics import units as hu
 
 from . import settings
 from .fields import pretty, sentence
+from .screen_fit import fit_to_screen, scrolling
 from .style import STYLE
 from .tasks import Cancelled, Task
 
@@ -314,6 +315,14 @@ def _float(text: str) -> float:
         return math.nan
 
 
+class _Views(QTabWidget):
+    """The tabs of reaches, bad rows and summary: as tall as the dialog leaves them (the tables scroll), not as
+    tall as the wrapped reach detail would like, so that a short screen does not scroll the whole dialog."""
+
+    def hasHeightForWidth(self) -> bool:
+        return False
+
+
 class InventoryDialog(QDialog):
     """Check an inventory file, look at its reaches, and import chosen ones as channels."""
 
@@ -330,8 +339,13 @@ class InventoryDialog(QDialog):
         self.setWindowFlag(Qt.WindowType.Window, True)
         self.setStyleSheet(STYLE + INVENTORY_STYLE)
         self.setModal(False)
-        lay = QVBoxLayout(self)
-        lay.setContentsMargins(12, 10, 12, 10)
+        outer = QVBoxLayout(self)
+        outer.setContentsMargins(12, 10, 12, 10)
+        outer.setSpacing(8)
+        body = QWidget()
+        body.setObjectName("inventoryBody")
+        lay = QVBoxLayout(body)
+        lay.setContentsMargins(0, 0, 0, 0)
         lay.setSpacing(8)
 
         # the file and how to read it
@@ -408,6 +422,8 @@ class InventoryDialog(QDialog):
         self.warning.addItem("with any warning", ANY_WARNING)
         for key, label in mr.WARNINGS.items():
             self.warning.addItem(f"with {label}", key)
+        self.warning.setSizeAdjustPolicy(QComboBox.SizeAdjustPolicy.AdjustToMinimumContentsLengthWithIcon)
+        self.warning.setMinimumContentsLength(24)     # the list opens as wide as its longest entry
         self.warning.currentIndexChanged.connect(self.apply_filters)
         fl.addWidget(self.warning, 2, 1, 1, 2)
         fl.addWidget(QLabel("Find"), 2, 3, Qt.AlignmentFlag.AlignRight)
@@ -420,10 +436,10 @@ class InventoryDialog(QDialog):
         self._text_timer.setSingleShot(True)
         self._text_timer.setInterval(250)
         self._text_timer.timeout.connect(self.apply_filters)
-        fl.addWidget(self.text, 2, 4)
+        fl.addWidget(self.text, 2, 4, 1, 2)
         self.count = QLabel()
         self.count.setObjectName("shownCount")
-        fl.addWidget(self.count, 2, 5, Qt.AlignmentFlag.AlignRight)
+        fl.addWidget(self.count, 1, 4, 1, 2, Qt.AlignmentFlag.AlignRight)   # beside the short second row
         fl.setColumnStretch(5, 1)
         lay.addWidget(self.filters)
         self.filters.setEnabled(False)
@@ -470,7 +486,7 @@ class InventoryDialog(QDialog):
         self.detail.setWordWrap(True)
         self.detail.setTextInteractionFlags(Qt.TextInteractionFlag.TextSelectableByMouse)
         rl.addWidget(self.detail)
-        self.views = QTabWidget()
+        self.views = _Views()
         self.views.setObjectName("inventoryViews")
         self.views.addTab(reaches, "Reaches")
         self.views.addTab(self.problems, "Bad rows")
@@ -478,27 +494,33 @@ class InventoryDialog(QDialog):
         lay.addWidget(self.views, 1)
 
         # what to do with them
-        bottom = QHBoxLayout()
         caution = QLabel("Results assist design; a licensed engineer checks them against local codes.")
         caution.setObjectName("hint")
-        bottom.addWidget(caution, 1)
+        caution.setWordWrap(True)
+        lay.addWidget(caution)
+        # on a screen too small for it all, the part above the buttons scrolls; the buttons stay in view
+        outer.addWidget(scrolling(body, horizontal=True), 1)
+        bottom = QHBoxLayout()
+        bottom.addStretch(1)
         self.choose_all = QPushButton("Choose all shown")
         self.choose_all.clicked.connect(self.table.selectAll)
-        self.copy_button = QPushButton("Copy chosen rows")
+        self.copy_button = QPushButton("Copy rows")
         self.copy_button.setToolTip("Copy the chosen rows as tab-separated text for a spreadsheet")
         self.copy_button.clicked.connect(self.copy_rows)
-        self.save_button = QPushButton("Save results as CSV…")
+        self.save_button = QPushButton("Save as CSV…")
+        self.save_button.setToolTip("Save the results of every reach as a CSV file")
         self.save_button.clicked.connect(self.save_results)
-        self.import_button = QPushButton("Import chosen reaches as channels")
+        self.import_button = QPushButton()
         self.import_button.setObjectName("importReaches")
+        self.import_button.setToolTip("Add the chosen reaches to the project, each as a channel of its own")
         self.import_button.clicked.connect(self.import_chosen)
         close = QPushButton("Close")
         close.clicked.connect(self.close)
         for b in (self.choose_all, self.copy_button, self.save_button, self.import_button, close):
             bottom.addWidget(b)
-        lay.addLayout(bottom)
+        outer.addLayout(bottom)
         self._set_result_actions()
-        self.resize(1280, 760)
+        fit_to_screen(self, 1280, 760)
 
     # -- running the check --------------------------------------------------------------------
     def choose_file(self) -> None:
@@ -672,9 +694,9 @@ class InventoryDialog(QDialog):
         self.save_button.setEnabled(has_run)
         self.copy_button.setEnabled(chosen > 0)
         self.import_button.setEnabled(chosen > 0)
-        self.import_button.setText("Import chosen reaches as channels" if not chosen else
-                                   "Import the chosen reach as a channel" if chosen == 1 else
-                                   f"Import {chosen:,} chosen reaches as channels")
+        self.import_button.setText("Import chosen reaches" if not chosen else
+                                   "Import the chosen reach" if chosen == 1 else
+                                   f"Import {chosen:,} chosen reaches")
 
     def import_chosen(self) -> list:
         """Add the chosen reaches to the project as channels (one undoable step); returns their names."""

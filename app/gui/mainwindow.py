@@ -31,6 +31,7 @@ from .forms import SHAPES, InputPanel
 from .plots import EnergyPicture, RatingPicture, SectionPicture
 from .results_view import CAUTION, ResultsPanel
 from .sheet_dialogs import ExportSheetDialog, NotesDialog, SheetDetailsDialog, ask_password
+from .screen_fit import fit_to_screen, scrolling
 from .shortcuts import WindowKeys
 from .style import STYLE
 from .tasks import Task
@@ -230,14 +231,23 @@ class MainWindow(QMainWindow):
         heading.setObjectName("subheading")
         self.inputs = InputPanel(self.doc)
         self.inputs.validity_changed.connect(self.refresh)
-        left = QWidget()
-        ll = QVBoxLayout(left)
+        listing = QWidget()
+        ll = QVBoxLayout(listing)
         ll.setContentsMargins(8, 6, 0, 0)
         ll.setSpacing(4)
         ll.addWidget(heading)
         ll.addWidget(self.channel_list)
         ll.addLayout(buttons)
-        ll.addWidget(self.inputs, 1)
+        self.channel_list.setMinimumHeight(3 * self.fontMetrics().height())
+        # the list over the inputs, in a splitter: on a short screen the user gives the inputs the room
+        left = self.left_split = QSplitter(Qt.Orientation.Vertical)
+        left.setObjectName("leftSplitter")
+        left.addWidget(listing)
+        left.addWidget(self.inputs)
+        left.setStretchFactor(0, 0)
+        left.setStretchFactor(1, 1)
+        left.setChildrenCollapsible(False)
+        self.inputs.setMinimumHeight(120)
 
         # middle: the pictures
         self.section_picture = SectionPicture()
@@ -266,11 +276,14 @@ class MainWindow(QMainWindow):
         self.splitter.setStretchFactor(2, 0)
         self.splitter.setSizes([405, 695, 340])
         self.splitter.setChildrenCollapsible(False)
+        # three columns in 911 logical px (1366 px at 150 %): the side panels scroll sideways when narrower
+        self.results.setMinimumWidth(265)
+        self.results.scroll.setHorizontalScrollBarPolicy(Qt.ScrollBarPolicy.ScrollBarAsNeeded)
         self.pages = QStackedWidget()
         self.pages.setObjectName("pages")
         self.pages.addWidget(self.splitter)
-        self.setCentralWidget(self.pages)
-        self.setMinimumSize(1100, 700)
+        # below the panels' least size (a small screen at a large scale) the whole page scrolls, never cut
+        self.setCentralWidget(scrolling(self.pages, horizontal=True))
 
     def connect_document(self) -> None:
         d = self.doc
@@ -284,7 +297,7 @@ class MainWindow(QMainWindow):
         d.undo_stack.indexChanged.connect(self.update_title)
 
     def read_settings(self) -> None:
-        self.resize(1440, 900)
+        fit_to_screen(self, 1440, 900)
         if not self.persistent:
             return
         geometry = settings.WINDOW_GEOMETRY.read()

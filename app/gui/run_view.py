@@ -461,7 +461,7 @@ class RunInputs(QScrollArea):
             lay.addWidget(box)
         lay.addStretch(1)
         self.setWidget(body)
-        self.setMinimumWidth(340)
+        self.setMinimumWidth(290)
 
     def tables(self) -> tuple:
         return (self.profile, self.candidates, self.sub_areas)
@@ -554,7 +554,7 @@ class RunResultsPanel(QWidget):
         cl.setContentsMargins(12, 0, 12, 0)
         cl.addWidget(self.caution)
         outer.addLayout(cl)
-        self.setMinimumWidth(300)
+        self.setMinimumWidth(270)
 
     def set_verdict(self, status: str, headline: str, reason: str) -> None:
         self.verdict.setProperty("status", status)
@@ -683,7 +683,8 @@ class RunView(QWidget):
             open_action.triggered.connect(self.open_selected_station)
             self.addAction(open_action)
         self.open_action = open_action
-        self.open_button = QPushButton(f"Open station as a channel  ({OPEN_STATION_KEY})")
+        self.open_button = QPushButton("Open as a channel")
+        self.open_button.setToolTip(f"Open the station chosen in the table as a channel ({OPEN_STATION_KEY})")
         self.open_button.setObjectName("openStation")
         self.open_button.clicked.connect(self.open_selected_station)
         self.busy = QLabel()

@@ -20,9 +20,10 @@ from PySide6.QtCore import Qt
 from PySide6.QtGui import QPixmap
 from PySide6.QtWidgets import (QButtonGroup, QCheckBox, QComboBox, QDialog, QDialogButtonBox, QFileDialog,
                                QGridLayout, QGroupBox, QHBoxLayout, QInputDialog, QLabel, QLineEdit,
-                               QPlainTextEdit, QPushButton, QRadioButton, QVBoxLayout)
+                               QPlainTextEdit, QPushButton, QRadioButton, QVBoxLayout, QWidget)
 
 from .. import project as pj
+from .screen_fit import fit_to_screen, scrolling
 from .style import STYLE
 
 PAPERS = (("letter", "Letter (8.5 × 11 in)"), ("a4", "A4 (210 × 297 mm)"))
@@ -67,7 +68,10 @@ class SheetDetailsDialog(QDialog):
         self.setStyleSheet(STYLE)
         self.setObjectName("sheetDetails")
         self.edits: dict[str, QLineEdit] = {}
-        lay = QVBoxLayout(self)
+        outer = QVBoxLayout(self)
+        body = QWidget()
+        lay = QVBoxLayout(body)
+        lay.setContentsMargins(0, 0, 0, 0)
         lay.setSpacing(10)
         lay.addWidget(_hint("These facts go into the title block of every design sheet of this project. "
                             "They are saved with the project and printed as typed."))
@@ -127,13 +131,15 @@ class SheetDetailsDialog(QDialog):
         lay.addWidget(box)
         lay.addWidget(_hint("The wet signatures go on the printout; a digital signature is added when a sheet is "
                             "exported with a certificate."))
+        lay.addStretch(1)
+        outer.addWidget(scrolling(body), 1)     # a short screen scrolls the form; the buttons stay in view
 
         buttons = QDialogButtonBox(QDialogButtonBox.StandardButton.Ok | QDialogButtonBox.StandardButton.Cancel)
         buttons.accepted.connect(self.accept)
         buttons.rejected.connect(self.reject)
-        lay.addWidget(buttons)
+        outer.addWidget(buttons)
         self._show_logo()
-        self.resize(620, self.sizeHint().height())
+        fit_to_screen(self, 620, self.sizeHint().height())
 
     def _edit(self, key: str, text: str, placeholder: str = "") -> QLineEdit:
         e = QLineEdit(text)
@@ -200,7 +206,10 @@ class ExportSheetDialog(QDialog):
         self.setWindowTitle("Export design sheets")
         self.setObjectName("exportSheets")
         self.setStyleSheet(STYLE)
-        lay = QVBoxLayout(self)
+        outer = QVBoxLayout(self)
+        body = QWidget()
+        lay = QVBoxLayout(body)
+        lay.setContentsMargins(0, 0, 0, 0)
         lay.setSpacing(10)
         channel = project.channels[current]
         count = len(project.channels)
@@ -238,7 +247,7 @@ class ExportSheetDialog(QDialog):
         self.folder = folder or str(Path.home())
         self.path = QLineEdit()
         self.path.setObjectName("sheetPath")
-        self.path.setMinimumWidth(380)
+        self.path.setMinimumWidth(300)
         browse = QPushButton("Choose…")
         browse.clicked.connect(self._choose_path)
         g.addWidget(self.path, 0, 0)
@@ -275,15 +284,17 @@ class ExportSheetDialog(QDialog):
                                 "save the project so that its file matches the fingerprints printed on them."))
         lay.addWidget(_hint("Design sheets assist design: a licensed engineer checks and approves them against "
                             "local codes."))
-        self.message = _message()
-        lay.addWidget(self.message)
+        lay.addStretch(1)
+        outer.addWidget(scrolling(body), 1)     # a short screen scrolls the form; the buttons stay in view
+        self.message = _message()               # what is missing, next to the buttons where it is seen
+        outer.addWidget(self.message)
         buttons = QDialogButtonBox(QDialogButtonBox.StandardButton.Cancel)
         self.export_button = buttons.addButton("Export", QDialogButtonBox.ButtonRole.AcceptRole)
         self.export_button.setDefault(True)
         buttons.accepted.connect(self._accept_if_complete)
         buttons.rejected.connect(self.reject)
-        lay.addWidget(buttons)
-        self.resize(640, self.sizeHint().height())
+        outer.addWidget(buttons)
+        fit_to_screen(self, 640, self.sizeHint().height())
 
     def _suggest_path(self, *_args) -> None:
         """A file name from the project (and channel), in the last export folder, unless the user typed one."""
@@ -375,7 +386,7 @@ class NotesDialog(QDialog):
         buttons.accepted.connect(self.accept)
         buttons.rejected.connect(self.reject)
         lay.addWidget(buttons)
-        self.resize(560, 380)
+        fit_to_screen(self, 560, 380)
 
     def text(self) -> str:
         return self.edit.toPlainText()

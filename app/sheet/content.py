@@ -38,6 +38,7 @@ from ..comparison_table import EMPTY, comparison_table
 from ..context import Context
 from ..verdicts import Verdict, too_shallow_reason
 from ..evaluate import ChannelDesign, design_flow, evaluate_channel, load_default_catalogue
+from ..lining_names import name_in_units
 from .fingerprint import fingerprint
 
 #: Customary Manning constant, (1 m / 1 ft)^(1/3) = 1.4859 (Chow 1959, Sec. 5-6).
@@ -265,7 +266,7 @@ def flow_items(design: ChannelDesign, f: Formatter) -> list:
 
 
 def _lining_text(st: StabilityResult, f: Formatter) -> str:
-    return st.lining_name + (f", D50 {f.stone(st.d50)}" if st.d50 is not None else "")
+    return name_in_units(st.lining_name, f.units) + (f", D50 {f.stone(st.d50)}" if st.d50 is not None else "")
 
 
 def _typed_n_words(ch, section) -> str:
