@@ -290,7 +290,7 @@ def section_model(design, units: UnitSystem, title: str | None = None) -> Sectio
 
     def beside(text, x, y, side):
         """The middle of a horizontal label ``text`` beside the point (x, y): to its "left" or "right"."""
-        w = 0.7 * h * len(text)
+        w = 0.8 * h * len(text)
         return (x - 0.8 * h - w / 2, y) if side == "left" else (x + 0.8 * h + w / 2, y)
     x_out_l = min(model.extents("all")[0], left) - 2.5 * h
     x_out_r = max(model.extents("all")[2], right) + 2.5 * h
@@ -338,7 +338,7 @@ def section_model(design, units: UnitSystem, title: str | None = None) -> Sectio
             # anticlockwise from p1 to p2: the left bank turns from the bank down to the top, the right one back
             p1, p2 = (down, inward) if sign > 0 else (inward, down)
             text = slope_text(z)
-            w = 0.7 * h * len(text)
+            w = 0.8 * h * len(text)
             label_at = (x_top + sign * (r + 1.0 * h + w / 2), top - 0.8 * h)   # inside the ditch, by the arc
             D.append(Dimension(key, "angle", p1, p2, at, angle, "side slope", text, center=c, text_at=label_at))
 

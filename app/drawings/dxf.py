@@ -56,6 +56,10 @@ PROFILE_LAYERS = {
     "TEXT": (7, 18, "Continuous", "title and notes"),
 }
 
+#: The width of an average character of the text style, as a fraction of the text height (DejaVu Sans, measured
+#: on renderings of our labels: the height is the capital height, an average letter is a little wider).
+CHAR_WIDTH = 0.8
+
 #: Vertical exaggerations offered for a profile (common practice: 5, 10 or 20 for road ditches).
 EXAGGERATIONS = (1, 2, 5, 10, 20, 50, 100)
 
@@ -260,13 +264,15 @@ def profile_document(model: ProfileModel, units: UnitSystem, exaggeration: float
         _text(msp, f"grade {g.text}", gx, gy, 0.8 * h, layer="GRADES", align=TextEntityAlignment.TOP_CENTER,
               rotation=angle)
 
-    # the outfall
+    # the outfall: a mark from the invert up past the top of the ditch, labelled above it
     if model.outfall:
         s, z, label = model.outfall
-        y = float(Y(z))
-        msp.add_line((s, y), (s, y - 2.5 * h), dxfattribs={"layer": "TEXT"})
-        _text(msp, f"{label} {format_station(units.to_si('length', s), units)}", s, y - 3.3 * h, 0.8 * h,
-              align=TextEntityAlignment.RIGHT if s >= x1 - 1e-9 else TextEntityAlignment.LEFT)
+        tops = lines["ditch_top"]
+        j = int(np.argmin(np.abs(np.asarray(tops.x, float) - s)))
+        y_mark = float(Y(tops.y[j])) + 2.0 * h if np.isfinite(tops.y[j]) else float(Y(z)) + 2.0 * h
+        msp.add_line((s, float(Y(z))), (s, y_mark), dxfattribs={"layer": "TEXT"})
+        _text(msp, f"{label} {format_station(units.to_si('length', s), units)}", s, y_mark + 0.4 * h, 0.8 * h,
+              align=TextEntityAlignment.BOTTOM_RIGHT if s >= x1 - 1e-9 else TextEntityAlignment.BOTTOM_LEFT)
 
     # lining stretches, as bands under the station labels
     b_top, b_bot = -3.0 * h, -5.0 * h
@@ -276,8 +282,8 @@ def profile_document(model: ProfileModel, units: UnitSystem, exaggeration: float
         label = band.label
         room = band.end - band.start
         size = 0.7 * h
-        if len(label) * 0.6 * size > room - 0.4 * h:   # a short stretch: the label shortened to what fits
-            fit = max(int((room - 0.4 * h) / (0.6 * size)), 0)
+        if len(label) * CHAR_WIDTH * size > room - 0.4 * h:   # a short stretch: the label shortened to what fits
+            fit = max(int((room - 0.4 * h) / (CHAR_WIDTH * size)), 0)
             label = (label[:max(fit - 1, 0)] + "\u2026") if fit >= 2 else ""
         if label:
             _text(msp, label, 0.5 * (band.start + band.end), 0.5 * (b_top + b_bot), size, layer="LINING-STRETCHES",
@@ -285,14 +291,24 @@ def profile_document(model: ProfileModel, units: UnitSystem, exaggeration: float
     _text(msp, "Lining", x0 - 0.9 * h, 0.5 * (b_top + b_bot) - 0.35 * h, 0.7 * h, layer="LINING-STRETCHES",
           align=TextEntityAlignment.RIGHT)
 
+    # a key of the lines, above the plot at the right
+    key = [("INVERT", "invert", {}), ("DITCH-TOP", "top of ditch", {}), ("WATER-SURFACE", "water surface", {}),
+           ("CRITICAL-DEPTH", "critical depth", {"ltscale": h / 2})]
+    kx = x1
+    for layer, label, extra in reversed(key):
+        kx -= len(label) * CHAR_WIDTH * 0.8 * h
+        _text(msp, label, kx, y_top + 0.7 * h, 0.8 * h)
+        msp.add_line((kx - 4.0 * h, y_top + 1.1 * h), (kx - 0.5 * h, y_top + 1.1 * h),
+                     dxfattribs={"layer": layer, **extra})
+        kx -= 5.5 * h
+
     # title and notes above the profile
     notes = [f"Profile: {model.title}",
              f"Vertical exaggeration {ve:g}:1 (stations 1 drawing unit = 1 {L}; elevations drawn {ve:g} times, "
              f"above datum {datum:g} {L})",
-             "Invert through the grade points; top of ditch; water surface at normal depth (no backwater); "
-             "critical depth dashed"]
+             "Invert through the grade points; water surface at normal depth at the design points (no backwater)"]
     for i, line in enumerate(notes):
-        _text(msp, line, x0, y_top + (len(notes) - i) * 1.7 * h + 1.0 * h, h * (1.4 if i == 0 else 0.9))
+        _text(msp, line, x0, y_top + (len(notes) - i) * 1.7 * h + 1.5 * h, h * (1.4 if i == 0 else 0.9))
     return doc
 
 
