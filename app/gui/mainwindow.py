@@ -103,7 +103,7 @@ class MainWindow(QMainWindow):
                                  "Write the design sheet of this channel or of the whole project to a PDF",
                                  SP.SP_FileDialogDetailedView)
         self.export_action.setIconText("Export sheets")
-        self.drawings_action = act("Export &drawings (DXF)…", self.export_drawings_dialog, None,
+        self.drawings_action = act("Export dra&wings (DXF)…", self.export_drawings_dialog, None,
                                    "Write the typical section of every channel and the profile of every ditch run "
                                    "as DXF drawings for CAD, into a folder")
         self.inventory_action = act("Check an &inventory…", self.open_inventory, "Ctrl+I",
