@@ -73,6 +73,7 @@ class ProfileModel:
     grades: list = field(default_factory=list)      # GradeLabel
     ticks: list = field(default_factory=list)       # (station, "0+100.00")
     outfall: tuple = ()                             # (station, invert, label)
+    grade_points: Polyline | None = None            # the invert profile's points as given (grade breaks), by station
 
     def y_range(self) -> tuple[float, float]:
         """The lowest and highest elevation drawn."""
@@ -133,6 +134,8 @@ def profile_model(design: RunDesign, units: UnitSystem) -> ProfileModel:
     k0 = math.ceil(model.first_station / step - 1e-9)
     k1 = math.floor(model.last_station / step + 1e-9)
     model.ticks = [(k * step, format_station(units.to_si("length", k * step), units)) for k in range(k0, k1 + 1)]
+    prof = sorted(design.run.profile, key=lambda p: p.station)
+    model.grade_points = Polyline("Grade points", L([p.station for p in prof]), L([p.elevation for p in prof]))
     out = design.run.outfall
     model.outfall = (float(L(out.station)), float(L(pts[-1].invert)), out.kind or "outfall")
     return model

@@ -1,6 +1,7 @@
 #!/usr/bin/env bash
 # Build the desktop bundle with PyInstaller in the CI environment and use it as a technician would:
-# the window offscreen (screenshot), a design sheet and an inventory check on the shipped demo data.
+# the window offscreen (screenshot), a design sheet, the DXF drawings and an inventory check on the shipped demo
+# data.
 # Usage: packaging/check_bundle.sh PYTHON   (the interpreter of an environment with the program installed)
 set -euo pipefail
 cd "$(dirname "$0")/.."
@@ -15,7 +16,8 @@ cd "$out"   # away from the source tree: the bundle must find its own resources
 export QT_QPA_PLATFORM=offscreen
 "$exe" --screenshot shot.png
 "$exe" sheet "$OLDPWD/resources/demo-project.json" -o sheets.pdf
+"$exe" drawing "$OLDPWD/resources/demo-project.json" --out drawings >/dev/null
 "$exe" batch "$OLDPWD/docs/screenshots/invented-inventory.csv" -o results.csv --no-progress >/dev/null 2>&1 || \
     [ $? -eq 1 ]   # 1: written, with the faulty rows the invented inventory has on purpose
-test -s shot.png && test -s sheets.pdf && test -s results.csv
-echo "bundle: window, sheet and inventory check ran ($(du -sh dist/ditchwright | cut -f1))"
+test -s shot.png && test -s sheets.pdf && test -s results.csv && test -s drawings/North_verge_ditch-profile.dxf
+echo "bundle: window, sheet, drawings and inventory check ran ($(du -sh dist/ditchwright | cut -f1))"

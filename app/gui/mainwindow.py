@@ -104,6 +104,9 @@ class MainWindow(QMainWindow):
                                  "Write the design sheet of this channel or of the whole project to a PDF",
                                  SP.SP_FileDialogDetailedView)
         self.export_action.setIconText("Export sheets")
+        self.drawings_action = act("Export dra&wings (DXF)…", self.export_drawings_dialog, None,
+                                   "Write the typical section of every channel and the profile of every ditch run "
+                                   "as DXF drawings for CAD, into a folder")
         self.inventory_action = act("Check an &inventory…", self.open_inventory, "Ctrl+I",
                                     "Check every reach of a ditch inventory (CSV) and import chosen ones")
         self.quit_action = act("&Quit", self.close, K.Quit, "Close the window")
@@ -166,7 +169,7 @@ class MainWindow(QMainWindow):
         m.addSeparator()
         m.addActions([self.save_action, self.save_as_action])
         m.addSeparator()
-        m.addActions([self.export_action, self.inventory_action])
+        m.addActions([self.export_action, self.drawings_action, self.inventory_action])
         m.addSeparator()
         m.addAction(self.quit_action)
         m = bar.addMenu("&Edit")
@@ -784,6 +787,31 @@ class MainWindow(QMainWindow):
     def _export_failed(self, choice, exc: BaseException) -> None:
         QMessageBox.warning(self, "Design sheets not written", pretty(export_failure_text(exc, choice.path)))
 
+    # -- DXF drawings ----------------------------------------------------------------------------------
+    def export_drawings_dialog(self) -> list:
+        """Ask for a folder, then write one DXF per channel and per run into it in the units shown; a failure is
+        told in a message box and leaves the folder as it was. Returns the paths written."""
+        from ..drawings import export_drawings
+
+        folder = (settings.LAST_FOLDER.read() if self.persistent else "") or (
+            str(self.doc.path.resolve().parent) if self.doc.path is not None else "")
+        folder = QFileDialog.getExistingDirectory(self, "Export drawings (DXF) into a folder", folder)
+        if not folder:
+            return []
+        context = self.doc.context
+        QApplication.setOverrideCursor(Qt.CursorShape.BusyCursor)
+        try:
+            written = export_drawings(self.doc.project, folder, units=context.units, catalogue=context.catalogue)
+        except Exception as exc:  # noqa: BLE001 - every failure is told in words, never as a traceback
+            QApplication.restoreOverrideCursor()
+            QMessageBox.warning(self, "Drawings not written", pretty(drawings_failure_text(exc, folder)))
+            return []
+        QApplication.restoreOverrideCursor()
+        count = len(written)
+        self.statusBar().showMessage(f"Wrote {count} DXF drawing{'s' if count != 1 else ''} "
+                                     f"({context.units.label('length')}) to {folder}.", 15000)
+        return written
+
     # -- inventories ------------------------------------------------------------------------------------
     def open_inventory(self) -> None:
         """Show the inventory check (one window, kept while the main window lives)."""
@@ -816,6 +844,22 @@ class MainWindow(QMainWindow):
         else:
             event.ignore()
 
+
+
+def drawings_failure_text(exc: BaseException, folder) -> str:
+    """Why the DXF drawings were not written, in words (for one message box)."""
+    tail = "\n\nNo drawing was written."
+    where = getattr(exc, "channel", None)
+    if isinstance(exc, hy.InputError):
+        return (f"{'A channel or run' if not where else where} cannot be computed, so it has no drawing:\n\n"
+                f"{sentence(exc)}\n\nFix that input and export again.{tail}")
+    if isinstance(exc, hy.NoSolutionError):
+        return f"{where or 'A channel or run'} has no solution, so it has no drawing:\n\n{sentence(exc)}{tail}"
+    if isinstance(exc, KeyError):
+        return f"{sentence(exc.args[0] if exc.args else exc)}{tail}"
+    if isinstance(exc, OSError):
+        return f"Cannot write into {folder}:\n\n{sentence(exc.strerror or exc)}"
+    return f"The export stopped with an unexpected error:\n\n{type(exc).__name__}: {sentence(exc)}{tail}"
 
 
 def export_failure_text(exc: BaseException, path) -> str:

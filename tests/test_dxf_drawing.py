@@ -1,0 +1,245 @@
+"""DXF drawings (app.drawings, `ditchwright drawing`): files that CAD reads, in the right units, true to the design.
+
+Sources outside the project:
+- The $INSUNITS codes, 2 = feet and 6 = metres: Autodesk, AutoCAD LT 2019 Help, "INSUNITS (System Variable)",
+  table of values (help.autodesk.com/cloudhelp/2019/ENU/AutoCAD-LT/files/GUID-A58A87BB-482B-4042-A00A-EEF55A2B4FD8.htm);
+  that the modelspace takes its length unit from $INSUNITS: ezdxf documentation, "DXF Units", Length Units
+  (ezdxf.readthedocs.io/en/stable/concepts/units.html).
+- What a dimension measures: ezdxf documentation, "Dimension", ``Dimension.get_measurement()``: the actual
+  measurement in drawing units for linear dimensions, the angle in degrees for an angular dimension from three
+  points (ezdxf.readthedocs.io/en/stable/dxfentities/dimension.html).
+- A file is sound when ezdxf's audit finds no error: ezdxf documentation, "Drawing.audit" / "Auditor.has_errors".
+The demo project is invented; the expected values come from the design (app.evaluate, app.run_design), not from the
+drawing model.
+"""
+
+import copy
+import json
+import math
+
+import ezdxf
+import pytest
+
+from app import project as pj
+from app.drawings import export_drawings, make_drawings, safe_file_name
+from app.evaluate import evaluate_channel
+from app.main import main
+from app.run_design import design_run
+from hydraulics.units import FOOT, SI, US
+
+#: $INSUNITS codes (Autodesk, AutoCAD LT 2019 Help, "INSUNITS (System Variable)", table of values).
+INSUNITS_FEET, INSUNITS_METRES = 2, 6
+
+EXTRA_SECTIONS = {   # invented sections of every open shape, added to the demo's channels
+    "Invented V-ditch": {"shape": "triangle", "left_slope": 3.0, "right_slope": 4.0},
+    "Invented box channel": {"shape": "rectangle", "bottom_width": 1.2},
+    "Invented swale": {"shape": "parabola", "top_width": 3.0, "at_depth": 0.6},
+    "Invented lopsided ditch": {"shape": "trapezoid", "bottom_width": 0.9, "left_slope": 1.5, "right_slope": 3.0},
+}
+
+
+@pytest.fixture(scope="module")
+def project(tmp_path_factory):
+    data = json.loads(pj.demo_path().read_text(encoding="utf-8"))
+    base = data["channels"][0]   # a concrete-lined channel: its lining is drawn with a thickness
+    for name, section in EXTRA_SECTIONS.items():
+        ch = copy.deepcopy(base)
+        ch["name"], ch["section"] = name, section
+        data["channels"].append(ch)
+    path = tmp_path_factory.mktemp("project") / "shapes.json"
+    path.write_text(json.dumps(data), encoding="utf-8")
+    return pj.load(path)
+
+
+@pytest.fixture(scope="module", params=["us", "si"])
+def written(request, project, tmp_path_factory):
+    out = tmp_path_factory.mktemp(f"dxf-{request.param}")
+    return request.param, export_drawings(project, out, units=request.param)
+
+
+def _units(key):
+    return US if key == "us" else SI
+
+
+def _ditch_outline(doc):
+    lines = [e for e in doc.modelspace().query("LWPOLYLINE") if e.dxf.layer == "DITCH-OUTLINE"]
+    assert len(lines) == 1
+    return [(x, y) for x, y, *_ in lines[0].get_points()]
+
+
+def test_every_file_passes_the_audit_reads_back_and_has_the_units(written, project):
+    key, paths = written
+    assert len(paths) == len(project.channels) + len(project.runs)
+    for path in paths:
+        doc = ezdxf.readfile(path)
+        auditor = doc.audit()
+        assert not auditor.has_errors and auditor.errors == [], (path, auditor.errors)
+        assert doc.header["$INSUNITS"] == (INSUNITS_FEET if key == "us" else INSUNITS_METRES)
+        assert "DITCHWRIGHT" in doc.styles
+        texts = [e for e in doc.modelspace().query("TEXT")]
+        assert texts and all(t.dxf.style == "DITCHWRIGHT" for t in texts)
+
+
+def test_section_layers_hold_what_they_are_named_for(written):
+    _, paths = written
+    doc = ezdxf.readfile(next(p for p in paths if p.name == "East_verge_ditch-section.dxf"))
+    msp = doc.modelspace()
+    layers = {e.dxf.layer for e in msp}
+    assert {"GROUND", "DITCH-OUTLINE", "LINING", "WATER", "WATER-SURFACE", "CRITICAL-DEPTH", "DIMENSIONS",
+            "TEXT"} <= layers
+    assert all(e.dxftype() == "DIMENSION" for e in msp if e.dxf.layer == "DIMENSIONS")
+    assert {e.dxf.layer for e in msp.query("DIMENSION")} == {"DIMENSIONS"}
+
+
+def test_the_section_spans_the_top_width_at_the_top_of_the_ditch(written, project):
+    key, paths = written
+    k = 1 / FOOT if key == "us" else 1.0
+    by_name = {p.name: p for p in paths}
+    checked = 0
+    for ch in project.channels:
+        design = evaluate_channel(ch)
+        pts = _ditch_outline(ezdxf.readfile(by_name[safe_file_name(ch.name, "-section.dxf")]))
+        xs, ys = [p[0] for p in pts], [p[1] for p in pts]
+        if design.section.kind == "circle":   # a pipe is drawn as its ring: its extents are the diameter
+            assert max(xs) - min(xs) == pytest.approx(design.section.diameter * k, abs=1e-3)
+            continue
+        top = max(ys)
+        assert top == pytest.approx(min(design.total_depth, design.section.full_depth or math.inf) * k, abs=1e-9)
+        assert max(xs) - min(xs) == pytest.approx(design.top_width_at_top * k, abs=1e-9)
+        checked += 1
+    assert checked == len(project.channels) - 1
+
+
+def _dimensions(doc):
+    """Dimension entities by what they measure, from their labels."""
+    out = {}
+    for dim in doc.modelspace().query("DIMENSION"):
+        text = dim.dxf.text
+        name = text.split(" <>")[0] if "<>" in text else "slope " + text
+        out.setdefault(name, []).append(dim)
+    return out
+
+
+def test_each_dimension_measures_the_designed_value(written, project):
+    key, paths = written
+    k = 1 / FOOT if key == "us" else 1.0
+    by_name = {p.name: p for p in paths}
+    for ch in project.channels:
+        design = evaluate_channel(ch)
+        sec = design.section
+        if sec.kind in ("circle", "irregular"):
+            continue
+        dims = _dimensions(ezdxf.readfile(by_name[safe_file_name(ch.name, "-section.dxf")]))
+        yn, total = float(design.analysis.normal_depth), float(design.total_depth)
+        expected = {"top width": design.top_width_at_top * k, "yn": yn * k, "freeboard": (total - yn) * k,
+                    "total depth": total * k}
+        if sec.kind in ("trapezoid", "rectangle"):
+            expected["bottom width"] = float(sec.bottom_width) * k
+        for name, value in expected.items():
+            assert len(dims[name]) == 1, (ch.name, name)
+            assert dims[name][0].get_measurement() == pytest.approx(value, abs=1e-9), (ch.name, name)
+        assert design.freeboard * k == pytest.approx(expected["freeboard"], abs=1e-9)
+        slopes = [z for z in (sec.left_slope, sec.right_slope) if z > 0] if sec.kind != "parabola" else []
+        drawn = [d for name, ds in dims.items() if name.startswith("slope ") for d in ds]
+        assert sorted(d.dxf.text for d in drawn) == sorted(f"{z:g}H:1V" for z in slopes), ch.name
+        for d in drawn:   # a side slope of zH:1V makes atan(1/z) with the horizontal
+            z = float(d.dxf.text.split("H")[0])
+            assert d.get_measurement() == pytest.approx(math.degrees(math.atan(1 / z)), abs=1e-9)
+
+
+def test_the_profile_invert_runs_through_the_grade_points(written, project):
+    key, paths = written
+    k = 1 / FOOT if key == "us" else 1.0
+    run = project.runs[0]
+    doc = ezdxf.readfile(next(p for p in paths if p.name == safe_file_name(run.name, "-profile.dxf")))
+    msp = doc.modelspace()
+    ve = float(doc.header.custom_vars.get("VERTICAL_EXAGGERATION"))
+    datum = float(doc.header.custom_vars.get("DATUM_ELEVATION"))
+    stated = [t.dxf.text for t in msp.query("TEXT") if t.dxf.text.startswith("Vertical exaggeration")]
+    assert len(stated) == 1 and stated[0].startswith(f"Vertical exaggeration {ve:g}:1")
+    assert f"datum {datum:g}" in stated[0]
+    inverts = [e for e in msp.query("LWPOLYLINE") if e.dxf.layer == "INVERT"]
+    assert len(inverts) == 1
+    pts = [(x, y) for x, y, *_ in inverts[0].get_points()]
+    profile = sorted(run.profile, key=lambda p: p.station)
+    assert len(pts) == len(profile)
+    for (x, y), p in zip(pts, profile):
+        assert x == pytest.approx(p.station * k, abs=1e-9)
+        assert y / ve + datum == pytest.approx(p.elevation * k, abs=1e-9)
+    layers = {e.dxf.layer for e in msp}
+    assert {"INVERT", "DITCH-TOP", "WATER-SURFACE", "GRADES", "STATIONS", "LINING-STRETCHES", "TEXT"} <= layers
+    grades = [t.dxf.text for t in msp.query("TEXT") if t.dxf.layer == "GRADES"]
+    assert grades == ["grade 0.60 %", "grade 3.00 %", "grade 0.60 %", "grade 0.40 %"]   # as the run's stretches
+    stations = [t.dxf.text for t in msp.query("TEXT") if t.dxf.layer == "STATIONS"]
+    assert stations[0] == ("0+00.00" if key == "us" else "0+000.00")
+
+
+def test_a_lining_stretch_is_a_band_per_schedule_line(project):
+    (drawing,) = make_drawings(project, runs=[project.runs[0].name], units="si")
+    msp = drawing.document.modelspace()
+    bands = [e for e in msp.query("LWPOLYLINE") if e.dxf.layer == "LINING-STRETCHES"]
+    design = design_run(project, project.runs[0])
+    spans = sorted((min(q.start, q.end), max(q.start, q.end)) for q in design.result.quantities)
+    drawn = sorted((min(p[0] for p in b.get_points()), max(p[0] for p in b.get_points())) for b in bands)
+    assert [v for span in drawn for v in span] == pytest.approx([v for span in spans for v in span])
+
+
+def test_safe_file_names():
+    assert safe_file_name("East verge ditch", ".dxf") == "East_verge_ditch.dxf"
+    assert safe_file_name("a/b:c*d?", ".dxf") == "a_b_c_d.dxf"
+    assert safe_file_name("../..", ".dxf") == "unnamed.dxf"
+    assert safe_file_name("CON", ".dxf") == "_CON.dxf"
+
+
+def test_names_alike_once_made_safe_get_numbered(project):
+    data = project.to_dict()
+    data["channels"] = [dict(data["channels"][0], name="Ditch A/B"), dict(data["channels"][0], name="Ditch A:B")]
+    data["runs"] = []
+    names = [d.file_name for d in make_drawings(pj.Project.from_dict(data))]
+    assert names == ["Ditch_A_B-section.dxf", "Ditch_A_B_2-section.dxf"]
+
+
+def _cli(capsys, *args):
+    code = main(["drawing", *map(str, args)])
+    out, err = capsys.readouterr()
+    return code, out, err
+
+
+def test_the_command_writes_the_chosen_files(capsys, tmp_path):
+    demo = pj.demo_path()
+    code, out, err = _cli(capsys, demo, "--out", tmp_path / "a", "--channel", "East verge ditch", "--channel",
+                          "Farm crossing pipe", "--run", "North verge ditch", "--units", "us")
+    assert code == 0 and err == ""
+    names = sorted(p.name for p in (tmp_path / "a").iterdir())
+    assert names == ["East_verge_ditch-section.dxf", "Farm_crossing_pipe-section.dxf",
+                     "North_verge_ditch-profile.dxf"]
+    assert out.splitlines() == [f"wrote {tmp_path / 'a' / n}" for n in (
+        "East_verge_ditch-section.dxf", "Farm_crossing_pipe-section.dxf", "North_verge_ditch-profile.dxf")]
+    assert ezdxf.readfile(tmp_path / "a" / names[0]).header["$INSUNITS"] == INSUNITS_FEET
+    code, out, err = _cli(capsys, demo, "--out", tmp_path / "b")   # every channel and run, the project's units
+    assert code == 0
+    project = pj.load(demo)
+    assert len(list((tmp_path / "b").iterdir())) == len(project.channels) + len(project.runs)
+    assert ezdxf.readfile(tmp_path / "b" / "North_verge_ditch-profile.dxf").header["$INSUNITS"] == (
+        INSUNITS_METRES if project.units == "si" else INSUNITS_FEET)
+
+
+@pytest.mark.parametrize("option, name, words", [("--channel", "No such ditch", "no channel named 'No such ditch'"),
+                                                 ("--run", "No such run", "no run named 'No such run'")])
+def test_an_unknown_channel_or_run_is_refused_in_one_line(capsys, tmp_path, option, name, words):
+    code, out, err = _cli(capsys, pj.demo_path(), "--out", tmp_path / "x", option, name)
+    assert code == 2 and out == ""
+    assert len(err.strip().splitlines()) == 1 and err.startswith("ditchwright drawing: error: ") and words in err
+    assert not (tmp_path / "x").exists()
+
+
+def test_a_channel_that_cannot_be_computed_leaves_the_folder_as_it_was(capsys, tmp_path):
+    data = json.loads(pj.demo_path().read_text(encoding="utf-8"))
+    data["channels"][1]["slope"] = -0.01
+    path = tmp_path / "bad.json"
+    path.write_text(json.dumps(data), encoding="utf-8")
+    out_dir = tmp_path / "out"
+    code, out, err = _cli(capsys, path, "--out", out_dir)
+    assert code == 2 and len(err.strip().splitlines()) == 1
+    assert 'North cut ditch' in err and "slope" in err
+    assert not out_dir.exists()
