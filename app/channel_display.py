@@ -31,7 +31,7 @@ from .results import COMPARISON_FIELDS
 from .project import Channel, LiningChoice
 from .comparison_table import ComparisonTable
 from .comparison_table import comparison_table as one_table
-from .lining_names import lining_label, stone_size_text  # noqa: F401  (the window's names of linings)
+from .lining_names import lining_label, stone_size_text  # noqa: F401  (re-exported: the window's names of linings)
 from .verdicts import Verdict as Verdicts
 from .verdicts import too_shallow_reason, verdict_of
 

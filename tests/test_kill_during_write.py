@@ -28,7 +28,8 @@ pytestmark = pytest.mark.skipif(sys.platform != "linux", reason="fork and SIGKIL
 FORK = multiprocessing.get_context("fork") if sys.platform == "linux" else None
 
 
-def _forever(write, path, i):
+def _forever(write, path, i, started):
+    started.set()
     while True:
         write(path, i % 2)
         i += 1
@@ -45,10 +46,19 @@ def _hammer(write, path, complete, seed, inside=True):
     rng = random.Random(seed)
     seen = set()
     current = 1
-    for _ in range(KILLS):
+    kills = 0
+
+    def inside_once():
+        return any(p.name.endswith(".tmp") for p in path.parent.iterdir())
+
+    # at least KILLS kills; more (up to four times as many) while none has yet landed inside a write
+    while kills < KILLS or (inside and not inside_once() and kills < 4 * KILLS):
+        kills += 1
         # each child first writes the version the file does not hold, so a completed write shows
-        child = FORK.Process(target=_forever, args=(write, path, 1 - current), daemon=True)
+        started_flag = FORK.Event()
+        child = FORK.Process(target=_forever, args=(write, path, 1 - current, started_flag), daemon=True)
         child.start()
+        started_flag.wait(10)    # time the kill from the child's start, however slow forking is on a busy machine
         time.sleep(rng.uniform(0.0, 1.3 * duration + 0.002))
         os.kill(child.pid, signal.SIGKILL)
         child.join()
