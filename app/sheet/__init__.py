@@ -24,7 +24,8 @@ from hydraulics.errors import HydraulicsError, InputError
 from ..files import write_atomic
 from .content import ChannelSheet, channel_sheet
 from .fingerprint import canonical_json, fingerprint, run_fingerprint
-from .layout import PAGES, SheetLayoutError, approval_box, render
+from .document import render
+from .layout import PAGES, SheetLayoutError, approval_box
 from .run_content import RunSheet, run_sheet
 from .signing import (PASSWORD_ENV, SigningError, VerifyError, password_from_environment_or_prompt, sign_pdf,
                       verify_pdf)

@@ -13,7 +13,6 @@ refuses rather than cut anything off.
 
 from __future__ import annotations
 
-import io
 import os
 from dataclasses import dataclass
 from xml.sax.saxutils import escape
@@ -23,14 +22,12 @@ from reportlab.lib.enums import TA_RIGHT
 from reportlab.lib.pagesizes import A4, letter
 from reportlab.lib.styles import ParagraphStyle
 from reportlab.pdfbase.pdfmetrics import stringWidth
-from reportlab.pdfgen import canvas as rl_canvas
 from reportlab.platypus import Paragraph, Table, TableStyle
 
 from hydraulics.provenance import NOT_VERIFIED_TITLE
 
-from .. import __version__
 from ..verdicts import Verdict
-from .fonts import FONT, register
+from .fonts import FONT
 from .rating import rating_drawing
 from .section_drawing import lining_caption, section_drawing
 
@@ -481,7 +478,7 @@ def _title_block(c, sheet, info, page, number, count, logo_note):
 
     # project, channel, location
     _cell_lines(c, proj, [("Project", sheet.project), ("Project no.", info.project_number),
-                          (getattr(sheet, "subject_caption", "Channel"), _subject(sheet)),
+                          (getattr(sheet, "subject_caption", "Channel"), subject_of(sheet)),
                           ("Location / stations", sheet.location)], top_offset=3)
 
     # signature block for wet signatures
@@ -549,41 +546,6 @@ def _logo(c, path: str, slot: Box, notes: list) -> None:
         notes.append(f"logo {path} could not be read: {exc}")
 
 
-def _subject(sheet) -> str:
+def subject_of(sheet) -> str:
     """What a sheet is about: the channel's name, or the run's (a RunSheet names its subject)."""
     return getattr(sheet, "subject", None) or sheet.channel
-
-
-def render(project, sheets, page: str = "letter") -> tuple[bytes, list]:
-    """PDF bytes with one page per ChannelSheet and as many pages as each RunSheet needs (numbered through the
-    whole file in the title block), and notes (e.g. a missing logo) for the user."""
-    from .run_content import RunSheet
-    from .run_layout import draw_run_page, paginate
-
-    register()
-    size = page_size(page)
-    plans = [paginate(s, page) if isinstance(s, RunSheet) else None for s in sheets]
-    count = sum(1 if p is None else len(p) for p in plans)
-    buf = io.BytesIO()
-    c = rl_canvas.Canvas(buf, pagesize=size, initialFontName=FONT, initialFontSize=8, pageCompression=1,
-                         invariant=1)
-    runs = any(p is not None for p in plans)
-    c.setTitle(f"{'Design sheets' if runs else 'Channel design sheets'}: {project.name}")
-    c.setAuthor(project.sheet.designer or "")
-    c.setCreator(f"Ditchwright {__version__}")
-    c.setSubject("; ".join(f"{_subject(s)}: {s.fingerprint}" for s in sheets))
-    c.setKeywords(["ditchwright-fingerprint=" + s.fingerprint for s in sheets])
-    notes: list = []
-    number = 0
-    for sheet, plan in zip(sheets, plans):
-        if plan is None:
-            number += 1
-            draw_page(c, sheet, project.sheet, page, number, count, notes)
-            c.showPage()
-            continue
-        for k, run_page in enumerate(plan, start=1):
-            number += 1
-            draw_run_page(c, sheet, project.sheet, page, run_page, number, count, (k, len(plan)), notes)
-            c.showPage()
-    c.save()
-    return buf.getvalue(), sorted(set(notes))
