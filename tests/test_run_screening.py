@@ -195,7 +195,7 @@ def test_the_demo_run_reports_only_what_its_scheduled_linings_lean_on():
     design = design_run(project, project.runs[0])
     res = design.result
     scheduled = {k for p in res.points if p.not_checked is None for k in [p.choice]}
-    texts = [*design.warnings, *design.notes]
+    texts = [*design.warnings, *design.notes, *(t for b in design.bases for t in (b.coefficient_method, b.time_method))]
     for p in res.points:
         if p.not_checked is None:
             texts += p.result.cited_texts()
