@@ -1,9 +1,9 @@
 """DXF drawings (app.drawings, `ditchwright drawing`): files that CAD reads, in the right units, true to the design.
 
 Sources outside the project:
-- The $INSUNITS codes, 2 = feet and 6 = metres: Autodesk, AutoCAD LT 2019 Help, "INSUNITS (System Variable)",
-  table of values (help.autodesk.com/cloudhelp/2019/ENU/AutoCAD-LT/files/GUID-A58A87BB-482B-4042-A00A-EEF55A2B4FD8.htm);
-  that the modelspace takes its length unit from $INSUNITS: ezdxf documentation, "DXF Units", Length Units
+- The $INSUNITS codes, 2 = feet and 6 = metres: the DXF format's published reference of header variables,
+  "INSUNITS", table of values, and the same codes in the general-purpose ezdxf library (``ezdxf.units.FT``,
+  ``ezdxf.units.M``, checked below); that the modelspace takes its length unit from $INSUNITS: ezdxf documentation, "DXF Units", Length Units
   (ezdxf.readthedocs.io/en/stable/concepts/units.html).
 - What a dimension measures: ezdxf documentation, "Dimension", ``Dimension.get_measurement()``: the actual
   measurement in drawing units for linear dimensions, the angle in degrees for an angular dimension from three
@@ -27,8 +27,13 @@ from app.main import main
 from app.run_design import design_run
 from hydraulics.units import FOOT, SI, US
 
-#: $INSUNITS codes (Autodesk, AutoCAD LT 2019 Help, "INSUNITS (System Variable)", table of values).
+#: $INSUNITS codes (the DXF reference's header variable "INSUNITS", table of values).
 INSUNITS_FEET, INSUNITS_METRES = 2, 6
+
+
+def test_the_unit_codes_agree_with_the_dxf_library():
+    import ezdxf.units
+    assert (ezdxf.units.FT, ezdxf.units.M) == (INSUNITS_FEET, INSUNITS_METRES)
 
 EXTRA_SECTIONS = {   # invented sections of every open shape, added to the demo's channels
     "Invented V-ditch": {"shape": "triangle", "left_slope": 3.0, "right_slope": 4.0},

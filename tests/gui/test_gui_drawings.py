@@ -4,7 +4,7 @@ shows, and tells a failure in a message box (the demo project is invented)."""
 import ezdxf
 from PySide6.QtWidgets import QFileDialog
 
-#: $INSUNITS codes: Autodesk, AutoCAD LT 2019 Help, "INSUNITS (System Variable)", table of values.
+#: $INSUNITS codes: the DXF reference's header variable "INSUNITS", table of values (as ezdxf.units.FT and .M).
 INSUNITS = {"us": 2, "si": 6}
 
 
