@@ -20,6 +20,8 @@ import numpy as np
 
 from hydraulics.units import UnitSystem
 
+from .section_geometry import offset_polyline, to_ground  # the one offset of a drawn outline
+
 __all__ = ["Line", "Level", "Dimension", "SectionModel", "section_model", "offset_polyline", "level_runs",
            "nice_size", "slope_text"]
 
@@ -117,32 +119,6 @@ def slope_text(z: float) -> str:
     return f"{z:g}H:1V"
 
 
-def offset_polyline(x, y, distance):
-    """The polyline (x, y) moved ``distance`` to its right-hand side (into the ground for a boundary drawn from the
-    left bank to the right one), with mitred joins: each inner point is where the two moved segments meet (a very
-    sharp corner gets two points instead)."""
-    pts = np.column_stack([x, y]).astype(float)
-    d = np.diff(pts, axis=0)
-    keep = np.hypot(d[:, 0], d[:, 1]) > 1e-12
-    pts = np.vstack([pts[0], pts[1:][keep]])
-    d = np.diff(pts, axis=0)
-    length = np.hypot(d[:, 0], d[:, 1])
-    normal = np.column_stack([d[:, 1], -d[:, 0]]) / length[:, None]
-    out = [pts[0] + distance * normal[0]]
-    for i in range(1, len(pts) - 1):
-        n1, n2 = normal[i - 1], normal[i]
-        bis = n1 + n2
-        norm = float(np.linalg.norm(bis))
-        cos_half = float(np.dot(bis, n1)) / max(norm, 1e-12)
-        if norm < 1e-9 or cos_half < 0.2:
-            out += [pts[i] + distance * n1, pts[i] + distance * n2]
-        else:
-            out.append(pts[i] + distance * bis / norm / cos_half)
-    out.append(pts[-1] + distance * normal[-1])
-    out = np.array(out)
-    return out[:, 0], out[:, 1]
-
-
 def level_runs(x, y, level, closed=False) -> list[list[tuple[float, float]]]:
     """The parts of the boundary (x, y) at or below ``level``, each with its two ends on the level: the wet
     polygons of water standing at ``level`` (``closed``: the boundary is a ring, as a pipe)."""
@@ -171,18 +147,6 @@ def _span(runs) -> tuple[float, float] | None:
     if not runs:
         return None
     return min(p[0] for p in runs[0]), max(p[0] for p in runs[-1])
-
-
-def _cut_to_level(x, y, level):
-    """An open boundary's two ends moved along their end segments onto ``level`` (the lining's outer face meets
-    the ground there)."""
-    x, y = np.array(x, float), np.array(y, float)
-    for end, nxt in ((0, 1), (-1, -2)):
-        dy = y[nxt] - y[end]
-        if abs(dy) > 1e-12:
-            k = (level - y[end]) / dy
-            x[end], y[end] = x[end] + k * (x[nxt] - x[end]), level
-    return x, y
 
 
 def _line(key, x, y, closed=False) -> Line:
@@ -253,7 +217,7 @@ def section_model(design, units: UnitSystem, title: str | None = None) -> Sectio
     outer_x, outer_y = dx, dy
     if t > 0 and not closed:
         ox, oy = offset_polyline(dx, dy, t)
-        ox, oy = _cut_to_level(ox, oy, top)
+        ox, oy = to_ground(ox, oy, top)
         model.lining = _line("lining", np.concatenate([dx, ox[::-1]]), np.concatenate([dy, oy[::-1]]), closed=True)
         model.lining_thickness = t
         outer_x, outer_y = ox, oy
