@@ -126,6 +126,153 @@ def _side_array(name, values, size):
     return z
 
 
+def _broadcast_size(*values) -> int:
+    """Length of the 1-D arrays the given inputs broadcast to (1 for single values); refuses other shapes."""
+    given = [v for v in values if v is not None]
+    try:
+        shape = np.broadcast_shapes(*(np.shape(v) for v in given))
+    except ValueError:
+        raise InputError("depth", "and the other inputs must be single values or arrays of one length, got shapes "
+                                  f"{', '.join(str(np.shape(v)) for v in given)}") from None
+    if len(shape) > 1:
+        raise InputError("depth", f"and the other inputs must be at most 1-D, got shape {shape}")
+    return shape[0] if shape else 1
+
+
+def _bend_inputs(bend_radius, top_width, size):
+    """Bend radius Rc and water-surface width T as arrays of ``size`` (Rc nan: straight), or (None, None)."""
+    if bend_radius is None:
+        return None, None
+    if top_width is None:
+        raise InputError("top_width", "is needed with bend_radius (Kb depends on Rc/T)")
+    rc = np.broadcast_to(np.asarray(bend_radius, dtype=float), (size,))
+    top = np.broadcast_to(np.atleast_1d(validate.positive("top_width", top_width)), (size,))
+    bent = ~np.isnan(rc)
+    if bent.any():
+        validate.positive("bend_radius", rc[bent])
+        short = bent & (rc < top / 2)
+        if short.any():
+            i = int(np.flatnonzero(short)[0])
+            raise InputError("bend_radius", f"must be at least half the water-surface width ({top[i] / 2:.3g} m), "
+                                            f"got {rc[i]:g} m: the inner bank would lie beyond the bend's centre")
+    return rc, top
+
+
+@dataclass
+class _BedResistance:
+    """The lining's permissible shear on the bed and the safety factor it must reach (arrays of one size)."""
+
+    permissible: np.ndarray
+    required: np.ndarray
+    d50: np.ndarray | None = None     # stone only
+    reynolds: np.ndarray | None = None
+    shields: np.ndarray | None = None
+
+
+def _stone_resistance(lining, y, s, d50, sf_min, size) -> _BedResistance:
+    """Stone: tau_p = F* (gamma_s - gamma) D50 (HEC-15 Eq. 6.7), F* and SF from Table 6.1 at Re* (Eq. 6.9)."""
+    if d50 is None:
+        raise InputError("d50", f"lining {lining.key!r} needs a D50")
+    d = np.broadcast_to(np.atleast_1d(validate.positive("d50", d50)), (size,))
+    reynolds = hec15.particle_reynolds(y, s, d)
+    shields, sf_table = hec15.shields_and_safety_factor(reynolds)
+    tau_p = np.asarray(hec15.stone_permissible_shear(d, shields, float(lining.specific_weight)), dtype=float)
+    return _BedResistance(tau_p, np.maximum(sf_table, sf_min), d, reynolds, shields)
+
+
+def _other_resistance(lining, method, manning_n, d50, sf_min, size) -> _BedResistance:
+    """Grass (Chapter 4 at the lining's n), bare soil, a data-sheet value, or none for a rigid lining."""
+    if d50 is not None:
+        raise InputError("d50", f"applies to stone linings only; {lining.key!r} is {lining.category}")
+    if method == "none":
+        return _BedResistance(np.full(size, np.nan), np.full(size, 1.0))
+    if method == "vegetation":
+        if manning_n is None:
+            raise InputError("manning_n", f"is needed for the grass lining {lining.key!r} (its permissible "
+                                          "shear depends on the lining's n)")
+        tau_p = np.broadcast_to(np.asarray(hec15.vegetation_permissible_shear(
+            float(lining.soil_permissible_shear()), float(lining.cover_factor()), manning_n,
+            float(lining.soil_grain_n())), dtype=float), (size,))
+    else:
+        value = lining.soil_permissible_shear() if method == "soil" else lining.field_value("permissible", "shear")
+        tau_p = np.full(size, float(validate.positive(f"lining {lining.key!r} permissible.shear", value)))
+    return _BedResistance(tau_p, np.full(size, sf_min))
+
+
+def _ratio(permissible, design, applies):
+    """Safety factor tau_p / tau where the check applies (inf where it does not, or where there is no shear)."""
+    with np.errstate(divide="ignore", invalid="ignore"):
+        sf = np.where(design > 0, permissible / design, np.inf)
+    return np.where(applies, sf, np.inf)
+
+
+def _bed_check(tau, bed: _BedResistance, size) -> ShearCheckArray:
+    everywhere, no = np.ones(size, dtype=bool), np.zeros(size, dtype=bool)
+    return ShearCheckArray(np.repeat(np.array(["bed"], dtype=object), size), everywhere, tau, bed.permissible,
+                           _ratio(bed.permissible, tau, everywhere), None, None, None, no, no)
+
+
+def _stone_side(bed: _BedResistance, lining, z, applies, design, y, s, incipient):
+    """A stone side slope: K2 tau_p on mild beds (Section 6.3.2), the Appendix D factor on steep ones, and 0
+    where the side is as steep as the stone's angle of repose. Returns (permissible, factor, K2, cannot, steep)."""
+    size = len(z)
+    phi, gs = float(lining.angle_of_repose), float(lining.specific_weight)
+    theta = np.where(z > 0, np.arctan(1.0 / np.where(z > 0, z, 1.0)), np.pi / 2)
+    cannot = applies & (theta >= math.radians(phi))
+    steep = applies & ~cannot & (s > hec15.STEEP_SLOPE)
+    mild = applies & ~cannot & ~steep
+    k2 = np.full(size, np.nan)
+    if mild.any():
+        k2[mild] = hec15.tractive_force_ratio(z[mild], phi)
+    permissible = np.where(mild, k2 * bed.permissible, bed.permissible)
+    permissible[cannot] = 0.0
+    factor = _ratio(permissible, design, applies)
+    if steep.any():
+        d, shields = bed.d50, bed.shields
+        factor[steep] = hec15.steep_slope_safety_factor(d[steep], y[steep], s[steep], z[steep], phi, shields[steep], gs)
+        permissible[steep] = np.nan
+        if incipient:
+            alpha = np.arctan(s)
+            for j in np.flatnonzero(steep):
+                permissible[j] = _steep_incipient_shear(float(d[j]), float(theta[j]), float(alpha[j]),
+                                                        math.radians(phi), float(shields[j]), gs, GAMMA_WATER)
+    return permissible, factor, k2, cannot, steep
+
+
+def _side_checks(lining, stone, bed: _BedResistance, tau, y, s, left_slope, right_slope, size, incipient) -> list:
+    """The left and right side slopes: design shear K1 tau_d (HEC-15 Section 3.3) against the side's resistance."""
+    z1 = _side_array("left_slope", left_slope, size)
+    z2 = z1 if right_slope is None else _side_array("right_slope", right_slope, size)
+    same = (z1 == z2) | (np.isnan(z1) & np.isnan(z2))
+    no = np.zeros(size, dtype=bool)
+    out = []
+    for z, label in ((z1, "left side slope"), (z2, "right side slope")):
+        applies = ~np.isnan(z)
+        zz = np.where(applies, z, 0.0)
+        k1 = np.asarray(hec15.side_slope_factor(zz), dtype=float)
+        design = k1 * tau
+        if stone:
+            permissible, factor, k2, cannot, steep = _stone_side(bed, lining, zz, applies, design, y, s, incipient)
+        else:
+            permissible, k2, cannot, steep = bed.permissible.copy(), None, no, no
+            factor = _ratio(permissible, design, applies)
+        out.append(ShearCheckArray(np.where(same, "side slopes", label).astype(object), applies, design,
+                                   permissible, factor, z, k1, k2, cannot, steep))
+    return out
+
+
+def _bend_check(bed: _BedResistance, tau, rc, top, size) -> ShearCheckArray:
+    """The bend: design shear Kb tau_d with Kb from Rc/T (HEC-15 Section 3.4); not combined with K1."""
+    bent = ~np.isnan(rc)
+    kb = np.full(size, np.nan)
+    if bent.any():
+        kb[bent] = hec15.bend_factor(rc[bent], top[bent])
+    design = kb * tau
+    no = np.zeros(size, dtype=bool)
+    return ShearCheckArray(np.repeat(np.array(["bend"], dtype=object), size), bent, design, bed.permissible,
+                           _ratio(bed.permissible, design, bent), None, kb, None, no, no)
+
+
 def shear_checks(lining: Lining, depth, slope, manning_n=None, *, d50=None, left_slope=None, right_slope=None,
                  bend_radius=None, top_width=None, min_safety_factor=1.0, incipient=False) -> ShearChecks:
     r"""Design shear against the lining's permissible shear on the bed, the side slopes and in a bend, on arrays.
@@ -207,122 +354,22 @@ def shear_checks(lining: Lining, depth, slope, manning_n=None, *, d50=None, left
     """
     if not isinstance(lining, Lining):
         raise InputError("lining", f"must be a catalogue lining (Catalogue.get(key)), got {type(lining).__name__}")
-    given = [v for v in (depth, slope, manning_n, d50, left_slope, right_slope, bend_radius, top_width)
-             if v is not None]
-    try:
-        shape = np.broadcast_shapes(*(np.shape(v) for v in given))
-    except ValueError:
-        raise InputError("depth", "and the other inputs must be single values or arrays of one length, got shapes "
-                                  f"{', '.join(str(np.shape(v)) for v in given)}") from None
-    if len(shape) > 1:
-        raise InputError("depth", f"and the other inputs must be at most 1-D, got shape {shape}")
-    size = shape[0] if shape else 1
+    size = _broadcast_size(depth, slope, manning_n, d50, left_slope, right_slope, bend_radius, top_width)
     y = np.broadcast_to(np.atleast_1d(validate.positive("depth", depth)), (size,))
     s = np.broadcast_to(np.atleast_1d(validate.slope(slope)), (size,))
     sf_min = float(validate.number("min_safety_factor", min_safety_factor, low=1.0, low_inclusive=True))
     method = lining.permissible_data["method"]
     tau = hec15.design_shear(y, s)
-
-    if bend_radius is None:
-        rc = None
-    else:
-        if top_width is None:
-            raise InputError("top_width", "is needed with bend_radius (Kb depends on Rc/T)")
-        rc = np.broadcast_to(np.asarray(bend_radius, dtype=float), (size,))
-        top = np.broadcast_to(np.atleast_1d(validate.positive("top_width", top_width)), (size,))
-        bent = ~np.isnan(rc)
-        if bent.any():
-            validate.positive("bend_radius", rc[bent])
-            short = bent & (rc < top / 2)
-            if short.any():
-                i = int(np.flatnonzero(short)[0])
-                raise InputError("bend_radius", f"must be at least half the water-surface width ({top[i] / 2:.3g} m), "
-                                                f"got {rc[i]:g} m: the inner bank would lie beyond the bend's centre")
-
+    rc, top = _bend_inputs(bend_radius, top_width, size)
     stone = method == "shields"
-    d = reynolds = shields = None
-    if stone:
-        if d50 is None:
-            raise InputError("d50", f"lining {lining.key!r} needs a D50")
-        d = np.broadcast_to(np.atleast_1d(validate.positive("d50", d50)), (size,))
-        gs, phi = float(lining.specific_weight), float(lining.angle_of_repose)
-        reynolds = hec15.particle_reynolds(y, s, d)
-        shields, sf_table = hec15.shields_and_safety_factor(reynolds)
-        required = np.maximum(sf_table, sf_min)
-        tau_p = np.asarray(hec15.stone_permissible_shear(d, shields, gs), dtype=float)
-    else:
-        if d50 is not None:
-            raise InputError("d50", f"applies to stone linings only; {lining.key!r} is {lining.category}")
-        required = np.full(size, 1.0 if method == "none" else sf_min)
-        if method == "none":
-            tau_p = np.full(size, np.nan)
-        elif method == "vegetation":
-            if manning_n is None:
-                raise InputError("manning_n", f"is needed for the grass lining {lining.key!r} (its permissible "
-                                              "shear depends on the lining's n)")
-            tau_p = np.broadcast_to(np.asarray(hec15.vegetation_permissible_shear(
-                float(lining.soil_permissible_shear()), float(lining.cover_factor()), manning_n,
-                float(lining.soil_grain_n())), dtype=float), (size,))
-        else:
-            value = lining.soil_permissible_shear() if method == "soil" else lining.field_value("permissible", "shear")
-            tau_p = np.full(size, float(validate.positive(f"lining {lining.key!r} permissible.shear", value)))
-
-    no = np.zeros(size, dtype=bool)
-
-    def ratio(permissible, design, applies):
-        with np.errstate(divide="ignore", invalid="ignore"):
-            sf = np.where(design > 0, permissible / design, np.inf)
-        return np.where(applies, sf, np.inf)
-
-    everywhere = np.ones(size, dtype=bool)
-    checks = [ShearCheckArray(np.repeat(np.array(["bed"], dtype=object), size), everywhere, tau, tau_p,
-                              ratio(tau_p, tau, everywhere), None, None, None, no, no)]
+    bed = (_stone_resistance(lining, y, s, d50, sf_min, size) if stone
+           else _other_resistance(lining, method, manning_n, d50, sf_min, size))
+    checks = [_bed_check(tau, bed, size)]
     if left_slope is not None:
-        z1 = _side_array("left_slope", left_slope, size)
-        z2 = z1 if right_slope is None else _side_array("right_slope", right_slope, size)
-        same = (z1 == z2) | (np.isnan(z1) & np.isnan(z2))
-        for z, other in ((z1, "left side slope"), (z2, "right side slope")):
-            applies = ~np.isnan(z)
-            zz = np.where(applies, z, 0.0)
-            k1 = np.asarray(hec15.side_slope_factor(zz), dtype=float)
-            design = k1 * tau
-            permissible = tau_p.copy()
-            cannot = steep = no
-            k2 = None
-            factor = None
-            if stone:
-                theta = np.where(zz > 0, np.arctan(1.0 / np.where(zz > 0, zz, 1.0)), np.pi / 2)
-                cannot = applies & (theta >= math.radians(phi))
-                steep = applies & ~cannot & (s > hec15.STEEP_SLOPE)
-                mild = applies & ~cannot & ~steep
-                k2 = np.full(size, np.nan)
-                if mild.any():
-                    k2[mild] = hec15.tractive_force_ratio(zz[mild], phi)
-                permissible = np.where(mild, k2 * tau_p, permissible)
-                permissible[cannot] = 0.0
-                factor = ratio(permissible, design, applies)
-                if steep.any():
-                    factor[steep] = hec15.steep_slope_safety_factor(d[steep], y[steep], s[steep], zz[steep], phi,
-                                                                    shields[steep], gs)
-                    permissible[steep] = np.nan
-                    if incipient:
-                        alpha = np.arctan(s)
-                        for j in np.flatnonzero(steep):
-                            permissible[j] = _steep_incipient_shear(float(d[j]), float(theta[j]), float(alpha[j]),
-                                                                    math.radians(phi), float(shields[j]), gs,
-                                                                    GAMMA_WATER)
-            if factor is None:
-                factor = ratio(permissible, design, applies)
-            checks.append(ShearCheckArray(np.where(same, "side slopes", other).astype(object), applies, design,
-                                          permissible, factor, z, k1, k2, cannot, steep))
+        checks += _side_checks(lining, stone, bed, tau, y, s, left_slope, right_slope, size, incipient)
     if rc is not None:
-        kb = np.full(size, np.nan)
-        if bent.any():
-            kb[bent] = hec15.bend_factor(rc[bent], top[bent])
-        design = kb * tau
-        checks.append(ShearCheckArray(np.repeat(np.array(["bend"], dtype=object), size), bent, design, tau_p,
-                                      ratio(tau_p, design, bent), None, kb, None, no, no))
+        checks.append(_bend_check(bed, tau, rc, top, size))
     if method == "none":
         for c in checks:
             c.safety_factor = np.full(size, np.nan)
-    return ShearChecks(method, tau, tau_p, required, checks, d, reynolds, shields)
+    return ShearChecks(method, tau, bed.permissible, bed.required, checks, bed.d50, bed.reynolds, bed.shields)

@@ -424,27 +424,21 @@ def check_lining(section, flow, slope, lining: Lining, d50=None, bend_radius=Non
     return result
 
 
-def _check(section, q, s, lining, d50, rc, fb_min, n_override, sf_min, v_min, size_stone=True) -> StabilityResult:
-    category = lining.category
-    notes, warn = [], []
-    stone = category == "stone"
-    d = lining._d50(d50) if (stone or d50 is not None) else None  # refuses a D50 for a lining that is not stone
+def _roughness_and_flow(section, q, s, lining, d, n_override):
+    """Manning's n of the lining (or the user's constant n) and the coupled normal-depth solve.
 
-    # -- roughness and the coupled normal-depth solve ----------------------
+    Returns (roughness, ChannelResult, relation, words of the relation, notes, warnings)."""
+    notes, warn = [], []
     if n_override is not None:
         rough = float(validate.number("n", n_override, low=0.0, high=1.0))
-        relation, n_text = "override", f"constant n = {rough:g} given in place of the lining's own roughness"
         notes.append(f"Manning's n {rough:g} was given in place of the lining's own relation")
+        relation, n_text = "override", f"constant n = {rough:g} given in place of the lining's own roughness"
     else:
         rough = lining.roughness(d)
-        relation = None
     res = analyse(section, q, s, rough)
-    y, v, fr = float(res.normal_depth), float(res.velocity), float(res.froude)
-    top = float(res.top_width)
-    n_used = float(res.manning_n)
-    if relation is None:
+    if n_override is None:
         if isinstance(rough, StoneRoughness):
-            relation = rough.relation(section, y, s)
+            relation = rough.relation(section, float(res.normal_depth), s)
         elif isinstance(rough, VegetationRoughness):
             relation = "vegetation"
         elif lining.roughness_data["model"] == "soil":
@@ -453,9 +447,107 @@ def _check(section, q, s, lining, d50, rc, fb_min, n_override, sf_min, v_min, si
             relation = "constant"
         n_text = _roughness_text(lining, relation)
     if hasattr(rough, "check"):
-        warn += rough.check(section, y, s)
+        warn += rough.check(section, float(res.normal_depth), s)
+    return rough, res, relation, n_text, notes, warn + list(res.warnings)
 
-    warn += res.warnings
+
+def _stone_sizing(section, q, s, lining, n_fixed, sides, rc, sf_min, d):
+    """The smallest stable stone on bed, sides and bend by HEC-15's trial procedure (size -> depth -> size).
+
+    Returns (sizes by place, method, depth at the size, notes, warnings)."""
+    notes, warn = [], []
+    gs, phi = float(lining.specific_weight), float(lining.angle_of_repose)
+    req, req_method, req_depth, converged, at_jump = _required_stone(section, q, s, lining, n_fixed, sides, rc, gs,
+                                                                     phi, sf_min, d)
+    if not converged:
+        warn.append("the smallest stable D50 did not settle (the size and the depth it gives keep changing); "
+                    "the value shown is the last trial: check it by hand")
+    if at_jump:
+        warn.append("the smallest stable D50 lies where the stone's n changes from Blodgett's relation to "
+                    f"Bathurst's (da/D50 near 1.5, {cite('relation_choice')}) and the depth changes abruptly: a "
+                    "slightly smaller stone gives deeper flow and fails; check the size by hand")
+    needed = max((x for x in req.values() if x is not None and math.isfinite(x)), default=None)
+    if needed is not None and req_depth is not None:
+        re_needed = float(hec15.particle_reynolds(req_depth, s, needed))
+        if hec15.RE_LOW < re_needed < hec15.RE_HIGH:
+            notes.append(f"the smallest stable D50 has a particle Reynolds number of {re_needed:.3g} (HEC-15 Eq. "
+                         f"6.9), inside the band where {cite('table_6_1')} passes from F* {hec15.SHIELDS_LOW:g}, "
+                         f"SF {hec15.SF_LOW:g} to F* {hec15.SHIELDS_HIGH:g}, SF {hec15.SF_HIGH:g}; there F*/SF "
+                         "rises with Re, so a slightly steeper grade can need a slightly smaller stone: size a "
+                         "run of grades for its steepest stretch")
+    return req, req_method, req_depth, notes, warn
+
+
+def _largest_required(req):
+    """The largest of the sizes needed on bed, sides and bend, checked against Chapter 6's size range.
+
+    Returns (size or None, notes, warnings)."""
+    sizes = [x for x in req.values() if x is not None]
+    if not sizes:
+        return None, [], []
+    # rounded up by a relative 1e-7 so that the size passes its own check despite floating-point rounding
+    required = max(sizes) * (1.0 + 1e-7)
+    if math.isinf(required):
+        return None, [], ["no stone size is stable on these side slopes (as steep as or steeper than the stone's "
+                          "angle of repose, or beyond the steep-slope method); flatten the side slopes"]
+    lo_d, hi_d = hec15.STONE_SIZE_RANGE
+    if required > hi_d:
+        return required, [], [worded("the smallest stable D50, {d}, is above {hi}, the largest size HEC-15 "
+                                     "Chapter 6 covers", d=(required, "small_length"), hi=(hi_d, "small_length"))]
+    if required < lo_d:
+        return required, [worded("the smallest stable D50, {d}, is below {lo}, the smallest size HEC-15 Chapter 6 "
+                                 "covers; use at least that", d=(required, "small_length"),
+                                 lo=(lo_d, "small_length"))], []
+    return required, [], []
+
+
+def _method_notes(lining, method, s, n_used, tau_p) -> list:
+    """What the lining's permissible-shear method rests on, in words."""
+    source = lining.permissible_data.get("source", "")
+    if method == "none":
+        return [RIGID_NOTE]
+    if method == "shields":
+        steep = ([f"slope {s:g} is steeper than {hec15.STEEP_SLOPE:g}: the side slopes are checked by the "
+                  f"steep-slope method ({STEEP_SLOPE_SOURCE})"] if s > hec15.STEEP_SLOPE else [])
+        return steep + [FILTER_NOTE]
+    if method == "vegetation":
+        return [worded("grass on soil: soil permissible shear {tau_s}, cover factor {cf}, soil grain n {ns}, "
+                       "lining n {n} ({source})", tau_s=(float(lining.soil_permissible_shear()), "shear"),
+                       cf=f"{float(lining.cover_factor()):g}", ns=f"{float(lining.soil_grain_n()):.3g}",
+                       n=f"{n_used:.3g}", source=source)]
+    if method == "value" and lining.user_data:
+        return [worded("permissible shear {tau_p} and n are user data ({source})", tau_p=(tau_p, "shear"),
+                       source=source)]
+    return []
+
+
+def _quantities(lining, section, depth_at_top, d50):
+    """Lined width, layer thickness and volume, and cost per length of channel.
+
+    Returns (lined width [m], thickness [m] or None, volume [m^3/m] or None, cost or None, notes)."""
+    # the user's D50 (None: the entry's own, with its D100 where the catalogue gives one)
+    thickness = lining.layer_thickness(d50) if lining.thickness_data["rule"] == "stone" else lining.layer_thickness()
+    thickness = None if thickness is None else float(thickness)
+    lined = _lined_perimeter(section, depth_at_top)
+    notes = [LINED_WIDTH_RULE]
+    volume = None if thickness is None else lined * thickness
+    cost = None
+    if lining.unit_cost is not None:
+        if lining.unit_cost_basis == "area":
+            cost = float(lining.unit_cost) * lined
+        elif volume is not None:
+            cost = float(lining.unit_cost) * volume
+        else:
+            notes.append("the unit cost is per volume but the lining has no layer thickness: no cost per length")
+    return lined, thickness, volume, cost, notes
+
+
+def _check(section, q, s, lining, d50, rc, fb_min, n_override, sf_min, v_min, size_stone=True) -> StabilityResult:
+    stone = lining.category == "stone"
+    d = lining._d50(d50) if (stone or d50 is not None) else None  # refuses a D50 for a lining that is not stone
+    rough, res, relation, n_text, notes, warn = _roughness_and_flow(section, q, s, lining, d, n_override)
+    y, v, fr, top = float(res.normal_depth), float(res.velocity), float(res.froude), float(res.top_width)
+    n_used = float(res.manning_n)
     if v < v_min:
         warn.append(worded("velocity {v} is below {v_min}, so silt may settle in the channel ({source})",
                            v=(v, "velocity"), v_min=(v_min, "velocity"), source=SELF_CLEANING_SOURCE))
@@ -463,7 +555,6 @@ def _check(section, q, s, lining, d50, rc, fb_min, n_override, sf_min, v_min, si
     # -- design shear, permissible shear and the checks (HEC-15 Chapter 3) -----
     zs = section.side_slopes
     method = lining.permissible_data["method"]
-    permissible_source = lining.permissible_data.get("source", "")
     sc = shear_checks(lining, y, s, n_used, d50=d if stone else None,
                       left_slope=None if zs is None else float(zs[0]),
                       right_slope=None if zs is None else float(zs[1]),
@@ -479,118 +570,52 @@ def _check(section, q, s, lining, d50, rc, fb_min, n_override, sf_min, v_min, si
         tau_b = float(sc.checks[-1].design_shear[0])
         lp = float(hec15.bend_protection_length(float(res.hydraulic_radius), n_used))
     rigid = sc.non_erodible
-    sf_req = float(sc.required_safety_factor[0])
     tau_p = None if rigid else float(sc.permissible_shear[0])
     checks = _scalar_checks(sc, method, rc, top)
-    reynolds = shields = None
-    req = {"bed": None, "side": None, "bend": None}
-    req_method = req_depth = None
-    tau_p_side_gov = None
 
-    if method == "none":
-        notes.append(RIGID_NOTE)
-    elif method == "shields":
-        gs, phi = float(lining.specific_weight), float(lining.angle_of_repose)
-        reynolds, shields = float(sc.reynolds[0]), float(sc.shields[0])
-        steep = s > hec15.STEEP_SLOPE
-        # smallest stable sizes: HEC-15's trial procedure (size -> depth -> required size) to a fixed point
-        converged, at_jump = True, False
-        if size_stone:
-            req, req_method, req_depth, converged, at_jump = _required_stone(
-                section, q, s, lining, rough if n_override is not None else None, sides, rc, gs, phi, sf_min, d)
-        if not converged:
-            warn.append("the smallest stable D50 did not settle (the size and the depth it gives keep changing); "
-                        "the value shown is the last trial: check it by hand")
-        if at_jump:
-            warn.append("the smallest stable D50 lies where the stone's n changes from Blodgett's relation to "
-                        f"Bathurst's (da/D50 near 1.5, {cite('relation_choice')}) and the depth changes abruptly: a "
-                        "slightly smaller stone gives deeper flow and fails; check the size by hand")
-        needed = max((x for x in req.values() if x is not None and math.isfinite(x)), default=None)
-        if needed is not None and req_depth is not None:
-            re_needed = float(hec15.particle_reynolds(req_depth, s, needed))
-            if hec15.RE_LOW < re_needed < hec15.RE_HIGH:
-                notes.append(f"the smallest stable D50 has a particle Reynolds number of {re_needed:.3g} (HEC-15 Eq. "
-                             f"6.9), inside the band where {cite('table_6_1')} passes from F* {hec15.SHIELDS_LOW:g}, "
-                             f"SF {hec15.SF_LOW:g} to F* {hec15.SHIELDS_HIGH:g}, SF {hec15.SF_HIGH:g}; there F*/SF "
-                             "rises with Re, so a slightly steeper grade can need a slightly smaller stone: size a "
-                             "run of grades for its steepest stretch")
-        if steep:
-            notes.append(f"slope {s:g} is steeper than {hec15.STEEP_SLOPE:g}: the side slopes are checked by the "
-                         f"steep-slope method ({STEEP_SLOPE_SOURCE})")
-        notes.append(FILTER_NOTE)
-    elif method == "vegetation":
-        notes.append(worded("grass on soil: soil permissible shear {tau_s}, cover factor {cf}, soil grain n {ns}, "
-                            "lining n {n} ({source})", tau_s=(float(lining.soil_permissible_shear()), "shear"),
-                            cf=f"{float(lining.cover_factor()):g}", ns=f"{float(lining.soil_grain_n()):.3g}",
-                            n=f"{n_used:.3g}", source=permissible_source))
-    elif method == "value" and lining.user_data:
-        notes.append(worded("permissible shear {tau_p} and n are user data ({source})", tau_p=(tau_p, "shear"),
-                            source=permissible_source))
+    # -- stone: the smallest stable sizes ------------------------------------
+    req, req_method, req_depth, required = {"bed": None, "side": None, "bend": None}, None, None, None
+    if stone and size_stone:
+        req, req_method, req_depth, more_notes, more_warn = _stone_sizing(
+            section, q, s, lining, rough if n_override is not None else None, sides, rc, sf_min, d)
+        notes += more_notes
+        warn += more_warn
+    notes += _method_notes(lining, method, s, n_used, tau_p)
+    if stone and size_stone:
+        required, more_notes, more_warn = _largest_required(req)
+        notes += more_notes
+        warn += more_warn
+    req = {k: (None if (x is None or math.isinf(x)) else x) for k, x in req.items()}
 
-    stable = all(c.passes for c in checks)
     gov = min(checks, key=lambda c: c.margin)
-    governs = "non-erodible" if rigid else gov.location
     side_checks = [c for c in checks if c.side_slope is not None]
     side_gov = min(side_checks, key=lambda c: c.margin) if side_checks else None
-    if stone and side_gov is not None:
-        tau_p_side_gov = side_gov.permissible_shear
-    safety = None if rigid else gov.safety_factor
-
-    # -- stone sizes and layer --------------------------------------------------
-    required = None
-    if stone and size_stone:
-        sizes = [x for x in req.values() if x is not None]
-        # rounded up by a relative 1e-7 so that the size passes its own check despite floating-point rounding
-        required = max(sizes) * (1.0 + 1e-7)
-        if math.isinf(required):
-            required = None
-            warn.append("no stone size is stable on these side slopes (as steep as or steeper than the stone's "
-                        "angle of repose, or beyond the steep-slope method); flatten the side slopes")
-        else:
-            lo_d, hi_d = hec15.STONE_SIZE_RANGE
-            if required > hi_d:
-                warn.append(worded("the smallest stable D50, {d}, is above {hi}, the largest size HEC-15 Chapter 6 "
-                                   "covers", d=(required, "small_length"), hi=(hi_d, "small_length")))
-            elif required < lo_d:
-                notes.append(worded("the smallest stable D50, {d}, is below {lo}, the smallest size HEC-15 Chapter 6 "
-                                    "covers; use at least that", d=(required, "small_length"), lo=(lo_d, "small_length")))
-    req = {k: (None if (x is None or math.isinf(x)) else x) for k, x in req.items()}
-    # the user's D50 (None: the entry's own, with its D100 where the catalogue gives one)
-    thickness = lining.layer_thickness(d50) if lining.thickness_data["rule"] == "stone" else lining.layer_thickness()
-    thickness = None if thickness is None else float(thickness)
-    thickness_rule = lining.thickness_data.get("source", "")
 
     # -- freeboard, ditch depth and quantities ------------------------------
     ditch = ditch_top(section, y, v, top, fr, rc, fb_min)
     warn += ditch.warnings
-    superelev, fb, total, top_depth, top_width_at_top = (ditch.superelevation, ditch.freeboard, ditch.total_depth,
-                                                         ditch.depth_at_top, ditch.top_width)
-    lined = _lined_perimeter(section, top_depth)
-    notes.append(LINED_WIDTH_RULE)
-    volume = None if thickness is None else lined * thickness
-    cost = None
-    if lining.unit_cost is not None:
-        if lining.unit_cost_basis == "area":
-            cost = float(lining.unit_cost) * lined
-        elif volume is not None:
-            cost = float(lining.unit_cost) * volume
-        else:
-            notes.append("the unit cost is per volume but the lining has no layer thickness: no cost per length")
+    lined, thickness, volume, cost, more_notes = _quantities(lining, section, ditch.depth_at_top, d50)
+    notes += more_notes
 
     return StabilityResult(
-        lining_key=lining.key, lining_name=lining.name, category=category, d50=d, manning_n=n_used,
+        lining_key=lining.key, lining_name=lining.name, category=lining.category, d50=d, manning_n=n_used,
         n_relation=relation, n_source=n_text, analysis=res, depth=y, velocity=v, froude=fr, bed_shear=tau_d,
         side_shear=max((k1 * tau_d for _, _, k1 in sides), default=None),
         side_slope_factor=None if not sides else max(k1 for _, _, k1 in sides),
         bend_radius=rc, bend_factor=kb, bend_shear=tau_b, bend_protection_length=lp,
-        permissible_shear=tau_p, permissible_shear_side=tau_p_side_gov, permissible_source=permissible_source,
-        required_safety_factor=sf_req, safety_factor=safety, stable=stable, governs=governs, checks=checks,
-        reynolds=reynolds, shields=shields, required_d50=required, required_d50_bed=req["bed"],
+        permissible_shear=tau_p,
+        permissible_shear_side=side_gov.permissible_shear if (stone and side_gov is not None) else None,
+        permissible_source=lining.permissible_data.get("source", ""),
+        required_safety_factor=float(sc.required_safety_factor[0]), safety_factor=None if rigid else gov.safety_factor,
+        stable=all(c.passes for c in checks), governs="non-erodible" if rigid else gov.location, checks=checks,
+        reynolds=float(sc.reynolds[0]) if stone else None, shields=float(sc.shields[0]) if stone else None,
+        required_d50=required, required_d50_bed=req["bed"],
         required_d50_side=req["side"], required_d50_bend=req["bend"],
         required_d50_method=req_method if stone else None, required_d50_depth=req_depth if stone else None,
-        layer_thickness=thickness, thickness_rule=thickness_rule,
-        filter_note=FILTER_NOTE if stone else None, min_freeboard=fb_min, superelevation=superelev, freeboard=fb,
-        total_depth=total, top_width_at_top=top_width_at_top, lined_width=lined, layer_volume=volume,
+        layer_thickness=thickness, thickness_rule=lining.thickness_data.get("source", ""),
+        filter_note=FILTER_NOTE if stone else None, min_freeboard=fb_min, superelevation=ditch.superelevation,
+        freeboard=ditch.freeboard, total_depth=ditch.total_depth, top_width_at_top=ditch.top_width,
+        lined_width=lined, layer_volume=volume,
         unit_cost=None if lining.unit_cost is None else float(lining.unit_cost),
         unit_cost_basis=lining.unit_cost_basis, cost_per_length=cost, notes=_dedupe(notes), warnings=_dedupe(warn),
         wave_allowance=ditch.wave_allowance)
