@@ -8,11 +8,8 @@ import sys
 import tempfile
 import traceback
 
-from hydraulics.errors import InputError, NoSolutionError
-
 from . import __version__
-from .cli import COMMANDS
-from .cli.common import CliError, option_name
+from .cli import COMMAND_HELP, command_module
 
 
 class _Parser(argparse.ArgumentParser):
@@ -22,7 +19,9 @@ class _Parser(argparse.ArgumentParser):
         self.exit(2, f"{self.prog}: error: {message}\n")
 
 
-def build_parser() -> argparse.ArgumentParser:
+def build_parser(command: str | None = None) -> argparse.ArgumentParser:
+    """The whole command line; with ``command`` (a command name), only that command's options are set up and
+    the others are listed by name and help alone, so that their modules are not imported."""
     parser = _Parser(prog="ditchwright",
                      description="Design lined drainage channels: normal and critical depth, lining "
                                  "stability, design sheets. Results assist design; a licensed engineer "
@@ -32,13 +31,22 @@ def build_parser() -> argparse.ArgumentParser:
                         help="PATH [FILE]: render the main window offscreen (on FILE, or on the demo project) "
                              "to the PNG file PATH, at least 1280x800, and exit")
     sub = parser.add_subparsers(dest="command", metavar="COMMAND", parser_class=_Parser)
-    for module in COMMANDS:
-        module.register(sub)
+    for name, help_text in COMMAND_HELP.items():
+        if command is None or name == command:
+            command_module(name).register(sub)
+        else:
+            sub.add_parser(name, help=help_text)
     return parser
 
 
+def _command_named(argv) -> str:
+    """The command the arguments name (the first argument that is a command's name), or "" for none."""
+    return next((a for a in argv if a in COMMAND_HELP), "")
+
+
 def main(argv=None) -> int:
-    parser = build_parser()
+    argv = sys.argv[1:] if argv is None else list(argv)
+    parser = build_parser(_command_named(argv))
     args = parser.parse_args(argv)
     if args.screenshot is not None:
         if args.command is not None or len(args.screenshot) > 2:
@@ -49,6 +57,10 @@ def main(argv=None) -> int:
         # No command: the desktop window (the demo project on the first start).
         from .gui.application import run as run_window
         return run_window()
+    from hydraulics.errors import InputError, NoSolutionError
+
+    from .cli.common import CliError, option_name
+
     try:
         return args.run(args)
     except CliError as exc:

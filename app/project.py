@@ -23,7 +23,6 @@ from dataclasses import asdict, dataclass, field
 from importlib import resources as ir
 from pathlib import Path
 
-import jsonschema
 import numpy as np
 
 import hydraulics as hy
@@ -401,7 +400,7 @@ _JSON_TYPES = {list: "a list", dict: "an object", str: "text", bool: "true or fa
                int: "a number", float: "a number"}
 
 
-def _layout_problem(exc: jsonschema.ValidationError) -> str:
+def _layout_problem(exc) -> str:
     """The schema's complaint in the reader's words."""
     got = _JSON_TYPES.get(type(exc.instance), type(exc.instance).__name__)
     shown = "" if isinstance(exc.instance, dict) else " " + _shown(json.dumps(exc.instance, ensure_ascii=False), 40)
@@ -446,6 +445,8 @@ def validate_document(data: dict) -> None:
     """Check a project document against the schema; ProjectFileError says where it is wrong."""
     if not _fast_validator().is_valid(data):   # checked in Rust; the Python validator words what is wrong
         _check_values(data)   # first what the Python validator could choke on (nesting), and why the file is odd
+        import jsonschema   # the wording validator, needed only for a file that is wrong
+
         try:
             jsonschema.validate(data, schema())
         except jsonschema.ValidationError as exc:

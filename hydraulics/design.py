@@ -10,7 +10,7 @@ from __future__ import annotations
 
 import math
 
-from scipy.optimize import brentq
+from .roots import brentq
 
 from . import validate
 from .errors import NoSolutionError

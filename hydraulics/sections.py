@@ -300,10 +300,21 @@ def _circle_capacity_ratio() -> float:
     d/dtheta of A^(5/3) P^(-2/3) = 0 with A = D^2/8 (theta - sin theta), P = D theta / 2
     gives 5 P dA/dtheta = 2 A dP/dtheta, i.e. 5 theta (1 - cos theta) = 2 (theta - sin theta).
     """
-    from scipy.optimize import brentq
+    # Bisection in plain floats (no solver library at import time): f > 0 at pi, f < 0 just below 2 pi,
+    # one root between; 200 halvings reach the spacing of adjacent floats.
+    def f(t):
+        return 5 * t * (1 - math.cos(t)) - 2 * (t - math.sin(t))
 
-    theta = brentq(lambda t: 5 * t * (1 - math.cos(t)) - 2 * (t - math.sin(t)), math.pi, 2 * math.pi - 1e-9,
-                   xtol=1e-15, rtol=1e-15)
+    lo, hi = math.pi, 2 * math.pi - 1e-9
+    for _ in range(200):
+        mid = 0.5 * (lo + hi)
+        if mid in (lo, hi):
+            break
+        if f(mid) > 0:
+            lo = mid
+        else:
+            hi = mid
+    theta = 0.5 * (lo + hi)
     return (1 - math.cos(theta / 2)) / 2
 
 

@@ -18,7 +18,7 @@ import math
 from dataclasses import dataclass
 
 import numpy as np
-from scipy.optimize import brentq
+from .roots import brentq
 
 from . import validate
 from .constants import GAMMA_WATER

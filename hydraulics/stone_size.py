@@ -16,7 +16,7 @@ from __future__ import annotations
 import math
 import warnings
 
-from scipy.optimize import brentq
+from .roots import brentq
 
 from .constants import G, GAMMA_WATER
 from .errors import NoSolutionError

@@ -12,12 +12,13 @@ from hydraulics.wording import format_quantity, in_units
 from ..results import CHANNEL_FIELDS, convert, format_value
 from ..lining_names import name_in_units
 from ..verdicts import Verdict, verdict_of, with_tokens
+from . import COMMAND_HELP
 from .common import (CliError, add_channel_options, check_dimensions, check_numbers, emit_json, require, section_from_args,
                      side_slopes, table, unit_labels)
 from .lining_args import (add_lining_options, catalogue_from_args, choice_from_text, explain, lining_options_si,
                           require_stone_size)
 
-HELP = "compute normal and critical depth, velocity, Froude number and shear for one channel"
+HELP = COMMAND_HELP["calc"]
 
 
 def register(subparsers) -> None:

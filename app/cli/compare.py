@@ -11,11 +11,12 @@ from ..comparison_table import ComparisonTable, comparison_table
 from ..context import Context
 from ..verdicts import with_tokens
 
+from . import COMMAND_HELP
 from .common import CliError, add_channel_options, check_numbers, emit_json, require, section_from_args
 from .lining_args import (add_lining_options, catalogue_from_args, choice_from_text, explain, lining_options_si,
                           require_stone_size)
 
-HELP = "compare linings for one channel: depth, shear, safety factor, verdict, quantities and cost"
+HELP = COMMAND_HELP["compare"]
 
 def register(subparsers) -> None:
     p = subparsers.add_parser("compare", help=HELP, description=HELP + " (FHWA HEC-15 permissible shear). "

@@ -4,11 +4,11 @@ from __future__ import annotations
 
 from hydraulics.errors import InputError, NoSolutionError
 
+from . import COMMAND_HELP
 from .common import CliError
 from .projectfile import load_project
 
-HELP = ("write DXF drawings for CAD: the typical section of each channel and the profile of each ditch run, in "
-        "the project's length unit")
+HELP = COMMAND_HELP["drawing"]
 
 
 def register(subparsers) -> None:

@@ -2,10 +2,11 @@
 
 from __future__ import annotations
 
+from . import COMMAND_HELP
 from .common import CliError
 from .projectfile import load_project
 
-HELP = "print the design fingerprint (SHA-256 of a channel's inputs, its lining entries and the program version)"
+HELP = COMMAND_HELP["fingerprint"]
 
 
 def register(subparsers) -> None:

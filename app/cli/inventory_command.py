@@ -11,9 +11,10 @@ from pathlib import Path
 from hydraulics.linings import CatalogueError, load_catalogue
 
 from .. import inventory as ai
+from . import COMMAND_HELP
 from .common import CliError
 
-HELP = "check every reach of a ditch inventory (CSV) and write one result row per reach"
+HELP = COMMAND_HELP["batch"]
 #: Above this many reaches a progress bar is drawn (on a terminal).
 PROGRESS_FROM = 20_000
 #: Problem rows listed on stderr; all of them are in the results file's reason column.

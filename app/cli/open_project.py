@@ -4,9 +4,10 @@ from __future__ import annotations
 
 from pathlib import Path
 
+from . import COMMAND_HELP
 from .common import CliError
 
-HELP = "open a project file in the Ditchwright window"
+HELP = COMMAND_HELP["open"]
 
 
 def register(subparsers) -> None:

@@ -9,10 +9,11 @@ from hydraulics import units as hu
 from hydraulics.errors import ConvergenceError, InputError, NoSolutionError
 from hydraulics.wording import format_station
 
+from . import COMMAND_HELP
 from .common import CliError, emit_json
 from .projectfile import load_project
 
-HELP = "compute the ditch runs of a project: flow, depths, lining check and the cheapest lining schedule"
+HELP = COMMAND_HELP["run"]
 
 #: Columns of the readable station table: (key of the station rows, heading).
 TEXT_COLUMNS = (("station", "Station"), ("flow", "Flow"), ("slope", "Grade"), ("lining", "Lining"),

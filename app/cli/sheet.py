@@ -6,11 +6,11 @@ import sys
 
 from hydraulics.errors import InputError, NoSolutionError
 
+from . import COMMAND_HELP
 from .common import CliError
 from .projectfile import load_project
 
-HELP = ("write the design sheets of a project (one page per channel, a few pages per ditch run) as a PDF, "
-        "optionally signed")
+HELP = COMMAND_HELP["sheet"]
 
 
 def register(subparsers) -> None:

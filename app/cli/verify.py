@@ -4,9 +4,10 @@ from __future__ import annotations
 
 import os
 
+from . import COMMAND_HELP
 from .common import CliError
 
-HELP = "check the digital signature of a design sheet: intact, and signed by the engineer whose certificate you trust"
+HELP = COMMAND_HELP["verify"]
 
 #: Exit statuses (also in the README's section on verify).
 VALID, NOT_VALID, UNREADABLE, UNTRUSTED = 0, 1, 2, 4

@@ -26,7 +26,7 @@ import warnings
 from typing import NamedTuple
 
 import numpy as np
-from scipy.optimize import brentq
+from ..roots import brentq
 
 from .. import validate
 from ..constants import G, GAMMA_WATER
