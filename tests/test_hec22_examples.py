@@ -4,8 +4,8 @@
 Urban Drainage Design Manual, Hydraulic Engineering Circular No. 22, 3rd ed., FHWA-NHI-10-009,
 Federal Highway Administration, September 2009. Its Chapter 5 ("Roadside and Median Channels")
 restates the HEC-15 (2005) permissible-shear relations (its reference 34) with its own equation
-numbers; Chapter 3 gives the rational method. Page numbers are those printed in the circular.
-What was read, word for word, is kept in the research notes (hec22-ch5.md).
+numbers; Chapter 3 gives the rational method. Page numbers are those printed in the circular;
+the given data and printed answers are quoted in each test's docstring.
 
 Every example is run in the units it is printed in, converted at the edge with
 ``hydraulics.units``, and checked against the printed answers within their rounding. Where the
