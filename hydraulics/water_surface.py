@@ -55,9 +55,11 @@ Method
 
 Step control
 ------------
-A stretch between design points is cut into equal steps no longer than ``max_step``. Each step is taken once
-whole and once as two halves; when the two answers differ by more than ``step_tolerance`` times the depth, the
-step is halved again (down to MIN_STEP = 1 mm), and the two-half answer is kept.
+A stretch between design points is cut into equal steps no longer than ``max_step``. A step whose whole change
+of depth is within ``step_tolerance`` times the depth is kept as it is (its error is a small part of that
+change). Any other step is taken once whole and once as two halves; when the two answers differ by more than
+``step_tolerance`` times the depth, each half is treated the same way (down to MIN_STEP = 1 mm), and the
+two-half answer is kept.
 
 Controls and regimes
 --------------------
@@ -116,7 +118,7 @@ import numpy as np
 from . import provenance, validate
 from .constants import G
 from .errors import ConvergenceError, InputError, NoSolutionError
-from .sections import Section
+from .sections import Section, Trapezoid
 from .solvers import solve_critical_depth, solve_normal_depth
 from .wording import worded
 
@@ -307,7 +309,8 @@ def profile_type(depth, normal_depth, critical_depth, slope):
 class _Props:
     """What applies at a computation node: section, roughness, flow and the slope of its stretch."""
 
-    __slots__ = ("section", "nfn", "nconst", "nkey", "flow", "slope", "yc", "yn", "yn_note", "top", "index")
+    __slots__ = ("section", "nfn", "nconst", "nkey", "flow", "slope", "yc", "yn", "yn_note", "top", "index",
+                 "_trap")
 
     def __init__(self, section, rough, flow, slope, index):
         self.section, (self.nfn, self.nconst, self.nkey) = section, rough
@@ -316,32 +319,39 @@ class _Props:
         self.yc = self.yn = math.nan
         self.yn_note = None
         self.top = section.full_depth if section.full_depth is None else float(section.full_depth)
+        # the trapezoid family's closed forms inline (the same formulas as Trapezoid._geometry), for speed
+        self._trap = ((float(section.bottom_width), float(section._zsum), float(section._psum))
+                      if isinstance(section, Trapezoid) else None)
 
-    def same(self, other):
-        return (self.flow == other.flow and self.slope == other.slope and self.nkey == other.nkey
-                and _same_section(self.section, other.section))
+    def key(self, section_key):
+        """Equal keys: equal props. Slopes from elevations and distances differ in their last digits along one
+        straight grade, so they are compared to 12 significant digits."""
+        return (self.flow, float(f"{self.slope:.12g}"), self.nkey, section_key)
 
     # -- hydraulics at one depth (scalar fast path) --
     def head_terms(self, y):
         """Specific energy E [m], friction slope S_f [-], dE/dy and dS_f/dy at depth ``y``."""
-        g = self.section._geometry(y)
-        a, p, t = g.area, g.wetted_perimeter, g.top_width
+        if self._trap is not None:
+            b, zs, ps = self._trap
+            t = b + zs * y
+            a = (b + 0.5 * zs * y) * y
+            p = b + ps * y
+            dp = ps
+        else:
+            g = self.section._geometry(y)
+            a, p, t, dp = g.area, g.wetted_perimeter, g.top_width, g.dP_dy
         q = self.flow
-        n = self.nfn(y)
+        n = self.nconst if self.nconst is not None else self.nfn(y)
         v2g = q * q / (2 * G * a * a)
         sf = (q * n / (a * (a / p) ** (2 / 3))) ** 2
         de = 1 - 2 * v2g * t / a
-        dsf = -2 * sf * (5 / 3 * t / a - 2 / 3 * g.dP_dy / p)
+        dsf = -2 * sf * (5 / 3 * t / a - 2 / 3 * dp / p)
         return y + v2g, sf, de, dsf
 
     def force(self, y):
         return self.flow ** 2 / (G * self.section._geometry(y).area) + self.section._first_moment(y)
 
 
-def _same_section(a, b):
-    if a is b:
-        return True
-    return type(a) is type(b) and repr(a.to_dict()) == repr(b.to_dict())
 
 
 @dataclass
@@ -413,7 +423,7 @@ def _solve_step(props, z, known, z_known, length, upstream):
             y_new = 2.0 * y
         else:
             y_new = 0.5 * (lo + hi)
-        if hi - lo <= 1e-14 * hi:
+        if math.isfinite(hi) and hi - lo <= 1e-14 * hi:  # the bracket is down to rounding
             return _state(props, y_new, _OK)
         y = y_new
     raise ConvergenceError(f"the energy balance of a step did not converge in {_MAX_NEWTON} iterations "
@@ -426,6 +436,8 @@ def _advance(props, known, x0, z0, x1, z1, upstream, tol, level=0):
     full = _solve_step(props, z1, known, z0, length, upstream)
     if length == 0.0 or (full.status != _OK and known.status != _OK):
         return full
+    if full.status == _OK and known.status == _OK and abs(full.y - known.y) <= tol * full.y:
+        return full  # the whole change of depth is within the tolerance, so is the step's error (a part of it)
     xm, zm = 0.5 * (x0 + x1), 0.5 * (z0 + z1)
     a = _solve_step(props, zm, known, z0, 0.5 * length, upstream)
     if a.status != _OK:
@@ -573,16 +585,14 @@ def water_surface(distance, bed, sections, n, flow, *, outfall="normal", outfall
     point_slope = np.append(slopes, slopes[-1])
 
     # -- what applies at each point, shared between equal points
-    props_list, point_props = [], []
+    shared, point_props, section_keys = {}, [], {}
     for i in range(count):
         p = _Props(secs[i], rough[i], qs[i], float(point_slope[i]), i)
-        for q in props_list:
-            if q.same(p):
-                p = q
-                break
-        else:
-            props_list.append(p)
+        if id(secs[i]) not in section_keys:  # sections of one shape and dimensions are one section
+            section_keys[id(secs[i])] = repr(secs[i].to_dict())
+        p = shared.setdefault(p.key(section_keys[id(secs[i])]), p)
         point_props.append(p)
+    props_list = list(shared.values())
     notes = []
     point_msgs = [[] for _ in range(count)]
     for p in props_list:
@@ -722,6 +732,8 @@ def water_surface(distance, bed, sections, n, flow, *, outfall="normal", outfall
     regime, vel, fr, energy = [], np.full(count, math.nan), np.full(count, math.nan), np.full(count, math.nan)
     for i, k in enumerate(point_nodes):
         p = nodes[k].props
+        if p.yn_note:
+            point_msgs[i].append("no normal depth: " + p.yn_note)
         if not math.isfinite(depth[k]):
             regime.append("not computed")
             point_msgs[i].append(worded("not computed: the water surface downstream rises above the top of the "
@@ -736,8 +748,6 @@ def water_surface(distance, bed, sections, n, flow, *, outfall="normal", outfall
         if branch[k] == "crit" and 0 < i < count - 1:
             point_msgs[i].append("the flow passes through critical depth here (a control between a milder and a "
                                  "steeper stretch)")
-        if p.yn_note:
-            point_msgs[i].append("no normal depth: " + p.yn_note)
     stretch_types = []
     for i in range(count - 1):
         seen = []
