@@ -72,14 +72,16 @@ control: critical depth is used and said), and the supercritical pass from the i
 at the top only where the first stretch is steep). Where a mild (or flat, or adverse) stretch meets a steep one
 both passes find no root and the flow passes through critical depth at the break. Where both passes have a
 depth, the one of larger specific force governs (the supercritical flow pushes the jump downstream until
-its specific force falls to that of the subcritical flow).
+its specific force falls to that of the subcritical flow). The supercritical pass goes on only from a node where
+it governs, or starts afresh from critical depth where the flow passes through it (a control): downstream of a
+jump it is gone until the next such control.
 
 Hydraulic jump
 --------------
 Where the governing profile changes from supercritical to subcritical, the toe of the jump is where the
 specific force M = Q^2 / (g A) + A y_bar (the momentum function, preserved across a jump) of the supercritical
 profile equals that of the subcritical one, found on a finer grid of 16 steps between the two computation
-nodes. The sequent depth solves M(y2) = M(y1) on the section (in a rectangle this is Belanger's
+nodes (at the downstream node where the finer steps carry the supercritical flow all the way). The sequent depth solves M(y2) = M(y1) on the section (in a rectangle this is Belanger's
 y2 / y1 = (sqrt(1 + 8 Fr1^2) - 1) / 2, Chow 1959 Eq. 3-21). The length is taken as 6 y2 (L = 6 y2 for
 4 < Fr1 < 20, somewhat less outside that range, so an upper estimate there); the kind of jump is named by Fr1
 (undular 1 to 1.7, weak to 2.5, oscillating to 4.5, steady to 9, strong above). The momentum balance is that of
@@ -649,6 +651,9 @@ def water_surface(distance, bed, sections, n, flow, *, outfall="normal", outfall
         sub_start = _State(last.yc, _OK)
     elif outfall == "normal" and below_critical:
         sub_start = _State(last.yc, _CRIT)  # supercritical normal depth: no subcritical control at the outfall
+        control_msg = worded("normal depth at the outfall ({y}) is below critical depth ({yc}) on the steep last "
+                             "stretch: it does not control, the depth there is set from upstream",
+                             y=(y0, "length"), yc=(last.yc, "length"))
     else:
         sub_start = _State(y0, _OK)
     sub = [None] * size
@@ -672,7 +677,9 @@ def water_surface(distance, bed, sections, n, flow, *, outfall="normal", outfall
         notes.append(worded("the subcritical water surface rises above the top of the section at {at}: the profile "
                             "upstream of it is not computed", at=_at(stop_at)))
 
-    # -- supercritical pass, downstream from the inlet
+    # -- supercritical pass, downstream from the inlet, deciding at each node which profile governs. Supercritical
+    # flow goes on only from a node where it governs, or starts afresh from critical depth where the flow passes
+    # through it (a control); downstream of a jump it is gone until the next such control.
     first = nodes[0].props
     if inlet == "normal":
         if first.slope > 0 and first.yn < first.yc:
@@ -684,27 +691,22 @@ def water_surface(distance, bed, sections, n, flow, *, outfall="normal", outfall
     else:
         start = _State(inlet, _OK) if inlet < first.yc else _State(first.yc, _CRIT)
     sup = [None] * size
-    sup[0] = _state(first, start.y, start.status)
-    for k in range(1, size):
-        a, b = nodes[k - 1], nodes[k]
-        known = sup[k - 1]
-        if known.status != _OK:
-            known = _state(a.props, a.props.yc, _CRIT)
-        sup[k] = _advance(b.props, known, a.x, a.z, b.x, b.z, False, step_tolerance)
-
-    # -- which profile governs at each node
     depth = np.full(size, math.nan)
     branch = [""] * size
-    force_sub = np.full(size, math.nan)
-    force_sup = np.full(size, math.nan)
     for k, node in enumerate(nodes):
         p = node.props
-        s, u = sub[k], sup[k]
-        fs = p.force(s.y if s.status == _OK else p.yc) if s.status != _TOP else math.nan
-        fu = p.force(u.y if u.status == _OK else p.yc)
-        force_sub[k], force_sup[k] = fs, fu
+        if k == 0:
+            u = _state(first, start.y, start.status)
+        elif branch[k - 1] in ("sup", "crit"):
+            a = nodes[k - 1]
+            known = sup[k - 1] if branch[k - 1] == "sup" else _state(a.props, a.props.yc, _CRIT)
+            u = _advance(p, known, a.x, a.z, node.x, node.z, False, step_tolerance)
+        else:
+            u = _State(p.yc, _CRIT)  # subcritical upstream, no control between: no supercritical flow here
+        sup[k] = u
+        s = sub[k]
         if s.status == _OK and u.status == _OK:
-            branch[k] = "sup" if fu > fs else "sub"
+            branch[k] = "sup" if p.force(u.y) > p.force(s.y) else "sub"
         elif s.status == _OK:
             branch[k] = "sub"
         elif u.status == _OK:
@@ -746,8 +748,8 @@ def water_surface(distance, bed, sections, n, flow, *, outfall="normal", outfall
         regime.append("critical" if branch[k] == "crit" or abs(fr[i] - 1) <= 1e-6 else
                       "supercritical" if fr[i] > 1 else "subcritical")
         if branch[k] == "crit" and 0 < i < count - 1:
-            point_msgs[i].append("the flow passes through critical depth here (a control between a milder and a "
-                                 "steeper stretch)")
+            point_msgs[i].append("the flow passes through critical depth here: a control, which sets the water "
+                                 "surface upstream (as where a milder stretch meets a steeper one)")
     stretch_types = []
     for i in range(count - 1):
         seen = []
@@ -843,8 +845,11 @@ def _locate_jump(a, b, sup_a, sub_b, tol):
             s = _advance(p, known, xs[i + 1], zs[i + 1], xs[i], zs[i], True, tol)
             downs[i] = _state(p, s.y, s.status) if s.status == _OK else _State(p.yc, _CRIT)
         diff = [p.force(u.y) - p.force(w.y if w.status == _OK else p.yc) for u, w in zip(ups, downs)]
-        i = next((i for i in range(1, m + 1) if diff[i] <= 0), m)
-        f = diff[i - 1] / (diff[i - 1] - diff[i]) if diff[i - 1] != diff[i] else 1.0
+        i = next((i for i in range(1, m + 1) if diff[i] <= 0), None)
+        if i is None:  # the finer steps carry the supercritical flow to the far node: the toe stands there
+            i, f = m, 1.0
+        else:
+            f = min(1.0, max(0.0, diff[i - 1] / (diff[i - 1] - diff[i]))) if diff[i - 1] != diff[i] else 1.0
         x_toe = xs[i - 1] + f * (xs[i] - xs[i - 1])
         y1 = ups[i - 1].y + f * (ups[i].y - ups[i - 1].y)
     y2 = sequent_depth(p.section, p.flow, y1)

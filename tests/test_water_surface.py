@@ -389,3 +389,43 @@ def test_bad_input_is_refused_by_name(kwargs, field):
     with pytest.raises(hy.InputError) as err:
         water_surface(**args)
     assert err.value.field.startswith(field)
+
+
+# -- properties over many mixed runs ------------------------------------------------------------------------------
+
+def test_mixed_runs_keep_the_energy_falling_and_their_jumps_balanced():
+    """Invented runs mixing grades (mild, steep, flat, adverse), sections and inflows: the total head never rises
+    in the direction of flow (friction and jumps only take energy away; a change at a point keeps it), every jump
+    lies on the run and balances momentum on its stretch's section, and every point has a profile type."""
+    from hydraulics.water_surface import PROFILE_TYPES
+    rng = np.random.default_rng(2024)
+    shapes = [SECTION, hy.Triangle(side_slope=4.0), hy.Rectangle(bottom_width=1.0),
+              hy.Parabola(top_width=3.0, at_depth=0.5)]
+    jumps = 0
+    for _ in range(60):
+        count = int(rng.integers(2, 30))
+        x = np.cumsum(np.r_[0.0, rng.uniform(1.0, 60.0, count - 1)])
+        grades = rng.choice([0.0003, 0.001, 0.004, 0.02, 0.08, 0.0, -0.002], size=count - 1)
+        z = np.r_[50.0, 50.0 - np.cumsum(grades * np.diff(x))]
+        secs = [shapes[i] for i in rng.integers(0, len(shapes), size=count)]
+        flows = np.round(rng.uniform(0.05, 1.0) * np.cumprod(1 + (rng.random(count) < 0.1) * 0.3), 3)
+        control = dict(outfall_level=z[-1] + rng.uniform(0.05, 2.0)) if rng.random() < 0.5 else dict(outfall="critical")
+        ws = water_surface(x, z, secs, N, flows, inlet=["normal", "critical", 0.05][int(rng.integers(0, 3))],
+                           **control)
+        assert np.all(np.diff(ws.energy) <= 1e-6)
+        assert all(t in PROFILE_TYPES for t in ws.profile_type) and np.all(np.isfinite(ws.depth))
+        for jump in ws.jumps:
+            jumps += 1
+            assert x[0] <= jump.distance <= x[-1]
+            k = int(np.searchsorted(x, jump.distance, side="left")) - 1   # the stretch the toe stands on
+            k = max(k, 0)
+            m1 = specific_force(secs[k], flows[k], jump.upstream_depth)
+            assert specific_force(secs[k], flows[k], jump.downstream_depth) == pytest.approx(m1, rel=1e-8)
+    assert jumps > 10   # the runs do exercise jumps
+
+
+def test_a_steep_last_stretch_has_no_subcritical_outfall_control():
+    x, z = straight_run(100.0, 10.0, STEEP)
+    ws = water_surface(x, z, SECTION, N, Q)          # outfall "normal": normal depth is supercritical here
+    assert not ws.controls["outfall"]["governs"] and "does not control" in ws.controls["outfall"]["message"]
+    assert ws.depth[-1] == pytest.approx(hy.normal_depth(SECTION, Q, STEEP, N), rel=1e-6)
