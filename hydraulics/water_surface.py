@@ -654,11 +654,16 @@ def water_surface(distance, bed, sections, n, flow, *, outfall="normal", outfall
         control_msg = worded("normal depth at the outfall ({y}) is below critical depth ({yc}) on the steep last "
                              "stretch: it does not control, the depth there is set from upstream",
                              y=(y0, "length"), yc=(last.yc, "length"))
+    elif last.top is not None and y0 > last.top:
+        sub_start = _State(math.nan, _TOP)
+        control_msg = worded("the outfall water level {level} is above the top of the section ({top} deep): the "
+                             "flow there is not open-channel flow, and the water surface is not computed",
+                             level=(level, "length"), top=(last.top, "length"))
     else:
         sub_start = _State(y0, _OK)
     sub = [None] * size
     sub[-1] = _state(last, sub_start.y, sub_start.status)
-    stop_at = None
+    stop_at = x[-1] if sub_start.status == _TOP else None
     for k in range(size - 2, -1, -1):
         a, b = nodes[k], nodes[k + 1]
         known = sub[k + 1]

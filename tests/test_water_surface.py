@@ -327,6 +327,8 @@ def test_water_rising_above_a_pipe_is_not_computed_and_said():
     assert any("not computed" in m for m in ws.messages[0]) and "above the top of the section" in ws.notes[0]
     assert any("no normal depth" in m for m in ws.messages[0]) and np.all(np.isnan(ws.normal_depth))
     assert np.isfinite(ws.depth[-1]) and ws.depth[-1] == pytest.approx(0.5)
+    drowned = water_surface(x, z, pipe, 0.013, 0.1, outfall_level=z[-1] + 0.7)   # the outfall above the crown
+    assert np.all(np.isnan(drowned.depth)) and "above the top of the section" in drowned.controls["outfall"]["message"]
 
 
 # -- changes along the run ----------------------------------------------------------------------------------------
