@@ -7,7 +7,8 @@
   - 1) / 2 (Chow 1959, Eq. 3-21, as restated at altdepth.com), and in a trapezoid against a momentum balance
   Q^2/(gA) + b y^2/2 + z y^3/3 solved here with brentq; the toe of a jump found by the run against the same
   balance on an independently integrated S1 curve.
-* A published worked example: Cruise, Sherif and Singh, *Elementary Hydraulics* (Thomson, 2007), Chapter 15
+* A published worked example: *Elementary Hydraulics* (its solutions to Chapter 15; authors and edition not shown
+  in the copy read), Chapter 15
   "Computation of water surface profiles", Problem 15.1 and its solution (p. 262 of the solutions as read in the
   copy at html.pdfcookie.com and scribd.com/document/319758528), SI units as published.
 * Profile types on constructed cases, controls that cannot hold, changes of flow and section, and bad input.
@@ -202,7 +203,7 @@ def test_a_jump_on_the_mild_stretch_behind_a_sluice_like_inlet():
 # -- a published worked example -----------------------------------------------------------------------------------
 
 def test_elementary_hydraulics_problem_15_1():
-    """Cruise, Sherif and Singh, *Elementary Hydraulics* (Thomson, 2007), Problem 15.1 and its published solution.
+    """*Elementary Hydraulics*, Problem 15.1 and its published solution (the copy read shows the book's running title).
 
     Data (SI, as published): a wide rectangular river, S0 = 14 x 10^-4, q = 3.6 m^3/s per metre, n = 0.025;
     a dam raises the water 1.0 m above normal depth. Published: y0 = (q^2 n^2 / S0)^0.3 = 1.69 m,
