@@ -7,10 +7,9 @@
   - 1) / 2 (Chow 1959, Eq. 3-21, as restated at altdepth.com), and in a trapezoid against a momentum balance
   Q^2/(gA) + b y^2/2 + z y^3/3 solved here with brentq; the toe of a jump found by the run against the same
   balance on an independently integrated S1 curve.
-* A published worked example: *Elementary Hydraulics* (its solutions to Chapter 15; authors and edition not shown
-  in the copy read), Chapter 15
-  "Computation of water surface profiles", Problem 15.1 and its solution (p. 262 of the solutions as read in the
-  copy at html.pdfcookie.com and scribd.com/document/319758528), SI units as published.
+* A published worked example: *Elementary Hydraulics*, Chapter 15 "Computation of water surface profiles",
+  Problem 15.1 and its solution (p. 262 of the solutions, as read in the copies at html.pdfcookie.com and
+  scribd.com/document/319758528, which show no authors or edition), SI units as published.
 * Profile types on constructed cases, controls that cannot hold, changes of flow and section, and bad input.
 """
 
