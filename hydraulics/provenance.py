@@ -69,6 +69,25 @@ READ_IN = {
     "campos-2020": "Campos et al. (2020), Water 12(10): 2730, abstract (mdpi.com/2073-4441/12/10/2730)",
     "ponce-4-2": "V. M. Ponce, Engineering Hydrology (1989), online edition, Chapter 4, Table 4-2 and its key "
                  "(facets.sdsu.edu/enghydro/engineering_hydrology_04_table_4_2_expand.html)",
+    "txdot-hdm-7": "TxDOT Hydraulic Design Manual, Chapter 7, Section 6, Standard Step Procedure (txdot.gov/manuals/des/"
+                   "hyd/chapter-7--channels/section-6--channel-analysis-methods/standard-step-procedure.html)",
+    "txdot-hdm-8": "TxDOT Hydraulic Design Manual, Chapter 8, Section 3, Direct Step Backwater Method (txdot.gov/manuals/"
+                   "des/hyd/chapter-8--culverts/section-3--hydraulic-operation-of-culverts/direct-step-backwater-"
+                   "method.html)",
+    "tpub-2.8": "standard step equations 2.173 to 2.176 and Fig. 2.30 of a manual's Section 2.8, in the copy at "
+                "coastalhydraulicslaboratoryfact.tpub.com/4_010491/4_0104910139.htm",
+    "kitsap-f": "Kitsap County (WA) Stormwater Design Manual, Appendix F, F.2.3.2 Direct Step Backwater Method "
+                "(dcd.kitsapgov.com/ordnances/stormwater_html_20210902/.../OpenChannelsBackwaterMethod.htm)",
+    "irrigation-3.6": "Planning and Evaluation of Irrigation Projects (Elsevier, 2017, ISBN 978-0-12-811856-6), "
+                      "Section 3.6, Eq. 3.150 and Table 3.9 (ebookreading.net copy)",
+    "altdepth": "altdepth.com, \"conjugate depth\" page: the specific force is preserved in a jump; Belanger's "
+                "relation as Chow (1959) Eq. 3-21",
+    "momentum-depth": "\"Momentum-depth relationship in a rectangular channel\" (Wikipedia article, wikiless copy): the "
+                      "momentum function (specific force) conserved across a hydraulic jump",
+    "jump-6y2": "a water-engineering text's section on the hydraulic jump (its Fig. 6.9), in the copy at "
+                "climate-policy-watcher.org/drinking-water-2/v-2-y1-y2-lw-1.html",
+    "cef-12.17": "Civil Engineering Formulas (McGraw-Hill), p. 323, Fig. 12.17, in the copy at "
+                 "digilib.universitaspertamina.ac.id (page 395 of the file)",
 }
 
 
@@ -230,6 +249,42 @@ REGISTER: dict = _entries(
               "TR-55 (1986) Figure 3-1 and Appendix F", (),
               "the equations behind Figure 3-1 were not found in a stored copy of TR-55; the tests compare them "
               "with the velocity-slope coefficients of the SLO Creek Drainage Design Manual (2003), Table 4-2"),
+    # ---------------------------------------------------------------- water surface along a run (hydraulics.water_surface)
+    Published("gvf_energy", "energy equation between two sections (standard step method)",
+              "H1 + So dL = H2 + Sf dL, H = y + V^2/(2g) above the bed; subcritical profiles start at the most "
+              "downstream section", "TxDOT Hydraulic Design Manual Ch. 7 Sec. 6 (Standard Step Procedure)",
+              ("txdot-hdm-7", "tpub-2.8")),
+    Published("gvf_friction_slope", "friction slope of gradually varied flow",
+              "Sf = n^2 V^2 / (2.21 R^1.33) (US units; Manning's equation with the energy slope)",
+              "Kitsap County Stormwater Design Manual App. F, F.2.3.2", ("kitsap-f",)),
+    Published("gvf_sf_average", "friction slope over a step", "the mean of the two sections' friction slopes",
+              "Chow (1959) Chapter 10", (),
+              "the program's choice (the trapezoidal rule for the friction loss); no stored text stating it was read"),
+    Published("gvf_equation", "differential equation of gradually varied flow",
+              "dh/dx = (S0 - Sf) / (1 - T Q^2 / (g A^3))", "Planning and Evaluation of Irrigation Projects (2017) "
+              "Eq. 3.150", ("irrigation-3.6",)),
+    Published("gvf_profiles", "classification of water-surface profiles",
+              "M1 M2 M3, S1 S2 S3, C1 C3, H2 H3, A2 A3 by the depth against normal and critical depth",
+              "Planning and Evaluation of Irrigation Projects (2017) Table 3.9", ("irrigation-3.6",)),
+    Published("gvf_controls", "where a profile computation starts",
+              "mild slope: at the outlet, the higher of critical depth and tailwater, upstream; steep slope with "
+              "tailwater below critical depth: critical depth at the entrance, downstream",
+              "TxDOT Hydraulic Design Manual Ch. 8 Sec. 3 (Direct Step Backwater Method)", ("txdot-hdm-8",)),
+    Published("specific_force", "specific force (momentum function) preserved across a hydraulic jump",
+              "M = Q^2/(gA) + A y_bar, equal on both sides of a jump",
+              "momentum function of open-channel flow (Wikipedia, Momentum-depth relationship in a rectangular "
+              "channel)", ("momentum-depth", "altdepth"),
+              "A y_bar of every section from hydraulics.sections.Section.first_moment"),
+    Published("jump_rectangle", "sequent depths of a jump in a rectangular channel",
+              "y2/y1 = (sqrt(1 + 8 Fr1^2) - 1) / 2", "Chow (1959) Eq. 3-21", ("altdepth",),
+              "read as restated (Belanger's form), not in Chow's text"),
+    Published("jump_length", "length of a hydraulic jump",
+              "L = 6 y2 for 4 < Fr1 < 20, somewhat less outside; for practical purposes 6 y2",
+              "water-engineering text, hydraulic jump section (Fig. 6.9)", ("jump-6y2",),
+              "the text's title was not shown in the copy read"),
+    Published("jump_kinds", "kinds of hydraulic jump by Froude number",
+              "undular 1-1.7, weak 1.7-2.5, oscillating 2.5-4.5, steady 4.5-9.0, strong above 9.0",
+              "Civil Engineering Formulas (McGraw-Hill) Fig. 12.17", ("cef-12.17",)),
 )
 
 

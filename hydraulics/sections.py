@@ -83,6 +83,23 @@ class Section:
         with np.errstate(divide="ignore"):
             return np.where(g.top_width > 0, g.area / g.top_width, np.inf)
 
+    def first_moment(self, depth):
+        """First moment of the flow area about the water surface, A times the depth of its centroid [m^3].
+
+        It is the pressure term of the specific force (momentum function) M = Q^2 / (g A) + A y_bar
+        that a hydraulic jump conserves (see :mod:`hydraulics.water_surface`). For any section it equals the integral of
+        A(eta) from the invert to ``depth`` [m], since d(A y_bar)/dy = A; each shape gives it in
+        closed form (the surveyed section by Simpson's rule between its break points, exact there
+        because A is quadratic between them).
+        """
+        y = self._check_depth(depth)
+        return self._first_moment(y)
+
+    def centroid_depth(self, depth):
+        """Depth of the centroid of the flow area below the water surface, y_bar [m]."""
+        y = self._check_depth(depth)
+        return self._first_moment(y) / self._geometry(y).area
+
     def _check_depth(self, depth):
         y = validate.positive("depth", depth)
         if self.full_depth is not None:
@@ -94,6 +111,9 @@ class Section:
 
     # -- for subclasses and solvers --------------------------------------
     def _geometry(self, y) -> Geometry:  # pragma: no cover - abstract
+        raise NotImplementedError
+
+    def _first_moment(self, y):  # pragma: no cover - abstract
         raise NotImplementedError
 
     def _depth_guess(self, log_k):
@@ -172,6 +192,10 @@ class Trapezoid(Section):
         # The derivatives are constants here; they broadcast against the depth arrays.
         return Geometry(area=(b + 0.5 * zs * y) * y, wetted_perimeter=b + ps * y,
                         top_width=top, dP_dy=ps, dT_dy=zs)
+
+    def _first_moment(self, y):
+        # Bottom rectangle b y (centroid y/2 down) and the two side triangles z y^2 / 2 (centroid y/3 down).
+        return (0.5 * self.bottom_width + self._zsum * y / 6) * y * y
 
     def _depth_guess(self, log_k):
         # The smaller of the wide-rectangle (A = b y, R = y) and triangle estimates, from ln(Q n / sqrt S).
@@ -275,6 +299,10 @@ class Parabola(Section):
         top = 2 * a
         return Geometry(area=2 / 3 * top * y, wetted_perimeter=perim, top_width=top,
                         dP_dy=2 * root / u, dT_dy=top / (2 * y))
+
+    def _first_moment(self, y):
+        # A(eta) = (4/3) eta^(3/2) / sqrt(k); its integral to y is (2/5) y A(y).
+        return 0.4 * y * self._geometry(y).area
 
     def _depth_guess(self, log_k):
         # Wide parabola: P ~ T, R ~ 2y/3, T = T0 sqrt(y/y0) -> conveyance ~ c y^(13/6).
@@ -428,6 +456,12 @@ class Circle(Section):
             return Geometry(area=d * d * segment / 8, wetted_perimeter=d * theta / 2, top_width=top,
                             dP_dy=2 * d / top, dT_dy=2 * (d - 2 * y) / top)
 
+    def _first_moment(self, y):
+        # Segment centroid 4 r sin^3(theta/2) / (3 (theta - sin theta)) below the centre, with sin(theta/2) = T/D:
+        # A y_bar = A (that distance - (D/2 - y)) = T^3 / 12 - A (D/2 - y).
+        g = self._geometry(y)
+        return g.top_width ** 3 / 12 - g.area * (0.5 * self.diameter - y)
+
     def _depth_guess(self, log_k):
         # ln(A^(5/3) P^(-2/3)) = (8/3) ln D + ln f(y/D): read y/D off the table of f.
         return self.diameter * _circle_guess(log_k - 8 / 3 * np.log(self.diameter), "normal")
@@ -537,6 +571,17 @@ class Irregular(Section):
         if _is_scalar(y):
             out = [float(v) for v in out]
         return Geometry(area=out[0], wetted_perimeter=out[1], top_width=out[2], dP_dy=out[3], dT_dy=out[4])
+
+    def _first_moment(self, y):
+        def one(h):
+            # A is quadratic in depth between the elevations of the survey points: Simpson's rule is exact there.
+            cuts = np.unique(np.concatenate([[0.0], self._lo[self._lo < h], self._hi[self._hi < h], [h]]))
+            a, b = cuts[:-1], cuts[1:]
+            area = lambda e: self._segments(e)[2].sum(axis=-1)
+            return float(np.sum((b - a) / 6 * (area(a) + 4 * area(0.5 * (a + b)) + area(b))))
+        if np.ndim(y) == 0:
+            return one(float(y))
+        return np.vectorize(one, otypes=[float])(y)
 
     def composite_n(self, depth):
         """Horton-Einstein composite Manning's n at ``depth`` [s/m^(1/3)] (see class notes)."""

@@ -1,0 +1,873 @@
+"""The water surface along a run: gradually varied flow, its controls and hydraulic jumps (SI).
+
+Public API
+----------
+``water_surface(distance, bed, sections, n, flow, *, outfall="normal", outfall_level=None, inlet="normal",
+max_step=10.0, step_tolerance=1e-4) -> WaterSurface``
+    The profile over a sequence of design points. ``distance`` [m] rises in the direction of flow (strictly),
+    ``bed`` [m] is the invert elevation at each point, ``sections`` one :class:`~hydraulics.sections.Section`
+    or one per point, ``n`` Manning's n [s/m^(1/3)] as one value, a callable ``n(depth)`` for a depth-dependent
+    lining, or one of those per point (``None`` for a surveyed section, which carries its own composite n),
+    ``flow`` [m^3/s] one value or one per point (it changes at inflow points). A point's section, n and flow
+    apply from that point downstream to the next one (the water leaving the point); the last point keeps its
+    own. Controls: ``outfall`` "normal", "critical" or "level" (with ``outfall_level`` [m], the water-surface
+    elevation standing at the outfall, e.g. a culvert headwater or a receiving stream; giving
+    ``outfall_level`` alone means "level"); ``inlet`` "normal", "critical" or a depth [m] held at the top
+    (e.g. the flow leaving a pipe). ``max_step`` [m] is the longest computation step; ``step_tolerance`` [-]
+    the relative difference allowed between one step and two half steps (see "Step control").
+``specific_force(section, flow, depth)`` -> M = Q^2 / (g A) + A y_bar [m^3].
+``sequent_depth(section, flow, depth)`` -> the other depth of equal specific force [m].
+``friction_slope(section, flow, n, depth)`` -> S_f = (Q n / (A R^(2/3)))^2 [-].
+``depth_gradient(section, flow, n, slope, depth)`` -> dy/dx = (S0 - S_f) / (1 - Fr^2) [-].
+``profile_type(depth, normal_depth, critical_depth, slope)`` -> "M1", "M2", ... (see "Profile types").
+
+:class:`WaterSurface` (one entry per design point unless said otherwise): ``distance``, ``bed``, ``depth``,
+``water_surface`` (bed + depth), ``profile_type``, ``regime`` ("subcritical", "supercritical", "critical" or
+"not computed"), ``normal_depth`` (NaN where the grade is flat or adverse, or the section cannot carry the flow
+at a normal depth), ``critical_depth``, ``velocity``, ``froude``, ``energy`` (energy grade elevation),
+``messages`` (a list of worded messages per point), ``stretch_types`` (the profile types met between point i
+and i + 1, in flow order), ``jumps`` (a list of :class:`Jump`: ``distance`` of the toe, ``upstream_depth``,
+``downstream_depth``, ``length``, ``froude``, ``kind``, ``notes``; ``as_dict()`` gives the first four and
+more), ``controls`` (what was assumed at each end, with its depth and level, whether it governs, and its
+message), ``notes`` (the run's messages) and the computation nodes ``detail_distance``, ``detail_bed``,
+``detail_depth``, ``detail_profile_type`` for drawing.
+
+Method
+------
+* Energy equation between two sections 1 (downstream) and 2, a distance L apart (the standard step method):
+  z2 + y2 + V2^2 / (2 g) = z1 + y1 + V1^2 / (2 g) + h_f, with the friction loss h_f = L (S_f1 + S_f2) / 2,
+  the arithmetic mean of the two sections' friction slopes (the trapezoidal rule for the loss over the step;
+  the program's choice). Energy balance as in TxDOT, *Hydraulic Design Manual*, Ch. 7 Sec. 6 ("Standard Step
+  Procedure"), and the standard step equations H1 + So dL = H2 + Sf dL restated in Eqs. 2.173 to 2.176 of a
+  manual's Section 2.8 (see :mod:`hydraulics.provenance`, keys ``gvf_energy`` and ``gvf_sf_average``). The
+  kinetic-energy coefficient is 1; expansion and contraction losses and the losses where inflow joins are not
+  counted (a step only changes the flow and the section at a design point).
+* Friction slope from Manning's equation with the slope term the energy slope,
+  S_f = (Q n / (A R^(2/3)))^2 (Kitsap County Stormwater Design Manual, App. F, F.2.3.2: S_f = n^2 V^2 /
+  (2.21 R^1.33) in US units).
+* The same energy equation carries the water surface across a change of section or of flow at a design point
+  (a step of length zero) and across grade breaks (the bed is continuous; only the slope changes).
+* Each step is solved for the depth on its branch: above critical depth on a subcritical step, below it on a
+  supercritical one. On its branch the energy balance is monotonic in the depth, so the root is unique;
+  Newton's method safeguarded by bisection meets it to HEAD_TOLERANCE (1e-10 m of head) or raises
+  ConvergenceError. When the branch has no root (the energy cannot be carried), the pass records critical
+  depth there and goes on from it.
+
+Step control
+------------
+A stretch between design points is cut into equal steps no longer than ``max_step``. A step whose whole change
+of depth is within ``step_tolerance`` times the depth is kept as it is (its error is a small part of that
+change). Any other step is taken once whole and once as two halves; when the two answers differ by more than
+``step_tolerance`` times the depth, each half is treated the same way (down to MIN_STEP = 1 mm), and the
+two-half answer is kept.
+
+Controls and regimes
+--------------------
+The subcritical profile is computed upstream from the downstream control, the supercritical one downstream from
+the upstream control, as TxDOT's *Hydraulic Design Manual* Ch. 8 Sec. 3 ("Direct Step Backwater Method") sets
+the starting depths: on a mild slope the higher of critical depth and the tailwater at the outlet, working
+upstream; on a steep slope with the tailwater below critical depth, critical depth at the entrance, working
+downstream. So the subcritical pass starts from the outfall control (a level below critical depth does not
+control: critical depth is used and said), and the supercritical pass from the inlet control (normal depth
+at the top only where the first stretch is steep). Where a mild (or flat, or adverse) stretch meets a steep one
+both passes find no root and the flow passes through critical depth at the break. Where both passes have a
+depth, the one of larger specific force governs (the supercritical flow pushes the jump downstream until
+its specific force falls to that of the subcritical flow). The supercritical pass goes on only from a node where
+it governs, or starts afresh from critical depth where the flow passes through it (a control): downstream of a
+jump it is gone until the next such control.
+
+Hydraulic jump
+--------------
+Where the governing profile changes from supercritical to subcritical, the toe of the jump is where the
+specific force M = Q^2 / (g A) + A y_bar (the momentum function, preserved across a jump) of the supercritical
+profile equals that of the subcritical one, found on a finer grid of 16 steps between the two computation
+nodes (at the downstream node where the finer steps carry the supercritical flow all the way). The sequent depth solves M(y2) = M(y1) on the section (in a rectangle this is Belanger's
+y2 / y1 = (sqrt(1 + 8 Fr1^2) - 1) / 2, Chow 1959 Eq. 3-21). The length is taken as 6 y2 (L = 6 y2 for
+4 < Fr1 < 20, somewhat less outside that range, so an upper estimate there); the kind of jump is named by Fr1
+(undular 1 to 1.7, weak to 2.5, oscillating to 4.5, steady to 9, strong above). The momentum balance is that of
+a jump on a level bed: the weight of the water in the roller on a sloping bed and the friction under it are not
+counted.
+
+Profile types
+-------------
+By the bed slope (mild M: y_n > y_c, steep S: y_n < y_c, critical C: y_n = y_c, horizontal H, adverse A) and
+the depth against normal and critical depth: M1 y > y_n > y_c, M2 y_n > y > y_c, M3 y < y_c; S1 y > y_c,
+S2 y_c > y > y_n, S3 y < y_n; C1, C3; H2, H3 and A2, A3 above and below critical depth (a flat or adverse
+grade has no normal depth, and none is made up). A depth within PROFILE_BAND (0.1 %) of normal depth is
+"uniform", of critical depth "critical" (classification restated in *Planning and Evaluation of Irrigation
+Projects*, Elsevier, 2017, Table 3.9).
+
+Examples
+--------
+Backwater (an M1 curve) behind a level of 1.2 m at the outfall of a mild trapezoidal ditch (invented numbers):
+
+>>> import hydraulics as hy
+>>> from hydraulics.water_surface import water_surface
+>>> ws = water_surface([0, 100, 200], [1.2, 1.0, 0.8], hy.Trapezoid(bottom_width=0.5, side_slope=2.0),
+...                    0.03, 0.4, outfall_level=1.2 + 0.8)
+>>> [round(float(d), 3) for d in ws.depth], ws.profile_type
+([0.811, 1.003, 1.2], ['M1', 'M1', 'M1'])
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass, field
+from numbers import Real
+
+import numpy as np
+
+from . import provenance, validate
+from .constants import G
+from .errors import ConvergenceError, InputError, NoSolutionError
+from .sections import Section, Trapezoid
+from .solvers import solve_critical_depth, solve_normal_depth
+from .wording import worded
+
+__all__ = ["water_surface", "WaterSurface", "Jump", "specific_force", "sequent_depth", "friction_slope",
+           "depth_gradient", "profile_type", "HEAD_TOLERANCE", "MIN_STEP", "PROFILE_BAND", "JUMP_LENGTH_RATIO",
+           "PROFILE_TYPES"]
+
+#: Every step's energy balance is met to this head [m].
+HEAD_TOLERANCE = 1e-10
+#: Shortest step the step control halves to [m].
+MIN_STEP = 1e-3
+#: A depth within this fraction of normal (critical) depth is called uniform (critical) [-].
+PROFILE_BAND = 1e-3
+#: Length of a hydraulic jump over its sequent depth, L = 6 y2 [-] (see provenance key ``jump_length``).
+JUMP_LENGTH_RATIO = 6.0
+#: Froude number range in which L = 6 y2 was measured (outside it the jump is somewhat shorter).
+JUMP_LENGTH_FROUDE = (4.0, 20.0)
+#: Kinds of jump by the upstream Froude number (lower bound, name), see provenance key ``jump_kinds``.
+JUMP_KINDS = ((1.0, "undular"), (1.7, "weak"), (2.5, "oscillating"), (4.5, "steady"), (9.0, "strong"))
+#: Grid between two computation nodes on which the toe of a jump is located.
+JUMP_GRID = 16
+#: All the profile types this module names.
+PROFILE_TYPES = ("M1", "M2", "M3", "S1", "S2", "S3", "C1", "C3", "H2", "H3", "A2", "A3", "uniform", "critical")
+
+_OK, _CRIT, _TOP = 0, 1, 2  # a pass's state at a node: a depth on its branch, no root (critical), above the top
+_MAX_NEWTON = 100
+
+
+# ------------------------------------------------------------------------------------------------ single sections
+
+def _roughness(field_name, n, section):
+    """n(depth) for one point: a constant, a callable, or a surveyed section's own composite n."""
+    if n is None:
+        if hasattr(section, "composite_n"):
+            return section.composite_n, None, ("composite", id(section))
+        raise InputError(field_name, "is missing (Manning's n, a number > 0, or a function n(depth))")
+    if callable(n):
+        def checked(y, fn=n):
+            value = fn(y)
+            if not (isinstance(value, Real) and math.isfinite(value) and 0 < value < 1):
+                raise InputError(field_name, f"n(depth) must give a number between 0 and 1, got {value!r} at "
+                                             f"depth {y:.6g} m")
+            return float(value)
+        return checked, None, ("function", id(n))
+    value = validate.number(field_name, n, low=0.0, high=1.0, hint=" (Manning's n is a small number such as 0.013)")
+    if not isinstance(value, float):
+        raise InputError(field_name, "must be one number per point")
+    return (lambda y, v=value: v), value, ("constant", value)
+
+
+class _ModelN:
+    """Adapter from n(depth) to the solvers' roughness protocol."""
+
+    def __init__(self, fn):
+        self.fn = fn
+
+    def manning_n(self, section, depth, slope):
+        if np.ndim(depth):
+            return np.vectorize(self.fn, otypes=[float])(depth)
+        return self.fn(float(depth))
+
+
+def _check_section(section, field_name="section"):
+    if not isinstance(section, Section):
+        raise InputError(field_name, f"must be a channel section (Trapezoid, Circle, ...), got {type(section).__name__}")
+    if section.is_vector:
+        raise InputError(field_name, "must have single dimensions (not arrays) for a water-surface profile")
+
+
+def friction_slope(section, flow, n, depth):
+    """Friction (energy) slope by Manning's equation, S_f = (Q n / (A R^(2/3)))^2 [-].
+
+    Kitsap County Stormwater Design Manual, App. F, F.2.3.2 (S_f = n^2 V^2 / (2.21 R^1.33) in US units).
+    ``flow`` [m^3/s] > 0, ``n`` [s/m^(1/3)] a number or a callable n(depth), ``depth`` [m] > 0.
+    """
+    _check_section(section)
+    q = validate.positive("flow", flow)
+    y = float(validate.positive("depth", depth))
+    fn = _roughness("n", n, section)[0]
+    g = section.properties(y)
+    return (q * fn(y) / (g.area * (g.area / g.wetted_perimeter) ** (2 / 3))) ** 2
+
+
+def depth_gradient(section, flow, n, slope, depth):
+    """Slope of the water depth along the flow, dy/dx = (S0 - S_f) / (1 - Q^2 T / (g A^3)) [-].
+
+    The differential equation of gradually varied flow (*Planning and Evaluation of Irrigation Projects*,
+    Elsevier, 2017, Eq. 3.150). ``slope`` S0 [m/m] may be zero or negative (adverse); ``depth`` [m] must
+    not be critical depth, where the equation has no finite value.
+    """
+    s0 = validate.number("slope", slope)
+    sf = friction_slope(section, flow, n, depth)
+    g = section.properties(float(depth))
+    fr2 = flow * flow * g.top_width / (G * g.area ** 3)
+    if fr2 == 1.0:
+        raise NoSolutionError("dy/dx is infinite at critical depth")
+    return (s0 - sf) / (1 - fr2)
+
+
+def specific_force(section, flow, depth):
+    """Specific force (momentum function) M = Q^2 / (g A) + A y_bar [m^3], preserved across a hydraulic jump.
+
+    A y_bar is the first moment of the flow area about the water surface
+    (:meth:`~hydraulics.sections.Section.first_moment`); for a trapezoid M = b y^2 / 2 + m y^3 / 3 +
+    Q^2 / (g y (b + m y)). See provenance key ``specific_force``.
+    """
+    _check_section(section)
+    q = validate.positive("flow", flow)
+    y = float(validate.positive("depth", depth))
+    return q * q / (G * section.area(y)) + section.first_moment(y)
+
+
+def sequent_depth(section, flow, depth):
+    """The other depth of equal specific force (the sequent or conjugate depth of a hydraulic jump) [m].
+
+    Solves Q^2 / (g A2) + A2 y_bar2 = Q^2 / (g A1) + A1 y_bar1 on the same section by Brent's method to a
+    relative tolerance of 1e-12. Given a supercritical depth it returns the subcritical one and the other way
+    round; at critical depth it returns critical depth. In a rectangle this is Belanger's relation
+    y2 / y1 = (sqrt(1 + 8 Fr1^2) - 1) / 2 (Chow 1959, Eq. 3-21).
+
+    A rectangle 2 m wide carrying 4 m^3/s at 0.3 m (Fr1 = 2 / (0.3 sqrt(g 0.3)) = 3.886) jumps to
+    0.3 (sqrt(1 + 8 Fr1^2) - 1) / 2 = 1.5058 m:
+
+    >>> import hydraulics as hy
+    >>> round(sequent_depth(hy.Rectangle(bottom_width=2.0), 4.0, 0.3), 4)
+    1.5058
+    """
+    from scipy.optimize import brentq
+
+    _check_section(section)
+    q = validate.positive("flow", flow)
+    y = float(validate.positive("depth", depth))
+    yc = float(solve_critical_depth(section, q).depth)
+    m1 = specific_force(section, q, y)
+
+    def excess(h):
+        return q * q / (G * section._geometry(h).area) + section._first_moment(h) - m1
+
+    if abs(y - yc) <= 1e-12 * yc:
+        return yc
+    if y < yc:
+        hi = section.full_depth if section.full_depth is not None else 2.0 * yc
+        if section.full_depth is None:
+            while excess(hi) < 0:
+                hi *= 2.0
+        elif excess(hi) < 0:
+            raise NoSolutionError(f"the sequent depth of {y:.6g} m lies above the top of the section "
+                                  f"({hi:.6g} m): the jump would overtop it")
+        return brentq(excess, yc, hi, xtol=1e-15, rtol=1e-12, maxiter=200)
+    lo = 0.5 * yc
+    while excess(lo) < 0:
+        lo *= 0.5
+        if lo < 1e-300:
+            raise ConvergenceError(f"no supercritical sequent depth found for {y:.6g} m")
+    return brentq(excess, lo, yc, xtol=1e-15, rtol=1e-12, maxiter=200)
+
+
+def profile_type(depth, normal_depth, critical_depth, slope):
+    """The gradually varied flow profile type of ``depth`` [m] ("M1" ... "A3", "uniform" or "critical").
+
+    ``normal_depth`` [m] is ignored on a flat or adverse ``slope`` [m/m] (there is none); on a falling grade it
+    may be ``inf`` (the section cannot carry the flow at a normal depth, which is then above any depth here).
+    Classification restated in *Planning and Evaluation of Irrigation Projects* (Elsevier, 2017), Table 3.9;
+    a depth within PROFILE_BAND (0.1 %) of critical or normal depth is "critical" or "uniform".
+
+    >>> profile_type(1.2, 0.9, 0.5, 0.001), profile_type(0.3, 0.2, 0.5, 0.05), profile_type(0.6, None, 0.5, -0.01)
+    ('M1', 'S2', 'A2')
+    """
+    y, yc = float(depth), float(critical_depth)
+    if abs(y - yc) <= PROFILE_BAND * yc:
+        return "critical"
+    if slope < 0:
+        return "A2" if y > yc else "A3"
+    if slope == 0:
+        return "H2" if y > yc else "H3"
+    yn = float(normal_depth)
+    if math.isfinite(yn) and abs(y - yn) <= PROFILE_BAND * yn:
+        return "uniform"
+    if abs(yn - yc) <= PROFILE_BAND * yc:
+        return "C1" if y > yc else "C3"
+    if yn > yc:
+        return "M1" if y > yn else ("M2" if y > yc else "M3")
+    return "S1" if y > yc else ("S2" if y > yn else "S3")
+
+
+# ------------------------------------------------------------------------------------------------ the run's model
+
+class _Props:
+    """What applies at a computation node: section, roughness, flow and the slope of its stretch."""
+
+    __slots__ = ("section", "nfn", "nconst", "nkey", "flow", "slope", "yc", "yn", "yn_note", "top", "index",
+                 "_trap")
+
+    def __init__(self, section, rough, flow, slope, index):
+        self.section, (self.nfn, self.nconst, self.nkey) = section, rough
+        self.flow, self.slope = flow, slope
+        self.index = index
+        self.yc = self.yn = math.nan
+        self.yn_note = None
+        self.top = section.full_depth if section.full_depth is None else float(section.full_depth)
+        # the trapezoid family's closed forms inline (the same formulas as Trapezoid._geometry), for speed
+        self._trap = ((float(section.bottom_width), float(section._zsum), float(section._psum))
+                      if isinstance(section, Trapezoid) else None)
+
+    def key(self, section_key):
+        """Equal keys: equal props. Slopes from elevations and distances differ in their last digits along one
+        straight grade, so they are compared to 12 significant digits."""
+        return (self.flow, float(f"{self.slope:.12g}"), self.nkey, section_key)
+
+    # -- hydraulics at one depth (scalar fast path) --
+    def head_terms(self, y):
+        """Specific energy E [m], friction slope S_f [-], dE/dy and dS_f/dy at depth ``y``."""
+        if self._trap is not None:
+            b, zs, ps = self._trap
+            t = b + zs * y
+            a = (b + 0.5 * zs * y) * y
+            p = b + ps * y
+            dp = ps
+        else:
+            g = self.section._geometry(y)
+            a, p, t, dp = g.area, g.wetted_perimeter, g.top_width, g.dP_dy
+        q = self.flow
+        n = self.nconst if self.nconst is not None else self.nfn(y)
+        v2g = q * q / (2 * G * a * a)
+        sf = (q * n / (a * (a / p) ** (2 / 3))) ** 2
+        de = 1 - 2 * v2g * t / a
+        dsf = -2 * sf * (5 / 3 * t / a - 2 / 3 * dp / p)
+        return y + v2g, sf, de, dsf
+
+    def force(self, y):
+        return self.flow ** 2 / (G * self.section._geometry(y).area) + self.section._first_moment(y)
+
+
+
+
+@dataclass
+class _Node:
+    x: float
+    z: float
+    props: _Props
+    point: int  # design point index, or -1 for a step node, -2 for the upstream side of a change at a point
+
+
+@dataclass
+class _State:
+    y: float
+    status: int
+    energy: float = math.nan  # specific energy [m]
+    sf: float = math.nan
+
+
+def _state(props, y, status):
+    if status == _TOP or not math.isfinite(y):
+        return _State(y, status)
+    e, sf, _, _ = props.head_terms(y)
+    return _State(y, status, e, sf)
+
+
+def _solve_step(props, z, known, z_known, length, upstream):
+    """Depth at a node ``length`` [m] from a known state, on the subcritical (``upstream``) or supercritical branch.
+
+    Energy balance (standard step, mean friction slope): going upstream z + E - L/2 S_f = z_k + E_k + L/2 S_fk;
+    going downstream z + E + L/2 S_f = z_k + E_k - L/2 S_fk. Returns a _State (status _CRIT when the branch has no
+    root, _TOP when the subcritical root lies above the section's top).
+    """
+    half = 0.5 * length
+    c = -half if upstream else half
+    target = (z_known - z) + known.energy + (half if upstream else -half) * known.sf
+    yc = props.yc
+
+    def resid(y):
+        e, sf, de, dsf = props.head_terms(y)
+        return e + c * sf - target, de + c * dsf
+
+    r_c = resid(yc)[0]
+    if r_c >= -HEAD_TOLERANCE:
+        return _State(yc, _CRIT)
+    if upstream:  # residual rises with depth above critical depth
+        lo, hi = yc, math.inf
+        if props.top is not None:
+            hi = props.top
+            if resid(hi)[0] < 0:
+                return _State(hi, _TOP)
+        y = known.y if known.status == _OK and known.y > yc else 1.1 * yc
+        if y >= hi:
+            y = 0.5 * (lo + hi)
+    else:  # residual falls with depth below critical depth
+        lo, hi = 0.0, yc
+        y = known.y if known.status == _OK and known.y < yc else 0.9 * yc
+    for _ in range(_MAX_NEWTON):
+        r, dr = resid(y)
+        if abs(r) <= HEAD_TOLERANCE:
+            return _state(props, y, _OK)
+        if (r < 0) == upstream:
+            lo = y
+        else:
+            hi = y
+        step = y - r / dr if dr != 0 else math.nan
+        if lo < step < hi and math.isfinite(step):
+            y_new = step
+        elif math.isinf(hi):
+            y_new = 2.0 * y
+        else:
+            y_new = 0.5 * (lo + hi)
+        if math.isfinite(hi) and hi - lo <= 1e-14 * hi:  # the bracket is down to rounding
+            return _state(props, y_new, _OK)
+        y = y_new
+    raise ConvergenceError(f"the energy balance of a step did not converge in {_MAX_NEWTON} iterations "
+                           f"(depth {y:.6g} m, head residual {r:.3g} m, tolerance {HEAD_TOLERANCE:g} m)")
+
+
+def _advance(props, known, x0, z0, x1, z1, upstream, tol, level=0):
+    """Carry ``known`` (at x0, z0) to (x1, z1) on one stretch, halving the step while whole and halves differ."""
+    length = abs(x1 - x0)
+    full = _solve_step(props, z1, known, z0, length, upstream)
+    if length == 0.0 or (full.status != _OK and known.status != _OK):
+        return full
+    if full.status == _OK and known.status == _OK and abs(full.y - known.y) <= tol * full.y:
+        return full  # the whole change of depth is within the tolerance, so is the step's error (a part of it)
+    xm, zm = 0.5 * (x0 + x1), 0.5 * (z0 + z1)
+    a = _solve_step(props, zm, known, z0, 0.5 * length, upstream)
+    if a.status != _OK:
+        return _State(props.yc, a.status) if a.status == _CRIT else _State(math.nan, _TOP)
+    b = _solve_step(props, z1, a, zm, 0.5 * length, upstream)
+    if b.status != _OK:
+        return b if b.status == _CRIT else _State(math.nan, _TOP)
+    if (full.status == _OK and abs(full.y - b.y) <= tol * b.y) or 0.5 * length < MIN_STEP:
+        return b
+    a = _advance(props, known, x0, z0, xm, zm, upstream, tol, level + 1)
+    if a.status != _OK:
+        return _State(props.yc, a.status) if a.status == _CRIT else _State(math.nan, _TOP)
+    return _advance(props, a, xm, zm, x1, z1, upstream, tol, level + 1)
+
+
+# ------------------------------------------------------------------------------------------------ results
+
+@dataclass(frozen=True)
+class Jump:
+    """A hydraulic jump: its toe, sequent depths and length, SI."""
+
+    distance: float          # toe of the jump, along the flow [m]
+    upstream_depth: float    # supercritical depth at the toe y1 [m]
+    downstream_depth: float  # sequent depth y2 [m]
+    length: float            # length of the jump [m]
+    froude: float            # Froude number at the toe [-]
+    kind: str                # undular, weak, oscillating, steady, strong
+    notes: tuple = ()
+
+    def as_dict(self) -> dict:
+        return {"distance": self.distance, "upstream_depth": self.upstream_depth,
+                "downstream_depth": self.downstream_depth, "length": self.length, "froude": self.froude,
+                "kind": self.kind}
+
+
+@dataclass
+class WaterSurface:
+    """The computed water surface at each design point (arrays of the points' length), SI; see module docs."""
+
+    distance: np.ndarray
+    bed: np.ndarray
+    depth: np.ndarray
+    water_surface: np.ndarray
+    profile_type: list
+    regime: list
+    normal_depth: np.ndarray
+    critical_depth: np.ndarray
+    velocity: np.ndarray
+    froude: np.ndarray
+    energy: np.ndarray
+    messages: list
+    stretch_types: list
+    jumps: list
+    controls: dict
+    notes: list = field(default_factory=list)
+    detail_distance: np.ndarray = None
+    detail_bed: np.ndarray = None
+    detail_depth: np.ndarray = None
+    detail_profile_type: list = None
+
+
+# ------------------------------------------------------------------------------------------------ input
+
+def _per_point(field_name, value, count, kind):
+    if kind == "section":
+        if isinstance(value, Section):
+            return [value] * count
+    elif kind == "n":
+        if value is None or callable(value) or isinstance(value, Real):
+            return [value] * count
+    elif kind == "flow":
+        if isinstance(value, Real) and not isinstance(value, bool):
+            return [value] * count
+    try:
+        items = list(value)
+    except TypeError:
+        raise InputError(field_name, f"must be one value or one per point ({count}), got {value!r}") from None
+    if len(items) != count:
+        raise InputError(field_name, f"needs one value per point ({count}), got {len(items)}")
+    return items
+
+
+def _inputs(distance, bed, sections, n, flow):
+    x = np.atleast_1d(np.asarray(validate.number("distance", distance), dtype=float))
+    z = np.atleast_1d(np.asarray(validate.number("bed", bed), dtype=float))
+    if x.ndim != 1 or x.size < 2:
+        raise InputError("distance", f"needs at least two points, got {x.size}")
+    if z.shape != x.shape:
+        raise InputError("bed", f"needs one elevation per point ({x.size}), got {z.size}")
+    steps = np.diff(x)
+    if (steps <= 0).any():
+        i = int(np.argmax(steps <= 0))
+        raise InputError("distance", f"must rise strictly in the direction of flow (point {i + 2}: {x[i + 1]:g} m "
+                                     f"after {x[i]:g} m)")
+    secs = _per_point("sections", sections, x.size, "section")
+    for i, s in enumerate(secs):
+        _check_section(s, f"sections[{i}]")
+    ns = _per_point("n", n, x.size, "n")
+    rough = [_roughness(f"n[{i}]", v, secs[i]) for i, v in enumerate(ns)]
+    qs = [float(validate.positive(f"flow[{i}]", v)) for i, v in enumerate(_per_point("flow", flow, x.size, "flow"))]
+    return x, z, secs, rough, qs
+
+
+def _at(x):
+    return (x, "length")
+
+
+# ------------------------------------------------------------------------------------------------ the profile
+
+def water_surface(distance, bed, sections, n, flow, *, outfall="normal", outfall_level=None, inlet="normal",
+                  max_step=10.0, step_tolerance=1e-4) -> WaterSurface:
+    """The water surface along a run by the standard step method, with its controls and hydraulic jumps.
+
+    See the module documentation for the inputs, the method, its sources and the returned fields.
+
+    Raises
+    ------
+    InputError
+        A missing or malformed input, named; a normal-depth control on a stretch that does not fall.
+    NoSolutionError
+        No critical depth at a point (a closed or surveyed section too small for the flow).
+    ConvergenceError
+        A step's energy balance did not reach HEAD_TOLERANCE.
+    """
+    x, z, secs, rough, qs = _inputs(distance, bed, sections, n, flow)
+    count = x.size
+    if outfall_level is not None:
+        if outfall not in ("normal", "level"):
+            raise InputError("outfall", f"is {outfall!r} but an outfall_level was given; use 'level' or leave it out")
+        outfall = "level"
+        level = float(validate.number("outfall_level", outfall_level))
+    elif outfall not in ("normal", "critical", "level"):
+        raise InputError("outfall", f"must be 'normal', 'critical' or 'level', got {outfall!r}")
+    elif outfall == "level":
+        raise InputError("outfall_level", "is missing (the water-surface elevation at the outfall [m])")
+    if isinstance(inlet, str):
+        if inlet not in ("normal", "critical"):
+            raise InputError("inlet", f"must be 'normal', 'critical' or a depth in m, got {inlet!r}")
+    else:
+        inlet = float(validate.positive("inlet", inlet))
+    max_step = float(validate.positive("max_step", max_step))
+    step_tolerance = float(validate.number("step_tolerance", step_tolerance, low=0.0, high=0.1))
+
+    slopes = (z[:-1] - z[1:]) / np.diff(x)
+    point_slope = np.append(slopes, slopes[-1])
+
+    # -- what applies at each point, shared between equal points
+    shared, point_props, section_keys = {}, [], {}
+    for i in range(count):
+        p = _Props(secs[i], rough[i], qs[i], float(point_slope[i]), i)
+        if id(secs[i]) not in section_keys:  # sections of one shape and dimensions are one section
+            section_keys[id(secs[i])] = repr(secs[i].to_dict())
+        p = shared.setdefault(p.key(section_keys[id(secs[i])]), p)
+        point_props.append(p)
+    props_list = list(shared.values())
+    notes = []
+    point_msgs = [[] for _ in range(count)]
+    for p in props_list:
+        try:
+            p.yc = float(solve_critical_depth(p.section, p.flow).depth)
+        except NoSolutionError as exc:
+            raise NoSolutionError(f"no critical depth at distance {x[p.index]:g} m: {exc}") from None
+        if p.slope > 0:
+            try:
+                n_arg = p.nconst if p.nconst is not None else (
+                    None if p.nkey[0] == "composite" else _ModelN(p.nfn))
+                p.yn = float(solve_normal_depth(p.section, p.flow, p.slope, n_arg).depth)
+            except InputError as exc:
+                raise InputError("bed", f"the stretch from {x[p.index]:g} m has a grade of {p.slope:g}: "
+                                        f"{exc}") from None
+            except NoSolutionError as exc:
+                p.yn = math.inf
+                p.yn_note = str(exc)
+
+    # -- computation nodes: each point, the steps of its stretch, and the upstream side of a change at the next point
+    nodes = []
+    for i in range(count - 1):
+        p = point_props[i]
+        nodes.append(_Node(float(x[i]), float(z[i]), p, i))
+        pieces = max(1, math.ceil((x[i + 1] - x[i]) / max_step - 1e-9))
+        for k in range(1, pieces):
+            f = k / pieces
+            nodes.append(_Node(float(x[i] + f * (x[i + 1] - x[i])), float(z[i] + f * (z[i + 1] - z[i])), p, -1))
+        if point_props[i + 1] is not p:
+            nodes.append(_Node(float(x[i + 1]), float(z[i + 1]), p, -2))
+    nodes.append(_Node(float(x[-1]), float(z[-1]), point_props[-1], count - 1))
+    size = len(nodes)
+
+    # -- subcritical pass, upstream from the outfall
+    last = nodes[-1].props
+    controls = {}
+    if outfall == "normal":
+        if last.slope <= 0:
+            raise InputError("outfall", f"normal depth needs a falling last stretch, its grade is {last.slope:g}; "
+                                        "give the outfall water level, or choose critical depth (a free outfall)")
+        if not math.isfinite(last.yn):
+            raise NoSolutionError(f"no normal depth at the outfall: {last.yn_note}")
+        y0 = last.yn
+    elif outfall == "critical":
+        y0 = last.yc
+    else:
+        y0 = level - z[-1]
+    control_msg = None
+    below_critical = y0 <= last.yc and outfall != "critical"
+    if outfall == "level" and below_critical:
+        control_msg = worded("the outfall water level {level} is below the critical-depth level {crit}: it does not "
+                             "control, the flow passes through critical depth at the outfall",
+                             level=(level, "length"), crit=(z[-1] + last.yc, "length"))
+        sub_start = _State(last.yc, _OK)
+    elif outfall == "normal" and below_critical:
+        sub_start = _State(last.yc, _CRIT)  # supercritical normal depth: no subcritical control at the outfall
+        control_msg = worded("normal depth at the outfall ({y}) is below critical depth ({yc}) on the steep last "
+                             "stretch: it does not control, the depth there is set from upstream",
+                             y=(y0, "length"), yc=(last.yc, "length"))
+    elif last.top is not None and y0 > last.top:
+        sub_start = _State(math.nan, _TOP)
+        control_msg = worded("the outfall water level {level} is above the top of the section ({top} deep): the "
+                             "flow there is not open-channel flow, and the water surface is not computed",
+                             level=(level, "length"), top=(last.top, "length"))
+    else:
+        sub_start = _State(y0, _OK)
+    sub = [None] * size
+    sub[-1] = _state(last, sub_start.y, sub_start.status)
+    stop_at = x[-1] if sub_start.status == _TOP else None
+    for k in range(size - 2, -1, -1):
+        a, b = nodes[k], nodes[k + 1]
+        known = sub[k + 1]
+        if known.status == _TOP:
+            sub[k] = _State(math.nan, _TOP)
+            continue
+        if known.status == _CRIT:
+            known = _state(b.props, b.props.yc, _CRIT)
+        # Two nodes a step apart lie on one stretch and share its props; at a change at a point (a step of length
+        # zero) the energy is carried onto the props of the node reached.
+        s = _advance(a.props, known, b.x, b.z, a.x, a.z, True, step_tolerance)
+        if s.status == _TOP and stop_at is None:
+            stop_at = a.x
+        sub[k] = s
+    if stop_at is not None:
+        notes.append(worded("the subcritical water surface rises above the top of the section at {at}: the profile "
+                            "upstream of it is not computed", at=_at(stop_at)))
+
+    # -- supercritical pass, downstream from the inlet, deciding at each node which profile governs. Supercritical
+    # flow goes on only from a node where it governs, or starts afresh from critical depth where the flow passes
+    # through it (a control); downstream of a jump it is gone until the next such control.
+    first = nodes[0].props
+    if inlet == "normal":
+        if first.slope > 0 and first.yn < first.yc:
+            start = _State(first.yn, _OK)
+        else:
+            start = _State(first.yc, _CRIT)
+    elif inlet == "critical":
+        start = _State(first.yc, _OK)
+    else:
+        start = _State(inlet, _OK) if inlet < first.yc else _State(first.yc, _CRIT)
+    sup = [None] * size
+    depth = np.full(size, math.nan)
+    branch = [""] * size
+    for k, node in enumerate(nodes):
+        p = node.props
+        if k == 0:
+            u = _state(first, start.y, start.status)
+        elif branch[k - 1] in ("sup", "crit"):
+            a = nodes[k - 1]
+            known = sup[k - 1] if branch[k - 1] == "sup" else _state(a.props, a.props.yc, _CRIT)
+            u = _advance(p, known, a.x, a.z, node.x, node.z, False, step_tolerance)
+        else:
+            u = _State(p.yc, _CRIT)  # subcritical upstream, no control between: no supercritical flow here
+        sup[k] = u
+        s = sub[k]
+        if s.status == _OK and u.status == _OK:
+            branch[k] = "sup" if p.force(u.y) > p.force(s.y) else "sub"
+        elif s.status == _OK:
+            branch[k] = "sub"
+        elif u.status == _OK:
+            branch[k] = "sup"
+        elif s.status == _TOP:
+            branch[k] = "none"
+        else:
+            branch[k] = "crit"
+        depth[k] = {"sub": s.y, "sup": u.y, "crit": p.yc, "none": math.nan}[branch[k]]
+
+    # -- hydraulic jumps where the supercritical flow gives way to the subcritical
+    jumps = []
+    for k in range(size - 1):
+        if branch[k] == "sup" and branch[k + 1] == "sub":
+            jumps.append(_locate_jump(nodes[k], nodes[k + 1], sup[k], sub[k + 1], step_tolerance))
+
+    # -- per node: profile type; per point: the results
+    node_types = []
+    for k, node in enumerate(nodes):
+        p = node.props
+        node_types.append("not computed" if not math.isfinite(depth[k]) else
+                          profile_type(depth[k], p.yn, p.yc, p.slope))
+    point_nodes = [k for k, node in enumerate(nodes) if node.point >= 0]
+    d = depth[point_nodes]
+    regime, vel, fr, energy = [], np.full(count, math.nan), np.full(count, math.nan), np.full(count, math.nan)
+    for i, k in enumerate(point_nodes):
+        p = nodes[k].props
+        if p.yn_note:
+            point_msgs[i].append("no normal depth: " + p.yn_note)
+        if not math.isfinite(depth[k]):
+            regime.append("not computed")
+            point_msgs[i].append(worded("not computed: the water surface downstream rises above the top of the "
+                                        "section (at {at})", at=_at(stop_at)))
+            continue
+        g = p.section._geometry(float(depth[k]))
+        vel[i] = p.flow / g.area
+        fr[i] = vel[i] / math.sqrt(G * g.area / g.top_width) if g.top_width > 0 else math.inf
+        energy[i] = z[i] + depth[k] + vel[i] ** 2 / (2 * G)
+        regime.append("critical" if branch[k] == "crit" or abs(fr[i] - 1) <= 1e-6 else
+                      "supercritical" if fr[i] > 1 else "subcritical")
+        if branch[k] == "crit" and 0 < i < count - 1:
+            point_msgs[i].append("the flow passes through critical depth here: a control, which sets the water "
+                                 "surface upstream (as where a milder stretch meets a steeper one)")
+    stretch_types = []
+    for i in range(count - 1):
+        seen = []
+        for k in range(point_nodes[i], point_nodes[i + 1]):
+            t = node_types[k]
+            if t not in seen:
+                seen.append(t)
+        stretch_types.append(seen)
+
+    # -- controls and what became of them
+    out_k, in_k = size - 1, 0
+    out_governs = branch[out_k] == "sub" and sub_start.status == _OK and not below_critical
+    if branch[out_k] == "sup" and outfall != "critical" and not below_critical:
+        what = "water level" if outfall == "level" else "normal depth"
+        try:
+            y2 = sequent_depth(last.section, last.flow, float(depth[out_k]))
+            control_msg = worded("the {what} at the outfall cannot hold: the supercritical flow arriving there "
+                                 "(depth {y1}) would need a depth of {y2} to jump, so the jump forms beyond the "
+                                 "outfall", what=what, y1=(depth[out_k], "length"), y2=(y2, "length"))
+        except NoSolutionError as exc:
+            control_msg = worded("the {what} at the outfall cannot hold: the supercritical flow arriving there (depth "
+                                 "{y1}) keeps going; " + str(exc).replace("{", "{{").replace("}", "}}"), what=what,
+                                 y1=(depth[out_k], "length"))
+    controls["outfall"] = {"kind": outfall, "depth": float(y0), "level": float(z[-1] + y0),
+                           "governs": bool(out_governs), "message": control_msg}
+    if control_msg:
+        point_msgs[-1].append(control_msg)
+    inlet_depth = first.yn if inlet == "normal" else first.yc if inlet == "critical" else inlet
+    inlet_msg = None
+    in_governs = branch[in_k] == "sup"
+    if sup[in_k].status == _OK and branch[in_k] == "sub":
+        inlet_msg = worded("the supercritical inflow assumed at the top (depth {y}) is drowned by the water backed up "
+                           "from downstream (depth {y2}): a jump at or above the top of the run",
+                           y=(sup[in_k].y, "length"), y2=(depth[in_k], "length"))
+    elif isinstance(inlet, float) and inlet >= first.yc:
+        inlet_msg = worded("the depth {y} given at the top is not below critical depth ({yc}): it cannot control "
+                           "the flow from upstream; the depth there comes from downstream",
+                           y=(inlet, "length"), yc=(first.yc, "length"))
+    controls["inlet"] = {"kind": inlet if isinstance(inlet, str) else "depth",
+                         "depth": float(inlet_depth) if math.isfinite(inlet_depth) else math.nan,
+                         "level": float(z[0] + inlet_depth) if math.isfinite(inlet_depth) else math.nan,
+                         "governs": bool(in_governs), "message": inlet_msg}
+    if inlet_msg:
+        point_msgs[0].append(inlet_msg)
+    controls["critical_sections"] = sorted({nodes[k].x for k in range(1, size - 1) if branch[k] == "crit"})
+
+    # -- jumps: cautions at the points they cover
+    for jump in jumps:
+        for i in range(count):
+            if jump.distance <= x[i] <= jump.distance + jump.length:
+                point_msgs[i].append(worded("in the hydraulic jump from {a} to {b} ({kind}, Froude number {fr}): "
+                                            "turbulence and surface waves; the lining through and below the jump "
+                                            "needs protection", a=_at(jump.distance),
+                                            b=_at(jump.distance + jump.length), kind=jump.kind,
+                                            fr=f"{jump.froude:.2f}"))
+
+    yn_points = np.array([p.yn if p.slope > 0 and math.isfinite(p.yn) else math.nan for p in point_props])
+    return WaterSurface(
+        distance=x, bed=z, depth=d, water_surface=z + d, profile_type=[node_types[k] for k in point_nodes],
+        regime=regime, normal_depth=yn_points, critical_depth=np.array([p.yc for p in point_props]),
+        velocity=vel, froude=fr, energy=energy, messages=point_msgs, stretch_types=stretch_types, jumps=jumps,
+        controls=controls, notes=notes,
+        detail_distance=np.array([node.x for node in nodes]), detail_bed=np.array([node.z for node in nodes]),
+        detail_depth=depth, detail_profile_type=node_types)
+
+
+def _jump_kind(fr):
+    kind = "undular"
+    for low, name in JUMP_KINDS:
+        if fr >= low:
+            kind = name
+    return kind
+
+
+def _locate_jump(a, b, sup_a, sub_b, tol):
+    """The toe of the jump between nodes ``a`` (supercritical governs) and ``b`` (subcritical governs)."""
+    p = a.props
+    if a.x == b.x:  # at a change of section or flow: the jump stands at the point
+        x_toe, y1 = a.x, sup_a.y
+    else:
+        m = JUMP_GRID
+        xs = [a.x + (b.x - a.x) * i / m for i in range(m + 1)]
+        zs = [a.z + (b.z - a.z) * i / m for i in range(m + 1)]
+        ups = [sup_a]
+        for i in range(1, m + 1):
+            known = ups[-1] if ups[-1].status == _OK else _state(p, p.yc, _CRIT)
+            s = _advance(p, known, xs[i - 1], zs[i - 1], xs[i], zs[i], False, tol)
+            ups.append(_state(p, s.y, s.status) if s.status == _OK else _State(p.yc, _CRIT))
+        downs = [None] * (m + 1)
+        downs[m] = sub_b
+        for i in range(m - 1, -1, -1):
+            known = downs[i + 1] if downs[i + 1].status == _OK else _state(p, p.yc, _CRIT)
+            s = _advance(p, known, xs[i + 1], zs[i + 1], xs[i], zs[i], True, tol)
+            downs[i] = _state(p, s.y, s.status) if s.status == _OK else _State(p.yc, _CRIT)
+        diff = [p.force(u.y) - p.force(w.y if w.status == _OK else p.yc) for u, w in zip(ups, downs)]
+        i = next((i for i in range(1, m + 1) if diff[i] <= 0), None)
+        if i is None:  # the finer steps carry the supercritical flow to the far node: the toe stands there
+            i, f = m, 1.0
+        else:
+            f = min(1.0, max(0.0, diff[i - 1] / (diff[i - 1] - diff[i]))) if diff[i - 1] != diff[i] else 1.0
+        x_toe = xs[i - 1] + f * (xs[i] - xs[i - 1])
+        y1 = ups[i - 1].y + f * (ups[i].y - ups[i - 1].y)
+    y2 = sequent_depth(p.section, p.flow, y1)
+    g = p.section._geometry(y1)
+    fr = p.flow / g.area / math.sqrt(G * g.area / g.top_width)
+    notes = [f"sequent depth from the momentum balance on a level bed (specific force preserved: "
+             f"{provenance.cite('specific_force')}); length L = 6 y2 ({provenance.cite('jump_length')})"]
+    lo, hi = JUMP_LENGTH_FROUDE
+    if not lo < fr < hi:
+        notes.append(f"Froude number {fr:.2f} is outside {lo:g} to {hi:g}, where L = 6 y2 was measured; the jump is "
+                     "somewhat shorter there, so the length given is an upper estimate")
+    if a.x == b.x:
+        notes.append("the jump stands at a change of section or flow; its sequent depth is that of the upstream "
+                     "section")
+    return Jump(distance=float(x_toe), upstream_depth=float(y1), downstream_depth=float(y2),
+                length=float(JUMP_LENGTH_RATIO * y2), froude=float(fr), kind=_jump_kind(fr), notes=tuple(notes))
