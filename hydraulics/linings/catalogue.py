@@ -176,6 +176,10 @@ def _validate_entry(raw: dict, origin: str, index: int) -> dict:
     _unknown(w, rough, allowed, "roughness")
     _check_sources(w, rough, "roughness")
     _text(w, rough, "source", "roughness.source", required=False)
+    if "product_class" in rough:
+        if category != "manufactured":
+            w.fail("roughness.product_class", f"only belongs to category 'manufactured', got {category!r}")
+        _choice(w, rough, "product_class", "roughness.product_class", tuple(hec15.RECP_CLASSES))
     if model == "constant":
         n = _num(w, rough, "n", "roughness.n", low=0.0, high=1.0, required=need)
         n_min = _num(w, rough, "n_min", "roughness.n_min", low=0.0, high=1.0, required=False)
@@ -184,10 +188,6 @@ def _validate_entry(raw: dict, origin: str, index: int) -> dict:
             w.fail("roughness.n", f"must be >= n_min ({n_min:g}), got {n:g}")
         if n is not None and n_max is not None and n > n_max:
             w.fail("roughness.n", f"must be <= n_max ({n_max:g}), got {n:g}")
-        if "product_class" in rough:
-            if category != "manufactured":
-                w.fail("roughness.product_class", f"only belongs to category 'manufactured', got {category!r}")
-            _choice(w, rough, "product_class", "roughness.product_class", tuple(hec15.RECP_CLASSES))
     elif model == "stone":
         _choice(w, rough, "method", "roughness.method", STONE_METHODS, default="auto")
         if category not in STONE_TABLE_CATEGORIES:
