@@ -101,7 +101,7 @@ def describe_error(exc: Exception) -> tuple[str, str | None]:
 # -- the linings of the catalogue, named for the window -------------------------------
 #: The kinds of lining, in the order the window lists them, with their headings.
 LINING_KINDS = (("rigid", "Rigid"), ("stone", "Stone"), ("vegetation", "Grass"),
-                ("manufactured", "Blankets and mats"), ("soil", "Bare soil"))
+                ("manufactured", "Blankets and mats"), ("gabion", "Gabion mattresses"), ("soil", "Bare soil"))
 
 
 def comparison_label(row, context: Context) -> str:

@@ -26,6 +26,9 @@ NEH Part 630 Ch. 15: USDA NRCS, *National Engineering Handbook* Part 630
 Hydrology, Chapter 15, Time of Concentration, 2010.
 TxDOT HDM: Texas Department of Transportation, *Hydraulic Design Manual*
 (online edition), Chapter 4, Hydrology.
+Freeman and Fischenich (2000): Freeman, G. E. and Fischenich, J. C., *Gabions for
+Streambank Erosion Control*, U.S. Army Engineer Research and Development Center,
+ERDC TN-EMRRP-SR-22, May 2000.
 Campos et al. (2020): Campos, J. N. B., Studart, T. M. de C., de Souza Filho,
 F. de A. and Porto, V. C., "On the rainfall intensity-duration-frequency
 curves, partial-area effect and the rational method: theory and the
@@ -53,9 +56,18 @@ READ_IN = {
                 "archived copy)",
     "fhwa-ch3": "FHWA web edition of HEC-15, Chapter 3 (.../pubs/05114/hec1503.cfm)",
     "fhwa-ch4": "FHWA web edition of HEC-15, Chapter 4 (.../pubs/05114/hec1504.cfm, archived copy)",
+    "fhwa-ch5": "FHWA web edition of HEC-15, Chapter 5 (.../pubs/05114/hec1505.cfm, archived copy), its opening "
+                "with Table 5.1",
     "fhwa-ch6": "FHWA web edition of HEC-15, Chapter 6 (.../pubs/05114/hec1506.cfm)",
     "fhwa-ch7": "FHWA web edition of HEC-15, Chapter 7 (.../pubs/05114/hec1507.cfm, archived copy)",
     "fhwa-appd": "FHWA web edition of HEC-15, Appendix D (.../pubs/05114/hec15appd.cfm)",
+    "restated-2.1.3": "restatement of HEC-15 Section 2.1.3 (plainwater.co, \"Trapezoidal channel Manning's n\", "
+                      "plainwater.co/water/trapezoidal-channel-mannings-n)",
+    "hec22-ch5": "HEC-22, 3rd ed. (2009), Chapter 5, Table 5-1 and Section 5.3.2, which give HEC-15's values with a "
+                 "reference to it, read in a markdown copy of the manual (GitHub SWMMEnablement/SWMM_MD_Documents, "
+                 "\"HEC 22 (3rd edition 2009).md\")",
+    "erdc-gabions": "Freeman and Fischenich (2000), ERDC TN-EMRRP-SR-22, p. 1 (scribd.com/doc/162856207)",
+    "civil-tips-gabions": "civilengineeringtips.net, \"Gabions\" (civilengineeringtips.net/tag/gabions/)",
     "restated-6.2": "restatement of HEC-15 Section 6.2 with its equations in text "
                     "(plainwater.co, \"HEC-15: Permissible Shear Stress\")",
     "tr55-ch3": "TR-55 (1986) Chapter 3, its first page with Eqs. 3-1 and 3-2 (copy at "
@@ -199,6 +211,32 @@ REGISTER: dict = _entries(
               "1.0 N/m^2 for D75 < 1.3 mm; 0.75 D75 (N/m^2, D75 in mm) from 1.3 to 50 mm", "HEC-15 Section 4.3"),
     Published("table_4_6", "permissible shear of cohesive soil",
               "tau_p = (c1 PI^2 + c2 PI + c3)(c4 + c5 e)^2 c6", "HEC-15 Table 4.6"),
+    # ---------------------------------------------------------------- HEC-15 Chapters 5 and 7
+    Published("recp_types", "classes of rolled erosion control product (RECP)",
+              "open-weave textile (e.g. jute net), erosion control blanket (e.g. curled wood mat), turf-reinforcement "
+              "mat (TRM, e.g. synthetic mat)", "HEC-15 Table 5.1", ("fhwa-ch5",)),
+    Published("recp_n_classes", "Manning's n of each class of RECP (minimum, typical, maximum)",
+              "open-weave textile 0.022, 0.025, 0.028; erosion control blanket 0.028, 0.035, 0.045; turf "
+              "reinforcement mat 0.024, 0.030, 0.036 (a rough estimate for the class)",
+              "HEC-22 (2009) Table 5-1, giving HEC-15 Table 2.1", ("hec22-ch5", "restated-2.1.3"),
+              "the rows were read in HEC-22's table, which cites HEC-15 for them; HEC-15 Section 2.1.3 (restated) says "
+              "Table 2.1 holds them as a rough estimate and that Chapter 5 has more; the program only checks a "
+              "product's data-sheet n against them"),
+    Published("recp_soil", "permissible shear of RECP and grass linings",
+              "\"these lining types do not have permissible shear stresses independent of soil type\"",
+              "HEC-22 (2009) Section 5.3.2, summarising HEC-15", ("hec22-ch5",),
+              "HEC-15 Chapter 5's conversion of a product's tested value to the site soil could not be read: the "
+              "data-sheet value is used as it is and the sheet says so"),
+    Published("gabion_n", "Manning's n of a gabion mattress",
+              "the riprap and gravel relations of Section 6.1 with the D50 of the basket rock; the mesh neglected",
+              "HEC-15 Section 7.1", ("fhwa-ch7",)),
+    Published("mattress_thickness", "usual thickness of a gabion mattress", "0.5 to 1.5 ft (0.15 to 0.46 m)",
+              "Freeman and Fischenich (2000), p. 1", ("erdc-gabions",),
+              "outside it the program warns; HEC-15's own limits (Section 7.2) could not be read"),
+    Published("gabion_fill_size", "largest stone of a gabion fill",
+              "\"not greater than 2/3 of the thickness of the basket or mattress\"",
+              "civilengineeringtips.net, \"Gabions\" (common practice)", ("civil-tips-gabions",),
+              "the program warns where the fill's D50 exceeds 2/3 of the mattress thickness"),
     # ---------------------------------------------------------------- other publications
     Published("rational_area", "largest area for the rational method", "80 ha (200 acres)", "HEC-22 Section 3.2"),
     Published("kirpich_range", "data range of Kirpich's formula", "1.2 to 112 acres, slopes 3 to 10 %",

@@ -84,6 +84,8 @@ def stretch_quantities(x, lined_width, layer_volume, candidate, *, choice: int, 
         items += [Quantity("stone layer volume", vol, "volume"),
                   Quantity("stone mass", vol * (1.0 - stone_porosity) * density, "mass"),
                   Quantity("filter or geotextile surface", surface, "surface")]
+    elif category == "gabion" and vol is not None:
+        items.append(Quantity("gabion mattress volume", vol, "volume"))
     elif category in ("vegetation", "manufactured"):
         what = "seeded or sodded surface" if category == "vegetation" else "mat surface"
         items.append(Quantity(f"{what} (with {100 * mat_allowance:g} % for laps and anchor trenches)",

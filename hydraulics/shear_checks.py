@@ -5,7 +5,8 @@ design shear tau_d = gamma d S at the maximum depth (Eq. 3.1), on the side
 slopes K1 tau_d (Section 3.3) and in a bend Kb tau_d (Section 3.4); the
 lining's permissible shear (stone: Eq. 6.7 with Table 6.1 at the particle
 Reynolds number, K2 on side slopes, Appendix D on steep slopes; grass and soil:
-Chapter 4; rolled products: the user's data-sheet value); and the safety
+Chapter 4; rolled products: the user's data-sheet value; gabion mattresses:
+the designer's value, the fill checked against the mattress); and the safety
 factor against the required one (Eq. 3.2). One channel
 (:func:`hydraulics.stability.check_lining`) and thousands
 (:mod:`hydraulics.many_reaches`) go through the same :func:`shear_checks`. Where each
@@ -199,6 +200,33 @@ def _other_resistance(lining, method, manning_n, d50, sf_min, size) -> _BedResis
     return _BedResistance(tau_p, np.full(size, sf_min))
 
 
+def _gabion_resistance(lining, d50, sf_min, size) -> _BedResistance:
+    """A gabion mattress: the designer's permissible shear for the mattress, its fill checked against its thickness.
+
+    HEC-15 Section 7.2 relates a mattress's permissible shear to its rock
+    size and thickness; that relation could not be read for this program, so
+    the value is the entry's own (user data). The rock fill is checked against
+    the mattress thickness (:func:`hec15.gabion_fill_check`). On side slopes
+    the mattress is checked like the bed, against K1 tau_d.
+    """
+    if d50 is not None:
+        raise InputError("d50", f"a gabion mattress takes the D50 of its rock fill from its catalogue entry "
+                                f"(stone.d50 of {lining.key!r})")
+    hec15.gabion_fill_check(*lining.gabion_mattress())
+    tau_p = float(validate.positive(f"lining {lining.key!r} permissible.shear", lining.field_value("permissible",
+                                                                                                    "shear")))
+    return _BedResistance(np.full(size, tau_p), np.full(size, sf_min))
+
+
+def _bed_resistance(lining, method, y, s, manning_n, d50, sf_min, size) -> _BedResistance:
+    """The lining's resistance on the bed by its permissible-shear method."""
+    if method == "shields":
+        return _stone_resistance(lining, y, s, d50, sf_min, size)
+    if method == "gabion":
+        return _gabion_resistance(lining, d50, sf_min, size)
+    return _other_resistance(lining, method, manning_n, d50, sf_min, size)
+
+
 def _ratio(permissible, design, applies):
     """Safety factor tau_p / tau where the check applies (inf where it does not, or where there is no shear)."""
     with np.errstate(divide="ignore", invalid="ignore"):
@@ -295,6 +323,9 @@ def shear_checks(lining: Lining, depth, slope, manning_n=None, *, d50=None, left
       (Chapter 4);
     * bare soil (``soil``): the soil's permissible shear (Chapter 4);
     * rolled products (``value``): the user's data-sheet value;
+    * gabion mattresses (``gabion``): the designer's value for the
+      mattress (HEC-15 Section 7.2's relation could not be read), its rock
+      fill checked against its thickness; side slopes against K1 tau_d;
     * rigid linings (``none``): non-erodible, not checked (common practice:
       the method is written for flexible linings).
 
@@ -349,7 +380,7 @@ def shear_checks(lining: Lining, depth, slope, manning_n=None, *, d50=None, left
     References
     ----------
     Kilgore, R. T. and Cotton, G. K., Design of Roadside Channels with Flexible
-    Linings, HEC-15, 3rd ed., FHWA-NHI-05-114, 2005: Chapters 3, 4 and 6 and
+    Linings, HEC-15, 3rd ed., FHWA-NHI-05-114, 2005: Chapters 3 to 7 and
     Appendix D.
     """
     if not isinstance(lining, Lining):
@@ -362,8 +393,7 @@ def shear_checks(lining: Lining, depth, slope, manning_n=None, *, d50=None, left
     tau = hec15.design_shear(y, s)
     rc, top = _bend_inputs(bend_radius, top_width, size)
     stone = method == "shields"
-    bed = (_stone_resistance(lining, y, s, d50, sf_min, size) if stone
-           else _other_resistance(lining, method, manning_n, d50, sf_min, size))
+    bed = _bed_resistance(lining, method, y, s, manning_n, d50, sf_min, size)
     checks = [_bed_check(tau, bed, size)]
     if left_slope is not None:
         checks += _side_checks(lining, stone, bed, tau, y, s, left_slope, right_slope, size, incipient)

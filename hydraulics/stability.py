@@ -19,7 +19,8 @@ together in the order of HEC-15 Chapter 3:
    side slopes by the tractive force ratio K2, or by the steep-slope method of
    Appendix D on slopes steeper than ``hec15.STEEP_SLOPE``; grass from its soil
    and cover (Chapter 4); bare soil (Chapter 4); rolled products from the
-   user's data-sheet value; rigid linings are treated as non-erodible;
+   user's data-sheet value; gabion mattresses from the designer's value, with
+   n from the rock fill (Chapter 7); rigid linings are treated as non-erodible;
 4. the lining is stable where permissible / design >= the required safety
    factor at every location checked (HEC-15 Eq. 3.2, tau_p >= SF tau_d);
 5. for stone, the smallest stable D50 and the layer thickness;
@@ -316,6 +317,8 @@ def _lined_perimeter(section, depth):
 
 def _roughness_text(lining: Lining, relation: str) -> str:
     src = lining.roughness_data.get("source", "")
+    if relation in _RELATION_WORDS and lining.category == "gabion":
+        return f"{_RELATION_WORDS[relation]}, with the D50 of the mattress's rock fill ({cite('gabion_n')})"
     if relation in _RELATION_WORDS:
         return _RELATION_WORDS[relation]
     if relation == "vegetation":
@@ -515,10 +518,35 @@ def _method_notes(lining, method, s, n_used, tau_p) -> list:
                        "lining n {n} ({source})", tau_s=(float(lining.soil_permissible_shear()), "shear"),
                        cf=f"{float(lining.cover_factor()):g}", ns=f"{float(lining.soil_grain_n()):.3g}",
                        n=f"{n_used:.3g}", source=source)]
+    if method == "gabion":
+        return [_gabion_note(lining, tau_p, source)]
+    if method == "value" and lining.category == "manufactured":
+        return _product_notes(lining, n_used, tau_p, source)
     if method == "value" and lining.user_data:
         return [worded("permissible shear {tau_p} and n are user data ({source})", tau_p=(tau_p, "shear"),
                        source=source)]
     return []
+
+
+def _gabion_note(lining, tau_p, source) -> str:
+    """What a gabion mattress's check rests on: n from its fill (HEC-15 Section 7.1), the designer's tau_p."""
+    d50, thickness = lining.gabion_mattress()
+    return worded("gabion mattress {t} thick with rock fill of D50 {d}: Manning's n from the fill ({n_src}); "
+                  "permissible shear {tau_p} as entered ({source}); HEC-15 Section 7.2's relation of the rock size "
+                  "and the mattress thickness is not built into this program, so check the value against it; the "
+                  "side slopes are checked against K1 times the bed shear, like the bed",
+                  t=(thickness, "small_length"), d=(d50, "small_length"), n_src=cite("gabion_n"),
+                  tau_p=(tau_p, "shear"), source=source)
+
+
+def _product_notes(lining, n_used, tau_p, source) -> list:
+    """A rolled product's data-sheet values: its n against its class (HEC-15 Table 2.1), its tau_p and the soil."""
+    if lining.product_class is not None and lining.roughness_data.get("model") == "constant":
+        hec15.recp_data_sheet_n(n_used, lining.product_class)     # a ValidityWarning when outside its class
+    return [worded("permissible shear {tau_p} and n are the product's data-sheet values ({source}); they hold for "
+                   "the soil and the vegetation the product was tested with: rolled products have no permissible "
+                   "shear independent of the soil ({soil}), and HEC-15 Chapter 5's conversion to the site soil is "
+                   "not built into this program", tau_p=(tau_p, "shear"), source=source, soil=cite("recp_soil"))]
 
 
 def _quantities(lining, section, depth_at_top, d50):

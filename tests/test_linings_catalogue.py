@@ -33,11 +33,12 @@ def raw():
 
 def test_shipped_catalogue_loads_with_required_keys(shipped):
     for key in ("concrete", "riprap", "gravel", "concrete_trowel", "concrete_float", "concrete_unfinished",
-                "asphalt", "grouted_riprap", "blanket_user", "trm_user", "soil_noncohesive", "soil_cohesive"):
+                "asphalt", "grouted_riprap", "blanket_user", "trm_user", "open_weave_user", "soil_noncohesive",
+                "soil_cohesive", "gabion_mattress_user"):
         assert key in shipped
     assert shipped.schema_version == 1 and shipped.catalogue_version
     cats = {lin.category for lin in shipped}
-    assert cats == {"rigid", "stone", "vegetation", "manufactured", "soil"}
+    assert cats == {"rigid", "stone", "vegetation", "manufactured", "soil", "gabion"}
     assert len(shipped.by_category("vegetation")) >= 3
 
 
@@ -47,7 +48,7 @@ def test_no_price_is_shipped(shipped):
 
 
 def test_user_data_entries_name_no_product_and_carry_no_values(shipped):
-    for key in ("blanket_user", "trm_user"):
+    for key in ("blanket_user", "trm_user", "open_weave_user"):
         lin = shipped.get(key)
         assert lin.user_data and "user data" in lin.name.lower()
         assert "n" not in lin.roughness_data and "shear" not in lin.permissible_data

@@ -39,9 +39,11 @@ __all__ = [
 
 #: Layout version this code reads.
 SCHEMA_VERSION = 1
-CATEGORIES = ("rigid", "stone", "vegetation", "manufactured", "soil")
+CATEGORIES = ("rigid", "stone", "vegetation", "manufactured", "soil", "gabion")
 ROUGHNESS_MODELS = ("constant", "stone", "vegetation", "soil")
-PERMISSIBLE_METHODS = ("none", "shields", "vegetation", "soil", "value")
+PERMISSIBLE_METHODS = ("none", "shields", "vegetation", "soil", "value", "gabion")
+#: Categories whose entries carry a [stone] table: loose stone, and the rock fill of a gabion mattress.
+STONE_TABLE_CATEGORIES = ("stone", "gabion")
 SOIL_TYPES = ("fine_noncohesive", "noncohesive", "cohesive")
 THICKNESS_RULES = ("none", "fixed", "stone")
 COST_BASES = ("area", "volume")
@@ -170,10 +172,14 @@ def _validate_entry(raw: dict, origin: str, index: int) -> dict:
 
     rough = _table(w, raw, "roughness")
     model = _choice(w, rough, "model", "roughness.model", ROUGHNESS_MODELS)
-    allowed = {"model", "n", "n_min", "n_max", "method", "density_stiffness", "stem_height"}
+    allowed = {"model", "n", "n_min", "n_max", "method", "density_stiffness", "stem_height", "product_class"}
     _unknown(w, rough, allowed, "roughness")
     _check_sources(w, rough, "roughness")
     _text(w, rough, "source", "roughness.source", required=False)
+    if "product_class" in rough:
+        if category != "manufactured":
+            w.fail("roughness.product_class", f"only belongs to category 'manufactured', got {category!r}")
+        _choice(w, rough, "product_class", "roughness.product_class", tuple(hec15.RECP_CLASSES))
     if model == "constant":
         n = _num(w, rough, "n", "roughness.n", low=0.0, high=1.0, required=need)
         n_min = _num(w, rough, "n_min", "roughness.n_min", low=0.0, high=1.0, required=False)
@@ -184,8 +190,8 @@ def _validate_entry(raw: dict, origin: str, index: int) -> dict:
             w.fail("roughness.n", f"must be <= n_max ({n_max:g}), got {n:g}")
     elif model == "stone":
         _choice(w, rough, "method", "roughness.method", STONE_METHODS, default="auto")
-        if category != "stone":
-            w.fail("roughness.model", f"'stone' needs category 'stone', got {category!r}")
+        if category not in STONE_TABLE_CATEGORIES:
+            w.fail("roughness.model", f"'stone' needs category 'stone' or 'gabion', got {category!r}")
     elif model == "vegetation":
         _num(w, rough, "density_stiffness", "roughness.density_stiffness", low=0.0, required=need)
         _num(w, rough, "stem_height", "roughness.stem_height", low=0.0, high=5.0, required=need)
@@ -197,7 +203,11 @@ def _validate_entry(raw: dict, origin: str, index: int) -> dict:
     _text(w, perm, "source", "permissible.source")
     if method == "shields" and category != "stone":
         w.fail("permissible.method", f"'shields' needs category 'stone', got {category!r}")
-    if method == "value":
+    if method == "gabion" and category != "gabion":
+        w.fail("permissible.method", f"'gabion' needs category 'gabion', got {category!r}")
+    if category == "gabion" and method != "gabion":
+        w.fail("permissible.method", f"a gabion mattress is checked by method 'gabion', got {method!r}")
+    if method in ("value", "gabion"):
         _num(w, perm, "shear", "permissible.shear", low=0.0, required=need)
     if method == "vegetation":
         cf = _num(w, perm, "cover_factor", "permissible.cover_factor", low=0.0, high=1.0, low_incl=True,
@@ -206,10 +216,10 @@ def _validate_entry(raw: dict, origin: str, index: int) -> dict:
             gf = _choice(w, perm, "growth_form", "permissible.growth_form", tuple(hec15.COVER_FACTOR))
             _choice(w, perm, "condition", "permissible.condition", tuple(hec15.COVER_FACTOR[gf]))
 
-    stone = _table(w, raw, "stone", required=category == "stone")
+    stone = _table(w, raw, "stone", required=category in STONE_TABLE_CATEGORIES)
     if stone is not None:
-        if category != "stone":
-            w.fail("stone", f"table only belongs to category 'stone', got {category!r}")
+        if category not in STONE_TABLE_CATEGORIES:
+            w.fail("stone", f"table only belongs to categories 'stone' and 'gabion', got {category!r}")
         _unknown(w, stone, {"d50", "d100", "specific_weight", "angle_of_repose"}, "stone")
         _check_sources(w, stone, "stone")
         _text(w, stone, "source", "stone.source", required=False)
@@ -217,8 +227,11 @@ def _validate_entry(raw: dict, origin: str, index: int) -> dict:
         d100 = _num(w, stone, "d100", "stone.d100", low=0.0, high=10.0, required=False)
         if d50 is not None and d100 is not None and d100 < d50:
             w.fail("stone.d100", f"must be >= stone.d50 ({d50:g}), got {d100:g}")
+        if category == "gabion" and d50 is None and need:
+            w.fail("stone.d50", "is missing (the D50 of the mattress's rock fill)")
         _num(w, stone, "specific_weight", "stone.specific_weight", low=GAMMA_WATER)
-        _num(w, stone, "angle_of_repose", "stone.angle_of_repose", low=0.0, high=90.0)
+        _num(w, stone, "angle_of_repose", "stone.angle_of_repose", low=0.0, high=90.0,
+             required=category == "stone")
     elif method == "shields" or model == "stone":
         w.fail("stone", "table is missing")
 
@@ -248,6 +261,8 @@ def _validate_entry(raw: dict, origin: str, index: int) -> dict:
     _text(w, thick, "source", "thickness.source")
     if rule == "fixed":
         _num(w, thick, "value", "thickness.value", low=0.0, high=5.0, required=need)
+    if category == "gabion" and rule != "fixed":
+        w.fail("thickness.rule", f"a gabion mattress needs 'fixed' (the mattress thickness), got {rule!r}")
     if rule == "stone":
         if category != "stone":
             w.fail("thickness.rule", f"'stone' needs category 'stone', got {category!r}")
@@ -298,7 +313,26 @@ class Lining:
         s = self.stone_data
         return None if s is None else s.get("d50")
 
+    @property
+    def product_class(self):
+        """Class of a rolled erosion control product (HEC-15 Table 5.1), or None."""
+        return self.roughness_data.get("product_class")
+
+    def gabion_mattress(self):
+        """(rock fill D50 [m], mattress thickness [m]) of a gabion entry; InputError naming a value not filled in."""
+        if self.category != "gabion":
+            raise InputError("lining", f"{self.key!r} is not a gabion mattress (category {self.category})")
+        from .. import validate
+        return (float(validate.positive(f"lining {self.key!r} stone.d50", self._need("stone", "d50"))),
+                float(validate.positive(f"lining {self.key!r} thickness.value", self._need("thickness", "value"))))
+
     def _d50(self, d50):
+        if self.category == "gabion":   # the fill is part of the entry (HEC-15 Section 7.1: n from its D50)
+            if d50 is not None:
+                raise InputError("d50", f"a gabion mattress takes the D50 of its rock fill from its catalogue entry "
+                                        f"(stone.d50 of {self.key!r}), got a D50 of {d50!r}")
+            from .. import validate
+            return validate.positive(f"lining {self.key!r} stone.d50", self._need("stone", "d50"))
         if self.category != "stone":
             if d50 is not None:
                 raise InputError("d50", f"applies to stone linings only; {self.key!r} is {self.category}")
@@ -316,7 +350,7 @@ class Lining:
 
     @property
     def angle_of_repose(self):
-        return None if self.stone_data is None else self.stone_data["angle_of_repose"]
+        return None if self.stone_data is None else self.stone_data.get("angle_of_repose")
 
     # -- roughness -----------------------------------------------------------
     def roughness(self, d50=None):

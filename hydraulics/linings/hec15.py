@@ -44,7 +44,8 @@ __all__ = [
     "stone_layer_thickness", "DENSITY_STIFFNESS", "COVER_FACTOR", "cover_factor",
     "grass_roughness_coefficient", "vegetation_n", "soil_grain_n", "noncohesive_permissible_shear",
     "COHESIVE_COEFFICIENTS", "cohesive_permissible_shear", "effective_soil_shear",
-    "vegetation_permissible_shear", "superelevation", "freeboard",
+    "vegetation_permissible_shear", "RECP_CLASSES", "recp_typical_n", "recp_data_sheet_n",
+    "MATTRESS_THICKNESS_RANGE", "GABION_FILL_FRACTION", "gabion_fill_check", "superelevation", "freeboard",
 ]
 
 
@@ -1331,6 +1332,147 @@ def vegetation_permissible_shear(soil_permissible, cover, n, n_soil):
     nv = validate.positive("n", n)
     ns = validate.positive("n_soil", n_soil)
     return tp / (1.0 - cf) * (nv / ns) ** 2
+
+
+# --------------------------------------------------------------------------
+# Chapter 5: rolled erosion control products (RECPs)
+# --------------------------------------------------------------------------
+
+#: Manning's n of the three classes of rolled erosion control product, (minimum, typical, maximum) [s/m^(1/3)]:
+#: the RECP rows of HEC-15 Table 2.1, "a rough estimate of roughness for the three different classes of
+#: products" (HEC-15 Section 2.1.3), as given in HEC-22, 3rd ed. (2009), Table 5-1, which cites HEC-15 for them
+#: (provenance: ``recp_n_classes``). The classes are those of HEC-15 Table 5.1 (provenance: ``recp_types``):
+#: jute net, curled wood mat and synthetic mat are the circular's examples of each.
+RECP_CLASSES = {
+    "open_weave_textile": (0.022, 0.025, 0.028),
+    "erosion_control_blanket": (0.028, 0.035, 0.045),
+    "turf_reinforcement_mat": (0.024, 0.030, 0.036),
+}
+
+
+def recp_typical_n(product_class: str) -> tuple:
+    """Manning's n (minimum, typical, maximum) of a class of RECP, HEC-15 Table 2.1 (as given in HEC-22 Table 5-1).
+
+    Parameters
+    ----------
+    product_class : str
+        "open_weave_textile", "erosion_control_blanket" or "turf_reinforcement_mat" (HEC-15 Table 5.1).
+
+    Returns
+    -------
+    tuple of float
+        (minimum, typical, maximum) n [s/m^(1/3)].
+
+    Notes
+    -----
+    The circular gives these as a rough estimate for a class; a product's
+    own n (its data sheet, HEC-15 Chapter 5) is what a design uses.
+
+    Examples
+    --------
+    >>> recp_typical_n("turf_reinforcement_mat")   # HEC-22 (2009) Table 5-1, HEC-15 Table 2.1
+    (0.024, 0.03, 0.036)
+    """
+    if product_class not in RECP_CLASSES:
+        raise InputError("product_class", f"must be one of {', '.join(RECP_CLASSES)}, got {product_class!r}")
+    return RECP_CLASSES[product_class]
+
+
+def recp_data_sheet_n(n, product_class: str):
+    """A product's data-sheet Manning's n, checked against the range of its class (HEC-15 Table 2.1).
+
+    Parameters
+    ----------
+    n : float
+        Manning's n from the product's data sheet [s/m^(1/3)], > 0.
+    product_class : str
+        The product's class (see :func:`recp_typical_n`).
+
+    Returns
+    -------
+    float
+        ``n`` itself. A value outside the class's minimum to maximum gives a
+        ValidityWarning: the table is a rough estimate, so such an n is not
+        refused, but it is worth checking against the data sheet.
+
+    References
+    ----------
+    HEC-15 Table 2.1 and Section 2.1.3, as given in HEC-22, 3rd ed. (2009), Table 5-1 (provenance:
+    ``recp_n_classes``).
+    """
+    lo, _, hi = recp_typical_n(product_class)
+    value = float(validate.number("n", n, low=0.0, high=1.0))
+    if not lo <= value <= hi:
+        _warn(f"data-sheet Manning's n {value:g} is outside {lo:g} to {hi:g}, the range HEC-15 Table 2.1 gives for "
+              f"{product_class.replace('_', ' ')}s (a rough estimate for the class, as given in HEC-22 (2009) "
+              "Table 5-1): check the value against the product's data sheet")
+    return value
+
+
+# --------------------------------------------------------------------------
+# Chapter 7: gabion mattresses
+# --------------------------------------------------------------------------
+# HEC-15 Section 7.1: Manning's n of a gabion mattress is that of its rock fill, by the riprap and gravel
+# relations of Section 6.1 with the D50 of the basket rock; the effect of the mesh is neglected (provenance:
+# ``gabion_n``). The catalogue gives a gabion entry the stone roughness model with the fill's D50.
+
+#: The usual thickness of a gabion mattress [m]: "0.5 to 1.5 ft" (Freeman and Fischenich, 2000, ERDC
+#: TN-EMRRP-SR-22, p. 1; provenance: ``mattress_thickness``). Thicker units are gabion baskets.
+MATTRESS_THICKNESS_RANGE = (0.5 * 0.3048, 1.5 * 0.3048)
+#: Largest rock of the fill as a fraction of the mattress thickness: "not greater than 2/3 of the thickness of
+#: the basket or mattress" (common practice; provenance: ``gabion_fill_size``).
+GABION_FILL_FRACTION = 2.0 / 3.0
+
+
+def gabion_fill_check(rock_d50, thickness):
+    """Check the rock fill of a gabion mattress against the mattress thickness.
+
+    Parameters
+    ----------
+    rock_d50 : float
+        Median size D50 of the rock fill [m], > 0.
+    thickness : float
+        Mattress thickness [m], > 0.
+
+    Returns
+    -------
+    float
+        rock_d50 / thickness [-].
+
+    Raises
+    ------
+    InputError
+        A fill whose D50 is not smaller than the mattress thickness (the rock
+        cannot fit).
+
+    Notes
+    -----
+    ValidityWarning where the D50 exceeds two thirds of the thickness (then
+    most of the fill is larger than the common rule of at most 2/3 of the
+    thickness allows; provenance: ``gabion_fill_size``), and where the
+    thickness is outside 0.5 to 1.5 ft (0.15 to 0.46 m), the usual range of
+    mattresses (Freeman and Fischenich, 2000; provenance:
+    ``mattress_thickness``).
+
+    References
+    ----------
+    Freeman, G. E. and Fischenich, J. C., Gabions for Streambank Erosion Control, U.S. Army Engineer Research and
+    Development Center, ERDC TN-EMRRP-SR-22, May 2000.
+    """
+    d = float(validate.positive("rock_d50", rock_d50))
+    t = float(validate.positive("thickness", thickness))
+    if d >= t:
+        raise InputError("rock_d50", f"must be smaller than the mattress thickness ({t:g} m), got {d:g} m")
+    lo, hi = MATTRESS_THICKNESS_RANGE
+    if not lo <= t <= hi:
+        _warn(worded("mattress thickness {t} is outside {lo} to {hi}, the usual thickness of a gabion mattress "
+                     "(Freeman and Fischenich, 2000, ERDC TN-EMRRP-SR-22)", t=(t, "small_length"),
+                     lo=(lo, "small_length"), hi=(hi, "small_length")))
+    if d > GABION_FILL_FRACTION * t:
+        _warn(worded("rock fill D50 {d} is more than two thirds of the mattress thickness {t}: most of the fill is "
+                     "larger than the largest stone a mattress normally takes (2/3 of its thickness, common "
+                     "practice)", d=(d, "small_length"), t=(t, "small_length")))
+    return d / t
 
 
 # --------------------------------------------------------------------------

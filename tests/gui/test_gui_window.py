@@ -660,7 +660,7 @@ def test_lining_list_is_grouped_by_kind_with_sizes_in_the_project_units(demo_win
     w.doc.set_units(units)
     entries = combo_entries(w.inputs.lining.combo)
     headings = [t for t, key, selectable in entries if not selectable]
-    assert headings == ["Rigid", "Stone", "Grass", "Blankets and mats", "Bare soil"]
+    assert headings == ["Rigid", "Stone", "Grass", "Blankets and mats", "Gabion mattresses", "Bare soil"]
     kinds = {}
     current = None
     for text, key, selectable in entries:                     # every lining sits under the heading of its kind
@@ -680,7 +680,7 @@ def test_lining_list_is_grouped_by_kind_with_sizes_in_the_project_units(demo_win
     w.tabs.setCurrentIndex(3)
     qtbot.wait(10)                                             # new widgets of a shown layout show when idle
     heads = [lab.text() for lab in w.comparison.choices.findChildren(QLabel) if lab.isVisible()]
-    assert heads == ["Rigid", "Stone", "Grass", "Blankets and mats", "Bare soil"]
+    assert heads == ["Rigid", "Stone", "Grass", "Blankets and mats", "Gabion mattresses", "Bare soil"]
     assert grass in w.comparison.checks["grass_good_sod"].toolTip()
     assert w.comparison.checks["riprap"].toolTip() == f"Rock riprap, {stone}"    # catalogue D50 0.15 m
 
