@@ -10,19 +10,23 @@ same rule on arrays (:func:`ditch_top` is that function for one channel).
 
 Relations (SI):
 
-* freeboard = minimum + superelevation in a bend, HEC-15 Section 2 and
-  Section 3.4 (:func:`hydraulics.linings.hec15.freeboard`; the minimum is not
-  yet verified against the circular, see :mod:`hydraulics.provenance`, key
-  ``freeboard``; local design codes govern);
-* superelevation V^2 T / (g Rc) (key ``superelevation``);
+* freeboard = minimum + superelevation in a bend
+  (:func:`hydraulics.linings.hec15.freeboard`): HEC-22, 3rd ed., 2009,
+  Section 5.2.4, which gives HEC-15's guidance: about 150 mm (0.5 ft) is
+  generally adequate (key ``freeboard``); local design codes govern;
+* superelevation V^2 T / (g Rc), HEC-22 Eq. 5-11 (key ``superelevation``;
+  HEC-22 puts the outer bank's water half of it above the centre line, the
+  program adds all of it);
 * supercritical flow in a bend forms cross waves above that estimate
   (Chow 1959, Chapter 15; key ``supercritical_bend``);
 * supercritical flow (Froude number above 1): HEC-15 Section 2.1.1 says it
   "may create surface waves whose height approaches the depth of flow" and
   that on very steep grades splash and surge need special consideration for
-  freeboard, without a number. This program's rule, drawn from those words:
-  the freeboard is at least the flow depth (a wave as high as the depth stays
-  inside the ditch). Local codes govern; a chute may need more.
+  freeboard, without a number. HEC-22, 3rd ed., Section 5.2.4 gives the
+  number: "a steep gradient channel should have a freeboard height equal to
+  the flow depth". The program applies it wherever the flow is supercritical
+  (Froude number above 1), the freeboard being at least the flow depth.
+  Local codes govern; a chute may need more.
 """
 
 from __future__ import annotations
@@ -44,7 +48,7 @@ FREEBOARD_SOURCE = f"{cite('freeboard')}; local design codes govern and may ask 
 SUPERELEVATION_SOURCE = f"superelevation in the bend V^2 T / (g Rc), {cite('superelevation')}"
 SUPERCRITICAL_BEND_SOURCE = f"{cite('supercritical_bend')}, supercritical flow in curves"
 WAVE_RULE = (f"supercritical flow: at least the flow depth, for surface waves whose height approaches the depth "
-             f"({cite('supercritical_waves')}; the circular gives no number, this rule is the program's)")
+             f"({cite('supercritical_waves')}; the depth as freeboard of a steep channel, {cite('freeboard')})")
 
 
 @dataclass(frozen=True)

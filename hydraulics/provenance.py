@@ -63,9 +63,16 @@ READ_IN = {
     "fhwa-appd": "FHWA web edition of HEC-15, Appendix D (.../pubs/05114/hec15appd.cfm)",
     "restated-2.1.3": "restatement of HEC-15 Section 2.1.3 (plainwater.co, \"Trapezoidal channel Manning's n\", "
                       "plainwater.co/water/trapezoidal-channel-mannings-n)",
-    "hec22-ch5": "HEC-22, 3rd ed. (2009), Chapter 5, Table 5-1 and Section 5.3.2, which give HEC-15's values with a "
+    "hec22-ch5": "HEC-22, 3rd ed. (2009), Chapter 5 (pp. 5-1 to 5-18), which gives HEC-15's relations with a "
                  "reference to it, read in a markdown copy of the manual (GitHub SWMMEnablement/SWMM_MD_Documents, "
                  "\"HEC 22 (3rd edition 2009).md\")",
+    "hec22-ch3": "HEC-22, 3rd ed. (2009), Chapter 3, pp. 3-4 to 3-21, read in the same markdown copy of the manual",
+    "hds6-ch6": "FHWA HDS 6, River Engineering for Highway Encroachments (FHWA NHI 01-004, 2001), Chapter 6, "
+                "pp. 6.24, 6.56 and 6.70 (page copy at coastalhydraulicslaboratoryfact.tpub.com/4_010491/)",
+    "drms-993768": "Colorado DRMS record, doc 993768, scanned p. 30, riprap sizing by the HEC-11 method, K worked for "
+                   "2:1, 3:1 and 10:1 sides (dnrweblink.state.co.us/DRMSSearch/0/doc/993768/Page30.aspx)",
+    "tm5-820-4": "U.S. Army TM 5-820-4 / AFM 88-5 Chap. 4, paras. 5-4 and 5-5 (copy in UFC 3-230-17FA, "
+                 "buildingcriteria1.tpub.com/ufc_3_230_17fa/ufc_3_230_17fa0038.htm)",
     "erdc-gabions": "Freeman and Fischenich (2000), ERDC TN-EMRRP-SR-22, p. 1 (scribd.com/doc/162856207)",
     "civil-tips-gabions": "civilengineeringtips.net, \"Gabions\" (civilengineeringtips.net/tag/gabions/)",
     "restated-6.2": "restatement of HEC-15 Section 6.2 with its equations in text "
@@ -138,23 +145,35 @@ REGISTER: dict = _entries(
               "on very steep grades splash and surge need special freeboard",
               "HEC-15 Section 2.1.1", ("fhwa-ch2",)),
     Published("design_shear", "design shear at the maximum depth", "tau_d = gamma d So, d the maximum depth",
-              "HEC-15 Eq. 3.1", ("restated-6.2",)),
+              "HEC-15 Eq. 3.1", ("restated-6.2", "hec22-ch5"),
+              "HEC-22 (2009) gives it as Eq. 5-13, d the maximum depth of flow"),
     Published("stability_criterion", "stability criterion", "tau_p >= SF tau_d", "HEC-15 Eq. 3.2",
-              ("restated-6.2",)),
+              ("restated-6.2", "hec22-ch5"), "HEC-22 (2009) p. 5-14: SF typically ranges from 1.0 to 1.5"),
     Published("gamma_water", "unit weight of water", "9,810 N/m^3 (62.4 lb/ft^3)", "HEC-15 Eq. 6.7",
-              ("restated-6.2",)),
+              ("restated-6.2", "hec22-ch5")),
     Published("gravity", "acceleration of gravity", "9.81 m/s^2 (32.2 ft/s^2)", "HEC-15 Eq. 6.2",
               ("fhwa-ch6",),
               "the program uses the standard 9.80665 m/s^2, 0.03 % apart"),
     Published("side_factor", "ratio of side to bed shear K1", "K1 by side slope Z", "HEC-15 Section 3.3"),
-    Published("bend_factor", "bend factor Kb", "Kb by Rc/T", "HEC-15 Section 3.4"),
-    Published("bend_length", "length of protection below a bend", "Lp = 0.736 R^(7/6) / n (SI)",
-              "HEC-15 Section 3.4"),
-    Published("superelevation", "superelevation of the water surface in a bend", "delta d = V^2 T / (g Rc)",
-              "HEC-15 Section 3.4"),
-    Published("freeboard", "freeboard of a roadside channel", "about 0.15 m (0.5 ft)", "HEC-15 Section 2"),
+    Published("bend_factor", "bend factor Kb", "Kb by Rc/T", "HEC-15 Section 3.4", (),
+              "HEC-22 (2009) Eq. 5-15 and Chart 21 read Kb against Rc/B, B the bottom width; the program's Rc/T "
+              "(T >= B) gives the larger, safer Kb: 2.0 in HEC-22 Example 5-2 where the chart reads 1.6"),
+    Published("bend_length", "length of protection below a bend", "Lp = Ku R^(7/6) / n, Ku 0.736 SI (0.604 CU)",
+              "HEC-22 (2009) Eq. 5-16", ("hec22-ch5",),
+              "HEC-22 gives it with a reference to HEC-15"),
+    Published("superelevation", "superelevation of the water surface in a bend",
+              "delta d = V^2 T / (g Rc), valid for subcritical flow", "HEC-22 (2009) Eq. 5-11",
+              ("hec22-ch5",),
+              "HEC-22 puts the outer bank's water delta d / 2 above the centre line; the program adds the whole "
+              "delta d to the freeboard (the safer reading)"),
+    Published("freeboard", "freeboard of a roadside channel",
+              "about 150 mm (0.5 ft) generally adequate; a steep gradient channel: freeboard equal to the flow depth; "
+              "temporary channels: none necessary", "HEC-22 (2009) Section 5.2.4", ("hec22-ch5",),
+              "the program applies the depth rule where the flow is supercritical (Froude > 1)"),
     Published("steep_slope", "bed slope from which riprap is sized by the steep-slope method",
-              "slopes greater than 10 %", "HEC-15 Section 3.5 and Appendix D"),
+              "slopes greater than 10 %", "HEC-15 Section 3.5 and Appendix D", (),
+              "HEC-22 (2009) Section 5.2.3 says only that riprap suits very steep channels with gradients in excess "
+              "of 10 %"),
     # ---------------------------------------------------------------- HEC-15 Chapter 6
     Published("size_classes", "stone sizes the Chapter 6 procedures apply to",
               "gravel 15-64 mm (0.6-2.5 in), cobble 64-130 mm (2.5-5.0 in), riprap 130-550 mm (5.0-22.0 in)",
@@ -184,13 +203,18 @@ REGISTER: dict = _entries(
               "F* 0.047, SF 1.0 for Re <= 4e4; F* 0.15, SF 1.5 for Re >= 2e5; linear between",
               "HEC-15 Table 6.1"),
     Published("tractive_ratio", "tractive force ratio K2 of stone on a side slope",
-              "K2 = sqrt(1 - sin^2 theta / sin^2 phi)", "HEC-15 Section 6.3.2"),
+              "K2 = sqrt(1 - sin^2 theta / sin^2 phi)", "HEC-15 Section 6.3.2", (),
+              "the same expression is HEC-11's bank factor K1, worked in a Colorado DRMS record (doc 993768 p. 30: "
+              "0.7746, 0.8944, 0.9900 for 2:1, 3:1, 10:1 at 45 degrees; the program agrees, "
+              "tests/test_hec15_examples_stone.py); HEC-15's own text not read"),
     Published("angle_of_repose", "angle of repose of riprap", "by size and shape (about 40-42 degrees for riprap)",
               "HEC-15 Figure 6.2"),
     Published("steep_method", "steep-slope stability of riprap", "Eq. D.1 with the Delta term; moment stability "
-              "Eqs. D.2 and D.3", "HEC-15 Appendix D", ("fhwa-appd",)),
+              "Eqs. D.2 and D.3", "HEC-15 Appendix D", ("fhwa-appd", "hds6-ch6"),
+              "the moment-stability factor is checked against HDS 6 (2001) Chapter 6 problems"),
     Published("layer_thickness", "thickness of a stone layer", "the larger of 1.5 D50 and D100",
-              "HEC-15 Section 6.4"),
+              "HEC-15 Section 6.4", (),
+              "the same rule stands in U.S. Army TM 5-820-4 paras. 5-4 and 5-5; HEC-15's own text not read"),
     Published("filter", "filter beneath stone", "a granular filter or geotextile beneath the stone",
               "HEC-15 Section 6.4"),
     Published("table_2_3_riprap", "smallest riprap size in the table of typical permissible shear",
@@ -238,9 +262,12 @@ REGISTER: dict = _entries(
               "civilengineeringtips.net, \"Gabions\" (common practice)", ("civil-tips-gabions",),
               "the program warns where the fill's D50 exceeds 2/3 of the mattress thickness"),
     # ---------------------------------------------------------------- other publications
-    Published("rational_area", "largest area for the rational method", "80 ha (200 acres)", "HEC-22 Section 3.2"),
+    Published("rational_area", "largest area for the rational method", "80 ha (200 acres)",
+              "HEC-22 (2009) Section 3.2.2, p. 3-5", ("hec22-ch3",)),
+    Published("kirpich", "Kirpich's time of concentration", "t_c = 0.0078 L^0.77 S^-0.385 (min, ft, ft/ft)",
+              "Kirpich (1940), Civil Engineering 10(6): 362"),
     Published("kirpich_range", "data range of Kirpich's formula", "1.2 to 112 acres, slopes 3 to 10 %",
-              "Kirpich (1940); HEC-22 Section 3.2.4"),
+              "Kirpich (1940)", (), "not in HEC-22 (2009) Chapter 3, pp. 3-4 to 3-21"),
     Published("self_cleaning", "minimum velocity against silting", "2 to 3 ft/s (0.6 to 0.9 m/s)",
               "Chow (1959) Section 7-3"),
     Published("strickler", "Strickler's relation for stone", "n = 0.034 D50^(1/6), D50 in ft",
@@ -258,7 +285,9 @@ REGISTER: dict = _entries(
               "of concentration, the partial-area effect occurs (a part of the area gives the larger peak)",
               "Campos et al. (2020), Water 12(10): 2730", ("campos-2020",)),
     Published("composite_c", "runoff coefficient of an area of several land covers",
-              "C = sum(C_j A_j) / sum(A_j), weighted by area", "HEC-22 Section 3.2"),
+              "C = sum(C_j A_j) / sum(A_j), weighted by area", "HEC-22 (2009) Eq. 3-2", ("hec22-ch3", "txdot-hdm"),
+              "also TxDOT Hydraulic Design Manual Ch. 4 Sec. 12, Eq. 4-23; HEC-22 Example 3-1 reproduced in "
+              "tests/test_hec22_examples.py"),
     # ---------------------------------------------------------------- rainfall (hydraulics.rainfall)
     Published("idf_formula", "fitted IDF relation", "I = b / (tc + d)^e, I in in./hr, tc in min; e, b, d coefficients "
               "based on rainfall IDF data (the program writes i = a / (t + b)^c)",

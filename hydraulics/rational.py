@@ -16,14 +16,15 @@ of concentration of small rural basins:
 
     t_c = 0.0078 L^0.77 S^-0.385   (t_c in min, L in ft, S in ft/ft)
 
-which is 0.0195 L^0.77 S^-0.385 with L in metres (HEC-22, Sec. 3.2.4, 3rd ed.,
-quotes both). Kirpich derived it for basins of 1.2 to 112 acres (0.5 to 45 ha)
-on slopes of 3 to 10 % (not verified against a published text; provenance:
-``kirpich_range``); outside those ranges the result carries a warning.
+which is 0.0195 L^0.77 S^-0.385 with L in metres (the customary constant
+converted exactly). The formula and its data range, basins of 1.2 to 112 acres
+(0.5 to 45 ha) on slopes of 3 to 10 %, are not verified against a published
+text (provenance: ``kirpich``, ``kirpich_range``; HEC-22, 3rd ed., does not
+give them in its Chapter 3); outside those ranges the result carries a warning.
 
-The rational method is meant for small areas; HEC-22 suggests up to about
-80 ha (200 acres) (not verified; provenance: ``rational_area``) and local
-manuals often set a lower limit.
+The rational method is meant for small areas: HEC-22, 3rd ed., 2009, Section
+3.2.2, p. 3-5, applies it only to drainage areas smaller than 80 ha (200 ac)
+(provenance: ``rational_area``); local manuals often set a lower limit.
 """
 
 from __future__ import annotations

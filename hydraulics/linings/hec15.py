@@ -194,7 +194,9 @@ def bend_factor(bend_radius, top_width):
     Notes
     -----
     HEC-15 Section 3.4, after Young et al., 1996; not verified against the
-    circular (provenance: ``bend_factor``). The quadratic gives 1.997 at
+    circular (provenance: ``bend_factor``). HEC-22, 3rd ed., Eq. 5-15 and
+    Chart 21 read Kb against Rc/B, B the bottom width: with T >= B the ratio
+    Rc/T used here is the smaller and Kb the larger. The quadratic gives 1.997 at
     Rc/T = 2 and 1.050 at Rc/T = 10, so the pieces meet, a consistency check
     on the coefficients.
 
@@ -232,14 +234,14 @@ def bend_protection_length(hydraulic_radius, n):
 
     Notes
     -----
-    HEC-15 Section 3.4, not verified against the circular (provenance:
-    ``bend_length``): alpha = 0.736 SI and 0.604 CU. The two constants differ
-    by 0.3048^(-1/6), as they must for a length computed from R^(7/6)/n, a
-    consistency check; the SI value is used here.
+    HEC-22, 3rd ed., 2009, Eq. 5-16, which gives HEC-15 Section 3.4's
+    relation (provenance: ``bend_length``): Ku = 0.736 SI and 0.604 CU. The
+    two constants differ by 0.3048^(-1/6), as they must for a length computed
+    from R^(7/6)/n; the SI value is used here.
 
     References
     ----------
-    HEC-15, Chapter 3 (after Nouh and Townsend, 1979, as cited there).
+    HEC-22, 3rd ed., FHWA-NHI-10-009, 2009, Section 5.1.7, Eq. 5-16; HEC-15, Section 3.4.
     """
     r = validate.positive("hydraulic_radius", hydraulic_radius)
     nb = validate.number("n", n, low=0.0, high=1.0)
@@ -1500,9 +1502,11 @@ def superelevation(velocity, top_width, bend_radius):
 
     Notes
     -----
-    HEC-15 Section 3.4 (provenance: ``superelevation``, not verified); the relation is the
-    usual subcritical estimate (twice the simple centrifugal value V^2 T /
-    (2 g Rc)), conservative for design.
+    HEC-22, 3rd ed., 2009, Section 5.1.6, Eq. 5-11, after HEC-15 Section 3.4
+    (provenance: ``superelevation``): valid for subcritical flow. HEC-22 puts
+    the outer bank's water surface delta d / 2 above the centre line's; the
+    whole delta d is returned here and added to the freeboard, the safer
+    reading.
 
     References
     ----------
