@@ -543,6 +543,7 @@ class InputPanel(QScrollArea):
     def reload(self, force: bool = False) -> None:
         """Show the current channel. Keeps text the user is typing when it means the stored value."""
         ch, units = self.doc.channel(), self.doc.units
+        complaint_before = self.first_complaint()
         if force:
             self._invalid.clear()
             for f in self.fields.values():
@@ -583,7 +584,10 @@ class InputPanel(QScrollArea):
                 f.clear_error()
         # the survey table was just refilled from the project, so it has nothing left to complain about
         self._invalid = {k: v for k, v in self._invalid.items() if k in self.fields and self.fields[k].error}
-        self.validity_changed.emit(self.first_complaint())
+        # only a changed complaint is news: the window refreshes on the channel change itself, and a second
+        # signal would evaluate the channel twice for one keystroke
+        if self.first_complaint() != complaint_before:
+            self.validity_changed.emit(self.first_complaint())
 
     def show_evaluation(self, ev: display.Evaluation) -> None:
         """The computed lines of the form, and a mark on the field the core's error names."""

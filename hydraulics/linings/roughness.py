@@ -39,6 +39,8 @@ SWITCH_NOTE = "n: Bathurst below, Blodgett above (da/D50 = 1.5)"
 #: Largest exponent p of Bathurst's f(Fr) (HEC-15 Eq. 6.3) accepted in "auto": as p nears 1,
 #: Bathurst's n with the Manning velocity has no stable value (a rule of this program).
 P_LIMIT = 0.95
+#: Relative width at which the bisection for the lowest usable Bathurst depth stops (a few float spacings).
+BISECTION_RTOL = 1e-15
 
 
 def _average_depth(section, depth):
@@ -108,6 +110,11 @@ class StoneRoughness:
         ratio = np.asarray(da / self.d50, dtype=float)
         with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
             blod = np.where(ratio > hec15._BLODGETT_POLE, hec15._blodgett_n(np.asarray(da, float), self.d50), np.nan)
+        if self.method in ("auto", "blodgett") and np.all(ratio >= hec15.BLODGETT_RANGE[0] * SPLIT_BAND):
+            # every depth in Blodgett's own range (most trial depths): Bathurst's terms and the lowest depth
+            # where Bathurst's relation is usable are not needed
+            return blod, np.zeros(ratio.shape, int)
+        with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
             terms = hec15._bathurst_terms(np.asarray(da, float), self.d50, np.asarray(top, float))
             p = terms[1]
             bath = np.asarray(hec15._bathurst_n_manning_terms(terms, np.asarray(da, float), np.asarray(r, float),
@@ -140,7 +147,7 @@ class StoneRoughness:
         """Lowest depth at which Bathurst's relation is usable (da/D50 > 0.3 and p <= P_LIMIT).
 
         Returns (depth, (da, T, R) there), or (inf, None) if it is not usable below
-        da/D50 = 1.5. Found once per section by bisection on the geometry and kept.
+        da/D50 = 1.5. Found once per section by bisection on the geometry (to BISECTION_RTOL) and kept.
         """
         key = id(section)
         hit = self._limits.get(key)
@@ -171,11 +178,13 @@ class StoneRoughness:
         else:
             lo = np.full(shape, 1e-9 * self.d50)
             hi_b = hi.copy()
-            for _ in range(100):
+            for _ in range(100):   # geometric halving: about 55 steps reach the float spacing from 1e-9 D50
                 mid = np.sqrt(lo * hi_b)
                 ok, _ = usable(mid if shape else float(mid))
                 hi_b = np.where(ok, mid, hi_b)
                 lo = np.where(ok, lo, mid)
+                if np.all(hi_b <= lo * (1.0 + BISECTION_RTOL)):
+                    break
             y = np.where(ok_hi, hi_b, np.inf)
             yy = y if shape else float(y)
             if not np.all(np.isfinite(y)):

@@ -530,12 +530,13 @@ def test_results_list_the_values_not_yet_verified(demo_window):
     panel = w.results
     assert panel.unverified.isVisible() and pv.NOT_VERIFIED_TITLE in panel.unverified_heading.text()
     text = panel.unverified.text()
-    for key in ("table_6_1", "bend_factor", "freeboard"):
+    for key in ("table_6_1", "bend_factor", "side_factor"):
         assert pv.entry(key).what in text, key
     assert pv.entry("blodgett").what not in text        # read in the circular, so not listed
+    assert pv.entry("freeboard").what not in text       # read in HEC-22 (2009), which gives HEC-15's guidance
     w.channel_list.setCurrentRow(names.index("East verge ditch"))    # concrete: no stone relations
     assert pv.entry("table_6_1").what not in panel.unverified.text()
-    assert pv.entry("freeboard").what in panel.unverified.text()
+    assert pv.entry("freeboard").what not in panel.unverified.text()
 
 
 def test_rating_curve_marks_where_the_stone_relation_changes(demo_window):
@@ -730,3 +731,25 @@ def test_results_show_the_lining_facts_the_sheet_gives(demo_window):
     w.channel_list.setCurrentRow(names.index("Farm crossing pipe"))      # no lining: none of them
     for key in ("bend_protection_length", "lined_width", "layer_volume"):
         assert not w.results.values[key].isVisibleTo(w.results)
+
+
+def test_one_keystroke_evaluates_the_channel_once(demo_window, monkeypatch):
+    """A typed value reaches the core once: the form's reload tells the window about its complaint only when
+    the complaint changed, so the window does not evaluate the channel a second time for the same edit."""
+    from app import channel_display
+    w = demo_window
+    calls = []
+    original = channel_display.evaluate_channel
+    monkeypatch.setattr(channel_display, "evaluate_channel", lambda *a, **k: calls.append(1) or original(*a, **k))
+    field = w.inputs.fields["trapezoid:section.bottom_width"]
+    for text in ("0.7", "0.75"):
+        calls.clear()
+        field.edit.setText(text)
+        field._typed(text)
+        assert len(calls) == 1, text
+    assert w.doc.channel().section["bottom_width"] == pytest.approx(0.75)
+    # a value the form refuses is not evaluated at all, and the complaint still reaches the results
+    calls.clear()
+    field.edit.setText("-1")
+    field._typed("-1")
+    assert w.complaint and len(calls) <= 1
