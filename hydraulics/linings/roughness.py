@@ -110,10 +110,17 @@ class StoneRoughness:
         ratio = np.asarray(da / self.d50, dtype=float)
         with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
             blod = np.where(ratio > hec15._BLODGETT_POLE, hec15._blodgett_n(np.asarray(da, float), self.d50), np.nan)
-        if self.method in ("auto", "blodgett") and np.all(ratio >= hec15.BLODGETT_RANGE[0] * SPLIT_BAND):
-            # every depth in Blodgett's own range (most trial depths): Bathurst's terms and the lowest depth
-            # where Bathurst's relation is usable are not needed
-            return blod, np.zeros(ratio.shape, int)
+        if self.method in ("auto", "blodgett"):
+            # a depth in Blodgett's own range (most trial depths) needs neither Bathurst's terms nor the lowest
+            # depth where Bathurst's relation is usable: those are worked out only where they are used
+            need = ratio < hec15.BLODGETT_RANGE[0] * SPLIT_BAND
+            if self.method == "blodgett" or not need.any():
+                return blod, np.zeros(ratio.shape, int)
+            if ratio.ndim and not need.all() and not section.is_vector:
+                n, code = blod.copy(), np.zeros(ratio.shape, int)
+                at_slope = slope[need] if np.ndim(slope) else slope
+                n[need], code[need] = self._regions(section, np.asarray(depth, float)[need], at_slope)
+                return n, code
         with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
             terms = hec15._bathurst_terms(np.asarray(da, float), self.d50, np.asarray(top, float))
             p = terms[1]
