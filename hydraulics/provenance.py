@@ -208,7 +208,10 @@ REGISTER: dict = _entries(
               "0.7746, 0.8944, 0.9900 for 2:1, 3:1, 10:1 at 45 degrees; the program agrees, "
               "tests/test_hec15_examples_stone.py); HEC-15's own text not read"),
     Published("angle_of_repose", "angle of repose of riprap", "by size and shape (about 40-42 degrees for riprap)",
-              "HEC-15 Figure 6.2"),
+              "HEC-15 Figure 6.2", (),
+              "Chow's (1959) and Henderson's (1966) tables as quoted in a published report (Witheridge 2009, "
+              "Tables 1-2) give at most 41 degrees for angular rock of 100-500 mm and 42 only for very angular rock "
+              "over 500 mm: the catalogue's 42 for riprap is at the top of that range"),
     Published("steep_method", "steep-slope stability of riprap", "Eq. D.1 with the Delta term; moment stability "
               "Eqs. D.2 and D.3", "HEC-15 Appendix D", ("fhwa-appd", "hds6-ch6"),
               "the moment-stability factor is checked against HDS 6 (2001) Chapter 6 problems"),

@@ -221,7 +221,7 @@ def test_tractive_force_ratio_limits():
 
 
 def test_side_d50_larger_than_bed_on_steep_banks():
-    # HEC-15 Eq. 6.10 (not verified): D50 sides = K1/K2 D50 bottom; on a 2:1 bank K1 = 0.77,
+    # HEC-15 Section 6.3.2 (not verified): D50 sides = K1/K2 D50 bottom; on a 2:1 bank K1 = 0.77,
     # K2 < 0.77 for phi = 42 deg, so the sides need the larger stone.
     assert hec15.required_d50_side(0.1, 2.0, 42.0) > 0.1
 

@@ -94,7 +94,7 @@ def test_stone_side_slope_uses_tractive_force_ratio(cat):
 
 
 def test_side_size_is_k1_over_k2_times_bed_size_in_flat_table_range(cat):
-    # HEC-15 Eq. 6.10 (not verified): D50,sides = K1/K2 D50,bottom, exact where F* and SF are constant (Re* < 4e4).
+    # HEC-15 Section 6.3.2 (not verified): D50,sides = K1/K2 D50,bottom, exact where F* and SF are constant (Re* < 4e4).
     section = hy.Trapezoid(bottom_width=0.4, side_slope=3.0)
     lin = cat.get("gravel")
     r = check_lining(section, 0.42, 0.008, lin)

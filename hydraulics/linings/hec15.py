@@ -734,7 +734,7 @@ def required_d50_for_shear(design_shear_value, depth, slope, gamma_stone=GAMMA_S
     -----
     With tau = gamma d S it equals :func:`required_d50`. In the flat parts
     of Table 6.1 (F* and SF constant) the result is proportional to tau, so
-    a side-slope size K1/K2 times the bed size (HEC-15 Eq. 6.10) follows;
+    a side-slope size K1/K2 times the bed size (HEC-15 Section 6.3.2; its equation number not read) follows;
     in the interpolation band the size is solved exactly for the stated
     criterion instead. No range warning is issued: the caller words it.
 
@@ -799,7 +799,7 @@ def tractive_force_ratio(side_slope, angle_of_repose):
 
 
 def required_d50_side(d50_bottom, side_slope, angle_of_repose):
-    r"""Stone size needed on the side slopes from the size needed on the bed, HEC-15 Eq. 6.10.
+    r"""Stone size needed on the side slopes from the size needed on the bed, HEC-15 Section 6.3.2.
 
     .. math:: D_{50,sides} = \frac{K_1}{K_2} D_{50,bottom}
 
