@@ -152,13 +152,21 @@ class ProfilePoint:
     elevation: float                      # invert [m]
 
 
+#: What may control the water surface at a run's outfall (``Outfall.control``).
+OUTFALL_CONTROLS = ("normal", "critical", "level")
+
+
 @dataclass
 class Outfall:
-    """Where the run ends: one end of its profile, what is there, and the water level there if known [m]."""
+    """Where the run ends: one end of its profile, what is there, the water level there if known [m], and what
+    controls the water surface there: "normal" depth (the default, and what a file without the field means),
+    "critical" depth (a free overfall) or the known water "level" (``water_level``, an elevation like the
+    profile's)."""
 
     station: float
     kind: str = ""                        # culvert, inlet, stream... in the user's words
     water_level: float | None = None
+    control: str = "normal"
 
 
 @dataclass
@@ -459,6 +467,11 @@ def validate_document(data: dict) -> None:
     for i, run in enumerate(data.get("runs") or []):
         for j, rs in enumerate(run["sections"]):
             _check_section(data, ["runs", i, "sections", j, "section"], rs["section"])
+        outfall = run["outfall"]
+        if outfall.get("control") == "level" and outfall.get("water_level") is None:
+            raise ProjectFileError(f"{field_label(['runs', i, 'outfall', 'water_level'], data)}: is missing: the "
+                                   "outfall control is a known water level (\"level\"), so give that level (an "
+                                   "elevation in m, like the profile's)")
     if data.get("rainfall") is not None:
         from hydraulics.rainfall import idf_from_dict
         try:

@@ -102,6 +102,7 @@ RUN_STATION_FIELDS = {f.key: f for f in (
     ResultField("critical_depth", "Critical depth", "length", 3),
     ResultField("water_depth", "Water depth", "length", 3),
     ResultField("water_surface", "Water surface", "length", 2),
+    ResultField("profile_type", "Profile type", "", 0),
     ResultField("velocity", "Velocity", "velocity", 2),
     ResultField("froude", "Froude number", "", 2),
     ResultField("regime", "Flow regime", "", 0),
@@ -113,6 +114,7 @@ RUN_STATION_FIELDS = {f.key: f for f in (
     ResultField("stable", "Stable", "", 0),
     ResultField("freeboard", "Freeboard", "length", 2),
     ResultField("fits", "Fits the ditch", "", 0),
+    ResultField("overtopped", "Overtopped", "", 0),
     ResultField("required_d50", "Smallest stable D50", "small_length", 1),
 )}
 

@@ -17,11 +17,12 @@ from dataclasses import dataclass, field
 
 import hydraulics as hy
 from hydraulics import provenance, rational, travel_time
-from hydraulics.ditch_run import Bend, Candidate, DitchRun, RunResult, SectionRange, solve_run
+from hydraulics.ditch_run import NORMAL_DEPTH_FIT, Bend, Candidate, DitchRun, RunResult, SectionRange, solve_run
 from hydraulics.linings import Catalogue, load_catalogue
 from hydraulics.rainfall import idf_from_dict
 from hydraulics.run_inflow import PointInflow, SubArea
 from hydraulics.run_layout import StationRange
+from hydraulics.run_water_surface import RunWaterSurface, run_water_surface
 from hydraulics.units import UnitSystem
 from hydraulics.wording import format_station, in_units, worded
 
@@ -35,9 +36,13 @@ __all__ = ["RunDesign", "SubAreaBasis", "design_run", "run_label", "section_dime
 RUN_CAUTIONS = (
     "Results assist design; they do not replace the judgement of a licensed engineer, who checks them against "
     "local codes before construction.",
-    "The water surface shown is the normal depth at each design point; backwater from the outfall, drawdown and "
-    "hydraulic jumps are not computed.",
+    "The water surface shown is computed along the run (standard step method, from the outfall control stated); "
+    "the lining shear check uses normal depth, the design depth of HEC-15, and the fit of the ditch the computed "
+    "water depth.",
 )
+
+#: The outfall controls in words.
+CONTROL_WORDS = {"normal": "normal depth", "critical": "critical depth (free overfall)", "level": "water level"}
 _SHAPES = {"trapezoid": "trapezoid", "triangle": "V-ditch (triangle)", "rectangle": "rectangle",
            "parabola": "parabolic swale", "circle": "circular pipe", "irregular": "surveyed (irregular)"}
 
@@ -176,7 +181,8 @@ def build_run(project: Project, run: Run, catalogue: Catalogue) -> tuple[DitchRu
             point_inflows=tuple(PointInflow(p.name, p.station, p.flow) for p in run.point_inflows),
             bends=tuple(Bend(StationRange(b.from_station, b.to_station), b.radius) for b in run.bends),
             spacing=run.spacing, min_stretch=run.min_stretch, min_duration=run.min_duration,
-            min_freeboard=run.min_freeboard, mat_allowance=run.mat_allowance, stone_porosity=run.stone_porosity)
+            min_freeboard=run.min_freeboard, mat_allowance=run.mat_allowance, stone_porosity=run.stone_porosity,
+            outfall_control=run.outfall.control, outfall_level=run.outfall.water_level)
     except hy.InputError as exc:
         raise _in_run(label, exc) from None
     return core, bases
@@ -190,6 +196,7 @@ class RunDesign:
     run: Run
     result: RunResult
     bases: list                              # SubAreaBasis per sub-area
+    surface: RunWaterSurface | None = None   # the water surface along the run and the fit of the ditch against it
     warnings: list = field(default_factory=list)
     notes: list = field(default_factory=list)
 
@@ -217,22 +224,24 @@ class RunDesign:
             checked = r is not None and p.not_checked is None
             y = r.depth if checked else None
             an = r.analysis if checked else None
+            ws = self.surface
+            wy = _finite(ws.depth[p.index])
             values = {
                 "station": p.station, "invert": p.invert, "slope": p.grade, "ca": f.ca[p.index],
                 "tc": f.duration[p.index] if f.ca[p.index] > 0 else None,
                 "intensity": f.intensity[p.index] if f.ca[p.index] > 0 else None, "flow": p.flow,
                 "shape": rs.section["shape"], "dimensions": section_dimensions(rs.section, units),
                 "ditch_depth": p.ditch_depth, "manning_n": r.manning_n if checked else None,
-                "normal_depth": y, "critical_depth": p.critical_depth, "water_depth": y,
-                "water_surface": None if y is None else p.invert + y,
+                "normal_depth": y, "critical_depth": p.critical_depth, "water_depth": wy,
+                "water_surface": _finite(ws.water_surface[p.index]), "profile_type": ws.profile_type[p.index],
                 "velocity": r.velocity if checked else None, "froude": r.froude if checked else None,
                 "regime": an.regime if checked else None, "bed_shear": r.bed_shear if checked else None,
                 "side_shear": r.side_shear if checked else None,
                 "permissible_shear": r.permissible_shear if checked else None,
                 "safety_factor": r.safety_factor if checked else None,
                 "lining": self.result.run.candidates[p.choice].lining.key if p.choice >= 0 else None,
-                "stable": (r.stable if checked else None), "freeboard": r.freeboard if checked else None,
-                "fits": p.fits if checked else None,
+                "stable": (r.stable if checked else None), "freeboard": _finite(ws.freeboard[p.index]),
+                "fits": ws.fits[p.index], "overtopped": bool(ws.overtopped[p.index]) if wy is not None else None,
                 "required_d50": r.required_d50 if checked and r.required_d50 is not None else None,
                 "partial_area": bool(f.partial[p.index]), "not_checked": p.not_checked,
             }
@@ -396,8 +405,11 @@ class RunDesign:
                  ("Design storm", f"{run.return_period:g}-year return period"),
                  ("Outfall", f"{format_station(run.outfall.station, units)}"
                              + (f", {run.outfall.kind}" if run.outfall.kind else "")
-                             + ("" if run.outfall.water_level is None else
-                                f", water level {length(run.outfall.water_level)} (not used: normal depth)")),
+                             + (f"; control: water level {length(run.outfall.water_level)}"
+                                if run.outfall.control == "level" else
+                                f"; control: {CONTROL_WORDS[run.outfall.control]}"
+                                + ("" if run.outfall.water_level is None else
+                                   f" (the water level {length(run.outfall.water_level)} given is not used)"))),
                  ("Design points", f"{len(res.points)}, at most {length(run.spacing)} apart and at every grade break, "
                                    "section change, bend end and inflow"),
                  ("Shortest stretch", length(run.min_stretch)),
@@ -412,13 +424,64 @@ class RunDesign:
             items.append(("Notes", run.notes))
         return items
 
+    # -- the water surface's controls and jumps ----------------------------------------
+    def control_values(self, units: UnitSystem) -> list[dict]:
+        """What was assumed at each end of the run (and at each critical section between), with its depth and
+        level, in ``units``: where ("inlet", "critical section", "outfall"), station, kind, depth, level, whether
+        it governs, and its message."""
+        L = lambda v: None if v is None or v != v else float(units.from_si("length", v))  # noqa: E731
+        return [{"where": c["where"], "station": L(c["station"]), "kind": c["kind"], "depth": L(c["depth"]),
+                 "level": L(c["level"]), "governs": bool(c["governs"]),
+                 "message": None if c["message"] is None else in_units(c["message"], units)}
+                for c in self.surface.controls]
+
+    def jump_values(self, units: UnitSystem) -> list[dict]:
+        """The hydraulic jumps in ``units``: station of the toe (the run's stationing), upstream and downstream
+        (sequent) depths, length, and the Froude number and kind."""
+        L = lambda v: float(units.from_si("length", v))  # noqa: E731
+        return [{"station": L(j.station), "upstream_depth": L(j.jump.upstream_depth),
+                 "downstream_depth": L(j.jump.downstream_depth), "length": L(j.jump.length),
+                 "froude": j.jump.froude, "kind": j.jump.kind} for j in self.surface.jumps]
+
+    def control_rows(self, units: UnitSystem) -> list[str]:
+        """The controls as lines of text: 'outfall, 0+700.00: water level 45.86 m (depth 1.300 m), governs'."""
+        F = RUN_STATION_FIELDS
+        L = units.label("length")
+        out = []
+        for c, raw in zip(self.control_values(units), self.surface.controls):
+            what = {"normal": "normal depth", "critical": "critical depth", "level": "water level",
+                    "depth": "depth given"}.get(c["kind"], c["kind"])
+            text = f"{c['where']}, {format_station(raw['station'], units)}: {what}"
+            if c["level"] is not None:
+                text += (f", level {rounded(c['level'], F['water_surface'])} {L} (depth "
+                         f"{rounded(c['depth'], F['water_depth'])} {L})")
+            text += ", governs" if c["governs"] else ", does not govern"
+            if c["message"]:
+                text += f": {c['message']}"
+            out.append(text)
+        return out
+
+    def jump_rows(self, units: UnitSystem) -> list[str]:
+        """The jumps as lines of text: 'at 0+329.14: 0.229 m to 0.549 m over 3.29 m (oscillating, Fr 2.61)'."""
+        F = RUN_STATION_FIELDS
+        L = units.label("length")
+        return [f"at {format_station(j.station, units)}: {rounded(v['upstream_depth'], F['water_depth'])} {L} to "
+                f"{rounded(v['downstream_depth'], F['water_depth'])} {L} over {rounded(v['length'], F['ditch_depth'])} "
+                f"{L} ({v['kind']}, Froude number {v['froude']:.2f})"
+                for j, v in zip(self.surface.jumps, self.jump_values(units))]
+
     def to_dict(self, units: UnitSystem) -> dict:
         """The ``ditchwright run --json`` layout of this run, in ``units``."""
         res = self.result
         return {"name": self.run.name, "length": float(units.from_si("length", res.layout.length)),
                 "return_period": float(self.run.return_period),
                 "outfall": {"station": float(units.from_si("length", self.run.outfall.station)),
-                            "kind": self.run.outfall.kind},
+                            "kind": self.run.outfall.kind, "control": self.run.outfall.control,
+                            "water_level": (None if self.run.outfall.water_level is None else
+                                            float(units.from_si("length", self.run.outfall.water_level)))},
+                "depths_used": {"shear_check": "normal_depth", "fit_check": "water_depth"},
+                "controls": self.control_values(units), "jumps": self.jump_values(units),
+                "water_surface_error": None if self.surface.error is None else in_units(self.surface.error, units),
                 "sub_areas": [{"name": b.name, "area": float(units.from_si("drainage_area", b.area)),
                                "runoff_coefficient": b.runoff_coefficient, "coefficient_method": b.coefficient_method,
                                "time_of_concentration": b.time_of_concentration / 60.0, "time_method": b.time_method}
@@ -442,8 +505,18 @@ def design_run(project: Project, run: Run, catalogue: Catalogue | None = None) -
     warnings = [worded("sub-area {name}: {w}", name=b.name, w=w) for b in bases for w in b.warnings]
     # the run's warnings with the cautions of the scheduled linings' full checks: asking for them makes those
     # checks (solve_run only screens the candidates); the station table needs them all the same
-    warnings += result.warnings
-    notes = list(result.notes)
+    # the fit of the ditch is checked on the water surface (hydraulics.run_water_surface), not on normal depth
+    surface = run_water_surface(result)
+    warnings += [w for w in result.warnings if getattr(w, "template", None) != NORMAL_DEPTH_FIT]
+    warnings += surface.warnings
+    notes = list(result.notes) + list(surface.notes)
     if any(b.time_method.startswith("Kirpich") for b in bases):
         notes.append("own times of concentration by Kirpich's formula where stated (Kirpich 1940)")
-    return RunDesign(project=project, run=run, result=result, bases=bases, warnings=warnings, notes=notes)
+    return RunDesign(project=project, run=run, result=result, bases=bases, surface=surface, warnings=warnings,
+                     notes=notes)
+
+
+def _finite(value):
+    """A float, or None where it is NaN (no water, not computed)."""
+    value = float(value)
+    return None if value != value else value

@@ -20,8 +20,10 @@ Rules of the program, stated with every result:
   time is not overestimated and the flow not underestimated; on a zero or adverse grade (no normal depth)
   the velocity at critical depth, the fastest a subcritical flow can run; at a point with no flow yet, the
   velocity of the next point downstream that has flow;
-* the water depth is the normal depth of the scheduled lining (the water-surface profile of backwater and
-  drawdown is not computed here);
+* the lining checks, the schedule and the quantities use normal depth with each lining, the design depth of
+  HEC-15's permissible-shear method; the water surface along the run (backwater from the outfall, drawdown,
+  hydraulic jumps) and the fit of the ditch against it are computed from the solved run by
+  :mod:`hydraulics.run_water_surface`, with the outfall control the run states (``outfall_control``);
 * a point on a zero or adverse grade has no normal depth: it is reported, its linings are not checked, and
   the schedule may use any candidate there.
 
@@ -52,11 +54,18 @@ from .stability import StabilityResult, check_lining
 from .wording import worded
 
 __all__ = ["SectionRange", "Bend", "Candidate", "DitchRun", "PointResult", "PointChecks", "RunResult", "solve_run",
-           "TRAVEL_TOLERANCE", "MAX_TRAVEL_ITERATIONS", "RUN_RULES"]
+           "TRAVEL_TOLERANCE", "MAX_TRAVEL_ITERATIONS", "RUN_RULES", "NORMAL_DEPTH_FIT", "OUTFALL_CONTROLS"]
 
 #: The travel-time iteration stops when no design point's travel time changes by more than this [s].
 TRAVEL_TOLERANCE = 1e-3
 MAX_TRAVEL_ITERATIONS = 100
+
+#: The run's warning where normal depth plus freeboard is above the ditch as built (a front end that checks the fit
+#: on the water-surface profile, :mod:`hydraulics.run_water_surface`, shows that check instead).
+NORMAL_DEPTH_FIT = "normal depth plus freeboard is above the ditch as built from {a} to {b}: deepen the ditch"
+
+#: What may stand at the outfall: normal depth, critical depth (a free overfall) or a known water level.
+OUTFALL_CONTROLS = ("normal", "critical", "level")
 
 RUN_RULES = (
     f"design flow at each point by the rational method, Q = C i A (HEC-22 Eq. 3-1) with i at the longest time to "
@@ -65,7 +74,8 @@ RUN_RULES = (
     "the customary Q = C i A; in SI Q = C i A / 360 with i in mm/h and A in ha)",
     "travel time down the ditch: at each point the fastest candidate lining's uniform-flow velocity (so the flow "
     "is not underestimated); on a zero or adverse grade the velocity at critical depth (the program's rule)",
-    "water depth = normal depth with the scheduled lining; backwater from the outfall and drawdown are not computed",
+    "lining checks, schedule and quantities on normal depth with each lining (the design depth of HEC-15's "
+    "permissible-shear method)",
     "a design point where two ranges meet takes the values of the range that begins there in the direction of "
     "flow (the program's convention)",
     "point inflows are added at their full flow with no timing (conservative)",
@@ -126,7 +136,10 @@ class DitchRun:
     of one lining [m]; ``idf`` an intensity-duration-frequency relation (``hydraulics.rainfall``);
     ``return_period`` [yr]; ``min_duration`` the shortest duration intensities are read at [s];
     ``min_freeboard`` [m]; ``mat_allowance`` the extra fraction of seeded or mat surface for laps and anchor
-    trenches [-]; ``stone_porosity`` the voids of a riprap layer [-] (for its mass)."""
+    trenches [-]; ``stone_porosity`` the voids of a riprap layer [-] (for its mass); ``outfall_control`` what
+    controls the water surface at the outfall: "normal" (normal depth, the default), "critical" (a free overfall)
+    or "level" (a known water-surface elevation ``outfall_level`` [m], such as a culvert's headwater or a
+    receiving stream); used by :mod:`hydraulics.run_water_surface`."""
 
     name: str
     profile: tuple
@@ -144,6 +157,8 @@ class DitchRun:
     min_freeboard: float = 0.15
     mat_allowance: float = 0.0
     stone_porosity: float = 0.4
+    outfall_control: str = "normal"
+    outfall_level: float | None = None
 
 
 class PointChecks(Sequence):
@@ -306,6 +321,14 @@ def _validate(run: DitchRun) -> None:
         validate.non_negative(f"candidates[{k}].unit_cost", c.price)
     for k, b in enumerate(run.bends):
         validate.positive(f"bends[{k}].radius", b.radius)
+    if run.outfall_control not in OUTFALL_CONTROLS:
+        raise InputError("outfall.control", f"must be one of {', '.join(OUTFALL_CONTROLS)}, got "
+                                            f"{run.outfall_control!r}")
+    if run.outfall_control == "level":
+        if run.outfall_level is None:
+            raise InputError("outfall.water_level", "is missing: the outfall control is a known water level, so give "
+                                                    "that level (an elevation [m])")
+        validate.number("outfall.water_level", run.outfall_level)
 
 
 def _travel_velocity(points, roughness) -> np.ndarray:
@@ -539,8 +562,7 @@ def _run_messages(res: RunResult, total_area: float):
     with np.errstate(invalid="ignore"):
         over = res.scheduled("total_depth") > res.ditch_depth * (1 + 1e-9)   # nan (not checked) compares False
     for a, b in _ranges_of(over.tolist(), stations):
-        warnings.append(worded("water plus freeboard is above the ditch as built from {a} to {b}: deepen the ditch",
-                               a=at(a), b=at(b)))
+        warnings.append(worded(NORMAL_DEPTH_FIT, a=at(a), b=at(b)))
     for a, b in _ranges_of(state.partial.tolist(), stations):
         notes.append(worded("from {a} to {b} a part of the drainage area that reaches the ditch sooner gives a larger "
                             "peak than the whole area (partial-area case); the larger flow is used", a=at(a), b=at(b)))

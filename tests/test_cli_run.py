@@ -17,7 +17,7 @@ from hydraulics.units import FOOT, US
 STATION_KEYS = {"station", "invert", "slope", "ca", "tc", "intensity", "flow", "shape", "dimensions", "ditch_depth",
                 "manning_n", "normal_depth", "critical_depth", "water_depth", "water_surface", "velocity", "froude",
                 "regime", "bed_shear", "side_shear", "permissible_shear", "safety_factor", "lining", "stable",
-                "freeboard", "fits"}
+                "freeboard", "fits", "profile_type", "overtopped"}
 
 
 def run_cli(capsys, *args):
@@ -47,7 +47,8 @@ def test_json_layout_in_us_units(capsys):
     design = design_run(project, project.runs[0])
     assert run["total_cost"] == pytest.approx(design.result.total_cost)
     p = design.result.points[-1]
-    assert run["stations"][-1]["water_depth"] == pytest.approx(p.result.depth / FOOT)
+    assert run["stations"][-1]["water_depth"] == pytest.approx(design.surface.depth[-1] / FOOT)
+    assert run["stations"][-1]["normal_depth"] == pytest.approx(p.result.depth / FOOT)
     assert run["stations"][-1]["flow"] == pytest.approx(US.from_si("flow", p.flow))
     assert run["stations"][-1]["ca"] == pytest.approx(US.from_si("drainage_area", design.result.flows.ca[-1]))
 

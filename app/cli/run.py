@@ -17,7 +17,8 @@ HELP = COMMAND_HELP["run"]
 
 #: Columns of the readable station table: (key of the station rows, heading).
 TEXT_COLUMNS = (("station", "Station"), ("flow", "Flow"), ("slope", "Grade"), ("lining", "Lining"),
-                ("water_depth", "Depth"), ("velocity", "Velocity"), ("froude", "Fr"), ("bed_shear", "Bed shear"),
+                ("normal_depth", "Normal"), ("water_depth", "Depth"), ("profile_type", "Profile"),
+                ("water_surface", "Surface"), ("velocity", "Velocity"), ("froude", "Fr"), ("bed_shear", "Bed shear"),
                 ("permissible_shear", "Permissible"), ("safety_factor", "SF"), ("freeboard", "Freeboard"),
                 ("fits", "Fits"))
 
@@ -138,11 +139,19 @@ def _text(design, units) -> str:
     cells = [[row[k] if k != "slope" else f"{float(row[k]) * 100:.2f} %" for k, _ in TEXT_COLUMNS] for row in rows]
     widths = [max(len(h), *(len(c[i]) for c in cells)) for i, h in enumerate(heads)]
     lines += ["", "Stations", "  " + "  ".join(h.rjust(w) for h, w in zip(heads, widths))]
+    ws = design.surface
     for c, p in zip(cells, res.points):
-        mark = "  <- not stable" if p.failing else ("  <- too shallow" if p.fits is False else "")
+        fits, over = ws.fits[p.index], bool(ws.overtopped[p.index])
+        mark = "  <- not stable" if p.failing else ("  <- overtopped" if over else
+                                                     "  <- too shallow" if fits is False else "")
         if p.not_checked:
             mark = f"  <- {p.not_checked}"
         lines.append("  " + "  ".join(x.rjust(w) for x, w in zip(c, widths)) + mark)
+    lines.append("  (Depth: water depth from the water-surface profile, used for the fit of the ditch; the shear "
+                 "check uses normal depth, HEC-15's design depth)")
+    lines += ["", "Water-surface controls"] + [f"  - {t}" for t in design.control_rows(units)]
+    jumps = design.jump_rows(units)
+    lines += ["", "Hydraulic jumps"] + ([f"  - {t}" for t in jumps] or ["  - none"])
     if design.warnings:
         lines += ["", "Warnings"] + [f"  - {w}" for w in design.to_dict(units)["warnings"]]
     lines += ["", "Method"] + [f"  - {n}" for n in design.to_dict(units)["notes"]]
