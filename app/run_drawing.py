@@ -19,7 +19,7 @@ from hydraulics.wording import format_station
 
 from .run_design import RunDesign
 
-__all__ = ["Polyline", "Band", "Marker", "GradeLabel", "ProfileModel", "profile_model", "station_step"]
+__all__ = ["Polyline", "Band", "Marker", "GradeLabel", "JumpMark", "ProfileModel", "profile_model", "station_step"]
 
 
 @dataclass(frozen=True)
@@ -33,8 +33,8 @@ class Polyline:
 
 @dataclass(frozen=True)
 class Band:
-    """A station range with a label: a lining stretch (status "stretch") or a trouble spot ("not stable",
-    "too shallow", "not checked")."""
+    """A station range with a label: a lining stretch (status "stretch") or a trouble spot ("overtopped",
+    "not stable", "too shallow", "not checked", "not computed": the water surface could not be computed)."""
 
     start: float
     end: float
@@ -58,6 +58,18 @@ class GradeLabel:
     text: str         # "0.60 %"
 
 
+@dataclass(frozen=True)
+class JumpMark:
+    """A hydraulic jump: the station of its toe and of the end of its roller, the water surface before and after
+    it (user's units), and its label ("jump 0+329.14")."""
+
+    start: float
+    end: float
+    low: float
+    high: float
+    label: str
+
+
 @dataclass
 class ProfileModel:
     """The profile of one run in the user's units (``length_unit``), ready to draw."""
@@ -66,7 +78,8 @@ class ProfileModel:
     length_unit: str
     first_station: float
     last_station: float
-    lines: dict                                     # name -> Polyline: invert, ditch_top, water_surface, critical
+    lines: dict                                     # name -> Polyline: invert, ditch_top, water_surface, normal,
+                                                    # critical
     stretches: list = field(default_factory=list)   # Band, status "stretch"
     trouble: list = field(default_factory=list)     # Band, other statuses
     inflows: list = field(default_factory=list)     # Marker
@@ -74,11 +87,19 @@ class ProfileModel:
     ticks: list = field(default_factory=list)       # (station, "0+100.00")
     outfall: tuple = ()                             # (station, invert, label)
     grade_points: Polyline | None = None            # the invert profile's points as given (grade breaks), by station
+    jumps: list = field(default_factory=list)       # JumpMark
+    #: how each line is drawn, by name: "solid", "dashed" (normal depth, the ditch top) or "dotted" (critical depth)
+    styles: dict = field(default_factory=lambda: dict(LINE_STYLES))
 
     def y_range(self) -> tuple[float, float]:
         """The lowest and highest elevation drawn."""
         ys = np.concatenate([ln.y[np.isfinite(ln.y)] for ln in self.lines.values()])
         return float(ys.min()), float(ys.max())
+
+
+#: How each line of the profile is drawn (every front end follows it).
+LINE_STYLES = {"invert": "solid", "ditch_top": "dashed", "water_surface": "solid", "normal": "dashed",
+               "critical": "dotted"}
 
 
 def station_step(length: float, units: UnitSystem, ticks: int = 8) -> float:
@@ -97,25 +118,45 @@ def profile_model(design: RunDesign, units: UnitSystem) -> ProfileModel:
     res = design.result
     L = lambda v: np.asarray(units.from_si("length", np.asarray(v, dtype=float)), dtype=float)  # noqa: E731
     pts = res.points
+    ws = design.surface
     stations = L([p.station for p in pts])
     invert = L([p.invert for p in pts])
     top = L([p.invert + p.ditch_depth for p in pts])
-    water = L([np.nan if (p.result is None or p.not_checked) else p.invert + p.result.depth for p in pts])
-    crit = L([np.nan if (p.flow <= 0 or p.not_checked) else p.invert + p.critical_depth for p in pts])
+    normal = L(ws.invert + ws.normal_depth)
+    crit = L(ws.invert + ws.critical_depth)
     order = np.argsort(stations)
     lines = {name: Polyline(label, stations[order], y[order]) for name, label, y in (
         ("ditch_top", "Top of ditch", top), ("invert", "Invert", invert),
-        ("water_surface", "Water surface (normal depth)", water), ("critical", "Critical depth", crit))}
+        ("normal", "Normal depth", normal), ("critical", "Critical depth", crit))}
+    # the computed water surface through every computation node of the profile (smoother than the design points)
+    if ws.profile is not None:
+        prof = ws.profile
+        xs = L(res.layout.station_of(prof.detail_distance))
+        ys = L(prof.detail_bed + prof.detail_depth)
+        o = np.argsort(xs, kind="stable")
+        lines["water_surface"] = Polyline("Water surface (computed)", xs[o], ys[o])
+    else:
+        lines["water_surface"] = Polyline("Water surface (not computed)", stations[order],
+                                          np.full(stations.size, np.nan))
+    lines = {k: lines[k] for k in ("ditch_top", "invert", "water_surface", "normal", "critical")}
     model = ProfileModel(title=design.run.name, length_unit=units.label("length"),
                          first_station=float(L(res.layout.first_station)), last_station=float(L(res.layout.last_station)),
                          lines=lines)
     for q in res.quantities:
         a, b = sorted((float(L(q.start)), float(L(q.end))))
         model.stretches.append(Band(a, b, q.lining_name, "stretch"))
-    for status, flag in (("not stable", lambda p: p.failing), ("too shallow", lambda p: p.fits is False),
+    for status, flag in (("overtopped", lambda p: bool(ws.overtopped[p.index])),
+                         ("not stable", lambda p: p.failing),
+                         ("too shallow", lambda p: ws.fits[p.index] is False and not ws.overtopped[p.index]),
+                         ("not computed", lambda p: ws.profile_type[p.index] == "not computed"),
                          ("not checked", lambda p: p.not_checked is not None and p.flow > 0)):
         for a, b in _spans([flag(p) for p in pts], stations):
             model.trouble.append(Band(a, b, status, status))
+    for j in ws.jumps:
+        a, b = float(L(j.station)), float(L(j.end_station))
+        z = float(L(np.interp(res.layout.x_of(j.station), res.layout.x, res.layout.invert)))
+        model.jumps.append(JumpMark(a, b, z + float(L(j.jump.upstream_depth)), z + float(L(j.jump.downstream_depth)),
+                                    f"jump {format_station(j.station, units)}"))
     for sa in design.run.sub_areas:
         a = float(L(sa.from_station))
         b = a if sa.to_station is None else float(L(sa.to_station))

@@ -21,11 +21,38 @@ def test_lines_are_the_station_table_in_the_users_units(design):
     assert m.lines["invert"].x == pytest.approx([p.station / FOOT for p in pts])
     assert m.lines["invert"].y == pytest.approx([p.invert / FOOT for p in pts])
     assert m.lines["ditch_top"].y == pytest.approx([(p.invert + p.ditch_depth) / FOOT for p in pts])
-    checked = [i for i, p in enumerate(pts) if p.not_checked is None]
-    assert m.lines["water_surface"].y[checked] == pytest.approx(
-        [(pts[i].invert + pts[i].result.depth) / FOOT for i in checked])
-    assert np.isnan(m.lines["water_surface"].y[0])          # no flow at the top of the run
+    # the computed water surface passes through the profile's water surface at every design point with water
+    ws, line = design.surface, m.lines["water_surface"]
+    for i, p in enumerate(pts):
+        if np.isfinite(ws.depth[i]):
+            at = np.flatnonzero(np.isclose(line.x, p.station / FOOT, rtol=0, atol=1e-9))
+            assert at.size and np.min(np.abs(line.y[at] - ws.water_surface[i] / FOOT)) < 1e-9
+    assert line.x.min() == pytest.approx(pts[1].station / FOOT)   # no flow at the top of the run: no water there
+    assert np.all(np.diff(line.x) >= 0)
+    # normal depth dashed, critical depth dotted, at the design points
+    wet = [i for i, p in enumerate(pts) if p.flow > 0]
+    assert m.lines["normal"].y[wet] == pytest.approx([(pts[i].invert + pts[i].result.depth) / FOOT for i in wet
+                                                      if pts[i].not_checked is None])
+    assert m.lines["critical"].y[wet] == pytest.approx([(pts[i].invert + pts[i].critical_depth) / FOOT for i in wet])
+    assert m.styles["normal"] == "dashed" and m.styles["critical"] == "dotted"
     assert m.length_unit == "ft"
+
+
+def test_jumps_and_overtopped_stretches_are_marked():
+    project = pj.load(pj.demo_path())
+    run = project.runs[0]
+    run.outfall.control, run.outfall.water_level = "level", 44.56 + 1.3   # invented: 0.3 m over the ditch top
+    design = design_run(project, run)
+    m = profile_model(design, SI)
+    (jump,) = m.jumps
+    assert jump.label == "jump 0+329.14" and jump.start == pytest.approx(design.surface.jumps[0].station)
+    assert jump.low < jump.high
+    over = [b for b in m.trouble if b.status == "overtopped"]
+    assert len(over) == 1 and over[0].end == pytest.approx(700.0)
+    first_over = design.surface.stations[np.argmax(design.surface.overtopped)]
+    assert over[0].start == pytest.approx(first_over)
+    shallow = [b for b in m.trouble if b.status == "too shallow"]
+    assert shallow and shallow[-1].end < over[0].start          # freeboard lost before the banks are overtopped
 
 
 def test_bands_grades_inflows_and_ticks(design):

@@ -46,8 +46,10 @@ SECTION_LAYERS = {
 PROFILE_LAYERS = {
     "INVERT": (7, 50, "Continuous", "invert of the ditch through its grade points"),
     "DITCH-TOP": (34, 25, "Continuous", "top of the ditch (invert plus ditch depth)"),
-    "WATER-SURFACE": (5, 35, "Continuous", "water surface at normal depth"),
-    "CRITICAL-DEPTH": (1, 18, "DASHED", "critical depth"),
+    "WATER-SURFACE": (5, 35, "Continuous", "water surface computed along the run (standard step method)"),
+    "NORMAL-DEPTH": (5, 18, "DASHED", "normal depth"),
+    "CRITICAL-DEPTH": (1, 18, "DOT", "critical depth"),
+    "JUMPS": (1, 25, "Continuous", "hydraulic jumps, marked at the station of the toe"),
     "GRADES": (94, 18, "Continuous", "grade points and the grade of each stretch"),
     "STATIONS": (7, 18, "Continuous", "station line, ticks and labels"),
     "ELEVATIONS": (7, 18, "Continuous", "elevation scale"),
@@ -248,8 +250,14 @@ def profile_document(model: ProfileModel, units: UnitSystem, exaggeration: float
         _polyline(msp, lines["invert"].x, Y(lines["invert"].y), "INVERT")
     _polyline(msp, lines["ditch_top"].x, Y(lines["ditch_top"].y), "DITCH-TOP")
     _polyline(msp, lines["water_surface"].x, Y(lines["water_surface"].y), "WATER-SURFACE")
+    if "normal" in lines:
+        _polyline(msp, lines["normal"].x, Y(lines["normal"].y), "NORMAL-DEPTH", ltscale=h / 2)
     if "critical" in lines:
         _polyline(msp, lines["critical"].x, Y(lines["critical"].y), "CRITICAL-DEPTH", ltscale=h / 2)
+    for jm in model.jumps:
+        msp.add_line((jm.start, float(Y(jm.low))), (jm.start, float(Y(jm.high)) + 1.5 * h), dxfattribs={"layer": "JUMPS"})
+        _text(msp, jm.label, jm.start, float(Y(jm.high)) + 1.7 * h, 0.7 * h, layer="JUMPS",
+              align=TextEntityAlignment.BOTTOM_CENTER)
 
     # grade points and grades
     if gp is not None:
@@ -293,7 +301,7 @@ def profile_document(model: ProfileModel, units: UnitSystem, exaggeration: float
 
     # a key of the lines, above the plot at the right
     key = [("INVERT", "invert", {}), ("DITCH-TOP", "top of ditch", {}), ("WATER-SURFACE", "water surface", {}),
-           ("CRITICAL-DEPTH", "critical depth", {"ltscale": h / 2})]
+           ("NORMAL-DEPTH", "normal depth", {"ltscale": h / 2}), ("CRITICAL-DEPTH", "critical depth", {"ltscale": h / 2})]
     kx = x1
     for layer, label, extra in reversed(key):
         kx -= len(label) * CHAR_WIDTH * 0.8 * h

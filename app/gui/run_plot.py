@@ -1,6 +1,6 @@
 """The profile of a ditch run along its stationing, drawn from the one drawing model (:mod:`app.run_drawing`).
 
-One Figure on one canvas; the four lines are made once and moved with ``set_data``; the bands, markers and
+One Figure on one canvas; the five lines are made once and moved with ``set_data``; the bands, markers and
 labels, whose number changes with the run, are made again at each update. Margins are fixed (no layout
 engine). Nothing here computes or converts: the model is in the user's units and worded already.
 """
@@ -18,16 +18,20 @@ from .plots import CRITICAL, FONT, INK, MUTED, SOIL_EDGE, WATER, WATER_EDGE, Pic
 #: Fill of the lining stretches, by order of first appearance along the run.
 STRETCH_COLOURS = ("#cfd8c4", "#c9c2b4", "#c3ccd6", "#e0d2b6", "#d3c7dc", "#bfd6d2")
 #: Trouble spots: fill and words' colour by status (the words are the model's own).
-TROUBLE_COLOURS = {"not stable": ("#f3c9c6", "#a4231b"), "too shallow": ("#f7dcc0", "#8f4a0c"),
-                   "not checked": ("#ece8c8", "#6e5a08")}
+TROUBLE_COLOURS = {"overtopped": ("#f0b9b4", "#8c1610"), "not stable": ("#f3c9c6", "#a4231b"),
+                   "too shallow": ("#f7dcc0", "#8f4a0c"), "not checked": ("#ece8c8", "#6e5a08"),
+                   "not computed": ("#e2e2e2", "#444444")}
+#: Line styles of the model's words (app.run_drawing.LINE_STYLES).
+DASHES = {"solid": "-", "dashed": "--", "dotted": ":"}
 BAND = 0.075         # height of the lining band at the foot of the axes, as a fraction of the axes
 LANES = (0.965, 0.905, 0.845)   # heights of the inflow labels, fraction of the axes
 CHAR_PX = 6.3        # about the width of one character at the label size [px], to keep labels apart
 
 
 class ProfilePicture(Picture):
-    """Ditch top, invert, water surface and critical depth along the run; lining stretches as labelled bands at
-    the foot, trouble spots shaded with their words, inflows labelled at the top, grades under the invert."""
+    """Ditch top, invert, the computed water surface, normal depth (dashed) and critical depth (dotted) along the
+    run; hydraulic jumps marked with their station; lining stretches as labelled bands at the foot, trouble spots
+    (overtopped, too shallow...) shaded with their words, inflows labelled at the top, grades under the invert."""
 
     margins = dict(left=0.075, right=0.985, bottom=0.2, top=0.92)
     #: Room around the axes in pixels: left (elevations), right (the last station's label), bottom (stations,
@@ -44,7 +48,8 @@ class ProfilePicture(Picture):
             "ditch_top": ax.plot([], [], color=SOIL_EDGE, lw=1.0, ls=(0, (6, 2)), zorder=3)[0],
             "invert": ax.plot([], [], color=INK, lw=1.8, zorder=4)[0],
             "water_surface": ax.plot([], [], color=WATER_EDGE, lw=1.4, zorder=5)[0],
-            "critical": ax.plot([], [], color=CRITICAL, lw=1.3, ls=":", zorder=5)[0],   # dotted
+            "normal": ax.plot([], [], color=WATER_EDGE, lw=1.0, ls=DASHES["dashed"], alpha=0.8, zorder=5)[0],
+            "critical": ax.plot([], [], color=CRITICAL, lw=1.3, ls=DASHES["dotted"], zorder=5)[0],
         }
         self.cursor = ax.axvline(0, color="#2c6b9f", lw=1.0, alpha=0.55, zorder=2, visible=False)
         self.cursor_label = ax.text(0, BAND + 0.01, "", transform=blended_transform_factory(ax.transData, ax.transAxes),
@@ -74,10 +79,12 @@ class ProfilePicture(Picture):
             line = model.lines[name]
             artist.set_data(line.x, line.y)
             artist.set_label(line.label)
+            artist.set_linestyle(DASHES[model.styles.get(name, "solid")])
         inv, ws = model.lines["invert"], model.lines["water_surface"]
-        top = np.where(np.isfinite(ws.y), ws.y, inv.y)
-        self.water.set_xy(np.column_stack([np.concatenate([inv.x, inv.x[::-1]]),
-                                           np.concatenate([inv.y, top[::-1]])]))
+        bed = np.interp(ws.x, inv.x, inv.y) if inv.x.size else ws.y
+        top = np.where(np.isfinite(ws.y), ws.y, bed)
+        self.water.set_xy(np.column_stack([np.concatenate([ws.x, ws.x[::-1]]),
+                                           np.concatenate([bed, top[::-1]])]) if ws.x.size else np.zeros((3, 2)))
         x0, x1 = model.first_station, model.last_station
         low, high = model.y_range()
         span = max(high - low, 1e-6)
@@ -96,6 +103,13 @@ class ProfilePicture(Picture):
             self._made.append(ax.annotate(f"grade {g.text}", (g.x, g.y), xytext=(4, -8), textcoords="offset points",
                                           ha="left", va="top", fontsize=FONT - 1, color=INK, zorder=6,
                                           bbox=dict(boxstyle="round,pad=0.2", fc="white", ec="none", alpha=0.85)))
+        for jm in model.jumps:
+            self._made.append(ax.plot([jm.start, jm.start], [jm.low, jm.high], color=CRITICAL, lw=2.0,
+                                      zorder=7)[0])
+            self._made.append(ax.annotate(jm.label, (jm.start, jm.high), xytext=(0, 14), textcoords="offset points",
+                                          ha="center", va="bottom", fontsize=FONT - 1, color=CRITICAL, zorder=8,
+                                          arrowprops=dict(arrowstyle="-", color=CRITICAL, lw=0.8),
+                                          bbox=dict(boxstyle="round,pad=0.2", fc="white", ec="none", alpha=0.85)))
         if model.outfall:
             s, z, label = model.outfall
             self._made.append(ax.plot([s], [z], marker="s", ms=6, color=INK, zorder=7)[0])
@@ -105,10 +119,10 @@ class ProfilePicture(Picture):
             self._made.append(ax.annotate(f"outfall: {label}", (s, above), xytext=(-4, 8), textcoords="offset points",
                                           ha="right", va="bottom", fontsize=FONT - 1, color=INK, zorder=7,
                                           bbox=dict(boxstyle="round,pad=0.2", fc="white", ec="none", alpha=0.85)))
-        handles = [self.lines[k] for k in ("ditch_top", "water_surface", "critical", "invert")]
+        handles = [self.lines[k] for k in ("ditch_top", "water_surface", "normal", "critical", "invert")]
         if self.legend is not None:
             self.legend.remove()
-        self.legend = self.figure.legend(handles=handles, loc="lower center", ncol=4, fontsize=FONT - 0.5,
+        self.legend = self.figure.legend(handles=handles, loc="lower center", ncol=5, fontsize=FONT - 0.5,
                                          frameon=False, bbox_to_anchor=(0.5, 0.0), handlelength=2.4,
                                          borderaxespad=0.2)
         self.show_station(self.selected)

@@ -1,10 +1,11 @@
 """The profile of a ditch run drawn to stated horizontal and vertical scales with reportlab's vector graphics.
 
 It draws :class:`app.run_drawing.ProfileModel`, the one drawing model the window draws too: the invert, the
-top of the ditch, the water surface (normal depth) and the critical-depth line along the stations, the grade
+top of the ditch, the computed water surface, the normal-depth (dashed) and critical-depth (dotted) lines and
+the hydraulic jumps (marked with their station) along the stations, the grade
 of each stretch, the inflows above the plot (a point inflow as an arrow, a sub-area spread along the ditch as a
 bracket), the outfall, and under the plot the lining stretches as labelled bands (numbered as the lining
-schedule) and any trouble spots (not stable, too shallow, not checked) as red bands.
+schedule) and any trouble spots (overtopped, not stable, too shallow, not computed, not checked) as red bands.
 
 Both scales are round ratios from a series of the usual profile scales (common practice: 1:500 to 1:5000
 along, 1:50 to 1:500 up, or 1 in = 50 to 500 ft along and 1 in = 5 to 50 ft up), chosen as the section's scale
@@ -58,6 +59,8 @@ ROW = 8.5          # one row of inflow labels [pt]
 STATION_ROW = 10.0
 BAND = 12.0
 LEGEND = 11.0
+#: Dash patterns of the model's line styles (app.run_drawing.LINE_STYLES) [pt on, pt off].
+DASHES = {"solid": None, "dashed": (3, 2), "dotted": (0.6, 1.4)}
 
 
 @dataclass(frozen=True)
@@ -148,6 +151,21 @@ def _rows(items, gap=4.0):
     return rows
 
 
+def _legend(model) -> list:
+    """The legend's entries: (kind, colour, line width, dash, label)."""
+    entries = [("line", INVERT, 1.2, None, model.lines["invert"].label),
+               ("line", TOP, 0.9, None, model.lines["ditch_top"].label),
+               ("line", WATER_LINE, 0.9, None, model.lines["water_surface"].label),
+               ("line", WATER_LINE, 0.5, DASHES["dashed"], model.lines["normal"].label),
+               ("line", CRITICAL, 0.6, DASHES["dotted"], model.lines["critical"].label),
+               ("arrow", INFLOW, 0, None, "Inflow (point; bracket: spread along the ditch)")]
+    if model.jumps:
+        entries.append(("jump", CRITICAL, 1.6, None, "Hydraulic jump"))
+    if model.trouble:
+        entries.append(("box", TROUBLE, 0, None, "Trouble spot"))
+    return entries
+
+
 def profile_drawing(model, units, width: float, height: float, band_numbers=None) -> tuple[Drawing, ProfileScales]:
     """The profile of ``model`` (an app.run_drawing.ProfileModel in ``units``) in at most ``width`` x ``height``
     [pt]; returns the drawing (as tall as it needs) and the scales.
@@ -181,7 +199,16 @@ def profile_drawing(model, units, width: float, height: float, band_numbers=None
     rows = _rows(extents)
     n_rows = (max(rows) + 1) if rows else 0
     top_room = n_rows * ROW + (6.0 if n_rows else 2.0)
-    bottom_room = STATION_ROW + BAND + 3 + (BAND + 2 if model.trouble else 0) + LEGEND + 4
+    entries = _legend(model)
+    legend_at, x, row = [], LEFT, 0
+    for entry in entries:
+        wide = 17 + stringWidth(entry[-1], FONT, SIZE - 0.5)
+        if x > LEFT and x + wide > width:
+            x, row = LEFT, row + 1
+        legend_at.append((x, row))
+        x += wide + 10
+    legend_rows = row + 1
+    bottom_room = STATION_ROW + BAND + 3 + (BAND + 2 if model.trouble else 0) + LEGEND * legend_rows + 4
 
     y_lo, y_hi = model.y_range()
     step = nice_step(max(y_hi - y_lo, 1e-6), 5)
@@ -218,6 +245,8 @@ def profile_drawing(model, units, width: float, height: float, band_numbers=None
     # water between the invert and the water surface
     inv, ws = model.lines["invert"], model.lines["water_surface"]
     for piece in _runs(ws.x, ws.y):
+        if len(piece) < 2:
+            continue
         xs = [p[0] for p in piece]
         bottom = np.interp(xs, inv.x, inv.y)
         pts = []
@@ -227,12 +256,14 @@ def profile_drawing(model, units, width: float, height: float, band_numbers=None
             pts += [px(s), py(float(z))]
         d.add(Polygon(pts, fillColor=WATER_FILL, strokeColor=None))
     styles = {"ditch_top": (TOP, 0.9, None), "invert": (INVERT, 1.2, None),
-              "water_surface": (WATER_LINE, 0.9, None), "critical": (CRITICAL, 0.6, (3, 2))}
-    for name in ("ditch_top", "critical", "water_surface", "invert"):
+              "water_surface": (WATER_LINE, 0.9, None), "normal": (WATER_LINE, 0.5, DASHES["dashed"]),
+              "critical": (CRITICAL, 0.6, DASHES["dotted"])}
+    for name in ("ditch_top", "critical", "normal", "water_surface", "invert"):
         line = model.lines.get(name)
         if line is None:
             continue
         colour, w, dash = styles[name]
+        dash = DASHES[model.styles[name]] if name in model.styles and name != "ditch_top" else dash
         for piece in _runs(line.x, line.y):
             pts = [v for s, z in piece for v in (px(s), py(z))]
             if len(pts) >= 4:
@@ -249,6 +280,15 @@ def profile_drawing(model, units, width: float, height: float, band_numbers=None
             d.add(_text(x, below, g.text, SIZE, "middle", INK))
         else:
             d.add(_text(x, py(float(np.max(np.interp(span, top.x, top.y)))) + 3, g.text, SIZE, "middle", INK))
+
+    # hydraulic jumps: a stroke from the depth before to the depth after, labelled with the station of the toe
+    for jm in model.jumps:
+        x = px(jm.start)
+        d.add(Line(x, py(jm.low), x, py(jm.high), strokeColor=CRITICAL, strokeWidth=1.6))
+        d.add(Line(x, py(jm.high), x, py(jm.high) + 9, strokeColor=CRITICAL, strokeWidth=0.5))
+        w = stringWidth(jm.label, FONT, SIZE - 0.5)
+        d.add(Rect(x - w / 2 - 1.5, py(jm.high) + 9, w + 3, 7, fillColor=colors.white, strokeColor=None))
+        d.add(_text(x, py(jm.high) + 10.5, jm.label, SIZE - 0.5, "middle", CRITICAL))
 
     # the outfall
     if model.outfall:
@@ -305,24 +345,17 @@ def profile_drawing(model, units, width: float, height: float, band_numbers=None
             if text:
                 d.add(_text(0.5 * (a + e), y_tr + 3.8, text, SIZE - 0.5, "middle", TROUBLE))
 
-    # legend
-    y_leg = 3.0
-    x = LEFT
-    entries = [("line", INVERT, 1.2, None, model.lines["invert"].label),
-               ("line", TOP, 0.9, None, model.lines["ditch_top"].label),
-               ("line", WATER_LINE, 0.9, None, model.lines["water_surface"].label),
-               ("line", CRITICAL, 0.6, (3, 2), model.lines["critical"].label),
-               ("arrow", INFLOW, 0, None, "Inflow (point; bracket: spread along the ditch)")]
-    if model.trouble:
-        entries.append(("box", TROUBLE, 0, None, "Trouble spot"))
-    for kind, colour, w, dash, label in entries:
+    # legend, in as many rows as it needs
+    for (kind, colour, w, dash, label), (x, row) in zip(entries, legend_at):
+        y_leg = 3.0 + (legend_rows - 1 - row) * LEGEND
         if kind == "line":
             d.add(Line(x, y_leg + 2.2, x + 14, y_leg + 2.2, strokeColor=colour, strokeWidth=w, strokeDashArray=dash))
+        elif kind == "jump":
+            d.add(Line(x + 7, y_leg - 0.5, x + 7, y_leg + 5, strokeColor=colour, strokeWidth=w))
         elif kind == "arrow":
             d.add(Polygon([x + 7, y_leg, x + 4.8, y_leg + 4.5, x + 9.2, y_leg + 4.5], fillColor=colour,
                           strokeColor=None))
         else:
             d.add(Rect(x + 2, y_leg, 10, 4.5, fillColor=TROUBLE_FILL, strokeColor=colour, strokeWidth=0.6))
         d.add(_text(x + 17, y_leg, label, SIZE - 0.5, "start", colour if kind != "line" else INK))
-        x += 17 + stringWidth(label, FONT, SIZE - 0.5) + 10
     return d, scales

@@ -33,6 +33,8 @@ STATION_COLUMNS = (
     ("manning_n", "n", ""),
     ("normal_depth", "yn", None),
     ("critical_depth", "yc", None),
+    ("water_depth", "y", None),
+    ("profile_type", "Profile", ""),
     ("water_surface", "Water surface", None),
     ("velocity", "V", None),
     ("froude", "Fr", ""),
@@ -46,7 +48,9 @@ STATION_COLUMNS = (
 #: What the headings' short names mean, printed under the table.
 STATION_KEY = ("\u03a3 C A: sum of runoff coefficient times area above the point; tc: time of concentration; "
                "i: rainfall intensity at tc; Q: design flow (rational method, the larger of the whole-area and "
-               "partial-area flows); yn, yc: normal and critical depth; V: velocity; Fr: Froude number; "
+               "partial-area flows); yn, yc: normal and critical depth; y: water depth from the water-surface "
+               "profile (its type: M1, S2...), which the fit of the ditch uses; V: velocity and Fr: Froude number "
+               "at normal depth, the depth of the shear check; "
                "\u03c4: design shear on the bed and the side slopes (bends included); \u03c4p: permissible shear "
                "of the lining; SF: safety factor \u03c4p / \u03c4 of the governing place; freeboard and ditch depth "
                "as built. Status: each point passes, or says in words why not.")
@@ -80,6 +84,8 @@ class RunSheet:
     notes: list
     not_verified: list
     cautions: list
+    controls: list = field(default_factory=list)     # the water surface's controls, one line of text each
+    jumps: list = field(default_factory=list)        # the hydraulic jumps, one line of text each
     page_notes: list = field(default_factory=list)
 
     # what the title block and the fingerprint strip print
@@ -99,8 +105,12 @@ def _status(row: dict, flowing: bool) -> tuple[str, bool]:
     words = []
     if row["stable"] == "no":
         words.append("NOT STABLE")
-    if row["fits"] == "no":
+    if row["overtopped"] == "yes":
+        words.append("OVERTOPPED")
+    elif row["fits"] == "no":
         words.append("TOO SHALLOW")
+    if row["profile_type"] == "not computed":
+        words.append("water surface not computed")
     trouble = bool(words)
     if not words:
         words.append("passes")
@@ -147,7 +157,8 @@ def run_sheet(project, run, catalogue: Catalogue | None = None, design: RunDesig
         rainfall=design.rainfall_rows(units), station_heads=station_heads(units), stations=stations,
         status=status, warnings=[pretty_unit(w) for w in text["warnings"]],
         notes=[pretty_unit(n) for n in text["notes"]], not_verified=[pretty_unit(n) for n in text["not_verified"]],
-        cautions=list(RUN_CAUTIONS))
+        cautions=list(RUN_CAUTIONS), controls=[pretty_unit(t) for t in design.control_rows(units)],
+        jumps=[pretty_unit(t) for t in design.jump_rows(units)])
 
 
 __all__ = ["RunSheet", "run_sheet", "STATION_COLUMNS", "STATION_KEY", "station_heads"]

@@ -28,11 +28,12 @@ from .fonts import FONT
 from .layout import (FINGERPRINT_HEIGHT, GAP, GREY, MARGIN_BOTTOM, MARGIN_LEFT, MARGIN_RIGHT, MARGIN_TOP, RULE,
                      TITLE_HEIGHT, _bold, _fingerprint_strip, _fit, _heading, _title_block, page_size)
 from .profile_drawing import profile_drawing
-from .run_content import STATION_KEY, RunSheet
+from .run_content import STATION_COLUMNS, STATION_KEY, RunSheet
 
 SIZE = 7.0                 # body text [pt]
 TABLE_SIZE = 6.4           # schedule, sub-area and rainfall tables
-STATION_SIZE = 5.6         # the station table
+STATION_SIZE = 5.3         # the station table
+STATUS_MIN = 34.0          # the least width of its status column [pt] (longer words wrap)
 PROFILE_HEIGHT = 290.0     # the most the profile may take on the first page [pt]
 HEADER_H = 22.0
 KEEP_WITH_HEADING = 36.0   # a heading needs this much of what follows on its page [pt]
@@ -241,7 +242,8 @@ def _column_widths(heads, rows, width, size, padding=7.0, last_min=70.0) -> list
 
 
 def _stations(sheet: RunSheet, width, st) -> list:
-    text_cols = {0, 7, 20}
+    text_cols = {i for i, (key, _, _) in enumerate(STATION_COLUMNS) if key in ("station", "lining", "profile_type")}
+    text_cols.add(len(STATION_COLUMNS))   # the status
     heads = [*sheet.station_heads, ("Status", "")]
     data = [[_lines([h, u], st["shead"] if i in text_cols else st["sheadnum"]) for i, (h, u) in enumerate(heads)]]
     extra = []
@@ -251,7 +253,9 @@ def _stations(sheet: RunSheet, width, st) -> list:
         data.append(row)
         if trouble:
             extra.append(("BACKGROUND", (0, k), (-1, k), _RED_FILL))
-    t = Table(data, colWidths=_column_widths(heads, sheet.stations, width, STATION_SIZE), repeatRows=1)
+    t = Table(data, colWidths=_column_widths(heads, sheet.stations, width, STATION_SIZE, padding=5.0,
+                                        last_min=STATUS_MIN),
+              repeatRows=1)
     t.setStyle(_table_style(1, extra + [("TOPPADDING", (0, 1), (-1, -1), 0.3),
                                         ("BOTTOMPADDING", (0, 1), (-1, -1), 0.5)]))
     troubles = sum(1 for _, tr in sheet.status if tr)
@@ -272,6 +276,10 @@ def story(sheet: RunSheet, width: float) -> list:
     out = []
     for block in (_schedule(sheet, width, st), _run_facts(sheet, width, st), _drainage(sheet, width, st),
                   _rainfall(sheet, width, st), _stations(sheet, width, st),
+                  _bullets("Water surface: controls", sheet.controls, st, "what was assumed at each end, and "
+                           "where the flow passes through critical depth"),
+                  _bullets("Hydraulic jumps", sheet.jumps or ["none"], st, "station of the toe, depth before and "
+                           "after, length"),
                   _bullets("Warnings", sheet.warnings, st),
                   _bullets("Method", sheet.notes, st),
                   _bullets(NOT_VERIFIED_TITLE, sheet.not_verified, st,
