@@ -282,3 +282,20 @@ def test_run_sheet_modules_need_no_qt():
     out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, check=True,
                          cwd=Path(__file__).parent.parent)
     assert out.stdout.strip() == ""
+
+
+def test_the_sheet_shows_the_water_surface_its_controls_and_jumps(project, tmp_path):
+    """An invented culvert headwater 0.3 m over the ditch top at the outfall: the profile's legend names the computed
+    water surface, normal depth and critical depth, the jump is labelled at its station, the stations say
+    OVERTOPPED, and the controls and the jumps are listed."""
+    proj = copy.deepcopy(project)
+    proj.runs[0].outfall.control, proj.runs[0].outfall.water_level = "level", 44.56 + 1.3
+    path = tmp_path / "high.pdf"
+    export_sheets(proj, path, channels=[], runs=[proj.runs[0].name])
+    text = _flat([p.extract_text() for p in PdfReader(path).pages])
+    for words in ("Water surface (computed)", "Normal depth", "Critical depth", "Hydraulic jump", "jump 0+329.14",
+                  "OVERTOPPED", "TOO SHALLOW", "WATER SURFACE: CONTROLS", "HYDRAULIC JUMPS",
+                  "outfall, 0+700.00: water level, level 45.86 m (depth 1.300 m), governs",
+                  "control: water level 45.86 m"):
+        assert words in text, words
+    assert re.search(r"at 0\+329\.1\d: 0\.2\d\d m to 0\.5\d\d m over 3\.\d\d m \(oscillating", text)

@@ -150,7 +150,9 @@ class ProfilePicture(Picture):
                                                zorder=7, clip_on=True))
 
     def _trouble(self, model, foot) -> None:
-        for band in model.trouble:
+        renderer = self.figure.canvas.get_renderer()
+        last = None        # the last label placed, to lift the next one when they would overlap
+        for band in sorted(model.trouble, key=lambda b: b.start):
             fill, ink = TROUBLE_COLOURS.get(band.status, ("#eeeeee", INK))
             width = max(band.end - band.start, 0.004 * (model.last_station - model.first_station))
             start = (band.start + band.end) / 2 - width / 2
@@ -158,9 +160,13 @@ class ProfilePicture(Picture):
                              zorder=0.5)
             self.ax.add_patch(rect)
             self._made.append(rect)
-            self._made.append(self.ax.text((band.start + band.end) / 2, 0.76, band.label, transform=foot,
-                                           ha="center", va="bottom", fontsize=FONT - 1, color=ink,
-                                           fontweight="bold", zorder=8))
+            text = self.ax.text((band.start + band.end) / 2, 0.76, band.label, transform=foot, ha="center",
+                                va="bottom", fontsize=FONT - 1, color=ink, fontweight="bold", zorder=8)
+            self._made.append(text)
+            if last is not None and last.get_position()[1] == 0.76 and \
+                    text.get_window_extent(renderer).x0 < last.get_window_extent(renderer).x1 + 4:
+                text.set_y(0.82)
+            last = text
 
     def _inflows(self, model, foot, px_per_unit) -> None:
         """Inflows at the top: a range as a bracket, a point as a marker, each label in the first lane where it

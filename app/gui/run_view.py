@@ -38,9 +38,10 @@ from .run_plot import ProfilePicture
 from .tasks import Task
 
 #: Columns of the station table, in reading order (keys of ``station_rows``); "check" is the row's verdict.
-STATION_COLUMNS = ("station", "check", "flow", "slope", "lining", "normal_depth", "critical_depth", "velocity",
-                   "froude", "regime", "bed_shear", "side_shear", "permissible_shear", "safety_factor", "stable",
-                   "freeboard", "ditch_depth", "fits", "water_surface", "invert", "ca", "tc", "intensity",
+STATION_COLUMNS = ("station", "check", "flow", "slope", "lining", "normal_depth", "critical_depth", "water_depth",
+                   "profile_type", "water_surface", "velocity", "froude", "regime", "bed_shear", "side_shear",
+                   "permissible_shear", "safety_factor", "stable", "freeboard", "ditch_depth", "fits", "overtopped",
+                   "invert", "ca", "tc", "intensity",
                    "manning_n", "required_d50", "dimensions")
 #: Row marks: (verdict, background). The words are the verdict vocabulary's (app.verdicts).
 ROW_MARKS = {"unstable": (Verdict.UNSTABLE, "#fbdcda"), "too-shallow": (Verdict.TOO_SHALLOW, "#fbe3cc"),
@@ -122,7 +123,7 @@ class StationTableModel(QAbstractTableModel):
         if role == Qt.ItemDataRole.DisplayRole:
             return self.text(index.row(), key)
         if role == Qt.ItemDataRole.TextAlignmentRole:
-            left = key in ("check", "lining", "regime", "dimensions", "stable", "fits")
+            left = key in ("check", "lining", "regime", "dimensions", "stable", "fits", "profile_type", "overtopped")
             return int((Qt.AlignmentFlag.AlignLeft if left else Qt.AlignmentFlag.AlignRight)
                        | Qt.AlignmentFlag.AlignVCenter)
         mark = row_mark(r)

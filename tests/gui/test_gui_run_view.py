@@ -88,7 +88,10 @@ def test_the_profile_draws_the_drawing_model(demo_window, qtbot, demo_design):
         np.testing.assert_array_equal(np.asarray(x), model.lines[name].x)
         np.testing.assert_array_equal(np.asarray(y), model.lines[name].y)
     assert view.picture.lines["critical"].get_linestyle() == ":"    # the critical-depth line dotted
+    assert view.picture.lines["normal"].get_linestyle() == "--"     # the normal-depth line dashed
+    assert view.picture.lines["water_surface"].get_label() == "Water surface (computed)"
     texts = [t.get_text() for t in view.picture.ax.texts]
+    assert [j.label for j in model.jumps] == ["jump 0+329.14"] and "jump 0+329.14" in texts   # the jump marked
     assert [t.get_text() for t in view.picture.ax.get_xticklabels()] == [t for _, t in model.ticks]
     assert any("Concrete" in t for t in texts)                    # a lining stretch labelled in its band
     assert any("Farmyard pipe" in t for t in texts)               # an inflow
@@ -266,3 +269,21 @@ def test_the_run_view_fits_1024_by_640(demo_window, qtbot):
     labels_fit(view)
     assert view.picture.canvas.height() >= 200 and view.table.viewport().height() >= 4 * 22
     assert all(re.fullmatch(r"\d\+\d{3}\.\d\d", t.get_text()) for t in view.picture.ax.get_xticklabels())
+
+
+def test_an_overtopping_backwater_is_marked_on_the_run_profile(demo_window, qtbot):
+    """An invented culvert headwater 0.3 m over the ditch top at the outfall: the profile marks the stretch."""
+    w = demo_window
+    view = shown(w, qtbot)
+    run = w.doc.project.runs[0]
+    run.outfall.control, run.outfall.water_level = "level", 44.56 + 1.3
+    try:
+        view.compute()
+        settle(view, qtbot)
+        qtbot.waitUntil(lambda: view.design is not None and view.design.run.outfall.control == "level", timeout=WAIT)
+        texts = [t.get_text() for t in view.picture.ax.texts]
+        assert "overtopped" in texts and "too shallow" in texts
+        ws = view.picture.lines["water_surface"].get_data()[1]
+        assert np.nanmax(ws) > 0 and abs(float(ws[-1]) - (44.56 + 1.3)) < 1e-9
+    finally:
+        run.outfall.control, run.outfall.water_level = "normal", None
