@@ -220,10 +220,12 @@ class _Profile:
     curves: int = 0
 
 
-def _check_rising(points_with_elements, what: str) -> None:
+def _check_rising(points_with_elements, what: str, scale: float) -> None:
+    """Stations [m] must rise; a refusal quotes them in the file's unit (``scale`` metres per unit)."""
     for (s0, _, _), (s1, _, el) in zip(points_with_elements, points_with_elements[1:]):
         if not s1 > s0:
-            raise LandXMLError(f"{_where(el)}: {what} {s1:g} does not follow {s0:g}; stations must rise")
+            raise LandXMLError(f"{_where(el)}: {what} {s1 / scale:g} does not follow {s0 / scale:g}; stations must "
+                               "rise")
 
 
 def _prof_align(el, scale: float, spacing: float, report: ImportReport, label: str) -> _Profile | None:
@@ -249,7 +251,7 @@ def _prof_align(el, scale: float, spacing: float, report: ImportReport, label: s
         items.append((values[0] * scale, values[1] * scale, child, length))
     if len(items) < 2:
         raise LandXMLError(f"{_where(el)}: a profile needs at least two points, got {len(items)}")
-    _check_rising([(s, z, e) for s, z, e, _ in items], "station")
+    _check_rising([(s, z, e) for s, z, e, _ in items], "station", scale)
     for i, (s, z, child, length) in enumerate(items):
         if length is None:
             continue
