@@ -85,7 +85,7 @@ def test_pvi_profile_with_vertical_curve_sampled_on_the_parabola(tmp_path):
 def test_curve_ends_are_tangent_to_the_grades(tmp_path):
     body = """<ProfAlign name="sag">
 <PVI>0 100</PVI><ParaCurve length="40">100 98</ParaCurve><PVI>200 101</PVI></ProfAlign>"""
-    project, _ = read_landxml(write(tmp_path, landxml(body and alignment(body), '<Metric linearUnit="meter"/>')),
+    project, _ = read_landxml(write(tmp_path, landxml(alignment(body), '<Metric linearUnit="meter"/>')),
                               spacing=10.0)
     prof = [(p.station, p.elevation) for p in project.runs[0].profile]
     st = [s for s, _ in prof]
