@@ -18,6 +18,7 @@ COMMAND_MODULES = {
     "verify": "verify",
     "batch": "inventory_command",
     "open": "open_project",
+    "import": "import_command",
 }
 
 #: command name -> its one-line help (the module's HELP)
@@ -33,6 +34,8 @@ COMMAND_HELP = {
     "verify": "check the digital signature of a design sheet: intact, and signed by the engineer whose certificate you trust",
     "batch": "check every reach of a ditch inventory (CSV) and write one result row per reach",
     "open": "open a project file in the Ditchwright window",
+    "import": ("make a project from a LandXML 1.2 file: road profiles become ditch runs' inverts, "
+               "cross-sections their surveyed sections"),
 }
 
 
