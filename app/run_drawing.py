@@ -14,6 +14,7 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
+from hydraulics.ditch_run import ranges_of
 from hydraulics.units import UnitSystem
 from hydraulics.wording import format_station
 
@@ -184,13 +185,4 @@ def profile_model(design: RunDesign, units: UnitSystem) -> ProfileModel:
 
 def _spans(mask, stations) -> list:
     """(from, to) station ranges, in the user's units, over which ``mask`` holds at consecutive points."""
-    out, start = [], None
-    for i, m in enumerate(mask):
-        if m and start is None:
-            start = i
-        if start is not None and (not m or i == len(mask) - 1):
-            end = i if m else i - 1
-            a, b = sorted((float(stations[start]), float(stations[end])))
-            out.append((a, b))
-            start = None
-    return out
+    return [tuple(sorted((float(a), float(b)))) for a, b in ranges_of(mask, stations)]

@@ -530,8 +530,8 @@ def _points(res: RunResult) -> list:
     return points
 
 
-def _ranges_of(mask, stations) -> list:
-    """(first station, last station) of each run of True in ``mask``."""
+def ranges_of(mask, stations) -> list:
+    """(first station, last station) of each run of True in ``mask`` (in point order)."""
     out, start = [], None
     for i, m in enumerate(mask):
         if m and start is None:
@@ -556,14 +556,14 @@ def _run_messages(res: RunResult, total_area: float):
                                    "computed here)", kind="zero" if g == 0 else "adverse", a=at(min(a, b)),
                                    b=at(max(a, b)), g=f"{100 * g:.2f}"))
     stations = layout.stations.tolist()
-    for a, b in _ranges_of(res.failing.tolist(), stations):
+    for a, b in ranges_of(res.failing.tolist(), stations):
         warnings.append(worded("no candidate lining is stable from {a} to {b}: the strongest candidate is scheduled "
                                "there and still fails; add a stronger lining or change the section", a=at(a), b=at(b)))
     with np.errstate(invalid="ignore"):
         over = res.scheduled("total_depth") > res.ditch_depth * (1 + 1e-9)   # nan (not checked) compares False
-    for a, b in _ranges_of(over.tolist(), stations):
+    for a, b in ranges_of(over.tolist(), stations):
         warnings.append(worded(NORMAL_DEPTH_FIT, a=at(a), b=at(b)))
-    for a, b in _ranges_of(state.partial.tolist(), stations):
+    for a, b in ranges_of(state.partial.tolist(), stations):
         notes.append(worded("from {a} to {b} a part of the drainage area that reaches the ditch sooner gives a larger "
                             "peak than the whole area (partial-area case); the larger flow is used", a=at(a), b=at(b)))
     for i, k in zip(*np.nonzero(res.checked[:, None] & ~screening.checked)):

@@ -89,7 +89,7 @@ READ_IN = {
     "ponce-4-2": "V. M. Ponce, Engineering Hydrology (1989), online edition, Chapter 4, Table 4-2 and its key "
                  "(facets.sdsu.edu/enghydro/engineering_hydrology_04_table_4_2_expand.html)",
     "txdot-hdm-7": "TxDOT Hydraulic Design Manual, Chapter 7, Section 6, Standard Step Procedure (txdot.gov/manuals/des/"
-                   "hyd/chapter-7--channels/section-6--channel-analysis-methods/standard-step-procedure.html)",
+                   "hyd/chapter-7--channels/section-6--.../standard-step-procedure.html)",
     "txdot-hdm-8": "TxDOT Hydraulic Design Manual, Chapter 8, Section 3, Direct Step Backwater Method (txdot.gov/manuals/"
                    "des/hyd/chapter-8--culverts/section-3--hydraulic-operation-of-culverts/direct-step-backwater-"
                    "method.html)",
