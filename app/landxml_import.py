@@ -287,20 +287,28 @@ def _prof_align(el, scale: float, spacing: float, report: ImportReport, label: s
     return _Profile(el.get("name") or "profile", _where(el), merged, curves)
 
 
-def _prof_surf(el, scale: float, report: ImportReport, label: str) -> _Profile | None:
+def _one_point_list(el, first: str, needs: str, report: ImportReport, label: str):
+    """The element's single PntList2D as (list element, pairs of `first`-elevation), or None when it has gaps
+    (several lists: skipped and reported, since `needs`); no list at all is refused."""
     lists = _children(el, "PntList2D")
     if not lists:
-        raise LandXMLError(f"{_where(el)}: holds no PntList2D of station-elevation pairs")
+        raise LandXMLError(f"{_where(el)}: holds no PntList2D of {first}-elevation pairs")
     if len(lists) > 1:
-        report.skipped.append(f"{label}: {_where(el)} has gaps ({len(lists)} point lists); a run needs one "
-                              "continuous invert")
+        report.skipped.append(f"{label}: {_where(el)} has gaps ({len(lists)} point lists); {needs}")
         return None
-    pairs = _pairs(lists[0], "station")
+    return lists[0], _pairs(lists[0], first)
+
+
+def _prof_surf(el, scale: float, report: ImportReport, label: str) -> _Profile | None:
+    found = _one_point_list(el, "station", "a run needs one continuous invert", report, label)
+    if found is None:
+        return None
+    plist, pairs = found
     if len(pairs) < 2:
-        raise LandXMLError(f"{_where(lists[0])}: a profile needs at least two points, got {len(pairs)}")
+        raise LandXMLError(f"{_where(plist)}: a profile needs at least two points, got {len(pairs)}")
     for (s0, _), (s1, _) in zip(pairs, pairs[1:]):
         if not s1 > s0:
-            raise LandXMLError(f"{_where(lists[0])}: station {s1:g} does not follow {s0:g}; stations must rise")
+            raise LandXMLError(f"{_where(plist)}: station {s1:g} does not follow {s0:g}; stations must rise")
     return _Profile(el.get("name") or "surface profile", _where(el),
                     [(s * scale, z * scale) for s, z in pairs])
 
@@ -333,17 +341,13 @@ def _cross_sections(alignment, scale: float, n: float, surface: str | None, repo
             report.skipped.append(f"{label}: {_where(cs)} {why}")
             continue
         surf = surfs[0]
-        lists = _children(surf, "PntList2D")
-        if not lists:
-            raise LandXMLError(f"{_where(surf)}: holds no PntList2D of offset-elevation pairs")
-        if len(lists) > 1:
-            report.skipped.append(f"{label}: {_where(surf)} has gaps ({len(lists)} point lists); a surveyed section "
-                                  "needs one continuous outline")
+        found = _one_point_list(surf, "offset", "a surveyed section needs one continuous outline", report, label)
+        if found is None:
             continue
-        pairs = _pairs(lists[0], "offset")
+        plist, pairs = found
         for (o0, _), (o1, _) in zip(pairs, pairs[1:]):
             if o1 < o0:
-                raise LandXMLError(f"{_where(lists[0])}: offset {o1:g} follows {o0:g}; offsets must not decrease")
+                raise LandXMLError(f"{_where(plist)}: offset {o1:g} follows {o0:g}; offsets must not decrease")
         section = {"shape": "irregular", "stations": [o * scale for o, _ in pairs],
                    "elevations": [z * scale for _, z in pairs], "n": n}
         try:
