@@ -16,8 +16,7 @@ series approximation of P.
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass
-from typing import Any
+from typing import Any, NamedTuple
 
 import numpy as np
 
@@ -26,9 +25,11 @@ from .constants import G
 from .errors import InputError
 
 
-@dataclass(frozen=True)
-class Geometry:
-    """Geometric elements at one depth (or an array of depths), SI."""
+class Geometry(NamedTuple):
+    """Geometric elements at one depth (or an array of depths), SI.
+
+    A named tuple, not a frozen dataclass: the scalar solvers make one per iteration, and a frozen dataclass's
+    constructor costs several times as much."""
 
     area: Any
     wetted_perimeter: Any
@@ -38,7 +39,10 @@ class Geometry:
 
 
 def _is_scalar(*values) -> bool:
-    return all(type(v) is float for v in values)
+    for v in values:  # a plain loop: this runs in every scalar iteration, where a generator costs more
+        if type(v) is not float:
+            return False
+    return True
 
 
 class Section:
@@ -188,10 +192,20 @@ class Trapezoid(Section):
 
     def _geometry(self, y):
         b, zs, ps = self.bottom_width, self._zsum, self._psum
-        top = b + zs * y
+        if _is_scalar(y, b, zs):
+            top = b + zs * y
+            return Geometry(area=(b + 0.5 * zs * y) * y, wetted_perimeter=b + ps * y, top_width=top, dP_dy=ps,
+                            dT_dy=zs)
+        # Arrays: A = (b + T) y / 2, each array made once and updated in place (the hot loop of large batches).
+        top = zs * y
+        top += b
+        area = top + b
+        area *= 0.5
+        area *= y
+        perimeter = ps * y
+        perimeter += b
         # The derivatives are constants here; they broadcast against the depth arrays.
-        return Geometry(area=(b + 0.5 * zs * y) * y, wetted_perimeter=b + ps * y,
-                        top_width=top, dP_dy=ps, dT_dy=zs)
+        return Geometry(area=area, wetted_perimeter=perimeter, top_width=top, dP_dy=ps, dT_dy=zs)
 
     def _first_moment(self, y):
         # Bottom rectangle b y (centroid y/2 down) and the two side triangles z y^2 / 2 (centroid y/3 down).
@@ -207,9 +221,11 @@ class Trapezoid(Section):
                 if zs > 0 else math.inf
             return min(wide, tri)
         with np.errstate(divide="ignore", over="ignore"):
-            wide = np.exp(0.6 * (log_k - np.log(b)))
-            tri = np.exp(0.375 * (log_k + 2 / 3 * np.log(ps)) - 0.625 * (np.log(zs) - math.log(2.0)))
-        return np.minimum(wide, tri)
+            wide = np.multiply(log_k, 0.6)
+            wide -= 0.6 * np.log(b)
+            tri = np.multiply(log_k, 0.375)
+            tri += 0.25 * np.log(ps) - 0.625 * (np.log(zs) - math.log(2.0))
+            return np.minimum(np.exp(wide), np.exp(tri))
 
     def _critical_guess(self, flow):
         # The smaller of the rectangle (q^2/g)^(1/3) and triangle (2 Q^2 / (g zm^2))^(1/5) depths.

@@ -79,24 +79,51 @@ def _n_value(rough, section, y, slope):
     return n
 
 
+def _reusable(array, y):
+    """``array`` as an output buffer when the geometry made it fresh for this call (not ``y``, not read-only,
+    the full shape), else None (numpy then allocates)."""
+    ok = isinstance(array, np.ndarray) and array is not y and array.flags.writeable and array.shape == np.shape(y)
+    return array if ok else None
+
+
 def _log_section_factor(section, y, scalar):
     """ln(A^(5/3) P^(-2/3)) and its derivative with respect to ln y."""
-    g = section._geometry(y)
-    a, p = g.area, g.wetted_perimeter
     if scalar:
+        g = section._geometry(y)
+        a, p = g.area, g.wetted_perimeter
         return 5 / 3 * math.log(a) - 2 / 3 * math.log(p), y * (5 / 3 * g.top_width / a - 2 / 3 * g.dP_dy / p)
-    # The hot loop of large batches: one log instead of two, and in-place updates.
+    geo, state = _log_section_factor_value(section, y)
+    return geo, _log_section_factor_slope(y, state)
+
+
+# The hot loop of large batches, in two halves so that an iteration checks the value before it pays for the
+# slope: one log instead of two, and in-place updates on the geometry's own arrays (each fresh array of a million
+# depths costs about as much as the arithmetic on it).
+def _log_section_factor_value(section, y):
+    """ln(A^(5/3) P^(-2/3)) on arrays, with what :func:`_log_section_factor_slope` needs."""
+    g = section._geometry(y)
+    a = g.area
     geo = a * a
     geo *= geo
     geo *= a
-    geo /= p * p
+    inv_p = np.divide(1.0, g.wetted_perimeter, out=_reusable(g.wetted_perimeter, y))
+    geo *= inv_p
+    geo *= inv_p
     np.log(geo, out=geo)
     geo *= 1 / 3
-    slope = g.top_width / a
+    return geo, (g, inv_p)
+
+
+def _log_section_factor_slope(y, state):
+    """d ln(A^(5/3) P^(-2/3)) / d ln y = y (5/3 T/A - 2/3 P'/P) on arrays (uses up ``state``'s arrays)."""
+    g, inv_p = state
+    slope = np.divide(g.top_width, g.area, out=_reusable(g.area, y))
     slope *= 5 / 3
-    slope -= (2 / 3) * g.dP_dy / p
+    inv_p *= g.dP_dy
+    inv_p *= 2 / 3
+    slope -= inv_p
     slope *= y
-    return geo, slope
+    return slope
 
 
 def _log_conveyance(section, rough, y, slope, scalar):
@@ -167,30 +194,37 @@ def _newton_log_scalar(evaluate, y, lo, hi, collapsed=_JUMP_MESSAGE):
                            f"log residual {g:.3g})")
 
 
-def _newton_log_plain(evaluate, y, iterations=12):
+def _newton_log_plain(evaluate, y, iterations=12, split=None):
     """Unguarded Newton in ln y for open sections, the fast path for large arrays.
 
     Returns (y, iterations, g) once every |g| <= tolerance, or None if any
     element has not converged (or left the finite numbers) in ``iterations``;
-    the caller then runs the guarded iteration from the start.
+    the caller then runs the guarded iteration from the start. With ``split``
+    = (value, slope), g comes from ``value(y) -> (g, state)`` and g' from
+    ``slope(y, state)`` only when another step is needed.
     """
     y = y.copy()
     with np.errstate(over="ignore", invalid="ignore", divide="ignore"):
         for it in range(1, iterations + 1):
-            g, gp = evaluate(y)
+            if split is None:
+                g, gp = evaluate(y)
+            else:
+                g, state = split[0](y)
             worst = np.max(np.abs(g))
             if worst <= _LOG_TOL:
                 return y, it, g
             if not np.isfinite(worst):
                 return None
-            step = g / gp
-            np.negative(step, out=step)
-            np.exp(step, out=step)
-            y *= step
+            if split is not None:
+                gp = split[1](y, state)
+            np.divide(g, gp, out=g)
+            np.negative(g, out=g)
+            np.exp(g, out=g)
+            y *= g
     return None
 
 
-def _newton_log_vector(evaluate, y, lo, hi, collapsed=_JUMP_MESSAGE, fast=True, subset=False):
+def _newton_log_vector(evaluate, y, lo, hi, collapsed=_JUMP_MESSAGE, fast=True, subset=False, split=None):
     """Vectorised version of :func:`_newton_log_scalar`; all arrays of one shape.
 
     Each element takes the steps the scalar iteration takes from the same start (the same clipped Newton step,
@@ -200,9 +234,10 @@ def _newton_log_vector(evaluate, y, lo, hi, collapsed=_JUMP_MESSAGE, fast=True, 
     root (a constant n) it reaches the same root at less cost. A collapsed bracket raises NoSolutionError with
     ``collapsed`` for the first such element. With ``subset`` (``evaluate(y, at)`` takes the depths of the
     elements ``at`` only) the elements still iterating are evaluated alone once they are half or fewer.
+    ``split`` is handed to the unguarded Newton (see :func:`_newton_log_plain`).
     """
     if fast and np.isinf(hi).all():
-        done_fast = _newton_log_plain(evaluate, y)
+        done_fast = _newton_log_plain(evaluate, y, split=split)
         if done_fast is not None:
             return done_fast
     y = np.where((lo < y) & (y < hi), y, np.where(np.isfinite(hi), 0.5 * (lo + hi), 1.0))
@@ -251,8 +286,12 @@ def _newton_log_vector(evaluate, y, lo, hi, collapsed=_JUMP_MESSAGE, fast=True, 
 
 def _finish(y, it, g):
     """Check the promised tolerance; |Q(y)/Q - 1| = |exp(g) - 1|."""
-    if np.ndim(y):
-        residual = np.abs(np.expm1(g))
+    if type(y) is not float and np.ndim(y):
+        # Where every |g| <= 1e-8, |exp(g) - 1| equals |g| to within g^2 / 2 < 1e-16 (of a residual promised to
+        # 1e-10), so the exponential is spared on the large arrays that converge.
+        residual = np.abs(g)
+        if not residual.max(initial=0.0) <= 1e-8:
+            residual = np.abs(np.expm1(g))
         if not np.all(residual <= FLOW_TOLERANCE):
             raise ConvergenceError(f"flow residual {np.max(residual):.3g} above {FLOW_TOLERANCE:g}")
         return DepthSolution(y, it, residual)
@@ -269,6 +308,16 @@ def _broadcast(section, *values):
     dims = [v for v in section.to_dict().values() if isinstance(v, np.ndarray)] if section.is_vector else []
     shape = np.broadcast_shapes(*(np.shape(v) for v in (*values, *dims)))
     return tuple(np.broadcast_to(np.asarray(v, dtype=float), shape) for v in values), shape  # read-only views
+
+
+def _log_flow_over_root_slope(q, s):
+    """ln(Q / sqrt(S)) on arrays: one logarithm of the quotient where it is a normal float (the usual case),
+    else the difference of two logarithms, which keeps its digits for subnormal or overflowing quotients."""
+    ratio = np.sqrt(s)
+    np.divide(q, ratio, out=ratio)
+    if ratio.size and np.finfo(float).tiny <= ratio.min() and ratio.max() < math.inf:
+        return np.log(ratio, out=ratio)
+    return np.log(q) - 0.5 * np.log(s)
 
 
 def _describe_limit(section):
@@ -291,7 +340,7 @@ def solve_normal_depth(section, flow, slope, n=None) -> DepthSolution:
         (q, s), shape = _broadcast(section, q, s)
     scalar = shape is None
     log = math.log if scalar else np.log
-    target = log(q) - 0.5 * log(s) - math.log(K_MANNING_SI)
+    target = (log(q) - 0.5 * log(s) if scalar else _log_flow_over_root_slope(q, s)) - math.log(K_MANNING_SI)
 
     cap = section.capacity_depth
     if cap is not None:
@@ -309,13 +358,16 @@ def solve_normal_depth(section, flow, slope, n=None) -> DepthSolution:
         hi = math.inf if scalar else np.full(shape, np.inf)
     lo = 0.0 if scalar else np.zeros(shape)
 
-    # target is ln(Q n / sqrt(S)) for constant n; a model's n is guessed as 0.03 for the start.
-    y0 = section._depth_guess(target + (log(rough[1]) if rough[0] == "constant" else math.log(0.03)))
-    if not scalar:
-        y0 = np.broadcast_to(y0, shape).astype(float)
-
     if rough[0] == "constant":
-        target = target + log(rough[1])  # fold ln n in once, outside the loop
+        target = target + log(rough[1])  # ln(Q n / sqrt(S)): ln n folded in once, outside the loop
+        y0 = section._depth_guess(target)
+    else:  # a model's n is guessed as 0.03 for the start
+        y0 = section._depth_guess(target + math.log(0.03))
+    if not scalar and _reusable(y0, np.broadcast_to(0.0, shape)) is None:
+        y0 = np.array(np.broadcast_to(y0, shape), dtype=float)  # one writeable array of the full shape
+
+    split = None
+    if rough[0] == "constant":
 
         def evaluate(y):
             geo, dgeo = _log_section_factor(section, y, scalar)
@@ -323,6 +375,13 @@ def solve_normal_depth(section, flow, slope, n=None) -> DepthSolution:
                 return geo - target, dgeo
             geo -= target
             return geo, dgeo
+
+        def value(y):
+            geo, state = _log_section_factor_value(section, y)
+            geo -= target
+            return geo, state
+
+        split = (value, _log_section_factor_slope)
     else:
         def evaluate(y, at=None):
             """g and g' at ``y``; with ``at`` (indices), ``y`` holds the depths of those elements only."""
@@ -336,7 +395,8 @@ def solve_normal_depth(section, flow, slope, n=None) -> DepthSolution:
         y, it, g = _newton_log_scalar(evaluate, y0, lo, hi)
     else:  # a depth-dependent n may give several roots: follow the scalar steps to the one it finds
         model = rough[0] != "constant"
-        y, it, g = _newton_log_vector(evaluate, y0, lo, hi, fast=not model, subset=model and not section.is_vector)
+        y, it, g = _newton_log_vector(evaluate, y0, lo, hi, fast=not model, subset=model and not section.is_vector,
+                                      split=split)
     return _finish(y, it, g)
 
 

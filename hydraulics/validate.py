@@ -27,7 +27,7 @@ def _as_number(field: str, value):
     if isinstance(value, str):
         raise InputError(field, f"must be a number, got text {value!r}")
     try:
-        arr = np.array(value, dtype=float)
+        arr = np.asarray(value, dtype=float)  # a float array is taken as it is, not copied
     except (TypeError, ValueError):
         raise InputError(field, f"must be a number or an array of numbers, got {value!r}") from None
     return arr if arr.ndim else float(arr)

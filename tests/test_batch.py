@@ -778,3 +778,23 @@ def test_group_notes_quote_the_inventory_units():
     res = ai.evaluate(inv)
     assert "lining 'riprap': D50 = 0.360 in is outside the 0.591 in to 21.7 in range" in res.messages[0]
     assert not any(" mm" in m for m in res.messages)
+
+
+def test_read_only_columns_give_the_same_results():
+    """Columns that pyarrow hands over without a copy are read-only; the core never writes to them."""
+    rng = np.random.default_rng(5)
+    size = 40
+    pipe = np.arange(size) >= 30
+    columns = dict(shape=["trapezoid"] * 30 + ["circle"] * 10,
+                   bottom_width=np.where(pipe, np.nan, rng.uniform(0.2, 3, size)),
+                   left_slope=np.where(pipe, np.nan, 2.0), right_slope=np.where(pipe, np.nan, 3.0),
+                   diameter=np.where(pipe, 1.2, np.nan),
+                   slope=rng.uniform(1e-4, 0.05, size), flow=rng.uniform(0.01, 1.5, size), n=np.full(size, 0.03))
+    writable = mr.evaluate(_reaches(**columns))
+    frozen = _reaches(**columns)
+    for name in mr.NUMERIC_FIELDS:
+        getattr(frozen, name).setflags(write=False)
+    result = mr.evaluate(frozen)
+    assert np.isfinite(result.normal_depth).sum() == size
+    np.testing.assert_array_equal(result.normal_depth, writable.normal_depth)
+    assert list(result.verdict) == list(writable.verdict)

@@ -95,6 +95,26 @@ def test_inputs_not_modified():
     np.testing.assert_array_equal(q, before)
 
 
+def _read_only(*arrays):
+    for a in arrays:
+        a.setflags(write=False)
+    return arrays
+
+
+@pytest.mark.parametrize("section", [
+    hy.Trapezoid(bottom_width=1.2, side_slope=3.0), hy.Triangle(side_slope=2.0), hy.Rectangle(bottom_width=0.8),
+    hy.Parabola(top_width=3.0, at_depth=1.0), hy.Circle(diameter=1.5),
+    hy.Trapezoid(bottom_width=np.array([0.5, 1.0, 2.0, 0.3]), side_slope=2.0)])
+def test_caller_arrays_are_never_written(section):
+    """The solvers work in place on arrays of their own only (the input checks no longer copy a float array):
+    read-only inputs, which numpy refuses to write, go through the whole analysis."""
+    q, s, n = _read_only(np.array([0.2, 0.9, 1.4, 0.05]), np.array([0.002, 0.01, 0.03, 0.0005]),
+                         np.array([0.013, 0.03, 0.045, 0.02]))
+    result = hy.analyse(section, q, s, n)
+    assert np.all(result.normal_depth > 0) and np.all(result.critical_depth > 0)
+    np.testing.assert_array_equal(q, [0.2, 0.9, 1.4, 0.05])
+
+
 def test_circle_capacity_peak_published():
     # Largest part-full flow at y/D = 0.938 with Q/Q_full = 1.076 (White, Fluid Mechanics, Eq. 10.21 and
     # discussion; also Chow 1959, Fig. 6-? style charts -- the two values here are not verified of both).
