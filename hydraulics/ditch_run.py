@@ -54,7 +54,8 @@ from .stability import StabilityResult, check_lining
 from .wording import worded
 
 __all__ = ["SectionRange", "Bend", "Candidate", "DitchRun", "PointResult", "PointChecks", "RunResult", "solve_run",
-           "TRAVEL_TOLERANCE", "MAX_TRAVEL_ITERATIONS", "RUN_RULES", "NORMAL_DEPTH_FIT", "OUTFALL_CONTROLS"]
+           "TRAVEL_TOLERANCE", "MAX_TRAVEL_ITERATIONS", "RUN_RULES", "NORMAL_DEPTH_FIT", "OUTFALL_CONTROLS",
+           "ranges_of", "stretches"]
 
 #: The travel-time iteration stops when no design point's travel time changes by more than this [s].
 TRAVEL_TOLERANCE = 1e-3
@@ -62,7 +63,7 @@ MAX_TRAVEL_ITERATIONS = 100
 
 #: The run's warning where normal depth plus freeboard is above the ditch as built (a front end that checks the fit
 #: on the water-surface profile, :mod:`hydraulics.run_water_surface`, shows that check instead).
-NORMAL_DEPTH_FIT = "normal depth plus freeboard is above the ditch as built from {a} to {b}: deepen the ditch"
+NORMAL_DEPTH_FIT = "normal depth plus freeboard is above the ditch as built {where}: deepen the ditch"
 
 #: What may stand at the outfall: normal depth, critical depth (a free overfall) or a known water level.
 OUTFALL_CONTROLS = ("normal", "critical", "level")
@@ -543,6 +544,22 @@ def ranges_of(mask, stations) -> list:
     return out
 
 
+def stretches(ranges):
+    """The stretches ``ranges`` ((first, last) station pairs, as :func:`ranges_of` gives) in words, for one message
+    about all of them: "at 0+150.00, from 0+495.00 to 0+510.00 and from 0+660.00 to 0+700.00" (a stretch of one
+    design point is "at" it). Each station is restated in the reader's units (:func:`hydraulics.wording.worded`)."""
+    parts, where = [], {}
+    for k, (a, b) in enumerate(ranges):
+        where[f"a{k}"] = (a, "station")
+        if a == b:
+            parts.append(f"at {{a{k}}}")
+        else:
+            parts.append(f"from {{a{k}}} to {{b{k}}}")
+            where[f"b{k}"] = (b, "station")
+    text = parts[-1] if len(parts) == 1 else ", ".join(parts[:-1]) + " and " + parts[-1]
+    return worded(text, **where)
+
+
 def _run_messages(res: RunResult, total_area: float):
     """The run's own warnings (and where in them the checks' cautions go) and its notes."""
     run, layout, state, screening = res.run, res.layout, res.flows, res.screening
@@ -556,16 +573,18 @@ def _run_messages(res: RunResult, total_area: float):
                                    "computed here)", kind="zero" if g == 0 else "adverse", a=at(min(a, b)),
                                    b=at(max(a, b)), g=f"{100 * g:.2f}"))
     stations = layout.stations.tolist()
-    for a, b in ranges_of(res.failing.tolist(), stations):
-        warnings.append(worded("no candidate lining is stable from {a} to {b}: the strongest candidate is scheduled "
-                               "there and still fails; add a stronger lining or change the section", a=at(a), b=at(b)))
+    if failing := ranges_of(res.failing.tolist(), stations):
+        warnings.append(worded("no candidate lining is stable {where}: the strongest candidate is scheduled there "
+                               "and still fails; add a stronger lining or change the section",
+                               where=stretches(failing)))
     with np.errstate(invalid="ignore"):
         over = res.scheduled("total_depth") > res.ditch_depth * (1 + 1e-9)   # nan (not checked) compares False
-    for a, b in ranges_of(over.tolist(), stations):
-        warnings.append(worded(NORMAL_DEPTH_FIT, a=at(a), b=at(b)))
-    for a, b in ranges_of(state.partial.tolist(), stations):
-        notes.append(worded("from {a} to {b} a part of the drainage area that reaches the ditch sooner gives a larger "
-                            "peak than the whole area (partial-area case); the larger flow is used", a=at(a), b=at(b)))
+    if short := ranges_of(over.tolist(), stations):
+        warnings.append(worded(NORMAL_DEPTH_FIT, where=stretches(short)))
+    if partial := ranges_of(state.partial.tolist(), stations):
+        notes.append(worded("{where} a part of the drainage area that reaches the ditch sooner gives a larger peak "
+                            "than the whole area (partial-area case); the larger flow is used",
+                            where=stretches(partial)))
     for i, k in zip(*np.nonzero(res.checked[:, None] & ~screening.checked)):
         err = screening.errors[i][k]
         if err is not None:

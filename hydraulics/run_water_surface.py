@@ -38,7 +38,7 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
-from .ditch_run import ranges_of
+from .ditch_run import ranges_of, stretches
 from .errors import HydraulicsError
 from .freeboard import ditch_tops
 from .linings.roughness import VegetationRoughness
@@ -262,25 +262,26 @@ def run_water_surface(result, *, max_step: float = 10.0, step_tolerance: float =
             out.warnings.append(worded("{where} control: {m}", where=c["where"], m=c["message"]))
 
     # -- the stretches overtopped, too shallow and not computed, by station
-    for a, b in ranges_of(out.overtopped.tolist(), stations):
-        out.warnings.append(worded("the water surface stands above the top of the ditch from {a} to {b}: the ditch "
-                                   "overtops there; deepen it or lower the water at the outfall", a=_at(a), b=_at(b)))
+    if over := ranges_of(out.overtopped.tolist(), stations):
+        out.warnings.append(worded("the water surface stands above the top of the ditch {where}: the ditch "
+                                   "overtops there; deepen it or lower the water at the outfall",
+                                   where=stretches(over)))
     short = np.array([f is False for f in out.fits]) & ~out.overtopped
-    for a, b in ranges_of(short.tolist(), stations):
-        out.warnings.append(worded("water depth from the profile plus freeboard is above the ditch as built from "
-                                   "{a} to {b}: deepen the ditch", a=_at(a), b=_at(b)))
+    if shallow := ranges_of(short.tolist(), stations):
+        out.warnings.append(worded("water depth from the profile plus freeboard is above the ditch as built {where}: "
+                                   "deepen the ditch", where=stretches(shallow)))
     lost = np.zeros(count, dtype=bool)
     lost[rows] = ~np.isfinite(ws.depth)
     out.profile_type = [("not computed" if lost[i] else t) for i, t in enumerate(out.profile_type)]
-    for a, b in ranges_of(lost.tolist(), stations):
-        out.warnings.append(worded("the water surface is not computed from {a} to {b}: the water downstream rises "
-                                   "above the top of the closed section; the fit there is not checked",
-                                   a=_at(a), b=_at(b)))
+    if missing := ranges_of(lost.tolist(), stations):
+        out.warnings.append(worded("the water surface is not computed {where}: the water downstream rises above the "
+                                   "top of the closed section; the fit there is not checked",
+                                   where=stretches(missing)))
     backed = np.zeros(count, dtype=bool)
     for i in done:
         backed[i] = grass[i - first] and out.depth[i] > BACKWATER_CAUTION * out.normal_depth[i]  # nan: False
-    for a, b in ranges_of(backed.tolist(), stations):
-        out.warnings.append(worded("grass lining in backwater from {a} to {b}: its n is taken at the bed slope, "
-                                   "but the energy slope there is flatter and the grass rougher (HEC-15 Chapter 4), "
-                                   "so the water surface computed there may be low", a=_at(a), b=_at(b)))
+    if backwater := ranges_of(backed.tolist(), stations):
+        out.warnings.append(worded("grass lining in backwater {where}: its n is taken at the bed slope, but the "
+                                   "energy slope there is flatter and the grass rougher (HEC-15 Chapter 4), so the "
+                                   "water surface computed there may be low", where=stretches(backwater)))
     return out

@@ -169,3 +169,19 @@ def test_bad_run_input_names_the_run_and_the_item():
     project.runs[0].sub_areas[0].to_station = 900.0
     with pytest.raises(RunInputError, match=r"sub_areas\[0\].to_station: must lie on the run"):
         design_run(project, project.runs[0])
+
+
+def test_stretches_are_named_once_each_in_one_message():
+    """Where a caution holds along several stretches, one message names them all; a stretch of one design point
+    is "at" it (the program's own wording), and the stations follow the reader's units."""
+    from hydraulics.ditch_run import ranges_of, stretches
+    from hydraulics.units import US
+
+    stations = [0.0, 15.0, 30.0, 45.0, 60.0, 75.0]
+    ranges = ranges_of([False, True, False, True, True, True], stations)
+    assert ranges == [(15.0, 15.0), (45.0, 75.0)]
+    words = stretches(ranges)
+    assert str(words) == "at 0+015.00 and from 0+045.00 to 0+075.00"
+    assert words.in_units(US) == "at 0+49.21 and from 1+47.64 to 2+46.06"
+    assert str(stretches([(0.0, 15.0), (30.0, 30.0), (60.0, 75.0)])) == \
+        "from 0+000.00 to 0+015.00, at 0+030.00 and from 0+060.00 to 0+075.00"

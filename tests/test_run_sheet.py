@@ -156,6 +156,8 @@ def test_warnings_method_not_verified_and_cautions(design, si_sheet):
     _, pages = si_sheet
     text = _flat(pages)
     assert "licensed engineer" in text and "local codes" in text
+    first = _flat(pages[:1])
+    assert "CAUTIONS" in first and "licensed engineer" in first  # on the first page, with the profile
     assert "The water surface shown is computed along the run" in text and "design depth of HEC-15" in text
     assert "NOT VERIFIED AGAINST THE CIRCULAR" in text and "HEC-15 Table 6.1†" in text
     assert "WARNINGS" in text and "Kirpich's data" in text

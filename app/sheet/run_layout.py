@@ -4,10 +4,10 @@ Every page carries the channel sheet's header rule, design fingerprint strip and
 signature block and the approval box), so a run's pages sit in the same plan set as the channels' sheets.
 The first page holds the profile (:mod:`app.sheet.profile_drawing`) with its scale statement; then, flowing
 from page to page: the lining schedule with quantities, cost and total; the run's facts, sections and
-candidate linings; the sub-areas and point inflows; the rainfall relation with its source; the station table
-(its heading row repeated on each page it continues on, every number's unit in the heading, trouble spots in
-words and red); the warnings, method notes, the values not verified against their publication, and the
-cautions. A heading is never left alone at the foot of a page.
+candidate linings; the cautions; the sub-areas and point inflows; the rainfall relation with its source; the
+station table (its heading row repeated on each page it continues on, every number's unit in the heading,
+trouble spots in words and red); the warnings, method notes and the values not verified against their
+publication. A heading is never left alone at the foot of a page.
 """
 
 from __future__ import annotations
@@ -274,7 +274,9 @@ def story(sheet: RunSheet, width: float) -> list:
     """The flowing blocks of a run's sheet, in order, after the profile."""
     st = _styles()
     out = []
-    for block in (_schedule(sheet, width, st), _run_facts(sheet, width, st), _drainage(sheet, width, st),
+    # The cautions follow the run's facts, so that they stand on the first page with the profile and schedule.
+    for block in (_schedule(sheet, width, st), _run_facts(sheet, width, st), _bullets("Cautions", sheet.cautions, st),
+                  _drainage(sheet, width, st),
                   _rainfall(sheet, width, st), _stations(sheet, width, st),
                   _bullets("Water surface: controls", sheet.controls, st, "what was assumed at each end, and "
                            "where the flow passes through critical depth"),
@@ -283,8 +285,7 @@ def story(sheet: RunSheet, width: float) -> list:
                   _bullets("Warnings", sheet.warnings, st),
                   _bullets("Method", sheet.notes, st),
                   _bullets(NOT_VERIFIED_TITLE, sheet.not_verified, st,
-                           "\u2020 recalled, not yet read in the publication: check each before relying on it"),
-                  _bullets("Cautions", sheet.cautions, st)):
+                           "\u2020 recalled, not yet read in the publication: check each before relying on it")):
         if block:
             out += block + [Gap(4)]
     return out
