@@ -807,3 +807,19 @@ def test_supercritical_freeboard_is_said_to_be_the_flow_depth(pages):
     assert _number_after(text, "Freeboard")[0] == yn
     assert "the flow depth (supercritical flow: waves as high as the depth)" in text
     assert "raised to" in text and ", the minimum" not in text
+
+
+def test_each_page_text_is_built_once_per_text_size(monkeypatch):
+    """The page's text does not depend on the rating curve's height, so fitting the page builds and measures it
+    once per text size tried, never once per (size, curve height) pair (issue: sheet speed)."""
+    import app.sheet.layout as layout
+
+    calls, fitted = [], []
+    real_build, real_fit = layout._build, layout._fit_blocks
+    monkeypatch.setattr(layout, "_build", lambda sheet, size, *rest: calls.append(size) or real_build(sheet, size, *rest))
+    monkeypatch.setattr(layout, "_fit_blocks", lambda *a: fitted.append(real_fit(*a)) or fitted[-1])
+    demo = P.load(DEMO_FILE)
+    sheet_pdf(demo, runs=())
+    assert len(fitted) == len(demo.channels)
+    tried = sum(layout.TEXT_SIZES.index(size) + 1 for _, size, _ in fitted)   # sizes tried, largest first
+    assert len(calls) == tried

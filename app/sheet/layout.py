@@ -230,14 +230,25 @@ def _comparison_table(rows, width, st, units, priced: bool) -> Table:
     return t
 
 
+def _wrapped(f, width) -> float:
+    """The height of flowable ``f`` wrapped to ``width`` [pt]. A flowable keeps the state of its last wrap for
+    drawing, so it is wrapped again only at another width (measuring, splitting into columns and drawing would
+    otherwise wrap every paragraph three times)."""
+    last = getattr(f, "_ditchwright_wrap", None)
+    if last is None or last[0] != width:
+        last = (width, f.wrap(width, 10_000)[1])
+        f._ditchwright_wrap = last
+    return last[1]
+
+
 def _height(flowables, width) -> float:
-    return sum(f.wrap(width, 10_000)[1] for f in flowables)
+    return sum(_wrapped(f, width) for f in flowables)
 
 
 def _draw_flow(c, flowables, x, y, width) -> float:
     """Draw flowables top-down from y; returns the y below them."""
     for f in flowables:
-        _, h = f.wrap(width, 10_000)
+        h = _wrapped(f, width)
         f.drawOn(c, x, y - h)
         y -= h
     return y
@@ -245,7 +256,7 @@ def _draw_flow(c, flowables, x, y, width) -> float:
 
 def _split_even(flowables, width):
     """Two lists of flowables of about equal height (in order), for two columns."""
-    heights = [f.wrap(width, 10_000)[1] for f in flowables]
+    heights = [_wrapped(f, width) for f in flowables]
     total, run = sum(heights), 0.0
     for i, h in enumerate(heights):
         if run + h / 2 > total / 2:
@@ -269,11 +280,16 @@ class _Blocks:
     lining: list        # flowables, full width under the checks
     comparison: list    # flowables, full width ([] without a comparison)
     cautions: tuple     # (left flowables, right flowables)
-    height_columns: float
+    height_left: float          # the left column
+    height_right_text: float    # the right column without the rating curve
     height_bottom: float
 
+    def height(self, rating_h: float) -> float:
+        """The page's text with a rating curve ``rating_h`` tall [pt] (the text does not depend on it)."""
+        return max(self.height_left, HEADING_H + rating_h + 3 + self.height_right_text) + GAP + self.height_bottom
 
-def _build(sheet, size, col_w, full_w, rating_h, comparison_rows):
+
+def _build(sheet, size, col_w, full_w, comparison_rows):
     st = _styles(size)
     left = [("Inputs", [_item_table(sheet.inputs, col_w, st, 0.34)]),
             ("Results (uniform flow at the design discharge)", [_pair_table(sheet.results, col_w, st)]),
@@ -302,13 +318,13 @@ def _build(sheet, size, col_w, full_w, rating_h, comparison_rows):
     cautions = _split_even(bullets, col_w)
 
     h_left = sum(HEADING_H + _height(fl, col_w) + 3 for _, fl in left)
-    h_right = HEADING_H + rating_h + 3 + sum(HEADING_H + _height(fl, col_w) + 3 for _, fl in right_text)
+    h_right_text = sum(HEADING_H + _height(fl, col_w) + 3 for _, fl in right_text)
     h_stab = (HEADING_H + max(_height(checks, beside), 20) + 2 + _height(reason, beside) + 3
               + _height(lining, full_w) + 3)
     h_comp = HEADING_H + _height(comparison, full_w) + 3 if comparison else 0.0
     h_caut = HEADING_H + max(_height(cautions[0], col_w), _height(cautions[1], col_w)) + 3
     return _Blocks(left, right_text, checks, reason, lining, comparison, cautions,
-                   max(h_left, h_right), h_stab + h_comp + h_caut)
+                   h_left, h_right_text, h_stab + h_comp + h_caut)
 
 
 def _fit_blocks(sheet, col_w, full_w, room, page):
@@ -320,9 +336,9 @@ def _fit_blocks(sheet, col_w, full_w, room, page):
     n_rows = len(sheet.comparison) if sheet.comparison is not None else 0
     for rows in range(n_rows, 0 if n_rows else -1, -1):
         for size in TEXT_SIZES:
+            b = _build(sheet, size, col_w, full_w, max(rows, 0))   # built and measured once per size
             for rating_h in RATING_HEIGHTS:
-                b = _build(sheet, size, col_w, full_w, rating_h, max(rows, 0))
-                if b.height_columns + GAP + b.height_bottom <= room:
+                if b.height(rating_h) <= room:
                     return b, size, rating_h
     raise SheetLayoutError(f"the sheet for channel {sheet.channel!r} has more text than fits on a "
                            f"{page} page (cautions or comparison too long)")
