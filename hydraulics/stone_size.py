@@ -89,6 +89,7 @@ def _required_stone(section, q, s, lining, n_fixed, sides, rc, gs, phi, sf_min, 
         dd = d_start
         lo, hi = 0.0, math.inf       # largest size seen to fail, smallest seen to hold
         hi_state = None
+        last = None                  # (trial, required - trial) of the step before
         for _ in range(max_iter):
             new, sizes, method, y = state(dd)
             if math.isinf(new) or n_fixed is not None or abs(new - dd) <= 1e-10 * new:
@@ -99,7 +100,16 @@ def _required_stone(section, q, s, lining, n_fixed, sides, rc, gs, phi, sf_min, 
                 hi, hi_state = dd, (sizes, method, y)
             if lo > 0 and hi < math.inf and not lo < new < hi:
                 break                # the iterates alternate about a jump
-            dd = new
+            # The next trial: the secant step on required(D) - D = 0 through this trial and the one before (it
+            # reaches the fixed point in a few steps where plain substitution needs a dozen), kept only where it
+            # stays between the sizes seen to fail and to hold; else the trial procedure's own next size.
+            gap, following = new - dd, new
+            if last is not None and gap != last[1]:
+                secant = dd - gap * (dd - last[0]) / (gap - last[1])
+                if max(lo, 0.0) < secant < hi and math.isfinite(secant):
+                    following = secant
+            last = (dd, gap)
+            dd = following
         else:
             return sizes, method, y, False, False
         for _ in range(200):         # bisection for the smallest size that holds

@@ -43,6 +43,33 @@ P_LIMIT = 0.95
 BISECTION_RTOL = 1e-15
 
 
+_SECTION_POINTS = np.arange(1, 65) / 65.0   # the k-section's interior points, as fractions of the log bracket
+
+
+def _lowest_usable(usable, lo: float, hi: float) -> float:
+    """The lowest depth in (lo, hi] at which ``usable`` holds (it fails at ``lo``, holds at ``hi`` and, as the
+    bisection it replaces assumes, holds everywhere above the lowest such depth), to BISECTION_RTOL.
+
+    A geometric k-section: each pass tries 64 depths spread evenly on a log scale over the bracket in one
+    array call and keeps the interval where ``usable`` starts to hold, so about nine passes reach the width a
+    one-depth-per-call bisection reaches in some 55 calls.
+    """
+    for _ in range(40):
+        if hi <= lo * (1.0 + BISECTION_RTOL):
+            break
+        trial = lo * (hi / lo) ** _SECTION_POINTS
+        ok = np.asarray(usable(trial)[0], dtype=bool)
+        if ok.any():
+            k = int(np.argmax(ok))
+            new_lo, new_hi = (lo if k == 0 else float(trial[k - 1])), float(trial[k])
+        else:
+            new_lo, new_hi = float(trial[-1]), hi
+        if (new_lo, new_hi) == (lo, hi):   # the bracket is down to neighbouring floats
+            break
+        lo, hi = new_lo, new_hi
+    return hi
+
+
 def _average_depth(section, depth):
     g = section.properties(depth)
     top = g.top_width
@@ -171,7 +198,14 @@ class StoneRoughness:
         start = 1e-3 * self.d50  # a depth every section holds (a pipe may be smaller than 1 m)
         shape = np.shape(section.properties(start).area)
         hi = np.full(shape, start)
-        for _ in range(80):  # grow to a depth where da/D50 reaches the split
+        if not shape:  # one section: the 80 doublings below tried in one array call, the first that reaches it kept
+            grown = start * 2.0 ** np.arange(81)
+            if section.capacity_depth is not None:
+                grown = np.minimum(grown, float(section.capacity_depth) * (1 - 1e-9))
+            with np.errstate(over="ignore", invalid="ignore", divide="ignore"):
+                reached = np.asarray(usable(grown[:80])[1]) >= split
+            hi = np.asarray(grown[int(np.argmax(reached)) if reached.any() else 80])
+        for _ in range(80 if shape else 0):  # grow to a depth where da/D50 reaches the split
             ok, ratio = usable(hi if shape else float(hi))
             grow = np.asarray(ratio) < split
             if not grow.any():
@@ -182,17 +216,20 @@ class StoneRoughness:
         ok_hi, _ = usable(hi if shape else float(hi))
         if not np.any(ok_hi):
             result = (np.inf, None)
+        elif not shape:
+            y = np.asarray(_lowest_usable(usable, 1e-9 * self.d50, float(hi)))
         else:
             lo = np.full(shape, 1e-9 * self.d50)
             hi_b = hi.copy()
             for _ in range(100):   # geometric halving: about 55 steps reach the float spacing from 1e-9 D50
                 mid = np.sqrt(lo * hi_b)
-                ok, _ = usable(mid if shape else float(mid))
+                ok, _ = usable(mid)
                 hi_b = np.where(ok, mid, hi_b)
                 lo = np.where(ok, lo, mid)
                 if np.all(hi_b <= lo * (1.0 + BISECTION_RTOL)):
                     break
             y = np.where(ok_hi, hi_b, np.inf)
+        if np.any(ok_hi):
             yy = y if shape else float(y)
             if not np.all(np.isfinite(y)):
                 result = (yy, None)
