@@ -13,7 +13,7 @@ from hydraulics.wording import in_units, worded
 
 from .results import ResultField, format_value
 
-_STONE_SIZE = ResultField("d50", "D50", "small_length", 1)       # to a tenth, as in the results panel
+STONE_SIZE = ResultField("d50", "D50", "small_length", 1)       # to a tenth, as in the results panel
 _GRASS_HEIGHT = ResultField("stem_height", "height", "small_length", 0)
 _HEIGHT_WORDS = re.compile(r"about [0-9.]+ ?mm tall")
 
@@ -37,7 +37,7 @@ def lining_label(lin, units: UnitSystem, d50: float | None = None, size: bool = 
 
 def stone_size_text(d50: float, units: UnitSystem, decimal_mark: str = ".") -> str:
     """A stone size in ``units`` by the results panel's rule (to a tenth of a mm or an inch), with its unit."""
-    return format_value(d50, _STONE_SIZE, units, decimal_mark)
+    return format_value(d50, STONE_SIZE, units, decimal_mark)
 
 
 #: A size in a name: an optional "about ", a number, and mm (not part of a longer word).

@@ -1,6 +1,7 @@
 """`ditchwright calc --lining ...` and `ditchwright compare`: the JSON contract, tables, and every refusal."""
 
 import json
+import re
 import subprocess
 import sys
 
@@ -89,6 +90,19 @@ def test_calc_table_with_lining(capsys):
     for words in ("Lining stability", "Gravel mulch", "Permissible shear", "not stable", "Smallest stable D50",
                   "Total ditch depth", "Freeboard rule", "filter"):
         assert words in text
+
+
+def test_calc_table_writes_stone_sizes_as_the_window_does(capsys):
+    """Stone sizes and the layer thickness in mm (SI) or inches (US) to a tenth, as in the window's results panel,
+    not in the length unit of depths."""
+    assert main(["calc"] + US_CHANNEL + ["--lining", "riprap:0.5"]) == 0
+    rows = dict(line.strip().split("  ", 1) for line in capsys.readouterr().out.splitlines()
+                if line.strip().startswith(("D50 ", "Layer thickness")))
+    assert rows["D50"].strip() == "6.0 in" and rows["Layer thickness"].strip() == "9.0 in"  # 1.5 D50 (HEC-15 6.4)
+    assert main(GRAVEL_SI + ["--lining", "gravel:0.025"]) == 0
+    si = [line.strip() for line in capsys.readouterr().out.splitlines()]
+    assert "D50                         25.0 mm" in si
+    assert any(re.fullmatch(r"Smallest stable D50\s+\d+\.\d mm", line) for line in si)
 
 
 def test_calc_find_bottom_width_with_a_lining(capsys):

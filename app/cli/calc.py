@@ -10,7 +10,7 @@ from hydraulics.stability import check_lining
 from hydraulics.wording import format_quantity, in_units
 
 from ..results import CHANNEL_FIELDS, convert, format_value
-from ..lining_names import name_in_units
+from ..lining_names import STONE_SIZE, name_in_units
 from ..verdicts import Verdict, verdict_of, with_tokens
 from . import COMMAND_HELP
 from .common import (CliError, add_channel_options, check_dimensions, check_numbers, emit_json, require, section_from_args,
@@ -113,11 +113,13 @@ def lining_json(stab, units) -> dict:
 def stability_rows(stab, units) -> list:
     """(label, value) rows of a lining check, in the user's units."""
     L = lambda v: f"{units.from_si('length', v):.3f} {units.label('length')}"  # noqa: E731
+    # stone sizes and layer thicknesses in mm or inches, to a tenth, as the window's results panel and the sheet
+    stone = lambda v: format_value(v, STONE_SIZE, units)  # noqa: E731
     T = lambda v: format_quantity(v, "shear", units)  # noqa: E731
     rows = [("Lining", f"{name_in_units(stab.lining_name, units)} ({stab.lining_key})"),
             ("Manning's n used", f"{stab.manning_n:.4f}, {stab.n_source}")]
     if stab.d50 is not None:
-        rows.append(("D50", L(stab.d50)))
+        rows.append(("D50", stone(stab.d50)))
     rows.append(("Bed shear (HEC-15 Eq. 3.1)", T(stab.bed_shear)))
     if stab.side_shear is not None:
         rows.append(("Side-slope shear (K1)", T(stab.side_shear)))
@@ -132,9 +134,9 @@ def stability_rows(stab, units) -> list:
         rows.append(("Safety factor", f"{stab.safety_factor:.2f} ({stab.required_safety_factor:.2f} needed)"))
     rows.append(("Verdict", stab.reason(units)))
     if stab.required_d50 is not None:
-        rows.append(("Smallest stable D50", L(stab.required_d50)))
+        rows.append(("Smallest stable D50", stone(stab.required_d50)))
     if stab.layer_thickness is not None:
-        rows.append(("Layer thickness", L(stab.layer_thickness)))
+        rows.append(("Layer thickness", stone(stab.layer_thickness)))
     if stab.superelevation is not None:
         rows.append(("Superelevation in the bend", L(stab.superelevation)))
     rows += [("Freeboard", L(stab.freeboard)), ("Total ditch depth", L(stab.total_depth)),
