@@ -154,7 +154,16 @@ REGISTER: dict = _entries(
     Published("gravity", "acceleration of gravity", "9.81 m/s^2 (32.2 ft/s^2)", "HEC-15 Eq. 6.2",
               ("fhwa-ch6",),
               "the program uses the standard 9.80665 m/s^2, 0.03 % apart"),
-    Published("side_factor", "ratio of side to bed shear K1", "K1 by side slope Z", "HEC-15 Section 3.3"),
+    Published("side_factor", "ratio of side to bed shear K1", "K1 by side slope Z", "HEC-15 Section 3.3", (),
+              "HEC-22 (2009) Section 5.1.7 gives K1 only as its Chart 17, a chart with no relation in the text; "
+              "the relation the program uses has not been read"),
+    Published("side_stone_size", "stone size on the side slopes",
+              "(D50)sides = (K1 / K2) (D50)bottom; with gravel or riprap on sides steeper than 3:1 the side slope "
+              "stability based on the angle of repose must be considered", "HEC-22 (2009) Eq. 5-14 and Section 5.1.7",
+              ("hec22-ch5",),
+              "the relation of HEC-15 Section 6.3.2 as HEC-22 restates it (required_d50_side); the program checks the "
+              "sides at every side slope, not only those steeper than 3:1; K1 (Chart 17) and K2 (Chart 18) are charts "
+              "in HEC-22 and are cited to HEC-15 on their own (tests/test_hec22_examples.py)"),
     Published("bend_factor", "bend factor Kb", "Kb by Rc/T", "HEC-15 Section 3.4", (),
               "HEC-22 (2009) Eq. 5-15 and Chart 21 read Kb against Rc/B, B the bottom width; the program's Rc/T "
               "(T >= B) gives the larger, safer Kb: 2.0 in HEC-22 Example 5-2 where the chart reads 1.6"),
@@ -204,7 +213,7 @@ REGISTER: dict = _entries(
               "HEC-15 Table 6.1"),
     Published("tractive_ratio", "tractive force ratio K2 of stone on a side slope",
               "K2 = sqrt(1 - sin^2 theta / sin^2 phi)", "HEC-15 Section 6.3.2", (),
-              "the same expression is HEC-11's bank factor K1, worked in a Colorado DRMS record (doc 993768 p. 30: "
+              "HEC-22 (2009) gives K2 only as its Chart 18; the same expression is HEC-11's bank factor K1, worked in a Colorado DRMS record (doc 993768 p. 30: "
               "0.7746, 0.8944, 0.9900 for 2:1, 3:1, 10:1 at 45 degrees; the program agrees, "
               "tests/test_hec15_examples_stone.py); HEC-15's own text not read"),
     Published("angle_of_repose", "angle of repose of riprap", "by size and shape (about 40-42 degrees for riprap)",
@@ -236,6 +245,11 @@ REGISTER: dict = _entries(
               "HEC-15 Section 4.3"),
     Published("soil_noncohesive", "permissible shear of non-cohesive soil",
               "1.0 N/m^2 for D75 < 1.3 mm; 0.75 D75 (N/m^2, D75 in mm) from 1.3 to 50 mm", "HEC-15 Section 4.3"),
+    Published("cohesive_threshold", "which soils are designed as cohesive",
+              "\"non-cohesive soils (plasticity index less than 10)\" erode mainly by particle size; cohesive soils by "
+              "cohesive strength and soil density", "HEC-22 (2009) Section 5.3.2", ("hec22-ch5",),
+              "HEC-22's summary of HEC-15 Chapter 4; the program takes the cohesive relation from PI 10 up and sends a "
+              "less plastic soil to the D75 relation"),
     Published("table_4_6", "permissible shear of cohesive soil",
               "tau_p = (c1 PI^2 + c2 PI + c3)(c4 + c5 e)^2 c6", "HEC-15 Table 4.6"),
     # ---------------------------------------------------------------- HEC-15 Chapters 5 and 7

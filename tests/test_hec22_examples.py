@@ -13,8 +13,10 @@ circular reads a value from a chart, the program's relation is checked within ch
 and the test says so.
 
 Chapter 5 has two worked examples only (5-1, capacity; 5-2, straight-reach and bend shear). Its
-grass, riprap, K1, Lp and superelevation material is given as relations and charts without worked
-numbers, so those relations are checked here against their printed constants, not against examples.
+riprap (Eq. 5-14), soil, K1, Lp and superelevation material is given as relations and charts without
+worked numbers, so those relations are checked here against their printed constants and wording, not
+against examples. It has no riprap, gravel or grass example and no Shields parameter: for those it
+refers to HEC-15.
 
 Not asserted, because the program differs by more than the printed rounding (see the module notes
 at the end and the report):
@@ -246,6 +248,50 @@ def test_freeboard_steep_channel_equals_flow_depth(cat):
     r = check_lining(section, 0.80, 0.08, cat.get("concrete"), n=0.030)
     assert r.froude > 1.0 and r.depth > 0.15
     assert r.freeboard == pytest.approx(r.depth, rel=1e-12)
+
+
+# --------------------------------------------------------------------------- Eq. 5-14, stone on the sides
+
+@pytest.mark.parametrize("z", [2.0, 2.5, 4.0])
+def test_side_stone_size_eq_5_14(cat, z):
+    """FHWA HEC-22, 3rd ed., 2009, Section 5.1.7 and Eq. 5-14, pp. 5-8 and 5-9: "when designing a
+    trapezoidal channel lined with gravel or riprap having side slopes steeper than 3:1, the side slope
+    stability based on the angle of repose must be considered (Chart 19). In this situation, considering
+    both shear stress and angle of repose concepts, the required rock size for the side slopes would be:
+    (D50)sides = (K1 / K2) (D50)bottom (5-14)", K1 from Chart 17 and K2 from Chart 18.
+
+    HEC-22 gives K1 and K2 only as charts, so this checks the form of the relation, not their values:
+    the program's side size from ``check_lining`` (illustrative gravel channel, B = 0.6 m, Q = 0.3
+    m^3/s, S = 0.01, not printed numbers) is the bed size times the program's own K1 / K2. Both sizes
+    stand below particle Reynolds number 4e4, where F* and SF are the same on bed and side, so the
+    ratio is exact. The program applies the side check at every side slope (4:1 included), which is
+    the safer reading of "steeper than 3:1".
+    """
+    gravel = cat.get("gravel")
+    r = check_lining(hy.Trapezoid(bottom_width=0.6, side_slope=z), 0.3, 0.01, gravel)
+    assert hec15.particle_reynolds(r.depth, 0.01, r.required_d50_side) < 4.0e4
+    k1 = hec15.side_slope_factor(z)
+    k2 = hec15.tractive_force_ratio(z, gravel.angle_of_repose)
+    assert r.required_d50_side == pytest.approx(k1 / k2 * r.required_d50_bed, rel=1e-9)
+    assert hec15.required_d50_side(r.required_d50_bed, z, gravel.angle_of_repose) == \
+        pytest.approx(r.required_d50_side, rel=1e-9)
+
+
+# --------------------------------------------------------------------------- Section 5.3.2, soil
+
+@pytest.mark.parametrize("soil", ["GM", "GC", "SM", "SC", "ML", "CL", "MH"])
+def test_cohesive_soil_from_plasticity_index_10(soil):
+    """FHWA HEC-22, 3rd ed., 2009, Section 5.3.2, p. 5-14: "Erodibility of non-cohesive soils
+    (plasticity index less than 10) is mainly due to particle size, while cohesive soils is a function
+    of cohesive strength and soil density."
+
+    The program's cohesive-soil relation takes a soil from PI = 10 and refuses a less plastic one with
+    a message that sends it to the particle-size (D75) relation. (CH starts at PI 20 in the relation's
+    own table and is not part of this check.)
+    """
+    assert hec15.cohesive_permissible_shear(soil, 10.0, 0.5) > 0.0
+    with pytest.raises(hy.InputError, match="non-cohesive"):
+        hec15.cohesive_permissible_shear(soil, 9.9, 0.5)
 
 
 # --------------------------------------------------------------------------- Chapter 3
