@@ -230,7 +230,7 @@ class StabilityResult:
         if self.side_slope_factor is not None:
             used.append(cite("side_factor"))
             if self.category == "stone" and self.permissible_shear_side is not None:
-                used += [cite("tractive_ratio"), cite("angle_of_repose")]
+                used += [cite("tractive_ratio"), cite("angle_of_repose"), cite("side_stone_size")]
         if self.bend_factor is not None:
             used += [cite("bend_factor"), cite("bend_length")]
         if self.n_relation in ("bathurst", "held", "transition"):
