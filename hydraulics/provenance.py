@@ -183,6 +183,10 @@ REGISTER: dict = _entries(
               "slopes greater than 10 %", "HEC-15 Section 3.5 and Appendix D", (),
               "HEC-22 (2009) Section 5.2.3 says only that riprap suits very steep channels with gradients in excess "
               "of 10 %"),
+    Published("side_slope_guidance", "side slopes of a triangular or trapezoidal roadside channel",
+              "not steeper than the angle of repose of the soil or lining, generally 1V:3H or flatter; 1V:4H or "
+              "flatter where traffic safety may be of concern", "HEC-22 (2009) Section 5.2.2", ("hec22-ch5",),
+              "the program cautions where a side is steeper than 1V:3H"),
     # ---------------------------------------------------------------- HEC-15 Chapter 6
     Published("size_classes", "stone sizes the Chapter 6 procedures apply to",
               "gravel 15-64 mm (0.6-2.5 in), cobble 64-130 mm (2.5-5.0 in), riprap 130-550 mm (5.0-22.0 in)",

@@ -299,6 +299,22 @@ def _dedupe(items):
     return list(dict.fromkeys(i for i in items if i))
 
 
+#: Flattest side slope (H per 1 V) below which a roadside channel's sides get a caution (HEC-22 Section 5.2.2).
+ROADSIDE_SIDE_SLOPE = 3.0
+
+
+def _side_slope_cautions(section) -> list:
+    """A caution where a triangular or trapezoidal channel's side is steeper than 1V:3H (HEC-22 (2009) Section
+    5.2.2); a rectangle's walls are a structure, not a slope, and get none."""
+    if section.kind not in ("trapezoid", "triangle"):
+        return []
+    steep = [(label, z) for label, z in _sides(section) if z < ROADSIDE_SIDE_SLOPE]
+    return [f"the {label} ({z:g}H:1V) {'are' if label == 'side slopes' else 'is'} steeper than 1V:3H: "
+            f"{cite('side_slope_guidance')} asks for roadside channel sides of 1V:3H or flatter, 1V:4H or flatter "
+            "where traffic safety may be of concern, and never steeper than the angle of repose of the soil or "
+            "lining; local standards govern" for label, z in steep]
+
+
 def _sides(section):
     """[(label, Z)] of the side slopes to check, or [] for shapes without straight sides."""
     zs = section.side_slopes
@@ -579,6 +595,7 @@ def _check(section, q, s, lining, d50, rc, fb_min, n_override, sf_min, v_min, si
     if v < v_min:
         warn.append(worded("velocity {v} is below {v_min}, so silt may settle in the channel ({source})",
                            v=(v, "velocity"), v_min=(v_min, "velocity"), source=SELF_CLEANING_SOURCE))
+    warn += _side_slope_cautions(section)
 
     # -- design shear, permissible shear and the checks (HEC-15 Chapter 3) -----
     zs = section.side_slopes

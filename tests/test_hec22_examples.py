@@ -382,3 +382,21 @@ def test_shallow_concentrated_velocity_against_table_3_3(surface, k):
     """
     for s in (0.005, 0.02, 0.08):
         assert shallow_concentrated_velocity(s, surface) == pytest.approx(k * math.sqrt(100 * s), rel=2e-3)
+
+
+@pytest.mark.parametrize("left, right, cautioned", [(2.0, 2.0, ["side slopes"]), (3.0, 3.0, []), (4.0, 4.0, []),
+                                                    (2.0, 4.0, ["left side slope"]), (1.5, 2.5, ["left side slope",
+                                                                                                 "right side slope"])])
+def test_side_slopes_steeper_than_1v_3h_are_cautioned(cat, left, right, cautioned):
+    """HEC-22 (2009) Section 5.2.2, p. 5-11: side slopes of triangular or trapezoidal channels "should generally be
+    1V:3H or flatter", 1V:4H or flatter where traffic safety may be of concern."""
+    section = hy.Trapezoid(bottom_width=0.6, left_slope=left, right_slope=right)
+    result = check_lining(section, 0.35, 0.012, cat.get("concrete"))
+    said = [w for w in result.warnings if "steeper than 1V:3H" in w]
+    assert [w.split(" (")[0].removeprefix("the ") for w in said] == cautioned
+    assert all("HEC-22 (2009) Section 5.2.2" in w and "1V:4H" in w for w in said)
+
+
+def test_a_rectangle_s_walls_get_no_side_slope_caution(cat):
+    result = check_lining(hy.Rectangle(bottom_width=1.0), 0.35, 0.012, cat.get("concrete"))
+    assert not any("steeper than 1V:3H" in w for w in result.warnings)
