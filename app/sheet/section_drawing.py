@@ -1,7 +1,7 @@
 """The dimensioned typical section, drawn to a stated scale with reportlab's vector graphics.
 
 What is drawn is the one geometry of the section (:mod:`app.section_geometry`,
-which the window's picture draws too): the channel boundary, the water at the
+which the window's picture and the CAD drawing draw too): the channel boundary, the water at the
 design depth, the critical depth, the lining band at its thickness; this
 module places it on paper and adds the ground line at the top of the banks,
 earth hatching and dimensions: bottom
@@ -20,7 +20,7 @@ from reportlab.graphics.shapes import Drawing, Group, Line, PolyLine, Polygon, R
 from reportlab.lib import colors
 from reportlab.pdfbase.pdfmetrics import stringWidth
 
-from ..section_geometry import section_geometry, wet_polygons
+from ..section_geometry import design_geometry, wet_polygons
 from .fonts import FONT, register
 
 PT_PER_M = 72 / 0.0254
@@ -123,8 +123,7 @@ def section_drawing(sheet, width: float, height: float, min_height: float = 88.0
     register()
     us = sheet.units.key == "us"
     design = sheet.design
-    geo = section_geometry(design.section, design.analysis.normal_depth, design.analysis.critical_depth,
-                           design.total_depth, sheet.units, sheet.thickness)
+    geo = design_geometry(design, sheet.units)
     k = geo.to_units                  # the user's length unit per metre: every length below is in that unit
     yn, yc, total, t = geo.normal_depth, geo.critical_depth, geo.total_depth, geo.thickness
     open_top, closed, surveyed = geo.open_top, geo.closed, geo.surveyed
@@ -188,9 +187,8 @@ def section_drawing(sheet, width: float, height: float, min_height: float = 88.0
         _critical_label(g, x, z, yc, yn, s, X, Y, f"critical depth yc {length(yc)}", f"yc {length(yc)}", red)
 
     # lining band (to scale) or a heavy boundary line when its thickness is not known
-    if t > 0:
-        band = [c for px, pz in zip(x, z) for c in (X(px), Y(pz))]
-        band += [c for px, pz in zip(xo[::-1], zo[::-1]) for c in (X(px), Y(pz))]
+    if geo.lining_band is not None:
+        band = [c for px, pz in zip(*geo.lining_band) for c in (X(px), Y(pz))]
         g.add(Polygon(band, fillColor=LINING, strokeColor=INK, strokeWidth=THIN))
     else:
         g.add(PolyLine([c for px, pz in zip(x, z) for c in (X(px), Y(pz))], strokeColor=INK, strokeWidth=1.4))
