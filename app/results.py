@@ -37,6 +37,47 @@ CHANNEL_FIELDS = (
 )
 
 
+_BY_KEY = {f.key: f for f in CHANNEL_FIELDS}
+#: The values of one channel's design as a front end lists them (the window's results panel, the sheet's results
+#: and depth blocks), in reading order: each with its label, quantity and decimals, the one rounding of each value.
+PANEL_FIELDS = (
+    ResultField("flow", "Design flow", "flow", 3),
+    _BY_KEY["normal_depth"],
+    _BY_KEY["critical_depth"],
+    _BY_KEY["velocity"],
+    _BY_KEY["froude"],
+    _BY_KEY["regime"],
+    _BY_KEY["area"],
+    _BY_KEY["top_width"],
+    _BY_KEY["hydraulic_radius"],
+    _BY_KEY["specific_energy"],
+    _BY_KEY["critical_slope"],
+    _BY_KEY["manning_n"],
+    ResultField("bed_shear", "Design shear, bed", "shear", 2),
+    ResultField("side_shear", "Design shear, side slopes", "shear", 2),
+    ResultField("bend_shear", "Design shear, bend", "shear", 2),
+    ResultField("permissible_shear", "Permissible shear", "shear", 2),
+    ResultField("safety_factor", "Safety factor", "", 2),
+    ResultField("required_d50", "Smallest stable D50", "small_length", 1),
+    ResultField("layer_thickness", "Lining thickness", "small_length", 1),
+    ResultField("bend_protection_length", "Protect below the bend", "length", 1),
+    ResultField("freeboard", "Freeboard", "length", 3),
+    ResultField("total_depth", "Depth with freeboard", "length", 3),
+    ResultField("top_width_at_top", "Width at top of ditch", "length", 2),
+    ResultField("lined_width", "Lined width", "length", 2),
+    ResultField("layer_volume", "Layer volume", "volume_per_length", 3),
+    ResultField("cost_per_length", "Cost", "cost_per_length", 2),
+)
+
+
+def panel_field(key: str) -> ResultField:
+    """The one definition of a value of :data:`PANEL_FIELDS` (KeyError names the keys there are)."""
+    for f in PANEL_FIELDS:
+        if f.key == key:
+            return f
+    raise KeyError(f"no result field {key!r}; there are: {', '.join(f.key for f in PANEL_FIELDS)}")
+
+
 #: What a column of an inventory is called in a table, in words (the file's own name is the column's key).
 INVENTORY_WORDS = {
     "id": "Id", "shape": "Shape", "bottom_width": "Bottom width", "left_slope": "Left side slope",

@@ -10,9 +10,11 @@ slopes). The boundary is the core's ``Section.outline``; nothing here computes
 hydraulics. The front ends only place, style and label what they are given:
 the window (:mod:`app.gui.plots`, matplotlib) frames it with ground and soil,
 the sheet (:mod:`app.sheet.section_drawing`, reportlab) draws it to a printed
-scale. Qt-free, no plotting library.
+scale, the CAD drawing (:mod:`app.drawings.section`, ezdxf) draws it to scale on
+layers. Qt-free, no plotting library.
 
     geo = section_geometry(section, normal_depth, critical_depth, total_depth, units, lining_thickness)
+    geo = design_geometry(design, units)      # the same, for an app.evaluate.ChannelDesign
     geo.boundary, geo.water, geo.surface, geo.dimensions["freeboard"]
 """
 
@@ -24,7 +26,7 @@ import numpy as np
 
 from hydraulics.units import UnitSystem
 
-__all__ = ["SectionGeometry", "section_geometry", "offset_polyline", "wet_polygons", "to_ground"]
+__all__ = ["SectionGeometry", "section_geometry", "design_geometry", "offset_polyline", "wet_polygons", "to_ground"]
 
 Line = tuple  # (x array, z array)
 
@@ -39,6 +41,9 @@ class SectionGeometry:
     boundary: Line               # the channel boundary (a pipe: the closed ring from the crown)
     outer: Line                  # the lining's outer face, mitred (the boundary itself without a thickness)
     outer_to_ground: Line        # the outer face with an open section's two ends carried to the top of the ditch
+    ditch: Line                  # the boundary up to the top of the ditch (a survey: between its top edges)
+    banks: list                  # a survey's ground beyond the top edges, [left, right] Lines (else empty)
+    lining_band: Line | None     # closed: boundary, then the outer face back (None without a thickness)
     thickness: float             # lining layer thickness (0 when not known)
     normal_depth: float
     critical_depth: float
@@ -124,9 +129,31 @@ def section_geometry(section, normal_depth: float, critical_depth: float, total_
             "top_width": top_edges[1] - top_edges[0],
             "surface_width": None if surface is None else surface[1] - surface[0],
             "bottom_width": bottom, "thickness": t}
-    return SectionGeometry(kind, units.label("length"), k, (x, z), (xo, zo), (xg, zg), t, yn, yc, total, top, full,
+    ditch, banks = _ditch_and_banks(x, z, top, top_edges) if kind == "irregular" else ((x, z), [])
+    band = None if t <= 0 else (np.concatenate([x, xg[::-1]]), np.concatenate([z, zg[::-1]]))
+    return SectionGeometry(kind, units.label("length"), k, (x, z), (xo, zo), (xg, zg), ditch, banks, band, t, yn, yc,
+                           total, top, full,
                            water, surface, critical, top_edges, ground_edges, float(x[int(np.argmin(z))]), bottom,
                            slopes, slope_points, dims)
+
+
+def design_geometry(design, units: UnitSystem) -> SectionGeometry:
+    """:func:`section_geometry` of a solved channel (an :class:`app.evaluate.ChannelDesign`): its normal and
+    critical depths, its total depth and its lining's layer thickness (none without a lining)."""
+    st = design.stability
+    return section_geometry(design.section, design.analysis.normal_depth, design.analysis.critical_depth,
+                            design.total_depth, units, None if st is None else st.layer_thickness)
+
+
+def _ditch_and_banks(x, z, top, edges):
+    """A survey (x, z) split at its top edges (left, right) at level ``top``: the ditch between them, ends on the
+    level, and the ground beyond each (a bank with no point beyond its edge is left out)."""
+    left, right = edges
+    inside = (x > left) & (x < right)
+    ditch = (np.concatenate([[left], x[inside], [right]]), np.concatenate([[top], z[inside], [top]]))
+    lo, hi = x <= left, x >= right
+    banks = [(np.append(x[lo], left), np.append(z[lo], top)), (np.insert(x[hi], 0, right), np.insert(z[hi], 0, top))]
+    return ditch, [b for b in banks if len(b[0]) > 1]
 
 
 def _extent(x, z, level):

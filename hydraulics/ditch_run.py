@@ -458,7 +458,7 @@ def solve_run(run: DitchRun) -> RunResult:
             continue
         bent = None if np.isnan(bend[rows]).all() else bend[rows]
         for k, c in enumerate(run.candidates):
-            screening.put(rows, k, screen_lining(section, flow[rows], grade[rows], c.lining, d50=c.d50,
+            screening.put((rows, k), screen_lining(section, flow[rows], grade[rows], c.lining, d50=c.d50,
                                                  bend_radius=bent, min_freeboard=run.min_freeboard,
                                                  roughness=roughness[k]))
     margin = np.where(screening.checked, screening.margin, np.nan)

@@ -48,7 +48,7 @@ from .analysis import (MIN_TURBULENT_REYNOLDS, NEAR_CRITICAL_BAND, NEAR_CRITICAL
 from .errors import HydraulicsError, InputError
 from .linings import load_catalogue
 from .linings.hec15 import ValidityWarning
-from .sections import Circle, Trapezoid
+from .sections import SHAPE_DIMENSIONS, Circle, Trapezoid
 from .stability import shear_checks
 from .solvers import flow_at_depth, max_flow
 from . import validate
@@ -79,14 +79,11 @@ WARNINGS = {
 #: Reaches solved per vectorised call; bounds memory and paces the progress callback.
 CHUNK = 100_000
 
-# Which dimensions each shape needs; the others must be blank (or 0, which many inventories write for "none").
-_DIMENSIONS = {
-    "trapezoid": ("bottom_width", "left_slope", "right_slope"),
-    "triangle": ("left_slope", "right_slope"),
-    "rectangle": ("bottom_width",),
-    "circle": ("diameter",),
-}
+#: The dimension columns of an inventory (each side slope its own column).
 _ALL_DIMENSIONS = ("bottom_width", "left_slope", "right_slope", "diameter")
+# Which of them each shape needs (those it takes, sections.SHAPE_DIMENSIONS); the others must be blank (or 0,
+# which many inventories write for "none").
+_DIMENSIONS = {shape: tuple(d for d in _ALL_DIMENSIONS if d in SHAPE_DIMENSIONS[shape][1]) for shape in SHAPES}
 #: Code of each shape in Reaches.kind (its index in SHAPES; -1 for any other text).
 SHAPE_CODE = {name: code for code, name in enumerate(SHAPES)}
 _CIRCLE = SHAPE_CODE["circle"]

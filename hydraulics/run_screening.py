@@ -48,7 +48,7 @@ from .shear_checks import shear_checks
 from .solvers import max_flow
 from .stability import check_lining
 
-__all__ = ["SCREEN_FIELDS", "LiningScreen", "Screening", "screen_lining", "verdict_side", "solvable"]
+__all__ = ["SCREEN_FIELDS", "Screening", "screen_lining", "verdict_side", "solvable"]
 
 #: The numbers screened per channel (SI; nan where the check could not be made): normal depth [m], velocity
 #: [m/s], Froude number [-], Manning's n, water-surface width [m], bed shear tau_d [Pa], the lowest safety factor
@@ -69,13 +69,15 @@ def verdict_side(margin, stable):
 
 
 @dataclass
-class LiningScreen:
-    """One lining over the channels of one section: 1-D arrays of SCREEN_FIELDS, ``stable`` and ``checked``
-    (bool), and ``errors`` (a list: the words of why a channel could not be checked, else None)."""
+class Screening:
+    """Screened linings as arrays of one shape: ``(N,)`` for one lining over N channels (:func:`screen_lining`),
+    ``(N points, K candidates)`` for every candidate at every design point of a run. Arrays of SCREEN_FIELDS,
+    ``stable`` and ``checked`` (bool), and ``errors`` (objects: the words of why a channel could not be checked,
+    else None)."""
 
     checked: np.ndarray
     stable: np.ndarray
-    errors: list
+    errors: np.ndarray
     depth: np.ndarray
     velocity: np.ndarray
     froude: np.ndarray
@@ -92,12 +94,19 @@ class LiningScreen:
     layer_volume: np.ndarray
 
     @classmethod
-    def empty(cls, size: int) -> "LiningScreen":
-        return cls(checked=np.zeros(size, dtype=bool), stable=np.zeros(size, dtype=bool), errors=[None] * size,
-                   **{k: np.full(size, np.nan) for k in SCREEN_FIELDS})
+    def empty(cls, *shape: int) -> "Screening":
+        """Nothing checked yet: ``empty(n)`` for one lining, ``empty(points, candidates)`` for a run."""
+        return cls(checked=np.zeros(shape, dtype=bool), stable=np.zeros(shape, dtype=bool),
+                   errors=np.full(shape, None, dtype=object), **{k: np.full(shape, np.nan) for k in SCREEN_FIELDS})
 
-    def _put_result(self, i: int, r, section) -> None:
-        """Channel ``i`` from a StabilityResult of check_lining in ``section``."""
+    def put(self, index, screen: "Screening") -> None:
+        """The entries at ``index`` (anything numpy indexes with: ``(rows, k)`` is candidate ``k`` at the points
+        ``rows``) from ``screen``, whose arrays have the shape of that selection."""
+        for name in (*SCREEN_FIELDS, "checked", "stable", "errors"):
+            getattr(self, name)[index] = getattr(screen, name)
+
+    def put_result(self, index, r, section) -> None:
+        """The entry at ``index`` from a StabilityResult ``r`` of check_lining in ``section``."""
         gov = min((c.margin for c in r.checks), default=math.inf)
         values = {"depth": r.depth, "velocity": r.velocity, "froude": r.froude, "manning_n": r.manning_n,
                   "top_width": float(r.analysis.top_width), "bed_shear": r.bed_shear,
@@ -110,47 +119,8 @@ class LiningScreen:
                   "lined_width": r.lined_width,
                   "layer_volume": math.nan if r.layer_volume is None else r.layer_volume}
         for k, v in values.items():
-            getattr(self, k)[i] = v
-        self.checked[i], self.stable[i] = True, bool(r.stable)
-
-
-@dataclass
-class Screening:
-    """Every candidate at every design point of a run: (N points, K candidates) arrays of SCREEN_FIELDS,
-    ``stable`` and ``checked``, and ``errors`` (N lists of K: words or None)."""
-
-    checked: np.ndarray
-    stable: np.ndarray
-    errors: list
-    depth: np.ndarray
-    velocity: np.ndarray
-    froude: np.ndarray
-    manning_n: np.ndarray
-    top_width: np.ndarray
-    bed_shear: np.ndarray
-    safety_factor: np.ndarray
-    required_safety_factor: np.ndarray
-    margin: np.ndarray
-    freeboard: np.ndarray
-    total_depth: np.ndarray
-    depth_at_top: np.ndarray
-    lined_width: np.ndarray
-    layer_volume: np.ndarray
-
-    @classmethod
-    def empty(cls, points: int, candidates: int) -> "Screening":
-        shape = (points, candidates)
-        return cls(checked=np.zeros(shape, dtype=bool), stable=np.zeros(shape, dtype=bool),
-                   errors=[[None] * candidates for _ in range(points)],
-                   **{k: np.full(shape, np.nan) for k in SCREEN_FIELDS})
-
-    def put(self, rows, k: int, screen: LiningScreen) -> None:
-        """Candidate ``k`` at the points ``rows`` (an index array) from the screen of those points."""
-        for name in (*SCREEN_FIELDS, "checked", "stable"):
-            getattr(self, name)[rows, k] = getattr(screen, name)
-        for i, err in zip(np.asarray(rows).tolist(), screen.errors):
-            if err is not None:
-                self.errors[i][k] = err
+            getattr(self, k)[index] = v
+        self.checked[index], self.stable[index], self.errors[index] = True, bool(r.stable), None
 
 
 def solvable(section, flow, slope, rough) -> tuple[np.ndarray, np.ndarray]:
@@ -167,7 +137,7 @@ def solvable(section, flow, slope, rough) -> tuple[np.ndarray, np.ndarray]:
 
 
 def screen_lining(section, flow, slope, lining, d50=None, bend_radius=None, min_freeboard=hec15.MIN_FREEBOARD,
-                  min_safety_factor=1.0, roughness=None) -> LiningScreen:
+                  min_safety_factor=1.0, roughness=None) -> Screening:
     """Screen ``lining`` in ``section`` for many flows and slopes (see the module's text).
 
     Parameters
@@ -192,13 +162,13 @@ def screen_lining(section, flow, slope, lining, d50=None, bend_radius=None, min_
 
     Returns
     -------
-    LiningScreen
-        Per channel the numbers of ``check_lining(..., size_stone=False)``, or its error in words.
+    Screening
+        Of shape (N,): per channel the numbers of ``check_lining(..., size_stone=False)``, or its error in words.
     """
     q = np.atleast_1d(np.asarray(flow, dtype=float))
     s = np.broadcast_to(np.asarray(slope, dtype=float), q.shape)
     rc = None if bend_radius is None else np.broadcast_to(np.asarray(bend_radius, dtype=float), q.shape)
-    out = LiningScreen.empty(q.size)
+    out = Screening.empty(q.size)
     if not q.size:
         return out
     one_by_one = np.zeros(q.size, dtype=bool)      # channels left to check_lining itself
@@ -218,7 +188,7 @@ def screen_lining(section, flow, slope, lining, d50=None, bend_radius=None, min_
             out.errors[i] = str(exc)
             out.checked[i] = False
             continue
-        out._put_result(i, r, section)
+        out.put_result(i, r, section)
     return out
 
 

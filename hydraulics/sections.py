@@ -629,6 +629,18 @@ class Irregular(Section):
 
 _KINDS = {cls.kind: cls for cls in (Trapezoid, Triangle, Rectangle, Parabola, Circle, Irregular)}
 
+#: The dimensions each shape given by numbers takes (a survey takes its points instead): shape -> (those it
+#: needs, those it may be given). ``side_slope`` is both sides at once, ``left_slope`` and ``right_slope`` each
+#: side; a V-ditch needs a slope on one side at least, which its class checks. The command line, the inventory
+#: reader and the project schema (``resources/project.schema.json``, tested against this) take them from here.
+SHAPE_DIMENSIONS = {
+    "trapezoid": (frozenset({"bottom_width"}), frozenset({"bottom_width", "side_slope", "left_slope", "right_slope"})),
+    "triangle": (frozenset(), frozenset({"side_slope", "left_slope", "right_slope"})),
+    "rectangle": (frozenset({"bottom_width"}), frozenset({"bottom_width"})),
+    "parabola": (frozenset({"top_width", "at_depth"}), frozenset({"top_width", "at_depth"})),
+    "circle": (frozenset({"diameter"}), frozenset({"diameter"})),
+}
+
 
 def section_from_dict(data: dict) -> Section:
     """Build a section from :meth:`Section.to_dict` output (SI)."""

@@ -122,3 +122,24 @@ def test_the_table_of_input_ranges_agrees_with_the_project_schema():
             assert not zero_ok, name
         if "non_negative" in found:
             assert zero_ok, name
+
+
+def test_the_table_of_shape_dimensions_agrees_with_the_project_schema():
+    """One table of which dimensions each shape takes (hydraulics.sections.SHAPE_DIMENSIONS), used by the command
+    line and the inventory reader, and the project schema's section of each shape allow the same dimensions."""
+    import json
+
+    from hydraulics.many_reaches import _DIMENSIONS, SHAPES
+    from hydraulics.sections import SHAPE_DIMENSIONS
+    schema = json.loads((ROOT / "resources" / "project.schema.json").read_text(encoding="utf-8"))
+    allowed = {}
+    for branch in schema["$defs"]["section"]["allOf"]:
+        shape = branch["if"]["properties"]["shape"]["const"]
+        allowed[shape] = set(branch["then"]["properties"]) - {"shape"}
+    for shape, (needed, may) in SHAPE_DIMENSIONS.items():
+        assert set(may) == allowed[shape], shape
+        assert needed <= may, shape
+    assert set(allowed) - set(SHAPE_DIMENSIONS) == {"irregular"}    # a survey is given by its points
+    # an inventory names each side slope: every dimension a shape takes, with side_slope as its two sides
+    for shape in SHAPES:
+        assert set(_DIMENSIONS[shape]) == (set(SHAPE_DIMENSIONS[shape][1]) - {"side_slope"}), shape

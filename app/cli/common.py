@@ -14,15 +14,8 @@ import sys
 import hydraulics as hy
 from hydraulics import units as hu
 from hydraulics import validate as hv
+from hydraulics.sections import SHAPE_DIMENSIONS
 
-SHAPE_DIMENSIONS = {
-    # shape: (required options, options that may be given)
-    "trapezoid": ({"bottom_width"}, {"bottom_width", "side_slope", "left_slope", "right_slope"}),
-    "triangle": (set(), {"side_slope", "left_slope", "right_slope"}),
-    "rectangle": ({"bottom_width"}, {"bottom_width"}),
-    "parabola": ({"top_width", "at_depth"}, {"top_width", "at_depth"}),
-    "circle": ({"diameter"}, {"diameter"}),
-}
 _DIMENSION_OPTIONS = ("bottom_width", "side_slope", "left_slope", "right_slope", "diameter", "top_width", "at_depth")
 
 

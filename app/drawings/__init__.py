@@ -4,7 +4,8 @@
     written = export_drawings(project, "out/", channels=None, runs=None, units=None, catalogue=None)
 
 Every drawing is made before any file is written, so a channel that cannot be computed leaves the folder as it
-was. Qt-free; the DXF itself is written by ezdxf (:mod:`app.drawings.dxf`).
+was. Qt-free; the DXF itself is written by ezdxf (:mod:`app.drawings.dxf`, shared by :mod:`app.drawings.section` and
+:mod:`app.drawings.profile`).
 """
 
 from __future__ import annotations
@@ -16,7 +17,9 @@ from pathlib import Path
 from hydraulics import units as hu
 from hydraulics.errors import HydraulicsError, InputError
 
-from .dxf import profile_document, section_document, write_document
+from .dxf import write_document
+from .profile import profile_document
+from .section import section_document
 
 __all__ = ["Drawing", "export_drawings", "make_drawings", "safe_file_name"]
 
@@ -64,7 +67,6 @@ def make_drawings(project, channels=None, runs=None, units=None, catalogue=None)
     from ..evaluate import evaluate_channel, load_default_catalogue
     from ..run_design import design_run
     from ..run_drawing import profile_model
-    from ..section_model import section_model
 
     system = units if isinstance(units, hu.UnitSystem) else hu.system(units or project.units)
     catalogue = load_default_catalogue() if catalogue is None else catalogue
@@ -86,7 +88,7 @@ def make_drawings(project, channels=None, runs=None, units=None, catalogue=None)
         except HydraulicsError as exc:
             exc.channel = project.channel_label(ch)
             raise
-        doc = section_document(section_model(design, system), system)
+        doc = section_document(design, system)
         out.append(Drawing("section", ch.name, name_for(ch.name, "-section.dxf"), doc))
     for r in chosen_runs:
         try:

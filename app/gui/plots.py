@@ -119,7 +119,7 @@ class Picture:
 @dataclass
 class SectionDrawing:
     """The window's picture of one section, in the user's length unit, invert at z = 0: the one geometry
-    (:mod:`app.section_geometry`, which the sheet draws too) framed with ground beyond the banks and soil below."""
+    (:mod:`app.section_geometry`, which the sheet and the CAD drawing draw too) framed with ground beyond the banks and soil below."""
 
     geometry: SectionGeometry
     ground: tuple            # boundary polyline with berms (x, z)
@@ -160,11 +160,7 @@ def section_drawing(ev: Evaluation, units: UnitSystem, lining_thickness=None) ->
     gx = np.concatenate([[bx[0] - berm], bx, [bx[-1] + berm]])
     gz = np.concatenate([[bz[0]], bz, [bz[-1]]])
     soil = (np.concatenate([gx, [gx[-1], gx[0]]]), np.concatenate([gz, [base, base]]))
-    band = None
-    if thick > 0:
-        ox, oz = geo.outer
-        band = (np.concatenate([bx, ox[::-1]]), np.concatenate([bz, oz[::-1]]))
-    return SectionDrawing(geo, (gx, gz), soil, None, water, band, top, float(gx[0]), float(gx[-1]), base)
+    return SectionDrawing(geo, (gx, gz), soil, None, water, geo.lining_band, top, float(gx[0]), float(gx[-1]), base)
 
 
 class SectionPicture(Picture):

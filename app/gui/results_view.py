@@ -14,48 +14,20 @@ from hydraulics.units import UnitSystem
 from hydraulics.wording import in_units
 
 from ..channel_display import Evaluation
-from ..results import CHANNEL_FIELDS, ResultField, format_value, rounded
+from ..results import PANEL_FIELDS, format_value, panel_field, rounded
 from .fields import keep_units_whole, number_marks, pretty
 
 CAUTION = ("Results assist design only. Check them against the local drainage code and design manual; "
            "a licensed engineer must review and approve the design before it is built.")
 
-_BY_KEY = {f.key: f for f in CHANNEL_FIELDS}
-#: What the panel lists, in reading order: (key, how it is labelled and formatted).
-ROWS = (
-    ("flow", ResultField("flow", "Design flow", "flow", 3)),
-    ("normal_depth", _BY_KEY["normal_depth"]),
-    ("critical_depth", _BY_KEY["critical_depth"]),
-    ("velocity", _BY_KEY["velocity"]),
-    ("froude", _BY_KEY["froude"]),
-    ("regime", _BY_KEY["regime"]),
-    ("area", _BY_KEY["area"]),
-    ("top_width", _BY_KEY["top_width"]),
-    ("hydraulic_radius", _BY_KEY["hydraulic_radius"]),
-    ("specific_energy", _BY_KEY["specific_energy"]),
-    ("critical_slope", _BY_KEY["critical_slope"]),
-    ("manning_n", _BY_KEY["manning_n"]),
-    ("bed_shear", ResultField("bed_shear", "Design shear, bed", "shear", 2)),
-    ("side_shear", ResultField("side_shear", "Design shear, side slopes", "shear", 2)),
-    ("bend_shear", ResultField("bend_shear", "Design shear, bend", "shear", 2)),
-    ("permissible_shear", ResultField("permissible_shear", "Permissible shear", "shear", 2)),
-    ("safety_factor", ResultField("safety_factor", "Safety factor", "", 2)),
-    ("required_d50", ResultField("required_d50", "Smallest stable D50", "small_length", 1)),
-    ("layer_thickness", ResultField("layer_thickness", "Lining thickness", "small_length", 1)),
-    ("bend_protection_length", ResultField("bend_protection_length", "Protect below the bend", "length", 1)),
-    ("freeboard", ResultField("freeboard", "Freeboard", "length", 3)),
-    ("total_depth", ResultField("total_depth", "Depth with freeboard", "length", 3)),
-    ("top_width_at_top", ResultField("top_width_at_top", "Width at top of ditch", "length", 2)),
-    ("lined_width", ResultField("lined_width", "Lined width", "length", 2)),
-    ("layer_volume", ResultField("layer_volume", "Layer volume", "volume_per_length", 3)),
-    ("cost_per_length", ResultField("cost_per_length", "Cost", "cost_per_length", 2)),
-)
+#: What the panel lists, in reading order: (key, how it is labelled and formatted), the one list of app.results.
+ROWS = tuple((f.key, f) for f in PANEL_FIELDS)
 #: Rows left out when they do not apply (no lining, no bend, not stone, no price).
 OPTIONAL = {"side_shear", "bend_shear", "required_d50", "layer_thickness", "bend_protection_length", "lined_width",
             "layer_volume", "cost_per_length"}
 
 
-_SF = ResultField("safety_factor", "Safety factor", "", 2)
+_SF = panel_field("safety_factor")
 
 
 def result_values(ev: Evaluation, decimal_mark: str = ".") -> dict:

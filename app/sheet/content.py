@@ -39,6 +39,7 @@ from ..context import Context
 from ..verdicts import Verdict, too_shallow_reason
 from ..evaluate import ChannelDesign, design_flow, evaluate_channel, load_default_catalogue
 from ..lining_names import name_in_units
+from ..results import format_value, panel_field, rounded
 from .fingerprint import fingerprint
 
 #: Customary Manning constant, (1 m / 1 ft)^(1/3) = 1.4859 (Chow 1959, Sec. 5-6).
@@ -193,6 +194,16 @@ class Formatter:
         """A value already in the display units, as :meth:`__call__` writes it (to ``figures`` figures, its unit)."""
         return f"{_sig(float(value), figures)} {self.unit(quantity)}"
 
+    def value(self, value_si: float, key: str) -> str:
+        """A value of the design (a key of :data:`app.results.PANEL_FIELDS`) as the window's results panel writes
+        it: the one rounding of that value, in the display units, with its unit."""
+        return pretty_unit(format_value(value_si, panel_field(key), self.units))
+
+    def shown_value(self, value: float, key: str) -> str:
+        """A value already in the display units, as :meth:`value` writes it."""
+        field = panel_field(key)
+        return f"{rounded(float(value), field)} {self.unit(field.quantity)}".rstrip()
+
     def stone(self, value_si: float) -> str:
         """A stone size or layer thickness: in the length unit (as in the verdict's reason) and in in / mm."""
         return f"{self(value_si, 'length')} ({self(value_si, 'small_length')})"
@@ -314,15 +325,15 @@ def result_items(design: ChannelDesign, f: Formatter, n_ref: str = "") -> list:
     else:
         n = f"{n_text(float(r.manning_n))} ({'typed' if design.channel.manning_n is not None else 'composite'})"
     return [  # printed two to a row, in this order
-        Item("Normal depth yn", f(r.normal_depth, "length")),
-        Item("Critical depth yc", f(r.critical_depth, "length")),
-        Item("Velocity V", f(r.velocity, "velocity")),
-        Item("Froude number Fr", f"{float(r.froude):.2f}"),
+        Item("Normal depth yn", f.value(r.normal_depth, "normal_depth")),
+        Item("Critical depth yc", f.value(r.critical_depth, "critical_depth")),
+        Item("Velocity V", f.value(r.velocity, "velocity")),
+        Item("Froude number Fr", f.value(r.froude, "froude")),
         Item("Flow regime", str(r.regime)),
-        Item("Critical slope Sc", f"{_sig(float(r.critical_slope), FIGURES)} {f.unit('slope')}"),
-        Item("Flow area A", f(r.area, "area")),
-        Item("Top width T", f(r.top_width, "length")),
-        Item("Hydraulic radius R", f(r.hydraulic_radius, "length")),
+        Item("Critical slope Sc", f"{f.value(r.critical_slope, 'critical_slope')}"),
+        Item("Flow area A", f.value(r.area, "area")),
+        Item("Top width T", f.value(r.top_width, "top_width")),
+        Item("Hydraulic radius R", f.value(r.hydraulic_radius, "hydraulic_radius")),
         Item("Manning's n used", n),
     ]
 
@@ -479,10 +490,11 @@ def freeboard_rule(design: ChannelDesign, f: Formatter) -> str:
 def _depth_items(design: ChannelDesign, f: Formatter, src: Sources) -> list:
     st, ch = design.stability, design.channel
     min_fb = hec15.MIN_FREEBOARD if ch.min_freeboard is None else ch.min_freeboard
-    fb = f"{f(design.freeboard, 'length')}"
+    fb = f"{f.value(design.freeboard, 'freeboard')}"
     if design.wave_allowance is not None:
         fb += ", the flow depth (supercritical flow: waves as high as the depth)"
     elif design.superelevation is not None:
+        # the terms to three figures: a superelevation of a few millimetres keeps its size
         fb += f" = minimum {f(min_fb, 'length')} + superelevation {f(design.superelevation, 'length')}"
     else:
         fb += ", the minimum"
@@ -493,14 +505,14 @@ def _depth_items(design: ChannelDesign, f: Formatter, src: Sources) -> list:
             lp_source = src.ref("bend protection", f"Lp = 0.736 R^(7/6) / n (SI), {provenance.cite('bend_length')}")
             text += f"; protect {f(st.bend_protection_length, 'length')} downstream {lp_source}"
         items.append(Item("Bend", text))
-    items.append(Item("Total depth", f"{f(design.total_depth, 'length')} (yn + freeboard)"))
-    items.append(Item("Top width at top", f(design.top_width_at_top, "length")))
+    items.append(Item("Total depth", f"{f.value(design.total_depth, 'total_depth')} (yn + freeboard)"))
+    items.append(Item("Top width at top", f.value(design.top_width_at_top, "top_width_at_top")))
     if st is not None:
-        text = f"{f(st.lined_width, 'length')} per {f.unit('length')} of channel"
+        text = f"{f.value(st.lined_width, 'lined_width')} per {f.unit('length')} of channel"
         if st.layer_volume is not None:
-            text += f"; layer {f(st.layer_volume, 'volume_per_length')}"
+            text += f"; layer {f.value(st.layer_volume, 'layer_volume')}"
         if st.cost_per_length is not None:
-            text += f"; cost {f.number(st.cost_per_length, 'cost_per_length')} {f.unit('cost_per_length')}"
+            text += f"; cost {f.value(st.cost_per_length, 'cost_per_length')}"
         items.append(Item("Lined width", text))
     return items
 

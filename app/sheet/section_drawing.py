@@ -1,7 +1,7 @@
 """The dimensioned typical section, drawn to a stated scale with reportlab's vector graphics.
 
 What is drawn is the one geometry of the section (:mod:`app.section_geometry`,
-which the window's picture draws too): the channel boundary, the water at the
+which the window's picture and the CAD drawing draw too): the channel boundary, the water at the
 design depth, the critical depth, the lining band at its thickness; this
 module places it on paper and adds the ground line at the top of the banks,
 earth hatching and dimensions: bottom
@@ -20,7 +20,7 @@ from reportlab.graphics.shapes import Drawing, Group, Line, PolyLine, Polygon, R
 from reportlab.lib import colors
 from reportlab.pdfbase.pdfmetrics import stringWidth
 
-from ..section_geometry import section_geometry, wet_polygons
+from ..section_geometry import design_geometry, wet_polygons
 from .fonts import FONT, register
 
 PT_PER_M = 72 / 0.0254
@@ -123,15 +123,17 @@ def section_drawing(sheet, width: float, height: float, min_height: float = 88.0
     register()
     us = sheet.units.key == "us"
     design = sheet.design
-    geo = section_geometry(design.section, design.analysis.normal_depth, design.analysis.critical_depth,
-                           design.total_depth, sheet.units, sheet.thickness)
+    geo = design_geometry(design, sheet.units)
     k = geo.to_units                  # the user's length unit per metre: every length below is in that unit
     yn, yc, total, t = geo.normal_depth, geo.critical_depth, geo.total_depth, geo.thickness
     open_top, closed, surveyed = geo.open_top, geo.closed, geo.surveyed
     fmt = sheet.format  # the tables' rounding, so a value reads the same in the drawing
 
-    def length(v):
+    def length(v):   # a dimension of the section, as the inputs print it
         return fmt.shown(v, "length")
+
+    def shown(v, key):   # a value of the design, as the results print it (app.results.PANEL_FIELDS)
+        return fmt.shown_value(v, key)
 
     x, z = geo.boundary
     top_z = geo.top
@@ -179,18 +181,17 @@ def section_drawing(sheet, width: float, height: float, min_height: float = 88.0
                       strokeColor=blue, strokeWidth=0.6))
         ws = "design WS"
         if abs(yc - yn) * s <= 1.0:  # the critical depth's line would lie on the water surface
-            ws += f" \u2248 critical depth yc {length(yc)}"
+            ws += f" \u2248 critical depth yc {shown(yc, 'critical_depth')}"
         g.add(_text(mx + 5, Y(yn) + 1.2, ws, color=blue, size=SIZE - 0.5))
     if geo.critical is not None and abs(yc - yn) * s > 1.0:
         xl_c, xr_c = geo.critical
         g.add(Line(X(xl_c), Y(yc), X(xr_c), Y(yc), strokeColor=red, strokeWidth=0.5, strokeDashArray=[2, 1.5]))
         # above its line when above the water surface (clear of the "design WS" label), else below it
-        _critical_label(g, x, z, yc, yn, s, X, Y, f"critical depth yc {length(yc)}", f"yc {length(yc)}", red)
+        _critical_label(g, x, z, yc, yn, s, X, Y, f"critical depth yc {shown(yc, 'critical_depth')}", f"yc {shown(yc, 'critical_depth')}", red)
 
     # lining band (to scale) or a heavy boundary line when its thickness is not known
-    if t > 0:
-        band = [c for px, pz in zip(x, z) for c in (X(px), Y(pz))]
-        band += [c for px, pz in zip(xo[::-1], zo[::-1]) for c in (X(px), Y(pz))]
+    if geo.lining_band is not None:
+        band = [c for px, pz in zip(*geo.lining_band) for c in (X(px), Y(pz))]
         g.add(Polygon(band, fillColor=LINING, strokeColor=INK, strokeWidth=THIN))
     else:
         g.add(PolyLine([c for px, pz in zip(x, z) for c in (X(px), Y(pz))], strokeColor=INK, strokeWidth=1.4))
@@ -217,7 +218,7 @@ def section_drawing(sheet, width: float, height: float, min_height: float = 88.0
     y_top = Y(top_z) + 12
     _ext(g, X(xl), Y(top_z) + 2, X(xl), y_top + 2)
     _ext(g, X(xr), Y(top_z) + 2, X(xr), y_top + 2)
-    _dim_h(g, X(xl), X(xr), y_top, f"{'diameter D' if closed else 'top width'} {length(xr - xl)}")
+    _dim_h(g, X(xl), X(xr), y_top, f"diameter D {length(xr - xl)}" if closed else f"top width {shown(xr - xl, 'top_width_at_top')}")
 
     # design depth and freeboard at the left, total depth at the right; labels horizontal
     x_invert = geo.invert_x
@@ -229,11 +230,11 @@ def section_drawing(sheet, width: float, height: float, min_height: float = 88.0
     _ext(g, er, Y(top_z), xd_r + 2, Y(top_z))
     if xl_w is not None:
         _ext(g, X(xl_w) - 2, Y(yn), xd_l - 2, Y(yn))
-    _dim_v(g, xd_l, Y(0), Y(min(yn, top_z)), f"yn {length(yn)}", side="left")
+    _dim_v(g, xd_l, Y(0), Y(min(yn, top_z)), f"yn {shown(yn, 'normal_depth')}", side="left")
     if total > yn:
-        _dim_v(g, xd_l, Y(yn), Y(top_z), f"{'to crown' if closed else 'freeboard'} {length(total - yn)}",
+        _dim_v(g, xd_l, Y(yn), Y(top_z), f"{'to crown' if closed else 'freeboard'} {shown(total - yn, 'freeboard')}",
                side="left")
-    _dim_v(g, xd_r, Y(0), Y(top_z), f"{'crown' if closed else 'total depth'} {length(total)}", side="right")
+    _dim_v(g, xd_r, Y(0), Y(top_z), f"{'crown' if closed else 'total depth'} {shown(total, 'total_depth')}", side="right")
 
     # bottom width and side slopes for the trapezoid family
     if geo.side_slopes is not None:

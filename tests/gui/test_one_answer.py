@@ -1,8 +1,9 @@
 """One answer everywhere: the window, the sheet, `calc --json` and the batch show the same channel alike.
 
 Two channels of the demo project (invented site), in SI and in US customary units, with a user catalogue that
-holds an invented unit cost. Each front end prints its own rounding of one answer, so each printed number must
-lie within half a unit of its last printed digit of the value the others print; the verdict is the same member
+holds an invented unit cost. The window and the sheet print the results by the one rounding rule
+(app.results.PANEL_FIELDS), so each of their values is the same text; the command line and the batch write more
+digits, so each printed number must lie within half a unit of its last printed digit of the value the others print; the verdict is the same member
 of the one vocabulary (app/verdicts.py) in each; the cost per length is the same. The numbers themselves are
 checked against published cases elsewhere (tests/test_published_cases.py, tests/test_sheet.py).
 """
@@ -29,6 +30,14 @@ CHANNELS = ("East verge ditch", "North cut ditch")      # concrete (priced), gra
 USER = ('schema_version = 1\n'
         '[[lining]]\nkey = "concrete"\nunit_cost = 70.0\nunit_cost_basis = "area"\n'
         '[[lining]]\nkey = "gravel"\nunit_cost = 18.0\nunit_cost_basis = "area"\n')
+
+
+#: Values of the window's results panel (key) that the sheet prints after a label, as the same text.
+SAME_TEXT = {"normal_depth": "Normal depth yn", "critical_depth": "Critical depth yc", "velocity": "Velocity V",
+             "froude": "Froude number Fr", "area": "Flow area A", "top_width": "Top width T",
+             "hydraulic_radius": "Hydraulic radius R", "critical_slope": "Critical slope Sc", "freeboard": "Freeboard",
+             "total_depth": "Total depth", "top_width_at_top": "Top width at top", "lined_width": "Lined width",
+             "layer_volume": "; layer", "cost_per_length": "; cost"}
 
 
 def _close(printed: str, value: float) -> None:
@@ -67,7 +76,7 @@ def test_every_front_end_shows_one_answer(name, units, user_catalogue, tmp_path,
     qtbot.waitExposed(w)
     w.channel_list.setCurrentRow([c.name for c in w.doc.project.channels].index(name))
     qtbot.waitUntil(lambda: w.results.values["cost_per_length"].text() != "\u2014")
-    shown = {k: w.results.values[k].text() for k in ("normal_depth", "velocity", "cost_per_length")}
+    shown = {k: w.results.values[k].text() for k in SAME_TEXT}
     assert w.results.headline.text() == verdict.words
     w.doc.undo_stack.setClean()
     _close(shown["normal_depth"].split()[0], y)
@@ -82,6 +91,8 @@ def test_every_front_end_shows_one_answer(name, units, user_catalogue, tmp_path,
     _close(re.search(r"Velocity V\s+([0-9.]+)", text).group(1), v)
     _close(re.search(r"; cost ([0-9][0-9,]*\.?[0-9]*)", text).group(1).replace(",", ""), cost)
     assert verdict.heading in text
+    for key, label in SAME_TEXT.items():   # the one rounding rule (app.results.PANEL_FIELDS): the same words
+        assert re.search(re.escape(label) + r"\s+" + re.escape(shown[key]) + r"(?![0-9])", text), (key, shown[key])
 
     # the command line, from the same inputs typed as options in the project's units
     sec = channel.section
