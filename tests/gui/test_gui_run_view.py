@@ -374,3 +374,28 @@ def test_a_bad_outfall_level_is_refused_and_the_last_result_kept(demo_window, qt
     assert outfall_control(view) == ("level", pytest.approx(45.4))
     type_level(box, "45.4")                           # put right: the marks go, the result is current again
     assert not box.message.isVisible() and not view.model.stale and not view.complaint
+
+
+def overlapping_labels(picture):
+    """Pairs of words drawn on the profile (labels, marks, legend entries) whose boxes cover each other, as
+    rendered in the window's figure."""
+    picture.canvas.draw()
+    renderer = picture.canvas.get_renderer()
+    texts = [t for t in picture.ax.texts if t.get_visible() and t.get_text().strip()]
+    texts += [t for t in picture.legend.get_texts()] + [picture.title]
+    boxes = [(t.get_text(), t.get_window_extent(renderer)) for t in texts]
+    return [(a, b) for i, (a, ba) in enumerate(boxes) for b, bb in boxes[i + 1:] if ba.overlaps(bb)]
+
+
+@pytest.mark.parametrize("size", [(1366, 768), (1920, 1080)])
+def test_no_words_on_the_demo_profile_cover_others(demo_window, qtbot, size):
+    w = demo_window
+    w.resize(*size)
+    view = shown(w, qtbot)
+    qtbot.wait(50)
+    labels = [t.get_text() for t in view.picture.ax.texts]
+    assert "jump 0+329.14" in labels and "grade 3.00 %" in labels   # the demo's jump, on its steep stretch
+    assert overlapping_labels(view.picture) == []
+    # the legend stays within the canvas
+    legend = view.picture.legend.get_window_extent(view.picture.canvas.get_renderer())
+    assert 0 <= legend.x0 and legend.x1 <= view.picture.figure.bbox.width
