@@ -855,6 +855,7 @@ class RunView(QWidget):
         doc.reset.connect(self.reload)
         doc.units_changed.connect(self._units_changed)
         doc.run_changed.connect(self._run_changed)
+        doc.runs_changed.connect(self.show_run)
         self.reload()
 
     # -- which run --------------------------------------------------------------------------
@@ -892,6 +893,11 @@ class RunView(QWidget):
         self.refusals.clear()
         self._load_inputs()
         self.compute()
+
+    def show_run(self, index: int) -> None:
+        """Show run ``index`` afresh (runs were added or removed)."""
+        self.current = index
+        self.reload()
 
     def _units_changed(self) -> None:
         self._load_inputs()
