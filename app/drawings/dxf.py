@@ -46,9 +46,9 @@ SECTION_LAYERS = {
 PROFILE_LAYERS = {
     "INVERT": (7, 50, "Continuous", "invert of the ditch through its grade points"),
     "DITCH-TOP": (34, 25, "Continuous", "top of the ditch (invert plus ditch depth)"),
-    "WATER-SURFACE": (5, 35, "Continuous", "water surface computed along the run (standard step method)"),
-    "NORMAL-DEPTH": (5, 18, "DASHED", "normal depth"),
-    "CRITICAL-DEPTH": (1, 18, "DOT", "critical depth"),
+    "WATER-SURFACE": (150, 50, "Continuous", "water surface computed along the run (standard step method)"),
+    "NORMAL-DEPTH": (140, 18, "DASHED-OPEN", "normal depth"),
+    "CRITICAL-DEPTH": (1, 35, "DOTTED-SHORT", "critical depth"),
     "JUMPS": (1, 25, "Continuous", "hydraulic jumps, marked at the station of the toe"),
     "GRADES": (94, 18, "Continuous", "grade points and the grade of each stretch"),
     "STATIONS": (7, 18, "Continuous", "station line, ticks and labels"),
@@ -57,6 +57,12 @@ PROFILE_LAYERS = {
     "LINING-STRETCHES": (30, 25, "Continuous", "lining stretches as labelled bands"),
     "TEXT": (7, 18, "Continuous", "title and notes"),
 }
+
+#: Line types of our own: name -> (pattern [total length, dash, gap, ...] at line-type scale 1, description).
+#: Wide gaps keep normal depth readable as dashes where it runs along the computed water surface, and short dashes
+#: draw critical depth's dots in every viewer (a dot of length zero vanishes in some).
+LINETYPES = {"DASHED-OPEN": ([2.0, 1.2, -0.8], "Dashed, open __  __  __"),
+             "DOTTED-SHORT": ([1.0, 0.25, -0.75], "Dotted . . . .")}
 
 #: The width of an average character of the text style, as a fraction of the text height (DejaVu Sans, measured
 #: on renderings of our labels: the height is the capital height, an average letter is a little wider).
@@ -77,6 +83,8 @@ def _new_document(units: UnitSystem, layers: dict, text_height: float):
     doc.header["$MEASUREMENT"] = 0 if units.key == "us" else 1
     doc.header["$LUNITS"] = 2            # decimal
     doc.styles.add(TEXT_STYLE, font=FONT)
+    for name, (pattern, description) in LINETYPES.items():
+        doc.linetypes.add(name, pattern=pattern, description=description)
     for name, (color, weight, linetype, what) in layers.items():
         layer = doc.layers.add(name, color=color, linetype=linetype)
         layer.dxf.lineweight = weight
@@ -314,7 +322,8 @@ def profile_document(model: ProfileModel, units: UnitSystem, exaggeration: float
     notes = [f"Profile: {model.title}",
              f"Vertical exaggeration {ve:g}:1 (stations 1 drawing unit = 1 {L}; elevations drawn {ve:g} times, "
              f"above datum {datum:g} {L})",
-             "Invert through the grade points; water surface at normal depth at the design points (no backwater)"]
+             "Invert through the grade points; water surface computed along the run (standard step method, from "
+             "the outfall control); normal depth dashed, critical depth dotted"]
     for i, line in enumerate(notes):
         _text(msp, line, x0, y_top + (len(notes) - i) * 1.7 * h + 1.5 * h, h * (1.4 if i == 0 else 0.9))
     return doc
