@@ -16,7 +16,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from PySide6.QtCore import QAbstractTableModel, QModelIndex, Qt, Signal
+from PySide6.QtCore import QAbstractTableModel, QModelIndex, Qt, QTimer, Signal
 from PySide6.QtGui import QAction, QBrush, QColor, QKeySequence
 from PySide6.QtWidgets import (QAbstractItemView, QComboBox, QFormLayout, QFrame, QGroupBox, QHBoxLayout,
                                QHeaderView, QLabel, QListWidget, QMenu, QPushButton, QScrollArea, QSplitter,
@@ -558,6 +558,9 @@ class RunInputs(QScrollArea):
         self.candidates = InputTable("candidates", CANDIDATE_COLUMNS, "candidates")
         self.sub_areas = InputTable("sub_areas", SUB_AREA_COLUMNS, "subAreas")
         self.outfall = OutfallInput()
+        # a refused level's message is the last thing in the panel: scroll it into view
+        self.outfall.refused.connect(lambda *_: QTimer.singleShot(
+            0, lambda: self.ensureWidgetVisible(self.outfall.message)))
         for title, table, hint in (
                 ("Grade points (invert profile)", self.profile, "Grade breaks along the run; the grade of each "
                                                                 "stretch follows."),
