@@ -399,8 +399,8 @@ def read_landxml(path, *, spacing: float | None = None, n: float | None = None,
     if not (math.isfinite(n) and n > 0):
         raise LandXMLError(f"Manning's n must be a number > 0, got {n}")
     report = ImportReport()
-    report.notes.append(f"lengths in the file are in {unit_name}; the project is in "
-                        f"{'SI' if units == 'si' else 'US customary'} units")
+    report.notes.append(f"lengths in the file are in {unit_name} ({'SI' if units == 'si' else 'US customary'} "
+                        "units)")
     project_el = _children(root, "Project")
     name = (project_el[0].get("name") if project_el else None) or Path(path).stem
     runs, taken = [], set()

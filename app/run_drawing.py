@@ -57,6 +57,7 @@ class GradeLabel:
     x: float          # the middle of the grade stretch
     y: float          # its invert there
     text: str         # "0.60 %"
+    falling: bool = True   # the invert falls along the stationing (a label fits under it on the upstream side)
 
 
 @dataclass(frozen=True)
@@ -171,7 +172,7 @@ def profile_model(design: RunDesign, units: UnitSystem) -> ProfileModel:
         mid = 0.5 * (s0 + s1)
         model.grades.append(GradeLabel(float(L(mid)), float(L(np.interp(0.5 * (lay.profile_x[j] + lay.profile_x[j + 1]),
                                                                        lay.profile_x, lay.profile_z))),
-                                       f"{100 * g:.2f} %"))
+                                       f"{100 * g:.2f} %", bool(g >= 0)))
     step = station_step(model.last_station - model.first_station, units)
     k0 = math.ceil(model.first_station / step - 1e-9)
     k1 = math.floor(model.last_station / step + 1e-9)

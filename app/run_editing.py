@@ -4,6 +4,7 @@ The window's document turns each change into one undoable command with these; th
 :mod:`app.project` objects alone and leave the one given unchanged (each change is a copy).
 
     new = with_run_value(run, "profile[2].elevation", 46.0)
+    new = with_outfall_control(run, "level", 45.86)
     channel = station_channel(design, 12, "North verge ditch at 0+180.00", units)
 """
 
@@ -15,10 +16,13 @@ import re
 from hydraulics.units import UnitSystem
 from hydraulics.wording import format_station, in_units, worded
 
-from .project import Channel, FlowBasis, LiningChoice, Run
+from .project import OUTFALL_CONTROLS, Channel, FlowBasis, LiningChoice, Run
 
-__all__ = ["with_run_value", "run_value", "station_channel", "StationNotOpenable", "cost_quantity",
-           "RUN_ITEMS", "item_path"]
+__all__ = ["with_run_value", "run_value", "with_outfall_control", "station_channel", "StationNotOpenable",
+           "cost_quantity", "RUN_ITEMS", "item_path", "OUTFALL_LEVEL_PATH"]
+
+#: The outfall water level as the project file and the core's messages name it.
+OUTFALL_LEVEL_PATH = "outfall.water_level"
 
 #: The lists of a run the window edits item by item, and the attributes it changes in them.
 RUN_ITEMS = {"profile": ("station", "elevation"), "candidates": ("unit_cost",),
@@ -53,6 +57,20 @@ def with_run_value(run: Run, path: str, value) -> Run:
     if not 0 <= index < len(seq):
         raise KeyError(f"{path!r}: the run has {len(seq)} {items.replace('_', '-')}")
     setattr(seq[index], attribute, value)
+    return out
+
+
+def with_outfall_control(run: Run, control: str, water_level: float | None) -> Run:
+    """A copy of ``run`` whose outfall is controlled by ``control`` ("normal", "critical" or "level") with the
+    outfall water level ``water_level`` [m] (needed for "level"; kept, unused, with the other two so that going
+    back to "level" finds it again)."""
+    if control not in OUTFALL_CONTROLS:
+        raise KeyError(f"outfall control {control!r}: must be one of {', '.join(OUTFALL_CONTROLS)}")
+    if control == "level" and water_level is None:
+        raise ValueError("the outfall control is a known water level, so give that level")
+    out = copy.deepcopy(run)
+    out.outfall.control = control
+    out.outfall.water_level = None if water_level is None else float(water_level)
     return out
 
 

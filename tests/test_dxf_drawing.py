@@ -179,6 +179,22 @@ def test_the_profile_invert_runs_through_the_grade_points(written, project):
     assert stations[0] == ("0+00.00" if key == "us" else "0+000.00")
 
 
+def test_the_profile_lines_of_the_water_are_told_apart(written, project):
+    """Normal depth dashed and critical depth dotted, each with gaps a viewer draws (no dash of length zero), in
+    colours other than the computed water surface's; the notes say the surface is computed, not normal depth."""
+    key, paths = written
+    doc = ezdxf.readfile(next(p for p in paths if p.name == safe_file_name(project.runs[0].name, "-profile.dxf")))
+    colours = {name: doc.layers.get(name).dxf.color for name in ("WATER-SURFACE", "NORMAL-DEPTH", "CRITICAL-DEPTH")}
+    assert len(set(colours.values())) == 3
+    for layer, kind in (("NORMAL-DEPTH", "dashed"), ("CRITICAL-DEPTH", "dotted")):
+        pattern = doc.linetypes.get(doc.layers.get(layer).dxf.linetype).simplified_line_pattern()
+        dashes, gaps = pattern[0::2], pattern[1::2]            # lengths: dash, gap, dash, gap...
+        assert dashes and gaps and all(d > 0 for d in dashes) and all(g > 0 for g in gaps)
+        assert (max(dashes) > max(gaps)) == (kind == "dashed")        # a dot is shorter than its gap
+    notes = " ".join(t.dxf.text for t in doc.modelspace().query("TEXT") if t.dxf.layer == "TEXT")
+    assert "water surface computed along the run" in notes and "no backwater" not in notes
+
+
 def test_a_lining_stretch_is_a_band_per_schedule_line(project):
     (drawing,) = make_drawings(project, runs=[project.runs[0].name], units="si")
     msp = drawing.document.modelspace()

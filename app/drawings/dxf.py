@@ -39,14 +39,14 @@ LAYERS = {
     "WATER": (151, 0, "Continuous", "water at the design depth (fill)"),
     "DIMENSIONS": (250, 18, "Continuous", "dimensions: widths, depths, freeboard, side slopes"),
     # both
-    "WATER-SURFACE": (5, 35, "Continuous", ("water surface: at the design (normal) depth in a section, with its "
+    "WATER-SURFACE": (150, 35, "Continuous", ("water surface: at the design (normal) depth in a section, with its "
                                             "mark; computed along a run (standard step method) in a profile")),
-    "CRITICAL-DEPTH": (1, 25, "DOT", "critical depth"),
+    "CRITICAL-DEPTH": (1, 35, "DOTTED-SHORT", "critical depth"),
     "TEXT": (7, 18, "Continuous", "title, labels and notes"),
     # the profile of a run
     "INVERT": (7, 50, "Continuous", "invert of the ditch through its grade points"),
     "DITCH-TOP": (34, 25, "Continuous", "top of the ditch (invert plus ditch depth)"),
-    "NORMAL-DEPTH": (5, 18, "DASHED", "normal depth"),
+    "NORMAL-DEPTH": (140, 18, "DASHED-OPEN", "normal depth"),
     "JUMPS": (1, 25, "Continuous", "hydraulic jumps, marked at the station of the toe"),
     "GRADES": (94, 18, "Continuous", "grade points and the grade of each stretch"),
     "STATIONS": (7, 18, "Continuous", "station line, ticks and labels"),
@@ -59,6 +59,12 @@ SECTION_LAYERS = ("GROUND", "DITCH-OUTLINE", "LINING", "WATER", "WATER-SURFACE",
                   "TEXT")
 PROFILE_LAYERS = ("INVERT", "DITCH-TOP", "WATER-SURFACE", "NORMAL-DEPTH", "CRITICAL-DEPTH", "JUMPS", "GRADES",
                   "STATIONS", "ELEVATIONS", "GRID", "LINING-STRETCHES", "TEXT")
+
+#: Line types of our own: name -> (pattern [total length, dash, gap, ...] at line-type scale 1, description).
+#: Wide gaps keep normal depth readable as dashes where it runs along the computed water surface, and short dashes
+#: draw critical depth's dots in every viewer (a dot of length zero vanishes in some).
+LINETYPES = {"DASHED-OPEN": ([2.0, 1.2, -0.8], "Dashed, open __  __  __"),
+             "DOTTED-SHORT": ([1.0, 0.25, -0.75], "Dotted . . . .")}
 
 #: The width of an average character of the text style, as a fraction of the text height (DejaVu Sans, measured
 #: on renderings of our labels: the height is the capital height, an average letter is a little wider).
@@ -87,6 +93,8 @@ def new_document(units: UnitSystem, layers: tuple, text_height: float):
     doc.header["$MEASUREMENT"] = 0 if units.key == "us" else 1
     doc.header["$LUNITS"] = 2            # decimal
     doc.styles.add(TEXT_STYLE, font=FONT)
+    for name, (pattern, description) in LINETYPES.items():
+        doc.linetypes.add(name, pattern=pattern, description=description)
     for name in layers:
         color, weight, linetype, what = LAYERS[name]
         layer = doc.layers.add(name, color=color, linetype=linetype)

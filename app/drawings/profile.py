@@ -156,7 +156,8 @@ def profile_document(model: ProfileModel, units: UnitSystem, exaggeration: float
     notes = [f"Profile: {model.title}",
              f"Vertical exaggeration {ve:g}:1 (stations 1 drawing unit = 1 {L}; elevations drawn {ve:g} times, "
              f"above datum {datum:g} {L})",
-             "Invert through the grade points; water surface at normal depth at the design points (no backwater)"]
+             "Invert through the grade points; water surface computed along the run (standard step method, from "
+             "the outfall control); normal depth dashed, critical depth dotted"]
     for i, line in enumerate(notes):
         add_text(msp, line, x0, y_top + (len(notes) - i) * 1.7 * h + 1.5 * h, h * (1.4 if i == 0 else 0.9))
     return doc

@@ -69,6 +69,21 @@ class AddChannels(QUndoCommand):
         self.doc._remove_channels(self.index, len(self.channels))
 
 
+class AddRuns(QUndoCommand):
+    """Append several ditch runs at once (a LandXML import): one step of the history."""
+
+    def __init__(self, doc, runs: list, text: str):
+        super().__init__(text)
+        self.doc, self.runs = doc, list(runs)
+        self.index = len(doc.project.runs)
+
+    def redo(self):
+        self.doc._insert_runs(self.index, self.runs)
+
+    def undo(self):
+        self.doc._remove_runs(self.index, len(self.runs))
+
+
 class RemoveChannel(QUndoCommand):
     def __init__(self, doc, index: int):
         self.doc, self.index = doc, index

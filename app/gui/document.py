@@ -31,6 +31,7 @@ class ProjectDocument(QObject):
     current_changed = Signal(int)
     project_changed = Signal()       # project name, notes or sheet details
     run_changed = Signal(int)        # the inputs of one ditch run changed
+    runs_changed = Signal(int)       # ditch runs added or removed; the index of the run to show
 
     def __init__(self, project: pj.Project | None = None, path=None, parent=None, context: Context | None = None):
         """``context``: the catalogue and program version the project is evaluated with (default: the shipped
@@ -164,6 +165,23 @@ class ProjectDocument(QObject):
             self.undo_stack.push(cmd.AddChannels(self, added, text))
         return [c.name for c in added]
 
+    def add_runs(self, runs: list, text: str) -> list:
+        """Append ditch ``runs`` in one undoable step; a name already in use gets a number. Returns the names."""
+        names = {r.name for r in self.project.runs}
+        added = []
+        for run in runs:
+            run = copy.deepcopy(run)
+            base, k = run.name.strip() or "Run", 2
+            run.name = base
+            while run.name in names:
+                run.name = f"{base} ({k})"
+                k += 1
+            names.add(run.name)
+            added.append(run)
+        if added:
+            self.undo_stack.push(cmd.AddRuns(self, added, text))
+        return [r.name for r in added]
+
     def edit_run(self, index: int, new: pj.Run, text: str, merge_key=None) -> None:
         """Replace ditch run ``index`` with ``new`` (one undoable step; a changed copy, see app.run_editing)."""
         if new != self.project.runs[index]:
@@ -244,6 +262,16 @@ class ProjectDocument(QObject):
         self.current = min(index, len(self.project.channels) - 1)
         self.channels_changed.emit()
         self.current_changed.emit(self.current)
+
+    def _insert_runs(self, index: int, runs: list) -> None:
+        self.revision += 1
+        self.project.runs[index:index] = runs
+        self.runs_changed.emit(index)
+
+    def _remove_runs(self, index: int, count: int) -> None:
+        self.revision += 1
+        del self.project.runs[index:index + count]
+        self.runs_changed.emit(max(min(index, len(self.project.runs) - 1), 0))
 
     def _replace_run(self, index: int, run: pj.Run) -> None:
         self.revision += 1

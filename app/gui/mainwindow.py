@@ -36,6 +36,7 @@ from .shortcuts import WindowKeys
 from .style import STYLE
 from .tasks import Task
 
+LANDXML_FILTER = "LandXML files (*.xml);;All files (*)"
 FILE_FILTER = "Ditchwright projects (*.json);;All files (*)"
 SHAPE_NAMES = dict(SHAPES)
 TABS = ("section", "rating", "energy", "compare")
@@ -107,6 +108,9 @@ class MainWindow(QMainWindow):
         self.drawings_action = act("Export dra&wings (DXF)…", self.export_drawings_dialog, None,
                                    "Write the typical section of every channel and the profile of every ditch run "
                                    "as DXF drawings for CAD, into a folder")
+        self.landxml_action = act("Import &LandXML…", self.import_landxml, None,
+                                  "Add the road profiles and cross-sections of a LandXML file to this project as "
+                                  "ditch runs (undo removes them again)")
         self.inventory_action = act("Check an &inventory…", self.open_inventory, "Ctrl+I",
                                     "Check every reach of a ditch inventory (CSV) and import chosen ones")
         self.quit_action = act("&Quit", self.close, K.Quit, "Close the window")
@@ -169,7 +173,7 @@ class MainWindow(QMainWindow):
         m.addSeparator()
         m.addActions([self.save_action, self.save_as_action])
         m.addSeparator()
-        m.addActions([self.export_action, self.drawings_action, self.inventory_action])
+        m.addActions([self.export_action, self.drawings_action, self.landxml_action, self.inventory_action])
         m.addSeparator()
         m.addAction(self.quit_action)
         m = bar.addMenu("&Edit")
@@ -296,6 +300,7 @@ class MainWindow(QMainWindow):
         d.channel_changed.connect(self._channel_changed)
         d.units_changed.connect(self.refresh_all)
         d.project_changed.connect(self.update_title)
+        d.runs_changed.connect(self.update_run_actions)
         d.undo_stack.cleanChanged.connect(self.update_title)
         d.undo_stack.indexChanged.connect(self.update_title)
 
@@ -448,6 +453,33 @@ class MainWindow(QMainWindow):
     def open_station(self) -> None:
         if self.run_view is not None and self.pages.currentWidget() is self.run_view:
             self.run_view.open_selected_station()
+
+    def import_landxml(self) -> None:
+        """Add the ditch runs a LandXML file makes (road profiles as inverts, cross-sections as surveyed sections)
+        to this project, in one undoable step. They join the open project rather than replace it: they need its
+        rainfall, linings and sub-areas to be solved, and nothing open is lost (Undo takes them out again)."""
+        folder = settings.LAST_FOLDER.read() if self.persistent else ""
+        path, _ = QFileDialog.getOpenFileName(self, "Import LandXML", folder, LANDXML_FILTER)
+        if not path:
+            return
+        from ..landxml_import import LandXMLError, read_landxml
+        try:
+            imported, report = read_landxml(path)
+            pj.Project.from_dict(imported.to_dict())     # the project file's own check, as `import` makes
+        except (LandXMLError, pj.ProjectFileError, OSError) as exc:
+            QMessageBox.warning(self, "Cannot import the LandXML file",
+                                f"{path}\n\n{sentence(str(exc)[:1].upper() + str(exc)[1:])}\n\nNothing was changed.")
+            return
+        names = self.doc.add_runs(imported.runs, f"Import {len(imported.runs)} ditch run"
+                                                 f"{'s' if len(imported.runs) != 1 else ''} from {Path(path).name}")
+        units = "SI" if self.doc.project.units == "si" else "US customary"
+        lines = [sentence(t[:1].upper() + t[1:]) for t in report.lines()]
+        QMessageBox.information(self, "LandXML imported",
+                                f"Added to this project as {', '.join(repr(n) for n in names)}, shown in its "
+                                f"{units} units. Undo removes them again.\n\n" + "\n".join(lines))
+        self.statusBar().showMessage(f"Imported {len(names)} ditch run(s) from {path}.", 8000)
+        self.show_runs()
+        self.run_view.show_run(len(self.doc.project.runs) - len(names))
 
     def _station_opened(self, _name: str) -> None:
         self.show_channels(0)

@@ -25,6 +25,7 @@ TROUBLE_COLOURS = {"overtopped": ("#f0b9b4", "#8c1610"), "not stable": ("#f3c9c6
 DASHES = {"solid": "-", "dashed": "--", "dotted": ":"}
 BAND = 0.075         # height of the lining band at the foot of the axes, as a fraction of the axes
 LANES = (0.965, 0.905, 0.845)   # heights of the inflow labels, fraction of the axes
+LIFT_PT = 11.0       # a label that would cover another moves by this much at a time [points]
 CHAR_PX = 6.3        # about the width of one character at the label size [px], to keep labels apart
 
 
@@ -99,32 +100,49 @@ class ProfilePicture(Picture):
         self._stretches(model, foot, px_per_unit)
         self._trouble(model, foot)
         self._inflows(model, foot, px_per_unit)
+        renderer = self.figure.canvas.get_renderer()
+        placed = [t for t in self._made if hasattr(t, "get_text") and t.get_text()]   # band and trouble words
         for g in model.grades:
-            self._made.append(ax.annotate(f"grade {g.text}", (g.x, g.y), xytext=(4, -8), textcoords="offset points",
-                                          ha="left", va="top", fontsize=FONT - 1, color=INK, zorder=6,
-                                          bbox=dict(boxstyle="round,pad=0.2", fc="white", ec="none", alpha=0.85)))
+            # under the invert on its upstream side, where a falling line stays above the words
+            label = ax.annotate(f"grade {g.text}", (g.x, g.y), xytext=(-4 if g.falling else 4, -8),
+                                textcoords="offset points", ha="right" if g.falling else "left", va="top",
+                                fontsize=FONT - 1, color=INK, zorder=6,
+                                bbox=dict(boxstyle="round,pad=0.2", fc="white", ec="none", alpha=0.85))
+            self._made.append(label)
+            inside = ax.get_window_extent(renderer)
+            if label.get_window_extent(renderer).x0 < inside.x0 or label.get_window_extent(renderer).x1 > inside.x1:
+                label.set_ha("left" if g.falling else "right")          # the other side, within the axes
+                label.xyann = (-label.xyann[0], label.xyann[1])
+            placed.append(keep_clear(label, placed, renderer, -LIFT_PT))
         for jm in model.jumps:
             self._made.append(ax.plot([jm.start, jm.start], [jm.low, jm.high], color=CRITICAL, lw=2.0,
                                       zorder=7)[0])
-            self._made.append(ax.annotate(jm.label, (jm.start, jm.high), xytext=(0, 14), textcoords="offset points",
-                                          ha="center", va="bottom", fontsize=FONT - 1, color=CRITICAL, zorder=8,
-                                          arrowprops=dict(arrowstyle="-", color=CRITICAL, lw=0.8),
-                                          bbox=dict(boxstyle="round,pad=0.2", fc="white", ec="none", alpha=0.85)))
+            label = ax.annotate(jm.label, (jm.start, jm.high), xytext=(0, 14), textcoords="offset points",
+                                ha="center", va="bottom", fontsize=FONT - 1, color=CRITICAL, zorder=8,
+                                arrowprops=dict(arrowstyle="-", color=CRITICAL, lw=0.8),
+                                bbox=dict(boxstyle="round,pad=0.2", fc="white", ec="none", alpha=0.85))
+            self._made.append(label)
+            placed.append(keep_clear(label, placed, renderer, LIFT_PT))
         if model.outfall:
             s, z, label = model.outfall
             self._made.append(ax.plot([s], [z], marker="s", ms=6, color=INK, zorder=7)[0])
             top_line = model.lines["ditch_top"]
             above = float(top_line.y[int(np.argmin(np.abs(top_line.x - s)))]) if top_line.x.size else z
             self._made.append(ax.plot([s, s], [z, above], color=INK, lw=0.8, zorder=7)[0])
-            self._made.append(ax.annotate(f"outfall: {label}", (s, above), xytext=(-4, 8), textcoords="offset points",
-                                          ha="right", va="bottom", fontsize=FONT - 1, color=INK, zorder=7,
-                                          bbox=dict(boxstyle="round,pad=0.2", fc="white", ec="none", alpha=0.85)))
+            text = ax.annotate(f"outfall: {label}", (s, above), xytext=(-4, 8), textcoords="offset points",
+                               ha="right", va="bottom", fontsize=FONT - 1, color=INK, zorder=7,
+                               bbox=dict(boxstyle="round,pad=0.2", fc="white", ec="none", alpha=0.85))
+            self._made.append(text)
+            keep_clear(text, placed, renderer, LIFT_PT)
         handles = [self.lines[k] for k in ("ditch_top", "water_surface", "normal", "critical", "invert")]
-        if self.legend is not None:
-            self.legend.remove()
-        self.legend = self.figure.legend(handles=handles, loc="lower center", ncol=5, fontsize=FONT - 0.5,
-                                         frameon=False, bbox_to_anchor=(0.5, 0.0), handlelength=2.4,
-                                         borderaxespad=0.2)
+        for handle, gap in ((2.4, 2.0), (1.6, 0.8)):     # one row, closer together on a narrow canvas
+            if self.legend is not None:
+                self.legend.remove()
+            self.legend = self.figure.legend(handles=handles, loc="lower center", ncol=5, fontsize=FONT - 0.5,
+                                             frameon=False, bbox_to_anchor=(0.5, 0.0), handlelength=handle,
+                                             columnspacing=gap, handletextpad=0.5, borderaxespad=0.2)
+            if self.legend.get_window_extent(renderer).width <= self.figure.bbox.width - 8:
+                break
         self.show_station(self.selected)
         self.fade(False)
 
@@ -208,6 +226,21 @@ class ProfilePicture(Picture):
             return None
         xs = self.model.lines["invert"].x
         return int(np.argmin(np.abs(xs - x))) if xs.size else None
+
+
+def keep_clear(label, others, renderer, step: float, tries: int = 8):
+    """Move the annotation ``label`` by ``step`` points at a time (up when positive, down when negative) until its
+    box covers none of the texts ``others``, at most ``tries`` times; returns ``label``."""
+    def box(t):
+        return t.get_window_extent(renderer).padded(2)      # the words and their white ground
+
+    for _ in range(tries):
+        mine = box(label)
+        if not any(mine.overlaps(box(o)) for o in others if o.get_visible()):
+            break
+        dx, dy = label.xyann
+        label.xyann = (dx, dy + step)
+    return label
 
 
 def fitting_label(label: str, width_px: float) -> str:

@@ -14,24 +14,28 @@ import copy
 import re
 from dataclasses import dataclass
 
-from PySide6.QtCore import QAbstractTableModel, QModelIndex, Qt, Signal
+import numpy as np
+
+from PySide6.QtCore import QAbstractTableModel, QModelIndex, Qt, QTimer, Signal
 from PySide6.QtGui import QAction, QBrush, QColor, QKeySequence
-from PySide6.QtWidgets import (QAbstractItemView, QFrame, QGroupBox, QHBoxLayout, QHeaderView, QLabel, QListWidget,
-                               QMenu, QPushButton, QScrollArea, QSplitter, QTableView, QTableWidget,
-                               QTableWidgetItem, QVBoxLayout, QWidget)
+from PySide6.QtWidgets import (QAbstractItemView, QComboBox, QFormLayout, QFrame, QGroupBox, QHBoxLayout,
+                               QHeaderView, QLabel, QListWidget, QMenu, QPushButton, QScrollArea, QSplitter,
+                               QTableView, QTableWidget, QTableWidgetItem, QVBoxLayout, QWidget)
 
 import hydraulics as hy
 from hydraulics.provenance import NOT_VERIFIED_MARK, NOT_VERIFIED_TITLE
 from hydraulics.units import UnitSystem
 from hydraulics.wording import format_station, in_units
 
+from ..project import OUTFALL_CONTROLS
 from ..results import RUN_STATION_FIELDS
-from ..run_design import RunDesign, design_run
+from ..run_design import CONTROL_WORDS, RunDesign, design_run
 from ..run_drawing import profile_model
-from ..run_editing import StationNotOpenable, cost_quantity, item_path, run_value, station_channel, with_run_value
+from ..run_editing import (OUTFALL_LEVEL_PATH, StationNotOpenable, cost_quantity, item_path, run_value,
+                           station_channel, with_outfall_control, with_run_value)
 from ..verdicts import Verdict
 from .document import ProjectDocument
-from .fields import (UnclearNumber, format_number, keep_units_whole, parse_number, pretty, sentence,
+from .fields import (LineEdit, UnclearNumber, format_number, keep_units_whole, parse_number, pretty, sentence,
                      set_invalid)
 from .results_view import CAUTION, _escape
 from .run_plot import ProfilePicture
@@ -413,6 +417,116 @@ SUB_AREA_COLUMNS = (Column("name", "Sub-area", editable=False),
 WIDE = ("key", "name")
 
 
+class OutfallInput(QWidget):
+    """What controls the water surface at the outfall: normal depth, critical depth (a free overfall) or a known
+    water level, typed in the project's units and used only with that choice."""
+
+    edited = Signal(str, object, str)    # control, water level (SI, or None), description
+    refused = Signal(str, str)           # path, message
+
+    def __init__(self, parent=None):
+        super().__init__(parent)
+        self.run = None
+        self.units: UnitSystem | None = None
+        self.control = QComboBox()
+        self.control.setObjectName("outfallControl")
+        for key in OUTFALL_CONTROLS:
+            self.control.addItem(CONTROL_WORDS[key], key)
+        self.control.setToolTip("What sets the water surface at the outfall; the subcritical stretches are "
+                                "computed upstream from it.")
+        self.level = LineEdit()
+        self.level.setObjectName("outfallLevel")
+        self.level.setToolTip("The water-surface elevation at the outfall, such as a culvert's headwater or a "
+                              "receiving stream's level (used with the control 'water level').")
+        self.level_label = QLabel("Water level")
+        self.message = QLabel()
+        self.message.setObjectName("fieldMessage")
+        self.message.setWordWrap(True)
+        self.message.hide()
+        form = QFormLayout()
+        form.setContentsMargins(0, 0, 0, 0)
+        form.setSpacing(4)
+        form.addRow("Control", self.control)
+        form.addRow(self.level_label, self.level)
+        lay = QVBoxLayout(self)
+        lay.setContentsMargins(0, 0, 0, 0)
+        lay.setSpacing(3)
+        lay.addLayout(form)
+        lay.addWidget(self.message)
+        self.control.currentIndexChanged.connect(self._control_picked)
+        self.level.editingFinished.connect(self._level_typed)
+
+    @property
+    def chosen(self) -> str:
+        return self.control.currentData()
+
+    def load(self, run, units: UnitSystem) -> None:
+        """Show the outfall of ``run`` (SI) in ``units``; what was marked is cleared."""
+        self.run, self.units = run, units
+        out = run.outfall
+        self.control.blockSignals(True)
+        self.control.setCurrentIndex(OUTFALL_CONTROLS.index(out.control))
+        self.control.blockSignals(False)
+        self.level.setText("" if out.water_level is None else
+                           format_number(round(float(units.from_si("length", out.water_level)), 3)))
+        self.level_label.setText(f"Water level [{pretty(units.label('length'))}]")
+        self.level.setEnabled(out.control == "level")
+        self.mark("")
+
+    def mark(self, message: str) -> None:
+        self.message.setText(message)
+        self.message.setVisible(bool(message))
+        set_invalid(self.level, bool(message))
+
+    def _control_picked(self, _index: int) -> None:
+        self.level.setEnabled(self.chosen == "level")
+        self._hand_on()
+
+    def _level_typed(self) -> None:
+        if self.chosen == "level" and self.level.isModified():
+            self.level.setModified(False)
+            self._hand_on()
+
+    def _hand_on(self) -> None:
+        control = self.chosen
+        level = self.run.outfall.water_level          # kept, unused, with the other controls
+        if control == "level":
+            try:
+                level = self.read(self.level.text())
+            except ValueError as exc:
+                self.mark(str(exc))
+                self.refused.emit(OUTFALL_LEVEL_PATH, str(exc))
+                return
+        self.mark("")
+        what = CONTROL_WORDS[control] if control != "level" else \
+            f"water level {self.level.text().strip()} {pretty(self.units.label('length'))}"
+        self.edited.emit(control, level, f"Set the outfall control of '{self.run.name}' to {what}")
+
+    def outfall_invert(self) -> float:
+        """The invert elevation at the outfall [m], from the run's grade points."""
+        prof = sorted(self.run.profile, key=lambda p: p.station)
+        return float(np.interp(self.run.outfall.station, [p.station for p in prof], [p.elevation for p in prof]))
+
+    def read(self, text: str) -> float:
+        """The outfall water level typed (SI); ValueError with the reason in words."""
+        unit = pretty(self.units.label("length"))
+        if not text.strip():
+            raise ValueError("The outfall water level is needed: the control is a known water level.")
+        try:
+            shown = parse_number(text)
+        except UnclearNumber as exc:
+            raise ValueError(f"Outfall water level: {exc}") from None
+        except ValueError:
+            raise ValueError(f"Outfall water level: '{text.strip()}' is not a number.") from None
+        value = float(self.units.to_si("length", shown))
+        invert = self.outfall_invert()
+        if value <= invert:
+            raise ValueError(f"The outfall water level must be above the invert there, "
+                             f"{format_number(round(float(self.units.from_si('length', invert)), 3))} {unit}; "
+                             f"{text.strip()} is not.")
+        return value
+
+
 class RunInputs(QScrollArea):
     """The runs of the project, and the editable lists of the one shown."""
 
@@ -443,12 +557,17 @@ class RunInputs(QScrollArea):
         self.profile = InputTable("profile", PROFILE_COLUMNS, "gradePoints")
         self.candidates = InputTable("candidates", CANDIDATE_COLUMNS, "candidates")
         self.sub_areas = InputTable("sub_areas", SUB_AREA_COLUMNS, "subAreas")
+        self.outfall = OutfallInput()
+        # a refused level's message is the last thing in the panel: scroll it into view
+        self.outfall.refused.connect(lambda *_: QTimer.singleShot(
+            0, lambda: self.ensureWidgetVisible(self.outfall.message)))
         for title, table, hint in (
                 ("Grade points (invert profile)", self.profile, "Grade breaks along the run; the grade of each "
                                                                 "stretch follows."),
                 ("Candidate linings", self.candidates, "The linings the run may use; the cheapest stable one is "
                                                        "scheduled."),
-                ("Sub-areas draining in", self.sub_areas, "")):
+                ("Sub-areas draining in", self.sub_areas, ""),
+                ("Outfall", self.outfall, "The downstream control of the water surface.")):
             box = QGroupBox(title)
             bl = QVBoxLayout(box)
             bl.setContentsMargins(8, 6, 8, 6)
@@ -477,6 +596,7 @@ class RunInputs(QScrollArea):
     def load(self, run, units: UnitSystem, catalogue) -> None:
         for t in self.tables():
             t.load(run, units, catalogue)
+        self.outfall.load(run, units)
         self.summary.setText(keep_units_whole(
             f"{format_station(run.profile[0].station, units)} to {format_station(run.profile[-1].station, units)}, "
             f"{run.return_period:g}-year storm, outfall: {run.outfall.kind or 'not described'} at "
@@ -536,6 +656,7 @@ class RunResultsPanel(QWidget):
 
         _, self.schedule = section("Lining schedule", "schedule")
         self.schedule.setObjectName("numbers")
+        _, self.surface = section("Water surface: controls and jumps", "surface")
         _, self.warnings = section("Cautions for this run", "warnings")
         _, self.notes = section("Method", "runNotes")
         self.unverified_heading, self.unverified = section(f"{NOT_VERIFIED_TITLE} ({NOT_VERIFIED_MARK})",
@@ -607,6 +728,8 @@ class RunResultsPanel(QWidget):
                          f"{_escape(s['lining_name'])}{qty}<br>cost <b>{money(s['cost'])}</b></p>")
         items.append(f"<p style='margin:2px 0 0 0'><b>Total cost {money(design.result.total_cost)}</b></p>")
         self.schedule.setText("".join(items))
+        jumps = [f"Hydraulic jump {j}" for j in design.jump_rows(units)]
+        self.surface.setText(bullets(design.control_rows(units) + jumps))
         self.warnings.setText(bullets([in_units(w, units) for w in design.warnings]) or "None from the checks made.")
         self.notes.setText(bullets([in_units(n, units) for n in design.notes]))
         unverified = [in_units(n, units) for n in design.not_verified]
@@ -658,6 +781,8 @@ class RunView(QWidget):
         for t in self.inputs.tables():
             t.edited.connect(self._edited)
             t.refused.connect(self._refused)
+        self.inputs.outfall.edited.connect(self._outfall_edited)
+        self.inputs.outfall.refused.connect(self._refused)
 
         self.picture = ProfilePicture()
         self.picture.canvas.setMinimumHeight(220)
@@ -733,6 +858,7 @@ class RunView(QWidget):
         doc.reset.connect(self.reload)
         doc.units_changed.connect(self._units_changed)
         doc.run_changed.connect(self._run_changed)
+        doc.runs_changed.connect(self.show_run)
         self.reload()
 
     # -- which run --------------------------------------------------------------------------
@@ -771,6 +897,11 @@ class RunView(QWidget):
         self._load_inputs()
         self.compute()
 
+    def show_run(self, index: int) -> None:
+        """Show run ``index`` afresh (runs were added or removed)."""
+        self.current = index
+        self.reload()
+
     def _units_changed(self) -> None:
         self._load_inputs()
         self.show_result()
@@ -783,6 +914,14 @@ class RunView(QWidget):
             self.show_result()
             return
         self.doc.edit_run(self.current, with_run_value(run, path, value), text)
+
+    def _outfall_edited(self, control: str, level, text: str) -> None:
+        run = self.run
+        self.refusals.pop(OUTFALL_LEVEL_PATH, None)
+        if (run.outfall.control, run.outfall.water_level) == (control, level):
+            self.show_result()
+            return
+        self.doc.edit_run(self.current, with_outfall_control(run, control, level), text)
 
     def _refused(self, path: str, message: str) -> None:
         self.refusals[path] = message
@@ -828,7 +967,10 @@ class RunView(QWidget):
         else:
             self.problem = sentence(exc) if isinstance(exc, hy.InputError) else sentence(f"No solution: {exc}")
         self.design = None
-        m = _ITEM.search(getattr(exc, "field", "") or "")
+        where = getattr(exc, "field", "") or ""
+        m = _ITEM.search(where)
+        if isinstance(exc, hy.InputError) and where.startswith("outfall"):
+            self.inputs.outfall.mark(self.problem)
         if m is not None and isinstance(exc, hy.InputError):
             table = self.inputs.table_for(m.group(1))
             col = table.column_of(m.group(3))

@@ -287,3 +287,115 @@ def test_an_overtopping_backwater_is_marked_on_the_run_profile(demo_window, qtbo
         assert np.nanmax(ws) > 0 and abs(float(ws[-1]) - (44.56 + 1.3)) < 1e-9
     finally:
         run.outfall.control, run.outfall.water_level = "normal", None
+
+
+# -- the outfall control ----------------------------------------------------------------------------------
+def outfall_control(view):
+    """The control the shown result assumed at the outfall: (kind, level in the user's units)."""
+    c = next(c for c in view.design.control_values(view.doc.units) if c["where"] == "outfall")
+    return c["kind"], c["level"]
+
+
+def type_level(box, text):
+    """Type ``text`` in the outfall's water-level field and leave it."""
+    box.level.setText(text)
+    box.level.setModified(True)
+    box.level.editingFinished.emit()
+
+
+def test_changing_the_outfall_control_recomputes_the_profile_and_undo_restores(demo_window, qtbot):
+    w = demo_window
+    view = shown(w, qtbot)
+    box = view.inputs.outfall
+    # the demo's invented culvert headwater, 45.4 m, controls the outfall
+    assert box.chosen == "level" and box.level.isEnabled() and box.level.text() == "45.4"
+    assert box.level_label.text() == "Water level [m]"
+    assert outfall_control(view) == ("level", pytest.approx(45.4))
+    ws_before = view.picture.lines["water_surface"].get_data()[1].copy()
+    box.control.setCurrentIndex(box.control.findData("critical"))      # a free overfall at the outfall instead
+    assert not box.level.isEnabled()
+    out = w.doc.project.runs[0].outfall
+    assert (out.control, out.water_level) == ("critical", 45.4) and w.doc.undo_stack.count() == 1
+    assert "critical depth" in w.doc.undo_stack.undoText()
+    settle(view, qtbot)
+    assert outfall_control(view)[0] == "critical"
+    # the computed water surface now ends on the critical-depth line at the outfall, below the headwater
+    ws = view.picture.lines["water_surface"].get_data()[1]
+    crit = view.picture.lines["critical"].get_data()[1]
+    assert float(ws[-1]) == pytest.approx(float(crit[-1]), abs=1e-6)
+    assert float(ws[-1]) < float(ws_before[-1]) == pytest.approx(45.4)
+    assert "critical depth" in view.results.surface.text()
+    w.undo_action.trigger()
+    assert w.doc.project.runs[0].outfall.control == "level" and box.chosen == "level" and box.level.isEnabled()
+    settle(view, qtbot)
+    assert outfall_control(view) == ("level", pytest.approx(45.4))
+    np.testing.assert_array_equal(view.picture.lines["water_surface"].get_data()[1], ws_before)
+    assert "Outfall, 0+700.00: water level, level 45.40\xa0m" in view.results.surface.text()
+
+
+def test_a_known_outfall_water_level_is_typed_in_the_projects_units(demo_window, qtbot):
+    w = demo_window
+    view = shown(w, qtbot)
+    box = view.inputs.outfall
+    box.control.setCurrentIndex(box.control.findData("normal"))
+    settle(view, qtbot)
+    assert outfall_control(view)[0] == "normal"
+    type_level(box, "")                                # the level field is not read with another control
+    box.control.setCurrentIndex(box.control.findData("level"))
+    # no level given: refused where it is typed, the document unchanged, the last result kept (greyed)
+    assert box.level.isEnabled() and "is needed" in box.message.text() and box.message.isVisible()
+    assert w.doc.project.runs[0].outfall.control == "normal" and w.doc.undo_stack.count() == 1
+    assert view.model.stale and view.results.stale.isVisible()
+    type_level(box, "45.2")                          # the invert at the outfall is 44.56 m (invented demo data)
+    assert not box.message.isVisible()
+    out = w.doc.project.runs[0].outfall
+    assert (out.control, out.water_level) == ("level", 45.2) and w.doc.undo_stack.count() == 2
+    settle(view, qtbot)
+    assert outfall_control(view) == ("level", pytest.approx(45.2))
+    assert not view.model.stale
+    # the same level in feet: the field speaks the project's units
+    w.doc.set_units("us")
+    assert float(box.level.text()) == pytest.approx(45.2 / 0.3048, abs=0.01) and "ft" in box.level_label.text()
+
+
+@pytest.mark.parametrize("text, words", [("abc", "is not a number"), ("44", "must be above the invert there, 44.56"),
+                                         ("", "is needed")])
+def test_a_bad_outfall_level_is_refused_and_the_last_result_kept(demo_window, qtbot, text, words):
+    w = demo_window
+    view = shown(w, qtbot)
+    box = view.inputs.outfall
+    rows = [cell(view, i, "water_depth") for i in range(view.model.rowCount())]
+    saved = pj.dumps(w.doc.project)
+    type_level(box, text)
+    assert words in box.message.text() and box.message.isVisible()
+    assert pj.dumps(w.doc.project) == saved and w.doc.undo_stack.count() == 0
+    assert view.model.stale and [cell(view, i, "water_depth") for i in range(view.model.rowCount())] == rows
+    assert words in view.results.reason.text()
+    assert outfall_control(view) == ("level", pytest.approx(45.4))
+    type_level(box, "45.4")                           # put right: the marks go, the result is current again
+    assert not box.message.isVisible() and not view.model.stale and not view.complaint
+
+
+def overlapping_labels(picture):
+    """Pairs of words drawn on the profile (labels, marks, legend entries) whose boxes cover each other, as
+    rendered in the window's figure."""
+    picture.canvas.draw()
+    renderer = picture.canvas.get_renderer()
+    texts = [t for t in picture.ax.texts if t.get_visible() and t.get_text().strip()]
+    texts += [t for t in picture.legend.get_texts()] + [picture.title]
+    boxes = [(t.get_text(), t.get_window_extent(renderer)) for t in texts]
+    return [(a, b) for i, (a, ba) in enumerate(boxes) for b, bb in boxes[i + 1:] if ba.overlaps(bb)]
+
+
+@pytest.mark.parametrize("size", [(1366, 768), (1920, 1080)])
+def test_no_words_on_the_demo_profile_cover_others(demo_window, qtbot, size):
+    w = demo_window
+    w.resize(*size)
+    view = shown(w, qtbot)
+    qtbot.wait(50)
+    labels = [t.get_text() for t in view.picture.ax.texts]
+    assert "jump 0+329.14" in labels and "grade 3.00 %" in labels   # the demo's jump, on its steep stretch
+    assert overlapping_labels(view.picture) == []
+    # the legend stays within the canvas
+    legend = view.picture.legend.get_window_extent(view.picture.canvas.get_renderer())
+    assert 0 <= legend.x0 and legend.x1 <= view.picture.figure.bbox.width
