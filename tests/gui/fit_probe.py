@@ -18,7 +18,9 @@ visible button lies inside its window and is not cut by a parent (a button
 inside a scroll area counts as reachable when the scroll area's viewport is
 inside the window); every visible label is at least as wide as its text needs
 (``minimumSizeHint``), a word-wrapped one as tall as its text needs at its
-width (``heightForWidth``), and no label or button text is elided with "…".
+width (``heightForWidth``), and no label or button text is elided with "…";
+the writing of each picture in view (title, texts, legend, tick and axis
+labels) lies inside its figure. Main views also report their columns' widths.
 Settings, recent files and autosaves go to a temporary folder.
 """
 
@@ -143,6 +145,33 @@ def problems(top, screen) -> list[str]:
     return out
 
 
+def figure_cut(picture) -> list[str]:
+    """What of a matplotlib picture's writing (titles, texts, legend, and the tick labels and label of each axis
+    drawn) reaches past its figure, in words."""
+    fig = picture.figure
+    renderer = fig.canvas.get_renderer()
+    box = fig.bbox
+    pieces = [(t.get_text(), t) for t in fig.texts]
+    for ax in fig.axes:
+        pieces += [(t.get_text(), t) for t in (*ax.texts, ax.title, ax._left_title, ax._right_title)]
+        legend = ax.get_legend()
+        if legend is not None and legend.get_visible():
+            pieces.append(("legend", legend))
+        if ax.axison:
+            pieces += [("x axis", ax.xaxis), ("y axis", ax.yaxis)]
+    out = []
+    for name, artist in pieces:
+        if not artist.get_visible() or not name.strip():
+            continue
+        e = artist.get_tightbbox(renderer) if name in ("x axis", "y axis") else artist.get_window_extent(renderer)
+        if e is None or e.width == 0:
+            continue
+        if e.x0 < box.x0 - 1 or e.x1 > box.x1 + 1 or e.y0 < box.y0 - 1 or e.y1 > box.y1 + 1:
+            out.append(f"figure text cut: {name[:60]!r} at {e.x0:.0f}..{e.x1:.0f} x {e.y0:.0f}..{e.y1:.0f}, "
+                       f"figure {box.width:.0f}x{box.height:.0f}")
+    return out
+
+
 def page_scrolls(top) -> str:
     """Which way the window's form (the main window's page, a dialog's form) scrolls: "", "down", "across" or
     "both" (``app.gui.screen_fit.scrolling`` areas, named formScroll)."""
@@ -165,13 +194,17 @@ class Probe:
         for _ in range(rounds):
             self.app.processEvents()
 
-    def look(self, name: str, top) -> None:
-        """Show ``top`` (if it is not shown), check it and save its picture."""
+    def look(self, name: str, top, pictures=()) -> None:
+        """Show ``top`` (if it is not shown), check it and the matplotlib ``pictures`` in it (drawn), and save
+        its picture."""
         if not top.isVisible():
             top.show()
         self.settle()
         screen = top.screen()
-        self.report[name] = {"size": [top.width(), top.height()], "problems": problems(top, screen),
+        found = problems(top, screen)
+        for picture in pictures:
+            found += figure_cut(picture)
+        self.report[name] = {"size": [top.width(), top.height()], "problems": found,
                              "scrolls": page_scrolls(top)}
         if self.shots is not None:
             self.shots.mkdir(parents=True, exist_ok=True)
@@ -241,9 +274,12 @@ def run(args) -> dict:
         w.doc.set_current(outfall)
         w.show_channels(tab)
         probe.settle()
+        shown = [p for p in (w.section_picture, w.rating_picture, w.energy_picture) if p.canvas.isVisible()]
         for pic in (w.section_picture, w.rating_picture, w.energy_picture):
             pic.canvas.draw()
-        probe.look(f"main-{name}", w)
+        probe.look(f"main-{name}", w, shown)
+        probe.report[f"main-{name}"]["columns"] = [wd.width() for wd in (w.splitter.widget(i) for i in
+                                                   range(w.splitter.count())) if wd.isVisible()]
     if w.doc.project.runs:
         w.show_runs()
         view = w.run_view
