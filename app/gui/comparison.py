@@ -45,6 +45,7 @@ COLUMN_WIDTH = 126
 CHOICE_WIDTH = 205
 CHOICE_COLUMNS = 3
 PICTURE_HEIGHT = 92
+SHORT = 420                     # a view lower than this [logical px] leaves out the two lines of instructions
 CHOICE_HEIGHT = 6 * 22 + 8      # the list of ticks: six rows, fewer on a short window (a quarter of the view)
 STATUS_COLOURS = {"pass": "#e7f4ea", "fail": "#fbeaea", "unchecked": "#fff6e0", "none": "#eef0f2"}
 
@@ -59,7 +60,7 @@ class ComparisonView(QWidget):
         self.data = None       # the one comparison table of ``rows`` as shown (app.comparison_table)
         self.pictures: list[SectionPicture] = []
 
-        intro = QLabel("Tick linings to compare them for this channel at its design flow. Pick a column to "
+        intro = self.intro = QLabel("Tick linings to compare them for this channel at its design flow. Pick a column to "
                        "apply that lining to the channel, or copy the table for a spreadsheet.")
         intro.setWordWrap(True)
         intro.setObjectName("hint")
@@ -215,6 +216,7 @@ class ComparisonView(QWidget):
     def resizeEvent(self, event):
         super().resizeEvent(event)
         self.choice_scroll.setFixedHeight(max(3 * 22 + 8, min(CHOICE_HEIGHT, self.height() // 4)))
+        self.intro.setVisible(self.height() >= SHORT)       # a short view keeps its height for the table
         if self.checks and self._columns() != getattr(self, "_filled_columns", None):
             self._groups = None
             self._fill_choices(self.doc.channel())

@@ -660,8 +660,8 @@ class MainWindow(QMainWindow):
         """Say once that unsaved work is not being copied; the work stays open."""
         self.statusBar().showMessage(f"Autosave failed: {reason}", 30000)
         QMessageBox.warning(self, "Autosave failed", f"Your unsaved changes could not be copied to the automatic "
-                            f"backup:\n\n{reason}\n\nYour work is still open here. Save it, or fix the value "
-                            "named above, so that it is not lost.")
+                            f"backup:\n\n{reason}\n\nYour work is still open here. Save it, or fix what "
+                            "is named above, so that it is not lost.")
 
     def _remember(self, path) -> None:
         if self.persistent:

@@ -2,7 +2,7 @@
 
 Run in a fresh process, because the screen and the scale factor are fixed when Qt starts::
 
-    python tests/gui/fit_probe.py 1366 768 1.5 [--shots DIR] [--units us|si]
+    python tests/gui/fit_probe.py 1366 768 1.5 [--shots DIR] [--units us|si] [--maximized]
 
 The screen is the offscreen platform's, given its size in device pixels by a
 configuration file (``offscreen:configfile=``); ``QT_SCALE_FACTOR`` sets the
@@ -31,6 +31,7 @@ import json
 import os
 import sys
 import tempfile
+import time
 from pathlib import Path
 
 TITLE = 30      # logical px a window manager's title bar takes (allowance)
@@ -267,9 +268,13 @@ def run(args) -> dict:
     demo = pj.loads(pj.demo_path().read_text(encoding="utf-8"))
     w = MainWindow(demo, persistent=False)
     w.doc.set_units(args.units)
+    if args.maximized:                   # as a maximised window: the screen's room less the title bar
+        w.resize(room(w.screen()).size())
     w.show()
     probe.settle()
-    outfall = next(i for i, c in enumerate(w.doc.project.channels) if c.alternatives)
+    names = [c.name for c in w.doc.project.channels]
+    outfall = names.index(args.channel) if args.channel in names else \
+        next(i for i, c in enumerate(w.doc.project.channels) if c.alternatives)
     for tab, name in enumerate(("section", "rating", "energy", "comparison")):
         w.doc.set_current(outfall)
         w.show_channels(tab)
@@ -287,7 +292,6 @@ def run(args) -> dict:
             probe.settle(1)
             if view.idle and view.design is not None:
                 break
-            import time
             time.sleep(0.05)
         probe.settle()
         probe.look("main-runs", w)
@@ -310,17 +314,16 @@ def run(args) -> dict:
     inv = w.inventory_dialog
     probe.look("inventory", inv)
     if args.inventory:
-        inv.path.setText(str(Path(args.inventory).resolve()))
+        inv.path.setText(args.inventory)         # as given: a relative name is read from the current folder
         inv.units.setCurrentIndex(inv.units.findData(args.units))
         inv.start_check()
         for _ in range(1200):
             probe.settle(1)
             if inv.task is None:
                 break
-            import time
             time.sleep(0.05)
         probe.settle()
-        inv.table.selectRow(0)
+        inv.table.selectRow(args.inventory_row)
         probe.look("inventory-checked", inv)
     inv.close()
 
@@ -332,7 +335,7 @@ def run(args) -> dict:
     from app.gui.autosave import Recoverable
     w.ask_recovery(Recoverable("s", Path(os.environ["HOME"]) / "s.json",
                                str(Path(os.environ["HOME"]) / "projects" / "Invented county roads 2025.json"),
-                               0.0, "Invented county roads"))
+                               time.time() - 600, "Invented county roads"))
     w.autosave_failed("the disk is full")
     w.doc.undo_stack.setClean()
     w.close()
@@ -347,6 +350,9 @@ def main(argv=None) -> int:
     parser.add_argument("--units", choices=("us", "si"), default="us")
     parser.add_argument("--shots", default="")
     parser.add_argument("--inventory", default="", help="an inventory CSV to check in the inventory dialog")
+    parser.add_argument("--inventory-row", type=int, default=0, help="the row chosen in the checked inventory")
+    parser.add_argument("--channel", default="", help="the demo channel shown (one with linings to compare if not given)")
+    parser.add_argument("--maximized", action="store_true", help="the main window takes the screen's whole room")
     args = parser.parse_args(argv)
     with tempfile.TemporaryDirectory(prefix="ditchwright-fit-") as home:
         configure(args.width, args.height, args.scale, Path(home))
