@@ -27,12 +27,13 @@ from .fields import keep_units_whole, number_marks, pretty
 from .plots import SectionPicture
 
 
-def wrap(text: str, width: int = 18) -> str:
-    """Break a lining name into short lines for a column heading."""
+def wrap(text: str, width: float = 18, measure=len) -> str:
+    """Break a lining name into lines no longer than ``width`` as ``measure`` counts (characters by default; a
+    font's ``horizontalAdvance`` gives pixels), for a column heading or a tick's text."""
     lines, line = [], ""
     # a break may follow a comma between words, never a decimal comma ("D50 150,0 mm"); a no-break space holds
     for word in (w for w in re.sub(r",(?!\d)", ", ", text).split(" ") if w):
-        if line and len(line) + 1 + len(word) > width:
+        if line and measure(f"{line} {word}") > width:
             lines.append(line)
             line = word
         else:
@@ -44,6 +45,8 @@ COLUMN_WIDTH = 126
 CHOICE_WIDTH = 205
 CHOICE_COLUMNS = 3
 PICTURE_HEIGHT = 92
+SHORT = 420                     # a view lower than this [logical px] leaves out the two lines of instructions
+CHOICE_HEIGHT = 6 * 22 + 8      # the list of ticks: six rows, fewer on a short window (a quarter of the view)
 STATUS_COLOURS = {"pass": "#e7f4ea", "fail": "#fbeaea", "unchecked": "#fff6e0", "none": "#eef0f2"}
 
 
@@ -57,7 +60,7 @@ class ComparisonView(QWidget):
         self.data = None       # the one comparison table of ``rows`` as shown (app.comparison_table)
         self.pictures: list[SectionPicture] = []
 
-        intro = QLabel("Tick linings to compare them for this channel at its design flow. Pick a column to "
+        intro = self.intro = QLabel("Tick linings to compare them for this channel at its design flow. Pick a column to "
                        "apply that lining to the channel, or copy the table for a spreadsheet.")
         intro.setWordWrap(True)
         intro.setObjectName("hint")
@@ -77,7 +80,7 @@ class ComparisonView(QWidget):
         choice_scroll.setWidgetResizable(True)
         choice_scroll.setWidget(self.choices)
         choice_scroll.setHorizontalScrollBarPolicy(Qt.ScrollBarPolicy.ScrollBarAlwaysOff)
-        choice_scroll.setFixedHeight(6 * 22 + 8)
+        choice_scroll.setFixedHeight(CHOICE_HEIGHT)
 
         self.table = QTableWidget(0, len(display.COMPARISON_COLUMNS))
         self.table.setObjectName("comparisonTable")
@@ -212,6 +215,8 @@ class ComparisonView(QWidget):
 
     def resizeEvent(self, event):
         super().resizeEvent(event)
+        self.choice_scroll.setFixedHeight(max(3 * 22 + 8, min(CHOICE_HEIGHT, self.height() // 4)))
+        self.intro.setVisible(self.height() >= SHORT)       # a short view keeps its height for the table
         if self.checks and self._columns() != getattr(self, "_filled_columns", None):
             self._groups = None
             self._fill_choices(self.doc.channel())
@@ -228,7 +233,7 @@ class ComparisonView(QWidget):
             self.checks.clear()
             metrics = QFontMetrics(self.font())
             room = self.choice_scroll.viewport().width() - 8 - 12 * (columns - 1)
-            text_width = max(CHOICE_WIDTH, room // columns) - 28     # what a tick's text may take; the rest elides
+            text_width = max(CHOICE_WIDTH, room // columns) - 28     # what a tick's text may take; it wraps there
             row = 0
             for heading, items in groups:            # a heading per kind, its linings in rows beneath
                 head = QLabel(heading)
@@ -236,7 +241,7 @@ class ComparisonView(QWidget):
                 self.choice_grid.addWidget(head, row, 0, 1, columns)
                 row += 1
                 for i, (key, name) in enumerate(items):
-                    box = QCheckBox(metrics.elidedText(name, Qt.TextElideMode.ElideRight, text_width))
+                    box = QCheckBox(wrap(name, text_width, metrics.horizontalAdvance))
                     box.setObjectName(f"compare_{key}")
                     box.setToolTip(name)
                     box.setMinimumWidth(CHOICE_WIDTH)

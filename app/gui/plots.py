@@ -6,10 +6,18 @@ for ``draw_idle``. Margins are fixed instead of using a layout engine, which
 would double the cost of every redraw. Values arrive in SI and are drawn in the
 project's units. Nothing here computes hydraulics: the numbers come from
 :mod:`app.channel_display`.
+
+The margins follow the writing: after each update (and resize) the title is
+wrapped at its separators to the figure's width and the margins are set from
+the measured tick labels, axis labels and title (a few milliseconds), so that
+nothing is cut at a small window or a large scale factor (150 % draws the
+same figure at 1.5 times the pixels).
 """
 
 from __future__ import annotations
 
+import re
+import textwrap
 from dataclasses import dataclass
 
 import numpy as np
@@ -84,9 +92,11 @@ class Dimension:
 
 
 class Picture:
-    """One Figure on one Qt canvas, with fixed margins."""
+    """One Figure on one Qt canvas, its margins set from its writing (:meth:`fit_writing`)."""
 
     margins = dict(left=0.09, right=0.98, bottom=0.13, top=0.9)
+    #: White kept around the writing at the figure's edge [pt].
+    edge = 5.0
 
     def __init__(self, width=8.0, height=4.5, dpi=100):
         self.figure = Figure(figsize=(width, height), dpi=dpi, facecolor="white")
@@ -104,6 +114,126 @@ class Picture:
                                   fontsize=FONT + 1, color="#8a1c1c", zorder=20,
                                   bbox=dict(boxstyle="round,pad=0.5", fc="white", ec="#d7b0b0"))
         self.stale_note.set_visible(False)
+        self._title: str | None = None          # the title as given (shown wrapped to the width)
+        self.canvas.mpl_connect("resize_event", self._resized)
+
+    def _resized(self, _event) -> None:
+        if self._title is not None:
+            self.fit_writing(self._title)
+
+    @property
+    def ratio(self) -> float:
+        """Device pixels per logical pixel of the canvas (1.5 at 150 % scaling)."""
+        return float(getattr(self.canvas, "device_pixel_ratio", 1.0) or 1.0)
+
+    def px(self, points: float) -> float:
+        """``points`` in the figure's pixels."""
+        return points * self.figure.dpi / 72
+
+    def wrap_title(self, title: str, room: float) -> None:
+        """Set the title, broken into lines no wider than ``room`` [px]: at its separators ("  ·  ", ": ")
+        first, between words where one part alone is too wide."""
+        renderer = self.figure.canvas.get_renderer()
+
+        def width(text):
+            self.title.set_text(text)
+            return self.title.get_window_extent(renderer).width
+
+        if not title or width(title) <= room:
+            return
+        parts = re.split(r"(  ·  |: )", title)                   # text, separator, text, ...
+        lines, line = [], parts[0]
+        for sep, part in zip(parts[1::2], parts[2::2]):
+            joined = line + sep + part
+            if width(joined) <= room:
+                line = joined
+            else:
+                lines.append(line + sep.strip(" ·"))
+                line = part
+        lines.append(line)
+        out = []
+        for line in lines:                                        # a part still too wide: between words
+            words, cur = line.split(" "), ""
+            for word in words:
+                if cur and width(f"{cur} {word}") > room:
+                    out.append(cur)
+                    cur = word
+                else:
+                    cur = f"{cur} {word}".strip()
+            out.append(cur)
+        self.title.set_text("\n".join(out))
+
+    def fit_writing(self, title: str | None = None) -> None:
+        """Margins from the writing: the tick labels and axis labels to the left and below, the last tick label
+        to the right and the title (wrapped to the figure's width) above, each inside the figure."""
+        fig, ax = self.figure, self.ax
+        renderer = fig.canvas.get_renderer()
+        W, H = fig.bbox.width, fig.bbox.height
+        if W < 20 or H < 20:
+            return
+        edge = self.px(self.edge)
+        for _ in range(2):                       # the ticks may change with the margins: measure once more
+            box = ax.get_window_extent(renderer)
+            left = bottom = right = 0.0
+            if ax.axison:
+                yb, xb = ax.yaxis.get_tightbbox(renderer), ax.xaxis.get_tightbbox(renderer)
+                if yb is not None:
+                    left = max(box.x0 - yb.x0, 0.0)
+                if xb is not None:
+                    bottom = max(box.y0 - xb.y0, 0.0)
+                    right = max(xb.x1 - box.x1, 0.0)
+            x0 = (left + edge) / W
+            x1 = 1 - (right + edge) / W
+            if title is not None:
+                self.wrap_title(title, (x1 - x0) * W - edge)
+            top = 0.0
+            if self.title.get_text():
+                t = self.title.get_window_extent(renderer)
+                top = t.height + self.px(6)         # the title's own pad above the axes (matplotlib's 6 pt)
+            y0, y1 = (bottom + edge) / H, 1 - (top + edge) / H
+            if x1 - x0 < 0.2 or y1 - y0 < 0.2:
+                return
+            now = fig.subplotpars
+            if max(abs(now.left - x0) * W, abs(now.right - x1) * W, abs(now.bottom - y0) * H,
+                   abs(now.top - y1) * H) < 1:
+                return                               # as they are, to the pixel: the ticks are the same
+            fig.subplots_adjust(left=x0, right=x1, bottom=y0, top=y1)
+
+    def keep_inside(self, *texts) -> None:
+        """A label written to the right of its point that would reach past the figure's edge is written to the
+        left of it instead, or broken after its commas where it fits neither way."""
+        renderer = self.figure.canvas.get_renderer()
+        edge = self.px(self.edge)
+        lo, hi = self.figure.bbox.x0 + edge, self.figure.bbox.x1 - edge
+        for t in texts:
+            words = " ".join(t.get_text().split())
+            if not t.get_visible() or not words:
+                continue
+            for text in (words, words.replace(", ", ",\n")):
+                sides = (("left", "  " + text.replace("\n", "\n  ")), ("right", text.replace("\n", "  \n") + "  "))
+                for ha, shown in sides:
+                    t.set_ha(ha)
+                    t.set_text(shown)
+                    e = t.get_window_extent(renderer)
+                    if e.x0 >= lo and e.x1 <= hi:
+                        break
+                else:
+                    continue
+                break
+
+    def fit_legend(self, handles) -> None:
+        """The legend of ``handles`` in the lower right, its entries wrapped when it is wider than the axes."""
+        labels = [h.get_label() for h in handles]
+        self.legend = self.ax.legend(handles=handles, labels=labels, loc="lower right", fontsize=FONT, frameon=False)
+        renderer = self.figure.canvas.get_renderer()
+        room = self.ax.get_window_extent(renderer).width - self.px(self.edge)
+        wide = self.legend.get_window_extent(renderer).width
+        if wide > room:
+            longest = max(len(text) for text in labels)
+            chars = max(12, int(longest * room / wide) - 6)
+            labels = [textwrap.fill(text, chars) for text in labels]
+            self.legend = self.ax.legend(handles=handles, labels=labels, loc="lower right", fontsize=FONT,
+                                         frameon=False)
 
     def fade(self, faded: bool, note: str = "") -> None:
         alpha = 0.3 if faded else 1.0
@@ -211,7 +341,6 @@ class SectionPicture(Picture):
                      "bottom": Dimension(ax), "top": Dimension(ax)}
         self._labels = [*self.key_lines, *self.key_texts, self.lining_label, *self.slope_labels]
         self._last = None
-        self.canvas.mpl_connect("resize_event", self._resized)
 
     def content_artists(self):
         out = [self.water, self.soil, self.air, self.lining, self.ground, self.surface, self.marker,
@@ -224,10 +353,13 @@ class SectionPicture(Picture):
         if self._last is not None:
             self.update(*self._last)
 
-    def _fit(self, x0, x1, z0, z1):
-        """Set equal-scale limits showing [x0, x1] x [z0, z1] inside the label pads; returns metres per pixel."""
+    def _fit(self, x0, x1, z0, z1, right: float = 0.0):
+        """Set equal-scale limits showing [x0, x1] x [z0, z1] inside the label pads (``pads`` in logical pixels,
+        the right one at least ``right`` device pixels); returns shown units per logical pixel."""
         box = self.ax.get_window_extent()
-        left, right, bottom, top = self.pads
+        k = self.ratio
+        left, pad_right, bottom, top = (p * k for p in self.pads)
+        right = max(pad_right, right)
         w = max(box.width - left - right, 40)
         h = max(box.height - bottom - top, 40)
         scale = max((x1 - x0) / w, (z1 - z0) / h, 1e-9)
@@ -236,7 +368,7 @@ class SectionPicture(Picture):
         zl = cz - scale * (h / 2 + bottom)
         self.ax.set_xlim(xl, xl + scale * box.width)
         self.ax.set_ylim(zl, zl + scale * box.height)
-        return scale
+        return scale * k
 
     def update(self, ev: Evaluation, units: UnitSystem, title: str = "", lining_thickness=None) -> None:
         """Redraw for a good evaluation (``ev.ok``); the caller keeps the last one when it is not."""
@@ -251,7 +383,19 @@ class SectionPicture(Picture):
         def xy(pair):
             return np.column_stack([np.asarray(pair[0]), np.asarray(pair[1])])
 
-        s = self._fit(g.left, g.right, g.base, g.top)  # shown units per pixel
+        self.fit_writing(title)
+        (wl, wr), yn, yc, top = geo.surface or (0.0, 0.0), geo.normal_depth, geo.critical_depth, g.top
+        gap = top - yn
+        freeboard_name = {"circle": "to crown", "irregular": "to lower bank"}.get(g.kind, "freeboard")
+        right = 0.0
+        if not self.compact:       # the depth chain's labels right of the drawing: room for the wider one
+            renderer = self.figure.canvas.get_renderer()
+            d = self.dims
+            d["depth"].label.set_text(f"  depth {fmt(yn)}")
+            d["freeboard"].label.set_text(f"  {freeboard_name} {fmt(gap)}")
+            widest = max(d[k].label.get_window_extent(renderer).width for k in ("depth", "freeboard"))
+            right = widest + (14 + 6) * self.ratio + self.px(self.edge)
+        s = self._fit(g.left, g.right, g.base, g.top, right)  # shown units per logical pixel
         self.soil.set_xy(xy(g.soil))
         self.soil.set_facecolor(PIPE if g.kind == "circle" else SOIL)
         self.air.set_visible(g.air is not None)
@@ -264,11 +408,9 @@ class SectionPicture(Picture):
         self.lining.set_visible(g.lining is not None)
         if g.lining is not None:
             self.lining.set_xy(xy(g.lining))
-        (wl, wr), yn, yc, top = geo.surface or (0.0, 0.0), geo.normal_depth, geo.critical_depth, g.top
         critical = geo.critical or (0.0, 0.0)
         self.surface.set_data([wl, wr], [yn, yn])
         self.marker.set_data([(wl + 0.18 * (wr - wl))], [yn + 7 * s])
-        self.title.set_text(title)
         if self.compact:
             self.critical.set_data([critical[0], critical[1]], [yc, yc])
             for a in (self.top_line, self.scale_bar, self.scale_text, *self._labels):
@@ -286,7 +428,7 @@ class SectionPicture(Picture):
         if g.lining is not None:
             keys.append(f"lining, {units.from_si('small_length', lining_thickness):.0f} "
                         f"{units.label('small_length')} thick")
-        step = 19 / max(self.ax.get_window_extent().height, 100)   # one key line is 19 px
+        step = 19 * self.ratio / max(self.ax.get_window_extent().height, 100)   # one key line is 19 logical px
         for i, (line, label) in enumerate(zip(self.key_lines, self.key_texts)):
             y = 0.99 - i * step
             line.set_ydata([y, y])
@@ -300,10 +442,8 @@ class SectionPicture(Picture):
         d = self.dims
         d["depth"].show((x_dim, 0), (x_dim, yn), f"depth {fmt(yn)}",
                         ticks=([wr, x_dim + 4 * s], [yn, yn]))
-        gap = top - yn
         if gap > 1.5 * s:
-            label = {"circle": "to crown", "irregular": "to lower bank"}.get(g.kind, "freeboard")
-            d["freeboard"].show((x_dim, yn), (x_dim, top), f"{label} {fmt(gap)}",
+            d["freeboard"].show((x_dim, yn), (x_dim, top), f"{freeboard_name} {fmt(gap)}",
                                 ticks=([g.right, x_dim + 4 * s], [top, top]))
             if gap < 16 * s:  # a short freeboard: lift its label clear of the depth label
                 d["freeboard"].label.set_y(top + 7 * s)
@@ -403,14 +543,19 @@ class RatingPicture(Picture):
         if switch is not None:
             ys = float(u("length", switch))
             self.switch.set_ydata([ys, ys])
-        handles = [a for a in (self.normal, self.crit, self.switch) if a.get_visible()]
-        self.legend = self.ax.legend(handles=handles, loc="lower right", fontsize=FONT, frameon=False)
+        self._handles = [a for a in (self.normal, self.crit, self.switch) if a.get_visible()]
         self.ax.set_xlim(0, float(np.nanmax(q)) * 1.02)
         self.ax.set_ylim(0, float(np.nanmax(y)) * 1.05)
         self.ax.set_xlabel(f"flow [{pretty(units.label('flow'))}]", fontsize=FONT, color=INK)
         self.ax.set_ylabel(f"depth [{units.label('length')}]", fontsize=FONT, color=INK)
-        self.title.set_text(title)
+        self._title = title
+        self.fit_writing(title)
         self.fade(False)
+
+    def fit_writing(self, title: str | None = None) -> None:
+        super().fit_writing(title)
+        self.fit_legend(getattr(self, "_handles", [self.normal, self.crit]))
+        self.keep_inside(self.point_label)
 
 
 class EnergyPicture(Picture):
@@ -453,5 +598,10 @@ class EnergyPicture(Picture):
         self.ax.set_ylim(0, ymax * 1.04)
         self.ax.set_xlabel(f"specific energy E [{L}]", fontsize=FONT, color=INK)
         self.ax.set_ylabel(f"depth y [{L}]", fontsize=FONT, color=INK)
-        self.title.set_text(title)
+        self._title = title
+        self.fit_writing(title)
         self.fade(False)
+
+    def fit_writing(self, title: str | None = None) -> None:
+        super().fit_writing(title)
+        self.keep_inside(self.crit_label, self.normal_label)

@@ -29,6 +29,10 @@ LIFT_PT = 11.0       # a label that would cover another moves by this much at a 
 CHAR_PX = 6.3        # about the width of one character at the label size [px], to keep labels apart
 
 
+#: The height of one row of the profile's key [logical px], part of the bottom pad.
+KEY_ROW = 22
+
+
 class ProfilePicture(Picture):
     """Ditch top, invert, the computed water surface, normal depth (dashed) and critical depth (dotted) along the
     run; hydraulic jumps marked with their station; lining stretches as labelled bands at the foot, trouble spots
@@ -135,22 +139,35 @@ class ProfilePicture(Picture):
             self._made.append(text)
             keep_clear(text, placed, renderer, LIFT_PT)
         handles = [self.lines[k] for k in ("ditch_top", "water_surface", "normal", "critical", "invert")]
-        for handle, gap in ((2.4, 2.0), (1.6, 0.8)):     # one row, closer together on a narrow canvas
-            if self.legend is not None:
-                self.legend.remove()
-            self.legend = self.figure.legend(handles=handles, loc="lower center", ncol=5, fontsize=FONT - 0.5,
-                                             frameon=False, bbox_to_anchor=(0.5, 0.0), handlelength=handle,
-                                             columnspacing=gap, handletextpad=0.5, borderaxespad=0.2)
-            if self.legend.get_window_extent(renderer).width <= self.figure.bbox.width - 8:
-                break
+        if self.legend is not None:
+            self.legend.remove()
+        self._key(handles)
         self.show_station(self.selected)
         self.fade(False)
 
-    def _fit_margins(self) -> None:
-        """Fixed margins in pixels, whatever the size of the canvas."""
+    def _key(self, handles) -> None:
+        """The key under the stations: one row of five where the figure is wide enough (closer together if need
+        be), else as many rows as it takes (the margin below grows by the rows added)."""
+        renderer = self.figure.canvas.get_renderer()
+        room = self.figure.bbox.width - self.px(2 * self.edge)
+        # one row, then one row drawn closer together, then more rows
+        for columns, handle, gap in ((5, 2.4, 2.0), (5, 1.6, 0.8), (3, 1.6, 0.8), (2, 1.6, 0.8), (1, 1.6, 0.8)):
+            self.legend = self.figure.legend(handles=handles, loc="lower center", ncol=columns, fontsize=FONT - 0.5,
+                                             frameon=False, bbox_to_anchor=(0.5, 0.0), handlelength=handle,
+                                             columnspacing=gap, handletextpad=0.5, borderaxespad=0.2)
+            if columns == 1 or self.legend.get_window_extent(renderer).width <= room:
+                break
+            self.legend.remove()
+        self._fit_margins(key_height=self.legend.get_window_extent(renderer).height)
+
+    def _fit_margins(self, key_height: float | None = None) -> None:
+        """Margins of ``pads`` logical pixels whatever the size of the canvas and its pixel ratio; the bottom one
+        holds a key of ``key_height`` device pixels (``KEY_ROW`` logical pixels, one row, when not given)."""
         w, h = self.figure.get_size_inches() * self.figure.dpi
-        left, right, bottom, top = self.pads
-        if w > 4 * (left + right) and h > 3 * (bottom + top):
+        left, right, bottom, top = (p * self.ratio for p in self.pads)
+        if key_height is not None:
+            bottom += key_height - KEY_ROW * self.ratio
+        if w > 3 * (left + right) and h > 1.6 * (bottom + top):      # else the plot would be left too little
             self.figure.subplots_adjust(left=left / w, right=1 - right / w, bottom=bottom / h, top=1 - top / h)
 
     def _stretches(self, model, foot, px_per_unit) -> None:

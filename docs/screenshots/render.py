@@ -1,69 +1,97 @@
-"""Render the README screenshots from the demo project (offscreen).
+"""Render the README's screenshots of the window and its dialogs from the demo project (offscreen).
 
-    QT_QPA_PLATFORM=offscreen python docs/screenshots/render.py
+    python docs/screenshots/render.py
 
-Writes section.png (a lining that holds), failing-lining.png (one that does not)
-and comparison.png (four linings side by side) next to this file, at 1440x900,
-and inventory.png: File > Check an inventory... on invented-inventory.csv (an
-invented road inventory of 60 reaches, some of them faulty on purpose), at
-1440x860.
+Each screen runs the fit probe (tests/gui/fit_probe.py) in a fresh process,
+as the fit tests do: the window on an emulated screen of the given size and
+scale (maximised), the demo project in the given units, every view and
+dialog shown in turn and saved as a PNG, and the inventory dialog checking
+invented-inventory.csv (an invented road inventory of 60 reaches, some of
+them faulty on purpose) with line 11 (a misspelt shape) chosen. The probe
+also lists whatever does not fit; this script stops if anything does. A
+chosen few of the pictures are copied here under the names the README uses
+(``SHOTS``); the message boxes are put side by side in one picture.
 """
 
+from __future__ import annotations
+
+import json
 import os
+import subprocess
 import sys
-import time
+import tempfile
 from pathlib import Path
 
-os.environ.setdefault("QT_QPA_PLATFORM", "offscreen")
-sys.path.insert(0, str(Path(__file__).resolve().parents[2]))
-
-from PySide6.QtWidgets import QApplication  # noqa: E402
-
-from app.gui import settings  # noqa: E402
-from app.gui.application import build_window_for  # noqa: E402
+from PIL import Image
 
 HERE = Path(__file__).resolve().parent
-SHOTS = (("section.png", "Outfall swale", 0), ("failing-lining.png", "North cut ditch", 0),
-         ("comparison.png", "Outfall swale", 3))
+ROOT = HERE.parents[1]
+PROBE = ROOT / "tests" / "gui" / "fit_probe.py"
+
+#: (width, height, scale, units, channel shown or "") -> {picture of the probe: name here}
+SHOTS = {
+    (1920, 1080, 1.0, "us", ""): {"main-section": "window-1920-us-section.png",
+                                  "main-energy": "window-1920-us-energy.png",
+                                  "main-runs": "window-1920-us-runs.png",
+                                  "inventory-checked": "inventory-1920-us.png"},
+    (1920, 1080, 1.0, "si", ""): {"main-rating": "window-1920-si-rating.png",
+                                  "main-comparison": "window-1920-si-comparison.png",
+                                  "sheet-details": "sheet-details-1920-si.png"},
+    (1366, 768, 1.0, "us", ""): {"main-comparison": "window-1366-us-comparison.png",
+                                 "sheet-export-complaint": "sheet-export-1366-us.png"},
+    (1366, 768, 1.0, "si", "North cut ditch"): {"main-section": "window-1366-si-failing-lining.png",
+                                                "main-runs": "window-1366-si-runs.png"},
+    (1366, 768, 1.5, "us", ""): {"main-section": "window-1366-150-us-section.png",
+                                 "project-notes": "project-notes-1366-150-us.png"},
+    (1366, 768, 1.5, "si", ""): {"main-comparison": "window-1366-150-si-comparison.png",
+                                 "inventory-checked": "inventory-1366-150-si.png"},
+}
+MESSAGES = (1920, 1080, 1.0, "us", "")          # the screen whose message boxes are put side by side
+MESSAGES_NAME = "messages-1920-us.png"
+
+
+def probe(width, height, scale, units, channel, shots: Path) -> dict:
+    env = {k: v for k, v in os.environ.items() if not k.startswith("QT_")}
+    env["PYTHONPATH"] = os.pathsep.join([str(ROOT)] + ([env["PYTHONPATH"]] if env.get("PYTHONPATH") else []))
+    args = [sys.executable, str(PROBE), str(width), str(height), str(scale), "--units", units, "--maximized",
+            "--shots", str(shots), "--inventory", "docs/screenshots/invented-inventory.csv", "--inventory-row", "9"]
+    if channel:
+        args += ["--channel", channel]
+    out = subprocess.run(args, capture_output=True, text=True, env=env, cwd=ROOT, timeout=300, check=False)
+    if out.returncode != 0:
+        raise SystemExit(out.stderr[-3000:])
+    return json.loads(out.stdout)
+
+
+def side_by_side(pictures: list[Path], out: Path, gap: int = 16) -> None:
+    """``pictures`` in a row on a white ground, tops aligned."""
+    images = [Image.open(p).convert("RGB") for p in pictures]
+    width = sum(i.width for i in images) + gap * (len(images) + 1)
+    height = max(i.height for i in images) + 2 * gap
+    sheet = Image.new("RGB", (width, height), "white")
+    x = gap
+    for image in images:
+        sheet.paste(image, (x, gap))
+        x += image.width + gap
+    sheet.save(out, optimize=True)
 
 
 def main() -> int:
-    app = QApplication.instance() or QApplication([])
-    settings.set_application_names(app)
-    window = build_window_for(None)
-    window.show()
-    names = [c.name for c in window.doc.project.channels]
-    for file, channel, tab in SHOTS:
-        window.doc.set_current(names.index(channel))
-        window.tabs.setCurrentIndex(tab)
-        for _ in range(3):
-            app.processEvents()
-        for picture in (window.section_picture, window.rating_picture, window.energy_picture):
-            picture.canvas.draw()
-        app.processEvents()
-        window.grab().save(str(HERE / file))
-        print(HERE / file)
-    inventory(app, window)
+    with tempfile.TemporaryDirectory(prefix="ditchwright-shots-") as tmp:
+        for screen, chosen in SHOTS.items():
+            shots = Path(tmp) / "-".join(str(v) for v in screen if v != "")
+            report = probe(*screen, shots)
+            wrong = {name: seen["problems"] for name, seen in report.items() if seen["problems"]}
+            if wrong:
+                raise SystemExit(f"does not fit at {screen}: {wrong}")
+            for probe_name, name in chosen.items():
+                Image.open(shots / f"{probe_name}.png").save(HERE / name, optimize=True)
+                print(HERE / name)
+            if screen == MESSAGES:
+                boxes = sorted(shots.glob("message-*.png"))
+                side_by_side(boxes, HERE / MESSAGES_NAME)
+                print(HERE / MESSAGES_NAME)
     return 0
-
-
-def inventory(app, window) -> None:
-    """The inventory check on the invented inventory, one faulty row chosen."""
-    os.chdir(HERE.parents[1])           # the file name shows relative to the repository
-    window.open_inventory()
-    dialog = window.inventory_dialog
-    dialog.path.setText("docs/screenshots/invented-inventory.csv")
-    dialog.units.setCurrentIndex(dialog.units.findData("us"))
-    dialog.start_check()
-    while dialog.task is not None:
-        app.processEvents()
-        time.sleep(0.01)
-    dialog.resize(1440, 860)
-    dialog.table.selectRow(9)           # line 11: a misspelt shape
-    for _ in range(4):
-        app.processEvents()
-    dialog.grab().save(str(HERE / "inventory.png"))
-    print(HERE / "inventory.png")
 
 
 if __name__ == "__main__":

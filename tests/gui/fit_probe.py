@@ -2,7 +2,7 @@
 
 Run in a fresh process, because the screen and the scale factor are fixed when Qt starts::
 
-    python tests/gui/fit_probe.py 1366 768 1.5 [--shots DIR] [--units us|si]
+    python tests/gui/fit_probe.py 1366 768 1.5 [--shots DIR] [--units us|si] [--maximized]
 
 The screen is the offscreen platform's, given its size in device pixels by a
 configuration file (``offscreen:configfile=``); ``QT_SCALE_FACTOR`` sets the
@@ -18,7 +18,9 @@ visible button lies inside its window and is not cut by a parent (a button
 inside a scroll area counts as reachable when the scroll area's viewport is
 inside the window); every visible label is at least as wide as its text needs
 (``minimumSizeHint``), a word-wrapped one as tall as its text needs at its
-width (``heightForWidth``), and no label or button text is elided with "…".
+width (``heightForWidth``), and no label or button text is elided with "…";
+the writing of each picture in view (title, texts, legend, tick and axis
+labels) lies inside its figure. Main views also report their columns' widths.
 Settings, recent files and autosaves go to a temporary folder.
 """
 
@@ -29,6 +31,7 @@ import json
 import os
 import sys
 import tempfile
+import time
 from pathlib import Path
 
 TITLE = 30      # logical px a window manager's title bar takes (allowance)
@@ -143,6 +146,33 @@ def problems(top, screen) -> list[str]:
     return out
 
 
+def figure_cut(picture) -> list[str]:
+    """What of a matplotlib picture's writing (titles, texts, legend, and the tick labels and label of each axis
+    drawn) reaches past its figure, in words."""
+    fig = picture.figure
+    renderer = fig.canvas.get_renderer()
+    box = fig.bbox
+    pieces = [(t.get_text(), t) for t in fig.texts]
+    for ax in fig.axes:
+        pieces += [(t.get_text(), t) for t in (*ax.texts, ax.title, ax._left_title, ax._right_title)]
+        legend = ax.get_legend()
+        if legend is not None and legend.get_visible():
+            pieces.append(("legend", legend))
+        if ax.axison:
+            pieces += [("x axis", ax.xaxis), ("y axis", ax.yaxis)]
+    out = []
+    for name, artist in pieces:
+        if not artist.get_visible() or not name.strip():
+            continue
+        e = artist.get_tightbbox(renderer) if name in ("x axis", "y axis") else artist.get_window_extent(renderer)
+        if e is None or e.width == 0:
+            continue
+        if e.x0 < box.x0 - 1 or e.x1 > box.x1 + 1 or e.y0 < box.y0 - 1 or e.y1 > box.y1 + 1:
+            out.append(f"figure text cut: {name[:60]!r} at {e.x0:.0f}..{e.x1:.0f} x {e.y0:.0f}..{e.y1:.0f}, "
+                       f"figure {box.width:.0f}x{box.height:.0f}")
+    return out
+
+
 def page_scrolls(top) -> str:
     """Which way the window's form (the main window's page, a dialog's form) scrolls: "", "down", "across" or
     "both" (``app.gui.screen_fit.scrolling`` areas, named formScroll)."""
@@ -165,13 +195,17 @@ class Probe:
         for _ in range(rounds):
             self.app.processEvents()
 
-    def look(self, name: str, top) -> None:
-        """Show ``top`` (if it is not shown), check it and save its picture."""
+    def look(self, name: str, top, pictures=()) -> None:
+        """Show ``top`` (if it is not shown), check it and the matplotlib ``pictures`` in it (drawn), and save
+        its picture."""
         if not top.isVisible():
             top.show()
         self.settle()
         screen = top.screen()
-        self.report[name] = {"size": [top.width(), top.height()], "problems": problems(top, screen),
+        found = problems(top, screen)
+        for picture in pictures:
+            found += figure_cut(picture)
+        self.report[name] = {"size": [top.width(), top.height()], "problems": found,
                              "scrolls": page_scrolls(top)}
         if self.shots is not None:
             self.shots.mkdir(parents=True, exist_ok=True)
@@ -234,16 +268,23 @@ def run(args) -> dict:
     demo = pj.loads(pj.demo_path().read_text(encoding="utf-8"))
     w = MainWindow(demo, persistent=False)
     w.doc.set_units(args.units)
+    if args.maximized:                   # as a maximised window: the screen's room less the title bar
+        w.resize(room(w.screen()).size())
     w.show()
     probe.settle()
-    outfall = next(i for i, c in enumerate(w.doc.project.channels) if c.alternatives)
+    names = [c.name for c in w.doc.project.channels]
+    outfall = names.index(args.channel) if args.channel in names else \
+        next(i for i, c in enumerate(w.doc.project.channels) if c.alternatives)
     for tab, name in enumerate(("section", "rating", "energy", "comparison")):
         w.doc.set_current(outfall)
         w.show_channels(tab)
         probe.settle()
+        shown = [p for p in (w.section_picture, w.rating_picture, w.energy_picture) if p.canvas.isVisible()]
         for pic in (w.section_picture, w.rating_picture, w.energy_picture):
             pic.canvas.draw()
-        probe.look(f"main-{name}", w)
+        probe.look(f"main-{name}", w, shown)
+        probe.report[f"main-{name}"]["columns"] = [wd.width() for wd in (w.splitter.widget(i) for i in
+                                                   range(w.splitter.count())) if wd.isVisible()]
     if w.doc.project.runs:
         w.show_runs()
         view = w.run_view
@@ -251,7 +292,6 @@ def run(args) -> dict:
             probe.settle(1)
             if view.idle and view.design is not None:
                 break
-            import time
             time.sleep(0.05)
         probe.settle()
         probe.look("main-runs", w)
@@ -274,17 +314,16 @@ def run(args) -> dict:
     inv = w.inventory_dialog
     probe.look("inventory", inv)
     if args.inventory:
-        inv.path.setText(str(Path(args.inventory).resolve()))
+        inv.path.setText(args.inventory)         # as given: a relative name is read from the current folder
         inv.units.setCurrentIndex(inv.units.findData(args.units))
         inv.start_check()
         for _ in range(1200):
             probe.settle(1)
             if inv.task is None:
                 break
-            import time
             time.sleep(0.05)
         probe.settle()
-        inv.table.selectRow(0)
+        inv.table.selectRow(args.inventory_row)
         probe.look("inventory-checked", inv)
     inv.close()
 
@@ -296,7 +335,7 @@ def run(args) -> dict:
     from app.gui.autosave import Recoverable
     w.ask_recovery(Recoverable("s", Path(os.environ["HOME"]) / "s.json",
                                str(Path(os.environ["HOME"]) / "projects" / "Invented county roads 2025.json"),
-                               0.0, "Invented county roads"))
+                               time.time() - 600, "Invented county roads"))
     w.autosave_failed("the disk is full")
     w.doc.undo_stack.setClean()
     w.close()
@@ -311,6 +350,9 @@ def main(argv=None) -> int:
     parser.add_argument("--units", choices=("us", "si"), default="us")
     parser.add_argument("--shots", default="")
     parser.add_argument("--inventory", default="", help="an inventory CSV to check in the inventory dialog")
+    parser.add_argument("--inventory-row", type=int, default=0, help="the row chosen in the checked inventory")
+    parser.add_argument("--channel", default="", help="the demo channel shown (one with linings to compare if not given)")
+    parser.add_argument("--maximized", action="store_true", help="the main window takes the screen's whole room")
     args = parser.parse_args(argv)
     with tempfile.TemporaryDirectory(prefix="ditchwright-fit-") as home:
         configure(args.width, args.height, args.scale, Path(home))
