@@ -430,6 +430,9 @@ class OutfallInput(QWidget):
         self.units: UnitSystem | None = None
         self.control = QComboBox()
         self.control.setObjectName("outfallControl")
+        # as narrow as the column needs: the longest choice would otherwise widen the whole panel past its view
+        self.control.setSizeAdjustPolicy(QComboBox.SizeAdjustPolicy.AdjustToMinimumContentsLengthWithIcon)
+        self.control.setMinimumContentsLength(10)
         for key in OUTFALL_CONTROLS:
             self.control.addItem(CONTROL_WORDS[key], key)
         self.control.setToolTip("What sets the water surface at the outfall; the subcritical stretches are "
