@@ -14,6 +14,7 @@ from __future__ import annotations
 
 import os
 import pickle
+import shutil
 import sys
 import traceback
 
@@ -27,6 +28,10 @@ def writers(kind: str, payload):
         from app.sheet import export_sheets
         project, names = payload
         return lambda path, v: export_sheets(project, path, channels=[names[v]])
+    if kind == "drawing":     # the channel's section drawing, NAME-section.dxf in the folder of ``path``
+        from app.drawings import export_drawings
+        return lambda path, v: export_drawings(payload[v], os.path.dirname(path),
+                                               channels=[payload[v].channels[0].name])
     if kind == "inventory":
         from app.inventory import write_results
         return lambda path, v: write_results(path, *payload[v])
@@ -53,9 +58,10 @@ def main(kind: str, payload_path: str, target: str) -> int:
     with open(payload_path, "rb") as fh:
         write = writers(kind, pickle.load(fh))
     if kind != "inventory":   # one write first, so that each child starts warm (fonts, caches) as the test's own
-        scratch = os.path.join(os.path.dirname(target), "_warm-up")   # write did; the results writer's would
-        write(scratch, 0)                                             # import pyarrow, whose import starts threads
-        os.unlink(scratch)
+        folder = os.path.join(os.path.dirname(target), "_warm-up")    # write did; the results writer's would
+        os.mkdir(folder)                                              # import pyarrow, whose import starts threads
+        write(os.path.join(folder, os.path.basename(target)), 0)
+        shutil.rmtree(folder)
     if threads() != 1:
         print(f"not ready: {threads()} threads", flush=True)
         return 1

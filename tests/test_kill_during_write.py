@@ -1,6 +1,6 @@
 """A writer killed at a random moment leaves the old file intact or the new one complete, never half of one.
 
-Each writer (project save, sheet export, inventory results, a run's station table) runs in a child process that
+Each writer (project save, sheet export, DXF drawing export, inventory results, a run's station table) runs in a child process that
 writes the target again and again, alternating two versions; the child is killed with SIGKILL at 50 random
 moments spread over the first write and a little of the next. After every kill the target must equal one complete
 version. Temporary files a killed write leaves behind carry a temporary name and are cleared by the next write
@@ -16,6 +16,7 @@ import io
 import os
 import pickle
 import random
+import re
 import signal
 import subprocess
 import sys
@@ -147,6 +148,35 @@ def test_sheet_export(tmp_path):
         return 0 if names[0] in text else 1 if names[1] in text else None
     seen = _hammer("sheet", (project, names), tmp_path / "sheet.pdf", complete, seed=2, inside=False, both=True)
     assert seen == {0, 1}     # kills landed both before and after a new sheet replaced the old one
+
+
+# What changes from one DXF export of the same drawing to the next: the header's dates (Julian days), the document's
+# GUIDs and ezdxf's time stamp in its metadata.
+_DXF_VOLATILE = re.compile(rb"^(\d{7}\.\d+|\{[0-9A-F-]{36}\}|.* @ \d{4}-\d\d-\d\dT[^\n]*)$", re.M)
+
+
+def test_drawing_export(tmp_path):
+    from app.drawings import make_drawings
+    projects = {}
+    for v, width in enumerate((0.6, 0.9)):
+        projects[v] = pj.load(pj.demo_path())
+        projects[v].channels = projects[v].channels[:1]
+        projects[v].channels[0].section["bottom_width"] = width
+        projects[v].runs = []
+    write = kill_writer.writers("drawing", projects)
+    (name,) = [d.file_name for d in make_drawings(projects[0])]
+    versions = {}
+    for v in (0, 1):
+        probe = tmp_path / f"_probe{v}"
+        probe.mkdir()
+        write(probe / name, v)
+        versions[_DXF_VOLATILE.sub(b"", (probe / name).read_bytes())] = v
+        (probe / name).unlink()
+        probe.rmdir()
+    assert len(versions) == 2
+    seen = _hammer("drawing", projects, tmp_path / name, lambda b: versions.get(_DXF_VOLATILE.sub(b"", b)), seed=5,
+                   inside=False, both=True)
+    assert seen == {0, 1}
 
 
 def test_inventory_results(tmp_path):
