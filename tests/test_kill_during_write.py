@@ -105,7 +105,8 @@ def _hammer(kind, payload, path, complete, seed, inside=True, both=False):
             kills += 1
             # each child first writes the version the file does not hold, so a completed write shows
             pid = writers.start(1 - current)   # timed from the child's start, however slow forking is
-            time.sleep(rng.uniform(0.0, 1.3 * duration + 0.002))
+            # the window widens with every KILLS kills: on a busy machine a write can take longer than the first did
+            time.sleep(rng.uniform(0.0, (1 + kills // KILLS) * 1.3 * duration + 0.002))
             os.kill(pid, signal.SIGKILL)
             assert writers.ended() == f"signal {signal.SIGKILL}", "the writing child ended before it was killed"
             version = complete(path.read_bytes())
