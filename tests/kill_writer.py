@@ -3,11 +3,12 @@
 Forking the test process itself was unreliable: a child inherits every lock that one of the parent's threads held
 at the moment of the fork (pyarrow's and the results writer's worker threads, Qt's from earlier tests of the same
 run), and in a full test run a forked child sometimes hung before it reached the write. So the test starts this
-file as a new program (``python kill_writer.py KIND PAYLOAD``). It loads the writer's inputs from the pickle file
-PAYLOAD, writes once (warm-up), checks that it runs one thread only, says ``ready`` and then, for each line ``V`` read from its standard
-input, forks a child that writes the target again and again, first version V then the other, alternating. It prints
-the child's process id once the child runs, waits for the child's end (the test kills it) and prints how it ended
-(``signal 9`` for SIGKILL). A fork from a process of one thread copies no lock held by another thread.
+file as a new program (``python kill_writer.py KIND PAYLOAD TARGET``). It loads the writer's inputs from the pickle
+file PAYLOAD, writes once (a warm-up, elsewhere), checks that it runs one thread only and says ``ready``. Then, for
+each line ``V`` read from its standard input, it forks a child that writes TARGET again and again, first version V
+then the other, alternating; it prints the child's process id once the child runs, waits for the child's end (the
+test kills it) and prints how it ended (``signal 9`` for SIGKILL). A fork from a process of one thread copies no
+lock held by another thread.
 """
 
 from __future__ import annotations

@@ -575,8 +575,9 @@ def test_a_stone_lining_without_its_d50_is_refused_as_calc_refuses_it(units, typ
     with a blank d50 is invalid, as `ditchwright calc --lining riprap` is refused (test_degenerate_numbers.py), with
     or without an n of its own; the other rows are checked."""
     rows = [{**GOOD, "id": "own n", "lining": "riprap"}, {**GOOD, "id": "no n", "lining": "riprap", "n": ""},
-            {**GOOD, "id": "gravel", "lining": "gravel", "n": ""}, {**GOOD, "id": "sized", "lining": "riprap", "d50": "0.5"}]
-    _, res, out = check(csv_text(rows), units)
+            {**GOOD, "id": "gravel", "lining": "gravel", "n": ""},
+            {**GOOD, "id": "sized", "lining": "riprap", "d50": "0.5"}]
+    _, _, out = check(csv_text(rows), units)
     for o, key in zip(out[:2], ["riprap", "riprap"]):
         assert o["verdict"] == "invalid" and o["normal_depth"] == "" and o["permissible_shear"] == "", o
         assert o["reason"] == f"d50: give the stone size D50 of {key!r} in the d50 column (the catalogue's typical " \

@@ -3,8 +3,8 @@
 Hypothesis feeds the project-file reader, the lining catalogue reader, the inventory reader and the LandXML import
 with damaged copies of real files and with arbitrary text; each must return its object or raise its own refusal
 (ProjectFileError, CatalogueError/InputError, InventoryError, LandXMLError), and a refused file is left as it was on
-disk (the LandXML import also leaves the project it would have written as it was, and no temporary file). The budget is fixed
-(examples per test below) so that CI time stays bounded. Inputs are invented.
+disk (the LandXML import also leaves the project it would have written as it was, and no temporary file). The
+budget is fixed (examples per test below) so that CI time stays bounded. Inputs are invented.
 """
 
 from __future__ import annotations

@@ -1,11 +1,11 @@
 """A writer killed at a random moment leaves the old file intact or the new one complete, never half of one.
 
-Each writer (project save, sheet export, DXF drawing export, inventory results, a run's station table) runs in a child process that
-writes the target again and again, alternating two versions; the child is killed with SIGKILL at 50 random
-moments spread over the first write and a little of the next. After every kill the target must equal one complete
-version. Temporary files a killed write leaves behind carry a temporary name and are cleared by the next write
-(app.files.remove_stale_temporaries). Common practice for crash safety: write a temporary file in the same
-folder, sync it, then replace the target in one step (POSIX rename(2) is atomic).
+Each writer (project save, sheet export, DXF drawing export, inventory results, a run's station table) runs in a
+child process that writes the target again and again, alternating two versions; the child is killed with SIGKILL at
+50 random moments (more when needed, see _hammer) spread over its first write and a little of the next. After every
+kill the target must equal one complete version. Temporary files a killed write leaves behind carry a temporary
+name and are cleared by the next write (app.files.remove_stale_temporaries). Common practice for crash safety:
+write a temporary file in the same folder, sync it, then replace the target in one step (POSIX rename(2) is atomic).
 
 The children are forked by a fresh Python process of one thread (tests/kill_writer.py), never by this one: a
 process forked from one with threads inherits the locks those threads held, and such a child sometimes hung before
@@ -48,6 +48,7 @@ class Writers:
                                          str(target)], stdin=subprocess.PIPE, stdout=subprocess.PIPE, text=True,
                                         env=env)
         self.kind = kind
+        self.running = None
 
     def __enter__(self):
         line = self.process.stdout.readline().strip()
@@ -58,12 +59,17 @@ class Writers:
         """Fork a child that writes ``version`` first; its process id once it runs."""
         self.process.stdin.write(f"{version}\n")
         self.process.stdin.flush()
-        return int(self.process.stdout.readline())
+        self.running = int(self.process.stdout.readline())
+        return self.running
 
     def ended(self) -> str:
+        self.running = None
         return self.process.stdout.readline().strip()
 
     def __exit__(self, *exc):
+        if self.running is not None:      # a check failed while a child was writing: it must not write on
+            os.kill(self.running, signal.SIGKILL)
+            self.ended()
         self.process.stdin.close()
         self.process.wait(30)
         self.payload.unlink()
