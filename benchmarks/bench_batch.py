@@ -6,7 +6,8 @@ The inventory is invented (random but reproducible): open ditches (trapezoid,
 V-ditch, rectangle) and pipes with US customary inputs, a few named linings,
 a few pipes too small for their flow and a few malformed rows. Lined reaches
 (riprap, grass) give an n half the time and otherwise take the lining's own,
-depth-dependent n from the catalogue (a coupled solve).
+depth-dependent n from the catalogue (a coupled solve); riprap rows give their
+D50, 0.5 ft (a stone row without one is refused).
 
 (1) batch: read the CSV, check every reach, write the results CSV, timed as
     the command does it (app.inventory.read_inventory and check_and_write; parsing
@@ -60,6 +61,8 @@ from hydraulics import units as hu
 from hydraulics.linings import load_catalogue
 from hydraulics.stability import check_lining, shear_checks
 
+#: The D50 of the invented riprap rows [ft].
+D50_FT = "0.5"
 HEADER = ["id", "shape", "bottom_width", "left_slope", "right_slope", "diameter", "slope", "flow", "lining", "d50",
           "n", "road", "surveyed"]
 
@@ -90,7 +93,7 @@ def make_inventory(path: Path, size: int, seed: int = 11, lined: bool = True) ->
                    f"{z1[i]:g}" if k in ("trapezoid", "triangle") else "",
                    f"{z2[i]:g}" if k in ("trapezoid", "triangle") else "",
                    f"{d[i]:g}" if k == "circle" else "",
-                   f"{slope[i]:g}", f"{flow[i]:g}", lining[i], "",
+                   f"{slope[i]:g}", f"{flow[i]:g}", lining[i], D50_FT if lining[i] == "riprap" else "",
                    f"{n[i]:g}" if not lining[i] or own_n[i] or k == "circle" else "",
                    f"SR-{i % 97}", "2024-05"]
             if i % 1000 == 999:
@@ -132,7 +135,8 @@ def _scalar_row(row, us, stability=False, shear=False):
     length = lambda v: us.to_si("length", float(v))  # noqa: E731
     try:
         q, s = us.to_si("flow", float(row["flow"])), float(row["slope"])
-        n = float(row["n"]) if row["n"] else _CATALOGUE.get(row["lining"]).roughness()
+        d50 = length(row["d50"]) if row["d50"] else None
+        n = float(row["n"]) if row["n"] else _CATALOGUE.get(row["lining"]).roughness(d50)
         kind = row["shape"]
         if kind == "trapezoid":
             sec = hy.Trapezoid(bottom_width=length(row["bottom_width"]), left_slope=float(row["left_slope"]),
@@ -147,13 +151,13 @@ def _scalar_row(row, us, stability=False, shear=False):
                 return None
         if stability and row["lining"]:
             return check_lining(sec, q, s, _CATALOGUE.get(row["lining"]), n=float(row["n"]) if row["n"] else None,
-                                ).analysis
+                                d50=d50).analysis
         res = hy.analyse(sec, q, s, n)
         if shear and row["lining"]:
             lining = _CATALOGUE.get(row["lining"])
             sides = sec.side_slopes
             shear_checks(lining, float(res.normal_depth), s, float(res.manning_n),
-                         d50=lining.d50 if lining.category == "stone" else None,
+                         d50=d50,
                          left_slope=None if sides is None else float(sides[0]),
                          right_slope=None if sides is None else float(sides[1]))
         return res

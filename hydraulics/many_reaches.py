@@ -503,8 +503,9 @@ def default_catalogue():
 def check_linings(reaches: Reaches, idx, out: BatchResult, display: hu.UnitSystem = hu.SI, catalogue=None) -> None:
     """The lining stage for the reaches ``idx`` (screened valid, each naming a lining).
 
-    Per lining named: an unknown key, or a D50 given for a lining that is
-    not stone, makes the reach ``invalid``. The hydraulics are solved with
+    Per lining named: an unknown key, a D50 given for a lining that is not
+    stone, or a stone lining without its D50 (the catalogue's typical size
+    is not assumed, as in ``ditchwright calc``) makes the reach ``invalid``. The hydraulics are solved with
     the n of the row where one is given (it replaces the lining's own
     roughness), else with the lining's roughness from the catalogue: one
     vectorised solve per lining and stone size (a stone lining's n depends
@@ -529,6 +530,13 @@ def check_linings(reaches: Reaches, idx, out: BatchResult, display: hu.UnitSyste
                 _set(out, [row], "invalid", f"d50: applies to stone linings only; {key!r} is {lining.category}, "
                                             f"got {_fmt(display.from_si('length', d))} {display.label('length')}")
             rows, d50, sized = rows[~sized], d50[~sized], sized[~sized]
+        if lining.category == "stone" and not sized.all():
+            # as `calc --lining riprap` without a size: the catalogue's typical D50 is no design value
+            typical = "" if lining.d50 is None else (
+                f" (the catalogue's typical {display.from_si('length', lining.d50):.3g} {display.label('length')} "
+                "is not assumed)")
+            _set(out, rows[~sized], "invalid", f"d50: give the stone size D50 of {key!r} in the d50 column{typical}")
+            rows, d50 = rows[sized], d50[sized]
         own_n = ~np.isnan(reaches.n[rows])
         given = rows[own_n]
         solved = solve_hydraulics(reaches, given, reaches.n[given], out, display)
@@ -645,7 +653,6 @@ def _shear_checks(lining, reaches, rows, out):
     d50 = None
     if lining.permissible_data["method"] == "shields":
         d50 = np.where(reaches.d50[rows] > 0, reaches.d50[rows], np.nan)
-        d50 = np.where(np.isnan(d50), float(lining.d50) if lining.d50 is not None else np.nan, d50)
         if np.isnan(d50).any():
             raise InputError("d50", f"lining {lining.key!r} needs a D50 (give one in the d50 column)")
     sided = reaches.kind[rows] != _CIRCLE

@@ -551,14 +551,15 @@ def test_reasons_quote_the_display_units():
 def test_lined_rows_get_the_lining_check():
     """The lining columns are filled by the HEC-15 permissible-shear check (test_batch_stability.py compares
     them with hydraulics.stability.check_lining reach by reach)."""
-    rows = [{**GOOD, "lining": "riprap"}, {**GOOD, "lining": "riprap", "n": ""}, {**GOOD, "lining": "concrete"}]
+    rows = [{**GOOD, "lining": "riprap", "d50": "0.5"}, {**GOOD, "lining": "riprap", "d50": "0.5", "n": ""},
+            {**GOOD, "lining": "concrete"}]
     _, res, out = check(csv_text(rows))
     from hydraulics.linings import load_catalogue
 
     riprap = load_catalogue().get("riprap")
     # HEC-15 Eq. 6.7, tau_p = F* (gamma_s - gamma) D50, with F* = 0.047 at Re* <= 4e4 (Table 6.1): here
-    # Re* = sqrt(g d S) D50 / nu is about 2e4 (d = 1.3 ft, S = 0.004, D50 = 0.15 m).
-    tau_p = 0.047 * (riprap.specific_weight - 9810.0) * riprap.d50 / hu.PSF
+    # Re* = sqrt(g d S) D50 / nu is about 2e4 (d = 1.3 ft, S = 0.004, D50 = 0.5 ft).
+    tau_p = 0.047 * (riprap.specific_weight - 9810.0) * 0.5 * hu.FOOT / hu.PSF
     for o in out[:2]:
         assert number(o["permissible_shear"]) == pytest.approx(tau_p, rel=1e-4)
         assert o["verdict"] == "stable" and number(o["safety_factor"]) > 1
@@ -566,6 +567,23 @@ def test_lined_rows_get_the_lining_check():
     assert "hydraulics with the lining's own n" in out[1]["reason"]
     assert out[2]["verdict"] == "non-erodible" and out[2]["permissible_shear"] == ""
     assert res.shear_ratio[0] == pytest.approx(1 / res.safety_factor[0])
+
+
+@pytest.mark.parametrize("units, typical", [("us", "0.492 ft"), ("si", "0.15 m")])
+def test_a_stone_lining_without_its_d50_is_refused_as_calc_refuses_it(units, typical):
+    """The catalogue's typical D50 (riprap 150 mm, HEC-15 Table 2.3, not verified) is no design value: a stone row
+    with a blank d50 is invalid, as `ditchwright calc --lining riprap` is refused (test_degenerate_numbers.py), with
+    or without an n of its own; the other rows are checked."""
+    rows = [{**GOOD, "id": "own n", "lining": "riprap"}, {**GOOD, "id": "no n", "lining": "riprap", "n": ""},
+            {**GOOD, "id": "gravel", "lining": "gravel", "n": ""},
+            {**GOOD, "id": "sized", "lining": "riprap", "d50": "0.5"}]
+    _, _, out = check(csv_text(rows), units)
+    for o, key in zip(out[:2], ["riprap", "riprap"]):
+        assert o["verdict"] == "invalid" and o["normal_depth"] == "" and o["permissible_shear"] == "", o
+        assert o["reason"] == f"d50: give the stone size D50 of {key!r} in the d50 column (the catalogue's typical " \
+                              f"{typical} is not assumed)"
+    assert out[2]["verdict"] == "invalid" and out[2]["reason"].startswith("d50: give the stone size D50 of 'gravel'")
+    assert out[3]["verdict"] in ("stable", "unstable") and number(out[3]["permissible_shear"]) > 0
 
 
 def _scalar_with_lining(row, lining, d50=None):
@@ -583,7 +601,7 @@ def test_lining_roughness_from_the_catalogue_matches_the_scalar_api():
     rows = []
     for i in range(36):
         key = ["riprap", "gravel", "grass_good_sod", "concrete", "soil_fine_noncohesive", "riprap"][i % 6]
-        d50 = {0: "0.3", 5: ""}.get(i % 6, "") if key == "riprap" else ""
+        d50 = {"riprap": "0.3" if i % 6 == 0 else "0.15", "gravel": "0.03"}.get(key, "")
         rows.append({"id": f"L{i}", "shape": "trapezoid", "bottom_width": f"{rng.uniform(0.5, 3):.3f}",
                      "left_slope": "3", "right_slope": "2.5", "slope": f"{rng.uniform(0.001, 0.04):.5f}",
                      "flow": f"{rng.uniform(0.3, 8):.3f}", "lining": key, "d50": d50})
@@ -599,8 +617,9 @@ def test_stone_lined_pipes_below_one_metre_take_the_lining_roughness():
     """A riprap-lined pipe without an n is solved with the stone's n (HEC-15 Section 6.1) like the scalar API."""
     from hydraulics.linings import load_catalogue
 
-    rough = load_catalogue().get("riprap").roughness()
-    rows = [{"id": f"P{i}", "shape": "circle", "diameter": d, "slope": "0.01", "flow": q, "lining": "riprap"}
+    rough = load_catalogue().get("riprap").roughness(0.15)
+    rows = [{"id": f"P{i}", "shape": "circle", "diameter": d, "slope": "0.01", "flow": q, "lining": "riprap",
+             "d50": "0.15"}
             for i, (d, q) in enumerate([("0.45", "0.05"), ("0.6", "0.1"), ("1.5", "0.8")])]
     _, res, out = check(csv_text(rows), "si")
     for i, row in enumerate(rows):
@@ -667,15 +686,15 @@ def test_window_filters_and_import_into_a_project(tmp_path):
 
 
 def test_manning_n_used_is_kept():
-    _, res, _ = check(csv_text([GOOD, {**GOOD, "lining": "riprap", "n": ""}]))
+    _, res, _ = check(csv_text([GOOD, {**GOOD, "lining": "riprap", "d50": "0.5", "n": ""}]))
     assert res.manning_n[0] == 0.03
     from hydraulics.linings import load_catalogue
 
     section = hy.Trapezoid(bottom_width=2 * 0.3048, side_slope=3.0)
     y = res.normal_depth[1]
-    n_at_depth = load_catalogue().get("riprap").roughness().manning_n(section, y, 0.004)
+    n_at_depth = load_catalogue().get("riprap").roughness(0.5 * 0.3048).manning_n(section, y, 0.004)
     assert res.manning_n[1] == pytest.approx(n_at_depth, rel=1e-12)
-    assert res.manning_n[1] > 0.03  # stone of 0.15 m is rougher than the n of the plain row
+    assert res.manning_n[1] > 0.03  # stone of 0.5 ft is rougher than the n of the plain row
 
 
 def test_two_decimals_as_python_rounds_them():

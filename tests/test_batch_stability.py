@@ -35,8 +35,10 @@ def random_lined_rows(size, seed):
                               left_slope=lambda: f"{rng.choice([1.0, 1.5, 2.0, 3.0, 4.0])}",
                               right_slope=lambda: f"{rng.choice([1.5, 2.0, 3.0, 6.0])}",
                               diameter=lambda: f"{rng.uniform(1.0, 3):.3f}"))
-        if key == "riprap" and i % 3 == 0:
-            r["d50"] = f"{rng.uniform(0.05, 0.5):.3f}"
+        if key == "riprap":    # a stone row without its d50 is refused (test_batch.py)
+            r["d50"] = f"{rng.uniform(0.05, 0.5):.3f}" if i % 3 == 0 else "0.15"
+        elif key == "gravel":
+            r["d50"] = "0.025"
         if i % 5 == 0:
             r["n"] = f"{rng.uniform(0.02, 0.05):.3f}"
         rows.append(r)

@@ -67,6 +67,23 @@ def test_text_summary_and_csv(capsys, tmp_path):
     assert rows[1][1] == "0+000.00" and rows[-1][1] == "0+700.00"
 
 
+@pytest.mark.parametrize("trigger", sorted("=+-@\t\r"))
+def test_the_station_table_keeps_a_formula_like_run_name_as_text(capsys, tmp_path, trigger):
+    """Issue 18, item 3: a text cell a spreadsheet would run gets a leading apostrophe (app.files.spreadsheet_safe,
+    common practice against CSV formula injection); the numbers, negative ones included, stay numbers."""
+    project = pj.load(pj.demo_path())
+    name = f"{trigger}HYPERLINK(\"http://example.invalid\")"
+    project.runs[0].name = name
+    path, out_csv = tmp_path / "p.json", tmp_path / "stations.csv"
+    pj.save(project, path)
+    assert main(["run", str(path), "--csv", str(out_csv), f"--run={name}"]) == 0
+    rows = list(csv.reader(out_csv.open(encoding="utf-8", newline="")))
+    assert {r[0] for r in rows[1:]} == {"'" + name}
+    cells = [c for r in rows[1:] for c in r[1:]]
+    assert not any(c[:1] and c[:1] in "=+@\t\r" for c in cells)
+    assert sum(c[:1].isdigit() and c.replace(".", "").isdigit() for c in cells) > len(rows)    # numbers as numbers
+
+
 @pytest.mark.parametrize("args, words", [
     (["--run", "No such ditch"], "no run named 'No such ditch'"),
 ])

@@ -3,6 +3,7 @@ into a missing folder, an inventory in another encoding or with a row a million 
 a byte-order mark. The inventories and projects here are invented."""
 
 import json
+from os import PathLike
 
 import pytest
 
@@ -70,6 +71,28 @@ def test_a_plot_that_cannot_be_written_says_so_and_where_the_results_are(capsys,
     err = capsys.readouterr().err
     assert "Traceback" not in err and "No space left on device" in err and "results were written" in err
     assert (tmp_path / "out.csv").exists()
+
+
+@pytest.mark.parametrize("suffix, magic", [(".png", b"\x89PNG"), (".pdf", b"%PDF"), (".svg", b"<?xml")])
+def test_a_plot_that_fails_half_way_leaves_the_old_plot_whole(tmp_path, monkeypatch, suffix, magic):
+    """The plot is replaced in one step like every file the program writes (README "Files: what is guaranteed"):
+    a drawing that fails after some bytes leaves the earlier plot as it was, and no temporary file."""
+    from matplotlib.figure import Figure
+    result = ai.evaluate(ai.parse_inventory(f"{HEADER}\n{ROW}\n", "us"))
+    path = tmp_path / f"plot{suffix}"
+    ai.plot_summary(result, path)
+    old = path.read_bytes()
+    assert old.startswith(magic)
+
+    def fails_half_way(self, target, **kwargs):
+        if isinstance(target, str | PathLike):
+            target = open(target, "wb")    # noqa: SIM115 (left open, as a failing writer leaves it)
+        target.write(old[:100])
+        raise OSError(28, "No space left on device")
+    monkeypatch.setattr(Figure, "savefig", fails_half_way)
+    with pytest.raises(OSError):
+        ai.plot_summary(result, path)
+    assert path.read_bytes() == old and [p.name for p in tmp_path.iterdir()] == [path.name]
 
 
 def test_a_byte_that_is_not_utf8_names_the_line_and_the_encoding(tmp_path):

@@ -112,3 +112,24 @@ def test_a_file_without_triggers_is_written_byte_for_byte_as_before():
     lines = text.splitlines()
     assert [line.rsplit(",", 9)[0] for line in body.splitlines()[1:]] == lines[1:]
     assert ai.written_rows(inv)[0] is inv.records   # the file's own bytes, untouched
+
+
+@pytest.mark.parametrize("trigger", sorted(FORMULA_STARTS - {"\t", "\r"}))
+def test_a_formula_like_name_in_a_dxf_drawing_is_plain_text(trigger):
+    """The DXF text holding a channel's or a run's name carries it as typed, and the drawing holds no FIELD object
+    (the DXF way to make text that a CAD program computes), so nothing in it is evaluated."""
+    from app import project as pj
+    from app.drawings import make_drawings
+
+    project = pj.load(pj.demo_path())
+    project.channels, project.runs = project.channels[:1], project.runs[:1]
+    project.channels[0].name = PAYLOADS[trigger] + r" %<\AcVar Date>%"
+    project.runs[0].name = PAYLOADS[trigger] + " run"
+    drawings = make_drawings(project)
+    assert len(drawings) == 2
+    for drawing, name in zip(drawings, [project.channels[0].name, project.runs[0].name]):
+        doc = drawing.document
+        texts = [e.dxf.text if e.dxftype() == "TEXT" else e.text for e in doc.modelspace().query("TEXT MTEXT")]
+        holding = [t for t in texts if name in t]
+        assert holding, texts
+        assert len(doc.objects.query("FIELD")) == 0

@@ -81,6 +81,7 @@ def _unit_labels(units: hu.UnitSystem) -> dict:
 
 
 def _csv_text(designs, units) -> str:
+    from ..files import spreadsheet_safe
     from ..results import RUN_STATION_FIELDS
 
     out = io.StringIO()
@@ -92,21 +93,8 @@ def _csv_text(designs, units) -> str:
     writer.writerow(head)
     for d in designs:
         for row in d.station_rows(units):
-            writer.writerow([_cell(d.run.name)] + [_cell(row[k]) for k in keys])
+            writer.writerow([spreadsheet_safe(d.run.name)] + [spreadsheet_safe(row[k]) for k in keys])
     return out.getvalue()
-
-
-def _cell(text: str) -> str:
-    """A text cell a spreadsheet will not run as a formula (common practice against CSV injection)."""
-    return "'" + text if text[:1] in ("=", "+", "-", "@", "\t", "\r") and not _is_number(text) else text
-
-
-def _is_number(text: str) -> bool:
-    try:
-        float(text)
-    except ValueError:
-        return False
-    return True
 
 
 def _money(value: float) -> str:

@@ -9,6 +9,7 @@ apostrophe). The plot shows the same counts and the spread of the shear ratio.
 
 from __future__ import annotations
 
+import io
 from pathlib import Path
 
 import numpy as np
@@ -17,6 +18,7 @@ from hydraulics import many_reaches as mr
 from hydraulics import provenance
 from hydraulics.linings import hec15
 
+from ..files import write_atomic
 from ..verdicts import Verdict
 from .reading import Inventory, InventoryError
 from .writing import written_rows
@@ -104,8 +106,9 @@ PLOT_FORMATS = (".png", ".pdf", ".svg")
 def plot_summary(result: mr.BatchResult, path, title: str = "Ditch inventory") -> None:
     """Save a two-panel summary figure: reaches per verdict, and the distribution of shear ratio.
 
-    The format follows the suffix of ``path`` (PNG, PDF or SVG). Uses
-    matplotlib's Agg canvas, so no display is needed.
+    The format follows the suffix of ``path`` (PNG, PDF or SVG); the file
+    is replaced in one step. Uses matplotlib's Agg canvas, so no display is
+    needed.
     """
     path = Path(path)
     if path.suffix.lower() not in PLOT_FORMATS:
@@ -151,4 +154,6 @@ def plot_summary(result: mr.BatchResult, path, title: str = "Ditch inventory") -
     ax2.set_title("Distribution of shear ratio" + (f"\n({held:,} not shown: stone cannot rest on the sides)"
                                                    if held else ""), fontsize=None if not held else 10)
     fig.suptitle(title)
-    fig.savefig(path)
+    image = io.BytesIO()
+    fig.savefig(image, format=path.suffix[1:].lower())
+    write_atomic(path, image.getvalue())   # like every file written: the old plot stays whole if this one fails
