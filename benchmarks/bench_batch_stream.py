@@ -4,7 +4,7 @@
 
 The inventory is invented (random but reproducible), a mixed one: 60 % of the reaches give their own Manning's n,
 25 % are riprap in 50 stone sizes (their D50 given, n from the stone), 15 % are concrete; open ditches and pipes,
-US customary units, one malformed row in a thousand. Each round runs, in fresh processes one after the other:
+US customary units, one malformed row in a thousand (with --own-n: every reach gives its own n). Each round runs, in fresh processes one after the other:
 
 (1) `ditchwright batch INVENTORY -o RESULTS --no-progress` (app.main.main, in the process; its imports excluded);
 (2) the bare baseline: pyarrow.csv.read_csv of the same file, then pyarrow.csv.write_csv of the table read.
@@ -52,8 +52,9 @@ print(json.dumps({"seconds": time.perf_counter() - t, "rss": resource.getrusage(
 """
 
 
-def make_inventory(path: Path, size: int, seed: int = 15) -> None:
-    """Write the invented mixed inventory of ``size`` reaches (US units) to ``path``, in blocks of rows."""
+def make_inventory(path: Path, size: int, seed: int = 15, own_n: bool = False) -> None:
+    """Write the invented mixed inventory of ``size`` reaches (US units) to ``path``, in blocks of rows;
+    ``own_n``: every reach gives its own n instead (no lining)."""
     rng = np.random.default_rng(seed)
     stones = np.round(np.linspace(0.25, 2.0, 50), 3)   # 50 stone sizes D50 [ft], invented
     with open(path, "w", newline="") as fh:
@@ -63,6 +64,8 @@ def make_inventory(path: Path, size: int, seed: int = 15) -> None:
             kind = rng.choice(np.array(["trapezoid", "triangle", "rectangle", "circle"]), m, p=[0.55, 0.2, 0.1, 0.15])
             use = rng.choice(np.array(["own", "riprap", "concrete"]), m, p=[0.60, 0.25, 0.15])
             use[kind == "circle"] = "own"
+            if own_n:
+                use[:] = "own"
             b = np.round(rng.uniform(1, 8, m), 1)
             z1, z2 = rng.choice([2.0, 3.0, 4.0], m), rng.choice([2.0, 3.0, 4.0, 6.0], m)
             d = rng.choice([1.0, 1.5, 2.0, 3.0], m)
@@ -104,18 +107,21 @@ def main(argv=None):
     p = argparse.ArgumentParser(description=__doc__.splitlines()[0])
     p.add_argument("--reaches", type=int, nargs="+", default=[250_000, 1_000_000])
     p.add_argument("--rounds", type=int, default=3)
+    p.add_argument("--own-n", action="store_true", help="every reach gives its own n (no lining): the core's "
+                                                          "hydraulics only")
     args = p.parse_args(argv)
     with tempfile.TemporaryDirectory() as tmp:
         for size in args.reaches:
             src, dst, bare = Path(tmp) / "inventory.csv", Path(tmp) / "results.csv", Path(tmp) / "bare.csv"
-            make_inventory(src, size)
+            make_inventory(src, size, own_n=args.own_n)
             runs, bases = [], []
             for _ in range(args.rounds):
                 runs.append(child(BATCH, src, dst))
                 bases.append(child(BARE, src, bare))
             ratios = [r["seconds"] / b["seconds"] for r, b in zip(runs, bases)]
             mb = lambda rows: [r["rss"] / 1024 for r in rows]  # noqa: E731  (Linux: ru_maxrss in KiB)
-            print(f"{size:,} invented reaches (60 % own n, 25 % riprap in 50 sizes, 15 % concrete), "
+            what = "every reach with its own n" if args.own_n else "60 % own n, 25 % riprap in 50 sizes, 15 % concrete"
+            print(f"{size:,} invented reaches ({what}), "
                   f"{src.stat().st_size / 2**20:.0f} MiB")
             print(f"  batch end to end: {np.median([r['seconds'] for r in runs]):.2f} s, "
                   f"{size / np.median([r['seconds'] for r in runs]):,.0f} rows a second; bare pyarrow read + write: "
