@@ -107,10 +107,11 @@ class Tally:
                 self.largest_shear = (float(shear[i]), int(inventory.lines[i]), inventory.id_at(i))
         self.depths = self.depths or bool(np.isfinite(result.normal_depth).any())
         ids = inventory.ids
-        stripped = [i.strip() for i in ids]
+        stripped = list(map(str.strip, ids))
         self.blank_ids += stripped.count("")
         self._hashes.append(np.fromiter(map(hash, stripped), dtype=np.int64, count=len(stripped)))
-        self._padded += [(self.size + j, hash(ids[j])) for j, (a, b) in enumerate(zip(ids, stripped)) if a != b]
+        if stripped != ids:     # the usual block has no blanks around its ids: strip gave the same objects back
+            self._padded += [(self.size + j, hash(a)) for j, (a, b) in enumerate(zip(ids, stripped)) if a != b]
         self.blank_line_count += len(inventory.blank_lines)
         self.blank_lines += inventory.blank_lines[:5 - len(self.blank_lines)]
         guarded = written_rows(inventory)[2]     # the header's cells counted in every block: once in the file
