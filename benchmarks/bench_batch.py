@@ -10,7 +10,7 @@ depth-dependent n from the catalogue (a coupled solve); riprap rows give their
 D50, 0.5 ft (a stone row without one is refused).
 
 (1) batch: read the CSV, check every reach, write the results CSV, timed as
-    the command does it (app.inventory.read_inventory and check_and_write; parsing
+    the command does it (app.inventory.check_file, block by block; parsing
     and unit conversion included).
 (2) scalar: the same reaches one by one with the scalar API (section class,
     hy.max_flow for pipes, the lining's roughness, hy.analyse), computing
@@ -116,9 +116,8 @@ def best(fn, repeat, cpu=None):
 
 
 def batch_end_to_end(src: Path, dst: Path):
-    """What `ditchwright batch` does between reading its options and printing its summary."""
-    inventory = ai.read_inventory(src, "us")
-    return ai.check_and_write(dst, inventory)
+    """What `ditchwright batch` does between reading its options and printing its summary (block by block)."""
+    return ai.check_file(src, dst, "us")
 
 
 _CATALOGUE = load_catalogue()
@@ -198,7 +197,8 @@ def run(size, lined, sample, repeat, with_io, scalar_repeat=1, rounds=3):
     with tempfile.TemporaryDirectory() as tmp:
         src, dst = Path(tmp) / "inventory.csv", Path(tmp) / "results.csv"
         make_inventory(src, size, lined=lined)
-        result = batch_end_to_end(src, dst)
+        batch_end_to_end(src, dst)
+        result = ai.evaluate(ai.read_inventory(src, "us"))   # the results per reach, to compare below
         with open(src, newline="") as fh:
             rows = list(csv.DictReader(fh))
         if sample and sample < len(rows):

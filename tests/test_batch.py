@@ -483,7 +483,7 @@ def test_progress_bar(tmp_path, capsys):
     src, dst = tmp_path / "inv.csv", tmp_path / "out.csv"
     src.write_text(csv_text([GOOD] * 5))
     assert main(["batch", str(src), "-o", str(dst), "--progress"]) == 0
-    assert "100% 5/5" in capsys.readouterr().err
+    assert "100%" in capsys.readouterr().err     # the share of the file read (it is read in blocks)
     assert main(["batch", str(src), "-o", str(dst), "--no-progress"]) == 0
     assert "%" not in capsys.readouterr().err
 

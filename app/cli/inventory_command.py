@@ -15,8 +15,8 @@ from . import COMMAND_HELP
 from .common import CliError
 
 HELP = COMMAND_HELP["batch"]
-#: Above this many reaches a progress bar is drawn (on a terminal).
-PROGRESS_FROM = 20_000
+#: From an inventory file of this many bytes (some 20,000 reaches) a progress bar is drawn (on a terminal).
+PROGRESS_FROM_BYTES = 1_000_000
 #: Problem rows listed on stderr; all of them are in the results file's reason column.
 MAX_LISTED = 50
 
@@ -68,42 +68,43 @@ def run(args) -> int:
         except (CatalogueError, OSError) as exc:
             raise CliError(f"--user-catalogue {args.user_catalogue}: {exc}") from None
     start = time.perf_counter()
+    show = args.progress if args.progress is not None else (
+        source.is_file() and source.stat().st_size >= PROGRESS_FROM_BYTES and sys.stderr.isatty())
+    bar = ProgressBar("checking", enabled=show, percent=True)
     try:
-        inventory = ai.read_inventory(source, args.units)
+        tally = ai.check_file(source, target, args.units, progress=bar, catalogue=catalogue, problems=MAX_LISTED)
     except ai.InventoryError as exc:
         raise CliError(str(exc)) from None
-    show = args.progress if args.progress is not None else (len(inventory) >= PROGRESS_FROM and sys.stderr.isatty())
-    bar = ProgressBar("checking", enabled=show)
-    try:
-        result = ai.check_and_write(target, inventory, progress=bar, catalogue=catalogue)
     except OSError as exc:
         raise CliError(f"cannot write {target}: {exc.strerror or exc}") from None
     finally:
         bar.close()
     elapsed = time.perf_counter() - start
-    problems = ai.problem_rows(inventory, result)
-    for line, ident, verdict, reason in problems[:MAX_LISTED]:
+    for line, ident, verdict, reason in tally.problems:
         name = f" (id {ident!r})" if ident else ""
-        print(f"{inventory.source}:{line}{name}: {verdict}: {reason}", file=sys.stderr)
-    if len(problems) > MAX_LISTED:
-        print(f"... and {len(problems) - MAX_LISTED:,} more; every one has its reason in {target}", file=sys.stderr)
-    print(ai.summary(inventory, result, elapsed))
+        print(f"{tally.source}:{line}{name}: {verdict}: {reason}", file=sys.stderr)
+    if tally.problem_count > MAX_LISTED:
+        print(f"... and {tally.problem_count - MAX_LISTED:,} more; every one has its reason in {target}",
+              file=sys.stderr)
+    print(tally.summary(elapsed))
     print(f"  results: {target}")
     if args.plot is not None:
         try:
-            ai.plot_summary(result, args.plot, title=f"Ditch inventory {source.name}")
+            ai.plot_summary(tally, args.plot, title=f"Ditch inventory {source.name}")
         except OSError as exc:
             raise CliError(f"--plot {args.plot}: cannot write the plot: {exc.strerror or exc} (the results were "
                            f"written to {target})") from None
         print(f"  plot: {args.plot}")
-    return 1 if result.counts()["invalid"] else 0
+    return 1 if tally.counts()["invalid"] else 0
 
 
 class ProgressBar:
     """A one-line progress bar on a terminal stream; silent when the stream is not a terminal."""
 
-    def __init__(self, label: str, stream=None, enabled: bool | None = None, width: int = 30):
+    def __init__(self, label: str, stream=None, enabled: bool | None = None, width: int = 30, percent=False):
+        """``percent``: show the share done only (not ``done/total``, e.g. bytes of a file)."""
         self.stream = stream if stream is not None else sys.stderr
+        self.percent = percent
         self.enabled = self.stream.isatty() if enabled is None else enabled
         self.label, self.width, self.shown = label, width, False
 
@@ -112,7 +113,7 @@ class ProgressBar:
             return
         filled = int(self.width * done / total)
         self.stream.write(f"\r{self.label} [{'#' * filled}{'.' * (self.width - filled)}] "
-                          f"{100 * done / total:3.0f}% {done:,}/{total:,}")
+                          f"{100 * done / total:3.0f}%{'' if self.percent else f' {done:,}/{total:,}'}")
         self.stream.flush()
         self.shown = True
 

@@ -9,14 +9,15 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass
+from pathlib import Path
 
 import numpy as np
 
 from hydraulics import many_reaches as mr
 
 from . import writing
-from .reading import INPUT_COLUMNS, Inventory, csv_fields, read_inventory
-from .reporting import problem_rows, summary
+from .reading import BLOCK_ROWS, INPUT_COLUMNS, Inventory, csv_fields, read_blocks, read_inventory
+from .reporting import Tally, problem_rows, summary
 from .writing import result_table
 
 
@@ -53,6 +54,49 @@ def check_and_write(path, inventory: Inventory, progress=None, catalogue=None) -
     return writing.write_while_checking(
         path, inventory, lambda on_chunk: mr.evaluate(inventory.reaches, display=inventory.units, progress=progress,
                                                       chunk=WRITE_CHUNK, catalogue=catalogue, on_chunk=on_chunk))
+
+
+def check_file(source, target, units: str = "us", progress=None, catalogue=None, *, rows: int = BLOCK_ROWS,
+               problems: int = 0) -> Tally:
+    """Read, check and write the inventory file ``source`` block by block (``rows`` reaches a block, see
+    :func:`app.inventory.reading.read_blocks`) into the results file ``target``; returns the :class:`Tally` of
+    the file (its first ``problems`` problem rows kept for listing).
+
+    Memory holds a few blocks and the tally, whatever the number of rows. The results file is byte for byte that
+    of :func:`check_and_write` on the whole file; it replaces ``target`` only when every block is written (a file
+    that turns out unreadable half way, or a full disk, leaves the old one). ``progress(done, total)`` is called
+    after each block with the bytes of the file read so far and its size.
+
+    Raises InventoryError (the file cannot be read as an inventory; before anything is written where the first
+    block shows it), InputError (unknown units) or OSError (writing).
+    """
+    blocks = read_blocks(source, units, rows)
+    inventory = next(blocks)
+    size = Path(source).stat().st_size if progress is not None else 0
+    tally = Tally(inventory.source, inventory.units, problems)
+    # The core checks chunk by chunk as check_and_write does on the whole file, so that the notes about groups of
+    # reaches (a relation's range over a chunk) come out the same: blocks are a whole number of chunks.
+    whole = len(inventory) < 2 * WRITE_CHUNK and len(inventory) < rows
+    chunk = mr.CHUNK if whole else WRITE_CHUNK
+    with writing.results_stream(target) as write:
+        while inventory is not None:
+            result = mr.evaluate(inventory.reaches, display=inventory.units, chunk=chunk, catalogue=catalogue)
+            write(inventory, result)
+            tally.add(inventory, result)
+            if progress is not None:
+                progress(min(size, inventory.end), size)
+            inventory = next(blocks, None)
+    tally.id_at = lambda row: _id_at(source, units, rows, row)
+    return tally
+
+
+def _id_at(source, units, rows, row: int) -> str:
+    """The id of record ``row`` of the inventory file ``source`` read by :func:`check_file` (read again)."""
+    for inventory in read_blocks(source, units, rows):
+        if row < len(inventory):
+            return inventory.id_at(row)
+        row -= len(inventory)
+    raise IndexError(row)
 
 
 @dataclass

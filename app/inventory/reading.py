@@ -12,6 +12,7 @@ from __future__ import annotations
 
 import csv
 import io
+import itertools
 import math
 from dataclasses import dataclass, field
 from itertools import repeat
@@ -59,6 +60,8 @@ class Inventory:
     id_values: object       # per record: the id as written (surrounding blanks kept): a list, or pyarrow's column
     reaches: mr.Reaches
     blank_lines: list = field(default_factory=list)
+    #: Bytes of the file read up to the end of this block (:func:`read_blocks`; 0 for a whole file).
+    end: int = 0
     # (records as written to a results file, header text as written, cells given an apostrophe): made on first use
     _written: tuple | None = field(default=None, repr=False, compare=False)
 
@@ -103,11 +106,12 @@ class Inventory:
 
 # ----------------------------------------------------------------------------- reading
 
-def _decode(data: bytes, source: str) -> str:
+def _decode(data: bytes, source: str, lines_before: int = 0, encoding: str = "utf-8-sig") -> str:
+    """``data`` as text; ``lines_before``: line ends before it in the file (a block of a file read in blocks)."""
     try:
-        return data.decode("utf-8-sig")
+        return data.decode(encoding)
     except UnicodeDecodeError as exc:
-        line = data.count(b"\n", 0, exc.start) + 1
+        line = lines_before + data.count(b"\n", 0, exc.start) + 1
         column = exc.start - (data.rfind(b"\n", 0, exc.start) + 1) + 1
         raise InventoryError(f"{source}:{line}: not UTF-8 text (byte 0x{data[exc.start]:02x} at column {column} "
                              "of that line); an inventory is read as UTF-8: save the sheet as 'CSV UTF-8' "
@@ -141,9 +145,19 @@ def _split_fast(text: str):
 
 def _split_csv(text: str, source: str):
     """The same as :func:`_split_fast` by the csv module, for files that quote fields."""
-    reader = csv.reader(io.StringIO(text, newline=""), strict=True)
+    return next(_csv_batches(io.StringIO(text, newline=""), source), None)
+
+
+def _csv_batches(lines, source: str, rows: int | None = None):
+    """The records of CSV ``lines`` (an iterable of lines with their line ends) by the csv module, ``rows`` at a
+    time (None: all at once): for each batch what :func:`_split_fast` gives; the header is that of the first."""
+    reader = csv.reader(lines, strict=True)
     records, numbers, blank, header = [], [], [], None
-    start = 1
+    start, sent = 1, False
+
+    def batch():
+        return header[0], header[1], records, np.array(numbers, dtype=np.int64), blank, \
+            np.array([len(f) for f in records], dtype=np.int64)
     try:
         for fields in reader:
             if not fields or (len(fields) == 1 and not fields[0].strip()):
@@ -153,13 +167,14 @@ def _split_csv(text: str, source: str):
             else:
                 records.append(fields)
                 numbers.append(start)
+                if rows is not None and len(records) == rows:
+                    yield batch()
+                    records, numbers, blank, sent = [], [], [], True
             start = reader.line_num + 1
     except csv.Error as exc:
         raise InventoryError(f"{source}: line {reader.line_num}: {exc} (check the quotes)") from None
-    if header is None:
-        return None
-    return header[0], header[1], records, np.array(numbers, dtype=np.int64), blank, \
-        np.array([len(f) for f in records], dtype=np.int64)
+    if header is not None and (records or blank or not sent):
+        yield batch()
 
 
 def _check_header(fields, source):
@@ -289,6 +304,11 @@ def parse_inventory(text: str | bytes, units: str = "us", source: str = "invento
     if split is None:
         raise InventoryError(f"{source}: the file is empty (it needs a header line with the columns "
                              f"{', '.join(INPUT_COLUMNS)})")
+    return _from_split(split, fast, system, source)
+
+
+def _from_split(split, fast: bool, system, source: str) -> Inventory:
+    """The inventory of the records ``split`` (see :func:`_split_fast`); ``fast``: split at the commas."""
     _, header_fields, records, lines, blank, field_counts = split
     names, index = _check_header(header_fields, source)
     width = len(names)
@@ -479,6 +499,101 @@ def read_inventory(path, units: str = "us") -> Inventory:
     if data.isascii():  # no decoding needed (and no byte-order mark): the bytes go to the reader as they are
         return parse_inventory(data, units, source=str(path), ascii_checked=True)
     return parse_inventory(_decode(data, str(path)), units, source=str(path))
+
+
+# A file read in blocks (``ditchwright batch``): memory bounded by a block, whatever the file's length. Each block
+# is read as above, as if it were a file of its own with the header line in front, and its line numbers are moved
+# to where the block lies in the file. A file with a double quote anywhere is read by the csv module throughout
+# (as a whole file would be: a quoted field may hold a line end, so a block ends only where a record does); any
+# other file is cut after a line end, and each block goes to pyarrow or to the csv module by its own content.
+
+#: Records per block of :func:`read_blocks` (a whole number of the core's chunks of the batch).
+BLOCK_ROWS = 100_000
+#: Bytes read from the file at a time.
+READ_BYTES = 1 << 22
+
+
+def read_blocks(path, units: str = "us", rows: int = BLOCK_ROWS):
+    """The inventory file at ``path`` as consecutive :class:`Inventory` blocks of ``rows`` lines at most (records
+    of a file that quotes fields), in file order, each with the file's own line numbers; the first holds the
+    header's blank lines before it, a block may be empty (blank lines only). The records of all blocks are those
+    of :func:`read_inventory` and give the same results; InventoryError as there, raised by the block where the
+    problem is (the blocks before it have been read)."""
+    path = Path(path)
+    system = hu.system(units)
+    source = str(path)
+    try:
+        fh = open(path, "rb")
+    except OSError as exc:
+        raise InventoryError(f"cannot read {path}: {exc.strerror or exc}") from None
+    with fh:
+        try:
+            quoted = any(b'"' in piece for piece in iter(lambda: fh.read(READ_BYTES), b""))
+            fh.seek(0)
+        except OSError as exc:
+            raise InventoryError(f"cannot read {path}: {exc.strerror or exc}") from None
+        pieces = _line_blocks(fh, path, None if quoted else rows + 1)
+        if quoted:
+            def texts():
+                for data, before, _, _ in pieces:
+                    yield io.StringIO(_decode(data, source, before, "utf-8" if before else "utf-8-sig"), newline="")
+            for split in _csv_batches(itertools.chain.from_iterable(texts()), source, rows):
+                block = _from_split(split, False, system, source)
+                block.end = fh.tell()   # about: the text read ahead of the batch's last record
+                yield block
+            return
+        header = None
+        for data, before, lines_before, end in pieces:
+            if header is not None:
+                data = header + data
+            if data.isascii():
+                block = parse_inventory(data, units, source=source, ascii_checked=True)
+            else:
+                block = parse_inventory(_decode(data, source, before - (header is not None),
+                                                "utf-8" if header else "utf-8-sig"), units, source=source)
+            if header is None:
+                header = block.header_text.encode("utf-8") + b"\n"
+            elif lines_before > 1:   # in the block's text the header is line 1 and its first line line 2
+                block.lines = block.lines + (lines_before - 1)
+                block.blank_lines = [b + lines_before - 1 for b in block.blank_lines]
+            block.end = end
+            yield block
+
+
+def _line_blocks(fh, path, rows):
+    """(bytes, line feeds before them, lines before them, bytes to their end) of the file ``fh``, cut after a line feed: ``rows``
+    lines the first block (the header and ``rows - 1`` records), ``rows - 1`` each other one (None: about
+    :data:`READ_BYTES` a block). A line end may be a line feed, a carriage return
+    followed by one, or a carriage return alone (counted as a line, as :func:`parse_inventory` reads it)."""
+    feeds = lines = end = 0
+    rest = b""
+    while True:
+        try:
+            piece = fh.read(READ_BYTES)
+        except OSError as exc:
+            raise InventoryError(f"cannot read {path}: {exc.strerror or exc}") from None
+        data = rest + piece
+        while data:
+            if rows is None:
+                cut = data.rfind(b"\n") + 1 if piece else len(data)
+            else:
+                ends = np.flatnonzero(np.frombuffer(data, dtype=np.uint8) == 10)
+                cut = int(ends[rows - 1]) + 1 if len(ends) >= rows else (0 if piece else len(data))
+            if not cut:
+                break
+            block, data = data[:cut], data[cut:]
+            end += cut
+            yield block, feeds, lines, end
+            if rows is not None and not lines:
+                rows -= 1
+            returns = block.count(b"\r")
+            feeds += block.count(b"\n")
+            lines += block.count(b"\n") + returns - block.count(b"\r\n") if returns else block.count(b"\n")
+        rest = data
+        if not piece:
+            if not end:
+                yield b"", 0, 0, 0    # an empty file: the reader says so
+            return
 
 
 def _duplicates(ids):

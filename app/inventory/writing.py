@@ -15,7 +15,7 @@ import csv
 import io
 import os
 from concurrent.futures import ThreadPoolExecutor
-from contextlib import nullcontext
+from contextlib import contextmanager, nullcontext
 from itertools import repeat
 
 import numpy as np
@@ -106,6 +106,11 @@ def _safe_record(row: str) -> tuple[str, int]:
     safe = [spreadsheet_safe(f) for f in fields]
     changed = sum(a is not b for a, b in zip(safe, fields))
     return (csv_line(safe), changed) if changed else (row, 0)
+
+
+def guarded_cells(row: str) -> int:
+    """How many cells of the CSV record ``row`` a results file writes with a leading apostrophe."""
+    return _safe_record(row)[1]
 
 
 _TRIGGER_BYTES = sorted(ord(c) for c in FORMULA_STARTS)
@@ -256,3 +261,34 @@ def write_while_checking(path, inventory: Inventory, check) -> mr.BatchResult:
         for block in blocks:
             block.result()  # a block's error (a full disk, say) is raised here, and the file is not replaced
     return result
+
+
+@contextmanager
+def results_stream(path):
+    """The results file at ``path`` written block by block: yields ``add(inventory, result)``, called for each
+    block of the file in order (see :func:`app.inventory.reading.read_blocks`).
+
+    A worker thread formats, assembles and writes each block (the bytes of :func:`write_results` for it; the
+    head once) while the caller reads and checks the next; at most one block waits for it, so memory holds two
+    blocks at most. The file replaces ``path`` only when the with-block ends without an error and every block is
+    written; otherwise the old file stays as it was.
+    """
+    # The pool is left before the writer: every block is written (or has failed) before the file is replaced.
+    with atomic_writer(path) as fh, ThreadPoolExecutor(1) as pool:
+        pending = None
+
+        def write(inventory, result, first):
+            pieces = _results_pieces(inventory, result)
+            for piece in pieces if first else pieces[1:]:
+                fh.write(piece)
+
+        def add(inventory, result):
+            nonlocal pending
+            first = pending is None
+            if not first:
+                pending.result()    # a block's error (a full disk, say) is raised here
+            pending = pool.submit(write, inventory, result, first)
+
+        yield add
+        if pending is not None:
+            pending.result()
