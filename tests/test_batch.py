@@ -19,7 +19,7 @@ import pytest
 
 import hydraulics as hy
 from app import inventory as ai
-from app.inventory import checking, reading, writing
+from app.inventory import reading, writing
 from app.main import main
 from hydraulics import many_reaches as mr
 from hydraulics import units as hu
@@ -722,54 +722,10 @@ def test_a_large_results_file_is_the_same_with_and_without_worker_threads(tmp_pa
     assert len(lines) == len(rows) + 1 and lines[1].startswith("G0,") and lines[-1].startswith("G399,")
 
 
-def test_writing_while_checking_gives_the_same_file_and_results(tmp_path, monkeypatch):
-    # check_and_write formats each chunk's numbers in a worker thread while the next chunk is computed.
-    rows = generated_rows(400, seed=10, units="si") * 10  # 4,000 reaches
-    rows[5] = {**rows[5], "flow": "-2"}                    # a bad row inside the first chunk
-    source = tmp_path / "inv.csv"
-    source.write_text(csv_text(rows, HEADER + ["road"]), encoding="utf-8")
-    inv = ai.read_inventory(source, "si")
-    expected = ai.evaluate(inv)
-    ai.write_results(tmp_path / "plain.csv", inv, expected)
-    monkeypatch.setattr(writing.os, "cpu_count", lambda: 2)
-    monkeypatch.setattr(checking, "WRITE_CHUNK", 700)            # several chunks, the last one short
-    seen = []
-    got = ai.check_and_write(tmp_path / "piped.csv", inv, progress=lambda done, total: seen.append(done))
-    assert (tmp_path / "piped.csv").read_bytes() == (tmp_path / "plain.csv").read_bytes()
-    assert seen == [700 * k for k in range(1, 6)] + [4000]
-    np.testing.assert_array_equal(got.normal_depth, expected.normal_depth)
-    assert got.verdict.tolist() == expected.verdict.tolist() and got.reason.tolist() == expected.reason.tolist()
-    assert got.verdict[5] == "invalid" and got.messages == expected.messages
-
-
 def test_a_header_only_file_without_a_line_end_is_an_empty_inventory():
     # The header ends in a two-byte UTF-8 character and no line end follows it.
     inv = ai.parse_inventory(",".join(HEADER) + ",remarqu\u00e9", "us")
     assert len(inv) == 0 and inv.header[-1] == "remarqu\u00e9"
-
-
-def test_a_block_that_cannot_be_written_leaves_the_old_results_file(tmp_path, monkeypatch):
-    rows = generated_rows(400, seed=11, units="us") * 5
-    source, target = tmp_path / "inv.csv", tmp_path / "out.csv"
-    source.write_text(csv_text(rows, HEADER + ["road"]), encoding="utf-8")
-    target.write_text("old results\n", encoding="utf-8")
-    inv = ai.read_inventory(source, "us")
-    monkeypatch.setattr(writing.os, "cpu_count", lambda: 2)
-    monkeypatch.setattr(checking, "WRITE_CHUNK", 500)
-    calls = []
-
-    def failing(*args, **kwargs):
-        calls.append(1)
-        if len(calls) == 2:
-            raise OSError(28, "No space left on device")
-        return format_rows(*args, **kwargs)
-
-    from app.numtext import format_rows
-    monkeypatch.setattr(writing, "format_rows", failing)
-    with pytest.raises(OSError, match="No space"):
-        ai.check_and_write(target, inv)
-    assert target.read_text(encoding="utf-8") == "old results\n"
-    assert sorted(p.name for p in tmp_path.iterdir()) == ["inv.csv", "out.csv"]
 
 
 @pytest.mark.parametrize("quoted", [False, True], ids=["pyarrow reader", "csv module reader"])
@@ -781,13 +737,15 @@ def test_repeated_and_blank_ids_are_noted_and_every_row_checked(quoted):
     inv = ai.parse_inventory(csv_text(rows, HEADER + ["road"]), "us")
     res = ai.evaluate(inv)
     assert (res.verdict == "hydraulics-only").all()
-    assert inv.duplicate_ids() == ["A", "B"] and inv.blank_id_count() == 2
+    tally = ai.Tally.of(inv, res)
+    assert tally.repeated_ids() == (2, "A") and tally.blank_ids == 2
     assert [inv.id_at(i) for i in range(4)] == ["A", "B", "A", ""]
     text = ai.summary(inv, res)
     assert "2 ids appear more than once (first: 'A')" in text
     assert "2 rows have no id" in text
     unique = ai.parse_inventory(csv_text([{**GOOD, "id": f"U{i}"} for i in range(5)], HEADER), "us")
-    assert unique.duplicate_ids() == [] and unique.blank_id_count() == 0
+    tally = ai.Tally.of(unique, ai.evaluate(unique))
+    assert tally.repeated_ids() == (0, None) and tally.blank_ids == 0
 
 
 def test_group_notes_quote_the_inventory_units():

@@ -10,7 +10,7 @@ import io
 import pytest
 
 from app import inventory as ai
-from app.inventory import checking, reading, writing
+from app.inventory import reading
 from app.files import FORMULA_STARTS, spreadsheet_safe, tsv_cell
 from app.main import main
 
@@ -76,16 +76,15 @@ def test_a_formula_in_a_column_name_is_kept_as_text():
     assert "'=cmd|' /C calc'!A0" in out[0]
 
 
-def test_the_chunked_writer_writes_the_same_guarded_file(tmp_path, monkeypatch):
+def test_the_file_written_block_by_block_is_the_same_guarded_file(tmp_path):
     rows = [dict(ROW, id=f"{'=' if i % 3 == 0 else ''}R{i}", owner=f"@o{i}" if i % 5 == 0 else "", offset=str(-i))
             for i in range(40)]
     text = _csv(rows)
     inv = ai.parse_inventory(text, "us")
     expected = ai.format_results(inv, ai.evaluate(inv))
-    monkeypatch.setattr(checking, "WRITE_CHUNK", 7)
-    monkeypatch.setattr(writing, "_workers", lambda: 2)
-    inv = ai.parse_inventory(text, "us")
-    ai.check_and_write(tmp_path / "out.csv", inv)
+    source = tmp_path / "in.csv"
+    source.write_text(text, encoding="utf-8")
+    ai.check_file(source, tmp_path / "out.csv", "us", rows=7)
     written = (tmp_path / "out.csv").read_text(encoding="utf-8")
     assert written == expected
     out = list(csv.DictReader(io.StringIO(written, newline="")))

@@ -24,12 +24,12 @@ permissible_shear, safety_factor, verdict, reason`` added, in the same units,
 one row per input row and in the same order.
 """
 
-from .checking import BatchRun, check_and_write, check_file, evaluate, run_inventory
+from .checking import BatchRun, check_file, evaluate, run_inventory
 from .reading import INPUT_COLUMNS, RESULT_COLUMNS, Inventory, InventoryError, parse_inventory, read_blocks, read_inventory
 from .reporting import MAX_MESSAGES, PLOT_FORMATS, Tally, plot_summary, problem_rows, summary
 from .writing import DIGITS, display_values, format_results, result_table, write_results, written_rows
 
 __all__ = ["INPUT_COLUMNS", "RESULT_COLUMNS", "DIGITS", "MAX_MESSAGES", "PLOT_FORMATS", "Inventory", "InventoryError",
-           "BatchRun", "Tally", "parse_inventory", "read_inventory", "read_blocks", "evaluate", "check_and_write", "check_file", "run_inventory",
+           "BatchRun", "Tally", "parse_inventory", "read_inventory", "read_blocks", "evaluate", "check_file", "run_inventory",
            "display_values", "format_results", "write_results", "written_rows", "result_table", "problem_rows",
            "summary", "plot_summary"]

@@ -1,8 +1,8 @@
 """Checking an inventory: its reaches through the vectorised core, and the checked inventory the window shows.
 
 The computation is :func:`hydraulics.many_reaches.evaluate` (vectorised, SI; the
-reasons quote the inventory's units). :func:`check_and_write` runs it chunk
-by chunk and has each chunk written while the next is checked.
+reasons quote the inventory's units). :func:`check_file` reads, checks and
+writes a file block by block; :func:`run_inventory` checks a whole file for the window.
 """
 
 from __future__ import annotations
@@ -31,29 +31,9 @@ def evaluate(inventory: Inventory, progress=None, catalogue=None) -> mr.BatchRes
     return mr.evaluate(inventory.reaches, display=inventory.units, progress=progress, catalogue=catalogue)
 
 
-#: Reaches per chunk in :func:`check_and_write`: small enough that formatting overlaps computing.
+#: Reaches per chunk of the core's check inside a block of :func:`check_file` (a block is a whole number of
+#: chunks, so the notes about a group of reaches do not depend on the block size).
 WRITE_CHUNK = 25_000
-
-
-def check_and_write(path, inventory: Inventory, progress=None, catalogue=None) -> mr.BatchResult:
-    """:func:`evaluate`, then :func:`app.inventory.writing.write_results` to ``path``; returns the results.
-
-    On a machine with two cores or more, the reaches are checked in chunks
-    of :data:`WRITE_CHUNK`, and a worker thread formats each chunk's numbers,
-    assembles its lines and writes them to the temporary file while this
-    thread checks the next chunk (the checking holds Python's GIL much of
-    the time, the formatting, joining and writing hardly at all; see
-    :func:`app.inventory.writing.write_while_checking`). The file replaces
-    ``path`` only when every chunk is written, and it is the same byte for
-    byte either way.
-    """
-    if not writing.can_write_while_checking(inventory, WRITE_CHUNK):
-        result = evaluate(inventory, progress, catalogue)
-        writing.write_results(path, inventory, result)
-        return result
-    return writing.write_while_checking(
-        path, inventory, lambda on_chunk: mr.evaluate(inventory.reaches, display=inventory.units, progress=progress,
-                                                      chunk=WRITE_CHUNK, catalogue=catalogue, on_chunk=on_chunk))
 
 
 def check_file(source, target, units: str = "us", progress=None, catalogue=None, *, rows: int = BLOCK_ROWS,
@@ -63,7 +43,7 @@ def check_file(source, target, units: str = "us", progress=None, catalogue=None,
     the file (its first ``problems`` problem rows kept for listing).
 
     Memory holds a few blocks and the tally, whatever the number of rows. The results file is byte for byte that
-    of :func:`check_and_write` on the whole file; it replaces ``target`` only when every block is written (a file
+    of :func:`write_results` for the whole file checked at once; it replaces ``target`` only when every block is written (a file
     that turns out unreadable half way, or a full disk, leaves the old one). ``progress(done, total)`` is called
     after each block with the bytes of the file read so far and its size.
 
@@ -74,8 +54,8 @@ def check_file(source, target, units: str = "us", progress=None, catalogue=None,
     inventory = next(blocks)
     size = Path(source).stat().st_size if progress is not None else 0
     tally = Tally(inventory.source, inventory.units, problems)
-    # The core checks chunk by chunk as check_and_write does on the whole file, so that the notes about groups of
-    # reaches (a relation's range over a chunk) come out the same: blocks are a whole number of chunks.
+    # The core checks chunk by chunk, so that the notes about groups of reaches (a relation's range over a chunk)
+    # come out the same whatever the block size: blocks are a whole number of chunks.
     whole = len(inventory) < 2 * WRITE_CHUNK and len(inventory) < rows
     chunk = mr.CHUNK if whole else WRITE_CHUNK
     with writing.results_stream(target) as write:

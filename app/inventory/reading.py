@@ -80,22 +80,6 @@ class Inventory:
         value = self.id_values[i]
         return (value if isinstance(value, str) else value.as_py()).strip()
 
-    def duplicate_ids(self) -> list:
-        """Ids (without surrounding blanks) that appear more than once, in the order their repeats appear."""
-        if not isinstance(self.id_values, list):  # the usual case, all different, found without a list
-            import pyarrow.compute as pc
-
-            if pc.count_distinct(self.id_values).as_py() == len(self):
-                return []
-        return _duplicates(self.ids)
-
-    def blank_id_count(self) -> int:
-        if not isinstance(self.id_values, list):
-            import pyarrow.compute as pc
-
-            return int(pc.sum(pc.equal(pc.utf8_trim_whitespace(self.id_values), "")).as_py() or 0)
-        return sum(1 for i in self.id_values if not i.strip())
-
     @property
     def rows(self) -> list:
         """Per record: its fields as CSV text, without the line end."""
@@ -595,13 +579,3 @@ def _line_blocks(fh, path, rows):
                 yield b"", 0, 0, 0    # an empty file: the reader says so
             return
 
-
-def _duplicates(ids):
-    seen, dup = set(), []
-    if len(set(ids)) == len(ids):
-        return dup
-    for i in (t.strip() for t in ids):
-        if i and i in seen and i not in dup:
-            dup.append(i)
-        seen.add(i)
-    return dup

@@ -23,7 +23,7 @@ import numpy as np
 from hydraulics import many_reaches as mr
 
 from ..files import FORMULA_STARTS, atomic_writer, spreadsheet_safe, write_atomic
-from ..numtext import format_rows, format_rows_parallel
+from ..numtext import format_rows_parallel
 from . import reading
 from .reading import RESULT_COLUMNS, Inventory, Records, csv_fields, csv_line
 
@@ -223,44 +223,6 @@ def result_table(inventory: Inventory, result: mr.BatchResult):
     reader = csv.reader(io.StringIO(text, newline=""))
     columns = next(reader)
     return columns, list(reader)
-
-
-def can_write_while_checking(inventory: Inventory, chunk: int) -> bool:
-    """Whether :func:`write_while_checking` pays for ``inventory`` checked ``chunk`` reaches at a time: pyarrow
-    is installed, the machine has two cores or more, and there are two chunks at least."""
-    return reading.pyarrow_modules() is not None and _workers() >= 2 and len(inventory) >= 2 * chunk
-
-
-def write_while_checking(path, inventory: Inventory, check) -> mr.BatchResult:
-    """Write the results file of ``inventory`` to ``path`` while ``check(on_chunk)`` checks its reaches.
-
-    ``check`` calls ``on_chunk(part, done)`` for each slice ``part`` of the
-    reaches, in order, with their results ``done``, and returns the results
-    of all, which this returns. A worker thread formats each chunk's
-    numbers, assembles its lines and writes them to the temporary file
-    while ``check`` goes on with the next chunk. The file replaces ``path``
-    only when every chunk is written, and it is byte for byte the file of
-    :func:`write_results`. Needs pyarrow (see :func:`can_write_while_checking`).
-    """
-    pa = reading.pyarrow_modules()[0]
-    rows = _row_array(pa, inventory)
-    blocks = []
-    # The pool is left before the writer: every block is written (or has failed) before the file is replaced.
-    with atomic_writer(path) as fh, ThreadPoolExecutor(1) as pool:  # one worker: the blocks are written in order
-        fh.write(_results_head(inventory))
-
-        def write_block(rows, table, verdict_texts, reason_texts):
-            fh.write(_joined_lines(pa, rows, format_rows(table, DIGITS, True), verdict_texts, reason_texts))
-
-        def start_block(part, done):
-            blocks.append(pool.submit(write_block, rows.slice(part.start, part.stop - part.start),
-                                      _number_table(inventory, done), _verdict_texts(pa, done.verdict.tolist()),
-                                      _reason_texts(pa, done.reason.tolist())))
-
-        result = check(start_block)
-        for block in blocks:
-            block.result()  # a block's error (a full disk, say) is raised here, and the file is not replaced
-    return result
 
 
 @contextmanager
