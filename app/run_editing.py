@@ -19,9 +19,10 @@ from hydraulics.units import UnitSystem, system
 from hydraulics.wording import format_station, in_units, worded
 
 from .project import (OUTFALL_CONTROLS, Channel, FlowBasis, LiningChoice, Outfall, PointInflowInput, ProfilePoint,
-                      Run, RunBend, RunSection, SubAreaInput)
+                      Run, RunBend, RunCandidate, RunSection, SubAreaInput)
 
 __all__ = ["with_run_value", "run_value", "with_outfall_control", "with_item_added", "with_item_removed", "new_run",
+           "starting_run",
            "station_channel", "StationNotOpenable", "cost_quantity", "RUN_ITEMS", "RUN_SETTINGS", "ADDABLE",
            "item_path", "OUTFALL_LEVEL_PATH"]
 
@@ -210,6 +211,23 @@ def new_run(name: str, units: str, candidates) -> Run:
               spacing=_start("spacing", units), min_stretch=_start("spacing", units),
               min_freeboard=_start("min_freeboard", units))
     return with_item_added(run, "sub_areas", units=units)
+
+
+#: Linings a new run may use when there is no run to copy them from: (catalogue key, D50 [m]); the user types
+#: their unit costs (the shipped catalogue has none).
+NEW_RUN_LININGS = (("grass_good_sod", None), ("riprap", 0.15), ("concrete", None))
+
+
+def starting_run(project, catalogue, like: Run | None = None) -> Run:
+    """A new run for ``project`` (:func:`new_run` in its units) named "Run k" (the first k not in use), with the
+    candidates of the run ``like`` or, without one, those of :data:`NEW_RUN_LININGS` in ``catalogue``."""
+    if like is not None:
+        candidates = like.candidates
+    else:
+        candidates = [RunCandidate(key, d50) for key, d50 in NEW_RUN_LININGS if key in catalogue]
+    names = {r.name for r in project.runs}
+    name = next(f"Run {k}" for k in range(1, len(names) + 2) if f"Run {k}" not in names)
+    return new_run(name, project.units, candidates)
 
 
 def cost_quantity(basis: str) -> str:
