@@ -30,7 +30,7 @@ from .project import Project, Run
 from .lining_names import name_in_units
 from .results import RUN_STATION_FIELDS, RUN_TABLE_FIELDS, convert, money_text, quantity_text, rounded
 
-__all__ = ["RunDesign", "SubAreaBasis", "design_run", "run_label", "section_dimensions", "RUN_CAUTIONS"]
+__all__ = ["RunDesign", "SubAreaBasis", "design_run", "run_label", "section_dimensions", "section_words", "RUN_CAUTIONS"]
 
 #: The cautions printed with every run, in the command's, the window's and the sheet's words.
 RUN_CAUTIONS = (
@@ -141,6 +141,18 @@ def section_dimensions(section: dict, units: UnitSystem) -> dict:
         elif key in DIMENSION_KEYS:
             out[key] = float(units.from_si("length", value)) if key in _LENGTH_KEYS else float(value)
     return {k: out[k] for k in DIMENSION_KEYS if k in out}
+
+
+def section_words(section: dict, units: UnitSystem) -> tuple[str, str]:
+    """A run's section in words, in ``units``: ("trapezoid", "bottom width 0.600 m, left slope 3H:1V, ...")."""
+    L = units.label("length")
+    dims = []
+    for key, value in section_dimensions(section, units).items():
+        if key in _LENGTH_KEYS:
+            dims.append(f"{key.replace('_', ' ')} {rounded(value, RUN_TABLE_FIELDS['length'])} {L}")
+        else:
+            dims.append(f"{key.replace('_', ' ')} {value:g}H:1V")
+    return _SHAPES.get(section.get("shape"), str(section.get("shape"))), ", ".join(dims)
 
 
 def build_run(project: Project, run: Run, catalogue: Catalogue) -> tuple[DitchRun, list]:
@@ -349,18 +361,12 @@ class RunDesign:
         L = units.label("length")
         out = []
         for rs in self.run.sections:
-            dims = []
-            for key, value in section_dimensions(rs.section, units).items():
-                if key in _LENGTH_KEYS:
-                    dims.append(f"{key.replace('_', ' ')} {rounded(value, F['length'])} {L}")
-                else:
-                    dims.append(f"{key.replace('_', ' ')} {value:g}H:1V")
+            shape, dims = section_words(rs.section, units)
             depth = ("its full depth" if rs.ditch_depth is None else
                      f"{rounded(convert(rs.ditch_depth, 'length', units), F['length'])} {L}")
             out.append({"from_station": format_station(rs.from_station, units),
                         "to_station": format_station(rs.to_station, units),
-                        "shape": _SHAPES.get(rs.section.get("shape"), str(rs.section.get("shape"))),
-                        "dimensions": ", ".join(dims), "ditch_depth": depth})
+                        "shape": shape, "dimensions": dims, "ditch_depth": depth})
         return out
 
     def rainfall_rows(self, units: UnitSystem) -> dict:

@@ -180,7 +180,8 @@ def profile_model(design: RunDesign, units: UnitSystem) -> ProfileModel:
     prof = sorted(design.run.profile, key=lambda p: p.station)
     model.grade_points = Polyline("Grade points", L([p.station for p in prof]), L([p.elevation for p in prof]))
     out = design.run.outfall
-    model.outfall = (float(L(out.station)), float(L(pts[-1].invert)), out.kind or "outfall")
+    model.outfall = (float(L(out.station)), float(L(pts[-1].invert)),
+                     f"Outfall: {out.kind}" if out.kind else "Outfall")
     return model
 
 

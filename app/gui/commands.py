@@ -84,6 +84,19 @@ class AddRuns(QUndoCommand):
         self.doc._remove_runs(self.index, len(self.runs))
 
 
+class RemoveRun(QUndoCommand):
+    def __init__(self, doc, index: int):
+        self.doc, self.index = doc, index
+        self.run = doc.project.runs[index]
+        super().__init__(f"Delete run '{self.run.name}'")
+
+    def redo(self):
+        self.doc._remove_runs(self.index, 1)
+
+    def undo(self):
+        self.doc._insert_runs(self.index, [self.run])
+
+
 class RemoveChannel(QUndoCommand):
     def __init__(self, doc, index: int):
         self.doc, self.index = doc, index

@@ -187,6 +187,24 @@ class ProjectDocument(QObject):
         if new != self.project.runs[index]:
             self.undo_stack.push(cmd.EditRun(self, index, copy.deepcopy(new), text, merge_key))
 
+    def remove_run(self, index: int) -> None:
+        """Delete ditch run ``index`` (one undoable step)."""
+        self.undo_stack.push(cmd.RemoveRun(self, index))
+
+    def rename_run(self, index: int, name: str) -> str | None:
+        """Rename run ``index``; returns the reason when the name is refused (empty or already used)."""
+        name = name.strip()
+        if not name:
+            return "A ditch run needs a name."
+        if any(r.name == name for j, r in enumerate(self.project.runs) if j != index):
+            return f"Another ditch run is already called '{name}'."
+        old = self.project.runs[index]
+        if name != old.name:
+            new = copy.deepcopy(old)
+            new.name = name
+            self.edit_run(index, new, f"Rename run '{old.name}' to '{name}'")
+        return None
+
     def add_channel_from(self, channel: pj.Channel, text: str) -> str:
         """Append ``channel`` (a name already in use gets a number) and make it current, in one undoable step.
         Returns its name."""

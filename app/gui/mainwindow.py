@@ -115,6 +115,8 @@ class MainWindow(QMainWindow):
         self.landxml_action = act("Import &LandXML…", self.import_landxml, None,
                                   "Add the road profiles and cross-sections of a LandXML file to this project as "
                                   "ditch runs (undo removes them again)")
+        self.new_run_action = act("New di&tch run", self.add_run, None,
+                                  "Add a ditch run at round starting values to this project (undo removes it)")
         self.inventory_action = act("Check an &inventory…", self.open_inventory, "Ctrl+I",
                                     "Check every reach of a ditch inventory (CSV) and import chosen ones")
         self.quit_action = act("&Quit", self.close, K.Quit, "Close the window")
@@ -177,7 +179,8 @@ class MainWindow(QMainWindow):
         m.addSeparator()
         m.addActions([self.save_action, self.save_as_action])
         m.addSeparator()
-        m.addActions([self.export_action, self.drawings_action, self.landxml_action, self.inventory_action])
+        m.addActions([self.export_action, self.drawings_action, self.landxml_action, self.new_run_action,
+                      self.inventory_action])
         m.addSeparator()
         m.addAction(self.quit_action)
         m = bar.addMenu("&Edit")
@@ -529,6 +532,15 @@ class MainWindow(QMainWindow):
         self.statusBar().showMessage(f"Imported {len(names)} ditch run(s) from {path}.", 8000)
         self.show_runs()
         self.run_view.show_run(len(self.doc.project.runs) - len(names))
+
+    def add_run(self) -> None:
+        """Add a ditch run at round starting values (with the candidates of the run shown) and show it."""
+        from ..run_editing import starting_run
+        shown = self.run_view.run if self.run_view is not None else None
+        run = starting_run(self.doc.project, self.doc.context.catalogue, shown)
+        self.doc.add_runs([run], f"Add run '{run.name}'")
+        self.show_runs()
+        self.run_view.show_run(len(self.doc.project.runs) - 1)
 
     def _station_opened(self, _name: str) -> None:
         self.show_channels(0)

@@ -133,7 +133,7 @@ class ProfilePicture(Picture):
             top_line = model.lines["ditch_top"]
             above = float(top_line.y[int(np.argmin(np.abs(top_line.x - s)))]) if top_line.x.size else z
             self._made.append(ax.plot([s, s], [z, above], color=INK, lw=0.8, zorder=7)[0])
-            text = ax.annotate(f"outfall: {label}", (s, above), xytext=(-4, 8), textcoords="offset points",
+            text = ax.annotate(label, (s, above), xytext=(-4, 8), textcoords="offset points",
                                ha="right", va="bottom", fontsize=FONT - 1, color=INK, zorder=7,
                                bbox=dict(boxstyle="round,pad=0.2", fc="white", ec="none", alpha=0.85))
             self._made.append(text)

@@ -16,7 +16,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from PySide6.QtCore import QAbstractTableModel, QModelIndex, Qt, QTimer, Signal
+from PySide6.QtCore import QAbstractTableModel, QEvent, QModelIndex, Qt, QTimer, Signal
 from PySide6.QtGui import QAction, QBrush, QColor, QKeySequence
 from PySide6.QtWidgets import (QAbstractItemView, QComboBox, QFormLayout, QFrame, QGroupBox, QHBoxLayout,
                                QHeaderView, QLabel, QListWidget, QMenu, QPushButton, QScrollArea, QSplitter,
@@ -29,10 +29,11 @@ from hydraulics.wording import format_station, in_units
 
 from ..project import OUTFALL_CONTROLS
 from ..results import RUN_STATION_FIELDS
-from ..run_design import CONTROL_WORDS, RunDesign, design_run
+from ..run_design import CONTROL_WORDS, RunDesign, design_run, section_words
 from ..run_drawing import profile_model
-from ..run_editing import (OUTFALL_LEVEL_PATH, StationNotOpenable, cost_quantity, item_path, run_value,
-                           station_channel, with_outfall_control, with_run_value)
+from ..run_editing import (ADDABLE, OUTFALL_LEVEL_PATH, RUN_ITEMS, RUN_SETTINGS, StationNotOpenable, cost_quantity,
+                           item_path, run_value, starting_run, station_channel, with_item_added, with_item_removed,
+                           with_outfall_control, with_run_value)
 from ..verdicts import Verdict
 from .document import ProjectDocument
 from .fields import (LineEdit, UnclearNumber, format_number, keep_units_whole, parse_number, pretty, sentence,
@@ -180,6 +181,8 @@ class InputTable(QWidget):
 
     edited = Signal(str, object, str)    # path (e.g. "profile[2].elevation"), SI value, description
     refused = Signal(str, str)           # path, message
+    add_asked = Signal(str, int)         # items, the row the new one follows (-1: none chosen)
+    remove_asked = Signal(str, int)      # items, row
 
     def __init__(self, items: str, columns: tuple, name: str, parent=None):
         super().__init__(parent)
@@ -208,8 +211,54 @@ class InputTable(QWidget):
         lay.setContentsMargins(0, 0, 0, 0)
         lay.setSpacing(3)
         lay.addWidget(self.table)
+        if items in ADDABLE:
+            self.add_button = QPushButton("Add")
+            self.add_button.setObjectName(f"{name}Add")
+            self.add_button.setToolTip(f"Add {ITEM_WORDS[items]} after the chosen row (Insert in the table)")
+            self.remove_button = QPushButton("Delete")
+            self.remove_button.setObjectName(f"{name}Delete")
+            self.remove_button.setToolTip(f"Delete the chosen {ITEM_WORDS[items]} (Delete in the table)")
+            self.add_button.clicked.connect(self.ask_add)
+            self.remove_button.clicked.connect(self.ask_remove)
+            self.table.installEventFilter(self)     # Insert and Delete in the table, outside a cell being edited
+            buttons = QHBoxLayout()
+            buttons.setContentsMargins(0, 0, 0, 0)
+            buttons.addStretch(1)
+            buttons.addWidget(self.add_button)
+            buttons.addWidget(self.remove_button)
+            lay.addLayout(buttons)
         lay.addWidget(self.message)
         self.marked: dict[tuple[int, int], str] = {}
+
+    def eventFilter(self, watched, event) -> bool:
+        if watched is self.table and event.type() == QEvent.Type.KeyPress \
+                and self.table.state() != QAbstractItemView.State.EditingState \
+                and event.key() in (Qt.Key.Key_Insert, Qt.Key.Key_Delete):
+            (self.ask_add if event.key() == Qt.Key.Key_Insert else self.ask_remove)()
+            return True
+        return super().eventFilter(watched, event)
+
+    def chosen_row(self) -> int:
+        """The row of the current cell, -1 where none is chosen."""
+        index = self.table.currentIndex()
+        return index.row() if index.isValid() else -1
+
+    def ask_add(self) -> None:
+        self.add_asked.emit(self.items, self.chosen_row())
+
+    def ask_remove(self) -> None:
+        row = self.chosen_row()
+        if row < 0:
+            self.say(f"Choose the {ITEM_WORDS[self.items]} to delete first.")
+            return
+        self.remove_asked.emit(self.items, row)
+
+    def say(self, message: str) -> None:
+        """A message under the table that marks no cell (a refused addition or deletion)."""
+        self.marked.clear()
+        self._paint()
+        self.message.setText(message)
+        self.message.setVisible(bool(message))
 
     # -- showing ---------------------------------------------------------------------------
     def heading(self, c: Column, row: int | None = None) -> str:
@@ -277,6 +326,8 @@ class InputTable(QWidget):
         t.setFixedHeight(t.horizontalHeader().sizeHint().height() + rows * 24 + 4)
 
     def cell_text(self, c: Column, row: int, item, value) -> str:
+        if c.attribute == "section":
+            return pretty(", ".join(section_words(value, self.units)))
         if c.attribute == "cost_unit":
             return self.cost_unit(row)
         if c.attribute == "runoff_coefficient" and item.land_covers:
@@ -298,8 +349,11 @@ class InputTable(QWidget):
             where = (f"empty: the catalogue's {format_number(self.cost_from_si(row, default))} {unit}"
                      if default is not None else "the catalogue has no price for it")
             return f"Price per unit of this lining, in {unit} ({where})."
-        if c.attribute in ("station", "from_station"):
+        if c.attribute in STATION_ATTRIBUTES:
             return "A station as a distance along the road, e.g. 180 for 0+180."
+        if c.attribute == "section":
+            return (f"{self.cell_text(c, row, item, item.section)}. Change the shape and its dimensions in the "
+                    "project file; Add splits the chosen range in two.")
         if c.attribute == "key":
             name = self.cell_text(c, row, item, item.key)
             if item.d50 is not None:
@@ -352,10 +406,11 @@ class InputTable(QWidget):
         self.edited.emit(path, value, f"Change {self.describe(c, row)}")
 
     def describe(self, c: Column, row: int) -> str:
-        if self.items == "sub_areas":
-            what = f"sub-area '{self.run.sub_areas[row].name}'"
+        item = getattr(self.run, self.items)[row]
+        if hasattr(item, "name"):
+            what = f"{ITEM_WORDS[self.items]} '{item.name}'"
         else:
-            what = f"{'grade point' if self.items == 'profile' else 'candidate'} {row + 1}"
+            what = f"{ITEM_WORDS[self.items]} {row + 1}"
         return f"{c.heading.lower()} of {what}"
 
     def read(self, c: Column, row: int, text: str):
@@ -380,7 +435,7 @@ class InputTable(QWidget):
         else:
             value = shown
         low, high = c.low, c.high
-        if c.attribute in ("station", "from_station"):
+        if c.attribute in STATION_ATTRIBUTES:
             low, high = self.station_limits(c, row)
         if low is not None and (value < low or (value == low and not c.low_inclusive)):
             raise ValueError(f"{where} must be {'≥' if c.low_inclusive else '>'} {self.limit_text(c, row, low)}"
@@ -398,7 +453,7 @@ class InputTable(QWidget):
         """Allowed stations: a grade point between its neighbours (stations increase down the list), an entry
         within the run."""
         stations = [p.station for p in self.run.profile]
-        if c.attribute == "from_station":
+        if self.items != "profile":
             return min(stations), max(stations)
         low = stations[row - 1] if row > 0 else None
         high = stations[row + 1] if row + 1 < len(stations) else None
@@ -413,8 +468,21 @@ SUB_AREA_COLUMNS = (Column("name", "Sub-area", editable=False),
                     Column("area", "Area", "drainage_area", low=0.0, low_inclusive=False),
                     Column("runoff_coefficient", "C", "", low=0.0, high=1.0),
                     Column("from_station", "Enters at", "length"))
+SECTION_COLUMNS = (Column("from_station", "From", "length"), Column("to_station", "To", "length"),
+                   Column("section", "Section", editable=False),
+                   Column("ditch_depth", "Ditch depth", "length", low=0.0, low_inclusive=False, optional=True))
+BEND_COLUMNS = (Column("from_station", "From", "length"), Column("to_station", "To", "length"),
+                Column("radius", "Radius", "length", low=0.0, low_inclusive=False))
+INFLOW_COLUMNS = (Column("name", "Inflow", editable=False), Column("station", "Station", "length"),
+                  Column("flow", "Flow", "flow", low=0.0, low_inclusive=False))
 #: Columns that take the room left; the others are as wide as their contents.
-WIDE = ("key", "name")
+WIDE = ("key", "name", "section")
+#: Columns holding a station: checked against the run's ends (a grade point's against its neighbours).
+STATION_ATTRIBUTES = ("station", "from_station", "to_station")
+#: One item of each list in words.
+ITEM_WORDS = {"profile": "grade point", "candidates": "candidate", "sub_areas": "sub-area", "sections": "section",
+              "bends": "bend", "point_inflows": "inflow"}
+
 
 
 class OutfallInput(QWidget):
@@ -530,10 +598,111 @@ class OutfallInput(QWidget):
         return value
 
 
+class RunSettings(QWidget):
+    """Values of the run itself: design return period, largest spacing of design points, shortest stretch of
+    one lining and minimum freeboard, typed in the project's units."""
+
+    edited = Signal(str, object, str)    # path (a key of RUN_SETTINGS), SI value, description
+    refused = Signal(str, str)           # path, message
+
+    #: (path, label, lowest allowed, whether the lowest is allowed, tip)
+    FIELDS = (("return_period", "Design storm", 0.0, False,
+               "Return period of the design storm, in years; the project's rainfall relation must give it"),
+              ("spacing", "Design points at most", 0.0, False,
+               "Largest distance between design points; every grade break, section change, bend end and inflow is "
+               "one too"),
+              ("min_stretch", "Shortest lining stretch", 0.0, True, "A lining is not changed over a shorter length"),
+              ("min_freeboard", "Minimum freeboard", 0.0, True, "Least height of the ditch above the water"))
+
+    def __init__(self, parent=None):
+        super().__init__(parent)
+        self.run = None
+        self.units: UnitSystem | None = None
+        self.fields: dict[str, LineEdit] = {}
+        self.labels: dict[str, QLabel] = {}
+        form = QFormLayout()
+        form.setContentsMargins(0, 0, 0, 0)
+        form.setSpacing(4)
+        for path, label, _low, _incl, tip in self.FIELDS:
+            edit = LineEdit()
+            edit.setObjectName(f"run_{path}")
+            edit.setToolTip(tip)
+            edit.editingFinished.connect(lambda p=path: self._typed(p))
+            self.fields[path] = edit
+            self.labels[path] = QLabel(label)
+            form.addRow(self.labels[path], edit)
+        self.message = QLabel()
+        self.message.setObjectName("fieldMessage")
+        self.message.setWordWrap(True)
+        self.message.hide()
+        lay = QVBoxLayout(self)
+        lay.setContentsMargins(0, 0, 0, 0)
+        lay.setSpacing(3)
+        lay.addLayout(form)
+        lay.addWidget(self.message)
+
+    def unit(self, path: str) -> str:
+        quantity = RUN_SETTINGS[path]
+        return pretty(self.units.label(quantity)) if quantity else "years"
+
+    def load(self, run, units: UnitSystem) -> None:
+        """Show the values of ``run`` (SI) in ``units``; what was marked is cleared."""
+        self.run, self.units = run, units
+        for path, label, *_ in self.FIELDS:
+            value = run_value(run, path)
+            quantity = RUN_SETTINGS[path]
+            shown = float(units.from_si(quantity, value)) if quantity else float(value)
+            self.fields[path].setText(format_number(round(shown, 4)))
+            self.fields[path].setModified(False)
+            self.labels[path].setText(f"{label} [{self.unit(path)}]")
+        self.mark("", "")
+
+    def mark(self, path: str, message: str) -> None:
+        for p, edit in self.fields.items():
+            set_invalid(edit, bool(message) and p == path)
+        self.message.setText(message)
+        self.message.setVisible(bool(message))
+
+    def _typed(self, path: str) -> None:
+        edit = self.fields[path]
+        if not edit.isModified() or self.run is None:
+            return
+        edit.setModified(False)
+        try:
+            value = self.read(path, edit.text())
+        except ValueError as exc:
+            self.mark(path, str(exc))
+            self.refused.emit(path, str(exc))
+            return
+        self.mark("", "")
+        label = next(f[1] for f in self.FIELDS if f[0] == path)
+        self.edited.emit(path, value, f"Change {label.lower()} of '{self.run.name}' to {edit.text().strip()} "
+                                      f"{self.unit(path)}")
+
+    def read(self, path: str, text: str) -> float:
+        """The SI value typed for ``path``; ValueError with the reason in words."""
+        _p, label, low, inclusive, _tip = next(f for f in self.FIELDS if f[0] == path)
+        if not text.strip():
+            raise ValueError(f"{label} is needed.")
+        try:
+            shown = parse_number(text)
+        except UnclearNumber as exc:
+            raise ValueError(f"{label}: {exc}") from None
+        except ValueError:
+            raise ValueError(f"{label}: '{text.strip()}' is not a number.") from None
+        if shown < low or (shown == low and not inclusive):
+            raise ValueError(f"{label} must be {'≥' if inclusive else '>'} {format_number(low)} {self.unit(path)}; "
+                             f"{text.strip()} is outside.")
+        quantity = RUN_SETTINGS[path]
+        return float(self.units.to_si(quantity, shown)) if quantity else float(shown)
+
+
 class RunInputs(QScrollArea):
     """The runs of the project, and the editable lists of the one shown."""
 
     run_picked = Signal(int)
+    run_asked = Signal(str)              # "new", "duplicate" or "delete" the run shown
+    run_renamed = Signal(int, str)       # run, the name typed
 
     def __init__(self, parent=None):
         super().__init__(parent)
@@ -551,15 +720,38 @@ class RunInputs(QScrollArea):
         self.run_list.setObjectName("runs")
         self.run_list.setMaximumHeight(48)
         self.run_list.currentRowChanged.connect(lambda r: r >= 0 and self.run_picked.emit(r))
+        self.run_list.setToolTip("Double-click a run (or F2) to rename it")
+        self.run_list.setEditTriggers(QAbstractItemView.EditTrigger.DoubleClicked
+                                      | QAbstractItemView.EditTrigger.EditKeyPressed)
+        self.run_list.itemChanged.connect(lambda item: self.run_renamed.emit(self.run_list.row(item),
+                                                                             item.text()))
+        run_buttons = QHBoxLayout()
+        run_buttons.setContentsMargins(0, 0, 0, 0)
+        self.run_buttons = {}
+        for key, text, tip in (("new", "New", "Add a new run at round starting values"),
+                               ("duplicate", "Duplicate", "Add a copy of the run shown"),
+                               ("delete", "Delete", "Delete the run shown (Undo brings it back)")):
+            button = QPushButton(text)
+            button.setObjectName(f"run_{key}")
+            button.setToolTip(tip)
+            button.clicked.connect(lambda _checked=False, k=key: self.run_asked.emit(k))
+            run_buttons.addWidget(button)
+            self.run_buttons[key] = button
+        run_buttons.addStretch(1)
         self.summary = QLabel()
         self.summary.setObjectName("hint")
         self.summary.setWordWrap(True)
         lay.addWidget(heading)
         lay.addWidget(self.run_list)
+        lay.addLayout(run_buttons)
         lay.addWidget(self.summary)
         self.profile = InputTable("profile", PROFILE_COLUMNS, "gradePoints")
         self.candidates = InputTable("candidates", CANDIDATE_COLUMNS, "candidates")
         self.sub_areas = InputTable("sub_areas", SUB_AREA_COLUMNS, "subAreas")
+        self.inflows = InputTable("point_inflows", INFLOW_COLUMNS, "pointInflows")
+        self.sections = InputTable("sections", SECTION_COLUMNS, "runSections")
+        self.bends = InputTable("bends", BEND_COLUMNS, "bends")
+        self.settings = RunSettings()
         self.outfall = OutfallInput()
         # a refused level's message is the last thing in the panel: scroll it into view
         self.outfall.refused.connect(lambda *_: QTimer.singleShot(
@@ -570,6 +762,11 @@ class RunInputs(QScrollArea):
                 ("Candidate linings", self.candidates, "The linings the run may use; the cheapest stable one is "
                                                        "scheduled."),
                 ("Sub-areas draining in", self.sub_areas, ""),
+                ("Point inflows", self.inflows, "Flows typed as they enter, such as a pipe from upstream."),
+                ("Sections", self.sections,
+                 "The cross-section over each station range, with the depth of the ditch as built."),
+                ("Bends", self.bends, "Bends of the ditch, by station range and centre-line radius."),
+                ("Storm and design points", self.settings, ""),
                 ("Outfall", self.outfall, "The downstream control of the water surface.")):
             box = QGroupBox(title)
             bl = QVBoxLayout(box)
@@ -587,18 +784,24 @@ class RunInputs(QScrollArea):
         self.setMinimumWidth(290)
 
     def tables(self) -> tuple:
-        return (self.profile, self.candidates, self.sub_areas)
+        return (self.profile, self.candidates, self.sub_areas, self.inflows, self.sections, self.bends)
 
     def fill_runs(self, names: list, current: int) -> None:
         self.run_list.blockSignals(True)
         self.run_list.clear()
         self.run_list.addItems(names)
+        for i in range(self.run_list.count()):
+            item = self.run_list.item(i)
+            item.setFlags(item.flags() | Qt.ItemFlag.ItemIsEditable)
         self.run_list.setCurrentRow(current)
         self.run_list.blockSignals(False)
+        self.run_buttons["duplicate"].setEnabled(bool(names))
+        self.run_buttons["delete"].setEnabled(bool(names))
 
     def load(self, run, units: UnitSystem, catalogue) -> None:
         for t in self.tables():
             t.load(run, units, catalogue)
+        self.settings.load(run, units)
         self.outfall.load(run, units)
         self.summary.setText(keep_units_whole(
             f"{format_station(run.profile[0].station, units)} to {format_station(run.profile[-1].station, units)}, "
@@ -606,7 +809,7 @@ class RunInputs(QScrollArea):
             f"{format_station(run.outfall.station, units)}."))
 
     def table_for(self, items: str) -> InputTable:
-        return {"profile": self.profile, "candidates": self.candidates, "sub_areas": self.sub_areas}[items]
+        return next(t for t in self.tables() if t.items == items)
 
 
 # -- the results beside ---------------------------------------------------------------------------------
@@ -754,7 +957,7 @@ def bullets(lines: list) -> str:
 
 
 # -- the view ---------------------------------------------------------------------------------------------
-_ITEM = re.compile(r"(profile|candidates|sub_areas)\[(\d+)\]\.([a-z_]+)")
+_ITEM = re.compile(r"(" + "|".join(RUN_ITEMS) + r")\[(\d+)\]\.([a-z_]+)")
 
 
 class RunView(QWidget):
@@ -784,11 +987,17 @@ class RunView(QWidget):
         for t in self.inputs.tables():
             t.edited.connect(self._edited)
             t.refused.connect(self._refused)
+            t.add_asked.connect(self.add_item)
+            t.remove_asked.connect(self.remove_item)
+        self.inputs.settings.edited.connect(self._edited)
+        self.inputs.settings.refused.connect(self._refused)
+        self.inputs.run_asked.connect(self._run_asked)
+        self.inputs.run_renamed.connect(self.rename_run)
         self.inputs.outfall.edited.connect(self._outfall_edited)
         self.inputs.outfall.refused.connect(self._refused)
 
         self.picture = ProfilePicture()
-        self.picture.canvas.setMinimumHeight(220)
+        self.picture.canvas.setMinimumHeight(170)   # with the table below, fits a 1024x640 screen at 150 %
         self.picture.canvas.mpl_connect("button_press_event", self._profile_clicked)
         self.table = QTableView()
         self.table.setObjectName("stationTable")
@@ -839,7 +1048,7 @@ class RunView(QWidget):
         self.middle.setStretchFactor(1, 4)
         self.middle.setChildrenCollapsible(False)
         self.middle.setSizes([440, 360])
-        lower.setMinimumHeight(150)
+        lower.setMinimumHeight(110)
 
         self.results = RunResultsPanel()
         self.splitter = QSplitter(Qt.Orientation.Horizontal)
@@ -926,6 +1135,43 @@ class RunView(QWidget):
             return
         self.doc.edit_run(self.current, with_outfall_control(run, control, level), text)
 
+    def add_item(self, items: str, after: int) -> None:
+        """Add an item to list ``items`` of the run after row ``after`` (the last when -1), one undoable step."""
+        run = self.run
+        new = with_item_added(run, items, None if after < 0 else after, self.doc.project.units)
+        self.doc.edit_run(self.current, new, f"Add a {ITEM_WORDS[items]} to '{run.name}'")
+
+    def remove_item(self, items: str, row: int) -> None:
+        """Delete item ``row`` of list ``items`` (one undoable step), or say why the run needs it."""
+        run = self.run
+        try:
+            new = with_item_removed(run, items, row)
+        except ValueError as exc:
+            self.inputs.table_for(items).say(str(exc))
+            return
+        item = getattr(run, items)[row]
+        what = f"'{item.name}'" if hasattr(item, "name") else str(row + 1)
+        self.doc.edit_run(self.current, new, f"Delete {ITEM_WORDS[items]} {what} of '{run.name}'")
+
+    def _run_asked(self, what: str) -> None:
+        if what == "new":
+            self.new_run()
+        elif what == "duplicate" and self.run is not None:
+            self.doc.add_runs([self.run], f"Duplicate run '{self.run.name}'")
+        elif what == "delete" and self.run is not None:
+            self.doc.remove_run(self.current)
+
+    def new_run(self) -> None:
+        """Add a run at round starting values, with the candidates of the run shown (one undoable step)."""
+        run = starting_run(self.doc.project, self.doc.context.catalogue, self.run)
+        self.doc.add_runs([run], f"Add run '{run.name}'")
+
+    def rename_run(self, index: int, name: str) -> None:
+        refused = self.doc.rename_run(index, name)
+        if refused:
+            self.status_message.emit(refused)
+            self.inputs.fill_runs([r.name for r in self.doc.project.runs], self.current)
+
     def _refused(self, path: str, message: str) -> None:
         self.refusals[path] = message
         self.show_result()
@@ -974,6 +1220,9 @@ class RunView(QWidget):
         m = _ITEM.search(where)
         if isinstance(exc, hy.InputError) and where.startswith("outfall"):
             self.inputs.outfall.mark(self.problem)
+        setting = where.rsplit(": ", 1)[-1]
+        if isinstance(exc, hy.InputError) and setting in RUN_SETTINGS:
+            self.inputs.settings.mark(setting, self.problem)
         if m is not None and isinstance(exc, hy.InputError):
             table = self.inputs.table_for(m.group(1))
             col = table.column_of(m.group(3))

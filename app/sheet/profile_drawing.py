@@ -296,7 +296,7 @@ def profile_drawing(model, units, width: float, height: float, band_numbers=None
         x, y = px(s), py(z)
         d.add(Line(x, y, x, base + plot_h, strokeColor=INK, strokeWidth=0.6, strokeDashArray=(1.5, 1.5)))
         d.add(Rect(x - 2, y - 2, 4, 4, fillColor=INK, strokeColor=None))
-        text = fit_text(f"Outfall: {label}", SIZE - 0.5, plot_w * 0.45)
+        text = fit_text(label, SIZE - 0.5, plot_w * 0.45)
         inside = x - LEFT > stringWidth(text, FONT, SIZE - 0.5) + 6
         d.add(_text(x - 3 if inside else x + 3, base + plot_h - 8, text, SIZE - 0.5, "end" if inside else "start"))
 

@@ -399,3 +399,125 @@ def test_no_words_on_the_demo_profile_cover_others(demo_window, qtbot, size):
     # the legend stays within the canvas
     legend = view.picture.legend.get_window_extent(view.picture.canvas.get_renderer())
     assert 0 <= legend.x0 and legend.x1 <= view.picture.figure.bbox.width
+
+
+# -- items, values of the run itself, and runs added, renamed and deleted (app.run_editing does the change) --------
+def test_a_bend_added_and_its_radius_typed_recompute_and_undo_takes_both_back(demo_window, qtbot):
+    w = demo_window
+    view = shown(w, qtbot)
+    bends = view.inputs.bends
+    assert bends.table.rowCount() == 1
+    bends.table.setCurrentCell(0, 0)
+    qtbot.keyClick(bends.table, Qt.Key.Key_Insert)               # Insert in the table adds after the chosen row
+    assert len(w.doc.project.runs[0].bends) == 2 and bends.table.rowCount() == 2
+    settle(view, qtbot)
+    type_in(bends, 1, bends.column_of("radius"), "12")
+    assert w.doc.project.runs[0].bends[1].radius == 12.0
+    settle(view, qtbot)
+    assert view.problem == "" and w.doc.undo_stack.count() == 2
+    w.undo_action.trigger()
+    w.undo_action.trigger()
+    assert len(w.doc.project.runs[0].bends) == 1
+
+
+def test_a_section_split_gives_one_more_range_and_the_stations_follow(demo_window, qtbot):
+    w = demo_window
+    view = shown(w, qtbot)
+    sections = view.inputs.sections
+    sections.table.setCurrentCell(1, 0)
+    sections.add_button.click()
+    run = w.doc.project.runs[0]
+    assert [(s.from_station, s.to_station) for s in run.sections] == [(0.0, 330.0), (330.0, 515.0), (515.0, 700.0)]
+    assert sections.table.item(2, sections.column_of("section")).text().startswith("trapezoid, bottom width 0.9")
+    settle(view, qtbot)
+    assert view.problem == ""
+    type_in(sections, 2, sections.column_of("ditch_depth"), "1.4")
+    assert w.doc.project.runs[0].sections[2].ditch_depth == 1.4
+
+
+def test_what_the_run_cannot_do_without_is_not_deleted_and_says_why(demo_window, qtbot):
+    w = demo_window
+    view = shown(w, qtbot)
+    profile = view.inputs.profile
+    profile.table.setCurrentCell(0, 0)
+    profile.remove_button.click()
+    assert "ends of the run" in profile.message.text() and profile.message.isVisible()
+    assert len(w.doc.project.runs[0].profile) == 5 and w.doc.undo_stack.count() == 0
+    profile.table.setCurrentCell(2, 0)
+    qtbot.keyClick(profile.table, Qt.Key.Key_Delete)
+    assert len(w.doc.project.runs[0].profile) == 4 and w.doc.undo_stack.count() == 1
+    inflows = view.inputs.inflows
+    inflows.table.setCurrentCell(-1, -1)
+    inflows.remove_button.click()
+    assert "Choose the inflow" in inflows.message.text()
+
+
+def test_the_design_storm_is_typed_and_a_bad_one_refused(demo_window, qtbot):
+    w = demo_window
+    view = shown(w, qtbot)
+    field = view.inputs.settings.fields["return_period"]
+    assert view.inputs.settings.labels["return_period"].text() == "Design storm [years]"
+    field.setText("-5")
+    field.setModified(True)
+    field.editingFinished.emit()
+    assert "must be > 0 years" in view.inputs.settings.message.text()
+    assert w.doc.project.runs[0].return_period == 10.0 and view.complaint
+    field.setText("25")
+    field.setModified(True)
+    field.editingFinished.emit()
+    assert w.doc.project.runs[0].return_period == 25.0
+    settle(view, qtbot)
+    assert "25-year" in view.inputs.summary.text()
+
+
+def test_the_spacing_is_typed_in_the_projects_units(demo_window, qtbot):
+    w = demo_window
+    w.us_action.trigger()
+    view = shown(w, qtbot)
+    settings = view.inputs.settings
+    assert settings.labels["spacing"].text() == "Design points at most [ft]"
+    settings.fields["spacing"].setText("100")
+    settings.fields["spacing"].setModified(True)
+    settings.fields["spacing"].editingFinished.emit()
+    assert w.doc.project.runs[0].spacing == pytest.approx(30.48)
+    settle(view, qtbot)
+    stations = [view.values[i]["station"] for i in range(len(view.values))]
+    assert max(np.diff(stations)) <= 100.0 + 1e-9
+
+
+def test_runs_are_added_renamed_and_deleted_with_undo(demo_window, qtbot):
+    w = demo_window
+    view = shown(w, qtbot)
+    view.inputs.run_buttons["new"].click()
+    runs = w.doc.project.runs
+    assert [r.name for r in runs] == ["North verge ditch", "Run 1"] and view.current == 1
+    assert runs[1].candidates == runs[0].candidates              # the candidates of the run shown, with their prices
+    settle(view, qtbot)
+    assert view.problem == "" and view.design.run.name == "Run 1"
+    item = view.inputs.run_list.item(1)
+    item.setText("North verge ditch")                             # a name in use is refused
+    assert w.doc.project.runs[1].name == "Run 1"
+    view.inputs.run_list.item(1).setText("South verge ditch")
+    assert w.doc.project.runs[1].name == "South verge ditch"
+    view.inputs.run_buttons["delete"].click()
+    assert [r.name for r in w.doc.project.runs] == ["North verge ditch"]
+    w.undo_action.trigger()
+    assert [r.name for r in w.doc.project.runs] == ["North verge ditch", "South verge ditch"]
+    assert w.runs_action.text() == "&Ditch runs (2)"
+
+
+def test_a_project_without_runs_gets_one_from_the_menu(qtbot):
+    from app.editing import new_project
+    from app.gui.mainwindow import MainWindow
+    w = MainWindow(new_project("us"))
+    qtbot.addWidget(w)
+    w.resize(1440, 900)
+    w.show()
+    assert not w.runs_action.isEnabled()
+    w.new_run_action.trigger()
+    view = w.run_view
+    assert w.runs_action.isEnabled() and [r.name for r in w.doc.project.runs] == ["Run 1"]
+    settle(view, qtbot)
+    # a new project has no rainfall relation: the run says so instead of a result
+    assert "rainfall" in view.problem
+    w.doc.undo_stack.setClean()
