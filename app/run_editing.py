@@ -31,14 +31,14 @@ OUTFALL_LEVEL_PATH = "outfall.water_level"
 
 #: The lists of a run the window edits item by item, and the attributes it changes in them.
 RUN_ITEMS = {"profile": ("station", "elevation"), "candidates": ("unit_cost",),
-             "sub_areas": ("area", "runoff_coefficient", "from_station"),
+             "sub_areas": ("area", "runoff_coefficient", "from_station", "to_station"),
              "sections": ("from_station", "to_station", "ditch_depth"),
              "bends": ("from_station", "to_station", "radius"),
              "point_inflows": ("station", "flow")}
 #: Values of the run itself the window edits: name -> (quantity of hydraulics.units, "" a pure number).
 RUN_SETTINGS = {"return_period": "", "spacing": "length", "min_stretch": "length", "min_freeboard": "length"}
 #: The lists an item can be added to or removed from in the window, with the fewest items each must keep.
-ADDABLE = {"profile": 2, "sections": 1, "sub_areas": 0, "bends": 0, "point_inflows": 0}
+ADDABLE = {"profile": 2, "sections": 1, "candidates": 1, "sub_areas": 0, "bends": 0, "point_inflows": 0}
 _PATH = re.compile(r"^(" + "|".join(RUN_ITEMS) + r")\[(\d+)\]\.([a-z_]+)$")
 
 
@@ -125,10 +125,10 @@ def _unique(base: str, taken) -> str:
     return f"{base} ({k})"
 
 
-def with_item_added(run: Run, items: str, after: int | None = None, units: str = "si") -> Run:
+def with_item_added(run: Run, items: str, after: int | None = None, units: str = "si", item=None) -> Run:
     """A copy of ``run`` with one item added to the list ``items`` (a key of :data:`ADDABLE`) after item
     ``after`` (the last when None), to be edited in place; ``units`` picks round values for an item made from
-    nothing.
+    nothing; ``item`` is the item itself where it cannot be made up (a candidate lining: the user's choice).
 
     A grade point goes half way between ``after`` and the next point (the ends of the run stay where they are);
     a section range is split at its middle, the new half keeping its shape; a sub-area, bend or inflow copies
@@ -141,7 +141,13 @@ def with_item_added(run: Run, items: str, after: int | None = None, units: str =
     if seq and not 0 <= k < len(seq):
         raise KeyError(f"{items}[{k}]: the run has {len(seq)}")
     first, last = run.profile[0].station, run.profile[-1].station
-    if items == "profile":
+    if items == "candidates":
+        if not isinstance(item, RunCandidate):
+            raise ValueError("a candidate lining is added by choosing it from the catalogue")
+        if any(c.key == item.key and c.d50 == item.d50 for c in seq):
+            raise ValueError(f"The run has the lining {item.key!r} among its candidates already.")
+        seq.insert(k + 1, copy.deepcopy(item))
+    elif items == "profile":
         k = min(k, len(seq) - 2)
         a, b = seq[k], seq[k + 1]
         seq.insert(k + 1, ProfilePoint((a.station + b.station) / 2, (a.elevation + b.elevation) / 2))
@@ -183,7 +189,7 @@ def with_item_removed(run: Run, items: str, index: int) -> Run:
         raise ValueError("The first and last grade points are the ends of the run: change their station or "
                          "elevation instead of deleting them.")
     if len(seq) <= keep:
-        what = {"profile": "grade points", "sections": "section"}[items]
+        what = {"profile": "grade points", "sections": "section", "candidates": "candidate lining"}[items]
         raise ValueError(f"A run keeps at least {keep} {what}: add another before deleting this one.")
     out = copy.deepcopy(run)
     seq = getattr(out, items)

@@ -92,7 +92,8 @@ def test_an_item_copied_gets_a_name_of_its_own_and_an_empty_list_starts_afresh(d
 def test_an_edited_run_still_solves(demo, catalogue):
     run = demo.runs[0]
     for items in ADDABLE:
-        changed = with_item_added(run, items, 0)
+        item = pj.RunCandidate("asphalt", None, 40.0) if items == "candidates" else None
+        changed = with_item_added(run, items, 0, item=item)
         design = design_run(demo, changed, catalogue)
         assert len(design.result.points) >= len(design_run(demo, run, catalogue).result.points) - 1
 
@@ -107,3 +108,21 @@ def test_a_new_run_has_round_values_of_its_unit_system_and_solves(demo, catalogu
     assert run.outfall.station == run.profile[-1].station and _covers(run)
     design = design_run(demo, run, catalogue)       # the demo project gives the rainfall relation
     assert design.result.points[-1].flow > 0
+
+
+def test_a_candidate_is_added_by_choice_and_the_last_one_kept(demo):
+    from app.project import RunCandidate
+
+    run = demo.runs[0]
+    more = with_item_added(run, "candidates", 0, item=RunCandidate("asphalt", None, 60.0))
+    assert [c.key for c in more.candidates] == ["grass_good_sod", "asphalt", "riprap", "concrete"]
+    with pytest.raises(ValueError, match="already"):
+        with_item_added(more, "candidates", item=RunCandidate("asphalt"))
+    with pytest.raises(ValueError, match="choosing it from the catalogue"):
+        with_item_added(run, "candidates")
+    one = more
+    for _ in range(3):
+        one = with_item_removed(one, "candidates", 0 if one.candidates[0].key != "asphalt" else 1)
+    assert [c.key for c in one.candidates] == ["asphalt"]
+    with pytest.raises(ValueError, match="at least 1 candidate lining"):
+        with_item_removed(one, "candidates", 0)

@@ -27,7 +27,8 @@ from hydraulics.provenance import NOT_VERIFIED_MARK, NOT_VERIFIED_TITLE
 from hydraulics.units import UnitSystem
 from hydraulics.wording import format_station, in_units
 
-from ..project import OUTFALL_CONTROLS
+from ..channel_display import lining_groups
+from ..project import OUTFALL_CONTROLS, RunCandidate
 from ..results import RUN_STATION_FIELDS
 from ..run_design import CONTROL_WORDS, RunDesign, design_run, section_words
 from ..run_drawing import profile_model
@@ -36,8 +37,8 @@ from ..run_editing import (ADDABLE, OUTFALL_LEVEL_PATH, RUN_ITEMS, RUN_SETTINGS,
                            with_outfall_control, with_run_value)
 from ..verdicts import Verdict
 from .document import ProjectDocument
-from .fields import (LineEdit, UnclearNumber, format_number, keep_units_whole, parse_number, pretty, sentence,
-                     set_invalid)
+from .fields import (LineEdit, UnclearNumber, format_number, keep_units_whole, number_marks, parse_number, pretty,
+                     sentence, set_invalid)
 from .results_view import CAUTION, _escape
 from .run_plot import ProfilePicture
 from .tasks import Task
@@ -265,7 +266,10 @@ class InputTable(QWidget):
         if c.quantity == "cost":
             return c.heading
         unit = pretty(self.units.label(c.quantity)) if c.quantity else ""
-        return f"{c.heading} [{unit}]" if unit else c.heading
+        if not unit:
+            return c.heading
+        # five columns or more share the panel's width: the unit under the heading
+        return f"{c.heading}\n[{unit}]" if len(self.columns) > 4 else f"{c.heading} [{unit}]"
 
     def cost_unit(self, row: int) -> str:
         entry = self.catalogue.get(self.run.candidates[row].key) if self.run.candidates[row].key in self.catalogue \
@@ -349,6 +353,11 @@ class InputTable(QWidget):
             where = (f"empty: the catalogue's {format_number(self.cost_from_si(row, default))} {unit}"
                      if default is not None else "the catalogue has no price for it")
             return f"Price per unit of this lining, in {unit} ({where})."
+        if c.attribute == "to_station" and self.items == "sub_areas":
+            return ("Where the sub-area stops draining in, when it drains in along a range of stations; empty: it "
+                    "enters at one station.")
+        if c.attribute == "from_station" and self.items == "sub_areas":
+            return "The station where the sub-area drains in (or starts to). A station as a distance along the road."
         if c.attribute in STATION_ATTRIBUTES:
             return "A station as a distance along the road, e.g. 180 for 0+180."
         if c.attribute == "section":
@@ -467,7 +476,8 @@ CANDIDATE_COLUMNS = (Column("key", "Lining", editable=False),
 SUB_AREA_COLUMNS = (Column("name", "Sub-area", editable=False),
                     Column("area", "Area", "drainage_area", low=0.0, low_inclusive=False),
                     Column("runoff_coefficient", "C", "", low=0.0, high=1.0),
-                    Column("from_station", "Enters at", "length"))
+                    Column("from_station", "From", "length"),
+                    Column("to_station", "To", "length", optional=True))
 SECTION_COLUMNS = (Column("from_station", "From", "length"), Column("to_station", "To", "length"),
                    Column("section", "Section", editable=False),
                    Column("ditch_depth", "Ditch depth", "length", low=0.0, low_inclusive=False, optional=True))
@@ -1136,10 +1146,43 @@ class RunView(QWidget):
         self.doc.edit_run(self.current, with_outfall_control(run, control, level), text)
 
     def add_item(self, items: str, after: int) -> None:
-        """Add an item to list ``items`` of the run after row ``after`` (the last when -1), one undoable step."""
+        """Add an item to list ``items`` of the run after row ``after`` (the last when -1), one undoable step; a
+        candidate lining is chosen from the catalogue in a menu first."""
         run = self.run
+        if items == "candidates":
+            self._candidate_menu(after)
+            return
         new = with_item_added(run, items, None if after < 0 else after, self.doc.project.units)
         self.doc.edit_run(self.current, new, f"Add a {ITEM_WORDS[items]} to '{run.name}'")
+
+    def candidate_choices(self) -> list:
+        """The catalogue as the lining list shows it: (kind heading, [(key, name)]) in the project's units."""
+        return lining_groups(self.doc.context, decimal_mark=number_marks()[0])
+
+    def _candidate_menu(self, after: int) -> None:
+        present = {c.key for c in self.run.candidates}
+        menu = QMenu(self)
+        for heading, entries in self.candidate_choices():
+            menu.addSection(heading)
+            for key, label in entries:
+                action = menu.addAction(label)
+                action.setEnabled(key not in present)
+                action.triggered.connect(lambda _checked=False, k=key: self.add_candidate(k, after))
+        button = self.inputs.candidates.add_button
+        menu.setAttribute(Qt.WidgetAttribute.WA_DeleteOnClose)
+        self.candidate_menu = menu             # open, not modal: chosen or closed, it goes
+        menu.popup(button.mapToGlobal(button.rect().bottomLeft()))
+
+    def add_candidate(self, key: str, after: int = -1) -> None:
+        """Add catalogue lining ``key`` to the run's candidates (its unit cost the catalogue's until typed)."""
+        run = self.run
+        try:
+            new = with_item_added(run, "candidates", None if after < 0 else after, item=RunCandidate(key))
+        except ValueError as exc:
+            self.inputs.candidates.say(str(exc))
+            return
+        name = self.doc.context.catalogue.get(key).name
+        self.doc.edit_run(self.current, new, f"Add the candidate lining '{name}' to '{run.name}'")
 
     def remove_item(self, items: str, row: int) -> None:
         """Delete item ``row`` of list ``items`` (one undoable step), or say why the run needs it."""
@@ -1150,7 +1193,9 @@ class RunView(QWidget):
             self.inputs.table_for(items).say(str(exc))
             return
         item = getattr(run, items)[row]
-        what = f"'{item.name}'" if hasattr(item, "name") else str(row + 1)
+        what = (f"'{item.name}'" if hasattr(item, "name") else
+                f"'{self.doc.context.catalogue.get(item.key).name}'" if items == "candidates" and
+                item.key in self.doc.context.catalogue else str(row + 1))
         self.doc.edit_run(self.current, new, f"Delete {ITEM_WORDS[items]} {what} of '{run.name}'")
 
     def _run_asked(self, what: str) -> None:

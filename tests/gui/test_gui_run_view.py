@@ -521,3 +521,57 @@ def test_a_project_without_runs_gets_one_from_the_menu(qtbot):
     # a new project has no rainfall relation: the run says so instead of a result
     assert "rainfall" in view.problem
     w.doc.undo_stack.setClean()
+
+
+def test_a_candidate_lining_is_chosen_from_the_catalogue_and_priced(demo_window, qtbot):
+    w = demo_window
+    view = shown(w, qtbot)
+    groups = dict(view.candidate_choices())
+    assert ("asphalt", "Asphalt") in [(k, label.split(",")[0]) for k, label in groups["Rigid"]]
+    assert all(label for entries in groups.values() for _k, label in entries)
+    view.add_candidate("asphalt", 0)
+    run = w.doc.project.runs[0]
+    assert [c.key for c in run.candidates] == ["grass_good_sod", "asphalt", "riprap", "concrete"]
+    settle(view, qtbot)
+    assert "unit cost" in view.problem and "Asphalt" in view.problem     # the catalogue has no price for it
+    table = view.inputs.candidates
+    type_in(table, 1, table.column_of("unit_cost"), "30")
+    settle(view, qtbot)
+    assert view.problem == ""
+    view.add_candidate("asphalt")
+    assert "already" in table.message.text()
+    table.table.setCurrentCell(1, 0)
+    table.remove_button.click()
+    assert [c.key for c in w.doc.project.runs[0].candidates] == ["grass_good_sod", "riprap", "concrete"]
+
+
+def test_the_add_button_of_the_candidates_offers_the_catalogue_with_the_present_ones_greyed(demo_window, qtbot):
+    w = demo_window
+    view = shown(w, qtbot)
+    view.inputs.candidates.table.setCurrentCell(2, 0)
+    view.inputs.candidates.add_button.click()
+    menu = view.candidate_menu
+    qtbot.waitUntil(menu.isVisible)
+    offered = {a.text(): a.isEnabled() for a in menu.actions() if not a.isSeparator()}
+    assert offered["Asphalt, rough"] is True and len(offered) == 19             # the shipped catalogue
+    greyed = [k for k, enabled in offered.items() if not enabled]               # the run's three candidates
+    assert len(greyed) == 3 and "Grass, sod-forming, good stand, about 150 mm tall" in greyed
+    next(a for a in menu.actions() if a.text().startswith("Gravel")).trigger()
+    menu.close()
+    assert [c.key for c in w.doc.project.runs[0].candidates] == ["grass_good_sod", "riprap", "concrete", "gravel"]
+
+
+def test_a_sub_area_spread_along_a_range_or_entering_at_one_station(demo_window, qtbot):
+    w = demo_window
+    view = shown(w, qtbot)
+    table = view.inputs.sub_areas
+    col = table.column_of("to_station")
+    assert table.table.item(0, col).text() == "330" and table.table.item(1, col).text() == ""
+    type_in(table, 1, col, "400")                                  # Pasture field A drains in from 0+180 to 0+400
+    assert w.doc.project.runs[0].sub_areas[1].to_station == 400.0
+    settle(view, qtbot)
+    assert view.problem == ""
+    type_in(table, 1, col, "")                                      # back to one station
+    assert w.doc.project.runs[0].sub_areas[1].to_station is None
+    type_in(table, 1, col, "900")
+    assert "≤ 700 m" in table.message.text() and w.doc.project.runs[0].sub_areas[1].to_station is None
