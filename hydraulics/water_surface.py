@@ -565,7 +565,40 @@ def water_surface(distance, bed, sections, n, flow, *, outfall="normal", outfall
         A step's energy balance did not reach HEAD_TOLERANCE.
     """
     x, z, secs, rough, qs = _inputs(distance, bed, sections, n, flow)
-    count = x.size
+    outfall, level, inlet = _checked_controls(outfall, outfall_level, inlet)
+    max_step = float(validate.positive("max_step", max_step))
+    step_tolerance = float(validate.number("step_tolerance", step_tolerance, low=0.0, high=0.1))
+    point_props = _point_props(x, z, secs, rough, qs)
+    nodes = _nodes(x, z, point_props, max_step)
+    down = _subcritical_pass(nodes, z[-1], outfall, level, step_tolerance)
+    up = _supercritical_pass(nodes, inlet, down.states, step_tolerance)
+    depth, branch = up.depth, up.branch
+    jumps = [_locate_jump(nodes[k], nodes[k + 1], up.states[k], down.states[k + 1], step_tolerance)
+             for k in range(len(nodes) - 1) if branch[k] == "sup" and branch[k + 1] == "sub"]
+    node_types = ["not computed" if not math.isfinite(depth[k]) else
+                  profile_type(depth[k], node.props.yn, node.props.yc, node.props.slope)
+                  for k, node in enumerate(nodes)]
+    point_nodes = [k for k, node in enumerate(nodes) if node.point >= 0]
+    points = _point_results(nodes, point_nodes, depth, branch, z, down.stop_at)
+    controls = {"outfall": _outfall_control(nodes, outfall, z[-1], down, depth, branch, points.messages[-1]),
+                "inlet": _inlet_control(nodes, inlet, z[0], up.states[0], depth, branch, points.messages[0]),
+                "critical_sections": sorted({nodes[k].x for k in range(1, len(nodes) - 1) if branch[k] == "crit"})}
+    _mark_jumps(jumps, x, points.messages)
+    d = depth[point_nodes]
+    return WaterSurface(
+        distance=x, bed=z, depth=d, water_surface=z + d, profile_type=[node_types[k] for k in point_nodes],
+        regime=points.regime, normal_depth=np.array([p.yn if p.slope > 0 and math.isfinite(p.yn) else math.nan
+                                                     for p in point_props]),
+        critical_depth=np.array([p.yc for p in point_props]), velocity=points.velocity, froude=points.froude,
+        energy=points.energy, messages=points.messages, stretch_types=_stretch_types(node_types, point_nodes),
+        jumps=jumps, controls=controls, notes=down.notes,
+        detail_distance=np.array([node.x for node in nodes]), detail_bed=np.array([node.z for node in nodes]),
+        detail_depth=depth, detail_profile_type=node_types)
+
+
+def _checked_controls(outfall, outfall_level, inlet):
+    """(outfall kind, outfall level or None, inlet) as given, or InputError saying what is wrong."""
+    level = None
     if outfall_level is not None:
         if outfall not in ("normal", "level"):
             raise InputError("outfall", f"is {outfall!r} but an outfall_level was given; use 'level' or leave it out")
@@ -580,24 +613,20 @@ def water_surface(distance, bed, sections, n, flow, *, outfall="normal", outfall
             raise InputError("inlet", f"must be 'normal', 'critical' or a depth in m, got {inlet!r}")
     else:
         inlet = float(validate.positive("inlet", inlet))
-    max_step = float(validate.positive("max_step", max_step))
-    step_tolerance = float(validate.number("step_tolerance", step_tolerance, low=0.0, high=0.1))
+    return outfall, level, inlet
 
+
+def _point_props(x, z, secs, rough, qs) -> list:
+    """The :class:`_Props` of each design point (equal ones shared) with critical and normal depth solved."""
     slopes = (z[:-1] - z[1:]) / np.diff(x)
     point_slope = np.append(slopes, slopes[-1])
-
-    # -- what applies at each point, shared between equal points
     shared, point_props, section_keys = {}, [], {}
-    for i in range(count):
+    for i in range(x.size):
         p = _Props(secs[i], rough[i], qs[i], float(point_slope[i]), i)
         if id(secs[i]) not in section_keys:  # sections of one shape and dimensions are one section
             section_keys[id(secs[i])] = repr(secs[i].to_dict())
-        p = shared.setdefault(p.key(section_keys[id(secs[i])]), p)
-        point_props.append(p)
-    props_list = list(shared.values())
-    notes = []
-    point_msgs = [[] for _ in range(count)]
-    for p in props_list:
+        point_props.append(shared.setdefault(p.key(section_keys[id(secs[i])]), p))
+    for p in shared.values():
         try:
             p.yc = float(solve_critical_depth(p.section, p.flow).depth)
         except NoSolutionError as exc:
@@ -613,10 +642,14 @@ def water_surface(distance, bed, sections, n, flow, *, outfall="normal", outfall
             except NoSolutionError as exc:
                 p.yn = math.inf
                 p.yn_note = str(exc)
+    return point_props
 
-    # -- computation nodes: each point, the steps of its stretch, and the upstream side of a change at the next point
+
+def _nodes(x, z, point_props, max_step) -> list:
+    """Computation nodes: each point, the steps of its stretch, and the upstream side of a change at the next
+    point."""
     nodes = []
-    for i in range(count - 1):
+    for i in range(x.size - 1):
         p = point_props[i]
         nodes.append(_Node(float(x[i]), float(z[i]), p, i))
         pieces = max(1, math.ceil((x[i + 1] - x[i]) / max_step - 1e-9))
@@ -625,12 +658,27 @@ def water_surface(distance, bed, sections, n, flow, *, outfall="normal", outfall
             nodes.append(_Node(float(x[i] + f * (x[i + 1] - x[i])), float(z[i] + f * (z[i + 1] - z[i])), p, -1))
         if point_props[i + 1] is not p:
             nodes.append(_Node(float(x[i + 1]), float(z[i + 1]), p, -2))
-    nodes.append(_Node(float(x[-1]), float(z[-1]), point_props[-1], count - 1))
-    size = len(nodes)
+    nodes.append(_Node(float(x[-1]), float(z[-1]), point_props[-1], x.size - 1))
+    return nodes
 
-    # -- subcritical pass, upstream from the outfall
+
+@dataclass
+class _Downstream:
+    """The subcritical pass: the state at each node, the outfall's depth, whether it lies below critical depth
+    (and so does not control), its message, where the profile rose above the section's top, and notes."""
+
+    states: list
+    y0: float
+    start: _State
+    below_critical: bool
+    message: str | None
+    stop_at: float | None
+    notes: list
+
+
+def _subcritical_pass(nodes, z_out, outfall, level, tol) -> _Downstream:
+    """The subcritical profile, computed upstream from the outfall control."""
     last = nodes[-1].props
-    controls = {}
     if outfall == "normal":
         if last.slope <= 0:
             raise InputError("outfall", f"normal depth needs a falling last stretch, its grade is {last.slope:g}; "
@@ -641,30 +689,30 @@ def water_surface(distance, bed, sections, n, flow, *, outfall="normal", outfall
     elif outfall == "critical":
         y0 = last.yc
     else:
-        y0 = level - z[-1]
-    control_msg = None
+        y0 = level - z_out
+    message = None
     below_critical = y0 <= last.yc and outfall != "critical"
     if outfall == "level" and below_critical:
-        control_msg = worded("the outfall water level {level} is below the critical-depth level {crit}: it does not "
-                             "control, the flow passes through critical depth at the outfall",
-                             level=(level, "length"), crit=(z[-1] + last.yc, "length"))
-        sub_start = _State(last.yc, _OK)
+        message = worded("the outfall water level {level} is below the critical-depth level {crit}: it does not "
+                         "control, the flow passes through critical depth at the outfall",
+                         level=(level, "length"), crit=(z_out + last.yc, "length"))
+        start = _State(last.yc, _OK)
     elif outfall == "normal" and below_critical:
-        sub_start = _State(last.yc, _CRIT)  # supercritical normal depth: no subcritical control at the outfall
-        control_msg = worded("normal depth at the outfall ({y}) is below critical depth ({yc}) on the steep last "
-                             "stretch: it does not control, the depth there is set from upstream",
-                             y=(y0, "length"), yc=(last.yc, "length"))
+        start = _State(last.yc, _CRIT)  # supercritical normal depth: no subcritical control at the outfall
+        message = worded("normal depth at the outfall ({y}) is below critical depth ({yc}) on the steep last "
+                         "stretch: it does not control, the depth there is set from upstream",
+                         y=(y0, "length"), yc=(last.yc, "length"))
     elif last.top is not None and y0 > last.top:
-        sub_start = _State(math.nan, _TOP)
-        control_msg = worded("the outfall water level {level} is above the top of the section ({top} deep): the "
-                             "flow there is not open-channel flow, and the water surface is not computed",
-                             level=(level, "length"), top=(last.top, "length"))
+        start = _State(math.nan, _TOP)
+        message = worded("the outfall water level {level} is above the top of the section ({top} deep): the "
+                         "flow there is not open-channel flow, and the water surface is not computed",
+                         level=(level, "length"), top=(last.top, "length"))
     else:
-        sub_start = _State(y0, _OK)
-    sub = [None] * size
-    sub[-1] = _state(last, sub_start.y, sub_start.status)
-    stop_at = x[-1] if sub_start.status == _TOP else None
-    for k in range(size - 2, -1, -1):
+        start = _State(y0, _OK)
+    sub = [None] * len(nodes)
+    sub[-1] = _state(last, start.y, start.status)
+    stop_at = nodes[-1].x if start.status == _TOP else None
+    for k in range(len(nodes) - 2, -1, -1):
         a, b = nodes[k], nodes[k + 1]
         known = sub[k + 1]
         if known.status == _TOP:
@@ -674,27 +722,40 @@ def water_surface(distance, bed, sections, n, flow, *, outfall="normal", outfall
             known = _state(b.props, b.props.yc, _CRIT)
         # Two nodes a step apart lie on one stretch and share its props; at a change at a point (a step of length
         # zero) the energy is carried onto the props of the node reached.
-        s = _advance(a.props, known, b.x, b.z, a.x, a.z, True, step_tolerance)
+        s = _advance(a.props, known, b.x, b.z, a.x, a.z, True, tol)
         if s.status == _TOP and stop_at is None:
             stop_at = a.x
         sub[k] = s
+    notes = []
     if stop_at is not None:
         notes.append(worded("the subcritical water surface rises above the top of the section at {at}: the profile "
                             "upstream of it is not computed", at=_at(stop_at)))
+    return _Downstream(sub, y0, start, below_critical, message, stop_at, notes)
 
-    # -- supercritical pass, downstream from the inlet, deciding at each node which profile governs. Supercritical
-    # flow goes on only from a node where it governs, or starts afresh from critical depth where the flow passes
-    # through it (a control); downstream of a jump it is gone until the next such control.
+
+@dataclass
+class _Upstream:
+    """The supercritical pass: its state at each node, and at each node the depth that governs and which profile
+    gave it ("sub", "sup", "crit" or "none")."""
+
+    states: list
+    depth: np.ndarray
+    branch: list
+
+
+def _supercritical_pass(nodes, inlet, sub, tol) -> _Upstream:
+    """The supercritical profile downstream from the inlet, deciding at each node which profile governs (the
+    larger specific force). Supercritical flow goes on only from a node where it governs, or starts afresh from
+    critical depth where the flow passes through it (a control); downstream of a jump it is gone until the next
+    such control."""
     first = nodes[0].props
     if inlet == "normal":
-        if first.slope > 0 and first.yn < first.yc:
-            start = _State(first.yn, _OK)
-        else:
-            start = _State(first.yc, _CRIT)
+        start = _State(first.yn, _OK) if first.slope > 0 and first.yn < first.yc else _State(first.yc, _CRIT)
     elif inlet == "critical":
         start = _State(first.yc, _OK)
     else:
         start = _State(inlet, _OK) if inlet < first.yc else _State(first.yc, _CRIT)
+    size = len(nodes)
     sup = [None] * size
     depth = np.full(size, math.nan)
     branch = [""] * size
@@ -705,7 +766,7 @@ def water_surface(distance, bed, sections, n, flow, *, outfall="normal", outfall
         elif branch[k - 1] in ("sup", "crit"):
             a = nodes[k - 1]
             known = sup[k - 1] if branch[k - 1] == "sup" else _state(a.props, a.props.yc, _CRIT)
-            u = _advance(p, known, a.x, a.z, node.x, node.z, False, step_tolerance)
+            u = _advance(p, known, a.x, a.z, node.x, node.z, False, tol)
         else:
             u = _State(p.yc, _CRIT)  # subcritical upstream, no control between: no supercritical flow here
         sup[k] = u
@@ -721,104 +782,111 @@ def water_surface(distance, bed, sections, n, flow, *, outfall="normal", outfall
         else:
             branch[k] = "crit"
         depth[k] = {"sub": s.y, "sup": u.y, "crit": p.yc, "none": math.nan}[branch[k]]
+    return _Upstream(sup, depth, branch)
 
-    # -- hydraulic jumps where the supercritical flow gives way to the subcritical
-    jumps = []
-    for k in range(size - 1):
-        if branch[k] == "sup" and branch[k + 1] == "sub":
-            jumps.append(_locate_jump(nodes[k], nodes[k + 1], sup[k], sub[k + 1], step_tolerance))
 
-    # -- per node: profile type; per point: the results
-    node_types = []
-    for k, node in enumerate(nodes):
-        p = node.props
-        node_types.append("not computed" if not math.isfinite(depth[k]) else
-                          profile_type(depth[k], p.yn, p.yc, p.slope))
-    point_nodes = [k for k, node in enumerate(nodes) if node.point >= 0]
-    d = depth[point_nodes]
-    regime, vel, fr, energy = [], np.full(count, math.nan), np.full(count, math.nan), np.full(count, math.nan)
+@dataclass
+class _Points:
+    """Per design point: regime, velocity, Froude number, energy level and messages."""
+
+    regime: list
+    velocity: np.ndarray
+    froude: np.ndarray
+    energy: np.ndarray
+    messages: list
+
+
+def _point_results(nodes, point_nodes, depth, branch, z, stop_at) -> _Points:
+    count = len(point_nodes)
+    out = _Points([], *(np.full(count, math.nan) for _ in range(3)), [[] for _ in range(count)])
     for i, k in enumerate(point_nodes):
         p = nodes[k].props
         if p.yn_note:
-            point_msgs[i].append("no normal depth: " + p.yn_note)
+            out.messages[i].append("no normal depth: " + p.yn_note)
         if not math.isfinite(depth[k]):
-            regime.append("not computed")
-            point_msgs[i].append(worded("not computed: the water surface downstream rises above the top of the "
-                                        "section (at {at})", at=_at(stop_at)))
+            out.regime.append("not computed")
+            out.messages[i].append(worded("not computed: the water surface downstream rises above the top of the "
+                                          "section (at {at})", at=_at(stop_at)))
             continue
         g = p.section._geometry(float(depth[k]))
-        vel[i] = p.flow / g.area
-        fr[i] = vel[i] / math.sqrt(G * g.area / g.top_width) if g.top_width > 0 else math.inf
-        energy[i] = z[i] + depth[k] + vel[i] ** 2 / (2 * G)
-        regime.append("critical" if branch[k] == "crit" or abs(fr[i] - 1) <= 1e-6 else
-                      "supercritical" if fr[i] > 1 else "subcritical")
+        out.velocity[i] = p.flow / g.area
+        out.froude[i] = out.velocity[i] / math.sqrt(G * g.area / g.top_width) if g.top_width > 0 else math.inf
+        out.energy[i] = z[i] + depth[k] + out.velocity[i] ** 2 / (2 * G)
+        out.regime.append("critical" if branch[k] == "crit" or abs(out.froude[i] - 1) <= 1e-6 else
+                          "supercritical" if out.froude[i] > 1 else "subcritical")
         if branch[k] == "crit" and 0 < i < count - 1:
-            point_msgs[i].append("the flow passes through critical depth here: a control, which sets the water "
-                                 "surface upstream (as where a milder stretch meets a steeper one)")
-    stretch_types = []
-    for i in range(count - 1):
+            out.messages[i].append("the flow passes through critical depth here: a control, which sets the water "
+                                   "surface upstream (as where a milder stretch meets a steeper one)")
+    return out
+
+
+def _stretch_types(node_types, point_nodes) -> list:
+    """The profile types met along each stretch between design points, in the order met."""
+    out = []
+    for a, b in zip(point_nodes, point_nodes[1:]):
         seen = []
-        for k in range(point_nodes[i], point_nodes[i + 1]):
-            t = node_types[k]
+        for t in node_types[a:b]:
             if t not in seen:
                 seen.append(t)
-        stretch_types.append(seen)
+        out.append(seen)
+    return out
 
-    # -- controls and what became of them
-    out_k, in_k = size - 1, 0
-    out_governs = branch[out_k] == "sub" and sub_start.status == _OK and not below_critical
-    if branch[out_k] == "sup" and outfall != "critical" and not below_critical:
+
+def _outfall_control(nodes, outfall, z_out, down, depth, branch, messages) -> dict:
+    """What the outfall control became; its message (if any) is added to the last point's ``messages``."""
+    last, k = nodes[-1].props, len(nodes) - 1
+    message = down.message
+    governs = branch[k] == "sub" and down.start.status == _OK and not down.below_critical
+    if branch[k] == "sup" and outfall != "critical" and not down.below_critical:
         what = "water level" if outfall == "level" else "normal depth"
         try:
-            y2 = sequent_depth(last.section, last.flow, float(depth[out_k]))
-            control_msg = worded("the {what} at the outfall cannot hold: the supercritical flow arriving there "
-                                 "(depth {y1}) would need a depth of {y2} to jump, so the jump forms beyond the "
-                                 "outfall", what=what, y1=(depth[out_k], "length"), y2=(y2, "length"))
+            y2 = sequent_depth(last.section, last.flow, float(depth[k]))
+            message = worded("the {what} at the outfall cannot hold: the supercritical flow arriving there "
+                             "(depth {y1}) would need a depth of {y2} to jump, so the jump forms beyond the "
+                             "outfall", what=what, y1=(depth[k], "length"), y2=(y2, "length"))
         except NoSolutionError as exc:
-            control_msg = worded("the {what} at the outfall cannot hold: the supercritical flow arriving there (depth "
-                                 "{y1}) keeps going; " + str(exc).replace("{", "{{").replace("}", "}}"), what=what,
-                                 y1=(depth[out_k], "length"))
-    controls["outfall"] = {"kind": outfall, "depth": float(y0), "level": float(z[-1] + y0),
-                           "governs": bool(out_governs), "message": control_msg}
-    if control_msg:
-        point_msgs[-1].append(control_msg)
+            message = worded("the {what} at the outfall cannot hold: the supercritical flow arriving there (depth "
+                             "{y1}) keeps going; " + str(exc).replace("{", "{{").replace("}", "}}"), what=what,
+                             y1=(depth[k], "length"))
+    if message:
+        messages.append(message)
+    return {"kind": outfall, "depth": float(down.y0), "level": float(z_out + down.y0), "governs": bool(governs),
+            "message": message}
+
+
+def _inlet_control(nodes, inlet, z_in, assumed, depth, branch, messages) -> dict:
+    """What the inlet control became (``assumed``: the supercritical state at the top); its message (if any) is
+    added to the first point's ``messages``."""
+    first = nodes[0].props
     inlet_depth = first.yn if inlet == "normal" else first.yc if inlet == "critical" else inlet
-    inlet_msg = None
-    in_governs = branch[in_k] == "sup"
-    if sup[in_k].status == _OK and branch[in_k] == "sub":
-        inlet_msg = worded("the supercritical inflow assumed at the top (depth {y}) is drowned by the water backed up "
-                           "from downstream (depth {y2}): a jump at or above the top of the run",
-                           y=(sup[in_k].y, "length"), y2=(depth[in_k], "length"))
+    message = None
+    if assumed.status == _OK and branch[0] == "sub":
+        message = worded("the supercritical inflow assumed at the top (depth {y}) is drowned by the water backed up "
+                         "from downstream (depth {y2}): a jump at or above the top of the run",
+                         y=(assumed.y, "length"), y2=(depth[0], "length"))
     elif isinstance(inlet, float) and inlet >= first.yc:
-        inlet_msg = worded("the depth {y} given at the top is not below critical depth ({yc}): it cannot control "
-                           "the flow from upstream; the depth there comes from downstream",
-                           y=(inlet, "length"), yc=(first.yc, "length"))
-    controls["inlet"] = {"kind": inlet if isinstance(inlet, str) else "depth",
-                         "depth": float(inlet_depth) if math.isfinite(inlet_depth) else math.nan,
-                         "level": float(z[0] + inlet_depth) if math.isfinite(inlet_depth) else math.nan,
-                         "governs": bool(in_governs), "message": inlet_msg}
-    if inlet_msg:
-        point_msgs[0].append(inlet_msg)
-    controls["critical_sections"] = sorted({nodes[k].x for k in range(1, size - 1) if branch[k] == "crit"})
+        message = worded("the depth {y} given at the top is not below critical depth ({yc}): it cannot control "
+                         "the flow from upstream; the depth there comes from downstream",
+                         y=(inlet, "length"), yc=(first.yc, "length"))
+    if message:
+        messages.append(message)
+    known = math.isfinite(inlet_depth)
+    return {"kind": inlet if isinstance(inlet, str) else "depth",
+            "depth": float(inlet_depth) if known else math.nan,
+            "level": float(z_in + inlet_depth) if known else math.nan,
+            "governs": bool(branch[0] == "sup"), "message": message}
 
-    # -- jumps: cautions at the points they cover
+
+def _mark_jumps(jumps, x, messages) -> None:
+    """A caution at each design point a jump covers."""
     for jump in jumps:
-        for i in range(count):
+        for i in range(x.size):
             if jump.distance <= x[i] <= jump.distance + jump.length:
-                point_msgs[i].append(worded("in the hydraulic jump from {a} to {b} ({kind}, Froude number {fr}): "
-                                            "turbulence and surface waves; the lining through and below the jump "
-                                            "needs protection", a=_at(jump.distance),
-                                            b=_at(jump.distance + jump.length), kind=jump.kind,
-                                            fr=f"{jump.froude:.2f}"))
-
-    yn_points = np.array([p.yn if p.slope > 0 and math.isfinite(p.yn) else math.nan for p in point_props])
-    return WaterSurface(
-        distance=x, bed=z, depth=d, water_surface=z + d, profile_type=[node_types[k] for k in point_nodes],
-        regime=regime, normal_depth=yn_points, critical_depth=np.array([p.yc for p in point_props]),
-        velocity=vel, froude=fr, energy=energy, messages=point_msgs, stretch_types=stretch_types, jumps=jumps,
-        controls=controls, notes=notes,
-        detail_distance=np.array([node.x for node in nodes]), detail_bed=np.array([node.z for node in nodes]),
-        detail_depth=depth, detail_profile_type=node_types)
+                messages[i].append(worded("in the hydraulic jump from {a} to {b} ({kind}, Froude number {fr}): "
+                                          "turbulence and surface waves; the lining through and below the jump "
+                                          "needs protection", a=_at(jump.distance),
+                                          b=_at(jump.distance + jump.length), kind=jump.kind,
+                                          fr=f"{jump.froude:.2f}"))
 
 
 def _jump_kind(fr):

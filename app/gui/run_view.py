@@ -163,6 +163,25 @@ class StationTableModel(QAbstractTableModel):
 
 
 # -- the inputs ---------------------------------------------------------------------------------------
+def message_line() -> QLabel:
+    """The line under an input that says why an entry was refused (hidden while there is nothing to say)."""
+    label = QLabel()
+    label.setObjectName("fieldMessage")
+    label.setWordWrap(True)
+    label.hide()
+    return label
+
+
+def typed_number(text: str, what: str) -> float:
+    """The number typed in ``text`` (the user's number format); ValueError naming ``what`` when it is none."""
+    try:
+        return parse_number(text)
+    except UnclearNumber as exc:
+        raise ValueError(f"{what}: {exc}") from None
+    except ValueError:
+        raise ValueError(f"{what}: '{text.strip()}' is not a number.") from None
+
+
 @dataclass(frozen=True)
 class Column:
     """One editable column of an input table: the run's item attribute, heading, quantity, allowed range."""
@@ -204,10 +223,7 @@ class InputTable(QWidget):
                                    | QAbstractItemView.EditTrigger.AnyKeyPressed)
         self.table.setTabKeyNavigation(False)    # Tab leaves the table: the view is walked by keyboard
         self.table.itemChanged.connect(self._changed)
-        self.message = QLabel()
-        self.message.setObjectName("fieldMessage")
-        self.message.setWordWrap(True)
-        self.message.hide()
+        self.message = message_line()
         lay = QVBoxLayout(self)
         lay.setContentsMargins(0, 0, 0, 0)
         lay.setSpacing(3)
@@ -430,12 +446,7 @@ class InputTable(QWidget):
             if c.optional:
                 return None
             raise ValueError(f"{where} is needed.")
-        try:
-            shown = parse_number(text)
-        except UnclearNumber as exc:
-            raise ValueError(f"{where}: {exc}") from None
-        except ValueError:
-            raise ValueError(f"{where}: '{text.strip()}' is not a number.") from None
+        shown = typed_number(text, where)
         unit = ""
         if c.quantity == "cost":
             value, unit = self.cost_to_si(row, shown), f" {self.cost_unit(row)}"
@@ -520,10 +531,7 @@ class OutfallInput(QWidget):
         self.level.setToolTip("The water-surface elevation at the outfall, such as a culvert's headwater or a "
                               "receiving stream's level (used with the control 'water level').")
         self.level_label = QLabel("Water level")
-        self.message = QLabel()
-        self.message.setObjectName("fieldMessage")
-        self.message.setWordWrap(True)
-        self.message.hide()
+        self.message = message_line()
         form = QFormLayout()
         form.setContentsMargins(0, 0, 0, 0)
         form.setSpacing(4)
@@ -593,12 +601,7 @@ class OutfallInput(QWidget):
         unit = pretty(self.units.label("length"))
         if not text.strip():
             raise ValueError("The outfall water level is needed: the control is a known water level.")
-        try:
-            shown = parse_number(text)
-        except UnclearNumber as exc:
-            raise ValueError(f"Outfall water level: {exc}") from None
-        except ValueError:
-            raise ValueError(f"Outfall water level: '{text.strip()}' is not a number.") from None
+        shown = typed_number(text, "Outfall water level")
         value = float(self.units.to_si("length", shown))
         invert = self.outfall_invert()
         if value <= invert:
@@ -641,10 +644,7 @@ class RunSettings(QWidget):
             self.fields[path] = edit
             self.labels[path] = QLabel(label)
             form.addRow(self.labels[path], edit)
-        self.message = QLabel()
-        self.message.setObjectName("fieldMessage")
-        self.message.setWordWrap(True)
-        self.message.hide()
+        self.message = message_line()
         lay = QVBoxLayout(self)
         lay.setContentsMargins(0, 0, 0, 0)
         lay.setSpacing(3)
@@ -694,12 +694,7 @@ class RunSettings(QWidget):
         _p, label, low, inclusive, _tip = next(f for f in self.FIELDS if f[0] == path)
         if not text.strip():
             raise ValueError(f"{label} is needed.")
-        try:
-            shown = parse_number(text)
-        except UnclearNumber as exc:
-            raise ValueError(f"{label}: {exc}") from None
-        except ValueError:
-            raise ValueError(f"{label}: '{text.strip()}' is not a number.") from None
+        shown = typed_number(text, label)
         if shown < low or (shown == low and not inclusive):
             raise ValueError(f"{label} must be {'≥' if inclusive else '>'} {format_number(low)} {self.unit(path)}; "
                              f"{text.strip()} is outside.")
