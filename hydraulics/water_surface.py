@@ -160,7 +160,8 @@ def _roughness(field_name, n, section):
     if callable(n):
         def checked(y, fn=n):
             value = fn(y)
-            if not (isinstance(value, Real) and math.isfinite(value) and 0 < value < 1):
+            # type() first: the abstract isinstance check is a tenth of a long profile's time
+            if not ((type(value) is float or isinstance(value, Real)) and math.isfinite(value) and 0 < value < 1):
                 raise InputError(field_name, f"n(depth) must give a number between 0 and 1, got {value!r} at "
                                              f"depth {y:.6g} m")
             return float(value)

@@ -339,8 +339,8 @@ class VegetationRoughness:
         return f"VegetationRoughness(density_stiffness={self.density_stiffness:g}, stem_height={self.stem_height:g})"
 
     def boundary_shear(self, section, depth, slope):
-        """Mean boundary shear tau_o = gamma R S [Pa]."""
-        g = section.properties(depth)
+        """Mean boundary shear tau_o = gamma R S [Pa]; no checks (solver use: the depth is the solver's own)."""
+        g = section._geometry(depth)
         return self.gamma_water * g.area / g.wetted_perimeter * slope
 
     def manning_n(self, section, depth, slope):
