@@ -110,6 +110,15 @@ STARTING_VALUES = (
 )
 
 
+def numbered(base: str, taken) -> str:
+    """``base``, or "base (2)", "base (3)"... the first not in ``taken`` (names of channels, runs, sub-areas)."""
+    name, k = base, 2
+    while name in taken:
+        name = f"{base} ({k})"
+        k += 1
+    return name
+
+
 def new_channel(units: str = "us", name: str = "Ditch 1") -> pj.Channel:
     """A new trapezoidal channel with the round starting values of the unit system ``units`` (stored in SI)."""
     system = hy.units.system(units)

@@ -18,6 +18,7 @@ import re
 from hydraulics.units import UnitSystem, system
 from hydraulics.wording import format_station, in_units, worded
 
+from .editing import numbered
 from .project import (OUTFALL_CONTROLS, Channel, FlowBasis, LiningChoice, Outfall, PointInflowInput, ProfilePoint,
                       Run, RunBend, RunCandidate, RunSection, SubAreaInput)
 
@@ -115,16 +116,6 @@ def _start(name: str, units: str) -> float:
     return float(system(units).to_si(quantity, shown)) if quantity else shown
 
 
-def _unique(base: str, taken) -> str:
-    taken = set(taken)
-    if base not in taken:
-        return base
-    k = 2
-    while f"{base} ({k})" in taken:
-        k += 1
-    return f"{base} ({k})"
-
-
 def with_item_added(run: Run, items: str, after: int | None = None, units: str = "si", item=None) -> Run:
     """A copy of ``run`` with one item added to the list ``items`` (a key of :data:`ADDABLE`) after item
     ``after`` (the last when None), to be edited in place; ``units`` picks round values for an item made from
@@ -160,7 +151,7 @@ def with_item_added(run: Run, items: str, after: int | None = None, units: str =
     elif seq:
         item = copy.deepcopy(seq[k])
         if hasattr(item, "name"):
-            item.name = _unique(item.name, (i.name for i in seq))
+            item.name = numbered(item.name, {i.name for i in seq})
         seq.insert(k + 1, item)
     elif items == "sub_areas":
         seq.append(SubAreaInput(name="Sub-area 1", area=_start("area", units),

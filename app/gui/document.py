@@ -18,7 +18,7 @@ import hydraulics as hy
 
 from .. import project as pj
 from ..context import Context
-from ..editing import new_channel, new_project, with_value
+from ..editing import new_channel, new_project, numbered, with_value
 from ..files import FileChangedError, FileStamp
 from . import commands as cmd
 
@@ -153,13 +153,8 @@ class ProjectDocument(QObject):
         added = []
         for ch in channels:
             ch = copy.deepcopy(ch)
-            base, k = ch.name.strip() or "Reach", 2
-            name = base
-            while name in names:
-                name = f"{base} ({k})"
-                k += 1
-            ch.name = name
-            names.add(name)
+            ch.name = numbered(ch.name.strip() or "Reach", names)
+            names.add(ch.name)
             added.append(ch)
         if added:
             self.undo_stack.push(cmd.AddChannels(self, added, text))
@@ -171,11 +166,7 @@ class ProjectDocument(QObject):
         added = []
         for run in runs:
             run = copy.deepcopy(run)
-            base, k = run.name.strip() or "Run", 2
-            run.name = base
-            while run.name in names:
-                run.name = f"{base} ({k})"
-                k += 1
+            run.name = numbered(run.name.strip() or "Run", names)
             names.add(run.name)
             added.append(run)
         if added:
@@ -209,12 +200,7 @@ class ProjectDocument(QObject):
         """Append ``channel`` (a name already in use gets a number) and make it current, in one undoable step.
         Returns its name."""
         ch = copy.deepcopy(channel)
-        names = {c.name for c in self.project.channels}
-        base, k = ch.name.strip() or "Ditch", 2
-        ch.name = base
-        while ch.name in names:
-            ch.name = f"{base} ({k})"
-            k += 1
+        ch.name = numbered(ch.name.strip() or "Ditch", {c.name for c in self.project.channels})
         self.undo_stack.push(cmd.AddChannel(self, len(self.project.channels), ch, text))
         return ch.name
 

@@ -262,6 +262,25 @@ class NotesEdit(_UndoGoesToWindow, QPlainTextEdit):
             self.setPlainText(text)
 
 
+def message_line() -> QLabel:
+    """The line under an input that says why an entry was refused (hidden while there is nothing to say)."""
+    label = QLabel()
+    label.setObjectName("fieldMessage")
+    label.setWordWrap(True)
+    label.hide()
+    return label
+
+
+def typed_number(text: str, what: str) -> float:
+    """The number typed in ``text`` (the user's number format); ValueError naming ``what`` when it is none."""
+    try:
+        return parse_number(text)
+    except UnclearNumber as exc:
+        raise ValueError(f"{what}: {exc}") from None
+    except ValueError:
+        raise ValueError(f"{what}: '{text.strip()}' is not a number.") from None
+
+
 def set_invalid(widget, invalid: bool) -> None:
     """Mark a widget (the style sheet draws ``[invalid="true"]`` in red).
 
@@ -304,12 +323,9 @@ class NumberField(QObject):
         self.suffix = QLabel()
         self.suffix.setObjectName("unitSuffix")
         self.suffix.setMinimumWidth(48)
-        self.message = QLabel()
-        self.message.setObjectName("fieldMessage")
-        self.message.setWordWrap(True)
+        self.message = message_line()
         self.message.setTextFormat(Qt.TextFormat.RichText)
         self.message.linkActivated.connect(self._use_reading)
-        self.message.hide()
         self._error = ""
         self.offered = None        # a reading the message offers (a slope typed as a percentage), or None
         if spec.tip:

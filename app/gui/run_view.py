@@ -37,8 +37,8 @@ from ..run_editing import (ADDABLE, OUTFALL_LEVEL_PATH, RUN_ITEMS, RUN_SETTINGS,
                            with_outfall_control, with_run_value)
 from ..verdicts import Verdict
 from .document import ProjectDocument
-from .fields import (LineEdit, UnclearNumber, format_number, keep_units_whole, number_marks, parse_number, pretty,
-                     sentence, set_invalid)
+from .fields import (LineEdit, format_number, keep_units_whole, message_line, number_marks, pretty, sentence,
+                     set_invalid, typed_number)
 from .results_view import CAUTION, _escape
 from .run_plot import ProfilePicture
 from .tasks import Task
@@ -163,25 +163,6 @@ class StationTableModel(QAbstractTableModel):
 
 
 # -- the inputs ---------------------------------------------------------------------------------------
-def message_line() -> QLabel:
-    """The line under an input that says why an entry was refused (hidden while there is nothing to say)."""
-    label = QLabel()
-    label.setObjectName("fieldMessage")
-    label.setWordWrap(True)
-    label.hide()
-    return label
-
-
-def typed_number(text: str, what: str) -> float:
-    """The number typed in ``text`` (the user's number format); ValueError naming ``what`` when it is none."""
-    try:
-        return parse_number(text)
-    except UnclearNumber as exc:
-        raise ValueError(f"{what}: {exc}") from None
-    except ValueError:
-        raise ValueError(f"{what}: '{text.strip()}' is not a number.") from None
-
-
 @dataclass(frozen=True)
 class Column:
     """One editable column of an input table: the run's item attribute, heading, quantity, allowed range."""

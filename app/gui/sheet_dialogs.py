@@ -23,6 +23,7 @@ from PySide6.QtWidgets import (QButtonGroup, QCheckBox, QComboBox, QDialog, QDia
                                QPlainTextEdit, QPushButton, QRadioButton, QVBoxLayout, QWidget)
 
 from .. import project as pj
+from .fields import message_line
 from .screen_fit import fit_to_screen, scrolling
 from .style import STYLE
 
@@ -39,14 +40,6 @@ def _hint(text: str) -> QLabel:
     label = QLabel(text)
     label.setObjectName("hint")
     label.setWordWrap(True)
-    return label
-
-
-def _message() -> QLabel:
-    label = QLabel()
-    label.setObjectName("fieldMessage")
-    label.setWordWrap(True)
-    label.hide()
     return label
 
 
@@ -286,7 +279,7 @@ class ExportSheetDialog(QDialog):
                             "local codes."))
         lay.addStretch(1)
         outer.addWidget(scrolling(body), 1)     # a short screen scrolls the form; the buttons stay in view
-        self.message = _message()               # what is missing, next to the buttons where it is seen
+        self.message = message_line()          # what is missing, next to the buttons where it is seen
         outer.addWidget(self.message)
         buttons = QDialogButtonBox(QDialogButtonBox.StandardButton.Cancel)
         self.export_button = buttons.addButton("Export", QDialogButtonBox.ButtonRole.AcceptRole)
