@@ -107,6 +107,9 @@ READ_IN = {
                 "climate-policy-watcher.org/drinking-water-2/v-2-y1-y2-lw-1.html",
     "cef-12.17": "Civil Engineering Formulas (McGraw-Hill), p. 323, Fig. 12.17, in the copy at "
                  "digilib.universitaspertamina.ac.id (page 395 of the file)",
+    "fhwa-ch3-2008": "FHWA web edition of HEC-15, Chapter 3, its opening (the chapter's introduction and Section 3.1 "
+                     "to Eq. 3.1 written out in words), archived copy of 2008 (webarchive.library.unt.edu/eot2008/"
+                     "20081109021927/http:/www.fhwa.dot.gov/engineering/hydraulics/pubs/05114/hec1503.cfm)",
 }
 
 
@@ -145,8 +148,9 @@ REGISTER: dict = _entries(
               "on very steep grades splash and surge need special freeboard",
               "HEC-15 Section 2.1.1", ("fhwa-ch2",)),
     Published("design_shear", "design shear at the maximum depth", "tau_d = gamma d So, d the maximum depth",
-              "HEC-15 Eq. 3.1", ("restated-6.2", "hec22-ch5"),
-              "HEC-22 (2009) gives it as Eq. 5-13, d the maximum depth of flow"),
+              "HEC-15 Eq. 3.1", ("fhwa-ch3-2008", "restated-6.2", "hec22-ch5"),
+              "HEC-15 Section 3.1: \"tau sub d equals gamma times d times S sub o (3.1)\", tau_d the \"shear stress in "
+              "channel at maximum depth\"; HEC-22 (2009) gives it as Eq. 5-13, d the maximum depth of flow"),
     Published("stability_criterion", "stability criterion", "tau_p >= SF tau_d", "HEC-15 Eq. 3.2",
               ("restated-6.2", "hec22-ch5"), "HEC-22 (2009) p. 5-14: SF typically ranges from 1.0 to 1.5"),
     Published("gamma_water", "unit weight of water", "9,810 N/m^3 (62.4 lb/ft^3)", "HEC-15 Eq. 6.7",
@@ -154,9 +158,12 @@ REGISTER: dict = _entries(
     Published("gravity", "acceleration of gravity", "9.81 m/s^2 (32.2 ft/s^2)", "HEC-15 Eq. 6.2",
               ("fhwa-ch6",),
               "the program uses the standard 9.80665 m/s^2, 0.03 % apart"),
-    Published("side_factor", "ratio of side to bed shear K1", "K1 by side slope Z", "HEC-15 Section 3.3", (),
-              "HEC-22 (2009) Section 5.1.7 gives K1 only as its Chart 17, a chart with no relation in the text; "
-              "the relation the program uses has not been read"),
+    Published("side_factor", "ratio of side to bed shear K1", "K1 by side slope Z", "HEC-15 Section 3.2", (),
+              "the section number follows the order the chapter's opening states (read, HEC-15 Chapter 3: after 3.1 "
+              "straight channels \"side slope stability, composite linings, and bends\", then the two sections on "
+              "steep slopes and the maximum discharge); the section itself was not read. HEC-22 (2009) Section 5.1.7 "
+              "gives K1 only as its Chart 17, a chart with no relation in the text; the relation the program uses "
+              "(0.77 for Z <= 1.5, 0.066 Z + 0.67 between, 1.0 for Z >= 5; continuous at both ends) has not been read"),
     Published("side_stone_size", "stone size on the side slopes",
               "(D50)sides = (K1 / K2) (D50)bottom; with gravel or riprap on sides steeper than 3:1 the side slope "
               "stability based on the angle of repose must be considered", "HEC-22 (2009) Eq. 5-14 and Section 5.1.7",
@@ -198,10 +205,21 @@ REGISTER: dict = _entries(
               "n = alpha da^(1/6) / (sqrt(g) f(Fr) f(REG) f(CG)), alpha 1.0 SI (1.49 CU); 0.3 < da/D50 < 8.0",
               "HEC-15 Eq. 6.2", ("fhwa-ch6",)),
     Published("bathurst_terms", "terms of Bathurst's relation", "f(Fr), f(REG), f(CG) and b",
-              "HEC-15 Eqs. 6.3 to 6.6"),
+              "HEC-15 Eqs. 6.3 to 6.6", (),
+              "read in HEC-15 Section 6.1: the three terms \"represent functions of Froude number, roughness element "
+              "geometry, and channel geometry\" (Eqs. 6.3 to 6.5, T the channel top width) and b (Eq. 6.6) \"describes "
+              "the relationship between effective roughness concentration and relative submergence of the roughness "
+              "bed\"; the four equations are images in every copy read, so the program's expressions are not verified"),
     Published("relation_choice", "which stone roughness relation applies",
-              "Blodgett for 1.5 <= da/D50 <= 185, Bathurst for 0.3 < da/D50 < 8.0",
-              "HEC-15 Section 6.1"),
+              "Eq. 6.1 (Blodgett) \"applicable for the range of conditions where 1.5 <= da/D50 <= 185\"; below the "
+              "lower end of this range \"protrusion of individual riprap elements into the flow field significantly "
+              "changes the roughness relationship\" and Bathurst's relation (Eq. 6.2, 0.3 < da/D50 < 8.0) \"addresses "
+              "these conditions\"",
+              "HEC-15 Section 6.1", ("fhwa-ch6",),
+              "the program takes Bathurst's n below da/D50 = 1.5 and Blodgett's from 1.5 up, passing from one to the "
+              "other over 1.5 to 1.53 (a rule of the program); the sentence that follows in the circular "
+              "(\"Equations 6.1 and 6.2 both ...\") is cut off in the copy read, so any further rule for the overlap "
+              "1.5 to 8.0 is not read"),
     Published("stone_shear", "permissible shear of stone", "tau_p = F* (gamma_s - gamma) D50", "HEC-15 Eq. 6.7",
               ("restated-6.2",)),
     Published("gamma_stone", "unit weight of stone", "typically 25,900 N/m^3 (165 lb/ft^3); the site value where known",

@@ -2,7 +2,7 @@
 
 Steps 2 to 4 of :mod:`hydraulics.stability` (HEC-15, 3rd ed., Chapter 3):
 design shear tau_d = gamma d S at the maximum depth (Eq. 3.1), on the side
-slopes K1 tau_d (Section 3.3) and in a bend Kb tau_d (Section 3.4); the
+slopes K1 tau_d (Section 3.2) and in a bend Kb tau_d (Section 3.4); the
 lining's permissible shear (stone: Eq. 6.7 with Table 6.1 at the particle
 Reynolds number, K2 on side slopes, Appendix D on steep slopes; grass and soil:
 Chapter 4; rolled products: the user's data-sheet value; gabion mattresses:
@@ -268,7 +268,7 @@ def _stone_side(bed: _BedResistance, lining, z, applies, design, y, s, incipient
 
 
 def _side_checks(lining, stone, bed: _BedResistance, tau, y, s, left_slope, right_slope, size, incipient) -> list:
-    """The left and right side slopes: design shear K1 tau_d (HEC-15 Section 3.3) against the side's resistance."""
+    """The left and right side slopes: design shear K1 tau_d (HEC-15 Section 3.2) against the side's resistance."""
     z1 = _side_array("left_slope", left_slope, size)
     z2 = z1 if right_slope is None else _side_array("right_slope", right_slope, size)
     same = (z1 == z2) | (np.isnan(z1) & np.isnan(z2))

@@ -12,8 +12,9 @@ import warnings
 import numpy as np
 import pytest
 
+import hydraulics as hy
 from hydraulics.errors import InputError, NoSolutionError
-from hydraulics.linings import ValidityWarning, hec15
+from hydraulics.linings import StoneRoughness, ValidityWarning, hec15
 
 FT = 0.3048  # m, exact
 PSF = 0.45359237 * 9.80665 / FT ** 2  # Pa per lb/ft^2
@@ -208,6 +209,30 @@ def test_bend_protection_length_si_and_customary_agree():
 def test_design_shear_eq_3_1():
     # HEC-15 Eq. 3.1 (verified): tau_d = gamma d S with gamma = 9810 N/m^3.
     assert hec15.design_shear(0.5, 0.01) == pytest.approx(9810 * 0.5 * 0.01, rel=1e-12)
+
+
+@pytest.mark.parametrize("ratio, relation", [
+    (1.2, "bathurst"),    # below the lower end of Eq. 6.1's range, inside Eq. 6.2's 0.3 < da/D50 < 8.0
+    (1.49, "bathurst"),
+    (1.56, "blodgett"),   # inside 1.5 <= da/D50 <= 185 (past the program's 1.5-1.53 blend)
+    (7.9, "blodgett"),    # both ranges hold: Eq. 6.1 applies (the circular's further words on the overlap not read)
+    (185.0, "blodgett"),
+])
+def test_relation_choice_follows_section_6_1(ratio, relation):
+    """HEC-15 Section 6.1 (verified, FHWA web edition hec1506.cfm): "Equation 6.1 is applicable for the range of
+    conditions where 1.5 <= da/D50 <= 185"; below "the lower end of this range" the riprap's protrusion changes the
+    roughness and "The relationship described by Bathurst (1991) addresses these conditions" (Eq. 6.2,
+    0.3 < da/D50 < 8.0). In a rectangle da is the depth; a narrow one keeps Bathurst's relation usable (its
+    exponent p of Eq. 6.3 well below 1), so no rule of the program stands in for it."""
+    d50 = 0.1
+    section = hy.Rectangle(bottom_width=1.0)
+    depth = ratio * d50
+    rough = StoneRoughness(d50)
+    assert rough.relation(section, depth, 0.02) == relation
+    g = section.properties(depth)
+    expected = (hec15._blodgett_n(g.area / g.top_width, d50) if relation == "blodgett" else
+                hec15._bathurst_n_manning(g.area / g.top_width, d50, g.top_width, g.area / g.wetted_perimeter, 0.02))
+    assert rough.manning_n(section, depth, 0.02) == pytest.approx(expected, rel=1e-12)
 
 
 # --------------------------------------------------------------- side slopes and steep slopes

@@ -3,7 +3,7 @@ one-channel path it stands for.
 
 The run screens every candidate at every design point with the array forms of HEC-15's permissible-shear method
 (Kilgore and Cotton, HEC-15, 3rd ed., FHWA-NHI-05-114, 2005: Eq. 3.1 design shear, Eq. 3.2 tau_p >= SF tau,
-Section 3.3 side slopes, Section 3.4 bends, Chapter 4 grass and soil, Chapter 6 stone) and times the travel down the
+Section 3.2 side slopes, Section 3.4 bends, Chapter 4 grass and soil, Chapter 6 stone) and times the travel down the
 ditch with array solves of Manning's equation. Here every screened number must be the one
 hydraulics.stability.check_lining gives for that channel (within 1e-9 relative, the verdict exactly, the same words
 where a check cannot be made), and every travel velocity the one the rule gives point by point with scalar solves.

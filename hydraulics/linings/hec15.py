@@ -128,7 +128,7 @@ def design_shear(depth, slope, gamma_water=GAMMA_WATER):
 
     References
     ----------
-    HEC-15 Eq. 3.1 (verified as quoted in Section 6.2).
+    HEC-15 Eq. 3.1 (verified: read in Section 3.1 and as quoted in Section 6.2).
     """
     d = validate.positive("depth", depth)
     s = validate.slope(slope)
@@ -155,15 +155,16 @@ def side_slope_factor(side_slope):
 
     Notes
     -----
-    HEC-15 Section 3.3, side slope stability; not verified against the
-    circular (provenance: ``side_factor``; the section could not be read in
-    the copies searched). The three pieces meet at Z = 1.5 (0.769) and
+    HEC-15 Section 3.2, side slope stability (the number follows the order the
+    chapter's opening states); not verified against the circular
+    (provenance: ``side_factor``; the section could not be read in the copies
+    searched). The three pieces meet at Z = 1.5 (0.769) and
     Z = 5 (1.000), a consistency check on the coefficients.
     Z = 0 (vertical walls) is given 0.77 as the steepest tabulated case.
 
     References
     ----------
-    HEC-15 Section 3.3 (provenance: ``side_factor``).
+    HEC-15 Section 3.2 (provenance: ``side_factor``).
     """
     z = validate.non_negative("side_slope", side_slope)
     if _vec(z):
