@@ -29,6 +29,8 @@ TxDOT HDM: Texas Department of Transportation, *Hydraulic Design Manual*
 Freeman and Fischenich (2000): Freeman, G. E. and Fischenich, J. C., *Gabions for
 Streambank Erosion Control*, U.S. Army Engineer Research and Development Center,
 ERDC TN-EMRRP-SR-22, May 2000.
+Fischenich (2001): Fischenich, C., *Stability Thresholds for Stream Restoration
+Materials*, technical note, May 2001.
 Campos et al. (2020): Campos, J. N. B., Studart, T. M. de C., de Souza Filho,
 F. de A. and Porto, V. C., "On the rainfall intensity-duration-frequency
 curves, partial-area effect and the rational method: theory and the
@@ -110,6 +112,9 @@ READ_IN = {
     "fhwa-ch3-2008": "FHWA web edition of HEC-15, Chapter 3, its opening (the chapter's introduction and Section 3.1 "
                      "to Eq. 3.1 written out in words), archived copy of 2008 (webarchive.library.unt.edu/eot2008/"
                      "20081109021927/http:/www.fhwa.dot.gov/engineering/hydraulics/pubs/05114/hec1503.cfm)",
+    "erdc-thresholds": "Fischenich, C., \"Stability Thresholds for Stream Restoration Materials\", technical note, "
+                       "May 2001, its Overview (copy at paperzz.com/doc/8811080/stability-thresholds-for-stream-"
+                       "restoration-materials)",
 }
 
 
@@ -256,13 +261,39 @@ REGISTER: dict = _entries(
     Published("table_2_3_gravel", "gravel mulch of the table of typical permissible shear",
               "coarse gravel 25 mm: 19 N/m^2", "HEC-15 Table 2.3"),
     # ---------------------------------------------------------------- HEC-15 Chapter 4
-    Published("grass_n", "Manning's n of grass", "n = alpha Cn tau_o^-0.4", "HEC-15 Section 4.1"),
-    Published("grass_cn", "grass roughness coefficient", "Cn = 0.35 Cs^0.10 h^0.528 (SI)", "HEC-15 Section 4.1"),
+    Published("grass_n_varies", "roughness of a grass lining",
+              "grass stems bend as flow depth and shear stress increase, so \"a grass-lined channel cannot be "
+              "described by a single roughness coefficient\"; the resistance equation is that of Kouwen's model "
+              "(Appendix C.2), which \"uses the same vegetation properties as the SCS retardance approach\"",
+              "HEC-15 Chapter 4", ("fhwa-ch4",),
+              "why the program computes a grass lining's n at each depth from the boundary shear there (grass_n). The "
+              "same opening names Table 4.1, retardance classes A (highest resistance to flow) to E (lowest), \"a "
+              "function of the height and density of the grass cover\"; the program describes a stand by Cs and stem "
+              "height instead and uses no retardance class. Only the chapter's opening is held in the stored copies: "
+              "Sections 4.1 to 4.5, their tables and design examples were not reached"),
+    Published("grass_n", "Manning's n of grass", "n = alpha Cn tau_o^-0.4", "HEC-15 Section 4.1", (),
+              "alpha 1.0 (SI, tau_o in Pa) and 0.213 (CU, lb/ft^2) give the same n for the same Cn (0.213 x "
+              "47.88^0.4 = 1.001); the equation itself was not read"),
+    Published("grass_cn", "grass roughness coefficient", "Cn = 0.35 Cs^0.10 h^0.528 (SI)", "HEC-15 Section 4.1", (),
+              "not read. Since n takes one Cn in both unit systems (grass_n), Cn is the same number in both; with one "
+              "Cs for both, the SI constant is the customary one times (1/0.3048)^0.528 = 1.873: 0.35 SI goes with "
+              "0.187 CU, and the customary 0.237 that issue 12 names would mean 0.444 SI (Cn and n 27 % higher, the "
+              "grass tau_p 61 % higher at the same shear). The program keeps 0.35 until the circular is read"),
     Published("table_4_3", "density-stiffness coefficient Cs by stand condition",
               "excellent 580, very good 290, good 106, fair 24, poor 8.6", "HEC-15 Table 4.3"),
     Published("table_4_5", "cover factor CF by growth form and condition", "0.98 to 0.50", "HEC-15 Table 4.5"),
     Published("grass_shear", "permissible shear of a grass lining",
-              "tau_p = tau_p,soil / (1 - CF) (n / ns)^2", "HEC-15 Section 4.2"),
+              "tau_p = tau_p,soil / (1 - CF) (n / ns)^2", "HEC-15 Section 4.2", (),
+              "not read. At CF 0.98 (sod, excellent) 1 / (1 - CF) is 50: the shipped excellent sod on fine soil gets "
+              "about 1,950 Pa at 0.3 m^3/s on 1 % in a 1 m, 3:1 trapezoid; the program warns above the range "
+              "published for vegetated soils (vegetated_shear_range)"),
+    Published("vegetated_shear_range", "permissible shear published for vegetated soils",
+              "\"vegetated soils (0.5 – 4 lb/sf)\", against \"generally < 0.25 lb/sf\" for \"soils found in channel "
+              "beds and banks\" and \"< 13 lb/sf\" for hard armoring",
+              "Fischenich (2001), Stability Thresholds for Stream Restoration Materials",
+              ("erdc-thresholds",),
+              "not part of HEC-15: a plausibility bound; a grass lining's tau_p above 4 lb/ft^2 (192 Pa) is "
+              "reported with a warning, the verdict is unchanged"),
     Published("soil_n", "grain roughness of soil", "ns = 0.016 for D75 < 1.3 mm; 0.015 D75^(1/6) above (D75 in mm)",
               "HEC-15 Section 4.3"),
     Published("soil_noncohesive", "permissible shear of non-cohesive soil",

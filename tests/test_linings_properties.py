@@ -102,7 +102,9 @@ def test_coupled_normal_depth_exists_and_satisfies_manning_with_its_own_n(b, z, 
 @given(st.floats(0.5, 20.0), st.floats(0.0, 0.98), st.floats(0.016, 0.3))
 def test_grass_cover_raises_the_permissible_shear(tp_soil, cf, n):
     # HEC-15 Section 4.2: tau_p = tau_p,soil / (1 - CF) (n / ns)^2 >= tau_p,soil when n >= ns
-    assert hec15.vegetation_permissible_shear(tp_soil, cf, n, 0.016) >= tp_soil * (1 - 1e-12)
+    with warnings.catch_warnings():
+        warnings.simplefilter("ignore", ValidityWarning)   # above the range published for vegetated soils
+        assert hec15.vegetation_permissible_shear(tp_soil, cf, n, 0.016) >= tp_soil * (1 - 1e-12)
 
 
 @given(st.lists(st.floats(0.0, 1e4, allow_nan=False), min_size=1, max_size=5))

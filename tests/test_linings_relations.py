@@ -338,6 +338,19 @@ def test_grass_and_soil_permissible_round_trip():
     assert hec15.effective_soil_shear(tp, 0.9, 0.05, 0.016) == pytest.approx(1.0, rel=1e-12)
 
 
+def test_grass_permissible_shear_warns_above_the_range_published_for_vegetated_soils():
+    """Fischenich, C., Stability Thresholds for Stream Restoration Materials (May 2001), Overview: "vegetated soils
+    (0.5 - 4 lb/sf)". The bound is that range; the value is returned as computed, with a ValidityWarning above it."""
+    lo, hi = hec15.VEGETATED_SHEAR_RANGE
+    assert lo == pytest.approx(0.5 * PSF, rel=1e-12) and hi == pytest.approx(4.0 * PSF, rel=1e-12)
+    with pytest.warns(hec15.ValidityWarning, match="vegetated soils"):
+        tp = hec15.vegetation_permissible_shear(1.0, 0.98, 0.06, 0.016)
+    assert tp == pytest.approx(1.0 / 0.02 * (0.06 / 0.016) ** 2)
+    with warnings.catch_warnings():
+        warnings.simplefilter("error", hec15.ValidityWarning)
+        assert hec15.vegetation_permissible_shear(1.0, 0.9, 0.05, 0.016) < hi
+
+
 def test_cover_factor_table():
     # HEC-15 Table 4.5 (not verified): sod, good stand = 0.90; bunch is lower than sod.
     assert hec15.cover_factor("sod", "good") == 0.90

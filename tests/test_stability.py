@@ -281,6 +281,22 @@ def test_grass_permissible_shear_from_soil_and_cover(cat):
         assert r.depth == pytest.approx(manning_depth(section, 0.6, 0.01, lin.roughness()), rel=1e-8)
 
 
+def test_excellent_sod_on_fine_soil_is_flagged_above_the_published_range_for_vegetated_soils(cat):
+    """Fischenich, C., Stability Thresholds for Stream Restoration Materials (May 2001), Overview: "vegetated soils
+    (0.5 - 4 lb/sf)", "hard armoring (< 13 lb/sf)". HEC-15 Section 4.2 (not verified) with CF 0.98 (Table 4.5, not
+    verified) gives the shipped excellent sod on fine soil more than three times the hard-armouring figure: the
+    result carries a warning naming the published range, in both unit systems; a good stand inside it does not."""
+    section = hy.Trapezoid(bottom_width=1.0, side_slope=3.0)
+    r = check_lining(section, 0.3, 0.01, cat.get("grass_excellent_sod"))
+    assert r.permissible_shear > 13 * PSF
+    flagged = [w for w in r.warnings if "vegetated soils" in w]
+    assert len(flagged) == 1 and "Fischenich, 2001" in flagged[0]
+    assert "is above 192 Pa, the top of the range" in flagged[0]
+    assert "4.00 lb/ft^2" in in_units(flagged[0], US)
+    good = check_lining(section, 0.3, 0.01, cat.get("grass_good_sod"))
+    assert good.permissible_shear < 4 * PSF and not [w for w in good.warnings if "vegetated soils" in w]
+
+
 def test_bare_fine_soil(cat):
     r = check_lining(hy.Trapezoid(bottom_width=1.0, side_slope=3.0), 0.3, 0.002, cat.get("soil_fine_noncohesive"))
     assert r.permissible_shear == pytest.approx(1.0)  # HEC-15 Section 4.3 (not verified): 1.0 Pa below D75 1.3 mm

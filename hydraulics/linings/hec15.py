@@ -31,6 +31,7 @@ from ..roots import brentq
 from .. import validate
 from ..constants import G, GAMMA_WATER
 from ..errors import InputError, NoSolutionError
+from ..units import PSF
 from ..wording import worded
 
 __all__ = [
@@ -44,7 +45,7 @@ __all__ = [
     "stone_layer_thickness", "DENSITY_STIFFNESS", "COVER_FACTOR", "cover_factor",
     "grass_roughness_coefficient", "vegetation_n", "soil_grain_n", "noncohesive_permissible_shear",
     "COHESIVE_COEFFICIENTS", "cohesive_permissible_shear", "effective_soil_shear",
-    "vegetation_permissible_shear", "RECP_CLASSES", "recp_typical_n", "recp_data_sheet_n",
+    "vegetation_permissible_shear", "VEGETATED_SHEAR_RANGE", "RECP_CLASSES", "recp_typical_n", "recp_data_sheet_n",
     "MATTRESS_THICKNESS_RANGE", "GABION_FILL_FRACTION", "gabion_fill_check", "superelevation", "freeboard",
 ]
 
@@ -1082,7 +1083,11 @@ def grass_roughness_coefficient(density_stiffness, stem_height):
     Notes
     -----
     HEC-15 Section 4.1, after Kouwen's model; not verified (provenance: ``grass_cn``). The
-    SI constant 0.35 could not be checked against the customary one.
+    SI constant 0.35 could not be checked against the customary one. Since
+    :func:`vegetation_n` gives one n for one Cn in either unit system, Cn must
+    be the same number in both; with the same Cs in both, the SI constant is
+    the customary one times (1 / 0.3048)^0.528 = 1.873, so 0.35 SI goes with
+    0.187 customary (a customary 0.237 would mean 0.444 SI, a Cn 27 % higher).
 
     References
     ----------
@@ -1118,7 +1123,12 @@ def vegetation_n(roughness_coefficient, boundary_shear):
     -----
     HEC-15 Section 4.1, not verified (provenance: ``grass_n``): alpha = 1.0
     SI and 0.213 CU; the two differ by 47.88^0.4 = 4.70, the pascal-to-lb/ft^2
-    factor to the power 0.4, a consistency check.
+    factor to the power 0.4, a consistency check. Read in the circular's
+    Chapter 4 (provenance: ``grass_n_varies``): grass stems bend as depth and
+    shear grow, so "a grass-lined channel cannot be described by a single
+    roughness coefficient"; the resistance equation follows Kouwen's model
+    (its Appendix C.2). Hence n is computed at each depth from the boundary
+    shear there.
 
     References
     ----------
@@ -1303,6 +1313,12 @@ def effective_soil_shear(design_shear_value, cover, n, n_soil):
     return tau * (1.0 - cf) * (ns / nv) ** 2
 
 
+#: Permissible shear published for vegetated soils [Pa]: 0.5 to 4 lb/ft^2 (Fischenich, 2001, Stability Thresholds
+#: for Stream Restoration Materials; provenance: ``vegetated_shear_range``). Not part of HEC-15: a plausibility
+#: bound above which :func:`vegetation_permissible_shear` warns.
+VEGETATED_SHEAR_RANGE = (0.5 * PSF, 4.0 * PSF)
+
+
 def vegetation_permissible_shear(soil_permissible, cover, n, n_soil):
     r"""Permissible shear of a grass lining on its soil, HEC-15 Chapter 4.
 
@@ -1326,15 +1342,32 @@ def vegetation_permissible_shear(soil_permissible, cover, n, n_soil):
     float or ndarray
         tau_p [Pa] of the lining.
 
+    Notes
+    -----
+    A result above the top of the range published for vegetated soils,
+    4 lb/ft^2 (:data:`VEGETATED_SHEAR_RANGE`), gives a ValidityWarning: with a
+    cover factor near 1 (0.98, the program's Table 4.5 value for an excellent
+    sod stand) the factor 1 / (1 - CF) reaches 50, and the shipped excellent
+    sod on fine soil gets ten times that figure. The value is returned as
+    computed.
+
     References
     ----------
-    HEC-15 Section 4.2 (provenance: ``grass_shear``, not verified).
+    HEC-15 Section 4.2 (provenance: ``grass_shear``, not verified); Fischenich, C., Stability Thresholds for Stream
+    Restoration Materials, May 2001 (provenance: ``vegetated_shear_range``).
     """
     tp = validate.positive("soil_permissible_shear", soil_permissible)
     cf = validate.number("cover_factor", cover, low=0.0, high=1.0, low_inclusive=True, high_inclusive=False)
     nv = validate.positive("n", n)
     ns = validate.positive("n_soil", n_soil)
-    return tp / (1.0 - cf) * (nv / ns) ** 2
+    out = tp / (1.0 - cf) * (nv / ns) ** 2
+    top = float(np.max(out))
+    if top > VEGETATED_SHEAR_RANGE[1]:
+        _warn(worded("permissible shear of the grass lining {t} is above {hi}, the top of the range published for "
+                     "vegetated soils (Fischenich, 2001, Stability Thresholds for Stream Restoration Materials): "
+                     "check the cover factor and the soil beneath", t=(top, "shear"),
+                     hi=(VEGETATED_SHEAR_RANGE[1], "shear")))
+    return out
 
 
 # --------------------------------------------------------------------------
