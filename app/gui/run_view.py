@@ -41,6 +41,7 @@ from .fields import (LineEdit, UnclearNumber, format_number, keep_units_whole, n
                      sentence, set_invalid)
 from .results_view import CAUTION, _escape
 from .run_plot import ProfilePicture
+from .screen_fit import SideTabs
 from .tasks import Task
 
 #: Columns of the station table, in reading order (keys of ``station_rows``); "check" is the row's verdict.
@@ -1057,7 +1058,7 @@ class RunView(QWidget):
         self.middle.setStretchFactor(0, 5)
         self.middle.setStretchFactor(1, 4)
         self.middle.setChildrenCollapsible(False)
-        self.middle.setSizes([440, 360])
+        self.middle.setSizes([560, 340])     # the profile the larger part, more so on a low screen
         lower.setMinimumHeight(110)
 
         self.results = RunResultsPanel()
@@ -1071,6 +1072,8 @@ class RunView(QWidget):
         self.splitter.setStretchFactor(2, 0)
         self.splitter.setSizes([380, 740, 320])
         self.splitter.setChildrenCollapsible(False)
+        # below TWO_COLUMNS_BELOW the inputs and the results as tabs on the left, as in the channel page
+        self.side_tabs = SideTabs(self.splitter, self.inputs, self.results, wide=(0.26, 0.52), name="runSideTabs")
         lay = QVBoxLayout(self)
         lay.setContentsMargins(0, 0, 0, 0)
         lay.addWidget(self.splitter)
@@ -1311,6 +1314,7 @@ class RunView(QWidget):
                                                                           if self.run is None else ""))
             if self.run is not None and not self.complaint:
                 self.results.set_verdict("none", "Computing…", "The run is being solved.")
+            self.side_tabs.show_verdict()
             self.open_button.setEnabled(False)
             self._dirty_picture = True
             self._draw()
@@ -1325,6 +1329,7 @@ class RunView(QWidget):
         if selected is not None and selected < len(rows):
             self.table.selectRow(selected)
         self.results.show_design(shown, rows, units, self.complaint)
+        self.side_tabs.show_verdict()
         self.open_button.setEnabled(not stale)
         self._dirty_picture = True
         self._draw()
@@ -1335,6 +1340,10 @@ class RunView(QWidget):
         for j, key in enumerate(STATION_COLUMNS):
             if key in ("lining", "dimensions"):
                 h.resizeSection(j, min(h.sectionSize(j), 220))
+
+    def resizeEvent(self, event) -> None:
+        super().resizeEvent(event)
+        self.side_tabs.follow(self.width())
 
     def _redraw_if_shown(self) -> None:
         if self.picture.model is not None and self.isVisible():
