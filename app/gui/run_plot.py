@@ -23,12 +23,13 @@ STRETCH_COLOURS = ("#cfd8c4", "#c9c2b4", "#c3ccd6", "#e0d2b6", "#d3c7dc", "#bfd6
 TROUBLE_COLOURS = {"overtopped": ("#f0b9b4", "#8c1610"), "not stable": ("#f3c9c6", "#a4231b"),
                    "too shallow": ("#f7dcc0", "#8f4a0c"), "not checked": ("#ece8c8", "#6e5a08"),
                    "not computed": ("#e2e2e2", "#444444")}
+#: The white ground under words drawn over the lines (the lines stay faintly seen through it).
+LABEL_GROUND = dict(boxstyle="square,pad=0.1", fc="white", ec="none", alpha=0.75)
 #: Line styles of the model's words (app.run_drawing.LINE_STYLES).
 DASHES = {"solid": "-", "dashed": "--", "dotted": ":"}
 BAND = 0.075         # height of the lining band at the foot of the axes, as a fraction of the axes
 LANES = 3            # rows of inflow labels at the top of the axes
-LANE_TOP = 0.965     # height of the first row, fraction of the axes
-LANE_PT = 11.5       # least distance between two rows [points] (on a low picture the rows spread down)
+LANE_PT = 11.5       # height of a row of inflow labels [points], the first one under the top of the axes
 LIFT_PT = 11.0       # a label that would cover another moves by this much at a time [points]
 CHAR_PX = 6.3        # about the width of one character at the label size [logical px], to keep labels apart
 
@@ -237,28 +238,35 @@ class ProfilePicture(Picture):
 
     def _inflows(self, model, foot, px_per_unit) -> None:
         """Inflows at the top: a range as a bracket, a point as a marker, each label in the first lane where it
-        does not run into another."""
+        does not run into another (the rows a label high, so that on a low picture they spread down); a label
+        with no lane free is left out (the inputs list every inflow), its bracket or marker drawn."""
         ends = [-np.inf] * LANES          # right end of the last label in each lane [logical px]
-        step = max(0.06, self.px(LANE_PT) / max(self.ax.get_window_extent().height, 1.0))
-        lanes = [LANE_TOP - i * step for i in range(LANES)]
+        row = self.px(LANE_PT) / max(self.ax.get_window_extent().height, 1.0)    # a row, fraction of the axes
+        lanes = [1 - row - i * max(0.06, row) for i in range(LANES)]
         for m in sorted(model.inflows, key=lambda m: m.start):
             left = (m.start - model.first_station) * px_per_unit
             right = max(left + len(m.label) * CHAR_PX + 10, (m.end - model.first_station) * px_per_unit)
-            lane = next((i for i, e in enumerate(ends) if left > e + 6), int(np.argmin(ends)))
-            ends[lane] = right
+            lane = next((i for i, e in enumerate(ends) if left > e + 6), None)
+            labelled = lane is not None
+            if labelled:
+                ends[lane] = right
+            else:
+                lane = int(np.argmin(ends))
             y = lanes[lane]
             if m.end > m.start:
                 self._made.append(self.ax.plot([m.start, m.start, m.end, m.end], [y - 0.03, y, y, y - 0.03],
                                                transform=foot, color=WATER_EDGE, lw=0.9, zorder=8)[0])
                 self._made.append(self.ax.text(m.start, y + 0.005, f" {m.label}", transform=foot, ha="left",
-                                               va="bottom", fontsize=FONT - 1, color=WATER_EDGE, zorder=8))
+                                               va="bottom", fontsize=FONT - 1, color=WATER_EDGE, zorder=8,
+                                               visible=labelled, bbox=LABEL_GROUND))
             else:
                 self._made.append(self.ax.plot([m.start, m.start], [BAND, y], transform=foot, color=WATER_EDGE,
                                                lw=0.6, ls=(0, (2, 3)), zorder=2)[0])
                 self._made.append(self.ax.plot([m.start], [y], transform=foot, marker="v", ms=6, color=WATER_EDGE,
                                                zorder=8)[0])
                 self._made.append(self.ax.text(m.start, y + 0.005, f"  {m.label}", transform=foot, ha="left",
-                                               va="bottom", fontsize=FONT - 1, color=WATER_EDGE, zorder=8))
+                                               va="bottom", fontsize=FONT - 1, color=WATER_EDGE, zorder=8,
+                                               visible=labelled, bbox=LABEL_GROUND))
 
     def show_station(self, station: float | None, text: str = "") -> None:
         """Mark the station picked in the table (None: no mark)."""

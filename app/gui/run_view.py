@@ -269,8 +269,30 @@ class InputTable(QWidget):
         unit = pretty(self.units.label(c.quantity)) if c.quantity else ""
         if not unit:
             return c.heading
-        # five columns or more share the panel's width: the unit under the heading
-        return f"{c.heading}\n[{unit}]" if len(self.columns) > 4 else f"{c.heading} [{unit}]"
+        # five columns or more share the panel's width, and a narrow panel (two columns of the window): the unit
+        # under the heading
+        return f"{c.heading}\n[{unit}]" if len(self.columns) > 4 or self.stacked else f"{c.heading} [{unit}]"
+
+    @property
+    def stacked(self) -> bool:
+        """Whether a heading with its unit on one line is wider than a column's share of the table."""
+        if self.units is None:
+            return False
+        share = self.table.viewport().width() / len(self.columns)
+        width = self.table.horizontalHeader().fontMetrics().horizontalAdvance
+        return any(width(f"{c.heading} [{pretty(self.units.label(c.quantity))}]") + 12 > share
+                   for c in self.columns if c.quantity and c.quantity != "cost")
+
+    def resizeEvent(self, event) -> None:
+        super().resizeEvent(event)
+        if self.units is not None:
+            t = self.table
+            for j, c in enumerate(self.columns):
+                text = self.heading(c)
+                if t.horizontalHeaderItem(j) is not None and t.horizontalHeaderItem(j).text() != text and \
+                        c.quantity != "cost":
+                    t.horizontalHeaderItem(j).setText(text)
+                    t.setFixedHeight(t.horizontalHeader().sizeHint().height() + min(t.rowCount(), 6) * 24 + 4)
 
     def cost_unit(self, row: int) -> str:
         entry = self.catalogue.get(self.run.candidates[row].key) if self.run.candidates[row].key in self.catalogue \
