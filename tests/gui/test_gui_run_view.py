@@ -636,3 +636,14 @@ def test_a_sub_area_spread_along_a_range_or_entering_at_one_station(demo_window,
     assert w.doc.project.runs[0].sub_areas[1].to_station is None
     type_in(table, 1, col, "900")
     assert "≤ 700 m" in table.message.text() and w.doc.project.runs[0].sub_areas[1].to_station is None
+
+
+def test_station_labels_are_thinned_to_the_room_of_the_axis():
+    """Each label of 7 characters takes (7 + 2) x 6.3 = 56.7 px; ten of them need 567 px: on 300 px every second
+    one is kept, on 150 px every fourth, on 2000 px all."""
+    from app.gui.run_plot import thinned
+    ticks = [(i * 100.0, f"{i}+00.00") for i in range(10)]
+    assert thinned(ticks, 2000, 6.3) == ticks
+    assert thinned(ticks, 300, 6.3) == ticks[::2]
+    assert thinned(ticks, 150, 6.3) == ticks[::4]
+    assert thinned([], 100, 6.3) == []
