@@ -80,6 +80,8 @@ def run(args) -> int:
     finally:
         bar.close()
     elapsed = time.perf_counter() - start
+    if tally.units_finding is not None:
+        print(f"warning: {tally.units_finding.text}", file=sys.stderr)
     for line, ident, verdict, reason in tally.problems:
         name = f" (id {ident!r})" if ident else ""
         print(f"{tally.source}:{line}{name}: {verdict}: {reason}", file=sys.stderr)

@@ -626,9 +626,13 @@ class InventoryDialog(QDialog):
         self.filters.setEnabled(True)
         self._fit_columns()
         self.apply_filters()
-        self._say(f"Checked {len(run.inventory):,} reaches of {path.name} ({units.name} units). Click a column "
-                  "heading to sort; choose rows (Shift or Ctrl for several) to import them as channels or "
-                  "copy them.")
+        done = f"Checked {len(run.inventory):,} reaches of {path.name} ({units.name} units)."
+        finding = ai.units_finding(run.inventory)
+        if finding is not None:          # the numbers look like the other unit system: said first, as a warning
+            self._say(f"{pretty(finding.text)} {done}", error=True)
+        else:
+            self._say(f"{done} Click a column heading to sort; choose rows (Shift or Ctrl for several) to import "
+                      "them as channels or copy them.")
         self.setWindowTitle(f"{path.name} ({units.name} units) — inventory check — Ditchwright")
 
     def _fit_columns(self) -> None:

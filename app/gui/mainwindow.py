@@ -31,7 +31,7 @@ from .forms import SHAPES, InputPanel
 from .plots import EnergyPicture, RatingPicture, SectionPicture
 from .results_view import CAUTION, ResultsPanel
 from .sheet_dialogs import ExportSheetDialog, NotesDialog, SheetDetailsDialog, ask_password
-from .screen_fit import fit_to_screen, scrolling
+from .screen_fit import SideTabs, fit_to_screen, scrolling
 from .shortcuts import WindowKeys
 from .style import STYLE
 from .tasks import Task
@@ -40,10 +40,6 @@ LANDXML_FILTER = "LandXML files (*.xml);;All files (*)"
 FILE_FILTER = "Ditchwright projects (*.json);;All files (*)"
 SHAPE_NAMES = dict(SHAPES)
 TABS = ("section", "rating", "energy", "compare")
-#: Below this width [logical px] the window has two columns, not three: the inputs and the results share the left
-#: one as two tabs, so that the picture or the comparison keeps the room (1366 px at 150 % scaling, 911 logical
-#: px, would leave each of three columns too narrow to read). The three columns need about 360 + 480 + 280.
-TWO_COLUMNS_BELOW = 1120
 
 
 class MainWindow(QMainWindow):
@@ -293,14 +289,8 @@ class MainWindow(QMainWindow):
         # three columns in 911 logical px (1366 px at 150 %): the side panels scroll sideways when narrower
         self.results.setMinimumWidth(265)
         self.results.scroll.setHorizontalScrollBarPolicy(Qt.ScrollBarPolicy.ScrollBarAsNeeded)
-        # the narrow window's left column: the inputs and the results as two tabs (see TWO_COLUMNS_BELOW)
-        self.side_tabs = QTabWidget()
-        self.side_tabs.setObjectName("sideTabs")
-        self.side_tabs.setDocumentMode(True)
-        left.addWidget(self.side_tabs)
-        left.setStretchFactor(2, 1)
-        self.side_tabs.hide()
-        self.two_columns = False
+        # the narrow window's left column: the inputs and the results as two tabs (see screen_fit.TWO_COLUMNS_BELOW)
+        self.side_tabs = SideTabs(self.splitter, self.inputs, self.results)
         self.pages = QStackedWidget()
         self.pages.setObjectName("pages")
         self.pages.addWidget(self.splitter)
@@ -309,38 +299,12 @@ class MainWindow(QMainWindow):
 
     def resizeEvent(self, event) -> None:
         super().resizeEvent(event)
-        self.arrange(self.width() < TWO_COLUMNS_BELOW)
+        self.side_tabs.follow(self.width())
 
-    def arrange(self, two_columns: bool) -> None:
-        """Three columns (inputs, picture, results) on a wide window; on a narrow one two, the inputs and the
-        results as tabs on the left. Only where the panels sit changes."""
-        if two_columns == self.two_columns:
-            return
-        self.two_columns = two_columns
-        if two_columns:
-            self.side_tabs.addTab(self.inputs, "Inputs")
-            self.side_tabs.addTab(self.results, "Results")
-            self.side_tabs.show()
-            self.show_verdict_on_tab()
-            total = self.width()          # the splitter's width once the window is laid out
-            form = self.inputs.widget().sizeHint().width() + self.inputs.verticalScrollBar().sizeHint().width() + 8
-            left = max(self.left_split.minimumSizeHint().width(), min(form, int(0.45 * total)))
-            self.splitter.setSizes([left, total - left])
-        else:
-            self.left_split.insertWidget(1, self.inputs)
-            self.splitter.addWidget(self.results)
-            self.side_tabs.hide()
-            self.inputs.show()
-            self.results.show()
-            self.splitter.setStretchFactor(2, 0)
-            total = self.width()
-            self.splitter.setSizes([int(total * 0.28), int(total * 0.48), total - int(total * 0.76)])
-
-    def show_verdict_on_tab(self) -> None:
-        """On the narrow window the results' tab says the verdict, so that it is in view while the inputs are."""
-        i = self.side_tabs.indexOf(self.results)
-        if i >= 0:
-            self.side_tabs.setTabText(i, f"Results: {self.results.headline.text()}")
+    @property
+    def two_columns(self) -> bool:
+        """Whether the window shows two columns (the inputs and the results as tabs), not three."""
+        return self.side_tabs.two_columns
 
     def connect_document(self) -> None:
         d = self.doc
@@ -421,7 +385,7 @@ class MainWindow(QMainWindow):
         self.evaluation = ev
         self.complaint = complaint
         self.results.show_evaluation(ev, self.doc.units, self.last_good, complaint)
-        self.show_verdict_on_tab()
+        self.side_tabs.show_verdict()
         self._drawn.clear()
         self.draw_current()
 

@@ -7,6 +7,8 @@ engine). Nothing here computes or converts: the model is in the user's units and
 
 from __future__ import annotations
 
+import math
+
 import numpy as np
 from matplotlib.patches import Polygon, Rectangle
 from matplotlib.transforms import blended_transform_factory
@@ -21,16 +23,22 @@ STRETCH_COLOURS = ("#cfd8c4", "#c9c2b4", "#c3ccd6", "#e0d2b6", "#d3c7dc", "#bfd6
 TROUBLE_COLOURS = {"overtopped": ("#f0b9b4", "#8c1610"), "not stable": ("#f3c9c6", "#a4231b"),
                    "too shallow": ("#f7dcc0", "#8f4a0c"), "not checked": ("#ece8c8", "#6e5a08"),
                    "not computed": ("#e2e2e2", "#444444")}
+#: The white ground under words drawn over the lines (the lines stay faintly seen through it).
+LABEL_GROUND = dict(boxstyle="square,pad=0.1", fc="white", ec="none", alpha=0.75)
 #: Line styles of the model's words (app.run_drawing.LINE_STYLES).
 DASHES = {"solid": "-", "dashed": "--", "dotted": ":"}
 BAND = 0.075         # height of the lining band at the foot of the axes, as a fraction of the axes
-LANES = (0.965, 0.905, 0.845)   # heights of the inflow labels, fraction of the axes
+LANES = 3            # rows of inflow labels at the top of the axes
+LANE_PT = 11.5       # height of a row of inflow labels [points], the first one under the top of the axes
 LIFT_PT = 11.0       # a label that would cover another moves by this much at a time [points]
-CHAR_PX = 6.3        # about the width of one character at the label size [px], to keep labels apart
+CHAR_PX = 6.3        # about the width of one character at the label size [logical px], to keep labels apart
 
 
 #: The height of one row of the profile's key [logical px], part of the bottom pad.
 KEY_ROW = 22
+#: The colour of each line in words, for the key in words (the canvas's tooltip when the key is left out).
+KEY_COLOURS = {"ditch_top": "brown", "invert": "black, thick", "water_surface": "blue", "normal": "blue",
+               "critical": "orange"}
 
 
 class ProfilePicture(Picture):
@@ -95,17 +103,19 @@ class ProfilePicture(Picture):
         span = max(high - low, 1e-6)
         ax.set_xlim(x0 - 0.01 * (x1 - x0), x1 + 0.01 * (x1 - x0))
         ax.set_ylim(low - 0.2 * span, high + 0.3 * span)   # room for the bands below and the inflows above
-        ax.set_xticks([t for t, _ in model.ticks], [text for _, text in model.ticks])
+        ticks = thinned(model.ticks, ax.get_window_extent().width, CHAR_PX * self.ratio)
+        ax.set_xticks([t for t, _ in ticks], [text for _, text in ticks])
         ax.set_xlabel("station", fontsize=FONT, color=INK, labelpad=2)
         ax.set_ylabel(f"elevation [{pretty(model.length_unit)}]", fontsize=FONT, color=INK)
-        self.title.set_text(f"{model.title}: profile along the stationing")
+        self._title_that_fits(model.title)
         foot = blended_transform_factory(ax.transData, ax.transAxes)
-        px_per_unit = ax.get_window_extent().width / max(x1 - x0, 1e-9)
+        px_per_unit = ax.get_window_extent().width / self.ratio / max(x1 - x0, 1e-9)     # logical px
         self._stretches(model, foot, px_per_unit)
         self._trouble(model, foot)
         self._inflows(model, foot, px_per_unit)
         renderer = self.figure.canvas.get_renderer()
         placed = [t for t in self._made if hasattr(t, "get_text") and t.get_text()]   # band and trouble words
+        inside = ax.get_window_extent(renderer)
         for g in model.grades:
             # under the invert on its upstream side, where a falling line stays above the words
             label = ax.annotate(f"grade {g.text}", (g.x, g.y), xytext=(-4 if g.falling else 4, -8),
@@ -113,11 +123,10 @@ class ProfilePicture(Picture):
                                 fontsize=FONT - 1, color=INK, zorder=6,
                                 bbox=dict(boxstyle="round,pad=0.2", fc="white", ec="none", alpha=0.85))
             self._made.append(label)
-            inside = ax.get_window_extent(renderer)
             if label.get_window_extent(renderer).x0 < inside.x0 or label.get_window_extent(renderer).x1 > inside.x1:
                 label.set_ha("left" if g.falling else "right")          # the other side, within the axes
                 label.xyann = (-label.xyann[0], label.xyann[1])
-            placed.append(keep_clear(label, placed, renderer, -LIFT_PT))
+            placed.append(keep_clear(label, placed, renderer, -LIFT_PT, within=inside))
         for jm in model.jumps:
             self._made.append(ax.plot([jm.start, jm.start], [jm.low, jm.high], color=CRITICAL, lw=2.0,
                                       zorder=7)[0])
@@ -126,7 +135,7 @@ class ProfilePicture(Picture):
                                 arrowprops=dict(arrowstyle="-", color=CRITICAL, lw=0.8),
                                 bbox=dict(boxstyle="round,pad=0.2", fc="white", ec="none", alpha=0.85))
             self._made.append(label)
-            placed.append(keep_clear(label, placed, renderer, LIFT_PT))
+            placed.append(keep_clear(label, placed, renderer, LIFT_PT, within=inside))
         if model.outfall:
             s, z, label = model.outfall
             self._made.append(ax.plot([s], [z], marker="s", ms=6, color=INK, zorder=7)[0])
@@ -137,7 +146,7 @@ class ProfilePicture(Picture):
                                ha="right", va="bottom", fontsize=FONT - 1, color=INK, zorder=7,
                                bbox=dict(boxstyle="round,pad=0.2", fc="white", ec="none", alpha=0.85))
             self._made.append(text)
-            keep_clear(text, placed, renderer, LIFT_PT)
+            keep_clear(text, placed, renderer, LIFT_PT, within=inside)
         handles = [self.lines[k] for k in ("ditch_top", "water_surface", "normal", "critical", "invert")]
         if self.legend is not None:
             self.legend.remove()
@@ -145,9 +154,22 @@ class ProfilePicture(Picture):
         self.show_station(self.selected)
         self.fade(False)
 
+    def _title_that_fits(self, name: str) -> None:
+        """"<name>: profile along the stationing", or shorter where the figure is narrow (the name alone last,
+        broken into lines if it is still too wide)."""
+        renderer = self.figure.canvas.get_renderer()
+        room = self.figure.bbox.width - self.ax.get_window_extent(renderer).x0 - self.px(self.edge)
+        for text in (f"{name}: profile along the stationing", f"{name}: profile", name):
+            self.title.set_text(text)
+            if self.title.get_window_extent(renderer).width <= room:
+                return
+        self.wrap_title(name, room)
+
     def _key(self, handles) -> None:
         """The key under the stations: one row of five where the figure is wide enough (closer together if need
-        be), else as many rows as it takes (the margin below grows by the rows added)."""
+        be), else as many rows as it takes (the margin below grows by the rows added). On a figure too low for
+        the rows the key is left out and its words go to the canvas's tooltip, so that the profile keeps the
+        room."""
         renderer = self.figure.canvas.get_renderer()
         room = self.figure.bbox.width - self.px(2 * self.edge)
         # one row, then one row drawn closer together, then more rows
@@ -158,17 +180,28 @@ class ProfilePicture(Picture):
             if columns == 1 or self.legend.get_window_extent(renderer).width <= room:
                 break
             self.legend.remove()
-        self._fit_margins(key_height=self.legend.get_window_extent(renderer).height)
+        if self._fit_margins(key_height=self.legend.get_window_extent(renderer).height):
+            self.legend.set_visible(True)
+            self.canvas.setToolTip("")
+        else:
+            self.legend.set_visible(False)
+            self._fit_margins(key_height=0.0)
+            self.canvas.setToolTip("Key (left out for want of room): " + "; ".join(
+                f"{h.get_label()} ({KEY_COLOURS[name]}, {self.model.styles.get(name, 'solid')})"
+                for name, h in self.lines.items()))
 
-    def _fit_margins(self, key_height: float | None = None) -> None:
+    def _fit_margins(self, key_height: float | None = None) -> bool:
         """Margins of ``pads`` logical pixels whatever the size of the canvas and its pixel ratio; the bottom one
-        holds a key of ``key_height`` device pixels (``KEY_ROW`` logical pixels, one row, when not given)."""
+        holds a key of ``key_height`` device pixels (``KEY_ROW`` logical pixels, one row, when not given).
+        False (the margins left as they were) where the plot would be left too little."""
         w, h = self.figure.get_size_inches() * self.figure.dpi
         left, right, bottom, top = (p * self.ratio for p in self.pads)
         if key_height is not None:
             bottom += key_height - KEY_ROW * self.ratio
         if w > 3 * (left + right) and h > 1.6 * (bottom + top):      # else the plot would be left too little
             self.figure.subplots_adjust(left=left / w, right=1 - right / w, bottom=bottom / h, top=1 - top / h)
+            return True
+        return False
 
     def _stretches(self, model, foot, px_per_unit) -> None:
         colours: dict[str, str] = {}
@@ -205,26 +238,35 @@ class ProfilePicture(Picture):
 
     def _inflows(self, model, foot, px_per_unit) -> None:
         """Inflows at the top: a range as a bracket, a point as a marker, each label in the first lane where it
-        does not run into another."""
-        ends = [-np.inf] * len(LANES)     # right end of the last label in each lane [px]
+        does not run into another (the rows a label high, so that on a low picture they spread down); a label
+        with no lane free is left out (the inputs list every inflow), its bracket or marker drawn."""
+        ends = [-np.inf] * LANES          # right end of the last label in each lane [logical px]
+        row = self.px(LANE_PT) / max(self.ax.get_window_extent().height, 1.0)    # a row, fraction of the axes
+        lanes = [1 - row - i * max(0.06, row) for i in range(LANES)]
         for m in sorted(model.inflows, key=lambda m: m.start):
             left = (m.start - model.first_station) * px_per_unit
             right = max(left + len(m.label) * CHAR_PX + 10, (m.end - model.first_station) * px_per_unit)
-            lane = next((i for i, e in enumerate(ends) if left > e + 6), int(np.argmin(ends)))
-            ends[lane] = right
-            y = LANES[lane]
+            lane = next((i for i, e in enumerate(ends) if left > e + 6), None)
+            labelled = lane is not None
+            if labelled:
+                ends[lane] = right
+            else:
+                lane = int(np.argmin(ends))
+            y = lanes[lane]
             if m.end > m.start:
                 self._made.append(self.ax.plot([m.start, m.start, m.end, m.end], [y - 0.03, y, y, y - 0.03],
                                                transform=foot, color=WATER_EDGE, lw=0.9, zorder=8)[0])
                 self._made.append(self.ax.text(m.start, y + 0.005, f" {m.label}", transform=foot, ha="left",
-                                               va="bottom", fontsize=FONT - 1, color=WATER_EDGE, zorder=8))
+                                               va="bottom", fontsize=FONT - 1, color=WATER_EDGE, zorder=8,
+                                               visible=labelled, bbox=LABEL_GROUND))
             else:
                 self._made.append(self.ax.plot([m.start, m.start], [BAND, y], transform=foot, color=WATER_EDGE,
                                                lw=0.6, ls=(0, (2, 3)), zorder=2)[0])
                 self._made.append(self.ax.plot([m.start], [y], transform=foot, marker="v", ms=6, color=WATER_EDGE,
                                                zorder=8)[0])
                 self._made.append(self.ax.text(m.start, y + 0.005, f"  {m.label}", transform=foot, ha="left",
-                                               va="bottom", fontsize=FONT - 1, color=WATER_EDGE, zorder=8))
+                                               va="bottom", fontsize=FONT - 1, color=WATER_EDGE, zorder=8,
+                                               visible=labelled, bbox=LABEL_GROUND))
 
     def show_station(self, station: float | None, text: str = "") -> None:
         """Mark the station picked in the table (None: no mark)."""
@@ -245,19 +287,45 @@ class ProfilePicture(Picture):
         return int(np.argmin(np.abs(xs - x))) if xs.size else None
 
 
-def keep_clear(label, others, renderer, step: float, tries: int = 8):
+def keep_clear(label, others, renderer, step: float, tries: int = 8, within=None):
     """Move the annotation ``label`` by ``step`` points at a time (up when positive, down when negative) until its
-    box covers none of the texts ``others``, at most ``tries`` times; returns ``label``."""
+    box covers none of the texts ``others``, at most ``tries`` times; returns ``label``. With ``within`` (a box in
+    pixels, the axes') the label never leaves it that way: when moving on would take it out, it is moved the other
+    way from where it started instead (on a low picture the room above or below runs out first), and where neither
+    way has a clear place the label is hidden rather than drawn over the others."""
     def box(t):
         return t.get_window_extent(renderer).padded(2)      # the words and their white ground
 
-    for _ in range(tries):
-        mine = box(label)
-        if not any(mine.overlaps(box(o)) for o in others if o.get_visible()):
-            break
-        dx, dy = label.xyann
-        label.xyann = (dx, dy + step)
+    def outside(t):
+        e = t.get_window_extent(renderer)
+        return within is not None and (e.y0 < within.y0 or e.y1 > within.y1)
+
+    start = label.xyann
+    for way in (step, -step):
+        label.xyann = start
+        for _ in range(tries):
+            if not any(box(label).overlaps(box(o)) for o in others if o.get_visible()):
+                return label
+            dx, dy = label.xyann
+            label.xyann = (dx, dy + way)
+            if outside(label):
+                break
+        else:
+            return label
+        if within is None:
+            return label
+    label.xyann = start                  # no clear place inside (a low picture): left out, the table says it
+    label.set_visible(False)
     return label
+
+
+def thinned(ticks: list, width_px: float, char_px: float) -> list:
+    """Every k-th of ``ticks`` ((station, label) pairs), k the least that gives each label its width and two
+    characters between on an axis ``width_px`` wide (``char_px``: the width of one character there)."""
+    if not ticks:
+        return ticks
+    each = (max(len(text) for _, text in ticks) + 2) * char_px
+    return ticks[::max(1, math.ceil(len(ticks) * each / max(width_px, 1.0)))]
 
 
 def fitting_label(label: str, width_px: float) -> str:

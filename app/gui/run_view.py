@@ -41,6 +41,7 @@ from .fields import (LineEdit, format_number, keep_units_whole, message_line, nu
                      set_invalid, typed_number)
 from .results_view import CAUTION, _escape
 from .run_plot import ProfilePicture
+from .screen_fit import SideTabs
 from .tasks import Task
 
 #: Columns of the station table, in reading order (keys of ``station_rows``); "check" is the row's verdict.
@@ -265,8 +266,30 @@ class InputTable(QWidget):
         unit = pretty(self.units.label(c.quantity)) if c.quantity else ""
         if not unit:
             return c.heading
-        # five columns or more share the panel's width: the unit under the heading
-        return f"{c.heading}\n[{unit}]" if len(self.columns) > 4 else f"{c.heading} [{unit}]"
+        # five columns or more share the panel's width, and a narrow panel (two columns of the window): the unit
+        # under the heading
+        return f"{c.heading}\n[{unit}]" if len(self.columns) > 4 or self.stacked else f"{c.heading} [{unit}]"
+
+    @property
+    def stacked(self) -> bool:
+        """Whether a heading with its unit on one line is wider than a column's share of the table."""
+        if self.units is None:
+            return False
+        share = self.table.viewport().width() / len(self.columns)
+        width = self.table.horizontalHeader().fontMetrics().horizontalAdvance
+        return any(width(f"{c.heading} [{pretty(self.units.label(c.quantity))}]") + 12 > share
+                   for c in self.columns if c.quantity and c.quantity != "cost")
+
+    def resizeEvent(self, event) -> None:
+        super().resizeEvent(event)
+        if self.units is not None:
+            t = self.table
+            for j, c in enumerate(self.columns):
+                text = self.heading(c)
+                if t.horizontalHeaderItem(j) is not None and t.horizontalHeaderItem(j).text() != text and \
+                        c.quantity != "cost":
+                    t.horizontalHeaderItem(j).setText(text)
+                    t.setFixedHeight(t.horizontalHeader().sizeHint().height() + min(t.rowCount(), 6) * 24 + 4)
 
     def cost_unit(self, row: int) -> str:
         entry = self.catalogue.get(self.run.candidates[row].key) if self.run.candidates[row].key in self.catalogue \
@@ -1033,7 +1056,7 @@ class RunView(QWidget):
         self.middle.setStretchFactor(0, 5)
         self.middle.setStretchFactor(1, 4)
         self.middle.setChildrenCollapsible(False)
-        self.middle.setSizes([440, 360])
+        self.middle.setSizes([560, 340])     # the profile the larger part, more so on a low screen
         lower.setMinimumHeight(110)
 
         self.results = RunResultsPanel()
@@ -1047,6 +1070,8 @@ class RunView(QWidget):
         self.splitter.setStretchFactor(2, 0)
         self.splitter.setSizes([380, 740, 320])
         self.splitter.setChildrenCollapsible(False)
+        # below TWO_COLUMNS_BELOW the inputs and the results as tabs on the left, as in the channel page
+        self.side_tabs = SideTabs(self.splitter, self.inputs, self.results, wide=(0.26, 0.52), name="runSideTabs")
         lay = QVBoxLayout(self)
         lay.setContentsMargins(0, 0, 0, 0)
         lay.addWidget(self.splitter)
@@ -1287,6 +1312,7 @@ class RunView(QWidget):
                                                                           if self.run is None else ""))
             if self.run is not None and not self.complaint:
                 self.results.set_verdict("none", "Computing…", "The run is being solved.")
+            self.side_tabs.show_verdict()
             self.open_button.setEnabled(False)
             self._dirty_picture = True
             self._draw()
@@ -1301,6 +1327,7 @@ class RunView(QWidget):
         if selected is not None and selected < len(rows):
             self.table.selectRow(selected)
         self.results.show_design(shown, rows, units, self.complaint)
+        self.side_tabs.show_verdict()
         self.open_button.setEnabled(not stale)
         self._dirty_picture = True
         self._draw()
@@ -1311,6 +1338,10 @@ class RunView(QWidget):
         for j, key in enumerate(STATION_COLUMNS):
             if key in ("lining", "dimensions"):
                 h.resizeSection(j, min(h.sectionSize(j), 220))
+
+    def resizeEvent(self, event) -> None:
+        super().resizeEvent(event)
+        self.side_tabs.follow(self.width())
 
     def _redraw_if_shown(self) -> None:
         if self.picture.model is not None and self.isVisible():

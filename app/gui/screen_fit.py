@@ -5,18 +5,24 @@ A laptop of 1366x768 at 150 % scaling leaves Qt a logical screen of about
 out for a large screen would put its buttons below the edge. Every window
 and dialog of Ditchwright takes its first size from :func:`fit_to_screen`,
 and a form that can be taller than the screen sits in :func:`scrolling`, with
-the dialog's buttons outside the scroll area so that they stay in view.
+the dialog's buttons outside the scroll area so that they stay in view. A view
+of three columns (inputs, picture, results) takes two below
+``TWO_COLUMNS_BELOW`` (:class:`SideTabs`).
 """
 
 from __future__ import annotations
 
 from PySide6.QtCore import QEvent, QRect, QSize, Qt
 from PySide6.QtGui import QGuiApplication
-from PySide6.QtWidgets import QBoxLayout, QFrame, QGridLayout, QScrollArea, QWidget
+from PySide6.QtWidgets import QBoxLayout, QFrame, QGridLayout, QScrollArea, QSplitter, QTabWidget, QWidget
 
 #: Logical pixels kept free above a window for the title bar the window manager adds (an allowance; title
 #: bars are 24 to 32 px on the common desktops at 100 %, and Qt's logical pixels scale with them).
 TITLE_BAR = 30
+#: Below this width [logical px] a view has two columns, not three: the inputs and the results share the left
+#: one as two tabs, so that the picture keeps the room (1366 px at 150 % scaling, 911 logical px, would leave
+#: each of three columns too narrow to read). The three columns need about 360 + 480 + 280.
+TWO_COLUMNS_BELOW = 1120
 
 
 def free_area(widget: QWidget) -> QRect:
@@ -119,4 +125,65 @@ class _FormScroll(QScrollArea):
         return QSize(body.minimumSizeHint().width() + bar, min(body.minimumSizeHint().height(), 80))
 
 
-__all__ = ["TITLE_BAR", "free_area", "fit_to_screen", "scrolling", "least_height"]
+class SideTabs(QTabWidget):
+    """The narrow window's left column: a view of three columns in ``splitter`` (the inputs, in their own splitter
+    or in ``splitter`` itself, then the picture, then ``results``) takes two below ``TWO_COLUMNS_BELOW``. These
+    tabs take the inputs' place and hold the inputs and the results; the results' tab says the verdict
+    (``results.headline``), so that it is in view while the inputs are. Only where the panels sit changes.
+
+    ``wide``: the shares of the width the first two columns take when there are three again."""
+
+    def __init__(self, splitter: QSplitter, inputs: QScrollArea, results: QWidget, wide=(0.28, 0.48),
+                 name: str = "sideTabs"):
+        super().__init__()
+        self.setObjectName(name)
+        self.setDocumentMode(True)
+        self.hide()
+        self.splitter, self.inputs, self.results, self.wide = splitter, inputs, results, wide
+        self.two_columns = False
+        self._home: tuple[QSplitter, int] | None = None     # the inputs' splitter and place, while here
+        self._results_at = splitter.indexOf(results)
+
+    def follow(self, width: int) -> None:
+        """Two columns or three for a view ``width`` logical px wide."""
+        self.arrange(width < TWO_COLUMNS_BELOW, width)
+
+    def arrange(self, two_columns: bool, width: int) -> None:
+        if two_columns == self.two_columns:
+            return
+        self.two_columns = two_columns
+        inputs, results, splitter = self.inputs, self.results, self.splitter
+        if two_columns:
+            holder = inputs.parentWidget()
+            self._home = (holder, holder.indexOf(inputs))
+            self.setSizePolicy(inputs.sizePolicy())          # its stretch in the inputs' splitter
+            holder.replaceWidget(self._home[1], self)
+            self.addTab(inputs, "Inputs")
+            self.addTab(results, "Results")
+            self.show()
+            inputs.show()
+            self.show_verdict()
+            form = inputs.widget().sizeHint().width() + inputs.verticalScrollBar().sizeHint().width() + 8
+            left = max(splitter.widget(0).minimumSizeHint().width(), min(form, int(0.45 * width)))
+            splitter.setSizes([left, width - left])
+        else:
+            holder, at = self._home
+            self.clear()                                      # the pages stay children of the tabs till moved
+            holder.replaceWidget(at, inputs)
+            splitter.insertWidget(self._results_at, results)
+            splitter.setStretchFactor(self._results_at, 0)
+            self.setParent(None)
+            self.hide()
+            inputs.show()
+            results.show()
+            first, second = (int(width * share) for share in self.wide)
+            splitter.setSizes([first, second, width - first - second])
+
+    def show_verdict(self) -> None:
+        """The results' tab says the verdict shown."""
+        i = self.indexOf(self.results)
+        if i >= 0:
+            self.setTabText(i, f"Results: {self.results.headline.text()}")
+
+
+__all__ = ["TITLE_BAR", "TWO_COLUMNS_BELOW", "free_area", "fit_to_screen", "scrolling", "least_height", "SideTabs"]

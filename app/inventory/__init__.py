@@ -12,7 +12,9 @@ its edge, one module a job:
 * :mod:`~app.inventory.writing`: the results file, spreadsheet-safe and
   replaced atomically, and the table view's text (:func:`result_table`);
 * :mod:`~app.inventory.reporting`: the rows in trouble, the summary for the
-  terminal, and the summary plot.
+  terminal, and the summary plot;
+* :mod:`~app.inventory.plausibility`: whether the numbers look typed in the
+  other unit system than the one chosen (a warning, nothing refused).
 
 Input columns (all required in the header, blank where not relevant):
 ``id, shape, bottom_width, left_slope, right_slope, diameter, slope, flow,
@@ -24,6 +26,7 @@ permissible_shear, safety_factor, verdict, reason`` added, in the same units,
 one row per input row and in the same order.
 """
 
+from .plausibility import UnitsFinding, units_finding
 from .checking import BatchRun, check_file, evaluate, run_inventory
 from .reading import INPUT_COLUMNS, RESULT_COLUMNS, Inventory, InventoryError, parse_inventory, read_blocks, read_inventory
 from .reporting import MAX_MESSAGES, PLOT_FORMATS, Tally, plot_summary, problem_rows, summary
@@ -32,4 +35,4 @@ from .writing import DIGITS, display_values, format_results, result_table, write
 __all__ = ["INPUT_COLUMNS", "RESULT_COLUMNS", "DIGITS", "MAX_MESSAGES", "PLOT_FORMATS", "Inventory", "InventoryError",
            "BatchRun", "Tally", "parse_inventory", "read_inventory", "read_blocks", "evaluate", "check_file", "run_inventory",
            "display_values", "format_results", "write_results", "written_rows", "result_table", "problem_rows",
-           "summary", "plot_summary"]
+           "summary", "plot_summary", "UnitsFinding", "units_finding"]

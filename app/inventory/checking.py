@@ -16,6 +16,7 @@ import numpy as np
 from hydraulics import many_reaches as mr
 
 from . import writing
+from .plausibility import units_finding
 from .reading import BLOCK_ROWS, INPUT_COLUMNS, Inventory, csv_fields, read_blocks, read_inventory
 from .reporting import Tally, problem_rows, summary
 from .writing import result_table
@@ -54,6 +55,7 @@ def check_file(source, target, units: str = "us", progress=None, catalogue=None,
     inventory = next(blocks)
     size = Path(source).stat().st_size if progress is not None else 0
     tally = Tally(inventory.source, inventory.units, problems)
+    tally.units_finding = units_finding(inventory)       # the first block (up to ``rows`` reaches) tells
     # The core checks chunk by chunk, so that the notes about groups of reaches (a relation's range over a chunk)
     # come out the same whatever the block size: blocks are a whole number of chunks.
     whole = len(inventory) < 2 * WRITE_CHUNK and len(inventory) < rows

@@ -64,6 +64,8 @@ class Tally:
         self._header_guarded = None
         #: ``id_at(row)``: the id (without surrounding blanks) of a row of the whole file.
         self.id_at = None
+        #: Whether the numbers look typed in the other unit system (plausibility.units_finding of the first block).
+        self.units_finding = None
 
     @classmethod
     def of(cls, inventory: Inventory, result: mr.BatchResult) -> "Tally":

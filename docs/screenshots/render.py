@@ -42,8 +42,10 @@ SHOTS = {
     (1366, 768, 1.0, "si", "North cut ditch"): {"main-section": "window-1366-si-failing-lining.png",
                                                 "main-runs": "window-1366-si-runs.png"},
     (1366, 768, 1.5, "us", ""): {"main-section": "window-1366-150-us-section.png",
+                                 "main-runs": "window-1366-150-us-runs.png",
                                  "project-notes": "project-notes-1366-150-us.png"},
     (1366, 768, 1.5, "si", ""): {"main-comparison": "window-1366-150-si-comparison.png",
+                                 "main-runs": "window-1366-150-si-runs.png",
                                  "inventory-checked": "inventory-1366-150-si.png"},
 }
 MESSAGES = (1920, 1080, 1.0, "us", "")          # the screen whose message boxes are put side by side

@@ -294,7 +294,11 @@ def run(args) -> dict:
                 break
             time.sleep(0.05)
         probe.settle()
-        probe.look("main-runs", w)
+        view.picture.canvas.draw()
+        probe.look("main-runs", w, [view.picture])
+        probe.report["main-runs"]["columns"] = [wd.width() for wd in (view.splitter.widget(i) for i in
+                                                range(view.splitter.count())) if wd.isVisible()]
+        probe.report["main-runs"]["picture"] = [view.picture.canvas.width(), view.picture.canvas.height()]
         w.show_channels(0)
 
     for name, make in (("sheet-details", lambda: SheetDetailsDialog(w.doc.project.sheet, parent=w)),

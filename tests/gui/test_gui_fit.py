@@ -107,6 +107,14 @@ def test_every_window_fits_without_scrolling_the_page(tmp_path, width, height, s
     for view in ("main-section", "main-rating", "main-energy", "main-comparison"):
         inputs, picture = report[view]["columns"]
         assert picture >= 0.5 * round(width / scale) and inputs >= 360, (view, report[view]["columns"])
+    # the run page alike below TWO_COLUMNS_BELOW (911 logical px at 150 %), its profile as wide as the column
+    runs = report["main-runs"]
+    if width / scale < 1120:
+        inputs, middle = runs["columns"]
+        assert middle >= 0.55 * round(width / scale) and inputs >= 300, runs
+    else:
+        assert len(runs["columns"]) == 3, runs
+    assert runs["picture"][0] == runs["columns"][-2 if len(runs["columns"]) == 3 else 1]
 
 
 def test_on_1024_by_640_at_150_percent_everything_is_reachable(tmp_path):
@@ -115,6 +123,8 @@ def test_on_1024_by_640_at_150_percent_everything_is_reachable(tmp_path):
         assert seen["problems"] == [], (name, seen)
         assert seen["size"][0] <= 683 and seen["size"][1] <= 370, (name, seen)
     assert report["main-section"]["scrolls"] == "down"          # 683x370: two columns fit across, not in height
+    inputs, middle = report["main-runs"]["columns"]              # the run page in two columns too
+    assert middle > inputs and report["main-runs"]["picture"][1] >= 170, report["main-runs"]
     assert report["sheet-details"]["scrolls"] == "down"
 
 

@@ -347,3 +347,16 @@ def test_safety_factor_says_where_it_governs_and_numbers_follow_the_one_rounding
         assert cell == f"{rounded(value, table_field('safety_factor'))} ({where})"
     velocity = d.model.cell(0, column(d, "velocity"))
     assert velocity == rounded(float(velocity), table_field("velocity")) and len(velocity.split(".")[1]) == 2
+
+
+def test_numbers_that_look_like_the_other_unit_system_are_warned_about_in_the_status(window, qtbot, inventory):
+    """ROWS are typed in ft and ft^3/s (median flow 15 ft^3/s): checked as SI the status line says they look US
+    customary, with the numbers, as a warning (app.inventory.plausibility); checked as US it does not."""
+    d = checked(qtbot, window, inventory, units="si")
+    text = d.status.text()
+    assert "The flows (median 15 m³/s) are large for roadside ditches in SI (metric) units" in text, text
+    assert "usual in US customary units (15 ft³/s)" in text and d.status.objectName() == "fieldMessage"
+    assert "Checked 5 reaches" in text                       # the check itself went on
+    d = checked(qtbot, window, inventory, units="us")
+    assert "look" not in d.status.text() and "US customary units (" not in d.status.text()
+    assert d.status.objectName() == "hint"

@@ -271,6 +271,67 @@ def test_the_run_view_fits_1024_by_640(demo_window, qtbot):
     assert all(re.fullmatch(r"\d\+\d{3}\.\d\d", t.get_text()) for t in view.picture.ax.get_xticklabels())
 
 
+def test_a_narrow_window_gives_the_run_view_two_columns_and_the_verdict_on_its_tab(demo_window, qtbot):
+    """Below TWO_COLUMNS_BELOW the run view, like the channel page, has the inputs and the results as two tabs on
+    the left, and its profile takes the room; above it, three columns again."""
+    from app.gui.screen_fit import TWO_COLUMNS_BELOW
+    w = demo_window
+    w.resize(1440, 900)
+    view = shown(w, qtbot)
+    assert not view.side_tabs.two_columns and view.splitter.count() == 3
+    w.resize(911, 455)                                # 1366x768 at 150 %, less the panel and title bar
+    qtbot.waitUntil(lambda: view.side_tabs.isVisible())
+    assert view.width() < TWO_COLUMNS_BELOW and view.splitter.count() == 2
+    assert [view.side_tabs.tabText(i) for i in range(2)] == ["Inputs", "Results: Every station stable"]
+    assert view.middle.width() >= 0.55 * view.width() and view.inputs.isVisible()
+    assert view.picture.canvas.width() >= 500                       # was about 320 in the middle of three
+    view.side_tabs.setCurrentIndex(1)
+    qtbot.waitUntil(lambda: view.results.isVisible())
+    type_in(view.inputs.profile, 0, 1, "bad")         # a refusal: the tab says so as the panel does
+    qtbot.waitUntil(lambda: view.results.headline.text() == "No result for these inputs")
+    assert view.side_tabs.tabText(1) == "Results: No result for these inputs"
+    w.resize(1440, 900)
+    qtbot.waitUntil(lambda: not view.side_tabs.isVisible())
+    assert view.splitter.count() == 3 and view.splitter.indexOf(view.inputs) == 0
+    assert view.splitter.indexOf(view.results) == 2 and view.results.isVisible() and view.inputs.isVisible()
+
+
+def _fit_probe():
+    import sys
+    from pathlib import Path
+    here = str(Path(__file__).parent)
+    sys.path.insert(0, here)
+    try:
+        import fit_probe
+    finally:
+        sys.path.remove(here)
+    return fit_probe
+
+
+@pytest.mark.parametrize("size", [(911, 455), (683, 370), (1366, 768)])
+@pytest.mark.parametrize("units", ["si", "us"])
+def test_the_profile_keeps_its_writing_inside_and_apart_on_small_windows(demo_window, qtbot, size, units):
+    """At the logical sizes of 1366x768 and 1024x640 at 150 % (the probe in test_gui_fit checks the same at a
+    pixel ratio of 1.5): title, ticks, labels and key inside the figure, no two labels over each other, station
+    labels apart; the key, when left out for want of height, is in the tooltip."""
+    w = demo_window
+    w.doc.set_units(units)
+    w.resize(*size)
+    view = shown(w, qtbot)
+    qtbot.wait(50)
+    view.picture.canvas.draw()
+    assert _fit_probe().figure_cut(view.picture) == []
+    assert overlapping_labels(view.picture) == []
+    renderer = view.picture.canvas.get_renderer()
+    ticks = [t.get_window_extent(renderer) for t in view.picture.ax.get_xticklabels() if t.get_text()]
+    assert len(ticks) >= 2 and all(a.x1 < b.x0 for a, b in zip(ticks, ticks[1:]))
+    assert view.picture.title.get_text().startswith("North verge ditch")
+    if view.picture.legend.get_visible():
+        assert view.picture.canvas.toolTip() == ""
+    else:
+        assert "Water surface (computed) (blue, solid)" in view.picture.canvas.toolTip()
+
+
 def test_an_overtopping_backwater_is_marked_on_the_run_profile(demo_window, qtbot):
     """An invented culvert headwater 0.3 m over the ditch top at the outfall: the profile marks the stretch."""
     w = demo_window
@@ -382,7 +443,7 @@ def overlapping_labels(picture):
     picture.canvas.draw()
     renderer = picture.canvas.get_renderer()
     texts = [t for t in picture.ax.texts if t.get_visible() and t.get_text().strip()]
-    texts += [t for t in picture.legend.get_texts()] + [picture.title]
+    texts += [t for t in picture.legend.get_texts() if picture.legend.get_visible()] + [picture.title]
     boxes = [(t.get_text(), t.get_window_extent(renderer)) for t in texts]
     return [(a, b) for i, (a, ba) in enumerate(boxes) for b, bb in boxes[i + 1:] if ba.overlaps(bb)]
 
@@ -575,3 +636,14 @@ def test_a_sub_area_spread_along_a_range_or_entering_at_one_station(demo_window,
     assert w.doc.project.runs[0].sub_areas[1].to_station is None
     type_in(table, 1, col, "900")
     assert "≤ 700 m" in table.message.text() and w.doc.project.runs[0].sub_areas[1].to_station is None
+
+
+def test_station_labels_are_thinned_to_the_room_of_the_axis():
+    """Each label of 7 characters takes (7 + 2) x 6.3 = 56.7 px; ten of them need 567 px: on 300 px every second
+    one is kept, on 150 px every fourth, on 2000 px all."""
+    from app.gui.run_plot import thinned
+    ticks = [(i * 100.0, f"{i}+00.00") for i in range(10)]
+    assert thinned(ticks, 2000, 6.3) == ticks
+    assert thinned(ticks, 300, 6.3) == ticks[::2]
+    assert thinned(ticks, 150, 6.3) == ticks[::4]
+    assert thinned([], 100, 6.3) == []
