@@ -108,8 +108,9 @@ def _finite_positive(field: str, value) -> float:
     return v
 
 
-def _vector(field: str, values, *, minimum_length: int) -> np.ndarray:
-    """A 1-D array of finite numbers > 0 in strictly increasing order, at least ``minimum_length`` long."""
+def _vector(field: str, values, *, minimum_length: int, shown=lambda v: f"{v:g}") -> np.ndarray:
+    """A 1-D array of finite numbers > 0 in strictly increasing order, at least ``minimum_length`` long; a refusal
+    quotes the values as ``shown`` writes them (with their unit)."""
     try:
         arr = np.array(values, dtype=float)
     except (TypeError, ValueError):
@@ -120,11 +121,11 @@ def _vector(field: str, values, *, minimum_length: int) -> np.ndarray:
         raise InputError(field, f"must hold at least {minimum_length} values, got {arr.size}")
     for k, v in enumerate(arr):
         if not math.isfinite(v) or v <= 0:
-            raise InputError(f"{field}[{k}]", f"must be a finite number > 0, got {v:g}")
+            raise InputError(f"{field}[{k}]", f"must be a finite number > 0, got {shown(v)}")
     for k in range(1, arr.size):
         if arr[k] <= arr[k - 1]:
-            raise InputError(f"{field}[{k}]", f"must be greater than the value before it ({arr[k - 1]:g}), "
-                                              f"got {arr[k]:g}; the values must be in increasing order")
+            raise InputError(f"{field}[{k}]", f"must be greater than the value before it ({shown(arr[k - 1])}), "
+                                              f"got {shown(arr[k])}; the values must be in increasing order")
     arr.setflags(write=False)
     return arr
 
@@ -209,8 +210,9 @@ class IdfTable(_Idf):
     _what = "the IDF table"
 
     def __init__(self, durations, return_periods, intensities):
-        t = _vector("rainfall.durations", durations, minimum_length=2)
-        periods = _vector("rainfall.return_periods", return_periods, minimum_length=1)
+        t = _vector("rainfall.durations", durations, minimum_length=2, shown=_minutes)
+        periods = _vector("rainfall.return_periods", return_periods, minimum_length=1,
+                          shown=lambda v: f"{v:g} years")
         try:
             cells = np.array(intensities, dtype=float)
         except (TypeError, ValueError):

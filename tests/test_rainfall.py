@@ -271,3 +271,12 @@ def test_files_that_are_not_an_idf_relation_are_refused_clearly():
 
 def test_the_formula_form_is_cited_as_read():
     assert pv.entry("idf_formula").verified and pv.entry("idf_depth_consistency").verified
+
+
+def test_durations_and_return_periods_out_of_order_are_refused_in_minutes_and_years():
+    with pytest.raises(InputError, match=r"rainfall.durations\[1\]: must be greater than the value before it "
+                                         r"\(10 min\), got 5 min"):
+        IdfTable([600.0, 300.0], [10], [[2e-5], [1e-5]])
+    with pytest.raises(InputError, match=r"rainfall.return_periods\[1\]: must be greater than the value before it "
+                                         r"\(10 years\), got 2 years"):
+        IdfTable([300.0, 600.0], [10, 2], [[2e-5, 3e-5], [1e-5, 2e-5]])
