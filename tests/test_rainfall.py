@@ -127,7 +127,11 @@ def test_an_intensity_that_falls_as_the_return_period_rises_is_refused():
     with pytest.raises(InputError) as err:
         IdfTable(DURATIONS, PERIODS, np.array(cells) * MMH)
     assert err.value.field == "rainfall.intensities[3][2]"
-    assert "78 mm/h for 100 years is below 80 mm/h for 10 years (30 min)" in str(err.value)
+    assert "78.0 mm/h for 100 years is below 80.0 mm/h for 10 years (30 min)" in str(err.value)
+    # restated in US units for a form that shows in/h (78 / 25.4 = 3.07, 80 / 25.4 = 3.15; 1 in = 25.4 mm)
+    from hydraulics.units import US
+    from hydraulics.wording import in_units
+    assert in_units(err.value.message, US).startswith("3.07 in/h for 100 years is below 3.15 in/h for 10 years")
     cells[3][2] = 80.0                                    # equal intensities for two return periods are allowed
     IdfTable(DURATIONS, PERIODS, np.array(cells) * MMH)
 

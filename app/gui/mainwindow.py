@@ -137,7 +137,7 @@ class MainWindow(QMainWindow):
         self.sheet_details_action = act("&Sheet details…", self.edit_sheet_details, None,
                                         "Company, logo, project number, revision and sign-off names for the sheets")
         self.rainfall_action = act("&Rainfall (IDF)…", self.edit_rainfall, None,
-                                   "The project's rainfall intensities by duration and return period, for its ditch runs")
+                                   "The rainfall intensity by duration and return period that the ditch runs read")
         self.project_notes_action = act("Project n&otes…", self.edit_project_notes, None,
                                         "Notes about the whole project")
         self.copy_table_action = act("&Copy comparison table", self.copy_table, None,

@@ -101,8 +101,7 @@ class RainfallDialog(QDialog):
         lay = QVBoxLayout(body)
         lay.setContentsMargins(0, 0, 0, 0)
         lay.setSpacing(8)
-        lay.addWidget(_hint("The rainfall intensity for each storm duration and return period, as your rainfall "
-                            "source gives it. Every ditch run of the project reads its design storm here."))
+        lay.addWidget(_hint("Every ditch run of this project reads its design storm here."))
         form = QGridLayout()
         form.setColumnStretch(1, 1)
         form.addWidget(QLabel("Kind"), 0, 0)
@@ -123,14 +122,14 @@ class RainfallDialog(QDialog):
         self.pages.addWidget(self._table_page())
         self.pages.addWidget(self._formula_page())
         lay.addWidget(self.pages, 1)
-        self.message = QLabel()
-        self.message.setObjectName("fieldMessage")
-        self.message.setWordWrap(True)
-        lay.addWidget(self.message)
         self.cautions = _hint("")
         self.cautions.hide()
         lay.addWidget(self.cautions)
         outer.addWidget(scrolling(body), 1)      # a short screen scrolls the form; the buttons stay in view
+        self.message = QLabel()                  # what keeps OK off, always in view above it
+        self.message.setObjectName("fieldMessage")
+        self.message.setWordWrap(True)
+        outer.addWidget(self.message)
 
         self.buttons = QDialogButtonBox(QDialogButtonBox.StandardButton.Ok | QDialogButtonBox.StandardButton.Cancel)
         self.ok = self.buttons.button(QDialogButtonBox.StandardButton.Ok)
@@ -160,15 +159,15 @@ class RainfallDialog(QDialog):
         lay = QVBoxLayout(page)
         lay.setContentsMargins(0, 0, 0, 0)
         lay.setSpacing(4)
-        lay.addWidget(_hint(f"Return periods [years] across the first row, durations [{self.T}] down the first "
-                            f"column, intensities [{self.I}] in the grid."))
+        lay.addWidget(_hint(f"Return periods [years] across, durations [{self.T}] down, intensities [{self.I}] "
+                            "inside."))
         self.grid = QTableWidget(0, 0)
         self.grid.setObjectName("idfTable")
         self.grid.verticalHeader().setVisible(False)
         self.grid.verticalHeader().setDefaultSectionSize(24)
         self.grid.horizontalHeader().setSectionResizeMode(QHeaderView.ResizeMode.Stretch)
         self.grid.horizontalHeader().setMinimumSectionSize(70)
-        self.grid.setMinimumHeight(130)
+        self.grid.setMinimumHeight(100)
         lay.addWidget(self.grid, 1)
         buttons = QHBoxLayout()
         buttons.setContentsMargins(0, 0, 0, 0)
@@ -193,8 +192,8 @@ class RainfallDialog(QDialog):
         lay = QVBoxLayout(page)
         lay.setContentsMargins(0, 0, 0, 0)
         lay.setSpacing(4)
-        lay.addWidget(_hint(f"i = a / (t + b)^c for each return period, with i in {self.I} and the duration t and "
-                            f"b in {self.T}, as such formulas are usually published; c has no unit."))
+        lay.addWidget(_hint(f"One row per return period: i in {self.I}, the duration t and b in {self.T}, c "
+                            "without unit."))
         self.coefficients = QTableWidget(0, 4)
         self.coefficients.setObjectName("idfFormula")
         self.coefficients.setHorizontalHeaderLabels(["Return period [years]", f"a [{self.I}·{self.T}^c]",
@@ -202,7 +201,7 @@ class RainfallDialog(QDialog):
         self.coefficients.verticalHeader().setVisible(False)
         self.coefficients.verticalHeader().setDefaultSectionSize(24)
         self.coefficients.horizontalHeader().setSectionResizeMode(QHeaderView.ResizeMode.Stretch)
-        self.coefficients.setMinimumHeight(110)
+        self.coefficients.setMinimumHeight(80)
         lay.addWidget(self.coefficients, 1)
         buttons = QHBoxLayout()
         buttons.setContentsMargins(0, 0, 0, 0)
@@ -481,7 +480,7 @@ class RainfallDialog(QDialog):
             except hy.InputError as exc:
                 what = (exc.field.rsplit(".", 1)[-1] if exc.field.endswith((".a", ".b", ".c")) else "return_period")
                 raise Refusal(sentence(f"{self._formula_words(i, _COEFFICIENT_COLUMNS[what])}: "
-                                       f"{str(exc).split(': ', 1)[-1]}"), (g, i, _COEFFICIENT_COLUMNS[what])) from None
+                                       f"{self._words(exc)}"), (g, i, _COEFFICIENT_COLUMNS[what])) from None
         if empty is not None:
             raise Refusal(f"{self._formula_words(*empty)} is still empty.", (g, *empty), unfinished=True)
         low = self._range_value(self.range_from, "The shortest duration")
@@ -497,9 +496,13 @@ class RainfallDialog(QDialog):
             raise self._core_refusal(exc) from None
         return d
 
+    def _words(self, exc: hy.InputError) -> str:
+        """The core's refusal without the field it names, in the project's units where the core worded it so."""
+        return in_units(getattr(exc, "message", None) or str(exc).split(": ", 1)[-1], self.units)
+
     def _core_refusal(self, exc: hy.InputError) -> Refusal:
         """The core's refusal in words, with the cell (or box) it names."""
-        text = str(exc).split(": ", 1)[-1]
+        text = self._words(exc)
         m = _FIELD.fullmatch(exc.field)
         where, words = None, ""
         if m is not None:
@@ -612,4 +615,4 @@ class RainfallDialog(QDialog):
             super().accept()
 
 
-__all__ = ["RainfallDialog", "Refusal", "KINDS", "EMPTY_SIZE"]
+__all__ = ["EMPTY_SIZE", "KINDS", "RainfallDialog", "Refusal"]
