@@ -1,11 +1,14 @@
 """The rainfall (IDF) dialog: the project's table or formula in the project's units, typed back to SI, refused by
 the core's own message, one undoable edit, and a new project's run solved once its rainfall is typed.
 
-Conversions checked by plain arithmetic from the definitions of the units: 1 in = 25.4 mm exactly (international
-inch, 1959), 1 h = 3600 s, 1 min = 60 s. The demo's table and every number typed here are invented.
+Conversions checked by plain arithmetic from the definitions of the units: 1 ft = 0.3048 m exactly, so 1 in =
+25.4 mm (international yard and pound agreement, 1959; NIST Special Publication 811, 2008 ed., Appendix B.8, as
+hydraulics/units.py cites it), 1 h = 3600 s, 1 min = 60 s. The demo's table and every number typed here are
+invented.
 """
 
 import pytest
+from PySide6.QtCore import QLocale
 from PySide6.QtWidgets import QDialog
 
 import hydraulics as hy
@@ -299,3 +302,32 @@ def test_a_refusal_is_worded_in_the_projects_units(qtbot):
     # 5 in/h and the demo's 110 mm/h = 4.33 in/h, each to three figures (1 in = 25.4 mm)
     assert "5.00 in/h at 10 min is not below 4.33 in/h at 5 min (2 years)" in shown and "mm/h" not in shown
     assert d.marked == (d.grid, 2, 1)
+
+
+@pytest.fixture
+def german_numbers():
+    before = QLocale()
+    QLocale.setDefault(QLocale("de_DE"))
+    yield
+    QLocale.setDefault(before)
+
+
+def test_numbers_are_shown_and_read_in_the_users_number_format(qtbot, german_numbers):
+    d = dialog(qtbot, demo_rainfall(), "us")
+    assert d.grid.item(1, 1).text() == "4,3307"                 # 110 mm/h / 25.4 with a decimal comma
+    type_cell(d.grid, 1, 1, "4,5")
+    assert d.ok.isEnabled()
+    assert d.value()["intensities"][0][0] == pytest.approx(4.5 * IN_PER_HOUR, rel=1e-12)
+    type_cell(d.grid, 1, 1, "4,500.5")                          # a number only in another format
+    assert "4,500.5" in plain(d.message.text()) and not d.ok.isEnabled() and d.marked == (d.grid, 1, 1)
+
+
+def test_the_cores_cautions_are_shown_without_refusing(qtbot):
+    # invented: 100 mm/h for 5 min is 8.33 mm of rain, 40 mm/h for 10 min only 6.67 mm: the depth falls
+    rain = {"kind": "table", "source": "Invented for a test", "durations": [300.0, 600.0], "return_periods": [10.0],
+            "intensities": [[100 * MM_PER_HOUR], [40 * MM_PER_HOUR]]}
+    d = dialog(qtbot, rain, "si")
+    assert d.ok.isEnabled() and not d.cautions.isHidden()
+    assert "rainfall depth falls from 8.33 mm in 5 min to 6.67 mm in 10 min" in plain(d.cautions.text())
+    type_cell(d.grid, 2, 1, "60")                                # 10 mm in 10 min: no caution
+    assert d.ok.isEnabled() and d.cautions.isHidden()
