@@ -302,13 +302,13 @@ class RainfallDialog(QDialog):
             formula = IdfFormula.from_dict(rainfall)
             rows = formula.to_dict()["coefficients"]
             g.setRowCount(len(rows))
-            for i, ((p, (a, b, c)), si) in enumerate(zip(formula.customary(self.units.key).items(), rows)):
+            for i, ((p, (a, b, c)), si) in enumerate(zip(formula.customary(self.units.key).items(), rows, strict=True)):
                 for j, v in enumerate((p, a, b, c)):
                     g.setItem(i, j, _cell(v))
                 g.item(i, 0).setData(_ROW, si)
             rng = formula.duration_range
             if rng is not None:
-                for edit, v in zip((self.range_from, self.range_to), rng):
+                for edit, v in zip((self.range_from, self.range_to), rng, strict=True):
                     edit.setText(format_number(float(self.units.from_si("duration", v))))
                     edit.kept = (edit.text(), float(v))
         g.blockSignals(False)
