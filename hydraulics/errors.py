@@ -16,11 +16,14 @@ class InputError(HydraulicsError, ValueError):
     """An input is missing, not a number, or outside its allowed range.
 
     ``field`` is the name of the offending input as the caller knows it
-    (``"slope"``, ``"bottom_width"``...), so a form can mark it.
+    (``"slope"``, ``"bottom_width"``...), so a form can mark it; ``message``
+    is the rest, which a form in US units restates with
+    :func:`hydraulics.wording.in_units` when the core made it with ``worded``.
     """
 
     def __init__(self, field: str, message: str):
         self.field = field
+        self.message = message   # as given: one made by hydraulics.wording.worded restates in other units
         super().__init__(f"{field}: {message}")
 
 

@@ -90,10 +90,6 @@ def _minutes(t: float) -> str:
     return f"{t / MINUTE:.4g} min"
 
 
-def _mm_per_hour(i: float) -> str:
-    return f"{i * 3.6e6:.4g} mm/h"
-
-
 def _years(values) -> str:
     return ", ".join(f"{v:g}" for v in values) + " years"
 
@@ -108,8 +104,9 @@ def _finite_positive(field: str, value) -> float:
     return v
 
 
-def _vector(field: str, values, *, minimum_length: int) -> np.ndarray:
-    """A 1-D array of finite numbers > 0 in strictly increasing order, at least ``minimum_length`` long."""
+def _vector(field: str, values, *, minimum_length: int, shown=lambda v: f"{v:g}") -> np.ndarray:
+    """A 1-D array of finite numbers > 0 in strictly increasing order, at least ``minimum_length`` long; a refusal
+    quotes the values as ``shown`` writes them (with their unit)."""
     try:
         arr = np.array(values, dtype=float)
     except (TypeError, ValueError):
@@ -120,11 +117,11 @@ def _vector(field: str, values, *, minimum_length: int) -> np.ndarray:
         raise InputError(field, f"must hold at least {minimum_length} values, got {arr.size}")
     for k, v in enumerate(arr):
         if not math.isfinite(v) or v <= 0:
-            raise InputError(f"{field}[{k}]", f"must be a finite number > 0, got {v:g}")
+            raise InputError(f"{field}[{k}]", f"must be a finite number > 0, got {shown(v)}")
     for k in range(1, arr.size):
         if arr[k] <= arr[k - 1]:
-            raise InputError(f"{field}[{k}]", f"must be greater than the value before it ({arr[k - 1]:g}), "
-                                              f"got {arr[k]:g}; the values must be in increasing order")
+            raise InputError(f"{field}[{k}]", f"must be greater than the value before it ({shown(arr[k - 1])}), "
+                                              f"got {shown(arr[k])}; the values must be in increasing order")
     arr.setflags(write=False)
     return arr
 
@@ -209,8 +206,9 @@ class IdfTable(_Idf):
     _what = "the IDF table"
 
     def __init__(self, durations, return_periods, intensities):
-        t = _vector("rainfall.durations", durations, minimum_length=2)
-        periods = _vector("rainfall.return_periods", return_periods, minimum_length=1)
+        t = _vector("rainfall.durations", durations, minimum_length=2, shown=_minutes)
+        periods = _vector("rainfall.return_periods", return_periods, minimum_length=1,
+                          shown=lambda v: f"{v:g} years")
         try:
             cells = np.array(intensities, dtype=float)
         except (TypeError, ValueError):
@@ -221,22 +219,22 @@ class IdfTable(_Idf):
                                                      f"values (return periods), got shape {cells.shape}")
         for (r, c), v in np.ndenumerate(cells):
             if not math.isfinite(v) or v <= 0:
-                raise InputError(f"rainfall.intensities[{r}][{c}]", f"must be a finite intensity > 0, got {v:g} m/s")
+                raise InputError(f"rainfall.intensities[{r}][{c}]",
+                                 worded("must be a finite intensity > 0, got {v}", v=(v, "intensity")))
         for c in range(periods.size):
             for r in range(1, t.size):
                 if not cells[r, c] < cells[r - 1, c]:
-                    raise InputError(
-                        f"rainfall.intensities[{r}][{c}]",
-                        f"{_mm_per_hour(cells[r, c])} at {_minutes(t[r])} is not below {_mm_per_hour(cells[r - 1, c])} "
-                        f"at {_minutes(t[r - 1])} ({periods[c]:g} years); intensity must fall as the duration grows")
+                    raise InputError(f"rainfall.intensities[{r}][{c}]", worded(
+                        "{i} at {t} is not below {i0} at {t0} ({period} years); intensity must fall as the duration "
+                        "grows", i=(cells[r, c], "intensity"), t=_minutes(t[r]), i0=(cells[r - 1, c], "intensity"),
+                        t0=_minutes(t[r - 1]), period=f"{periods[c]:g}"))
         for r in range(t.size):
             for c in range(1, periods.size):
                 if cells[r, c] < cells[r, c - 1]:
-                    raise InputError(
-                        f"rainfall.intensities[{r}][{c}]",
-                        f"{_mm_per_hour(cells[r, c])} for {periods[c]:g} years is below "
-                        f"{_mm_per_hour(cells[r, c - 1])} for {periods[c - 1]:g} years ({_minutes(t[r])}); "
-                        "intensity must not fall as the return period grows")
+                    raise InputError(f"rainfall.intensities[{r}][{c}]", worded(
+                        "{i} for {period} years is below {i0} for {period0} years ({t}); intensity must not fall as "
+                        "the return period grows", i=(cells[r, c], "intensity"), period=f"{periods[c]:g}",
+                        i0=(cells[r, c - 1], "intensity"), period0=f"{periods[c - 1]:g}", t=_minutes(t[r])))
         cells.setflags(write=False)
         self._t, self._periods, self._cells = t, periods, cells
         self._return_periods = tuple(float(p) for p in periods)
@@ -370,8 +368,8 @@ class IdfFormula(_Idf):
             low = _finite_positive("rainfall.duration_range[0]", low)
             high = _finite_positive("rainfall.duration_range[1]", high)
             if high <= low:
-                raise InputError("rainfall.duration_range[1]", f"must be above the shortest duration {low:g} s, "
-                                                               f"got {high:g} s")
+                raise InputError("rainfall.duration_range[1]", f"must be above the shortest duration "
+                                                               f"{_minutes(low)}, got {_minutes(high)}")
             self._duration_range = (low, high)
 
     @property

@@ -127,7 +127,11 @@ def test_an_intensity_that_falls_as_the_return_period_rises_is_refused():
     with pytest.raises(InputError) as err:
         IdfTable(DURATIONS, PERIODS, np.array(cells) * MMH)
     assert err.value.field == "rainfall.intensities[3][2]"
-    assert "78 mm/h for 100 years is below 80 mm/h for 10 years (30 min)" in str(err.value)
+    assert "78.0 mm/h for 100 years is below 80.0 mm/h for 10 years (30 min)" in str(err.value)
+    # restated in US units for a form that shows in/h (78 / 25.4 = 3.07, 80 / 25.4 = 3.15; 1 in = 25.4 mm)
+    from hydraulics.units import US
+    from hydraulics.wording import in_units
+    assert in_units(err.value.message, US).startswith("3.07 in/h for 100 years is below 3.15 in/h for 10 years")
     cells[3][2] = 80.0                                    # equal intensities for two return periods are allowed
     IdfTable(DURATIONS, PERIODS, np.array(cells) * MMH)
 
@@ -271,3 +275,12 @@ def test_files_that_are_not_an_idf_relation_are_refused_clearly():
 
 def test_the_formula_form_is_cited_as_read():
     assert pv.entry("idf_formula").verified and pv.entry("idf_depth_consistency").verified
+
+
+def test_durations_and_return_periods_out_of_order_are_refused_in_minutes_and_years():
+    with pytest.raises(InputError, match=r"rainfall.durations\[1\]: must be greater than the value before it "
+                                         r"\(10 min\), got 5 min"):
+        IdfTable([600.0, 300.0], [10], [[2e-5], [1e-5]])
+    with pytest.raises(InputError, match=r"rainfall.return_periods\[1\]: must be greater than the value before it "
+                                         r"\(10 years\), got 2 years"):
+        IdfTable([300.0, 600.0], [10, 2], [[2e-5, 3e-5], [1e-5, 2e-5]])

@@ -111,7 +111,7 @@ class RemoveChannel(QUndoCommand):
 
 
 class EditProject(QUndoCommand):
-    """Change a project-level text (name or notes)."""
+    """Change a project-level value (name, notes, rainfall relation), swapped whole."""
 
     def __init__(self, doc, attribute: str, value: str, text: str):
         super().__init__(text)

@@ -29,7 +29,7 @@ class ProjectDocument(QObject):
     channels_changed = Signal()      # channels added, removed or renamed
     units_changed = Signal()
     current_changed = Signal(int)
-    project_changed = Signal()       # project name, notes or sheet details
+    project_changed = Signal()       # project name, notes, sheet details or rainfall
     run_changed = Signal(int)        # the inputs of one ditch run changed
     runs_changed = Signal(int)       # ditch runs added or removed; the index of the run to show
 
@@ -219,6 +219,12 @@ class ProjectDocument(QObject):
     def set_project_text(self, attribute: str, value: str, text: str) -> None:
         if getattr(self.project, attribute) != value:
             self.undo_stack.push(cmd.EditProject(self, attribute, value, text))
+
+    def set_rainfall(self, rainfall: dict | None, text: str = "Change the rainfall (IDF)") -> None:
+        """Replace the project's rainfall relation (a dict for hydraulics.rainfall.idf_from_dict, its source text
+        included) in one undoable step; the runs are solved again (``project_changed``)."""
+        if rainfall != self.project.rainfall:
+            self.undo_stack.push(cmd.EditProject(self, "rainfall", copy.deepcopy(rainfall), text))
 
     def unique_name(self, base: str) -> str:
         names = {c.name for c in self.project.channels}

@@ -132,6 +132,8 @@ class MainWindow(QMainWindow):
         self.project_name_action = act("Project &name…", self.rename_project, None, "Name the project")
         self.sheet_details_action = act("&Sheet details…", self.edit_sheet_details, None,
                                         "Company, logo, project number, revision and sign-off names for the sheets")
+        self.rainfall_action = act("&Rainfall (IDF)…", self.edit_rainfall, None,
+                                   "The rainfall intensity by duration and return period that the ditch runs read")
         self.project_notes_action = act("Project n&otes…", self.edit_project_notes, None,
                                         "Notes about the whole project")
         self.copy_table_action = act("&Copy comparison table", self.copy_table, None,
@@ -187,7 +189,8 @@ class MainWindow(QMainWindow):
         m.addAction(self.copy_table_action)
         m.addAction(self.open_station_action)
         m = bar.addMenu("&Project")
-        m.addActions([self.project_name_action, self.sheet_details_action, self.project_notes_action])
+        m.addActions([self.project_name_action, self.sheet_details_action, self.project_notes_action,
+                      self.rainfall_action])
         m = bar.addMenu("&View")
         m.addActions([self.channels_action, self.runs_action])
         m.addSeparator()
@@ -460,6 +463,7 @@ class MainWindow(QMainWindow):
                                     can_draw=lambda: self.export_task is None)
             self.run_view.status_message.connect(lambda m: self.statusBar().showMessage(m, 8000))
             self.run_view.open_channel.connect(self._station_opened)
+            self.run_view.rainfall_asked.connect(self.edit_rainfall)
             self.pages.addWidget(self.run_view)
         self.pages.setCurrentWidget(self.run_view)
         self.runs_action.setChecked(True)
@@ -546,6 +550,13 @@ class MainWindow(QMainWindow):
         dialog = NotesDialog(self.doc.project.notes, parent=self)
         if dialog.exec() == QDialog.DialogCode.Accepted:
             self.doc.set_project_text("notes", dialog.text(), "Change project notes")
+
+    def edit_rainfall(self) -> None:
+        """The project's rainfall relation in a dialog; OK makes one undoable edit and the runs are solved again."""
+        from .rainfall_dialog import RainfallDialog
+        dialog = RainfallDialog(self.doc.project.rainfall, self.doc.units, parent=self)
+        if dialog.exec() == QDialog.DialogCode.Accepted:
+            self.doc.set_rainfall(dialog.value())
 
     def copy_table(self) -> None:
         self.tabs.setCurrentIndex(TABS.index("compare"))

@@ -974,6 +974,7 @@ class RunView(QWidget):
 
     status_message = Signal(str)
     open_channel = Signal(str)     # the name of a channel just opened from a station
+    rainfall_asked = Signal()      # the rainfall (IDF) button: the project's rainfall keeps the run from a result
 
     def __init__(self, doc: ProjectDocument, open_action: QAction | None = None, can_draw=lambda: True, parent=None):
         """``open_action``: the window's action that opens the selected station as a channel (made here when
@@ -1060,6 +1061,11 @@ class RunView(QWidget):
         lower.setMinimumHeight(110)
 
         self.results = RunResultsPanel()
+        self.rainfall_button = QPushButton("Rainfall (IDF)…")     # shown while the rainfall is what is wrong
+        self.rainfall_button.setObjectName("editRainfall")
+        self.rainfall_button.hide()
+        self.rainfall_button.clicked.connect(self.rainfall_asked)
+        self.results.verdict.layout().addWidget(self.rainfall_button, 0, Qt.AlignmentFlag.AlignLeft)
         self.splitter = QSplitter(Qt.Orientation.Horizontal)
         self.splitter.setObjectName("runSplitter")
         self.splitter.addWidget(self.inputs)
@@ -1082,6 +1088,7 @@ class RunView(QWidget):
         doc.units_changed.connect(self._units_changed)
         doc.run_changed.connect(self._run_changed)
         doc.runs_changed.connect(self.show_run)
+        doc.project_changed.connect(self.compute)      # the project's rainfall feeds every run
         self.reload()
 
     # -- which run --------------------------------------------------------------------------
@@ -1252,6 +1259,7 @@ class RunView(QWidget):
         if self._current():
             self.design = self.last_good = design
             self.problem = ""
+            self.rainfall_button.hide()
             self.show_result()
 
     def _not_solved(self, exc: BaseException) -> None:
@@ -1267,6 +1275,7 @@ class RunView(QWidget):
         if isinstance(exc, hy.InputError) and where.startswith("outfall"):
             self.inputs.outfall.mark(self.problem)
         setting = where.rsplit(": ", 1)[-1]
+        self.rainfall_button.setVisible(setting.split(".")[0] in ("rainfall", "return_period"))
         if isinstance(exc, hy.InputError) and setting in RUN_SETTINGS:
             self.inputs.settings.mark(setting, self.problem)
         if m is not None and isinstance(exc, hy.InputError):

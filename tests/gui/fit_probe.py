@@ -314,6 +314,18 @@ def run(args) -> dict:
         d.close()
         d.deleteLater()
 
+    from app.gui.rainfall_dialog import RainfallDialog
+    for name, rainfall in (("rainfall", w.doc.project.rainfall), ("rainfall-empty", None)):
+        d = RainfallDialog(rainfall, w.doc.units, parent=w)
+        probe.look(name, d)
+        if rainfall is not None:          # a refused cell: the core's message under the grid
+            d.grid.item(2, 1).setText("900")
+            probe.look("rainfall-complaint", d)
+            d.kind.setCurrentIndex(d.kind.findData("formula"))
+            probe.look("rainfall-formula", d)
+        d.close()
+        d.deleteLater()
+
     w.open_inventory()
     inv = w.inventory_dialog
     probe.look("inventory", inv)

@@ -73,7 +73,8 @@ P-4,circle,,,,1,0.002,40,,,0.013,Invented Rd 2
 """
 #: Windows and dialogs the probe must have looked at (message boxes are numbered in the order shown).
 EXPECTED = {"main-section", "main-rating", "main-energy", "main-comparison", "main-runs", "sheet-details",
-            "sheet-export", "sheet-export-complaint", "project-notes", "inventory", "inventory-checked",
+            "sheet-export", "sheet-export-complaint", "project-notes", "rainfall", "rainfall-empty",
+            "rainfall-complaint", "rainfall-formula", "inventory", "inventory-checked",
             "message-1-about-ditchwright", "message-2-unsaved-changes", "message-3-the-file-was-changed",
             "message-4-recover-unsaved-work", "message-5-autosave-failed"}
 
