@@ -22,6 +22,7 @@ import json
 import math
 import os
 import tempfile
+import warnings
 from contextlib import contextmanager
 from dataclasses import dataclass
 from pathlib import Path
@@ -273,7 +274,9 @@ def layer_stream(path, layer: Layer | None, name: str):
         options = {}
         if layer is not None:
             options = dict(geometry_name=layer.geometry_name, geometry_type=layer.geometry_type, crs=layer.crs)
-        pyogrio.write_arrow(table, tmp, layer=name, driver="GPKG", append=written, **options)
+        with warnings.catch_warnings():   # GDAL's note that the temporary file's name does not end in .gpkg
+            warnings.filterwarnings("ignore", message=".*extension", category=RuntimeWarning)
+            pyogrio.write_arrow(table, tmp, layer=name, driver="GPKG", append=written, **options)
         written = True
 
     try:
