@@ -273,3 +273,16 @@ def test_the_map_legend_says_each_verdict_in_words_with_its_reaches_and_length(t
     assert "Stable: " in svg and "Hydraulics only: " in svg and "hydraulics-only" not in svg   # words, not tokens
     kept = sum(len(v) for v in tally.lines.verdicts)
     assert kept == len(rows)
+
+
+def test_a_layer_is_read_in_blocks_with_progress_by_features(tmp_path):
+    rows = typed_rows(mixed_rows(40))
+    write_layer(tmp_path / "inv.gpkg", rows, invented_lines(len(rows)))
+    blocks = list(ai.read_layer_blocks(tmp_path / "inv.gpkg", "us", rows=15))
+    assert [len(b) for b in blocks] == [15, 15, 10]
+    assert [b.end for b in blocks] == [15, 30, 40]
+    assert [b.features.num_rows for b in blocks] == [15, 15, 10]
+    assert np.concatenate([b.lines for b in blocks]).tolist() == list(range(1, 41))   # feature ids
+    seen = []
+    ai.check_file(tmp_path / "inv.gpkg", tmp_path / "out.gpkg", rows=15, progress=lambda d, t: seen.append((d, t)))
+    assert seen == [(15, 40), (30, 40), (40, 40)]

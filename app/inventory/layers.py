@@ -11,7 +11,7 @@ features (attributes as stored, geometry as WKB) in :attr:`Inventory.features` f
 A row's "line" is its feature id.
 
 Lengths: a layer without a ``length`` column gets one, each reach's length measured on its geometry with shapely
-in the layer's own coordinate system and given in the inventory's units. That needs a projected system: one in
+(in plan: x and y only) in the layer's own coordinate system and given in the inventory's units. That needs a projected system: one in
 degrees is refused for lengths (a layer with its own ``length`` column is read whatever its system).
 """
 
@@ -67,6 +67,11 @@ def _modules():
     return pyogrio
 
 
+def _gdal_errors(pyogrio) -> tuple:
+    """What pyogrio raises where GDAL cannot read or write a file (RuntimeError subclasses)."""
+    return pyogrio.errors.DataSourceError, pyogrio.errors.DataLayerError
+
+
 def layer_names(path) -> list:
     """The names of the layers of the GeoPackage at ``path`` (InventoryError where it cannot be read)."""
     pyogrio = _modules()
@@ -75,7 +80,7 @@ def layer_names(path) -> list:
         raise InventoryError(f"cannot read {path}: no such file")
     try:
         return [str(name) for name, _ in pyogrio.list_layers(path)]
-    except pyogrio.errors.DataSourceError as exc:
+    except _gdal_errors(pyogrio) as exc:
         raise InventoryError(f"cannot read {path} as a GeoPackage: {_first_line(exc)}") from None
 
 
@@ -158,11 +163,11 @@ def read_layer_blocks(path, units: str = "us", rows: int = 100_000, layer: str |
     source = str(path)
     try:
         info = pyogrio.read_info(path, layer=name)
-    except pyogrio.errors.DataSourceError as exc:
+    except _gdal_errors(pyogrio) as exc:
         raise InventoryError(f"cannot read {path}: {_first_line(exc)}") from None
     kind = info.get("geometry_type")
     if kind is None or kind.split(" ")[0] not in LINE_TYPES:    # pyogrio's names: "LineString", "LineString Z"
-        kind = kind or "no geometry"
+        kind = f"{kind} geometry" if kind else "no geometry"
         raise InventoryError(f"{path}: layer {name!r} holds {kind}, not lines; an inventory layer holds each reach "
                              f"as a {' or a '.join(LINE_TYPES)}")
     fields = [str(f) for f in info["fields"]]
@@ -212,7 +217,7 @@ def read_layer_blocks(path, units: str = "us", rows: int = 100_000, layer: str |
                 header = csv_line(fields + ([LENGTH_COLUMN] if measure else []))
                 parse_inventory(header + "\n", units, source=source)
                 raise InventoryError(f"{path}: layer {name!r} has no features")
-    except pyogrio.errors.DataSourceError as exc:
+    except _gdal_errors(pyogrio) as exc:
         raise InventoryError(f"cannot read {path}: {_first_line(exc)}") from None
 
 
@@ -276,7 +281,10 @@ def layer_stream(path, layer: Layer | None, name: str):
             options = dict(geometry_name=layer.geometry_name, geometry_type=layer.geometry_type, crs=layer.crs)
         with warnings.catch_warnings():   # GDAL's note that the temporary file's name does not end in .gpkg
             warnings.filterwarnings("ignore", message=".*extension", category=RuntimeWarning)
-            pyogrio.write_arrow(table, tmp, layer=name, driver="GPKG", append=written, **options)
+            try:
+                pyogrio.write_arrow(table, tmp, layer=name, driver="GPKG", append=written, **options)
+            except _gdal_errors(pyogrio) as exc:   # a full disk, a folder not writable: said as for a CSV file
+                raise OSError(f"GDAL: {_first_line(exc)}") from None
         written = True
 
     try:
