@@ -156,6 +156,9 @@ def read_layer_blocks(path, units: str = "us", rows: int = 100_000, layer: str |
     lines, a missing column (see :func:`~app.inventory.reading.parse_inventory`) or a layer in degrees without a
     ``length`` column; InputError for unknown units.
     """
+    import pyarrow as pa
+    import shapely
+
     pyogrio = _modules()
     system = hu.system(units)
     path = Path(path)
@@ -189,16 +192,15 @@ def read_layer_blocks(path, units: str = "us", rows: int = 100_000, layer: str |
                                      f"be measured on its lines: {where}; reproject it to a projected system in "
                                      f"metres or feet, or add a '{LENGTH_COLUMN}' column")
             done, header, first = 0, None, True
-            import pyarrow as pa
-
             for batch in reader:
                 table = pa.Table.from_batches([batch])
-                fids = table.column(fid).to_numpy() if fid in table.column_names else np.arange(done, done + len(table)) + 1
-                table = table.drop_columns([c for c in (fid,) if c in table.column_names])
+                if fid in table.column_names:
+                    fids = table.column(fid).to_numpy()
+                    table = table.drop_columns([fid])
+                else:
+                    fids = np.arange(done + 1, done + len(table) + 1)
                 attributes = table.drop_columns([geometry])
                 if measure:
-                    import shapely
-
                     lengths = shapely.length(shapely.from_wkb(table.column(geometry).to_numpy(zero_copy_only=False)))
                     lengths = system.from_si("length", lengths * factor)
                     length = pa.array(np.round(lengths, 3), mask=~np.isfinite(lengths))
