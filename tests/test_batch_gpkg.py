@@ -286,3 +286,34 @@ def test_a_layer_is_read_in_blocks_with_progress_by_features(tmp_path):
     seen = []
     ai.check_file(tmp_path / "inv.gpkg", tmp_path / "out.gpkg", rows=15, progress=lambda d, t: seen.append((d, t)))
     assert seen == [(15, 40), (30, 40), (40, 40)]
+
+
+def test_damaged_geopackages_are_read_or_refused_in_one_line(tmp_path, capsys):
+    """A fixed budget of damaged copies of a good layer (truncated, or bytes overwritten at random places): each is
+    checked or refused with exit status 2 and one line, never a traceback. A damaged geometry gets no length."""
+    import random
+    import warnings
+
+    rows = typed_rows(mixed_rows(40))
+    write_layer(tmp_path / "good.gpkg", rows, invented_lines(len(rows)))
+    good = (tmp_path / "good.gpkg").read_bytes()
+    rng = random.Random(17)
+    outcomes = set()
+    for k in range(60):
+        data = bytearray(good)
+        if k % 3 == 0:
+            data = data[:rng.randrange(len(data))]
+        else:
+            for _ in range(rng.randint(1, 20)):
+                data[rng.randrange(len(data))] = rng.randrange(256)
+        (tmp_path / "damaged.gpkg").write_bytes(bytes(data))
+        with warnings.catch_warnings():   # GDAL's notes about what it finds in a damaged file
+            warnings.simplefilter("ignore")
+            status = main(["batch", str(tmp_path / "damaged.gpkg"), "-o", str(tmp_path / "out.gpkg"),
+                           "--no-progress"])
+        err = capsys.readouterr().err
+        assert status in (0, 1, 2) and "Traceback" not in err
+        if status == 2:
+            assert len(err.strip().splitlines()) == 1, err
+        outcomes.add(status)
+    assert 2 in outcomes and 1 in outcomes   # some copies are refused, some still read

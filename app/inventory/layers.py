@@ -192,7 +192,7 @@ def read_layer_blocks(path, units: str = "us", rows: int = 100_000, layer: str |
                                      f"be measured on its lines: {where}; reproject it to a projected system in "
                                      f"metres or feet, or add a '{LENGTH_COLUMN}' column")
             done, header, first = 0, None, True
-            for batch in reader:
+            for batch in _batches(pa, reader, path):
                 table = pa.Table.from_batches([batch])
                 if fid in table.column_names:
                     fids = table.column(fid).to_numpy()
@@ -201,14 +201,15 @@ def read_layer_blocks(path, units: str = "us", rows: int = 100_000, layer: str |
                     fids = np.arange(done + 1, done + len(table) + 1)
                 attributes = table.drop_columns([geometry])
                 if measure:
-                    lengths = shapely.length(shapely.from_wkb(table.column(geometry).to_numpy(zero_copy_only=False)))
+                    lengths = shapely.length(lines_of(table.column(geometry)))
                     lengths = system.from_si("length", lengths * factor)
                     length = pa.array(np.round(lengths, 3), mask=~np.isfinite(lengths))
                     attributes = attributes.append_column(LENGTH_COLUMN, length)
                     table = table.append_column(LENGTH_COLUMN, length)
                 if header is None:
                     header = csv_line(attributes.column_names)
-                block = parse_inventory(header + "\n" + _csv_body(pa, attributes, source), units, source=source)
+                body = _csv_body(pa, attributes, source, fids)
+                block = parse_inventory(header + "\n" + body, units, source=source)
                 block.lines = np.asarray(fids, dtype=np.int64)
                 block.features, block.layer = table, found
                 done += len(table)
@@ -223,8 +224,27 @@ def read_layer_blocks(path, units: str = "us", rows: int = 100_000, layer: str |
         raise InventoryError(f"cannot read {path}: {_first_line(exc)}") from None
 
 
-def _csv_body(pa, attributes, source) -> str:
-    """The rows of ``attributes`` as CSV text (no header), quoted only where a value needs it."""
+def lines_of(column):
+    """The geometries of a WKB column as shapely objects; one that cannot be read (damaged) is None (no length)."""
+    import shapely
+
+    return shapely.from_wkb(column.to_numpy(zero_copy_only=False), on_invalid="ignore")
+
+
+def _batches(pa, reader, path):
+    """The record batches of ``reader``; a file found damaged on the way is refused in one line."""
+    while True:
+        try:
+            batch = reader.read_next_batch()
+        except StopIteration:
+            return
+        except (OSError, pa.ArrowException) as exc:   # e.g. "database disk image is malformed"
+            raise InventoryError(f"cannot read {path}: {_first_line(exc)}") from None
+        yield batch
+
+
+def _csv_body(pa, attributes, source, fids) -> str:
+    """The rows of ``attributes`` (features ``fids``) as CSV text (no header), quoted only where a value needs it."""
     import pyarrow.csv as pacsv
 
     out = io.BytesIO()
@@ -236,7 +256,13 @@ def _csv_body(pa, attributes, source) -> str:
             pacsv.write_csv(attributes, out, pacsv.WriteOptions(include_header=False, quoting_style="needed"))
     except pa.ArrowNotImplementedError as exc:
         raise InventoryError(f"{source}: an attribute column cannot be read as text ({_first_line(exc)})") from None
-    return out.getvalue().decode("utf-8")
+    data = out.getvalue()
+    try:
+        return data.decode("utf-8")
+    except UnicodeDecodeError as exc:   # GDAL passes on text a damaged file holds as it finds it
+        row = data.count(b"\n", 0, exc.start)
+        raise InventoryError(f"{source}: feature {fids[row]}: text that is not UTF-8 (byte 0x{data[exc.start]:02x}); "
+                             "a GeoPackage holds its text as UTF-8") from None
 
 
 # ----------------------------------------------------------------------------- writing

@@ -303,10 +303,10 @@ class ReachLines:
     def add(self, inventory: Inventory, result: mr.BatchResult) -> None:
         import shapely
 
-        from .layers import LENGTH_COLUMN
+        from .layers import LENGTH_COLUMN, lines_of
 
         features = inventory.features
-        lines = shapely.from_wkb(features.column(self.layer.geometry_name).to_numpy(zero_copy_only=False))
+        lines = lines_of(features.column(self.layer.geometry_name))
         if self.tolerance > 0:
             lines = shapely.simplify(lines, self.tolerance, preserve_topology=False)
         parts, owner = shapely.get_parts(lines, return_index=True)
