@@ -58,6 +58,7 @@ class Layer:
     bounds: tuple | None        # (xmin, ymin, xmax, ymax) in the layer's coordinates
     metres_per_unit: float | None   # of the coordinates; None: geographic or unknown (no lengths measured)
     projected: bool
+    unit_name: str = ""             # of the coordinates, as the coordinate system names it ("metre", "US survey foot")
 
 
 def _modules():
@@ -108,25 +109,27 @@ def _crs_of(schema, geometry_name) -> dict | None:
     return crs if isinstance(crs, dict) else None
 
 
-def _metres_per_unit(crs: dict | None) -> tuple[bool, float | None]:
-    """(projected, metres per coordinate unit) of a PROJJSON system; None where lengths cannot be measured."""
+def _metres_per_unit(crs: dict | None) -> tuple[bool, float | None, str]:
+    """(projected, metres per coordinate unit, the unit's name) of a PROJJSON system; None where lengths cannot be
+    measured."""
     if crs is None:
-        return False, None
+        return False, None, ""
     if crs.get("type") == "CompoundCRS":     # horizontal system first, then the vertical one
         crs = (crs.get("components") or [{}])[0]
-    if crs.get("type") != "ProjectedCRS":
-        return False, None
     try:
         unit = crs["coordinate_system"]["axis"][0]["unit"]
     except (KeyError, IndexError, TypeError):
-        return True, None
+        unit = ""
+    name = unit if isinstance(unit, str) else str(unit.get("name", "")) if isinstance(unit, dict) else ""
+    if crs.get("type") != "ProjectedCRS":
+        return False, None, name
     if unit == "metre":     # PROJJSON writes the metre by name only
-        return True, 1.0
+        return True, 1.0, name
     if isinstance(unit, dict) and unit.get("type") == "LinearUnit":
         factor = unit.get("conversion_factor")
         if isinstance(factor, (int, float)) and math.isfinite(factor) and factor > 0:
-            return True, float(factor)
-    return True, None
+            return True, float(factor), name
+    return True, None, name
 
 
 def _choose_layer(path, layer: str | None) -> str:
@@ -179,10 +182,10 @@ def read_layer_blocks(path, units: str = "us", rows: int = 100_000, layer: str |
         with pyogrio.open_arrow(path, layer=name, batch_size=rows, return_fids=True, use_pyarrow=True) as (meta, reader):
             geometry = meta["geometry_name"] or "wkb_geometry"
             fid = meta.get("fid_column") or "fid"
-            projected, factor = _metres_per_unit(_crs_of(reader.schema, geometry))
+            projected, factor, unit_name = _metres_per_unit(_crs_of(reader.schema, geometry))
             found = Layer(name=name, crs=info.get("crs"), geometry_type=kind, geometry_name=geometry,
                           features=int(info.get("features") or 0), bounds=info.get("total_bounds"),
-                          metres_per_unit=factor, projected=projected)
+                          metres_per_unit=factor, projected=projected, unit_name=unit_name)
             if measure and factor is None:
                 where = ("its coordinates are in degrees (a geographic system, " + str(found.crs) + ")"
                          if not projected and found.crs else

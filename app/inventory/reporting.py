@@ -320,7 +320,8 @@ class ReachLines:
         self.verdicts.append(verdict[owner])
         try:
             length = features.column(LENGTH_COLUMN).cast("double").to_numpy(zero_copy_only=False)
-        except Exception:   # text that is not a number, or no such column: no lengths in the legend
+        except (KeyError, ValueError, NotImplementedError):   # no such column, or text that is not a number
+            # (pyarrow's ArrowInvalid is a ValueError): no lengths in the legend
             self.measured = False
             return
         self.measured = self.measured and not np.isnan(length).any()
@@ -335,8 +336,8 @@ def plot_map(lines: ReachLines, counts: dict, path, title: str = "Ditch inventor
     path = Path(path)
     if path.suffix.lower() not in PLOT_FORMATS:
         raise InventoryError(f"map {path}: the name must end in {', '.join(PLOT_FORMATS)}")
+    from matplotlib import rc_context
     from matplotlib.backends.backend_agg import FigureCanvasAgg
-    from matplotlib.collections import LineCollection
     from matplotlib.figure import Figure
 
     fig = Figure(figsize=(10, 7), layout="constrained")
@@ -344,31 +345,31 @@ def plot_map(lines: ReachLines, counts: dict, path, title: str = "Ditch inventor
     ax = fig.subplots()
     coords = np.concatenate(lines.coords) if lines.coords else np.zeros((0, 2), dtype=np.float32)
     verdicts = np.concatenate(lines.verdicts) if lines.verdicts else np.zeros(0, dtype=np.int8)
-    starts, shift = [], 0
-    for block, points in zip(lines.starts, lines.coords):
-        starts.append(block[:-1] + shift)
-        shift += len(points)
-    starts = np.concatenate(starts + [np.array([shift])]) if lines.starts else np.zeros(1, dtype=np.intp)
+    counts_of_points = np.concatenate([np.diff(s) for s in lines.starts]) if lines.starts else np.zeros(0, int)
+    owner = np.repeat(np.arange(len(verdicts)), counts_of_points)     # each point's line
     unit = lines.units.label("length")
     for code, verdict in enumerate(mr.VERDICTS):
         if not counts.get(verdict):
             continue
-        chosen = np.flatnonzero(verdicts == code)
-        segments = [coords[starts[i]:starts[i + 1]] for i in chosen.tolist()]
+        # One path a verdict, its lines separated by a blank point: light however many reaches there are.
+        chosen = np.flatnonzero(verdicts[owner] == code)
+        points = coords[chosen].astype(float)
+        points = np.insert(points, np.flatnonzero(np.diff(owner[chosen])) + 1, np.nan, axis=0)
         label = f"{Verdict.from_token(verdict).words}: {counts[verdict]:,} reach{'es' if counts[verdict] != 1 else ''}"
         if lines.measured:
             label += f", {lines.lengths[verdict]:,.0f} {unit}"
-        ax.add_collection(LineCollection(segments, colors=VERDICT_COLOURS[verdict], linewidths=1.6, label=label))
-    ax.autoscale_view()
+        ax.plot(points[:, 0], points[:, 1], color=VERDICT_COLOURS[verdict], linewidth=1.6, label=label)
     if lines.layer.projected:
         ax.set_aspect("equal", adjustable="datalim")
     ax.ticklabel_format(useOffset=False, style="plain")
     x0, y0 = lines.origin if lines.origin is not None else (0.0, 0.0)
-    ax.set_xlabel(f"easting - {x0:,.0f}" if lines.layer.projected else f"x - {x0:g}")
-    ax.set_ylabel(f"northing - {y0:,.0f}" if lines.layer.projected else f"y - {y0:g}")
+    axis_unit = f" ({lines.layer.unit_name})" if lines.layer.unit_name else ""
+    ax.set_xlabel(f"easting - {x0:,.0f}{axis_unit}" if lines.layer.projected else f"x - {x0:g}{axis_unit}")
+    ax.set_ylabel(f"northing - {y0:,.0f}{axis_unit}" if lines.layer.projected else f"y - {y0:g}{axis_unit}")
     ax.legend(loc="upper left", bbox_to_anchor=(1.0, 1.0), title="Verdict")
     ax.set_title(f"Reaches by verdict (layer {lines.layer.name!r}, {lines.layer.crs or 'no coordinate system'})")
     fig.suptitle(title)
     image = io.BytesIO()
-    fig.savefig(image, format=path.suffix[1:].lower())
+    with rc_context({"agg.path.chunksize": 20_000}):   # Agg draws a path of a million segments in pieces
+        fig.savefig(image, format=path.suffix[1:].lower())
     write_atomic(path, image.getvalue())
