@@ -250,7 +250,9 @@ def test_the_map_is_saved_beside_the_summary_plot(tmp_path, capsys):
                  str(tmp_path / "summary.png"), "--no-progress"]) == 1
     for name in ("summary.png", "summary-map.png"):
         assert (tmp_path / name).read_bytes()[:8] == b"\x89PNG\r\n\x1a\n"
-    assert "map: " in capsys.readouterr().out
+    out, err = capsys.readouterr()
+    assert "map: " in out and "(feature " in out
+    assert f"{tmp_path / 'inv.gpkg'}: feature 6 (id 'M5'): invalid: flow" in err   # named by its feature id
     write_csv(tmp_path / "inv.csv", rows)
     main(["batch", str(tmp_path / "inv.csv"), "-o", str(tmp_path / "c.csv"), "--plot", str(tmp_path / "c.png"),
           "--no-progress"])

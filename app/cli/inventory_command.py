@@ -89,7 +89,8 @@ def run(args) -> int:
     elapsed = time.perf_counter() - start
     for line, ident, verdict, reason in tally.problems:
         name = f" (id {ident!r})" if ident else ""
-        print(f"{tally.source}:{line}{name}: {verdict}: {reason}", file=sys.stderr)
+        where = f":{line}" if tally.row_word == "line" else f": {tally.row_word} {line}"
+        print(f"{tally.source}{where}{name}: {verdict}: {reason}", file=sys.stderr)
     if tally.problem_count > MAX_LISTED:
         print(f"... and {tally.problem_count - MAX_LISTED:,} more; every one has its reason in {target}",
               file=sys.stderr)

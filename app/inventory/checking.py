@@ -60,7 +60,7 @@ def check_file(source, target, units: str = "us", progress=None, catalogue=None,
     size = (found.features if found is not None else Path(source).stat().st_size) if progress is not None else 0
     tally = Tally(inventory.source, inventory.units, problems)
     if found is not None:
-        tally.lines = ReachLines(found, inventory.units)
+        tally.lines, tally.row_word = ReachLines(found, inventory.units), "feature"
     # The core checks chunk by chunk, so that the notes about groups of reaches (a relation's range over a chunk)
     # come out the same whatever the block size: blocks are a whole number of chunks.
     whole = len(inventory) < 2 * WRITE_CHUNK and len(inventory) < rows

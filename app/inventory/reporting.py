@@ -66,6 +66,8 @@ class Tally:
         self.id_at = None
         #: The reaches' lines for the map (:class:`ReachLines`), for an inventory with geometry; else None.
         self.lines = None
+        #: What a row's number is: its line in a CSV file, its feature id in a GeoPackage layer.
+        self.row_word = "line"
 
     @classmethod
     def of(cls, inventory: Inventory, result: mr.BatchResult) -> "Tally":
@@ -171,7 +173,7 @@ class Tally:
             if held.any():
                 value, line, ident = self.largest_ratio
                 text += (f" median {np.median(ratio):.2f}, above 1 on {int((ratio > 1).sum()):,}, "
-                         f"largest finite {value:.2f} (line {line}, id {ident!r})")
+                         f"largest finite {value:.2f} ({self.row_word} {line}, id {ident!r})")
             if not held.all():
                 text += f"; {int((~held).sum()):,} with stone that cannot rest on its side slopes"
             out.append(text)
@@ -180,7 +182,7 @@ class Tally:
         if self.largest_shear is not None:
             value, line, ident = self.largest_shear
             out.append(f"  largest bed shear {units.from_si('shear', value):.3g} {units.label('shear')} "
-                       f"(line {line}, id {ident!r})")
+                       f"({self.row_word} {line}, id {ident!r})")
         for message in self.messages[:MAX_MESSAGES]:
             out.append(f"  note: {message}")
         if len(self.messages) > MAX_MESSAGES:
