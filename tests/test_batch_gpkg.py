@@ -117,8 +117,10 @@ def test_geometry_coordinate_system_and_attributes_come_through_unchanged(tmp_pa
     lines = [shapely.MultiLineString([g]) for g in invented_lines(len(rows))]
     lines[4] = shapely.MultiLineString([[(0, 0), (30, 40)], [(100, 0), (100, 60)]])   # 50 + 60 m
     write_layer(tmp_path / "inv.gpkg", rows, lines, typed=True, geometry_type="MultiLineString")
+    before_bytes = (tmp_path / "inv.gpkg").read_bytes()
     assert main(["batch", str(tmp_path / "inv.gpkg"), "-o", str(tmp_path / "out.gpkg"), "--units", "si",
                  "--no-progress"]) == 1   # the invented rows include invalid ones on purpose
+    assert (tmp_path / "inv.gpkg").read_bytes() == before_bytes    # an inventory is only read
     info_in, info_out = pyogrio.read_info(tmp_path / "inv.gpkg"), pyogrio.read_info(tmp_path / "out.gpkg")
     assert info_out["crs"] == info_in["crs"] == UTM
     assert info_out["geometry_type"] == "MultiLineString"
