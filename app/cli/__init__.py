@@ -32,7 +32,7 @@ COMMAND_HELP = {
             "the project's length unit"),
     "fingerprint": "print the design fingerprint (SHA-256 of a channel's inputs, its lining entries and the program version)",
     "verify": "check the digital signature of a design sheet: intact, and signed by the engineer whose certificate you trust",
-    "batch": "check every reach of a ditch inventory (CSV) and write one result row per reach",
+    "batch": "check every reach of a ditch inventory (CSV or GeoPackage) and write one result row per reach",
     "open": "open a project file in the Ditchwright window",
     "import": ("make a project from a LandXML 1.2 file: road profiles become ditch runs' inverts, "
                "cross-sections their surveyed sections"),

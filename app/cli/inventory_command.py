@@ -1,4 +1,4 @@
-"""`ditchwright batch`: check a whole ditch inventory (CSV) at once."""
+"""`ditchwright batch`: check a whole ditch inventory (CSV or GeoPackage) at once."""
 
 from __future__ import annotations
 
@@ -24,6 +24,10 @@ EPILOG = f"""\
 columns: {', '.join(ai.INPUT_COLUMNS)} (all in the header, blank where not relevant; other columns are
 carried through). Lengths in ft or m, flow in ft^3/s or m^3/s, side slopes H:V, slope as a ratio.
 Results add: {', '.join(ai.RESULT_COLUMNS)}, in the same units.
+A GeoPackage (.gpkg) inventory is a layer of lines with the same columns; without a 'length' column each
+reach's length is measured on its line (a projected coordinate system is needed for that). A .gpkg results
+file is a layer with the input's geometry, coordinate system and attributes and the result columns; CSV and
+GeoPackage may be mixed. With --plot, a GeoPackage inventory's map is saved beside the plot (NAME-map.png).
 exit status: 0 every row was checked; 1 results written but some rows are invalid (listed on stderr,
 reason in the file); 2 the file or an option cannot be used (nothing written)."""
 
@@ -31,12 +35,14 @@ reason in the file); 2 the file or an option cannot be used (nothing written).""
 def register(subparsers) -> None:
     p = subparsers.add_parser("batch", help=HELP, description=HELP + ".", epilog=EPILOG,
                               formatter_class=argparse.RawDescriptionHelpFormatter)
-    p.add_argument("inventory", metavar="INVENTORY.csv", help="the inventory to check")
-    p.add_argument("-o", "--output", metavar="RESULTS.csv", required=True, help="results file to write")
+    p.add_argument("inventory", metavar="INVENTORY.csv|.gpkg", help="the inventory to check")
+    p.add_argument("--layer", metavar="NAME", help="the layer of a GeoPackage inventory (default: its only layer)")
+    p.add_argument("-o", "--output", metavar="RESULTS.csv|.gpkg", required=True, help="results file to write")
     p.add_argument("--units", choices=("us", "si"), default="us",
                    help="unit system of the inventory and the results: us (ft, ft^3/s, lb/ft^2) or "
                         "si (m, m^3/s, Pa); default us")
-    p.add_argument("--plot", metavar="PATH", help="also save a summary plot (.png, .pdf or .svg)")
+    p.add_argument("--plot", metavar="PATH", help="also save a summary plot (.png, .pdf or .svg), and for a "
+                                                  "GeoPackage inventory a map of the reaches beside it")
     p.add_argument("--user-catalogue", metavar="TOML",
                    help="user lining catalogue over the shipped one (same layout; prices, data-sheet values)")
     bar = p.add_mutually_exclusive_group()
@@ -72,7 +78,8 @@ def run(args) -> int:
         source.is_file() and source.stat().st_size >= PROGRESS_FROM_BYTES and sys.stderr.isatty())
     bar = ProgressBar("checking", enabled=show, percent=True)
     try:
-        tally = ai.check_file(source, target, args.units, progress=bar, catalogue=catalogue, problems=MAX_LISTED)
+        tally = ai.check_file(source, target, args.units, progress=bar, catalogue=catalogue, problems=MAX_LISTED,
+                              layer=args.layer)
     except ai.InventoryError as exc:
         raise CliError(str(exc)) from None
     except OSError as exc:
@@ -84,7 +91,8 @@ def run(args) -> int:
         print(f"warning: {tally.units_finding.text}", file=sys.stderr)
     for line, ident, verdict, reason in tally.problems:
         name = f" (id {ident!r})" if ident else ""
-        print(f"{tally.source}:{line}{name}: {verdict}: {reason}", file=sys.stderr)
+        where = f":{line}" if tally.row_word == "line" else f": {tally.row_word} {line}"
+        print(f"{tally.source}{where}{name}: {verdict}: {reason}", file=sys.stderr)
     if tally.problem_count > MAX_LISTED:
         print(f"... and {tally.problem_count - MAX_LISTED:,} more; every one has its reason in {target}",
               file=sys.stderr)
@@ -97,7 +105,21 @@ def run(args) -> int:
             raise CliError(f"--plot {args.plot}: cannot write the plot: {exc.strerror or exc} (the results were "
                            f"written to {target})") from None
         print(f"  plot: {args.plot}")
+        if tally.lines is not None:
+            where = map_path(args.plot)
+            try:
+                ai.plot_map(tally.lines, tally.counts(), where, title=f"Ditch inventory {source.name}")
+            except OSError as exc:
+                raise CliError(f"--plot {args.plot}: cannot write the map {where}: {exc.strerror or exc} (the "
+                               f"results were written to {target})") from None
+            print(f"  map: {where}")
     return 1 if tally.counts()["invalid"] else 0
+
+
+def map_path(plot) -> Path:
+    """Where the map goes: beside the summary plot ``plot``, ``-map`` added to its name (same format)."""
+    plot = Path(plot)
+    return plot.with_name(f"{plot.stem}-map{plot.suffix}")
 
 
 class ProgressBar:

@@ -15,10 +15,10 @@ import numpy as np
 
 from hydraulics import many_reaches as mr
 
-from . import writing
+from . import layers, writing
 from .plausibility import units_finding
-from .reading import BLOCK_ROWS, INPUT_COLUMNS, Inventory, csv_fields, read_blocks, read_inventory
-from .reporting import Tally, problem_rows, summary
+from .reading import BLOCK_ROWS, INPUT_COLUMNS, Inventory, InventoryError, csv_fields, read_blocks, read_inventory
+from .reporting import ReachLines, Tally, problem_rows, summary
 from .writing import result_table
 
 
@@ -38,29 +38,40 @@ WRITE_CHUNK = 25_000
 
 
 def check_file(source, target, units: str = "us", progress=None, catalogue=None, *, rows: int = BLOCK_ROWS,
-               problems: int = 0) -> Tally:
+               problems: int = 0, layer: str | None = None) -> Tally:
     """Read, check and write the inventory file ``source`` block by block (``rows`` reaches a block, see
     :func:`app.inventory.reading.read_blocks`) into the results file ``target``; returns the :class:`Tally` of
     the file (its first ``problems`` problem rows kept for listing).
 
+    Either file may be a CSV file or a GeoPackage (by its suffix, see :mod:`app.inventory.layers`); ``layer``
+    names the layer of a GeoPackage inventory (default: its only one). A GeoPackage inventory's tally keeps its
+    reaches' lines for the map (:attr:`Tally.lines`).
+
     Memory holds a few blocks and the tally, whatever the number of rows. The results file is byte for byte that
     of :func:`write_results` for the whole file checked at once; it replaces ``target`` only when every block is written (a file
     that turns out unreadable half way, or a full disk, leaves the old one). ``progress(done, total)`` is called
-    after each block with the bytes of the file read so far and its size.
+    after each block with the bytes of the file read so far and its size (features for a GeoPackage).
 
     Raises InventoryError (the file cannot be read as an inventory; before anything is written where the first
     block shows it), InputError (unknown units) or OSError (writing).
     """
-    blocks = read_blocks(source, units, rows)
+    blocks = _blocks(source, units, rows, layer)
     inventory = next(blocks)
-    size = Path(source).stat().st_size if progress is not None else 0
+    found = inventory.layer
+    size = (found.features if found is not None else Path(source).stat().st_size) if progress is not None else 0
     tally = Tally(inventory.source, inventory.units, problems)
     tally.units_finding = units_finding(inventory)       # the first block (up to ``rows`` reaches) tells
+    if found is not None:
+        tally.lines, tally.row_word = ReachLines(found, inventory.units), "feature"
     # The core checks chunk by chunk, so that the notes about groups of reaches (a relation's range over a chunk)
     # come out the same whatever the block size: blocks are a whole number of chunks.
     whole = len(inventory) < 2 * WRITE_CHUNK and len(inventory) < rows
     chunk = mr.CHUNK if whole else WRITE_CHUNK
-    with writing.results_stream(target) as write:
+    if layers.is_geopackage(target):
+        stream = layers.layer_stream(target, found, found.name if found is not None else Path(source).stem)
+    else:
+        stream = writing.results_stream(target)
+    with stream as write:
         while inventory is not None:
             result = mr.evaluate(inventory.reaches, display=inventory.units, chunk=chunk, catalogue=catalogue)
             write(inventory, result)
@@ -68,13 +79,22 @@ def check_file(source, target, units: str = "us", progress=None, catalogue=None,
             if progress is not None:
                 progress(min(size, inventory.end), size)
             inventory = next(blocks, None)
-    tally.id_at = lambda row: _id_at(source, units, rows, row)
+    tally.id_at = lambda row: _id_at(source, units, rows, row, layer)
     return tally
 
 
-def _id_at(source, units, rows, row: int) -> str:
+def _blocks(source, units, rows, layer):
+    """The blocks of the inventory file ``source``: a GeoPackage's layer or a CSV file's rows."""
+    if layers.is_geopackage(source):
+        return layers.read_layer_blocks(source, units, rows, layer)
+    if layer is not None:
+        raise InventoryError(f"{source}: a CSV inventory has no layers (a layer is chosen in a GeoPackage, .gpkg)")
+    return read_blocks(source, units, rows)
+
+
+def _id_at(source, units, rows, row: int, layer=None) -> str:
     """The id of record ``row`` of the inventory file ``source`` read by :func:`check_file` (read again)."""
-    for inventory in read_blocks(source, units, rows):
+    for inventory in _blocks(source, units, rows, layer):
         if row < len(inventory):
             return inventory.id_at(row)
         row -= len(inventory)

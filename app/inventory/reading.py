@@ -62,6 +62,10 @@ class Inventory:
     blank_lines: list = field(default_factory=list)
     #: Bytes of the file read up to the end of this block (:func:`read_blocks`; 0 for a whole file).
     end: int = 0
+    #: A GeoPackage block's features (a pyarrow Table: attributes as stored, geometry as WKB) and its
+    #: :class:`app.inventory.layers.Layer`; None for a CSV inventory.
+    features: object = None
+    layer: object = None
     # (records as written to a results file, header text as written, cells given an apostrophe): made on first use
     _written: tuple | None = field(default=None, repr=False, compare=False)
 

@@ -66,6 +66,10 @@ class Tally:
         self.id_at = None
         #: Whether the numbers look typed in the other unit system (plausibility.units_finding of the first block).
         self.units_finding = None
+        #: The reaches' lines for the map (:class:`ReachLines`), for an inventory with geometry; else None.
+        self.lines = None
+        #: What a row's number is: its line in a CSV file, its feature id in a GeoPackage layer.
+        self.row_word = "line"
 
     @classmethod
     def of(cls, inventory: Inventory, result: mr.BatchResult) -> "Tally":
@@ -125,6 +129,8 @@ class Tally:
         else:
             self.guarded += guarded - self._header_guarded
         self.size += len(inventory)
+        if self.lines is not None:
+            self.lines.add(inventory, result)
 
     def repeated_ids(self) -> tuple[int, str | None]:
         """(how many ids appear more than once, the first of them to appear again): ids compared without
@@ -169,7 +175,7 @@ class Tally:
             if held.any():
                 value, line, ident = self.largest_ratio
                 text += (f" median {np.median(ratio):.2f}, above 1 on {int((ratio > 1).sum()):,}, "
-                         f"largest finite {value:.2f} (line {line}, id {ident!r})")
+                         f"largest finite {value:.2f} ({self.row_word} {line}, id {ident!r})")
             if not held.all():
                 text += f"; {int((~held).sum()):,} with stone that cannot rest on its side slopes"
             out.append(text)
@@ -178,7 +184,7 @@ class Tally:
         if self.largest_shear is not None:
             value, line, ident = self.largest_shear
             out.append(f"  largest bed shear {units.from_si('shear', value):.3g} {units.label('shear')} "
-                       f"(line {line}, id {ident!r})")
+                       f"({self.row_word} {line}, id {ident!r})")
         for message in self.messages[:MAX_MESSAGES]:
             out.append(f"  note: {message}")
         if len(self.messages) > MAX_MESSAGES:
@@ -215,6 +221,10 @@ def summary(inventory: Inventory, result: mr.BatchResult, seconds: float | None 
 
 
 PLOT_FORMATS = (".png", ".pdf", ".svg")
+#: One colour a verdict, in the summary plot and the map.
+VERDICT_COLOURS = {"stable": "#3a7d44", "unstable": "#c0392b", "non-erodible": "#5d6d7e",
+                   "hydraulics-only": "#95a5a6", "not-checked": "#b7950b", "no-solution": "#8e44ad",
+                   "invalid": "#34495e"}
 
 
 def plot_summary(result: mr.BatchResult, path, title: str = "Ditch inventory") -> None:
@@ -234,9 +244,7 @@ def plot_summary(result: mr.BatchResult, path, title: str = "Ditch inventory") -
     FigureCanvasAgg(fig)
     ax1, ax2 = fig.subplots(1, 2, width_ratios=(1.1, 1))
     counts = result.counts()
-    colours = {"stable": "#3a7d44", "unstable": "#c0392b", "non-erodible": "#5d6d7e", "hydraulics-only": "#95a5a6",
-               "not-checked": "#b7950b",
-               "no-solution": "#8e44ad", "invalid": "#34495e"}
+    colours = VERDICT_COLOURS
     labels = list(counts)
     bars = ax1.barh([Verdict.from_token(v).words for v in labels[::-1]], [counts[v] for v in labels[::-1]],
                     color=[colours[v] for v in labels[::-1]])
@@ -271,3 +279,101 @@ def plot_summary(result: mr.BatchResult, path, title: str = "Ditch inventory") -
     image = io.BytesIO()
     fig.savefig(image, format=path.suffix[1:].lower())
     write_atomic(path, image.getvalue())   # like every file written: the old plot stays whole if this one fails
+
+
+#: The map's lines are simplified to about a pixel of a map this many pixels wide: what it keeps of a reach
+#: is what can be seen, so its memory follows the reaches' count, not their vertices.
+MAP_PIXELS = 2000
+
+
+class ReachLines:
+    """The lines of a GeoPackage inventory's reaches with their verdicts, gathered block by block for
+    :func:`plot_map`: each line simplified to about a pixel of the map (:data:`MAP_PIXELS`) and its coordinates
+    kept as 32-bit offsets from the layer's corner; and the length of the reaches of each verdict, from the
+    ``length`` column (see :mod:`app.inventory.layers`), in the inventory's units."""
+
+    def __init__(self, layer, units):
+        self.layer, self.units = layer, units
+        bounds = layer.bounds if layer.bounds is not None and all(map(np.isfinite, layer.bounds)) else None
+        self.origin = np.array(bounds[:2]) if bounds else None
+        extent = max(bounds[2] - bounds[0], bounds[3] - bounds[1]) if bounds else 0.0
+        self.tolerance = extent / MAP_PIXELS
+        self.coords: list = []      # per block: (points, 2) float32
+        self.starts: list = []      # per block: where each line starts in its points (and the end)
+        self.verdicts: list = []    # per block: each line's verdict code (index in mr.VERDICTS)
+        self.lengths = dict.fromkeys(mr.VERDICTS, 0.0)
+        self.measured = True        # every reach's length was a number
+
+    def add(self, inventory: Inventory, result: mr.BatchResult) -> None:
+        import shapely
+
+        from .layers import LENGTH_COLUMN, lines_of
+
+        features = inventory.features
+        lines = lines_of(features.column(self.layer.geometry_name))
+        if self.tolerance > 0:
+            lines = shapely.simplify(lines, self.tolerance, preserve_topology=False)
+        parts, owner = shapely.get_parts(lines, return_index=True)
+        points, which = shapely.get_coordinates(parts, return_index=True)
+        if self.origin is None:
+            self.origin = points.min(axis=0) if len(points) else np.zeros(2)
+        code = {v: i for i, v in enumerate(mr.VERDICTS)}
+        verdict = np.fromiter(map(code.__getitem__, result.verdict.tolist()), dtype=np.int8, count=len(result))
+        self.coords.append((points - self.origin).astype(np.float32))
+        self.starts.append(np.searchsorted(which, np.arange(len(parts) + 1)))
+        self.verdicts.append(verdict[owner])
+        try:
+            length = features.column(LENGTH_COLUMN).cast("double").to_numpy(zero_copy_only=False)
+        except (KeyError, ValueError, NotImplementedError):   # no such column, or text that is not a number
+            # (pyarrow's ArrowInvalid is a ValueError): no lengths in the legend
+            self.measured = False
+            return
+        self.measured = self.measured and not np.isnan(length).any()
+        for name in mr.VERDICTS:
+            self.lengths[name] += float(np.nansum(length[result.verdict == name]))
+
+
+def plot_map(lines: ReachLines, counts: dict, path, title: str = "Ditch inventory") -> None:
+    """Save a map of the reaches, each drawn in its verdict's colour, with a legend in words (the reaches and
+    their length for each verdict). The format follows the suffix of ``path`` (PNG, PDF or SVG); the file is
+    replaced in one step; matplotlib's Agg canvas, no display needed."""
+    path = Path(path)
+    if path.suffix.lower() not in PLOT_FORMATS:
+        raise InventoryError(f"map {path}: the name must end in {', '.join(PLOT_FORMATS)}")
+    from matplotlib import rc_context
+    from matplotlib.backends.backend_agg import FigureCanvasAgg
+    from matplotlib.figure import Figure
+
+    fig = Figure(figsize=(10, 7), layout="constrained")
+    FigureCanvasAgg(fig)
+    ax = fig.subplots()
+    coords = np.concatenate(lines.coords) if lines.coords else np.zeros((0, 2), dtype=np.float32)
+    verdicts = np.concatenate(lines.verdicts) if lines.verdicts else np.zeros(0, dtype=np.int8)
+    counts_of_points = np.concatenate([np.diff(s) for s in lines.starts]) if lines.starts else np.zeros(0, int)
+    owner = np.repeat(np.arange(len(verdicts)), counts_of_points)     # each point's line
+    unit = lines.units.label("length")
+    for code, verdict in enumerate(mr.VERDICTS):
+        if not counts.get(verdict):
+            continue
+        # One path a verdict, its lines separated by a blank point: light however many reaches there are.
+        chosen = np.flatnonzero(verdicts[owner] == code)
+        points = coords[chosen].astype(float)
+        points = np.insert(points, np.flatnonzero(np.diff(owner[chosen])) + 1, np.nan, axis=0)
+        label = f"{Verdict.from_token(verdict).words}: {counts[verdict]:,} reach{'es' if counts[verdict] != 1 else ''}"
+        if lines.measured:
+            label += f", {lines.lengths[verdict]:,.0f} {unit}"
+        ax.plot(points[:, 0], points[:, 1], color=VERDICT_COLOURS[verdict], linewidth=1.6, label=label)
+    if lines.layer.projected:
+        ax.set_aspect("equal", adjustable="datalim")
+    ax.ticklabel_format(useOffset=False, style="plain")
+    x0, y0 = lines.origin if lines.origin is not None else (0.0, 0.0)
+    axis_unit = f" ({lines.layer.unit_name})" if lines.layer.unit_name else ""
+    ax.set_xlabel(f"easting - {x0:,.0f}{axis_unit}" if lines.layer.projected else f"x - {x0:g}{axis_unit}")
+    ax.set_ylabel(f"northing - {y0:,.0f}{axis_unit}" if lines.layer.projected else f"y - {y0:g}{axis_unit}")
+    ax.legend(loc="upper left", bbox_to_anchor=(1.0, 1.0), title="Verdict")
+    ax.set_title(f"Reaches by verdict (layer {lines.layer.name!r}, {lines.layer.crs or 'no coordinate system'})")
+    fig.suptitle(title)
+    image = io.BytesIO()
+    with rc_context({"agg.path.chunksize": 20_000}):   # Agg draws a path of a million segments in pieces
+        fig.savefig(image, format=path.suffix[1:].lower())
+    write_atomic(path, image.getvalue())
