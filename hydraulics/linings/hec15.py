@@ -1363,10 +1363,10 @@ def vegetation_permissible_shear(soil_permissible, cover, n, n_soil):
     out = tp / (1.0 - cf) * (nv / ns) ** 2
     top = float(np.max(out))
     if top > VEGETATED_SHEAR_RANGE[1]:
-        _warn(worded("permissible shear of the grass lining {t} is above {hi}, the top of the range published for "
+        # the value itself is in the results; one wording for every group of reaches lets a batch say it once
+        _warn(worded("permissible shear of the grass lining above {hi}, the top of the range published for "
                      "vegetated soils (Fischenich, 2001, Stability Thresholds for Stream Restoration Materials): "
-                     "check the cover factor and the soil beneath", t=(top, "shear"),
-                     hi=(VEGETATED_SHEAR_RANGE[1], "shear")))
+                     "check the cover factor and the soil beneath", hi=(VEGETATED_SHEAR_RANGE[1], "shear")))
     return out
 
 
