@@ -48,13 +48,15 @@ def check_file(source, target, units: str = "us", progress=None, catalogue=None,
     reaches' lines for the map (:attr:`Tally.lines`).
 
     Memory holds a few blocks and the tally, whatever the number of rows. The results file is byte for byte that
-    of :func:`write_results` for the whole file checked at once; it replaces ``target`` only when every block is written (a file
-    that turns out unreadable half way, or a full disk, leaves the old one). ``progress(done, total)`` is called
+    of :func:`write_results` for the whole file checked at once; it replaces ``target`` only when every block is
+    written (a file that turns out unreadable half way, or a full disk, leaves the old one). ``progress(done, total)`` is called
     after each block with the bytes of the file read so far and its size (features for a GeoPackage).
 
     Raises InventoryError (the file cannot be read as an inventory; before anything is written where the first
     block shows it), InputError (unknown units) or OSError (writing).
     """
+    if layers.is_geopackage(source):
+        rows = min(rows, layers.BLOCK_FEATURES)
     blocks = _blocks(source, units, rows, layer)
     inventory = next(blocks)
     found = inventory.layer

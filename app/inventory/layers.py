@@ -41,6 +41,13 @@ LENGTH_COLUMN = "length"
 LINE_TYPES = ("LineString", "MultiLineString")
 
 
+#: Features a block of a GeoPackage inventory holds at most: a block holds its features three times over (the
+#: layer's table with its geometry, its rows as CSV text, the parsed rows), so blocks four times smaller than a
+#: CSV file's keep the peak memory of a batch near the CSV path's (measured: 341 MB for 700,000 reaches in blocks
+#: of 25,000, 591 MB in blocks of 100,000, equally fast).
+BLOCK_FEATURES = 25_000
+
+
 def is_geopackage(path) -> bool:
     """Whether ``path`` names a GeoPackage (by its suffix, as GDAL chooses its driver)."""
     return Path(path).suffix.lower() == SUFFIX
