@@ -363,7 +363,7 @@ def test_menus_hold_the_new_actions(window):
     assert window.export_action.text() in file_items and window.inventory_action.text() in file_items
     project_items = [a.text() for a in titles["Project"].menu().actions()]
     assert project_items == [window.project_name_action.text(), window.sheet_details_action.text(),
-                             window.project_notes_action.text()]
+                             window.project_notes_action.text(), window.rainfall_action.text()]
 
 
 def test_safe_file_names():
