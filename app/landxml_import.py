@@ -171,7 +171,8 @@ def parse(path):
         tree = etree.parse(str(path), parser)
     except etree.XMLSyntaxError as exc:
         line = f" at line {exc.lineno}" if getattr(exc, "lineno", None) else ""
-        raise LandXMLError(f"{Path(path).name} is not an XML file (or is damaged){line}: {exc.msg}") from None
+        said = " ".join(str(exc.msg).split())     # libxml2's message may hold a line end: one line
+        raise LandXMLError(f"{Path(path).name} is not an XML file (or is damaged){line}: {said}") from None
     except OSError as exc:
         raise LandXMLError(f"cannot read {path}: {exc.strerror or exc}") from None
     root = tree.getroot()
