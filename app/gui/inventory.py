@@ -19,7 +19,7 @@ import numpy as np
 from PySide6.QtCore import QAbstractTableModel, QModelIndex, Qt, QTimer, Signal
 from PySide6.QtGui import QColor, QFontDatabase, QGuiApplication
 from PySide6.QtWidgets import (QAbstractItemView, QCheckBox, QComboBox, QDialog, QFileDialog, QGridLayout,
-                               QHBoxLayout, QLabel, QLineEdit, QMessageBox, QPlainTextEdit,
+                               QHBoxLayout, QInputDialog, QLabel, QLineEdit, QMessageBox, QPlainTextEdit,
                                QProgressBar, QPushButton, QTableView, QTabWidget, QVBoxLayout, QWidget)
 
 from .. import inventory as ai
@@ -36,6 +36,8 @@ from .style import STYLE
 from .tasks import Cancelled, Task
 
 CSV_FILTER = "Inventories (*.csv);;All files (*)"
+#: What the check opens: a CSV file or a GeoPackage layer of lines.
+OPEN_FILTER = "Inventories (*.csv *.gpkg);;CSV files (*.csv);;GeoPackages (*.gpkg);;All files (*)"
 UNIT_CHOICES = (("us", "US customary (ft, ft³/s)"), ("si", "SI (m, m³/s)"))
 #: Verdicts in words for the filter boxes (the file keeps the short forms).
 VERDICT_WORDS = {
@@ -525,7 +527,7 @@ class InventoryDialog(QDialog):
     # -- running the check --------------------------------------------------------------------
     def choose_file(self) -> None:
         folder = settings.INVENTORY_FOLDER.read() if self.persistent else ""
-        path, _ = QFileDialog.getOpenFileName(self, "Inventory to check", folder, CSV_FILTER)
+        path, _ = QFileDialog.getOpenFileName(self, "Inventory to check", folder, OPEN_FILTER)
         if path:
             self.path.setText(path)
             self.start_check()
@@ -544,9 +546,21 @@ class InventoryDialog(QDialog):
             settings.INVENTORY_FOLDER.write(str(path.parent))
             settings.INVENTORY_UNITS.write(units)
         catalogue = self.doc.context.catalogue   # the window's: shipped, with the user's file
+        layer = None
+        if ai.is_geopackage(path):
+            try:
+                names = ai.layer_names(path)
+            except ai.InventoryError as exc:
+                self._say(sentence(str(exc)), error=True)
+                return None
+            if len(names) > 1:
+                layer, chosen = QInputDialog.getItem(self, "Layer to check", f"{path.name} holds {len(names)} "
+                                                     "layers; check the reaches of:", names, 0, False)
+                if not chosen:
+                    return None
 
         def work(progress):
-            return ai.run_inventory(path, units, progress=progress, catalogue=catalogue)
+            return ai.run_inventory(path, units, progress=progress, catalogue=catalogue, layer=layer)
 
         task = Task(work, self)
         task.progressed.connect(self._progressed)
@@ -626,7 +640,9 @@ class InventoryDialog(QDialog):
         self.filters.setEnabled(True)
         self._fit_columns()
         self.apply_filters()
-        done = f"Checked {len(run.inventory):,} reaches of {path.name} ({units.name} units)."
+        found = getattr(run.inventory, "layer", None)
+        where = f"{path.name}, layer '{found.name}' ({found.features:,} features)" if found is not None else path.name
+        done = f"Checked {len(run.inventory):,} reaches of {where} ({units.name} units)."
         finding = ai.units_finding(run.inventory)
         if finding is not None:          # the numbers look like the other unit system: said first, as a warning
             self._say(f"{pretty(finding.text)} {done}", error=True)

@@ -172,10 +172,21 @@ class BatchRun:
         return channels, skipped
 
 
-def run_inventory(path, units: str = "us", progress=None, catalogue=None) -> BatchRun:
-    """Read and check the inventory at ``path``; ``progress(done, total)`` is called as it goes.
+#: Features the window reads of a GeoPackage layer in one piece: all a table in a window can usefully show.
+WINDOW_FEATURES = 10_000_000
 
-    Raises InventoryError (whole file unreadable) or InputError (unknown units).
+
+def run_inventory(path, units: str = "us", progress=None, catalogue=None, layer: str | None = None) -> BatchRun:
+    """Read and check the inventory at ``path`` (a CSV file, or ``layer`` of a GeoPackage: its only layer by
+    default); ``progress(done, total)`` is called as it goes.
+
+    Raises InventoryError (whole file unreadable, or a GeoPackage refused: see :mod:`app.inventory.layers`) or
+    InputError (unknown units).
     """
-    inventory = read_inventory(path, units)
+    if layers.is_geopackage(path):
+        inventory = next(layers.read_layer_blocks(path, units, WINDOW_FEATURES, layer))
+    else:
+        if layer is not None:
+            raise InventoryError(f"{path}: a CSV inventory has no layers (a layer is chosen in a GeoPackage, .gpkg)")
+        inventory = read_inventory(path, units)
     return BatchRun(inventory, evaluate(inventory, progress, catalogue))

@@ -360,3 +360,60 @@ def test_numbers_that_look_like_the_other_unit_system_are_warned_about_in_the_st
     d = checked(qtbot, window, inventory, units="us")
     assert "look" not in d.status.text() and "US customary units (" not in d.status.text()
     assert d.status.objectName() == "hint"
+
+
+def write_geopackage(path, rows, layers=("reaches",)):
+    """``rows`` as a GeoPackage layer of invented lines (UTM zone 33N, metres) under each name of ``layers``."""
+    import numpy as np
+    import pyarrow as pa
+    import pyogrio
+    import shapely
+    lines = [shapely.LineString([(500_000 + 300 * i, 5_000_000), (500_000 + 300 * i + 120, 5_000_090)])
+             for i in range(len(rows))]                                 # 150 m each
+    for name in layers:
+        data = {c: pa.array([r.get(c, "") for r in rows], type=pa.string()) for c in HEADER}
+        data["geom"] = pa.array(shapely.to_wkb(np.array(lines, dtype=object)))
+        pyogrio.write_arrow(pa.table(data), path, layer=name, driver="GPKG", geometry_name="geom",
+                            geometry_type="LineString", crs="EPSG:32633", append=name != layers[0])
+    return path
+
+
+def test_a_geopackage_layer_is_checked_as_the_same_rows_in_csv(window, qtbot, tmp_path, inventory):
+    from app.gui.inventory import OPEN_FILTER
+    assert "*.gpkg" in OPEN_FILTER
+    as_csv = checked(qtbot, window, inventory)
+    csv_cells = {i: as_csv.model.cell(r, column(as_csv, "normal_depth")) for r, i in enumerate(ids_shown(as_csv))}
+    d = checked(qtbot, window, write_geopackage(tmp_path / "reaches.gpkg", ROWS))
+    assert d.model.rowCount() == len(ROWS)
+    assert {i: d.model.cell(r, column(d, "normal_depth")) for r, i in enumerate(ids_shown(d))} == csv_cells
+    assert "layer 'reaches' (5 features)" in d.status.text()
+    lengths = {d.model.cell(r, column(d, "length")) for r in range(d.model.rowCount())}
+    assert lengths == {"492.126"}                                 # 150 m measured on each line, in ft
+    choose(d, ["T-1"])
+    (name,) = d.import_chosen()                                   # importing chosen reaches still works
+    assert window.doc.project.channel(name).section["shape"] == "trapezoid"
+
+
+def test_the_layer_of_a_geopackage_with_several_is_asked_for(window, qtbot, tmp_path, monkeypatch):
+    from PySide6.QtWidgets import QInputDialog
+    path = write_geopackage(tmp_path / "two.gpkg", ROWS[:2], layers=("north", "south"))
+    asked = []
+    monkeypatch.setattr(QInputDialog, "getItem",
+                        staticmethod(lambda _p, _t, label, items, *a: (asked.append(list(items)) or "south", True)))
+    d = checked(qtbot, window, path)
+    assert asked == [["north", "south"]] and "layer 'south'" in d.status.text()
+
+
+def test_a_geopackage_in_degrees_without_lengths_is_refused_in_the_dialog(window, qtbot, tmp_path, dialogs):
+    import numpy as np
+    import pyarrow as pa
+    import pyogrio
+    import shapely
+    path = tmp_path / "degrees.gpkg"
+    data = {c: pa.array([r.get(c, "") for r in ROWS[:1]], type=pa.string()) for c in HEADER}
+    data["geom"] = pa.array(shapely.to_wkb(np.array([shapely.LineString([(10, 50), (10.01, 50.01)])], dtype=object)))
+    pyogrio.write_arrow(pa.table(data), path, layer="reaches", driver="GPKG", geometry_name="geom",
+                        geometry_type="LineString", crs="EPSG:4326")
+    d = checked(qtbot, window, path)
+    assert d.status.objectName() == "fieldMessage" and "degrees" in d.status.text() and d.run is None
+    assert dialogs.shown == []
