@@ -14,7 +14,8 @@ from pathlib import Path
 
 
 #: Temporary files of our own are named ``.<target name>.<process id>.<8 random characters>.tmp`` beside the target.
-_TEMP_NAME = re.compile(r"\.(?P<name>.+)\.(?P<pid>\d+)\.[a-z0-9_]{8}\.tmp")
+#: A temporary file of ours, or the journal SQLite keeps beside a GeoPackage's (GDAL writes through SQLite).
+_TEMP_NAME = re.compile(r"\.(?P<name>.+)\.(?P<pid>\d+)\.[a-z0-9_]{8}\.tmp(?:-journal|-wal|-shm)?")
 #: A temporary file of ours not written to for this long belongs to a save that ended without cleaning up
 #: (killed, or the machine stopped), wherever that save ran, even on another computer sharing the folder.
 STALE_AFTER_S = 60.0

@@ -131,6 +131,8 @@ def test_only_our_own_stale_temporary_files_are_removed(tmp_path):
     keep = {
         "fresh-of-a-dead-process": f".p.json.{dead_pid}.abcd1234.tmp",     # its process may still be renaming it
         "running-save": f".p.json.{own}.efgh5678.tmp",                      # a save of this process, in progress
+        "running-journal": f".p.json.{own}.efgh5678.tmp-journal",          # SQLite's, beside a GeoPackage's
+        "not-a-journal": f".p.json.{dead_pid}.zzzz9999.tmp-other",
         "other-target": f".q.json.{dead_pid}.abcd1234.tmp",
         "not-our-pattern": ".p.json.tmp",
         "users-file": "p.json.tmp",
@@ -138,11 +140,15 @@ def test_only_our_own_stale_temporary_files_are_removed(tmp_path):
     }
     remove = {
         "dead-process": f".p.json.{dead_pid}.zzzz9999.tmp",
+        "dead-journal": f".p.json.{dead_pid}.zzzz9999.tmp-journal",       # GDAL's, after a killed GeoPackage write
         "long-untouched": f".p.json.{own}.old00000.tmp",
     }
     for name in (*keep.values(), *remove.values()):
         (tmp_path / name).write_bytes(b"invented")
     _age(tmp_path / remove["dead-process"], 5)
+    _age(tmp_path / remove["dead-journal"], 5)
+    _age(tmp_path / keep["running-journal"], 5)
+    _age(tmp_path / keep["not-a-journal"], 3600)
     _age(tmp_path / remove["long-untouched"], files.STALE_AFTER_S + 5)
     _age(tmp_path / keep["other-target"], files.STALE_AFTER_S + 5)
     _age(tmp_path / keep["not-our-pattern"], 3600)
@@ -156,4 +162,5 @@ def test_only_our_own_stale_temporary_files_are_removed(tmp_path):
     files.remove_stale_temporaries(tmp_path)
     names = {p.name for p in tmp_path.iterdir()}
     assert keep["other-target"] not in names
-    assert {keep["not-our-pattern"], keep["users-file"], keep["no-pid"], keep["running-save"]} <= names
+    assert {keep["not-our-pattern"], keep["users-file"], keep["no-pid"], keep["running-save"],
+            keep["running-journal"], keep["not-a-journal"]} <= names
