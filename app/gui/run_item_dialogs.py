@@ -28,7 +28,7 @@ from .fields import UnclearNumber, format_number, parse_number, pretty, set_inva
 from .forms import SECTION_FIELDS, SHAPES
 
 TC_METHODS = (("typed", "Typed"), ("kirpich", "Kirpich's formula"), ("tr55", "NRCS TR-55 travel times"))
-SEGMENT_KINDS = (("sheet", "Sheet flow"), ("shallow", "Shallow concentrated"))
+SEGMENT_KINDS = (("sheet", "Sheet"), ("shallow", "Shallow"))
 SURFACES = (("unpaved", "unpaved"), ("paved", "paved"))
 
 
@@ -197,7 +197,10 @@ class SubAreaDialog(_ItemDialog):
         cpl.addLayout(cover_buttons)
         cpl.addWidget(self.weighted)
         cl.addWidget(self.cover_part)
-        lay.addWidget(cbox)
+        cl.addStretch(1)
+        groups = QHBoxLayout()             # side by side: the dialog fits a low screen at 150 %
+        groups.addWidget(cbox, 2)
+        lay.addLayout(groups)
 
         # time of concentration
         tbox = QGroupBox("Its own time of concentration")
@@ -219,10 +222,13 @@ class SubAreaDialog(_ItemDialog):
         self.segments.setObjectName("segments")
         L = _unit(units, "length")
         self.segments.setHorizontalHeaderLabels(["Flow", f"Length [{L}]", f"Slope [{_unit(units, 'slope')}]",
-                                                 "Manning's n [-]", "Surface"])
+                                                 "n [-]", "Surface"])
+        self.segments.horizontalHeaderItem(0).setToolTip("Sheet flow, or shallow concentrated flow (TR-55 Chapter 3)")
+        self.segments.horizontalHeaderItem(3).setToolTip("Manning's n of sheet flow (TR-55 Table 3-1)")
         self.segments.verticalHeader().setVisible(False)
         self.segments.horizontalHeader().setSectionResizeMode(QHeaderView.ResizeMode.ResizeToContents)
         self.segments.horizontalHeader().setStretchLastSection(True)
+        self.segments.setHorizontalScrollBarPolicy(Qt.ScrollBarPolicy.ScrollBarAlwaysOff)
         self.segments.setMinimumHeight(110)
         self.segments.itemChanged.connect(lambda _i: self.check())
         self.markable["segments"] = self.segments
@@ -240,7 +246,8 @@ class SubAreaDialog(_ItemDialog):
         for b in (self.add_sheet, self.add_shallow, self.remove_segment):
             seg_buttons.addWidget(b)
         rg.addLayout(seg_buttons, 2, 0, 1, 2)
-        lay.addWidget(tbox)
+        tl.addStretch(1)
+        groups.addWidget(tbox, 3)
         lay.addWidget(self.message)
         lay.addWidget(self.note)
         lay.addStretch(1)
@@ -278,6 +285,15 @@ class SubAreaDialog(_ItemDialog):
         self.segments.blockSignals(False)
         self._c_how_picked()
         self._show_method()
+        self._fit_segments()
+
+    def _fit_segments(self) -> None:
+        """The segment table as wide as its columns, so that no column hides behind a scroll bar."""
+        self.segments.resizeColumnsToContents()
+        header = self.segments.horizontalHeader()
+        self.segments.setMinimumWidth(sum(max(header.sectionSize(j), header.sectionSizeHint(j))
+                                          for j in range(self.segments.columnCount()))
+                                      + 2 * self.segments.frameWidth() + self.segments.verticalScrollBar().sizeHint().width())
 
     def _cover_row(self, name: str, area, c) -> None:
         r = self.covers.rowCount()
@@ -343,6 +359,7 @@ class SubAreaDialog(_ItemDialog):
         self.segments.blockSignals(True)
         self._segment_row(seg)
         self.segments.blockSignals(False)
+        self._fit_segments()
         self.check()
 
     def _remove_segment(self) -> None:
