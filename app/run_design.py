@@ -30,7 +30,8 @@ from .project import Project, Run
 from .lining_names import name_in_units
 from .results import RUN_STATION_FIELDS, RUN_TABLE_FIELDS, convert, money_text, quantity_text, rounded
 
-__all__ = ["RunDesign", "SubAreaBasis", "sub_area_basis", "build_run", "design_run", "run_label", "section_dimensions", "section_words", "RUN_CAUTIONS"]
+__all__ = ["RunDesign", "SubAreaBasis", "sub_area_basis", "build_run", "design_run", "run_label", "section_dimensions",
+           "section_words", "RUN_CAUTIONS"]
 
 #: The cautions printed with every run, in the command's, the window's and the sheet's words.
 RUN_CAUTIONS = (
@@ -142,6 +143,7 @@ def _own_time(sa, field: str) -> tuple[float, str, list]:
 def sub_area_basis(sa, field: str = "sub-area") -> SubAreaBasis:
     """How the core takes one sub-area: C (typed or weighted), its own time of concentration and cautions.
     Bad input raises hy.InputError naming ``field`` and the value inside it."""
+    hy.validate.positive(f"{field}.area", sa.area)
     c, c_how = _coefficient(sa, field)
     t, t_how, warns = _own_time(sa, field)
     return SubAreaBasis(sa.name, sa.area, c, c_how, t, t_how, tuple(warns))

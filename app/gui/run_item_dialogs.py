@@ -13,12 +13,25 @@ import copy
 import re
 
 from PySide6.QtCore import Qt
-from PySide6.QtWidgets import (QAbstractItemView, QComboBox, QDialog, QDialogButtonBox, QGridLayout, QGroupBox,
-                               QHBoxLayout, QHeaderView, QLabel, QLineEdit, QPushButton, QTableWidget,
-                               QTableWidgetItem, QVBoxLayout, QWidget)
+from PySide6.QtWidgets import (
+    QAbstractItemView,
+    QComboBox,
+    QDialog,
+    QDialogButtonBox,
+    QGridLayout,
+    QGroupBox,
+    QHBoxLayout,
+    QHeaderView,
+    QLabel,
+    QLineEdit,
+    QPushButton,
+    QTableWidget,
+    QTableWidgetItem,
+    QVBoxLayout,
+    QWidget,
+)
 
 import hydraulics as hy
-from hydraulics.travel_time import sheet_flow_warnings
 from hydraulics.units import UnitSystem
 from hydraulics.wording import in_units
 
@@ -134,6 +147,12 @@ class _ItemDialog(QDialog):
         self.note.setText(note)
         self.note.setVisible(bool(note))
         self.ok.setEnabled(True)
+
+
+#: The core's names of a sub-area's values (inside ``sub-area.``) -> the dialog's entry (or table) to mark.
+_CORE_FIELDS = {"area": "area", "runoff_coefficient": "runoff_coefficient", "land_covers": "landCovers",
+                "time_of_concentration.value": "tc.value", "time_of_concentration.flow_length": "tc.flow_length",
+                "time_of_concentration.slope": "tc.slope", "time_of_concentration.rain_2yr_24h": "tc.rain_2yr_24h"}
 
 
 # -- a sub-area -----------------------------------------------------------------------------------------
@@ -293,7 +312,8 @@ class SubAreaDialog(_ItemDialog):
         header = self.segments.horizontalHeader()
         self.segments.setMinimumWidth(sum(max(header.sectionSize(j), header.sectionSizeHint(j))
                                           for j in range(self.segments.columnCount()))
-                                      + 2 * self.segments.frameWidth() + self.segments.verticalScrollBar().sizeHint().width())
+                                      + 2 * self.segments.frameWidth()
+                                      + self.segments.verticalScrollBar().sizeHint().width())
 
     def _cover_row(self, name: str, area, c) -> None:
         r = self.covers.rowCount()
@@ -426,10 +446,6 @@ class SubAreaDialog(_ItemDialog):
         sa.time_of_concentration = self._time()
         return sa
 
-    _CORE_FIELDS = {"area": "area", "runoff_coefficient": "runoff_coefficient", "land_covers": "landCovers",
-                    "time_of_concentration.value": "tc.value", "time_of_concentration.flow_length": "tc.flow_length",
-                    "time_of_concentration.slope": "tc.slope", "time_of_concentration.rain_2yr_24h": "tc.rain_2yr_24h"}
-
     def check(self) -> bool:
         """Read the entries and let the core judge the sub-area; OK only while it takes it."""
         self.weighted.setText("")
@@ -447,7 +463,7 @@ class SubAreaDialog(_ItemDialog):
             basis = sub_area_basis(sa, "sub-area")
         except hy.InputError as exc:
             inner = exc.field.removeprefix("sub-area.")
-            key = "segments" if ".segments[" in f".{inner}" else self._CORE_FIELDS.get(inner, "")
+            key = "segments" if ".segments[" in f".{inner}" else _CORE_FIELDS.get(inner, "")
             self.refuse(key, f"{_worded_field(inner)}: {in_units(exc.message, self.units)}")
             return False
         if sa.land_covers:

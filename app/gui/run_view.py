@@ -228,8 +228,8 @@ class InputTable(QWidget):
             if items in REPLACEABLE:
                 self.item_button = QPushButton(ITEM_DIALOG_BUTTONS[items])
                 self.item_button.setObjectName(f"{name}Details")
-                self.item_button.setToolTip(f"Edit the chosen {ITEM_WORDS[items]} as a whole (or double-click "
-                                            f"its {'name' if items == 'sub_areas' else 'section'})")
+                self.item_button.setToolTip(f"Open the chosen {ITEM_WORDS[items]} in a dialog to change it whole "
+                                            f"(or double-click its {'name' if items == 'sub_areas' else 'section'})")
                 self.item_button.clicked.connect(self.ask_item)
                 self.table.cellDoubleClicked.connect(self._double_clicked)
                 buttons.addWidget(self.item_button)

@@ -102,6 +102,9 @@ def test_land_covers_weighted_c_shown_and_applied(demo_window, qtbot):
         assert not d.ok.isEnabled() and "must agree within 0.5 %" in d.message.text()
         d.covers.item(1, 1).setText("0.6")
         assert d.ok.isEnabled()
+        type_entry(d, "area", "0")             # the core's check of the area, the entry marked
+        assert not d.ok.isEnabled() and d.marked == "area" and d.message.text().startswith("area: must be > 0")
+        type_entry(d, "area", "4.2")
         d.accept()
 
     through_dialog(qtbot, lambda: table._double_clicked(1, 0), act)
@@ -125,7 +128,8 @@ def test_a_bad_sheet_flow_length_is_refused_with_the_cores_message(demo_window, 
         assert not d.ok.isEnabled()
         assert d.message.text() == "time of concentration, segment 1, length: must be > 0, got 0"
         assert d.marked == "segments"
-        d.segments.item(0, 1).setText("150")   # beyond the 300 ft of TR-55 Appendix D form 3: the core cautions, not refuses
+        # beyond the 300 ft of TR-55 Appendix D form 3: the core cautions, it does not refuse
+        d.segments.item(0, 1).setText("150")
         assert d.ok.isEnabled() and "beyond the 91.4 m TR-55 allows" in d.note.text()
 
     through_dialog(qtbot, lambda: table._double_clicked(0, 0), act)
