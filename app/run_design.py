@@ -30,7 +30,8 @@ from .project import Project, Run
 from .lining_names import name_in_units
 from .results import RUN_STATION_FIELDS, RUN_TABLE_FIELDS, convert, money_text, quantity_text, rounded
 
-__all__ = ["RunDesign", "SubAreaBasis", "design_run", "run_label", "section_dimensions", "section_words", "RUN_CAUTIONS"]
+__all__ = ["RunDesign", "SubAreaBasis", "sub_area_basis", "build_run", "design_run", "run_label", "section_dimensions",
+           "section_words", "RUN_CAUTIONS"]
 
 #: The cautions printed with every run, in the command's, the window's and the sheet's words.
 RUN_CAUTIONS = (
@@ -105,7 +106,10 @@ def _own_time(sa, field: str) -> tuple[float, str, list]:
     if method == "typed":
         return float(hy.validate.positive(f"{field}.time_of_concentration.value", tc["value"])), "typed", []
     if method == "kirpich":
-        t = rational.kirpich_time(tc["flow_length"], tc["slope"])
+        try:
+            t = rational.kirpich_time(tc["flow_length"], tc["slope"])
+        except hy.InputError as exc:
+            raise hy.InputError(f"{field}.time_of_concentration.{exc.field}", exc.message) from None
         return t, "Kirpich's formula (Kirpich 1940)", rational.kirpich_warnings(tc["slope"], sa.area)
     if method == "tr55":
         total, warns = 0.0, []
@@ -119,15 +123,30 @@ def _own_time(sa, field: str) -> tuple[float, str, list]:
                 if seg.get("roughness") is None:
                     raise hy.InputError(f"{where}.roughness", "is missing: sheet flow needs its roughness "
                                                               "coefficient (TR-55 Table 3-1)")
-                total += travel_time.sheet_flow_time(seg["length"], seg["roughness"], p2, seg["slope"])
+                try:
+                    total += travel_time.sheet_flow_time(seg["length"], seg["roughness"], p2, seg["slope"])
+                except hy.InputError as exc:
+                    raise hy.InputError(f"{where}.{exc.field}", exc.message) from None
                 warns += travel_time.sheet_flow_warnings(seg["length"])
             else:
                 if seg.get("surface") not in ("paved", "unpaved"):
                     raise hy.InputError(f"{where}.surface", f"must be 'paved' or 'unpaved', got {seg.get('surface')!r}")
-                total += travel_time.shallow_concentrated_time(seg["length"], seg["slope"], seg["surface"])
+                try:
+                    total += travel_time.shallow_concentrated_time(seg["length"], seg["slope"], seg["surface"])
+                except hy.InputError as exc:
+                    raise hy.InputError(f"{where}.{exc.field}", exc.message) from None
         return total, "NRCS TR-55 sheet and shallow concentrated flow (TR-55, 2nd ed., 1986, Chapter 3)", warns
     raise hy.InputError(f"{field}.time_of_concentration.method",
                         f"must be 'typed', 'kirpich' or 'tr55', got {method!r}")
+
+
+def sub_area_basis(sa, field: str = "sub-area") -> SubAreaBasis:
+    """How the core takes one sub-area: C (typed or weighted), its own time of concentration and cautions.
+    Bad input raises hy.InputError naming ``field`` and the value inside it."""
+    hy.validate.positive(f"{field}.area", sa.area)
+    c, c_how = _coefficient(sa, field)
+    t, t_how, warns = _own_time(sa, field)
+    return SubAreaBasis(sa.name, sa.area, c, c_how, t, t_how, tuple(warns))
 
 
 def section_dimensions(section: dict, units: UnitSystem) -> dict:
@@ -166,10 +185,7 @@ def build_run(project: Project, run: Run, catalogue: Catalogue) -> tuple[DitchRu
         idf = idf_from_dict(project.rainfall)
         bases = []
         for k, sa in enumerate(run.sub_areas):
-            field_ = f"sub_areas[{k}]"
-            c, c_how = _coefficient(sa, field_)
-            t, t_how, warns = _own_time(sa, field_)
-            bases.append(SubAreaBasis(sa.name, sa.area, c, c_how, t, t_how, tuple(warns)))
+            bases.append(sub_area_basis(sa, f"sub_areas[{k}]"))
         sub_areas = tuple(SubArea(b.name, b.area, b.runoff_coefficient, b.time_of_concentration,
                                   StationRange(sa.from_station, sa.from_station if sa.to_station is None
                                                else sa.to_station))
@@ -179,7 +195,7 @@ def build_run(project: Project, run: Run, catalogue: Catalogue) -> tuple[DitchRu
             try:
                 section = hy.section_from_dict(rs.section)
             except hy.InputError as exc:
-                raise hy.InputError(f"sections[{k}].section.{exc.field}", str(exc).split(": ", 1)[-1]) from None
+                raise hy.InputError(f"sections[{k}].section.{exc.field}", exc.message) from None
             sections.append(SectionRange(StationRange(rs.from_station, rs.to_station), section, rs.ditch_depth))
         candidates = []
         for k, c in enumerate(run.candidates):

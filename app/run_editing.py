@@ -25,7 +25,7 @@ from .project import (OUTFALL_CONTROLS, Channel, FlowBasis, LiningChoice, Outfal
 __all__ = ["with_run_value", "run_value", "with_outfall_control", "with_item_added", "with_item_removed", "new_run",
            "starting_run",
            "station_channel", "StationNotOpenable", "cost_quantity", "RUN_ITEMS", "RUN_SETTINGS", "ADDABLE",
-           "item_path", "OUTFALL_LEVEL_PATH"]
+           "item_path", "OUTFALL_LEVEL_PATH", "REPLACEABLE", "with_item_replaced"]
 
 #: The outfall water level as the project file and the core's messages name it.
 OUTFALL_LEVEL_PATH = "outfall.water_level"
@@ -260,3 +260,22 @@ def station_channel(design, index: int, name: str, units: UnitSystem) -> Channel
                    section=copy.deepcopy(run.sections[p.section_index].section), lining=lining,
                    manning_n=None if lining is not None else 0.030, bend_radius=p.bend_radius,
                    min_freeboard=float(run.min_freeboard), alternatives=others, notes=notes)
+
+
+#: The lists whose items the window replaces whole (edited in a dialog), with the item class each holds.
+REPLACEABLE = {"sub_areas": SubAreaInput, "sections": RunSection}
+
+
+def with_item_replaced(run: Run, items: str, index: int, item) -> Run:
+    """A copy of ``run`` whose item ``index`` of the list ``items`` (a key of :data:`REPLACEABLE`) is ``item``
+    (copied): a sub-area or section edited as a whole, its time of concentration, land covers or shape with it."""
+    if items not in REPLACEABLE:
+        raise KeyError(f"items {items!r}: the window replaces whole items of {', '.join(REPLACEABLE)}")
+    if not isinstance(item, REPLACEABLE[items]):
+        raise TypeError(f"{items}[{index}] takes a {REPLACEABLE[items].__name__}, got {type(item).__name__}")
+    seq = getattr(run, items)
+    if not 0 <= index < len(seq):
+        raise KeyError(f"{items}[{index}]: the run has {len(seq)}")
+    out = copy.deepcopy(run)
+    getattr(out, items)[index] = copy.deepcopy(item)
+    return out

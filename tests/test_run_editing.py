@@ -126,3 +126,27 @@ def test_a_candidate_is_added_by_choice_and_the_last_one_kept(demo):
     assert [c.key for c in one.candidates] == ["asphalt"]
     with pytest.raises(ValueError, match="at least 1 candidate lining"):
         with_item_removed(one, "candidates", 0)
+
+
+def test_a_sub_area_or_section_is_replaced_whole_on_a_copy(demo, catalogue):
+    import copy
+
+    from app.run_editing import with_item_replaced
+
+    run = demo.runs[0]
+    sa = copy.deepcopy(run.sub_areas[3])
+    sa.time_of_concentration = {"method": "kirpich", "flow_length": 300.0, "slope": 0.02}
+    new = with_item_replaced(run, "sub_areas", 3, sa)
+    assert new.sub_areas[3] == sa and new.sub_areas[3] is not sa
+    assert run.sub_areas[3].time_of_concentration == {"method": "typed", "value": 300.0}
+    assert new.sub_areas[:3] == run.sub_areas[:3] and new.sections == run.sections
+    rs = pj.RunSection(0.0, 330.0, {"shape": "triangle", "left_slope": 4.0, "right_slope": 4.0}, 0.9)
+    tri = with_item_replaced(run, "sections", 0, rs)
+    assert tri.sections[0].section["shape"] == "triangle" and run.sections[0].section["shape"] == "trapezoid"
+    assert design_run(demo, tri, catalogue).result.points[-1].flow > 0
+    with pytest.raises(KeyError, match="replaces whole items of sub_areas, sections"):
+        with_item_replaced(run, "bends", 0, rs)
+    with pytest.raises(TypeError, match="takes a RunSection"):
+        with_item_replaced(run, "sections", 0, sa)
+    with pytest.raises(KeyError, match=r"sub_areas\[9\]: the run has 4"):
+        with_item_replaced(run, "sub_areas", 9, sa)

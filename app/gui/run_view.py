@@ -18,7 +18,7 @@ import numpy as np
 
 from PySide6.QtCore import QAbstractTableModel, QEvent, QModelIndex, Qt, QTimer, Signal
 from PySide6.QtGui import QAction, QBrush, QColor, QKeySequence
-from PySide6.QtWidgets import (QAbstractItemView, QComboBox, QFormLayout, QFrame, QGroupBox, QHBoxLayout,
+from PySide6.QtWidgets import (QAbstractItemView, QComboBox, QDialog, QFormLayout, QFrame, QGroupBox, QHBoxLayout,
                                QHeaderView, QLabel, QListWidget, QMenu, QPushButton, QScrollArea, QSplitter,
                                QTableView, QTableWidget, QTableWidgetItem, QVBoxLayout, QWidget)
 
@@ -32,14 +32,15 @@ from ..project import OUTFALL_CONTROLS, RunCandidate
 from ..results import RUN_STATION_FIELDS
 from ..run_design import CONTROL_WORDS, RunDesign, design_run, section_words
 from ..run_drawing import profile_model
-from ..run_editing import (ADDABLE, OUTFALL_LEVEL_PATH, RUN_ITEMS, RUN_SETTINGS, StationNotOpenable, cost_quantity,
-                           item_path, run_value, starting_run, station_channel, with_item_added, with_item_removed,
-                           with_outfall_control, with_run_value)
+from ..run_editing import (ADDABLE, OUTFALL_LEVEL_PATH, REPLACEABLE, RUN_ITEMS, RUN_SETTINGS, StationNotOpenable,
+                           cost_quantity, item_path, run_value, starting_run, station_channel, with_item_added,
+                           with_item_removed, with_item_replaced, with_outfall_control, with_run_value)
 from ..verdicts import Verdict
 from .document import ProjectDocument
 from .fields import (LineEdit, format_number, keep_units_whole, message_line, number_marks, pretty, sentence,
                      set_invalid, typed_number)
 from .results_view import CAUTION, _escape
+from .run_item_dialogs import SectionDialog, SubAreaDialog
 from .run_plot import ProfilePicture
 from .screen_fit import SideTabs
 from .tasks import Task
@@ -185,6 +186,7 @@ class InputTable(QWidget):
     refused = Signal(str, str)           # path, message
     add_asked = Signal(str, int)         # items, the row the new one follows (-1: none chosen)
     remove_asked = Signal(str, int)      # items, row
+    item_asked = Signal(str, int)        # items, row: edit the whole item in its dialog (REPLACEABLE lists)
 
     def __init__(self, items: str, columns: tuple, name: str, parent=None):
         super().__init__(parent)
@@ -223,6 +225,14 @@ class InputTable(QWidget):
             buttons = QHBoxLayout()
             buttons.setContentsMargins(0, 0, 0, 0)
             buttons.addStretch(1)
+            if items in REPLACEABLE:
+                self.item_button = QPushButton(ITEM_DIALOG_BUTTONS[items])
+                self.item_button.setObjectName(f"{name}Details")
+                self.item_button.setToolTip(f"Open the chosen {ITEM_WORDS[items]} in a dialog to change it whole "
+                                            f"(or double-click its {'name' if items == 'sub_areas' else 'section'})")
+                self.item_button.clicked.connect(self.ask_item)
+                self.table.cellDoubleClicked.connect(self._double_clicked)
+                buttons.addWidget(self.item_button)
             buttons.addWidget(self.add_button)
             buttons.addWidget(self.remove_button)
             lay.addLayout(buttons)
@@ -244,6 +254,19 @@ class InputTable(QWidget):
 
     def ask_add(self) -> None:
         self.add_asked.emit(self.items, self.chosen_row())
+
+    def ask_item(self) -> None:
+        row = self.chosen_row()
+        if row < 0 and self.table.rowCount() == 1:
+            row = 0
+        if row < 0:
+            self.say(f"Choose the {ITEM_WORDS[self.items]} to edit first.")
+            return
+        self.item_asked.emit(self.items, row)
+
+    def _double_clicked(self, row: int, col: int) -> None:
+        if self.columns[col].attribute in ("name", "section"):
+            self.item_asked.emit(self.items, row)
 
     def ask_remove(self) -> None:
         row = self.chosen_row()
@@ -507,6 +530,8 @@ STATION_ATTRIBUTES = ("station", "from_station", "to_station")
 #: One item of each list in words.
 ITEM_WORDS = {"profile": "grade point", "candidates": "candidate", "sub_areas": "sub-area", "sections": "section",
               "bends": "bend", "point_inflows": "inflow"}
+#: The button under a table whose items are edited whole in a dialog (app.gui.run_item_dialogs).
+ITEM_DIALOG_BUTTONS = {"sub_areas": "Details…", "sections": "Edit…"}
 
 
 
@@ -999,6 +1024,7 @@ class RunView(QWidget):
             t.refused.connect(self._refused)
             t.add_asked.connect(self.add_item)
             t.remove_asked.connect(self.remove_item)
+            t.item_asked.connect(self.edit_item)
         self.inputs.settings.edited.connect(self._edited)
         self.inputs.settings.refused.connect(self._refused)
         self.inputs.run_asked.connect(self._run_asked)
@@ -1191,6 +1217,21 @@ class RunView(QWidget):
             return
         name = self.doc.context.catalogue.get(key).name
         self.doc.edit_run(self.current, new, f"Add the candidate lining '{name}' to '{run.name}'")
+
+    def item_dialog(self, items: str, row: int):
+        """The dialog that edits item ``row`` of ``items`` (a sub-area or a section range) as a whole."""
+        item, units = getattr(self.run, items)[row], self.doc.units
+        return (SubAreaDialog if items == "sub_areas" else SectionDialog)(item, units, self)
+
+    def edit_item(self, items: str, row: int) -> None:
+        """Edit item ``row`` of ``items`` in its dialog; OK is one undoable edit."""
+        run = self.run
+        dialog = self.item_dialog(items, row)
+        if dialog.exec() == QDialog.DialogCode.Accepted:
+            what = f"sub-area '{run.sub_areas[row].name}'" if items == "sub_areas" else f"section {row + 1}"
+            self.doc.edit_run(self.current, with_item_replaced(run, items, row, dialog.result()),
+                              f"Edit {what} of '{run.name}'")
+        dialog.deleteLater()
 
     def remove_item(self, items: str, row: int) -> None:
         """Delete item ``row`` of list ``items`` (one undoable step), or say why the run needs it."""

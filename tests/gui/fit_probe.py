@@ -299,6 +299,18 @@ def run(args) -> dict:
         probe.report["main-runs"]["columns"] = [wd.width() for wd in (view.splitter.widget(i) for i in
                                                 range(view.splitter.count())) if wd.isVisible()]
         probe.report["main-runs"]["picture"] = [view.picture.canvas.width(), view.picture.canvas.height()]
+        # the dialogs that edit a sub-area (land covers; TR-55 segments) and a section range
+        run = w.doc.project.runs[0]
+        for name, items, row in (("run-sub-area-covers", "sub_areas", next(
+                (i for i, sa in enumerate(run.sub_areas) if sa.land_covers), 0)),
+                                 ("run-sub-area-tr55", "sub_areas", next(
+                (i for i, sa in enumerate(run.sub_areas) if sa.time_of_concentration["method"] == "tr55"), 0)),
+                                 ("run-section", "sections", 0)):
+            if row < len(getattr(run, items)):
+                d = view.item_dialog(items, row)
+                probe.look(name, d)
+                d.close()
+                d.deleteLater()
         w.show_channels(0)
 
     for name, make in (("sheet-details", lambda: SheetDetailsDialog(w.doc.project.sheet, parent=w)),

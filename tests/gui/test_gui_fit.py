@@ -72,7 +72,8 @@ X-3,trapazoid,2,2,2,,0.01,15,,,0.03,Invented Rd 2
 P-4,circle,,,,1,0.002,40,,,0.013,Invented Rd 2
 """
 #: Windows and dialogs the probe must have looked at (message boxes are numbered in the order shown).
-EXPECTED = {"main-section", "main-rating", "main-energy", "main-comparison", "main-runs", "sheet-details",
+EXPECTED = {"main-section", "main-rating", "main-energy", "main-comparison", "main-runs", "run-sub-area-covers",
+            "run-sub-area-tr55", "run-section", "sheet-details",
             "sheet-export", "sheet-export-complaint", "project-notes", "rainfall", "rainfall-empty",
             "rainfall-complaint", "rainfall-formula", "inventory", "inventory-checked",
             "message-1-about-ditchwright", "message-2-unsaved-changes", "message-3-the-file-was-changed",
