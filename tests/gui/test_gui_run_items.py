@@ -13,15 +13,7 @@ from PySide6.QtWidgets import QApplication
 
 from app.run_design import design_run
 from app.run_editing import with_item_replaced
-
-WAIT = 60000
-
-
-def shown(w, qtbot):
-    w.show_runs()
-    view = w.run_view
-    qtbot.waitUntil(lambda: view.idle and view.design is not None, timeout=WAIT)
-    return view
+from run_waiting import WAIT, shown
 
 
 def column(view, key):

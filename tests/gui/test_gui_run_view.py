@@ -18,20 +18,7 @@ from app import project as pj
 from app.evaluate import evaluate_channel
 from app.run_design import design_run
 from app.run_drawing import profile_model
-
-WAIT = 60000    # the demo run takes a few seconds to solve in the worker thread
-
-
-def shown(w, qtbot):
-    """Show the run page of ``w`` and wait for its result."""
-    w.show_runs()
-    view = w.run_view
-    qtbot.waitUntil(lambda: view.idle and view.design is not None, timeout=WAIT)
-    return view
-
-
-def settle(view, qtbot):
-    qtbot.waitUntil(lambda: view.idle, timeout=WAIT)
+from run_waiting import WAIT, settle, shown
 
 
 def cell(view, row, key):
