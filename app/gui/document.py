@@ -23,6 +23,18 @@ from ..files import FileChangedError, FileStamp
 from . import commands as cmd
 
 
+def _named_copies(items: list, taken: set, blank: str) -> list:
+    """Copies of ``items`` (channels or runs), each named apart from ``taken`` and from each other ("name (2)");
+    a blank name becomes ``blank``."""
+    out = []
+    for item in items:
+        item = copy.deepcopy(item)
+        item.name = numbered(item.name.strip() or blank, taken)
+        taken.add(item.name)
+        out.append(item)
+    return out
+
+
 class ProjectDocument(QObject):
     reset = Signal()                 # another project was loaded: every view starts again
     channel_changed = Signal(int)    # the inputs of one channel changed
@@ -149,26 +161,14 @@ class ProjectDocument(QObject):
 
     def add_channels(self, channels: list, text: str) -> list:
         """Append ``channels`` in one undoable step; a name already in use gets a number. Returns the names."""
-        names = {c.name for c in self.project.channels}
-        added = []
-        for ch in channels:
-            ch = copy.deepcopy(ch)
-            ch.name = numbered(ch.name.strip() or "Reach", names)
-            names.add(ch.name)
-            added.append(ch)
+        added = _named_copies(channels, {c.name for c in self.project.channels}, "Reach")
         if added:
             self.undo_stack.push(cmd.AddChannels(self, added, text))
         return [c.name for c in added]
 
     def add_runs(self, runs: list, text: str) -> list:
         """Append ditch ``runs`` in one undoable step; a name already in use gets a number. Returns the names."""
-        names = {r.name for r in self.project.runs}
-        added = []
-        for run in runs:
-            run = copy.deepcopy(run)
-            run.name = numbered(run.name.strip() or "Run", names)
-            names.add(run.name)
-            added.append(run)
+        added = _named_copies(runs, {r.name for r in self.project.runs}, "Run")
         if added:
             self.undo_stack.push(cmd.AddRuns(self, added, text))
         return [r.name for r in added]
