@@ -104,6 +104,9 @@ class SortableRows(QAbstractTableModel):
     def verdict(self, i: int) -> str:
         return ""
 
+    #: What a row's number is (``Inventory.row_word``): a line of a CSV file, a feature of a GeoPackage layer.
+    row_word = "line"
+
     def _reset(self, columns, titles, order, lines) -> None:
         self.columns = list(columns)
         self.titles = list(titles or columns)
@@ -149,7 +152,7 @@ class SortableRows(QAbstractTableModel):
         if role == Qt.ItemDataRole.DisplayRole:
             return str(int(self.lines[self.shown[section]])) if 0 <= section < len(self.shown) else None
         if role == Qt.ItemDataRole.ToolTipRole:
-            return "line in the file"
+            return "line in the file" if self.row_word == "line" else "feature id in the layer"
         return None
 
     # -- filtering and sorting ---------------------------------------------------------------
@@ -189,7 +192,7 @@ class SortableRows(QAbstractTableModel):
 
 
 def _numeric(column: str) -> bool:
-    return _quantity(column) is not None or column == "line"
+    return _quantity(column) is not None or column in ("line", "feature")
 
 
 class ReachesModel(SortableRows):
@@ -258,7 +261,8 @@ class ReachesModel(SortableRows):
             if role == Qt.ItemDataRole.DisplayRole:
                 return f"{int(self.lines[i])}  {self.run.inventory.ids[i]}"
             if role == Qt.ItemDataRole.ToolTipRole:
-                return f"line {int(self.lines[i])} of the file, id {self.run.inventory.ids[i]}"
+                where = "of the file" if self.row_word == "line" else "of the layer"
+                return f"{self.row_word} {int(self.lines[i])} {where}, id {self.run.inventory.ids[i]}"
         return super().headerData(section, orientation, role)
 
     def keys(self, c: int) -> np.ndarray:
@@ -353,7 +357,7 @@ class InventoryDialog(QDialog):
         # the file and how to read it
         top = QGridLayout()
         top.setHorizontalSpacing(8)
-        top.addWidget(QLabel("Inventory (CSV)"), 0, 0)
+        top.addWidget(QLabel("Inventory"), 0, 0)    # a CSV file or a GeoPackage (the file dialog says which)
         self.path = QLineEdit()
         self.path.setObjectName("inventoryPath")
         self.path.setPlaceholderText("columns id, shape, bottom_width, left_slope, right_slope, diameter, slope, "
@@ -619,7 +623,9 @@ class InventoryDialog(QDialog):
         self.model.load(run)
         self.table.horizontalHeader().setSortIndicator(-1, Qt.SortOrder.AscendingOrder)
         problems = run.problems()
-        self.problems_model.load(["line", "id", "verdict", "reason"],
+        word = run.inventory.row_word
+        self.model.row_word = self.problems_model.row_word = word
+        self.problems_model.load([word, "id", "verdict", "reason"],
                                  [[str(line), ident, str(verdict), reason] for line, ident, verdict, reason in problems],
                                  [p[0] for p in problems])
         self.views.setTabText(1, f"Bad rows ({len(problems):,})")
@@ -705,7 +711,7 @@ class InventoryDialog(QDialog):
         ident = inv.id_at(i) or "no id"
         verdict, reason = str(res.verdict[i]), pretty(res.reason[i])
         told = reason if reason.lower().startswith(verdict) else f"{verdict}. {reason}"
-        self.detail.setText(f"Line {int(inv.lines[i])}, {ident}: {told}")
+        self.detail.setText(f"{inv.row_word.capitalize()} {int(inv.lines[i])}, {ident}: {told}")
 
     def _set_result_actions(self) -> None:
         has_run = self.run is not None
@@ -737,7 +743,7 @@ class InventoryDialog(QDialog):
         taken = [i for i in rows if self.run.result.verdict[i] != "invalid"]
         if len(taken) == len(channels):   # say where each channel came from, unless the row said it
             for i, ch in zip(taken, channels):
-                ch.location = ch.location or f"{source}, line {int(inv.lines[i])}"
+                ch.location = ch.location or f"{source}, {inv.row_word} {int(inv.lines[i])}"
         names = self.doc.add_channels(channels, f"Import {len(channels):,} reach{'es' if len(channels) != 1 else ''} "
                                                 f"from {source}") if channels else []
         parts = []
@@ -749,7 +755,8 @@ class InventoryDialog(QDialog):
                          "window takes them out again.")
         if skipped:
             parts.append("Not imported, the row is invalid: " +
-                         "; ".join(f"line {line} ({ident or 'no id'}): {reason}" for line, ident, reason in skipped[:3])
+                         "; ".join(f"{inv.row_word} {line} ({ident or 'no id'}): {reason}"
+                                   for line, ident, reason in skipped[:3])
                          + (f"; and {len(skipped) - 3:,} more" if len(skipped) > 3 else "") + ".")
         self._say(" ".join(parts), error=bool(skipped) and not names)
         if names:
@@ -760,7 +767,7 @@ class InventoryDialog(QDialog):
         rows = sorted({i.row() for i in self.table.selectionModel().selectedRows()})
         if not rows:
             return
-        lines = ["\t".join(["line"] + [tsv_cell(self.model.titles[c]) for c in self.model.order])]
+        lines = ["\t".join([self.run.inventory.row_word] + [tsv_cell(self.model.titles[c]) for c in self.model.order])]
         for r in rows:
             lines.append("\t".join([str(int(self.model.lines[self.model.shown[r]]))] +
                                    [tsv_cell(self.model.cell(r, c)) for c in range(self.model.columnCount())]))

@@ -165,7 +165,7 @@ class BatchRun:
             lining = LiningChoice(r.lining[i], value(r.d50, i) or None) if r.lining[i] else None
             fields = csv_fields(inv.rows[i]) if extra else []
             notes = "; ".join(f"{name}: {fields[j]}" for j, name in extra if j < len(fields) and fields[j])
-            channels.append(Channel(name=inv.id_at(i) or f"line {inv.lines[i]}",
+            channels.append(Channel(name=inv.id_at(i) or f"{inv.row_word} {inv.lines[i]}",
                                     flow=FlowBasis("typed", float(r.flow[i])), slope=float(r.slope[i]),
                                     section=section, lining=lining,
                                     manning_n=value(r.n, i), notes=notes))

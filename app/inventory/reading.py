@@ -69,6 +69,11 @@ class Inventory:
     # (records as written to a results file, header text as written, cells given an apostrophe): made on first use
     _written: tuple | None = field(default=None, repr=False, compare=False)
 
+    @property
+    def row_word(self) -> str:
+        """What a row's number is: its "line" in a CSV file, its "feature" id in a GeoPackage layer."""
+        return "line" if self.layer is None else "feature"
+
     def __len__(self):
         return len(self.records)
 

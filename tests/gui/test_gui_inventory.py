@@ -363,18 +363,13 @@ def test_numbers_that_look_like_the_other_unit_system_are_warned_about_in_the_st
 
 
 def write_geopackage(path, rows, layers=("reaches",)):
-    """``rows`` as a GeoPackage layer of invented lines (UTM zone 33N, metres) under each name of ``layers``."""
-    import numpy as np
-    import pyarrow as pa
-    import pyogrio
+    """``rows`` as a GeoPackage layer of invented 150 m lines (UTM zone 33N) under each name of ``layers``."""
     import shapely
+    from test_batch_gpkg import write_layer
     lines = [shapely.LineString([(500_000 + 300 * i, 5_000_000), (500_000 + 300 * i + 120, 5_000_090)])
-             for i in range(len(rows))]                                 # 150 m each
+             for i in range(len(rows))]
     for name in layers:
-        data = {c: pa.array([r.get(c, "") for r in rows], type=pa.string()) for c in HEADER}
-        data["geom"] = pa.array(shapely.to_wkb(np.array(lines, dtype=object)))
-        pyogrio.write_arrow(pa.table(data), path, layer=name, driver="GPKG", geometry_name="geom",
-                            geometry_type="LineString", crs="EPSG:32633", append=name != layers[0])
+        write_layer(path, rows, lines, crs="EPSG:32633", layer=name, columns=HEADER, append=name != layers[0])
     return path
 
 
@@ -383,10 +378,13 @@ def test_a_geopackage_layer_is_checked_as_the_same_rows_in_csv(window, qtbot, tm
     assert "*.gpkg" in OPEN_FILTER
     as_csv = checked(qtbot, window, inventory)
     csv_cells = {i: as_csv.model.cell(r, column(as_csv, "normal_depth")) for r, i in enumerate(ids_shown(as_csv))}
+    assert as_csv.problems_model.columns[0] == "line"                          # a CSV file's rows are its lines
     d = checked(qtbot, window, write_geopackage(tmp_path / "reaches.gpkg", ROWS))
     assert d.model.rowCount() == len(ROWS)
     assert {i: d.model.cell(r, column(d, "normal_depth")) for r, i in enumerate(ids_shown(d))} == csv_cells
     assert "layer 'reaches' (5 features)" in d.status.text()
+    assert d.problems_model.columns[0] == "feature"                             # a layer's rows are its features
+    assert d.model.headerData(0, Qt.Orientation.Vertical, Qt.ItemDataRole.ToolTipRole).startswith("feature ")
     lengths = {d.model.cell(r, column(d, "length")) for r in range(d.model.rowCount())}
     assert lengths == {"492.126"}                                 # 150 m measured on each line, in ft
     choose(d, ["T-1"])
@@ -405,15 +403,10 @@ def test_the_layer_of_a_geopackage_with_several_is_asked_for(window, qtbot, tmp_
 
 
 def test_a_geopackage_in_degrees_without_lengths_is_refused_in_the_dialog(window, qtbot, tmp_path, dialogs):
-    import numpy as np
-    import pyarrow as pa
-    import pyogrio
     import shapely
+    from test_batch_gpkg import write_layer
     path = tmp_path / "degrees.gpkg"
-    data = {c: pa.array([r.get(c, "") for r in ROWS[:1]], type=pa.string()) for c in HEADER}
-    data["geom"] = pa.array(shapely.to_wkb(np.array([shapely.LineString([(10, 50), (10.01, 50.01)])], dtype=object)))
-    pyogrio.write_arrow(pa.table(data), path, layer="reaches", driver="GPKG", geometry_name="geom",
-                        geometry_type="LineString", crs="EPSG:4326")
+    write_layer(path, ROWS[:1], [shapely.LineString([(10, 50), (10.01, 50.01)])], crs="EPSG:4326", columns=HEADER)
     d = checked(qtbot, window, path)
     assert d.status.objectName() == "fieldMessage" and "degrees" in d.status.text() and d.run is None
     assert dialogs.shown == []
