@@ -186,6 +186,12 @@ RUN_TABLE_FIELDS = {f.key: f for f in (
 )}
 
 
+#: A reach's length that the program measured on its line in a GeoPackage layer without a length column
+#: (:mod:`app.inventory.layers`), rounded as the run's tables round a length; a length column of the file itself is
+#: shown as written.
+MEASURED_LENGTH = ResultField("length", "Measured length", "length", RUN_TABLE_FIELDS["length"].digits)
+
+
 def quantity_text(value: float, field: ResultField, decimal_mark: str = ".", group_mark: str = ",") -> str:
     """A quantity of work in the user's units with thousands grouped, to ``field.digits`` decimals: '2,258.3'."""
     return marked(f"{float(value):,.{field.digits}f}", decimal_mark, group_mark)

@@ -24,7 +24,7 @@ from PySide6.QtWidgets import (QAbstractItemView, QCheckBox, QComboBox, QDialog,
 
 from .. import inventory as ai
 from ..files import tsv_cell
-from ..results import INVENTORY_WORDS, rounded, table_field
+from ..results import INVENTORY_WORDS, MEASURED_LENGTH, rounded, table_field
 from ..inventory import InventoryError
 from hydraulics import many_reaches as mr
 from hydraulics import units as hu
@@ -136,7 +136,7 @@ class SortableRows(QAbstractTableModel):
             return pretty(self.cell(r, c)) if name == "reason" else self.cell(r, c)
         if role == Qt.ItemDataRole.ToolTipRole and name == "reason":
             return pretty(self.cell(r, c)) or None
-        if role == Qt.ItemDataRole.TextAlignmentRole and _numeric(name):
+        if role == Qt.ItemDataRole.TextAlignmentRole and self.numeric(self.order[c]):
             return int(Qt.AlignmentFlag.AlignRight | Qt.AlignmentFlag.AlignVCenter)
         if name == "verdict" and role in (Qt.ItemDataRole.BackgroundRole, Qt.ItemDataRole.ForegroundRole):
             colours = VERDICT_COLOURS.get(self.verdict(int(self.shown[r])))
@@ -154,6 +154,10 @@ class SortableRows(QAbstractTableModel):
         if role == Qt.ItemDataRole.ToolTipRole:
             return "line in the file" if self.row_word == "line" else "feature id in the layer"
         return None
+
+    def numeric(self, c: int) -> bool:
+        """Whether column ``c`` holds numbers (shown right-aligned)."""
+        return _numeric(self.columns[c])
 
     # -- filtering and sorting ---------------------------------------------------------------
     def show_rows(self, indices) -> None:
@@ -211,12 +215,15 @@ class ReachesModel(SortableRows):
         self._values: dict = {}
         self._fields: dict[int, list] = {}
         self._width = 0
+        self._measured: int | None = None    # the column of lengths the program measured, if any
 
     def load(self, run: ai.BatchRun, order_names=LEADING) -> None:
         self.beginResetModel()
         inv = run.inventory
         self.run = run
         self._width = len(inv.header)
+        measured = inv.layer is not None and inv.layer.measured_length and ai.LENGTH_COLUMN in inv.header
+        self._measured = inv.header.index(ai.LENGTH_COLUMN) if measured else None
         self._values = ai.display_values(inv, run.result)
         self._verdicts = run.result.verdict.astype(str)
         self._fields.clear()
@@ -224,7 +231,10 @@ class ReachesModel(SortableRows):
         lead = [columns.index(c) for c in order_names if c in columns]
         reason = columns.index("reason")
         order = lead + [i for i in range(len(columns)) if i not in lead and i != reason] + [reason]
-        self._reset(columns, [column_title(c, inv.units) for c in columns], order, inv.lines)
+        titles = [column_title(c, inv.units) for c in columns]
+        if self._measured is not None:
+            titles[self._measured] = f"{MEASURED_LENGTH.label}\n({pretty(inv.units.label(MEASURED_LENGTH.quantity))})"
+        self._reset(columns, titles, order, inv.lines)
         self.endResetModel()
 
     def _row(self, i: int) -> list:
@@ -238,7 +248,10 @@ class ReachesModel(SortableRows):
     def text(self, i: int, c: int) -> str:
         if c < self._width:
             fields = self._row(i)
-            return fields[c] if c < len(fields) else ""
+            text = fields[c] if c < len(fields) else ""
+            if c == self._measured and text.strip():     # measured here (in the inventory's units): the one rule
+                return rounded(float(text), MEASURED_LENGTH)
+            return text
         name = self.columns[c]
         if name == "verdict":
             return self._verdicts[i]
@@ -255,7 +268,14 @@ class ReachesModel(SortableRows):
     def verdict(self, i: int) -> str:
         return self._verdicts[i]
 
+    def numeric(self, c: int) -> bool:
+        return c == self._measured or super().numeric(c)
+
     def headerData(self, section, orientation, role=Qt.ItemDataRole.DisplayRole):
+        if (orientation == Qt.Orientation.Horizontal and role == Qt.ItemDataRole.ToolTipRole
+                and 0 <= section < len(self.order) and self.order[section] == self._measured):
+            return ("Measured on each reach's line in the layer's coordinate system (the layer has no "
+                    f"'{ai.LENGTH_COLUMN}' column)")
         if orientation == Qt.Orientation.Vertical and 0 <= section < len(self.shown) and self.run is not None:
             i = int(self.shown[section])
             if role == Qt.ItemDataRole.DisplayRole:

@@ -31,7 +31,7 @@ one row per input row and in the same order.
 from .plausibility import UnitsFinding, units_finding
 from .checking import BatchRun, check_file, evaluate, run_inventory
 from .reading import INPUT_COLUMNS, RESULT_COLUMNS, Inventory, InventoryError, parse_inventory, read_blocks, read_inventory
-from .layers import is_geopackage, layer_names, read_layer_blocks
+from .layers import LENGTH_COLUMN, is_geopackage, layer_names, read_layer_blocks
 from .reporting import MAX_MESSAGES, PLOT_FORMATS, ReachLines, Tally, plot_map, plot_summary, problem_rows, summary
 from .writing import DIGITS, display_values, format_results, result_table, write_results, written_rows
 
@@ -39,4 +39,4 @@ __all__ = ["INPUT_COLUMNS", "RESULT_COLUMNS", "DIGITS", "MAX_MESSAGES", "PLOT_FO
            "BatchRun", "Tally", "parse_inventory", "read_inventory", "read_blocks", "evaluate", "check_file", "run_inventory",
            "display_values", "format_results", "write_results", "written_rows", "result_table", "problem_rows",
            "summary", "plot_summary", "UnitsFinding", "units_finding", "plot_map", "ReachLines", "is_geopackage", "layer_names",
-           "read_layer_blocks"]
+           "read_layer_blocks", "LENGTH_COLUMN"]

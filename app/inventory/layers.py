@@ -66,6 +66,7 @@ class Layer:
     metres_per_unit: float | None   # of the coordinates; None: geographic or unknown (no lengths measured)
     projected: bool
     unit_name: str = ""             # of the coordinates, as the coordinate system names it ("metre", "US survey foot")
+    measured_length: bool = False   # the layer had no length column: each reach's length was measured on its line
 
 
 def _modules():
@@ -192,7 +193,8 @@ def read_layer_blocks(path, units: str = "us", rows: int = 100_000, layer: str |
             projected, factor, unit_name = _metres_per_unit(_crs_of(reader.schema, geometry))
             found = Layer(name=name, crs=info.get("crs"), geometry_type=kind, geometry_name=geometry,
                           features=int(info.get("features") or 0), bounds=info.get("total_bounds"),
-                          metres_per_unit=factor, projected=projected, unit_name=unit_name)
+                          metres_per_unit=factor, projected=projected, unit_name=unit_name,
+                          measured_length=measure)
             if measure and factor is None:
                 where = ("its coordinates are in degrees (a geographic system, " + str(found.crs) + ")"
                          if not projected and found.crs else

@@ -386,10 +386,47 @@ def test_a_geopackage_layer_is_checked_as_the_same_rows_in_csv(window, qtbot, tm
     assert d.problems_model.columns[0] == "feature"                             # a layer's rows are its features
     assert d.model.headerData(0, Qt.Orientation.Vertical, Qt.ItemDataRole.ToolTipRole).startswith("feature ")
     lengths = {d.model.cell(r, column(d, "length")) for r in range(d.model.rowCount())}
-    assert lengths == {"492.126"}                                 # 150 m measured on each line, in ft
+    assert lengths == {"492.13"}                    # 150 m measured on each line, in ft, by the one rounding rule
     choose(d, ["T-1"])
     (name,) = d.import_chosen()                                   # importing chosen reaches still works
     assert window.doc.project.channel(name).section["shape"] == "trapezoid"
+
+
+def test_a_measured_length_is_headed_in_words_with_its_unit_and_rounded_by_the_one_rule(window, qtbot, tmp_path):
+    """Issue 16 item 13: the program's own lengths of a layer's lines read as the results do; a length the file
+    gives itself (a CSV file's, a layer's own column) is shown under its name as written."""
+    from app.results import MEASURED_LENGTH, rounded
+    # 150 m (UTM metres: a 90-120-150 right triangle) = 150 / 0.3048 ft = 492.1260 ft (1 ft = 0.3048 m exactly,
+    # NIST SP 811 (2008), Appendix B.8); in SI the same lines measure 150 m
+    for units, expected in (("us", "492.13"), ("si", "150.00")):
+        d = checked(qtbot, window, write_geopackage(tmp_path / f"measured-{units}.gpkg", ROWS), units=units)
+        c = column(d, "length")
+        unit = "ft" if units == "us" else "m"
+        assert d.model.headerData(c, Qt.Orientation.Horizontal) == f"Measured length\n({unit})"
+        assert "measured" in d.model.headerData(c, Qt.Orientation.Horizontal, Qt.ItemDataRole.ToolTipRole).lower()
+        assert {d.model.cell(r, c) for r in range(d.model.rowCount())} == {expected}
+        assert expected == rounded(150 / (FOOT if units == "us" else 1), MEASURED_LENGTH)
+        assert d.model.data(d.model.index(0, c), Qt.ItemDataRole.TextAlignmentRole) == int(
+            Qt.AlignmentFlag.AlignRight | Qt.AlignmentFlag.AlignVCenter)
+    # the file's own length column: its name and its text as written, in a CSV file and in a layer alike
+    own = [dict(r, length=f"{100 + i}.12345") for i, r in enumerate(ROWS)]
+    for path in (write_inventory(tmp_path / "own.csv", own, HEADER + ["length"]), write_own_lengths(tmp_path, own)):
+        d = checked(qtbot, window, path)
+        c = column(d, "length")
+        assert d.model.headerData(c, Qt.Orientation.Horizontal) == "length", path
+        assert d.model.headerData(c, Qt.Orientation.Horizontal, Qt.ItemDataRole.ToolTipRole) is None
+        assert sorted(d.model.cell(r, c) for r in range(d.model.rowCount())) == [r["length"] for r in own], path
+
+
+def write_own_lengths(tmp_path, rows):
+    """``rows`` with their own length column as a layer of invented lines (UTM zone 33N)."""
+    import shapely
+    from test_batch_gpkg import write_layer
+    path = tmp_path / "own-lengths.gpkg"
+    lines = [shapely.LineString([(500_000 + 300 * i, 5_000_000), (500_000 + 300 * i + 10, 5_000_000)])
+             for i in range(len(rows))]
+    write_layer(path, rows, lines, crs="EPSG:32633", columns=HEADER + ["length"])
+    return path
 
 
 def test_the_layer_of_a_geopackage_with_several_is_asked_for(window, qtbot, tmp_path, monkeypatch):
