@@ -375,8 +375,35 @@ class RainfallDialog(QDialog):
         self.delete_formula_row.setEnabled(f.currentRow() >= 0 and f.rowCount() > 1)
 
     def _kind_picked(self, index: int) -> None:
+        self._carry_return_periods()
         self.pages.setCurrentIndex(index)
         self.check()
+
+    def _carry_return_periods(self) -> None:
+        """The return periods typed on the page being left, copied to the page chosen while none is typed there
+        (one row of the formula per column of the table, and back), so that a switch does not start blank."""
+        g, f = self.grid, self.coefficients
+        table = [self._text(g, 0, j) for j in range(1, g.columnCount())]
+        formula = [self._text(f, i, 0) for i in range(f.rowCount())]
+        to_formula = self.chosen_kind == "formula"
+        given, target = (table, formula) if to_formula else (formula, table)
+        given = [t for t in given if t]
+        if not given or any(target):
+            return
+        grid = f if to_formula else g
+        grid.blockSignals(True)
+        if to_formula:
+            f.setRowCount(len(given))
+            for i, text in enumerate(given):
+                for j in range(4):
+                    f.setItem(i, j, _cell(text=text if j == 0 else ""))
+        else:
+            g.setColumnCount(len(given) + 1)
+            for j, text in enumerate(given, start=1):
+                g.setItem(0, j, _cell(text=text))
+        grid.blockSignals(False)
+        if not to_formula:
+            self._table_headings()
 
     # -- reading ----------------------------------------------------------------------------------------------
     @property

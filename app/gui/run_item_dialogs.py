@@ -33,16 +33,22 @@ from PySide6.QtWidgets import (
 
 import hydraulics as hy
 from hydraulics.units import UnitSystem
-from hydraulics.wording import in_units
+from hydraulics.wording import format_station, in_units
 
 from ..project import LandCover, RunSection, SubAreaInput
 from ..run_design import sub_area_basis
-from .fields import UnclearNumber, format_number, parse_number, pretty, set_invalid
+from .fields import UnclearNumber, format_number, parse_number, pretty, sentence, set_invalid
 from .forms import SECTION_FIELDS, SHAPES
 
 TC_METHODS = (("typed", "Typed"), ("kirpich", "Kirpich's formula"), ("tr55", "NRCS TR-55 travel times"))
 SEGMENT_KINDS = (("sheet", "Sheet"), ("shallow", "Shallow"))
 SURFACES = (("unpaved", "unpaved"), ("paved", "paved"))
+#: What a segment's cell that does not apply to its kind of flow shows, and why (TR-55 Chapter 3: sheet flow is
+#: timed with Manning's n, shallow concentrated flow from its slope and surface).
+NOT_USED = "—"
+NOT_USED_WHY = {"roughness": "Shallow concentrated flow takes no Manning's n: its velocity follows from the slope "
+                             "and the surface (TR-55 Figure 3-1)",
+                "surface": "Sheet flow takes no surface: its roughness is Manning's n (TR-55 Table 3-1)"}
 
 
 def _unit(units: UnitSystem, quantity: str, fallback: str = "") -> str:
@@ -335,8 +341,7 @@ class SubAreaDialog(_ItemDialog):
             item = QTableWidgetItem(_shown(seg.get(key), quantity, self.units))
             item.setTextAlignment(Qt.AlignmentFlag.AlignRight | Qt.AlignmentFlag.AlignVCenter)
             if key == "roughness" and seg["kind"] != "sheet":
-                item.setFlags(item.flags() & ~Qt.ItemFlag.ItemIsEditable)
-                item.setText("")
+                self._not_used(item, "roughness")
             self.segments.setItem(r, j, item)
         if seg["kind"] == "shallow":
             box = QComboBox()
@@ -346,9 +351,17 @@ class SubAreaDialog(_ItemDialog):
             box.activated.connect(lambda _i: self.check())
             self.segments.setCellWidget(r, 4, box)
         else:
-            item = QTableWidgetItem("")
-            item.setFlags(item.flags() & ~Qt.ItemFlag.ItemIsEditable)
-            self.segments.setItem(r, 4, item)
+            self.segments.setItem(r, 4, self._not_used(QTableWidgetItem(), "surface"))
+
+    @staticmethod
+    def _not_used(item: QTableWidgetItem, key: str) -> QTableWidgetItem:
+        """``item`` as a cell that does not apply to its segment's kind of flow: a dash, greyed, not editable, with
+        the reason in its tooltip."""
+        item.setText(NOT_USED)
+        item.setToolTip(NOT_USED_WHY[key])
+        item.setTextAlignment(Qt.AlignmentFlag.AlignCenter)
+        item.setFlags(item.flags() & ~Qt.ItemFlag.ItemIsEditable & ~Qt.ItemFlag.ItemIsEnabled)
+        return item
 
     def _c_how_picked(self, _index: int = 0) -> None:
         covers = self.c_how.currentData() == "covers"
@@ -468,7 +481,8 @@ class SubAreaDialog(_ItemDialog):
             return False
         if sa.land_covers:
             self.weighted.setText(f"C weighted by area: {basis.runoff_coefficient:.3f}")
-        self.accept_all(in_units(" ".join(basis.warnings), self.units) if basis.warnings else "")
+        self.accept_all(" ".join(sentence(w[:1].upper() + w[1:]) for w in (in_units(w, self.units)
+                                                                             for w in basis.warnings)))
         return True
 
     def result(self) -> SubAreaInput:
@@ -486,10 +500,15 @@ class SectionDialog(_ItemDialog):
     """The shape, dimensions and ditch depth of a section range; a surveyed section is shown, not edited."""
 
     def __init__(self, run_section: RunSection, units: UnitSystem, parent=None):
-        super().__init__("Section", units, parent)
+        where = (f"stations {format_station(run_section.from_station, units)} to "
+                 f"{format_station(run_section.to_station, units)}")
+        super().__init__(f"Section, {where}", units, parent)
         self.setObjectName("sectionDialog")
         self.original = copy.deepcopy(run_section)
         lay = QVBoxLayout(self)
+        self.stretch = QLabel(f"The ditch from {where}.")    # which range, also where no title bar shows it
+        self.stretch.setObjectName("subheading")
+        lay.addWidget(self.stretch)
         self.surveyed = run_section.section.get("shape") == "irregular"
         self.shape = QComboBox()
         self.shape.setObjectName("shape")

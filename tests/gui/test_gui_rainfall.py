@@ -331,3 +331,22 @@ def test_the_cores_cautions_are_shown_without_refusing(qtbot):
     assert "rainfall depth falls from 8.33 mm in 5 min to 6.67 mm in 10 min" in plain(d.cautions.text())
     type_cell(d.grid, 2, 1, "60")                                # 10 mm in 10 min: no caution
     assert d.ok.isEnabled() and d.cautions.isHidden()
+
+
+def test_a_switch_of_kind_carries_the_return_periods_to_an_empty_page(qtbot):
+    d = dialog(qtbot, demo_rainfall(), "si")         # the demo's table: 2, 10 and 25 years
+    d.kind.setCurrentIndex(d.kind.findData("formula"))
+    f = d.coefficients
+    assert [f.item(i, 0).text() for i in range(f.rowCount())] == ["2", "10", "25"]
+    assert all(f.item(i, j).text() == "" for i in range(3) for j in (1, 2, 3))
+    assert d.marked == (f, 0, 1) and not d.ok.isEnabled()       # the coefficients are still to be typed
+    type_cell(f, 0, 1, "800")
+    d.kind.setCurrentIndex(d.kind.findData("table"))             # back: the table is kept as it was
+    assert d.ok.isEnabled() and d.value() == demo_rainfall()
+    d.kind.setCurrentIndex(d.kind.findData("formula"))           # and the typed formula too
+    assert f.item(0, 1).text() == "800"
+    e = dialog(qtbot, invented_formula(), "si")       # a formula's return periods head an empty table
+    e.kind.setCurrentIndex(e.kind.findData("table"))
+    g = e.grid
+    assert [g.item(0, j).text() for j in range(1, g.columnCount())] == ["10", "25"]
+    assert g.horizontalHeaderItem(2).text() == "Intensity [mm/h]" and g.item(0, 2).font().bold()

@@ -188,3 +188,43 @@ def test_a_surveyed_section_is_shown_not_edited(demo_window, qtbot):
     assert d.result().section == rs.section and d.result().ditch_depth == 0.5
     assert with_item_replaced(pj.Run("r", [], pj.Outfall(0.0), [rs], [], []), "sections", 0,
                               d.result()).sections[0].ditch_depth == 0.5
+
+
+@pytest.mark.parametrize("units, first, last", [("si", "0+330.00", "0+700.00"),
+                                                 # 330 m and 700 m in ft (1 ft = 0.3048 m exactly, NIST SP 811,
+                                                 # 2008 ed., Appendix B.8): 1082.68 ft and 2296.59 ft
+                                                 ("us", "10+82.68", "22+96.59")])
+def test_the_section_dialog_says_which_stations_it_edits(demo_window, qtbot, units, first, last):
+    w = demo_window
+    w.doc.set_units(units)
+    view = shown(w, qtbot)
+    d = view.item_dialog("sections", 1)              # the demo's second range: 330 m to 700 m
+    qtbot.addWidget(d)
+    d.show()
+    assert d.windowTitle() == f"Section, stations {first} to {last}"
+    assert d.stretch.text() == f"The ditch from stations {first} to {last}." and d.stretch.isVisible()
+
+
+def test_a_segments_cells_that_do_not_apply_say_so_and_cautions_read_as_sentences(demo_window, qtbot):
+    from PySide6.QtCore import Qt
+    from app.gui.run_item_dialogs import NOT_USED
+    w = demo_window
+    view = shown(w, qtbot)
+    d = view.item_dialog("sub_areas", 0)             # "North lanes verge": sheet flow, then shallow flow
+    qtbot.addWidget(d)
+    surface, n = d.segments.item(0, 4), d.segments.item(1, 3)
+    # TR-55 (NRCS 1986) Chapter 3: sheet flow is timed with Manning's n (Table 3-1), shallow concentrated flow from
+    # its slope and whether it is paved (Figure 3-1)
+    assert surface.text() == n.text() == NOT_USED
+    assert "no surface" in surface.toolTip() and "no Manning's n" in n.toolTip()
+    for item in (surface, n):
+        assert not item.flags() & Qt.ItemFlag.ItemIsEditable
+    assert d.ok.isEnabled(), d.message.text()
+    segments = d.result().time_of_concentration["segments"]
+    assert segments[0]["roughness"] == 0.011 and segments[1]["surface"] == "unpaved" and "roughness" not in segments[1]
+    d.add_shallow.click()                             # an added segment alike
+    assert d.segments.item(2, 3).text() == NOT_USED
+    k = view.item_dialog("sub_areas", 1)             # "Pasture field A": Kirpich's formula on a 2.5 % slope
+    qtbot.addWidget(k)
+    assert k.ok.isEnabled() and k.note.text().startswith("Flow-path slope 2.5 % is outside Kirpich's data")
+    assert k.note.text().endswith(".")
