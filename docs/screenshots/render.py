@@ -10,7 +10,10 @@ invented-inventory.csv (an invented road inventory of 60 reaches, some of
 them faulty on purpose) with line 11 (a misspelt shape) chosen. The probe
 also lists whatever does not fit; this script stops if anything does. A
 chosen few of the pictures are copied here under the names the README uses
-(``SHOTS``); the message boxes are put side by side in one picture.
+(``SHOTS``); several dialogs of one kind are put side by side in one picture
+(the rainfall dialog's table with a refused cell and its formula, a run's
+sub-area and section dialogs, the message boxes). The dialogs are drawn on
+every screen at 100 %, in both unit systems and at both sizes.
 """
 
 from __future__ import annotations
@@ -28,22 +31,34 @@ HERE = Path(__file__).resolve().parent
 ROOT = HERE.parents[1]
 PROBE = ROOT / "tests" / "gui" / "fit_probe.py"
 
-#: (width, height, scale, units, channel shown or "") -> {picture of the probe: name here}
+#: The rainfall dialog (its table with a refused cell, then its formula) and a run's item dialogs (a sub-area with
+#: land covers, one with TR-55 travel times, a section range), each kind side by side in one picture.
+RAINFALL = ("rainfall-complaint", "rainfall-formula")
+RUN_DIALOGS = ("run-sub-area-covers", "run-sub-area-tr55", "run-section")
+
+
+def dialogs(size: int, units: str) -> dict:
+    """The pictures of the dialogs drawn on every screen at 100 % (``size`` its width)."""
+    return {RAINFALL: f"rainfall-{size}-{units}.png", RUN_DIALOGS: f"run-dialogs-{size}-{units}.png"}
+
+
+#: (width, height, scale, units, channel shown or "") -> {picture of the probe, or several side by side: name here}
 SHOTS = {
     (1920, 1080, 1.0, "us", ""): {"main-section": "window-1920-us-section.png",
                                   "main-energy": "window-1920-us-energy.png",
                                   "main-runs": "window-1920-us-runs.png",
-                                  "inventory-checked": "inventory-1920-us.png"},
+                                  "inventory-checked": "inventory-1920-us.png", **dialogs(1920, "us")},
     (1920, 1080, 1.0, "si", ""): {"main-rating": "window-1920-si-rating.png",
                                   "main-comparison": "window-1920-si-comparison.png",
-                                  "sheet-details": "sheet-details-1920-si.png"},
+                                  "sheet-details": "sheet-details-1920-si.png", **dialogs(1920, "si")},
     (1366, 768, 1.0, "us", ""): {"main-comparison": "window-1366-us-comparison.png",
-                                 "sheet-export-complaint": "sheet-export-1366-us.png"},
+                                 "sheet-export-complaint": "sheet-export-1366-us.png", **dialogs(1366, "us")},
     (1366, 768, 1.0, "si", "North cut ditch"): {"main-section": "window-1366-si-failing-lining.png",
-                                                "main-runs": "window-1366-si-runs.png"},
+                                                "main-runs": "window-1366-si-runs.png", **dialogs(1366, "si")},
     (1366, 768, 1.5, "us", ""): {"main-section": "window-1366-150-us-section.png",
                                  "main-runs": "window-1366-150-us-runs.png",
-                                 "project-notes": "project-notes-1366-150-us.png"},
+                                 "project-notes": "project-notes-1366-150-us.png",
+                                 "rainfall-complaint": "rainfall-1366-150-us.png"},
     (1366, 768, 1.5, "si", ""): {"main-comparison": "window-1366-150-si-comparison.png",
                                  "main-runs": "window-1366-150-si-runs.png",
                                  "inventory-checked": "inventory-1366-150-si.png"},
@@ -86,8 +101,11 @@ def main() -> int:
             wrong = {name: seen["problems"] for name, seen in report.items() if seen["problems"]}
             if wrong:
                 raise SystemExit(f"does not fit at {screen}: {wrong}")
-            for probe_name, name in chosen.items():
-                Image.open(shots / f"{probe_name}.png").save(HERE / name, optimize=True)
+            for probe_names, name in chosen.items():
+                if isinstance(probe_names, tuple):
+                    side_by_side([shots / f"{p}.png" for p in probe_names], HERE / name)
+                else:
+                    Image.open(shots / f"{probe_names}.png").save(HERE / name, optimize=True)
                 print(HERE / name)
             if screen == MESSAGES:
                 boxes = sorted(shots.glob("message-*.png"))
