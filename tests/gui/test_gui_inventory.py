@@ -252,6 +252,24 @@ def test_si_units_read_as_si(window, qtbot, tmp_path):
     assert window.doc.project.channel(name).section["bottom_width"] == pytest.approx(1.0)
 
 
+def test_a_us_inventory_in_an_si_project_is_read_and_shown_as_us(qtbot, inventory):
+    """Issue 16 item 3: the inventory's unit system is asked for, not taken from the project, and the view says it.
+    ROWS are typed in ft and ft^3/s; T-1's normal depth is Manning's equation in US units (Chow 1959, Eq. 5-6, as
+    above), so it is right only if the file was read in feet."""
+    w = MainWindow(pj.Project(name="Invented SI project", units="si"))
+    qtbot.addWidget(w)
+    w.show()
+    d = checked(qtbot, w, inventory, units="us")
+    assert d.units.count() == 2 and w.doc.project.units == "si"
+    assert d.model.headerData(column(d, "normal_depth"), Qt.Orientation.Horizontal) == "Normal depth\n(ft)"
+    assert "(US customary units)" in d.status.text() and "(US customary units)" in d.windowTitle()
+    t1 = ids_shown(d).index("T-1")
+    assert float(d.model.cell(t1, column(d, "normal_depth"))) == pytest.approx(
+        normal_depth_trapezoid(3, 3, 20, 0.035, 0.004), abs=0.0005)
+    d.stop(wait=True)
+    w.doc.undo_stack.setClean()
+
+
 def test_saved_results_have_one_row_per_input_row(window, qtbot, inventory, tmp_path, dialogs):
     d = checked(qtbot, window, inventory)
     dialogs.save_name = str(tmp_path / "results.csv")

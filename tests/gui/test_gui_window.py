@@ -349,6 +349,24 @@ def test_caution_and_warnings_in_words(demo_window):
     assert "near critical" in w.results.warnings.text()
 
 
+def test_a_supercritical_channel_is_cautioned_in_the_window(qtbot):
+    """Issue 16 item 5: FHWA HEC-15, 3rd ed. (2005), Section 2.1.1: supercritical flow may raise surface waves
+    approaching the depth of flow, so the freeboard needs care; the caution says so with the Froude number and its
+    source. The chute is invented (tests/test_regime_cautions.py: Froude number about 3.4)."""
+    ch = pj.Channel(name="Steep chute (invented)", flow=pj.FlowBasis(value=1.13), slope=0.05,
+                    section={"shape": "trapezoid", "bottom_width": 0.6, "left_slope": 2.0, "right_slope": 2.0},
+                    lining=pj.LiningChoice("concrete", None), manning_n=None)
+    w = MainWindow(pj.Project(name="Invented chute", units="si", channels=[ch]))
+    qtbot.addWidget(w)
+    w.show()
+    text = " ".join(w.results.warnings.text().split())
+    assert "is supercritical" in text and "HEC-15 Section 2.1.1" in text
+    assert "surface waves" in text and "freeboard" in text and "jump" in text
+    froude = float(shown(w, "froude"))
+    assert froude > 1.2 and f"Froude number {froude:.2f}" in text
+    w.doc.undo_stack.setClean()
+
+
 def outfall_index(w):
     return next(i for i, c in enumerate(w.doc.project.channels) if c.alternatives)
 
