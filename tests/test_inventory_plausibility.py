@@ -1,4 +1,5 @@
-"""An inventory whose numbers look typed in the other unit system is warned about (app.inventory.plausibility),
+"""An inventory whose numbers look typed in the other unit system is warned about, one whose columns disagree on
+it is refused unless checked (app.inventory.plausibility),
 in the result of the check and in `ditchwright batch`; impossible values are still refused row by row.
 
 The inventories are invented. The usual ranges are the program's own allowance (common practice, see
@@ -54,13 +55,33 @@ def test_metres_read_as_feet_are_said_to_look_metric():
     assert "diameters (median 0.45 ft) are small" in found.text and "SI (metric) units (0.45 m)" in found.text
 
 
-def test_a_column_usual_only_in_the_chosen_system_keeps_silent():
-    """Flows look like ft^3/s, widths look like metres: the evidence disagrees, so nothing is said."""
-    text = HEADER + "A,trapezoid,0.4,3,3,,0.01,20,,,0.03\nB,trapezoid,0.5,3,3,,0.01,25,,,0.03\n"
-    inventory = ai.parse_inventory(text, "si")
+MIXED = HEADER + "A,trapezoid,0.4,3,3,,0.01,20,,,0.03\nB,trapezoid,0.5,3,3,,0.01,25,,,0.03\n"
+
+
+def test_columns_that_disagree_on_their_units_are_a_mixed_finding():
+    """Flows look like ft^3/s, widths look like metres: one file cannot be both, so the finding is ``mixed``."""
+    inventory = ai.parse_inventory(MIXED, "si")
     low = USUAL["bottom_width"][0]
     assert 0.45 >= low > 0.45 * 0.3048                    # 0.45 m is usual, 0.45 ft is not
-    assert units_finding(inventory) is None
+    found = units_finding(inventory)
+    assert found is not None and found.mixed
+    assert [k.column for k in found.looks] == ["flow"] and [k.column for k in found.against] == ["bottom_width"]
+    assert "the flows (median 22.5 m^3/s) look typed in US customary units" in found.text
+    assert "the bottom widths (median 0.45 m) in SI (metric) units" in found.text
+    # one-sided findings are not mixed
+    assert not units_finding(ai.parse_inventory(IN_FEET, "si")).mixed
+
+
+def test_the_batch_command_refuses_a_mixed_inventory_unless_its_units_are_checked(tmp_path, capsys):
+    src, dst = tmp_path / "invented-mixed.csv", tmp_path / "out.csv"
+    src.write_text(MIXED, encoding="utf-8")
+    assert main(["batch", str(src), "-o", str(dst), "--units", "si", "--no-progress"]) == 2
+    err = capsys.readouterr().err
+    assert "The columns disagree on their units" in err and "--units-checked" in err and "Traceback" not in err
+    assert not dst.exists()                                # nothing written
+    assert main(["batch", str(src), "-o", str(dst), "--units", "si", "--no-progress", "--units-checked"]) == 0
+    assert "warning: The columns disagree" in capsys.readouterr().err
+    assert dst.exists()
 
 
 def test_impossible_values_are_refused_by_the_check_and_left_out_of_the_median():

@@ -43,6 +43,9 @@ def register(subparsers) -> None:
                         "si (m, m^3/s, Pa); default us")
     p.add_argument("--plot", metavar="PATH", help="also save a summary plot (.png, .pdf or .svg), and for a "
                                                   "GeoPackage inventory a map of the reaches beside it")
+    p.add_argument("--units-checked", action="store_true",
+                   help="check an inventory whose columns look typed in different unit systems (refused "
+                        "otherwise) once you have made sure of its units")
     p.add_argument("--user-catalogue", metavar="TOML",
                    help="user lining catalogue over the shipped one (same layout; prices, data-sheet values)")
     bar = p.add_mutually_exclusive_group()
@@ -79,7 +82,10 @@ def run(args) -> int:
     bar = ProgressBar("checking", enabled=show, percent=True)
     try:
         tally = ai.check_file(source, target, args.units, progress=bar, catalogue=catalogue, problems=MAX_LISTED,
-                              layer=args.layer)
+                              layer=args.layer, units_checked=args.units_checked)
+    except ai.MixedUnits as exc:
+        raise CliError(f"{source}: {exc} Nothing was written; if the units are right, run again with "
+                       f"--units-checked.") from None
     except ai.InventoryError as exc:
         raise CliError(str(exc)) from None
     except OSError as exc:
@@ -87,7 +93,7 @@ def run(args) -> int:
     finally:
         bar.close()
     elapsed = time.perf_counter() - start
-    if tally.units_finding is not None:
+    if tally.units_finding is not None:      # one-sided (a warning), or mixed and checked by the user
         print(f"warning: {tally.units_finding.text}", file=sys.stderr)
     for line, ident, verdict, reason in tally.problems:
         name = f" (id {ident!r})" if ident else ""

@@ -638,6 +638,13 @@ class InventoryDialog(QDialog):
                       error=True)
 
     def _checked(self, path: Path, run: ai.BatchRun) -> None:
+        finding = ai.units_finding(run.inventory)
+        if finding is not None and finding.mixed and not self._units_checked(path, finding):
+            before = ("" if self.run is None else
+                      f" The table still shows the results of {Path(self.run.inventory.source).name}.")
+            self._say(f"{pretty(finding.text)} Not shown: check the file's units and check it again.{before}",
+                      error=True)
+            return
         self.run = run
         units = run.inventory.units
         self.model.load(run)
@@ -669,13 +676,21 @@ class InventoryDialog(QDialog):
         found = getattr(run.inventory, "layer", None)
         where = f"{path.name}, layer '{found.name}' ({found.features:,} features)" if found is not None else path.name
         done = f"Checked {len(run.inventory):,} reaches of {where} ({units.name} units)."
-        finding = ai.units_finding(run.inventory)
         if finding is not None:          # the numbers look like the other unit system: said first, as a warning
             self._say(f"{pretty(finding.text)} {done}", error=True)
         else:
             self._say(f"{done} Click a column heading to sort; choose rows (Shift or Ctrl for several) to import "
                       "them as channels or copy them.")
         self.setWindowTitle(f"{path.name} ({units.name} units) — inventory check — Ditchwright")
+
+    def _units_checked(self, path: Path, finding: ai.UnitsFinding) -> bool:
+        """Whether the user says the units of an inventory whose columns disagree on them are right."""
+        answer = QMessageBox.question(
+            self, "Units of the inventory",
+            f"{pretty(finding.text)}\n\nShow the results of {path.name} read in "
+            f"{hu.system(finding.chosen).name} units anyway?",
+            QMessageBox.StandardButton.Yes | QMessageBox.StandardButton.No, QMessageBox.StandardButton.No)
+        return answer == QMessageBox.StandardButton.Yes
 
     def _fit_columns(self) -> None:
         header = self.table.horizontalHeader()

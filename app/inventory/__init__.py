@@ -28,7 +28,7 @@ permissible_shear, safety_factor, verdict, reason`` added, in the same units,
 one row per input row and in the same order.
 """
 
-from .plausibility import UnitsFinding, units_finding
+from .plausibility import MixedUnits, UnitsFinding, units_finding
 from .checking import BatchRun, check_file, evaluate, run_inventory
 from .reading import INPUT_COLUMNS, RESULT_COLUMNS, Inventory, InventoryError, parse_inventory, read_blocks, read_inventory
 from .layers import LENGTH_COLUMN, is_geopackage, layer_names, read_layer_blocks
@@ -38,5 +38,5 @@ from .writing import DIGITS, display_values, format_results, result_table, write
 __all__ = ["INPUT_COLUMNS", "RESULT_COLUMNS", "DIGITS", "MAX_MESSAGES", "PLOT_FORMATS", "Inventory", "InventoryError",
            "BatchRun", "Tally", "parse_inventory", "read_inventory", "read_blocks", "evaluate", "check_file", "run_inventory",
            "display_values", "format_results", "write_results", "written_rows", "result_table", "problem_rows",
-           "summary", "plot_summary", "UnitsFinding", "units_finding", "plot_map", "ReachLines", "is_geopackage", "layer_names",
+           "summary", "plot_summary", "MixedUnits", "UnitsFinding", "units_finding", "plot_map", "ReachLines", "is_geopackage", "layer_names",
            "read_layer_blocks", "LENGTH_COLUMN"]

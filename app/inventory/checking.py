@@ -16,7 +16,7 @@ import numpy as np
 from hydraulics import many_reaches as mr
 
 from . import layers, writing
-from .plausibility import units_finding
+from .plausibility import MixedUnits, units_finding
 from .reading import BLOCK_ROWS, INPUT_COLUMNS, Inventory, InventoryError, csv_fields, read_blocks, read_inventory
 from .reporting import ReachLines, Tally, problem_rows, summary
 from .writing import result_table
@@ -38,7 +38,7 @@ WRITE_CHUNK = 25_000
 
 
 def check_file(source, target, units: str = "us", progress=None, catalogue=None, *, rows: int = BLOCK_ROWS,
-               problems: int = 0, layer: str | None = None) -> Tally:
+               problems: int = 0, layer: str | None = None, units_checked: bool = False) -> Tally:
     """Read, check and write the inventory file ``source`` block by block (``rows`` reaches a block, see
     :func:`app.inventory.reading.read_blocks`) into the results file ``target``; returns the :class:`Tally` of
     the file (its first ``problems`` problem rows kept for listing).
@@ -52,8 +52,12 @@ def check_file(source, target, units: str = "us", progress=None, catalogue=None,
     written (a file that turns out unreadable half way, or a full disk, leaves the old one). ``progress(done, total)`` is called
     after each block with the bytes of the file read so far and its size (features for a GeoPackage).
 
+    An inventory whose columns disagree on their unit system (a ``mixed`` finding of
+    :func:`app.inventory.plausibility.units_finding` on the first block) is refused with :class:`MixedUnits`
+    before anything is written, unless ``units_checked`` says the user has checked them.
+
     Raises InventoryError (the file cannot be read as an inventory; before anything is written where the first
-    block shows it), InputError (unknown units) or OSError (writing).
+    block shows it), MixedUnits, InputError (unknown units) or OSError (writing).
     """
     if layers.is_geopackage(source):
         rows = min(rows, layers.BLOCK_FEATURES)
@@ -63,6 +67,8 @@ def check_file(source, target, units: str = "us", progress=None, catalogue=None,
     size = (found.features if found is not None else Path(source).stat().st_size) if progress is not None else 0
     tally = Tally(inventory.source, inventory.units, problems)
     tally.units_finding = units_finding(inventory)       # the first block (up to ``rows`` reaches) tells
+    if tally.units_finding is not None and tally.units_finding.mixed and not units_checked:
+        raise MixedUnits(tally.units_finding.text)
     if found is not None:
         tally.lines, tally.row_word = ReachLines(found, inventory.units), "feature"
     # The core checks chunk by chunk, so that the notes about groups of reaches (a relation's range over a chunk)

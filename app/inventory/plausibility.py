@@ -6,10 +6,18 @@ roadside ditch. :func:`units_finding` compares the typical value (the median)
 of each column with a unit (widths, diameters, flows, D50) against the range
 usual for roadside ditches, read in the chosen system and read in the other;
 when columns are out of range in the chosen system and in range in the other,
-and no column says the opposite, it returns a :class:`UnitsFinding` that says
-so with the numbers. It changes nothing: the window and the command line show
-it as a warning. Impossible values (a width of 0 or less, a flow of 0...) are
-refused row by row by the check itself (hydraulics.many_reaches.screen).
+it returns a :class:`UnitsFinding` that says so with the numbers.
+
+Two kinds of finding:
+- every column that takes a side looks typed in the other system: a warning
+  (the window and the command line show it; the check goes on);
+- the columns disagree (flows that look typed in feet beside widths that look
+  typed in metres): ``mixed``. One file cannot be in both systems, so the check
+  is refused (``ditchwright batch`` writes nothing; the window asks before it
+  shows any result) unless the user says the units are right.
+
+Impossible values (a width of 0 or less, a flow of 0...) are refused row by row
+by the check itself (hydraulics.many_reaches.screen).
 """
 
 from __future__ import annotations
@@ -20,7 +28,7 @@ import numpy as np
 
 from hydraulics import units as hu
 
-from .reading import Inventory
+from .reading import Inventory, InventoryError
 
 #: The usual range [SI] of the median of each column for roadside ditches: common practice, this program's own
 #: allowance (not from a standard), set wide so that only a factor of about 3.3 (lengths) or 35 (flows) off
@@ -31,6 +39,10 @@ USUAL = {"bottom_width": (0.25, 4.0), "diameter": (0.15, 3.0), "flow": (0.003, 8
 #: The quantity of each column (hydraulics.units) and its name in the sentence.
 QUANTITY = {"bottom_width": "length", "diameter": "length", "flow": "flow", "d50": "length"}
 WORDS = {"bottom_width": "bottom widths", "diameter": "diameters", "flow": "flows", "d50": "D50 sizes"}
+
+
+class MixedUnits(InventoryError):
+    """The inventory's columns disagree on their unit system (a ``mixed`` :class:`UnitsFinding`): refused."""
 
 
 @dataclass(frozen=True)
@@ -51,7 +63,9 @@ class UnitsFinding:
     chosen: str
     other: str
     looks: tuple         # the Look of each column out of range in the chosen system
-    text: str            # the warning, one sentence with the numbers
+    text: str            # the warning (or refusal), in words with the numbers
+    mixed: bool = False  # some columns look typed in the chosen system, others in the other one
+    against: tuple = ()  # when mixed: the Look of each column usual only in the chosen system
 
 
 def other_system(key: str) -> hu.UnitSystem:
@@ -63,7 +77,7 @@ def units_finding(inventory: Inventory) -> UnitsFinding | None:
 
     A column counts when it has at least one positive value; its median read in the chosen system is compared
     with :data:`USUAL`. The finding needs one column out of range in the chosen system and in range in the other,
-    and no column in range in the chosen system and out of it in the other.
+    A column in range in the chosen system and out of it in the other as well makes the finding ``mixed``.
 
     >>> from app.inventory.reading import parse_inventory
     >>> rows = "id,shape,bottom_width,left_slope,right_slope,diameter,slope,flow,lining,d50,n\\n"
@@ -72,6 +86,9 @@ def units_finding(inventory: Inventory) -> UnitsFinding | None:
     True
     >>> units_finding(parse_inventory(rows, "si")).other
     'us'
+    >>> mixed = "A,trapezoid,0.4,3,3,,0.01,20,,,0.03\\nB,trapezoid,0.5,3,3,,0.01,25,,,0.03\\n"
+    >>> units_finding(parse_inventory(rows.splitlines()[0] + "\\n" + mixed, "si")).mixed  # widths in m, flows in ft³/s
+    True
     """
     chosen = inventory.units
     other = other_system(chosen.key)
@@ -87,23 +104,40 @@ def units_finding(inventory: Inventory) -> UnitsFinding | None:
         as_other = float(other.to_si(quantity, typed))
         looks.append(Look(column, typed, low <= as_chosen <= high, low <= as_other <= high, as_chosen > high))
     wrong = [k for k in looks if not k.chosen_ok and k.other_ok]
-    if not wrong or any(k.chosen_ok and not k.other_ok for k in looks):
+    if not wrong:
         return None
+    right = [k for k in looks if k.chosen_ok and not k.other_ok]
+    if right:
+        return UnitsFinding(chosen.key, other.key, tuple(wrong), _mixed_sentence(wrong, right, chosen, other),
+                            mixed=True, against=tuple(right))
     return UnitsFinding(chosen.key, other.key, tuple(wrong), _sentence(wrong, chosen, other))
 
 
-def _sentence(wrong: list, chosen: hu.UnitSystem, other: hu.UnitSystem) -> str:
-    def typed(k, system):
-        return f"{k.typed:.3g} {system.label(QUANTITY[k.column])}"
+def _typed(k: Look, system: hu.UnitSystem) -> str:
+    return f"{k.typed:.3g} {system.label(QUANTITY[k.column])}"
 
+
+def _listed(parts: list) -> str:
+    return parts[0] if len(parts) == 1 else ", ".join(parts[:-1]) + " and " + parts[-1]
+
+
+def _sentence(wrong: list, chosen: hu.UnitSystem, other: hu.UnitSystem) -> str:
+    typed = _typed
     sizes = {k.large for k in wrong}
     how = ("large" if True in sizes else "small") if len(sizes) == 1 else "unusual"
     parts = [f"{WORDS[k.column]} (median {typed(k, chosen)}"
              + (f", {'large' if k.large else 'small'})" if how == "unusual" else ")") for k in wrong]
-    listed = parts[0] if len(parts) == 1 else ", ".join(parts[:-1]) + " and " + parts[-1]
     usual = ", ".join(typed(k, other) for k in wrong)
-    return (f"The {listed} are {how} for roadside ditches in {chosen.name} units but usual in {other.name} units "
-            f"({usual}): check the units chosen for this inventory.")
+    return (f"The {_listed(parts)} are {how} for roadside ditches in {chosen.name} units but usual in {other.name} "
+            f"units ({usual}): check the units chosen for this inventory.")
 
 
-__all__ = ["USUAL", "UnitsFinding", "units_finding"]
+def _mixed_sentence(wrong: list, right: list, chosen: hu.UnitSystem, other: hu.UnitSystem) -> str:
+    those = _listed([f"{WORDS[k.column]} (median {_typed(k, chosen)})" for k in wrong])
+    these = _listed([f"{WORDS[k.column]} (median {_typed(k, chosen)})" for k in right])
+    return (f"The columns disagree on their units: the {those} look typed in {other.name} units, the {these} in "
+            f"{chosen.name} units. One inventory holds one unit system: check the columns before trusting any "
+            f"result.")
+
+
+__all__ = ["USUAL", "MixedUnits", "UnitsFinding", "units_finding"]

@@ -380,6 +380,27 @@ def test_numbers_that_look_like_the_other_unit_system_are_warned_about_in_the_st
     assert d.status.objectName() == "hint"
 
 
+def test_an_inventory_whose_columns_disagree_on_their_units_is_shown_only_when_the_user_says_so(
+        window, qtbot, tmp_path, dialogs):
+    """Bottom widths usual in metres beside flows usual in ft^3/s (app.inventory.plausibility, a ``mixed``
+    finding): checked as SI, the window asks before it shows anything; No keeps the table as it was."""
+    rows = [dict(ROWS[0], id="M-1", bottom_width="0.4", flow="20"), dict(ROWS[0], id="M-2", bottom_width="0.5",
+                                                                       flow="25")]
+    path = write_inventory(tmp_path / "invented-mixed.csv", rows)
+    dialogs.answers["question"] = [QMessageBox.StandardButton.No]
+    d = checked(qtbot, window, path, units="si")
+    assert dialogs.kinds() == ["question"]
+    assert d.run is None and d.model.rowCount() == 0                   # nothing shown
+    assert "The columns disagree on their units" in d.status.text() and "Not shown" in d.status.text()
+    assert d.status.objectName() == "fieldMessage"
+    dialogs.answers["question"] = [QMessageBox.StandardButton.Yes]
+    d = checked(qtbot, window, path, units="si")
+    assert d.model.rowCount() == 2 and ids_shown(d) == ["M-1", "M-2"]
+    assert "The columns disagree on their units" in d.status.text() and "Checked 2 reaches" in d.status.text()
+    d = checked(qtbot, window, write_inventory(tmp_path / "invented-inventory.csv", ROWS), units="us")
+    assert dialogs.kinds() == ["question", "question"]                # an inventory that agrees asks nothing
+
+
 def write_geopackage(path, rows, layers=("reaches",)):
     """``rows`` as a GeoPackage layer of invented 150 m lines (UTM zone 33N) under each name of ``layers``."""
     import shapely
