@@ -59,6 +59,8 @@ NUMBER_OPTIONS = ("flow", "slope", "n", "bottom_width", "side_slope", "left_slop
                   "top_width", "at_depth", "max_depth", "d50", "bend_radius", "min_freeboard")
 #: --max-depth is no input of a channel: the depth that --find bottom-width keeps within.
 MAX_DEPTH = Input("max_depth", "Allowable flow depth", "length")
+#: Options typed in another unit than the form's: the stone size in ft or m (the form's is in inches or mm).
+_OPTION_QUANTITY = {"d50": "length"}
 
 
 def option_input(field: str, shape: str | None = None) -> Input:
@@ -77,7 +79,8 @@ def check_numbers(args) -> None:
         if not math.isfinite(value):
             raise CliError(f"{option_name(field)} must be a finite number, got {value}")
         spec = option_input(field, getattr(args, "shape", None))
-        if not spec.holds(spec.to_si(value, units)):
+        quantity = _OPTION_QUANTITY.get(field, spec.quantity)
+        if not spec.holds(float(units.to_si(quantity, value)) if quantity else value):
             raise CliError(f"{option_name(field)} must be {spec.allowed(units, plain=True)}, got {value:g}"
                            f"{spec.percent_hint(value)}")
         check_limit(field, value, units)
