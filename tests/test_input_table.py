@@ -210,3 +210,42 @@ def test_the_batch_refuses_exactly_outside_the_table(column, shape, lining):
         assert (problem == "") == expected, (v, problem)
         if problem:
             assert problem.startswith(f"{column}: must be "), problem
+
+
+# -- the window's form ----------------------------------------------------------------------------------------------
+
+@pytest.fixture(params=["us", "si"])
+def input_panel(qtbot, request):
+    """The window's input form over the demo project (an invented site), in US or SI units."""
+    from app import project as pj
+    from app.gui.document import ProjectDocument
+    from app.gui.forms import InputPanel
+
+    project = pj.loads(pj.demo_path().read_text(encoding="utf-8"))
+    project.units = request.param
+    panel = InputPanel(ProjectDocument(project))
+    qtbot.addWidget(panel)
+    return panel
+
+
+def test_the_form_shows_every_input_of_the_table_with_its_record(input_panel):
+    fields = input_panel.fields
+    assert all(any(f.spec is i for i in inputs.INPUTS) for f in fields.values())
+    shown = {(key.partition(":")[0] if ":" in key else None, f.spec.path) for key, f in fields.items()}
+    expected = {(None, i.path) for i in inputs.INPUTS if not i.shapes}
+    expected |= {(s, d.path) for s, dims in inputs.SECTION_INPUTS.items() for d in dims if d.name != "side_slope"}
+    assert shown == expected
+
+
+def test_the_form_s_fields_refuse_exactly_outside_the_table(input_panel):
+    units = hu.system(input_panel.doc.project.units)
+    for key, field in input_panel.fields.items():
+        spec = field.spec
+        field.show_value(None, units)      # the fields of the shapes not shown have not been given units yet
+        for typed in _edges(spec, spec.quantity, units):
+            try:
+                field.parse(repr(typed))
+                refused = None
+            except ValueError as exc:
+                refused = str(exc)
+            assert (refused is None) == _accepted(spec, spec.to_si(typed, units)), (key, typed, refused)
