@@ -60,11 +60,17 @@ class Input:
     tip: str = ""
     unit_text: str = ""         # the unit of a pure number ("H : 1V"); NO_UNIT when empty
     shapes: tuple = ()          # the section shapes that take it; () for an input of every channel
+    in_words: str = ""          # how a message names it ("Design flow must be > 0"); the label when empty
 
     @property
     def name(self) -> str:
         """The core's name of the input: also its command-line option and its inventory column."""
         return _CORE_NAMES.get(self.path, self.path.rsplit(".", 1)[-1])
+
+    @property
+    def words(self) -> str:
+        """The input as a message names it: its label without the symbol ("Design flow", not "Design flow Q")."""
+        return self.in_words or self.label
 
     @property
     def limit(self) -> hv.Limit | None:
@@ -118,21 +124,22 @@ class Input:
 
 
 F = Input
-FLOW = F("flow.value", "Design flow Q", "flow", tip="Design discharge")
+FLOW = F("flow.value", "Design flow Q", "flow", tip="Design discharge", in_words="Design flow")
 RUNOFF_COEFFICIENT = F("flow.runoff_coefficient", "Runoff coefficient C", "", 0.0, False, 1.0, True,
                        tip="Fraction of the rainfall that runs off, 0 < C <= 1")
 RATIONAL = (
     RUNOFF_COEFFICIENT,
     F("flow.intensity", "Rainfall intensity i", "intensity",
-      tip="Intensity for a storm lasting the time of concentration"),
-    F("flow.area", "Drainage area A", "drainage_area"),
+      tip="Intensity for a storm lasting the time of concentration", in_words="Rainfall intensity"),
+    F("flow.area", "Drainage area A", "drainage_area", in_words="Drainage area"),
     F("flow.flow_length", "Flow-path length L", "length", optional=True,
-      tip="Longest flow path of the basin, for Kirpich's time of concentration (optional)"),
+      tip="Longest flow path of the basin, for Kirpich's time of concentration (optional)",
+      in_words="Flow-path length"),
     F("flow.flow_path_slope", "Flow-path slope", "slope", 0.0, False, hv.MAX_SLOPE, True, optional=True,
       tip="Average slope along that path as a ratio, or a percentage with %"),
 )
 SLOPE = F("slope", "Bed slope S", "slope", 0.0, False, hv.MAX_SLOPE, True,
-          tip="Grade of the ditch as a ratio (0.005), or a percentage with % (0.5 %)")
+          tip="Grade of the ditch as a ratio (0.005), or a percentage with % (0.5 %)", in_words="Bed slope")
 MANNING = F("manning_n", "Manning's n", "", 0.0, False, 1.0, True,
             tip="Roughness of the lining, e.g. 0.013 smooth concrete, 0.030 to 0.040 grass or stone")
 D50 = F("lining.d50", "Stone size D50", "small_length", optional=True,
@@ -145,15 +152,15 @@ _SIDE = dict(quantity="", low=0.0, low_inclusive=True, unit_text="H : 1V", shape
 #: The dimensions of the sections given by numbers (a survey gives its points instead). A trapezoid's bottom
 #: width may be 0 (a V bottom), a rectangle's may not, so each is an input of its own.
 DIMENSIONS = (
-    F("section.bottom_width", "Bottom width b", "length", 0.0, True, shapes=("trapezoid",),
-),
-    F("section.bottom_width", "Bottom width b", "length", shapes=("rectangle",)),
-    F("section.side_slope", "Side slopes", **_SIDE),          # both sides at once (command line, files)
+    F("section.bottom_width", "Bottom width b", "length", 0.0, True, shapes=("trapezoid",), in_words="Bottom width"),
+    F("section.bottom_width", "Bottom width b", "length", shapes=("rectangle",), in_words="Bottom width"),
+    F("section.side_slope", "Side slope", **_SIDE),          # both sides at once (command line, files)
     F("section.left_slope", "Left side slope", **_SIDE),
     F("section.right_slope", "Right side slope", **_SIDE),
-    F("section.top_width", "Top width T", "length", shapes=("parabola",)),
-    F("section.at_depth", "at depth", "length", shapes=("parabola",), tip="Depth at which the top width is measured"),
-    F("section.diameter", "Diameter D", "length", shapes=("circle",)),
+    F("section.top_width", "Top width T", "length", shapes=("parabola",), in_words="Top width"),
+    F("section.at_depth", "at depth", "length", shapes=("parabola",), tip="Depth at which the top width is measured",
+      in_words="Depth of top width"),
+    F("section.diameter", "Diameter D", "length", shapes=("circle",), in_words="Diameter"),
 )
 del F
 
