@@ -249,3 +249,11 @@ def test_the_form_s_fields_refuse_exactly_outside_the_table(input_panel):
             except ValueError as exc:
                 refused = str(exc)
             assert (refused is None) == _accepted(spec, spec.to_si(typed, units)), (key, typed, refused)
+
+
+def test_a_surveyed_segment_s_n_has_the_range_of_manning_s_n():
+    """The survey table of the form checks each segment's n as Manning's n; the file says the same."""
+    irregular = next(b for b in DEFS["section"]["allOf"] if b["if"]["properties"]["shape"]["const"] == "irregular")
+    one, each = irregular["then"]["properties"]["n"]["anyOf"]
+    for node in (one, each["items"]):
+        assert _schema_range(node)[:4] == _table_range(inputs.MANNING)
