@@ -1,12 +1,13 @@
 """The inputs of one channel, in one table: where each sits, its label, quantity, allowed range and shapes.
 
 The window's forms, the command line's checks (``calc``, ``compare``) and the
-inventory reader take an input's label, unit and range from here; the project
-schema (``resources/project.schema.json``) states the same ranges for a file,
-and a test holds the two together. An input's ``name`` is what the core calls
-it, which is also its command-line option (``--bottom-width``) and its
-inventory column (``bottom_width``): those names are a contract and stay as
-they are.
+names that messages give the inputs are taken from here. The project schema
+(``resources/project.schema.json``) states the same ranges for a file, and the
+inventory check screens its reaches in the core (``hydraulics.many_reaches``,
+which cannot import the application); ``tests/test_input_table.py`` holds both
+to this table, bound by bound. An input's ``name`` is what the core calls it,
+which is also its command-line option (``--bottom-width``) and its inventory
+column (``bottom_width``): those names are a contract and stay as they are.
 
 Two kinds of range apply to a number. The range here is what the input can
 mean at all (a flow > 0, a runoff coefficient in (0, 1]), and what the file
