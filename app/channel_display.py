@@ -27,6 +27,7 @@ from hydraulics.wording import in_units
 from .context import Context
 from .evaluate import comparison_choices, design_flow, evaluate_channel
 from .files import tsv_cell
+from .inputs import INPUTS
 from .results import COMPARISON_FIELDS
 from .project import Channel, LiningChoice
 from .comparison_table import ComparisonTable
@@ -35,17 +36,11 @@ from .lining_names import lining_label, stone_size_text  # noqa: F401  (re-expor
 from .verdicts import Verdict as Verdicts
 from .verdicts import too_shallow_reason, verdict_of
 
-#: Core field names as the user reads them (for messages that name a field).
-FIELD_LABELS = {
-    "flow": "Design flow", "value": "Design flow", "slope": "Bed slope", "n": "Manning's n",
-    "manning_n": "Manning's n", "bottom_width": "Bottom width", "side_slope": "Side slope",
-    "left_slope": "Left side slope", "right_slope": "Right side slope", "diameter": "Diameter",
-    "top_width": "Top width", "at_depth": "Depth of top width", "stations": "Stations", "elevations": "Elevations",
-    "runoff_coefficient": "Runoff coefficient C", "intensity": "Rainfall intensity", "area": "Drainage area",
-    "flow_length": "Flow-path length", "flow_path_slope": "Flow-path slope", "depth": "Depth",
-    "min_freeboard": "Minimum freeboard", "bend_radius": "Bend radius", "d50": "Stone size D50",
-    "lining": "Lining",
-}
+#: Core field names as the user reads them (for messages that name a field): the inputs' words (app.inputs), and
+#: the other names the core gives.
+FIELD_LABELS = {i.name: i.words for i in INPUTS} | {
+    "value": "Design flow", "manning_n": "Manning's n", "stations": "Stations", "elevations": "Elevations",
+    "depth": "Depth", "lining": "Lining"}
 
 
 @dataclass

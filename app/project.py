@@ -29,6 +29,7 @@ import hydraulics as hy
 from hydraulics import validate as hv
 
 from .files import write_atomic
+from .inputs import input_named
 
 FORMAT = "ditchwright-project"
 SCHEMA_VERSION = 2
@@ -428,7 +429,9 @@ def _layout_problem(exc) -> str:
         return f"{extra} does not belong to {what} (it takes {', '.join(known)})"
     if kind in ("exclusiveMinimum", "minimum", "maximum", "exclusiveMaximum"):
         op = {"exclusiveMinimum": ">", "minimum": ">=", "maximum": "<=", "exclusiveMaximum": "<"}[kind]
-        return f"must be {op} {want:g}, got{shown}"
+        spec = input_named(str(exc.absolute_path[-1])) if exc.absolute_path else None
+        hint = spec.percent_hint(exc.instance) if spec is not None and kind == "maximum" else ""
+        return f"must be {op} {want:g}, got{shown}{hint}"
     if kind in ("enum", "const"):
         allowed = want if kind == "enum" else [want]
         return f"must be one of {', '.join(json.dumps(a) for a in allowed)}, got{shown or ' ' + got}"

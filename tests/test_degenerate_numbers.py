@@ -176,14 +176,15 @@ def test_one_table_gives_every_range():
 
 
 def test_the_window_field_refuses_what_the_files_refuse(qtbot):
-    from app.gui.fields import FieldSpec, NumberField
-    field = NumberField(FieldSpec("manning_n", "Manning's n", "", 0.0, False, 1.0, True))
+    from app.gui.fields import NumberField
+    from app.inputs import Input
+    field = NumberField(Input("manning_n", "Manning's n", "", 0.0, False, 1.0, True))
     qtbot.addWidget(field.edit)
     field.show_value(0.03, hu.SI)
     assert field.parse("0.013") == 0.013
     with pytest.raises(ValueError, match="from 0.005 to 1; 1e-300 is outside"):
         field.parse("1e-300")
-    diameter = NumberField(FieldSpec("section.diameter", "Diameter D", "length"))
+    diameter = NumberField(Input("section.diameter", "Diameter D", "length"))
     qtbot.addWidget(diameter.edit)
     diameter.show_value(0.9, hu.US)
     with pytest.raises(ValueError, match="from 0.164 to 49.2 ft"):

@@ -16,6 +16,8 @@ from hydraulics import units as hu
 from hydraulics import validate as hv
 from hydraulics.sections import SHAPE_DIMENSIONS
 
+from ..inputs import Input, input_named
+
 _DIMENSION_OPTIONS = ("bottom_width", "side_slope", "left_slope", "right_slope", "diameter", "top_width", "at_depth")
 
 
@@ -52,28 +54,35 @@ def add_channel_options(parser: argparse.ArgumentParser) -> None:
     h.add_argument("--n", type=float, metavar="N", help="Manning's n")
 
 
-# Range checks in the user's own units, before conversion, so a refusal quotes what was typed.
-_NUMBER_RULES = {
-    "flow": (0.0, False), "slope": (0.0, False), "n": (0.0, False), "bottom_width": (0.0, True),
-    "side_slope": (0.0, True), "left_slope": (0.0, True), "right_slope": (0.0, True),
-    "diameter": (0.0, False), "top_width": (0.0, False), "at_depth": (0.0, False), "max_depth": (0.0, False),
-    "d50": (0.0, False), "bend_radius": (0.0, False),
-}
+#: The numeric options, each named as the channel input it gives (app.inputs), whose range it takes from there.
+NUMBER_OPTIONS = ("flow", "slope", "n", "bottom_width", "side_slope", "left_slope", "right_slope", "diameter",
+                  "top_width", "at_depth", "max_depth", "d50", "bend_radius", "min_freeboard")
+#: --max-depth is no input of a channel: the depth that --find bottom-width keeps within.
+MAX_DEPTH = Input("max_depth", "Allowable flow depth", "length")
+#: Options typed in another unit than the form's: the stone size in ft or m (the form's is in inches or mm).
+_OPTION_QUANTITY = {"d50": "length"}
+
+
+def option_input(field: str, shape: str | None = None) -> Input:
+    """The input an option gives; a dimension's is that of ``shape`` (a rectangle's width may not be 0)."""
+    return MAX_DEPTH if field == "max_depth" else input_named(field, shape)
 
 
 def check_numbers(args) -> None:
-    """Every numeric option given must be finite and in its basic range, then within the range of a design
-    input (hydraulics.validate.LIMITS) (exit 2 otherwise)."""
+    """Every numeric option given must be finite and in its input's range (app.inputs), then within the range of
+    a design input (hydraulics.validate.LIMITS) (exit 2 otherwise)."""
     units = hu.system(args.units)
-    for field, (low, inclusive) in _NUMBER_RULES.items():
+    for field in NUMBER_OPTIONS:
         value = getattr(args, field, None)
         if value is None:
             continue
         if not math.isfinite(value):
             raise CliError(f"{option_name(field)} must be a finite number, got {value}")
-        if value < low or (value == low and not inclusive):
-            op = ">=" if inclusive else ">"
-            raise CliError(f"{option_name(field)} must be {op} {low:g}, got {value:g}")
+        spec = option_input(field, getattr(args, "shape", None))
+        quantity = _OPTION_QUANTITY.get(field, spec.quantity)
+        if not spec.holds(float(units.to_si(quantity, value)) if quantity else value):
+            raise CliError(f"{option_name(field)} must be {spec.allowed(units, plain=True)}, got {value:g}"
+                           f"{spec.percent_hint(value)}")
         check_limit(field, value, units)
 
 
@@ -83,8 +92,6 @@ def check_limit(field: str, value: float, units: hu.UnitSystem, option: str | No
     if limit is None:
         return
     si = float(units.to_si(limit.quantity, value))
-    if field == "slope" and si > hv.MAX_SLOPE:
-        return  # the core refuses it with its hint that the slope looks like a percentage
     problem = hv.outside_limit(field, si, units, typed=value)
     if problem:
         raise CliError(f"{option or option_name(field)} {problem}")

@@ -14,9 +14,7 @@ from hydraulics.errors import InputError
 from hydraulics.linings import CatalogueError, hec15, load_catalogue
 from hydraulics.stability import parse_choice
 
-from .common import _NUMBER_RULES, CliError, check_limit
-
-_NUMBER_RULES.setdefault("min_freeboard", (0.0, True))
+from .common import CliError, check_limit
 
 LINING_HELP = ("lining from the catalogue, KEY or KEY:D50 (D50 in the length unit), e.g. concrete, riprap:0.5, "
                "gravel; see resources/linings.toml")

@@ -11,31 +11,14 @@ from __future__ import annotations
 import html
 import math
 import re
-from dataclasses import dataclass
 
 from PySide6.QtCore import QEvent, QLocale, QObject, Qt, Signal
 from PySide6.QtGui import QKeySequence
 from PySide6.QtWidgets import QGridLayout, QLabel, QLineEdit, QPlainTextEdit, QSizePolicy
 
-from hydraulics import validate as hv
 from hydraulics.units import UnitSystem
 
-NO_UNIT = "–"
-_SUPERSCRIPTS = str.maketrans({"2": "²", "3": "³"})
-
-
-def pretty(text: str) -> str:
-    """Unit labels as people write them: "m^3/s" -> "m³/s"."""
-    out, i = [], 0
-    while i < len(text):
-        if text[i] == "^" and i + 1 < len(text) and text[i + 1] in "23":
-            out.append(text[i + 1].translate(_SUPERSCRIPTS))
-            i += 2
-        else:
-            out.append(text[i])
-            i += 1
-    return "".join(out)
-
+from ..inputs import Input, pretty
 
 _JOIN = "\u2060"      # word joiner: no line break here
 _NBSP = "\u00a0"
@@ -67,42 +50,6 @@ def sentence(text) -> str:
     """``text`` ending in a full stop (unless it ends in one already, or in ! or ?)."""
     text = str(text).strip()
     return text if not text or text.endswith((".", "!", "?")) else text + "."
-
-
-@dataclass(frozen=True)
-class FieldSpec:
-    path: str                   # the input in the channel, e.g. "slope", "section.bottom_width"
-    label: str
-    quantity: str = ""          # hydraulics.units quantity, "" for a pure number
-    low: float | None = 0.0
-    low_inclusive: bool = False
-    high: float | None = None
-    high_inclusive: bool = True
-    optional: bool = False      # empty means "not given"
-    tip: str = ""
-    unit_text: str = ""         # suffix for a pure number ("H:V"); NO_UNIT when empty
-
-    def suffix(self, units: UnitSystem) -> str:
-        if self.quantity:
-            return pretty(units.label(self.quantity))
-        return self.unit_text or NO_UNIT
-
-    def to_si(self, value: float, units: UnitSystem) -> float:
-        return float(units.to_si(self.quantity, value)) if self.quantity else value
-
-    def from_si(self, value: float, units: UnitSystem) -> float:
-        return float(units.from_si(self.quantity, value)) if self.quantity else value
-
-    def allowed(self, units: UnitSystem) -> str:
-        """The allowed range in words, in the shown units."""
-        unit = "" if not self.quantity or self.quantity == "slope" else f" {pretty(units.label(self.quantity))}"
-        parts = []
-        if self.low is not None:
-            parts.append(f"{'≥' if self.low_inclusive else '>'} {self.from_si(self.low, units):g}{unit}")
-        if self.high is not None:
-            parts.append(f"{'≤' if self.high_inclusive else '<'} {self.from_si(self.high, units):g}{unit}")
-        text = " and ".join(parts) if parts else "any number"
-        return text + (" (or empty)" if self.optional else "")
 
 
 def format_number(value: float, locale: QLocale | None = None) -> str:
@@ -306,7 +253,7 @@ class NumberField(QObject):
     edited = Signal(object)   # SI value (float, or None for an empty optional field)
     invalid = Signal(str)     # the reason, when what was typed is refused
 
-    def __init__(self, spec: FieldSpec, parent=None):
+    def __init__(self, spec: Input, parent=None):
         super().__init__(parent)
         self.spec = spec
         self.units: UnitSystem | None = None
@@ -410,7 +357,7 @@ class NumberField(QObject):
             raise ValueError(str(exc)) from None
         except ValueError:
             raise ValueError(f"'{text.strip()}' is not a number. {spec.label}: {spec.allowed(units)}.") from None
-        low, high = spec.low, spec.high
+        high = spec.high
         value = spec.to_si(shown, units)
         typed = text.strip()
         if spec.quantity == "slope" and high is not None and 1 < shown <= 100 and not typed.endswith("%"):
@@ -418,10 +365,9 @@ class NumberField(QObject):
                 f"{spec.label} is a ratio ({spec.suffix(units)}), at most {format_number(high)}; {typed} would be a "
                 f"grade of {format_number(shown)} to 1. If you meant {typed} %, that is {format_number(shown / 100)} "
                 f"(or type {typed} %).", shown / 100)
-        if low is not None and (value < low or (value == low and not spec.low_inclusive)) or \
-           high is not None and (value > high or (value == high and not spec.high_inclusive)):
+        if not spec.holds(value):
             raise ValueError(f"{spec.label} must be {spec.allowed(units)}; {text.strip()} is outside.")
-        limit = hv.limit_for(spec.path.rsplit(".", 1)[-1])   # the design range shared with files and CLI
+        limit = spec.limit   # the design range shared with files and CLI
         if limit is not None and not limit.holds(value):
             raise ValueError(f"{spec.label} must be {limit.describe(units)}; {text.strip()} is outside.")
         return value

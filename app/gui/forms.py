@@ -19,9 +19,10 @@ from hydraulics.units import UnitSystem
 
 from .. import channel_display as display
 from ..editing import section_for_shape, value_at, with_value
+from ..inputs import BEND, CORE_TO_PATH, D50, FLOW, FREEBOARD, MANNING, RATIONAL, SECTION_FIELDS, SLOPE, Input
 from ..project import LiningChoice
 from .document import ProjectDocument
-from .fields import (FieldSpec, LineEdit, NotesEdit, NumberField, UnclearNumber, format_number, keep_units_whole,
+from .fields import (LineEdit, NotesEdit, NumberField, UnclearNumber, format_number, keep_units_whole,
                      number_marks, parse_number, pretty, set_invalid)
 
 SHAPES = (
@@ -33,50 +34,6 @@ SHAPES = (
     ("irregular", "Surveyed section"),
 )
 FLOW_METHODS = (("typed", "Typed value"), ("rational", "Rational method"))
-
-F = FieldSpec
-FLOW = F("flow.value", "Design flow Q", "flow", tip="Design discharge")
-RATIONAL = (
-    F("flow.runoff_coefficient", "Runoff coefficient C", "", 0.0, False, 1.0, True,
-      tip="Fraction of the rainfall that runs off, 0 < C <= 1"),
-    F("flow.intensity", "Rainfall intensity i", "intensity",
-      tip="Intensity for a storm lasting the time of concentration"),
-    F("flow.area", "Drainage area A", "drainage_area"),
-    F("flow.flow_length", "Flow-path length L", "length", optional=True,
-      tip="Longest flow path of the basin, for Kirpich's time of concentration (optional)"),
-    F("flow.flow_path_slope", "Flow-path slope", "slope", 0.0, False, 1.0, True, optional=True,
-      tip="Average slope along that path as a ratio, or a percentage with %"),
-)
-SLOPE = F("slope", "Bed slope S", "slope", 0.0, False, 1.0, True,
-          tip="Grade of the ditch as a ratio (0.005), or a percentage with % (0.5 %)")
-SIDE = dict(quantity="", low=0.0, low_inclusive=True, unit_text="H : 1V")
-SECTION_FIELDS = {
-    "trapezoid": (F("section.bottom_width", "Bottom width b", "length", 0.0, True),
-                  F("section.left_slope", "Left side slope", **SIDE), F("section.right_slope", "Right side slope", **SIDE)),
-    "triangle": (F("section.left_slope", "Left side slope", **SIDE), F("section.right_slope", "Right side slope", **SIDE)),
-    "rectangle": (F("section.bottom_width", "Bottom width b", "length"),),
-    "parabola": (F("section.top_width", "Top width T", "length"),
-                 F("section.at_depth", "at depth", "length", tip="Depth at which the top width is measured")),
-    "circle": (F("section.diameter", "Diameter D", "length"),),
-}
-MANNING = F("manning_n", "Manning's n", "", 0.0, False, 1.0, True,
-            tip="Roughness of the lining, e.g. 0.013 smooth concrete, 0.030 to 0.040 grass or stone")
-D50 = F("lining.d50", "Stone size D50", "small_length", optional=True,
-        tip="Median stone size of the riprap or gravel; empty for the catalogue's own size")
-BEND = F("bend_radius", "Bend radius", "length", optional=True,
-         tip="Centre-line radius of the sharpest bend (empty for a straight ditch)")
-FREEBOARD = F("min_freeboard", "Minimum freeboard", "length", 0.0, True)
-
-#: The core's field names -> the form's input path (to mark the field an error names).
-CORE_TO_PATH = {
-    "flow": "flow.value", "runoff_coefficient": "flow.runoff_coefficient", "intensity": "flow.intensity",
-    "area": "flow.area", "flow_length": "flow.flow_length", "flow_path_slope": "flow.flow_path_slope",
-    "slope": "slope", "n": "manning_n", "manning_n": "manning_n", "bottom_width": "section.bottom_width",
-    "side_slope": "section.left_slope", "left_slope": "section.left_slope", "right_slope": "section.right_slope",
-    "top_width": "section.top_width", "at_depth": "section.at_depth", "diameter": "section.diameter",
-    "bend_radius": "bend_radius", "min_freeboard": "min_freeboard", "d50": "lining.d50",
-    "flow.value": "flow.value", "flow.flow_length": "flow.flow_length", "flow.flow_path_slope": "flow.flow_path_slope",
-}
 
 
 def _grid() -> QGridLayout:
@@ -193,8 +150,8 @@ class SurveyTable(QWidget):
                 except ValueError:
                     name = ("station", "elevation", "n")[col]
                     raise ValueError(f"Point {i + 1}: the {name} '{text}' is not a number.") from None
-                if col == 2 and not 0 < v <= 1:
-                    raise ValueError(f"Point {i + 1}: n must be > 0 and ≤ 1; {text} is outside.")
+                if col == 2 and not MANNING.holds(v):
+                    raise ValueError(f"Point {i + 1}: n must be {MANNING.allowed(self.units)}; {text} is outside.")
                 out.append(self.units.to_si("length", v) if col < 2 else v)
         return {"shape": "irregular", "stations": xs, "elevations": zs, "n": ns}
 
@@ -524,7 +481,7 @@ class InputPanel(QScrollArea):
         self.reload(force=True)
 
     # -- building -----------------------------------------------------------------------
-    def _number(self, spec: FieldSpec, key: str | None = None) -> NumberField:
+    def _number(self, spec: Input, key: str | None = None) -> NumberField:
         f = NumberField(spec, self)
         key = key or spec.path
         self.fields[key] = f
