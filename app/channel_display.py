@@ -5,7 +5,7 @@ and the window's :class:`app.context.Context` (catalogue, units) to
 :func:`evaluate` and draw what comes back. The numbers come from the shared
 channel evaluation (:mod:`app.evaluate`: design flow, uniform flow, lining
 stability by HEC-15, freeboard) and the lining comparison of
-:mod:`hydraulics.stability`; this module only shapes them for display.
+:mod:`hydraulics.lining_comparison`; this module only shapes them for display.
 """
 
 from __future__ import annotations
@@ -20,7 +20,8 @@ import numpy as np
 import hydraulics as hy
 from hydraulics.curves import rating_curve, specific_energy
 from hydraulics.linings.roughness import relation_switch_depth
-from hydraulics.stability import StabilityResult, compare_linings
+from hydraulics.lining_comparison import compare_linings
+from hydraulics.stability import StabilityResult
 from hydraulics.units import UnitSystem
 from hydraulics.wording import in_units
 
@@ -170,7 +171,7 @@ class ComparisonRow:
     choice: LiningChoice
     name: str
     evaluation: Evaluation
-    core: object = None                    # hydraulics.stability.ComparisonRow
+    core: object = None                    # hydraulics.lining_comparison.ComparisonRow
     cost_per_length: float | None = None   # [currency/m], from the user's unit costs
 
 

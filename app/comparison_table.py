@@ -1,6 +1,6 @@
 """The lining comparison as every front end shows it: one table, in the user's units, rounded once. No Qt here.
 
-The same channel and flow with several linings (:func:`hydraulics.stability.compare_linings`,
+The same channel and flow with several linings (:func:`hydraulics.lining_comparison.compare_linings`,
 the rows of ``ChannelDesign.comparison`` or of the window's comparison) becomes
 one :class:`ComparisonTable`: its columns are :data:`app.results.COMPARISON_FIELDS`
 (key, label, quantity, decimals), each lining is named as in the window's lining
@@ -45,7 +45,7 @@ class ComparisonTableRow:
     values: dict
     cells: dict
     error: str | None = None  # why the lining has no solution, in words (the core's, SI)
-    core: object = field(default=None, repr=False, compare=False)   # the hydraulics.stability.ComparisonRow
+    core: object = field(default=None, repr=False, compare=False)   # a hydraulics.lining_comparison.ComparisonRow
 
 
 @dataclass(frozen=True)
@@ -92,7 +92,8 @@ def _name(row, context: Context, decimal_mark: str) -> str:
 
 def comparison_table(rows, context: Context, full_depth: float | None = None, decimal_mark: str = ".",
                      group_mark: str = ",") -> ComparisonTable:
-    """The comparison table of ``rows`` (:class:`hydraulics.stability.ComparisonRow`, SI) in ``context.units``.
+    """The comparison table of ``rows`` (:class:`hydraulics.lining_comparison.ComparisonRow`, SI) in
+    ``context.units``.
 
     ``full_depth`` [m] is the section's full depth, where it has one: a lining
     whose water plus freeboard reaches above it is "Too shallow", as in the

@@ -22,7 +22,8 @@ from hydraulics import provenance, rational, validate
 from hydraulics.linings import hec15
 from hydraulics.linings import Catalogue, load_catalogue
 from hydraulics.units import SI
-from hydraulics.stability import ComparisonRow, StabilityResult, check_lining, compare_linings
+from hydraulics.lining_comparison import ComparisonRow, compare_linings
+from hydraulics.stability import StabilityResult, check_lining
 from hydraulics.freeboard import ditch_top, freeboard_rule
 from hydraulics.wording import in_units, worded
 

@@ -206,7 +206,8 @@ def money_text(value: float, digits: int = 0, decimal_mark: str = ".", group_mar
 
 
 #: The lining comparison (the same channel and flow with several linings), in the order the window lists them:
-#: key (attribute of hydraulics.stability.ComparisonRow, JSON key of ``compare --json``), label, quantity, decimals.
+#: key (attribute of hydraulics.lining_comparison.ComparisonRow, JSON key of ``compare --json``), label, quantity,
+#: decimals.
 #: The decimals are those of the same quantity in the results panel (CHANNEL_FIELDS and the panel's rows).
 COMPARISON_FIELDS = (
     ResultField("lining", "Lining", "", 0),

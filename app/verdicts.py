@@ -59,8 +59,8 @@ def verdict_of(stability=None, total_depth: float | None = None, full_depth: flo
 
 
 def row_verdict(row, full_depth: float | None = None) -> Verdict:
-    """The verdict on one lining of a comparison (hydraulics.stability.ComparisonRow): no solution where it could
-    not be checked, else as :func:`verdict_of` with the ditch's depth where it is known."""
+    """The verdict on one lining of a comparison (hydraulics.lining_comparison.ComparisonRow): no solution where it
+    could not be checked, else as :func:`verdict_of` with the ditch's depth where it is known."""
     if row.result is None:
         return Verdict.NO_SOLUTION
     return verdict_of(row.result, row.result.total_depth, full_depth)

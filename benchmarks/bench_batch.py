@@ -19,7 +19,7 @@ D50, 0.5 ft (a stone row without one is refused).
     With --sample N only N reaches spread over the file are timed and the time
     is scaled to the whole file (the script says so).
 (2+) mixed inventory only: as (2), and each lined reach also through the
-    lining's shear check, hydraulics.stability.shear_checks (the function the
+    lining's shear check, hydraulics.shear_checks.shear_checks (the function the
     batch and check_lining use), so every reach gets the quantities the batch
     writes for it: the like-for-like figure for a lined inventory.
 (3) with --with-io: the same as (2) with reading and writing by the csv module.
@@ -59,7 +59,8 @@ import hydraulics as hy
 from app import inventory as ai
 from hydraulics import units as hu
 from hydraulics.linings import load_catalogue
-from hydraulics.stability import check_lining, shear_checks
+from hydraulics.shear_checks import shear_checks
+from hydraulics.stability import check_lining
 
 #: The D50 of the invented riprap rows [ft].
 D50_FT = "0.5"
@@ -128,7 +129,7 @@ def _scalar_row(row, us, stability=False, shear=False):
 
     With ``stability`` a lined reach goes through hydraulics.stability.check_lining (the
     scalar lining check); its ``analysis`` is returned so that both modes compare alike.
-    With ``shear`` a lined reach also gets hydraulics.stability.shear_checks on its
+    With ``shear`` a lined reach also gets hydraulics.shear_checks.shear_checks on its
     normal depth (permissible shear, safety factor): what the batch writes for it.
     """
     length = lambda v: us.to_si("length", float(v))  # noqa: E731

@@ -23,7 +23,7 @@ Nothing here raises for one bad reach. Each reach gets a ``verdict`` and a
 * ``stable`` / ``unstable``: the lining's permissible shear holds / does not
   hold the design shear with the required safety factor at every place
   checked (bed and side slopes; FHWA HEC-15 permissible-shear method,
-  :func:`hydraulics.stability.shear_checks`);
+  :func:`hydraulics.shear_checks.shear_checks`);
 * ``non-erodible``: a rigid lining, not checked for shear (common practice).
 
 Warnings (near-critical flow, flow that is not fully turbulent, a pipe above
@@ -49,7 +49,7 @@ from .errors import HydraulicsError, InputError
 from .linings import load_catalogue
 from .linings.hec15 import ValidityWarning
 from .sections import SHAPE_DIMENSIONS, Circle, Trapezoid
-from .stability import shear_checks
+from .shear_checks import shear_checks
 from .solvers import flow_at_depth, max_flow
 from . import validate
 from .validate import MAX_SLOPE
@@ -574,7 +574,7 @@ def assess_stability(lining, reaches: Reaches, rows, out: BatchResult, display: 
                      n_given: bool) -> None:
     """HEC-15 permissible-shear check of ``lining`` on the solved reaches ``rows``, vectorised.
 
-    The checks are :func:`hydraulics.stability.shear_checks`, the ones
+    The checks are :func:`hydraulics.shear_checks.shear_checks`, the ones
     :func:`hydraulics.stability.check_lining` makes, for a straight reach (an
     inventory has no bend radius): design shear tau_d = gamma d S on the bed
     (HEC-15, Kilgore and Cotton, 3rd ed., 2005, Eq. 3.1, the ``bed_shear``
@@ -649,7 +649,8 @@ def _digits3(values):
 
 
 def _shear_checks(lining, reaches, rows, out):
-    """hydraulics.stability.shear_checks for the solved reaches ``rows`` (straight reaches; pipes without sides)."""
+    """:func:`hydraulics.shear_checks.shear_checks` for the solved reaches ``rows`` (straight reaches; pipes
+    without sides)."""
     d50 = None
     if lining.permissible_data["method"] == "shields":
         d50 = np.where(reaches.d50[rows] > 0, reaches.d50[rows], np.nan)

@@ -18,9 +18,9 @@ FHWA-NHI-05-114, 2005, "HEC-15", Chapter 3):
    verdict (>= 1 where stable, < 1 where not);
 4. freeboard and the top of the ditch (:func:`hydraulics.freeboard.ditch_tops`: the minimum plus the bend's
    superelevation, HEC-15 Sections 2 and 3.4; at least the flow depth in supercritical flow, Section 2.1.1),
-   the lined width (the perimeter up to the top, common practice, ``stability.LINED_WIDTH_RULE``) and the layer
-   volume per length (lined width times the catalogue's layer thickness; stone 1.5 D50, HEC-15 Section 6.4, as
-   the catalogue states).
+   the lined width (the perimeter up to the top, common practice, ``LINED_WIDTH_RULE`` of
+   :mod:`hydraulics.lining_quantities`) and the layer volume per length (lined width times the catalogue's
+   layer thickness; stone 1.5 D50, HEC-15 Section 6.4, as the catalogue states).
 
 Each number is the one ``check_lining(section, flow, slope, lining, d50, bend_radius, min_freeboard,
 size_stone=False)`` gives for that channel (to rounding; the tests hold them within 1e-9 relative and the

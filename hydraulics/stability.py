@@ -1,4 +1,4 @@
-"""Lining stability by the permissible-shear-stress method, with freeboard and a lining comparison.
+"""Lining stability of one channel by the permissible-shear-stress method, with freeboard and quantities.
 
 Pure core (numpy, scipy, standard library), SI throughout. Main reference:
 Kilgore, R. T. and Cotton, G. K., *Design of Roadside Channels with Flexible
@@ -35,8 +35,10 @@ Steps 2 to 4 are :func:`hydraulics.shear_checks.shear_checks`, on arrays:
 :func:`check_lining` calls it for one channel, and the inventory check
 (:mod:`hydraulics.many_reaches`) for thousands at once, so each relation is strung
 together in one place. Step 5 is :mod:`hydraulics.stone_size`, step 6
-:mod:`hydraulics.freeboard`. The rest of :func:`check_lining` (quantities,
-words) and the lining comparison are here, for single channels.
+:mod:`hydraulics.freeboard`. What the check rests on, in words, is
+:mod:`hydraulics.lining_notes`; the lined width, layer and cost per length
+:mod:`hydraulics.lining_quantities`. Several linings in the same channel, one
+row each, are :mod:`hydraulics.lining_comparison`.
 """
 
 from __future__ import annotations
@@ -48,25 +50,24 @@ from dataclasses import dataclass, field
 import numpy as np
 
 from . import validate
-from .analysis import NEAR_CRITICAL_SOURCE, ChannelResult, analyse
-from .errors import InputError, NoSolutionError
+from .analysis import ChannelResult, analyse
+from .errors import InputError
+from .freeboard import ditch_top
+from .freeboard import freeboard_rule as _freeboard_rule
 from .linings import hec15
 from .linings.catalogue import Lining
 from .linings.hec15 import ValidityWarning
 from .linings.roughness import StoneRoughness, VegetationRoughness
-from .freeboard import FREEBOARD_SOURCE, SUPERCRITICAL_BEND_SOURCE, SUPERELEVATION_SOURCE, ditch_top
-from .freeboard import freeboard_rule as _freeboard_rule
+from .lining_notes import FILTER_NOTE, method_notes, roughness_words
+from .lining_quantities import lining_quantities
 from .provenance import cite
-from .shear_checks import ShearCheckArray, ShearChecks, shear_checks
+from .shear_checks import ShearChecks, shear_checks
 from .stone_size import _required_stone
 from .units import SI, UnitSystem
 from .wording import format_quantity, in_units, worded
 
-__all__ = [
-    "SELF_CLEANING_VELOCITY", "SELF_CLEANING_SOURCE", "NEAR_CRITICAL_SOURCE", "FREEBOARD_SOURCE",
-    "SUPERELEVATION_SOURCE", "SUPERCRITICAL_BEND_SOURCE", "STEEP_SLOPE_SOURCE", "RIGID_NOTE", "FILTER_NOTE", "LINED_WIDTH_RULE",
-    "ShearCheck", "ShearCheckArray", "ShearChecks", "shear_checks", "StabilityResult", "ComparisonRow", "check_lining", "compare_linings", "parse_choice",
-]
+__all__ = ["SELF_CLEANING_VELOCITY", "SELF_CLEANING_SOURCE", "ROADSIDE_SIDE_SLOPE", "ShearCheck", "StabilityResult",
+           "check_lining"]
 
 #: Mean velocity below which fine sediment tends to settle in a lined channel [m/s]:
 #: 0.6 m/s (2 ft/s), the low end of the "2 to 3 ft/s" Chow gives as a minimum
@@ -74,15 +75,6 @@ __all__ = [
 SELF_CLEANING_VELOCITY = 0.6096
 SELF_CLEANING_SOURCE = (f"{cite('self_cleaning')}, minimum permissible velocity of 2 to 3 ft/s (0.6 to 0.9 m/s); "
                         "local manuals set their own value")
-STEEP_SLOPE_SOURCE = (f"{cite('steep_slope')}: riprap on slopes steeper than "
-                      f"{100 * hec15.STEEP_SLOPE:g} % is sized by the steep-slope (safety factor) method")
-RIGID_NOTE = ("rigid lining treated as non-erodible (common practice: the permissible-shear method of HEC-15 is "
-              "written for flexible linings); joints, uplift, abrasion by bed load and velocity limits are left "
-              "to local practice")
-FILTER_NOTE = ("place a granular filter or a geotextile beneath the stone unless the subgrade is graded to retain "
-               f"itself against the stone ({cite('filter')}; common practice)")
-LINED_WIDTH_RULE = ("lining carried up the whole perimeter to the top of the ditch (design depth plus freeboard); "
-                    "common practice")
 
 
 @dataclass(frozen=True)
@@ -285,16 +277,6 @@ class StabilityResult:
 # helpers
 # --------------------------------------------------------------------------
 
-_RELATION_WORDS = {
-    "blodgett": "Blodgett's relation, HEC-15 Eq. 6.1",
-    "bathurst": "Bathurst's relation, HEC-15 Eq. 6.2",
-    "held": "Bathurst's relation held at its lowest usable depth (a rule of this program; see the warnings)",
-    "transition": "between Bathurst's and Blodgett's relations at da/D50 = 1.5 (a rule of this program; see the "
-                  "warnings)",
-    "strickler": f"Strickler's relation n = 0.034 D50^(1/6), D50 in ft ({cite('strickler')})",
-}
-
-
 def _dedupe(items):
     return list(dict.fromkeys(i for i in items if i))
 
@@ -324,24 +306,6 @@ def _sides(section):
     if z1 == z2:
         return [("side slopes", z1)]
     return [("left side slope", z1), ("right side slope", z2)]
-
-
-def _lined_perimeter(section, depth):
-    """Boundary length [m] from the invert up to ``depth`` (the lining's width per unit length)."""
-    return float(section.wetted_perimeter(depth))
-
-
-def _roughness_text(lining: Lining, relation: str) -> str:
-    src = lining.roughness_data.get("source", "")
-    if relation in _RELATION_WORDS and lining.category == "gabion":
-        return f"{_RELATION_WORDS[relation]}, with the D50 of the mattress's rock fill ({cite('gabion_n')})"
-    if relation in _RELATION_WORDS:
-        return _RELATION_WORDS[relation]
-    if relation == "vegetation":
-        return f"grass, n = Cn (gamma R S)^-0.4 ({src})"
-    if relation == "soil":
-        return f"soil grain roughness ns ({src})"
-    return f"constant n ({src})"
 
 
 # --------------------------------------------------------------------------
@@ -374,7 +338,7 @@ def check_lining(section, flow, slope, lining: Lining, d50=None, bend_radius=Non
         Centre-line radius Rc of the sharpest bend [m], >= half the water
         surface width; None for a straight reach.
     min_freeboard : float
-        Minimum freeboard [m], >= 0 (default 0.15 m, see ``FREEBOARD_SOURCE``).
+        Minimum freeboard [m], >= 0 (default 0.15 m, see ``hydraulics.freeboard.FREEBOARD_SOURCE``).
     n : float, optional
         A constant Manning's n that replaces the lining's own roughness
         (stated in the result).
@@ -464,7 +428,7 @@ def _roughness_and_flow(section, q, s, lining, d, n_override):
             relation = "soil"
         else:
             relation = "constant"
-        n_text = _roughness_text(lining, relation)
+        n_text = roughness_words(lining, relation)
     if hasattr(rough, "check"):
         warn += rough.check(section, float(res.normal_depth), s)
     return rough, res, relation, n_text, notes, warn + list(res.warnings)
@@ -520,72 +484,6 @@ def _largest_required(req):
     return required, [], []
 
 
-def _method_notes(lining, method, s, n_used, tau_p) -> list:
-    """What the lining's permissible-shear method rests on, in words."""
-    source = lining.permissible_data.get("source", "")
-    if method == "none":
-        return [RIGID_NOTE]
-    if method == "shields":
-        steep = ([f"slope {s:g} is steeper than {hec15.STEEP_SLOPE:g}: the side slopes are checked by the "
-                  f"steep-slope method ({STEEP_SLOPE_SOURCE})"] if s > hec15.STEEP_SLOPE else [])
-        return steep + [FILTER_NOTE]
-    if method == "vegetation":
-        return [worded("grass on soil: soil permissible shear {tau_s}, cover factor {cf}, soil grain n {ns}, "
-                       "lining n {n} ({source})", tau_s=(float(lining.soil_permissible_shear()), "shear"),
-                       cf=f"{float(lining.cover_factor()):g}", ns=f"{float(lining.soil_grain_n()):.3g}",
-                       n=f"{n_used:.3g}", source=source)]
-    if method == "gabion":
-        return [_gabion_note(lining, tau_p, source)]
-    if method == "value" and lining.category == "manufactured":
-        return _product_notes(lining, n_used, tau_p, source)
-    if method == "value" and lining.user_data:
-        return [worded("permissible shear {tau_p} and n are user data ({source})", tau_p=(tau_p, "shear"),
-                       source=source)]
-    return []
-
-
-def _gabion_note(lining, tau_p, source) -> str:
-    """What a gabion mattress's check rests on: n from its fill (HEC-15 Section 7.1), the designer's tau_p."""
-    d50, thickness = lining.gabion_mattress()
-    return worded("gabion mattress {t} thick with rock fill of D50 {d}: Manning's n from the fill ({n_src}); "
-                  "permissible shear {tau_p} as entered ({source}); HEC-15 Section 7.2's relation of the rock size "
-                  "and the mattress thickness is not built into this program, so check the value against it; the "
-                  "side slopes are checked against K1 times the bed shear, like the bed",
-                  t=(thickness, "small_length"), d=(d50, "small_length"), n_src=cite("gabion_n"),
-                  tau_p=(tau_p, "shear"), source=source)
-
-
-def _product_notes(lining, n_used, tau_p, source) -> list:
-    """A rolled product's data-sheet values: its n against its class (HEC-15 Table 2.1), its tau_p and the soil."""
-    if lining.product_class is not None and lining.roughness_data.get("model") == "constant":
-        hec15.recp_data_sheet_n(n_used, lining.product_class)     # a ValidityWarning when outside its class
-    return [worded("permissible shear {tau_p} and n are the product's data-sheet values ({source}); they hold for "
-                   "the soil and the vegetation the product was tested with: rolled products have no permissible "
-                   "shear independent of the soil ({soil}), and HEC-15 Chapter 5's conversion to the site soil is "
-                   "not built into this program", tau_p=(tau_p, "shear"), source=source, soil=cite("recp_soil"))]
-
-
-def _quantities(lining, section, depth_at_top, d50):
-    """Lined width, layer thickness and volume, and cost per length of channel.
-
-    Returns (lined width [m], thickness [m] or None, volume [m^3/m] or None, cost or None, notes)."""
-    # the user's D50 (None: the entry's own, with its D100 where the catalogue gives one)
-    thickness = lining.layer_thickness(d50) if lining.thickness_data["rule"] == "stone" else lining.layer_thickness()
-    thickness = None if thickness is None else float(thickness)
-    lined = _lined_perimeter(section, depth_at_top)
-    notes = [LINED_WIDTH_RULE]
-    volume = None if thickness is None else lined * thickness
-    cost = None
-    if lining.unit_cost is not None:
-        if lining.unit_cost_basis == "area":
-            cost = float(lining.unit_cost) * lined
-        elif volume is not None:
-            cost = float(lining.unit_cost) * volume
-        else:
-            notes.append("the unit cost is per volume but the lining has no layer thickness: no cost per length")
-    return lined, thickness, volume, cost, notes
-
-
 def _check(section, q, s, lining, d50, rc, fb_min, n_override, sf_min, v_min, size_stone=True) -> StabilityResult:
     stone = lining.category == "stone"
     d = lining._d50(d50) if (stone or d50 is not None) else None  # refuses a D50 for a lining that is not stone
@@ -625,7 +523,7 @@ def _check(section, q, s, lining, d50, rc, fb_min, n_override, sf_min, v_min, si
             section, q, s, lining, rough if n_override is not None else None, sides, rc, sf_min, d)
         notes += more_notes
         warn += more_warn
-    notes += _method_notes(lining, method, s, n_used, tau_p)
+    notes += method_notes(lining, method, s, n_used, tau_p)
     if stone and size_stone:
         required, more_notes, more_warn = _largest_required(req)
         notes += more_notes
@@ -639,7 +537,7 @@ def _check(section, q, s, lining, d50, rc, fb_min, n_override, sf_min, v_min, si
     # -- freeboard, ditch depth and quantities ------------------------------
     ditch = ditch_top(section, y, v, top, fr, rc, fb_min)
     warn += ditch.warnings
-    lined, thickness, volume, cost, more_notes = _quantities(lining, section, ditch.depth_at_top, d50)
+    lined, thickness, volume, cost, more_notes = lining_quantities(lining, section, ditch.depth_at_top, d50)
     notes += more_notes
 
     return StabilityResult(
@@ -701,138 +599,3 @@ def _scalar_checks(sc: ShearChecks, method: str, rc, top) -> list:
         out.append(ShearCheck(location, design, float(c.permissible_shear[0]), required, sf, sf >= required, text,
                               how, z, cannot_rest=cannot))
     return out
-
-
-# --------------------------------------------------------------------------
-# comparison
-# --------------------------------------------------------------------------
-
-@dataclass
-class ComparisonRow:
-    """One lining of a comparison (SI). ``error`` is set, and the numbers None, when it has no solution."""
-
-    key: str
-    name: str
-    d50: float | None
-    depth: float | None
-    velocity: float | None
-    froude: float | None
-    manning_n: float | None
-    design_shear: float | None       # design shear of the governing check [Pa]
-    permissible_shear: float | None  # permissible shear of the governing check [Pa]
-    safety_factor: float | None
-    required_safety_factor: float | None
-    verdict: str                     # "stable" | "not stable" | "non-erodible" | "no solution"
-    stable: bool | None
-    governs: str | None
-    reason: str
-    required_d50: float | None
-    total_depth: float | None
-    lined_width: float | None        # [m per m of channel]
-    layer_volume: float | None       # [m^3 per m]
-    cost_per_length: float | None    # [$ per m]; None without a unit cost
-    warnings: list = field(default_factory=list)
-    error: str | None = None
-    result: StabilityResult | None = field(default=None, repr=False)
-
-    def to_dict(self, units: UnitSystem = SI) -> dict:
-        L = lambda v: None if v is None else float(units.from_si("length", v))  # noqa: E731
-        T = lambda v: None if v is None else float(units.from_si("shear", v))  # noqa: E731
-        return {
-            "lining": self.key, "name": self.name, "d50": L(self.d50), "depth": L(self.depth),
-            "velocity": None if self.velocity is None else float(units.from_si("velocity", self.velocity)),
-            "froude": self.froude, "manning_n": self.manning_n, "design_shear": T(self.design_shear),
-            "permissible_shear": T(self.permissible_shear), "safety_factor": self.safety_factor,
-            "required_safety_factor": self.required_safety_factor, "verdict": self.verdict,
-            "stable": self.stable, "governs": self.governs,
-            "reason": self.result.reason(units) if self.result is not None else self.reason,
-            "required_d50": L(self.required_d50), "total_depth": L(self.total_depth),
-            "lined_width": L(self.lined_width),
-            "layer_volume": None if self.layer_volume is None else float(units.from_si("volume_per_length",
-                                                                                      self.layer_volume)),
-            "cost_per_length": None if self.cost_per_length is None else float(units.from_si("cost_per_length",
-                                                                                            self.cost_per_length)),
-            "warnings": [in_units(w, units) for w in self.warnings], "error": self.error,
-        }
-
-
-def parse_choice(choice):
-    """(key, d50 or None) from "key", "key:D50" [m], (key, d50), or an object with .key and .d50."""
-    if isinstance(choice, str):
-        key, sep, size = choice.partition(":")
-        key = key.strip()
-        if not key:
-            raise InputError("lining", f"is empty in {choice!r} (give a catalogue key, e.g. riprap:0.15)")
-        if not sep:
-            return key, None
-        try:
-            d = float(size)
-        except ValueError:
-            raise InputError("d50", f"must be a number after ':' in {choice!r}, got {size!r}") from None
-        return key, float(validate.positive("d50", d))
-    if isinstance(choice, (tuple, list)) and len(choice) == 2:
-        return str(choice[0]), choice[1]
-    if hasattr(choice, "key"):
-        return choice.key, getattr(choice, "d50", None)
-    raise InputError("lining", f"must be a key, 'key:D50', (key, d50) or a lining choice, got {choice!r}")
-
-
-def compare_linings(section, flow, slope, choices, catalogue, bend_radius=None,
-                    min_freeboard=hec15.MIN_FREEBOARD, **options) -> list[ComparisonRow]:
-    """The same channel and flow with several linings: one :class:`ComparisonRow` each.
-
-    Parameters
-    ----------
-    section, flow, slope, bend_radius, min_freeboard
-        As for :func:`check_lining` (SI).
-    choices : iterable
-        Linings: "key", "key:D50" (D50 in m), (key, d50) pairs or objects
-        with ``key`` and ``d50`` (such as ``app.project.LiningChoice``).
-    catalogue : hydraulics.linings.Catalogue
-        Where the keys are looked up.
-    **options
-        Passed to :func:`check_lining` (``min_safety_factor``, ``min_velocity``).
-
-    Returns
-    -------
-    list[ComparisonRow]
-        In the order given. Each row's numbers are those of
-        :func:`check_lining` for that lining (kept in ``row.result``). A lining
-        with no normal depth gets a row with ``verdict`` "no solution" and
-        the reason in ``error``; bad input raises InputError.
-
-    Notes
-    -----
-    Lined width: the perimeter up to the top of the ditch (``LINED_WIDTH_RULE``).
-    Layer volume: lined width times the layer thickness of the catalogue rule
-    (a thin-layer estimate). Cost: the user's unit cost (catalogue field
-    ``unit_cost``) per m^2 of lined width or per m^3 of layer; None when no
-    cost is set; never invented.
-    """
-    rows = []
-    choices = list(choices)
-    if not choices:
-        raise InputError("lining", "give at least one lining to compare")
-    for choice in choices:
-        key, d50 = parse_choice(choice)
-        lining = catalogue.get(key)
-        try:
-            r = check_lining(section, flow, slope, lining, d50=d50, bend_radius=bend_radius,
-                             min_freeboard=min_freeboard, **options)
-        except NoSolutionError as exc:
-            rows.append(ComparisonRow(
-                key=key, name=lining.name, d50=d50, depth=None, velocity=None, froude=None, manning_n=None,
-                design_shear=None, permissible_shear=None, safety_factor=None, required_safety_factor=None,
-                verdict="no solution", stable=None, governs=None, reason=f"no solution: {exc}", required_d50=None,
-                total_depth=None, lined_width=None, layer_volume=None, cost_per_length=None, warnings=[],
-                error=str(exc), result=None))
-            continue
-        gov = r.governing_check()
-        rows.append(ComparisonRow(
-            key=r.lining_key, name=r.lining_name, d50=r.d50, depth=r.depth, velocity=r.velocity, froude=r.froude,
-            manning_n=r.manning_n, design_shear=gov.design_shear, permissible_shear=gov.permissible_shear,
-            safety_factor=r.safety_factor, required_safety_factor=gov.required_safety_factor, verdict=r.verdict,
-            stable=r.stable, governs=r.governs, reason=r.reason(), required_d50=r.required_d50,
-            total_depth=r.total_depth, lined_width=r.lined_width, layer_volume=r.layer_volume,
-            cost_per_length=r.cost_per_length, warnings=list(r.warnings), error=None, result=r))
-    return rows

@@ -5,7 +5,8 @@ import pytest
 import hydraulics as hy
 from app.evaluate import ChannelDesign, evaluate_channel, load_default_catalogue
 from app.project import Channel, FlowBasis, LiningChoice, Project, dumps, loads
-from hydraulics.stability import check_lining, compare_linings
+from hydraulics.lining_comparison import compare_linings
+from hydraulics.stability import check_lining
 
 
 @pytest.fixture(scope="module")

@@ -1,4 +1,4 @@
-"""The lining stability check and the lining comparison (hydraulics.stability).
+"""The lining stability check (hydraulics.stability) and the lining comparison (hydraulics.lining_comparison).
 
 "HEC-15" = Kilgore, R. T. and Cotton, G. K., Design of Roadside Channels with
 Flexible Linings, Hydraulic Engineering Circular No. 15, 3rd ed.,
@@ -18,7 +18,9 @@ import hydraulics as hy
 from hydraulics.errors import InputError, NoSolutionError
 from hydraulics.linings import hec15, load_catalogue
 from hydraulics.wording import in_units
-from hydraulics.stability import SELF_CLEANING_VELOCITY, check_lining, compare_linings, parse_choice, shear_checks
+from hydraulics.lining_comparison import compare_linings, parse_choice
+from hydraulics.shear_checks import shear_checks
+from hydraulics.stability import SELF_CLEANING_VELOCITY, check_lining
 from hydraulics.units import FOOT, PSF, SYSTEMS
 
 US, SI = SYSTEMS["us"], SYSTEMS["si"]

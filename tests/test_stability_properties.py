@@ -14,7 +14,8 @@ from hypothesis import strategies as st
 
 import hydraulics as hy
 from hydraulics.linings import load_catalogue
-from hydraulics.stability import check_lining, compare_linings
+from hydraulics.lining_comparison import compare_linings
+from hydraulics.stability import check_lining
 
 CAT = load_catalogue()
 SLOW = settings(max_examples=30, deadline=None, suppress_health_check=[HealthCheck.too_slow])

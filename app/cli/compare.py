@@ -4,7 +4,8 @@ from __future__ import annotations
 
 from hydraulics import units as hu
 from hydraulics.errors import InputError
-from hydraulics.stability import check_lining, compare_linings
+from hydraulics.lining_comparison import compare_linings
+from hydraulics.stability import check_lining
 from hydraulics.wording import in_units
 
 from ..comparison_table import ComparisonTable, comparison_table

@@ -12,7 +12,7 @@ from pathlib import Path
 from hydraulics import units as hu
 from hydraulics.errors import InputError
 from hydraulics.linings import CatalogueError, hec15, load_catalogue
-from hydraulics.stability import parse_choice
+from hydraulics.lining_comparison import parse_choice
 
 from .common import CliError, check_limit
 

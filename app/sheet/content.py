@@ -30,7 +30,8 @@ import hydraulics as hy
 from hydraulics import provenance
 from hydraulics import units as hu
 from hydraulics.linings import Catalogue, hec15
-from hydraulics.stability import LINED_WIDTH_RULE, StabilityResult
+from hydraulics.lining_quantities import LINED_WIDTH_RULE
+from hydraulics.stability import StabilityResult
 from hydraulics.wording import Worded
 
 from .. import __version__
