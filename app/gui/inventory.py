@@ -25,6 +25,7 @@ from PySide6.QtWidgets import (QAbstractItemView, QCheckBox, QComboBox, QDialog,
 from .. import inventory as ai
 from ..files import tsv_cell
 from ..results import INVENTORY_WORDS, MEASURED_LENGTH, rounded, table_field
+from ..verdicts import Verdict
 from ..inventory import InventoryError
 from hydraulics import many_reaches as mr
 from hydraulics import units as hu
@@ -39,12 +40,8 @@ CSV_FILTER = "Inventories (*.csv);;All files (*)"
 #: What the check opens: a CSV file or a GeoPackage layer of lines.
 OPEN_FILTER = "Inventories (*.csv *.gpkg);;CSV files (*.csv);;GeoPackages (*.gpkg);;All files (*)"
 UNIT_CHOICES = (("us", "US customary (ft, ft³/s)"), ("si", "SI (m, m³/s)"))
-#: Verdicts in words for the filter boxes (the file keeps the short forms).
-VERDICT_WORDS = {
-    "stable": "stable", "unstable": "unstable", "non-erodible": "non-erodible lining",
-    "hydraulics-only": "hydraulics only (no lining)", "not-checked": "lining not checked",
-    "no-solution": "no solution", "invalid": "invalid row",
-}
+#: Verdicts in words for the filter boxes: the words of the one vocabulary (the file keeps the tokens).
+VERDICT_WORDS = {token: Verdict.from_token(token).words for token in mr.VERDICTS}
 #: Background and text colour of the verdict cell; the word is always there as well.
 VERDICT_COLOURS = {
     "stable": ("#e7f4ea", "#1e5a22"), "unstable": ("#fbeaea", "#8c1d16"), "non-erodible": ("#eef0f2", "#3b444c"),

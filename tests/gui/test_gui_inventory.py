@@ -25,6 +25,7 @@ from scipy.optimize import brentq
 from app import project as pj
 from app.gui.inventory import IMPORT_ASK_ABOVE
 from app.gui.mainwindow import MainWindow
+from app.verdicts import Verdict
 
 FOOT = 0.3048
 G_US = 32.174   # ft/s^2, standard gravity 9.80665 m/s^2 in feet
@@ -143,6 +144,17 @@ def test_rows_counts_line_numbers_and_bad_rows(window, qtbot, inventory, dialogs
     assert d.model.headerData(column(d, "safety_factor"), Qt.Orientation.Horizontal) == "Safety factor"
     assert "5 reaches" in d.summary.toPlainText()
     assert dialogs.shown == []
+
+
+def test_the_filter_boxes_say_the_verdicts_in_the_one_vocabulary(window, qtbot, inventory, dialogs):
+    """Each filter box words its verdict as the window's headline, the sheet and the batch's plot do
+    (app/verdicts.py), with its count; the table keeps the file's tokens."""
+    d = checked(qtbot, window, inventory)
+    assert list(d.verdict_boxes) == [v.token for v in Verdict if v is not Verdict.TOO_SHALLOW]
+    for token, box in d.verdict_boxes.items():
+        assert box.text().rsplit(": ", 1)[0] == Verdict.from_token(token).words
+    assert d.verdict_boxes["hydraulics-only"].text() == "Hydraulics only: 2"
+    assert d.verdict_boxes["invalid"].text() == "Invalid input: 1"
 
 
 def test_normal_depth_shown_solves_mannings_equation(window, qtbot, inventory):
