@@ -1,5 +1,5 @@
 """Changing a project's inputs without Qt: one input of a channel read or changed by its path, a starting section
-for another shape, new channels and projects at round starting values.
+for another shape, new channels and projects at round starting values, and the names of what is added or renamed.
 
 The window's document (:class:`app.gui.document.ProjectDocument`) turns each
 edit into an undoable command with these; they work on :mod:`app.project`
@@ -117,6 +117,40 @@ def numbered(base: str, taken) -> str:
         name = f"{base} ({k})"
         k += 1
     return name
+
+
+def named_copies(items: list, taken: set, blank: str) -> list:
+    """Copies of ``items`` (channels or runs), each named apart from ``taken`` and from each other ("name (2)");
+    a blank name becomes ``blank``. ``taken`` gains the names given."""
+    out = []
+    for item in items:
+        item = copy.deepcopy(item)
+        item.name = numbered(item.name.strip() or blank, taken)
+        taken.add(item.name)
+        out.append(item)
+    return out
+
+
+def new_name(base: str, taken) -> str:
+    """The name of a channel the user adds or duplicates: ``base`` where it is free, else "base 1", "base 2"...
+    the first not in ``taken``; "Ditch", the name of a new channel, always gets its number."""
+    if base not in taken and base != "Ditch":
+        return base
+    k = 1
+    while f"{base} {k}" in taken:
+        k += 1
+    return f"{base} {k}"
+
+
+def name_refusal(name: str, others, what: str) -> str | None:
+    """Why ``name`` (stripped) cannot name a ``what`` ("channel", "ditch run") beside ``others`` (the names of
+    the rest), or None when it can."""
+    name = name.strip()
+    if not name:
+        return f"A {what} needs a name."
+    if name in others:
+        return f"Another {what} is already called '{name}'."
+    return None
 
 
 def new_channel(units: str = "us", name: str = "Ditch 1") -> pj.Channel:

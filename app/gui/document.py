@@ -18,21 +18,9 @@ import hydraulics as hy
 
 from .. import project as pj
 from ..context import Context
-from ..editing import new_channel, new_project, numbered, with_value
+from ..editing import name_refusal, named_copies, new_channel, new_name, new_project, with_value
 from ..files import FileChangedError, FileStamp
 from . import commands as cmd
-
-
-def _named_copies(items: list, taken: set, blank: str) -> list:
-    """Copies of ``items`` (channels or runs), each named apart from ``taken`` and from each other ("name (2)");
-    a blank name becomes ``blank``."""
-    out = []
-    for item in items:
-        item = copy.deepcopy(item)
-        item.name = numbered(item.name.strip() or blank, taken)
-        taken.add(item.name)
-        out.append(item)
-    return out
 
 
 class ProjectDocument(QObject):
@@ -150,10 +138,9 @@ class ProjectDocument(QObject):
         """Rename; returns the reason when the name is refused (empty or already used)."""
         i = self.current if index is None else index
         name = name.strip()
-        if not name:
-            return "A channel needs a name."
-        if any(c.name == name for j, c in enumerate(self.project.channels) if j != i):
-            return f"Another channel is already called '{name}'."
+        refusal = name_refusal(name, {c.name for j, c in enumerate(self.project.channels) if j != i}, "channel")
+        if refusal:
+            return refusal
         old = self.project.channels[i].name
         if name != old:
             self.edit("name", name, f"Rename channel '{old}' to '{name}'", index=i)
@@ -161,14 +148,14 @@ class ProjectDocument(QObject):
 
     def add_channels(self, channels: list, text: str) -> list:
         """Append ``channels`` in one undoable step; a name already in use gets a number. Returns the names."""
-        added = _named_copies(channels, {c.name for c in self.project.channels}, "Reach")
+        added = named_copies(channels, {c.name for c in self.project.channels}, "Reach")
         if added:
             self.undo_stack.push(cmd.AddChannels(self, added, text))
         return [c.name for c in added]
 
     def add_runs(self, runs: list, text: str) -> list:
         """Append ditch ``runs`` in one undoable step; a name already in use gets a number. Returns the names."""
-        added = _named_copies(runs, {r.name for r in self.project.runs}, "Run")
+        added = named_copies(runs, {r.name for r in self.project.runs}, "Run")
         if added:
             self.undo_stack.push(cmd.AddRuns(self, added, text))
         return [r.name for r in added]
@@ -185,10 +172,9 @@ class ProjectDocument(QObject):
     def rename_run(self, index: int, name: str) -> str | None:
         """Rename run ``index``; returns the reason when the name is refused (empty or already used)."""
         name = name.strip()
-        if not name:
-            return "A ditch run needs a name."
-        if any(r.name == name for j, r in enumerate(self.project.runs) if j != index):
-            return f"Another ditch run is already called '{name}'."
+        refusal = name_refusal(name, {r.name for j, r in enumerate(self.project.runs) if j != index}, "ditch run")
+        if refusal:
+            return refusal
         old = self.project.runs[index]
         if name != old.name:
             new = copy.deepcopy(old)
@@ -199,8 +185,7 @@ class ProjectDocument(QObject):
     def add_channel_from(self, channel: pj.Channel, text: str) -> str:
         """Append ``channel`` (a name already in use gets a number) and make it current, in one undoable step.
         Returns its name."""
-        ch = copy.deepcopy(channel)
-        ch.name = numbered(ch.name.strip() or "Ditch", {c.name for c in self.project.channels})
+        (ch,) = named_copies([channel], {c.name for c in self.project.channels}, "Ditch")
         self.undo_stack.push(cmd.AddChannel(self, len(self.project.channels), ch, text))
         return ch.name
 
@@ -227,13 +212,7 @@ class ProjectDocument(QObject):
             self.undo_stack.push(cmd.EditProject(self, "rainfall", copy.deepcopy(rainfall), text))
 
     def unique_name(self, base: str) -> str:
-        names = {c.name for c in self.project.channels}
-        if base not in names and base != "Ditch":
-            return base
-        k = 1
-        while f"{base} {k}" in names:
-            k += 1
-        return f"{base} {k}"
+        return new_name(base, {c.name for c in self.project.channels})
 
     # -- primitive changes, for the commands only -----------------------------------------
     def _replace_channel(self, index: int, channel: pj.Channel) -> None:
