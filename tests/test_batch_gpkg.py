@@ -15,6 +15,7 @@ import shapely
 from matplotlib import rc_context
 
 from app import inventory as ai
+from app.inventory import plots
 from app.main import main
 from test_batch_streaming import HEADER, mixed_rows, write_csv
 
@@ -268,7 +269,7 @@ def test_the_map_legend_says_each_verdict_in_words_with_its_reaches_and_length(t
     write_layer(tmp_path / "inv.gpkg", rows, lines)
     tally = ai.check_file(tmp_path / "inv.gpkg", tmp_path / "out.csv", "si", rows=7)
     with rc_context({"svg.fonttype": "none"}):
-        ai.plot_map(tally.lines, tally.counts(), tmp_path / "map.svg")
+        plots.plot_map(tally.lines, tally.counts(), tmp_path / "map.svg")
     svg = (tmp_path / "map.svg").read_text(encoding="utf-8")
     counts = tally.counts()
     assert counts["unstable"] and counts["invalid"]

@@ -1,9 +1,10 @@
 """Layers: the core stays pure, the application layer stays Qt-, plot- and PDF-free, and imports run downward.
 
-hydraulics/ (the core) imports nothing from app/; every application module outside the two front ends that draw
-(app/gui: Qt and matplotlib; app/sheet: reportlab) loads no GUI, plotting or PDF library, so that the command line,
+hydraulics/ (the core) imports nothing from app/; every application module outside the front ends that draw
+(app/gui: Qt and matplotlib; app/sheet: reportlab; app/inventory/plots.py: the inventory's plot and map with
+matplotlib) loads no GUI, plotting or PDF library, nor names one even inside a function, so that the command line,
 the inventory checker and the tests can use them without a display. The list is found from the files, so a new
-module is checked as soon as it exists. The application layer itself imports neither front end.
+module is checked as soon as it exists. The application layer itself imports no front end.
 """
 
 import ast
@@ -19,7 +20,8 @@ import hydraulics
 ROOT = Path(__file__).resolve().parents[1]
 HEAVY = ("PySide6", "matplotlib", "reportlab", "PyQt5", "PyQt6")
 CORE = sorted(m.name for m in pkgutil.walk_packages(hydraulics.__path__, "hydraulics."))
-DRAWING = ("app.gui", "app.sheet")    # the front ends that draw: Qt and matplotlib, reportlab
+#: The front ends that draw: Qt and matplotlib, reportlab, matplotlib alone (the inventory's plot and map).
+DRAWING = ("app.gui", "app.sheet", "app.inventory.plots")
 
 
 def _modules(package: str) -> list:
@@ -64,25 +66,38 @@ def test_the_application_layer_loads_no_gui_plot_or_pdf_library(module):
     assert _loads_heavy(module) == []
 
 
+def _imported(module: str) -> list:
+    """Every module name ``module`` imports, at its top or inside a function, as an absolute dotted name."""
+    path = ROOT / Path(*module.split("."))
+    path = path / "__init__.py" if path.is_dir() else path.with_suffix(".py")
+    package = module.split(".") if path.name == "__init__.py" else module.split(".")[:-1]
+    found = []
+    for node in ast.walk(ast.parse(path.read_text(encoding="utf-8"))):
+        if isinstance(node, ast.Import):
+            found += [a.name for a in node.names]
+        elif isinstance(node, ast.ImportFrom):
+            base = package[:len(package) - node.level + 1] if node.level else []
+            if node.module:
+                found.append(".".join(base + [node.module]))
+            else:   # "from .. import gui"
+                found += [".".join(base + [a.name]) for a in node.names]
+    return found
+
+
 @pytest.mark.parametrize("module", LAYER)
 def test_the_application_layer_imports_no_front_end(module):
     """Not at the top of a module nor inside a function: the window and the sheet render this layer, not the
     other way round (app.main and app.cli start the window or write a sheet when asked, so they may)."""
-    path = ROOT / Path(*module.split("."))
-    path = path / "__init__.py" if path.is_dir() else path.with_suffix(".py")
-    package = module.split(".") if path.name == "__init__.py" else module.split(".")[:-1]
-    for node in ast.walk(ast.parse(path.read_text(encoding="utf-8"))):
-        if isinstance(node, ast.Import):
-            names = [a.name for a in node.names]
-        elif isinstance(node, ast.ImportFrom):
-            base = package[:len(package) - node.level + 1] if node.level else []
-            names = [".".join(base + ([node.module] if node.module else []))]
-            if not node.module:   # "from .. import gui"
-                names = [".".join(base + [a.name]) for a in node.names]
-        else:
-            continue
-        for name in names:
-            assert not any(name == d or name.startswith(d + ".") for d in DRAWING), (module, name)
+    for name in _imported(module):
+        assert not any(name == d or name.startswith(d + ".") for d in DRAWING), (module, name)
+
+
+@pytest.mark.parametrize("module", APPLICATION)
+def test_the_application_layer_names_no_gui_plot_or_pdf_library(module):
+    """Not even inside a function, where loading the module does not show it: a Qt widget, a matplotlib figure
+    or a reportlab page is drawn by a front end (DRAWING), which the command line may start when asked."""
+    for name in _imported(module):
+        assert name.split(".")[0] not in HEAVY, (module, name)
 
 
 def test_imports_run_from_app_down_to_hydraulics_only():

@@ -8,6 +8,7 @@ from os import PathLike
 import pytest
 
 from app import inventory as ai
+from app.inventory import plots
 from app import project as pj
 from app.main import main
 
@@ -66,7 +67,7 @@ def test_a_plot_that_cannot_be_written_says_so_and_where_the_results_are(capsys,
 
     def full(*args, **kwargs):
         raise OSError(28, "No space left on device")
-    monkeypatch.setattr(ai, "plot_summary", full)
+    monkeypatch.setattr(plots, "plot_summary", full)
     assert main(["batch", str(inventory), "-o", str(tmp_path / "out.csv"), "--plot", str(tmp_path / "p.png")]) == 2
     err = capsys.readouterr().err
     assert "Traceback" not in err and "No space left on device" in err and "results were written" in err
@@ -80,7 +81,7 @@ def test_a_plot_that_fails_half_way_leaves_the_old_plot_whole(tmp_path, monkeypa
     from matplotlib.figure import Figure
     result = ai.evaluate(ai.parse_inventory(f"{HEADER}\n{ROW}\n", "us"))
     path = tmp_path / f"plot{suffix}"
-    ai.plot_summary(result, path)
+    plots.plot_summary(result, path)
     old = path.read_bytes()
     assert old.startswith(magic)
 
@@ -91,7 +92,7 @@ def test_a_plot_that_fails_half_way_leaves_the_old_plot_whole(tmp_path, monkeypa
         raise OSError(28, "No space left on device")
     monkeypatch.setattr(Figure, "savefig", fails_half_way)
     with pytest.raises(OSError):
-        ai.plot_summary(result, path)
+        plots.plot_summary(result, path)
     assert path.read_bytes() == old and [p.name for p in tmp_path.iterdir()] == [path.name]
 
 

@@ -105,8 +105,10 @@ def run(args) -> int:
     print(tally.summary(elapsed))
     print(f"  results: {target}")
     if args.plot is not None:
+        from ..inventory import plots   # matplotlib, loaded only when a plot is asked for
+
         try:
-            ai.plot_summary(tally, args.plot, title=f"Ditch inventory {source.name}")
+            plots.plot_summary(tally, args.plot, title=f"Ditch inventory {source.name}")
         except OSError as exc:
             raise CliError(f"--plot {args.plot}: cannot write the plot: {exc.strerror or exc} (the results were "
                            f"written to {target})") from None
@@ -114,7 +116,7 @@ def run(args) -> int:
         if tally.lines is not None:
             where = map_path(args.plot)
             try:
-                ai.plot_map(tally.lines, tally.counts(), where, title=f"Ditch inventory {source.name}")
+                plots.plot_map(tally.lines, tally.counts(), where, title=f"Ditch inventory {source.name}")
             except OSError as exc:
                 raise CliError(f"--plot {args.plot}: cannot write the map {where}: {exc.strerror or exc} (the "
                                f"results were written to {target})") from None

@@ -12,7 +12,10 @@ its edge, one module a job:
 * :mod:`~app.inventory.writing`: the results file, spreadsheet-safe and
   replaced atomically, and the table view's text (:func:`result_table`);
 * :mod:`~app.inventory.reporting`: the rows in trouble, the summary for the
-  terminal, the summary plot and the map of a GeoPackage inventory's reaches;
+  terminal, and the lines of a GeoPackage inventory's reaches for its map;
+* :mod:`~app.inventory.plots`: the summary plot and the map, drawn with
+  matplotlib (a drawing front end: not exported here, so that this package
+  loads no plotting library);
 * :mod:`~app.inventory.layers`: a GeoPackage inventory (a layer of lines, read
   in blocks as the CSV is) and a results GeoPackage layer.
 * :mod:`~app.inventory.plausibility`: whether the numbers look typed in the
@@ -32,11 +35,11 @@ from .plausibility import MixedUnits, UnitsFinding, units_finding
 from .checking import BatchRun, check_file, evaluate, run_inventory
 from .reading import INPUT_COLUMNS, RESULT_COLUMNS, Inventory, InventoryError, parse_inventory, read_blocks, read_inventory
 from .layers import LENGTH_COLUMN, is_geopackage, layer_names, read_layer_blocks
-from .reporting import MAX_MESSAGES, PLOT_FORMATS, ReachLines, Tally, plot_map, plot_summary, problem_rows, summary
+from .reporting import MAX_MESSAGES, PLOT_FORMATS, ReachLines, Tally, problem_rows, summary
 from .writing import DIGITS, display_values, format_results, result_table, write_results, written_rows
 
 __all__ = ["INPUT_COLUMNS", "RESULT_COLUMNS", "DIGITS", "MAX_MESSAGES", "PLOT_FORMATS", "Inventory", "InventoryError",
            "BatchRun", "Tally", "parse_inventory", "read_inventory", "read_blocks", "evaluate", "check_file", "run_inventory",
            "display_values", "format_results", "write_results", "written_rows", "result_table", "problem_rows",
-           "summary", "plot_summary", "MixedUnits", "UnitsFinding", "units_finding", "plot_map", "ReachLines", "is_geopackage", "layer_names",
+           "summary", "MixedUnits", "UnitsFinding", "units_finding", "ReachLines", "is_geopackage", "layer_names",
            "read_layer_blocks", "LENGTH_COLUMN"]
