@@ -4,7 +4,8 @@ Two channels of the demo project (invented site), in SI and in US customary unit
 holds an invented unit cost. The window and the sheet print the results by the one rounding rule
 (app.results.PANEL_FIELDS), so each of their values is the same text; the command line and the batch write more
 digits, so each printed number must lie within half a unit of its last printed digit of the value the others print; the verdict is the same member
-of the one vocabulary (app/verdicts.py) in each; the cost per length is the same. The numbers themselves are
+of the one vocabulary (app/verdicts.py) in each; the cost per length is the same; the warnings are the same words
+(`compare --json` gives the lining's row as `calc --json` does). The numbers themselves are
 checked against published cases elsewhere (tests/test_published_cases.py, tests/test_sheet.py).
 """
 
@@ -12,6 +13,7 @@ from __future__ import annotations
 
 import copy
 import csv
+import html
 import json
 import re
 
@@ -124,3 +126,24 @@ def test_every_front_end_shows_one_answer(name, units, user_catalogue, tmp_path,
     _close(row["normal_depth"], y)
     _close(row["velocity"], v)
     assert Verdict.from_token(row["verdict"]) is verdict
+
+    # the warnings: worded once (hydraulics.wording), restated in the project's units by each front end; the
+    # window and the sheet make sentences of them (capital first letter, full stop), the command line does not
+    window_warnings = [_plain(html.unescape(w)) for w in re.findall(r"<li>(.*?)</li>", w.results.warnings.text())]
+    assert window_warnings and window_warnings == [_plain(x) for x in data["warnings"]]
+    for words in window_warnings:
+        assert words[1:] in _plain(text.replace("\u00b2", "^2").replace("\u00b3", "^3")), words
+
+    # `compare --json` with the channel's lining alone: its row says what `calc --json` says
+    assert main(["compare", *argv[1:argv.index("--json")], "--json"]) == 0
+    (compared,) = json.loads(capsys.readouterr().out)
+    assert compared["depth"] == pytest.approx(y, rel=1e-9) and compared["velocity"] == pytest.approx(v, rel=1e-9)
+    assert compared["cost_per_length"] == pytest.approx(cost, rel=1e-9)
+    assert Verdict.from_token(compared["verdict"]) is verdict
+    assert [_plain(x) for x in compared["warnings"]] == window_warnings
+
+
+def _plain(sentence: str) -> str:
+    """A warning without the sentence case and full stop the window and the sheet give it, on one line."""
+    sentence = re.sub(r"\s+", " ", sentence).strip().rstrip(".")
+    return sentence[:1].lower() + sentence[1:]
