@@ -20,6 +20,7 @@ from hydraulics.units import UnitSystem
 from .. import channel_display as display
 from ..editing import section_for_shape, value_at, with_value
 from ..inputs import BEND, CORE_TO_PATH, D50, FLOW, FREEBOARD, MANNING, RATIONAL, SECTION_FIELDS, SLOPE, Input
+from ..lining_names import stone_size_text
 from ..project import LiningChoice
 from .document import ProjectDocument
 from .fields import (LineEdit, NotesEdit, NumberField, UnclearNumber, format_number, keep_units_whole,
@@ -290,7 +291,7 @@ class LiningForm(QWidget):
             self.d50.show_value(lining.d50, units, force)
             default = entry.d50
             self.d50.edit.setPlaceholderText(
-                f"catalogue: {pretty(display.stone_size_text(default, units, number_marks()[0]))}" if default
+                f"catalogue: {pretty(stone_size_text(default, units, number_marks()[0]))}" if default
                 else "needed")
         surveyed = channel.section.get("shape") == "irregular"
         plain = lining is None

@@ -112,6 +112,28 @@ def test_rigid_lining_passes_as_non_erodible():
     assert ev.lining.layer_thickness is not None and ev.lining.layer_thickness > 0
 
 
+def test_the_panel_values_are_those_of_the_governing_check_without_qt():
+    """The values the results panel lists (app.results.PANEL_FIELDS) are chosen in the Qt-free layer: for the
+    HEC-15 gravel-mulch example above (not verified) the permissible shear and safety factor of the check that
+    governs, the factor written with the one it needs; a rigid lining is non-erodible, with no factor."""
+    from app.results import PANEL_FIELDS, panel_field, rounded
+    gravel = pj.Channel(flow=pj.FlowBasis(value=0.42), slope=0.008,
+                        section={"shape": "trapezoid", "bottom_width": 0.4, "left_slope": 3.0, "right_slope": 3.0},
+                        lining=pj.LiningChoice("gravel", d50=0.025))
+    ev = display.evaluate(gravel, SI_CONTEXT)
+    values = display.panel_values(ev, decimal_mark=",")
+    assert set(values) == {f.key for f in PANEL_FIELDS}
+    gov = ev.lining.governing_check()
+    assert values["permissible_shear"] == gov.permissible_shear and values["bed_shear"] == ev.lining.bed_shear
+    sf = panel_field("safety_factor")     # the one rounding rule, with the decimal mark asked for
+    assert values["safety_factor"] == (f"{rounded(gov.safety_factor, sf, ',')} "
+                                       f"(need {rounded(gov.required_safety_factor, sf, ',')})")
+    assert "," in values["safety_factor"]
+    assert values["normal_depth"] == ev.result.normal_depth and values["bend_shear"] is None
+    rigid = display.panel_values(display.evaluate(pj.Channel(lining=pj.LiningChoice("concrete")), SI_CONTEXT))
+    assert rigid["permissible_shear"] == "non-erodible" and rigid["safety_factor"] == "\u2014"
+
+
 def test_curves_cover_the_design_point():
     ch = pj.Channel()
     ev = display.evaluate(ch, SI_CONTEXT)
