@@ -225,9 +225,9 @@ MAP_PIXELS = 2000
 
 class ReachLines:
     """The lines of a GeoPackage inventory's reaches with their verdicts, gathered block by block for
-    :func:`app.inventory.plots.plot_map`: each line simplified to about a pixel of the map (:data:`MAP_PIXELS`) and its coordinates
-    kept as 32-bit offsets from the layer's corner; and the length of the reaches of each verdict, from the
-    ``length`` column (see :mod:`app.inventory.layers`), in the inventory's units."""
+    :func:`app.inventory.plots.plot_map`: each line simplified to about a pixel of the map (:data:`MAP_PIXELS`)
+    and its coordinates kept as 32-bit offsets from the layer's corner; and the length of the reaches of each
+    verdict, from the ``length`` column (see :mod:`app.inventory.layers`), in the inventory's units."""
 
     def __init__(self, layer, units):
         self.layer, self.units = layer, units
