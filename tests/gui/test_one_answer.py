@@ -6,6 +6,10 @@ holds an invented unit cost. The window and the sheet print the results by the o
 digits, so each printed number must lie within half a unit of its last printed digit of the value the others print; the verdict is the same member
 of the one vocabulary (app/verdicts.py) in each; the cost per length is the same. The numbers themselves are
 checked against published cases elsewhere (tests/test_published_cases.py, tests/test_sheet.py).
+
+The lining check is held together the same way, `compare --json` included, on a riprap channel with a bend, a
+gravel one and a grass variant (invented): Manning's n used, the design shears, the governing permissible shear,
+the safety factors and the stone sizes.
 """
 
 from __future__ import annotations
@@ -21,7 +25,9 @@ from pypdf import PdfReader
 from app import project as P
 from app.evaluate import evaluate_channel, load_default_catalogue
 from app.gui.mainwindow import MainWindow
+from app.lining_names import STONE_SIZE
 from app.main import main
+from app.results import format_value
 from app.sheet import export_sheets
 from app.verdicts import Verdict
 from hydraulics.units import system
@@ -46,6 +52,60 @@ def _close(printed: str, value: float) -> None:
     assert abs(float(printed) - value) <= 0.5 * 10 ** -decimals * (1 + 1e-9), (printed, value)
 
 
+def _calc_argv(channel, design, units: str, user_catalogue) -> list:
+    """`calc --json` with the channel's inputs typed as options in the project's units (the design flow as solved,
+    a rational-method flow included; the bend radius where the channel has one)."""
+    u = system(units)
+    sec = channel.section
+    argv = ["calc", "--units", units, "--bottom-width", f"{u.from_si('length', sec['bottom_width']):.12g}",
+            "--left-slope", str(sec["left_slope"]), "--right-slope", str(sec["right_slope"]),
+            "--slope", str(channel.slope), "--flow", f"{u.from_si('flow', design.flow):.12g}",
+            "--lining", _lining_text(channel, u), "--user-catalogue", str(user_catalogue), "--json"]
+    if channel.bend_radius is not None:
+        argv[-1:-1] = ["--bend-radius", f"{u.from_si('length', channel.bend_radius):.12g}"]
+    return argv
+
+
+def _lining_text(channel, u) -> str:
+    """KEY or KEY:D50 (D50 in the length unit), as the command line takes a lining."""
+    lining = channel.lining
+    return lining.key + ("" if lining.d50 is None else f":{u.from_si('length', lining.d50):.10g}")
+
+
+def _batch_row(channel, argv, units: str, user_catalogue, tmp_path, capsys) -> dict:
+    """The batch's results row of one reach with the channel's inputs (those of ``argv``)."""
+    sec = channel.section
+    inventory, results = tmp_path / "inv.csv", tmp_path / "out.csv"
+    with inventory.open("w", newline="", encoding="utf-8") as fh:
+        out = csv.writer(fh)
+        out.writerow(["id", "shape", "bottom_width", "left_slope", "right_slope", "diameter", "slope", "flow",
+                      "lining", "d50", "n"])
+        lining = argv[argv.index("--lining") + 1]
+        out.writerow([channel.name, "trapezoid", argv[argv.index("--bottom-width") + 1], sec["left_slope"],
+                      sec["right_slope"], "", channel.slope, argv[argv.index("--flow") + 1], channel.lining.key,
+                      lining.split(":")[1] if ":" in lining else "", ""])
+    assert main(["batch", str(inventory), "-o", str(results), "--units", units,
+                 "--user-catalogue", str(user_catalogue)]) == 0
+    capsys.readouterr()
+    (row,) = list(csv.DictReader(results.open(encoding="utf-8")))
+    return row
+
+
+def _window(project, name, user_catalogue, qtbot, monkeypatch) -> MainWindow:
+    """The window on ``project``, with the user's catalogue (from its settings) laid over the shipped one, showing
+    the results of channel ``name``."""
+    from app.gui import settings
+    monkeypatch.setattr(settings, "user_catalogue_path", lambda: user_catalogue)
+    w = MainWindow(copy.deepcopy(project))
+    qtbot.addWidget(w)
+    w.show()
+    qtbot.waitExposed(w)
+    w.channel_list.setCurrentRow([c.name for c in w.doc.project.channels].index(name))
+    qtbot.waitUntil(lambda: getattr(getattr(w.results.shown, "design", None), "channel", None) is not None
+                    and w.results.shown.design.channel.name == name)
+    return w
+
+
 @pytest.fixture(scope="module")
 def user_catalogue(tmp_path_factory):
     path = tmp_path_factory.mktemp("linings") / "user-linings.toml"
@@ -68,13 +128,7 @@ def test_every_front_end_shows_one_answer(name, units, user_catalogue, tmp_path,
     cost = float(u.from_si("cost_per_length", design.stability.cost_per_length))
 
     # the window, with the user's catalogue (from its settings) laid over the shipped one
-    from app.gui import settings
-    monkeypatch.setattr(settings, "user_catalogue_path", lambda: user_catalogue)
-    w = MainWindow(copy.deepcopy(project))
-    qtbot.addWidget(w)
-    w.show()
-    qtbot.waitExposed(w)
-    w.channel_list.setCurrentRow([c.name for c in w.doc.project.channels].index(name))
+    w = _window(project, name, user_catalogue, qtbot, monkeypatch)
     qtbot.waitUntil(lambda: w.results.values["cost_per_length"].text() != "\u2014")
     shown = {k: w.results.values[k].text() for k in SAME_TEXT}
     assert w.results.headline.text() == verdict.words
@@ -95,13 +149,7 @@ def test_every_front_end_shows_one_answer(name, units, user_catalogue, tmp_path,
         assert re.search(re.escape(label) + r"\s+" + re.escape(shown[key]) + r"(?![0-9])", text), (key, shown[key])
 
     # the command line, from the same inputs typed as options in the project's units
-    sec = channel.section
-    lining = channel.lining.key + ("" if channel.lining.d50 is None
-                                   else f":{u.from_si('length', channel.lining.d50):.10g}")
-    argv = ["calc", "--units", units, "--bottom-width", f"{u.from_si('length', sec['bottom_width']):.12g}",
-            "--left-slope", str(sec["left_slope"]), "--right-slope", str(sec["right_slope"]),
-            "--slope", str(channel.slope), "--flow", f"{u.from_si('flow', channel.flow.value):.12g}",
-            "--lining", lining, "--user-catalogue", str(user_catalogue), "--json"]
+    argv = _calc_argv(channel, design, units, user_catalogue)
     assert main(argv) == 0
     data = json.loads(capsys.readouterr().out)
     assert data["normal_depth"] == pytest.approx(y, rel=1e-9) and data["velocity"] == pytest.approx(v, rel=1e-9)
@@ -109,18 +157,109 @@ def test_every_front_end_shows_one_answer(name, units, user_catalogue, tmp_path,
     assert data["verdict"] == verdict.token
 
     # the batch, one reach with the same inputs
-    inventory, results = tmp_path / "inv.csv", tmp_path / "out.csv"
-    with inventory.open("w", newline="", encoding="utf-8") as fh:
-        out = csv.writer(fh)
-        out.writerow(["id", "shape", "bottom_width", "left_slope", "right_slope", "diameter", "slope", "flow",
-                      "lining", "d50", "n"])
-        out.writerow([name, "trapezoid", argv[argv.index("--bottom-width") + 1], sec["left_slope"],
-                      sec["right_slope"], "", channel.slope, argv[argv.index("--flow") + 1], channel.lining.key,
-                      "" if channel.lining.d50 is None else lining.split(":")[1], ""])
-    assert main(["batch", str(inventory), "-o", str(results), "--units", units,
-                 "--user-catalogue", str(user_catalogue)]) == 0
-    capsys.readouterr()
-    (row,) = list(csv.DictReader(results.open(encoding="utf-8")))
+    row = _batch_row(channel, argv, units, user_catalogue, tmp_path, capsys)
     _close(row["normal_depth"], y)
     _close(row["velocity"], v)
     assert Verdict.from_token(row["verdict"]) is verdict
+
+
+# -- the lining check: Manning's n, the shear-check table, safety factors, stone sizes -----------------------------
+#: A grass channel: the demo's East verge ditch with a good sod instead of concrete (a variant, invented).
+GRASS = "East verge ditch, grass (variant)"
+#: The window's rows of the lining check's shears (app.results.PANEL_FIELDS), and the row of the sheet's
+#: shear-check table that prints each.
+SHEARS = {"bed_shear": "bed", "side_shear": "side slopes", "bend_shear": "bend"}
+STONE = ("required_d50", "layer_thickness")
+
+
+def _with_grass(project):
+    """The project with the grass variant of the East verge ditch added."""
+    grass = copy.deepcopy(project.channel("East verge ditch"))
+    grass.name, grass.lining = GRASS, P.LiningChoice("grass_good_sod", None)
+    project.channels.append(grass)
+    return project
+
+
+def _check_rows(text: str) -> dict:
+    """{location: [design shear, permissible, SF achieved, SF required]} of the sheet's shear-check table."""
+    block = text.split("LINING STABILITY")[1].split("Reason:")[0]
+    rows = re.findall(r"(bed|side slopes|bend)\s+([0-9.]+)\s+([0-9.]+|non-erodible)\s+([0-9.]+|—)\s+([0-9.]+|—)\s+"
+                      r"(?:passes|FAILS|non-erodible)", block)
+    return {loc: rest for loc, *rest in rows}
+
+
+@pytest.mark.parametrize("units", ["si", "us"])
+@pytest.mark.parametrize("name", ["Outfall swale", "North cut ditch", GRASS])   # riprap with a bend, gravel, grass
+def test_every_front_end_rounds_the_lining_check_alike(name, units, user_catalogue, tmp_path, qtbot, capsys,
+                                                      monkeypatch):
+    """Manning's n used, the design shears, the governing permissible shear and safety factors, and the stone sizes
+    read the same in the window's results panel and on the sheet (the one rule, app.results.PANEL_FIELDS), and
+    `calc --json`, `compare --json` and the batch give the numbers they round."""
+    project = _with_grass(P.load(P.demo_path()))
+    project.units = units
+    u = system(units)
+    channel = project.channel(name)
+    catalogue = load_default_catalogue(user_catalogue)
+    design = evaluate_channel(channel, catalogue)
+    st = design.stability
+    governs = st.governs
+
+    w = _window(project, name, user_catalogue, qtbot, monkeypatch)
+    panel = {k: w.results.values[k].text() for k in ("manning_n", *SHEARS, "permissible_shear", "safety_factor",
+                                                     *STONE) if w.results.values[k].isVisibleTo(w.results)}
+    w.doc.undo_stack.setClean()
+    assert set(panel) >= {"manning_n", "bed_shear", "side_shear", "permissible_shear", "safety_factor"}
+    assert ("bend_shear" in panel) == (channel.bend_radius is not None)
+    assert all(k in panel for k in STONE) == (st.category == "stone")
+    sf, needed = re.fullmatch(r"([0-9.]+) \(need ([0-9.]+)\)", panel["safety_factor"]).groups()
+
+    # the sheet: the same texts
+    pdf = tmp_path / "sheet.pdf"
+    export_sheets(project, pdf, channels=[name], catalogue=catalogue)
+    text = PdfReader(pdf).pages[0].extract_text().replace("\n", " ")
+    assert re.search(r"Manning's n used (\S+)", text).group(1) == panel["manning_n"]
+    table = _check_rows(text)
+    for key, loc in SHEARS.items():
+        if key in panel:
+            assert table[loc][0] + " " + u.label("shear").replace("^2", "\u00b2") == panel[key], key
+    assert table[governs][1:] == [panel["permissible_shear"].split()[0], sf, needed]
+    if st.category == "stone":
+        assert re.search(r"Required D50 (\S+ \S+) smallest stable", text).group(1) == panel["required_d50"]
+        assert re.search(r"layer thickness t (\S+ \S+)", text).group(1) == panel["layer_thickness"]
+        assert f"D50 {format_value(channel.lining.d50, STONE_SIZE, u)}" in text.split("Lining")[1]
+
+    # calc --json: the numbers the window and the sheet round
+    argv = _calc_argv(channel, design, units, user_catalogue)
+    assert main(argv) == 0
+    data = json.loads(capsys.readouterr().out)
+    _close(panel["manning_n"], data["lining"]["n_used"])
+    checks = {c["location"]: c for c in data["stability"]["checks"]}
+    for key, loc in SHEARS.items():
+        if key in panel:
+            _close(panel[key].split()[0], checks[loc]["design_shear"])
+    _close(panel["permissible_shear"].split()[0], checks[governs]["permissible_shear"])
+    _close(sf, checks[governs]["safety_factor"])
+    _close(needed, checks[governs]["required_safety_factor"])
+    small = lambda v: float(u.from_si("small_length", u.to_si("length", v)))  # noqa: E731  (the JSON's length)
+    for key in STONE:
+        if key in panel:
+            _close(panel[key].split()[0], small(data["stability"][key]))
+
+    # compare --json, the channel's lining alone: the governing check's numbers
+    argv[0] = "compare"
+    assert main(argv) == 0
+    (row,) = json.loads(capsys.readouterr().out)
+    _close(panel["manning_n"], row["manning_n"])
+    _close(panel[{v: k for k, v in SHEARS.items()}[governs]].split()[0], row["design_shear"])
+    _close(panel["permissible_shear"].split()[0], row["permissible_shear"])
+    _close(sf, row["safety_factor"])
+    if st.category == "stone":
+        _close(panel["required_d50"].split()[0], small(row["required_d50"]))
+
+    # the batch (no bends: the bend's checks are the window's, the sheet's and the command line's only; its file
+    # has no column of the n used, and its permissible shear is the bed's, the sheet's bed row)
+    row = _batch_row(channel, argv, units, user_catalogue, tmp_path, capsys)
+    _close(panel["bed_shear"].split()[0], float(row["bed_shear"]))
+    _close(table["bed"][1], float(row["permissible_shear"]))
+    if channel.bend_radius is None:
+        _close(sf, float(row["safety_factor"]))
