@@ -3,13 +3,15 @@
 Two channels of the demo project (invented site), in SI and in US customary units, with a user catalogue that
 holds an invented unit cost. The window and the sheet print the results by the one rounding rule
 (app.results.PANEL_FIELDS), so each of their values is the same text; the command line and the batch write more
-digits, so each printed number must lie within half a unit of its last printed digit of the value the others print; the verdict is the same member
-of the one vocabulary (app/verdicts.py) in each; the cost per length is the same. The numbers themselves are
-checked against published cases elsewhere (tests/test_published_cases.py, tests/test_sheet.py).
+digits, so each printed number must lie within half a unit of its last printed digit of the value the others
+print; the verdict is the same member of the one vocabulary (app/verdicts.py) in each; the cost per length is the
+same. The numbers themselves are checked against published cases elsewhere (tests/test_published_cases.py,
+tests/test_sheet.py).
 
 The lining check is held together the same way, `compare --json` included, on a riprap channel with a bend, a
 gravel one and a grass variant (invented): Manning's n used, the design shears, the governing permissible shear,
-the safety factors and the stone sizes.
+the safety factors and the stone sizes. So is the demo's ditch run in the window's run panel, on the run sheet
+and in `run --json`: its lining schedule, total cost, water-surface controls and jumps, warnings and verdict.
 """
 
 from __future__ import annotations
@@ -263,3 +265,107 @@ def test_every_front_end_rounds_the_lining_check_alike(name, units, user_catalog
     _close(table["bed"][1], float(row["permissible_shear"]))
     if channel.bend_radius is None:
         _close(sf, float(row["safety_factor"]))
+
+
+# -- a ditch run: the window's run panel, the run sheet and `run --json` ------------------------------------------
+RUN = "North verge ditch"       # the demo's invented run
+
+
+def _plain(label) -> list:
+    """The lines of a rich-text label as it reads (no-break spaces and word joiners as plain spaces)."""
+    from PySide6.QtGui import QTextDocument
+    doc = QTextDocument()
+    doc.setHtml(label.text())
+    return [t for t in (_spaced(line) for line in doc.toPlainText().splitlines()) if t]
+
+
+def _spaced(text: str) -> str:
+    return re.sub(r"\s+", " ", text.replace("\u00a0", " ").replace("\u2060", "")).strip()
+
+
+def _station(text: str) -> float:
+    """'12+34.56' -> 1234.56 (a station as a distance in the run's length unit)."""
+    head, tail = text.split("+")
+    return int(head) * 10 ** len(tail.split(".")[0]) + float(tail)
+
+
+@pytest.mark.parametrize("units", ["si", "us"])
+def test_a_run_reads_alike_in_the_window_the_sheet_and_the_run_command(units, demo_window, qtbot, tmp_path, capsys):
+    """The lining schedule (stations, lining, length, quantities, cost), the total, the water surface's controls and
+    jumps and the warnings of the demo's run read the same in the window's run panel and on the run sheet (one
+    Qt-free statement of them, app.run_summary, rounded by the rules of app.results), and `run --json` gives the
+    numbers they round; the run's verdict agrees with the stations of the JSON."""
+    from run_waiting import shown
+    from app.sheet.content import pretty_unit
+
+    w = demo_window
+    w.doc.set_units(units)
+    view = shown(w, qtbot)
+    panel = {k: _plain(getattr(view.results, k)) for k in ("schedule", "surface", "warnings")}
+    flat = {k: " ".join(v) for k, v in panel.items()}
+    u = system(units)
+    L = pretty_unit(u.label("length"))
+
+    project = P.load(P.demo_path())
+    project.units = units
+    pdf = tmp_path / "run.pdf"
+    export_sheets(project, pdf, channels=[], runs=[RUN])
+    sheet = _spaced(" ".join(p.extract_text() for p in PdfReader(pdf).pages))
+    schedule = sheet.split("LINING SCHEDULE", 1)[1].split("THE RUN", 1)[0]
+
+    assert main(["run", str(P.demo_path()), "--run", RUN, "--units", units, "--json"]) == 0
+    (data,) = json.loads(capsys.readouterr().out)["runs"]
+
+    # the schedule, stretch by stretch: "from to to, length", the lining, its quantities, "cost $ ..."
+    lines, stretches = panel["schedule"], []
+    for i, line in enumerate(lines):
+        m = re.fullmatch(r"(\d+\+[\d.]+) to (\d+\+[\d.]+), ([0-9.]+) " + re.escape(L), line)
+        if m:
+            end = next(k for k in range(i, len(lines)) if lines[k].startswith("cost $ "))
+            stretches.append((*m.groups(), lines[i + 1], lines[i + 2:end], lines[end][len("cost "):]))
+    assert len(stretches) == len(data["schedule"]) >= 2
+    for (a, b, length, lining, quantities, cost), js in zip(stretches, data["schedule"]):
+        assert f"{a} {b} {lining} {length} " in schedule        # number, from, to, lining, length, then quantities
+        assert all(q in schedule for q in quantities) and quantities
+        assert cost in schedule
+        _close(str(_station(a)), js["from_station"])
+        _close(str(_station(b)), js["to_station"])
+        _close(length, js["length"])
+        for q, jq in zip(quantities, js["quantities"]):
+            item, amount, unit = re.fullmatch(r"(.+): ([0-9,.]+) (\S+)", q).groups()
+            assert (item, unit) == (jq["item"], pretty_unit(jq["unit"]))
+            _close(amount.replace(",", ""), jq["amount"])
+        _close(cost[2:].replace(",", ""), js["cost"])
+    total = re.search(r"Total cost (\$ [0-9,]+)", flat["schedule"]).group(1)
+    assert f"Total cost of the run {total}" in schedule
+    _close(total[2:].replace(",", ""), data["total_cost"])
+
+    # the water surface: controls and jumps, with the depths and levels of the JSON
+    for c in data["controls"]:
+        line = next(t for t in panel["surface"] if t.lower().startswith(c["where"]))
+        text = line[:1].lower() + line[1:].rstrip(".")
+        assert text in sheet
+        level, depth = re.search(r"level ([0-9.]+) \S+ \(depth ([0-9.]+)", text).groups()
+        _close(level, c["level"])
+        _close(depth, c["depth"])
+    jumps = [t[len("Hydraulic jump "):].rstrip(".") for t in panel["surface"] if t.startswith("Hydraulic jump ")]
+    assert len(jumps) == len(data["jumps"]) >= 1
+    for text, j in zip(jumps, data["jumps"]):
+        assert text in sheet
+        up, down, length = re.search(r": ([0-9.]+) \S+ to ([0-9.]+) \S+ over ([0-9.]+)", text).groups()
+        _close(up, j["upstream_depth"])
+        _close(down, j["downstream_depth"])
+        _close(length, j["length"])
+
+    # the warnings: the same sentences in each (the panel's start with a capital and end with a full stop)
+    assert data["warnings"]
+    for warning in data["warnings"]:
+        words = _spaced(pretty_unit(warning))
+        assert words[1:] in flat["warnings"]
+        assert words in sheet
+
+    # the verdict: every station of the JSON stable and fitting the ditch, so the run is stable
+    assert all(s["stable"] is not False and s["fits"] is not False for s in data["stations"])
+    assert view.results.headline.text() == "Every station stable"
+    assert view.results.verdict.property("status") == Verdict.STABLE.status
+    assert "NOT STABLE" not in sheet and "TOO SHALLOW" not in sheet
