@@ -13,8 +13,8 @@ from hydraulics.provenance import NOT_VERIFIED_MARK, NOT_VERIFIED_TITLE
 from hydraulics.units import UnitSystem
 from hydraulics.wording import in_units
 
-from ..channel_display import Evaluation
-from ..results import PANEL_FIELDS, format_value, panel_field, rounded
+from ..channel_display import OPTIONAL_VALUES, Evaluation, panel_values
+from ..results import PANEL_FIELDS, format_value
 from .fields import keep_units_whole, number_marks, pretty
 
 CAUTION = ("Results assist design only. Check them against the local drainage code and design manual; "
@@ -22,43 +22,6 @@ CAUTION = ("Results assist design only. Check them against the local drainage co
 
 #: What the panel lists, in reading order: (key, how it is labelled and formatted), the one list of app.results.
 ROWS = tuple((f.key, f) for f in PANEL_FIELDS)
-#: Rows left out when they do not apply (no lining, no bend, not stone, no price).
-OPTIONAL = {"side_shear", "bend_shear", "required_d50", "layer_thickness", "bend_protection_length", "lined_width",
-            "layer_volume", "cost_per_length"}
-
-
-_SF = panel_field("safety_factor")
-
-
-def result_values(ev: Evaluation, decimal_mark: str = ".") -> dict:
-    """Every listed value of an evaluation (SI, or words), None where it does not apply; words that carry a
-    number (the safety factor with the one needed) write it with ``decimal_mark``."""
-    r = ev.result
-    out = {key: getattr(r, key, None) for key, _ in ROWS}
-    out.update(flow=ev.flow, freeboard=ev.freeboard, total_depth=ev.total_depth,
-               top_width_at_top=ev.top_width_at_top)
-    for key in ("side_shear", "bend_shear", "permissible_shear", "safety_factor", "required_d50",
-                "layer_thickness", "bend_protection_length", "lined_width", "layer_volume", "cost_per_length"):
-        out[key] = None
-    st = ev.lining
-    if st is not None:
-        out.update(bed_shear=st.bed_shear, side_shear=st.side_shear, bend_shear=st.bend_shear,
-                   required_d50=st.required_d50, layer_thickness=st.layer_thickness,
-                   cost_per_length=st.cost_per_length, manning_n=st.manning_n,
-                   bend_protection_length=st.bend_protection_length, lined_width=st.lined_width,
-                   layer_volume=st.layer_volume)
-        gov = st.governing_check()  # the permissible shear and safety factor shown are those of the check that governs
-        if st.verdict == "non-erodible" or gov is None:
-            out["permissible_shear"] = "non-erodible"
-            out["safety_factor"] = "—"
-        else:
-            out["permissible_shear"] = gov.permissible_shear
-            out["safety_factor"] = (f"{rounded(gov.safety_factor, _SF, decimal_mark)} "
-                                    f"(need {rounded(gov.required_safety_factor, _SF, decimal_mark)})"
-                                    if gov.safety_factor is not None else None)
-    return out
-
-
 class ResultsPanel(QWidget):
     """Verdict, numbers and cautions in a scrolling column, with the design caution always in view below."""
 
@@ -168,11 +131,11 @@ class ResultsPanel(QWidget):
             self.stale.show()
         self.numbers.setEnabled(usable)
         mark = number_marks()[0]      # the user's decimal mark, as the fields read numbers
-        values = result_values(shown, mark) if shown is not None and shown.ok else {}
+        values = panel_values(shown, mark) if shown is not None and shown.ok else {}
         for key, f in ROWS:
             v = values.get(key)
             self.values[key].setText("—" if v is None else pretty(format_value(v, f, units, mark)))
-            applies = key not in OPTIONAL or v is not None
+            applies = key not in OPTIONAL_VALUES or v is not None
             self.values[key].setVisible(applies)
             self.names[key].setVisible(applies)
         lin = shown.lining if shown is not None and shown.ok else None
