@@ -254,7 +254,8 @@ def test_cautions_and_out_of_range_warnings(pages, us_pages):
     # not verified): flagged, restated in the sheet's units
     assert "Velocity 1.56 ft/s is below 2.00 ft/s, so silt may settle" in text
     # the evaluation's notes: the lining's own n replaces the channel's
-    assert "Note: The lining's own n (0.06963) is used; the channel's Manning's n 0.035 applies only" in text
+    # (the n used as the results print it, app.results.PANEL_FIELDS)
+    assert "Note: The lining's own n (0.0696) is used; the channel's Manning's n 0.035 applies only" in text
     # every SI amount in a US sheet's cautions has its US equivalent beside it (nothing left to annotate)
     cautions = text.split("CAUTIONS, NOTES AND SOURCES")[1].split("Design fingerprint")[0]
     assert in_units(cautions, system("us")) == cautions
