@@ -237,6 +237,44 @@ def with_lining(channel: Channel, choice: LiningChoice) -> Channel:
     return out
 
 
+# -- the results panel's values -------------------------------------------------------
+#: Values of the results panel left out when they do not apply (no lining, no bend, not stone, no price).
+OPTIONAL_VALUES = {"side_shear", "bend_shear", "required_d50", "layer_thickness", "bend_protection_length",
+                   "lined_width", "layer_volume", "cost_per_length"}
+_SF = panel_field("safety_factor")
+
+
+def panel_values(ev: Evaluation, decimal_mark: str = ".") -> dict:
+    """Every value of :data:`app.results.PANEL_FIELDS` for an evaluation (SI, or words), None where it does not
+    apply: with a lining, the shears, n and sizes of its check, and the permissible shear and safety factor of the
+    check that governs; words that carry a number (the safety factor with the one needed) write it by the one
+    rounding rule with ``decimal_mark``."""
+    r = ev.result
+    out = {f.key: getattr(r, f.key, None) for f in PANEL_FIELDS}
+    out.update(flow=ev.flow, freeboard=ev.freeboard, total_depth=ev.total_depth,
+               top_width_at_top=ev.top_width_at_top)
+    for key in ("side_shear", "bend_shear", "permissible_shear", "safety_factor", "required_d50",
+                "layer_thickness", "bend_protection_length", "lined_width", "layer_volume", "cost_per_length"):
+        out[key] = None
+    st = ev.lining
+    if st is not None:
+        out.update(bed_shear=st.bed_shear, side_shear=st.side_shear, bend_shear=st.bend_shear,
+                   required_d50=st.required_d50, layer_thickness=st.layer_thickness,
+                   cost_per_length=st.cost_per_length, manning_n=st.manning_n,
+                   bend_protection_length=st.bend_protection_length, lined_width=st.lined_width,
+                   layer_volume=st.layer_volume)
+        gov = st.governing_check()
+        if st.verdict == "non-erodible" or gov is None:
+            out["permissible_shear"] = "non-erodible"
+            out["safety_factor"] = "\u2014"
+        else:
+            out["permissible_shear"] = gov.permissible_shear
+            out["safety_factor"] = (f"{rounded(gov.safety_factor, _SF, decimal_mark)} "
+                                    f"(need {rounded(gov.required_safety_factor, _SF, decimal_mark)})"
+                                    if gov.safety_factor is not None else None)
+    return out
+
+
 # -- the evaluation ------------------------------------------------------------
 def evaluate(channel: Channel, context: Context) -> Evaluation:
     """Flow, normal and critical depth, the lining check and a verdict in the context's units, with its
@@ -268,37 +306,6 @@ def evaluate(channel: Channel, context: Context) -> Evaluation:
     ev.roughness = solver_roughness(channel, context.catalogue)
     ev.verdict = _verdict(ev, context.units)
     return ev
-
-
-def panel_values(ev: Evaluation, decimal_mark: str = ".") -> dict:
-    """Every value of :data:`app.results.PANEL_FIELDS` for a solved evaluation (SI, or words), by key, None where
-    it does not apply; the permissible shear and safety factor are those of the check that governs, and words
-    that carry a number (the safety factor with the one needed) write it with ``decimal_mark``."""
-    r = ev.result
-    sf = panel_field("safety_factor")
-    out = {f.key: getattr(r, f.key, None) for f in PANEL_FIELDS}
-    out.update(flow=ev.flow, freeboard=ev.freeboard, total_depth=ev.total_depth,
-               top_width_at_top=ev.top_width_at_top)
-    for key in ("side_shear", "bend_shear", "permissible_shear", "safety_factor", "required_d50",
-                "layer_thickness", "bend_protection_length", "lined_width", "layer_volume", "cost_per_length"):
-        out[key] = None
-    st = ev.lining
-    if st is not None:
-        out.update(bed_shear=st.bed_shear, side_shear=st.side_shear, bend_shear=st.bend_shear,
-                   required_d50=st.required_d50, layer_thickness=st.layer_thickness,
-                   cost_per_length=st.cost_per_length, manning_n=st.manning_n,
-                   bend_protection_length=st.bend_protection_length, lined_width=st.lined_width,
-                   layer_volume=st.layer_volume)
-        gov = st.governing_check()  # the permissible shear and safety factor shown are those of the check that governs
-        if st.verdict == "non-erodible" or gov is None:
-            out["permissible_shear"] = "non-erodible"
-            out["safety_factor"] = "—"
-        else:
-            out["permissible_shear"] = gov.permissible_shear
-            out["safety_factor"] = (f"{rounded(gov.safety_factor, sf, decimal_mark)} "
-                                    f"(need {rounded(gov.required_safety_factor, sf, decimal_mark)})"
-                                    if gov.safety_factor is not None else None)
-    return out
 
 
 def check_section(channel: Channel) -> tuple[str, str | None] | None:

@@ -29,7 +29,7 @@ from hydraulics.wording import in_units, worded
 
 from .project import Channel
 from .verdicts import Verdict, verdict_of, with_tokens
-from .results import CHANNEL_FIELDS, convert
+from .results import CHANNEL_FIELDS, convert, panel_field, rounded
 
 __all__ = ["ChannelDesign", "evaluate_channel", "load_default_catalogue", "design_flow"]
 
@@ -206,7 +206,8 @@ def evaluate_channel(channel: Channel, catalogue: Catalogue | None = None) -> Ch
         warns += stability.warnings
         notes += stability.notes + [f"freeboard: {stability.freeboard_rule()}"]
         if channel.manning_n is not None:
-            notes.append(f"the lining's own n ({stability.manning_n:.4g}) is used; the channel's Manning's n "
+            n_used = rounded(stability.manning_n, panel_field("manning_n"))   # as the results print the n used
+            notes.append(f"the lining's own n ({n_used}) is used; the channel's Manning's n "
                          f"{channel.manning_n:g} applies only without a lining")
     else:
         if channel.manning_n is None and not isinstance(section, hy.Irregular):

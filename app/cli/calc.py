@@ -7,9 +7,9 @@ from hydraulics import provenance
 from hydraulics import units as hu
 from hydraulics.errors import InputError
 from hydraulics.stability import check_lining
-from hydraulics.wording import format_quantity, in_units
+from hydraulics.wording import in_units
 
-from ..results import CHANNEL_FIELDS, convert, format_value
+from ..results import CHANNEL_FIELDS, convert, format_value, panel_field, rounded
 from ..lining_names import STONE_SIZE, name_in_units
 from ..verdicts import Verdict, verdict_of, with_tokens
 from . import COMMAND_HELP
@@ -111,13 +111,16 @@ def lining_json(stab, units) -> dict:
 
 
 def stability_rows(stab, units) -> list:
-    """(label, value) rows of a lining check, in the user's units."""
+    """(label, value) rows of a lining check, in the user's units, rounded as the window's results panel and the
+    sheet round them (app.results.PANEL_FIELDS)."""
     L = lambda v: f"{units.from_si('length', v):.3f} {units.label('length')}"  # noqa: E731
     # stone sizes and layer thicknesses in mm or inches, to a tenth, as the window's results panel and the sheet
     stone = lambda v: format_value(v, STONE_SIZE, units)  # noqa: E731
-    T = lambda v: format_quantity(v, "shear", units)  # noqa: E731
+    shown = lambda v, key: format_value(v, panel_field(key), units)  # noqa: E731
+    T = lambda v: shown(v, "bed_shear")  # noqa: E731
+    sf = lambda v: rounded(v, panel_field("safety_factor"))  # noqa: E731
     rows = [("Lining", f"{name_in_units(stab.lining_name, units)} ({stab.lining_key})"),
-            ("Manning's n used", f"{stab.manning_n:.4f}, {stab.n_source}")]
+            ("Manning's n used", f"{shown(stab.manning_n, 'manning_n')}, {stab.n_source}")]
     if stab.d50 is not None:
         rows.append(("D50", stone(stab.d50)))
     rows.append(("Bed shear (HEC-15 Eq. 3.1)", T(stab.bed_shear)))
@@ -125,13 +128,13 @@ def stability_rows(stab, units) -> list:
         rows.append(("Side-slope shear (K1)", T(stab.side_shear)))
     if stab.bend_shear is not None:
         rows.append(("Bend shear (Kb)", f"{T(stab.bend_shear)} (Kb = {stab.bend_factor:.2f})"))
-        rows.append(("Protection below the bend", L(stab.bend_protection_length)))
+        rows.append(("Protection below the bend", shown(stab.bend_protection_length, "bend_protection_length")))
     if stab.permissible_shear is not None:
         rows.append(("Permissible shear", T(stab.permissible_shear)))
     if stab.permissible_shear_side is not None:
         rows.append(("Permissible on side slopes", T(stab.permissible_shear_side)))
     if stab.safety_factor is not None:
-        rows.append(("Safety factor", f"{stab.safety_factor:.2f} ({stab.required_safety_factor:.2f} needed)"))
+        rows.append(("Safety factor", f"{sf(stab.safety_factor)} ({sf(stab.required_safety_factor)} needed)"))
     rows.append(("Verdict", stab.reason(units)))
     if stab.required_d50 is not None:
         rows.append(("Smallest stable D50", stone(stab.required_d50)))
@@ -139,8 +142,9 @@ def stability_rows(stab, units) -> list:
         rows.append(("Layer thickness", stone(stab.layer_thickness)))
     if stab.superelevation is not None:
         rows.append(("Superelevation in the bend", L(stab.superelevation)))
-    rows += [("Freeboard", L(stab.freeboard)), ("Total ditch depth", L(stab.total_depth)),
-             ("Top width at top of ditch", L(stab.top_width_at_top))]
+    rows += [("Freeboard", shown(stab.freeboard, "freeboard")),
+             ("Total ditch depth", shown(stab.total_depth, "total_depth")),
+             ("Top width at top of ditch", shown(stab.top_width_at_top, "top_width_at_top"))]
     return rows
 
 

@@ -97,13 +97,10 @@ def _csv_text(designs, units) -> str:
     return out.getvalue()
 
 
-def _money(value: float) -> str:
-    from ..results import money_text
-
-    return money_text(value)
-
-
 def _text(design, units) -> str:
+    from ..run_summary import run_summary
+
+    summary = run_summary(design, units)
     res = design.result
     run = design.run
     L = lambda v: f"{float(units.from_si('length', v)):.2f} {units.label('length')}"  # noqa: E731
@@ -111,12 +108,11 @@ def _text(design, units) -> str:
              f"{format_station(res.layout.last_station, units)}, {run.return_period:g}-year storm, outfall at "
              f"{format_station(run.outfall.station, units)}{f' ({run.outfall.kind})' if run.outfall.kind else ''}",
              "", "Lining schedule"]
-    for s in design.schedule_values(units):
-        lines.append(f"  {format_station(units.to_si('length', s['from_station']), units):>10} to "
-                     f"{format_station(units.to_si('length', s['to_station']), units):>10}  "
-                     f"{s['lining_name']}, {s['length']:.2f} {units.label('length')}, {_money(s['cost'])}")
-        lines.append("      " + "; ".join(f"{q['item']} {q['amount']:,.1f} {q['unit']}" for q in s["quantities"]))
-    lines.append(f"  Total cost: {_money(res.total_cost)}")
+    for s in summary.stretches:   # the schedule as the window's results panel and the run sheet state it
+        lines.append(f"  {s['from_station']:>10} to {s['to_station']:>10}  {s['lining']}, {s['length']} "
+                     f"{summary.length_unit}, {s['cost']}")
+        lines.append("      " + "; ".join(f"{item} {amount} {unit}" for item, amount, unit in s["quantities"]))
+    lines.append(f"  Total cost: {summary.total_cost}")
     rows = design.station_rows(units)
     from ..results import RUN_STATION_FIELDS
     heads = []
@@ -137,13 +133,11 @@ def _text(design, units) -> str:
         lines.append("  " + "  ".join(x.rjust(w) for x, w in zip(c, widths)) + mark)
     lines.append("  (Depth: water depth from the water-surface profile, used for the fit of the ditch; the shear "
                  "check uses normal depth, HEC-15's design depth)")
-    lines += ["", "Water-surface controls"] + [f"  - {t}" for t in design.control_rows(units)]
-    jumps = design.jump_rows(units)
-    lines += ["", "Hydraulic jumps"] + ([f"  - {t}" for t in jumps] or ["  - none"])
-    if design.warnings:
-        lines += ["", "Warnings"] + [f"  - {w}" for w in design.to_dict(units)["warnings"]]
-    lines += ["", "Method"] + [f"  - {n}" for n in design.to_dict(units)["notes"]]
-    nv = design.to_dict(units)["not_verified"]
-    if nv:
-        lines += ["", "Not verified against the circular"] + [f"  - {n}" for n in nv]
+    lines += ["", "Water-surface controls"] + [f"  - {t}" for t in summary.controls]
+    lines += ["", "Hydraulic jumps"] + ([f"  - {t}" for t in summary.jumps] or ["  - none"])
+    if summary.warnings:
+        lines += ["", "Warnings"] + [f"  - {w}" for w in summary.warnings]
+    lines += ["", "Method"] + [f"  - {n}" for n in summary.notes]
+    if summary.not_verified:
+        lines += ["", "Not verified against the circular"] + [f"  - {n}" for n in summary.not_verified]
     return "\n".join(lines)

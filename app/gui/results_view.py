@@ -13,7 +13,7 @@ from hydraulics.provenance import NOT_VERIFIED_MARK, NOT_VERIFIED_TITLE
 from hydraulics.units import UnitSystem
 from hydraulics.wording import in_units
 
-from ..channel_display import Evaluation, panel_values
+from ..channel_display import OPTIONAL_VALUES, Evaluation, panel_values
 from ..results import PANEL_FIELDS, format_value
 from .fields import keep_units_whole, number_marks, pretty
 
@@ -22,11 +22,6 @@ CAUTION = ("Results assist design only. Check them against the local drainage co
 
 #: What the panel lists, in reading order: (key, how it is labelled and formatted), the one list of app.results.
 ROWS = tuple((f.key, f) for f in PANEL_FIELDS)
-#: Rows left out when they do not apply (no lining, no bend, not stone, no price).
-OPTIONAL = {"side_shear", "bend_shear", "required_d50", "layer_thickness", "bend_protection_length", "lined_width",
-            "layer_volume", "cost_per_length"}
-
-
 class ResultsPanel(QWidget):
     """Verdict, numbers and cautions in a scrolling column, with the design caution always in view below."""
 
@@ -140,7 +135,7 @@ class ResultsPanel(QWidget):
         for key, f in ROWS:
             v = values.get(key)
             self.values[key].setText("—" if v is None else pretty(format_value(v, f, units, mark)))
-            applies = key not in OPTIONAL or v is not None
+            applies = key not in OPTIONAL_VALUES or v is not None
             self.values[key].setVisible(applies)
             self.names[key].setVisible(applies)
         lin = shown.lining if shown is not None and shown.ok else None

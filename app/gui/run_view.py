@@ -1,10 +1,11 @@
 """The window's view of a ditch run: its inputs, its profile over the station table, its lining schedule.
 
 Built on the Qt-free layer only: :func:`app.run_design.design_run` solves the run (in a worker thread, so the
-window stays live), ``station_rows`` gives the table's text as every front end shows it, and
-:func:`app.run_drawing.profile_model` the one drawing of the profile. Edits of grade points, candidates' unit
-costs and sub-areas go through the document, one undoable command each (:mod:`app.run_editing` makes the
-changed run). An entry that cannot be used is refused where it was typed, the document is left as it was, and
+window stays live), ``station_rows`` gives the table's text as every front end shows it,
+:func:`app.run_summary.run_summary` the results panel's verdict, schedule and cautions (as the run sheet and the
+``run`` command word them) and each station's verdict, and :func:`app.run_drawing.profile_model` the one drawing
+of the profile. Edits of grade points, candidates' unit costs and sub-areas go through the document, one undoable
+command each (:mod:`app.run_editing` makes the changed run). An entry that cannot be used is refused where it was typed, the document is left as it was, and
 the last good result stays in view, greyed.
 """
 
@@ -25,13 +26,14 @@ from PySide6.QtWidgets import (QAbstractItemView, QComboBox, QDialog, QFormLayou
 import hydraulics as hy
 from hydraulics.provenance import NOT_VERIFIED_MARK, NOT_VERIFIED_TITLE
 from hydraulics.units import UnitSystem
-from hydraulics.wording import format_station, in_units
+from hydraulics.wording import format_station
 
 from ..channel_display import lining_groups
 from ..project import OUTFALL_CONTROLS, RunCandidate
 from ..results import RUN_STATION_FIELDS
 from ..run_design import CONTROL_WORDS, RunDesign, design_run, section_words
 from ..run_drawing import profile_model
+from ..run_summary import RunSummary, run_summary
 from ..run_editing import (ADDABLE, OUTFALL_LEVEL_PATH, REPLACEABLE, RUN_ITEMS, RUN_SETTINGS, StationNotOpenable,
                            cost_quantity, item_path, run_value, starting_run, station_channel, with_item_added,
                            with_item_removed, with_item_replaced, with_outfall_control, with_run_value)
@@ -51,23 +53,12 @@ STATION_COLUMNS = ("station", "check", "flow", "slope", "lining", "normal_depth"
                    "permissible_shear", "safety_factor", "stable", "freeboard", "ditch_depth", "fits", "overtopped",
                    "invert", "ca", "tc", "intensity",
                    "manning_n", "required_d50", "dimensions")
-#: Row marks: (verdict, background). The words are the verdict vocabulary's (app.verdicts).
-ROW_MARKS = {"unstable": (Verdict.UNSTABLE, "#fbdcda"), "too-shallow": (Verdict.TOO_SHALLOW, "#fbe3cc"),
-             "not-checked": (Verdict.NOT_CHECKED, "#fff6e0"), "stable": (Verdict.STABLE, None)}
+#: The background of a station's row by its verdict (app.run_summary.station_verdict; the words are the vocabulary's).
+ROW_COLOURS = {Verdict.UNSTABLE: "#fbdcda", Verdict.TOO_SHALLOW: "#fbe3cc", Verdict.NOT_CHECKED: "#fff6e0",
+               Verdict.STABLE: None}
 GREY = QColor("#a3a9ae")
 #: Opens the chosen station of the table as a channel (not used by any other action of the window).
 OPEN_STATION_KEY = "Ctrl+Shift+O"
-
-
-def row_mark(row: dict) -> str:
-    """The key of ROW_MARKS for one station row (text cells of ``station_rows``)."""
-    if row.get("stable") == "no":
-        return "unstable"
-    if row.get("fits") == "no":
-        return "too-shallow"
-    if row.get("not_checked"):
-        return "not-checked"
-    return "stable"
 
 
 def column_heading(key: str, units: UnitSystem) -> str:
@@ -83,19 +74,20 @@ def column_heading(key: str, units: UnitSystem) -> str:
 
 
 class StationTableModel(QAbstractTableModel):
-    """The station table over ``station_rows(units)``: text as given, failing rows marked in words and colour;
-    ``stale`` greys every cell (the last good result, while the inputs are not usable)."""
+    """The station table over ``station_rows(units)``: text as given, failing rows marked in words and colour by
+    their verdicts; ``stale`` greys every cell (the last good result, while the inputs are not usable)."""
 
     def __init__(self, parent=None):
         super().__init__(parent)
         self.rows: list[dict] = []
+        self.verdicts: list[Verdict] = []
         self.headings: list[str] = [k for k in STATION_COLUMNS]
         self.lining_names: dict[str, str] = {}
         self.stale = False
 
-    def set_rows(self, rows: list[dict], units: UnitSystem, lining_names: dict) -> None:
+    def set_rows(self, rows: list[dict], verdicts: list, units: UnitSystem, lining_names: dict) -> None:
         self.beginResetModel()
-        self.rows = rows
+        self.rows, self.verdicts = rows, list(verdicts)
         self.lining_names = lining_names
         self.headings = [column_heading(k, units) for k in STATION_COLUMNS]
         self.stale = False
@@ -116,7 +108,7 @@ class StationTableModel(QAbstractTableModel):
     def text(self, row: int, key: str) -> str:
         r = self.rows[row]
         if key == "check":
-            return ROW_MARKS[row_mark(r)][0].words
+            return self.verdicts[row].words
         if key == "lining":
             return self.lining_names.get(r["lining"], r["lining"])
         if key == "dimensions":
@@ -134,15 +126,15 @@ class StationTableModel(QAbstractTableModel):
             left = key in ("check", "lining", "regime", "dimensions", "stable", "fits", "profile_type", "overtopped")
             return int((Qt.AlignmentFlag.AlignLeft if left else Qt.AlignmentFlag.AlignRight)
                        | Qt.AlignmentFlag.AlignVCenter)
-        mark = row_mark(r)
+        mark = self.verdicts[index.row()]
         if role == Qt.ItemDataRole.BackgroundRole:
-            colour = ROW_MARKS[mark][1]
+            colour = ROW_COLOURS[mark]
             return QBrush(QColor(colour)) if colour and not self.stale else None
         if role == Qt.ItemDataRole.ForegroundRole:
             if self.stale:
                 return QBrush(GREY)
-            return QBrush(QColor("#8c1d16")) if mark in ("unstable", "too-shallow") and key == "check" else None
-        if role == Qt.ItemDataRole.FontRole and key == "check" and mark != "stable":
+            return QBrush(QColor("#8c1d16")) if mark.status == "fail" and key == "check" else None
+        if role == Qt.ItemDataRole.FontRole and key == "check" and mark is not Verdict.STABLE:
             from PySide6.QtGui import QFont
             font = QFont()
             font.setBold(True)
@@ -926,67 +918,51 @@ class RunResultsPanel(QWidget):
         self.headline.setText(headline)
         self.reason.setText(keep_units_whole(reason))
 
-    def show_design(self, design: RunDesign | None, rows: list, units: UnitSystem, problem: str = "") -> None:
-        """Show ``design`` (the last good one when ``problem`` says why the present inputs have none)."""
+    def show_design(self, summary: RunSummary | None, problem: str = "") -> None:
+        """Show ``summary`` (:func:`app.run_summary.run_summary` of the run; the last good one when ``problem``
+        says why the present inputs have none)."""
         if problem:
             self.set_verdict("none", "No result for these inputs", problem)
             self.stale.setText("Showing the last good result, greyed, until the inputs are usable again."
-                               if design is not None else "No result yet.")
+                               if summary is not None else "No result yet.")
             self.stale.show()
         else:
             self.stale.hide()
         for w in self.body_widgets:
             w.setEnabled(not problem)
-        if design is None:
+        if summary is None:
             for w in self.body_widgets:
                 w.setText("")
             return
-        marks = [row_mark(r) for r in rows]
-        bad = sum(m in ("unstable", "too-shallow") for m in marks)
-        unchecked = [r for r, m in zip(rows, marks) if m == "not-checked" and r.get("flow") not in ("", "0.000")]
-        sched = design.schedule_values(units)
         if not problem:
-            if bad:
-                self.set_verdict("fail", f"{bad} station{'s' if bad != 1 else ''} fail",
-                                 "No candidate lining is stable there, or the water and its freeboard do not fit the "
-                                 "ditch as built: see the rows marked in the station table and on the profile.")
-            elif unchecked:
-                self.set_verdict("unchecked", f"{len(unchecked)} station{'s' if len(unchecked) != 1 else ''} "
-                                 "not checked", "Stations with flow but no normal depth (zero or adverse grade).")
-            else:
-                self.set_verdict("pass", "Every station stable",
-                                 f"{len(rows)} design points, {len(sched)} lining stretch"
-                                 f"{'es' if len(sched) != 1 else ''}, total {money(design.result.total_cost)}.")
-        L = pretty(units.label("length"))
+            self.set_verdict(summary.verdict.status, summary.headline, summary.reason)
+        L = pretty(summary.length_unit)
         items = []
-        for s in sched:
-            a = format_station(units.to_si("length", s["from_station"]), units)
-            b = format_station(units.to_si("length", s["to_station"]), units)
-            qty = "".join(f"<br>&nbsp;&nbsp;{_escape(q['item'])}: {q['amount']:,.1f}&nbsp;{pretty(q['unit'])}"
-                          for q in s["quantities"])
-            items.append(f"<p style='margin:0 0 6px 0'><b>{a} to {b}</b>, {s['length']:,.2f}&nbsp;{L}<br>"
-                         f"{_escape(s['lining_name'])}{qty}<br>cost <b>{money(s['cost'])}</b></p>")
-        items.append(f"<p style='margin:2px 0 0 0'><b>Total cost {money(design.result.total_cost)}</b></p>")
+        for s in summary.stretches:
+            qty = "".join(f"<br>&nbsp;&nbsp;{_escape(item)}: {amount}&nbsp;{pretty(unit)}"
+                          for item, amount, unit in s["quantities"])
+            items.append(f"<p style='margin:0 0 6px 0'><b>{s['from_station']} to {s['to_station']}</b>, "
+                         f"{s['length']}&nbsp;{L}<br>{_escape(s['lining'])}{qty}<br>cost <b>{nbsp(s['cost'])}</b></p>")
+        items.append(f"<p style='margin:2px 0 0 0'><b>Total cost {nbsp(summary.total_cost)}</b></p>")
         self.schedule.setText("".join(items))
-        jumps = [f"Hydraulic jump {j}" for j in design.jump_rows(units)]
-        self.surface.setText(bullets(design.control_rows(units) + jumps))
-        self.warnings.setText(bullets([in_units(w, units) for w in design.warnings]) or "None from the checks made.")
-        self.notes.setText(bullets([in_units(n, units) for n in design.notes]))
-        unverified = [in_units(n, units) for n in design.not_verified]
-        self.unverified.setText(bullets(unverified))
-        self.unverified.setVisible(bool(unverified))
-        self.unverified_heading.setVisible(bool(unverified))
+        self.surface.setText(bullets([*summary.controls, *(f"Hydraulic jump {j}" for j in summary.jumps)]))
+        self.warnings.setText(bullets(list(summary.warnings)) or "None from the checks made.")
+        self.notes.setText(bullets(list(summary.notes)))
+        self.unverified.setText(bullets(list(summary.not_verified)))
+        self.unverified.setVisible(bool(summary.not_verified))
+        self.unverified_heading.setVisible(bool(summary.not_verified))
 
 
-def money(value: float) -> str:
-    """A cost as the command line writes it: "$ 12,345", "no price" when there is none."""
-    return "no price" if value != value else f"$\u00a0{value:,.0f}"
+def nbsp(text: str) -> str:
+    """``text`` kept on one line ("$ 12,345")."""
+    return text.replace(" ", "\u00a0")
 
 
 def bullets(lines: list) -> str:
+    """Sentences as a list, each with a capital and a full stop, its units as people write them (as the sheet)."""
     if not lines:
         return ""
-    items = "".join(f"<li>{_escape(sentence(w[:1].upper() + w[1:]))}</li>" for w in lines)
+    items = "".join(f"<li>{_escape(sentence(pretty(w[:1].upper() + w[1:])))}</li>" for w in lines)
     return f"<ul style='margin-left:-24px'>{items}</ul>"
 
 
@@ -1357,8 +1333,8 @@ class RunView(QWidget):
         stale = bool(self.complaint)
         if shown is None:
             self.values = []
-            self.model.set_rows([], units, {})
-            self.results.show_design(None, [], units, self.complaint or ("This project has no ditch runs."
+            self.model.set_rows([], [], units, {})
+            self.results.show_design(None, self.complaint or ("This project has no ditch runs."
                                                                           if self.run is None else ""))
             if self.run is not None and not self.complaint:
                 self.results.set_verdict("none", "Computing…", "The run is being solved.")
@@ -1370,13 +1346,14 @@ class RunView(QWidget):
         rows = shown.station_rows(units)
         self.values = shown.station_values(units)
         names = {s["lining"]: s["lining_name"] for s in shown.schedule_values(units)}
+        summary = run_summary(shown, units)
         selected = self.selected_row()
-        self.model.set_rows(rows, units, names)
+        self.model.set_rows(rows, summary.stations, units, names)
         self.model.set_stale(stale)
         self._size_columns()
         if selected is not None and selected < len(rows):
             self.table.selectRow(selected)
-        self.results.show_design(shown, rows, units, self.complaint)
+        self.results.show_design(summary, self.complaint)
         self.side_tabs.show_verdict()
         self.open_button.setEnabled(not stale)
         self._dirty_picture = True
@@ -1487,5 +1464,4 @@ class RunView(QWidget):
         return name
 
 
-__all__ = ["RunView", "StationTableModel", "RunInputs", "RunResultsPanel", "STATION_COLUMNS", "column_heading",
-           "row_mark"]
+__all__ = ["RunView", "StationTableModel", "RunInputs", "RunResultsPanel", "STATION_COLUMNS", "column_heading"]

@@ -8,14 +8,16 @@ line share (:func:`app.evaluate.evaluate_channel`): the uniform flow
 unit system; the layout module places the strings and the tests read them
 back from the PDF. Values are SI in the core and converted only here.
 
-Rounding: outside the hand check and the lining comparison every value is
-printed to three significant figures (the rounding the core uses in its own
-sentences, such as the verdict's reason), Manning's n to four and safety
-factors to two decimals, so that a value reads the same in the drawing, the
-tables and the reason. The lining comparison is the one table of
-:mod:`app.comparison_table` (the decimals of :data:`app.results.COMPARISON_FIELDS`),
-so that it reads as in the window and in ``ditchwright compare``. The hand check
-carries four to five figures, so that a checker can redo it with a calculator.
+Rounding: every value of the design that the window's results panel shows
+(the results, Manning's n used, the shear-check table, the safety factors,
+stone sizes and layer thickness, freeboard and depths, quantities and cost)
+is printed by the one rule of :data:`app.results.PANEL_FIELDS`, so that it
+reads as in the window; the lining comparison is the one table of
+:mod:`app.comparison_table`, as in the window and in ``ditchwright compare``.
+Inputs echoed, and terms the panel does not show (superelevation, the bend's
+factor), keep three significant figures, the rounding the core uses in its own
+sentences such as the verdict's reason. The hand check carries four to five
+figures, so that a checker can redo it with a calculator.
 """
 
 from __future__ import annotations
@@ -39,14 +41,14 @@ from ..comparison_table import EMPTY, comparison_table
 from ..context import Context
 from ..verdicts import Verdict, too_shallow_reason
 from ..evaluate import ChannelDesign, design_flow, evaluate_channel, load_default_catalogue
-from ..lining_names import name_in_units
-from ..results import format_value, panel_field, rounded
+from ..lining_names import STONE_SIZE, name_in_units
+from ..results import convert, format_value, panel_field, rounded
 from .fingerprint import fingerprint
 
 #: Customary Manning constant, (1 m / 1 ft)^(1/3) = 1.4859 (Chow 1959, Sec. 5-6).
 K_US = (1 / hu.FOOT) ** (1 / 3)
 G_US = hy.G / hu.FOOT  # 32.174 ft/s^2
-#: Significant figures of every printed value outside the hand check.
+#: Significant figures of the printed values that the results panel does not show (inputs echoed, bend terms).
 FIGURES = 3
 
 CAUTIONS = (
@@ -205,12 +207,16 @@ class Formatter:
         field = panel_field(key)
         return f"{rounded(float(value), field)} {self.unit(field.quantity)}".rstrip()
 
-    def stone(self, value_si: float) -> str:
-        """A stone size or layer thickness: in the length unit (as in the verdict's reason) and in in / mm."""
-        return f"{self(value_si, 'length')} ({self(value_si, 'small_length')})"
+    def rounded(self, value_si, key: str) -> str:
+        """A value of the design (a key of :data:`app.results.PANEL_FIELDS`) in the display units, rounded as
+        the results panel rounds it, without its unit (for a table whose heading gives the unit)."""
+        field = panel_field(key)
+        return rounded(convert(value_si, field.quantity, self.units), field)
 
-    def shear(self, value_si) -> str:
-        return "\u2014" if value_si is None else self(value_si, "shear")
+    def stone(self, value_si: float) -> str:
+        """A stone size or layer thickness in mm or inches, to a tenth, as the results panel and the lining
+        list write it."""
+        return pretty_unit(format_value(value_si, STONE_SIZE, self.units))
 
 
 def _sig(x: float, figures: int = 4) -> str:
@@ -223,7 +229,8 @@ def _sig(x: float, figures: int = 4) -> str:
 
 
 def n_text(n: float) -> str:
-    """Manning's n as printed everywhere on the sheet: four significant figures, as the evaluation's notes."""
+    """A Manning's n typed or surveyed, as the inputs and the hand check echo it: four significant figures (the
+    n used, a result, is printed by the rule of the results panel)."""
     return f"{float(n):.4g}"
 
 
@@ -236,7 +243,8 @@ def _slope_with_unit(s: float, f: Formatter) -> str:
 
 
 def _sf(value) -> str:
-    return "\u2014" if value is None else f"{value:.2f}"
+    """A safety factor (achieved or required) as the results panel rounds it; a dash where there is none."""
+    return "\u2014" if value is None else rounded(float(value), panel_field("safety_factor"))
 
 
 # ------------------------------------------------------------------ inputs
@@ -265,8 +273,8 @@ def flow_items(design: ChannelDesign, f: Formatter) -> list:
     basis = design.channel.flow
     q = design.flow
     if basis.method != "rational":
-        return [Item("Design flow Q", f"{f(q, 'flow')} (typed in the project)")]
-    items = [Item("Design flow Q", f"{f(q, 'flow')} by the rational method Q = C i A: runoff coefficient C "
+        return [Item("Design flow Q", f"{f.value(q, 'flow')} (typed in the project)")]
+    items = [Item("Design flow Q", f"{f.value(q, 'flow')} by the rational method Q = C i A: runoff coefficient C "
                                    f"{basis.runoff_coefficient:.2f}, rainfall intensity i {f(basis.intensity, 'intensity')}, "
                                    f"drainage area A {f(basis.area, 'drainage_area')}")]
     if design.time_of_concentration is not None:
@@ -321,10 +329,11 @@ def input_items(design: ChannelDesign, f: Formatter, lining=None, catalogue_text
 def result_items(design: ChannelDesign, f: Formatter, n_ref: str = "") -> list:
     """The uniform-flow results; ``n_ref`` points to the source of the lining's n ("[1]")."""
     r, st = design.analysis, design.stability
+    n = f.value(float(r.manning_n), "manning_n")
     if st is not None:
-        n = f"{n_text(float(r.manning_n))} {n_ref}"
+        n = f"{n} {n_ref}"
     else:
-        n = f"{n_text(float(r.manning_n))} ({'typed' if design.channel.manning_n is not None else 'composite'})"
+        n = f"{n} ({'typed' if design.channel.manning_n is not None else 'composite'})"
     return [  # printed two to a row, in this order
         Item("Normal depth yn", f.value(r.normal_depth, "normal_depth")),
         Item("Critical depth yc", f.value(r.critical_depth, "critical_depth")),
@@ -444,11 +453,11 @@ def _check_rows(st: StabilityResult, f: Formatter) -> list:
             result = "non-erodible"
         else:
             result = "passes" if c.passes else "FAILS"
-        rows.append(CheckRow(location=c.location, basis=pretty_unit(basis), design=f.number(c.design_shear, "shear"),
+        rows.append(CheckRow(location=c.location, basis=pretty_unit(basis), design=f.rounded(c.design_shear, "bed_shear"),
                              permissible=("non-erodible" if c.permissible_shear is None
-                                          else f.number(c.permissible_shear, "shear")),
+                                          else f.rounded(c.permissible_shear, "permissible_shear")),
                              safety_factor=_sf(c.safety_factor),
-                             required="\u2014" if c.permissible_shear is None else f"{c.required_safety_factor:.2f}",
+                             required="\u2014" if c.permissible_shear is None else _sf(c.required_safety_factor),
                              result=result))
     return rows
 
@@ -464,18 +473,19 @@ def _stone_items(st: StabilityResult, f: Formatter) -> list:
         if st.required_d50 is None:
             items.append(Item("Required D50", "no stone size is stable here (see the cautions)"))
         else:
-            parts = [f"{where} {f(v, 'length')}" for where, v in (("bed", st.required_d50_bed),
+            parts = [f"{where} {f.stone(v)}" for where, v in (("bed", st.required_d50_bed),
                                                                   ("side slopes", st.required_d50_side),
                                                                   ("bend", st.required_d50_bend)) if v is not None]
             method = _REQUIRED_METHOD.get(st.required_d50_method, st.required_d50_method or "")
-            depth = "" if st.required_d50_depth is None else f" at depth {f(st.required_d50_depth, 'length')}"
+            depth = ("" if st.required_d50_depth is None
+                     else f" at depth {f.value(st.required_d50_depth, 'normal_depth')}")
             enough = "given D50 enough" if st.d50 >= st.required_d50 else "given D50 too small"
             items.append(Item("Required D50", f"{f.stone(st.required_d50)} smallest stable, {enough} "
                                               f"({', '.join(parts)}{depth}; {method})"))
     parts = []
     if st.reynolds is not None:
         parts.append(f"particle Reynolds number Re* {_sig(st.reynolds, 3)}: F* {st.shields:.3f}, SF required "
-                     f"{st.required_safety_factor:.2f} ({provenance.cite('table_6_1')})")
+                     f"{_sf(st.required_safety_factor)} ({provenance.cite('table_6_1')})")
     if st.layer_thickness is not None and st.category == "stone":
         parts.append(f"layer thickness t {f.stone(st.layer_thickness)}")
     if parts:
@@ -504,7 +514,7 @@ def _depth_items(design: ChannelDesign, f: Formatter, src: Sources) -> list:
         text = f"Rc {f(ch.bend_radius, 'length')}, Kb {st.bend_factor:.3f}"
         if st.bend_protection_length is not None:
             lp_source = src.ref("bend protection", f"Lp = 0.736 R^(7/6) / n (SI), {provenance.cite('bend_length')}")
-            text += f"; protect {f(st.bend_protection_length, 'length')} downstream {lp_source}"
+            text += f"; protect {f.value(st.bend_protection_length, 'bend_protection_length')} downstream {lp_source}"
         items.append(Item("Bend", text))
     items.append(Item("Total depth", f"{f.value(design.total_depth, 'total_depth')} (yn + freeboard)"))
     items.append(Item("Top width at top", f.value(design.top_width_at_top, "top_width_at_top")))
@@ -615,7 +625,7 @@ def channel_sheet(project, channel, catalogue: Catalogue | None = None) -> Chann
         roughness = None if channel.manning_n is None else float(channel.manning_n)  # None: the survey's own n
         checks = []
         tau = float(design.analysis.bed_shear)
-        lining_items = [Item("Bed shear", f"\u03c4d = \u03b3 d S = {f.shear(tau)} (HEC-15 Eq. 3.1), not compared "
+        lining_items = [Item("Bed shear", f"\u03c4d = \u03b3 d S = {f.value(tau, 'bed_shear')} (HEC-15 Eq. 3.1), not compared "
                                           "with a permissible shear")]
         n_from = ("the Manning's n typed in the project" if channel.manning_n is not None
                   else "the surveyed section's own n")

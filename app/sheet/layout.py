@@ -179,8 +179,12 @@ def _pair_table(items, width, st) -> Table:
     widths = []
     for col in (0, 1):  # each label column as wide as its longest label, the values share the rest
         widths.append(max(stringWidth(it.label, FONT, size) for it in items[col::2]) + 4)
-    value_w = (width - sum(widths)) / 2
-    t = Table(rows, colWidths=[widths[0], value_w, widths[1], value_w])
+    # the values share the rest: each column what its longest value needs, then the spare room halved (a value
+    # such as "0.0130 (typed)" keeps to one line), or halves when the room is short
+    need = [max(stringWidth(it.value, FONT, st["body"].fontSize) for it in items[col::2]) + 6 for col in (0, 1)]
+    spare = width - sum(widths) - sum(need)
+    values = [n + spare / 2 for n in need] if spare >= 0 else [(width - sum(widths)) / 2] * 2
+    t = Table(rows, colWidths=[widths[0], values[0], widths[1], values[1]])
     t.setStyle(_table_style(False))
     return t
 

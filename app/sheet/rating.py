@@ -36,7 +36,7 @@ def rating_drawing(sheet, width: float, height: float):
     from matplotlib.figure import Figure  # no pyplot: leaves the window's backend alone
     from svglib.svglib import svg2rlg
 
-    from .content import n_text, pretty_unit
+    from .content import pretty_unit
 
     units = sheet.units
     design = sheet.design
@@ -50,7 +50,7 @@ def rating_drawing(sheet, width: float, height: float):
     Q = units.from_si("flow", 1.0)
     lu, qu = pretty_unit(units.label("length")), pretty_unit(units.label("flow"))
     yn = float(design.analysis.normal_depth)
-    fmt = sheet.format  # the tables' rounding
+    fmt = sheet.format  # the results' rounding (app.results.PANEL_FIELDS)
 
     rc = {"svg.fonttype": "none", "font.family": SVG_FAMILY, "font.size": 6.5, "axes.linewidth": 0.5,
           "xtick.major.width": 0.4, "ytick.major.width": 0.4, "lines.linewidth": 1.0, "svg.hashsalt": "ditchwright"}
@@ -64,9 +64,9 @@ def rating_drawing(sheet, width: float, height: float):
         ax.plot(critical * Q, depth * L, color="#b22222", linestyle="--", linewidth=0.8, label="critical depth")
         q_design = design.flow * Q
         ax.plot([q_design], [yn * L], marker="o", markersize=3.5, color="black", linestyle="none",
-                label=f"design: Q {fmt(design.flow, 'flow')}, yn {fmt(yn, 'length')}")
+                label=f"design: Q {fmt.value(design.flow, 'flow')}, yn {fmt.value(yn, 'normal_depth')}")
         ax.axhline(total * L, color="0.35", linewidth=0.6, linestyle="-.",
-                   label=f"total depth {fmt(total, 'length')}")
+                   label=f"total depth {fmt.value(total, 'total_depth')}")
         ax.axvline(q_design, color="0.6", linewidth=0.4, linestyle=":")
         switch = relation_switch_depth(roughness, section)
         if switch is not None and switch <= top:
@@ -78,7 +78,7 @@ def rating_drawing(sheet, width: float, height: float):
         ax.set_ylabel(f"Depth y ({lu})")
         ax.grid(True, linewidth=0.3, color="0.85")
         if isinstance(roughness, float):
-            n_words = f"n = {n_text(roughness)}"
+            n_words = f"n = {fmt.value(roughness, 'manning_n')}"
         elif roughness is None:
             n_words = "composite n of the survey"
         else:

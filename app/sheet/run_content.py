@@ -1,5 +1,7 @@
 """What a ditch run's design sheet says: everything taken, already in the user's units and rounded, from
-:mod:`app.run_design` (tables, warnings, notes, cautions) and :mod:`app.run_drawing` (the profile).
+:mod:`app.run_design` (tables, cautions), :mod:`app.run_summary` (the lining schedule and its total, the water
+surface's controls and jumps, warnings and notes, as the window's results panel states them) and
+:mod:`app.run_drawing` (the profile).
 
 No core call, no unit conversion and no rounding here: the sheet shows the same answer as the window and the
 ``ditchwright run`` command. This module only picks the columns and headings; :mod:`app.sheet.run_layout`
@@ -17,6 +19,7 @@ from .. import __version__
 from ..results import RUN_STATION_FIELDS
 from ..run_design import RUN_CAUTIONS, RunDesign, design_run
 from ..run_drawing import ProfileModel, profile_model
+from ..run_summary import run_summary
 from .content import catalogue_words, pretty_unit
 from .fingerprint import run_fingerprint
 
@@ -143,22 +146,21 @@ def run_sheet(project, run, catalogue: Catalogue | None = None, design: RunDesig
     rows = design.station_rows(units)
     stations = [[row[key] for key, _, _ in STATION_COLUMNS] for row in rows]
     status = [_status(row, p.flow > 0) for row, p in zip(rows, design.result.points)]
-    text = design.to_dict(units)
+    summary = run_summary(design, units)
     model = profile_model(design, units)
-    sched = design.schedule_rows(units)
     first, last = rows[0]["station"], rows[-1]["station"]
     return RunSheet(
         project=project.name, run=run.name, location=f"{first} to {last}", units=units,
         fingerprint=run_fingerprint(project, run, catalogue=catalogue), version=__version__,
         catalogue=catalogue_words(catalogue), design=design, model=model,
         summary=design.summary_items(units), sections=design.section_rows(units),
-        candidates=design.candidate_rows(units), schedule=sched, total_cost=design.total_cost_text(),
+        candidates=design.candidate_rows(units), schedule=list(summary.stretches), total_cost=summary.total_cost,
         sub_areas=design.sub_area_rows(units), inflows=design.inflow_rows(units),
         rainfall=design.rainfall_rows(units), station_heads=station_heads(units), stations=stations,
-        status=status, warnings=[pretty_unit(w) for w in text["warnings"]],
-        notes=[pretty_unit(n) for n in text["notes"]], not_verified=[pretty_unit(n) for n in text["not_verified"]],
-        cautions=list(RUN_CAUTIONS), controls=[pretty_unit(t) for t in design.control_rows(units)],
-        jumps=[pretty_unit(t) for t in design.jump_rows(units)])
+        status=status, warnings=[pretty_unit(w) for w in summary.warnings],
+        notes=[pretty_unit(n) for n in summary.notes], not_verified=[pretty_unit(n) for n in summary.not_verified],
+        cautions=list(RUN_CAUTIONS), controls=[pretty_unit(t) for t in summary.controls],
+        jumps=[pretty_unit(t) for t in summary.jumps])
 
 
 __all__ = ["RunSheet", "run_sheet", "STATION_COLUMNS", "STATION_KEY", "station_heads"]
