@@ -18,7 +18,7 @@ from app import project as pj
 from app.evaluate import evaluate_channel
 from app.run_design import design_run
 from app.run_drawing import profile_model
-from run_waiting import WAIT, settle, shown
+from waiting import WAIT, settle, shown
 
 
 def cell(view, row, key):

@@ -1,4 +1,4 @@
-"""Waiting for the run view's worker thread in tests (shared by the run view's test files)."""
+"""Waiting for the window's worker threads in tests (one home for every test file that waits)."""
 
 #: The demo run takes a few seconds to solve in the worker thread [ms].
 WAIT = 60000
