@@ -1,7 +1,17 @@
-"""Waiting for the window's worker threads in tests (one home for every test file that waits)."""
+"""Waiting for the window's worker threads in tests (one home for every test file that waits).
+
+The channel page evaluates the current channel off the window's thread, and the run view solves its run there;
+a test that reads what they show after an edit waits for it here first.
+"""
 
 #: The demo run takes a few seconds to solve in the worker thread [ms].
 WAIT = 60000
+
+
+def evaluated(w, qtbot):
+    """Wait until the main window ``w`` shows the result of its current channel as it is now; returns it."""
+    qtbot.waitUntil(lambda: w.evaluator.idle and w.evaluation is not None, timeout=WAIT)
+    return w.evaluation
 
 
 def shown(w, qtbot):
