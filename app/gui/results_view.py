@@ -93,7 +93,8 @@ class ResultsPanel(QWidget):
         self.stale.setWordWrap(True)
         self.stale.hide()
         lay.addWidget(self.stale)
-        self.updating = QLabel("Updating: the result for the inputs as they are now is being computed.")
+        self.updating = QLabel("Updating: shown are the results before your last change; the new ones are being "
+                               "computed.")
         self.updating.setObjectName("staleNote")
         self.updating.setWordWrap(True)
         self.updating.hide()
@@ -213,12 +214,11 @@ class ResultsPanel(QWidget):
         self.updating.setVisible(updating)
 
     def _set_verdict(self, status: str, headline: str, reason: str) -> None:
-        self.verdict.setProperty("status", status)
-        self.verdict.style().unpolish(self.verdict)
-        self.verdict.style().polish(self.verdict)
-        for w in (self.headline, self.reason):
-            w.style().unpolish(w)
-            w.style().polish(w)
+        if self.verdict.property("status") != status:    # the style sheet's colours follow; a polish relays out
+            self.verdict.setProperty("status", status)
+            for w in (self.verdict, self.headline, self.reason):
+                w.style().unpolish(w)
+                w.style().polish(w)
         self.headline.setText(headline)
         self.reason.setText(keep_units_whole(reason))
 
