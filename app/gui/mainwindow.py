@@ -57,11 +57,12 @@ class MainWindow(QMainWindow):
         self.doc = ProjectDocument(project, path, parent=self, context=context)
         self.last_good: display.Evaluation | None = None
         self.evaluation: display.Evaluation | None = None   # the newest result in, None until the first is
+        self.evaluated_channel: pj.Channel | None = None      # the channel as it was when evaluated so
         self.complaint = ""                                  # the form's refusal of a typed value, if any
         # the current channel is evaluated off the window's thread, the newest inputs only, so typing never waits
         self.evaluator = Recomputer(self._evaluation_work, self)
-        self.evaluator.succeeded.connect(self._evaluated)
-        self.evaluator.failed.connect(lambda exc: self._evaluated(display.not_computed(exc)))
+        self.evaluator.succeeded.connect(lambda done: self._evaluated(*done))
+        self.evaluator.failed.connect(lambda exc: self._evaluated(None, display.not_computed(exc)))
         self.slow = QTimer(self)
         self.slow.setSingleShot(True)
         self.slow.setInterval(SLOW)
@@ -396,13 +397,13 @@ class MainWindow(QMainWindow):
     def _evaluation_work(self):
         """The evaluation of the current channel as it is now, on copies (run in the worker)."""
         channel, context = copy.deepcopy(self.doc.channel()), self.doc.context
-        return lambda: display.evaluate(channel, context)
+        return lambda: (channel, display.evaluate(channel, context))
 
-    def _evaluated(self, ev: display.Evaluation) -> None:
-        """The result of the newest inputs is in: show it."""
+    def _evaluated(self, channel: pj.Channel | None, ev: display.Evaluation) -> None:
+        """The result of the newest inputs (``channel``, None when the evaluation failed) is in: show it."""
         self.slow.stop()
         self.results.set_updating(False)
-        self.evaluation = ev
+        self.evaluation, self.evaluated_channel = ev, channel
         self.inputs.show_evaluation(ev)
         if ev.ok and not self.inputs.first_complaint():
             self.last_good = ev
@@ -425,7 +426,8 @@ class MainWindow(QMainWindow):
             # The sheet draws its rating curve with matplotlib in the export's thread, under rc_context;
             # matplotlib is not thread-safe, so the pictures wait for the export (results stay live).
             return
-        ev, units, ch = self.evaluation, self.doc.units, self.doc.channel()
+        # the pictures of a result drawn with the channel it is the result of, not one edited since
+        ev, units, ch = self.evaluation, self.doc.units, self.evaluated_channel
         if ev is None and not self.complaint:
             return                     # the first result of this channel is on its way
         self._drawn[key] = 1

@@ -814,7 +814,7 @@ def test_a_stale_result_never_overwrites_a_newer_one(demo_window, qtbot, monkeyp
     gate = threading.Event()
     widths = widths_evaluated(monkeypatch, gate)
     delivered = []
-    w.evaluator.succeeded.connect(lambda ev: delivered.append(ev.section.bottom_width))
+    w.evaluator.succeeded.connect(lambda done: delivered.append(done[0].section["bottom_width"]))
     f = field(w, "trapezoid:section.bottom_width")
     try:
         f.edit.setText("0.7")
