@@ -308,6 +308,13 @@ def evaluate(channel: Channel, context: Context) -> Evaluation:
     return ev
 
 
+def not_computed(exc: BaseException) -> Evaluation:
+    """No result, in words, for an error :func:`evaluate` does not expect (a fault, not bad input): the window
+    shows it as it shows any missing result, never as a traceback."""
+    error = f"The channel could not be computed: {type(exc).__name__}: {exc}"
+    return Evaluation(verdict=Verdict("none", "No result", error), error=error)
+
+
 def check_section(channel: Channel) -> tuple[str, str | None] | None:
     """A refusal (message, core field) if the channel's section cannot be built, else None.
 

@@ -235,6 +235,7 @@ class LiningForm(QWidget):
         grid.addWidget(self.n_label, row, 0)
         grid.addWidget(self.n_value, row, 1, 1, 2)
         self.note = QLabel()
+        self._notes = ""     # what the form itself has to say under the lining; the evaluation may say more
         self.note.setObjectName("hint")
         self.note.setWordWrap(True)
         grid.addWidget(self.note, row + 1, 0, 1, 3)
@@ -305,17 +306,24 @@ class LiningForm(QWidget):
             notes.append("Manning's n is set per segment in the surveyed-section table.")
         if not plain and channel.manning_n is not None:
             notes.append("The lining sets Manning's n; the n typed for the channel applies only without a lining.")
-        self.note.setText(" ".join(notes))
-        self.note.setVisible(bool(notes))
+        self._notes = " ".join(notes)
+        if plain:    # with a lining, the evaluation says where its n comes from when it is in (no flicker meanwhile)
+            self._show_note(self._notes)
+
+    def _show_note(self, text: str) -> None:
+        if text != self.note.text():
+            self.note.setText(text)
+        self.note.setVisible(bool(text))
 
     def show_evaluation(self, ev) -> None:
         if ev.lining is not None:
             self.n_value.setText(f"{ev.lining.manning_n:.4f}")
             self.n_value.setToolTip(ev.lining.n_source)
-            self.note.setText(ev.lining.n_source[:1].upper() + ev.lining.n_source[1:] + ".")
-            self.note.setVisible(True)
-        elif not self.n_label.isHidden():
-            self.n_value.setText("—")
+            self._show_note(ev.lining.n_source[:1].upper() + ev.lining.n_source[1:] + ".")
+        else:
+            self._show_note(self._notes)
+            if not self.n_label.isHidden():
+                self.n_value.setText("—")
         if ev.error_field and ev.error_field.startswith("lining"):
             self.set_message(ev.error)
 

@@ -7,7 +7,7 @@ import dataclasses
 import time
 from pathlib import Path
 
-from PySide6.QtCore import QSize, Qt, QUrl
+from PySide6.QtCore import QSize, Qt, QTimer, QUrl
 from PySide6.QtGui import QAction, QActionGroup, QDesktopServices, QKeySequence
 from PySide6.QtWidgets import (QApplication, QDialog, QFileDialog, QHBoxLayout, QInputDialog, QLabel, QListWidget,
                                QListWidgetItem, QMainWindow, QMessageBox, QSplitter, QStackedWidget, QStyle, QTabWidget,
@@ -34,12 +34,14 @@ from .sheet_dialogs import ExportSheetDialog, NotesDialog, SheetDetailsDialog, a
 from .screen_fit import SideTabs, fit_to_screen, scrolling
 from .shortcuts import WindowKeys
 from .style import STYLE
-from .tasks import Task
+from .tasks import Recomputer, Task
 
 LANDXML_FILTER = "LandXML files (*.xml);;All files (*)"
 FILE_FILTER = "Ditchwright projects (*.json);;All files (*)"
 SHAPE_NAMES = dict(SHAPES)
 TABS = ("section", "rating", "energy", "compare")
+#: A new result that takes longer than this is marked as being computed [ms] (a usual one takes a few ms).
+SLOW = 300
 
 
 class MainWindow(QMainWindow):
@@ -54,7 +56,17 @@ class MainWindow(QMainWindow):
             context = Context.load(settings.user_catalogue_path() if persistent else None)
         self.doc = ProjectDocument(project, path, parent=self, context=context)
         self.last_good: display.Evaluation | None = None
-        self.evaluation: display.Evaluation | None = None
+        self.evaluation: display.Evaluation | None = None   # the newest result in, None until the first is
+        self.evaluated_channel: pj.Channel | None = None      # the channel as it was when evaluated so
+        self.complaint = ""                                  # the form's refusal of a typed value, if any
+        # the current channel is evaluated off the window's thread, the newest inputs only, so typing never waits
+        self.evaluator = Recomputer(self._evaluation_work, self)
+        self.evaluator.succeeded.connect(lambda done: self._evaluated(*done))
+        self.evaluator.failed.connect(lambda exc: self._evaluated(None, display.not_computed(exc)))
+        self.slow = QTimer(self)
+        self.slow.setSingleShot(True)
+        self.slow.setInterval(SLOW)
+        self.slow.timeout.connect(lambda: self.results.set_updating(not self.evaluator.idle))
         self._drawn: dict[str, int] = {}
         self.export_task: Task | None = None
         self.inventory_dialog = None
@@ -243,7 +255,7 @@ class MainWindow(QMainWindow):
         heading = QLabel("Channels in this project")
         heading.setObjectName("subheading")
         self.inputs = InputPanel(self.doc)
-        self.inputs.validity_changed.connect(self.refresh)
+        self.inputs.validity_changed.connect(self.show_current)   # the stored channel, so its result, is the same
         listing = QWidget()
         ll = QVBoxLayout(listing)
         ll.setContentsMargins(8, 6, 0, 0)
@@ -345,7 +357,7 @@ class MainWindow(QMainWindow):
 
     # -- showing ---------------------------------------------------------------------------
     def refresh_all(self, *_signal_args) -> None:
-        self.last_good = None
+        self.last_good = self.evaluation = None
         self.fill_channel_list()
         units = self.doc.project.units
         (self.si_action if units == "si" else self.us_action).setChecked(True)
@@ -355,7 +367,7 @@ class MainWindow(QMainWindow):
         self.update_run_actions()
 
     def _current_changed(self, index: int) -> None:
-        self.last_good = None
+        self.last_good = self.evaluation = None
         self.channel_list.blockSignals(True)
         self.channel_list.setCurrentRow(index)
         self.channel_list.blockSignals(False)
@@ -378,16 +390,29 @@ class MainWindow(QMainWindow):
             self.refresh()
 
     def refresh(self, *_signal_args) -> None:
-        """Evaluate the current channel and redraw what is in view."""
-        ch = self.doc.channel()
-        ev = display.evaluate(ch, self.doc.context)
-        complaint = self.inputs.first_complaint()
+        """Evaluate the current channel off the window's thread; what is shown stays until the result is in."""
+        self.evaluator.request()
+        self.slow.start()
+
+    def _evaluation_work(self):
+        """The evaluation of the current channel as it is now, on copies (run in the worker)."""
+        channel, context = copy.deepcopy(self.doc.channel()), self.doc.context
+        return lambda: (channel, display.evaluate(channel, context))
+
+    def _evaluated(self, channel: pj.Channel | None, ev: display.Evaluation) -> None:
+        """The result of the newest inputs (``channel``, None when the evaluation failed) is in: show it."""
+        self.slow.stop()
+        self.results.set_updating(False)
+        self.evaluation, self.evaluated_channel = ev, channel
         self.inputs.show_evaluation(ev)
-        if ev.ok and not complaint:
+        if ev.ok and not self.inputs.first_complaint():
             self.last_good = ev
-        self.evaluation = ev
-        self.complaint = complaint
-        self.results.show_evaluation(ev, self.doc.units, self.last_good, complaint)
+        self.show_current()
+
+    def show_current(self, *_signal_args) -> None:
+        """Show the newest result with the form's complaint, and redraw what is in view."""
+        self.complaint = self.inputs.first_complaint()
+        self.results.show_evaluation(self.evaluation, self.doc.units, self.last_good, self.complaint)
         self.side_tabs.show_verdict()
         self._drawn.clear()
         self.draw_current()
@@ -401,8 +426,11 @@ class MainWindow(QMainWindow):
             # The sheet draws its rating curve with matplotlib in the export's thread, under rc_context;
             # matplotlib is not thread-safe, so the pictures wait for the export (results stay live).
             return
+        # the pictures of a result drawn with the channel it is the result of, not one edited since
+        ev, units, ch = self.evaluation, self.doc.units, self.evaluated_channel
+        if ev is None and not self.complaint:
+            return                     # the first result of this channel is on its way
         self._drawn[key] = 1
-        ev, units, ch = self.evaluation, self.doc.units, self.doc.channel()
         usable = ev is not None and ev.ok and not self.complaint
         note = "Last good result: " + ("fix the marked input" if self.complaint else "no result for these inputs")
         picture = {"section": self.section_picture, "rating": self.rating_picture,
@@ -898,6 +926,7 @@ class MainWindow(QMainWindow):
                           f"critical depth by Manning's equation, lining checks, freeboard.</p><p>{CAUTION}</p>")
 
     def closeEvent(self, event) -> None:
+        self.evaluator.wait()
         if self.export_task is not None:
             self.export_task.wait()   # a sheet export takes seconds; let it finish its file
         if self.inventory_dialog is not None:

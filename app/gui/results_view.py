@@ -1,7 +1,8 @@
 """The results beside the picture: the verdict in words and colour, the numbers with units, cautions.
 
 When the inputs are not usable the last good result stays, greyed, under a
-note that says what to fix.
+note that says what to fix. While a new result is being computed the one
+shown stays; a note says so when that takes long.
 """
 
 from __future__ import annotations
@@ -55,6 +56,12 @@ class ResultsPanel(QWidget):
         self.stale.setWordWrap(True)
         self.stale.hide()
         lay.addWidget(self.stale)
+        self.updating = QLabel("Updating: shown are the results before your last change; the new ones are being "
+                               "computed.")
+        self.updating.setObjectName("staleNote")
+        self.updating.setWordWrap(True)
+        self.updating.hide()
+        lay.addWidget(self.updating)
 
         self.numbers = QWidget()
         self.numbers.setObjectName("numbers")
@@ -114,17 +121,21 @@ class ResultsPanel(QWidget):
         self.setMinimumWidth(300)
         self.shown: Evaluation | None = None
 
-    def show_evaluation(self, ev: Evaluation, units: UnitSystem, last_good: Evaluation | None = None,
+    def show_evaluation(self, ev: Evaluation | None, units: UnitSystem, last_good: Evaluation | None = None,
                         complaint: str = "") -> None:
-        """Show ``ev``; if it has no result (or ``complaint`` is set), show ``last_good`` greyed instead."""
-        usable = ev.ok and not complaint
+        """Show ``ev``; if it has no result (or ``complaint`` is set), show ``last_good`` greyed instead.
+        ``ev`` None: the first result of these inputs is still being computed."""
+        usable = ev is not None and ev.ok and not complaint
         shown = ev if usable else last_good
         verdict = ev.verdict if usable else None
         if usable:
             self._set_verdict(verdict.status, verdict.headline, pretty(verdict.reason))
             self.stale.hide()
+        elif ev is None and not complaint:
+            self._set_verdict("none", "Computing…", "The channel is being computed.")
+            self.stale.hide()
         else:
-            why = complaint or ev.error or "The inputs are incomplete."
+            why = complaint or (ev is not None and ev.error) or "The inputs are incomplete."
             self._set_verdict("none", "No result for these inputs", why)
             self.stale.setText("Showing the last good result, greyed, until the inputs are usable again."
                                if shown is not None else "No result yet.")
@@ -161,13 +172,16 @@ class ResultsPanel(QWidget):
         self.unverified.setEnabled(usable)
         self.shown = shown
 
+    def set_updating(self, updating: bool) -> None:
+        """Say that what is shown is being brought up to date (when that takes long)."""
+        self.updating.setVisible(updating)
+
     def _set_verdict(self, status: str, headline: str, reason: str) -> None:
-        self.verdict.setProperty("status", status)
-        self.verdict.style().unpolish(self.verdict)
-        self.verdict.style().polish(self.verdict)
-        for w in (self.headline, self.reason):
-            w.style().unpolish(w)
-            w.style().polish(w)
+        if self.verdict.property("status") != status:    # the style sheet's colours follow; a polish relays out
+            self.verdict.setProperty("status", status)
+            for w in (self.verdict, self.headline, self.reason):
+                w.style().unpolish(w)
+                w.style().polish(w)
         self.headline.setText(headline)
         self.reason.setText(keep_units_whole(reason))
 

@@ -45,7 +45,7 @@ from .results_view import CAUTION, _escape
 from .run_item_dialogs import SectionDialog, SubAreaDialog
 from .run_plot import ProfilePicture
 from .screen_fit import SideTabs
-from .tasks import Task
+from .tasks import Recomputer
 
 #: Columns of the station table, in reading order (keys of ``station_rows``); "check" is the row's verdict.
 STATION_COLUMNS = ("station", "check", "flow", "slope", "lining", "normal_depth", "critical_depth", "water_depth",
@@ -989,8 +989,9 @@ class RunView(QWidget):
         self.values: list[dict] = []                 # station_values of what is shown
         self.problem = ""                            # why the inputs as they are have no result
         self.refusals: dict[str, str] = {}           # path -> message, entries refused in the tables
-        self.task: Task | None = None
-        self._computing = None                       # (revision, run index) being computed
+        self.worker = Recomputer(self._prepare, self)   # solves the newest inputs off the window's thread
+        self.worker.succeeded.connect(self._solved)
+        self.worker.failed.connect(self._not_solved)
         self._dirty_picture = True
 
         self.inputs = RunInputs()
@@ -1248,40 +1249,33 @@ class RunView(QWidget):
 
     # -- computing --------------------------------------------------------------------------------
     def compute(self) -> None:
-        """Solve the run as it is in the document, in a worker thread; a newer change solves again after."""
+        """Solve the run as it is in the document, in a worker thread; only the newest inputs' result is shown."""
+        self.worker.request()      # also with no run left: a result still on its way is then dropped
         if self.run is None:
             self.show_result()
-            return
-        if self.task is not None:
-            return                       # _finished looks at the revision and starts again
+        else:
+            self.busy.setText("computing…")
+
+    def _prepare(self):
+        """The work that solves the shown run as it is now, on a copy of the project (in the worker)."""
         project = copy.deepcopy(self.doc.project)
         index = self.current
         catalogue = self.doc.context.catalogue
-        self._computing = (self.doc.revision, index)
+        if not 0 <= index < len(project.runs):
+            return lambda: None
+        return lambda: design_run(project, project.runs[index], catalogue)
 
-        def work(_progress):
-            return design_run(project, project.runs[index], catalogue)
-
-        self.task = Task(work, self)
-        self.task.succeeded.connect(self._solved)
-        self.task.failed.connect(self._not_solved)
-        self.task.finished.connect(self._finished)
-        self.busy.setText("computing…")
-        self.task.start()
-
-    def _current(self) -> bool:
-        return self._computing == (self.doc.revision, self.current)
-
-    def _solved(self, design: RunDesign) -> None:
-        if self._current():
-            self.design = self.last_good = design
-            self.problem = ""
-            self.rainfall_button.hide()
-            self.show_result()
+    def _solved(self, design: RunDesign | None) -> None:
+        self.busy.setText("")
+        if design is None:     # no run to solve
+            return
+        self.design = self.last_good = design
+        self.problem = ""
+        self.rainfall_button.hide()
+        self.show_result()
 
     def _not_solved(self, exc: BaseException) -> None:
-        if not self._current():
-            return
+        self.busy.setText("")
         if not isinstance(exc, (hy.InputError, hy.NoSolutionError, hy.ConvergenceError)):
             self.problem = f"The run could not be computed: {type(exc).__name__}: {exc}"
         else:
@@ -1302,24 +1296,14 @@ class RunView(QWidget):
                 table.mark(int(m.group(2)), col, self.problem)
         self.show_result()
 
-    def _finished(self) -> None:
-        task, self.task = self.task, None
-        if task is not None:
-            task.deleteLater()
-        if not self._current():
-            self.compute()
-        else:
-            self.busy.setText("")
-
     @property
     def idle(self) -> bool:
         """No computation running or due (tests wait for this)."""
-        return self.task is None and (self.run is None or self._current())
+        return self.worker.idle
 
     def stop(self) -> None:
         """Let a running computation end (the window is closing)."""
-        if self.task is not None:
-            self.task.wait()
+        self.worker.wait()
 
     # -- showing ----------------------------------------------------------------------------------
     @property

@@ -1,4 +1,4 @@
-"""Long work off the window's thread: a design-sheet export, an inventory check.
+"""Work off the window's thread: a design-sheet export, an inventory check, the result of inputs being edited.
 
 A :class:`Task` runs one plain function in a QThread. The function gets a
 ``progress(done, total)`` callback; the task reports back through signals,
@@ -7,11 +7,15 @@ The function must not touch widgets or the open project: give it copies.
 A task runs once; it drops the function when it starts, so that whatever
 the function holds (a certificate password, a copy of the project) goes
 when the work is done.
+
+A :class:`Recomputer` keeps one result up to date with inputs that keep
+changing (a channel or a ditch run being edited): one task at a time, the
+newest inputs only.
 """
 
 from __future__ import annotations
 
-from PySide6.QtCore import QThread, Signal
+from PySide6.QtCore import QCoreApplication, QObject, QThread, QTimer, Signal
 
 
 class Cancelled(Exception):
@@ -52,3 +56,87 @@ class Task(QThread):
                 self.failed.emit(Cancelled())
             else:
                 self.succeeded.emit(result)
+
+
+class Recomputer(QObject):
+    """One result kept up to date with inputs that keep changing, computed off the window's thread.
+
+    :meth:`request` says that the inputs changed. The computation starts at the
+    next turn of the event loop, so changes made in one go are computed once.
+    While one runs, further requests only make it due again: when it ends, its
+    result is dropped and the inputs as they are then are computed. Only the
+    result of the newest request is delivered, so a stale result never
+    overwrites a newer one.
+
+    ``prepare()`` is called in the window's thread as a computation starts and
+    returns the work: a function of no arguments run in the worker, on copies
+    of the inputs as they are at that moment (it must not touch widgets or the
+    open project). ``succeeded`` carries what the work returned, ``failed`` the
+    exception it raised.
+    """
+
+    succeeded = Signal(object)
+    failed = Signal(object)
+
+    def __init__(self, prepare, parent=None):
+        super().__init__(parent)
+        self._prepare = prepare
+        self._task: Task | None = None
+        self._outcome = None
+        self._requested = 0      # requests so far
+        self._started = 0        # the request the running (or last) computation answers
+        self._timer = QTimer(self)
+        self._timer.setSingleShot(True)
+        self._timer.setInterval(0)
+        self._timer.timeout.connect(self._start)
+
+    def request(self) -> None:
+        """The inputs changed: compute them (once, however many requests come before it starts)."""
+        self._requested += 1
+        if self._task is None:
+            self._timer.start()
+
+    @property
+    def idle(self) -> bool:
+        """Nothing running or due: the last result delivered answers the newest request (tests wait for this)."""
+        return self._task is None and self._started == self._requested
+
+    @property
+    def running(self) -> bool:
+        return self._task is not None
+
+    def wait(self) -> None:
+        """Block until a running computation ends (the window is closing); its result comes at the next turn of
+        the event loop."""
+        if self._task is not None:
+            self._task.wait()
+
+    def _start(self) -> None:
+        if self._task is not None or self._started == self._requested:
+            return
+        self._started = self._requested
+        work = self._prepare()
+        # The application owns the thread, so that it outlives a window closed while it runs (Qt aborts when a
+        # running QThread is destroyed); it deletes itself when done.
+        task = Task(lambda _progress: work(), QCoreApplication.instance())
+        task.succeeded.connect(self._succeeded)
+        task.failed.connect(self._failed)
+        task.finished.connect(self._finished)
+        task.finished.connect(task.deleteLater)
+        self._task, self._outcome = task, None
+        task.start()
+
+    def _succeeded(self, result) -> None:
+        self._outcome = (self.succeeded, result)
+
+    def _failed(self, exc) -> None:
+        self._outcome = (self.failed, exc)
+
+    def _finished(self) -> None:
+        self._task = None
+        outcome, self._outcome = self._outcome, None
+        if self._started != self._requested:     # a newer request came meanwhile: this result is stale
+            self._start()
+        elif outcome is not None:
+            signal, value = outcome
+            signal.emit(value)

@@ -19,6 +19,8 @@ from PySide6.QtCore import QSettings, QStandardPaths  # noqa: E402
 from PySide6.QtGui import QDesktopServices  # noqa: E402
 from PySide6.QtWidgets import QFileDialog, QInputDialog, QMessageBox  # noqa: E402
 
+from waiting import evaluated  # noqa: E402
+
 
 @pytest.fixture(autouse=True)
 def isolated_settings(qapp, tmp_path, monkeypatch):
@@ -89,6 +91,7 @@ def demo_window(qtbot):
     w.resize(1440, 900)
     w.show()
     qtbot.waitExposed(w)
+    evaluated(w, qtbot)
     yield w
     w.doc.undo_stack.setClean()
     w.doc.recovered = False

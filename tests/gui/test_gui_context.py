@@ -16,6 +16,7 @@ from app import channel_display as display
 from app import project as pj
 from app.context import Context
 from app.gui.mainwindow import MainWindow
+from waiting import evaluated
 
 COSTS = (70.0, 140.0)
 USER = 'schema_version = 1\n[[lining]]\nkey = "concrete"\nunit_cost = {cost}\nunit_cost_basis = "area"\n'
@@ -56,7 +57,7 @@ def test_each_window_computes_with_the_context_it_was_given(contexts, qtbot):
     for w, context, cost in zip(windows, contexts, COSTS):
         assert w.doc.context.catalogue is context.catalogue
         w.doc.set_current([c.name for c in w.doc.project.channels].index("East verge ditch"))
-        ev = w.evaluation
+        ev = evaluated(w, qtbot)
         assert ev.lining.unit_cost == cost
         assert ev.lining.cost_per_length == pytest.approx(cost * ev.lining.lined_width, rel=1e-12)
         shown = w.results.values["cost_per_length"].text().split()[0].replace(",", "")
@@ -68,7 +69,7 @@ def test_each_window_computes_with_the_context_it_was_given(contexts, qtbot):
         w.doc.undo_stack.setClean()
     first = windows[0]                # still its own after the second window was made and used
     first.doc.set_current([c.name for c in first.doc.project.channels].index("East verge ditch"))
-    assert first.evaluation.lining.unit_cost == COSTS[0]
+    assert evaluated(first, qtbot).lining.unit_cost == COSTS[0]
 
 
 def test_a_user_catalogue_that_cannot_be_used_is_said_and_left_out(tmp_path, qtbot):

@@ -9,6 +9,7 @@ from PySide6.QtCore import QLocale
 
 from app.gui.fields import UnclearNumber, format_number, parse_number
 from app.main import main
+from waiting import evaluated
 from window_typing import field, type_into
 
 
@@ -123,7 +124,7 @@ def test_results_and_comparison_are_written_with_the_locale_decimal_mark(user_lo
     w = MainWindow(pj.loads(pj.demo_path().read_text(encoding="utf-8")), persistent=False)
     qtbot.addWidget(w)
     w.doc.set_current(0)
-    ev = w.evaluation
+    ev = evaluated(w, qtbot)
     depth = w.results.values["normal_depth"].text()
     assert re.fullmatch(r"\d+,\d{3} m", depth), depth
     assert parse_number(depth.split()[0]) == pytest.approx(ev.result.normal_depth, abs=5e-4)   # reads back

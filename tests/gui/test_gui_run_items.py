@@ -13,7 +13,7 @@ from PySide6.QtWidgets import QApplication
 
 from app.run_design import design_run
 from app.run_editing import with_item_replaced
-from run_waiting import WAIT, shown
+from waiting import WAIT, shown
 
 
 def column(view, key):

@@ -18,7 +18,7 @@ from app import project as pj
 from app.evaluate import evaluate_channel
 from app.run_design import design_run
 from app.run_drawing import profile_model
-from run_waiting import WAIT, settle, shown
+from waiting import WAIT, evaluated, settle, shown
 
 
 def cell(view, row, key):
@@ -181,7 +181,7 @@ def test_a_station_opens_as_a_channel_with_the_same_depth(demo_window, qtbot, de
     design = evaluate_channel(ch, w.doc.context.catalogue)
     assert design.analysis.normal_depth == pytest.approx(station["normal_depth"], rel=1e-12)
     assert design.flow == pytest.approx(station["flow"], rel=1e-12)
-    assert w.evaluation.ok and w.tabs.currentIndex() == 0          # its cross-section and results are in view
+    assert evaluated(w, qtbot).ok and w.tabs.currentIndex() == 0    # its cross-section and results are in view
     w.undo_action.trigger()                                        # one step undoes it
     assert len(w.doc.project.channels) == count
 

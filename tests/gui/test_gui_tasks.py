@@ -1,6 +1,8 @@
-"""Work off the window's thread (app.gui.tasks.Task): results, progress, stopping, and letting go."""
+"""Work off the window's thread (app.gui.tasks): a task's results, progress, stopping and letting go; the newest
+inputs computed, once, and a stale result dropped."""
 
 import gc
+import threading
 import weakref
 
 from app.gui import tasks
@@ -47,3 +49,66 @@ def test_a_task_lets_go_of_its_work(qtbot):
     task.wait()
     gc.collect()
     assert ref() is None          # nothing of the work is kept by the finished task
+
+
+class Inputs:
+    """Inputs being edited, with a gate that holds the worker while the value 1 is computed."""
+
+    def __init__(self):
+        self.value = 1
+        self.gate = threading.Event()
+        self.prepared = []
+
+    def prepare(self):
+        value = self.value
+        self.prepared.append(value)
+
+        def work():
+            if value == 1:
+                assert self.gate.wait(10)
+            if value == "bad":
+                raise ValueError("not a number")
+            return value * 10
+        return work
+
+
+def recomputer():
+    inputs = Inputs()
+    worker = tasks.Recomputer(inputs.prepare)
+    results, failures = [], []
+    worker.succeeded.connect(results.append)
+    worker.failed.connect(failures.append)
+    return inputs, worker, results, failures
+
+
+def test_requests_made_in_one_go_are_computed_once(qtbot):
+    inputs, worker, results, _ = recomputer()
+    inputs.value = 2
+    for _ in range(3):
+        worker.request()
+    assert not worker.idle                       # due, though not started yet
+    qtbot.waitUntil(lambda: worker.idle, timeout=10000)
+    assert inputs.prepared == [2] and results == [20]
+
+
+def test_a_stale_result_is_dropped_and_the_newest_inputs_computed(qtbot):
+    inputs, worker, results, _ = recomputer()
+    try:
+        worker.request()
+        qtbot.waitUntil(lambda: worker.running, timeout=10000)   # held at the gate, computing the value 1
+        for value in (2, 3):                                     # two more changes while it runs
+            inputs.value = value
+            worker.request()
+    finally:
+        inputs.gate.set()
+    qtbot.waitUntil(lambda: worker.idle, timeout=10000)
+    assert inputs.prepared == [1, 3]          # the value 2 was never computed: 3 had come before it could start
+    assert results == [30]                    # the result of 1 came after 3 was asked for: dropped
+
+
+def test_an_error_in_the_work_is_delivered_not_raised(qtbot):
+    inputs, worker, results, failures = recomputer()
+    inputs.value = "bad"
+    worker.request()
+    qtbot.waitUntil(lambda: worker.idle, timeout=10000)
+    assert results == [] and len(failures) == 1 and isinstance(failures[0], ValueError)

@@ -20,6 +20,7 @@ from app.editing import new_project
 from app.gui import settings
 from app.gui.forms import RATIONAL
 from app.gui.mainwindow import MainWindow
+from waiting import evaluated
 from window_typing import field, type_into
 
 
@@ -46,6 +47,7 @@ def test_typing_updates_results_and_plot(demo_window, qtbot):
     before_water = w.section_picture.water.get_xy().copy()
     type_into(qtbot, field(w, "trapezoid:section.bottom_width"), "1.5")
     assert w.doc.channel().section["bottom_width"] == 1.5
+    evaluated(w, qtbot)
     sec = hy.Trapezoid(bottom_width=1.5, left_slope=ch.section["left_slope"], right_slope=ch.section["right_slope"])
     y = hy.normal_depth(sec, ch.flow.value, ch.slope, ch.manning_n)
     assert shown(w, "normal_depth") == f"{y:.3f} m" != before_depth
@@ -93,8 +95,10 @@ def test_no_solution_keeps_last_good_without_a_dialog(demo_window, qtbot, dialog
     w = demo_window
     w.doc.set_current(3)                                          # the pipe
     assert w.doc.channel().section["shape"] == "circle"
+    evaluated(w, qtbot)
     good = shown(w, "normal_depth")
     type_into(qtbot, field(w, "flow.value"), "50")
+    evaluated(w, qtbot)
     assert "No solution" in w.results.reason.text() and "surcharge" in w.results.reason.text()
     assert shown(w, "normal_depth") == good and not w.results.numbers.isEnabled()
     assert dialogs.shown == []
@@ -141,14 +145,16 @@ def test_shape_change_is_one_undoable_edit(demo_window):
     assert w.doc.channel().section == old
 
 
-def test_unit_switch_round_trips_fields_and_results(demo_window):
+def test_unit_switch_round_trips_fields_and_results(demo_window, qtbot):
     w = demo_window
     w.doc.set_current(2)                                          # rational method channel: more fields
+    evaluated(w, qtbot)
     keys = [k for k, f in w.inputs.fields.items() if not f.edit.isHidden()]
     before = {k: w.inputs.fields[k].edit.text() for k in keys}
     results_before = {k: v.text() for k, v in w.results.values.items()}
     project_before = pj.dumps(w.doc.project)
     w.us_action.trigger()
+    evaluated(w, qtbot)
     b = w.doc.channel().section["bottom_width"]
     assert field(w, "trapezoid:section.bottom_width").edit.text() == f"{b / 0.3048:.5g}"
     assert field(w, "trapezoid:section.bottom_width").suffix.text() == "ft"
@@ -156,15 +162,17 @@ def test_unit_switch_round_trips_fields_and_results(demo_window):
     assert shown(w, "flow").endswith("ft³/s")
     assert w.doc.project.units == "us"
     w.si_action.trigger()
+    evaluated(w, qtbot)
     assert {k: w.inputs.fields[k].edit.text() for k in keys} == before
     assert {k: v.text() for k, v in w.results.values.items()} == results_before
     assert pj.dumps(w.doc.project) == project_before
 
 
-def test_switching_units_is_no_undo_step_and_leaves_the_project_unmodified(demo_window):
+def test_switching_units_is_no_undo_step_and_leaves_the_project_unmodified(demo_window, qtbot):
     w = demo_window
     assert not w.isWindowModified() and not w.undo_action.isEnabled()
     w.us_action.trigger()
+    evaluated(w, qtbot)
     assert w.doc.project.units == "us" and w.results.values["normal_depth"].text().endswith(" ft")
     assert not w.doc.modified and not w.isWindowModified()          # how numbers are shown, not the design
     assert w.doc.undo_stack.count() == 0 and not w.undo_action.isEnabled()
@@ -188,6 +196,7 @@ def test_rational_method_flow_is_shown(demo_window, qtbot):
     w.doc.set_current(2)
     fb = w.doc.channel().flow
     assert fb.method == "rational"
+    evaluated(w, qtbot)
     q = hy.rational.rational_flow(fb.runoff_coefficient, fb.intensity, fb.area)
     assert w.inputs.q_value.text() == f"{round(q, 4):g}\u00a0m³\u2060/\u2060s"     # kept on one line
     assert "Kirpich" in w.inputs.tc_value.text()
@@ -343,9 +352,10 @@ def test_rating_and_energy_views_draw_the_current_channel(demo_window):
     assert yy[int(np.argmin(e))] == pytest.approx(ev.result.critical_depth, rel=0.02)
 
 
-def test_caution_and_warnings_in_words(demo_window):
+def test_caution_and_warnings_in_words(demo_window, qtbot):
     w = demo_window
     w.doc.set_current(3)                                           # the pipe runs near critical
+    evaluated(w, qtbot)
     assert "near critical" in w.results.warnings.text()
 
 
@@ -390,7 +400,8 @@ def test_comparison_view_applies_a_lining_in_one_undoable_step(demo_window, qtbo
     qtbot.mouseClick(view.apply_button, Qt.MouseButton.LeftButton)
     assert w.doc.channel().lining.key == "gravel" and w.doc.undo_stack.count() == count + 1
     assert {r.choice.key for r in view.rows} == set(keys)                  # the old lining stays compared
-    assert w.results.headline.text() == "Not stable"                     # the verdict follows at once
+    evaluated(w, qtbot)
+    assert w.results.headline.text() == "Not stable"                     # the verdict follows
     w.undo_action.trigger()
     assert w.doc.channel() == before
 
@@ -429,17 +440,20 @@ def test_choosing_a_lining_checks_its_stability(demo_window, qtbot):
     form.combo.setCurrentIndex(form.combo.findData("riprap"))
     form._chosen(form.combo.currentIndex())
     assert w.doc.channel().lining.key == "riprap"
+    evaluated(w, qtbot)
     assert not form.d50.edit.isHidden() and form.d50.suffix.text() == "mm"
     assert form.n.edit.isHidden() and form.n_value.text() != "—"
     assert w.results.values["permissible_shear"].text().endswith("Pa")
     assert w.results.headline.text() in ("Stable", "Not stable")
     type_into(qtbot, form.d50, "300")
     assert w.doc.channel().lining.d50 == pytest.approx(0.3)
+    evaluated(w, qtbot)
     assert not w.results.values["required_d50"].isHidden()
     type_into(qtbot, form.d50, "0")
     assert "> 0 mm" in form.d50.error
     form._chosen(form.combo.findData(""))
     assert w.doc.channel().lining is None and not form.n.edit.isHidden()
+    evaluated(w, qtbot)
     assert w.results.headline.text() == "Hydraulics only"
 
 
@@ -447,6 +461,7 @@ def test_a_lining_the_catalogue_does_not_know_is_named(qtbot):
     project = pj.Project(channels=[pj.Channel(lining=pj.LiningChoice("marble_tiles"))])
     w = MainWindow(project)
     qtbot.addWidget(w)
+    evaluated(w, qtbot)
     assert "unknown lining 'marble_tiles'" in w.results.reason.text()
     assert "marble_tiles" in w.inputs.lining.combo.currentText()
     assert "unknown lining" in w.inputs.lining.message.text()
@@ -539,12 +554,13 @@ def test_the_copied_comparison_keeps_formulas_as_text(demo_window, qtbot):
     assert all(len(line.split("\t")) == len(lines[0].split("\t")) for line in lines)
 
 
-def test_results_list_the_values_not_yet_verified(demo_window):
+def test_results_list_the_values_not_yet_verified(demo_window, qtbot):
     """The window's results carry the same list as the sheet: values leant on but not yet read in HEC-15."""
     from hydraulics import provenance as pv
     w = demo_window
     names = [c.name for c in w.doc.project.channels]
     w.channel_list.setCurrentRow(names.index("Outfall swale"))       # riprap in a bend
+    evaluated(w, qtbot)
     panel = w.results
     assert panel.unverified.isVisible() and pv.NOT_VERIFIED_TITLE in panel.unverified_heading.text()
     text = panel.unverified.text()
@@ -553,11 +569,12 @@ def test_results_list_the_values_not_yet_verified(demo_window):
     assert pv.entry("blodgett").what not in text        # read in the circular, so not listed
     assert pv.entry("freeboard").what not in text       # read in HEC-22 (2009), which gives HEC-15's guidance
     w.channel_list.setCurrentRow(names.index("East verge ditch"))    # concrete: no stone relations
+    evaluated(w, qtbot)
     assert pv.entry("table_6_1").what not in panel.unverified.text()
     assert pv.entry("freeboard").what not in panel.unverified.text()
 
 
-def test_rating_curve_marks_where_the_stone_relation_changes(demo_window):
+def test_rating_curve_marks_where_the_stone_relation_changes(demo_window, qtbot):
     """Riprap: n passes from Bathurst's relation to Blodgett's at da/D50 = 1.5 (HEC-15 Eq. 6.1 and 6.2 ranges);
     the curve kinks there, so the picture marks the depth; a concrete ditch has no such mark."""
     from hydraulics.linings.roughness import SWITCH_NOTE
@@ -565,6 +582,7 @@ def test_rating_curve_marks_where_the_stone_relation_changes(demo_window):
     names = [c.name for c in w.doc.project.channels]
     w.tabs.setCurrentIndex(1)
     w.channel_list.setCurrentRow(names.index("Outfall swale"))
+    evaluated(w, qtbot)
     pic = w.rating_picture
     assert pic.switch.get_visible()
     ys = pic.switch.get_ydata()[0]
@@ -573,6 +591,7 @@ def test_rating_curve_marks_where_the_stone_relation_changes(demo_window):
     assert g.area / g.top_width == pytest.approx(1.5 * w.doc.channel().lining.d50, rel=1e-6)   # SI project
     assert SWITCH_NOTE in [t.get_text() for t in pic.legend.get_texts()]
     w.channel_list.setCurrentRow(names.index("East verge ditch"))
+    evaluated(w, qtbot)
     assert not pic.switch.get_visible()
     assert SWITCH_NOTE not in [t.get_text() for t in pic.legend.get_texts()]
 
@@ -732,12 +751,13 @@ source = "Invented for this test"
     assert "Asphalt, rough" in labels and "Asphalt, rough [my_asphalt]" in labels
 
 
-def test_results_show_the_lining_facts_the_sheet_gives(demo_window):
+def test_results_show_the_lining_facts_the_sheet_gives(demo_window, qtbot):
     """Issue 16 item 14: the window shows what the sheet's stability block gives: protection below the bend,
     lined width and layer volume (besides the required D50, thickness and side and bend shear)."""
     w = demo_window
     names = [c.name for c in w.doc.project.channels]
     w.channel_list.setCurrentRow(names.index("Outfall swale"))          # riprap in a bend
+    evaluated(w, qtbot)
     st = w.results.shown.lining
     for key, value, unit in (("bend_protection_length", st.bend_protection_length, "m"),
                              ("lined_width", st.lined_width, "m"), ("layer_volume", st.layer_volume, "m³/m")):
@@ -747,13 +767,14 @@ def test_results_show_the_lining_facts_the_sheet_gives(demo_window):
         assert abs(float(number) - value) <= 0.5 * 10 ** -len(number.split(".")[1]), key
         assert shown_unit.replace("^3", "³") in (unit, unit.replace("³", "^3")), (key, label.text())
     w.channel_list.setCurrentRow(names.index("Farm crossing pipe"))      # no lining: none of them
+    evaluated(w, qtbot)
     for key in ("bend_protection_length", "lined_width", "layer_volume"):
         assert not w.results.values[key].isVisibleTo(w.results)
 
 
-def test_one_keystroke_evaluates_the_channel_once(demo_window, monkeypatch):
-    """A typed value reaches the core once: the form's reload tells the window about its complaint only when
-    the complaint changed, so the window does not evaluate the channel a second time for the same edit."""
+def test_one_keystroke_evaluates_the_channel_once(demo_window, qtbot, monkeypatch):
+    """A typed value reaches the core once (in the worker): the form's reload tells the window about its complaint
+    only when the complaint changed, and a changed complaint alone shows the result again without evaluating."""
     from app import channel_display
     w = demo_window
     calls = []
@@ -764,10 +785,98 @@ def test_one_keystroke_evaluates_the_channel_once(demo_window, monkeypatch):
         calls.clear()
         field.edit.setText(text)
         field._typed(text)
+        ev = evaluated(w, qtbot)
         assert len(calls) == 1, text
+        assert ev.section.bottom_width == pytest.approx(float(text))     # the result shown is of that input
     assert w.doc.channel().section["bottom_width"] == pytest.approx(0.75)
     # a value the form refuses is not evaluated at all, and the complaint still reaches the results
     calls.clear()
     field.edit.setText("-1")
     field._typed("-1")
-    assert w.complaint and len(calls) <= 1
+    evaluated(w, qtbot)
+    assert w.complaint and calls == []
+    assert w.results.headline.text() == "No result for these inputs" and "-1 is outside" in w.results.reason.text()
+
+
+def widths_evaluated(monkeypatch, gate=None):
+    """The bottom widths the core is asked to evaluate, in order; with ``gate`` (a threading.Event) the first
+    evaluation waits in the worker until the gate is opened."""
+    from app import channel_display
+    widths = []
+    original = channel_display.evaluate_channel
+
+    def evaluate(channel, *args, **kwargs):
+        widths.append(channel.section["bottom_width"])
+        if gate is not None and len(widths) == 1:
+            assert gate.wait(20)
+        return original(channel, *args, **kwargs)
+    monkeypatch.setattr(channel_display, "evaluate_channel", evaluate)
+    return widths
+
+
+def test_typing_several_edits_quickly_evaluates_only_the_last(demo_window, qtbot, monkeypatch):
+    w = demo_window
+    widths = widths_evaluated(monkeypatch)
+    type_into(qtbot, field(w, "trapezoid:section.bottom_width"), "1.25")   # four edits: 1, 1., 1.2, 1.25
+    assert w.doc.channel().section["bottom_width"] == 1.25
+    assert evaluated(w, qtbot).section.bottom_width == pytest.approx(1.25)
+    assert widths == [1.25]
+
+
+def test_a_stale_result_never_overwrites_a_newer_one(demo_window, qtbot, monkeypatch):
+    """An edit made while the worker computes the one before: the older result is dropped, the newer one shown;
+    meanwhile the last good result stays in view, marked as being updated once that takes long."""
+    import threading
+    w = demo_window
+    before = shown(w, "normal_depth")
+    gate = threading.Event()
+    widths = widths_evaluated(monkeypatch, gate)
+    delivered = []
+    w.evaluator.succeeded.connect(lambda done: delivered.append(done[0].section["bottom_width"]))
+    f = field(w, "trapezoid:section.bottom_width")
+    try:
+        f.edit.setText("0.7")
+        f._typed("0.7")
+        qtbot.waitUntil(lambda: w.evaluator.running, timeout=10000)       # held in the worker at 0.7
+        f.edit.setText("0.9")
+        f._typed("0.9")
+        qtbot.waitUntil(lambda: w.results.updating.isVisible(), timeout=10000)
+        assert shown(w, "normal_depth") == before and w.results.numbers.isEnabled()   # the last result stays
+    finally:
+        gate.set()
+    ev = evaluated(w, qtbot)
+    assert widths == [0.7, 0.9] and delivered == [0.9]
+    assert ev.section.bottom_width == pytest.approx(0.9) and not w.results.updating.isVisible()
+    ch = w.doc.channel()
+    sec = hy.Trapezoid(bottom_width=0.9, left_slope=ch.section["left_slope"], right_slope=ch.section["right_slope"])
+    assert shown(w, "normal_depth") == f"{hy.normal_depth(sec, ch.flow.value, ch.slope, ch.manning_n):.3f} m"
+
+
+def test_an_error_in_the_worker_is_a_message_not_a_traceback(demo_window, qtbot, monkeypatch, dialogs):
+    from app import channel_display
+    w = demo_window
+    good = shown(w, "normal_depth")
+
+    def broken(*args, **kwargs):
+        raise RuntimeError("the core broke")
+    monkeypatch.setattr(channel_display, "evaluate_channel", broken)
+    type_into(qtbot, field(w, "trapezoid:section.bottom_width"), "0.8")
+    evaluated(w, qtbot)                 # pytest-qt fails the test if the error escaped into Qt's event loop
+    assert w.results.headline.text() == "No result for these inputs"
+    assert "could not be computed: RuntimeError: the core broke" in w.results.reason.text()
+    assert shown(w, "normal_depth") == good and not w.results.numbers.isEnabled()   # the last good, greyed
+    assert dialogs.shown == []
+
+
+def test_copying_the_comparison_right_after_an_edit_uses_the_new_inputs(demo_window, qtbot):
+    """The comparison is computed for the channel as it is, not taken from a result still on its way."""
+    from PySide6.QtGui import QGuiApplication
+    w = demo_window
+    w.doc.set_current(outfall_index(w))
+    w.tabs.setCurrentIndex(3)
+    w.doc.edit("slope", 0.02, "Change bed slope")
+    w.copy_table_action.trigger()                           # no waiting
+    rows, _ = display.compare(w.doc.channel(), w.doc.context)
+    depth = QGuiApplication.clipboard().text().splitlines()[1].split("\t")[1]
+    assert float(depth) == pytest.approx(rows[0].core.depth, abs=5e-4)
+    assert w.doc.channel().slope == 0.02
