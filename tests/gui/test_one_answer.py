@@ -317,7 +317,7 @@ def test_a_run_reads_alike_in_the_window_the_sheet_and_the_run_command(units, de
     jumps and the warnings of the demo's run read the same in the window's run panel and on the run sheet (one
     Qt-free statement of them, app.run_summary, rounded by the rules of app.results), and `run --json` gives the
     numbers they round; the run's verdict agrees with the stations of the JSON."""
-    from run_waiting import shown
+    from waiting import shown
     from app.sheet.content import pretty_unit
 
     w = demo_window
