@@ -369,6 +369,7 @@ def test_a_supercritical_channel_is_cautioned_in_the_window(qtbot):
     w = MainWindow(pj.Project(name="Invented chute", units="si", channels=[ch]))
     qtbot.addWidget(w)
     w.show()
+    evaluated(w, qtbot)
     text = " ".join(w.results.warnings.text().split())
     assert "is supercritical" in text and "HEC-15 Section 2.1.1" in text
     assert "surface waves" in text and "freeboard" in text and "jump" in text

@@ -24,6 +24,7 @@ from app.main import main
 from app.sheet import export_sheets
 from hydraulics.units import US
 from hydraulics.wording import in_units
+from waiting import evaluated
 
 MARK = "not deep enough for the freeboard"
 
@@ -45,6 +46,7 @@ def test_a_warning_reads_alike_in_the_window_on_the_sheet_and_from_calc(qtbot, t
 
     window = MainWindow(project, persistent=False, context=context)
     qtbot.addWidget(window)
+    evaluated(window, qtbot)
     shown = [html.unescape(i) for i in re.findall(r"<li>(.*?)</li>", window.results.warnings.text())]
     (in_window,) = [w for w in shown if MARK in w]
 
