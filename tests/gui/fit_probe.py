@@ -190,8 +190,16 @@ class Probe:
         self.app = app
         self.shots = shots
         self.report = {}
+        self.window = None       # the main window, once made: its worker threads are waited for
 
     def settle(self, rounds: int = 4) -> None:
+        """Let Qt lay out and paint, after the window's channel result and run (solved off its thread) are in."""
+        import time
+        end = time.monotonic() + 60
+        while self.window is not None and time.monotonic() < end and not (
+                self.window.evaluator.idle and (self.window.run_view is None or self.window.run_view.idle)):
+            self.app.processEvents()
+            time.sleep(0.01)
         for _ in range(rounds):
             self.app.processEvents()
 
@@ -267,6 +275,7 @@ def run(args) -> dict:
     from app.gui.sheet_dialogs import ExportSheetDialog, NotesDialog, SheetDetailsDialog
     demo = pj.loads(pj.demo_path().read_text(encoding="utf-8"))
     w = MainWindow(demo, persistent=False)
+    probe.window = w
     w.doc.set_units(args.units)
     if args.maximized:                   # as a maximised window: the screen's room less the title bar
         w.resize(room(w.screen()).size())
