@@ -49,7 +49,7 @@ from .run_layout import RunLayout, StationRange
 from .run_quantities import stretch_quantities
 from .run_screening import Screening, screen_lining, solvable
 from .sections import Section
-from .solvers import critical_depth, normal_depth
+from .solvers import critical_depth, normal_depth, solve_normal_depth
 from .stability import StabilityResult, check_lining
 from .wording import worded
 
@@ -338,25 +338,30 @@ def _travel_velocity(points, roughness) -> np.ndarray:
     which = np.array([p.section_index for p in points], dtype=int)
     flow = np.array([p.flow for p in points], dtype=float)
     grade = np.array([p.grade for p in points], dtype=float)
-    return _travel_velocities(sections, which, flow, grade, roughness)
+    return _travel_velocities(sections, which, flow, grade, roughness)[0]
 
 
-def _normal_depths(section, flow, slope, rough) -> np.ndarray:
+def _normal_depths(section, flow, slope, rough):
     """Normal depth of each flow [m], nan where it has none (what ``normal_depth`` refuses with NoSolutionError):
-    one array solve, with the flows a closed section cannot surely carry left to the scalar solve."""
+    one array solve, with the flows a closed section cannot surely carry left to the scalar solve. Returns the
+    depths and, when the one array solve took every flow, its DepthSolution (else None)."""
     y = np.full(flow.size, np.nan)
+    whole = None
     sure, near = solvable(section, flow, slope, rough)
     try:
-        if sure.any():
+        if sure.all():
+            whole = solve_normal_depth(section, flow, slope, rough)
+            y[:] = whole.depth
+        elif sure.any():
             y[sure] = normal_depth(section, flow[sure], slope[sure], rough)
     except HydraulicsError:            # the array solve could not be made: every flow on its own
-        near = np.ones(flow.size, dtype=bool)
+        near, whole = np.ones(flow.size, dtype=bool), None
     for i in np.flatnonzero(near).tolist():
         try:
             y[i] = normal_depth(section, float(flow[i]), float(slope[i]), rough)
         except NoSolutionError:
             y[i] = np.nan
-    return y
+    return y, whole
 
 
 def _critical_depths(section, flow) -> np.ndarray:
@@ -367,20 +372,23 @@ def _critical_depths(section, flow) -> np.ndarray:
         return np.array([critical_depth(section, float(q)) for q in flow], dtype=float)
 
 
-def _travel_velocities(sections: dict, which, flow, grade, roughness) -> np.ndarray:
+def _travel_velocities(sections: dict, which, flow, grade, roughness):
     """:func:`_travel_velocity` on arrays: one array solve per section and candidate [m/s].
 
     ``sections`` maps a section index to its Section, ``which`` gives each point's section index, ``flow`` [m^3/s]
-    and ``grade`` [m/m] each point's; ``roughness`` the candidates' roughness (a number or a model).
+    and ``grade`` [m/m] each point's; ``roughness`` the candidates' roughness (a number or a model). Returns the
+    velocities and the normal-depth solutions made on the way: {(section index, candidate): DepthSolution of the
+    section's points with flow on a falling grade, in point order} where one array solve took them all.
     """
     v = np.full(flow.size, np.nan)
+    solutions = {}
     for index, section in sections.items():
         rows = np.flatnonzero((which == index) & (flow > 0))
         falling = rows[grade[rows] > 0]
         best = np.zeros(falling.size)
         q = flow[falling]
-        for rough in roughness:
-            y = _normal_depths(section, q, grade[falling], rough)
+        for k, rough in enumerate(roughness):
+            y, solutions[index, k] = _normal_depths(section, q, grade[falling], rough) if q.size else (q, None)
             solved = ~np.isnan(y)
             if solved.any():
                 best[solved] = np.maximum(best[solved], q[solved] / section.properties(y[solved]).area)
@@ -390,13 +398,13 @@ def _travel_velocities(sections: dict, which, flow, grade, roughness) -> np.ndar
             yc = _critical_depths(section, flow[still])
             v[still] = flow[still] / section.properties(yc).area
     if np.all(np.isnan(v)):
-        return np.ones(flow.size)  # no flow anywhere: no travel to time
+        return np.ones(flow.size), solutions  # no flow anywhere: no travel to time
     # a point without flow takes the velocity of the next point downstream with flow; the last ones, the previous
     idx = np.where(~np.isnan(v), np.arange(v.size), v.size)
     nxt = np.minimum.accumulate(idx[::-1])[::-1]
     filled = np.where(nxt < v.size, v[np.minimum(nxt, v.size - 1)], np.nan)
     last = v[~np.isnan(v)][-1]
-    return np.where(np.isnan(filled), last, filled)
+    return np.where(np.isnan(filled), last, filled), solutions
 
 
 def solve_run(run: DitchRun) -> RunResult:
@@ -433,19 +441,21 @@ def solve_run(run: DitchRun) -> RunResult:
     grade = np.asarray(layout.grade, dtype=float)
 
     # -- flow and travel time to a fixed point --------------------------------
+    # The result is the travel time whose next round changes it by no more than TRAVEL_TOLERANCE, with the flows
+    # of that travel time: the last round's flows and normal depths are then the run's own (not solved again).
     roughness = [c.lining.roughness(c.d50) for c in run.candidates]
     tau = np.zeros(layout.x.size)
     for iteration in range(1, MAX_TRAVEL_ITERATIONS + 1):
         state = peak_flows(layout, pieces, run.point_inflows, tau, run.idf, run.return_period, run.min_duration)
-        new_tau = travel_times(layout.x, _travel_velocities(sections, which, state.flow, grade, roughness))
+        velocity, solutions = _travel_velocities(sections, which, state.flow, grade, roughness)
+        new_tau = travel_times(layout.x, velocity)
         change = float(np.max(np.abs(new_tau - tau)))
-        tau = new_tau
         if change <= TRAVEL_TOLERANCE:
             break
+        tau = new_tau
     else:
         raise ConvergenceError(f"the travel time down the ditch did not settle in {MAX_TRAVEL_ITERATIONS} rounds "
                                f"(last change {change:.3g} s): the flow and the ditch velocity keep changing each other")
-    state = peak_flows(layout, pieces, run.point_inflows, tau, run.idf, run.return_period, run.min_duration)
     flow = np.asarray(state.flow, dtype=float)
 
     # -- every candidate at every point, on arrays ------------------------------
@@ -460,7 +470,7 @@ def solve_run(run: DitchRun) -> RunResult:
         for k, c in enumerate(run.candidates):
             screening.put((rows, k), screen_lining(section, flow[rows], grade[rows], c.lining, d50=c.d50,
                                                  bend_radius=bent, min_freeboard=run.min_freeboard,
-                                                 roughness=roughness[k]))
+                                                 roughness=roughness[k], normal=solutions.get((index, k))))
     margin = np.where(screening.checked, screening.margin, np.nan)
     lined, volume = screening.lined_width.copy(), screening.layer_volume.copy()
     cost = np.full((n, k_count), np.nan)
