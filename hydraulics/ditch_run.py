@@ -60,6 +60,8 @@ __all__ = ["SectionRange", "Bend", "Candidate", "DitchRun", "PointResult", "Poin
 #: The travel-time iteration stops when no design point's travel time changes by more than this [s].
 TRAVEL_TOLERANCE = 1e-3
 MAX_TRAVEL_ITERATIONS = 100
+#: Earlier rounds the next travel time is mixed from (Anderson mixing, :func:`_mixed_travel_time`).
+TRAVEL_MIXING = 2
 
 #: The run's warning where normal depth plus freeboard is above the ditch as built (a front end that checks the fit
 #: on the water-surface profile, :mod:`hydraulics.run_water_surface`, shows that check instead).
@@ -407,6 +409,32 @@ def _travel_velocities(sections: dict, which, flow, grade, roughness):
     return np.where(np.isnan(filled), last, filled), solutions
 
 
+def _mixed_travel_time(rounds: list, step, image, change) -> np.ndarray:
+    """The travel time to try next, from this round's (the travel time it gave, ``image``, and ``step``, that less
+    the one it started from; ``change`` the largest step [s]) and the earlier ``rounds`` (kept in that list).
+
+    Anderson mixing (Anderson, D. G., 1965, J. ACM 12(4); the form with differences of residuals, e.g. Walker, H. F.
+    and Ni, P., 2011, SIAM J. Numer. Anal. 49(4)) over the last TRAVEL_MIXING rounds: the images combined with the
+    weights that make the combined step least in the least-squares sense. The plain image is taken instead on the
+    first round, after a round whose step grew (the history starts again there), and where the mixed travel time
+    would not rise along the run. Only the start of each round changes: the iteration still stops on a plain
+    round, where the travel time it started from changes by at most TRAVEL_TOLERANCE.
+    """
+    if rounds and change > rounds[-1][2]:
+        rounds.clear()
+    rounds.append((step, image, change))
+    del rounds[:-(TRAVEL_MIXING + 1)]
+    if len(rounds) < 2:
+        return image
+    d_step = np.column_stack([b[0] - a[0] for a, b in zip(rounds, rounds[1:])])
+    d_image = np.column_stack([b[1] - a[1] for a, b in zip(rounds, rounds[1:])])
+    weights = np.linalg.lstsq(d_step, step, rcond=None)[0]
+    mixed = image - d_image @ weights
+    if not (np.all(np.isfinite(mixed)) and mixed[0] == image[0] and np.all(np.diff(mixed) > 0)):
+        return image
+    return mixed
+
+
 def solve_run(run: DitchRun) -> RunResult:
     """Solve a ditch run (see the module's text). Raises InputError for bad input (naming the item),
     NoSolutionError where no buildable schedule exists, ConvergenceError if the travel time does not settle.
@@ -445,6 +473,7 @@ def solve_run(run: DitchRun) -> RunResult:
     # of that travel time: the last round's flows and normal depths are then the run's own (not solved again).
     roughness = [c.lining.roughness(c.d50) for c in run.candidates]
     tau = np.zeros(layout.x.size)
+    rounds = []
     for iteration in range(1, MAX_TRAVEL_ITERATIONS + 1):
         state = peak_flows(layout, pieces, run.point_inflows, tau, run.idf, run.return_period, run.min_duration)
         velocity, solutions = _travel_velocities(sections, which, state.flow, grade, roughness)
@@ -452,7 +481,7 @@ def solve_run(run: DitchRun) -> RunResult:
         change = float(np.max(np.abs(new_tau - tau)))
         if change <= TRAVEL_TOLERANCE:
             break
-        tau = new_tau
+        tau = _mixed_travel_time(rounds, new_tau - tau, new_tau, change)
     else:
         raise ConvergenceError(f"the travel time down the ditch did not settle in {MAX_TRAVEL_ITERATIONS} rounds "
                                f"(last change {change:.3g} s): the flow and the ditch velocity keep changing each other")
