@@ -374,39 +374,53 @@ def _critical_depths(section, flow) -> np.ndarray:
         return np.array([critical_depth(section, float(q)) for q in flow], dtype=float)
 
 
-def _travel_velocities(sections: dict, which, flow, grade, roughness):
+def _travel_velocities(sections: dict, which, flow, grade, roughness, only=None):
     """:func:`_travel_velocity` on arrays: one array solve per section and candidate [m/s].
 
     ``sections`` maps a section index to its Section, ``which`` gives each point's section index, ``flow`` [m^3/s]
     and ``grade`` [m/m] each point's; ``roughness`` the candidates' roughness (a number or a model). Returns the
-    velocities and the normal-depth solutions made on the way: {(section index, candidate): DepthSolution of the
-    section's points with flow on a falling grade, in point order} where one array solve took them all.
+    velocities, the normal-depth solutions made on the way ({(section index, candidate): DepthSolution of the
+    section's points with flow on a falling grade, in point order} where one array solve took them all) and the
+    fastest candidate at each point (-1: none, the velocity is at critical depth or the point has no flow).
+
+    With ``only`` (a candidate per point, as the last such call gave) each point tries that candidate alone:
+    the same velocities wherever it is still the fastest (no solutions are returned then).
     """
     v = np.full(flow.size, np.nan)
+    fastest = np.full(flow.size, -1)
     solutions = {}
     for index, section in sections.items():
         rows = np.flatnonzero((which == index) & (flow > 0))
         falling = rows[grade[rows] > 0]
         best = np.zeros(falling.size)
-        q = flow[falling]
         for k, rough in enumerate(roughness):
-            y, solutions[index, k] = _normal_depths(section, q, grade[falling], rough) if q.size else (q, None)
+            at = slice(None) if only is None else np.flatnonzero(only[falling] == k)
+            q = flow[falling[at]]
+            if not q.size:
+                continue
+            y, whole = _normal_depths(section, q, grade[falling[at]], rough)
+            if only is None:
+                solutions[index, k] = whole
             solved = ~np.isnan(y)
             if solved.any():
-                best[solved] = np.maximum(best[solved], q[solved] / section.properties(y[solved]).area)
+                speed = np.zeros(q.size)
+                speed[solved] = q[solved] / section.properties(y[solved]).area
+                faster = speed > best[at]
+                best[at] = np.where(faster, speed, best[at])
+                fastest[falling[at][faster]] = k
         v[falling[best > 0]] = best[best > 0]
         still = rows[np.isnan(v[rows])]          # zero or adverse grade, or no normal depth for any candidate
         if still.size:
             yc = _critical_depths(section, flow[still])
             v[still] = flow[still] / section.properties(yc).area
     if np.all(np.isnan(v)):
-        return np.ones(flow.size), solutions  # no flow anywhere: no travel to time
+        return np.ones(flow.size), solutions, fastest  # no flow anywhere: no travel to time
     # a point without flow takes the velocity of the next point downstream with flow; the last ones, the previous
     idx = np.where(~np.isnan(v), np.arange(v.size), v.size)
     nxt = np.minimum.accumulate(idx[::-1])[::-1]
     filled = np.where(nxt < v.size, v[np.minimum(nxt, v.size - 1)], np.nan)
     last = v[~np.isnan(v)][-1]
-    return np.where(np.isnan(filled), last, filled), solutions
+    return np.where(np.isnan(filled), last, filled), solutions, fastest
 
 
 def _mixed_travel_time(rounds: list, step, image, change) -> np.ndarray:
@@ -471,16 +485,20 @@ def solve_run(run: DitchRun) -> RunResult:
     # -- flow and travel time to a fixed point --------------------------------
     # The result is the travel time whose next round changes it by no more than TRAVEL_TOLERANCE, with the flows
     # of that travel time: the last round's flows and normal depths are then the run's own (not solved again).
+    # A round that tries every candidate is followed by rounds that try each point's fastest of that round alone
+    # (the same velocities while it stays the fastest) until they settle; only a round of every candidate ends it.
     roughness = [c.lining.roughness(c.d50) for c in run.candidates]
     tau = np.zeros(layout.x.size)
-    rounds = []
+    rounds, fastest = [], None
     for iteration in range(1, MAX_TRAVEL_ITERATIONS + 1):
         state = peak_flows(layout, pieces, run.point_inflows, tau, run.idf, run.return_period, run.min_duration)
-        velocity, solutions = _travel_velocities(sections, which, state.flow, grade, roughness)
+        velocity, solutions, found = _travel_velocities(sections, which, state.flow, grade, roughness, fastest)
         new_tau = travel_times(layout.x, velocity)
         change = float(np.max(np.abs(new_tau - tau)))
-        if change <= TRAVEL_TOLERANCE:
+        if change <= TRAVEL_TOLERANCE and fastest is None:
             break
+        # after every candidate: the fastest alone; once those settle, every candidate again
+        fastest = found if fastest is None else (None if change <= TRAVEL_TOLERANCE else fastest)
         tau = _mixed_travel_time(rounds, new_tau - tau, new_tau, change)
     else:
         raise ConvergenceError(f"the travel time down the ditch did not settle in {MAX_TRAVEL_ITERATIONS} rounds "
