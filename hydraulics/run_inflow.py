@@ -163,6 +163,28 @@ _BLOCK = 16
 _BOUND_MARGIN = 1e-12
 
 
+#: Design points per group of the coarse bound on a block's intensity (see :func:`_block_bound`).
+_GROUP = 32
+
+
+def _block_bound(key, tau, rows, soonest, whole, idf, return_period, min_duration, blocks) -> np.ndarray:
+    """(points, blocks): an upper bound on the intensity at the first arrival of each block at each point, where
+    the block has a joined piece there (elsewhere any number).
+
+    The design points are taken in groups of ``_GROUP`` along the run; a block's first piece (arrival-order key
+    ``key`` = t_c - tau(entry)) arrives at a point of the group no sooner than at the group's least travel time,
+    and the intensity falls as the duration grows, so the intensity read there, at no less than the soonest
+    arrival of any point nor t_min, bounds it for the whole group.
+    """
+    n = tau.size
+    starts = np.arange(0, n, _GROUP)
+    least_tau = np.minimum.reduceat(tau, starts)
+    low = max(float(np.min(soonest[rows])), min_duration)
+    first = key[::_BLOCK][:blocks]
+    d = np.clip(first[None, :] + least_tau[:, None], low, max(float(np.max(whole[rows])), low))
+    return np.repeat(idf.intensity(d, return_period), np.diff(np.r_[starts, n]), axis=0)
+
+
 def peak_flows(layout: RunLayout, pieces: Pieces, inflows, tau, idf, return_period: float,
                min_duration: float) -> FlowState:
     """The design flow at every design point for travel times ``tau`` [s] (see the module's text).
@@ -178,7 +200,8 @@ def peak_flows(layout: RunLayout, pieces: Pieces, inflows, tau, idf, return_peri
     falls as the duration grows (``idf.falls_with_duration``, true of :class:`hydraulics.rainfall.IdfTable` and
     :class:`hydraulics.rainfall.IdfFormula`), the pieces are taken in blocks of ``_BLOCK`` and a block is
     searched only when i(its first arrival) x (C A arrived by its last) can reach the whole area's flow: the
-    others cannot hold the largest. Every duration the search would read is still offered to the relation, so
+    others cannot hold the largest. That test is made first on a coarse bound of i (:func:`_block_bound`, one
+    reading per block and group of points), then on i itself for the blocks the bound leaves in. Every duration the search would read is still offered to the relation, so
     it refuses the same durations.
     """
     n = layout.x.size
@@ -242,7 +265,9 @@ def peak_flows(layout: RunLayout, pieces: Pieces, inflows, tau, idf, return_peri
         least[rows] = (1.0 - _BOUND_MARGIN) * idf.intensity(np.maximum(whole[rows], min_duration), return_period) \
             * by_end[rows, -1]
         most[rows] = idf.intensity(np.maximum(soonest[rows], min_duration), return_period)
-        search = joined_in & (most[:, None] * by_end >= least[:, None])
+        search = joined_in & (np.minimum(_block_bound(tc - t_entry, tau, rows, soonest, whole, idf, return_period,
+                                                      min_duration, blocks), most[:, None]) * by_end
+                              >= least[:, None])
         p_i, b_i = np.nonzero(search)
         # no joined piece of a block arrives before its first piece, nor before the point's first one
         d0 = np.maximum(np.clip(arrival(p_i, b_i * _BLOCK), soonest[p_i], whole[p_i]), min_duration)
