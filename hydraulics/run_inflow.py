@@ -273,12 +273,16 @@ def peak_flows(layout: RunLayout, pieces: Pieces, inflows, tau, idf, return_peri
         d0 = np.maximum(np.clip(arrival(p_i, b_i * _BLOCK), soonest[p_i], whole[p_i]), min_duration)
         search[p_i, b_i] = idf.intensity(d0, return_period) * by_end[p_i, b_i] >= least[p_i]
     pair_row, pair_block = np.nonzero(search)
-    at = pair_block[:, None] * _BLOCK + np.arange(_BLOCK)[None, :]          # (pairs, _BLOCK) positions
-    joined = join[at] <= pair_row[:, None]
+
+    def in_pairs(values):
+        """(pairs, _BLOCK): ``values`` (one per sorted position) of the pieces of each pair's block."""
+        return values.reshape(blocks, _BLOCK)[pair_block]
+
+    joined = in_pairs(join) <= pair_row[:, None]
     before = np.where(pair_block > 0, by_end[pair_row, np.maximum(pair_block - 1, 0)], 0.0)
-    cum = before[:, None] + np.cumsum(np.where(joined, ca[at], 0.0), axis=1)
-    d_eff = np.maximum(arrival(pair_row[:, None], at), min_duration)
-    intensity = np.zeros(at.shape)
+    cum = before[:, None] + np.cumsum(np.where(joined, in_pairs(ca), 0.0), axis=1)
+    d_eff = np.maximum(in_pairs(tc) + tau[pair_row][:, None] - in_pairs(t_entry), min_duration)   # arrival()
+    intensity = np.zeros(joined.shape)
     intensity[joined] = idf.intensity(d_eff[joined], return_period)
     q = np.where(joined, intensity * cum, -np.inf)
     inner = np.argmax(q, axis=1)
