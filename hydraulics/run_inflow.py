@@ -34,7 +34,7 @@ durations [s], intensities [m/s], flows [m^3/s].
 
 from __future__ import annotations
 
-from dataclasses import dataclass
+from dataclasses import dataclass, field
 
 import numpy as np
 
@@ -84,13 +84,15 @@ class Pieces:
     """The drainage pieces of a run: each sub-area at one station is one piece, a spread one is split at the
     design points. ``origin``: design point where its travel down the ditch starts; ``join``: first design point
     that carries it; ``ca``: C A [m^2]; ``tc``: its own time of concentration [s]; ``source``: index of its
-    sub-area."""
+    sub-area. ``plan``: what :func:`peak_flows` worked out from the order of arrival alone, kept for its next call
+    with the same order (the last rounds of a run's travel-time iteration)."""
 
     origin: np.ndarray
     join: np.ndarray
     ca: np.ndarray
     tc: np.ndarray
     source: np.ndarray
+    plan: dict = field(default_factory=dict, compare=False, repr=False)
 
 
 @dataclass(frozen=True)
@@ -163,6 +165,36 @@ _BLOCK = 16
 _BOUND_MARGIN = 1e-12
 
 
+def _arrival_plan(pieces: Pieces, order, n: int) -> dict:
+    """What :func:`peak_flows` needs that depends on the order of arrival ``order`` alone (``n`` design points):
+    the pieces' t_c, C A and joining point in that order, padded to whole blocks (``blocks`` of them, ``pad``
+    pieces added); the C A joined at each point in each block (``in_block``, ``joined_in`` where any) and arrived
+    by each block's end (``by_end``); the first and last joined piece at each point (positions in arrival order;
+    -1: none). Its arrays are read-only, being kept for later calls."""
+    count = order.size
+    blocks = -(-count // _BLOCK)
+    pad = blocks * _BLOCK - count
+    tc = np.concatenate([pieces.tc[order], np.full(pad, pieces.tc[order[-1]])])
+    ca = np.concatenate([pieces.ca[order], np.zeros(pad)])
+    join = np.concatenate([pieces.join[order], np.full(pad, n)])
+    # C A joined at each point in each block, and arrived by each block's end
+    cell = np.minimum(join, n) * blocks + np.arange(blocks * _BLOCK) // _BLOCK
+    in_block = np.bincount(cell, weights=ca, minlength=(n + 1) * blocks).reshape(n + 1, blocks)
+    in_block = np.cumsum(in_block, axis=0)[:n]
+    # first and last joined piece at each point (positions in arrival order; -1: none)
+    position = np.arange(blocks * _BLOCK)
+    last = np.full(n + 1, -1)
+    first = np.full(n + 1, blocks * _BLOCK)
+    np.maximum.at(last, np.minimum(join, n), position)
+    np.minimum.at(first, np.minimum(join, n), position)
+    plan = dict(tc=tc, ca=ca, join=join, in_block=in_block, joined_in=in_block > 0,   # every piece has C A > 0
+                by_end=np.cumsum(in_block, axis=1), last=np.maximum.accumulate(last)[:n],
+                first=np.minimum.accumulate(first)[:n])
+    for a in plan.values():
+        a.setflags(write=False)
+    return dict(plan, blocks=blocks, pad=pad)
+
+
 #: Design points per group of the coarse bound on a block's intensity (see :func:`_block_bound`).
 _GROUP = 32
 
@@ -201,8 +233,9 @@ def peak_flows(layout: RunLayout, pieces: Pieces, inflows, tau, idf, return_peri
     :class:`hydraulics.rainfall.IdfFormula`), the pieces are taken in blocks of ``_BLOCK`` and a block is
     searched only when i(its first arrival) x (C A arrived by its last) can reach the whole area's flow: the
     others cannot hold the largest. That test is made first on a coarse bound of i (:func:`_block_bound`, one
-    reading per block and group of points), then on i itself for the blocks the bound leaves in. Every duration the search would read is still offered to the relation, so
-    it refuses the same durations.
+    reading per block and group of points), then on i itself for the blocks the bound leaves in. Every duration
+    the search would read is still offered to the relation, so it refuses the same durations. What depends on the
+    order of arrival alone is kept in ``pieces.plan`` for the next call with the same order.
     """
     n = layout.x.size
     tau = np.asarray(tau, dtype=float)
@@ -219,32 +252,18 @@ def peak_flows(layout: RunLayout, pieces: Pieces, inflows, tau, idf, return_peri
                          flow=point_flow.copy(), whole_duration=zeros.copy())
     # the pieces in order of arrival (the same at every point), padded to whole blocks with pieces never joined
     order = np.argsort(pieces.tc - tau[pieces.origin], kind="stable")
-    count = order.size
-    blocks = -(-count // _BLOCK)
-    pad = blocks * _BLOCK - count
-    tc = np.concatenate([pieces.tc[order], np.full(pad, pieces.tc[order[-1]])])
-    t_entry = np.concatenate([tau[pieces.origin][order], np.full(pad, tau[pieces.origin][order[-1]])])
-    ca = np.concatenate([pieces.ca[order], np.zeros(pad)])
-    join = np.concatenate([pieces.join[order], np.full(pad, n)])
-    block_of = np.arange(blocks * _BLOCK) // _BLOCK
+    plan = pieces.plan
+    if plan.get("n") != n or not np.array_equal(plan["order"], order):
+        plan.clear()
+        plan.update(_arrival_plan(pieces, order, n), order=order, n=n)
+    tc, ca, join, blocks = plan["tc"], plan["ca"], plan["join"], plan["blocks"]
+    in_block, joined_in, by_end, first, last = (plan[k] for k in ("in_block", "joined_in", "by_end", "first", "last"))
+    t_entry = np.concatenate([tau[pieces.origin][order], np.full(plan["pad"], tau[pieces.origin][order[-1]])])
 
     def arrival(rows, at):
         """Arrival time [s] at the points ``rows`` of the pieces at sorted positions ``at``."""
         return tc[at] + tau[rows] - t_entry[at]
 
-    # C A joined at each point in each block, and arrived by each block's end
-    cell = np.minimum(join, n) * blocks + block_of
-    in_block = np.bincount(cell, weights=ca, minlength=(n + 1) * blocks).reshape(n + 1, blocks)
-    in_block = np.cumsum(in_block, axis=0)[:n]
-    joined_in = in_block > 0                                 # every piece has C A > 0
-    by_end = np.cumsum(in_block, axis=1)
-    # first and last joined piece at each point (positions in arrival order; -1: none)
-    position = np.arange(blocks * _BLOCK)
-    last = np.full(n + 1, -1)
-    first = np.full(n + 1, blocks * _BLOCK)
-    np.maximum.at(last, np.minimum(join, n), position)
-    np.minimum.at(first, np.minimum(join, n), position)
-    last, first = np.maximum.accumulate(last)[:n], np.minimum.accumulate(first)[:n]
     has = last >= 0
     rows = np.flatnonzero(has)
     whole, soonest = np.zeros(n), np.zeros(n)
