@@ -10,9 +10,12 @@ side and bend shear, freeboard, lined width, layer volume; the numbers and verdi
 :func:`hydraulics.stability.check_lining` for each point), and priced per length; the cheapest buildable schedule
 follows (:mod:`hydraulics.lining_schedule`), then the quantities of each stretch
 (:mod:`hydraulics.run_quantities`). The travel velocities of each round are array solves too, one per section and
-candidate. The full check of a point (``PointResult.checks``, with the scheduled stone sized) and the cautions of
-the scheduled linings (``RunResult.warnings``) are made by ``check_lining`` when first asked for and kept, so that
-solving a run stays quick enough to follow an edit.
+candidate; between rounds that try every candidate, rounds try each point's fastest alone, each round starts from
+an Anderson mix of the last ones, and the last round's flows and normal depths are the run's own (see
+:func:`solve_run`; tests/test_run_fast_paths.py holds them to the plain iteration). The full check of a point
+(``PointResult.checks``, with the scheduled stone sized) and the cautions of the scheduled linings
+(``RunResult.warnings``) are made by ``check_lining`` when first asked for and kept, so that solving a run stays
+quick enough to follow an edit.
 
 Rules of the program, stated with every result:
 
