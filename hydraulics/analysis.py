@@ -101,15 +101,18 @@ def _count(mask) -> str:
     return "" if m.ndim == 0 else f"{int(m.sum())} of {m.size} channels: "
 
 
-def analyse(section, flow, slope, n=None) -> ChannelResult:
+def analyse(section, flow, slope, n=None, normal=None) -> ChannelResult:
     """Normal and critical depth with every derived quantity; see the module notes.
 
     Parameters are those of :func:`hydraulics.normal_depth`. Raises what that
     function raises. ``warnings`` lists, in words, results near or beyond the
     limits of the method (near-critical flow, non-turbulent flow, a pipe
-    running above its full-flow capacity).
+    running above its full-flow capacity). ``normal``: the
+    :class:`~hydraulics.solvers.DepthSolution` of ``solve_normal_depth(section,
+    flow, slope, n)`` when the caller has made it already (a ditch run solves
+    its normal depths for the travel time first); it is used as it is.
     """
-    sol = solve_normal_depth(section, flow, slope, n)
+    sol = solve_normal_depth(section, flow, slope, n) if normal is None else normal
     crit = solve_critical_depth(section, flow)
     y, yc = sol.depth, crit.depth
     vector = np.ndim(y) > 0

@@ -10,9 +10,12 @@ side and bend shear, freeboard, lined width, layer volume; the numbers and verdi
 :func:`hydraulics.stability.check_lining` for each point), and priced per length; the cheapest buildable schedule
 follows (:mod:`hydraulics.lining_schedule`), then the quantities of each stretch
 (:mod:`hydraulics.run_quantities`). The travel velocities of each round are array solves too, one per section and
-candidate. The full check of a point (``PointResult.checks``, with the scheduled stone sized) and the cautions of
-the scheduled linings (``RunResult.warnings``) are made by ``check_lining`` when first asked for and kept, so that
-solving a run stays quick enough to follow an edit.
+candidate; between rounds that try every candidate, rounds try each point's fastest alone, each round starts from
+an Anderson mix of the last ones, and the last round's flows and normal depths are the run's own (see
+:func:`solve_run`; tests/test_run_fast_paths.py holds them to the plain iteration). The full check of a point
+(``PointResult.checks``, with the scheduled stone sized) and the cautions of the scheduled linings
+(``RunResult.warnings``) are made by ``check_lining`` when first asked for and kept, so that solving a run stays
+quick enough to follow an edit.
 
 Rules of the program, stated with every result:
 
@@ -49,7 +52,7 @@ from .run_layout import RunLayout, StationRange
 from .run_quantities import stretch_quantities
 from .run_screening import Screening, screen_lining, solvable
 from .sections import Section
-from .solvers import critical_depth, normal_depth
+from .solvers import critical_depth, normal_depth, solve_normal_depth
 from .stability import StabilityResult, check_lining
 from .wording import worded
 
@@ -60,6 +63,8 @@ __all__ = ["SectionRange", "Bend", "Candidate", "DitchRun", "PointResult", "Poin
 #: The travel-time iteration stops when no design point's travel time changes by more than this [s].
 TRAVEL_TOLERANCE = 1e-3
 MAX_TRAVEL_ITERATIONS = 100
+#: Earlier rounds the next travel time is mixed from (Anderson mixing, :func:`_mixed_travel_time`).
+TRAVEL_MIXING = 2
 
 #: The run's warning where normal depth plus freeboard is above the ditch as built (a front end that checks the fit
 #: on the water-surface profile, :mod:`hydraulics.run_water_surface`, shows that check instead).
@@ -338,25 +343,30 @@ def _travel_velocity(points, roughness) -> np.ndarray:
     which = np.array([p.section_index for p in points], dtype=int)
     flow = np.array([p.flow for p in points], dtype=float)
     grade = np.array([p.grade for p in points], dtype=float)
-    return _travel_velocities(sections, which, flow, grade, roughness)
+    return _travel_velocities(sections, which, flow, grade, roughness)[0]
 
 
-def _normal_depths(section, flow, slope, rough) -> np.ndarray:
+def _normal_depths(section, flow, slope, rough):
     """Normal depth of each flow [m], nan where it has none (what ``normal_depth`` refuses with NoSolutionError):
-    one array solve, with the flows a closed section cannot surely carry left to the scalar solve."""
+    one array solve, with the flows a closed section cannot surely carry left to the scalar solve. Returns the
+    depths and, when the one array solve took every flow, its DepthSolution (else None)."""
     y = np.full(flow.size, np.nan)
+    whole = None
     sure, near = solvable(section, flow, slope, rough)
     try:
-        if sure.any():
+        if sure.all():
+            whole = solve_normal_depth(section, flow, slope, rough)
+            y[:] = whole.depth
+        elif sure.any():
             y[sure] = normal_depth(section, flow[sure], slope[sure], rough)
     except HydraulicsError:            # the array solve could not be made: every flow on its own
-        near = np.ones(flow.size, dtype=bool)
+        near, whole = np.ones(flow.size, dtype=bool), None
     for i in np.flatnonzero(near).tolist():
         try:
             y[i] = normal_depth(section, float(flow[i]), float(slope[i]), rough)
         except NoSolutionError:
             y[i] = np.nan
-    return y
+    return y, whole
 
 
 def _critical_depths(section, flow) -> np.ndarray:
@@ -367,36 +377,79 @@ def _critical_depths(section, flow) -> np.ndarray:
         return np.array([critical_depth(section, float(q)) for q in flow], dtype=float)
 
 
-def _travel_velocities(sections: dict, which, flow, grade, roughness) -> np.ndarray:
+def _travel_velocities(sections: dict, which, flow, grade, roughness, only=None):
     """:func:`_travel_velocity` on arrays: one array solve per section and candidate [m/s].
 
     ``sections`` maps a section index to its Section, ``which`` gives each point's section index, ``flow`` [m^3/s]
-    and ``grade`` [m/m] each point's; ``roughness`` the candidates' roughness (a number or a model).
+    and ``grade`` [m/m] each point's; ``roughness`` the candidates' roughness (a number or a model). Returns the
+    velocities, the normal-depth solutions made on the way ({(section index, candidate): DepthSolution of the
+    section's points with flow on a falling grade, in point order} where one array solve took them all) and the
+    fastest candidate at each point (-1: none, the velocity is at critical depth or the point has no flow).
+
+    With ``only`` (a candidate per point, as the last such call gave) each point tries that candidate alone:
+    the same velocities wherever it is still the fastest (no solutions are returned then).
     """
     v = np.full(flow.size, np.nan)
+    fastest = np.full(flow.size, -1)
+    solutions = {}
     for index, section in sections.items():
         rows = np.flatnonzero((which == index) & (flow > 0))
         falling = rows[grade[rows] > 0]
         best = np.zeros(falling.size)
-        q = flow[falling]
-        for rough in roughness:
-            y = _normal_depths(section, q, grade[falling], rough)
+        for k, rough in enumerate(roughness):
+            at = slice(None) if only is None else np.flatnonzero(only[falling] == k)
+            q = flow[falling[at]]
+            if not q.size:
+                continue
+            y, whole = _normal_depths(section, q, grade[falling[at]], rough)
+            if only is None:
+                solutions[index, k] = whole
             solved = ~np.isnan(y)
             if solved.any():
-                best[solved] = np.maximum(best[solved], q[solved] / section.properties(y[solved]).area)
+                speed = np.zeros(q.size)
+                speed[solved] = q[solved] / section.properties(y[solved]).area
+                faster = speed > best[at]
+                best[at] = np.where(faster, speed, best[at])
+                fastest[falling[at][faster]] = k
         v[falling[best > 0]] = best[best > 0]
         still = rows[np.isnan(v[rows])]          # zero or adverse grade, or no normal depth for any candidate
         if still.size:
             yc = _critical_depths(section, flow[still])
             v[still] = flow[still] / section.properties(yc).area
     if np.all(np.isnan(v)):
-        return np.ones(flow.size)  # no flow anywhere: no travel to time
+        return np.ones(flow.size), solutions, fastest  # no flow anywhere: no travel to time
     # a point without flow takes the velocity of the next point downstream with flow; the last ones, the previous
     idx = np.where(~np.isnan(v), np.arange(v.size), v.size)
     nxt = np.minimum.accumulate(idx[::-1])[::-1]
     filled = np.where(nxt < v.size, v[np.minimum(nxt, v.size - 1)], np.nan)
     last = v[~np.isnan(v)][-1]
-    return np.where(np.isnan(filled), last, filled)
+    return np.where(np.isnan(filled), last, filled), solutions, fastest
+
+
+def _mixed_travel_time(rounds: list, step, image, change) -> np.ndarray:
+    """The travel time to try next, from this round's (the travel time it gave, ``image``, and ``step``, that less
+    the one it started from; ``change`` the largest step [s]) and the earlier ``rounds`` (kept in that list).
+
+    Anderson mixing (Anderson, D. G., 1965, J. ACM 12(4); the form with differences of residuals, e.g. Walker, H. F.
+    and Ni, P., 2011, SIAM J. Numer. Anal. 49(4)) over the last TRAVEL_MIXING rounds: the images combined with the
+    weights that make the combined step least in the least-squares sense. The plain image is taken instead on the
+    first round, after a round whose step grew (the history starts again there), and where the mixed travel time
+    would not rise along the run. Only the start of each round changes: the iteration still stops on a plain
+    round, where the travel time it started from changes by at most TRAVEL_TOLERANCE.
+    """
+    if rounds and change > rounds[-1][2]:
+        rounds.clear()
+    rounds.append((step, image, change))
+    del rounds[:-(TRAVEL_MIXING + 1)]
+    if len(rounds) < 2:
+        return image
+    d_step = np.column_stack([b[0] - a[0] for a, b in zip(rounds, rounds[1:])])
+    d_image = np.column_stack([b[1] - a[1] for a, b in zip(rounds, rounds[1:])])
+    weights = np.linalg.lstsq(d_step, step, rcond=None)[0]
+    mixed = image - d_image @ weights
+    if not (np.all(np.isfinite(mixed)) and mixed[0] == image[0] and np.all(np.diff(mixed) > 0)):
+        return image
+    return mixed
 
 
 def solve_run(run: DitchRun) -> RunResult:
@@ -433,19 +486,26 @@ def solve_run(run: DitchRun) -> RunResult:
     grade = np.asarray(layout.grade, dtype=float)
 
     # -- flow and travel time to a fixed point --------------------------------
+    # The result is the travel time whose next round changes it by no more than TRAVEL_TOLERANCE, with the flows
+    # of that travel time: the last round's flows and normal depths are then the run's own (not solved again).
+    # A round that tries every candidate is followed by rounds that try each point's fastest of that round alone
+    # (the same velocities while it stays the fastest) until they settle; only a round of every candidate ends it.
     roughness = [c.lining.roughness(c.d50) for c in run.candidates]
     tau = np.zeros(layout.x.size)
+    rounds, fastest = [], None
     for iteration in range(1, MAX_TRAVEL_ITERATIONS + 1):
         state = peak_flows(layout, pieces, run.point_inflows, tau, run.idf, run.return_period, run.min_duration)
-        new_tau = travel_times(layout.x, _travel_velocities(sections, which, state.flow, grade, roughness))
+        velocity, solutions, found = _travel_velocities(sections, which, state.flow, grade, roughness, fastest)
+        new_tau = travel_times(layout.x, velocity)
         change = float(np.max(np.abs(new_tau - tau)))
-        tau = new_tau
-        if change <= TRAVEL_TOLERANCE:
+        if change <= TRAVEL_TOLERANCE and fastest is None:
             break
+        # after every candidate: the fastest alone; once those settle, every candidate again
+        fastest = found if fastest is None else (None if change <= TRAVEL_TOLERANCE else fastest)
+        tau = _mixed_travel_time(rounds, new_tau - tau, new_tau, change)
     else:
         raise ConvergenceError(f"the travel time down the ditch did not settle in {MAX_TRAVEL_ITERATIONS} rounds "
                                f"(last change {change:.3g} s): the flow and the ditch velocity keep changing each other")
-    state = peak_flows(layout, pieces, run.point_inflows, tau, run.idf, run.return_period, run.min_duration)
     flow = np.asarray(state.flow, dtype=float)
 
     # -- every candidate at every point, on arrays ------------------------------
@@ -460,7 +520,7 @@ def solve_run(run: DitchRun) -> RunResult:
         for k, c in enumerate(run.candidates):
             screening.put((rows, k), screen_lining(section, flow[rows], grade[rows], c.lining, d50=c.d50,
                                                  bend_radius=bent, min_freeboard=run.min_freeboard,
-                                                 roughness=roughness[k]))
+                                                 roughness=roughness[k], normal=solutions.get((index, k))))
     margin = np.where(screening.checked, screening.margin, np.nan)
     lined, volume = screening.lined_width.copy(), screening.layer_volume.copy()
     cost = np.full((n, k_count), np.nan)

@@ -53,7 +53,9 @@ that run share its right end, so the inner minimum over j is carried as a
 running minimum G[j,k] (the stretch is long enough at j: either change
 candidate there or go on to j+1) instead of being searched again for each i.
 Time O(N K^2) (the K^2 is the minimum over k' != k at each point), memory
-O(N K); about 10 ms for N = 1000 points and K = 5 candidates.
+O(N K); about 10 ms for N = 1000 points and K = 5 candidates. Where one candidate is allowed at every point and
+is cheaper than every other on every segment (by more than twice the rounding allowance of rule 4), it alone is
+the schedule, and the table is not filled.
 
 Example: grass is not stable at 60 m and 90 m, so concrete is built from 30 m
 to the end, and the grass stretch before it is long enough (20 m minimum).
@@ -182,13 +184,17 @@ def cheapest_schedule(stations, margin, cost_per_length, min_length) -> Schedule
     cost_tol = _ROUNDING * float(seg.max(axis=1).sum())
     run_end = _run_ends(allowed)
 
-    table = _Table(n, k_count, allowed.tolist(), seg.tolist(), prefix.tolist(), first_end.tolist(),
-                   run_end.tolist(), cost_tol)
-    table.fill()
-    start_options = list(zip(table.fc[0], table.fn[0]))
-    if _pick(start_options, cost_tol)[0] == _INF:
-        _diagnose(x, allowed, first_end, run_end, table, length, whole_run)
-    choice_at = table.read_off()
+    alone = _sole_cheapest(both, seg, cost_tol)
+    if alone is not None:                  # the schedule is that candidate alone: no table to fill
+        choice_at = [alone] * (n - 1)
+    else:
+        table = _Table(n, k_count, allowed.tolist(), seg.tolist(), prefix.tolist(), first_end.tolist(),
+                       run_end.tolist(), cost_tol)
+        table.fill()
+        start_options = list(zip(table.fc[0], table.fn[0]))
+        if _pick(start_options, cost_tol)[0] == _INF:
+            _diagnose(x, allowed, first_end, run_end, table, length, whole_run)
+        choice_at = table.read_off()
 
     stretches = []
     i = 0
@@ -205,6 +211,19 @@ def cheapest_schedule(stations, margin, cost_per_length, min_length) -> Schedule
     failing.setflags(write=False)
     return Schedule(stretches=tuple(stretches), total_cost=math.fsum(s.cost for s in stretches),
                     choice_at=choice, failing=failing)
+
+
+def _sole_cheapest(both, seg, tol):
+    """The candidate allowed on every segment (``both``) whose cost there (``seg``) is below every other allowed
+    candidate's on each segment by more than twice the rounding allowance ``tol``, else None. It alone is then the
+    schedule: one stretch (rules 1 to 3), and any other schedule costs more by more than ``tol`` (rule 4)."""
+    for k in np.flatnonzero(both.all(axis=0)):
+        with np.errstate(invalid="ignore"):
+            dearer = np.where(both, seg - seg[:, k:k + 1], _INF)
+        dearer[:, k] = _INF
+        if dearer.min(initial=_INF) > 2.0 * tol:
+            return int(k)
+    return None
 
 
 # -- the table of the dynamic programme ---------------------------------------------------------------------------

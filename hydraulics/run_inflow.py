@@ -34,7 +34,7 @@ durations [s], intensities [m/s], flows [m^3/s].
 
 from __future__ import annotations
 
-from dataclasses import dataclass
+from dataclasses import dataclass, field
 
 import numpy as np
 
@@ -84,13 +84,15 @@ class Pieces:
     """The drainage pieces of a run: each sub-area at one station is one piece, a spread one is split at the
     design points. ``origin``: design point where its travel down the ditch starts; ``join``: first design point
     that carries it; ``ca``: C A [m^2]; ``tc``: its own time of concentration [s]; ``source``: index of its
-    sub-area."""
+    sub-area. ``plan``: what :func:`peak_flows` worked out from the order of arrival alone, kept for its next call
+    with the same order (the last rounds of a run's travel-time iteration)."""
 
     origin: np.ndarray
     join: np.ndarray
     ca: np.ndarray
     tc: np.ndarray
     source: np.ndarray
+    plan: dict = field(default_factory=dict, compare=False, repr=False)
 
 
 @dataclass(frozen=True)
@@ -163,6 +165,58 @@ _BLOCK = 16
 _BOUND_MARGIN = 1e-12
 
 
+def _arrival_plan(pieces: Pieces, order, n: int) -> dict:
+    """What :func:`peak_flows` needs that depends on the order of arrival ``order`` alone (``n`` design points):
+    the pieces' t_c, C A and joining point in that order, padded to whole blocks (``blocks`` of them, ``pad``
+    pieces added); the C A joined at each point in each block (``in_block``, ``joined_in`` where any) and arrived
+    by each block's end (``by_end``); the first and last joined piece at each point (positions in arrival order;
+    -1: none). Its arrays are read-only, being kept for later calls."""
+    count = order.size
+    blocks = -(-count // _BLOCK)
+    pad = blocks * _BLOCK - count
+    tc = np.concatenate([pieces.tc[order], np.full(pad, pieces.tc[order[-1]])])
+    ca = np.concatenate([pieces.ca[order], np.zeros(pad)])
+    join = np.concatenate([pieces.join[order], np.full(pad, n)])
+    # C A joined at each point in each block, and arrived by each block's end
+    cell = np.minimum(join, n) * blocks + np.arange(blocks * _BLOCK) // _BLOCK
+    in_block = np.bincount(cell, weights=ca, minlength=(n + 1) * blocks).reshape(n + 1, blocks)
+    in_block = np.cumsum(in_block, axis=0)[:n]
+    # first and last joined piece at each point (positions in arrival order; -1: none)
+    position = np.arange(blocks * _BLOCK)
+    last = np.full(n + 1, -1)
+    first = np.full(n + 1, blocks * _BLOCK)
+    np.maximum.at(last, np.minimum(join, n), position)
+    np.minimum.at(first, np.minimum(join, n), position)
+    plan = dict(tc=tc, ca=ca, join=join, in_block=in_block, joined_in=in_block > 0,   # every piece has C A > 0
+                by_end=np.cumsum(in_block, axis=1), last=np.maximum.accumulate(last)[:n],
+                first=np.minimum.accumulate(first)[:n])
+    for a in plan.values():
+        a.setflags(write=False)
+    return dict(plan, blocks=blocks, pad=pad)
+
+
+#: Design points per group of the coarse bound on a block's intensity (see :func:`_block_bound`).
+_GROUP = 32
+
+
+def _block_bound(key, tau, rows, soonest, whole, idf, return_period, min_duration, blocks) -> np.ndarray:
+    """(points, blocks): an upper bound on the intensity at the first arrival of each block at each point, where
+    the block has a joined piece there (elsewhere any number).
+
+    The design points are taken in groups of ``_GROUP`` along the run; a block's first piece (arrival-order key
+    ``key`` = t_c - tau(entry)) arrives at a point of the group no sooner than at the group's least travel time,
+    and the intensity falls as the duration grows, so the intensity read there, at no less than the soonest
+    arrival of any point nor t_min, bounds it for the whole group.
+    """
+    n = tau.size
+    starts = np.arange(0, n, _GROUP)
+    least_tau = np.minimum.reduceat(tau, starts)
+    low = max(float(np.min(soonest[rows])), min_duration)
+    first = key[::_BLOCK][:blocks]
+    d = np.clip(first[None, :] + least_tau[:, None], low, max(float(np.max(whole[rows])), low))
+    return np.repeat(idf.intensity(d, return_period), np.diff(np.r_[starts, n]), axis=0)
+
+
 def peak_flows(layout: RunLayout, pieces: Pieces, inflows, tau, idf, return_period: float,
                min_duration: float) -> FlowState:
     """The design flow at every design point for travel times ``tau`` [s] (see the module's text).
@@ -178,8 +232,10 @@ def peak_flows(layout: RunLayout, pieces: Pieces, inflows, tau, idf, return_peri
     falls as the duration grows (``idf.falls_with_duration``, true of :class:`hydraulics.rainfall.IdfTable` and
     :class:`hydraulics.rainfall.IdfFormula`), the pieces are taken in blocks of ``_BLOCK`` and a block is
     searched only when i(its first arrival) x (C A arrived by its last) can reach the whole area's flow: the
-    others cannot hold the largest. Every duration the search would read is still offered to the relation, so
-    it refuses the same durations.
+    others cannot hold the largest. That test is made first on a coarse bound of i (:func:`_block_bound`, one
+    reading per block and group of points), then on i itself for the blocks the bound leaves in. Every duration
+    the search would read is still offered to the relation, so it refuses the same durations. What depends on the
+    order of arrival alone is kept in ``pieces.plan`` for the next call with the same order.
     """
     n = layout.x.size
     tau = np.asarray(tau, dtype=float)
@@ -196,32 +252,18 @@ def peak_flows(layout: RunLayout, pieces: Pieces, inflows, tau, idf, return_peri
                          flow=point_flow.copy(), whole_duration=zeros.copy())
     # the pieces in order of arrival (the same at every point), padded to whole blocks with pieces never joined
     order = np.argsort(pieces.tc - tau[pieces.origin], kind="stable")
-    count = order.size
-    blocks = -(-count // _BLOCK)
-    pad = blocks * _BLOCK - count
-    tc = np.concatenate([pieces.tc[order], np.full(pad, pieces.tc[order[-1]])])
-    t_entry = np.concatenate([tau[pieces.origin][order], np.full(pad, tau[pieces.origin][order[-1]])])
-    ca = np.concatenate([pieces.ca[order], np.zeros(pad)])
-    join = np.concatenate([pieces.join[order], np.full(pad, n)])
-    block_of = np.arange(blocks * _BLOCK) // _BLOCK
+    plan = pieces.plan
+    if plan.get("n") != n or not np.array_equal(plan["order"], order):
+        plan.clear()
+        plan.update(_arrival_plan(pieces, order, n), order=order, n=n)
+    tc, ca, join, blocks = plan["tc"], plan["ca"], plan["join"], plan["blocks"]
+    in_block, joined_in, by_end, first, last = (plan[k] for k in ("in_block", "joined_in", "by_end", "first", "last"))
+    t_entry = np.concatenate([tau[pieces.origin][order], np.full(plan["pad"], tau[pieces.origin][order[-1]])])
 
     def arrival(rows, at):
         """Arrival time [s] at the points ``rows`` of the pieces at sorted positions ``at``."""
         return tc[at] + tau[rows] - t_entry[at]
 
-    # C A joined at each point in each block, and arrived by each block's end
-    cell = np.minimum(join, n) * blocks + block_of
-    in_block = np.bincount(cell, weights=ca, minlength=(n + 1) * blocks).reshape(n + 1, blocks)
-    in_block = np.cumsum(in_block, axis=0)[:n]
-    joined_in = in_block > 0                                 # every piece has C A > 0
-    by_end = np.cumsum(in_block, axis=1)
-    # first and last joined piece at each point (positions in arrival order; -1: none)
-    position = np.arange(blocks * _BLOCK)
-    last = np.full(n + 1, -1)
-    first = np.full(n + 1, blocks * _BLOCK)
-    np.maximum.at(last, np.minimum(join, n), position)
-    np.minimum.at(first, np.minimum(join, n), position)
-    last, first = np.maximum.accumulate(last)[:n], np.minimum.accumulate(first)[:n]
     has = last >= 0
     rows = np.flatnonzero(has)
     whole, soonest = np.zeros(n), np.zeros(n)
@@ -242,18 +284,24 @@ def peak_flows(layout: RunLayout, pieces: Pieces, inflows, tau, idf, return_peri
         least[rows] = (1.0 - _BOUND_MARGIN) * idf.intensity(np.maximum(whole[rows], min_duration), return_period) \
             * by_end[rows, -1]
         most[rows] = idf.intensity(np.maximum(soonest[rows], min_duration), return_period)
-        search = joined_in & (most[:, None] * by_end >= least[:, None])
+        search = joined_in & (np.minimum(_block_bound(tc - t_entry, tau, rows, soonest, whole, idf, return_period,
+                                                      min_duration, blocks), most[:, None]) * by_end
+                              >= least[:, None])
         p_i, b_i = np.nonzero(search)
         # no joined piece of a block arrives before its first piece, nor before the point's first one
         d0 = np.maximum(np.clip(arrival(p_i, b_i * _BLOCK), soonest[p_i], whole[p_i]), min_duration)
         search[p_i, b_i] = idf.intensity(d0, return_period) * by_end[p_i, b_i] >= least[p_i]
     pair_row, pair_block = np.nonzero(search)
-    at = pair_block[:, None] * _BLOCK + np.arange(_BLOCK)[None, :]          # (pairs, _BLOCK) positions
-    joined = join[at] <= pair_row[:, None]
+
+    def in_pairs(values):
+        """(pairs, _BLOCK): ``values`` (one per sorted position) of the pieces of each pair's block."""
+        return values.reshape(blocks, _BLOCK)[pair_block]
+
+    joined = in_pairs(join) <= pair_row[:, None]
     before = np.where(pair_block > 0, by_end[pair_row, np.maximum(pair_block - 1, 0)], 0.0)
-    cum = before[:, None] + np.cumsum(np.where(joined, ca[at], 0.0), axis=1)
-    d_eff = np.maximum(arrival(pair_row[:, None], at), min_duration)
-    intensity = np.zeros(at.shape)
+    cum = before[:, None] + np.cumsum(np.where(joined, in_pairs(ca), 0.0), axis=1)
+    d_eff = np.maximum(in_pairs(tc) + tau[pair_row][:, None] - in_pairs(t_entry), min_duration)   # arrival()
+    intensity = np.zeros(joined.shape)
     intensity[joined] = idf.intensity(d_eff[joined], return_period)
     q = np.where(joined, intensity * cum, -np.inf)
     inner = np.argmax(q, axis=1)

@@ -137,7 +137,7 @@ def solvable(section, flow, slope, rough) -> tuple[np.ndarray, np.ndarray]:
 
 
 def screen_lining(section, flow, slope, lining, d50=None, bend_radius=None, min_freeboard=hec15.MIN_FREEBOARD,
-                  min_safety_factor=1.0, roughness=None) -> Screening:
+                  min_safety_factor=1.0, roughness=None, normal=None) -> Screening:
     """Screen ``lining`` in ``section`` for many flows and slopes (see the module's text).
 
     Parameters
@@ -159,6 +159,10 @@ def screen_lining(section, flow, slope, lining, d50=None, bend_radius=None, min_
     roughness : optional
         ``lining.roughness(d50)`` when the caller has made it already (a stone model keeps what it works out
         once per section).
+    normal : hydraulics.solvers.DepthSolution, optional
+        ``solve_normal_depth(section, flow, slope, roughness)`` of all the flows when the caller has made it
+        already (a run's last travel-time round); used only when every flow is surely carried (an open section),
+        else the normal depths are solved here.
 
     Returns
     -------
@@ -176,7 +180,7 @@ def screen_lining(section, flow, slope, lining, d50=None, bend_radius=None, min_
         with warnings.catch_warnings():
             warnings.simplefilter("ignore", ValidityWarning)   # the full check words them
             _screen_arrays(section, q, s, rc, lining, d50, min_freeboard, min_safety_factor, out, one_by_one,
-                           roughness)
+                           roughness, normal)
     except HydraulicsError:
         one_by_one[:] = True
     for i in np.flatnonzero(one_by_one).tolist():
@@ -192,7 +196,8 @@ def screen_lining(section, flow, slope, lining, d50=None, bend_radius=None, min_
     return out
 
 
-def _screen_arrays(section, q, s, rc, lining, d50, min_freeboard, min_safety_factor, out, one_by_one, rough=None):
+def _screen_arrays(section, q, s, rc, lining, d50, min_freeboard, min_safety_factor, out, one_by_one, rough=None,
+                   normal=None):
     """The array path of :func:`screen_lining`: fills ``out`` and marks in ``one_by_one`` the channels it leaves
     to the scalar check. Raises HydraulicsError when the group cannot be screened on arrays at all."""
     stone = lining.category == "stone"
@@ -204,7 +209,9 @@ def _screen_arrays(section, q, s, rc, lining, d50, min_freeboard, min_safety_fac
     rows = np.flatnonzero(sure)
     if not rows.size:
         return
-    res = analyse(section, q[rows], s[rows], rough)                    # HEC-15 Chapter 3, step 1
+    if normal is not None and not (rows.size == q.size and np.shape(normal.depth) == q.shape):
+        normal = None                         # the solution given is not the one of these flows
+    res = analyse(section, q[rows], s[rows], rough, normal=normal)     # HEC-15 Chapter 3, step 1
     y, v, fr = (np.asarray(a, dtype=float) for a in (res.normal_depth, res.velocity, res.froude))
     top = np.asarray(res.top_width, dtype=float)
     n_used = np.broadcast_to(np.asarray(res.manning_n, dtype=float), y.shape)

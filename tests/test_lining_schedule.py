@@ -392,3 +392,34 @@ def test_the_good_inputs_of_the_refusals_are_accepted():
     assert len(cheapest_schedule(**GOOD).stretches) == 1
     changed = {**GOOD, "margin": [[1.2, NAN]] * 3, "cost_per_length": [[10.0, NAN]] * 3}
     assert cheapest_schedule(**changed).total_cost == pytest.approx(200.0)
+
+
+def test_a_candidate_cheapest_everywhere_gives_the_table_answer(monkeypatch):
+    """A candidate allowed at every point and cheaper than every other on every segment is the schedule by itself,
+    found without the table (rule 4: nothing else comes within the rounding allowance of it); the schedule is the
+    one the table gives (the short cut switched off), on invented runs where it applies and where it does not."""
+    import hydraulics.lining_schedule as ls
+    rng = np.random.default_rng(8)
+    taken, short_cut = [], ls._sole_cheapest
+    monkeypatch.setattr(ls, "_sole_cheapest", lambda *a: taken.append(short_cut(*a)) or taken[-1])
+    for _ in range(300):
+        n, k_count = int(rng.integers(2, 60)), int(rng.integers(1, 5))
+        x, margin, cost, min_length = random_run(rng, n, k_count)
+        k = int(rng.integers(k_count))
+        margin[:, k] = rng.choice([1.2, INF], n)
+        others = np.delete(cost, k, axis=1)
+        floor = np.nanmin(np.where(np.isnan(others), INF, others), axis=1, initial=100.0) if k_count > 1 else 100.0
+        cost[:, k] = floor * rng.choice([0.5, 0.99, 1.0, 1.3], p=[0.5, 0.2, 0.1, 0.2])
+        try:
+            fast = cheapest_schedule(x, margin, cost, min_length)
+        except NoSolutionError:
+            continue
+        with monkeypatch.context() as table_only:
+            table_only.setattr(ls, "_sole_cheapest", lambda *a: None)
+            slow = cheapest_schedule(x, margin, cost, min_length)
+        assert [(s.first, s.last, s.choice, s.cost) for s in fast.stretches] == \
+            [(s.first, s.last, s.choice, s.cost) for s in slow.stretches]
+        assert (fast.total_cost, fast.choice_at.tolist(), fast.failing.tolist()) == \
+            (slow.total_cost, slow.choice_at.tolist(), slow.failing.tolist())
+    used = sum(t is not None for t in taken)
+    assert used > 80 and len(taken) - used > 40, (used, len(taken))
