@@ -41,7 +41,7 @@ import numpy as np
 from .ditch_run import ranges_of, stretches
 from .errors import HydraulicsError
 from .freeboard import ditch_tops
-from .linings.roughness import VegetationRoughness
+from .linings.roughness import FixedSlopeN, VegetationRoughness
 from .water_surface import Jump, WaterSurface, water_surface
 from .wording import worded
 
@@ -150,7 +150,7 @@ def _roughness_at(result, rows) -> tuple[list, list]:
             if not math.isfinite(s):
                 raise HydraulicsError("no stretch of the run falls: the depth-dependent n of "
                                       f"{c.lining.name} has no slope to be taken at")
-            models[key] = (lambda y, m=model, sec=section, slope=s: float(m.manning_n(sec, y, slope)))
+            models[key] = FixedSlopeN(model, section, s)
         out.append(models[key])
     return out, grass
 

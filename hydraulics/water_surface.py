@@ -152,10 +152,11 @@ _MAX_NEWTON = 100
 # ------------------------------------------------------------------------------------------------ single sections
 
 def _roughness(field_name, n, section):
-    """n(depth) for one point: a constant, a callable, or a surveyed section's own composite n."""
+    """n(depth) for one point: a constant, a callable, or a surveyed section's own composite n; as (n(depth),
+    the constant or None, a key, (k, e) of n = k R^e or None)."""
     if n is None:
         if hasattr(section, "composite_n"):
-            return section.composite_n, None, ("composite", id(section))
+            return section.composite_n, None, ("composite", id(section)), None
         raise InputError(field_name, "is missing (Manning's n, a number > 0, or a function n(depth))")
     if callable(n):
         def checked(y, fn=n):
@@ -165,11 +166,13 @@ def _roughness(field_name, n, section):
                 raise InputError(field_name, f"n(depth) must give a number between 0 and 1, got {value!r} at "
                                              f"depth {y:.6g} m")
             return float(value)
-        return checked, None, ("function", id(n))
+        # n = k R^e in closed form (a grass lining at a fixed slope), for this very section only
+        power = getattr(n, "radius_power", None) if getattr(n, "section", None) is section else None
+        return checked, None, ("function", id(n)), power
     value = validate.number(field_name, n, low=0.0, high=1.0, hint=" (Manning's n is a small number such as 0.013)")
     if not isinstance(value, float):
         raise InputError(field_name, "must be one number per point")
-    return (lambda y, v=value: v), value, ("constant", value)
+    return (lambda y, v=value: v), value, ("constant", value), None
 
 
 class _ModelN:
@@ -312,11 +315,11 @@ def profile_type(depth, normal_depth, critical_depth, slope):
 class _Props:
     """What applies at a computation node: section, roughness, flow and the slope of its stretch."""
 
-    __slots__ = ("section", "nfn", "nconst", "nkey", "flow", "slope", "yc", "yn", "yn_note", "top", "index",
-                 "_trap")
+    __slots__ = ("section", "nfn", "nconst", "nkey", "npow", "flow", "slope", "yc", "yn", "yn_note", "top", "index",
+                 "_trap", "_at_yc", "_at_top")
 
     def __init__(self, section, rough, flow, slope, index):
-        self.section, (self.nfn, self.nconst, self.nkey) = section, rough
+        self.section, (self.nfn, self.nconst, self.nkey, self.npow) = section, rough
         self.flow, self.slope = flow, slope
         self.index = index
         self.yc = self.yn = math.nan
@@ -325,6 +328,7 @@ class _Props:
         # the trapezoid family's closed forms inline (the same formulas as Trapezoid._geometry), for speed
         self._trap = ((float(section.bottom_width), float(section._zsum), float(section._psum))
                       if isinstance(section, Trapezoid) else None)
+        self._at_yc = self._at_top = None
 
     def key(self, section_key):
         """Equal keys: equal props. Slopes from elevations and distances differ in their last digits along one
@@ -333,7 +337,11 @@ class _Props:
 
     # -- hydraulics at one depth (scalar fast path) --
     def head_terms(self, y):
-        """Specific energy E [m], friction slope S_f [-], dE/dy and dS_f/dy at depth ``y``."""
+        """Specific energy E [m], friction slope S_f [-], dE/dy and dS_f/dy at depth ``y``.
+
+        dS_f/dy follows from ln S_f = 2 ln n - 2 ln A - 4/3 ln R with d ln A/dy = T/A and d ln R/dy = T/A - P'/P;
+        d ln n/dy is counted where n = k R^e is known in closed form (e d ln R/dy), else taken as zero (it only
+        steers Newton's method: the energy balance itself uses n at the depth)."""
         if self._trap is not None:
             b, zs, ps = self._trap
             t = b + zs * y
@@ -344,17 +352,39 @@ class _Props:
             g = self.section._geometry(y)
             a, p, t, dp = g.area, g.wetted_perimeter, g.top_width, g.dP_dy
         q = self.flow
-        n = self.nconst if self.nconst is not None else self.nfn(y)
+        r = a / p
+        t_a, dp_p = t / a, dp / p
+        dlogn = 0.0
+        if self.nconst is not None:
+            n = self.nconst
+        elif self.npow is not None:
+            k, e = self.npow
+            n = k * r ** e
+            if not 0.0 < n < 1.0:
+                n = self.nfn(y)  # the model itself, which refuses an n out of range by name
+            dlogn = e * (t_a - dp_p)
+        else:
+            n = self.nfn(y)
         v2g = q * q / (2 * G * a * a)
-        sf = (q * n / (a * (a / p) ** (2 / 3))) ** 2
-        de = 1 - 2 * v2g * t / a
-        dsf = -2 * sf * (5 / 3 * t / a - 2 / 3 * dp / p)
+        sf = (q * n / (a * r ** (2 / 3))) ** 2
+        de = 1 - 2 * v2g * t_a
+        dsf = sf * (2 * dlogn - 10 / 3 * t_a + 4 / 3 * dp_p)
         return y + v2g, sf, de, dsf
+
+    def at_critical(self):
+        """head_terms at critical depth, worked out once."""
+        if self._at_yc is None:
+            self._at_yc = self.head_terms(self.yc)
+        return self._at_yc
+
+    def at_top(self):
+        """head_terms at the top of a closed section, worked out once."""
+        if self._at_top is None:
+            self._at_top = self.head_terms(self.top)
+        return self._at_top
 
     def force(self, y):
         return self.flow ** 2 / (G * self.section._geometry(y).area) + self.section._first_moment(y)
-
-
 
 
 @dataclass
@@ -371,13 +401,14 @@ class _State:
     status: int
     energy: float = math.nan  # specific energy [m]
     sf: float = math.nan
+    de: float = math.nan      # dE/dy and dS_f/dy at the depth (the next step's first trial)
+    dsf: float = math.nan
 
 
 def _state(props, y, status):
     if status == _TOP or not math.isfinite(y):
         return _State(y, status)
-    e, sf, _, _ = props.head_terms(y)
-    return _State(y, status, e, sf)
+    return _State(y, status, *props.head_terms(y))
 
 
 def _solve_step(props, z, known, z_known, length, upstream):
@@ -386,35 +417,42 @@ def _solve_step(props, z, known, z_known, length, upstream):
     Energy balance (standard step, mean friction slope): going upstream z + E - L/2 S_f = z_k + E_k + L/2 S_fk;
     going downstream z + E + L/2 S_f = z_k + E_k - L/2 S_fk. Returns a _State (status _CRIT when the branch has no
     root, _TOP when the subcritical root lies above the section's top).
+
+    The first trial is one Newton step from the known depth, worked out from the known state's own terms (the
+    two nodes of a step of some length share their props), which lies close to the root on a short step.
     """
     half = 0.5 * length
     c = -half if upstream else half
     target = (z_known - z) + known.energy + (half if upstream else -half) * known.sf
     yc = props.yc
-
-    def resid(y):
-        e, sf, de, dsf = props.head_terms(y)
-        return e + c * sf - target, de + c * dsf
-
-    r_c = resid(yc)[0]
-    if r_c >= -HEAD_TOLERANCE:
+    e_c, sf_c, _, _ = props.at_critical()
+    if e_c + c * sf_c - target >= -HEAD_TOLERANCE:
         return _State(yc, _CRIT)
+    on_branch = known.status == _OK and (known.y > yc) == upstream
     if upstream:  # residual rises with depth above critical depth
         lo, hi = yc, math.inf
         if props.top is not None:
             hi = props.top
-            if resid(hi)[0] < 0:
+            e_t, sf_t, _, _ = props.at_top()
+            if e_t + c * sf_t - target < 0:
                 return _State(hi, _TOP)
-        y = known.y if known.status == _OK and known.y > yc else 1.1 * yc
+        y = known.y if on_branch else 1.1 * yc
         if y >= hi:
             y = 0.5 * (lo + hi)
     else:  # residual falls with depth below critical depth
         lo, hi = 0.0, yc
-        y = known.y if known.status == _OK and known.y < yc else 0.9 * yc
+        y = known.y if on_branch else 0.9 * yc
+    if on_branch and length > 0.0 and y == known.y:
+        dr = known.de + c * known.dsf
+        if dr != 0.0:
+            trial = y - (known.energy + c * known.sf - target) / dr
+            if lo < trial < hi:
+                y = trial
     for _ in range(_MAX_NEWTON):
-        r, dr = resid(y)
+        e, sf, de, dsf = props.head_terms(y)
+        r, dr = e + c * sf - target, de + c * dsf
         if abs(r) <= HEAD_TOLERANCE:
-            return _state(props, y, _OK)
+            return _State(y, _OK, e, sf, de, dsf)
         if (r < 0) == upstream:
             lo = y
         else:
@@ -433,10 +471,13 @@ def _solve_step(props, z, known, z_known, length, upstream):
                            f"(depth {y:.6g} m, head residual {r:.3g} m, tolerance {HEAD_TOLERANCE:g} m)")
 
 
-def _advance(props, known, x0, z0, x1, z1, upstream, tol, level=0):
-    """Carry ``known`` (at x0, z0) to (x1, z1) on one stretch, halving the step while whole and halves differ."""
+def _advance(props, known, x0, z0, x1, z1, upstream, tol, full=None):
+    """Carry ``known`` (at x0, z0) to (x1, z1) on one stretch, halving the step while whole and halves differ.
+
+    ``full`` is the whole step's answer where the caller has it already (the first half of a halved step)."""
     length = abs(x1 - x0)
-    full = _solve_step(props, z1, known, z0, length, upstream)
+    if full is None:
+        full = _solve_step(props, z1, known, z0, length, upstream)
     if length == 0.0 or (full.status != _OK and known.status != _OK):
         return full
     if full.status == _OK and known.status == _OK and abs(full.y - known.y) <= tol * full.y:
@@ -450,10 +491,10 @@ def _advance(props, known, x0, z0, x1, z1, upstream, tol, level=0):
         return b if b.status == _CRIT else _State(math.nan, _TOP)
     if (full.status == _OK and abs(full.y - b.y) <= tol * b.y) or 0.5 * length < MIN_STEP:
         return b
-    a = _advance(props, known, x0, z0, xm, zm, upstream, tol, level + 1)
+    a = _advance(props, known, x0, z0, xm, zm, upstream, tol, a)  # the first half's whole step is ``a``
     if a.status != _OK:
         return _State(props.yc, a.status) if a.status == _CRIT else _State(math.nan, _TOP)
-    return _advance(props, a, xm, zm, x1, z1, upstream, tol, level + 1)
+    return _advance(props, a, xm, zm, x1, z1, upstream, tol)
 
 
 # ------------------------------------------------------------------------------------------------ results

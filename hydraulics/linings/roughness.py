@@ -25,7 +25,7 @@ from ..provenance import cite
 from ..wording import worded
 from . import hec15
 
-__all__ = ["StoneRoughness", "VegetationRoughness", "STONE_METHODS", "SPLIT_BAND", "SWITCH_NOTE",
+__all__ = ["StoneRoughness", "VegetationRoughness", "FixedSlopeN", "STONE_METHODS", "SPLIT_BAND", "SWITCH_NOTE",
            "relation_switch_depth"]
 
 #: Ways to compute the n of a stone lining.
@@ -347,6 +347,12 @@ class VegetationRoughness:
         """Manning's n [s/m^(1/3)] at ``depth`` [m] and ``slope`` [m/m]; no checks (solver use)."""
         return hec15._vegetation_n(self.cn, self.boundary_shear(section, depth, slope))
 
+    def radius_power(self, slope):
+        """(k, e) with n = k R^e at the fixed ``slope`` [m/m]: the same relation, n = Cn (gamma R S)^-0.4, with
+        the slope's factor taken out once, k = Cn (gamma S)^-0.4 and e = -0.4, so that a solver stepping
+        through many depths at one slope evaluates n from the hydraulic radius R [m] it already has."""
+        return float(self.cn * (self.gamma_water * slope) ** -0.4), -0.4
+
     def check(self, section, depth, slope) -> list[str]:
         """Warnings for a flow the vegetated-lining relation does not describe well."""
         out = []
@@ -358,6 +364,29 @@ class VegetationRoughness:
 
     def to_dict(self) -> dict:
         return {"model": "vegetation", "density_stiffness": self.density_stiffness, "stem_height": self.stem_height}
+
+
+class FixedSlopeN:
+    """A lining model's Manning's n as a function of the depth alone, the slope held at ``slope`` [m/m] (as a
+    profile takes the n of a depth-dependent lining at the bed slope of its stretch): ``n(depth)`` [s/m^(1/3)].
+
+    ``radius_power`` is the model's (k, e) with n = k R^e at that slope where the model has one
+    (:meth:`VegetationRoughness.radius_power`), else None; a solver may use it in place of the call, with the
+    same ``section``.
+    """
+
+    __slots__ = ("model", "section", "slope", "radius_power")
+
+    def __init__(self, model, section, slope):
+        self.model, self.section, self.slope = model, section, float(slope)
+        power = getattr(model, "radius_power", None)
+        self.radius_power = power(self.slope) if power is not None else None
+
+    def __call__(self, depth):
+        return float(self.model.manning_n(self.section, depth, self.slope))
+
+    def __repr__(self):
+        return f"FixedSlopeN({self.model!r}, slope={self.slope:g})"
 
 
 def relation_switch_depth(roughness, section) -> float | None:
