@@ -119,7 +119,7 @@ import numpy as np
 
 from . import provenance, validate
 from .constants import G
-from .errors import ConvergenceError, InputError, NoSolutionError
+from .errors import ConvergenceError, HydraulicsError, InputError, NoSolutionError
 from .sections import Section, Trapezoid
 from .solvers import solve_critical_depth, solve_normal_depth
 from .wording import worded
@@ -153,7 +153,8 @@ _MAX_NEWTON = 100
 
 def _roughness(field_name, n, section):
     """n(depth) for one point: a constant, a callable, or a surveyed section's own composite n; as (n(depth),
-    the constant or None, a key, (k, e) of n = k R^e or None)."""
+    the constant or None, a key, and the callable itself where it has n = k R^e in closed form for this very
+    section (:class:`~hydraulics.linings.roughness.FixedSlopeN` of a grass lining), else None)."""
     if n is None:
         if hasattr(section, "composite_n"):
             return section.composite_n, None, ("composite", id(section)), None
@@ -166,9 +167,8 @@ def _roughness(field_name, n, section):
                 raise InputError(field_name, f"n(depth) must give a number between 0 and 1, got {value!r} at "
                                              f"depth {y:.6g} m")
             return float(value)
-        # n = k R^e in closed form (a grass lining at a fixed slope), for this very section only
-        power = getattr(n, "radius_power", None) if getattr(n, "section", None) is section else None
-        return checked, None, ("function", id(n)), power
+        closed = getattr(n, "radius_power", None) is not None and getattr(n, "section", None) is section
+        return checked, None, ("function", id(n)), n if closed else None
     value = validate.number(field_name, n, low=0.0, high=1.0, hint=" (Manning's n is a small number such as 0.013)")
     if not isinstance(value, float):
         raise InputError(field_name, "must be one number per point")
@@ -315,11 +315,12 @@ def profile_type(depth, normal_depth, critical_depth, slope):
 class _Props:
     """What applies at a computation node: section, roughness, flow and the slope of its stretch."""
 
-    __slots__ = ("section", "nfn", "nconst", "nkey", "npow", "flow", "slope", "yc", "yn", "yn_note", "top", "index",
+    __slots__ = ("section", "nfn", "nconst", "nkey", "nsource", "npow", "flow", "slope", "yc", "yn", "yn_note", "top", "index",
                  "_trap", "_at_yc", "_at_top")
 
     def __init__(self, section, rough, flow, slope, index):
-        self.section, (self.nfn, self.nconst, self.nkey, self.npow) = section, rough
+        self.section, (self.nfn, self.nconst, self.nkey, self.nsource) = section, rough
+        self.npow = None if self.nsource is None else self.nsource.radius_power  # n = k R^e
         self.flow, self.slope = flow, slope
         self.index = index
         self.yc = self.yn = math.nan
@@ -668,12 +669,14 @@ def _point_props(x, z, secs, rough, qs) -> list:
         if id(secs[i]) not in section_keys:  # sections of one shape and dimensions are one section
             section_keys[id(secs[i])] = repr(secs[i].to_dict())
         point_props.append(shared.setdefault(p.key(section_keys[id(secs[i])]), p))
+    _depths_in_arrays(list(shared.values()), section_keys)
     for p in shared.values():
-        try:
-            p.yc = float(solve_critical_depth(p.section, p.flow).depth)
-        except NoSolutionError as exc:
-            raise NoSolutionError(f"no critical depth at distance {x[p.index]:g} m: {exc}") from None
-        if p.slope > 0:
+        if math.isnan(p.yc):
+            try:
+                p.yc = float(solve_critical_depth(p.section, p.flow).depth)
+            except NoSolutionError as exc:
+                raise NoSolutionError(f"no critical depth at distance {x[p.index]:g} m: {exc}") from None
+        if p.slope > 0 and math.isnan(p.yn):
             try:
                 n_arg = p.nconst if p.nconst is not None else (
                     None if p.nkey[0] == "composite" else _ModelN(p.nfn))
@@ -685,6 +688,46 @@ def _point_props(x, z, secs, rough, qs) -> list:
                 p.yn = math.inf
                 p.yn_note = str(exc)
     return point_props
+
+
+def _depths_in_arrays(props, section_keys) -> None:
+    """Critical and normal depth of many props at once: one array solve per section (critical depth) and per
+    section and constant n or grass model (normal depth), the same solvers as one at a time. A group whose array
+    solve raises is left to the one-at-a-time solves, which name the point; so is a stone or surveyed section's
+    n (its normal depth may have several roots, and the scalar steps choose one)."""
+    by_section = {}
+    for p in props:
+        by_section.setdefault(section_keys[id(p.section)], []).append(p)
+    for group in by_section.values():
+        if len(group) < 2:
+            continue
+        try:
+            yc = solve_critical_depth(group[0].section, np.array([p.flow for p in group])).depth
+        except HydraulicsError:
+            continue
+        for p, y in zip(group, yc.tolist()):
+            p.yc = y
+        normal = {}
+        for p in group:
+            if not p.slope > 0:
+                continue
+            if p.nconst is not None:
+                normal.setdefault("constant", []).append(p)
+            elif p.nsource is not None and abs(p.nsource.slope - p.slope) <= 1e-12 * p.slope:
+                # grass whose n is taken at the stretch's own slope: the model itself, vectorised over the slopes
+                normal.setdefault(id(p.nsource.model), []).append(p)
+        for kind, members in normal.items():
+            if len(members) < 2:
+                continue
+            flows = np.array([p.flow for p in members])
+            grades = np.array([p.slope for p in members])
+            n_arg = np.array([p.nconst for p in members]) if kind == "constant" else members[0].nsource.model
+            try:
+                yn = solve_normal_depth(members[0].section, flows, grades, n_arg).depth
+            except HydraulicsError:
+                continue
+            for p, y in zip(members, yn.tolist()):
+                p.yn = y
 
 
 def _nodes(x, z, point_props, max_step) -> list:
