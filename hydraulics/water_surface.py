@@ -388,7 +388,7 @@ class _Props:
         return self.flow ** 2 / (G * self.section._geometry(y).area) + self.section._first_moment(y)
 
 
-@dataclass
+@dataclass(slots=True)
 class _Node:
     x: float
     z: float
@@ -396,7 +396,7 @@ class _Node:
     point: int  # design point index, or -1 for a step node, -2 for the upstream side of a change at a point
 
 
-@dataclass
+@dataclass(slots=True)
 class _State:
     y: float
     status: int
@@ -578,11 +578,26 @@ def _inputs(distance, bed, sections, n, flow):
         raise InputError("distance", f"must rise strictly in the direction of flow (point {i + 2}: {x[i + 1]:g} m "
                                      f"after {x[i]:g} m)")
     secs = _per_point("sections", sections, x.size, "section")
+    checked = set()  # a run repeats one section object at many points: each is checked once
     for i, s in enumerate(secs):
-        _check_section(s, f"sections[{i}]")
+        if id(s) not in checked:
+            _check_section(s, f"sections[{i}]")
+            checked.add(id(s))
     ns = _per_point("n", n, x.size, "n")
-    rough = [_roughness(f"n[{i}]", v, secs[i]) for i, v in enumerate(ns)]
-    qs = [float(validate.positive(f"flow[{i}]", v)) for i, v in enumerate(_per_point("flow", flow, x.size, "flow"))]
+    made = {}  # likewise one roughness per n object and section (the message names its first point)
+    rough = []
+    for i, v in enumerate(ns):
+        key = (id(v), id(secs[i]))
+        if key not in made:
+            made[key] = _roughness(f"n[{i}]", v, secs[i])
+        rough.append(made[key])
+    flows = _per_point("flow", flow, x.size, "flow")
+    try:  # all at once; one at a time only to name a bad one
+        qs = np.asarray(flows, dtype=float)
+        ok = qs.ndim == 1 and bool(np.all(np.isfinite(qs))) and bool(np.all(qs > 0))
+    except (TypeError, ValueError):
+        ok = False
+    qs = qs.tolist() if ok else [float(validate.positive(f"flow[{i}]", v)) for i, v in enumerate(flows)]
     return x, z, secs, rough, qs
 
 
