@@ -449,23 +449,25 @@ def _solve_step(props, z, known, z_known, length, upstream):
             trial = y - (known.energy + c * known.sf - target) / dr
             if lo < trial < hi:
                 y = trial
+    head_terms = props.head_terms
     for _ in range(_MAX_NEWTON):
-        e, sf, de, dsf = props.head_terms(y)
-        r, dr = e + c * sf - target, de + c * dsf
-        if abs(r) <= HEAD_TOLERANCE:
+        e, sf, de, dsf = head_terms(y)
+        r = e + c * sf - target
+        if -HEAD_TOLERANCE <= r <= HEAD_TOLERANCE:
             return _State(y, _OK, e, sf, de, dsf)
         if (r < 0) == upstream:
             lo = y
         else:
             hi = y
+        dr = de + c * dsf
         step = y - r / dr if dr != 0 else math.nan
-        if lo < step < hi and math.isfinite(step):
+        if lo < step < hi:  # false for nan, and for inf (hi is at most inf)
             y_new = step
-        elif math.isinf(hi):
+        elif hi == math.inf:
             y_new = 2.0 * y
         else:
             y_new = 0.5 * (lo + hi)
-        if math.isfinite(hi) and hi - lo <= 1e-14 * hi:  # the bracket is down to rounding
+        if hi != math.inf and hi - lo <= 1e-14 * hi:  # the bracket is down to rounding
             return _state(props, y_new, _OK)
         y = y_new
     raise ConvergenceError(f"the energy balance of a step did not converge in {_MAX_NEWTON} iterations "
