@@ -315,8 +315,8 @@ def profile_type(depth, normal_depth, critical_depth, slope):
 class _Props:
     """What applies at a computation node: section, roughness, flow and the slope of its stretch."""
 
-    __slots__ = ("section", "nfn", "nconst", "nkey", "nsource", "npow", "flow", "slope", "yc", "yn", "yn_note", "top", "index",
-                 "_trap", "_at_yc", "_at_top")
+    __slots__ = ("section", "nfn", "nconst", "nkey", "nsource", "npow", "flow", "slope", "yc", "yn", "yn_note",
+                 "top", "index", "_trap", "_at_yc", "_at_top")
 
     def __init__(self, section, rough, flow, slope, index):
         self.section, (self.nfn, self.nconst, self.nkey, self.nsource) = section, rough
