@@ -9,7 +9,8 @@ controls and hydraulic jumps; the method and its sources are stated there), with
 * the distance along the flow and the invert of the layout (:mod:`hydraulics.run_layout`), the section of its
   range, the design flow of the run's last round;
 * Manning's n of the lining scheduled there (``Lining.roughness(d50)``, the same roughness the screening uses):
-  a number, or for a depth-dependent lining (stone, grass) the model's n at each depth, taken at the grade of the
+  a number, or for a depth-dependent lining (stone, grass) the model's n at each depth
+  (:class:`~hydraulics.linings.roughness.FixedSlopeN`, one per lining, section and slope), taken at the grade of the
   stretch leaving the point (the bed slope, as the normal-depth design takes it); on a zero or adverse grade, at
   the grade of the nearest falling stretch downstream (else upstream). This is the program's rule: in backwater
   the energy slope is flatter than the bed, and grass, whose n rises as the shear falls (HEC-15 Chapter 4), is

@@ -7,7 +7,9 @@ max_step=10.0, step_tolerance=1e-4) -> WaterSurface``
     The profile over a sequence of design points. ``distance`` [m] rises in the direction of flow (strictly),
     ``bed`` [m] is the invert elevation at each point, ``sections`` one :class:`~hydraulics.sections.Section`
     or one per point, ``n`` Manning's n [s/m^(1/3)] as one value, a callable ``n(depth)`` for a depth-dependent
-    lining, or one of those per point (``None`` for a surveyed section, which carries its own composite n),
+    lining (a :class:`~hydraulics.linings.roughness.FixedSlopeN` made for the point's own section is faster: a
+    grass lining's n is then taken in closed form, n = k R^e, and many stretches' normal depths are solved in one
+    array call), or one of those per point (``None`` for a surveyed section, which carries its own composite n),
     ``flow`` [m^3/s] one value or one per point (it changes at inflow points). A point's section, n and flow
     apply from that point downstream to the next one (the water leaving the point); the last point keeps its
     own. Controls: ``outfall`` "normal", "critical" or "level" (with ``outfall_level`` [m], the water-surface
@@ -50,7 +52,8 @@ Method
 * Each step is solved for the depth on its branch: above critical depth on a subcritical step, below it on a
   supercritical one. On its branch the energy balance is monotonic in the depth, so the root is unique;
   Newton's method safeguarded by bisection meets it to HEAD_TOLERANCE (1e-10 m of head) or raises
-  ConvergenceError. When the branch has no root (the energy cannot be carried), the pass records critical
+  ConvergenceError. Its first trial is one Newton step from the known depth, taken with the known state's own
+  terms (so it costs no evaluation); the root does not depend on it. When the branch has no root (the energy cannot be carried), the pass records critical
   depth there and goes on from it.
 
 Step control
