@@ -7,9 +7,9 @@ max_step=10.0, step_tolerance=1e-4) -> WaterSurface``
     The profile over a sequence of design points. ``distance`` [m] rises in the direction of flow (strictly),
     ``bed`` [m] is the invert elevation at each point, ``sections`` one :class:`~hydraulics.sections.Section`
     or one per point, ``n`` Manning's n [s/m^(1/3)] as one value, a callable ``n(depth)`` for a depth-dependent
-    lining (a :class:`~hydraulics.linings.roughness.FixedSlopeN` made for the point's own section is faster: a
-    grass lining's n is then taken in closed form, n = k R^e, and many stretches' normal depths are solved in one
-    array call), or one of those per point (``None`` for a surveyed section, which carries its own composite n),
+    lining (a :class:`~hydraulics.linings.roughness.FixedSlopeN` or, for grass at the energy slope,
+    :class:`~hydraulics.linings.roughness.EnergySlopeN` made for the point's own section is faster: a grass
+    lining's n is then taken in closed form, and many stretches' normal depths are solved in one array call), or one of those per point (``None`` for a surveyed section, which carries its own composite n),
     ``flow`` [m^3/s] one value or one per point (it changes at inflow points). A point's section, n and flow
     apply from that point downstream to the next one (the water leaving the point); the last point keeps its
     own. Controls: ``outfall`` "normal", "critical" or "level" (with ``outfall_level`` [m], the water-surface
@@ -156,8 +156,9 @@ _MAX_NEWTON = 100
 
 def _roughness(field_name, n, section):
     """n(depth) for one point: a constant, a callable, or a surveyed section's own composite n; as (n(depth),
-    the constant or None, a key, and the callable itself where it has n = k R^e in closed form for this very
-    section (:class:`~hydraulics.linings.roughness.FixedSlopeN` of a grass lining), else None)."""
+    the constant or None, a key, and the callable itself where it has n = k R^e (A R^(2/3))^f in closed form for
+    this very section (a grass lining's :class:`~hydraulics.linings.roughness.FixedSlopeN` or
+    :class:`~hydraulics.linings.roughness.EnergySlopeN`), else None)."""
     if n is None:
         if hasattr(section, "composite_n"):
             return section.composite_n, None, ("composite", id(section)), None
@@ -170,7 +171,7 @@ def _roughness(field_name, n, section):
                 raise InputError(field_name, f"n(depth) must give a number between 0 and 1, got {value!r} at "
                                              f"depth {y:.6g} m")
             return float(value)
-        closed = getattr(n, "radius_power", None) is not None and getattr(n, "section", None) is section
+        closed = getattr(n, "closed_form", None) is not None and getattr(n, "section", None) is section
         return checked, None, ("function", id(n)), n if closed else None
     value = validate.number(field_name, n, low=0.0, high=1.0, hint=" (Manning's n is a small number such as 0.013)")
     if not isinstance(value, float):
@@ -323,7 +324,7 @@ class _Props:
 
     def __init__(self, section, rough, flow, slope, index):
         self.section, (self.nfn, self.nconst, self.nkey, self.nsource) = section, rough
-        self.npow = None if self.nsource is None else self.nsource.radius_power  # n = k R^e
+        self.npow = None if self.nsource is None else self.nsource.closed_form  # n = k R^e (A R^(2/3))^f
         self.flow, self.slope = flow, slope
         self.index = index
         self.yc = self.yn = math.nan
@@ -344,8 +345,8 @@ class _Props:
         """Specific energy E [m], friction slope S_f [-], dE/dy and dS_f/dy at depth ``y``.
 
         dS_f/dy follows from ln S_f = 2 ln n - 2 ln A - 4/3 ln R with d ln A/dy = T/A and d ln R/dy = T/A - P'/P;
-        d ln n/dy is counted where n = k R^e is known in closed form (e d ln R/dy), else taken as zero (it only
-        steers Newton's method: the energy balance itself uses n at the depth)."""
+        d ln n/dy is counted where n = k R^e (A R^(2/3))^f is known in closed form ((e + 2f/3) d ln R/dy + f T/A),
+        else taken as zero (it only steers Newton's method: the energy balance itself uses n at the depth)."""
         if self._trap is not None:
             b, zs, ps = self._trap
             t = b + zs * y
@@ -357,20 +358,21 @@ class _Props:
             a, p, t, dp = g.area, g.wetted_perimeter, g.top_width, g.dP_dy
         q = self.flow
         r = a / p
+        conveyance = a * r ** (2 / 3)
         t_a, dp_p = t / a, dp / p
         dlogn = 0.0
         if self.nconst is not None:
             n = self.nconst
         elif self.npow is not None:
-            k, e = self.npow
-            n = k * r ** e
+            k, e, f = self.npow
+            n = k * r ** e if f == 0.0 else k * r ** e * conveyance ** f
             if not 0.0 < n < 1.0:
                 n = self.nfn(y)  # the model itself, which refuses an n out of range by name
-            dlogn = e * (t_a - dp_p)
+            dlogn = (e + 2 / 3 * f) * (t_a - dp_p) + f * t_a
         else:
             n = self.nfn(y)
         v2g = q * q / (2 * G * a * a)
-        sf = (q * n / (a * r ** (2 / 3))) ** 2
+        sf = (q * n / conveyance) ** 2
         de = 1 - 2 * v2g * t_a
         dsf = sf * (2 * dlogn - 10 / 3 * t_a + 4 / 3 * dp_p)
         return y + v2g, sf, de, dsf
@@ -603,6 +605,11 @@ def _inputs(distance, bed, sections, n, flow):
     except (TypeError, ValueError):
         ok = False
     qs = qs.tolist() if ok else [float(validate.positive(f"flow[{i}]", v)) for i, v in enumerate(flows)]
+    for i, v in enumerate(ns):  # an n made for one flow (grass at the energy slope) must meet that flow
+        made_for = getattr(v, "flow", None)
+        if made_for is not None and abs(made_for - qs[i]) > 1e-12 * qs[i]:
+            raise InputError(f"n[{i}]", f"is made for a flow of {made_for:g} m^3/s, but the point carries "
+                                        f"{qs[i]:g} m^3/s")
     return x, z, secs, rough, qs
 
 
@@ -733,8 +740,9 @@ def _depths_in_arrays(props, section_keys) -> None:
                 continue
             if p.nconst is not None:
                 normal.setdefault("constant", []).append(p)
-            elif p.nsource is not None and abs(p.nsource.slope - p.slope) <= 1e-12 * p.slope:
-                # grass whose n is taken at the stretch's own slope: the model itself, vectorised over the slopes
+            elif p.nsource is not None and abs(getattr(p.nsource, "slope", p.slope) - p.slope) <= 1e-12 * p.slope:
+                # grass whose n is taken at the stretch's own slope, or at the energy slope (the bed slope at
+                # normal depth): the model itself, vectorised over the slopes
                 normal.setdefault(id(p.nsource.model), []).append(p)
         for kind, members in normal.items():
             if len(members) < 2:

@@ -13,6 +13,9 @@ relative difference the step control accepts); the two differ by about 3e-9 on t
 HEC-15's n = Cn (gamma R S)^-0.4 (Kilgore and Cotton, HEC-15, 3rd ed., 2005, Chapter 4), compared here with the
 model's own evaluation.
 
+Grass is also taken at the energy slope of the profile (hydraulics.linings.roughness.EnergySlopeN, n in closed
+form), against the reference's fixed point of the same relation solved at every trial depth.
+
 The cases are dense (a design point every 5 m, the flow rising at every point, so that every stretch ends in a
 change of flow) and take grass, stone (riprap D50 0.15 m) and concrete from the shipped catalogue through an M1
 curve (a high water level at the outfall of a mild grade), an M2 curve (a free overfall at the end of a mild
@@ -20,12 +23,14 @@ grade) and an S2 curve (a mild grade breaking to a steep one of 10 %, where the 
 numbers are invented.
 """
 
+import math
+
 import numpy as np
 import pytest
 
 import hydraulics as hy
 from hydraulics.linings import load_catalogue
-from hydraulics.linings.roughness import FixedSlopeN, VegetationRoughness
+from hydraulics.linings.roughness import EnergySlopeN, FixedSlopeN, VegetationRoughness
 from hydraulics.water_surface import water_surface
 
 STEP_TOLERANCE = 1e-4
@@ -45,17 +50,36 @@ def layout(case):
     return x, bed
 
 
-def roughness(lining, slopes, plain):
-    """Per point: the fast path's n (FixedSlopeN, a number) or the reference's plain function of the depth."""
+def n_at_energy_slope(model, section, y, q):
+    """Grass n at depth ``y`` with the boundary shear at the energy slope of ``q`` itself, straightforwardly: the
+    fixed point n = Cn (gamma R S_f(n))^-0.4 with S_f = (Q n / (A R^(2/3)))^2, iterated from n = 0.05 as the
+    geometric mean of n and the relation's n at S_f(n) (which contracts ln n by 0.1 a step) until n settles."""
+    area, radius = section.area(y), section.area(y) / section.wetted_perimeter(y)
+    n = 0.05
+    for _ in range(200):
+        sf = (q * n / (area * radius ** (2 / 3))) ** 2
+        n, last = math.sqrt(n * float(model.manning_n(section, y, sf))), n
+        if abs(n - last) <= 1e-15 * n:
+            return n
+    raise AssertionError("the fixed point did not settle")
+
+
+def roughness(lining, slopes, flows, plain):
+    """Per point: the fast path's n (FixedSlopeN, EnergySlopeN, a number) or the reference's plain function of the
+    depth."""
     cat = load_catalogue()
-    model = {"grass": cat.get("grass_good_sod").roughness(), "stone": cat.get("riprap").roughness(0.15),
+    model = {"grass": cat.get("grass_good_sod").roughness(), "grass at the energy slope":
+             cat.get("grass_good_sod").roughness(), "stone": cat.get("riprap").roughness(0.15),
              "concrete": cat.get("concrete").roughness()}[lining]
     out, made = [], {}
-    for s in slopes:
-        s = float(s)
+    for s, q in zip(slopes, flows):
+        s = float(q) if lining == "grass at the energy slope" else float(s)
         if s not in made:
             if isinstance(model, float):
                 made[s] = (lambda y, v=model: v) if plain else model
+            elif lining == "grass at the energy slope":
+                made[s] = (lambda y, m=model, q=s: n_at_energy_slope(m, SECTION, y, q)) if plain else \
+                    EnergySlopeN(model, SECTION, s)
             elif plain:
                 made[s] = lambda y, m=model, sl=s: float(m.manning_n(SECTION, y, sl))
             else:
@@ -68,12 +92,12 @@ def profile(case, lining, plain):
     x, bed = layout(case)
     grade = np.append((bed[:-1] - bed[1:]) / np.diff(x), (bed[-2] - bed[-1]) / (x[-1] - x[-2]))
     flow = np.linspace(0.3, 0.9, x.size)   # inflow at every point
-    n = roughness(lining, grade, plain)
+    n = roughness(lining, grade, flow, plain)
     kwargs = {"M1": {"outfall_level": bed[-1] + 1.4}, "M2": {"outfall": "critical"}, "S2": {}}[case]
     return water_surface(x, bed, SECTION, n, flow, step_tolerance=STEP_TOLERANCE, **kwargs)
 
 
-@pytest.mark.parametrize("lining", ["grass", "stone", "concrete"])
+@pytest.mark.parametrize("lining", ["grass", "grass at the energy slope", "stone", "concrete"])
 @pytest.mark.parametrize("case", ["M1", "M2", "S2"])
 def test_the_fast_path_gives_the_reference_profile(case, lining):
     fast, ref = profile(case, lining, plain=False), profile(case, lining, plain=True)
@@ -87,14 +111,23 @@ def test_the_fast_path_gives_the_reference_profile(case, lining):
 
 
 def test_grass_n_in_closed_form_is_the_models_n():
-    """n = k R^e at a fixed slope against HEC-15's n = Cn (gamma R S)^-0.4 as the model evaluates it."""
+    """n = k R^e at a fixed slope against HEC-15's n = Cn (gamma R S)^-0.4 as the model evaluates it, and
+    n = k R^e (A R^(2/3))^f at the energy slope against the fixed point of the same relation."""
     grass = load_catalogue().get("grass_good_sod").roughness()
     assert isinstance(grass, VegetationRoughness)
     depths = np.geomspace(0.02, 3.0, 200)
+    radius = SECTION.area(depths) / SECTION.wetted_perimeter(depths)
     for slope in (0.0005, 0.01, 0.08):
-        k, e = FixedSlopeN(grass, SECTION, slope).radius_power
-        radius = SECTION.area(depths) / SECTION.wetted_perimeter(depths)
+        k, e, f = FixedSlopeN(grass, SECTION, slope).closed_form
+        assert f == 0.0
         np.testing.assert_allclose(k * radius ** e, grass.manning_n(SECTION, depths, slope), rtol=1e-13)
+    for q in (0.05, 0.8, 6.0):
+        n = EnergySlopeN(grass, SECTION, q)
+        reference = [n_at_energy_slope(grass, SECTION, y, q) for y in depths]
+        np.testing.assert_allclose([n(y) for y in depths], reference, rtol=1e-12)
+        k, e, f = n.closed_form
+        np.testing.assert_allclose(k * radius ** e * (SECTION.area(depths) * radius ** (2 / 3)) ** f, reference,
+                                   rtol=1e-12)
 
 
 def test_grass_takes_the_fast_path_and_a_plain_function_does_not():
@@ -108,3 +141,12 @@ def test_grass_takes_the_fast_path_and_a_plain_function_does_not():
                       (lambda y: float(grass.manning_n(SECTION, y, 0.003)), False)):
         props = _point_props(*_inputs(x, bed, SECTION, n, 0.5))
         assert (props[0].npow is not None) == closed
+
+
+def test_grass_at_the_energy_slope_must_meet_its_points_flow():
+    from hydraulics.errors import InputError
+
+    x, bed = layout("M2")
+    grass = load_catalogue().get("grass_good_sod").roughness()
+    with pytest.raises(InputError, match=r"n\[0\].*made for a flow of 0\.4"):
+        water_surface(x, bed, SECTION, EnergySlopeN(grass, SECTION, 0.4), 0.5)
