@@ -9,7 +9,8 @@ max_step=10.0, step_tolerance=1e-4) -> WaterSurface``
     or one per point, ``n`` Manning's n [s/m^(1/3)] as one value, a callable ``n(depth)`` for a depth-dependent
     lining (a :class:`~hydraulics.linings.roughness.FixedSlopeN` or, for grass at the energy slope,
     :class:`~hydraulics.linings.roughness.EnergySlopeN` made for the point's own section is faster: a grass
-    lining's n is then taken in closed form, and many stretches' normal depths are solved in one array call), or one of those per point (``None`` for a surveyed section, which carries its own composite n),
+    lining's n is then taken in closed form, and many stretches' normal depths are solved in one array call),
+    or one of those per point (``None`` for a surveyed section, which carries its own composite n),
     ``flow`` [m^3/s] one value or one per point (it changes at inflow points). A point's section, n and flow
     apply from that point downstream to the next one (the water leaving the point); the last point keeps its
     own. Controls: ``outfall`` "normal", "critical" or "level" (with ``outfall_level`` [m], the water-surface
@@ -53,8 +54,8 @@ Method
   supercritical one. On its branch the energy balance is monotonic in the depth, so the root is unique;
   Newton's method safeguarded by bisection meets it to HEAD_TOLERANCE (1e-10 m of head) or raises
   ConvergenceError. Its first trial is one Newton step from the known depth, taken with the known state's own
-  terms (so it costs no evaluation); the root does not depend on it. When the branch has no root (the energy cannot be carried), the pass records critical
-  depth there and goes on from it.
+  terms (so it costs no evaluation); the root does not depend on it. When the branch has no root (the energy
+  cannot be carried), the pass records critical depth there and goes on from it.
 
 Step control
 ------------
@@ -598,13 +599,12 @@ def _inputs(distance, bed, sections, n, flow):
         if key not in made:
             made[key] = _roughness(f"n[{i}]", v, secs[i])
         rough.append(made[key])
-    flows = _per_point("flow", flow, x.size, "flow")
-    try:  # all at once; one at a time only to name a bad one
-        qs = np.asarray(flows, dtype=float)
-        ok = qs.ndim == 1 and bool(np.all(np.isfinite(qs))) and bool(np.all(qs > 0))
-    except (TypeError, ValueError):
-        ok = False
-    qs = qs.tolist() if ok else [float(validate.positive(f"flow[{i}]", v)) for i, v in enumerate(flows)]
+    # a float array (a run's flows) is checked at once; anything else one at a time, naming a bad one
+    if (isinstance(flow, np.ndarray) and flow.dtype.kind == "f" and flow.shape == x.shape
+            and bool(np.all(np.isfinite(flow))) and bool(np.all(flow > 0))):
+        qs = flow.tolist()
+    else:
+        qs = [float(validate.positive(f"flow[{i}]", v)) for i, v in enumerate(_per_point("flow", flow, x.size, "flow"))]
     for i, v in enumerate(ns):  # an n made for one flow (grass at the energy slope) must meet that flow
         made_for = getattr(v, "flow", None)
         if made_for is not None and abs(made_for - qs[i]) > 1e-12 * qs[i]:

@@ -25,8 +25,8 @@ from ..provenance import cite
 from ..wording import worded
 from . import hec15
 
-__all__ = ["StoneRoughness", "VegetationRoughness", "FixedSlopeN", "EnergySlopeN", "STONE_METHODS", "SPLIT_BAND", "SWITCH_NOTE",
-           "relation_switch_depth"]
+__all__ = ["StoneRoughness", "VegetationRoughness", "FixedSlopeN", "EnergySlopeN", "STONE_METHODS", "SPLIT_BAND",
+           "SWITCH_NOTE", "relation_switch_depth"]
 
 #: Ways to compute the n of a stone lining.
 STONE_METHODS = ("auto", "blodgett", "bathurst", "strickler")
