@@ -182,6 +182,11 @@ REGISTER: dict = _entries(
     Published("bend_length", "length of protection below a bend", "Lp = Ku R^(7/6) / n, Ku 0.736 SI (0.604 CU)",
               "HEC-22 (2009) Eq. 5-16", ("hec22-ch5",),
               "HEC-22 gives it with a reference to HEC-15"),
+    Published("boundary_shear_slope", "slope in the mean boundary shear",
+              "tau = gamma R S, S the average bed slope or energy slope", "HEC-22 (2009) Eq. 5-12", ("hec22-ch5",),
+              "HEC-22 Section 5.1.7: in a uniform flow the shear equals the component of the weight along the "
+              "bottom. Inside gradually varied flow the program takes a grass lining's n (grass_n) at the mean "
+              "boundary shear with the energy slope of the profile there; in uniform flow it is the bed slope"),
     Published("superelevation", "superelevation of the water surface in a bend",
               "delta d = V^2 T / (g Rc), valid for subcritical flow", "HEC-22 (2009) Eq. 5-11",
               ("hec22-ch5",),

@@ -9,12 +9,14 @@ controls and hydraulic jumps; the method and its sources are stated there), with
 * the distance along the flow and the invert of the layout (:mod:`hydraulics.run_layout`), the section of its
   range, the design flow of the run's last round;
 * Manning's n of the lining scheduled there (``Lining.roughness(d50)``, the same roughness the screening uses):
-  a number, or for a depth-dependent lining (stone, grass) the model's n at each depth, taken at the grade of the
-  stretch leaving the point (the bed slope, as the normal-depth design takes it); on a zero or adverse grade, at
-  the grade of the nearest falling stretch downstream (else upstream). This is the program's rule: in backwater
-  the energy slope is flatter than the bed, and grass, whose n rises as the shear falls (HEC-15 Chapter 4), is
-  then rougher than computed, so the backwater of a grass stretch is said to be an underestimate where it rises
-  above normal depth;
+  a number, or for a depth-dependent lining the model's n at each depth of the profile. Grass takes HEC-15's
+  n = Cn tau_o^-0.4 (Chapter 4) at the mean boundary shear tau_o = gamma R S with S the energy slope of the
+  profile itself (:class:`~hydraulics.linings.roughness.EnergySlopeN`): HEC-22 (2009) Eq. 5-12 gives the mean
+  shear with S "average bed slope or energy slope" (provenance key ``boundary_shear_slope``). In uniform flow the
+  two slopes are one, so normal depth and the lining checks are unchanged; in backwater the energy slope is
+  flatter, the grass stands rougher and the water higher. Stone takes its n at the grade of the stretch leaving
+  the point (:class:`~hydraulics.linings.roughness.FixedSlopeN`; on a zero or adverse grade, at the grade of the
+  nearest falling stretch downstream, else upstream): the program's rule, as the normal-depth design takes it;
 * the outfall control of the run (``DitchRun.outfall_control``: normal depth, critical depth or a known water
   level, ``DitchRun.outfall_level``), normal depth at the top where the first stretch is steep.
 
@@ -38,18 +40,15 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
+from . import provenance
 from .ditch_run import ranges_of, stretches
 from .errors import HydraulicsError
 from .freeboard import ditch_tops
-from .linings.roughness import VegetationRoughness
+from .linings.roughness import EnergySlopeN, FixedSlopeN, VegetationRoughness
 from .water_surface import Jump, WaterSurface, water_surface
 from .wording import worded
 
-__all__ = ["RunWaterSurface", "RunJump", "run_water_surface", "SURFACE_RULES", "BACKWATER_CAUTION"]
-
-#: A grass lining whose water depth is more than this times its normal depth is said to be in backwater, where its
-#: n taken at the bed slope is low (the program's threshold) [-].
-BACKWATER_CAUTION = 1.05
+__all__ = ["RunWaterSurface", "RunJump", "run_water_surface", "SURFACE_RULES"]
 
 #: The rules of the water surface along a run, stated with every result.
 SURFACE_RULES = (
@@ -58,8 +57,10 @@ SURFACE_RULES = (
     "freeboard against the ditch as built) uses that depth",
     "the lining shear check and the schedule use normal depth, the design depth of HEC-15's permissible-shear "
     "method (HEC-15, 3rd ed., 2005, Chapter 3)",
-    "n of a depth-dependent lining at each depth of the profile, taken at the bed slope of the stretch (on a zero "
-    "or adverse grade, at the nearest falling one): the program's rule",
+    "n of a grass lining at each depth of the profile from the mean boundary shear at the energy slope there "
+    f"(HEC-15 Chapter 4 with HEC-22 (2009) Eq. 5-12, {provenance.cite('boundary_shear_slope')}); n of a stone "
+    "lining taken at the bed slope of the stretch (on a zero or adverse grade, at the nearest falling one): the "
+    "program's rule",
 )
 
 
@@ -120,39 +121,44 @@ def _at(station):
     return (station, "station")
 
 
-def _roughness_at(result, rows) -> tuple[list, list]:
+def _roughness_at(result, rows, flow) -> list:
     """Manning's n for each design point in ``rows``: a number, or a callable n(depth) of the scheduled lining's
-    model at the point's section and slope (see the module's rule), callables shared between equal points; and
-    whether each point's lining is grass (n from HEC-15 Chapter 4's shear relation)."""
+    model at the point's section, and for grass its flow (``flow`` [m^3/s] per point), else its slope (see the
+    module's rule), callables shared between equal points."""
     run, layout = result.run, result.layout
     grade = np.asarray(layout.grade, dtype=float)
     falling = np.flatnonzero(grade > 0)
     models = {}
-    out, grass = [], []
+    out = []
     for i in rows:
         k = int(result.choice[i])
         c = run.candidates[k]
         if k not in models:
             models[k] = c.lining.roughness(c.d50)
         model = models[k]
-        grass.append(isinstance(model, VegetationRoughness))
         if isinstance(model, (int, float)):
             out.append(float(model))
+            continue
+        section = run.sections[int(result.section_index[i])].section
+        if isinstance(model, VegetationRoughness):
+            key = (k, int(result.section_index[i]), "flow", float(flow[i]))
+            if key not in models:
+                models[key] = EnergySlopeN(model, section, float(flow[i]))
+            out.append(models[key])
             continue
         s = float(grade[i])
         if not s > 0:
             below = falling[falling > i]
             above = falling[falling < i]
             s = float(grade[below[0]]) if below.size else float(grade[above[-1]]) if above.size else math.nan
-        section = run.sections[int(result.section_index[i])].section
         key = (k, int(result.section_index[i]), s)
         if key not in models:
             if not math.isfinite(s):
                 raise HydraulicsError("no stretch of the run falls: the depth-dependent n of "
                                       f"{c.lining.name} has no slope to be taken at")
-            models[key] = (lambda y, m=model, sec=section, slope=s: float(m.manning_n(sec, y, slope)))
+            models[key] = FixedSlopeN(model, section, s)
         out.append(models[key])
-    return out, grass
+    return out
 
 
 def run_water_surface(result, *, max_step: float = 10.0, step_tolerance: float = 1e-4) -> RunWaterSurface:
@@ -196,7 +202,7 @@ def run_water_surface(result, *, max_step: float = 10.0, step_tolerance: float =
             dry = first + int(np.argmin(wet[first:]))
             raise HydraulicsError(str(worded("the design flow falls to nothing at {s}, downstream of water",
                                              s=_at(stations[dry]))))
-        n_used, grass = _roughness_at(result, rows)
+        n_used = _roughness_at(result, rows, flow)
         sections = [run.sections[int(result.section_index[i])].section for i in rows]
         ws = water_surface(layout.x[rows], invert[rows], sections, n_used, flow[rows],
                            outfall="level" if control == "level" else control,
@@ -277,11 +283,4 @@ def run_water_surface(result, *, max_step: float = 10.0, step_tolerance: float =
         out.warnings.append(worded("the water surface is not computed {where}: the water downstream rises above the "
                                    "top of the closed section; the fit there is not checked",
                                    where=stretches(missing)))
-    backed = np.zeros(count, dtype=bool)
-    for i in done:
-        backed[i] = grass[i - first] and out.depth[i] > BACKWATER_CAUTION * out.normal_depth[i]  # nan: False
-    if backwater := ranges_of(backed.tolist(), stations):
-        out.warnings.append(worded("grass lining in backwater {where}: its n is taken at the bed slope, but the "
-                                   "energy slope there is flatter and the grass rougher (HEC-15 Chapter 4), so the "
-                                   "water surface computed there may be low", where=stretches(backwater)))
     return out

@@ -7,7 +7,10 @@ max_step=10.0, step_tolerance=1e-4) -> WaterSurface``
     The profile over a sequence of design points. ``distance`` [m] rises in the direction of flow (strictly),
     ``bed`` [m] is the invert elevation at each point, ``sections`` one :class:`~hydraulics.sections.Section`
     or one per point, ``n`` Manning's n [s/m^(1/3)] as one value, a callable ``n(depth)`` for a depth-dependent
-    lining, or one of those per point (``None`` for a surveyed section, which carries its own composite n),
+    lining (a :class:`~hydraulics.linings.roughness.FixedSlopeN` or, for grass at the energy slope,
+    :class:`~hydraulics.linings.roughness.EnergySlopeN` made for the point's own section is faster: a grass
+    lining's n is then taken in closed form, and many stretches' normal depths are solved in one array call),
+    or one of those per point (``None`` for a surveyed section, which carries its own composite n),
     ``flow`` [m^3/s] one value or one per point (it changes at inflow points). A point's section, n and flow
     apply from that point downstream to the next one (the water leaving the point); the last point keeps its
     own. Controls: ``outfall`` "normal", "critical" or "level" (with ``outfall_level`` [m], the water-surface
@@ -50,8 +53,9 @@ Method
 * Each step is solved for the depth on its branch: above critical depth on a subcritical step, below it on a
   supercritical one. On its branch the energy balance is monotonic in the depth, so the root is unique;
   Newton's method safeguarded by bisection meets it to HEAD_TOLERANCE (1e-10 m of head) or raises
-  ConvergenceError. When the branch has no root (the energy cannot be carried), the pass records critical
-  depth there and goes on from it.
+  ConvergenceError. Its first trial is one Newton step from the known depth, taken with the known state's own
+  terms (so it costs no evaluation); the root does not depend on it. When the branch has no root (the energy
+  cannot be carried), the pass records critical depth there and goes on from it.
 
 Step control
 ------------
@@ -119,7 +123,7 @@ import numpy as np
 
 from . import provenance, validate
 from .constants import G
-from .errors import ConvergenceError, InputError, NoSolutionError
+from .errors import ConvergenceError, HydraulicsError, InputError, NoSolutionError
 from .sections import Section, Trapezoid
 from .solvers import solve_critical_depth, solve_normal_depth
 from .wording import worded
@@ -152,10 +156,13 @@ _MAX_NEWTON = 100
 # ------------------------------------------------------------------------------------------------ single sections
 
 def _roughness(field_name, n, section):
-    """n(depth) for one point: a constant, a callable, or a surveyed section's own composite n."""
+    """n(depth) for one point: a constant, a callable, or a surveyed section's own composite n; as (n(depth),
+    the constant or None, a key, and the callable itself where it has n = k R^e (A R^(2/3))^f in closed form for
+    this very section (a grass lining's :class:`~hydraulics.linings.roughness.FixedSlopeN` or
+    :class:`~hydraulics.linings.roughness.EnergySlopeN`), else None)."""
     if n is None:
         if hasattr(section, "composite_n"):
-            return section.composite_n, None, ("composite", id(section))
+            return section.composite_n, None, ("composite", id(section)), None
         raise InputError(field_name, "is missing (Manning's n, a number > 0, or a function n(depth))")
     if callable(n):
         def checked(y, fn=n):
@@ -165,11 +172,12 @@ def _roughness(field_name, n, section):
                 raise InputError(field_name, f"n(depth) must give a number between 0 and 1, got {value!r} at "
                                              f"depth {y:.6g} m")
             return float(value)
-        return checked, None, ("function", id(n))
+        closed = getattr(n, "closed_form", None) is not None and getattr(n, "section", None) is section
+        return checked, None, ("function", id(n)), n if closed else None
     value = validate.number(field_name, n, low=0.0, high=1.0, hint=" (Manning's n is a small number such as 0.013)")
     if not isinstance(value, float):
         raise InputError(field_name, "must be one number per point")
-    return (lambda y, v=value: v), value, ("constant", value)
+    return (lambda y, v=value: v), value, ("constant", value), None
 
 
 class _ModelN:
@@ -312,11 +320,12 @@ def profile_type(depth, normal_depth, critical_depth, slope):
 class _Props:
     """What applies at a computation node: section, roughness, flow and the slope of its stretch."""
 
-    __slots__ = ("section", "nfn", "nconst", "nkey", "flow", "slope", "yc", "yn", "yn_note", "top", "index",
-                 "_trap")
+    __slots__ = ("section", "nfn", "nconst", "nkey", "nsource", "npow", "flow", "slope", "yc", "yn", "yn_note",
+                 "top", "index", "_trap", "_at_yc", "_at_top")
 
     def __init__(self, section, rough, flow, slope, index):
-        self.section, (self.nfn, self.nconst, self.nkey) = section, rough
+        self.section, (self.nfn, self.nconst, self.nkey, self.nsource) = section, rough
+        self.npow = None if self.nsource is None else self.nsource.closed_form  # n = k R^e (A R^(2/3))^f
         self.flow, self.slope = flow, slope
         self.index = index
         self.yc = self.yn = math.nan
@@ -325,6 +334,7 @@ class _Props:
         # the trapezoid family's closed forms inline (the same formulas as Trapezoid._geometry), for speed
         self._trap = ((float(section.bottom_width), float(section._zsum), float(section._psum))
                       if isinstance(section, Trapezoid) else None)
+        self._at_yc = self._at_top = None
 
     def key(self, section_key):
         """Equal keys: equal props. Slopes from elevations and distances differ in their last digits along one
@@ -333,7 +343,11 @@ class _Props:
 
     # -- hydraulics at one depth (scalar fast path) --
     def head_terms(self, y):
-        """Specific energy E [m], friction slope S_f [-], dE/dy and dS_f/dy at depth ``y``."""
+        """Specific energy E [m], friction slope S_f [-], dE/dy and dS_f/dy at depth ``y``.
+
+        dS_f/dy follows from ln S_f = 2 ln n - 2 ln A - 4/3 ln R with d ln A/dy = T/A and d ln R/dy = T/A - P'/P;
+        d ln n/dy is counted where n = k R^e (A R^(2/3))^f is known in closed form ((e + 2f/3) d ln R/dy + f T/A),
+        else taken as zero (it only steers Newton's method: the energy balance itself uses n at the depth)."""
         if self._trap is not None:
             b, zs, ps = self._trap
             t = b + zs * y
@@ -344,20 +358,43 @@ class _Props:
             g = self.section._geometry(y)
             a, p, t, dp = g.area, g.wetted_perimeter, g.top_width, g.dP_dy
         q = self.flow
-        n = self.nconst if self.nconst is not None else self.nfn(y)
+        r = a / p
+        conveyance = a * r ** (2 / 3)
+        t_a, dp_p = t / a, dp / p
+        dlogn = 0.0
+        if self.nconst is not None:
+            n = self.nconst
+        elif self.npow is not None:
+            k, e, f = self.npow
+            n = k * r ** e if f == 0.0 else k * r ** e * conveyance ** f
+            if not 0.0 < n < 1.0:
+                n = self.nfn(y)  # the model itself, which refuses an n out of range by name
+            dlogn = (e + 2 / 3 * f) * (t_a - dp_p) + f * t_a
+        else:
+            n = self.nfn(y)
         v2g = q * q / (2 * G * a * a)
-        sf = (q * n / (a * (a / p) ** (2 / 3))) ** 2
-        de = 1 - 2 * v2g * t / a
-        dsf = -2 * sf * (5 / 3 * t / a - 2 / 3 * dp / p)
+        sf = (q * n / conveyance) ** 2
+        de = 1 - 2 * v2g * t_a
+        dsf = sf * (2 * dlogn - 10 / 3 * t_a + 4 / 3 * dp_p)
         return y + v2g, sf, de, dsf
+
+    def at_critical(self):
+        """head_terms at critical depth, worked out once."""
+        if self._at_yc is None:
+            self._at_yc = self.head_terms(self.yc)
+        return self._at_yc
+
+    def at_top(self):
+        """head_terms at the top of a closed section, worked out once."""
+        if self._at_top is None:
+            self._at_top = self.head_terms(self.top)
+        return self._at_top
 
     def force(self, y):
         return self.flow ** 2 / (G * self.section._geometry(y).area) + self.section._first_moment(y)
 
 
-
-
-@dataclass
+@dataclass(slots=True)
 class _Node:
     x: float
     z: float
@@ -365,19 +402,20 @@ class _Node:
     point: int  # design point index, or -1 for a step node, -2 for the upstream side of a change at a point
 
 
-@dataclass
+@dataclass(slots=True)
 class _State:
     y: float
     status: int
     energy: float = math.nan  # specific energy [m]
     sf: float = math.nan
+    de: float = math.nan      # dE/dy and dS_f/dy at the depth (the next step's first trial)
+    dsf: float = math.nan
 
 
 def _state(props, y, status):
     if status == _TOP or not math.isfinite(y):
         return _State(y, status)
-    e, sf, _, _ = props.head_terms(y)
-    return _State(y, status, e, sf)
+    return _State(y, status, *props.head_terms(y))
 
 
 def _solve_step(props, z, known, z_known, length, upstream):
@@ -386,57 +424,69 @@ def _solve_step(props, z, known, z_known, length, upstream):
     Energy balance (standard step, mean friction slope): going upstream z + E - L/2 S_f = z_k + E_k + L/2 S_fk;
     going downstream z + E + L/2 S_f = z_k + E_k - L/2 S_fk. Returns a _State (status _CRIT when the branch has no
     root, _TOP when the subcritical root lies above the section's top).
+
+    The first trial is one Newton step from the known depth, worked out from the known state's own terms (the
+    two nodes of a step of some length share their props), which lies close to the root on a short step.
     """
     half = 0.5 * length
     c = -half if upstream else half
     target = (z_known - z) + known.energy + (half if upstream else -half) * known.sf
     yc = props.yc
-
-    def resid(y):
-        e, sf, de, dsf = props.head_terms(y)
-        return e + c * sf - target, de + c * dsf
-
-    r_c = resid(yc)[0]
-    if r_c >= -HEAD_TOLERANCE:
+    e_c, sf_c, _, _ = props.at_critical()
+    if e_c + c * sf_c - target >= -HEAD_TOLERANCE:
         return _State(yc, _CRIT)
+    on_branch = known.status == _OK and (known.y > yc) == upstream
     if upstream:  # residual rises with depth above critical depth
         lo, hi = yc, math.inf
         if props.top is not None:
             hi = props.top
-            if resid(hi)[0] < 0:
+            e_t, sf_t, _, _ = props.at_top()
+            if e_t + c * sf_t - target < 0:
                 return _State(hi, _TOP)
-        y = known.y if known.status == _OK and known.y > yc else 1.1 * yc
+        y = known.y if on_branch else 1.1 * yc
         if y >= hi:
             y = 0.5 * (lo + hi)
     else:  # residual falls with depth below critical depth
         lo, hi = 0.0, yc
-        y = known.y if known.status == _OK and known.y < yc else 0.9 * yc
+        y = known.y if on_branch else 0.9 * yc
+    if on_branch and length > 0.0 and y == known.y:
+        dr = known.de + c * known.dsf
+        if dr != 0.0:
+            trial = y - (known.energy + c * known.sf - target) / dr
+            if lo < trial < hi:
+                y = trial
+    head_terms = props.head_terms
     for _ in range(_MAX_NEWTON):
-        r, dr = resid(y)
-        if abs(r) <= HEAD_TOLERANCE:
-            return _state(props, y, _OK)
+        e, sf, de, dsf = head_terms(y)
+        r = e + c * sf - target
+        if -HEAD_TOLERANCE <= r <= HEAD_TOLERANCE:
+            return _State(y, _OK, e, sf, de, dsf)
         if (r < 0) == upstream:
             lo = y
         else:
             hi = y
+        dr = de + c * dsf
         step = y - r / dr if dr != 0 else math.nan
-        if lo < step < hi and math.isfinite(step):
+        if lo < step < hi:  # false for nan, and for inf (hi is at most inf)
             y_new = step
-        elif math.isinf(hi):
+        elif hi == math.inf:
             y_new = 2.0 * y
         else:
             y_new = 0.5 * (lo + hi)
-        if math.isfinite(hi) and hi - lo <= 1e-14 * hi:  # the bracket is down to rounding
+        if hi != math.inf and hi - lo <= 1e-14 * hi:  # the bracket is down to rounding
             return _state(props, y_new, _OK)
         y = y_new
     raise ConvergenceError(f"the energy balance of a step did not converge in {_MAX_NEWTON} iterations "
                            f"(depth {y:.6g} m, head residual {r:.3g} m, tolerance {HEAD_TOLERANCE:g} m)")
 
 
-def _advance(props, known, x0, z0, x1, z1, upstream, tol, level=0):
-    """Carry ``known`` (at x0, z0) to (x1, z1) on one stretch, halving the step while whole and halves differ."""
+def _advance(props, known, x0, z0, x1, z1, upstream, tol, full=None):
+    """Carry ``known`` (at x0, z0) to (x1, z1) on one stretch, halving the step while whole and halves differ.
+
+    ``full`` is the whole step's answer where the caller has it already (the first half of a halved step)."""
     length = abs(x1 - x0)
-    full = _solve_step(props, z1, known, z0, length, upstream)
+    if full is None:
+        full = _solve_step(props, z1, known, z0, length, upstream)
     if length == 0.0 or (full.status != _OK and known.status != _OK):
         return full
     if full.status == _OK and known.status == _OK and abs(full.y - known.y) <= tol * full.y:
@@ -450,10 +500,10 @@ def _advance(props, known, x0, z0, x1, z1, upstream, tol, level=0):
         return b if b.status == _CRIT else _State(math.nan, _TOP)
     if (full.status == _OK and abs(full.y - b.y) <= tol * b.y) or 0.5 * length < MIN_STEP:
         return b
-    a = _advance(props, known, x0, z0, xm, zm, upstream, tol, level + 1)
+    a = _advance(props, known, x0, z0, xm, zm, upstream, tol, a)  # the first half's whole step is ``a``
     if a.status != _OK:
         return _State(props.yc, a.status) if a.status == _CRIT else _State(math.nan, _TOP)
-    return _advance(props, a, xm, zm, x1, z1, upstream, tol, level + 1)
+    return _advance(props, a, xm, zm, x1, z1, upstream, tol)
 
 
 # ------------------------------------------------------------------------------------------------ results
@@ -536,11 +586,30 @@ def _inputs(distance, bed, sections, n, flow):
         raise InputError("distance", f"must rise strictly in the direction of flow (point {i + 2}: {x[i + 1]:g} m "
                                      f"after {x[i]:g} m)")
     secs = _per_point("sections", sections, x.size, "section")
+    checked = set()  # a run repeats one section object at many points: each is checked once
     for i, s in enumerate(secs):
-        _check_section(s, f"sections[{i}]")
+        if id(s) not in checked:
+            _check_section(s, f"sections[{i}]")
+            checked.add(id(s))
     ns = _per_point("n", n, x.size, "n")
-    rough = [_roughness(f"n[{i}]", v, secs[i]) for i, v in enumerate(ns)]
-    qs = [float(validate.positive(f"flow[{i}]", v)) for i, v in enumerate(_per_point("flow", flow, x.size, "flow"))]
+    made = {}  # likewise one roughness per n object and section (the message names its first point)
+    rough = []
+    for i, v in enumerate(ns):
+        key = (id(v), id(secs[i]))
+        if key not in made:
+            made[key] = _roughness(f"n[{i}]", v, secs[i])
+        rough.append(made[key])
+    # a float array (a run's flows) is checked at once; anything else one at a time, naming a bad one
+    if (isinstance(flow, np.ndarray) and flow.dtype.kind == "f" and flow.shape == x.shape
+            and bool(np.all(np.isfinite(flow))) and bool(np.all(flow > 0))):
+        qs = flow.tolist()
+    else:
+        qs = [float(validate.positive(f"flow[{i}]", v)) for i, v in enumerate(_per_point("flow", flow, x.size, "flow"))]
+    for i, v in enumerate(ns):  # an n made for one flow (grass at the energy slope) must meet that flow
+        made_for = getattr(v, "flow", None)
+        if made_for is not None and abs(made_for - qs[i]) > 1e-12 * qs[i]:
+            raise InputError(f"n[{i}]", f"is made for a flow of {made_for:g} m^3/s, but the point carries "
+                                        f"{qs[i]:g} m^3/s")
     return x, z, secs, rough, qs
 
 
@@ -627,12 +696,14 @@ def _point_props(x, z, secs, rough, qs) -> list:
         if id(secs[i]) not in section_keys:  # sections of one shape and dimensions are one section
             section_keys[id(secs[i])] = repr(secs[i].to_dict())
         point_props.append(shared.setdefault(p.key(section_keys[id(secs[i])]), p))
+    _depths_in_arrays(list(shared.values()), section_keys)
     for p in shared.values():
-        try:
-            p.yc = float(solve_critical_depth(p.section, p.flow).depth)
-        except NoSolutionError as exc:
-            raise NoSolutionError(f"no critical depth at distance {x[p.index]:g} m: {exc}") from None
-        if p.slope > 0:
+        if math.isnan(p.yc):
+            try:
+                p.yc = float(solve_critical_depth(p.section, p.flow).depth)
+            except NoSolutionError as exc:
+                raise NoSolutionError(f"no critical depth at distance {x[p.index]:g} m: {exc}") from None
+        if p.slope > 0 and math.isnan(p.yn):
             try:
                 n_arg = p.nconst if p.nconst is not None else (
                     None if p.nkey[0] == "composite" else _ModelN(p.nfn))
@@ -644,6 +715,47 @@ def _point_props(x, z, secs, rough, qs) -> list:
                 p.yn = math.inf
                 p.yn_note = str(exc)
     return point_props
+
+
+def _depths_in_arrays(props, section_keys) -> None:
+    """Critical and normal depth of many props at once: one array solve per section (critical depth) and per
+    section and constant n or grass model (normal depth), the same solvers as one at a time. A group whose array
+    solve raises is left to the one-at-a-time solves, which name the point; so is a stone or surveyed section's
+    n (its normal depth may have several roots, and the scalar steps choose one)."""
+    by_section = {}
+    for p in props:
+        by_section.setdefault(section_keys[id(p.section)], []).append(p)
+    for group in by_section.values():
+        if len(group) < 2:
+            continue
+        try:
+            yc = solve_critical_depth(group[0].section, np.array([p.flow for p in group])).depth
+        except HydraulicsError:
+            continue
+        for p, y in zip(group, yc.tolist()):
+            p.yc = y
+        normal = {}
+        for p in group:
+            if not p.slope > 0:
+                continue
+            if p.nconst is not None:
+                normal.setdefault("constant", []).append(p)
+            elif p.nsource is not None and abs(getattr(p.nsource, "slope", p.slope) - p.slope) <= 1e-12 * p.slope:
+                # grass whose n is taken at the stretch's own slope, or at the energy slope (the bed slope at
+                # normal depth): the model itself, vectorised over the slopes
+                normal.setdefault(id(p.nsource.model), []).append(p)
+        for kind, members in normal.items():
+            if len(members) < 2:
+                continue
+            flows = np.array([p.flow for p in members])
+            grades = np.array([p.slope for p in members])
+            n_arg = np.array([p.nconst for p in members]) if kind == "constant" else members[0].nsource.model
+            try:
+                yn = solve_normal_depth(members[0].section, flows, grades, n_arg).depth
+            except HydraulicsError:
+                continue
+            for p, y in zip(members, yn.tolist()):
+                p.yn = y
 
 
 def _nodes(x, z, point_props, max_step) -> list:

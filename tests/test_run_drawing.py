@@ -45,7 +45,7 @@ def test_jumps_and_overtopped_stretches_are_marked():
     design = design_run(project, run)
     m = profile_model(design, SI)
     (jump,) = m.jumps
-    assert jump.label == "jump 0+329.14" and jump.start == pytest.approx(design.surface.jumps[0].station)
+    assert jump.label == "jump 0+328.97" and jump.start == pytest.approx(design.surface.jumps[0].station)
     assert jump.low < jump.high
     over = [b for b in m.trouble if b.status == "overtopped"]
     assert len(over) == 1 and over[0].end == pytest.approx(700.0)

@@ -244,7 +244,7 @@ def test_text_lists_controls_and_jumps_and_csv_has_the_new_columns(capsys, tmp_p
     assert main(["run", str(high_outfall), "--units", "si", "--csv", str(out_csv)]) == 0
     text = capsys.readouterr().out
     assert "Water-surface controls" in text and "outfall, 0+700.00: water level, level 45.86 m" in text
-    assert "Hydraulic jumps" in text and "  - at 0+329." in text
+    assert "Hydraulic jumps" in text and "  - at 0+328.97" in text
     assert "<- overtopped" in text
     rows = list(csv.reader(out_csv.open(encoding="utf-8")))
     head = rows[0]

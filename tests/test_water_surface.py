@@ -125,6 +125,46 @@ def test_a_mild_to_steep_break_passes_through_critical_depth():
     assert np.all(np.abs(ws.depth[:brk - 1] - expected) <= 0.005 * expected)
 
 
+def grass_n_at_energy_slope(cn, y, q, b=B, z=Z):
+    """Grass n with its boundary shear at the energy slope of ``q`` itself, written out here: the fixed point of
+    n = Cn (gamma R S_f)^-0.4 (HEC-15 Chapter 4, alpha = 1 in SI, gamma = 9810 N/m^3) with S_f from Manning's
+    equation, S_f = (Q n / (A R^(2/3)))^2, iterated as the geometric mean of n and the relation's n."""
+    area = (b + z * y) * y
+    radius = area / (b + 2 * y * math.sqrt(1 + z * z))
+    n = 0.05
+    for _ in range(100):
+        sf = (q * n / (area * radius ** (2 / 3))) ** 2
+        n = math.sqrt(n * cn * (9810.0 * radius * sf) ** -0.4)
+    return n
+
+
+def test_grass_at_the_energy_slope_agrees_with_an_integration_of_the_gvf_equation():
+    """An M1 curve on grass whose n follows the energy slope: solve_ivp on dy/dx = (S0 - Sf) / (1 - Fr^2) with
+    that n solved in the test at every depth, within 0.5 % of depth (the criterion of the other curves); higher
+    than the same curve with n held at the bed slope (n rises as the shear falls); normal depth far upstream."""
+    from hydraulics.linings.roughness import EnergySlopeN, FixedSlopeN, VegetationRoughness
+
+    grass = VegetationRoughness(density_stiffness=106.0, stem_height=0.15)   # HEC-15 Table 4.3 "good" stand
+    x, z = straight_run(1500.0, 25.0, MILD)
+    y_out = 2.0
+    ws = water_surface(x, z, SECTION, EnergySlopeN(grass, SECTION, Q), Q, outfall_level=z[-1] + y_out)
+
+    def rhs(_, y):
+        n = grass_n_at_energy_slope(grass.cn, y[0], Q)
+        sf, fr2 = trapezoid_terms(B, Z, Q, n, y[0])
+        return [(MILD - sf) / (1 - fr2)]
+
+    sol = solve_ivp(rhs, (x[-1], x[0]), [y_out], t_eval=x[::-1], method="DOP853", rtol=1e-11, atol=1e-13)
+    assert sol.success
+    np.testing.assert_allclose(ws.depth, sol.y[0][::-1], rtol=5e-3)
+    assert set(ws.profile_type[:-1]) <= {"M1", "uniform"}
+    at_bed = water_surface(x, z, SECTION, FixedSlopeN(grass, SECTION, MILD), Q, outfall_level=z[-1] + y_out)
+    backed = ws.depth > 1.01 * ws.normal_depth
+    backed[-1] = False   # the outfall's level, the same for both
+    assert backed.sum() > 5 and np.all(ws.depth[backed] > at_bed.depth[backed])
+    np.testing.assert_allclose(ws.normal_depth, at_bed.normal_depth, rtol=1e-9)   # S_f = S0 at normal depth
+
+
 # -- hydraulic jumps ----------------------------------------------------------------------------------------------
 
 @pytest.mark.parametrize("fr1", [1.5, 2.5, 4.0, 7.0, 12.0])

@@ -25,8 +25,8 @@ from ..provenance import cite
 from ..wording import worded
 from . import hec15
 
-__all__ = ["StoneRoughness", "VegetationRoughness", "STONE_METHODS", "SPLIT_BAND", "SWITCH_NOTE",
-           "relation_switch_depth"]
+__all__ = ["StoneRoughness", "VegetationRoughness", "FixedSlopeN", "EnergySlopeN", "STONE_METHODS", "SPLIT_BAND",
+           "SWITCH_NOTE", "relation_switch_depth"]
 
 #: Ways to compute the n of a stone lining.
 STONE_METHODS = ("auto", "blodgett", "bathurst", "strickler")
@@ -347,6 +347,29 @@ class VegetationRoughness:
         """Manning's n [s/m^(1/3)] at ``depth`` [m] and ``slope`` [m/m]; no checks (solver use)."""
         return hec15._vegetation_n(self.cn, self.boundary_shear(section, depth, slope))
 
+    def closed_form(self, slope=None, flow=None):
+        """(k, e, f) with n = k R^e (A R^(2/3))^f [s/m^(1/3)], the same relation n = Cn (gamma R S)^-0.4 in closed
+        form for a solver stepping through many depths (R [m] and A [m^2] of the depth).
+
+        At a fixed ``slope`` S [m/m]: k = Cn (gamma S)^-0.4, e = -0.4, f = 0. At the energy slope of the ``flow``
+        Q [m^3/s] itself, S = S_f = (Q n / (A R^(2/3)))^2 (Manning's equation with the energy slope), n appears on
+        both sides: n^1.8 = Cn gamma^-0.4 R^-0.4 (Q / (A R^(2/3)))^-0.8, so k = (Cn gamma^-0.4 Q^-0.8)^(1/1.8),
+        e = -0.4/1.8 and f = 0.8/1.8. At normal depth the energy slope is the bed slope, and the two give one n.
+        """
+        if (slope is None) == (flow is None):
+            raise InputError("slope", "give either a slope or a flow for the closed form of grass n")
+        if flow is None:
+            return float(self.cn * (self.gamma_water * slope) ** -0.4), -0.4, 0.0
+        return (float((self.cn * self.gamma_water ** -0.4 * flow ** -0.8) ** (1 / 1.8)), -0.4 / 1.8, 0.8 / 1.8)
+
+    def energy_slope_n(self, section, depth, flow):
+        """Manning's n [s/m^(1/3)] at ``depth`` [m] with the mean boundary shear taken at the energy slope of
+        ``flow`` [m^3/s] itself (see :meth:`closed_form`); no checks (solver use)."""
+        k, e, f = self.closed_form(flow=flow)
+        g = section._geometry(depth)
+        radius = g.area / g.wetted_perimeter
+        return k * radius ** e * (g.area * radius ** (2 / 3)) ** f
+
     def check(self, section, depth, slope) -> list[str]:
         """Warnings for a flow the vegetated-lining relation does not describe well."""
         out = []
@@ -358,6 +381,54 @@ class VegetationRoughness:
 
     def to_dict(self) -> dict:
         return {"model": "vegetation", "density_stiffness": self.density_stiffness, "stem_height": self.stem_height}
+
+
+class FixedSlopeN:
+    """A lining model's Manning's n as a function of the depth alone, the slope held at ``slope`` [m/m] (as a
+    profile takes the n of a stone lining at the bed slope of its stretch): ``n(depth)`` [s/m^(1/3)].
+
+    ``closed_form`` is the model's (k, e, f) with n = k R^e (A R^(2/3))^f at that slope where the model has one
+    (:meth:`VegetationRoughness.closed_form`), else None; a solver may use it in place of the call, with the
+    same ``section``.
+    """
+
+    __slots__ = ("model", "section", "slope", "closed_form")
+
+    def __init__(self, model, section, slope):
+        self.model, self.section, self.slope = model, section, float(slope)
+        form = getattr(model, "closed_form", None)
+        self.closed_form = form(slope=self.slope) if form is not None else None
+
+    def __call__(self, depth):
+        return float(self.model.manning_n(self.section, depth, self.slope))
+
+    def __repr__(self):
+        return f"FixedSlopeN({self.model!r}, slope={self.slope:g})"
+
+
+class EnergySlopeN:
+    """A grass lining's Manning's n as a function of the depth alone for one ``flow`` [m^3/s], the mean boundary
+    shear taken at the energy slope of that flow (:meth:`VegetationRoughness.energy_slope_n`), as inside
+    gradually varied flow: ``n(depth)`` [s/m^(1/3)]. ``closed_form`` as for :class:`FixedSlopeN`.
+
+    HEC-22 (2009) Eq. 5-12 gives the mean shear as tau = gamma R S with S the "average bed slope or energy
+    slope" (provenance key ``boundary_shear_slope``); in uniform flow the two are one, in backwater the energy
+    slope is flatter and the grass stands rougher.
+    """
+
+    __slots__ = ("model", "section", "flow", "closed_form")
+
+    def __init__(self, model, section, flow):
+        if not isinstance(model, VegetationRoughness):
+            raise InputError("model", f"n at the energy slope is made for a grass lining, got {model!r}")
+        self.model, self.section, self.flow = model, section, float(validate.positive("flow", flow))
+        self.closed_form = model.closed_form(flow=self.flow)
+
+    def __call__(self, depth):
+        return float(self.model.energy_slope_n(self.section, depth, self.flow))
+
+    def __repr__(self):
+        return f"EnergySlopeN({self.model!r}, flow={self.flow:g})"
 
 
 def relation_switch_depth(roughness, section) -> float | None:

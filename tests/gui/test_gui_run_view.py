@@ -78,7 +78,7 @@ def test_the_profile_draws_the_drawing_model(demo_window, qtbot, demo_design):
     assert view.picture.lines["normal"].get_linestyle() == "--"     # the normal-depth line dashed
     assert view.picture.lines["water_surface"].get_label() == "Water surface (computed)"
     texts = [t.get_text() for t in view.picture.ax.texts]
-    assert [j.label for j in model.jumps] == ["jump 0+329.14"] and "jump 0+329.14" in texts   # the jump marked
+    assert [j.label for j in model.jumps] == ["jump 0+329.01"] and "jump 0+329.01" in texts   # the jump marked
     assert [t.get_text() for t in view.picture.ax.get_xticklabels()] == [t for _, t in model.ticks]
     assert any("Concrete" in t for t in texts)                    # a lining stretch labelled in its band
     assert any("Farmyard pipe" in t for t in texts)               # an inflow
@@ -442,7 +442,7 @@ def test_no_words_on_the_demo_profile_cover_others(demo_window, qtbot, size):
     view = shown(w, qtbot)
     qtbot.wait(50)
     labels = [t.get_text() for t in view.picture.ax.texts]
-    assert "jump 0+329.14" in labels and "grade 3.00 %" in labels   # the demo's jump, on its steep stretch
+    assert "jump 0+329.01" in labels and "grade 3.00 %" in labels   # the demo's jump, on its steep stretch
     assert overlapping_labels(view.picture) == []
     # the legend stays within the canvas
     legend = view.picture.legend.get_window_extent(view.picture.canvas.get_renderer())
