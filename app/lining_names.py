@@ -9,7 +9,7 @@ from __future__ import annotations
 import re
 
 from hydraulics.units import UnitSystem
-from hydraulics.wording import in_units, worded
+from hydraulics.wording import in_units, worded_sizes
 
 from .results import ResultField, format_value
 
@@ -40,14 +40,9 @@ def stone_size_text(d50: float, units: UnitSystem, decimal_mark: str = ".") -> s
     return format_value(d50, STONE_SIZE, units, decimal_mark)
 
 
-#: A size in a name: an optional "about ", a number, and mm (not part of a longer word).
-_SIZE = re.compile(r"(?P<about>about )?(?P<value>\d+(?:\.\d+)?) ?mm\b")
-#: A rough size ("about 150 mm tall"): to whole units, as the grass heights of the lining list.
-_ROUGH = ResultField("size", "size", "small_length", 0)
-
-
 def name_in_units(name: str, units: UnitSystem) -> str:
-    """``name`` with each size it quotes in millimetres restated in ``units`` (as it is in SI).
+    """``name`` with each size it quotes in millimetres restated in ``units`` (as it is in SI), by the core's one
+    wording of sizes in a name (:func:`hydraulics.wording.worded_sizes`: a rough size to whole units).
 
     >>> from hydraulics.units import US, SI
     >>> name_in_units("Grass, sod-forming, good stand, about 150 mm tall", US)
@@ -57,19 +52,4 @@ def name_in_units(name: str, units: UnitSystem) -> str:
     >>> name_in_units("Bare soil, non-cohesive, fine (D75 < 1.3 mm)", SI)
     'Bare soil, non-cohesive, fine (D75 < 1.3 mm)'
     """
-    if units.key == "si" or not _SIZE.search(name):
-        return name
-    quantities = {}
-    pieces = []
-    at = 0
-    for k, m in enumerate(_SIZE.finditer(name)):
-        pieces.append(name[at:m.start()].replace("{", "{{").replace("}", "}}"))
-        metres = float(m["value"]) / 1000.0
-        if m["about"]:
-            quantities[f"s{k}"] = "about " + format_value(metres, _ROUGH, units)
-        else:
-            quantities[f"s{k}"] = (metres, "small_length")
-        pieces.append(f"{{s{k}}}")
-        at = m.end()
-    pieces.append(name[at:].replace("{", "{{").replace("}", "}}"))
-    return in_units(worded("".join(pieces), **quantities), units)
+    return in_units(worded_sizes(name), units)

@@ -54,7 +54,7 @@ from .run_screening import Screening, screen_lining, solvable
 from .sections import Section
 from .solvers import critical_depth, normal_depth, solve_normal_depth
 from .stability import StabilityResult, check_lining
-from .wording import worded
+from .wording import worded, worded_sizes
 
 __all__ = ["SectionRange", "Bend", "Candidate", "DitchRun", "PointResult", "PointChecks", "RunResult", "solve_run",
            "TRAVEL_TOLERANCE", "MAX_TRAVEL_ITERATIONS", "RUN_RULES", "NORMAL_DEPTH_FIT", "OUTFALL_CONTROLS",
@@ -322,8 +322,9 @@ def _validate(run: DitchRun) -> None:
     validate.number("stone_porosity", run.stone_porosity, low=0.0, high=0.7, low_inclusive=True)
     for k, c in enumerate(run.candidates):
         if c.price is None:
-            raise InputError(f"candidates[{k}].unit_cost", f"is missing for {c.lining.name}: the cheapest lining can "
-                                                           "only be chosen when every candidate has a unit cost")
+            raise InputError(f"candidates[{k}].unit_cost", worded("is missing for {name}: the cheapest lining can "
+                                                                  "only be chosen when every candidate has a unit cost",
+                                                                  name=worded_sizes(c.lining.name)))
         validate.non_negative(f"candidates[{k}].unit_cost", c.price)
     for k, b in enumerate(run.bends):
         validate.positive(f"bends[{k}].radius", b.radius)
@@ -649,7 +650,7 @@ def _run_messages(res: RunResult, total_area: float):
         err = screening.errors[i][k]
         if err is not None:
             warnings.append(worded("{lining} could not be checked at {s}: {err}",
-                                   lining=run.candidates[k].label, s=at(stations[i]), err=err))
+                                   lining=worded_sizes(run.candidates[k].label), s=at(stations[i]), err=err))
     checks_at = len(warnings)      # the scheduled checks' cautions come here (RunResult.warnings)
     if total_area > RATIONAL_MAX_AREA:
         warnings.append(worded("the run drains {area} in all, above the {limit} usually allowed for the rational "
@@ -675,7 +676,8 @@ def _check_cautions(points) -> list:
                 span[-1][1] = p.index
             else:
                 spans.setdefault(key, []).append([p.index, p.index, w])
-    for (lining, _), span in spans.items():
+    for (name, _), span in spans.items():
+        lining = worded_sizes(name)  # "about 150 mm tall" restated in the user's units with the rest
         for first, last, w in span:
             if first == last:
                 warnings.append(worded("at {s} ({lining}): {w}", s=at(stations[first]), lining=lining, w=w))

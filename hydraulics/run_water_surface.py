@@ -46,7 +46,7 @@ from .errors import HydraulicsError
 from .freeboard import ditch_tops
 from .linings.roughness import EnergySlopeN, FixedSlopeN, VegetationRoughness
 from .water_surface import Jump, WaterSurface, water_surface
-from .wording import worded
+from .wording import worded, worded_sizes
 
 __all__ = ["RunWaterSurface", "RunJump", "run_water_surface", "SURFACE_RULES"]
 
@@ -154,8 +154,8 @@ def _roughness_at(result, rows, flow) -> list:
         key = (k, int(result.section_index[i]), s)
         if key not in models:
             if not math.isfinite(s):
-                raise HydraulicsError("no stretch of the run falls: the depth-dependent n of "
-                                      f"{c.lining.name} has no slope to be taken at")
+                raise HydraulicsError(worded("no stretch of the run falls: the depth-dependent n of {name} has no "
+                                             "slope to be taken at", name=worded_sizes(c.lining.name)))
             models[key] = FixedSlopeN(model, section, s)
         out.append(models[key])
     return out

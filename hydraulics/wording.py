@@ -6,23 +6,36 @@ and compares like any text) and also remembers its quantities, so that the
 edges of the program (window, sheet, command line) can restate it in US
 customary units with :func:`in_units`. Any other text passes through
 :func:`in_units` unchanged.
+
+Rounding in sentences: a quantity is written to three significant figures
+(:func:`significant`), a rough size ("about 150 mm tall") to whole units of
+the system shown, a station to hundredths. Tables round by the decimals of
+each value instead (``app.results``, the one rule of the front ends' tables).
 """
 
 from __future__ import annotations
 
 import math
+import re
 
 from .units import SI, UnitSystem
 
-__all__ = ["Worded", "format_quantity", "format_station", "format_value", "in_units", "worded"]
+__all__ = ["Worded", "format_quantity", "format_station", "format_value", "in_units", "significant", "worded",
+           "worded_sizes"]
+
+
+def significant(value: float, figures: int = 3) -> str:
+    """``value`` to ``figures`` significant figures, no exponent for ordinary values: '0.0512', '123456'."""
+    value = float(value)
+    if value == 0 or not math.isfinite(value):
+        return f"{value:g}"
+    digits = max(0, figures - 1 - int(math.floor(math.log10(abs(value)))))
+    return f"{value:.{digits}f}"
 
 
 def format_value(value: float) -> str:
-    """Three significant figures, no exponent for ordinary values."""
-    if value == 0 or not math.isfinite(value):
-        return f"{value:g}"
-    digits = max(0, 2 - int(math.floor(math.log10(abs(value)))))
-    return f"{value:.{digits}f}"
+    """Three significant figures, the rounding of every quantity in a sentence."""
+    return significant(value, 3)
 
 
 def format_station(value: float, units: UnitSystem = SI) -> str:
@@ -37,14 +50,15 @@ def format_station(value: float, units: UnitSystem = SI) -> str:
     return f"{sign}{whole}+{rest / 100:0{width}.2f}"
 
 
-def format_quantity(value, quantity: str, units: UnitSystem = SI) -> str:
-    """A SI value in ``units`` to three significant figures with its label, e.g. '1.40 lb/ft^2'; a ``"station"``
-    as a road station ('12+34.56')."""
+def format_quantity(value, quantity: str, units: UnitSystem = SI, decimals: int | None = None) -> str:
+    """A SI value in ``units`` to three significant figures with its label, e.g. '1.40 lb/ft^2' (to ``decimals``
+    decimals where given: a rough size to whole units, '6 in'); a ``"station"`` as a road station ('12+34.56')."""
     if quantity == "station":
         return format_station(value, units)
-    v = units.from_si(quantity, value)
+    v = float(units.from_si(quantity, value))
     label = units.label(quantity)
-    return f"{format_value(float(v))} {label}".rstrip()
+    text = format_value(v) if decimals is None else f"{v:.{decimals}f}"
+    return f"{text} {label}".rstrip()
 
 
 class Worded(str):
@@ -54,12 +68,13 @@ class Worded(str):
     quantities: dict
 
     def in_units(self, units: UnitSystem) -> str:
-        return _fill(self.template, self.quantities, units)
+        # the message reads in SI as it was made (a name quoting "1.3 mm" keeps its own figures there)
+        return str(self) if units.key == SI.key else _fill(self.template, self.quantities, units)
 
 
 def _fill(template, quantities, units):
     return template.format(**{k: v.in_units(units) if isinstance(v, Worded) else v if isinstance(v, str)
-                              else format_quantity(v[0], v[1], units) for k, v in quantities.items()})
+                              else format_quantity(*v[:2], units, *v[2:]) for k, v in quantities.items()})
 
 
 def worded(template: str, **quantities) -> Worded:
@@ -67,7 +82,8 @@ def worded(template: str, **quantities) -> Worded:
 
     ``quantity`` is a key of the unit systems (``"length"``, ``"small_length"``,
     ``"velocity"``, ``"shear"``, ``"flow"``...). Each value is written to three
-    significant figures with its unit label. A ``name="text"`` is put in as
+    significant figures with its unit label, or to a number of decimals given
+    as a third item, ``(SI value, quantity, decimals)``. A ``name="text"`` is put in as
     it is (the same in every unit system), so that quoted sources need no
     escaping; other braces must be doubled, as in :meth:`str.format`.
 
@@ -80,7 +96,7 @@ def worded(template: str, **quantities) -> Worded:
     >>> worded("from {a}: {w}", a=(365.76, "station"), w=w).in_units(US)
     'from 12+00.00: velocity 0.984 ft/s is below 1.97 ft/s'
     """
-    quantities = {k: v if isinstance(v, str) else (float(v[0]), v[1]) for k, v in quantities.items()}
+    quantities = {k: v if isinstance(v, str) else (float(v[0]), *v[1:]) for k, v in quantities.items()}
     out = Worded(_fill(template, quantities, SI))
     out.template, out.quantities = template, quantities
     return out
@@ -89,3 +105,35 @@ def worded(template: str, **quantities) -> Worded:
 def in_units(message, units: UnitSystem) -> str:
     """``message`` restated in ``units`` where it was made by :func:`worded`; any other text as it is."""
     return message.in_units(units) if isinstance(message, Worded) else str(message)
+
+
+#: A size quoted in millimetres in a name: an optional "about ", a number, and mm (not part of a longer word).
+_SIZE_MM = re.compile(r"(?P<about>about )?(?P<value>\d+(?:\.\d+)?) ?mm\b")
+
+
+def worded_sizes(text: str) -> str:
+    """``text`` (a catalogue lining's name) with each size it quotes in millimetres as a quantity, so that
+    :func:`in_units` restates it: a rough size ("about 150 mm tall") to whole units, any other to three
+    significant figures. It reads in SI as written; a text quoting no size comes back as it is.
+
+    >>> from hydraulics.units import US
+    >>> in_units(worded_sizes("Grass, sod-forming, good stand, about 150 mm tall"), US)
+    'Grass, sod-forming, good stand, about 6 in tall'
+    >>> in_units(worded_sizes("Bare soil, non-cohesive, fine (D75 < 1.3 mm)"), US)
+    'Bare soil, non-cohesive, fine (D75 < 0.0512 in)'
+    >>> in_units(worded_sizes("Bare soil, non-cohesive, fine (D75 < 1.3 mm)"), SI)
+    'Bare soil, non-cohesive, fine (D75 < 1.3 mm)'
+    """
+    if not _SIZE_MM.search(text):
+        return text
+    quantities, pieces, at = {}, [], 0
+    for k, m in enumerate(_SIZE_MM.finditer(text)):
+        pieces.append(text[at:m.start()].replace("{", "{{").replace("}", "}}"))
+        size = (float(m["value"]) / 1000.0, "small_length") + ((0,) if m["about"] else ())
+        quantities[f"s{k}"] = size
+        pieces.append(("about " if m["about"] else "") + f"{{s{k}}}")
+        at = m.end()
+    pieces.append(text[at:].replace("{", "{{").replace("}", "}}"))
+    out = Worded(text)
+    out.template, out.quantities = "".join(pieces), quantities
+    return out

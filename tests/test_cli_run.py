@@ -109,3 +109,19 @@ def test_a_bad_run_names_the_run_and_the_item(capsys, tmp_path):
     assert main(["run", str(path)]) == 2
     err = capsys.readouterr().err
     assert 'runs[0] "North verge ditch": candidates[1].unit_cost: is missing for Rock riprap' in err
+
+
+@pytest.mark.parametrize("units, height, other", [("si", "about 150 mm tall", " in tall"),
+                                                   ("us", "about 6 in tall", " mm tall")])
+def test_the_run_warnings_name_the_grass_in_the_units_asked_for(capsys, units, height, other):
+    # The demo's grass is "about 150 mm tall" in the shipped catalogue; 150 mm / 25.4 mm per inch = 5.91 in,
+    # a rough size to whole inches: 6 in (1 in = 25.4 mm exactly, NIST Special Publication 811, 2008 ed.,
+    # Appendix B.8). The warnings quote it in the run's units, as the schedule names the lining.
+    status, out, _ = run_cli(capsys, "--units", units)
+    assert status == 0
+    warnings = out.split("\nWarnings\n", 1)[1].split("\n\n", 1)[0]
+    grass = [line for line in warnings.splitlines() if "Grass" in line]
+    assert grass and all(height in line for line in grass)
+    assert other not in out
+    data = json.loads(run_cli(capsys, "--json", "--units", units)[1])
+    assert any(height in w for w in data["runs"][0]["warnings"]) and not any(other in w for w in data["runs"][0]["warnings"])

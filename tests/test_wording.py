@@ -46,3 +46,20 @@ def test_pipe_capacity_warning_follows_the_units(units, unit):
     res = hy.analyse(pipe, 1.03 * q_full, 0.01, 0.013)
     text = [in_units(w, units) for w in res.warnings if "full-flow capacity" in w]
     assert len(text) == 1 and f" {unit}): " in text[0]
+
+
+def test_sizes_quoted_in_a_lining_name_follow_the_units():
+    # 150 mm / 25.4 mm per inch = 5.91 in, a rough size to whole inches: 6 in; 1.3 mm = 0.0512 in
+    # (1 in = 25.4 mm exactly, NIST Special Publication 811, 2008 ed., Appendix B.8).
+    from hydraulics.wording import worded_sizes
+    grass = worded_sizes("Grass, sod-forming, good stand, about 150 mm tall")
+    assert grass == "Grass, sod-forming, good stand, about 150 mm tall"       # reads in SI as written
+    assert in_units(grass, SI) == "Grass, sod-forming, good stand, about 150 mm tall"
+    assert in_units(grass, US) == "Grass, sod-forming, good stand, about 6 in tall"
+    soil = worded_sizes("Bare soil (D75 < 1.3 mm)")
+    assert in_units(soil, SI) == "Bare soil (D75 < 1.3 mm)" and in_units(soil, US) == "Bare soil (D75 < 0.0512 in)"
+    assert worded_sizes("Concrete") == "Concrete" and not isinstance(worded_sizes("Concrete"), Worded)
+    # nested in a message, restated with the rest of it
+    w = worded("at {s} ({lining}): depth {d}", s=(15.0, "station"), lining=grass, d=(0.1524, "length"))
+    assert str(w) == "at 0+015.00 (Grass, sod-forming, good stand, about 150 mm tall): depth 0.152 m"
+    assert in_units(w, US) == "at 0+49.21 (Grass, sod-forming, good stand, about 6 in tall): depth 0.500 ft"
