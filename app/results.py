@@ -180,7 +180,6 @@ RUN_TABLE_FIELDS = {f.key: f for f in (
     ResultField("duration", "Duration", "duration", 0),
     ResultField("intensity", "Intensity", "intensity", 2),
     ResultField("return_period", "Return period", "", 0),
-    ResultField("d50", "D50", "small_length", 0),
     ResultField("unit_cost", "Unit cost", "", 2),
     ResultField("coefficient", "Coefficient", "", 4),
 )}

@@ -27,7 +27,7 @@ from hydraulics.units import UnitSystem
 from hydraulics.wording import format_station, in_units, worded
 
 from .project import Project, Run
-from .lining_names import name_in_units
+from .lining_names import name_in_units, stone_size_text
 from .results import RUN_STATION_FIELDS, RUN_TABLE_FIELDS, convert, money_text, quantity_text, rounded
 
 __all__ = ["RunDesign", "SubAreaBasis", "sub_area_basis", "build_run", "design_run", "run_label", "section_dimensions",
@@ -317,8 +317,8 @@ class RunDesign:
         out = []
         for k, (s, q) in enumerate(zip(self.schedule_values(units), self.result.quantities), start=1):
             lo, hi = sorted((q.start, q.end))
-            lining = s["lining_name"] + ("" if s["d50"] is None else f", D50 {rounded(s['d50'], F['d50'])} "
-                                                                      f"{units.label('small_length')}")
+            cand = self.result.run.candidates[q.choice]
+            lining = s["lining_name"] + ("" if cand.d50 is None else f", D50 {stone_size_text(cand.d50, units)}")
             out.append({"number": str(k), "from_station": format_station(lo, units),
                         "to_station": format_station(hi, units), "lining": lining, "key": s["lining"],
                         "length": rounded(s["length"], F["length"]),
@@ -363,11 +363,10 @@ class RunDesign:
             basis = "surface" if c.lining.unit_cost_basis == "area" else "volume"
             price = c.price
             cost = ("no price" if price is None else
-                    f"$ {rounded(price / float(units.from_si(basis, 1.0)), F['unit_cost'])} per {units.label(basis)}"
+                    f"{money_text(price / float(units.from_si(basis, 1.0)), F['unit_cost'].digits)} per {units.label(basis)}"
                     + (" (this run's)" if c.unit_cost is not None else " (catalogue's)"))
             out.append({"lining": c.lining.name, "key": c.lining.key,
-                        "d50": "" if c.d50 is None else f"{rounded(convert(c.d50, 'small_length', units), F['d50'])} "
-                                                        f"{units.label('small_length')}",
+                        "d50": "" if c.d50 is None else stone_size_text(c.d50, units),
                         "unit_cost": cost})
         return out
 

@@ -107,7 +107,23 @@ def test_schedule_linings_and_total_cost(design, si_sheet):
     # the stretches' printed costs (each to the dollar) add up to the printed total within their rounding
     costs = [float(r["cost"].replace("$", "").replace(",", "")) for r in rows]
     assert abs(sum(costs) - round(total)) <= 0.5 * len(costs) + 0.5
-    assert "Rock riprap, D50 150 mm" in schedule and "stone mass: 40.3 t" in schedule
+    # the stone size to a tenth, as the channels' results and lining names give it (issue 19, one rounding rule)
+    assert "Rock riprap, D50 150.0 mm" in schedule and "stone mass: 40.3 t" in schedule
+
+
+def test_stone_size_of_the_run_rounded_as_the_channels(design, us_sheet, capsys):
+    # 0.15 m = 150.0 mm = 5.9 in (150 / 25.4 = 5.906; 1 in = 25.4 mm exactly, NIST Special Publication 811,
+    # 2008 ed., Appendix B.8): the schedule, the candidate table and `ditchwright run` to a tenth, as a channel.
+    us = hu.system("us")
+    riprap = next(r for r in design.schedule_rows(us) if r["key"] == "riprap")
+    assert riprap["lining"] == "Rock riprap, D50 5.9 in"
+    assert next(c for c in design.candidate_rows(us) if c["key"] == "riprap")["d50"] == "5.9 in"
+    assert next(c for c in design.candidate_rows(hu.system("si")) if c["key"] == "riprap")["d50"] == "150.0 mm"
+    text = _flat(us_sheet[1])
+    assert "Rock riprap, D50 5.9 in" in text and "D50 6 in" not in text
+    assert main(["run", str(DEMO_FILE), "--run", RUN, "--units", "us"]) == 0
+    out = capsys.readouterr().out
+    assert "Rock riprap, D50 5.9 in" in out and "D50 6 in" not in out
 
 
 def test_scale_statement_and_drawing_at_that_scale(design, si_sheet, us_sheet):
