@@ -19,6 +19,7 @@ from hydraulics.units import UnitSystem
 from hydraulics.wording import format_station
 
 from .run_design import RunDesign
+from .run_summary import TROUBLE, station_states
 
 __all__ = ["Polyline", "Band", "Marker", "GradeLabel", "JumpMark", "ProfileModel", "profile_model", "station_step"]
 
@@ -34,8 +35,9 @@ class Polyline:
 
 @dataclass(frozen=True)
 class Band:
-    """A station range with a label: a lining stretch (status "stretch") or a trouble spot ("overtopped",
-    "not stable", "too shallow", "not checked", "not computed": the water surface could not be computed)."""
+    """A station range with a label: a lining stretch (status "stretch") or a trouble spot (a key of
+    :data:`app.run_summary.TROUBLE`: "not stable", "overtopped", "too shallow", "not computed": the water surface
+    could not be computed, "not checked")."""
 
     start: float
     end: float
@@ -147,12 +149,9 @@ def profile_model(design: RunDesign, units: UnitSystem) -> ProfileModel:
     for q in res.quantities:
         a, b = sorted((float(L(q.start)), float(L(q.end))))
         model.stretches.append(Band(a, b, q.lining_name, "stretch"))
-    for status, flag in (("overtopped", lambda p: bool(ws.overtopped[p.index])),
-                         ("not stable", lambda p: p.failing),
-                         ("too shallow", lambda p: ws.fits[p.index] is False and not ws.overtopped[p.index]),
-                         ("not computed", lambda p: ws.profile_type[p.index] == "not computed"),
-                         ("not checked", lambda p: p.not_checked is not None and p.flow > 0)):
-        for a, b in _spans([flag(p) for p in pts], stations):
+    states = station_states(design)   # the one answer of the station table, the run sheet and the run command
+    for status in TROUBLE:
+        for a, b in _spans([status in st.trouble for st in states], stations):
             model.trouble.append(Band(a, b, status, status))
     for j in ws.jumps:
         a, b = float(L(j.station)), float(L(j.end_station))

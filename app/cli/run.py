@@ -123,13 +123,9 @@ def _text(design, units) -> str:
     cells = [[row[k] if k != "slope" else f"{float(row[k]) * 100:.2f} %" for k, _ in TEXT_COLUMNS] for row in rows]
     widths = [max(len(h), *(len(c[i]) for c in cells)) for i, h in enumerate(heads)]
     lines += ["", "Stations", "  " + "  ".join(h.rjust(w) for h, w in zip(heads, widths))]
-    ws = design.surface
-    for c, p in zip(cells, res.points):
-        fits, over = ws.fits[p.index], bool(ws.overtopped[p.index])
-        mark = "  <- not stable" if p.failing else ("  <- overtopped" if over else
-                                                     "  <- too shallow" if fits is False else "")
-        if p.not_checked:
-            mark = f"  <- {p.not_checked}"
+    for c, st in zip(cells, summary.states):   # what is wrong at each point, as the window and the sheet say it
+        words = st.trouble_words() or ([st.why] if st.why else [])
+        mark = f"  <- {', '.join(words)}" if words else ""
         lines.append("  " + "  ".join(x.rjust(w) for x, w in zip(c, widths)) + mark)
     lines.append("  (Depth: water depth from the water-surface profile, used for the fit of the ditch; the shear "
                  "check uses normal depth, HEC-15's design depth)")

@@ -53,7 +53,7 @@ STATION_COLUMNS = ("station", "check", "flow", "slope", "lining", "normal_depth"
                    "permissible_shear", "safety_factor", "stable", "freeboard", "ditch_depth", "fits", "overtopped",
                    "invert", "ca", "tc", "intensity",
                    "manning_n", "required_d50", "dimensions")
-#: The background of a station's row by its verdict (app.run_summary.station_verdict; the words are the vocabulary's).
+#: The background of a station's row by its verdict (app.run_summary.station_states; the words are the vocabulary's).
 ROW_COLOURS = {Verdict.UNSTABLE: "#fbdcda", Verdict.TOO_SHALLOW: "#fbe3cc", Verdict.NOT_CHECKED: "#fff6e0",
                Verdict.STABLE: None}
 GREY = QColor("#a3a9ae")

@@ -56,7 +56,8 @@ STATION_KEY = ("\u03a3 C A: sum of runoff coefficient times area above the point
                "at normal depth, the depth of the shear check; "
                "\u03c4: design shear on the bed and the side slopes (bends included); \u03c4p: permissible shear "
                "of the lining; SF: safety factor \u03c4p / \u03c4 of the governing place; freeboard and ditch depth "
-               "as built. Status: each point passes, or says in words why not.")
+               "as built. Status: the verdict on each point (STABLE, NOT STABLE, TOO SHALLOW, NOT CHECKED) and what "
+               "else is wrong there.")
 
 
 @dataclass
@@ -82,7 +83,7 @@ class RunSheet:
     rainfall: dict
     station_heads: list              # [(heading, unit)] per column of STATION_COLUMNS
     stations: list                   # [[cell text per column]] per design point
-    status: list                     # (words, trouble: bool) per design point
+    status: list                     # (words, trouble: bool) per design point (app.run_summary.StationState)
     warnings: list
     notes: list
     not_verified: list
@@ -98,28 +99,6 @@ class RunSheet:
 
     subject_caption = "Run"
     fingerprint_what = "of the run, its rainfall and linings"
-
-
-def _status(row: dict, flowing: bool) -> tuple[str, bool]:
-    """A design point's status in words, and whether it is a trouble spot (from its station row; ``flowing``: flow
-    has reached the point, as the profile model marks a point not checked)."""
-    if row["not_checked"]:
-        return row["not_checked"], flowing
-    words = []
-    if row["stable"] == "no":
-        words.append("NOT STABLE")
-    if row["overtopped"] == "yes":
-        words.append("OVERTOPPED")
-    elif row["fits"] == "no":
-        words.append("TOO SHALLOW")
-    if row["profile_type"] == "not computed":
-        words.append("water surface not computed")
-    trouble = bool(words)
-    if not words:
-        words.append("passes")
-    if row["partial_area"] == "True":
-        words.append("partial area governs")
-    return ", ".join(words), trouble
 
 
 def station_heads(units: hu.UnitSystem) -> list:
@@ -145,8 +124,8 @@ def run_sheet(project, run, catalogue: Catalogue | None = None, design: RunDesig
         design = design_run(project, run, catalogue)
     rows = design.station_rows(units)
     stations = [[row[key] for key, _, _ in STATION_COLUMNS] for row in rows]
-    status = [_status(row, p.flow > 0) for row, p in zip(rows, design.result.points)]
     summary = run_summary(design, units)
+    status = [(st.status_words(), bool(st.trouble)) for st in summary.states]
     model = profile_model(design, units)
     first, last = rows[0]["station"], rows[-1]["station"]
     return RunSheet(

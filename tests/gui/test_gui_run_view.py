@@ -5,6 +5,7 @@ The numbers checked come from the Qt-free layer (app.run_design, app.run_drawing
 shows must be exactly what that layer gives, which is checked against published examples in tests/test_run_*.
 """
 
+import copy
 import re
 
 import numpy as np
@@ -634,3 +635,58 @@ def test_station_labels_are_thinned_to_the_room_of_the_axis():
     assert thinned(ticks, 300, 6.3) == ticks[::2]
     assert thinned(ticks, 150, 6.3) == ticks[::4]
     assert thinned([], 100, 6.3) == []
+
+
+# -- one verdict per station -------------------------------------------------------------------------------
+def _grass_only(run):
+    """Invented: the demo run with grass as its only candidate, which cannot hold the 3 % stretch."""
+    run.candidates = [c for c in run.candidates if c.key.startswith("grass")]
+
+
+def _backwater(run):
+    """Invented: a culvert headwater 0.3 m over the ditch top at the outfall (too shallow, then overtopped)."""
+    run.outfall.control, run.outfall.water_level = "level", 44.56 + 1.3
+
+
+@pytest.mark.parametrize("change, expected", [(None, set()), (_grass_only, {"UNSTABLE"}),
+                                              (_backwater, {"TOO_SHALLOW"})])
+def test_each_station_has_one_verdict_in_the_window_the_sheet_and_the_profile(demo_window, qtbot, change, expected):
+    """The station table's word and colour, the run sheet's status and the profile's trouble bands come from the one
+    state of each design point (app.run_summary.station_states). The demo run (invented) passes everywhere; with
+    grass alone, or a headwater over the banks, stations fail and each front end marks the same ones."""
+    from app.gui.run_view import ROW_COLOURS
+    from app.run_summary import run_summary
+    from app.sheet.run_content import run_sheet
+    w = demo_window
+    view = shown(w, qtbot)
+    project = w.doc.project
+    saved = copy.deepcopy(project.runs[0])
+    if change is not None:
+        change(project.runs[0])
+    try:
+        view.compute()
+        settle(view, qtbot)
+        qtbot.waitUntil(lambda: view.design is not None and view.design.run.candidates == project.runs[0].candidates
+                        and view.design.run.outfall.control == project.runs[0].outfall.control, timeout=WAIT)
+        design = view.design
+        units = w.doc.units
+        states = run_summary(design, units).states
+        sheet = run_sheet(project, project.runs[0], w.doc.context.catalogue, design=design)
+        model = profile_model(design, units)
+        stations = [float(units.from_si("length", p.station)) for p in design.result.points]
+        assert len(states) == view.model.rowCount() == len(sheet.status) == len(stations)
+        for row, (st, (words, trouble), x) in enumerate(zip(states, sheet.status, stations)):
+            assert cell(view, row, "check") == st.verdict.words
+            brush = view.model.index(row, 0).data(Qt.ItemDataRole.BackgroundRole)
+            colour = ROW_COLOURS[st.verdict]
+            assert (brush is None and colour is None) or brush.color() == QColor(colour)
+            assert words.startswith(st.verdict.heading) and trouble == bool(st.trouble)
+            bands = {b.status for b in model.trouble if b.start - 1e-9 <= x <= b.end + 1e-9}
+            assert bands == set(st.trouble)
+            assert (st.verdict.status == "fail") == bool(bands & {"not stable", "overtopped", "too shallow"})
+        failing = {st.verdict.name for st in states if st.verdict.status == "fail"}
+        assert failing == expected
+    finally:
+        project.runs[0] = saved
+        view.compute()
+        settle(view, qtbot)
