@@ -70,12 +70,27 @@ PANEL_FIELDS = (
 )
 
 
+#: Values of a channel's design that the results panel does not list but the sheet and ``calc`` print beside
+#: another: the bend's factor Kb (to thousandths, as the core's own check words it), the bottom width that
+#: ``calc --find bottom-width`` finds (as a depth), and the time of concentration of the rational method (the
+#: window's form and the sheet). A superelevation is worded as a sentence's quantity instead
+#: (three significant figures, :func:`hydraulics.wording.format_quantity`), so that a few millimetres keep their size.
+EXTRA_FIELDS = {f.key: f for f in (
+    ResultField("bend_factor", "Bend factor Kb", "", 3),
+    ResultField("bottom_width", "Bottom width found", "length", 3),
+    ResultField("time_of_concentration", "Time of concentration", "duration", 1),   # as the run's station table
+)}
+
+
 def panel_field(key: str) -> ResultField:
-    """The one definition of a value of :data:`PANEL_FIELDS` (KeyError names the keys there are)."""
+    """The one definition of a value of a channel's design: of :data:`PANEL_FIELDS`, else of :data:`EXTRA_FIELDS`
+    (KeyError names the keys there are)."""
     for f in PANEL_FIELDS:
         if f.key == key:
             return f
-    raise KeyError(f"no result field {key!r}; there are: {', '.join(f.key for f in PANEL_FIELDS)}")
+    if key in EXTRA_FIELDS:
+        return EXTRA_FIELDS[key]
+    raise KeyError(f"no result field {key!r}; there are: {', '.join([f.key for f in PANEL_FIELDS] + list(EXTRA_FIELDS))}")
 
 
 #: What a column of an inventory is called in a table, in words (the file's own name is the column's key).
@@ -158,6 +173,13 @@ RUN_STATION_FIELDS = {f.key: f for f in (
     ResultField("overtopped", "Overtopped", "", 0),
     ResultField("required_d50", "Smallest stable D50", "small_length", 1),
 )}
+
+
+def grade_text(ratio: float, decimal_mark: str = ".") -> str:
+    """A grade as a percentage to the precision of the station table's grade (a ratio to 4 decimals, so per cent to
+    2): 0.006 -> '0.60 %'."""
+    digits = RUN_STATION_FIELDS["slope"].digits - 2
+    return marked(f"{100 * float(ratio):.{digits}f}", decimal_mark) + " %"
 
 
 def table_field(key: str) -> ResultField | None:

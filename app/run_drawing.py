@@ -18,6 +18,7 @@ from hydraulics.ditch_run import ranges_of
 from hydraulics.units import UnitSystem
 from hydraulics.wording import format_station
 
+from .results import grade_text
 from .run_design import RunDesign
 from .run_summary import TROUBLE, station_states
 
@@ -171,7 +172,7 @@ def profile_model(design: RunDesign, units: UnitSystem) -> ProfileModel:
         mid = 0.5 * (s0 + s1)
         model.grades.append(GradeLabel(float(L(mid)), float(L(np.interp(0.5 * (lay.profile_x[j] + lay.profile_x[j + 1]),
                                                                        lay.profile_x, lay.profile_z))),
-                                       f"{100 * g:.2f} %", bool(g >= 0)))
+                                       grade_text(g), bool(g >= 0)))
     step = station_step(model.last_station - model.first_station, units)
     k0 = math.ceil(model.first_station / step - 1e-9)
     k1 = math.floor(model.last_station / step + 1e-9)

@@ -96,3 +96,20 @@ def test_real_process_exit_codes():
     nosol = subprocess.run(cmd + ["calc", "--shape", "circle", "--diameter", "0.5", "--flow", "30", "--slope", "0.001",
                                   "--n", "0.013"], capture_output=True, text=True)
     assert nosol.returncode == 3 and "Traceback" not in nosol.stderr
+
+
+def test_bend_terms_read_as_the_sheet_and_the_freeboard_rule_word_them(capsys):
+    """Invented channel: riprap D50 0.15 m in a bend of radius 10 m. The superelevation is a quantity of the
+    freeboard rule's sentence (three significant figures, so that a few centimetres keep their size) and Kb is given
+    to thousandths, as the core's lining check and the sheet write it (HEC-15 Eq. 3.5, not verified)."""
+    import re
+    assert main(["calc", "--shape", "trapezoid", "--bottom-width", "1", "--side-slope", "3", "--flow", "1", "--slope",
+                 "0.01", "--lining", "riprap:0.15", "--bend-radius", "10", "--units", "si"]) == 0
+    out = capsys.readouterr().out
+    rule = re.search(r"plus ([0-9.]+ m) superelevation", out).group(1)
+    assert re.search(r"Superelevation in the bend +" + re.escape(rule) + r"\n", out)
+    kb = re.search(r"\(Kb = ([0-9.]+)\)", out).group(1)
+    assert len(kb.split(".")[1]) == 3
+    data = run_json(capsys, ["calc", "--shape", "trapezoid", "--bottom-width", "1", "--side-slope", "3", "--flow", "1",
+                             "--slope", "0.01", "--lining", "riprap:0.15", "--bend-radius", "10", "--units", "si"])
+    assert float(kb) == pytest.approx(data["stability"]["bend_factor"], abs=5e-4)

@@ -7,9 +7,9 @@ from hydraulics import provenance
 from hydraulics import units as hu
 from hydraulics.errors import InputError
 from hydraulics.stability import check_lining
-from hydraulics.wording import in_units
+from hydraulics.wording import format_quantity, in_units
 
-from ..results import CHANNEL_FIELDS, convert, format_value, panel_field, rounded
+from ..results import CHANNEL_FIELDS, EXTRA_FIELDS, convert, format_value, panel_field, rounded
 from ..lining_names import STONE_SIZE, name_in_units
 from ..verdicts import Verdict, verdict_of, with_tokens
 from . import COMMAND_HELP
@@ -113,7 +113,6 @@ def lining_json(stab, units) -> dict:
 def stability_rows(stab, units) -> list:
     """(label, value) rows of a lining check, in the user's units, rounded as the window's results panel and the
     sheet round them (app.results.PANEL_FIELDS)."""
-    L = lambda v: f"{units.from_si('length', v):.3f} {units.label('length')}"  # noqa: E731
     # stone sizes and layer thicknesses in mm or inches, to a tenth, as the window's results panel and the sheet
     stone = lambda v: format_value(v, STONE_SIZE, units)  # noqa: E731
     shown = lambda v, key: format_value(v, panel_field(key), units)  # noqa: E731
@@ -127,7 +126,7 @@ def stability_rows(stab, units) -> list:
     if stab.side_shear is not None:
         rows.append(("Side-slope shear (K1)", T(stab.side_shear)))
     if stab.bend_shear is not None:
-        rows.append(("Bend shear (Kb)", f"{T(stab.bend_shear)} (Kb = {stab.bend_factor:.2f})"))
+        rows.append(("Bend shear (Kb)", f"{T(stab.bend_shear)} (Kb = {rounded(stab.bend_factor, EXTRA_FIELDS['bend_factor'])})"))
         rows.append(("Protection below the bend", shown(stab.bend_protection_length, "bend_protection_length")))
     if stab.permissible_shear is not None:
         rows.append(("Permissible shear", T(stab.permissible_shear)))
@@ -141,7 +140,8 @@ def stability_rows(stab, units) -> list:
     if stab.layer_thickness is not None:
         rows.append(("Layer thickness", stone(stab.layer_thickness)))
     if stab.superelevation is not None:
-        rows.append(("Superelevation in the bend", L(stab.superelevation)))
+        # to three figures, as the sheet words it: a superelevation of a few millimetres keeps its size
+        rows.append(("Superelevation in the bend", format_quantity(stab.superelevation, "length", units)))
     rows += [("Freeboard", shown(stab.freeboard, "freeboard")),
              ("Total ditch depth", shown(stab.total_depth, "total_depth")),
              ("Top width at top of ditch", shown(stab.top_width_at_top, "top_width_at_top"))]
@@ -171,7 +171,8 @@ def run(args) -> int:
         return 0
     rows = []
     if found is not None:
-        rows.append(("Bottom width found", f"{units.from_si('length', found):.3f} {units.label('length')}"))
+        field = EXTRA_FIELDS["bottom_width"]
+        rows.append((field.label, format_value(found, field, units)))
     rows += [(f.label, format_value(getattr(result, f.key), f, units)) for f in CHANNEL_FIELDS]
     print(f"Uniform flow in a {section.kind}, {args.flow:g} {units.label('flow')} "
           f"on {args.slope:g} {units.label('slope')}:")

@@ -98,12 +98,13 @@ def _csv_text(designs, units) -> str:
 
 
 def _text(design, units) -> str:
+    from ..results import RUN_TABLE_FIELDS, format_value, grade_text
     from ..run_summary import run_summary
 
     summary = run_summary(design, units)
     res = design.result
     run = design.run
-    L = lambda v: f"{float(units.from_si('length', v)):.2f} {units.label('length')}"  # noqa: E731
+    L = lambda v: format_value(v, RUN_TABLE_FIELDS["length"], units)  # noqa: E731
     lines = [f'Run "{run.name}": {L(res.layout.length)} from {format_station(res.layout.first_station, units)} to '
              f"{format_station(res.layout.last_station, units)}, {run.return_period:g}-year storm, outfall at "
              f"{format_station(run.outfall.station, units)}{f' ({run.outfall.kind})' if run.outfall.kind else ''}",
@@ -120,7 +121,7 @@ def _text(design, units) -> str:
         q = RUN_STATION_FIELDS[key].quantity
         unit = "" if key == "station" or q in ("", "slope") else f" [{units.label(q)}]"
         heads.append(head + unit)
-    cells = [[row[k] if k != "slope" else f"{float(row[k]) * 100:.2f} %" for k, _ in TEXT_COLUMNS] for row in rows]
+    cells = [[row[k] if k != "slope" else grade_text(float(row[k])) for k, _ in TEXT_COLUMNS] for row in rows]
     widths = [max(len(h), *(len(c[i]) for c in cells)) for i, h in enumerate(heads)]
     lines += ["", "Stations", "  " + "  ".join(h.rjust(w) for h, w in zip(heads, widths))]
     for c, st in zip(cells, summary.states):   # what is wrong at each point, as the window and the sheet say it

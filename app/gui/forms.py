@@ -22,6 +22,7 @@ from ..editing import section_for_shape, value_at, with_value
 from ..inputs import BEND, CORE_TO_PATH, D50, FLOW, FREEBOARD, MANNING, RATIONAL, SECTION_FIELDS, SLOPE, Input
 from ..lining_names import stone_size_text
 from ..project import LiningChoice
+from ..results import EXTRA_FIELDS, format_value, panel_field, rounded
 from .document import ProjectDocument
 from .fields import (LineEdit, NotesEdit, NumberField, UnclearNumber, format_number, keep_units_whole,
                      number_marks, parse_number, pretty, set_invalid)
@@ -317,7 +318,7 @@ class LiningForm(QWidget):
 
     def show_evaluation(self, ev) -> None:
         if ev.lining is not None:
-            self.n_value.setText(f"{ev.lining.manning_n:.4f}")
+            self.n_value.setText(rounded(ev.lining.manning_n, panel_field("manning_n")))   # as the results panel
             self.n_value.setToolTip(ev.lining.n_source)
             self._show_note(ev.lining.n_source[:1].upper() + ev.lining.n_source[1:] + ".")
         else:
@@ -559,7 +560,8 @@ class InputPanel(QScrollArea):
         """The computed lines of the form, and a mark on the field the core's error names."""
         units = self.doc.units
         if ev.time_of_concentration is not None:
-            self.tc_value.setText(keep_units_whole(f"{ev.time_of_concentration / 60:.1f} min (Kirpich)"))
+            tc = format_value(ev.time_of_concentration, EXTRA_FIELDS["time_of_concentration"], units)
+            self.tc_value.setText(keep_units_whole(f"{tc} (Kirpich)"))
         else:
             self.tc_value.setText("needs the flow-path length and slope")
         if ev.flow is not None:

@@ -34,7 +34,7 @@ from hydraulics import units as hu
 from hydraulics.linings import Catalogue, hec15
 from hydraulics.lining_quantities import LINED_WIDTH_RULE
 from hydraulics.stability import StabilityResult
-from hydraulics.wording import Worded
+from hydraulics.wording import Worded, significant
 
 from .. import __version__
 from ..comparison_table import EMPTY, comparison_table
@@ -42,7 +42,7 @@ from ..context import Context
 from ..verdicts import Verdict, too_shallow_reason
 from ..evaluate import ChannelDesign, design_flow, evaluate_channel, load_default_catalogue
 from ..lining_names import STONE_SIZE, name_in_units
-from ..results import convert, format_value, panel_field, rounded
+from ..results import EXTRA_FIELDS, convert, format_value, panel_field, rounded
 from .fingerprint import fingerprint
 
 #: Customary Manning constant, (1 m / 1 ft)^(1/3) = 1.4859 (Chow 1959, Sec. 5-6).
@@ -96,7 +96,7 @@ def in_units(text: str, units: hu.UnitSystem) -> str:
                 return m.group(0)  # inside the parentheses after a US amount: it is the equivalent
             quantity = _SI_QUANTITY[m.group(2)]
             value = float(m.group(1)) * _SI_FACTOR.get(m.group(2), 1.0)
-            return f"{m.group(0)} ({_sig(units.from_si(quantity, value), FIGURES)} {units.label(quantity)})"
+            return f"{m.group(0)} ({significant(units.from_si(quantity, value), FIGURES)} {units.label(quantity)})"
         text = _SI_AMOUNT.sub(annotate, text)
     return pretty_unit(text)
 
@@ -188,14 +188,14 @@ class Formatter:
 
     def number(self, value_si: float, quantity: str, figures: int = FIGURES) -> str:
         """The value in display units to ``figures`` significant figures."""
-        return _sig(float(self.units.from_si(quantity, value_si)), figures)
+        return significant(float(self.units.from_si(quantity, value_si)), figures)
 
     def __call__(self, value_si: float, quantity: str, figures: int = FIGURES) -> str:
         return f"{self.number(value_si, quantity, figures)} {self.unit(quantity)}"
 
     def shown(self, value: float, quantity: str, figures: int = FIGURES) -> str:
         """A value already in the display units, as :meth:`__call__` writes it (to ``figures`` figures, its unit)."""
-        return f"{_sig(float(value), figures)} {self.unit(quantity)}"
+        return f"{significant(float(value), figures)} {self.unit(quantity)}"
 
     def value(self, value_si: float, key: str) -> str:
         """A value of the design (a key of :data:`app.results.PANEL_FIELDS`) as the window's results panel writes
@@ -219,15 +219,6 @@ class Formatter:
         return pretty_unit(format_value(value_si, STONE_SIZE, self.units))
 
 
-def _sig(x: float, figures: int = 4) -> str:
-    """A number to ``figures`` significant figures, without exponent for ordinary sizes."""
-    x = float(x)
-    if x == 0 or not math.isfinite(x):
-        return f"{x:g}"
-    digits = max(0, figures - 1 - int(math.floor(math.log10(abs(x)))))
-    return f"{x:.{digits}f}"
-
-
 def n_text(n: float) -> str:
     """A Manning's n typed or surveyed, as the inputs and the hand check echo it: four significant figures (the
     n used, a result, is printed by the rule of the results panel)."""
@@ -235,11 +226,11 @@ def n_text(n: float) -> str:
 
 
 def _slope_text(s: float) -> str:
-    return f"{_sig(s, 3)} ({_sig(s * 100, 3)} %)"
+    return f"{significant(s, 3)} ({significant(s * 100, 3)} %)"
 
 
 def _slope_with_unit(s: float, f: Formatter) -> str:
-    return f"{_sig(s, 3)} {f.unit('slope')} ({_sig(s * 100, 3)} %)"
+    return f"{significant(s, 3)} {f.unit('slope')} ({significant(s * 100, 3)} %)"
 
 
 def _sf(value) -> str:
@@ -278,7 +269,7 @@ def flow_items(design: ChannelDesign, f: Formatter) -> list:
                                    f"{basis.runoff_coefficient:.2f}, rainfall intensity i {f(basis.intensity, 'intensity')}, "
                                    f"drainage area A {f(basis.area, 'drainage_area')}")]
     if design.time_of_concentration is not None:
-        items.append(Item("Time of concentration", f"{design.time_of_concentration / 60:.1f} min (Kirpich; L = "
+        items.append(Item("Time of concentration", f"{f.value(design.time_of_concentration, 'time_of_concentration')} (Kirpich; L = "
                                                    f"{f(basis.flow_length, 'length')}, S = "
                                                    f"{_slope_text(basis.flow_path_slope)}); read i for this "
                                                    "duration"))
@@ -355,8 +346,8 @@ def rational_check(basis, flow: float, f: Formatter) -> str:
     a = f.units.from_si("drainage_area", basis.area)
     factor = f.units.unit("intensity").factor * f.units.unit("drainage_area").factor / f.units.unit("flow").factor
     units = f"{f.unit('intensity')} \u00d7 {f.unit('drainage_area')} \u2192 {f.unit('flow')}"
-    return (f"Q = C i A u = {basis.runoff_coefficient:.2f} \u00d7 {_sig(i, 4)} \u00d7 {_sig(a, 4)} \u00d7 {_sig(factor, 5)}"
-            f" = {f.number(flow, 'flow', 4)} {f.unit('flow')} (u = {_sig(factor, 5)} for {units})")
+    return (f"Q = C i A u = {basis.runoff_coefficient:.2f} \u00d7 {significant(i, 4)} \u00d7 {significant(a, 4)} \u00d7 {significant(factor, 5)}"
+            f" = {f.number(flow, 'flow', 4)} {f.unit('flow')} (u = {significant(factor, 5)} for {units})")
 
 
 def hand_check(design: ChannelDesign, f: Formatter) -> list:
@@ -373,55 +364,55 @@ def hand_check(design: ChannelDesign, f: Formatter) -> list:
     n = float(r.manning_n)
     k = K_US if us else 1.0
     lines = [rational_check(basis, flow, f)] if basis.method == "rational" else []
-    lines.append(f"At the normal depth y = {_sig(y, 4)} {L}:")
+    lines.append(f"At the normal depth y = {significant(y, 4)} {L}:")
     if section.side_slopes is not None:
         b = f.units.from_si("length", section.bottom_width)
         z1, z2 = section.side_slopes
         if b == 0:
-            lines.append(f"A = (z1 + z2) y\u00b2 / 2 = ({z1:g} + {z2:g}) \u00d7 {_sig(y, 4)}\u00b2 / 2 = {_sig(area, 5)} {A2}")
-            lines.append(f"P = y (\u221a(1 + z1\u00b2) + \u221a(1 + z2\u00b2)) = {_sig(y, 4)} \u00d7 "
-                         f"(\u221a(1 + {z1:g}\u00b2) + \u221a(1 + {z2:g}\u00b2)) = {_sig(perim, 5)} {L}")
+            lines.append(f"A = (z1 + z2) y\u00b2 / 2 = ({z1:g} + {z2:g}) \u00d7 {significant(y, 4)}\u00b2 / 2 = {significant(area, 5)} {A2}")
+            lines.append(f"P = y (\u221a(1 + z1\u00b2) + \u221a(1 + z2\u00b2)) = {significant(y, 4)} \u00d7 "
+                         f"(\u221a(1 + {z1:g}\u00b2) + \u221a(1 + {z2:g}\u00b2)) = {significant(perim, 5)} {L}")
         elif z1 == z2:
-            lines.append(f"A = (b + z y) y = ({_sig(b, 4)} + {z1:g} \u00d7 {_sig(y, 4)}) \u00d7 {_sig(y, 4)} = {_sig(area, 5)} {A2}")
-            lines.append(f"P = b + 2 y \u221a(1 + z\u00b2) = {_sig(b, 4)} + 2 \u00d7 {_sig(y, 4)} \u00d7 \u221a(1 + {z1:g}\u00b2)"
-                         f" = {_sig(perim, 5)} {L}")
+            lines.append(f"A = (b + z y) y = ({significant(b, 4)} + {z1:g} \u00d7 {significant(y, 4)}) \u00d7 {significant(y, 4)} = {significant(area, 5)} {A2}")
+            lines.append(f"P = b + 2 y \u221a(1 + z\u00b2) = {significant(b, 4)} + 2 \u00d7 {significant(y, 4)} \u00d7 \u221a(1 + {z1:g}\u00b2)"
+                         f" = {significant(perim, 5)} {L}")
         else:
-            lines.append(f"A = (b + (z1 + z2) y / 2) y = ({_sig(b, 4)} + {z1 + z2:g} \u00d7 {_sig(y, 4)} / 2) \u00d7 {_sig(y, 4)}"
-                         f" = {_sig(area, 5)} {A2}")
-            lines.append(f"P = b + y (\u221a(1 + z1\u00b2) + \u221a(1 + z2\u00b2)) = {_sig(b, 4)} + {_sig(y, 4)} \u00d7 "
-                         f"(\u221a(1 + {z1:g}\u00b2) + \u221a(1 + {z2:g}\u00b2)) = {_sig(perim, 5)} {L}")
+            lines.append(f"A = (b + (z1 + z2) y / 2) y = ({significant(b, 4)} + {z1 + z2:g} \u00d7 {significant(y, 4)} / 2) \u00d7 {significant(y, 4)}"
+                         f" = {significant(area, 5)} {A2}")
+            lines.append(f"P = b + y (\u221a(1 + z1\u00b2) + \u221a(1 + z2\u00b2)) = {significant(b, 4)} + {significant(y, 4)} \u00d7 "
+                         f"(\u221a(1 + {z1:g}\u00b2) + \u221a(1 + {z2:g}\u00b2)) = {significant(perim, 5)} {L}")
     else:
-        lines.append(f"A = {_sig(area, 5)} {A2}, P = {_sig(perim, 5)} {L} (section geometry)")
+        lines.append(f"A = {significant(area, 5)} {A2}, P = {significant(perim, 5)} {L} (section geometry)")
     factor = area * radius ** (2 / 3)
     target = q * n / (k * math.sqrt(slope))
     delta = (factor - target) / target * 100
     delta_text = "|\u0394| < 0.001 %" if abs(delta) < 0.0005 else f"\u0394 = {delta:+.3f} %"
     exponent = "ft^(8/3)" if us else "m^(8/3)"
     lines += [
-        f"R = A / P = {_sig(area, 5)} / {_sig(perim, 5)} = {_sig(radius, 4)} {L}",
-        f"A R^(2/3) = {_sig(area, 5)} \u00d7 {_sig(radius, 4)}^(2/3) = {_sig(factor, 5)} {exponent}",
-        f"Q n / (k \u221aS) = {_sig(q, 4)} \u00d7 {n_text(n)} / ({k:.4f} \u00d7 \u221a{slope:g}) = {_sig(target, 5)} {exponent}",
+        f"R = A / P = {significant(area, 5)} / {significant(perim, 5)} = {significant(radius, 4)} {L}",
+        f"A R^(2/3) = {significant(area, 5)} \u00d7 {significant(radius, 4)}^(2/3) = {significant(factor, 5)} {exponent}",
+        f"Q n / (k \u221aS) = {significant(q, 4)} \u00d7 {n_text(n)} / ({k:.4f} \u00d7 \u221a{slope:g}) = {significant(target, 5)} {exponent}",
         f"{delta_text} (k = {k:.4f}{' = (1/0.3048)^(1/3), US units' if us else ', SI'})",
     ]
     v = f.units.from_si("velocity", r.velocity)
     top = f.units.from_si("length", r.top_width)
     g = G_US if us else hy.G
-    lines.append(f"V = Q / A = {_sig(q, 4)} / {_sig(area, 5)} = {_sig(v, 4)} {f.unit('velocity')}")
-    lines.append(f"Fr = V / \u221a(g A / T) = {_sig(v, 4)} / \u221a({_sig(g, 5)} \u00d7 {_sig(area, 5)} / {_sig(top, 4)})"
+    lines.append(f"V = Q / A = {significant(q, 4)} / {significant(area, 5)} = {significant(v, 4)} {f.unit('velocity')}")
+    lines.append(f"Fr = V / \u221a(g A / T) = {significant(v, 4)} / \u221a({significant(g, 5)} \u00d7 {significant(area, 5)} / {significant(top, 4)})"
                  f" = {float(r.froude):.3f}")
     gamma = f.units.from_si("unit_weight", hy.GAMMA_WATER)
     tau_si = float(r.bed_shear) if design.stability is None else design.stability.bed_shear
     tau = f.units.from_si("shear", tau_si)
     T = f.unit("shear")
-    lines.append(f"\u03c4d = \u03b3 d S = {_sig(gamma, 4)} {f.unit('unit_weight')} \u00d7 {_sig(y, 4)} {L} \u00d7 {slope:g}"
-                 f" = {_sig(tau, 4)} {T} (HEC-15 Eq. 3.1)")
+    lines.append(f"\u03c4d = \u03b3 d S = {significant(gamma, 4)} {f.unit('unit_weight')} \u00d7 {significant(y, 4)} {L} \u00d7 {slope:g}"
+                 f" = {significant(tau, 4)} {T} (HEC-15 Eq. 3.1)")
     st = design.stability
     if st is not None:
         gov = st.governing_check()
         if gov is not None and gov.permissible_shear is not None and gov.method != "appendix_d" and gov.design_shear > 0:
             tp = f.units.from_si("shear", gov.permissible_shear)
             td = f.units.from_si("shear", gov.design_shear)
-            lines.append(f"SF = \u03c4p / \u03c4 = {_sig(tp, 4)} / {_sig(td, 4)} = {tp / td:.2f} ({gov.location}, "
+            lines.append(f"SF = \u03c4p / \u03c4 = {significant(tp, 4)} / {significant(td, 4)} = {tp / td:.2f} ({gov.location}, "
                          f"{gov.required_safety_factor:.2f} required)")
     return lines
 
@@ -484,7 +475,7 @@ def _stone_items(st: StabilityResult, f: Formatter) -> list:
                                               f"({', '.join(parts)}{depth}; {method})"))
     parts = []
     if st.reynolds is not None:
-        parts.append(f"particle Reynolds number Re* {_sig(st.reynolds, 3)}: F* {st.shields:.3f}, SF required "
+        parts.append(f"particle Reynolds number Re* {significant(st.reynolds, 3)}: F* {st.shields:.3f}, SF required "
                      f"{_sf(st.required_safety_factor)} ({provenance.cite('table_6_1')})")
     if st.layer_thickness is not None and st.category == "stone":
         parts.append(f"layer thickness t {f.stone(st.layer_thickness)}")
@@ -511,7 +502,7 @@ def _depth_items(design: ChannelDesign, f: Formatter, src: Sources) -> list:
         fb += ", the minimum"
     items = [Item("Freeboard", f"{fb} {src.ref('freeboard', freeboard_rule(design, f))}")]
     if ch.bend_radius is not None and st is not None and st.bend_factor is not None:
-        text = f"Rc {f(ch.bend_radius, 'length')}, Kb {st.bend_factor:.3f}"
+        text = f"Rc {f(ch.bend_radius, 'length')}, Kb {rounded(st.bend_factor, EXTRA_FIELDS['bend_factor'])}"
         if st.bend_protection_length is not None:
             lp_source = src.ref("bend protection", f"Lp = 0.736 R^(7/6) / n (SI), {provenance.cite('bend_length')}")
             text += f"; protect {f.value(st.bend_protection_length, 'bend_protection_length')} downstream {lp_source}"
