@@ -1,5 +1,8 @@
 """Numbers to text on whole arrays: exactly the text of Python's ``"%.{P}g" % x``, many values at a time.
 
+This is the text of the numbers an inventory's results file holds (read back by a spreadsheet or a GIS), not of
+what a person reads on a screen or a sheet, which :mod:`app.results` rounds.
+
 Writing a results file of 100,000 rows means formatting some 700,000
 numbers, and one Python format operation each is most of the time the write
 takes. Here the digits come from numpy arithmetic and tables:

@@ -1,7 +1,19 @@
-"""The result quantities a user reads, with their labels and physical quantity.
+"""The result quantities a user reads, with their labels and physical quantity, and the one rounding rule.
 
 One list serves the command line, the desktop window and the design sheet, so
 a value carries the same name and unit everywhere.
+
+Numbers become text in one home per job:
+
+* here, every value a table, panel or list shows: :func:`rounded` and :func:`format_value` to the decimals of its
+  :class:`ResultField`, :func:`quantity_text` and :func:`money_text` with thousands grouped, :func:`grade_text`;
+* :mod:`hydraulics.wording`, a quantity inside a sentence (warnings, reasons, notes): three significant figures
+  (:func:`hydraulics.wording.significant`), a rough size in a name to whole units, a station to hundredths; the
+  sheet's echoed inputs and hand check use the same function with more figures;
+* ``app.gui.fields.format_number``, the text of an editable field: up to five significant figures in the user's
+  decimal mark, so that what a field shows reads back as the number it holds (not a result's rounding);
+* :mod:`app.numtext`, the numbers of a results file (``%g`` to a given number of significant figures, on whole
+  arrays at once), which a spreadsheet reads back rather than a person.
 """
 
 from __future__ import annotations

@@ -57,6 +57,9 @@ def format_number(value: float, locale: QLocale | None = None) -> str:
 
     The decimal mark is that of ``locale`` (the user's, by default), so that
     what a field shows reads back as the same number; no group separators.
+    This is the text of an editable value (an input, an offered reading), kept
+    near full precision on purpose: results are rounded by the one rule of
+    :mod:`app.results` instead.
     """
     if value == 0:
         return "0"
