@@ -56,8 +56,8 @@ STATION_KEY = ("\u03a3 C A: sum of runoff coefficient times area above the point
                "at normal depth, the depth of the shear check; "
                "\u03c4: design shear on the bed and the side slopes (bends included); \u03c4p: permissible shear "
                "of the lining; SF: safety factor \u03c4p / \u03c4 of the governing place; freeboard and ditch depth "
-               "as built. Status: the verdict on each point (STABLE, NOT STABLE, TOO SHALLOW, NOT CHECKED) and what "
-               "else is wrong there.")
+               "as built. Status: the verdict on each point, as the window's station table gives it, and what else "
+               "is wrong there.")
 
 
 @dataclass
