@@ -18,6 +18,7 @@ from hydraulics.ditch_run import ranges_of
 from hydraulics.units import UnitSystem
 from hydraulics.wording import format_station
 
+from .lining_names import name_in_units
 from .results import grade_text
 from .run_design import RunDesign
 from .run_summary import TROUBLE, station_states
@@ -149,7 +150,7 @@ def profile_model(design: RunDesign, units: UnitSystem) -> ProfileModel:
                          lines=lines)
     for q in res.quantities:
         a, b = sorted((float(L(q.start)), float(L(q.end))))
-        model.stretches.append(Band(a, b, q.lining_name, "stretch"))
+        model.stretches.append(Band(a, b, name_in_units(q.lining_name, units), "stretch"))
     states = station_states(design)   # the one answer of the station table, the run sheet and the run command
     for status in TROUBLE:
         for a, b in _spans([status in st.trouble for st in states], stations):

@@ -69,3 +69,10 @@ def test_bands_grades_inflows_and_ticks(design):
 @pytest.mark.parametrize("length, step", [(700.0, 100.0), (2296.6, 500.0), (10000.0, 2000.0), (35.0, 10.0)])
 def test_station_ticks_are_round(length, step):
     assert station_step(length, SI) == step
+
+
+def test_lining_bands_name_the_grass_in_the_units_of_the_drawing(design):
+    # the shipped grass is "about 150 mm tall": 150 / 25.4 = 5.9, about 6 in to whole inches (1 in = 25.4 mm
+    # exactly, NIST Special Publication 811, 2008 ed., Appendix B.8)
+    labels = [b.label for b in profile_model(design, US).stretches]
+    assert any("about 6 in tall" in t for t in labels) and not any(" mm" in t for t in labels)

@@ -18,6 +18,7 @@ from ezdxf.enums import TextEntityAlignment
 
 from hydraulics.units import UnitSystem
 
+from ..lining_names import name_in_units
 from ..section_geometry import SectionGeometry, design_geometry, offset_polyline
 from .dxf import (
     CHAR_WIDTH,
@@ -50,7 +51,7 @@ def section_notes(design, geo: SectionGeometry, units: UnitSystem, title: str) -
     st = design.stability
     notes = [f"Typical section: {title}", f"Drawn to scale: 1 drawing unit = 1 {L}, horizontal and vertical alike"]
     if st is not None:
-        notes.append(f"Lining: {st.lining_name}"
+        notes.append(f"Lining: {name_in_units(st.lining_name, units)}"
                      + (f", layer {geo.thickness:.2f} {L} thick, drawn to scale" if geo.thickness > 0 else ""))
     else:
         notes.append("Pipe: the inside of its wall" if geo.closed else "No lining chosen")
