@@ -175,3 +175,21 @@ def test_the_model_of_some_elements_keeps_their_sizes_and_lowest_depths():
     np.testing.assert_allclose(StoneRoughness(d50[[1, 3]])._lowest_bathurst_depth(sub)[0], y_all[[1, 3]],
                                rtol=1e-14)
     assert whole.take(slice(None)) is whole
+
+
+@pytest.mark.parametrize("slope", [0.002, 0.02, 0.08])
+def test_n_of_every_region_element_by_element_matches_each_size_alone(slope):
+    """Depths from 0.05 to 10 D50 (held, Bathurst, the ramp and Blodgett), several sizes and sections in one
+    call: the short cut that works out Bathurst's terms only where da/D50 < 1.53 gives each element the n of a
+    model of its size on its own section."""
+    d50 = np.repeat([0.02, 0.15, 0.3], 200)
+    width = np.tile(np.repeat([0.6, 3.0], 100), 3)
+    depth = np.concatenate([np.tile(np.geomspace(0.05 * d, 10 * d, 100), 2) for d in (0.02, 0.15, 0.3)])
+    section = hy.Trapezoid(bottom_width=width, side_slope=np.full(width.size, 2.5))
+    got = StoneRoughness(d50).manning_n(section, depth, slope)
+    want = [StoneRoughness(d).manning_n(hy.Trapezoid(bottom_width=b, side_slope=2.5), y, slope)
+            for d, b, y in zip(d50.tolist(), width.tolist(), depth.tolist())]
+    codes = {StoneRoughness(d).relation(hy.Trapezoid(bottom_width=b, side_slope=2.5), y, slope)
+             for d, b, y in zip(d50.tolist(), width.tolist(), depth.tolist())}
+    assert codes >= {"blodgett", "bathurst", "transition"}
+    np.testing.assert_allclose(got, want, rtol=1e-12)

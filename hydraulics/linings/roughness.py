@@ -179,28 +179,44 @@ class StoneRoughness:
             need = ratio < hec15.BLODGETT_RANGE[0] * SPLIT_BAND
             if self.method == "blodgett" or not need.any():
                 return blod, np.zeros(ratio.shape, int)
-            if ratio.ndim and not need.all() and not section.is_vector and not np.ndim(self.d50):
+            if ratio.ndim and not need.all():
                 n, code = blod.copy(), np.zeros(ratio.shape, int)
-                at_slope = slope[need] if np.ndim(slope) else slope
-                n[need], code[need] = self._regions(section, np.asarray(depth, float)[need], at_slope)
+                if not section.is_vector and not np.ndim(self.d50):
+                    at_slope = slope[need] if np.ndim(slope) else slope
+                    n[need], code[need] = self._regions(section, np.asarray(depth, float)[need], at_slope)
+                    return n, code
+                # element by element (a section or stone size per element): the elements that need them only
+                at = np.flatnonzero(need)
+                pick = lambda v: v[at] if np.shape(v) == ratio.shape else v  # noqa: E731
+                y_lim, lim = self._lowest_bathurst_depth(section) if self.method == "auto" else (None, None)
+                n[at], code[at] = self._bathurst_regions(
+                    *(pick(np.asarray(v, float)) for v in (da, r, top, depth)), pick(np.asarray(slope, float)),
+                    pick(self.d50), pick(self.n_hold), pick(y_lim), None if lim is None else tuple(map(pick, lim)),
+                    blod[at], ratio[at])
                 return n, code
-        with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
-            terms = hec15._bathurst_terms(np.asarray(da, float), self.d50, np.asarray(top, float))
-            p = terms[1]
-            bath = np.asarray(hec15._bathurst_n_manning_terms(terms, np.asarray(da, float), np.asarray(r, float),
-                                                              slope), dtype=float)
         if self.method == "blodgett":
             return blod, np.zeros(ratio.shape, int)
+        y_lim, lim = self._lowest_bathurst_depth(section) if self.method == "auto" else (None, None)
+        return self._bathurst_regions(np.asarray(da, float), np.asarray(r, float), np.asarray(top, float), depth,
+                                      slope, self.d50, self.n_hold, y_lim, lim, blod, ratio)
+
+    def _bathurst_regions(self, da, r, top, depth, slope, d50, n_hold, y_lim, lim, blod, ratio):
+        """:meth:`_regions` where Bathurst's relation may be used, on values of one shape (or scalars): da, R,
+        T, depth, slope, D50 and the held n, the lowest usable Bathurst depth and (da, T, R) there (auto only),
+        Blodgett's n and da/D50."""
+        with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
+            terms = hec15._bathurst_terms(da, d50, top)
+            p = terms[1]
+            bath = np.asarray(hec15._bathurst_n_manning_terms(terms, da, r, slope), dtype=float)
         if self.method == "bathurst":
             return bath, np.ones(ratio.shape, int)
         split = hec15.BLODGETT_RANGE[0]
-        y_lim, lim = self._lowest_bathurst_depth(section)
         below = np.asarray(depth) < y_lim
         bath_ok = ~below & (np.asarray(p) < 1.0) & np.isfinite(bath) & (bath > 0)
         code = np.where(ratio >= split * SPLIT_BAND, 0,
                         np.where(ratio >= split, np.where(bath_ok, 3, 0), np.where(bath_ok, 1, 2)))
         # the ramp and the held value only where they are used (the solver's trial depths rarely need them)
-        ramp = held = self.n_hold
+        ramp = held = n_hold
         with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
             if np.any(code == 3):
                 w = np.log(np.maximum(ratio, split) / split) / np.log(SPLIT_BAND)
@@ -208,8 +224,8 @@ class StoneRoughness:
                               + w * np.log(np.where(code == 3, blod, 1.0)))
             if lim is not None and np.any(code == 2):
                 # Bathurst's n at the lowest depth where it is usable, at this slope: n is continuous there
-                held = np.asarray(hec15._bathurst_n_manning(lim[0], self.d50, lim[1], lim[2], slope), dtype=float)
-                held = np.where(np.isfinite(held) & (held > 0), held, self.n_hold)
+                held = np.asarray(hec15._bathurst_n_manning(lim[0], d50, lim[1], lim[2], slope), dtype=float)
+                held = np.where(np.isfinite(held) & (held > 0), held, n_hold)
         n = np.select([code == 0, code == 1, code == 3], [blod, bath, ramp], held)
         return n, code
 
