@@ -243,7 +243,7 @@ class StoneRoughness:
         def usable(y):
             da, r, top = _average_depth(section, y)
             ratio = np.asarray(da / self.d50, float)
-            _, p, _ = hec15._bathurst_terms(np.asarray(da, float), self.d50, np.asarray(top, float))
+            _, p = hec15._bathurst_exponent(np.asarray(da, float), self.d50, np.asarray(top, float))
             return (ratio > hec15.BATHURST_RANGE[0]) & (np.asarray(p) <= P_LIMIT), ratio
 
         start = 1e-3 * self.d50  # a depth every section holds (a pipe may be smaller than 1 m)
