@@ -129,6 +129,15 @@ class Section:
         """True when any dimension of the section is an array."""
         return any(isinstance(v, np.ndarray) for v in self.to_dict().values())
 
+    def take(self, index) -> "Section":
+        """The section of the elements ``index`` of its 1-D array dimensions (a dimension that is one number
+        stays as it is)."""
+        dims = self.to_dict()
+        kind = dims.pop("shape")
+        if any(isinstance(v, np.ndarray) and v.ndim != 1 for v in dims.values()):
+            raise InputError("section", f"only a {kind} with 1-D array dimensions can be taken apart")
+        return type(self)(**{k: v[index] if isinstance(v, np.ndarray) else v for k, v in dims.items()})
+
     def to_dict(self) -> dict:  # pragma: no cover - abstract
         raise NotImplementedError
 

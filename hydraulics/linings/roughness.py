@@ -148,23 +148,29 @@ class StoneRoughness:
         return f"StoneRoughness(d50={size}, method={self.method!r})"
 
     def take(self, index) -> "StoneRoughness":
-        """The model of the elements ``index`` (itself for one stone size or every element).
+        """The model of the elements ``index`` of a section with 1-D array dimensions (itself where that is
+        every element, or where there is nothing per element to take).
 
-        The lowest usable Bathurst depths found for a section with array dimensions carry over, those of the
-        elements taken, with the section's dimensions at them (they depend on D50 and the section alone).
+        The lowest usable Bathurst depths found for the section carry over, those of the elements taken, with
+        the section's dimensions at them (they depend on D50 and the section alone).
         """
-        size = np.size(self.d50)
-        chosen = np.arange(size)[index]
-        if not np.ndim(self.d50) or (chosen.size == size and np.array_equal(chosen, np.arange(size))):
-            return self
-        part = StoneRoughness(self.d50[chosen], self.method)
         kept = self._limits
-        if kept is not None and kept[1] is not None:
-            kind, dims = kept[1]
-            if all(np.shape(v) in ((), (size,)) for v in dims.values()) and np.shape(kept[2]) == (size,):
-                at = {k: v[chosen] if np.ndim(v) else v for k, v in dims.items()}
-                limits = None if kept[3] is None else tuple(v[chosen] for v in kept[3])
-                part._limits = (None, (kind, at), kept[2][chosen], limits)
+        dims = None if kept is None or kept[1] is None else kept[1][1]
+        if np.ndim(self.d50):
+            size = np.size(self.d50)
+        elif dims is not None and np.ndim(kept[2]) == 1:
+            size = np.size(kept[2])
+        else:
+            return self
+        chosen = np.arange(size)[index]
+        if chosen.size == size and np.array_equal(chosen, np.arange(size)):
+            return self
+        part = StoneRoughness(self.d50[chosen] if np.ndim(self.d50) else self.d50, self.method)
+        if dims is not None and all(np.shape(v) in ((), (size,)) for v in dims.values()):
+            y_lim = kept[2][chosen] if np.shape(kept[2]) == (size,) else kept[2]
+            limits = None if kept[3] is None else tuple(v[chosen] if np.shape(v) == (size,) else v for v in kept[3])
+            at = {k: v[chosen] if np.ndim(v) else v for k, v in dims.items()}
+            part._limits = (None, (kept[1][0], at), y_lim, limits)
         return part
 
     def _regions(self, section, depth, slope):
