@@ -125,9 +125,9 @@ class Section:
         raise NotImplementedError  # pragma: no cover - abstract
 
     def _depth_start(self, log_k):
-        """A start for ln(A R^(2/3)) = log_k with a constant n, where the root is unique: a closer one than
-        :meth:`_depth_guess` where the section has it (a depth-dependent n keeps that guess, from which the
-        solver's steps choose among several roots)."""
+        """A start for ln(A R^(2/3)) = log_k (an array) with a constant n, where the root is unique: a closer
+        one than :meth:`_depth_guess` where the section has it (a depth-dependent n keeps that guess, from which
+        the solver's steps choose among several roots)."""
         return self._depth_guess(log_k)
 
     @property
@@ -245,7 +245,7 @@ class Trapezoid(Section):
     def _depth_start(self, log_k):
         # One section for many flows: y/b read off a table of the section's own conveyance (see _TrapezoidTable).
         b, zs, ps = self.bottom_width, self._zsum, self._psum
-        if not _is_scalar(b, zs) or _is_scalar(log_k) or not b > 0:
+        if not _is_scalar(b, zs) or not b > 0:
             return self._depth_guess(log_k)
         return b * _trapezoid_table(0.5 * zs, ps).depth_ratio(log_k - 8 / 3 * math.log(b))
 

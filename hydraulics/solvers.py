@@ -360,7 +360,7 @@ def solve_normal_depth(section, flow, slope, n=None) -> DepthSolution:
 
     if rough[0] == "constant":
         target = target + log(rough[1])  # ln(Q n / sqrt(S)): ln n folded in once, outside the loop
-        y0 = section._depth_start(target)
+        y0 = section._depth_guess(target) if scalar else section._depth_start(target)
     else:  # a model's n is guessed as 0.03 for the start
         y0 = section._depth_guess(target + math.log(0.03))
     if not scalar and _reusable(y0, np.broadcast_to(0.0, shape)) is None:
