@@ -556,13 +556,12 @@ def check_linings(reaches: Reaches, idx, out: BatchResult, display: hu.UnitSyste
         solved = solve_hydraulics(reaches, rest, rough, out, display)
         notes = _roughness_ranges(lining, rough, reaches, rest, solved, out, display)
         # per size, smallest first, each size's notes before its stability notes (the order of the notes)
-        for d in (np.unique(rest_d50) if lining.category == "stone" else [None]):
-            size = slice(None) if d is None else rest_d50 == d
-            for note in notes.get(d if d is None else float(d), ()):
+        for d in (np.unique(rest_d50).tolist() if lining.category == "stone" else [None]):
+            for note in notes.get(d, ()):
                 if note not in out.messages:
                     out.messages.append(note)
-            assess_stability(lining, reaches, rest[size & solved if d is not None else solved], out, display,
-                             n_given=False)
+            at = solved if d is None else solved & (rest_d50 == d)
+            assess_stability(lining, reaches, rest[at], out, display, n_given=False)
 
 
 def _roughness_ranges(lining, rough, reaches, rows, solved, out, display) -> dict:
