@@ -364,8 +364,11 @@ def _analyse_robust(make_section, reaches, idx, n, failures):
 
 
 def _part(n, index):
-    """The n of some reaches: a per-reach array is indexed, a shared roughness model is not."""
-    return n[index] if isinstance(n, np.ndarray) else n
+    """The n of some reaches: a per-reach array is indexed, a shared roughness model is not (a stone model of
+    one size per reach gives the model of those reaches)."""
+    if isinstance(n, np.ndarray):
+        return n[index]
+    return n.take(index) if hasattr(n, "take") else n
 
 
 def solve_hydraulics(reaches: Reaches, idx, n, out: BatchResult, display: hu.UnitSystem = hu.SI) -> np.ndarray:
@@ -508,9 +511,10 @@ def check_linings(reaches: Reaches, idx, out: BatchResult, display: hu.UnitSyste
     is not assumed, as in ``ditchwright calc``) makes the reach ``invalid``. The hydraulics are solved with
     the n of the row where one is given (it replaces the lining's own
     roughness), else with the lining's roughness from the catalogue: one
-    vectorised solve per lining and stone size (a stone lining's n depends
-    on depth, HEC-15 Section 6.1). Then :func:`assess_stability` gives the
-    verdict, vectorised over the reaches of the group.
+    vectorised solve per lining, a stone lining's reaches of every size in
+    one model with a D50 per reach (its n depends on depth and D50, HEC-15
+    Section 6.1). Then :func:`assess_stability` gives the verdict, vectorised
+    over the reaches of each stone size (the notes in the order of the sizes).
     """
     catalogue = default_catalogue() if catalogue is None else catalogue
     idx = np.asarray(idx, dtype=np.intp)
@@ -542,32 +546,39 @@ def check_linings(reaches: Reaches, idx, out: BatchResult, display: hu.UnitSyste
         solved = solve_hydraulics(reaches, given, reaches.n[given], out, display)
         assess_stability(lining, reaches, given[solved], out, display, n_given=True)
         rest, rest_d50 = rows[~own_n], d50[~own_n]
-        groups = [(None, rest[~(rest_d50 > 0)])] + [(float(d), rest[rest_d50 == d])
-                                                      for d in np.unique(rest_d50[rest_d50 > 0])]
-        for d, group in groups:
-            if not len(group):
-                continue
-            try:
-                rough = lining.roughness(d)
-            except InputError as exc:  # e.g. an entry whose data the user has to fill in
-                _set(out, group, "not-checked", f"{exc}; nothing computed")
-                continue
-            solved = solve_hydraulics(reaches, group, rough, out, display)
-            _roughness_ranges(lining, rough, reaches, group[solved], out, display)
-            assess_stability(lining, reaches, group[solved], out, display, n_given=False)
-
-
-def _roughness_ranges(lining, rough, reaches, rows, out, display):
-    """The roughness model's range warnings for the solved reaches ``rows``, once per lining, into out.messages."""
-    if not hasattr(rough, "check") or not len(rows):
-        return
-    pipe = reaches.kind[rows] == _CIRCLE
-    for make, part in ((_open_section, rows[~pipe]), (_pipe_section, rows[pipe])):
-        if len(part):
-            for text in rough.check(make(reaches, part), out.normal_depth[part], reaches.slope[part]):
-                note = f"lining {lining.key!r}: {in_units(text, display)}"
+        if not len(rest):
+            continue
+        try:  # a stone lining: every size in one model and one solve (each reach's n that of its own size)
+            rough = lining.roughness(rest_d50 if lining.category == "stone" else None)
+        except InputError as exc:  # e.g. an entry whose data the user has to fill in
+            _set(out, rest, "not-checked", f"{exc}; nothing computed")
+            continue
+        solved = solve_hydraulics(reaches, rest, rough, out, display)
+        notes = _roughness_ranges(lining, rough, reaches, rest, solved, out, display)
+        # per size, smallest first, each size's notes before its stability notes (the order of the notes)
+        for d in (np.unique(rest_d50).tolist() if lining.category == "stone" else [None]):
+            for note in notes.get(d, ()):
                 if note not in out.messages:
                     out.messages.append(note)
+            at = solved if d is None else solved & (rest_d50 == d)
+            assess_stability(lining, reaches, rest[at], out, display, n_given=False)
+
+
+def _roughness_ranges(lining, rough, reaches, rows, solved, out, display) -> dict:
+    """The roughness model's range warnings for the reaches ``rows`` where ``solved``, worded for the notes:
+    {stone size: [notes]} for a stone model (open reaches' notes before pipes'), {None: [notes]} for another."""
+    notes = {}
+    if not hasattr(rough, "check") or not solved.any():
+        return notes
+    pipe = reaches.kind[rows] == _CIRCLE
+    for make, part in ((_open_section, solved & ~pipe), (_pipe_section, solved & pipe)):
+        if part.any():
+            model, at = _part(rough, np.flatnonzero(part)), rows[part]
+            args = (make(reaches, at), out.normal_depth[at], reaches.slope[at])
+            each = model.check_each(*args) if hasattr(model, "check_each") else {None: model.check(*args)}
+            for d, texts in each.items():
+                notes.setdefault(d, []).extend(f"lining {lining.key!r}: {in_units(t, display)}" for t in texts)
+    return notes
 
 
 def assess_stability(lining, reaches: Reaches, rows, out: BatchResult, display: hu.UnitSystem = hu.SI, *,

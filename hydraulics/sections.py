@@ -124,10 +124,25 @@ class Section:
         """A starting depth [m] for ln(A R^(2/3)) = log_k (= ln(Q n / sqrt(S)))."""
         raise NotImplementedError  # pragma: no cover - abstract
 
+    def _depth_start(self, log_k):
+        """A start for ln(A R^(2/3)) = log_k (an array) with a constant n, where the root is unique: a closer
+        one than :meth:`_depth_guess` where the section has it (a depth-dependent n keeps that guess, from which
+        the solver's steps choose among several roots)."""
+        return self._depth_guess(log_k)
+
     @property
     def is_vector(self) -> bool:
         """True when any dimension of the section is an array."""
         return any(isinstance(v, np.ndarray) for v in self.to_dict().values())
+
+    def take(self, index) -> "Section":
+        """The section of the elements ``index`` of its 1-D array dimensions (a dimension that is one number
+        stays as it is)."""
+        dims = self.to_dict()
+        kind = dims.pop("shape")
+        if any(isinstance(v, np.ndarray) and v.ndim != 1 for v in dims.values()):
+            raise InputError("section", f"only a {kind} with 1-D array dimensions can be taken apart")
+        return type(self)(**{k: v[index] if isinstance(v, np.ndarray) else v for k, v in dims.items()})
 
     def to_dict(self) -> dict:  # pragma: no cover - abstract
         raise NotImplementedError
@@ -226,6 +241,13 @@ class Trapezoid(Section):
             tri = np.multiply(log_k, 0.375)
             tri += 0.25 * np.log(ps) - 0.625 * (np.log(zs) - math.log(2.0))
             return np.minimum(np.exp(wide), np.exp(tri))
+
+    def _depth_start(self, log_k):
+        # One section for many flows: y/b read off a table of the section's own conveyance (see _TrapezoidTable).
+        b, zs, ps = self.bottom_width, self._zsum, self._psum
+        if not _is_scalar(b, zs) or not b > 0:
+            return self._depth_guess(log_k)
+        return b * _trapezoid_table(0.5 * zs, ps).depth_ratio(log_k - 8 / 3 * math.log(b))
 
     def _critical_guess(self, flow):
         # The smaller of the rectangle (q^2/g)^(1/3) and triangle (2 Q^2 / (g zm^2))^(1/5) depths.
@@ -376,6 +398,54 @@ def _segment_series(theta):
     """theta - sin(theta) by its Taylor series (for small theta, where the subtraction loses digits)."""
     t2 = theta * theta
     return theta * t2 * (1 / 6 - t2 * (1 / 120 - t2 * (1 / 5040 - t2 * (1 / 362880 - t2 / 39916800))))
+
+
+class _TrapezoidTable:
+    """ln(y/b) against F = ln(A^(5/3) P^(-2/3) / b^(8/3)) of one trapezoid, on an even grid of F.
+
+    With eta = y/b, F = 5/3 ln(eta (1 + zm eta)) - 2/3 ln(1 + ps eta) (zm = (z1 + z2)/2, ps = sqrt(1 + z1^2)
+    + sqrt(1 + z2^2)). F rises with eta, nearly linearly in ln eta (slope 5/3 for shallow flow, 8/3 for deep
+    flow, 1 in a rectangle), so ln eta is linear in F to within about 1e-6 between neighbouring entries: a
+    start from which one Newton step mostly finishes. The grid's end segments carry on linearly beyond it (the two
+    straight asymptotes), so every F has a start.
+    """
+
+    SPAN = (-30.0, 30.0)   # ln eta covered
+    SIZE = 16384
+
+    def __init__(self, zm, ps):
+        log_eta = np.linspace(*self.SPAN, 4 * self.SIZE)
+        eta = np.exp(log_eta)
+        f = 5 / 3 * (log_eta + np.log1p(zm * eta)) - 2 / 3 * np.log1p(ps * eta)
+        self.f0, f1 = float(f[0]), float(f[-1])
+        self.step = (f1 - self.f0) / (self.SIZE - 1)
+        table = np.interp(np.linspace(self.f0, f1, self.SIZE), f, log_eta)
+        self.table, self.rise = table[:-1], np.diff(table)
+
+    def depth_ratio(self, f):
+        """y/b at F = ``f`` (array)."""
+        x = np.subtract(f, self.f0)
+        x *= 1.0 / self.step
+        i = x.astype(np.intp)
+        np.clip(i, 0, len(self.table) - 1, out=i)
+        x -= i
+        x *= self.rise[i]
+        x += self.table[i]
+        return np.exp(x, out=x)
+
+
+_TRAPEZOID_TABLES = {}
+
+
+def _trapezoid_table(zm, ps) -> _TrapezoidTable:
+    """The table of a trapezoid's shape (kept for the last few shapes)."""
+    key = (float(zm), float(ps))
+    table = _TRAPEZOID_TABLES.get(key)
+    if table is None:
+        if len(_TRAPEZOID_TABLES) >= 8:
+            _TRAPEZOID_TABLES.pop(next(iter(_TRAPEZOID_TABLES)))
+        table = _TRAPEZOID_TABLES[key] = _TrapezoidTable(*key)
+    return table
 
 
 _CIRCLE_TABLES = {}

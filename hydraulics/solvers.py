@@ -360,7 +360,7 @@ def solve_normal_depth(section, flow, slope, n=None) -> DepthSolution:
 
     if rough[0] == "constant":
         target = target + log(rough[1])  # ln(Q n / sqrt(S)): ln n folded in once, outside the loop
-        y0 = section._depth_guess(target)
+        y0 = section._depth_guess(target) if scalar else section._depth_start(target)
     else:  # a model's n is guessed as 0.03 for the start
         y0 = section._depth_guess(target + math.log(0.03))
     if not scalar and _reusable(y0, np.broadcast_to(0.0, shape)) is None:
@@ -388,15 +388,24 @@ def solve_normal_depth(section, flow, slope, n=None) -> DepthSolution:
             if at is None:
                 lk, dlk = _log_conveyance(section, rough, y, s, scalar)
                 return lk - target, dlk
-            lk, dlk = _log_conveyance(section, rough, y, s[at], scalar)
+            if by_element:  # the section and a model with values per element, at those elements
+                take = getattr(rough[1], "take", None)
+                lk, dlk = _log_conveyance(section.take(at), rough if take is None else ("model", take(at)), y,
+                                          s[at], scalar)
+            else:
+                lk, dlk = _log_conveyance(section, rough, y, s[at], scalar)
             return lk - target[at], dlk
 
     if scalar:
         y, it, g = _newton_log_scalar(evaluate, y0, lo, hi)
     else:  # a depth-dependent n may give several roots: follow the scalar steps to the one it finds
         model = rough[0] != "constant"
-        y, it, g = _newton_log_vector(evaluate, y0, lo, hi, fast=not model, subset=model and not section.is_vector,
-                                      split=split)
+        # the elements still iterating evaluated alone; a section with array dimensions is taken apart for them
+        # where they are 1-D arrays of the solve's shape
+        by_element = model and section.is_vector
+        fits = not by_element or (len(shape) == 1 and all(
+            np.shape(v) in ((), shape) for k, v in section.to_dict().items() if k != "shape"))
+        y, it, g = _newton_log_vector(evaluate, y0, lo, hi, fast=not model, subset=model and fits, split=split)
     return _finish(y, it, g)
 
 

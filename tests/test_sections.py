@@ -125,3 +125,19 @@ def test_round_trip_to_dict():
               hy.Irregular([0, 1, 2], [1, 0, 1], n=0.03)):
         again = hy.section_from_dict(s.to_dict())
         assert type(again) is type(s) and again.area(0.3) == pytest.approx(s.area(0.3))
+
+
+def test_a_section_of_some_elements_has_their_geometry():
+    """Section.take: the elements taken keep their own dimensions (compared with one section per element)."""
+    b, z1, z2 = np.array([0.5, 1.0, 2.0, 0.0]), np.array([1.0, 2.0, 3.0, 1.5]), np.array([2.0, 2.0, 0.5, 1.5])
+    section = hy.Trapezoid(bottom_width=b, left_slope=z1, right_slope=z2)
+    part = section.take(np.array([3, 1]))
+    y = np.array([0.4, 0.7])
+    got = part.properties(y)
+    for k, i in enumerate([3, 1]):
+        one = hy.Trapezoid(bottom_width=b[i], left_slope=z1[i], right_slope=z2[i]).properties(y[k])
+        assert got.area[k] == pytest.approx(one.area, rel=1e-15)
+        assert got.wetted_perimeter[k] == pytest.approx(one.wetted_perimeter, rel=1e-15)
+    pipes = hy.Circle(diameter=np.array([0.6, 0.9, 1.2])).take(slice(1, None))
+    np.testing.assert_array_equal(pipes.diameter, [0.9, 1.2])
+    assert hy.Trapezoid(bottom_width=1.0, side_slope=2.0).take([0]).bottom_width == 1.0  # numbers stay numbers

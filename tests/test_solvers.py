@@ -304,3 +304,20 @@ def test_array_solve_with_a_stone_lining_finds_the_scalar_root_near_the_relation
         np.testing.assert_allclose(hy.normal_depth(section, flows, slopes, rough), scalar, rtol=1e-9)
         checked += scalar.size
     assert checked == 800
+
+
+@pytest.mark.parametrize("b, z1, z2", [(1.2, 3.0, 3.0), (0.3, 1.5, 4.0), (5.0, 0.5, 0.0), (1.0, 0.0, 0.0),
+                                       (1e-3, 2.0, 2.0)])
+def test_many_flows_in_one_trapezoid_start_from_its_table(b, z1, z2):
+    """One trapezoid, flows over twelve decades: the start read off the section's conveyance table lies within
+    1e-5 of the depth (so one or two Newton steps finish), and every depth is the scalar solve's, from its own
+    start, to the solver's tolerance (Manning's equation, Chow 1959, Eq. 5-6)."""
+    section = hy.Trapezoid(bottom_width=b, left_slope=z1, right_slope=z2)
+    q = np.geomspace(1e-6, 1e6, 400)
+    s, n = np.full(q.size, 0.004), np.full(q.size, 0.025)
+    y = hy.normal_depth(section, q, s, n)
+    start = section._depth_start(np.log(q * n / np.sqrt(s)))
+    assert np.max(np.abs(np.log(start / y))) < 1e-5
+    alone = np.array([hy.normal_depth(section, qi, 0.004, 0.025) for qi in q.tolist()])
+    np.testing.assert_allclose(y, alone, rtol=1e-11)
+    np.testing.assert_allclose(hy.flow_at_depth(section, y, s, n), q, rtol=1e-10)

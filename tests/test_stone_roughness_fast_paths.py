@@ -85,3 +85,111 @@ def test_n_across_every_region_matches_with_and_without_the_short_cut(d50):
     together = rough.manning_n(section, depths, 0.02)
     alone = np.array([rough.manning_n(section, float(y), 0.02) for y in depths])
     np.testing.assert_allclose(alone, together, rtol=1e-13)
+
+
+# One model for every stone size of an inventory (a D50 per element of a section with array dimensions): each
+# element's normal depth must be the one the plain scalar solver finds with a model of its own size, to the
+# solver's tolerance (Manning's equation, Chow 1959 Eq. 5-6; n by HEC-15, 3rd ed., Eqs. 6.1 and 6.2).
+GRID_SIZES = [0.015, 0.03, 0.05, 0.1, 0.15, 0.3, 0.55]
+GRID_FLOWS = np.geomspace(0.01, 40.0, 14)
+GRID_SLOPES = np.geomspace(1e-4, 0.08, 9)
+
+
+def _grid(shape_of):
+    d, q, s = (a.ravel() for a in np.meshgrid(GRID_SIZES, GRID_FLOWS, GRID_SLOPES, indexing="ij"))
+    return d, q, s, shape_of(np.ones(d.size))
+
+
+@pytest.mark.parametrize("make", [
+    lambda one: hy.Trapezoid(bottom_width=0.6 * one, side_slope=3.0 * one),
+    lambda one: hy.Trapezoid(bottom_width=2.0 * one, left_slope=1.5 * one, right_slope=4.0 * one),
+    lambda one: hy.Triangle(side_slope=4.0 * one),
+    lambda one: hy.Rectangle(bottom_width=1.2 * one),
+], ids=["trapezoid", "uneven", "triangle", "rectangle"])
+def test_every_size_in_one_solve_gives_each_reachs_own_depth(make):
+    d50, q, s, section = _grid(make)
+    one = make(1.0)
+    got = hy.normal_depth(section, q, s, StoneRoughness(d50))
+    want = np.array([hy.normal_depth(one, qi, si, StoneRoughness(di)) for di, qi, si in zip(d50, q, s)])
+    np.testing.assert_allclose(got, want, rtol=1e-9)
+    # and n at those depths, element by element
+    n_got = StoneRoughness(d50).manning_n(section, got, s)
+    n_want = np.array([StoneRoughness(di).manning_n(one, yi, si) for di, yi, si in zip(d50, got, s)])
+    np.testing.assert_allclose(n_got, n_want, rtol=1e-12)
+
+
+def test_where_several_depths_carry_the_flow_the_scalar_solvers_depth_is_reported():
+    """Near da/D50 = 1.5 Bathurst's n lies below Blodgett's, so the flow falls with depth over a short span and
+    a flow there has three uniform-flow depths. The rule kept: every path reports the depth the scalar
+    iteration reaches from its own start (solvers._newton_log_vector follows its steps)."""
+    one = hy.Trapezoid(bottom_width=0.6, side_slope=3.0)
+    cases = []
+    for d50 in (0.05, 0.15, 0.3, 0.55):
+        for slope in (0.0118, 0.0308, 0.08):
+            depths = np.geomspace(0.05 * d50, 20 * d50, 4000)
+            flows = hy.flow_at_depth(one, depths, slope, StoneRoughness(d50))
+            falls = np.flatnonzero(np.diff(flows) < 0)
+            assert len(falls), "the grid must hold flows with several depths"
+            top, bottom = flows[falls[0]], flows[falls[-1] + 1]
+            for q in np.linspace(bottom, top, 7)[1:-1]:
+                assert np.count_nonzero(np.diff(np.sign(flows - q))) >= 3  # several depths carry it
+                cases.append((d50, slope, q))
+    d50, s, q = (np.array(c) for c in zip(*cases))
+    alone = np.array([hy.normal_depth(one, qi, si, StoneRoughness(di)) for di, si, qi in zip(d50, s, q)])
+    ones = np.ones(len(q))
+    together = hy.normal_depth(hy.Trapezoid(bottom_width=0.6 * ones, side_slope=3.0 * ones), q, s,
+                               StoneRoughness(d50))
+    np.testing.assert_allclose(together, alone, rtol=1e-9)
+    by_size = np.concatenate([hy.normal_depth(hy.Trapezoid(bottom_width=0.6 * ones[d50 == d],
+                                                           side_slope=3.0 * ones[d50 == d]),
+                                              q[d50 == d], s[d50 == d], StoneRoughness(d))
+                              for d in np.unique(d50)])
+    np.testing.assert_allclose(together, by_size, rtol=1e-9)
+
+
+def test_a_size_with_no_usable_bathurst_depth_does_not_change_the_others():
+    """Bathurst's relation usable below da/D50 = 1.5 for one size and nowhere for another: each element holds
+    its own n, as a model of its size alone does (fine stone in a wide channel: Bathurst's exponent p of
+    HEC-15 Eq. 6.3 stays above P_LIMIT up to da/D50 = 1.5)."""
+    one = np.ones(2)
+    section = hy.Rectangle(bottom_width=np.array([3.0, 50.0]))
+    d50 = np.array([0.05, 0.015])
+    y_lim, _ = StoneRoughness(d50)._lowest_bathurst_depth(section)
+    assert np.isfinite(y_lim[0]) and np.isinf(y_lim[1])
+    depths = np.array([0.01, 0.01]) * one
+    got = StoneRoughness(d50).manning_n(section, depths, 0.01)
+    want = [StoneRoughness(0.05).manning_n(hy.Rectangle(bottom_width=3.0), 0.01, 0.01),
+            StoneRoughness(0.015).manning_n(hy.Rectangle(bottom_width=50.0), 0.01, 0.01)]
+    np.testing.assert_allclose(got, want, rtol=1e-12)
+
+
+def test_the_model_of_some_elements_keeps_their_sizes_and_lowest_depths():
+    d50 = np.array([0.05, 0.15, 0.3, 0.15])
+    section = hy.Trapezoid(bottom_width=np.array([0.6, 1.0, 2.0, 0.4]), side_slope=np.full(4, 3.0))
+    whole = StoneRoughness(d50)
+    y_all, _ = whole._lowest_bathurst_depth(section)
+    part = whole.take(np.array([1, 3]))
+    np.testing.assert_array_equal(part.d50, [0.15, 0.15])
+    sub = hy.Trapezoid(bottom_width=np.array([1.0, 0.4]), side_slope=np.full(2, 3.0))
+    np.testing.assert_array_equal(part._lowest_bathurst_depth(sub)[0], y_all[[1, 3]])
+    np.testing.assert_allclose(StoneRoughness(d50[[1, 3]])._lowest_bathurst_depth(sub)[0], y_all[[1, 3]],
+                               rtol=1e-14)
+    assert whole.take(slice(None)) is whole
+
+
+@pytest.mark.parametrize("slope", [0.002, 0.02, 0.08])
+def test_n_of_every_region_element_by_element_matches_each_size_alone(slope):
+    """Depths from 0.05 to 10 D50 (held, Bathurst, the ramp and Blodgett), several sizes and sections in one
+    call: the short cut that works out Bathurst's terms only where da/D50 < 1.53 gives each element the n of a
+    model of its size on its own section."""
+    d50 = np.repeat([0.02, 0.15, 0.3], 200)
+    width = np.tile(np.repeat([0.6, 3.0], 100), 3)
+    depth = np.concatenate([np.tile(np.geomspace(0.05 * d, 10 * d, 100), 2) for d in (0.02, 0.15, 0.3)])
+    section = hy.Trapezoid(bottom_width=width, side_slope=np.full(width.size, 2.5))
+    got = StoneRoughness(d50).manning_n(section, depth, slope)
+    want = [StoneRoughness(d).manning_n(hy.Trapezoid(bottom_width=b, side_slope=2.5), y, slope)
+            for d, b, y in zip(d50.tolist(), width.tolist(), depth.tolist())]
+    codes = {StoneRoughness(d).relation(hy.Trapezoid(bottom_width=b, side_slope=2.5), y, slope)
+             for d, b, y in zip(d50.tolist(), width.tolist(), depth.tolist())}
+    assert codes >= {"blodgett", "bathurst", "transition"}
+    np.testing.assert_allclose(got, want, rtol=1e-12)

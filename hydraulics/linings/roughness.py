@@ -70,6 +70,16 @@ def _lowest_usable(usable, lo: float, hi: float) -> float:
     return hi
 
 
+def _same_section(kept, section) -> bool:
+    """True when ``section`` has the type and dimensions ``kept`` = (type, to_dict()) records, with at least one
+    dimension an array (the section of a solve rebuilt to word its results: the lowest usable Bathurst depth
+    found for the one holds for the other)."""
+    if kept[0] is not type(section) or not section.is_vector:
+        return False
+    a, b = kept[1], section.to_dict()
+    return a.keys() == b.keys() and all(np.array_equal(a[k], b[k]) for k in a)
+
+
 def _average_depth(section, depth):
     g = section.properties(depth)
     top = g.top_width
@@ -84,8 +94,11 @@ class StoneRoughness:
 
     Parameters
     ----------
-    d50 : float
-        Median stone size [m], > 0.
+    d50 : float or ndarray
+        Median stone size [m], > 0. An array gives each element of a section
+        whose dimensions are arrays of that shape its own size (an inventory's
+        stone reaches of every size in one solve); each element's n is the one
+        a model of its size alone gives.
     method : str
         "auto" (default): Blodgett's relation, HEC-15 Eq. 6.1, where
         da/D50 >= 1.5 and Bathurst's relation, Eq. 6.2, below (the split
@@ -120,16 +133,45 @@ class StoneRoughness:
 
     def __init__(self, d50, method: str = "auto"):
         self.d50 = validate.positive("d50", d50)
-        if np.ndim(self.d50):
-            raise InputError("d50", "must be a single stone size for a roughness model")
+        if np.ndim(self.d50) > 1:
+            raise InputError("d50", "must be one stone size, or a 1-D array of one per element")
         if method not in STONE_METHODS:
             raise InputError("method", f"must be one of {', '.join(STONE_METHODS)}, got {method!r}")
         self.method = method
         self.n_hold = hec15._blodgett_n(hec15.BLODGETT_RANGE[0] * self.d50, self.d50)
-        self._limits = {}
+        # (section, (its type, dimensions) or None, depth, limits) of the last section whose lowest usable
+        # Bathurst depth was found
+        self._limits = None
 
     def __repr__(self):
-        return f"StoneRoughness(d50={self.d50:g}, method={self.method!r})"
+        size = f"{self.d50:g}" if not np.ndim(self.d50) else f"<{np.size(self.d50)} sizes>"
+        return f"StoneRoughness(d50={size}, method={self.method!r})"
+
+    def take(self, index) -> "StoneRoughness":
+        """The model of the elements ``index`` of a section with 1-D array dimensions (itself where that is
+        every element, or where there is nothing per element to take).
+
+        The lowest usable Bathurst depths found for the section carry over, those of the elements taken, with
+        the section's dimensions at them (they depend on D50 and the section alone).
+        """
+        kept = self._limits
+        dims = None if kept is None or kept[1] is None else kept[1][1]
+        if np.ndim(self.d50):
+            size = np.size(self.d50)
+        elif dims is not None and np.ndim(kept[2]) == 1:
+            size = np.size(kept[2])
+        else:
+            return self
+        chosen = np.arange(size)[index]
+        if chosen.size == size and np.array_equal(chosen, np.arange(size)):
+            return self
+        part = StoneRoughness(self.d50[chosen] if np.ndim(self.d50) else self.d50, self.method)
+        if dims is not None and all(np.shape(v) in ((), (size,)) for v in dims.values()):
+            y_lim = kept[2][chosen] if np.shape(kept[2]) == (size,) else kept[2]
+            limits = None if kept[3] is None else tuple(v[chosen] if np.shape(v) == (size,) else v for v in kept[3])
+            at = {k: v[chosen] if np.ndim(v) else v for k, v in dims.items()}
+            part._limits = (None, (kept[1][0], at), y_lim, limits)
+        return part
 
     def _regions(self, section, depth, slope):
         """(n, relation code) arrays: 0 Blodgett, 1 Bathurst, 2 held value (auto rule)."""
@@ -143,28 +185,44 @@ class StoneRoughness:
             need = ratio < hec15.BLODGETT_RANGE[0] * SPLIT_BAND
             if self.method == "blodgett" or not need.any():
                 return blod, np.zeros(ratio.shape, int)
-            if ratio.ndim and not need.all() and not section.is_vector:
+            if ratio.ndim and not need.all():
                 n, code = blod.copy(), np.zeros(ratio.shape, int)
-                at_slope = slope[need] if np.ndim(slope) else slope
-                n[need], code[need] = self._regions(section, np.asarray(depth, float)[need], at_slope)
+                if not section.is_vector and not np.ndim(self.d50):
+                    at_slope = slope[need] if np.ndim(slope) else slope
+                    n[need], code[need] = self._regions(section, np.asarray(depth, float)[need], at_slope)
+                    return n, code
+                # element by element (a section or stone size per element): the elements that need them only
+                at = np.flatnonzero(need)
+                pick = lambda v: v[at] if np.shape(v) == ratio.shape else v  # noqa: E731
+                y_lim, lim = self._lowest_bathurst_depth(section) if self.method == "auto" else (None, None)
+                n[at], code[at] = self._bathurst_regions(
+                    *(pick(np.asarray(v, float)) for v in (da, r, top, depth)), pick(np.asarray(slope, float)),
+                    pick(self.d50), pick(self.n_hold), pick(y_lim), None if lim is None else tuple(map(pick, lim)),
+                    blod[at], ratio[at])
                 return n, code
-        with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
-            terms = hec15._bathurst_terms(np.asarray(da, float), self.d50, np.asarray(top, float))
-            p = terms[1]
-            bath = np.asarray(hec15._bathurst_n_manning_terms(terms, np.asarray(da, float), np.asarray(r, float),
-                                                              slope), dtype=float)
         if self.method == "blodgett":
             return blod, np.zeros(ratio.shape, int)
+        y_lim, lim = self._lowest_bathurst_depth(section) if self.method == "auto" else (None, None)
+        return self._bathurst_regions(np.asarray(da, float), np.asarray(r, float), np.asarray(top, float), depth,
+                                      slope, self.d50, self.n_hold, y_lim, lim, blod, ratio)
+
+    def _bathurst_regions(self, da, r, top, depth, slope, d50, n_hold, y_lim, lim, blod, ratio):
+        """:meth:`_regions` where Bathurst's relation may be used, on values of one shape (or scalars): da, R,
+        T, depth, slope, D50 and the held n, the lowest usable Bathurst depth and (da, T, R) there (auto only),
+        Blodgett's n and da/D50."""
+        with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
+            terms = hec15._bathurst_terms(da, d50, top)
+            p = terms[1]
+            bath = np.asarray(hec15._bathurst_n_manning_terms(terms, da, r, slope), dtype=float)
         if self.method == "bathurst":
             return bath, np.ones(ratio.shape, int)
         split = hec15.BLODGETT_RANGE[0]
-        y_lim, lim = self._lowest_bathurst_depth(section)
         below = np.asarray(depth) < y_lim
         bath_ok = ~below & (np.asarray(p) < 1.0) & np.isfinite(bath) & (bath > 0)
         code = np.where(ratio >= split * SPLIT_BAND, 0,
                         np.where(ratio >= split, np.where(bath_ok, 3, 0), np.where(bath_ok, 1, 2)))
         # the ramp and the held value only where they are used (the solver's trial depths rarely need them)
-        ramp = held = self.n_hold
+        ramp = held = n_hold
         with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
             if np.any(code == 3):
                 w = np.log(np.maximum(ratio, split) / split) / np.log(SPLIT_BAND)
@@ -172,8 +230,8 @@ class StoneRoughness:
                               + w * np.log(np.where(code == 3, blod, 1.0)))
             if lim is not None and np.any(code == 2):
                 # Bathurst's n at the lowest depth where it is usable, at this slope: n is continuous there
-                held = np.asarray(hec15._bathurst_n_manning(lim[0], self.d50, lim[1], lim[2], slope), dtype=float)
-                held = np.where(np.isfinite(held) & (held > 0), held, self.n_hold)
+                held = np.asarray(hec15._bathurst_n_manning(lim[0], d50, lim[1], lim[2], slope), dtype=float)
+                held = np.where(np.isfinite(held) & (held > 0), held, n_hold)
         n = np.select([code == 0, code == 1, code == 3], [blod, bath, ramp], held)
         return n, code
 
@@ -183,16 +241,15 @@ class StoneRoughness:
         Returns (depth, (da, T, R) there), or (inf, None) if it is not usable below
         da/D50 = 1.5. Found once per section by bisection on the geometry (to BISECTION_RTOL) and kept.
         """
-        key = id(section)
-        hit = self._limits.get(key)
-        if hit is not None and hit[0] is section:
-            return hit[1], hit[2]
+        hit = self._limits
+        if hit is not None and (hit[0] is section or (hit[1] is not None and _same_section(hit[1], section))):
+            return hit[2], hit[3]
         split = hec15.BLODGETT_RANGE[0]
 
         def usable(y):
             da, r, top = _average_depth(section, y)
             ratio = np.asarray(da / self.d50, float)
-            _, p, _ = hec15._bathurst_terms(np.asarray(da, float), self.d50, np.asarray(top, float))
+            _, p = hec15._bathurst_exponent(np.asarray(da, float), self.d50, np.asarray(top, float))
             return (ratio > hec15.BATHURST_RANGE[0]) & (np.asarray(p) <= P_LIMIT), ratio
 
         start = 1e-3 * self.d50  # a depth every section holds (a pipe may be smaller than 1 m)
@@ -231,12 +288,17 @@ class StoneRoughness:
             y = np.where(ok_hi, hi_b, np.inf)
         if np.any(ok_hi):
             yy = y if shape else float(y)
-            if not np.all(np.isfinite(y)):
-                result = (yy, None)
-            else:
+            finite = np.isfinite(y)
+            if finite.all():
                 da, r, top = _average_depth(section, yy)
                 result = (yy, (da, top, r))
-        self._limits = {key: (section, *result)}  # keep the last section only
+            elif not shape or not finite.any():
+                result = (yy, None)
+            else:  # each element on its own: nan where Bathurst's relation is usable nowhere (n_hold is held there)
+                da, r, top = _average_depth(section, np.where(finite, y, start))
+                result = (yy, tuple(np.where(finite, v, np.nan) for v in (da, top, r)))
+        # keep the last section only, with its dimensions where they are arrays (see _same_section)
+        self._limits = (section, (type(section), section.to_dict()) if section.is_vector else None, *result)
         return result
 
     def switch_depth(self, section) -> float | None:
@@ -277,17 +339,39 @@ class StoneRoughness:
         return ("blodgett", "bathurst", "held", "transition")[int(np.max(code))]
 
     def check(self, section, depth, slope) -> list[str]:
-        """Warnings, in words, for ``depth`` outside the range of the relation used."""
+        """Warnings, in words, for ``depth`` outside the range of the relation used (with an array of sizes,
+        the warnings of each size in turn, see :meth:`check_each`)."""
+        return [note for notes in self.check_each(section, depth, slope).values() for note in notes]
+
+    def check_each(self, section, depth, slope) -> dict:
+        """{D50: the warnings of :meth:`check` for the elements of that size}, smallest size first; the
+        relations are evaluated once for all sizes."""
+        if not np.ndim(self.d50):
+            return {float(self.d50): self._notes(self.d50, section, depth, slope)}
+        depth = np.broadcast_to(np.asarray(depth, float), np.shape(self.d50))
+        if self.method == "strickler":
+            ratio = code = np.zeros(np.shape(self.d50))
+        else:
+            da, _, _ = _average_depth(section, depth)
+            ratio = np.asarray(da / self.d50, dtype=float)
+            _, code = self._regions(section, depth, slope)
+        return {d: self._notes(d, None, None, None, ratio[self.d50 == d], code[self.d50 == d])
+                for d in np.unique(self.d50).tolist()}
+
+    def _notes(self, d50, section, depth, slope, ratio=None, code=None) -> list[str]:
+        """The warnings of one stone size ``d50``: from ``ratio`` (da/D50) and ``code`` (the relations used)
+        where given, else worked out at ``depth``."""
         out = []
         lo, hi = hec15.STONE_SIZE_RANGE
-        if not lo <= self.d50 <= hi:
+        if not lo <= d50 <= hi:
             out.append(worded("D50 = {d} is outside the {lo} to {hi} range of the HEC-15 Chapter 6 procedures",
-                              d=(self.d50, "small_length"), lo=(lo, "small_length"), hi=(hi, "small_length")))
+                              d=(d50, "small_length"), lo=(lo, "small_length"), hi=(hi, "small_length")))
         if self.method == "strickler":
             return out
-        da, _, _ = _average_depth(section, depth)
-        ratio = np.asarray(da / self.d50, dtype=float)
-        _, code = self._regions(section, depth, slope)
+        if ratio is None:
+            da, _, _ = _average_depth(section, depth)
+            ratio = np.asarray(da / d50, dtype=float)
+            _, code = self._regions(section, depth, slope)
         text = hec15._span(ratio)
         a, b = hec15.BLODGETT_RANGE
         if np.any((code == 0) & ((ratio < a) | (ratio > b))):
