@@ -166,7 +166,7 @@ def comparison_choices(channel: Channel) -> list:
     return out
 
 
-def evaluate_channel(channel: Channel, catalogue: Catalogue | None = None) -> ChannelDesign:
+def evaluate_channel(channel: Channel, catalogue: Catalogue) -> ChannelDesign:
     """Design flow -> section -> uniform flow -> lining stability -> comparison, for one channel.
 
     Parameters
@@ -176,9 +176,9 @@ def evaluate_channel(channel: Channel, catalogue: Catalogue | None = None) -> Ch
         and is checked; without, ``channel.manning_n`` is used and there is no
         stability check. ``bend_radius`` and ``min_freeboard`` are passed on;
         ``alternatives`` are compared together with the channel's own lining.
-    catalogue : hydraulics.linings.Catalogue, optional
-        Where lining keys are looked up; default the shipped catalogue alone
-        (pass :func:`load_default_catalogue` with the user's file to include it).
+    catalogue : hydraulics.linings.Catalogue
+        Where lining keys are looked up: the front end's (``Context.catalogue``, the shipped one with the
+        user's file laid over it). Required, so that no path falls back to the shipped one unseen.
 
     Returns
     -------
@@ -197,8 +197,6 @@ def evaluate_channel(channel: Channel, catalogue: Catalogue | None = None) -> Ch
     stability = None
     comparison: list[ComparisonRow] = []
     if channel.lining is not None:
-        if catalogue is None:
-            catalogue = load_default_catalogue()
         lining = catalogue.get(channel.lining.key)
         stability = check_lining(section, q, channel.slope, lining, d50=channel.lining.d50,
                                  bend_radius=channel.bend_radius, min_freeboard=min_fb)
@@ -222,8 +220,6 @@ def evaluate_channel(channel: Channel, catalogue: Catalogue | None = None) -> Ch
     else:
         fb, se, wave, total, top = _ditch_depth(section, analysis, channel.bend_radius, min_fb, warns, notes)
     if channel.alternatives:
-        if catalogue is None:
-            catalogue = load_default_catalogue()
         comparison = compare_linings(section, q, channel.slope, comparison_choices(channel), catalogue,
                                      bend_radius=channel.bend_radius, min_freeboard=min_fb)
     return ChannelDesign(channel=channel, flow=q, flow_method=channel.flow.method, time_of_concentration=tc,

@@ -26,6 +26,9 @@ from app.evaluate import evaluate_channel
 from app.main import main
 from app.run_design import design_run
 from hydraulics.units import FOOT, SI, US
+from app.context import Context
+
+SHIPPED = Context.load().catalogue   # the shipped lining catalogue alone
 
 #: $INSUNITS codes (the DXF reference's header variable "INSUNITS", table of values).
 INSUNITS_FEET, INSUNITS_METRES = 2, 6
@@ -59,7 +62,7 @@ def project(tmp_path_factory):
 @pytest.fixture(scope="module", params=["us", "si"])
 def written(request, project, tmp_path_factory):
     out = tmp_path_factory.mktemp(f"dxf-{request.param}")
-    return request.param, export_drawings(project, out, units=request.param)
+    return request.param, export_drawings(project, out, units=request.param, catalogue=SHIPPED)
 
 
 def _units(key):
@@ -102,7 +105,7 @@ def test_the_section_spans_the_top_width_at_the_top_of_the_ditch(written, projec
     by_name = {p.name: p for p in paths}
     checked = 0
     for ch in project.channels:
-        design = evaluate_channel(ch)
+        design = evaluate_channel(ch, catalogue=SHIPPED)
         pts = _ditch_outline(ezdxf.readfile(by_name[safe_file_name(ch.name, "-section.dxf")]))
         xs, ys = [p[0] for p in pts], [p[1] for p in pts]
         if design.section.kind == "circle":   # a pipe is drawn as its ring: its extents are the diameter
@@ -130,7 +133,7 @@ def test_each_dimension_measures_the_designed_value(written, project):
     k = 1 / FOOT if key == "us" else 1.0
     by_name = {p.name: p for p in paths}
     for ch in project.channels:
-        design = evaluate_channel(ch)
+        design = evaluate_channel(ch, catalogue=SHIPPED)
         sec = design.section
         if sec.kind in ("circle", "irregular"):
             continue
@@ -196,10 +199,10 @@ def test_the_profile_lines_of_the_water_are_told_apart(written, project):
 
 
 def test_a_lining_stretch_is_a_band_per_schedule_line(project):
-    (drawing,) = make_drawings(project, runs=[project.runs[0].name], units="si")
+    (drawing,) = make_drawings(project, runs=[project.runs[0].name], units="si", catalogue=SHIPPED)
     msp = drawing.document.modelspace()
     bands = [e for e in msp.query("LWPOLYLINE") if e.dxf.layer == "LINING-STRETCHES"]
-    design = design_run(project, project.runs[0])
+    design = design_run(project, project.runs[0], catalogue=SHIPPED)
     spans = sorted((min(q.start, q.end), max(q.start, q.end)) for q in design.result.quantities)
     drawn = sorted((min(p[0] for p in b.get_points()), max(p[0] for p in b.get_points())) for b in bands)
     assert [v for span in drawn for v in span] == pytest.approx([v for span in spans for v in span])
@@ -216,7 +219,7 @@ def test_names_alike_once_made_safe_get_numbered(project):
     data = project.to_dict()
     data["channels"] = [dict(data["channels"][0], name="Ditch A/B"), dict(data["channels"][0], name="Ditch A:B")]
     data["runs"] = []
-    names = [d.file_name for d in make_drawings(pj.Project.from_dict(data))]
+    names = [d.file_name for d in make_drawings(pj.Project.from_dict(data), catalogue=SHIPPED)]
     assert names == ["Ditch_A_B-section.dxf", "Ditch_A_B_2-section.dxf"]
 
 

@@ -7,6 +7,9 @@ from app.evaluate import ChannelDesign, evaluate_channel, load_default_catalogue
 from app.project import Channel, FlowBasis, LiningChoice, Project, dumps, loads
 from hydraulics.lining_comparison import compare_linings
 from hydraulics.stability import check_lining
+from app.context import Context
+
+SHIPPED = Context.load().catalogue   # the shipped lining catalogue alone
 
 
 @pytest.fixture(scope="module")
@@ -17,7 +20,7 @@ def cat():
 def test_plain_manning_channel():
     ch = Channel(flow=FlowBasis(value=0.8), slope=0.004, manning_n=0.03,
                  section={"shape": "trapezoid", "bottom_width": 0.6, "left_slope": 3.0, "right_slope": 3.0})
-    d = evaluate_channel(ch)
+    d = evaluate_channel(ch, catalogue=SHIPPED)
     assert isinstance(d, ChannelDesign) and d.stability is None and d.stable is None and d.comparison == []
     y = hy.normal_depth(hy.Trapezoid(bottom_width=0.6, side_slope=3.0), 0.8, 0.004, 0.03)
     assert d.analysis.normal_depth == pytest.approx(y, rel=1e-12) and d.flow == 0.8
@@ -41,7 +44,7 @@ def test_rational_flow_basis():
     # Rational method Q = C i A; HEC-22 (FHWA, 3rd ed., 2009) Eq. 3-1 in SI: Q = 0.00278 C i A, i in mm/h, A in ha.
     basis = FlowBasis(method="rational", runoff_coefficient=0.6, intensity=75 / 3.6e6, area=3.0e4,
                       flow_length=250.0, flow_path_slope=0.04)
-    d = evaluate_channel(Channel(flow=basis, manning_n=0.03))
+    d = evaluate_channel(Channel(flow=basis, manning_n=0.03), catalogue=SHIPPED)
     assert d.flow == pytest.approx(0.00278 * 0.6 * 75 * 3.0, rel=1e-3) and d.flow_method == "rational"
     # Kirpich (1940): t_c = 0.0078 L^0.77 S^-0.385 minutes with L in ft
     assert d.time_of_concentration == pytest.approx(60 * 0.0078 * (250 / 0.3048) ** 0.77 * 0.04 ** -0.385)
@@ -51,17 +54,17 @@ def test_rational_flow_basis():
 def test_rational_flow_missing_fields_are_named():
     with pytest.raises(hy.InputError) as e:
         evaluate_channel(Channel(flow=FlowBasis(method="rational", runoff_coefficient=0.5, intensity=None,
-                                                area=1e4)))
+                                                area=1e4)), catalogue=SHIPPED)
     assert e.value.field == "intensity"
     with pytest.raises(hy.InputError) as e:
         evaluate_channel(Channel(flow=FlowBasis(method="rational", runoff_coefficient=0.5, intensity=1e-5,
-                                                area=1e4, flow_length=100.0)))
+                                                area=1e4, flow_length=100.0)), catalogue=SHIPPED)
     assert e.value.field == "flow.flow_path_slope"
 
 
 def test_no_lining_and_no_n_is_refused():
     with pytest.raises(hy.InputError) as e:
-        evaluate_channel(Channel(manning_n=None))
+        evaluate_channel(Channel(manning_n=None), catalogue=SHIPPED)
     assert e.value.field == "manning_n"
 
 
@@ -132,5 +135,5 @@ def test_surveyed_section_without_n_uses_its_own_n_per_segment():
     section = {"shape": "irregular", "stations": [0, 2, 4, 6], "elevations": [1.0, 0, 0, 1.0],
                "n": [0.035, 0.015, 0.035]}
     design = evaluate_channel(Channel(name="Surveyed", flow=FlowBasis(value=0.6), slope=0.004, section=section,
-                                      manning_n=None))
+                                      manning_n=None), catalogue=SHIPPED)
     assert design.analysis.normal_depth == hy.normal_depth(hy.section_from_dict(section), 0.6, 0.004)

@@ -30,6 +30,9 @@ from app import project as pj
 from app import files
 
 import kill_writer
+from app.context import Context
+
+SHIPPED = Context.load().catalogue   # the shipped lining catalogue alone
 
 KILLS = 50
 pytestmark = pytest.mark.skipif(sys.platform != "linux", reason="fork and SIGKILL as on Linux")
@@ -176,7 +179,7 @@ def test_drawing_export(tmp_path):
         projects[v].channels[0].section["bottom_width"] = width
         projects[v].runs = []
     write = kill_writer.writers("drawing", projects)
-    (name,) = [d.file_name for d in make_drawings(projects[0])]
+    (name,) = [d.file_name for d in make_drawings(projects[0], catalogue=SHIPPED)]
     versions = {}
     for v in (0, 1):
         probe = tmp_path / f"_probe{v}"

@@ -13,6 +13,9 @@ from app import inventory as ai
 from app.inventory import reading
 from app.files import FORMULA_STARTS, spreadsheet_safe, tsv_cell
 from app.main import main
+from app.context import Context
+
+SHIPPED = Context.load().catalogue   # the shipped lining catalogue alone
 
 HEADER = list(ai.INPUT_COLUMNS) + ["owner", "offset"]
 ROW = {"shape": "trapezoid", "bottom_width": "2", "left_slope": "3", "right_slope": "3", "slope": "0.004",
@@ -124,7 +127,7 @@ def test_a_formula_like_name_in_a_dxf_drawing_is_plain_text(trigger):
     project.channels, project.runs = project.channels[:1], project.runs[:1]
     project.channels[0].name = PAYLOADS[trigger] + r" %<\AcVar Date>%"
     project.runs[0].name = PAYLOADS[trigger] + " run"
-    drawings = make_drawings(project)
+    drawings = make_drawings(project, catalogue=SHIPPED)
     assert len(drawings) == 2
     for drawing, name in zip(drawings, [project.channels[0].name, project.runs[0].name]):
         doc = drawing.document

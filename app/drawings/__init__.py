@@ -1,7 +1,7 @@
 """Drawings for the plan set: one DXF per channel (its typical section) and one per ditch run (its profile).
 
     from app.drawings import export_drawings
-    written = export_drawings(project, "out/", channels=None, runs=None, units=None, catalogue=None)
+    written = export_drawings(project, "out/", channels=None, runs=None, units=None, catalogue=context.catalogue)
 
 Every drawing is made before any file is written, so a channel that cannot be computed leaves the folder as it
 was. Qt-free; the DXF itself is written by ezdxf (:mod:`app.drawings.dxf`, shared by :mod:`app.drawings.section` and
@@ -56,20 +56,20 @@ def _chosen(project, channels, runs):
     return [project.channel(n) for n in channels or []], [project.run(n) for n in runs or []]
 
 
-def make_drawings(project, channels=None, runs=None, units=None, catalogue=None) -> list[Drawing]:
+def make_drawings(project, channels=None, runs=None, units=None, *, catalogue) -> list[Drawing]:
     """The drawings of ``project``: the sections of ``channels`` and the profiles of ``runs`` (names; every channel
-    and run when neither is given), in ``units`` ("us", "si", a unit system, or None for the project's own).
+    and run when neither is given), in ``units`` ("us", "si", a unit system, or None for the project's own),
+    evaluated with ``catalogue`` (the front end's lining catalogue, with the user's entries; required).
 
     Raises KeyError for an unknown name (naming those there are), InputError for a bad unit system or a value of
     the project that cannot be computed and hydraulics.NoSolutionError for a channel or run without a solution; a
     channel's error has a ``channel`` attribute naming it as in the project file (as the design sheets do).
     """
-    from ..evaluate import evaluate_channel, load_default_catalogue
+    from ..evaluate import evaluate_channel
     from ..run_design import design_run
     from ..run_drawing import profile_model
 
     system = units if isinstance(units, hu.UnitSystem) else hu.system(units or project.units)
-    catalogue = load_default_catalogue() if catalogue is None else catalogue
     chosen, chosen_runs = _chosen(project, channels, runs)
     out, taken = [], set()
 
@@ -102,11 +102,11 @@ def make_drawings(project, channels=None, runs=None, units=None, catalogue=None)
     return out
 
 
-def export_drawings(project, folder, channels=None, runs=None, units=None, catalogue=None) -> list[Path]:
+def export_drawings(project, folder, channels=None, runs=None, units=None, *, catalogue) -> list[Path]:
     """Write the drawings of :func:`make_drawings` into ``folder`` (made when missing), each file in one step;
     returns the paths written. Raises what :func:`make_drawings` raises before any file is written, and OSError
     when a file cannot be written."""
-    drawings = make_drawings(project, channels, runs, units, catalogue)
+    drawings = make_drawings(project, channels, runs, units, catalogue=catalogue)
     folder = Path(folder)
     folder.mkdir(parents=True, exist_ok=True)
     written = []
