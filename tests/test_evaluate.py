@@ -137,3 +137,65 @@ def test_surveyed_section_without_n_uses_its_own_n_per_segment():
     design = evaluate_channel(Channel(name="Surveyed", flow=FlowBasis(value=0.6), slope=0.004, section=section,
                                       manning_n=None), catalogue=SHIPPED)
     assert design.analysis.normal_depth == hy.normal_depth(hy.section_from_dict(section), 0.6, 0.004)
+
+
+# ------------------------------------------------------------------ the modes `calc` and `compare` go through
+def test_width_for_depth_gives_a_channel_that_runs_at_the_allowed_depth():
+    """The width found puts the normal depth at the allowed depth (its definition: common practice); a V-ditch that
+    already runs shallow enough comes back as a triangle of width 0."""
+    from app.evaluate import width_for_depth
+
+    ch = Channel(flow=FlowBasis(value=2.0), slope=0.004, manning_n=0.015,
+                 section={"shape": "trapezoid", "left_slope": 2.0, "right_slope": 2.0})
+    sized, width = width_for_depth(ch, 0.6, SHIPPED)
+    assert width > 0 and sized.section == {"shape": "trapezoid", "bottom_width": width, "left_slope": 2.0,
+                                           "right_slope": 2.0}
+    assert evaluate_channel(sized, SHIPPED).analysis.normal_depth == pytest.approx(0.6, rel=1e-9)
+    v, zero = width_for_depth(ch, 5.0, SHIPPED)
+    assert zero == 0.0 and v.section["shape"] == "triangle"
+    lined, w_lined = width_for_depth(Channel(flow=FlowBasis(value=2.0), slope=0.004, manning_n=None,
+                                             lining=LiningChoice("concrete"), section={"shape": "rectangle"}),
+                                     0.6, SHIPPED)
+    assert evaluate_channel(lined, SHIPPED).analysis.normal_depth == pytest.approx(0.6, rel=1e-9)
+    with pytest.raises(hy.InputError, match="section.shape"):
+        width_for_depth(Channel(section={"shape": "circle", "diameter": 1.0}), 0.5, SHIPPED)
+
+
+def test_lining_comparison_is_the_channels_own_comparison():
+    from app.evaluate import lining_comparison
+
+    ch = Channel(flow=FlowBasis(value=0.8), slope=0.01, lining=LiningChoice("riprap", 0.15), manning_n=None,
+                 alternatives=[LiningChoice("concrete"), LiningChoice("riprap", 0.15)], bend_radius=30.0)
+    own = evaluate_channel(ch, SHIPPED).comparison
+    rows = lining_comparison(ch, SHIPPED)
+    assert [r.to_dict() for r in rows] == [r.to_dict() for r in own]
+    assert [r.key for r in rows] == ["riprap", "concrete"]            # each lining once, the channel's first
+    asked = lining_comparison(ch, SHIPPED, [("concrete", None), ("concrete", None)])
+    assert [r.key for r in asked] == ["concrete", "concrete"]           # as asked, in that order
+
+
+def test_calc_and_compare_print_the_shared_evaluation(capsys):
+    """`ditchwright calc --json` and `compare --json` hold the numbers of app.evaluate for the same channel."""
+    import json
+
+    from app.evaluate import lining_comparison
+    from app.main import main
+    from hydraulics.units import SI
+
+    argv = ["--units", "si", "--bottom-width", "0.6", "--side-slope", "3", "--slope", "0.01", "--flow", "0.8",
+            "--bend-radius", "30"]
+    ch = Channel(flow=FlowBasis(value=0.8), slope=0.01, lining=LiningChoice("riprap", 0.15), manning_n=None,
+                 bend_radius=30.0, section={"shape": "trapezoid", "bottom_width": 0.6, "left_slope": 3.0,
+                                            "right_slope": 3.0})
+    assert main(["calc", *argv, "--lining", "riprap:0.15", "--json"]) == 0
+    calc = json.loads(capsys.readouterr().out)
+    evaluated = evaluate_channel(ch, SHIPPED)
+    design = evaluated.to_dict(SI)
+    for key in ("normal_depth", "velocity", "froude", "stability", "lining"):
+        assert calc[key] == design[key], key
+    assert calc["verdict"] == evaluated.verdict.token
+    assert main(["compare", *argv, "--lining", "riprap:0.15", "--lining", "concrete", "--json"]) == 0
+    rows = json.loads(capsys.readouterr().out)
+    expected = lining_comparison(ch, SHIPPED, [("riprap", 0.15), ("concrete", None)])
+    assert [r["depth"] for r in rows] == [r.to_dict(SI)["depth"] for r in expected]
+    assert [r["cost_per_length"] for r in rows] == [None, None]
