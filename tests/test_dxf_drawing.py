@@ -21,7 +21,8 @@ import ezdxf
 import pytest
 
 from app import project as pj
-from app.drawings import export_drawings, make_drawings, safe_file_name
+from app.drawings import export_drawings, make_drawings
+from app.files import safe_file_name
 from app.evaluate import evaluate_channel
 from app.main import main
 from app.run_design import design_run
@@ -90,7 +91,7 @@ def test_every_file_passes_the_audit_reads_back_and_has_the_units(written, proje
 
 def test_section_layers_hold_what_they_are_named_for(written):
     _, paths = written
-    doc = ezdxf.readfile(next(p for p in paths if p.name == "East_verge_ditch-section.dxf"))
+    doc = ezdxf.readfile(next(p for p in paths if p.name == "East verge ditch-section.dxf"))
     msp = doc.modelspace()
     layers = {e.dxf.layer for e in msp}
     assert {"GROUND", "DITCH-OUTLINE", "LINING", "WATER", "WATER-SURFACE", "CRITICAL-DEPTH", "DIMENSIONS",
@@ -209,18 +210,23 @@ def test_a_lining_stretch_is_a_band_per_schedule_line(project):
 
 
 def test_safe_file_names():
-    assert safe_file_name("East verge ditch", ".dxf") == "East_verge_ditch.dxf"
-    assert safe_file_name("a/b:c*d?", ".dxf") == "a_b_c_d.dxf"
+    """The one rule of app.files, for drawings and the sheet's suggested name alike. The characters refused
+    (< > : " / \\ | ? *), the device names reserved with any extension (CON ... LPT9; "NUL.txt is equivalent to NUL")
+    and no trailing space or period: Microsoft, "Naming Files, Paths, and Namespaces" (Win32 documentation)."""
+    assert safe_file_name("East verge ditch", ".dxf") == "East verge ditch.dxf"
+    assert safe_file_name("a/b:c*d?", ".dxf") == "a-b - c-d.dxf"
     assert safe_file_name("../..", ".dxf") == "unnamed.dxf"
-    assert safe_file_name("CON", ".dxf") == "_CON.dxf"
+    assert safe_file_name("CON", ".dxf") == "_CON.dxf" and safe_file_name("lpt1.x", ".dxf") == "_lpt1.x.dxf"
+    assert safe_file_name("Fossé nord. ", ".dxf") == "Fossé nord.dxf"        # letters of any language kept
+    assert safe_file_name("x" * 300, ".dxf") == "x" * 100 + ".dxf"
 
 
 def test_names_alike_once_made_safe_get_numbered(project):
     data = project.to_dict()
-    data["channels"] = [dict(data["channels"][0], name="Ditch A/B"), dict(data["channels"][0], name="Ditch A:B")]
+    data["channels"] = [dict(data["channels"][0], name="Ditch A/B"), dict(data["channels"][0], name="ditch a*b")]
     data["runs"] = []
     names = [d.file_name for d in make_drawings(pj.Project.from_dict(data), catalogue=SHIPPED)]
-    assert names == ["Ditch_A_B-section.dxf", "Ditch_A_B_2-section.dxf"]
+    assert names == ["Ditch A-B-section.dxf", "ditch a-b_2-section.dxf"]
 
 
 def _cli(capsys, *args):
@@ -235,16 +241,16 @@ def test_the_command_writes_the_chosen_files(capsys, tmp_path):
                           "Farm crossing pipe", "--run", "North verge ditch", "--units", "us")
     assert code == 0 and err == ""
     names = sorted(p.name for p in (tmp_path / "a").iterdir())
-    assert names == ["East_verge_ditch-section.dxf", "Farm_crossing_pipe-section.dxf",
-                     "North_verge_ditch-profile.dxf"]
+    assert names == ["East verge ditch-section.dxf", "Farm crossing pipe-section.dxf",
+                     "North verge ditch-profile.dxf"]
     assert out.splitlines() == [f"wrote {tmp_path / 'a' / n}" for n in (
-        "East_verge_ditch-section.dxf", "Farm_crossing_pipe-section.dxf", "North_verge_ditch-profile.dxf")]
+        "East verge ditch-section.dxf", "Farm crossing pipe-section.dxf", "North verge ditch-profile.dxf")]
     assert ezdxf.readfile(tmp_path / "a" / names[0]).header["$INSUNITS"] == INSUNITS_FEET
     code, out, err = _cli(capsys, demo, "--out", tmp_path / "b")   # every channel and run, the project's units
     assert code == 0
     project = pj.load(demo)
     assert len(list((tmp_path / "b").iterdir())) == len(project.channels) + len(project.runs)
-    assert ezdxf.readfile(tmp_path / "b" / "North_verge_ditch-profile.dxf").header["$INSUNITS"] == (
+    assert ezdxf.readfile(tmp_path / "b" / "North verge ditch-profile.dxf").header["$INSUNITS"] == (
         INSUNITS_METRES if project.units == "si" else INSUNITS_FEET)
 
 

@@ -10,32 +10,18 @@ was. Qt-free; the DXF itself is written by ezdxf (:mod:`app.drawings.dxf`, share
 
 from __future__ import annotations
 
-import re
 from dataclasses import dataclass
 from pathlib import Path
 
 from hydraulics import units as hu
 from hydraulics.errors import HydraulicsError, InputError
 
+from ..files import safe_file_name
 from .dxf import write_document
 from .profile import profile_document
 from .section import section_document
 
-__all__ = ["Drawing", "export_drawings", "make_drawings", "safe_file_name"]
-
-#: Names a file may not have on Windows, whatever its extension.
-_RESERVED = {"CON", "PRN", "AUX", "NUL", *(f"COM{i}" for i in range(1, 10)), *(f"LPT{i}" for i in range(1, 10))}
-
-
-def safe_file_name(name: str, suffix: str) -> str:
-    """``name`` made safe for any file system, then ``suffix``: letters, digits, '-', '_' and '.' kept, runs of
-    anything else (spaces, slashes, colons...) one '_', at most 100 characters ('East verge ditch' ->
-    'East_verge_ditch')."""
-    safe = re.sub(r"[^A-Za-z0-9._-]+", "_", name.strip()).strip("._") or "unnamed"
-    safe = safe[:100].rstrip("._") or "unnamed"
-    if safe.split(".")[0].upper() in _RESERVED:
-        safe = "_" + safe
-    return safe + suffix
+__all__ = ["Drawing", "export_drawings", "make_drawings"]
 
 
 @dataclass
