@@ -14,6 +14,7 @@ import ezdxf
 import pytest
 from pypdf import PdfReader
 
+from app import inventory as ai
 from app import project as pj
 from app.context import Context
 from app.drawings import export_drawings, make_drawings
@@ -29,7 +30,8 @@ DEMO = pj.demo_path()
 ENTRY_POINTS = {evaluate_channel: "catalogue", channel_sheet: "catalogue", comparison_lines: "catalogue",
                 run_sheet: "catalogue", sheet_pdf: "catalogue", export_sheets: "catalogue",
                 make_drawings: "catalogue", export_drawings: "catalogue", design_run: "catalogue",
-                fingerprint: "catalogue", run_fingerprint: "catalogue"}
+                fingerprint: "catalogue", run_fingerprint: "catalogue", ai.evaluate: "catalogue",
+                ai.check_file: "catalogue", ai.run_inventory: "catalogue"}
 
 
 @pytest.mark.parametrize("func", ENTRY_POINTS, ids=lambda f: f.__name__)
@@ -42,12 +44,16 @@ def test_each_entry_point_refuses_to_run_without_the_catalogue(tmp_path):
     project = pj.load(DEMO)
     channel, run = project.channel("East verge ditch"), project.runs[0]
     design = evaluate_channel(project.channel("Outfall swale"), Context.load().catalogue)   # has alternatives
+    inventory = ai.parse_inventory(",".join(ai.INPUT_COLUMNS) + "\nR1,circle,,,,0.6,0.01,0.1,,,0.013\n", "si")
     calls = [lambda: evaluate_channel(channel), lambda: channel_sheet(project, channel),
              lambda: comparison_lines(design, Formatter(Context.load().units)),
              lambda: run_sheet(project, run), lambda: sheet_pdf(project),
              lambda: export_sheets(project, tmp_path / "x.pdf"), lambda: make_drawings(project),
              lambda: export_drawings(project, tmp_path), lambda: design_run(project, run),
-             lambda: fingerprint(channel), lambda: run_fingerprint(project, run)]
+             lambda: fingerprint(channel), lambda: run_fingerprint(project, run),
+             lambda: ai.evaluate(inventory),
+             lambda: ai.check_file(tmp_path / "in.csv", tmp_path / "out.csv"),
+             lambda: ai.run_inventory(tmp_path / "in.csv")]
     for call in calls:
         with pytest.raises(TypeError, match="catalogue"):
             call()

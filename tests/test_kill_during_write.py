@@ -208,7 +208,7 @@ def test_inventory_results(tmp_path):
     source.write_text("\n".join(rows) + "\n")
     inventory = read_inventory(source, "si")
     other = read_inventory(source, "us")     # the second version: the same file read in US units
-    checked = {0: (inventory, evaluate(inventory)), 1: (other, evaluate(other))}
+    checked = {0: (inventory, evaluate(inventory, catalogue=SHIPPED)), 1: (other, evaluate(other, catalogue=SHIPPED))}
     write = kill_writer.writers("inventory", checked)
     versions = {}
     for v in (0, 1):

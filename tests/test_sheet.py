@@ -696,7 +696,8 @@ def test_lining_entry_changes_the_fingerprint_and_prices_the_comparison(project,
     shipped = fingerprint(ch, catalogue=SHIPPED)
     assert fingerprint(ch, catalogue=priced) != shipped  # a changed entry of a lining the channel uses
     paved = project.channel("East verge ditch")
-    assert fingerprint(paved, catalogue=priced) == fingerprint(paved, catalogue=SHIPPED)  # riprap not used there: no change
+    # riprap not used there: no change
+    assert fingerprint(paved, catalogue=priced) == fingerprint(paved, catalogue=SHIPPED)
 
     out = tmp_path / "priced.pdf"
     assert main(["sheet", str(DEMO_FILE), "--channel", ch.name, "-o", str(out), "--user-catalogue",
@@ -747,7 +748,8 @@ def test_long_comparison_stays_on_one_page(tmp_path):
     from hydraulics.units import US
 
     # the linings as the sheet names them: the one comparison table's names (grass heights in inches here)
-    names = [r.name for r in comparison_table(evaluate_channel(ch, catalogue=SHIPPED).comparison, Context(load_catalogue(), US)).rows]
+    design = evaluate_channel(ch, catalogue=SHIPPED)
+    names = [r.name for r in comparison_table(design.comparison, Context(load_catalogue(), US)).rows]
     shown = [nm for nm in names if nm in text.split("CAUTIONS")[0]]
     assert len(shown) == len(names), set(names) - set(shown)  # every lining is in a row or in the note
     assert "about 6 in tall" in text and "150 mm" not in text   # the good-stand grass, 150 mm = 5.9 in

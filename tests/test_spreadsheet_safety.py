@@ -40,7 +40,7 @@ def _results(text, monkeypatch=None, pyarrow=True):
     if not pyarrow:
         monkeypatch.setattr(reading, "pyarrow_modules", lambda: None)
     inv = ai.parse_inventory(text, "us")
-    res = ai.evaluate(inv)
+    res = ai.evaluate(inv, catalogue=SHIPPED)
     written = ai.format_results(inv, res)
     return inv, res, list(csv.DictReader(io.StringIO(written, newline="")))
 
@@ -84,10 +84,10 @@ def test_the_file_written_block_by_block_is_the_same_guarded_file(tmp_path):
             for i in range(40)]
     text = _csv(rows)
     inv = ai.parse_inventory(text, "us")
-    expected = ai.format_results(inv, ai.evaluate(inv))
+    expected = ai.format_results(inv, ai.evaluate(inv, catalogue=SHIPPED))
     source = tmp_path / "in.csv"
     source.write_text(text, encoding="utf-8")
-    ai.check_file(source, tmp_path / "out.csv", "us", rows=7)
+    ai.check_file(source, tmp_path / "out.csv", "us", rows=7, catalogue=SHIPPED)
     written = (tmp_path / "out.csv").read_text(encoding="utf-8")
     assert written == expected
     out = list(csv.DictReader(io.StringIO(written, newline="")))
@@ -110,7 +110,7 @@ def test_the_summary_says_so_once_and_only_when_it_happened(tmp_path, capsys):
 def test_a_file_without_triggers_is_written_byte_for_byte_as_before():
     text = _csv([dict(ROW, id=f"R{i}", owner="x", offset=str(-i)) for i in range(5)])
     inv = ai.parse_inventory(text, "us")
-    body = ai.format_results(inv, ai.evaluate(inv))
+    body = ai.format_results(inv, ai.evaluate(inv, catalogue=SHIPPED))
     lines = text.splitlines()
     assert [line.rsplit(",", 9)[0] for line in body.splitlines()[1:]] == lines[1:]
     assert ai.written_rows(inv)[0] is inv.records   # the file's own bytes, untouched

@@ -146,4 +146,5 @@ def run_fingerprint_document(project, run, version: str = __version__, *, catalo
 def run_fingerprint(project, run, version: str = __version__, *, catalogue) -> str:
     """SHA-256 (64 hex digits) of a run's design inputs, the project's rainfall, its candidates' catalogue entries
     and the program version (``catalogue``: the one the sheet was made with; required)."""
-    return hashlib.sha256(run_fingerprint_document(project, run, version, catalogue=catalogue).encode("ascii")).hexdigest()
+    document = run_fingerprint_document(project, run, version, catalogue=catalogue)
+    return hashlib.sha256(document.encode("ascii")).hexdigest()
