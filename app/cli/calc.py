@@ -91,11 +91,11 @@ def solve(args):
     try:
         return evaluate_channel(channel, catalogue), found
     except InputError as exc:
-        top = None
-        if exc.field == "bend_radius" and lining is not None:
-            top = evaluate_channel(replace(channel, bend_radius=None), catalogue).analysis.top_width
         if lining is None:
             raise
+        top = None
+        if exc.field == "bend_radius":   # the message quotes half the width of the same channel without its bend
+            top = evaluate_channel(replace(channel, bend_radius=None), catalogue).analysis.top_width
         raise explain(exc, units, top) from None
 
 
