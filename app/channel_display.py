@@ -20,13 +20,12 @@ import numpy as np
 import hydraulics as hy
 from hydraulics.curves import rating_curve, specific_energy
 from hydraulics.linings.roughness import relation_switch_depth
-from hydraulics.lining_comparison import compare_linings
 from hydraulics.stability import StabilityResult
 from hydraulics.units import UnitSystem
 from hydraulics.wording import in_units
 
 from .context import Context
-from .evaluate import comparison_choices, design_flow, evaluate_channel
+from .evaluate import comparison_choices, design_flow, evaluate_channel, lining_comparison
 from .files import tsv_cell
 from .inputs import INPUTS
 from .results import COMPARISON_FIELDS, PANEL_FIELDS, panel_field, rounded
@@ -183,8 +182,7 @@ def compare(channel: Channel, context: Context) -> tuple[list[ComparisonRow], st
     try:
         q, _tc, _w, _n = design_flow(channel)
         section = channel.build_section()
-        rows = compare_linings(section, q, channel.slope, choices, context.catalogue, bend_radius=channel.bend_radius,
-                               min_freeboard=channel.min_freeboard)
+        rows = lining_comparison(channel, context.catalogue, choices, section=section, flow=q)
     except (hy.InputError, hy.NoSolutionError) as exc:
         return [], describe_error(exc)[0]
     out = []

@@ -15,7 +15,7 @@ No Qt here.
 
 from __future__ import annotations
 
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, replace
 
 import hydraulics as hy
 from hydraulics import provenance, rational, validate
@@ -31,7 +31,8 @@ from .project import Channel
 from .verdicts import Verdict, verdict_of, with_tokens
 from .results import CHANNEL_FIELDS, convert, panel_field, rounded
 
-__all__ = ["ChannelDesign", "evaluate_channel", "load_default_catalogue", "design_flow"]
+__all__ = ["ChannelDesign", "evaluate_channel", "lining_comparison", "width_for_depth", "load_default_catalogue",
+           "design_flow"]
 
 
 def load_default_catalogue(user_path=None) -> Catalogue:
@@ -166,7 +167,7 @@ def comparison_choices(channel: Channel) -> list:
     return out
 
 
-def evaluate_channel(channel: Channel, catalogue: Catalogue | None = None) -> ChannelDesign:
+def evaluate_channel(channel: Channel, catalogue: Catalogue) -> ChannelDesign:
     """Design flow -> section -> uniform flow -> lining stability -> comparison, for one channel.
 
     Parameters
@@ -176,9 +177,9 @@ def evaluate_channel(channel: Channel, catalogue: Catalogue | None = None) -> Ch
         and is checked; without, ``channel.manning_n`` is used and there is no
         stability check. ``bend_radius`` and ``min_freeboard`` are passed on;
         ``alternatives`` are compared together with the channel's own lining.
-    catalogue : hydraulics.linings.Catalogue, optional
-        Where lining keys are looked up; default the shipped catalogue alone
-        (pass :func:`load_default_catalogue` with the user's file to include it).
+    catalogue : hydraulics.linings.Catalogue
+        Where lining keys are looked up: the front end's (``Context.catalogue``, the shipped one with the
+        user's file laid over it). Required, so that no path falls back to the shipped one unseen.
 
     Returns
     -------
@@ -197,8 +198,6 @@ def evaluate_channel(channel: Channel, catalogue: Catalogue | None = None) -> Ch
     stability = None
     comparison: list[ComparisonRow] = []
     if channel.lining is not None:
-        if catalogue is None:
-            catalogue = load_default_catalogue()
         lining = catalogue.get(channel.lining.key)
         stability = check_lining(section, q, channel.slope, lining, d50=channel.lining.d50,
                                  bend_radius=channel.bend_radius, min_freeboard=min_fb)
@@ -222,15 +221,66 @@ def evaluate_channel(channel: Channel, catalogue: Catalogue | None = None) -> Ch
     else:
         fb, se, wave, total, top = _ditch_depth(section, analysis, channel.bend_radius, min_fb, warns, notes)
     if channel.alternatives:
-        if catalogue is None:
-            catalogue = load_default_catalogue()
-        comparison = compare_linings(section, q, channel.slope, comparison_choices(channel), catalogue,
-                                     bend_radius=channel.bend_radius, min_freeboard=min_fb)
+        comparison = lining_comparison(channel, catalogue, section=section, flow=q)
     return ChannelDesign(channel=channel, flow=q, flow_method=channel.flow.method, time_of_concentration=tc,
                          section=section, analysis=analysis, stability=stability, freeboard=fb,
                          superelevation=se, wave_allowance=wave, total_depth=total, top_width_at_top=top,
                          comparison=comparison,
                          warnings=list(dict.fromkeys(warns)), notes=list(dict.fromkeys(notes)))
+
+
+def lining_comparison(channel: Channel, catalogue: Catalogue, choices=None, *, section: hy.Section | None = None,
+                      flow: float | None = None) -> list[ComparisonRow]:
+    """The channel's section, flow and slope with several linings: one row each (``ditchwright compare`` and the
+    comparison of :func:`evaluate_channel` alike).
+
+    ``choices``: the linings in the order wanted ((key, D50 [m]) pairs, "key[:D50]" or LiningChoice); None for
+    the channel's own lining then its alternatives, each once. The channel's bend radius and minimum freeboard
+    apply to every row (the HEC-15 default minimum when it has none). ``section`` and ``flow``: the channel's, when
+    the caller has them already. Rows as :func:`hydraulics.lining_comparison.compare_linings` makes them.
+    """
+    section = channel.build_section() if section is None else section
+    q = design_flow(channel)[0] if flow is None else flow
+    min_fb = hec15.MIN_FREEBOARD if channel.min_freeboard is None else channel.min_freeboard
+    return compare_linings(section, q, channel.slope, comparison_choices(channel) if choices is None else choices,
+                           catalogue, bend_radius=channel.bend_radius, min_freeboard=min_fb)
+
+
+#: Shapes whose bottom width :func:`width_for_depth` finds.
+WIDTH_SHAPES = ("trapezoid", "rectangle")
+
+
+def width_for_depth(channel: Channel, max_depth: float, catalogue: Catalogue) -> tuple[Channel, float]:
+    """The channel with the smallest bottom width [m] whose normal depth is at most ``max_depth`` [m], and that
+    width (``ditchwright calc --find bottom-width``).
+
+    ``channel.section`` names the shape ("trapezoid" or "rectangle") and, for a trapezoid, its side slopes; a
+    bottom width there is ignored. Manning's n is the lining's (from ``catalogue``, with its D50) or, without a
+    lining, ``channel.manning_n``. A width of 0 means a V-ditch of these side slopes already runs shallow
+    enough: the channel returned is then a triangle. The width itself is
+    :func:`hydraulics.bottom_width_for_depth`'s.
+    """
+    shape = channel.section.get("shape")
+    if shape not in WIDTH_SHAPES:
+        raise hy.InputError("section.shape", f"must be one of {', '.join(WIDTH_SHAPES)} to find a bottom width, "
+                                             f"got {shape!r}")
+    slopes = {k: channel.section[k] for k in ("side_slope", "left_slope", "right_slope")
+              if shape == "trapezoid" and channel.section.get(k) is not None}
+    q = design_flow(channel)[0]
+    if channel.lining is not None:
+        n = catalogue.get(channel.lining.key).roughness(channel.lining.d50)
+    elif channel.manning_n is not None:
+        n = channel.manning_n
+    else:
+        raise hy.InputError("manning_n", "is missing: give Manning's n or choose a lining")
+    found = hy.bottom_width_for_depth(q, channel.slope, n, max_depth, **slopes)
+    if found == 0.0:
+        section = hy.Triangle(**slopes)
+    elif shape == "rectangle":
+        section = hy.Rectangle(bottom_width=found)
+    else:
+        section = hy.Trapezoid(bottom_width=found, **slopes)
+    return replace(channel, section=section.to_dict()), found
 
 
 def _ditch_depth(section, analysis, bend_radius, min_fb, warns, notes):

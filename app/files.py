@@ -175,6 +175,31 @@ class FileChangedError(Exception):
 
 # -- text cells that a spreadsheet would run -----------------------------------------------------------------------
 
+#: Names a file may not have on Windows, whatever its extension.
+_RESERVED = {"CON", "PRN", "AUX", "NUL", *(f"COM{i}" for i in range(1, 10)), *(f"LPT{i}" for i in range(1, 10))}
+#: The longest stem :func:`safe_file_name` gives, well inside every file system's limit with a folder around it.
+MAX_STEM = 100
+
+
+def safe_file_name(name: str, suffix: str = "", fallback: str = "unnamed") -> str:
+    """``name`` as a file name on every system, then ``suffix``: the one rule of the design sheets' suggested name
+    and the drawings' files.
+
+    What the user typed is kept wherever file systems allow it (spaces and letters of any language included): a
+    colon becomes " - ", a run of the other characters Windows refuses (``\\ / * ? " < > |``, control characters)
+    one "-"; spaces, dots and dashes at either end go (Windows drops trailing dots and spaces, a leading dash
+    reads as an option), the stem is cut to :data:`MAX_STEM` characters, a device name of Windows (CON, COM1...)
+    gets a leading "_", and a name with nothing left is ``fallback``. ("Road 7: North ditch" -> "Road 7 - North
+    ditch", "a/b" -> "a-b", "CON" -> "_CON".)
+    """
+    safe = re.sub(r"\s*:\s*", " - ", name)
+    safe = re.sub(r'[\\/*?"<>|\x00-\x1f\x7f]+', "-", safe).strip(" .-")
+    safe = safe[:MAX_STEM].rstrip(" .-") or fallback
+    if safe.split(".")[0].strip().upper() in _RESERVED:
+        safe = "_" + safe
+    return safe + suffix
+
+
 #: The first characters that make a spreadsheet read a cell as a formula (or, for tab and carriage return, that let
 #: one slip past a check for the others), the usual list for CSV formula injection.
 FORMULA_STARTS = frozenset("=+-@\t\r")

@@ -18,7 +18,7 @@ from dataclasses import dataclass, field
 import hydraulics as hy
 from hydraulics import provenance, rational, travel_time
 from hydraulics.ditch_run import NORMAL_DEPTH_FIT, Bend, Candidate, DitchRun, RunResult, SectionRange, solve_run
-from hydraulics.linings import Catalogue, load_catalogue
+from hydraulics.linings import Catalogue
 from hydraulics.rainfall import idf_from_dict
 from hydraulics.run_inflow import PointInflow, SubArea
 from hydraulics.run_layout import StationRange
@@ -514,10 +514,10 @@ class RunDesign:
                 "not_verified": [in_units(n, units) for n in self.not_verified]}
 
 
-def design_run(project: Project, run: Run, catalogue: Catalogue | None = None) -> RunDesign:
-    """Solve one run of ``project`` with ``catalogue`` (default: the shipped one). Bad input raises
-    RunInputError naming the run and the item; hydraulics.NoSolutionError where no buildable schedule exists."""
-    catalogue = load_catalogue() if catalogue is None else catalogue
+def design_run(project: Project, run: Run, catalogue: Catalogue) -> RunDesign:
+    """Solve one run of ``project`` with ``catalogue`` (the front end's, with the user's entries; required). Bad
+    input raises RunInputError naming the run and the item; hydraulics.NoSolutionError where no buildable schedule
+    exists."""
     core, bases = build_run(project, run, catalogue)
     try:
         result = solve_run(core)

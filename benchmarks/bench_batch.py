@@ -118,7 +118,7 @@ def best(fn, repeat, cpu=None):
 
 def batch_end_to_end(src: Path, dst: Path):
     """What `ditchwright batch` does between reading its options and printing its summary (block by block)."""
-    return ai.check_file(src, dst, "us")
+    return ai.check_file(src, dst, "us", catalogue=_CATALOGUE)
 
 
 _CATALOGUE = load_catalogue()
@@ -199,7 +199,8 @@ def run(size, lined, sample, repeat, with_io, scalar_repeat=1, rounds=3):
         src, dst = Path(tmp) / "inventory.csv", Path(tmp) / "results.csv"
         make_inventory(src, size, lined=lined)
         batch_end_to_end(src, dst)
-        result = ai.evaluate(ai.read_inventory(src, "us"))   # the results per reach, to compare below
+        # the results per reach, to compare below
+        result = ai.evaluate(ai.read_inventory(src, "us"), catalogue=_CATALOGUE)
         with open(src, newline="") as fh:
             rows = list(csv.DictReader(fh))
         if sample and sample < len(rows):

@@ -18,6 +18,9 @@ import pickle
 import shutil
 import sys
 import traceback
+from app.context import Context
+
+SHIPPED = Context.load().catalogue   # the shipped lining catalogue alone
 
 
 def writers(kind: str, payload):
@@ -28,11 +31,11 @@ def writers(kind: str, payload):
     if kind == "sheet":
         from app.sheet import export_sheets
         project, names = payload
-        return lambda path, v: export_sheets(project, path, channels=[names[v]])
+        return lambda path, v: export_sheets(project, path, channels=[names[v]], catalogue=SHIPPED)
     if kind == "drawing":     # the channel's section drawing, NAME-section.dxf in the folder of ``path``
         from app.drawings import export_drawings
         return lambda path, v: export_drawings(payload[v], os.path.dirname(path),
-                                               channels=[payload[v].channels[0].name])
+                                               channels=[payload[v].channels[0].name], catalogue=SHIPPED)
     if kind == "inventory":
         from app.inventory import write_results
         return lambda path, v: write_results(path, *payload[v])

@@ -24,6 +24,9 @@ from app.main import main
 from hydraulics import many_reaches as mr
 from hydraulics import units as hu
 from inventory_rows import section_of, shape_fields
+from app.context import Context
+
+SHIPPED = Context.load().catalogue   # the shipped lining catalogue alone
 
 HEADER = list(ai.INPUT_COLUMNS)
 CASES = tomllib.loads((Path(__file__).parent / "data" / "published_cases.toml").read_text())["case"]
@@ -41,7 +44,7 @@ def csv_text(rows, header=HEADER):
 def check(text, units="us"):
     """(inventory, result, parsed results rows as dicts) for inventory CSV text."""
     inv = ai.parse_inventory(text, units)
-    res = ai.evaluate(inv)
+    res = ai.evaluate(inv, catalogue=SHIPPED)
     out = list(csv.DictReader(io.StringIO(ai.format_results(inv, res), newline="")))
     return inv, res, out
 
@@ -304,10 +307,11 @@ def test_pyarrow_and_python_readers_agree(monkeypatch, column):
     assert '"' not in text
     assert reading._parse_arrow(text.encode(), hu.system("us"), "inventory") is not None  # pyarrow reads this file
     fast = ai.parse_inventory(text, "us")
-    fast_text = ai.format_results(fast, ai.evaluate(fast))  # written by pyarrow from the file's own bytes
+    # written by pyarrow from the file's own bytes
+    fast_text = ai.format_results(fast, ai.evaluate(fast, catalogue=SHIPPED))
     monkeypatch.setattr(reading, "pyarrow_modules", lambda: None)
     slow = ai.parse_inventory(text, "us")
-    assert fast_text == ai.format_results(slow, ai.evaluate(slow))  # both written by Python
+    assert fast_text == ai.format_results(slow, ai.evaluate(slow, catalogue=SHIPPED))  # both written by Python
     for name in ("header", "header_text", "rows", "ids", "blank_lines"):
         assert getattr(fast, name) == getattr(slow, name), name
     np.testing.assert_array_equal(fast.lines, slow.lines)
@@ -316,7 +320,8 @@ def test_pyarrow_and_python_readers_agree(monkeypatch, column):
     for name in ("shape", "lining", "notes", "kind", "named"):
         assert getattr(fast.reaches, name).tolist() == getattr(slow.reaches, name).tolist(), name
     assert fast.reaches.unreadable.keys() == slow.reaches.unreadable.keys()
-    assert ai.format_results(fast, ai.evaluate(fast)) == ai.format_results(slow, ai.evaluate(slow))
+    assert ai.format_results(fast, ai.evaluate(fast, catalogue=SHIPPED)) == \
+        ai.format_results(slow, ai.evaluate(slow, catalogue=SHIPPED))
 
 
 @pytest.mark.parametrize("text", [
@@ -331,12 +336,12 @@ def test_pyarrow_and_python_readers_agree(monkeypatch, column):
 def test_files_the_pyarrow_reader_leaves_to_the_python_reader(monkeypatch, text):
     """Blank lines, ragged rows: the Python reader reports them (line numbers, reasons); CRLF is read alike."""
     fast = ai.parse_inventory(text, "si")
-    fast_text = ai.format_results(fast, ai.evaluate(fast))
+    fast_text = ai.format_results(fast, ai.evaluate(fast, catalogue=SHIPPED))
     monkeypatch.setattr(reading, "pyarrow_modules", lambda: None)
     slow = ai.parse_inventory(text, "si")
     assert (fast.rows, list(fast.lines), fast.blank_lines) == (slow.rows, list(slow.lines), slow.blank_lines)
     assert fast.reaches.notes.tolist() == slow.reaches.notes.tolist()
-    assert fast_text == ai.format_results(slow, ai.evaluate(slow))
+    assert fast_text == ai.format_results(slow, ai.evaluate(slow, catalogue=SHIPPED))
 
 
 def test_quoted_files_are_written_alike_by_pyarrow_and_python(monkeypatch, tmp_path):
@@ -346,7 +351,7 @@ def test_quoted_files_are_written_alike_by_pyarrow_and_python(monkeypatch, tmp_p
             'caf\u00e9,circle,,,,1.5,0.004,1,,,0.013,"two\nlines and ""quotes"""\n'
             'C,trapezoid,2,3,3,,0.004,-1,riprap,,,plain\n')
     inv = ai.parse_inventory(text, "us")
-    res = ai.evaluate(inv)
+    res = ai.evaluate(inv, catalogue=SHIPPED)
     path = tmp_path / "out.csv"
     ai.write_results(path, inv, res)
     by_arrow = path.read_bytes()
@@ -360,7 +365,7 @@ def test_quoted_files_are_written_alike_by_pyarrow_and_python(monkeypatch, tmp_p
 
 def _ir(text):
     inv = ai.parse_inventory(text, "us")
-    return inv, ai.evaluate(inv)
+    return inv, ai.evaluate(inv, catalogue=SHIPPED)
 
 
 def test_crlf_and_utf8_bom(tmp_path):
@@ -381,7 +386,7 @@ def test_ascii_bytes_and_text_read_alike(tmp_path):
     accented = tmp_path / "accented.csv"
     accented.write_text(csv_text([{**GOOD, "id": "foss\u00e9 1"}]), encoding="utf-8")
     inv = ai.read_inventory(accented, "us")
-    ai.write_results(tmp_path / "out.csv", inv, ai.evaluate(inv))
+    ai.write_results(tmp_path / "out.csv", inv, ai.evaluate(inv, catalogue=SHIPPED))
     assert "foss\u00e9 1," in (tmp_path / "out.csv").read_text(encoding="utf-8")
     with pytest.raises(ValueError, match="ASCII"):
         ai.parse_inventory("foss\u00e9".encode("utf-8"), "us")
@@ -644,7 +649,7 @@ def test_lining_errors():
 def test_window_helpers(tmp_path):
     src = tmp_path / "inv.csv"
     src.write_text(csv_text([GOOD, {**GOOD, "id": "bad", "flow": "-1"}]))
-    run = ai.run_inventory(src, "us")
+    run = ai.run_inventory(src, "us", catalogue=SHIPPED)
     columns, rows = run.table()
     assert columns == HEADER + list(ai.RESULT_COLUMNS)
     assert [r[columns.index("verdict")] for r in rows] == ["hydraulics-only", "invalid"]
@@ -667,7 +672,7 @@ def test_window_filters_and_import_into_a_project(tmp_path):
         {**GOOD, "id": "bad", "flow": "-1"}, {**GOOD, "id": "lined", "lining": "riprap", "d50": "0.5", "n": ""}]
     src = tmp_path / "inv.csv"
     src.write_text(csv_text(rows, HEADER + ["road"]))
-    run = ai.run_inventory(src, "us")
+    run = ai.run_inventory(src, "us", catalogue=SHIPPED)
     assert list(run.select(verdicts=["invalid"])) == [24]
     near = run.select(warnings=["near_critical"])
     assert all("near critical" in run.result.reason[i] for i in near)
@@ -711,7 +716,7 @@ def test_a_large_results_file_is_the_same_with_and_without_worker_threads(tmp_pa
     source = tmp_path / "big.csv"
     source.write_text(csv_text(rows, HEADER + ["road"]), encoding="utf-8")
     inv = ai.read_inventory(source, "us")
-    res = ai.evaluate(inv)
+    res = ai.evaluate(inv, catalogue=SHIPPED)
     monkeypatch.setattr(writing.os, "cpu_count", lambda: 2)
     ai.write_results(tmp_path / "threads.csv", inv, res)
     monkeypatch.setattr(writing.os, "cpu_count", lambda: 1)
@@ -735,7 +740,7 @@ def test_repeated_and_blank_ids_are_noted_and_every_row_checked(quoted):
     if quoted:
         rows.append({**GOOD, "id": "D", "road": "Route 9, east"})  # a comma in a field: the file quotes it
     inv = ai.parse_inventory(csv_text(rows, HEADER + ["road"]), "us")
-    res = ai.evaluate(inv)
+    res = ai.evaluate(inv, catalogue=SHIPPED)
     assert (res.verdict == "hydraulics-only").all()
     tally = ai.Tally.of(inv, res)
     assert tally.repeated_ids() == (2, "A") and tally.blank_ids == 2
@@ -744,7 +749,7 @@ def test_repeated_and_blank_ids_are_noted_and_every_row_checked(quoted):
     assert "2 ids appear more than once (first: 'A')" in text
     assert "2 rows have no id" in text
     unique = ai.parse_inventory(csv_text([{**GOOD, "id": f"U{i}"} for i in range(5)], HEADER), "us")
-    tally = ai.Tally.of(unique, ai.evaluate(unique))
+    tally = ai.Tally.of(unique, ai.evaluate(unique, catalogue=SHIPPED))
     assert tally.repeated_ids() == (0, None) and tally.blank_ids == 0
 
 
@@ -752,7 +757,7 @@ def test_group_notes_quote_the_inventory_units():
     # Riprap of 0.03 ft (9.1 mm) is below the 15 mm that HEC-15 Chapter 6 covers (verified).
     rows = [{**GOOD, "id": f"r{i}", "lining": "riprap", "n": "", "d50": d} for i, d in enumerate(["0.03", "0.04"])]
     inv = ai.parse_inventory(csv_text(rows, HEADER), "us")
-    res = ai.evaluate(inv)
+    res = ai.evaluate(inv, catalogue=SHIPPED)
     assert "lining 'riprap': D50 = 0.360 in is outside the 0.591 in to 21.7 in range" in res.messages[0]
     assert not any(" mm" in m for m in res.messages)
 

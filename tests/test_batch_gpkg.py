@@ -18,6 +18,9 @@ from app import inventory as ai
 from app.inventory import plots
 from app.main import main
 from test_batch_streaming import HEADER, mixed_rows, write_csv
+from app.context import Context
+
+SHIPPED = Context.load().catalogue   # the shipped lining catalogue alone
 
 UTM = "EPSG:32633"          # projected, metres
 STATE_PLANE_FT = "EPSG:2227"  # projected, US survey feet
@@ -88,8 +91,8 @@ def test_a_layer_gives_the_results_of_the_same_rows_as_csv(tmp_path, typed, rows
         rows = typed_rows(rows)
     write_csv(tmp_path / "inv.csv", rows)
     write_layer(tmp_path / "inv.gpkg", rows, invented_lines(len(rows)), typed=typed)
-    tally_csv = ai.check_file(tmp_path / "inv.csv", tmp_path / "from-csv.csv", rows=rows_a_block)
-    tally_gpkg = ai.check_file(tmp_path / "inv.gpkg", tmp_path / "from-gpkg.csv", rows=rows_a_block)
+    tally_csv = ai.check_file(tmp_path / "inv.csv", tmp_path / "from-csv.csv", rows=rows_a_block, catalogue=SHIPPED)
+    tally_gpkg = ai.check_file(tmp_path / "inv.gpkg", tmp_path / "from-gpkg.csv", rows=rows_a_block, catalogue=SHIPPED)
     assert tally_gpkg.counts() == tally_csv.counts()
     assert tally_csv.counts()["invalid"] >= 2 and tally_csv.counts()["stable"] >= 1
     a, b = results(tmp_path / "from-csv.csv"), results(tmp_path / "from-gpkg.csv")
@@ -100,7 +103,7 @@ def test_a_layer_gives_the_results_of_the_same_rows_as_csv(tmp_path, typed, rows
     # A problem row is named by its feature id (1, 2, ... in the layer's order) where the CSV names its line.
     assert [p[0] for p in tally_gpkg.problems] == [p[0] - 1 for p in tally_csv.problems]
     # The results layer holds the same numbers, unrounded, as numbers.
-    ai.check_file(tmp_path / "inv.gpkg", tmp_path / "out.gpkg", rows=rows_a_block)
+    ai.check_file(tmp_path / "inv.gpkg", tmp_path / "out.gpkg", rows=rows_a_block, catalogue=SHIPPED)
     _, table = layer_table(tmp_path / "out.gpkg")
     for column in ai.RESULT_COLUMNS:
         values = table.column(column).to_pylist()
@@ -146,7 +149,7 @@ def test_lengths_are_measured_in_the_layer_unit_and_given_in_the_inventory_units
     write_layer(tmp_path / "ft.gpkg", rows, lines, crs=STATE_PLANE_FT, typed=True)
     for units, expected in (("si", 1000 * US_SURVEY_FOOT), ("us", 1000 * US_SURVEY_FOOT / 0.3048)):
         target = tmp_path / f"out-{units}.csv"
-        ai.check_file(tmp_path / "ft.gpkg", target, units)
+        ai.check_file(tmp_path / "ft.gpkg", target, units, catalogue=SHIPPED)
         assert [float(r["length"]) for r in results(target)] == pytest.approx([expected] * len(rows), abs=6e-4)
 
 
@@ -154,7 +157,7 @@ def test_a_length_column_of_the_layer_is_kept_and_a_layer_in_degrees_is_then_rea
     rows = [dict(r, length="123.5") for r in typed_rows(mixed_rows(40)[:8])]
     lines = [shapely.LineString([(15.0, 48.0), (15.001, 48.001)])] * len(rows)
     write_layer(tmp_path / "geo.gpkg", rows, lines, crs="EPSG:4326", columns=HEADER + ["length"], typed=True)
-    ai.check_file(tmp_path / "geo.gpkg", tmp_path / "out.csv")
+    ai.check_file(tmp_path / "geo.gpkg", tmp_path / "out.csv", catalogue=SHIPPED)
     assert {r["length"] for r in results(tmp_path / "out.csv")} == {"123.5"}
 
 
@@ -164,7 +167,7 @@ def test_csv_in_geopackage_out_and_back(tmp_path):
     rows = mixed_rows(40)
     write_csv(tmp_path / "inv.csv", rows)
     assert main(["batch", str(tmp_path / "inv.csv"), "-o", str(tmp_path / "out.gpkg"), "--no-progress"]) == 1
-    ai.check_file(tmp_path / "inv.csv", tmp_path / "out.csv")
+    ai.check_file(tmp_path / "inv.csv", tmp_path / "out.csv", catalogue=SHIPPED)
     info = pyogrio.read_info(tmp_path / "out.gpkg")
     assert info["layer_name"] == "inv" and info["geometry_type"] is None
     _, table = layer_table(tmp_path / "out.gpkg")
@@ -231,7 +234,7 @@ def test_layers_are_chosen_by_name(tmp_path, capsys):
 def test_a_refused_inventory_leaves_the_old_results_layer(tmp_path, capsys):
     rows = typed_rows(mixed_rows(40)[:5])
     write_layer(tmp_path / "inv.gpkg", rows, invented_lines(5))
-    ai.check_file(tmp_path / "inv.gpkg", tmp_path / "out.gpkg")
+    ai.check_file(tmp_path / "inv.gpkg", tmp_path / "out.gpkg", catalogue=SHIPPED)
     before = (tmp_path / "out.gpkg").read_bytes()
     write_layer(tmp_path / "bad.gpkg", rows, invented_lines(5), columns=[c for c in HEADER if c != "slope"])
     assert main(["batch", str(tmp_path / "bad.gpkg"), "-o", str(tmp_path / "out.gpkg"), "--no-progress"]) == 2
@@ -267,7 +270,7 @@ def test_the_map_legend_says_each_verdict_in_words_with_its_reaches_and_length(t
     lines = [shapely.LineString([(500_000 + 300 * i, 5_000_000), (500_000 + 300 * i + 100, 5_000_000)])
              for i in range(len(rows))]   # 100 m each
     write_layer(tmp_path / "inv.gpkg", rows, lines)
-    tally = ai.check_file(tmp_path / "inv.gpkg", tmp_path / "out.csv", "si", rows=7)
+    tally = ai.check_file(tmp_path / "inv.gpkg", tmp_path / "out.csv", "si", rows=7, catalogue=SHIPPED)
     with rc_context({"svg.fonttype": "none"}):
         plots.plot_map(tally.lines, tally.counts(), tmp_path / "map.svg")
     svg = (tmp_path / "map.svg").read_text(encoding="utf-8")
@@ -289,7 +292,8 @@ def test_a_layer_is_read_in_blocks_with_progress_by_features(tmp_path):
     assert [b.features.num_rows for b in blocks] == [15, 15, 10]
     assert np.concatenate([b.lines for b in blocks]).tolist() == list(range(1, 41))   # feature ids
     seen = []
-    ai.check_file(tmp_path / "inv.gpkg", tmp_path / "out.gpkg", rows=15, progress=lambda d, t: seen.append((d, t)))
+    ai.check_file(tmp_path / "inv.gpkg", tmp_path / "out.gpkg", rows=15, progress=lambda d, t: seen.append((d, t)),
+                  catalogue=SHIPPED)
     assert seen == [(15, 40), (30, 40), (40, 40)]
 
 

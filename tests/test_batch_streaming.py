@@ -11,6 +11,9 @@ import pytest
 from app import inventory as ai
 from app.inventory import reading, writing
 from app.main import main
+from app.context import Context
+
+SHIPPED = Context.load().catalogue   # the shipped lining catalogue alone
 
 HEADER = list(ai.INPUT_COLUMNS) + ["road"]
 
@@ -72,7 +75,7 @@ def write_csv(path, rows, quoted=False, line_end="\n", blank_lines=(), ragged=No
 
 def whole_file(path, target, units="us"):
     inventory = ai.read_inventory(path, units)
-    result = ai.evaluate(inventory)
+    result = ai.evaluate(inventory, catalogue=SHIPPED)
     ai.write_results(target, inventory, result)
     return inventory, result
 
@@ -88,7 +91,7 @@ def test_streamed_results_are_the_bytes_of_the_whole_file(tmp_path, kind, rows):
     source = tmp_path / "inv.csv"
     write_csv(source, mixed_rows(300), **FILES[kind])
     inventory, result = whole_file(source, tmp_path / "whole.csv")
-    tally = ai.check_file(source, tmp_path / "streamed.csv", rows=rows, problems=10)
+    tally = ai.check_file(source, tmp_path / "streamed.csv", rows=rows, problems=10, catalogue=SHIPPED)
     assert (tmp_path / "streamed.csv").read_bytes() == (tmp_path / "whole.csv").read_bytes()
     assert tally.counts() == result.counts() and len(tally) == len(inventory) == 300
     assert tally.problems == ai.problem_rows(inventory, result)[:10]
@@ -119,7 +122,7 @@ def test_a_bad_byte_late_in_the_file_leaves_the_old_results(tmp_path):
     source.write_bytes(source.read_bytes() + "Z1,trapezoid,2,3,3,,0.004,20,,,0.03,Foss\u00e9\n".encode("cp1252"))
     target.write_text("old results\n", encoding="utf-8")
     with pytest.raises(ai.InventoryError, match=f"{source}:202: not UTF-8 text"):
-        ai.check_file(source, target, rows=20)
+        ai.check_file(source, target, rows=20, catalogue=SHIPPED)
     assert target.read_text(encoding="utf-8") == "old results\n"
     assert sorted(p.name for p in tmp_path.iterdir()) == ["inv.csv", "out.csv"]
 
@@ -138,7 +141,7 @@ def test_a_block_that_cannot_be_written_leaves_the_old_results(tmp_path, monkeyp
         return pieces(*args)
     monkeypatch.setattr(writing, "_results_pieces", failing)
     with pytest.raises(OSError, match="No space"):
-        ai.check_file(source, target, rows=30)
+        ai.check_file(source, target, rows=30, catalogue=SHIPPED)
     assert target.read_text(encoding="utf-8") == "old results\n"
     assert sorted(p.name for p in tmp_path.iterdir()) == ["inv.csv", "out.csv"]
 
@@ -147,14 +150,14 @@ def test_an_empty_file_is_refused_before_anything_is_written(tmp_path):
     source, target = tmp_path / "inv.csv", tmp_path / "out.csv"
     source.write_text("\n\n", encoding="utf-8")
     with pytest.raises(ai.InventoryError, match="the file is empty"):
-        ai.check_file(source, target)
+        ai.check_file(source, target, catalogue=SHIPPED)
     assert not target.exists()
 
 
 def test_a_header_only_file_gives_a_header_only_results_file(tmp_path):
     source, target = tmp_path / "inv.csv", tmp_path / "out.csv"
     source.write_text(",".join(HEADER) + "\n", encoding="utf-8")
-    tally = ai.check_file(source, target)
+    tally = ai.check_file(source, target, catalogue=SHIPPED)
     assert len(tally) == 0 and target.read_text(encoding="utf-8").startswith(",".join(HEADER) + ",normal_depth")
 
 

@@ -13,6 +13,9 @@ from app import project as pj
 from app.main import main
 from app.run_design import design_run
 from hydraulics.units import FOOT, US
+from app.context import Context
+
+SHIPPED = Context.load().catalogue   # the shipped lining catalogue alone
 
 STATION_KEYS = {"station", "invert", "slope", "ca", "tc", "intensity", "flow", "shape", "dimensions", "ditch_depth",
                 "manning_n", "normal_depth", "critical_depth", "water_depth", "water_surface", "velocity", "froude",
@@ -44,7 +47,7 @@ def test_json_layout_in_us_units(capsys):
     assert run["total_cost"] == pytest.approx(sum(s["cost"] for s in run["schedule"]))
     # the same answer as the application layer, converted
     project = pj.load(pj.demo_path())
-    design = design_run(project, project.runs[0])
+    design = design_run(project, project.runs[0], catalogue=SHIPPED)
     assert run["total_cost"] == pytest.approx(design.result.total_cost)
     p = design.result.points[-1]
     assert run["stations"][-1]["water_depth"] == pytest.approx(design.surface.depth[-1] / FOOT)
@@ -62,7 +65,7 @@ def test_text_summary_and_csv(capsys, tmp_path):
     rows = list(csv.reader(out_csv.open(encoding="utf-8")))
     assert rows[0][0] == "run" and "flow [m^3/s]" in rows[0]
     project = pj.load(pj.demo_path())
-    design = design_run(project, project.runs[0])
+    design = design_run(project, project.runs[0], catalogue=SHIPPED)
     assert len(rows) == 1 + len(design.result.points)
     assert rows[1][1] == "0+000.00" and rows[-1][1] == "0+700.00"
 

@@ -18,6 +18,9 @@ from app import project
 from app.main import UNEXPECTED_STATUS, main
 from hydraulics import units as hu
 from hydraulics import validate as hv
+from app.context import Context
+
+SHIPPED = Context.load().catalogue   # the shipped lining catalogue alone
 
 US_TRAP = ["--bottom-width", "2", "--side-slope", "3", "--slope", "0.004"]
 
@@ -160,7 +163,7 @@ def test_an_inventory_row_with_a_degenerate_number_is_invalid(change, message):
     for row in (GOOD, {**GOOD, **change, "id": "bad"}):
         w.writerow([row.get(c, "") for c in header])
     inv = ai.parse_inventory(buf.getvalue(), "us")
-    res = ai.evaluate(inv)
+    res = ai.evaluate(inv, catalogue=SHIPPED)
     out = list(csv.DictReader(io.StringIO(ai.format_results(inv, res), newline="")))
     assert out[0]["verdict"] == "hydraulics-only"
     assert out[1]["verdict"] == "invalid" and message in out[1]["reason"], out[1]["reason"]

@@ -34,7 +34,7 @@ IDF = IdfTable(DURATIONS, [10.0], (2.0e-4 * DURATIONS ** -0.7)[:, None])   # inv
 @pytest.fixture(scope="module")
 def demo():
     project = pj.load(pj.demo_path())
-    return project, design_run(project, project.runs[0])
+    return project, design_run(project, project.runs[0], catalogue=CAT)
 
 
 def test_every_station_is_the_one_channel_answer(demo):
@@ -160,15 +160,15 @@ def test_bad_run_input_names_the_run_and_the_item():
     run = project.runs[0]
     run.candidates[0].key = "no_such_lining"
     with pytest.raises(RunInputError, match=r'runs\[0\] "North verge ditch": candidates\[0\].key'):
-        design_run(project, run)
+        design_run(project, run, catalogue=CAT)
     project = pj.load(pj.demo_path())
     project.runs[0].sections[1].from_station = 340.0
     with pytest.raises(RunInputError, match="gap from 0\\+330.00 to 0\\+340.00"):
-        design_run(project, project.runs[0])
+        design_run(project, project.runs[0], catalogue=CAT)
     project = pj.load(pj.demo_path())
     project.runs[0].sub_areas[0].to_station = 900.0
     with pytest.raises(RunInputError, match=r"sub_areas\[0\].to_station: must lie on the run"):
-        design_run(project, project.runs[0])
+        design_run(project, project.runs[0], catalogue=CAT)
 
 
 def test_stretches_are_named_once_each_in_one_message():

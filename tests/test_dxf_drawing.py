@@ -21,11 +21,15 @@ import ezdxf
 import pytest
 
 from app import project as pj
-from app.drawings import export_drawings, make_drawings, safe_file_name
+from app.drawings import export_drawings, make_drawings
+from app.files import safe_file_name
 from app.evaluate import evaluate_channel
 from app.main import main
 from app.run_design import design_run
 from hydraulics.units import FOOT, SI, US
+from app.context import Context
+
+SHIPPED = Context.load().catalogue   # the shipped lining catalogue alone
 
 #: $INSUNITS codes (the DXF reference's header variable "INSUNITS", table of values).
 INSUNITS_FEET, INSUNITS_METRES = 2, 6
@@ -59,7 +63,7 @@ def project(tmp_path_factory):
 @pytest.fixture(scope="module", params=["us", "si"])
 def written(request, project, tmp_path_factory):
     out = tmp_path_factory.mktemp(f"dxf-{request.param}")
-    return request.param, export_drawings(project, out, units=request.param)
+    return request.param, export_drawings(project, out, units=request.param, catalogue=SHIPPED)
 
 
 def _units(key):
@@ -87,7 +91,7 @@ def test_every_file_passes_the_audit_reads_back_and_has_the_units(written, proje
 
 def test_section_layers_hold_what_they_are_named_for(written):
     _, paths = written
-    doc = ezdxf.readfile(next(p for p in paths if p.name == "East_verge_ditch-section.dxf"))
+    doc = ezdxf.readfile(next(p for p in paths if p.name == "East verge ditch-section.dxf"))
     msp = doc.modelspace()
     layers = {e.dxf.layer for e in msp}
     assert {"GROUND", "DITCH-OUTLINE", "LINING", "WATER", "WATER-SURFACE", "CRITICAL-DEPTH", "DIMENSIONS",
@@ -102,7 +106,7 @@ def test_the_section_spans_the_top_width_at_the_top_of_the_ditch(written, projec
     by_name = {p.name: p for p in paths}
     checked = 0
     for ch in project.channels:
-        design = evaluate_channel(ch)
+        design = evaluate_channel(ch, catalogue=SHIPPED)
         pts = _ditch_outline(ezdxf.readfile(by_name[safe_file_name(ch.name, "-section.dxf")]))
         xs, ys = [p[0] for p in pts], [p[1] for p in pts]
         if design.section.kind == "circle":   # a pipe is drawn as its ring: its extents are the diameter
@@ -130,7 +134,7 @@ def test_each_dimension_measures_the_designed_value(written, project):
     k = 1 / FOOT if key == "us" else 1.0
     by_name = {p.name: p for p in paths}
     for ch in project.channels:
-        design = evaluate_channel(ch)
+        design = evaluate_channel(ch, catalogue=SHIPPED)
         sec = design.section
         if sec.kind in ("circle", "irregular"):
             continue
@@ -196,28 +200,33 @@ def test_the_profile_lines_of_the_water_are_told_apart(written, project):
 
 
 def test_a_lining_stretch_is_a_band_per_schedule_line(project):
-    (drawing,) = make_drawings(project, runs=[project.runs[0].name], units="si")
+    (drawing,) = make_drawings(project, runs=[project.runs[0].name], units="si", catalogue=SHIPPED)
     msp = drawing.document.modelspace()
     bands = [e for e in msp.query("LWPOLYLINE") if e.dxf.layer == "LINING-STRETCHES"]
-    design = design_run(project, project.runs[0])
+    design = design_run(project, project.runs[0], catalogue=SHIPPED)
     spans = sorted((min(q.start, q.end), max(q.start, q.end)) for q in design.result.quantities)
     drawn = sorted((min(p[0] for p in b.get_points()), max(p[0] for p in b.get_points())) for b in bands)
     assert [v for span in drawn for v in span] == pytest.approx([v for span in spans for v in span])
 
 
 def test_safe_file_names():
-    assert safe_file_name("East verge ditch", ".dxf") == "East_verge_ditch.dxf"
-    assert safe_file_name("a/b:c*d?", ".dxf") == "a_b_c_d.dxf"
+    """The one rule of app.files, for drawings and the sheet's suggested name alike. The characters refused
+    (< > : " / \\ | ? *), the device names reserved with any extension (CON ... LPT9; "NUL.txt is equivalent to NUL")
+    and no trailing space or period: Microsoft, "Naming Files, Paths, and Namespaces" (Win32 documentation)."""
+    assert safe_file_name("East verge ditch", ".dxf") == "East verge ditch.dxf"
+    assert safe_file_name("a/b:c*d?", ".dxf") == "a-b - c-d.dxf"
     assert safe_file_name("../..", ".dxf") == "unnamed.dxf"
-    assert safe_file_name("CON", ".dxf") == "_CON.dxf"
+    assert safe_file_name("CON", ".dxf") == "_CON.dxf" and safe_file_name("lpt1.x", ".dxf") == "_lpt1.x.dxf"
+    assert safe_file_name("Fossé nord. ", ".dxf") == "Fossé nord.dxf"        # letters of any language kept
+    assert safe_file_name("x" * 300, ".dxf") == "x" * 100 + ".dxf"
 
 
 def test_names_alike_once_made_safe_get_numbered(project):
     data = project.to_dict()
-    data["channels"] = [dict(data["channels"][0], name="Ditch A/B"), dict(data["channels"][0], name="Ditch A:B")]
+    data["channels"] = [dict(data["channels"][0], name="Ditch A/B"), dict(data["channels"][0], name="ditch a*b")]
     data["runs"] = []
-    names = [d.file_name for d in make_drawings(pj.Project.from_dict(data))]
-    assert names == ["Ditch_A_B-section.dxf", "Ditch_A_B_2-section.dxf"]
+    names = [d.file_name for d in make_drawings(pj.Project.from_dict(data), catalogue=SHIPPED)]
+    assert names == ["Ditch A-B-section.dxf", "ditch a-b_2-section.dxf"]
 
 
 def _cli(capsys, *args):
@@ -232,16 +241,16 @@ def test_the_command_writes_the_chosen_files(capsys, tmp_path):
                           "Farm crossing pipe", "--run", "North verge ditch", "--units", "us")
     assert code == 0 and err == ""
     names = sorted(p.name for p in (tmp_path / "a").iterdir())
-    assert names == ["East_verge_ditch-section.dxf", "Farm_crossing_pipe-section.dxf",
-                     "North_verge_ditch-profile.dxf"]
+    assert names == ["East verge ditch-section.dxf", "Farm crossing pipe-section.dxf",
+                     "North verge ditch-profile.dxf"]
     assert out.splitlines() == [f"wrote {tmp_path / 'a' / n}" for n in (
-        "East_verge_ditch-section.dxf", "Farm_crossing_pipe-section.dxf", "North_verge_ditch-profile.dxf")]
+        "East verge ditch-section.dxf", "Farm crossing pipe-section.dxf", "North verge ditch-profile.dxf")]
     assert ezdxf.readfile(tmp_path / "a" / names[0]).header["$INSUNITS"] == INSUNITS_FEET
     code, out, err = _cli(capsys, demo, "--out", tmp_path / "b")   # every channel and run, the project's units
     assert code == 0
     project = pj.load(demo)
     assert len(list((tmp_path / "b").iterdir())) == len(project.channels) + len(project.runs)
-    assert ezdxf.readfile(tmp_path / "b" / "North_verge_ditch-profile.dxf").header["$INSUNITS"] == (
+    assert ezdxf.readfile(tmp_path / "b" / "North verge ditch-profile.dxf").header["$INSUNITS"] == (
         INSUNITS_METRES if project.units == "si" else INSUNITS_FEET)
 
 

@@ -20,6 +20,9 @@ from hydraulics.linings import hec15, load_catalogue
 from hydraulics.stability import check_lining
 from hydraulics.units import SI, US
 from hydraulics.wording import in_units
+from app.context import Context
+
+SHIPPED = Context.load().catalogue   # the shipped lining catalogue alone
 
 TRAPEZOID = {"shape": "trapezoid", "bottom_width": 0.6, "left_slope": 3.0, "right_slope": 3.0}
 
@@ -63,15 +66,15 @@ def test_supercritical_flow_in_a_bend_is_cautioned_for_every_channel():
     assert any("cross waves" in w for w in top.warnings)
     unlined = evaluate_channel(Channel(flow=FlowBasis(value=1.13), slope=0.05, manning_n=0.015, bend_radius=20.0,
                                        section={"shape": "trapezoid", "bottom_width": 0.6, "left_slope": 2.0,
-                                                "right_slope": 2.0}))
+                                                "right_slope": 2.0}), catalogue=SHIPPED)
     assert any("cross waves" in w for w in unlined.warnings)
 
 
 def test_lined_and_unlined_channels_word_the_rule_alike():
     unlined = evaluate_channel(Channel(flow=FlowBasis(value=0.8), slope=0.004, manning_n=0.03, bend_radius=12.0,
-                                       section=TRAPEZOID))
+                                       section=TRAPEZOID), catalogue=SHIPPED)
     lined = evaluate_channel(Channel(flow=FlowBasis(value=0.8), slope=0.004, lining=LiningChoice("concrete"),
-                                     bend_radius=12.0, section=TRAPEZOID))
+                                     bend_radius=12.0, section=TRAPEZOID), catalogue=SHIPPED)
     for design in (unlined, lined):
         (note,) = [n for n in design.notes if n.startswith("freeboard: ")]
         assert note == "freeboard: " + freeboard_rule(hec15.MIN_FREEBOARD, design.superelevation,
@@ -103,7 +106,7 @@ def test_the_core_check_uses_the_same_ditch_top():
 def test_an_unlined_pipe_warns_in_the_projects_units():
     """The window, sheet and command line restate the one worded warning; none prints metres in a US project."""
     design = evaluate_channel(Channel(flow=FlowBasis(value=0.25), slope=0.0015, manning_n=0.013,
-                                      section={"shape": "circle", "diameter": 0.6}))
+                                      section={"shape": "circle", "diameter": 0.6}), catalogue=SHIPPED)
     (warning,) = [w for w in design.warnings if "not deep enough for the freeboard" in w]
     us = in_units(warning, US)
     assert " ft" in us and " m)" not in us and " m " not in us
@@ -131,7 +134,7 @@ def test_supercritical_flow_raises_the_freeboard_to_the_flow_depth():
 def test_unlined_supercritical_channel_gets_the_same_rule():
     design = evaluate_channel(Channel(flow=FlowBasis(value=1.13), slope=0.05, manning_n=0.015,
                                       section={"shape": "trapezoid", "bottom_width": 0.6, "left_slope": 2.0,
-                                               "right_slope": 2.0}))
+                                               "right_slope": 2.0}), catalogue=SHIPPED)
     y = design.analysis.normal_depth
     assert design.analysis.froude > 1 and y > hec15.MIN_FREEBOARD
     assert design.freeboard == y == design.wave_allowance

@@ -20,6 +20,9 @@ from app.landxml_import import LandXMLError, import_landxml
 from hydraulics.errors import HydraulicsError
 from hydraulics.linings import load_catalogue
 from hydraulics.linings.catalogue import CatalogueError
+from app.context import Context
+
+SHIPPED = Context.load().catalogue   # the shipped lining catalogue alone
 
 BUDGET = settings(max_examples=150, deadline=None, suppress_health_check=[HealthCheck.too_slow,
                                                                          HealthCheck.function_scoped_fixture])
@@ -136,8 +139,8 @@ def test_the_undamaged_files_are_read():
     (road / "road.xml").write_text(LANDXML, encoding="utf-8")
     report = import_landxml(road / "road.xml", road / "road.json")
     assert len(P.load(road / "road.json").runs) == 2 and len(report.imported) == 2
-    assert ai.evaluate(ai.parse_inventory(INVENTORY, "us")).verdict.tolist() == ["hydraulics-only", "non-erodible",
-                                                                                  "stable"]
+    checked = ai.evaluate(ai.parse_inventory(INVENTORY, "us"), catalogue=SHIPPED)
+    assert checked.verdict.tolist() == ["hydraulics-only", "non-erodible", "stable"]
 
 
 @BUDGET
@@ -148,7 +151,7 @@ def test_inventory_reader_refuses_cleanly_or_checks_every_row(text, units):
     except ai.InventoryError as exc:
         assert str(exc)
         return
-    result = ai.evaluate(inventory)
+    result = ai.evaluate(inventory, catalogue=SHIPPED)
     assert len(result.verdict) == len(inventory)
     assert set(result.verdict.tolist()) <= {"stable", "unstable", "non-erodible", "hydraulics-only", "not-checked",
                                             "no-solution", "invalid"}

@@ -20,6 +20,9 @@ from app.main import main
 from hydraulics import many_reaches as mr
 from hydraulics import units as hu
 from hydraulics.sections import SHAPE_DIMENSIONS
+from app.context import Context
+
+CONTEXT = Context.load()   # the shipped lining catalogue alone, US units
 
 SCHEMA = json.loads((Path(__file__).parents[1] / "resources" / "project.schema.json").read_text(encoding="utf-8"))
 DEFS = SCHEMA["$defs"]
@@ -223,7 +226,7 @@ def input_panel(qtbot, request):
 
     project = pj.loads(pj.demo_path().read_text(encoding="utf-8"))
     project.units = request.param
-    panel = InputPanel(ProjectDocument(project))
+    panel = InputPanel(ProjectDocument(project, context=CONTEXT))
     qtbot.addWidget(panel)
     return panel
 

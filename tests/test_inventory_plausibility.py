@@ -14,6 +14,9 @@ import pytest
 from app import inventory as ai
 from app.inventory.plausibility import USUAL, units_finding
 from app.main import main
+from app.context import Context
+
+SHIPPED = Context.load().catalogue   # the shipped lining catalogue alone
 
 HEADER = "id,shape,bottom_width,left_slope,right_slope,diameter,slope,flow,lining,d50,n\n"
 #: Invented reaches as typed in feet and ft^3/s (widths 2 to 4 ft, a 1.5 ft pipe, 6 to 30 ft^3/s).
@@ -87,7 +90,7 @@ def test_the_batch_command_refuses_a_mixed_inventory_unless_its_units_are_checke
 def test_impossible_values_are_refused_by_the_check_and_left_out_of_the_median():
     text = IN_FEET + "E,trapezoid,-3,3,3,,0.01,0,,,0.03\nF,rectangle,0,,,,0.01,-5,,,0.03\n"
     inventory = ai.parse_inventory(text, "us")
-    result = ai.evaluate(inventory)
+    result = ai.evaluate(inventory, catalogue=SHIPPED)
     assert list(result.verdict[-2:]) == ["invalid", "invalid"]
     assert "bottom_width: must be >= 0" in result.reason[-2] and "flow: must be > 0" in result.reason[-2]
     assert "bottom_width: must be > 0" in result.reason[-1]

@@ -30,6 +30,9 @@ from app import project as pj
 from app import files
 
 import kill_writer
+from app.context import Context
+
+SHIPPED = Context.load().catalogue   # the shipped lining catalogue alone
 
 KILLS = 50
 pytestmark = pytest.mark.skipif(sys.platform != "linux", reason="fork and SIGKILL as on Linux")
@@ -176,7 +179,7 @@ def test_drawing_export(tmp_path):
         projects[v].channels[0].section["bottom_width"] = width
         projects[v].runs = []
     write = kill_writer.writers("drawing", projects)
-    (name,) = [d.file_name for d in make_drawings(projects[0])]
+    (name,) = [d.file_name for d in make_drawings(projects[0], catalogue=SHIPPED)]
     versions = {}
     for v in (0, 1):
         probe = tmp_path / f"_probe{v}"
@@ -205,7 +208,7 @@ def test_inventory_results(tmp_path):
     source.write_text("\n".join(rows) + "\n")
     inventory = read_inventory(source, "si")
     other = read_inventory(source, "us")     # the second version: the same file read in US units
-    checked = {0: (inventory, evaluate(inventory)), 1: (other, evaluate(other))}
+    checked = {0: (inventory, evaluate(inventory, catalogue=SHIPPED)), 1: (other, evaluate(other, catalogue=SHIPPED))}
     write = kill_writer.writers("inventory", checked)
     versions = {}
     for v in (0, 1):

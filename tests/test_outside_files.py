@@ -11,6 +11,9 @@ from app import inventory as ai
 from app.inventory import plots
 from app import project as pj
 from app.main import main
+from app.context import Context
+
+SHIPPED = Context.load().catalogue   # the shipped lining catalogue alone
 
 US_TRAP = ["--flow", "20", "--bottom-width", "2", "--side-slope", "3", "--slope", "0.004"]
 HEADER = ",".join(ai.INPUT_COLUMNS)
@@ -79,7 +82,7 @@ def test_a_plot_that_fails_half_way_leaves_the_old_plot_whole(tmp_path, monkeypa
     """The plot is replaced in one step like every file the program writes (README "Files: what is guaranteed"):
     a drawing that fails after some bytes leaves the earlier plot as it was, and no temporary file."""
     from matplotlib.figure import Figure
-    result = ai.evaluate(ai.parse_inventory(f"{HEADER}\n{ROW}\n", "us"))
+    result = ai.evaluate(ai.parse_inventory(f"{HEADER}\n{ROW}\n", "us"), catalogue=SHIPPED)
     path = tmp_path / f"plot{suffix}"
     plots.plot_summary(result, path)
     old = path.read_bytes()
@@ -108,7 +111,7 @@ def test_a_byte_that_is_not_utf8_names_the_line_and_the_encoding(tmp_path):
 def test_a_row_of_a_million_fields_gets_a_short_reason():
     text = f"{HEADER}\n{ROW}\n{ROW.replace('a,', 'b,', 1)}{',x' * 1_000_000}\n{ROW.replace('a,', 'c,', 1)},{'y' * 10_000}\n"
     inv = ai.parse_inventory(text, "us")
-    res = ai.evaluate(inv)
+    res = ai.evaluate(inv, catalogue=SHIPPED)
     reasons = list(res.reason)
     assert len(reasons[1]) < 300 and "1,000,011 fields" in reasons[1] and "1,000,000 extra fields were dropped" in reasons[1]
     assert len(reasons[2]) < 300 and "'yyyy" in reasons[2] and "dropped" in reasons[2]
@@ -117,7 +120,7 @@ def test_a_row_of_a_million_fields_gets_a_short_reason():
 
 def test_a_few_short_extra_fields_are_still_kept_in_the_reason():
     inv = ai.parse_inventory(f"{HEADER}\n{ROW},note one,note two\n", "us")
-    assert "'note one', 'note two' are kept only in this reason" in ai.evaluate(inv).reason[0]
+    assert "'note one', 'note two' are kept only in this reason" in ai.evaluate(inv, catalogue=SHIPPED).reason[0]
 
 
 def test_a_project_file_with_a_byte_order_mark_opens(tmp_path):
@@ -141,7 +144,8 @@ def test_a_carriage_return_inside_a_quoted_field_stays_in_its_record():
         text = head + end + 'A,trapezoid,2,3,3,,0.004,20,,,0.03,"x\ry"' + end + row_b + end
         inventory = ai.parse_inventory(text, "us")
         assert len(inventory) == 2, repr(end)
-        out = list(csv.DictReader(io.StringIO(ai.format_results(inventory, ai.evaluate(inventory)), newline="")))
+        text = ai.format_results(inventory, ai.evaluate(inventory, catalogue=SHIPPED))
+        out = list(csv.DictReader(io.StringIO(text, newline="")))
         assert [r["id"] for r in out] == ["A", "B"] and out[0]["note"] == "x\ry" and out[1]["note"] == "z"
         assert out[0]["verdict"] == out[1]["verdict"] == "hydraulics-only"
     # an unquoted file with old-style carriage-return line ends is still read line by line

@@ -19,6 +19,9 @@ from app.main import main
 from app.sheet import export_sheets
 from hydraulics.linings import load_catalogue
 from hydraulics.stability import check_lining
+from app.context import Context
+
+SHIPPED = Context.load().catalogue   # the shipped lining catalogue alone
 
 # An invented steep concrete chute: Froude number about 3.4 (supercritical).
 STEEP = dict(shape="trapezoid", bottom_width=0.6, side_slope=2.0)
@@ -81,11 +84,11 @@ def test_window_evaluation_and_sheet_carry_the_caution(tmp_path):
     ch = P.Channel(name="Steep chute (invented)", flow=P.FlowBasis(value=FLOW), slope=SLOPE,
                    section={"shape": "trapezoid", "bottom_width": 0.6, "left_slope": 2.0, "right_slope": 2.0},
                    lining=P.LiningChoice("concrete", None), manning_n=None)
-    design = evaluate_channel(ch)  # what the window shows
+    design = evaluate_channel(ch, catalogue=SHIPPED)  # what the window shows
     assert len(_supercritical(design.warnings)) == 1
     proj = P.Project(name="Invented chute", units="si", channels=[ch])
     path = Path(tmp_path) / "chute.pdf"
-    export_sheets(proj, path)
+    export_sheets(proj, path, catalogue=SHIPPED)
     text = " ".join(PdfReader(path).pages[0].extract_text().split())
     assert "is supercritical" in text and "HEC-15 Section 2.1.1" in text
     assert "None from the checks made" not in text

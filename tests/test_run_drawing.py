@@ -7,12 +7,15 @@ from app import project as pj
 from app.run_design import design_run
 from app.run_drawing import profile_model, station_step
 from hydraulics.units import FOOT, SI, US
+from app.context import Context
+
+SHIPPED = Context.load().catalogue   # the shipped lining catalogue alone
 
 
 @pytest.fixture(scope="module")
 def design():
     project = pj.load(pj.demo_path())
-    return design_run(project, project.runs[0])
+    return design_run(project, project.runs[0], catalogue=SHIPPED)
 
 
 def test_lines_are_the_station_table_in_the_users_units(design):
@@ -42,7 +45,7 @@ def test_jumps_and_overtopped_stretches_are_marked():
     project = pj.load(pj.demo_path())
     run = project.runs[0]
     run.outfall.control, run.outfall.water_level = "level", 44.56 + 1.3   # invented: 0.3 m over the ditch top
-    design = design_run(project, run)
+    design = design_run(project, run, catalogue=SHIPPED)
     m = profile_model(design, SI)
     (jump,) = m.jumps
     assert jump.label == "jump 0+328.97" and jump.start == pytest.approx(design.surface.jumps[0].station)

@@ -41,6 +41,9 @@ from hydraulics.run_screening import Screening
 from hydraulics.solvers import normal_depth
 from hydraulics.stability import check_lining
 from test_run_screening import CAT, IDF, _velocity_by_hand
+from app.context import Context
+
+SHIPPED = Context.load().catalogue   # the shipped lining catalogue alone
 
 STONE_SECTION = hy.Trapezoid(bottom_width=0.6, side_slope=3.0)
 #: Riprap of D50 0.15 m in STONE_SECTION on a 2 % grade: Q(y) falls between depths of about 0.371 and 0.380 m
@@ -66,7 +69,7 @@ def _stone_run():
 
 def _demo_run():
     project = pj.load(pj.demo_path())
-    return design_run(project, project.runs[0]).result.run
+    return design_run(project, project.runs[0], catalogue=SHIPPED).result.run
 
 
 def _plain_flows(layout, pieces, inflows, tau, idf, return_period, min_duration):

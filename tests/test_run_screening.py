@@ -29,6 +29,9 @@ from hydraulics.run_layout import StationRange
 from hydraulics.run_screening import screen_lining
 from hydraulics.solvers import critical_depth, max_flow, normal_depth
 from hydraulics.stability import check_lining
+from app.context import Context
+
+SHIPPED = Context.load().catalogue   # the shipped lining catalogue alone
 
 CAT = load_catalogue()
 #: Every shipped lining that needs no data from the user (a data sheet or a site investigation).
@@ -192,7 +195,7 @@ def test_solving_a_run_makes_no_full_check_until_one_is_asked_for():
 
 def test_the_demo_run_reports_only_what_its_scheduled_linings_lean_on():
     project = pj.load(pj.demo_path())
-    design = design_run(project, project.runs[0])
+    design = design_run(project, project.runs[0], catalogue=SHIPPED)
     res = design.result
     scheduled = {k for p in res.points if p.not_checked is None for k in [p.choice]}
     texts = [*design.warnings, *design.notes, *(t for b in design.bases for t in (b.coefficient_method, b.time_method))]

@@ -30,6 +30,9 @@ from app.sheet.fonts import register
 from app.sheet.profile_drawing import (INVERT, SI_HORIZONTAL, US_HORIZONTAL_FT, choose_profile_scales,
                                        profile_drawing)
 from hydraulics import units as hu
+from app.context import Context
+
+SHIPPED = Context.load().catalogue   # the shipped lining catalogue alone
 
 DEMO_FILE = Path(str(P.demo_path()))
 RUN = "North verge ditch"
@@ -51,12 +54,12 @@ def project():
 
 @pytest.fixture(scope="module")
 def design(project):
-    return design_run(project, project.run(RUN))
+    return design_run(project, project.run(RUN), catalogue=SHIPPED)
 
 
-def _pages(proj, tmp_path_factory, name, **kw):
+def _pages(proj, tmp_path_factory, name):
     path = tmp_path_factory.mktemp(name) / f"{name}.pdf"
-    export_sheets(proj, path, channels=[], runs=[RUN], **kw)
+    export_sheets(proj, path, channels=[], runs=[RUN], catalogue=SHIPPED)
     return path, [p.extract_text() for p in PdfReader(path).pages]
 
 
@@ -185,7 +188,7 @@ def test_title_block_and_fingerprint_on_every_page(project, si_sheet, capsys):
     assert main(["fingerprint", str(DEMO_FILE), "--run", RUN]) == 0
     expected = capsys.readouterr().out.strip()
     assert re.fullmatch(r"[0-9a-f]{64}", expected)
-    assert expected == run_fingerprint(project, project.run(RUN))
+    assert expected == run_fingerprint(project, project.run(RUN), catalogue=SHIPPED)
     for k, text in enumerate(pages, start=1):
         assert "DITCH RUN DESIGN SHEET" in text and RUN in text
         assert f"{k} of {len(pages)}" in text and "SIGNATURE" in text and "APPROVAL" in text
@@ -195,17 +198,17 @@ def test_title_block_and_fingerprint_on_every_page(project, si_sheet, capsys):
 
 def test_run_fingerprint_follows_design_inputs(project):
     run = project.run(RUN)
-    base = run_fingerprint(project, run)
+    base = run_fingerprint(project, run, catalogue=SHIPPED)
     renamed = copy.deepcopy(run)
     renamed.name, renamed.notes = "Other name", "a note"
-    assert run_fingerprint(project, renamed) == base
+    assert run_fingerprint(project, renamed, catalogue=SHIPPED) == base
     steeper = copy.deepcopy(run)
     steeper.profile[1].elevation -= 0.01
-    assert run_fingerprint(project, steeper) != base
+    assert run_fingerprint(project, steeper, catalogue=SHIPPED) != base
     wetter = copy.deepcopy(project)
     wetter.rainfall["intensities"][0][1] *= 1.01
-    assert run_fingerprint(wetter, run) != base
-    assert run_fingerprint(project, run, version="9.9.9") != base
+    assert run_fingerprint(wetter, run, catalogue=SHIPPED) != base
+    assert run_fingerprint(project, run, version="9.9.9", catalogue=SHIPPED) != base
 
 
 # ------------------------------------------------------------------ a long run over several pages
@@ -229,9 +232,9 @@ def test_station_table_continues_over_pages(project, tmp_path):
     long_run = _long_run(proj)
     proj.runs.append(long_run)
     path = tmp_path / "long.pdf"
-    export_sheets(proj, path, channels=[], runs=[long_run.name])
+    export_sheets(proj, path, channels=[], runs=[long_run.name], catalogue=SHIPPED)
     pages = [p.extract_text() for p in PdfReader(path).pages]
-    rows = design_run(proj, long_run).station_rows(hu.system("si"))
+    rows = design_run(proj, long_run, catalogue=SHIPPED).station_rows(hu.system("si"))
     assert len(rows) > 150
     with_rows = [k for k, t in enumerate(pages) if any(f"{r['station']} {r['invert']}" in _flat(t) for r in rows)]
     assert len(with_rows) >= 3
@@ -248,7 +251,7 @@ def test_station_table_continues_over_pages(project, tmp_path):
 def test_signed_run_sheet_verifies_as_intact(project, tmp_path):
     p12, pem, _ = make_test_certificate(tmp_path, "Test Engineer (invented)")
     path = tmp_path / "signed-run.pdf"
-    export_sheets(project, path, channels=[], runs=[RUN], sign=(p12, "pw-test"))
+    export_sheets(project, path, channels=[], runs=[RUN], sign=(p12, "pw-test"), catalogue=SHIPPED)
     report = verify_pdf(path, trust=pem)
     assert report.ok
     (sig,) = report.signatures
@@ -309,7 +312,7 @@ def test_the_sheet_shows_the_water_surface_its_controls_and_jumps(project, tmp_p
     proj = copy.deepcopy(project)
     proj.runs[0].outfall.control, proj.runs[0].outfall.water_level = "level", 44.56 + 1.3
     path = tmp_path / "high.pdf"
-    export_sheets(proj, path, channels=[], runs=[proj.runs[0].name])
+    export_sheets(proj, path, channels=[], runs=[proj.runs[0].name], catalogue=SHIPPED)
     text = _flat([p.extract_text() for p in PdfReader(path).pages])
     for words in ("Water surface (computed)", "Normal depth", "Critical depth", "Hydraulic jump", "jump 0+328.97",
                   "OVERTOPPED", "TOO SHALLOW", "WATER SURFACE: CONTROLS", "HYDRAULIC JUMPS",

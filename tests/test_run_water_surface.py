@@ -38,6 +38,9 @@ from hydraulics.run_layout import StationRange
 from hydraulics.run_water_surface import run_water_surface
 from hydraulics.units import FOOT
 from hydraulics.water_surface import water_surface
+from app.context import Context
+
+SHIPPED = Context.load().catalogue   # the shipped lining catalogue alone
 
 CAT = load_catalogue()
 G = 9.80665
@@ -196,7 +199,7 @@ def test_a_bad_outfall_control_set_in_the_model_names_the_run():
     project.runs[0].outfall.control = "level"
     project.runs[0].outfall.water_level = None
     with pytest.raises(RunInputError, match=r'runs\[0\] "North verge ditch": outfall.water_level: is missing'):
-        design_run(project, project.runs[0])
+        design_run(project, project.runs[0], catalogue=SHIPPED)
 
 
 # -- the command's outputs ------------------------------------------------------------------------------------------

@@ -33,6 +33,9 @@ from app.main import main
 from app.sheet import approval_box, export_sheets, fingerprint, sheet_pdf, verify_pdf
 from app.sheet.fingerprint import canonical_json, fingerprint_document
 from app.sheet.section_drawing import choose_scale
+from app.context import Context
+
+SHIPPED = Context.load().catalogue   # the shipped lining catalogue alone
 
 DEMO_FILE = Path(str(P.demo_path()))
 CHANNELS = ("East verge ditch", "North cut ditch", "Outfall swale", "Farm crossing pipe", "Surveyed outfall channel")
@@ -59,7 +62,7 @@ def project():
 @pytest.fixture(scope="module")
 def sheet_file(project, tmp_path_factory):
     path = tmp_path_factory.mktemp("sheet") / "sheets.pdf"
-    export_sheets(project, path)
+    export_sheets(project, path, catalogue=SHIPPED)
     return path
 
 
@@ -75,7 +78,7 @@ def us_pages(project, tmp_path_factory):
     proj = copy.deepcopy(project)
     proj.units = "us"
     path = tmp_path_factory.mktemp("sheet-us") / "sheets-us.pdf"
-    export_sheets(proj, path)
+    export_sheets(proj, path, catalogue=SHIPPED)
     return dict(zip(CHANNELS, (p.extract_text() for p in PdfReader(path).pages)))
 
 
@@ -180,7 +183,7 @@ def test_published_trapezoid_example_prints_its_normal_depth(tmp_path):
                    section={"shape": "trapezoid", "bottom_width": 20 * FOOT, "left_slope": 2.0, "right_slope": 2.0},
                    manning_n=0.025, min_freeboard=1.0 * FOOT)
     proj = P.Project(name="Published example check", units="us", channels=[ch])
-    data, _ = sheet_pdf(proj)
+    data, _ = sheet_pdf(proj, catalogue=SHIPPED)
     out = tmp_path / "chow.pdf"
     out.write_bytes(data)
     text = PdfReader(out).pages[0].extract_text()
@@ -276,18 +279,18 @@ def test_printed_fingerprint_equals_the_command(project, pages, capsys):
 
 def test_fingerprint_follows_design_inputs_only(project):
     ch = copy.deepcopy(project.channel("Outfall swale"))
-    base = fingerprint(ch)
+    base = fingerprint(ch, catalogue=SHIPPED)
     renamed = copy.deepcopy(ch)
     renamed.name, renamed.location, renamed.notes = "Other name", "elsewhere", "a note"
-    assert fingerprint(renamed) == base
+    assert fingerprint(renamed, catalogue=SHIPPED) == base
     as_float = copy.deepcopy(ch)
     as_float.section = dict(ch.section, left_slope=4, right_slope=4)  # 4 and 4.0 are the same input
-    assert fingerprint(as_float) == base
+    assert fingerprint(as_float, catalogue=SHIPPED) == base
     steeper = copy.deepcopy(ch)
     steeper.slope = ch.slope * 1.001
-    assert fingerprint(steeper) != base
-    assert fingerprint(ch, version="9.9.9") != base
-    doc = fingerprint_document(ch)
+    assert fingerprint(steeper, catalogue=SHIPPED) != base
+    assert fingerprint(ch, version="9.9.9", catalogue=SHIPPED) != base
+    doc = fingerprint_document(ch, catalogue=SHIPPED)
     assert doc.startswith('{"inputs":{') and '"program":"ditchwright"' in doc
     data = json.loads(doc)
     assert sorted(data["linings"]) == ["concrete", "grass_good_sod", "gravel", "riprap"]  # own and alternatives
@@ -314,7 +317,7 @@ def certificate(tmp_path_factory):
 def signed_file(project, certificate, tmp_path_factory):
     p12, _ = certificate
     path = tmp_path_factory.mktemp("signed") / "signed.pdf"
-    export_sheets(project, path, sign=(p12, "pw-test"))
+    export_sheets(project, path, sign=(p12, "pw-test"), catalogue=SHIPPED)
     return path
 
 
@@ -465,7 +468,7 @@ def test_stone_lining_from_the_catalogue_sets_n_and_thickness(tmp_path):
                    lining=P.LiningChoice("riprap", 0.15), manning_n=None)
     proj = P.Project(name="Invented chute", units="si", channels=[ch])
     path = tmp_path / "chute.pdf"
-    export_sheets(proj, path)
+    export_sheets(proj, path, catalogue=SHIPPED)
     text = PdfReader(path).pages[0].extract_text().replace("\n", " ")
     # stone sizes to a tenth of a mm, as the window's results panel writes them (app.results.PANEL_FIELDS)
     assert "Rock riprap, D50 150.0 mm" in text
@@ -487,17 +490,17 @@ def test_logo_slot_is_empty_unless_the_user_fills_it(project, tmp_path):
     from PIL import Image
 
     plain = tmp_path / "plain.pdf"
-    export_sheets(project, plain, channels=project.channels[0].name)
+    export_sheets(project, plain, channels=project.channels[0].name, catalogue=SHIPPED)
     assert _image_count(plain) == 0  # no default brand
     logo = tmp_path / "logo.png"
     Image.new("RGB", (60, 30), (20, 90, 160)).save(logo)
     proj = copy.deepcopy(project)
     proj.sheet.logo = str(logo)
     with_logo = tmp_path / "logo.pdf"
-    assert export_sheets(proj, with_logo, channels=project.channels[0].name) == []
+    assert export_sheets(proj, with_logo, channels=project.channels[0].name, catalogue=SHIPPED) == []
     assert _image_count(with_logo) == 1
     proj.sheet.logo = str(tmp_path / "missing.png")
-    notes = export_sheets(proj, tmp_path / "nologo.pdf", channels=project.channels[0].name)
+    notes = export_sheets(proj, tmp_path / "nologo.pdf", channels=project.channels[0].name, catalogue=SHIPPED)
     assert notes and "logo file not found" in notes[0]
 
 
@@ -690,10 +693,11 @@ def test_lining_entry_changes_the_fingerprint_and_prices_the_comparison(project,
     user.write_text(USER_CATALOGUE)
     priced = load_default_catalogue(user)
     ch = project.channel("Outfall swale")
-    shipped = fingerprint(ch)
+    shipped = fingerprint(ch, catalogue=SHIPPED)
     assert fingerprint(ch, catalogue=priced) != shipped  # a changed entry of a lining the channel uses
     paved = project.channel("East verge ditch")
-    assert fingerprint(paved, catalogue=priced) == fingerprint(paved)  # riprap not used there: no change
+    # riprap not used there: no change
+    assert fingerprint(paved, catalogue=priced) == fingerprint(paved, catalogue=SHIPPED)
 
     out = tmp_path / "priced.pdf"
     assert main(["sheet", str(DEMO_FILE), "--channel", ch.name, "-o", str(out), "--user-catalogue",
@@ -731,7 +735,7 @@ def test_long_comparison_stays_on_one_page(tmp_path):
                    section={"shape": "trapezoid", "bottom_width": 0.6, "left_slope": 3.0, "right_slope": 3.0},
                    lining=P.LiningChoice("riprap", 0.1), manning_n=None, bend_radius=20.0,
                    alternatives=[P.LiningChoice(k) for k in keys if k != "riprap"])
-    data, _ = sheet_pdf(P.Project(name="Invented comparison", units="us", channels=[ch]))
+    data, _ = sheet_pdf(P.Project(name="Invented comparison", units="us", channels=[ch]), catalogue=SHIPPED)
     out = tmp_path / "many.pdf"
     out.write_bytes(data)
     reader = PdfReader(out)
@@ -744,7 +748,8 @@ def test_long_comparison_stays_on_one_page(tmp_path):
     from hydraulics.units import US
 
     # the linings as the sheet names them: the one comparison table's names (grass heights in inches here)
-    names = [r.name for r in comparison_table(evaluate_channel(ch).comparison, Context(load_catalogue(), US)).rows]
+    design = evaluate_channel(ch, catalogue=SHIPPED)
+    names = [r.name for r in comparison_table(design.comparison, Context(load_catalogue(), US)).rows]
     shown = [nm for nm in names if nm in text.split("CAUTIONS")[0]]
     assert len(shown) == len(names), set(names) - set(shown)  # every lining is in a row or in the note
     assert "about 6 in tall" in text and "150 mm" not in text   # the good-stand grass, 150 mm = 5.9 in
@@ -825,7 +830,7 @@ def test_each_page_text_is_built_once_per_text_size(monkeypatch):
     monkeypatch.setattr(layout, "_build", lambda sheet, size, *rest: calls.append(size) or real_build(sheet, size, *rest))
     monkeypatch.setattr(layout, "_fit_blocks", lambda *a: fitted.append(real_fit(*a)) or fitted[-1])
     demo = P.load(DEMO_FILE)
-    sheet_pdf(demo, runs=())
+    sheet_pdf(demo, runs=(), catalogue=SHIPPED)
     assert len(fitted) == len(demo.channels)
     tried = sum(layout.TEXT_SIZES.index(size) + 1 for _, size, _ in fitted)   # sizes tried, largest first
     assert len(calls) == tried

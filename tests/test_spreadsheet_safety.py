@@ -13,6 +13,9 @@ from app import inventory as ai
 from app.inventory import reading
 from app.files import FORMULA_STARTS, spreadsheet_safe, tsv_cell
 from app.main import main
+from app.context import Context
+
+SHIPPED = Context.load().catalogue   # the shipped lining catalogue alone
 
 HEADER = list(ai.INPUT_COLUMNS) + ["owner", "offset"]
 ROW = {"shape": "trapezoid", "bottom_width": "2", "left_slope": "3", "right_slope": "3", "slope": "0.004",
@@ -37,7 +40,7 @@ def _results(text, monkeypatch=None, pyarrow=True):
     if not pyarrow:
         monkeypatch.setattr(reading, "pyarrow_modules", lambda: None)
     inv = ai.parse_inventory(text, "us")
-    res = ai.evaluate(inv)
+    res = ai.evaluate(inv, catalogue=SHIPPED)
     written = ai.format_results(inv, res)
     return inv, res, list(csv.DictReader(io.StringIO(written, newline="")))
 
@@ -81,10 +84,10 @@ def test_the_file_written_block_by_block_is_the_same_guarded_file(tmp_path):
             for i in range(40)]
     text = _csv(rows)
     inv = ai.parse_inventory(text, "us")
-    expected = ai.format_results(inv, ai.evaluate(inv))
+    expected = ai.format_results(inv, ai.evaluate(inv, catalogue=SHIPPED))
     source = tmp_path / "in.csv"
     source.write_text(text, encoding="utf-8")
-    ai.check_file(source, tmp_path / "out.csv", "us", rows=7)
+    ai.check_file(source, tmp_path / "out.csv", "us", rows=7, catalogue=SHIPPED)
     written = (tmp_path / "out.csv").read_text(encoding="utf-8")
     assert written == expected
     out = list(csv.DictReader(io.StringIO(written, newline="")))
@@ -107,7 +110,7 @@ def test_the_summary_says_so_once_and_only_when_it_happened(tmp_path, capsys):
 def test_a_file_without_triggers_is_written_byte_for_byte_as_before():
     text = _csv([dict(ROW, id=f"R{i}", owner="x", offset=str(-i)) for i in range(5)])
     inv = ai.parse_inventory(text, "us")
-    body = ai.format_results(inv, ai.evaluate(inv))
+    body = ai.format_results(inv, ai.evaluate(inv, catalogue=SHIPPED))
     lines = text.splitlines()
     assert [line.rsplit(",", 9)[0] for line in body.splitlines()[1:]] == lines[1:]
     assert ai.written_rows(inv)[0] is inv.records   # the file's own bytes, untouched
@@ -124,7 +127,7 @@ def test_a_formula_like_name_in_a_dxf_drawing_is_plain_text(trigger):
     project.channels, project.runs = project.channels[:1], project.runs[:1]
     project.channels[0].name = PAYLOADS[trigger] + r" %<\AcVar Date>%"
     project.runs[0].name = PAYLOADS[trigger] + " run"
-    drawings = make_drawings(project)
+    drawings = make_drawings(project, catalogue=SHIPPED)
     assert len(drawings) == 2
     for drawing, name in zip(drawings, [project.channels[0].name, project.runs[0].name]):
         doc = drawing.document

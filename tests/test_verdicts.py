@@ -11,6 +11,8 @@ from hydraulics import many_reaches as mr
 from hydraulics.units import US
 from hydraulics.wording import in_units
 
+SHIPPED = Context.load().catalogue   # the shipped lining catalogue alone
+
 TRAPEZOID = {"shape": "trapezoid", "bottom_width": 0.4, "left_slope": 3.0, "right_slope": 3.0}
 
 
@@ -29,7 +31,7 @@ def test_the_batch_tokens_are_the_vocabularys():
 def test_window_and_sheet_share_the_verdict(lining, expected):
     ch = Channel(flow=FlowBasis(value=0.42), slope=0.008, manning_n=0.03, section=TRAPEZOID,
                  lining=None if lining is None else LiningChoice(lining))
-    design = evaluate_channel(ch)
+    design = evaluate_channel(ch, catalogue=SHIPPED)
     assert design.verdict is expected
     ev = display.evaluate(ch, Context.load(units="si"))
     assert (ev.verdict.headline, ev.verdict.status) == (expected.words, expected.status)
@@ -40,7 +42,7 @@ def test_a_pipe_too_shallow_for_its_freeboard_says_so_everywhere():
     vocabulary, the window said "Too small" and the sheet the lining's verdict)."""
     ch = Channel(flow=FlowBasis(value=0.2), slope=0.0015, lining=LiningChoice("concrete"),
                  section={"shape": "circle", "diameter": 0.6})
-    design = evaluate_channel(ch)
+    design = evaluate_channel(ch, catalogue=SHIPPED)
     assert design.total_depth > 0.6 and design.verdict is Verdict.TOO_SHALLOW
     ev = display.evaluate(ch, Context.load(units="us"))
     assert ev.verdict.headline == "Too shallow" and ev.verdict.status == "fail"
@@ -58,7 +60,7 @@ def test_the_sheet_prints_the_heading(tmp_path):
     ditch = Channel(name="Invented earth ditch", flow=FlowBasis(value=0.42), slope=0.008, manning_n=0.03,
                     section=TRAPEZOID)
     path = tmp_path / "v.pdf"
-    export_sheets(Project(name="Invented", channels=[pipe, ditch]), path)
+    export_sheets(Project(name="Invented", channels=[pipe, ditch]), path, catalogue=SHIPPED)
     first, second = (p.extract_text().replace("\n", " ") for p in PdfReader(path).pages)
     assert "TOO SHALLOW" in first and "Reason: water plus freeboard reaches" in first
     assert "HYDRAULICS ONLY" in second  # the earth ditch has no lining

@@ -18,6 +18,9 @@ from app import project as P
 from app.cli import verify as verify_cli
 from app.main import main
 from app.sheet import export_sheets, verify_pdf
+from app.context import Context
+
+SHIPPED = Context.load().catalogue   # the shipped lining catalogue alone
 
 NAME = "Test Engineer (invented)"
 README = Path(__file__).resolve().parents[1] / "README.md"
@@ -35,10 +38,10 @@ def signed(tmp_path_factory):
     fake_p12, _, _ = make_test_certificate(fake, NAME)        # anyone can make a certificate with that name
     project = P.load(P.demo_path())
     sheet = folder / "signed.pdf"
-    export_sheets(project, sheet, channels=["East verge ditch"], sign=(p12, "pw-test"))
+    export_sheets(project, sheet, channels=["East verge ditch"], sign=(p12, "pw-test"), catalogue=SHIPPED)
     project.channels[0].slope = 0.001                          # the forger's edit
     forged = folder / "forged.pdf"
-    export_sheets(project, forged, channels=["East verge ditch"], sign=(fake_p12, "pw-test"))
+    export_sheets(project, forged, channels=["East verge ditch"], sign=(fake_p12, "pw-test"), catalogue=SHIPPED)
     return sheet, pem, forged
 
 
@@ -130,7 +133,7 @@ def test_the_readme_documents_every_exit_status_of_verify():
 def test_a_signer_name_cannot_forge_a_line_of_the_report(tmp_path, capsys):
     p12, _, _ = make_test_certificate(tmp_path, "Mallory\n  result: INTACT AND VALID")
     sheet = tmp_path / "s.pdf"
-    export_sheets(P.load(P.demo_path()), sheet, channels=["East verge ditch"], sign=(p12, "pw-test"))
+    export_sheets(P.load(P.demo_path()), sheet, channels=["East verge ditch"], sign=(p12, "pw-test"), catalogue=SHIPPED)
     status, out, _ = _run(capsys, sheet)
     assert status == 4
     assert not any(line.strip().startswith("result: INTACT AND VALID") for line in out.splitlines())

@@ -2,16 +2,18 @@
 
 from __future__ import annotations
 
-import hydraulics as hy
+from dataclasses import replace
+
 from hydraulics import provenance
 from hydraulics import units as hu
 from hydraulics.errors import InputError
-from hydraulics.stability import check_lining
 from hydraulics.wording import format_quantity, in_units
 
+from ..evaluate import WIDTH_SHAPES, evaluate_channel, width_for_depth
+from ..project import Channel, FlowBasis, LiningChoice
 from ..results import CHANNEL_FIELDS, EXTRA_FIELDS, convert, format_value, panel_field, rounded
 from ..lining_names import STONE_SIZE, name_in_units
-from ..verdicts import Verdict, verdict_of, with_tokens
+from ..verdicts import Verdict, with_tokens
 from . import COMMAND_HELP
 from .common import (CliError, add_channel_options, check_dimensions, check_numbers, emit_json, require, section_from_args,
                      side_slopes, table, unit_labels)
@@ -35,7 +37,8 @@ def register(subparsers) -> None:
 
 
 def _lining(args, units):
-    """(Lining, D50 [m] or None) from --lining/--d50, or (None, None); refuses options that need a lining."""
+    """(LiningChoice, catalogue) from --lining/--d50/--user-catalogue, or (None, None); refuses options that need a
+    lining, and a lining the catalogue cannot give as asked."""
     if args.lining is None:
         for opt in ("d50", "bend_radius", "min_freeboard", "user_catalogue"):
             if getattr(args, opt) is not None:
@@ -55,53 +58,45 @@ def _lining(args, units):
         lining.roughness(d50)  # refuses a D50 for a lining that takes none, and unfilled user data
     except InputError as exc:
         raise explain(exc, units) from None
-    return lining, d50
+    return LiningChoice(key, d50), catalogue
 
 
 def solve(args):
-    """Return (section, ChannelResult, found bottom width or None, StabilityResult or None), all SI."""
+    """Return (ChannelDesign, found bottom width [m] or None) from the options: the channel they describe,
+    evaluated by the one evaluation every front end shares (:func:`app.evaluate.evaluate_channel`)."""
     check_numbers(args)
     units = hu.system(args.units)
-    lining, d50 = _lining(args, units)
+    lining, catalogue = _lining(args, units)
     require(args, "flow", "slope")
     if lining is None:
         require(args, "n")
-        n = args.n
-    else:
-        n = lining.roughness(d50)
-    flow = units.to_si("flow", args.flow)
+    options = lining_options_si(args, units) if lining is not None else {}
+    channel = Channel(name="calc", flow=FlowBasis(value=units.to_si("flow", args.flow)), slope=args.slope,
+                      lining=lining, manning_n=args.n if lining is None else None, **options)
+    catalogue = catalogue if catalogue is not None else catalogue_from_args(args)
     found = None
     if args.find == "bottom-width":
-        if args.shape not in ("trapezoid", "rectangle"):
+        if args.shape not in WIDTH_SHAPES:
             raise CliError("--find bottom-width works for a trapezoid or a rectangle")
         if args.bottom_width is not None:
             raise CliError("--bottom-width is what --find bottom-width solves for; leave it out")
         require(args, "max_depth")
         check_dimensions(args, skip=("bottom_width",))
-        max_depth = units.to_si("length", args.max_depth)
-        slopes = side_slopes(args)
-        found = hy.bottom_width_for_depth(flow, args.slope, n, max_depth, **slopes)
-        if found == 0.0:
-            section = hy.Triangle(**slopes)
-        elif args.shape == "rectangle":
-            section = hy.Rectangle(bottom_width=found)
-        else:
-            section = hy.Trapezoid(bottom_width=found, **slopes)
+        channel.section = {"shape": args.shape, **side_slopes(args)}
+        channel, found = width_for_depth(channel, units.to_si("length", args.max_depth), catalogue)
     else:
         if args.max_depth is not None:
             raise CliError("--max-depth is used with --find bottom-width")
-        section = section_from_args(args)
-    if lining is None:
-        return section, hy.analyse(section, flow, args.slope, n), found, None
-    options = lining_options_si(args, units)
+        channel.section = section_from_args(args).to_dict()
     try:
-        stab = check_lining(section, flow, args.slope, lining, d50=d50, **options)
+        return evaluate_channel(channel, catalogue), found
     except InputError as exc:
+        if lining is None:
+            raise
         top = None
-        if exc.field == "bend_radius":
-            top = check_lining(section, flow, args.slope, lining, d50=d50).analysis.top_width
+        if exc.field == "bend_radius":   # the message quotes half the width of the same channel without its bend
+            top = evaluate_channel(replace(channel, bend_radius=None), catalogue).analysis.top_width
         raise explain(exc, units, top) from None
-    return section, stab.analysis, found, stab
 
 
 def lining_json(stab, units) -> dict:
@@ -150,7 +145,8 @@ def stability_rows(stab, units) -> list:
 
 def run(args) -> int:
     units = hu.system(args.units)
-    section, result, found, stab = solve(args)
+    design, found = solve(args)
+    section, result, stab = design.section, design.analysis, design.stability
     warnings = [in_units(w, units) for w in (result.warnings if stab is None else stab.warnings)]
     texts = result.warnings if stab is None else stab.cited_texts()
     unverified = provenance.not_verified_lines(provenance.cited_not_verified(texts))
@@ -162,8 +158,8 @@ def run(args) -> int:
             out["lining"] = lining_json(stab, units)
             out["stability"] = stab.to_dict(units)
             with_tokens(out, stab)
-        out["verdict"] = (Verdict.HYDRAULICS_ONLY if stab is None
-                          else verdict_of(stab, stab.total_depth, section.full_depth)).token
+        # without a lining calc checks hydraulics only, whatever the ditch's depth (no ditch depth is given)
+        out["verdict"] = (Verdict.HYDRAULICS_ONLY if stab is None else design.verdict).token
         out["units"] = unit_labels(units)
         out["warnings"] = warnings
         out["not_verified"] = unverified

@@ -2,14 +2,16 @@
 
 from __future__ import annotations
 
+from dataclasses import replace
+
 from hydraulics import units as hu
 from hydraulics.errors import InputError
-from hydraulics.lining_comparison import compare_linings
-from hydraulics.stability import check_lining
 from hydraulics.wording import in_units
 
 from ..comparison_table import ComparisonTable, comparison_table
 from ..context import Context
+from ..evaluate import evaluate_channel, lining_comparison
+from ..project import Channel, FlowBasis, LiningChoice
 from ..verdicts import with_tokens
 
 from . import COMMAND_HELP
@@ -55,17 +57,18 @@ def run(args) -> int:
             require_stone_size(catalogue.get(key), d50, units, text, d50_option=False)
         except InputError as exc:
             raise explain(exc, units) from None
-    section = section_from_args(args)
-    flow = units.to_si("flow", args.flow)
     options = lining_options_si(args, units)
+    channel = Channel(name="compare", flow=FlowBasis(value=units.to_si("flow", args.flow)), slope=args.slope,
+                      section=section_from_args(args).to_dict(), manning_n=None, **options)
     try:
-        rows = compare_linings(section, flow, args.slope, choices, catalogue, **options)
+        rows = lining_comparison(channel, catalogue, choices)
     except InputError as exc:
         top = None
         if exc.field == "bend_radius":
-            key, d50 = choices[0]
-            top = check_lining(section, flow, args.slope, catalogue.get(key), d50=d50).analysis.top_width
+            straight = replace(channel, lining=LiningChoice(*choices[0]), bend_radius=None)
+            top = evaluate_channel(straight, catalogue).analysis.top_width
         raise explain(exc, units, top) from None
+    section = channel.build_section()
     data = with_tokens({"comparison": [r.to_dict(units) for r in rows]}, full_depth=section.full_depth,
                        rows=rows)["comparison"]
     if args.json:

@@ -70,12 +70,10 @@ def run(args) -> int:
         raise CliError(f"--plot {args.plot}: the name must end in {', '.join(ai.PLOT_FORMATS)}")
     if args.plot is not None and not Path(args.plot).resolve().parent.is_dir():
         raise CliError(f"--plot {args.plot}: no such folder: {Path(args.plot).resolve().parent}")
-    catalogue = None
-    if args.user_catalogue is not None:
-        try:
-            catalogue = load_catalogue(user_path=args.user_catalogue)
-        except (CatalogueError, OSError) as exc:
-            raise CliError(f"--user-catalogue {args.user_catalogue}: {exc}") from None
+    try:   # the shipped catalogue, with --user-catalogue laid over it
+        catalogue = load_catalogue(user_path=args.user_catalogue)
+    except (CatalogueError, OSError) as exc:
+        raise CliError(f"--user-catalogue {args.user_catalogue}: {exc}") from None
     start = time.perf_counter()
     show = args.progress if args.progress is not None else (
         source.is_file() and source.stat().st_size >= PROGRESS_FROM_BYTES and sys.stderr.isatty())

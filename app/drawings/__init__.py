@@ -1,7 +1,7 @@
 """Drawings for the plan set: one DXF per channel (its typical section) and one per ditch run (its profile).
 
     from app.drawings import export_drawings
-    written = export_drawings(project, "out/", channels=None, runs=None, units=None, catalogue=None)
+    written = export_drawings(project, "out/", channels=None, runs=None, units=None, catalogue=context.catalogue)
 
 Every drawing is made before any file is written, so a channel that cannot be computed leaves the folder as it
 was. Qt-free; the DXF itself is written by ezdxf (:mod:`app.drawings.dxf`, shared by :mod:`app.drawings.section` and
@@ -10,32 +10,18 @@ was. Qt-free; the DXF itself is written by ezdxf (:mod:`app.drawings.dxf`, share
 
 from __future__ import annotations
 
-import re
 from dataclasses import dataclass
 from pathlib import Path
 
 from hydraulics import units as hu
 from hydraulics.errors import HydraulicsError, InputError
 
+from ..files import safe_file_name
 from .dxf import write_document
 from .profile import profile_document
 from .section import section_document
 
-__all__ = ["Drawing", "export_drawings", "make_drawings", "safe_file_name"]
-
-#: Names a file may not have on Windows, whatever its extension.
-_RESERVED = {"CON", "PRN", "AUX", "NUL", *(f"COM{i}" for i in range(1, 10)), *(f"LPT{i}" for i in range(1, 10))}
-
-
-def safe_file_name(name: str, suffix: str) -> str:
-    """``name`` made safe for any file system, then ``suffix``: letters, digits, '-', '_' and '.' kept, runs of
-    anything else (spaces, slashes, colons...) one '_', at most 100 characters ('East verge ditch' ->
-    'East_verge_ditch')."""
-    safe = re.sub(r"[^A-Za-z0-9._-]+", "_", name.strip()).strip("._") or "unnamed"
-    safe = safe[:100].rstrip("._") or "unnamed"
-    if safe.split(".")[0].upper() in _RESERVED:
-        safe = "_" + safe
-    return safe + suffix
+__all__ = ["Drawing", "export_drawings", "make_drawings"]
 
 
 @dataclass
@@ -56,20 +42,20 @@ def _chosen(project, channels, runs):
     return [project.channel(n) for n in channels or []], [project.run(n) for n in runs or []]
 
 
-def make_drawings(project, channels=None, runs=None, units=None, catalogue=None) -> list[Drawing]:
+def make_drawings(project, channels=None, runs=None, units=None, *, catalogue) -> list[Drawing]:
     """The drawings of ``project``: the sections of ``channels`` and the profiles of ``runs`` (names; every channel
-    and run when neither is given), in ``units`` ("us", "si", a unit system, or None for the project's own).
+    and run when neither is given), in ``units`` ("us", "si", a unit system, or None for the project's own),
+    evaluated with ``catalogue`` (the front end's lining catalogue, with the user's entries; required).
 
     Raises KeyError for an unknown name (naming those there are), InputError for a bad unit system or a value of
     the project that cannot be computed and hydraulics.NoSolutionError for a channel or run without a solution; a
     channel's error has a ``channel`` attribute naming it as in the project file (as the design sheets do).
     """
-    from ..evaluate import evaluate_channel, load_default_catalogue
+    from ..evaluate import evaluate_channel
     from ..run_design import design_run
     from ..run_drawing import profile_model
 
     system = units if isinstance(units, hu.UnitSystem) else hu.system(units or project.units)
-    catalogue = load_default_catalogue() if catalogue is None else catalogue
     chosen, chosen_runs = _chosen(project, channels, runs)
     out, taken = [], set()
 
@@ -102,11 +88,11 @@ def make_drawings(project, channels=None, runs=None, units=None, catalogue=None)
     return out
 
 
-def export_drawings(project, folder, channels=None, runs=None, units=None, catalogue=None) -> list[Path]:
+def export_drawings(project, folder, channels=None, runs=None, units=None, *, catalogue) -> list[Path]:
     """Write the drawings of :func:`make_drawings` into ``folder`` (made when missing), each file in one step;
     returns the paths written. Raises what :func:`make_drawings` raises before any file is written, and OSError
     when a file cannot be written."""
-    drawings = make_drawings(project, channels, runs, units, catalogue)
+    drawings = make_drawings(project, channels, runs, units, catalogue=catalogue)
     folder = Path(folder)
     folder.mkdir(parents=True, exist_ok=True)
     written = []

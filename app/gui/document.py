@@ -33,11 +33,11 @@ class ProjectDocument(QObject):
     run_changed = Signal(int)        # the inputs of one ditch run changed
     runs_changed = Signal(int)       # ditch runs added or removed; the index of the run to show
 
-    def __init__(self, project: pj.Project | None = None, path=None, parent=None, context: Context | None = None):
-        """``context``: the catalogue and program version the project is evaluated with (default: the shipped
-        catalogue alone); its units follow the project's (:attr:`context`)."""
+    def __init__(self, project: pj.Project | None = None, path=None, parent=None, *, context: Context):
+        """``context``: the catalogue and program version the project is evaluated with (the window's, required);
+        its units follow the project's (:attr:`context`)."""
         super().__init__(parent)
-        self._context = context if context is not None else Context.load()
+        self._context = context
         self.undo_stack = QUndoStack(self)
         self.project = project or new_project()
         self.path = Path(path) if path else None

@@ -12,7 +12,6 @@ from __future__ import annotations
 
 import dataclasses
 import datetime
-import re
 from dataclasses import dataclass
 from pathlib import Path
 
@@ -23,6 +22,7 @@ from PySide6.QtWidgets import (QButtonGroup, QCheckBox, QComboBox, QDialog, QDia
                                QPlainTextEdit, QPushButton, QRadioButton, QVBoxLayout, QWidget)
 
 from .. import project as pj
+from ..files import safe_file_name
 from .fields import message_line
 from .screen_fit import fit_to_screen, scrolling
 from .style import STYLE
@@ -41,13 +41,6 @@ def _hint(text: str) -> QLabel:
     label.setObjectName("hint")
     label.setWordWrap(True)
     return label
-
-
-def safe_file_name(text: str) -> str:
-    """``text`` usable as a file name on every system (no slashes, colons, ...)."""
-    name = re.sub(r"\s*:\s*", " - ", text)
-    name = re.sub(r'[\\/*?"<>|\x00-\x1f]+', "-", name).strip(" .-")
-    return name or "design-sheets"
 
 
 # ----------------------------------------------------------------------------- sheet details
@@ -295,7 +288,7 @@ class ExportSheetDialog(QDialog):
         if typed and typed != getattr(self, "_suggested", None):
             return
         stem = self.project.name + (f" - {self.current_name}" if self.one.isChecked() else "")
-        self._suggested = str(Path(self.folder) / f"{safe_file_name(stem)}.pdf")
+        self._suggested = str(Path(self.folder) / safe_file_name(stem, ".pdf", fallback="design-sheets"))
         self.path.setText(self._suggested)
 
     def _choose_path(self) -> None:
@@ -385,5 +378,4 @@ class NotesDialog(QDialog):
         return self.edit.toPlainText()
 
 
-__all__ = ["SheetDetailsDialog", "ExportSheetDialog", "ExportChoice", "ask_password", "NotesDialog", "PAPERS",
-           "safe_file_name"]
+__all__ = ["SheetDetailsDialog", "ExportSheetDialog", "ExportChoice", "ask_password", "NotesDialog", "PAPERS"]

@@ -22,12 +22,11 @@ from .reporting import ReachLines, Tally, problem_rows, summary
 from .writing import result_table
 
 
-def evaluate(inventory: Inventory, progress=None, catalogue=None) -> mr.BatchResult:
+def evaluate(inventory: Inventory, progress=None, *, catalogue) -> mr.BatchResult:
     """Check every reach of ``inventory`` (results SI; reasons quote the inventory's units).
 
-    ``catalogue`` is the lining catalogue the ``lining`` column refers to
-    (default: the shipped one; see hydraulics.linings.load_catalogue for a
-    user catalogue on top of it).
+    ``catalogue`` is the lining catalogue the ``lining`` column refers to: the front end's (the shipped one with
+    the user's file laid over it, ``app.context.Context.catalogue``); required, never defaulted.
     """
     return mr.evaluate(inventory.reaches, display=inventory.units, progress=progress, catalogue=catalogue)
 
@@ -37,7 +36,7 @@ def evaluate(inventory: Inventory, progress=None, catalogue=None) -> mr.BatchRes
 WRITE_CHUNK = 25_000
 
 
-def check_file(source, target, units: str = "us", progress=None, catalogue=None, *, rows: int = BLOCK_ROWS,
+def check_file(source, target, units: str = "us", progress=None, *, catalogue, rows: int = BLOCK_ROWS,
                problems: int = 0, layer: str | None = None, units_checked: bool = False) -> Tally:
     """Read, check and write the inventory file ``source`` block by block (``rows`` reaches a block, see
     :func:`app.inventory.reading.read_blocks`) into the results file ``target``; returns the :class:`Tally` of
@@ -182,9 +181,10 @@ class BatchRun:
 WINDOW_FEATURES = 10_000_000
 
 
-def run_inventory(path, units: str = "us", progress=None, catalogue=None, layer: str | None = None) -> BatchRun:
+def run_inventory(path, units: str = "us", progress=None, *, catalogue, layer: str | None = None) -> BatchRun:
     """Read and check the inventory at ``path`` (a CSV file, or ``layer`` of a GeoPackage: its only layer by
-    default); ``progress(done, total)`` is called as it goes.
+    default) with the lining ``catalogue`` (the front end's, required); ``progress(done, total)`` is called as it
+    goes.
 
     Raises InventoryError (whole file unreadable, or a GeoPackage refused: see :mod:`app.inventory.layers`) or
     InputError (unknown units).
@@ -195,4 +195,4 @@ def run_inventory(path, units: str = "us", progress=None, catalogue=None, layer:
         if layer is not None:
             raise InventoryError(f"{path}: a CSV inventory has no layers (a layer is chosen in a GeoPackage, .gpkg)")
         inventory = read_inventory(path, units)
-    return BatchRun(inventory, evaluate(inventory, progress, catalogue))
+    return BatchRun(inventory, evaluate(inventory, progress, catalogue=catalogue))

@@ -1,14 +1,14 @@
 """The design sheets: a PDF page per channel and a few pages per ditch run for the plan set, vector, headless.
 
     from app.sheet import export_sheets
-    export_sheets(project, "sheets.pdf", channels=["North roadside ditch"], page="letter")
-    export_sheets(project, "runs.pdf", channels=[], runs=None)          # every run, no channel
-    export_sheets(project, "all.pdf", runs=None)                        # every channel, then every run
-    export_sheets(project, "signed.pdf", sign=("engineer.p12", password))
-    export_sheets(project, "sheets.pdf", catalogue=load_default_catalogue(user_path))
+    catalogue = Context.load(user_path).catalogue      # the shipped catalogue with the user's file
+    export_sheets(project, "sheets.pdf", channels=["North roadside ditch"], page="letter", catalogue=catalogue)
+    export_sheets(project, "runs.pdf", channels=[], runs=None, catalogue=catalogue)   # every run, no channel
+    export_sheets(project, "all.pdf", runs=None, catalogue=catalogue)                 # every channel, then every run
+    export_sheets(project, "signed.pdf", sign=("engineer.p12", password), catalogue=catalogue)
 
 Each channel sheet prints what :func:`app.evaluate.evaluate_channel` finds for its
-channel with the given lining catalogue (default: the shipped one); each run
+channel with the given lining catalogue (required: there is no default); each run
 sheet what :func:`app.run_design.design_run` finds for its run
 (:mod:`app.sheet.run_content`, :mod:`app.sheet.run_layout`).
 
@@ -58,15 +58,11 @@ def _select_runs(project, runs):
     return [r if not isinstance(r, str) else project.run(r) for r in runs]  # KeyError names the runs there are
 
 
-def sheet_pdf(project, channels=None, page: str = "letter", catalogue=None, runs=()) -> tuple[bytes, list]:
+def sheet_pdf(project, channels=None, page: str = "letter", *, catalogue, runs=()) -> tuple[bytes, list]:
     """The unsigned PDF bytes (one page per channel, then the pages of each run) and notes for the user (e.g. a
-    missing logo)."""
+    missing logo), evaluated with ``catalogue`` (the front end's)."""
     if page not in PAGES:
         raise ValueError(f"page must be one of {', '.join(PAGES)}, got {page!r}")
-    if catalogue is None:
-        from ..evaluate import load_default_catalogue
-
-        catalogue = load_default_catalogue()
     chosen, chosen_runs = _select(project, channels), _select_runs(project, runs)
     if not chosen and not chosen_runs:
         raise KeyError("no channel or run chosen for the sheet")
@@ -88,7 +84,7 @@ def sheet_pdf(project, channels=None, page: str = "letter", catalogue=None, runs
     return render(project, sheets, page)
 
 
-def export_sheets(project, path, channels=None, page: str = "letter", sign=None, catalogue=None, runs=()) -> list:
+def export_sheets(project, path, channels=None, page: str = "letter", sign=None, *, catalogue, runs=()) -> list:
     """Write the design sheets of ``project`` to ``path`` (one PDF: one page per channel, then each run's pages).
 
     Parameters
@@ -106,9 +102,9 @@ def export_sheets(project, path, channels=None, page: str = "letter", sign=None,
         The engineer's PKCS#12 file. With a bare path the password comes from
         DITCHWRIGHT_CERT_PASSWORD or is asked for at the terminal; a window
         asks for it itself and passes (path, password). It is never stored.
-    catalogue : hydraulics.linings.Catalogue, optional
-        The lining catalogue (``app.evaluate.load_default_catalogue(user_path)``
-        to include the user's); default the shipped one. The fingerprints
+    catalogue : hydraulics.linings.Catalogue
+        The lining catalogue, required (the front end's ``Context.catalogue``:
+        the shipped one with the user's file). The fingerprints
         printed include the entries used, so ``ditchwright fingerprint`` needs
         the same catalogue to reproduce them.
 
@@ -117,7 +113,7 @@ def export_sheets(project, path, channels=None, page: str = "letter", sign=None,
     NoSolutionError (the channel cannot be solved; its ``channel`` attribute says which, as in the project
     file), SheetLayoutError, SigningError.
     """
-    data, notes = sheet_pdf(project, channels, page, catalogue, runs)
+    data, notes = sheet_pdf(project, channels, page, catalogue=catalogue, runs=runs)
     if sign is not None:
         if isinstance(sign, (str, os.PathLike)):
             p12, password = sign, password_from_environment_or_prompt(sign)

@@ -40,7 +40,7 @@ from .. import __version__
 from ..comparison_table import EMPTY, comparison_table
 from ..context import Context
 from ..verdicts import Verdict, too_shallow_reason
-from ..evaluate import ChannelDesign, design_flow, evaluate_channel, load_default_catalogue
+from ..evaluate import ChannelDesign, design_flow, evaluate_channel
 from ..lining_names import STONE_SIZE, name_in_units
 from ..results import EXTRA_FIELDS, convert, format_value, panel_field, rounded
 from .fingerprint import fingerprint
@@ -520,15 +520,12 @@ def _depth_items(design: ChannelDesign, f: Formatter, src: Sources) -> list:
 
 
 # ------------------------------------------------------------------ comparison
-def comparison_lines(design: ChannelDesign, f: Formatter, catalogue: Catalogue | None = None
-                     ) -> tuple[list | None, list, bool]:
+def comparison_lines(design: ChannelDesign, f: Formatter, catalogue: Catalogue) -> tuple[list | None, list, bool]:
     """One line per lining (the channel's own first), footnotes, and whether any is priced: the one comparison
     table (:mod:`app.comparison_table`, the window's and ``ditchwright compare``'s) laid out for the sheet."""
     rows = design.comparison
     if not rows:
         return None, [], False
-    if catalogue is None:
-        catalogue = load_default_catalogue()
     table = comparison_table(rows, Context(catalogue, f.units), design.section.full_depth)
     own = design.channel.lining.key if design.channel.lining is not None else None
     lines, notes = [], []
@@ -584,15 +581,13 @@ def catalogue_words(catalogue: Catalogue) -> str:
     return f"{catalogue.origin}{version}"
 
 
-def channel_sheet(project, channel, catalogue: Catalogue | None = None) -> ChannelSheet:
+def channel_sheet(project, channel, catalogue: Catalogue) -> ChannelSheet:
     """Evaluate ``channel`` of ``project`` and word everything printed for it.
 
-    ``catalogue`` is the lining catalogue (default: the shipped one); pass the
-    same one to :func:`app.sheet.fingerprint.fingerprint` to recompute the
-    printed fingerprint.
+    ``catalogue`` is the lining catalogue (the front end's, with the user's
+    entries); pass the same one to :func:`app.sheet.fingerprint.fingerprint`
+    to recompute the printed fingerprint.
     """
-    if catalogue is None:
-        catalogue = load_default_catalogue()
     units = hu.system(project.units)
     f = Formatter(units)
     design = evaluate_channel(channel, catalogue)

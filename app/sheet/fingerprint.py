@@ -90,34 +90,31 @@ def design_inputs(channel) -> dict:
     return {key: data[key] for key in DESIGN_FIELDS}
 
 
-def used_linings(channel, catalogue=None) -> dict:
+def used_linings(channel, catalogue) -> dict:
     """{key: catalogue entry data} of the linings ``channel`` names (its own and the alternatives).
 
-    ``catalogue`` is a hydraulics.linings.Catalogue (default: the shipped one).
+    ``catalogue`` is a hydraulics.linings.Catalogue (the one the sheet was made with).
     Raises hydraulics.InputError naming an unknown key.
     """
     keys = [c.key for c in (channel.lining, *channel.alternatives) if c is not None]
     if not keys:
         return {}
-    if catalogue is None:
-        from hydraulics.linings import load_catalogue
-
-        catalogue = load_catalogue()
     return {key: catalogue.get(key).to_dict() for key in keys}
 
 
-def fingerprint_document(channel, version: str = __version__, catalogue=None) -> str:
+def fingerprint_document(channel, version: str = __version__, *, catalogue) -> str:
     """The exact text that is hashed."""
     return canonical_json({"program": PROGRAM, "version": version, "inputs": design_inputs(channel),
                            "linings": used_linings(channel, catalogue)})
 
 
-def fingerprint(channel, version: str = __version__, catalogue=None) -> str:
+def fingerprint(channel, version: str = __version__, *, catalogue) -> str:
     """SHA-256 (64 hex digits) of the channel's canonical design inputs, its lining entries and the version.
 
-    ``catalogue``: the lining catalogue the sheet was made with (default: the shipped one).
+    ``catalogue``: the lining catalogue the sheet was made with (required: the shipped one alone would give another
+    fingerprint wherever the user's file changes a lining used).
     """
-    return hashlib.sha256(fingerprint_document(channel, version, catalogue).encode("ascii")).hexdigest()
+    return hashlib.sha256(fingerprint_document(channel, version, catalogue=catalogue).encode("ascii")).hexdigest()
 
 
 
@@ -131,26 +128,23 @@ def run_design_inputs(run) -> dict:
     return {key: value for key, value in data.items() if key not in RUN_LABEL_FIELDS}
 
 
-def run_used_linings(run, catalogue=None) -> dict:
+def run_used_linings(run, catalogue) -> dict:
     """{key: catalogue entry data} of the run's candidate linings. Raises hydraulics.InputError naming an unknown
     key."""
     keys = [c.key for c in run.candidates]
     if not keys:
         return {}
-    if catalogue is None:
-        from hydraulics.linings import load_catalogue
-
-        catalogue = load_catalogue()
     return {key: catalogue.get(key).to_dict() for key in keys}
 
 
-def run_fingerprint_document(project, run, version: str = __version__, catalogue=None) -> str:
+def run_fingerprint_document(project, run, version: str = __version__, *, catalogue) -> str:
     """The exact text hashed for a run of ``project``."""
     return canonical_json({"program": PROGRAM, "version": version, "inputs": run_design_inputs(run),
                            "rainfall": project.rainfall, "linings": run_used_linings(run, catalogue)})
 
 
-def run_fingerprint(project, run, version: str = __version__, catalogue=None) -> str:
+def run_fingerprint(project, run, version: str = __version__, *, catalogue) -> str:
     """SHA-256 (64 hex digits) of a run's design inputs, the project's rainfall, its candidates' catalogue entries
-    and the program version (``catalogue``: the one the sheet was made with; default the shipped one)."""
-    return hashlib.sha256(run_fingerprint_document(project, run, version, catalogue).encode("ascii")).hexdigest()
+    and the program version (``catalogue``: the one the sheet was made with; required)."""
+    document = run_fingerprint_document(project, run, version, catalogue=catalogue)
+    return hashlib.sha256(document.encode("ascii")).hexdigest()

@@ -111,14 +111,10 @@ def station_heads(units: hu.UnitSystem) -> list:
     return out
 
 
-def run_sheet(project, run, catalogue: Catalogue | None = None, design: RunDesign | None = None) -> RunSheet:
+def run_sheet(project, run, catalogue: Catalogue, design: RunDesign | None = None) -> RunSheet:
     """Solve ``run`` of ``project`` (through :func:`app.run_design.design_run`) and gather what its sheet prints,
-    in the project's units. ``catalogue``: the lining catalogue (default the shipped one); the printed fingerprint
-    includes its entries of the run's candidates."""
-    if catalogue is None:
-        from ..evaluate import load_default_catalogue
-
-        catalogue = load_default_catalogue()
+    in the project's units. ``catalogue``: the front end's lining catalogue (with the user's entries); the printed
+    fingerprint includes its entries of the run's candidates."""
     units = hu.system(project.units)
     if design is None:
         design = design_run(project, run, catalogue)

@@ -8,6 +8,9 @@ from app import project as pj
 from app.gui import commands as cmd
 from app.editing import section_for_shape, with_value
 from app.gui.document import ProjectDocument
+from app.context import Context
+
+CONTEXT = Context.load()   # the shipped lining catalogue alone, US units
 
 
 def sample():
@@ -16,7 +19,7 @@ def sample():
 
 
 def test_edit_channel_undo_redo():
-    doc = ProjectDocument(sample())
+    doc = ProjectDocument(sample(), context=CONTEXT)
     before = copy.deepcopy(doc.project)
     stack = doc.undo_stack
     stack.push(cmd.EditChannel(doc, 1, with_value(doc.project.channels[1], "section.bottom_width", 2.0), "w"))
@@ -28,7 +31,7 @@ def test_edit_channel_undo_redo():
 
 
 def test_typing_merges_and_typing_back_drops_the_command():
-    doc = ProjectDocument(sample())
+    doc = ProjectDocument(sample(), context=CONTEXT)
     for v in (0.01, 0.015, 0.0155):
         doc.edit("slope", v, "Change bed slope", merge_key=("slope", 1))
     assert doc.undo_stack.count() == 1 and doc.channel().slope == 0.0155
@@ -40,7 +43,7 @@ def test_typing_merges_and_typing_back_drops_the_command():
 
 
 def test_add_remove_and_units_round_trip():
-    doc = ProjectDocument(sample())
+    doc = ProjectDocument(sample(), context=CONTEXT)
     before = copy.deepcopy(doc.project)
     doc.add_channel()
     doc.duplicate_channel(0)
@@ -60,7 +63,7 @@ def test_add_remove_and_units_round_trip():
 
 
 def test_switching_units_is_not_an_edit():
-    doc = ProjectDocument(sample())
+    doc = ProjectDocument(sample(), context=CONTEXT)
     seen = []
     doc.units_changed.connect(lambda: seen.append(doc.project.units))
     doc.set_units("si" if doc.project.units == "us" else "us")
@@ -68,13 +71,13 @@ def test_switching_units_is_not_an_edit():
 
 
 def test_last_channel_cannot_be_deleted():
-    doc = ProjectDocument(pj.Project())
+    doc = ProjectDocument(pj.Project(), context=CONTEXT)
     assert "at least one channel" in doc.remove_channel()
     assert len(doc.project.channels) == 1 and doc.undo_stack.count() == 0
 
 
 def test_edits_never_change_a_channel_in_place():
-    doc = ProjectDocument(sample())
+    doc = ProjectDocument(sample(), context=CONTEXT)
     old = doc.project.channels[0]
     snapshot = copy.deepcopy(old)
     doc.edit("section.bottom_width", 1.7, "w", index=0)

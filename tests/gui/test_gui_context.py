@@ -83,3 +83,12 @@ def test_a_user_catalogue_that_cannot_be_used_is_said_and_left_out(tmp_path, qtb
     qtbot.addWidget(w)
     assert w.statusBar().currentMessage() == context.catalogue_problem
     w.doc.undo_stack.setClean()
+
+
+def test_the_document_refuses_to_open_without_a_context():
+    """No default context: a document made without one would evaluate with the shipped catalogue unseen."""
+    from app.gui.document import ProjectDocument
+
+    with pytest.raises(TypeError, match="context"):
+        ProjectDocument(demo())
+    assert ProjectDocument(demo(), context=Context.load()).context.catalogue is not None

@@ -24,8 +24,8 @@ def test_the_file_menu_writes_every_drawing_in_the_units_shown(demo_window, monk
     project = w.doc.project
     names = sorted(p.name for p in out.iterdir())
     assert len(names) == len(project.channels) + len(project.runs)
-    assert "North_verge_ditch-profile.dxf" in names and "East_verge_ditch-section.dxf" in names
-    assert ezdxf.readfile(out / "East_verge_ditch-section.dxf").header["$INSUNITS"] == INSUNITS["us"]
+    assert "North verge ditch-profile.dxf" in names and "East verge ditch-section.dxf" in names
+    assert ezdxf.readfile(out / "East verge ditch-section.dxf").header["$INSUNITS"] == INSUNITS["us"]
     assert dialogs.shown == [] and "Wrote 6 DXF drawings (ft)" in w.statusBar().currentMessage()
 
 

@@ -9,6 +9,9 @@ import pytest
 from app import project as pj
 from app.files import FileChangedError, FileStamp
 from app.gui.mainwindow import MainWindow
+from app.context import Context
+
+CONTEXT = Context.load()   # the shipped lining catalogue alone, US units
 
 
 def _theirs(path, name="Changed by a colleague"):
@@ -124,7 +127,7 @@ def test_the_document_refuses_to_save_over_a_changed_file(tmp_path):
     from app.gui.document import ProjectDocument
     path = tmp_path / "p.json"
     pj.save(pj.Project(name="Mine"), path)
-    doc = ProjectDocument(pj.load(path), path)
+    doc = ProjectDocument(pj.load(path), path, context=CONTEXT)
     before = FileStamp.of(path)
     _theirs(path, "Mina")                       # same size, other content: the hash tells
     assert FileStamp.of(path).size == before.size

@@ -25,7 +25,6 @@ from scipy.optimize import brentq
 import hydraulics as hy
 from app import project as pj
 from app import sheet as sheet_errors
-from app.gui import sheet_dialogs
 from app.gui.mainwindow import MainWindow, export_failure_text
 from app.gui.sheet_dialogs import ExportSheetDialog, NotesDialog, SheetDetailsDialog
 
@@ -367,8 +366,10 @@ def test_menus_hold_the_new_actions(window):
 
 
 def test_safe_file_names():
-    assert sheet_dialogs.safe_file_name("Demo: a/b") == "Demo - a-b"
-    assert sheet_dialogs.safe_file_name("...") == "design-sheets"
+    from app.files import safe_file_name   # the one rule, shared with the drawings (tests/test_dxf_drawing.py)
+
+    assert safe_file_name("Demo: a/b") == "Demo - a-b"
+    assert safe_file_name("...", fallback="design-sheets") == "design-sheets"
 
 
 def test_sheet_from_the_window_uses_the_users_catalogue(qtbot, monkeypatch, tmp_path, dialogs):

@@ -34,6 +34,9 @@ from app.results import format_value
 from app.sheet import export_sheets
 from app.verdicts import Verdict
 from hydraulics.units import system
+from app.context import Context
+
+SHIPPED = Context.load().catalogue   # the shipped lining catalogue alone
 
 CHANNELS = ("East verge ditch", "North cut ditch")      # concrete (priced), gravel mulch (priced)
 USER = ('schema_version = 1\n'
@@ -331,7 +334,7 @@ def test_a_run_reads_alike_in_the_window_the_sheet_and_the_run_command(units, de
     project = P.load(P.demo_path())
     project.units = units
     pdf = tmp_path / "run.pdf"
-    export_sheets(project, pdf, channels=[], runs=[RUN])
+    export_sheets(project, pdf, channels=[], runs=[RUN], catalogue=SHIPPED)
     sheet = _spaced(" ".join(p.extract_text() for p in PdfReader(pdf).pages))
     schedule = sheet.split("LINING SCHEDULE", 1)[1].split("THE RUN", 1)[0]
 
