@@ -17,7 +17,7 @@ max_step=10.0, step_tolerance=1e-4) -> WaterSurface``
     elevation standing at the outfall, e.g. a culvert headwater or a receiving stream; giving
     ``outfall_level`` alone means "level"); ``inlet`` "normal", "critical" or a depth [m] held at the top
     (e.g. the flow leaving a pipe). ``max_step`` [m] is the longest computation step; ``step_tolerance`` [-]
-    the relative difference allowed between one step and two half steps (see "Step control").
+    sets the error allowed in a step's depth, relative to the depth (see "Step control").
 ``specific_force(section, flow, depth)`` -> M = Q^2 / (g A) + A y_bar [m^3].
 ``sequent_depth(section, flow, depth)`` -> the other depth of equal specific force [m].
 ``friction_slope(section, flow, n, depth)`` -> S_f = (Q n / (A R^(2/3)))^2 [-].
@@ -59,11 +59,21 @@ Method
 
 Step control
 ------------
-A stretch between design points is cut into equal steps no longer than ``max_step``. A step whose whole change
-of depth is within ``step_tolerance`` times the depth is kept as it is (its error is a small part of that
-change). Any other step is taken once whole and once as two halves; when the two answers differ by more than
-``step_tolerance`` times the depth, each half is treated the same way (down to MIN_STEP = 1 mm), and the
-two-half answer is kept.
+A stretch between design points is cut into equal steps no longer than ``max_step``. Each step's error is
+estimated from the step itself (an embedded estimate, no extra solve): the standard step takes the friction loss
+by the trapezoidal rule, whose error is -(L^3 / 12) f''(xi) (M. Hjorth-Jensen, *Computational Physics*, "Error in the trapezoidal
+rule", compphysics.github.io), to leading order -(L^2 / 12) (f'(b) - f'(a)) with the end derivatives
+(mathematics-online.org, "Trapezoid Rule", the asymptotic expansion of its error); here f' = dS_f/dx =
+(dS_f/dy)(dy/dx) at each end, with dy/dx = (S0 - S_f) / (1 - Fr^2), and the error of the energy balance is
+carried to the depth through the balance's derivative (the program's use of these). A step whose estimated error is within
+STEP_ERROR_SHARE (0.12) of ``step_tolerance`` times the depth is kept; any other is cut into as many equal pieces
+(at most MAX_PIECES at once, none shorter than MIN_STEP = 1 mm) as bring the estimate, which goes as the cube
+of the step, within it, and each piece is checked the same way. The share is chosen so that the profile lies at
+least as close to a fine-step reference as with the halving used before (each step against its two halves;
+``tests/test_water_surface_step_control.py`` measures both). Next to critical depth (1 - Fr^2 within
+NEAR_CRITICAL) the estimate has no value, and where one end of a step has no root on its branch there is nothing
+to estimate: such a step is taken once whole and once as two halves, and halved again while the two differ by more
+than ``step_tolerance`` times the depth (down to MIN_STEP), the two-half answer kept.
 
 Controls and regimes
 --------------------
@@ -134,8 +144,15 @@ __all__ = ["water_surface", "WaterSurface", "Jump", "specific_force", "sequent_d
 
 #: Every step's energy balance is met to this head [m].
 HEAD_TOLERANCE = 1e-10
-#: Shortest step the step control halves to [m].
+#: Shortest step the step control cuts to [m].
 MIN_STEP = 1e-3
+#: A step is kept when its estimated depth error is within this share of ``step_tolerance`` times the depth [-].
+STEP_ERROR_SHARE = 0.12
+#: Most pieces a step is cut into at once (each piece is checked in turn).
+MAX_PIECES = 8
+#: Within this of critical depth in 1 - Fr^2 [-] the error estimate has no value (dy/dx grows without bound):
+#: steps there are halved and compared with their halves instead.
+NEAR_CRITICAL = 1e-3
 #: A depth within this fraction of normal (critical) depth is called uniform (critical) [-].
 PROFILE_BAND = 1e-3
 #: Length of a hydraulic jump over its sequent depth, L = 6 y2 [-] (see provenance key ``jump_length``).
@@ -372,6 +389,8 @@ class _Props:
             dlogn = (e + 2 / 3 * f) * (t_a - dp_p) + f * t_a
         else:
             n = self.nfn(y)
+            h = 1e-6 * y  # d ln n/dy by a difference: the step control's error estimate needs dS_f/dy whole
+            dlogn = math.log(n / self.nfn(y - h)) / h
         v2g = q * q / (2 * G * a * a)
         sf = (q * n / conveyance) ** 2
         de = 1 - 2 * v2g * t_a
@@ -418,7 +437,7 @@ def _state(props, y, status):
     return _State(y, status, *props.head_terms(y))
 
 
-def _solve_step(props, z, known, z_known, length, upstream):
+def _solve_step(props, z, known, z_known, length, upstream, from_props=None):
     """Depth at a node ``length`` [m] from a known state, on the subcritical (``upstream``) or supercritical branch.
 
     Energy balance (standard step, mean friction slope): going upstream z + E - L/2 S_f = z_k + E_k + L/2 S_fk;
@@ -426,7 +445,10 @@ def _solve_step(props, z, known, z_known, length, upstream):
     root, _TOP when the subcritical root lies above the section's top).
 
     The first trial is one Newton step from the known depth, worked out from the known state's own terms (the
-    two nodes of a step of some length share their props), which lies close to the root on a short step.
+    two nodes of a step of some length share their props), which lies close to the root on a short step. Across a
+    change of flow at a point (a step of length zero, ``from_props`` the known state's props, on the same
+    section) the known terms are carried to the new flow: at the known depth the velocity head scales with
+    (Q / Q_known)^2 and dE/dy = 1 - (Q / Q_known)^2 (1 - dE/dy_known).
     """
     half = 0.5 * length
     c = -half if upstream else half
@@ -449,7 +471,14 @@ def _solve_step(props, z, known, z_known, length, upstream):
     else:  # residual falls with depth below critical depth
         lo, hi = 0.0, yc
         y = known.y if on_branch else 0.9 * yc
-    if on_branch and length > 0.0 and y == known.y:
+    if on_branch and length == 0.0 and from_props is not None and from_props.section is props.section:
+        ratio = (props.flow / from_props.flow) ** 2
+        dr = 1.0 - ratio * (1.0 - known.de)
+        if dr != 0.0:
+            trial = y - (known.energy - known.y) * (ratio - 1.0) / dr
+            if lo < trial < hi:
+                y = trial
+    elif on_branch and length > 0.0 and y == known.y:
         dr = known.de + c * known.dsf
         if dr != 0.0:
             trial = y - (known.energy + c * known.sf - target) / dr
@@ -480,17 +509,48 @@ def _solve_step(props, z, known, z_known, length, upstream):
                            f"(depth {y:.6g} m, head residual {r:.3g} m, tolerance {HEAD_TOLERANCE:g} m)")
 
 
-def _advance(props, known, x0, z0, x1, z1, upstream, tol, full=None):
-    """Carry ``known`` (at x0, z0) to (x1, z1) on one stretch, halving the step while whole and halves differ.
+def _step_error(props, known, new, length, upstream):
+    """Estimated error of a step's depth [m] (see "Step control"): the trapezoidal rule's error in the friction
+    loss, (L^2 / 12) times the change of dS_f/dx = (dS_f/dy)(dy/dx) between the step's ends, dy/dx = (S0 - S_f) /
+    (1 - Fr^2) (the gradually varied flow equation; 1 - Fr^2 = dE/dy), carried to the depth through the step's
+    energy balance (over its derivative dE/dy -/+ L/2 dS_f/dy)."""
+    s0 = props.slope
+    change = new.dsf * (s0 - new.sf) / new.de - known.dsf * (s0 - known.sf) / known.de
+    slope = new.de + (-0.5 if upstream else 0.5) * length * new.dsf
+    return math.inf if slope == 0.0 else abs(length * length / 12.0 * change / slope)
 
-    ``full`` is the whole step's answer where the caller has it already (the first half of a halved step)."""
+
+def _advance(props, known, x0, z0, x1, z1, upstream, tol, new=None, from_props=None):
+    """Carry ``known`` (at x0, z0) to (x1, z1) on one stretch, cutting the step while its estimated error is above
+    the tolerance (see "Step control" in the module's text).
+
+    ``new`` is the whole step's answer where the caller has it already; ``from_props`` the known state's props
+    where they are not ``props`` (a change at a point)."""
     length = abs(x1 - x0)
-    if full is None:
-        full = _solve_step(props, z1, known, z0, length, upstream)
-    if length == 0.0 or (full.status != _OK and known.status != _OK):
-        return full
-    if full.status == _OK and known.status == _OK and abs(full.y - known.y) <= tol * full.y:
-        return full  # the whole change of depth is within the tolerance, so is the step's error (a part of it)
+    if new is None:
+        new = _solve_step(props, z1, known, z0, length, upstream, from_props)
+    if length == 0.0 or (new.status != _OK and known.status != _OK):
+        return new
+    if new.status == _OK and known.status == _OK and abs(known.de) > NEAR_CRITICAL < abs(new.de):
+        error = _step_error(props, known, new, length, upstream)
+        allowed = STEP_ERROR_SHARE * tol * new.y
+        if error <= allowed or length < 2.0 * MIN_STEP:
+            return new
+        # the error goes as the cube of the step: as many equal pieces as bring it within the tolerance
+        pieces = MAX_PIECES
+        if allowed > 0.0 and error < math.inf:
+            pieces = min(MAX_PIECES, max(2, math.ceil(1.1 * (error / allowed) ** (1 / 3))))
+        pieces = min(pieces, int(length / MIN_STEP))
+        s = known
+        for i in range(1, pieces + 1):
+            f0, f1 = (i - 1) / pieces, i / pieces
+            s = _advance(props, s, x0 + f0 * (x1 - x0), z0 + f0 * (z1 - z0), x0 + f1 * (x1 - x0),
+                         z0 + f1 * (z1 - z0), upstream, tol)
+            if s.status != _OK:
+                return _State(props.yc, s.status) if s.status == _CRIT else _State(math.nan, _TOP)
+        return s
+    # one end without a root on the branch, or next to critical depth: halve, comparing the whole
+    # step with its two halves, down to MIN_STEP
     xm, zm = 0.5 * (x0 + x1), 0.5 * (z0 + z1)
     a = _solve_step(props, zm, known, z0, 0.5 * length, upstream)
     if a.status != _OK:
@@ -498,7 +558,7 @@ def _advance(props, known, x0, z0, x1, z1, upstream, tol, full=None):
     b = _solve_step(props, z1, a, zm, 0.5 * length, upstream)
     if b.status != _OK:
         return b if b.status == _CRIT else _State(math.nan, _TOP)
-    if (full.status == _OK and abs(full.y - b.y) <= tol * b.y) or 0.5 * length < MIN_STEP:
+    if (new.status == _OK and abs(new.y - b.y) <= tol * b.y) or 0.5 * length < MIN_STEP:
         return b
     a = _advance(props, known, x0, z0, xm, zm, upstream, tol, a)  # the first half's whole step is ``a``
     if a.status != _OK:
@@ -835,7 +895,7 @@ def _subcritical_pass(nodes, z_out, outfall, level, tol) -> _Downstream:
             known = _state(b.props, b.props.yc, _CRIT)
         # Two nodes a step apart lie on one stretch and share its props; at a change at a point (a step of length
         # zero) the energy is carried onto the props of the node reached.
-        s = _advance(a.props, known, b.x, b.z, a.x, a.z, True, tol)
+        s = _advance(a.props, known, b.x, b.z, a.x, a.z, True, tol, from_props=b.props)
         if s.status == _TOP and stop_at is None:
             stop_at = a.x
         sub[k] = s
@@ -879,7 +939,7 @@ def _supercritical_pass(nodes, inlet, sub, tol) -> _Upstream:
         elif branch[k - 1] in ("sup", "crit"):
             a = nodes[k - 1]
             known = sup[k - 1] if branch[k - 1] == "sup" else _state(a.props, a.props.yc, _CRIT)
-            u = _advance(p, known, a.x, a.z, node.x, node.z, False, tol)
+            u = _advance(p, known, a.x, a.z, node.x, node.z, False, tol, from_props=a.props)
         else:
             u = _State(p.yc, _CRIT)  # subcritical upstream, no control between: no supercritical flow here
         sup[k] = u
