@@ -705,9 +705,9 @@ def water_surface(distance, bed, sections, n, flow, *, outfall="normal", outfall
     depth, branch = up.depth, up.branch
     jumps = [_locate_jump(nodes[k], nodes[k + 1], up.states[k], down.states[k + 1], step_tolerance)
              for k in range(len(nodes) - 1) if branch[k] == "sup" and branch[k + 1] == "sub"]
-    node_types = ["not computed" if not math.isfinite(depth[k]) else
-                  profile_type(depth[k], node.props.yn, node.props.yc, node.props.slope)
-                  for k, node in enumerate(nodes)]
+    node_types = ["not computed" if not math.isfinite(y) else profile_type(y, node.props.yn, node.props.yc,
+                                                                           node.props.slope)
+                  for y, node in zip(depth.tolist(), nodes)]
     point_nodes = [k for k, node in enumerate(nodes) if node.point >= 0]
     points = _point_results(nodes, point_nodes, depth, branch, z, down.stop_at)
     controls = {"outfall": _outfall_control(nodes, outfall, z[-1], down, depth, branch, points.messages[-1]),
@@ -822,16 +822,18 @@ def _nodes(x, z, point_props, max_step) -> list:
     """Computation nodes: each point, the steps of its stretch, and the upstream side of a change at the next
     point."""
     nodes = []
-    for i in range(x.size - 1):
+    xs, zs = x.tolist(), z.tolist()
+    for i in range(len(xs) - 1):
         p = point_props[i]
-        nodes.append(_Node(float(x[i]), float(z[i]), p, i))
-        pieces = max(1, math.ceil((x[i + 1] - x[i]) / max_step - 1e-9))
+        x0, z0, dx, dz = xs[i], zs[i], xs[i + 1] - xs[i], zs[i + 1] - zs[i]
+        nodes.append(_Node(x0, z0, p, i))
+        pieces = max(1, math.ceil(dx / max_step - 1e-9))
         for k in range(1, pieces):
             f = k / pieces
-            nodes.append(_Node(float(x[i] + f * (x[i + 1] - x[i])), float(z[i] + f * (z[i + 1] - z[i])), p, -1))
+            nodes.append(_Node(x0 + f * dx, z0 + f * dz, p, -1))
         if point_props[i + 1] is not p:
-            nodes.append(_Node(float(x[i + 1]), float(z[i + 1]), p, -2))
-    nodes.append(_Node(float(x[-1]), float(z[-1]), point_props[-1], x.size - 1))
+            nodes.append(_Node(xs[i + 1], zs[i + 1], p, -2))
+    nodes.append(_Node(xs[-1], zs[-1], point_props[-1], len(xs) - 1))
     return nodes
 
 
@@ -930,7 +932,7 @@ def _supercritical_pass(nodes, inlet, sub, tol) -> _Upstream:
         start = _State(inlet, _OK) if inlet < first.yc else _State(first.yc, _CRIT)
     size = len(nodes)
     sup = [None] * size
-    depth = np.full(size, math.nan)
+    depth = [math.nan] * size
     branch = [""] * size
     for k, node in enumerate(nodes):
         p = node.props
@@ -944,18 +946,15 @@ def _supercritical_pass(nodes, inlet, sub, tol) -> _Upstream:
             u = _State(p.yc, _CRIT)  # subcritical upstream, no control between: no supercritical flow here
         sup[k] = u
         s = sub[k]
-        if s.status == _OK and u.status == _OK:
-            branch[k] = "sup" if p.force(u.y) > p.force(s.y) else "sub"
-        elif s.status == _OK:
-            branch[k] = "sub"
+        if s.status == _OK and (u.status != _OK or p.force(u.y) <= p.force(s.y)):
+            branch[k], depth[k] = "sub", s.y
         elif u.status == _OK:
-            branch[k] = "sup"
+            branch[k], depth[k] = "sup", u.y
         elif s.status == _TOP:
             branch[k] = "none"
         else:
-            branch[k] = "crit"
-        depth[k] = {"sub": s.y, "sup": u.y, "crit": p.yc, "none": math.nan}[branch[k]]
-    return _Upstream(sup, depth, branch)
+            branch[k], depth[k] = "crit", p.yc
+    return _Upstream(sup, np.array(depth), branch)
 
 
 @dataclass
@@ -971,26 +970,28 @@ class _Points:
 
 def _point_results(nodes, point_nodes, depth, branch, z, stop_at) -> _Points:
     count = len(point_nodes)
-    out = _Points([], *(np.full(count, math.nan) for _ in range(3)), [[] for _ in range(count)])
+    regime, messages = [], [[] for _ in range(count)]
+    velocity, froude, energy = [math.nan] * count, [math.nan] * count, [math.nan] * count
+    depths, zs = depth.tolist(), z.tolist()
     for i, k in enumerate(point_nodes):
-        p = nodes[k].props
+        p, y = nodes[k].props, depths[k]
         if p.yn_note:
-            out.messages[i].append("no normal depth: " + p.yn_note)
-        if not math.isfinite(depth[k]):
-            out.regime.append("not computed")
-            out.messages[i].append(worded("not computed: the water surface downstream rises above the top of the "
-                                          "section (at {at})", at=_at(stop_at)))
+            messages[i].append("no normal depth: " + p.yn_note)
+        if not math.isfinite(y):
+            regime.append("not computed")
+            messages[i].append(worded("not computed: the water surface downstream rises above the top of the "
+                                      "section (at {at})", at=_at(stop_at)))
             continue
-        g = p.section._geometry(float(depth[k]))
-        out.velocity[i] = p.flow / g.area
-        out.froude[i] = out.velocity[i] / math.sqrt(G * g.area / g.top_width) if g.top_width > 0 else math.inf
-        out.energy[i] = z[i] + depth[k] + out.velocity[i] ** 2 / (2 * G)
-        out.regime.append("critical" if branch[k] == "crit" or abs(out.froude[i] - 1) <= 1e-6 else
-                          "supercritical" if out.froude[i] > 1 else "subcritical")
+        g = p.section._geometry(y)
+        v = velocity[i] = p.flow / g.area
+        fr = froude[i] = v / math.sqrt(G * g.area / g.top_width) if g.top_width > 0 else math.inf
+        energy[i] = zs[i] + y + v ** 2 / (2 * G)
+        regime.append("critical" if branch[k] == "crit" or abs(fr - 1) <= 1e-6 else
+                      "supercritical" if fr > 1 else "subcritical")
         if branch[k] == "crit" and 0 < i < count - 1:
-            out.messages[i].append("the flow passes through critical depth here: a control, which sets the water "
-                                   "surface upstream (as where a milder stretch meets a steeper one)")
-    return out
+            messages[i].append("the flow passes through critical depth here: a control, which sets the water "
+                               "surface upstream (as where a milder stretch meets a steeper one)")
+    return _Points(regime, np.array(velocity), np.array(froude), np.array(energy), messages)
 
 
 def _stretch_types(node_types, point_nodes) -> list:
