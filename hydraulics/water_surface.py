@@ -54,7 +54,10 @@ Method
   supercritical one. On its branch the energy balance is monotonic in the depth, so the root is unique;
   Newton's method safeguarded by bisection meets it to HEAD_TOLERANCE (1e-10 m of head) or raises
   ConvergenceError. Its first trial is one Newton step from the known depth, taken with the known state's own
-  terms (so it costs no evaluation); the root does not depend on it. When the branch has no root (the energy
+  terms (so it costs no evaluation); the root does not depend on it. A Newton step whose remainder, estimated as
+  (1/2) r'' dy^2 with the curvature r'' of the residual from the change of its derivative since the last depth,
+  is within a tenth of HEAD_TOLERANCE is the root without one more evaluation (the head, the friction slope and
+  their derivatives carried to it to second order, the curvatures again from the change since the last depth). When the branch has no root (the energy
   cannot be carried), the pass records critical depth there and goes on from it.
 
 Step control
@@ -471,6 +474,9 @@ def _solve_step(props, z, known, z_known, length, upstream, from_props=None):
     else:  # residual falls with depth below critical depth
         lo, hi = 0.0, yc
         y = known.y if on_branch else 0.9 * yc
+    # the last depth and dE/dy, dS_f/dy there (the known state's, on a step of length), for the curvatures of the
+    # head and friction slope (see the module's "Method")
+    y_last = de_last = dsf_last = math.nan
     if on_branch and length == 0.0 and from_props is not None and from_props.section is props.section:
         ratio = (props.flow / from_props.flow) ** 2
         dr = 1.0 - ratio * (1.0 - known.de)
@@ -483,7 +489,7 @@ def _solve_step(props, z, known, z_known, length, upstream, from_props=None):
         if dr != 0.0:
             trial = y - (known.energy + c * known.sf - target) / dr
             if lo < trial < hi:
-                y = trial
+                y, y_last, de_last, dsf_last = trial, known.y, known.de, known.dsf
     head_terms = props.head_terms
     for _ in range(_MAX_NEWTON):
         e, sf, de, dsf = head_terms(y)
@@ -497,6 +503,15 @@ def _solve_step(props, z, known, z_known, length, upstream, from_props=None):
         dr = de + c * dsf
         step = y - r / dr if dr != 0 else math.nan
         if lo < step < hi:  # false for nan, and for inf (hi is at most inf)
+            move = step - y
+            if y != y_last:
+                e2, sf2 = (de - de_last) / (y - y_last), (dsf - dsf_last) / (y - y_last)   # d2E/dy2, d2S_f/dy2
+                if abs(e2 + c * sf2) * move * move <= 0.2 * HEAD_TOLERANCE:
+                    # the residual after this step, (1/2) r'' move^2, is within a tenth of the tolerance: the step
+                    # is the root, the terms carried to it to second order
+                    return _State(step, _OK, e + (de + 0.5 * e2 * move) * move, sf + (dsf + 0.5 * sf2 * move) * move,
+                                  de + e2 * move, dsf + sf2 * move)
+            y_last, de_last, dsf_last = y, de, dsf
             y_new = step
         elif hi == math.inf:
             y_new = 2.0 * y
