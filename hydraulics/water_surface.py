@@ -57,26 +57,30 @@ Method
   terms (so it costs no evaluation); the root does not depend on it. A Newton step whose remainder, estimated as
   (1/2) r'' dy^2 with the curvature r'' of the residual from the change of its derivative since the last depth,
   is within a tenth of HEAD_TOLERANCE is the root without one more evaluation (the head, the friction slope and
-  their derivatives carried to it to second order, the curvatures again from the change since the last depth). When the branch has no root (the energy
-  cannot be carried), the pass records critical depth there and goes on from it.
+  their derivatives carried to it to second order, the curvatures again from the change since the last depth).
+  When the branch has no root (the energy cannot be carried), the pass records critical depth there and goes on
+  from it.
 
 Step control
 ------------
-A stretch between design points is cut into equal steps no longer than ``max_step``. Each step's error is
-estimated from the step itself (an embedded estimate, no extra solve): the standard step takes the friction loss
-by the trapezoidal rule, whose error is -(L^3 / 12) f''(xi) (M. Hjorth-Jensen, *Computational Physics*, "Error in the trapezoidal
-rule", compphysics.github.io), to leading order -(L^2 / 12) (f'(b) - f'(a)) with the end derivatives
+A stretch between design points is cut into equal steps no longer than ``max_step``. Each step's error is estimated
+from the step itself (an embedded estimate, no extra solve): the standard step takes the friction loss by the
+trapezoidal rule, whose error is -(L^3 / 12) f''(xi) (M. Hjorth-Jensen, *Computational Physics*, "Error in the
+trapezoidal rule", compphysics.github.io), to leading order -(L^2 / 12) (f'(b) - f'(a)) with the end derivatives
 (mathematics-online.org, "Trapezoid Rule", the asymptotic expansion of its error); here f' = dS_f/dx =
-(dS_f/dy)(dy/dx) at each end, with dy/dx = (S0 - S_f) / (1 - Fr^2), and the error of the energy balance is
-carried to the depth through the balance's derivative (the program's use of these). A step whose estimated error is within
-STEP_ERROR_SHARE (0.12) of ``step_tolerance`` times the depth is kept; any other is cut into as many equal pieces
-(at most MAX_PIECES at once, none shorter than MIN_STEP = 1 mm) as bring the estimate, which goes as the cube
-of the step, within it, and each piece is checked the same way. The share is chosen so that the profile lies at
+(dS_f/dy)(dy/dx) at each end, with dy/dx = (S0 - S_f) / (1 - Fr^2), and the error of the energy balance is carried
+to the depth through the balance's derivative (the program's use of these). A step whose estimated error is within
+STEP_ERROR_SHARE (0.2) of ``step_tolerance`` times the depth is kept. Any other is taken again in steps of its
+length over a power of two, the power chosen from the error of the last step tried (the error goes as the cube of
+the step; with a margin of 0.9, up to three halvings or doublings at once, none shorter than MIN_STEP = 1 mm), each
+kept only once its own estimate is within the allowance, so that the steps shorten where the profile turns quickly
+(as just upstream of a change of flow) and lengthen again after. Whole powers keep the choices discrete: two
+computations that differ in the last digits take the same steps. The share is chosen so that the profile lies at
 least as close to a fine-step reference as with the halving used before (each step against its two halves;
-``tests/test_water_surface_step_control.py`` measures both). Next to critical depth (1 - Fr^2 within
-NEAR_CRITICAL) the estimate has no value, and where one end of a step has no root on its branch there is nothing
-to estimate: such a step is taken once whole and once as two halves, and halved again while the two differ by more
-than ``step_tolerance`` times the depth (down to MIN_STEP), the two-half answer kept.
+``tests/test_water_surface_step_control.py`` measures both). Next to critical depth (1 - Fr^2 within NEAR_CRITICAL)
+the estimate has no value, and where one end of a step has no root on its branch there is nothing to estimate: such
+a step is taken once whole and once as two halves, and halved again while the two differ by more than
+``step_tolerance`` times the depth (down to MIN_STEP), the two-half answer kept.
 
 Controls and regimes
 --------------------
@@ -150,9 +154,7 @@ HEAD_TOLERANCE = 1e-10
 #: Shortest step the step control cuts to [m].
 MIN_STEP = 1e-3
 #: A step is kept when its estimated depth error is within this share of ``step_tolerance`` times the depth [-].
-STEP_ERROR_SHARE = 0.12
-#: Most pieces a step is cut into at once (each piece is checked in turn).
-MAX_PIECES = 8
+STEP_ERROR_SHARE = 0.2
 #: Within this of critical depth in 1 - Fr^2 [-] the error estimate has no value (dy/dx grows without bound):
 #: steps there are halved and compared with their halves instead.
 NEAR_CRITICAL = 1e-3
@@ -535,9 +537,28 @@ def _step_error(props, known, new, length, upstream):
     return math.inf if slope == 0.0 else abs(length * length / 12.0 * change / slope)
 
 
+def _error_ratio(props, known, new, length, upstream, tol):
+    """A step's estimated error over the error allowed (see "Step control"); None where it cannot be estimated
+    (an end without a root on its branch, or next to critical depth)."""
+    if new.status != _OK or known.status != _OK or not abs(known.de) > NEAR_CRITICAL < abs(new.de):
+        return None
+    error = _step_error(props, known, new, length, upstream)
+    allowed = STEP_ERROR_SHARE * tol * new.y
+    return error / allowed if allowed > 0.0 else (0.0 if error == 0.0 else math.inf)
+
+
+def _levels(ratio):
+    """How many times to halve a step whose error ratio is ``ratio`` (negative: how many times it may be doubled)
+    so that its error falls within the allowance: the error goes as the cube of the step, with a margin of 0.9;
+    at most 3 either way."""
+    if not ratio > 0.0:
+        return -3
+    return max(-3, min(3, math.ceil(math.log2(ratio ** (1 / 3) / 0.9))))
+
+
 def _advance(props, known, x0, z0, x1, z1, upstream, tol, new=None, from_props=None):
-    """Carry ``known`` (at x0, z0) to (x1, z1) on one stretch, cutting the step while its estimated error is above
-    the tolerance (see "Step control" in the module's text).
+    """Carry ``known`` (at x0, z0) to (x1, z1) on one stretch, in steps whose estimated error is within the
+    tolerance (see "Step control" in the module's text).
 
     ``new`` is the whole step's answer where the caller has it already; ``from_props`` the known state's props
     where they are not ``props`` (a change at a point)."""
@@ -546,26 +567,40 @@ def _advance(props, known, x0, z0, x1, z1, upstream, tol, new=None, from_props=N
         new = _solve_step(props, z1, known, z0, length, upstream, from_props)
     if length == 0.0 or (new.status != _OK and known.status != _OK):
         return new
-    if new.status == _OK and known.status == _OK and abs(known.de) > NEAR_CRITICAL < abs(new.de):
-        error = _step_error(props, known, new, length, upstream)
-        allowed = STEP_ERROR_SHARE * tol * new.y
-        if error <= allowed or length < 2.0 * MIN_STEP:
-            return new
-        # the error goes as the cube of the step: as many equal pieces as bring it within the tolerance
-        pieces = MAX_PIECES
-        if allowed > 0.0 and error < math.inf:
-            pieces = min(MAX_PIECES, max(2, math.ceil(1.1 * (error / allowed) ** (1 / 3))))
-        pieces = min(pieces, int(length / MIN_STEP))
-        s = known
-        for i in range(1, pieces + 1):
-            f0, f1 = (i - 1) / pieces, i / pieces
-            s = _advance(props, s, x0 + f0 * (x1 - x0), z0 + f0 * (z1 - z0), x0 + f1 * (x1 - x0),
-                         z0 + f1 * (z1 - z0), upstream, tol)
-            if s.status != _OK:
-                return _State(props.yc, s.status) if s.status == _CRIT else _State(math.nan, _TOP)
-        return s
-    # one end without a root on the branch, or next to critical depth: halve, comparing the whole
-    # step with its two halves, down to MIN_STEP
+    ratio = _error_ratio(props, known, new, length, upstream, tol)
+    if ratio is None:
+        return _halved(props, known, x0, z0, x1, z1, upstream, tol, new)
+    if ratio <= 1.0 or length < 2.0 * MIN_STEP:
+        return new
+    # shorter steps of length / 2^level (positions exact in binary, choices by whole levels), each sized from the
+    # error of the last one tried and checked in turn
+    deepest = max(1, int(math.log2(length / MIN_STEP)))
+    s, done, level = known, 0.0, min(deepest, max(1, _levels(ratio)))
+    while True:
+        piece = min(0.5 ** level, 1.0 - done)
+        fa, fb = done, done + piece
+        xa, za, xb, zb = x0 + fa * (x1 - x0), z0 + fa * (z1 - z0), x0 + fb * (x1 - x0), z0 + fb * (z1 - z0)
+        new = _solve_step(props, zb, s, za, piece * length, upstream)
+        ratio = _error_ratio(props, s, new, piece * length, upstream, tol)
+        if ratio is None:
+            new = _halved(props, s, xa, za, xb, zb, upstream, tol, new)
+            if new.status != _OK:
+                return _State(props.yc, new.status) if new.status == _CRIT else _State(math.nan, _TOP)
+        elif ratio > 1.0 and level < deepest:
+            level = min(deepest, level + max(1, _levels(ratio)))
+            continue
+        s, done = new, fb
+        if done >= 1.0:
+            return s
+        if ratio is not None:
+            level = max(0, level + _levels(ratio)) if ratio < 1.0 else level
+
+
+def _halved(props, known, x0, z0, x1, z1, upstream, tol, new):
+    """The step from ``known`` to (x1, z1), whose whole answer is ``new``, where its error cannot be estimated:
+    taken as two halves, halved again while the whole and the halves differ by more than the tolerance, down to
+    MIN_STEP."""
+    length = abs(x1 - x0)
     xm, zm = 0.5 * (x0 + x1), 0.5 * (z0 + z1)
     a = _solve_step(props, zm, known, z0, 0.5 * length, upstream)
     if a.status != _OK:
