@@ -74,7 +74,9 @@ STEP_ERROR_SHARE (0.2) of ``step_tolerance`` times the depth is kept. Any other 
 length over a power of two, the power chosen from the error of the last step tried (the error goes as the cube of
 the step; with a margin of 0.9, up to three halvings or doublings at once, none shorter than MIN_STEP = 1 mm), each
 kept only once its own estimate is within the allowance, so that the steps shorten where the profile turns quickly
-(as just upstream of a change of flow) and lengthen again after. Whole powers keep the choices discrete: two
+(as just upstream of a change of flow) and lengthen again after. On the subcritical pass a stretch tries its first
+step at the length the last stretch's first step asked for (stretches along a run turn alike where the flow changes
+at every point), so that the whole step is not tried in vain. Whole powers keep the choices discrete: two
 computations that differ in the last digits take the same steps. The share is chosen so that the profile lies at
 least as close to a fine-step reference as with the halving used before (each step against its two halves;
 ``tests/test_water_surface_step_control.py`` measures both). Next to critical depth (1 - Fr^2 within NEAR_CRITICAL)
@@ -556,26 +558,33 @@ def _levels(ratio):
     return max(-3, min(3, math.ceil(math.log2(ratio ** (1 / 3) / 0.9))))
 
 
-def _advance(props, known, x0, z0, x1, z1, upstream, tol, new=None, from_props=None):
+def _advance(props, known, x0, z0, x1, z1, upstream, tol, new=None, from_props=None, hint=None):
     """Carry ``known`` (at x0, z0) to (x1, z1) on one stretch, in steps whose estimated error is within the
     tolerance (see "Step control" in the module's text).
 
     ``new`` is the whole step's answer where the caller has it already; ``from_props`` the known state's props
-    where they are not ``props`` (a change at a point)."""
+    where they are not ``props`` (a change at a point). ``hint``, a one-item list, holds how many times to halve
+    the first step, from the error of the last stretch's first step (on a run whose stretches turn alike, as
+    where the flow changes at every point); the stretch leaves its own there."""
     length = abs(x1 - x0)
-    if new is None:
-        new = _solve_step(props, z1, known, z0, length, upstream, from_props)
-    if length == 0.0 or (new.status != _OK and known.status != _OK):
-        return new
-    ratio = _error_ratio(props, known, new, length, upstream, tol)
-    if ratio is None:
-        return _halved(props, known, x0, z0, x1, z1, upstream, tol, new)
-    if ratio <= 1.0 or length < 2.0 * MIN_STEP:
-        return new
+    deepest = max(1, int(math.log2(length / MIN_STEP))) if length >= 2.0 * MIN_STEP else 0
+    level = min(deepest, hint[0]) if hint is not None and known.status == _OK else 0
+    if level == 0:
+        if new is None:
+            new = _solve_step(props, z1, known, z0, length, upstream, from_props)
+        if length == 0.0 or (new.status != _OK and known.status != _OK):
+            return new
+        ratio = _error_ratio(props, known, new, length, upstream, tol)
+        if ratio is None:
+            return _halved(props, known, x0, z0, x1, z1, upstream, tol, new)
+        if ratio <= 1.0 or deepest == 0:
+            if hint is not None:
+                hint[0] = 0
+            return new
+        level = min(deepest, max(1, _levels(ratio)))
     # shorter steps of length / 2^level (positions exact in binary, choices by whole levels), each sized from the
     # error of the last one tried and checked in turn
-    deepest = max(1, int(math.log2(length / MIN_STEP)))
-    s, done, level = known, 0.0, min(deepest, max(1, _levels(ratio)))
+    s, done = known, 0.0
     while True:
         piece = min(0.5 ** level, 1.0 - done)
         fa, fb = done, done + piece
@@ -589,6 +598,8 @@ def _advance(props, known, x0, z0, x1, z1, upstream, tol, new=None, from_props=N
         elif ratio > 1.0 and level < deepest:
             level = min(deepest, level + max(1, _levels(ratio)))
             continue
+        if hint is not None and done == 0.0:  # the length the first step's own error asks for
+            hint[0] = max(0, level + _levels(ratio)) if ratio is not None else level
         s, done = new, fb
         if done >= 1.0:
             return s
@@ -936,6 +947,7 @@ def _subcritical_pass(nodes, z_out, outfall, level, tol) -> _Downstream:
         start = _State(y0, _OK)
     sub = [None] * len(nodes)
     sub[-1] = _state(last, start.y, start.status)
+    hint = [0]
     stop_at = nodes[-1].x if start.status == _TOP else None
     for k in range(len(nodes) - 2, -1, -1):
         a, b = nodes[k], nodes[k + 1]
@@ -947,7 +959,8 @@ def _subcritical_pass(nodes, z_out, outfall, level, tol) -> _Downstream:
             known = _state(b.props, b.props.yc, _CRIT)
         # Two nodes a step apart lie on one stretch and share its props; at a change at a point (a step of length
         # zero) the energy is carried onto the props of the node reached.
-        s = _advance(a.props, known, b.x, b.z, a.x, a.z, True, tol, from_props=b.props)
+        s = _advance(a.props, known, b.x, b.z, a.x, a.z, True, tol, from_props=b.props,
+                     hint=hint if a.x != b.x else None)
         if s.status == _TOP and stop_at is None:
             stop_at = a.x
         sub[k] = s

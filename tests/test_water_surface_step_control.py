@@ -48,8 +48,8 @@ def benchmark_like_run(length=3000.0, spacing=10.0, seed=7):
     return x, bed, n, flow
 
 
-def halving_advance(props, known, x0, z0, x1, z1, upstream, tol, new=None, from_props=None):
-    """The step control before the error estimate: the whole step against its two halves."""
+def halving_advance(props, known, x0, z0, x1, z1, upstream, tol, new=None, from_props=None, hint=None):
+    """The step control before the error estimate: the whole step against its two halves (``hint`` unused)."""
     length = abs(x1 - x0)
     full = new if new is not None else wsm._solve_step(props, z1, known, z0, length, upstream, from_props)
     if length == 0.0 or (full.status != wsm._OK and known.status != wsm._OK):
