@@ -173,6 +173,7 @@ JUMP_GRID = 16
 #: All the profile types this module names.
 PROFILE_TYPES = ("M1", "M2", "M3", "S1", "S2", "S3", "C1", "C3", "H2", "H3", "A2", "A3", "uniform", "critical")
 
+_LOG2_MARGIN = -math.log2(0.9)  # the step control's margin of 0.9 on a step's length
 _OK, _CRIT, _TOP = 0, 1, 2  # a pass's state at a node: a depth on its branch, no root (critical), above the top
 _MAX_NEWTON = 100
 
@@ -461,7 +462,7 @@ def _solve_step(props, z, known, z_known, length, upstream, from_props=None):
     c = -half if upstream else half
     target = (z_known - z) + known.energy + (half if upstream else -half) * known.sf
     yc = props.yc
-    e_c, sf_c, _, _ = props.at_critical()
+    e_c, sf_c, _, _ = props._at_yc or props.at_critical()
     if e_c + c * sf_c - target >= -HEAD_TOLERANCE:
         return _State(yc, _CRIT)
     on_branch = known.status == _OK and (known.y > yc) == upstream
@@ -555,7 +556,7 @@ def _levels(ratio):
     at most 3 either way."""
     if not ratio > 0.0:
         return -3
-    return max(-3, min(3, math.ceil(math.log2(ratio ** (1 / 3) / 0.9))))
+    return max(-3, min(3, math.ceil(math.log2(ratio) / 3.0 + _LOG2_MARGIN)))
 
 
 def _advance(props, known, x0, z0, x1, z1, upstream, tol, new=None, from_props=None, hint=None):
