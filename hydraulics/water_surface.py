@@ -547,6 +547,8 @@ def _error_ratio(props, known, new, length, upstream, tol):
         return None
     error = _step_error(props, known, new, length, upstream)
     allowed = STEP_ERROR_SHARE * tol * new.y
+    if error != error:  # nan: no estimate
+        return None
     return error / allowed if allowed > 0.0 else (0.0 if error == 0.0 else math.inf)
 
 
@@ -556,6 +558,8 @@ def _levels(ratio):
     at most 3 either way."""
     if not ratio > 0.0:
         return -3
+    if ratio == math.inf:
+        return 3
     return max(-3, min(3, math.ceil(math.log2(ratio) / 3.0 + _LOG2_MARGIN)))
 
 
