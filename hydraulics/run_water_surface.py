@@ -128,10 +128,12 @@ def _roughness_at(result, rows, flow) -> list:
     run, layout = result.run, result.layout
     grade = np.asarray(layout.grade, dtype=float)
     falling = np.flatnonzero(grade > 0)
+    grades, choice, section_index, flows = grade.tolist(), result.choice.tolist(), \
+        np.asarray(result.section_index).tolist(), np.asarray(flow, dtype=float).tolist()
     models = {}
     out = []
-    for i in rows:
-        k = int(result.choice[i])
+    for i in rows.tolist():
+        k = int(choice[i])
         c = run.candidates[k]
         if k not in models:
             models[k] = c.lining.roughness(c.d50)
@@ -139,19 +141,20 @@ def _roughness_at(result, rows, flow) -> list:
         if isinstance(model, (int, float)):
             out.append(float(model))
             continue
-        section = run.sections[int(result.section_index[i])].section
+        j = int(section_index[i])
+        section = run.sections[j].section
         if isinstance(model, VegetationRoughness):
-            key = (k, int(result.section_index[i]), "flow", float(flow[i]))
+            key = (k, j, "flow", flows[i])
             if key not in models:
-                models[key] = EnergySlopeN(model, section, float(flow[i]))
+                models[key] = EnergySlopeN(model, section, flows[i])
             out.append(models[key])
             continue
-        s = float(grade[i])
+        s = grades[i]
         if not s > 0:
             below = falling[falling > i]
             above = falling[falling < i]
             s = float(grade[below[0]]) if below.size else float(grade[above[-1]]) if above.size else math.nan
-        key = (k, int(result.section_index[i]), s)
+        key = (k, j, s)
         if key not in models:
             if not math.isfinite(s):
                 raise HydraulicsError(worded("no stretch of the run falls: the depth-dependent n of {name} has no "

@@ -17,7 +17,7 @@ max_step=10.0, step_tolerance=1e-4) -> WaterSurface``
     elevation standing at the outfall, e.g. a culvert headwater or a receiving stream; giving
     ``outfall_level`` alone means "level"); ``inlet`` "normal", "critical" or a depth [m] held at the top
     (e.g. the flow leaving a pipe). ``max_step`` [m] is the longest computation step; ``step_tolerance`` [-]
-    the relative difference allowed between one step and two half steps (see "Step control").
+    sets the error allowed in a step's depth, relative to the depth (see "Step control").
 ``specific_force(section, flow, depth)`` -> M = Q^2 / (g A) + A y_bar [m^3].
 ``sequent_depth(section, flow, depth)`` -> the other depth of equal specific force [m].
 ``friction_slope(section, flow, n, depth)`` -> S_f = (Q n / (A R^(2/3)))^2 [-].
@@ -54,16 +54,35 @@ Method
   supercritical one. On its branch the energy balance is monotonic in the depth, so the root is unique;
   Newton's method safeguarded by bisection meets it to HEAD_TOLERANCE (1e-10 m of head) or raises
   ConvergenceError. Its first trial is one Newton step from the known depth, taken with the known state's own
-  terms (so it costs no evaluation); the root does not depend on it. When the branch has no root (the energy
-  cannot be carried), the pass records critical depth there and goes on from it.
+  terms (so it costs no evaluation); the root does not depend on it. A Newton step whose remainder, estimated as
+  (1/2) r'' dy^2 with the curvature r'' of the residual from the change of its derivative since the last depth,
+  is within a tenth of HEAD_TOLERANCE is the root without one more evaluation (the head, the friction slope and
+  their derivatives carried to it to second order, the curvatures again from the change since the last depth).
+  When the branch has no root (the energy cannot be carried), the pass records critical depth there and goes on
+  from it.
 
 Step control
 ------------
-A stretch between design points is cut into equal steps no longer than ``max_step``. A step whose whole change
-of depth is within ``step_tolerance`` times the depth is kept as it is (its error is a small part of that
-change). Any other step is taken once whole and once as two halves; when the two answers differ by more than
-``step_tolerance`` times the depth, each half is treated the same way (down to MIN_STEP = 1 mm), and the
-two-half answer is kept.
+A stretch between design points is cut into equal steps no longer than ``max_step``. Each step's error is estimated
+from the step itself (an embedded estimate, no extra solve): the standard step takes the friction loss by the
+trapezoidal rule, whose error is -(L^3 / 12) f''(xi) (M. Hjorth-Jensen, *Computational Physics*, "Error in the
+trapezoidal rule", compphysics.github.io), to leading order -(L^2 / 12) (f'(b) - f'(a)) with the end derivatives
+(mathematics-online.org, "Trapezoid Rule", the asymptotic expansion of its error); here f' = dS_f/dx =
+(dS_f/dy)(dy/dx) at each end, with dy/dx = (S0 - S_f) / (1 - Fr^2), and the error of the energy balance is carried
+to the depth through the balance's derivative (the program's use of these). A step whose estimated error is within
+STEP_ERROR_SHARE (0.2) of ``step_tolerance`` times the depth is kept. Any other is taken again in steps of its
+length over a power of two, the power chosen from the error of the last step tried (the error goes as the cube of
+the step; with a margin of 0.9, up to three halvings or doublings at once, none shorter than MIN_STEP = 1 mm), each
+kept only once its own estimate is within the allowance, so that the steps shorten where the profile turns quickly
+(as just upstream of a change of flow) and lengthen again after. On the subcritical pass a stretch tries its first
+step at the length the last stretch's first step asked for (stretches along a run turn alike where the flow changes
+at every point), so that the whole step is not tried in vain. Whole powers keep the choices discrete: two
+computations that differ in the last digits take the same steps. The share is chosen so that the profile lies at
+least as close to a fine-step reference as with the halving used before (each step against its two halves;
+``tests/test_water_surface_step_control.py`` measures both). Next to critical depth (1 - Fr^2 within NEAR_CRITICAL)
+the estimate has no value, and where one end of a step has no root on its branch there is nothing to estimate: such
+a step is taken once whole and once as two halves, and halved again while the two differ by more than
+``step_tolerance`` times the depth (down to MIN_STEP), the two-half answer kept.
 
 Controls and regimes
 --------------------
@@ -134,8 +153,13 @@ __all__ = ["water_surface", "WaterSurface", "Jump", "specific_force", "sequent_d
 
 #: Every step's energy balance is met to this head [m].
 HEAD_TOLERANCE = 1e-10
-#: Shortest step the step control halves to [m].
+#: Shortest step the step control cuts to [m].
 MIN_STEP = 1e-3
+#: A step is kept when its estimated depth error is within this share of ``step_tolerance`` times the depth [-].
+STEP_ERROR_SHARE = 0.2
+#: Within this of critical depth in 1 - Fr^2 [-] the error estimate has no value (dy/dx grows without bound):
+#: steps there are halved and compared with their halves instead.
+NEAR_CRITICAL = 1e-3
 #: A depth within this fraction of normal (critical) depth is called uniform (critical) [-].
 PROFILE_BAND = 1e-3
 #: Length of a hydraulic jump over its sequent depth, L = 6 y2 [-] (see provenance key ``jump_length``).
@@ -149,6 +173,7 @@ JUMP_GRID = 16
 #: All the profile types this module names.
 PROFILE_TYPES = ("M1", "M2", "M3", "S1", "S2", "S3", "C1", "C3", "H2", "H3", "A2", "A3", "uniform", "critical")
 
+_LOG2_MARGIN = -math.log2(0.9)  # the step control's margin of 0.9 on a step's length
 _OK, _CRIT, _TOP = 0, 1, 2  # a pass's state at a node: a depth on its branch, no root (critical), above the top
 _MAX_NEWTON = 100
 
@@ -372,6 +397,8 @@ class _Props:
             dlogn = (e + 2 / 3 * f) * (t_a - dp_p) + f * t_a
         else:
             n = self.nfn(y)
+            h = 1e-6 * y  # d ln n/dy by a difference: the step control's error estimate needs dS_f/dy whole
+            dlogn = math.log(n / self.nfn(y - h)) / h
         v2g = q * q / (2 * G * a * a)
         sf = (q * n / conveyance) ** 2
         de = 1 - 2 * v2g * t_a
@@ -418,7 +445,7 @@ def _state(props, y, status):
     return _State(y, status, *props.head_terms(y))
 
 
-def _solve_step(props, z, known, z_known, length, upstream):
+def _solve_step(props, z, known, z_known, length, upstream, from_props=None):
     """Depth at a node ``length`` [m] from a known state, on the subcritical (``upstream``) or supercritical branch.
 
     Energy balance (standard step, mean friction slope): going upstream z + E - L/2 S_f = z_k + E_k + L/2 S_fk;
@@ -426,13 +453,16 @@ def _solve_step(props, z, known, z_known, length, upstream):
     root, _TOP when the subcritical root lies above the section's top).
 
     The first trial is one Newton step from the known depth, worked out from the known state's own terms (the
-    two nodes of a step of some length share their props), which lies close to the root on a short step.
+    two nodes of a step of some length share their props), which lies close to the root on a short step. Across a
+    change of flow at a point (a step of length zero, ``from_props`` the known state's props, on the same
+    section) the known terms are carried to the new flow: at the known depth the velocity head scales with
+    (Q / Q_known)^2 and dE/dy = 1 - (Q / Q_known)^2 (1 - dE/dy_known).
     """
     half = 0.5 * length
     c = -half if upstream else half
     target = (z_known - z) + known.energy + (half if upstream else -half) * known.sf
     yc = props.yc
-    e_c, sf_c, _, _ = props.at_critical()
+    e_c, sf_c, _, _ = props._at_yc or props.at_critical()
     if e_c + c * sf_c - target >= -HEAD_TOLERANCE:
         return _State(yc, _CRIT)
     on_branch = known.status == _OK and (known.y > yc) == upstream
@@ -449,12 +479,22 @@ def _solve_step(props, z, known, z_known, length, upstream):
     else:  # residual falls with depth below critical depth
         lo, hi = 0.0, yc
         y = known.y if on_branch else 0.9 * yc
-    if on_branch and length > 0.0 and y == known.y:
+    # the last depth and dE/dy, dS_f/dy there (the known state's, on a step of length), for the curvatures of the
+    # head and friction slope (see the module's "Method")
+    y_last = de_last = dsf_last = math.nan
+    if on_branch and length == 0.0 and from_props is not None and from_props.section is props.section:
+        ratio = (props.flow / from_props.flow) ** 2
+        dr = 1.0 - ratio * (1.0 - known.de)
+        if dr != 0.0:
+            trial = y - (known.energy - known.y) * (ratio - 1.0) / dr
+            if lo < trial < hi:
+                y = trial
+    elif on_branch and length > 0.0 and y == known.y:
         dr = known.de + c * known.dsf
         if dr != 0.0:
             trial = y - (known.energy + c * known.sf - target) / dr
             if lo < trial < hi:
-                y = trial
+                y, y_last, de_last, dsf_last = trial, known.y, known.de, known.dsf
     head_terms = props.head_terms
     for _ in range(_MAX_NEWTON):
         e, sf, de, dsf = head_terms(y)
@@ -468,6 +508,15 @@ def _solve_step(props, z, known, z_known, length, upstream):
         dr = de + c * dsf
         step = y - r / dr if dr != 0 else math.nan
         if lo < step < hi:  # false for nan, and for inf (hi is at most inf)
+            move = step - y
+            if y != y_last:
+                e2, sf2 = (de - de_last) / (y - y_last), (dsf - dsf_last) / (y - y_last)   # d2E/dy2, d2S_f/dy2
+                if abs(e2 + c * sf2) * move * move <= 0.2 * HEAD_TOLERANCE:
+                    # the residual after this step, (1/2) r'' move^2, is within a tenth of the tolerance: the step
+                    # is the root, the terms carried to it to second order
+                    return _State(step, _OK, e + (de + 0.5 * e2 * move) * move, sf + (dsf + 0.5 * sf2 * move) * move,
+                                  de + e2 * move, dsf + sf2 * move)
+            y_last, de_last, dsf_last = y, de, dsf
             y_new = step
         elif hi == math.inf:
             y_new = 2.0 * y
@@ -480,17 +529,94 @@ def _solve_step(props, z, known, z_known, length, upstream):
                            f"(depth {y:.6g} m, head residual {r:.3g} m, tolerance {HEAD_TOLERANCE:g} m)")
 
 
-def _advance(props, known, x0, z0, x1, z1, upstream, tol, full=None):
-    """Carry ``known`` (at x0, z0) to (x1, z1) on one stretch, halving the step while whole and halves differ.
+def _step_error(props, known, new, length, upstream):
+    """Estimated error of a step's depth [m] (see "Step control"): the trapezoidal rule's error in the friction
+    loss, (L^2 / 12) times the change of dS_f/dx = (dS_f/dy)(dy/dx) between the step's ends, dy/dx = (S0 - S_f) /
+    (1 - Fr^2) (the gradually varied flow equation; 1 - Fr^2 = dE/dy), carried to the depth through the step's
+    energy balance (over its derivative dE/dy -/+ L/2 dS_f/dy)."""
+    s0 = props.slope
+    change = new.dsf * (s0 - new.sf) / new.de - known.dsf * (s0 - known.sf) / known.de
+    slope = new.de + (-0.5 if upstream else 0.5) * length * new.dsf
+    return math.inf if slope == 0.0 else abs(length * length / 12.0 * change / slope)
 
-    ``full`` is the whole step's answer where the caller has it already (the first half of a halved step)."""
+
+def _error_ratio(props, known, new, length, upstream, tol):
+    """A step's estimated error over the error allowed (see "Step control"); None where it cannot be estimated
+    (an end without a root on its branch, or next to critical depth)."""
+    if new.status != _OK or known.status != _OK or not abs(known.de) > NEAR_CRITICAL < abs(new.de):
+        return None
+    error = _step_error(props, known, new, length, upstream)
+    allowed = STEP_ERROR_SHARE * tol * new.y
+    if error != error:  # nan: no estimate
+        return None
+    return error / allowed if allowed > 0.0 else (0.0 if error == 0.0 else math.inf)
+
+
+def _levels(ratio):
+    """How many times to halve a step whose error ratio is ``ratio`` (negative: how many times it may be doubled)
+    so that its error falls within the allowance: the error goes as the cube of the step, with a margin of 0.9;
+    at most 3 either way."""
+    if not ratio > 0.0:
+        return -3
+    if ratio == math.inf:
+        return 3
+    return max(-3, min(3, math.ceil(math.log2(ratio) / 3.0 + _LOG2_MARGIN)))
+
+
+def _advance(props, known, x0, z0, x1, z1, upstream, tol, new=None, from_props=None, hint=None):
+    """Carry ``known`` (at x0, z0) to (x1, z1) on one stretch, in steps whose estimated error is within the
+    tolerance (see "Step control" in the module's text).
+
+    ``new`` is the whole step's answer where the caller has it already; ``from_props`` the known state's props
+    where they are not ``props`` (a change at a point). ``hint``, a one-item list, holds how many times to halve
+    the first step, from the error of the last stretch's first step (on a run whose stretches turn alike, as
+    where the flow changes at every point); the stretch leaves its own there."""
     length = abs(x1 - x0)
-    if full is None:
-        full = _solve_step(props, z1, known, z0, length, upstream)
-    if length == 0.0 or (full.status != _OK and known.status != _OK):
-        return full
-    if full.status == _OK and known.status == _OK and abs(full.y - known.y) <= tol * full.y:
-        return full  # the whole change of depth is within the tolerance, so is the step's error (a part of it)
+    deepest = max(1, int(math.log2(length / MIN_STEP))) if length >= 2.0 * MIN_STEP else 0
+    level = min(deepest, hint[0]) if hint is not None and known.status == _OK else 0
+    if level == 0:
+        if new is None:
+            new = _solve_step(props, z1, known, z0, length, upstream, from_props)
+        if length == 0.0 or (new.status != _OK and known.status != _OK):
+            return new
+        ratio = _error_ratio(props, known, new, length, upstream, tol)
+        if ratio is None:
+            return _halved(props, known, x0, z0, x1, z1, upstream, tol, new)
+        if ratio <= 1.0 or deepest == 0:
+            if hint is not None:
+                hint[0] = 0
+            return new
+        level = min(deepest, max(1, _levels(ratio)))
+    # shorter steps of length / 2^level (positions exact in binary, choices by whole levels), each sized from the
+    # error of the last one tried and checked in turn
+    s, done = known, 0.0
+    while True:
+        piece = min(0.5 ** level, 1.0 - done)
+        fa, fb = done, done + piece
+        xa, za, xb, zb = x0 + fa * (x1 - x0), z0 + fa * (z1 - z0), x0 + fb * (x1 - x0), z0 + fb * (z1 - z0)
+        new = _solve_step(props, zb, s, za, piece * length, upstream)
+        ratio = _error_ratio(props, s, new, piece * length, upstream, tol)
+        if ratio is None:
+            new = _halved(props, s, xa, za, xb, zb, upstream, tol, new)
+            if new.status != _OK:
+                return _State(props.yc, new.status) if new.status == _CRIT else _State(math.nan, _TOP)
+        elif ratio > 1.0 and level < deepest:
+            level = min(deepest, level + max(1, _levels(ratio)))
+            continue
+        if hint is not None and done == 0.0:  # the length the first step's own error asks for
+            hint[0] = max(0, level + _levels(ratio)) if ratio is not None else level
+        s, done = new, fb
+        if done >= 1.0:
+            return s
+        if ratio is not None:
+            level = max(0, level + _levels(ratio)) if ratio < 1.0 else level
+
+
+def _halved(props, known, x0, z0, x1, z1, upstream, tol, new):
+    """The step from ``known`` to (x1, z1), whose whole answer is ``new``, where its error cannot be estimated:
+    taken as two halves, halved again while the whole and the halves differ by more than the tolerance, down to
+    MIN_STEP."""
+    length = abs(x1 - x0)
     xm, zm = 0.5 * (x0 + x1), 0.5 * (z0 + z1)
     a = _solve_step(props, zm, known, z0, 0.5 * length, upstream)
     if a.status != _OK:
@@ -498,7 +624,7 @@ def _advance(props, known, x0, z0, x1, z1, upstream, tol, full=None):
     b = _solve_step(props, z1, a, zm, 0.5 * length, upstream)
     if b.status != _OK:
         return b if b.status == _CRIT else _State(math.nan, _TOP)
-    if (full.status == _OK and abs(full.y - b.y) <= tol * b.y) or 0.5 * length < MIN_STEP:
+    if (new.status == _OK and abs(new.y - b.y) <= tol * b.y) or 0.5 * length < MIN_STEP:
         return b
     a = _advance(props, known, x0, z0, xm, zm, upstream, tol, a)  # the first half's whole step is ``a``
     if a.status != _OK:
@@ -645,9 +771,9 @@ def water_surface(distance, bed, sections, n, flow, *, outfall="normal", outfall
     depth, branch = up.depth, up.branch
     jumps = [_locate_jump(nodes[k], nodes[k + 1], up.states[k], down.states[k + 1], step_tolerance)
              for k in range(len(nodes) - 1) if branch[k] == "sup" and branch[k + 1] == "sub"]
-    node_types = ["not computed" if not math.isfinite(depth[k]) else
-                  profile_type(depth[k], node.props.yn, node.props.yc, node.props.slope)
-                  for k, node in enumerate(nodes)]
+    node_types = ["not computed" if not math.isfinite(y) else profile_type(y, node.props.yn, node.props.yc,
+                                                                           node.props.slope)
+                  for y, node in zip(depth.tolist(), nodes)]
     point_nodes = [k for k, node in enumerate(nodes) if node.point >= 0]
     points = _point_results(nodes, point_nodes, depth, branch, z, down.stop_at)
     controls = {"outfall": _outfall_control(nodes, outfall, z[-1], down, depth, branch, points.messages[-1]),
@@ -762,16 +888,18 @@ def _nodes(x, z, point_props, max_step) -> list:
     """Computation nodes: each point, the steps of its stretch, and the upstream side of a change at the next
     point."""
     nodes = []
-    for i in range(x.size - 1):
+    xs, zs = x.tolist(), z.tolist()
+    for i in range(len(xs) - 1):
         p = point_props[i]
-        nodes.append(_Node(float(x[i]), float(z[i]), p, i))
-        pieces = max(1, math.ceil((x[i + 1] - x[i]) / max_step - 1e-9))
+        x0, z0, dx, dz = xs[i], zs[i], xs[i + 1] - xs[i], zs[i + 1] - zs[i]
+        nodes.append(_Node(x0, z0, p, i))
+        pieces = max(1, math.ceil(dx / max_step - 1e-9))
         for k in range(1, pieces):
             f = k / pieces
-            nodes.append(_Node(float(x[i] + f * (x[i + 1] - x[i])), float(z[i] + f * (z[i + 1] - z[i])), p, -1))
+            nodes.append(_Node(x0 + f * dx, z0 + f * dz, p, -1))
         if point_props[i + 1] is not p:
-            nodes.append(_Node(float(x[i + 1]), float(z[i + 1]), p, -2))
-    nodes.append(_Node(float(x[-1]), float(z[-1]), point_props[-1], x.size - 1))
+            nodes.append(_Node(xs[i + 1], zs[i + 1], p, -2))
+    nodes.append(_Node(xs[-1], zs[-1], point_props[-1], len(xs) - 1))
     return nodes
 
 
@@ -824,6 +952,7 @@ def _subcritical_pass(nodes, z_out, outfall, level, tol) -> _Downstream:
         start = _State(y0, _OK)
     sub = [None] * len(nodes)
     sub[-1] = _state(last, start.y, start.status)
+    hint = [0]
     stop_at = nodes[-1].x if start.status == _TOP else None
     for k in range(len(nodes) - 2, -1, -1):
         a, b = nodes[k], nodes[k + 1]
@@ -835,7 +964,8 @@ def _subcritical_pass(nodes, z_out, outfall, level, tol) -> _Downstream:
             known = _state(b.props, b.props.yc, _CRIT)
         # Two nodes a step apart lie on one stretch and share its props; at a change at a point (a step of length
         # zero) the energy is carried onto the props of the node reached.
-        s = _advance(a.props, known, b.x, b.z, a.x, a.z, True, tol)
+        s = _advance(a.props, known, b.x, b.z, a.x, a.z, True, tol, from_props=b.props,
+                     hint=hint if a.x != b.x else None)
         if s.status == _TOP and stop_at is None:
             stop_at = a.x
         sub[k] = s
@@ -870,7 +1000,7 @@ def _supercritical_pass(nodes, inlet, sub, tol) -> _Upstream:
         start = _State(inlet, _OK) if inlet < first.yc else _State(first.yc, _CRIT)
     size = len(nodes)
     sup = [None] * size
-    depth = np.full(size, math.nan)
+    depth = [math.nan] * size
     branch = [""] * size
     for k, node in enumerate(nodes):
         p = node.props
@@ -879,23 +1009,20 @@ def _supercritical_pass(nodes, inlet, sub, tol) -> _Upstream:
         elif branch[k - 1] in ("sup", "crit"):
             a = nodes[k - 1]
             known = sup[k - 1] if branch[k - 1] == "sup" else _state(a.props, a.props.yc, _CRIT)
-            u = _advance(p, known, a.x, a.z, node.x, node.z, False, tol)
+            u = _advance(p, known, a.x, a.z, node.x, node.z, False, tol, from_props=a.props)
         else:
             u = _State(p.yc, _CRIT)  # subcritical upstream, no control between: no supercritical flow here
         sup[k] = u
         s = sub[k]
-        if s.status == _OK and u.status == _OK:
-            branch[k] = "sup" if p.force(u.y) > p.force(s.y) else "sub"
-        elif s.status == _OK:
-            branch[k] = "sub"
+        if s.status == _OK and (u.status != _OK or p.force(u.y) <= p.force(s.y)):
+            branch[k], depth[k] = "sub", s.y
         elif u.status == _OK:
-            branch[k] = "sup"
+            branch[k], depth[k] = "sup", u.y
         elif s.status == _TOP:
             branch[k] = "none"
         else:
-            branch[k] = "crit"
-        depth[k] = {"sub": s.y, "sup": u.y, "crit": p.yc, "none": math.nan}[branch[k]]
-    return _Upstream(sup, depth, branch)
+            branch[k], depth[k] = "crit", p.yc
+    return _Upstream(sup, np.array(depth), branch)
 
 
 @dataclass
@@ -911,26 +1038,28 @@ class _Points:
 
 def _point_results(nodes, point_nodes, depth, branch, z, stop_at) -> _Points:
     count = len(point_nodes)
-    out = _Points([], *(np.full(count, math.nan) for _ in range(3)), [[] for _ in range(count)])
+    regime, messages = [], [[] for _ in range(count)]
+    velocity, froude, energy = [math.nan] * count, [math.nan] * count, [math.nan] * count
+    depths, zs = depth.tolist(), z.tolist()
     for i, k in enumerate(point_nodes):
-        p = nodes[k].props
+        p, y = nodes[k].props, depths[k]
         if p.yn_note:
-            out.messages[i].append("no normal depth: " + p.yn_note)
-        if not math.isfinite(depth[k]):
-            out.regime.append("not computed")
-            out.messages[i].append(worded("not computed: the water surface downstream rises above the top of the "
-                                          "section (at {at})", at=_at(stop_at)))
+            messages[i].append("no normal depth: " + p.yn_note)
+        if not math.isfinite(y):
+            regime.append("not computed")
+            messages[i].append(worded("not computed: the water surface downstream rises above the top of the "
+                                      "section (at {at})", at=_at(stop_at)))
             continue
-        g = p.section._geometry(float(depth[k]))
-        out.velocity[i] = p.flow / g.area
-        out.froude[i] = out.velocity[i] / math.sqrt(G * g.area / g.top_width) if g.top_width > 0 else math.inf
-        out.energy[i] = z[i] + depth[k] + out.velocity[i] ** 2 / (2 * G)
-        out.regime.append("critical" if branch[k] == "crit" or abs(out.froude[i] - 1) <= 1e-6 else
-                          "supercritical" if out.froude[i] > 1 else "subcritical")
+        g = p.section._geometry(y)
+        v = velocity[i] = p.flow / g.area
+        fr = froude[i] = v / math.sqrt(G * g.area / g.top_width) if g.top_width > 0 else math.inf
+        energy[i] = zs[i] + y + v ** 2 / (2 * G)
+        regime.append("critical" if branch[k] == "crit" or abs(fr - 1) <= 1e-6 else
+                      "supercritical" if fr > 1 else "subcritical")
         if branch[k] == "crit" and 0 < i < count - 1:
-            out.messages[i].append("the flow passes through critical depth here: a control, which sets the water "
-                                   "surface upstream (as where a milder stretch meets a steeper one)")
-    return out
+            messages[i].append("the flow passes through critical depth here: a control, which sets the water "
+                               "surface upstream (as where a milder stretch meets a steeper one)")
+    return _Points(regime, np.array(velocity), np.array(froude), np.array(energy), messages)
 
 
 def _stretch_types(node_types, point_nodes) -> list:

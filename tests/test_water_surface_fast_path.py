@@ -9,7 +9,7 @@ at every trial depth, and every normal and critical depth solved one at a time. 
 with the same step control, so they must give the same profile up to the solver's own tolerances: each step's
 energy balance is met to HEAD_TOLERANCE (1e-10 m of head) by both, from different first trials. The test allows
 AGREEMENT = 1e-6 of depth at every design point and computation node, a hundredth of the step tolerance (1e-4, the
-relative difference the step control accepts); the two differ by about 3e-9 on these cases. The grass relation is
+relative error of depth the step control works to); the two differ by about 3e-9 on these cases. The grass relation is
 HEC-15's n = Cn (gamma R S)^-0.4 (Kilgore and Cotton, HEC-15, 3rd ed., 2005, Chapter 4), compared here with the
 model's own evaluation.
 
