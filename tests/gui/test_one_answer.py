@@ -119,15 +119,19 @@ def user_catalogue(tmp_path_factory):
     return path
 
 
+def _designed(project, name: str, units: str, user_catalogue):
+    """``project`` in ``units``, its unit system, its channel ``name``, the user's catalogue laid over the shipped
+    one, and the channel's evaluation with it."""
+    project.units = units
+    channel = project.channel(name)
+    catalogue = load_default_catalogue(user_catalogue)
+    return project, system(units), channel, catalogue, evaluate_channel(channel, catalogue)
+
+
 @pytest.mark.parametrize("units", ["si", "us"])
 @pytest.mark.parametrize("name", CHANNELS)
 def test_every_front_end_shows_one_answer(name, units, user_catalogue, tmp_path, qtbot, capsys, monkeypatch):
-    project = P.load(P.demo_path())
-    project.units = units
-    u = system(units)
-    channel = project.channel(name)
-    catalogue = load_default_catalogue(user_catalogue)
-    design = evaluate_channel(channel, catalogue)
+    project, u, channel, catalogue, design = _designed(P.load(P.demo_path()), name, units, user_catalogue)
     verdict = design.verdict
     y = float(u.from_si("length", design.analysis.normal_depth))
     v = float(u.from_si("velocity", design.analysis.velocity))
@@ -222,12 +226,7 @@ def test_every_front_end_rounds_the_lining_check_alike(name, units, user_catalog
     """Manning's n used, the design shears, the governing permissible shear and safety factors, and the stone sizes
     read the same in the window's results panel and on the sheet (the one rule, app.results.PANEL_FIELDS), and
     `calc --json`, `compare --json` and the batch give the numbers they round."""
-    project = _with_grass(P.load(P.demo_path()))
-    project.units = units
-    u = system(units)
-    channel = project.channel(name)
-    catalogue = load_default_catalogue(user_catalogue)
-    design = evaluate_channel(channel, catalogue)
+    project, u, channel, catalogue, design = _designed(_with_grass(P.load(P.demo_path())), name, units, user_catalogue)
     st = design.stability
     governs = st.governs
 
