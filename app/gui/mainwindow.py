@@ -927,6 +927,7 @@ class MainWindow(QMainWindow):
 
     def closeEvent(self, event) -> None:
         self.evaluator.wait()
+        self.comparison.computer.wait()
         if self.export_task is not None:
             self.export_task.wait()   # a sheet export takes seconds; let it finish its file
         if self.inventory_dialog is not None:
