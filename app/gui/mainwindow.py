@@ -457,7 +457,8 @@ class MainWindow(QMainWindow):
         doc = self.doc
         where = doc.path.name if doc.path else "not saved yet"
         self.setWindowTitle(f"{doc.project.name} ({where})[*] — Ditchwright")
-        self.setWindowModified(doc.modified)
+        if self.isWindowModified() != doc.modified:     # Qt sets the title again even when it is unchanged
+            self.setWindowModified(doc.modified)
 
     # -- ditch runs ------------------------------------------------------------------------------
     def update_run_actions(self) -> None:
