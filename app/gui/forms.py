@@ -608,8 +608,8 @@ class InputPanel(QScrollArea):
             return
         self._note_valid(key)
         self._committing = field
-        try:
-            self.doc.edit(path, value, f"Change {field.spec.label.lower()}", merge_key=field.merge_key)
+        try:     # the checked copy is the new channel: no second copy made
+            self.doc.replace(candidate, f"Change {field.spec.label.lower()}", merge_key=field.merge_key)
         finally:
             self._committing = None
 

@@ -388,10 +388,13 @@ class SectionPicture(Picture):
         self.ax.set_ylim(zl, zl + scale * box.height)
         return scale * k
 
-    def update(self, ev: Evaluation, units: UnitSystem, title: str = "", lining_thickness=None) -> None:
-        """Redraw for a good evaluation (``ev.ok``); the caller keeps the last one when it is not."""
-        self._last = (ev, units, title, lining_thickness)
-        g = section_drawing(ev, units, lining_thickness)     # everything in the shown length unit
+    def update(self, ev: Evaluation, units: UnitSystem, title: str = "", lining_thickness=None,
+               drawing: SectionDrawing | None = None) -> None:
+        """Redraw for a good evaluation (``ev.ok``); the caller keeps the last one when it is not. ``drawing``:
+        :func:`section_drawing` of the same, when already made (off the window's thread)."""
+        self._last = (ev, units, title, lining_thickness, drawing)
+        # everything in the shown length unit
+        g = drawing if drawing is not None else section_drawing(ev, units, lining_thickness)
         geo = g.geometry
         L = units.label("length")
 
