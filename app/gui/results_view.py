@@ -208,6 +208,7 @@ def set_value_text(label: QLabel, text: str) -> None:
     if not need <= label.width() <= need + 2 * room:
         label.setFixedWidth(need + room)
     label.setText(text)
+    label.sizeHint()     # lays the selectable text out now: laid out while painted, it would ask for a second paint
 
 
 def set_wrapped_text(label: QLabel, text: str) -> None:
