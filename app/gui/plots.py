@@ -25,6 +25,8 @@ from matplotlib.backends.backend_qtagg import FigureCanvasQTAgg
 from matplotlib.colors import to_rgba
 from matplotlib.figure import Figure
 from matplotlib.patches import Polygon
+from PySide6.QtCore import QRect, QRectF
+from PySide6.QtGui import QImage, QPainter
 
 from hydraulics.linings.roughness import SWITCH_NOTE
 from hydraulics.units import UnitSystem
@@ -92,6 +94,35 @@ class Dimension:
         return (self.arrow, self.label, self.ticks)
 
 
+class Canvas(FigureCanvasQTAgg):
+    """matplotlib's Qt canvas, put on screen without copying the picture first.
+
+    Qt draws the part to paint straight from the rendered buffer, without
+    matplotlib's copy of it and without clearing the widget underneath: the
+    figures here are opaque (a white face) and cover the canvas (a fraction of
+    the cost of matplotlib's own painting, paid at every edit)."""
+
+    def paintEvent(self, event):
+        self._draw_idle()       # only does something if a draw is pending
+        if not hasattr(self, "renderer"):
+            return
+        buf = self.renderer.buffer_rgba()
+        height, width = buf.shape[:2]
+        image = QImage(buf, width, height, QImage.Format.Format_RGBA8888)
+        ratio = self.device_pixel_ratio
+        image.setDevicePixelRatio(ratio)
+        rect = event.rect()
+        painter = QPainter(self)
+        try:
+            if not QRectF(0, 0, width / ratio, height / ratio).contains(QRectF(rect)):
+                painter.eraseRect(rect)          # a part the picture does not cover (while resizing)
+            painter.drawImage(rect.topLeft(), image, QRect(int(rect.x() * ratio), int(rect.y() * ratio),
+                                                           int(rect.width() * ratio), int(rect.height() * ratio)))
+            self._draw_rect_callback(painter)
+        finally:
+            painter.end()
+
+
 class Picture:
     """One Figure on one Qt canvas, its margins set from its writing (:meth:`fit_writing`)."""
 
@@ -101,7 +132,7 @@ class Picture:
 
     def __init__(self, width=8.0, height=4.5, dpi=100):
         self.figure = Figure(figsize=(width, height), dpi=dpi, facecolor="white")
-        self.canvas = FigureCanvasQTAgg(self.figure)
+        self.canvas = Canvas(self.figure)
         self.figure.subplots_adjust(**self.margins)
         self.ax = self.figure.add_subplot()
         ax = self.ax

@@ -88,7 +88,7 @@ class ResultsPanel(QWidget):
             value.setTextInteractionFlags(Qt.TextInteractionFlag.TextSelectableByMouse)
             value.setFixedSize(value.sizeHint())
             grid.addWidget(name, i, 0)
-            grid.addWidget(value, i, 1)
+            grid.addWidget(value, i, 1, Qt.AlignmentFlag.AlignRight)     # a fixed width: kept to the right
             self.values[key] = value
         lay.addWidget(self.numbers)
 
