@@ -14,6 +14,8 @@ the same height keeps its size fixed until the column's width changes.
 
 from __future__ import annotations
 
+from functools import lru_cache
+
 from PySide6.QtCore import QEvent, QObject, Qt
 from PySide6.QtWidgets import QFrame, QGridLayout, QLabel, QScrollArea, QVBoxLayout, QWidget
 
@@ -115,7 +117,8 @@ class ResultsPanel(QWidget):
         lay.addStretch(1)
         self.scroll.setWidget(body)
         self._wrapped = (self.reason, self.warnings, self.unverified)
-        self._width_watch = _WidthWatch(body, lambda: [free_size(w) for w in self._wrapped])
+        # the scroll area's view, not the column: a held text keeps the column at least as wide as it is
+        self._width_watch = _WidthWatch(self.scroll.viewport(), lambda: [free_size(w) for w in self._wrapped])
 
         self.caution = QLabel(CAUTION)
         self.caution.setObjectName("caution")
@@ -155,7 +158,7 @@ class ResultsPanel(QWidget):
         values = panel_values(shown, mark) if shown is not None and shown.ok else {}
         for key, f in ROWS:
             v = values.get(key)
-            set_value_text(self.values[key], "—" if v is None else pretty(format_value(v, f, units, mark)))
+            set_value_text(self.values[key], "—" if v is None else _pretty(format_value(v, f, units, mark)))
             applies = key not in OPTIONAL_VALUES or v is not None
             self.values[key].setVisible(applies)
             self.names[key].setVisible(applies)
@@ -188,12 +191,13 @@ class ResultsPanel(QWidget):
 
     def _set_verdict(self, status: str, headline: str, reason: str) -> None:
         if self.verdict.property("status") != status:    # the style sheet's colours follow; a polish relays out
+            free_size(self.reason)                          # measured again in the new style
             self.verdict.setProperty("status", status)
             for w in (self.verdict, self.headline, self.reason):
                 w.style().unpolish(w)
                 w.style().polish(w)
         self.headline.setText(headline)
-        set_wrapped_text(self.reason, keep_units_whole(reason))
+        set_wrapped_text(self.reason, _keep_units_whole(reason))
 
 
 def set_value_text(label: QLabel, text: str) -> None:
@@ -253,5 +257,12 @@ class _WidthWatch(QObject):
         return False
 
 
+# the same texts come again edit after edit (a value that did not change at its rounding, a caution): each is
+# worded for the panel once
+_pretty = lru_cache(maxsize=4096)(pretty)
+_keep_units_whole = lru_cache(maxsize=1024)(keep_units_whole)
+
+
+@lru_cache(maxsize=1024)
 def _escape(text: str) -> str:
-    return keep_units_whole(text.replace("&", "&amp;").replace("<", "&lt;").replace(">", "&gt;"))
+    return _keep_units_whole(text.replace("&", "&amp;").replace("<", "&lt;").replace(">", "&gt;"))
