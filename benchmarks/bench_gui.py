@@ -1,6 +1,7 @@
 """Speed of the live window, as a ratio against a baseline measured in the same run.
 
     QT_QPA_PLATFORM=offscreen python benchmarks/bench_gui.py
+    QT_QPA_PLATFORM=offscreen python benchmarks/bench_gui.py --profile riprap   # where the window's time goes
 
 One edit, the whole way a keystroke goes: the bottom-width field parses the
 text, the form pushes the undo command, the document tells the window, the
@@ -26,7 +27,10 @@ alternating batches, and each figure is the best batch of many; the median ratio
 
 from __future__ import annotations
 
+import argparse
+import cProfile
 import os
+import pstats
 import statistics
 import sys
 import time
@@ -52,7 +56,7 @@ LININGS = (("concrete", "concrete", None), ("riprap D50 150 mm", "riprap", 0.15)
            ("gravel D50 25 mm", "gravel", 0.025), ("grass, good sod", "grass_good_sod", None))
 
 
-def measure(app, lining_key, d50):
+def measure(app, lining_key, d50, profile=None):
     """(best edit, bare draw, bare draw on screen; paired ratios to each; evaluations per edit, canvas size,
     best keystroke-to-picture) for the first demo channel lined so."""
     from app import channel_display
@@ -79,20 +83,29 @@ def measure(app, lining_key, d50):
 
     canvas.draw = counted_draw
     latency = []
+    profiling = [None]           # the profile, once the warm-up is done
 
     def edit():
         """The time the window's thread is busy with one edit [s]."""
         text = next(values)
         start, t0 = time.perf_counter(), time.thread_time()
+        if profiling[0] is not None:
+            profiling[0].enable()                # cProfile follows this thread only: the worker is left out
         field.edit.setText(text)
         field._typed(text)                       # what QLineEdit.textEdited delivers on a keystroke
         while not (evaluator.running or evaluator.idle):
             app.processEvents()                  # the worker starts at the next turn of the event loop
         busy = time.thread_time() - t0
+        if profiling[0] is not None:
+            profiling[0].disable()
         evaluator.wait()                         # the worker computes; the window's thread is free meanwhile
         t1, drawn = time.thread_time(), draws[0]
+        if profiling[0] is not None:
+            profiling[0].enable()
         while not evaluator.idle or draws[0] == drawn:
             app.processEvents()                  # the result is shown and the picture rendered
+        if profiling[0] is not None:
+            profiling[0].disable()
         busy += time.thread_time() - t1
         latency.append(time.perf_counter() - start)
         return busy
@@ -127,6 +140,19 @@ def measure(app, lining_key, d50):
         edit()
         bare_draw_on_screen()
     latency.clear()
+    if profile is not None:                      # the edits profiled, then the bare draws alike for comparison
+        profiling[0] = profile
+        for _ in range(60):
+            edit()
+        profiling[0] = None
+        bare = cProfile.Profile()
+        bare.enable()
+        for _ in range(60):
+            real_draw()
+        bare.disable()
+        window.doc.undo_stack.setClean()
+        window.close()
+        return bare
     best, ratios = interleaved((edit, bare_draw, bare_draw_on_screen))
     size = canvas.width(), canvas.height()
     window.doc.undo_stack.setClean()
@@ -134,8 +160,22 @@ def measure(app, lining_key, d50):
     return best, ratios, per_edit, size, min(latency)
 
 
-def main() -> int:
+def main(argv=None) -> int:
+    parser = argparse.ArgumentParser(description=__doc__.splitlines()[0])
+    parser.add_argument("--profile", metavar="LINING", choices=[key for _, key, _ in LININGS],
+                        help="profile 60 edits of one lining in the window's thread (cProfile) against 60 bare draws "
+                             "instead of timing")
+    args = parser.parse_args(argv)
     app = QApplication.instance() or QApplication([])
+    if args.profile:
+        what, key, d50 = next(lining for lining in LININGS if lining[1] == args.profile)
+        edits = cProfile.Profile()
+        bare = measure(app, key, d50, profile=edits)
+        print(f"== 60 edits, {what}: the window's thread")
+        pstats.Stats(edits).sort_stats("cumulative").print_stats(40)
+        print("== 60 bare draws of the same figure")
+        pstats.Stats(bare).sort_stats("cumulative").print_stats(10)
+        return 0
     for what, key, d50 in LININGS:
         (edit, bare, shown), ratios, per_edit, size, latency = measure(app, key, d50)
         print(f"{what}: canvas {size[0]}x{size[1]} px, {per_edit} evaluation(s) per edit; window's thread busy per "

@@ -8,6 +8,12 @@ table as tab-separated text.
 Clicking a quantity's heading orders the linings by it (again: the other way);
 the columns can also be dragged. Only the order shown changes: a column keeps
 its lining, so what is applied is always the lining the user picked.
+
+The linings are computed off the window's thread by a :class:`~.tasks.Recomputer`
+while the view is in sight, so typing in the form never waits for them: the
+table shown stays until the one for the newest inputs is in, and a table for
+inputs changed since is dropped. Applying and copying first wait for the table
+of the inputs as they are.
 """
 
 from __future__ import annotations
@@ -25,6 +31,7 @@ from ..project import LiningChoice
 from .document import ProjectDocument
 from .fields import keep_units_whole, number_marks, pretty
 from .plots import SectionPicture
+from .tasks import Recomputer
 
 
 def wrap(text: str, width: float = 18, measure=len) -> str:
@@ -123,9 +130,14 @@ class ComparisonView(QWidget):
         lay.addWidget(choice_scroll)
         lay.addWidget(right, 1)
 
+        # the linings are computed off the window's thread, the newest inputs only
+        self.computer = Recomputer(self._comparison_work, self)
+        self.computer.succeeded.connect(self._compared)
+        self.computer.failed.connect(self._not_compared)
         for sig in (doc.reset, doc.current_changed, doc.units_changed, doc.channel_changed):
             sig.connect(self.mark_stale)
         self._stale = True
+        self._pick = None      # the lining to pick when the next table is in (the one just applied)
 
     # -- refreshing -----------------------------------------------------------------------
     def mark_stale(self, *_signal_args) -> None:
@@ -138,15 +150,43 @@ class ComparisonView(QWidget):
         if self._stale:
             self.refresh()
 
+    @property
+    def idle(self) -> bool:
+        """The table shown is that of the inputs as they are (tests wait for this)."""
+        return not self._stale and self.computer.idle
+
     def refresh(self) -> None:
-        """Linings side by side: one column each, the quantities down the side."""
+        """Compute the comparison of the inputs as they are, off the window's thread; the table shown stays until
+        the new one is in. The ticks follow the channel at once (they are inputs, not results)."""
         self._stale = False
-        ch, context = self.doc.channel(), self.doc.context
-        self._fill_choices(ch)
-        self.rows, reason = display.compare(ch, context)
+        self._fill_choices(self.doc.channel())
+        self.computer.request()
+
+    def _comparison_work(self):
+        """The comparison of the current channel as it is now, on copies (run in the worker)."""
+        ch, context, marks = copy.deepcopy(self.doc.channel()), self.doc.context, number_marks()
+
+        def work():
+            rows, reason = display.compare(ch, context)
+            return rows, reason, display.comparison_data(rows, context, *marks)
+        return work
+
+    def _not_compared(self, exc: BaseException) -> None:
+        """A fault in the worker (not bad input, which ``compare`` words itself): said in words, no table."""
+        self._show([], f"The linings could not be compared: {type(exc).__name__}: {exc}",
+                   display.comparison_data([], self.doc.context, *number_marks()))
+
+    def _compared(self, result) -> None:
+        self._show(*result)
+
+    def _show(self, rows, reason: str, data) -> None:
+        """Linings side by side: one column each, the quantities down the side."""
+        picked = self.selected()
+        keep = self._pick or (self.rows[picked].choice if 0 <= picked < len(self.rows) else None)
+        self._pick = None
+        self.rows, self.data = rows, data
         self.unavailable.setText(reason)
         self.unavailable.setVisible(bool(reason))
-        self.data = display.comparison_data(self.rows, context, *number_marks())
         heads, body = [self.data.heading(f) for f in self.data.columns], self.data.body()
         self._set_columns(len(body))
         self.table.setRowCount(len(heads))          # row 0: the small section; then the quantities
@@ -167,9 +207,18 @@ class ComparisonView(QWidget):
                 self.table.setItem(i, j, item)
         self._fill_pictures()
         self._show_order()
+        if keep is not None:           # the lining picked stays picked, wherever its column now is
+            self._select_choice(keep)
         has_rows = bool(self.rows)
         self.copy_button.setEnabled(has_rows)
         self.apply_button.setEnabled(has_rows and self.selected() >= 0)
+
+    def bring_up_to_date(self) -> None:
+        """Make the table shown that of the inputs as they are, waiting for it if it is on its way (an action
+        on the table acts on the numbers of the current inputs, never on a table left from before an edit)."""
+        if self._stale:
+            self.refresh()
+        self.computer.finish()
 
     def selected(self) -> int:
         """The lining picked: its index in ``rows`` (the table's logical column, whatever the order shown), or -1."""
@@ -303,6 +352,13 @@ class ComparisonView(QWidget):
         if not 0 <= index < len(self.rows):
             self.status_message.emit("Pick a lining (a column of the table) first.")
             return
+        choice = self.rows[index].choice
+        self.bring_up_to_date()
+        index = next((j for j, r in enumerate(self.rows) if (r.choice.key, r.choice.d50) == (choice.key, choice.d50)),
+                     -1)
+        if index < 0:
+            self.status_message.emit("That lining is no longer compared for this channel: pick a column again.")
+            return
         picked = self.rows[index]     # held: the edit below refreshes the table, which may reorder ``rows``
         ch = self.doc.channel()
         new = display.with_lining(ch, picked.choice)
@@ -310,6 +366,7 @@ class ComparisonView(QWidget):
             new.alternatives.insert(0, copy.deepcopy(ch.lining))   # the lining it had stays in the comparison
         self.doc.replace(new, f"Apply lining {picked.name}")
         self.status_message.emit(f"Lining '{picked.name}' applied to {self.doc.channel().name}.")
+        self._pick = picked.choice     # picked again in the new table (the old lining joins it as a column)
         self._select_choice(picked.choice)
 
     def _select_choice(self, choice) -> None:
@@ -320,6 +377,7 @@ class ComparisonView(QWidget):
                 return
 
     def copy_table(self) -> str:
+        self.bring_up_to_date()
         text = display.comparison_tsv([self.rows[j] for j in self.shown_order()], self.doc.context, *number_marks())
         QGuiApplication.clipboard().setText(text)
         self.status_message.emit(f"Comparison table copied ({len(self.rows)} rows, tab-separated).")

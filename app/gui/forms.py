@@ -488,6 +488,7 @@ class InputPanel(QScrollArea):
         for sig in (doc.reset, doc.current_changed, doc.units_changed):
             sig.connect(self._reload_all)
         doc.channel_changed.connect(self._channel_changed)
+        self._committing: NumberField | None = None    # the field whose edit is being stored
         self.reload(force=True)
 
     # -- building -----------------------------------------------------------------------
@@ -505,10 +506,12 @@ class InputPanel(QScrollArea):
 
     def _channel_changed(self, index: int) -> None:
         if index == self.doc.current:
-            self.reload()
+            self.reload(own=self._committing)
 
-    def reload(self, force: bool = False) -> None:
-        """Show the current channel. Keeps text the user is typing when it means the stored value."""
+    def reload(self, force: bool = False, own: NumberField | None = None) -> None:
+        """Show the current channel. Keeps text the user is typing when it means the stored value. ``own``: the
+        field whose edit this is; the other fields' accepted text still means their unchanged values, so only
+        they that complain are shown again (reading every field back costs each keystroke a millisecond)."""
         ch, units = self.doc.channel(), self.doc.units
         complaint_before = self.first_complaint()
         if force:
@@ -540,7 +543,7 @@ class InputPanel(QScrollArea):
                     continue
             else:
                 path = key
-            if f in self.lining.fields():
+            if f in self.lining.fields() or (own is not None and f is not own and not f.error):
                 continue
             f.show_value(value_at(ch, path), units, force)
         self.lining.load(ch, units, force)
@@ -606,7 +609,11 @@ class InputPanel(QScrollArea):
             self._note_invalid(key, message)
             return
         self._note_valid(key)
-        self.doc.edit(path, value, f"Change {field.spec.label.lower()}", merge_key=field.merge_key)
+        self._committing = field
+        try:     # the checked copy is the new channel: no second copy made
+            self.doc.replace(candidate, f"Change {field.spec.label.lower()}", merge_key=field.merge_key)
+        finally:
+            self._committing = None
 
     def _rename(self) -> None:
         text = self.name.text()

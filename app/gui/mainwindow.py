@@ -28,7 +28,7 @@ from .comparison import ComparisonView
 from .document import ProjectDocument
 from .fields import pretty, sentence
 from .forms import SHAPES, InputPanel
-from .plots import EnergyPicture, RatingPicture, SectionPicture
+from .plots import EnergyPicture, RatingPicture, SectionPicture, section_drawing
 from .results_view import CAUTION, ResultsPanel
 from .sheet_dialogs import ExportSheetDialog, NotesDialog, SheetDetailsDialog, ask_password
 from .screen_fit import SideTabs, fit_to_screen, scrolling
@@ -62,6 +62,7 @@ class MainWindow(QMainWindow):
         # the current channel is evaluated off the window's thread, the newest inputs only, so typing never waits
         self.evaluator = Recomputer(self._evaluation_work, self)
         self.evaluator.succeeded.connect(lambda done: self._evaluated(*done))
+        self.evaluated_drawing = None     # the section's shapes of that result, made in the worker too
         self.evaluator.failed.connect(lambda exc: self._evaluated(None, display.not_computed(exc)))
         self.slow = QTimer(self)
         self.slow.setSingleShot(True)
@@ -395,15 +396,26 @@ class MainWindow(QMainWindow):
         self.slow.start()
 
     def _evaluation_work(self):
-        """The evaluation of the current channel as it is now, on copies (run in the worker)."""
-        channel, context = copy.deepcopy(self.doc.channel()), self.doc.context
-        return lambda: (channel, display.evaluate(channel, context))
+        """The evaluation of the current channel as it is now, on copies, and the shapes of its section picture
+        (numpy only), so that the window's thread only moves the artists (run in the worker)."""
+        channel, context, units = copy.deepcopy(self.doc.channel()), self.doc.context, self.doc.units
 
-    def _evaluated(self, channel: pj.Channel | None, ev: display.Evaluation) -> None:
+        def work():
+            ev = display.evaluate(channel, context)
+            drawing = None
+            if ev.ok:
+                try:
+                    drawing = section_drawing(ev, units, ev.lining.layer_thickness if ev.lining else None)
+                except Exception:  # noqa: BLE001 - the picture makes it again in the window, where it is told
+                    drawing = None
+            return channel, ev, drawing
+        return work
+
+    def _evaluated(self, channel: pj.Channel | None, ev: display.Evaluation, drawing=None) -> None:
         """The result of the newest inputs (``channel``, None when the evaluation failed) is in: show it."""
         self.slow.stop()
         self.results.set_updating(False)
-        self.evaluation, self.evaluated_channel = ev, channel
+        self.evaluation, self.evaluated_channel, self.evaluated_drawing = ev, channel, drawing
         self.inputs.show_evaluation(ev)
         if ev.ok and not self.inputs.first_complaint():
             self.last_good = ev
@@ -438,7 +450,8 @@ class MainWindow(QMainWindow):
         if usable:
             if key == "section":
                 thick = ev.lining.layer_thickness if ev.lining else None
-                picture.update(ev, units, self.section_title(ch, ev), lining_thickness=thick)
+                picture.update(ev, units, self.section_title(ch, ev), lining_thickness=thick,
+                               drawing=self.evaluated_drawing)
             elif key == "rating":
                 picture.update(display.rating(ch, ev), ev, units, f"{ch.name}: flow against depth on this grade")
             else:
@@ -457,7 +470,8 @@ class MainWindow(QMainWindow):
         doc = self.doc
         where = doc.path.name if doc.path else "not saved yet"
         self.setWindowTitle(f"{doc.project.name} ({where})[*] — Ditchwright")
-        self.setWindowModified(doc.modified)
+        if self.isWindowModified() != doc.modified:     # Qt sets the title again even when it is unchanged
+            self.setWindowModified(doc.modified)
 
     # -- ditch runs ------------------------------------------------------------------------------
     def update_run_actions(self) -> None:
@@ -927,6 +941,7 @@ class MainWindow(QMainWindow):
 
     def closeEvent(self, event) -> None:
         self.evaluator.wait()
+        self.comparison.computer.wait()
         if self.export_task is not None:
             self.export_task.wait()   # a sheet export takes seconds; let it finish its file
         if self.inventory_dialog is not None:

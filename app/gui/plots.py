@@ -22,8 +22,11 @@ from dataclasses import dataclass
 
 import numpy as np
 from matplotlib.backends.backend_qtagg import FigureCanvasQTAgg
+from matplotlib.colors import to_rgba
 from matplotlib.figure import Figure
 from matplotlib.patches import Polygon
+from PySide6.QtCore import QRect, QRectF
+from PySide6.QtGui import QImage, QPainter
 
 from hydraulics.linings.roughness import SWITCH_NOTE
 from hydraulics.units import UnitSystem
@@ -91,6 +94,35 @@ class Dimension:
         return (self.arrow, self.label, self.ticks)
 
 
+class Canvas(FigureCanvasQTAgg):
+    """matplotlib's Qt canvas, put on screen without copying the picture first.
+
+    Qt draws the part to paint straight from the rendered buffer, without
+    matplotlib's copy of it and without clearing the widget underneath: the
+    figures here are opaque (a white face) and cover the canvas (a fraction of
+    the cost of matplotlib's own painting, paid at every edit)."""
+
+    def paintEvent(self, event):
+        self._draw_idle()       # only does something if a draw is pending
+        if not hasattr(self, "renderer"):
+            return
+        buf = self.renderer.buffer_rgba()
+        height, width = buf.shape[:2]
+        image = QImage(buf, width, height, QImage.Format.Format_RGBA8888)
+        ratio = self.device_pixel_ratio
+        image.setDevicePixelRatio(ratio)
+        rect = event.rect()
+        painter = QPainter(self)
+        try:
+            if not QRectF(0, 0, width / ratio, height / ratio).contains(QRectF(rect)):
+                painter.eraseRect(rect)          # a part the picture does not cover (while resizing)
+            painter.drawImage(rect.topLeft(), image, QRect(int(rect.x() * ratio), int(rect.y() * ratio),
+                                                           int(rect.width() * ratio), int(rect.height() * ratio)))
+            self._draw_rect_callback(painter)
+        finally:
+            painter.end()
+
+
 class Picture:
     """One Figure on one Qt canvas, its margins set from its writing (:meth:`fit_writing`)."""
 
@@ -100,7 +132,7 @@ class Picture:
 
     def __init__(self, width=8.0, height=4.5, dpi=100):
         self.figure = Figure(figsize=(width, height), dpi=dpi, facecolor="white")
-        self.canvas = FigureCanvasQTAgg(self.figure)
+        self.canvas = Canvas(self.figure)
         self.figure.subplots_adjust(**self.margins)
         self.ax = self.figure.add_subplot()
         ax = self.ax
@@ -115,6 +147,7 @@ class Picture:
                                   bbox=dict(boxstyle="round,pad=0.5", fc="white", ec="#d7b0b0"))
         self.stale_note.set_visible(False)
         self._title: str | None = None          # the title as given (shown wrapped to the width)
+        self._faded = (False, "")               # (faded, note) as last set by fade()
         self.canvas.mpl_connect("resize_event", self._resized)
 
     def _resized(self, _event) -> None:
@@ -236,6 +269,9 @@ class Picture:
                                          frameon=False)
 
     def fade(self, faded: bool, note: str = "") -> None:
+        if (faded, note) == self._faded:
+            return                   # as it is: setting the same alpha still recomputes every patch's colours
+        self._faded = (faded, note)
         alpha = 0.3 if faded else 1.0
         for artist in self.content_artists():
             artist.set_alpha(alpha)
@@ -341,6 +377,8 @@ class SectionPicture(Picture):
                      "bottom": Dimension(ax), "top": Dimension(ax)}
         self._labels = [*self.key_lines, *self.key_texts, self.lining_label, *self.slope_labels]
         self._last = None
+        self._fitted = None     # (title, width, height) the margins were last fitted for
+        self._widths: dict = {}  # label widths by their text with digits as 0 (see _text_width)
 
     def content_artists(self):
         out = [self.water, self.soil, self.air, self.lining, self.ground, self.surface, self.marker,
@@ -352,6 +390,17 @@ class SectionPicture(Picture):
     def _resized(self, _event):
         if self._last is not None:
             self.update(*self._last)
+
+    def _text_width(self, text, renderer) -> float:
+        """The width of a label [px], measured once for each pattern of its digits: the font's digits are all
+        one width (DejaVu Sans, matplotlib's font), so "depth 0.31 m" measures as "depth 0.00 m" did."""
+        key = (re.sub(r"\d", "0", text.get_text()), text.get_fontsize(), self.figure.dpi)
+        width = self._widths.get(key)
+        if width is None:
+            if len(self._widths) > 256:
+                self._widths.clear()
+            width = self._widths[key] = text.get_window_extent(renderer).width
+        return width
 
     def _fit(self, x0, x1, z0, z1, right: float = 0.0):
         """Set equal-scale limits showing [x0, x1] x [z0, z1] inside the label pads (``pads`` in logical pixels,
@@ -370,10 +419,13 @@ class SectionPicture(Picture):
         self.ax.set_ylim(zl, zl + scale * box.height)
         return scale * k
 
-    def update(self, ev: Evaluation, units: UnitSystem, title: str = "", lining_thickness=None) -> None:
-        """Redraw for a good evaluation (``ev.ok``); the caller keeps the last one when it is not."""
-        self._last = (ev, units, title, lining_thickness)
-        g = section_drawing(ev, units, lining_thickness)     # everything in the shown length unit
+    def update(self, ev: Evaluation, units: UnitSystem, title: str = "", lining_thickness=None,
+               drawing: SectionDrawing | None = None) -> None:
+        """Redraw for a good evaluation (``ev.ok``); the caller keeps the last one when it is not. ``drawing``:
+        :func:`section_drawing` of the same, when already made (off the window's thread)."""
+        self._last = (ev, units, title, lining_thickness, drawing)
+        # everything in the shown length unit
+        g = drawing if drawing is not None else section_drawing(ev, units, lining_thickness)
         geo = g.geometry
         L = units.label("length")
 
@@ -383,7 +435,11 @@ class SectionPicture(Picture):
         def xy(pair):
             return np.column_stack([np.asarray(pair[0]), np.asarray(pair[1])])
 
-        self.fit_writing(title)
+        # the margins follow the title alone (no axes are drawn): measured again only when it or the size changes
+        fitted = (title, self.figure.bbox.width, self.figure.bbox.height)
+        if fitted != self._fitted:
+            self.fit_writing(title)
+            self._fitted = fitted
         (wl, wr), yn, yc, top = geo.surface or (0.0, 0.0), geo.normal_depth, geo.critical_depth, g.top
         gap = top - yn
         freeboard_name = {"circle": "to crown", "irregular": "to lower bank"}.get(g.kind, "freeboard")
@@ -393,11 +449,13 @@ class SectionPicture(Picture):
             d = self.dims
             d["depth"].label.set_text(f"  depth {fmt(yn)}")
             d["freeboard"].label.set_text(f"  {freeboard_name} {fmt(gap)}")
-            widest = max(d[k].label.get_window_extent(renderer).width for k in ("depth", "freeboard"))
+            widest = max(self._text_width(d[k].label, renderer) for k in ("depth", "freeboard"))
             right = widest + (14 + 6) * self.ratio + self.px(self.edge)
         s = self._fit(g.left, g.right, g.base, g.top, right)  # shown units per logical pixel
         self.soil.set_xy(xy(g.soil))
-        self.soil.set_facecolor(PIPE if g.kind == "circle" else SOIL)
+        colour = PIPE if g.kind == "circle" else SOIL
+        if self.soil.get_facecolor() != to_rgba(colour):
+            self.soil.set_facecolor(colour)
         self.air.set_visible(g.air is not None)
         if g.air is not None:
             self.air.set_xy(xy(g.air))
@@ -431,8 +489,9 @@ class SectionPicture(Picture):
         step = 19 * self.ratio / max(self.ax.get_window_extent().height, 100)   # one key line is 19 logical px
         for i, (line, label) in enumerate(zip(self.key_lines, self.key_texts)):
             y = 0.99 - i * step
-            line.set_ydata([y, y])
-            label.set_y(y)
+            if label.get_position()[1] != y:     # moves with the size only: a line set anew is laid out anew
+                line.set_ydata([y, y])
+                label.set_y(y)
             line.set_visible(i < len(keys))
             label.set_visible(i < len(keys))
             if i < len(keys):

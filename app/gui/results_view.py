@@ -3,11 +3,20 @@
 When the inputs are not usable the last good result stays, greyed, under a
 note that says what to fix. While a new result is being computed the one
 shown stays; a note says so when that takes long.
+
+An edit usually changes only the numbers. Qt relays out the whole scrolling
+column (wrapped texts measured again, scroll bars repainted) for any label whose
+size may change, unless the label's size is fixed. So each value is a label of
+fixed size, resized only when its new text does not fit or leaves much room;
+and a wrapped text (the verdict's reason, the cautions) whose new words take
+the same height keeps its size fixed until the column's width changes.
 """
 
 from __future__ import annotations
 
-from PySide6.QtCore import Qt
+from functools import lru_cache
+
+from PySide6.QtCore import QEvent, QObject, Qt
 from PySide6.QtWidgets import QFrame, QGridLayout, QLabel, QScrollArea, QVBoxLayout, QWidget
 
 from hydraulics.provenance import NOT_VERIFIED_MARK, NOT_VERIFIED_TITLE
@@ -79,8 +88,9 @@ class ResultsPanel(QWidget):
             value.setObjectName(f"value_{key}")
             value.setAlignment(Qt.AlignmentFlag.AlignRight | Qt.AlignmentFlag.AlignVCenter)
             value.setTextInteractionFlags(Qt.TextInteractionFlag.TextSelectableByMouse)
+            value.setFixedSize(value.sizeHint())
             grid.addWidget(name, i, 0)
-            grid.addWidget(value, i, 1)
+            grid.addWidget(value, i, 1, Qt.AlignmentFlag.AlignRight)     # a fixed width: kept to the right
             self.values[key] = value
         lay.addWidget(self.numbers)
 
@@ -106,6 +116,9 @@ class ResultsPanel(QWidget):
         lay.addWidget(self.unverified)
         lay.addStretch(1)
         self.scroll.setWidget(body)
+        self._wrapped = (self.reason, self.warnings, self.unverified)
+        # the scroll area's view, not the column: a held text keeps the column at least as wide as it is
+        self._width_watch = _WidthWatch(self.scroll.viewport(), lambda: [free_size(w) for w in self._wrapped])
 
         self.caution = QLabel(CAUTION)
         self.caution.setObjectName("caution")
@@ -145,7 +158,7 @@ class ResultsPanel(QWidget):
         values = panel_values(shown, mark) if shown is not None and shown.ok else {}
         for key, f in ROWS:
             v = values.get(key)
-            self.values[key].setText("—" if v is None else pretty(format_value(v, f, units, mark)))
+            set_value_text(self.values[key], "—" if v is None else _pretty(format_value(v, f, units, mark)))
             applies = key not in OPTIONAL_VALUES or v is not None
             self.values[key].setVisible(applies)
             self.names[key].setVisible(applies)
@@ -157,15 +170,15 @@ class ResultsPanel(QWidget):
         if warnings:
             items = "".join(f"<li>{_escape(w[:1].upper() + w[1:])}.</li>" if not w.endswith(".")
                             else f"<li>{_escape(w[:1].upper() + w[1:])}</li>" for w in warnings)
-            self.warnings.setText(f"<ul style='margin-left:-24px'>{items}</ul>")
+            set_wrapped_text(self.warnings, f"<ul style='margin-left:-24px'>{items}</ul>")
         else:
-            self.warnings.setText("None from the checks made." if shown is not None else "—")
+            set_wrapped_text(self.warnings, "None from the checks made." if shown is not None else "—")
         self.warnings.setEnabled(usable)
         design = shown.design if shown is not None else None
         self.values["freeboard"].setToolTip(in_units(design.freeboard_rule(units), units) if design is not None
                                             else "")
         unverified = [in_units(line, units) for line in shown.not_verified] if shown is not None else []
-        self.unverified.setText(f"<ul style='margin-left:-24px'>{''.join(f'<li>{_escape(u)}</li>' for u in unverified)}"
+        set_wrapped_text(self.unverified, f"<ul style='margin-left:-24px'>{''.join(f'<li>{_escape(u)}</li>' for u in unverified)}"
                                 "</ul>" if unverified else "")
         self.unverified.setVisible(bool(unverified))
         self.unverified_heading.setVisible(bool(unverified))
@@ -178,13 +191,78 @@ class ResultsPanel(QWidget):
 
     def _set_verdict(self, status: str, headline: str, reason: str) -> None:
         if self.verdict.property("status") != status:    # the style sheet's colours follow; a polish relays out
+            free_size(self.reason)                          # measured again in the new style
             self.verdict.setProperty("status", status)
             for w in (self.verdict, self.headline, self.reason):
                 w.style().unpolish(w)
                 w.style().polish(w)
         self.headline.setText(headline)
-        self.reason.setText(keep_units_whole(reason))
+        set_wrapped_text(self.reason, _keep_units_whole(reason))
 
 
+def set_value_text(label: QLabel, text: str) -> None:
+    """Show ``text`` in the fixed-size ``label``, sized anew only when the text does not fit or leaves more than
+    two digits of room (so that typing does not relay out the panel)."""
+    if text == label.text():
+        return
+    metrics = label.fontMetrics()
+    margins = label.contentsMargins()
+    need = metrics.horizontalAdvance(text) + 2 * label.margin() + margins.left() + margins.right() + 2
+    room = metrics.horizontalAdvance("00")
+    if not need <= label.width() <= need + 2 * room:
+        label.setFixedWidth(need + room)
+    label.setText(text)
+    label.sizeHint()     # lays the selectable text out now: laid out while painted, it would ask for a second paint
+
+
+def set_wrapped_text(label: QLabel, text: str) -> None:
+    """Show ``text`` in the word-wrapped ``label``; when it takes the height the label has, the label's size is
+    held fixed so that the column is not laid out again (:class:`_WidthWatch` lets go when the width changes)."""
+    if text == label.text():
+        return
+    size = label.size()
+    if not label.isVisible() or size.width() <= 0:
+        free_size(label)
+        label.setText(text)
+        return
+    label.setFixedSize(size)               # held while the text changes: no relayout asked for
+    label.setText(text)
+    if label.heightForWidth(size.width()) != size.height():
+        free_size(label)                   # it needs another height: the column is laid out again
+
+
+def free_size(label: QLabel) -> None:
+    """Let the layout size ``label`` again."""
+    if label.minimumSize() != label.maximumSize():
+        return
+    label.setMinimumSize(0, 0)
+    label.setMaximumSize(QWIDGETSIZE_MAX, QWIDGETSIZE_MAX)
+
+
+#: Qt's largest widget size (QWIDGETSIZE_MAX).
+QWIDGETSIZE_MAX = (1 << 24) - 1
+
+
+class _WidthWatch(QObject):
+    """Calls ``changed()`` when the width of ``widget`` changes (the wrapped texts must then be measured again)."""
+
+    def __init__(self, widget: QWidget, changed):
+        super().__init__(widget)
+        self._changed = changed
+        widget.installEventFilter(self)
+
+    def eventFilter(self, watched, event):
+        if event.type() == QEvent.Type.Resize and event.size().width() != event.oldSize().width():
+            self._changed()
+        return False
+
+
+# the same texts come again edit after edit (a value that did not change at its rounding, a caution): each is
+# worded for the panel once
+_pretty = lru_cache(maxsize=4096)(pretty)
+_keep_units_whole = lru_cache(maxsize=1024)(keep_units_whole)
+
+
+@lru_cache(maxsize=1024)
 def _escape(text: str) -> str:
-    return keep_units_whole(text.replace("&", "&amp;").replace("<", "&lt;").replace(">", "&gt;"))
+    return _keep_units_whole(text.replace("&", "&amp;").replace("<", "&lt;").replace(">", "&gt;"))

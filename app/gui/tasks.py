@@ -15,7 +15,7 @@ newest inputs only.
 
 from __future__ import annotations
 
-from PySide6.QtCore import QCoreApplication, QObject, QThread, QTimer, Signal
+from PySide6.QtCore import QCoreApplication, QEvent, QObject, QThread, QTimer, Signal
 
 
 class Cancelled(Exception):
@@ -110,6 +110,21 @@ class Recomputer(QObject):
         the event loop."""
         if self._task is not None:
             self._task.wait()
+
+    def finish(self) -> None:
+        """Block until the result of the newest request has been delivered (an action that must act on the
+        result for the inputs as they are, such as copying it). Only this object's own queued calls are handled
+        meanwhile, not the rest of the event loop."""
+        while not self.idle:
+            if self._task is None:
+                self._timer.stop()
+                self._start()
+            task = self._task
+            task.wait()
+            # the task's results and its end were queued to this object from the worker: take them now
+            QCoreApplication.sendPostedEvents(self, QEvent.Type.MetaCall)
+            if self._task is task:       # not delivered (it should have been): let go rather than wait forever
+                self._finished()
 
     def _start(self) -> None:
         if self._task is not None or self._started == self._requested:

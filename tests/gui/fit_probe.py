@@ -193,11 +193,13 @@ class Probe:
         self.window = None       # the main window, once made: its worker threads are waited for
 
     def settle(self, rounds: int = 4) -> None:
-        """Let Qt lay out and paint, after the window's channel result and run (solved off its thread) are in."""
+        """Let Qt lay out and paint, after the window's channel result, its lining comparison and run (computed off
+        its thread) are in."""
         import time
         end = time.monotonic() + 60
         while self.window is not None and time.monotonic() < end and not (
-                self.window.evaluator.idle and (self.window.run_view is None or self.window.run_view.idle)):
+                self.window.evaluator.idle and self.window.comparison.computer.idle
+                and (self.window.run_view is None or self.window.run_view.idle)):
             self.app.processEvents()
             time.sleep(0.01)
         for _ in range(rounds):

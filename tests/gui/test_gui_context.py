@@ -16,7 +16,7 @@ from app import channel_display as display
 from app import project as pj
 from app.context import Context
 from app.gui.mainwindow import MainWindow
-from waiting import evaluated
+from waiting import compared, evaluated
 
 COSTS = (70.0, 140.0)
 USER = 'schema_version = 1\n[[lining]]\nkey = "concrete"\nunit_cost = {cost}\nunit_cost_basis = "area"\n'
@@ -64,7 +64,7 @@ def test_each_window_computes_with_the_context_it_was_given(contexts, qtbot):
         assert float(shown) == pytest.approx(ev.lining.cost_per_length, abs=0.005)   # SI project: $/m, 2 decimals
         w.doc.set_current(next(i for i, c in enumerate(w.doc.project.channels) if c.alternatives))
         w.comparison.refresh()        # the comparison view: the concrete alternative priced alike
-        concrete = next(r for r in w.comparison.rows if r.choice.key == "concrete")
+        concrete = next(r for r in compared(w.comparison, qtbot) if r.choice.key == "concrete")
         assert concrete.cost_per_length == pytest.approx(cost * concrete.core.lined_width, rel=1e-12)
         w.doc.undo_stack.setClean()
     first = windows[0]                # still its own after the second window was made and used

@@ -12,6 +12,7 @@ import pytest
 from PySide6.QtWidgets import QApplication, QLabel
 
 from app.gui.fields import keep_units_whole
+from waiting import compared
 
 ROOT = Path(__file__).resolve().parents[2]
 
@@ -43,6 +44,8 @@ def test_no_label_is_cut_and_no_unit_can_wrap(demo_window, qtbot, units, size):
     for channel, tab in ((outfall, 0), (2, 0), (outfall, 3)):
         w.doc.set_current(channel)
         w.tabs.setCurrentIndex(tab)
+        if tab == 3:
+            compared(w.comparison, qtbot)
         qtbot.wait(20)
         for lab in w.findChildren(QLabel):
             if not lab.isVisible() or not lab.text() or lab.width() == 0:

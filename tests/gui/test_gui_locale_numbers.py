@@ -9,7 +9,7 @@ from PySide6.QtCore import QLocale
 
 from app.gui.fields import UnclearNumber, format_number, parse_number
 from app.main import main
-from waiting import evaluated
+from waiting import compared, evaluated
 from window_typing import field, type_into
 
 
@@ -133,6 +133,7 @@ def test_results_and_comparison_are_written_with_the_locale_decimal_mark(user_lo
     w.doc.set_current(outfall)
     w.tabs.setCurrentIndex(3)
     w.comparison.refresh()
+    compared(w.comparison, qtbot)
     table = w.comparison.table
     heads = [table.verticalHeaderItem(i).text() for i in range(table.rowCount())]
     row = heads.index("Depth [m]")

@@ -112,3 +112,24 @@ def test_an_error_in_the_work_is_delivered_not_raised(qtbot):
     worker.request()
     qtbot.waitUntil(lambda: worker.idle, timeout=10000)
     assert results == [] and len(failures) == 1 and isinstance(failures[0], ValueError)
+
+
+def test_finish_waits_for_the_result_of_the_newest_inputs(qtbot):
+    """An action on the result (a copy, an apply) waits in place: the stale result is dropped, the newest
+    delivered before finish() returns."""
+    inputs, worker, results, _ = recomputer()
+    worker.request()
+    qtbot.waitUntil(lambda: worker.running, timeout=10000)      # held at the gate, computing the value 1
+    inputs.value = 4
+    worker.request()
+    threading.Timer(0.2, inputs.gate.set).start()                # the worker is let go while finish() waits
+    worker.finish()
+    assert worker.idle and inputs.prepared == [1, 4] and results == [40]
+
+
+def test_finish_starts_a_computation_that_is_only_due(qtbot):
+    inputs, worker, results, _ = recomputer()
+    inputs.value = 5
+    worker.request()                 # due at the next turn of the event loop, which finish() does not wait for
+    worker.finish()
+    assert results == [50] and worker.idle

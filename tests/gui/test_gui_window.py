@@ -20,7 +20,7 @@ from app.editing import new_project
 from app.gui import settings
 from app.gui.forms import RATIONAL
 from app.gui.mainwindow import MainWindow
-from waiting import evaluated
+from waiting import compared, evaluated
 from window_typing import field, type_into
 
 
@@ -388,7 +388,7 @@ def test_comparison_view_applies_a_lining_in_one_undoable_step(demo_window, qtbo
     w.tabs.setCurrentIndex(3)
     view = w.comparison
     before = w.doc.channel()
-    keys = [r.choice.key for r in view.rows]
+    keys = [r.choice.key for r in compared(view, qtbot)]
     assert keys[0] == before.lining.key and "gravel" in keys
     assert view.table.columnCount() == len(view.rows)
     assert view.table.cellWidget(0, 0) is view.pictures[0].canvas          # a small section per lining
@@ -400,7 +400,8 @@ def test_comparison_view_applies_a_lining_in_one_undoable_step(demo_window, qtbo
     count = w.doc.undo_stack.count()
     qtbot.mouseClick(view.apply_button, Qt.MouseButton.LeftButton)
     assert w.doc.channel().lining.key == "gravel" and w.doc.undo_stack.count() == count + 1
-    assert {r.choice.key for r in view.rows} == set(keys)                  # the old lining stays compared
+    assert {r.choice.key for r in compared(view, qtbot)} == set(keys)       # the old lining stays compared
+    assert view.rows[view.selected()].choice.key == "gravel"                 # and the applied one stays picked
     evaluated(w, qtbot)
     assert w.results.headline.text() == "Not stable"                     # the verdict follows
     w.undo_action.trigger()
@@ -420,7 +421,7 @@ def test_comparison_table_is_copied_as_tab_separated_text(demo_window, qtbot):
     assert text.splitlines()[0].split("\t")[:3] == ["Lining", "Depth [m]", "Velocity [m/s]"]
 
 
-def test_ticking_a_lining_to_compare_is_undoable(demo_window):
+def test_ticking_a_lining_to_compare_is_undoable(demo_window, qtbot):
     w = demo_window
     w.doc.set_current(outfall_index(w))
     w.tabs.setCurrentIndex(3)
@@ -429,7 +430,7 @@ def test_ticking_a_lining_to_compare_is_undoable(demo_window):
     assert not view.checks[w.doc.channel().lining.key].isEnabled()          # its own lining is always in
     view.checks["asphalt"].setChecked(True)
     assert [a.key for a in w.doc.channel().alternatives][-1] == "asphalt"
-    assert "asphalt" in [r.choice.key for r in view.rows]
+    assert "asphalt" in [r.choice.key for r in compared(view, qtbot)]
     w.undo_action.trigger()
     assert w.doc.channel().alternatives == before and not view.checks["asphalt"].isChecked()
 
@@ -544,7 +545,7 @@ def test_the_copied_comparison_keeps_formulas_as_text(demo_window, qtbot):
     w = demo_window
     w.doc.set_current(outfall_index(w))
     w.tabs.setCurrentIndex(3)
-    assert w.comparison.rows
+    assert compared(w.comparison, qtbot)
     for row, name in zip(w.comparison.rows, ["=HYPERLINK(\"x\")", "@SUM(1)", "+1+cmd", "-1+cmd", "\tx=1"]):
         row.name = name            # a name from the user's own lining catalogue
     qtbot.mouseClick(w.comparison.copy_button, Qt.MouseButton.LeftButton)
@@ -605,6 +606,7 @@ def test_comparison_applies_the_picked_lining_after_the_columns_are_reordered(de
     for key in ("concrete", "riprap", "grass_good_sod"):                  # more linings to order
         if not view.checks[key].isChecked():
             view.checks[key].setChecked(True)
+    compared(view, qtbot)
     heads = [view.table.verticalHeaderItem(i).text() for i in range(view.table.rowCount())]
     velocity_row = next(i for i, h in enumerate(heads) if h.startswith("Velocity"))
     view.table.verticalHeader().sectionClicked.emit(velocity_row)         # the user clicks "Velocity"
@@ -623,6 +625,7 @@ def test_comparison_applies_the_picked_lining_after_the_columns_are_reordered(de
     qtbot.mouseClick(view.apply_button, Qt.MouseButton.LeftButton)
     assert w.doc.channel().lining.key == picked.choice.key
     assert messages and picked.name in messages[-1]                        # and says so, by its own name
+    compared(view, qtbot)
     assert view.rows[view.selected()].choice.key == picked.choice.key       # still picked after the refresh
     assert view.copy_table().splitlines()[1].startswith(display.comparison_label(picked, w.doc.context))  # order shown
 

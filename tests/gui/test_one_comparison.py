@@ -20,6 +20,7 @@ from app.gui.mainwindow import MainWindow
 from app.main import main
 from app.sheet import export_sheets
 from hydraulics import units as hu
+from waiting import compared
 
 USER = 'schema_version = 1\n[[lining]]\nkey = "concrete"\nunit_cost = 1234.5\nunit_cost_basis = "area"\n'
 #: (units, flow, bottom width, bend radius, riprap D50) typed in that unit system; slope 0.02, sides 3H:1V.
@@ -38,11 +39,12 @@ def channel(units: hu.UnitSystem, flow, width, radius, d50) -> pj.Channel:
                                     pj.LiningChoice("grass_good_sod")])
 
 
-def window_cells(w) -> dict:
+def window_cells(w, qtbot) -> dict:
     """{lining name: {key: text}} from the window's comparison table."""
     from app.results import COMPARISON_FIELDS
     view = w.comparison
     view.refresh()
+    compared(view, qtbot)          # computed off the window's thread
     table = view.table
     out = {}
     for j in range(table.columnCount()):
@@ -97,7 +99,7 @@ def test_window_sheet_and_compare_show_the_same_comparison(case, tmp_path, qtbot
     w = MainWindow(project, persistent=False, context=Context.load(prices, units=key))
     qtbot.addWidget(w)
     w.tabs.setCurrentIndex(3)
-    window = window_cells(w)
+    window = window_cells(w, qtbot)
     names = list(window)
     assert len(names) == 4 and any("D50" in n for n in names)
 

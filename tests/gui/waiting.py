@@ -1,7 +1,8 @@
 """Waiting for the window's worker threads in tests (one home for every test file that waits).
 
-The channel page evaluates the current channel off the window's thread, and the run view solves its run there;
-a test that reads what they show after an edit waits for it here first.
+The channel page evaluates the current channel off the window's thread, its lining comparison compares the
+linings there, and the run view solves its run there; a test that reads what they show after an edit waits for it
+here first.
 """
 
 #: The demo run takes a few seconds to solve in the worker thread [ms].
@@ -12,6 +13,14 @@ def evaluated(w, qtbot):
     """Wait until the main window ``w`` shows the result of its current channel as it is now; returns it."""
     qtbot.waitUntil(lambda: w.evaluator.idle and w.evaluation is not None, timeout=WAIT)
     return w.evaluation
+
+
+def compared(view, qtbot):
+    """Wait until the lining comparison ``view`` shows the table of its channel as it is now; returns its rows."""
+    if view._stale:
+        view.refresh()               # a view out of sight computes when shown; a test may read it unseen
+    qtbot.waitUntil(lambda: view.idle, timeout=WAIT)
+    return view.rows
 
 
 def shown(w, qtbot):

@@ -1,0 +1,83 @@
+"""The results panel's labels keep their size while only the numbers change (app.gui.results_view), so that an edit
+does not lay the panel out again, yet every text stays whole."""
+
+from PySide6.QtCore import QEvent, QObject
+from PySide6.QtWidgets import QLabel, QVBoxLayout, QWidget
+
+from app.gui import results_view as rv
+from waiting import evaluated
+from window_typing import field, type_into
+
+
+class LayoutRequests(QObject):
+    """Counts the layout requests that reach ``widget``."""
+
+    def __init__(self, widget):
+        super().__init__(widget)
+        self.count = 0
+        widget.installEventFilter(self)
+
+    def eventFilter(self, watched, event):
+        if event.type() == QEvent.Type.LayoutRequest:
+            self.count += 1
+        return False
+
+
+def test_a_value_keeps_its_size_while_its_text_fits_and_grows_when_it_does_not(qtbot):
+    box = QWidget()
+    qtbot.addWidget(box)
+    label = QLabel("—")
+    QVBoxLayout(box).addWidget(label)
+    label.setFixedSize(label.sizeHint())
+    box.show()
+    rv.set_value_text(label, "0.312 m")
+    size = label.size()
+    assert label.width() >= label.sizeHint().width()
+    rv.set_value_text(label, "0.318 m")                      # the same digits: the same size
+    assert label.size() == size and label.text() == "0.318 m"
+    rv.set_value_text(label, "12,345.678 m³/s")              # longer: sized anew, whole
+    assert label.width() > size.width() and label.width() >= label.sizeHint().width()
+    rv.set_value_text(label, "1 m")                         # much shorter: no room left idle
+    assert label.width() < size.width()
+
+
+def test_a_wrapped_text_of_the_same_height_is_held_and_let_go_when_the_width_changes(qtbot):
+    panel = rv.ResultsPanel()
+    qtbot.addWidget(panel)
+    panel.resize(340, 700)
+    panel.show()
+    qtbot.waitExposed(panel)
+    label = panel.reason
+    rv.set_wrapped_text(label, "Stable: 1.11 Pa against 2.37 Pa permissible.")
+    qtbot.waitUntil(lambda: label.height() >= label.heightForWidth(label.width()) > 0)
+    rv.set_wrapped_text(label, "Stable: 1.12 Pa against 2.37 Pa permissible.")
+    assert label.minimumSize() == label.maximumSize()         # held: no relayout asked for
+    rv.set_wrapped_text(label, "Not stable: " + "a much longer reason that takes more lines " * 4)
+    assert label.minimumSize() != label.maximumSize()         # another height: laid out again
+    qtbot.waitUntil(lambda: label.height() >= label.heightForWidth(label.width()))
+    rv.set_wrapped_text(label, "Not stable: " + "a much longer reason that takes more lines " * 4 + "!")
+    assert label.minimumSize() == label.maximumSize()         # held again
+    wide = label.width()
+    panel.resize(300, 700)                                     # the column narrows: let go, laid out anew
+    assert label.minimumSize() != label.maximumSize()
+    qtbot.waitUntil(lambda: label.width() < wide)
+    assert not panel.scroll.horizontalScrollBar().isVisible()
+
+
+def test_an_edit_that_changes_only_numbers_does_not_lay_the_panel_out(demo_window, qtbot):
+    w = demo_window
+    evaluated(w, qtbot)
+    f = field(w, "trapezoid:section.bottom_width")
+    type_into(qtbot, f, "0.61")
+    evaluated(w, qtbot)
+    qtbot.wait(50)
+    requests = LayoutRequests(w.results.numbers)
+    before = {k: v.text() for k, v in w.results.values.items()}
+    type_into(qtbot, f, "0.62")
+    evaluated(w, qtbot)
+    qtbot.wait(50)
+    assert {k: v.text() for k, v in w.results.values.items()} != before     # the numbers did change
+    assert requests.count == 0
+    for key, label in w.results.values.items():                           # and each is shown whole
+        if label.isVisible():
+            assert label.width() >= label.sizeHint().width(), key
