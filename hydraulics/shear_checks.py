@@ -245,7 +245,7 @@ def _stone_side(bed: _BedResistance, lining, z, applies, design, y, s, incipient
     where the side is as steep as the stone's angle of repose. Returns (permissible, factor, K2, cannot, steep)."""
     size = len(z)
     phi, gs = float(lining.angle_of_repose), float(lining.specific_weight)
-    theta = np.where(z > 0, np.arctan(1.0 / np.where(z > 0, z, 1.0)), np.pi / 2)
+    theta = np.arctan2(1.0, np.maximum(z, 0.0))      # the side's angle: arctan(1/z), pi/2 for a vertical side
     cannot = applies & (theta >= math.radians(phi))
     steep = applies & ~cannot & (s > hec15.STEEP_SLOPE)
     mild = applies & ~cannot & ~steep
