@@ -36,7 +36,7 @@ export QT_QPA_PLATFORM=offscreen
 "$exe" batch "$OLDPWD/docs/screenshots/invented-inventory.csv" -o from-csv.gpkg --no-progress >/dev/null 2>&1 || \
     [ $? -eq 1 ]
 "$exe" batch invented-inventory.gpkg --layer ditches -o from-gpkg.csv --no-progress >/dev/null 2>&1 || [ $? -eq 1 ]
-test -s shot.png && test -s sheets.pdf && test -s results.csv && test -s drawings/North_verge_ditch-profile.dxf
+test -s shot.png && test -s sheets.pdf && test -s results.csv && test -s "drawings/North verge ditch-profile.dxf"
 test -s results.gpkg && test -s summary.png && test -s summary-map.png && test -s from-csv.gpkg
 grep -q "^R-101,.*,492.126,.*,stable," from-gpkg.csv || { echo "bundle: the GeoPackage inventory's results differ"; exit 1; }
 echo "bundle: window, sheet, drawings and inventory checks (CSV and GeoPackage) ran ($(du -sh dist/ditchwright | cut -f1))"
