@@ -110,8 +110,9 @@ INVENTORY_WORDS = {
     "id": "Id", "shape": "Shape", "bottom_width": "Bottom width", "left_slope": "Left side slope",
     "right_slope": "Right side slope", "diameter": "Diameter", "slope": "Slope", "flow": "Flow", "lining": "Lining",
     "d50": "D50", "n": "Manning's n", "normal_depth": "Normal depth", "critical_depth": "Critical depth",
-    "velocity": "Velocity", "froude": "Froude number", "bed_shear": "Bed shear",
-    "permissible_shear": "Permissible shear", "safety_factor": "Safety factor", "verdict": "Verdict",
+    "velocity": "Velocity", "froude": "Froude number", "bed_shear": "Design shear, bed",
+    # the batch's permissible shear is the bed's (hydraulics.many_reaches); its safety factor is the governing check's
+    "permissible_shear": "Permissible shear, bed", "safety_factor": "Safety factor", "verdict": "Verdict",
     "reason": "Reason",
 }
 

@@ -142,6 +142,11 @@ def test_rows_counts_line_numbers_and_bad_rows(window, qtbot, inventory, dialogs
     # units in the headings; the summary tab
     assert d.model.headerData(column(d, "normal_depth"), Qt.Orientation.Horizontal) == "Normal depth\n(ft)"
     assert d.model.headerData(column(d, "safety_factor"), Qt.Orientation.Horizontal) == "Safety factor"
+    # the shear columns are the bed's (hydraulics.many_reaches), the safety factor the governing check's: the
+    # headings say so, as the window's results panel names the place of each shear
+    assert d.model.headerData(column(d, "permissible_shear"), Qt.Orientation.Horizontal) == \
+        "Permissible shear, bed\n(lb/ft²)"
+    assert d.model.headerData(column(d, "bed_shear"), Qt.Orientation.Horizontal) == "Design shear, bed\n(lb/ft²)"
     assert "5 reaches" in d.summary.toPlainText()
     assert dialogs.shown == []
 
