@@ -100,6 +100,23 @@ def test_section_layers_hold_what_they_are_named_for(written):
     assert {e.dxf.layer for e in msp.query("DIMENSION")} == {"DIMENSIONS"}
 
 
+def test_the_section_note_gives_the_flow_and_n_as_the_results_panel_does(written, project):
+    """The note's design flow and Manning's n read as in the window's results panel (and on the sheet, one rule:
+    app.results.PANEL_FIELDS), e.g. n 0.0359 where three figures would give 0.036."""
+    from app.channel_display import evaluate as evaluate_shown, panel_values
+    from app.inputs import pretty
+    from app.results import format_value, panel_field, rounded
+    key, paths = written
+    units = _units(key)
+    for channel in project.channels:
+        doc = ezdxf.readfile(next(p for p in paths if p.name == f"{channel.name}-section.dxf"))
+        text = " ".join(e.dxf.text for e in doc.modelspace().query("TEXT"))
+        values = panel_values(evaluate_shown(channel, Context(catalogue=SHIPPED, units=units)))
+        flow = pretty(format_value(values["flow"], panel_field("flow"), units))    # m³/s as the drawing writes it
+        n = rounded(values["manning_n"], panel_field("manning_n"))
+        assert f"Design flow {flow}," in text and f"Manning's n {n}" in text, (channel.name, text)
+
+
 def test_the_section_spans_the_top_width_at_the_top_of_the_ditch(written, project):
     key, paths = written
     k = 1 / FOOT if key == "us" else 1.0

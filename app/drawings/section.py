@@ -19,6 +19,7 @@ from ezdxf.enums import TextEntityAlignment
 from hydraulics.units import UnitSystem
 
 from ..lining_names import name_in_units
+from ..results import format_value, panel_field, rounded
 from ..section_geometry import SectionGeometry, design_geometry, offset_polyline
 from .dxf import (
     CHAR_WIDTH,
@@ -55,9 +56,10 @@ def section_notes(design, geo: SectionGeometry, units: UnitSystem, title: str) -
                      + (f", layer {geo.thickness:.2f} {L} thick, drawn to scale" if geo.thickness > 0 else ""))
     else:
         notes.append("Pipe: the inside of its wall" if geo.closed else "No lining chosen")
-    q = float(units.from_si("flow", design.flow))
-    notes.append(f"Design flow {q:.3g} {units.label('flow')}, slope {design.channel.slope:.4g} "
-                 f"{units.label('slope')}, Manning's n {float(design.analysis.manning_n):.3g}")
+    # the flow and n as the results panel and the sheet print them (the one rounding rule, app.results)
+    notes.append(f"Design flow {format_value(design.flow, panel_field('flow'), units)}, slope "
+                 f"{design.channel.slope:.4g} {units.label('slope')}, Manning's n "
+                 f"{rounded(float(design.analysis.manning_n), panel_field('manning_n'))}")
     asked = float(design.total_depth) * geo.to_units
     if asked > geo.top + 1e-9:
         notes.append(f"Too shallow: the design depth plus freeboard ({fmt(asked)}) is above the "
