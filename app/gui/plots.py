@@ -32,6 +32,7 @@ from hydraulics.linings.roughness import SWITCH_NOTE
 from hydraulics.units import UnitSystem
 
 from ..channel_display import EnergyData, Evaluation, RatingData
+from ..results import panel_field, rounded
 from ..section_geometry import SectionGeometry, section_geometry
 from .fields import pretty
 
@@ -429,8 +430,10 @@ class SectionPicture(Picture):
         geo = g.geometry
         L = units.label("length")
 
-        def fmt(v):
-            return f"{v:.2f} {L}"
+        def fmt(v, key=None):
+            """A length of the design as the results panel and the sheet's section print it (app.results), else
+            (a dimension typed by the user) to hundredths."""
+            return f"{rounded(v, panel_field(key)) if key else f'{v:.2f}'} {L}"
 
         def xy(pair):
             return np.column_stack([np.asarray(pair[0]), np.asarray(pair[1])])
@@ -447,8 +450,8 @@ class SectionPicture(Picture):
         if not self.compact:       # the depth chain's labels right of the drawing: room for the wider one
             renderer = self.figure.canvas.get_renderer()
             d = self.dims
-            d["depth"].label.set_text(f"  depth {fmt(yn)}")
-            d["freeboard"].label.set_text(f"  {freeboard_name} {fmt(gap)}")
+            d["depth"].label.set_text(f"  depth {fmt(yn, 'normal_depth')}")
+            d["freeboard"].label.set_text(f"  {freeboard_name} {fmt(gap, 'freeboard')}")
             widest = max(self._text_width(d[k].label, renderer) for k in ("depth", "freeboard"))
             right = widest + (14 + 6) * self.ratio + self.px(self.edge)
         s = self._fit(g.left, g.right, g.base, g.top, right)  # shown units per logical pixel
@@ -482,7 +485,8 @@ class SectionPicture(Picture):
         self.critical.set_data([critical[0], critical[1]], [yc, yc])
         self.top_line.set_data([g.left, g.right], [top, top])
         name = {"circle": "crown of the pipe", "irregular": "lower bank"}.get(g.kind, "top of ditch (total depth)")
-        keys = [f"water surface at normal depth, {fmt(yn)}", f"critical depth, {fmt(yc)}", f"{name}, {fmt(top)}"]
+        keys = [f"water surface at normal depth, {fmt(yn, 'normal_depth')}", f"critical depth, {fmt(yc, 'critical_depth')}",
+                f"{name}, {fmt(top, 'total_depth')}"]
         if g.lining is not None:
             keys.append(f"lining, {units.from_si('small_length', lining_thickness):.0f} "
                         f"{units.label('small_length')} thick")
@@ -499,10 +503,10 @@ class SectionPicture(Picture):
         # the depth chain on the right: water depth, then freeboard (or clearance to the crown)
         x_dim = g.right + 14 * s
         d = self.dims
-        d["depth"].show((x_dim, 0), (x_dim, yn), f"depth {fmt(yn)}",
+        d["depth"].show((x_dim, 0), (x_dim, yn), f"depth {fmt(yn, 'normal_depth')}",
                         ticks=([wr, x_dim + 4 * s], [yn, yn]))
         if gap > 1.5 * s:
-            d["freeboard"].show((x_dim, yn), (x_dim, top), f"{freeboard_name} {fmt(gap)}",
+            d["freeboard"].show((x_dim, yn), (x_dim, top), f"{freeboard_name} {fmt(gap, 'freeboard')}",
                                 ticks=([g.right, x_dim + 4 * s], [top, top]))
             if gap < 16 * s:  # a short freeboard: lift its label clear of the depth label
                 d["freeboard"].label.set_y(top + 7 * s)
@@ -510,7 +514,7 @@ class SectionPicture(Picture):
             d["freeboard"].set_visible(False)
         # water-surface width above the drawing
         t_y = top + 16 * s
-        d["top"].show((wl, t_y), (wr, t_y), f"water surface {fmt(wr - wl)}", where="above",
+        d["top"].show((wl, t_y), (wr, t_y), f"water surface {fmt(wr - wl, 'top_width')}", where="above",
                       ticks=([wl, wl, np.nan, wr, wr], [yn, t_y + 3 * s, np.nan, yn,
                                                                         t_y + 3 * s]))
         d["top"].label.set_y(t_y + 3 * s)
@@ -590,8 +594,8 @@ class RatingPicture(Picture):
         self.crit.set_data(q, u("length", data.critical))
         qd, yd = u("flow", ev.flow), u("length", ev.result.normal_depth)
         self.point.set_data([qd], [yd])
-        self.point_label.set_text(f"  design: {qd:.3g} {pretty(units.label('flow'))} at {yd:.2f} "
-                                  f"{units.label('length')}")
+        self.point_label.set_text(f"  design: {rounded(qd, panel_field('flow'))} {pretty(units.label('flow'))} at "
+                                  f"{rounded(yd, panel_field('normal_depth'))} {units.label('length')}")
         self.point_label.set_position((qd, yd))
         top = u("length", ev.total_depth)
         self.top.set_ydata([top, top])

@@ -755,6 +755,26 @@ source = "Invented for this test"
     assert "Asphalt, rough" in labels and "Asphalt, rough [my_asphalt]" in labels
 
 
+def test_the_pictures_write_the_depths_as_the_results_panel_does(demo_window, qtbot):
+    """One rounding rule (app.results.PANEL_FIELDS) for the section picture's depth chain and key and the rating
+    curve's design point, as for the results panel and the sheet's section drawing (e.g. 0.280 m, not 0.28 m)."""
+    w = demo_window
+    for row in range(len(w.doc.project.channels)):
+        w.channel_list.setCurrentRow(row)
+        evaluated(w, qtbot)
+        panel = {k: w.results.values[k].text().replace("\u00a0", " ") for k in ("normal_depth", "critical_depth",
+                                                                              "flow")}
+        pic = w.section_picture
+        assert pic.dims["depth"].label.get_text().strip() == f"depth {panel['normal_depth']}"
+        keys = " ".join(t.get_text() for t in pic.key_texts)
+        assert f"normal depth, {panel['normal_depth']}" in keys and f"critical depth, {panel['critical_depth']}" in keys
+        w.tabs.setCurrentIndex(1)                                  # the rating curve
+        qtbot.waitUntil(lambda: "design:" in w.rating_picture.point_label.get_text())
+        assert (f"design: {panel['flow']} at {panel['normal_depth']}"
+                in w.rating_picture.point_label.get_text().replace("\u00a0", " "))
+        w.tabs.setCurrentIndex(0)
+
+
 def test_results_show_the_lining_facts_the_sheet_gives(demo_window, qtbot):
     """Issue 16 item 14: the window shows what the sheet's stability block gives: protection below the bend,
     lined width and layer volume (besides the required D50, thickness and side and bend shear)."""
