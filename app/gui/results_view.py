@@ -7,16 +7,16 @@ shown stays; a note says so when that takes long.
 An edit usually changes only the numbers. Qt relays out the whole scrolling
 column (wrapped texts measured again, scroll bars repainted) for any label whose
 size may change, unless the label's size is fixed. So each value is a label of
-fixed size, resized only when its new text does not fit or leaves much room;
-and a wrapped text (the verdict's reason, the cautions) whose new words take
-the same height keeps its size fixed until the column's width changes.
+fixed size, resized to its text only when the new text does not fit or leaves
+much room. Wrapped texts are not held at a size: a held text kept the column
+wider than the view when the vertical scroll bar came.
 """
 
 from __future__ import annotations
 
 from functools import lru_cache
 
-from PySide6.QtCore import QEvent, QObject, Qt
+from PySide6.QtCore import Qt
 from PySide6.QtWidgets import QFrame, QGridLayout, QLabel, QScrollArea, QVBoxLayout, QWidget
 
 from hydraulics.provenance import NOT_VERIFIED_MARK, NOT_VERIFIED_TITLE
@@ -116,9 +116,6 @@ class ResultsPanel(QWidget):
         lay.addWidget(self.unverified)
         lay.addStretch(1)
         self.scroll.setWidget(body)
-        self._wrapped = (self.reason, self.warnings, self.unverified)
-        # the scroll area's view, not the column: a held text keeps the column at least as wide as it is
-        self._width_watch = _WidthWatch(self.scroll.viewport(), lambda: [free_size(w) for w in self._wrapped])
 
         self.caution = QLabel(CAUTION)
         self.caution.setObjectName("caution")
@@ -191,7 +188,6 @@ class ResultsPanel(QWidget):
 
     def _set_verdict(self, status: str, headline: str, reason: str) -> None:
         if self.verdict.property("status") != status:    # the style sheet's colours follow; a polish relays out
-            free_size(self.reason)                          # measured again in the new style
             self.verdict.setProperty("status", status)
             for w in (self.verdict, self.headline, self.reason):
                 w.style().unpolish(w)
@@ -210,51 +206,15 @@ def set_value_text(label: QLabel, text: str) -> None:
     need = metrics.horizontalAdvance(text) + 2 * label.margin() + margins.left() + margins.right() + 2
     room = metrics.horizontalAdvance("00")
     if not need <= label.width() <= need + 2 * room:
-        label.setFixedWidth(need + room)
+        label.setFixedWidth(need)          # the text's own width: the column is never held wider than it needs
     label.setText(text)
     label.sizeHint()     # lays the selectable text out now: laid out while painted, it would ask for a second paint
 
 
 def set_wrapped_text(label: QLabel, text: str) -> None:
-    """Show ``text`` in the word-wrapped ``label``; when it takes the height the label has, the label's size is
-    held fixed so that the column is not laid out again (:class:`_WidthWatch` lets go when the width changes)."""
-    if text == label.text():
-        return
-    size = label.size()
-    if not label.isVisible() or size.width() <= 0:
-        free_size(label)
+    """Show ``text`` in the word-wrapped ``label`` (unchanged text asks for no relayout)."""
+    if text != label.text():
         label.setText(text)
-        return
-    label.setFixedSize(size)               # held while the text changes: no relayout asked for
-    label.setText(text)
-    if label.heightForWidth(size.width()) != size.height():
-        free_size(label)                   # it needs another height: the column is laid out again
-
-
-def free_size(label: QLabel) -> None:
-    """Let the layout size ``label`` again."""
-    if label.minimumSize() != label.maximumSize():
-        return
-    label.setMinimumSize(0, 0)
-    label.setMaximumSize(QWIDGETSIZE_MAX, QWIDGETSIZE_MAX)
-
-
-#: Qt's largest widget size (QWIDGETSIZE_MAX).
-QWIDGETSIZE_MAX = (1 << 24) - 1
-
-
-class _WidthWatch(QObject):
-    """Calls ``changed()`` when the width of ``widget`` changes (the wrapped texts must then be measured again)."""
-
-    def __init__(self, widget: QWidget, changed):
-        super().__init__(widget)
-        self._changed = changed
-        widget.installEventFilter(self)
-
-    def eventFilter(self, watched, event):
-        if event.type() == QEvent.Type.Resize and event.size().width() != event.oldSize().width():
-            self._changed()
-        return False
 
 
 # the same texts come again edit after edit (a value that did not change at its rounding, a caution): each is
