@@ -112,8 +112,8 @@ INVENTORY_WORDS = {
     "d50": "D50", "n": "Manning's n", "normal_depth": "Normal depth", "critical_depth": "Critical depth",
     "velocity": "Velocity", "froude": "Froude number", "bed_shear": "Design shear, bed",
     # the batch's permissible shear is the bed's (hydraulics.many_reaches); its safety factor is the governing check's
-    "permissible_shear": "Permissible shear, bed", "safety_factor": "Safety factor", "verdict": "Verdict",
-    "reason": "Reason",
+    "permissible_shear": "Permissible shear, bed", "safety_factor": "Safety factor",
+    "cost_per_length": "Cost", "verdict": "Verdict", "reason": "Reason",
 }
 
 

@@ -110,9 +110,10 @@ def ditch_tops(section, depth, velocity, top_width, froude, bend_radius=None,
     at_top = total
     full = section.full_depth
     too_shallow = np.zeros(y.shape, dtype=bool)
-    if full is not None:
-        too_shallow = total > float(full)
-        at_top = np.where(too_shallow, float(full), total)
+    if full is not None:   # one depth, or one per section of an array of pipes
+        full = np.broadcast_to(np.asarray(full, dtype=float), y.shape)
+        too_shallow = total > full
+        at_top = np.where(too_shallow, full, total)
     return DitchTops(freeboard=fb, superelevation=superelevation, wave_allowance=np.where(waved, y, np.nan),
                      total_depth=total, depth_at_top=at_top,
                      top_width=np.broadcast_to(np.asarray(section.top_width(at_top), dtype=float), y.shape).copy(),

@@ -9,7 +9,10 @@ from __future__ import annotations
 
 from .linings.catalogue import Lining
 
-__all__ = ["LINED_WIDTH_RULE", "lining_quantities"]
+__all__ = ["LINED_WIDTH_RULE", "lining_quantities", "cost_per_length"]
+
+#: Why a lining with a unit cost per volume gets no cost per length.
+_NO_VOLUME = "the unit cost is per volume but the lining has no layer thickness: no cost per length"
 
 LINED_WIDTH_RULE = ("lining carried up the whole perimeter to the top of the ditch (design depth plus freeboard); "
                     "common practice")
@@ -29,12 +32,18 @@ def lining_quantities(lining: Lining, section, depth_at_top: float, d50: float |
     lined = float(section.wetted_perimeter(depth_at_top))    # the boundary from the invert up to the top
     notes = [LINED_WIDTH_RULE]
     volume = None if thickness is None else lined * thickness
-    cost = None
-    if lining.unit_cost is not None:
-        if lining.unit_cost_basis == "area":
-            cost = float(lining.unit_cost) * lined
-        elif volume is not None:
-            cost = float(lining.unit_cost) * volume
-        else:
-            notes.append("the unit cost is per volume but the lining has no layer thickness: no cost per length")
+    cost = cost_per_length(lining, lined, volume)
+    if cost is None and lining.unit_cost is not None:
+        notes.append(_NO_VOLUME)
     return lined, thickness, volume, cost, notes
+
+
+def cost_per_length(lining: Lining, lined_width, volume):
+    """The user's unit cost per length of channel [$/m]: per m^2 times the lined width [m], or per m^3 times the
+    layer volume [m^3/m]; None where the entry has no unit cost, or a cost per volume and no layer (``volume``
+    None). Takes floats or arrays alike (the batch prices many reaches in one call)."""
+    if lining.unit_cost is None:
+        return None
+    if lining.unit_cost_basis == "area":
+        return float(lining.unit_cost) * lined_width
+    return None if volume is None else float(lining.unit_cost) * volume

@@ -27,8 +27,11 @@ Nothing here raises for one bad reach. Each reach gets a ``verdict`` and a
 * ``non-erodible``: a rigid lining, not checked for shear (common practice).
 
 Warnings (near-critical flow, flow that is not fully turbulent, a pipe above
-its full-flow capacity) are added to the reason; they do not change the
-verdict. Arrays are SI throughout; ``display`` only sets the units that the
+its full-flow capacity, and on a lined reach the cautions ``check_lining``
+gives: silt settling, side slopes steeper than 1V:3H) are added to the reason
+in the words and order of the single-channel check; they do not change the
+verdict. A lining with a unit cost prices each of its reaches
+(``cost_per_length``) as the single-channel check does. Arrays are SI throughout; ``display`` only sets the units that the
 reasons quote values in.
 """
 
@@ -46,10 +49,13 @@ from . import units as hu
 from .analysis import (MIN_TURBULENT_REYNOLDS, NEAR_CRITICAL_BAND, NEAR_CRITICAL_CAUTION, SUPERCRITICAL_CAUTION,
                        analyse)
 from .errors import HydraulicsError, InputError
+from .freeboard import ditch_tops
+from .lining_quantities import cost_per_length
 from .linings import load_catalogue
 from .linings.hec15 import ValidityWarning
 from .sections import SHAPE_DIMENSIONS, Circle, Trapezoid
 from .shear_checks import shear_checks
+from .stability import ROADSIDE_SIDE_SLOPE, SELF_CLEANING_VELOCITY, side_slope_cautions, silting_caution
 from .solvers import flow_at_depth, max_flow
 from . import validate
 from .validate import MAX_SLOPE
@@ -68,6 +74,7 @@ NUMERIC_FIELDS = {
 RESULT_FIELDS = {
     "normal_depth": "length", "critical_depth": "length", "velocity": "velocity", "froude": "ratio",
     "bed_shear": "shear", "permissible_shear": "shear", "safety_factor": "ratio",
+    "cost_per_length": "cost_per_length",
 }
 #: Warnings a reach can carry (in its reason and in BatchResult.flags), with a short label.
 WARNINGS = {
@@ -75,6 +82,8 @@ WARNINGS = {
     "supercritical": "supercritical flow",
     "not_turbulent": "flow not fully turbulent",
     "above_full_flow": "pipe above its full-flow capacity",
+    "silting": "velocity low enough for silt to settle",
+    "steep_sides": "side slope steeper than 1V:3H",
 }
 #: Reaches solved per vectorised call; bounds memory and paces the progress callback.
 CHUNK = 100_000
@@ -171,6 +180,8 @@ class BatchResult:
     bed_shear: np.ndarray
     permissible_shear: np.ndarray
     safety_factor: np.ndarray
+    #: The user's unit cost times the lined width (or layer volume) to the ditch top [$/m]; nan without a cost.
+    cost_per_length: np.ndarray
     verdict: np.ndarray     # object array of str, one of VERDICTS
     reason: np.ndarray      # object array of str
     #: Manning's n at normal depth [s/m^(1/3)] (the lining's, where it depends on depth).
@@ -562,6 +573,59 @@ def check_linings(reaches: Reaches, idx, out: BatchResult, display: hu.UnitSyste
                     out.messages.append(note)
             at = solved if d is None else solved & (rest_d50 == d)
             assess_stability(lining, reaches, rest[at], out, display, n_given=False)
+    checked = idx[np.isin(out.verdict[idx], CHECKED)]
+    lining_cautions(reaches, checked, out, display)
+    price(reaches, checked, out, catalogue)
+
+
+#: Verdicts of reaches whose lining was checked (``check_lining``'s cautions and quantities apply to them).
+CHECKED = ("stable", "unstable", "non-erodible")
+
+
+def lining_cautions(reaches: Reaches, rows, out: BatchResult, display: hu.UnitSystem = hu.SI) -> None:
+    """The cautions :func:`hydraulics.stability.check_lining` gives every lined channel, in the reasons of the
+    lined reaches ``rows`` (after their other warnings, as there): a velocity low enough for silt to settle
+    (``silting_caution``) and roadside side slopes steeper than 1V:3H (``side_slope_cautions``; trapezoids and
+    triangles only). Each distinct text is worded once."""
+    rows = np.asarray(rows, dtype=np.intp)
+    slow = rows[out.velocity[rows] < SELF_CLEANING_VELOCITY]
+    out.flags["silting"][slow] = True
+    _note(out, slow, _objects([in_units(silting_caution(v), display) for v in out.velocity[slow].tolist()]))
+    sided = rows[np.isin(reaches.kind[rows], (SHAPE_CODE["trapezoid"], SHAPE_CODE["triangle"]))]
+    sides = np.column_stack([reaches.left_slope[sided], reaches.right_slope[sided]])
+    steep = (sides < ROADSIDE_SIDE_SLOPE).any(axis=1)
+    sided, sides = sided[steep], sides[steep]
+    if not len(sided):
+        return
+    out.flags["steep_sides"][sided] = True
+    pairs, which = np.unique(sides, axis=0, return_inverse=True)
+    texts = _objects(["; ".join(side_slope_cautions(z1, z2)) for z1, z2 in pairs.tolist()])
+    _note(out, sided, texts[which.ravel()])
+
+
+def price(reaches: Reaches, rows, out: BatchResult, catalogue) -> None:
+    """``cost_per_length`` of the lined reaches ``rows`` whose lining has a unit cost: the quantities of
+    :func:`hydraulics.lining_quantities.lining_quantities` (the lining to the ditch top, normal depth plus the
+    freeboard of :func:`hydraulics.freeboard.ditch_tops`, straight reaches, the default minimum freeboard)."""
+    rows = np.asarray(rows, dtype=np.intp)
+    keys = reaches.lining[rows]
+    for key in sorted(set(keys.tolist())):
+        lining = catalogue.get(key)
+        if lining.unit_cost is None:
+            continue
+        group = rows[keys == key]
+        pipe = reaches.kind[group] == _CIRCLE
+        for make, at in ((_open_section, group[~pipe]), (_pipe_section, group[pipe])):
+            if not len(at):
+                continue
+            section, y = make(reaches, at), out.normal_depth[at]
+            top = ditch_tops(section, y, out.velocity[at], section.top_width(y), out.froude[at]).depth_at_top
+            lined = np.broadcast_to(section.wetted_perimeter(top), at.shape)
+            thickness = (lining.layer_thickness(reaches.d50[at]) if lining.thickness_data["rule"] == "stone"
+                         else lining.layer_thickness())
+            cost = cost_per_length(lining, lined, None if thickness is None else lined * thickness)
+            if cost is not None:
+                out.cost_per_length[at] = cost
 
 
 def _roughness_ranges(lining, rough, reaches, rows, solved, out, display) -> dict:

@@ -67,7 +67,7 @@ from .units import SI, UnitSystem
 from .wording import format_quantity, in_units, worded
 
 __all__ = ["SELF_CLEANING_VELOCITY", "SELF_CLEANING_SOURCE", "ROADSIDE_SIDE_SLOPE", "ShearCheck", "StabilityResult",
-           "check_lining"]
+           "check_lining", "side_slope_cautions", "silting_caution"]
 
 #: Mean velocity below which fine sediment tends to settle in a lined channel [m/s]:
 #: 0.6 m/s (2 ft/s), the low end of the "2 to 3 ft/s" Chow gives as a minimum
@@ -286,15 +286,29 @@ ROADSIDE_SIDE_SLOPE = 3.0
 
 
 def _side_slope_cautions(section) -> list:
-    """A caution where a triangular or trapezoidal channel's side is steeper than 1V:3H (HEC-22 (2009) Section
-    5.2.2); a rectangle's walls are a structure, not a slope, and get none."""
+    """The cautions of :func:`side_slope_cautions` for ``section``; a rectangle's walls are a structure, not a
+    slope, and get none."""
     if section.kind not in ("trapezoid", "triangle"):
         return []
-    steep = [(label, z) for label, z in _sides(section) if z < ROADSIDE_SIDE_SLOPE]
+    zs = section.side_slopes
+    return side_slope_cautions(float(zs[0]), float(zs[1]))
+
+
+def side_slope_cautions(left_slope: float, right_slope: float) -> list:
+    """A caution for each side of a triangular or trapezoidal roadside channel steeper than 1V:3H (HEC-22 (2009)
+    Section 5.2.2); the two sides as one where they are alike. Slopes are H per 1 V."""
+    steep = [(label, z) for label, z in _side_labels(left_slope, right_slope) if z < ROADSIDE_SIDE_SLOPE]
     return [f"the {label} ({z:g}H:1V) {'are' if label == 'side slopes' else 'is'} steeper than 1V:3H: "
             f"{cite('side_slope_guidance')} asks for roadside channel sides of 1V:3H or flatter, 1V:4H or flatter "
             "where traffic safety may be of concern, and never steeper than the angle of repose of the soil or "
             "lining; local standards govern" for label, z in steep]
+
+
+def silting_caution(velocity: float, min_velocity: float = SELF_CLEANING_VELOCITY):
+    """The caution where the mean ``velocity`` [m/s] is below ``min_velocity`` [m/s]: silt may settle (see
+    ``SELF_CLEANING_SOURCE``); worded once, restated in any units by :func:`hydraulics.wording.in_units`."""
+    return worded("velocity {v} is below {v_min}, so silt may settle in the channel ({source})",
+                  v=(velocity, "velocity"), v_min=(min_velocity, "velocity"), source=SELF_CLEANING_SOURCE)
 
 
 def _sides(section):
@@ -302,7 +316,11 @@ def _sides(section):
     zs = section.side_slopes
     if zs is None:
         return []
-    z1, z2 = float(zs[0]), float(zs[1])
+    return _side_labels(float(zs[0]), float(zs[1]))
+
+
+def _side_labels(z1: float, z2: float) -> list:
+    """[(label, Z)]: both sides as "side slopes" where they are alike, else each by its name."""
     if z1 == z2:
         return [("side slopes", z1)]
     return [("left side slope", z1), ("right side slope", z2)]
@@ -491,8 +509,7 @@ def _check(section, q, s, lining, d50, rc, fb_min, n_override, sf_min, v_min, si
     y, v, fr, top = float(res.normal_depth), float(res.velocity), float(res.froude), float(res.top_width)
     n_used = float(res.manning_n)
     if v < v_min:
-        warn.append(worded("velocity {v} is below {v_min}, so silt may settle in the channel ({source})",
-                           v=(v, "velocity"), v_min=(v_min, "velocity"), source=SELF_CLEANING_SOURCE))
+        warn.append(silting_caution(v, v_min))
     warn += _side_slope_cautions(section)
 
     # -- design shear, permissible shear and the checks (HEC-15 Chapter 3) -----

@@ -98,3 +98,47 @@ def test_lined_inventory_summary_and_plot(tmp_path, capsys):
     lined = [g for g in got if g["verdict"] in ("stable", "unstable")]
     assert lined and all(g["permissible_shear"] != "" and g["safety_factor"] != "" for g in lined)
     assert png.read_bytes()[:4] == b"\x89PNG"
+
+
+#: Unit costs of an invented user catalogue: per area, per volume (a stone layer), and none (gravel).
+PRICES = ('schema_version = 1\n'
+          '[[lining]]\nkey = "concrete"\nunit_cost = 70.0\nunit_cost_basis = "area"\n'
+          '[[lining]]\nkey = "grass_good_sod"\nunit_cost = 9.5\nunit_cost_basis = "area"\n'
+          '[[lining]]\nkey = "riprap"\nunit_cost = 85.0\nunit_cost_basis = "volume"\n')
+
+
+@pytest.mark.parametrize("seed", [8])
+def test_every_lined_reach_has_check_linings_cost_and_cautions(seed, tmp_path):
+    """The cost per length and the lining's cautions (silt settling below the self-cleaning velocity, roadside
+    side slopes steeper than 1V:3H) of each lined reach are those check_lining gives the same channel: the cost to
+    rel 1e-9, the cautions word for word and in its order, after the verdict's words in the reason."""
+    from hydraulics.linings import load_catalogue
+    user = tmp_path / "prices.toml"
+    user.write_text(PRICES, encoding="utf-8")
+    cat = load_catalogue(user_path=user)
+    rows = random_lined_rows(240, seed)
+    buf = io.StringIO()
+    w = csv.DictWriter(buf, fieldnames=list(ai.INPUT_COLUMNS), lineterminator="\n")
+    w.writeheader()
+    w.writerows(rows)
+    res = ai.evaluate(ai.parse_inventory(buf.getvalue(), "si"), catalogue=cat)
+    priced = flagged = 0
+    for i, r in enumerate(rows):
+        v = lambda k: float(r[k]) if r[k] else None  # noqa: E731
+        try:
+            ref = check_lining(section_of(r), float(r["flow"]), float(r["slope"]), cat.get(r["lining"]),
+                               d50=v("d50"), n=v("n"))
+        except hy.NoSolutionError:
+            continue
+        if ref.cost_per_length is None:
+            assert math.isnan(res.cost_per_length[i]), r
+        else:
+            assert res.cost_per_length[i] == pytest.approx(ref.cost_per_length, rel=1e-9), r
+            priced += 1
+        cautions = [str(x) for x in ref.warnings if "so silt may settle" in str(x) or "steeper than 1V:3H" in str(x)]
+        at = [res.reason[i].find(c) for c in cautions]
+        assert -1 not in at and at == sorted(at), (r, res.reason[i], cautions)
+        assert res.flags["silting"][i] == any("so silt may settle" in c for c in cautions)
+        assert res.flags["steep_sides"][i] == any("steeper than 1V:3H" in c for c in cautions)
+        flagged += bool(cautions)
+    assert priced > 40 and flagged > 40   # the grid meets both (no check passes on an empty set)

@@ -27,7 +27,7 @@ lining, d50, n``. Lengths (bottom_width, diameter, d50) are in ft or m, flow
 in ft^3/s or m^3/s, side slopes H:V, slope a ratio. Any other column is
 carried through unchanged. The results file is the input with the columns
 ``normal_depth, critical_depth, velocity, froude, bed_shear,
-permissible_shear, safety_factor, verdict, reason`` added, in the same units,
+permissible_shear, safety_factor, cost_per_length, verdict, reason`` added, in the same units,
 one row per input row and in the same order.
 """
 

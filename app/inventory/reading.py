@@ -26,7 +26,7 @@ from hydraulics import units as hu
 INPUT_COLUMNS = ("id", "shape", "bottom_width", "left_slope", "right_slope", "diameter", "slope", "flow", "lining",
                  "d50", "n")
 RESULT_COLUMNS = ("normal_depth", "critical_depth", "velocity", "froude", "bed_shear", "permissible_shear",
-                  "safety_factor", "verdict", "reason")
+                  "safety_factor", "cost_per_length", "verdict", "reason")
 _NUMBER_COLUMNS = tuple(mr.NUMERIC_FIELDS)
 
 

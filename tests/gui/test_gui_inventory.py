@@ -503,3 +503,15 @@ def test_a_geopackage_in_degrees_without_lengths_is_refused_in_the_dialog(window
     d = checked(qtbot, window, path)
     assert d.status.objectName() == "fieldMessage" and "degrees" in d.status.text() and d.run is None
     assert dialogs.shown == []
+
+
+@pytest.mark.parametrize("units", ["si", "us"])
+def test_every_result_column_is_headed_in_words_with_its_unit(units):
+    """The table's heading of each result column is words (never the file's column name), with the unit of a
+    quantity that has one: the cost per length in $/m or $/ft."""
+    from app import inventory as ai
+    from app.gui.inventory import column_title
+    from hydraulics.units import system
+    titles = {c: column_title(c, system(units)) for c in ai.RESULT_COLUMNS}
+    assert all("_" not in t for t in titles.values()), titles
+    assert titles["cost_per_length"] == "Cost\n($/%s)" % ("m" if units == "si" else "ft")

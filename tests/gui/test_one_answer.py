@@ -5,8 +5,8 @@ holds an invented unit cost. The window and the sheet print the results by the o
 (app.results.PANEL_FIELDS), so each of their values is the same text; the command line and the batch write more
 digits, so each printed number must lie within half a unit of its last printed digit of the value the others
 print; the verdict is the same member of the one vocabulary (app/verdicts.py) in each; the cost per length is the
-same; the warnings are the same words (`compare --json` gives the lining's row as `calc --json` does). The
-numbers themselves are checked against published cases elsewhere (tests/test_published_cases.py, tests/test_sheet.py).
+same; the warnings are the same words (`compare --json` gives the lining's row as `calc --json` does; the batch's
+reason holds them, in the same order, after the verdict's words). The numbers themselves are checked against published cases elsewhere (tests/test_published_cases.py, tests/test_sheet.py).
 
 The lining check is held together the same way, `compare --json` included, on a riprap channel with a bend, a
 gravel one and a grass variant (invented): Manning's n used, the design shears, the governing permissible shear,
@@ -170,7 +170,11 @@ def test_every_front_end_shows_one_answer(name, units, user_catalogue, tmp_path,
     row = _batch_row(channel, argv, units, user_catalogue, tmp_path, capsys)
     _close(row["normal_depth"], y)
     _close(row["velocity"], v)
+    _close(row["cost_per_length"], cost)
     assert Verdict.from_token(row["verdict"]) is verdict
+    # the batch's reason: the verdict's words, then the same warnings in the same order
+    at = [row["reason"].find(x) for x in data["warnings"]]
+    assert data["warnings"] and -1 not in at and at == sorted(at), (row["reason"], data["warnings"])
 
     # the warnings: worded once (hydraulics.wording), restated in the project's units by each front end; the
     # window and the sheet make sentences of them (capital first letter, full stop), the command line does not
