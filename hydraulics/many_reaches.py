@@ -483,6 +483,31 @@ def _each_2f(values, template: str) -> np.ndarray:
     return out
 
 
+def _each_worded(values, quantity: str, display: hu.UnitSystem, make) -> np.ndarray:
+    """``in_units(make(v), display)`` for each SI value (object array), made once per printed value.
+
+    ``make`` words one value of ``quantity`` to three significant figures
+    (:func:`hydraulics.wording.worded`), so values that round alike in
+    ``display`` give one text: they are grouped by their rounded digits
+    (decimals and integer code), and worded one per group; a value within 1e-9
+    of a rounding tie is worded on its own.
+    """
+    v = np.asarray(values, dtype=float)
+    shown = np.abs(np.asarray(display.from_si(quantity, v), dtype=float))
+    with np.errstate(divide="ignore", invalid="ignore"):
+        decimals = np.where(shown > 0, 2 - np.floor(np.log10(shown)), 0.0)
+        scaled = shown * 10.0 ** decimals
+    code = np.rint(scaled)
+    clear = np.isfinite(scaled) & (np.abs(scaled - code) < 0.5 - 1e-9)
+    out = np.empty(len(v), dtype=object)
+    keys = decimals[clear] * 2048.0 + code[clear]    # one number a group: the code is at most 1000
+    _, first, which = np.unique(keys, return_index=True, return_inverse=True)
+    one = v[clear][first].tolist()
+    out[clear] = _objects([in_units(make(x), display) for x in one] or [""])[which.ravel()]
+    out[~clear] = [in_units(make(x), display) for x in v[~clear].tolist()]
+    return out
+
+
 def _note(out, rows, texts, first=False):
     """Add ``texts`` (one str, or one per row) to the reasons of ``rows``: after what is there, or ``first``."""
     rows = np.asarray(rows, dtype=np.intp)
@@ -590,7 +615,7 @@ def lining_cautions(reaches: Reaches, rows, out: BatchResult, display: hu.UnitSy
     rows = np.asarray(rows, dtype=np.intp)
     slow = rows[out.velocity[rows] < SELF_CLEANING_VELOCITY]
     out.flags["silting"][slow] = True
-    _note(out, slow, _objects([in_units(silting_caution(v), display) for v in out.velocity[slow].tolist()]))
+    _note(out, slow, _each_worded(out.velocity[slow], "velocity", display, silting_caution))
     sided = rows[np.isin(reaches.kind[rows], (SHAPE_CODE["trapezoid"], SHAPE_CODE["triangle"]))]
     sides = np.column_stack([reaches.left_slope[sided], reaches.right_slope[sided]])
     steep = (sides < ROADSIDE_SIDE_SLOPE).any(axis=1)

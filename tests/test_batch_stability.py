@@ -142,3 +142,18 @@ def test_every_lined_reach_has_check_linings_cost_and_cautions(seed, tmp_path):
         assert res.flags["steep_sides"][i] == any("steeper than 1V:3H" in c for c in cautions)
         flagged += bool(cautions)
     assert priced > 40 and flagged > 40   # the grid meets both (no check passes on an empty set)
+
+
+@pytest.mark.parametrize("units", ["si", "us"])
+def test_a_caution_worded_once_per_printed_value_reads_as_worded_one_by_one(units):
+    """The batch words the silting caution once per printed velocity (mr._each_worded); each reach's text must be
+    the one the single-channel check words for its own velocity, at decade edges and rounding ties included."""
+    from hydraulics.stability import silting_caution
+    from hydraulics.units import system
+    from hydraulics.wording import in_units
+    u = system(units)
+    rng = np.random.default_rng(11)
+    edges = [0.0995, 0.09996, 0.1, 0.3048, 0.30479999, 0.12345, 0.1235, 1e-5, 0.0]
+    v = np.concatenate([rng.uniform(0.001, 0.61, 5000), edges, u.to_si("velocity", np.array([0.1235, 0.9995]))])
+    got = mr._each_worded(v, "velocity", u, silting_caution)
+    assert got.tolist() == [in_units(silting_caution(x), u) for x in v.tolist()]
