@@ -132,6 +132,10 @@ def run_summary(design: RunDesign, units: UnitSystem) -> RunSummary:
         headline = "Every station stable"
         reason = (f"{_plural(len(stations), 'design point')}, {_plural(len(stretches), 'lining stretch', 'es')}, "
                   f"total {total}.")
+        dry = sum(v is Verdict.NOT_CHECKED for v in stations)   # no flow yet: the only stations left unchecked
+        if dry:
+            reason += (f" {_plural(dry, 'station')} without flow yet (the top of the run) "
+                       f"{'is' if dry == 1 else 'are'} not checked.")
     return RunSummary(
         verdict=verdict, headline=headline, reason=reason, stations=stations, states=states, stretches=stretches,
         length_unit=units.label("length"), total_cost=total, controls=tuple(design.control_rows(units)),

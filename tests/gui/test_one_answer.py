@@ -395,5 +395,10 @@ def test_a_run_reads_alike_in_the_window_the_sheet_and_the_run_command(units, de
     # the verdict: every station of the JSON stable and fitting the ditch, so the run is stable
     assert all(s["stable"] is not False and s["fits"] is not False for s in data["stations"])
     assert view.results.headline.text() == "Every station stable"
+    # the stations left unchecked are those without flow yet, and the reason says so (the table shows "Not checked")
+    dry = [s for s in data["stations"] if s["stable"] is None]
+    assert dry and all(s["flow"] == 0 for s in dry)
+    assert (f"{len(dry)} station without flow yet (the top of the run) is not checked"
+            in _spaced(view.results.reason.text()))
     assert view.results.verdict.property("status") == Verdict.STABLE.status
     assert "NOT STABLE" not in sheet and "TOO SHALLOW" not in sheet
