@@ -52,6 +52,7 @@ from .errors import HydraulicsError, InputError
 from .freeboard import ditch_tops
 from .lining_quantities import cost_per_length
 from .linings import load_catalogue
+from .linings import hec15
 from .linings.hec15 import ValidityWarning
 from .sections import SHAPE_DIMENSIONS, Circle, Trapezoid
 from .shear_checks import shear_checks
@@ -591,13 +592,19 @@ def check_linings(reaches: Reaches, idx, out: BatchResult, display: hu.UnitSyste
             continue
         solved = solve_hydraulics(reaches, rest, rough, out, display)
         notes = _roughness_ranges(lining, rough, reaches, rest, solved, out, display)
-        # per size, smallest first, each size's notes before its stability notes (the order of the notes)
-        for d in (np.unique(rest_d50).tolist() if lining.category == "stone" else [None]):
-            for note in notes.get(d, ()):
-                if note not in out.messages:
-                    out.messages.append(note)
-            at = solved if d is None else solved & (rest_d50 == d)
-            assess_stability(lining, reaches, rest[at], out, display, n_given=False)
+        if lining.category != "stone":
+            _add_messages(out, notes.get(None, ()))
+            assess_stability(lining, reaches, rest[solved], out, display, n_given=False)
+            continue
+        # the shear checks of every size at once; the notes per size, smallest first, each size's roughness notes
+        # before its stability notes (as checking each size alone words and orders them)
+        each = _stability_of_sizes(lining, reaches, rest[solved], rest_d50[solved], out, display)
+        for d in np.unique(rest_d50).tolist():
+            _add_messages(out, notes.get(d, ()))
+            if each is not None:
+                _add_messages(out, each.get(d, ()))
+            else:
+                assess_stability(lining, reaches, rest[solved & (rest_d50 == d)], out, display, n_given=False)
     checked = idx[np.isin(out.verdict[idx], CHECKED)]
     lining_cautions(reaches, checked, out, display)
     price(reaches, checked, out, catalogue)
@@ -694,22 +701,67 @@ def assess_stability(lining, reaches: Reaches, rows, out: BatchResult, display: 
     if not len(rows):
         return
     how = "with the n given" if n_given else "with the lining's own n"
-    with warnings.catch_warnings(record=True) as caught:
-        warnings.simplefilter("always", ValidityWarning)
-        try:
-            sc = _shear_checks(lining, reaches, rows, out)
-        except InputError as exc:  # an entry whose values the user has to fill in
-            _prefix(out, rows, "not-checked", f"{exc}; hydraulics {how}, shear not compared with a permissible value")
-            return
+    try:
+        sc, caught = _checked(lining, reaches, rows, out)
+    except InputError as exc:  # an entry whose values the user has to fill in
+        _prefix(out, rows, "not-checked", f"{exc}; hydraulics {how}, shear not compared with a permissible value")
+        return
     if sc.non_erodible:
         _prefix(out, rows, "non-erodible", f"non-erodible: {lining.name} is a rigid lining, not checked for shear "
                                            "(common practice)")
         return
-    for w in caught:
-        text = w.message.args[0] if w.message.args else str(w.message)
-        note = f"lining {lining.key!r}: {in_units(text, display)}"
+    _add_messages(out, [_lining_note(lining, text, display) for text in caught])
+    _record(sc, rows, out, display, how)
+
+
+def _stability_of_sizes(lining, reaches: Reaches, rows, d50, out: BatchResult, display: hu.UnitSystem) -> dict | None:
+    """:func:`assess_stability` of the solved reaches ``rows`` of a stone lining with its own n, every stone size
+    (``d50``, theirs) in one vectorised check instead of one check per size.
+
+    The verdicts, values and reasons are those of each size checked alone (the checks go element by element).
+    The notes are worded per size: returns {D50: the notes a check of that size's reaches alone gives}. The one
+    range warning the checks of stone give, a D50 outside the HEC-15 Chapter 6 sizes
+    (:func:`hydraulics.linings.hec15.stone_size_note`), depends on the size alone; where the one check gives
+    any other warning, or raises, nothing is changed and None is returned: then each size is checked alone.
+    """
+    rows = np.asarray(rows, dtype=np.intp)
+    if not len(rows):
+        return {}
+    try:
+        sc, caught = _checked(lining, reaches, rows, out)
+    except InputError:
+        return None
+    sizes = np.unique(d50).tolist()
+    whole = hec15.stone_size_note(sizes)
+    if sc.non_erodible or caught != ([] if whole is None else [whole]):
+        return None
+    _record(sc, rows, out, display, "with the lining's own n")
+    each = {d: hec15.stone_size_note(d) for d in sizes}
+    return {d: [] if text is None else [_lining_note(lining, text, display)] for d, text in each.items()}
+
+
+def _checked(lining, reaches: Reaches, rows, out: BatchResult):
+    """(:func:`_shear_checks` of ``rows``, the texts of the warnings it gave, in order)."""
+    with warnings.catch_warnings(record=True) as caught:
+        warnings.simplefilter("always", ValidityWarning)
+        sc = _shear_checks(lining, reaches, rows, out)
+    return sc, [w.message.args[0] if w.message.args else str(w.message) for w in caught]
+
+
+def _lining_note(lining, text: str, display: hu.UnitSystem) -> str:
+    return f"lining {lining.key!r}: {in_units(text, display)}"
+
+
+def _add_messages(out: BatchResult, notes) -> None:
+    """Add each of ``notes`` to ``out.messages`` unless it is there already."""
+    for note in notes:
         if note not in out.messages:
             out.messages.append(note)
+
+
+def _record(sc, rows, out: BatchResult, display: hu.UnitSystem, how: str) -> None:
+    """The verdict, the bed's permissible shear, the lowest safety factor, the governing place and the reason of
+    each of ``rows`` from their shear checks ``sc`` (a flexible lining); the reason words the governing check."""
     gov = sc.governing()
     sf = sc.pick("safety_factor", gov)
     required = sc.required_safety_factor

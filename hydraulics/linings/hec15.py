@@ -39,7 +39,7 @@ __all__ = [
     "RE_LOW", "RE_HIGH", "BLODGETT_RANGE", "BATHURST_RANGE", "STONE_SIZE_RANGE", "STEEP_SLOPE",
     "MIN_FREEBOARD", "FINE_D75", "COARSE_D75", "design_shear", "blodgett_n", "bathurst_n", "bathurst_n_manning",
     "strickler_n",
-    "shear_velocity", "particle_reynolds", "shields_and_safety_factor", "stone_permissible_shear",
+    "shear_velocity", "particle_reynolds", "shields_and_safety_factor", "stone_permissible_shear", "stone_size_note",
     "StoneSize", "required_d50", "required_d50_for_shear", "side_slope_factor", "bend_factor", "bend_protection_length",
     "tractive_force_ratio", "required_d50_side", "steep_slope_safety_factor", "required_d50_steep",
     "stone_layer_thickness", "DENSITY_STIFFNESS", "COVER_FACTOR", "cover_factor",
@@ -621,15 +621,25 @@ def stone_permissible_shear(d50, shields=SHIELDS_LOW, gamma_stone=GAMMA_STONE, g
     return f * (gs - gw) * d
 
 
-def _stone_size_warning(d50):
+def stone_size_note(d50) -> str | None:
+    """The words of the ValidityWarning for stone sizes ``d50`` [m] (one or several) outside the 15 to 550 mm
+    range of the HEC-15 Chapter 6 procedures (:data:`STONE_SIZE_RANGE`), or None where every size is within it.
+    The sizes are quoted as one value or as the smallest to the largest."""
     lo, hi = STONE_SIZE_RANGE
     d = np.asarray(d50)
-    if np.any((d < lo) | (d > hi)):
-        smallest, largest = float(d.min()), float(d.max())
-        sizes = {"d": (smallest, "small_length")} if smallest == largest else \
-            {"d": (smallest, "small_length"), "d_max": (largest, "small_length")}
-        _warn(worded("D50 = {d}" + (" to {d_max}" if len(sizes) > 1 else "") + " is outside the {lo} to {hi} range "
-                     "of the HEC-15 Chapter 6 procedures", lo=(lo, "small_length"), hi=(hi, "small_length"), **sizes))
+    if not np.any((d < lo) | (d > hi)):
+        return None
+    smallest, largest = float(d.min()), float(d.max())
+    sizes = {"d": (smallest, "small_length")} if smallest == largest else \
+        {"d": (smallest, "small_length"), "d_max": (largest, "small_length")}
+    return worded("D50 = {d}" + (" to {d_max}" if len(sizes) > 1 else "") + " is outside the {lo} to {hi} range "
+                  "of the HEC-15 Chapter 6 procedures", lo=(lo, "small_length"), hi=(hi, "small_length"), **sizes)
+
+
+def _stone_size_warning(d50):
+    note = stone_size_note(d50)
+    if note is not None:
+        _warn(note)
 
 
 class StoneSize(NamedTuple):
