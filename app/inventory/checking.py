@@ -31,11 +31,6 @@ def evaluate(inventory: Inventory, progress=None, *, catalogue) -> mr.BatchResul
     return mr.evaluate(inventory.reaches, display=inventory.units, progress=progress, catalogue=catalogue)
 
 
-#: Reaches per chunk of the core's check inside a block of :func:`check_file` (a block is a whole number of
-#: chunks, so the notes about a group of reaches do not depend on the block size).
-WRITE_CHUNK = 25_000
-
-
 def check_file(source, target, units: str = "us", progress=None, *, catalogue, rows: int = BLOCK_ROWS,
                problems: int = 0, layer: str | None = None, units_checked: bool = False) -> Tally:
     """Read, check and write the inventory file ``source`` block by block (``rows`` reaches a block, see
@@ -70,17 +65,16 @@ def check_file(source, target, units: str = "us", progress=None, *, catalogue, r
         raise MixedUnits(tally.units_finding.text)
     if found is not None:
         tally.lines, tally.row_word = ReachLines(found, inventory.units), "feature"
-    # The core checks chunk by chunk, so that the notes about groups of reaches (a relation's range over a chunk)
-    # come out the same whatever the block size: blocks are a whole number of chunks.
-    whole = len(inventory) < 2 * WRITE_CHUNK and len(inventory) < rows
-    chunk = mr.CHUNK if whole else WRITE_CHUNK
+    # The core checks each block in chunks of mr.CHUNK reaches, as it checks a whole file: the notes about groups of
+    # reaches (a relation's range over a chunk) are those of the whole file where the blocks are whole chunks (the
+    # default BLOCK_ROWS is one).
     if layers.is_geopackage(target):
         stream = layers.layer_stream(target, found, found.name if found is not None else Path(source).stem)
     else:
         stream = writing.results_stream(target)
     with stream as write:
         while inventory is not None:
-            result = mr.evaluate(inventory.reaches, display=inventory.units, chunk=chunk, catalogue=catalogue)
+            result = mr.evaluate(inventory.reaches, display=inventory.units, catalogue=catalogue)
             write(inventory, result)
             tally.add(inventory, result)
             if progress is not None:
