@@ -579,9 +579,9 @@ def _line_blocks(fh, path, rows):
             yield block, feeds, lines, end
             if rows is not None and not lines:
                 rows -= 1
-            returns = block.count(b"\r")
-            feeds += block.count(b"\n")
-            lines += block.count(b"\n") + returns - block.count(b"\r\n") if returns else block.count(b"\n")
+            returns, block_feeds = block.count(b"\r"), block.count(b"\n")
+            feeds += block_feeds
+            lines += block_feeds + returns - block.count(b"\r\n") if returns else block_feeds
         rest = data
         if not piece:
             if not end:
