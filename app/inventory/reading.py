@@ -560,18 +560,20 @@ def _line_blocks(fh, path, rows):
     followed by one, or a carriage return alone (counted as a line, as :func:`parse_inventory` reads it)."""
     feeds = lines = end = 0
     rest = b""
+    found = np.zeros(0, dtype=np.intp)   # where the line feeds of ``rest`` are (each byte is looked at once)
     while True:
         try:
             piece = fh.read(READ_BYTES)
         except OSError as exc:
             raise InventoryError(f"cannot read {path}: {exc.strerror or exc}") from None
         data = rest + piece
+        if rows is not None:
+            found = np.concatenate([found, np.flatnonzero(np.frombuffer(piece, dtype=np.uint8) == 10) + len(rest)])
         while data:
             if rows is None:
                 cut = data.rfind(b"\n") + 1 if piece else len(data)
             else:
-                ends = np.flatnonzero(np.frombuffer(data, dtype=np.uint8) == 10)
-                cut = int(ends[rows - 1]) + 1 if len(ends) >= rows else (0 if piece else len(data))
+                cut = int(found[rows - 1]) + 1 if len(found) >= rows else (0 if piece else len(data))
             if not cut:
                 break
             block, data = data[:cut], data[cut:]
@@ -579,7 +581,12 @@ def _line_blocks(fh, path, rows):
             yield block, feeds, lines, end
             if rows is not None and not lines:
                 rows -= 1
-            returns, block_feeds = block.count(b"\r"), block.count(b"\n")
+            if rows is None:
+                block_feeds = block.count(b"\n")
+            else:   # the line feeds before the cut are the block's
+                block_feeds = int(np.searchsorted(found, cut))
+                found = found[block_feeds:] - cut
+            returns = block.count(b"\r")
             feeds += block_feeds
             lines += block_feeds + returns - block.count(b"\r\n") if returns else block_feeds
         rest = data
