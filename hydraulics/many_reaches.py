@@ -551,7 +551,8 @@ def check_linings(reaches: Reaches, idx, out: BatchResult, display: hu.UnitSyste
     vectorised solve per lining, a stone lining's reaches of every size in
     one model with a D50 per reach (its n depends on depth and D50, HEC-15
     Section 6.1). Then :func:`assess_stability` gives the verdict, vectorised
-    over the reaches of each stone size (the notes in the order of the sizes).
+    over the reaches of every stone size at once (:func:`_stability_of_sizes`;
+    the notes worded per size, in the order of the sizes).
     """
     catalogue = default_catalogue() if catalogue is None else catalogue
     idx = np.asarray(idx, dtype=np.intp)
