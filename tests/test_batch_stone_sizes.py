@@ -59,14 +59,15 @@ def write_csv(path, rows):
 
 
 def checked(source, target, units):
-    """The summary of ``source`` checked into ``target`` as ``ditchwright batch`` checks it."""
-    return ai.check_file(source, target, units, catalogue=SHIPPED, problems=20).summary()
+    """(the summary, every note about groups of reaches) of ``source`` checked into ``target`` as ``ditchwright
+    batch`` checks it."""
+    tally = ai.check_file(source, target, units, catalogue=SHIPPED, problems=20)
+    return tally.summary(), tally.messages
 
 
 @pytest.mark.parametrize("units", ["us", "si"])
 def test_every_size_at_once_gives_the_bytes_and_notes_of_one_check_per_size(tmp_path, monkeypatch, units):
-    # 60 sizes from 0.03 to 2.3 ft (9 mm to 700 mm; in the si file the same numbers are metres, only up to 3 m
-    # are read)
+    # 60 sizes from 0.03 to 2.3 ft (9 mm to 700 mm; in the si file the same numbers are metres)
     sizes = np.round(np.geomspace(0.03, 2.3, 60), 4)
     source = tmp_path / "inventory.csv"
     write_csv(source, many_sizes_rows(4000, seed=21, sizes=sizes))
@@ -88,6 +89,8 @@ def test_every_size_at_once_gives_the_bytes_and_notes_of_one_check_per_size(tmp_
 
     assert (tmp_path / "at_once.csv").read_bytes() == (tmp_path / "per_size.csv").read_bytes()
     assert fast == per_size
+    size_notes = [m for m in fast[1] if "range of the HEC-15 Chapter 6 procedures" in m]
+    assert len([m for m in size_notes if " to " not in m.split(" is outside")[0]]) >= 10   # worded per size
     text = (tmp_path / "at_once.csv").read_text(encoding="utf-8")
     assert len(text.splitlines()) == 4001
     for verdict in ("stable", "unstable", "non-erodible", "hydraulics-only", "no-solution", "invalid"):
@@ -101,7 +104,7 @@ def test_the_notes_of_each_size_come_in_the_order_of_the_sizes(tmp_path):
     sizes = np.array([0.03, 0.04, 0.5, 1.0, 1.9, 2.1])   # ft: 9.1 and 12.2 mm, 579 and 640 mm are outside
     source = tmp_path / "inventory.csv"
     write_csv(source, many_sizes_rows(600, seed=4, sizes=sizes))
-    summary = checked(source, tmp_path / "results.csv", "us")
+    summary = checked(source, tmp_path / "results.csv", "us")[0]
     head = "  note: lining 'gravel': D50 = "      # gravel rows never give their own n here: checked size by size
     stated = [line[len(head):].split(" is outside")[0] for line in summary.splitlines() if line.startswith(head)]
     # 1 ft = 12 in exactly
