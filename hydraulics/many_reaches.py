@@ -60,7 +60,7 @@ from .stability import ROADSIDE_SIDE_SLOPE, SELF_CLEANING_VELOCITY, side_slope_c
 from .solvers import flow_at_depth, max_flow
 from . import validate
 from .validate import MAX_SLOPE
-from .wording import in_units
+from .wording import in_units, restate_each
 
 #: Shapes an inventory row may name (a parabola needs two dimensions an inventory does not carry).
 SHAPES = ("trapezoid", "triangle", "rectangle", "circle")
@@ -484,28 +484,31 @@ def _each_2f(values, template: str) -> np.ndarray:
     return out
 
 
-def _each_worded(values, quantity: str, display: hu.UnitSystem, make) -> np.ndarray:
-    """``in_units(make(v), display)`` for each SI value (object array), made once per printed value.
+def _each_worded(values, display: hu.UnitSystem, make, name: str) -> np.ndarray:
+    """``in_units(make(v), display)`` for each SI value (object array), written once per printed value.
 
-    ``make`` words one value of ``quantity`` to three significant figures
-    (:func:`hydraulics.wording.worded`), so values that round alike in
+    ``make`` words one value as its quantity ``name`` to three significant
+    figures (:func:`hydraulics.wording.worded`), so values that round alike in
     ``display`` give one text: they are grouped by their rounded digits
-    (decimals and integer code), and worded one per group; a value within 1e-9
-    of a rounding tie is worded on its own.
+    (decimals and integer code), and a value within 1e-9 of a rounding tie is
+    written on its own. The rest of the message is filled once
+    (:func:`hydraulics.wording.restate_each`).
     """
     v = np.asarray(values, dtype=float)
-    shown = np.abs(np.asarray(display.from_si(quantity, v), dtype=float))
+    out = np.empty(len(v), dtype=object)
+    if not len(v):
+        return out
+    message = make(float(v[0]))
+    shown = np.abs(np.asarray(display.from_si(message.quantities[name][1], v), dtype=float))
     with np.errstate(divide="ignore", invalid="ignore"):
         decimals = np.where(shown > 0, 2 - np.floor(np.log10(shown)), 0.0)
         scaled = shown * 10.0 ** decimals
     code = np.rint(scaled)
     clear = np.isfinite(scaled) & (np.abs(scaled - code) < 0.5 - 1e-9)
-    out = np.empty(len(v), dtype=object)
     keys = decimals[clear] * 2048.0 + code[clear]    # one number a group: the code is at most 1000
     _, first, which = np.unique(keys, return_index=True, return_inverse=True)
-    one = v[clear][first].tolist()
-    out[clear] = _objects([in_units(make(x), display) for x in one] or [""])[which.ravel()]
-    out[~clear] = [in_units(make(x), display) for x in v[~clear].tolist()]
+    out[clear] = _objects(restate_each(message, name, v[clear][first].tolist(), display) or [""])[which.ravel()]
+    out[~clear] = restate_each(message, name, v[~clear].tolist(), display)
     return out
 
 
@@ -623,7 +626,7 @@ def lining_cautions(reaches: Reaches, rows, out: BatchResult, display: hu.UnitSy
     rows = np.asarray(rows, dtype=np.intp)
     slow = rows[out.velocity[rows] < SELF_CLEANING_VELOCITY]
     out.flags["silting"][slow] = True
-    _note(out, slow, _each_worded(out.velocity[slow], "velocity", display, silting_caution))
+    _note(out, slow, _each_worded(out.velocity[slow], display, silting_caution, "v"))
     sided = rows[np.isin(reaches.kind[rows], (SHAPE_CODE["trapezoid"], SHAPE_CODE["triangle"]))]
     sides = np.column_stack([reaches.left_slope[sided], reaches.right_slope[sided]])
     steep = (sides < ROADSIDE_SIDE_SLOPE).any(axis=1)
@@ -631,8 +634,8 @@ def lining_cautions(reaches: Reaches, rows, out: BatchResult, display: hu.UnitSy
     if not len(sided):
         return
     out.flags["steep_sides"][sided] = True
-    pairs, which = np.unique(sides, axis=0, return_inverse=True)
-    texts = _objects(["; ".join(side_slope_cautions(z1, z2)) for z1, z2 in pairs.tolist()])
+    pairs, which = np.unique(sides[:, 0] + 1j * sides[:, 1], return_inverse=True)   # (left, right) as one number
+    texts = _objects(["; ".join(side_slope_cautions(z.real, z.imag)) for z in pairs.tolist()])
     _note(out, sided, texts[which.ravel()])
 
 

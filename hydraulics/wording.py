@@ -102,6 +102,20 @@ def worded(template: str, **quantities) -> Worded:
     return out
 
 
+def restate_each(message: Worded, name: str, values, units: UnitSystem) -> list:
+    """``message`` (made by :func:`worded`) in ``units`` once for each SI value of its quantity ``name``, in
+    ``values``: the rest of the message is filled once, and only the number is written each time.
+
+    >>> w = worded("velocity {v} is below {v_min}", v=(0.3, "velocity"), v_min=(0.6, "velocity"))
+    >>> restate_each(w, "v", [0.1, 0.25], SI)
+    ['velocity 0.100 m/s is below 0.600 m/s', 'velocity 0.250 m/s is below 0.600 m/s']
+    """
+    _, quantity, *rest = message.quantities[name]
+    mark = "\x00"      # a character no message holds, where the number goes
+    frame = _fill(message.template, {**message.quantities, name: mark}, units)
+    return [frame.replace(mark, format_quantity(v, quantity, units, *rest)) for v in values]
+
+
 def in_units(message, units: UnitSystem) -> str:
     """``message`` restated in ``units`` where it was made by :func:`worded`; any other text as it is."""
     return message.in_units(units) if isinstance(message, Worded) else str(message)
