@@ -40,6 +40,14 @@ SUPERCRITICAL_CAUTION = ("Froude number {fr} is supercritical, above the near-cr
 #: Manning's equation with a constant n does not apply (Chow 1959, Sec. 1-5 and
 #: Fig. 8-1: laminar below about 500, transitional up to about 2000 on R).
 MIN_TURBULENT_REYNOLDS = 2000.0
+#: Caution where the flow is not fully turbulent, one wording for every front end; ``{re}`` is the Reynolds number
+#: as text (a whole number).
+TURBULENCE_CAUTION = ("Reynolds number {re} is below %g: the flow is not fully turbulent and Manning's equation is "
+                      "outside its range") % MIN_TURBULENT_REYNOLDS
+#: Caution on a pipe above its full-flow capacity (common practice: above the full-pipe flow there are two part-full
+#: depths, the lower one is returned, and any disturbance can seal the pipe); ``{q_full}`` the capacity.
+FULL_PIPE_CAUTION = ("the flow is above the pipe's full-flow capacity ({q_full}): it runs just below the crown, where "
+                     "a small disturbance makes it surcharge; use a larger pipe")
 #: Regime is called "critical" when |Fr - 1| is below this (to rounding).
 CRITICAL_TOLERANCE = 1e-6
 
@@ -138,9 +146,8 @@ def analyse(section, flow, slope, n=None, normal=None) -> ChannelResult:
     warnings = froude_cautions(fr)
     lam = reynolds < MIN_TURBULENT_REYNOLDS
     if np.any(lam):
-        warnings.append(f"{_count(lam)}Reynolds number {_fmt(reynolds, lam)} is below "
-                        f"{MIN_TURBULENT_REYNOLDS:g}: the flow is not fully turbulent and Manning's "
-                        "equation is outside its range")
+        re_text = f"{float(reynolds):.0f}" if np.ndim(reynolds) == 0 else _fmt(reynolds, lam)
+        warnings.append(_count(lam) + TURBULENCE_CAUTION.format(re=re_text))
     if section.kind == "circle":
         # Above the full-pipe flow there are two part-full depths; the lower one is returned,
         # and any disturbance can seal the pipe (common practice).
@@ -148,13 +155,10 @@ def analyse(section, flow, slope, n=None, normal=None) -> ChannelResult:
         q_full = full_geo.area * (full_geo.area / full_geo.wetted_perimeter) ** (2 / 3) * sqrt(s) / n_used
         over = q > q_full
         if np.any(over):
-            rest = ("it runs just below the crown, where a small disturbance makes it surcharge; use a larger pipe")
             if vector:
-                warnings.append(f"{_count(over)}the flow is above the pipe's full-flow capacity "
-                                f"({_fmt(q_full, over)} m^3/s): {rest}")
+                warnings.append(_count(over) + FULL_PIPE_CAUTION.format(q_full=f"{_fmt(q_full, over)} m^3/s"))
             else:
-                warnings.append(worded("the flow is above the pipe's full-flow capacity ({q_full}): {rest}",
-                                       q_full=(float(q_full), "flow"), rest=rest))
+                warnings.append(worded(FULL_PIPE_CAUTION, q_full=(float(q_full), "flow")))
     return ChannelResult(
         flow=q, slope=s, normal_depth=y, critical_depth=yc, velocity=v, froude=fr,
         regime=flow_regime(fr), area=area, wetted_perimeter=perim, top_width=top,

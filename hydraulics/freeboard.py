@@ -42,7 +42,7 @@ from .units import SI, UnitSystem
 from .wording import format_quantity, worded
 
 __all__ = ["FREEBOARD_SOURCE", "SUPERELEVATION_SOURCE", "SUPERCRITICAL_BEND_SOURCE", "WAVE_RULE", "DitchTop",
-           "DitchTops", "ditch_top", "ditch_tops", "freeboard_rule"]
+           "DitchTops", "ditch_top", "ditch_tops", "freeboard_rule", "too_shallow_warning"]
 
 FREEBOARD_SOURCE = f"{cite('freeboard')}; local design codes govern and may ask for more"
 SUPERELEVATION_SOURCE = f"superelevation in the bend V^2 T / (g Rc), {cite('superelevation')}"
@@ -140,14 +140,20 @@ def ditch_top(section, depth, velocity, top_width, froude, bend_radius=None,
                         "freeboard or avoid the bend")
     total = float(tops.total_depth[0])
     if tops.too_shallow[0]:
-        warnings.append(worded("the design depth plus freeboard ({total}) is above the section's full depth ({full}): "
-                               "the {kind} is not deep enough for the freeboard", total=(total, "length"),
-                               full=(float(section.full_depth), "length"), kind=section.kind))
+        warnings.append(too_shallow_warning(total, float(section.full_depth), section.kind))
     sup, wave = float(tops.superelevation[0]), float(tops.wave_allowance[0])
     return DitchTop(freeboard=float(tops.freeboard[0]), superelevation=None if bend_radius is None else sup,
                     wave_allowance=None if math.isnan(wave) else wave, total_depth=total,
                     depth_at_top=float(tops.depth_at_top[0]), top_width=float(tops.top_width[0]),
                     warnings=tuple(warnings))
+
+
+def too_shallow_warning(total_depth: float, full_depth: float, kind: str):
+    """The warning where the design depth plus freeboard, ``total_depth`` [m], is above a closed or surveyed
+    section's ``full_depth`` [m] (the section is reported, never widened); ``kind`` names the section."""
+    return worded("the design depth plus freeboard ({total}) is above the section's full depth ({full}): "
+                  "the {kind} is not deep enough for the freeboard", total=(total_depth, "length"),
+                  full=(full_depth, "length"), kind=kind)
 
 
 def freeboard_rule(min_freeboard: float, superelevation: float | None = None, units: UnitSystem = SI,

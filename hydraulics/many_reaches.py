@@ -46,10 +46,10 @@ from itertools import repeat
 import numpy as np
 
 from . import units as hu
-from .analysis import (MIN_TURBULENT_REYNOLDS, NEAR_CRITICAL_BAND, NEAR_CRITICAL_CAUTION, SUPERCRITICAL_CAUTION,
-                       analyse)
+from .analysis import (FULL_PIPE_CAUTION, MIN_TURBULENT_REYNOLDS, NEAR_CRITICAL_BAND, NEAR_CRITICAL_CAUTION,
+                       SUPERCRITICAL_CAUTION, TURBULENCE_CAUTION, analyse)
 from .errors import HydraulicsError, InputError
-from .freeboard import ditch_tops
+from .freeboard import ditch_tops, too_shallow_warning
 from .lining_quantities import cost_per_length
 from .linings import load_catalogue
 from .linings import hec15
@@ -60,7 +60,7 @@ from .stability import ROADSIDE_SIDE_SLOPE, SELF_CLEANING_VELOCITY, side_slope_c
 from .solvers import flow_at_depth, max_flow
 from . import validate
 from .validate import MAX_SLOPE
-from .wording import in_units, restate_each
+from .wording import in_units, restate_each, worded
 
 #: Shapes an inventory row may name (a parabola needs two dimensions an inventory does not carry).
 SHAPES = ("trapezoid", "triangle", "rectangle", "circle")
@@ -85,6 +85,8 @@ WARNINGS = {
     "above_full_flow": "pipe above its full-flow capacity",
     "silting": "velocity low enough for silt to settle",
     "steep_sides": "side slope steeper than 1V:3H",
+    "too_shallow": "pipe too shallow for its depth plus freeboard",
+    "vegetated_range": "grass permissible shear above the published range",
 }
 #: Reaches solved per vectorised call; bounds memory and paces the progress callback.
 CHUNK = 100_000
@@ -427,7 +429,7 @@ def solve_hydraulics(reaches: Reaches, idx, n, out: BatchResult, display: hu.Uni
         out.froude[rows] = res.froude
         out.bed_shear[rows] = res.bed_shear
         out.manning_n[rows] = res.manning_n
-        _warn(reaches, rows, res, out)
+        _warn(reaches, rows, res, out, display)
         done[rows] = True
     if failures:
         failed = np.fromiter(failures, dtype=np.intp, count=len(failures))
@@ -443,7 +445,7 @@ def _objects(texts: list) -> np.ndarray:
     return out
 
 
-def _warn(reaches, rows, res, out):
+def _warn(reaches, rows, res, out, display):
     """Per-reach warnings into ``out.reason`` and ``out.flags`` (limits from hydraulics.analysis)."""
     lo, hi = NEAR_CRITICAL_BAND
     fr = np.asarray(res.froude)
@@ -454,8 +456,9 @@ def _warn(reaches, rows, res, out):
     re = np.asarray(res.reynolds)
     slow = re < MIN_TURBULENT_REYNOLDS
     out.flags["not_turbulent"][rows[slow]] = True
-    _note(out, rows[slow], [f"Reynolds number {r:.0f} below {MIN_TURBULENT_REYNOLDS:g}: the flow is not fully "
-                            "turbulent and Manning's equation is outside its range" for r in re[slow].tolist()])
+    whole, which = np.unique(np.rint(re[slow]), return_inverse=True)     # as "%.0f" rounds: half to even
+    said = _objects([TURBULENCE_CAUTION.format(re=f"{r:.0f}") for r in whole.tolist()] or [""])
+    _note(out, rows[slow], said[which.ravel()])
     pipe = reaches.kind[rows] == _CIRCLE
     if pipe.any():
         prow = rows[pipe]
@@ -463,8 +466,9 @@ def _warn(reaches, rows, res, out):
         q_full = flow_at_depth(Circle(diameter=d), d, reaches.slope[prow], np.asarray(res.manning_n)[pipe])
         full = reaches.flow[prow] > q_full
         out.flags["above_full_flow"][prow[full]] = True
-        _note(out, prow[full], "flow above the pipe's full-flow capacity: it runs just below the crown, where a "
-                               "small disturbance makes it surcharge; use a larger pipe")
+        if full.any():
+            _note(out, prow[full], _objects(restate_each(worded(FULL_PIPE_CAUTION, q_full=(1.0, "flow")), "q_full",
+                                                         q_full[full].tolist(), display)))
 
 
 def _each_2f(values, template: str) -> np.ndarray:
@@ -610,7 +614,7 @@ def check_linings(reaches: Reaches, idx, out: BatchResult, display: hu.UnitSyste
             else:
                 assess_stability(lining, reaches, rest[solved & (rest_d50 == d)], out, display, n_given=False)
     checked = idx[np.isin(out.verdict[idx], CHECKED)]
-    lining_cautions(reaches, checked, out, display)
+    lining_cautions(reaches, checked, out, display, catalogue)
     price(reaches, checked, out, catalogue)
 
 
@@ -618,15 +622,30 @@ def check_linings(reaches: Reaches, idx, out: BatchResult, display: hu.UnitSyste
 CHECKED = ("stable", "unstable", "non-erodible")
 
 
-def lining_cautions(reaches: Reaches, rows, out: BatchResult, display: hu.UnitSystem = hu.SI) -> None:
-    """The cautions :func:`hydraulics.stability.check_lining` gives every lined channel, in the reasons of the
-    lined reaches ``rows`` (after their other warnings, as there): a velocity low enough for silt to settle
-    (``silting_caution``) and roadside side slopes steeper than 1V:3H (``side_slope_cautions``; trapezoids and
-    triangles only). Each distinct text is worded once."""
+def lining_cautions(reaches: Reaches, rows, out: BatchResult, display: hu.UnitSystem, catalogue) -> None:
+    """The cautions :func:`hydraulics.stability.check_lining` gives a lined channel, in the reasons of the lined
+    reaches ``rows``, after their other warnings and in the order that check lists them: a velocity low enough for
+    silt to settle (``silting_caution``), roadside side slopes steeper than 1V:3H (``side_slope_cautions``;
+    trapezoids and triangles only), a pipe too shallow for its design depth plus the minimum freeboard
+    (``too_shallow_warning``), and a grass lining's permissible shear above the range published for vegetated
+    soils (``VEGETATED_SHEAR_CAUTION``). Each distinct text is worded once."""
     rows = np.asarray(rows, dtype=np.intp)
     slow = rows[out.velocity[rows] < SELF_CLEANING_VELOCITY]
     out.flags["silting"][slow] = True
     _note(out, slow, _each_worded(out.velocity[slow], display, silting_caution, "v"))
+    _side_cautions(reaches, rows, out)
+    _pipe_depth_cautions(reaches, rows[reaches.kind[rows] == _CIRCLE], out, display)
+    keys = reaches.lining[rows]
+    for key in sorted(set(keys.tolist())):
+        if catalogue.get(key).permissible_data["method"] == "vegetation":
+            group = rows[keys == key]
+            high = group[out.permissible_shear[group] > hec15.VEGETATED_SHEAR_RANGE[1]]
+            out.flags["vegetated_range"][high] = True
+            _note(out, high, in_units(hec15.VEGETATED_SHEAR_CAUTION, display))
+
+
+def _side_cautions(reaches, rows, out) -> None:
+    """``side_slope_cautions`` of the trapezoids and triangles among ``rows``, one text per pair of slopes."""
     sided = rows[np.isin(reaches.kind[rows], (SHAPE_CODE["trapezoid"], SHAPE_CODE["triangle"]))]
     sides = np.column_stack([reaches.left_slope[sided], reaches.right_slope[sided]])
     steep = (sides < ROADSIDE_SIDE_SLOPE).any(axis=1)
@@ -637,6 +656,20 @@ def lining_cautions(reaches: Reaches, rows, out: BatchResult, display: hu.UnitSy
     pairs, which = np.unique(sides[:, 0] + 1j * sides[:, 1], return_inverse=True)   # (left, right) as one number
     texts = _objects(["; ".join(side_slope_cautions(z.real, z.imag)) for z in pairs.tolist()])
     _note(out, sided, texts[which.ravel()])
+
+
+def _pipe_depth_cautions(reaches, pipes, out, display) -> None:
+    """``too_shallow_warning`` of the pipes ``pipes`` whose normal depth plus the minimum freeboard
+    (:func:`hydraulics.freeboard.ditch_tops`, straight) is above their diameter."""
+    if not len(pipes):
+        return
+    section, y = _pipe_section(reaches, pipes), out.normal_depth[pipes]
+    tops = ditch_tops(section, y, out.velocity[pipes], section.top_width(y), out.froude[pipes])
+    shallow = pipes[tops.too_shallow]
+    out.flags["too_shallow"][shallow] = True
+    _note(out, shallow, _objects([in_units(too_shallow_warning(t, d, "circle"), display) for t, d in
+                                  zip(tops.total_depth[tops.too_shallow].tolist(),
+                                      reaches.diameter[shallow].tolist())]))
 
 
 def price(reaches: Reaches, rows, out: BatchResult, catalogue) -> None:
@@ -665,7 +698,8 @@ def price(reaches: Reaches, rows, out: BatchResult, catalogue) -> None:
 
 
 def _roughness_ranges(lining, rough, reaches, rows, solved, out, display) -> dict:
-    """The roughness model's range warnings for the reaches ``rows`` where ``solved``, worded for the notes:
+    """The roughness model's range warnings for the reaches ``rows`` where ``solved``: each reach's own in its
+    reason (after the flow's warnings, as ``check_lining`` lists them), and all of them worded for the notes:
     {stone size: [notes]} for a stone model (open reaches' notes before pipes'), {None: [notes]} for another."""
     notes = {}
     if not hasattr(rough, "check") or not solved.any():
@@ -675,6 +709,9 @@ def _roughness_ranges(lining, rough, reaches, rows, solved, out, display) -> dic
         if part.any():
             model, at = _part(rough, np.flatnonzero(part)), rows[part]
             args = (make(reaches, at), out.normal_depth[at], reaches.slope[at])
+            own = model.check_elements(*args, units=display)   # each reach's own, as calc says it
+            said = own != ""
+            _note(out, at[said], own[said])
             each = model.check_each(*args) if hasattr(model, "check_each") else {None: model.check(*args)}
             for d, texts in each.items():
                 notes.setdefault(d, []).extend(f"lining {lining.key!r}: {in_units(t, display)}" for t in texts)

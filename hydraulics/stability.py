@@ -449,7 +449,8 @@ def _roughness_and_flow(section, q, s, lining, d, n_override):
         n_text = roughness_words(lining, relation)
     if hasattr(rough, "check"):
         warn += rough.check(section, float(res.normal_depth), s)
-    return rough, res, relation, n_text, notes, warn + list(res.warnings)
+    # the flow's own warnings (its regime) first, then the roughness relation's range, as the batch lists them
+    return rough, res, relation, n_text, notes, list(res.warnings) + warn
 
 
 def _stone_sizing(section, q, s, lining, n_fixed, sides, rc, sf_min, d):

@@ -207,3 +207,48 @@ def test_switch_depth_is_where_the_average_depth_is_one_and_a_half_d50():
     g = pipe.properties(StoneRoughness(0.3).switch_depth(pipe))
     assert g.area / g.top_width == pytest.approx(1.5 * 0.3, rel=1e-9)
     assert relation_switch_depth(0.035, hy.Triangle(side_slope=3.0)) is None
+
+
+@pytest.mark.parametrize("units", ["si", "us"])
+def test_each_elements_warnings_are_its_own_checks(units):
+    """StoneRoughness.check_elements (the batch's per-reach warnings) gives each element the words check() gives
+    that element alone: sizes inside and outside HEC-15 Chapter 6's 15 to 550 mm, depths in Blodgett's range, at
+    the change of relation, in Bathurst's and below its usable depth (HEC-15 Section 6.1's ranges)."""
+    from hydraulics.units import system
+    from hydraulics.wording import in_units
+    u = system(units)
+    rng = np.random.default_rng(21)
+    size = 400
+    d50 = rng.choice([0.01, 0.05, 0.15, 0.3, 0.6], size)
+    b, z = rng.uniform(0.3, 2.0, size), rng.choice([2.0, 3.0, 4.0], size)
+    depth = np.minimum(d50 * 10 ** rng.uniform(-1.5, 2.7, size), 3.0)   # da/D50 from about 0.03 to 500
+    depth[:40] = d50[:40] * rng.uniform(1.5, 1.6, 40) * 1.3        # about the change of relation at 1.5
+    d50[40:60], depth[40:60] = 0.005, 2.5                             # da/D50 above Blodgett's 185
+    slope = rng.uniform(0.002, 0.08, size)
+    section = hy.Trapezoid(bottom_width=b, left_slope=z, right_slope=z)
+    got = StoneRoughness(d50).check_elements(section, depth, slope, units=u)
+    for i in range(size):
+        one = hy.Trapezoid(bottom_width=float(b[i]), left_slope=float(z[i]), right_slope=float(z[i]))
+        want = "; ".join(in_units(t, u) for t in StoneRoughness(float(d50[i])).check(one, float(depth[i]),
+                                                                                     float(slope[i])))
+        assert got[i] == want, (i, d50[i], depth[i])
+    texts = " ".join(got.tolist())
+    for words in ("range of Blodgett's", "at the change from Bathurst's", "too shallow for Bathurst's",
+                  "HEC-15 Chapter 6 procedures"):
+        assert words in texts, words
+    assert (got == "").any()
+
+
+@pytest.mark.parametrize("units", ["si", "us"])
+def test_each_grass_elements_warning_is_its_own_check(units):
+    """VegetationRoughness.check_elements: the warning check() gives an element alone (flow below the stem height,
+    HEC-15 Chapter 4), and nothing where the grass is submerged."""
+    from hydraulics.units import system
+    from hydraulics.wording import in_units
+    u = system(units)
+    r = VegetationRoughness(106.0, 0.15)
+    section = hy.Trapezoid(bottom_width=1.0, left_slope=3.0, right_slope=3.0)
+    depth = np.array([0.05, 0.149, 0.15, 0.4])
+    got = r.check_elements(section, depth, 0.01, units=u)
+    assert got.tolist() == ["; ".join(in_units(t, u) for t in r.check(section, float(y), 0.01)) for y in depth]
+    assert got[0] and got[1] and not got[2] and not got[3]

@@ -45,7 +45,7 @@ __all__ = [
     "stone_layer_thickness", "DENSITY_STIFFNESS", "COVER_FACTOR", "cover_factor",
     "grass_roughness_coefficient", "vegetation_n", "soil_grain_n", "noncohesive_permissible_shear",
     "COHESIVE_COEFFICIENTS", "cohesive_permissible_shear", "effective_soil_shear",
-    "vegetation_permissible_shear", "VEGETATED_SHEAR_RANGE", "RECP_CLASSES", "recp_typical_n", "recp_data_sheet_n",
+    "vegetation_permissible_shear", "VEGETATED_SHEAR_RANGE", "VEGETATED_SHEAR_CAUTION", "RECP_CLASSES", "recp_typical_n", "recp_data_sheet_n",
     "MATTRESS_THICKNESS_RANGE", "GABION_FILL_FRACTION", "gabion_fill_check", "superelevation", "freeboard",
 ]
 
@@ -1332,6 +1332,12 @@ def effective_soil_shear(design_shear_value, cover, n, n_soil):
 #: for Stream Restoration Materials; provenance: ``vegetated_shear_range``). Not part of HEC-15: a plausibility
 #: bound above which :func:`vegetation_permissible_shear` warns.
 VEGETATED_SHEAR_RANGE = (0.5 * PSF, 4.0 * PSF)
+#: The caution above that bound (the value itself is in the results; one wording for every reach, so that a batch
+#: says it as a single channel's check does).
+VEGETATED_SHEAR_CAUTION = worded("permissible shear of the grass lining above {hi}, the top of the range published "
+                                 "for vegetated soils (Fischenich, 2001, Stability Thresholds for Stream Restoration "
+                                 "Materials): check the cover factor and the soil beneath",
+                                 hi=(VEGETATED_SHEAR_RANGE[1], "shear"))
 
 
 def vegetation_permissible_shear(soil_permissible, cover, n, n_soil):
@@ -1379,9 +1385,7 @@ def vegetation_permissible_shear(soil_permissible, cover, n, n_soil):
     top = float(np.max(out))
     if top > VEGETATED_SHEAR_RANGE[1]:
         # the value itself is in the results; one wording for every group of reaches lets a batch say it once
-        _warn(worded("permissible shear of the grass lining above {hi}, the top of the range published for "
-                     "vegetated soils (Fischenich, 2001, Stability Thresholds for Stream Restoration Materials): "
-                     "check the cover factor and the soil beneath", hi=(VEGETATED_SHEAR_RANGE[1], "shear")))
+        _warn(VEGETATED_SHEAR_CAUTION)
     return out
 
 

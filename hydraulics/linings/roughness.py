@@ -22,7 +22,7 @@ from .. import validate
 from ..constants import GAMMA_WATER
 from ..errors import InputError
 from ..provenance import cite
-from ..wording import worded
+from ..wording import in_units, worded
 from . import hec15
 
 __all__ = ["StoneRoughness", "VegetationRoughness", "FixedSlopeN", "EnergySlopeN", "STONE_METHODS", "SPLIT_BAND",
@@ -358,9 +358,59 @@ class StoneRoughness:
         return {d: self._notes(d, None, None, None, ratio[self.d50 == d], code[self.d50 == d])
                 for d in np.unique(self.d50).tolist()}
 
-    def _notes(self, d50, section, depth, slope, ratio=None, code=None) -> list[str]:
+    def check_elements(self, section, depth, slope, units=None) -> np.ndarray:
+        """The warnings :meth:`check` gives each element on its own, as one text an element ("; " between two;
+        "" where none), in ``units`` (None: SI): what a one-channel check of that element says.
+
+        Elements of one size whose da/D50 prints alike (three significant figures) and falls under the same
+        relation and range share a text, worded once; a da/D50 within 1e-9 of a rounding tie is worded alone.
+        """
+        d50 = np.broadcast_to(np.asarray(self.d50, dtype=float), np.shape(depth))
+        out = np.empty(d50.shape, dtype=object)
+        out.fill("")
+        if not out.size:
+            return out
+        lo, hi = hec15.STONE_SIZE_RANGE
+        flag = ((d50 < lo) | (d50 > hi)).astype(int)                # 1: the size note
+        if self.method == "strickler":
+            ratio = code = np.zeros(d50.shape)
+        else:
+            da, _, _ = _average_depth(section, depth)
+            ratio = np.broadcast_to(np.asarray(da / self.d50, dtype=float), d50.shape)
+            code = np.broadcast_to(self._regions(section, depth, slope)[1], d50.shape)
+            (a, b), (c, e) = hec15.BLODGETT_RANGE, hec15.BATHURST_RANGE
+            ranged = (((code == 0) & ((ratio < a) | (ratio > b))) | ((code == 1) & ((ratio <= c) | (ratio >= e)))
+                      | (code == 2) | (code == 3))
+            flag = flag + 2 * ranged * (1 + code)                     # the relation's note, by relation
+        some = np.flatnonzero(flag)
+        if not len(some):
+            return out
+        with np.errstate(divide="ignore", invalid="ignore"):
+            r = np.abs(ratio[some])
+            digits = np.where(r > 0, 2 - np.floor(np.log10(r)), 0.0)
+            scaled = r * 10.0 ** digits
+        whole = np.rint(scaled)
+        clear = np.isfinite(scaled) & (np.abs(scaled - whole) < 0.5 - 1e-9)
+        sizes, size_of = np.unique(d50[some], return_inverse=True)
+        # one number a group: size and notes (real), the printed da/D50 (imaginary: decimals and digits; a tie alone)
+        printed = np.where(clear, (digits + 30) * 2048.0 + whole, 1e9 + np.arange(len(some)))
+        key = (size_of.ravel() * 16.0 + flag[some]) + 1j * np.where(flag[some] > 1, printed, 0.0)
+        _, first, which = np.unique(key, return_index=True, return_inverse=True)
+        mark, frames, texts = "\x00", {}, []     # a group's sentence is filled once; only da/D50 is written each time
+        for i, g in zip(some[first].tolist(), np.real(key[first]).tolist()):
+            if g not in frames:
+                notes = self._notes(float(d50.flat[i]), None, None, None, ratio.flat[i:i + 1], code.flat[i:i + 1],
+                                    shown=mark)
+                frames[g] = "; ".join(str(t) if units is None else in_units(t, units) for t in notes)
+            texts.append(frames[g].replace(mark, f"{float(ratio.flat[i]):.3g}"))
+        made = np.empty(len(texts), dtype=object)
+        made[:] = texts
+        out.flat[some] = made[which.ravel()]
+        return out
+
+    def _notes(self, d50, section, depth, slope, ratio=None, code=None, shown=None) -> list[str]:
         """The warnings of one stone size ``d50``: from ``ratio`` (da/D50) and ``code`` (the relations used)
-        where given, else worked out at ``depth``."""
+        where given, else worked out at ``depth``; ``shown`` in place of the da/D50 written, where given."""
         out = []
         lo, hi = hec15.STONE_SIZE_RANGE
         if not lo <= d50 <= hi:
@@ -372,7 +422,7 @@ class StoneRoughness:
             da, _, _ = _average_depth(section, depth)
             ratio = np.asarray(da / d50, dtype=float)
             _, code = self._regions(section, depth, slope)
-        text = hec15._span(ratio)
+        text = hec15._span(ratio) if shown is None else shown
         a, b = hec15.BLODGETT_RANGE
         if np.any((code == 0) & ((ratio < a) | (ratio > b))):
             out.append(f"da/D50 = {text} is outside {a:g} to {b:g}, the range of Blodgett's relation (HEC-15 Eq. 6.1)")
@@ -461,6 +511,17 @@ class VegetationRoughness:
             out.append(worded("flow depth below the stem height ({h}): the grass is not submerged, which the "
                               f"HEC-15 roughness relation of grass does not describe ({cite('grass_n')})",
                               h=(float(self.stem_height), "length")))
+        return out
+
+    def check_elements(self, section, depth, slope, units=None) -> np.ndarray:
+        """The warning of :meth:`check` for each element on its own ("" where none), in ``units`` (None: SI)."""
+        depth = np.atleast_1d(np.asarray(depth, dtype=float))
+        out = np.empty(depth.shape, dtype=object)
+        out.fill("")
+        low = depth < self.stem_height
+        if low.any():
+            (text,) = self.check(section, float(depth[low][0]), slope)
+            out[low] = str(text) if units is None else in_units(text, units)
         return out
 
     def to_dict(self) -> dict:
