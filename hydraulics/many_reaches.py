@@ -60,7 +60,7 @@ from .stability import ROADSIDE_SIDE_SLOPE, SELF_CLEANING_VELOCITY, side_slope_c
 from .solvers import flow_at_depth, max_flow
 from . import validate
 from .validate import MAX_SLOPE
-from .wording import in_units, restate_each, worded
+from .wording import in_units, printed_alike, restate_each, worded
 
 #: Shapes an inventory row may name (a parabola needs two dimensions an inventory does not carry).
 SHAPES = ("trapezoid", "triangle", "rectangle", "circle")
@@ -493,24 +493,17 @@ def _each_worded(values, display: hu.UnitSystem, make, name: str) -> np.ndarray:
 
     ``make`` words one value as its quantity ``name`` to three significant
     figures (:func:`hydraulics.wording.worded`), so values that round alike in
-    ``display`` give one text: they are grouped by their rounded digits
-    (decimals and integer code), and a value within 1e-9 of a rounding tie is
-    written on its own. The rest of the message is filled once
-    (:func:`hydraulics.wording.restate_each`).
+    ``display`` give one text (:func:`hydraulics.wording.printed_alike`), and a
+    value within 1e-9 of a rounding tie is written on its own. The rest of the
+    message is filled once (:func:`hydraulics.wording.restate_each`).
     """
     v = np.asarray(values, dtype=float)
     out = np.empty(len(v), dtype=object)
     if not len(v):
         return out
     message = make(float(v[0]))
-    shown = np.abs(np.asarray(display.from_si(message.quantities[name][1], v), dtype=float))
-    with np.errstate(divide="ignore", invalid="ignore"):
-        decimals = np.where(shown > 0, 2 - np.floor(np.log10(shown)), 0.0)
-        scaled = shown * 10.0 ** decimals
-    code = np.rint(scaled)
-    clear = np.isfinite(scaled) & (np.abs(scaled - code) < 0.5 - 1e-9)
-    keys = decimals[clear] * 2048.0 + code[clear]    # one number a group: the code is at most 1000
-    _, first, which = np.unique(keys, return_index=True, return_inverse=True)
+    groups, clear = printed_alike(display.from_si(message.quantities[name][1], v))
+    _, first, which = np.unique(groups[clear], return_index=True, return_inverse=True)
     out[clear] = _objects(restate_each(message, name, v[clear][first].tolist(), display) or [""])[which.ravel()]
     out[~clear] = restate_each(message, name, v[~clear].tolist(), display)
     return out

@@ -63,3 +63,21 @@ def test_sizes_quoted_in_a_lining_name_follow_the_units():
     w = worded("at {s} ({lining}): depth {d}", s=(15.0, "station"), lining=grass, d=(0.1524, "length"))
     assert str(w) == "at 0+015.00 (Grass, sod-forming, good stand, about 150 mm tall): depth 0.152 m"
     assert in_units(w, US) == "at 0+49.21 (Grass, sod-forming, good stand, about 6 in tall): depth 0.500 ft"
+
+
+def test_values_printed_alike_share_a_group():
+    """printed_alike groups values exactly as they print to three significant figures (format_value, and "%.3g"):
+    one group, one text (and for format_value two groups, two texts); a value at a rounding tie is set apart."""
+    import numpy as np
+    from hydraulics.wording import format_value, printed_alike
+    rng = np.random.default_rng(3)
+    v = np.concatenate([10 ** rng.uniform(-4, 5, 20000),
+                        [0.0995, 0.09996, 0.99996, 1.0, 0.12345, 999.5, 1894.13, 1886.0, 1e-5, -0.25, 0.25]])
+    for whole_numbers, write in ((True, format_value), (False, lambda x: f"{x:.3g}")):
+        groups, clear = printed_alike(v, whole_numbers=whole_numbers)
+        texts = {}
+        for g, x in zip(groups[clear].tolist(), v[clear].tolist()):
+            assert texts.setdefault(g, write(x)) == write(x), x
+        if whole_numbers:   # two groups print differently ("%.3g" drops trailing zeros: 0.1 and 0.0999... meet)
+            assert len(set(texts.values())) == len(texts)
+        assert not clear[np.flatnonzero(v == 999.5)].any()        # a tie is written on its own

@@ -22,7 +22,7 @@ from .. import validate
 from ..constants import GAMMA_WATER
 from ..errors import InputError
 from ..provenance import cite
-from ..wording import in_units, worded
+from ..wording import in_units, printed_alike, worded
 from . import hec15
 
 __all__ = ["StoneRoughness", "VegetationRoughness", "FixedSlopeN", "EnergySlopeN", "STONE_METHODS", "SPLIT_BAND",
@@ -385,16 +385,11 @@ class StoneRoughness:
         some = np.flatnonzero(flag)
         if not len(some):
             return out
-        with np.errstate(divide="ignore", invalid="ignore"):
-            r = np.abs(ratio[some])
-            digits = np.where(r > 0, 2 - np.floor(np.log10(r)), 0.0)
-            scaled = r * 10.0 ** digits
-        whole = np.rint(scaled)
-        clear = np.isfinite(scaled) & (np.abs(scaled - whole) < 0.5 - 1e-9)
-        sizes, size_of = np.unique(d50[some], return_inverse=True)
-        # one number a group: size and notes (real), the printed da/D50 (imaginary: decimals and digits; a tie alone)
-        printed = np.where(clear, (digits + 30) * 2048.0 + whole, 1e9 + np.arange(len(some)))
-        key = (size_of.ravel() * 16.0 + flag[some]) + 1j * np.where(flag[some] > 1, printed, 0.0)
+        printed, clear = printed_alike(ratio[some], whole_numbers=False)   # as "%.3g" writes da/D50
+        printed = np.where(clear, printed, -1 - np.arange(len(some)))          # a tie alone
+        _, size_of = np.unique(d50[some], return_inverse=True)
+        # one number a group: size and notes (real part), the printed da/D50 where a note quotes it (imaginary)
+        key = (size_of.ravel() * 16.0 + flag[some]) + 1j * np.where(flag[some] > 1, printed, 0)
         _, first, which = np.unique(key, return_index=True, return_inverse=True)
         mark, frames, texts = "\x00", {}, []     # a group's sentence is filled once; only da/D50 is written each time
         for i, g in zip(some[first].tolist(), np.real(key[first]).tolist()):
