@@ -741,11 +741,13 @@ class _Chain:
                 y = np.interp(place, *guess)
             size = y.size
             zd = np.append(zu[1:], self.z[end])             # a piece's downstream end: the next piece's upstream end
+            below = np.empty((4, size))
+            below[:, -1] = known.energy, known.sf, known.de, known.dsf
             with np.errstate(all="ignore"):
                 for iteration in range(_CHAIN_NEWTON + 1):
                     e, sf, de, dsf, n = self.terms(c, y, powers)
-                    e_d, sf_d = np.append(e[1:], known.energy), np.append(sf[1:], known.sf)
-                    de_d, dsf_d = np.append(de[1:], known.de), np.append(dsf[1:], known.dsf)
+                    below[:, :-1] = e[1:], sf[1:], de[1:], dsf[1:]   # each piece's downstream end
+                    e_d, sf_d, de_d, dsf_d = below
                     resid = (zu + e - half * sf) - (zd + e_d + half * sf_d)
                     ok = np.abs(resid) <= HEAD_TOLERANCE
                     if ok.all() or iteration == _CHAIN_NEWTON:  # the pieces not met are refused below
@@ -778,9 +780,10 @@ class _Chain:
             refine = (ratio > _CHAIN_SHARE) & (half >= MIN_STEP) & (owner > last_bad)
             if not refine.any():
                 break
-            # into 2^m pieces, m from the cube law of the error (margin 0.9), 1 to 3, none shorter than MIN_STEP
+            # into 2^m pieces, m from the cube law of the error (margin 0.9) to within the share, 1 to 3, none shorter
+            # than MIN_STEP
             m = np.zeros(size)
-            m[refine] = np.clip(np.ceil(np.log2(ratio[refine]) / 3.0 + _LOG2_MARGIN), 1, 3)
+            m[refine] = np.clip(np.ceil(np.log2(ratio[refine] / _CHAIN_SHARE) / 3.0 + _LOG2_MARGIN), 1, 3)
             m = np.minimum(m, np.floor(np.log2(np.maximum(2.0 * half, MIN_STEP) / MIN_STEP)))
             count = (2 ** m).astype(int)
             guess = (np.append(place, steps.size), np.append(y, known.y))
