@@ -86,8 +86,8 @@ a step is taken once whole and once as two halves, and halved again while the tw
 
 Solving many steps at once
 --------------------------
-On the subcritical pass, a run of nodes whose sections are of the trapezoid family (open top) and whose n is
-constant or known in closed form is solved at once on arrays (``STEPS_ON_ARRAYS``): the energy balances of all its
+On the subcritical pass, a run of nodes whose sections are of the trapezoid family (open top), whose n is
+constant or known in closed form and whose grades are all steep or all not is solved at once on arrays (``STEPS_ON_ARRAYS``): the energy balances of all its
 steps, each tying a depth to the one below it, form a system whose Jacobian is upper bidiagonal; Newton's method
 on all the depths together (each correction from the triangular banded system, LAPACK's ``dtbtrs``; a depth that
 would fall to critical depth goes halfway down to it instead) meets every balance to HEAD_TOLERANCE. Information
@@ -665,7 +665,7 @@ class _Chain:
 
     Per node: its props' coefficients in arrays (trapezoid family, Manning's n constant or in closed form
     n = k R^e (A R^(2/3))^f, open top; ``able`` marks such nodes; ``first`` the first node of the run of able
-    nodes a node lies in)."""
+    nodes on grades of one kind a node lies in)."""
 
     def __init__(self, nodes):
         props = [nd.props for nd in nodes]
@@ -687,9 +687,13 @@ class _Chain:
         self.yn = table[:, 9]
         self.x = np.array([nd.x for nd in nodes])
         self.z = np.array([nd.z for nd in nodes])
-        # the first node of the run of able nodes each node belongs to
+        # the first node of the run of able nodes of one kind of grade (steep, or not) each node lies in: a chain
+        # ends where the grade turns steep or mild, where the subcritical profile most often ends at critical
+        # depth, so that a chain stopping short there costs no solve of the steps above it
+        yc, yn = coef[:, 8], table[:, 9]
+        kind = np.where(able, np.where(yn < yc, 2, 1), 0)   # nan yn (flat, adverse): not steep
         index = np.arange(count)
-        self.first = np.maximum.accumulate(np.where(able, 0, index + 1))
+        self.first = np.maximum.accumulate(np.where(np.r_[True, kind[1:] != kind[:-1]], index, 0))
 
     @staticmethod
     def terms(c, y, powers=True):

@@ -140,3 +140,20 @@ def test_the_array_path_agrees_with_an_integration_of_the_gvf_equation(case):
     error = np.abs(ws.depth - expected) / expected
     assert error.max() <= 0.005
     assert error.max() < 1e-3   # in fact much closer than the 0.5 % asked
+
+
+def test_alternating_grades_give_the_one_by_one_profile(monkeypatch):
+    """Ten grades alternating between mild (0.05 %) and steep (2 %), the flow rising at every point and a high
+    level at the outfall: the flow passes through critical depth at each break to steep and jumps on each mild
+    grade, so the subcritical profile ends at many places; both paths must find the same depths, controls and jumps."""
+    x = np.arange(0.0, 1000.0 + 1e-9, SPACING)
+    grades = np.where((x // 100.0) % 2 == 0, 0.0005, 0.02)
+    bed = 30.0 - np.concatenate([[0.0], np.cumsum(grades[:-1] * np.diff(x))])
+    flow = np.linspace(0.8, 1.6, x.size)
+    arrays, one = both_paths(monkeypatch, x, bed, SECTION, N, flow, outfall_level=bed[-1] + 1.2)
+    assert len(arrays.jumps) >= 4 and len(arrays.controls["critical_sections"]) >= 4
+    assert arrays.controls["critical_sections"] == one.controls["critical_sections"]
+    assert arrays.profile_type == one.profile_type
+    np.testing.assert_allclose(arrays.depth, one.depth, rtol=STEP_TOLERANCE, atol=0)
+    np.testing.assert_allclose(arrays.detail_depth, one.detail_depth, rtol=STEP_TOLERANCE, atol=0)
+    assert_same_jumps(arrays.jumps, one.jumps)
