@@ -84,6 +84,23 @@ the estimate has no value, and where one end of a step has no root on its branch
 a step is taken once whole and once as two halves, and halved again while the two differ by more than
 ``step_tolerance`` times the depth (down to MIN_STEP), the two-half answer kept.
 
+Solving many steps at once
+--------------------------
+On the subcritical pass, a run of nodes whose sections are of the trapezoid family (open top), whose n is
+constant or known in closed form and whose grades are all steep or all not is solved at once on arrays (``STEPS_ON_ARRAYS``): the energy balances of all its
+steps, each tying a depth to the one below it, form a system whose Jacobian is upper bidiagonal; Newton's method
+on all the depths together (each correction from the triangular banded system, LAPACK's ``dtbtrs``; a depth that
+would fall to critical depth goes halfway down to it instead) meets every balance to HEAD_TOLERANCE. Information
+runs upstream only, so the depths below any step are those of that step's own solve. The steps are then cut by
+the same error estimate as above: a piece whose estimate exceeds half the allowance is cut into 2, 4 or 8 even
+pieces (the cube law of the error, margin 0.9, none shorter than MIN_STEP) and the whole is solved again from the
+last answer, until every piece is within half the allowance (even pieces are not sized one after the other, so
+they are held to half the allowance: the profile then lies as close to the fine-step reference as with the steps
+taken one at a time, ``tests/test_water_surface_step_control.py``). Below the most downstream piece whose balance is
+not met on the subcritical branch, lies next to critical depth (1 - Fr^2 within NEAR_CRITICAL), has no error
+estimate or an n out of range, the answer is kept; from that step on the steps are taken one at a time as above
+(16 of them, then the arrays are tried again; twice as many each time they stop short at once).
+
 Controls and regimes
 --------------------
 The subcritical profile is computed upstream from the downstream control, the supercritical one downstream from
@@ -139,6 +156,7 @@ from dataclasses import dataclass, field
 from numbers import Real
 
 import numpy as np
+from scipy.linalg.lapack import dtbtrs
 
 from . import provenance, validate
 from .constants import G
@@ -632,6 +650,159 @@ def _halved(props, known, x0, z0, x1, z1, upstream, tol, new):
     return _advance(props, a, xm, zm, x1, z1, upstream, tol)
 
 
+# ------------------------------------------------------------------------------------------------ subcritical chain
+
+_CHAIN_NEWTON = 40      # Newton iterations of one chain solve
+_CHAIN_REFINE = 6       # rounds of refinement of a chain's steps
+_CHAIN_SHARE = 0.5      # of the allowed step error, within which a chain's pieces are kept
+_CHAIN_BACKOFF = 16     # node steps taken one at a time after a chain stopped short (doubled while it keeps failing)
+#: The subcritical pass solves runs of steps on arrays; False takes every step one at a time (tests compare the two).
+STEPS_ON_ARRAYS = True
+
+
+class _Chain:
+    """The subcritical pass's steps between nodes solved many at once (see "Solving many steps at once").
+
+    Per node: its props' coefficients in arrays (trapezoid family, Manning's n constant or in closed form
+    n = k R^e (A R^(2/3))^f, open top; ``able`` marks such nodes; ``first`` the first node of the run of able
+    nodes on grades of one kind a node lies in)."""
+
+    def __init__(self, nodes):
+        props = [nd.props for nd in nodes]
+        count = len(nodes)
+        rows, table = {}, []  # one row per distinct props (a run shares them between nodes)
+        for p in props:
+            if id(p) not in rows:
+                rows[id(p)] = len(table)
+                if p._trap is None or p.top is not None or (p.nconst is None and p.npow is None):
+                    table.append((math.nan,) * 10)
+                else:
+                    k, e, f = (p.nconst, 0.0, 0.0) if p.nconst is not None else p.npow
+                    table.append((*p._trap, p.flow, k, e, f, p.slope, p.yc, p.yn))
+        table = np.array(table)[[rows[id(p)] for p in props]]
+        coef = table[:, :9]  # b, zsum, psum, Q, k, e, f, S0, yc
+        able = ~np.isnan(coef[:, 0])
+        self.able = able
+        self.coef = coef
+        self.yn = table[:, 9]
+        self.x = np.array([nd.x for nd in nodes])
+        self.z = np.array([nd.z for nd in nodes])
+        # the first node of the run of able nodes of one kind of grade (steep, or not) each node lies in: a chain
+        # ends where the grade turns steep or mild, where the subcritical profile most often ends at critical
+        # depth, so that a chain stopping short there costs no solve of the steps above it
+        yc, yn = coef[:, 8], table[:, 9]
+        kind = np.where(able, np.where(yn < yc, 2, 1), 0)   # nan yn (flat, adverse): not steep
+        index = np.arange(count)
+        self.first = np.maximum.accumulate(np.where(np.r_[True, kind[1:] != kind[:-1]], index, 0))
+
+    @staticmethod
+    def terms(c, y, powers=True):
+        """head_terms of :class:`_Props` on arrays (the same formulas): E, S_f, dE/dy, dS_f/dy, n; ``powers``
+        False where every n is constant (e = f = 0)."""
+        b, zs, ps, q, k, e, f = c[0], c[1], c[2], c[3], c[4], c[5], c[6]
+        t = b + zs * y
+        a = (b + 0.5 * zs * y) * y
+        p = b + ps * y
+        r = a / p
+        conveyance = a * np.cbrt(r * r)
+        t_a, dp_p = t / a, ps / p
+        if powers:
+            n = k * np.exp(e * np.log(r) + f * np.log(conveyance))
+            dlogn2 = 2.0 * ((e + 2 / 3 * f) * (t_a - dp_p) + f * t_a)
+        else:
+            n, dlogn2 = k, 0.0
+        v2g = q * q / (2 * G * a * a)
+        sf = (q * n / conveyance) ** 2
+        return y + v2g, sf, 1 - 2 * v2g * t_a, sf * (dlogn2 - 10 / 3 * t_a + 4 / 3 * dp_p), n
+
+    def solve(self, end, known, tol):
+        """States of the nodes above node ``end`` (whose state ``known`` is), carried upstream from it over the run
+        of able nodes it lies below; returns the states of the nodes accepted, the most downstream last (a run of
+        nodes ending next to ``end``; empty where none is)."""
+        steps = np.arange(self.first[end - 1], end)          # node step s: from node s + 1 up to node s
+        x0, x1 = self.x[steps], self.x[steps + 1]
+        z0, z1 = self.z[steps], self.z[steps + 1]
+        length = x1 - x0
+        coef = self.coef[steps]
+        powers = bool(np.any(coef[:, 5:7] != 0.0))
+        # pieces: the node step each lies in, and its ends as fractions of the step from its upstream node
+        owner = np.arange(steps.size)
+        u0, u1 = np.zeros(steps.size), np.ones(steps.size)
+        guess = None
+        for _ in range(_CHAIN_REFINE):
+            share = u1 - u0
+            full = length[owner]
+            half = 0.5 * share * full
+            xu = x0[owner] + u0 * full
+            zu = z0[owner] + u0 * (z1 - z0)[owner]
+            c = coef[owner].T                                # a piece's props: its step's upstream node's
+            yc = c[8]
+            place = owner + u0                               # where along the steps, rising downstream
+            if guess is None:
+                yn = self.yn[steps[owner]]
+                y = np.maximum(np.where(np.isfinite(yn) & (yn > yc), yn, known.y), 1.05 * yc)
+            else:  # the last answer, linearly between its pieces' ends
+                y = np.interp(place, *guess)
+            size = y.size
+            zd = np.append(zu[1:], self.z[end])             # a piece's downstream end: the next piece's upstream end
+            below = np.empty((4, size))
+            below[:, -1] = known.energy, known.sf, known.de, known.dsf
+            with np.errstate(all="ignore"):
+                for iteration in range(_CHAIN_NEWTON + 1):
+                    e, sf, de, dsf, n = self.terms(c, y, powers)
+                    below[:, :-1] = e[1:], sf[1:], de[1:], dsf[1:]   # each piece's downstream end
+                    e_d, sf_d, de_d, dsf_d = below
+                    resid = (zu + e - half * sf) - (zd + e_d + half * sf_d)
+                    ok = np.abs(resid) <= HEAD_TOLERANCE
+                    if ok.all() or iteration == _CHAIN_NEWTON:  # the pieces not met are refused below
+                        break
+                    # Newton on all depths at once: the Jacobian is upper bidiagonal (a piece's balance ties its
+                    # two ends), so each depth's correction depends on those downstream of it alone
+                    ab = np.empty((2, size))
+                    ab[0, 0] = 0.0
+                    ab[0, 1:] = -(de_d[:-1] + half[:-1] * dsf_d[:-1])
+                    ab[1] = de - half * dsf
+                    delta, info = dtbtrs(ab, -resid, uplo="U")  # the banded triangular system, in LAPACK
+                    if info != 0:
+                        return []
+                    y_new = y + delta
+                    # on the subcritical branch: at most halfway down to critical depth at once
+                    y = np.where(y_new > yc, y_new, yc + 0.5 * (y - yc))
+                    y = np.where(np.isfinite(y), y, 1.05 * yc)
+                # a piece is good where its balance is met on the subcritical branch, away from critical depth
+                # (where the error estimate has no value), with n in range and its error estimated
+                good = ok & (y > yc) & (np.abs(de) > NEAR_CRITICAL) & (np.abs(de_d) > NEAR_CRITICAL) & (n > 0) & (n < 1)
+                s0, piece = c[7], 2.0 * half
+                change = dsf * (s0 - sf) / de - dsf_d * (s0 - sf_d) / de_d
+                error = np.abs(piece * piece / 12.0 * change / (de - half * dsf))
+                ratio = np.where(full > 0.0, error / (STEP_ERROR_SHARE * tol * y), 0.0)
+                good &= ratio >= 0.0                          # false for nan: no estimate
+            bad = np.flatnonzero(~good)
+            last_bad = int(owner[bad[-1]]) if bad.size else -1
+            # pieces are kept within half the allowance: even steps, not sized one after the other as the steps
+            # taken one at a time are, keep the profile as close to a fine-step reference that way
+            refine = (ratio > _CHAIN_SHARE) & (half >= MIN_STEP) & (owner > last_bad)
+            if not refine.any():
+                break
+            # into 2^m pieces, m from the cube law of the error (margin 0.9) to within the share, 1 to 3, none shorter
+            # than MIN_STEP
+            m = np.zeros(size)
+            m[refine] = np.clip(np.ceil(np.log2(ratio[refine] / _CHAIN_SHARE) / 3.0 + _LOG2_MARGIN), 1, 3)
+            m = np.minimum(m, np.floor(np.log2(np.maximum(2.0 * half, MIN_STEP) / MIN_STEP)))
+            count = (2 ** m).astype(int)
+            guess = (np.append(place, steps.size), np.append(y, known.y))
+            start = np.cumsum(count) - count
+            k = np.arange(count.sum()) - np.repeat(start, count)
+            sub = np.repeat(share / count, count)
+            owner, u0 = np.repeat(owner, count), np.repeat(u0, count) + k * sub
+            u1 = u0 + sub
+        else:  # still refining after the last round: only what lies below the pieces to refine is accepted
+            last_bad = max(last_bad, int(owner[np.flatnonzero(refine)[-1]]))
+        at_node = np.flatnonzero(u0 == 0.0)[last_bad + 1:]   # each step's first piece starts at its upstream node
+        return [_State(*v) for v in zip(y[at_node].tolist(), [_OK] * at_node.size, e[at_node].tolist(),
+                                         sf[at_node].tolist(), de[at_node].tolist(), dsf[at_node].tolist())]
+
+
 # ------------------------------------------------------------------------------------------------ results
 
 @dataclass(frozen=True)
@@ -954,12 +1125,25 @@ def _subcritical_pass(nodes, z_out, outfall, level, tol) -> _Downstream:
     sub[-1] = _state(last, start.y, start.status)
     hint = [0]
     stop_at = nodes[-1].x if start.status == _TOP else None
-    for k in range(len(nodes) - 2, -1, -1):
+    chain, alone, backoff = _Chain(nodes) if STEPS_ON_ARRAYS else None, 0, _CHAIN_BACKOFF
+    k = len(nodes) - 2
+    while k >= 0:
         a, b = nodes[k], nodes[k + 1]
         known = sub[k + 1]
         if known.status == _TOP:
             sub[k] = _State(math.nan, _TOP)
+            k -= 1
             continue
+        if STEPS_ON_ARRAYS and alone == 0 and known.status == _OK and chain.able[k] and known.y > b.props.yc:
+            states = chain.solve(k + 1, known, tol)
+            if states:
+                sub[k + 1 - len(states):k + 1] = states
+                k -= len(states)
+                backoff = _CHAIN_BACKOFF
+            if k >= 0 and chain.able[k]:  # stopped short: the next steps one at a time
+                alone, backoff = backoff, 2 * backoff if not states else backoff
+            continue
+        alone = max(0, alone - 1)
         if known.status == _CRIT:
             known = _state(b.props, b.props.yc, _CRIT)
         # Two nodes a step apart lie on one stretch and share its props; at a change at a point (a step of length
@@ -969,6 +1153,7 @@ def _subcritical_pass(nodes, z_out, outfall, level, tol) -> _Downstream:
         if s.status == _TOP and stop_at is None:
             stop_at = a.x
         sub[k] = s
+        k -= 1
     notes = []
     if stop_at is not None:
         notes.append(worded("the subcritical water surface rises above the top of the section at {at}: the profile "

@@ -3,7 +3,8 @@
 The fast path (hydraulics.water_surface with n given as a lining model at a fixed slope,
 hydraulics.linings.roughness.FixedSlopeN, as runs give it) takes a grass lining's n in closed form, n = k R^e,
 with its derivative in Newton's step, solves critical and normal depth of many stretches in one array call, and
-starts each step's Newton iteration from the known state. The reference gives the same n as plain functions of the
+starts each step's Newton iteration from the known state. Both take their steps one at a time here
+(STEPS_ON_ARRAYS off), so that they take the same steps. The reference gives the same n as plain functions of the
 depth (``lambda y: model.manning_n(section, y, slope)``, a constant as a function too): n evaluated by the model
 at every trial depth, and every normal and critical depth solved one at a time. Both are the standard step method
 with the same step control, so they must give the same profile up to the solver's own tolerances: each step's
@@ -31,6 +32,7 @@ import pytest
 import hydraulics as hy
 from hydraulics.linings import load_catalogue
 from hydraulics.linings.roughness import EnergySlopeN, FixedSlopeN, VegetationRoughness
+import hydraulics.water_surface as wsm
 from hydraulics.water_surface import water_surface
 
 STEP_TOLERANCE = 1e-4
@@ -99,7 +101,10 @@ def profile(case, lining, plain):
 
 @pytest.mark.parametrize("lining", ["grass", "grass at the energy slope", "stone", "concrete"])
 @pytest.mark.parametrize("case", ["M1", "M2", "S2"])
-def test_the_fast_path_gives_the_reference_profile(case, lining):
+def test_the_fast_path_gives_the_reference_profile(monkeypatch, case, lining):
+    # steps one at a time in both, so that both take the same steps (the steps solved many at once on arrays cut
+    # them otherwise: tests/test_water_surface_arrays.py holds that path to this one)
+    monkeypatch.setattr(wsm, "STEPS_ON_ARRAYS", False)
     fast, ref = profile(case, lining, plain=False), profile(case, lining, plain=True)
     assert case in fast.profile_type   # the case makes the curve it is named for
     assert fast.profile_type == ref.profile_type
