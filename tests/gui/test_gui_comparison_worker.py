@@ -43,7 +43,8 @@ def test_edits_are_compared_in_the_worker_and_the_last_table_stays_until_the_new
     before = [r.core.depth for r in view.rows]
     try:
         w.doc.edit("slope", 0.02, "Change bed slope")
-        qtbot.waitUntil(lambda: view.computer.running, timeout=10000)    # held in the worker
+        qtbot.waitUntil(lambda: view.computer.running, timeout=10000)
+        qtbot.waitUntil(lambda: held.slopes == [0.02], timeout=10000)    # held in the worker (once it has begun)
         assert held.threads and threading.get_ident() not in held.threads  # not on the window's thread
         assert [r.core.depth for r in view.rows] == before                 # the table shown stays meanwhile
         for slope in (0.021, 0.022):                                       # two more edits while it is held
