@@ -8,15 +8,18 @@ An edit usually changes only the numbers. Qt relays out the whole scrolling
 column (wrapped texts measured again, scroll bars repainted) for any label whose
 size may change, unless the label's size is fixed. So each value is a label of
 fixed size, resized to its text only when the new text does not fit or leaves
-much room. Wrapped texts are not held at a size: a held text kept the column
-wider than the view when the vertical scroll bar came.
+much room. A wrapped text (the verdict's reason, the cautions) sits in a
+:class:`WrappedText` box, which passes its label's change on to the column only
+when the new text needs another height at the box's width (or other size
+hints). Nothing is held at a size: a held text once kept the column wider than
+the view when the vertical scroll bar came.
 """
 
 from __future__ import annotations
 
 from functools import lru_cache
 
-from PySide6.QtCore import Qt
+from PySide6.QtCore import QEvent, Qt
 from PySide6.QtWidgets import QFrame, QGridLayout, QLabel, QScrollArea, QVBoxLayout, QWidget
 
 from hydraulics.provenance import NOT_VERIFIED_MARK, NOT_VERIFIED_TITLE
@@ -57,7 +60,7 @@ class ResultsPanel(QWidget):
         self.reason.setObjectName("verdictReason")
         self.reason.setWordWrap(True)
         vl.addWidget(self.headline)
-        vl.addWidget(self.reason)
+        vl.addWidget(WrappedText(self.reason))
         lay.addWidget(self.verdict)
 
         self.stale = QLabel()
@@ -101,7 +104,7 @@ class ResultsPanel(QWidget):
         self.warnings.setObjectName("warnings")
         self.warnings.setWordWrap(True)
         self.warnings.setTextFormat(Qt.TextFormat.RichText)
-        lay.addWidget(self.warnings)
+        lay.addWidget(WrappedText(self.warnings))
         # the one list of published values this result leans on that have not been read in the publication
         self.unverified_heading = QLabel(f"{NOT_VERIFIED_TITLE} ({NOT_VERIFIED_MARK})")
         self.unverified_heading.setObjectName("subheading")
@@ -113,7 +116,8 @@ class ResultsPanel(QWidget):
         self.unverified.setWordWrap(True)
         self.unverified.setTextFormat(Qt.TextFormat.RichText)
         self.unverified.setTextInteractionFlags(Qt.TextInteractionFlag.TextSelectableByMouse)
-        lay.addWidget(self.unverified)
+        self.unverified_box = WrappedText(self.unverified)
+        lay.addWidget(self.unverified_box)
         lay.addStretch(1)
         self.scroll.setWidget(body)
 
@@ -177,7 +181,7 @@ class ResultsPanel(QWidget):
         unverified = [in_units(line, units) for line in shown.not_verified] if shown is not None else []
         set_wrapped_text(self.unverified, f"<ul style='margin-left:-24px'>{''.join(f'<li>{_escape(u)}</li>' for u in unverified)}"
                                 "</ul>" if unverified else "")
-        self.unverified.setVisible(bool(unverified))
+        self.unverified_box.setVisible(bool(unverified))
         self.unverified_heading.setVisible(bool(unverified))
         self.unverified.setEnabled(usable)
         self.shown = shown
@@ -212,9 +216,61 @@ def set_value_text(label: QLabel, text: str) -> None:
 
 
 def set_wrapped_text(label: QLabel, text: str) -> None:
-    """Show ``text`` in the word-wrapped ``label`` (unchanged text asks for no relayout)."""
+    """Show ``text`` in the word-wrapped ``label`` (unchanged text asks for no relayout; in a :class:`WrappedText`,
+    a text of the same height neither)."""
     if text != label.text():
         label.setText(text)
+
+
+class WrappedText(QWidget):
+    """A box for one word-wrapped ``label`` that lets the column be laid out again only when the label's new text
+    needs it.
+
+    Qt lays the parent's layout out again after any new text of a label. This box has no layout: the label fills
+    it, and a new text reaches the box as a layout request, which it passes on only when the label's size hints
+    (its height at the box's width, its smallest and preferred sizes) have changed. The box reports the label's
+    own hints and takes whatever width the column gives it: no size is held.
+    """
+
+    def __init__(self, label: QLabel, parent=None):
+        super().__init__(parent)
+        self.label = label
+        label.setParent(self)
+        self.setSizePolicy(label.sizePolicy())       # word wrap: height for width
+        self._hints = None                          # the hints the column was last laid out with
+
+    def _measure(self):
+        label = self.label
+        return label.sizeHint(), label.minimumSizeHint(), label.heightForWidth(self.width())
+
+    def hasHeightForWidth(self) -> bool:
+        return self.label.hasHeightForWidth()
+
+    def heightForWidth(self, width: int) -> int:
+        return self.label.heightForWidth(width)
+
+    def sizeHint(self):
+        return self.label.sizeHint()
+
+    def minimumSizeHint(self):
+        return self.label.minimumSizeHint()
+
+    def resizeEvent(self, event) -> None:
+        self.label.setGeometry(self.rect())
+        self._hints = self._measure()               # what the column has just laid the box out with
+
+    def showEvent(self, event) -> None:
+        super().showEvent(event)
+        self._hints = self._measure()               # changed while hidden: the column asks again when shown
+
+    def event(self, event) -> bool:
+        if event.type() == QEvent.Type.LayoutRequest:
+            hints = self._measure()
+            if hints != self._hints:
+                self._hints = hints
+                self.updateGeometry()               # another size: the column is laid out again
+            return True
+        return super().event(event)
 
 
 # the same texts come again edit after edit (a value that did not change at its rounding, a caution): each is

@@ -73,3 +73,33 @@ def test_an_edit_that_changes_only_numbers_does_not_lay_the_panel_out(demo_windo
     for key, label in w.results.values.items():                           # and each is shown whole
         if label.isVisible():
             assert label.width() >= label.sizeHint().width(), key
+
+
+def test_a_wrapped_text_lays_the_column_out_only_when_its_height_changes(qtbot):
+    """A new text of the same height in a WrappedText box asks the column for no layout; a text that needs another
+    height does, and the label shows each text whole at the column's width (no width is held)."""
+    column = QWidget()
+    qtbot.addWidget(column)
+    column.resize(300, 400)
+    label = QLabel("Stable: 40.1 Pa against 84.4 Pa permissible.")
+    label.setWordWrap(True)
+    box = rv.WrappedText(label)
+    lay = QVBoxLayout(column)
+    lay.addWidget(box)
+    lay.addStretch(1)
+    column.show()
+    qtbot.waitExposed(column)
+    requests = LayoutRequests(column)
+    qtbot.wait(20)
+    requests.count = 0
+    rv.set_wrapped_text(label, "Stable: 40.0 Pa against 84.4 Pa permissible.")      # same height
+    qtbot.wait(20)
+    assert requests.count == 0 and label.text().startswith("Stable: 40.0")
+    height = box.height()
+    rv.set_wrapped_text(label, " ".join(["A much longer reason that needs more lines."] * 8))
+    qtbot.wait(20)
+    assert requests.count >= 1 and box.height() > height
+    assert box.height() >= label.heightForWidth(box.width()) and label.width() == box.width() <= column.width()
+    column.resize(200, 400)                                                        # narrower: follows, wraps more
+    qtbot.wait(20)
+    assert box.width() <= 200 and box.height() >= label.heightForWidth(box.width())
