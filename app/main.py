@@ -46,7 +46,11 @@ def _command_named(argv) -> str:
 
 def main(argv=None) -> int:
     argv = sys.argv[1:] if argv is None else list(argv)
-    parser = build_parser(_command_named(argv))
+    command = _command_named(argv)
+    if command == "batch":   # before its modules start threads (see the function)
+        from .cli.heap import one_malloc_arena
+        one_malloc_arena()
+    parser = build_parser(command)
     args = parser.parse_args(argv)
     if args.screenshot is not None:
         if args.command is not None or len(args.screenshot) > 2:

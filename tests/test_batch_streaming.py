@@ -171,3 +171,26 @@ def test_the_command_reports_rows_a_second_and_the_same_file(tmp_path, capsys, m
     assert (tmp_path / "out.csv").read_bytes() == (tmp_path / "whole.csv").read_bytes()
     assert "120 reaches in" in out.out and " rows a second)" in out.out
     assert f"{source}:7 (id 'M5'): invalid: flow" in out.err
+
+
+def test_the_batch_command_asks_for_one_heap_before_its_imports(tmp_path, monkeypatch):
+    """`ditchwright batch` asks for one malloc heap for all its threads (app.cli.heap), other commands do not;
+    on Linux with glibc the C library takes it (mallopt returns 1 on success, as glibc's own test
+    malloc/tst-mallopt.c checks it)."""
+    import os
+    import sys
+
+    from app.cli import heap
+
+    asked = []
+    monkeypatch.setattr(heap, "one_malloc_arena", lambda: asked.append(True) or True)
+    source = tmp_path / "inv.csv"
+    write_csv(source, mixed_rows(40))
+    main(["batch", str(source), "-o", str(tmp_path / "out.csv"), "--no-progress"])
+    assert asked == [True]
+    main(["calc", "--units", "si", "--bottom-width", "0.6", "--side-slope", "3", "--slope", "0.01", "--flow", "0.2",
+          "--n", "0.015"])
+    assert asked == [True]
+    monkeypatch.undo()
+    glibc = sys.platform.startswith("linux") and (os.confstr("CS_GNU_LIBC_VERSION") or "").startswith("glibc")
+    assert heap.one_malloc_arena() is glibc

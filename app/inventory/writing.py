@@ -79,7 +79,7 @@ def _results_pieces(inventory: Inventory, result: mr.BatchResult) -> list:
     workers = _workers()
     with ThreadPoolExecutor(workers) if workers > 1 else nullcontext() as pool:
         pending = format_rows_parallel(_number_table(inventory, result), DIGITS, comma_after_last=True, pool=pool,
-                                       parts=workers)
+                                       parts=4 * workers)
         reasons = result.reason.tolist()
         verdicts = result.verdict.tolist()
         modules = reading.pyarrow_modules()
