@@ -429,8 +429,8 @@ class _TrapezoidTable:
         i = x.astype(np.intp)
         np.clip(i, 0, len(self.table) - 1, out=i)
         x -= i
-        x *= self.rise[i]
-        x += self.table[i]
+        x *= np.take(self.rise, i)     # np.take: the same gather as indexing, in about half the time
+        x += np.take(self.table, i)
         return np.exp(x, out=x)
 
 

@@ -34,7 +34,7 @@ import numpy as np
 from . import validate
 from .constants import G, K_MANNING_SI
 from .errors import ConvergenceError, InputError, NoSolutionError
-from .sections import Section
+from .sections import Section, Trapezoid
 
 #: Relative flow residual that every returned depth meets (|Q(y) - Q| / Q).
 FLOW_TOLERANCE = 1e-10
@@ -122,6 +122,52 @@ def _log_section_factor_slope(y, state):
     inv_p *= g.dP_dy
     inv_p *= 2 / 3
     slope -= inv_p
+    slope *= y
+    return slope
+
+
+def _trapezoid_residual(section, target):
+    """g(y) = ln(A^(5/3) P^(-2/3)) - ``target`` and dg/d ln y of one trapezoid (rectangle, triangle) at a float
+    depth: :func:`_log_section_factor` with ``Trapezoid._geometry``'s formulas written out, the same operations
+    in the same order (so the same floats), without a Geometry made per step (a single solve's hot loop)."""
+    b, zs, ps = section.bottom_width, section._zsum, section._psum
+    log = math.log
+
+    def evaluate(y):
+        a, p = (b + 0.5 * zs * y) * y, b + ps * y
+        return 5 / 3 * log(a) - 2 / 3 * log(p) - target, y * (5 / 3 * (b + zs * y) / a - 2 / 3 * ps / p)
+    return evaluate
+
+
+def _trapezoid_value(section, y):
+    """:func:`_log_section_factor_value` for a trapezoid (rectangle, triangle) of float dimensions: A and P
+    from their formulas written out (A = (b + zs y / 2) y, P = b + ps y; no top width until a slope is asked
+    for), A^5 / P^2 divided rather than multiplied by 1/P: fewer passes over the arrays."""
+    b, zs, ps = section.bottom_width, section._zsum, section._psum
+    a = np.multiply(y, 0.5 * zs)
+    a += b
+    a *= y
+    p = np.multiply(y, ps)
+    p += b
+    geo = a * a
+    geo *= geo
+    geo *= a
+    geo /= p
+    geo /= p
+    np.log(geo, out=geo)
+    geo *= 1 / 3
+    return geo, (section, a, p)
+
+
+def _trapezoid_slope(y, state):
+    """:func:`_log_section_factor_slope` for the state of :func:`_trapezoid_value`: y (5/3 T/A - 2/3 P'/P)."""
+    section, a, p = state
+    slope = np.multiply(y, section._zsum)
+    slope += section.bottom_width
+    slope /= a
+    slope *= 5 / 3
+    np.divide(section._psum * (2 / 3), p, out=p)
+    slope -= p
     slope *= y
     return slope
 
@@ -310,14 +356,17 @@ def _broadcast(section, *values):
     return tuple(np.broadcast_to(np.asarray(v, dtype=float), shape) for v in values), shape  # read-only views
 
 
-def _log_flow_over_root_slope(q, s):
-    """ln(Q / sqrt(S)) on arrays: one logarithm of the quotient where it is a normal float (the usual case),
-    else the difference of two logarithms, which keeps its digits for subnormal or overflowing quotients."""
+def _log_flow_over_root_slope(q, s, n=None):
+    """ln(Q / sqrt(S)), or ln(Q n / sqrt(S)) with ``n``, on arrays: one logarithm of the quotient where it is a
+    normal float (the usual case), else a sum of logarithms, which keeps its digits for subnormal or overflowing
+    quotients."""
     ratio = np.sqrt(s)
     np.divide(q, ratio, out=ratio)
+    if n is not None:
+        ratio *= n
     if ratio.size and np.finfo(float).tiny <= ratio.min() and ratio.max() < math.inf:
         return np.log(ratio, out=ratio)
-    return np.log(q) - 0.5 * np.log(s)
+    return np.log(q) - 0.5 * np.log(s) + (0.0 if n is None else np.log(n))
 
 
 def _describe_limit(section):
@@ -340,12 +389,20 @@ def solve_normal_depth(section, flow, slope, n=None) -> DepthSolution:
         (q, s), shape = _broadcast(section, q, s)
     scalar = shape is None
     log = math.log if scalar else np.log
-    target = (log(q) - 0.5 * log(s) if scalar else _log_flow_over_root_slope(q, s)) - math.log(K_MANNING_SI)
+    # ln(Q / sqrt(S)) less ln k; with a constant n, ln(Q n / sqrt(S)) less ln k (n folded in once, outside the loop)
+    n_in = rough[1] if rough[0] == "constant" else None
+    if scalar:
+        target = log(q) - 0.5 * log(s) - math.log(K_MANNING_SI)
+        if n_in is not None:
+            target = target + log(n_in)
+    else:
+        target = _log_flow_over_root_slope(q, s, n_in) - math.log(K_MANNING_SI)
 
     cap = section.capacity_depth
     if cap is not None:
         cap_y = cap if scalar else np.broadcast_to(np.asarray(cap, dtype=float), shape)
-        g_cap = _log_conveyance(section, rough, cap_y, s, scalar)[0] - target
+        g_cap = (_log_section_factor(section, cap_y, scalar) if n_in is not None else
+                 _log_conveyance(section, rough, cap_y, s, scalar))[0] - target
         if np.any(np.asarray(g_cap) < 0):
             over = np.asarray(g_cap) < 0
             qmax = np.exp(np.asarray(g_cap) + np.log(np.asarray(q)))
@@ -355,11 +412,10 @@ def solve_normal_depth(section, flow, slope, n=None) -> DepthSolution:
             raise NoSolutionError(f"flow {qi:g} m^3/s{where} exceeds {qm:g} m^3/s, {_describe_limit(section)}")
         hi = cap_y * (1 + 1e-12)
     else:
-        hi = math.inf if scalar else np.full(shape, np.inf)
-    lo = 0.0 if scalar else np.zeros(shape)
+        hi = math.inf   # an open section: no upper bound (broadcast by the array iteration where it needs one)
+    lo = 0.0
 
     if rough[0] == "constant":
-        target = target + log(rough[1])  # ln(Q n / sqrt(S)): ln n folded in once, outside the loop
         y0 = section._depth_guess(target) if scalar else section._depth_start(target)
     else:  # a model's n is guessed as 0.03 for the start
         y0 = section._depth_guess(target + math.log(0.03))
@@ -367,7 +423,9 @@ def solve_normal_depth(section, flow, slope, n=None) -> DepthSolution:
         y0 = np.array(np.broadcast_to(y0, shape), dtype=float)  # one writeable array of the full shape
 
     split = None
-    if rough[0] == "constant":
+    if rough[0] == "constant" and scalar and isinstance(section, Trapezoid):
+        evaluate = _trapezoid_residual(section, target)
+    elif rough[0] == "constant":
 
         def evaluate(y):
             geo, dgeo = _log_section_factor(section, y, scalar)
@@ -382,6 +440,14 @@ def solve_normal_depth(section, flow, slope, n=None) -> DepthSolution:
             return geo, state
 
         split = (value, _log_section_factor_slope)
+        if isinstance(section, Trapezoid) and not section.is_vector:
+
+            def value(y):
+                geo, state = _trapezoid_value(section, y)
+                geo -= target
+                return geo, state
+
+            split = (value, _trapezoid_slope)
     else:
         def evaluate(y, at=None):
             """g and g' at ``y``; with ``at`` (indices), ``y`` holds the depths of those elements only."""

@@ -321,3 +321,34 @@ def test_many_flows_in_one_trapezoid_start_from_its_table(b, z1, z2):
     alone = np.array([hy.normal_depth(section, qi, 0.004, 0.025) for qi in q.tolist()])
     np.testing.assert_allclose(y, alone, rtol=1e-11)
     np.testing.assert_allclose(hy.flow_at_depth(section, y, s, n), q, rtol=1e-10)
+
+
+@pytest.mark.parametrize("section", [hy.Trapezoid(bottom_width=1.2, side_slope=3.0),
+                                     hy.Trapezoid(bottom_width=0.3, left_slope=0.5, right_slope=6.0),
+                                     hy.Rectangle(bottom_width=2.5), hy.Triangle(side_slope=4.0),
+                                     hy.Trapezoid(bottom_width=40.0, side_slope=0.05)])
+def test_a_single_trapezoid_solve_takes_the_same_steps_as_the_general_one(section):
+    """The trapezoid family's solves evaluate ln(A^(5/3) P^(-2/3)) and its slope with the section's formulas
+    written out: the single solve (hydraulics.solvers._trapezoid_residual) the same floats as the general
+    evaluation at every depth, the array solve (_trapezoid_value, _trapezoid_slope) the same to rounding; so a
+    depth alone and among many agree within the solve's tolerance, over flows from a trickle to a flood, each
+    carrying its flow by Manning's equation (Chow 1959, Eq. 5-6) to 1e-10."""
+    from hydraulics import solvers
+
+    target = 1.7
+    fast = solvers._trapezoid_residual(section, target)
+    for y in np.geomspace(1e-6, 50.0, 400).tolist():
+        g, slope = solvers._log_section_factor(section, y, True)
+        assert fast(y) == (g - target, slope)
+    depths = np.geomspace(1e-6, 50.0, 400)
+    value, state = solvers._trapezoid_value(section, depths)      # the array solve's own written-out formulas
+    general, general_state = solvers._log_section_factor_value(section, depths)
+    np.testing.assert_allclose(value, general, rtol=1e-13, atol=1e-13)
+    np.testing.assert_allclose(solvers._trapezoid_slope(depths, state),
+                               solvers._log_section_factor_slope(depths, general_state), rtol=1e-13)
+    flows = np.geomspace(1e-5, 5e3, 60)
+    for s, n in ((1e-5, 0.012), (0.004, 0.035), (0.6, 0.2)):
+        together = hy.normal_depth(section, flows, s, n)
+        alone = np.array([hy.normal_depth(section, float(q), s, n) for q in flows])
+        np.testing.assert_allclose(alone, together, rtol=1e-9)
+        np.testing.assert_allclose(hy.flow_at_depth(section, alone, s, n), flows, rtol=1e-10)
