@@ -48,8 +48,8 @@ def main(argv=None) -> int:
     argv = sys.argv[1:] if argv is None else list(argv)
     command = _command_named(argv)
     if command == "batch":   # before its modules start threads (see the function)
-        from .cli.heap import one_malloc_arena
-        one_malloc_arena()
+        from .cli.heap import share_one_heap
+        share_one_heap()
     parser = build_parser(command)
     args = parser.parse_args(argv)
     if args.screenshot is not None:

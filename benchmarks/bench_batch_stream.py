@@ -33,8 +33,8 @@ HEADER = ["id", "shape", "bottom_width", "left_slope", "right_slope", "diameter"
 
 BATCH = """
 import json, resource, sys, time
-from app.cli.heap import one_malloc_arena
-one_malloc_arena()  # as `ditchwright batch` asks at its start, before the imports below
+from app.cli.heap import share_one_heap
+share_one_heap()  # as `ditchwright batch` asks at its start, before the imports below
 from app.main import main
 import app.cli.inventory_command, app.inventory, pyarrow.csv  # imports outside the timing
 src, dst = sys.argv[1:3]

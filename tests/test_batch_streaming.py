@@ -174,8 +174,8 @@ def test_the_command_reports_rows_a_second_and_the_same_file(tmp_path, capsys, m
 
 
 def test_the_batch_command_asks_for_one_heap_before_its_imports(tmp_path, monkeypatch):
-    """`ditchwright batch` asks for one malloc heap for all its threads (app.cli.heap), other commands do not;
-    on Linux with glibc the C library takes it (mallopt returns 1 on success, as glibc's own test
+    """`ditchwright batch` asks for one heap for all its threads and pyarrow's buffers (app.cli.heap), other
+    commands do not; on Linux with glibc the C library takes it (mallopt returns 1 on success, as glibc's own test
     malloc/tst-mallopt.c checks it)."""
     import os
     import sys
@@ -183,7 +183,7 @@ def test_the_batch_command_asks_for_one_heap_before_its_imports(tmp_path, monkey
     from app.cli import heap
 
     asked = []
-    monkeypatch.setattr(heap, "one_malloc_arena", lambda: asked.append(True) or True)
+    monkeypatch.setattr(heap, "share_one_heap", lambda: asked.append(True) or True)
     source = tmp_path / "inv.csv"
     write_csv(source, mixed_rows(40))
     main(["batch", str(source), "-o", str(tmp_path / "out.csv"), "--no-progress"])
@@ -193,4 +193,13 @@ def test_the_batch_command_asks_for_one_heap_before_its_imports(tmp_path, monkey
     assert asked == [True]
     monkeypatch.undo()
     glibc = sys.platform.startswith("linux") and (os.confstr("CS_GNU_LIBC_VERSION") or "").startswith("glibc")
-    assert heap.one_malloc_arena() is glibc
+    before = os.environ.pop("ARROW_DEFAULT_MEMORY_POOL", None)
+    try:
+        assert heap.share_one_heap() is glibc
+        # pyarrow's buffers from the C heap too ("system": pyarrow.system_memory_pool, "a memory pool based on the
+        # C malloc heap", as the Arrow documentation names it), read by pyarrow when it is loaded
+        assert os.environ.get("ARROW_DEFAULT_MEMORY_POOL") == ("system" if glibc else None)
+    finally:
+        os.environ.pop("ARROW_DEFAULT_MEMORY_POOL", None)
+        if before is not None:
+            os.environ["ARROW_DEFAULT_MEMORY_POOL"] = before

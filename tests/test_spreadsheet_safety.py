@@ -7,6 +7,7 @@ leading apostrophe it is shown as text. Numbers, negative ones included, stay nu
 import csv
 import io
 
+import numpy as np
 import pytest
 
 from app import inventory as ai
@@ -135,3 +136,20 @@ def test_a_formula_like_name_in_a_dxf_drawing_is_plain_text(trigger):
         holding = [t for t in texts if name in t]
         assert holding, texts
         assert len(doc.objects.query("FIELD")) == 0
+
+
+@pytest.mark.parametrize("quote", [True, False])
+def test_result_cells_made_by_pyarrow_are_those_of_the_python_rules(quote):
+    """The results writer's cells (reason, verdict), made and quoted by pyarrow's compute functions, are each text
+    as spreadsheet_safe and CSV quoting make it (RFC 4180, Section 2, rules 6 and 7: a field with a comma, quote
+    or line break in quotes, a quote in it doubled), repeated texts included, formula-like ones too."""
+    pa = pytest.importorskip("pyarrow")
+    from app.inventory import writing
+
+    texts = ["stable, bed: 1.2 Pa", "plain", 'a "quoted" word', "two\nlines", "cr\ronly", "", "-1.5", "-2+3",
+             *PAYLOADS.values(), "stable, bed: 1.2 Pa", "plain", "=SUM(A1), again"]
+    values = np.empty(len(texts), dtype=object)
+    values[:] = texts
+    got = writing._cells(pa, values, "\n", quote=quote).cast(pa.large_string()).to_pylist()
+    make = (lambda t: writing._quote_field(spreadsheet_safe(t))) if quote else spreadsheet_safe
+    assert got == [make(t) + "\n" for t in texts]

@@ -1,7 +1,8 @@
-"""One heap for every thread of a batch process (glibc), set before the batch's imports start any thread."""
+"""One heap for all the memory of a batch process (glibc), set before the batch's imports start any thread."""
 
 from __future__ import annotations
 
+import os
 import platform
 import sys
 
@@ -10,21 +11,27 @@ import sys
 _M_ARENA_MAX = -8
 
 
-def one_malloc_arena() -> bool:
-    """Ask the C library for one heap for every thread of this process (glibc's ``mallopt(M_ARENA_MAX, 1)``);
-    True where it was taken (mallopt returns 1), False elsewhere (not Linux with glibc), where nothing is done.
+def share_one_heap() -> bool:
+    """Ask the C library for one heap for every thread of this process (glibc's ``mallopt(M_ARENA_MAX, 1)``) and
+    pyarrow to take its buffers from that heap too (``ARROW_DEFAULT_MEMORY_POOL=system``, read when pyarrow is
+    loaded, unless the user has set it); True where the C library took it (mallopt returns 1), False elsewhere (not
+    Linux with glibc), where nothing is done.
 
     The batch reads and checks one block while a worker thread writes the one before. With a heap per thread
-    (glibc's default) the memory freed by each block stays spread over several heaps, and the peak resident
-    memory of a 5,000,000-reach run was about 60 MB higher; the speed was the same within the noise
-    (benchmarks/bench_batch_stream.py). It has to be asked for before numpy and pyarrow start their own threads,
-    so :func:`app.main.main` asks before the batch command's modules are imported. Nothing computed changes.
+    (glibc's default) and pyarrow's own allocator, the memory each block frees stays spread over several heaps:
+    the peak resident memory of a 5,000,000-reach run was about 60 MB higher with a heap per thread, and about
+    90 MB higher with pyarrow's own allocator; the speed was the same within the noise
+    (benchmarks/bench_batch_stream.py). It has to be asked for before numpy and pyarrow are loaded, so
+    :func:`app.main.main` asks before the batch command's modules are imported. Nothing computed changes.
     """
     if not sys.platform.startswith("linux") or platform.libc_ver()[0] != "glibc":
         return False
     import ctypes
 
     try:
-        return bool(ctypes.CDLL(None).mallopt(_M_ARENA_MAX, 1))
+        taken = bool(ctypes.CDLL(None).mallopt(_M_ARENA_MAX, 1))
     except (OSError, AttributeError):
         return False
+    if taken:
+        os.environ.setdefault("ARROW_DEFAULT_MEMORY_POOL", "system")
+    return taken

@@ -80,10 +80,10 @@ def _results_pieces(inventory: Inventory, result: mr.BatchResult) -> list:
     with ThreadPoolExecutor(workers) if workers > 1 else nullcontext() as pool:
         pending = format_rows_parallel(_number_table(inventory, result), DIGITS, comma_after_last=True, pool=pool,
                                        parts=4 * workers)
-        reasons = result.reason.tolist()
-        verdicts = result.verdict.tolist()
         modules = reading.pyarrow_modules()
         if modules is None or not size:
+            reasons = result.reason.tolist()
+            verdicts = result.verdict.tolist()
             quoted = {r: _quote_field(spreadsheet_safe(r)) + "\n" for r in set(reasons)}
             parts = [""] * (5 * size)
             rows = written_rows(inventory)[0]
@@ -95,7 +95,8 @@ def _results_pieces(inventory: Inventory, result: mr.BatchResult) -> list:
             return [head, "".join(parts).encode("utf-8")]
         pa = modules[0]
         rows = _row_array(pa, inventory)
-        verdict_texts, reason_texts = _verdict_texts(pa, verdicts), _reason_texts(pa, reasons)
+        verdict_texts = _cells(pa, result.verdict, ",", quote=False)
+        reason_texts = _cells(pa, result.reason, "\n", quote=True)
         numbers = pending.result()
     return [head, _joined_lines(pa, rows, numbers, verdict_texts, reason_texts)]
 
@@ -190,21 +191,28 @@ def _joined_lines(pa, rows, numbers, verdict_texts, reason_texts) -> memoryview:
     return memoryview(lines.buffers()[2])[offsets[0]:offsets[-1]]
 
 
-def _verdict_texts(pa, verdicts: list):
-    return _coded(pa, verdicts, lambda v: v + ",")
+def _cells(pa, values: np.ndarray, end: str, quote: bool):
+    """The text cells ``values`` (an object array of str) as written, each followed by ``end``: a pyarrow dictionary
+    array, each distinct text made once. A cell a spreadsheet would run as a formula gets its apostrophe
+    (:func:`app.files.spreadsheet_safe`); with ``quote``, one with a comma, a quote or a line break is quoted as CSV
+    quotes it (:func:`_quote_field`).
 
+    The distinct texts are found and quoted by pyarrow's compute functions, in C++ and mostly without the
+    interpreter lock, so that the writer's thread leaves the lock to the check of the next block."""
+    import pyarrow.compute as pc
 
-def _reason_texts(pa, reasons: list):
-    return _coded(pa, reasons, lambda r: _quote_field(spreadsheet_safe(r)) + "\n")
-
-
-def _coded(pa, values: list, text_of):
-    """A pyarrow dictionary array of ``text_of(v)`` for each of ``values``, each distinct text made once."""
-    distinct = list(dict.fromkeys(values))
-    code = {v: i for i, v in enumerate(distinct)}
-    indices = np.fromiter(map(code.__getitem__, values), dtype=np.int32, count=len(values))
-    texts = pa.array([text_of(v) for v in distinct], type=pa.large_string())
-    return pa.DictionaryArray.from_arrays(pa.array(indices), texts)
+    text = pa.large_string()
+    coded = pc.dictionary_encode(pa.array(values, type=text))
+    cells = coded.dictionary
+    risky = pc.match_substring_regex(cells, "^[" + "".join(sorted(FORMULA_STARTS)).replace("-", "\\-") + "]")
+    if pc.any(risky).as_py():   # rare (results texts start with words): the few that do, one by one
+        cells = pa.array([spreadsheet_safe(c) for c in cells.to_pylist()], type=text)
+    if quote:
+        mark, none = pa.scalar('"', type=text), pa.scalar("", type=text)
+        quoted = pc.binary_join_element_wise(mark, pc.replace_substring(cells, '"', '""'), mark, none)
+        cells = pc.if_else(pc.match_substring_regex(cells, '[,"\n\r]'), quoted, cells)
+    cells = pc.binary_join_element_wise(cells, pa.scalar(end, type=text), pa.scalar("", type=text))
+    return pa.DictionaryArray.from_arrays(coded.indices, cells)
 
 
 def write_results(path, inventory: Inventory, result: mr.BatchResult) -> None:
