@@ -41,6 +41,7 @@ from dataclasses import dataclass, field
 import numpy as np
 
 from . import provenance
+from .collector import collector_held
 from .ditch_run import ranges_of, stretches
 from .errors import HydraulicsError
 from .freeboard import ditch_tops
@@ -164,6 +165,7 @@ def _roughness_at(result, rows, flow) -> list:
     return out
 
 
+@collector_held()
 def run_water_surface(result, *, max_step: float = 10.0, step_tolerance: float = 1e-4) -> RunWaterSurface:
     """The water surface along the solved run ``result`` (a :class:`hydraulics.ditch_run.RunResult`) and the fit
     of the ditch against it; see the module's text. ``max_step`` [m] and ``step_tolerance`` [-] are passed to

@@ -86,20 +86,25 @@ a step is taken once whole and once as two halves, and halved again while the tw
 
 Solving many steps at once
 --------------------------
-On the subcritical pass, a run of nodes whose sections are of the trapezoid family (open top), whose n is
-constant or known in closed form and whose grades are all steep or all not is solved at once on arrays (``STEPS_ON_ARRAYS``): the energy balances of all its
-steps, each tying a depth to the one below it, form a system whose Jacobian is upper bidiagonal; Newton's method
-on all the depths together (each correction from the triangular banded system, LAPACK's ``dtbtrs``; a depth that
-would fall to critical depth goes halfway down to it instead) meets every balance to HEAD_TOLERANCE. Information
-runs upstream only, so the depths below any step are those of that step's own solve. The steps are then cut by
-the same error estimate as above: a piece whose estimate exceeds half the allowance is cut into 2, 4 or 8 even
-pieces (the cube law of the error, margin 0.9, none shorter than MIN_STEP) and the whole is solved again from the
-last answer, until every piece is within half the allowance (even pieces are not sized one after the other, so
-they are held to half the allowance: the profile then lies as close to the fine-step reference as with the steps
-taken one at a time, ``tests/test_water_surface_step_control.py``). Below the most downstream piece whose balance is
-not met on the subcritical branch, lies next to critical depth (1 - Fr^2 within NEAR_CRITICAL), has no error
-estimate or an n out of range, the answer is kept; from that step on the steps are taken one at a time as above
-(16 of them, then the arrays are tried again; twice as many each time they stop short at once).
+On the subcritical pass, a run of nodes whose sections are of the trapezoid family (open top), whose n is constant
+or known in closed form and whose grades are all steep or all not is solved at once on arrays (``STEPS_ON_ARRAYS``):
+the energy balances of all its steps, each tying a depth to the one below it, form a system whose Jacobian is upper
+bidiagonal; Newton's method on all the depths together (each correction from the triangular banded system, LAPACK's
+``dtbtrs``; a depth that would fall to critical depth goes halfway down to it instead) meets every balance to
+HEAD_TOLERANCE. Information runs upstream only, so the depths below any step are those of that step's own solve. The
+steps are then cut by the same error estimate as above: a piece whose estimate exceeds half the allowance is cut
+into 2, 4 or 8 even pieces (the cube law of the error, margin 0.9, none shorter than MIN_STEP) and the whole is
+solved again from the last answer (linearly between its pieces' ends), until every piece is within half the
+allowance (even pieces are not sized one after the other, so they are held to half the allowance: the profile then
+lies as close to the fine-step reference as with the steps taken one at a time,
+``tests/test_water_surface_step_control.py``). A round that is cut again meets its balances to _CHAIN_LOOSE (1e-5 m
+of head) only, since its depths serve the error estimate alone; the last round meets them to HEAD_TOLERANCE and is
+checked again. Each Newton iteration solves only the pieces upstream of the most downstream one whose balance is not
+met (those below it keep their depths). Below the most downstream piece whose balance is not met on the subcritical
+branch, lies next to critical depth (1 - Fr^2 within NEAR_CRITICAL), has no error estimate or an n out of range, the
+answer is kept; from that step on the steps are taken one at a time as above (16 of them, then the arrays are tried
+again; twice as many each time they stop short at once). Python's cyclic garbage collector is held while a profile
+is computed (:mod:`hydraulics.collector`).
 
 Controls and regimes
 --------------------
@@ -159,6 +164,7 @@ import numpy as np
 from scipy.linalg.lapack import dtbtrs
 
 from . import provenance, validate
+from .collector import collector_held
 from .constants import G
 from .errors import ConvergenceError, HydraulicsError, InputError, NoSolutionError
 from .sections import Section, Trapezoid
@@ -654,6 +660,7 @@ def _halved(props, known, x0, z0, x1, z1, upstream, tol, new):
 
 _CHAIN_NEWTON = 40      # Newton iterations of one chain solve
 _CHAIN_REFINE = 6       # rounds of refinement of a chain's steps
+_CHAIN_LOOSE = 1e-5     # head [m] to which a round's balances are met while its pieces are still being cut
 _CHAIN_SHARE = 0.5      # of the allowed step error, within which a chain's pieces are kept
 _CHAIN_BACKOFF = 16     # node steps taken one at a time after a chain stopped short (doubled while it keeps failing)
 #: The subcritical pass solves runs of steps on arrays; False takes every step one at a time (tests compare the two).
@@ -723,65 +730,82 @@ class _Chain:
         x0, x1 = self.x[steps], self.x[steps + 1]
         z0, z1 = self.z[steps], self.z[steps + 1]
         length = x1 - x0
-        coef = self.coef[steps]
-        powers = bool(np.any(coef[:, 5:7] != 0.0))
+        coef = np.ascontiguousarray(self.coef[steps].T)     # one row per coefficient, to gather pieces from
+        powers = bool(np.any(coef[5:7] != 0.0))
         # pieces: the node step each lies in, and its ends as fractions of the step from its upstream node
         owner = np.arange(steps.size)
         u0, u1 = np.zeros(steps.size), np.ones(steps.size)
-        guess = None
-        for _ in range(_CHAIN_REFINE):
+        y = None
+        for rnd in range(_CHAIN_REFINE):
             share = u1 - u0
             full = length[owner]
             half = 0.5 * share * full
-            xu = x0[owner] + u0 * full
             zu = z0[owner] + u0 * (z1 - z0)[owner]
-            c = coef[owner].T                                # a piece's props: its step's upstream node's
+            c = coef.take(owner, axis=1)                     # a piece's props: its step's upstream node's
             yc = c[8]
-            place = owner + u0                               # where along the steps, rising downstream
-            if guess is None:
+            if y is None:
                 yn = self.yn[steps[owner]]
                 y = np.maximum(np.where(np.isfinite(yn) & (yn > yc), yn, known.y), 1.05 * yc)
-            else:  # the last answer, linearly between its pieces' ends
-                y = np.interp(place, *guess)
             size = y.size
             zd = np.append(zu[1:], self.z[end])             # a piece's downstream end: the next piece's upstream end
-            below = np.empty((4, size))
-            below[:, -1] = known.energy, known.sf, known.de, known.dsf
-            with np.errstate(all="ignore"):
-                for iteration in range(_CHAIN_NEWTON + 1):
-                    e, sf, de, dsf, n = self.terms(c, y, powers)
-                    below[:, :-1] = e[1:], sf[1:], de[1:], dsf[1:]   # each piece's downstream end
-                    e_d, sf_d, de_d, dsf_d = below
-                    resid = (zu + e - half * sf) - (zd + e_d + half * sf_d)
-                    ok = np.abs(resid) <= HEAD_TOLERANCE
-                    if ok.all() or iteration == _CHAIN_NEWTON:  # the pieces not met are refused below
-                        break
-                    # Newton on all depths at once: the Jacobian is upper bidiagonal (a piece's balance ties its
-                    # two ends), so each depth's correction depends on those downstream of it alone
-                    ab = np.empty((2, size))
-                    ab[0, 0] = 0.0
-                    ab[0, 1:] = -(de_d[:-1] + half[:-1] * dsf_d[:-1])
-                    ab[1] = de - half * dsf
-                    delta, info = dtbtrs(ab, -resid, uplo="U")  # the banded triangular system, in LAPACK
-                    if info != 0:
-                        return []
-                    y_new = y + delta
-                    # on the subcritical branch: at most halfway down to critical depth at once
-                    y = np.where(y_new > yc, y_new, yc + 0.5 * (y - yc))
-                    y = np.where(np.isfinite(y), y, 1.05 * yc)
-                # a piece is good where its balance is met on the subcritical branch, away from critical depth
-                # (where the error estimate has no value), with n in range and its error estimated
-                good = ok & (y > yc) & (np.abs(de) > NEAR_CRITICAL) & (np.abs(de_d) > NEAR_CRITICAL) & (n > 0) & (n < 1)
-                s0, piece = c[7], 2.0 * half
-                change = dsf * (s0 - sf) / de - dsf_d * (s0 - sf_d) / de_d
-                error = np.abs(piece * piece / 12.0 * change / (de - half * dsf))
-                ratio = np.where(full > 0.0, error / (STEP_ERROR_SHARE * tol * y), 0.0)
-                good &= ratio >= 0.0                          # false for nan: no estimate
-            bad = np.flatnonzero(~good)
-            last_bad = int(owner[bad[-1]]) if bad.size else -1
-            # pieces are kept within half the allowance: even steps, not sized one after the other as the steps
-            # taken one at a time are, keep the profile as close to a fine-step reference that way
-            refine = (ratio > _CHAIN_SHARE) & (half >= MIN_STEP) & (owner > last_bad)
+            # head terms at every piece's upstream end and, last, at the known state below them all: a piece's
+            # downstream end is the next column
+            ext = np.empty((4, size + 1))
+            ext[:, size] = known.energy, known.sf, known.de, known.dsf
+            e, sf, de, dsf = ext[:, :-1]
+            e_d, sf_d, de_d, dsf_d = ext[:, 1:]
+            n, resid = np.empty(size), np.empty(size)
+            # a round that will be cut again needs its depths only for the error estimate: it meets the balances
+            # to _CHAIN_LOOSE; a round with nothing left to cut then goes on to HEAD_TOLERANCE and is checked again
+            head_tol, evaluated = (_CHAIN_LOOSE if rnd < _CHAIN_REFINE - 1 else HEAD_TOLERANCE), False
+            while True:
+                hi = size  # the pieces above the most downstream one not met: those below it keep their depths
+                with np.errstate(all="ignore"):
+                    for iteration in range(_CHAIN_NEWTON + 1):
+                        if not evaluated:
+                            ext[0, :hi], ext[1, :hi], ext[2, :hi], ext[3, :hi], n[:hi] = self.terms(
+                                c[:, :hi], y[:hi], powers)
+                            h = half[:hi]
+                            resid[:hi] = (zu[:hi] + e[:hi] - h * sf[:hi]) - (zd[:hi] + e_d[:hi] + h * sf_d[:hi])
+                        evaluated = False
+                        missed = np.flatnonzero(~(np.abs(resid[:hi]) <= head_tol))
+                        if missed.size == 0 or iteration == _CHAIN_NEWTON:  # the pieces not met are refused below
+                            break
+                        # Newton on the depths at once: the Jacobian is upper bidiagonal (a piece's balance ties its
+                        # two ends), so each depth's correction depends on those downstream of it alone, and the
+                        # depths below the last piece not met need none
+                        hi = int(missed[-1]) + 1
+                        h = half[:hi]
+                        ab = np.empty((2, hi))
+                        ab[0, 0] = 0.0
+                        ab[0, 1:] = -(de_d[:hi - 1] + h[:-1] * dsf_d[:hi - 1])
+                        ab[1] = de[:hi] - h * dsf[:hi]
+                        delta, info = dtbtrs(ab, -resid[:hi], uplo="U")  # the banded triangular system, in LAPACK
+                        if info != 0:
+                            return []
+                        was, ych = y[:hi], yc[:hi]
+                        y_new = was + delta
+                        # on the subcritical branch: at most halfway down to critical depth at once
+                        y_new = np.where(y_new > ych, y_new, ych + 0.5 * (was - ych))
+                        y[:hi] = np.where(np.isfinite(y_new), y_new, 1.05 * ych)
+                    ok = np.abs(resid) <= head_tol
+                    # a piece is good where its balance is met on the subcritical branch, away from critical depth
+                    # (where the error estimate has no value), with n in range and its error estimated
+                    good = (ok & (y > yc) & (np.abs(de) > NEAR_CRITICAL) & (np.abs(de_d) > NEAR_CRITICAL) & (n > 0)
+                            & (n < 1))
+                    s0, piece = c[7], 2.0 * half
+                    change = dsf * (s0 - sf) / de - dsf_d * (s0 - sf_d) / de_d
+                    error = np.abs(piece * piece / 12.0 * change / (de - half * dsf))
+                    ratio = np.where(full > 0.0, error / (STEP_ERROR_SHARE * tol * y), 0.0)
+                    good &= ratio >= 0.0                          # false for nan: no estimate
+                bad = np.flatnonzero(~good)
+                last_bad = int(owner[bad[-1]]) if bad.size else -1
+                # pieces are kept within half the allowance: even steps, not sized one after the other as the steps
+                # taken one at a time are, keep the profile as close to a fine-step reference that way
+                refine = (ratio > _CHAIN_SHARE) & (half >= MIN_STEP) & (owner > last_bad)
+                if refine.any() or head_tol == HEAD_TOLERANCE:
+                    break
+                head_tol, evaluated = HEAD_TOLERANCE, True       # the depths stand: their terms are evaluated
             if not refine.any():
                 break
             # into 2^m pieces, m from the cube law of the error (margin 0.9) to within the share, 1 to 3, none shorter
@@ -790,9 +814,9 @@ class _Chain:
             m[refine] = np.clip(np.ceil(np.log2(ratio[refine] / _CHAIN_SHARE) / 3.0 + _LOG2_MARGIN), 1, 3)
             m = np.minimum(m, np.floor(np.log2(np.maximum(2.0 * half, MIN_STEP) / MIN_STEP)))
             count = (2 ** m).astype(int)
-            guess = (np.append(place, steps.size), np.append(y, known.y))
             start = np.cumsum(count) - count
             k = np.arange(count.sum()) - np.repeat(start, count)
+            y = _cut_depths(y, known.y, count, k)
             sub = np.repeat(share / count, count)
             owner, u0 = np.repeat(owner, count), np.repeat(u0, count) + k * sub
             u1 = u0 + sub
@@ -801,6 +825,21 @@ class _Chain:
         at_node = np.flatnonzero(u0 == 0.0)[last_bad + 1:]   # each step's first piece starts at its upstream node
         return [_State(*v) for v in zip(y[at_node].tolist(), [_OK] * at_node.size, e[at_node].tolist(),
                                          sf[at_node].tolist(), de[at_node].tolist(), dsf[at_node].tolist())]
+
+
+def _cut_depths(y, y_end, count, k):
+    """First depths of the pieces that the pieces become when piece i is cut into ``count[i]`` even pieces (``k``
+    numbers the new pieces within their piece): the last answer, ``y`` at the pieces' upstream ends (``y_end``
+    below the last), linearly between each piece's ends. Only a first trial: the Newton solve that follows meets
+    the balances whatever it is."""
+    parent = np.repeat(np.arange(y.size), count)
+    out = y[parent]
+    inside = np.flatnonzero(k)                       # the new pieces that start inside the piece they were cut from
+    if inside.size:
+        p = parent[inside]
+        t = k[inside] / count[p]
+        out[inside] += t * (np.append(y[1:], y_end)[p] - y[p])
+    return out
 
 
 # ------------------------------------------------------------------------------------------------ results
@@ -916,6 +955,7 @@ def _at(x):
 
 # ------------------------------------------------------------------------------------------------ the profile
 
+@collector_held()
 def water_surface(distance, bed, sections, n, flow, *, outfall="normal", outfall_level=None, inlet="normal",
                   max_step=10.0, step_tolerance=1e-4) -> WaterSurface:
     """The water surface along a run by the standard step method, with its controls and hydraulic jumps.
@@ -1223,28 +1263,38 @@ class _Points:
 
 def _point_results(nodes, point_nodes, depth, branch, z, stop_at) -> _Points:
     count = len(point_nodes)
+    props = [nodes[k].props for k in point_nodes]
+    y = depth[point_nodes]
+    area, top = np.full(count, math.nan), np.full(count, math.nan)
+    groups = {}  # the points of each section object, with a depth: its geometry once on their depths
+    for i, p in enumerate(props):
+        groups.setdefault(id(p.section), (p.section, []))[1].append(i)
+    for section, rows in groups.values():
+        rows = np.array(rows)
+        rows = rows[np.isfinite(y[rows])]
+        if rows.size:
+            g = section._geometry(y[rows])
+            area[rows], top[rows] = g.area, g.top_width
+    with np.errstate(divide="ignore", invalid="ignore"):
+        velocity = np.array([p.flow for p in props]) / area
+        froude = np.where(top > 0, velocity / np.sqrt(G * area / top), math.inf)
+    froude[~np.isfinite(y)] = math.nan
+    energy = z + y + velocity ** 2 / (2 * G)
     regime, messages = [], [[] for _ in range(count)]
-    velocity, froude, energy = [math.nan] * count, [math.nan] * count, [math.nan] * count
-    depths, zs = depth.tolist(), z.tolist()
-    for i, k in enumerate(point_nodes):
-        p, y = nodes[k].props, depths[k]
+    for i, (k, p, fr) in enumerate(zip(point_nodes, props, froude.tolist())):
         if p.yn_note:
             messages[i].append("no normal depth: " + p.yn_note)
-        if not math.isfinite(y):
+        if math.isnan(fr):
             regime.append("not computed")
             messages[i].append(worded("not computed: the water surface downstream rises above the top of the "
                                       "section (at {at})", at=_at(stop_at)))
             continue
-        g = p.section._geometry(y)
-        v = velocity[i] = p.flow / g.area
-        fr = froude[i] = v / math.sqrt(G * g.area / g.top_width) if g.top_width > 0 else math.inf
-        energy[i] = zs[i] + y + v ** 2 / (2 * G)
         regime.append("critical" if branch[k] == "crit" or abs(fr - 1) <= 1e-6 else
                       "supercritical" if fr > 1 else "subcritical")
         if branch[k] == "crit" and 0 < i < count - 1:
             messages[i].append("the flow passes through critical depth here: a control, which sets the water "
                                "surface upstream (as where a milder stretch meets a steeper one)")
-    return _Points(regime, np.array(velocity), np.array(froude), np.array(energy), messages)
+    return _Points(regime, velocity, froude, energy, messages)
 
 
 def _stretch_types(node_types, point_nodes) -> list:

@@ -157,3 +157,22 @@ def test_alternating_grades_give_the_one_by_one_profile(monkeypatch):
     np.testing.assert_allclose(arrays.depth, one.depth, rtol=STEP_TOLERANCE, atol=0)
     np.testing.assert_allclose(arrays.detail_depth, one.detail_depth, rtol=STEP_TOLERANCE, atol=0)
     assert_same_jumps(arrays.jumps, one.jumps)
+
+
+@pytest.mark.parametrize("case, lining", [("M1", "grass"), ("M2", "n = 0.015")])
+def test_rounds_met_loosely_give_the_profile_of_rounds_met_fully(monkeypatch, case, lining):
+    """A round of the array path that will be cut again meets its balances to _CHAIN_LOOSE only (its depths serve
+    the error estimate); the last round meets them to HEAD_TOLERANCE. The profile must be the one of every round
+    met to HEAD_TOLERANCE, within the step control's tolerance, at every design point and computation node."""
+    x, bed, flow = mild_run()
+    grade = np.append((bed[:-1] - bed[1:]) / np.diff(x), (bed[-2] - bed[-1]) / (x[-1] - x[-2]))
+    n = N if lining != "grass" else [FixedSlopeN(load_catalogue().get("grass_good_sod").roughness(), SECTION,
+                                                 float(s)) for s in grade]
+    kwargs = case_kwargs(case, bed, flow)
+    loose = water_surface(x, bed, SECTION, n, flow, step_tolerance=STEP_TOLERANCE, **kwargs)
+    assert wsm._CHAIN_LOOSE > wsm.HEAD_TOLERANCE   # the loose rounds are in use
+    monkeypatch.setattr(wsm, "_CHAIN_LOOSE", wsm.HEAD_TOLERANCE)
+    full = water_surface(x, bed, SECTION, n, flow, step_tolerance=STEP_TOLERANCE, **kwargs)
+    assert case in loose.profile_type and loose.profile_type == full.profile_type
+    np.testing.assert_allclose(loose.depth, full.depth, rtol=STEP_TOLERANCE, atol=0)
+    np.testing.assert_allclose(loose.detail_depth, full.detail_depth, rtol=STEP_TOLERANCE, atol=0)
