@@ -1262,6 +1262,8 @@ class _Points:
 
 
 def _point_results(nodes, point_nodes, depth, branch, z, stop_at) -> _Points:
+    """Regime, velocity, Froude number, energy level and messages at each design point from the depths of the
+    profile (nan where it is not computed)."""
     count = len(point_nodes)
     props = [nodes[k].props for k in point_nodes]
     y = depth[point_nodes]
@@ -1278,13 +1280,14 @@ def _point_results(nodes, point_nodes, depth, branch, z, stop_at) -> _Points:
     with np.errstate(divide="ignore", invalid="ignore"):
         velocity = np.array([p.flow for p in props]) / area
         froude = np.where(top > 0, velocity / np.sqrt(G * area / top), math.inf)
-    froude[~np.isfinite(y)] = math.nan
+    computed = np.isfinite(y)
+    froude[~computed] = math.nan
     energy = z + y + velocity ** 2 / (2 * G)
     regime, messages = [], [[] for _ in range(count)]
-    for i, (k, p, fr) in enumerate(zip(point_nodes, props, froude.tolist())):
+    for i, (k, p, fr, known) in enumerate(zip(point_nodes, props, froude.tolist(), computed.tolist())):
         if p.yn_note:
             messages[i].append("no normal depth: " + p.yn_note)
-        if math.isnan(fr):
+        if not known:
             regime.append("not computed")
             messages[i].append(worded("not computed: the water surface downstream rises above the top of the "
                                       "section (at {at})", at=_at(stop_at)))
