@@ -53,6 +53,15 @@ def steep_run(case):
     return x, bed, flow
 
 
+def lining_n(lining, x, bed):
+    """n = 0.015, or good sod's n at the grade of each point's stretch (the last point: the last stretch's)."""
+    if lining != "grass":
+        return N
+    grade = np.append((bed[:-1] - bed[1:]) / np.diff(x), (bed[-2] - bed[-1]) / (x[-1] - x[-2]))
+    model = load_catalogue().get("grass_good_sod").roughness()
+    return [FixedSlopeN(model, SECTION, float(s)) for s in grade]
+
+
 def both_paths(monkeypatch, *args, **kwargs):
     arrays = water_surface(*args, step_tolerance=STEP_TOLERANCE, **kwargs)
     monkeypatch.setattr(wsm, "STEPS_ON_ARRAYS", False)
@@ -79,12 +88,7 @@ def case_kwargs(case, bed, flow):
                                            ("S3", "n = 0.015"), ("M1", "grass"), ("M2", "grass")])
 def test_the_array_path_gives_the_one_by_one_profile(monkeypatch, case, lining):
     x, bed, flow = mild_run() if case[0] == "M" else steep_run(case)
-    grade = np.append((bed[:-1] - bed[1:]) / np.diff(x), (bed[-2] - bed[-1]) / (x[-1] - x[-2]))
-    if lining == "grass":
-        model = load_catalogue().get("grass_good_sod").roughness()
-        n = [FixedSlopeN(model, SECTION, float(s)) for s in grade]
-    else:
-        n = N
+    n = lining_n(lining, x, bed)
     arrays, one = both_paths(monkeypatch, x, bed, SECTION, n, flow, **case_kwargs(case, bed, flow))
     assert case in arrays.profile_type   # the case makes the curve it is named for
     assert arrays.profile_type == one.profile_type
@@ -165,9 +169,7 @@ def test_rounds_met_loosely_give_the_profile_of_rounds_met_fully(monkeypatch, ca
     the error estimate); the last round meets them to HEAD_TOLERANCE. The profile must be the one of every round
     met to HEAD_TOLERANCE, within the step control's tolerance, at every design point and computation node."""
     x, bed, flow = mild_run()
-    grade = np.append((bed[:-1] - bed[1:]) / np.diff(x), (bed[-2] - bed[-1]) / (x[-1] - x[-2]))
-    n = N if lining != "grass" else [FixedSlopeN(load_catalogue().get("grass_good_sod").roughness(), SECTION,
-                                                 float(s)) for s in grade]
+    n = lining_n(lining, x, bed)
     kwargs = case_kwargs(case, bed, flow)
     loose = water_surface(x, bed, SECTION, n, flow, step_tolerance=STEP_TOLERANCE, **kwargs)
     assert wsm._CHAIN_LOOSE > wsm.HEAD_TOLERANCE   # the loose rounds are in use
