@@ -13,6 +13,7 @@ import pytest
 
 import hydraulics as hy
 from hydraulics.linings import hec15
+from hydraulics.linings import roughness
 from hydraulics.linings.roughness import P_LIMIT, SPLIT_BAND, StoneRoughness, _average_depth
 
 SECTIONS = [hy.Trapezoid(bottom_width=0.6, side_slope=3.0), hy.Trapezoid(bottom_width=2.0, side_slope=1.5),
@@ -193,3 +194,58 @@ def test_n_of_every_region_element_by_element_matches_each_size_alone(slope):
              for d, b, y in zip(d50.tolist(), width.tolist(), depth.tolist())}
     assert codes >= {"blodgett", "bathurst", "transition"}
     np.testing.assert_allclose(got, want, rtol=1e-12)
+
+
+# The lowest usable Bathurst depth of sections with array dimensions (an inventory's stone reaches) is found from
+# the two depths where its conditions turn (da/D50 = 0.3, HEC-15, 3rd ed., Eq. 6.2's range; p = P_LIMIT with b of
+# Eq. 6.6), then bisected on the predicate near them. Checked element by element against the full 100-step
+# bisection above, on random sections and sizes (seeded).
+def _random_sections(kind, size, rng):
+    if kind == "trapezoid":
+        b, z1, z2 = rng.uniform(0.1, 6.0, size), rng.uniform(0.0, 6.0, size), rng.uniform(0.0, 6.0, size)
+        return (hy.Trapezoid(bottom_width=b, left_slope=z1, right_slope=z2),
+                lambda i: hy.Trapezoid(bottom_width=float(b[i]), left_slope=float(z1[i]), right_slope=float(z2[i])))
+    if kind == "triangle":
+        z1, z2 = rng.uniform(0.5, 6.0, size), rng.uniform(0.5, 6.0, size)
+        return (hy.Triangle(left_slope=z1, right_slope=z2),
+                lambda i: hy.Triangle(left_slope=float(z1[i]), right_slope=float(z2[i])))
+    if kind == "rectangle":
+        b = rng.uniform(0.1, 60.0, size)
+        return hy.Rectangle(bottom_width=b), lambda i: hy.Rectangle(bottom_width=float(b[i]))
+    d = rng.uniform(0.2, 3.0, size)
+    return hy.Circle(diameter=d), lambda i: hy.Circle(diameter=float(d[i]))
+
+
+# A circle's area at small depths is rounded to some 1e-14 of itself, so there the predicate flickers over a band
+# of a few dozen float spacings: any depth in it is the lowest usable one to that precision.
+@pytest.mark.parametrize("kind, rtol", [("trapezoid", 1e-14), ("triangle", 1e-14), ("rectangle", 1e-14),
+                                        ("circle", 1e-13)])
+def test_lowest_usable_depth_of_every_element_matches_the_full_bisection(kind, rtol, monkeypatch):
+    rng = np.random.default_rng(7)
+    size = 240
+    d50 = rng.choice(np.geomspace(0.01, 0.8, 40), size)
+    section, one = _random_sections(kind, size, rng)
+    searched = []   # the elements of each bisection: the first call refines every root, a later one searches all over
+    bisect = roughness._bisect_usable
+
+    def counted(part, d, lo, hi):
+        searched.append(len(d))
+        return bisect(part, d, lo, hi)
+    monkeypatch.setattr(roughness, "_bisect_usable", counted)
+    got, _ = StoneRoughness(d50)._lowest_bathurst_depth(section)
+    assert sum(searched[1:]) <= size // 50, "the roots should bracket where the predicate turns"
+    want = np.array([_reference_lowest_depth(one(i), float(d50[i])) for i in range(size)])
+    np.testing.assert_array_equal(np.isinf(got), np.isinf(want))
+    assert np.isfinite(want).sum() > size // 2
+    np.testing.assert_allclose(got[np.isfinite(want)], want[np.isfinite(want)], rtol=rtol)
+
+
+def test_both_conditions_rise_with_depth_in_a_circle():
+    """The search relies on da = A/T and b of HEC-15 Eq. 6.6 (as T^-0.453 da^0.814) rising with depth; in a
+    trapezoid d ln b / d ln y >= 0.34 in closed form, in a circle it is checked here up to the capacity depth."""
+    pipe = hy.Circle(diameter=1.0)
+    depths = np.linspace(1e-6, float(pipe.capacity_depth), 100_000)
+    g = pipe.properties(depths)
+    da = g.area / g.top_width
+    assert np.all(np.diff(da) > 0)
+    assert np.all(np.diff(0.814 * np.log(da) - 0.453 * np.log(g.top_width)) > 0)

@@ -89,6 +89,111 @@ def _average_depth(section, depth):
     return g.area / top, g.area / g.wetted_perimeter, top
 
 
+def _usable(section, d50, y):
+    """(whether Bathurst's relation is usable at ``y``: da/D50 > 0.3, its range, and p <= P_LIMIT; da/D50)."""
+    da, r, top = _average_depth(section, y)
+    ratio = np.asarray(da / d50, float)
+    _, p = hec15._bathurst_exponent(np.asarray(da, float), d50, np.asarray(top, float))
+    return (ratio > hec15.BATHURST_RANGE[0]) & (np.asarray(p) <= P_LIMIT), ratio
+
+
+#: ln of b in HEC-15 Eq. 6.6 where the exponent p = log10(0.755/b) of Eq. 6.3 equals P_LIMIT.
+_LN_B_AT_LIMIT = np.log(0.755) - P_LIMIT * np.log(10.0)
+#: Relative half-width of the bracket around a root in which the predicate is bisected (some 500 float spacings:
+#: the rounding of a circle's area at small depths moves the turn by several dozen).
+_POLISH_WIDTH = 1e-13
+
+
+def _lowest_usable_each(section, d50, hi, where):
+    """The lowest usable Bathurst depth of each element of ``section`` (array dimensions, D50 ``d50`` each)
+    below ``hi``, for the elements ``where`` it is usable at ``hi`` (others: nan).
+
+    Both conditions of :func:`_usable` rise with depth in these sections: da = A/T, and b of HEC-15 Eq. 6.6,
+    proportional to T^-0.453 da^0.814 (d ln b / d ln y >= 0.34 in a trapezoid; checked on a circle in the
+    tests). So the relation is usable from the larger of two depths on: where da/D50 = 0.3 and where
+    p = P_LIMIT (b = 0.755 / 10^P_LIMIT). Each is a root found by Newton's method on ln y
+    (:func:`_log_depth_root`). Rounding puts the predicate's turn within a few float spacings of that root,
+    so the predicate is then bisected (to BISECTION_RTOL, as the search it replaces) in a bracket of
+    _POLISH_WIDTH on either side, checked to hold the turn; an element whose bracket does not hold it is
+    bisected on the predicate from 1e-9 D50 to ``hi``.
+    """
+    y = np.full(np.shape(hi), np.nan)
+    at = np.flatnonzero(where)
+    if not len(at):
+        return y
+    part = section.take(at) if len(at) < len(y) else section
+    d, top_depth = d50[at], hi[at]
+    low = 1e-9 * d
+    first = _log_depth_root(part, _range_gap, d, low, top_depth, 0.45 * d)
+    found = first.copy()
+    short = np.flatnonzero(_exponent_gap(part.properties(first), first, d)[0] < 0)
+    if len(short):  # b is still too small where da/D50 = 0.3: the depth where p = P_LIMIT lies higher
+        sub = part.take(short) if len(short) < len(first) else part
+        found[short] = _log_depth_root(sub, _exponent_gap, d[short], first[short], top_depth[short], first[short])
+    # the predicate itself turns within a few float spacings of the root: bisected there, in a bracket checked
+    lo, hi = found * (1.0 - _POLISH_WIDTH), found * (1.0 + _POLISH_WIDTH)
+    bracketed = ~_usable(part, d, lo)[0] & _usable(part, d, hi)[0]
+    found = _bisect_usable(part, d, lo, hi)
+    doubt = np.flatnonzero(~bracketed)
+    if len(doubt):  # the root did not bracket the turn: the whole search on the predicate, for those elements
+        sub = part.take(doubt) if len(doubt) < len(found) else part
+        found[doubt] = _bisect_usable(sub, d[doubt], low[doubt], top_depth[doubt])
+    y[at] = found
+    return y
+
+
+def _range_gap(g, y, d50):
+    """ln(da / (0.3 D50)) at the geometry ``g`` of depth ``y``, and its derivative in ln y
+    (d da/dy = 1 - A T' / T^2 for da = A/T)."""
+    return np.log(g.area / g.top_width) - np.log(hec15.BATHURST_RANGE[0] * d50), \
+        y * (g.top_width / g.area - g.dT_dy / g.top_width)
+
+
+def _exponent_gap(g, y, d50):
+    """ln b - ln b at P_LIMIT, b = 1.14 (D50/T)^0.453 (da/D50)^0.814 (HEC-15 Eq. 6.6), at the geometry ``g`` of
+    depth ``y``, and its derivative in ln y."""
+    ln_d = np.log(d50)
+    gap = np.log(1.14) + 0.453 * (ln_d - np.log(g.top_width)) + 0.814 * (np.log(g.area / g.top_width) - ln_d)
+    rate = y * (0.814 * (g.top_width / g.area - g.dT_dy / g.top_width) - 0.453 * g.dT_dy / g.top_width)
+    return gap - _LN_B_AT_LIMIT, rate
+
+
+def _log_depth_root(section, gap, d50, low, high, start, steps: int = 60):
+    """Depth where ``gap(geometry, y, d50)`` = (g, dg/d ln y) crosses zero upwards, per element, between ``low``
+    (g < 0) and ``high`` (g >= 0): Newton's method on ln y, a step that leaves the bracket replaced by the
+    bracket's geometric middle; stops after a step below 1e-13 |ln y| has been taken (Newton's steps shrink
+    quadratically, so the depth is then as close as the rounding of ``gap`` lets it be) or after ``steps``."""
+    lo, hi = np.log(low), np.log(high)
+    x = np.clip(np.log(start), lo, hi)
+    for _ in range(steps):
+        y = np.exp(x)
+        g, rate = gap(section.properties(y), y, d50)
+        lo = np.where(g < 0, x, lo)
+        hi = np.where(g < 0, hi, x)
+        with np.errstate(divide="ignore", invalid="ignore"):
+            step = g / rate
+        new = x - step
+        new = np.where((new >= lo) & (new <= hi), new, 0.5 * (lo + hi))   # also where the step is not finite
+        done = np.abs(new - x) <= 1e-13 * np.maximum(1.0, np.abs(x))
+        x = new
+        if done.all():
+            break
+    return np.exp(x)
+
+
+def _bisect_usable(section, d50, lo, hi):
+    """The lowest depth in (lo, hi] where :func:`_usable` holds, per element, by geometric halving to
+    BISECTION_RTOL (about 55 steps from 1e-9 D50)."""
+    for _ in range(100):
+        mid = np.sqrt(lo * hi)
+        ok, _ = _usable(section, d50, mid)
+        hi = np.where(ok, mid, hi)
+        lo = np.where(ok, lo, mid)
+        if np.all(hi <= lo * (1.0 + BISECTION_RTOL)):
+            break
+    return hi
+
+
 class StoneRoughness:
     """Manning's n of a riprap, cobble or gravel lining from its D50 (HEC-15 Section 6.1).
 
@@ -239,18 +344,14 @@ class StoneRoughness:
         """Lowest depth at which Bathurst's relation is usable (da/D50 > 0.3 and p <= P_LIMIT).
 
         Returns (depth, (da, T, R) there), or (inf, None) if it is not usable below
-        da/D50 = 1.5. Found once per section by bisection on the geometry (to BISECTION_RTOL) and kept.
+        da/D50 = 1.5. Found once per section (to BISECTION_RTOL) and kept: for one section by a geometric
+        k-section on the predicate, for a section with array dimensions by :func:`_lowest_usable_each`.
         """
         hit = self._limits
         if hit is not None and (hit[0] is section or (hit[1] is not None and _same_section(hit[1], section))):
             return hit[2], hit[3]
         split = hec15.BLODGETT_RANGE[0]
-
-        def usable(y):
-            da, r, top = _average_depth(section, y)
-            ratio = np.asarray(da / self.d50, float)
-            _, p = hec15._bathurst_exponent(np.asarray(da, float), self.d50, np.asarray(top, float))
-            return (ratio > hec15.BATHURST_RANGE[0]) & (np.asarray(p) <= P_LIMIT), ratio
+        usable = lambda y: _usable(section, self.d50, y)  # noqa: E731
 
         start = 1e-3 * self.d50  # a depth every section holds (a pipe may be smaller than 1 m)
         shape = np.shape(section.properties(start).area)
@@ -276,16 +377,7 @@ class StoneRoughness:
         elif not shape:
             y = np.asarray(_lowest_usable(usable, 1e-9 * self.d50, float(hi)))
         else:
-            lo = np.full(shape, 1e-9 * self.d50)
-            hi_b = hi.copy()
-            for _ in range(100):   # geometric halving: about 55 steps reach the float spacing from 1e-9 D50
-                mid = np.sqrt(lo * hi_b)
-                ok, _ = usable(mid)
-                hi_b = np.where(ok, mid, hi_b)
-                lo = np.where(ok, lo, mid)
-                if np.all(hi_b <= lo * (1.0 + BISECTION_RTOL)):
-                    break
-            y = np.where(ok_hi, hi_b, np.inf)
+            y = np.where(ok_hi, _lowest_usable_each(section, np.broadcast_to(self.d50, shape), hi, ok_hi), np.inf)
         if np.any(ok_hi):
             yy = y if shape else float(y)
             finite = np.isfinite(y)
