@@ -46,6 +46,7 @@ from itertools import repeat
 import numpy as np
 
 from . import units as hu
+from .batch_reasons import Coded, Reasons, text_array
 from .analysis import (FULL_PIPE_CAUTION, MIN_TURBULENT_REYNOLDS, NEAR_CRITICAL_BAND, NEAR_CRITICAL_CAUTION,
                        SUPERCRITICAL_CAUTION, TURBULENCE_CAUTION, analyse)
 from .errors import HydraulicsError, InputError
@@ -99,13 +100,6 @@ _DIMENSIONS = {shape: tuple(d for d in _ALL_DIMENSIONS if d in SHAPE_DIMENSIONS[
 #: Code of each shape in Reaches.kind (its index in SHAPES; -1 for any other text).
 SHAPE_CODE = {name: code for code, name in enumerate(SHAPES)}
 _CIRCLE = SHAPE_CODE["circle"]
-
-
-def text_array(size: int, text: str = "") -> np.ndarray:
-    """An object array of ``size`` references to ``text`` (np.full would convert, making a new str each)."""
-    out = np.empty(size, dtype=object)
-    out.fill(text)
-    return out
 
 
 @dataclass
@@ -186,7 +180,9 @@ class BatchResult:
     #: The user's unit cost times the lined width (or layer volume) to the ditch top [$/m]; nan without a cost.
     cost_per_length: np.ndarray
     verdict: np.ndarray     # object array of str, one of VERDICTS
-    reason: np.ndarray      # object array of str
+    #: The reasons in words, as kept while checking: one Reasons for each group of reaches checked together, in
+    #: row order (:attr:`reason` joins them).
+    reasons: list
     #: Manning's n at normal depth [s/m^(1/3)] (the lining's, where it depends on depth).
     manning_n: np.ndarray = None
     #: Boolean masks of the warnings in the reasons, keyed as in WARNINGS.
@@ -201,11 +197,30 @@ class BatchResult:
     def empty(cls, size: int) -> "BatchResult":
         nan = lambda: np.full(size, np.nan)  # noqa: E731
         return cls(**{k: nan() for k in RESULT_FIELDS}, verdict=text_array(size),
-                   reason=text_array(size), manning_n=nan(),
+                   reasons=[Reasons(size)], manning_n=nan(),
                    flags={k: np.zeros(size, dtype=bool) for k in WARNINGS}, governs=text_array(size))
 
     def __len__(self):
         return len(self.verdict)
+
+    @property
+    def reason(self) -> np.ndarray:
+        """Each reach's reason in words (object array of str), joined from :attr:`reasons` when first read."""
+        if len(self.reasons) == 1:
+            return self.reasons[0].joined()
+        return np.concatenate([r.joined() for r in self.reasons]) if self.reasons else text_array(0)
+
+    def reason_at(self, rows) -> np.ndarray:
+        """The reasons of ``rows`` alone (object array of str), without joining every reach's."""
+        rows = np.asarray(rows, dtype=np.intp)
+        out = text_array(len(rows))
+        start = 0
+        for reasons in self.reasons:
+            mine = (rows >= start) & (rows < start + len(reasons))
+            if mine.any():
+                out[mine] = reasons.joined_at(rows[mine] - start)
+            start += len(reasons)
+        return out
 
     def counts(self) -> dict:
         """Number of reaches per verdict, every verdict listed (zeros included)."""
@@ -223,7 +238,8 @@ class BatchResult:
             return 1.0 / self.safety_factor
 
     def _fill(self, index, other: "BatchResult"):
-        for k in (*RESULT_FIELDS, "verdict", "reason", "governs"):
+        """Copy ``other``'s values into the rows ``index`` (the reasons are gathered by the caller)."""
+        for k in (*RESULT_FIELDS, "verdict", "governs"):
             getattr(self, k)[index] = getattr(other, k)
         self.manning_n[index] = other.manning_n
         for k in WARNINGS:
@@ -434,7 +450,7 @@ def solve_hydraulics(reaches: Reaches, idx, n, out: BatchResult, display: hu.Uni
     if failures:
         failed = np.fromiter(failures, dtype=np.intp, count=len(failures))
         out.verdict[failed] = "no-solution"
-        out.reason[failed] = _objects(list(failures.values()))
+        _reasons(out).set(failed, _objects(list(failures.values())))
     return done[idx]
 
 
@@ -446,7 +462,7 @@ def _objects(texts: list) -> np.ndarray:
 
 
 def _warn(reaches, rows, res, out, display):
-    """Per-reach warnings into ``out.reason`` and ``out.flags`` (limits from hydraulics.analysis)."""
+    """Per-reach warnings into the reasons and ``out.flags`` (limits from hydraulics.analysis)."""
     lo, hi = NEAR_CRITICAL_BAND
     fr = np.asarray(res.froude)
     for key, mask, caution in (("near_critical", (fr >= lo) & (fr <= hi), NEAR_CRITICAL_CAUTION),
@@ -457,8 +473,8 @@ def _warn(reaches, rows, res, out, display):
     slow = re < MIN_TURBULENT_REYNOLDS
     out.flags["not_turbulent"][rows[slow]] = True
     whole, which = np.unique(np.rint(re[slow]), return_inverse=True)     # as "%.0f" rounds: half to even
-    said = _objects([TURBULENCE_CAUTION.format(re=f"{r:.0f}") for r in whole.tolist()] or [""])
-    _note(out, rows[slow], said[which.ravel()])
+    _note(out, rows[slow], Coded(_objects([TURBULENCE_CAUTION.format(re=f"{r:.0f}") for r in whole.tolist()]),
+                                 which.ravel()))
     pipe = reaches.kind[rows] == _CIRCLE
     if pipe.any():
         prow = rows[pipe]
@@ -471,8 +487,17 @@ def _warn(reaches, rows, res, out, display):
                                                          q_full[full].tolist(), display)))
 
 
-def _each_2f(values, template: str) -> np.ndarray:
-    """``template % f"{v:.2f}"`` for each value (object array), each distinct text made once.
+def _coded(clear, grouped: list, which, alone: list) -> Coded:
+    """The texts of rows given as ``grouped[which]`` where ``clear`` and as ``alone`` (one each, in row order)
+    elsewhere, each made once."""
+    index = np.empty(len(clear), dtype=np.intp)
+    index[clear] = np.ravel(which)
+    index[~clear] = len(grouped) + np.arange(len(alone))
+    return Coded(_objects(list(grouped) + list(alone)), index)
+
+
+def _each_2f(values, template: str) -> Coded:
+    """``template % f"{v:.2f}"`` for each value, each distinct text made once.
 
     The hundredth of a value is rint(100 v), except within 1e-9 of a tie,
     where Python rounds the value itself.
@@ -482,14 +507,12 @@ def _each_2f(values, template: str) -> np.ndarray:
     code = np.rint(scaled)
     clear = np.abs(scaled - code) < 0.5 - 1e-9
     distinct, which = np.unique(code[clear], return_inverse=True)
-    out = np.empty(len(v), dtype=object)
-    out[clear] = np.array([template % f"{c / 100:.2f}" for c in distinct.tolist()] or [""], dtype=object)[which]
-    out[~clear] = [template % f"{x:.2f}" for x in v[~clear].tolist()]
-    return out
+    return _coded(clear, [template % f"{c / 100:.2f}" for c in distinct.tolist()], which,
+                  [template % f"{x:.2f}" for x in v[~clear].tolist()])
 
 
-def _each_worded(values, display: hu.UnitSystem, make, name: str) -> np.ndarray:
-    """``in_units(make(v), display)`` for each SI value (object array), written once per printed value.
+def _each_worded(values, display: hu.UnitSystem, make, name: str) -> Coded:
+    """``in_units(make(v), display)`` for each SI value, written once per printed value.
 
     ``make`` words one value as its quantity ``name`` to three significant
     figures (:func:`hydraulics.wording.worded`), so values that round alike in
@@ -498,33 +521,24 @@ def _each_worded(values, display: hu.UnitSystem, make, name: str) -> np.ndarray:
     message is filled once (:func:`hydraulics.wording.restate_each`).
     """
     v = np.asarray(values, dtype=float)
-    out = np.empty(len(v), dtype=object)
     if not len(v):
-        return out
+        return _coded(np.zeros(0, dtype=bool), [], [], [])
     message = make(float(v[0]))
     groups, clear = printed_alike(display.from_si(message.quantities[name][1], v))
     _, first, which = np.unique(groups[clear], return_index=True, return_inverse=True)
-    out[clear] = _objects(restate_each(message, name, v[clear][first].tolist(), display) or [""])[which.ravel()]
-    out[~clear] = restate_each(message, name, v[~clear].tolist(), display)
-    return out
+    return _coded(clear, restate_each(message, name, v[clear][first].tolist(), display), which,
+                  restate_each(message, name, v[~clear].tolist(), display))
 
 
 def _note(out, rows, texts, first=False):
-    """Add ``texts`` (one str, or one per row) to the reasons of ``rows``: after what is there, or ``first``."""
-    rows = np.asarray(rows, dtype=np.intp)
-    if not len(rows):
-        return
-    current = out.reason[rows]
-    noted = current != ""
-    if isinstance(texts, str):  # one text for all: the rows without a reason yet take it as it is
-        out.reason[rows[~noted]] = texts
-        if noted.any():
-            out.reason[rows[noted]] = texts + "; " + current[noted] if first else current[noted] + "; " + texts
-        return
-    new = np.empty(len(rows), dtype=object)
-    new[:] = texts
-    new[noted] = new[noted] + "; " + current[noted] if first else current[noted] + "; " + new[noted]
-    out.reason[rows] = new
+    """Add ``texts`` (one str, one per row, or Coded) to the reasons of ``rows``: after what is there, or ``first``."""
+    _reasons(out).note(rows, texts, before=first)
+
+
+def _reasons(out: BatchResult) -> Reasons:
+    """The reasons of ``out`` while its reaches are checked (one group)."""
+    (reasons,) = out.reasons
+    return reasons
 
 
 # ----------------------------------------------------------------------------- linings
@@ -647,8 +661,8 @@ def _side_cautions(reaches, rows, out) -> None:
         return
     out.flags["steep_sides"][sided] = True
     pairs, which = np.unique(sides[:, 0] + 1j * sides[:, 1], return_inverse=True)   # (left, right) as one number
-    texts = _objects(["; ".join(side_slope_cautions(z.real, z.imag)) for z in pairs.tolist()])
-    _note(out, sided, texts[which.ravel()])
+    _note(out, sided, Coded(_objects(["; ".join(side_slope_cautions(z.real, z.imag)) for z in pairs.tolist()]),
+                            which.ravel()))
 
 
 def _pipe_depth_cautions(reaches, pipes, out, display) -> None:
@@ -851,7 +865,7 @@ def _shear_checks(lining, reaches, rows, out):
 def _set(out, rows, verdict, text):
     rows = np.asarray(rows, dtype=np.intp)
     out.verdict[rows] = verdict
-    out.reason[rows] = text
+    _reasons(out).set(rows, text)
 
 
 def _prefix(out, rows, verdict, text):
@@ -870,7 +884,7 @@ def _evaluate_chunk(reaches: Reaches, display, catalogue, problems=None) -> Batc
         problems = screen(reaches, display)
     bad = problems != ""
     out.verdict[bad] = "invalid"
-    out.reason[bad] = problems[bad]
+    _reasons(out).set(np.flatnonzero(bad), problems[bad])
     valid = ~bad
     named = valid & reaches.named
     plain = np.flatnonzero(valid & ~named)
@@ -915,11 +929,13 @@ def evaluate(reaches: Reaches, display: hu.UnitSystem = hu.SI, progress=None, ch
             progress(size, size)
         return out
     out = BatchResult.empty(size)
+    out.reasons = []    # each chunk's, in order
     problems = screen(reaches, display)  # once for all: its cost is mostly per call, not per reach
     for start in range(0, size, chunk):
         part = slice(start, min(size, start + chunk))
         done = _evaluate_chunk(reaches.take(part), display, catalogue, problems[part])
         out._fill(part, done)
+        out.reasons += done.reasons
         if on_chunk is not None:
             on_chunk(part, done)
         if progress is not None:

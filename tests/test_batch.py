@@ -706,8 +706,8 @@ def test_two_decimals_as_python_rounds_them():
     # Binary values just below and above the decimal ties, and exact binary ties (0.125, 1.125).
     values = np.array([0.125, 0.135, 0.865, 0.995, 1.005, 1.015, 1.125, 1.13, 0.86, 0.8649999999999999, 2.675, 1.0,
                        0.999999999, 1.1249999999999998])
-    assert mr._each_2f(values, "Fr %s").tolist() == ["Fr %.2f" % v for v in values]
-    assert mr._each_2f(np.zeros(0), "%s").tolist() == []
+    assert mr._each_2f(values, "Fr %s").expanded().tolist() == ["Fr %.2f" % v for v in values]
+    assert mr._each_2f(np.zeros(0), "%s").expanded().tolist() == []
 
 
 def test_a_large_results_file_is_the_same_with_and_without_worker_threads(tmp_path, monkeypatch):

@@ -159,5 +159,5 @@ def test_a_caution_worded_once_per_printed_value_reads_as_worded_one_by_one(unit
     rng = np.random.default_rng(11)
     edges = [0.0995, 0.09996, 0.1, 0.3048, 0.30479999, 0.12345, 0.1235, 1e-5, 0.0]
     v = np.concatenate([rng.uniform(0.001, 0.61, 5000), edges, u.to_si("velocity", np.array([0.1235, 0.9995]))])
-    got = mr._each_worded(v, u, silting_caution, "v")
+    got = mr._each_worded(v, u, silting_caution, "v").expanded()
     assert got.tolist() == [in_units(silting_caution(x), u) for x in v.tolist()]

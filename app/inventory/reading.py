@@ -21,6 +21,7 @@ from pathlib import Path
 import numpy as np
 
 from hydraulics import many_reaches as mr
+from hydraulics.batch_reasons import text_array
 from hydraulics import units as hu
 
 INPUT_COLUMNS = ("id", "shape", "bottom_width", "left_slope", "right_slope", "diameter", "slope", "flow", "lining",
@@ -306,7 +307,7 @@ def _from_split(split, fast: bool, system, source: str) -> Inventory:
     names, index = _check_header(header_fields, source)
     width = len(names)
     size = len(records)
-    notes = mr.text_array(size)
+    notes = text_array(size)
 
     ragged = np.flatnonzero(field_counts != width)
     if fast and not len(ragged):
@@ -395,7 +396,7 @@ def _parse_arrow(data: bytes, system, source: str):
             return None
     if table.num_rows != size:
         return None
-    notes = mr.text_array(size)
+    notes = text_array(size)
     unreadable = {}
     numbers = {}
     for name in _NUMBER_COLUMNS:

@@ -27,7 +27,9 @@ def problem_rows(inventory: Inventory, result: mr.BatchResult, limit: int | None
     """[(line, id, verdict, reason)] for every reach that is invalid or has no solution (the first ``limit``), in
     file order."""
     bad = np.flatnonzero((result.verdict == "invalid") | (result.verdict == "no-solution"))[:limit]
-    return [(int(inventory.lines[i]), inventory.id_at(i), result.verdict[i], result.reason[i]) for i in bad.tolist()]
+    reasons = result.reason_at(bad).tolist()
+    return [(int(inventory.lines[i]), inventory.id_at(i), result.verdict[i], reason)
+            for i, reason in zip(bad.tolist(), reasons)]
 
 
 class Tally:

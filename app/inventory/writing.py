@@ -21,6 +21,7 @@ from itertools import repeat
 import numpy as np
 
 from hydraulics import many_reaches as mr
+from hydraulics.batch_reasons import SEPARATOR, Coded
 
 from ..files import FORMULA_STARTS, atomic_writer, spreadsheet_safe, write_atomic
 from ..numtext import format_rows_parallel
@@ -96,7 +97,7 @@ def _results_pieces(inventory: Inventory, result: mr.BatchResult) -> list:
         pa = modules[0]
         rows = _row_array(pa, inventory)
         verdict_texts = _cells(pa, result.verdict, ",", quote=False)
-        reason_texts = _cells(pa, result.reason, "\n", quote=True)
+        reason_texts = _cells(pa, _reason_column(pa, result), "\n", quote=True)
         numbers = pending.result()
     return [head, _joined_lines(pa, rows, numbers, verdict_texts, reason_texts)]
 
@@ -191,8 +192,46 @@ def _joined_lines(pa, rows, numbers, verdict_texts, reason_texts) -> memoryview:
     return memoryview(lines.buffers()[2])[offsets[0]:offsets[-1]]
 
 
-def _cells(pa, values: np.ndarray, end: str, quote: bool):
-    """The text cells ``values`` (an object array of str) as written, each followed by ``end``: a pyarrow dictionary
+def _reason_column(pa, result: mr.BatchResult):
+    """The reasons of ``result`` as a pyarrow large_string array, each joined from its texts
+    (:meth:`hydraulics.batch_reasons.Reasons.parts`) in C++: the same text as ``result.reason`` without making a
+    Python string per reach in the thread that checks the next block.
+
+    Each group's distinct texts go into one array; every (row, text) pair is listed, in row order and, within a
+    row, in the order the reason reads (a stable sort of the parts' rows); the texts are gathered into a list per
+    row, and each list is joined with the separator."""
+    import pyarrow.compute as pc
+
+    text = pa.large_string()
+    joined = []
+    for reasons in result.reasons:
+        texts, rows, codes, count = [], [], [], 0
+        for at, said in reasons.parts():
+            if isinstance(said, str):
+                distinct, which = [said], np.zeros(len(at), dtype=np.intp)
+            elif isinstance(said, Coded):
+                distinct, which = said.texts, said.which
+            else:
+                distinct, which = said, np.arange(len(at))
+            distinct = pa.array(distinct, type=text)
+            kept = ~np.asarray(pc.equal(distinct, ""), dtype=bool)[which]     # an empty text adds nothing
+            texts.append(distinct)
+            rows.append(at[kept])
+            codes.append(which[kept] + count)
+            count += len(distinct)
+        rows, codes = np.concatenate(rows), np.concatenate(codes)
+        order = np.argsort(rows, kind="stable")
+        offsets = np.zeros(len(reasons) + 1, dtype=np.int64)
+        np.cumsum(np.bincount(rows, minlength=len(reasons)), out=offsets[1:])
+        values = pc.take(pa.concat_arrays(texts), pa.array(codes[order]))
+        joined.append(pc.binary_join(pa.LargeListArray.from_arrays(pa.array(offsets), values),
+                                     pa.scalar(SEPARATOR, type=text)))
+    return joined[0] if len(joined) == 1 else pa.concat_arrays(joined)
+
+
+def _cells(pa, values, end: str, quote: bool):
+    """The text cells ``values`` (an object array of str, or a pyarrow string array) as written, each followed by
+    ``end``: a pyarrow dictionary
     array, each distinct text made once. A cell a spreadsheet would run as a formula gets its apostrophe
     (:func:`app.files.spreadsheet_safe`); with ``quote``, one with a comma, a quote or a line break is quoted as CSV
     quotes it (:func:`_quote_field`).
@@ -202,7 +241,7 @@ def _cells(pa, values: np.ndarray, end: str, quote: bool):
     import pyarrow.compute as pc
 
     text = pa.large_string()
-    coded = pc.dictionary_encode(pa.array(values, type=text))
+    coded = pc.dictionary_encode(values if isinstance(values, pa.Array) else pa.array(values, type=text))
     cells = coded.dictionary
     risky = pc.match_substring_regex(cells, "^[" + "".join(sorted(FORMULA_STARTS)).replace("-", "\\-") + "]")
     if pc.any(risky).as_py():   # rare (results texts start with words): the few that do, one by one
