@@ -3,19 +3,22 @@
 The reference is the wording the check always had, written out here step by step: each reach's reason is a string
 built as the steps come (a reason set whole replaces it; a note goes after it, or before it for the verdict's own
 words, "; " between two; an empty text adds nothing). Both joins are compared with it: the one in Python
-(``Reasons.joined``) and the one a results file's writer makes in C++ (``app.inventory.writing._reason_column``).
+(``Reasons.joined``) and the one a results file's writer makes in C++ (``app.inventory.writing._joined_reasons``),
+and the writer's cells with the CSV quoting and the spreadsheet guard applied to the reference text.
 """
 
 import numpy as np
 import pytest
 
+from app.files import spreadsheet_safe
 from app.inventory import writing
+from app.inventory.writing import _quote_field
 from app.inventory.reading import pyarrow_modules
 from hydraulics import many_reaches as mr
 from hydraulics.batch_reasons import Coded, Reasons
 
 WORDS = ["stable, bed: 0.12 lb/ft^2", "near critical", "silt, may settle", 'a "quoted" word', "", "n held",
-         "side slopes (2H:1V)", "ünïcode †"]
+         "side slopes (2H:1V)", "ünïcode †", "=1+2", "-3.5", "line\nbreak"]
 
 
 def _random_steps(rng, size, count):
@@ -104,7 +107,9 @@ def test_the_writers_join_gives_the_same_reasons(seed):
         pieces.append(_reasons(size, steps))
         want += _reference(size, steps)
     result = _result(pieces)
-    assert writing._reason_column(pa, result).to_pylist() == want
+    assert sum((writing._joined_reasons(pa, p)[0].to_pylist() for p in pieces), []) == want
+    # the cells of a results file: quoted as CSV quotes them, never run as a formula, one line each
+    assert writing._reason_cells(pa, result).to_pylist() == [_quote_field(spreadsheet_safe(r)) + "\n" for r in want]
     assert result.reason.tolist() == want
     rows = rng.permutation(len(want))[: len(want) // 2]
     assert result.reason_at(rows).tolist() == [want[i] for i in rows]

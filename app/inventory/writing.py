@@ -97,7 +97,7 @@ def _results_pieces(inventory: Inventory, result: mr.BatchResult) -> list:
         pa = modules[0]
         rows = _row_array(pa, inventory)
         verdict_texts = _cells(pa, result.verdict, ",", quote=False)
-        reason_texts = _cells(pa, _reason_column(pa, result), "\n", quote=True)
+        reason_texts = _reason_cells(pa, result)
         numbers = pending.result()
     return [head, _joined_lines(pa, rows, numbers, verdict_texts, reason_texts)]
 
@@ -192,46 +192,89 @@ def _joined_lines(pa, rows, numbers, verdict_texts, reason_texts) -> memoryview:
     return memoryview(lines.buffers()[2])[offsets[0]:offsets[-1]]
 
 
-def _reason_column(pa, result: mr.BatchResult):
-    """The reasons of ``result`` as a pyarrow large_string array, each joined from its texts
-    (:meth:`hydraulics.batch_reasons.Reasons.parts`) in C++: the same text as ``result.reason`` without making a
-    Python string per reach in the thread that checks the next block.
+def _reason_cells(pa, result: mr.BatchResult):
+    """The reason cells of ``result`` as a results file writes them, each followed by a line end: a pyarrow
+    large_string array with the text :func:`_cells` makes of ``result.reason``, built in C++ from the reasons'
+    texts (:func:`_joined_reasons`) without making a Python string per reach in the thread that checks the next
+    block.
 
-    Each group's distinct texts go into one array; every (row, text) pair is listed, in row order and, within a
+    A cell is quoted where any of its texts holds a comma, a quote or a line break (the separator holds none),
+    its quotes doubled in each text; a cell a spreadsheet would run as a formula (rare: reasons start with words)
+    is made again from ``result.reason_at`` with its apostrophe (:func:`app.files.spreadsheet_safe`)."""
+    import pyarrow.compute as pc
+
+    text = pa.large_string()
+    cells = []
+    start = 0
+    for reasons in result.reasons:
+        joined, quoted, risky = _joined_reasons(pa, reasons, quote=True)
+        marks = pa.array(quoted.astype(np.int8))
+        cell = pc.binary_join_element_wise(
+            pa.DictionaryArray.from_arrays(marks, pa.array(["", '"'], type=text)).cast(text), joined,
+            pa.DictionaryArray.from_arrays(marks, pa.array(["\n", '"\n'], type=text)).cast(text),
+            pa.scalar("", type=text))
+        risky = np.flatnonzero(risky)
+        if len(risky):
+            again = [_quote_field(spreadsheet_safe(r)) + "\n" for r in result.reason_at(risky + start).tolist()]
+            fixed = np.asarray(cell.to_numpy(zero_copy_only=False), dtype=object)
+            fixed[risky] = again
+            cell = pa.array(fixed, type=text)
+        cells.append(cell)
+        start += len(reasons)
+    return cells[0] if len(cells) == 1 else pa.concat_arrays(cells)
+
+
+def _joined_reasons(pa, reasons, quote: bool = False):
+    """(the reasons of ``reasons`` (a :class:`hydraulics.batch_reasons.Reasons`) as a pyarrow large_string array,
+    each joined from its texts in C++; two bool arrays: where a text of the reason holds a comma, a quote or a
+    line break, and where the reason starts as a spreadsheet formula does). With ``quote``, the quotes of every
+    text are doubled, as CSV writes them inside a quoted cell.
+
+    Each part's distinct texts go into one array; every (row, text) pair is listed, in row order and, within a
     row, in the order the reason reads (a stable sort of the parts' rows); the texts are gathered into a list per
     row, and each list is joined with the separator."""
     import pyarrow.compute as pc
 
     text = pa.large_string()
-    joined = []
-    for reasons in result.reasons:
-        texts, rows, codes, count = [], [], [], 0
-        for at, said in reasons.parts():
-            if isinstance(said, str):
-                distinct, which = [said], np.zeros(len(at), dtype=np.intp)
-            elif isinstance(said, Coded):
-                distinct, which = said.texts, said.which
-            else:
-                distinct, which = said, np.arange(len(at))
-            distinct = pa.array(distinct, type=text)
-            kept = ~np.asarray(pc.equal(distinct, ""), dtype=bool)[which]     # an empty text adds nothing
-            texts.append(distinct)
-            rows.append(at[kept])
-            codes.append(which[kept] + count)
-            count += len(distinct)
-        rows, codes = np.concatenate(rows), np.concatenate(codes)
-        order = np.argsort(rows, kind="stable")
-        offsets = np.zeros(len(reasons) + 1, dtype=np.int64)
-        np.cumsum(np.bincount(rows, minlength=len(reasons)), out=offsets[1:])
-        values = pc.take(pa.concat_arrays(texts), pa.array(codes[order]))
-        joined.append(pc.binary_join(pa.LargeListArray.from_arrays(pa.array(offsets), values),
-                                     pa.scalar(SEPARATOR, type=text)))
-    return joined[0] if len(joined) == 1 else pa.concat_arrays(joined)
+    texts, rows, codes, count = [], [], [], 0
+    for at, said in reasons.parts():
+        if isinstance(said, str):
+            distinct, which = [said], np.zeros(len(at), dtype=np.intp)
+        elif isinstance(said, Coded):
+            distinct, which = said.texts, said.which
+        else:
+            distinct, which = said, np.arange(len(at))
+        distinct = pa.array(distinct, type=text)
+        kept = ~np.asarray(pc.equal(distinct, ""), dtype=bool)[which]     # an empty text adds nothing
+        texts.append(distinct)
+        rows.append(at[kept])
+        codes.append(which[kept] + count)
+        count += len(distinct)
+    dictionary = pa.concat_arrays(texts)
+    special = np.asarray(pc.match_substring_regex(dictionary, '[,"\n\r]'), dtype=bool)
+    formula = np.asarray(pc.match_substring_regex(dictionary, _FORMULA_START), dtype=bool)
+    if quote:
+        dictionary = pc.replace_substring(dictionary, '"', '""')
+    rows, codes = np.concatenate(rows), np.concatenate(codes)
+    order = np.argsort(rows, kind="stable")
+    rows, codes = rows[order], codes[order]
+    offsets = np.zeros(len(reasons) + 1, dtype=np.int64)
+    np.cumsum(np.bincount(rows, minlength=len(reasons)), out=offsets[1:])
+    values = pc.take(dictionary, pa.array(codes))
+    joined = pc.binary_join(pa.LargeListArray.from_arrays(pa.array(offsets), values), pa.scalar(SEPARATOR, type=text))
+    quoted = np.bincount(rows, weights=special[codes], minlength=len(reasons)) > 0
+    said = offsets[1:] > offsets[:-1]
+    starts = np.zeros(len(reasons), dtype=bool)
+    starts[said] = formula[codes[offsets[:-1][said]]]     # a reason's first text decides
+    return joined, quoted, starts
 
 
-def _cells(pa, values, end: str, quote: bool):
-    """The text cells ``values`` (an object array of str, or a pyarrow string array) as written, each followed by
-    ``end``: a pyarrow dictionary
+#: A cell that starts as a spreadsheet formula does (app.files.FORMULA_STARTS), as a regular expression.
+_FORMULA_START = "^[" + "".join(sorted(FORMULA_STARTS)).replace("-", "\\-") + "]"
+
+
+def _cells(pa, values: np.ndarray, end: str, quote: bool):
+    """The text cells ``values`` (an object array of str) as written, each followed by ``end``: a pyarrow dictionary
     array, each distinct text made once. A cell a spreadsheet would run as a formula gets its apostrophe
     (:func:`app.files.spreadsheet_safe`); with ``quote``, one with a comma, a quote or a line break is quoted as CSV
     quotes it (:func:`_quote_field`).
@@ -241,9 +284,9 @@ def _cells(pa, values, end: str, quote: bool):
     import pyarrow.compute as pc
 
     text = pa.large_string()
-    coded = pc.dictionary_encode(values if isinstance(values, pa.Array) else pa.array(values, type=text))
+    coded = pc.dictionary_encode(pa.array(values, type=text))
     cells = coded.dictionary
-    risky = pc.match_substring_regex(cells, "^[" + "".join(sorted(FORMULA_STARTS)).replace("-", "\\-") + "]")
+    risky = pc.match_substring_regex(cells, _FORMULA_START)
     if pc.any(risky).as_py():   # rare (results texts start with words): the few that do, one by one
         cells = pa.array([spreadsheet_safe(c) for c in cells.to_pylist()], type=text)
     if quote:
