@@ -58,8 +58,9 @@ class Tally:
         self.blank_ids = 0
         self.blank_lines: list = []         # the first five
         self.blank_line_count = 0
-        self.guarded = 0
+        self._guarded = 0
         self._header_guarded = None
+        self._uncounted = None              # the last block, its guarded cells counted when next asked
         #: ``id_at(row)``: the id (without surrounding blanks) of a row of the whole file.
         self.id_at = None
         #: Whether the numbers look typed in the other unit system (plausibility.units_finding of the first block).
@@ -120,15 +121,30 @@ class Tally:
             self._padded += [(self.size + j, hash(a)) for j, (a, b) in enumerate(zip(ids, stripped)) if a != b]
         self.blank_line_count += len(inventory.blank_lines)
         self.blank_lines += inventory.blank_lines[:5 - len(self.blank_lines)]
-        guarded = written_rows(inventory)[2]     # the header's cells counted in every block: once in the file
-        if self._header_guarded is None:
-            self._header_guarded = guarded_cells(inventory.header_text)
-            self.guarded += guarded
-        else:
-            self.guarded += guarded - self._header_guarded
+        # The cells a results file writes with an apostrophe are counted one block late: by then the results
+        # writer, which works them out for each block in its own thread, has done it for that block.
+        self._count_guarded()
+        self._uncounted = inventory
         self.size += len(inventory)
         if self.lines is not None:
             self.lines.add(inventory, result)
+
+    @property
+    def guarded(self) -> int:
+        """Text cells of the file written with a leading apostrophe (app.files.spreadsheet_safe), the header's once."""
+        self._count_guarded()
+        return self._guarded
+
+    def _count_guarded(self) -> None:
+        inventory, self._uncounted = self._uncounted, None
+        if inventory is None:
+            return
+        guarded = written_rows(inventory)[2]     # the header's cells counted in every block: once in the file
+        if self._header_guarded is None:
+            self._header_guarded = guarded_cells(inventory.header_text)
+            self._guarded += guarded
+        else:
+            self._guarded += guarded - self._header_guarded
 
     def repeated_ids(self) -> tuple[int, str | None]:
         """(how many ids appear more than once, the first of them to appear again): ids compared without
