@@ -333,6 +333,10 @@ def results_stream(path):
             pieces = _results_pieces(inventory, result)
             for piece in pieces if first else pieces[1:]:
                 fh.write(piece)
+            # Each block goes to the disk while the next is checked, not all of them at the end (the file is
+            # synced before it replaces the old one); in this thread, which waits without the interpreter lock.
+            fh.flush()
+            os.fsync(fh.fileno())
 
         def add(inventory, result):
             nonlocal pending
