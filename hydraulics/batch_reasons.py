@@ -13,8 +13,10 @@ A reach's reason reads: the notes put before it (the newest first), then its
 reason set whole, then the notes added after it (the oldest first), "; "
 between two. Setting a reach's reason whole drops the notes it had until then.
 An empty text adds nothing. Texts come as one ``str`` for every row, an object
-array of ``str`` (one per row), or :class:`Coded` (distinct texts and, per row,
-the index of its own): a text shared by many reaches is then held once.
+array of ``str`` (one per row), :class:`Coded` (distinct texts and, per row,
+the index of its own: a text shared by many reaches is then held once) or
+:class:`Composed` (pieces of texts, such as the numbers a sentence quotes, put
+together row by row only when the reasons are joined).
 """
 
 from __future__ import annotations
@@ -38,6 +40,21 @@ class Coded(NamedTuple):
         return self.texts[self.which]
 
 
+class Composed(NamedTuple):
+    """Texts made row by row of ``pieces`` written one after the other, each piece one str for every row or
+    Coded (one text per row); at least one is Coded. A text that quotes numbers is made of the numbers' texts,
+    each distinct one written once, and of the words between them."""
+
+    pieces: tuple
+
+    def expanded(self) -> np.ndarray:
+        """One text per row (object array)."""
+        out = text_array(next(len(p.which) for p in self.pieces if isinstance(p, Coded)))
+        for piece in self.pieces:
+            out = out + (piece if isinstance(piece, str) else piece.expanded())
+        return out
+
+
 def text_array(size: int, text: str = "") -> np.ndarray:
     """An object array of ``size`` references to ``text`` (np.full would convert, making a new str each)."""
     out = np.empty(size, dtype=object)
@@ -49,7 +66,7 @@ def _expanded(texts, count: int) -> np.ndarray:
     """``texts`` (str, object array or Coded) as an object array of ``count`` str, one per row."""
     if isinstance(texts, str):
         return text_array(count, texts)
-    if isinstance(texts, Coded):
+    if isinstance(texts, (Coded, Composed)):
         return texts.expanded()
     return texts
 
@@ -60,6 +77,8 @@ def _taken(texts, keep):
         return texts
     if isinstance(texts, Coded):
         return Coded(texts.texts, texts.which[keep])
+    if isinstance(texts, Composed):
+        return Composed(tuple(_taken(p, keep) for p in texts.pieces))
     return texts[keep]
 
 
@@ -95,8 +114,8 @@ class Reasons:
         self._joined = None
 
     def note(self, rows, texts, before: bool = False) -> None:
-        """Add ``texts`` (str, object array of str with one per row, or Coded) to the reasons of ``rows``: after
-        what they say, or ``before`` it."""
+        """Add ``texts`` (str, object array of str with one per row, Coded or Composed) to the reasons of
+        ``rows``: after what they say, or ``before`` it."""
         rows = np.asarray(rows, dtype=np.intp)
         if len(rows):
             self.notes.append((rows, texts, before))

@@ -46,7 +46,7 @@ from itertools import repeat
 import numpy as np
 
 from . import units as hu
-from .batch_reasons import Coded, Reasons, text_array
+from .batch_reasons import Coded, Composed, Reasons, text_array
 from .analysis import (FULL_PIPE_CAUTION, MIN_TURBULENT_REYNOLDS, NEAR_CRITICAL_BAND, NEAR_CRITICAL_CAUTION,
                        SUPERCRITICAL_CAUTION, TURBULENCE_CAUTION, analyse)
 from .errors import HydraulicsError, InputError
@@ -497,18 +497,27 @@ def _coded(clear, grouped: list, which, alone: list) -> Coded:
 
 
 def _each_2f(values, template: str) -> Coded:
-    """``template % f"{v:.2f}"`` for each value, each distinct text made once.
+    """``template % f"{v:.2f}"`` for each value, each distinct text made once (see :func:`_fixed`)."""
+    numbers = _fixed(values, 2)
+    return Coded(_objects([template % t for t in numbers.texts.tolist()]), numbers.which)
 
-    The hundredth of a value is rint(100 v), except within 1e-9 of a tie,
-    where Python rounds the value itself.
-    """
+
+def _fixed(values, decimals) -> Coded:
+    """``"%.*f" % (d, v)`` for each value ``v`` and its ``decimals`` d (an int or one per value), each distinct text
+    written once: the values are grouped by d and rint(v 10^d), the digits "%f" prints; a value within 1e-9 of a
+    rounding tie there (or not finite) is written on its own, by Python, which rounds the exact binary value."""
     v = np.asarray(values, dtype=float)
-    scaled = v * 100.0
-    code = np.rint(scaled)
-    clear = np.abs(scaled - code) < 0.5 - 1e-9
-    distinct, which = np.unique(code[clear], return_inverse=True)
-    return _coded(clear, [template % f"{c / 100:.2f}" for c in distinct.tolist()], which,
-                  [template % f"{x:.2f}" for x in v[~clear].tolist()])
+    d = np.broadcast_to(np.asarray(decimals, dtype=np.intp), v.shape)
+    if np.any((d < 0) | (d >= 32)):
+        raise ValueError(f"decimals must lie in 0 to 31, got {d.min()} to {d.max()}")
+    with np.errstate(invalid="ignore", over="ignore"):
+        scaled = v * 10.0 ** d
+        code = np.rint(scaled)
+        clear = (np.abs(scaled - code) < 0.5 - 1e-9) & (np.abs(scaled) < 2.0 ** 52)
+    key = code[clear].astype(np.int64) * 32 + d[clear]      # d < 32: "%.*f" of more decimals is not asked for
+    _, first, which = np.unique(key, return_index=True, return_inverse=True)
+    return _coded(clear, ["%.*f" % t for t in zip(d[clear][first].tolist(), v[clear][first].tolist())], which,
+                  ["%.*f" % t for t in zip(d[~clear].tolist(), v[~clear].tolist())])
 
 
 def _each_worded(values, display: hu.UnitSystem, make, name: str) -> Coded:
@@ -822,23 +831,32 @@ def _record(sc, rows, out: BatchResult, display: hu.UnitSystem, how: str) -> Non
     design, permissible = display.from_si("shear", design), display.from_si("shear", permissible)
     dd, pd = _digits3(design), _digits3(permissible)
     word = np.where(stable, "stable", "unstable")
-    texts = np.empty(len(rows), dtype=object)
     plain = ~cannot & ~appendix
+    # "%s, %s: %.*f %s against %.*f %s permissible (safety factor %.2f, %.2f needed); hydraulics %s", each
+    # number's text written once
+    m = plain
+    _note(out, rows[m], Composed((_labels(stable[m], where[m]), _fixed(design[m], dd[m]), f" {unit} against ",
+                                  _fixed(permissible[m], pd[m]), f" {unit} permissible (safety factor ",
+                                  _fixed(sf[m], 2), ", ", _fixed(required[m], 2), f" needed); hydraulics {how}")),
+          first=True)
     col = lambda a, m: a[m].tolist()  # noqa: E731  (Python numbers: "%.*f" needs a Python int)
-    texts[plain] = ["%s, %s: %.*f %s against %.*f %s permissible (safety factor %.2f, %.2f needed); hydraulics %s"
-                    % t for t in zip(col(word, plain), col(where, plain), col(dd, plain), col(design, plain),
-                                     repeat(unit), col(pd, plain), col(permissible, plain), repeat(unit),
-                                     col(sf, plain), col(required, plain), repeat(how))]
-    texts[appendix] = ["%s, %s: %.*f %s on side stone of a steep bed (HEC-15 Appendix D safety factor %.2f, %.2f "
-                       "needed); hydraulics %s" % t
-                       for t in zip(col(word, appendix), col(where, appendix), col(dd, appendix),
-                                    col(design, appendix), repeat(unit), col(sf, appendix), col(required, appendix),
-                                    repeat(how))]
-    texts[cannot] = [f"unstable, {w}: stone cannot rest on a side as steep as or steeper than its angle of repose; "
-                     f"hydraulics {how}" for w in where[cannot]]
-    out.verdict[rows] = np.where(stable, "stable", "unstable")
+    _note(out, rows[appendix], _objects(
+        ["%s, %s: %.*f %s on side stone of a steep bed (HEC-15 Appendix D safety factor %.2f, %.2f needed); "
+         "hydraulics %s" % t for t in zip(col(word, appendix), col(where, appendix), col(dd, appendix),
+                                         col(design, appendix), repeat(unit), col(sf, appendix),
+                                         col(required, appendix), repeat(how))]), first=True)
+    _note(out, rows[cannot], _objects([f"unstable, {w}: stone cannot rest on a side as steep as or steeper than its "
+                                       f"angle of repose; hydraulics {how}" for w in where[cannot]]), first=True)
+    out.verdict[rows] = word
     out.governs[rows] = where
-    _note(out, rows, texts, first=True)
+
+
+def _labels(stable, where) -> Coded:
+    """``"stable, <where>: "`` or ``"unstable, <where>: "`` for each reach, each distinct text made once."""
+    places, at = np.unique(where.astype(str), return_inverse=True)
+    keys, which = np.unique(np.ravel(at) * 2 + stable, return_inverse=True)
+    return Coded(_objects([f"{'stable' if k % 2 else 'unstable'}, {places[k // 2]}: " for k in keys.tolist()]),
+                 np.ravel(which))
 
 
 def _digits3(values):

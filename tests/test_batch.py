@@ -710,6 +710,20 @@ def test_two_decimals_as_python_rounds_them():
     assert mr._each_2f(np.zeros(0), "%s").expanded().tolist() == []
 
 
+def test_fixed_decimals_as_python_rounds_them():
+    """Each value with its own number of decimals, as the shear checks' reasons quote them (three significant
+    figures): near and at binary ties, across powers of ten, large and not finite values."""
+    rng = np.random.default_rng(3)
+    # 0.15 times 10 is 1.5 in floating point, but 0.15 is below 0.15 and prints as 0.1 to one decimal
+    values = np.concatenate([[0.15, 0.015, 0.0025, 0.125, 0.0125, 1.005, 2.675, 0.0995, 0.09995, 99.95, 100.5,
+                              1234.5, 0.0, 1e17, np.inf, np.nan],
+                             rng.uniform(0, 50, 2000), 10 ** rng.uniform(-4, 3, 2000)])
+    decimals = np.concatenate([[1, 2, 3, 3, 4, 2, 2, 4, 5, 1, 0, 0, 2, 0, 2, 2], rng.integers(0, 6, 4000)])
+    got = mr._fixed(values, decimals)
+    assert got.expanded().tolist() == ["%.*f" % (d, v) for d, v in zip(decimals.tolist(), values.tolist())]
+    assert len(got.texts) < len(values)    # texts that print alike are written once
+
+
 def test_a_large_results_file_is_the_same_with_and_without_worker_threads(tmp_path, monkeypatch):
     # Above app.numtext.PARALLEL_MIN_ROWS the numbers are formatted by two threads; the file must not change.
     rows = generated_rows(400, seed=9, units="us") * 60  # 24,000 reaches

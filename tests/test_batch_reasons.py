@@ -15,7 +15,7 @@ from app.inventory import writing
 from app.inventory.writing import _quote_field
 from app.inventory.reading import pyarrow_modules
 from hydraulics import many_reaches as mr
-from hydraulics.batch_reasons import Coded, Reasons
+from hydraulics.batch_reasons import Coded, Composed, Reasons
 
 WORDS = ["stable, bed: 0.12 lb/ft^2", "near critical", "silt, may settle", 'a "quoted" word', "", "n held",
          "side slopes (2H:1V)", "ünïcode †", "=1+2", "-3.5", "line\nbreak"]
@@ -27,19 +27,38 @@ def _random_steps(rng, size, count):
     for _ in range(count):
         kind = rng.choice(["set", "note", "note", "before"])
         rows = np.sort(rng.choice(size, rng.integers(0, size + 1), replace=False))
-        form = rng.integers(3) if kind != "set" else rng.integers(2)
+        form = rng.integers(4) if kind != "set" else rng.integers(2)
         if form == 0:
             texts = str(rng.choice(WORDS))
         elif form == 1:
             texts = np.empty(len(rows), dtype=object)
             texts[:] = [str(w) + f" {i}" if rng.random() < 0.5 else str(w)
                         for i, w in enumerate(rng.choice(WORDS, len(rows)))]
-        else:
-            distinct = np.empty(len(WORDS), dtype=object)
-            distinct[:] = WORDS
-            texts = Coded(distinct, rng.integers(len(WORDS), size=len(rows)))
+        elif form == 2:
+            texts = Coded(_objects(WORDS), rng.integers(len(WORDS), size=len(rows)))
+        else:   # a sentence quoting numbers: words and coded numbers put together
+            numbers = _objects(["0.125", "14.01", "", "2,5"])
+            texts = Composed((str(rng.choice(WORDS)), Coded(numbers, rng.integers(4, size=len(rows))), " lb/ft^2 ",
+                              Coded(numbers, rng.integers(4, size=len(rows)))))
         steps.append((kind, rows, texts))
     return steps
+
+
+def _objects(texts):
+    out = np.empty(len(texts), dtype=object)
+    out[:] = texts
+    return out
+
+
+def _text(texts, j):
+    """Row ``j``'s text of ``texts`` as given to a step."""
+    if isinstance(texts, str):
+        return texts
+    if isinstance(texts, Coded):
+        return texts.texts[texts.which[j]]
+    if isinstance(texts, Composed):
+        return "".join(_text(p, j) for p in texts.pieces)
+    return texts[j]
 
 
 def _reference(size, steps):
@@ -47,8 +66,7 @@ def _reference(size, steps):
     out = [""] * size
     for kind, rows, texts in steps:
         for j, i in enumerate(rows.tolist()):
-            t = texts if isinstance(texts, str) else (
-                texts.texts[texts.which[j]] if isinstance(texts, Coded) else texts[j])
+            t = _text(texts, j)
             if kind == "set":
                 out[i] = t
             elif t:

@@ -21,7 +21,7 @@ from itertools import repeat
 import numpy as np
 
 from hydraulics import many_reaches as mr
-from hydraulics.batch_reasons import SEPARATOR, Coded
+from hydraulics.batch_reasons import SEPARATOR, Coded, Composed
 
 from ..files import FORMULA_STARTS, atomic_writer, spreadsheet_safe, write_atomic
 from ..numtext import format_rows_parallel
@@ -244,7 +244,12 @@ def _joined_reasons(pa, reasons, quote: bool = False):
             distinct, which = said.texts, said.which
         else:
             distinct, which = said, np.arange(len(at))
-        distinct = pa.array(distinct, type=text)
+        if isinstance(said, Composed):   # its pieces put together row by row
+            distinct = pc.binary_join_element_wise(
+                *(pa.scalar(p, type=text) if isinstance(p, str) else pc.take(pa.array(p.texts, type=text), p.which)
+                  for p in said.pieces), pa.scalar("", type=text))
+        else:
+            distinct = pa.array(distinct, type=text)
         kept = ~np.asarray(pc.equal(distinct, ""), dtype=bool)[which]     # an empty text adds nothing
         texts.append(distinct)
         rows.append(at[kept])
