@@ -335,10 +335,24 @@ class StoneRoughness:
                               + w * np.log(np.where(code == 3, blod, 1.0)))
             if lim is not None and np.any(code == 2):
                 # Bathurst's n at the lowest depth where it is usable, at this slope: n is continuous there
-                held = np.asarray(hec15._bathurst_n_manning(lim[0], d50, lim[1], lim[2], slope), dtype=float)
-                held = np.where(np.isfinite(held) & (held > 0), held, n_hold)
+                held = self._held_n(code == 2, d50, n_hold, lim, slope)
         n = np.select([code == 0, code == 1, code == 3], [blod, bath, ramp], held)
         return n, code
+
+    @staticmethod
+    def _held_n(where, d50, n_hold, lim, slope):
+        """Bathurst's n at the lowest depth where it is usable (``lim``: da, T and R there), at ``slope``, where it
+        is finite and positive, else ``n_hold``; worked out only ``where`` it is held (elsewhere ``n_hold``)."""
+        def held(pick):
+            n = np.asarray(hec15._bathurst_n_manning(pick(lim[0]), pick(d50), pick(lim[1]), pick(lim[2]),
+                                                     pick(slope)), dtype=float)
+            return np.where(np.isfinite(n) & (n > 0), n, pick(n_hold))
+
+        if not np.ndim(where) or where.all():
+            return held(lambda v: v)
+        out = np.array(np.broadcast_to(np.asarray(n_hold, dtype=float), where.shape))
+        out[where] = held(lambda v: np.asarray(v)[where] if np.shape(v) == where.shape else v)
+        return out
 
     def _lowest_bathurst_depth(self, section):
         """Lowest depth at which Bathurst's relation is usable (da/D50 > 0.3 and p <= P_LIMIT).
