@@ -725,10 +725,14 @@ def _roughness_ranges(lining, rough, reaches, rows, solved, out, display) -> dic
         if part.any():
             model, at = _part(rough, np.flatnonzero(part)), rows[part]
             args = (make(reaches, at), out.normal_depth[at], reaches.slope[at])
-            own = model.check_elements(*args, units=display)   # each reach's own, as calc says it
-            said = own != ""
+            if hasattr(model, "check_each"):   # a stone model: its relations at the depths worked out once
+                relations = model.relations(*args)
+                own = model.check_elements(*args, units=display, relations=relations)
+                each = model.check_each(*args, relations=relations)
+            else:
+                own, each = model.check_elements(*args, units=display), {None: model.check(*args)}
+            said = own != ""      # each reach's own notes, as calc says them
             _note(out, at[said], own[said])
-            each = model.check_each(*args) if hasattr(model, "check_each") else {None: model.check(*args)}
             for d, texts in each.items():
                 notes.setdefault(d, []).extend(f"lining {lining.key!r}: {in_units(t, display)}" for t in texts)
     return notes

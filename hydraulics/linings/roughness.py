@@ -449,24 +449,31 @@ class StoneRoughness:
         the warnings of each size in turn, see :meth:`check_each`)."""
         return [note for notes in self.check_each(section, depth, slope).values() for note in notes]
 
-    def check_each(self, section, depth, slope) -> dict:
+    def relations(self, section, depth, slope):
+        """(da/D50, the relation used: 0 Blodgett, 1 Bathurst, 2 held, 3 the ramp between) at ``depth``, per
+        element, each as an array of the shape of ``depth`` and the sizes broadcast; zeros for "strickler". What
+        :meth:`check_each` and :meth:`check_elements` word, worked out once for both where they are given it."""
+        shape = np.broadcast_shapes(np.shape(depth), np.shape(self.d50))
+        if self.method == "strickler":
+            return np.zeros(shape), np.zeros(shape, dtype=int)
+        depth = np.broadcast_to(np.asarray(depth, float), shape)
+        da, _, _ = _average_depth(section, depth)
+        return (np.broadcast_to(np.asarray(da / self.d50, dtype=float), shape),
+                np.broadcast_to(self._regions(section, depth, slope)[1], shape))
+
+    def check_each(self, section, depth, slope, relations=None) -> dict:
         """{D50: the warnings of :meth:`check` for the elements of that size}, smallest size first; the
-        relations are evaluated once for all sizes."""
+        relations are evaluated once for all sizes (or given: :meth:`relations` at the same depths)."""
         if not np.ndim(self.d50):
             return {float(self.d50): self._notes(self.d50, section, depth, slope)}
-        depth = np.broadcast_to(np.asarray(depth, float), np.shape(self.d50))
-        if self.method == "strickler":
-            ratio = code = np.zeros(np.shape(self.d50))
-        else:
-            da, _, _ = _average_depth(section, depth)
-            ratio = np.asarray(da / self.d50, dtype=float)
-            _, code = self._regions(section, depth, slope)
+        ratio, code = self.relations(section, depth, slope) if relations is None else relations
         return {d: self._notes(d, None, None, None, ratio[self.d50 == d], code[self.d50 == d])
                 for d in np.unique(self.d50).tolist()}
 
-    def check_elements(self, section, depth, slope, units=None) -> np.ndarray:
+    def check_elements(self, section, depth, slope, units=None, relations=None) -> np.ndarray:
         """The warnings :meth:`check` gives each element on its own, as one text an element ("; " between two;
-        "" where none), in ``units`` (None: SI): what a one-channel check of that element says.
+        "" where none), in ``units`` (None: SI): what a one-channel check of that element says. ``relations``:
+        :meth:`relations` at the same depths, where the caller has it.
 
         Elements of one size whose da/D50 prints alike (three significant figures) and falls under the same
         relation and range share a text, worded once; a da/D50 within 1e-9 of a rounding tie is worded alone.
@@ -478,12 +485,8 @@ class StoneRoughness:
             return out
         lo, hi = hec15.STONE_SIZE_RANGE
         flag = ((d50 < lo) | (d50 > hi)).astype(int)                # 1: the size note
-        if self.method == "strickler":
-            ratio = code = np.zeros(d50.shape)
-        else:
-            da, _, _ = _average_depth(section, depth)
-            ratio = np.broadcast_to(np.asarray(da / self.d50, dtype=float), d50.shape)
-            code = np.broadcast_to(self._regions(section, depth, slope)[1], d50.shape)
+        ratio, code = self.relations(section, depth, slope) if relations is None else relations
+        if self.method != "strickler":
             (a, b), (c, e) = hec15.BLODGETT_RANGE, hec15.BATHURST_RANGE
             ranged = (((code == 0) & ((ratio < a) | (ratio > b))) | ((code == 1) & ((ratio <= c) | (ratio >= e)))
                       | (code == 2) | (code == 3))
