@@ -32,7 +32,8 @@ gives: silt settling, side slopes steeper than 1V:3H) are added to the reason
 in the words and order of the single-channel check; they do not change the
 verdict. A lining with a unit cost prices each of its reaches
 (``cost_per_length``) as the single-channel check does. Arrays are SI throughout; ``display`` only sets the units that the
-reasons quote values in.
+reasons quote values in. The reasons are kept as the texts each step adds (:mod:`hydraulics.batch_reasons`), each text
+shared by many reaches made once, and joined only when read (``BatchResult.reason``).
 """
 
 from __future__ import annotations
