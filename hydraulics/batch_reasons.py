@@ -63,7 +63,7 @@ def text_array(size: int, text: str = "") -> np.ndarray:
 
 
 def _expanded(texts, count: int) -> np.ndarray:
-    """``texts`` (str, object array or Coded) as an object array of ``count`` str, one per row."""
+    """``texts`` (str, object array, Coded or Composed) as an object array of ``count`` str, one per row."""
     if isinstance(texts, str):
         return text_array(count, texts)
     if isinstance(texts, (Coded, Composed)):
@@ -72,7 +72,7 @@ def _expanded(texts, count: int) -> np.ndarray:
 
 
 def _taken(texts, keep):
-    """The texts of the rows ``keep`` (a mask) of ``texts`` (str, object array or Coded)."""
+    """The texts of the rows ``keep`` (a mask) of ``texts`` (str, object array, Coded or Composed)."""
     if isinstance(texts, str):
         return texts
     if isinstance(texts, Coded):

@@ -239,17 +239,15 @@ def _joined_reasons(pa, reasons, quote: bool = False):
     texts, rows, codes, count = [], [], [], 0
     for at, said in reasons.parts():
         if isinstance(said, str):
-            distinct, which = [said], np.zeros(len(at), dtype=np.intp)
+            distinct, which = pa.array([said], type=text), np.zeros(len(at), dtype=np.intp)
         elif isinstance(said, Coded):
-            distinct, which = said.texts, said.which
-        else:
-            distinct, which = said, np.arange(len(at))
-        if isinstance(said, Composed):   # its pieces put together row by row
-            distinct = pc.binary_join_element_wise(
+            distinct, which = pa.array(said.texts, type=text), said.which
+        elif isinstance(said, Composed):   # its pieces put together row by row
+            distinct, which = pc.binary_join_element_wise(
                 *(pa.scalar(p, type=text) if isinstance(p, str) else pc.take(pa.array(p.texts, type=text), p.which)
-                  for p in said.pieces), pa.scalar("", type=text))
+                  for p in said.pieces), pa.scalar("", type=text)), np.arange(len(at))
         else:
-            distinct = pa.array(distinct, type=text)
+            distinct, which = pa.array(said, type=text), np.arange(len(at))
         kept = ~np.asarray(pc.equal(distinct, ""), dtype=bool)[which]     # an empty text adds nothing
         texts.append(distinct)
         rows.append(at[kept])
