@@ -88,9 +88,12 @@ def test_the_file_written_block_by_block_is_the_same_guarded_file(tmp_path):
     expected = ai.format_results(inv, ai.evaluate(inv, catalogue=SHIPPED))
     source = tmp_path / "in.csv"
     source.write_text(text, encoding="utf-8")
-    ai.check_file(source, tmp_path / "out.csv", "us", rows=7, catalogue=SHIPPED)
+    tally = ai.check_file(source, tmp_path / "out.csv", "us", rows=7, catalogue=SHIPPED)
     written = (tmp_path / "out.csv").read_text(encoding="utf-8")
     assert written == expected
+    # the cells guarded, counted block by block (each block's count taken one block late, the last one when asked):
+    # 14 ids starting with "=" and 8 owners with "@"
+    assert tally.guarded == 14 + 8
     out = list(csv.DictReader(io.StringIO(written, newline="")))
     assert [r["id"] for r in out[:4]] == ["'=R0", "R1", "R2", "'=R3"]
     assert out[5]["owner"] == "'@o5" and out[5]["offset"] == "-5"
