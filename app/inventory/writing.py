@@ -96,7 +96,7 @@ def _results_pieces(inventory: Inventory, result: mr.BatchResult) -> list:
             return [head, "".join(parts).encode("utf-8")]
         pa = modules[0]
         rows = _row_array(pa, inventory)
-        verdict_texts = _cells(pa, result.verdict, ",", quote=False)
+        verdict_texts = _cells(pa, result.verdict, ",")
         reason_texts = _reason_cells(pa, result)
         numbers = pending.result()
     return [head, _joined_lines(pa, rows, numbers, verdict_texts, reason_texts)]
@@ -194,7 +194,8 @@ def _joined_lines(pa, rows, numbers, verdict_texts, reason_texts) -> memoryview:
 
 def _reason_cells(pa, result: mr.BatchResult):
     """The reason cells of ``result`` as a results file writes them, each followed by a line end: a pyarrow
-    large_string array with the text :func:`_cells` makes of ``result.reason``, built in C++ from the reasons'
+    large_string array: each reason guarded (:func:`app.files.spreadsheet_safe`) and quoted as CSV quotes it
+    (:func:`_quote_field`), built in C++ from the reasons'
     texts (:func:`_joined_reasons`) without making a Python string per reach in the thread that checks the next
     block.
 
@@ -276,14 +277,13 @@ def _joined_reasons(pa, reasons, quote: bool = False):
 _FORMULA_START = "^[" + "".join(sorted(FORMULA_STARTS)).replace("-", "\\-") + "]"
 
 
-def _cells(pa, values: np.ndarray, end: str, quote: bool):
-    """The text cells ``values`` (an object array of str) as written, each followed by ``end``: a pyarrow dictionary
-    array, each distinct text made once. A cell a spreadsheet would run as a formula gets its apostrophe
-    (:func:`app.files.spreadsheet_safe`); with ``quote``, one with a comma, a quote or a line break is quoted as CSV
-    quotes it (:func:`_quote_field`).
+def _cells(pa, values: np.ndarray, end: str):
+    """The text cells ``values`` (an object array of str, texts that need no CSV quotes, such as the verdicts) as
+    written, each followed by ``end``: a pyarrow dictionary array, each distinct text made once. A cell a
+    spreadsheet would run as a formula gets its apostrophe (:func:`app.files.spreadsheet_safe`).
 
-    The distinct texts are found and quoted by pyarrow's compute functions, in C++ and mostly without the
-    interpreter lock, so that the writer's thread leaves the lock to the check of the next block."""
+    The distinct texts are found by pyarrow's compute functions, in C++ and mostly without the interpreter lock, so
+    that the writer's thread leaves the lock to the check of the next block."""
     import pyarrow.compute as pc
 
     text = pa.large_string()
@@ -292,10 +292,6 @@ def _cells(pa, values: np.ndarray, end: str, quote: bool):
     risky = pc.match_substring_regex(cells, _FORMULA_START)
     if pc.any(risky).as_py():   # rare (results texts start with words): the few that do, one by one
         cells = pa.array([spreadsheet_safe(c) for c in cells.to_pylist()], type=text)
-    if quote:
-        mark, none = pa.scalar('"', type=text), pa.scalar("", type=text)
-        quoted = pc.binary_join_element_wise(mark, pc.replace_substring(cells, '"', '""'), mark, none)
-        cells = pc.if_else(pc.match_substring_regex(cells, '[,"\n\r]'), quoted, cells)
     cells = pc.binary_join_element_wise(cells, pa.scalar(end, type=text), pa.scalar("", type=text))
     return pa.DictionaryArray.from_arrays(coded.indices, cells)
 
