@@ -81,10 +81,16 @@ def main(argv=None) -> int:
     except BrokenPipeError:  # output piped into `head` and the like
         sys.stderr.close()
         return 0
+    except KeyboardInterrupt:  # Ctrl+C: a line, not a traceback; files are written whole or not at all
+        print(f"ditchwright {args.command}: interrupted; a file it was writing is left as it was",
+              file=sys.stderr)
+        return INTERRUPTED_STATUS
     except Exception as exc:  # noqa: BLE001 - the last resort: never a traceback on the terminal
         return _report_unexpected(args.command, exc)
 
 
+#: Exit status when the user interrupts a command (Ctrl+C): 128 + SIGINT, as shells report it (common practice).
+INTERRUPTED_STATUS = 130
 #: Exit status when the program itself failed (not the input): distinct from 2 (bad input) and 3 (no solution).
 UNEXPECTED_STATUS = 70
 

@@ -3,6 +3,7 @@ file is byte for byte the one the whole file in memory gives, and the summary sa
 and whichever reader (pyarrow, the csv module) reads each block. The inventories here are invented."""
 
 import csv
+import functools
 import io
 
 import numpy as np
@@ -146,6 +147,30 @@ def test_a_block_that_cannot_be_written_leaves_the_old_results(tmp_path, monkeyp
     assert sorted(p.name for p in tmp_path.iterdir()) == ["inv.csv", "out.csv"]
 
 
+def test_ctrl_c_half_way_is_one_line_and_leaves_the_old_results(tmp_path, capsys, monkeypatch):
+    """Interrupted by the user (Ctrl+C) after two blocks: no traceback, exit status 130 (128 + SIGINT, as shells
+    report it; common practice), the old results file as it was and no half-written file beside it."""
+    from hydraulics import many_reaches as mr
+
+    source, target = tmp_path / "inv.csv", tmp_path / "out.csv"
+    write_csv(source, mixed_rows(120))
+    target.write_text("old results\n", encoding="utf-8")
+    monkeypatch.setattr(ai, "check_file", functools.partial(ai.check_file, rows=25))   # blocks of 25 reaches
+    evaluate, calls = mr.evaluate, []
+
+    def interrupted(*args, **kwargs):
+        calls.append(1)
+        if len(calls) == 3:
+            raise KeyboardInterrupt
+        return evaluate(*args, **kwargs)
+    monkeypatch.setattr(mr, "evaluate", interrupted)
+    assert main(["batch", str(source), "-o", str(target), "--no-progress"]) == 130
+    err = capsys.readouterr().err
+    assert err == "ditchwright batch: interrupted; a file it was writing is left as it was\n"
+    assert target.read_text(encoding="utf-8") == "old results\n"
+    assert sorted(p.name for p in tmp_path.iterdir()) == ["inv.csv", "out.csv"]
+
+
 def test_an_empty_file_is_refused_before_anything_is_written(tmp_path):
     source, target = tmp_path / "inv.csv", tmp_path / "out.csv"
     source.write_text("\n\n", encoding="utf-8")
@@ -165,7 +190,7 @@ def test_the_command_reports_rows_a_second_and_the_same_file(tmp_path, capsys, m
     source = tmp_path / "inv.csv"
     write_csv(source, mixed_rows(120))
     whole_file(source, tmp_path / "whole.csv")
-    monkeypatch.setattr(reading, "BLOCK_ROWS", 25)
+    monkeypatch.setattr(ai, "check_file", functools.partial(ai.check_file, rows=25))   # blocks of 25 reaches
     assert main(["batch", str(source), "-o", str(tmp_path / "out.csv"), "--no-progress"]) == 1   # bad rows
     out = capsys.readouterr()
     assert (tmp_path / "out.csv").read_bytes() == (tmp_path / "whole.csv").read_bytes()
