@@ -10,7 +10,8 @@ US customary units, one malformed row in a thousand (with --own-n: every reach g
 (2) the bare baseline: pyarrow.csv.read_csv of the same file, then pyarrow.csv.write_csv of the table read.
 
 For each, the wall time of the work and the process's peak resident memory (getrusage ru_maxrss, which counts the
-interpreter and its imports as well). Printed: per size, the median over the rounds of the time ratio (1)/(2) with
+interpreter and its imports as well); for the batch also its processor time (user and system, all threads), which
+says how much of the machine's cores it keeps busy. Printed: per size, the median over the rounds of the time ratio (1)/(2) with
 its range, and the peak memory of each (median and range). Goals (issue 15): 1 million reaches at most 4x the bare
 read + write, and memory that does not grow with the rows (at most 600 MB for 5 million reaches). The absolute
 times depend on the machine and its load and are indicative only.
@@ -38,10 +39,13 @@ share_one_heap()  # as `ditchwright batch` asks at its start, before the imports
 from app.main import main
 import app.cli.inventory_command, app.inventory, pyarrow.csv  # imports outside the timing
 src, dst = sys.argv[1:3]
+before = resource.getrusage(resource.RUSAGE_SELF)
 t = time.perf_counter()
 status = main(["batch", src, "-o", dst, "--no-progress"])
-print(json.dumps({"seconds": time.perf_counter() - t, "rss": resource.getrusage(resource.RUSAGE_SELF).ru_maxrss,
-                  "status": status}))
+seconds = time.perf_counter() - t
+after = resource.getrusage(resource.RUSAGE_SELF)
+cpu = after.ru_utime - before.ru_utime + after.ru_stime - before.ru_stime   # every thread's processor time
+print(json.dumps({"seconds": seconds, "rss": after.ru_maxrss, "cpu": cpu, "status": status}))
 """
 
 BARE = """
@@ -129,6 +133,9 @@ def main(argv=None):
                   f"{size / np.median([r['seconds'] for r in runs]):,.0f} rows a second; bare pyarrow read + write: "
                   f"{np.median([b['seconds'] for b in bases]):.2f} s (medians)")
             print(f"  ratio batch / bare: {_spread(ratios)} (goal <= 4x at 1,000,000)")
+            print(f"  processor time of the batch (all its threads): "
+                  f"{_spread([r['cpu'] for r in runs], '{:.2f}', ' s')}, "
+                  f"{_spread([r['cpu'] / r['seconds'] for r in runs], '{:.2f}', ' cores')} busy on average")
             print(f"  peak resident memory: batch {_spread(mb(runs), '{:.0f}', ' MB')}, "
                   f"bare {_spread(mb(bases), '{:.0f}', ' MB')} (goal: flat in the rows, <= 600 MB at 5,000,000)")
     print("absolute times are indicative: they depend on the machine and its load")
