@@ -11,8 +11,8 @@ US customary units, one malformed row in a thousand (with --own-n: every reach g
 
 For each, the wall time of the work and the process's peak resident memory (getrusage ru_maxrss, which counts the
 interpreter and its imports as well); for the batch also its processor time (user and system, all threads), which
-says how much of the machine's cores it keeps busy. Printed: per size, the median over the rounds of the time ratio (1)/(2) with
-its range, and the peak memory of each (median and range). Goals (issue 15): 1 million reaches at most 4x the bare
+says how many of the machine's cores it keeps busy. Printed: per size, the median over the rounds of the time ratio
+(1)/(2) with its range, and the peak memory of each (median and range). Goals (issue 15): 1 million reaches at most 4x the bare
 read + write, and memory that does not grow with the rows (at most 600 MB for 5 million reaches). The absolute
 times depend on the machine and its load and are indicative only.
 """
