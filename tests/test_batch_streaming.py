@@ -10,7 +10,7 @@ import numpy as np
 import pytest
 
 from app import inventory as ai
-from app.inventory import reading, writing
+from app.inventory import writing
 from app.main import main
 from app.context import Context
 
