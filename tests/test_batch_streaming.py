@@ -10,7 +10,7 @@ import numpy as np
 import pytest
 
 from app import inventory as ai
-from app.inventory import writing
+from app.inventory import reading, writing
 from app.main import main
 from app.context import Context
 
@@ -115,6 +115,20 @@ def test_blocks_carry_the_file_line_numbers(tmp_path):
     assert np.concatenate([b.lines for b in blocks]).tolist() == whole.lines.tolist()
     assert sum((b.blank_lines for b in blocks), []) == whole.blank_lines == [2, 22]
     assert sum((b.ids for b in blocks), []) == whole.ids
+
+
+@pytest.mark.parametrize("read_bytes", [64, 1000, 1 << 22])
+def test_the_block_reader_hands_on_where_each_blocks_line_feeds_are(tmp_path, monkeypatch, read_bytes):
+    """The parser takes the line feeds the block reader has found instead of looking for them again: they are
+    every line feed of each block, for pieces of the file read smaller and larger than a block."""
+    source = tmp_path / "inv.csv"
+    write_csv(source, mixed_rows(90))
+    monkeypatch.setattr(reading, "READ_BYTES", read_bytes)
+    with open(source, "rb") as fh:
+        pieces = list(reading._line_blocks(fh, source, 8))
+    assert b"".join(p[0] for p in pieces) == source.read_bytes() and len(pieces) == 13   # 8 lines, then 7 each
+    for data, _, _, _, feeds in pieces:
+        assert feeds.tolist() == np.flatnonzero(np.frombuffer(data, dtype=np.uint8) == ord("\n")).tolist()
 
 
 def test_a_bad_byte_late_in_the_file_leaves_the_old_results(tmp_path):

@@ -269,11 +269,12 @@ def _texts(texts, lower=False):
 
 
 def parse_inventory(text: str | bytes, units: str = "us", source: str = "inventory", *,
-                    ascii_checked: bool = False) -> Inventory:
+                    ascii_checked: bool = False, line_feeds: np.ndarray | None = None) -> Inventory:
     """Read inventory CSV ``text`` in the unit system ``units`` ("us" or "si").
 
     ``text`` is a str, or bytes of ASCII text (a file that needs no decoding;
-    ``ascii_checked``: the caller has made sure of that).
+    ``ascii_checked``: the caller has made sure of that; ``line_feeds``: where
+    its line feeds are, when the caller has found them already).
     Raises InventoryError for a file that cannot be an inventory (empty, no
     header, missing or duplicated columns) and InputError for unknown units.
     Problems of single rows do not raise: they go into ``reaches.notes``.
@@ -283,7 +284,7 @@ def parse_inventory(text: str | bytes, units: str = "us", source: str = "invento
         if not (ascii_checked or text.isascii()):
             raise ValueError("parse_inventory takes bytes of ASCII text only; decode other text first")
         if b"\r" not in text and b'"' not in text:  # the common file: pyarrow reads its bytes as they are
-            inventory = _parse_arrow(text, system, source)
+            inventory = _parse_arrow(text, system, source, line_feeds)
             if inventory is not None:
                 return inventory
         text = text.decode("ascii")
@@ -362,9 +363,9 @@ def _arrow_table(pa, pacsv, body: bytes, names, types):
                                              strings_can_be_null=False, quoted_strings_can_be_null=False))
 
 
-def _parse_arrow(data: bytes, system, source: str):
+def _parse_arrow(data: bytes, system, source: str, line_feeds: np.ndarray | None = None):
     """:func:`parse_inventory` of UTF-8 ``data`` without quotes or carriage returns by pyarrow, or None where
-    the Python reader must read it."""
+    the Python reader must read it; ``line_feeds``: where the line feeds of ``data`` are (None: found here)."""
     modules = pyarrow_modules()
     if modules is None:
         return None
@@ -376,7 +377,10 @@ def _parse_arrow(data: bytes, system, source: str):
     if not header.strip() or end + 1 == len(data):
         return None  # empty, or a header only: the Python reader says so
     body = data[end + 1:] if data.endswith(b"\n") else data[end + 1:] + b"\n"
-    stops = np.flatnonzero(np.frombuffer(body, dtype=np.uint8) == ord("\n"))
+    if line_feeds is not None and data.endswith(b"\n"):   # the block reader has looked at every byte already
+        stops = line_feeds[1:] - (end + 1)
+    else:
+        stops = np.flatnonzero(np.frombuffer(body, dtype=np.uint8) == ord("\n"))
     starts = np.concatenate([[0], stops[:-1] + 1])
     if (stops == starts).any():
         return None  # blank lines, which the Python reader reports
@@ -529,7 +533,7 @@ def read_blocks(path, units: str = "us", rows: int = BLOCK_ROWS):
         pieces = _line_blocks(fh, path, None if quoted else rows + 1)
         if quoted:
             def texts():
-                for data, before, _, _ in pieces:
+                for data, before, _, _, _ in pieces:
                     yield io.StringIO(_decode(data, source, before, "utf-8" if before else "utf-8-sig"), newline="")
             for split in _csv_batches(itertools.chain.from_iterable(texts()), source, rows):
                 block = _from_split(split, False, system, source)
@@ -537,11 +541,12 @@ def read_blocks(path, units: str = "us", rows: int = BLOCK_ROWS):
                 yield block
             return
         header = None
-        for data, before, lines_before, end in pieces:
+        for data, before, lines_before, end, feeds in pieces:
             if header is not None:
                 data = header + data
+                feeds = np.concatenate([[len(header) - 1], feeds + len(header)])
             if data.isascii():
-                block = parse_inventory(data, units, source=source, ascii_checked=True)
+                block = parse_inventory(data, units, source=source, ascii_checked=True, line_feeds=feeds)
             else:
                 block = parse_inventory(_decode(data, source, before - (header is not None),
                                                 "utf-8" if header else "utf-8-sig"), units, source=source)
@@ -555,7 +560,8 @@ def read_blocks(path, units: str = "us", rows: int = BLOCK_ROWS):
 
 
 def _line_blocks(fh, path, rows):
-    """(bytes, line feeds before them, lines before them, bytes to their end) of the file ``fh``, cut after a line feed: ``rows``
+    """(bytes, line feeds before them, lines before them, bytes to their end, where their line feeds are (an array
+    of offsets; the lines counted by ``rows`` only)) of the file ``fh``, cut after a line feed: ``rows``
     lines the first block (the header and ``rows - 1`` records), ``rows - 1`` each other one (None: about
     :data:`READ_BYTES` a block). A line end may be a line feed, a carriage return
     followed by one, or a carriage return alone (counted as a line, as :func:`parse_inventory` reads it)."""
@@ -579,20 +585,20 @@ def _line_blocks(fh, path, rows):
                 break
             block, data = data[:cut], data[cut:]
             end += cut
-            yield block, feeds, lines, end
-            if rows is not None and not lines:
-                rows -= 1
             if rows is None:
-                block_feeds = block.count(b"\n")
+                block_feeds, at = block.count(b"\n"), None
             else:   # the line feeds before the cut are the block's
                 block_feeds = int(np.searchsorted(found, cut))
-                found = found[block_feeds:] - cut
+                at, found = found[:block_feeds], found[block_feeds:] - cut
+            yield block, feeds, lines, end, at
+            if rows is not None and not lines:
+                rows -= 1
             returns = block.count(b"\r") if b"\r" in block else 0   # the usual file has none: a quicker look first
             feeds += block_feeds
             lines += block_feeds + returns - block.count(b"\r\n") if returns else block_feeds
         rest = data
         if not piece:
             if not end:
-                yield b"", 0, 0, 0    # an empty file: the reader says so
+                yield b"", 0, 0, 0, None    # an empty file: the reader says so
             return
 
