@@ -560,8 +560,8 @@ def read_blocks(path, units: str = "us", rows: int = BLOCK_ROWS):
 
 
 def _line_blocks(fh, path, rows):
-    """(bytes, line feeds before them, lines before them, bytes to their end, where their line feeds are (an array
-    of offsets; the lines counted by ``rows`` only)) of the file ``fh``, cut after a line feed: ``rows``
+    """(bytes, line feeds before them, lines before them, bytes to their end, the offsets of their line feeds in
+    them (an array; None where ``rows`` is None)) of the file ``fh``, cut after a line feed: ``rows``
     lines the first block (the header and ``rows - 1`` records), ``rows - 1`` each other one (None: about
     :data:`READ_BYTES` a block). A line end may be a line feed, a carriage return
     followed by one, or a carriage return alone (counted as a line, as :func:`parse_inventory` reads it)."""
