@@ -3,17 +3,19 @@
 The reference is the wording the check always had, written out here step by step: each reach's reason is a string
 built as the steps come (a reason set whole replaces it; a note goes after it, or before it for the verdict's own
 words, "; " between two; an empty text adds nothing). Both joins are compared with it: the one in Python
-(``Reasons.joined``) and the one a results file's writer makes in C++ (``app.inventory.writing._joined_reasons``),
-and the writer's cells with the CSV quoting and the spreadsheet guard applied to the reference text.
+(``Reasons.joined``) and the one a results file's writer makes in C++ (``app.inventory.writing._lines``): its
+cells are the reference text with the CSV quoting and the spreadsheet guard applied.
 """
+
+import csv
+import io
 
 import numpy as np
 import pytest
 
 from app.files import spreadsheet_safe
-from app.inventory import writing
-from app.inventory.writing import _quote_field
 from app.inventory.reading import pyarrow_modules
+from inventory_rows import written_both_ways
 from hydraulics import many_reaches as mr
 from hydraulics.batch_reasons import Coded, Composed, Reasons
 
@@ -113,10 +115,9 @@ def _result(pieces):
 
 @pytest.mark.skipif(pyarrow_modules() is None, reason="pyarrow is not installed")
 @pytest.mark.parametrize("seed", range(12))
-def test_the_writers_join_gives_the_same_reasons(seed):
+def test_the_writers_join_gives_the_same_reasons(monkeypatch, seed):
     """Several groups of reaches (a whole file checked in chunks), rows whose every text is empty, texts with
     commas, quotes and characters beyond ASCII."""
-    pa = pyarrow_modules()[0]
     rng = np.random.default_rng(100 + seed)
     pieces, want = [], []
     for _ in range(int(rng.integers(1, 4))):
@@ -125,9 +126,13 @@ def test_the_writers_join_gives_the_same_reasons(seed):
         pieces.append(_reasons(size, steps))
         want += _reference(size, steps)
     result = _result(pieces)
-    assert sum((writing._joined_reasons(pa, p)[0].to_pylist() for p in pieces), []) == want
-    # the cells of a results file: quoted as CSV quotes them, never run as a formula, one line each
-    assert writing._reason_cells(pa, result).to_pylist() == [_quote_field(spreadsheet_safe(r)) + "\n" for r in want]
+    # the cells of a results file, put together in C++: quoted as CSV quotes them (RFC 4180, Section 2, rules 6
+    # and 7), never run as a formula, the same bytes as Python writes from the reasons it joins
+    by_arrow, by_python = written_both_ways(monkeypatch, result)
+    assert by_arrow == by_python
+    cells = [row[-1] for row in csv.reader(io.StringIO(by_arrow, newline=""))][1:]
+    assert cells == [spreadsheet_safe(r) for r in want]
+    assert by_arrow.count("\n") - sum(r.count("\n") for r in want) == 1 + len(want)    # one line each, and the head
     assert result.reason.tolist() == want
     rows = rng.permutation(len(want))[: len(want) // 2]
     assert result.reason_at(rows).tolist() == [want[i] for i in rows]

@@ -90,16 +90,13 @@ def _results_pieces(inventory: Inventory, result: mr.BatchResult) -> list:
             rows = written_rows(inventory)[0]
             parts[0::5] = rows.tolist() if isinstance(rows, Records) else rows
             parts[1::5] = repeat(",", size)
-            parts[3::5] = map({v: v + "," for v in set(verdicts)}.__getitem__, verdicts)
+            parts[3::5] = map({v: spreadsheet_safe(v) + "," for v in set(verdicts)}.__getitem__, verdicts)
             parts[4::5] = map(quoted.__getitem__, reasons)
             parts[2::5] = pending.result().tolist()
             return [head, "".join(parts).encode("utf-8")]
-        pa = modules[0]
-        rows = _row_array(pa, inventory)
-        verdict_texts = _cells(pa, result.verdict, ",")
-        reason_texts = _reason_cells(pa, result)
+        gather = _lines(modules[0], inventory, result)
         numbers = pending.result()
-    return [head, _joined_lines(pa, rows, numbers, verdict_texts, reason_texts)]
+    return [head, gather(numbers)]
 
 
 def _safe_record(row: str) -> tuple[str, int]:
@@ -165,135 +162,130 @@ def _results_head(inventory: Inventory) -> bytes:
     return (written_rows(inventory)[1] + "," + ",".join(RESULT_COLUMNS) + "\n").encode("utf-8")
 
 
-def _row_array(pa, inventory: Inventory):
-    """Every input row's text followed by a comma, as a pyarrow large_string array (64-bit offsets: no 2 GB limit)."""
+def _row_pieces(pa, inventory: Inventory):
+    """Every input row's text as a pyarrow large_string array, shifted by one line end: the first row alone, every
+    later one after the line end of the one before ("\\n" + row). So a results line ends where the next row's piece
+    begins, and the pieces of a plain file are its own bytes, with no copy."""
     records, size = written_rows(inventory)[0], len(inventory)
-    if isinstance(records, Records):  # the file's own bytes; each line end becomes the comma after the row
-        return pa.LargeStringArray.from_buffers(
-            size, pa.py_buffer(np.append(records.starts, len(records.body)).astype(np.int64)),
-            pa.py_buffer(records.body.replace(b"\n", b",")))
+    text = pa.large_string()
+    if isinstance(records, Records):   # every line of the body ends in "\n"; the last one is left out
+        ends = np.append(records.starts[1:] - 1, len(records.body) - 1).astype(np.int64)
+        return pa.LargeStringArray.from_buffers(size, pa.py_buffer(np.append(0, ends)), pa.py_buffer(records.body))
+    return pa.array([row if i == 0 else "\n" + row for i, row in enumerate(records)], type=text)
+
+
+def _lines(pa, inventory: Inventory, result: mr.BatchResult):
+    """The results lines of a block, all but the numbers: ``gather(numbers)`` gives the lines' bytes once the
+    numbers' texts (:class:`app.numtext.RowTexts`, each followed by a comma) are in.
+
+    Every line is a run of pieces, each a text of one pyarrow array of every distinct piece: the row
+    (:func:`_row_pieces`), a comma, its numbers, its verdict with a comma, and its reason: the reason's texts
+    (:func:`_reason_texts`) with the separator between two, in quotes where one of them holds a comma, a quote or a
+    line break (RFC 4180, Section 2, rules 6 and 7: a quote inside doubled), and the final line end. One ``take``
+    of that array, in C++ and outside the interpreter lock, writes the pieces one after the other: its text is the
+    block's bytes. A reason that would start as a spreadsheet formula (rare: reasons start with words) is made
+    whole in Python with its apostrophe (:func:`app.files.spreadsheet_safe`), a piece of its own."""
     import pyarrow.compute as pc
 
     text = pa.large_string()
-    return pc.binary_join_element_wise(pa.array(records, type=text), pa.scalar("", type=text),
-                                       pa.scalar(",", type=text))
+    size = len(inventory)
+    rows = _row_pieces(pa, inventory)
+    coded = pc.dictionary_encode(pa.array(result.verdict, type=text))
+    verdicts = pa.array([spreadsheet_safe(v) + "," for v in coded.dictionary.to_pylist()], type=text)
+    texts, at, which, special, formula = _reason_texts(pa, result)
+    count = np.bincount(at, minlength=size)
+    first = np.zeros(size + 1, dtype=np.int64)
+    np.cumsum(count, out=first[1:])
+    quoted = np.bincount(at, weights=special[which], minlength=size) > 0
+    said = count > 0
+    risky = np.zeros(size, dtype=bool)
+    risky[said] = formula[which[first[:-1][said]]]     # a reason's first text decides
+    fixed = np.flatnonzero(risky)
+    if len(fixed):
+        keep = ~risky[at]
+        at, which = at[keep], which[keep]
+        count[fixed] = 0
+        quoted[fixed] = False
+        first[1:] = np.cumsum(count)
+    # The pieces, numbered as the array of them holds them: numbers, rows, marks, verdicts, texts, made reasons.
+    row0, mark0 = size, 2 * size
+    comma, quote, separator, line_end = mark0, mark0 + 1, mark0 + 2, mark0 + 3
+    verdict0 = mark0 + 4
+    text0 = verdict0 + len(verdicts)
+    fixed0 = text0 + len(texts)
+    marks = pa.array([",", '"', SEPARATOR, "\n"], type=text)
+    made = pa.array([_quote_field(spreadsheet_safe(r)) for r in result.reason_at(fixed).tolist()], type=text)
+
+    length = 4 + 2 * quoted + np.maximum(2 * count - 1, 0) + risky
+    start = np.zeros(size + 1, dtype=np.int64)
+    np.cumsum(length, out=start[1:])
+    codes = np.empty(start[-1] + 1, dtype=np.int64)
+    begin, index = start[:-1], np.arange(size, dtype=np.int64)
+    codes[begin] = index + row0
+    codes[begin + 1] = comma
+    codes[begin + 2] = index
+    codes[begin + 3] = np.asarray(coded.indices, dtype=np.int64) + verdict0
+    codes[begin[quoted] + 4] = quote
+    codes[start[1:][quoted] - 1] = quote
+    codes[begin[fixed] + 4] = fixed0 + np.arange(len(fixed))
+    rank = np.arange(len(at), dtype=np.int64) - first[at]        # each text's place in its reason
+    place = begin[at] + 4 + quoted[at] + 2 * rank
+    codes[place] = which + text0
+    codes[place[rank > 0] - 1] = separator
+    codes[-1] = line_end
+    others = [rows, marks, verdicts, texts, made]
+
+    def gather(numbers) -> memoryview:
+        number_texts = pa.LargeStringArray.from_buffers(size, pa.py_buffer(numbers.offsets()),
+                                                        pa.py_buffer(numbers.data))
+        lines = pc.take(pa.concat_arrays([number_texts, *others]), pa.array(codes))
+        offsets = np.frombuffer(lines.buffers()[1], dtype=np.int64, count=len(codes) + 1, offset=8 * lines.offset)
+        return memoryview(lines.buffers()[2])[offsets[0]:offsets[-1]]
+
+    return gather
 
 
-def _joined_lines(pa, rows, numbers, verdict_texts, reason_texts) -> memoryview:
-    """The results lines ("row," "numbers," "verdict," "reason\\n") of some reaches, joined in C++, as bytes."""
+def _reason_texts(pa, result: mr.BatchResult):
+    """The texts of every reason of ``result`` in reading order: (the distinct texts, a pyarrow large_string array,
+    each quote in them doubled as CSV writes it inside a quoted cell; for every (row, text) pair in row order and,
+    within a row, in the order the reason reads: the row and the text's index; two bool arrays over the distinct
+    texts: which hold a comma, a quote or a line break, and which start as a spreadsheet formula does). An empty
+    text adds nothing and is left out."""
     import pyarrow.compute as pc
 
     text = pa.large_string()
-    size = len(rows)
-    lines = pc.binary_join_element_wise(
-        rows, pa.LargeStringArray.from_buffers(size, pa.py_buffer(numbers.offsets()), pa.py_buffer(numbers.data)),
-        verdict_texts.cast(text), reason_texts.cast(text), pa.scalar("", type=text))
-    offsets = np.frombuffer(lines.buffers()[1], dtype=np.int64, count=size + 1, offset=8 * lines.offset)
-    return memoryview(lines.buffers()[2])[offsets[0]:offsets[-1]]
-
-
-def _reason_cells(pa, result: mr.BatchResult):
-    """The reason cells of ``result`` as a results file writes them, each followed by a line end: a pyarrow
-    large_string array: each reason guarded (:func:`app.files.spreadsheet_safe`) and quoted as CSV quotes it
-    (:func:`_quote_field`), built in C++ from the reasons'
-    texts (:func:`_joined_reasons`) without making a Python string per reach in the thread that checks the next
-    block.
-
-    A cell is quoted where any of its texts holds a comma, a quote or a line break (the separator holds none),
-    its quotes doubled in each text; a cell a spreadsheet would run as a formula (rare: reasons start with words)
-    is made again from ``result.reason_at`` with its apostrophe (:func:`app.files.spreadsheet_safe`)."""
-    import pyarrow.compute as pc
-
-    text = pa.large_string()
-    cells = []
-    start = 0
+    texts, rows, codes, count, shift = [], [], [], 0, 0
     for reasons in result.reasons:
-        joined, quoted, risky = _joined_reasons(pa, reasons, quote=True)
-        marks = pa.array(quoted.astype(np.int8))
-        cell = pc.binary_join_element_wise(
-            pa.DictionaryArray.from_arrays(marks, pa.array(["", '"'], type=text)).cast(text), joined,
-            pa.DictionaryArray.from_arrays(marks, pa.array(["\n", '"\n'], type=text)).cast(text),
-            pa.scalar("", type=text))
-        risky = np.flatnonzero(risky)
-        if len(risky):
-            again = [_quote_field(spreadsheet_safe(r)) + "\n" for r in result.reason_at(risky + start).tolist()]
-            fixed = np.asarray(cell.to_numpy(zero_copy_only=False), dtype=object)
-            fixed[risky] = again
-            cell = pa.array(fixed, type=text)
-        cells.append(cell)
-        start += len(reasons)
-    return cells[0] if len(cells) == 1 else pa.concat_arrays(cells)
-
-
-def _joined_reasons(pa, reasons, quote: bool = False):
-    """(the reasons of ``reasons`` (a :class:`hydraulics.batch_reasons.Reasons`) as a pyarrow large_string array,
-    each joined from its texts in C++; two bool arrays: where a text of the reason holds a comma, a quote or a
-    line break, and where the reason starts as a spreadsheet formula does). With ``quote``, the quotes of every
-    text are doubled, as CSV writes them inside a quoted cell.
-
-    Each part's distinct texts go into one array; every (row, text) pair is listed, in row order and, within a
-    row, in the order the reason reads (a stable sort of the parts' rows); the texts are gathered into a list per
-    row, and each list is joined with the separator."""
-    import pyarrow.compute as pc
-
-    text = pa.large_string()
-    texts, rows, codes, count = [], [], [], 0
-    for at, said in reasons.parts():
-        if isinstance(said, str):
-            distinct, which = pa.array([said], type=text), np.zeros(len(at), dtype=np.intp)
-        elif isinstance(said, Coded):
-            distinct, which = pa.array(said.texts, type=text), said.which
-        elif isinstance(said, Composed):   # its pieces put together row by row
-            distinct, which = pc.binary_join_element_wise(
-                *(pa.scalar(p, type=text) if isinstance(p, str) else pc.take(pa.array(p.texts, type=text), p.which)
-                  for p in said.pieces), pa.scalar("", type=text)), np.arange(len(at))
-        else:
-            distinct, which = pa.array(said, type=text), np.arange(len(at))
-        kept = ~np.asarray(pc.equal(distinct, ""), dtype=bool)[which]     # an empty text adds nothing
-        texts.append(distinct)
-        rows.append(at[kept])
-        codes.append(which[kept] + count)
-        count += len(distinct)
-    dictionary = pa.concat_arrays(texts)
-    special = np.asarray(pc.match_substring_regex(dictionary, '[,"\n\r]'), dtype=bool)
-    formula = np.asarray(pc.match_substring_regex(dictionary, _FORMULA_START), dtype=bool)
-    if quote:
-        dictionary = pc.replace_substring(dictionary, '"', '""')
-    rows, codes = np.concatenate(rows), np.concatenate(codes)
+        for at, said in reasons.parts():
+            if isinstance(said, str):
+                distinct, which = pa.array([said], type=text), np.zeros(len(at), dtype=np.intp)
+            elif isinstance(said, Coded):
+                distinct, which = pa.array(said.texts, type=text), said.which
+            elif isinstance(said, Composed):   # its pieces put together row by row
+                distinct, which = pc.binary_join_element_wise(
+                    *(pa.scalar(p, type=text) if isinstance(p, str) else pc.take(pa.array(p.texts, type=text),
+                                                                                 p.which)
+                      for p in said.pieces), pa.scalar("", type=text)), np.arange(len(at))
+            else:   # one str per row, many alike: each distinct one held once
+                coded = pc.dictionary_encode(pa.array(said, type=text))
+                distinct, which = coded.dictionary, np.asarray(coded.indices, dtype=np.intp)
+            kept = ~np.asarray(pc.equal(distinct, ""), dtype=bool)[which]     # an empty text adds nothing
+            texts.append(distinct)
+            rows.append(at[kept] + shift)
+            codes.append(which[kept] + count)
+            count += len(distinct)
+        shift += len(reasons)
+    distinct = pa.concat_arrays(texts) if texts else pa.array([], type=text)
+    special = np.asarray(pc.match_substring_regex(distinct, '[,"\n\r]'), dtype=bool)
+    formula = np.asarray(pc.match_substring_regex(distinct, _FORMULA_START), dtype=bool)
+    rows = np.concatenate(rows) if rows else np.zeros(0, dtype=np.intp)
+    codes = np.concatenate(codes) if codes else np.zeros(0, dtype=np.intp)
     order = np.argsort(rows, kind="stable")
-    rows, codes = rows[order], codes[order]
-    offsets = np.zeros(len(reasons) + 1, dtype=np.int64)
-    np.cumsum(np.bincount(rows, minlength=len(reasons)), out=offsets[1:])
-    values = pc.take(dictionary, pa.array(codes))
-    joined = pc.binary_join(pa.LargeListArray.from_arrays(pa.array(offsets), values), pa.scalar(SEPARATOR, type=text))
-    quoted = np.bincount(rows, weights=special[codes], minlength=len(reasons)) > 0
-    said = offsets[1:] > offsets[:-1]
-    starts = np.zeros(len(reasons), dtype=bool)
-    starts[said] = formula[codes[offsets[:-1][said]]]     # a reason's first text decides
-    return joined, quoted, starts
+    return pc.replace_substring(distinct, '"', '""'), rows[order], codes[order], special, formula
 
 
 #: A cell that starts as a spreadsheet formula does (app.files.FORMULA_STARTS), as a regular expression.
 _FORMULA_START = "^[" + "".join(sorted(FORMULA_STARTS)).replace("-", "\\-") + "]"
-
-
-def _cells(pa, values: np.ndarray, end: str):
-    """The text cells ``values`` (an object array of str, texts that need no CSV quotes, such as the verdicts) as
-    written, each followed by ``end``: a pyarrow dictionary array, each distinct text made once. A cell a
-    spreadsheet would run as a formula gets its apostrophe (:func:`app.files.spreadsheet_safe`).
-
-    The distinct texts are found by pyarrow's compute functions, in C++ and mostly without the interpreter lock, so
-    that the writer's thread leaves the lock to the check of the next block."""
-    import pyarrow.compute as pc
-
-    text = pa.large_string()
-    coded = pc.dictionary_encode(pa.array(values, type=text))
-    cells = coded.dictionary
-    risky = pc.match_substring_regex(cells, _FORMULA_START)
-    if pc.any(risky).as_py():   # rare (results texts start with words): the few that do, one by one
-        cells = pa.array([spreadsheet_safe(c) for c in cells.to_pylist()], type=text)
-    cells = pc.binary_join_element_wise(cells, pa.scalar(end, type=text), pa.scalar("", type=text))
-    return pa.DictionaryArray.from_arrays(coded.indices, cells)
 
 
 def write_results(path, inventory: Inventory, result: mr.BatchResult) -> None:
