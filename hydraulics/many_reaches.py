@@ -62,7 +62,7 @@ from .stability import ROADSIDE_SIDE_SLOPE, SELF_CLEANING_VELOCITY, side_slope_c
 from .solvers import flow_at_depth, max_flow
 from . import validate
 from .validate import MAX_SLOPE
-from .wording import in_units, printed_alike, restate_each, worded
+from .wording import distinct_groups, in_units, printed_alike, restate_each, worded
 
 #: Shapes an inventory row may name (a parabola needs two dimensions an inventory does not carry).
 SHAPES = ("trapezoid", "triangle", "rectangle", "circle")
@@ -516,7 +516,7 @@ def _fixed(values, decimals) -> Coded:
         code = np.rint(scaled)
         clear = (np.abs(scaled - code) < 0.5 - 1e-9) & (np.abs(scaled) < 2.0 ** 52)
     key = code[clear].astype(np.int64) * 32 + d[clear]      # d < 32: "%.*f" of more decimals is not asked for
-    _, first, which = np.unique(key, return_index=True, return_inverse=True)
+    first, which = distinct_groups(key)
     return _coded(clear, ["%.*f" % t for t in zip(d[clear][first].tolist(), v[clear][first].tolist())], which,
                   ["%.*f" % t for t in zip(d[~clear].tolist(), v[~clear].tolist())])
 
@@ -535,7 +535,7 @@ def _each_worded(values, display: hu.UnitSystem, make, name: str) -> Coded:
         return _coded(np.zeros(0, dtype=bool), [], [], [])
     message = make(float(v[0]))
     groups, clear = printed_alike(display.from_si(message.quantities[name][1], v))
-    _, first, which = np.unique(groups[clear], return_index=True, return_inverse=True)
+    first, which = distinct_groups(groups[clear])
     return _coded(clear, restate_each(message, name, v[clear][first].tolist(), display), which,
                   restate_each(message, name, v[~clear].tolist(), display))
 

@@ -284,8 +284,10 @@ def _side_checks(lining, stone, bed: _BedResistance, tau, y, s, left_slope, righ
         else:
             permissible, k2, cannot, steep = bed.permissible.copy(), None, no, no
             factor = _ratio(permissible, design, applies)
-        out.append(ShearCheckArray(np.where(same, "side slopes", label).astype(object), applies, design,
-                                   permissible, factor, z, k1, k2, cannot, steep))
+        place = np.empty(size, dtype=object)   # references to two texts, not a new str for each reach
+        place.fill(label)
+        place[same] = "side slopes"
+        out.append(ShearCheckArray(place, applies, design, permissible, factor, z, k1, k2, cannot, steep))
     return out
 
 

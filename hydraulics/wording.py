@@ -104,6 +104,26 @@ def worded(template: str, **quantities) -> Worded:
     return out
 
 
+def distinct_groups(key):
+    """(an index of one member of each distinct value of the int64 array ``key``, in increasing value; the group of
+    each element): np.unique's ``return_index`` and ``return_inverse``, except that the member named may be any of
+    its group (the callers write one text per group, the same for every member). Where the values span not much
+    more than there are elements, as the digits of a batch's numbers usually do, a table of the values present
+    stands in for np.unique's sort."""
+    size = len(key)
+    if size:
+        low, high = int(key.min()), int(key.max())
+        if high - low < 4 * size + 4096:
+            at = key - low
+            present = np.zeros(high - low + 1, dtype=bool)
+            present[at] = True
+            member = np.empty(high - low + 1, dtype=np.intp)
+            member[at] = np.arange(size)
+            return member[present], (np.cumsum(present, dtype=np.intp) - 1)[at]
+    _, first, which = np.unique(key, return_index=True, return_inverse=True)
+    return first, which
+
+
 def printed_alike(values, figures: int = 3, whole_numbers: bool = True):
     """How ``values`` print to ``figures`` significant figures, as group numbers: (groups, clear), int array and
     boolean mask. Values of one group print alike, values of two groups differently; a value within 1e-9 of a
@@ -121,7 +141,13 @@ def printed_alike(values, figures: int = 3, whole_numbers: bool = True):
     clear = np.isfinite(scaled) & (np.abs(scaled - whole) < 0.5 - 1e-9)
     groups = np.full(signed.shape, -1, dtype=np.intp)
     # the digits (signed) and the number of decimals tell the text; 1.00 and 1.000 are two texts
-    _, groups[clear] = np.unique(np.copysign(whole, signed)[clear] + 1j * decimals[clear], return_inverse=True)
+    digits, places = np.copysign(whole, signed)[clear], decimals[clear]
+    if len(digits) and np.abs(digits).max() < 2.0 ** 40:   # one whole number for each pair: (places, digits)
+        widest, fewest = int(np.abs(digits).max()), int(places.min())
+        key = (places.astype(np.int64) - fewest) * (2 * widest + 1) + (digits.astype(np.int64) + widest)
+        groups[clear] = distinct_groups(key)[1]
+    elif len(digits):
+        _, groups[clear] = np.unique(digits + 1j * places, return_inverse=True)
     return groups, clear
 
 

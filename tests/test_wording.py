@@ -81,3 +81,30 @@ def test_values_printed_alike_share_a_group():
         if whole_numbers:   # two groups print differently ("%.3g" drops trailing zeros: 0.1 and 0.0999... meet)
             assert len(set(texts.values())) == len(texts)
         assert not clear[np.flatnonzero(v == 999.5)].any()        # a tie is written on its own
+
+
+def test_distinct_groups_are_those_of_numpys_unique():
+    """The table of values present gives np.unique's groups (numpy's own function as the reference); the member
+    named for a group may be any of it; spans too wide for a table go to np.unique itself."""
+    import numpy as np
+    from hydraulics.wording import distinct_groups
+    rng = np.random.default_rng(7)
+    for key in (rng.integers(0, 30_000, 20_000), rng.integers(-5, 5, 5_000), rng.integers(-2**62, 2**62, 3_000),
+                np.array([2**62, -2**62, 0, 2**62]), np.array([4]), np.zeros(0)):
+        key = key.astype(np.int64)
+        members, groups = distinct_groups(key)
+        distinct, inverse = np.unique(key, return_inverse=True)
+        assert np.array_equal(key[members], distinct)
+        assert np.array_equal(groups, inverse)
+
+
+def test_values_too_large_for_whole_number_keys_are_grouped_as_they_print():
+    """Values whose printed digits pass 2^40 (whole numbers kept, "1e+15" written in full) group as they print."""
+    import numpy as np
+    from hydraulics.wording import format_value, printed_alike
+    v = np.array([1.0e15, 1.0e15 + 1, 2.5e14, 1.0e15, 0.5, 0.5004])
+    groups, clear = printed_alike(v, whole_numbers=True)
+    texts = {}
+    for g, x in zip(groups[clear].tolist(), v[clear].tolist()):
+        assert texts.setdefault(g, format_value(x)) == format_value(x), x
+    assert len(set(texts.values())) == len(texts)
