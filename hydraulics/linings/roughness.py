@@ -24,6 +24,7 @@ from ..errors import InputError
 from ..provenance import cite
 from ..wording import in_units, printed_alike, worded
 from . import hec15
+from .several_depths import other_side
 
 __all__ = ["StoneRoughness", "VegetationRoughness", "FixedSlopeN", "EnergySlopeN", "STONE_METHODS", "SPLIT_BAND",
            "SWITCH_NOTE", "relation_switch_depth"]
@@ -449,25 +450,29 @@ class StoneRoughness:
         the warnings of each size in turn, see :meth:`check_each`)."""
         return [note for notes in self.check_each(section, depth, slope).values() for note in notes]
 
-    def relations(self, section, depth, slope):
-        """(da/D50, the relation used: 0 Blodgett, 1 Bathurst, 2 held, 3 the ramp between) at ``depth``, per
-        element, each as an array of the shape of ``depth`` and the sizes broadcast; zeros for "strickler". What
-        :meth:`check_each` and :meth:`check_elements` word, worked out once for both where they are given it."""
+    def relations(self, section, depth, slope, n=None):
+        """(da/D50, the relation used: 0 Blodgett, 1 Bathurst, 2 held, 3 the ramp between, where another
+        uniform-flow depth of the same flow lies: -1 below the change of relation, +1 above it, 0 none found,
+        see :func:`hydraulics.linings.several_depths.other_side`) at the normal ``depth``, per element, each as an
+        array of the shape of ``depth`` and the sizes broadcast; zeros for "strickler" (``n``: the model's n at
+        ``depth``, where the caller has it). What :meth:`check_each` and :meth:`check_elements` word, worked out
+        once for both where they are given it."""
         shape = np.broadcast_shapes(np.shape(depth), np.shape(self.d50))
         if self.method == "strickler":
-            return np.zeros(shape), np.zeros(shape, dtype=int)
+            return np.zeros(shape), np.zeros(shape, dtype=int), np.zeros(shape, dtype=np.int8)
         depth = np.broadcast_to(np.asarray(depth, float), shape)
         da, _, _ = _average_depth(section, depth)
         return (np.broadcast_to(np.asarray(da / self.d50, dtype=float), shape),
-                np.broadcast_to(self._regions(section, depth, slope)[1], shape))
+                np.broadcast_to(self._regions(section, depth, slope)[1], shape),
+                np.broadcast_to(other_side(self, section, depth, slope, n), shape))
 
     def check_each(self, section, depth, slope, relations=None) -> dict:
         """{D50: the warnings of :meth:`check` for the elements of that size}, smallest size first; the
         relations are evaluated once for all sizes (or given: :meth:`relations` at the same depths)."""
         if not np.ndim(self.d50):
             return {float(self.d50): self._notes(self.d50, section, depth, slope)}
-        ratio, code = self.relations(section, depth, slope) if relations is None else relations
-        return {d: self._notes(d, None, None, None, ratio[self.d50 == d], code[self.d50 == d])
+        ratio, code, side = self.relations(section, depth, slope) if relations is None else relations
+        return {d: self._notes(d, None, None, None, ratio[self.d50 == d], code[self.d50 == d], side=side[self.d50 == d])
                 for d in np.unique(self.d50).tolist()}
 
     def check_elements(self, section, depth, slope, units=None, relations=None) -> np.ndarray:
@@ -485,12 +490,13 @@ class StoneRoughness:
             return out
         lo, hi = hec15.STONE_SIZE_RANGE
         flag = ((d50 < lo) | (d50 > hi)).astype(int)                # 1: the size note
-        ratio, code = self.relations(section, depth, slope) if relations is None else relations
+        ratio, code, side = self.relations(section, depth, slope) if relations is None else relations
         if self.method != "strickler":
             (a, b), (c, e) = hec15.BLODGETT_RANGE, hec15.BATHURST_RANGE
             ranged = (((code == 0) & ((ratio < a) | (ratio > b))) | ((code == 1) & ((ratio <= c) | (ratio >= e)))
                       | (code == 2) | (code == 3))
             flag = flag + 2 * ranged * (1 + code)                     # the relation's note, by relation
+            flag = flag + 16 * (side < 0) + 32 * (side > 0)           # another depth, below or above
         some = np.flatnonzero(flag)
         if not len(some):
             return out
@@ -498,13 +504,13 @@ class StoneRoughness:
         printed = np.where(clear, printed, -1 - np.arange(len(some)))          # a tie alone
         _, size_of = np.unique(d50[some], return_inverse=True)
         # one number a group: size and notes (real part), the printed da/D50 where a note quotes it (imaginary)
-        key = (size_of.ravel() * 16.0 + flag[some]) + 1j * np.where(flag[some] > 1, printed, 0)
+        key = (size_of.ravel() * 64.0 + flag[some]) + 1j * np.where(flag[some] % 16 > 1, printed, 0)
         _, first, which = np.unique(key, return_index=True, return_inverse=True)
         mark, frames, texts = "\x00", {}, []     # a group's sentence is filled once; only da/D50 is written each time
         for i, g in zip(some[first].tolist(), np.real(key[first]).tolist()):
             if g not in frames:
                 notes = self._notes(float(d50.flat[i]), None, None, None, ratio.flat[i:i + 1], code.flat[i:i + 1],
-                                    shown=mark)
+                                    shown=mark, side=side.flat[i:i + 1])
                 frames[g] = "; ".join(str(t) if units is None else in_units(t, units) for t in notes)
             texts.append(frames[g].replace(mark, f"{float(ratio.flat[i]):.3g}"))
         made = np.empty(len(texts), dtype=object)
@@ -512,9 +518,10 @@ class StoneRoughness:
         out.flat[some] = made[which.ravel()]
         return out
 
-    def _notes(self, d50, section, depth, slope, ratio=None, code=None, shown=None) -> list[str]:
-        """The warnings of one stone size ``d50``: from ``ratio`` (da/D50) and ``code`` (the relations used)
-        where given, else worked out at ``depth``; ``shown`` in place of the da/D50 written, where given."""
+    def _notes(self, d50, section, depth, slope, ratio=None, code=None, shown=None, side=None) -> list[str]:
+        """The warnings of one stone size ``d50``: from ``ratio`` (da/D50), ``code`` (the relations used) and
+        ``side`` (where another uniform-flow depth lies) where given, else worked out at the normal ``depth``;
+        ``shown`` in place of the da/D50 written, where given."""
         out = []
         lo, hi = hec15.STONE_SIZE_RANGE
         if not lo <= d50 <= hi:
@@ -526,6 +533,7 @@ class StoneRoughness:
             da, _, _ = _average_depth(section, depth)
             ratio = np.asarray(da / d50, dtype=float)
             _, code = self._regions(section, depth, slope)
+            side = other_side(self, section, depth, slope)
         text = hec15._span(ratio) if shown is None else shown
         a, b = hec15.BLODGETT_RANGE
         if np.any((code == 0) & ((ratio < a) | (ratio > b))):
@@ -541,6 +549,13 @@ class StoneRoughness:
         if np.any(code == 2):
             out.append(f"da/D50 = {text}: the flow is too shallow for Bathurst's relation (HEC-15 Eq. 6.2); "
                        "n is held at its value at the lowest usable depth, a rule of this program, not of HEC-15")
+        for where, words in ((-1, "below da/D50 = 1.5, with Bathurst's n"),
+                             (1, f"above da/D50 = {1.5 * SPLIT_BAND:.3g}, with Blodgett's n")):
+            if side is not None and np.any(np.asarray(side) == where):
+                out.append("this flow has more than one uniform-flow depth with this stone: its n rises across the "
+                           f"change from Bathurst's relation to Blodgett's ({cite('relation_choice')}), so "
+                           f"another depth lies {words}; the depth shown is the one the solver reached. Check "
+                           "the reach at both and design for the worse (local codes and a licensed engineer decide)")
         return out
 
     def to_dict(self) -> dict:

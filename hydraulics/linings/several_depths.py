@@ -1,0 +1,138 @@
+"""Flows that a stone lining carries uniformly at more than one depth.
+
+A stone lining's n follows Bathurst's relation (HEC-15 Eq. 6.2) below da/D50 = 1.5
+and Blodgett's (Eq. 6.1) above; this program passes from one to the other over
+da/D50 = 1.5 to 1.5 x SPLIT_BAND (1.53), see
+:class:`hydraulics.linings.roughness.StoneRoughness`. Where Blodgett's n at the
+top of that band is larger than Bathurst's at its foot by more than the
+conveyance gained between the two depths, the conveyance A R^(2/3) / n falls
+across the band, and a range of flows has three uniform-flow depths: one below
+da/D50 = 1.5, one in the band and one above it. The solver returns one of them,
+the one its steps reach from its start; the others are as much a solution of
+Manning's equation with this n. :func:`other_side` says, for a solved depth,
+where another one lies, so that the front ends can say so.
+
+Only the fall of the conveyance across the band is looked at (below the band
+Bathurst's conveyance, above it Blodgett's, are taken to rise with depth, as
+they do for the sections and stones of HEC-15's range). The test compares it
+with a count of the roots on a fine grid of depths.
+"""
+
+from __future__ import annotations
+
+import numpy as np
+
+from . import hec15
+
+#: Relative margin by which a conveyance must exceed (or fall short of) the solved one for another depth to count:
+#: far above the solver's tolerance on the flow (1e-10), far below any difference a design would notice.
+MARGIN = 1e-7
+
+
+def depth_at_average(section, average):
+    """The depth [m] at which the average depth A/T of ``section`` equals ``average`` [m] (arrays broadcast).
+
+    Trapezoids, rectangles and triangles in closed form: with B = b - c (z1 + z2), the root of
+    (z1 + z2)/2 y^2 + B y - c b = 0, written so that no digits cancel; other sections by bisection on A/T,
+    which rises with depth, to 1e-13 of the depth; nan where the section (a pipe) never has that average depth
+    below its crown.
+    """
+    c = np.asarray(average, dtype=float)
+    if hasattr(section, "_zsum") and hasattr(section, "bottom_width"):
+        b, zs = np.asarray(section.bottom_width, dtype=float), np.asarray(section._zsum, dtype=float)
+        lead = b - c * zs
+        root = np.sqrt(lead * lead + 2.0 * zs * c * b)
+        with np.errstate(divide="ignore", invalid="ignore"):
+            return np.where(lead > 0, 2.0 * c * b / np.where(lead > 0, lead + root, 1.0),
+                            (root - lead) / np.where(zs > 0, zs, 1.0))
+    return _bisect_average(section, c)
+
+
+def _average(section, depth):
+    g = section.properties(depth)
+    return g.area / g.top_width
+
+
+def _bisect_average(section, c):
+    shape = np.broadcast_shapes(np.shape(c), *(np.shape(v) for v in section.to_dict().values()
+                                               if isinstance(v, np.ndarray)))
+    c = np.broadcast_to(c, shape)
+    cap = section.capacity_depth
+    lo = np.zeros(shape)
+    if cap is not None:
+        hi = np.broadcast_to(np.asarray(cap, dtype=float) * (1 - 1e-9), shape).copy()
+        with np.errstate(divide="ignore", invalid="ignore"):
+            reached = _average(section, hi) >= c
+    else:
+        hi = np.maximum(2.0 * c, 1e-9)
+        for _ in range(200):   # A/T >= y/2 in an open section, so a few doublings reach it
+            short = _average(section, hi) < c
+            if not short.any():
+                break
+            hi = np.where(short, 2.0 * hi, hi)
+        reached = np.ones(shape, dtype=bool)
+    for _ in range(200):
+        mid = 0.5 * (lo + hi)
+        below = _average(section, mid) < c
+        lo, hi = np.where(below, mid, lo), np.where(below, hi, mid)
+        if np.all(hi - lo <= 1e-13 * hi):
+            break
+    return np.where(reached, hi, np.nan)
+
+
+def _conveyance(model, section, depth, slope, n=None):
+    """A R^(2/3) / n at ``depth`` with the model's n (or ``n``, where given)."""
+    g = section.properties(depth)
+    if n is None:
+        n = model.manning_n(section, depth, slope)
+    return g.area * (g.area / g.wetted_perimeter) ** (2.0 / 3.0) / n
+
+
+def _conveyance_at(model, section, depth, slope, where):
+    """:func:`_conveyance` at the elements ``where`` (a mask) of 1-D arrays, nan elsewhere; only those elements are
+    evaluated where the section and the model can be taken apart (an inventory's reaches)."""
+    out = np.full(depth.shape, np.nan)
+    if not where.any():
+        return out
+    at = np.flatnonzero(where)
+    if depth.ndim == 1 and hasattr(model, "take") and (not section.is_vector or hasattr(section, "take")):
+        part = section.take(at) if section.is_vector else section
+        out[at] = _conveyance(model.take(at), part, depth[at], slope[at])
+    else:
+        out[where] = np.broadcast_to(np.asarray(_conveyance(model, section, depth, slope)), depth.shape)[where]
+    return out
+
+
+def other_side(model, section, depth, slope, n=None):
+    """Where another uniform-flow depth of the flow that runs at ``depth`` [m] (normal depth at ``slope``) lies,
+    per element: -1 below da/D50 = 1.5 (Bathurst's relation), +1 above 1.5 x SPLIT_BAND (Blodgett's), 0 none
+    found (int array of the broadcast shape). ``model`` is a StoneRoughness in its "auto" method (any other
+    gives zeros: one relation at every depth); ``n``: its n at ``depth``, where the caller has it."""
+    from .roughness import SPLIT_BAND   # here, not at the top: the roughness module imports this one
+
+    d50 = np.asarray(model.d50, dtype=float)
+    depth = np.asarray(depth, dtype=float)
+    shape = np.broadcast_shapes(depth.shape, d50.shape, np.shape(slope))
+    side = np.zeros(shape, dtype=np.int8)
+    if getattr(model, "method", None) != "auto" or not side.size:
+        return side
+    split = hec15.BLODGETT_RANGE[0]
+    foot = np.broadcast_to(depth_at_average(section, split * d50), shape)
+    top = np.broadcast_to(depth_at_average(section, split * SPLIT_BAND * d50), shape)
+    depth = np.broadcast_to(depth, shape)
+    # the conveyance just below the foot of the band (Bathurst's n, or the value held below its usable depths) for
+    # a depth at or above the foot, at the top of the band (Blodgett's n) for a depth at or below the top
+    at_foot = np.isfinite(foot) & (depth >= foot)
+    at_top = np.isfinite(top) & (depth <= top)
+    if not (at_foot.any() or at_top.any()):
+        return side
+    slope = np.broadcast_to(np.asarray(slope, dtype=float), shape)
+    with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
+        here = _conveyance(model, section, depth, slope, None if n is None else np.broadcast_to(n, shape))
+        below = _conveyance_at(model, section, np.where(at_foot, foot, depth) * (1 - 1e-9), slope, at_foot)
+        above = _conveyance_at(model, section, np.where(at_top, top, depth), slope, at_top)
+        more_below = at_foot & (below > here * (1 + MARGIN))
+        more_above = at_top & (above < here * (1 - MARGIN))
+    side[more_below] = -1
+    side[more_above & ~more_below] = 1
+    return side
