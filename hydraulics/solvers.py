@@ -376,7 +376,7 @@ def _describe_limit(section):
     return f"the bank-full capacity (depth {section.capacity_depth:g} m at the lower bank); the flow overtops the section"
 
 
-def solve_normal_depth(section, flow, slope, n=None) -> DepthSolution:
+def solve_normal_depth(section, flow, slope, n=None, *, within=None) -> DepthSolution:
     """Normal depth with its iteration record; see :func:`normal_depth`."""
     _check_section(section)
     q = validate.positive("flow", flow)
@@ -414,6 +414,8 @@ def solve_normal_depth(section, flow, slope, n=None) -> DepthSolution:
     else:
         hi = math.inf   # an open section: no upper bound (broadcast by the array iteration where it needs one)
     lo = 0.0
+    if within is not None:   # the root between two depths (a depth-dependent n may give several)
+        lo, hi = _bracket(within, hi, scalar, shape)
 
     if rough[0] == "constant":
         y0 = section._depth_guess(target) if scalar else section._depth_start(target)
@@ -421,6 +423,10 @@ def solve_normal_depth(section, flow, slope, n=None) -> DepthSolution:
         y0 = section._depth_guess(target + math.log(0.03))
     if not scalar and _reusable(y0, np.broadcast_to(0.0, shape)) is None:
         y0 = np.array(np.broadcast_to(y0, shape), dtype=float)  # one writeable array of the full shape
+    if within is not None:   # a start inside the bracket: its geometric middle, or twice its foot when open above
+        inside = (lo < y0) & (y0 < hi)
+        middle = np.where(np.isfinite(hi), np.where(lo > 0, np.sqrt(lo * hi), 0.5 * hi), 2.0 * lo)
+        y0 = float(np.where(inside, y0, middle)) if scalar else np.where(inside, y0, middle)
 
     split = None
     if rough[0] == "constant" and scalar and isinstance(section, Trapezoid):
@@ -463,7 +469,7 @@ def solve_normal_depth(section, flow, slope, n=None) -> DepthSolution:
             return lk - target[at], dlk
 
     if scalar:
-        y, it, g = _newton_log_scalar(evaluate, y0, lo, hi)
+        y, it, g = _newton_log_scalar(evaluate, y0, float(lo), float(hi))
     else:  # a depth-dependent n may give several roots: follow the scalar steps to the one it finds
         model = rough[0] != "constant"
         # the elements still iterating evaluated alone; a section with array dimensions is taken apart for them
@@ -471,11 +477,26 @@ def solve_normal_depth(section, flow, slope, n=None) -> DepthSolution:
         by_element = model and section.is_vector
         fits = not by_element or (len(shape) == 1 and all(
             np.shape(v) in ((), shape) for k, v in section.to_dict().items() if k != "shape"))
-        y, it, g = _newton_log_vector(evaluate, y0, lo, hi, fast=not model, subset=model and fits, split=split)
+        y, it, g = _newton_log_vector(evaluate, y0, lo, hi, fast=not model and within is None,
+                                      subset=model and fits, split=split)
     return _finish(y, it, g)
 
 
-def normal_depth(section, flow, slope, n=None):
+def _bracket(within, hi, scalar, shape):
+    """(low, high) depths of ``within`` = (low, high) [m], high no more than the section's own bound ``hi``, checked
+    0 <= low < high; arrays of the solve's shape, or floats for a scalar solve."""
+    low, high = (np.asarray(v, dtype=float) for v in within)
+    if scalar and (low.ndim or high.ndim):
+        raise InputError("within", "must be two numbers for one channel")
+    high = np.minimum(high, hi)
+    if np.any(~(low >= 0)) or np.any(~(high > low)):
+        raise InputError("within", "must be two depths, 0 <= low < high (and low below the section's top)")
+    if scalar:
+        return float(low), float(high)
+    return np.broadcast_to(low, shape).astype(float), np.broadcast_to(high, shape).astype(float)
+
+
+def normal_depth(section, flow, slope, n=None, *, within=None):
     """Normal (uniform-flow) depth by Manning's equation [m].
 
     Parameters
@@ -489,6 +510,10 @@ def normal_depth(section, flow, slope, n=None):
     n : float, ndarray or roughness model, optional
         Manning's n [s/m^(1/3)], or an object with ``manning_n(section, depth, slope)``.
         Omitted for a surveyed section, which carries its own n per segment.
+    within : (float, float) or (ndarray, ndarray), optional
+        Depths (low, high) [m] between which the root is looked for; high may be inf. With a depth-dependent n
+        the flow may have several uniform-flow depths, and this picks the one between them (the conveyance must
+        cross the flow's once there, or the solve fails with NoSolutionError or ConvergenceError).
 
     Returns
     -------
@@ -512,7 +537,7 @@ def normal_depth(section, flow, slope, n=None):
     >>> round(hy.normal_depth(hy.Rectangle(bottom_width=5.0), 9.548, 0.0025, 0.015), 3)
     0.8
     """
-    return solve_normal_depth(section, flow, slope, n).depth
+    return solve_normal_depth(section, flow, slope, n, within=within).depth
 
 
 def solve_critical_depth(section, flow) -> DepthSolution:

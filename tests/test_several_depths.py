@@ -12,7 +12,7 @@ import pytest
 import hydraulics as hy
 from hydraulics.linings import StoneRoughness
 from hydraulics.linings.roughness import SPLIT_BAND
-from hydraulics.linings.several_depths import _conveyance, depth_at_average, other_side
+from hydraulics.linings.several_depths import _conveyance, depth_at_average, other_depth, other_side
 
 
 def _section(rng, kind):
@@ -86,27 +86,54 @@ def test_one_relation_at_every_depth_has_one_depth():
         assert int(other_side(model, section, 0.7, 0.02)) == 0
 
 
+def test_the_other_depth_carries_the_same_flow_on_the_side_said():
+    """The other depth quoted is a uniform-flow depth of the same flow (Manning's equation with the stone's n, to
+    the solver's tolerance) and lies on the side of the change of relation that is said."""
+    rng = np.random.default_rng(11)
+    found = 0
+    for _ in range(200):
+        section = _section(rng, ["rectangle", "trapezoid", "triangle"][rng.integers(3)])
+        model = StoneRoughness(10 ** rng.uniform(np.log10(0.05), np.log10(0.6)))
+        slope = 10 ** rng.uniform(-3, -1)
+        foot = float(depth_at_average(section, 1.5 * model.d50))
+        top = float(depth_at_average(section, 1.5 * SPLIT_BAND * model.d50))
+        flow = float(_conveyance(model, section, foot * 10 ** rng.uniform(-0.3, 0.3), slope)) * np.sqrt(slope)
+        depth = hy.normal_depth(section, flow, slope, n=model)
+        side = other_side(model, section, depth, slope)
+        if not side:
+            continue
+        other = float(other_depth(model, section, depth, slope, side))
+        assert abs(float(_conveyance(model, section, other, slope)) * np.sqrt(slope) / flow - 1) < 1e-9
+        assert other > top if side > 0 else other < foot
+        found += 1
+    assert found > 10
+
+
 def test_the_caution_is_said_by_the_check_and_in_a_batch_reason():
-    """An invented riprap reach whose flow has a second uniform depth with Blodgett's n: the one-channel check and
-    the batch's reason both say so; a reach with one depth says nothing of it."""
+    """Invented riprap reaches whose flow has a second uniform depth, one above with Blodgett's n, one below with
+    Bathurst's: the one-channel check quotes it, the batch's reason says the same words in the inventory's units;
+    a reach with one depth says nothing of it."""
     from app import inventory as ai
     from app.context import Context
+    from hydraulics.units import US
+    from hydraulics.wording import in_units
 
     ft = 0.3048
-    section, model = hy.Rectangle(bottom_width=3.7 * ft), StoneRoughness(1.643 * ft)
-    flow, slope = 76.56 * ft ** 3, 0.02463
-    depth = hy.normal_depth(section, flow, slope, n=model)
-    assert int(other_side(model, section, depth, slope)) == 1
-    assert any("more than one uniform-flow depth" in t and "above da/D50 = 1.53" in t
-               for t in model.check(section, depth, slope))
-    # and one whose solved depth is the upper one, with another below, in Bathurst's relation
-    section, model, flow, slope = hy.Rectangle(bottom_width=1.0 * ft), StoneRoughness(0.429 * ft), 1.04 * ft ** 3, 0.00173
-    depth = hy.normal_depth(section, flow, slope, n=model)
-    assert int(other_side(model, section, depth, slope)) == -1 == _roots_apart(model, section, slope, depth)
-    assert any("another depth lies below da/D50 = 1.5" in t for t in model.check(section, depth, slope))
+    said = []
+    for width, d50, flow, slope, side in ((3.7, 1.643, 76.56, 0.02463, 1), (1.0, 0.429, 1.04, 0.00173, -1)):
+        section, model = hy.Rectangle(bottom_width=width * ft), StoneRoughness(d50 * ft)
+        depth = hy.normal_depth(section, flow * ft ** 3, slope, n=model)
+        assert int(other_side(model, section, depth, slope)) == side == _roots_apart(model, section, slope, depth)
+        other = float(other_depth(model, section, depth, slope, side))
+        (note,) = [t for t in model.check(section, depth, slope) if "another uniform-flow depth" in t]
+        where = "da/D50 above 1.53, Blodgett's n" if side > 0 else "da/D50 below 1.5, Bathurst's n"
+        assert f"another uniform-flow depth with this stone, {other:.3g} m ({where})" in note
+        said.append(in_units(note, US))
+    assert "this stone, 5.14 ft (da/D50 above" in said[0]
     head = "id,shape,bottom_width,left_slope,right_slope,diameter,slope,flow,lining,d50,n\n"
-    text = head + "two,rectangle,3.7,,,,0.02463,76.56,riprap,1.643,\none,rectangle,3.7,,,,0.02463,20,riprap,0.3,\n"
+    text = head + ("two,rectangle,3.7,,,,0.02463,76.56,riprap,1.643,\nlow,rectangle,1,,,,0.00173,1.04,riprap,0.429,\n"
+                   "one,rectangle,3.7,,,,0.02463,20,riprap,0.3,\n")
     inventory = ai.parse_inventory(text, "us")
     reasons = ai.evaluate(inventory, catalogue=Context.load().catalogue).reason.tolist()
-    assert "more than one uniform-flow depth" in reasons[0]
-    assert "more than one uniform-flow depth" not in reasons[1]
+    assert said[0] in reasons[0] and said[1] in reasons[1]
+    assert "another uniform-flow depth" not in reasons[2]

@@ -352,3 +352,33 @@ def test_a_single_trapezoid_solve_takes_the_same_steps_as_the_general_one(sectio
         alone = np.array([hy.normal_depth(section, float(q), s, n) for q in flows])
         np.testing.assert_allclose(alone, together, rtol=1e-9)
         np.testing.assert_allclose(hy.flow_at_depth(section, alone, s, n), flows, rtol=1e-10)
+
+
+def test_a_bracket_picks_each_uniform_flow_depth_of_a_stone_lining():
+    """Manning's equation with a stone's n can have three roots for one flow (an invented riprap reach across the
+    change from Bathurst's relation to Blodgett's); ``within`` gives each, the same as the plain solve where the
+    bracket holds the root it finds, for one channel and for arrays alike; a bracket that is not one is refused."""
+    import hydraulics as hy
+    from hydraulics.linings import StoneRoughness
+    from hydraulics.linings.several_depths import _conveyance, depth_at_average
+
+    ft = 0.3048
+    section, model = hy.Rectangle(bottom_width=3.7 * ft), StoneRoughness(1.643 * ft)
+    flow, slope = 76.56 * ft ** 3, 0.02463
+    foot, top = (float(depth_at_average(section, r * model.d50)) for r in (1.5, 1.53))
+    plain = hy.normal_depth(section, flow, slope, n=model)
+    low = hy.normal_depth(section, flow, slope, n=model, within=(0.0, foot * (1 - 1e-9)))
+    high = hy.normal_depth(section, flow, slope, n=model, within=(top, np.inf))
+    assert low < foot < top < high and plain == low
+    for y in (low, high):
+        assert abs(float(_conveyance(model, section, y, slope)) * np.sqrt(slope) / flow - 1) < 1e-10
+    both = hy.normal_depth(hy.Rectangle(bottom_width=np.full(2, 3.7 * ft)), np.full(2, flow), slope,
+                           n=StoneRoughness(np.full(2, 1.643 * ft)),
+                           within=(np.array([0.0, top]), np.array([foot * (1 - 1e-9), np.inf])))
+    np.testing.assert_allclose(both, [low, high], rtol=1e-12)
+    # a constant n: the one root, bracket or not
+    assert hy.normal_depth(section, flow, slope, 0.03, within=(0.1, 5.0)) == pytest.approx(
+        hy.normal_depth(section, flow, slope, 0.03), rel=1e-12)
+    for bad in ((1.0, 0.5), (-0.1, 1.0), (np.nan, 1.0)):
+        with pytest.raises(hy.InputError):
+            hy.normal_depth(section, flow, slope, n=model, within=bad)

@@ -22,9 +22,10 @@ from .. import validate
 from ..constants import GAMMA_WATER
 from ..errors import InputError
 from ..provenance import cite
-from ..wording import in_units, printed_alike, worded
+from ..units import SI
+from ..wording import in_units, printed_alike, restate_each, worded
 from . import hec15
-from .several_depths import other_side
+from .several_depths import other_depth, other_side
 
 __all__ = ["StoneRoughness", "VegetationRoughness", "FixedSlopeN", "EnergySlopeN", "STONE_METHODS", "SPLIT_BAND",
            "SWITCH_NOTE", "relation_switch_depth"]
@@ -496,32 +497,57 @@ class StoneRoughness:
             ranged = (((code == 0) & ((ratio < a) | (ratio > b))) | ((code == 1) & ((ratio <= c) | (ratio >= e)))
                       | (code == 2) | (code == 3))
             flag = flag + 2 * ranged * (1 + code)                     # the relation's note, by relation
-            flag = flag + 16 * (side < 0) + 32 * (side > 0)           # another depth, below or above
+        several = np.flatnonzero(side)     # another uniform-flow depth: its own note, after the others
+        if len(several):
+            others = other_depth(self, section, depth, slope, side)
+            notes = self._several_depths_notes(side.flat[several], others.flat[several], units)
         some = np.flatnonzero(flag)
         if not len(some):
+            if len(several):
+                out.flat[several] = _objects(notes)
             return out
         printed, clear = printed_alike(ratio[some], whole_numbers=False)   # as "%.3g" writes da/D50
         printed = np.where(clear, printed, -1 - np.arange(len(some)))          # a tie alone
         _, size_of = np.unique(d50[some], return_inverse=True)
         # one number a group: size and notes (real part), the printed da/D50 where a note quotes it (imaginary)
-        key = (size_of.ravel() * 64.0 + flag[some]) + 1j * np.where(flag[some] % 16 > 1, printed, 0)
+        key = (size_of.ravel() * 16.0 + flag[some]) + 1j * np.where(flag[some] > 1, printed, 0)
         _, first, which = np.unique(key, return_index=True, return_inverse=True)
         mark, frames, texts = "\x00", {}, []     # a group's sentence is filled once; only da/D50 is written each time
         for i, g in zip(some[first].tolist(), np.real(key[first]).tolist()):
             if g not in frames:
-                notes = self._notes(float(d50.flat[i]), None, None, None, ratio.flat[i:i + 1], code.flat[i:i + 1],
-                                    shown=mark, side=side.flat[i:i + 1])
-                frames[g] = "; ".join(str(t) if units is None else in_units(t, units) for t in notes)
+                said = self._notes(float(d50.flat[i]), None, None, None, ratio.flat[i:i + 1], code.flat[i:i + 1],
+                                   shown=mark)
+                frames[g] = "; ".join(str(t) if units is None else in_units(t, units) for t in said)
             texts.append(frames[g].replace(mark, f"{float(ratio.flat[i]):.3g}"))
-        made = np.empty(len(texts), dtype=object)
-        made[:] = texts
-        out.flat[some] = made[which.ravel()]
+        out.flat[some] = _objects(texts)[which.ravel()]
+        if len(several):
+            out.flat[several] = _objects([f"{a}; {b}" if a else b for a, b in zip(out.flat[several].tolist(), notes)])
+        return out
+
+    @staticmethod
+    def _several_depths_notes(sides, others, units) -> list:
+        """The note of :meth:`_notes` on another uniform-flow depth, for each element: ``sides`` (-1 below, +1
+        above the change of relation) and ``others`` (that depth [m], nan where it was not solved), in ``units``
+        (None: SI); the rest of the sentence written once, only the depth each time."""
+        out = [""] * len(sides)
+        for where in (-1, 1):
+            for known in (True, False):
+                at = [j for j, (s, o) in enumerate(zip(sides.tolist(), others.tolist()))
+                      if s == where and np.isfinite(o) == known]
+                if not at:
+                    continue
+                note = _several_depths_note(where, float(others[at[0]]) if known else None)
+                texts = (restate_each(note, "other", others[at].tolist(), SI if units is None else units) if known
+                         else [str(note) if units is None else in_units(note, units)] * len(at))
+                for j, t in zip(at, texts):
+                    out[j] = t
         return out
 
     def _notes(self, d50, section, depth, slope, ratio=None, code=None, shown=None, side=None) -> list[str]:
         """The warnings of one stone size ``d50``: from ``ratio`` (da/D50), ``code`` (the relations used) and
-        ``side`` (where another uniform-flow depth lies) where given, else worked out at the normal ``depth``;
-        ``shown`` in place of the da/D50 written, where given."""
+        ``side`` (where another uniform-flow depth lies, that depth not quoted) where given, else worked out at the
+        normal ``depth`` (and the other depth with them); ``shown`` in place of the da/D50 written, where given."""
+        other = None
         out = []
         lo, hi = hec15.STONE_SIZE_RANGE
         if not lo <= d50 <= hi:
@@ -534,6 +560,7 @@ class StoneRoughness:
             ratio = np.asarray(da / d50, dtype=float)
             _, code = self._regions(section, depth, slope)
             side = other_side(self, section, depth, slope)
+            other = other_depth(self, section, depth, slope, side)
         text = hec15._span(ratio) if shown is None else shown
         a, b = hec15.BLODGETT_RANGE
         if np.any((code == 0) & ((ratio < a) | (ratio > b))):
@@ -549,17 +576,37 @@ class StoneRoughness:
         if np.any(code == 2):
             out.append(f"da/D50 = {text}: the flow is too shallow for Bathurst's relation (HEC-15 Eq. 6.2); "
                        "n is held at its value at the lowest usable depth, a rule of this program, not of HEC-15")
-        for where, words in ((-1, "below da/D50 = 1.5, with Bathurst's n"),
-                             (1, f"above da/D50 = {1.5 * SPLIT_BAND:.3g}, with Blodgett's n")):
+        for where in (-1, 1):
             if side is not None and np.any(np.asarray(side) == where):
-                out.append("this flow has more than one uniform-flow depth with this stone: its n rises across the "
-                           f"change from Bathurst's relation to Blodgett's ({cite('relation_choice')}), so "
-                           f"another depth lies {words}; the depth shown is the one the solver reached. Check "
-                           "the reach at both and design for the worse (local codes and a licensed engineer decide)")
+                quoted = None if other is None else np.asarray(other)[np.asarray(side) == where]
+                out.append(_several_depths_note(where, None if quoted is None or not np.isfinite(quoted).all()
+                                                or len(quoted) != 1 else float(quoted[0])))
         return out
 
     def to_dict(self) -> dict:
         return {"model": "stone", "d50": self.d50, "method": self.method}
+
+
+def _objects(texts) -> np.ndarray:
+    """An object array of the str ``texts`` (np.array would make a fixed-width str array)."""
+    out = np.empty(len(texts), dtype=object)
+    out[:] = texts
+    return out
+
+
+def _several_depths_note(side: int, other: float | None):
+    """The caution for a flow with another uniform-flow depth (see :mod:`hydraulics.linings.several_depths`):
+    ``side`` -1 below the change of relation, +1 above it; ``other`` that depth [m], or None where it is not
+    known (the sentence then names the side only)."""
+    words = ("da/D50 below 1.5, Bathurst's n" if side < 0
+             else f"da/D50 above {1.5 * SPLIT_BAND:.3g}, Blodgett's n")
+    template = ("this flow has another uniform-flow depth with this stone, " + ("{other} (" if other is not None
+                                                                                 else "(") + words
+                + "): n rises across the change from Bathurst's relation to Blodgett's ({source}); check the reach "
+                "at both depths and design for the worse")
+    if other is None:
+        return worded(template, source=cite("relation_choice"))
+    return worded(template, source=cite("relation_choice"), other=(other, "length"))
 
 
 class VegetationRoughness:

@@ -22,6 +22,8 @@ from __future__ import annotations
 
 import numpy as np
 
+from ..errors import HydraulicsError
+from ..solvers import normal_depth
 from . import hec15
 
 #: Relative margin by which a conveyance must exceed (or fall short of) the solved one for another depth to count:
@@ -136,3 +138,49 @@ def other_side(model, section, depth, slope, n=None):
     side[more_below] = -1
     side[more_above & ~more_below] = 1
     return side
+
+
+
+def other_depth(model, section, depth, slope, side):
+    """The other uniform-flow depth [m] of the flow that runs at ``depth`` where :func:`other_side` found one
+    (``side``: -1 below the change of relation, +1 above it), nan elsewhere or where it cannot be solved: the
+    normal depth of the same flow (the conveyance at ``depth`` times sqrt(S)) between no depth and the foot of the
+    band, or between the top of the band and no limit, where the conveyance crosses the flow's once."""
+    side = np.asarray(side)
+    out = np.full(side.shape, np.nan)
+    at = np.flatnonzero(side)
+    if not len(at):
+        return out
+    depth, slope, d50 = (np.broadcast_to(np.asarray(v, dtype=float), side.shape)
+                         for v in (depth, slope, model.d50))
+    if side.ndim == 1 and hasattr(model, "take") and (not section.is_vector or hasattr(section, "take")):
+        part = section.take(at) if section.is_vector else section
+        try:   # the reaches of an inventory in one solve
+            out[at] = _solve_other(model.take(at), part, depth[at], slope[at], d50[at], side[at] > 0)
+            return out
+        except HydraulicsError:
+            pass   # one that cannot be solved spoils the set: each on its own below
+    for i in at.tolist():
+        one = np.unravel_index(i, side.shape)
+        part = section.take([i]) if section.is_vector else section
+        stone = model.take([i]) if np.ndim(model.d50) else model
+        try:
+            out[one] = float(np.ravel(_solve_other(stone, part, float(depth[one]), float(slope[one]),
+                                                   float(d50[one]), bool(side[one] > 0)))[0])
+        except HydraulicsError:
+            pass
+    return out
+
+
+def _solve_other(model, section, depth, slope, d50, up):
+    """:func:`other_depth` of one depth (floats) or of 1-D arrays of reaches, as the normal depth in the bracket."""
+    from .roughness import SPLIT_BAND   # here, not at the top: the roughness module imports this one
+
+    split = hec15.BLODGETT_RANGE[0]
+    low = np.where(up, depth_at_average(section, split * SPLIT_BAND * d50), 0.0)
+    high = np.where(up, np.inf, depth_at_average(section, split * d50) * (1 - 1e-9))
+    with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
+        flow = _conveyance(model, section, depth, slope) * np.sqrt(slope)
+    if np.ndim(depth):
+        return normal_depth(section, flow, slope, model, within=(low, high))
+    return normal_depth(section, float(flow), slope, model, within=(float(low), float(high)))
