@@ -123,7 +123,7 @@ def other_side(model, section, depth, slope, n=None):
     top = np.broadcast_to(depth_at_average(section, split * SPLIT_BAND * d50), shape)
     depth = np.broadcast_to(depth, shape)
     # the conveyance just below the foot of the band (Bathurst's n, or the value held below its usable depths) for
-    # a depth at or above the foot, at the top of the band (Blodgett's n) for a depth at or below the top
+    # a depth at or above the foot, and at the top of the band (Blodgett's n) for a depth at or below the top
     at_foot = np.isfinite(foot) & (depth >= foot)
     at_top = np.isfinite(top) & (depth <= top)
     if not (at_foot.any() or at_top.any()):
@@ -132,7 +132,8 @@ def other_side(model, section, depth, slope, n=None):
     with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
         here = _conveyance(model, section, depth, slope, None if n is None else np.broadcast_to(n, shape))
         below = _conveyance_at(model, section, np.where(at_foot, foot, depth) * (1 - 1e-9), slope, at_foot)
-        above = _conveyance_at(model, section, np.where(at_top, top, depth), slope, at_top)
+        # just above the top, where every depth is in Blodgett's relation alone (n is continuous there)
+        above = _conveyance_at(model, section, np.where(at_top, top, depth) * (1 + 1e-9), slope, at_top)
         more_below = at_foot & (below > here * (1 + MARGIN))
         more_above = at_top & (above < here * (1 - MARGIN))
     side[more_below] = -1
