@@ -473,7 +473,7 @@ class StoneRoughness:
         if not np.ndim(self.d50):
             return {float(self.d50): self._notes(self.d50, section, depth, slope)}
         ratio, code, side = self.relations(section, depth, slope) if relations is None else relations
-        return {d: self._notes(d, None, None, None, ratio[self.d50 == d], code[self.d50 == d], side=side[self.d50 == d])
+        return {d: self._notes(d, None, None, None, ratio[self.d50 == d], code[self.d50 == d])
                 for d in np.unique(self.d50).tolist()}
 
     def check_elements(self, section, depth, slope, units=None, relations=None) -> np.ndarray:
@@ -499,8 +499,9 @@ class StoneRoughness:
             flag = flag + 2 * ranged * (1 + code)                     # the relation's note, by relation
         several = np.flatnonzero(side)     # another uniform-flow depth: its own note, after the others
         if len(several):
-            others = other_depth(self, section, depth, slope, side)
-            notes = self._several_depths_notes(side.flat[several], others.flat[several], units)
+            others = other_depth(self, section, depth, slope, side).flat[several]
+            several, others = several[np.isfinite(others)], others[np.isfinite(others)]    # where it is found
+            notes = self._several_depths_notes(side.flat[several], others, units)
         some = np.flatnonzero(flag)
         if not len(some):
             if len(several):
@@ -527,26 +528,21 @@ class StoneRoughness:
     @staticmethod
     def _several_depths_notes(sides, others, units) -> list:
         """The note of :meth:`_notes` on another uniform-flow depth, for each element: ``sides`` (-1 below, +1
-        above the change of relation) and ``others`` (that depth [m], nan where it was not solved), in ``units``
-        (None: SI); the rest of the sentence written once, only the depth each time."""
-        out = [""] * len(sides)
+        above the change of relation) and ``others`` (that depth [m]), in ``units`` (None: SI); the rest of the
+        sentence written once, only the depth each time."""
+        out = np.empty(len(sides), dtype=object)
         for where in (-1, 1):
-            for known in (True, False):
-                at = [j for j, (s, o) in enumerate(zip(sides.tolist(), others.tolist()))
-                      if s == where and np.isfinite(o) == known]
-                if not at:
-                    continue
-                note = _several_depths_note(where, float(others[at[0]]) if known else None)
-                texts = (restate_each(note, "other", others[at].tolist(), SI if units is None else units) if known
-                         else [str(note) if units is None else in_units(note, units)] * len(at))
-                for j, t in zip(at, texts):
-                    out[j] = t
-        return out
+            at = np.flatnonzero(sides == where)
+            if len(at):
+                note = _several_depths_note(where, float(others[at[0]]))
+                out[at] = restate_each(note, "other", others[at].tolist(), SI if units is None else units)
+        return out.tolist()
 
-    def _notes(self, d50, section, depth, slope, ratio=None, code=None, shown=None, side=None) -> list[str]:
-        """The warnings of one stone size ``d50``: from ``ratio`` (da/D50), ``code`` (the relations used) and
-        ``side`` (where another uniform-flow depth lies, that depth not quoted) where given, else worked out at the
-        normal ``depth`` (and the other depth with them); ``shown`` in place of the da/D50 written, where given."""
+    def _notes(self, d50, section, depth, slope, ratio=None, code=None, shown=None) -> list[str]:
+        """The warnings of one stone size ``d50``: from ``ratio`` (da/D50) and ``code`` (the relations used) where
+        given, else worked out at the normal ``depth`` (one depth), and then the other uniform-flow depth too,
+        noted where one is found (:mod:`hydraulics.linings.several_depths`; the batch notes it reach by reach,
+        :meth:`check_elements`); ``shown`` in place of the da/D50 written, where given."""
         other = None
         out = []
         lo, hi = hec15.STONE_SIZE_RANGE
@@ -576,11 +572,8 @@ class StoneRoughness:
         if np.any(code == 2):
             out.append(f"da/D50 = {text}: the flow is too shallow for Bathurst's relation (HEC-15 Eq. 6.2); "
                        "n is held at its value at the lowest usable depth, a rule of this program, not of HEC-15")
-        for where in (-1, 1):
-            if side is not None and np.any(np.asarray(side) == where):
-                quoted = None if other is None else np.asarray(other)[np.asarray(side) == where]
-                out.append(_several_depths_note(where, None if quoted is None or not np.isfinite(quoted).all()
-                                                or len(quoted) != 1 else float(quoted[0])))
+        if other is not None and np.size(other) == 1 and np.isfinite(other).all():
+            out.append(_several_depths_note(int(np.ravel(side)[0]), float(np.ravel(other)[0])))
         return out
 
     def to_dict(self) -> dict:
@@ -594,19 +587,14 @@ def _objects(texts) -> np.ndarray:
     return out
 
 
-def _several_depths_note(side: int, other: float | None):
+def _several_depths_note(side: int, other: float):
     """The caution for a flow with another uniform-flow depth (see :mod:`hydraulics.linings.several_depths`):
-    ``side`` -1 below the change of relation, +1 above it; ``other`` that depth [m], or None where it is not
-    known (the sentence then names the side only)."""
+    ``side`` -1 below the change of relation, +1 above it; ``other`` that depth [m]."""
     words = ("da/D50 below 1.5, Bathurst's n" if side < 0
              else f"da/D50 above {1.5 * SPLIT_BAND:.3g}, Blodgett's n")
-    template = ("this flow has another uniform-flow depth with this stone, " + ("{other} (" if other is not None
-                                                                                 else "(") + words
-                + "): n rises across the change from Bathurst's relation to Blodgett's ({source}); check the reach "
-                "at both depths and design for the worse")
-    if other is None:
-        return worded(template, source=cite("relation_choice"))
-    return worded(template, source=cite("relation_choice"), other=(other, "length"))
+    return worded("this flow has another uniform-flow depth with this stone, {other} (" + words + "): n rises "
+                  "across the change from Bathurst's relation to Blodgett's ({source}); check the reach at both "
+                  "depths and design for the worse", source=cite("relation_choice"), other=(other, "length"))
 
 
 class VegetationRoughness:
