@@ -62,6 +62,13 @@ def text_array(size: int, text: str = "") -> np.ndarray:
     return out
 
 
+def object_array(texts) -> np.ndarray:
+    """A list of str as a 1-D object array (np.array could make a 2-D array of characters or a U array)."""
+    out = np.empty(len(texts), dtype=object)
+    out[:] = texts
+    return out
+
+
 def _expanded(texts, count: int) -> np.ndarray:
     """``texts`` (str, object array, Coded or Composed) as an object array of ``count`` str, one per row."""
     if isinstance(texts, str):

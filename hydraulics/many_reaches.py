@@ -47,7 +47,7 @@ from itertools import repeat
 import numpy as np
 
 from . import units as hu
-from .batch_reasons import Coded, Composed, Reasons, text_array
+from .batch_reasons import Coded, Composed, Reasons, object_array, text_array
 from .analysis import (FULL_PIPE_CAUTION, MIN_TURBULENT_REYNOLDS, NEAR_CRITICAL_BAND, NEAR_CRITICAL_CAUTION,
                        SUPERCRITICAL_CAUTION, TURBULENCE_CAUTION, analyse)
 from .errors import HydraulicsError, InputError
@@ -451,15 +451,8 @@ def solve_hydraulics(reaches: Reaches, idx, n, out: BatchResult, display: hu.Uni
     if failures:
         failed = np.fromiter(failures, dtype=np.intp, count=len(failures))
         out.verdict[failed] = "no-solution"
-        _reasons(out).set(failed, _objects(list(failures.values())))
+        _reasons(out).set(failed, object_array(list(failures.values())))
     return done[idx]
-
-
-def _objects(texts: list) -> np.ndarray:
-    """A list of str as a 1-D object array (np.array could make a 2-D array of characters or a U array)."""
-    out = np.empty(len(texts), dtype=object)
-    out[:] = texts
-    return out
 
 
 def _warn(reaches, rows, res, out, display):
@@ -474,7 +467,7 @@ def _warn(reaches, rows, res, out, display):
     slow = re < MIN_TURBULENT_REYNOLDS
     out.flags["not_turbulent"][rows[slow]] = True
     whole, which = np.unique(np.rint(re[slow]), return_inverse=True)     # as "%.0f" rounds: half to even
-    _note(out, rows[slow], Coded(_objects([TURBULENCE_CAUTION.format(re=f"{r:.0f}") for r in whole.tolist()]),
+    _note(out, rows[slow], Coded(object_array([TURBULENCE_CAUTION.format(re=f"{r:.0f}") for r in whole.tolist()]),
                                  which.ravel()))
     pipe = reaches.kind[rows] == _CIRCLE
     if pipe.any():
@@ -484,7 +477,7 @@ def _warn(reaches, rows, res, out, display):
         full = reaches.flow[prow] > q_full
         out.flags["above_full_flow"][prow[full]] = True
         if full.any():
-            _note(out, prow[full], _objects(restate_each(worded(FULL_PIPE_CAUTION, q_full=(1.0, "flow")), "q_full",
+            _note(out, prow[full], object_array(restate_each(worded(FULL_PIPE_CAUTION, q_full=(1.0, "flow")), "q_full",
                                                          q_full[full].tolist(), display)))
 
 
@@ -494,13 +487,13 @@ def _coded(clear, grouped: list, which, alone: list) -> Coded:
     index = np.empty(len(clear), dtype=np.intp)
     index[clear] = np.ravel(which)
     index[~clear] = len(grouped) + np.arange(len(alone))
-    return Coded(_objects(list(grouped) + list(alone)), index)
+    return Coded(object_array(list(grouped) + list(alone)), index)
 
 
 def _each_2f(values, template: str) -> Coded:
     """``template % f"{v:.2f}"`` for each value, each distinct text made once (see :func:`_fixed`)."""
     numbers = _fixed(values, 2)
-    return Coded(_objects([template % t for t in numbers.texts.tolist()]), numbers.which)
+    return Coded(object_array([template % t for t in numbers.texts.tolist()]), numbers.which)
 
 
 def _fixed(values, decimals) -> Coded:
@@ -671,7 +664,7 @@ def _side_cautions(reaches, rows, out) -> None:
         return
     out.flags["steep_sides"][sided] = True
     pairs, which = np.unique(sides[:, 0] + 1j * sides[:, 1], return_inverse=True)   # (left, right) as one number
-    _note(out, sided, Coded(_objects(["; ".join(side_slope_cautions(z.real, z.imag)) for z in pairs.tolist()]),
+    _note(out, sided, Coded(object_array(["; ".join(side_slope_cautions(z.real, z.imag)) for z in pairs.tolist()]),
                             which.ravel()))
 
 
@@ -684,9 +677,9 @@ def _pipe_depth_cautions(reaches, pipes, out, display) -> None:
     tops = ditch_tops(section, y, out.velocity[pipes], section.top_width(y), out.froude[pipes])
     shallow = pipes[tops.too_shallow]
     out.flags["too_shallow"][shallow] = True
-    _note(out, shallow, _objects([in_units(too_shallow_warning(t, d, "circle"), display) for t, d in
-                                  zip(tops.total_depth[tops.too_shallow].tolist(),
-                                      reaches.diameter[shallow].tolist())]))
+    _note(out, shallow, object_array([in_units(too_shallow_warning(t, d, "circle"), display) for t, d in
+                                      zip(tops.total_depth[tops.too_shallow].tolist(),
+                                          reaches.diameter[shallow].tolist())]))
 
 
 def price(reaches: Reaches, rows, out: BatchResult, catalogue) -> None:
@@ -845,13 +838,14 @@ def _record(sc, rows, out: BatchResult, display: hu.UnitSystem, how: str) -> Non
                                   _fixed(sf[m], 2), ", ", _fixed(required[m], 2), f" needed); hydraulics {how}")),
           first=True)
     col = lambda a, m: a[m].tolist()  # noqa: E731  (Python numbers: "%.*f" needs a Python int)
-    _note(out, rows[appendix], _objects(
+    _note(out, rows[appendix], object_array(
         ["%s, %s: %.*f %s on side stone of a steep bed (HEC-15 Appendix D safety factor %.2f, %.2f needed); "
          "hydraulics %s" % t for t in zip(col(word, appendix), col(where, appendix), col(dd, appendix),
                                          col(design, appendix), repeat(unit), col(sf, appendix),
                                          col(required, appendix), repeat(how))]), first=True)
-    _note(out, rows[cannot], _objects([f"unstable, {w}: stone cannot rest on a side as steep as or steeper than its "
-                                       f"angle of repose; hydraulics {how}" for w in where[cannot]]), first=True)
+    _note(out, rows[cannot], object_array([f"unstable, {w}: stone cannot rest on a side as steep as or steeper than "
+                                           f"its angle of repose; hydraulics {how}" for w in where[cannot]]),
+          first=True)
     out.verdict[rows] = word
     out.governs[rows] = where
 
@@ -860,7 +854,7 @@ def _labels(stable, where) -> Coded:
     """``"stable, <where>: "`` or ``"unstable, <where>: "`` for each reach, each distinct text made once."""
     places, at = np.unique(where.astype(str), return_inverse=True)
     keys, which = np.unique(np.ravel(at) * 2 + stable, return_inverse=True)
-    return Coded(_objects([f"{'stable' if k % 2 else 'unstable'}, {places[k // 2]}: " for k in keys.tolist()]),
+    return Coded(object_array([f"{'stable' if k % 2 else 'unstable'}, {places[k // 2]}: " for k in keys.tolist()]),
                  np.ravel(which))
 
 

@@ -19,6 +19,7 @@ from __future__ import annotations
 import numpy as np
 
 from .. import validate
+from ..batch_reasons import object_array
 from ..constants import GAMMA_WATER
 from ..errors import InputError
 from ..provenance import cite
@@ -505,7 +506,7 @@ class StoneRoughness:
         some = np.flatnonzero(flag)
         if not len(some):
             if len(several):
-                out.flat[several] = _objects(notes)
+                out.flat[several] = object_array(notes)
             return out
         printed, clear = printed_alike(ratio[some], whole_numbers=False)   # as "%.3g" writes da/D50
         printed = np.where(clear, printed, -1 - np.arange(len(some)))          # a tie alone
@@ -520,9 +521,10 @@ class StoneRoughness:
                                    shown=mark)
                 frames[g] = "; ".join(str(t) if units is None else in_units(t, units) for t in said)
             texts.append(frames[g].replace(mark, f"{float(ratio.flat[i]):.3g}"))
-        out.flat[some] = _objects(texts)[which.ravel()]
+        out.flat[some] = object_array(texts)[which.ravel()]
         if len(several):
-            out.flat[several] = _objects([f"{a}; {b}" if a else b for a, b in zip(out.flat[several].tolist(), notes)])
+            before = out.flat[several].tolist()
+            out.flat[several] = object_array([f"{a}; {b}" if a else b for a, b in zip(before, notes)])
         return out
 
     @staticmethod
@@ -578,13 +580,6 @@ class StoneRoughness:
 
     def to_dict(self) -> dict:
         return {"model": "stone", "d50": self.d50, "method": self.method}
-
-
-def _objects(texts) -> np.ndarray:
-    """An object array of the str ``texts`` (np.array would make a fixed-width str array)."""
-    out = np.empty(len(texts), dtype=object)
-    out[:] = texts
-    return out
 
 
 def _several_depths_note(side: int, other: float):

@@ -90,6 +90,25 @@ def _conveyance(model, section, depth, slope, n=None):
     return g.area * (g.area / g.wetted_perimeter) ** (2.0 / 3.0) / n
 
 
+def _band(section, d50):
+    """The depths [m] at the foot (da/D50 = 1.5) and at the top (1.5 x SPLIT_BAND) of the change of relation."""
+    from .roughness import SPLIT_BAND   # here, not at the top: the roughness module imports this one
+
+    split = hec15.BLODGETT_RANGE[0]
+    return depth_at_average(section, split * d50), depth_at_average(section, split * SPLIT_BAND * d50)
+
+
+def _separable(model, section, values) -> bool:
+    """Whether the elements of the 1-D ``values`` can be taken apart, with the section and the model's sizes (an
+    inventory's reaches), so that only some of them are worked out."""
+    return np.ndim(values) == 1 and hasattr(model, "take") and (not section.is_vector or hasattr(section, "take"))
+
+
+def _parts(model, section, at):
+    """The model and the section of the elements ``at``."""
+    return model.take(at), section.take(at) if section.is_vector else section
+
+
 def _conveyance_at(model, section, depth, slope, where):
     """:func:`_conveyance` at the elements ``where`` (a mask) of 1-D arrays, nan elsewhere; only those elements are
     evaluated where the section and the model can be taken apart (an inventory's reaches)."""
@@ -97,9 +116,8 @@ def _conveyance_at(model, section, depth, slope, where):
     if not where.any():
         return out
     at = np.flatnonzero(where)
-    if depth.ndim == 1 and hasattr(model, "take") and (not section.is_vector or hasattr(section, "take")):
-        part = section.take(at) if section.is_vector else section
-        out[at] = _conveyance(model.take(at), part, depth[at], slope[at])
+    if _separable(model, section, depth):
+        out[at] = _conveyance(*_parts(model, section, at), depth[at], slope[at])
     else:
         out[where] = np.broadcast_to(np.asarray(_conveyance(model, section, depth, slope)), depth.shape)[where]
     return out
@@ -110,17 +128,13 @@ def other_side(model, section, depth, slope, n=None):
     per element: -1 below da/D50 = 1.5 (Bathurst's relation), +1 above 1.5 x SPLIT_BAND (Blodgett's), 0 none
     found (int array of the broadcast shape). ``model`` is a StoneRoughness in its "auto" method (any other
     gives zeros: one relation at every depth); ``n``: its n at ``depth``, where the caller has it."""
-    from .roughness import SPLIT_BAND   # here, not at the top: the roughness module imports this one
-
     d50 = np.asarray(model.d50, dtype=float)
     depth = np.asarray(depth, dtype=float)
     shape = np.broadcast_shapes(depth.shape, d50.shape, np.shape(slope))
     side = np.zeros(shape, dtype=np.int8)
     if getattr(model, "method", None) != "auto" or not side.size:
         return side
-    split = hec15.BLODGETT_RANGE[0]
-    foot = np.broadcast_to(depth_at_average(section, split * d50), shape)
-    top = np.broadcast_to(depth_at_average(section, split * SPLIT_BAND * d50), shape)
+    foot, top = (np.broadcast_to(v, shape) for v in _band(section, d50))
     depth = np.broadcast_to(depth, shape)
     # the conveyance just below the foot of the band (Bathurst's n, or the value held below its usable depths) for
     # a depth at or above the foot, and at the top of the band (Blodgett's n) for a depth at or below the top
@@ -141,7 +155,6 @@ def other_side(model, section, depth, slope, n=None):
     return side
 
 
-
 def other_depth(model, section, depth, slope, side):
     """The other uniform-flow depth [m] of the flow that runs at ``depth`` where :func:`other_side` found one
     (``side``: -1 below the change of relation, +1 above it), nan elsewhere or where it cannot be solved: the
@@ -154,10 +167,9 @@ def other_depth(model, section, depth, slope, side):
         return out
     depth, slope, d50 = (np.broadcast_to(np.asarray(v, dtype=float), side.shape)
                          for v in (depth, slope, model.d50))
-    if side.ndim == 1 and hasattr(model, "take") and (not section.is_vector or hasattr(section, "take")):
-        part = section.take(at) if section.is_vector else section
+    if _separable(model, section, side):
         try:   # the reaches of an inventory in one solve
-            out[at] = _solve_other(model.take(at), part, depth[at], slope[at], d50[at], side[at] > 0)
+            out[at] = _solve_other(*_parts(model, section, at), depth[at], slope[at], d50[at], side[at] > 0)
             return out
         except HydraulicsError:
             pass   # one that cannot be solved spoils the set: each on its own below
@@ -175,11 +187,8 @@ def other_depth(model, section, depth, slope, side):
 
 def _solve_other(model, section, depth, slope, d50, up):
     """:func:`other_depth` of one depth (floats) or of 1-D arrays of reaches, as the normal depth in the bracket."""
-    from .roughness import SPLIT_BAND   # here, not at the top: the roughness module imports this one
-
-    split = hec15.BLODGETT_RANGE[0]
-    low = np.where(up, depth_at_average(section, split * SPLIT_BAND * d50), 0.0)
-    high = np.where(up, np.inf, depth_at_average(section, split * d50) * (1 - 1e-9))
+    foot, top = _band(section, d50)
+    low, high = np.where(up, top, 0.0), np.where(up, np.inf, foot * (1 - 1e-9))
     with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
         flow = _conveyance(model, section, depth, slope) * np.sqrt(slope)
     if np.ndim(depth):
