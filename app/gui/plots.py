@@ -337,8 +337,11 @@ class SectionPicture(Picture):
     size of the axes in pixels, with room in pixels for the labels.
     """
 
-    #: Room for labels around the drawing, in pixels: left, right, bottom, top.
+    #: Room for labels around the drawing, in pixels: left, right, bottom, top (the key's first three lines and
+    #: the water surface's width above the drawing; a fourth key line, the lining's, adds :data:`KEY_LINE`).
     pads = (24, 140, 60, 96)
+    #: Height of one line of the key, in logical pixels.
+    KEY_LINE = 19
 
     def __init__(self, width=8.0, height=4.5, dpi=100, compact=False):
         super().__init__(width, height, dpi)
@@ -403,12 +406,14 @@ class SectionPicture(Picture):
             width = self._widths[key] = text.get_window_extent(renderer).width
         return width
 
-    def _fit(self, x0, x1, z0, z1, right: float = 0.0):
+    def _fit(self, x0, x1, z0, z1, right: float = 0.0, above: float = 0.0):
         """Set equal-scale limits showing [x0, x1] x [z0, z1] inside the label pads (``pads`` in logical pixels,
-        the right one at least ``right`` device pixels); returns shown units per logical pixel."""
+        the right one at least ``right`` device pixels, the top one ``above`` logical pixels more); returns shown
+        units per logical pixel."""
         box = self.ax.get_window_extent()
         k = self.ratio
         left, pad_right, bottom, top = (p * k for p in self.pads)
+        top += above * k
         right = max(pad_right, right)
         w = max(box.width - left - right, 40)
         h = max(box.height - bottom - top, 40)
@@ -454,7 +459,9 @@ class SectionPicture(Picture):
             d["freeboard"].label.set_text(f"  {freeboard_name} {fmt(gap, 'freeboard')}")
             widest = max(self._text_width(d[k].label, renderer) for k in ("depth", "freeboard"))
             right = widest + (14 + 6) * self.ratio + self.px(self.edge)
-        s = self._fit(g.left, g.right, g.base, g.top, right)  # shown units per logical pixel
+        # shown units per logical pixel; a lining's line in the key pushes the drawing down, clear of the key
+        s = self._fit(g.left, g.right, g.base, g.top, right,
+                      self.KEY_LINE if g.lining is not None and not self.compact else 0.0)
         self.soil.set_xy(xy(g.soil))
         colour = PIPE if g.kind == "circle" else SOIL
         if self.soil.get_facecolor() != to_rgba(colour):
@@ -490,7 +497,7 @@ class SectionPicture(Picture):
         if g.lining is not None:
             keys.append(f"lining, {units.from_si('small_length', lining_thickness):.0f} "
                         f"{units.label('small_length')} thick")
-        step = 19 * self.ratio / max(self.ax.get_window_extent().height, 100)   # one key line is 19 logical px
+        step = self.KEY_LINE * self.ratio / max(self.ax.get_window_extent().height, 100)   # one key line
         for i, (line, label) in enumerate(zip(self.key_lines, self.key_texts)):
             y = 0.99 - i * step
             if label.get_position()[1] != y:     # moves with the size only: a line set anew is laid out anew

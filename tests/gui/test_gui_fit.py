@@ -210,3 +210,28 @@ def test_the_probe_sees_a_button_out_of_reach(qtbot):
     cut.setGeometry(0, 0, 300, 20)
     cut.show()
     assert any("cut by its parent" in p and "wider than its parent" in p for p in fit_probe.problems(d, screen))
+
+
+@pytest.mark.parametrize("size", [(1000, 560), (1366, 768), (1920, 1080)])
+def test_the_key_leaves_the_water_surface_label_clear(qtbot, size):
+    """A tall, narrow lined ditch (invented): the key, the lining's line among its four, and the width of the
+    water surface written above the drawing do not overlap."""
+    from app import project as pj
+    from app.gui.mainwindow import MainWindow
+
+    ditch = pj.Channel(name="Narrow stone ditch", flow=pj.FlowBasis(value=2.168), slope=0.02463,
+                       section={"shape": "rectangle", "bottom_width": 1.128}, lining=pj.LiningChoice("riprap", 0.5008),
+                       manning_n=None)
+    w = MainWindow(pj.Project(name="Invented", units="si", channels=[ditch]), persistent=False)
+    qtbot.addWidget(w)
+    w.resize(*size)
+    w.show()
+    w.tabs.setCurrentIndex(0)
+    pic = w.section_picture
+    qtbot.waitUntil(lambda: pic.key_texts[3].get_visible() and pic.key_texts[3].get_text().startswith("lining"))
+    pic.canvas.draw()
+    renderer = pic.canvas.get_renderer()
+    label = pic.dims["top"].label.get_window_extent(renderer)
+    for artist in (*pic.key_texts, *pic.key_lines):
+        if artist.get_visible():
+            assert not label.overlaps(artist.get_window_extent(renderer)), (artist, size)
