@@ -720,7 +720,7 @@ def _roughness_ranges(lining, rough, reaches, rows, solved, out, display) -> dic
             model, at = _part(rough, np.flatnonzero(part)), rows[part]
             args = (make(reaches, at), out.normal_depth[at], reaches.slope[at])
             if hasattr(model, "check_each"):   # a stone model: its relations at the depths worked out once
-                relations = model.relations(*args, n=out.manning_n[at])
+                relations = model.relations(*args, flow=reaches.flow[at])
                 own = model.check_elements(*args, units=display, relations=relations)
                 each = model.check_each(*args, relations=relations)
             else:

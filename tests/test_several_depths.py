@@ -12,7 +12,7 @@ import pytest
 import hydraulics as hy
 from hydraulics.linings import StoneRoughness
 from hydraulics.linings.roughness import SPLIT_BAND
-from hydraulics.linings.several_depths import _conveyance, depth_at_average, other_depth, other_side
+from hydraulics.linings.several_depths import depth_at_average, other_depth, other_side
 
 
 def _section(rng, kind):
@@ -26,14 +26,14 @@ def _section(rng, kind):
 
 
 def _roots_apart(model, section, slope, depth):
-    """-1 / +1 where the grid finds another depth of the same conveyance below / above ``depth``, else 0."""
+    """-1 / +1 where the grid finds another depth carrying the same flow below / above ``depth``, else 0."""
     foot = float(depth_at_average(section, 1.5 * model.d50))
     top = float(depth_at_average(section, 1.5 * SPLIT_BAND * model.d50))
     high = section.capacity_depth * (1 - 1e-6) if section.capacity_depth is not None else 50 * top
     grid = np.unique(np.concatenate([np.geomspace(1e-3 * foot, high, 20_000), [foot * (1 - 1e-9), top]]))
     with np.errstate(all="ignore"):
-        gap = np.sign(_conveyance(model, section, grid, np.full(grid.shape, slope))
-                      - _conveyance(model, section, depth, slope))
+        gap = np.sign(hy.flow_at_depth(section, grid, np.full(grid.shape, slope), model)
+                      - hy.flow_at_depth(section, depth, slope, model))
     roots = grid[np.flatnonzero(gap[1:] != gap[:-1])]
     others = roots[np.abs(np.log(roots / depth)) > 1e-3]
     return 0 if not len(others) else (-1 if (others < depth).any() else 1)
@@ -53,7 +53,7 @@ def test_another_depth_is_found_where_the_equation_has_one(kind):
         trial = foot * 10 ** rng.uniform(-0.4, 0.4)
         if section.capacity_depth is not None:
             trial = min(trial, 0.9 * section.capacity_depth)
-        flow = float(_conveyance(model, section, trial, slope)) * np.sqrt(slope)
+        flow = float(hy.flow_at_depth(section, trial, slope, model))
         try:
             depth = hy.normal_depth(section, flow, slope, n=model)
         except hy.HydraulicsError:
@@ -97,13 +97,13 @@ def test_the_other_depth_carries_the_same_flow_on_the_side_said():
         slope = 10 ** rng.uniform(-3, -1)
         foot = float(depth_at_average(section, 1.5 * model.d50))
         top = float(depth_at_average(section, 1.5 * SPLIT_BAND * model.d50))
-        flow = float(_conveyance(model, section, foot * 10 ** rng.uniform(-0.3, 0.3), slope)) * np.sqrt(slope)
+        flow = float(hy.flow_at_depth(section, foot * 10 ** rng.uniform(-0.3, 0.3), slope, model))
         depth = hy.normal_depth(section, flow, slope, n=model)
         side = other_side(model, section, depth, slope)
         if not side:
             continue
         other = float(other_depth(model, section, depth, slope, side))
-        assert abs(float(_conveyance(model, section, other, slope)) * np.sqrt(slope) / flow - 1) < 1e-9
+        assert abs(float(hy.flow_at_depth(section, other, slope, model)) / flow - 1) < 1e-9
         assert other > top if side > 0 else other < foot
         found += 1
     assert found > 10

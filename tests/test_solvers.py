@@ -360,7 +360,7 @@ def test_a_bracket_picks_each_uniform_flow_depth_of_a_stone_lining():
     bracket holds the root it finds, for one channel and for arrays alike; a bracket that is not one is refused."""
     import hydraulics as hy
     from hydraulics.linings import StoneRoughness
-    from hydraulics.linings.several_depths import _conveyance, depth_at_average
+    from hydraulics.linings.several_depths import depth_at_average
 
     ft = 0.3048
     section, model = hy.Rectangle(bottom_width=3.7 * ft), StoneRoughness(1.643 * ft)
@@ -371,7 +371,7 @@ def test_a_bracket_picks_each_uniform_flow_depth_of_a_stone_lining():
     high = hy.normal_depth(section, flow, slope, n=model, within=(top, np.inf))
     assert low < foot < top < high and plain == low
     for y in (low, high):
-        assert abs(float(_conveyance(model, section, y, slope)) * np.sqrt(slope) / flow - 1) < 1e-10
+        assert abs(float(hy.flow_at_depth(section, y, slope, model)) / flow - 1) < 1e-10
     both = hy.normal_depth(hy.Rectangle(bottom_width=np.full(2, 3.7 * ft)), np.full(2, flow), slope,
                            n=StoneRoughness(np.full(2, 1.643 * ft)),
                            within=(np.array([0.0, top]), np.array([foot * (1 - 1e-9), np.inf])))

@@ -26,7 +26,7 @@ from ..provenance import cite
 from ..units import SI
 from ..wording import in_units, printed_alike, restate_each, worded
 from . import hec15
-from .several_depths import other_depth, other_side
+from .several_depths import depth_at_average, other_depth, other_side
 
 __all__ = ["StoneRoughness", "VegetationRoughness", "FixedSlopeN", "EnergySlopeN", "STONE_METHODS", "SPLIT_BAND",
            "SWITCH_NOTE", "relation_switch_depth"]
@@ -416,21 +416,13 @@ class StoneRoughness:
         The two relations do not meet there (HEC-15 Eq. 6.1 holds for 1.5 <= da/D50 <= 185, Eq. 6.2 for
         0.3 < da/D50 < 8.0), so a rating curve kinks at this depth and the smallest stable D50 can change
         abruptly across it: the front ends mark it and say so. None for a forced relation, or where the
-        section (a pipe) never reaches that average depth. Bisection on the geometry to 1e-12 of the depth.
+        section (a pipe) never reaches that average depth
+        (:func:`hydraulics.linings.several_depths.depth_at_average`).
         """
         if self.method != "auto":
             return None
-        target = hec15.BLODGETT_RANGE[0] * self.d50
-        top = None if section.capacity_depth is None else float(section.capacity_depth) * (1 - 1e-12)
-        lo, hi = 0.0, self.d50 if top is None else min(self.d50, top)
-        while float(_average_depth(section, hi)[0]) < target:   # da = A/T rises with depth in these sections
-            if top is not None and hi >= top:
-                return None
-            lo, hi = hi, hi * 2.0 if top is None else min(hi * 2.0, top)
-        while hi - lo > 1e-12 * hi:
-            mid = 0.5 * (lo + hi)
-            lo, hi = (mid, hi) if float(_average_depth(section, mid)[0]) < target else (lo, mid)
-        return hi
+        depth = float(depth_at_average(section, hec15.BLODGETT_RANGE[0] * self.d50))
+        return depth if np.isfinite(depth) else None
 
     def manning_n(self, section, depth, slope):
         """Manning's n [s/m^(1/3)] at ``depth`` [m] and ``slope`` [m/m]; no checks (solver use)."""
@@ -452,13 +444,13 @@ class StoneRoughness:
         the warnings of each size in turn, see :meth:`check_each`)."""
         return [note for notes in self.check_each(section, depth, slope).values() for note in notes]
 
-    def relations(self, section, depth, slope, n=None):
+    def relations(self, section, depth, slope, flow=None):
         """(da/D50, the relation used: 0 Blodgett, 1 Bathurst, 2 held, 3 the ramp between, where another
         uniform-flow depth of the same flow lies: -1 below the change of relation, +1 above it, 0 none found,
         see :func:`hydraulics.linings.several_depths.other_side`) at the normal ``depth``, per element, each as an
-        array of the shape of ``depth`` and the sizes broadcast; zeros for "strickler" (``n``: the model's n at
-        ``depth``, where the caller has it). What :meth:`check_each` and :meth:`check_elements` word, worked out
-        once for both where they are given it."""
+        array of the shape of ``depth`` and the sizes broadcast; zeros for "strickler" (``flow``: the flow that
+        runs at ``depth``, where the caller has it). What :meth:`check_each` and :meth:`check_elements` word,
+        worked out once for both where they are given it."""
         shape = np.broadcast_shapes(np.shape(depth), np.shape(self.d50))
         if self.method == "strickler":
             return np.zeros(shape), np.zeros(shape, dtype=int), np.zeros(shape, dtype=np.int8)
@@ -466,7 +458,7 @@ class StoneRoughness:
         da, _, _ = _average_depth(section, depth)
         return (np.broadcast_to(np.asarray(da / self.d50, dtype=float), shape),
                 np.broadcast_to(self._regions(section, depth, slope)[1], shape),
-                np.broadcast_to(other_side(self, section, depth, slope, n), shape))
+                np.broadcast_to(other_side(self, section, depth, slope, flow), shape))
 
     def check_each(self, section, depth, slope, relations=None) -> dict:
         """{D50: the warnings of :meth:`check` for the elements of that size}, smallest size first; the

@@ -23,10 +23,10 @@ from __future__ import annotations
 import numpy as np
 
 from ..errors import HydraulicsError
-from ..solvers import normal_depth
+from ..solvers import flow_at_depth, normal_depth
 from . import hec15
 
-#: Relative margin by which a conveyance must exceed (or fall short of) the solved one for another depth to count:
+#: Relative margin by which a flow must exceed (or fall short of) the solved one for another depth to count:
 #: far above the solver's tolerance on the flow (1e-10), far below any difference a design would notice.
 MARGIN = 1e-7
 
@@ -82,14 +82,6 @@ def _bisect_average(section, c):
     return np.where(reached, hi, np.nan)
 
 
-def _conveyance(model, section, depth, slope, n=None):
-    """A R^(2/3) / n at ``depth`` with the model's n (or ``n``, where given)."""
-    g = section.properties(depth)
-    if n is None:
-        n = model.manning_n(section, depth, slope)
-    return g.area * (g.area / g.wetted_perimeter) ** (2.0 / 3.0) / n
-
-
 def _band(section, d50):
     """The depths [m] at the foot (da/D50 = 1.5) and at the top (1.5 x SPLIT_BAND) of the change of relation."""
     from .roughness import SPLIT_BAND   # here, not at the top: the roughness module imports this one
@@ -109,25 +101,28 @@ def _parts(model, section, at):
     return model.take(at), section.take(at) if section.is_vector else section
 
 
-def _conveyance_at(model, section, depth, slope, where):
-    """:func:`_conveyance` at the elements ``where`` (a mask) of 1-D arrays, nan elsewhere; only those elements are
-    evaluated where the section and the model can be taken apart (an inventory's reaches)."""
+def _flow_at(model, section, depth, slope, where):
+    """The flow Manning's equation gives at ``depth`` with the model's n (:func:`hydraulics.solvers.flow_at_depth`)
+    at the elements ``where`` (a mask) of 1-D arrays, nan elsewhere; only those elements are evaluated where the
+    section and the model can be taken apart (an inventory's reaches)."""
     out = np.full(depth.shape, np.nan)
     if not where.any():
         return out
     at = np.flatnonzero(where)
     if _separable(model, section, depth):
-        out[at] = _conveyance(*_parts(model, section, at), depth[at], slope[at])
+        stone, part = _parts(model, section, at)
+        out[at] = flow_at_depth(part, depth[at], slope[at], stone)
     else:
-        out[where] = np.broadcast_to(np.asarray(_conveyance(model, section, depth, slope)), depth.shape)[where]
+        out[where] = np.broadcast_to(np.asarray(flow_at_depth(section, depth, slope, model)), depth.shape)[where]
     return out
 
 
-def other_side(model, section, depth, slope, n=None):
+def other_side(model, section, depth, slope, flow=None):
     """Where another uniform-flow depth of the flow that runs at ``depth`` [m] (normal depth at ``slope``) lies,
     per element: -1 below da/D50 = 1.5 (Bathurst's relation), +1 above 1.5 x SPLIT_BAND (Blodgett's), 0 none
     found (int array of the broadcast shape). ``model`` is a StoneRoughness in its "auto" method (any other
-    gives zeros: one relation at every depth); ``n``: its n at ``depth``, where the caller has it."""
+    gives zeros: one relation at every depth); ``flow``: the flow [m^3/s] that runs at ``depth``, where the caller
+    has it (else Manning's equation gives it)."""
     d50 = np.asarray(model.d50, dtype=float)
     depth = np.asarray(depth, dtype=float)
     shape = np.broadcast_shapes(depth.shape, d50.shape, np.shape(slope))
@@ -136,18 +131,19 @@ def other_side(model, section, depth, slope, n=None):
         return side
     foot, top = (np.broadcast_to(v, shape) for v in _band(section, d50))
     depth = np.broadcast_to(depth, shape)
-    # the conveyance just below the foot of the band (Bathurst's n, or the value held below its usable depths) for
-    # a depth at or above the foot, and at the top of the band (Blodgett's n) for a depth at or below the top
+    # the flow (Manning's equation at the bed slope) just below the foot of the band (Bathurst's n, or the value
+    # held below its usable depths) for a depth at or above the foot, and at the top of the band (Blodgett's n)
+    # for a depth at or below the top
     at_foot = np.isfinite(foot) & (depth >= foot)
     at_top = np.isfinite(top) & (depth <= top)
     if not (at_foot.any() or at_top.any()):
         return side
     slope = np.broadcast_to(np.asarray(slope, dtype=float), shape)
     with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
-        here = _conveyance(model, section, depth, slope, None if n is None else np.broadcast_to(n, shape))
-        below = _conveyance_at(model, section, np.where(at_foot, foot, depth) * (1 - 1e-9), slope, at_foot)
+        here = flow_at_depth(section, depth, slope, model) if flow is None else np.broadcast_to(flow, shape)
+        below = _flow_at(model, section, np.where(at_foot, foot, depth) * (1 - 1e-9), slope, at_foot)
         # just above the top, where every depth is in Blodgett's relation alone (n is continuous there)
-        above = _conveyance_at(model, section, np.where(at_top, top, depth) * (1 + 1e-9), slope, at_top)
+        above = _flow_at(model, section, np.where(at_top, top, depth) * (1 + 1e-9), slope, at_top)
         more_below = at_foot & (below > here * (1 + MARGIN))
         more_above = at_top & (above < here * (1 - MARGIN))
     side[more_below] = -1
@@ -158,8 +154,8 @@ def other_side(model, section, depth, slope, n=None):
 def other_depth(model, section, depth, slope, side):
     """The other uniform-flow depth [m] of the flow that runs at ``depth`` where :func:`other_side` found one
     (``side``: -1 below the change of relation, +1 above it), nan elsewhere or where it cannot be solved: the
-    normal depth of the same flow (the conveyance at ``depth`` times sqrt(S)) between no depth and the foot of the
-    band, or between the top of the band and no limit, where the conveyance crosses the flow's once."""
+    normal depth of the same flow (Manning's at ``depth``) between no depth and the foot of the band, or between
+    the top of the band and no limit, where the flow Manning's equation gives crosses it once."""
     side = np.asarray(side)
     out = np.full(side.shape, np.nan)
     at = np.flatnonzero(side)
@@ -190,7 +186,7 @@ def _solve_other(model, section, depth, slope, d50, up):
     foot, top = _band(section, d50)
     low, high = np.where(up, top, 0.0), np.where(up, np.inf, foot * (1 - 1e-9))
     with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
-        flow = _conveyance(model, section, depth, slope) * np.sqrt(slope)
+        flow = flow_at_depth(section, depth, slope, model)
     if np.ndim(depth):
         return normal_depth(section, flow, slope, model, within=(low, high))
     return normal_depth(section, float(flow), slope, model, within=(float(low), float(high)))
