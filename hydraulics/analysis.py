@@ -109,6 +109,20 @@ def _count(mask) -> str:
     return "" if m.ndim == 0 else f"{int(m.sum())} of {m.size} channels: "
 
 
+def full_pipe_flow(section, slope, n_used):
+    """Manning's flow of the pipe ``section`` running full [m^3/s], Q = (1/n) A R^(2/3) S^(1/2) (Chow 1959,
+    Eq. 5-6), at ``slope`` with ``n_used``, the n of its normal depth (arrays broadcast).
+
+    No range check on n: a stone lining's relation can give an n above the range accepted as input (a large
+    stone in a small pipe), and its cautions say so; the capacity is still the one that n gives.
+    """
+    d = np.asarray(section.diameter, dtype=float)
+    full = section._geometry(np.broadcast_to(d, np.broadcast_shapes(d.shape, np.shape(slope), np.shape(n_used)))
+                             if np.ndim(slope) or np.ndim(n_used) or d.ndim else float(d))
+    sqrt = np.sqrt if np.ndim(slope) else math.sqrt
+    return full.area * (full.area / full.wetted_perimeter) ** (2 / 3) * sqrt(slope) / n_used
+
+
 def analyse(section, flow, slope, n=None, normal=None) -> ChannelResult:
     """Normal and critical depth with every derived quantity; see the module notes.
 
@@ -151,8 +165,7 @@ def analyse(section, flow, slope, n=None, normal=None) -> ChannelResult:
     if section.kind == "circle":
         # Above the full-pipe flow there are two part-full depths; the lower one is returned,
         # and any disturbance can seal the pipe (common practice).
-        full_geo = section._geometry(section.diameter if not vector else np.full(np.shape(y), section.diameter))
-        q_full = full_geo.area * (full_geo.area / full_geo.wetted_perimeter) ** (2 / 3) * sqrt(s) / n_used
+        q_full = full_pipe_flow(section, s, n_used)
         over = q > q_full
         if np.any(over):
             if vector:

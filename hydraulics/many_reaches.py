@@ -49,7 +49,7 @@ import numpy as np
 from . import units as hu
 from .batch_reasons import Coded, Composed, Reasons, object_array, text_array
 from .analysis import (FULL_PIPE_CAUTION, MIN_TURBULENT_REYNOLDS, NEAR_CRITICAL_BAND, NEAR_CRITICAL_CAUTION,
-                       SUPERCRITICAL_CAUTION, TURBULENCE_CAUTION, analyse)
+                       SUPERCRITICAL_CAUTION, TURBULENCE_CAUTION, analyse, full_pipe_flow)
 from .errors import HydraulicsError, InputError
 from .freeboard import ditch_tops, too_shallow_warning
 from .lining_quantities import cost_per_length
@@ -473,7 +473,7 @@ def _warn(reaches, rows, res, out, display):
     if pipe.any():
         prow = rows[pipe]
         d = reaches.diameter[prow]
-        q_full = flow_at_depth(Circle(diameter=d), d, reaches.slope[prow], np.asarray(res.manning_n)[pipe])
+        q_full = full_pipe_flow(Circle(diameter=d), reaches.slope[prow], np.asarray(res.manning_n)[pipe])
         full = reaches.flow[prow] > q_full
         out.flags["above_full_flow"][prow[full]] = True
         if full.any():

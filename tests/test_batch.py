@@ -23,6 +23,7 @@ from app.inventory import reading, writing
 from app.main import main
 from hydraulics import many_reaches as mr
 from hydraulics import units as hu
+from hydraulics.linings import StoneRoughness
 from inventory_rows import section_of, shape_fields
 from app.context import Context
 
@@ -631,6 +632,35 @@ def test_stone_lined_pipes_below_one_metre_take_the_lining_roughness():
         assert out[i]["verdict"] in ("stable", "unstable"), out[i]["reason"]
         ref = hy.analyse(hy.Circle(diameter=float(row["diameter"])), float(row["flow"]), 0.01, rough)
         assert res.normal_depth[i] == pytest.approx(ref.normal_depth, rel=1e-8)
+
+
+def test_a_stone_n_above_the_input_range_does_not_stop_the_batch():
+    """A trickle among large stones: Bathurst's relation (HEC-15 Eq. 6.2) gives an n far above the largest n
+    accepted as input (1), which once stopped the whole inventory at the pipe's full-flow check. The reach is
+    checked like the one-channel check does (hy.analyse with the stone's n), its neighbours too. Invented reaches
+    found by a random search over the accepted input ranges."""
+    rough = StoneRoughness(0.3071)
+    rows = [{"id": "T1", "shape": "circle", "diameter": "10.97", "slope": "1.40868e-05", "flow": "1.20041e-06",
+             "lining": "riprap", "d50": "0.3071"}, {**GOOD, "id": "T2"}]
+    _, res, out = check(csv_text(rows), "si")
+    ref = hy.analyse(hy.Circle(diameter=10.97), 1.20041e-06, 1.40868e-05, rough)
+    assert ref.manning_n > 1.0                                       # the case is the one it claims to be
+    assert out[0]["verdict"] == "stable", out[0]["reason"]
+    assert res.normal_depth[0] == pytest.approx(ref.normal_depth, rel=1e-8)
+    assert res.manning_n[0] == pytest.approx(ref.manning_n, rel=1e-8)
+    assert out[1]["verdict"] == "hydraulics-only" and out[1]["normal_depth"] != ""
+
+
+def test_the_full_pipe_flow_is_mannings_flow_at_the_crown():
+    """hydraulics.analysis.full_pipe_flow, used by the one-channel and the batch checks alike, is Manning's
+    equation at the full depth (Chow 1959, Eq. 5-6), for floats and arrays, with an n above the input range too."""
+    from hydraulics.analysis import full_pipe_flow
+
+    d, s = np.array([0.3, 1.2, 4.0]), np.array([0.001, 0.02, 0.3])
+    want = hy.flow_at_depth(hy.Circle(diameter=d), d, s, 0.5)
+    assert np.allclose(full_pipe_flow(hy.Circle(diameter=d), s, np.full(3, 0.5)), want, rtol=1e-13, atol=0)
+    assert full_pipe_flow(hy.Circle(diameter=1.2), 0.02, 0.5) == pytest.approx(float(want[1]), rel=1e-13)
+    assert full_pipe_flow(hy.Circle(diameter=1.2), 0.02, 5.0) == pytest.approx(float(want[1]) / 10, rel=1e-13)
 
 
 def test_lining_errors():
