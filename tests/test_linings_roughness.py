@@ -209,6 +209,21 @@ def test_switch_depth_is_where_the_average_depth_is_one_and_a_half_d50():
     assert relation_switch_depth(0.035, hy.Triangle(side_slope=3.0)) is None
 
 
+def test_a_note_on_many_depths_quotes_the_da_d50_of_the_depths_it_is_about():
+    """The notes on one stone size over many depths (the batch's notes per lining) quote the span of da/D50 of the
+    depths each note concerns, not of every depth: Blodgett's range 1.5 to 185 (HEC-15 Eq. 6.1), the depths held
+    below Bathurst's usable ones, and this program's ramp from da/D50 = 1.5 to 1.53."""
+    from hydraulics.linings.several_depths import depth_at_average
+    section, stone = hy.Trapezoid(bottom_width=1.0, side_slope=2.0), StoneRoughness(0.02)
+    ratios = np.array([0.1, 0.2, 0.9, 1.51, 1.52, 3.0, 190.0, 200.0])
+    depth = depth_at_average(section, ratios * 0.02)
+    (notes,) = stone.check_each(section, depth, np.full(len(ratios), 0.01)).values()
+    assert any(t.startswith("da/D50 = 190..200 is outside 1.5 to 185") for t in notes), notes
+    assert any(t.startswith("da/D50 = 1.51..1.52: at the change") for t in notes), notes
+    assert any(t.startswith("da/D50 = 0.1..0.2: the flow is too shallow") for t in notes), notes
+    assert len(notes) == 3
+
+
 @pytest.mark.parametrize("units", ["si", "us"])
 def test_each_elements_warnings_are_its_own_checks(units):
     """StoneRoughness.check_elements (the batch's per-reach warnings) gives each element the words check() gives

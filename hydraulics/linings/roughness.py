@@ -551,20 +551,26 @@ class StoneRoughness:
             _, code = self._regions(section, depth, slope)
             side = other_side(self, section, depth, slope)
             other = other_depth(self, section, depth, slope, side)
-        text = hec15._span(ratio) if shown is None else shown
+        ratio, code = np.asarray(ratio, dtype=float), np.asarray(code)
+
+        def text(where):   # the da/D50 of the elements a note is about, not of every element of this size
+            return hec15._span(ratio[where]) if shown is None else shown
+
         a, b = hec15.BLODGETT_RANGE
-        if np.any((code == 0) & ((ratio < a) | (ratio > b))):
-            out.append(f"da/D50 = {text} is outside {a:g} to {b:g}, the range of Blodgett's relation (HEC-15 Eq. 6.1)")
+        if np.any(where := (code == 0) & ((ratio < a) | (ratio > b))):
+            out.append(f"da/D50 = {text(where)} is outside {a:g} to {b:g}, the range of Blodgett's relation "
+                       "(HEC-15 Eq. 6.1)")
         a, b = hec15.BATHURST_RANGE
-        if np.any((code == 1) & ((ratio <= a) | (ratio >= b))):
-            out.append(f"da/D50 = {text} is outside {a:g} to {b:g}, the range of Bathurst's relation (HEC-15 Eq. 6.2)")
-        if np.any(code == 3):
-            out.append(f"da/D50 = {text}: at the change from Bathurst's to Blodgett's relation "
+        if np.any(where := (code == 1) & ((ratio <= a) | (ratio >= b))):
+            out.append(f"da/D50 = {text(where)} is outside {a:g} to {b:g}, the range of Bathurst's relation "
+                       "(HEC-15 Eq. 6.2)")
+        if np.any(where := code == 3):
+            out.append(f"da/D50 = {text(where)}: at the change from Bathurst's to Blodgett's relation "
                        f"({cite('relation_choice')}) "
                        f"n is taken between the two (a rule of this program, for da/D50 from 1.5 to "
                        f"{1.5 * SPLIT_BAND:.3g})")
-        if np.any(code == 2):
-            out.append(f"da/D50 = {text}: the flow is too shallow for Bathurst's relation (HEC-15 Eq. 6.2); "
+        if np.any(where := code == 2):
+            out.append(f"da/D50 = {text(where)}: the flow is too shallow for Bathurst's relation (HEC-15 Eq. 6.2); "
                        "n is held at its value at the lowest usable depth, a rule of this program, not of HEC-15")
         if other is not None and np.size(other) == 1 and np.isfinite(other).all():
             out.append(_several_depths_note(int(np.ravel(side)[0]), float(np.ravel(other)[0])))
