@@ -18,6 +18,7 @@ from dataclasses import dataclass, field
 import numpy as np
 
 import hydraulics as hy
+from hydraulics import units as hu
 from hydraulics.curves import rating_curve, specific_energy
 from hydraulics.linings.roughness import relation_switch_depth
 from hydraulics.stability import StabilityResult
@@ -77,19 +78,19 @@ class Evaluation:
         return self.result is not None
 
 
-def describe_error(exc: Exception) -> tuple[str, str | None]:
-    """(message in words, core field name or None) for an error from the core."""
+def describe_error(exc: Exception, units=hu.SI) -> tuple[str, str | None]:
+    """(message in words, core field name or None) for an error from the core, its numbers in ``units``."""
     if isinstance(exc, hy.InputError):
         name = exc.field
         label = FIELD_LABELS.get(name) or FIELD_LABELS.get(name.split(".")[-1]) or name.replace("_", " ")
         if name.startswith("lining "):
             label = "Lining " + name[len("lining "):]
-        text = str(exc).split(": ", 1)[-1]
+        text = exc.in_units(units).split(": ", 1)[-1]
         if text.startswith("must be a number, got None"):   # an input left empty: say so in words
             return f"{label} is not given yet", name
         return f"{label} {text}", name
     if isinstance(exc, hy.NoSolutionError):
-        return f"No solution: {exc}", None
+        return f"No solution: {exc.in_units(units)}", None
     raise exc
 
 
@@ -184,7 +185,7 @@ def compare(channel: Channel, context: Context) -> tuple[list[ComparisonRow], st
         section = channel.build_section()
         rows = lining_comparison(channel, context.catalogue, choices, section=section, flow=q)
     except (hy.InputError, hy.NoSolutionError) as exc:
-        return [], describe_error(exc)[0]
+        return [], describe_error(exc, context.units)[0]
     out = []
     for choice, row in zip(choices, rows):
         ev = Evaluation(flow=q, section=section)
@@ -286,7 +287,7 @@ def evaluate(channel: Channel, context: Context) -> Evaluation:
     try:
         design = evaluate_channel(_for_facade(channel), context.catalogue)
     except (hy.InputError, hy.NoSolutionError) as exc:
-        ev.error, ev.error_field = describe_error(exc)
+        ev.error, ev.error_field = describe_error(exc, context.units)
         ev.verdict = Verdict("none", "No result", ev.error)
         try:   # the flow and t_c lines of the form still have something to say
             ev.flow, ev.time_of_concentration, _w, _n = design_flow(channel)

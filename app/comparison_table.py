@@ -20,6 +20,7 @@ from __future__ import annotations
 from dataclasses import dataclass, field
 
 from hydraulics.units import UnitSystem
+from hydraulics.wording import in_units
 
 from .context import Context
 from .lining_names import lining_label
@@ -44,7 +45,7 @@ class ComparisonTableRow:
     verdict: Verdict
     values: dict
     cells: dict
-    error: str | None = None  # why the lining has no solution, in words (the core's, SI)
+    error: str | None = None  # why the lining has no solution, in words, in the units shown
     core: object = field(default=None, repr=False, compare=False)   # a hydraulics.lining_comparison.ComparisonRow
 
 
@@ -119,5 +120,6 @@ def comparison_table(rows, context: Context, full_depth: float | None = None, de
                 cells[key] = quantity_text(v, f, decimal_mark, group_mark)
             else:
                 cells[key] = rounded(v, f, decimal_mark)
-        out.append(ComparisonTableRow(row.key, row.d50, values["lining"], verdict, values, cells, row.error, row))
+        out.append(ComparisonTableRow(row.key, row.d50, values["lining"], verdict, values, cells,
+                                      None if row.error is None else in_units(row.error, units), row))
     return ComparisonTable(units, tuple(out))

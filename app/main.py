@@ -71,12 +71,12 @@ def main(argv=None) -> int:
         print(f"ditchwright {args.command}: error: {exc}", file=sys.stderr)
         return exc.status
     except InputError as exc:
-        # The core names its field; show it as the option the user typed.
-        print(f"ditchwright {args.command}: error: {option_name(exc.field)}: {str(exc).split(': ', 1)[1]}",
-              file=sys.stderr)
+        # The core names its field; show it as the option the user typed, in the units of the command.
+        print(f"ditchwright {args.command}: error: {option_name(exc.field)}: "
+              f"{exc.in_units(_units_of(args)).split(': ', 1)[1]}", file=sys.stderr)
         return 2
     except NoSolutionError as exc:
-        print(f"ditchwright {args.command}: no solution: {exc}", file=sys.stderr)
+        print(f"ditchwright {args.command}: no solution: {exc.in_units(_units_of(args))}", file=sys.stderr)
         return 3
     except BrokenPipeError:  # output piped into `head` and the like
         sys.stderr.close()
@@ -87,6 +87,13 @@ def main(argv=None) -> int:
         return INTERRUPTED_STATUS
     except Exception as exc:  # noqa: BLE001 - the last resort: never a traceback on the terminal
         return _report_unexpected(args.command, exc)
+
+
+def _units_of(args):
+    """The unit system a command's numbers are in (its --units; SI for a command without one)."""
+    from hydraulics import units as hu
+
+    return hu.system(getattr(args, "units", None) or "si")
 
 
 #: Exit status when the user interrupts a command (Ctrl+C): 128 + SIGINT, as shells report it (common practice).

@@ -16,6 +16,7 @@ from . import validate
 from .errors import NoSolutionError
 from .sections import Rectangle, Trapezoid, _slopes
 from .solvers import _n_value, normal_depth, resolve_roughness
+from .wording import worded
 
 
 def _log_capacity(section, depth, slope, rough):
@@ -69,14 +70,19 @@ def bottom_width_for_depth(flow, slope, n, max_depth, side_slope=None, *, left_s
             break
         lo, hi = hi, 2 * hi
     else:  # pragma: no cover - needs a flow beyond any float width
-        raise NoSolutionError(f"no bottom width up to {hi:g} m keeps the depth within max_depth")
+        raise NoSolutionError(worded("no bottom width up to {b} keeps the normal depth within the depth limit",
+                                     b=(hi, "length", "g")))
     b = brentq(excess, lo, hi, xtol=1e-14 * hi, rtol=1e-14, maxiter=200)
     # brentq may stop a hair on the wrong side; step to the side that meets the limit.
     while excess(b) < 0:
         b = b * (1 + 1e-13) + 1e-15
     check = normal_depth(make(b), q, s, n)
-    if check > y * (1 + 1e-9):  # pragma: no cover - guards the inversion itself
-        raise NoSolutionError(f"width {b:g} m gives depth {check:g} m above {y:g} m")
+    if check > y * (1 + 1e-9):   # a depth-dependent n (stone far larger than the depth): the flow has two depths
+        raise NoSolutionError(worded("no bottom width keeps the normal depth within {y_max} with this "
+                                     "roughness: at the width {b}, where that depth carries the flow, the same flow "
+                                     "also runs uniformly at {y} (the lining's n changes with the depth and the "
+                                     "section)", b=(b, "length", "g"), y=(check, "length", "g"),
+                                     y_max=(y, "length", "g")))
     return b
 
 
@@ -122,7 +128,9 @@ def slope_range_for_velocity(section, flow, n, min_velocity, max_velocity):
 
     s_min, s_max = slope_for(vmin), slope_for(vmax)
     if s_min == "above":
-        raise NoSolutionError(f"no slope up to {s_hi:g} gives a velocity of {vmin:g} m/s for this flow and section")
+        raise NoSolutionError(worded("no slope up to {s} gives a velocity of {v} for this flow and section",
+                                     s=f"{s_hi:g}", v=(vmin, "velocity", "g")))
     if s_max == "below":
-        raise NoSolutionError(f"even a slope of {s_lo:g} gives more than {vmax:g} m/s for this flow and section")
+        raise NoSolutionError(worded("even a slope of {s} gives more than {v} for this flow and section",
+                                     s=f"{s_lo:g}", v=(vmax, "velocity", "g")))
     return (0.0 if s_min == "below" else s_min), (None if s_max == "above" else s_max)

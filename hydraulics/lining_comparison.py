@@ -14,7 +14,7 @@ from .errors import InputError, NoSolutionError
 from .linings import hec15
 from .stability import StabilityResult, check_lining
 from .units import SI, UnitSystem
-from .wording import in_units
+from .wording import in_units, worded
 
 __all__ = ["ComparisonRow", "compare_linings", "parse_choice"]
 
@@ -57,14 +57,15 @@ class ComparisonRow:
             "permissible_shear": T(self.permissible_shear), "safety_factor": self.safety_factor,
             "required_safety_factor": self.required_safety_factor, "verdict": self.verdict,
             "stable": self.stable, "governs": self.governs,
-            "reason": self.result.reason(units) if self.result is not None else self.reason,
+            "reason": self.result.reason(units) if self.result is not None else in_units(self.reason, units),
             "required_d50": L(self.required_d50), "total_depth": L(self.total_depth),
             "lined_width": L(self.lined_width),
             "layer_volume": None if self.layer_volume is None else float(units.from_si("volume_per_length",
                                                                                       self.layer_volume)),
             "cost_per_length": None if self.cost_per_length is None else float(units.from_si("cost_per_length",
                                                                                             self.cost_per_length)),
-            "warnings": [in_units(w, units) for w in self.warnings], "error": self.error,
+            "warnings": [in_units(w, units) for w in self.warnings],
+            "error": None if self.error is None else in_units(self.error, units),
         }
 
 
@@ -133,12 +134,13 @@ def compare_linings(section, flow, slope, choices, catalogue, bend_radius=None,
             r = check_lining(section, flow, slope, lining, d50=d50, bend_radius=bend_radius,
                              min_freeboard=min_freeboard, **options)
         except NoSolutionError as exc:
+            said = exc.said()
             rows.append(ComparisonRow(
                 key=key, name=lining.name, d50=d50, depth=None, velocity=None, froude=None, manning_n=None,
                 design_shear=None, permissible_shear=None, safety_factor=None, required_safety_factor=None,
-                verdict="no solution", stable=None, governs=None, reason=f"no solution: {exc}", required_d50=None,
+                verdict="no solution", stable=None, governs=None, reason=worded("no solution: {why}", why=said), required_d50=None,
                 total_depth=None, lined_width=None, layer_volume=None, cost_per_length=None, warnings=[],
-                error=str(exc), result=None))
+                error=said, result=None))
             continue
         gov = r.governing_check()
         rows.append(ComparisonRow(

@@ -378,20 +378,20 @@ def _pipe_section(reaches, idx):
     return Circle(diameter=reaches.diameter[idx])
 
 
-def _analyse_robust(make_section, reaches, idx, n, failures):
+def _analyse_robust(make_section, reaches, idx, n, failures, display):
     """hy.analyse on the reaches ``idx``; a failing group is halved until the failing reaches are found.
 
-    Returns a list of (index array, ChannelResult); ``failures`` gets {row: message}.
+    Returns a list of (index array, ChannelResult); ``failures`` gets {row: message in ``display`` units}.
     """
     try:
         return [(idx, analyse(make_section(reaches, idx), reaches.flow[idx], reaches.slope[idx], n))]
     except HydraulicsError as exc:
         if len(idx) == 1:
-            failures[int(idx[0])] = str(exc).replace(" (element 0)", "")
+            failures[int(idx[0])] = exc.in_units(display).replace(" (element 0)", "")
             return []
     half = len(idx) // 2
-    return (_analyse_robust(make_section, reaches, idx[:half], _part(n, slice(None, half)), failures)
-            + _analyse_robust(make_section, reaches, idx[half:], _part(n, slice(half, None)), failures))
+    return (_analyse_robust(make_section, reaches, idx[:half], _part(n, slice(None, half)), failures, display)
+            + _analyse_robust(make_section, reaches, idx[half:], _part(n, slice(half, None)), failures, display))
 
 
 def _part(n, index):
@@ -422,7 +422,7 @@ def solve_hydraulics(reaches: Reaches, idx, n, out: BatchResult, display: hu.Uni
     parts = []
     open_pos = np.flatnonzero(~pipe)
     if len(open_pos):
-        parts += _analyse_robust(_open_section, reaches, idx[open_pos], _part(n, open_pos), failures)
+        parts += _analyse_robust(_open_section, reaches, idx[open_pos], _part(n, open_pos), failures, display)
     pipe_pos = np.flatnonzero(pipe)
     if len(pipe_pos):
         rows = idx[pipe_pos]
@@ -436,7 +436,8 @@ def solve_hydraulics(reaches: Reaches, idx, n, out: BatchResult, display: hu.Uni
                              "on this slope (Manning): it would surcharge; use a larger pipe")
         keep = ~over
         if keep.any():
-            parts += _analyse_robust(_pipe_section, reaches, rows[keep], _part(_part(n, pipe_pos), keep), failures)
+            parts += _analyse_robust(_pipe_section, reaches, rows[keep], _part(_part(n, pipe_pos), keep), failures,
+                                     display)
 
     done = np.zeros(len(out), dtype=bool)
     for rows, res in parts:

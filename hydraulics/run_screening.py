@@ -189,7 +189,7 @@ def screen_lining(section, flow, slope, lining, d50=None, bend_radius=None, min_
                              bend_radius=None if rc is None or math.isnan(rc[i]) else float(rc[i]),
                              min_freeboard=min_freeboard, min_safety_factor=min_safety_factor, size_stone=False)
         except HydraulicsError as exc:
-            out.errors[i] = str(exc)
+            out.errors[i] = exc.said()
             out.checked[i] = False
             continue
         out.put_result(i, r, section)

@@ -214,12 +214,12 @@ def run_water_surface(result, *, max_step: float = 10.0, step_tolerance: float =
                            outfall_level=level if control == "level" else None,
                            max_step=max_step, step_tolerance=step_tolerance)
     except HydraulicsError as exc:
-        out.error = str(exc)
+        out.error = exc.said()
         out.profile_type = ["no flow"] * first + ["not computed"] * (count - first)
         out.warnings.append(worded("the water surface could not be computed from {a} to {b}: {why}; the depth "
                                    "of the water and the fit of the ditch are not checked there (no fallback to "
                                    "normal depth)", a=_at(stations[first]), b=_at(stations[-1]),
-                                   why=str(exc).replace("{", "(").replace("}", ")")))
+                                   why=exc.said()))
         return out
     out.profile, out.n_used = ws, [None] * first + list(n_used)
     out.depth[rows] = ws.depth

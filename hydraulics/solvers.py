@@ -35,6 +35,7 @@ from . import validate
 from .constants import G, K_MANNING_SI
 from .errors import ConvergenceError, InputError, NoSolutionError
 from .sections import Section, Trapezoid
+from .wording import worded
 
 #: Relative flow residual that every returned depth meets (|Q(y) - Q| / Q).
 FLOW_TOLERANCE = 1e-10
@@ -194,8 +195,8 @@ def _log_conveyance(section, rough, y, slope, scalar):
 
 
 _JUMP_MESSAGE = ("no depth carries this flow: the flow falls in a jump of the roughness relation near "
-                 "depth {depth:.6g} m (the depth-dependent n is discontinuous there)")
-_CROWN_MESSAGE = ("critical depth lies at {depth:.6g} m, so close to the crown of the pipe that its top width "
+                 "depth {depth} (the depth-dependent n is discontinuous there)")
+_CROWN_MESSAGE = ("critical depth lies at {depth}, so close to the crown of the pipe that its top width "
                   "cannot be resolved: for a part-full critical depth this flow is too large for the pipe")
 
 
@@ -228,7 +229,7 @@ def _newton_log_scalar(evaluate, y, lo, hi, collapsed=_JUMP_MESSAGE):
             if hi / lo < 1 + 1e-14 if lo > 0 else False:
                 if abs(g) <= FLOW_TOLERANCE:
                     return y, it, g
-                raise NoSolutionError(collapsed.format(depth=y))
+                raise NoSolutionError(worded(collapsed, depth=(y, "length", "g")))
             if not math.isfinite(hi):
                 y_new = 4.0 * y
             elif lo == 0.0:
@@ -319,7 +320,7 @@ def _newton_log_vector(evaluate, y, lo, hi, collapsed=_JUMP_MESSAGE, fast=True, 
                 if shut.any():
                     kept = shut & (np.abs(g) <= FLOW_TOLERANCE)
                     if (shut & ~kept).any():
-                        raise NoSolutionError(collapsed.format(depth=float(y[shut & ~kept].flat[0])))
+                        raise NoSolutionError(worded(collapsed, depth=(float(y[shut & ~kept].flat[0]), "length", "g")))
                     done |= kept
                     bisect &= ~kept
                 fallback = np.where(~np.isfinite(hi), 4.0 * y, np.where(lo == 0.0, 0.25 * hi, np.sqrt(lo * hi)))
@@ -370,10 +371,12 @@ def _log_flow_over_root_slope(q, s, n=None):
 
 
 def _describe_limit(section):
+    """The end of the message on a flow above a section's capacity (a template of :func:`worded`: ``{bank}`` the
+    depth of the lower bank)."""
     if section.kind == "circle":
         return ("the largest part-full flow this pipe can carry on this slope (at depth "
-                f"{section.capacity_depth / section.diameter:.3f} D); it would surcharge")
-    return f"the bank-full capacity (depth {section.capacity_depth:g} m at the lower bank); the flow overtops the section"
+                f"{np.max(section.capacity_depth / section.diameter):.3f} D); it would surcharge")
+    return "the bank-full capacity (depth {bank} at the lower bank); the flow overtops the section"
 
 
 def solve_normal_depth(section, flow, slope, n=None, *, within=None) -> DepthSolution:
@@ -409,7 +412,9 @@ def solve_normal_depth(section, flow, slope, n=None, *, within=None) -> DepthSol
             i = int(np.argmax(over)) if over.ndim else 0
             qi, qm = np.asarray(q).flat[i], np.asarray(qmax).flat[i]
             where = f" (element {i})" if not scalar else ""
-            raise NoSolutionError(f"flow {qi:g} m^3/s{where} exceeds {qm:g} m^3/s, {_describe_limit(section)}")
+            bank = float(np.ravel(np.broadcast_to(np.asarray(cap_y, dtype=float), over.shape))[i])
+            raise NoSolutionError(worded("flow {q}" + where + " exceeds {q_max}, " + _describe_limit(section),
+                                         q=(qi, "flow", "g"), q_max=(qm, "flow", "g"), bank=(bank, "length", "g")))
         hi = cap_y * (1 + 1e-12)
     else:
         hi = math.inf   # an open section: no upper bound (broadcast by the array iteration where it needs one)
@@ -562,8 +567,8 @@ def solve_critical_depth(section, flow) -> DepthSolution:
     else:
         g_full = evaluate(full if scalar else np.full(shape, full))[0]
         if np.any(np.asarray(g_full) < 0):
-            raise NoSolutionError(f"critical depth lies above the lower bank ({full:g} m) for this flow; "
-                                  "the section is too small")
+            raise NoSolutionError(worded("critical depth lies above the lower bank ({bank}) for this flow; "
+                                         "the section is too small", bank=(full, "length", "g")))
         hi = full * (1 + 1e-12) if scalar else np.full(shape, full * (1 + 1e-12))
     lo = 0.0 if scalar else np.zeros(shape)
     y0 = section._critical_guess(q)

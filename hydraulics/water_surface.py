@@ -325,8 +325,8 @@ def sequent_depth(section, flow, depth):
             while excess(hi) < 0:
                 hi *= 2.0
         elif excess(hi) < 0:
-            raise NoSolutionError(f"the sequent depth of {y:.6g} m lies above the top of the section "
-                                  f"({hi:.6g} m): the jump would overtop it")
+            raise NoSolutionError(worded("the sequent depth of {y} lies above the top of the section ({top}): the "
+                                         "jump would overtop it", y=(y, "length", "g"), top=(hi, "length", "g")))
         return brentq(excess, yc, hi, xtol=1e-15, rtol=1e-12, maxiter=200)
     lo = 0.5 * yc
     while excess(lo) < 0:
@@ -1039,7 +1039,8 @@ def _point_props(x, z, secs, rough, qs) -> list:
             try:
                 p.yc = float(solve_critical_depth(p.section, p.flow).depth)
             except NoSolutionError as exc:
-                raise NoSolutionError(f"no critical depth at distance {x[p.index]:g} m: {exc}") from None
+                raise NoSolutionError(worded("no critical depth at distance {x}: {why}", x=(x[p.index], "length", "g"),
+                                             why=exc.said())) from None
         if p.slope > 0 and math.isnan(p.yn):
             try:
                 n_arg = p.nconst if p.nconst is not None else (
@@ -1050,7 +1051,7 @@ def _point_props(x, z, secs, rough, qs) -> list:
                                         f"{exc}") from None
             except NoSolutionError as exc:
                 p.yn = math.inf
-                p.yn_note = str(exc)
+                p.yn_note = exc.said()
     return point_props
 
 
@@ -1136,7 +1137,7 @@ def _subcritical_pass(nodes, z_out, outfall, level, tol) -> _Downstream:
             raise InputError("outfall", f"normal depth needs a falling last stretch, its grade is {last.slope:g}; "
                                         "give the outfall water level, or choose critical depth (a free outfall)")
         if not math.isfinite(last.yn):
-            raise NoSolutionError(f"no normal depth at the outfall: {last.yn_note}")
+            raise NoSolutionError(worded("no normal depth at the outfall: {why}", why=last.yn_note))
         y0 = last.yn
     elif outfall == "critical":
         y0 = last.yc
@@ -1286,7 +1287,7 @@ def _point_results(nodes, point_nodes, depth, branch, z, stop_at) -> _Points:
     regime, messages = [], [[] for _ in range(count)]
     for i, (k, p, fr, known) in enumerate(zip(point_nodes, props, froude.tolist(), computed.tolist())):
         if p.yn_note:
-            messages[i].append("no normal depth: " + p.yn_note)
+            messages[i].append(worded("no normal depth: {why}", why=p.yn_note))
         if not known:
             regime.append("not computed")
             messages[i].append(worded("not computed: the water surface downstream rises above the top of the "
@@ -1326,8 +1327,7 @@ def _outfall_control(nodes, outfall, z_out, down, depth, branch, messages) -> di
                              "outfall", what=what, y1=(depth[k], "length"), y2=(y2, "length"))
         except NoSolutionError as exc:
             message = worded("the {what} at the outfall cannot hold: the supercritical flow arriving there (depth "
-                             "{y1}) keeps going; " + str(exc).replace("{", "{{").replace("}", "}}"), what=what,
-                             y1=(depth[k], "length"))
+                             "{y1}) keeps going; {why}", what=what, y1=(depth[k], "length"), why=exc.said())
     if message:
         messages.append(message)
     return {"kind": outfall, "depth": float(down.y0), "level": float(z_out + down.y0), "governs": bool(governs),

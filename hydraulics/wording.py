@@ -54,12 +54,15 @@ def format_station(value: float, units: UnitSystem = SI) -> str:
 
 def format_quantity(value, quantity: str, units: UnitSystem = SI, decimals: int | None = None) -> str:
     """A SI value in ``units`` to three significant figures with its label, e.g. '1.40 lb/ft^2' (to ``decimals``
-    decimals where given: a rough size to whole units, '6 in'); a ``"station"`` as a road station ('12+34.56')."""
+    decimals where given: a rough size to whole units, '6 in'; or in a format of its own where ``decimals`` is a
+    format spec such as ``"g"``, six significant figures for a number a message sets beside a near one); a
+    ``"station"`` as a road station ('12+34.56')."""
     if quantity == "station":
         return format_station(value, units)
     v = float(units.from_si(quantity, value))
     label = units.label(quantity)
-    text = format_value(v) if decimals is None else f"{v:.{decimals}f}"
+    text = (format_value(v) if decimals is None else format(v, decimals) if isinstance(decimals, str)
+            else f"{v:.{decimals}f}")
     return f"{text} {label}".rstrip()
 
 

@@ -87,6 +87,31 @@ def test_surcharged_pipe_exit_3(capsys):
     assert "surcharge" in capsys.readouterr().err
 
 
+@pytest.mark.parametrize("units, flow_label", [("us", "ft^3/s"), ("si", "m^3/s")])
+def test_a_no_solution_message_quotes_the_users_units(capsys, units, flow_label):
+    """The core works and words its errors in SI; the command restates them in the units of its numbers. The
+    capacity quoted is the core's largest part-full flow (hydraulics.max_flow, SI) converted by 1 ft = 0.3048 m."""
+    k = 1 / 0.3048 ** 3 if units == "us" else 1.0
+    assert main(["calc", "--units", units, "--shape", "circle", "--diameter", "1", "--flow", "20", "--slope", "0.004",
+                 "--n", "0.013"]) == 3
+    err = capsys.readouterr().err
+    d = 0.3048 if units == "us" else 1.0
+    q_max = float(hy.max_flow(hy.Circle(diameter=d), 0.004, 0.013)) * k
+    assert f"flow 20 {flow_label} exceeds {q_max:g} {flow_label}, the largest part-full flow" in err, err
+    assert ("m^3/s" in err) == (units == "si")
+
+
+def test_a_width_that_leaves_a_deeper_depth_is_no_solution_in_the_users_units(capsys):
+    """Stone far larger than the depth limit: Bathurst's relation (HEC-15 Eq. 6.2) at a rectangle a hair wide once
+    overflowed a power of floats (a traceback), and the width found leaves a second, deeper uniform-flow depth.
+    An invented case found by a random search over the accepted input ranges."""
+    assert main(["calc", "--units", "us", "--shape", "rectangle", "--slope", "2.8465e-06", "--flow", "0.048424",
+                 "--find", "bottom-width", "--max-depth", "0.0471", "--lining", "riprap:4.528"]) == 3
+    err = capsys.readouterr().err
+    assert "no bottom width keeps the normal depth within 0.0471 ft" in err and " m " not in err, err
+    assert "Traceback" not in err and len(err.strip().splitlines()) == 1
+
+
 def test_real_process_exit_codes():
     cmd = [sys.executable, "-m", "app.main"]
     ok = subprocess.run(cmd + BASE + ["--json"], capture_output=True, text=True)

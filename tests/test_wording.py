@@ -108,3 +108,22 @@ def test_values_too_large_for_whole_number_keys_are_grouped_as_they_print():
     for g, x in zip(groups[clear].tolist(), v[clear].tolist()):
         assert texts.setdefault(g, format_value(x)) == format_value(x), x
     assert len(set(texts.values())) == len(texts)
+
+
+def test_a_core_error_is_restated_in_the_users_units():
+    """A core error made with `worded` keeps its quantities (HydraulicsError.said) and is restated by in_units;
+    one made from plain text reads as it is in every unit system; an InputError keeps its field in front.
+    1 ft = 0.3048 m exactly, 1 ft^3/s = 0.3048^3 m^3/s."""
+    from hydraulics.errors import InputError, NoSolutionError
+    from hydraulics.units import SI, US
+
+    err = NoSolutionError(worded("flow {q} exceeds {q_max}", q=(0.3048 ** 3 * 20, "flow", "g"),
+                                 q_max=(0.3048 ** 3 * 3.5, "flow", "g")))
+    assert err.in_units(US) == "flow 20 ft^3/s exceeds 3.5 ft^3/s"
+    assert err.in_units(SI) == str(err) == "flow 0.566337 m^3/s exceeds 0.099109 m^3/s"
+    assert worded("no depth: {why}", why=err.said()).in_units(US) == "no depth: flow 20 ft^3/s exceeds 3.5 ft^3/s"
+    plain = NoSolutionError("no design point of the run could be checked")
+    assert plain.in_units(US) == plain.said() == str(plain)
+    field = InputError("depth", worded("must be below {top}", top=(0.6096, "length")))
+    assert field.in_units(US) == "depth: must be below 2.00 ft" and str(field) == "depth: must be below 0.610 m"
+    assert InputError("n", "must be > 0").in_units(US) == "n: must be > 0"

@@ -78,7 +78,7 @@ def run(args) -> int:
           f"{units.label('slope')} (FHWA HEC-15 permissible shear):")
     print(render(comparison_table(rows, Context(catalogue, units), section.full_depth)))
     for r in rows:
-        print(f"  {r.key}: {r.result.reason(units) if r.result is not None else r.reason}")
+        print(f"  {r.key}: {r.result.reason(units) if r.result is not None else in_units(r.reason, units)}")
         for w in r.warnings:
             print(f"    Warning: {in_units(w, units)}")
     if all(d["cost_per_length"] is None for d in data):

@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+from hydraulics import units as hu
 from hydraulics.errors import InputError, NoSolutionError
 
 from . import COMMAND_HELP
@@ -40,10 +41,11 @@ def run(args) -> int:
     except KeyError as exc:
         raise CliError(exc.args[0]) from None
     except InputError as exc:   # a value of the file, named as it is there
-        raise CliError(f"{exc.channel}: {exc}" if getattr(exc, "channel", None) else str(exc)) from None
+        said = exc.in_units(hu.system(args.units or project.units))
+        raise CliError(f"{exc.channel}: {said}" if getattr(exc, "channel", None) else said) from None
     except NoSolutionError as exc:
-        where = getattr(exc, "channel", None)
-        raise CliError(f"{where}: no solution: {exc}" if where else f"no solution: {exc}", status=3) from None
+        where, said = getattr(exc, "channel", None), exc.in_units(hu.system(args.units or project.units))
+        raise CliError(f"{where}: no solution: {said}" if where else f"no solution: {said}", status=3) from None
     except OSError as exc:
         raise CliError(f"cannot write into {args.out}: {exc.strerror or exc}") from None
     if not written:

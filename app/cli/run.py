@@ -58,9 +58,9 @@ def run(args) -> int:
         try:
             designs.append(design_run(project, r, catalogue))
         except InputError as exc:
-            raise CliError(str(exc)) from None
+            raise CliError(exc.in_units(units)) from None
         except (NoSolutionError, ConvergenceError) as exc:
-            raise CliError(f'run "{r.name}": no solution: {exc}', status=3) from None
+            raise CliError(f'run "{r.name}": no solution: {exc.in_units(units)}', status=3) from None
     if args.csv:
         try:
             write_atomic(args.csv, _csv_text(designs, units).encode("utf-8"))

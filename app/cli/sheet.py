@@ -4,6 +4,7 @@ from __future__ import annotations
 
 import sys
 
+from hydraulics import units as hu
 from hydraulics.errors import InputError, NoSolutionError
 
 from . import COMMAND_HELP
@@ -52,9 +53,10 @@ def run(args) -> int:
     except KeyError as exc:
         raise CliError(exc.args[0]) from None
     except InputError as exc:   # a value of the file, named as it is there, not as an option
-        raise CliError(f"{exc.channel}: {exc}" if getattr(exc, "channel", None) else str(exc)) from None
+        said = exc.in_units(hu.system(project.units))
+        raise CliError(f"{exc.channel}: {said}" if getattr(exc, "channel", None) else said) from None
     except NoSolutionError as exc:
-        raise CliError(f"{exc.channel}: no solution: {exc}", status=3) from None
+        raise CliError(f"{exc.channel}: no solution: {exc.in_units(hu.system(project.units))}", status=3) from None
     except (SigningError, SheetLayoutError) as exc:
         raise CliError(str(exc)) from None
     except OSError as exc:

@@ -14,6 +14,7 @@ from PySide6.QtWidgets import (QApplication, QDialog, QFileDialog, QHBoxLayout, 
                                QToolButton, QVBoxLayout, QWidget)
 
 import hydraulics as hy
+from hydraulics import units as hu
 
 from .. import __version__
 from .. import channel_display as display
@@ -895,7 +896,7 @@ class MainWindow(QMainWindow):
         self.statusBar().showMessage(message, 15000)
 
     def _export_failed(self, choice, exc: BaseException) -> None:
-        QMessageBox.warning(self, "Design sheets not written", pretty(export_failure_text(exc, choice.path)))
+        QMessageBox.warning(self, "Design sheets not written", pretty(export_failure_text(exc, choice.path, self.doc.context.units)))
 
     # -- DXF drawings ----------------------------------------------------------------------------------
     def export_drawings_dialog(self) -> list:
@@ -914,7 +915,7 @@ class MainWindow(QMainWindow):
             written = export_drawings(self.doc.project, folder, units=context.units, catalogue=context.catalogue)
         except Exception as exc:  # noqa: BLE001 - every failure is told in words, never as a traceback
             QApplication.restoreOverrideCursor()
-            QMessageBox.warning(self, "Drawings not written", pretty(drawings_failure_text(exc, folder)))
+            QMessageBox.warning(self, "Drawings not written", pretty(drawings_failure_text(exc, folder, context.units)))
             return []
         QApplication.restoreOverrideCursor()
         count = len(written)
@@ -958,15 +959,16 @@ class MainWindow(QMainWindow):
 
 
 
-def drawings_failure_text(exc: BaseException, folder) -> str:
-    """Why the DXF drawings were not written, in words (for one message box)."""
+def drawings_failure_text(exc: BaseException, folder, units=hu.SI) -> str:
+    """Why the DXF drawings were not written, in words (for one message box), its numbers in ``units``."""
     tail = "\n\nNo drawing was written."
     where = getattr(exc, "channel", None)
     if isinstance(exc, hy.InputError):
         return (f"{'A channel or run' if not where else where} cannot be computed, so it has no drawing:\n\n"
-                f"{sentence(exc)}\n\nFix that input and export again.{tail}")
+                f"{sentence(exc.in_units(units))}\n\nFix that input and export again.{tail}")
     if isinstance(exc, hy.NoSolutionError):
-        return f"{where or 'A channel or run'} has no solution, so it has no drawing:\n\n{sentence(exc)}{tail}"
+        return (f"{where or 'A channel or run'} has no solution, so it has no drawing:\n\n"
+                f"{sentence(exc.in_units(units))}{tail}")
     if isinstance(exc, KeyError):
         return f"{sentence(exc.args[0] if exc.args else exc)}{tail}"
     if isinstance(exc, OSError):
@@ -974,18 +976,18 @@ def drawings_failure_text(exc: BaseException, folder) -> str:
     return f"The export stopped with an unexpected error:\n\n{type(exc).__name__}: {sentence(exc)}{tail}"
 
 
-def export_failure_text(exc: BaseException, path) -> str:
-    """Why the sheets were not written, in words (for one message box)."""
+def export_failure_text(exc: BaseException, path, units=hu.SI) -> str:
+    """Why the sheets were not written, in words (for one message box), its numbers in ``units``."""
     tail = "\n\nNo file was written; any earlier file of that name is unchanged."
     if isinstance(exc, sh.SigningError):
         return f"The sheets could not be signed:\n\n{sentence(exc)}{tail}"
     if isinstance(exc, sh.SheetLayoutError):
         return f"The sheet could not be laid out:\n\n{sentence(exc)}{tail}"
     if isinstance(exc, hy.InputError):
-        return (f"A channel cannot be computed, so it has no sheet:\n\n{sentence(exc)}\n\n"
+        return (f"A channel cannot be computed, so it has no sheet:\n\n{sentence(exc.in_units(units))}\n\n"
                 f"Fix that input and export again.{tail}")
     if isinstance(exc, hy.NoSolutionError):
-        return f"A channel has no solution, so it has no sheet:\n\n{sentence(exc)}{tail}"
+        return f"A channel has no solution, so it has no sheet:\n\n{sentence(exc.in_units(units))}{tail}"
     if isinstance(exc, KeyError):
         return f"{sentence(exc.args[0] if exc.args else exc)}{tail}"
     if isinstance(exc, OSError):

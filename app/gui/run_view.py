@@ -1279,7 +1279,8 @@ class RunView(QWidget):
         if not isinstance(exc, (hy.InputError, hy.NoSolutionError, hy.ConvergenceError)):
             self.problem = f"The run could not be computed: {type(exc).__name__}: {exc}"
         else:
-            self.problem = sentence(exc) if isinstance(exc, hy.InputError) else sentence(f"No solution: {exc}")
+            said = exc.in_units(self.doc.units)
+            self.problem = sentence(said) if isinstance(exc, hy.InputError) else sentence(f"No solution: {said}")
         self.design = None
         where = getattr(exc, "field", "") or ""
         m = _ITEM.search(where)

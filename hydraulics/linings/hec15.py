@@ -301,20 +301,30 @@ def blodgett_n(average_depth, d50):
     return _blodgett_n(da, d)
 
 
+def _floats(*values):
+    """``values`` with each Python number as a numpy float: a power beyond the floats then gives inf or 0, as it
+    does in an array, instead of raising OverflowError (a trial section far from any ditch, e.g. a rectangle a
+    hair wide in the search for a bottom width)."""
+    return tuple(v if isinstance(v, np.ndarray) else np.float64(v) for v in values)
+
+
 def _bathurst_exponent(da, d50, top_width):
     """b of Eq. 6.6 and the exponent p of f(Fr) in Eq. 6.3 (all whether Bathurst's relation is usable needs)."""
-    b = 1.14 * (d50 / top_width) ** 0.453 * (da / d50) ** 0.814           # Eq. 6.6
-    log10 = np.log10 if _vec(b) else math.log10
-    return b, log10(0.755 / b)                                            # exponent in Eq. 6.3
+    da, d50, top_width = _floats(da, d50, top_width)
+    with np.errstate(over="ignore", divide="ignore", invalid="ignore"):
+        b = 1.14 * (d50 / top_width) ** 0.453 * (da / d50) ** 0.814       # Eq. 6.6
+        return b, np.log10(0.755 / b)                                     # exponent in Eq. 6.3
 
 
 def _bathurst_terms(da, d50, top_width):
     """b, exponent of f(Fr), and the Froude-free part K of Eq. 6.2 (SI, alpha = 1)."""
+    da, d50, top_width = _floats(da, d50, top_width)
     rel_w = top_width / d50
     b, p = _bathurst_exponent(da, d50, top_width)
-    f_reg = 13.434 * rel_w ** 0.492 * b ** (1.025 * rel_w ** 0.118)       # Eq. 6.4
-    f_cg = (top_width / da) ** (-b)                                       # Eq. 6.5
-    k = da ** (1.0 / 6.0) / (math.sqrt(G) * f_reg * f_cg)                 # Eq. 6.2 without f(Fr)
+    with np.errstate(over="ignore", divide="ignore", invalid="ignore"):
+        f_reg = 13.434 * rel_w ** 0.492 * b ** (1.025 * rel_w ** 0.118)   # Eq. 6.4
+        f_cg = (top_width / da) ** (-b)                                   # Eq. 6.5
+        k = da ** (1.0 / 6.0) / (math.sqrt(G) * f_reg * f_cg)             # Eq. 6.2 without f(Fr)
     return b, p, k
 
 

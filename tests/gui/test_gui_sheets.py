@@ -133,7 +133,8 @@ def test_whole_project_on_a4_one_page_per_channel_without_the_unsolved_one(windo
     dialogs.answers["question"] = [QMessageBox.StandardButton.Yes]
     window.export_dialog()
     (kind, title, text), = dialogs.shown
-    assert kind == "question" and "Invented pipe C" in text and "surcharge" in text and "m³/s" in text
+    assert kind == "question" and "Invented pipe C" in text and "surcharge" in text
+    assert "ft³/s" in text and "m³/s" not in text           # in the project's units, as every number it shows
     assert "other 2 channels" in text
     wait_for_export(qtbot, window)
     reader = PdfReader(tmp_path / "all.pdf")
