@@ -400,3 +400,14 @@ def test_side_slopes_steeper_than_1v_3h_are_cautioned(cat, left, right, cautione
 def test_a_rectangle_s_walls_get_no_side_slope_caution(cat):
     result = check_lining(hy.Rectangle(bottom_width=1.0), 0.35, 0.012, cat.get("concrete"))
     assert not any("steeper than 1V:3H" in w for w in result.warnings)
+
+
+def test_the_bend_protection_length_takes_a_grass_n_above_the_input_range():
+    """A trickle in a grass-lined bend: HEC-15's grass relation n = Cn (gamma R S)^-0.4 gives an n above 1, the
+    largest n accepted as input, and the bend check once refused it as if typed ("--n: must be <= 1"). The length
+    is still HEC-22 (2009) Eq. 5-16, Lp = 0.736 R^(7/6) / nb, with that n. Invented case from a random search."""
+    r = check_lining(hy.Rectangle(bottom_width=0.177), 0.040383, 1.2459e-05, load_catalogue().get("grass_good_sod"),
+                     bend_radius=4112.0)
+    n = r.analysis.manning_n
+    assert n > 1.0                                     # the case is the one it claims to be
+    assert r.bend_protection_length == pytest.approx(0.736 * r.analysis.hydraulic_radius ** (7 / 6) / n, rel=1e-12)

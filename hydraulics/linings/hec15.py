@@ -246,7 +246,7 @@ def bend_protection_length(hydraulic_radius, n):
     HEC-22, 3rd ed., FHWA-NHI-10-009, 2009, Section 5.1.7, Eq. 5-16; HEC-15, Section 3.4.
     """
     r = validate.positive("hydraulic_radius", hydraulic_radius)
-    nb = validate.number("n", n, low=0.0, high=1.0)
+    nb = validate.positive("n", n)   # any n > 0: a lining's relation can give one above the range typed by hand
     return 0.736 * r ** (7.0 / 6.0) / nb
 
 
