@@ -25,7 +25,7 @@ from hydraulics.units import SI
 from hydraulics.lining_comparison import ComparisonRow, compare_linings
 from hydraulics.stability import StabilityResult, check_lining
 from hydraulics.freeboard import ditch_top, freeboard_rule
-from hydraulics.wording import in_units, worded
+from hydraulics.wording import in_units, worded, worded_sizes
 
 from .project import Channel
 from .verdicts import Verdict, verdict_of, with_tokens
@@ -45,6 +45,13 @@ def load_default_catalogue(user_path=None) -> Catalogue:
     """
     return load_catalogue(user_path=user_path)
 
+
+
+def lining_json(stability: StabilityResult, units) -> dict:
+    """The lining of a check as the JSON outputs give it, in ``units`` (the sizes its name quotes too)."""
+    return {"key": stability.lining_key, "name": in_units(worded_sizes(stability.lining_name), units),
+            "n_used": stability.manning_n, "n_relation": stability.n_relation, "n_source": stability.n_source,
+            "d50": None if stability.d50 is None else float(units.from_si("length", stability.d50))}
 
 @dataclass
 class ChannelDesign:
@@ -118,8 +125,7 @@ class ChannelDesign:
         out["flow"] = float(units.from_si("flow", self.flow))
         if self.stability is not None:
             st = self.stability
-            out["lining"] = {"key": st.lining_key, "name": st.lining_name, "n_used": st.manning_n,
-                             "n_relation": st.n_relation, "n_source": st.n_source, "d50": L(st.d50)}
+            out["lining"] = lining_json(st, units)
             out["stability"] = st.to_dict(units)
         out.update({"freeboard": L(self.freeboard), "superelevation": L(self.superelevation),
                     "total_depth": L(self.total_depth), "top_width_at_top": L(self.top_width_at_top),

@@ -14,7 +14,7 @@ from .errors import InputError, NoSolutionError
 from .linings import hec15
 from .stability import StabilityResult, check_lining
 from .units import SI, UnitSystem
-from .wording import in_units, worded
+from .wording import in_units, worded, worded_sizes
 
 __all__ = ["ComparisonRow", "compare_linings", "parse_choice"]
 
@@ -51,7 +51,8 @@ class ComparisonRow:
         L = lambda v: None if v is None else float(units.from_si("length", v))  # noqa: E731
         T = lambda v: None if v is None else float(units.from_si("shear", v))  # noqa: E731
         return {
-            "lining": self.key, "name": self.name, "d50": L(self.d50), "depth": L(self.depth),
+            "lining": self.key, "name": in_units(worded_sizes(self.name), units), "d50": L(self.d50),
+            "depth": L(self.depth),
             "velocity": None if self.velocity is None else float(units.from_si("velocity", self.velocity)),
             "froude": self.froude, "manning_n": self.manning_n, "design_shear": T(self.design_shear),
             "permissible_shear": T(self.permissible_shear), "safety_factor": self.safety_factor,

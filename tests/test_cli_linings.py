@@ -230,3 +230,16 @@ def test_real_process_refusal_has_no_traceback():
     cmd = [sys.executable, "-m", "app.main", "compare"] + COMPARE[1:] + ["--lining", "soil_cohesive"]
     bad = subprocess.run(cmd, capture_output=True, text=True)
     assert bad.returncode == 2 and "Traceback" not in bad.stderr and "soil.soil_class" in bad.stderr
+
+
+@pytest.mark.parametrize("units, height", [("us", "about 3 in tall"), ("si", "about 75 mm tall")])
+def test_json_lining_names_quote_sizes_in_the_users_units(capsys, units, height):
+    """The lining's name in the JSON of calc and compare quotes its sizes in the units of every other number, as
+    the tables do (the catalogue's 75 mm grass is 2.95 in, written to whole units as a rough size)."""
+    channel = ["--units", units, "--shape", "trapezoid", "--bottom-width", "2", "--side-slope", "3", "--slope", "0.01",
+               "--flow", "5", "--lining", "grass_poor_bunch", "--json"]
+    assert main(["calc", *channel]) == 0
+    assert json.loads(capsys.readouterr().out)["lining"]["name"] == f"Grass, bunch type, poor stand, {height}"
+    assert main(["compare", *channel]) == 0
+    (row,) = json.loads(capsys.readouterr().out)
+    assert row["name"] == f"Grass, bunch type, poor stand, {height}"

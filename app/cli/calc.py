@@ -9,7 +9,7 @@ from hydraulics import units as hu
 from hydraulics.errors import InputError
 from hydraulics.wording import format_quantity, in_units
 
-from ..evaluate import WIDTH_SHAPES, evaluate_channel, width_for_depth
+from ..evaluate import WIDTH_SHAPES, evaluate_channel, lining_json, width_for_depth
 from ..project import Channel, FlowBasis, LiningChoice
 from ..results import CHANNEL_FIELDS, EXTRA_FIELDS, convert, format_value, panel_field, rounded
 from ..lining_names import STONE_SIZE, name_in_units
@@ -97,12 +97,6 @@ def solve(args):
         if exc.field == "bend_radius":   # the message quotes half the width of the same channel without its bend
             top = evaluate_channel(replace(channel, bend_radius=None), catalogue).analysis.top_width
         raise explain(exc, units, top) from None
-
-
-def lining_json(stab, units) -> dict:
-    return {"key": stab.lining_key, "name": stab.lining_name, "n_used": stab.manning_n,
-            "n_relation": stab.n_relation, "n_source": stab.n_source,
-            "d50": None if stab.d50 is None else units.from_si("length", stab.d50)}
 
 
 def stability_rows(stab, units) -> list:
