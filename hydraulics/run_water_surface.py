@@ -59,7 +59,7 @@ SURFACE_RULES = (
     "the lining shear check and the schedule use normal depth, the design depth of HEC-15's permissible-shear "
     "method (HEC-15, 3rd ed., 2005, Chapter 3)",
     "n of a grass lining at each depth of the profile from the mean boundary shear at the energy slope there "
-    f"(HEC-15 Chapter 4 with HEC-22 (2009) Eq. 5-12, {provenance.cite('boundary_shear_slope')}); n of a stone "
+    f"(HEC-15 Chapter 4 with {provenance.cite('boundary_shear_slope')}); n of a stone "
     "lining taken at the bed slope of the stretch (on a zero or adverse grade, at the nearest falling one): the "
     "program's rule",
 )

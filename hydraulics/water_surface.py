@@ -808,6 +808,9 @@ class _Chain:
                 head_tol, evaluated = HEAD_TOLERANCE, True       # the depths stand: their terms are evaluated
             if not refine.any():
                 break
+            if rnd == _CHAIN_REFINE - 1:   # still refining after the last round: only what lies below the pieces
+                last_bad = max(last_bad, int(owner[np.flatnonzero(refine)[-1]]))   # to refine is accepted
+                break
             # into 2^m pieces, m from the cube law of the error (margin 0.9) to within the share, 1 to 3, none shorter
             # than MIN_STEP
             m = np.zeros(size)
@@ -820,8 +823,6 @@ class _Chain:
             sub = np.repeat(share / count, count)
             owner, u0 = np.repeat(owner, count), np.repeat(u0, count) + k * sub
             u1 = u0 + sub
-        else:  # still refining after the last round: only what lies below the pieces to refine is accepted
-            last_bad = max(last_bad, int(owner[np.flatnonzero(refine)[-1]]))
         at_node = np.flatnonzero(u0 == 0.0)[last_bad + 1:]   # each step's first piece starts at its upstream node
         return [_State(*v) for v in zip(y[at_node].tolist(), [_OK] * at_node.size, e[at_node].tolist(),
                                          sf[at_node].tolist(), de[at_node].tolist(), dsf[at_node].tolist())]

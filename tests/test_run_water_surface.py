@@ -255,3 +255,19 @@ def test_text_lists_controls_and_jumps_and_csv_has_the_new_columns(capsys, tmp_p
         assert column in head, column
     last = dict(zip(head, rows[-1]))
     assert last["profile_type"] == "M1" and last["water_surface [m]"] == "45.86" and last["overtopped"] == "yes"
+
+
+@pytest.mark.parametrize("rounds", [1, 2])
+def test_a_chain_still_refining_after_its_last_round_keeps_only_the_steps_below(monkeypatch, rounds):
+    """Where the steps of a chain still need cutting after the last round of refinement, the states of the steps
+    below the last one to refine are kept and the rest is stepped again (an invented run with a free overfall once
+    indexed past the end of its arrays there: a traceback in `ditchwright run`). With fewer rounds the profile is
+    the same to within the step tolerance (1e-4 of the depth)."""
+    import hydraulics.water_surface as wsm
+
+    res = solve_run(invented_run(profile=((0.0, 10.0), (150.0, 8.0), (300.0, 7.9)), outfall_control="critical"))
+    reference = run_water_surface(res)
+    monkeypatch.setattr(wsm, "_CHAIN_REFINE", rounds)
+    fewer = run_water_surface(res)
+    assert fewer.error is None and np.isfinite(fewer.depth).all()
+    assert fewer.depth == pytest.approx(reference.depth, rel=1e-4)
