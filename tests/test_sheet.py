@@ -834,3 +834,22 @@ def test_each_page_text_is_built_once_per_text_size(monkeypatch):
     assert len(fitted) == len(demo.channels)
     tried = sum(layout.TEXT_SIZES.index(size) + 1 for _, size, _ in fitted)   # sizes tried, largest first
     assert len(calls) == tried
+
+
+def test_a_sheet_crowded_with_cautions_leaves_out_the_comparison_table_and_names_its_linings(tmp_path):
+    """A trickle on a 1:1 grade in a wide bend gathers so many cautions that a letter page held no comparison
+    table: the sheet was refused. Now the table goes and a line names each lining with its verdict (invented
+    channel, found by a random search over project files)."""
+    data = {"format": "ditchwright-project", "schema_version": 2, "name": "x", "units": "si",
+            "channels": [{"name": "C", "flow": {"method": "typed", "value": 1e-06}, "slope": 1.0,
+                          "section": {"shape": "rectangle", "bottom_width": 0.3}, "lining": {"key": "concrete"},
+                          "bend_radius": 100000.0, "min_freeboard": 0.27, "alternatives": [{"key": "gravel"}]}]}
+    src, out = tmp_path / "crowded.json", tmp_path / "crowded.pdf"
+    src.write_text(json.dumps(data), encoding="utf-8")
+    assert main(["sheet", str(src), "-o", str(out)]) == 0
+    (page,) = PdfReader(out).pages
+    text = _flat(page.extract_text())
+    assert "The table is left out, its 2 linings named here for lack of room:" in text
+    assert "(the channel's lining): Non-erodible" in text and "D50 25.0 mm: Not stable (side slopes)" in text
+    between = text.split("LINING COMPARISON")[1].split("CAUTIONS, NOTES AND SOURCES")[0]
+    assert between.strip().startswith("The table is left out")           # no table under the heading

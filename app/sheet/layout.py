@@ -306,12 +306,18 @@ def _build(sheet, size, col_w, full_w, comparison_rows):
     comparison = []
     if sheet.comparison is not None:
         shown = sheet.comparison[:comparison_rows]
-        comparison.append(_comparison_table(shown, full_w, st, sheet.units, sheet.comparison_priced))
-        notes = list(sheet.comparison_notes)
+        if shown:
+            comparison.append(_comparison_table(shown, full_w, st, sheet.units, sheet.comparison_priced))
+        notes = list(sheet.comparison_notes) if shown else []   # the table's own notes go with it
         left_out = sheet.comparison[comparison_rows:]
         if left_out:
-            notes.insert(0, f"{len(left_out)} more lining{'s' if len(left_out) > 1 else ''} not shown for lack of "
-                            "room: " + "; ".join(f"{r.lining}: {r.verdict}" for r in left_out)
+            many = "s" if len(left_out) > 1 else ""
+            what = (f"{len(left_out)} more lining{many} not shown" if shown
+                    else f"The table is left out, its {len(left_out)} lining{many} named here")
+            named = (r.lining[2:] + " (the channel's lining)" if r.lining.startswith("* ") else r.lining
+                     for r in left_out)   # the star of the table's first column, in words
+            notes.insert(0, f"{what} for lack of room: " + "; ".join(f"{name}: {r.verdict}"
+                                                                     for name, r in zip(named, left_out))
                          + ". Run ditchwright compare for the full table.")
         comparison += [_p(n, st["small"]) for n in notes]
     bullets = [Paragraph(escape(t), st["bullet"], bulletText="\u2022") for t in sheet.cautions]
@@ -335,10 +341,11 @@ def _fit_blocks(sheet, col_w, full_w, room, page):
     """The largest text size (and rating-curve height) at which the page's text fits ``room`` [pt].
 
     When even the smallest size does not fit, the comparison keeps as many rows
-    as fit and names the others in a note; below one row the sheet refuses.
+    as fit and names the others in a note (with its verdict: the table may go
+    altogether); where even that does not fit, the sheet refuses.
     """
     n_rows = len(sheet.comparison) if sheet.comparison is not None else 0
-    for rows in range(n_rows, 0 if n_rows else -1, -1):
+    for rows in range(n_rows, -1, -1):
         for size in TEXT_SIZES:
             b = _build(sheet, size, col_w, full_w, max(rows, 0))   # built and measured once per size
             for rating_h in RATING_HEIGHTS:
