@@ -22,7 +22,8 @@ import numpy as np
 
 from .constants import G, GAMMA_WATER, NU_WATER
 from .solvers import _n_value, resolve_roughness, solve_critical_depth, solve_normal_depth
-from .wording import worded
+from .validate import LIMITS
+from .wording import significant, worded
 
 #: Froude numbers in this band are near critical: the water surface is wavy and
 #: unstable and small changes of n or flow swap the regime (see NEAR_CRITICAL_SOURCE).
@@ -48,6 +49,13 @@ TURBULENCE_CAUTION = ("Reynolds number {re} is below %g: the flow is not fully t
 #: depths, the lower one is returned, and any disturbance can seal the pipe); ``{q_full}`` the capacity.
 FULL_PIPE_CAUTION = ("the flow is above the pipe's full-flow capacity ({q_full}): it runs just below the crown, where "
                      "a small disturbance makes it surcharge; use a larger pipe")
+#: The largest Manning's n accepted as input (hydraulics.validate.LIMITS, common practice); a lining's relation that
+#: gives more (stone in a trickle at a tiny Froude number, Bathurst's relation) has left the flows it describes.
+HIGHEST_N = LIMITS["n"].high
+#: Caution where a lining's relation gives an n above HIGHEST_N; ``{n}`` is n as text.
+HIGH_N_CAUTION = ("Manning's n {n} from the lining's relation is above %g, the largest n this program accepts as "
+                  "input (common practice): the relation is far outside the flows it describes, and the depth and "
+                  "velocity are not reliable") % HIGHEST_N
 #: Regime is called "critical" when |Fr - 1| is below this (to rounding).
 CRITICAL_TOLERANCE = 1e-6
 
@@ -162,6 +170,10 @@ def analyse(section, flow, slope, n=None, normal=None) -> ChannelResult:
     if np.any(lam):
         re_text = f"{float(reynolds):.0f}" if np.ndim(reynolds) == 0 else _fmt(reynolds, lam)
         warnings.append(_count(lam) + TURBULENCE_CAUTION.format(re=re_text))
+    high_n = np.asarray(n_used) > HIGHEST_N   # only a relation's n can be: a number given is refused above it
+    if np.any(high_n):
+        n_text = significant(float(n_used)) if np.ndim(n_used) == 0 else f"up to {significant(np.max(n_used))}"
+        warnings.append(_count(high_n) + HIGH_N_CAUTION.format(n=n_text))
     if section.kind == "circle":
         # Above the full-pipe flow there are two part-full depths; the lower one is returned,
         # and any disturbance can seal the pipe (common practice).

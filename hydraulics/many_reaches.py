@@ -48,8 +48,8 @@ import numpy as np
 
 from . import units as hu
 from .batch_reasons import Coded, Composed, Reasons, object_array, text_array
-from .analysis import (FULL_PIPE_CAUTION, MIN_TURBULENT_REYNOLDS, NEAR_CRITICAL_BAND, NEAR_CRITICAL_CAUTION,
-                       SUPERCRITICAL_CAUTION, TURBULENCE_CAUTION, analyse, full_pipe_flow)
+from .analysis import (FULL_PIPE_CAUTION, HIGH_N_CAUTION, HIGHEST_N, MIN_TURBULENT_REYNOLDS, NEAR_CRITICAL_BAND,
+                       NEAR_CRITICAL_CAUTION, SUPERCRITICAL_CAUTION, TURBULENCE_CAUTION, analyse, full_pipe_flow)
 from .errors import HydraulicsError, InputError
 from .freeboard import ditch_tops, too_shallow_warning
 from .lining_quantities import cost_per_length
@@ -62,7 +62,7 @@ from .stability import ROADSIDE_SIDE_SLOPE, SELF_CLEANING_VELOCITY, side_slope_c
 from .solvers import flow_at_depth, max_flow
 from . import validate
 from .validate import MAX_SLOPE
-from .wording import distinct_groups, in_units, printed_alike, restate_each, worded
+from .wording import distinct_groups, in_units, printed_alike, restate_each, significant, worded
 
 #: Shapes an inventory row may name (a parabola needs two dimensions an inventory does not carry).
 SHAPES = ("trapezoid", "triangle", "rectangle", "circle")
@@ -84,6 +84,7 @@ WARNINGS = {
     "near_critical": "near-critical flow",
     "supercritical": "supercritical flow",
     "not_turbulent": "flow not fully turbulent",
+    "high_n": "lining's n above the input range",
     "above_full_flow": "pipe above its full-flow capacity",
     "silting": "velocity low enough for silt to settle",
     "steep_sides": "side slope steeper than 1V:3H",
@@ -470,6 +471,10 @@ def _warn(reaches, rows, res, out, display):
     whole, which = np.unique(np.rint(re[slow]), return_inverse=True)     # as "%.0f" rounds: half to even
     _note(out, rows[slow], Coded(object_array([TURBULENCE_CAUTION.format(re=f"{r:.0f}") for r in whole.tolist()]),
                                  which.ravel()))
+    n_used = np.broadcast_to(np.asarray(res.manning_n, dtype=float), rows.shape)
+    high = n_used > HIGHEST_N     # a lining's relation far outside its flows (few reaches: each worded alone)
+    out.flags["high_n"][rows[high]] = True
+    _note(out, rows[high], object_array([HIGH_N_CAUTION.format(n=significant(n)) for n in n_used[high].tolist()]))
     pipe = reaches.kind[rows] == _CIRCLE
     if pipe.any():
         prow = rows[pipe]

@@ -649,6 +649,10 @@ def test_a_stone_n_above_the_input_range_does_not_stop_the_batch():
     assert res.normal_depth[0] == pytest.approx(ref.normal_depth, rel=1e-8)
     assert res.manning_n[0] == pytest.approx(ref.manning_n, rel=1e-8)
     assert out[1]["verdict"] == "hydraulics-only" and out[1]["normal_depth"] != ""
+    # the relation's n far above any n accepted as input is said, in the words of the one-channel check
+    (said,) = [w for w in ref.warnings if w.startswith("Manning's n ")]
+    assert said.startswith("Manning's n 173 from the lining's relation is above 1,") and said in out[0]["reason"]
+    assert res.flags["high_n"].tolist() == [True, False]
 
 
 def test_the_full_pipe_flow_is_mannings_flow_at_the_crown():

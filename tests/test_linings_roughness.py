@@ -267,3 +267,21 @@ def test_each_grass_elements_warning_is_its_own_check(units):
     got = r.check_elements(section, depth, 0.01, units=u)
     assert got.tolist() == ["; ".join(in_units(t, u) for t in r.check(section, float(y), 0.01)) for y in depth]
     assert got[0] and got[1] and not got[2] and not got[3]
+
+
+def test_an_n_from_a_relation_above_the_input_range_is_cautioned():
+    """Bathurst's relation (HEC-15 Eq. 6.2) at a trickle among large stones gives n far above 1, the largest n the
+    program accepts as input (hydraulics.validate.LIMITS, common practice): the analysis says so, for one channel
+    and, counted, for arrays; an n of 1 typed by hand is within the range and gets no such caution. Invented
+    channels from a random search over the accepted ranges."""
+    from hydraulics.analysis import HIGH_N_CAUTION
+
+    pipe, stone = hy.Circle(diameter=10.97), StoneRoughness(0.3071)
+    one = hy.analyse(pipe, 1.20041e-06, 1.40868e-05, stone)
+    assert one.manning_n > 1 and HIGH_N_CAUTION.format(n=f"{one.manning_n:.0f}") in one.warnings
+    both = hy.analyse(hy.Circle(diameter=np.array([10.97, 1.0])), np.array([1.20041e-06, 0.3]),
+                      np.array([1.40868e-05, 0.01]), StoneRoughness(np.array([0.3071, 0.1])))
+    assert both.manning_n[0] > 1 >= both.manning_n[1]
+    assert any(w.startswith("1 of 2 channels: Manning's n up to ") for w in both.warnings)
+    plain = hy.analyse(hy.Trapezoid(bottom_width=1.0, side_slope=2.0), 0.5, 0.01, 1.0)
+    assert not any("from the lining's relation" in w for w in plain.warnings)
