@@ -46,12 +46,12 @@ def load_default_catalogue(user_path=None) -> Catalogue:
     return load_catalogue(user_path=user_path)
 
 
-
 def lining_json(stability: StabilityResult, units) -> dict:
     """The lining of a check as the JSON outputs give it, in ``units`` (the sizes its name quotes too)."""
     return {"key": stability.lining_key, "name": in_units(worded_sizes(stability.lining_name), units),
             "n_used": stability.manning_n, "n_relation": stability.n_relation, "n_source": stability.n_source,
             "d50": None if stability.d50 is None else float(units.from_si("length", stability.d50))}
+
 
 @dataclass
 class ChannelDesign:

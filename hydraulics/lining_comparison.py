@@ -139,9 +139,9 @@ def compare_linings(section, flow, slope, choices, catalogue, bend_radius=None,
             rows.append(ComparisonRow(
                 key=key, name=lining.name, d50=d50, depth=None, velocity=None, froude=None, manning_n=None,
                 design_shear=None, permissible_shear=None, safety_factor=None, required_safety_factor=None,
-                verdict="no solution", stable=None, governs=None, reason=worded("no solution: {why}", why=said), required_d50=None,
-                total_depth=None, lined_width=None, layer_volume=None, cost_per_length=None, warnings=[],
-                error=said, result=None))
+                verdict="no solution", stable=None, governs=None, reason=worded("no solution: {why}", why=said),
+                required_d50=None, total_depth=None, lined_width=None, layer_volume=None, cost_per_length=None,
+                warnings=[], error=said, result=None))
             continue
         gov = r.governing_check()
         rows.append(ComparisonRow(

@@ -896,7 +896,8 @@ class MainWindow(QMainWindow):
         self.statusBar().showMessage(message, 15000)
 
     def _export_failed(self, choice, exc: BaseException) -> None:
-        QMessageBox.warning(self, "Design sheets not written", pretty(export_failure_text(exc, choice.path, self.doc.context.units)))
+        QMessageBox.warning(self, "Design sheets not written",
+                            pretty(export_failure_text(exc, choice.path, self.doc.context.units)))
 
     # -- DXF drawings ----------------------------------------------------------------------------------
     def export_drawings_dialog(self) -> list:
