@@ -445,9 +445,11 @@ class MainWindow(QMainWindow):
             return                     # the first result of this channel is on its way
         self._drawn[key] = 1
         usable = ev is not None and ev.ok and not self.complaint
-        note = "Last good result: " + ("fix the marked input" if self.complaint else "no result for these inputs")
         picture = {"section": self.section_picture, "rating": self.rating_picture,
                    "energy": self.energy_picture}[key]
+        note = (("Last good result: " + ("fix the marked input" if self.complaint else "no result for these inputs"))
+                if picture.shown else ("No result: fix the marked input" if self.complaint
+                                       else "No result for these inputs"))
         if usable:
             if key == "section":
                 thick = ev.lining.layer_thickness if ev.lining else None

@@ -143,12 +143,14 @@ class Picture:
         for side in ("left", "bottom"):
             ax.spines[side].set_color(MUTED)
         self.title = ax.set_title("", fontsize=FONT + 1, color=INK, loc="left")
-        self.stale_note = ax.text(0.5, 0.5, "", transform=ax.transAxes, ha="center", va="center",
-                                  fontsize=FONT + 1, color="#8a1c1c", zorder=20,
-                                  bbox=dict(boxstyle="round,pad=0.5", fc="white", ec="#d7b0b0"))
+        # the figure's, placed on the axes: it stays when the axes are hidden (no result drawn yet)
+        self.stale_note = self.figure.text(0.5, 0.5, "", transform=ax.transAxes, ha="center", va="center",
+                                           fontsize=FONT + 1, color="#8a1c1c", zorder=20,
+                                           bbox=dict(boxstyle="round,pad=0.5", fc="white", ec="#d7b0b0"))
         self.stale_note.set_visible(False)
         self._title: str | None = None          # the title as given (shown wrapped to the width)
         self._faded = (False, "")               # (faded, note) as last set by fade()
+        self.shown = False                      # whether a result has been drawn (update() calls fade(False))
         self.canvas.mpl_connect("resize_event", self._resized)
 
     def _resized(self, _event) -> None:
@@ -270,9 +272,12 @@ class Picture:
                                          frameon=False)
 
     def fade(self, faded: bool, note: str = "") -> None:
+        self.shown = self.shown or not faded
         if (faded, note) == self._faded:
             return                   # as it is: setting the same alpha still recomputes every patch's colours
         self._faded = (faded, note)
+        # before any result the axes hold only empty lines and a key with nothing to name: the note alone
+        self.ax.set_visible(self.shown)
         alpha = 0.3 if faded else 1.0
         for artist in self.content_artists():
             artist.set_alpha(alpha)

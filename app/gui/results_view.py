@@ -150,7 +150,7 @@ class ResultsPanel(QWidget):
             self.stale.hide()
         else:
             why = complaint or (ev is not None and ev.error) or "The inputs are incomplete."
-            self._set_verdict("none", "No result for these inputs", why)
+            self._set_verdict("none", "No result for these inputs", pretty(why))
             self.stale.setText("Showing the last good result, greyed, until the inputs are usable again."
                                if shown is not None else "No result yet.")
             self.stale.show()

@@ -1279,7 +1279,7 @@ class RunView(QWidget):
         if not isinstance(exc, (hy.InputError, hy.NoSolutionError, hy.ConvergenceError)):
             self.problem = f"The run could not be computed: {type(exc).__name__}: {exc}"
         else:
-            said = exc.in_units(self.doc.units)
+            said = pretty(exc.in_units(self.doc.units))
             self.problem = sentence(said) if isinstance(exc, hy.InputError) else sentence(f"No solution: {said}")
         self.design = None
         where = getattr(exc, "field", "") or ""

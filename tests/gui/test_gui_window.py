@@ -904,3 +904,33 @@ def test_copying_the_comparison_right_after_an_edit_uses_the_new_inputs(demo_win
     depth = QGuiApplication.clipboard().text().splitlines()[1].split("\t")[1]
     assert float(depth) == pytest.approx(rows[0].core.depth, abs=5e-4)
     assert w.doc.channel().slope == 0.02
+
+
+def test_a_channel_without_any_result_shows_the_note_alone_then_its_pictures(qtbot):
+    """A project opened on a pipe too small for its flow (invented, US units) has no result to grey: the
+    picture shows no empty key or axes, only the note, and the reason quotes the project's units. Once the flow
+    fits, the picture is drawn; a later bad input greys that last good result."""
+    data = json.loads(pj.demo_path().read_text(encoding="utf-8"))
+    data["units"] = "us"
+    pipe = next(c for c in data["channels"] if c["section"]["shape"] == "circle")
+    pipe["flow"]["value"] = 2.5                                    # m^3/s in the file: far above a 0.75 m pipe
+    data["channels"] = [pipe] + [c for c in data["channels"] if c is not pipe]
+    w = MainWindow(pj.loads(json.dumps(data)))
+    qtbot.addWidget(w)
+    w.resize(1440, 900)
+    w.show()
+    qtbot.waitExposed(w)
+    evaluated(w, qtbot)
+    pic = w.section_picture
+    reason = w.results.reason.text().replace("\u2060", "")       # the units kept whole with word joiners
+    assert "88.2867\xa0ft³/s exceeds" in reason and "m³/s" not in reason
+    assert not pic.ax.get_visible() and pic.stale_note.get_visible()
+    assert pic.stale_note.get_text() == "No result for these inputs"
+    type_into(qtbot, field(w, "flow.value"), "10")                # ft^3/s: the pipe carries it
+    evaluated(w, qtbot)
+    assert pic.ax.get_visible() and not pic.stale_note.get_visible() and pic.water.get_alpha() == 1.0
+    type_into(qtbot, field(w, "flow.value"), "500")
+    evaluated(w, qtbot)
+    assert pic.ax.get_visible() and pic.water.get_alpha() == pytest.approx(0.3)
+    assert pic.stale_note.get_text() == "Last good result: no result for these inputs"
+    w.doc.undo_stack.setClean()
