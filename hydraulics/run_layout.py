@@ -111,11 +111,14 @@ class RunLayout:
             s = _station(name, s)
             self.check_on_run(name, s)
             wanted.append(s)
+        # the count from the run's length first: a spacing a hair wide gives station numbers beyond any integer
+        count = self.length / self.spacing
+        if count > 200_000:
+            raise InputError("spacing", worded("gives {count} design points on a run of {length}; at most 200,000 "
+                                               "(use a larger spacing)", count=f"{count:,.0f}" if count < 1e12
+                                               else "over 10^12", length=(self.length, "length")))
         k0 = int(np.ceil(self.first_station / self.spacing - 1e-9))
         k1 = int(np.floor(self.last_station / self.spacing + 1e-9))
-        if k1 - k0 > 200_000:
-            raise InputError("spacing", worded("gives {count} design points on a run of {length}; at most 200,000 "
-                                               "(use a larger spacing)", count=str(k1 - k0), length=(self.length, "length")))
         wanted += list(np.arange(k0, k1 + 1) * self.spacing)
         x = np.sort(self.x_of(np.clip(np.asarray(wanted, float), self.first_station, self.last_station)))
         keep = np.concatenate([[True], np.diff(x) > POINT_TOLERANCE])

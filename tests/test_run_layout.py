@@ -85,3 +85,13 @@ def test_stations_are_written_as_surveyors_write_them():
     assert format_station(1234.567) == "1+234.57"
     assert format_station(0.0, US) == "0+00.00"
     assert format_station(99.999) == "0+100.00"
+
+
+@pytest.mark.parametrize("spacing, count", [(1e-3, "300,000"), (1e-308, "over 10^12")])
+def test_too_many_design_points_are_refused_before_any_is_made(spacing, count):
+    """A spacing that gives more than 200,000 design points is refused naming the count; one a hair wide
+    (typed as 1e-308 in the window) once overflowed the conversion to whole numbers first (common practice:
+    the limit keeps a run solvable in the window)."""
+    with pytest.raises(InputError) as err:
+        RunLayout([0, 300], [10.0, 9.0], outfall_station=300, spacing=spacing)
+    assert err.value.field == "spacing" and f"gives {count} design points" in str(err.value)
