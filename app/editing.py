@@ -47,6 +47,12 @@ def value_at(channel: pj.Channel, path: str):
     return getattr(channel, head)
 
 
+def segment_n(section: dict) -> list:
+    """The n of each segment of a surveyed section (a project file may give one n for them all)."""
+    ns = section["n"]
+    return list(ns) if isinstance(ns, (list, tuple)) else [float(ns)] * (len(section["stations"]) - 1)
+
+
 def section_for_shape(channel: pj.Channel, shape: str) -> tuple[dict, float | None]:
     """A starting section of ``shape`` that resembles the channel's present one, and the n to use with it.
 
@@ -60,7 +66,7 @@ def section_for_shape(channel: pj.Channel, shape: str) -> tuple[dict, float | No
     z1 = old.get("left_slope", 2.0) or 2.0
     z2 = old.get("right_slope", z1) or z1
     if old.get("shape") == "irregular":
-        n = float(old["n"][0]) if old.get("n") else 0.030
+        n = segment_n(old)[0] if old.get("n") is not None else 0.030
         xs = old["stations"]
         b = max(0.5, (xs[-1] - xs[0]) / 3)
     if shape == "trapezoid":

@@ -18,7 +18,7 @@ from PySide6.QtWidgets import (QAbstractItemView, QComboBox, QGridLayout, QGroup
 from hydraulics.units import UnitSystem
 
 from .. import channel_display as display
-from ..editing import section_for_shape, value_at, with_value
+from ..editing import section_for_shape, segment_n, value_at, with_value
 from ..inputs import BEND, CORE_TO_PATH, D50, FLOW, FREEBOARD, MANNING, RATIONAL, SECTION_FIELDS, SLOPE, Input
 from ..lining_names import stone_size_text
 from ..project import LiningChoice
@@ -110,9 +110,7 @@ class SurveyTable(QWidget):
         L = units.label("length")
         self.table.setHorizontalHeaderLabels([f"Station [{L}]", f"Elevation [{L}]", "n to next"])
         self.table.blockSignals(True)
-        xs, zs, ns = section["stations"], section["elevations"], section["n"]
-        if not isinstance(ns, list):
-            ns = [ns] * (len(xs) - 1)
+        xs, zs, ns = section["stations"], section["elevations"], segment_n(section)
         self.table.setRowCount(len(xs))
         for i, (x, z) in enumerate(zip(xs, zs)):
             self.table.setItem(i, 0, self._item(format_number(units.from_si("length", x))))
@@ -181,12 +179,12 @@ class SurveyTable(QWidget):
 
     def _add_point(self) -> None:
         s = dict(self.section)
-        xs, zs, ns = list(s["stations"]), list(s["elevations"]), list(s["n"]) if isinstance(s["n"], list) else []
+        xs, zs, ns = list(s["stations"]), list(s["elevations"]), segment_n(s)
         row = self.table.currentRow()
         row = row if 0 <= row < len(xs) - 1 else len(xs) - 2
         xs.insert(row + 1, (xs[row] + xs[row + 1]) / 2)
         zs.insert(row + 1, (zs[row] + zs[row + 1]) / 2)
-        ns.insert(row + 1, ns[row] if ns else 0.03)
+        ns.insert(row + 1, ns[row])           # the new point splits a segment: both halves keep its n
         self.changed.emit({"shape": "irregular", "stations": xs, "elevations": zs, "n": ns},
                           f"Add surveyed point {row + 2}")
 
@@ -199,7 +197,7 @@ class SurveyTable(QWidget):
         row = row if 0 <= row < len(s["stations"]) else len(s["stations"]) - 1
         xs = [v for i, v in enumerate(s["stations"]) if i != row]
         zs = [v for i, v in enumerate(s["elevations"]) if i != row]
-        ns = list(s["n"])
+        ns = segment_n(s)
         del ns[min(row, len(ns) - 1)]
         self.changed.emit({"shape": "irregular", "stations": xs, "elevations": zs, "n": ns},
                           f"Remove surveyed point {row + 1}")

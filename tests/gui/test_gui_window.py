@@ -218,6 +218,47 @@ def test_surveyed_section_table_edits(demo_window, qtbot):
     assert w.doc.channel().section["elevations"][3] == 0.0
 
 
+def _window_on_one_n_survey(qtbot):
+    """The demo project with its surveyed section's n given once for every segment, as a project file may give it
+    (and a LandXML import writes it); that channel chosen."""
+    data = json.loads(pj.demo_path().read_text(encoding="utf-8"))
+    survey = next(c for c in data["channels"] if c["section"]["shape"] == "irregular")
+    survey["section"]["n"] = 0.035
+    w = MainWindow(pj.loads(json.dumps(data)))
+    qtbot.addWidget(w)
+    w.show()
+    qtbot.waitExposed(w)
+    w.doc.set_current(data["channels"].index(survey))
+    evaluated(w, qtbot)
+    return w
+
+
+@pytest.mark.parametrize("button", ["add", "remove"])
+def test_adding_or_removing_a_point_keeps_one_n_given_for_every_segment(qtbot, button):
+    """Adding a point once replaced an n given once (0.035) by 0.03 for every segment and broke the table;
+    removing one raised. The points change, every segment keeps 0.035, and the result is computed with it."""
+    w = _window_on_one_n_survey(qtbot)
+    before = len(w.doc.channel().section["stations"])
+    w.inputs.survey.table.setCurrentCell(1, 0)
+    getattr(w.inputs.survey, button).click()
+    ev = evaluated(w, qtbot)
+    section = w.doc.channel().section
+    assert len(section["stations"]) == before + (1 if button == "add" else -1)
+    assert section["n"] == [0.035] * (len(section["stations"]) - 1)
+    assert ev.ok and ev.result.manning_n == pytest.approx(0.035, rel=1e-12)
+    assert w.inputs.survey.table.item(0, 2).text() == "0.035"
+    w.doc.undo_stack.setClean()
+
+
+def test_leaving_a_survey_with_one_n_takes_that_n(qtbot):
+    w = _window_on_one_n_survey(qtbot)
+    box = w.inputs.shape
+    box.setCurrentIndex(box.findData("trapezoid"))
+    w.inputs._shape_chosen(box.currentIndex())
+    assert w.doc.channel().section["shape"] == "trapezoid" and w.doc.channel().manning_n == 0.035
+    w.doc.undo_stack.setClean()
+
+
 def test_save_then_reopen_gives_the_same_project(demo_window, tmp_path, dialogs):
     w = demo_window
     w.doc.edit("slope", 0.0123, "Change bed slope")
