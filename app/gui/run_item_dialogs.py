@@ -107,6 +107,24 @@ class _ItemDialog(QDialog):
         self.ok = self.buttons.button(QDialogButtonBox.StandardButton.Ok)
         self.marked = ""
         self.markable: dict[str, QWidget] = {}      # other widgets an error may name (a table)
+        # the values behind the texts shown, by (quantity, text): a text left as shown reads back as the value it
+        # showed, not as its rounding (OK without a change changes nothing, in either unit system)
+        self._behind: dict[tuple, set] = {}
+
+    def shown(self, value, quantity: str) -> str:
+        """``value`` [SI] as an entry or a cell shows it, in the dialog's units; the value is kept behind the text."""
+        text = _shown(value, quantity, self.units)
+        if value is not None:
+            self._behind.setdefault((quantity, text), set()).add(float(value))
+        return text
+
+    def read(self, text: str, quantity: str, key: str, label: str, optional: bool = False):
+        """The SI value of an entry or a cell: the value shown where its text is as shown (and shows that value
+        alone), else the number typed (:func:`_read`)."""
+        behind = self._behind.get((quantity, text.strip()), ())
+        if len(behind) == 1:
+            return next(iter(behind))
+        return _read(text, quantity, self.units, key, label, optional)
 
     def entry(self, grid: QGridLayout, row: int, key: str, label: str, quantity: str, fallback: str = "",
               tip: str = "") -> QLineEdit:
@@ -130,10 +148,10 @@ class _ItemDialog(QDialog):
 
     def value(self, key: str, optional: bool = False):
         _lab, quantity, label = self.labels[key]
-        return _read(self.entries[key].text(), quantity, self.units, key, label, optional)
+        return self.read(self.entries[key].text(), quantity, key, label, optional)
 
     def show_value(self, key: str, value) -> None:
-        self.entries[key].setText(_shown(value, self.labels[key][1], self.units))
+        self.entries[key].setText(self.shown(value, self.labels[key][1]))
 
     def refuse(self, key: str, message: str) -> None:
         """Show ``message``, mark the entry ``key`` names (when it is one of ours), disable OK."""
@@ -324,7 +342,7 @@ class SubAreaDialog(_ItemDialog):
     def _cover_row(self, name: str, area, c) -> None:
         r = self.covers.rowCount()
         self.covers.insertRow(r)
-        for j, text in enumerate((name, _shown(area, "drainage_area", self.units), _shown(c, "", self.units))):
+        for j, text in enumerate((name, self.shown(area, "drainage_area"), self.shown(c, ""))):
             item = QTableWidgetItem(text)
             if j:
                 item.setTextAlignment(Qt.AlignmentFlag.AlignRight | Qt.AlignmentFlag.AlignVCenter)
@@ -338,7 +356,7 @@ class SubAreaDialog(_ItemDialog):
         kind.setFlags(kind.flags() & ~Qt.ItemFlag.ItemIsEditable)
         self.segments.setItem(r, 0, kind)
         for j, (key, quantity) in enumerate((("length", "length"), ("slope", "slope"), ("roughness", "")), 1):
-            item = QTableWidgetItem(_shown(seg.get(key), quantity, self.units))
+            item = QTableWidgetItem(self.shown(seg.get(key), quantity))
             item.setTextAlignment(Qt.AlignmentFlag.AlignRight | Qt.AlignmentFlag.AlignVCenter)
             if key == "roughness" and seg["kind"] != "sheet":
                 self._not_used(item, "roughness")
@@ -416,15 +434,16 @@ class SubAreaDialog(_ItemDialog):
             kind = self.segments.item(r, 0).data(Qt.ItemDataRole.UserRole)
             where = f"segment {r + 1}"
             seg = {"kind": kind,
-                   "length": _read(self._cell(self.segments, r, 1), "length", self.units, "segments",
-                                   f"Length of {where}"),
-                   "slope": _read(self._cell(self.segments, r, 2), "slope", self.units, "segments",
-                                  f"Slope of {where}")}
+                   "length": self.read(self._cell(self.segments, r, 1), "length", "segments",
+                                       f"Length of {where}"),
+                   "slope": self.read(self._cell(self.segments, r, 2), "slope", "segments", f"Slope of {where}")}
+            # both keys, the one that does not apply to the kind of flow empty, as the project file holds them
             if kind == "sheet":
-                seg["roughness"] = _read(self._cell(self.segments, r, 3), "", self.units, "segments",
-                                         f"Manning's n of {where}")
+                seg["roughness"] = self.read(self._cell(self.segments, r, 3), "", "segments",
+                                             f"Manning's n of {where}")
+                seg["surface"] = None
             else:
-                seg["surface"] = self.segments.cellWidget(r, 4).currentData()
+                seg["roughness"], seg["surface"] = None, self.segments.cellWidget(r, 4).currentData()
             segments.append(seg)
         if not segments:
             raise _Bad("segments", "TR-55 needs at least one flow segment: add sheet or shallow flow.")
@@ -435,10 +454,10 @@ class SubAreaDialog(_ItemDialog):
         out = []
         for r in range(self.covers.rowCount()):
             where = f"land cover {r + 1}"
-            out.append(LandCover(area=_read(self._cell(self.covers, r, 1), "drainage_area", self.units,
-                                            "landCovers", f"Area of {where}"),
-                                 runoff_coefficient=_read(self._cell(self.covers, r, 2), "", self.units,
-                                                          "landCovers", f"C of {where}"),
+            out.append(LandCover(area=self.read(self._cell(self.covers, r, 1), "drainage_area", "landCovers",
+                                                f"Area of {where}"),
+                                 runoff_coefficient=self.read(self._cell(self.covers, r, 2), "", "landCovers",
+                                                              f"C of {where}"),
                                  cover=self._cell(self.covers, r, 0).strip()))
         if not out:
             raise _Bad("landCovers", "Add at least one land cover, or type C.")

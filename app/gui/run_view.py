@@ -1204,7 +1204,7 @@ class RunView(QWidget):
         """Edit item ``row`` of ``items`` in its dialog; OK is one undoable edit."""
         run = self.run
         dialog = self.item_dialog(items, row)
-        if dialog.exec() == QDialog.DialogCode.Accepted:
+        if dialog.exec() == QDialog.DialogCode.Accepted and dialog.result() != getattr(run, items)[row]:
             what = f"sub-area '{run.sub_areas[row].name}'" if items == "sub_areas" else f"section {row + 1}"
             self.doc.edit_run(self.current, with_item_replaced(run, items, row, dialog.result()),
                               f"Edit {what} of '{run.name}'")
