@@ -91,8 +91,8 @@ class Input:
         return float(units.from_si(self.quantity, value)) if self.quantity else value
 
     def holds(self, value: float) -> bool:
-        """True when ``value`` [SI] lies within the range (NaN does not)."""
-        if math.isnan(value):
+        """True when ``value`` [SI] lies within the range (NaN and the infinities do not)."""
+        if not math.isfinite(value):
             return False
         low, high = self.low, self.high
         return not (low is not None and (value < low or (value == low and not self.low_inclusive))

@@ -73,6 +73,16 @@ class UnclearNumber(ValueError):
     """A typed number that the user's number format does not read one way only; the message gives the readings."""
 
 
+class BeyondReach(UnclearNumber):
+    """A typed number far beyond any design value: in SI it could pass the largest float (1e308 acres is infinite
+    in square metres), so it is refused where it is typed, as every entry refuses what it cannot read."""
+
+
+#: Largest size of a typed number: far above any design value in any unit, far below the largest float after any
+#: conversion of units (common practice: a guard of the arithmetic, not a design range).
+LARGEST_TYPED = 1e100
+
+
 _MINUS = str.maketrans({"\u2212": "-", "\u2013": "-"})
 _OTHER_MARK = {".": ",", ",": "."}
 
@@ -145,6 +155,8 @@ def parse_number(text: str, percent_allowed: bool = False, locale: QLocale | Non
 
     value = _read(t, mark, group, locale_grouping)
     if value is not None:
+        if not abs(value) <= LARGEST_TYPED:
+            raise BeyondReach(f"'{text.strip()}' is beyond any design value (at most {LARGEST_TYPED:g} in size).")
         return value * scale
     readings = []
     other = _OTHER_MARK.get(mark)

@@ -151,3 +151,23 @@ def test_results_and_comparison_are_written_with_the_locale_decimal_mark(user_lo
     _heads, body = display.comparison_table(w.comparison.rows, w.doc.context)
     assert all(re.fullmatch(r"\d+\.\d{3}", cells[1]) for cells in body)
     w.doc.undo_stack.setClean()
+
+
+@pytest.mark.parametrize("text", ["1e308", "-1e101", "1e101"])
+def test_a_number_beyond_any_design_value_is_refused_where_it_is_typed(text):
+    """1e308 acres is infinite in square metres: such a number was taken by the field and the project could then
+    not be saved (found by a random session in the window). Numbers up to 1e100 in size are read as typed."""
+    from app.gui.fields import BeyondReach
+    with pytest.raises(BeyondReach, match="beyond any design value"):
+        parse_number(text, locale=QLocale(QLocale.Language.English, QLocale.Country.UnitedStates))
+    assert parse_number("1e100", locale=QLocale(QLocale.Language.English, QLocale.Country.UnitedStates)) == 1e100
+
+
+def test_a_drainage_area_beyond_reach_is_refused_and_the_project_still_saves(demo_window, qtbot, tmp_path):
+    w = demo_window
+    w.doc.set_units("us")
+    type_into(qtbot, field(w, "flow.value"), "1e308")
+    assert "beyond any design value" in field(w, "flow.value").error
+    assert w.doc.channel().flow.value < 1e300
+    w.doc.save(tmp_path / "still.json")
+    assert (tmp_path / "still.json").exists()
