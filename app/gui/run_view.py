@@ -1123,9 +1123,11 @@ class RunView(QWidget):
             self.inputs.load(self.run, self.doc.units, self.doc.context.catalogue)
 
     def _run_changed(self, index: int) -> None:
-        if index != self.current:
+        names = [r.name for r in self.doc.project.runs]
+        shown = [self.inputs.run_list.item(i).text() for i in range(self.inputs.run_list.count())]
+        if index != self.current or shown != names:    # another run, or a name changed (a rename undone)
             self.current = index
-            self.inputs.fill_runs([r.name for r in self.doc.project.runs], index)
+            self.inputs.fill_runs(names, index)
         self.refusals.clear()
         self._load_inputs()
         self.compute()

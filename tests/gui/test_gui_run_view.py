@@ -553,6 +553,9 @@ def test_runs_are_added_renamed_and_deleted_with_undo(demo_window, qtbot):
     w.undo_action.trigger()
     assert [r.name for r in w.doc.project.runs] == ["North verge ditch", "South verge ditch"]
     assert w.runs_action.text() == "&Ditch runs (2)"
+    w.undo_action.trigger()                                       # the rename undone: the list says so too
+    names = [view.inputs.run_list.item(i).text() for i in range(view.inputs.run_list.count())]
+    assert [r.name for r in w.doc.project.runs] == names == ["North verge ditch", "Run 1"]
 
 
 def test_a_project_without_runs_gets_one_from_the_menu(qtbot):
