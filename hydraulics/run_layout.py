@@ -32,10 +32,12 @@ from . import validate
 from .errors import InputError
 from .wording import worded
 
-__all__ = ["StationRange", "RunLayout", "POINT_TOLERANCE"]
+__all__ = ["StationRange", "RunLayout", "POINT_TOLERANCE", "MAX_DESIGN_POINTS"]
 
 #: Two design points closer than this [m] are one point.
 POINT_TOLERANCE = 1e-6
+#: Most design points a run may have (common practice: a run stays solvable at once in the window).
+MAX_DESIGN_POINTS = 200_000
 
 
 @dataclass(frozen=True)
@@ -113,7 +115,7 @@ class RunLayout:
             wanted.append(s)
         # the count from the run's length first: a spacing a hair wide gives station numbers beyond any integer
         count = self.length / self.spacing
-        if count > 200_000:
+        if count > MAX_DESIGN_POINTS:
             raise InputError("spacing", worded("gives {count} design points on a run of {length}; at most 200,000 "
                                                "(use a larger spacing)", count=f"{count:,.0f}" if count < 1e12
                                                else "over 10^12", length=(self.length, "length")))

@@ -266,3 +266,14 @@ def test_command_in_a_fresh_process_loads_lxml_only_when_run(tmp_path):
     code = "import sys, app.main; app.main.build_parser(); print('lxml' in sys.modules)"
     shown = subprocess.run([sys.executable, "-c", code], cwd=ROOT, capture_output=True, text=True, timeout=120)
     assert shown.stdout.strip() == "False"
+
+
+@pytest.mark.parametrize("spacing", [1e-4, 1e-300])
+def test_a_spacing_giving_too_many_design_points_is_refused_before_sampling(tmp_path, spacing):
+    """A spacing a hair wide once sampled the vertical curves at every multiple of it, taking minutes and all
+    the memory (found by a random search over LandXML files); it is refused by the count of design points the
+    profile would get, the limit a run has (hydraulics.run_layout.MAX_DESIGN_POINTS)."""
+    body = """<ProfAlign name="sag">
+<PVI>0 100</PVI><ParaCurve length="40">100 98</ParaCurve><PVI>200 101</PVI></ProfAlign>"""
+    with pytest.raises(LandXMLError, match=r"design points along .*at most 200,000 \(use a larger --spacing\)"):
+        read_landxml(write(tmp_path, landxml(alignment(body), '<Metric linearUnit="meter"/>')), spacing=spacing)
