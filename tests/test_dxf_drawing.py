@@ -290,3 +290,30 @@ def test_a_channel_that_cannot_be_computed_leaves_the_folder_as_it_was(capsys, t
     assert code == 2 and len(err.strip().splitlines()) == 1
     assert 'North cut ditch' in err and "slope" in err
     assert not out_dir.exists()
+
+
+def test_a_profile_high_above_sea_keeps_its_datum_and_levels_whole(tmp_path):
+    """A run some 3,000 m up (invented): the datum in the header and the elevation labels kept only six figures
+    ("%g"), so 3048.25 read 3048.2 and the invert read back through the header sat a few centimetres off (found by
+    a random search over LandXML files). The invert, the grid and the labels now agree with the header."""
+    data = json.loads(pj.demo_path().read_text(encoding="utf-8"))
+    run = data["runs"][0]
+    for p in run["profile"]:
+        p["elevation"] += 3040.0
+    path = tmp_path / "high.json"
+    path.write_text(json.dumps(data), encoding="utf-8")
+    project = pj.load(path)
+    (drawn,) = export_drawings(project, tmp_path / "dxf", runs=[project.runs[0].name], channels=[], units="si",
+                               catalogue=SHIPPED)
+    doc = ezdxf.readfile(drawn)
+    msp = doc.modelspace()
+    ve = float(doc.header.custom_vars.get("VERTICAL_EXAGGERATION"))
+    datum = float(doc.header.custom_vars.get("DATUM_ELEVATION"))
+    (invert,) = [e for e in msp.query("LWPOLYLINE") if e.dxf.layer == "INVERT"]
+    profile = sorted(project.runs[0].profile, key=lambda p: p.station)
+    assert [y / ve + datum for _x, y, *_ in invert.get_points()] == pytest.approx([p.elevation for p in profile],
+                                                                                   abs=1e-6)
+    grid = sorted({round(e.dxf.start[1] / ve + datum, 6) for e in msp.query("LINE")
+                   if e.dxf.layer == "GRID" and e.dxf.start[1] == e.dxf.end[1]})
+    labels = [float(t.dxf.text) for t in msp.query("TEXT") if t.dxf.layer == "ELEVATIONS" and t.dxf.text[0].isdigit()]
+    assert labels == pytest.approx(grid, abs=1e-6)
