@@ -23,7 +23,8 @@ from .results import grade_text
 from .run_design import RunDesign
 from .run_summary import TROUBLE, station_states
 
-__all__ = ["Polyline", "Band", "Marker", "GradeLabel", "JumpMark", "ProfileModel", "profile_model", "station_step"]
+__all__ = ["Polyline", "Band", "Marker", "GradeLabel", "JumpMark", "ProfileModel", "profile_model", "station_step",
+           "level_text"]
 
 
 @dataclass(frozen=True)
@@ -106,6 +107,12 @@ class ProfileModel:
 #: How each line of the profile is drawn (every front end follows it).
 LINE_STYLES = {"invert": "solid", "ditch_top": "dashed", "water_surface": "solid", "normal": "dashed",
                "critical": "dotted"}
+
+
+def level_text(value: float) -> str:
+    """An elevation (or a factor) as the profile drawings write it: every figure it has, to 12 significant
+    (10000.25 kept whole, where "%g" gave 10000.2), none of the float's own noise."""
+    return f"{value:.12g}"
 
 
 def station_step(length: float, units: UnitSystem, ticks: int = 8) -> float:

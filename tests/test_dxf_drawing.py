@@ -293,13 +293,16 @@ def test_a_channel_that_cannot_be_computed_leaves_the_folder_as_it_was(capsys, t
 
 
 def test_a_profile_high_above_sea_keeps_its_datum_and_levels_whole(tmp_path):
-    """A run some 3,000 m up (invented): the datum in the header and the elevation labels kept only six figures
-    ("%g"), so 3048.25 read 3048.2 and the invert read back through the header sat a few centimetres off (found by
-    a random search over LandXML files). The invert, the grid and the labels now agree with the header."""
+    """A run at levels near 10,000 m (a local survey datum) with little relief (invented): the datum in the header and the
+    elevation labels kept only six figures ("%g"), so a grid line at 10000.25 read 10000.2 and the invert read back through the header sat
+    centimetres off (found by a random search over LandXML files). The invert, the grid and the labels now agree
+    with the header."""
     data = json.loads(pj.demo_path().read_text(encoding="utf-8"))
     run = data["runs"][0]
-    for p in run["profile"]:
-        p["elevation"] += 3040.0
+    low = min(p["elevation"] for p in run["profile"])
+    high = max(p["elevation"] for p in run["profile"])
+    for p in run["profile"]:                        # 0.6 m of relief from 10000.31 m: a grid of 0.25 m
+        p["elevation"] = 10000.31 + (p["elevation"] - low) * 0.6 / (high - low)
     path = tmp_path / "high.json"
     path.write_text(json.dumps(data), encoding="utf-8")
     project = pj.load(path)

@@ -14,7 +14,7 @@ from ezdxf.enums import TextEntityAlignment
 from hydraulics.units import UnitSystem
 from hydraulics.wording import format_station
 
-from ..run_drawing import ProfileModel
+from ..run_drawing import ProfileModel, level_text
 from .dxf import (
     CHAR_WIDTH,
     PROFILE_LAYERS,
@@ -39,12 +39,6 @@ def exaggeration_for(length: float, relief: float) -> float:
     return float(max([e for e in EXAGGERATIONS if e <= want] or [EXAGGERATIONS[0]]))
 
 
-def _exact(value: float) -> str:
-    """A level or a factor as the drawing writes it: every figure it has, to 12 significant (10000.25 kept whole,
-    where "%g" gave 10000.2), none of the float's own noise."""
-    return f"{value:.12g}"
-
-
 def profile_document(model: ProfileModel, units: UnitSystem, exaggeration: float | None = None):
     """An ezdxf document of the run profile ``model``: stations along x (1 drawing unit = 1 length unit), elevations
     along y drawn ``exaggeration`` times (default :func:`exaggeration_for`) above a round datum elevation."""
@@ -65,8 +59,8 @@ def profile_document(model: ProfileModel, units: UnitSystem, exaggeration: float
         return (np.asarray(z, float) - datum) * ve
 
     doc = new_document(units, PROFILE_LAYERS, h)
-    doc.header.custom_vars.append("VERTICAL_EXAGGERATION", _exact(ve))
-    doc.header.custom_vars.append("DATUM_ELEVATION", _exact(datum))
+    doc.header.custom_vars.append("VERTICAL_EXAGGERATION", level_text(ve))
+    doc.header.custom_vars.append("DATUM_ELEVATION", level_text(datum))
     msp = doc.modelspace()
     y_top = float(Y(top_elev))
 
@@ -77,7 +71,7 @@ def profile_document(model: ProfileModel, units: UnitSystem, exaggeration: float
         y = float(Y(z))
         msp.add_line((x0, y), (x1, y), dxfattribs={"layer": "GRID"})
         msp.add_line((x0 - 0.6 * h, y), (x0, y), dxfattribs={"layer": "ELEVATIONS"})
-        add_text(msp, _exact(z), x0 - 0.9 * h, y - 0.4 * h, 0.8 * h, layer="ELEVATIONS", align=TextEntityAlignment.RIGHT)
+        add_text(msp, level_text(z), x0 - 0.9 * h, y - 0.4 * h, 0.8 * h, layer="ELEVATIONS", align=TextEntityAlignment.RIGHT)
         k += 1
     msp.add_line((x0, 0.0), (x0, y_top), dxfattribs={"layer": "ELEVATIONS"})
     add_text(msp, f"Elevation ({L})", x0 - 0.9 * h, y_top + 0.8 * h, 0.8 * h, layer="ELEVATIONS",
@@ -161,7 +155,7 @@ def profile_document(model: ProfileModel, units: UnitSystem, exaggeration: float
     # title and notes above the profile
     notes = [f"Profile: {model.title}",
              f"Vertical exaggeration {ve:g}:1 (stations 1 drawing unit = 1 {L}; elevations drawn {ve:g} times, "
-             f"above datum {_exact(datum)} {L})",
+             f"above datum {level_text(datum)} {L})",
              "Invert through the grade points; water surface computed along the run (standard step method, from "
              "the outfall control); normal depth dashed, critical depth dotted"]
     for i, line in enumerate(notes):

@@ -27,6 +27,7 @@ from reportlab.graphics.shapes import Drawing, Group, Line, PolyLine, Polygon, R
 from reportlab.lib import colors
 from reportlab.pdfbase.pdfmetrics import stringWidth
 
+from ..run_drawing import level_text
 from .fonts import FONT
 from .section_drawing import PT_PER_M, choose_scale
 
@@ -237,7 +238,7 @@ def profile_drawing(model, units, width: float, height: float, band_numbers=None
         z = z0 + k * step
         y = py(z)
         d.add(Line(LEFT, y, right, y, strokeColor=GRID, strokeWidth=0.4))
-        d.add(_text(LEFT - 3, y - 2, f"{z:g}", SIZE - 0.5, "end"))
+        d.add(_text(LEFT - 3, y - 2, level_text(z), SIZE - 0.5, "end"))
         k += 1
     d.add(Rect(LEFT, base, right - LEFT, plot_h, fillColor=None, strokeColor=GREY, strokeWidth=0.5))
     d.add(_text(8, base + plot_h / 2, f"Elevation ({unit})", SIZE - 0.5, "middle", GREY, angle=90))
