@@ -828,3 +828,22 @@ def test_read_only_columns_give_the_same_results():
     assert np.isfinite(result.normal_depth).sum() == size
     np.testing.assert_array_equal(result.normal_depth, writable.normal_depth)
     assert list(result.verdict) == list(writable.verdict)
+
+
+@pytest.mark.parametrize("quoted", [False, True])
+def test_a_field_longer_than_the_csv_modules_own_limit_is_read(tmp_path, quoted):
+    """An id of 131,073 characters (the csv module refuses fields above 131,072 by default): quoted it was refused
+    as if its quotes were wrong, unquoted it stopped a GeoPackage output (found by a random search over
+    inventories). Both are read, and the id comes back whole in the results, CSV and GeoPackage alike."""
+    long_id = "R" * 131_073
+    rows = [{**GOOD, "id": long_id}, {**GOOD, "id": "short"}]
+    text = csv_text(rows)
+    if quoted:
+        text = text.replace(long_id, f'"{long_id}"')
+    src = tmp_path / "long.csv"
+    src.write_text(text, encoding="utf-8")
+    for out in (tmp_path / "out.csv", tmp_path / "out.gpkg"):
+        tally = ai.check_file(src, out, "us", catalogue=SHIPPED)
+        assert "2 reaches" in tally.summary().splitlines()[0]
+    back = list(csv.DictReader(io.StringIO((tmp_path / "out.csv").read_text(encoding="utf-8"), newline="")))
+    assert [r["id"] for r in back] == [long_id, "short"] and back[0]["verdict"] == "hydraulics-only"

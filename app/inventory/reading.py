@@ -24,6 +24,11 @@ from hydraulics import many_reaches as mr
 from hydraulics.batch_reasons import text_array
 from hydraulics import units as hu
 
+# A field as long as a line may be (an id or a note column of any length, quoted or not): the csv module's own
+# limit (131,072 characters) refused a valid file, or stopped a GeoPackage output half way. Memory is bounded by
+# the blocks read, not by this.
+csv.field_size_limit(2**31 - 1)
+
 INPUT_COLUMNS = ("id", "shape", "bottom_width", "left_slope", "right_slope", "diameter", "slope", "flow", "lining",
                  "d50", "n")
 RESULT_COLUMNS = ("normal_depth", "critical_depth", "velocity", "froude", "bed_shear", "permissible_shear",
