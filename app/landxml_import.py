@@ -330,7 +330,7 @@ class _Survey:
 
 
 def _cross_sections(alignment, scale: float, n: float, surface: str | None, report: ImportReport,
-                    label: str) -> list:
+                    label: str, system: hu.UnitSystem) -> list:
     found = []
     for group in _children(alignment, "CrossSects"):
         for cs in _children(group, "CrossSect"):
@@ -362,7 +362,8 @@ def _cross_sections(alignment, scale: float, n: float, surface: str | None, repo
         try:
             hy.section_from_dict(section)
         except hy.InputError as exc:
-            report.skipped.append(f"{label}: {_where(cs)} cannot be a surveyed ditch section: {exc}")
+            report.skipped.append(f"{label}: {_where(cs)} cannot be a surveyed ditch section: "
+                                  f"{exc.in_units(system)}")
             continue
         if len(_children(cs, "CrossSectSurf")) > 1 and surface is None:
             others = [s.get("name") or "(unnamed)" for s in _children(cs, "CrossSectSurf")[1:]]
@@ -430,7 +431,7 @@ def read_landxml(path, *, spacing: float | None = None, n: float | None = None,
                     continue
                 if p is not None:
                     profiles.append(p)
-        surveys = _cross_sections(al, scale, n, surface, report, label)
+        surveys = _cross_sections(al, scale, n, surface, report, label, system)
         if not profiles:
             report.skipped.append(f"{label}: no profile that can be a run's invert"
                                   + (f"; its {len(surveys)} cross-section(s) are left out too" if surveys else ""))

@@ -23,6 +23,7 @@ import numpy as np
 from . import validate
 from .constants import G
 from .errors import InputError
+from .wording import worded
 
 
 class Geometry(NamedTuple):
@@ -627,6 +628,14 @@ class Irregular(Section):
         self._dx = self._x1 - self._x0
         self._dz = self._hi - self._lo
         self._len = np.hypot(self._dx, self._dz)
+        # points one above another at one station, down to the lowest point and up again, make a slot with no
+        # width there: no water stands in it, and no depth below its top carries any flow
+        if not float(self._geometry(1e-9 * self._full).top_width) > 0:
+            low = int(np.argmin(z))
+            raise InputError("stations", worded("the lowest point (point {i}, at {x}) lies at the foot of a slot "
+                                                "with no width: points stand one above another at one station down "
+                                                "to it and up again, so no water stands there; move them apart or "
+                                                "remove the spike", i=str(low + 1), x=(float(x[low]), "length")))
 
     @property
     def full_depth(self):

@@ -141,3 +141,14 @@ def test_a_section_of_some_elements_has_their_geometry():
     pipes = hy.Circle(diameter=np.array([0.6, 0.9, 1.2])).take(slice(1, None))
     np.testing.assert_array_equal(pipes.diameter, [0.9, 1.2])
     assert hy.Trapezoid(bottom_width=1.0, side_slope=2.0).take([0]).bottom_width == 1.0  # numbers stay numbers
+
+
+def test_a_survey_whose_lowest_point_is_the_foot_of_a_slot_with_no_width_is_refused():
+    """Points one above another at one station, down to the lowest point and up again (an invented survey): no
+    water stands in such a slot and no depth below its top has any area, so Manning's equation and critical depth
+    have nothing to work on (a ditch run ended in a math domain error; found by a random search over LandXML
+    files). A slot with vertical walls and a width is a section like any other."""
+    with pytest.raises(hy.InputError, match=r"lowest point \(point 3, at 0 m\) lies at the foot of a slot"):
+        hy.Irregular([-5, 0, 0, 0, 5], [1070, 1069, 1066, 1069, 1070], 0.03)
+    walls = hy.Irregular([0, 0, 0.4, 0.4], [1, 0, 0, 1], 0.03)
+    assert walls.full_depth == 1.0 and float(walls.properties(0.5).area) == pytest.approx(0.2, rel=1e-12)
