@@ -538,7 +538,15 @@ def solve_run(run: DitchRun) -> RunResult:
     checkable = wet & falling
     checked = checkable & screening.checked.any(axis=1)
     if not checked.any():
-        raise NoSolutionError("no design point of the run could be checked (no flow, or no falling grade anywhere)")
+        tried = [(i, k) for i in np.flatnonzero(checkable).tolist() for k in range(k_count)
+                 if screening.errors[i][k] is not None]
+        if not tried:
+            raise NoSolutionError("no design point of the run could be checked (no flow, or no falling grade "
+                                  "anywhere)")
+        i, k = tried[0]   # every point with flow on a falling grade refused every candidate: say why at the first
+        raise NoSolutionError(worded("no design point of the run could be checked with any candidate lining: at "
+                                     "{s}, {lining}: {why}", s=(float(layout.stations[i]), "station"),
+                                     lining=worded_sizes(run.candidates[k].label), why=screening.errors[i][k]))
     nxt = np.minimum.accumulate(np.where(checked, np.arange(n), n)[::-1])[::-1]
     prev = np.maximum.accumulate(np.where(checked, np.arange(n), -1))
     donor = np.where(nxt < n, nxt, prev)

@@ -271,3 +271,18 @@ def test_a_chain_still_refining_after_its_last_round_keeps_only_the_steps_below(
     fewer = run_water_surface(res)
     assert fewer.error is None and np.isfinite(fewer.depth).all()
     assert fewer.depth == pytest.approx(reference.depth, rel=1e-4)
+
+
+def test_a_run_whose_every_flow_overtops_its_section_says_so():
+    """Every design point has flow on a falling grade, and every candidate is refused there because the flow
+    overtops the surveyed section: the run once said "no flow, or no falling grade anywhere" (found by a random
+    search over LandXML files). It names the first point and the core's reason (invented run)."""
+    import dataclasses
+    slot = hy.Irregular([0.0, 0.1, 0.2], [1.0, 0.0, 1.0], 0.03)       # 1 m deep, 0.2 m wide at the top
+    run = invented_run(flow=0.1)                       # critical depth inside the slot, normal depth above it
+    run = dataclasses.replace(run, sections=(dataclasses.replace(run.sections[0], section=slot, ditch_depth=None),))
+    with pytest.raises(hy.NoSolutionError) as err:
+        solve_run(run)
+    said = str(err.value)
+    assert said.startswith("no design point of the run could be checked with any candidate lining: at 0+000.00")
+    assert "the flow overtops the section" in said
