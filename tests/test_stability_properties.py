@@ -18,7 +18,10 @@ from hydraulics.lining_comparison import compare_linings
 from hydraulics.stability import check_lining
 
 CAT = load_catalogue()
-SLOW = settings(max_examples=30, deadline=None, suppress_health_check=[HealthCheck.too_slow])
+# The filter of the relation (many random channels run under Bathurst's relation or across the change) is meant,
+# not a slow strategy; the examples are the same on every run (tests/conftest.py).
+SLOW = settings(max_examples=30, deadline=None,
+                suppress_health_check=[HealthCheck.too_slow, HealthCheck.filter_too_much])
 
 width = st.floats(0.3, 4.0)
 side = st.floats(2.0, 5.0)      # flatter than the angle of repose of the shipped stone
