@@ -36,7 +36,7 @@ from pathlib import Path
 
 import hydraulics as hy
 from hydraulics import units as hu
-from hydraulics.run_layout import MAX_DESIGN_POINTS
+from hydraulics.run_layout import too_many_points
 
 from . import project as pj
 from .editing import new_channel
@@ -255,12 +255,8 @@ def _prof_align(el, scale: float, spacing: float, report: ImportReport, label: s
         raise LandXMLError(f"{_where(el)}: a profile needs at least two points, got {len(items)}")
     _check_rising([(s, z, e) for s, z, e, _ in items], "station", scale)
     # before any curve is sampled: a spacing a hair wide would take forever and all the memory
-    points = (items[-1][0] - items[0][0]) / spacing
-    if points > MAX_DESIGN_POINTS:
-        raise LandXMLError(f"{label}: the spacing gives {points:,.0f} design points along {_where(el)}; at most "
-                           f"{MAX_DESIGN_POINTS:,} (use a larger --spacing)" if points < 1e12 else
-                           f"{label}: the spacing gives over 10^12 design points along {_where(el)}; at most "
-                           f"{MAX_DESIGN_POINTS:,} (use a larger --spacing)")
+    if too_many := too_many_points(items[-1][0] - items[0][0], spacing):
+        raise LandXMLError(f"{label}: along {_where(el)} the spacing {too_many} (use a larger --spacing)")
     for i, (s, z, child, length) in enumerate(items):
         if length is None:
             continue

@@ -32,12 +32,23 @@ from . import validate
 from .errors import InputError
 from .wording import worded
 
-__all__ = ["StationRange", "RunLayout", "POINT_TOLERANCE", "MAX_DESIGN_POINTS"]
+__all__ = ["StationRange", "RunLayout", "POINT_TOLERANCE", "MAX_DESIGN_POINTS", "too_many_points"]
 
 #: Two design points closer than this [m] are one point.
 POINT_TOLERANCE = 1e-6
 #: Most design points a run may have (common practice: a run stays solvable at once in the window).
 MAX_DESIGN_POINTS = 200_000
+
+
+def too_many_points(length: float, spacing: float) -> str | None:
+    """Why ``spacing`` gives a run of ``length`` (one unit for both) too many design points ("gives 300,000
+    design points ...; at most 200,000"), or None. Worked out from the length, before any station number is made
+    whole: a spacing a hair wide gives numbers beyond any integer."""
+    count = length / spacing
+    if count <= MAX_DESIGN_POINTS:
+        return None
+    shown = f"{count:,.0f}" if count < 1e12 else "over 10^12"
+    return f"gives {shown} design points; at most {MAX_DESIGN_POINTS:,}"
 
 
 @dataclass(frozen=True)
@@ -113,12 +124,9 @@ class RunLayout:
             s = _station(name, s)
             self.check_on_run(name, s)
             wanted.append(s)
-        # the count from the run's length first: a spacing a hair wide gives station numbers beyond any integer
-        count = self.length / self.spacing
-        if count > MAX_DESIGN_POINTS:
-            raise InputError("spacing", worded("gives {count} design points on a run of {length}; at most 200,000 "
-                                               "(use a larger spacing)", count=f"{count:,.0f}" if count < 1e12
-                                               else "over 10^12", length=(self.length, "length")))
+        if too_many := too_many_points(self.length, self.spacing):
+            raise InputError("spacing", worded("{why} on a run of {length} (use a larger spacing)", why=too_many,
+                                               length=(self.length, "length")))
         k0 = int(np.ceil(self.first_station / self.spacing - 1e-9))
         k1 = int(np.floor(self.last_station / self.spacing + 1e-9))
         wanted += list(np.arange(k0, k1 + 1) * self.spacing)

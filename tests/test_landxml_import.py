@@ -275,5 +275,6 @@ def test_a_spacing_giving_too_many_design_points_is_refused_before_sampling(tmp_
     profile would get, the limit a run has (hydraulics.run_layout.MAX_DESIGN_POINTS)."""
     body = """<ProfAlign name="sag">
 <PVI>0 100</PVI><ParaCurve length="40">100 98</ParaCurve><PVI>200 101</PVI></ProfAlign>"""
-    with pytest.raises(LandXMLError, match=r"design points along .*at most 200,000 \(use a larger --spacing\)"):
+    refused = r"the spacing gives .* design points; at most 200,000 \(use a larger --spacing\)"
+    with pytest.raises(LandXMLError, match=refused):
         read_landxml(write(tmp_path, landxml(alignment(body), '<Metric linearUnit="meter"/>')), spacing=spacing)

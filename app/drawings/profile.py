@@ -71,7 +71,8 @@ def profile_document(model: ProfileModel, units: UnitSystem, exaggeration: float
         y = float(Y(z))
         msp.add_line((x0, y), (x1, y), dxfattribs={"layer": "GRID"})
         msp.add_line((x0 - 0.6 * h, y), (x0, y), dxfattribs={"layer": "ELEVATIONS"})
-        add_text(msp, level_text(z), x0 - 0.9 * h, y - 0.4 * h, 0.8 * h, layer="ELEVATIONS", align=TextEntityAlignment.RIGHT)
+        add_text(msp, level_text(z), x0 - 0.9 * h, y - 0.4 * h, 0.8 * h, layer="ELEVATIONS",
+                 align=TextEntityAlignment.RIGHT)
         k += 1
     msp.add_line((x0, 0.0), (x0, y_top), dxfattribs={"layer": "ELEVATIONS"})
     add_text(msp, f"Elevation ({L})", x0 - 0.9 * h, y_top + 0.8 * h, 0.8 * h, layer="ELEVATIONS",
